@@ -1,0 +1,177 @@
+import express, { type Express } from 'express';
+import session from 'express-session';
+import helmet from 'helmet';
+import { rateLimit } from 'express-rate-limit';
+import { pinoHttp } from 'pino-http';
+import type { Logger } from 'pino';
+import { ConnectSessionKnexStore } from 'connect-session-knex';
+import type { AppConfig } from '../src/contracts/api';
+import type { Config } from './config';
+import type { Db } from './db/knex';
+import type { Mailer } from './mail/mailer';
+import { AppError, apiNotFound, errorHandler } from './errors';
+import { createCsrf } from './http/csrf';
+import { clientAppRoutes, newNonce } from './http/client-app';
+import { createPassport } from './auth/passport-setup';
+import { authRoutes } from './auth/auth.routes';
+import { invitationsService } from './auth/invitations-service';
+import { passwordResetsService } from './auth/password-resets-service';
+import { staffRoutes } from './staff/staff.routes';
+import { athletesService } from './athletes/athletes-service';
+import { athletesRoutes } from './athletes/athletes.routes';
+import { mailboxRoutes } from './mail/mailbox.routes';
+
+/** What the app needs from outside; tests pass their own. */
+export interface AppDeps {
+  config: Config;
+  db: Db;
+  mailer: Mailer;
+  logger: Logger;
+  /** Injected clock, so tests can expire tokens without waiting. */
+  clock?: () => Date;
+}
+
+export interface App {
+  app: Express;
+  /** Stops timers the app started (session cleanup). */
+  close(): void;
+}
+
+const VERSION = '0.1.0';
+
+/** Builds the Express app; `server/main.ts` listens, tests call this directly. */
+export function createApp(deps: AppDeps): App {
+  const { config, db, mailer, logger } = deps;
+  const clock = deps.clock ?? (() => new Date());
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', config.trustProxy);
+  app.set('query parser', 'simple');
+
+  app.use((_req, res, next) => {
+    res.locals['cspNonce'] = newNonce();
+    next();
+  });
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          baseUri: ["'self'"],
+          scriptSrc: ["'self'"],
+          styleSrc: ["'self'", (_req, res) => `'nonce-${(res as express.Response).locals['cspNonce']}'`],
+          // Angular's [style] bindings and CDK overlays set style attributes through the CSSOM.
+          styleSrcAttr: ["'unsafe-inline'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          mediaSrc: ["'self'", 'blob:'],
+          fontSrc: ["'self'", 'data:'],
+          connectSrc: ["'self'"],
+          objectSrc: ["'none'"],
+          frameAncestors: ["'none'"],
+          formAction: ["'self'"],
+          upgradeInsecureRequests: config.secureCookies ? [] : null,
+        },
+      },
+      // Let our own pages open frames/images cross-origin-isolated only where needed later.
+      crossOriginEmbedderPolicy: false,
+    }),
+  );
+  app.use(
+    pinoHttp({
+      logger,
+      // Never log cookies, CSRF tokens, or e-mailed tokens in URLs.
+      redact: ['req.headers.cookie', 'req.headers["x-xsrf-token"]', 'res.headers["set-cookie"]'],
+      serializers: {
+        req: (req: { method: string; url: string }) => ({
+          method: req.method,
+          url: req.url.replace(/\/(invitations|password-resets|reset-password|invitation)\/[A-Za-z0-9_-]{20,}/, '/$1/[token]'),
+        }),
+      },
+      autoLogging: { ignore: (req) => !req.url?.startsWith('/api/') },
+    }),
+  );
+
+  const api = express.Router();
+  api.use(express.json({ limit: '200kb', strict: true }));
+  // A body that is not JSON at all is a client error too, not an empty object.
+  api.use((req, _res, next) => {
+    const method = req.method;
+    if ((method === 'POST' || method === 'PUT' || method === 'PATCH') && req.headers['content-length'] !== '0' && req.body === undefined && req.headers['content-type'] && !req.is('application/json')) {
+      return next(new AppError(415, 'unsupported_media_type', 'Send the request body as JSON (Content-Type: application/json).'));
+    }
+    next();
+  });
+
+  const store = new ConnectSessionKnexStore({ knex: db, tableName: 'sessions', createTable: false, cleanupInterval: 15 * 60_000 });
+  api.use(
+    session({
+      name: 'tf.sid',
+      secret: config.sessionSecret,
+      store,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      cookie: { httpOnly: true, sameSite: 'lax', secure: config.secureCookies, maxAge: 12 * 3_600_000 },
+    }),
+  );
+  const passport = createPassport(db);
+  api.use(passport.initialize());
+  api.use(passport.session());
+
+  const csrf = createCsrf(config.secureCookies);
+  api.use(csrf.ensureCookie);
+  api.use(csrf.protect);
+
+  const limiter = (limit: number, message: string) =>
+    rateLimit({
+      windowMs: config.rateLimit.windowMs,
+      limit,
+      standardHeaders: 'draft-8',
+      legacyHeaders: false,
+      handler: (_req, _res, next) => next(new AppError(429, 'too_many_attempts', message)),
+    });
+  const signInLimiter = rateLimit({
+    windowMs: config.rateLimit.windowMs,
+    limit: config.rateLimit.signInAttempts,
+    skipSuccessfulRequests: true,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    handler: (_req, _res, next) =>
+      next(new AppError(429, 'too_many_attempts', 'Too many sign-in attempts. Wait 15 minutes, or reset your password.')),
+  });
+  const resetLimiter = limiter(config.rateLimit.resetRequests, 'Too many password-reset requests. Wait 15 minutes and try again.');
+
+  const invitations = invitationsService({ db, mailer, config, clock });
+  const resets = passwordResetsService({ db, mailer, config, clock, logger });
+  const athletes = athletesService({ db, clock, invitations });
+
+  api.get('/health', (_req, res) => {
+    res.json({ ok: true });
+  });
+  api.get('/config', (_req, res) => {
+    const body: AppConfig = { demoMode: config.demoMode, version: VERSION };
+    res.json(body);
+  });
+  api.use(authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, resetLimiter, clock }));
+  api.use(staffRoutes({ db, invitations }));
+  api.use(athletesRoutes(athletes));
+  if (config.demoMode) api.use(mailboxRoutes(db));
+  api.use(apiNotFound);
+
+  app.use('/api', (_req, res, next) => {
+    res.setHeader('Cache-Control', 'no-store');
+    next();
+  });
+  app.use('/api', api);
+  if (config.clientDir) app.use(clientAppRoutes(config.clientDir));
+  app.use(errorHandler(logger));
+
+  return {
+    app,
+    close() {
+      const timer = (store as unknown as { nextDbCleanup?: NodeJS.Timeout }).nextDbCleanup;
+      if (timer) clearTimeout(timer);
+    },
+  };
+}

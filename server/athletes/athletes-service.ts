@@ -1,0 +1,159 @@
+import type { AthleteDetail, AthleteSummary, PendingInvitation, SessionUser } from '../../src/contracts/api';
+import { toKilometres } from '../../src/contracts/intake';
+import type { Db } from '../db/knex';
+import type { AthleteRow } from '../db/rows';
+import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
+import { isStaff } from '../http/access';
+import { audit } from '../audit/audit-log';
+import type { InvitationsService } from '../auth/invitations-service';
+import { athletesRepository as repo } from './athletes-repository';
+import { ATHLETE_SELF_FIELDS, type AthleteCreateInput, type AthleteUpdateInput, type IntakeInput } from './athletes-schemas';
+
+export interface AthletesDeps {
+  db: Db;
+  clock: () => Date;
+  invitations: InvitationsService;
+}
+
+/** Athlete roster, profile and intake, scoped to the signed-in user's clinic (and self for athletes). */
+export function athletesService({ db, clock, invitations }: AthletesDeps) {
+  const now = () => clock().toISOString();
+
+  /**
+   * The athlete this user may see: staff see their clinic's athletes, an athlete only their own
+   * record. Anything else is "not found", so other clinics' ids do not leak.
+   */
+  async function accessible(user: SessionUser, id: number): Promise<AthleteRow> {
+    const row = await repo.find(db, user.clinicId, id);
+    if (!row) throw new NotFoundError('Athlete');
+    if (!isStaff(user) && row.user_id !== user.id) throw new NotFoundError('Athlete');
+    return row;
+  }
+
+  async function detailFor(user: SessionUser, id: number): Promise<AthleteDetail> {
+    const detail = await repo.detail(db, user.clinicId, id, now(), isStaff(user));
+    if (!detail) throw new NotFoundError('Athlete');
+    return detail;
+  }
+
+  async function checkCoach(clinicId: number, coachId: number | null | undefined): Promise<void> {
+    if (coachId === null || coachId === undefined) return;
+    const coach = await db('users').where({ id: coachId, clinic_id: clinicId, active: true }).whereIn('role', ['owner', 'coach']).first();
+    if (!coach) throw new ValidationError('Coach: choose a coach of this clinic.', [{ path: ['coachId'], message: 'Choose a coach of this clinic.' }]);
+  }
+
+  async function checkEmailFree(clinicId: number, email: string | null | undefined, exceptId?: number): Promise<void> {
+    if (!email) return;
+    const other = await repo.findByEmail(db, clinicId, email);
+    if (other && other.id !== exceptId) {
+      throw new ConflictError('Another athlete in this clinic already uses this e-mail address.', 'email_in_use');
+    }
+  }
+
+  return {
+    list(user: SessionUser): Promise<AthleteSummary[]> {
+      return repo.list(db, user.clinicId, now());
+    },
+
+    get: detailFor,
+
+    async create(user: SessionUser, input: AthleteCreateInput): Promise<AthleteDetail> {
+      await checkCoach(user.clinicId, input.coachId);
+      await checkEmailFree(user.clinicId, input.email);
+      const at = now();
+      const id = await db.transaction(async (trx) => {
+        const newId = await repo.insert(trx, {
+          clinic_id: user.clinicId,
+          user_id: null,
+          coach_id: input.coachId ?? (user.role === 'coach' ? user.id : null),
+          first_name: input.firstName,
+          last_name: input.lastName,
+          email: input.email ?? null,
+          date_of_birth: input.dateOfBirth ?? null,
+          height_cm: null,
+          distance_unit: 'km',
+          weekly_km: null,
+          longest_run_km: null,
+          goal_event: null,
+          goal_date: null,
+          surfaces: '[]',
+          notes: input.notes ?? null,
+          created_at: at,
+          updated_at: at,
+        });
+        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: newId, action: 'athlete.created' }, at);
+        return newId;
+      });
+      return detailFor(user, id);
+    },
+
+    async update(user: SessionUser, id: number, input: AthleteUpdateInput): Promise<AthleteDetail> {
+      const row = await accessible(user, id);
+      if (!isStaff(user)) {
+        const extra = Object.keys(input).filter((k) => !(ATHLETE_SELF_FIELDS as readonly string[]).includes(k));
+        if (extra.length) throw new ForbiddenError(`You can change only your name here (not ${extra.join(', ')}).`);
+      }
+      if (input.email !== undefined && row.user_id !== null && input.email !== row.email) {
+        throw new ConflictError('This athlete signs in with their e-mail address; it cannot be changed here.', 'email_locked');
+      }
+      await checkCoach(user.clinicId, input.coachId);
+      await checkEmailFree(user.clinicId, input.email, id);
+      const patch: Partial<AthleteRow> = { updated_at: now() };
+      if (input.firstName !== undefined) patch.first_name = input.firstName;
+      if (input.lastName !== undefined) patch.last_name = input.lastName;
+      if (input.email !== undefined) patch.email = input.email;
+      if (input.dateOfBirth !== undefined) patch.date_of_birth = input.dateOfBirth;
+      if (input.coachId !== undefined) patch.coach_id = input.coachId;
+      if (input.notes !== undefined) patch.notes = input.notes;
+      await db.transaction(async (trx) => {
+        await repo.update(trx, user.clinicId, id, patch);
+        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: id, action: 'athlete.updated', detail: { fields: Object.keys(input) } });
+      });
+      return detailFor(user, id);
+    },
+
+    /** Replaces the whole intake (profile figures, injuries, current pain, consents) at once. */
+    async putIntake(user: SessionUser, id: number, input: IntakeInput): Promise<AthleteDetail> {
+      await accessible(user, id);
+      const at = now();
+      await db.transaction(async (trx) => {
+        await repo.update(trx, user.clinicId, id, {
+          date_of_birth: input.dateOfBirth,
+          height_cm: input.heightCm,
+          distance_unit: input.distanceUnit,
+          weekly_km: input.weeklyDistance === null ? null : toKilometres(input.weeklyDistance, input.distanceUnit),
+          longest_run_km: input.longestRecentRun === null ? null : toKilometres(input.longestRecentRun, input.distanceUnit),
+          goal_event: input.goalEvent,
+          goal_date: input.goalDate,
+          surfaces: JSON.stringify(input.surfaces),
+          updated_at: at,
+        });
+        await repo.replaceInjuries(trx, user.clinicId, id, input.injuries);
+        await repo.replaceCurrentPain(trx, user.clinicId, id, input.pain, user.id, at);
+        const changed: string[] = [];
+        if (await repo.recordConsent(trx, user.clinicId, id, 'video_recording', input.consents.videoRecording, user.id, at)) changed.push('video_recording');
+        if (await repo.recordConsent(trx, user.clinicId, id, 'share_stills', input.consents.shareStills, user.id, at)) changed.push('share_stills');
+        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: id, action: 'athlete.intake_updated', detail: { consentsChanged: changed } }, at);
+      });
+      return detailFor(user, id);
+    },
+
+    async invite(user: SessionUser, id: number): Promise<PendingInvitation> {
+      const row = await accessible(user, id);
+      if (row.user_id !== null) throw new ConflictError('This athlete already has an account.', 'athlete_has_account');
+      if (!row.email) {
+        throw new ValidationError('Add an e-mail address to the athlete before inviting them.', [{ path: ['email'], message: 'E-mail is required to invite.' }]);
+      }
+      return invitations.invite({
+        clinicId: user.clinicId,
+        email: row.email,
+        name: `${row.first_name} ${row.last_name}`,
+        role: 'athlete',
+        athleteId: id,
+        invitedBy: user.id,
+      });
+    },
+  };
+}
+
+export type AthletesService = ReturnType<typeof athletesService>;

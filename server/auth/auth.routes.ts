@@ -1,0 +1,98 @@
+import { Router, type RequestHandler } from 'express';
+import type { Passport } from 'passport';
+import { UnauthorizedError } from '../errors';
+import type { Csrf } from '../http/csrf';
+import { parse, TokenParam } from '../http/validate';
+import { currentUser, requireSignedIn } from '../http/access';
+import type { Db } from '../db/knex';
+import { AcceptInvitationBody, ResetCompleteBody, ResetRequestBody, SignInBody } from './auth-schemas';
+import type { InvitationsService } from './invitations-service';
+import type { PasswordResetsService } from './password-resets-service';
+import { usersRepository } from './users-repository';
+
+export interface AuthRoutesDeps {
+  db: Db;
+  passport: InstanceType<typeof Passport>;
+  csrf: Csrf;
+  invitations: InvitationsService;
+  resets: PasswordResetsService;
+  signInLimiter: RequestHandler;
+  resetLimiter: RequestHandler;
+  clock: () => Date;
+}
+
+/** Sign-in and out, the current user, invitation links and password resets. */
+export function authRoutes(d: AuthRoutesDeps): Router {
+  const router = Router();
+
+  router.get('/auth/csrf', (req, res) => {
+    res.json({ token: d.csrf.issue(req, res) });
+  });
+
+  router.post('/auth/sign-in', d.signInLimiter, (req, res, next) => {
+    parse(SignInBody, req.body);
+    d.passport.authenticate('local', { session: true }, (err: unknown, user: Express.User | false) => {
+      if (err) return next(err);
+      if (!user) return next(new UnauthorizedError('E-mail or password is incorrect.', 'invalid_credentials'));
+      // passport regenerates the session id here (session fixation defence).
+      req.logIn(user, (loginErr) => {
+        if (loginErr) return next(loginErr);
+        d.csrf.issue(req, res, true);
+        usersRepository
+          .touchSignIn(d.db, user.id, d.clock().toISOString())
+          .then(() => res.json({ user }))
+          .catch(next);
+      });
+    })(req, res, next);
+  });
+
+  router.post('/auth/sign-out', (req, res, next) => {
+    req.logOut((err) => {
+      if (err) return next(err);
+      d.csrf.issue(req, res, true);
+      res.status(204).end();
+    });
+  });
+
+  router.get('/auth/me', requireSignedIn, (req, res) => {
+    res.json({ user: currentUser(req) });
+  });
+
+  router.get('/invitations/:token', async (req, res) => {
+    const { token } = parse(TokenParam, req.params, 'Link');
+    res.json(await d.invitations.preview(token));
+  });
+
+  router.post('/invitations/:token/accept', async (req, res, next) => {
+    const { token } = parse(TokenParam, req.params, 'Link');
+    const body = parse(AcceptInvitationBody, req.body);
+    const userId = await d.invitations.accept(token, body.name, body.password);
+    const user = await usersRepository.sessionUser(d.db, userId);
+    if (!user) throw new UnauthorizedError();
+    req.logIn(user, (err) => {
+      if (err) return next(err);
+      d.csrf.issue(req, res, true);
+      res.status(201).json({ user });
+    });
+  });
+
+  router.post('/password-resets', d.resetLimiter, async (req, res) => {
+    const { email } = parse(ResetRequestBody, req.body);
+    await d.resets.request(email);
+    res.status(202).json({ message: 'If an account uses this e-mail, a reset link is on its way.' });
+  });
+
+  router.get('/password-resets/:token', async (req, res) => {
+    const { token } = parse(TokenParam, req.params, 'Link');
+    res.json(await d.resets.preview(token));
+  });
+
+  router.post('/password-resets/:token', d.resetLimiter, async (req, res) => {
+    const { token } = parse(TokenParam, req.params, 'Link');
+    const { password } = parse(ResetCompleteBody, req.body);
+    await d.resets.complete(token, password);
+    res.status(204).end();
+  });
+
+  return router;
+}

@@ -1,0 +1,33 @@
+import { Passport } from 'passport';
+import { Strategy as LocalStrategy } from 'passport-local';
+import type { Db } from '../db/knex';
+import { usersRepository } from './users-repository';
+import { verifyPassword } from './passwords';
+
+/**
+ * A passport instance of this app (not the module singleton, so several apps can live in one
+ * process, as in tests): e-mail + password sign-in, user id in the session.
+ */
+export function createPassport(db: Db): InstanceType<typeof Passport> {
+  const passport = new Passport();
+  passport.use(
+    new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
+      (async () => {
+        const row = await usersRepository.findByEmail(db, email);
+        const ok = await verifyPassword(row?.active ? row.password_hash : null, password);
+        if (!row || !ok) return done(null, false);
+        const user = await usersRepository.sessionUser(db, row.id);
+        return done(null, user ?? false);
+      })().catch(done);
+    }),
+  );
+  passport.serializeUser((user, done) => done(null, (user as Express.User).id));
+  passport.deserializeUser((id: number, done) => {
+    usersRepository
+      .sessionUser(db, id)
+      // A deactivated or deleted user's session simply stops being signed in.
+      .then((user) => done(null, user ?? false))
+      .catch(done);
+  });
+  return passport;
+}

@@ -1,0 +1,78 @@
+import type { Knex } from 'knex';
+import type { SessionUser, StaffMember } from '../../src/contracts/api';
+import type { UserRow } from '../db/rows';
+
+/** Reads and writes `users`. Every method takes a knex instance or a transaction. */
+export const usersRepository = {
+  findByEmail(db: Knex, email: string): Promise<UserRow | undefined> {
+    return db<UserRow>('users').whereRaw('lower(email) = ?', [email.trim().toLowerCase()]).first();
+  },
+
+  findById(db: Knex, id: number): Promise<UserRow | undefined> {
+    return db<UserRow>('users').where({ id }).first();
+  },
+
+  /** The session view of an active user, with clinic name and (for athletes) their athlete id. */
+  async sessionUser(db: Knex, id: number): Promise<SessionUser | null> {
+    const row = await db('users as u')
+      .join('clinics as c', 'c.id', 'u.clinic_id')
+      .leftJoin('athletes as a', 'a.user_id', 'u.id')
+      .where('u.id', id)
+      .andWhere('u.active', true)
+      .first<{ id: number; email: string; name: string; role: SessionUser['role']; clinic_id: number; clinic_name: string; athlete_id: number | null }>(
+        'u.id',
+        'u.email',
+        'u.name',
+        'u.role',
+        'u.clinic_id',
+        'c.name as clinic_name',
+        'a.id as athlete_id',
+      );
+    if (!row) return null;
+    return {
+      id: row.id,
+      email: row.email,
+      name: row.name,
+      role: row.role,
+      clinicId: row.clinic_id,
+      clinicName: row.clinic_name,
+      athleteId: row.athlete_id ?? null,
+    };
+  },
+
+  async insert(db: Knex, user: Omit<UserRow, 'id'>): Promise<number> {
+    const [row] = await db('users').insert(user).returning('id');
+    return typeof row === 'object' ? (row as { id: number }).id : (row as number);
+  },
+
+  async setPassword(db: Knex, id: number, passwordHash: string, at: string): Promise<void> {
+    await db('users').where({ id }).update({ password_hash: passwordHash, updated_at: at });
+  },
+
+  async touchSignIn(db: Knex, id: number, at: string): Promise<void> {
+    await db('users').where({ id }).update({ last_sign_in_at: at });
+  },
+
+  async listStaff(db: Knex, clinicId: number): Promise<StaffMember[]> {
+    const rows = await db<UserRow>('users')
+      .where({ clinic_id: clinicId })
+      .whereIn('role', ['owner', 'coach'])
+      .orderBy([{ column: 'role', order: 'desc' }, { column: 'name' }]);
+    return rows.map((r) => ({
+      id: r.id,
+      email: r.email,
+      name: r.name,
+      role: r.role,
+      active: Boolean(r.active),
+      createdAt: r.created_at,
+    }));
+  },
+
+  listCoaches(db: Knex, clinicId: number): Promise<{ id: number; name: string }[]> {
+    return db('users')
+      .where({ clinic_id: clinicId, active: true })
+      .whereIn('role', ['owner', 'coach'])
+      .orderBy('name')
+      .select('id', 'name');
+  },
+};

@@ -1,0 +1,119 @@
+import path from 'node:path';
+import { z } from 'zod';
+
+/** Everything the server reads from the environment, parsed once at start-up. */
+export interface Config {
+  port: number;
+  /** Public base URL used in e-mailed links, e.g. `https://clinic.example`. */
+  publicUrl: string;
+  dbFile: string;
+  uploadsDir: string;
+  /** Built Angular app (`dist/trailframe/browser`); null to serve the API only. */
+  clientDir: string | null;
+  sessionSecret: string;
+  /** Whether cookies are marked Secure (set when served over https, directly or via a proxy). */
+  secureCookies: boolean;
+  /** Express `trust proxy` setting; `false` when not behind a proxy. */
+  trustProxy: boolean | number | string;
+  /** Whether demo helpers are on: fake SMTP receiver, owner's Mailbox page, demo sign-ins. */
+  demoMode: boolean;
+  logLevel: string;
+  mail: {
+    from: string;
+    host: string;
+    port: number;
+    secure: boolean;
+    user: string | null;
+    pass: string | null;
+  };
+  /** Port of the local fake SMTP receiver started in demo mode (0 = any free port). */
+  fakeSmtpPort: number;
+  rateLimit: {
+    /** Failed sign-in attempts allowed per client address per window. */
+    signInAttempts: number;
+    /** Password-reset requests allowed per client address per window. */
+    resetRequests: number;
+    windowMs: number;
+  };
+  invitationTtlHours: number;
+  resetTtlMinutes: number;
+}
+
+const bool = z
+  .enum(['true', 'false', '1', '0', 'yes', 'no'])
+  .transform((v) => v === 'true' || v === '1' || v === 'yes');
+
+const EnvSchema = z.object({
+  PORT: z.coerce.number().int().min(0).max(65535).default(3000),
+  PUBLIC_URL: z.string().url().optional(),
+  DB_FILE: z.string().default('data/trailframe.sqlite'),
+  UPLOADS_DIR: z.string().default('uploads'),
+  CLIENT_DIR: z.string().default('dist/trailframe/browser'),
+  SESSION_SECRET: z.string().min(32).optional(),
+  SECURE_COOKIES: bool.default(false),
+  TRUST_PROXY: z.string().optional(),
+  DEMO_MODE: bool.default(true),
+  LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+  SMTP_HOST: z.string().default('127.0.0.1'),
+  SMTP_PORT: z.coerce.number().int().min(0).max(65535).optional(),
+  SMTP_SECURE: bool.default(false),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASS: z.string().optional(),
+  MAIL_FROM: z.string().default('Trailframe <no-reply@trailframe.test>'),
+  FAKE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
+  SIGN_IN_ATTEMPTS: z.coerce.number().int().min(1).default(10),
+  RESET_REQUESTS: z.coerce.number().int().min(1).default(5),
+  RATE_WINDOW_MINUTES: z.coerce.number().int().min(1).default(15),
+});
+
+/**
+ * Reads configuration from environment variables (see README "Configuration").
+ * Throws with every problem listed when a variable is malformed.
+ */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.cwd()): Config {
+  const parsed = EnvSchema.safeParse(env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+    throw new Error(`Invalid configuration:\n${lines.join('\n')}`);
+  }
+  const e = parsed.data;
+  if (!e.DEMO_MODE && !e.SESSION_SECRET) {
+    throw new Error('Invalid configuration:\n  SESSION_SECRET: required (32+ characters) when DEMO_MODE=false');
+  }
+  const port = e.PORT;
+  return {
+    port,
+    publicUrl: (e.PUBLIC_URL ?? `http://localhost:${port}`).replace(/\/$/, ''),
+    dbFile: path.resolve(root, e.DB_FILE),
+    uploadsDir: path.resolve(root, e.UPLOADS_DIR),
+    clientDir: e.CLIENT_DIR ? path.resolve(root, e.CLIENT_DIR) : null,
+    sessionSecret: e.SESSION_SECRET ?? 'demo-only-session-secret-change-me-0123456789',
+    secureCookies: e.SECURE_COOKIES,
+    trustProxy: parseTrustProxy(e.TRUST_PROXY),
+    demoMode: e.DEMO_MODE,
+    logLevel: e.LOG_LEVEL,
+    mail: {
+      from: e.MAIL_FROM,
+      host: e.SMTP_HOST,
+      port: e.SMTP_PORT ?? e.FAKE_SMTP_PORT,
+      secure: e.SMTP_SECURE,
+      user: e.SMTP_USER ?? null,
+      pass: e.SMTP_PASS ?? null,
+    },
+    fakeSmtpPort: e.FAKE_SMTP_PORT,
+    rateLimit: {
+      signInAttempts: e.SIGN_IN_ATTEMPTS,
+      resetRequests: e.RESET_REQUESTS,
+      windowMs: e.RATE_WINDOW_MINUTES * 60_000,
+    },
+    invitationTtlHours: 7 * 24,
+    resetTtlMinutes: 60,
+  };
+}
+
+function parseTrustProxy(value: string | undefined): boolean | number | string {
+  if (value === undefined || value === '' || value === 'false') return false;
+  if (value === 'true') return true;
+  const n = Number(value);
+  return Number.isInteger(n) ? n : value;
+}

@@ -1,0 +1,49 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import knexFactory, { type Knex } from 'knex';
+
+export type Db = Knex;
+
+const here = path.dirname(fileURLToPath(import.meta.url));
+/** Folder of the timestamped migrations. */
+export const MIGRATIONS_DIR = path.resolve(here, '../../migrations');
+
+/** Knex options for SQLite through better-sqlite3; also used by `knexfile.ts`. */
+export function knexOptions(filename: string): Knex.Config {
+  return {
+    client: 'better-sqlite3',
+    connection: { filename },
+    useNullAsDefault: true,
+    pool: {
+      min: 1,
+      max: 1,
+      afterCreate(conn: { pragma(s: string): unknown }, done: (err: Error | null, conn: unknown) => void) {
+        // WAL lets readers run beside the writer; FKs are off by default in SQLite.
+        conn.pragma('journal_mode = WAL');
+        conn.pragma('foreign_keys = ON');
+        conn.pragma('busy_timeout = 5000');
+        conn.pragma('synchronous = NORMAL');
+        done(null, conn);
+      },
+    },
+    migrations: { directory: MIGRATIONS_DIR, loadExtensions: ['.ts'], tableName: 'knex_migrations' },
+  };
+}
+
+/** Opens (creating the folder if needed) the SQLite database. `:memory:` works for tests. */
+export function createDb(filename: string): Db {
+  if (filename !== ':memory:') fs.mkdirSync(path.dirname(filename), { recursive: true });
+  return knexFactory(knexOptions(filename));
+}
+
+/** Brings the schema up to date. */
+export async function migrate(db: Db): Promise<string[]> {
+  const [, applied] = (await db.migrate.latest()) as [number, string[]];
+  return applied;
+}
+
+/** ISO timestamp for `*_at` columns. */
+export function nowIso(clock: () => Date = () => new Date()): string {
+  return clock().toISOString();
+}

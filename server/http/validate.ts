@@ -1,0 +1,15 @@
+import { z } from 'zod';
+import { fromZod } from '../errors';
+
+/** Parses `value` with `schema`, throwing our 422 (with per-field details) when it does not fit. */
+export function parse<S extends z.ZodType>(schema: S, value: unknown, where = 'Request body'): z.output<S> {
+  const result = schema.safeParse(value);
+  if (!result.success) throw fromZod(result.error, where);
+  return result.data;
+}
+
+/** Route parameter that must be a positive integer id; anything else is "not found". */
+export const IdParam = z.object({ id: z.coerce.number().int().positive().max(Number.MAX_SAFE_INTEGER) });
+
+/** Route parameter holding an e-mailed token (base64url). */
+export const TokenParam = z.object({ token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/) });

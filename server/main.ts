@@ -1,0 +1,60 @@
+import type { Server } from 'node:http';
+import { loadConfig, type Config } from './config';
+import { createDb, migrate, type Db } from './db/knex';
+import { createLogger } from './logger';
+import { createApp } from './app';
+import { createSmtpMailer } from './mail/mailer';
+import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
+
+export interface RunningServer {
+  url: string;
+  config: Config;
+  db: Db;
+  stop(): Promise<void>;
+}
+
+/**
+ * Starts everything `npm start` runs on one machine: database (migrated), fake SMTP in demo
+ * mode, the HTTP server. Used by `scripts/start.ts` and by the browser tests.
+ */
+export async function startServer(config: Config = loadConfig()): Promise<RunningServer> {
+  const logger = createLogger(config.logLevel);
+  const db = createDb(config.dbFile);
+  await migrate(db);
+  let fakeSmtp: FakeSmtp | null = null;
+  let mailConfig = config.mail;
+  if (config.demoMode && !process.env['SMTP_PORT']) {
+    fakeSmtp = await startFakeSmtp(db, config.fakeSmtpPort);
+    mailConfig = { ...config.mail, host: '127.0.0.1', port: fakeSmtp.port };
+  }
+  const mailer = createSmtpMailer(mailConfig);
+  const { app, close } = createApp({ config, db, mailer, logger });
+  const server: Server = await new Promise((resolve, reject) => {
+    const s = app.listen(config.port, (err?: Error) => (err ? reject(err) : resolve(s)));
+  });
+  const address = server.address();
+  const port = typeof address === 'object' && address ? address.port : config.port;
+  return {
+    url: `http://localhost:${port}`,
+    config,
+    db,
+    async stop() {
+      close();
+      await new Promise<void>((resolve) => server.close(() => resolve()));
+      server.closeAllConnections();
+      mailer.close();
+      await fakeSmtp?.close();
+      await db.destroy();
+    },
+  };
+}
+
+const isEntry = process.argv[1] && import.meta.url.endsWith(process.argv[1].replace(/\\/g, '/').split('/').pop() ?? '');
+if (isEntry && process.argv[1]?.includes('server/main')) {
+  startServer()
+    .then((s) => console.log(`Trailframe API listening on ${s.url}`))
+    .catch((err: Error) => {
+      console.error(err.message);
+      process.exit(1);
+    });
+}

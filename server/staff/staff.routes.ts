@@ -1,0 +1,48 @@
+import { Router } from 'express';
+import type { Db } from '../db/knex';
+import { currentUser, requireRole } from '../http/access';
+import { IdParam, parse } from '../http/validate';
+import { InviteCoachBody } from '../auth/auth-schemas';
+import type { InvitationsService } from '../auth/invitations-service';
+import { usersRepository } from '../auth/users-repository';
+
+/** The clinic's team: staff list and coach invitations (owner), coach picker (staff). */
+export function staffRoutes(d: { db: Db; invitations: InvitationsService }): Router {
+  const router = Router();
+
+  router.get('/staff', requireRole('owner'), async (req, res) => {
+    const user = currentUser(req);
+    const [staff, invitations] = await Promise.all([
+      usersRepository.listStaff(d.db, user.clinicId),
+      d.invitations.listPending(user.clinicId),
+    ]);
+    res.json({ staff, invitations: invitations.filter((i) => i.role !== 'athlete') });
+  });
+
+  router.post('/staff/invitations', requireRole('owner'), async (req, res) => {
+    const user = currentUser(req);
+    const body = parse(InviteCoachBody, req.body);
+    const invitation = await d.invitations.invite({
+      clinicId: user.clinicId,
+      email: body.email,
+      name: body.name,
+      role: 'coach',
+      athleteId: null,
+      invitedBy: user.id,
+    });
+    res.status(201).json(invitation);
+  });
+
+  router.delete('/staff/invitations/:id', requireRole('owner'), async (req, res) => {
+    const user = currentUser(req);
+    const { id } = parse(IdParam, req.params, 'Invitation id');
+    await d.invitations.revoke(user.clinicId, id, user.id);
+    res.status(204).end();
+  });
+
+  router.get('/coaches', requireRole('owner', 'coach'), async (req, res) => {
+    res.json({ coaches: await usersRepository.listCoaches(d.db, currentUser(req).clinicId) });
+  });
+
+  return router;
+}
