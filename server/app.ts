@@ -81,8 +81,8 @@ export function createApp(deps: AppDeps): App {
     pinoHttp({
       logger,
       // Never log cookies, CSRF tokens, or e-mailed tokens in URLs.
-      redact: ['req.headers.cookie', 'req.headers["x-xsrf-token"]', 'res.headers["set-cookie"]'],
       serializers: {
+        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
         req: (req: { method: string; url: string }) => ({
           method: req.method,
           url: req.url.replace(/\/(invitations|password-resets|reset-password|invitation)\/[A-Za-z0-9_-]{20,}/, '/$1/[token]'),

@@ -1,4 +1,6 @@
 import type { Server } from 'node:http';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { loadConfig, type Config } from './config';
 import { createDb, migrate, type Db } from './db/knex';
 import { createLogger } from './logger';
@@ -49,8 +51,8 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
   };
 }
 
-const isEntry = process.argv[1] && import.meta.url.endsWith(process.argv[1].replace(/\\/g, '/').split('/').pop() ?? '');
-if (isEntry && process.argv[1]?.includes('server/main')) {
+// Run directly (`tsx server/main.ts`, as `npm run dev:server` does): serve with the environment's config.
+if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
   startServer()
     .then((s) => console.log(`Trailframe API listening on ${s.url}`))
     .catch((err: Error) => {

@@ -55,7 +55,10 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
       return repo.list(db, user.clinicId, now());
     },
 
-    get: detailFor,
+    async get(user: SessionUser, id: number): Promise<AthleteDetail> {
+      await accessible(user, id);
+      return detailFor(user, id);
+    },
 
     async create(user: SessionUser, input: AthleteCreateInput): Promise<AthleteDetail> {
       await checkCoach(user.clinicId, input.coachId);

@@ -1,6 +1,6 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import knexFactory, { type Knex } from 'knex';
 
 export type Db = Knex;
@@ -8,6 +8,29 @@ export type Db = Knex;
 const here = path.dirname(fileURLToPath(import.meta.url));
 /** Folder of the timestamped migrations. */
 export const MIGRATIONS_DIR = path.resolve(here, '../../migrations');
+
+/**
+ * Reads `migrations/*.ts` with our own `import()`, so the same files load under tsx, vitest and
+ * the knex CLI (knex's built-in loader cannot import TypeScript under every runner).
+ */
+class TsMigrationSource implements Knex.MigrationSource<string> {
+  constructor(private readonly dir: string) {}
+
+  async getMigrations(): Promise<string[]> {
+    return fs
+      .readdirSync(this.dir)
+      .filter((f) => /^\d{14}_[a-z0-9_]+\.ts$/.test(f))
+      .sort();
+  }
+
+  getMigrationName(file: string): string {
+    return file;
+  }
+
+  getMigration(file: string): Promise<Knex.Migration> {
+    return import(pathToFileURL(path.join(this.dir, file)).href) as Promise<Knex.Migration>;
+  }
+}
 
 /** Knex options for SQLite through better-sqlite3; also used by `knexfile.ts`. */
 export function knexOptions(filename: string): Knex.Config {
@@ -27,7 +50,7 @@ export function knexOptions(filename: string): Knex.Config {
         done(null, conn);
       },
     },
-    migrations: { directory: MIGRATIONS_DIR, loadExtensions: ['.ts'], tableName: 'knex_migrations' },
+    migrations: { migrationSource: new TsMigrationSource(MIGRATIONS_DIR), tableName: 'knex_migrations' },
   };
 }
 

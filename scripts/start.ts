@@ -1,0 +1,74 @@
+/**
+ * `npm start`: migrate, seed the demo once, build the app when its sources changed, serve app +
+ * API on PORT (3000), print the URL and the demo sign-ins. Runs after scripts/bootstrap.mjs.
+ */
+import { spawnSync } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+import { loadConfig } from '../server/config';
+import { createDb, migrate } from '../server/db/knex';
+import { startServer } from '../server/main';
+import { DEMO_SIGN_INS, seed } from '../seeds/demo-scenario';
+
+const root = process.cwd();
+
+function newestMtime(dir: string): number {
+  let newest = 0;
+  for (const entry of fs.readdirSync(dir, { withFileTypes: true })) {
+    const p = path.join(dir, entry.name);
+    newest = Math.max(newest, entry.isDirectory() ? newestMtime(p) : fs.statSync(p).mtimeMs);
+  }
+  return newest;
+}
+
+function buildIfStale(clientDir: string): void {
+  const index = path.join(clientDir, 'index.html');
+  const inputs = ['src', 'public', 'angular.json', 'package-lock.json'].map((p) => path.join(root, p));
+  const newestInput = Math.max(...inputs.filter(fs.existsSync).map((p) => (fs.statSync(p).isDirectory() ? newestMtime(p) : fs.statSync(p).mtimeMs)));
+  if (fs.existsSync(index) && fs.statSync(index).mtimeMs >= newestInput) {
+    console.log('[start] app build is up to date');
+    return;
+  }
+  console.log('[start] building the app (ng build)…');
+  const r = spawnSync('npx', ['ng', 'build'], { stdio: 'inherit', cwd: root, env: { ...process.env, NG_CLI_ANALYTICS: 'false' } });
+  if (r.status !== 0) {
+    console.error('[start] the app build failed');
+    process.exit(1);
+  }
+}
+
+async function main(): Promise<void> {
+  const config = loadConfig();
+  const db = createDb(config.dbFile);
+  const applied = await migrate(db);
+  console.log(`[start] database ${path.relative(root, config.dbFile)}: ${applied.length ? `applied ${applied.length} migration(s)` : 'up to date'}`);
+  if (config.demoMode) {
+    const seeded = await seed(db);
+    console.log(seeded ? '[start] demo scenario seeded' : '[start] demo data already present (not seeded again)');
+  }
+  await db.destroy();
+  if (config.clientDir) buildIfStale(config.clientDir);
+
+  const server = await startServer(config);
+  const lines = [
+    '',
+    `Trailframe is running at ${config.publicUrl === `http://localhost:${config.port}` ? server.url : config.publicUrl}`,
+  ];
+  if (config.demoMode) {
+    lines.push('', 'Demo sign-ins (invented people):');
+    for (const s of DEMO_SIGN_INS) lines.push(`  ${s.role.padEnd(8)} ${s.email.padEnd(32)} ${s.password}`);
+    lines.push('', 'E-mail goes to a local fake SMTP receiver; the owner reads it under Mailbox.');
+  }
+  lines.push('Press Ctrl+C to stop.', '');
+  console.log(lines.join('\n'));
+  const stop = () => {
+    server.stop().finally(() => process.exit(0));
+  };
+  process.on('SIGINT', stop);
+  process.on('SIGTERM', stop);
+}
+
+main().catch((err: Error) => {
+  console.error(`[start] ${err.message}`);
+  process.exit(1);
+});

@@ -1,0 +1,143 @@
+import type { Knex } from 'knex';
+import { hashPassword } from '../server/auth/passwords';
+
+/**
+ * The demo scenario: an invented clinic, its staff and athletes. Every person, place and e-mail
+ * here is made up (e-mails use the reserved `.test` domain). Used by `npm start` and the tests.
+ */
+export const DEMO_SIGN_INS = [
+  { role: 'owner', name: 'Mira Castellan', email: 'owner@larchwood-clinic.test', password: 'larchwood-owner-1' },
+  { role: 'coach', name: 'Tobin Achterberg', email: 'tobin@larchwood-clinic.test', password: 'larchwood-coach-1' },
+  { role: 'coach', name: 'Ilse Varnum', email: 'ilse@larchwood-clinic.test', password: 'larchwood-coach-2' },
+  { role: 'athlete', name: 'Ada Kestrel', email: 'ada.kestrel@runner.test', password: 'larchwood-athlete-1' },
+] as const;
+
+export const DEMO_CLINIC_NAME = 'Larchwood Running Clinic';
+
+interface DemoAthlete {
+  first: string;
+  last: string;
+  email: string | null;
+  dob: string | null;
+  coach: 1 | 2;
+  heightCm: number | null;
+  unit: 'km' | 'mi';
+  weeklyKm: number | null;
+  longestKm: number | null;
+  goalEvent: string | null;
+  goalDate: string | null;
+  surfaces: string[];
+  notes: string | null;
+  injuries: { region: string; side: string; began: string; status: string; notes: string }[];
+  pain: { region: string; score: number }[];
+  consents: { video: boolean; stills: boolean } | null;
+  hasAccount: boolean;
+}
+
+const ATHLETES: DemoAthlete[] = [
+  {
+    first: 'Ada', last: 'Kestrel', email: 'ada.kestrel@runner.test', dob: '1987-04-12', coach: 1,
+    heightCm: 168, unit: 'km', weeklyKm: 85, longestKm: 52, goalEvent: '100 km mountain ultra', goalDate: '2027-07-17',
+    surfaces: ['trail', 'road'], notes: 'Deep buttock pain on steep climbs and after long descents. Check hip extension at toe-off.',
+    injuries: [
+      { region: 'buttock', side: 'left', began: '2026-08', status: 'active', notes: 'High hamstring, worse sitting after long runs' },
+      { region: 'ankle', side: 'right', began: '2024-05', status: 'resolved', notes: 'Lateral sprain on a technical descent' },
+    ],
+    pain: [{ region: 'buttock', score: 4 }, { region: 'hamstring', score: 2 }],
+    consents: { video: true, stills: true }, hasAccount: true,
+  },
+  {
+    first: 'Bruno', last: 'Feldhaus', email: 'bruno.feldhaus@runner.test', dob: '1966-11-03', coach: 1,
+    heightCm: 181, unit: 'mi', weeklyKm: 72.4, longestKm: 32.2, goalEvent: 'Autumn city marathon, sub 3:30', goalDate: '2027-10-10',
+    surfaces: ['road'], notes: 'Masters runner. Lower-back ache late in long runs; stride looks short.',
+    injuries: [{ region: 'lower_back', side: 'central', began: '2025-02', status: 'active', notes: 'Aches after 25 km, eases with walking' }],
+    pain: [{ region: 'lower_back', score: 3 }],
+    consents: { video: true, stills: false }, hasAccount: false,
+  },
+  {
+    first: 'Carys', last: 'Holmgren', email: 'carys.holmgren@runner.test', dob: '1994-06-21', coach: 2,
+    heightCm: 163, unit: 'km', weeklyKm: 25, longestKm: 10, goalEvent: 'Return to 10 km racing', goalDate: '2027-03-14',
+    surfaces: ['road', 'treadmill'], notes: 'Returning after a calf strain; building run-walk.',
+    injuries: [{ region: 'calf', side: 'right', began: '2026-09', status: 'recovering', notes: 'Medial gastrocnemius strain, graded by her doctor' }],
+    pain: [{ region: 'calf', score: 1 }],
+    consents: { video: true, stills: true }, hasAccount: false,
+  },
+  {
+    first: 'Dario', last: 'Vence', email: 'dario.vence@runner.test', dob: '2005-01-30', coach: 2,
+    heightCm: 176, unit: 'km', weeklyKm: 60, longestKm: 18, goalEvent: '1500 m track season', goalDate: '2027-05-22',
+    surfaces: ['track', 'grass'], notes: null, injuries: [], pain: [],
+    consents: { video: true, stills: true }, hasAccount: false,
+  },
+  {
+    first: 'Efa', last: 'Lindqvist', email: 'efa.lindqvist@runner.test', dob: '1979-09-08', coach: 1,
+    heightCm: 171, unit: 'km', weeklyKm: 45, longestKm: 21, goalEvent: 'Half marathon', goalDate: null,
+    surfaces: ['treadmill', 'road'], notes: null,
+    injuries: [{ region: 'achilles', side: 'left', began: '2023-03', status: 'resolved', notes: 'Mid-portion tendinopathy, settled with loading' }],
+    pain: [], consents: null, hasAccount: false,
+  },
+  {
+    first: 'Farid', last: 'Osterman', email: null, dob: null, coach: 2,
+    heightCm: null, unit: 'km', weeklyKm: null, longestKm: null, goalEvent: null, goalDate: null,
+    surfaces: [], notes: 'New runner, first visit booked.', injuries: [], pain: [], consents: null, hasAccount: false,
+  },
+];
+
+/** Inserts the demo scenario unless a clinic already exists. Returns whether it seeded. */
+export async function seed(knex: Knex): Promise<boolean> {
+  const existing = await knex('clinics').first('id');
+  if (existing) return false;
+  const at = new Date().toISOString();
+  const hashes = await Promise.all(DEMO_SIGN_INS.map((s) => hashPassword(s.password)));
+  await knex.transaction(async (trx) => {
+    const [clinic] = await trx('clinics').insert({ name: DEMO_CLINIC_NAME, currency: 'EUR', distance_unit: 'km', created_at: at }).returning('id');
+    const clinicId = (clinic as { id: number }).id;
+    const userIds: number[] = [];
+    for (const [i, s] of DEMO_SIGN_INS.entries()) {
+      const [u] = await trx('users')
+        .insert({ clinic_id: clinicId, email: s.email, name: s.name, role: s.role, password_hash: hashes[i], active: true, created_at: at, updated_at: at })
+        .returning('id');
+      userIds.push((u as { id: number }).id);
+    }
+    const athleteUserId = userIds[3];
+    for (const a of ATHLETES) {
+      const [row] = await trx('athletes')
+        .insert({
+          clinic_id: clinicId,
+          user_id: a.hasAccount ? athleteUserId : null,
+          coach_id: userIds[a.coach],
+          first_name: a.first,
+          last_name: a.last,
+          email: a.email,
+          date_of_birth: a.dob,
+          height_cm: a.heightCm,
+          distance_unit: a.unit,
+          weekly_km: a.weeklyKm,
+          longest_run_km: a.longestKm,
+          goal_event: a.goalEvent,
+          goal_date: a.goalDate,
+          surfaces: JSON.stringify(a.surfaces),
+          notes: a.notes,
+          created_at: at,
+          updated_at: at,
+        })
+        .returning('id');
+      const athleteId = (row as { id: number }).id;
+      if (a.injuries.length) {
+        await trx('injuries').insert(a.injuries.map((inj, position) => ({ clinic_id: clinicId, athlete_id: athleteId, ...inj, position })));
+      }
+      if (a.pain.length) {
+        await trx('pain_entries').insert(
+          a.pain.map((p) => ({ clinic_id: clinicId, athlete_id: athleteId, region: p.region, score: p.score, current: true, source: 'intake', recorded_by: userIds[a.coach], recorded_at: at })),
+        );
+      }
+      if (a.consents) {
+        await trx('consents').insert([
+          { clinic_id: clinicId, athlete_id: athleteId, kind: 'video_recording', granted: a.consents.video, recorded_by: userIds[a.coach], recorded_at: at },
+          { clinic_id: clinicId, athlete_id: athleteId, kind: 'share_stills', granted: a.consents.stills, recorded_by: userIds[a.coach], recorded_at: at },
+        ]);
+      }
+      await trx('audit_log').insert({ clinic_id: clinicId, actor_id: userIds[a.coach], athlete_id: athleteId, action: 'athlete.created', detail: JSON.stringify({ seed: true }), at });
+    }
+  });
+  return true;
+}

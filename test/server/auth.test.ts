@@ -1,0 +1,138 @@
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import request from 'supertest';
+import { Client, makeTestApp, type TestApp } from '../support/test-app';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+
+const coach = DEMO_SIGN_INS[1];
+let t: TestApp;
+
+beforeEach(async () => {
+  t = await makeTestApp();
+});
+afterEach(async () => {
+  await t.close();
+});
+
+describe('sign-in and sessions', () => {
+  it('signs in with e-mail (any case) and password, then /me answers the user', async () => {
+    const c = new Client(t.app);
+    const res = await c.post('/api/auth/sign-in', { email: coach.email.toUpperCase(), password: coach.password });
+    expect(res.status).toBe(200);
+    expect(res.body.user).toMatchObject({ email: coach.email, role: 'coach', clinicName: 'Larchwood Running Clinic', athleteId: null });
+    const me = await c.get('/api/auth/me');
+    expect(me.status).toBe(200);
+    expect(me.body.user.email).toBe(coach.email);
+  });
+
+  it('gives the same answer for an unknown e-mail and a wrong password', async () => {
+    const c = new Client(t.app);
+    const wrong = await c.post('/api/auth/sign-in', { email: coach.email, password: 'not-the-password' });
+    const unknown = await c.post('/api/auth/sign-in', { email: 'nobody@nowhere.test', password: 'not-the-password' });
+    expect(wrong.status).toBe(401);
+    expect(unknown.status).toBe(401);
+    expect(wrong.body).toEqual(unknown.body);
+    expect(wrong.body.error.code).toBe('invalid_credentials');
+  });
+
+  it('issues a new session id at sign-in, with httpOnly SameSite=Lax cookies', async () => {
+    const c = new Client(t.app);
+    await c.refreshToken();
+    const before = (await c.get('/api/auth/csrf')).headers['set-cookie'];
+    const res = await c.post('/api/auth/sign-in', { email: coach.email, password: coach.password });
+    const cookies = ([] as string[]).concat(res.headers['set-cookie'] ?? []);
+    const sid = cookies.find((x) => x.startsWith('tf.sid='));
+    expect(sid).toBeDefined();
+    expect(sid).toMatch(/HttpOnly/);
+    expect(sid).toMatch(/SameSite=Lax/);
+    expect(sid?.split(';')[0]).not.toBe(([] as string[]).concat(before ?? []).find((x) => x.startsWith('tf.sid='))?.split(';')[0]);
+  });
+
+  it('signs out: /me answers 401 afterwards', async () => {
+    const c = new Client(t.app);
+    await c.signIn(coach.email, coach.password);
+    expect((await c.post('/api/auth/sign-out')).status).toBe(204);
+    const me = await c.get('/api/auth/me');
+    expect(me.status).toBe(401);
+    expect(me.body.error.code).toBe('unauthorized');
+  });
+
+  it('refuses state-changing requests without the CSRF header (403)', async () => {
+    const res = await request(t.app).post('/api/auth/sign-in').send({ email: coach.email, password: coach.password });
+    expect(res.status).toBe(403);
+    expect(res.body.error.code).toBe('csrf_invalid');
+  });
+
+  it('answers malformed JSON with 400 and a message, never 500', async () => {
+    const c = new Client(t.app);
+    await c.refreshToken();
+    const token = (await c.get('/api/auth/csrf')).body.token as string;
+    const res = await c.agent.post('/api/auth/sign-in').set('X-XSRF-TOKEN', token).set('Content-Type', 'application/json').send('{"email": ');
+    expect(res.status).toBe(400);
+    expect(res.body.error).toMatchObject({ code: 'malformed_json' });
+  });
+
+  it('rejects missing, extra and wrongly typed fields with 422 and field details', async () => {
+    const c = new Client(t.app);
+    const missing = await c.post('/api/auth/sign-in', { email: coach.email });
+    expect(missing.status).toBe(422);
+    expect(missing.body.error.details[0].path).toEqual(['password']);
+    const extra = await c.post('/api/auth/sign-in', { email: coach.email, password: 'x', admin: true });
+    expect(extra.status).toBe(422);
+    const typed = await c.post('/api/auth/sign-in', { email: 42, password: ['x'] });
+    expect(typed.status).toBe(422);
+    const long = await c.post('/api/auth/sign-in', { email: coach.email, password: 'x'.repeat(5000) });
+    expect(long.status).toBe(422);
+  });
+
+  it('rate-limits repeated failed sign-ins with 429', async () => {
+    await t.close();
+    t = await makeTestApp({ rateLimit: { signInAttempts: 3, resetRequests: 5, windowMs: 60_000 } });
+    const c = new Client(t.app);
+    for (let i = 0; i < 3; i++) expect((await c.post('/api/auth/sign-in', { email: coach.email, password: 'wrong-password' })).status).toBe(401);
+    const limited = await c.post('/api/auth/sign-in', { email: coach.email, password: coach.password });
+    expect(limited.status).toBe(429);
+    expect(limited.body.error.code).toBe('too_many_attempts');
+  });
+
+  it('a deactivated user cannot sign in and loses their session', async () => {
+    const c = new Client(t.app);
+    await c.signIn(coach.email, coach.password);
+    await t.db('users').where({ email: coach.email }).update({ active: false });
+    expect((await c.get('/api/auth/me')).status).toBe(401);
+    expect((await new Client(t.app).post('/api/auth/sign-in', { email: coach.email, password: coach.password })).status).toBe(401);
+  });
+
+  it('stores password hashes as argon2id, never the password', async () => {
+    const row = await t.db('users').where({ email: coach.email }).first();
+    expect(row.password_hash).toMatch(/^\$argon2id\$/);
+    expect(row.password_hash).not.toContain(coach.password);
+  });
+});
+
+describe('HTTP hygiene', () => {
+  it('sends a CSP that allows only self, and no x-powered-by', async () => {
+    const res = await request(t.app).get('/api/config');
+    expect(res.status).toBe(200);
+    expect(res.body).toEqual({ demoMode: true, version: expect.any(String) });
+    const csp = res.headers['content-security-policy'] as string;
+    expect(csp).toContain("default-src 'self'");
+    expect(csp).toContain("script-src 'self'");
+    expect(csp).not.toMatch(/https?:/);
+    expect(res.headers['x-powered-by']).toBeUndefined();
+    expect(res.headers['cache-control']).toBe('no-store');
+  });
+
+  it('answers unknown API paths with the JSON error shape', async () => {
+    const res = await request(t.app).get('/api/nope');
+    expect(res.status).toBe(404);
+    expect(res.body.error.code).toBe('not_found');
+  });
+
+  it('refuses a body that is not JSON with 415', async () => {
+    const c = new Client(t.app);
+    await c.refreshToken();
+    const token = (await c.get('/api/auth/csrf')).body.token as string;
+    const res = await c.agent.post('/api/auth/sign-in').set('X-XSRF-TOKEN', token).set('Content-Type', 'text/plain').send('email=x');
+    expect(res.status).toBe(415);
+  });
+});

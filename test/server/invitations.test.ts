@@ -1,0 +1,152 @@
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { Client, OTHER, makeTestApp, signedIn, type TestApp } from '../support/test-app';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+
+const [owner, coach] = DEMO_SIGN_INS;
+let t: TestApp;
+
+beforeEach(async () => {
+  t = await makeTestApp();
+});
+afterEach(async () => {
+  await t.close();
+});
+
+const tokenOf = (link: string) => link.split('/').pop()!;
+
+describe('coach invitations (owner)', () => {
+  it('e-mails a single-use link; accepting creates the coach and signs them in', async () => {
+    const o = await signedIn(t.app, owner.email, owner.password);
+    const res = await o.post('/api/staff/invitations', { email: 'New.Coach@Larchwood-Clinic.test', name: 'Noor Pell' });
+    expect(res.status).toBe(201);
+    expect(res.body).toMatchObject({ email: 'new.coach@larchwood-clinic.test', role: 'coach' });
+    const link = t.mailer.lastLinkTo('new.coach@larchwood-clinic.test');
+    expect(link.startsWith(`${t.config.publicUrl}/invitation/`)).toBe(true);
+
+    const invitee = new Client(t.app);
+    const preview = await invitee.get(`/api/invitations/${tokenOf(link)}`);
+    expect(preview.body).toEqual({ email: 'new.coach@larchwood-clinic.test', name: 'Noor Pell', role: 'coach', clinicName: 'Larchwood Running Clinic' });
+    const accepted = await invitee.post(`/api/invitations/${tokenOf(link)}/accept`, { name: 'Noor Pell', password: 'a-long-password' });
+    expect(accepted.status).toBe(201);
+    expect(accepted.body.user).toMatchObject({ role: 'coach', clinicName: 'Larchwood Running Clinic' });
+    expect((await invitee.get('/api/athletes')).status).toBe(200);
+
+    const again = await new Client(t.app).post(`/api/invitations/${tokenOf(link)}/accept`, { name: 'X', password: 'a-long-password' });
+    expect(again.status).toBe(410);
+    expect(again.body.error.code).toBe('token_used');
+  });
+
+  it('refuses expired links (410) and unknown links (404)', async () => {
+    const o = await signedIn(t.app, owner.email, owner.password);
+    await o.post('/api/staff/invitations', { email: 'late@larchwood-clinic.test', name: 'Late Comer' });
+    const token = tokenOf(t.mailer.lastLinkTo('late@larchwood-clinic.test'));
+    t.advance(8 * 24 * 3_600_000);
+    const res = await new Client(t.app).post(`/api/invitations/${token}/accept`, { name: 'Late', password: 'a-long-password' });
+    expect(res.status).toBe(410);
+    expect(res.body.error.code).toBe('token_expired');
+    expect((await t.db('users').where({ email: 'late@larchwood-clinic.test' })).length).toBe(0);
+    expect((await new Client(t.app).get(`/api/invitations/${'x'.repeat(43)}`)).status).toBe(404);
+    expect((await new Client(t.app).get('/api/invitations/short')).status).toBe(422);
+  });
+
+  it('a new invitation to the same address revokes the earlier link', async () => {
+    const o = await signedIn(t.app, owner.email, owner.password);
+    await o.post('/api/staff/invitations', { email: 'twice@larchwood-clinic.test', name: 'Twice' });
+    const first = tokenOf(t.mailer.lastLinkTo('twice@larchwood-clinic.test'));
+    await o.post('/api/staff/invitations', { email: 'twice@larchwood-clinic.test', name: 'Twice' });
+    expect((await new Client(t.app).get(`/api/invitations/${first}`)).status).toBe(410);
+    const staff = await o.get('/api/staff');
+    expect(staff.body.invitations.filter((i: { email: string }) => i.email === 'twice@larchwood-clinic.test')).toHaveLength(1);
+  });
+
+  it('revoking makes the link unusable', async () => {
+    const o = await signedIn(t.app, owner.email, owner.password);
+    const inv = await o.post('/api/staff/invitations', { email: 'gone@larchwood-clinic.test', name: 'Gone' });
+    expect((await o.delete(`/api/staff/invitations/${inv.body.id}`)).status).toBe(204);
+    expect((await o.delete(`/api/staff/invitations/${inv.body.id}`)).status).toBe(404);
+    const token = tokenOf(t.mailer.lastLinkTo('gone@larchwood-clinic.test'));
+    expect((await new Client(t.app).get(`/api/invitations/${token}`)).status).toBe(410);
+  });
+
+  it('refuses an address that already has an account (409), bad input (422), and coaches (403)', async () => {
+    const o = await signedIn(t.app, owner.email, owner.password);
+    expect((await o.post('/api/staff/invitations', { email: coach.email, name: 'Dup' })).status).toBe(409);
+    expect((await o.post('/api/staff/invitations', { email: OTHER.coach.email, name: 'Dup' })).status).toBe(409);
+    expect((await o.post('/api/staff/invitations', { email: 'not-an-email', name: 'X' })).status).toBe(422);
+    expect((await o.post('/api/staff/invitations', { email: 'ok@x.test', name: '' })).status).toBe(422);
+    expect((await o.post('/api/staff/invitations', { email: 'ok@x.test', name: 'X', role: 'owner' })).status).toBe(422);
+    const c = await signedIn(t.app, coach.email, coach.password);
+    expect((await c.post('/api/staff/invitations', { email: 'ok@x.test', name: 'X' })).status).toBe(403);
+  });
+
+  it('leaves no invitation behind when the e-mail cannot be sent', async () => {
+    const o = await signedIn(t.app, owner.email, owner.password);
+    t.mailer.failNext = true;
+    const res = await o.post('/api/staff/invitations', { email: 'bounce@larchwood-clinic.test', name: 'Bounce' });
+    expect(res.status).toBe(502);
+    expect(await t.db('invitations').where({ email: 'bounce@larchwood-clinic.test' })).toHaveLength(0);
+  });
+});
+
+describe('athlete invitations (coach)', () => {
+  it('links the new account to the athlete, who then sees only their own record', async () => {
+    const c = await signedIn(t.app, coach.email, coach.password);
+    const list = (await c.get('/api/athletes')).body.athletes as { id: number; email: string; hasAccount: boolean }[];
+    const bruno = list.find((a) => a.email === 'bruno.feldhaus@runner.test')!;
+    const inv = await c.post(`/api/athletes/${bruno.id}/invitation`);
+    expect(inv.status).toBe(201);
+    expect((await c.get(`/api/athletes/${bruno.id}`)).body.invitationPending).toBe(true);
+
+    const a = new Client(t.app);
+    const token = tokenOf(t.mailer.lastLinkTo('bruno.feldhaus@runner.test'));
+    const accepted = await a.post(`/api/invitations/${token}/accept`, { name: 'Bruno Feldhaus', password: 'masters-runner-1' });
+    expect(accepted.body.user).toMatchObject({ role: 'athlete', athleteId: bruno.id });
+    expect((await a.get(`/api/athletes/${bruno.id}`)).status).toBe(200);
+    expect((await a.get('/api/athletes')).status).toBe(403);
+    const other = list.find((x) => x.id !== bruno.id)!;
+    expect((await a.get(`/api/athletes/${other.id}`)).status).toBe(404);
+    expect((await c.post(`/api/athletes/${bruno.id}/invitation`)).status).toBe(409);
+  });
+
+  it('needs an e-mail on the athlete (422)', async () => {
+    const c = await signedIn(t.app, coach.email, coach.password);
+    const created = await c.post('/api/athletes', { firstName: 'No', lastName: 'Mail' });
+    const res = await c.post(`/api/athletes/${created.body.id}/invitation`);
+    expect(res.status).toBe(422);
+    expect(res.body.error.message).toMatch(/e-mail/i);
+  });
+});
+
+describe('password reset', () => {
+  it('answers 202 whether or not the account exists, and mails only real accounts', async () => {
+    const anon = new Client(t.app);
+    expect((await anon.post('/api/password-resets', { email: 'nobody@nowhere.test' })).status).toBe(202);
+    expect(t.mailer.sent).toHaveLength(0);
+    expect((await anon.post('/api/password-resets', { email: coach.email })).status).toBe(202);
+    expect(t.mailer.sent).toHaveLength(1);
+  });
+
+  it('sets a new password once; the old one and other sessions stop working', async () => {
+    const elsewhere = await signedIn(t.app, coach.email, coach.password);
+    const anon = new Client(t.app);
+    await anon.post('/api/password-resets', { email: coach.email });
+    const token = tokenOf(t.mailer.lastLinkTo(coach.email));
+    expect((await anon.get(`/api/password-resets/${token}`)).body).toEqual({ email: coach.email });
+    expect((await anon.post(`/api/password-resets/${token}`, { password: 'short' })).status).toBe(422);
+    expect((await anon.post(`/api/password-resets/${token}`, { password: 'a-brand-new-password' })).status).toBe(204);
+    expect((await anon.post(`/api/password-resets/${token}`, { password: 'another-new-password' })).status).toBe(410);
+    expect((await new Client(t.app).post('/api/auth/sign-in', { email: coach.email, password: coach.password })).status).toBe(401);
+    await signedIn(t.app, coach.email, 'a-brand-new-password');
+    expect((await elsewhere.get('/api/auth/me')).status).toBe(401);
+  });
+
+  it('expires after an hour', async () => {
+    const anon = new Client(t.app);
+    await anon.post('/api/password-resets', { email: coach.email });
+    const token = tokenOf(t.mailer.lastLinkTo(coach.email));
+    t.advance(61 * 60_000);
+    const res = await anon.post(`/api/password-resets/${token}`, { password: 'a-brand-new-password' });
+    expect(res.status).toBe(410);
+    expect(res.body.error.code).toBe('token_expired');
+  });
+});

@@ -1,0 +1,148 @@
+import request from 'supertest';
+import type { Express } from 'express';
+import pino from 'pino';
+import { createApp } from '../../server/app';
+import { loadConfig, type Config } from '../../server/config';
+import { createDb, migrate, type Db } from '../../server/db/knex';
+import type { Mailer, MailMessage } from '../../server/mail/mailer';
+import { hashPassword } from '../../server/auth/passwords';
+import { seed } from '../../seeds/demo-scenario';
+
+/** A mailer that keeps messages in memory, for assertions. */
+export class MemoryMailer implements Mailer {
+  readonly sent: MailMessage[] = [];
+  failNext = false;
+  async send(message: MailMessage): Promise<void> {
+    if (this.failNext) {
+      this.failNext = false;
+      throw new Error('relay refused');
+    }
+    this.sent.push(message);
+  }
+  close(): void {}
+  /** The first link in the newest message to `to`. */
+  lastLinkTo(to: string): string {
+    const msg = [...this.sent].reverse().find((m) => m.to === to);
+    const link = msg?.text.match(/https?:\/\/\S+/)?.[0];
+    if (!link) throw new Error(`no link mailed to ${to}`);
+    return link;
+  }
+}
+
+export interface TestApp {
+  app: Express;
+  db: Db;
+  mailer: MemoryMailer;
+  config: Config;
+  /** Moves the app's clock forward. */
+  advance(ms: number): void;
+  close(): Promise<void>;
+}
+
+/** A fresh app on an in-memory database with the demo scenario and a second clinic. */
+export async function makeTestApp(overrides: Partial<Config> = {}): Promise<TestApp> {
+  const base = loadConfig({ DEMO_MODE: 'true', LOG_LEVEL: 'silent', CLIENT_DIR: '' } as NodeJS.ProcessEnv);
+  const config: Config = { ...base, clientDir: null, dbFile: ':memory:', ...overrides };
+  const db = createDb(':memory:');
+  await migrate(db);
+  await seed(db);
+  await addOtherClinic(db);
+  const mailer = new MemoryMailer();
+  let offset = 0;
+  const { app, close } = createApp({ config, db, mailer, logger: pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
+  return {
+    app,
+    db,
+    mailer,
+    config,
+    advance: (ms) => {
+      offset += ms;
+    },
+    async close() {
+      close();
+      await db.destroy();
+    },
+  };
+}
+
+export const OTHER = {
+  clinic: 'Birchfield Physio (test)',
+  owner: { email: 'owner@birchfield.test', password: 'birchfield-owner-1' },
+  coach: { email: 'coach@birchfield.test', password: 'birchfield-coach-1' },
+  athlete: { email: 'athlete@birchfield.test', password: 'birchfield-athlete-1' },
+};
+
+/** A second clinic with an owner, a coach and an athlete with an account (for 404 checks). */
+async function addOtherClinic(db: Db): Promise<void> {
+  const at = new Date().toISOString();
+  const [c] = await db('clinics').insert({ name: OTHER.clinic, created_at: at }).returning('id');
+  const clinicId = (c as { id: number }).id;
+  const ids: Record<string, number> = {};
+  for (const role of ['owner', 'coach', 'athlete'] as const) {
+    const [u] = await db('users')
+      .insert({ clinic_id: clinicId, email: OTHER[role].email, name: `Other ${role}`, role, password_hash: await hashPassword(OTHER[role].password), created_at: at, updated_at: at })
+      .returning('id');
+    ids[role] = (u as { id: number }).id;
+  }
+  await db('athletes').insert({ clinic_id: clinicId, user_id: ids['athlete'], coach_id: ids['coach'], first_name: 'Other', last_name: 'Athlete', email: OTHER.athlete.email, created_at: at, updated_at: at });
+}
+
+/** A cookie-keeping client that sends the CSRF header the way the Angular app does. */
+export class Client {
+  readonly agent;
+  private token = '';
+
+  constructor(app: Express) {
+    this.agent = request.agent(app);
+  }
+
+  private async csrf(): Promise<string> {
+    if (!this.token) await this.refreshToken();
+    return this.token;
+  }
+
+  /** Reads the XSRF-TOKEN cookie the server set (after sign-in it changes). */
+  async refreshToken(): Promise<void> {
+    const res = await this.agent.get('/api/auth/csrf');
+    this.token = (res.body as { token: string }).token;
+  }
+
+  get(path: string) {
+    return this.agent.get(path);
+  }
+
+  async send(method: 'post' | 'put' | 'patch' | 'delete', path: string, body?: unknown) {
+    const token = await this.csrf();
+    const req = this.agent[method](path).set('X-XSRF-TOKEN', token);
+    const res = body === undefined ? await req : await req.send(body as object);
+    const cookie = ([] as string[]).concat(res.headers['set-cookie'] ?? []).find((c) => c.startsWith('XSRF-TOKEN='));
+    if (cookie) this.token = decodeURIComponent(cookie.split(';')[0]!.slice('XSRF-TOKEN='.length));
+    return res;
+  }
+
+  post(path: string, body?: unknown) {
+    return this.send('post', path, body);
+  }
+  put(path: string, body?: unknown) {
+    return this.send('put', path, body);
+  }
+  patch(path: string, body?: unknown) {
+    return this.send('patch', path, body);
+  }
+  delete(path: string) {
+    return this.send('delete', path);
+  }
+
+  async signIn(email: string, password: string) {
+    const res = await this.post('/api/auth/sign-in', { email, password });
+    if (res.status !== 200) throw new Error(`sign-in as ${email} failed: ${res.status} ${JSON.stringify(res.body)}`);
+    return res;
+  }
+}
+
+/** A signed-in client. */
+export async function signedIn(app: Express, email: string, password: string): Promise<Client> {
+  const c = new Client(app);
+  await c.signIn(email, password);
+  return c;
+}
