@@ -1,0 +1,135 @@
+/**
+ * Foundation journey in Debian chromium: a coach adds an athlete, fills the intake and invites
+ * them; the athlete joins through the link in the e-mail caught by the fake SMTP receiver and sees
+ * only their own profile.
+ */
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { lastMailLink, SCREENSHOTS, startHarness, type Harness } from './harness';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+
+const [owner, coach] = DEMO_SIGN_INS;
+let h: Harness;
+
+beforeAll(async () => {
+  h = await startHarness();
+});
+afterAll(async () => {
+  await h?.close();
+});
+
+async function signIn(page: Page, email: string, password: string): Promise<void> {
+  await page.goto(`${h.baseUrl}/sign-in`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password', { exact: true }).fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}
+
+async function choose(page: Page, label: string, option: string, nth = 0): Promise<void> {
+  await page.getByRole('combobox', { name: label }).nth(nth).click();
+  await page.getByRole('option', { name: option, exact: true }).click();
+}
+
+describe('foundation journey', () => {
+  let athleteId = 0;
+  const email = 'juno.marlowe@runner.test';
+
+  it('coach signs in and sees the roster', async () => {
+    const { page, context, problems } = await h.newPage();
+    await signIn(page, coach.email, coach.password);
+    await page.waitForURL(/\/athletes$/);
+    await expect.poll(() => page.getByRole('link', { name: /Kestrel/ }).count()).toBeGreaterThan(0);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'roster.png'), fullPage: true });
+    expect(await page.getByRole('link', { name: 'Team' }).count()).toBe(0);
+    expect(problems).toEqual([]);
+    await context.close();
+  });
+
+  it('coach adds an athlete, fills the intake and invites them', async () => {
+    const { page, context, problems } = await h.newPage();
+    await signIn(page, coach.email, coach.password);
+    await page.waitForURL(/\/athletes$/);
+    await page.getByRole('link', { name: 'Add athlete' }).first().click();
+    await page.getByLabel('First name').fill('Juno');
+    await page.getByLabel('Last name').fill('Marlowe');
+    await page.getByLabel('E-mail (optional)').fill(email);
+    await page.getByRole('button', { name: 'Add athlete' }).click();
+    await page.waitForURL(/\/athletes\/\d+$/);
+    athleteId = Number(/\/athletes\/(\d+)$/.exec(page.url())![1]);
+
+    await page.getByLabel('Height').fill('170');
+    await page.getByLabel('Weekly distance').fill('40');
+    await page.getByLabel('Longest recent run').fill('18');
+    await page.getByLabel('Goal event').fill('Autumn trail marathon');
+    await page.getByRole('option', { name: 'Trail' }).click();
+    await page.getByRole('button', { name: 'Add injury' }).click();
+    await choose(page, 'Region', 'Hamstring');
+    await choose(page, 'Side', 'Left');
+    await page.getByLabel('Began').fill('2026-06');
+    await choose(page, 'Status', 'Recovering');
+    await page.getByRole('button', { name: 'Add painful area' }).click();
+    await choose(page, 'Area', 'Hamstring');
+    const slider = page.getByLabel('Pain score for area 1, 0 to 10');
+    await slider.focus();
+    for (let i = 0; i < 3; i++) await slider.press('ArrowRight');
+    await page.getByRole('checkbox', { name: /video recording/i }).check();
+    await page.getByRole('checkbox', { name: /stills/i }).check();
+    await page.getByRole('button', { name: 'Save intake' }).click();
+
+    await expect
+      .poll(async () => (await h.server.db('consents').where({ athlete_id: athleteId, kind: 'video_recording' })).length)
+      .toBe(1);
+    const row = await h.server.db('athletes').where({ id: athleteId }).first();
+    expect(row).toMatchObject({ height_cm: 170, weekly_km: 40, longest_run_km: 18, goal_event: 'Autumn trail marathon' });
+    expect(JSON.parse(row.surfaces)).toEqual(['trail']);
+    expect(await h.server.db('injuries').where({ athlete_id: athleteId })).toMatchObject([{ region: 'hamstring', side: 'left', began: '2026-06', status: 'recovering' }]);
+    expect(await h.server.db('pain_entries').where({ athlete_id: athleteId, current: true })).toMatchObject([{ region: 'hamstring', score: 3 }]);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'intake.png'), fullPage: true });
+
+    await page.getByRole('button', { name: 'Invite to Trailframe' }).click();
+    await expect.poll(() => page.getByText('Invitation sent').count()).toBeGreaterThan(0);
+    expect(problems).toEqual([]);
+    await context.close();
+  });
+
+  it('the athlete joins from the e-mailed link and sees only their own profile', async () => {
+    const link = await lastMailLink(h.server, email);
+    expect(link.startsWith(`${h.baseUrl}/invitation/`)).toBe(true);
+    const { page, context, problems } = await h.newPage();
+    await page.goto(link);
+    await page.getByLabel('Your name').fill('Juno Marlowe');
+    await page.getByLabel('Password', { exact: true }).fill('juno-runs-trails');
+    await page.getByLabel('Confirm password').fill('juno-runs-trails');
+    await page.getByRole('button', { name: 'Join and sign in' }).click();
+    await page.waitForURL(/\/portal/);
+    expect(await page.getByRole('link', { name: 'Athletes' }).count()).toBe(0);
+
+    await page.goto(`${h.baseUrl}/portal/profile`);
+    await expect.poll(() => page.getByText('Autumn trail marathon').count()).toBeGreaterThan(0);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'portal-profile.png'), fullPage: true });
+
+    // Staff pages stay closed, and the API answers 404 for another athlete.
+    await page.goto(`${h.baseUrl}/athletes`);
+    await page.waitForLoadState('networkidle');
+    expect(page.url()).not.toMatch(/\/athletes$/);
+    const ada = await h.server.db('athletes').where({ email: 'ada.kestrel@runner.test' }).first();
+    const status = await page.evaluate(async (id) => (await fetch(`/api/athletes/${id}`)).status, ada.id);
+    expect(status).toBe(404);
+    const own = await page.evaluate(async (id) => (await fetch(`/api/athletes/${id}`)).status, athleteId);
+    expect(own).toBe(200);
+    expect(problems).toEqual([]);
+    await context.close();
+  });
+
+  it('the owner reads the invitation in the demo Mailbox', async () => {
+    const { page, context, problems } = await h.newPage();
+    await signIn(page, owner.email, owner.password);
+    await page.waitForURL(/\/athletes$/);
+    await page.getByRole('link', { name: 'Mailbox' }).click();
+    await expect.poll(() => page.getByText(email).count()).toBeGreaterThan(0);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'mailbox.png'), fullPage: true });
+    expect(problems).toEqual([]);
+    await context.close();
+  });
+});
