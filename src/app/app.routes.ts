@@ -1,0 +1,71 @@
+import { Routes } from '@angular/router';
+import {
+  anonymousOnlyGuard,
+  demoModeGuard,
+  redirectHome,
+  roleGuard,
+  signedInGuard,
+} from './core/auth-guards';
+import { Shell } from './core/shell/shell';
+
+export const routes: Routes = [
+  {
+    path: 'sign-in',
+    title: 'Sign in · Trailframe',
+    canActivate: [anonymousOnlyGuard],
+    loadComponent: () => import('./features/auth/sign-in/sign-in').then((m) => m.SignIn),
+  },
+  {
+    path: 'forgot-password',
+    title: 'Forgot password · Trailframe',
+    loadComponent: () =>
+      import('./features/auth/forgot-password/forgot-password').then((m) => m.ForgotPassword),
+  },
+  {
+    path: 'reset-password/:token',
+    title: 'Choose a new password · Trailframe',
+    loadComponent: () =>
+      import('./features/auth/reset-password/reset-password').then((m) => m.ResetPassword),
+  },
+  {
+    path: 'invitation/:token',
+    title: 'Join your clinic · Trailframe',
+    loadComponent: () =>
+      import('./features/auth/invitation-accept/invitation-accept').then(
+        (m) => m.InvitationAccept,
+      ),
+  },
+  {
+    path: '',
+    component: Shell,
+    canMatch: [signedInGuard],
+    children: [
+      { path: '', pathMatch: 'full', redirectTo: redirectHome },
+      {
+        path: 'athletes',
+        canMatch: [roleGuard('owner', 'coach')],
+        loadChildren: () => import('./features/athletes/athletes.routes'),
+      },
+      {
+        path: 'team',
+        canMatch: [roleGuard('owner')],
+        loadChildren: () => import('./features/team/team.routes'),
+      },
+      {
+        path: 'mailbox',
+        canMatch: [roleGuard('owner'), demoModeGuard],
+        loadChildren: () => import('./features/mailbox/mailbox.routes'),
+      },
+      {
+        path: 'portal',
+        canMatch: [roleGuard('athlete')],
+        loadChildren: () => import('./features/portal/portal.routes'),
+      },
+    ],
+  },
+  {
+    path: '**',
+    title: 'Page not found · Trailframe',
+    loadComponent: () => import('./core/not-found/not-found').then((m) => m.NotFound),
+  },
+];

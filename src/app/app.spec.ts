@@ -1,0 +1,87 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { signal } from '@angular/core';
+import { TestBed } from '@angular/core/testing';
+import { provideNativeDateAdapter } from '@angular/material/core';
+import { Router, provideRouter, withComponentInputBinding } from '@angular/router';
+import { of, throwError } from 'rxjs';
+import { HttpErrorResponse } from '@angular/common/http';
+import type { SessionUser } from '../contracts/api';
+import { App } from './app';
+import { routes } from './app.routes';
+import { AuthApi } from './core/auth-api';
+import { AuthStore } from './core/auth-store';
+import { ConfigStore } from './core/config-store';
+
+const athlete: SessionUser = {
+  id: 11,
+  email: 'runner@clinic.test',
+  name: 'Sam Runner',
+  role: 'athlete',
+  clinicId: 1,
+  clinicName: 'Test Clinic',
+  athleteId: 5,
+};
+
+async function boot(user: SessionUser | null, url: string, demoMode = false) {
+  TestBed.configureTestingModule({
+    providers: [
+      provideRouter(routes, withComponentInputBinding()),
+      provideHttpClient(),
+      provideHttpClientTesting(),
+      provideNativeDateAdapter(),
+      {
+        provide: AuthApi,
+        useValue: {
+          me: () => (user ? of(user) : throwError(() => new HttpErrorResponse({ status: 401 }))),
+          csrf: () => of(undefined),
+        },
+      },
+      { provide: ConfigStore, useValue: { demoMode: signal(demoMode), version: signal('test') } },
+    ],
+  });
+  await TestBed.inject(AuthStore).load();
+  const fixture = TestBed.createComponent(App);
+  await TestBed.inject(Router).navigateByUrl(url);
+  await fixture.whenStable();
+  return { fixture, element: fixture.nativeElement as HTMLElement, router: TestBed.inject(Router) };
+}
+
+describe('App', () => {
+  it('shows the sign-in page to a signed-out visitor who opens /', async () => {
+    const { element, router } = await boot(null, '/');
+    expect(router.url).toBe('/sign-in');
+    expect(element.querySelector('h1')?.textContent).toContain('Sign in');
+    expect(element.querySelector('app-shell')).toBeNull();
+    expect(element.textContent).toContain('Forgot password?');
+  });
+
+  it("puts a signed-in athlete in the shell on their portal home with their own navigation", async () => {
+    const { element, router } = await boot(athlete, '/');
+    expect(router.url).toBe('/portal');
+    expect(element.querySelector('app-shell')).not.toBeNull();
+    expect(element.querySelector('.top-bar')?.textContent).toContain('Trailframe');
+    expect(element.querySelector('.top-bar')?.textContent).toContain('Test Clinic');
+    const nav = [...element.querySelectorAll('nav[aria-label="Main"] [matListItemTitle]')].map((a) =>
+      a.textContent?.trim(),
+    );
+    expect(nav).toEqual(['Home', 'My profile']);
+    expect(element.querySelector('h1')?.textContent).toContain('Welcome, Sam');
+    TestBed.inject(HttpTestingController).verify();
+  });
+
+  it('shows the demo sign-in note only in demo mode', async () => {
+    const { element } = await boot(null, '/sign-in', true);
+    expect(element.textContent).toContain('Demo sign-ins are printed by npm start');
+  });
+
+  it('answers unknown addresses with a not-found page once signed in', async () => {
+    const { element } = await boot(athlete, '/no/such/page');
+    expect(element.querySelector('h1')?.textContent).toContain('Page not found');
+  });
+
+  it('asks signed-out visitors to sign in first, remembering where they were going', async () => {
+    const { router } = await boot(null, '/athletes/4');
+    expect(router.url).toBe('/sign-in?returnUrl=%2Fathletes%2F4');
+  });
+});

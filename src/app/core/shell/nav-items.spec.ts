@@ -1,0 +1,22 @@
+import { navItemsFor } from './nav-items';
+
+const labels = (...args: Parameters<typeof navItemsFor>) => navItemsFor(...args).map((i) => i.label);
+
+describe('navItemsFor', () => {
+  it('gives owners the roster and team, and the mailbox only in demo mode', () => {
+    expect(labels('owner', false)).toEqual(['Athletes', 'Team']);
+    expect(labels('owner', true)).toEqual(['Athletes', 'Team', 'Mailbox']);
+  });
+
+  it('gives coaches the roster only, even in demo mode', () => {
+    expect(labels('coach', true)).toEqual(['Athletes']);
+  });
+
+  it('gives athletes their own pages', () => {
+    expect(navItemsFor('athlete', true).map((i) => i.path)).toEqual(['/portal', '/portal/profile']);
+  });
+
+  it('gives signed-out visitors nothing', () => {
+    expect(navItemsFor(null, true)).toEqual([]);
+  });
+});

@@ -1,0 +1,31 @@
+import type { Role } from '../../../contracts/api';
+
+/** One entry of the side navigation. */
+export interface NavItem {
+  label: string;
+  icon: string;
+  path: string;
+  /** Match the path exactly for the active highlight (for `/portal` vs `/portal/profile`). */
+  exact: boolean;
+}
+
+/** What a role may open, in order. The mailbox exists only in demo mode. */
+export function navItemsFor(role: Role | null, demoMode: boolean): NavItem[] {
+  switch (role) {
+    case 'owner':
+      return [
+        { label: 'Athletes', icon: 'groups', path: '/athletes', exact: false },
+        { label: 'Team', icon: 'badge', path: '/team', exact: false },
+        ...(demoMode ? [{ label: 'Mailbox', icon: 'mail', path: '/mailbox', exact: false }] : []),
+      ];
+    case 'coach':
+      return [{ label: 'Athletes', icon: 'groups', path: '/athletes', exact: false }];
+    case 'athlete':
+      return [
+        { label: 'Home', icon: 'home', path: '/portal', exact: true },
+        { label: 'My profile', icon: 'person', path: '/portal/profile', exact: false },
+      ];
+    default:
+      return [];
+  }
+}

@@ -1,0 +1,103 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { provideRouter } from '@angular/router';
+import type { AthleteSummary } from '../../../../contracts/api';
+import { AthleteList } from './athlete-list';
+
+function athlete(id: number, firstName: string, lastName: string, extra: Partial<AthleteSummary> = {}): AthleteSummary {
+  return {
+    id,
+    firstName,
+    lastName,
+    email: null,
+    dateOfBirth: null,
+    goalEvent: null,
+    goalDate: null,
+    coachId: null,
+    coachName: null,
+    hasAccount: false,
+    invitationPending: false,
+    videoConsent: false,
+    maxPain: null,
+    createdAt: '2025-01-01T00:00:00Z',
+    updatedAt: '2025-02-01T00:00:00Z',
+    ...extra,
+  };
+}
+
+describe('AthleteList', () => {
+  let fixture: ComponentFixture<AthleteList>;
+  let backend: HttpTestingController;
+  let element: HTMLElement;
+
+  beforeEach(async () => {
+    TestBed.configureTestingModule({
+      imports: [AthleteList],
+      providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(AthleteList);
+    element = fixture.nativeElement;
+    // Render and start the load; whenStable() would wait for the pending request.
+    fixture.detectChanges();
+  });
+
+  afterEach(() => backend.verify());
+
+  async function answer(athletes: AthleteSummary[]) {
+    backend.expectOne('/api/athletes').flush({ athletes });
+    await fixture.whenStable();
+  }
+
+  const rowNames = () => [...element.querySelectorAll('tr.mat-mdc-row .row-link')].map((a) => a.textContent?.trim());
+
+  it('shows a progress bar while loading', async () => {
+    expect(element.querySelector('mat-progress-bar')).not.toBeNull();
+    await answer([]);
+    expect(element.querySelector('mat-progress-bar')).toBeNull();
+  });
+
+  it('lists athletes sorted by last name with their account state and pain', async () => {
+    await answer([
+      athlete(1, 'Cleo', 'Bright', { hasAccount: true, maxPain: 6 }),
+      athlete(2, 'Abel', 'Able', { invitationPending: true, videoConsent: true }),
+    ]);
+    expect(rowNames()).toEqual(['Abel Able', 'Cleo Bright']);
+    const text = element.querySelector('table')!.textContent!;
+    expect(text).toContain('Invited');
+    expect(text).toContain('Active');
+    expect(text).toContain('6/10');
+    expect(text).toContain('Given');
+  });
+
+  it('filters the roster and explains when nothing matches', async () => {
+    await answer([athlete(1, 'Cleo', 'Bright'), athlete(2, 'Abel', 'Able')]);
+    const input = element.querySelector<HTMLInputElement>('input[type="search"]')!;
+    input.value = 'cleo';
+    input.dispatchEvent(new Event('input'));
+    await fixture.whenStable();
+    expect(rowNames()).toEqual(['Cleo Bright']);
+    input.value = 'nobody';
+    input.dispatchEvent(new Event('input'));
+    await fixture.whenStable();
+    expect(rowNames()).toEqual([]);
+    expect(element.textContent).toContain('No athletes match');
+  });
+
+  it('shows a friendly empty state with an Add athlete action', async () => {
+    await answer([]);
+    expect(element.textContent).toContain('No athletes yet');
+    expect(element.querySelector('table')).toBeNull();
+  });
+
+  it('shows an error state whose retry loads again', async () => {
+    backend.expectOne('/api/athletes').flush({ error: { code: 'internal', message: 'Roster store offline' } }, { status: 500, statusText: 'Error' });
+    await fixture.whenStable();
+    expect(element.querySelector('app-error-state')?.textContent).toContain('Roster store offline');
+    element.querySelector<HTMLButtonElement>('app-error-state button')!.click();
+    fixture.detectChanges();
+    await answer([athlete(1, 'Cleo', 'Bright')]);
+    expect(rowNames()).toEqual(['Cleo Bright']);
+  });
+});

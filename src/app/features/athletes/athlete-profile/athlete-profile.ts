@@ -1,0 +1,100 @@
+import { DatePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCardModule } from '@angular/material/card';
+import { MatDialog } from '@angular/material/dialog';
+import { MatIconModule } from '@angular/material/icon';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { MatTabsModule } from '@angular/material/tabs';
+import { Title } from '@angular/platform-browser';
+import { RouterLink } from '@angular/router';
+import { throwError } from 'rxjs';
+import type { AthleteDetail } from '../../../../contracts/api';
+import { errorMessage, errorStatus } from '../../../core/api-error';
+import { ageOn } from '../../../shared/dates';
+import { ErrorState } from '../../../shared/states/error-state';
+import { AthleteEditDialog } from '../athlete-edit-dialog/athlete-edit-dialog';
+import { AthleteInvitation } from '../athlete-invitation/athlete-invitation';
+import { AthletesApi } from '../athletes-api';
+import { IntakeForm } from '../intake-form/intake-form';
+import { fullName } from '../roster';
+
+/** `/athletes/:id`: who the athlete is, their account, their intake and (later) assessments. */
+@Component({
+  selector: 'app-athlete-profile',
+  imports: [
+    DatePipe,
+    RouterLink,
+    MatButtonModule,
+    MatCardModule,
+    MatIconModule,
+    MatProgressBarModule,
+    MatTabsModule,
+    ErrorState,
+    AthleteInvitation,
+    IntakeForm,
+  ],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  templateUrl: './athlete-profile.html',
+  styleUrl: './athlete-profile.scss',
+})
+export class AthleteProfile {
+  private readonly api = inject(AthletesApi);
+  private readonly dialog = inject(MatDialog);
+  private readonly snackBar = inject(MatSnackBar);
+
+  /** Route parameter. */
+  readonly id = input.required<string>();
+
+  protected readonly athlete = rxResource({
+    params: () => Number(this.id()),
+    stream: ({ params }) =>
+      Number.isInteger(params) && params > 0
+        ? this.api.get(params)
+        : throwError(() => new Error('Not a valid athlete address.')),
+  });
+  protected readonly detail = computed(() => (this.athlete.hasValue() ? this.athlete.value() : null));
+  protected readonly age = computed(() => ageOn(this.detail()?.dateOfBirth, new Date()));
+  protected readonly name = computed(() => {
+    const a = this.detail();
+    return a ? fullName(a) : '';
+  });
+  protected readonly notFound = computed(() => errorStatus(this.athlete.error()) === 404);
+  protected readonly errorMessage = errorMessage;
+
+  constructor() {
+    const title = inject(Title);
+    effect(() => {
+      const name = this.name();
+      if (name) title.setTitle(`${name} · Trailframe`);
+    });
+  }
+
+  protected editDetails(): void {
+    const current = this.detail();
+    if (!current) return;
+    this.dialog
+      .open<AthleteEditDialog, AthleteDetail, AthleteDetail>(AthleteEditDialog, {
+        data: current,
+        width: '640px',
+        maxWidth: '95vw',
+        autoFocus: 'first-tabbable',
+      })
+      .afterClosed()
+      .subscribe((updated) => {
+        if (!updated) return;
+        this.athlete.set(updated);
+        this.snackBar.open('Details saved', 'OK', { duration: 3000 });
+      });
+  }
+
+  protected onInvited(): void {
+    this.athlete.update((a) => (a ? { ...a, invitationPending: true } : a));
+  }
+
+  protected onIntakeSaved(saved: AthleteDetail): void {
+    this.athlete.set(saved);
+  }
+}

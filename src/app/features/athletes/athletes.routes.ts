@@ -1,0 +1,21 @@
+import { Routes } from '@angular/router';
+
+/** `/athletes` (owner and coach). */
+export default [
+  {
+    path: '',
+    title: 'Athletes · Trailframe',
+    loadComponent: () => import('./athlete-list/athlete-list').then((m) => m.AthleteList),
+  },
+  {
+    path: 'new',
+    title: 'Add athlete · Trailframe',
+    loadComponent: () => import('./athlete-new/athlete-new').then((m) => m.AthleteNew),
+  },
+  {
+    path: ':id',
+    title: 'Athlete · Trailframe',
+    loadComponent: () =>
+      import('./athlete-profile/athlete-profile').then((m) => m.AthleteProfile),
+  },
+] satisfies Routes;

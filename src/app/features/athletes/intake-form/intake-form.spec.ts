@@ -1,0 +1,163 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { provideNativeDateAdapter } from '@angular/material/core';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import type { AthleteDetail } from '../../../../contracts/api';
+import { IntakeForm } from './intake-form';
+import { IntakeFormGroup } from './intake-form-model';
+
+function detail(overrides: Partial<AthleteDetail> = {}): AthleteDetail {
+  return {
+    id: 9,
+    firstName: 'Ada',
+    lastName: 'Example',
+    email: null,
+    dateOfBirth: '1991-04-02',
+    goalEvent: 'Half marathon',
+    goalDate: null,
+    coachId: null,
+    coachName: null,
+    hasAccount: false,
+    invitationPending: false,
+    videoConsent: false,
+    maxPain: 3,
+    createdAt: '2025-01-01T00:00:00Z',
+    updatedAt: '2025-01-02T00:00:00Z',
+    heightCm: 171,
+    distanceUnit: 'km',
+    weeklyDistance: 40,
+    longestRecentRun: 16,
+    surfaces: ['road'],
+    injuries: [{ id: 3, region: 'achilles', side: 'left', when: '2024-03', status: 'recovering', notes: '' }],
+    pain: [{ region: 'knee', score: 3 }],
+    consents: { videoRecording: null, shareStills: null },
+    ...overrides,
+  };
+}
+
+describe('IntakeForm', () => {
+  let fixture: ComponentFixture<IntakeForm>;
+  let element: HTMLElement;
+  let backend: HttpTestingController;
+  let snackBar: { open: ReturnType<typeof vi.fn> };
+  let form: IntakeFormGroup;
+
+  beforeEach(async () => {
+    snackBar = { open: vi.fn() };
+    TestBed.configureTestingModule({
+      imports: [IntakeForm],
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        provideNativeDateAdapter(),
+        { provide: MatSnackBar, useValue: snackBar },
+      ],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(IntakeForm);
+    fixture.componentRef.setInput('athlete', detail());
+    element = fixture.nativeElement;
+    form = (fixture.componentInstance as unknown as { form: IntakeFormGroup }).form;
+    await fixture.whenStable();
+  });
+
+  afterEach(() => backend.verify());
+
+  const saveButton = () =>
+    [...element.querySelectorAll<HTMLButtonElement>('button[type="submit"]')].find((b) =>
+      b.textContent?.includes('Save intake'),
+    )!;
+
+  it('shows the athlete as the server sent them, with the pain caution', () => {
+    expect(element.querySelector<HTMLInputElement>('input[formcontrolname="heightCm"]')!.value).toBe('171');
+    expect(element.querySelectorAll('.injury-row').length).toBe(1);
+    expect(element.querySelectorAll('.pain-row').length).toBe(1);
+    expect(element.textContent).toContain('Pain scores guide the clinician; they do not replace an examination.');
+    expect(element.textContent).toContain('Consents to video recording of running for gait analysis');
+    expect(form.pristine).toBe(true);
+  });
+
+  it('saves the whole intake with PUT and confirms', async () => {
+    let saved: AthleteDetail | undefined;
+    fixture.componentInstance.saved.subscribe((a) => (saved = a));
+    form.controls.heightCm.setValue(172);
+    form.controls.consents.controls.videoRecording.setValue(true);
+    saveButton().click();
+    const req = backend.expectOne('/api/athletes/9/intake');
+    expect(req.request.method).toBe('PUT');
+    expect(req.request.body).toMatchObject({
+      dateOfBirth: '1991-04-02',
+      heightCm: 172,
+      goalEvent: 'Half marathon',
+      goalDate: null,
+      surfaces: ['road'],
+      injuries: [{ id: 3, region: 'achilles', side: 'left', when: '2024-03', status: 'recovering', notes: '' }],
+      pain: [{ region: 'knee', score: 3 }],
+      consents: { videoRecording: true, shareStills: false },
+    });
+    req.flush(detail({ heightCm: 172 }));
+    await fixture.whenStable();
+    expect(saved?.heightCm).toBe(172);
+    expect(snackBar.open).toHaveBeenCalledWith('Intake saved', 'OK', expect.anything());
+    expect(form.pristine).toBe(true);
+  });
+
+  it('does not send an invalid form and points at the problem', async () => {
+    element.querySelector<HTMLButtonElement>('.section button[mat-stroked-button]')!.click(); // Add injury
+    await fixture.whenStable();
+    expect(element.querySelectorAll('.injury-row').length).toBe(2);
+    saveButton().click();
+    await fixture.whenStable();
+    backend.expectNone('/api/athletes/9/intake');
+    expect(element.querySelector('[role="alert"]')?.textContent).toContain('Some fields need attention');
+    expect(element.textContent).toContain('Region is required');
+  });
+
+  it("maps the server's 422 details onto the fields and keeps what was typed", async () => {
+    form.controls.injuries.at(0).controls.notes.setValue('Flared after hill repeats');
+    saveButton().click();
+    backend.expectOne('/api/athletes/9/intake').flush(
+      {
+        error: {
+          code: 'validation',
+          message: 'Invalid intake',
+          details: [
+            { path: ['injuries', 0, 'when'], message: 'Month is before the date of birth' },
+            { path: ['consents'], message: 'Consent needs a witness' },
+          ],
+        },
+      },
+      { status: 422, statusText: 'Unprocessable Entity' },
+    );
+    await fixture.whenStable();
+    const when = form.controls.injuries.at(0).controls.when;
+    expect(when.errors).toEqual({ server: 'Month is before the date of birth' });
+    expect(when.value).toBe('2024-03');
+    expect(form.controls.injuries.at(0).controls.notes.value).toBe('Flared after hill repeats');
+    expect(element.textContent).toContain('Month is before the date of birth');
+    expect(element.querySelector('[role="alert"]')?.textContent).toContain('Consent needs a witness');
+    expect(snackBar.open).not.toHaveBeenCalled();
+  });
+
+  it('flags a pain area listed twice', async () => {
+    form.controls.pain.at(0).controls.region.setValue('knee');
+    const addPain = [...element.querySelectorAll<HTMLButtonElement>('button')].find((b) =>
+      b.textContent?.includes('Add painful area'),
+    )!;
+    addPain.click();
+    await fixture.whenStable();
+    form.controls.pain.at(1).controls.region.setValue('knee');
+    await fixture.whenStable();
+    expect(form.controls.pain.errors).toEqual({ duplicateRegions: ['knee'] });
+    expect(element.textContent).toContain('This area is already listed');
+  });
+
+  it('does not overwrite unsaved edits when the parent passes a refreshed record', async () => {
+    form.controls.goalEvent.setValue('Trail 30 km');
+    form.markAsDirty();
+    fixture.componentRef.setInput('athlete', detail({ firstName: 'Adah' }));
+    await fixture.whenStable();
+    expect(form.controls.goalEvent.value).toBe('Trail 30 km');
+  });
+});

@@ -1,0 +1,20 @@
+import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCardModule } from '@angular/material/card';
+import { MatIconModule } from '@angular/material/icon';
+import { RouterLink } from '@angular/router';
+import { AuthStore } from '../../../core/auth-store';
+
+/** `/portal`: the athlete's home page. */
+@Component({
+  selector: 'app-portal-home',
+  imports: [RouterLink, MatCardModule, MatButtonModule, MatIconModule],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  templateUrl: './portal-home.html',
+  styleUrl: './portal-home.scss',
+})
+export class PortalHome {
+  private readonly auth = inject(AuthStore);
+  protected readonly user = this.auth.user;
+  protected readonly firstName = computed(() => this.user()?.name.split(/\s+/)[0] ?? '');
+}

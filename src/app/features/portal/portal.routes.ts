@@ -1,0 +1,15 @@
+import { Routes } from '@angular/router';
+
+/** `/portal` (athlete): their home and their own profile. */
+export default [
+  {
+    path: '',
+    title: 'Home · Trailframe',
+    loadComponent: () => import('./portal-home/portal-home').then((m) => m.PortalHome),
+  },
+  {
+    path: 'profile',
+    title: 'My profile · Trailframe',
+    loadComponent: () => import('./portal-profile/portal-profile').then((m) => m.PortalProfile),
+  },
+] satisfies Routes;

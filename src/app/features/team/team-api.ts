@@ -1,0 +1,28 @@
+import { HttpClient } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import { Observable, map } from 'rxjs';
+import type { PendingInvitation, StaffList } from '../../../contracts/api';
+import { skipErrorSnackbar } from '../../core/http-context';
+
+/** HTTP for the clinic's staff and coach invitations (owner only). */
+@Injectable({ providedIn: 'root' })
+export class TeamApi {
+  private readonly http = inject(HttpClient);
+
+  /** Staff members and pending invitations. */
+  list(): Observable<StaffList> {
+    return this.http.get<StaffList>('/api/staff', { context: skipErrorSnackbar() });
+  }
+
+  /** Invites a coach by e-mail; 409 when the address is already in use (shown inline). */
+  inviteCoach(body: { name: string; email: string }): Observable<PendingInvitation> {
+    return this.http.post<PendingInvitation>('/api/staff/invitations', body, {
+      context: skipErrorSnackbar(409, 422),
+    });
+  }
+
+  /** Revokes a pending invitation so its link stops working. */
+  revoke(id: number): Observable<void> {
+    return this.http.delete<void>(`/api/staff/invitations/${id}`).pipe(map(() => undefined));
+  }
+}
