@@ -42,7 +42,7 @@ const ROUTES: RouteCase[] = [
   { method: 'get', pattern: '/api/health', path: () => '/api/health', expect: all(200) },
   { method: 'get', pattern: '/api/config', path: () => '/api/config', expect: all(200) },
   { method: 'get', pattern: '/api/auth/csrf', path: () => '/api/auth/csrf', expect: all(200) },
-  { method: 'get', pattern: '/api/auth/me', path: () => '/api/auth/me', expect: { ...all(200), anonymous: 401 } },
+  { method: 'get', pattern: '/api/auth/me', path: () => '/api/auth/me', expect: all(200) },
   { method: 'get', pattern: '/api/staff', path: () => '/api/staff', expect: ownerOnly(200) },
   { method: 'post', pattern: '/api/staff/invitations', path: () => '/api/staff/invitations', body: () => ({ email: `walk-${Math.random().toString(36).slice(2)}@x.test`, name: 'Walker' }), expect: ownerOnly(201) },
   { method: 'delete', pattern: '/api/staff/invitations/:id', path: (c) => `/api/staff/invitations/${c.pendingInvitationId}`, expect: ownerOnly(204) },
