@@ -1,0 +1,102 @@
+/**
+ * Pure planning for frame extraction: working size, thumbnail cadence, the ffmpeg filtergraph,
+ * and reading frame timestamps from ffmpeg's `showinfo` log. No I/O.
+ */
+
+/** A width × height pair in pixels. */
+export interface Size {
+  width: number;
+  height: number;
+}
+
+/** Default long side of extracted frames (DESIGN.md: working size, long side ≤ 1280). */
+export const DEFAULT_LONG_SIDE = 1280;
+/** Default long side of thumbnails. */
+export const DEFAULT_THUMB_LONG_SIDE = 160;
+/** Default JPEG quality for frames, ffmpeg `-q:v` scale (2 best … 31 worst); see test/bench. */
+export const DEFAULT_QUALITY = 4;
+/** JPEG quality of thumbnails (`-q:v`). */
+export const THUMB_QUALITY = 6;
+/** Thumbnails per second of video the strip aims for. */
+export const THUMBS_PER_SECOND = 10;
+/** Most thumbnails one clip gets; longer clips space them further apart. */
+export const MAX_THUMBS = 600;
+
+const evenFloor = (x: number) => Math.max(2, 2 * Math.floor(x / 2));
+const evenRound = (x: number) => Math.max(2, 2 * Math.round(x / 2));
+
+/**
+ * Fits a displayed size inside `longSide` keeping the aspect ratio: never upscales, and both
+ * sides are even (odd sides are trimmed by one pixel, never padded).
+ */
+export function fitLongSide(display: Size, longSide: number): Size {
+  const long = Math.max(display.width, display.height);
+  const scale = Math.min(1, longSide / long);
+  const fit = (side: number) => Math.min(evenFloor(side), evenFloor(Math.max(longSide, 2)), evenRound(side * scale));
+  return { width: fit(display.width), height: fit(display.height) };
+}
+
+/**
+ * One thumbnail every N frames: about {@link THUMBS_PER_SECOND} per second of video, at most
+ * {@link MAX_THUMBS} per clip. Thumbnail k (1-based file number) shows frame (k − 1)·N + 1.
+ */
+export function thumbEvery(fps: number, frameCount: number): number {
+  return Math.max(1, Math.round(fps / THUMBS_PER_SECOND), Math.ceil(frameCount / MAX_THUMBS));
+}
+
+/** Number of thumbnails written for `frameCount` frames at one every `every` frames. */
+export function thumbCount(frameCount: number, every: number): number {
+  return Math.ceil(frameCount / every);
+}
+
+/**
+ * The filtergraph for one decode feeding two outputs. ffmpeg has already rotated the frames
+ * (autorotate inserts transpose/flip filters before this graph), so sizes here are displayed
+ * sizes. `showinfo` (checksums off) logs each frame's presentation time; `split` hands the same
+ * scaled frame to the frame output and, every Nth frame, to a smaller thumbnail scale.
+ */
+export function filterGraph(frame: Size, thumb: Size, every: number, scaleFlags: string): string {
+  return [
+    `[0:v]scale=${frame.width}:${frame.height}:flags=${scaleFlags},setsar=1,showinfo=checksum=0,split=2[frames][t]`,
+    `[t]select='not(mod(n\\,${every}))',scale=${thumb.width}:${thumb.height}:flags=area,setsar=1[thumbs]`,
+  ].join(';');
+}
+
+/** One frame as `showinfo` logged it. */
+export interface ShowinfoFrame {
+  n: number;
+  ptsTimeS: number;
+}
+
+const SHOWINFO = /Parsed_showinfo.*?\bn:\s*(\d+)\s+pts:\s*(-?\d+)\s+pts_time:\s*(-?[\d.]+(?:e[-+]?\d+)?)/i;
+
+/** Reads `n:` and `pts_time:` from a `showinfo` log line, or null for any other line. */
+export function parseShowinfoLine(line: string): ShowinfoFrame | null {
+  const m = SHOWINFO.exec(line);
+  return m ? { n: Number(m[1]), ptsTimeS: Number(m[3]) } : null;
+}
+
+/**
+ * Per-frame presentation times in milliseconds, relative to the first frame, rounded to 0.001 ms.
+ * Uses the decoded timestamps when there is one per written frame; otherwise computes
+ * `i × 1000 / fps` (exact only for constant-frame-rate clips) and says so.
+ */
+export function frameTimestamps(
+  logged: ShowinfoFrame[],
+  frameCount: number,
+  fps: number,
+): { timestampsMs: number[]; source: 'decoded' | 'computed' } {
+  const byIndex = new Map(logged.map((f) => [f.n, f.ptsTimeS]));
+  const times: number[] = [];
+  for (let i = 0; i < frameCount; i++) {
+    const t = byIndex.get(i);
+    if (t === undefined || !Number.isFinite(t)) break;
+    times.push(t);
+  }
+  const round = (ms: number) => Math.round(ms * 1000) / 1000;
+  if (times.length === frameCount && frameCount > 0) {
+    const t0 = times[0]!;
+    return { timestampsMs: times.map((t) => round((t - t0) * 1000)), source: 'decoded' };
+  }
+  return { timestampsMs: Array.from({ length: frameCount }, (_, i) => round((i * 1000) / fps)), source: 'computed' };
+}

@@ -1,0 +1,59 @@
+import { readFile, rename, writeFile } from 'node:fs/promises';
+import path from 'node:path';
+
+/** File name of the manifest inside a clip's output folder; its presence means "frames ready". */
+export const MANIFEST_FILE = 'manifest.json';
+/** Folder of full-size working frames: `frames/000001.jpg` is frame index 0. */
+export const FRAMES_DIR = 'frames';
+/** Folder of thumbnails: `thumbs/000001.jpg` shows frame index 0, `thumbs/k` frame (k − 1)·thumbEvery. */
+export const THUMBS_DIR = 'thumbs';
+
+/** What {@link extractFrames} wrote, saved as `manifest.json` beside `frames/` and `thumbs/`. */
+export interface FrameManifest {
+  version: 1;
+  /** Number of files in `frames/` (one per decoded frame). */
+  frameCount: number;
+  /** Working frame size in pixels, after rotation and scaling (even numbers). */
+  width: number;
+  height: number;
+  /** Frames per second as probed (`avg_frame_rate`). */
+  fps: number;
+  /** Clip duration in seconds as probed. */
+  durationS: number;
+  /** Clockwise degrees ffmpeg turned the stored frames to display them (0/90/180/270). */
+  rotationApplied: 0 | 90 | 180 | 270;
+  /** Presentation time of each frame in ms, first frame at 0 (index i ↔ `frames/` file i + 1). */
+  timestampsMs: number[];
+  /** `decoded`: read from ffmpeg's per-frame log; `computed`: i × 1000 / fps (constant rate assumed). */
+  timestampsSource: 'decoded' | 'computed';
+  /** One thumbnail every this many frames. */
+  thumbEvery: number;
+  thumbCount: number;
+  thumbWidth: number;
+  thumbHeight: number;
+  /** ffmpeg `-q:v` of the frame JPEGs (2 best … 31 worst). */
+  quality: number;
+}
+
+/** File name of frame `index` (0-based) inside `frames/` or `thumbs/`: `000001.jpg` for 0. */
+export function frameFileName(index: number): string {
+  return `${String(index + 1).padStart(6, '0')}.jpg`;
+}
+
+/** Writes the manifest atomically (temp file + rename), so readers never see half a file. */
+export async function writeManifest(outDir: string, manifest: FrameManifest): Promise<void> {
+  const target = path.join(outDir, MANIFEST_FILE);
+  const temp = `${target}.${process.pid}.tmp`;
+  await writeFile(temp, JSON.stringify(manifest));
+  await rename(temp, target);
+}
+
+/** Reads a clip's manifest, or null when extraction has not finished there. */
+export async function readManifest(outDir: string): Promise<FrameManifest | null> {
+  try {
+    return JSON.parse(await readFile(path.join(outDir, MANIFEST_FILE), 'utf8')) as FrameManifest;
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code === 'ENOENT') return null;
+    throw err;
+  }
+}

@@ -1,0 +1,196 @@
+/**
+ * extractFrames against the outside reference: ffprobe/ffmpeg themselves (frame counts with
+ * `-count_frames`, per-frame times with `-show_entries frame=best_effort_timestamp_time`, JPEG
+ * sizes as ffprobe reads them, rotation as ffmpeg's autorotate shows it).
+ */
+import { copyFile, readdir, readFile, stat } from 'node:fs/promises';
+import path from 'node:path';
+import { createCanvas, loadImage } from '@napi-rs/canvas';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { extractFrames } from '../../../server/media/extract';
+import { MediaError } from '../../../server/media/media-error';
+import { readManifest } from '../../../server/media/manifest';
+import { probeVideo } from '../../../server/media/probe';
+import { brightCentroid, ffmpegRun, ffprobeCounted, ffprobeFrameTimes, ffprobeJson, makeClip, tempDir, withRotateTag } from './fixtures';
+
+let dir = '';
+let cleanup = async () => {};
+beforeAll(async () => {
+  ({ dir, cleanup } = await tempDir('extract'));
+});
+afterAll(() => cleanup());
+
+const jpegs = async (folder: string) => (await readdir(folder)).filter((f) => f.endsWith('.jpg')).sort();
+
+/** Outside reference: a JPEG's size as ffprobe reads it. */
+async function jpegSize(file: string): Promise<[number, number]> {
+  const s = (await ffprobeJson(file, ['-show_streams'])).streams[0];
+  return [s.width, s.height];
+}
+
+/** Grey values of a JPEG decoded with @napi-rs/canvas. */
+async function grayPixels(file: string): Promise<{ gray: Uint8Array; width: number; height: number }> {
+  const img = await loadImage(await readFile(file));
+  const canvas = createCanvas(img.width, img.height);
+  const ctx = canvas.getContext('2d');
+  ctx.drawImage(img, 0, 0);
+  const rgba = ctx.getImageData(0, 0, img.width, img.height).data;
+  const gray = new Uint8Array(img.width * img.height);
+  for (let i = 0; i < gray.length; i++) gray[i] = rgba[i * 4]!;
+  return { gray, width: img.width, height: img.height };
+}
+
+describe.each([30, 60, 120, 240])('testsrc2 at %i fps', (fps) => {
+  it.each([
+    [320, 180],
+    [180, 320],
+  ])('%ix%i: frame count matches ffprobe -count_frames, JPEG size matches ffprobe, timestamps match ffprobe frame times (outside reference)', async (width, height) => {
+    const src = await makeClip(path.join(dir, `src-${fps}-${width}x${height}.mp4`), { fps, width, height, seconds: 1 });
+    const out = path.join(dir, `out-${fps}-${width}x${height}`);
+    const progress: Array<[number, number]> = [];
+    const manifest = await extractFrames(src, out, { onProgress: (done, total) => progress.push([done, total]) });
+    const reference = await ffprobeCounted(src);
+
+    const frames = await jpegs(path.join(out, 'frames'));
+    expect(frames.length).toBe(reference.nbReadFrames);
+    expect(manifest.frameCount).toBe(reference.nbReadFrames);
+    expect(manifest.frameCount).toBe(fps); // generation parameter: 1 s at `fps`
+    expect(frames[0]).toBe('000001.jpg');
+    expect(frames.at(-1)).toBe(`${String(fps).padStart(6, '0')}.jpg`);
+    // never upscaled: the 320-px clip keeps its size
+    expect([manifest.width, manifest.height]).toEqual([width, height]);
+    expect(await jpegSize(path.join(out, 'frames', frames[0]!))).toEqual([width, height]);
+    expect(await jpegSize(path.join(out, 'frames', frames.at(-1)!))).toEqual([width, height]);
+
+    const times = await ffprobeFrameTimes(src);
+    expect(manifest.timestampsSource).toBe('decoded');
+    expect(manifest.timestampsMs).toHaveLength(times.length);
+    manifest.timestampsMs.forEach((t, i) => expect(t).toBeCloseTo((times[i]! - times[0]!) * 1000, 2));
+
+    const thumbs = await jpegs(path.join(out, 'thumbs'));
+    expect(thumbs.length).toBe(Math.ceil(manifest.frameCount / manifest.thumbEvery));
+    expect(manifest.thumbCount).toBe(thumbs.length);
+    expect(await jpegSize(path.join(out, 'thumbs', thumbs[0]!))).toEqual(width > height ? [160, 90] : [90, 160]);
+
+    expect(await readManifest(out)).toEqual(manifest);
+    expect(manifest).toMatchObject({ version: 1, fps, rotationApplied: 0, quality: 4 });
+    expect(progress.at(-1)).toEqual([fps, fps]);
+    expect(progress.every(([d, t], i) => t === fps && d <= t && (i === 0 || d >= progress[i - 1]![0]))).toBe(true);
+  });
+});
+
+describe('working size', () => {
+  let src = '';
+  beforeAll(async () => {
+    src = await makeClip(path.join(dir, 'src-640x360.mp4'), { fps: 30, width: 640, height: 360, seconds: 0.3 });
+  });
+
+  it('downscales to the long side, keeps the aspect ratio (ffprobe reads the JPEG size)', async () => {
+    const m = await extractFrames(src, path.join(dir, 'ws-320'), { longSide: 320, thumbLongSide: 64 });
+    expect([m.width, m.height]).toEqual([320, 180]);
+    expect(await jpegSize(path.join(dir, 'ws-320', 'frames', '000001.jpg'))).toEqual([320, 180]);
+    expect([m.thumbWidth, m.thumbHeight]).toEqual([64, 36]);
+    expect(await jpegSize(path.join(dir, 'ws-320', 'thumbs', '000001.jpg'))).toEqual([64, 36]);
+  });
+
+  it('odd target sizes come out even', async () => {
+    const m = await extractFrames(src, path.join(dir, 'ws-333'), { longSide: 333 });
+    expect(m.width % 2).toBe(0);
+    expect(m.height % 2).toBe(0);
+    expect(m.width).toBeLessThanOrEqual(333);
+    expect(await jpegSize(path.join(dir, 'ws-333', 'frames', '000001.jpg'))).toEqual([m.width, m.height]);
+  });
+
+  it('a lower quality number gives larger JPEGs', async () => {
+    const hi = await extractFrames(src, path.join(dir, 'q2'), { quality: 2 });
+    const lo = await extractFrames(src, path.join(dir, 'q20'), { quality: 20 });
+    const size = async (d: string) => (await stat(path.join(dir, d, 'frames', '000001.jpg'))).size;
+    expect(hi.quality).toBe(2);
+    expect(lo.quality).toBe(20);
+    expect(await size('q2')).toBeGreaterThan(await size('q20'));
+  });
+});
+
+describe('rotation is applied (outside reference: ffprobe side data; the marker corner as ffmpeg autorotates it)', () => {
+  it('phone-style portrait (ffprobe rotation -90): frames are 180×320 and the top-left marker is top-right', async () => {
+    const marker = await makeClip(path.join(dir, 'marker.mp4'), { fps: 30, width: 320, height: 180, seconds: 0.2, source: 'corner-marker' });
+    const src = await withRotateTag(marker, path.join(dir, 'marker-portrait.mp4'), -90);
+    expect((await ffprobeCounted(src)).rotation).toBe(-90);
+    const out = path.join(dir, 'rot');
+    const m = await extractFrames(src, out);
+    expect(m.rotationApplied).toBe(90);
+    expect([m.width, m.height]).toEqual([180, 320]);
+    const { gray, width, height } = await grayPixels(path.join(out, 'frames', '000001.jpg'));
+    expect([width, height]).toEqual([180, 320]);
+    const c = brightCentroid(gray, width);
+    expect(c.x).toBeGreaterThan(width - 40);
+    expect(c.y).toBeLessThan(40);
+    expect(c.x).toBeCloseTo(160, -1); // the 40-px square, turned: x 140–180, y 0–40
+    expect(c.y).toBeCloseTo(20, -1);
+  });
+
+  it('rotation and downscaling together: 640×360 stored, -90 → 180×320 at long side 320', async () => {
+    const src = await makeClip(path.join(dir, 'land-640.mp4'), { fps: 30, width: 640, height: 360, seconds: 0.2 });
+    const rotated = await withRotateTag(src, path.join(dir, 'land-640-rot.mp4'), -90);
+    const m = await extractFrames(rotated, path.join(dir, 'rot-scaled'), { longSide: 320 });
+    expect([m.width, m.height]).toEqual([180, 320]);
+    expect(await jpegSize(path.join(dir, 'rot-scaled', 'frames', '000001.jpg'))).toEqual([180, 320]);
+  });
+});
+
+describe('timestamps of a variable-frame-rate clip', () => {
+  it('match ffprobe best_effort_timestamp_time per frame (outside reference), not i × 1000 / fps', async () => {
+    const src = path.join(dir, 'vfr.mp4');
+    await ffmpegRun(['-f', 'lavfi', '-i', 'testsrc2=size=320x180:rate=50', '-t', '1', '-vf', "settb=1/1000,setpts='floor(N/2)*60+mod(N,2)*20'", '-fps_mode', 'passthrough', '-c:v', 'libx264', '-preset', 'ultrafast', '-pix_fmt', 'yuv420p', src]);
+    const m = await extractFrames(src, path.join(dir, 'vfr'));
+    const times = await ffprobeFrameTimes(src);
+    expect(m.frameCount).toBe(times.length);
+    expect(m.timestampsSource).toBe('decoded');
+    m.timestampsMs.forEach((t, i) => expect(t).toBeCloseTo((times[i]! - times[0]!) * 1000, 2));
+    expect(m.timestampsMs.slice(0, 5)).toEqual([0, 20, 60, 80, 120]);
+  });
+});
+
+describe('output folder handling', () => {
+  it('abort kills ffmpeg and leaves no frames, thumbs, manifest or staging folder', async () => {
+    const src = await makeClip(path.join(dir, 'long.mp4'), { fps: 60, width: 640, height: 360, seconds: 5 });
+    const out = path.join(dir, 'aborted');
+    const controller = new AbortController();
+    let seen = 0;
+    const started = Date.now();
+    const result = extractFrames(src, out, {
+      quality: 2,
+      signal: controller.signal,
+      onProgress: (done) => {
+        seen = done;
+        if (done > 0) controller.abort();
+      },
+    }).catch((e: unknown) => e);
+    const err = await result;
+    expect(err).toBeInstanceOf(MediaError);
+    expect((err as MediaError).code).toBe('aborted');
+    expect(seen).toBeLessThan(300);
+    expect(Date.now() - started).toBeLessThan(20_000);
+    expect(await readdir(out)).toEqual([]);
+  });
+
+  it('an already-aborted signal throws before ffmpeg starts', async () => {
+    const src = await makeClip(path.join(dir, 'tiny.mp4'), { fps: 30, width: 320, height: 180, seconds: 0.2 });
+    const err = await extractFrames(src, path.join(dir, 'pre-aborted'), { signal: AbortSignal.abort() }).catch((e: unknown) => e);
+    expect((err as MediaError).code).toBe('aborted');
+  });
+
+  it('re-extracting replaces the old frames and leaves the source clip in the same folder alone', async () => {
+    const clipDir = path.join(dir, 'clip-1');
+    const first = await makeClip(path.join(dir, 'tiny-a.mp4'), { fps: 30, width: 320, height: 180, seconds: 0.5 });
+    await extractFrames(first, clipDir);
+    expect((await jpegs(path.join(clipDir, 'frames'))).length).toBe(15);
+    const source = path.join(clipDir, 'source.mp4');
+    await copyFile(await makeClip(path.join(dir, 'tiny-b.mp4'), { fps: 30, width: 320, height: 180, seconds: 0.2 }), source);
+    const probe = await probeVideo(source);
+    const m = await extractFrames(source, clipDir, { probe });
+    expect(m.frameCount).toBe(6);
+    expect((await jpegs(path.join(clipDir, 'frames'))).length).toBe(6);
+    expect((await readdir(clipDir)).sort()).toEqual(['frames', 'manifest.json', 'source.mp4', 'thumbs']);
+  });
+});
