@@ -2,6 +2,7 @@
  * Shapes of the JSON the API sends and receives. Shared by the client (typed HttpClient calls)
  * and the server (responses are built to these types). Types only, plus no runtime code.
  */
+import type { AssessmentKind, ClipStatus, Direction, FilmSurface, Side, SpeedUnit } from './assessment';
 import type { BodyRegion, BodySide, DistanceUnit, InjuryStatus, Surface } from './intake';
 
 export type Role = 'owner' | 'coach' | 'athlete';
@@ -157,4 +158,80 @@ export interface MailboxMessageSummary {
 export interface MailboxMessage extends MailboxMessageSummary {
   text: string;
   html: string | null;
+}
+
+// ─── Assessments and clips ────────────────────────────────────────────────────────────────
+
+export interface Assessment {
+  id: number;
+  athleteId: number;
+  /** Visit date `YYYY-MM-DD`. */
+  date: string;
+  kind: AssessmentKind;
+  surface: FilmSurface;
+  /** Treadmill belt speed (or overground target speed) in m/s; null when not recorded. */
+  speedMps: number | null;
+  /** Unit the coach typed the speed in, for display. */
+  speedUnit: SpeedUnit;
+  /** Treadmill incline, percent grade. */
+  inclinePercent: number | null;
+  shoes: string | null;
+  cameraNotes: string | null;
+  notes: string | null;
+  clipCount: number;
+  createdAt: string;
+  updatedAt: string;
+}
+
+export interface AssessmentWrite {
+  date: string;
+  kind: AssessmentKind;
+  surface: FilmSurface;
+  /** Speed as typed: km/h, mph, or pace in seconds per km / per mile. Null when not recorded. */
+  speed: { value: number; unit: SpeedUnit } | null;
+  inclinePercent: number | null;
+  shoes: string | null;
+  cameraNotes: string | null;
+  notes: string | null;
+}
+
+export interface Clip {
+  id: number;
+  assessmentId: number;
+  athleteId: number;
+  originalName: string;
+  sizeBytes: number;
+  status: ClipStatus;
+  /** Frames written so far while extracting. */
+  progress: { done: number; total: number } | null;
+  /** Why processing failed, in words for the user. */
+  error: string | null;
+  nearSide: Side;
+  direction: Direction;
+  /** Capture rate for slow-motion files whose container rate differs; null = use `fps`. */
+  captureFps: number | null;
+  /** Container frame rate as probed. */
+  fps: number | null;
+  /** `captureFps ?? fps`: the rate all timing uses. */
+  effectiveFps: number | null;
+  /** Working frame size (after rotation and scaling). */
+  width: number | null;
+  height: number | null;
+  frameCount: number | null;
+  durationS: number | null;
+  rotation: number | null;
+  codec: string | null;
+  thumbCount: number;
+  /** One thumbnail every this many frames. */
+  thumbEvery: number | null;
+  uploadedByName: string;
+  createdAt: string;
+}
+
+export type ClipUpdate = Partial<Pick<Clip, 'nearSide' | 'direction' | 'captureFps'>>;
+
+export interface AssessmentDetail extends Assessment {
+  clips: Clip[];
+  /** Whether the athlete's video consent is in force (uploads need it). */
+  videoConsent: boolean;
 }
