@@ -20,6 +20,14 @@ import { staffRoutes } from './staff/staff.routes';
 import { athletesService } from './athletes/athletes-service';
 import { athletesRoutes } from './athletes/athletes.routes';
 import { mailboxRoutes } from './mail/mailbox.routes';
+import { localMediaStore, type MediaStore } from './storage/media-store';
+import { sqliteJobQueue } from './jobs/job-queue';
+import { startWorker, type Worker } from './jobs/worker';
+import { inProcessClipEvents } from './clips/clip-events';
+import { clipsService, EXTRACT_JOB } from './clips/clips-service';
+import { clipsRoutes } from './clips/clips.routes';
+import { assessmentsService } from './assessments/assessments-service';
+import { assessmentsRoutes } from './assessments/assessments.routes';
 
 /** What the app needs from outside; tests pass their own. */
 export interface AppDeps {
@@ -29,12 +37,16 @@ export interface AppDeps {
   logger: Logger;
   /** Injected clock, so tests can expire tokens without waiting. */
   clock?: () => Date;
+  /** Media storage; defaults to local folders under `config.uploadsDir`. */
+  store?: MediaStore;
 }
 
 export interface App {
   app: Express;
-  /** Stops timers the app started (session cleanup). */
-  close(): void;
+  /** The in-process job worker, or null when `config.runWorker` is off. */
+  worker: Worker | null;
+  /** Stops the worker (aborting running jobs) and timers the app started. */
+  close(): Promise<void>;
 }
 
 const VERSION = '0.1.0';
@@ -97,18 +109,18 @@ export function createApp(deps: AppDeps): App {
   // A body that is not JSON at all is a client error too, not an empty object.
   api.use((req, _res, next) => {
     const method = req.method;
-    if ((method === 'POST' || method === 'PUT' || method === 'PATCH') && req.headers['content-length'] !== '0' && req.body === undefined && req.headers['content-type'] && !req.is('application/json')) {
+    if ((method === 'POST' || method === 'PUT' || method === 'PATCH') && req.headers['content-length'] !== '0' && req.body === undefined && req.headers['content-type'] && !req.is('application/json') && !req.is('multipart/form-data')) {
       return next(new AppError(415, 'unsupported_media_type', 'Send the request body as JSON (Content-Type: application/json).'));
     }
     next();
   });
 
-  const store = new ConnectSessionKnexStore({ knex: db, tableName: 'sessions', createTable: false, cleanupInterval: 15 * 60_000 });
+  const sessionStore = new ConnectSessionKnexStore({ knex: db, tableName: 'sessions', createTable: false, cleanupInterval: 15 * 60_000 });
   api.use(
     session({
       name: 'tf.sid',
       secret: config.sessionSecret,
-      store,
+      store: sessionStore,
       resave: false,
       saveUninitialized: false,
       rolling: true,
@@ -145,6 +157,31 @@ export function createApp(deps: AppDeps): App {
   const invitations = invitationsService({ db, mailer, config, clock });
   const resets = passwordResetsService({ db, mailer, config, clock, logger });
   const athletes = athletesService({ db, clock, invitations });
+  const store = deps.store ?? localMediaStore(config.uploadsDir);
+  const queue = sqliteJobQueue(db, { leaseMs: config.jobs.leaseMs, maxAttempts: config.jobs.maxAttempts });
+  const events = inProcessClipEvents();
+  let worker: Worker | null = null;
+  const clips = clipsService({
+    db,
+    store,
+    queue,
+    events,
+    logger,
+    wakeWorker: () => worker?.wake(),
+    cancelJob: (subject) => worker?.cancel(subject),
+  });
+  const assessments = assessmentsService({ db, clips });
+  if (config.runWorker) {
+    worker = startWorker({
+      queue,
+      handlers: { [EXTRACT_JOB]: clips.processJob },
+      logger,
+      concurrency: config.jobs.concurrency,
+      pollMs: config.jobs.pollMs,
+      leaseMs: config.jobs.leaseMs,
+      onFinalFailure: (job, message) => clips.markFailed(job, message),
+    });
+  }
 
   api.get('/health', (_req, res) => {
     res.json({ ok: true });
@@ -156,6 +193,8 @@ export function createApp(deps: AppDeps): App {
   api.use(authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, resetLimiter, clock }));
   api.use(staffRoutes({ db, invitations }));
   api.use(athletesRoutes(athletes));
+  api.use(assessmentsRoutes(assessments));
+  api.use(clipsRoutes({ db, clips, events, store, uploadMaxBytes: config.uploadMaxBytes }));
   if (config.demoMode) api.use(mailboxRoutes(db));
   api.use(apiNotFound);
 
@@ -169,8 +208,10 @@ export function createApp(deps: AppDeps): App {
 
   return {
     app,
-    close() {
-      const timer = (store as unknown as { nextDbCleanup?: NodeJS.Timeout }).nextDbCleanup;
+    worker,
+    async close() {
+      await worker?.stop();
+      const timer = (sessionStore as unknown as { nextDbCleanup?: NodeJS.Timeout }).nextDbCleanup;
       if (timer) clearTimeout(timer);
     },
   };

@@ -37,6 +37,19 @@ export interface Config {
   };
   invitationTtlHours: number;
   resetTtlMinutes: number;
+  /** Largest accepted upload, bytes. */
+  uploadMaxBytes: number;
+  jobs: {
+    /** Jobs run at once by the in-process worker (1 suits a 2-core machine). */
+    concurrency: number;
+    /** How long a claimed job stays claimed without a heartbeat. */
+    leaseMs: number;
+    maxAttempts: number;
+    /** How often an idle worker looks for work. */
+    pollMs: number;
+  };
+  /** Whether the in-process worker runs in this process. */
+  runWorker: boolean;
 }
 
 const bool = z
@@ -64,6 +77,11 @@ const EnvSchema = z.object({
   SIGN_IN_ATTEMPTS: z.coerce.number().int().min(1).default(10),
   RESET_REQUESTS: z.coerce.number().int().min(1).default(5),
   RATE_WINDOW_MINUTES: z.coerce.number().int().min(1).default(15),
+  UPLOAD_MAX_MB: z.coerce.number().int().min(1).max(20_000).default(2048),
+  WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(16).default(1),
+  JOB_LEASE_SECONDS: z.coerce.number().min(1).default(30),
+  JOB_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(10).default(3),
+  RUN_WORKER: bool.default(true),
 });
 
 /**
@@ -108,6 +126,14 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     },
     invitationTtlHours: 7 * 24,
     resetTtlMinutes: 60,
+    uploadMaxBytes: e.UPLOAD_MAX_MB * 1024 * 1024,
+    jobs: {
+      concurrency: e.WORKER_CONCURRENCY,
+      leaseMs: e.JOB_LEASE_SECONDS * 1000,
+      maxAttempts: e.JOB_MAX_ATTEMPTS,
+      pollMs: 1000,
+    },
+    runWorker: e.RUN_WORKER,
   };
 }
 

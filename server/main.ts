@@ -41,7 +41,7 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
     config,
     db,
     async stop() {
-      close();
+      await close();
       await new Promise<void>((resolve) => server.close(() => resolve()));
       server.closeAllConnections();
       mailer.close();

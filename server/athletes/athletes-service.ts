@@ -6,6 +6,7 @@ import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from '.
 import { isStaff } from '../http/access';
 import { audit } from '../audit/audit-log';
 import type { InvitationsService } from '../auth/invitations-service';
+import { accessibleAthlete } from './athlete-access';
 import { athletesRepository as repo } from './athletes-repository';
 import { ATHLETE_SELF_FIELDS, type AthleteCreateInput, type AthleteUpdateInput, type IntakeInput } from './athletes-schemas';
 
@@ -19,16 +20,7 @@ export interface AthletesDeps {
 export function athletesService({ db, clock, invitations }: AthletesDeps) {
   const now = () => clock().toISOString();
 
-  /**
-   * The athlete this user may see: staff see their clinic's athletes, an athlete only their own
-   * record. Anything else is "not found", so other clinics' ids do not leak.
-   */
-  async function accessible(user: SessionUser, id: number): Promise<AthleteRow> {
-    const row = await repo.find(db, user.clinicId, id);
-    if (!row) throw new NotFoundError('Athlete');
-    if (!isStaff(user) && row.user_id !== user.id) throw new NotFoundError('Athlete');
-    return row;
-  }
+  const accessible = (user: SessionUser, id: number): Promise<AthleteRow> => accessibleAthlete(db, user, id);
 
   async function detailFor(user: SessionUser, id: number): Promise<AthleteDetail> {
     const detail = await repo.detail(db, user.clinicId, id, now(), isStaff(user));

@@ -3,7 +3,10 @@
  * to ROUTES, or the "every route is listed" check fails.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
 import type { Express } from 'express';
+import { makeClip, tempDir } from './media/fixtures';
 import { Client, makeTestApp, OTHER, signedIn, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 
@@ -17,6 +20,14 @@ interface Ctx {
   otherAthleteId: number;
   pendingInvitationId: number;
   mailId: number;
+  /** The self athlete's assessment, with a ready clip. */
+  assessmentId: number;
+  /** An assessment of another athlete of the same clinic. */
+  otherAssessmentId: number;
+  clipId: number;
+  /** Made fresh before each DELETE / retry call. */
+  scratchAssessmentId: number;
+  scratchClipId: number;
 }
 
 interface RouteCase {
@@ -26,6 +37,10 @@ interface RouteCase {
   path: (c: Ctx) => string;
   body?: (c: Ctx) => unknown;
   expect: Record<Who, number>;
+  /** Runs before each call (fresh rows for DELETE and the like). */
+  before?: () => Promise<void>;
+  /** Server-sent events: only the status line is read. */
+  stream?: boolean;
 }
 
 const intake = {
@@ -33,8 +48,14 @@ const intake = {
   goalEvent: null, goalDate: null, surfaces: [], injuries: [], pain: [], consents: { videoRecording: true, shareStills: true },
 };
 
+const assessment = { date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: { value: 11, unit: 'kmh' }, inclinePercent: 1, shoes: null, cameraNotes: null, notes: null };
+
 const all = (status: number): Record<Who, number> => Object.fromEntries(WHO.map((w) => [w, status])) as Record<Who, number>;
 const staffOnly = (ok: number, otherClinic = 403): Record<Who, number> => ({ anonymous: 401, athleteSelf: 403, athleteOther: 403, coach: ok, coachOtherClinic: otherClinic, owner: ok });
+/** Readable by clinic staff and by the athlete it belongs to. */
+const selfAndStaff = (ok: number): Record<Who, number> => ({ anonymous: 401, athleteSelf: ok, athleteOther: 404, coach: ok, coachOtherClinic: 404, owner: ok });
+/** Writable by clinic staff only. */
+const staffWrite = (ok: number): Record<Who, number> => ({ anonymous: 401, athleteSelf: 403, athleteOther: 403, coach: ok, coachOtherClinic: 404, owner: ok });
 const ownerOnly = (ok: number): Record<Who, number> => ({ anonymous: 401, athleteSelf: 403, athleteOther: 403, coach: 403, coachOtherClinic: 403, owner: ok });
 
 // "athleteOther" is an athlete of another clinic reading the same ids: always 404 for athlete ids.
@@ -64,6 +85,26 @@ const ROUTES: RouteCase[] = [
   { method: 'get', pattern: '/api/mailbox', path: () => '/api/mailbox', expect: ownerOnly(200) },
   { method: 'get', pattern: '/api/mailbox/:id', path: (c) => `/api/mailbox/${c.mailId}`, expect: ownerOnly(200) },
   { method: 'post', pattern: '/api/auth/sign-in', path: () => '/api/auth/sign-in', body: () => ({ email: 'nobody@nowhere.test', password: 'x' }), expect: all(401) },
+  { method: 'get', pattern: '/api/athletes/:id/assessments', path: (c) => `/api/athletes/${c.selfAthleteId}/assessments`, expect: selfAndStaff(200) },
+  { method: 'post', pattern: '/api/athletes/:id/assessments', path: (c) => `/api/athletes/${c.otherAthleteId}/assessments`, body: () => assessment, expect: staffWrite(201) },
+  { method: 'get', pattern: '/api/assessments/:id', path: (c) => `/api/assessments/${c.assessmentId}`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/assessments/:id', path: (c) => `/api/assessments/${c.otherAssessmentId}`, expect: { ...selfAndStaff(200), athleteSelf: 404 } },
+  { method: 'patch', pattern: '/api/assessments/:id', path: (c) => `/api/assessments/${c.assessmentId}`, body: () => ({ shoes: 'Trail shoe' }), expect: staffWrite(200) },
+  { method: 'delete', pattern: '/api/assessments/:id', path: (c) => `/api/assessments/${c.scratchAssessmentId}`, before: () => scratchAssessment(), expect: staffWrite(204) },
+  // Access passes, then the JSON body is refused as "no file" (422): the walk checks who gets past the gate.
+  { method: 'post', pattern: '/api/assessments/:id/clips', path: (c) => `/api/assessments/${c.assessmentId}/clips`, body: () => ({}), expect: selfAndStaff(422) },
+  { method: 'post', pattern: '/api/assessments/:id/clips', path: (c) => `/api/assessments/${c.otherAssessmentId}/clips`, body: () => ({}), expect: { ...selfAndStaff(422), athleteSelf: 404 } },
+  { method: 'get', pattern: '/api/assessments/:id/clip-events', path: (c) => `/api/assessments/${c.assessmentId}/clip-events`, stream: true, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/clips/:id', path: (c) => `/api/clips/${c.clipId}`, expect: selfAndStaff(200) },
+  { method: 'patch', pattern: '/api/clips/:id', path: (c) => `/api/clips/${c.clipId}`, body: () => ({ nearSide: 'right' }), expect: selfAndStaff(200) },
+  // The scratch clip was uploaded by the coach: the athlete may not delete it.
+  { method: 'delete', pattern: '/api/clips/:id', path: (c) => `/api/clips/${c.scratchClipId}`, before: () => scratchClip(), expect: { ...selfAndStaff(204), athleteSelf: 403 } },
+  { method: 'post', pattern: '/api/clips/:id/retry', path: (c) => `/api/clips/${c.scratchClipId}`+'/retry', before: () => scratchClip(), expect: selfAndStaff(202) },
+  { method: 'get', pattern: '/api/clips/:id/poster', path: (c) => `/api/clips/${c.clipId}/poster`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/clips/:id/thumbs/:n', path: (c) => `/api/clips/${c.clipId}/thumbs/0`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/clips/:id/frames/:n', path: (c) => `/api/clips/${c.clipId}/frames/1`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/clips/:id/manifest', path: (c) => `/api/clips/${c.clipId}/manifest`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/clips/:id/original', path: (c) => `/api/clips/${c.clipId}/original`, expect: selfAndStaff(200) },
   { method: 'post', pattern: '/api/auth/sign-out', path: () => '/api/auth/sign-out', expect: all(204) },
 ];
 
@@ -78,6 +119,32 @@ const CREDENTIALS: Record<Exclude<Who, 'anonymous'>, { email: string; password: 
 
 let t: TestApp;
 let ctx: Ctx;
+let server: http.Server;
+let coachClient: Client;
+let clipDir: { dir: string; cleanup: () => Promise<void> };
+
+async function scratchAssessment(): Promise<void> {
+  ctx.scratchAssessmentId = (await coachClient.post(`/api/athletes/${ctx.selfAthleteId}/assessments`, assessment)).body.id;
+}
+
+/** A failed clip row (uploaded by the coach) on the self athlete's assessment, without files. */
+async function scratchClip(): Promise<void> {
+  const at = new Date().toISOString();
+  const coachRow = await t.db('users').where({ email: coach.email }).first();
+  const [row] = await t.db('clips')
+    .insert({ clinic_id: 1, athlete_id: ctx.selfAthleteId, assessment_id: ctx.assessmentId, uploaded_by: coachRow.id, original_name: 'x.mp4', stored_name: 'original.mp4', size_bytes: 1, container: 'mp4', status: 'failed', error: 'test', created_at: at, updated_at: at })
+    .returning('id');
+  ctx.scratchClipId = (row as { id: number }).id;
+}
+
+/** Status of a server-sent-events route: read the head, then hang up. */
+async function streamStatus(c: Client, path: string): Promise<number> {
+  const port = (server.address() as AddressInfo).port;
+  const controller = new AbortController();
+  const res = await fetch(`http://127.0.0.1:${port}${path}`, { headers: { cookie: c.cookieHeader() }, signal: controller.signal });
+  controller.abort();
+  return res.status;
+}
 
 async function clientFor(app: Express, who: Who): Promise<Client> {
   if (who === 'anonymous') return new Client(app);
@@ -91,10 +158,21 @@ beforeAll(async () => {
   const other = await t.db('athletes').where({ email: 'bruno.feldhaus@runner.test' }).first();
   await t.db('mailbox_messages').insert({ to_address: 'a@x.test', from_address: 'b@x.test', subject: 'hi', text: 'hello', received_at: new Date().toISOString() });
   const mail = await t.db('mailbox_messages').first();
-  ctx = { selfAthleteId: self.id, otherAthleteId: other.id, pendingInvitationId: 0, mailId: mail.id };
+  ctx = { selfAthleteId: self.id, otherAthleteId: other.id, pendingInvitationId: 0, mailId: mail.id, assessmentId: 0, otherAssessmentId: 0, clipId: 0, scratchAssessmentId: 0, scratchClipId: 0 };
+  coachClient = await clientFor(t.app, 'coach');
+  ctx.assessmentId = (await coachClient.post(`/api/athletes/${self.id}/assessments`, assessment)).body.id;
+  ctx.otherAssessmentId = (await coachClient.post(`/api/athletes/${other.id}/assessments`, assessment)).body.id;
+  clipDir = await tempDir('access');
+  const file = await makeClip(`${clipDir.dir}/walk.mp4`, { fps: 30, width: 160, height: 90, seconds: 1 });
+  const up = await coachClient.agent.post(`/api/assessments/${ctx.assessmentId}/clips`).set('X-XSRF-TOKEN', await coachClient.xsrf()).attach('file', file);
+  ctx.clipId = up.body.id;
+  await t.worker!.idle();
+  server = http.createServer(t.app).listen(0, '127.0.0.1');
 });
 afterAll(async () => {
+  server?.close();
   await t.close();
+  await clipDir?.cleanup();
 });
 
 describe('access walk: every route × every caller', () => {
@@ -109,7 +187,12 @@ describe('access walk: every route × every caller', () => {
         if (route.pattern === '/api/athletes/:id/invitation') {
           await t.db('invitations').where({ athlete_id: ctx.otherAthleteId }).delete();
         }
+        await route.before?.();
         const path = route.path(ctx);
+        if (route.stream) {
+          expect(await streamStatus(c, path)).toBe(route.expect[who]);
+          return;
+        }
         const res = route.method === 'get' ? await c.get(path) : await c.send(route.method, path, route.body?.(ctx));
         expect(res.status, JSON.stringify(res.body)).toBe(route.expect[who]);
         if (res.status >= 400) expect(res.body.error).toMatchObject({ code: expect.any(String), message: expect.any(String) });

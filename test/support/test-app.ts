@@ -1,3 +1,6 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import request from 'supertest';
 import type { Express } from 'express';
 import pino from 'pino';
@@ -7,6 +10,7 @@ import { createDb, migrate, type Db } from '../../server/db/knex';
 import type { Mailer, MailMessage } from '../../server/mail/mailer';
 import { hashPassword } from '../../server/auth/passwords';
 import { seed } from '../../seeds/demo-scenario';
+import type { Worker } from '../../server/jobs/worker';
 
 /** A mailer that keeps messages in memory, for assertions. */
 export class MemoryMailer implements Mailer {
@@ -34,6 +38,8 @@ export interface TestApp {
   db: Db;
   mailer: MemoryMailer;
   config: Config;
+  /** The in-process job worker. */
+  worker: Worker | null;
   /** Moves the app's clock forward. */
   advance(ms: number): void;
   close(): Promise<void>;
@@ -42,14 +48,15 @@ export interface TestApp {
 /** A fresh app on an in-memory database with the demo scenario and a second clinic. */
 export async function makeTestApp(overrides: Partial<Config> = {}): Promise<TestApp> {
   const base = loadConfig({ DEMO_MODE: 'true', LOG_LEVEL: 'silent', CLIENT_DIR: '' } as NodeJS.ProcessEnv);
-  const config: Config = { ...base, clientDir: null, dbFile: ':memory:', ...overrides };
+  const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'trailframe-test-'));
+  const config: Config = { ...base, clientDir: null, dbFile: ':memory:', uploadsDir, ...overrides };
   const db = createDb(':memory:');
   await migrate(db);
   await seed(db);
   await addOtherClinic(db);
   const mailer = new MemoryMailer();
   let offset = 0;
-  const { app, close } = createApp({ config, db, mailer, logger: pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
+  const { app, close, worker } = createApp({ config, db, mailer, logger: pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
   return {
     app,
     db,
@@ -58,9 +65,11 @@ export async function makeTestApp(overrides: Partial<Config> = {}): Promise<Test
     advance: (ms) => {
       offset += ms;
     },
+    worker,
     async close() {
-      close();
+      await close();
       await db.destroy();
+      fs.rmSync(uploadsDir, { recursive: true, force: true });
     },
   };
 }
@@ -91,6 +100,7 @@ async function addOtherClinic(db: Db): Promise<void> {
 export class Client {
   readonly agent;
   private token = '';
+  private sid = '';
 
   constructor(app: Express) {
     this.agent = request.agent(app);
@@ -136,7 +146,19 @@ export class Client {
   async signIn(email: string, password: string) {
     const res = await this.post('/api/auth/sign-in', { email, password });
     if (res.status !== 200) throw new Error(`sign-in as ${email} failed: ${res.status} ${JSON.stringify(res.body)}`);
+    const sid = ([] as string[]).concat(res.headers['set-cookie'] ?? []).find((c) => c.startsWith('tf.sid='));
+    if (sid) this.sid = sid.split(';')[0]!;
     return res;
+  }
+
+  /** The session cookie, for requests made outside supertest (e.g. server-sent events). */
+  cookieHeader(): string {
+    return this.sid;
+  }
+
+  /** The CSRF token to send with a hand-built request (e.g. a multipart upload). */
+  async xsrf(): Promise<string> {
+    return this.csrf();
   }
 }
 

@@ -1,0 +1,97 @@
+import type { Assessment, AssessmentDetail, SessionUser } from '../../src/contracts/api';
+import { toMetresPerSecond } from '../../src/contracts/assessment';
+import type { Db } from '../db/knex';
+import { isStaff } from '../http/access';
+import { audit } from '../audit/audit-log';
+import { accessibleAthlete } from '../athletes/athlete-access';
+import type { ClipsService } from '../clips/clips-service';
+import { clipsRepository } from '../clips/clips-repository';
+import { assessmentsRepository as repo, type AssessmentRow } from './assessments-repository';
+import type { AssessmentInput, AssessmentPatch } from './assessments-schemas';
+
+/** Dated gait visits of an athlete. Staff write; the athlete reads their own. */
+export function assessmentsService({ db, clips }: { db: Db; clips: ClipsService }) {
+  const now = () => new Date().toISOString();
+
+  async function toApi(user: SessionUser, row: AssessmentRow): Promise<Assessment> {
+    return repo.toApi(row, await repo.clipCount(db, row.id), isStaff(user));
+  }
+
+  function speedColumns(speed: AssessmentInput['speed'] | undefined): Partial<AssessmentRow> {
+    if (speed === undefined) return {};
+    if (speed === null) return { speed_mps: null };
+    return { speed_mps: toMetresPerSecond(speed.value, speed.unit), speed_unit: speed.unit };
+  }
+
+  return {
+    async list(user: SessionUser, athleteId: number): Promise<Assessment[]> {
+      await accessibleAthlete(db, user, athleteId);
+      const rows = await repo.listForAthlete(db, athleteId);
+      return rows.map((r) => repo.toApi(r, Number(r.clip_count), isStaff(user)));
+    },
+
+    async create(user: SessionUser, athleteId: number, input: AssessmentInput): Promise<Assessment> {
+      await accessibleAthlete(db, user, athleteId);
+      const at = now();
+      const id = await db.transaction(async (trx) => {
+        const newId = await repo.insert(trx, {
+          clinic_id: user.clinicId,
+          athlete_id: athleteId,
+          date: input.date,
+          kind: input.kind,
+          surface: input.surface,
+          speed_mps: null,
+          speed_unit: 'kmh',
+          ...speedColumns(input.speed),
+          incline_percent: input.inclinePercent,
+          shoes: input.shoes,
+          camera_notes: input.cameraNotes,
+          notes: input.notes,
+          created_by: user.id,
+          created_at: at,
+          updated_at: at,
+        });
+        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId, action: 'assessment.created', detail: { assessmentId: newId } }, at);
+        return newId;
+      });
+      return toApi(user, (await repo.find(db, user.clinicId, id))!);
+    },
+
+    async get(user: SessionUser, id: number): Promise<AssessmentDetail> {
+      const row = await clips.accessibleAssessment(user, id);
+      const consent = await db('consents').where({ athlete_id: row.athlete_id, kind: 'video_recording' }).orderBy('id', 'desc').first<{ granted: number } | undefined>();
+      return {
+        ...(await toApi(user, row)),
+        clips: await clipsRepository.listForAssessment(db, id),
+        videoConsent: Boolean(consent?.granted),
+      };
+    },
+
+    async update(user: SessionUser, id: number, patch: AssessmentPatch): Promise<Assessment> {
+      const row = await clips.accessibleAssessment(user, id);
+      const changes: Partial<AssessmentRow> = { updated_at: now(), ...speedColumns(patch.speed) };
+      if (patch.date !== undefined) changes.date = patch.date;
+      if (patch.kind !== undefined) changes.kind = patch.kind;
+      if (patch.surface !== undefined) changes.surface = patch.surface;
+      if (patch.inclinePercent !== undefined) changes.incline_percent = patch.inclinePercent;
+      if (patch.shoes !== undefined) changes.shoes = patch.shoes;
+      if (patch.cameraNotes !== undefined) changes.camera_notes = patch.cameraNotes;
+      if (patch.notes !== undefined) changes.notes = patch.notes;
+      await db.transaction(async (trx) => {
+        await repo.update(trx, id, changes);
+        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'assessment.updated', detail: { assessmentId: id, fields: Object.keys(patch) } });
+      });
+      return toApi(user, (await repo.find(db, user.clinicId, id))!);
+    },
+
+    async remove(user: SessionUser, id: number): Promise<void> {
+      const row = await clips.accessibleAssessment(user, id);
+      const clipIds = await clipsRepository.idsForAssessment(db, id);
+      await clips.removeClips(clipIds.map((clipId) => ({ id: clipId, assessment_id: id })));
+      await db('assessments').where({ id }).delete();
+      await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'assessment.deleted', detail: { assessmentId: id, clips: clipIds.length } });
+    },
+  };
+}
+
+export type AssessmentsService = ReturnType<typeof assessmentsService>;

@@ -1,0 +1,102 @@
+import type { Knex } from 'knex';
+import type { Clip } from '../../src/contracts/api';
+import type { ClipStatus, Direction, Side } from '../../src/contracts/assessment';
+
+export interface ClipRow {
+  id: number;
+  clinic_id: number;
+  athlete_id: number;
+  assessment_id: number;
+  uploaded_by: number | null;
+  original_name: string;
+  stored_name: string;
+  size_bytes: number;
+  container: string;
+  status: ClipStatus;
+  progress_done: number | null;
+  progress_total: number | null;
+  error: string | null;
+  near_side: Side;
+  direction: Direction;
+  capture_fps: number | null;
+  fps: number | null;
+  width: number | null;
+  height: number | null;
+  frame_count: number | null;
+  duration_s: number | null;
+  rotation: number | null;
+  codec: string | null;
+  thumb_count: number;
+  thumb_every: number | null;
+  created_at: string;
+  updated_at: string;
+}
+
+type ClipWithName = ClipRow & { uploaded_by_name: string | null };
+
+function withUploader(db: Knex) {
+  return db('clips as c').leftJoin('users as u', 'u.id', 'c.uploaded_by').select('c.*', 'u.name as uploaded_by_name');
+}
+
+/** `clips` rows and their API shape. */
+export const clipsRepository = {
+  find(db: Knex, clinicId: number, id: number): Promise<ClipRow | undefined> {
+    return db<ClipRow>('clips').where({ id, clinic_id: clinicId }).first();
+  },
+
+  findById(db: Knex, id: number): Promise<ClipRow | undefined> {
+    return db<ClipRow>('clips').where({ id }).first();
+  },
+
+  async view(db: Knex, id: number): Promise<Clip | null> {
+    const row = (await withUploader(db).where('c.id', id).first()) as ClipWithName | undefined;
+    return row ? toApi(row) : null;
+  },
+
+  async listForAssessment(db: Knex, assessmentId: number): Promise<Clip[]> {
+    const rows = (await withUploader(db).where('c.assessment_id', assessmentId).orderBy('c.id')) as ClipWithName[];
+    return rows.map(toApi);
+  },
+
+  idsForAssessment(db: Knex, assessmentId: number): Promise<number[]> {
+    return db('clips').where({ assessment_id: assessmentId }).pluck('id');
+  },
+
+  async insert(db: Knex, row: Omit<ClipRow, 'id'>): Promise<number> {
+    const [r] = await db('clips').insert(row).returning('id');
+    return (r as { id: number }).id;
+  },
+
+  async update(db: Knex, id: number, patch: Partial<ClipRow>): Promise<void> {
+    await db('clips').where({ id }).update({ ...patch, updated_at: new Date().toISOString() });
+  },
+};
+
+function toApi(r: ClipWithName): Clip {
+  const extracting = r.status === 'extracting' && r.progress_total;
+  return {
+    id: r.id,
+    assessmentId: r.assessment_id,
+    athleteId: r.athlete_id,
+    originalName: r.original_name,
+    sizeBytes: Number(r.size_bytes),
+    status: r.status,
+    progress: extracting ? { done: r.progress_done ?? 0, total: r.progress_total ?? 0 } : null,
+    error: r.error,
+    nearSide: r.near_side,
+    direction: r.direction,
+    captureFps: r.capture_fps,
+    fps: r.fps,
+    effectiveFps: r.capture_fps ?? r.fps,
+    width: r.width,
+    height: r.height,
+    frameCount: r.frame_count,
+    durationS: r.duration_s,
+    rotation: r.rotation,
+    codec: r.codec,
+    thumbCount: r.thumb_count,
+    thumbEvery: r.thumb_every,
+    uploadedByName: r.uploaded_by_name ?? '',
+    createdAt: r.created_at,
+  };
+}

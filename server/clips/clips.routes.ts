@@ -1,0 +1,193 @@
+import crypto from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
+import multer from 'multer';
+import type { SessionUser } from '../../src/contracts/api';
+import type { Db } from '../db/knex';
+import { AppError, NotFoundError, ValidationError } from '../errors';
+import { currentUser, requireSignedIn } from '../http/access';
+import { IdParam, parse } from '../http/validate';
+import { audit } from '../audit/audit-log';
+import type { MediaStore } from '../storage/media-store';
+import type { ClipEvents } from './clip-events';
+import { ClipPatchBody, MediaIndexParams } from './clips-schemas';
+import { tooLarge, type ClipsService } from './clips-service';
+
+declare module 'express-session' {
+  interface SessionData {
+    /** Clips whose media this session has opened (audited once per session). */
+    viewedClips?: number[];
+  }
+}
+
+export interface ClipsRoutesDeps {
+  db: Db;
+  clips: ClipsService;
+  events: ClipEvents;
+  store: MediaStore;
+  uploadMaxBytes: number;
+}
+
+const IMMUTABLE = 'private, max-age=31536000, immutable';
+/** Refused uploads up to this size are read to the end before answering. */
+const DRAIN_LIMIT = 64 * 1024 * 1024;
+
+/** Upload, settings, live status (server-sent events) and authorised media of clips. */
+export function clipsRoutes(d: ClipsRoutesDeps): Router {
+  const router = Router();
+  const id = (params: unknown, what: string) => {
+    const r = IdParam.safeParse(params);
+    if (!r.success) throw new NotFoundError(what);
+    return r.data.id;
+  };
+
+  const upload = multer({
+    storage: multer.diskStorage({
+      destination: d.store.tmpDir,
+      // Never the client's name: it could hold "../" or odd bytes.
+      filename: (req, _file, cb) => {
+        const name = `${crypto.randomUUID()}.upload`;
+        (req as Request & { uploadTemp?: string }).uploadTemp = path.join(d.store.tmpDir, name);
+        cb(null, name);
+      },
+    }),
+    limits: { fileSize: d.uploadMaxBytes, files: 1, fields: 10, parts: 11, fieldNameSize: 100, fieldSize: 10_000 },
+  }).single('file');
+
+  const receive: RequestHandler = (req, res, next) => {
+    // Whatever happens (refusal, cancel, crash), no temp file outlives the request.
+    res.on('close', () => {
+      const temp = (req as Request & { uploadTemp?: string }).uploadTemp;
+      if (temp) fs.rm(temp, { force: true }, () => undefined);
+    });
+    const declared = Number(req.headers['content-length'] ?? 0);
+    if (declared > d.uploadMaxBytes + 64 * 1024) return refuse(req, res, next, tooLarge(d.uploadMaxBytes));
+    upload(req, res, (err: unknown) => {
+      if (!err) return next();
+      if (err instanceof multer.MulterError) {
+        if (err.code === 'LIMIT_FILE_SIZE') return next(tooLarge(d.uploadMaxBytes));
+        if (err.code === 'LIMIT_FILE_COUNT' || err.code === 'LIMIT_UNEXPECTED_FILE') {
+          return next(new ValidationError('Upload one clip per request, in the form field "file".', [{ path: ['file'], message: 'One clip per request.' }]));
+        }
+        return next(new AppError(400, 'bad_upload', `The upload could not be read (${err.message}).`));
+      }
+      next(err);
+    });
+  };
+
+  /**
+   * Answers a refusal made before the body was read. A small body is read and dropped first, so
+   * the browser gets the answer instead of a reset connection; a large one is cut off
+   * (`Connection: close`) rather than received for nothing.
+   */
+  function refuse(req: Request, res: Response, next: NextFunction, err: unknown): void {
+    if (req.readableEnded) return next(err);
+    const declared = Number(req.headers['content-length'] ?? 0);
+    if (declared > 0 && declared <= DRAIN_LIMIT) {
+      req.on('end', () => next(err));
+      req.on('error', () => next(err));
+      req.resume();
+      return;
+    }
+    res.setHeader('Connection', 'close');
+    next(err);
+  }
+
+  router.post(
+    '/assessments/:id/clips',
+    requireSignedIn,
+    async (req, res, next) => {
+      try {
+        await d.clips.beforeUpload(currentUser(req), id(req.params, 'Assessment'));
+        next();
+      } catch (err) {
+        refuse(req, res, next, err);
+      }
+    },
+    receive,
+    async (req, res) => {
+      if (!req.file) {
+        throw new ValidationError('Choose a clip to upload (multipart form field "file").', [{ path: ['file'], message: 'A clip is required.' }]);
+      }
+      const clip = await d.clips.acceptUpload(currentUser(req), id(req.params, 'Assessment'), req.file);
+      res.status(201).json(clip);
+    },
+  );
+
+  router.get('/assessments/:id/clip-events', requireSignedIn, async (req, res) => {
+    const assessmentId = id(req.params, 'Assessment');
+    const user = currentUser(req);
+    const initial = await d.clips.list(user, assessmentId);
+    res.writeHead(200, {
+      'Content-Type': 'text/event-stream; charset=utf-8',
+      'Cache-Control': 'no-store',
+      Connection: 'keep-alive',
+      'X-Accel-Buffering': 'no',
+    });
+    const send = (event: string, data: unknown) => res.write(`event: ${event}\ndata: ${JSON.stringify(data)}\n\n`);
+    res.write('retry: 3000\n\n');
+    for (const clip of initial) send('clip', clip);
+    const unsubscribe = d.events.subscribe(assessmentId, (clipId) => {
+      d.clips
+        .get(user, clipId)
+        .then((clip) => send('clip', clip))
+        .catch(() => send('clip-deleted', { id: clipId }));
+    });
+    const ping = setInterval(() => res.write(': keep-alive\n\n'), 15_000);
+    req.on('close', () => {
+      clearInterval(ping);
+      unsubscribe();
+    });
+  });
+
+  router.get('/clips/:id', requireSignedIn, async (req, res) => {
+    res.json(await d.clips.get(currentUser(req), id(req.params, 'Clip')));
+  });
+
+  router.patch('/clips/:id', requireSignedIn, async (req, res) => {
+    const clipId = id(req.params, 'Clip');
+    const body = parse(ClipPatchBody, req.body);
+    res.json(await d.clips.update(currentUser(req), clipId, body));
+  });
+
+  router.delete('/clips/:id', requireSignedIn, async (req, res) => {
+    await d.clips.remove(currentUser(req), id(req.params, 'Clip'));
+    res.status(204).end();
+  });
+
+  router.post('/clips/:id/retry', requireSignedIn, async (req, res) => {
+    res.status(202).json(await d.clips.retry(currentUser(req), id(req.params, 'Clip')));
+  });
+
+  async function auditView(req: Request, user: SessionUser, clipId: number, athleteId: number): Promise<void> {
+    const seen = req.session.viewedClips ?? [];
+    if (seen.includes(clipId)) return;
+    req.session.viewedClips = [...seen.slice(-199), clipId];
+    await audit(d.db, { clinicId: user.clinicId, actorId: user.id, athleteId, action: 'media.viewed', detail: { clipId } });
+  }
+
+  const sendMedia = (kind: 'frame' | 'thumb' | 'poster' | 'manifest' | 'original'): RequestHandler =>
+    async (req, res, next) => {
+      const params = MediaIndexParams.safeParse({ n: 0, ...req.params });
+      if (!params.success) throw new NotFoundError('File');
+      const user = currentUser(req);
+      const { file, row } = await d.clips.mediaPath(user, params.data.id, kind, params.data.n);
+      await auditView(req, user, row.id, row.athlete_id);
+      const headers: Record<string, string> = { 'Cache-Control': kind === 'original' || kind === 'manifest' ? 'private, no-cache' : IMMUTABLE };
+      if (kind === 'original') {
+        headers['Content-Disposition'] = `attachment; filename="${row.original_name.replace(/[^\w.\- ]/g, '_')}"`;
+      }
+      res.sendFile(file, { headers, cacheControl: false, dotfiles: 'deny', lastModified: false }, (err) => {
+        if (err && !res.headersSent) next(new NotFoundError('File'));
+      });
+    };
+
+  router.get('/clips/:id/poster', requireSignedIn, sendMedia('poster'));
+  router.get('/clips/:id/thumbs/:n', requireSignedIn, sendMedia('thumb'));
+  router.get('/clips/:id/frames/:n', requireSignedIn, sendMedia('frame'));
+  router.get('/clips/:id/manifest', requireSignedIn, sendMedia('manifest'));
+  router.get('/clips/:id/original', requireSignedIn, sendMedia('original'));
+
+  return router;
+}
