@@ -102,7 +102,8 @@ export class Client {
   private token = '';
   private sid = '';
 
-  constructor(app: Express) {
+  /** An Express app (in process) or a base URL of a running server. */
+  constructor(app: Express | string) {
     this.agent = request.agent(app);
   }
 

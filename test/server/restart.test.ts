@@ -1,0 +1,116 @@
+/**
+ * Durability: the server is killed with SIGKILL (with its ffmpeg) while extracting frames; after a
+ * restart the expired lease is claimed again and the clip ends `ready` with every frame, as
+ * counted by ffprobe -count_frames (outside reference).
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import fs from 'node:fs';
+import net from 'node:net';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { Client } from '../support/test-app';
+import { createDb, migrate } from '../../server/db/knex';
+import { DEMO_SIGN_INS, seed } from '../../seeds/demo-scenario';
+import { ffprobeCounted, makeClip, tempDir } from './media/fixtures';
+
+const [, coach] = DEMO_SIGN_INS;
+let dir: string;
+let cleanup: () => Promise<void>;
+let port: number;
+let child: ChildProcess | null = null;
+
+function freePort(): Promise<number> {
+  return new Promise((resolve) => {
+    const s = net.createServer().listen(0, '127.0.0.1', () => {
+      const p = (s.address() as net.AddressInfo).port;
+      s.close(() => resolve(p));
+    });
+  });
+}
+
+/** Starts `server/main.ts` in its own process group (so SIGKILL takes ffmpeg down with it). */
+async function startServer(): Promise<void> {
+  child = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], {
+    detached: true,
+    stdio: ['ignore', 'pipe', 'pipe'],
+    env: {
+      ...process.env,
+      PORT: String(port),
+      DB_FILE: path.join(dir, 'db.sqlite'),
+      UPLOADS_DIR: path.join(dir, 'uploads'),
+      CLIENT_DIR: '',
+      FAKE_SMTP_PORT: '0',
+      LOG_LEVEL: 'warn',
+      JOB_LEASE_SECONDS: '2',
+    },
+  });
+  const started = Date.now();
+  for (;;) {
+    const ok = await fetch(`http://127.0.0.1:${port}/api/health`).then((r) => r.ok).catch(() => false);
+    if (ok) return;
+    if (Date.now() - started > 30_000) throw new Error('server did not start');
+    await new Promise((r) => setTimeout(r, 200));
+  }
+}
+
+function killHard(): void {
+  if (child?.pid) process.kill(-child.pid, 'SIGKILL');
+  child = null;
+}
+
+beforeAll(async () => {
+  ({ dir, cleanup } = await tempDir('restart'));
+  const db = createDb(path.join(dir, 'db.sqlite'));
+  await migrate(db);
+  await seed(db);
+  await db.destroy();
+  port = await freePort();
+});
+afterAll(async () => {
+  killHard();
+  await cleanup?.();
+});
+
+describe('kill -9 during extraction', () => {
+  it('restart resumes the job and the clip ends ready with every frame', async () => {
+    const clipFile = await makeClip(path.join(dir, 'long.mp4'), { fps: 120, width: 1280, height: 720, seconds: 6 });
+    await startServer();
+    const c = new Client(`http://127.0.0.1:${port}`);
+    await c.signIn(coach.email, coach.password);
+    const athletes = (await c.get('/api/athletes')).body.athletes as { id: number; lastName: string }[];
+    const ada = athletes.find((a) => a.lastName === 'Kestrel')!;
+    const assessment = await c.post(`/api/athletes/${ada.id}/assessments`, { date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null });
+    const up = await c.agent.post(`/api/assessments/${assessment.body.id}/clips`).set('X-XSRF-TOKEN', await c.xsrf()).attach('file', clipFile);
+    expect(up.status).toBe(201);
+    const clipId = up.body.id as number;
+
+    // Wait until frames are being written, then pull the plug.
+    const t0 = Date.now();
+    for (;;) {
+      const clip = (await c.get(`/api/clips/${clipId}`)).body;
+      if (clip.status === 'extracting' && clip.progress?.done > 0) break;
+      if (clip.status === 'ready') throw new Error('extraction finished before the kill; use a longer clip');
+      if (Date.now() - t0 > 60_000) throw new Error(`never saw extraction (status ${clip.status})`);
+      await new Promise((r) => setTimeout(r, 50));
+    }
+    killHard();
+
+    await startServer();
+    const again = new Client(`http://127.0.0.1:${port}`);
+    await again.signIn(coach.email, coach.password);
+    const t1 = Date.now();
+    let clip;
+    for (;;) {
+      clip = (await again.get(`/api/clips/${clipId}`)).body;
+      if (clip.status === 'ready' || clip.status === 'failed') break;
+      if (Date.now() - t1 > 120_000) throw new Error(`clip stuck in ${clip.status}`);
+      await new Promise((r) => setTimeout(r, 250));
+    }
+    const ref = await ffprobeCounted(clipFile);
+    expect(clip.status).toBe('ready');
+    expect(clip.frameCount).toBe(ref.nbReadFrames);
+    const clipDir = path.join(dir, 'uploads', 'clips', String(clipId));
+    expect(fs.readdirSync(path.join(clipDir, 'frames'))).toHaveLength(ref.nbReadFrames);
+    expect(fs.readdirSync(clipDir).filter((f) => f.startsWith('.extract-'))).toEqual([]);
+  }, 240_000);
+});
