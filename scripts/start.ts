@@ -1,13 +1,14 @@
 /**
  * `npm start`: migrate, seed the demo once, build the app when its sources changed, serve app +
- * API on PORT (3000), print the URL and the demo sign-ins. Runs after scripts/bootstrap.mjs.
+ * API on PORT (3000) from the server bundle, print the URL and the demo sign-ins. Runs after
+ * scripts/bootstrap.mjs.
  */
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { loadConfig } from '../server/config';
 import { createDb, migrate } from '../server/db/knex';
-import { startServer } from '../server/main';
+import { buildServer, SERVER_BUNDLE } from './build-server';
 import { DEMO_SIGN_INS, seed } from '../seeds/demo-scenario';
 
 const root = process.cwd();
@@ -43,17 +44,31 @@ async function main(): Promise<void> {
   const applied = await migrate(db);
   console.log(`[start] database ${path.relative(root, config.dbFile)}: ${applied.length ? `applied ${applied.length} migration(s)` : 'up to date'}`);
   if (config.demoMode) {
-    const seeded = await seed(db);
+    const seeded = await seed(db, { uploadsDir: config.uploadsDir, log: (m) => console.log(`[start] ${m}`) });
     console.log(seeded ? '[start] demo scenario seeded' : '[start] demo data already present (not seeded again)');
   }
   await db.destroy();
   if (config.clientDir) buildIfStale(config.clientDir);
+  await buildServer();
 
-  const server = await startServer(config);
-  const lines = [
-    '',
-    `Trailframe is running at ${config.publicUrl === `http://localhost:${config.port}` ? server.url : config.publicUrl}`,
-  ];
+  // The server runs as plain Node on the bundle (no TypeScript loader in memory).
+  const server = spawn(process.execPath, ['--enable-source-maps', SERVER_BUNDLE], { stdio: 'inherit', env: process.env });
+  const stop = (signal: NodeJS.Signals) => server.kill(signal);
+  process.on('SIGINT', stop);
+  process.on('SIGTERM', stop);
+  server.on('exit', (code) => process.exit(code ?? 0));
+
+  const url = `http://localhost:${config.port}`;
+  for (let i = 0; ; i++) {
+    if (await fetch(`${url}/api/health`).then((r) => r.ok).catch(() => false)) break;
+    if (i > 300) {
+      console.error('[start] the server did not answer within a minute');
+      server.kill('SIGTERM');
+      return;
+    }
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  const lines = ['', `Trailframe is running at ${config.publicUrl}`];
   if (config.demoMode) {
     lines.push('', 'Demo sign-ins (invented people):');
     for (const s of DEMO_SIGN_INS) lines.push(`  ${s.role.padEnd(8)} ${s.email.padEnd(32)} ${s.password}`);
@@ -61,11 +76,6 @@ async function main(): Promise<void> {
   }
   lines.push('Press Ctrl+C to stop.', '');
   console.log(lines.join('\n'));
-  const stop = () => {
-    server.stop().finally(() => process.exit(0));
-  };
-  process.on('SIGINT', stop);
-  process.on('SIGTERM', stop);
 }
 
 main().catch((err: Error) => {

@@ -82,8 +82,44 @@ const ATHLETES: DemoAthlete[] = [
   },
 ];
 
+interface DemoAssessment {
+  athlete: string;
+  date: string;
+  kind: 'baseline' | 'retest';
+  surface: 'treadmill' | 'road' | 'trail' | 'track';
+  speedKmh: number | null;
+  inclinePercent: number | null;
+  shoes: string;
+  cameraNotes: string;
+  notes: string;
+}
+
+const ASSESSMENTS: DemoAssessment[] = [
+  {
+    athlete: 'Kestrel', date: '2026-10-06', kind: 'baseline', surface: 'treadmill', speedKmh: 10.8, inclinePercent: 1,
+    shoes: 'Cushioned trail shoe, 6 mm drop', cameraNotes: 'Phone on tripod, 3 m from belt, hip height, 120 fps',
+    notes: 'Short stride, little hip extension at toe-off; low back arches late in stance.',
+  },
+  {
+    athlete: 'Kestrel', date: '2026-11-24', kind: 'retest', surface: 'treadmill', speedKmh: 10.8, inclinePercent: 1,
+    shoes: 'Cushioned trail shoe, 6 mm drop', cameraNotes: 'Same set-up as baseline (tape marks on the floor)',
+    notes: 'After six weeks of hip-extension drills and staged hamstring loading.',
+  },
+  {
+    athlete: 'Feldhaus', date: '2026-11-17', kind: 'baseline', surface: 'treadmill', speedKmh: 11.5, inclinePercent: 0,
+    shoes: 'Road racer', cameraNotes: 'Tripod, 4 m, 240 fps slow motion', notes: 'Back ache after 25 km; check trunk lean.',
+  },
+];
+
+/** Options of {@link seed}. */
+export interface SeedOptions {
+  /** Where media lives; when set, the demo clips are generated and queued for processing. */
+  uploadsDir?: string;
+  log?: (message: string) => void;
+}
+
 /** Inserts the demo scenario unless a clinic already exists. Returns whether it seeded. */
-export async function seed(knex: Knex): Promise<boolean> {
+export async function seed(knex: Knex, opts: SeedOptions = {}): Promise<boolean> {
   const existing = await knex('clinics').first('id');
   if (existing) return false;
   const at = new Date().toISOString();
@@ -137,7 +173,31 @@ export async function seed(knex: Knex): Promise<boolean> {
         ]);
       }
       await trx('audit_log').insert({ clinic_id: clinicId, actor_id: userIds[a.coach], athlete_id: athleteId, action: 'athlete.created', detail: JSON.stringify({ seed: true }), at });
+      for (const s of ASSESSMENTS.filter((x) => x.athlete === a.last)) {
+        await trx('assessments').insert({
+          clinic_id: clinicId,
+          athlete_id: athleteId,
+          date: s.date,
+          kind: s.kind,
+          surface: s.surface,
+          speed_mps: s.speedKmh === null ? null : s.speedKmh / 3.6,
+          speed_unit: 'kmh',
+          incline_percent: s.inclinePercent,
+          shoes: s.shoes,
+          camera_notes: s.cameraNotes,
+          notes: s.notes,
+          created_by: userIds[a.coach],
+          created_at: at,
+          updated_at: at,
+        });
+      }
     }
   });
+  if (opts.uploadsDir) await seedDemoClips(knex, opts.uploadsDir, opts.log ?? (() => undefined));
   return true;
+}
+
+/** Generates the demo runner clips and queues them like uploads (see scripts/demo-clip). */
+async function seedDemoClips(_knex: Knex, _uploadsDir: string, _log: (m: string) => void): Promise<void> {
+  // Filled in once the demo-clip generator lands.
 }

@@ -1,12 +1,15 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { fileURLToPath } from 'node:url';
 import knexFactory, { type Knex } from 'knex';
 
 export type Db = Knex;
 
 const here = path.dirname(fileURLToPath(import.meta.url));
-/** Folder of the timestamped migrations. */
+/**
+ * Folder of the timestamped migrations: two levels up from this file, which holds both for
+ * `server/db/knex.ts` and for the bundle at `dist/server/main.mjs`.
+ */
 export const MIGRATIONS_DIR = path.resolve(here, '../../migrations');
 
 /**
@@ -28,7 +31,8 @@ class TsMigrationSource implements Knex.MigrationSource<string> {
   }
 
   getMigration(file: string): Promise<Knex.Migration> {
-    return import(pathToFileURL(path.join(this.dir, file)).href) as Promise<Knex.Migration>;
+    // A template-literal import, so esbuild also bundles every migration into the server bundle.
+    return import(`../../migrations/${file.replace(/\.ts$/, '')}.ts`) as Promise<Knex.Migration>;
   }
 }
 

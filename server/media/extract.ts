@@ -4,6 +4,7 @@ import ffmpeg from 'fluent-ffmpeg';
 import {
   DEFAULT_LONG_SIDE,
   DEFAULT_QUALITY,
+  DEFAULT_SCALE_FLAGS,
   DEFAULT_THUMB_LONG_SIDE,
   THUMB_QUALITY,
   filterGraph,
@@ -36,7 +37,7 @@ export interface ExtractOptions {
   probe?: VideoProbe;
   /** Decoder threads (`-threads` on the input); default: ffmpeg's automatic choice. */
   threads?: number;
-  /** swscale flags for the working-size scale (default `bicubic`). */
+  /** swscale flags for the working-size scale (default {@link DEFAULT_SCALE_FLAGS}). */
   scaleFlags?: string;
 }
 
@@ -67,7 +68,7 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
     if (opts.threads !== undefined) inputOptions.push('-threads', String(opts.threads));
     const command = ffmpeg(run.input)
       .inputOptions(inputOptions)
-      .complexFilter(filterGraph(run.frame, run.thumb, run.every, opts.scaleFlags ?? 'bicubic'))
+      .complexFilter(filterGraph(run.frame, run.thumb, run.every, opts.scaleFlags ?? DEFAULT_SCALE_FLAGS))
       .output(path.join(run.staging, FRAMES_DIR, '%06d.jpg'))
       .outputOptions(['-map', '[frames]', '-fps_mode', 'passthrough', '-c:v', 'mjpeg', '-q:v', String(run.quality), '-f', 'image2'])
       .output(path.join(run.staging, THUMBS_DIR, '%06d.jpg'))

@@ -56,12 +56,14 @@ function leftovers(): { tmp: string[]; clipDirs: string[] } {
 describe('assessments', () => {
   it('stores the belt speed in m/s (10.8 km/h = 3.0 m/s by definition of the units) and lists newest first', async () => {
     const list = await c.get(`/api/athletes/${adaId}/assessments`);
-    expect(list.body.assessments[0]).toMatchObject({ date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speedUnit: 'kmh', inclinePercent: 1 });
-    expect(list.body.assessments[0].speedMps).toBeCloseTo(3.0, 10);
+    expect(list.body.assessments.find((x: { id: number }) => x.id === assessmentId)).toMatchObject({ date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speedUnit: 'kmh', inclinePercent: 1 });
+    expect(list.body.assessments.find((x: { id: number }) => x.id === assessmentId).speedMps).toBeCloseTo(3.0, 10);
     const pace = await c.post(`/api/athletes/${adaId}/assessments`, { date: '2026-12-01', kind: 'retest', surface: 'road', speed: { value: 300, unit: 's_per_km' }, inclinePercent: null, shoes: null, cameraNotes: null, notes: null });
     expect(pace.body.speedMps).toBeCloseTo(1000 / 300, 10); // 5:00 min/km
     const again = await c.get(`/api/athletes/${adaId}/assessments`);
-    expect(again.body.assessments.map((a: { date: string }) => a.date)).toEqual(['2026-12-01', '2026-11-30']);
+    const dates = again.body.assessments.map((a: { date: string }) => a.date);
+    expect(dates[0]).toBe('2026-12-01');
+    expect(dates).toEqual([...dates].sort().reverse());
     await c.delete(`/api/assessments/${pace.body.id}`);
   });
 
