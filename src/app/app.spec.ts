@@ -2,7 +2,6 @@ import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { signal } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
-import { provideNativeDateAdapter } from '@angular/material/core';
 import { Router, provideRouter, withComponentInputBinding } from '@angular/router';
 import { of, throwError } from 'rxjs';
 import { HttpErrorResponse } from '@angular/common/http';
@@ -12,6 +11,7 @@ import { routes } from './app.routes';
 import { AuthApi } from './core/auth-api';
 import { AuthStore } from './core/auth-store';
 import { ConfigStore } from './core/config-store';
+import { provideIsoDateAdapter } from './shared/iso-date-adapter';
 
 const athlete: SessionUser = {
   id: 11,
@@ -29,7 +29,7 @@ async function boot(user: SessionUser | null, url: string, demoMode = false) {
       provideRouter(routes, withComponentInputBinding()),
       provideHttpClient(),
       provideHttpClientTesting(),
-      provideNativeDateAdapter(),
+      provideIsoDateAdapter(),
       {
         provide: AuthApi,
         useValue: {

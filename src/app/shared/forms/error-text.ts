@@ -43,7 +43,7 @@ export function errorText(
     case 'futureMonth':
       return `${label} cannot be after this month`;
     case 'matDatepickerParse':
-      return 'Enter a valid date';
+      return 'Enter a real date as YYYY-MM-DD, e.g. 1990-04-05';
     case 'matDatepickerMin':
       return `${label} is too early`;
     case 'matDatepickerMax':

@@ -1,9 +1,9 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
-import { provideNativeDateAdapter } from '@angular/material/core';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import type { AthleteDetail } from '../../../../contracts/api';
+import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
 import { IntakeForm } from './intake-form';
 import { IntakeFormGroup } from './intake-form-model';
 
@@ -50,7 +50,7 @@ describe('IntakeForm', () => {
       providers: [
         provideHttpClient(),
         provideHttpClientTesting(),
-        provideNativeDateAdapter(),
+        provideIsoDateAdapter(),
         { provide: MatSnackBar, useValue: snackBar },
       ],
     });
@@ -159,5 +159,9 @@ describe('IntakeForm', () => {
     fixture.componentRef.setInput('athlete', detail({ firstName: 'Adah' }));
     await fixture.whenStable();
     expect(form.controls.goalEvent.value).toBe('Trail 30 km');
+  });
+
+  it('shows dates as YYYY-MM-DD', () => {
+    expect(element.querySelector<HTMLInputElement>('input[formcontrolname="dateOfBirth"]')!.value).toBe('1991-04-02');
   });
 });
