@@ -1,4 +1,5 @@
 import { Routes } from '@angular/router';
+import { leaveGuard } from '../../core/leave-guard';
 
 /** `/athletes` (owner and coach). */
 export default [
@@ -15,6 +16,7 @@ export default [
   {
     path: ':id',
     title: 'Athlete · Trailframe',
+    canDeactivate: [leaveGuard],
     loadComponent: () =>
       import('./athlete-profile/athlete-profile').then((m) => m.AthleteProfile),
   },

@@ -1,4 +1,5 @@
 import { Routes } from '@angular/router';
+import { leaveGuard } from '../../core/leave-guard';
 
 /** `/portal` (athlete): their home and their own profile. */
 export default [
@@ -10,6 +11,7 @@ export default [
   {
     path: 'profile',
     title: 'My profile · Trailframe',
+    canDeactivate: [leaveGuard],
     loadComponent: () => import('./portal-profile/portal-profile').then((m) => m.PortalProfile),
   },
 ] satisfies Routes;

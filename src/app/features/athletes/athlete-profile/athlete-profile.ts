@@ -1,5 +1,5 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, viewChild } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
@@ -13,6 +13,7 @@ import { RouterLink } from '@angular/router';
 import { throwError } from 'rxjs';
 import type { AthleteDetail } from '../../../../contracts/api';
 import { errorMessage, errorStatus } from '../../../core/api-error';
+import { LeaveGuarded, LeaveWarning, UNSAVED_CHANGES_WARNING, warnBeforeUnload } from '../../../core/leave-guard';
 import { ageOn } from '../../../shared/dates';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AthleteEditDialog } from '../athlete-edit-dialog/athlete-edit-dialog';
@@ -39,8 +40,9 @@ import { fullName } from '../roster';
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './athlete-profile.html',
   styleUrl: './athlete-profile.scss',
+  host: { '(window:beforeunload)': 'onBeforeUnload($event)' },
 })
-export class AthleteProfile {
+export class AthleteProfile implements LeaveGuarded {
   private readonly api = inject(AthletesApi);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
@@ -63,6 +65,7 @@ export class AthleteProfile {
   });
   protected readonly notFound = computed(() => errorStatus(this.athlete.error()) === 404);
   protected readonly errorMessage = errorMessage;
+  private readonly intakeForm = viewChild(IntakeForm);
 
   constructor() {
     const title = inject(Title);
@@ -70,6 +73,14 @@ export class AthleteProfile {
       const name = this.name();
       if (name) title.setTitle(`${name} · Trailframe`);
     });
+  }
+
+  leaveWarning(): LeaveWarning | null {
+    return this.intakeForm()?.dirty() ? UNSAVED_CHANGES_WARNING : null;
+  }
+
+  protected onBeforeUnload(event: BeforeUnloadEvent): void {
+    warnBeforeUnload(event, this.leaveWarning());
   }
 
   protected editDetails(): void {

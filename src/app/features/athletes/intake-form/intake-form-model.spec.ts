@@ -4,6 +4,7 @@ import type { AthleteDetail } from '../../../../contracts/api';
 import { LIMITS } from '../../../../contracts/intake';
 import {
   IntakeFormValue,
+  convertDistance,
   createInjuryRow,
   createIntakeForm,
   createPainRow,
@@ -132,6 +133,31 @@ describe('formValueToIntake', () => {
       pain: d.pain,
       consents: { videoRecording: true, shareStills: false },
     });
+  });
+});
+
+describe('convertDistance', () => {
+  // 1 mi = 1.609344 km exactly (international mile); expected values worked by hand [calc].
+  it('converts kilometres to miles and back, rounded to 0.1', () => {
+    expect(convertDistance(40, 'km', 'mi')).toBe(24.9); // 40 / 1.609344 = 24.855
+    expect(convertDistance(42.195, 'km', 'mi')).toBe(26.2); // 26.219
+    expect(convertDistance(10, 'mi', 'km')).toBe(16.1); // 16.093
+    expect(convertDistance(26.2, 'mi', 'km')).toBe(42.2); // 42.165
+    expect(convertDistance(0, 'mi', 'km')).toBe(0);
+  });
+
+  it('leaves the same unit, empty fields and non-numbers alone', () => {
+    expect(convertDistance(12.34, 'km', 'km')).toBe(12.34);
+    expect(convertDistance(null, 'km', 'mi')).toBeNull();
+    expect(convertDistance(Number.NaN, 'km', 'mi')).toBeNaN();
+  });
+
+  it('stays close to the first value after a round trip', () => {
+    // Worst case: 0.05 mi of rounding (0.08 km) plus 0.05 km of rounding on the way back.
+    for (const km of [5, 21.1, 63.7, 120, 399.9]) {
+      const back = convertDistance(convertDistance(km, 'km', 'mi'), 'mi', 'km')!;
+      expect(Math.abs(back - km)).toBeLessThanOrEqual(0.131);
+    }
   });
 });
 

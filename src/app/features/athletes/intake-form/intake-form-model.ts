@@ -24,6 +24,7 @@ import {
   SURFACES,
   Surface,
   fromKilometres,
+  toKilometres,
 } from '../../../../contracts/intake';
 import { parseIsoDate, toIsoDate } from '../../../shared/dates';
 import { notFutureDate, pastMonth } from '../../../shared/forms/validators';
@@ -63,6 +64,15 @@ export type IntakeFormValue = ReturnType<IntakeFormGroup['getRawValue']>;
 /** Largest distance accepted for `unit`, from a limit that is defined in kilometres. */
 export function distanceMax(limitKm: { max: number }, unit: DistanceUnit): number {
   return fromKilometres(limitKm.max, unit);
+}
+
+/**
+ * A distance typed in `from` expressed in `to` (1 mi = 1.609344 km), rounded to 0.1 as the form
+ * shows it. The same unit, an empty field or a non-number leave the value as it is.
+ */
+export function convertDistance(value: number | null, from: DistanceUnit, to: DistanceUnit): number | null {
+  if (value === null || value === undefined || !Number.isFinite(value) || from === to) return value;
+  return fromKilometres(toKilometres(value, from), to);
 }
 
 /**

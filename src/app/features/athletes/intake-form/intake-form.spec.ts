@@ -164,4 +164,29 @@ describe('IntakeForm', () => {
   it('shows dates as YYYY-MM-DD', () => {
     expect(element.querySelector<HTMLInputElement>('input[formcontrolname="dateOfBirth"]')!.value).toBe('1991-04-02');
   });
+
+  it('converts the distances already typed when the unit is switched', async () => {
+    const toggle = (label: string) =>
+      [...element.querySelectorAll<HTMLButtonElement>('mat-button-toggle button')].find((b) =>
+        b.textContent?.includes(label),
+      )!;
+    toggle('Miles').click();
+    await fixture.whenStable();
+    // 40 km / 1.609344 = 24.85 mi; 16 km = 9.94 mi [calc]
+    expect(form.controls.weeklyDistance.value).toBe(24.9);
+    expect(form.controls.longestRecentRun.value).toBe(9.9);
+    expect(element.textContent).toContain('mi / week');
+    toggle('Kilometres').click();
+    await fixture.whenStable();
+    expect(form.controls.weeklyDistance.value).toBe(40.1); // 24.9 mi = 40.07 km
+    expect(form.controls.longestRecentRun.value).toBe(15.9); // 9.9 mi = 15.93 km
+  });
+
+  it('does not convert a record that arrives in miles', async () => {
+    fixture.componentRef.setInput('athlete', detail({ id: 10, distanceUnit: 'mi', weeklyDistance: 30, longestRecentRun: 12 }));
+    await fixture.whenStable();
+    expect(form.controls.distanceUnit.value).toBe('mi');
+    expect(form.controls.weeklyDistance.value).toBe(30);
+    expect(form.controls.longestRecentRun.value).toBe(12);
+  });
 });

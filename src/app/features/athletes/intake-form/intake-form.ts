@@ -36,6 +36,7 @@ import {
   BODY_SIDES,
   BODY_SIDE_LABELS,
   BodyRegion,
+  DistanceUnit,
   INJURY_STATUSES,
   INJURY_STATUS_LABELS,
   LIMITS,
@@ -52,6 +53,7 @@ import { AthletesApi } from '../athletes-api';
 import {
   createInjuryRow,
   createIntakeForm,
+  convertDistance,
   createPainRow,
   detailToFormValue,
   distanceMax,
@@ -115,6 +117,10 @@ export class IntakeForm {
   protected readonly problems = signal<string[]>([]);
   protected readonly painMatcher = new DuplicateRegionMatcher(this.form.controls.pain);
   private loadedId: number | null = null;
+  /** The unit the distance fields currently hold their numbers in. */
+  private unitShown: DistanceUnit = 'km';
+  /** True while `load` fills the form (a loaded unit is not a switch to convert). */
+  private loading = false;
 
   /** Re-read on every form event (value, status, pristine, touched) so the template stays current. */
   private readonly snapshot = toSignal(
@@ -131,7 +137,8 @@ export class IntakeForm {
   protected readonly usedPainRegions = computed(
     () => new Set(this.formValue().pain.map((p) => p.region)),
   );
-  protected readonly dirty = computed(() => this.snapshot().dirty);
+  /** Whether the form holds edits not saved yet (pages use it to warn before leaving). */
+  readonly dirty = computed(() => this.snapshot().dirty);
 
   protected readonly today = new Date();
   protected readonly thisMonth = toIsoMonth(this.today);
@@ -158,10 +165,19 @@ export class IntakeForm {
         if (athlete.id !== this.loadedId || !this.form.dirty) this.load(athlete);
       });
     });
-    // Distance limits depend on the unit.
-    this.form.controls.distanceUnit.valueChanges.pipe(takeUntilDestroyed()).subscribe(() => {
-      this.form.controls.weeklyDistance.updateValueAndValidity();
-      this.form.controls.longestRecentRun.updateValueAndValidity();
+    // Switching km ↔ mi converts what is already typed (loading a record sets both at once and
+    // is not a switch); the distance limits depend on the unit either way.
+    this.form.controls.distanceUnit.valueChanges.pipe(takeUntilDestroyed()).subscribe((unit) => {
+      const from = this.unitShown;
+      this.unitShown = unit;
+      const { weeklyDistance, longestRecentRun } = this.form.controls;
+      if (!this.loading && from !== unit) {
+        weeklyDistance.setValue(convertDistance(weeklyDistance.value, from, unit));
+        longestRecentRun.setValue(convertDistance(longestRecentRun.value, from, unit));
+      } else {
+        weeklyDistance.updateValueAndValidity();
+        longestRecentRun.updateValueAndValidity();
+      }
     });
   }
 
@@ -253,7 +269,13 @@ export class IntakeForm {
 
   private load(athlete: AthleteDetail): void {
     this.loadedId = athlete.id;
-    setIntakeFormValue(this.form, this.fb, detailToFormValue(athlete));
+    this.loading = true;
+    try {
+      setIntakeFormValue(this.form, this.fb, detailToFormValue(athlete));
+    } finally {
+      this.loading = false;
+    }
+    this.unitShown = this.form.controls.distanceUnit.value;
     this.problems.set([]);
   }
 

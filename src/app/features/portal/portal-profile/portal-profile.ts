@@ -7,6 +7,7 @@ import {
   inject,
   signal,
   untracked,
+  viewChild,
 } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
@@ -22,6 +23,7 @@ import type { AthleteDetail } from '../../../../contracts/api';
 import { LIMITS } from '../../../../contracts/intake';
 import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
 import { AuthStore } from '../../../core/auth-store';
+import { LeaveGuarded, LeaveWarning, UNSAVED_CHANGES_WARNING, warnBeforeUnload } from '../../../core/leave-guard';
 import { ageOn } from '../../../shared/dates';
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
@@ -48,8 +50,9 @@ import { IntakeForm } from '../../athletes/intake-form/intake-form';
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './portal-profile.html',
   styleUrl: './portal-profile.scss',
+  host: { '(window:beforeunload)': 'onBeforeUnload($event)' },
 })
-export class PortalProfile {
+export class PortalProfile implements LeaveGuarded {
   private readonly api = inject(AthletesApi);
   private readonly auth = inject(AuthStore);
   private readonly snackBar = inject(MatSnackBar);
@@ -72,6 +75,7 @@ export class PortalProfile {
   protected readonly nameProblem = signal<string | null>(null);
   protected readonly errorText = errorText;
   protected readonly errorMessage = errorMessage;
+  private readonly intakeForm = viewChild(IntakeForm);
 
   constructor() {
     effect(() => {
@@ -82,6 +86,14 @@ export class PortalProfile {
         }
       });
     });
+  }
+
+  leaveWarning(): LeaveWarning | null {
+    return this.nameForm.dirty || this.intakeForm()?.dirty() ? UNSAVED_CHANGES_WARNING : null;
+  }
+
+  protected onBeforeUnload(event: BeforeUnloadEvent): void {
+    warnBeforeUnload(event, this.leaveWarning());
   }
 
   protected async saveName(): Promise<void> {
