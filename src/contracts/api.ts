@@ -235,3 +235,7 @@ export interface AssessmentDetail extends Assessment {
   /** Whether the athlete's video consent is in force (uploads need it). */
   videoConsent: boolean;
 }
+
+// ─── Annotations and measures ─────────────────────────────────────────────────────────────
+
+export type { ClipAnnotations, ClipAnnotationsWrite, FrameLandmarks, FramePoint, GaitEventMark, ScaleBar } from './annotations';

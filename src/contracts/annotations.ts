@@ -1,0 +1,87 @@
+/**
+ * What a coach marks on a clip: landmarks per frame and side, gait events, and a scale bar.
+ * Shared by client, server and `src/kinematics`. Coordinates are fractions of the working frame's
+ * width and height (0–1), origin top-left, exactly as the coach saw the frame; conversion to
+ * y-up metres happens only inside `src/kinematics`.
+ */
+import type { Side } from './assessment';
+
+/** Landmarks in the order the placing tool advances through them. */
+export const LANDMARKS = ['shoulder', 'hip', 'knee', 'ankle', 'heel', 'toe'] as const;
+export type LandmarkName = (typeof LANDMARKS)[number];
+
+/** On-screen names with the marker site a tape marker goes on (REFERENCES.md camera line). */
+export const LANDMARK_LABELS: Record<LandmarkName, string> = {
+  shoulder: 'Shoulder',
+  hip: 'Hip (greater trochanter)',
+  knee: 'Knee (lateral knee)',
+  ankle: 'Ankle (lateral malleolus)',
+  heel: 'Heel',
+  toe: 'Toe (5th metatarsal head)',
+};
+
+export const GAIT_EVENT_KINDS = ['initial_contact', 'midstance', 'toe_off'] as const;
+export type GaitEventKind = (typeof GAIT_EVENT_KINDS)[number];
+export const GAIT_EVENT_LABELS: Record<GaitEventKind, string> = {
+  initial_contact: 'Initial contact',
+  midstance: 'Midstance',
+  toe_off: 'Toe-off',
+};
+
+/** A point as a fraction of frame width (x) and height (y), origin top-left. */
+export interface FramePoint {
+  x: number;
+  y: number;
+}
+
+/** The landmarks of one side on one frame (any subset). */
+export interface FrameLandmarks {
+  /** 0-based frame index. */
+  frame: number;
+  side: Side;
+  points: Partial<Record<LandmarkName, FramePoint>>;
+  /** How the points were made; only `manual` exists today. */
+  source?: 'manual' | 'tracked';
+}
+
+export interface GaitEventMark {
+  frame: number;
+  side: Side;
+  kind: GaitEventKind;
+}
+
+/** A line over an object of known length in the plane of running. */
+export interface ScaleBar {
+  frame: number;
+  a: FramePoint;
+  b: FramePoint;
+  lengthM: number;
+}
+
+/** Everything marked on one clip, with a revision for optimistic concurrency. */
+export interface ClipAnnotations {
+  clipId: number;
+  /** Increases by one on every save; a save must name the revision it was based on. */
+  revision: number;
+  landmarks: FrameLandmarks[];
+  events: GaitEventMark[];
+  scale: ScaleBar | null;
+  updatedAt: string | null;
+  updatedByName: string | null;
+}
+
+/** Body of `PUT /api/clips/:id/annotations`. */
+export interface ClipAnnotationsWrite {
+  /** The revision this edit started from; a different current revision answers 409. */
+  baseRevision: number;
+  landmarks: FrameLandmarks[];
+  events: GaitEventMark[];
+  scale: ScaleBar | null;
+}
+
+/** Limits the server enforces (and the client respects). */
+export const ANNOTATION_LIMITS = {
+  landmarkFrames: 20_000,
+  events: 2_000,
+  scaleLengthM: { min: 0.05, max: 10 },
+} as const;
