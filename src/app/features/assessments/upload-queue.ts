@@ -1,0 +1,182 @@
+/**
+ * The upload list as a small state machine. Each chosen file becomes one item and goes
+ * waiting → uploading → done | failed | cancelled; files are sent one at a time in the order they
+ * were chosen, so a phone's connection is not split between them. Nothing chosen is dropped: a
+ * file refused before sending is an item in `failed` with the reason. Pure functions over an
+ * immutable list.
+ */
+import type { Clip } from '../../../contracts/api';
+import { UPLOAD } from '../../../contracts/assessment';
+import { asHttpError, errorMessage } from '../../core/api-error';
+
+export type UploadState = 'waiting' | 'uploading' | 'done' | 'failed' | 'cancelled';
+
+export interface UploadItem {
+  /** Local key of the row. */
+  id: number;
+  file: File;
+  name: string;
+  size: number;
+  state: UploadState;
+  /** Bytes sent so far and the request's total. */
+  loaded: number;
+  total: number;
+  /** Why it failed (the server's message when it sent one). */
+  message: string | null;
+  /** The clip the server created. */
+  clipId: number | null;
+}
+
+const EXTENSIONS = UPLOAD.accept
+  .split(',')
+  .map((s) => s.trim().toLowerCase())
+  .filter((s) => s.startsWith('.'));
+
+/**
+ * Why a file cannot be sent at all, or null to send it and let the server decide. Empty files
+ * and files the browser knows to be something other than video (an image, a PDF) are refused;
+ * a file of unknown type goes to the server, which reads its content.
+ */
+export function precheck(file: Pick<File, 'name' | 'size' | 'type'>): string | null {
+  if (file.size === 0) return 'This file is empty (0 bytes). Choose the video file itself.';
+  const type = (file.type || '').toLowerCase();
+  const name = file.name.toLowerCase();
+  const knownExtension = EXTENSIONS.some((ext) => name.endsWith(ext));
+  if (type && !type.startsWith('video/') && !knownExtension) {
+    return 'This is not a video file. Choose a video (for example MP4, MOV or WebM).';
+  }
+  return null;
+}
+
+/** Appends the files in order, each waiting, or failed with the reason when `precheck` refuses it. */
+export function addFiles(
+  items: readonly UploadItem[],
+  files: readonly File[],
+  nextId: number,
+): { items: UploadItem[]; nextId: number } {
+  const added = files.map((file, i): UploadItem => {
+    const problem = precheck(file);
+    return {
+      id: nextId + i,
+      file,
+      name: file.name || 'Unnamed file',
+      size: file.size,
+      state: problem ? 'failed' : 'waiting',
+      loaded: 0,
+      total: file.size,
+      message: problem,
+      clipId: null,
+    };
+  });
+  return { items: [...items, ...added], nextId: nextId + files.length };
+}
+
+function update(
+  items: readonly UploadItem[],
+  id: number,
+  from: readonly UploadState[],
+  change: (item: UploadItem) => Partial<UploadItem>,
+): UploadItem[] {
+  return items.map((item) => (item.id === id && from.includes(item.state) ? { ...item, ...change(item) } : item));
+}
+
+/** The item to send next: the first waiting one, unless one is already uploading. */
+export function nextToStart(items: readonly UploadItem[]): UploadItem | null {
+  if (items.some((i) => i.state === 'uploading')) return null;
+  return items.find((i) => i.state === 'waiting') ?? null;
+}
+
+export function markStarted(items: readonly UploadItem[], id: number): UploadItem[] {
+  return update(items, id, ['waiting'], () => ({ state: 'uploading', loaded: 0, message: null }));
+}
+
+export function markProgress(items: readonly UploadItem[], id: number, loaded: number, total: number): UploadItem[] {
+  return update(items, id, ['uploading'], (item) => {
+    const t = total > 0 ? total : item.total;
+    return { loaded: Math.min(Math.max(loaded, 0), t), total: t };
+  });
+}
+
+export function markDone(items: readonly UploadItem[], id: number, clip: Pick<Clip, 'id'>): UploadItem[] {
+  return update(items, id, ['uploading'], (item) => ({ state: 'done', loaded: item.total, clipId: clip.id }));
+}
+
+export function markFailed(items: readonly UploadItem[], id: number, message: string): UploadItem[] {
+  return update(items, id, ['uploading', 'waiting'], () => ({ state: 'failed', message }));
+}
+
+/** Stops an item that is waiting or uploading (the caller aborts the request). */
+export function markCancelled(items: readonly UploadItem[], id: number): UploadItem[] {
+  return update(items, id, ['waiting', 'uploading'], () => ({ state: 'cancelled', message: null }));
+}
+
+/** Puts a failed or cancelled item back in the line (a refused file is checked again). */
+export function requeue(items: readonly UploadItem[], id: number): UploadItem[] {
+  return update(items, id, ['failed', 'cancelled'], (item) => {
+    const problem = precheck(item.file);
+    return problem
+      ? { state: 'failed', message: problem }
+      : { state: 'waiting', loaded: 0, total: item.file.size, message: null };
+  });
+}
+
+/** Removes an item that is not in flight. */
+export function removeItem(items: readonly UploadItem[], id: number): UploadItem[] {
+  return items.filter((i) => i.id !== id || i.state === 'uploading' || i.state === 'waiting');
+}
+
+/** Removes the finished rows (uploaded or cancelled); failures stay until dismissed. */
+export function clearFinished(items: readonly UploadItem[]): UploadItem[] {
+  return items.filter((i) => i.state !== 'done' && i.state !== 'cancelled');
+}
+
+/** Whether anything is still waiting or being sent. */
+export function isBusy(items: readonly UploadItem[]): boolean {
+  return items.some((i) => i.state === 'waiting' || i.state === 'uploading');
+}
+
+/** Upload progress of an item, 0–100. */
+export function uploadPercent(item: Pick<UploadItem, 'loaded' | 'total' | 'state'>): number {
+  if (item.state === 'done') return 100;
+  return item.total > 0 ? Math.floor((item.loaded / item.total) * 100) : 0;
+}
+
+/** The row's status line. */
+export function uploadStatusText(item: UploadItem): string {
+  switch (item.state) {
+    case 'waiting':
+      return 'Waiting to upload';
+    case 'uploading':
+      return `Uploading… ${uploadPercent(item)} %`;
+    case 'done':
+      return 'Uploaded — processing shown below';
+    case 'failed':
+      return item.message ?? 'Upload failed.';
+    case 'cancelled':
+      return 'Cancelled';
+  }
+}
+
+/**
+ * Why an upload failed, for its row: the server's own `error.message` when it sent one (too
+ * large, not a video, no consent…), otherwise a plain reason for the status.
+ */
+export function uploadErrorMessage(err: unknown): string {
+  const http = asHttpError(err);
+  const body = http?.error as { error?: { message?: unknown } } | null | undefined;
+  const serverMessage = body && typeof body === 'object' ? body.error?.message : undefined;
+  if (typeof serverMessage === 'string' && serverMessage.trim()) return serverMessage;
+  switch (http?.status) {
+    case 0:
+      return "The upload was interrupted: can't reach the server. Check the connection and try again.";
+    case 409:
+      return 'Video consent is needed before clips can be uploaded.';
+    case 413:
+      return 'This file is larger than the upload limit.';
+    case 415:
+    case 422:
+      return 'This file is not a video the server can read.';
+    default:
+      return errorMessage(err);
+  }
+}
