@@ -11,6 +11,7 @@ import { routes } from './app.routes';
 import { AuthApi } from './core/auth-api';
 import { AuthStore } from './core/auth-store';
 import { ConfigStore } from './core/config-store';
+import { AssessmentsApi } from './features/assessments/assessments-api';
 import { provideIsoDateAdapter } from './shared/iso-date-adapter';
 
 const athlete: SessionUser = {
@@ -38,6 +39,8 @@ async function boot(user: SessionUser | null, url: string, demoMode = false) {
         },
       },
       { provide: ConfigStore, useValue: { demoMode: signal(demoMode), version: signal('test') } },
+      // The portal home lists the athlete's assessments; none here.
+      { provide: AssessmentsApi, useValue: { list: () => of([]) } },
     ],
   });
   await TestBed.inject(AuthStore).load();
@@ -67,6 +70,7 @@ describe('App', () => {
     );
     expect(nav).toEqual(['Home', 'My profile']);
     expect(element.querySelector('h1')?.textContent).toContain('Welcome, Sam');
+    expect(element.textContent).toContain('Your assessments');
     TestBed.inject(HttpTestingController).verify();
   });
 

@@ -20,4 +20,8 @@ export default [
     loadComponent: () =>
       import('./athlete-profile/athlete-profile').then((m) => m.AthleteProfile),
   },
+  {
+    path: ':athleteId/assessments',
+    loadChildren: () => import('../assessments/assessments.routes'),
+  },
 ] satisfies Routes;

@@ -1,7 +1,7 @@
 import { Routes } from '@angular/router';
 import { leaveGuard } from '../../core/leave-guard';
 
-/** `/portal` (athlete): their home and their own profile. */
+/** `/portal` (athlete): their home, their own profile and their assessments. */
 export default [
   {
     path: '',
@@ -13,5 +13,12 @@ export default [
     title: 'My profile · Trailframe',
     canDeactivate: [leaveGuard],
     loadComponent: () => import('./portal-profile/portal-profile').then((m) => m.PortalProfile),
+  },
+  {
+    path: 'assessments/:id',
+    title: 'Assessment · Trailframe',
+    canDeactivate: [leaveGuard],
+    loadComponent: () =>
+      import('./portal-assessment/portal-assessment').then((m) => m.PortalAssessment),
   },
 ] satisfies Routes;

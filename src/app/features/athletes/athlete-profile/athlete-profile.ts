@@ -9,20 +9,24 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTabsModule } from '@angular/material/tabs';
 import { Title } from '@angular/platform-browser';
-import { RouterLink } from '@angular/router';
+import { Router, RouterLink } from '@angular/router';
 import { throwError } from 'rxjs';
 import type { AthleteDetail } from '../../../../contracts/api';
 import { errorMessage, errorStatus } from '../../../core/api-error';
 import { LeaveGuarded, LeaveWarning, UNSAVED_CHANGES_WARNING, warnBeforeUnload } from '../../../core/leave-guard';
 import { ageOn } from '../../../shared/dates';
 import { ErrorState } from '../../../shared/states/error-state';
+import { AssessmentList } from '../../assessments/assessment-list/assessment-list';
 import { AthleteEditDialog } from '../athlete-edit-dialog/athlete-edit-dialog';
 import { AthleteInvitation } from '../athlete-invitation/athlete-invitation';
 import { AthletesApi } from '../athletes-api';
 import { IntakeForm } from '../intake-form/intake-form';
 import { fullName } from '../roster';
 
-/** `/athletes/:id`: who the athlete is, their account, their intake and (later) assessments. */
+const PROFILE_TABS = ['intake', 'assessments'] as const;
+type ProfileTab = (typeof PROFILE_TABS)[number];
+
+/** `/athletes/:id`: who the athlete is, their account, their intake and their assessments. */
 @Component({
   selector: 'app-athlete-profile',
   imports: [
@@ -36,6 +40,7 @@ import { fullName } from '../roster';
     ErrorState,
     AthleteInvitation,
     IntakeForm,
+    AssessmentList,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './athlete-profile.html',
@@ -49,6 +54,8 @@ export class AthleteProfile implements LeaveGuarded {
 
   /** Route parameter. */
   readonly id = input.required<string>();
+  /** Query parameter `tab`: `intake` (default) or `assessments`. */
+  readonly tab = input<string | undefined>();
 
   protected readonly athlete = rxResource({
     params: () => Number(this.id()),
@@ -65,6 +72,8 @@ export class AthleteProfile implements LeaveGuarded {
   });
   protected readonly notFound = computed(() => errorStatus(this.athlete.error()) === 404);
   protected readonly errorMessage = errorMessage;
+  protected readonly tabIndex = computed(() => Math.max(0, PROFILE_TABS.indexOf(this.tab() as ProfileTab)));
+  private readonly router = inject(Router);
   private readonly intakeForm = viewChild(IntakeForm);
 
   constructor() {
@@ -81,6 +90,16 @@ export class AthleteProfile implements LeaveGuarded {
 
   protected onBeforeUnload(event: BeforeUnloadEvent): void {
     warnBeforeUnload(event, this.leaveWarning());
+  }
+
+  /** Keeps the open tab in the address, so coming back from an assessment returns to the list. */
+  protected onTabChange(index: number): void {
+    const tab = PROFILE_TABS[index] ?? 'intake';
+    void this.router.navigate([], {
+      queryParams: { tab: tab === 'intake' ? null : tab },
+      queryParamsHandling: 'merge',
+      replaceUrl: true,
+    });
   }
 
   protected editDetails(): void {

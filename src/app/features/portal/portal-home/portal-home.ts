@@ -4,11 +4,12 @@ import { MatCardModule } from '@angular/material/card';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
 import { AuthStore } from '../../../core/auth-store';
+import { AssessmentList } from '../../assessments/assessment-list/assessment-list';
 
 /** `/portal`: the athlete's home page. */
 @Component({
   selector: 'app-portal-home',
-  imports: [RouterLink, MatCardModule, MatButtonModule, MatIconModule],
+  imports: [RouterLink, MatCardModule, MatButtonModule, MatIconModule, AssessmentList],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './portal-home.html',
   styleUrl: './portal-home.scss',
@@ -16,5 +17,6 @@ import { AuthStore } from '../../../core/auth-store';
 export class PortalHome {
   private readonly auth = inject(AuthStore);
   protected readonly user = this.auth.user;
+  protected readonly athleteId = computed(() => this.user()?.athleteId ?? null);
   protected readonly firstName = computed(() => this.user()?.name.split(/\s+/)[0] ?? '');
 }

@@ -1,0 +1,200 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { signal } from '@angular/core';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { provideRouter } from '@angular/router';
+import type { AssessmentDetail, Clip } from '../../../../contracts/api';
+import { AuthStore } from '../../../core/auth-store';
+import { EVENT_SOURCE_FACTORY } from '../assessments-api';
+import { AssessmentClips, upsertClip } from './assessment-clips';
+
+/** Stands in for the browser's EventSource. */
+class FakeEventSource {
+  static instances: FakeEventSource[] = [];
+  readyState = 0;
+  onopen: (() => void) | null = null;
+  onerror: (() => void) | null = null;
+  private readonly listeners = new Map<string, (e: Event) => void>();
+  constructor(readonly url: string) {
+    FakeEventSource.instances.push(this);
+  }
+  addEventListener(type: string, fn: (e: Event) => void) {
+    this.listeners.set(type, fn);
+  }
+  removeEventListener(type: string) {
+    this.listeners.delete(type);
+  }
+  close() {
+    this.readyState = 2;
+  }
+  open() {
+    this.readyState = 1;
+    this.onopen?.();
+  }
+  send(clip: Clip) {
+    this.listeners.get('clip')?.(new MessageEvent('clip', { data: JSON.stringify(clip) }));
+  }
+  sendDeleted(id: number) {
+    this.listeners.get('clip-deleted')?.(new MessageEvent('clip-deleted', { data: JSON.stringify({ id }) }));
+  }
+}
+
+function clip(id: number, overrides: Partial<Clip> = {}): Clip {
+  return {
+    id,
+    assessmentId: 4,
+    athleteId: 9,
+    originalName: `take-${id}.mov`,
+    sizeBytes: 5_000_000,
+    status: 'queued',
+    progress: null,
+    error: null,
+    nearSide: 'left',
+    direction: 'left_to_right',
+    captureFps: null,
+    fps: null,
+    effectiveFps: null,
+    width: null,
+    height: null,
+    frameCount: null,
+    durationS: null,
+    rotation: null,
+    codec: null,
+    thumbCount: 0,
+    thumbEvery: null,
+    uploadedByName: 'Sam Runner',
+    createdAt: `2025-03-14T10:0${id}:00Z`,
+    ...overrides,
+  };
+}
+
+function detail(overrides: Partial<AssessmentDetail> = {}): AssessmentDetail {
+  return {
+    id: 4,
+    athleteId: 9,
+    date: '2025-03-14',
+    kind: 'baseline',
+    surface: 'treadmill',
+    speedMps: null,
+    speedUnit: 'kmh',
+    inclinePercent: null,
+    shoes: null,
+    cameraNotes: null,
+    notes: null,
+    clipCount: 1,
+    createdAt: '2025-03-14T09:00:00Z',
+    updatedAt: '2025-03-14T09:00:00Z',
+    clips: [clip(1)],
+    videoConsent: true,
+    ...overrides,
+  };
+}
+
+describe('upsertClip', () => {
+  it('replaces by id and keeps upload order', () => {
+    const list = [clip(1), clip(3)];
+    expect(upsertClip(list, clip(2)).map((c) => c.id)).toEqual([1, 2, 3]);
+    expect(upsertClip(list, clip(3, { status: 'ready' }))[1].status).toBe('ready');
+  });
+});
+
+describe('AssessmentClips', () => {
+  let fixture: ComponentFixture<AssessmentClips>;
+  let element: HTMLElement;
+  let backend: HttpTestingController;
+
+  function create(assessment: AssessmentDetail, audience: 'staff' | 'athlete' = 'staff') {
+    FakeEventSource.instances = [];
+    TestBed.configureTestingModule({
+      imports: [AssessmentClips],
+      providers: [
+        provideRouter([]),
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: EVENT_SOURCE_FACTORY, useValue: (url: string) => new FakeEventSource(url) },
+        { provide: AuthStore, useValue: { user: signal({ name: 'Sam Runner' }) } },
+      ],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(AssessmentClips);
+    fixture.componentRef.setInput('assessment', assessment);
+    fixture.componentRef.setInput('audience', audience);
+    fixture.componentRef.setInput('consentLink', audience === 'staff' ? '/athletes/9' : '/portal/profile');
+    element = fixture.nativeElement;
+  }
+
+  afterEach(() => backend.verify());
+
+  const statuses = () => [...element.querySelectorAll('.status-chip')].map((e) => e.textContent?.trim());
+
+  it('follows processing live and reloads after every (re)connection', async () => {
+    create(detail());
+    await fixture.whenStable();
+    const source = FakeEventSource.instances[0];
+    expect(source.url).toBe('/api/assessments/4/clip-events');
+    expect(statuses()).toEqual(['Queued']);
+
+    // On connecting the server replays every clip's state.
+    source.open();
+    source.send(clip(1, { status: 'probing' }));
+    await fixture.whenStable();
+    backend.expectNone('/api/assessments/4');
+    expect(statuses()).toEqual(['Checking video']);
+
+    source.send(clip(1, { status: 'extracting', progress: { done: 60, total: 240 } }));
+    await fixture.whenStable();
+    expect(element.textContent).toContain('Frame 60 of 240 (25 %)');
+
+    source.send(clip(1, { status: 'failed', error: 'No video stream found in the file.' }));
+    await fixture.whenStable();
+    expect(statuses()).toEqual(['Failed']);
+    expect(element.textContent).toContain('No video stream found in the file.');
+    expect(element.textContent).toContain('Retry processing');
+
+    // A clip someone else added shows up as well.
+    source.send(clip(2, { status: 'ready', frameCount: 300, thumbCount: 3, thumbEvery: 10, width: 1280, height: 720 }));
+    await fixture.whenStable();
+    expect(statuses()).toEqual(['Failed', 'Ready']);
+    const thumbs = [...element.querySelectorAll<HTMLImageElement>('.thumbs img')];
+    expect(thumbs.map((t) => t.getAttribute('src'))).toEqual([
+      '/api/clips/2/thumbs/0',
+      '/api/clips/2/thumbs/1',
+      '/api/clips/2/thumbs/2',
+    ]);
+    expect(thumbs.every((t) => t.getAttribute('loading') === 'lazy' && t.getAttribute('width') === '128')).toBe(true);
+    expect(element.querySelector<HTMLImageElement>('.poster img')?.getAttribute('src')).toBe('/api/clips/2/poster');
+
+    // After a dropped connection the list is reloaded (a clip deleted meanwhile disappears).
+    source.onerror?.();
+    source.open();
+    backend.expectOne('/api/assessments/4').flush(detail({ clips: [clip(2, { status: 'ready', frameCount: 300 })] }));
+    await fixture.whenStable();
+    expect(statuses()).toEqual(['Ready']);
+
+    source.sendDeleted(2);
+    await fixture.whenStable();
+    expect(statuses()).toEqual([]);
+    expect(element.textContent).toContain('No clips yet');
+
+    fixture.destroy();
+    expect(source.readyState).toBe(2);
+  });
+
+  it('blocks uploads with a link to the consent while video consent is not in force', async () => {
+    create(detail({ videoConsent: false, clips: [] }), 'athlete');
+    await fixture.whenStable();
+    expect(element.querySelector('app-clip-uploader')).toBeNull();
+    const notice = element.querySelector('.consent-block')!;
+    expect(notice.textContent).toContain('Video consent is needed before clips can be uploaded');
+    expect(notice.querySelector('a')?.getAttribute('href')).toBe('/portal/profile');
+    expect(element.querySelector('mat-expansion-panel')?.classList).toContain('mat-expanded');
+  });
+
+  it('lets an athlete delete only the clips they uploaded', async () => {
+    create(detail({ clips: [clip(1), clip(2, { uploadedByName: 'Robin Coach' })] }), 'athlete');
+    await fixture.whenStable();
+    const deletable = [...element.querySelectorAll('app-clip-card')].map((card) => !!card.querySelector('button.delete'));
+    expect(deletable).toEqual([true, false]);
+    expect(element.querySelector('app-clip-uploader')).not.toBeNull();
+  });
+});

@@ -1,0 +1,149 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  inject,
+  input,
+  linkedSignal,
+  signal,
+  viewChild,
+} from '@angular/core';
+import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import { RouterLink, UrlTree } from '@angular/router';
+import { EMPTY, catchError, combineLatest, switchMap, tap } from 'rxjs';
+import type { AssessmentDetail, Clip } from '../../../../contracts/api';
+import { AuthStore } from '../../../core/auth-store';
+import { LeaveWarning } from '../../../core/leave-guard';
+import { EmptyState } from '../../../shared/states/empty-state';
+import { AssessmentsApi } from '../assessments-api';
+import { CameraGuide } from '../camera-guide/camera-guide';
+import { ClipCard } from '../clip-card/clip-card';
+import { ClipUploader } from '../clip-uploader/clip-uploader';
+
+/** What leaving a page with uploads still running asks. */
+export const UPLOADS_RUNNING_WARNING: LeaveWarning = {
+  title: 'Stop uploading?',
+  message: 'Clips are still uploading. Leaving this page stops the uploads that have not finished.',
+  confirmLabel: 'Leave and stop uploads',
+};
+
+/** Clips in the order they were added. */
+export function sortClips(clips: readonly Clip[]): Clip[] {
+  return [...clips].sort((a, b) => (a.createdAt < b.createdAt ? -1 : a.createdAt > b.createdAt ? 1 : a.id - b.id));
+}
+
+/** `clips` with `clip` added or replaced (by id), kept in order. */
+export function upsertClip(clips: readonly Clip[], clip: Clip): Clip[] {
+  return sortClips([...clips.filter((c) => c.id !== clip.id), clip]);
+}
+
+/**
+ * The clip half of an assessment page, for staff and athletes alike: camera guidance, the upload
+ * zone (or a notice when video consent is not in force) and the clips with live processing state
+ * over server-sent events. After a reconnection the clips are reloaded, so nothing that happened
+ * while disconnected is missed.
+ */
+@Component({
+  selector: 'app-assessment-clips',
+  imports: [RouterLink, MatButtonModule, MatIconModule, EmptyState, CameraGuide, ClipCard, ClipUploader],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  templateUrl: './assessment-clips.html',
+  styleUrl: './assessment-clips.scss',
+})
+export class AssessmentClips {
+  private readonly api = inject(AssessmentsApi);
+  private readonly auth = inject(AuthStore);
+
+  readonly assessment = input.required<AssessmentDetail>();
+  /** Staff manage every clip; athletes may delete only what they uploaded. */
+  readonly audience = input<'staff' | 'athlete'>('staff');
+  /** Where video consent is recorded (the intake). */
+  readonly consentLink = input.required<string | UrlTree>();
+
+  /** Live list; reset only when a different assessment is shown. */
+  protected readonly clips = linkedSignal<AssessmentDetail, Clip[]>({
+    source: this.assessment,
+    computation: (a, previous) =>
+      previous && previous.source.id === a.id ? previous.value : sortClips(a.clips),
+  });
+  protected readonly videoConsent = linkedSignal(() => this.assessment().videoConsent);
+  /** The guide starts open while the assessment has no clips. */
+  protected readonly guideOpen = linkedSignal<AssessmentDetail, boolean>({
+    source: this.assessment,
+    computation: (a, previous) =>
+      previous && previous.source.id === a.id ? previous.value : a.clips.length === 0,
+  });
+  protected readonly live = signal<'connecting' | 'live' | 'stopped'>('connecting');
+  private readonly restart = signal(0);
+  private readonly uploader = viewChild(ClipUploader);
+
+  /** Whether uploads are still waiting or running. */
+  readonly uploading = computed(() => this.uploader()?.busy() ?? false);
+
+  constructor() {
+    combineLatest([toObservable(computed(() => this.assessment().id)), toObservable(this.restart)])
+      .pipe(
+        switchMap(([id]) => {
+          this.live.set('connecting');
+          let connections = 0;
+          return this.api.clipEvents(id).pipe(
+            tap((message) => {
+              if (message.type === 'connected') {
+                this.live.set('live');
+                // The server replays every clip on connecting; a reload also drops the clips
+                // deleted while the connection was down.
+                if (connections++ > 0) this.reload(id);
+              } else if (message.type === 'deleted') {
+                this.clips.update((list) => list.filter((c) => c.id !== message.id));
+              } else if (message.clip.assessmentId === id) {
+                this.clips.update((list) => upsertClip(list, message.clip));
+              }
+            }),
+            catchError(() => {
+              this.live.set('stopped');
+              return EMPTY;
+            }),
+          );
+        }),
+        takeUntilDestroyed(),
+      )
+      .subscribe();
+  }
+
+  protected canDelete(clip: Clip): boolean {
+    if (this.audience() === 'staff') return true;
+    // The API names the uploader but gives no id; an athlete's own uploads carry their name.
+    return clip.uploadedByName === this.auth.user()?.name;
+  }
+
+  protected onUploaded(clip: Clip): void {
+    this.clips.update((list) => upsertClip(list, clip));
+  }
+
+  protected onChanged(clip: Clip): void {
+    this.clips.update((list) => upsertClip(list, clip));
+  }
+
+  protected onDeleted(id: number): void {
+    this.clips.update((list) => list.filter((c) => c.id !== id));
+  }
+
+  protected reconnect(): void {
+    this.restart.update((n) => n + 1);
+  }
+
+  private reload(id: number): void {
+    this.api.get(id).subscribe({
+      next: (detail) => {
+        if (detail.id !== this.assessment().id) return;
+        this.clips.set(sortClips(detail.clips));
+        this.videoConsent.set(detail.videoConsent);
+      },
+      error: () => {
+        // Keep what is shown; the next change or reconnection tries again.
+      },
+    });
+  }
+}
