@@ -187,7 +187,7 @@ export function createApp(deps: AppDeps): App {
     res.json({ ok: true });
   });
   api.get('/config', (_req, res) => {
-    const body: AppConfig = { demoMode: config.demoMode, version: VERSION };
+    const body: AppConfig = { demoMode: config.demoMode, version: VERSION, uploadMaxBytes: config.uploadMaxBytes };
     res.json(body);
   });
   api.use(authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, resetLimiter, clock }));

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { ASSESSMENT_KINDS, BELT_SPEED_LIMITS_MPS, FILM_SURFACES, INCLINE_LIMITS, SPEED_UNITS, SPEED_UNIT_LABELS, fromMetresPerSecond, toMetresPerSecond } from '../../src/contracts/assessment';
+import { ASSESSMENT_KINDS, ASSESSMENT_TEXT_LIMITS, EARLIEST_ASSESSMENT_DATE, BELT_SPEED_LIMITS_MPS, FILM_SURFACES, INCLINE_LIMITS, SPEED_UNITS, SPEED_UNIT_LABELS, fromMetresPerSecond, toMetresPerSecond } from '../../src/contracts/assessment';
 import { IsoDate } from '../athletes/athletes-schemas';
 
 const emptyToNull = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? null : v);
@@ -25,7 +25,7 @@ const Speed = z
   });
 
 export const AssessmentBody = z.strictObject({
-  date: IsoDate.refine((d) => d >= '2000-01-01', 'Date must be after 2000.'),
+  date: IsoDate.refine((d) => d >= EARLIEST_ASSESSMENT_DATE, `Date must be on or after ${EARLIEST_ASSESSMENT_DATE}.`),
   kind: z.enum(ASSESSMENT_KINDS, 'Choose Baseline or Re-test.'),
   surface: z.enum(FILM_SURFACES, 'Choose treadmill, track, road or trail.'),
   speed: Speed,
@@ -34,9 +34,9 @@ export const AssessmentBody = z.strictObject({
     .min(INCLINE_LIMITS.min, `Incline must be ${INCLINE_LIMITS.min} to ${INCLINE_LIMITS.max} %.`)
     .max(INCLINE_LIMITS.max, `Incline must be ${INCLINE_LIMITS.min} to ${INCLINE_LIMITS.max} %.`)
     .nullable(),
-  shoes: Text(120, 'Shoes'),
-  cameraNotes: Text(500, 'Camera notes'),
-  notes: Text(4000, 'Notes'),
+  shoes: Text(ASSESSMENT_TEXT_LIMITS.shoes, 'Shoes'),
+  cameraNotes: Text(ASSESSMENT_TEXT_LIMITS.cameraNotes, 'Camera notes'),
+  notes: Text(ASSESSMENT_TEXT_LIMITS.notes, 'Notes'),
 });
 export type AssessmentInput = z.output<typeof AssessmentBody>;
 export const AssessmentPatchBody = AssessmentBody.partial();

@@ -97,6 +97,7 @@ function toApi(r: ClipWithName): Clip {
     thumbCount: r.thumb_count,
     thumbEvery: r.thumb_every,
     uploadedByName: r.uploaded_by_name ?? '',
+    uploadedById: r.uploaded_by,
     createdAt: r.created_at,
   };
 }

@@ -28,6 +28,8 @@ export interface AppConfig {
   /** Whether the demo helpers (fake mail, mailbox page, demo sign-ins) are on. */
   demoMode: boolean;
   version: string;
+  /** Largest clip the server accepts, bytes. */
+  uploadMaxBytes: number;
 }
 
 export interface StaffMember {
@@ -225,6 +227,8 @@ export interface Clip {
   /** One thumbnail every this many frames. */
   thumbEvery: number | null;
   uploadedByName: string;
+  /** Who uploaded it (athletes may delete only their own uploads). */
+  uploadedById: number | null;
   createdAt: string;
 }
 

@@ -70,6 +70,11 @@ export function parsePace(text: string): number | null {
 
 /** Speeds a treadmill assessment may carry, m/s (1–10 m/s ≈ 3.6–36 km/h). */
 export const BELT_SPEED_LIMITS_MPS = { min: 1, max: 10 } as const;
+/** Longest texts of an assessment, characters. */
+export const ASSESSMENT_TEXT_LIMITS = { shoes: 120, cameraNotes: 500, notes: 4000 } as const;
+/** Earliest visit date accepted. */
+export const EARLIEST_ASSESSMENT_DATE = '2000-01-01';
+
 /** Treadmill incline, percent grade. */
 export const INCLINE_LIMITS = { min: -10, max: 40 } as const;
 

@@ -46,8 +46,14 @@ export function roleGuard(...roles: Role[]): AccessGuard {
 /** For the sign-in page: signed-in users are sent to their home page. */
 export const anonymousOnlyGuard: AccessGuard = () => {
   const auth = inject(AuthStore);
-  return auth.isSignedIn() ? inject(Router).parseUrl(auth.homePath()) : true;
+  const router = inject(Router);
+  // Signing out navigates here first (so unsaved-edit guards can ask), then signs out.
+  if (router.currentNavigation()?.extras.state?.[SIGNING_OUT]) return true;
+  return auth.isSignedIn() ? router.parseUrl(auth.homePath()) : true;
 };
+
+/** Navigation state key the shell sets while signing out. */
+export const SIGNING_OUT = 'signingOut';
 
 /** Pages that exist only in demo mode (the mailbox); otherwise back to the user's home page. */
 export const demoModeGuard: AccessGuard = () => {

@@ -11,6 +11,7 @@ import { MatToolbarModule } from '@angular/material/toolbar';
 import { Router, RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { map } from 'rxjs';
 import { BrandMark } from '../../shared/brand-mark/brand-mark';
+import { SIGNING_OUT } from '../auth-guards';
 import { AuthStore } from '../auth-store';
 import { ConfigStore } from '../config-store';
 import { ROLE_LABELS } from '../roles';
@@ -69,7 +70,8 @@ export class Shell {
   }
 
   protected async signOut(): Promise<void> {
+    // Leave first, so a page with unsaved edits can ask (and the user can stay, still signed in).
+    if (!(await this.router.navigateByUrl('/sign-in', { state: { [SIGNING_OUT]: true } }))) return;
     await this.auth.signOut();
-    await this.router.navigateByUrl('/sign-in');
   }
 }

@@ -32,7 +32,8 @@ import { parseIsoDate, toIsoDate } from '../../shared/dates';
  * Text limits of an assessment. They mirror the server's validation (not yet in
  * `src/contracts`); a longer text would still come back as a 422 on the field.
  */
-export const ASSESSMENT_TEXT_LIMITS = { shoes: 120, cameraNotes: 500, notes: 4000 } as const;
+export { ASSESSMENT_TEXT_LIMITS } from '../../../contracts/assessment';
+import { ASSESSMENT_TEXT_LIMITS } from '../../../contracts/assessment';
 /** Earliest visit date the server accepts. */
 export const EARLIEST_ASSESSMENT_DATE = '2000-01-01';
 

@@ -25,6 +25,7 @@ function clip(overrides: Partial<Clip> = {}): Clip {
     thumbCount: 30,
     thumbEvery: 10,
     uploadedByName: 'Robin Coach',
+    uploadedById: 3,
     createdAt: '2025-03-01T10:00:00Z',
     ...overrides,
   };

@@ -63,6 +63,7 @@ function clip(id: number, overrides: Partial<Clip> = {}): Clip {
     thumbCount: 0,
     thumbEvery: null,
     uploadedByName: 'Sam Runner',
+    uploadedById: 7,
     createdAt: `2025-03-14T10:0${id}:00Z`,
     ...overrides,
   };
@@ -112,7 +113,7 @@ describe('AssessmentClips', () => {
         provideHttpClient(),
         provideHttpClientTesting(),
         { provide: EVENT_SOURCE_FACTORY, useValue: (url: string) => new FakeEventSource(url) },
-        { provide: AuthStore, useValue: { user: signal({ name: 'Sam Runner' }) } },
+        { provide: AuthStore, useValue: { user: signal({ id: 7, name: 'Sam Runner' }) } },
       ],
     });
     backend = TestBed.inject(HttpTestingController);
@@ -191,7 +192,7 @@ describe('AssessmentClips', () => {
   });
 
   it('lets an athlete delete only the clips they uploaded', async () => {
-    create(detail({ clips: [clip(1), clip(2, { uploadedByName: 'Robin Coach' })] }), 'athlete');
+    create(detail({ clips: [clip(1), clip(2, { uploadedByName: 'Robin Coach', uploadedById: 99 })] }), 'athlete');
     await fixture.whenStable();
     const deletable = [...element.querySelectorAll('app-clip-card')].map((card) => !!card.querySelector('button.delete'));
     expect(deletable).toEqual([true, false]);

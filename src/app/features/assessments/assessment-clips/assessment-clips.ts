@@ -115,7 +115,7 @@ export class AssessmentClips {
   protected canDelete(clip: Clip): boolean {
     if (this.audience() === 'staff') return true;
     // The API names the uploader but gives no id; an athlete's own uploads carry their name.
-    return clip.uploadedByName === this.auth.user()?.name;
+    return clip.uploadedById === this.auth.user()?.id;
   }
 
   protected onUploaded(clip: Clip): void {

@@ -32,6 +32,7 @@ function clip(id: number, originalName: string): Clip {
     thumbCount: 0,
     thumbEvery: null,
     uploadedByName: 'Robin Coach',
+    uploadedById: 3,
     createdAt: '2025-03-14T10:00:00Z',
   };
 }

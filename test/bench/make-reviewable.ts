@@ -1,0 +1,137 @@
+/**
+ * Benchmark: how long a 10 s 1920×1080 120 fps H.264 clip takes to become reviewable (probe +
+ * frame extraction) compared with ffmpeg merely decoding it (`ffmpeg -i clip -f null -`).
+ * Target: extraction ≤ 1.5 × decode. Prints numbers only; it is not a timed test.
+ *
+ *   npx tsx test/bench/make-reviewable.ts [--reps 2] [--all] [--clip file.mp4] [--keep]
+ *
+ * --all tries a wider grid of JPEG quality, decoder threads and scale flags; --clip reuses a clip
+ * (skips the ~30 s encode); --keep leaves the temp folder. Wall times on a shared machine are
+ * noisy, so each setting runs `--reps` times, alternating with the decode baseline, and the
+ * fastest run of each is reported; CPU seconds of child processes (from /proc) are shown as well.
+ */
+import { spawn } from 'node:child_process';
+import { readFileSync } from 'node:fs';
+import { mkdtemp, readdir, rm, stat } from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
+import { parseArgs } from 'node:util';
+import { extractFrames, type ExtractOptions } from '../../server/media/extract';
+import { DEFAULT_QUALITY, DEFAULT_SCALE_FLAGS } from '../../server/media/extract-plan';
+import { probeVideo } from '../../server/media/probe';
+
+const { values: args } = parseArgs({
+  options: {
+    reps: { type: 'string', default: '2' },
+    all: { type: 'boolean', default: false },
+    clip: { type: 'string' },
+    keep: { type: 'boolean', default: false },
+  },
+});
+
+/** CPU seconds used by waited-for child processes (Linux /proc/self/stat cutime + cstime). */
+function childCpuS(): number {
+  try {
+    const fields = readFileSync('/proc/self/stat', 'utf8').split(') ')[1]!.split(' ');
+    return (Number(fields[13]) + Number(fields[14])) / 100; // fields 16, 17 of stat(5); USER_HZ 100
+  } catch {
+    return NaN;
+  }
+}
+
+function ffmpeg(argv: string[]): Promise<void> {
+  return new Promise((resolve, reject) => {
+    const child = spawn('ffmpeg', ['-hide_banner', '-v', 'error', ...argv], { stdio: ['ignore', 'ignore', 'pipe'] });
+    let err = '';
+    child.stderr.on('data', (c: Buffer) => (err += c.toString()));
+    child.on('close', (code) => (code === 0 ? resolve() : reject(new Error(`ffmpeg ${code}: ${err}`))));
+  });
+}
+
+interface Timing {
+  wallS: number;
+  cpuS: number;
+}
+
+async function timed(fn: () => Promise<unknown>): Promise<Timing> {
+  const cpu0 = childCpuS();
+  const t0 = performance.now();
+  await fn();
+  return { wallS: (performance.now() - t0) / 1000, cpuS: childCpuS() - cpu0 };
+}
+
+const best = (ts: Timing[]): Timing => ({ wallS: Math.min(...ts.map((t) => t.wallS)), cpuS: Math.min(...ts.map((t) => t.cpuS)) });
+const f2 = (n: number) => n.toFixed(2);
+
+interface Variant {
+  name: string;
+  opts: ExtractOptions;
+}
+
+const defaults: Variant = { name: `defaults (q ${DEFAULT_QUALITY}, ${DEFAULT_SCALE_FLAGS})`, opts: {} };
+const grid: Variant[] = args.all
+  ? [2, 4, 6, 8].flatMap((quality) =>
+      (['bicubic', 'bilinear', 'fast_bilinear'] as const).flatMap((scaleFlags) =>
+        [undefined, 1, 2].map((threads) => ({ name: `q ${quality}, ${scaleFlags}, threads ${threads ?? 'auto'}`, opts: { quality, scaleFlags, threads } })),
+      ),
+    )
+  : [
+      { name: 'q 2, bicubic', opts: { quality: 2, scaleFlags: 'bicubic' } },
+      { name: 'q 4, bicubic', opts: { quality: 4, scaleFlags: 'bicubic' } },
+      { name: 'q 6, bilinear', opts: { quality: 6, scaleFlags: 'bilinear' } },
+      { name: 'q 4, fast_bilinear', opts: { quality: 4, scaleFlags: 'fast_bilinear' } },
+      { name: 'q 6, fast_bilinear', opts: { quality: 6, scaleFlags: 'fast_bilinear' } },
+      { name: 'q 4, fast_bilinear, threads 1', opts: { quality: 4, scaleFlags: 'fast_bilinear', threads: 1 } },
+    ];
+
+const work = await mkdtemp(path.join(os.tmpdir(), 'tf-bench-'));
+try {
+  let clip = args.clip;
+  if (!clip) {
+    clip = path.join(work, 'testsrc2-1080p120-10s.mp4');
+    process.stdout.write('encoding 10 s 1920×1080 120 fps testsrc2 (libx264 veryfast, yuv420p)… ');
+    const enc = await timed(() => ffmpeg(['-f', 'lavfi', '-i', 'testsrc2=size=1920x1080:rate=120', '-t', '10', '-c:v', 'libx264', '-preset', 'veryfast', '-pix_fmt', 'yuv420p', clip!]));
+    console.log(`${f2(enc.wallS)} s`);
+  }
+  const reps = Math.max(1, Number(args.reps));
+  const decode: Timing[] = [];
+  const rows: Array<{ v: Variant; t: Timing; frames: number; meanBytes: number; probeS: number }> = [];
+  for (const v of [defaults, ...grid]) {
+    const runs: Timing[] = [];
+    let frames = 0;
+    let meanBytes = 0;
+    let probeS = Infinity;
+    for (let r = 0; r < reps; r++) {
+      decode.push(await timed(() => ffmpeg(['-i', clip!, '-f', 'null', '-'])));
+      const out = path.join(work, 'out');
+      await rm(out, { recursive: true, force: true });
+      runs.push(
+        await timed(async () => {
+          const t0 = performance.now();
+          const probe = await probeVideo(clip!);
+          probeS = Math.min(probeS, (performance.now() - t0) / 1000);
+          const m = await extractFrames(clip!, out, { ...v.opts, probe });
+          frames = m.frameCount;
+        }),
+      );
+      const files = (await readdir(path.join(out, 'frames'))).filter((f) => f.endsWith('.jpg'));
+      let bytes = 0;
+      for (const f of files) bytes += (await stat(path.join(out, 'frames', f))).size;
+      meanBytes = bytes / files.length;
+    }
+    rows.push({ v, t: best(runs), frames, meanBytes, probeS });
+    const d = best(decode);
+    console.log(
+      `${v.name.padEnd(36)} probe+extract ${f2(best(runs).wallS)} s wall (${f2(best(runs).cpuS)} s CPU), probe ${f2(probeS)} s | ` +
+        `decode ${f2(d.wallS)} s (${f2(d.cpuS)} s CPU) | ratio ${f2(best(runs).wallS / d.wallS)} wall, ${f2(best(runs).cpuS / d.cpuS)} CPU | ` +
+        `${frames} frames, ${Math.round(meanBytes / 1024)} KiB/frame`,
+    );
+  }
+  const d = best(decode);
+  console.log(`\nffmpeg -f null decode (best of ${decode.length}): ${f2(d.wallS)} s wall, ${f2(d.cpuS)} s CPU; ${os.cpus().length} CPUs, load ${os.loadavg().map(f2).join(' ')}`);
+  const ok = rows.filter((r) => r.t.wallS / d.wallS <= 1.5);
+  console.log(ok.length ? `meets ≤ 1.5 × decode: ${ok.map((r) => r.v.name).join('; ')}` : 'no setting met ≤ 1.5 × decode here');
+} finally {
+  if (args.keep) console.log(`kept ${work}`);
+  else await rm(work, { recursive: true, force: true });
+}
