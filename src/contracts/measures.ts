@@ -1,0 +1,96 @@
+/**
+ * Shapes of computed measures (produced by `src/kinematics`, stored by the server as snapshots,
+ * shown by the client). Types only.
+ */
+import type { GaitEventKind } from './annotations';
+import type { Side } from './assessment';
+
+/** Keys of the measures the review workspace shows. */
+export type MeasureKey =
+  | 'hip_extension_toe_off'
+  | 'hip_extension_toe_off_rel_trunk'
+  | 'knee_flexion_initial_contact'
+  | 'knee_flexion_peak_stance'
+  | 'shank_angle_initial_contact'
+  | 'foot_angle_initial_contact'
+  | 'trunk_lean'
+  | 'heel_ahead_of_hip_initial_contact'
+  | 'cadence'
+  | 'step_time'
+  | 'stride_time'
+  | 'step_length'
+  | 'stride_length'
+  | 'contact_time'
+  | 'flight_time'
+  | 'duty_factor'
+  | 'vertical_oscillation'
+  | 'symmetry_contact_time'
+  | 'symmetry_hip_extension_toe_off';
+
+/** A cited reference band for one measure (the clinic's owner may edit them). */
+export interface ReferenceBand {
+  key: MeasureKey;
+  /** Lower and upper limits in the measure's unit; either may be null (one-sided band). */
+  low: number | null;
+  high: number | null;
+  unit: string;
+  /** Short label of the population/condition, e.g. "treadmill, preferred step rate". */
+  context: string;
+  /** Citation, e.g. "Heiderscheit et al. 2011, Med Sci Sports Exerc 43:296–302, Table 3". */
+  source: string;
+  /** REFERENCES.md tag: pub, mem, trade, calc. */
+  evidence: 'pub' | 'mem' | 'trade' | 'calc';
+}
+
+export interface BandEvaluation {
+  band: ReferenceBand;
+  /** Where the mean sits against the band. */
+  position: 'below' | 'within' | 'above';
+}
+
+/** One figure: a mean ± SD over the marked steps, or "not enough data". */
+export interface Measure {
+  key: MeasureKey;
+  label: string;
+  unit: string;
+  side: Side | null;
+  /** The gait event it is read at, when it is read at one. */
+  event: GaitEventKind | null;
+  status: 'ok' | 'not_enough_data';
+  mean: number | null;
+  sd: number | null;
+  /** How many steps (or strides) the mean averages. */
+  n: number;
+  /** Each step's value, in time order. */
+  values: number[];
+  /** How the figure is derived, in words (shown on hover/expand). */
+  derivation: string;
+  /** Why the figure is missing, when it is. */
+  missing?: string;
+  band?: BandEvaluation;
+}
+
+/** Angles on one frame for one side (degrees), for the chart. Missing landmarks → absent angle. */
+export interface AngleSample {
+  frame: number;
+  timeMs: number;
+  side: Side;
+  thighDeg?: number;
+  kneeFlexionDeg?: number;
+  shankDeg?: number;
+  trunkDeg?: number;
+  footDeg?: number;
+  hipRelTrunkDeg?: number;
+}
+
+export interface ClipMeasures {
+  /** Version of `src/kinematics` that computed this. */
+  kinematicsVersion: string;
+  clipId: number;
+  /** Whether a scale (metres per pixel or belt speed) was available for lengths. */
+  hasScale: boolean;
+  measures: Measure[];
+  angles: AngleSample[];
+  /** Plain-language warnings, e.g. "Fewer than 7 steps marked: means are less reliable". */
+  notes: string[];
+}
