@@ -1,5 +1,11 @@
 import type { Knex } from 'knex';
+import fs from 'node:fs';
+import path from 'node:path';
 import { hashPassword } from '../server/auth/passwords';
+import { localMediaStore } from '../server/storage/media-store';
+import { sqliteJobQueue } from '../server/jobs/job-queue';
+import { EXTRACT_JOB } from '../server/clips/clips-service';
+import { generateDemoClips } from '../scripts/demo-clip/clip';
 
 /**
  * The demo scenario: an invented clinic, its staff and athletes. Every person, place and e-mail
@@ -197,7 +203,61 @@ export async function seed(knex: Knex, opts: SeedOptions = {}): Promise<boolean>
   return true;
 }
 
-/** Generates the demo runner clips and queues them like uploads (see scripts/demo-clip). */
-async function seedDemoClips(_knex: Knex, _uploadsDir: string, _log: (m: string) => void): Promise<void> {
-  // Filled in once the demo-clip generator lands.
+/**
+ * Renders the demo runner clips (synthetic figure, see scripts/demo-clip) for the athlete with
+ * high-hamstring pain — Baseline with ~4° hip extension at toe-off, Re-test with ~11° — and
+ * queues them exactly like uploads; the server's worker extracts their frames on start.
+ */
+async function seedDemoClips(knex: Knex, uploadsDir: string, log: (m: string) => void): Promise<void> {
+  log('rendering the demo clips (synthetic runner, about 20 s)…');
+  const store = localMediaStore(uploadsDir);
+  const work = fs.mkdtempSync(path.join(store.tmpDir, 'demo-'));
+  try {
+    const clips = await generateDemoClips(work);
+    const queue = sqliteJobQueue(knex, { leaseMs: 30_000, maxAttempts: 3 });
+    const ada = await knex('athletes').where({ last_name: 'Kestrel' }).first<{ id: number; clinic_id: number; coach_id: number }>();
+    const visits = await knex('assessments').where({ athlete_id: ada.id }).orderBy('date');
+    const at = new Date().toISOString();
+    for (const [visit, clip] of [
+      [visits.find((v) => v.kind === 'baseline'), clips.baseline],
+      [visits.find((v) => v.kind === 'retest'), clips.retest],
+    ] as const) {
+      if (!visit) continue;
+      const truth = clip.groundTruth;
+      await knex.transaction(async (trx) => {
+        const [row] = await trx('clips')
+          .insert({
+            clinic_id: ada.clinic_id,
+            athlete_id: ada.id,
+            assessment_id: visit.id,
+            uploaded_by: ada.coach_id,
+            original_name: `${clip.label.toLowerCase().replace(/[^a-z]+/g, '-')}-treadmill-side.mp4`,
+            stored_name: 'original.mp4',
+            size_bytes: fs.statSync(clip.videoFile).size,
+            container: 'mp4',
+            status: 'queued',
+            near_side: truth.nearSide,
+            direction: truth.facing === 'right' ? 'left_to_right' : 'right_to_left',
+            fps: truth.fps,
+            width: truth.width,
+            height: truth.height,
+            frame_count: truth.frameCount,
+            duration_s: truth.durationS,
+            rotation: 0,
+            codec: 'h264',
+            created_at: at,
+            updated_at: at,
+          })
+          .returning('id');
+        const clipId = (row as { id: number }).id;
+        await queue.enqueue(trx, EXTRACT_JOB, `clip:${clipId}`, { clipId });
+        await store.adopt(clip.videoFile, clipId, 'original.mp4');
+        // Kept beside the clip for checks; never served.
+        await store.adopt(clip.groundTruthFile, clipId, 'ground-truth.json');
+      });
+    }
+    log('demo clips queued: the server extracts their frames when it starts');
+  } finally {
+    fs.rmSync(work, { recursive: true, force: true });
+  }
 }
