@@ -11,6 +11,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { createDb, migrate } from '../../server/db/knex';
 import { DEMO_SIGN_INS, seed } from '../../seeds/demo-scenario';
+import { buildServer, SERVER_BUNDLE } from '../../scripts/build-server';
 
 const sizeMb = Number(process.argv[2] ?? 500);
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tf-bench-rss-'));
@@ -32,7 +33,9 @@ await migrate(db);
 await seed(db);
 await db.destroy();
 
-const server = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], {
+// Measure what `npm start` runs: the bundled server on plain Node.
+await buildServer();
+const server = spawn(process.execPath, [SERVER_BUNDLE], {
   stdio: 'inherit',
   env: { ...process.env, PORT: String(port), DB_FILE: path.join(dir, 'db.sqlite'), UPLOADS_DIR: path.join(dir, 'uploads'), CLIENT_DIR: '', FAKE_SMTP_PORT: '0', LOG_LEVEL: 'warn' },
 });
