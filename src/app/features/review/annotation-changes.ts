@@ -1,0 +1,243 @@
+/**
+ * Annotations as a set of keyed values, and edits as key-level changes. Every edit in the review
+ * workspace is a list of changes (one landmark point, one gait event, the scale bar); undo applies
+ * the "before" values, redo the "after" values, and after a save conflict the local edits (the
+ * difference between what was loaded and what is shown) are applied on top of the server's copy.
+ * Pure functions over immutable data.
+ */
+import type { FrameLandmarks, FramePoint, GaitEventKind, GaitEventMark, LandmarkName, ScaleBar } from '../../../contracts/annotations';
+import { GAIT_EVENT_KINDS, LANDMARKS } from '../../../contracts/annotations';
+import type { Side } from '../../../contracts/assessment';
+
+/** What the coach edits: the annotation body without revision bookkeeping. */
+export interface AnnotationState {
+  landmarks: FrameLandmarks[];
+  events: GaitEventMark[];
+  scale: ScaleBar | null;
+}
+
+/** One landmark point of one side on one frame. */
+export interface PointKey {
+  kind: 'point';
+  frame: number;
+  side: Side;
+  landmark: LandmarkName;
+}
+
+/** One gait event of one side on one frame. */
+export interface EventKey {
+  kind: 'event';
+  frame: number;
+  side: Side;
+  event: GaitEventKind;
+}
+
+export interface ScaleKey {
+  kind: 'scale';
+}
+
+export type AnnotationKey = PointKey | EventKey | ScaleKey;
+
+/** A change of one keyed value; `null` means "absent". */
+export type Change =
+  | { key: PointKey; before: FramePoint | null; after: FramePoint | null }
+  | { key: EventKey; before: true | null; after: true | null }
+  | { key: ScaleKey; before: ScaleBar | null; after: ScaleBar | null };
+
+export const EMPTY_STATE: AnnotationState = { landmarks: [], events: [], scale: null };
+
+const SIDE_ORDER: Record<Side, number> = { left: 0, right: 1 };
+
+/** A stable string for a key (map keys, comparisons). */
+export function keyId(key: AnnotationKey): string {
+  switch (key.kind) {
+    case 'point':
+      return `p|${key.frame}|${key.side}|${key.landmark}`;
+    case 'event':
+      return `e|${key.frame}|${key.side}|${key.event}`;
+    case 'scale':
+      return 's';
+  }
+}
+
+function samePoint(a: FramePoint | null | undefined, b: FramePoint | null | undefined): boolean {
+  if (!a || !b) return !a && !b;
+  return a.x === b.x && a.y === b.y;
+}
+
+function sameScale(a: ScaleBar | null, b: ScaleBar | null): boolean {
+  if (!a || !b) return !a && !b;
+  return a.frame === b.frame && a.lengthM === b.lengthM && samePoint(a.a, b.a) && samePoint(a.b, b.b);
+}
+
+function sameValue(a: unknown, b: unknown, kind: AnnotationKey['kind']): boolean {
+  if (kind === 'point') return samePoint(a as FramePoint | null, b as FramePoint | null);
+  if (kind === 'scale') return sameScale(a as ScaleBar | null, b as ScaleBar | null);
+  return (a ?? null) === (b ?? null);
+}
+
+/** The current value at `key` in `state` (null when absent). */
+export function valueAt(state: AnnotationState, key: AnnotationKey): FramePoint | true | ScaleBar | null {
+  switch (key.kind) {
+    case 'point': {
+      const row = state.landmarks.find((l) => l.frame === key.frame && l.side === key.side);
+      return row?.points[key.landmark] ?? null;
+    }
+    case 'event':
+      return state.events.some((e) => e.frame === key.frame && e.side === key.side && e.kind === key.event) ? true : null;
+    case 'scale':
+      return state.scale;
+  }
+}
+
+interface Keyed {
+  key: AnnotationKey;
+  value: FramePoint | true | ScaleBar;
+}
+
+/** Every present value of `state`, by key id. */
+export function keyedValues(state: AnnotationState): Map<string, Keyed> {
+  const map = new Map<string, Keyed>();
+  for (const row of state.landmarks) {
+    for (const landmark of LANDMARKS) {
+      const p = row.points[landmark];
+      if (!p) continue;
+      const key: PointKey = { kind: 'point', frame: row.frame, side: row.side, landmark };
+      map.set(keyId(key), { key, value: p });
+    }
+  }
+  for (const e of state.events) {
+    const key: EventKey = { kind: 'event', frame: e.frame, side: e.side, event: e.kind };
+    map.set(keyId(key), { key, value: true });
+  }
+  if (state.scale) map.set('s', { key: { kind: 'scale' }, value: state.scale });
+  return map;
+}
+
+/** The changes that turn `from` into `to` (empty when they hold the same marks). */
+export function diffStates(from: AnnotationState, to: AnnotationState): Change[] {
+  const a = keyedValues(from);
+  const b = keyedValues(to);
+  const changes: Change[] = [];
+  for (const [id, { key, value }] of a) {
+    const other = b.get(id);
+    if (!other) changes.push({ key, before: value, after: null } as Change);
+    else if (!sameValue(value, other.value, key.kind)) changes.push({ key, before: value, after: other.value } as Change);
+  }
+  for (const [id, { key, value }] of b) {
+    if (!a.has(id)) changes.push({ key, before: null, after: value } as Change);
+  }
+  return changes;
+}
+
+/** Whether two states hold the same marks. */
+export function sameState(a: AnnotationState, b: AnnotationState): boolean {
+  return diffStates(a, b).length === 0;
+}
+
+/** The changes that undo `changes` (reversed order, before ↔ after). */
+export function invertChanges(changes: readonly Change[]): Change[] {
+  return [...changes].reverse().map((c) => ({ key: c.key, before: c.after, after: c.before }) as Change);
+}
+
+/** Drops changes whose before and after are the same. */
+export function effectiveChanges(changes: readonly Change[]): Change[] {
+  return changes.filter((c) => !sameValue(c.before, c.after, c.key.kind));
+}
+
+function sortLandmarks(rows: FrameLandmarks[]): FrameLandmarks[] {
+  return rows.sort((a, b) => a.frame - b.frame || SIDE_ORDER[a.side] - SIDE_ORDER[b.side]);
+}
+
+/** Events in frame order, then left before right, then initial contact → midstance → toe-off. */
+export function sortEvents(events: readonly GaitEventMark[]): GaitEventMark[] {
+  return [...events].sort(
+    (a, b) => a.frame - b.frame || SIDE_ORDER[a.side] - SIDE_ORDER[b.side] || GAIT_EVENT_KINDS.indexOf(a.kind) - GAIT_EVENT_KINDS.indexOf(b.kind),
+  );
+}
+
+/**
+ * Sets each change's `after` value in `state` (whatever is there now). Landmark rows left with no
+ * points are dropped; rows and events stay sorted.
+ */
+export function applyChanges(state: AnnotationState, changes: readonly Change[]): AnnotationState {
+  if (!changes.length) return state;
+  let landmarks = state.landmarks;
+  let events = state.events;
+  let scale = state.scale;
+  let landmarksCopied = false;
+  let eventsChanged = false;
+  for (const c of changes) {
+    switch (c.key.kind) {
+      case 'point': {
+        const { frame, side, landmark } = c.key;
+        if (!landmarksCopied) {
+          landmarks = [...landmarks];
+          landmarksCopied = true;
+        }
+        const i = landmarks.findIndex((l) => l.frame === frame && l.side === side);
+        const after = c.after as FramePoint | null;
+        if (i < 0) {
+          if (after) landmarks.push({ frame, side, points: { [landmark]: { x: after.x, y: after.y } }, source: 'manual' });
+        } else {
+          const points = { ...landmarks[i].points };
+          if (after) points[landmark] = { x: after.x, y: after.y };
+          else delete points[landmark];
+          if (Object.keys(points).length) landmarks[i] = { ...landmarks[i], points };
+          else landmarks.splice(i, 1);
+        }
+        break;
+      }
+      case 'event': {
+        const { frame, side, event } = c.key;
+        const present = events.some((e) => e.frame === frame && e.side === side && e.kind === event);
+        if (c.after && !present) {
+          events = [...events, { frame, side, kind: event }];
+          eventsChanged = true;
+        } else if (!c.after && present) {
+          events = events.filter((e) => !(e.frame === frame && e.side === side && e.kind === event));
+          eventsChanged = true;
+        }
+        break;
+      }
+      case 'scale':
+        scale = c.after as ScaleBar | null;
+        break;
+    }
+  }
+  return {
+    landmarks: landmarksCopied ? sortLandmarks(landmarks) : landmarks,
+    events: eventsChanged ? sortEvents(events) : events,
+    scale,
+  };
+}
+
+/** What re-applying local edits on a newer server copy gave. */
+export interface MergeResult {
+  merged: AnnotationState;
+  /** Local edits that were re-applied. */
+  applied: number;
+  /** Of those, how many replaced a different edit someone else saved at the same place. */
+  conflicts: number;
+}
+
+/**
+ * Three-way merge after a save conflict: the edits made locally since `base` (the revision the
+ * page loaded) are applied on top of `remote` (the server's newer revision). Where both changed
+ * the same point, event or scale bar, the local edit wins (the coach is looking at it) and is
+ * counted as a conflict. Everything else someone else saved is kept.
+ */
+export function mergeOnto(base: AnnotationState, local: AnnotationState, remote: AnnotationState): MergeResult {
+  const mine = diffStates(base, local);
+  let conflicts = 0;
+  for (const c of mine) {
+    const theirs = valueAt(remote, c.key);
+    if (!sameValue(theirs, c.before, c.key.kind) && !sameValue(theirs, c.after, c.key.kind)) conflicts += 1;
+  }
+  return { merged: applyChanges(remote, mine), applied: mine.length, conflicts };
+}
+
+/** Copies only the editable part of annotations (drops revision, clip id and who saved). */
+export function stateOf(a: AnnotationState): AnnotationState {
+  return { landmarks: a.landmarks, events: a.events, scale: a.scale };
+}

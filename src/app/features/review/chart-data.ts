@@ -1,0 +1,127 @@
+/**
+ * Data for the joint-angle chart: one line per chosen angle and side, plus the gait-event markers
+ * (drawn by a small chart.js plugin of ours) and the current frame. Pure apart from the plugin's
+ * drawing, which only touches the chart's canvas.
+ */
+import type { ChartDataset, Plugin } from 'chart.js';
+import type { GaitEventKind, GaitEventMark } from '../../../contracts/annotations';
+import type { Side } from '../../../contracts/assessment';
+import type { AngleSample } from '../../../contracts/measures';
+import { EVENT_SHORT } from './annotation-ops';
+
+export type AngleSeriesId = 'thigh' | 'knee' | 'shank' | 'trunk' | 'foot';
+
+export interface AngleSeries {
+  id: AngleSeriesId;
+  label: string;
+  field: keyof Pick<AngleSample, 'thighDeg' | 'kneeFlexionDeg' | 'shankDeg' | 'trunkDeg' | 'footDeg'>;
+  /** Line dash, so series differ by more than colour. */
+  dash: number[];
+  /** Point marker shape. */
+  point: 'circle' | 'rect' | 'triangle' | 'rectRot' | 'crossRot';
+}
+
+export const ANGLE_SERIES: AngleSeries[] = [
+  { id: 'thigh', label: 'Thigh from vertical (+ flexion)', field: 'thighDeg', dash: [], point: 'circle' },
+  { id: 'knee', label: 'Knee flexion', field: 'kneeFlexionDeg', dash: [6, 4], point: 'rect' },
+  { id: 'shank', label: 'Shank from vertical', field: 'shankDeg', dash: [2, 3], point: 'triangle' },
+  { id: 'trunk', label: 'Trunk lean', field: 'trunkDeg', dash: [10, 3, 2, 3], point: 'rectRot' },
+  { id: 'foot', label: 'Foot from horizontal', field: 'footDeg', dash: [1, 3], point: 'crossRot' },
+];
+
+export const SIDE_COLOURS: Record<Side, string> = { left: '#7B4FD6', right: '#E08A1E' };
+export const TRUNK_COLOUR = '#3E4C59';
+const SIDE_LABELS: Record<Side, string> = { left: 'Left', right: 'Right' };
+
+export type AngleDataset = ChartDataset<'line', { x: number; y: number }[]>;
+
+/** One dataset per chosen series and side that has any value (trunk drawn in slate). */
+export function angleDatasets(samples: readonly AngleSample[], series: readonly AngleSeriesId[], sides: readonly Side[]): AngleDataset[] {
+  const out: AngleDataset[] = [];
+  for (const def of ANGLE_SERIES.filter((s) => series.includes(s.id))) {
+    for (const side of sides) {
+      const data = samples
+        .filter((s) => s.side === side && typeof s[def.field] === 'number')
+        .map((s) => ({ x: s.frame, y: Math.round((s[def.field] as number) * 10) / 10 }))
+        .sort((a, b) => a.x - b.x);
+      if (!data.length) continue;
+      const colour = def.id === 'trunk' ? TRUNK_COLOUR : SIDE_COLOURS[side];
+      out.push({
+        label: `${def.label} · ${SIDE_LABELS[side]}`,
+        data,
+        borderColor: colour,
+        backgroundColor: colour,
+        borderDash: def.dash,
+        borderWidth: 2,
+        pointStyle: def.point,
+        pointRadius: 3,
+        pointHoverRadius: 5,
+        tension: 0,
+        spanGaps: true,
+      });
+    }
+  }
+  return out;
+}
+
+/** The frame nearest a chart x value, inside the clip. */
+export function frameFromChartValue(value: number | undefined, frameCount: number): number | null {
+  if (value === undefined || !Number.isFinite(value) || frameCount <= 0) return null;
+  return Math.min(frameCount - 1, Math.max(0, Math.round(value)));
+}
+
+/** What the marker plugin draws; the chart component mutates it and asks the chart to redraw. */
+export interface MarkerState {
+  events: GaitEventMark[];
+  currentFrame: number;
+  currentColour: string;
+  font: string;
+}
+
+const EVENT_DASH: Record<GaitEventKind, number[]> = { initial_contact: [], midstance: [2, 3], toe_off: [6, 3] };
+
+/**
+ * A chart.js plugin that draws the marked gait events as vertical lines (side colour, dash by kind,
+ * a short label on top) and the current frame as a solid line. Reads `state` on every draw.
+ */
+export function eventMarkersPlugin(state: MarkerState): Plugin<'line'> {
+  return {
+    id: 'trailframeEventMarkers',
+    afterDatasetsDraw(chart) {
+      const { ctx, chartArea, scales } = chart;
+      const x = scales['x'];
+      if (!x || !chartArea) return;
+      ctx.save();
+      ctx.beginPath();
+      ctx.rect(chartArea.left, chartArea.top - 14, chartArea.right - chartArea.left, chartArea.bottom - chartArea.top + 14);
+      ctx.clip();
+      ctx.font = state.font;
+      ctx.textAlign = 'center';
+      ctx.textBaseline = 'bottom';
+      for (const e of state.events) {
+        const px = x.getPixelForValue(e.frame);
+        if (px < chartArea.left - 1 || px > chartArea.right + 1) continue;
+        ctx.strokeStyle = SIDE_COLOURS[e.side];
+        ctx.lineWidth = 1.5;
+        ctx.setLineDash(EVENT_DASH[e.kind]);
+        ctx.beginPath();
+        ctx.moveTo(px, chartArea.top);
+        ctx.lineTo(px, chartArea.bottom);
+        ctx.stroke();
+        ctx.fillStyle = SIDE_COLOURS[e.side];
+        ctx.fillText(`${EVENT_SHORT[e.kind]}${e.side === 'left' ? 'L' : 'R'}`, px, chartArea.top - 1);
+      }
+      const cx = x.getPixelForValue(state.currentFrame);
+      if (cx >= chartArea.left && cx <= chartArea.right) {
+        ctx.setLineDash([]);
+        ctx.strokeStyle = state.currentColour;
+        ctx.lineWidth = 2;
+        ctx.beginPath();
+        ctx.moveTo(cx, chartArea.top);
+        ctx.lineTo(cx, chartArea.bottom);
+        ctx.stroke();
+      }
+      ctx.restore();
+    },
+  };
+}
