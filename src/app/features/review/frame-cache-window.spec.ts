@@ -33,6 +33,13 @@ describe('planCache', () => {
     expect(plan.fetch).toEqual([50, 52, 53]);
   });
 
+  it('fetches the frame on screen even when every slot is busy', () => {
+    const plan = planCache({ current: 10, frameCount: 100, cached: new Map(), inFlight: new Set([11, 12, 13, 9]), options });
+    expect(plan.fetch).toEqual([10]);
+    const busy = planCache({ current: 10, frameCount: 100, cached: cachedOf([10]), inFlight: new Set([11, 12, 13, 9]), options });
+    expect(busy.fetch).toEqual([]);
+  });
+
   it('does not fetch frames that failed', () => {
     const plan = planCache({ current: 0, frameCount: 3, cached: new Map(), inFlight: new Set(), failed: new Set([0]), options });
     expect(plan.fetch).toEqual([1, 2]);

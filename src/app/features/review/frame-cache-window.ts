@@ -75,7 +75,9 @@ export function planCache(input: CachePlanInput): CachePlan {
   const abort = [...inFlight].filter((f) => !wantedSet.has(f)).sort((a, b) => a - b);
   const stillRunning = inFlight.size - abort.length;
   const room = Math.max(0, options.maxInFlight - stillRunning);
-  const fetch = wanted.filter((f) => !cached.has(f) && !inFlight.has(f) && !failed.has(f)).slice(0, room);
+  const missing = wanted.filter((f) => !cached.has(f) && !inFlight.has(f) && !failed.has(f));
+  // The frame on screen is fetched even when every slot is busy; the rest wait for room.
+  const fetch = missing.length > 0 && missing[0] === wanted[0] && room === 0 ? [missing[0]] : missing.slice(0, room);
 
   // Evict: first frames outside the window, least recently used first; then, if still over, the
   // window frames farthest from the current one (never the current frame).
