@@ -10,7 +10,8 @@
  * - hip relative to trunk = thigh + trunk.
  * Hip extension at toe-off is reported as a positive number: `hipExtensionDeg(thigh) = −thigh`.
  */
-import { toDeg, type Point } from './geometry';
+import type { LandmarkName } from '../contracts/annotations';
+import { toDeg, type PlanePoint, type PlaneUnit, type Point } from './geometry';
 
 /** Hip→knee from vertical; + flexion, − extension. */
 export function thighAngleDeg(hip: Point, knee: Point): number {
@@ -91,4 +92,69 @@ export function sideAngles(l: SideLandmarks): SideAngles {
     trunkDeg: trunkLeanDeg(l.hip, l.shoulder),
     footDeg: footAngleDeg(l.heel, l.toe),
   };
+}
+
+// ─── Partial poses (what a coach has marked so far) ──────────────────────────────────────────
+
+/** One side's landmarks on one frame in the plane (any subset marked), unit `U`. */
+export type SidePose<U extends PlaneUnit = PlaneUnit> = Partial<Record<LandmarkName, PlanePoint<U>>>;
+
+/** A trunk segment: hip → shoulder. */
+export interface TrunkPair<U extends PlaneUnit = PlaneUnit> {
+  hip: PlanePoint<U>;
+  shoulder: PlanePoint<U>;
+}
+
+/**
+ * Angles available from a partial pose (degrees; same conventions as above). An angle is absent
+ * when a landmark it needs is absent — never NaN.
+ */
+export interface PoseAngles {
+  /** Hip→knee from vertical, + flexion. Needs hip, knee. */
+  thighDeg?: number;
+  /** Knee→ankle from vertical, + ankle ahead of knee. Needs knee, ankle. */
+  shankDeg?: number;
+  /** Thigh − shank, 0° straight. Needs hip, knee, ankle. */
+  kneeFlexionDeg?: number;
+  /** Hip→shoulder from vertical, + forward. Needs shoulder, hip (own side, else `trunkFallback`). */
+  trunkDeg?: number;
+  /** Heel→toe from horizontal, + toe up. Needs heel, toe. */
+  footDeg?: number;
+  /** 90° − angle(shank, foot), + dorsiflexion. Needs knee, ankle, heel, toe. */
+  ankleDeg?: number;
+  /** Thigh + trunk. Needs thigh and trunk. */
+  hipRelTrunkDeg?: number;
+  /** True when the trunk came from `trunkFallback` (the other side's shoulder and hip). */
+  trunkFromFallback?: boolean;
+}
+
+const finite = (v: number): number | undefined => (Number.isFinite(v) ? v : undefined);
+const distinct = (a: Point, b: Point): boolean => a.x !== b.x || a.y !== b.y;
+
+/**
+ * The angles of a partial pose. `trunkFallback` (normally the other side's shoulder and hip on the
+ * same frame) is used for the trunk when this side's shoulder or hip is missing: the trunk is one
+ * segment, seen from the side both marker pairs lie along it. Coincident points give no angle.
+ */
+export function poseAngles<U extends PlaneUnit>(pose: SidePose<U>, trunkFallback?: TrunkPair<U> | null): PoseAngles {
+  const { shoulder, hip, knee, ankle, heel, toe } = pose;
+  const out: PoseAngles = {};
+  if (hip && knee && distinct(hip, knee)) out.thighDeg = finite(thighAngleDeg(hip, knee));
+  if (knee && ankle && distinct(knee, ankle)) out.shankDeg = finite(shankAngleDeg(knee, ankle));
+  if (out.thighDeg !== undefined && out.shankDeg !== undefined) out.kneeFlexionDeg = finite(wrapDeg(out.thighDeg - out.shankDeg));
+  if (shoulder && hip && distinct(hip, shoulder)) out.trunkDeg = finite(trunkLeanDeg(hip, shoulder));
+  else if (trunkFallback && distinct(trunkFallback.hip, trunkFallback.shoulder)) {
+    out.trunkDeg = finite(trunkLeanDeg(trunkFallback.hip, trunkFallback.shoulder));
+    if (out.trunkDeg !== undefined) out.trunkFromFallback = true;
+  }
+  if (heel && toe && distinct(heel, toe)) out.footDeg = finite(footAngleDeg(heel, toe));
+  if (knee && ankle && heel && toe && distinct(knee, ankle) && distinct(heel, toe)) out.ankleDeg = finite(ankleAngleDeg(knee, ankle, heel, toe));
+  if (out.thighDeg !== undefined && out.trunkDeg !== undefined) out.hipRelTrunkDeg = hipRelativeToTrunkDeg(out.thighDeg, out.trunkDeg);
+  for (const k of Object.keys(out) as (keyof PoseAngles)[]) if (out[k] === undefined) delete out[k];
+  return out;
+}
+
+/** Horizontal distance heel − hip (+ = heel ahead of the hip, overstride), in the pose's unit. */
+export function heelAheadOfHip<U extends PlaneUnit>(pose: SidePose<U>): number | undefined {
+  return pose.heel && pose.hip ? pose.heel.x - pose.hip.x : undefined;
 }

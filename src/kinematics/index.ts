@@ -1,3 +1,16 @@
-/** Pure sagittal-plane kinematics shared by client and server (no Angular, no Node). */
+/**
+ * Pure sagittal-plane kinematics shared by client and server (no Angular, no Node, no DOM):
+ * - geometry: image fractions (`FramePoint`, y down) vs the y-up plane (`PlanePoint<'px' | 'm'>`,
+ *   +x = running direction), conversion via frame size, direction and the scale bar;
+ * - angles: signed segment and joint angles (DESIGN.md / REFERENCES.md conventions);
+ * - pose: frame landmarks → plane poses → angles (one path for measures and overlay);
+ * - events: validation, stances / flights / steps / strides, frame timing;
+ * - measures: `computeClipMeasures` (every MeasureKey, mean ± sample SD, or not_enough_data);
+ * - bands: cited default reference bands, `evaluateBand`, foot-strike classifier;
+ * - spring-mass: the spring-mass vertical-oscillation estimate;
+ * - overlay: `drawOverlay` on any Canvas-2D-like context and its pure layout.
+ */
 export * from './geometry';
 export * from './angles';
+export * from './pose';
+export * from './stats';
