@@ -16,10 +16,13 @@ export const DEFAULT_THUMB_LONG_SIDE = 160;
 /** Default JPEG quality for frames, ffmpeg `-q:v` scale (2 best … 31 worst); see test/bench. */
 export const DEFAULT_QUALITY = 4;
 /**
- * swscale flags for the working-size scale. `bilinear` widens its kernel when shrinking (so it
- * does not alias like `fast_bilinear`) and cost ~1.5 s less CPU than `bicubic` per 1200 frames of
- * 1080p in test/bench/make-reviewable.ts.
+ * Which scaler resizes the frames. `zscale` (zimg, SIMD) resizes and converts video range to the
+ * full range JPEG needs for about a tenth of the CPU swscale takes for the same job on 1080p
+ * (test/bench/make-reviewable.ts); `swscale` is the fallback when zscale is missing or fails.
  */
+export type Scaler = 'zscale' | 'swscale';
+export const DEFAULT_SCALER: Scaler = 'zscale';
+/** Resize kernel for working frames (zscale `f=` / swscale `flags=`). */
 export const DEFAULT_SCALE_FLAGS = 'bilinear';
 /** JPEG quality of thumbnails (`-q:v`). */
 export const THUMB_QUALITY = 6;
@@ -58,14 +61,30 @@ export function thumbCount(frameCount: number, every: number): number {
 /**
  * The filtergraph for one decode feeding two outputs. ffmpeg has already rotated the frames
  * (autorotate inserts transpose/flip filters before this graph), so sizes here are displayed
- * sizes. `showinfo` (checksums off) logs each frame's presentation time; `split` hands the same
- * scaled frame to the frame output and, every Nth frame, to a smaller thumbnail scale.
+ * sizes. The scaler also converts to full ("JPEG") range; `showinfo` (checksums off) logs each
+ * frame's presentation time; `split` hands the same frame to the frame output and, every Nth
+ * frame, to a smaller thumbnail scale.
  */
-export function filterGraph(frame: Size, thumb: Size, every: number, scaleFlags: string): string {
+export function filterGraph(frame: Size, thumb: Size, every: number, scaler: Scaler, kernel: string): string {
+  const big =
+    scaler === 'zscale'
+      ? `zscale=w=${frame.width}:h=${frame.height}:f=${kernel}:r=full`
+      : `scale=${frame.width}:${frame.height}:flags=${kernel}:out_range=full`;
+  const small =
+    scaler === 'zscale' ? `zscale=w=${thumb.width}:h=${thumb.height}:f=bilinear` : `scale=${thumb.width}:${thumb.height}:flags=area`;
   return [
-    `[0:v]scale=${frame.width}:${frame.height}:flags=${scaleFlags},setsar=1,showinfo=checksum=0,split=2[frames][t]`,
-    `[t]select='not(mod(n\\,${every}))',scale=${thumb.width}:${thumb.height}:flags=area,setsar=1[thumbs]`,
+    `[0:v]${big},setsar=1,showinfo=checksum=0,split=2[frames][t]`,
+    `[t]select='not(mod(n\\,${every}))',${small},setsar=1[thumbs]`,
   ].join(';');
+}
+
+/**
+ * Encoder options per scaler. zscale leaves 8-bit 4:2:0 frames already in full range and tagged
+ * so; mjpeg takes them as `yuv420p` only with `-strict unofficial`, and writes standard JFIF
+ * (no limited-range marker) because the frames say full range. swscale converts to `yuvj420p`.
+ */
+export function jpegPixelOptions(scaler: Scaler): string[] {
+  return scaler === 'zscale' ? ['-strict', 'unofficial', '-pix_fmt', 'yuv420p'] : ['-pix_fmt', 'yuvj420p'];
 }
 
 /** One frame as `showinfo` logged it. */

@@ -5,13 +5,16 @@ import {
   DEFAULT_LONG_SIDE,
   DEFAULT_QUALITY,
   DEFAULT_SCALE_FLAGS,
+  DEFAULT_SCALER,
   DEFAULT_THUMB_LONG_SIDE,
   THUMB_QUALITY,
   filterGraph,
   fitLongSide,
   frameTimestamps,
+  jpegPixelOptions,
   parseShowinfoLine,
   thumbEvery,
+  type Scaler,
   type ShowinfoFrame,
   type Size,
 } from './extract-plan';
@@ -37,11 +40,22 @@ export interface ExtractOptions {
   probe?: VideoProbe;
   /** Decoder threads (`-threads` on the input); default: ffmpeg's automatic choice. */
   threads?: number;
-  /** swscale flags for the working-size scale (default {@link DEFAULT_SCALE_FLAGS}). */
+  /** Resize kernel for working frames (default {@link DEFAULT_SCALE_FLAGS}). */
   scaleFlags?: string;
+  /** Scaler (default {@link DEFAULT_SCALER}; falls back to swscale by itself if zscale fails). */
+  scaler?: Scaler;
 }
 
 const aborted = () => new MediaError('aborted', 'Frame extraction was cancelled.');
+/** ffmpeg output that means zscale itself failed (missing filter, zimg colourspace refusal). */
+const ZSCALE_TROUBLE = /zscale|zimg|No such filter|no path between colorspaces/i;
+
+/** Marks a failure that swscale may not have; extractFrames retries once with swscale. */
+class ScalerFailed extends Error {
+  constructor(readonly failure: MediaError) {
+    super(failure.message);
+  }
+}
 const JPG = /^\d{6}\.jpg$/;
 
 async function countJpegs(dir: string): Promise<number> {
@@ -56,6 +70,7 @@ interface Run {
   every: number;
   quality: number;
   total: number;
+  scaler: Scaler;
   opts: ExtractOptions;
 }
 
@@ -64,15 +79,16 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
   const { opts } = run;
   return new Promise((resolve, reject) => {
     const logged: ShowinfoFrame[] = [];
+    const pixel = jpegPixelOptions(run.scaler);
     const inputOptions = ['-hide_banner', '-xerror'];
     if (opts.threads !== undefined) inputOptions.push('-threads', String(opts.threads));
     const command = ffmpeg(run.input)
       .inputOptions(inputOptions)
-      .complexFilter(filterGraph(run.frame, run.thumb, run.every, opts.scaleFlags ?? DEFAULT_SCALE_FLAGS))
+      .complexFilter(filterGraph(run.frame, run.thumb, run.every, run.scaler, opts.scaleFlags ?? DEFAULT_SCALE_FLAGS))
       .output(path.join(run.staging, FRAMES_DIR, '%06d.jpg'))
-      .outputOptions(['-map', '[frames]', '-fps_mode', 'passthrough', '-c:v', 'mjpeg', '-q:v', String(run.quality), '-f', 'image2'])
+      .outputOptions(['-map', '[frames]', '-fps_mode', 'passthrough', '-c:v', 'mjpeg', ...pixel, '-q:v', String(run.quality), '-f', 'image2'])
       .output(path.join(run.staging, THUMBS_DIR, '%06d.jpg'))
-      .outputOptions(['-map', '[thumbs]', '-fps_mode', 'passthrough', '-c:v', 'mjpeg', '-q:v', String(THUMB_QUALITY), '-f', 'image2'])
+      .outputOptions(['-map', '[thumbs]', '-fps_mode', 'passthrough', '-c:v', 'mjpeg', ...pixel, '-q:v', String(THUMB_QUALITY), '-f', 'image2'])
       // An abort that came while fluent-ffmpeg was still preparing finds no process to kill.
       .on('start', () => {
         if (opts.signal?.aborted) command.kill('SIGKILL');
@@ -89,7 +105,8 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
         opts.signal?.removeEventListener('abort', onAbort);
         if (opts.signal?.aborted) return reject(aborted());
         const tail = (stderr ?? '').split('\n').filter((l) => l && !l.includes('showinfo')).slice(-8).join('\n');
-        reject(extractFailure(`${err.message}\n${tail}`, logged.length));
+        const failure = extractFailure(`${err.message}\n${tail}`, logged.length);
+        reject(run.scaler === 'zscale' && ZSCALE_TROUBLE.test(`${err.message}\n${tail}`) ? new ScalerFailed(failure) : failure);
       });
     if (opts.onProgress) {
       const report = opts.onProgress;
@@ -122,7 +139,8 @@ export function extractFailure(text: string, framesDone: number): MediaError {
  * Decodes every frame of a clip once with ffmpeg and writes, under `outDir`:
  * - `frames/000001.jpg …`: one JPEG per decoded frame (`-fps_mode passthrough`: no frame is
  *   dropped or duplicated), displayed orientation (ffmpeg's autorotate), long side ≤ `longSide`,
- *   never upscaled, even width and height, square pixels;
+ *   never upscaled, even width and height, square pixels, full-range JFIF (resized by zscale,
+ *   or swscale when zscale is unavailable);
  * - `thumbs/000001.jpg …`: one thumbnail every `thumbEvery` frames (≈ 10 per second of video,
  *   ≤ 600 per clip; thumb k shows frame (k − 1)·thumbEvery), long side ≤ `thumbLongSide`;
  * - `manifest.json` ({@link FrameManifest}), written last — its presence means "complete".
@@ -148,9 +166,24 @@ export async function extractFrames(input: string, outDir: string, opts: Extract
   await mkdir(outDir, { recursive: true });
   const staging = await mkdtemp(path.join(outDir, '.extract-'));
   try {
-    await mkdir(path.join(staging, FRAMES_DIR));
-    await mkdir(path.join(staging, THUMBS_DIR));
-    const logged = await runFfmpeg({ input, staging, frame, thumb, every, quality, total: probe.frameCount, opts });
+    const attempt = async (scaler: Scaler) => {
+      for (const dir of [FRAMES_DIR, THUMBS_DIR]) {
+        await rm(path.join(staging, dir), { recursive: true, force: true });
+        await mkdir(path.join(staging, dir));
+      }
+      return runFfmpeg({ input, staging, frame, thumb, every, quality, total: probe.frameCount, scaler, opts });
+    };
+    const scaler = opts.scaler ?? DEFAULT_SCALER;
+    let logged: ShowinfoFrame[];
+    try {
+      logged = await attempt(scaler);
+    } catch (err) {
+      if (!(err instanceof ScalerFailed)) throw err;
+      if (signal?.aborted) throw aborted();
+      logged = await attempt('swscale').catch((again: unknown) => {
+        throw again instanceof ScalerFailed ? again.failure : again;
+      });
+    }
     if (signal?.aborted) throw aborted();
     const frameCount = await countJpegs(path.join(staging, FRAMES_DIR));
     if (frameCount === 0 || frameCount < 0.9 * probe.frameCount) {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { filterGraph, fitLongSide, frameTimestamps, parseShowinfoLine, thumbCount, thumbEvery } from '../../../server/media/extract-plan';
+import { filterGraph, fitLongSide, jpegPixelOptions, frameTimestamps, parseShowinfoLine, thumbCount, thumbEvery } from '../../../server/media/extract-plan';
 import { frameFileName } from '../../../server/media/manifest';
 
 describe('fitLongSide', () => {
@@ -33,11 +33,24 @@ describe('thumbnails', () => {
 });
 
 describe('filterGraph', () => {
-  it('decodes once, scales, logs timestamps and splits frames and thumbs', () => {
-    expect(filterGraph({ width: 1280, height: 720 }, { width: 160, height: 90 }, 12, 'bicubic')).toBe(
-      "[0:v]scale=1280:720:flags=bicubic,setsar=1,showinfo=checksum=0,split=2[frames][t];" +
-        "[t]select='not(mod(n\\,12))',scale=160:90:flags=area,setsar=1[thumbs]",
+  it('decodes once, scales to full range with zscale, logs timestamps and splits frames and thumbs', () => {
+    expect(filterGraph({ width: 1280, height: 720 }, { width: 160, height: 90 }, 12, 'zscale', 'bilinear')).toBe(
+      "[0:v]zscale=w=1280:h=720:f=bilinear:r=full,setsar=1,showinfo=checksum=0,split=2[frames][t];" +
+        "[t]select='not(mod(n\\,12))',zscale=w=160:h=90:f=bilinear,setsar=1[thumbs]",
     );
+  });
+  it('the swscale fallback graph converts range in the scale filter', () => {
+    expect(filterGraph({ width: 640, height: 360 }, { width: 160, height: 90 }, 3, 'swscale', 'bicubic')).toBe(
+      "[0:v]scale=640:360:flags=bicubic:out_range=full,setsar=1,showinfo=checksum=0,split=2[frames][t];" +
+        "[t]select='not(mod(n\\,3))',scale=160:90:flags=area,setsar=1[thumbs]",
+    );
+  });
+});
+
+describe('jpegPixelOptions', () => {
+  it('zscale frames go to mjpeg as full-range yuv420p (needs -strict unofficial); swscale ones as yuvj420p', () => {
+    expect(jpegPixelOptions('zscale')).toEqual(['-strict', 'unofficial', '-pix_fmt', 'yuv420p']);
+    expect(jpegPixelOptions('swscale')).toEqual(['-pix_fmt', 'yuvj420p']);
   });
 });
 
