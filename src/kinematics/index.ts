@@ -14,3 +14,4 @@ export * from './geometry';
 export * from './angles';
 export * from './pose';
 export * from './stats';
+export * from './events';
