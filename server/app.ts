@@ -28,6 +28,11 @@ import { clipsService, EXTRACT_JOB } from './clips/clips-service';
 import { clipsRoutes } from './clips/clips.routes';
 import { assessmentsService } from './assessments/assessments-service';
 import { assessmentsRoutes } from './assessments/assessments.routes';
+import { annotationsService } from './annotations/annotations-service';
+import { annotationsRoutes } from './annotations/annotations.routes';
+import { measuresService } from './measures/measures-service';
+import { measuresRoutes } from './measures/measures.routes';
+import { validateEvents } from '../src/kinematics';
 
 /** What the app needs from outside; tests pass their own. */
 export interface AppDeps {
@@ -105,7 +110,10 @@ export function createApp(deps: AppDeps): App {
   );
 
   const api = express.Router();
-  api.use(express.json({ limit: '200kb', strict: true }));
+  // Annotations of a long clip can be large; every other body is small.
+  const smallJson = express.json({ limit: '200kb', strict: true });
+  const largeJson = express.json({ limit: '8mb', strict: true });
+  api.use((req, res, next) => (/^\/clips\/\d+\/annotations$/.test(req.path) ? largeJson : smallJson)(req, res, next));
   // A body that is not JSON at all is a client error too, not an empty object.
   api.use((req, _res, next) => {
     const method = req.method;
@@ -171,6 +179,8 @@ export function createApp(deps: AppDeps): App {
     cancelJob: (subject) => worker?.cancel(subject),
   });
   const assessments = assessmentsService({ db, clips });
+  const measures = measuresService({ db, store, clips });
+  const annotations = annotationsService({ db, clips, validateEvents, afterSave: measures.afterSave });
   if (config.runWorker) {
     worker = startWorker({
       queue,
@@ -195,6 +205,8 @@ export function createApp(deps: AppDeps): App {
   api.use(athletesRoutes(athletes));
   api.use(assessmentsRoutes(assessments));
   api.use(clipsRoutes({ db, clips, events, store, uploadMaxBytes: config.uploadMaxBytes }));
+  api.use(annotationsRoutes(annotations));
+  api.use(measuresRoutes({ db, measures }));
   if (config.demoMode) api.use(mailboxRoutes(db));
   api.use(apiNotFound);
 

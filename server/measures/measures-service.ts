@@ -1,0 +1,91 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import type { Knex } from 'knex';
+import type { ClipAnnotations } from '../../src/contracts/annotations';
+import type { SessionUser } from '../../src/contracts/api';
+import type { ClipMeasures } from '../../src/contracts/measures';
+import { computeClipMeasures, KINEMATICS_VERSION } from '../../src/kinematics';
+import type { Db } from '../db/knex';
+import { ConflictError } from '../errors';
+import { MANIFEST_FILE, type FrameManifest } from '../media/manifest';
+import type { MediaStore } from '../storage/media-store';
+import type { ClipRow } from '../clips/clips-repository';
+import type { ClipsService } from '../clips/clips-service';
+import { annotationsRepository } from '../annotations/annotations-repository';
+import { clinicBands } from './reference-bands';
+
+/** Measures of clips, computed with `src/kinematics` and kept as snapshots per annotation revision. */
+export function measuresService({ db, store, clips }: { db: Db; store: MediaStore; clips: ClipsService }) {
+  function manifestOf(clipId: number): FrameManifest | null {
+    try {
+      return JSON.parse(fs.readFileSync(path.join(store.clipDir(clipId), MANIFEST_FILE), 'utf8')) as FrameManifest;
+    } catch {
+      return null;
+    }
+  }
+
+  /** Computes a clip's measures from its annotations (pure kinematics; no writes). */
+  async function compute(trx: Knex, clip: ClipRow, annotations: ClipAnnotations): Promise<ClipMeasures> {
+    const assessment = await trx('assessments').where({ id: clip.assessment_id }).first<{ surface: string; speed_mps: number | null; clinic_id: number }>('surface', 'speed_mps', 'clinic_id');
+    const manifest = manifestOf(clip.id);
+    const bands = await clinicBands(trx, clip.clinic_id);
+    // A slow-motion file plays slower than it was filmed: with a capture rate set, its own
+    // timestamps are not real time, so timing uses the capture rate alone.
+    const slowMotion = clip.capture_fps !== null;
+    return computeClipMeasures({
+      clipId: clip.id,
+      annotations: { landmarks: annotations.landmarks, events: annotations.events, scale: annotations.scale },
+      frameSize: { width: manifest?.width ?? clip.width ?? 1, height: manifest?.height ?? clip.height ?? 1 },
+      fps: clip.capture_fps ?? clip.fps ?? manifest?.fps ?? 30,
+      timestampsMs: slowMotion ? undefined : manifest?.timestampsMs,
+      direction: clip.direction,
+      surface: (assessment?.surface ?? 'treadmill') as 'treadmill',
+      beltSpeedMps: assessment?.surface === 'treadmill' ? (assessment.speed_mps ?? null) : null,
+      bands,
+      frameCount: clip.frame_count ?? undefined,
+    });
+  }
+
+  async function store_(trx: Knex, clip: ClipRow, revision: number, measures: ClipMeasures): Promise<void> {
+    await trx('measure_snapshots')
+      .insert({ clip_id: clip.id, assessment_id: clip.assessment_id, annotation_revision: revision, kinematics_version: KINEMATICS_VERSION, measures: JSON.stringify(measures), computed_at: new Date().toISOString() })
+      .onConflict('clip_id')
+      .merge();
+  }
+
+  /** The snapshot when it matches the current revision and kinematics version, else a fresh one. */
+  async function forClipRow(clip: ClipRow): Promise<ClipMeasures> {
+    const snapshot = await db('measure_snapshots').where({ clip_id: clip.id }).first<{ annotation_revision: number; kinematics_version: string; measures: string } | undefined>();
+    const current = await db('clips').where({ id: clip.id }).first<{ annotation_revision: number }>('annotation_revision');
+    if (snapshot && snapshot.annotation_revision === current?.annotation_revision && snapshot.kinematics_version === KINEMATICS_VERSION) {
+      return JSON.parse(snapshot.measures) as ClipMeasures;
+    }
+    const annotations = await annotationsRepository.read(db, clip.id);
+    const measures = await compute(db, clip, annotations);
+    await store_(db, clip, annotations.revision, measures);
+    return measures;
+  }
+
+  return {
+    /** Called inside the annotation save's transaction. */
+    async afterSave(trx: Knex, clip: ClipRow, annotations: ClipAnnotations): Promise<void> {
+      await store_(trx, clip, annotations.revision, await compute(trx, clip, annotations));
+    },
+
+    async forClip(user: SessionUser, clipId: number): Promise<ClipMeasures> {
+      const clip = await clips.accessibleClip(user, clipId);
+      if (clip.status !== 'ready') throw new ConflictError('This clip is not ready yet.', 'clip_not_ready');
+      return forClipRow(clip);
+    },
+
+    async forAssessment(user: SessionUser, assessmentId: number): Promise<ClipMeasures[]> {
+      await clips.accessibleAssessment(user, assessmentId);
+      const rows = await db<ClipRow>('clips').where({ assessment_id: assessmentId, status: 'ready' }).orderBy('id');
+      const out: ClipMeasures[] = [];
+      for (const row of rows) out.push(await forClipRow(row));
+      return out;
+    },
+  };
+}
+
+export type MeasuresService = ReturnType<typeof measuresService>;

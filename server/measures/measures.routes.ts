@@ -1,0 +1,47 @@
+import { Router } from 'express';
+import { currentUser, requireRole } from '../http/access';
+import { NotFoundError } from '../errors';
+import { IdParam, parse } from '../http/validate';
+import type { Db } from '../db/knex';
+import { audit } from '../audit/audit-log';
+import { BandBody, clinicBands, resetBand, saveBand } from './reference-bands';
+import type { MeasuresService } from './measures-service';
+
+/** Measures of clips and assessments (staff) and the clinic's reference bands (owner edits). */
+export function measuresRoutes(d: { db: Db; measures: MeasuresService }): Router {
+  const router = Router();
+  const id = (params: unknown, what: string) => {
+    const r = IdParam.safeParse(params);
+    if (!r.success) throw new NotFoundError(what);
+    return r.data.id;
+  };
+
+  router.get('/clips/:id/measures', requireRole('owner', 'coach'), async (req, res) => {
+    res.json(await d.measures.forClip(currentUser(req), id(req.params, 'Clip')));
+  });
+
+  router.get('/assessments/:id/measures', requireRole('owner', 'coach'), async (req, res) => {
+    res.json({ clips: await d.measures.forAssessment(currentUser(req), id(req.params, 'Assessment')) });
+  });
+
+  router.get('/reference-bands', requireRole('owner', 'coach'), async (req, res) => {
+    res.json({ bands: await clinicBands(d.db, currentUser(req).clinicId) });
+  });
+
+  router.put('/reference-bands/:key', requireRole('owner'), async (req, res) => {
+    const user = currentUser(req);
+    const body = parse(BandBody, req.body);
+    const band = await saveBand(d.db, user.clinicId, String(req.params['key']), body, user.id);
+    await audit(d.db, { clinicId: user.clinicId, actorId: user.id, action: 'reference_band.saved', detail: { key: band.key } });
+    res.json(band);
+  });
+
+  router.delete('/reference-bands/:key', requireRole('owner'), async (req, res) => {
+    const user = currentUser(req);
+    await resetBand(d.db, user.clinicId, String(req.params['key']));
+    await audit(d.db, { clinicId: user.clinicId, actorId: user.id, action: 'reference_band.reset', detail: { key: req.params['key'] } });
+    res.status(204).end();
+  });
+
+  return router;
+}
