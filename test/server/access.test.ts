@@ -105,6 +105,13 @@ const ROUTES: RouteCase[] = [
   { method: 'get', pattern: '/api/clips/:id/frames/:n', path: (c) => `/api/clips/${c.clipId}/frames/1`, expect: selfAndStaff(200) },
   { method: 'get', pattern: '/api/clips/:id/manifest', path: (c) => `/api/clips/${c.clipId}/manifest`, expect: selfAndStaff(200) },
   { method: 'get', pattern: '/api/clips/:id/original', path: (c) => `/api/clips/${c.clipId}/original`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/clips/:id/annotations', path: (c) => `/api/clips/${c.clipId}/annotations`, expect: staffWrite(200) },
+  { method: 'put', pattern: '/api/clips/:id/annotations', path: (c) => `/api/clips/${c.clipId}/annotations`, body: () => ({ baseRevision: 0, landmarks: [], events: [], scale: null }), before: () => resetRevision(), expect: staffWrite(200) },
+  { method: 'get', pattern: '/api/clips/:id/measures', path: (c) => `/api/clips/${c.clipId}/measures`, expect: staffWrite(200) },
+  { method: 'get', pattern: '/api/assessments/:id/measures', path: (c) => `/api/assessments/${c.assessmentId}/measures`, expect: staffWrite(200) },
+  { method: 'get', pattern: '/api/reference-bands', path: () => '/api/reference-bands', expect: staffOnly(200, 200) },
+  { method: 'put', pattern: '/api/reference-bands/:key', path: () => '/api/reference-bands/cadence', body: () => ({ low: 160, high: 180, unit: 'steps/min', context: 'Clinic runners', source: 'Clinic audit (internal)', evidence: 'trade' }), expect: ownerOnly(200) },
+  { method: 'delete', pattern: '/api/reference-bands/:key', path: () => '/api/reference-bands/cadence', expect: ownerOnly(204) },
   { method: 'post', pattern: '/api/auth/sign-out', path: () => '/api/auth/sign-out', expect: all(204) },
 ];
 
@@ -135,6 +142,11 @@ async function scratchClip(): Promise<void> {
     .insert({ clinic_id: 1, athlete_id: ctx.selfAthleteId, assessment_id: ctx.assessmentId, uploaded_by: coachRow.id, original_name: 'x.mp4', stored_name: 'original.mp4', size_bytes: 1, container: 'mp4', status: 'failed', error: 'test', created_at: at, updated_at: at })
     .returning('id');
   ctx.scratchClipId = (row as { id: number }).id;
+}
+
+/** Puts the walk's clip back at annotation revision 0, so each PUT starts from it. */
+async function resetRevision(): Promise<void> {
+  await t.db('clips').where({ id: ctx.clipId }).update({ annotation_revision: 0 });
 }
 
 /** Status of a server-sent-events route: read the head, then hang up. */
