@@ -15,3 +15,6 @@ export * from './angles';
 export * from './pose';
 export * from './stats';
 export * from './events';
+export * from './bands';
+export * from './spring-mass';
+export * from './measures';
