@@ -17,4 +17,8 @@ export default [
     canDeactivate: [leaveGuard],
     loadComponent: () => import('./assessment-page/assessment-page').then((m) => m.AssessmentPage),
   },
+  {
+    path: ':assessmentId/clips/:clipId/review',
+    loadChildren: () => import('../review/review.routes'),
+  },
 ] satisfies Routes;

@@ -82,6 +82,12 @@ describe('focus that keeps keys', () => {
     expect(keyAction(key('ArrowLeft', { target: button }))).toEqual({ type: 'step', by: -1 });
     expect(keyAction(key(' ', { target: { tagName: 'DIV', role: 'tab' } }))).toBeNull();
   });
+
+  it('lets tabs and radio groups keep their arrows', () => {
+    expect(keyAction(key('ArrowRight', { target: { tagName: 'DIV', role: 'tab' } }))).toBeNull();
+    expect(keyAction(key('ArrowLeft', { target: { tagName: 'BUTTON', role: 'radio' } }))).toBeNull();
+    expect(keyAction(key('i', { target: { tagName: 'BUTTON', role: 'radio' } }))).toEqual({ type: 'mark', kind: 'initial_contact' });
+  });
 });
 
 describe('KEY_HELP', () => {

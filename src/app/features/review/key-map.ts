@@ -110,7 +110,11 @@ export function focusOwnsKey(input: KeyInput): boolean {
     return input.key === ' ' || input.key === 'Enter';
   }
   if (t.role === 'slider') return NAVIGATION_KEYS.has(input.key);
-  if (tag === 'BUTTON' || tag === 'A' || t.role === 'button' || t.role === 'tab' || t.role === 'option' || t.role === 'radio' || t.role === 'checkbox' || t.role === 'switch') {
+  // Tabs, radio groups and menus move between their items with the arrows.
+  if (t.role === 'tab' || t.role === 'radio' || t.role === 'menuitem' || t.role === 'option') {
+    return NAVIGATION_KEYS.has(input.key) || input.key === ' ' || input.key === 'Enter';
+  }
+  if (tag === 'BUTTON' || tag === 'A' || t.role === 'button' || t.role === 'checkbox' || t.role === 'switch') {
     return input.key === ' ' || input.key === 'Enter';
   }
   return false;

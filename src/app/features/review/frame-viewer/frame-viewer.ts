@@ -1,0 +1,490 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  ElementRef,
+  afterNextRender,
+  computed,
+  effect,
+  inject,
+  signal,
+  viewChild,
+} from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import type { FramePoint } from '../../../../contracts/annotations';
+import { LANDMARK_LABELS } from '../../../../contracts/annotations';
+import { HitCandidate, LandmarkRef, hitTest, hitTolerancePx, landmarkCandidates } from '../hit-test';
+import { drawOverlay } from '../kinematics-adapter';
+import { ReviewStore } from '../review-store';
+import { MIN_SCALE_LINE_PX, scaleLengthPx } from '../scale-bar';
+import {
+  Size,
+  Vec,
+  ViewTransform,
+  clampPan,
+  fitTransform,
+  fractionToScreen,
+  isOnFrame,
+  panBy,
+  pinchTransform,
+  scaleLimits,
+  screenToFraction,
+  wheelZoomFactor,
+  zoomAt,
+} from '../view-transform';
+
+type Gesture =
+  | { kind: 'none' }
+  | { kind: 'tap'; id: number; start: Vec; last: Vec }
+  | { kind: 'pan'; id: number; last: Vec }
+  | { kind: 'point'; id: number; ref: LandmarkRef; start: FramePoint; offset: Vec }
+  | { kind: 'scale-new'; id: number; a: FramePoint }
+  | { kind: 'scale-end'; id: number; end: 'a' | 'b'; fromSaved: boolean }
+  | { kind: 'pinch'; ids: [number, number]; view: ViewTransform; a0: Vec; b0: Vec };
+
+/** How far (CSS px) a press may move and still count as a click that places a landmark. */
+const TAP_SLOP_PX = 6;
+/** Marker radius on screen, CSS px (constant at any zoom). */
+const MARKER_PX = 6;
+const FONT = '"Source Sans 3", sans-serif';
+
+/**
+ * The frame on a canvas with the overlay. Draws the cached bitmap of the current frame (or the
+ * nearest one, dimmed, while it loads), the landmarks through the shared overlay code and the scale
+ * bar. Pointer: click to place the chosen landmark, drag a marker to adjust it, drag empty space,
+ * the middle button, Shift + drag or two fingers to pan, wheel or pinch to zoom around the pointer;
+ * with the scale tool, drag along the object of known length.
+ */
+@Component({
+  selector: 'app-frame-viewer',
+  imports: [MatButtonModule, MatIconModule],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  templateUrl: './frame-viewer.html',
+  styleUrl: './frame-viewer.scss',
+  host: { class: 'frame-viewer' },
+})
+export class FrameViewer {
+  protected readonly store = inject(ReviewStore);
+  private readonly host = inject<ElementRef<HTMLElement>>(ElementRef);
+  private readonly canvasRef = viewChild.required<ElementRef<HTMLCanvasElement>>('canvas');
+
+  /** Frame pixels → canvas CSS pixels. */
+  readonly view = signal<ViewTransform>({ scale: 1, tx: 0, ty: 0 });
+  private readonly viewSize = signal<Size>({ width: 0, height: 0 });
+  /** Zoom as a percentage of the frame's own pixels. */
+  readonly zoomPercent = computed(() => Math.round(this.view().scale * 100));
+  protected readonly cursor = signal('crosshair');
+
+  private readonly pointers = new Map<number, Vec>();
+  private gesture: Gesture = { kind: 'none' };
+  private raf: number | null = null;
+  private fitted = false;
+
+  /** What the status chip over the canvas says about the current frame. */
+  protected readonly frameStatus = computed<'ready' | 'loading' | 'failed'>(() => {
+    const cache = this.store.cache();
+    cache?.version();
+    const f = this.store.frame();
+    if (!cache) return 'loading';
+    if (cache.has(f)) return 'ready';
+    return cache.isFailed(f) ? 'failed' : 'loading';
+  });
+
+  protected readonly canvasLabel = computed(() => {
+    const tool = this.store.tool();
+    const base = `Frame ${this.store.frame()} of ${this.store.frameCount()}.`;
+    if (tool === 'scale') return `${base} Drag along an object of known length to draw the scale bar.`;
+    if (tool === 'pan') return `${base} Drag to move the view.`;
+    return `${base} Click to place ${LANDMARK_LABELS[this.store.landmark()]}; drag a marker to adjust it.`;
+  });
+
+  constructor() {
+    const destroyRef = inject(DestroyRef);
+    this.store.attachViewer({ requestDraw: () => this.requestDraw(), drawNow: () => this.draw() });
+    destroyRef.onDestroy(() => {
+      this.store.attachViewer(null);
+      if (this.raf !== null) cancelAnimationFrame(this.raf);
+    });
+
+    // Anything on screen changed: draw on the next animation frame.
+    effect(() => {
+      this.store.frame();
+      this.store.frameRows();
+      this.store.selected();
+      this.store.showAngles();
+      this.store.tool();
+      this.store.scaleDraft();
+      this.store.annotations().scale;
+      this.store.cache()?.version();
+      this.view();
+      this.viewSize();
+      this.requestDraw();
+    });
+
+    // Fit once both the frame size and the canvas size are known.
+    effect(() => {
+      const frame = this.store.frameSize();
+      const size = this.viewSize();
+      if (!this.fitted && frame.width > 0 && size.width > 0 && size.height > 0) {
+        this.fitted = true;
+        this.view.set(fitTransform(frame, size));
+      }
+    });
+
+    afterNextRender(() => {
+      const canvas = this.canvasRef().nativeElement;
+      const observer = new ResizeObserver(() => this.measure());
+      observer.observe(this.host.nativeElement);
+      const onWheel = (e: WheelEvent) => this.onWheel(e);
+      canvas.addEventListener('wheel', onWheel, { passive: false });
+      destroyRef.onDestroy(() => {
+        observer.disconnect();
+        canvas.removeEventListener('wheel', onWheel);
+      });
+      this.measure();
+    });
+  }
+
+  /** Fits the whole frame into the view. */
+  fit(): void {
+    this.view.set(fitTransform(this.store.frameSize(), this.viewSize()));
+  }
+
+  /** Zooms in (+1) or out (−1) around the centre of the view. */
+  zoomBy(dir: -1 | 1): void {
+    const size = this.viewSize();
+    this.zoomAround(dir > 0 ? 1.25 : 0.8, { x: size.width / 2, y: size.height / 2 });
+  }
+
+  requestDraw(): void {
+    if (this.raf !== null) return;
+    this.raf = requestAnimationFrame(() => {
+      this.raf = null;
+      this.draw();
+    });
+  }
+
+  /** Draws the frame and overlay now. */
+  draw(): void {
+    const canvas = this.canvasRef().nativeElement;
+    const ctx = canvas.getContext('2d');
+    const size = this.viewSize();
+    if (!ctx || size.width <= 0 || size.height <= 0) return;
+    const dpr = globalThis.devicePixelRatio || 1;
+    const w = Math.round(size.width * dpr);
+    const h = Math.round(size.height * dpr);
+    if (canvas.width !== w || canvas.height !== h) {
+      canvas.width = w;
+      canvas.height = h;
+    }
+    ctx.setTransform(1, 0, 0, 1, 0, 0);
+    ctx.fillStyle = '#1e2422';
+    ctx.fillRect(0, 0, w, h);
+
+    const store = this.store;
+    const frame = store.frameSize();
+    if (frame.width <= 0) return;
+    const t = this.view();
+    const f = store.frame();
+    const cache = store.cache();
+    const exact = cache?.get(f) ?? null;
+    const shown = exact ?? cache?.nearest(f)?.bitmap ?? null;
+
+    ctx.setTransform(dpr * t.scale, 0, 0, dpr * t.scale, dpr * t.tx, dpr * t.ty);
+    ctx.imageSmoothingEnabled = t.scale < 3;
+    if (shown) {
+      ctx.drawImage(shown, 0, 0, frame.width, frame.height);
+      if (!exact) {
+        ctx.fillStyle = 'rgba(20, 24, 23, 0.45)';
+        ctx.fillRect(0, 0, frame.width, frame.height);
+      }
+    } else {
+      ctx.fillStyle = '#2b3230';
+      ctx.fillRect(0, 0, frame.width, frame.height);
+    }
+
+    const scale = store.annotations().scale;
+    const showScale = scale && (store.tool() === 'scale' || scale.frame === f) ? scale : null;
+    drawOverlay(ctx, {
+      frameSize: frame,
+      landmarks: store.frameRows(),
+      nearSide: store.nearSide(),
+      direction: store.direction(),
+      showAngles: store.showAngles(),
+      selected: store.selected(),
+      scale: showScale,
+      fontFamily: FONT,
+      markerRadiusPx: MARKER_PX / t.scale,
+    });
+
+    const draft = store.scaleDraft();
+    if (draft) this.drawDraft(ctx, draft.a, draft.b, frame, t.scale);
+  }
+
+  private drawDraft(ctx: CanvasRenderingContext2D, a: FramePoint, b: FramePoint, frame: Size, scale: number): void {
+    const ax = a.x * frame.width;
+    const ay = a.y * frame.height;
+    const bx = b.x * frame.width;
+    const by = b.y * frame.height;
+    ctx.save();
+    ctx.lineWidth = 4 / scale;
+    ctx.strokeStyle = 'rgba(0, 0, 0, 0.6)';
+    ctx.beginPath();
+    ctx.moveTo(ax, ay);
+    ctx.lineTo(bx, by);
+    ctx.stroke();
+    ctx.lineWidth = 2 / scale;
+    ctx.strokeStyle = '#ffffff';
+    ctx.setLineDash([8 / scale, 5 / scale]);
+    ctx.stroke();
+    ctx.setLineDash([]);
+    for (const [x, y] of [
+      [ax, ay],
+      [bx, by],
+    ]) {
+      ctx.beginPath();
+      ctx.arc(x, y, MARKER_PX / scale, 0, Math.PI * 2);
+      ctx.fillStyle = '#ffffff';
+      ctx.fill();
+      ctx.lineWidth = 2 / scale;
+      ctx.strokeStyle = '#1f5f4a';
+      ctx.stroke();
+    }
+    ctx.restore();
+  }
+
+  private measure(): void {
+    const rect = this.host.nativeElement.getBoundingClientRect();
+    const next = { width: Math.floor(rect.width), height: Math.floor(rect.height) };
+    const prev = this.viewSize();
+    if (next.width === prev.width && next.height === prev.height) return;
+    // Keep the frame centred where it was when the view changes size.
+    if (prev.width > 0 && this.fitted) {
+      this.view.update((t) => panBy(t, (next.width - prev.width) / 2, (next.height - prev.height) / 2));
+    }
+    this.viewSize.set(next);
+  }
+
+  private local(e: PointerEvent | WheelEvent): Vec {
+    const rect = this.canvasRef().nativeElement.getBoundingClientRect();
+    return { x: e.clientX - rect.left, y: e.clientY - rect.top };
+  }
+
+  private setView(t: ViewTransform): void {
+    this.view.set(clampPan(t, this.store.frameSize(), this.viewSize()));
+  }
+
+  private zoomAround(factor: number, anchor: Vec): void {
+    const limits = scaleLimits(this.store.frameSize(), this.viewSize());
+    this.setView(zoomAt(this.view(), factor, anchor, limits));
+  }
+
+  private onWheel(e: WheelEvent): void {
+    e.preventDefault();
+    if (e.ctrlKey || !e.shiftKey) {
+      // Wheel and trackpad pinch (ctrl + wheel) zoom around the pointer.
+      this.zoomAround(wheelZoomFactor(e.deltaY, e.deltaMode), this.local(e));
+    } else {
+      this.setView(panBy(this.view(), -e.deltaX || -e.deltaY, 0));
+    }
+  }
+
+  private toFraction(p: Vec): FramePoint {
+    return screenToFraction(this.view(), this.store.frameSize(), p);
+  }
+
+  private landmarkHit(p: Vec, pointerType: string): LandmarkRef | null {
+    const side = this.store.side();
+    const candidates = landmarkCandidates(this.store.frameRows(), this.store.frameSize(), this.view());
+    return hitTest(candidates, p, hitTolerancePx(pointerType), (k) => k.side === side);
+  }
+
+  /** Scale-bar ends under the pointer: the draft's, else the saved bar's. */
+  private scaleEndHit(p: Vec, pointerType: string): { end: 'a' | 'b'; fromSaved: boolean } | null {
+    const frame = this.store.frameSize();
+    const t = this.view();
+    const draft = this.store.scaleDraft();
+    const saved = this.store.annotations().scale;
+    const line = draft ?? saved;
+    if (!line) return null;
+    const candidates: HitCandidate<'a' | 'b'>[] = (['a', 'b'] as const).map((end) => ({ key: end, ...fractionToScreen(t, frame, line[end]) }));
+    const end = hitTest(candidates, p, hitTolerancePx(pointerType));
+    return end ? { end, fromSaved: !draft } : null;
+  }
+
+  protected onPointerDown(e: PointerEvent): void {
+    const canvas = this.canvasRef().nativeElement;
+    const p = this.local(e);
+    this.pointers.set(e.pointerId, p);
+    canvas.setPointerCapture?.(e.pointerId);
+    canvas.focus({ preventScroll: true });
+    if (e.button === 1) e.preventDefault();
+
+    if (this.pointers.size === 2) {
+      this.finishGesture(false);
+      const [a, b] = [...this.pointers.entries()];
+      this.gesture = { kind: 'pinch', ids: [a[0], b[0]], view: this.view(), a0: a[1], b0: b[1] };
+      return;
+    }
+    if (this.pointers.size > 2 || (e.button !== 0 && e.button !== 1)) return;
+
+    const store = this.store;
+    if (e.button === 1 || e.shiftKey || store.tool() === 'pan') {
+      this.gesture = { kind: 'pan', id: e.pointerId, last: p };
+      this.cursor.set('grabbing');
+      return;
+    }
+    if (store.playing()) store.pause();
+
+    if (store.tool() === 'scale') {
+      const hit = this.scaleEndHit(p, e.pointerType);
+      if (hit) {
+        this.gesture = { kind: 'scale-end', id: e.pointerId, ...hit };
+        return;
+      }
+      const a = this.toFraction(p);
+      if (!isOnFrame(a)) return;
+      this.gesture = { kind: 'scale-new', id: e.pointerId, a };
+      store.scaleDraft.set({ frame: store.frame(), a, b: a });
+      return;
+    }
+
+    const hit = this.landmarkHit(p, e.pointerType);
+    if (hit) {
+      const start = store.pointAt(hit)!;
+      const at = this.toFraction(p);
+      store.select(hit);
+      this.gesture = { kind: 'point', id: e.pointerId, ref: hit, start, offset: { x: start.x - at.x, y: start.y - at.y } };
+      this.cursor.set('grabbing');
+      return;
+    }
+    this.gesture = { kind: 'tap', id: e.pointerId, start: p, last: p };
+  }
+
+  protected onPointerMove(e: PointerEvent): void {
+    const p = this.local(e);
+    if (this.pointers.has(e.pointerId)) this.pointers.set(e.pointerId, p);
+    const g = this.gesture;
+    switch (g.kind) {
+      case 'none':
+        if (e.pointerType === 'mouse' && !this.pointers.size) this.updateHoverCursor(p, e.pointerType);
+        return;
+      case 'pinch': {
+        const a1 = this.pointers.get(g.ids[0]);
+        const b1 = this.pointers.get(g.ids[1]);
+        if (!a1 || !b1) return;
+        this.setView(pinchTransform(g.view, g.a0, g.b0, a1, b1, scaleLimits(this.store.frameSize(), this.viewSize())));
+        return;
+      }
+      case 'tap':
+        if (e.pointerId !== g.id) return;
+        if (Math.hypot(p.x - g.start.x, p.y - g.start.y) > TAP_SLOP_PX) {
+          // A drag on empty space moves the view instead of placing.
+          this.gesture = { kind: 'pan', id: g.id, last: g.last };
+          this.cursor.set('grabbing');
+          this.onPointerMove(e);
+        } else {
+          g.last = p;
+        }
+        return;
+      case 'pan':
+        if (e.pointerId !== g.id) return;
+        this.setView(panBy(this.view(), p.x - g.last.x, p.y - g.last.y));
+        g.last = p;
+        return;
+      case 'point': {
+        if (e.pointerId !== g.id) return;
+        const at = this.toFraction(p);
+        this.store.dragPoint(g.ref, { x: at.x + g.offset.x, y: at.y + g.offset.y });
+        return;
+      }
+      case 'scale-new': {
+        if (e.pointerId !== g.id) return;
+        this.store.scaleDraft.set({ frame: this.store.frame(), a: g.a, b: clampFraction(this.toFraction(p)) });
+        return;
+      }
+      case 'scale-end': {
+        if (e.pointerId !== g.id) return;
+        const at = clampFraction(this.toFraction(p));
+        const line = this.store.scaleDraft() ?? this.store.annotations().scale;
+        if (!line) return;
+        this.store.scaleDraft.set({ frame: line.frame, a: g.end === 'a' ? at : line.a, b: g.end === 'b' ? at : line.b });
+        return;
+      }
+    }
+  }
+
+  protected onPointerUp(e: PointerEvent): void {
+    const g = this.gesture;
+    const p = this.local(e);
+    this.pointers.delete(e.pointerId);
+    if (g.kind === 'pinch') {
+      if (this.pointers.size === 0) this.gesture = { kind: 'none' };
+      else {
+        // One finger left: carry on as a pan.
+        const [id, last] = [...this.pointers.entries()][0];
+        this.gesture = { kind: 'pan', id, last };
+      }
+      return;
+    }
+    if (g.kind === 'none' || ('id' in g && g.id !== e.pointerId)) return;
+    if (e.type === 'pointercancel') {
+      this.finishGesture(false);
+      return;
+    }
+    if (g.kind === 'tap') {
+      const at = this.toFraction(p);
+      if (isOnFrame(at)) this.store.placeAt(at);
+      else this.store.select(null);
+    }
+    this.finishGesture(true);
+    this.updateHoverCursor(p, e.pointerType);
+  }
+
+  /** Ends the running gesture; a dragged point becomes one undo step, a drawn line a draft. */
+  private finishGesture(commit: boolean): void {
+    const g = this.gesture;
+    this.gesture = { kind: 'none' };
+    this.cursor.set(this.baseCursor());
+    if (g.kind === 'point') {
+      this.store.endDrag(g.ref, g.start);
+    } else if (g.kind === 'scale-new' || g.kind === 'scale-end') {
+      const draft = this.store.scaleDraft();
+      if (!draft) return;
+      const long = scaleLengthPx(draft.a, draft.b, this.store.frameSize()) >= MIN_SCALE_LINE_PX;
+      if (!commit || !long) {
+        if (g.kind === 'scale-new' || g.fromSaved) this.store.scaleDraft.set(null);
+        return;
+      }
+      const saved = this.store.annotations().scale;
+      if (g.kind === 'scale-end' && g.fromSaved && saved) {
+        // Moving an end of the saved bar keeps its length: save it at once (one undo step).
+        this.store.setScale({ ...saved, a: draft.a, b: draft.b });
+      }
+    }
+  }
+
+  private baseCursor(): string {
+    switch (this.store.tool()) {
+      case 'pan':
+        return 'grab';
+      default:
+        return 'crosshair';
+    }
+  }
+
+  private updateHoverCursor(p: Vec, pointerType: string): void {
+    if (this.store.tool() === 'landmark' && this.landmarkHit(p, pointerType)) this.cursor.set('move');
+    else if (this.store.tool() === 'scale' && this.scaleEndHit(p, pointerType)) this.cursor.set('move');
+    else this.cursor.set(this.baseCursor());
+  }
+
+  protected retryFrame(): void {
+    this.store.cache()?.retry(this.store.frame());
+  }
+}
+
+function clampFraction(p: FramePoint): FramePoint {
+  return { x: Math.min(1, Math.max(0, p.x)), y: Math.min(1, Math.max(0, p.y)) };
+}

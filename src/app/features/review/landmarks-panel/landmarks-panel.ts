@@ -1,0 +1,61 @@
+import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatIconModule } from '@angular/material/icon';
+import { MatSlideToggleModule } from '@angular/material/slide-toggle';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { MatTooltipModule } from '@angular/material/tooltip';
+import type { LandmarkName } from '../../../../contracts/annotations';
+import { LANDMARKS, LANDMARK_LABELS } from '../../../../contracts/annotations';
+import { SIDES, Side } from '../../../../contracts/assessment';
+import { previousMarkedFrame } from '../annotation-ops';
+import { ReviewStore } from '../review-store';
+
+/** Side and landmark pickers, what is placed on this frame, copy from the previous marked frame. */
+@Component({
+  selector: 'app-landmarks-panel',
+  imports: [MatButtonModule, MatButtonToggleModule, MatIconModule, MatSlideToggleModule, MatTooltipModule],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  templateUrl: './landmarks-panel.html',
+  styleUrl: './landmarks-panel.scss',
+})
+export class LandmarksPanel {
+  protected readonly store = inject(ReviewStore);
+  private readonly snackBar = inject(MatSnackBar);
+
+  protected readonly sides = SIDES;
+  protected readonly rows = computed(() => {
+    const points = this.store.sidePoints();
+    const chosen = this.store.landmark();
+    const selected = this.store.selected();
+    const side = this.store.side();
+    return LANDMARKS.map((name, i) => ({
+      name,
+      key: String(i + 1),
+      label: LANDMARK_LABELS[name],
+      placed: !!points[name],
+      chosen: name === chosen,
+      selected: selected?.side === side && selected.landmark === name,
+    }));
+  });
+  protected readonly placedCount = computed(() => this.rows().filter((r) => r.placed).length);
+  protected readonly copyFrom = computed(() => previousMarkedFrame(this.store.annotations(), this.store.frame()));
+
+  protected sideLabel(side: Side): string {
+    const name = side === 'left' ? 'Left' : 'Right';
+    return side === this.store.nearSide() ? `${name} (near)` : `${name} (far)`;
+  }
+
+  protected choose(name: LandmarkName): void {
+    this.store.chooseLandmark(name);
+  }
+
+  protected remove(name: LandmarkName): void {
+    this.store.removePoint({ side: this.store.side(), landmark: name });
+  }
+
+  protected copyPrevious(): void {
+    const from = this.store.copyPrevious();
+    if (from !== null) this.snackBar.open(`Copied the points of frame ${from}. Drag them into place.`, 'OK', { duration: 3000 });
+  }
+}

@@ -1,0 +1,363 @@
+import { DatePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, viewChild } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatDialog } from '@angular/material/dialog';
+import { MatIconModule } from '@angular/material/icon';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSliderModule } from '@angular/material/slider';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { MatTabsModule } from '@angular/material/tabs';
+import { MatTooltipModule } from '@angular/material/tooltip';
+import { Title } from '@angular/platform-browser';
+import { Router, RouterLink } from '@angular/router';
+import { catchError, forkJoin, map, of, switchMap, throwError } from 'rxjs';
+import type { ClipAnnotations } from '../../../../contracts/annotations';
+import { LANDMARKS } from '../../../../contracts/annotations';
+import type { AssessmentDetail, Clip } from '../../../../contracts/api';
+import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
+import { errorMessage, errorStatus } from '../../../core/api-error';
+import { LeaveGuarded, LeaveWarning, warnBeforeUnload } from '../../../core/leave-guard';
+import { EmptyState } from '../../../shared/states/empty-state';
+import { ErrorState } from '../../../shared/states/error-state';
+import { AssessmentsApi } from '../../assessments/assessments-api';
+import { clipStatusView } from '../../assessments/clip-status';
+import { AthletesApi } from '../../athletes/athletes-api';
+import { fullName } from '../../athletes/roster';
+import { ReferenceBandsApi } from '../../reference-bands/reference-bands-api';
+import { AngleChart } from '../angle-chart/angle-chart';
+import { AnnotationSync } from '../annotation-sync';
+import { SAVE_STATE_ICONS, SAVE_STATE_LABELS } from '../autosave';
+import { EventsPanel } from '../events-panel/events-panel';
+import { FrameCache } from '../frame-cache';
+import { FrameViewer } from '../frame-viewer/frame-viewer';
+import { KeyHelpDialog } from '../key-help-dialog/key-help-dialog';
+import { ReviewAction, ReviewTool, keyAction } from '../key-map';
+import { DEFAULT_REFERENCE_BANDS } from '../kinematics-adapter';
+import { LandmarksPanel } from '../landmarks-panel/landmarks-panel';
+import { MeasuresPanel } from '../measures-panel/measures-panel';
+import { PLAYBACK_RATES, PLAYBACK_RATE_LABELS, PlaybackRate, formatMs } from '../playback';
+import { ClipManifest, ReviewApi } from '../review-api';
+import { ReviewStore } from '../review-store';
+import { ScalePanel } from '../scale-panel/scale-panel';
+
+/** What the page loads before the workspace opens. */
+type Loaded =
+  | { kind: 'not-ready'; clip: Clip }
+  | { kind: 'ready'; clip: Clip; assessment: AssessmentDetail; manifest: ClipManifest; annotations: ClipAnnotations };
+
+/** Tabs of the side panel, in order. */
+const PANEL_TABS = ['landmarks', 'events', 'scale', 'measures'] as const;
+type PanelTab = (typeof PANEL_TABS)[number];
+
+/** What leaving with unsaved marks asks. */
+export const UNSAVED_MARKS_WARNING: LeaveWarning = {
+  title: 'Leave before your marks are saved?',
+  message: 'Some landmarks, events or the scale bar are not saved yet. If you leave this page now, those edits are lost.',
+  confirmLabel: 'Leave and discard',
+};
+
+const TOOLS: { id: ReviewTool; label: string; icon: string; key: string }[] = [
+  { id: 'landmark', label: 'Landmark', icon: 'my_location', key: 'L' },
+  { id: 'pan', label: 'Pan', icon: 'pan_tool', key: 'P' },
+  { id: 'scale', label: 'Scale bar', icon: 'straighten', key: 'B' },
+];
+
+/**
+ * `/athletes/:athleteId/assessments/:assessmentId/clips/:clipId/review` (staff): the review
+ * workspace. Frame viewer with toolbar and scrubber on the left, the joint-angle chart below it,
+ * and a side panel with Landmarks · Events · Scale · Measures. Keyboard first (see `key-map.ts`);
+ * edits autosave.
+ */
+@Component({
+  selector: 'app-review-page',
+  imports: [
+    DatePipe,
+    RouterLink,
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatIconModule,
+    MatProgressBarModule,
+    MatSliderModule,
+    MatTabsModule,
+    MatTooltipModule,
+    EmptyState,
+    ErrorState,
+    FrameViewer,
+    AngleChart,
+    LandmarksPanel,
+    EventsPanel,
+    ScalePanel,
+    MeasuresPanel,
+  ],
+  providers: [ReviewStore, AnnotationSync],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  templateUrl: './review-page.html',
+  styleUrl: './review-page.scss',
+  host: {
+    class: 'review-page',
+    '(window:beforeunload)': 'onBeforeUnload($event)',
+    '(document:keydown)': 'onKeydown($event)',
+  },
+})
+export class ReviewPage implements LeaveGuarded {
+  protected readonly store = inject(ReviewStore);
+  private readonly api = inject(ReviewApi);
+  private readonly assessmentsApi = inject(AssessmentsApi);
+  private readonly athletesApi = inject(AthletesApi);
+  private readonly bandsApi = inject(ReferenceBandsApi);
+  private readonly dialog = inject(MatDialog);
+  private readonly snackBar = inject(MatSnackBar);
+  private readonly router = inject(Router);
+
+  /** Route parameters. */
+  readonly athleteId = input.required<string>();
+  readonly assessmentId = input.required<string>();
+  readonly clipId = input.required<string>();
+
+  private readonly viewer = viewChild(FrameViewer);
+
+  protected readonly loaded = rxResource<Loaded, { clipId: number; assessmentId: number; athleteId: number }>({
+    params: () => ({ clipId: Number(this.clipId()), assessmentId: Number(this.assessmentId()), athleteId: Number(this.athleteId()) }),
+    stream: ({ params }) => {
+      if (!Number.isInteger(params.clipId) || params.clipId <= 0) return throwError(() => new Error('Not a valid clip address.'));
+      return this.assessmentsApi.getClip(params.clipId).pipe(
+        switchMap((clip) => {
+          if (clip.assessmentId !== params.assessmentId || clip.athleteId !== params.athleteId) {
+            return throwError(() => new NotHereError());
+          }
+          if (clip.status !== 'ready') return of<Loaded>({ kind: 'not-ready', clip });
+          return forkJoin({
+            assessment: this.assessmentsApi.get(clip.assessmentId),
+            manifest: this.api.manifest(clip.id),
+            annotations: this.api.annotations(clip.id),
+          }).pipe(map((r): Loaded => ({ kind: 'ready', clip, ...r })));
+        }),
+      );
+    },
+  });
+  /** The clinic's bands; the defaults when they cannot be loaded (the panel says so). */
+  private readonly bands = rxResource({
+    stream: () => this.bandsApi.list().pipe(catchError(() => of(null))),
+  });
+  private readonly athlete = rxResource({
+    params: () => Number(this.athleteId()),
+    stream: ({ params }) => this.athletesApi.get(params).pipe(catchError(() => of(null))),
+  });
+
+  protected readonly ready = computed(() => {
+    const v = this.loaded.hasValue() ? this.loaded.value() : null;
+    return v?.kind === 'ready' ? v : null;
+  });
+  protected readonly notReady = computed(() => {
+    const v = this.loaded.hasValue() ? this.loaded.value() : null;
+    return v?.kind === 'not-ready' ? { clip: v.clip, status: clipStatusView(v.clip) } : null;
+  });
+  protected readonly notFound = computed(() => {
+    const err = this.loaded.error();
+    return errorStatus(err) === 404 || err instanceof NotHereError || (err?.cause instanceof NotHereError);
+  });
+  protected readonly bandsMissing = computed(() => this.bands.hasValue() && this.bands.value() === null);
+  protected readonly athleteName = computed(() => {
+    const a = this.athlete.hasValue() ? this.athlete.value() : null;
+    return a ? fullName(a) : 'Athlete';
+  });
+  protected readonly assessmentLink = computed(() => ['/athletes', this.athleteId(), 'assessments', this.assessmentId()]);
+  protected readonly profileLink = computed(() =>
+    this.router.createUrlTree(['/athletes', this.athleteId()], { queryParams: { tab: 'assessments' } }),
+  );
+
+  protected readonly tabIndex = signal(0);
+  protected readonly tools = TOOLS;
+  protected readonly rates = PLAYBACK_RATES;
+  protected readonly rateLabels = PLAYBACK_RATE_LABELS;
+  protected readonly saveLabels = SAVE_STATE_LABELS;
+  protected readonly saveIcons = SAVE_STATE_ICONS;
+  protected readonly formatMs = formatMs;
+  protected readonly errorMessage = errorMessage;
+  protected readonly kindLabels = ASSESSMENT_KIND_LABELS;
+  /** Last action in words, for screen readers. */
+  protected readonly announcement = signal('');
+
+  protected readonly zoomPercent = computed(() => this.viewer()?.zoomPercent() ?? 100);
+  protected readonly lastFrame = computed(() => Math.max(0, this.store.frameCount() - 1));
+  /** Event ticks along the scrubber, as percentages. */
+  protected readonly eventTicks = computed(() => {
+    const last = this.lastFrame() || 1;
+    return this.store.events().map((e) => ({ id: `${e.frame}-${e.side}-${e.kind}`, left: (e.frame / last) * 100, side: e.side }));
+  });
+
+  private openedClip: number | null = null;
+
+  constructor() {
+    // Open the workspace once everything has loaded.
+    effect(() => {
+      const r = this.ready();
+      if (!r || this.openedClip === r.clip.id) return;
+      this.openedClip = r.clip.id;
+      const clipId = r.clip.id;
+      const cache = new FrameCache({
+        frameCount: r.manifest.frameCount,
+        width: r.manifest.width,
+        height: r.manifest.height,
+        fetch: (n) => this.api.frame(clipId, n),
+        decode: (blob) => createImageBitmap(blob),
+      });
+      this.store.open({ clip: r.clip, assessment: r.assessment, manifest: r.manifest }, r.annotations, cache);
+    });
+    effect(() => {
+      const bands = this.bands.hasValue() ? this.bands.value() : null;
+      this.store.bands.set(bands ?? DEFAULT_REFERENCE_BANDS);
+    });
+    // A scale line has been drawn: show the scale panel to enter its length.
+    effect(() => {
+      if (this.store.scaleDraftComplete() && this.store.tool() === 'scale') this.tabIndex.set(PANEL_TABS.indexOf('scale'));
+    });
+    const title = inject(Title);
+    effect(() => {
+      const r = this.ready();
+      if (r) title.setTitle(`Review ${r.clip.originalName} · ${this.athleteName()} · Trailframe`);
+    });
+  }
+
+  leaveWarning(): LeaveWarning | null {
+    return this.store.hasUnsaved() ? UNSAVED_MARKS_WARNING : null;
+  }
+
+  protected onBeforeUnload(event: BeforeUnloadEvent): void {
+    warnBeforeUnload(event, this.leaveWarning());
+  }
+
+  protected onKeydown(e: KeyboardEvent): void {
+    if (e.defaultPrevented || !this.ready() || this.dialog.openDialogs.length) return;
+    const el = e.target instanceof HTMLElement ? e.target : null;
+    if (el?.closest('.cdk-overlay-container')) return;
+    const action = keyAction({
+      key: e.key,
+      shiftKey: e.shiftKey,
+      ctrlKey: e.ctrlKey,
+      metaKey: e.metaKey,
+      altKey: e.altKey,
+      target: el
+        ? { tagName: el.tagName, type: (el as HTMLInputElement).type, isContentEditable: el.isContentEditable, role: el.getAttribute('role') }
+        : null,
+    });
+    if (!action) return;
+    e.preventDefault();
+    this.run(action);
+  }
+
+  /** Carries out a key or toolbar action. */
+  protected run(action: ReviewAction): void {
+    const store = this.store;
+    switch (action.type) {
+      case 'step':
+        store.step(action.by);
+        break;
+      case 'first':
+        store.first();
+        break;
+      case 'last':
+        store.last();
+        break;
+      case 'event-jump':
+        if (!store.jumpToEvent(action.dir)) this.say(action.dir < 0 ? 'No marked event before this frame' : 'No marked event after this frame', true);
+        break;
+      case 'play':
+        store.togglePlay();
+        break;
+      case 'speed':
+        store.stepRate(action.dir);
+        this.say(`Playback ${PLAYBACK_RATE_LABELS[store.rate()]} of real time`);
+        break;
+      case 'zoom':
+        this.viewer()?.zoomBy(action.dir);
+        break;
+      case 'fit':
+        this.viewer()?.fit();
+        break;
+      case 'angles':
+        store.toggleAngles();
+        this.say(store.showAngles() ? 'Angle labels shown' : 'Angle labels hidden');
+        break;
+      case 'landmark':
+        store.chooseLandmark(LANDMARKS[action.index]);
+        this.tabIndex.set(PANEL_TABS.indexOf('landmarks'));
+        break;
+      case 'side':
+        store.toggleSide();
+        this.say(`${store.side() === 'left' ? 'Left' : 'Right'} side`);
+        break;
+      case 'mark':
+        store.toggleEvent(action.kind);
+        this.say(store.historyLabels().undo ?? '');
+        break;
+      case 'copy-previous': {
+        const from = store.copyPrevious();
+        this.say(from === null ? 'No earlier marked frame to copy from' : `Copied the points of frame ${from}`, true);
+        break;
+      }
+      case 'delete':
+        if (!store.removeSelected()) this.say('Select a point first (click it)', true);
+        break;
+      case 'undo': {
+        const label = store.undo();
+        this.say(label ? `Undone: ${label}` : 'Nothing to undo');
+        break;
+      }
+      case 'redo': {
+        const label = store.redo();
+        this.say(label ? `Redone: ${label}` : 'Nothing to redo');
+        break;
+      }
+      case 'escape':
+        if (store.scaleDraft()) store.scaleDraft.set(null);
+        else store.select(null);
+        break;
+      case 'tool':
+        this.setTool(action.tool);
+        break;
+      case 'help':
+        this.openHelp();
+        break;
+    }
+  }
+
+  protected setTool(tool: ReviewTool): void {
+    this.store.setTool(tool);
+    if (tool === 'scale') this.tabIndex.set(PANEL_TABS.indexOf('scale'));
+    if (tool === 'landmark') this.tabIndex.set(PANEL_TABS.indexOf('landmarks'));
+  }
+
+  protected setRate(rate: PlaybackRate): void {
+    this.store.setRate(rate);
+  }
+
+  protected onScrub(value: number): void {
+    if (this.store.playing()) this.store.pause();
+    this.store.goTo(value);
+  }
+
+  protected openHelp(): void {
+    this.dialog.open(KeyHelpDialog, { width: '720px', maxWidth: '95vw', autoFocus: 'dialog' });
+  }
+
+  protected retryLoad(): void {
+    this.openedClip = null;
+    this.loaded.reload();
+  }
+
+  /** Tells screen readers (and, for `visible`, everyone) what just happened. */
+  private say(message: string, visible = false): void {
+    this.announcement.set(message);
+    if (visible && message) this.snackBar.open(message, undefined, { duration: 2000 });
+  }
+}
+
+/** The clip exists but belongs to another assessment or athlete than the address says. */
+class NotHereError extends Error {
+  constructor() {
+    super('This clip is not part of this assessment.');
+  }
+}

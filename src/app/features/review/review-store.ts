@@ -1,0 +1,437 @@
+import { DestroyRef, Injectable, computed, inject, signal } from '@angular/core';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import type { ClipAnnotations, FramePoint, GaitEventKind, GaitEventMark, LandmarkName, ScaleBar } from '../../../contracts/annotations';
+import { GAIT_EVENT_LABELS, LANDMARKS, LANDMARK_LABELS } from '../../../contracts/annotations';
+import type { Assessment, Clip } from '../../../contracts/api';
+import type { Side } from '../../../contracts/assessment';
+import type { ClipMeasures, ReferenceBand } from '../../../contracts/measures';
+import { AnnotationState, Change, EMPTY_STATE, PointKey, applyChanges, invertChanges, stateOf, valueAt } from './annotation-changes';
+import {
+  copyPreviousChanges,
+  neighbourEventFrame,
+  nextLandmark,
+  pointsOn,
+  removeEventChanges,
+  removePointChanges,
+  setPointChanges,
+  setScaleChanges,
+  toggleEventChanges,
+} from './annotation-ops';
+import { AnnotationSync } from './annotation-sync';
+import { History, canRedo, canUndo, createHistory, nextLabels, record, redo, undo } from './command-history';
+import { FrameCache } from './frame-cache';
+import type { LandmarkRef } from './hit-test';
+import type { ReviewTool } from './key-map';
+import { DEFAULT_REFERENCE_BANDS, computeClipMeasures, validateEvents } from './kinematics-adapter';
+import { PlaybackRate, clampFrame, playbackFrame, realTimestamps, stepRate } from './playback';
+import type { ClipManifest } from './review-api';
+
+/** Everything about the clip the workspace needs, fixed while it is open. */
+export interface ReviewClip {
+  clip: Clip;
+  assessment: Assessment;
+  manifest: ClipManifest;
+}
+
+/** Hooks the frame viewer registers so moves can draw at once. */
+export interface ViewerHooks {
+  /** Draws on the next animation frame (coalesced). */
+  requestDraw(): void;
+  /** Draws now (inside an animation frame already). */
+  drawNow(): void;
+}
+
+const SIDE_NAMES: Record<Side, string> = { left: 'Left', right: 'Right' };
+
+/**
+ * The review workspace's state: the clip, the annotations as shown (with undo/redo and autosave),
+ * the current frame and playback, the chosen side, landmark and tool, and the live measures.
+ * Provided by the review page; its parts inject it.
+ */
+@Injectable()
+export class ReviewStore {
+  private readonly sync = inject(AnnotationSync);
+  private readonly snackBar = inject(MatSnackBar);
+
+  private readonly clip$ = signal<ReviewClip | null>(null);
+  private readonly cache$ = signal<FrameCache | null>(null);
+  private readonly history$ = signal<History<Change>>(createHistory<Change>(300));
+  private viewer: ViewerHooks | null = null;
+  private playRaf: number | null = null;
+  private playAnchor = { frame: 0, wall: 0 };
+
+  readonly clip = this.clip$.asReadonly();
+  readonly cache = this.cache$.asReadonly();
+  /** The annotations as shown (the server's copy plus unsaved edits). */
+  readonly annotations = signal<AnnotationState>(EMPTY_STATE);
+  readonly frame = signal(0);
+  readonly side = signal<Side>('left');
+  readonly landmark = signal<LandmarkName>('shoulder');
+  readonly selected = signal<LandmarkRef | null>(null);
+  readonly tool = signal<ReviewTool>('landmark');
+  readonly showAngles = signal(true);
+  readonly playing = signal(false);
+  /** Playback is waiting for frames to arrive. */
+  readonly buffering = signal(false);
+  readonly rate = signal<PlaybackRate>(0.25);
+  /** A scale line drawn but not yet given a length (or being drawn). */
+  readonly scaleDraft = signal<{ frame: number; a: FramePoint; b: FramePoint } | null>(null);
+  /** The clinic's reference bands (defaults until loaded). */
+  readonly bands = signal<ReferenceBand[]>(DEFAULT_REFERENCE_BANDS);
+
+  readonly saveState = this.sync.state;
+  readonly saveProblem = this.sync.problem;
+  readonly hasUnsaved = this.sync.hasUnsaved;
+
+  readonly frameCount = computed(() => this.clip$()?.manifest.frameCount ?? 0);
+  readonly frameSize = computed(() => {
+    const m = this.clip$()?.manifest;
+    return { width: m?.width ?? 0, height: m?.height ?? 0 };
+  });
+  readonly nearSide = computed<Side>(() => this.clip$()?.clip.nearSide ?? 'left');
+  readonly direction = computed(() => this.clip$()?.clip.direction ?? 'left_to_right');
+  /** The rate all timing uses (capture rate for slow-motion files). */
+  readonly fps = computed(() => {
+    const c = this.clip$();
+    return c?.clip.effectiveFps ?? c?.manifest.fps ?? 30;
+  });
+  /** Real time of every frame from the first, ms. */
+  readonly times = computed(() => {
+    const c = this.clip$();
+    if (!c) return [];
+    return realTimestamps(c.manifest.timestampsMs, c.manifest.frameCount, c.clip.fps ?? c.manifest.fps, c.clip.effectiveFps ?? c.manifest.fps);
+  });
+  readonly timeMs = computed(() => this.times()[this.frame()] ?? null);
+  readonly surface = computed(() => this.clip$()?.assessment.surface ?? 'treadmill');
+  readonly beltSpeedMps = computed(() => {
+    const a = this.clip$()?.assessment;
+    return a && a.surface === 'treadmill' ? a.speedMps : null;
+  });
+
+  /** Landmark rows on the current frame (either side). */
+  readonly frameRows = computed(() => {
+    const f = this.frame();
+    return this.annotations().landmarks.filter((l) => l.frame === f);
+  });
+  /** Points of the chosen side on the current frame. */
+  readonly sidePoints = computed(() => pointsOn(this.annotations(), this.frame(), this.side()));
+  /** Events in order. */
+  readonly events = computed(() => this.annotations().events);
+  /** Problems with the marked events (order, gaps…), from kinematics. */
+  readonly eventProblems = computed(() => validateEvents(this.annotations().events, this.frameCount()));
+  /** Frames with any landmark, per side. */
+  readonly markedFrameCount = computed(() => {
+    const counts: Record<Side, number> = { left: 0, right: 0 };
+    for (const row of this.annotations().landmarks) counts[row.side] += 1;
+    return counts;
+  });
+
+  /** Measures computed in the browser from the annotations as shown. */
+  readonly measures = computed<{ value: ClipMeasures | null; error: string | null }>(() => {
+    const c = this.clip$();
+    if (!c) return { value: null, error: null };
+    try {
+      return {
+        value: computeClipMeasures({
+          clipId: c.clip.id,
+          annotations: this.annotations(),
+          frameSize: this.frameSize(),
+          fps: this.fps(),
+          timestampsMs: this.times(),
+          direction: this.direction(),
+          surface: this.surface(),
+          beltSpeedMps: this.beltSpeedMps(),
+          bands: this.bands(),
+        }),
+        error: null,
+      };
+    } catch (err) {
+      return { value: null, error: err instanceof Error ? err.message : String(err) };
+    }
+  });
+
+  readonly canUndo = computed(() => canUndo(this.history$()));
+  readonly canRedo = computed(() => canRedo(this.history$()));
+  readonly historyLabels = computed(() => nextLabels(this.history$()));
+
+  constructor() {
+    inject(DestroyRef).onDestroy(() => {
+      this.pause();
+      this.cache$()?.destroy();
+    });
+  }
+
+  /** Opens a clip with the annotations just loaded. */
+  open(clip: ReviewClip, loaded: ClipAnnotations, cache: FrameCache): void {
+    this.cache$()?.destroy();
+    this.clip$.set(clip);
+    this.cache$.set(cache);
+    this.annotations.set(stateOf(loaded));
+    this.history$.set(createHistory<Change>(300));
+    this.side.set(clip.clip.nearSide);
+    this.landmark.set(LANDMARKS[0]);
+    this.selected.set(null);
+    this.frame.set(0);
+    cache.setCurrent(0);
+    this.sync.start(clip.clip.id, loaded, {
+      local: () => this.annotations(),
+      replaceLocal: (state, message) => {
+        this.annotations.set(state);
+        this.snackBar.open(message, 'OK', { duration: 8000 });
+        this.requestDraw();
+      },
+    });
+  }
+
+  attachViewer(hooks: ViewerHooks | null): void {
+    this.viewer = hooks;
+  }
+
+  requestDraw(): void {
+    this.viewer?.requestDraw();
+  }
+
+  saveNow(): void {
+    this.sync.saveNow();
+  }
+
+  // ---- Frames and playback ---------------------------------------------------------------
+
+  goTo(frame: number): void {
+    const f = clampFrame(frame, this.frameCount());
+    if (f !== this.frame()) {
+      this.frame.set(f);
+      this.cache$()?.setCurrent(f);
+      if (this.scaleDraft() && this.tool() !== 'scale') this.scaleDraft.set(null);
+    }
+    this.requestDraw();
+  }
+
+  step(by: number): void {
+    if (this.playing()) this.pause();
+    this.goTo(this.frame() + by);
+  }
+
+  first(): void {
+    this.step(-this.frame());
+  }
+
+  last(): void {
+    this.step(this.frameCount());
+  }
+
+  /** Moves to the previous/next marked event; false when there is none that way. */
+  jumpToEvent(dir: -1 | 1): boolean {
+    const target = neighbourEventFrame(this.annotations().events, this.frame(), dir);
+    if (target === null) return false;
+    this.step(target - this.frame());
+    return true;
+  }
+
+  togglePlay(): void {
+    if (this.playing()) this.pause();
+    else this.play();
+  }
+
+  play(): void {
+    if (this.playing() || this.frameCount() < 2) return;
+    if (this.frame() >= this.frameCount() - 1) this.goTo(0);
+    this.playing.set(true);
+    this.playAnchor = { frame: this.frame(), wall: performance.now() };
+    this.playRaf = requestAnimationFrame((t) => this.tick(t));
+  }
+
+  pause(): void {
+    this.playing.set(false);
+    this.buffering.set(false);
+    if (this.playRaf !== null) cancelAnimationFrame(this.playRaf);
+    this.playRaf = null;
+  }
+
+  setRate(rate: PlaybackRate): void {
+    this.rate.set(rate);
+    // Keep playing from here at the new speed.
+    this.playAnchor = { frame: this.frame(), wall: performance.now() };
+  }
+
+  stepRate(dir: -1 | 1): void {
+    this.setRate(stepRate(this.rate(), dir));
+  }
+
+  private tick(now: number): void {
+    if (!this.playing()) return;
+    const cache = this.cache$();
+    const times = this.times();
+    const target = playbackFrame(times, this.playAnchor.frame, now - this.playAnchor.wall, this.rate());
+    let next = this.frame();
+    // Never run ahead of the frames that have arrived.
+    while (next < target && cache?.has(next + 1)) next++;
+    if (next !== this.frame()) {
+      this.frame.set(next);
+      cache?.setCurrent(next);
+      this.viewer?.drawNow();
+    }
+    if (next < target) {
+      this.buffering.set(true);
+      this.playAnchor = { frame: next, wall: now };
+    } else {
+      this.buffering.set(false);
+    }
+    if (next >= this.frameCount() - 1) {
+      this.pause();
+      return;
+    }
+    this.playRaf = requestAnimationFrame((t) => this.tick(t));
+  }
+
+  // ---- Choosing ---------------------------------------------------------------------------
+
+  chooseLandmark(landmark: LandmarkName): void {
+    this.landmark.set(landmark);
+    const placed = this.sidePoints()[landmark];
+    this.selected.set(placed ? { side: this.side(), landmark } : null);
+    if (this.tool() !== 'landmark') this.tool.set('landmark');
+    this.requestDraw();
+  }
+
+  chooseSide(side: Side): void {
+    this.side.set(side);
+    this.selected.set(null);
+    this.requestDraw();
+  }
+
+  toggleSide(): void {
+    this.chooseSide(this.side() === 'left' ? 'right' : 'left');
+  }
+
+  select(ref: LandmarkRef | null): void {
+    this.selected.set(ref);
+    if (ref) {
+      this.side.set(ref.side);
+      this.landmark.set(ref.landmark);
+    }
+    this.requestDraw();
+  }
+
+  setTool(tool: ReviewTool): void {
+    this.tool.set(tool);
+    if (tool !== 'scale' && this.scaleDraft() && !this.scaleDraftComplete()) this.scaleDraft.set(null);
+    this.requestDraw();
+  }
+
+  toggleAngles(): void {
+    this.showAngles.update((v) => !v);
+    this.requestDraw();
+  }
+
+  // ---- Edits ------------------------------------------------------------------------------
+
+  /** Places the chosen landmark at `point` on this frame and moves on to the next landmark. */
+  placeAt(point: FramePoint): void {
+    const side = this.side();
+    const landmark = this.landmark();
+    const changes = setPointChanges(this.annotations(), this.frame(), side, landmark, point);
+    this.apply(`place ${LANDMARK_LABELS[landmark].split(' (')[0]}`, changes);
+    this.selected.set({ side, landmark });
+    this.landmark.set(nextLandmark(landmark, this.sidePoints()));
+  }
+
+  /** Moves a point while it is dragged (not yet an undo step). */
+  dragPoint(ref: LandmarkRef, point: FramePoint): void {
+    const changes = setPointChanges(this.annotations(), this.frame(), ref.side, ref.landmark, point);
+    if (!changes.length) return;
+    this.annotations.update((s) => applyChanges(s, changes));
+    this.sync.edited();
+    this.requestDraw();
+  }
+
+  /** Ends a drag: one undo step from where the point started. */
+  endDrag(ref: LandmarkRef, start: FramePoint): void {
+    const key: PointKey = { kind: 'point', frame: this.frame(), side: ref.side, landmark: ref.landmark };
+    const now = valueAt(this.annotations(), key) as FramePoint | null;
+    if (!now || (now.x === start.x && now.y === start.y)) return;
+    this.history$.update((h) => record(h, { label: `move ${LANDMARK_LABELS[ref.landmark].split(' (')[0]}`, changes: [{ key, before: start, after: now }] }));
+  }
+
+  /** The stored position of a point on the current frame. */
+  pointAt(ref: LandmarkRef): FramePoint | null {
+    return pointsOn(this.annotations(), this.frame(), ref.side)[ref.landmark] ?? null;
+  }
+
+  removeSelected(): boolean {
+    const ref = this.selected();
+    if (!ref) return false;
+    this.removePoint(ref);
+    return true;
+  }
+
+  removePoint(ref: LandmarkRef): void {
+    const changes = removePointChanges(this.annotations(), this.frame(), ref.side, ref.landmark);
+    this.apply(`remove ${LANDMARK_LABELS[ref.landmark].split(' (')[0]}`, changes);
+    const sel = this.selected();
+    if (sel && sel.side === ref.side && sel.landmark === ref.landmark) this.selected.set(null);
+    this.landmark.set(ref.landmark);
+  }
+
+  /** Copies the nearest earlier marked frame's points here; returns the frame copied from. */
+  copyPrevious(): number | null {
+    const { from, changes } = copyPreviousChanges(this.annotations(), this.frame());
+    if (from === null) return null;
+    this.apply(`copy points from frame ${from}`, changes);
+    return from;
+  }
+
+  /** Marks (or unmarks) a gait event of the chosen side on this frame. */
+  toggleEvent(kind: GaitEventKind): void {
+    const present = this.annotations().events.some((e) => e.frame === this.frame() && e.side === this.side() && e.kind === kind);
+    this.apply(`${present ? 'unmark' : 'mark'} ${GAIT_EVENT_LABELS[kind]} (${SIDE_NAMES[this.side()]})`, toggleEventChanges(this.annotations(), this.frame(), this.side(), kind));
+  }
+
+  removeEvent(mark: GaitEventMark): void {
+    this.apply(`remove ${GAIT_EVENT_LABELS[mark.kind]} at frame ${mark.frame}`, removeEventChanges(this.annotations(), mark));
+  }
+
+  scaleDraftComplete(): boolean {
+    const d = this.scaleDraft();
+    return !!d && (d.a.x !== d.b.x || d.a.y !== d.b.y);
+  }
+
+  /** Sets the scale bar (or removes it with null). */
+  setScale(scale: ScaleBar | null): void {
+    this.apply(scale ? 'set scale bar' : 'remove scale bar', setScaleChanges(this.annotations(), scale));
+    this.scaleDraft.set(null);
+  }
+
+  undo(): string | null {
+    const result = undo(this.history$());
+    if (!result) return null;
+    this.history$.set(result.history);
+    this.annotations.update((s) => applyChanges(s, invertChanges(result.command.changes)));
+    this.afterHistoryMove();
+    return result.command.label;
+  }
+
+  redo(): string | null {
+    const result = redo(this.history$());
+    if (!result) return null;
+    this.history$.set(result.history);
+    this.annotations.update((s) => applyChanges(s, result.command.changes));
+    this.afterHistoryMove();
+    return result.command.label;
+  }
+
+  private afterHistoryMove(): void {
+    const sel = this.selected();
+    if (sel && !this.pointAt(sel)) this.selected.set(null);
+    this.sync.edited();
+    this.requestDraw();
+  }
+
+  private apply(label: string, changes: Change[]): void {
+    if (!changes.length) return;
+    this.annotations.update((s) => applyChanges(s, changes));
+    this.history$.update((h) => record(h, { label, changes }));
+    this.sync.edited();
+    this.requestDraw();
+  }
+}
