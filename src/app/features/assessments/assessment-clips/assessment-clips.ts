@@ -118,6 +118,12 @@ export class AssessmentClips {
     return clip.uploadedById === this.auth.user()?.id;
   }
 
+  /** The review workspace of a clip, for staff. */
+  protected reviewLink(clip: Clip): (string | number)[] | null {
+    if (this.audience() !== 'staff') return null;
+    return ['/athletes', clip.athleteId, 'assessments', clip.assessmentId, 'clips', clip.id, 'review'];
+  }
+
   protected onUploaded(clip: Clip): void {
     this.clips.update((list) => upsertClip(list, clip));
   }

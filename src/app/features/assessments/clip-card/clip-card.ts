@@ -17,6 +17,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { RouterLink } from '@angular/router';
 import { filter, firstValueFrom } from 'rxjs';
 import type { Clip, ClipUpdate } from '../../../../contracts/api';
 import { CAPTURE_FPS_LIMITS, DIRECTIONS, DIRECTION_LABELS, Direction, SIDES, Side } from '../../../../contracts/assessment';
@@ -42,6 +43,7 @@ const SIDE_LABELS: Record<Side, string> = { left: 'Left', right: 'Right' };
     MatInputModule,
     MatIconModule,
     MatProgressBarModule,
+    RouterLink,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './clip-card.html',
@@ -54,6 +56,8 @@ export class ClipCard {
   readonly clip = input.required<Clip>();
   /** Whether this user may delete the clip. */
   readonly canDelete = input(true);
+  /** Where the review workspace of this clip is (staff only); no button when null. */
+  readonly reviewLink = input<readonly (string | number)[] | null>(null);
   /** Emits the clip as the server returns it after a settings change or a retry. */
   readonly changed = output<Clip>();
   /** Emits the id of a clip the server deleted. */
