@@ -52,6 +52,11 @@ export const routes: Routes = [
         loadChildren: () => import('./features/team/team.routes'),
       },
       {
+        path: 'settings/reference-bands',
+        canMatch: [roleGuard('owner')],
+        loadChildren: () => import('./features/reference-bands/reference-bands.routes'),
+      },
+      {
         path: 'mailbox',
         canMatch: [roleGuard('owner'), demoModeGuard],
         loadChildren: () => import('./features/mailbox/mailbox.routes'),

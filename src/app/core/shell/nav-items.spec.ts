@@ -3,9 +3,9 @@ import { navItemsFor } from './nav-items';
 const labels = (...args: Parameters<typeof navItemsFor>) => navItemsFor(...args).map((i) => i.label);
 
 describe('navItemsFor', () => {
-  it('gives owners the roster and team, and the mailbox only in demo mode', () => {
-    expect(labels('owner', false)).toEqual(['Athletes', 'Team']);
-    expect(labels('owner', true)).toEqual(['Athletes', 'Team', 'Mailbox']);
+  it('gives owners the roster, team and reference bands, and the mailbox only in demo mode', () => {
+    expect(labels('owner', false)).toEqual(['Athletes', 'Team', 'Reference bands']);
+    expect(labels('owner', true)).toEqual(['Athletes', 'Team', 'Reference bands', 'Mailbox']);
   });
 
   it('gives coaches the roster only, even in demo mode', () => {

@@ -16,6 +16,7 @@ export function navItemsFor(role: Role | null, demoMode: boolean): NavItem[] {
       return [
         { label: 'Athletes', icon: 'groups', path: '/athletes', exact: false },
         { label: 'Team', icon: 'badge', path: '/team', exact: false },
+        { label: 'Reference bands', icon: 'tune', path: '/settings/reference-bands', exact: false },
         ...(demoMode ? [{ label: 'Mailbox', icon: 'mail', path: '/mailbox', exact: false }] : []),
       ];
     case 'coach':
