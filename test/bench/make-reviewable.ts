@@ -5,7 +5,7 @@
  *
  *   npx tsx test/bench/make-reviewable.ts [--reps 2] [--all] [--clip file.mp4] [--keep]
  *
- * --all tries a wider grid of JPEG quality, decoder threads and scale flags; --clip reuses a clip
+ * --all tries a wider grid of JPEG quality, scaler and decoder threads; --clip reuses a clip
  * (skips the ~30 s encode); --keep leaves the temp folder. Wall times on a shared machine are
  * noisy, so each setting runs `--reps` times, alternating with the decode baseline, and the
  * fastest run of each is reported; CPU seconds of child processes (from /proc) are shown as well.
@@ -17,7 +17,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { extractFrames, type ExtractOptions } from '../../server/media/extract';
-import { DEFAULT_QUALITY, DEFAULT_SCALE_FLAGS } from '../../server/media/extract-plan';
+import { DEFAULT_QUALITY, DEFAULT_SCALE_FLAGS, DEFAULT_SCALER } from '../../server/media/extract-plan';
 import { probeVideo } from '../../server/media/probe';
 
 const { values: args } = parseArgs({
@@ -68,23 +68,27 @@ interface Variant {
   opts: ExtractOptions;
 }
 
-const defaults: Variant = { name: `defaults (q ${DEFAULT_QUALITY}, ${DEFAULT_SCALE_FLAGS})`, opts: {} };
+const defaults: Variant = { name: `defaults (${DEFAULT_SCALER} ${DEFAULT_SCALE_FLAGS}, q ${DEFAULT_QUALITY})`, opts: {} };
 const grid: Variant[] = args.all
   ? [2, 4, 6, 8].flatMap((quality) =>
-      (['bicubic', 'bilinear', 'fast_bilinear'] as const).flatMap((scaleFlags) =>
-        [undefined, 1, 2].map((threads) => ({ name: `q ${quality}, ${scaleFlags}, threads ${threads ?? 'auto'}`, opts: { quality, scaleFlags, threads } })),
+      (['zscale', 'swscale'] as const).flatMap((scaler) =>
+        [undefined, 1, 2].map((threads) => ({ name: `${scaler}, q ${quality}, threads ${threads ?? 'auto'}`, opts: { quality, scaler, threads } })),
       ),
     )
   : [
-      { name: 'q 2, bicubic', opts: { quality: 2, scaleFlags: 'bicubic' } },
-      { name: 'q 4, bicubic', opts: { quality: 4, scaleFlags: 'bicubic' } },
-      { name: 'q 6, bilinear', opts: { quality: 6, scaleFlags: 'bilinear' } },
-      { name: 'q 4, fast_bilinear', opts: { quality: 4, scaleFlags: 'fast_bilinear' } },
-      { name: 'q 6, fast_bilinear', opts: { quality: 6, scaleFlags: 'fast_bilinear' } },
-      { name: 'q 4, fast_bilinear, threads 1', opts: { quality: 4, scaleFlags: 'fast_bilinear', threads: 1 } },
+      { name: 'swscale bilinear, q 4', opts: { scaler: 'swscale', scaleFlags: 'bilinear', quality: 4 } },
+      { name: 'swscale bicubic, q 4', opts: { scaler: 'swscale', scaleFlags: 'bicubic', quality: 4 } },
+      { name: 'zscale bilinear, q 2', opts: { scaler: 'zscale', quality: 2 } },
+      { name: 'zscale bilinear, q 6', opts: { scaler: 'zscale', quality: 6 } },
+      { name: 'zscale bilinear, q 4, 1 decoder thread', opts: { scaler: 'zscale', quality: 4, threads: 1 } },
     ];
 
 const work = await mkdtemp(path.join(os.tmpdir(), 'tf-bench-'));
+for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+  process.once(signal, () => {
+    void rm(work, { recursive: true, force: true }).finally(() => process.exit(130));
+  });
+}
 try {
   let clip = args.clip;
   if (!clip) {
@@ -122,7 +126,7 @@ try {
     rows.push({ v, t: best(runs), frames, meanBytes, probeS });
     const d = best(decode);
     console.log(
-      `${v.name.padEnd(36)} probe+extract ${f2(best(runs).wallS)} s wall (${f2(best(runs).cpuS)} s CPU), probe ${f2(probeS)} s | ` +
+      `${v.name.padEnd(40)} probe+extract ${f2(best(runs).wallS)} s wall (${f2(best(runs).cpuS)} s CPU), probe ${f2(probeS)} s | ` +
         `decode ${f2(d.wallS)} s (${f2(d.cpuS)} s CPU) | ratio ${f2(best(runs).wallS / d.wallS)} wall, ${f2(best(runs).cpuS / d.cpuS)} CPU | ` +
         `${frames} frames, ${Math.round(meanBytes / 1024)} KiB/frame`,
     );
