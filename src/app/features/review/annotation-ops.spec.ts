@@ -78,6 +78,13 @@ describe('gait event edits', () => {
     expect(off.events).toEqual(s.events);
   });
 
+  it('replaces another kind marked for the same side on that frame (one event per side and frame)', () => {
+    const after = applyChanges(s, toggleEventChanges(s, 4, 'left', 'toe_off'));
+    expect(after.events.filter((e) => e.frame === 4)).toEqual([{ frame: 4, side: 'left', kind: 'toe_off' }]);
+    const other = applyChanges(s, toggleEventChanges(s, 4, 'right', 'toe_off'));
+    expect(other.events.filter((e) => e.frame === 4)).toHaveLength(2);
+  });
+
   it('removes one event', () => {
     expect(applyChanges(s, removeEventChanges(s, s.events[0])).events).toHaveLength(2);
     expect(removeEventChanges(s, { frame: 99, side: 'left', kind: 'midstance' })).toEqual([]);

@@ -86,10 +86,16 @@ export function hasEvent(events: readonly GaitEventMark[], frame: number, side: 
   return events.some((e) => e.frame === frame && e.side === side && e.kind === kind);
 }
 
-/** Marks the event on the frame, or unmarks it when it is already there (the key toggles). */
+/**
+ * Marks the event on the frame, or unmarks it when it is already there (the key toggles). One side
+ * has one event per frame, so marking replaces another kind marked there for that side.
+ */
 export function toggleEventChanges(state: AnnotationState, frame: number, side: Side, kind: GaitEventKind): Change[] {
-  const present = hasEvent(state.events, frame, side, kind);
-  return [{ key: eventKey(frame, side, kind), before: present ? true : null, after: present ? null : true }];
+  if (hasEvent(state.events, frame, side, kind)) return [{ key: eventKey(frame, side, kind), before: true, after: null }];
+  const replaced: Change[] = state.events
+    .filter((e) => e.frame === frame && e.side === side && e.kind !== kind)
+    .map((e) => ({ key: eventKey(frame, side, e.kind), before: true, after: null }));
+  return [...replaced, { key: eventKey(frame, side, kind), before: null, after: true }];
 }
 
 /** Removes one event. */

@@ -1,26 +1,21 @@
 /**
- * The one place the review workspace calls `src/kinematics`. INTERIM: the kinematics module does
- * not yet export `computeClipMeasures`, `drawOverlay`, `DEFAULT_REFERENCE_BANDS` and
- * `validateEvents`; until it does, this file stands in with a minimal version (per-frame angles
- * for the chart, a plain overlay, no measures) so the workspace can be built and used. Switch to
- * re-exports once `src/kinematics/index.ts` has them.
+ * The one place the review workspace calls `src/kinematics` (measures, bands, event checks and the
+ * overlay), so the client and the server use one implementation of the math.
+ *
+ * INTERIM for `drawOverlay` only: until the kinematics overlay is committed, a plain stand-in below
+ * draws markers and segments; switch it to the re-export once `src/kinematics/overlay.ts` lands.
  */
-import type { FrameLandmarks, GaitEventMark, LandmarkName, ScaleBar } from '../../../contracts/annotations';
-import type { Direction, FilmSurface, Side } from '../../../contracts/assessment';
-import type { AngleSample, ClipMeasures, ReferenceBand } from '../../../contracts/measures';
-import { footAngleDeg, hipRelativeToTrunkDeg, kneeFlexionDeg, shankAngleDeg, thighAngleDeg, toSagittal, trunkLeanDeg } from '../../../kinematics';
+import type { FrameLandmarks, LandmarkName, ScaleBar } from '../../../contracts/annotations';
+import type { Direction, Side } from '../../../contracts/assessment';
 
-export interface ClipMeasuresInput {
-  clipId: number;
-  annotations: { landmarks: FrameLandmarks[]; events: GaitEventMark[]; scale: ScaleBar | null };
-  frameSize: { width: number; height: number };
-  fps: number;
-  timestampsMs?: number[];
-  direction: Direction;
-  surface: FilmSurface;
-  beltSpeedMps: number | null;
-  bands: ReferenceBand[];
-}
+export {
+  DEFAULT_REFERENCE_BANDS,
+  KINEMATICS_VERSION,
+  classifyFootStrike,
+  computeClipMeasures,
+  validateEvents,
+} from '../../../kinematics';
+export type { ClipMeasureInput } from '../../../kinematics';
 
 export interface OverlayOptions {
   frameSize: { width: number; height: number };
@@ -35,46 +30,6 @@ export interface OverlayOptions {
 }
 
 export type Canvas2DLike = CanvasRenderingContext2D;
-
-export const KINEMATICS_VERSION = 'interim-client';
-
-export const DEFAULT_REFERENCE_BANDS: ReferenceBand[] = [];
-
-export function validateEvents(events: GaitEventMark[], frameCount: number): string[] {
-  return events.filter((e) => e.frame < 0 || e.frame >= frameCount).map((e) => `An event at frame ${e.frame} lies outside the clip.`);
-}
-
-export function computeClipMeasures(input: ClipMeasuresInput): ClipMeasures {
-  const facing = input.direction === 'left_to_right' ? 'right' : 'left';
-  const angles: AngleSample[] = [];
-  for (const row of input.annotations.landmarks) {
-    const p = (name: LandmarkName) => {
-      const q = row.points[name];
-      return q ? toSagittal(q, input.frameSize, facing) : null;
-    };
-    const [shoulder, hip, knee, ankle, heel, toe] = (['shoulder', 'hip', 'knee', 'ankle', 'heel', 'toe'] as const).map(p);
-    const sample: AngleSample = {
-      frame: row.frame,
-      timeMs: input.timestampsMs?.[row.frame] ?? (row.frame * 1000) / input.fps,
-      side: row.side,
-    };
-    if (hip && knee) sample.thighDeg = thighAngleDeg(hip, knee);
-    if (knee && ankle) sample.shankDeg = shankAngleDeg(knee, ankle);
-    if (hip && knee && ankle) sample.kneeFlexionDeg = kneeFlexionDeg(hip, knee, ankle);
-    if (hip && shoulder) sample.trunkDeg = trunkLeanDeg(hip, shoulder);
-    if (heel && toe) sample.footDeg = footAngleDeg(heel, toe);
-    if (sample.thighDeg !== undefined && sample.trunkDeg !== undefined) sample.hipRelTrunkDeg = hipRelativeToTrunkDeg(sample.thighDeg, sample.trunkDeg);
-    angles.push(sample);
-  }
-  return {
-    kinematicsVersion: KINEMATICS_VERSION,
-    clipId: input.clipId,
-    hasScale: input.annotations.scale !== null || (input.surface === 'treadmill' && input.beltSpeedMps !== null),
-    measures: [],
-    angles: angles.sort((a, b) => a.frame - b.frame),
-    notes: ['Measures are not computed in this build yet; the chart shows per-frame angles.'],
-  };
-}
 
 const LIMB: Record<Side, string> = { left: '#7B4FD6', right: '#E08A1E' };
 const TRUNK = '#3E4C59';

@@ -3,6 +3,7 @@
  */
 import { GAIT_EVENT_LABELS } from '../../../contracts/annotations';
 import type { BandEvaluation, Measure, MeasureKey, ReferenceBand } from '../../../contracts/measures';
+import { classifyFootStrike } from './kinematics-adapter';
 
 export interface MeasureGroupDef {
   id: string;
@@ -152,13 +153,11 @@ export const FOOT_STRIKE_LABELS: Record<FootStrikeClass, string> = {
 export const FOOT_STRIKE_SOURCE = 'Cut-offs: forefoot ≤ −0.8°, rearfoot ≥ 7.4°, midfoot between (Mo et al. 2021, Res Sports Med).';
 
 /**
- * Foot-strike class from the foot angle at initial contact (toe up +). The published cut-offs
- * are for the foot angle relative to standing; this screen's foot angle is from horizontal, so the
- * class is a guide (the panel says so).
+ * Foot-strike class from the foot angle at initial contact (toe up +), by the kinematics module's
+ * classifier. The published cut-offs are for the foot angle relative to standing; this screen's
+ * foot angle is from horizontal, so the class is a guide (the panel says so).
  */
 export function footStrikeClass(footAngleDeg: number | null): FootStrikeClass | null {
   if (footAngleDeg === null || !Number.isFinite(footAngleDeg)) return null;
-  if (footAngleDeg >= 7.4) return 'rearfoot';
-  if (footAngleDeg <= -0.8) return 'forefoot';
-  return 'midfoot';
+  return classifyFootStrike(footAngleDeg);
 }

@@ -142,6 +142,7 @@ export class ReviewStore {
           surface: this.surface(),
           beltSpeedMps: this.beltSpeedMps(),
           bands: this.bands(),
+          frameCount: this.frameCount(),
         }),
         error: null,
       };
