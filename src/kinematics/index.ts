@@ -18,3 +18,4 @@ export * from './events';
 export * from './bands';
 export * from './spring-mass';
 export * from './measures';
+export * from './overlay';
