@@ -128,7 +128,6 @@ export interface PoseAngles {
   trunkFromFallback?: boolean;
 }
 
-const finite = (v: number): number | undefined => (Number.isFinite(v) ? v : undefined);
 const distinct = (a: Point, b: Point): boolean => a.x !== b.x || a.y !== b.y;
 
 /**
@@ -139,18 +138,30 @@ const distinct = (a: Point, b: Point): boolean => a.x !== b.x || a.y !== b.y;
 export function poseAngles<U extends PlaneUnit>(pose: SidePose<U>, trunkFallback?: TrunkPair<U> | null): PoseAngles {
   const { shoulder, hip, knee, ankle, heel, toe } = pose;
   const out: PoseAngles = {};
-  if (hip && knee && distinct(hip, knee)) out.thighDeg = finite(thighAngleDeg(hip, knee));
-  if (knee && ankle && distinct(knee, ankle)) out.shankDeg = finite(shankAngleDeg(knee, ankle));
-  if (out.thighDeg !== undefined && out.shankDeg !== undefined) out.kneeFlexionDeg = finite(wrapDeg(out.thighDeg - out.shankDeg));
-  if (shoulder && hip && distinct(hip, shoulder)) out.trunkDeg = finite(trunkLeanDeg(hip, shoulder));
+  // Only finite values are ever written (no delete afterwards: it would slow every later access).
+  let thigh = NaN;
+  let shank = NaN;
+  let trunk = NaN;
+  if (hip && knee && distinct(hip, knee)) thigh = thighAngleDeg(hip, knee);
+  if (Number.isFinite(thigh)) out.thighDeg = thigh;
+  if (knee && ankle && distinct(knee, ankle)) shank = shankAngleDeg(knee, ankle);
+  if (Number.isFinite(shank)) out.shankDeg = shank;
+  if (Number.isFinite(thigh) && Number.isFinite(shank)) out.kneeFlexionDeg = wrapDeg(thigh - shank);
+  if (shoulder && hip && distinct(hip, shoulder)) trunk = trunkLeanDeg(hip, shoulder);
   else if (trunkFallback && distinct(trunkFallback.hip, trunkFallback.shoulder)) {
-    out.trunkDeg = finite(trunkLeanDeg(trunkFallback.hip, trunkFallback.shoulder));
-    if (out.trunkDeg !== undefined) out.trunkFromFallback = true;
+    trunk = trunkLeanDeg(trunkFallback.hip, trunkFallback.shoulder);
+    if (Number.isFinite(trunk)) out.trunkFromFallback = true;
   }
-  if (heel && toe && distinct(heel, toe)) out.footDeg = finite(footAngleDeg(heel, toe));
-  if (knee && ankle && heel && toe && distinct(knee, ankle) && distinct(heel, toe)) out.ankleDeg = finite(ankleAngleDeg(knee, ankle, heel, toe));
-  if (out.thighDeg !== undefined && out.trunkDeg !== undefined) out.hipRelTrunkDeg = hipRelativeToTrunkDeg(out.thighDeg, out.trunkDeg);
-  for (const k of Object.keys(out) as (keyof PoseAngles)[]) if (out[k] === undefined) delete out[k];
+  if (Number.isFinite(trunk)) out.trunkDeg = trunk;
+  if (heel && toe && distinct(heel, toe)) {
+    const foot = footAngleDeg(heel, toe);
+    if (Number.isFinite(foot)) out.footDeg = foot;
+    if (Number.isFinite(shank)) {
+      const a = ankleAngleDeg(knee!, ankle!, heel, toe);
+      if (Number.isFinite(a)) out.ankleDeg = a;
+    }
+  }
+  if (Number.isFinite(thigh) && Number.isFinite(trunk)) out.hipRelTrunkDeg = hipRelativeToTrunkDeg(thigh, trunk);
   return out;
 }
 

@@ -100,8 +100,16 @@ export function directionSign(direction: Direction): 1 | -1 {
  * x mirrored for a right-to-left clip. The same mapping as {@link toSagittal}, typed.
  */
 export function toPlanePx(p: FramePoint, f: PlaneFrame): PlanePoint<'px'> {
-  const x = p.x * f.frameSize.width * (f.pixelAspect ?? 1);
-  return { x: directionSign(f.direction) * x, y: -p.y * f.frameSize.height } as PlanePoint<'px'>;
+  const s = planeScale(f);
+  return { x: p.x * s.x, y: p.y * s.y } as PlanePoint<'px'>;
+}
+
+/**
+ * Factors that take an image fraction to plane pixels: x · (±width · pixel aspect, − when running
+ * right to left), y · (−height). Hoist it out of loops that convert many points.
+ */
+export function planeScale(f: PlaneFrame): { x: number; y: number } {
+  return { x: directionSign(f.direction) * f.frameSize.width * (f.pixelAspect ?? 1), y: -f.frameSize.height };
 }
 
 /** Plane pixels → plane metres with a metres-per-pixel factor (see {@link metresPerPixel}). */
@@ -116,10 +124,8 @@ export function toPlaneMetres(p: FramePoint, f: PlaneFrame, metresPerPx: number)
 
 /** Plane pixels → image fraction (inverse of {@link toPlanePx}); for drawing computed points. */
 export function planePxToFrame(p: PlanePoint<'px'>, f: PlaneFrame): FramePoint {
-  return {
-    x: (directionSign(f.direction) * p.x) / (f.frameSize.width * (f.pixelAspect ?? 1)),
-    y: -p.y / f.frameSize.height,
-  };
+  const s = planeScale(f);
+  return { x: p.x / s.x, y: p.y / s.y };
 }
 
 /** Image fraction → frame pixel (origin top-left, y down, not mirrored): where to draw it. */

@@ -13,11 +13,11 @@
 import { GAIT_EVENT_LABELS, type FrameLandmarks, type GaitEventKind, type GaitEventMark, type ScaleBar } from '../contracts/annotations';
 import type { Direction, FilmSurface, Side } from '../contracts/assessment';
 import type { AngleSample, ClipMeasures, Measure, MeasureKey, ReferenceBand } from '../contracts/measures';
-import type { PoseAngles, SidePose } from './angles';
+import { poseAngles, type PoseAngles, type SidePose } from './angles';
 import { classifyFootStrike, evaluateBand, findBand, UNITS, type FootStrike } from './bands';
 import { buildGaitCycles, eventWarnings, frameQuantisationMs, makeFrameClock, validateEvents, type FrameClock, type GaitCycles } from './events';
-import { metresPerPixel, type PlaneFrame } from './geometry';
-import { anglesOfPoses, framePosesPx } from './pose';
+import { isFinitePoint, metresPerPixel, planeScale, toPlanePx, type PlaneFrame, type PlanePoint } from './geometry';
+import { sidePosePx, trunkPairOf } from './pose';
 import { mean, sampleSd, symmetryIndexPct } from './stats';
 
 /** Version of this implementation, stored with every measures snapshot. */
@@ -112,9 +112,68 @@ interface Ctx {
   cycles: GaitCycles;
   /** Valid (in-range, whole-frame) events. */
   events: GaitEventMark[];
-  poses: Map<number, Partial<Record<Side, SidePose<'px'>>>>;
-  angles: Map<number, Partial<Record<Side, PoseAngles>>>;
+  store: FrameStore;
   timingNote: string;
+}
+
+/**
+ * Landmarks indexed by frame and side (the last entry for a frame and side wins). Angles are
+ * computed once per frame; plane poses are made on demand (only event frames and hip tracks need
+ * positions), so a long fully marked clip does not keep tens of thousands of points alive.
+ */
+class FrameStore {
+  /** Frames that have any landmarks, ascending. */
+  readonly frames: number[];
+  readonly lastFrame: number;
+  private readonly entries: Record<Side, (FrameLandmarks | undefined)[]> = { left: [], right: [] };
+  private readonly angleBy: Record<Side, (PoseAngles | undefined)[]> = { left: [], right: [] };
+  private readonly poseCache: Record<Side, Map<number, SidePose<'px'>>> = { left: new Map(), right: new Map() };
+
+  constructor(
+    landmarks: readonly FrameLandmarks[],
+    private readonly plane: PlaneFrame,
+  ) {
+    const seen: number[] = [];
+    let last = -1;
+    for (const l of landmarks) {
+      if (!Number.isInteger(l.frame) || l.frame < 0 || (l.side !== 'left' && l.side !== 'right')) continue;
+      if (!this.entries.left[l.frame] && !this.entries.right[l.frame]) seen.push(l.frame);
+      this.entries[l.side][l.frame] = l;
+      if (l.frame > last) last = l.frame;
+    }
+    this.frames = seen.sort((a, b) => a - b);
+    this.lastFrame = last;
+    // Same path as frameAngles()/anglesOfPoses(), unrolled: this loop runs for every marked frame.
+    const scale = planeScale(plane);
+    for (const f of this.frames) {
+      const left = this.entries.left[f];
+      const right = this.entries.right[f];
+      const pl = left ? sidePosePx(left.points ?? {}, scale) : undefined;
+      const pr = right ? sidePosePx(right.points ?? {}, scale) : undefined;
+      if (pl) this.angleBy.left[f] = poseAngles(pl, trunkPairOf(pr));
+      if (pr) this.angleBy.right[f] = poseAngles(pr, trunkPairOf(pl));
+    }
+  }
+
+  /** Angles of one side on one frame (absent when the side is not marked there). */
+  angles(frame: number, side: Side): PoseAngles | undefined {
+    return this.angleBy[side][frame];
+  }
+
+  /** One side's plane pose on one frame (pixels, y up, +x running direction), cached. */
+  pose(frame: number, side: Side): SidePose<'px'> | undefined {
+    const e = this.entries[side][frame];
+    if (!e) return undefined;
+    let p = this.poseCache[side].get(frame);
+    if (!p) this.poseCache[side].set(frame, (p = sidePosePx(e.points ?? {}, this.plane)));
+    return p;
+  }
+
+  /** The hip of one side on one frame in plane pixels (not cached: hip tracks are long). */
+  hip(frame: number, side: Side): PlanePoint<'px'> | undefined {
+    const h = this.entries[side][frame]?.points?.hip;
+    return isFinitePoint(h) ? toPlanePx(h, this.plane) : undefined;
+  }
 }
 
 function build(
@@ -178,8 +237,8 @@ function atEvent(
   );
 }
 
-const angleAt = (ctx: Ctx, frame: number, side: Side): PoseAngles | undefined => ctx.angles.get(frame)?.[side];
-const poseAt = (ctx: Ctx, frame: number, side: Side): SidePose<'px'> | undefined => ctx.poses.get(frame)?.[side];
+const angleAt = (ctx: Ctx, frame: number, side: Side): PoseAngles | undefined => ctx.store.angles(frame, side);
+const poseAt = (ctx: Ctx, frame: number, side: Side): SidePose<'px'> | undefined => ctx.store.pose(frame, side);
 
 /** Frames in [from, to] where `has(frame)` holds, and whether no gap (incl. the ends) exceeds maxGap. */
 function coverage(from: number, to: number, maxGap: number, has: (f: number) => boolean): { frames: number[]; covered: boolean } {
@@ -545,12 +604,12 @@ function verticalOscillation(ctx: Ctx): Measure {
   const perSide: Record<Side, number[]> = { left: [], right: [] };
   for (const s of ctx.cycles.strides) {
     const maxGap = Math.max(1, Math.floor(OSCILLATION_MAX_GAP_FRACTION * (s.nextIcFrame - s.icFrame)));
-    const { frames, covered } = coverage(s.icFrame, s.nextIcFrame, maxGap, (f) => poseAt(ctx, f, s.side)?.hip !== undefined);
+    const { frames, covered } = coverage(s.icFrame, s.nextIcFrame, maxGap, (f) => ctx.store.hip(f, s.side) !== undefined);
     if (!covered) continue;
     let lo = Infinity;
     let hi = -Infinity;
     for (const f of frames) {
-      const y = poseAt(ctx, f, s.side)!.hip!.y;
+      const y = ctx.store.hip(f, s.side)!.y;
       lo = Math.min(lo, y);
       hi = Math.max(hi, y);
     }
@@ -612,23 +671,9 @@ export function computeClipMeasures(input: ClipMeasureInput): ClipMeasures {
   notes.push(...eventWarnings(events), ...cycles.excluded);
 
   // Landmarks → plane poses → angles, once per frame.
-  const byFrame = new Map<number, FrameLandmarks[]>();
-  let lastFrame = 0;
+  const store = new FrameStore(annotations.landmarks, frame);
+  let lastFrame = Math.max(0, store.lastFrame);
   for (const e of events) lastFrame = Math.max(lastFrame, e.frame);
-  for (const l of annotations.landmarks) {
-    if (!Number.isInteger(l.frame) || l.frame < 0) continue;
-    let list = byFrame.get(l.frame);
-    if (!list) byFrame.set(l.frame, (list = []));
-    list.push(l);
-    lastFrame = Math.max(lastFrame, l.frame);
-  }
-  const poses = new Map<number, Partial<Record<Side, SidePose<'px'>>>>();
-  const angleMap = new Map<number, Partial<Record<Side, PoseAngles>>>();
-  for (const [f, list] of byFrame) {
-    const p = framePosesPx(list, frame);
-    poses.set(f, p);
-    angleMap.set(f, anglesOfPoses(p));
-  }
 
   // Time and scale.
   const fpsOk = Number.isFinite(input.fps) && input.fps > 0;
@@ -651,8 +696,7 @@ export function computeClipMeasures(input: ClipMeasureInput): ClipMeasures {
     mPerPx,
     cycles,
     events,
-    poses,
-    angles: angleMap,
+    store,
     timingNote,
   };
   if (!timingUsable) notes.push('No usable frame rate or timestamps: times, cadence and lengths cannot be computed.');
@@ -676,21 +720,20 @@ export function computeClipMeasures(input: ClipMeasureInput): ClipMeasures {
 
   // Per-frame angle samples for the chart.
   const angles: AngleSample[] = [];
-  const frames = [...angleMap.keys()].sort((a, b) => a - b);
-  for (const f of frames) {
-    const byS = angleMap.get(f)!;
+  for (const f of store.frames) {
     const timeMs = clock.timeMs(f);
     for (const side of SIDE_ORDER) {
-      const a = byS[side];
+      const a = store.angles(f, side);
       if (!a) continue;
       const s: AngleSample = { frame: f, timeMs: Number.isFinite(timeMs) ? timeMs : 0, side };
-      if (a.thighDeg !== undefined) s.thighDeg = a.thighDeg;
-      if (a.kneeFlexionDeg !== undefined) s.kneeFlexionDeg = a.kneeFlexionDeg;
-      if (a.shankDeg !== undefined) s.shankDeg = a.shankDeg;
-      if (a.trunkDeg !== undefined) s.trunkDeg = a.trunkDeg;
-      if (a.footDeg !== undefined) s.footDeg = a.footDeg;
-      if (a.hipRelTrunkDeg !== undefined) s.hipRelTrunkDeg = a.hipRelTrunkDeg;
-      if (Object.keys(s).length > 3) angles.push(s);
+      let n = 0;
+      if (a.thighDeg !== undefined) (s.thighDeg = a.thighDeg), n++;
+      if (a.kneeFlexionDeg !== undefined) (s.kneeFlexionDeg = a.kneeFlexionDeg), n++;
+      if (a.shankDeg !== undefined) (s.shankDeg = a.shankDeg), n++;
+      if (a.trunkDeg !== undefined) (s.trunkDeg = a.trunkDeg), n++;
+      if (a.footDeg !== undefined) (s.footDeg = a.footDeg), n++;
+      if (a.hipRelTrunkDeg !== undefined) (s.hipRelTrunkDeg = a.hipRelTrunkDeg), n++;
+      if (n > 0) angles.push(s);
     }
   }
 
