@@ -117,7 +117,7 @@ describe('measures from the synthetic runner (ground truth of the generator)', (
 
   beforeAll(async () => {
     const nearSide = truth.nearSide;
-    const farSide = nearSide === 'right' ? 'left' : 'right';
+    const farSide: 'left' | 'right' = nearSide === 'right' ? 'left' : 'right';
     const landmarks: FrameLandmarks[] = truth.frames.flatMap((f) => [
       { frame: f.index, side: nearSide, points: f.landmarksNormalised.near },
       { frame: f.index, side: farSide, points: f.landmarksNormalised.far },
