@@ -209,11 +209,12 @@ export async function seed(knex: Knex, opts: SeedOptions = {}): Promise<boolean>
  * queues them exactly like uploads; the server's worker extracts their frames on start.
  */
 async function seedDemoClips(knex: Knex, uploadsDir: string, log: (m: string) => void): Promise<void> {
-  log('rendering the demo clips (synthetic runner, about 20 s)…');
+  log('rendering the demo clips (synthetic runner, about 40 s)…');
   const store = localMediaStore(uploadsDir);
   const work = fs.mkdtempSync(path.join(store.tmpDir, 'demo-'));
   try {
-    const clips = await generateDemoClips(work);
+    // Six seconds hold about eight steps per side: means of at least 7 steps (Dingenen et al. 2018).
+    const clips = await generateDemoClips(work, { seconds: 6 });
     const queue = sqliteJobQueue(knex, { leaseMs: 30_000, maxAttempts: 3 });
     const ada = await knex('athletes').where({ last_name: 'Kestrel' }).first<{ id: number; clinic_id: number; coach_id: number }>();
     const visits = await knex('assessments').where({ athlete_id: ada.id }).orderBy('date');
