@@ -1,6 +1,7 @@
 import { DestroyRef, Injectable, computed, inject, signal } from '@angular/core';
 import type { ClipAnnotations } from '../../../contracts/annotations';
-import { errorCode, errorMessage, errorStatus, asHttpError } from '../../core/api-error';
+import { asHttpError, errorCode, errorMessage, errorStatus } from '../../core/api-error';
+import { AuthStore } from '../../core/auth-store';
 import { AnnotationState, mergeOnto, sameState, stateOf } from './annotation-changes';
 import { SAVE_DEBOUNCE_MS, SaveState, conflictMessage, isRetryableStatus, retryDelayMs } from './autosave';
 import { ReviewApi } from './review-api';
@@ -23,6 +24,7 @@ export interface SyncHost {
 @Injectable()
 export class AnnotationSync {
   private readonly api = inject(ReviewApi);
+  private readonly auth = inject(AuthStore);
 
   private readonly state$ = signal<SaveState>('saved');
   private readonly problem$ = signal<string | null>(null);
@@ -178,7 +180,8 @@ export class AnnotationSync {
     if (!host || !base) return;
     const { merged, applied, conflicts } = mergeOnto(stateOf(base), host.local(), stateOf(current));
     this.base$.set(current);
-    host.replaceLocal(merged, conflictMessage(current.updatedByName, applied, conflicts));
+    const byYou = !!current.updatedByName && current.updatedByName === this.auth.user()?.name;
+    host.replaceLocal(merged, conflictMessage(current.updatedByName, applied, conflicts, byYou));
     this.attempt = 0;
     if (this.isClean()) {
       this.state$.set('saved');

@@ -11,8 +11,8 @@ describe('angleDatasets', () => {
   it('makes one dataset per chosen series and side, in frame order, rounded to 0.1°', () => {
     const sets = angleDatasets(samples, ['thigh', 'knee'], ['left', 'right']);
     expect(sets.map((s) => s.label)).toEqual([
-      'Thigh from vertical (+ flexion) · Left',
-      'Thigh from vertical (+ flexion) · Right',
+      'Thigh · Left',
+      'Thigh · Right',
       'Knee flexion · Left',
     ]);
     expect(sets[0].data).toEqual([

@@ -13,6 +13,8 @@ export type AngleSeriesId = 'thigh' | 'knee' | 'shank' | 'trunk' | 'foot';
 
 export interface AngleSeries {
   id: AngleSeriesId;
+  /** Short name for the series picker. */
+  short: string;
   label: string;
   field: keyof Pick<AngleSample, 'thighDeg' | 'kneeFlexionDeg' | 'shankDeg' | 'trunkDeg' | 'footDeg'>;
   /** Line dash, so series differ by more than colour. */
@@ -22,11 +24,11 @@ export interface AngleSeries {
 }
 
 export const ANGLE_SERIES: AngleSeries[] = [
-  { id: 'thigh', label: 'Thigh from vertical (+ flexion)', field: 'thighDeg', dash: [], point: 'circle' },
-  { id: 'knee', label: 'Knee flexion', field: 'kneeFlexionDeg', dash: [6, 4], point: 'rect' },
-  { id: 'shank', label: 'Shank from vertical', field: 'shankDeg', dash: [2, 3], point: 'triangle' },
-  { id: 'trunk', label: 'Trunk lean', field: 'trunkDeg', dash: [10, 3, 2, 3], point: 'rectRot' },
-  { id: 'foot', label: 'Foot from horizontal', field: 'footDeg', dash: [1, 3], point: 'crossRot' },
+  { id: 'thigh', short: 'Thigh', label: 'Thigh from vertical (+ flexion)', field: 'thighDeg', dash: [], point: 'circle' },
+  { id: 'knee', short: 'Knee flexion', label: 'Knee flexion', field: 'kneeFlexionDeg', dash: [6, 4], point: 'rect' },
+  { id: 'shank', short: 'Shank', label: 'Shank from vertical', field: 'shankDeg', dash: [2, 3], point: 'triangle' },
+  { id: 'trunk', short: 'Trunk lean', label: 'Trunk lean', field: 'trunkDeg', dash: [10, 3, 2, 3], point: 'rectRot' },
+  { id: 'foot', short: 'Foot', label: 'Foot from horizontal', field: 'footDeg', dash: [1, 3], point: 'crossRot' },
 ];
 
 export const SIDE_COLOURS: Record<Side, string> = { left: '#7B4FD6', right: '#E08A1E' };
@@ -47,7 +49,7 @@ export function angleDatasets(samples: readonly AngleSample[], series: readonly 
       if (!data.length) continue;
       const colour = def.id === 'trunk' ? TRUNK_COLOUR : SIDE_COLOURS[side];
       out.push({
-        label: `${def.label} · ${SIDE_LABELS[side]}`,
+        label: `${def.short} · ${SIDE_LABELS[side]}`,
         data,
         borderColor: colour,
         backgroundColor: colour,

@@ -2,18 +2,18 @@ import { clampFrame, formatMs, frameAtTime, playbackFrame, realTimestamps, stepR
 
 describe('realTimestamps', () => {
   it('keeps container times for a normal clip, from the first frame', () => {
-    expect(realTimestamps([100, 133.3, 166.7], 3, 30, 30)).toEqual([0, 33.3, 66.7].map((v) => expect.closeTo(v, 6)));
+    expect(realTimestamps([100, 133.3, 166.7], 3, false, 30)).toEqual([0, 33.3, 66.7].map((v) => expect.closeTo(v, 6)));
   });
 
-  it('stretches a slow-motion file to capture time (30 fps file, 240 fps capture → ÷ 8)', () => {
+  it('uses the capture rate for a slow-motion file (240 fps capture stored at 30 fps)', () => {
     // [calc] frame 8 of a 240 fps capture happened 8 / 240 s = 33.33 ms after frame 0.
-    const ts = realTimestamps(Array.from({ length: 9 }, (_, i) => (i * 1000) / 30), 9, 30, 240);
+    const ts = realTimestamps(Array.from({ length: 9 }, (_, i) => (i * 1000) / 30), 9, true, 240);
     expect(ts[8]).toBeCloseTo(33.333, 3);
   });
 
   it('computes times from the rate when timestamps are missing', () => {
-    expect(realTimestamps(undefined, 3, null, 120)).toEqual([0, 1000 / 120, 2000 / 120]);
-    expect(realTimestamps([0], 2, 60, 60)).toEqual([0, 1000 / 60]);
+    expect(realTimestamps(undefined, 3, false, 120)).toEqual([0, 1000 / 120, 2000 / 120]);
+    expect(realTimestamps([0], 2, false, 60)).toEqual([0, 1000 / 60]);
   });
 });
 

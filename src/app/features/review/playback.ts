@@ -2,8 +2,9 @@
  * Time on the clip and playback at a fraction of real time. Pure functions.
  *
  * Times are real (capture) time from the clip's first frame: the manifest's presentation
- * timestamps, stretched by `fps ÷ effectiveFps` when a slow-motion capture rate was set (a 240 fps
- * capture stored at 30 fps plays 8× slower than it happened).
+ * timestamps, or — for a slow-motion file with a capture rate set — frame ÷ capture rate (a 240 fps
+ * capture stored at 30 fps plays 8× slower than it happened). The server's measures use the same
+ * rule, so the live figures and the stored snapshot agree.
  */
 
 /** Playback speeds offered, as fractions of real time. */
@@ -14,17 +15,17 @@ export const PLAYBACK_RATE_LABELS: Record<PlaybackRate, string> = { 0.125: '1/8�
 
 /**
  * Real time of each frame (ms from the first frame). `timestampsMs` are the container's
- * presentation times; `fileFps` the container rate; `effectiveFps` the rate timing uses.
- * Missing or short timestamp lists fall back to i × 1000 / effectiveFps.
+ * presentation times; with `slowMotion` (a capture rate was set) they are ignored and each frame
+ * is `i × 1000 / effectiveFps`. Missing or short timestamp lists fall back to the same.
  */
-export function realTimestamps(timestampsMs: readonly number[] | null | undefined, frameCount: number, fileFps: number | null, effectiveFps: number | null): number[] {
-  const eff = effectiveFps && effectiveFps > 0 ? effectiveFps : fileFps && fileFps > 0 ? fileFps : 30;
-  const stretch = fileFps && fileFps > 0 && effectiveFps && effectiveFps > 0 ? fileFps / effectiveFps : 1;
+export function realTimestamps(timestampsMs: readonly number[] | null | undefined, frameCount: number, slowMotion: boolean, effectiveFps: number | null): number[] {
+  const eff = effectiveFps && effectiveFps > 0 ? effectiveFps : 30;
   const out: number[] = [];
-  const first = timestampsMs?.[0] ?? 0;
+  const usable = !slowMotion && timestampsMs && timestampsMs.length > 0;
+  const first = usable ? timestampsMs[0] : 0;
   for (let i = 0; i < frameCount; i++) {
-    const ts = timestampsMs?.[i];
-    out.push(typeof ts === 'number' && Number.isFinite(ts) ? (ts - first) * stretch : (i * 1000) / eff);
+    const ts = usable ? timestampsMs[i] : undefined;
+    out.push(typeof ts === 'number' && Number.isFinite(ts) ? ts - first : (i * 1000) / eff);
   }
   return out;
 }

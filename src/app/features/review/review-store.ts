@@ -99,8 +99,10 @@ export class ReviewStore {
   readonly times = computed(() => {
     const c = this.clip$();
     if (!c) return [];
-    return realTimestamps(c.manifest.timestampsMs, c.manifest.frameCount, c.clip.fps ?? c.manifest.fps, c.clip.effectiveFps ?? c.manifest.fps);
+    return realTimestamps(c.manifest.timestampsMs, c.manifest.frameCount, this.slowMotion(), this.fps());
   });
+  /** A capture rate was set for a slow-motion file: timing uses it, not the file's timestamps. */
+  readonly slowMotion = computed(() => this.clip$()?.clip.captureFps != null);
   readonly timeMs = computed(() => this.times()[this.frame()] ?? null);
   readonly surface = computed(() => this.clip$()?.assessment.surface ?? 'treadmill');
   readonly beltSpeedMps = computed(() => {
@@ -137,7 +139,8 @@ export class ReviewStore {
           annotations: this.annotations(),
           frameSize: this.frameSize(),
           fps: this.fps(),
-          timestampsMs: this.times(),
+          // As the server's snapshot does: file timestamps, unless a capture rate overrides them.
+          timestampsMs: this.slowMotion() ? undefined : c.manifest.timestampsMs,
           direction: this.direction(),
           surface: this.surface(),
           beltSpeedMps: this.beltSpeedMps(),

@@ -50,10 +50,10 @@ export class AngleChart {
       interaction: { mode: 'nearest', axis: 'x', intersect: false },
       scales: {
         x: { type: 'linear', min: 0, max: last, title: { display: true, text: 'Frame' }, ticks: { precision: 0 } },
-        y: { title: { display: true, text: 'Degrees' } },
+        y: { title: { display: true, text: 'Degrees (+ flexion / forward / toe up)' } },
       },
       plugins: {
-        legend: { position: 'right', labels: { usePointStyle: true, boxWidth: 8, font: { size: 11 } } },
+        legend: { position: 'bottom', labels: { usePointStyle: true, boxWidth: 8, padding: 8, font: { size: 11 } } },
         tooltip: {
           callbacks: {
             title: (items) => (items.length ? `Frame ${items[0].parsed.x}` : ''),

@@ -80,6 +80,8 @@ export class FrameViewer {
   private gesture: Gesture = { kind: 'none' };
   private raf: number | null = null;
   private fitted = false;
+  /** Whether the view is "fit to view" (kept fitted when the canvas changes size). */
+  private autoFit = true;
 
   /** What the status chip over the canvas says about the current frame. */
   protected readonly frameStatus = computed<'ready' | 'loading' | 'failed'>(() => {
@@ -148,6 +150,7 @@ export class FrameViewer {
 
   /** Fits the whole frame into the view. */
   fit(): void {
+    this.autoFit = true;
     this.view.set(fitTransform(this.store.frameSize(), this.viewSize()));
   }
 
@@ -259,11 +262,14 @@ export class FrameViewer {
     const next = { width: Math.floor(rect.width), height: Math.floor(rect.height) };
     const prev = this.viewSize();
     if (next.width === prev.width && next.height === prev.height) return;
-    // Keep the frame centred where it was when the view changes size.
-    if (prev.width > 0 && this.fitted) {
+    this.viewSize.set(next);
+    if (!this.fitted) return;
+    if (this.autoFit) {
+      this.view.set(fitTransform(this.store.frameSize(), next));
+    } else if (prev.width > 0) {
+      // Keep the part of the frame in view centred when the view changes size.
       this.view.update((t) => panBy(t, (next.width - prev.width) / 2, (next.height - prev.height) / 2));
     }
-    this.viewSize.set(next);
   }
 
   private local(e: PointerEvent | WheelEvent): Vec {
@@ -272,6 +278,7 @@ export class FrameViewer {
   }
 
   private setView(t: ViewTransform): void {
+    this.autoFit = false;
     this.view.set(clampPan(t, this.store.frameSize(), this.viewSize()));
   }
 
