@@ -191,6 +191,19 @@ describe('AssessmentClips', () => {
     expect(element.querySelector('mat-expansion-panel')?.classList).toContain('mat-expanded');
   });
 
+  it('links staff to the review workspace of ready clips only', async () => {
+    create(detail({ clips: [clip(1, { status: 'ready', frameCount: 300 }), clip(2)] }));
+    await fixture.whenStable();
+    const links = [...element.querySelectorAll('app-clip-card')].map((card) => card.querySelector('a.review-link')?.getAttribute('href') ?? null);
+    expect(links).toEqual(['/athletes/9/assessments/4/clips/1/review', null]);
+  });
+
+  it('gives athletes no review link', async () => {
+    create(detail({ clips: [clip(1, { status: 'ready', frameCount: 300 })] }), 'athlete');
+    await fixture.whenStable();
+    expect(element.querySelector('a.review-link')).toBeNull();
+  });
+
   it('lets an athlete delete only the clips they uploaded', async () => {
     create(detail({ clips: [clip(1), clip(2, { uploadedByName: 'Robin Coach', uploadedById: 99 })] }), 'athlete');
     await fixture.whenStable();

@@ -1,0 +1,196 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, TestRequest, provideHttpClientTesting } from '@angular/common/http/testing';
+import { signal } from '@angular/core';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { provideRouter } from '@angular/router';
+import type { ClipAnnotations } from '../../../../contracts/annotations';
+import type { AssessmentDetail, Clip } from '../../../../contracts/api';
+import { AuthStore } from '../../../core/auth-store';
+import { ReviewPage } from './review-page';
+
+function clip(overrides: Partial<Clip> = {}): Clip {
+  return {
+    id: 7,
+    assessmentId: 4,
+    athleteId: 9,
+    originalName: 'treadmill-side.mp4',
+    sizeBytes: 5_000_000,
+    status: 'ready',
+    progress: null,
+    error: null,
+    nearSide: 'right',
+    direction: 'left_to_right',
+    captureFps: null,
+    fps: 120,
+    effectiveFps: 120,
+    width: 1280,
+    height: 720,
+    frameCount: 50,
+    durationS: 50 / 120,
+    rotation: 0,
+    codec: 'h264',
+    thumbCount: 5,
+    thumbEvery: 10,
+    uploadedByName: 'Robin Coach',
+    uploadedById: 3,
+    createdAt: '2025-03-14T10:00:00Z',
+    ...overrides,
+  };
+}
+
+const assessment: AssessmentDetail = {
+  id: 4,
+  athleteId: 9,
+  date: '2025-03-14',
+  kind: 'baseline',
+  surface: 'treadmill',
+  speedMps: 3,
+  speedUnit: 'kmh',
+  inclinePercent: 0,
+  shoes: null,
+  cameraNotes: null,
+  notes: null,
+  clipCount: 1,
+  createdAt: '2025-03-14T09:00:00Z',
+  updatedAt: '2025-03-14T09:00:00Z',
+  clips: [],
+  videoConsent: true,
+};
+
+const empty: ClipAnnotations = { clipId: 7, revision: 2, landmarks: [], events: [], scale: null, updatedAt: null, updatedByName: null };
+
+describe('ReviewPage', () => {
+  let fixture: ComponentFixture<ReviewPage>;
+  let element: HTMLElement;
+  let backend: HttpTestingController;
+
+  const realGetContext = HTMLCanvasElement.prototype.getContext;
+  const realResizeObserver = globalThis.ResizeObserver;
+  beforeAll(() => {
+    // jsdom has no layout observer and no canvas drawing.
+    globalThis.ResizeObserver ??= class {
+      observe() {}
+      unobserve() {}
+      disconnect() {}
+    } as unknown as typeof ResizeObserver;
+    HTMLCanvasElement.prototype.getContext = (() => null) as never;
+  });
+  afterAll(() => {
+    HTMLCanvasElement.prototype.getContext = realGetContext;
+    globalThis.ResizeObserver = realResizeObserver;
+  });
+
+  /** Runs change detection and effects (no whenStable: open frame fetches keep the app busy). */
+  async function settle(): Promise<void> {
+    TestBed.tick();
+    await new Promise((r) => setTimeout(r));
+    TestBed.tick();
+  }
+
+  async function open(c: Clip): Promise<void> {
+    TestBed.configureTestingModule({
+      imports: [ReviewPage],
+      providers: [
+        provideRouter([]),
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: AuthStore, useValue: { user: signal({ id: 3, name: 'Robin Coach' }), role: signal('coach') } },
+      ],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(ReviewPage);
+    fixture.componentRef.setInput('athleteId', '9');
+    fixture.componentRef.setInput('assessmentId', '4');
+    fixture.componentRef.setInput('clipId', '7');
+    element = fixture.nativeElement;
+    await settle();
+    backend.expectOne('/api/clips/7').flush(c);
+    backend.match('/api/reference-bands').forEach((r) => r.flush({ bands: [] }));
+    backend.match('/api/athletes/9').forEach((r) => r.flush({ id: 9, firstName: 'Ada', lastName: 'Kestrel' }));
+    await settle();
+  }
+
+  function frameRequests(): TestRequest[] {
+    return backend.match((r) => /\/api\/clips\/7\/frames\/\d+$/.test(r.url));
+  }
+
+  afterEach(() => {
+    frameRequests();
+    fixture?.destroy();
+  });
+
+  function press(key: string, init: KeyboardEventInit = {}, target: EventTarget = document.body): void {
+    target.dispatchEvent(new KeyboardEvent('keydown', { key, bubbles: true, cancelable: true, ...init }));
+  }
+
+  const readout = () => element.querySelector('.frame-no')?.textContent?.replace(/\s+/g, ' ').trim();
+
+  it('says a clip that is still processing is not ready, with a way back', async () => {
+    await open(clip({ status: 'extracting', progress: { done: 10, total: 50 } }));
+    expect(element.textContent).toContain('This clip is not ready for review');
+    const back = [...element.querySelectorAll('a')].find((a) => a.textContent?.includes('Back to the assessment'));
+    expect(back?.getAttribute('href')).toBe('/athletes/9/assessments/4');
+    expect(element.querySelector('app-frame-viewer')).toBeNull();
+  });
+
+  it('opens the workspace, steps with the keyboard, marks events and undoes them', async () => {
+    await open(clip());
+    backend.expectOne('/api/assessments/4').flush(assessment);
+    backend.expectOne('/api/clips/7/manifest').flush({
+      frameCount: 50,
+      width: 1280,
+      height: 720,
+      fps: 120,
+      timestampsMs: Array.from({ length: 50 }, (_, i) => (i * 1000) / 120),
+    });
+    backend.expectOne('/api/clips/7/annotations').flush(empty);
+    await settle();
+
+    expect(element.querySelector('app-frame-viewer canvas')).not.toBeNull();
+    // Frames are fetched around the current one through the authorised route.
+    expect(frameRequests().map((r) => r.request.url)[0]).toBe('/api/clips/7/frames/0');
+    expect(readout()).toBe('Frame 0 / 49');
+
+    press('ArrowRight');
+    press('ArrowRight', { shiftKey: true });
+    await settle();
+    expect(readout()).toBe('Frame 11 / 49');
+    expect(element.querySelector('.time')?.textContent).toContain('91.7 ms');
+
+    // Keys typed into a text field stay there.
+    const input = document.createElement('input');
+    document.body.appendChild(input);
+    press('ArrowRight', {}, input);
+    press('End', {}, input);
+    input.remove();
+    await settle();
+    expect(readout()).toBe('Frame 11 / 49');
+
+    // Toe-off for the near (right) side on this frame, listed on the Events tab.
+    press('o');
+    await settle();
+    expect(element.querySelector('.save')?.textContent).toContain('Unsaved changes');
+    const eventsTab = [...element.querySelectorAll<HTMLElement>('[role="tab"]')].find((t) => t.textContent?.includes('Events'))!;
+    eventsTab.click();
+    await settle();
+    const row = element.querySelector('app-events-panel .events li')!;
+    expect(row.querySelector('.frame')?.textContent?.trim()).toBe('11');
+    expect(row.querySelector('.what')?.textContent?.trim()).toBe('Right · Toe-off');
+
+    press('End');
+    press('[');
+    await settle();
+    expect(readout()).toBe('Frame 11 / 49');
+
+    press('z', { ctrlKey: true });
+    await settle();
+    expect(element.querySelector('app-events-panel .events')).toBeNull();
+    expect(element.querySelector('.save')?.textContent).toContain('Saved');
+    expect(fixture.componentInstance.leaveWarning()).toBeNull();
+
+    press('z', { ctrlKey: true, shiftKey: true });
+    await settle();
+    expect(element.querySelector('app-events-panel .events')?.textContent).toContain('Toe-off');
+    expect(fixture.componentInstance.leaveWarning()?.title).toBe('Leave before your marks are saved?');
+  });
+});
