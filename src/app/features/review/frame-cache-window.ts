@@ -20,8 +20,9 @@ export interface CacheWindowOptions {
 export const DEFAULT_CACHE_WINDOW: CacheWindowOptions = {
   ahead: 30,
   behind: 10,
-  maxEntries: 120,
-  maxBytes: 400 * 1024 * 1024,
+  maxEntries: 90,
+  // About 69 decoded 1280 × 720 frames: the 41-frame window with room to step back.
+  maxBytes: 256 * 1024 * 1024,
   maxInFlight: 6,
 };
 
