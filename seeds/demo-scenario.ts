@@ -6,6 +6,7 @@ import { localMediaStore } from '../server/storage/media-store';
 import { sqliteJobQueue } from '../server/jobs/job-queue';
 import { EXTRACT_JOB } from '../server/clips/clips-service';
 import { generateDemoClips } from '../scripts/demo-clip/clip';
+import { seedDemoPlans } from './demo-plans';
 
 /**
  * The demo scenario: an invented clinic, its staff and athletes. Every person, place and e-mail
@@ -198,6 +199,7 @@ export async function seed(knex: Knex, opts: SeedOptions = {}): Promise<boolean>
         });
       }
     }
+    await seedDemoPlans(trx, clinicId, userIds[1]!);
   });
   if (opts.uploadsDir) await seedDemoClips(knex, opts.uploadsDir, opts.log ?? (() => undefined));
   return true;

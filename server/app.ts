@@ -33,6 +33,9 @@ import { annotationsRoutes } from './annotations/annotations.routes';
 import { measuresService } from './measures/measures-service';
 import { measuresRoutes } from './measures/measures.routes';
 import { validateEvents } from '../src/kinematics';
+import { exercisesService } from './plans/exercises-service';
+import { plansService } from './plans/plans-service';
+import { plansRoutes } from './plans/plans.routes';
 
 /** What the app needs from outside; tests pass their own. */
 export interface AppDeps {
@@ -181,6 +184,8 @@ export function createApp(deps: AppDeps): App {
   const assessments = assessmentsService({ db, clips });
   const measures = measuresService({ db, store, clips });
   const annotations = annotationsService({ db, clips, validateEvents, afterSave: measures.afterSave });
+  const exercises = exercisesService({ db, clock });
+  const plans = plansService({ db, clock });
   if (config.runWorker) {
     worker = startWorker({
       queue,
@@ -207,6 +212,7 @@ export function createApp(deps: AppDeps): App {
   api.use(clipsRoutes({ db, clips, events, store, uploadMaxBytes: config.uploadMaxBytes }));
   api.use(annotationsRoutes(annotations));
   api.use(measuresRoutes({ db, measures }));
+  api.use(plansRoutes({ exercises, plans }));
   if (config.demoMode) api.use(mailboxRoutes(db));
   api.use(apiNotFound);
 

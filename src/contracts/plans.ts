@@ -68,7 +68,7 @@ export const PLAN_LIMITS = {
     purpose: 300,
     instructionStep: 300,
     cautions: 600,
-    tempo: 20,
+    tempo: 40,
     load: 60,
     planTitle: 100,
     planNotes: 2000,

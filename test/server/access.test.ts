@@ -113,6 +113,28 @@ const ROUTES: RouteCase[] = [
   { method: 'put', pattern: '/api/reference-bands/:key', path: () => '/api/reference-bands/cadence', body: () => ({ low: 160, high: 180, unit: 'steps/min', context: 'Clinic runners', source: 'Clinic audit (internal)', evidence: 'trade' }), expect: ownerOnly(200) },
   { method: 'delete', pattern: '/api/reference-bands/:key', path: () => '/api/reference-bands/cadence', expect: ownerOnly(204) },
   { method: 'post', pattern: '/api/auth/sign-out', path: () => '/api/auth/sign-out', expect: all(204) },
+  // Plans (fixtures in plansFixtures() at the end of this file).
+  { method: 'get', pattern: '/api/exercises', path: () => '/api/exercises?region=hamstring', expect: staffOnly(200, 200) },
+  { method: 'post', pattern: '/api/exercises', path: () => '/api/exercises', body: () => ({ ...exercise, name: `Walk ${Math.random().toString(36).slice(2)}` }), expect: staffOnly(201, 201) },
+  { method: 'get', pattern: '/api/exercises/:id', path: () => `/api/exercises/${pc.exerciseId}`, expect: staffWrite(200) },
+  { method: 'patch', pattern: '/api/exercises/:id', path: () => `/api/exercises/${pc.exerciseId}`, body: () => ({ cautions: 'Walked.' }), expect: staffWrite(200) },
+  { method: 'delete', pattern: '/api/exercises/:id', path: () => `/api/exercises/${pc.scratchExerciseId}`, before: () => scratchExercise(), expect: staffWrite(204) },
+  { method: 'get', pattern: '/api/athletes/:id/plans', path: (c) => `/api/athletes/${c.selfAthleteId}/plans`, expect: selfAndStaff(200) },
+  { method: 'post', pattern: '/api/athletes/:id/plans', path: (c) => `/api/athletes/${c.otherAthleteId}/plans`, body: () => planBody(), expect: staffWrite(201) },
+  { method: 'get', pattern: '/api/plans/:id', path: () => `/api/plans/${pc.planId}`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/plans/:id', path: () => `/api/plans/${pc.otherPlanId}`, expect: { ...selfAndStaff(200), athleteSelf: 404 } },
+  { method: 'put', pattern: '/api/plans/:id', path: () => `/api/plans/${pc.draftPlanId}`, body: () => planBody(), expect: staffWrite(200) },
+  { method: 'delete', pattern: '/api/plans/:id', path: () => `/api/plans/${pc.scratchPlanId}`, before: () => scratchPlan(), expect: staffWrite(204) },
+  { method: 'post', pattern: '/api/plans/:id/transitions', path: () => `/api/plans/${pc.planId}/transitions`, body: () => ({ action: 'pause' }), before: () => planActive(), expect: staffWrite(200) },
+  { method: 'put', pattern: '/api/plans/:id/pain-rule', path: () => `/api/plans/${pc.planId}/pain-rule`, body: () => ({ maxDuring: 5, morningMustSettle: true, settledMorningMax: 2, noWeeklyRise: true }), expect: staffWrite(200) },
+  { method: 'get', pattern: '/api/plans/:id/progress', path: () => `/api/plans/${pc.planId}/progress`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/plans/:id/progress', path: () => `/api/plans/${pc.otherPlanId}/progress`, expect: { ...selfAndStaff(200), athleteSelf: 404 } },
+  { method: 'get', pattern: '/api/plan-alerts', path: () => '/api/plan-alerts', expect: staffOnly(200, 200) },
+  { method: 'get', pattern: '/api/plans/:id/logs', path: () => `/api/plans/${pc.planId}/logs`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/plans/:id/logs', path: () => `/api/plans/${pc.otherPlanId}/logs`, expect: { ...selfAndStaff(200), athleteSelf: 404 } },
+  { method: 'post', pattern: '/api/plans/:id/logs', path: () => `/api/plans/${pc.planId}/logs`, body: () => logBody(), before: () => planActive(), expect: { anonymous: 401, athleteSelf: 201, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 } },
+  { method: 'post', pattern: '/api/plans/:id/logs', path: () => `/api/plans/${pc.otherPlanId}/logs`, body: () => logBody(), expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 } },
+  { method: 'put', pattern: '/api/plans/:id/logs/:key/morning', path: () => `/api/plans/${pc.planId}/logs/${pc.logKey}/morning`, body: () => ({ pain: 1 }), expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 } },
 ];
 
 const [owner, coach, , athlete] = DEMO_SIGN_INS;
@@ -179,6 +201,7 @@ beforeAll(async () => {
   const up = await coachClient.agent.post(`/api/assessments/${ctx.assessmentId}/clips`).set('X-XSRF-TOKEN', await coachClient.xsrf()).attach('file', file);
   ctx.clipId = up.body.id;
   await t.worker!.idle();
+  await plansFixtures();
   server = http.createServer(t.app).listen(0, '127.0.0.1');
 });
 afterAll(async () => {
@@ -240,4 +263,51 @@ function listRoutes(app: Express): string[] {
     if (layer.handle?.stack) walk(layer.handle.stack, '/api');
   }
   return [...new Set(out)].filter((r) => !r.includes('/api/*') && !r.includes('(?!'));
+}
+
+// ─── Plans fixtures ───────────────────────────────────────────────────────────────────────
+
+const exercise = {
+  purpose: 'Walk-through exercise.', region: 'hip', kind: 'mobility', instructions: ['Step one.'], cautions: '',
+  dose: { sets: 2, reps: 5, holdSeconds: null, tempo: null, load: null, restSeconds: null, daysPerWeek: 3 },
+};
+
+/** Ids the plan routes of the walk use: the self athlete's active plan and a log, another athlete's plan. */
+const pc = { exerciseId: 0, scratchExerciseId: 0, planId: 0, stageId: 0, otherPlanId: 0, draftPlanId: 0, scratchPlanId: 0, logKey: '' };
+
+const planBody = () => ({
+  title: 'Walk plan',
+  assessmentId: null,
+  notes: null,
+  stages: [{ name: 'Holds', goal: '', targetWeeks: 2, progressionText: '', criteria: [], exercises: [{ exerciseId: pc.exerciseId, dose: exercise.dose, notes: null }] }],
+});
+
+const logBody = () => ({ key: `walk-${Math.random().toString(36).slice(2)}`, stageId: pc.stageId, date: new Date().toISOString().slice(0, 10), painDuring: 2, sets: [], note: null });
+
+async function scratchExercise(): Promise<void> {
+  pc.scratchExerciseId = (await coachClient.post('/api/exercises', { ...exercise, name: `Scratch ${Math.random().toString(36).slice(2)}` })).body.id;
+}
+
+async function scratchPlan(): Promise<void> {
+  pc.scratchPlanId = (await coachClient.post(`/api/athletes/${ctx.otherAthleteId}/plans`, planBody())).body.id;
+}
+
+/** Puts the self athlete's plan back to active (the walk pauses it). */
+async function planActive(): Promise<void> {
+  await t.db('plans').where({ id: pc.planId }).update({ status: 'active' });
+}
+
+async function plansFixtures(): Promise<void> {
+  pc.exerciseId = (await coachClient.get('/api/exercises')).body.exercises[0].id;
+  const plan = (await coachClient.post(`/api/athletes/${ctx.selfAthleteId}/plans`, planBody())).body;
+  pc.planId = plan.id;
+  pc.stageId = plan.stages[0].id;
+  await coachClient.post(`/api/plans/${plan.id}/transitions`, { action: 'start' });
+  pc.draftPlanId = (await coachClient.post(`/api/athletes/${ctx.otherAthleteId}/plans`, planBody())).body.id;
+  // The seeded demo plan of another athlete of the same clinic.
+  pc.otherPlanId = (await t.db('plans').whereNot({ athlete_id: ctx.selfAthleteId }).andWhere({ status: 'active' }).first()).id;
+  const self = await clientFor(t.app, 'athleteSelf');
+  const body = logBody();
+  await self.post(`/api/plans/${plan.id}/logs`, body);
+  pc.logKey = body.key;
 }

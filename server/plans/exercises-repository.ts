@@ -1,0 +1,91 @@
+import type { Knex } from 'knex';
+import type { Dose, Exercise, ExerciseRegion, LoadingKind } from '../../src/contracts/plans';
+import type { ExerciseQueryInput } from './plans-schemas';
+
+export interface ExerciseRow {
+  id: number;
+  clinic_id: number;
+  name: string;
+  purpose: string;
+  region: ExerciseRegion;
+  kind: LoadingKind;
+  sets: number;
+  reps: number | null;
+  hold_seconds: number | null;
+  tempo: string | null;
+  load: string | null;
+  rest_seconds: number | null;
+  days_per_week: number;
+  instructions: string;
+  cautions: string;
+  archived: number | boolean;
+  created_by: number | null;
+  created_at: string;
+  updated_at: string;
+}
+
+/** Dose columns shared by `exercises` (default dose) and `stage_exercises` (prescription). */
+export type DoseColumns = Pick<ExerciseRow, 'sets' | 'reps' | 'hold_seconds' | 'tempo' | 'load' | 'rest_seconds' | 'days_per_week'>;
+
+export function doseColumns(d: Dose): DoseColumns {
+  return { sets: d.sets, reps: d.reps, hold_seconds: d.holdSeconds, tempo: d.tempo, load: d.load, rest_seconds: d.restSeconds, days_per_week: d.daysPerWeek };
+}
+
+export function doseFromRow(r: DoseColumns): Dose {
+  return { sets: r.sets, reps: r.reps, holdSeconds: r.hold_seconds, tempo: r.tempo, load: r.load, restSeconds: r.rest_seconds, daysPerWeek: r.days_per_week };
+}
+
+/** Escapes `%`, `_` and `\` for a LIKE pattern (with `ESCAPE '\'`). */
+const likeEscape = (s: string) => s.replace(/[\\%_]/g, (c) => `\\${c}`);
+
+/** The clinic's exercise library. Every query is scoped by clinic. */
+export const exercisesRepository = {
+  find(db: Knex, clinicId: number, id: number): Promise<ExerciseRow | undefined> {
+    return db<ExerciseRow>('exercises').where({ id, clinic_id: clinicId }).first();
+  },
+
+  findByName(db: Knex, clinicId: number, name: string): Promise<ExerciseRow | undefined> {
+    return db<ExerciseRow>('exercises').where({ clinic_id: clinicId }).whereRaw('lower(name) = ?', [name.toLowerCase()]).first();
+  },
+
+  byIds(db: Knex, clinicId: number, ids: number[]): Promise<ExerciseRow[]> {
+    if (ids.length === 0) return Promise.resolve([]);
+    return db<ExerciseRow>('exercises').where({ clinic_id: clinicId }).whereIn('id', [...new Set(ids)]);
+  },
+
+  search(db: Knex, clinicId: number, q: ExerciseQueryInput): Promise<ExerciseRow[]> {
+    const query = db<ExerciseRow>('exercises').where({ clinic_id: clinicId, archived: q.archived === 'true' });
+    if (q.region) query.andWhere({ region: q.region });
+    if (q.kind) query.andWhere({ kind: q.kind });
+    for (const word of (q.q ?? '').toLowerCase().split(/\s+/).filter(Boolean)) {
+      const pattern = `%${likeEscape(word)}%`;
+      query.andWhere((w) => w.whereRaw(`lower(name) LIKE ? ESCAPE '\\'`, [pattern]).orWhereRaw(`lower(purpose) LIKE ? ESCAPE '\\'`, [pattern]));
+    }
+    return query.orderByRaw('lower(name)');
+  },
+
+  async insert(db: Knex, row: Omit<ExerciseRow, 'id'>): Promise<number> {
+    const [r] = await db('exercises').insert(row).returning('id');
+    return (r as { id: number }).id;
+  },
+
+  async update(db: Knex, clinicId: number, id: number, patch: Partial<ExerciseRow>): Promise<void> {
+    await db('exercises').where({ id, clinic_id: clinicId }).update(patch);
+  },
+
+  toApi(r: ExerciseRow): Exercise {
+    return {
+      id: r.id,
+      name: r.name,
+      purpose: r.purpose,
+      region: r.region,
+      kind: r.kind,
+      dose: doseFromRow(r),
+      instructions: JSON.parse(r.instructions) as string[],
+      cautions: r.cautions,
+      archived: Boolean(r.archived),
+      createdAt: r.created_at,
+      updatedAt: r.updated_at,
+    };
+  },
+};

@@ -1,0 +1,417 @@
+/**
+ * Plans API: exercise library, plans with stages, status changes, the athlete's log (idempotent),
+ * progress, progression and alerts. The default pain rule is REFERENCES.md's pain-monitoring entry
+ * (Silbernagel et al. 2007 [mem] — from memory); stage criteria in these plans are invented to test
+ * the logic.
+ */
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { makeTestApp, OTHER, signedIn, type Client, type TestApp } from '../support/test-app';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { DEMO_EXERCISES } from '../../seeds/demo-plans';
+import type { Exercise, PlanDetail, PlanWrite, StageWrite } from '../../src/contracts/plans';
+import { DEFAULT_PAIN_RULE } from '../../src/contracts/plans';
+import { ExerciseBody } from '../../server/plans/plans-schemas';
+
+const [, coach, , athlete] = DEMO_SIGN_INS;
+const DAY = 86_400_000;
+let t: TestApp;
+let c: Client;
+let a: Client;
+let adaId: number;
+let library: Exercise[];
+
+const isoDay = (offsetDays = 0) => new Date(Date.now() + offsetDays * DAY).toISOString().slice(0, 10);
+
+beforeEach(async () => {
+  t = await makeTestApp();
+  c = await signedIn(t.app, coach.email, coach.password);
+  a = await signedIn(t.app, athlete.email, athlete.password);
+  adaId = (await t.db('athletes').where({ email: athlete.email }).first()).id;
+  library = (await c.get('/api/exercises')).body.exercises;
+});
+afterEach(async () => {
+  await t.close();
+});
+
+const ex = (name: string) => {
+  const e = library.find((x) => x.name === name);
+  if (!e) throw new Error(`no exercise ${name}`);
+  return { exerciseId: e.id, dose: e.dose, notes: null };
+};
+
+function stage(name: string, exercises: string[], over: Partial<StageWrite> = {}): StageWrite {
+  return { name, goal: `${name} goal`, targetWeeks: 2, progressionText: 'When it feels easy.', criteria: [], exercises: exercises.map(ex), ...over };
+}
+
+function threeStages(over: Partial<PlanWrite> = {}): PlanWrite {
+  return {
+    title: 'High hamstring: staged loading',
+    assessmentId: null,
+    notes: 'Coach-only note',
+    stages: [
+      stage('Isometric holds', ['Long-lever hamstring bridge hold', 'Hip-hinge hold'], {
+        criteria: [
+          { kind: 'pain_during_at_most', max: 3, sessions: 2 },
+          { kind: 'settled_by_morning', sessions: 2 },
+        ],
+      }),
+      stage('Slow lengthening', ['Heel-slide hamstring lowers']),
+      stage('Fast and running drills', ['Split-stance hip-drive pulses', 'Wall-supported hip-extension drill']),
+    ],
+    ...over,
+  };
+}
+
+async function createPlan(body: PlanWrite = threeStages()): Promise<PlanDetail> {
+  const res = await c.post(`/api/athletes/${adaId}/plans`, body);
+  expect(res.status, JSON.stringify(res.body)).toBe(201);
+  return res.body;
+}
+
+async function startedPlan(): Promise<PlanDetail> {
+  const plan = await createPlan();
+  const res = await c.post(`/api/plans/${plan.id}/transitions`, { action: 'start' });
+  expect(res.status, JSON.stringify(res.body)).toBe(200);
+  return res.body;
+}
+
+let keyN = 0;
+const newKey = () => `key-${Date.now().toString(36)}-${++keyN}-${Math.random().toString(36).slice(2, 8)}`;
+
+function logBody(plan: PlanDetail, over: Record<string, unknown> = {}) {
+  const current = plan.stages.find((s) => s.id === plan.currentStageId)!;
+  return {
+    key: newKey(),
+    stageId: current.id,
+    date: isoDay(),
+    painDuring: 2,
+    sets: current.exercises.map((e) => ({ stageExerciseId: e.id, setsDone: e.dose.sets })),
+    note: null,
+    ...over,
+  };
+}
+
+const logCount = async () => Number((await t.db('log_entries').count({ n: '*' }))[0]!.n);
+
+describe('exercise library', () => {
+  it('seeds the clinic library in our own words, searchable by text, region and loading kind', async () => {
+    expect(library.map((e) => e.name)).toEqual(expect.arrayContaining(['Long-lever hamstring bridge hold', 'Heel-slide hamstring lowers', 'Split-stance hip-drive pulses', 'Wall-supported hip-extension drill', 'Hip-hinge hold']));
+    expect(library).toHaveLength(DEMO_EXERCISES.length);
+    const iso = (await c.get('/api/exercises?kind=isometric&region=hamstring')).body.exercises.map((e: Exercise) => e.name);
+    expect(iso.sort()).toEqual(['Hip-hinge hold', 'Long-lever hamstring bridge hold']);
+    const text = (await c.get('/api/exercises?q=HEEL slide')).body.exercises.map((e: Exercise) => e.name);
+    expect(text).toEqual(['Heel-slide hamstring lowers']);
+    expect((await c.get('/api/exercises?q=%25')).body.exercises).toEqual([]);
+    expect((await c.get('/api/exercises?kind=jumping')).status).toBe(422);
+  });
+
+  it('every demo exercise passes the API’s own validation', () => {
+    for (const e of DEMO_EXERCISES) expect(ExerciseBody.safeParse(e).success, e.name).toBe(true);
+  });
+
+  it('creates, edits and archives an exercise; archived ones leave the library list', async () => {
+    const body = { name: 'Wall sit', purpose: 'Thigh endurance.', region: 'thigh', kind: 'isometric', dose: { sets: 3, reps: null, holdSeconds: 45, tempo: null, load: null, restSeconds: 60, daysPerWeek: 3 }, instructions: ['Slide down a wall.', 'Hold.'], cautions: '' };
+    const created = await c.post('/api/exercises', body);
+    expect(created.status).toBe(201);
+    expect(created.body).toMatchObject({ name: 'Wall sit', archived: false, dose: { holdSeconds: 45 } });
+    const patched = await c.patch(`/api/exercises/${created.body.id}`, { purpose: 'Front-of-thigh endurance.' });
+    expect(patched.body.purpose).toBe('Front-of-thigh endurance.');
+    expect((await c.post('/api/exercises', { ...body, name: 'wall SIT' })).body.error.code).toBe('exercise_name_taken');
+    expect((await c.delete(`/api/exercises/${created.body.id}`)).status).toBe(204);
+    expect((await c.get('/api/exercises')).body.exercises.map((e: Exercise) => e.name)).not.toContain('Wall sit');
+    expect((await c.get('/api/exercises?archived=true')).body.exercises.map((e: Exercise) => e.name)).toEqual(['Wall sit']);
+  });
+
+  it('refuses negative or missing doses with field paths, and writes nothing', async () => {
+    const before = (await t.db('exercises').count({ n: '*' }))[0]!.n;
+    const base = { name: 'X', purpose: 'Y', region: 'hip', kind: 'mobility', instructions: ['Z'], cautions: '' };
+    const cases: [Record<string, unknown>, string][] = [
+      [{ sets: -1, reps: 5, holdSeconds: null, tempo: null, load: null, restSeconds: null, daysPerWeek: 3 }, 'dose.sets'],
+      [{ sets: 3, reps: -5, holdSeconds: null, tempo: null, load: null, restSeconds: null, daysPerWeek: 3 }, 'dose.reps'],
+      [{ sets: 3, reps: 5, holdSeconds: null, tempo: null, load: null, restSeconds: -10, daysPerWeek: 3 }, 'dose.restSeconds'],
+      [{ sets: 3, reps: null, holdSeconds: null, tempo: null, load: null, restSeconds: null, daysPerWeek: 3 }, 'dose.reps'],
+      [{ sets: 3, reps: 5, holdSeconds: null, tempo: null, load: null, restSeconds: null, daysPerWeek: 8 }, 'dose.daysPerWeek'],
+    ];
+    for (const [dose, path] of cases) {
+      const res = await c.post('/api/exercises', { ...base, dose });
+      expect(res.status).toBe(422);
+      expect(res.body.error.details.map((d: { path: string[] }) => d.path.join('.'))).toContain(path);
+    }
+    expect((await t.db('exercises').count({ n: '*' }))[0]!.n).toBe(before);
+  });
+
+  it('another clinic sees neither the library nor an exercise by id (404)', async () => {
+    const other = await signedIn(t.app, OTHER.coach.email, OTHER.coach.password);
+    expect((await other.get('/api/exercises')).body.exercises).toEqual([]);
+    expect((await other.get(`/api/exercises/${library[0]!.id}`)).status).toBe(404);
+    expect((await other.patch(`/api/exercises/${library[0]!.id}`, { purpose: 'x' })).status).toBe(404);
+  });
+});
+
+describe('plans', () => {
+  it('builds a three-stage plan from the library, linked to the assessment it came from', async () => {
+    const retest = await t.db('assessments').where({ athlete_id: adaId, kind: 'retest' }).first();
+    const plan = await createPlan(threeStages({ assessmentId: retest.id }));
+    expect(plan).toMatchObject({ status: 'draft', athleteId: adaId, assessmentId: retest.id, assessmentDate: retest.date, stageCount: 3, currentStageId: null, painRule: DEFAULT_PAIN_RULE, notes: 'Coach-only note' });
+    expect(plan.stages.map((s) => s.name)).toEqual(['Isometric holds', 'Slow lengthening', 'Fast and running drills']);
+    expect(plan.stages[0]!.exercises.map((e) => e.exercise.name)).toEqual(['Long-lever hamstring bridge hold', 'Hip-hinge hold']);
+    expect(plan.stages[0]!.sessionsPerWeek).toBe(4);
+    expect(await t.db('audit_log').where({ athlete_id: adaId, action: 'plan.created' })).toHaveLength(1);
+  });
+
+  it('a plan for an athlete of another clinic is 404, and so is another clinic’s plan', async () => {
+    const otherAthlete = await t.db('athletes').where({ email: OTHER.athlete.email }).first();
+    expect((await c.post(`/api/athletes/${otherAthlete.id}/plans`, threeStages())).status).toBe(404);
+    const plan = await createPlan();
+    const other = await signedIn(t.app, OTHER.coach.email, OTHER.coach.password);
+    expect((await other.post(`/api/athletes/${adaId}/plans`, threeStages())).status).toBe(404);
+    expect((await other.get(`/api/plans/${plan.id}`)).status).toBe(404);
+    expect((await other.post(`/api/plans/${plan.id}/transitions`, { action: 'start' })).status).toBe(404);
+    expect(await t.db('plans').where({ athlete_id: otherAthlete.id })).toHaveLength(0);
+  });
+
+  it('refuses another athlete’s assessment, unknown or archived exercises, and bad doses (422, nothing written)', async () => {
+    const before = (await t.db('plans').count({ n: '*' }))[0]!.n;
+    const brunoVisit = await t.db('assessments').whereNot({ athlete_id: adaId }).first();
+    const bad1 = await c.post(`/api/athletes/${adaId}/plans`, threeStages({ assessmentId: brunoVisit.id }));
+    expect(bad1.status).toBe(422);
+    expect(bad1.body.error.details[0].path).toEqual(['assessmentId']);
+    const body = threeStages();
+    body.stages[1]!.exercises[0]!.exerciseId = 999_999;
+    const bad2 = await c.post(`/api/athletes/${adaId}/plans`, body);
+    expect(bad2.body.error.details[0].path).toEqual(['stages', 1, 'exercises', 0, 'exerciseId']);
+    await c.delete(`/api/exercises/${library.find((e) => e.name === 'Hip-hinge hold')!.id}`);
+    expect((await c.post(`/api/athletes/${adaId}/plans`, threeStages())).status).toBe(422);
+    const body3 = threeStages();
+    body3.stages[0]!.exercises = [{ ...ex('Heel-slide hamstring lowers'), dose: { ...ex('Heel-slide hamstring lowers').dose, sets: -2 } }];
+    const bad3 = await c.post(`/api/athletes/${adaId}/plans`, body3);
+    expect(bad3.status).toBe(422);
+    expect(bad3.body.error.details[0].path).toEqual(['stages', 0, 'exercises', 0, 'dose', 'sets']);
+    expect((await c.post(`/api/athletes/${adaId}/plans`, { ...threeStages(), stages: [] })).status).toBe(422);
+    expect((await t.db('plans').count({ n: '*' }))[0]!.n).toBe(before);
+  });
+
+  it('the athlete sees their plan only once started, without coach notes; never drafts', async () => {
+    const plan = await createPlan();
+    expect((await a.get(`/api/plans/${plan.id}`)).status).toBe(404);
+    expect((await a.get(`/api/athletes/${adaId}/plans`)).body.plans.filter((p: { title: string }) => p.title === plan.title)).toEqual([]);
+    await c.post(`/api/plans/${plan.id}/transitions`, { action: 'start' });
+    const mine = await a.get(`/api/plans/${plan.id}`);
+    expect(mine.status).toBe(200);
+    expect(mine.body).toMatchObject({ status: 'active', notes: null, currentStagePosition: 1 });
+    expect(mine.body.stages[0].exercises[0].exercise.instructions.length).toBeGreaterThan(0);
+    expect((await a.post(`/api/athletes/${adaId}/plans`, threeStages())).status).toBe(403);
+    expect((await a.post(`/api/plans/${plan.id}/transitions`, { action: 'pause' })).status).toBe(403);
+  });
+
+  it('start → advance → pause → resume → finish, with clear 409s for the wrong order', async () => {
+    const plan = await createPlan();
+    const go = (action: string) => c.post(`/api/plans/${plan.id}/transitions`, { action });
+    expect((await go('advance')).status).toBe(409);
+    expect((await go('pause')).body.error.code).toBe('invalid_transition');
+    const started = (await go('start')).body as PlanDetail;
+    expect(started).toMatchObject({ status: 'active', currentStageId: started.stages[0]!.id });
+    expect(started.stages[0]!.startedAt).not.toBeNull();
+    expect((await go('start')).status).toBe(409);
+    const second = await go('advance');
+    expect(second.body).toMatchObject({ currentStageId: started.stages[1]!.id, currentStagePosition: 2 });
+    expect(second.body.stages[0].completedAt).not.toBeNull();
+    expect((await go('pause')).body.status).toBe('paused');
+    expect((await go('advance')).status).toBe(409);
+    expect((await go('resume')).body.status).toBe('active');
+    await go('advance');
+    expect((await go('advance')).body.error.code).toBe('last_stage');
+    const done = await go('finish');
+    expect(done.body).toMatchObject({ status: 'finished' });
+    expect(done.body.finishedAt).not.toBeNull();
+    expect((await go('resume')).status).toBe(409);
+    expect((await c.put(`/api/plans/${plan.id}`, threeStages())).body.error.code).toBe('plan_finished');
+    expect((await go('jump')).status).toBe(422);
+  });
+
+  it('one running plan per athlete; only drafts can be deleted', async () => {
+    const first = await startedPlan();
+    const second = await createPlan();
+    expect((await c.post(`/api/plans/${second.id}/transitions`, { action: 'start' })).body.error.code).toBe('athlete_has_active_plan');
+    expect((await c.delete(`/api/plans/${first.id}`)).body.error.code).toBe('plan_not_draft');
+    expect((await c.delete(`/api/plans/${second.id}`)).status).toBe(204);
+    expect(await t.db('plan_stages').where({ plan_id: second.id })).toHaveLength(0);
+  });
+
+  it('a plan cannot start without exercises in its first stage', async () => {
+    const plan = await createPlan(threeStages({ stages: [stage('Empty', [])] }));
+    expect((await c.post(`/api/plans/${plan.id}/transitions`, { action: 'start' })).body.error.code).toBe('plan_incomplete');
+  });
+
+  it('PUT replaces content, keeping stage ids; a started stage cannot be removed', async () => {
+    const plan = await startedPlan();
+    const body = threeStages();
+    body.stages = plan.stages.map((s) => ({ id: s.id, name: s.name, goal: s.goal, targetWeeks: s.targetWeeks, progressionText: s.progressionText, criteria: s.criteria, exercises: s.exercises.map((e) => ({ exerciseId: e.exerciseId, dose: e.dose, notes: e.notes })) }));
+    body.stages[1]!.targetWeeks = 4;
+    body.stages.push(stage('Back to running', ['Relaxed build-up runs']));
+    const res = await c.put(`/api/plans/${plan.id}`, body);
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect(res.body.stages.map((s: { id: number }) => s.id).slice(0, 3)).toEqual(plan.stages.map((s) => s.id));
+    expect(res.body.stages[1].targetWeeks).toBe(4);
+    expect(res.body.stages).toHaveLength(4);
+    const without = await c.put(`/api/plans/${plan.id}`, { ...body, stages: body.stages.slice(1) });
+    expect(without.body.error.code).toBe('stage_in_use');
+    const foreign = await c.put(`/api/plans/${plan.id}`, { ...body, stages: [{ ...body.stages[0]!, id: 424242 }] });
+    expect(foreign.status).toBe(422);
+  });
+});
+
+describe('athlete log', () => {
+  it('logs a session with sets and pain; the coach and the athlete read it back', async () => {
+    const plan = await startedPlan();
+    const body = logBody(plan, { painDuring: 3, note: 'Felt steady' });
+    const res = await a.post(`/api/plans/${plan.id}/logs`, body);
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body).toMatchObject({ key: body.key, painDuring: 3, morningPain: null, stageName: 'Isometric holds', note: 'Felt steady' });
+    expect(res.body.sets).toEqual([
+      { stageExerciseId: plan.stages[0]!.exercises[0]!.id, name: 'Long-lever hamstring bridge hold', setsPrescribed: 4, setsDone: 4 },
+      { stageExerciseId: plan.stages[0]!.exercises[1]!.id, name: 'Hip-hinge hold', setsPrescribed: 3, setsDone: 3 },
+    ]);
+    expect((await c.get(`/api/plans/${plan.id}/logs`)).body.logs).toHaveLength(1);
+    expect((await a.get(`/api/plans/${plan.id}/logs`)).body.logs[0].id).toBe(res.body.id);
+  });
+
+  it('is idempotent: a retried POST with the same key answers the same entry (200) and adds nothing', async () => {
+    const plan = await startedPlan();
+    const body = logBody(plan);
+    const first = await a.post(`/api/plans/${plan.id}/logs`, body);
+    expect(first.status).toBe(201);
+    const again = await a.post(`/api/plans/${plan.id}/logs`, body);
+    expect(again.status).toBe(200);
+    expect(again.body).toEqual(first.body);
+    // Even a retry that arrives after the coach moved the plan on answers the stored entry.
+    await c.post(`/api/plans/${plan.id}/transitions`, { action: 'advance' });
+    expect((await a.post(`/api/plans/${plan.id}/logs`, body)).status).toBe(200);
+    expect(await logCount()).toBe(1 + 7); // the seeded demo plan holds 7 sessions
+  });
+
+  it('copies of one submission sent at once make exactly one row', async () => {
+    const plan = await startedPlan();
+    const body = logBody(plan);
+    const results = await Promise.all([1, 2, 3, 4].map(() => a.post(`/api/plans/${plan.id}/logs`, body)));
+    expect(results.map((r) => r.status).sort()).toEqual([200, 200, 200, 201]);
+    expect(new Set(results.map((r) => r.body.id)).size).toBe(1);
+    expect(await t.db('log_entries').where({ idempotency_key: body.key })).toHaveLength(1);
+  });
+
+  it('refuses pain outside 0–10, negative sets, bad dates and unknown exercises (422), keeping nothing half-written', async () => {
+    const plan = await startedPlan();
+    const before = await logCount();
+    const cases: [Record<string, unknown>, string][] = [
+      [{ painDuring: 11 }, 'painDuring'],
+      [{ painDuring: -1 }, 'painDuring'],
+      [{ painDuring: 2.5 }, 'painDuring'],
+      [{ painDuring: '3' }, 'painDuring'],
+      [{ sets: [{ stageExerciseId: plan.stages[0]!.exercises[0]!.id, setsDone: -1 }] }, 'sets.0.setsDone'],
+      [{ sets: [{ stageExerciseId: plan.stages[1]!.exercises[0]!.id, setsDone: 1 }] }, 'sets.0.stageExerciseId'],
+      [{ date: isoDay(3) }, 'date'],
+      [{ date: isoDay(-30) }, 'date'],
+      [{ date: '2026-02-30' }, 'date'],
+      [{ key: 'short' }, 'key'],
+    ];
+    for (const [over, path] of cases) {
+      const res = await a.post(`/api/plans/${plan.id}/logs`, logBody(plan, over));
+      expect(res.status, `${JSON.stringify(over)} → ${JSON.stringify(res.body)}`).toBe(422);
+      expect(res.body.error.details.map((d: { path: (string | number)[] }) => d.path.join('.'))).toContain(path);
+    }
+    expect(await logCount()).toBe(before);
+  });
+
+  it('refuses a log for a stage that is not current (409) and for a paused plan', async () => {
+    const plan = await startedPlan();
+    const second = plan.stages[1]!;
+    const res = await a.post(`/api/plans/${plan.id}/logs`, logBody(plan, { stageId: second.id, sets: [] }));
+    expect(res.status).toBe(409);
+    expect(res.body.error).toMatchObject({ code: 'stage_not_current' });
+    expect(res.body.error.message).toContain('Slow lengthening');
+    await c.post(`/api/plans/${plan.id}/transitions`, { action: 'pause' });
+    expect((await a.post(`/api/plans/${plan.id}/logs`, logBody(plan))).body.error.code).toBe('plan_not_active');
+  });
+
+  it('only the athlete logs their own plan: staff 403, another clinic 404, a key of another plan 409', async () => {
+    const plan = await startedPlan();
+    expect((await c.post(`/api/plans/${plan.id}/logs`, logBody(plan))).status).toBe(403);
+    const other = await signedIn(t.app, OTHER.athlete.email, OTHER.athlete.password);
+    expect((await other.post(`/api/plans/${plan.id}/logs`, logBody(plan))).status).toBe(404);
+    expect((await other.get(`/api/plans/${plan.id}/logs`)).status).toBe(404);
+    const seeded = await t.db('log_entries').first();
+    const reused = await a.post(`/api/plans/${plan.id}/logs`, logBody(plan, { key: seeded.idempotency_key }));
+    expect(reused.status).toBe(409);
+    expect(reused.body.error.code).toBe('idempotency_key_reused');
+  });
+
+  it('one-tap morning check by key (repeatable), 0–10 only', async () => {
+    const plan = await startedPlan();
+    const body = logBody(plan);
+    await a.post(`/api/plans/${plan.id}/logs`, body);
+    const res = await a.put(`/api/plans/${plan.id}/logs/${body.key}/morning`, { pain: 1 });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ morningPain: 1 });
+    expect(res.body.morningAt).toEqual(expect.any(String));
+    expect((await a.put(`/api/plans/${plan.id}/logs/${body.key}/morning`, { pain: 1 })).body.morningAt).toBe(res.body.morningAt);
+    expect((await a.put(`/api/plans/${plan.id}/logs/${body.key}/morning`, { pain: 12 })).status).toBe(422);
+    expect((await a.put(`/api/plans/${plan.id}/logs/unknown-key-123/morning`, { pain: 1 })).status).toBe(404);
+    expect((await c.put(`/api/plans/${plan.id}/logs/${body.key}/morning`, { pain: 1 })).status).toBe(403);
+  });
+});
+
+describe('progress, progression and alerts', () => {
+  it('suggests the next stage once the (invented) criteria are met; the coach decides', async () => {
+    const plan = await startedPlan();
+    const progress = async () => (await c.get(`/api/plans/${plan.id}/progress`)).body;
+    expect((await progress()).progression).toMatchObject({ stageId: plan.stages[0]!.id, ready: false, nextStageId: plan.stages[1]!.id });
+    for (const [offset, pain] of [[-1, 3], [0, 2]] as const) {
+      const body = logBody(plan, { date: isoDay(offset), painDuring: pain });
+      await a.post(`/api/plans/${plan.id}/logs`, body);
+      await a.put(`/api/plans/${plan.id}/logs/${body.key}/morning`, { pain: 1 });
+    }
+    const p = await progress();
+    expect(p.progression.ready).toBe(true);
+    expect(p.progression.checks.map((x: { met: boolean }) => x.met)).toEqual([true, true]);
+    // Nothing moved by itself.
+    expect((await c.get(`/api/plans/${plan.id}`)).body.currentStageId).toBe(plan.stages[0]!.id);
+  });
+
+  it('counts sessions done against prescribed per week, and lists pain over time', async () => {
+    const plan = await startedPlan();
+    await a.post(`/api/plans/${plan.id}/logs`, logBody(plan, { painDuring: 2 }));
+    const p = (await a.get(`/api/plans/${plan.id}/progress`)).body;
+    expect(p.adherence.at(-1)).toMatchObject({ done: 1 });
+    expect(p.adherence.at(-1).prescribed).toBeGreaterThan(0);
+    expect(p.pain).toEqual([{ date: isoDay(), painDuring: 2, morningPain: null, stageId: plan.stages[0]!.id }]);
+  });
+
+  it('from memory (Silbernagel 2007 [mem]): pain above 5/10 and a week-over-week rise alert on the plan and the roster', async () => {
+    const plan = await startedPlan();
+    await a.post(`/api/plans/${plan.id}/logs`, logBody(plan, { painDuring: 2 }));
+    const quiet = (await c.get('/api/plan-alerts')).body.alerts;
+    expect(quiet.find((x: { athleteId: number }) => x.athleteId === adaId)).toBeUndefined();
+    t.advance(7 * DAY);
+    const res = await a.post(`/api/plans/${plan.id}/logs`, logBody(plan, { painDuring: 6, date: isoDay(7) }));
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    const alerts = (await c.get(`/api/plans/${plan.id}/progress`)).body.alerts.map((x: { kind: string }) => x.kind);
+    expect(alerts).toEqual(['during_above_max', 'weekly_rise_during']);
+    const roster = (await c.get('/api/plan-alerts')).body.alerts;
+    expect(roster.find((x: { athleteId: number }) => x.athleteId === adaId)).toMatchObject({ planId: plan.id, alerts: expect.arrayContaining([expect.objectContaining({ kind: 'weekly_rise_during', value: 6, limit: 2 })]) });
+    expect((await c.get(`/api/athletes/${adaId}/plans`)).body.plans[0].alerts).toHaveLength(2);
+
+    // The coach edits the rule for this plan: a higher limit and no weekly check clear both alerts.
+    const edited = await c.put(`/api/plans/${plan.id}/pain-rule`, { maxDuring: 6, morningMustSettle: true, settledMorningMax: 2, noWeeklyRise: false });
+    expect(edited.body.painRule).toEqual({ maxDuring: 6, morningMustSettle: true, settledMorningMax: 2, noWeeklyRise: false });
+    expect((await c.get(`/api/plans/${plan.id}/progress`)).body.alerts).toEqual([]);
+    expect((await c.put(`/api/plans/${plan.id}/pain-rule`, { maxDuring: 11, morningMustSettle: true, settledMorningMax: 2, noWeeklyRise: true })).status).toBe(422);
+  });
+
+  it('the seeded demo calf plan shows a week-over-week rise on the roster', async () => {
+    const carys = await t.db('athletes').where({ last_name: 'Holmgren' }).first();
+    const roster = (await c.get('/api/plan-alerts')).body.alerts;
+    expect(roster.find((x: { athleteId: number }) => x.athleteId === carys.id)?.alerts.map((x: { kind: string }) => x.kind)).toContain('weekly_rise_during');
+    const other = await signedIn(t.app, OTHER.coach.email, OTHER.coach.password);
+    expect((await other.get('/api/plan-alerts')).body.alerts).toEqual([]);
+  });
+});
