@@ -1,5 +1,6 @@
 import {
   clampPan,
+  frameFractionToViewFraction,
   fitTransform,
   fractionToScreen,
   frameToScreen,
@@ -125,5 +126,25 @@ describe('wheelZoomFactor', () => {
   it('treats line-mode deltas as larger steps and caps huge ones', () => {
     expect(wheelZoomFactor(3, 1)).toBeLessThan(wheelZoomFactor(3, 0));
     expect(wheelZoomFactor(-100000)).toBeCloseTo(wheelZoomFactor(-200));
+  });
+});
+
+describe('frameFractionToViewFraction', () => {
+  it('maps a stored point to where it shows in the view, as a fraction of the view', () => {
+    const t = { scale: 0.5, tx: 8, ty: 20 };
+    const view = { width: 656, height: 400 };
+    const p = frameFractionToViewFraction(t, frame, view, { x: 0.5, y: 0.5 });
+    expect(p.x).toBeCloseTo((0.5 * 1280 * 0.5 + 8) / 656);
+    expect(p.y).toBeCloseTo((0.5 * 720 * 0.5 + 20) / 400);
+  });
+
+  it('keeps angles: a segment keeps its direction in view pixels', () => {
+    const t = { scale: 2.5, tx: -300, ty: -100 };
+    const view = { width: 800, height: 600 };
+    const a = frameFractionToViewFraction(t, frame, view, { x: 0.4, y: 0.3 });
+    const b = frameFractionToViewFraction(t, frame, view, { x: 0.45, y: 0.6 });
+    const inFrame = Math.atan2((0.6 - 0.3) * 720, (0.45 - 0.4) * 1280);
+    const inView = Math.atan2((b.y - a.y) * 600, (b.x - a.x) * 800);
+    expect(inView).toBeCloseTo(inFrame);
   });
 });

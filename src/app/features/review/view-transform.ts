@@ -135,3 +135,13 @@ export function wheelZoomFactor(deltaY: number, deltaMode = 0): number {
 function clamp(v: number, lo: number, hi: number): number {
   return Math.min(hi, Math.max(lo, v));
 }
+
+/**
+ * A stored point (fraction of the frame) as a fraction of the view instead. Drawing the overlay
+ * with the view as its "frame" keeps markers, lines and labels the same size on screen at any
+ * zoom; angles are unchanged because zoom and pan are a uniform scale plus a shift.
+ */
+export function frameFractionToViewFraction(t: ViewTransform, frame: Size, view: Size, p: Vec): Vec {
+  const s = fractionToScreen(t, frame, p);
+  return { x: s.x / view.width, y: s.y / view.height };
+}

@@ -50,7 +50,7 @@ export class AngleChart {
       interaction: { mode: 'nearest', axis: 'x', intersect: false },
       scales: {
         x: { type: 'linear', min: 0, max: last, title: { display: true, text: 'Frame' }, ticks: { precision: 0 } },
-        y: { title: { display: true, text: 'Degrees (+ flexion / forward / toe up)' } },
+        y: { title: { display: true, text: 'Degrees' } },
       },
       plugins: {
         legend: { position: 'bottom', labels: { usePointStyle: true, boxWidth: 8, padding: 8, font: { size: 11 } } },

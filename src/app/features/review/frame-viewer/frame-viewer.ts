@@ -24,6 +24,7 @@ import {
   ViewTransform,
   clampPan,
   fitTransform,
+  frameFractionToViewFraction,
   fractionToScreen,
   isOnFrame,
   panBy,
@@ -38,13 +39,15 @@ type Gesture =
   | { kind: 'none' }
   | { kind: 'tap'; id: number; start: Vec; last: Vec }
   | { kind: 'pan'; id: number; last: Vec }
-  | { kind: 'point'; id: number; ref: LandmarkRef; start: FramePoint; offset: Vec }
+  | { kind: 'point'; id: number; ref: LandmarkRef; start: FramePoint; offset: Vec; down: Vec; slop: number; moved: boolean }
   | { kind: 'scale-new'; id: number; a: FramePoint }
   | { kind: 'scale-end'; id: number; end: 'a' | 'b'; fromSaved: boolean }
   | { kind: 'pinch'; ids: [number, number]; view: ViewTransform; a0: Vec; b0: Vec };
 
 /** How far (CSS px) a press may move and still count as a click that places a landmark. */
 const TAP_SLOP_PX = 6;
+/** How far a press on a marker must move before it drags the marker (fingers wobble more). */
+const DRAG_SLOP_PX: Record<string, number> = { mouse: 2, pen: 4, touch: 8 };
 /** Marker radius on screen, CSS px (constant at any zoom). */
 const MARKER_PX = 6;
 const FONT = '"Source Sans 3", sans-serif';
@@ -207,22 +210,32 @@ export class FrameViewer {
       ctx.fillRect(0, 0, frame.width, frame.height);
     }
 
+    // The overlay is drawn in view space (the view standing in for the frame), so markers, lines
+    // and labels keep their size on screen at any zoom; see frameFractionToViewFraction.
+    ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
+    const toView = (p: FramePoint) => frameFractionToViewFraction(t, frame, size, p);
     const scale = store.annotations().scale;
     const showScale = scale && (store.tool() === 'scale' || scale.frame === f) ? scale : null;
     drawOverlay(ctx, {
-      frameSize: frame,
-      landmarks: store.frameRows(),
+      frameSize: size,
+      landmarks: store.frameRows().map((row) => ({
+        ...row,
+        points: Object.fromEntries(Object.entries(row.points).map(([name, p]) => [name, toView(p)])),
+      })),
       nearSide: store.nearSide(),
       direction: store.direction(),
       showAngles: store.showAngles(),
       selected: store.selected(),
-      scale: showScale,
+      scale: showScale ? { ...showScale, a: toView(showScale.a), b: toView(showScale.b) } : null,
       fontFamily: FONT,
-      markerRadiusPx: MARKER_PX / t.scale,
+      markerRadiusPx: MARKER_PX,
     });
 
     const draft = store.scaleDraft();
-    if (draft) this.drawDraft(ctx, draft.a, draft.b, frame, t.scale);
+    if (draft) {
+      ctx.setTransform(dpr * t.scale, 0, 0, dpr * t.scale, dpr * t.tx, dpr * t.ty);
+      this.drawDraft(ctx, draft.a, draft.b, frame, t.scale);
+    }
   }
 
   private drawDraft(ctx: CanvasRenderingContext2D, a: FramePoint, b: FramePoint, frame: Size, scale: number): void {
@@ -359,11 +372,12 @@ export class FrameViewer {
 
     const hit = this.landmarkHit(p, e.pointerType);
     if (hit) {
+      // Selected on release (a click) or on the first real move (a drag), not yet: a click on a
+      // marker may still mean "place the chosen landmark here" (see onPointerUp).
       const start = store.pointAt(hit)!;
       const at = this.toFraction(p);
-      store.select(hit);
-      this.gesture = { kind: 'point', id: e.pointerId, ref: hit, start, offset: { x: start.x - at.x, y: start.y - at.y } };
-      this.cursor.set('grabbing');
+      const slop = DRAG_SLOP_PX[e.pointerType] ?? 2;
+      this.gesture = { kind: 'point', id: e.pointerId, ref: hit, start, offset: { x: start.x - at.x, y: start.y - at.y }, down: p, slop, moved: false };
       return;
     }
     this.gesture = { kind: 'tap', id: e.pointerId, start: p, last: p };
@@ -402,6 +416,12 @@ export class FrameViewer {
         return;
       case 'point': {
         if (e.pointerId !== g.id) return;
+        if (!g.moved) {
+          if (Math.hypot(p.x - g.down.x, p.y - g.down.y) < g.slop) return;
+          g.moved = true;
+          this.store.select(g.ref);
+          this.cursor.set('grabbing');
+        }
         const at = this.toFraction(p);
         this.store.dragPoint(g.ref, { x: at.x + g.offset.x, y: at.y + g.offset.y });
         return;
@@ -444,6 +464,8 @@ export class FrameViewer {
       const at = this.toFraction(p);
       if (isOnFrame(at)) this.store.placeAt(at);
       else this.store.select(null);
+    } else if (g.kind === 'point' && !g.moved) {
+      this.clickOnMarker(g.ref, this.toFraction(p));
     }
     this.finishGesture(true);
     this.updateHoverCursor(p, e.pointerType);
@@ -455,7 +477,7 @@ export class FrameViewer {
     this.gesture = { kind: 'none' };
     this.cursor.set(this.baseCursor());
     if (g.kind === 'point') {
-      this.store.endDrag(g.ref, g.start);
+      if (g.moved) this.store.endDrag(g.ref, g.start);
     } else if (g.kind === 'scale-new' || g.kind === 'scale-end') {
       const draft = this.store.scaleDraft();
       if (!draft) return;
@@ -470,6 +492,19 @@ export class FrameViewer {
         this.store.setScale({ ...saved, a: draft.a, b: draft.b });
       }
     }
+  }
+
+  /**
+   * A click (no drag) on a marker: while the chosen landmark is still to be placed on this frame,
+   * it is placed here (markers sit close together, and fingers are wide); otherwise the marker
+   * clicked is selected.
+   */
+  private clickOnMarker(hit: LandmarkRef, at: FramePoint): void {
+    const store = this.store;
+    const chosen = store.landmark();
+    const isChosen = hit.side === store.side() && hit.landmark === chosen;
+    if (!isChosen && !store.sidePoints()[chosen] && isOnFrame(at)) store.placeAt(at);
+    else store.select(hit);
   }
 
   private baseCursor(): string {

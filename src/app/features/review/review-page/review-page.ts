@@ -340,7 +340,7 @@ export class ReviewPage implements LeaveGuarded {
   }
 
   protected openHelp(): void {
-    this.dialog.open(KeyHelpDialog, { width: '720px', maxWidth: '95vw', autoFocus: 'dialog' });
+    this.dialog.open(KeyHelpDialog, { width: '720px', maxWidth: '95vw' });
   }
 
   protected retryLoad(): void {
