@@ -110,6 +110,14 @@ export class ReviewStore {
     return a && a.surface === 'treadmill' ? a.speedMps : null;
   });
 
+  /** The landmark was chosen on purpose (so a click re-places it even when it is placed). */
+  private readonly explicitChoice = signal(false);
+  /**
+   * Whether a click on the frame places the chosen landmark: it is not on this frame yet, or the
+   * coach chose it to place it again. Once all six are placed, clicks only select.
+   */
+  readonly armed = computed(() => this.explicitChoice() || !this.sidePoints()[this.landmark()]);
+
   /** Landmark rows on the current frame (either side). */
   readonly frameRows = computed(() => {
     const f = this.frame();
@@ -205,6 +213,7 @@ export class ReviewStore {
     const f = clampFrame(frame, this.frameCount());
     if (f !== this.frame()) {
       this.frame.set(f);
+      this.explicitChoice.set(false);
       this.cache$()?.setCurrent(f);
       if (this.scaleDraft() && this.tool() !== 'scale') this.scaleDraft.set(null);
     }
@@ -292,6 +301,7 @@ export class ReviewStore {
 
   chooseLandmark(landmark: LandmarkName): void {
     this.landmark.set(landmark);
+    this.explicitChoice.set(true);
     const placed = this.sidePoints()[landmark];
     this.selected.set(placed ? { side: this.side(), landmark } : null);
     if (this.tool() !== 'landmark') this.tool.set('landmark');
@@ -300,6 +310,7 @@ export class ReviewStore {
 
   chooseSide(side: Side): void {
     this.side.set(side);
+    this.explicitChoice.set(false);
     this.selected.set(null);
     this.requestDraw();
   }
@@ -337,6 +348,7 @@ export class ReviewStore {
     const changes = setPointChanges(this.annotations(), this.frame(), side, landmark, point);
     this.apply(`place ${LANDMARK_LABELS[landmark].split(' (')[0]}`, changes);
     this.selected.set({ side, landmark });
+    this.explicitChoice.set(false);
     this.landmark.set(nextLandmark(landmark, this.sidePoints()));
   }
 

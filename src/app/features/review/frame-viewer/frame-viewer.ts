@@ -101,6 +101,7 @@ export class FrameViewer {
     const base = `Frame ${this.store.frame()} of ${this.store.frameCount()}.`;
     if (tool === 'scale') return `${base} Drag along an object of known length to draw the scale bar.`;
     if (tool === 'pan') return `${base} Drag to move the view.`;
+    if (!this.store.armed()) return `${base} All landmarks of this side are placed; drag a marker to adjust it.`;
     return `${base} Click to place ${LANDMARK_LABELS[this.store.landmark()]}; drag a marker to adjust it.`;
   });
 
@@ -462,7 +463,7 @@ export class FrameViewer {
     }
     if (g.kind === 'tap') {
       const at = this.toFraction(p);
-      if (isOnFrame(at)) this.store.placeAt(at);
+      if (isOnFrame(at) && this.store.armed()) this.store.placeAt(at);
       else this.store.select(null);
     } else if (g.kind === 'point' && !g.moved) {
       this.clickOnMarker(g.ref, this.toFraction(p));
@@ -495,15 +496,14 @@ export class FrameViewer {
   }
 
   /**
-   * A click (no drag) on a marker: while the chosen landmark is still to be placed on this frame,
-   * it is placed here (markers sit close together, and fingers are wide); otherwise the marker
-   * clicked is selected.
+   * A click (no drag) on a marker: while the chosen landmark is to be placed (see `armed`), it is
+   * placed here (markers sit close together, and fingers are wide); otherwise the marker clicked
+   * is selected.
    */
   private clickOnMarker(hit: LandmarkRef, at: FramePoint): void {
     const store = this.store;
-    const chosen = store.landmark();
-    const isChosen = hit.side === store.side() && hit.landmark === chosen;
-    if (!isChosen && !store.sidePoints()[chosen] && isOnFrame(at)) store.placeAt(at);
+    const isChosen = hit.side === store.side() && hit.landmark === store.landmark();
+    if (!isChosen && store.armed() && isOnFrame(at)) store.placeAt(at);
     else store.select(hit);
   }
 

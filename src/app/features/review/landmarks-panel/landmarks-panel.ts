@@ -38,6 +38,7 @@ export class LandmarksPanel {
       selected: selected?.side === side && selected.landmark === name,
     }));
   });
+  protected readonly chosenLabel = computed(() => LANDMARK_LABELS[this.store.landmark()]);
   protected readonly placedCount = computed(() => this.rows().filter((r) => r.placed).length);
   protected readonly copyFrom = computed(() => previousMarkedFrame(this.store.annotations(), this.store.frame()));
 
