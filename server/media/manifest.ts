@@ -8,32 +8,8 @@ export const FRAMES_DIR = 'frames';
 /** Folder of thumbnails: `thumbs/000001.jpg` shows frame index 0, `thumbs/k` frame (k − 1)·thumbEvery. */
 export const THUMBS_DIR = 'thumbs';
 
-/** What {@link extractFrames} wrote, saved as `manifest.json` beside `frames/` and `thumbs/`. */
-export interface FrameManifest {
-  version: 1;
-  /** Number of files in `frames/` (one per decoded frame). */
-  frameCount: number;
-  /** Working frame size in pixels, after rotation and scaling (even numbers). */
-  width: number;
-  height: number;
-  /** Frames per second as probed (`avg_frame_rate`). */
-  fps: number;
-  /** Clip duration in seconds as probed. */
-  durationS: number;
-  /** Clockwise degrees ffmpeg turned the stored frames to display them (0/90/180/270). */
-  rotationApplied: 0 | 90 | 180 | 270;
-  /** Presentation time of each frame in ms, first frame at 0 (index i ↔ `frames/` file i + 1). */
-  timestampsMs: number[];
-  /** `decoded`: read from ffmpeg's per-frame log; `computed`: i × 1000 / fps (constant rate assumed). */
-  timestampsSource: 'decoded' | 'computed';
-  /** One thumbnail every this many frames. */
-  thumbEvery: number;
-  thumbCount: number;
-  thumbWidth: number;
-  thumbHeight: number;
-  /** ffmpeg `-q:v` of the frame JPEGs (2 best … 31 worst). */
-  quality: number;
-}
+export type { FrameManifest } from '../../src/contracts/api';
+import type { FrameManifest } from '../../src/contracts/api';
 
 /** File name of frame `index` (0-based) inside `frames/` or `thumbs/`: `000001.jpg` for 0. */
 export function frameFileName(index: number): string {

@@ -240,6 +240,33 @@ export interface AssessmentDetail extends Assessment {
   videoConsent: boolean;
 }
 
+/** A clip's frame manifest (`GET /api/clips/:id/manifest`), written by the server's frame extraction. */
+export interface FrameManifest {
+  version: 1;
+  /** Number of files in `frames/` (one per decoded frame). */
+  frameCount: number;
+  /** Working frame size in pixels, after rotation and scaling (even numbers). */
+  width: number;
+  height: number;
+  /** Frames per second as probed (`avg_frame_rate`). */
+  fps: number;
+  /** Clip duration in seconds as probed. */
+  durationS: number;
+  /** Clockwise degrees ffmpeg turned the stored frames to display them (0/90/180/270). */
+  rotationApplied: 0 | 90 | 180 | 270;
+  /** Presentation time of each frame in ms, first frame at 0 (index i ↔ `frames/` file i + 1). */
+  timestampsMs: number[];
+  /** `decoded`: read from ffmpeg's per-frame log; `computed`: i × 1000 / fps (constant rate assumed). */
+  timestampsSource: 'decoded' | 'computed';
+  /** One thumbnail every this many frames. */
+  thumbEvery: number;
+  thumbCount: number;
+  thumbWidth: number;
+  thumbHeight: number;
+  /** ffmpeg `-q:v` of the frame JPEGs (2 best … 31 worst). */
+  quality: number;
+}
+
 // ─── Annotations and measures ─────────────────────────────────────────────────────────────
 
 export type { ClipAnnotations, ClipAnnotationsWrite, FrameLandmarks, FramePoint, GaitEventMark, ScaleBar } from './annotations';

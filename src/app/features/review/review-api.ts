@@ -3,22 +3,11 @@ import { Injectable, inject } from '@angular/core';
 import { Observable } from 'rxjs';
 import type { ClipAnnotations, ClipAnnotationsWrite } from '../../../contracts/annotations';
 import type { ClipMeasures } from '../../../contracts/measures';
+import type { FrameManifest } from '../../../contracts/api';
 import { skipErrorSnackbar } from '../../core/http-context';
 
-/**
- * The frame manifest as `GET /api/clips/:id/manifest` sends it (the fields the review workspace
- * reads; the server's `FrameManifest` in `server/media/manifest.ts` has more).
- */
-export interface ClipManifest {
-  frameCount: number;
-  width: number;
-  height: number;
-  /** Container frame rate as probed. */
-  fps: number;
-  /** Presentation time of each frame in ms, first frame at 0. */
-  timestampsMs: number[];
-  timestampsSource?: 'decoded' | 'computed';
-}
+/** The frame manifest as `GET /api/clips/:id/manifest` sends it (shape shared with the server). */
+export type ClipManifest = FrameManifest;
 
 /**
  * HTTP for the review workspace: frames, manifest, annotations and the server's measures. Pages

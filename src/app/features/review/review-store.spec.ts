@@ -8,10 +8,26 @@ import { AuthStore } from '../../core/auth-store';
 import { AnnotationSync } from './annotation-sync';
 import { FrameCache } from './frame-cache';
 import { ReviewStore } from './review-store';
+import type { FrameManifest } from '../../../contracts/api';
 
 const clip = { id: 7, nearSide: 'left', direction: 'left_to_right', captureFps: null, fps: 60, effectiveFps: 60 } as Clip;
 const assessment = { surface: 'treadmill', speedMps: 3 } as Assessment;
-const manifest = { frameCount: 20, width: 1280, height: 720, fps: 60, timestampsMs: Array.from({ length: 20 }, (_, i) => (i * 1000) / 60) };
+const manifest: FrameManifest = {
+  version: 1,
+  frameCount: 20,
+  width: 1280,
+  height: 720,
+  fps: 60,
+  durationS: 20 / 60,
+  rotationApplied: 0,
+  timestampsMs: Array.from({ length: 20 }, (_, i) => (i * 1000) / 60),
+  timestampsSource: 'computed',
+  thumbEvery: 6,
+  thumbCount: 4,
+  thumbWidth: 160,
+  thumbHeight: 90,
+  quality: 4,
+};
 
 describe('ReviewStore', () => {
   let store: ReviewStore;
