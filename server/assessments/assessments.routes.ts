@@ -1,41 +1,34 @@
 import { Router } from 'express';
 import { currentUser, requireRole, requireSignedIn } from '../http/access';
-import { NotFoundError } from '../errors';
-import { IdParam, parse } from '../http/validate';
+import { idParam, parse } from '../http/validate';
 import { AssessmentBody, AssessmentPatchBody } from './assessments-schemas';
 import type { AssessmentsService } from './assessments-service';
 
 /** Assessments of an athlete. */
 export function assessmentsRoutes(assessments: AssessmentsService): Router {
   const router = Router();
-  const id = (params: unknown, what: string) => {
-    const r = IdParam.safeParse(params);
-    if (!r.success) throw new NotFoundError(what);
-    return r.data.id;
-  };
-
   router.get('/athletes/:id/assessments', requireSignedIn, async (req, res) => {
-    res.json({ assessments: await assessments.list(currentUser(req), id(req.params, 'Athlete')) });
+    res.json({ assessments: await assessments.list(currentUser(req), idParam(req.params, 'Athlete')) });
   });
 
   router.post('/athletes/:id/assessments', requireRole('owner', 'coach'), async (req, res) => {
-    const athleteId = id(req.params, 'Athlete');
+    const athleteId = idParam(req.params, 'Athlete');
     const body = parse(AssessmentBody, req.body);
     res.status(201).json(await assessments.create(currentUser(req), athleteId, body));
   });
 
   router.get('/assessments/:id', requireSignedIn, async (req, res) => {
-    res.json(await assessments.get(currentUser(req), id(req.params, 'Assessment')));
+    res.json(await assessments.get(currentUser(req), idParam(req.params, 'Assessment')));
   });
 
   router.patch('/assessments/:id', requireRole('owner', 'coach'), async (req, res) => {
-    const assessmentId = id(req.params, 'Assessment');
+    const assessmentId = idParam(req.params, 'Assessment');
     const body = parse(AssessmentPatchBody, req.body);
     res.json(await assessments.update(currentUser(req), assessmentId, body));
   });
 
   router.delete('/assessments/:id', requireRole('owner', 'coach'), async (req, res) => {
-    await assessments.remove(currentUser(req), id(req.params, 'Assessment'));
+    await assessments.remove(currentUser(req), idParam(req.params, 'Assessment'));
     res.status(204).end();
   });
 

@@ -7,7 +7,7 @@ import type { SessionUser } from '../../src/contracts/api';
 import type { Db } from '../db/knex';
 import { AppError, NotFoundError, ValidationError } from '../errors';
 import { currentUser, requireSignedIn } from '../http/access';
-import { IdParam, parse } from '../http/validate';
+import { idParam, parse } from '../http/validate';
 import { audit } from '../audit/audit-log';
 import type { MediaStore } from '../storage/media-store';
 import type { ClipEvents } from './clip-events';
@@ -36,12 +36,6 @@ const DRAIN_LIMIT = 64 * 1024 * 1024;
 /** Upload, settings, live status (server-sent events) and authorised media of clips. */
 export function clipsRoutes(d: ClipsRoutesDeps): Router {
   const router = Router();
-  const id = (params: unknown, what: string) => {
-    const r = IdParam.safeParse(params);
-    if (!r.success) throw new NotFoundError(what);
-    return r.data.id;
-  };
-
   const upload = multer({
     storage: multer.diskStorage({
       destination: d.store.tmpDir,
@@ -99,7 +93,7 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
     requireSignedIn,
     async (req, res, next) => {
       try {
-        await d.clips.beforeUpload(currentUser(req), id(req.params, 'Assessment'));
+        await d.clips.beforeUpload(currentUser(req), idParam(req.params, 'Assessment'));
         next();
       } catch (err) {
         refuse(req, res, next, err);
@@ -110,13 +104,13 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
       if (!req.file) {
         throw new ValidationError('Choose a clip to upload (multipart form field "file").', [{ path: ['file'], message: 'A clip is required.' }]);
       }
-      const clip = await d.clips.acceptUpload(currentUser(req), id(req.params, 'Assessment'), req.file);
+      const clip = await d.clips.acceptUpload(currentUser(req), idParam(req.params, 'Assessment'), req.file);
       res.status(201).json(clip);
     },
   );
 
   router.get('/assessments/:id/clip-events', requireSignedIn, async (req, res) => {
-    const assessmentId = id(req.params, 'Assessment');
+    const assessmentId = idParam(req.params, 'Assessment');
     const user = currentUser(req);
     const initial = await d.clips.list(user, assessmentId);
     res.writeHead(200, {
@@ -142,22 +136,22 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
   });
 
   router.get('/clips/:id', requireSignedIn, async (req, res) => {
-    res.json(await d.clips.get(currentUser(req), id(req.params, 'Clip')));
+    res.json(await d.clips.get(currentUser(req), idParam(req.params, 'Clip')));
   });
 
   router.patch('/clips/:id', requireSignedIn, async (req, res) => {
-    const clipId = id(req.params, 'Clip');
+    const clipId = idParam(req.params, 'Clip');
     const body = parse(ClipPatchBody, req.body);
     res.json(await d.clips.update(currentUser(req), clipId, body));
   });
 
   router.delete('/clips/:id', requireSignedIn, async (req, res) => {
-    await d.clips.remove(currentUser(req), id(req.params, 'Clip'));
+    await d.clips.remove(currentUser(req), idParam(req.params, 'Clip'));
     res.status(204).end();
   });
 
   router.post('/clips/:id/retry', requireSignedIn, async (req, res) => {
-    res.status(202).json(await d.clips.retry(currentUser(req), id(req.params, 'Clip')));
+    res.status(202).json(await d.clips.retry(currentUser(req), idParam(req.params, 'Clip')));
   });
 
   async function auditView(req: Request, user: SessionUser, clipId: number, athleteId: number): Promise<void> {

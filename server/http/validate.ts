@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { fromZod } from '../errors';
+import { fromZod, NotFoundError } from '../errors';
 
 /** Parses `value` with `schema`, throwing our 422 (with per-field details) when it does not fit. */
 export function parse<S extends z.ZodType>(schema: S, value: unknown, where = 'Request body'): z.output<S> {
@@ -13,3 +13,10 @@ export const IdParam = z.object({ id: z.coerce.number().int().positive().max(Num
 
 /** Route parameter holding an e-mailed token (base64url). */
 export const TokenParam = z.object({ token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/) });
+
+/** The `:id` route parameter, or "not found" (404) when it is not a positive integer. */
+export function idParam(params: unknown, what: string): number {
+  const r = IdParam.safeParse(params);
+  if (!r.success) throw new NotFoundError(what);
+  return r.data.id;
+}

@@ -1,7 +1,6 @@
 import { Router } from 'express';
 import { currentUser, requireRole } from '../http/access';
-import { NotFoundError } from '../errors';
-import { IdParam, parse } from '../http/validate';
+import { idParam, parse } from '../http/validate';
 import type { Db } from '../db/knex';
 import { audit } from '../audit/audit-log';
 import { BandBody, clinicBands, resetBand, saveBand } from './reference-bands';
@@ -10,18 +9,12 @@ import type { MeasuresService } from './measures-service';
 /** Measures of clips and assessments (staff) and the clinic's reference bands (owner edits). */
 export function measuresRoutes(d: { db: Db; measures: MeasuresService }): Router {
   const router = Router();
-  const id = (params: unknown, what: string) => {
-    const r = IdParam.safeParse(params);
-    if (!r.success) throw new NotFoundError(what);
-    return r.data.id;
-  };
-
   router.get('/clips/:id/measures', requireRole('owner', 'coach'), async (req, res) => {
-    res.json(await d.measures.forClip(currentUser(req), id(req.params, 'Clip')));
+    res.json(await d.measures.forClip(currentUser(req), idParam(req.params, 'Clip')));
   });
 
   router.get('/assessments/:id/measures', requireRole('owner', 'coach'), async (req, res) => {
-    res.json({ clips: await d.measures.forAssessment(currentUser(req), id(req.params, 'Assessment')) });
+    res.json({ clips: await d.measures.forAssessment(currentUser(req), idParam(req.params, 'Assessment')) });
   });
 
   router.get('/reference-bands', requireRole('owner', 'coach'), async (req, res) => {

@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import type { Db } from '../db/knex';
 import { currentUser, requireRole } from '../http/access';
-import { IdParam, parse } from '../http/validate';
+import { idParam, parse } from '../http/validate';
 import { InviteCoachBody } from '../auth/auth-schemas';
 import type { InvitationsService } from '../auth/invitations-service';
 import { usersRepository } from '../auth/users-repository';
@@ -35,7 +35,7 @@ export function staffRoutes(d: { db: Db; invitations: InvitationsService }): Rou
 
   router.delete('/staff/invitations/:id', requireRole('owner'), async (req, res) => {
     const user = currentUser(req);
-    const { id } = parse(IdParam, req.params, 'Invitation id');
+    const id = idParam(req.params, 'Invitation');
     await d.invitations.revoke(user.clinicId, id, user.id);
     res.status(204).end();
   });
