@@ -47,6 +47,16 @@ export const routes: Routes = [
         loadChildren: () => import('./features/athletes/athletes.routes'),
       },
       {
+        path: 'exercises',
+        canMatch: [roleGuard('owner', 'coach')],
+        loadChildren: () => import('./features/plans/exercises.routes'),
+      },
+      {
+        path: 'plans',
+        canMatch: [roleGuard('owner', 'coach')],
+        loadChildren: () => import('./features/plans/plans.routes'),
+      },
+      {
         path: 'team',
         canMatch: [roleGuard('owner')],
         loadChildren: () => import('./features/team/team.routes'),

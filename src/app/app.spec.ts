@@ -12,6 +12,7 @@ import { AuthApi } from './core/auth-api';
 import { AuthStore } from './core/auth-store';
 import { ConfigStore } from './core/config-store';
 import { AssessmentsApi } from './features/assessments/assessments-api';
+import { PlansApi } from './features/plans/plans-api';
 import { provideIsoDateAdapter } from './shared/iso-date-adapter';
 
 const athlete: SessionUser = {
@@ -41,6 +42,8 @@ async function boot(user: SessionUser | null, url: string, demoMode = false) {
       { provide: ConfigStore, useValue: { demoMode: signal(demoMode), version: signal('test') } },
       // The portal home lists the athlete's assessments; none here.
       { provide: AssessmentsApi, useValue: { list: () => of([]) } },
+      // …and the athlete's plan card; no plan here.
+      { provide: PlansApi, useValue: { plansOf: () => of([]) } },
     ],
   });
   await TestBed.inject(AuthStore).load();
@@ -68,7 +71,7 @@ describe('App', () => {
     const nav = [...element.querySelectorAll('nav[aria-label="Main"] [matListItemTitle]')].map((a) =>
       a.textContent?.trim(),
     );
-    expect(nav).toEqual(['Home', 'My profile']);
+    expect(nav).toEqual(['Home', 'My plan', 'My profile']);
     expect(element.querySelector('h1')?.textContent).toContain('Welcome, Sam');
     expect(element.textContent).toContain('Your assessments');
     TestBed.inject(HttpTestingController).verify();

@@ -3,17 +3,17 @@ import { navItemsFor } from './nav-items';
 const labels = (...args: Parameters<typeof navItemsFor>) => navItemsFor(...args).map((i) => i.label);
 
 describe('navItemsFor', () => {
-  it('gives owners the roster, team and reference bands, and the mailbox only in demo mode', () => {
-    expect(labels('owner', false)).toEqual(['Athletes', 'Team', 'Reference bands']);
-    expect(labels('owner', true)).toEqual(['Athletes', 'Team', 'Reference bands', 'Mailbox']);
+  it('gives owners the roster, exercise library, team and reference bands, and the mailbox only in demo mode', () => {
+    expect(labels('owner', false)).toEqual(['Athletes', 'Exercise library', 'Team', 'Reference bands']);
+    expect(labels('owner', true)).toEqual(['Athletes', 'Exercise library', 'Team', 'Reference bands', 'Mailbox']);
   });
 
-  it('gives coaches the roster only, even in demo mode', () => {
-    expect(labels('coach', true)).toEqual(['Athletes']);
+  it('gives coaches the roster and the exercise library, even in demo mode', () => {
+    expect(labels('coach', true)).toEqual(['Athletes', 'Exercise library']);
   });
 
   it('gives athletes their own pages', () => {
-    expect(navItemsFor('athlete', true).map((i) => i.path)).toEqual(['/portal', '/portal/profile']);
+    expect(navItemsFor('athlete', true).map((i) => i.path)).toEqual(['/portal', '/portal/plan', '/portal/profile']);
   });
 
   it('gives signed-out visitors nothing', () => {

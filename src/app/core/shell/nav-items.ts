@@ -15,15 +15,20 @@ export function navItemsFor(role: Role | null, demoMode: boolean): NavItem[] {
     case 'owner':
       return [
         { label: 'Athletes', icon: 'groups', path: '/athletes', exact: false },
+        { label: 'Exercise library', icon: 'fitness_center', path: '/exercises', exact: false },
         { label: 'Team', icon: 'badge', path: '/team', exact: false },
         { label: 'Reference bands', icon: 'tune', path: '/settings/reference-bands', exact: false },
         ...(demoMode ? [{ label: 'Mailbox', icon: 'mail', path: '/mailbox', exact: false }] : []),
       ];
     case 'coach':
-      return [{ label: 'Athletes', icon: 'groups', path: '/athletes', exact: false }];
+      return [
+        { label: 'Athletes', icon: 'groups', path: '/athletes', exact: false },
+        { label: 'Exercise library', icon: 'fitness_center', path: '/exercises', exact: false },
+      ];
     case 'athlete':
       return [
         { label: 'Home', icon: 'home', path: '/portal', exact: true },
+        { label: 'My plan', icon: 'view_timeline', path: '/portal/plan', exact: false },
         { label: 'My profile', icon: 'person', path: '/portal/profile', exact: false },
       ];
     default:

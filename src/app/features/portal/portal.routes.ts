@@ -1,12 +1,18 @@
 import { Routes } from '@angular/router';
 import { leaveGuard } from '../../core/leave-guard';
 
-/** `/portal` (athlete): their home, their own profile and their assessments. */
+/** `/portal` (athlete): their home, their plan and log, their own profile and their assessments. */
 export default [
   {
     path: '',
     title: 'Home · Trailframe',
     loadComponent: () => import('./portal-home/portal-home').then((m) => m.PortalHome),
+  },
+  {
+    path: 'plan',
+    title: 'My plan · Trailframe',
+    canDeactivate: [leaveGuard],
+    loadComponent: () => import('../plans/portal-plan/portal-plan').then((m) => m.PortalPlan),
   },
   {
     path: 'profile',

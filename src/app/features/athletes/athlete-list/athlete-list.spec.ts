@@ -3,6 +3,7 @@ import { HttpTestingController, provideHttpClientTesting } from '@angular/common
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
 import type { AthleteSummary } from '../../../../contracts/api';
+import type { AthletePlanAlerts } from '../../../../contracts/plans';
 import { AthleteList } from './athlete-list';
 
 function athlete(id: number, firstName: string, lastName: string, extra: Partial<AthleteSummary> = {}): AthleteSummary {
@@ -45,8 +46,9 @@ describe('AthleteList', () => {
 
   afterEach(() => backend.verify());
 
-  async function answer(athletes: AthleteSummary[]) {
+  async function answer(athletes: AthleteSummary[], alerts: AthletePlanAlerts[] = []) {
     backend.expectOne('/api/athletes').flush({ athletes });
+    for (const r of backend.match('/api/plan-alerts')) r.flush({ alerts });
     await fixture.whenStable();
   }
 
@@ -93,11 +95,22 @@ describe('AthleteList', () => {
 
   it('shows an error state whose retry loads again', async () => {
     backend.expectOne('/api/athletes').flush({ error: { code: 'internal', message: 'Roster store offline' } }, { status: 500, statusText: 'Error' });
+    backend.expectOne('/api/plan-alerts').flush({ alerts: [] });
     await fixture.whenStable();
     expect(element.querySelector('app-error-state')?.textContent).toContain('Roster store offline');
     element.querySelector<HTMLButtonElement>('app-error-state button')!.click();
     fixture.detectChanges();
     await answer([athlete(1, 'Cleo', 'Bright')]);
     expect(rowNames()).toEqual(['Cleo Bright']);
+  });
+
+  it('shows a plan-alert chip linking to the plan for athletes whose pain rose', async () => {
+    const alert = { kind: 'weekly_rise_during' as const, message: 'Pain during rose week over week.', date: '2026-12-07', value: 6, limit: 2 };
+    await answer([athlete(1, 'Cleo', 'Bright'), athlete(2, 'Abel', 'Able')], [{ athleteId: 1, planId: 9, alerts: [alert] }]);
+    const chips = [...element.querySelectorAll<HTMLAnchorElement>('app-plan-alert-chip a')];
+    expect(chips).toHaveLength(1);
+    expect(chips[0]!.textContent).toContain('Pain during rising');
+    expect(chips[0]!.getAttribute('href')).toBe('/plans/9');
+    expect(chips[0]!.closest('tr')?.textContent).toContain('Cleo Bright');
   });
 });

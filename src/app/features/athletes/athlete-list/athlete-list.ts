@@ -13,6 +13,8 @@ import { RouterLink } from '@angular/router';
 import { errorMessage } from '../../../core/api-error';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
+import { PlanAlertChip } from '../../plans/plan-alert-chip/plan-alert-chip';
+import { PlansApi } from '../../plans/plans-api';
 import { AthletesApi } from '../athletes-api';
 import {
   ACCOUNT_STATE_LABELS,
@@ -39,6 +41,7 @@ import {
     MatProgressBarModule,
     EmptyState,
     ErrorState,
+    PlanAlertChip,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './athlete-list.html',
@@ -48,7 +51,11 @@ export class AthleteList {
   private readonly api = inject(AthletesApi);
 
   protected readonly athletes = rxResource({ stream: () => this.api.list() });
-  protected readonly columns = ['name', 'goal', 'coach', 'account', 'consent', 'pain', 'updated'];
+  protected readonly columns = ['name', 'goal', 'coach', 'account', 'consent', 'pain', 'planAlerts', 'updated'];
+  /** Pain alerts of running plans, by athlete (a failed load just shows no chips). */
+  private readonly plansApi = inject(PlansApi);
+  private readonly planAlerts = rxResource({ stream: () => this.plansApi.alerts() });
+  protected readonly alertsByAthlete = computed(() => new Map((this.planAlerts.hasValue() ? this.planAlerts.value() : []).map((a) => [a.athleteId, a])));
   protected readonly pageSizes = [10, 25, 50];
 
   protected readonly query = signal('');

@@ -17,13 +17,14 @@ import { LeaveGuarded, LeaveWarning, UNSAVED_CHANGES_WARNING, warnBeforeUnload }
 import { ageOn } from '../../../shared/dates';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentList } from '../../assessments/assessment-list/assessment-list';
+import { AthletePlans } from '../../plans/athlete-plans/athlete-plans';
 import { AthleteEditDialog } from '../athlete-edit-dialog/athlete-edit-dialog';
 import { AthleteInvitation } from '../athlete-invitation/athlete-invitation';
 import { AthletesApi } from '../athletes-api';
 import { IntakeForm } from '../intake-form/intake-form';
 import { fullName } from '../roster';
 
-const PROFILE_TABS = ['intake', 'assessments'] as const;
+const PROFILE_TABS = ['intake', 'assessments', 'plan'] as const;
 type ProfileTab = (typeof PROFILE_TABS)[number];
 
 /** `/athletes/:id`: who the athlete is, their account, their intake and their assessments. */
@@ -41,6 +42,7 @@ type ProfileTab = (typeof PROFILE_TABS)[number];
     AthleteInvitation,
     IntakeForm,
     AssessmentList,
+    AthletePlans,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './athlete-profile.html',
@@ -54,7 +56,7 @@ export class AthleteProfile implements LeaveGuarded {
 
   /** Route parameter. */
   readonly id = input.required<string>();
-  /** Query parameter `tab`: `intake` (default) or `assessments`. */
+  /** Query parameter `tab`: `intake` (default), `assessments` or `plan`. */
   readonly tab = input<string | undefined>();
 
   protected readonly athlete = rxResource({

@@ -5,11 +5,12 @@ import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
 import { AuthStore } from '../../../core/auth-store';
 import { AssessmentList } from '../../assessments/assessment-list/assessment-list';
+import { PortalPlanCard } from '../../plans/portal-plan-card/portal-plan-card';
 
 /** `/portal`: the athlete's home page. */
 @Component({
   selector: 'app-portal-home',
-  imports: [RouterLink, MatCardModule, MatButtonModule, MatIconModule, AssessmentList],
+  imports: [RouterLink, MatCardModule, MatButtonModule, MatIconModule, AssessmentList, PortalPlanCard],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './portal-home.html',
   styleUrl: './portal-home.scss',

@@ -1,0 +1,253 @@
+import { DatePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { FormArray, NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCardModule } from '@angular/material/card';
+import { MatDialog } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSelectModule } from '@angular/material/select';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { Router, RouterLink } from '@angular/router';
+import { firstValueFrom, of, throwError } from 'rxjs';
+import type { Exercise, LoadingKind, PlanDetail, ProgressionCriterionKind } from '../../../../contracts/plans';
+import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
+import { CRITERION_KINDS, DEFAULT_PAIN_RULE, LOADING_KIND_LABELS, PLAN_LIMITS } from '../../../../contracts/plans';
+import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
+import { LeaveGuarded, LeaveWarning, UNSAVED_CHANGES_WARNING, warnBeforeUnload } from '../../../core/leave-guard';
+import { errorText } from '../../../shared/forms/error-text';
+import { applyServerErrors } from '../../../shared/forms/server-errors';
+import { ErrorState } from '../../../shared/states/error-state';
+import { AssessmentsApi } from '../../assessments/assessments-api';
+import { AthletesApi } from '../../athletes/athletes-api';
+import { fullName } from '../../athletes/roster';
+import { DoseFields } from '../dose-fields/dose-fields';
+import { ExercisePicker, ExercisePickerData } from '../exercise-picker/exercise-picker';
+import { PlanCaution } from '../plan-caution/plan-caution';
+import {
+  PlanForm,
+  StageGroup,
+  blankStage,
+  createPlanForm,
+  criterionGroup,
+  defaultCriterion,
+  moveInArray,
+  planFromForm,
+  stageExerciseGroup,
+  stageGroup,
+  threeStageTemplate,
+} from '../plan-form-model';
+import { PlansApi } from '../plans-api';
+
+const CRITERION_OPTION_LABELS: Record<ProgressionCriterionKind, string> = {
+  pain_during_at_most: 'Pain during at most …',
+  settled_by_morning: 'Settled by next morning',
+  all_sets_done: 'All sets done',
+  sessions_logged: 'Sessions logged',
+  weeks_in_stage: 'Weeks in this stage',
+};
+
+/** Loading kinds a stage's picker starts with, by the stage's position in a three-stage plan. */
+const STAGE_KIND_HINT: (LoadingKind | undefined)[] = ['isometric', 'eccentric', 'ballistic'];
+
+/**
+ * `/plans/new?athlete=:id` and `/plans/:id/edit`: a plan's title, the assessment it came from,
+ * and its ordered stages — exercises from the library with doses, target duration, progression in
+ * words and checkable criteria.
+ */
+@Component({
+  selector: 'app-plan-builder',
+  imports: [
+    DatePipe,
+    ReactiveFormsModule,
+    RouterLink,
+    MatButtonModule,
+    MatCardModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatIconModule,
+    MatProgressBarModule,
+    ErrorState,
+    DoseFields,
+    PlanCaution,
+  ],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  templateUrl: './plan-builder.html',
+  styleUrl: './plan-builder.scss',
+  host: { '(window:beforeunload)': 'onBeforeUnload($event)' },
+})
+export class PlanBuilder implements LeaveGuarded {
+  private readonly api = inject(PlansApi);
+  private readonly athletesApi = inject(AthletesApi);
+  private readonly assessmentsApi = inject(AssessmentsApi);
+  private readonly dialog = inject(MatDialog);
+  private readonly router = inject(Router);
+  private readonly snackBar = inject(MatSnackBar);
+  private readonly fb = inject(NonNullableFormBuilder);
+
+  /** Route parameter when editing. */
+  readonly id = input<string | undefined>();
+  /** Query parameter `athlete` when creating. */
+  readonly athlete = input<string | undefined>();
+
+  protected readonly editing = computed(() => this.id() !== undefined);
+  protected readonly plan = rxResource({
+    params: () => this.id(),
+    stream: ({ params }) => (params === undefined ? of(null) : this.api.plan(Number(params))),
+  });
+  protected readonly athleteId = computed(() => {
+    if (this.editing()) return this.plan.hasValue() ? (this.plan.value()?.athleteId ?? null) : null;
+    const n = Number(this.athlete());
+    return Number.isInteger(n) && n > 0 ? n : null;
+  });
+  protected readonly athleteDetail = rxResource({
+    params: () => this.athleteId() ?? (this.editing() ? undefined : -1),
+    stream: ({ params }) => (params === -1 ? throwError(() => new Error('Open the new plan from an athlete’s profile.')) : this.athletesApi.get(params)),
+  });
+  protected readonly assessments = rxResource({
+    params: () => this.athleteId() ?? undefined,
+    stream: ({ params }) => this.assessmentsApi.list(params),
+  });
+  protected readonly name = computed(() => (this.athleteDetail.hasValue() ? fullName(this.athleteDetail.value()) : ''));
+  protected readonly loadError = computed(() => this.plan.error() ?? this.athleteDetail.error() ?? null);
+  protected readonly form = signal<PlanForm | null>(null);
+  protected readonly busy = signal(false);
+  protected readonly problem = signal<string | null>(null);
+  private saved = false;
+
+  protected readonly criterionKinds = CRITERION_KINDS;
+  protected readonly criterionLabels = CRITERION_OPTION_LABELS;
+  protected readonly kindLabels = LOADING_KIND_LABELS;
+  protected readonly assessmentKindLabels = ASSESSMENT_KIND_LABELS;
+  protected readonly L = PLAN_LIMITS;
+  protected readonly errorText = errorText;
+  protected readonly errorMessage = errorMessage;
+  protected readonly notFound = computed(() => errorStatus(this.loadError()) === 404);
+
+  constructor() {
+    // Build the form once, when what it starts from has loaded.
+    effect(() => {
+      const ready = this.editing() ? this.plan.hasValue() && this.plan.value() !== null : this.athleteDetail.hasValue();
+      if (!ready || untracked(this.form)) return;
+      const plan = this.editing() ? (this.plan.value() as PlanDetail) : undefined;
+      untracked(() => this.form.set(createPlanForm(this.fb, plan, 'Staged loading plan')));
+    });
+  }
+
+  protected stages(f: PlanForm): FormArray<StageGroup> {
+    return f.controls.stages;
+  }
+
+  leaveWarning(): LeaveWarning | null {
+    return !this.saved && this.form()?.dirty ? UNSAVED_CHANGES_WARNING : null;
+  }
+
+  protected onBeforeUnload(event: BeforeUnloadEvent): void {
+    warnBeforeUnload(event, this.leaveWarning());
+  }
+
+  protected useTemplate(f: PlanForm): void {
+    for (const s of threeStageTemplate(DEFAULT_PAIN_RULE.maxDuring)) f.controls.stages.push(stageGroup(this.fb, s));
+    f.markAsDirty();
+  }
+
+  protected addStage(f: PlanForm): void {
+    f.controls.stages.push(stageGroup(this.fb, blankStage(f.controls.stages.length + 1)));
+    f.markAsDirty();
+  }
+
+  protected moveStage(f: PlanForm, i: number, delta: number): void {
+    moveInArray(f.controls.stages, i, delta);
+    f.markAsDirty();
+  }
+
+  protected removeStage(f: PlanForm, i: number): void {
+    f.controls.stages.removeAt(i);
+    f.markAsDirty();
+  }
+
+  protected addExercise(f: PlanForm, stage: StageGroup, index: number): void {
+    this.dialog
+      .open<ExercisePicker, ExercisePickerData, Exercise>(ExercisePicker, {
+        data: {
+          stageName: stage.controls.name.value || `Stage ${index + 1}`,
+          kind: f.controls.stages.length === 3 ? STAGE_KIND_HINT[index] : undefined,
+          chosenIds: stage.controls.exercises.getRawValue().map((e) => e.exerciseId),
+        },
+        width: '760px',
+        maxWidth: '95vw',
+      })
+      .afterClosed()
+      .subscribe((exercise) => {
+        if (!exercise) return;
+        stage.controls.exercises.push(stageExerciseGroup(this.fb, exercise));
+        f.markAsDirty();
+      });
+  }
+
+  protected moveExercise(f: PlanForm, stage: StageGroup, j: number, delta: number): void {
+    moveInArray(stage.controls.exercises, j, delta);
+    f.markAsDirty();
+  }
+
+  protected removeExercise(f: PlanForm, stage: StageGroup, j: number): void {
+    stage.controls.exercises.removeAt(j);
+    f.markAsDirty();
+  }
+
+  protected addCriterion(f: PlanForm, stage: StageGroup): void {
+    stage.controls.criteria.push(criterionGroup(this.fb, defaultCriterion('pain_during_at_most')));
+    f.markAsDirty();
+  }
+
+  protected removeCriterion(f: PlanForm, stage: StageGroup, k: number): void {
+    stage.controls.criteria.removeAt(k);
+    f.markAsDirty();
+  }
+
+  protected cancelLink(): unknown[] {
+    const id = this.id();
+    if (id !== undefined) return ['/plans', id];
+    const athleteId = this.athleteId();
+    return athleteId ? ['/athletes', athleteId] : ['/athletes'];
+  }
+
+  protected async save(f: PlanForm): Promise<void> {
+    if (this.busy()) return;
+    this.problem.set(null);
+    if (f.controls.stages.length === 0) {
+      this.problem.set('Add at least one stage.');
+      return;
+    }
+    if (f.invalid) {
+      f.markAllAsTouched();
+      this.problem.set('Check the highlighted fields.');
+      return;
+    }
+    const athleteId = this.athleteId();
+    if (athleteId === null) return;
+    this.busy.set(true);
+    const body = planFromForm(f.getRawValue());
+    const id = this.id();
+    try {
+      const saved = await firstValueFrom(id !== undefined ? this.api.replacePlan(Number(id), body) : this.api.createPlan(athleteId, body));
+      this.saved = true;
+      f.markAsPristine();
+      this.snackBar.open(id !== undefined ? 'Plan saved' : 'Plan created as a draft', 'OK', { duration: 3000 });
+      await this.router.navigate(['/plans', saved.id]);
+    } catch (err) {
+      if (errorStatus(err) === 422) {
+        const rest = applyServerErrors(f, fieldProblems(err));
+        this.problem.set(rest.length ? rest.join(' ') : 'Check the highlighted fields.');
+      } else {
+        this.problem.set(errorMessage(err));
+      }
+    } finally {
+      this.busy.set(false);
+    }
+  }
+}

@@ -1,0 +1,58 @@
+import type { LogEntry } from '../../../contracts/plans';
+import { alertSummary, doseMain, formatDose, morningCheckDue, newLogKey, runningPlan, seconds } from './plan-words';
+
+const entry = (id: number, date: string, morningPain: number | null = null): LogEntry => ({
+  id,
+  planId: 1,
+  stageId: 1,
+  stageName: 'Holds',
+  key: `key-${id}`,
+  date,
+  painDuring: 2,
+  morningPain,
+  morningAt: null,
+  sets: [],
+  note: null,
+  createdAt: '',
+});
+
+describe('plan words', () => {
+  it('writes doses the way a coach says them', () => {
+    expect(seconds(45)).toBe('45 s');
+    expect(seconds(90)).toBe('1 min 30 s');
+    expect(seconds(120)).toBe('2 min');
+    expect(doseMain({ sets: 3, reps: 8, holdSeconds: null })).toBe('3 × 8');
+    expect(doseMain({ sets: 4, reps: null, holdSeconds: 30 })).toBe('4 × 30 s hold');
+    expect(doseMain({ sets: 3, reps: 6, holdSeconds: 5 })).toBe('3 × 6 with 5 s hold');
+    expect(formatDose({ sets: 3, reps: 6, holdSeconds: null, tempo: '4 s out', load: 'Body weight', restSeconds: 90, daysPerWeek: 1 })).toBe(
+      '3 × 6 · tempo 4 s out · Body weight · rest 1 min 30 s · 1 day a week',
+    );
+  });
+
+  it('finds the running plan (active or paused) of a list', () => {
+    expect(runningPlan([{ status: 'finished' }, { status: 'paused' }])).toEqual({ status: 'paused' });
+    expect(runningPlan([{ status: 'draft' }, { status: 'finished' }])).toBeNull();
+  });
+
+  it('summarises alerts for a chip', () => {
+    expect(alertSummary([])).toBe('');
+    const a = { message: '', date: '', value: 6, limit: 5 };
+    expect(alertSummary([{ ...a, kind: 'during_above_max' }, { ...a, kind: 'weekly_rise_during' }])).toBe('Pain above the plan’s limit +1');
+  });
+
+  it('asks the morning check about the newest unchecked session of the last two days only', () => {
+    const today = '2026-12-10';
+    expect(morningCheckDue([entry(1, '2026-12-09')], today)?.id).toBe(1);
+    expect(morningCheckDue([entry(1, '2026-12-08'), entry(2, '2026-12-09', 1)], today)?.id).toBe(1);
+    expect(morningCheckDue([entry(1, '2026-12-07')], today)).toBeNull();
+    expect(morningCheckDue([entry(1, '2026-12-10')], today)).toBeNull();
+    expect(morningCheckDue([entry(1, '2026-12-09'), entry(3, '2026-12-09')], today)?.id).toBe(3);
+  });
+
+  it('makes idempotency keys with randomUUID, or from random bytes without it', () => {
+    expect(newLogKey({ randomUUID: () => 'abc-uuid', getRandomValues: (a) => a })).toBe('abc-uuid');
+    const key = newLogKey({ getRandomValues: <T extends ArrayBufferView | null>(a: T) => { (a as unknown as Uint8Array).fill(171); return a; } });
+    expect(key).toBe('ab'.repeat(16));
+    expect(newLogKey()).toMatch(/^[A-Za-z0-9-]{8,64}$/);
+  });
+});

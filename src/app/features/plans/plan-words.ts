@@ -1,0 +1,68 @@
+/**
+ * Words and small pure helpers of the Plans screens: doses, statuses, alerts, the running plan
+ * of a list, and the session the athlete still owes a morning check for.
+ */
+import type { Dose, LogEntry, PainAlert, PlanStatus, PlanSummary } from '../../../contracts/plans';
+import { PAIN_ALERT_LABELS } from '../../../contracts/plans';
+import { addDays } from '../../../plans-rules';
+
+/** "30 s" / "1 min 30 s". */
+export function seconds(s: number): string {
+  if (s < 60) return `${s} s`;
+  const m = Math.floor(s / 60);
+  const rest = s % 60;
+  return rest ? `${m} min ${rest} s` : `${m} min`;
+}
+
+/** The main line of a dose: "3 × 8", "4 × 30 s hold", "3 × 6 with 5 s hold". */
+export function doseMain(d: Pick<Dose, 'sets' | 'reps' | 'holdSeconds'>): string {
+  if (d.reps !== null && d.holdSeconds !== null) return `${d.sets} × ${d.reps} with ${seconds(d.holdSeconds)} hold`;
+  if (d.reps !== null) return `${d.sets} × ${d.reps}`;
+  return `${d.sets} × ${seconds(d.holdSeconds ?? 0)} hold`;
+}
+
+/** Every part of a dose in a list, for a line of chips or a sentence. */
+export function doseParts(d: Dose): string[] {
+  const parts = [doseMain(d)];
+  if (d.tempo) parts.push(`tempo ${d.tempo}`);
+  if (d.load) parts.push(d.load);
+  if (d.restSeconds !== null) parts.push(`rest ${seconds(d.restSeconds)}`);
+  parts.push(`${d.daysPerWeek} day${d.daysPerWeek === 1 ? '' : 's'} a week`);
+  return parts;
+}
+
+export const formatDose = (d: Dose): string => doseParts(d).join(' · ');
+
+/** The plan an athlete follows now (active or paused), else the newest one, else null. */
+export function runningPlan<T extends Pick<PlanSummary, 'status'>>(plans: readonly T[]): T | null {
+  return plans.find((p) => p.status === 'active' || p.status === 'paused') ?? null;
+}
+
+/** Chip text of a list of alerts: the first one's label and "+n" for the rest. */
+export function alertSummary(alerts: readonly PainAlert[]): string {
+  if (alerts.length === 0) return '';
+  const first = PAIN_ALERT_LABELS[alerts[0]!.kind];
+  return alerts.length > 1 ? `${first} +${alerts.length - 1}` : first;
+}
+
+export function statusClass(status: PlanStatus): string {
+  return `status-${status}`;
+}
+
+/**
+ * The newest session of yesterday or the day before (the athlete's calendar) still without a
+ * morning check — the one the one-tap morning check asks about — or null.
+ */
+export function morningCheckDue(logs: readonly LogEntry[], today: string): LogEntry | null {
+  const earliest = addDays(today, -2);
+  const candidates = logs.filter((l) => l.morningPain === null && l.date < today && l.date >= earliest);
+  candidates.sort((a, b) => (a.date === b.date ? b.id - a.id : a.date < b.date ? 1 : -1));
+  return candidates[0] ?? null;
+}
+
+/** A fresh idempotency key for a log submission (UUID when the browser offers it). */
+export function newLogKey(cryptoObj: Pick<Crypto, 'getRandomValues'> & { randomUUID?: () => string } = crypto): string {
+  if (typeof cryptoObj.randomUUID === 'function') return cryptoObj.randomUUID();
+  const bytes = cryptoObj.getRandomValues(new Uint8Array(16));
+  return Array.from(bytes, (b) => b.toString(16).padStart(2, '0')).join('');
+}

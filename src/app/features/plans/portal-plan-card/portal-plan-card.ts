@@ -1,0 +1,79 @@
+import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCardModule } from '@angular/material/card';
+import { MatIconModule } from '@angular/material/icon';
+import { RouterLink } from '@angular/router';
+import { LogOutbox } from '../log-outbox';
+import { runningPlan } from '../plan-words';
+import { PlansApi } from '../plans-api';
+
+/** The portal home's "Your plan" card: current stage, unsent entries, a link to today's session. */
+@Component({
+  selector: 'app-portal-plan-card',
+  imports: [RouterLink, MatCardModule, MatButtonModule, MatIconModule],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  template: `
+    <mat-card appearance="outlined" class="plan-card">
+      <mat-card-content class="card-body">
+        <mat-icon aria-hidden="true" class="card-icon">view_timeline</mat-icon>
+        <div>
+          <h2 class="card-title">Your plan</h2>
+          @if (plan(); as p) {
+            <p>
+              <strong>{{ p.title }}</strong>
+              @if (p.status === 'paused') {
+                — paused by your clinician.
+              } @else if (p.currentStagePosition) {
+                — stage {{ p.currentStagePosition }} of {{ p.stageCount }}: {{ p.currentStageName }}.
+              }
+            </p>
+          } @else if (plans.hasValue()) {
+            <p class="muted">Your clinician has not started an exercise plan for you yet.</p>
+          } @else {
+            <p class="muted">Your exercise plan and today's session.</p>
+          }
+          @if (outbox.pending().length) {
+            <p class="pending"><mat-icon aria-hidden="true">cloud_upload</mat-icon>{{ outbox.pending().length }} log {{ outbox.pending().length === 1 ? 'entry' : 'entries' }} waiting to send</p>
+          }
+        </div>
+      </mat-card-content>
+      @if (plan()) {
+        <mat-card-actions align="end">
+          <a mat-flat-button routerLink="/portal/plan">Open today's session</a>
+        </mat-card-actions>
+      }
+    </mat-card>
+  `,
+  styles: `
+    .card-body {
+      display: flex;
+      gap: 16px;
+      align-items: flex-start;
+    }
+    .card-icon {
+      color: var(--mat-sys-primary);
+      flex: none;
+    }
+    .card-title {
+      font: var(--mat-sys-title-medium);
+      margin: 0 0 4px;
+    }
+    p {
+      margin: 0 0 4px;
+    }
+    .pending {
+      display: flex;
+      align-items: center;
+      gap: 6px;
+      font: var(--mat-sys-body-medium);
+    }
+  `,
+})
+export class PortalPlanCard {
+  private readonly api = inject(PlansApi);
+  protected readonly outbox = inject(LogOutbox);
+  readonly athleteId = input.required<number>();
+  protected readonly plans = rxResource({ params: () => this.athleteId(), stream: ({ params }) => this.api.plansOf(params) });
+  protected readonly plan = computed(() => (this.plans.hasValue() ? runningPlan(this.plans.value()) : null));
+}
