@@ -55,8 +55,8 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
 if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
   startServer()
     .then((s) => console.log(`Trailframe API listening on ${s.url}`))
-    .catch((err: Error) => {
-      console.error(err.message);
+    .catch((err: NodeJS.ErrnoException) => {
+      console.error(err.code === 'EADDRINUSE' ? `Port ${process.env['PORT'] ?? 3000} is in use: stop the other program or start with another port, e.g. PORT=3001 npm start` : err.message);
       process.exit(1);
     });
 }
