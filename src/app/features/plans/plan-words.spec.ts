@@ -38,6 +38,7 @@ describe('plan words', () => {
     expect(alertSummary([])).toBe('');
     const a = { message: '', date: '', value: 6, limit: 5 };
     expect(alertSummary([{ ...a, kind: 'during_above_max' }, { ...a, kind: 'weekly_rise_during' }])).toBe('Pain above the plan’s limit +1');
+    expect(alertSummary([{ ...a, kind: 'weekly_rise_morning' }], true)).toBe('Pain rising');
   });
 
   it('asks the morning check about the newest unchecked session of the last two days only', () => {

@@ -38,10 +38,18 @@ export function runningPlan<T extends Pick<PlanSummary, 'status'>>(plans: readon
   return plans.find((p) => p.status === 'active' || p.status === 'paused') ?? null;
 }
 
+/** Short words for a chip in a narrow cell (the roster). */
+export const PAIN_ALERT_SHORT_LABELS: Record<PainAlert['kind'], string> = {
+  during_above_max: 'Above limit',
+  not_settled: 'Not settled',
+  weekly_rise_during: 'Pain rising',
+  weekly_rise_morning: 'Pain rising',
+};
+
 /** Chip text of a list of alerts: the first one's label and "+n" for the rest. */
-export function alertSummary(alerts: readonly PainAlert[]): string {
+export function alertSummary(alerts: readonly PainAlert[], compact = false): string {
   if (alerts.length === 0) return '';
-  const first = PAIN_ALERT_LABELS[alerts[0]!.kind];
+  const first = (compact ? PAIN_ALERT_SHORT_LABELS : PAIN_ALERT_LABELS)[alerts[0]!.kind];
   return alerts.length > 1 ? `${first} +${alerts.length - 1}` : first;
 }
 

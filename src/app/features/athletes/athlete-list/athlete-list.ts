@@ -51,7 +51,7 @@ export class AthleteList {
   private readonly api = inject(AthletesApi);
 
   protected readonly athletes = rxResource({ stream: () => this.api.list() });
-  protected readonly columns = ['name', 'goal', 'coach', 'account', 'consent', 'pain', 'planAlerts', 'updated'];
+  protected readonly columns = ['name', 'goal', 'coach', 'account', 'consent', 'pain', 'updated'];
   /** Pain alerts of running plans, by athlete (a failed load just shows no chips). */
   private readonly plansApi = inject(PlansApi);
   private readonly planAlerts = rxResource({ stream: () => this.plansApi.alerts() });

@@ -30,6 +30,9 @@ import { alertSummary } from '../plan-words';
       text-decoration: none;
       white-space: nowrap;
     }
+    :host {
+      display: inline-block;
+    }
     .plan-alert-chip:hover {
       text-decoration: underline;
     }
@@ -43,6 +46,8 @@ import { alertSummary } from '../plan-words';
 export class PlanAlertChip {
   readonly alerts = input.required<readonly PainAlert[]>();
   readonly planId = input.required<number>();
-  protected readonly summary = computed(() => alertSummary(this.alerts()));
+  /** Short words, for narrow cells. */
+  readonly compact = input(false);
+  protected readonly summary = computed(() => alertSummary(this.alerts(), this.compact()));
   protected readonly details = computed(() => this.alerts().map((a) => a.message).join(' '));
 }

@@ -1,0 +1,279 @@
+/**
+ * Plans in Debian chromium: the coach builds a three-stage plan from the exercise library for the
+ * demo athlete with high-hamstring pain and starts it; the athlete logs two sessions on a phone
+ * (390×844) — one with the next-morning check, one sent through a dropped connection and a lost
+ * answer without making a duplicate; the coach sees adherence and the pain chart, and the rise in
+ * pain raises alerts on the roster, the profile and the plan. Alert rule: REFERENCES.md's
+ * pain-monitoring entry (Silbernagel et al. 2007 [mem], from memory): pain during may reach 5/10
+ * and must not rise week to week.
+ */
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { BrowserContext, Page } from 'playwright-core';
+import { SCREENSHOTS, startHarness, type Harness } from './harness';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+
+const [, coach, , athlete] = DEMO_SIGN_INS;
+const DAY = 86_400_000;
+const PHONE = { width: 390, height: 844 };
+const shot = (name: string) => path.join(SCREENSHOTS, name);
+/** Console noise a deliberately dropped connection causes; anything else is a problem. */
+const networkNoise = (m: string) => /ERR_INTERNET_DISCONNECTED|ERR_FAILED|Failed to load resource/.test(m);
+
+let h: Harness;
+let adaId = 0;
+let planId = 0;
+
+beforeAll(async () => {
+  h = await startHarness();
+  adaId = (await h.server.db('athletes').where({ email: athlete.email }).first()).id;
+});
+afterAll(async () => {
+  await h?.close();
+});
+
+async function signIn(page: Page, email: string, password: string): Promise<void> {
+  await page.goto(`${h.baseUrl}/sign-in`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password', { exact: true }).fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL(/\/(athletes|portal)/);
+}
+
+async function pickExercise(page: Page, stage: number, name: string, search?: string): Promise<void> {
+  await page.getByRole('group', { name: `Stage ${stage}` }).getByRole('button', { name: 'Add exercise from library' }).click();
+  const dialog = page.getByRole('dialog');
+  if (search) {
+    await dialog.getByRole('combobox', { name: 'Loading' }).click();
+    await page.getByRole('option', { name: 'Any kind' }).click();
+    await dialog.getByLabel('Search the library').fill(search);
+  }
+  await dialog.getByRole('button', { name: `Add ${name}` }).click();
+  await expect.poll(() => page.getByRole('dialog').count()).toBe(0);
+}
+
+const logs = () => h.server.db('log_entries').where({ plan_id: planId }).orderBy('id');
+const isoDay = (ms: number) => new Date(ms).toISOString().slice(0, 10);
+
+async function tickAllSets(page: Page): Promise<void> {
+  const sets = page.getByRole('button', { name: /^Set \d+ of / });
+  const n = await sets.count();
+  expect(n).toBeGreaterThan(0);
+  for (let i = 0; i < n; i++) await sets.nth(i).click();
+}
+
+/**
+ * Screenshot of the whole page: the shell scrolls inside its own content pane, so the viewport is
+ * grown to the content's height first (and put back after).
+ */
+async function fullShot(page: Page, name: string): Promise<void> {
+  const size = page.viewportSize()!;
+  const height = await page.evaluate(() => {
+    const pane = document.querySelector('mat-sidenav-content');
+    return pane ? pane.scrollHeight + pane.getBoundingClientRect().top : document.documentElement.scrollHeight;
+  });
+  await page.setViewportSize({ width: size.width, height: Math.min(6000, Math.max(size.height, Math.ceil(height))) });
+  await page.screenshot({ path: shot(name) });
+  await page.setViewportSize(size);
+}
+
+async function phone(clockAt?: number): Promise<{ context: BrowserContext; page: Page; problems: string[] }> {
+  const s = await h.newPage();
+  await s.page.setViewportSize(PHONE);
+  if (clockAt !== undefined) await s.page.clock.setFixedTime(new Date(clockAt));
+  return s;
+}
+
+describe('plans: staged loading, athlete log, pain monitoring', () => {
+  it('the coach searches the library by region and loading kind', async () => {
+    const { page, context, problems } = await h.newPage();
+    await signIn(page, coach.email, coach.password);
+    await page.getByRole('link', { name: 'Exercise library' }).click();
+    await page.waitForURL(/\/exercises$/);
+    await page.getByRole('combobox', { name: 'Body region' }).click();
+    await page.getByRole('option', { name: 'Hamstring' }).click();
+    await page.getByRole('combobox', { name: 'Kind of loading' }).click();
+    await page.getByRole('option', { name: 'Isometric' }).click();
+    await expect.poll(() => page.getByRole('list', { name: 'Exercises' }).getByRole('heading').allTextContents()).toEqual(['Hip-hinge hold', 'Long-lever hamstring bridge hold']);
+    await page.getByRole('button', { name: 'How to do it' }).first().click();
+    expect(await page.getByText('Stop an exercise that causes sharp or worsening pain').count()).toBe(1);
+    await fullShot(page, 'plans-library.png');
+
+    // A new exercise in our own words; a negative dose is refused in the form.
+    await page.getByRole('button', { name: 'New exercise' }).click();
+    const dialog = page.getByRole('dialog');
+    await dialog.getByLabel('Name').fill('Standing calf raise');
+    await dialog.getByRole('combobox', { name: 'Body region' }).click();
+    await page.getByRole('option', { name: 'Calf and Achilles' }).click();
+    await dialog.getByRole('combobox', { name: 'Kind of loading' }).click();
+    await page.getByRole('option', { name: 'Concentric / isotonic' }).click();
+    await dialog.getByLabel('Purpose').fill('Builds calf strength through the whole range.');
+    await dialog.getByLabel('Sets').fill('-2');
+    await dialog.getByLabel('Instructions').fill('Stand on the edge of a step.\nRise onto the balls of the feet.\nLower slowly.');
+    await dialog.getByRole('button', { name: 'Add to library' }).click();
+    await expect.poll(() => dialog.getByText('Min 1').count()).toBe(1);
+    await fullShot(page, 'plans-exercise-dialog.png');
+    await dialog.getByLabel('Sets').fill('3');
+    await dialog.getByRole('button', { name: 'Add to library' }).click();
+    await expect.poll(() => page.getByRole('dialog').count()).toBe(0);
+    const created = await h.server.db('exercises').where({ name: 'Standing calf raise' }).first();
+    expect(created).toMatchObject({ region: 'calf_achilles', kind: 'isotonic', sets: 3 });
+    expect(JSON.parse(created.instructions)).toEqual(['Stand on the edge of a step.', 'Rise onto the balls of the feet.', 'Lower slowly.']);
+    expect(problems).toEqual([]);
+    await context.close();
+  });
+
+  it('the coach builds a three-stage plan from the library for Ada and starts it', async () => {
+    const { page, context, problems } = await h.newPage();
+    await signIn(page, coach.email, coach.password);
+    await page.goto(`${h.baseUrl}/athletes/${adaId}?tab=plan`);
+    await page.getByRole('link', { name: 'New plan' }).click();
+    await page.waitForURL(/\/plans\/new\?athlete=/);
+    await page.getByLabel('Title').fill('High hamstring: staged loading');
+    await page.getByRole('combobox', { name: 'Came from assessment' }).click();
+    await page.getByRole('option', { name: /Re-test/ }).click();
+    await page.getByRole('button', { name: 'Start from three stages' }).click();
+    await pickExercise(page, 1, 'Long-lever hamstring bridge hold');
+    await pickExercise(page, 1, 'Hip-hinge hold');
+    await pickExercise(page, 2, 'Heel-slide hamstring lowers');
+    await pickExercise(page, 3, 'Split-stance hip-drive pulses');
+    await pickExercise(page, 3, 'Wall-supported hip-extension drill', 'wall');
+    // A prescription differs from the library default: 5 sets of the bridge hold.
+    await page.getByRole('listitem', { name: 'Long-lever hamstring bridge hold' }).getByLabel('Sets').fill('5');
+    await fullShot(page, 'plans-builder.png');
+    await page.getByRole('button', { name: 'Create plan' }).click();
+    await page.waitForURL(/\/plans\/\d+$/);
+    planId = Number(/\/plans\/(\d+)$/.exec(page.url())![1]);
+    await page.getByRole('button', { name: 'Start plan' }).click();
+    await page.getByRole('dialog').getByRole('button', { name: 'Start plan' }).click();
+    await expect.poll(async () => (await h.server.db('plans').where({ id: planId }).first()).status).toBe('active');
+
+    const stages = await h.server.db('plan_stages').where({ plan_id: planId }).orderBy('position');
+    expect(stages.map((s) => s.name)).toEqual(['Isometric holds', 'Slow lengthening', 'Fast work and running drills']);
+    const items = await h.server.db('stage_exercises as se').join('exercises as e', 'e.id', 'se.exercise_id').whereIn('se.stage_id', stages.map((s) => s.id)).orderBy(['se.stage_id', 'se.position']).select('e.name', 'se.sets');
+    expect(items).toEqual([
+      { name: 'Long-lever hamstring bridge hold', sets: 5 },
+      { name: 'Hip-hinge hold', sets: 3 },
+      { name: 'Heel-slide hamstring lowers', sets: 3 },
+      { name: 'Split-stance hip-drive pulses', sets: 3 },
+      { name: 'Wall-supported hip-extension drill', sets: 3 },
+    ]);
+    const retest = await h.server.db('assessments').where({ athlete_id: adaId, kind: 'retest' }).first();
+    expect((await h.server.db('plans').where({ id: planId }).first()).assessment_id).toBe(retest.id);
+    await expect.poll(() => page.getByText('Stage 1 of 3 · Isometric holds').count()).toBe(1);
+    await fullShot(page, 'plans-plan-started.png');
+    expect(problems).toEqual([]);
+    await context.close();
+  });
+
+  it('the athlete logs a first session on a phone, and the next morning answers the one-tap check', async () => {
+    // Test fixture: the plan began eight days ago, so the first session can sit in last week.
+    const eightDaysAgo = new Date(Date.now() - 8 * DAY).toISOString();
+    await h.server.db('plans').where({ id: planId }).update({ started_at: eightDaysAgo });
+    await h.server.db('plan_stages').where({ plan_id: planId, position: 1 }).update({ started_at: eightDaysAgo });
+
+    const lastWeek = Date.now() - 7 * DAY;
+    const day1 = new Date(`${isoDay(lastWeek)}T18:00:00Z`).getTime();
+    const first = await phone(day1);
+    await signIn(first.page, athlete.email, athlete.password);
+    await first.page.getByRole('link', { name: "Open today's session" }).click();
+    await first.page.waitForURL(/\/portal\/plan$/);
+    await expect.poll(() => first.page.getByRole('heading', { name: "Today's session: Isometric holds" }).count()).toBe(1);
+    expect(await first.page.getByText('Stop an exercise that causes sharp or worsening pain').count()).toBe(1);
+    await fullShot(first.page, 'plans-portal-today-phone.png');
+    await tickAllSets(first.page);
+    await first.page.getByRole('radio', { name: 'Pain during 2 out of 10' }).click();
+    await first.page.getByLabel('Note (optional)').fill('Felt steady, a little tight at the end.');
+    await first.page.getByRole('button', { name: 'Save session' }).click();
+    await expect.poll(async () => (await logs()).length).toBe(1);
+    const [one] = await logs();
+    expect(one).toMatchObject({ session_date: isoDay(day1), pain_during: 2, note: 'Felt steady, a little tight at the end.' });
+    expect(JSON.parse(one.sets).map((s: { setsDone: number; setsPrescribed: number }) => s.setsDone === s.setsPrescribed)).toEqual([true, true]);
+    await expect.poll(() => first.page.getByRole('list').filter({ hasText: 'During 2/10' }).count()).toBeGreaterThan(0);
+
+    // Next morning: the one-tap check.
+    await first.page.clock.setFixedTime(new Date(day1 + 13 * 3_600_000));
+    await first.page.reload();
+    await expect.poll(() => first.page.getByRole('heading', { name: 'Morning check' }).count()).toBe(1);
+    await fullShot(first.page, 'plans-portal-morning-check-phone.png');
+    await first.page.getByRole('button', { name: 'Morning pain 1 out of 10' }).click();
+    await expect.poll(async () => (await logs())[0].morning_pain).toBe(1);
+    await fullShot(first.page, 'plans-portal-morning-answered-phone.png');
+    expect(first.problems).toEqual([]);
+    await first.context.close();
+  });
+
+  it('a session saved offline is kept, then sent once despite a lost answer (idempotency key)', async () => {
+    const { page, context, problems } = await phone();
+    await signIn(page, athlete.email, athlete.password);
+    await page.goto(`${h.baseUrl}/portal/plan`);
+    await expect.poll(() => page.getByRole('button', { name: 'Save session' }).count()).toBe(1);
+    await context.setOffline(true);
+    await tickAllSets(page);
+    await page.getByRole('radio', { name: 'Pain during 6 out of 10' }).click();
+    await page.getByLabel('Note (optional)').fill('Sharp twinge on the hill repeats yesterday.');
+    await page.getByRole('button', { name: 'Save session' }).click();
+    await expect.poll(() => page.getByText('1 entry waiting to send.').count()).toBe(1);
+    expect(await page.getByText('Waiting to send', { exact: true }).count()).toBe(1);
+    const stored = await page.evaluate(() => Object.entries(localStorage).filter(([k]) => k.startsWith('trailframe.log-outbox')).map(([, v]) => JSON.parse(v) as unknown[]));
+    expect(stored.flat()).toHaveLength(1);
+    await fullShot(page, 'plans-portal-offline-phone.png');
+    expect(await logs()).toHaveLength(1);
+
+    // Back online, the server stores the session but its answer is lost on the way back.
+    let dropped = 0;
+    await page.route('**/api/plans/*/logs', async (route) => {
+      if (route.request().method() === 'POST' && dropped === 0) {
+        dropped++;
+        await route.fetch();
+        await route.abort('failed');
+        return;
+      }
+      await route.continue();
+    });
+    await context.setOffline(false);
+    await expect.poll(() => dropped, { timeout: 20_000 }).toBe(1);
+    await expect.poll(() => page.getByText('waiting to send', { exact: false }).count(), { timeout: 30_000 }).toBe(0);
+    const all = await logs();
+    expect(all).toHaveLength(2);
+    expect(all[1]).toMatchObject({ pain_during: 6, session_date: isoDay(Date.now()) });
+    expect(new Set(all.map((l) => l.idempotency_key)).size).toBe(2);
+    await expect.poll(() => page.getByText('During 6/10').count()).toBe(1);
+    await fullShot(page, 'plans-portal-history-phone.png');
+    expect(problems.filter((p) => !networkNoise(p))).toEqual([]);
+    await context.close();
+  });
+
+  it('the coach sees the alert on the roster and profile, adherence and the pain chart on the plan', async () => {
+    const { page, context, problems } = await h.newPage();
+    await signIn(page, coach.email, coach.password);
+    await page.waitForURL(/\/athletes$/);
+    const adaRow = page.getByRole('row').filter({ hasText: 'Ada Kestrel' });
+    await expect.poll(() => adaRow.getByRole('link', { name: /Plan alert/ }).count()).toBe(1);
+    expect(await adaRow.getByRole('link', { name: /Plan alert/ }).textContent()).toContain('Above limit +1');
+    await fullShot(page, 'plans-roster-alert.png');
+
+    await page.goto(`${h.baseUrl}/athletes/${adaId}`);
+    await expect.poll(() => page.getByRole('alert').filter({ hasText: 'Plan alerts' }).count()).toBe(1);
+    await page.getByRole('tab', { name: 'Plan' }).click();
+    await expect.poll(() => page.getByRole('list', { name: 'Plans, newest first' }).getByRole('link').count()).toBe(1);
+    await fullShot(page, 'plans-profile-alert.png');
+
+    await page.goto(`${h.baseUrl}/plans/${planId}`);
+    const alerts = page.getByRole('alert').filter({ hasText: 'Pain alerts' });
+    await expect.poll(() => alerts.count()).toBe(1);
+    expect(await alerts.textContent()).toContain('the plan allows up to 5/10');
+    expect(await alerts.textContent()).toContain('rose week over week');
+    const adherence = page.getByRole('table').filter({ hasText: 'Week of' });
+    await expect.poll(() => adherence.getByRole('row').count()).toBeGreaterThanOrEqual(3);
+    const adherenceText = await adherence.textContent();
+    expect(adherenceText).toMatch(/1 of \d/);
+    const chart = page.locator('app-pain-chart canvas');
+    expect(await chart.getAttribute('aria-label')).toContain('pain during 2, 6; next morning 1, not checked');
+    expect(await chart.evaluate((c: HTMLCanvasElement) => c.width > 0 && c.height > 0)).toBe(true);
+    expect(await page.getByRole('table').filter({ hasText: 'Next morning' }).getByRole('row').count()).toBe(3);
+    await fullShot(page, 'plans-plan-progress.png');
+    expect(problems).toEqual([]);
+    await context.close();
+  });
+});
