@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { currentUser, requireRole, requireSignedIn } from '../http/access';
 import { NotFoundError } from '../errors';
-import { IdParam, parse } from '../http/validate';
+import { idParam as id, parse } from '../http/validate';
 import {
   ExerciseBody,
   ExercisePatchBody,
@@ -20,12 +20,6 @@ import type { PlansService } from './plans-service';
 export function plansRoutes({ exercises, plans }: { exercises: ExercisesService; plans: PlansService }): Router {
   const router = Router();
   const staff = requireRole('owner', 'coach');
-  const id = (params: unknown, what: string) => {
-    const r = IdParam.safeParse(params);
-    if (!r.success) throw new NotFoundError(what);
-    return r.data.id;
-  };
-
   // ── Exercise library (clinic staff) ──
   router.get('/exercises', staff, async (req, res) => {
     const query = parse(ExerciseQueryParams, req.query, 'Query');
