@@ -13,6 +13,8 @@ export class ConfigStore {
   /** Whether demo helpers (mailbox page, demo sign-in note) are on. False until loaded. */
   readonly demoMode = computed(() => this.config()?.demoMode ?? false);
   readonly version = computed(() => this.config()?.version ?? null);
+  /** Largest clip the server accepts, bytes; null until loaded. */
+  readonly uploadMaxBytes = computed(() => this.config()?.uploadMaxBytes ?? null);
 
   /** Loads the configuration; on failure the app runs with demo helpers off. */
   async load(): Promise<void> {

@@ -27,6 +27,12 @@ function queue(...files: File[]): UploadItem[] {
 }
 
 describe('precheck', () => {
+  it('refuses a file over the server limit before sending it', () => {
+    const big = { name: 'long.mp4', size: 3 * 1024 ** 3, type: 'video/mp4' };
+    expect(precheck(big, 2 * 1024 ** 3)).toMatch(/larger than the 2\.0 GB upload limit/);
+    expect(precheck(big, null)).toBeNull();
+  });
+
   it('sends videos and files of unknown type to the server', () => {
     expect(precheck(video('run.mp4'))).toBeNull();
     expect(precheck(video('run.MOV', 10, 'video/quicktime'))).toBeNull();

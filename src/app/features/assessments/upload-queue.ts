@@ -37,8 +37,12 @@ const EXTENSIONS = UPLOAD.accept
  * and files the browser knows to be something other than video (an image, a PDF) are refused;
  * a file of unknown type goes to the server, which reads its content.
  */
-export function precheck(file: Pick<File, 'name' | 'size' | 'type'>): string | null {
+export function precheck(file: Pick<File, 'name' | 'size' | 'type'>, maxBytes: number | null = null): string | null {
   if (file.size === 0) return 'This file is empty (0 bytes). Choose the video file itself.';
+  if (maxBytes !== null && file.size > maxBytes) {
+    const limit = maxBytes >= 1024 ** 3 ? `${(maxBytes / 1024 ** 3).toFixed(1)} GB` : `${Math.round(maxBytes / 1024 ** 2)} MB`;
+    return `This file is larger than the ${limit} upload limit. Trim the clip to 10–20 seconds and try again.`;
+  }
   const type = (file.type || '').toLowerCase();
   const name = file.name.toLowerCase();
   const knownExtension = EXTENSIONS.some((ext) => name.endsWith(ext));
@@ -48,14 +52,18 @@ export function precheck(file: Pick<File, 'name' | 'size' | 'type'>): string | n
   return null;
 }
 
-/** Appends the files in order, each waiting, or failed with the reason when `precheck` refuses it. */
+/**
+ * Appends the files in order, each waiting, or failed with the reason when `precheck` refuses it
+ * (`maxBytes`: the server's upload limit, when known).
+ */
 export function addFiles(
   items: readonly UploadItem[],
   files: readonly File[],
   nextId: number,
+  maxBytes: number | null = null,
 ): { items: UploadItem[]; nextId: number } {
   const added = files.map((file, i): UploadItem => {
-    const problem = precheck(file);
+    const problem = precheck(file, maxBytes);
     return {
       id: nextId + i,
       file,

@@ -16,6 +16,7 @@ import type { Clip } from '../../../../contracts/api';
 import { UPLOAD } from '../../../../contracts/assessment';
 import { AssessmentsApi } from '../assessments-api';
 import { formatBytes } from '../clip-status';
+import { ConfigStore } from '../../../core/config-store';
 import {
   UploadItem,
   UploadState,
@@ -62,6 +63,7 @@ const STATE_ICONS: Record<UploadState, string> = {
 })
 export class ClipUploader {
   private readonly api = inject(AssessmentsApi);
+  private readonly config = inject(ConfigStore);
 
   readonly assessmentId = input.required<number>();
   /** Emits each clip as soon as the server has accepted its upload. */
@@ -91,7 +93,7 @@ export class ClipUploader {
   /** Adds files to the line (also used by tests and by drops). */
   addFiles(files: readonly File[]): void {
     if (!files.length) return;
-    const result = addFiles(this.items(), files, this.nextId);
+    const result = addFiles(this.items(), files, this.nextId, this.config.uploadMaxBytes());
     this.nextId = result.nextId;
     this.items.set(result.items);
     this.pump();
