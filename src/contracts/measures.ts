@@ -3,7 +3,8 @@
  * shown by the client). Types only.
  */
 import type { GaitEventKind } from './annotations';
-import type { Side } from './assessment';
+import type { AssessmentKind, Side } from './assessment';
+import type { Assessment } from './api';
 
 /** Keys of the measures the review workspace shows. */
 export type MeasureKey =
@@ -93,4 +94,65 @@ export interface ClipMeasures {
   angles: AngleSample[];
   /** Plain-language warnings, e.g. "Fewer than 7 steps marked: means are less reliable". */
   notes: string[];
+}
+
+// ─── Re-test comparison ───────────────────────────────────────────────────────────────────
+
+/** The change a measure must exceed to be more than measurement error, with its citation. */
+export interface MeasurementErrorThreshold {
+  value: number;
+  unit: string;
+  source: string;
+  /** REFERENCES.md tag: pub (figure as published) or calc (derived from a published figure). */
+  evidence: 'pub' | 'calc';
+  /** How the figure was derived, in words (shown on hover/expand). */
+  derivation: string;
+}
+
+export type ComparisonVerdict = 'beyond_measurement_error' | 'within_measurement_error' | 'no_threshold' | 'not_measured';
+
+/** One measure and side, baseline against re-test. */
+export interface ComparisonRow {
+  key: MeasureKey;
+  side: Side | null;
+  label: string;
+  unit: string;
+  /** Mean of the visit's clip means; null when not measured. */
+  baseline: number | null;
+  retest: number | null;
+  /** Re-test − baseline; null when either is missing. */
+  change: number | null;
+  /** Null when no published threshold exists for this measure. */
+  threshold: MeasurementErrorThreshold | null;
+  verdict: ComparisonVerdict;
+}
+
+/** A ready clip of a compared visit, for the side-by-side viewer. */
+export interface ComparisonClip {
+  id: number;
+  nearSide: Side;
+  frameCount: number | null;
+}
+
+/** `GET /api/athletes/:id/comparison`. */
+export interface AssessmentComparison {
+  baseline: Assessment;
+  retest: Assessment;
+  rows: ComparisonRow[];
+  baselineClips: ComparisonClip[];
+  retestClips: ComparisonClip[];
+}
+
+/** One assessment's means for the trend chart (`GET /api/athletes/:id/measure-trends`). */
+export interface MeasureTrendPoint {
+  assessmentId: number;
+  date: string;
+  kind: AssessmentKind;
+  /** Mean per measure and side; null when not measured in this visit. */
+  values: { key: MeasureKey; side: Side | null; mean: number | null }[];
+}
+
+export interface MeasureTrends {
+  keys: MeasureKey[];
+  points: MeasureTrendPoint[];
 }

@@ -19,3 +19,4 @@ export * from './bands';
 export * from './spring-mass';
 export * from './measures';
 export * from './overlay';
+export * from './comparison';
