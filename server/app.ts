@@ -32,6 +32,8 @@ import { annotationsService } from './annotations/annotations-service';
 import { annotationsRoutes } from './annotations/annotations.routes';
 import { measuresService } from './measures/measures-service';
 import { measuresRoutes } from './measures/measures.routes';
+import { comparisonService } from './comparison/comparison-service';
+import { comparisonRoutes } from './comparison/comparison.routes';
 import { validateEvents } from '../src/kinematics';
 import { exercisesService } from './plans/exercises-service';
 import { plansService } from './plans/plans-service';
@@ -212,6 +214,7 @@ export function createApp(deps: AppDeps): App {
   api.use(clipsRoutes({ db, clips, events, store, uploadMaxBytes: config.uploadMaxBytes }));
   api.use(annotationsRoutes(annotations));
   api.use(measuresRoutes({ db, measures }));
+  api.use(comparisonRoutes(comparisonService({ db, measures })));
   api.use(plansRoutes({ exercises, plans }));
   if (config.demoMode) api.use(mailboxRoutes(db));
   api.use(apiNotFound);

@@ -129,3 +129,11 @@ export function compareMeasures(baseline: ClipMeasures[], retest: ClipMeasures[]
     };
   });
 }
+
+/** One visit's mean per measure key and side (mean of the clip means; null when not measured). */
+export function visitMeans(clips: ClipMeasures[]): { key: MeasureKey; side: Side | null; mean: number | null }[] {
+  return [...collect(clips)].map(([id, entry]) => {
+    const [key, sideText] = id.split('|') as [MeasureKey, string];
+    return { key, side: (sideText || null) as Side | null, mean: meanOf(entry.means) };
+  });
+}

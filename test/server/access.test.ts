@@ -109,6 +109,8 @@ const ROUTES: RouteCase[] = [
   { method: 'put', pattern: '/api/clips/:id/annotations', path: (c) => `/api/clips/${c.clipId}/annotations`, body: () => ({ baseRevision: 0, landmarks: [], events: [], scale: null }), before: () => resetRevision(), expect: staffWrite(200) },
   { method: 'get', pattern: '/api/clips/:id/measures', path: (c) => `/api/clips/${c.clipId}/measures`, expect: staffWrite(200) },
   { method: 'get', pattern: '/api/assessments/:id/measures', path: (c) => `/api/assessments/${c.assessmentId}/measures`, expect: staffWrite(200) },
+  { method: 'get', pattern: '/api/athletes/:id/comparison', path: (c) => `/api/athletes/${c.selfAthleteId}/comparison`, expect: staffWrite(200) },
+  { method: 'get', pattern: '/api/athletes/:id/measure-trends', path: (c) => `/api/athletes/${c.selfAthleteId}/measure-trends?keys=hip_extension_toe_off,cadence`, expect: staffWrite(200) },
   { method: 'get', pattern: '/api/reference-bands', path: () => '/api/reference-bands', expect: staffOnly(200, 200) },
   { method: 'put', pattern: '/api/reference-bands/:key', path: () => '/api/reference-bands/cadence', body: () => ({ low: 160, high: 180, unit: 'steps/min', context: 'Clinic runners', source: 'Clinic audit (internal)', evidence: 'trade' }), expect: ownerOnly(200) },
   { method: 'delete', pattern: '/api/reference-bands/:key', path: () => '/api/reference-bands/cadence', expect: ownerOnly(204) },
