@@ -1,5 +1,5 @@
 import type { SessionUser } from '../../src/contracts/api';
-import { ASSESSMENT_KIND_LABELS, type AssessmentKind, type Side } from '../../src/contracts/assessment';
+import { ASSESSMENT_KIND_LABELS, type AssessmentKind, type Direction, type Side } from '../../src/contracts/assessment';
 import type { AssessmentComparison, ComparisonClip, MeasureKey, MeasureTrends } from '../../src/contracts/measures';
 import { compareMeasures, visitMeans } from '../../src/kinematics';
 import type { Db } from '../db/knex';
@@ -11,8 +11,8 @@ import type { MeasuresService } from '../measures/measures-service';
 /** Baseline against re-test, and measure trends across an athlete's visits (staff). */
 export function comparisonService({ db, measures }: { db: Db; measures: MeasuresService }) {
   async function readyClips(assessmentId: number): Promise<ComparisonClip[]> {
-    const rows = await db('clips').where({ assessment_id: assessmentId, status: 'ready' }).orderBy('id').select<{ id: number; near_side: Side; frame_count: number | null }[]>('id', 'near_side', 'frame_count');
-    return rows.map((r) => ({ id: r.id, nearSide: r.near_side, frameCount: r.frame_count }));
+    const rows = await db('clips').where({ assessment_id: assessmentId, status: 'ready' }).orderBy('id').select<{ id: number; near_side: Side; direction: Direction; frame_count: number | null }[]>('id', 'near_side', 'direction', 'frame_count');
+    return rows.map((r) => ({ id: r.id, nearSide: r.near_side, direction: r.direction, frameCount: r.frame_count }));
   }
 
   async function pick(user: SessionUser, athleteId: number, id: number | undefined, kind: AssessmentKind, rows: AssessmentRow[]): Promise<AssessmentRow> {

@@ -3,7 +3,7 @@
  * shown by the client). Types only.
  */
 import type { GaitEventKind } from './annotations';
-import type { AssessmentKind, Side } from './assessment';
+import type { AssessmentKind, Direction, Side } from './assessment';
 import type { Assessment } from './api';
 
 /** Keys of the measures the review workspace shows. */
@@ -131,6 +131,7 @@ export interface ComparisonRow {
 export interface ComparisonClip {
   id: number;
   nearSide: Side;
+  direction: Direction;
   frameCount: number | null;
 }
 

@@ -71,7 +71,7 @@ describe('GET /api/athletes/:id/comparison', () => {
     // [pub] 2° → 4°: 2° < 3.8° (Dingenen et al. 2018 SDD, knee at midstance).
     expect(row(body, 'knee_flexion_initial_contact', 'right')).toMatchObject({ change: 2, verdict: 'within_measurement_error' });
     expect(row(body, 'cadence', null)).toMatchObject({ change: 6, threshold: null, verdict: 'no_threshold' });
-    expect(body.baselineClips).toEqual([expect.objectContaining({ nearSide: 'right', frameCount: 720 })]);
+    expect(body.baselineClips).toEqual([expect.objectContaining({ nearSide: 'right', direction: 'left_to_right', frameCount: 720 })]);
     expect(body.retestClips).toHaveLength(2);
   });
 
