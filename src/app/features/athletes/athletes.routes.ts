@@ -21,6 +21,10 @@ export default [
       import('./athlete-profile/athlete-profile').then((m) => m.AthleteProfile),
   },
   {
+    path: ':athleteId/compare',
+    loadChildren: () => import('../compare/compare.routes'),
+  },
+  {
     path: ':athleteId/assessments',
     loadChildren: () => import('../assessments/assessments.routes'),
   },

@@ -8,6 +8,8 @@ export {
   classifyFootStrike,
   computeClipMeasures,
   drawOverlay,
+  OVERLAY_COLOURS,
+  OVERLAY_SEGMENTS,
   validateEvents,
 } from '../../../kinematics';
 export type { Canvas2DLike, ClipMeasureInput, OverlayOptions } from '../../../kinematics';

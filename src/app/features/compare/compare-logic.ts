@@ -1,0 +1,94 @@
+import type { FrameLandmarks, FramePoint, GaitEventKind, GaitEventMark, LandmarkName } from '../../../contracts/annotations';
+import type { Assessment } from '../../../contracts/api';
+import type { Side } from '../../../contracts/assessment';
+import type { ComparisonRow, ComparisonVerdict, MeasureKey, MeasureTrends } from '../../../contracts/measures';
+
+/** Words of each verdict, as the table shows them. */
+export const VERDICT_TEXT: Record<ComparisonVerdict, string> = {
+  beyond_measurement_error: 'Beyond measurement error',
+  within_measurement_error: 'Within measurement error',
+  no_threshold: 'No published threshold',
+  not_measured: 'Not measured',
+};
+
+export const CAUTION_LINE = "These figures support, and do not replace, a licensed clinician's judgement.";
+
+/** The default pair: latest Re-test against latest Baseline (assessments in any order). */
+export function defaultPair(assessments: Assessment[]): { baseline: number | null; retest: number | null } {
+  const newest = [...assessments].sort((a, b) => (a.date === b.date ? b.id - a.id : a.date < b.date ? 1 : -1));
+  return {
+    baseline: newest.find((a) => a.kind === 'baseline')?.id ?? null,
+    retest: newest.find((a) => a.kind === 'retest')?.id ?? null,
+  };
+}
+
+/** Frames of one side's events of one kind, in time order. */
+export function eventFrames(events: GaitEventMark[], side: Side, kind: GaitEventKind): number[] {
+  return events.filter((e) => e.side === side && e.kind === kind).map((e) => e.frame).sort((a, b) => a - b);
+}
+
+/** The frame of step `step` (0-based), clamped to the last marked one; null when none. */
+export function frameOfStep(frames: number[], step: number): number | null {
+  if (!frames.length) return null;
+  return frames[Math.max(0, Math.min(step, frames.length - 1))]!;
+}
+
+/** The highest step both clips have (0-based); -1 when either has none. */
+export function lastCommonStep(a: number[], b: number[]): number {
+  return Math.min(a.length, b.length) - 1;
+}
+
+/** Our own keys for stepping together: [ previous, ] next. */
+export function stepKey(key: string): -1 | 1 | 0 {
+  return key === '[' ? -1 : key === ']' ? 1 : 0;
+}
+
+/** Rows (both sides) of landmarks on one frame. */
+export function landmarksAt(rows: FrameLandmarks[], frame: number): FrameLandmarks[] {
+  return rows.filter((r) => r.frame === frame);
+}
+
+/**
+ * Moves a skeleton (frame fractions) so its `side` hip lands on `target` (frame fractions); the
+ * other side moves with it. Without that hip the rows come back unchanged.
+ */
+export function alignAtHip(rows: FrameLandmarks[], side: Side, target: FramePoint | null): FrameLandmarks[] {
+  const hip = rows.find((r) => r.side === side)?.points.hip;
+  if (!hip || !target) return rows;
+  const dx = target.x - hip.x;
+  const dy = target.y - hip.y;
+  return rows.map((r) => ({
+    ...r,
+    points: Object.fromEntries(Object.entries(r.points).map(([name, p]) => [name, p ? { x: p.x + dx, y: p.y + dy } : p])) as Partial<Record<LandmarkName, FramePoint>>,
+  }));
+}
+
+/** A number with its unit, signed for changes: "+7.0°", "−2.0 steps/min", "—" when missing. */
+export function formatValue(value: number | null, unit: string, signed = false): string {
+  if (value === null || !Number.isFinite(value)) return '—';
+  const digits = unit === '°' || unit === '%' ? 1 : Math.abs(value) >= 100 ? 0 : unit === 'm' || unit === 's' ? 2 : 1;
+  const abs = Math.abs(value).toFixed(digits);
+  const sign = value < 0 ? '−' : signed && Number(abs) !== 0 ? '+' : '';
+  const text = `${sign}${abs}`;
+  return unit === '°' ? `${text}°` : unit ? `${text} ${unit}` : text;
+}
+
+/** The citation line shown on hover/expand. */
+export function citationText(row: ComparisonRow): string {
+  if (!row.threshold) return 'No published measurement-error figure for this measure.';
+  return `±${formatValue(row.threshold.value, row.threshold.unit)} — ${row.threshold.derivation} Source: ${row.threshold.source} [${row.threshold.evidence}].`;
+}
+
+export const sideText = (side: Side | null): string => (side === null ? '' : side === 'left' ? 'Left' : 'Right');
+
+/** One line per chosen key and side across the visits (null where a visit lacks it). */
+export function trendSeries(trends: MeasureTrends, keys: MeasureKey[]): { key: MeasureKey; side: Side | null; values: (number | null)[] }[] {
+  const ids = new Map<string, { key: MeasureKey; side: Side | null }>();
+  for (const p of trends.points)
+    for (const v of p.values) if (keys.includes(v.key)) ids.set(`${v.key}|${v.side ?? ''}`, { key: v.key, side: v.side });
+  return [...ids.values()].map(({ key, side }) => ({
+    key,
+    side,
+    values: trends.points.map((p) => p.values.find((v) => v.key === key && v.side === side)?.mean ?? null),
+  }));
+}

@@ -1,0 +1,263 @@
+import { DatePipe, LowerCasePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, ElementRef, computed, effect, inject, input, linkedSignal, signal, viewChild } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { FormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSelectModule } from '@angular/material/select';
+import { MatTooltipModule } from '@angular/material/tooltip';
+import { RouterLink } from '@angular/router';
+import { CategoryScale, Chart, ChartConfiguration, Legend, LineController, LineElement, LinearScale, PointElement, Tooltip } from 'chart.js';
+import { BaseChartDirective } from 'ng2-charts';
+import { forkJoin, from, map, switchMap } from 'rxjs';
+import { GAIT_EVENT_KINDS, GAIT_EVENT_LABELS, type ClipAnnotations, type FrameLandmarks, type GaitEventKind } from '../../../../contracts/annotations';
+import type { Assessment } from '../../../../contracts/api';
+import { ASSESSMENT_KIND_LABELS, SIDES, type Side } from '../../../../contracts/assessment';
+import type { ComparisonClip, ComparisonRow, MeasureKey } from '../../../../contracts/measures';
+import { errorMessage } from '../../../core/api-error';
+import { EmptyState } from '../../../shared/states/empty-state';
+import { ErrorState } from '../../../shared/states/error-state';
+import { AssessmentsApi } from '../../assessments/assessments-api';
+import { ClipManifest, ReviewApi } from '../../review/review-api';
+import { OVERLAY_COLOURS, OVERLAY_SEGMENTS, drawOverlay } from '../../review/kinematics-adapter';
+import { CompareApi } from '../compare-api';
+import { CAUTION_LINE, VERDICT_TEXT, alignAtHip, citationText, defaultPair, eventFrames, formatValue, frameOfStep, landmarksAt, lastCommonStep, sideText, stepKey, trendSeries } from '../compare-logic';
+
+// Only the chart.js parts this line chart uses.
+Chart.register(LineController, LineElement, PointElement, LinearScale, CategoryScale, Tooltip, Legend);
+
+interface LoadedClip {
+  clip: ComparisonClip;
+  manifest: ClipManifest;
+  annotations: ClipAnnotations;
+}
+
+interface ShownFrame {
+  loaded: LoadedClip;
+  frame: number;
+  bitmap: ImageBitmap;
+}
+
+const TREND_COLOURS = ['#1f5f4a', '#E08A1E', '#7B4FD6', '#3E4C59', '#b23a48', '#2f6fb0'];
+
+/**
+ * `/athletes/:athleteId/compare` (staff): two visits side by side at the same gait event, or both
+ * skeletons on one frame aligned at the hip; every measure with its change and whether the change
+ * is beyond the published measurement error; trends across all visits.
+ */
+@Component({
+  selector: 'app-compare-page',
+  imports: [DatePipe, LowerCasePipe, FormsModule, RouterLink, BaseChartDirective, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatIconModule, MatProgressBarModule, MatSelectModule, MatTooltipModule, EmptyState, ErrorState],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  templateUrl: './compare-page.html',
+  styleUrl: './compare-page.scss',
+  host: { '(document:keydown)': 'onKey($event)' },
+})
+export class ComparePage {
+  private readonly api = inject(CompareApi);
+  private readonly assessmentsApi = inject(AssessmentsApi);
+  private readonly reviewApi = inject(ReviewApi);
+
+  readonly athleteId = input.required<string>();
+  protected readonly id = computed(() => Number(this.athleteId()));
+
+  protected readonly kindLabels = ASSESSMENT_KIND_LABELS;
+  protected readonly eventKinds = GAIT_EVENT_KINDS;
+  protected readonly eventLabels = GAIT_EVENT_LABELS;
+  protected readonly sides = SIDES;
+  protected readonly sideText = sideText;
+  protected readonly verdictText = VERDICT_TEXT;
+  protected readonly citationText = citationText;
+  protected readonly formatValue = formatValue;
+  protected readonly errorMessage = errorMessage;
+  protected readonly caution = CAUTION_LINE;
+
+  protected readonly assessments = rxResource({
+    params: () => this.id(),
+    stream: ({ params }) => this.assessmentsApi.list(params),
+  });
+  private readonly list = computed<Assessment[]>(() => (this.assessments.hasValue() ? this.assessments.value() : []));
+  protected readonly baselineId = linkedSignal(() => defaultPair(this.list()).baseline);
+  protected readonly retestId = linkedSignal(() => defaultPair(this.list()).retest);
+
+  protected readonly comparison = rxResource({
+    params: () => (this.assessments.hasValue() && this.list().length >= 2 && this.baselineId() !== null && this.retestId() !== null ? { athlete: this.id(), baseline: this.baselineId()!, retest: this.retestId()! } : undefined),
+    stream: ({ params }) => this.api.comparison(params.athlete, params.baseline, params.retest),
+  });
+  protected readonly rows = computed<ComparisonRow[]>(() => (this.comparison.hasValue() ? this.comparison.value().rows : []));
+
+  // ── Viewer ──
+  protected readonly side = signal<Side>('right');
+  protected readonly eventKind = signal<GaitEventKind>('initial_contact');
+  protected readonly step = signal(0);
+  protected readonly mode = signal<'side_by_side' | 'overlay'>('side_by_side');
+
+  private pickClip(clips: ComparisonClip[] | undefined): ComparisonClip | null {
+    if (!clips?.length) return null;
+    return clips.find((c) => c.nearSide === this.side()) ?? clips[0]!;
+  }
+  private readonly baselineClip = computed(() => this.pickClip(this.comparison.value()?.baselineClips));
+  private readonly retestClip = computed(() => this.pickClip(this.comparison.value()?.retestClips));
+
+  private loadClip(clip: ComparisonClip) {
+    return forkJoin({ manifest: this.reviewApi.manifest(clip.id), annotations: this.reviewApi.annotations(clip.id) }).pipe(map((r): LoadedClip => ({ clip, ...r })));
+  }
+  protected readonly baselineLoaded = rxResource({ params: () => this.baselineClip() ?? undefined, stream: ({ params }) => this.loadClip(params) });
+  protected readonly retestLoaded = rxResource({ params: () => this.retestClip() ?? undefined, stream: ({ params }) => this.loadClip(params) });
+
+  private framesOf(loaded: LoadedClip | undefined): number[] {
+    return loaded ? eventFrames(loaded.annotations.events, this.side(), this.eventKind()) : [];
+  }
+  protected readonly baselineFrames = computed(() => this.framesOf(this.baselineLoaded.value()));
+  protected readonly retestFrames = computed(() => this.framesOf(this.retestLoaded.value()));
+  protected readonly lastStep = computed(() => lastCommonStep(this.baselineFrames(), this.retestFrames()));
+
+  private loadFrame(loaded: LoadedClip | undefined, frames: number[]) {
+    const frame = frameOfStep(frames, this.step());
+    return loaded && frame !== null ? { loaded, frame } : undefined;
+  }
+  private readonly frameStream = ({ params }: { params: { loaded: LoadedClip; frame: number } }) =>
+    this.reviewApi.frame(params.loaded.clip.id, params.frame).pipe(
+      switchMap((blob) => from(createImageBitmap(blob))),
+      map((bitmap): ShownFrame => ({ ...params, bitmap })),
+    );
+  protected readonly baselineFrame = rxResource({ params: () => this.loadFrame(this.baselineLoaded.value(), this.baselineFrames()), stream: this.frameStream });
+  protected readonly retestFrame = rxResource({ params: () => this.loadFrame(this.retestLoaded.value(), this.retestFrames()), stream: this.frameStream });
+
+  private readonly baselineCanvas = viewChild<ElementRef<HTMLCanvasElement>>('baselineCanvas');
+  private readonly retestCanvas = viewChild<ElementRef<HTMLCanvasElement>>('retestCanvas');
+  private readonly overlayCanvas = viewChild<ElementRef<HTMLCanvasElement>>('overlayCanvas');
+
+  // ── Trends ──
+  protected readonly trendKeys = signal<MeasureKey[]>(['hip_extension_toe_off']);
+  protected readonly measureChoices = computed(() => {
+    const seen = new Map<MeasureKey, string>();
+    for (const r of this.rows()) if (!seen.has(r.key)) seen.set(r.key, r.label);
+    return [...seen].map(([key, label]) => ({ key, label }));
+  });
+  protected readonly trends = rxResource({
+    params: () => (this.trendKeys().length && this.list().length ? { athlete: this.id(), keys: this.trendKeys() } : undefined),
+    stream: ({ params }) => this.api.trends(params.athlete, params.keys),
+  });
+  protected readonly trendData = computed<ChartConfiguration<'line', (number | null)[]>['data']>(() => {
+    const t = this.trends.value();
+    if (!t) return { labels: [], datasets: [] };
+    const labelOf = new Map(this.measureChoices().map((c) => [c.key, c.label]));
+    return {
+      labels: t.points.map((p) => `${p.date} · ${ASSESSMENT_KIND_LABELS[p.kind]}`),
+      datasets: trendSeries(t, this.trendKeys()).map((s, i) => ({
+        label: `${labelOf.get(s.key) ?? s.key}${s.side ? ` (${sideText(s.side).toLowerCase()})` : ''}`,
+        data: s.values,
+        borderColor: TREND_COLOURS[i % TREND_COLOURS.length],
+        backgroundColor: TREND_COLOURS[i % TREND_COLOURS.length],
+        spanGaps: true,
+        tension: 0,
+      })),
+    };
+  });
+  protected readonly trendOptions: ChartConfiguration<'line'>['options'] = {
+    responsive: true,
+    maintainAspectRatio: false,
+    animation: false,
+    plugins: { legend: { position: 'bottom' } },
+  };
+
+  constructor() {
+    effect(() => {
+      const mode = this.mode();
+      const base = this.baselineFrame.value();
+      const re = this.retestFrame.value();
+      if (mode === 'side_by_side') {
+        const bc = this.baselineCanvas()?.nativeElement;
+        const rc = this.retestCanvas()?.nativeElement;
+        if (bc) this.draw(bc, base, null);
+        if (rc) this.draw(rc, re, null);
+      } else {
+        const oc = this.overlayCanvas()?.nativeElement;
+        if (oc) this.draw(oc, re, base);
+      }
+    });
+  }
+
+  /** Draws a frame and its skeleton; with `ghost`, the other visit's skeleton aligned at the hip. */
+  private draw(canvas: HTMLCanvasElement, shown: ShownFrame | undefined, ghost: ShownFrame | undefined | null): void {
+    const ctx = canvas.getContext('2d');
+    if (!ctx) return;
+    if (!shown) {
+      ctx.clearRect(0, 0, canvas.width, canvas.height);
+      return;
+    }
+    const size = { width: shown.loaded.manifest.width, height: shown.loaded.manifest.height };
+    canvas.width = size.width;
+    canvas.height = size.height;
+    ctx.drawImage(shown.bitmap, 0, 0, size.width, size.height);
+    const rows = landmarksAt(shown.loaded.annotations.landmarks, shown.frame);
+    if (ghost) {
+      const target = rows.find((r) => r.side === this.side())?.points.hip ?? null;
+      this.drawGhost(ctx, alignAtHip(landmarksAt(ghost.loaded.annotations.landmarks, ghost.frame), this.side(), target), size);
+    }
+    drawOverlay(ctx, { frameSize: size, landmarks: rows, nearSide: shown.loaded.clip.nearSide, direction: shown.loaded.clip.direction, showAngles: true });
+  }
+
+  /** The baseline skeleton, dashed and lighter, under the re-test's. */
+  private drawGhost(ctx: CanvasRenderingContext2D, rows: FrameLandmarks[], size: { width: number; height: number }): void {
+    ctx.save();
+    ctx.globalAlpha = 0.6;
+    ctx.lineWidth = Math.max(1.5, Math.min(size.width, size.height) * 0.004);
+    ctx.setLineDash([8, 6]);
+    ctx.lineCap = 'round';
+    for (const row of rows) {
+      for (const s of OVERLAY_SEGMENTS) {
+        const a = row.points[s.from];
+        const b = row.points[s.to];
+        if (!a || !b) continue;
+        ctx.strokeStyle = s.trunk ? '#d9dee3' : OVERLAY_COLOURS[row.side];
+        ctx.beginPath();
+        ctx.moveTo(a.x * size.width, a.y * size.height);
+        ctx.lineTo(b.x * size.width, b.y * size.height);
+        ctx.stroke();
+      }
+    }
+    ctx.restore();
+  }
+
+  protected move(delta: number): void {
+    const last = this.lastStep();
+    if (last < 0) return;
+    this.step.set(Math.max(0, Math.min(last, this.step() + delta)));
+  }
+
+  protected onKey(event: KeyboardEvent): void {
+    const target = event.target as HTMLElement | null;
+    if (target?.closest('input, textarea, select, mat-select, [contenteditable="true"]')) return;
+    const delta = stepKey(event.key);
+    if (!delta) return;
+    event.preventDefault();
+    this.move(delta);
+  }
+
+  protected setSide(side: Side): void {
+    this.side.set(side);
+    this.step.set(0);
+  }
+
+  protected setEventKind(kind: GaitEventKind): void {
+    this.eventKind.set(kind);
+    this.step.set(0);
+  }
+
+  protected assessmentLabel(a: Assessment): string {
+    return `${a.date} · ${ASSESSMENT_KIND_LABELS[a.kind]}`;
+  }
+
+  protected rowLabel(r: ComparisonRow): string {
+    return r.side ? `${r.label} (${sideText(r.side).toLowerCase()})` : r.label;
+  }
+
+  protected verdictClass(r: ComparisonRow): string {
+    return `verdict verdict-${r.verdict.replaceAll('_', '-')}`;
+  }
+}

@@ -1,0 +1,10 @@
+import { Routes } from '@angular/router';
+
+/** `/athletes/:athleteId/compare` (owner and coach). */
+export default [
+  {
+    path: '',
+    title: 'Compare visits · Trailframe',
+    loadComponent: () => import('./compare-page/compare-page').then((m) => m.ComparePage),
+  },
+] satisfies Routes;
