@@ -1,0 +1,112 @@
+/**
+ * Compare visits in Debian chromium: two synthetic runner clips (a test fixture with known joint
+ * angles — not a published source; ~4° and ~11° hip extension at toe-off) marked on every frame
+ * through the API, one on the Baseline and one on the Re-test. The coach opens "Compare visits",
+ * sees both frames at the same initial contact, steps with ] and [, switches to the overlay, reads
+ * the hip-extension change as beyond measurement error ([calc] half of Damsted et al. 2015's 11°
+ * hip width = 5.5°) and sees the trend chart and the caution line.
+ */
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { SCREENSHOTS, startHarness, type Harness } from './harness';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { Client } from '../support/test-app';
+import { tempDir } from '../server/media/fixtures';
+import { generateRunnerClip } from '../../scripts/demo-clip/clip';
+import type { FrameLandmarks, GaitEventMark } from '../../src/contracts/annotations';
+
+const [, coach, , athlete] = DEMO_SIGN_INS;
+let h: Harness;
+let dir: { dir: string; cleanup: () => Promise<void> };
+let athleteId = 0;
+
+async function markedClip(api: Client, assessmentId: number, name: string, hipExtensionDeg: number): Promise<void> {
+  const file = path.join(dir.dir, name);
+  const truth = await generateRunnerClip({ fps: 60, width: 640, height: 360, seconds: 2, hipExtensionDeg, facing: 'right', beltSpeedMps: 3, outFile: file, preset: 'ultrafast' });
+  const up = await api.agent.post(`/api/assessments/${assessmentId}/clips`).set('X-XSRF-TOKEN', await api.xsrf()).attach('file', file);
+  const clipId = up.body.id as number;
+  for (let i = 0; ; i++) {
+    const clip = (await api.get(`/api/clips/${clipId}`)).body;
+    if (clip.status === 'ready') break;
+    if (clip.status === 'failed' || i > 300) throw new Error(`clip ${clip.status}: ${clip.error}`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  const near = truth.nearSide;
+  const far: 'left' | 'right' = near === 'right' ? 'left' : 'right';
+  const landmarks: FrameLandmarks[] = truth.frames.flatMap((f) => [
+    { frame: f.index, side: near, points: f.landmarksNormalised.near },
+    { frame: f.index, side: far, points: f.landmarksNormalised.far },
+  ]);
+  const events: GaitEventMark[] = [
+    ...truth.events.near.initialContact.map((frame) => ({ frame, side: near, kind: 'initial_contact' as const })),
+    ...truth.events.near.toeOff.map((frame) => ({ frame, side: near, kind: 'toe_off' as const })),
+    ...truth.events.far.initialContact.map((frame) => ({ frame, side: far, kind: 'initial_contact' as const })),
+    ...truth.events.far.toeOff.map((frame) => ({ frame, side: far, kind: 'toe_off' as const })),
+  ];
+  await api.patch(`/api/clips/${clipId}`, { nearSide: near, direction: 'left_to_right' });
+  const res = await api.put(`/api/clips/${clipId}/annotations`, { baseRevision: 0, landmarks, events, scale: null });
+  if (res.status !== 200) throw new Error(`annotations: ${res.status} ${JSON.stringify(res.body).slice(0, 300)}`);
+}
+
+beforeAll(async () => {
+  h = await startHarness();
+  dir = await tempDir('e2e-compare');
+  const api = new Client(h.baseUrl);
+  await api.signIn(coach.email, coach.password);
+  const ada = await h.server.db('athletes').where({ email: athlete.email }).first();
+  athleteId = ada.id;
+  const visits = await h.server.db('assessments').where({ athlete_id: ada.id });
+  await markedClip(api, visits.find((v) => v.kind === 'baseline').id, 'baseline.mp4', 4);
+  await markedClip(api, visits.find((v) => v.kind === 'retest').id, 'retest.mp4', 11);
+}, 240_000);
+afterAll(async () => {
+  await h?.close();
+  await dir?.cleanup();
+});
+
+/** Whether the canvas has anything drawn beyond one flat colour. */
+const drawn = (selector: string) => async (page: import('playwright-core').Page) =>
+  page.locator(selector).evaluate((c: HTMLCanvasElement) => {
+    const ctx = c.getContext('2d');
+    if (!ctx || !c.width) return false;
+    const d = ctx.getImageData(0, 0, c.width, c.height).data;
+    const first = d[0];
+    for (let i = 0; i < d.length; i += 4 * 97) if (d[i] !== first) return true;
+    return false;
+  });
+
+describe('compare visits', () => {
+  it('shows both visits at the same event, steps together, overlays, and judges the change', async () => {
+    const { page, context, problems } = await h.newPage();
+    await page.goto(`${h.baseUrl}/sign-in`);
+    await page.getByLabel('E-mail').fill(coach.email);
+    await page.getByLabel('Password', { exact: true }).fill(coach.password);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.waitForURL(/\/athletes$/);
+    await page.goto(`${h.baseUrl}/athletes/${athleteId}`);
+    await page.getByRole('tab', { name: 'Assessments' }).click();
+    await page.getByRole('link', { name: 'Compare visits' }).click();
+    await page.waitForURL(/compare$/);
+
+    await expect.poll(() => page.getByText("These figures support, and do not replace, a licensed clinician's judgement.").count()).toBe(1);
+    const hipRow = page.locator('tr', { hasText: 'Hip extension at toe-off (thigh from vertical) (right)' });
+    await expect.poll(() => hipRow.textContent(), { timeout: 20_000 }).toContain('Beyond measurement error');
+    await expect.poll(() => drawn('canvas[aria-label="Baseline frame with skeleton"]')(page), { timeout: 20_000 }).toBe(true);
+    await expect.poll(() => drawn('canvas[aria-label="Re-test frame with skeleton"]')(page), { timeout: 20_000 }).toBe(true);
+    const stepText = () => page.getByText(/^Step \d+ of \d+$/).textContent();
+    expect(await stepText()).toMatch(/^Step 1 of [2-9]/);
+    await page.locator('body').click({ position: { x: 5, y: 5 } });
+    await page.keyboard.press(']');
+    await expect.poll(stepText).toMatch(/^Step 2 of/);
+    await page.keyboard.press('[');
+    await expect.poll(stepText).toMatch(/^Step 1 of/);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'compare-side-by-side.png'), fullPage: true });
+
+    await page.getByRole('radio', { name: 'Overlay' }).or(page.getByRole('button', { name: 'Overlay' })).first().click();
+    await expect.poll(() => drawn('canvas[aria-label="Re-test frame with both skeletons"]')(page), { timeout: 20_000 }).toBe(true);
+    await expect.poll(() => page.locator('canvas[basechart]').count()).toBe(1);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'compare-overlay.png'), fullPage: true });
+    expect(problems).toEqual([]);
+    await context.close();
+  });
+});
