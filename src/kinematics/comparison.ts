@@ -6,8 +6,8 @@
 import type { Side } from '../contracts/assessment';
 import type { ClipMeasures, ComparisonRow, ComparisonVerdict, MeasureKey, MeasurementErrorThreshold } from '../contracts/measures';
 
-const DINGENEN = 'Dingenen et al. 2018, 2D video running analysis, smallest detectable differences';
-const DAMSTED = 'Damsted et al. 2015, between-day 2D running kinematics, 95 % prediction intervals';
+const DINGENEN = 'Dingenen et al. 2018, Phys Ther Sport 33:40–47, smallest detectable differences (mean of ≥ 7 steps)';
+const DAMSTED = 'Damsted et al. 2015, Int J Sports Phys Ther 10:147–154, between-day 95 % prediction-interval widths';
 
 /** Thresholds of change beyond measurement error, per measure; measures not listed have none. */
 export const MEASUREMENT_ERROR: Partial<Record<MeasureKey, MeasurementErrorThreshold>> = {

@@ -4,7 +4,7 @@ import { Routes } from '@angular/router';
 export default [
   {
     path: '',
-    title: 'Compare visits · Trailframe',
+    title: 'Re-test comparison · Trailframe',
     loadComponent: () => import('./compare-page/compare-page').then((m) => m.ComparePage),
   },
 ] satisfies Routes;
