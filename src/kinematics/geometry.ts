@@ -151,7 +151,9 @@ export function metresPerPixel(scale: ScaleBar | null | undefined, frameSize: Fr
   if (!scale) return null;
   const px = scaleBarPixelLength(scale, frameSize, pixelAspect);
   if (!(px > 0) || !(scale.lengthM > 0) || !Number.isFinite(px) || !Number.isFinite(scale.lengthM)) return null;
-  return scale.lengthM / px;
+  // A bar a hair long (e.g. 1e-320 px) would give Infinity metres per pixel: no usable scale.
+  const mpp = scale.lengthM / px;
+  return Number.isFinite(mpp) ? mpp : null;
 }
 
 /**

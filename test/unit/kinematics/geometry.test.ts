@@ -85,6 +85,8 @@ describe('scale bar', () => {
     expect(metresPerPixel({ ...SCALE_1M_400PX, b: SCALE_1M_400PX.a }, size)).toBeNull();
     expect(metresPerPixel({ ...SCALE_1M_400PX, lengthM: 0 }, size)).toBeNull();
     expect(metresPerPixel({ ...SCALE_1M_400PX, lengthM: Number.NaN }, size)).toBeNull();
+    // A bar a hair long: 1 m over ~1e-316 px would be Infinity m/px (found by the fast-check property in measures.test.ts).
+    expect(metresPerPixel({ frame: 0, a: { x: 0, y: 0 }, b: { x: 1e-320, y: 0 }, lengthM: 1 }, size)).toBeNull();
   });
 });
 
