@@ -1,0 +1,41 @@
+import { createRequire } from 'node:module';
+import path from 'node:path';
+import { GlobalFonts } from '@napi-rs/canvas';
+
+/**
+ * The shipped Source Sans 3 faces (from @fontsource/source-sans-3, the same files the web app
+ * serves), for server-side rendering: @napi-rs/canvas stills and pdfkit documents. Never a system
+ * or CDN font, so a still or PDF looks the same on every machine.
+ */
+const require = createRequire(import.meta.url);
+const filesDir = path.join(path.dirname(require.resolve('@fontsource/source-sans-3/package.json')), 'files');
+
+/** Latin subset, WOFF: both fontkit (pdfkit) and Skia (@napi-rs/canvas) read it. */
+function face(weight: 400 | 600 | 700, style: 'normal' | 'italic' = 'normal'): string {
+  return path.join(filesDir, `source-sans-3-latin-${weight}-${style}.woff`);
+}
+
+/** Font files by role, for pdfkit's `doc.registerFont(name, file)`. */
+export const FONT_FILES = {
+  regular: face(400),
+  semibold: face(600),
+  bold: face(700),
+  italic: face(400, 'italic'),
+} as const;
+
+/** The CSS family name the overlay asks for (matches `DEFAULT_OVERLAY_FONT`). */
+export const CANVAS_FONT_FAMILY = 'Source Sans 3';
+
+let registered = false;
+
+/** Registers the Source Sans 3 faces with @napi-rs/canvas once per process. */
+export function registerCanvasFonts(): void {
+  if (registered) return;
+  for (const file of Object.values(FONT_FILES)) GlobalFonts.registerFromPath(file, CANVAS_FONT_FAMILY);
+  registered = true;
+}
+
+/** Registers the faces on a pdfkit document as `regular`, `semibold`, `bold`, `italic`. */
+export function registerPdfFonts(doc: { registerFont(name: string, src: string): unknown }): void {
+  for (const [name, file] of Object.entries(FONT_FILES)) doc.registerFont(name, file);
+}
