@@ -88,12 +88,18 @@ describe('focus that keeps keys', () => {
     expect(keyAction(key('ArrowLeft', { target: { tagName: 'BUTTON', role: 'radio' } }))).toBeNull();
     expect(keyAction(key('i', { target: { tagName: 'BUTTON', role: 'radio' } }))).toEqual({ type: 'mark', kind: 'initial_contact' });
   });
+
+  it('K keeps the frame as a still, but not with Ctrl (the browser keeps that)', () => {
+    expect(keyAction(key('k'))).toEqual({ type: 'save-still' });
+    expect(keyAction(key('K', { shiftKey: true }))).toEqual({ type: 'save-still' });
+    expect(keyAction(key('k', { ctrlKey: true }))).toBeNull();
+  });
 });
 
 describe('KEY_HELP', () => {
   it('lists every group with rows, and each documented single key does something', () => {
     expect(KEY_HELP.map((g) => g.title)).toEqual(['Frames', 'Marking', 'Tools and view']);
-    const singles = ['[', ']', ',', '.', 'S', 'I', 'M', 'O', 'C', 'L', 'P', 'B', 'F', 'A', '?'];
+    const singles = ['[', ']', ',', '.', 'S', 'I', 'M', 'O', 'C', 'L', 'P', 'B', 'F', 'A', 'K', '?'];
     const listed = KEY_HELP.flatMap((g) => g.rows.flatMap((r) => r.keys));
     for (const k of singles) {
       expect(listed).toContain(k);

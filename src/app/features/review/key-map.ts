@@ -25,6 +25,7 @@ export type ReviewAction =
   | { type: 'redo' }
   | { type: 'escape' }
   | { type: 'tool'; tool: ReviewTool }
+  | { type: 'save-still' }
   | { type: 'help' };
 
 /** What a key handler needs to know about the event. */
@@ -84,6 +85,7 @@ export const KEY_HELP: KeyHelpGroup[] = [
       { keys: ['+', '−'], does: 'Zoom in / out' },
       { keys: ['F'], does: 'Fit the frame to the view' },
       { keys: ['A'], does: 'Show or hide angle labels' },
+      { keys: ['K'], does: 'Keep this frame as a still to share (opens Save still)' },
       { keys: ['?'], does: 'This list' },
     ],
   },
@@ -191,6 +193,8 @@ export function keyAction(input: KeyInput): ReviewAction | null {
       return { type: 'tool', tool: 'pan' };
     case 'b':
       return { type: 'tool', tool: 'scale' };
+    case 'k':
+      return { type: 'save-still' };
   }
   return null;
 }

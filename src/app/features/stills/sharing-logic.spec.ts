@@ -4,6 +4,7 @@ import { CAPTION_MAX } from '../../../contracts/sharing';
 import {
   anyRendering,
   baselineChoices,
+  defaultBaseline,
   downloadUrl,
   nextAssessment,
   panelText,
@@ -184,5 +185,21 @@ describe('summaryStateText and downloadUrl', () => {
   it('adds download=1', () => {
     expect(downloadUrl('/api/summaries/4/pdf')).toBe('/api/summaries/4/pdf?download=1');
     expect(downloadUrl('/api/summaries/4/pdf?v=2')).toBe('/api/summaries/4/pdf?v=2&download=1');
+  });
+});
+
+describe('defaultBaseline', () => {
+  const visits = [
+    { id: 30, date: '2027-01-10', kind: 'retest' },
+    { id: 20, date: '2026-12-01', kind: 'retest' },
+    { id: 10, date: '2026-10-06', kind: 'baseline' },
+  ];
+  it('compares a Re-test with the latest earlier Baseline', () => {
+    expect(defaultBaseline(visits, 30)).toBe(10);
+    expect(defaultBaseline(visits, 20)).toBe(10);
+  });
+  it('summarises a Baseline on its own', () => {
+    expect(defaultBaseline(visits, 10)).toBeNull();
+    expect(defaultBaseline(visits, null)).toBeNull();
   });
 });

@@ -136,3 +136,14 @@ export function summaryStateText(s: Pick<VisitSummary, 'status' | 'publishedAt' 
 export function downloadUrl(pdfUrl: string): string {
   return `${pdfUrl}${pdfUrl.includes('?') ? '&' : '?'}download=1`;
 }
+
+/** The baseline a summary of a Re-test compares with by default: the latest earlier Baseline; none for a Baseline. */
+export function defaultBaseline<T extends { id: number; date: string; kind: string }>(assessments: readonly T[], chosenId: number | null): number | null {
+  const chosen = assessments.find((a) => a.id === chosenId);
+  if (!chosen || chosen.kind !== 'retest') return null;
+  return baselineChoices(assessments, chosenId).find((a) => a.kind === 'baseline')?.id ?? null;
+}
+
+/** The caution on the athlete's shared items (DESIGN.md, "Safety and privacy"). */
+export const SHARED_CAUTION =
+  'Your coach\u2019s notes and figures support, and do not replace, the judgement of your licensed clinician. Stop an exercise that causes sharp or worsening pain and contact your clinician.';

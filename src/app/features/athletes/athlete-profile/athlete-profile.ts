@@ -18,13 +18,14 @@ import { ageOn } from '../../../shared/dates';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentList } from '../../assessments/assessment-list/assessment-list';
 import { AthletePlans } from '../../plans/athlete-plans/athlete-plans';
+import { SharedPanel } from '../../stills/shared-panel/shared-panel';
 import { AthleteEditDialog } from '../athlete-edit-dialog/athlete-edit-dialog';
 import { AthleteInvitation } from '../athlete-invitation/athlete-invitation';
 import { AthletesApi } from '../athletes-api';
 import { IntakeForm } from '../intake-form/intake-form';
 import { fullName } from '../roster';
 
-const PROFILE_TABS = ['intake', 'assessments', 'plan'] as const;
+const PROFILE_TABS = ['intake', 'assessments', 'plan', 'shared'] as const;
 type ProfileTab = (typeof PROFILE_TABS)[number];
 
 /** `/athletes/:id`: who the athlete is, their account, their intake and their assessments. */
@@ -43,6 +44,7 @@ type ProfileTab = (typeof PROFILE_TABS)[number];
     IntakeForm,
     AssessmentList,
     AthletePlans,
+    SharedPanel,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './athlete-profile.html',
@@ -56,7 +58,7 @@ export class AthleteProfile implements LeaveGuarded {
 
   /** Route parameter. */
   readonly id = input.required<string>();
-  /** Query parameter `tab`: `intake` (default), `assessments` or `plan`. */
+  /** Query parameter `tab`: `intake` (default), `assessments`, `plan` or `shared`. */
   readonly tab = input<string | undefined>();
 
   protected readonly athlete = rxResource({

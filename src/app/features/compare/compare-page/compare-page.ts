@@ -9,7 +9,9 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { RouterLink } from '@angular/router';
+import { MatDialog } from '@angular/material/dialog';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { Router, RouterLink } from '@angular/router';
 import { CategoryScale, Chart, ChartConfiguration, Legend, LineController, LineElement, LinearScale, PointElement, Tooltip } from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
 import { forkJoin, from, map, switchMap } from 'rxjs';
@@ -23,6 +25,7 @@ import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentsApi } from '../../assessments/assessments-api';
 import { ClipManifest, ReviewApi } from '../../review/review-api';
 import { OVERLAY_COLOURS, OVERLAY_SEGMENTS, drawOverlay } from '../../review/kinematics-adapter';
+import { openSaveStill } from '../../stills/save-still-dialog/save-still-dialog';
 import { CompareApi } from '../compare-api';
 import { CAUTION_LINE, VERDICT_TEXT, alignAtHip, citationText, defaultPair, eventFrames, formatValue, frameOfStep, landmarksAt, lastCommonStep, sideText, stepKey, trendSeries } from '../compare-logic';
 
@@ -60,6 +63,9 @@ export class ComparePage {
   private readonly api = inject(CompareApi);
   private readonly assessmentsApi = inject(AssessmentsApi);
   private readonly reviewApi = inject(ReviewApi);
+  private readonly dialog = inject(MatDialog);
+  private readonly snackBar = inject(MatSnackBar);
+  private readonly router = inject(Router);
 
   readonly athleteId = input.required<string>();
   protected readonly id = computed(() => Number(this.athleteId()));
@@ -230,7 +236,23 @@ export class ComparePage {
     this.step.set(Math.max(0, Math.min(last, this.step() + delta)));
   }
 
+  /** "Save still of the pair": the Re-test's frame with the Baseline's beside it (baseline first). */
+  protected saveStill(): void {
+    const base = this.baselineFrame.value();
+    const re = this.retestFrame.value();
+    const cmp = this.comparison.value();
+    if (!base || !re || !cmp) return;
+    void openSaveStill({ dialog: this.dialog, snackBar: this.snackBar, router: this.router }, this.id(), {
+      clipId: re.loaded.clip.id,
+      frameIndex: re.frame,
+      pairWith: { clipId: base.loaded.clip.id, frameIndex: base.frame },
+      what: `Side by side: Baseline ${cmp.baseline.date} frame ${base.frame} and Re-test ${cmp.retest.date} frame ${re.frame} (${GAIT_EVENT_LABELS[this.eventKind()].toLowerCase()}, ${sideText(this.side()).toLowerCase()} side, step ${this.step() + 1})`,
+      showAngles: true,
+    });
+  }
+
   protected onKey(event: KeyboardEvent): void {
+    if (this.dialog.openDialogs.length) return;
     const target = event.target as HTMLElement | null;
     if (target?.closest('input, textarea, select, mat-select, [contenteditable="true"]')) return;
     const delta = stepKey(event.key);

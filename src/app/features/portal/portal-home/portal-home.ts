@@ -6,11 +6,12 @@ import { RouterLink } from '@angular/router';
 import { AuthStore } from '../../../core/auth-store';
 import { AssessmentList } from '../../assessments/assessment-list/assessment-list';
 import { PortalPlanCard } from '../../plans/portal-plan-card/portal-plan-card';
+import { PortalShared } from '../../stills/portal-shared/portal-shared';
 
 /** `/portal`: the athlete's home page. */
 @Component({
   selector: 'app-portal-home',
-  imports: [RouterLink, MatCardModule, MatButtonModule, MatIconModule, AssessmentList, PortalPlanCard],
+  imports: [RouterLink, MatCardModule, MatButtonModule, MatIconModule, AssessmentList, PortalPlanCard, PortalShared],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './portal-home.html',
   styleUrl: './portal-home.scss',

@@ -1,5 +1,5 @@
-import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, viewChild } from '@angular/core';
+import { DatePipe, formatDate } from '@angular/common';
+import { ChangeDetectionStrategy, Component, LOCALE_ID, computed, effect, inject, input, signal, viewChild } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
@@ -41,6 +41,7 @@ import { PLAYBACK_RATES, PLAYBACK_RATE_LABELS, PlaybackRate, formatMs } from '..
 import { ClipManifest, ReviewApi } from '../review-api';
 import { ReviewStore } from '../review-store';
 import { ScalePanel } from '../scale-panel/scale-panel';
+import { openSaveStill } from '../../stills/save-still-dialog/save-still-dialog';
 
 /** What the page loads before the workspace opens. */
 type Loaded =
@@ -110,6 +111,7 @@ export class ReviewPage implements LeaveGuarded {
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
   private readonly router = inject(Router);
+  private readonly locale = inject(LOCALE_ID);
 
   /** Route parameters. */
   readonly athleteId = input.required<string>();
@@ -318,10 +320,32 @@ export class ReviewPage implements LeaveGuarded {
       case 'tool':
         this.setTool(action.tool);
         break;
+      case 'save-still':
+        this.saveStill();
+        break;
       case 'help':
         this.openHelp();
         break;
     }
+  }
+
+  /** "Save still": the current frame with its overlay, drawn on the server from the saved marks. */
+  protected saveStill(): void {
+    const r = this.ready();
+    if (!r || this.dialog.openDialogs.length) return;
+    const store = this.store;
+    if (store.playing()) store.pause();
+    const unsaved = store.hasUnsaved();
+    if (unsaved) store.saveNow();
+    const frame = store.frame();
+    const when = formatDate(r.assessment.date, 'mediumDate', this.locale);
+    void openSaveStill({ dialog: this.dialog, snackBar: this.snackBar, router: this.router }, Number(this.athleteId()), {
+      clipId: r.clip.id,
+      frameIndex: frame,
+      what: `Frame ${frame} (${formatMs(store.timeMs())}) of the ${ASSESSMENT_KIND_LABELS[r.assessment.kind]} · ${when}, ${r.clip.originalName}`,
+      showAngles: store.showAngles(),
+      unsavedMarks: unsaved,
+    });
   }
 
   protected setTool(tool: ReviewTool): void {
