@@ -7,6 +7,7 @@ import { sqliteJobQueue } from '../server/jobs/job-queue';
 import { EXTRACT_JOB } from '../server/clips/clips-service';
 import { generateDemoClips } from '../scripts/demo-clip/clip';
 import { seedDemoPlans } from './demo-plans';
+import { seedDemoPrices } from './demo-prices';
 
 /**
  * The demo scenario: an invented clinic, its staff and athletes. Every person, place and e-mail
@@ -200,6 +201,7 @@ export async function seed(knex: Knex, opts: SeedOptions = {}): Promise<boolean>
       }
     }
     await seedDemoPlans(trx, clinicId, userIds[1]!);
+    await seedDemoPrices(trx, clinicId, at);
   });
   if (opts.uploadsDir) await seedDemoClips(knex, opts.uploadsDir, opts.log ?? (() => undefined));
   return true;

@@ -38,6 +38,9 @@ import { validateEvents } from '../src/kinematics';
 import { exercisesService } from './plans/exercises-service';
 import { plansService } from './plans/plans-service';
 import { plansRoutes } from './plans/plans.routes';
+import { billingService } from './billing/billing-service';
+import { billingRoutes, billingWebhookRoutes } from './billing/billing.routes';
+import { stripePayments, type Payments } from './billing/payments';
 
 /** What the app needs from outside; tests pass their own. */
 export interface AppDeps {
@@ -49,6 +52,8 @@ export interface AppDeps {
   clock?: () => Date;
   /** Media storage; defaults to local folders under `config.uploadsDir`. */
   store?: MediaStore;
+  /** Card payment; defaults to the provider's SDK per `config.payments` (null: not configured). */
+  payments?: Payments | null;
 }
 
 export interface App {
@@ -115,6 +120,16 @@ export function createApp(deps: AppDeps): App {
   );
 
   const api = express.Router();
+  const billing = billingService({
+    db,
+    mailer,
+    config,
+    logger,
+    clock,
+    payments: deps.payments !== undefined ? deps.payments : config.payments ? stripePayments(config.payments) : null,
+  });
+  // The payment webhook reads its RAW body (signature) and is CSRF-exempt: mounted before both.
+  api.use(billingWebhookRoutes(billing));
   // Annotations of a long clip can be large; every other body is small.
   const smallJson = express.json({ limit: '200kb', strict: true });
   const largeJson = express.json({ limit: '8mb', strict: true });
@@ -216,6 +231,7 @@ export function createApp(deps: AppDeps): App {
   api.use(measuresRoutes({ db, measures }));
   api.use(comparisonRoutes(comparisonService({ db, measures })));
   api.use(plansRoutes({ exercises, plans }));
+  api.use(billingRoutes(billing));
   if (config.demoMode) api.use(mailboxRoutes(db));
   api.use(apiNotFound);
 

@@ -1,5 +1,6 @@
 import path from 'node:path';
 import { z } from 'zod';
+import type { PaymentsConfig } from './billing/payments';
 
 /** Everything the server reads from the environment, parsed once at start-up. */
 export interface Config {
@@ -50,6 +51,10 @@ export interface Config {
   };
   /** Whether the in-process worker runs in this process. */
   runWorker: boolean;
+  /** The payment provider, reached through its SDK; null when not configured (card payment off). */
+  payments: PaymentsConfig | null;
+  /** Port of the local fake payment service started in demo mode (0 = any free port); null = real provider. */
+  fakePaymentsPort: number | null;
 }
 
 const bool = z
@@ -82,7 +87,16 @@ const EnvSchema = z.object({
   JOB_LEASE_SECONDS: z.coerce.number().min(1).default(30),
   JOB_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(10).default(3),
   RUN_WORKER: bool.default(true),
+  STRIPE_SECRET_KEY: z.string().min(1).optional(),
+  STRIPE_WEBHOOK_SECRET: z.string().min(1).optional(),
+  STRIPE_API_HOST: z.string().min(1).optional(),
+  STRIPE_API_PORT: z.coerce.number().int().min(1).max(65535).optional(),
+  STRIPE_API_PROTOCOL: z.enum(['http', 'https']).optional(),
+  FAKE_PAYMENTS_PORT: z.coerce.number().int().min(0).max(65535).default(12111),
 });
+
+/** Demo-only keys the local fake payment service accepts (never valid at a real provider). */
+export const FAKE_PAYMENTS_KEYS = { secretKey: 'sk_test_trailframe_fake_demo', webhookSecret: 'whsec_trailframe_fake_demo' } as const;
 
 /**
  * Reads configuration from environment variables (see README "Configuration").
@@ -134,6 +148,32 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
       pollMs: 1000,
     },
     runWorker: e.RUN_WORKER,
+    ...paymentsConfig(e),
+  };
+}
+
+/**
+ * Real keys (and optionally an endpoint) when `STRIPE_SECRET_KEY` is set; otherwise, in demo mode,
+ * the local fake payment service on `FAKE_PAYMENTS_PORT`; otherwise card payment is off.
+ */
+function paymentsConfig(e: z.output<typeof EnvSchema>): Pick<Config, 'payments' | 'fakePaymentsPort'> {
+  if (e.STRIPE_SECRET_KEY) {
+    if (!e.STRIPE_WEBHOOK_SECRET) throw new Error('Invalid configuration:\n  STRIPE_WEBHOOK_SECRET: required when STRIPE_SECRET_KEY is set');
+    return {
+      payments: {
+        secretKey: e.STRIPE_SECRET_KEY,
+        webhookSecret: e.STRIPE_WEBHOOK_SECRET,
+        apiHost: e.STRIPE_API_HOST ?? null,
+        apiPort: e.STRIPE_API_PORT ?? null,
+        apiProtocol: e.STRIPE_API_PROTOCOL ?? null,
+      },
+      fakePaymentsPort: null,
+    };
+  }
+  if (!e.DEMO_MODE) return { payments: null, fakePaymentsPort: null };
+  return {
+    payments: { ...FAKE_PAYMENTS_KEYS, apiHost: '127.0.0.1', apiPort: e.FAKE_PAYMENTS_PORT || null, apiProtocol: 'http' },
+    fakePaymentsPort: e.FAKE_PAYMENTS_PORT,
   };
 }
 

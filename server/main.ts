@@ -7,11 +7,14 @@ import { createLogger } from './logger';
 import { createApp } from './app';
 import { createSmtpMailer } from './mail/mailer';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
+import { startFakePayments, type FakePayments } from './billing/fake-payments/fake-payments';
 
 export interface RunningServer {
   url: string;
   config: Config;
   db: Db;
+  /** The local fake payment service (demo mode without real payment keys), else null. */
+  fakePayments: FakePayments | null;
   stop(): Promise<void>;
 }
 
@@ -30,22 +33,30 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
     mailConfig = { ...config.mail, host: '127.0.0.1', port: fakeSmtp.port };
   }
   const mailer = createSmtpMailer(mailConfig);
+  let fakePayments: FakePayments | null = null;
+  if (config.payments && config.fakePaymentsPort !== null) {
+    fakePayments = await startFakePayments({ port: config.fakePaymentsPort, secretKey: config.payments.secretKey, webhookSecret: config.payments.webhookSecret });
+    config = { ...config, payments: { ...config.payments, apiPort: fakePayments.port } };
+  }
   const { app, close } = createApp({ config, db, mailer, logger });
   const server: Server = await new Promise((resolve, reject) => {
     const s = app.listen(config.port, (err?: Error) => (err ? reject(err) : resolve(s)));
   });
   const address = server.address();
   const port = typeof address === 'object' && address ? address.port : config.port;
+  fakePayments?.setWebhookUrl(`http://127.0.0.1:${port}/api/billing/webhook`);
   return {
     url: `http://localhost:${port}`,
     config,
     db,
+    fakePayments,
     async stop() {
       await close();
       await new Promise<void>((resolve) => server.close(() => resolve()));
       server.closeAllConnections();
       mailer.close();
       await fakeSmtp?.close();
+      await fakePayments?.close();
       await db.destroy();
     },
   };

@@ -137,6 +137,27 @@ const ROUTES: RouteCase[] = [
   { method: 'post', pattern: '/api/plans/:id/logs', path: () => `/api/plans/${pc.planId}/logs`, body: () => logBody(), before: () => planActive(), expect: { anonymous: 401, athleteSelf: 201, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 } },
   { method: 'post', pattern: '/api/plans/:id/logs', path: () => `/api/plans/${pc.otherPlanId}/logs`, body: () => logBody(), expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 } },
   { method: 'put', pattern: '/api/plans/:id/logs/:key/morning', path: () => `/api/plans/${pc.planId}/logs/${pc.logKey}/morning`, body: () => ({ pain: 1 }), expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 } },
+  // Billing (fixtures in billingFixtures() at the end of this file). Coaches have no billing access.
+  { method: 'get', pattern: '/api/billing/settings', path: () => '/api/billing/settings', expect: ownerOnly(200) },
+  { method: 'put', pattern: '/api/billing/settings', path: () => '/api/billing/settings', body: () => ({ currency: 'EUR' }), expect: ownerOnly(200) },
+  { method: 'get', pattern: '/api/prices', path: () => '/api/prices', expect: ownerOnly(200) },
+  { method: 'post', pattern: '/api/prices', path: () => '/api/prices', body: () => priceBody, expect: ownerOnly(201) },
+  { method: 'patch', pattern: '/api/prices/:id', path: () => `/api/prices/${bc.priceId}`, body: () => ({ description: 'Walked.' }), expect: ownerOnly(200) },
+  { method: 'delete', pattern: '/api/prices/:id', path: () => `/api/prices/${bc.scratchPriceId}`, before: () => scratchPrice(), expect: ownerOnly(204) },
+  // Everyone signed in but coaches: the owner sees the clinic's, an athlete their own (possibly none).
+  { method: 'get', pattern: '/api/invoices', path: () => '/api/invoices?status=open', expect: { anonymous: 401, athleteSelf: 200, athleteOther: 200, coach: 403, coachOtherClinic: 403, owner: 200 } },
+  { method: 'post', pattern: '/api/invoices', path: () => '/api/invoices', body: (c) => invoiceBody(c.selfAthleteId), expect: ownerOnly(201) },
+  { method: 'get', pattern: '/api/invoices/:id', path: () => `/api/invoices/${bc.openInvoiceId}`, expect: billingSelf(200) },
+  { method: 'get', pattern: '/api/invoices/:id', path: () => `/api/invoices/${bc.draftInvoiceId}`, expect: { ...billingSelf(200), athleteSelf: 404 } },
+  { method: 'get', pattern: '/api/invoices/:id', path: () => `/api/invoices/${bc.otherAthleteInvoiceId}`, expect: { ...billingSelf(200), athleteSelf: 404 } },
+  { method: 'post', pattern: '/api/invoices/:id/issue', path: () => `/api/invoices/${bc.scratchInvoiceId}/issue`, before: () => scratchInvoice(), expect: ownerOnly(200) },
+  { method: 'post', pattern: '/api/invoices/:id/void', path: () => `/api/invoices/${bc.scratchInvoiceId}/void`, before: () => scratchInvoice(), expect: ownerOnly(200) },
+  { method: 'post', pattern: '/api/invoices/:id/refund', path: () => `/api/invoices/${bc.paidInvoiceId}/refund`, before: () => paidInvoice(), expect: ownerOnly(200) },
+  { method: 'post', pattern: '/api/invoices/:id/checkout', path: () => `/api/invoices/${bc.openInvoiceId}/checkout`, expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 } },
+  { method: 'post', pattern: '/api/invoices/:id/checkout', path: () => `/api/invoices/${bc.otherAthleteInvoiceId}/checkout`, expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 } },
+  { method: 'get', pattern: '/api/invoices/:id/receipt', path: () => `/api/invoices/${bc.receiptInvoiceId}/receipt`, expect: billingSelf(200) },
+  // Public but signature-checked: without a valid provider signature every caller gets 400 (and no CSRF 403).
+  { method: 'post', pattern: '/api/billing/webhook', path: () => '/api/billing/webhook', body: () => ({ id: 'evt_walk', type: 'checkout.session.completed', data: { object: {} } }), expect: all(400) },
 ];
 
 const [owner, coach, , athlete] = DEMO_SIGN_INS;
@@ -189,7 +210,7 @@ async function clientFor(app: Express, who: Who): Promise<Client> {
 }
 
 beforeAll(async () => {
-  t = await makeTestApp({ rateLimit: { signInAttempts: 1000, resetRequests: 1000, windowMs: 60_000 } });
+  t = await makeTestApp({ rateLimit: { signInAttempts: 1000, resetRequests: 1000, windowMs: 60_000 } }, { fakePayments: true });
   const self = await t.db('athletes').where({ email: athlete.email }).first();
   const other = await t.db('athletes').where({ email: 'bruno.feldhaus@runner.test' }).first();
   await t.db('mailbox_messages').insert({ to_address: 'a@x.test', from_address: 'b@x.test', subject: 'hi', text: 'hello', received_at: new Date().toISOString() });
@@ -204,6 +225,7 @@ beforeAll(async () => {
   ctx.clipId = up.body.id;
   await t.worker!.idle();
   await plansFixtures();
+  await billingFixtures();
   server = http.createServer(t.app).listen(0, '127.0.0.1');
 });
 afterAll(async () => {
@@ -312,4 +334,50 @@ async function plansFixtures(): Promise<void> {
   const body = logBody();
   await self.post(`/api/plans/${plan.id}/logs`, body);
   pc.logKey = body.key;
+}
+
+// ─── Billing fixtures ─────────────────────────────────────────────────────────────────────
+
+/** Invoices the billing routes of the walk use (owner-made; the self athlete's unless named). */
+const bc = { priceId: 0, scratchPriceId: 0, openInvoiceId: 0, draftInvoiceId: 0, otherAthleteInvoiceId: 0, scratchInvoiceId: 0, paidInvoiceId: 0, receiptInvoiceId: 0 };
+const priceBody = { item: 'Walk check', description: '', amountMinor: 1000, taxRateBp: null };
+const invoiceBody = (athleteId: number) => ({ athleteId, assessmentId: null, dueDate: '2026-12-31', note: null, lines: [{ priceId: null, description: 'Walk', quantity: 1, unitAmountMinor: 1000, taxRateBp: 2000 }] });
+/** Readable by the owner and the athlete billed; coaches have no billing access. */
+function billingSelf(ok: number): Record<Who, number> {
+  return { anonymous: 401, athleteSelf: ok, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: ok };
+}
+let ownerClient: Client;
+
+async function scratchPrice(): Promise<void> {
+  bc.scratchPriceId = (await ownerClient.post('/api/prices', priceBody)).body.id;
+}
+
+async function scratchInvoice(): Promise<void> {
+  bc.scratchInvoiceId = (await ownerClient.post('/api/invoices', invoiceBody(ctx.selfAthleteId))).body.id;
+}
+
+async function openInvoice(athleteId: number): Promise<number> {
+  const id = (await ownerClient.post('/api/invoices', invoiceBody(athleteId))).body.id;
+  await ownerClient.post(`/api/invoices/${id}/issue`);
+  return id;
+}
+
+/** An invoice of the self athlete, paid on the fake payment page (the webhook marks it paid). */
+async function paidInvoice(): Promise<void> {
+  const id = await openInvoice(ctx.selfAthleteId);
+  const self = await clientFor(t.app, 'athleteSelf');
+  const url = (await self.post(`/api/invoices/${id}/checkout`)).body.url as string;
+  await fetch(`${url}/pay`, { method: 'POST', redirect: 'manual' });
+  await t.fakePayments!.idle();
+  bc.paidInvoiceId = id;
+}
+
+async function billingFixtures(): Promise<void> {
+  ownerClient = await clientFor(t.app, 'owner');
+  bc.priceId = (await ownerClient.post('/api/prices', priceBody)).body.id;
+  bc.openInvoiceId = await openInvoice(ctx.selfAthleteId);
+  bc.draftInvoiceId = (await ownerClient.post('/api/invoices', invoiceBody(ctx.selfAthleteId))).body.id;
+  bc.otherAthleteInvoiceId = await openInvoice(ctx.otherAthleteId);
+  await paidInvoice();
+  bc.receiptInvoiceId = bc.paidInvoiceId;
 }

@@ -11,6 +11,9 @@ import type { Mailer, MailMessage } from '../../server/mail/mailer';
 import { hashPassword } from '../../server/auth/passwords';
 import { seed } from '../../seeds/demo-scenario';
 import type { Worker } from '../../server/jobs/worker';
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { startFakePayments, type FakePayments } from '../../server/billing/fake-payments/fake-payments';
 
 /** A mailer that keeps messages in memory, for assertions. */
 export class MemoryMailer implements Mailer {
@@ -42,14 +45,29 @@ export interface TestApp {
   worker: Worker | null;
   /** Moves the app's clock forward. */
   advance(ms: number): void;
+  /** With `{ fakePayments: true }`: the fake payment service and the app listening for its webhooks. */
+  fakePayments: FakePayments | null;
+  /** With `{ fakePayments: true }`: base URL of the listening app. */
+  url: string | null;
   close(): Promise<void>;
 }
 
+/** Extra parts a test may ask for. */
+export interface TestAppOptions {
+  /** Start the local fake payment service and listen on a port so its webhooks reach the app. */
+  fakePayments?: boolean;
+}
+
 /** A fresh app on an in-memory database with the demo scenario and a second clinic. */
-export async function makeTestApp(overrides: Partial<Config> = {}): Promise<TestApp> {
+export async function makeTestApp(overrides: Partial<Config> = {}, options: TestAppOptions = {}): Promise<TestApp> {
   const base = loadConfig({ DEMO_MODE: 'true', LOG_LEVEL: 'silent', CLIENT_DIR: '' } as NodeJS.ProcessEnv);
   const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'trailframe-test-'));
-  const config: Config = { ...base, clientDir: null, dbFile: ':memory:', uploadsDir, ...overrides };
+  let config: Config = { ...base, clientDir: null, dbFile: ':memory:', uploadsDir, ...overrides };
+  let fakePayments: FakePayments | null = null;
+  if (options.fakePayments && config.payments) {
+    fakePayments = await startFakePayments({ port: 0, secretKey: config.payments.secretKey, webhookSecret: config.payments.webhookSecret });
+    config = { ...config, payments: { ...config.payments, apiHost: '127.0.0.1', apiPort: fakePayments.port, apiProtocol: 'http' } };
+  }
   const db = createDb(':memory:');
   await migrate(db);
   await seed(db);
@@ -57,7 +75,18 @@ export async function makeTestApp(overrides: Partial<Config> = {}): Promise<Test
   const mailer = new MemoryMailer();
   let offset = 0;
   const { app, close, worker } = createApp({ config, db, mailer, logger: pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
+  let listener: http.Server | null = null;
+  let url: string | null = null;
+  if (fakePayments) {
+    const server = http.createServer(app);
+    listener = server;
+    await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', () => resolve()));
+    url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+    fakePayments.setWebhookUrl(`${url}/api/billing/webhook`);
+  }
   return {
+    fakePayments,
+    url,
     app,
     db,
     mailer,
@@ -67,6 +96,12 @@ export async function makeTestApp(overrides: Partial<Config> = {}): Promise<Test
     },
     worker,
     async close() {
+      await fakePayments?.idle();
+      await fakePayments?.close();
+      if (listener) {
+        listener.closeAllConnections();
+        await new Promise<void>((resolve) => listener!.close(() => resolve()));
+      }
       await close();
       await db.destroy();
       fs.rmSync(uploadsDir, { recursive: true, force: true });

@@ -1,0 +1,345 @@
+import type { Logger } from 'pino';
+import type { SessionUser } from '../../src/contracts/api';
+import {
+  formatMinor,
+  invoiceTotals,
+  lineAmounts,
+  type BillingSettings,
+  type CheckoutStart,
+  type Currency,
+  type InvoiceDetail,
+  type InvoiceList,
+  type InvoiceQuery,
+  type InvoiceWrite,
+  type Price,
+  type PriceWrite,
+} from '../../src/contracts/billing';
+import type { Config } from '../config';
+import type { Db } from '../db/knex';
+import { AppError, BadRequestError, ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
+import type { Mailer } from '../mail/mailer';
+import { invoicesRepository as invoices, toDetail, toSummary, type InvoiceRow, type InvoiceScope } from './invoices-repository';
+import type { Payments, PaymentEvent } from './payments';
+import { pricesRepository as prices, toPrice } from './prices-repository';
+import { renderReceipt } from './receipt-pdf';
+
+export interface BillingDeps {
+  db: Db;
+  mailer: Mailer;
+  config: Pick<Config, 'publicUrl'>;
+  logger: Logger;
+  clock: () => Date;
+  /** null when card payment is not configured. */
+  payments: Payments | null;
+}
+
+export type BillingService = ReturnType<typeof billingService>;
+
+/**
+ * Price list, invoices and card payment. Owners manage; athletes see and pay their own issued
+ * invoices; the provider's signed webhook is the only thing that marks an invoice paid.
+ */
+export function billingService({ db, mailer, config, logger, clock, payments }: BillingDeps) {
+  const now = () => clock().toISOString();
+
+  function requireOwner(user: SessionUser): void {
+    if (user.role !== 'owner') throw new ForbiddenError();
+  }
+
+  /** Owner: the whole clinic; athlete: their own issued invoices; coach: none. */
+  function scopeOf(user: SessionUser): InvoiceScope {
+    if (user.role === 'owner') return { clinicId: user.clinicId };
+    if (user.role === 'athlete') return { clinicId: user.clinicId, athleteUserId: user.id };
+    throw new ForbiddenError('Invoices are for the clinic owner and the athlete billed.');
+  }
+
+  async function clinicOf(clinicId: number): Promise<{ name: string; currency: Currency }> {
+    return db('clinics').where({ id: clinicId }).first('name', 'currency');
+  }
+
+  async function loadRow(user: SessionUser, id: number): Promise<InvoiceRow> {
+    const row = await invoices.find(db, scopeOf(user), id);
+    if (!row) throw new NotFoundError('Invoice');
+    return row;
+  }
+
+  async function detail(row: InvoiceRow): Promise<InvoiceDetail> {
+    const clinic = await clinicOf(row.clinic_id);
+    return toDetail(row, await invoices.lines(db, row.id), clinic.name);
+  }
+
+  async function reload(user: SessionUser, id: number): Promise<InvoiceDetail> {
+    return detail(await loadRow(user, id));
+  }
+
+  function needPayments(): Payments {
+    if (!payments) throw new AppError(503, 'payments_unavailable', 'Card payment is not set up for this clinic yet.');
+    return payments;
+  }
+
+  /** Runs a provider call; its failures become a 502 the page can show. */
+  async function provider<T>(what: string, call: () => Promise<T>): Promise<T> {
+    try {
+      return await call();
+    } catch (err) {
+      logger.warn({ err: (err as Error).message }, `payment provider: ${what} failed`);
+      throw new AppError(502, 'payment_provider_error', `The payment service did not answer (${what}). Try again in a minute.`);
+    }
+  }
+
+  async function mailSafely(to: string | null, subject: string, lines: string[]): Promise<void> {
+    if (!to) return;
+    try {
+      await mailer.send({ to, subject, text: lines.join('\n') });
+    } catch (err) {
+      logger.warn({ err: (err as Error).message }, 'billing e-mail not sent');
+    }
+  }
+
+  const portalLink = (id: number) => `${config.publicUrl}/portal/invoices/${id}`;
+
+  return {
+    async settings(user: SessionUser): Promise<BillingSettings> {
+      requireOwner(user);
+      return { currency: (await clinicOf(user.clinicId)).currency };
+    },
+
+    /** Changes the clinic's currency; refused once an invoice exists (its amounts are in the old one). */
+    async putSettings(user: SessionUser, s: BillingSettings): Promise<BillingSettings> {
+      requireOwner(user);
+      await db.transaction(async (trx) => {
+        const used = await trx('invoices').where({ clinic_id: user.clinicId }).whereNot({ currency: s.currency }).first('id');
+        if (used) throw new ConflictError('Invoices already exist in the current currency; the currency cannot change now.', 'currency_in_use');
+        await trx('clinics').where({ id: user.clinicId }).update({ currency: s.currency });
+        await prices.setCurrency(trx, user.clinicId, s.currency);
+      });
+      return { currency: s.currency };
+    },
+
+    async listPrices(user: SessionUser, includeArchived: boolean): Promise<Price[]> {
+      requireOwner(user);
+      return (await prices.list(db, user.clinicId, includeArchived)).map(toPrice);
+    },
+
+    async createPrice(user: SessionUser, w: PriceWrite): Promise<Price> {
+      requireOwner(user);
+      const { currency } = await clinicOf(user.clinicId);
+      const id = await prices.insert(db, user.clinicId, currency, w, now());
+      return toPrice((await prices.find(db, user.clinicId, id))!);
+    },
+
+    async updatePrice(user: SessionUser, id: number, w: Partial<PriceWrite>): Promise<Price> {
+      requireOwner(user);
+      if (!(await prices.find(db, user.clinicId, id))) throw new NotFoundError('Price');
+      await prices.update(db, user.clinicId, id, w, now());
+      return toPrice((await prices.find(db, user.clinicId, id))!);
+    },
+
+    /** Removes a price from the list; invoices that used it keep their lines. */
+    async archivePrice(user: SessionUser, id: number): Promise<void> {
+      requireOwner(user);
+      if (!(await prices.find(db, user.clinicId, id))) throw new NotFoundError('Price');
+      await prices.archive(db, user.clinicId, id, now());
+    },
+
+    async list(user: SessionUser, query: InvoiceQuery): Promise<InvoiceList> {
+      const rows = await invoices.list(db, scopeOf(user), query);
+      const sum = (f: (r: InvoiceRow) => boolean) => rows.filter(f).reduce((s, r) => s + r.total_minor, 0);
+      const { currency } = await clinicOf(user.clinicId);
+      return {
+        invoices: rows.map(toSummary),
+        totals: {
+          currency,
+          count: rows.length,
+          totalMinor: sum((r) => r.status !== 'void'),
+          openMinor: sum((r) => r.status === 'open'),
+          paidMinor: sum((r) => r.status === 'paid'),
+          refundedMinor: sum((r) => r.status === 'refunded'),
+        },
+      };
+    },
+
+    get: reload,
+
+    /** A draft invoice; amounts, tax (half-up per line) and totals are computed here. */
+    async create(user: SessionUser, w: InvoiceWrite): Promise<InvoiceDetail> {
+      requireOwner(user);
+      const at = now();
+      const id = await db.transaction(async (trx) => {
+        const athlete = await trx('athletes').where({ id: w.athleteId, clinic_id: user.clinicId }).first('id');
+        if (!athlete) throw new ValidationError('athleteId: no such athlete in this clinic.', [{ path: ['athleteId'], message: 'No such athlete in this clinic.' }]);
+        if (w.assessmentId !== null) {
+          const a = await trx('assessments').where({ id: w.assessmentId, clinic_id: user.clinicId, athlete_id: w.athleteId }).first('id');
+          if (!a) throw new ValidationError("assessmentId: not one of this athlete's assessments.", [{ path: ['assessmentId'], message: "Not one of this athlete's assessments." }]);
+        }
+        for (const [i, l] of w.lines.entries()) {
+          if (l.priceId === null) continue;
+          const p = await prices.find(trx, user.clinicId, l.priceId);
+          if (!p || p.archived_at) throw new ValidationError(`lines.${i}.priceId: no such price in the list.`, [{ path: ['lines', i, 'priceId'], message: 'No such price in the list.' }]);
+        }
+        const { currency } = await trx('clinics').where({ id: user.clinicId }).first('currency');
+        const totals = invoiceTotals(w.lines);
+        return invoices.insert(
+          trx,
+          {
+            clinic_id: user.clinicId, athlete_id: w.athleteId, assessment_id: w.assessmentId, number: null, status: 'draft', currency,
+            subtotal_minor: totals.subtotalMinor, tax_minor: totals.taxMinor, total_minor: totals.totalMinor, due_date: w.dueDate, note: w.note,
+            checkout_session_id: null, checkout_state: 'none', payment_intent_id: null, refund_id: null, created_by: user.id,
+            issued_at: null, paid_at: null, voided_at: null, refunded_at: null, created_at: at, updated_at: at,
+          },
+          w.lines.map((l, position) => {
+            const a = lineAmounts(l);
+            return { position, price_id: l.priceId, description: l.description, quantity: l.quantity, unit_amount_minor: l.unitAmountMinor, tax_rate_bp: l.taxRateBp, net_minor: a.netMinor, tax_minor: a.taxMinor, total_minor: a.totalMinor };
+          }),
+        );
+      });
+      return reload(user, id);
+    },
+
+    /** draft → open: gives the invoice its number and e-mails the athlete a link to it. */
+    async issue(user: SessionUser, id: number): Promise<InvoiceDetail> {
+      requireOwner(user);
+      const row = await loadRow(user, id);
+      if (row.status !== 'draft') throw new ConflictError(`Only a draft can be issued; this invoice is ${row.status}.`, 'invalid_transition');
+      const at = now();
+      const number = await db.transaction(async (trx) => {
+        const n = await invoices.nextNumber(trx, user.clinicId, clock().getUTCFullYear());
+        if (!(await invoices.transition(trx, id, ['draft'], { status: 'open', number: n, issued_at: at, updated_at: at }))) {
+          throw new ConflictError('The invoice changed meanwhile; reload it.', 'invalid_transition');
+        }
+        return n;
+      });
+      const clinic = await clinicOf(user.clinicId);
+      await mailSafely(row.athlete_email, `Invoice ${number} from ${clinic.name}`, [
+        `Hello ${row.first_name},`,
+        '',
+        `${clinic.name} has sent you invoice ${number} for ${formatMinor(row.total_minor)} ${row.currency}, due ${row.due_date}.`,
+        'See it and pay by card in your portal:',
+        '',
+        portalLink(id),
+      ]);
+      return reload(user, id);
+    },
+
+    /** draft/open → void. A paid invoice is refunded instead. */
+    async void(user: SessionUser, id: number): Promise<InvoiceDetail> {
+      requireOwner(user);
+      const row = await loadRow(user, id);
+      const at = now();
+      if (!(await invoices.transition(db, row.id, ['draft', 'open'], { status: 'void', voided_at: at, updated_at: at }))) {
+        throw new ConflictError(`Only a draft or open invoice can be voided; this one is ${row.status}${row.status === 'paid' ? ' (refund it instead)' : ''}.`, 'invalid_transition');
+      }
+      return reload(user, id);
+    },
+
+    /** paid → refunded, through the provider; its `charge.refunded` event then finds it done. */
+    async refund(user: SessionUser, id: number): Promise<InvoiceDetail> {
+      requireOwner(user);
+      const row = await loadRow(user, id);
+      if (row.status !== 'paid' || !row.payment_intent_id) throw new ConflictError(`Only a paid invoice can be refunded; this one is ${row.status}.`, 'invalid_transition');
+      const p = needPayments();
+      const pi = row.payment_intent_id;
+      const result = await provider('refund', () => p.refund(pi, `refund-invoice-${row.id}`));
+      const at = now();
+      if (result.succeeded) await invoices.transition(db, row.id, ['paid'], { status: 'refunded', refunded_at: at, refund_id: result.id, updated_at: at });
+      else await invoices.update(db, row.id, { refund_id: result.id, updated_at: at });
+      return reload(user, id);
+    },
+
+    /** The athlete's own open invoice → a payment page URL. Anything but `open` is refused. */
+    async startCheckout(user: SessionUser, id: number): Promise<CheckoutStart> {
+      if (user.role !== 'athlete') throw new ForbiddenError('Athletes pay their own invoices.');
+      const row = await loadRow(user, id);
+      if (row.status !== 'open') throw new ConflictError(`This invoice is ${row.status} and cannot be paid.`, 'invoice_not_payable');
+      const p = needPayments();
+      const url = portalLink(id);
+      const session = await provider('start payment', () =>
+        p.createCheckout({
+          invoiceId: row.id,
+          description: `Invoice ${row.number}`,
+          amountMinor: row.total_minor,
+          currency: row.currency,
+          customerEmail: row.athlete_email,
+          successUrl: `${url}?checkout=success`,
+          cancelUrl: `${url}?checkout=cancel`,
+        }),
+      );
+      if (!session.url) throw new AppError(502, 'payment_provider_error', 'The payment service gave no payment page.');
+      await invoices.update(db, row.id, { checkout_session_id: session.id, checkout_state: 'pending', updated_at: now() });
+      return { url: session.url };
+    },
+
+    /** The receipt PDF of a paid (or since refunded) invoice. */
+    async receipt(user: SessionUser, id: number): Promise<{ pdf: Buffer; filename: string }> {
+      const d = await reload(user, id);
+      if (d.status !== 'paid' && d.status !== 'refunded') throw new ConflictError('A receipt exists once the invoice is paid.', 'receipt_not_available');
+      return { pdf: await renderReceipt(d), filename: `receipt-${d.number}.pdf` };
+    },
+
+    /**
+     * A provider webhook: the signature is checked over the raw body, then each event id is handled
+     * once (recorded in the same transaction as its effect). Answers whether it was a repeat.
+     */
+    async webhook(rawBody: Buffer, signature: string | undefined): Promise<{ duplicate: boolean }> {
+      const p = needPayments();
+      let event: PaymentEvent;
+      try {
+        event = p.verifyWebhook(rawBody, signature);
+      } catch {
+        throw new BadRequestError('The webhook signature is missing or does not match.', 'invalid_signature');
+      }
+      const seen = await db('payment_events').where({ id: event.id }).first('id');
+      if (seen) return { duplicate: true };
+
+      const o = event.object;
+      let invoiceId: number | null = null;
+      let confirmed: Awaited<ReturnType<Payments['retrieveCheckout']>> | null = null;
+      if (event.type === 'checkout.session.completed') {
+        // Ask the provider again rather than trusting any copy of the session.
+        confirmed = await provider('confirm payment', () => p.retrieveCheckout(String(o['id'])));
+        invoiceId = confirmed.invoiceId;
+      } else if (event.type === 'checkout.session.async_payment_failed') {
+        invoiceId = Number((o['metadata'] as Record<string, string> | undefined)?.['invoice_id']) || null;
+      } else if (event.type === 'charge.refunded' && typeof o['payment_intent'] === 'string') {
+        invoiceId = (await invoices.findByPaymentIntent(db, o['payment_intent']))?.id ?? null;
+      }
+
+      const at = now();
+      let newlyPaid: InvoiceRow | null = null;
+      const handled = await db.transaction(async (trx) => {
+        if (!(await invoices.recordEvent(trx, event.id, event.type, invoiceId, at))) return false;
+        const row = invoiceId ? await invoices.findById(trx, invoiceId) : undefined;
+        if (!row) return true;
+        if (confirmed) {
+          const matches = confirmed.paid && confirmed.amountMinor === row.total_minor && confirmed.currency === row.currency && !!confirmed.paymentIntentId;
+          if (!matches) {
+            logger.warn({ invoiceId: row.id, session: confirmed.id }, 'payment event does not match the invoice; not marked paid');
+          } else if (await invoices.transition(trx, row.id, ['open'], { status: 'paid', paid_at: at, payment_intent_id: confirmed.paymentIntentId, checkout_session_id: confirmed.id, checkout_state: 'none', updated_at: at })) {
+            newlyPaid = row;
+          } else {
+            logger.warn({ invoiceId: row.id, status: row.status }, 'payment for an invoice that is not open');
+          }
+        } else if (event.type === 'checkout.session.async_payment_failed') {
+          if (row.status === 'open' && row.checkout_session_id === o['id']) await invoices.update(trx, row.id, { checkout_state: 'failed', updated_at: at });
+        } else if (event.type === 'charge.refunded' && o['refunded'] === true) {
+          await invoices.transition(trx, row.id, ['paid'], { status: 'refunded', refunded_at: at, updated_at: at });
+        }
+        return true;
+      });
+      if (!handled) return { duplicate: true };
+      const paid = newlyPaid as InvoiceRow | null;
+      if (paid) {
+        const clinic = await clinicOf(paid.clinic_id);
+        await mailSafely(paid.athlete_email, `Payment received for invoice ${paid.number}`, [
+          `Hello ${paid.first_name},`,
+          '',
+          `${clinic.name} has received your payment of ${formatMinor(paid.total_minor)} ${paid.currency} for invoice ${paid.number}. Thank you.`,
+          'Your receipt is in your portal:',
+          '',
+          portalLink(paid.id),
+        ]);
+      }
+      return { duplicate: false };
+    },
+  };
+}

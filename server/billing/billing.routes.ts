@@ -1,0 +1,80 @@
+import express, { Router } from 'express';
+import { currentUser, requireRole, requireSignedIn } from '../http/access';
+import { idParam as id, parse } from '../http/validate';
+import { InvoiceBody, InvoiceQueryParams, PriceBody, PricePatchBody, PriceQuery, SettingsBody } from './billing-schemas';
+import type { BillingService } from './billing-service';
+import type { InvoiceQuery } from '../../src/contracts/billing';
+
+/**
+ * The provider's webhook: RAW body (the signature covers the exact bytes), no session, no CSRF.
+ * Mount it before the JSON parser and CSRF protection.
+ */
+export function billingWebhookRoutes(billing: BillingService): Router {
+  const router = Router();
+  router.post('/billing/webhook', express.raw({ type: () => true, limit: '512kb' }), async (req, res) => {
+    const body = Buffer.isBuffer(req.body) ? req.body : Buffer.alloc(0);
+    const result = await billing.webhook(body, req.header('stripe-signature'));
+    res.json({ received: true, duplicate: result.duplicate });
+  });
+  return router;
+}
+
+/** Price list, invoices, card payment, receipts. Thin: parse, call, answer. */
+export function billingRoutes(billing: BillingService): Router {
+  const router = Router();
+  const owner = requireRole('owner');
+
+  router.get('/billing/settings', owner, async (req, res) => {
+    res.json(await billing.settings(currentUser(req)));
+  });
+  router.put('/billing/settings', owner, async (req, res) => {
+    res.json(await billing.putSettings(currentUser(req), parse(SettingsBody, req.body)));
+  });
+
+  router.get('/prices', owner, async (req, res) => {
+    const q = parse(PriceQuery, req.query, 'Query');
+    res.json({ prices: await billing.listPrices(currentUser(req), q.archived === 'true') });
+  });
+  router.post('/prices', owner, async (req, res) => {
+    res.status(201).json(await billing.createPrice(currentUser(req), parse(PriceBody, req.body)));
+  });
+  router.patch('/prices/:id', owner, async (req, res) => {
+    const priceId = id(req.params, 'Price');
+    res.json(await billing.updatePrice(currentUser(req), priceId, parse(PricePatchBody, req.body)));
+  });
+  router.delete('/prices/:id', owner, async (req, res) => {
+    await billing.archivePrice(currentUser(req), id(req.params, 'Price'));
+    res.status(204).end();
+  });
+
+  router.get('/invoices', requireSignedIn, async (req, res) => {
+    const q = parse(InvoiceQueryParams, req.query, 'Query') as InvoiceQuery;
+    res.json(await billing.list(currentUser(req), q));
+  });
+  router.post('/invoices', owner, async (req, res) => {
+    res.status(201).json(await billing.create(currentUser(req), parse(InvoiceBody, req.body)));
+  });
+  router.get('/invoices/:id', requireSignedIn, async (req, res) => {
+    res.json(await billing.get(currentUser(req), id(req.params, 'Invoice')));
+  });
+  router.post('/invoices/:id/issue', owner, async (req, res) => {
+    res.json(await billing.issue(currentUser(req), id(req.params, 'Invoice')));
+  });
+  router.post('/invoices/:id/void', owner, async (req, res) => {
+    res.json(await billing.void(currentUser(req), id(req.params, 'Invoice')));
+  });
+  router.post('/invoices/:id/refund', owner, async (req, res) => {
+    res.json(await billing.refund(currentUser(req), id(req.params, 'Invoice')));
+  });
+  router.post('/invoices/:id/checkout', requireRole('athlete'), async (req, res) => {
+    res.json(await billing.startCheckout(currentUser(req), id(req.params, 'Invoice')));
+  });
+  router.get('/invoices/:id/receipt', requireSignedIn, async (req, res) => {
+    const { pdf, filename } = await billing.receipt(currentUser(req), id(req.params, 'Invoice'));
+    res.setHeader('Content-Type', 'application/pdf');
+    res.setHeader('Content-Disposition', `attachment; filename="${filename}"`);
+    res.setHeader('Cache-Control', 'private, no-store');
+    res.send(pdf);
+  });
+  return router;
+}

@@ -1,0 +1,158 @@
+import type { Knex } from 'knex';
+import type { CheckoutState, InvoiceDetail, InvoiceLine, InvoiceQuery, InvoiceStatus, InvoiceSummary } from '../../src/contracts/billing';
+
+/** An `invoices` row joined with the athlete's name. */
+export interface InvoiceRow {
+  id: number;
+  clinic_id: number;
+  athlete_id: number;
+  assessment_id: number | null;
+  number: string | null;
+  status: InvoiceStatus;
+  currency: string;
+  subtotal_minor: number;
+  tax_minor: number;
+  total_minor: number;
+  due_date: string;
+  note: string | null;
+  checkout_session_id: string | null;
+  checkout_state: CheckoutState;
+  payment_intent_id: string | null;
+  refund_id: string | null;
+  created_by: number | null;
+  issued_at: string | null;
+  paid_at: string | null;
+  voided_at: string | null;
+  refunded_at: string | null;
+  created_at: string;
+  updated_at: string;
+  /** From the join. */
+  first_name: string;
+  last_name: string;
+  athlete_email: string | null;
+  athlete_user_id: number | null;
+}
+
+export interface InvoiceLineRow {
+  id: number;
+  invoice_id: number;
+  position: number;
+  price_id: number | null;
+  description: string;
+  quantity: number;
+  unit_amount_minor: number;
+  tax_rate_bp: number | null;
+  net_minor: number;
+  tax_minor: number;
+  total_minor: number;
+}
+
+/** Who may see which invoices: the clinic's owner all, an athlete (user) only their own issued ones. */
+export interface InvoiceScope {
+  clinicId: number;
+  /** Set for an athlete: only invoices of the athlete record linked to this user, never drafts. */
+  athleteUserId?: number;
+}
+
+export const toSummary = (r: InvoiceRow): InvoiceSummary => ({
+  id: r.id,
+  number: r.number,
+  status: r.status,
+  athleteId: r.athlete_id,
+  athleteName: `${r.first_name} ${r.last_name}`,
+  currency: r.currency,
+  totalMinor: r.total_minor,
+  dueDate: r.due_date,
+  issuedAt: r.issued_at,
+  paidAt: r.paid_at,
+  createdAt: r.created_at,
+});
+
+export const toLine = (l: InvoiceLineRow): InvoiceLine => ({
+  id: l.id,
+  priceId: l.price_id,
+  description: l.description,
+  quantity: l.quantity,
+  unitAmountMinor: l.unit_amount_minor,
+  taxRateBp: l.tax_rate_bp,
+  netMinor: l.net_minor,
+  taxMinor: l.tax_minor,
+  totalMinor: l.total_minor,
+});
+
+export const toDetail = (r: InvoiceRow, lines: InvoiceLineRow[], clinicName: string): InvoiceDetail => ({
+  ...toSummary(r),
+  assessmentId: r.assessment_id,
+  note: r.note,
+  clinicName,
+  subtotalMinor: r.subtotal_minor,
+  taxMinor: r.tax_minor,
+  lines: lines.map(toLine),
+  voidedAt: r.voided_at,
+  refundedAt: r.refunded_at,
+  checkoutState: r.checkout_state,
+});
+
+function base(db: Knex, scope: InvoiceScope) {
+  const q = db('invoices as i')
+    .join('athletes as a', 'a.id', 'i.athlete_id')
+    .where('i.clinic_id', scope.clinicId)
+    .select('i.*', 'a.first_name', 'a.last_name', 'a.email as athlete_email', 'a.user_id as athlete_user_id');
+  if (scope.athleteUserId !== undefined) q.andWhere('a.user_id', scope.athleteUserId).andWhereNot('i.status', 'draft');
+  return q;
+}
+
+/** Knex access to invoices and their lines; reads are scoped by {@link InvoiceScope}. */
+export const invoicesRepository = {
+  list(db: Knex, scope: InvoiceScope, query: InvoiceQuery): Promise<InvoiceRow[]> {
+    const q = base(db, scope);
+    if (query.status) q.andWhere('i.status', query.status);
+    if (query.athleteId) q.andWhere('i.athlete_id', query.athleteId);
+    if (query.from) q.andWhere('i.created_at', '>=', query.from);
+    if (query.to) q.andWhere('i.created_at', '<', `${query.to}T99`);
+    return q.orderBy('i.id', 'desc');
+  },
+  find(db: Knex, scope: InvoiceScope, id: number): Promise<InvoiceRow | undefined> {
+    return base(db, scope).andWhere('i.id', id).first();
+  },
+  /** Unscoped, for webhook events (the provider's signature is the authority there). */
+  findById(db: Knex, id: number): Promise<InvoiceRow | undefined> {
+    return db('invoices as i').join('athletes as a', 'a.id', 'i.athlete_id').where('i.id', id)
+      .first('i.*', 'a.first_name', 'a.last_name', 'a.email as athlete_email', 'a.user_id as athlete_user_id');
+  },
+  findByPaymentIntent(db: Knex, paymentIntentId: string): Promise<{ id: number } | undefined> {
+    return db('invoices').where({ payment_intent_id: paymentIntentId }).first('id');
+  },
+  lines(db: Knex, invoiceId: number): Promise<InvoiceLineRow[]> {
+    return db<InvoiceLineRow>('invoice_lines').where({ invoice_id: invoiceId }).orderBy('position');
+  },
+  async insert(trx: Knex, row: Omit<InvoiceRow, 'id' | 'first_name' | 'last_name' | 'athlete_email' | 'athlete_user_id'>, lines: Omit<InvoiceLineRow, 'id' | 'invoice_id'>[]): Promise<number> {
+    const [r] = await trx('invoices').insert(row).returning('id');
+    const id = (r as { id: number }).id;
+    await trx('invoice_lines').insert(lines.map((l) => ({ ...l, invoice_id: id })));
+    return id;
+  },
+  /**
+   * Updates only when the invoice is still in one of `from` (the guard of a status transition);
+   * answers whether a row changed.
+   */
+  async transition(db: Knex, id: number, from: InvoiceStatus[], patch: Partial<InvoiceRow>): Promise<boolean> {
+    const n = await db('invoices').where({ id }).whereIn('status', from).update(patch);
+    return n > 0;
+  },
+  async update(db: Knex, id: number, patch: Partial<InvoiceRow>): Promise<void> {
+    await db('invoices').where({ id }).update(patch);
+  },
+  /** The next number of the clinic for the year: TF-2026-0001, TF-2026-0002, … */
+  async nextNumber(trx: Knex, clinicId: number, year: number): Promise<string> {
+    const prefix = `TF-${year}-`;
+    const row = await trx('invoices').where({ clinic_id: clinicId }).andWhere('number', 'like', `${prefix}%`).max<{ n: string | null }>('number as n').first();
+    const last = row?.n ? Number(row.n.slice(prefix.length)) : 0;
+    return `${prefix}${String(last + 1).padStart(4, '0')}`;
+  },
+  /** Records a webhook event id; false when it was already there (handled before). */
+  async recordEvent(trx: Knex, id: string, type: string, invoiceId: number | null, at: string): Promise<boolean> {
+    const rows = await trx('payment_events').insert({ id, type, invoice_id: invoiceId, received_at: at }).onConflict('id').ignore().returning('id');
+    return rows.length > 0;
+  },
+};

@@ -1,0 +1,84 @@
+import PDFDocument from 'pdfkit';
+import { formatMinor, type InvoiceDetail } from '../../src/contracts/billing';
+import { registerPdfFonts } from '../render/fonts';
+
+const SPRUCE = '#1f5a4a';
+const MUTED = '#56645e';
+
+/** "2 Dec 2026" from an ISO timestamp or date (Latin-1 only, like everything in the PDF). */
+function day(iso: string | null): string {
+  if (!iso) return '-';
+  const d = new Date(iso.length === 10 ? `${iso}T00:00:00Z` : iso);
+  return d.toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+}
+
+const rate = (bp: number | null) => (bp === null ? '-' : `${(bp / 100).toFixed(bp % 100 === 0 ? 0 : 2)} %`);
+
+/**
+ * The receipt of a paid (or later refunded) invoice, A4, with the shipped Source Sans 3 faces:
+ * clinic, number, athlete, lines with tax per line, totals, when it was paid and how.
+ */
+export function renderReceipt(inv: InvoiceDetail): Promise<Buffer> {
+  const doc = new PDFDocument({ size: 'A4', margin: 56, info: { Title: `Receipt ${inv.number}`, Author: inv.clinicName } });
+  registerPdfFonts(doc);
+  const chunks: Buffer[] = [];
+  doc.on('data', (c: Buffer) => chunks.push(c));
+  const done = new Promise<Buffer>((resolve) => doc.on('end', () => resolve(Buffer.concat(chunks))));
+  const money = (m: number) => `${formatMinor(m)} ${inv.currency}`;
+  const left = doc.page.margins.left;
+  const width = doc.page.width - left - doc.page.margins.right;
+
+  doc.font('bold').fontSize(20).fillColor(SPRUCE).text(inv.clinicName);
+  doc.font('semibold').fontSize(14).fillColor('#000').text(`Receipt for invoice ${inv.number}`).moveDown(0.5);
+  doc.font('regular').fontSize(10).fillColor(MUTED);
+  doc.text(`Billed to: ${inv.athleteName}`);
+  doc.text(`Issued: ${day(inv.issuedAt)}    Due: ${day(inv.dueDate)}`);
+  doc.text(`Paid: ${day(inv.paidAt)} by card payment`);
+  doc.moveDown();
+
+  const cols = [
+    { label: 'Item', x: left, w: width * 0.4, align: 'left' as const },
+    { label: 'Qty', x: left + width * 0.4, w: width * 0.08, align: 'right' as const },
+    { label: 'Unit', x: left + width * 0.48, w: width * 0.16, align: 'right' as const },
+    { label: 'Tax', x: left + width * 0.64, w: width * 0.12, align: 'right' as const },
+    { label: 'Amount', x: left + width * 0.76, w: width * 0.24, align: 'right' as const },
+  ];
+  const row = (cells: string[], font: string) => {
+    const y = doc.y;
+    doc.font(font).fontSize(10).fillColor('#000');
+    let bottom = y;
+    cells.forEach((c, i) => {
+      const col = cols[i]!;
+      doc.text(c, col.x, y, { width: col.w, align: col.align });
+      bottom = Math.max(bottom, doc.y);
+    });
+    doc.x = left;
+    doc.y = bottom + 4;
+  };
+  row(cols.map((c) => c.label), 'semibold');
+  doc.moveTo(left, doc.y).lineTo(left + width, doc.y).strokeColor('#c9d4cf').stroke();
+  doc.y += 4;
+  for (const l of inv.lines) {
+    row([l.description, String(l.quantity), formatMinor(l.unitAmountMinor), rate(l.taxRateBp), money(l.totalMinor)], 'regular');
+  }
+  doc.moveTo(left, doc.y).lineTo(left + width, doc.y).strokeColor('#c9d4cf').stroke();
+  doc.y += 6;
+  const total = (label: string, value: string, font: string) => {
+    const y = doc.y;
+    doc.font(font).fontSize(font === 'bold' ? 12 : 10).fillColor('#000');
+    doc.text(label, left + width * 0.4, y, { width: width * 0.36, align: 'right' });
+    doc.text(value, left + width * 0.76, y, { width: width * 0.24, align: 'right' });
+    doc.x = left;
+  };
+  total('Subtotal', money(inv.subtotalMinor), 'regular');
+  total('Tax', money(inv.taxMinor), 'regular');
+  total('Total paid', money(inv.totalMinor), 'bold');
+  doc.moveDown();
+  if (inv.status === 'refunded') {
+    doc.font('bold').fontSize(12).fillColor('#a33a1f').text(`Refunded on ${day(inv.refundedAt)}: ${money(inv.totalMinor)}`, left);
+    doc.moveDown(0.5);
+  }
+  doc.font('italic').fontSize(9).fillColor(MUTED).text('Tax is computed per line and rounded half-up to the cent. Keep this receipt for your records.', left);
+  doc.end();
+  return done;
+}

@@ -1,0 +1,381 @@
+/**
+ * Billing API: price list, invoices with server-computed totals (tax half-up per line, integer
+ * minor units), issue/void/refund transitions, card payment through the provider's SDK against the
+ * local fake payment service, signed idempotent webhooks, receipt PDF and e-mails.
+ * Worked examples are stated in the test titles ([calc]).
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import Stripe from 'stripe';
+import { PDFParse } from 'pdf-parse';
+import { makeTestApp, OTHER, signedIn, type Client, type TestApp } from '../support/test-app';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { hashPassword } from '../../server/auth/passwords';
+import { invoiceTotals, lineAmounts, formatMinor, type InvoiceDetail, type InvoiceWrite, type Price } from '../../src/contracts/billing';
+
+const [owner, coach, , athlete] = DEMO_SIGN_INS;
+const SECOND = { email: 'second.athlete@runner.test', password: 'second-athlete-pw-1' };
+let t: TestApp;
+let o: Client;
+let a: Client;
+let adaId: number;
+let brunoId: number;
+let prices: Price[];
+
+const due = '2026-12-31';
+const price = (item: string) => prices.find((p) => p.item === item)!;
+const line = (p: Price, quantity = 1) => ({ priceId: p.id, description: p.item, quantity, unitAmountMinor: p.amountMinor, taxRateBp: p.taxRateBp });
+
+async function draft(over: Partial<InvoiceWrite> = {}): Promise<InvoiceDetail> {
+  const res = await o.post('/api/invoices', { athleteId: adaId, assessmentId: null, dueDate: due, note: null, lines: [line(price('Re-test'))], ...over });
+  expect(res.status, JSON.stringify(res.body)).toBe(201);
+  return res.body;
+}
+
+async function issued(over: Partial<InvoiceWrite> = {}): Promise<InvoiceDetail> {
+  const d = await draft(over);
+  const res = await o.post(`/api/invoices/${d.id}/issue`);
+  expect(res.status, JSON.stringify(res.body)).toBe(200);
+  return res.body;
+}
+
+/** The athlete opens the payment page and presses a button there; answers where it sends the browser. */
+async function payOnPage(invoiceId: number, action: 'pay' | 'cancel' | 'decline'): Promise<string> {
+  const start = await a.post(`/api/invoices/${invoiceId}/checkout`);
+  expect(start.status, JSON.stringify(start.body)).toBe(200);
+  const url: string = start.body.url;
+  expect(url).toContain(`${t.fakePayments!.url}/pay/cs_`);
+  const page = await fetch(url);
+  expect(await page.text()).toMatch(/Pay[\s\S]*Cancel/);
+  const res = await fetch(`${url}/${action}`, { method: 'POST', redirect: 'manual' });
+  expect(res.status).toBe(303);
+  await t.fakePayments!.idle();
+  return res.headers.get('location')!;
+}
+
+async function paidInvoice(): Promise<InvoiceDetail> {
+  const inv = await issued();
+  await payOnPage(inv.id, 'pay');
+  return (await o.get(`/api/invoices/${inv.id}`)).body;
+}
+
+beforeAll(async () => {
+  t = await makeTestApp({}, { fakePayments: true });
+  o = await signedIn(t.app, owner.email, owner.password);
+  a = await signedIn(t.app, athlete.email, athlete.password);
+  adaId = (await t.db('athletes').where({ email: athlete.email }).first()).id;
+  const bruno = await t.db('athletes').where({ email: 'bruno.feldhaus@runner.test' }).first();
+  brunoId = bruno.id;
+  // A second athlete account in the same clinic (Bruno), for "another athlete's invoice".
+  const at = new Date().toISOString();
+  const [u] = await t.db('users').insert({ clinic_id: bruno.clinic_id, email: SECOND.email, name: 'Bruno F', role: 'athlete', password_hash: await hashPassword(SECOND.password), created_at: at, updated_at: at }).returning('id');
+  await t.db('athletes').where({ id: brunoId }).update({ user_id: (u as { id: number }).id });
+  prices = (await o.get('/api/prices')).body.prices;
+});
+afterAll(async () => {
+  await t.close();
+});
+
+describe('money arithmetic [calc]', () => {
+  it('3 × 45.00 at 20 % tax = 135.00 + 27.00 = 162.00', () => {
+    expect(lineAmounts({ quantity: 3, unitAmountMinor: 4500, taxRateBp: 2000 })).toEqual({ netMinor: 13500, taxMinor: 2700, totalMinor: 16200 });
+  });
+  it('half-up per line: 0.25 at 10 % = 0.025 → 0.03; 0.24 at 10 % = 0.024 → 0.02; 1.05 at 7.5 % = 0.07875 → 0.08', () => {
+    expect(lineAmounts({ quantity: 1, unitAmountMinor: 25, taxRateBp: 1000 }).taxMinor).toBe(3);
+    expect(lineAmounts({ quantity: 1, unitAmountMinor: 24, taxRateBp: 1000 }).taxMinor).toBe(2);
+    expect(lineAmounts({ quantity: 1, unitAmountMinor: 105, taxRateBp: 750 }).taxMinor).toBe(8);
+  });
+  it('rounds per line, not per invoice: two lines of 0.05 at 10 % → tax 0.01 + 0.01 = 0.02 (per invoice it would be 0.01)', () => {
+    expect(invoiceTotals([{ quantity: 1, unitAmountMinor: 5, taxRateBp: 1000 }, { quantity: 1, unitAmountMinor: 5, taxRateBp: 1000 }])).toEqual({ subtotalMinor: 10, taxMinor: 2, totalMinor: 12 });
+  });
+  it('no tax rate = no tax; 1,234,567.89 prints with separators', () => {
+    expect(lineAmounts({ quantity: 2, unitAmountMinor: 999, taxRateBp: null })).toEqual({ netMinor: 1998, taxMinor: 0, totalMinor: 1998 });
+    expect(formatMinor(123456789)).toBe('1,234,567.89');
+    expect(formatMinor(5)).toBe('0.05');
+  });
+});
+
+describe('price list', () => {
+  it('the demo list has Gait assessment, Re-test and the 8-week plan package in EUR', async () => {
+    expect(prices.map((p) => p.item).sort()).toEqual(['8-week plan package', 'Gait assessment', 'Re-test']);
+    expect(price('Re-test')).toMatchObject({ amountMinor: 6500, currency: 'EUR', taxRateBp: 2000 });
+    expect((await o.get('/api/billing/settings')).body).toEqual({ currency: 'EUR' });
+  });
+
+  it('creates, edits and archives a price; archived ones leave the list', async () => {
+    const created = await o.post('/api/prices', { item: 'Shoe check', description: 'Wear pattern review', amountMinor: 2500, taxRateBp: null });
+    expect(created.status).toBe(201);
+    expect(created.body).toMatchObject({ item: 'Shoe check', amountMinor: 2500, currency: 'EUR', taxRateBp: null, archived: false });
+    expect((await o.patch(`/api/prices/${created.body.id}`, { amountMinor: 3000 })).body.amountMinor).toBe(3000);
+    expect((await o.delete(`/api/prices/${created.body.id}`)).status).toBe(204);
+    expect((await o.get('/api/prices')).body.prices.some((p: Price) => p.id === created.body.id)).toBe(false);
+    expect((await o.get('/api/prices?archived=true')).body.prices.some((p: Price) => p.id === created.body.id)).toBe(true);
+  });
+
+  it.each([
+    ['zero', 0],
+    ['negative', -100],
+    ['too large (over 1,000,000.00)', 100_000_001],
+    ['fractional minor units (45.5 cents)', 45.5],
+    ['a string', '45.00'],
+  ])('refuses an amount that is %s with 422 on amountMinor', async (_what, amountMinor) => {
+    const res = await o.post('/api/prices', { item: 'Bad', description: '', amountMinor, taxRateBp: null });
+    expect(res.status).toBe(422);
+    expect(res.body.error.details[0].path).toEqual(['amountMinor']);
+  });
+
+  it('refuses a tax rate over 100 % or in fractions of a basis point', async () => {
+    for (const taxRateBp of [10_001, -1, 12.5]) {
+      const res = await o.post('/api/prices', { item: 'Bad', description: '', amountMinor: 100, taxRateBp });
+      expect(res.status).toBe(422);
+      expect(res.body.error.details[0].path).toEqual(['taxRateBp']);
+    }
+  });
+
+  it('coaches and athletes cannot touch the price list', async () => {
+    const c = await signedIn(t.app, coach.email, coach.password);
+    expect((await c.get('/api/prices')).status).toBe(403);
+    expect((await a.post('/api/prices', { item: 'X', amountMinor: 1 })).status).toBe(403);
+  });
+
+  it('the currency changes only while no invoice uses the old one', async () => {
+    const other = await makeTestApp();
+    try {
+      const oo = await signedIn(other.app, owner.email, owner.password);
+      expect((await oo.put('/api/billing/settings', { currency: 'GBP' })).body).toEqual({ currency: 'GBP' });
+      expect((await oo.get('/api/prices')).body.prices[0].currency).toBe('GBP');
+      expect((await oo.put('/api/billing/settings', { currency: 'XYZ' })).status).toBe(422);
+    } finally {
+      await other.close();
+    }
+    await draft();
+    expect((await o.put('/api/billing/settings', { currency: 'GBP' })).status).toBe(409);
+  });
+});
+
+describe('invoices', () => {
+  it('computes totals on the server: 3 × Re-test 65.00 at 20 % = 195.00 + 39.00 = 234.00, plus a custom 12.34 untaxed line = 246.34', async () => {
+    const d = await draft({
+      lines: [
+        { ...line(price('Re-test'), 3), unitAmountMinor: 6500 },
+        { priceId: null, description: 'Taping', quantity: 1, unitAmountMinor: 1234, taxRateBp: null },
+      ],
+    });
+    expect(d).toMatchObject({ status: 'draft', number: null, currency: 'EUR', subtotalMinor: 20734, taxMinor: 3900, totalMinor: 24634 });
+    expect(d.lines.map((l) => l.totalMinor)).toEqual([23400, 1234]);
+  });
+
+  it('refuses bad lines with 422 and the line path', async () => {
+    const bad = async (l: object, path: (string | number)[]) => {
+      const res = await o.post('/api/invoices', { athleteId: adaId, assessmentId: null, dueDate: due, note: null, lines: [{ priceId: null, description: 'X', quantity: 1, unitAmountMinor: 100, taxRateBp: null, ...l }] });
+      expect(res.status, JSON.stringify(res.body)).toBe(422);
+      expect(res.body.error.details[0].path).toEqual(path);
+    };
+    await bad({ unitAmountMinor: 0 }, ['lines', 0, 'unitAmountMinor']);
+    await bad({ unitAmountMinor: -500 }, ['lines', 0, 'unitAmountMinor']);
+    await bad({ unitAmountMinor: 99.99 }, ['lines', 0, 'unitAmountMinor']);
+    await bad({ unitAmountMinor: 1e12 }, ['lines', 0, 'unitAmountMinor']);
+    await bad({ quantity: 0 }, ['lines', 0, 'quantity']);
+    await bad({ priceId: 999_999 }, ['lines', 0, 'priceId']);
+    const noLines = await o.post('/api/invoices', { athleteId: adaId, assessmentId: null, dueDate: due, note: null, lines: [] });
+    expect(noLines.body.error.details[0].path).toEqual(['lines']);
+    const badDate = await o.post('/api/invoices', { athleteId: adaId, assessmentId: null, dueDate: '2026-02-30', note: null, lines: [line(price('Re-test'))] });
+    expect(badDate.body.error.details[0].path).toEqual(['dueDate']);
+  });
+
+  it('bills an assessment of the athlete, and refuses another athlete\'s assessment (422)', async () => {
+    const ada = (await t.db('assessments').where({ athlete_id: adaId }).first()).id;
+    const d = await draft({ assessmentId: ada });
+    expect(d.assessmentId).toBe(ada);
+    const res = await o.post('/api/invoices', { athleteId: brunoId, assessmentId: ada, dueDate: due, note: null, lines: [line(price('Re-test'))] });
+    expect(res.status).toBe(422);
+    expect(res.body.error.details[0].path).toEqual(['assessmentId']);
+  });
+
+  it('issue gives the next clinic number (TF-<year>-0001, …) and e-mails the athlete a portal link, no health details', async () => {
+    const year = new Date().getUTCFullYear();
+    const first = await issued();
+    const second = await issued();
+    expect(first.number).toMatch(new RegExp(`^TF-${year}-\\d{4}$`));
+    expect(Number(second.number!.slice(-4))).toBe(Number(first.number!.slice(-4)) + 1);
+    expect(first.status).toBe('open');
+    const mail = t.mailer.sent.find((m) => m.subject.includes(first.number!))!;
+    expect(mail.to).toBe(athlete.email);
+    expect(mail.text).toContain(`/portal/invoices/${first.id}`);
+    expect(mail.text).toContain('78.00 EUR');
+    expect(mail.text).not.toMatch(/hamstring|pain|Re-test/i);
+    expect((await o.post(`/api/invoices/${first.id}/issue`)).status).toBe(409);
+  });
+
+  it('lists with filters and totals; the athlete sees only their own issued invoices', async () => {
+    const open = await issued();
+    const d = await draft();
+    const bruno = await o.post('/api/invoices', { athleteId: brunoId, assessmentId: null, dueDate: due, note: null, lines: [line(price('Gait assessment'))] });
+    const all = (await o.get('/api/invoices')).body;
+    expect(all.invoices.length).toBeGreaterThanOrEqual(3);
+    const sum = all.invoices.filter((i: InvoiceDetail) => i.status !== 'void').reduce((s: number, i: InvoiceDetail) => s + i.totalMinor, 0);
+    expect(all.totals.totalMinor).toBe(sum);
+    const drafts = (await o.get(`/api/invoices?status=draft&athleteId=${brunoId}`)).body;
+    expect(drafts.invoices.map((i: InvoiceDetail) => i.id)).toEqual([bruno.body.id]);
+    expect(drafts.totals).toMatchObject({ count: 1, totalMinor: 14400, currency: 'EUR' });
+    const today = new Date().toISOString().slice(0, 10);
+    expect((await o.get(`/api/invoices?from=${today}&to=${today}`)).body.invoices.length).toBe(all.invoices.length);
+    expect((await o.get('/api/invoices?from=2000-01-01&to=2000-01-02')).body.invoices).toEqual([]);
+    expect((await o.get('/api/invoices?status=late')).status).toBe(422);
+    const mine = (await a.get('/api/invoices')).body.invoices.map((i: InvoiceDetail) => i.id);
+    expect(mine).toContain(open.id);
+    expect(mine).not.toContain(d.id);
+    expect(mine).not.toContain(bruno.body.id);
+    expect((await a.get(`/api/invoices/${d.id}`)).status).toBe(404);
+    const c = await signedIn(t.app, coach.email, coach.password);
+    expect((await c.get('/api/invoices')).status).toBe(403);
+  });
+
+  it('void: draft and open can be voided, a void invoice cannot be paid (409) or issued', async () => {
+    const inv = await issued();
+    const v = await o.post(`/api/invoices/${inv.id}/void`);
+    expect(v.body).toMatchObject({ status: 'void' });
+    const pay = await a.post(`/api/invoices/${inv.id}/checkout`);
+    expect(pay.status).toBe(409);
+    expect(pay.body.error.code).toBe('invoice_not_payable');
+    expect((await o.post(`/api/invoices/${inv.id}/issue`)).status).toBe(409);
+    expect((await o.post(`/api/invoices/${(await draft()).id}/void`)).body.status).toBe('void');
+  });
+
+  it('an athlete paying another athlete\'s invoice gets 404; so does another clinic', async () => {
+    const inv = await issued();
+    const second = await signedIn(t.app, SECOND.email, SECOND.password);
+    expect((await second.post(`/api/invoices/${inv.id}/checkout`)).status).toBe(404);
+    expect((await second.get(`/api/invoices/${inv.id}`)).status).toBe(404);
+    const far = await signedIn(t.app, OTHER.athlete.email, OTHER.athlete.password);
+    expect((await far.post(`/api/invoices/${inv.id}/checkout`)).status).toBe(404);
+    const farOwner = await signedIn(t.app, OTHER.owner.email, OTHER.owner.password);
+    expect((await farOwner.get(`/api/invoices/${inv.id}`)).status).toBe(404);
+  });
+});
+
+describe('card payment through the fake payment service', () => {
+  it('Pay on the payment page → signed webhook → paid, e-mail, receipt PDF (Re-test 65.00 + 13.00 tax = 78.00 EUR)', async () => {
+    const inv = await issued();
+    const back = await payOnPage(inv.id, 'pay');
+    expect(back).toBe(`${t.config.publicUrl}/portal/invoices/${inv.id}?checkout=success`);
+    const after = (await a.get(`/api/invoices/${inv.id}`)).body as InvoiceDetail;
+    expect(after).toMatchObject({ status: 'paid', totalMinor: 7800 });
+    expect(after.paidAt).toBeTruthy();
+    const mail = t.mailer.sent.filter((m) => m.subject === `Payment received for invoice ${inv.number}`);
+    expect(mail).toHaveLength(1);
+    expect(mail[0]!.text).toContain('78.00 EUR');
+    const pdf = await a.get(`/api/invoices/${inv.id}/receipt`).buffer(true).parse((res, cb) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    expect(pdf.status).toBe(200);
+    expect(pdf.headers['content-type']).toBe('application/pdf');
+    const text = (await new PDFParse({ data: pdf.body as Buffer }).getText()).text;
+    expect(text).toContain(`Receipt for invoice ${inv.number}`);
+    expect(text).toContain('Larchwood Running Clinic');
+    expect(text).toContain('Ada Kestrel');
+    expect(text).toContain('Re-test');
+    expect(text).toMatch(/Subtotal\s+65\.00 EUR/);
+    expect(text).toMatch(/Tax\s+13\.00 EUR/);
+    expect(text).toMatch(/Total paid\s+78\.00 EUR/);
+  });
+
+  it('the browser coming back alone changes nothing: Cancel leaves it open; a receipt is refused while unpaid', async () => {
+    const inv = await issued();
+    const back = await payOnPage(inv.id, 'cancel');
+    expect(back).toContain('?checkout=cancel');
+    expect((await a.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'open', checkoutState: 'pending' });
+    expect((await a.get(`/api/invoices/${inv.id}/receipt`)).status).toBe(409);
+  });
+
+  it('a declined card marks the attempt failed and leaves the invoice open to pay again', async () => {
+    const inv = await issued();
+    await payOnPage(inv.id, 'decline');
+    expect((await a.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'open', checkoutState: 'failed' });
+    await payOnPage(inv.id, 'pay');
+    expect((await a.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'paid', checkoutState: 'none' });
+  });
+
+  it('the same event delivered twice is processed once', async () => {
+    const inv = await issued();
+    await payOnPage(inv.id, 'pay');
+    const event = t.fakePayments!.events.at(-1)!;
+    expect(event.type).toBe('checkout.session.completed');
+    const mails = t.mailer.sent.length;
+    expect(await t.fakePayments!.redeliver(event.id)).toBe(200);
+    expect(await t.db('payment_events').where({ id: event.id }).count({ n: '*' })).toEqual([{ n: 1 }]);
+    expect(t.mailer.sent.length).toBe(mails);
+    const res = await fetch(`${t.url}/api/billing/webhook`, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': new Stripe('sk_x').webhooks.generateTestHeaderString({ payload: event.payload, secret: t.config.payments!.webhookSecret }) }, body: event.payload });
+    expect(await res.json()).toEqual({ received: true, duplicate: true });
+  });
+
+  it('unsigned or wrongly signed webhooks answer 400 and change nothing', async () => {
+    const inv = await issued();
+    const session = await (await fetch(`${t.fakePayments!.url}/v1/checkout/sessions`, { method: 'POST', headers: { authorization: `Bearer ${t.config.payments!.secretKey}`, 'content-type': 'application/x-www-form-urlencoded' }, body: 'line_items[0][quantity]=1&line_items[0][price_data][currency]=eur&line_items[0][price_data][unit_amount]=7800&success_url=http://x/s&cancel_url=http://x/c' })).json();
+    const payload = JSON.stringify({ id: 'evt_forged_1', object: 'event', type: 'checkout.session.completed', data: { object: { ...session, payment_status: 'paid', metadata: { invoice_id: String(inv.id) } } } });
+    const events = await t.db('payment_events').count({ n: '*' });
+    const post = (headers: Record<string, string>, body = payload) => fetch(`${t.url}/api/billing/webhook`, { method: 'POST', headers: { 'content-type': 'application/json', ...headers }, body });
+    const unsigned = await post({});
+    expect(unsigned.status).toBe(400);
+    expect((await unsigned.json()).error.code).toBe('invalid_signature');
+    const wrongSecret = new Stripe('sk_x').webhooks.generateTestHeaderString({ payload, secret: 'whsec_wrong' });
+    expect((await post({ 'stripe-signature': wrongSecret })).status).toBe(400);
+    // Signed for one body, sent with another (re-serialised JSON breaks the signature too).
+    const good = new Stripe('sk_x').webhooks.generateTestHeaderString({ payload, secret: t.config.payments!.webhookSecret });
+    expect((await post({ 'stripe-signature': good }, JSON.stringify(JSON.parse(payload), null, 1))).status).toBe(400);
+    expect(await t.db('payment_events').count({ n: '*' })).toEqual(events);
+    expect((await o.get(`/api/invoices/${inv.id}`)).body.status).toBe('open');
+  });
+
+  it('a correctly signed event whose session the provider says is unpaid does not mark the invoice paid', async () => {
+    const inv = await issued();
+    const start = await a.post(`/api/invoices/${inv.id}/checkout`);
+    const sessionId = start.body.url.split('/pay/')[1];
+    const payload = JSON.stringify({ id: 'evt_claims_paid', object: 'event', type: 'checkout.session.completed', data: { object: { id: sessionId, object: 'checkout.session', payment_status: 'paid', metadata: { invoice_id: String(inv.id) } } } });
+    const sig = new Stripe('sk_x').webhooks.generateTestHeaderString({ payload, secret: t.config.payments!.webhookSecret });
+    const res = await fetch(`${t.url}/api/billing/webhook`, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': sig }, body: payload });
+    expect(res.status).toBe(200);
+    expect((await o.get(`/api/invoices/${inv.id}`)).body.status).toBe('open');
+  });
+
+  it('refund round-trips: owner refunds through the provider, charge.refunded arrives once, receipt says refunded', async () => {
+    const inv = await paidInvoice();
+    expect(inv.status).toBe('paid');
+    expect((await o.post(`/api/invoices/${inv.id}/void`)).status).toBe(409);
+    const c = await signedIn(t.app, coach.email, coach.password);
+    expect((await c.post(`/api/invoices/${inv.id}/refund`)).status).toBe(403);
+    const res = await o.post(`/api/invoices/${inv.id}/refund`);
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect(res.body).toMatchObject({ status: 'refunded' });
+    await t.fakePayments!.idle();
+    const refunded = t.fakePayments!.events.at(-1)!;
+    expect(refunded.type).toBe('charge.refunded');
+    expect(await t.db('payment_events').where({ id: refunded.id }).first()).toMatchObject({ invoice_id: inv.id });
+    expect((await o.get(`/api/invoices/${inv.id}`)).body.status).toBe('refunded');
+    expect((await o.post(`/api/invoices/${inv.id}/refund`)).status).toBe(409);
+    const pdf = await a.get(`/api/invoices/${inv.id}/receipt`).buffer(true).parse((r, cb) => {
+      const chunks: Buffer[] = [];
+      r.on('data', (ch: Buffer) => chunks.push(ch));
+      r.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    expect((await new PDFParse({ data: pdf.body as Buffer }).getText()).text).toMatch(/Refunded on .*78\.00 EUR/);
+  });
+
+  it('without payment configuration, paying answers 503 and the webhook refuses', async () => {
+    const off = await makeTestApp({ payments: null });
+    try {
+      const oo = await signedIn(off.app, owner.email, owner.password);
+      const id = (await oo.post('/api/invoices', { athleteId: adaId, assessmentId: null, dueDate: due, note: null, lines: [{ priceId: null, description: 'X', quantity: 1, unitAmountMinor: 100, taxRateBp: null }] })).body.id;
+      await oo.post(`/api/invoices/${id}/issue`);
+      const aa = await signedIn(off.app, athlete.email, athlete.password);
+      const res = await aa.post(`/api/invoices/${id}/checkout`);
+      expect(res.status).toBe(503);
+      expect(res.body.error.code).toBe('payments_unavailable');
+      const hook = await aa.post('/api/billing/webhook', { id: 'evt_x', type: 'checkout.session.completed' });
+      expect(hook.status).toBe(503);
+    } finally {
+      await off.close();
+    }
+  });
+});
