@@ -38,6 +38,11 @@ import { validateEvents } from '../src/kinematics';
 import { exercisesService } from './plans/exercises-service';
 import { plansService } from './plans/plans-service';
 import { plansRoutes } from './plans/plans.routes';
+import { RENDER_STILL_JOB, stillsService } from './stills/stills-service';
+import { stillsRoutes } from './stills/stills.routes';
+import { RENDER_SUMMARY_JOB, summariesService } from './summaries/summaries-service';
+import { summariesRoutes } from './summaries/summaries.routes';
+import { portalSharedRoutes } from './summaries/portal-shared.routes';
 import { billingService } from './billing/billing-service';
 import { billingRoutes, billingWebhookRoutes } from './billing/billing.routes';
 import { stripePayments, type Payments } from './billing/payments';
@@ -198,20 +203,24 @@ export function createApp(deps: AppDeps): App {
     wakeWorker: () => worker?.wake(),
     cancelJob: (subject) => worker?.cancel(subject),
   });
-  const assessments = assessmentsService({ db, clips });
+  const assessments = assessmentsService({ db, clips, store });
   const measures = measuresService({ db, store, clips });
   const annotations = annotationsService({ db, clips, validateEvents, afterSave: measures.afterSave });
   const exercises = exercisesService({ db, clock });
   const plans = plansService({ db, clock });
+  const sharing = { db, store, queue, clips, mailer, logger, publicUrl: config.publicUrl, clock, wakeWorker: () => worker?.wake() };
+  const stills = stillsService(sharing);
+  const summaries = summariesService({ ...sharing, stills, measures });
   if (config.runWorker) {
     worker = startWorker({
       queue,
-      handlers: { [EXTRACT_JOB]: clips.processJob },
+      handlers: { [EXTRACT_JOB]: clips.processJob, [RENDER_STILL_JOB]: stills.renderJob, [RENDER_SUMMARY_JOB]: summaries.renderJob },
       logger,
       concurrency: config.jobs.concurrency,
       pollMs: config.jobs.pollMs,
       leaseMs: config.jobs.leaseMs,
-      onFinalFailure: (job, message) => clips.markFailed(job, message),
+      onFinalFailure: (job, message) =>
+        job.type === RENDER_STILL_JOB ? stills.markFailed(job, message) : job.type === RENDER_SUMMARY_JOB ? summaries.markFailed(job, message) : clips.markFailed(job, message),
     });
   }
 
@@ -231,6 +240,9 @@ export function createApp(deps: AppDeps): App {
   api.use(measuresRoutes({ db, measures }));
   api.use(comparisonRoutes(comparisonService({ db, measures })));
   api.use(plansRoutes({ exercises, plans }));
+  api.use(stillsRoutes(stills));
+  api.use(summariesRoutes(summaries));
+  api.use(portalSharedRoutes({ stills, summaries }));
   api.use(billingRoutes(billing));
   if (config.demoMode) api.use(mailboxRoutes(db));
   api.use(apiNotFound);

@@ -5,12 +5,13 @@ import { isStaff } from '../http/access';
 import { audit } from '../audit/audit-log';
 import { accessibleAthlete } from '../athletes/athlete-access';
 import type { ClipsService } from '../clips/clips-service';
+import type { MediaStore } from '../storage/media-store';
 import { clipsRepository } from '../clips/clips-repository';
 import { assessmentsRepository as repo, type AssessmentRow } from './assessments-repository';
 import type { AssessmentInput, AssessmentPatch } from './assessments-schemas';
 
 /** Dated gait visits of an athlete. Staff write; the athlete reads their own. */
-export function assessmentsService({ db, clips }: { db: Db; clips: ClipsService }) {
+export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsService; store: MediaStore }) {
   const now = () => new Date().toISOString();
 
   async function toApi(user: SessionUser, row: AssessmentRow): Promise<Assessment> {
@@ -89,6 +90,8 @@ export function assessmentsService({ db, clips }: { db: Db; clips: ClipsService 
       const clipIds = await clipsRepository.idsForAssessment(db, id);
       await clips.removeClips(clipIds.map((clipId) => ({ id: clipId, assessment_id: id })));
       await db('assessments').where({ id }).delete();
+      // Visit summaries' PDFs live in the assessment's folder.
+      await store.removeAssessment(id);
       await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'assessment.deleted', detail: { assessmentId: id, clips: clipIds.length } });
     },
   };

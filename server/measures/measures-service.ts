@@ -66,6 +66,14 @@ export function measuresService({ db, store, clips }: { db: Db; store: MediaStor
     return measures;
   }
 
+  /** Measures of an assessment's ready clips, without an access check (callers check). */
+  async function ofAssessment(assessmentId: number): Promise<ClipMeasures[]> {
+    const rows = await db<ClipRow>('clips').where({ assessment_id: assessmentId, status: 'ready' }).orderBy('id');
+    const out: ClipMeasures[] = [];
+    for (const row of rows) out.push(await forClipRow(row));
+    return out;
+  }
+
   return {
     /** Called inside the annotation save's transaction. */
     async afterSave(trx: Knex, clip: ClipRow, annotations: ClipAnnotations): Promise<void> {
@@ -80,11 +88,10 @@ export function measuresService({ db, store, clips }: { db: Db; store: MediaStor
 
     async forAssessment(user: SessionUser, assessmentId: number): Promise<ClipMeasures[]> {
       await clips.accessibleAssessment(user, assessmentId);
-      const rows = await db<ClipRow>('clips').where({ assessment_id: assessmentId, status: 'ready' }).orderBy('id');
-      const out: ClipMeasures[] = [];
-      for (const row of rows) out.push(await forClipRow(row));
-      return out;
+      return ofAssessment(assessmentId);
     },
+
+    ofAssessment,
   };
 }
 

@@ -15,6 +15,10 @@ export interface MediaStore {
   adopt(tmpFile: string, clipId: number, name: string): Promise<string>;
   /** Removes a clip's folder and everything in it. */
   removeClip(clipId: number): Promise<void>;
+  /** An assessment's folder (visit summaries). */
+  assessmentDir(assessmentId: number): string;
+  /** Removes an assessment's folder and everything in it. */
+  removeAssessment(assessmentId: number): Promise<void>;
   /** A fresh temp file path (for tests and generators). */
   tempPath(ext: string): string;
 }
@@ -22,11 +26,16 @@ export interface MediaStore {
 export function localMediaStore(root: string): MediaStore {
   const tmpDir = path.join(root, 'tmp');
   const clipsDir = path.join(root, 'clips');
+  const assessmentsDir = path.join(root, 'assessments');
   fs.mkdirSync(tmpDir, { recursive: true });
   fs.mkdirSync(clipsDir, { recursive: true });
   const clipDir = (clipId: number) => {
     if (!Number.isSafeInteger(clipId) || clipId <= 0) throw new Error(`bad clip id ${clipId}`);
     return path.join(clipsDir, String(clipId));
+  };
+  const assessmentDir = (assessmentId: number) => {
+    if (!Number.isSafeInteger(assessmentId) || assessmentId <= 0) throw new Error(`bad assessment id ${assessmentId}`);
+    return path.join(assessmentsDir, String(assessmentId));
   };
   return {
     tmpDir,
@@ -41,6 +50,10 @@ export function localMediaStore(root: string): MediaStore {
     },
     async removeClip(clipId) {
       await fs.promises.rm(clipDir(clipId), { recursive: true, force: true });
+    },
+    assessmentDir,
+    async removeAssessment(assessmentId) {
+      await fs.promises.rm(assessmentDir(assessmentId), { recursive: true, force: true });
     },
     tempPath(ext) {
       return path.join(tmpDir, `${crypto.randomUUID()}${ext}`);

@@ -24,6 +24,24 @@ export interface StillPanel {
   label: string;
 }
 
+/** A degree label drawn on a still. */
+export interface StillLabel {
+  /** Index into {@link Still.panels}. */
+  panel: number;
+  side: 'left' | 'right';
+  joint: 'hip' | 'knee' | 'ankle';
+  /** Exactly the text drawn, e.g. "11.2° ext". */
+  text: string;
+}
+
+/** A rectangle in the rendered PNG, px. */
+export interface StillRect {
+  x: number;
+  y: number;
+  width: number;
+  height: number;
+}
+
 /** An annotated still: one frame, or a side-by-side pair (Re-test comparison). */
 export interface Still {
   id: number;
@@ -42,8 +60,10 @@ export interface Still {
   /** Rendered PNG size, px (null until ready). */
   width: number | null;
   height: number | null;
-  /** Degree labels drawn on the still (joint → value), so the text can be checked against measures. */
-  labels: { side: 'left' | 'right'; joint: 'hip' | 'knee' | 'ankle'; text: string }[];
+  /** Degree labels drawn on the still, per panel, so the text can be checked against measures. */
+  labels: StillLabel[];
+  /** Where each panel's frame sits in the PNG, px (null until ready). */
+  layout: StillRect[] | null;
   publishedAt: string | null;
   publishedBy: string | null;
   createdAt: string;

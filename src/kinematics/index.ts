@@ -20,3 +20,4 @@ export * from './spring-mass';
 export * from './measures';
 export * from './overlay';
 export * from './comparison';
+export * from './format';

@@ -158,6 +158,28 @@ const ROUTES: RouteCase[] = [
   { method: 'get', pattern: '/api/invoices/:id/receipt', path: () => `/api/invoices/${bc.receiptInvoiceId}/receipt`, expect: billingSelf(200) },
   // Public but signature-checked: without a valid provider signature every caller gets 400 (and no CSRF 403).
   { method: 'post', pattern: '/api/billing/webhook', path: () => '/api/billing/webhook', body: () => ({ id: 'evt_walk', type: 'checkout.session.completed', data: { object: {} } }), expect: all(400) },
+  // Stills and visit summaries (fixtures in sharingFixtures() at the end of this file). The walk's
+  // still and summary are published, so their own athlete reads them; scratch ones take the writes.
+  { method: 'post', pattern: '/api/clips/:id/stills', path: (c) => `/api/clips/${c.clipId}/stills`, body: () => ({ frameIndex: 0, caption: 'Walk', showAngles: true }), expect: staffWrite(202) },
+  { method: 'get', pattern: '/api/athletes/:id/stills', path: (c) => `/api/athletes/${c.selfAthleteId}/stills`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/stills/:id', path: () => `/api/stills/${sc.stillId}`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/stills/:id', path: () => `/api/stills/${sc.scratchStillId}`, before: () => scratchStill(), expect: { ...selfAndStaff(200), athleteSelf: 404 } },
+  { method: 'patch', pattern: '/api/stills/:id', path: () => `/api/stills/${sc.scratchStillId}`, body: () => ({ caption: 'Walked' }), before: () => scratchStill(), expect: staffWrite(200) },
+  { method: 'post', pattern: '/api/stills/:id/publish', path: () => `/api/stills/${sc.scratchStillId}/publish`, before: () => scratchStill(), expect: staffWrite(200) },
+  { method: 'post', pattern: '/api/stills/:id/unpublish', path: () => `/api/stills/${sc.scratchStillId}/unpublish`, before: () => scratchStill(), expect: staffWrite(200) },
+  { method: 'delete', pattern: '/api/stills/:id', path: () => `/api/stills/${sc.scratchStillId}`, before: () => scratchStill(), expect: staffWrite(204) },
+  { method: 'get', pattern: '/api/stills/:id/image.png', path: () => `/api/stills/${sc.stillId}/image.png`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/stills/:id/image.jpg', path: () => `/api/stills/${sc.stillId}/image.jpg`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/stills/:id/image.png', path: () => `/api/stills/${sc.scratchStillId}/image.png`, before: () => scratchStill(), expect: { ...selfAndStaff(200), athleteSelf: 404 } },
+  { method: 'post', pattern: '/api/assessments/:id/summaries', path: (c) => `/api/assessments/${c.assessmentId}/summaries`, body: () => ({ findings: '', planText: '', stillIds: [] }), expect: staffWrite(202) },
+  { method: 'get', pattern: '/api/athletes/:id/summaries', path: (c) => `/api/athletes/${c.selfAthleteId}/summaries`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/summaries/:id', path: () => `/api/summaries/${sc.summaryId}`, expect: selfAndStaff(200) },
+  { method: 'post', pattern: '/api/summaries/:id/publish', path: () => `/api/summaries/${sc.scratchSummaryId}/publish`, before: () => scratchSummary(), expect: staffWrite(200) },
+  { method: 'post', pattern: '/api/summaries/:id/unpublish', path: () => `/api/summaries/${sc.scratchSummaryId}/unpublish`, before: () => scratchSummary(), expect: staffWrite(200) },
+  { method: 'delete', pattern: '/api/summaries/:id', path: () => `/api/summaries/${sc.scratchSummaryId}`, before: () => scratchSummary(), expect: staffWrite(204) },
+  { method: 'get', pattern: '/api/summaries/:id/pdf', path: () => `/api/summaries/${sc.summaryId}/pdf`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/summaries/:id/pdf', path: () => `/api/summaries/${sc.scratchSummaryId}/pdf`, before: () => scratchSummary(), expect: { ...selfAndStaff(200), athleteSelf: 404 } },
+  { method: 'get', pattern: '/api/portal/shared', path: () => '/api/portal/shared', expect: { anonymous: 401, athleteSelf: 200, athleteOther: 200, coach: 403, coachOtherClinic: 403, owner: 403 } },
 ];
 
 const [owner, coach, , athlete] = DEMO_SIGN_INS;
@@ -226,6 +248,7 @@ beforeAll(async () => {
   await t.worker!.idle();
   await plansFixtures();
   await billingFixtures();
+  await sharingFixtures();
   server = http.createServer(t.app).listen(0, '127.0.0.1');
 });
 afterAll(async () => {
@@ -380,4 +403,28 @@ async function billingFixtures(): Promise<void> {
   bc.otherAthleteInvoiceId = await openInvoice(ctx.otherAthleteId);
   await paidInvoice();
   bc.receiptInvoiceId = bc.paidInvoiceId;
+}
+
+// ─── Stills and visit summaries ───────────────────────────────────────────────────────────
+const sc = { stillId: 0, scratchStillId: 0, summaryId: 0, scratchSummaryId: 0 };
+
+/** A rendered, unpublished still of the walk's clip. */
+async function scratchStill(): Promise<void> {
+  sc.scratchStillId = (await coachClient.post(`/api/clips/${ctx.clipId}/stills`, { frameIndex: 0, caption: 'Scratch', showAngles: true })).body.id;
+  await t.worker!.idle();
+}
+
+/** A rendered, unpublished visit summary of the walk's assessment. */
+async function scratchSummary(): Promise<void> {
+  sc.scratchSummaryId = (await coachClient.post(`/api/assessments/${ctx.assessmentId}/summaries`, { findings: '', planText: '', stillIds: [] })).body.id;
+  await t.worker!.idle();
+}
+
+async function sharingFixtures(): Promise<void> {
+  await scratchStill();
+  sc.stillId = sc.scratchStillId;
+  expect((await coachClient.post(`/api/stills/${sc.stillId}/publish`, {})).status).toBe(200);
+  await scratchSummary();
+  sc.summaryId = sc.scratchSummaryId;
+  expect((await coachClient.post(`/api/summaries/${sc.summaryId}/publish`, {})).status).toBe(200);
 }

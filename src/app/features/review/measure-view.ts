@@ -4,6 +4,9 @@
 import { GAIT_EVENT_LABELS } from '../../../contracts/annotations';
 import type { BandEvaluation, Measure, MeasureKey, ReferenceBand } from '../../../contracts/measures';
 import { classifyFootStrike } from './kinematics-adapter';
+import { bandRange, formatMeasure, formatValue } from '../../../kinematics/format';
+
+export { bandRange, formatMeasure, formatValue };
 
 export interface MeasureGroupDef {
   id: string;
@@ -58,40 +61,6 @@ export function groupMeasures(measures: readonly Measure[]): MeasureGroup[] {
   return groups.filter((g) => g.measures.length > 0);
 }
 
-function decimalsFor(unit: string): number {
-  switch (unit) {
-    case 'steps/min':
-    case 'strides/min':
-    case 'mm':
-      return 0;
-    case 's':
-      return 3;
-    case 'm':
-      return 2;
-    default:
-      return 1;
-  }
-}
-
-function joinUnit(text: string, unit: string): string {
-  if (!unit) return text;
-  return unit === '°' || unit === '%' ? `${text}${unit}` : `${text} ${unit}`;
-}
-
-/** A number in a measure's unit, e.g. "12.3°", "171 steps/min", "0.350 s". */
-export function formatValue(value: number | null, unit: string): string {
-  if (value === null || !Number.isFinite(value)) return '—';
-  return joinUnit(value.toFixed(decimalsFor(unit)), unit);
-}
-
-/** "mean ± SD unit" (SD left out for a single step). */
-export function formatMeasure(m: Pick<Measure, 'mean' | 'sd' | 'unit' | 'n' | 'status'>): string {
-  if (m.status !== 'ok' || m.mean === null) return 'Not enough data';
-  const d = decimalsFor(m.unit);
-  const sd = m.sd !== null && Number.isFinite(m.sd) && m.n > 1 ? ` ± ${m.sd.toFixed(d)}` : '';
-  return joinUnit(`${m.mean.toFixed(d)}${sd}`, m.unit);
-}
-
 /** "Left · Toe-off", "Right", "Both sides". */
 export function measureContext(m: Pick<Measure, 'side' | 'event'>): string {
   const side = m.side === 'left' ? 'Left' : m.side === 'right' ? 'Right' : 'Both sides';
@@ -103,17 +72,6 @@ export function stepsText(m: Pick<Measure, 'n' | 'status'>): { text: string; few
   const few = m.n < MIN_RELIABLE_STEPS;
   const text = `n = ${m.n} ${m.n === 1 ? 'step' : 'steps'}`;
   return { text: few ? `${text} (fewer than ${MIN_RELIABLE_STEPS}: less reliable)` : text, few };
-}
-
-/** "10–25°", "≥ 10°", "≤ 8 cm". */
-export function bandRange(band: Pick<ReferenceBand, 'low' | 'high' | 'unit'>): string {
-  const { low, high, unit } = band;
-  const d = decimalsFor(unit);
-  const n = (v: number) => String(Number(v.toFixed(Math.max(d, 2))));
-  if (low !== null && high !== null) return joinUnit(`${n(low)}–${n(high)}`, unit);
-  if (low !== null) return `≥ ${joinUnit(n(low), unit)}`;
-  if (high !== null) return `≤ ${joinUnit(n(high), unit)}`;
-  return 'No limits';
 }
 
 export interface BandFlag {

@@ -1,0 +1,50 @@
+import { Router } from 'express';
+import { currentUser, requireRole, requireSignedIn } from '../http/access';
+import { idParam, parse } from '../http/validate';
+import { sendPrivateFile } from '../stills/stills.routes';
+import type { SummariesService } from './summaries-service';
+import { SummaryCreateBody } from './summaries-schemas';
+
+/** Visit summaries: staff create, publish and delete; the athlete reads published ones. */
+export function summariesRoutes(summaries: SummariesService): Router {
+  const router = Router();
+
+  router.post('/assessments/:id/summaries', requireRole('owner', 'coach'), async (req, res) => {
+    const assessmentId = idParam(req.params, 'Assessment');
+    const body = parse(SummaryCreateBody, req.body);
+    res.status(202).json(await summaries.create(currentUser(req), assessmentId, body));
+  });
+
+  router.get('/athletes/:id/summaries', requireSignedIn, async (req, res) => {
+    res.json(await summaries.list(currentUser(req), idParam(req.params, 'Athlete')));
+  });
+
+  router.get('/summaries/:id', requireSignedIn, async (req, res) => {
+    res.json(await summaries.get(currentUser(req), idParam(req.params, 'Visit summary')));
+  });
+
+  router.post('/summaries/:id/publish', requireRole('owner', 'coach'), async (req, res) => {
+    res.json(await summaries.setPublished(currentUser(req), idParam(req.params, 'Visit summary'), true));
+  });
+
+  router.post('/summaries/:id/unpublish', requireRole('owner', 'coach'), async (req, res) => {
+    res.json(await summaries.setPublished(currentUser(req), idParam(req.params, 'Visit summary'), false));
+  });
+
+  router.delete('/summaries/:id', requireRole('owner', 'coach'), async (req, res) => {
+    await summaries.remove(currentUser(req), idParam(req.params, 'Visit summary'));
+    res.status(204).end();
+  });
+
+  router.get('/summaries/:id/pdf', requireSignedIn, async (req, res, next) => {
+    const id = idParam(req.params, 'Visit summary');
+    const { file, row } = await summaries.pdfPath(currentUser(req), id);
+    const name = `visit-summary-${row.id}.pdf`;
+    const download = req.query['download'] === '1';
+    // Opened in a tab of our own origin (the preview); never framed elsewhere.
+    res.setHeader('Content-Security-Policy', "default-src 'none'; frame-ancestors 'self'");
+    sendPrivateFile(res, next, file, 'application/pdf', `${download ? 'attachment' : 'inline'}; filename="${name}"`);
+  });
+
+  return router;
+}
