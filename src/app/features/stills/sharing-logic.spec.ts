@@ -15,6 +15,7 @@ import {
   stepIndex,
   stillAlt,
   stillChoices,
+  stillSrc,
   summaryStateText,
   swipeStep,
   textCount,
@@ -201,5 +202,14 @@ describe('defaultBaseline', () => {
   it('summarises a Baseline on its own', () => {
     expect(defaultBaseline(visits, 10)).toBeNull();
     expect(defaultBaseline(visits, null)).toBeNull();
+  });
+});
+
+describe('stillSrc', () => {
+  it('changes when the caption changes, and only then', () => {
+    const a = stillSrc('/api/stills/1/image.png', still({ caption: 'One' }));
+    expect(a).toMatch(/^\/api\/stills\/1\/image\.png\?v=[0-9a-z]+$/);
+    expect(stillSrc('/api/stills/1/image.png', still({ caption: 'One' }))).toBe(a);
+    expect(stillSrc('/api/stills/1/image.png', still({ caption: 'Two' }))).not.toBe(a);
   });
 });

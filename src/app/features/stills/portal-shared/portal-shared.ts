@@ -14,7 +14,7 @@ import type { Still } from '../../../../contracts/sharing';
 import { errorMessage } from '../../../core/api-error';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentsApi } from '../../assessments/assessments-api';
-import { SHARED_CAUTION, downloadUrl, nextAssessment, panelText, stillAlt, todayIso } from '../sharing-logic';
+import { SHARED_CAUTION, downloadUrl, nextAssessment, panelText, stillAlt, stillSrc, todayIso } from '../sharing-logic';
 import { openStillViewer } from '../still-viewer/still-viewer';
 import { StillsApi } from '../stills-api';
 
@@ -51,6 +51,7 @@ export class PortalShared {
   protected readonly kindLabels = ASSESSMENT_KIND_LABELS;
   protected readonly surfaceLabels = FILM_SURFACE_LABELS;
   protected readonly stillAlt = stillAlt;
+  protected readonly stillSrc = stillSrc;
   protected readonly panelText = panelText;
   protected readonly downloadUrl = downloadUrl;
   protected readonly errorMessage = errorMessage;

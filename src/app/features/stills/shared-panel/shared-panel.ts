@@ -15,7 +15,7 @@ import { errorMessage } from '../../../core/api-error';
 import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
-import { POLL_MS, anyRendering, downloadUrl, panelText, progressPercent, publishButton, publishConfirmText, stillAlt, summaryStateText, textCount } from '../sharing-logic';
+import { POLL_MS, anyRendering, downloadUrl, panelText, progressPercent, publishButton, publishConfirmText, stillAlt, stillSrc, summaryStateText, textCount } from '../sharing-logic';
 import { saveProblems } from '../sharing-errors';
 import { openStillViewer } from '../still-viewer/still-viewer';
 import { StillsApi } from '../stills-api';
@@ -69,6 +69,7 @@ export class SharedPanel {
   protected readonly progressPercent = progressPercent;
   protected readonly panelText = panelText;
   protected readonly stillAlt = stillAlt;
+  protected readonly stillSrc = stillSrc;
   protected readonly summaryStateText = summaryStateText;
   protected readonly downloadUrl = downloadUrl;
   protected readonly errorMessage = errorMessage;
@@ -107,12 +108,16 @@ export class SharedPanel {
     return this.pending().has(key);
   }
 
+  /** What went wrong with the last action on a still or summary, by key; shown on its card. */
+  protected readonly problems = signal<Readonly<Record<string, string>>>({});
+
   private async track<T>(key: string, work: Observable<T>): Promise<T | null> {
     this.pending.update((s) => new Set(s).add(key));
+    this.problems.update(({ [key]: _gone, ...rest }) => rest);
     try {
       return await firstValueFrom(work.pipe(takeUntilDestroyed(this.destroyRef)));
     } catch (err) {
-      this.snackBar.open(errorMessage(err), 'OK', { duration: 6000 });
+      this.problems.update((p) => ({ ...p, [key]: errorMessage(err) }));
       return null;
     } finally {
       this.pending.update((s) => {

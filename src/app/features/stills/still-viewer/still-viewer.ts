@@ -4,7 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialog, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import type { Still } from '../../../../contracts/sharing';
-import { panelText, positionText, stepIndex, stillAlt, swipeStep } from '../sharing-logic';
+import { panelText, positionText, stepIndex, stillAlt, stillSrc, swipeStep } from '../sharing-logic';
 
 export interface StillViewerData {
   stills: Still[];
@@ -35,6 +35,7 @@ export class StillViewer {
   protected readonly atStart = computed(() => this.index() <= 0);
   protected readonly atEnd = computed(() => this.index() >= this.data.stills.length - 1);
   protected readonly stillAlt = stillAlt;
+  protected readonly stillSrc = stillSrc;
   protected readonly panelText = panelText;
   private drag: { id: number; x: number; y: number } | null = null;
 

@@ -15,7 +15,7 @@ import { SUMMARY_STILLS_MAX, SUMMARY_TEXT_MAX, type Still, type VisitSummary, ty
 import { errorMessage } from '../../../core/api-error';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentsApi } from '../../assessments/assessments-api';
-import { baselineChoices, defaultBaseline, panelText, stillAlt, stillChoices, textCount } from '../sharing-logic';
+import { baselineChoices, defaultBaseline, panelText, stillAlt, stillSrc, stillChoices, textCount } from '../sharing-logic';
 import { saveProblems } from '../sharing-errors';
 import { StillsApi } from '../stills-api';
 
@@ -51,6 +51,7 @@ export class SummaryDialog {
   protected readonly kindLabels = ASSESSMENT_KIND_LABELS;
   protected readonly errorMessage = errorMessage;
   protected readonly stillAlt = stillAlt;
+  protected readonly stillSrc = stillSrc;
   protected readonly panelText = panelText;
 
   protected readonly assessments = rxResource({
