@@ -12,7 +12,7 @@ import { seed } from '../../seeds/demo-scenario';
 export const SCREENSHOTS = path.resolve('test-results/screenshots');
 
 /** Chromium flags for this machine: headless, no sandbox (root), no background network. */
-const CHROMIUM_ARGS = [
+export const CHROMIUM_ARGS = [
   '--headless',
   '--no-sandbox',
   '--disable-gpu',
