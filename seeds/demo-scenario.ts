@@ -3,9 +3,15 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { hashPassword } from '../server/auth/passwords';
 import { localMediaStore } from '../server/storage/media-store';
-import { sqliteJobQueue } from '../server/jobs/job-queue';
+import { sqliteJobQueue, type JobQueue } from '../server/jobs/job-queue';
+import type { AssessmentKind } from '../src/contracts/assessment';
 import { EXTRACT_JOB } from '../server/clips/clips-service';
 import { generateDemoClips } from '../scripts/demo-clip/clip';
+import { demoMarks } from '../scripts/demo-clip/demo-marks';
+import type { GroundTruth } from '../scripts/demo-clip/ground-truth';
+import { RENDER_STILL_JOB, freezePanel } from '../server/stills/stills-service';
+import { RENDER_SUMMARY_JOB } from '../server/summaries/summaries-service';
+import { annotationsRepository } from '../server/annotations/annotations-repository';
 import { seedDemoPlans } from './demo-plans';
 import { seedDemoPrices } from './demo-prices';
 
@@ -223,6 +229,7 @@ async function seedDemoClips(knex: Knex, uploadsDir: string, log: (m: string) =>
     const ada = await knex('athletes').where({ last_name: 'Kestrel' }).first<{ id: number; clinic_id: number; coach_id: number }>();
     const visits = await knex('assessments').where({ athlete_id: ada.id }).orderBy('date');
     const at = new Date().toISOString();
+    const seeded: DemoShareClip[] = [];
     for (const [visit, clip] of [
       [visits.find((v) => v.kind === 'baseline'), clips.baseline],
       [visits.find((v) => v.kind === 'retest'), clips.retest],
@@ -259,10 +266,71 @@ async function seedDemoClips(knex: Knex, uploadsDir: string, log: (m: string) =>
         await store.adopt(clip.videoFile, clipId, 'original.mp4');
         // Kept beside the clip for checks; never served.
         await store.adopt(clip.groundTruthFile, clipId, 'ground-truth.json');
+        // Already marked by the coach (events and landmarks at every event), so the measures and
+        // the Re-test comparison show real figures straight away.
+        await annotationsRepository.replace(trx, clipId, demoMarks(truth));
+        await trx('clips').where({ id: clipId }).update({ annotation_revision: 1, annotated_by: ada.coach_id, annotated_at: at });
+        seeded.push({ clipId, visit: { id: visit.id, kind: visit.kind, date: visit.date }, truth });
       });
     }
-    log('demo clips queued: the server extracts their frames when it starts');
+    if (seeded.length === 2) await seedDemoShares(knex, queue, { athleteId: ada.id, clinicId: ada.clinic_id, coachId: ada.coach_id, at }, seeded[0]!, seeded[1]!);
+    log('demo clips queued: the server extracts their frames when it starts, then renders the demo stills and visit summary');
   } finally {
     fs.rmSync(work, { recursive: true, force: true });
   }
+}
+
+interface DemoShareClip {
+  clipId: number;
+  visit: { id: number; kind: AssessmentKind; date: string };
+  truth: GroundTruth;
+}
+
+/**
+ * What the coach shared after the Re-test (invented demo content): a still of each visit at the
+ * same right toe-off, published; a side-by-side pair, not yet published; and a published visit
+ * summary comparing the two. Queued after the clips' extraction jobs, so they render once the
+ * frames exist.
+ */
+async function seedDemoShares(knex: Knex, queue: JobQueue, who: { athleteId: number; clinicId: number; coachId: number; at: string }, baseline: DemoShareClip, retest: DemoShareClip): Promise<void> {
+  const panel = (c: DemoShareClip, step: number) => {
+    const frameIndex = c.truth.events.near.toeOff[step]!;
+    const scale = Math.min(1, 1280 / Math.max(c.truth.width, c.truth.height));
+    return freezePanel({
+      clip: { id: c.clipId, assessmentId: c.visit.id, nearSide: c.truth.nearSide, direction: c.truth.facing === 'right' ? 'left_to_right' : 'right_to_left' },
+      assessment: c.visit,
+      annotations: { ...demoMarks(c.truth), scale: null },
+      frameIndex,
+      frameSize: { width: Math.round(c.truth.width * scale), height: Math.round(c.truth.height * scale) },
+      timeS: c.truth.frames[frameIndex]!.timeMs / 1000,
+    });
+  };
+  const still = async (trx: Knex, owner: DemoShareClip, panels: ReturnType<typeof panel>[], caption: string, published: boolean): Promise<number> => {
+    const [row] = await trx('stills')
+      .insert({
+        clinic_id: who.clinicId, athlete_id: who.athleteId, assessment_id: owner.visit.id, clip_id: owner.clipId, kind: panels.length > 1 ? 'pair' : 'frame',
+        panels: JSON.stringify(panels), caption, show_angles: true, status: 'rendering', progress: 0, render_version: 1,
+        published_at: published ? who.at : null, published_by: published ? who.coachId : null, created_by: who.coachId, created_at: who.at, updated_at: who.at,
+      })
+      .returning('id');
+    const id = (row as { id: number }).id;
+    await queue.enqueue(trx, RENDER_STILL_JOB, `still:${id}`, { stillId: id });
+    return id;
+  };
+  await knex.transaction(async (trx) => {
+    const a = await still(trx, baseline, [panel(baseline, 2)], 'Baseline, right toe-off: the thigh barely passes vertical, so the stride ends early.', true);
+    const b = await still(trx, retest, [panel(retest, 2)], 'Re-test, right toe-off: the hip now reaches extension without the lower back arching.', true);
+    await still(trx, retest, [panel(baseline, 2), panel(retest, 2)], 'Baseline and Re-test side by side at right toe-off.', false);
+    const [row] = await trx('visit_summaries')
+      .insert({
+        clinic_id: who.clinicId, athlete_id: who.athleteId, assessment_id: retest.visit.id, baseline_assessment_id: baseline.visit.id,
+        title: 'Re-test comparison: Baseline · 6 Oct 2026 and Re-test · 24 Nov 2026',
+        findings: 'Hip extension at toe-off went from about 4° to about 11°, more than the change expected from measurement error alone. The stride no longer ends early, and the lower back stays quiet at push-off. Cadence is unchanged.',
+        plan_text: 'Carry on with stage 2 (slow lengthening work) three times a week, with the running drills before easy runs. Keep pain during exercise at 3/10 or less and settled by the next morning. We re-film in six weeks.',
+        still_ids: JSON.stringify([a, b]), status: 'rendering', progress: 0, published_at: who.at, published_by: who.coachId, created_by: who.coachId, created_at: who.at, updated_at: who.at,
+      })
+      .returning('id');
+    const id = (row as { id: number }).id;
+    await queue.enqueue(trx, RENDER_SUMMARY_JOB, `summary:${id}`, { summaryId: id });
+  });
 }

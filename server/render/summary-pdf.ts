@@ -1,6 +1,6 @@
 import PDFDocument from 'pdfkit';
 import type { ComparisonRow, Measure } from '../../src/contracts/measures';
-import { bandRange, formatMeasure, formatValue } from '../../src/kinematics/format';
+import { bandRange, decimalsFor, formatMeasure, formatValue } from '../../src/kinematics/format';
 import { registerPdfFonts } from './fonts';
 
 /** One visit's facts for the header table. */
@@ -68,6 +68,13 @@ const POSITION_TEXT = { below: 'Below', within: 'Within', above: 'Above' } as co
 /** The shipped face is the Latin subset: write the few maths signs we use in words. */
 export function pdfSafe(text: string): string {
   return text.replace(/≥\s?/g, 'at least ').replace(/≤\s?/g, 'at most ').replace(/→/g, 'to');
+}
+
+/** "+7.0°", "−2.7°", "0.0°" (a change that rounds to zero has no sign). */
+export function signedChange(change: number, unit: string): string {
+  const shown = Number(change.toFixed(decimalsFor(unit)));
+  if (shown === 0) return formatValue(0, unit);
+  return `${shown > 0 ? '+' : '−'}${formatValue(Math.abs(shown), unit)}`;
 }
 
 const sideWord = (side: 'left' | 'right' | null) => (side === 'left' ? 'left' : side === 'right' ? 'right' : '');
@@ -181,7 +188,7 @@ export async function renderSummaryPdf(doc0: SummaryDocument, onProgress?: (f: n
           if (r.threshold) sources.set(r.threshold.source, `${r.threshold.source} [${r.threshold.evidence}]`);
           const label = `${r.label}${r.side ? ` (${sideWord(r.side)})` : ''}`;
           const threshold = r.threshold ? ` (threshold ${formatValue(r.threshold.value, r.threshold.unit)})` : '';
-          return [label, formatValue(r.baseline, r.unit), formatValue(r.retest, r.unit), r.change === null ? 'Not measured' : `${r.change > 0 ? '+' : ''}${formatValue(r.change, r.unit)}`, `${VERDICT_TEXT[r.verdict]}${threshold}`];
+          return [label, formatValue(r.baseline, r.unit), formatValue(r.retest, r.unit), r.change === null ? 'Not measured' : signedChange(r.change, r.unit), `${VERDICT_TEXT[r.verdict]}${threshold}`];
         }),
       );
     }

@@ -2,8 +2,8 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Logger } from 'pino';
 import type { SessionUser } from '../../src/contracts/api';
-import { ASSESSMENT_KIND_LABELS, type AssessmentKind } from '../../src/contracts/assessment';
-import { GAIT_EVENT_LABELS } from '../../src/contracts/annotations';
+import { ASSESSMENT_KIND_LABELS, type AssessmentKind, type Direction, type Side } from '../../src/contracts/assessment';
+import { GAIT_EVENT_LABELS, type ClipAnnotations } from '../../src/contracts/annotations';
 import type { Still, StillCreate } from '../../src/contracts/sharing';
 import type { Db } from '../db/knex';
 import { AppError, ConflictError, NotFoundError, ValidationError } from '../errors';
@@ -44,6 +44,35 @@ export function displayDate(isoDate: string): string {
   return Number.isNaN(d.getTime()) ? isoDate : d.toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
 }
 
+/**
+ * A still's panel: one frame's landmarks, scale bar, side and direction frozen as they are now,
+ * with the heading drawn above it ("Baseline · 6 Oct 2026 · Right toe-off · 0.85 s"). Pure.
+ */
+export function freezePanel(p: {
+  clip: { id: number; assessmentId: number; nearSide: Side; direction: Direction };
+  assessment: { kind: AssessmentKind; date: string };
+  annotations: Pick<ClipAnnotations, 'landmarks' | 'events' | 'scale'>;
+  frameIndex: number;
+  frameSize: { width: number; height: number };
+  timeS: number;
+}): StoredPanel {
+  const label = `${ASSESSMENT_KIND_LABELS[p.assessment.kind]} · ${displayDate(p.assessment.date)}`;
+  const events = p.annotations.events.filter((e) => e.frame === p.frameIndex).map((e) => `${e.side === 'left' ? 'Left' : 'Right'} ${GAIT_EVENT_LABELS[e.kind].toLowerCase()}`);
+  return {
+    clipId: p.clip.id,
+    assessmentId: p.clip.assessmentId,
+    frameIndex: p.frameIndex,
+    timeS: Math.round(p.timeS * 1000) / 1000,
+    label,
+    heading: [label, ...events, `${p.timeS.toFixed(2)} s`].join(' · '),
+    frameSize: p.frameSize,
+    landmarks: p.annotations.landmarks.filter((l) => l.frame === p.frameIndex),
+    nearSide: p.clip.nearSide,
+    direction: p.clip.direction,
+    scale: p.annotations.scale && p.annotations.scale.frame === p.frameIndex ? p.annotations.scale : null,
+  };
+}
+
 /** Annotated stills: save (frozen overlay), render as a job, caption, publish, serve. */
 export function stillsService(d: StillsDeps) {
   const { db } = d;
@@ -74,27 +103,16 @@ export function stillsService(d: StillsDeps) {
       throw new ValidationError(`Frame ${frameIndex} is not in this clip (0–${Math.max(0, count - 1)}).`, [{ path: field.split('.'), message: `Choose a frame from 0 to ${Math.max(0, count - 1)}.` }]);
     }
     const manifest = await readManifest(d.store.clipDir(clip.id));
-    const frameSize = { width: manifest?.width ?? clip.width ?? 1, height: manifest?.height ?? clip.height ?? 1 };
-    const annotations = await annotationsRepository.read(db, clip.id);
     const assessment = await db('assessments').where({ id: clip.assessment_id }).first<{ kind: AssessmentKind; date: string }>('kind', 'date');
     const ms = manifest?.timestampsMs?.[frameIndex];
-    const timeS = ms !== undefined ? ms / 1000 : frameIndex / (clip.fps ?? manifest?.fps ?? 30);
-    const label = `${ASSESSMENT_KIND_LABELS[assessment.kind]} · ${displayDate(assessment.date)}`;
-    const events = annotations.events.filter((e) => e.frame === frameIndex).map((e) => `${e.side === 'left' ? 'Left' : 'Right'} ${GAIT_EVENT_LABELS[e.kind].toLowerCase()}`);
-    const heading = [label, ...events, `${timeS.toFixed(2)} s`].join(' · ');
-    return {
-      clipId: clip.id,
-      assessmentId: clip.assessment_id,
+    return freezePanel({
+      clip: { id: clip.id, assessmentId: clip.assessment_id, nearSide: clip.near_side, direction: clip.direction },
+      assessment,
+      annotations: await annotationsRepository.read(db, clip.id),
       frameIndex,
-      timeS: Math.round(timeS * 1000) / 1000,
-      label,
-      heading,
-      frameSize,
-      landmarks: annotations.landmarks.filter((l) => l.frame === frameIndex),
-      nearSide: clip.near_side,
-      direction: clip.direction,
-      scale: annotations.scale && annotations.scale.frame === frameIndex ? annotations.scale : null,
-    };
+      frameSize: { width: manifest?.width ?? clip.width ?? 1, height: manifest?.height ?? clip.height ?? 1 },
+      timeS: ms !== undefined ? ms / 1000 : frameIndex / (clip.fps ?? manifest?.fps ?? 30),
+    });
   }
 
   async function queueRender(id: number, patch: Partial<StillRow>): Promise<void> {
@@ -232,6 +250,9 @@ export function stillsService(d: StillsDeps) {
       if (!row) return; // deleted meanwhile
       if (row.clip_id === null) throw new PermanentJobError(STILL_CLIP_DELETED);
       const panels = repo.panels(row);
+      // A still queued with its clip (the demo) waits for the frames: retried with back-off.
+      const statuses = await db('clips').whereIn('id', panels.map((p) => p.clipId)).pluck('status');
+      if (statuses.some((st: string) => st !== 'ready')) throw new Error('The clip’s frames are not extracted yet.');
       const inputs = panels.map((p) => {
         const image = path.join(d.store.clipDir(p.clipId), FRAMES_DIR, frameFileName(p.frameIndex));
         if (!fs.existsSync(image)) throw new PermanentJobError('A frame of this still is gone (its clip was deleted or re-processed). Save the still again.');
