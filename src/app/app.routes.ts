@@ -57,6 +57,11 @@ export const routes: Routes = [
         loadChildren: () => import('./features/plans/plans.routes'),
       },
       {
+        path: 'billing',
+        canMatch: [roleGuard('owner')],
+        loadChildren: () => import('./features/billing/billing.routes'),
+      },
+      {
         path: 'team',
         canMatch: [roleGuard('owner')],
         loadChildren: () => import('./features/team/team.routes'),

@@ -2,14 +2,14 @@
 
 const esc = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 
-const STYLE = `body{font:16px/1.5 system-ui,sans-serif;margin:0;background:#eef2f0;color:#1d2b26}
+const STYLE = `body{font:16px/1.5 system-ui,sans-serif;margin:0;padding:0 12px;background:#eef2f0;color:#1d2b26}
 main{max-width:26rem;margin:10vh auto;background:#fff;border:1px solid #c9d4cf;border-radius:8px;padding:1.5rem}
 h1{font-size:1.25rem;margin:0 0 .25rem}.amount{font-size:2rem;font-weight:600;margin:.5rem 0 1rem}
 .note{color:#56645e;font-size:.875rem}form{display:inline}button{font:inherit;padding:.5rem 1.25rem;margin:.25rem .5rem .25rem 0;border-radius:6px;border:1px solid #1f5a4a;cursor:pointer}
 .pay{background:#1f5a4a;color:#fff}.other{background:#fff;color:#1f5a4a}`;
 
 function page(title: string, body: string): string {
-  return `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width,initial-scale=1"><title>${esc(title)}</title><style>${STYLE}</style></head><body><main>${body}</main></body></html>`;
+  return `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width,initial-scale=1"><link rel="icon" href="data:,"><title>${esc(title)}</title><style>${STYLE}</style></head><body><main>${body}</main></body></html>`;
 }
 
 /** The page for an open session. */

@@ -3,9 +3,9 @@ import { navItemsFor } from './nav-items';
 const labels = (...args: Parameters<typeof navItemsFor>) => navItemsFor(...args).map((i) => i.label);
 
 describe('navItemsFor', () => {
-  it('gives owners the roster, exercise library, team and reference bands, and the mailbox only in demo mode', () => {
-    expect(labels('owner', false)).toEqual(['Athletes', 'Exercise library', 'Team', 'Reference bands']);
-    expect(labels('owner', true)).toEqual(['Athletes', 'Exercise library', 'Team', 'Reference bands', 'Mailbox']);
+  it('gives owners the roster, exercise library, billing, team and reference bands, and the mailbox only in demo mode', () => {
+    expect(labels('owner', false)).toEqual(['Athletes', 'Exercise library', 'Billing', 'Team', 'Reference bands']);
+    expect(labels('owner', true)).toEqual(['Athletes', 'Exercise library', 'Billing', 'Team', 'Reference bands', 'Mailbox']);
   });
 
   it('gives coaches the roster and the exercise library, even in demo mode', () => {
@@ -13,7 +13,7 @@ describe('navItemsFor', () => {
   });
 
   it('gives athletes their own pages', () => {
-    expect(navItemsFor('athlete', true).map((i) => i.path)).toEqual(['/portal', '/portal/plan', '/portal/profile']);
+    expect(navItemsFor('athlete', true).map((i) => i.path)).toEqual(['/portal', '/portal/plan', '/portal/invoices', '/portal/profile']);
   });
 
   it('gives signed-out visitors nothing', () => {

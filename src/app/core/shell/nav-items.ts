@@ -16,6 +16,7 @@ export function navItemsFor(role: Role | null, demoMode: boolean): NavItem[] {
       return [
         { label: 'Athletes', icon: 'groups', path: '/athletes', exact: false },
         { label: 'Exercise library', icon: 'fitness_center', path: '/exercises', exact: false },
+        { label: 'Billing', icon: 'receipt_long', path: '/billing', exact: false },
         { label: 'Team', icon: 'badge', path: '/team', exact: false },
         { label: 'Reference bands', icon: 'tune', path: '/settings/reference-bands', exact: false },
         ...(demoMode ? [{ label: 'Mailbox', icon: 'mail', path: '/mailbox', exact: false }] : []),
@@ -29,6 +30,7 @@ export function navItemsFor(role: Role | null, demoMode: boolean): NavItem[] {
       return [
         { label: 'Home', icon: 'home', path: '/portal', exact: true },
         { label: 'My plan', icon: 'view_timeline', path: '/portal/plan', exact: false },
+        { label: 'Invoices', icon: 'receipt_long', path: '/portal/invoices', exact: false },
         { label: 'My profile', icon: 'person', path: '/portal/profile', exact: false },
       ];
     default:

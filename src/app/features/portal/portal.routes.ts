@@ -21,6 +21,16 @@ export default [
     loadComponent: () => import('./portal-profile/portal-profile').then((m) => m.PortalProfile),
   },
   {
+    path: 'invoices',
+    title: 'Invoices · Trailframe',
+    loadComponent: () => import('../billing/portal-invoices/portal-invoices').then((m) => m.PortalInvoices),
+  },
+  {
+    path: 'invoices/:id',
+    title: 'Invoice · Trailframe',
+    loadComponent: () => import('../billing/portal-invoice/portal-invoice').then((m) => m.PortalInvoice),
+  },
+  {
     path: 'assessments/:id',
     title: 'Assessment · Trailframe',
     canDeactivate: [leaveGuard],

@@ -1,0 +1,76 @@
+import { HttpClient, HttpParams } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import { Observable, map } from 'rxjs';
+import type {
+  BillingSettings,
+  CheckoutStart,
+  InvoiceDetail,
+  InvoiceList,
+  InvoiceQuery,
+  InvoiceWrite,
+  Price,
+  PriceWrite,
+} from '../../../contracts/billing';
+import { skipErrorSnackbar } from '../../core/http-context';
+
+/**
+ * HTTP for billing: the owner's price list and invoices, the athlete's own invoices and card
+ * payment. Loads report failures through the page's error state; forms show 422s inline.
+ */
+@Injectable({ providedIn: 'root' })
+export class BillingApi {
+  private readonly http = inject(HttpClient);
+
+  settings(): Observable<BillingSettings> {
+    return this.http.get<BillingSettings>('/api/billing/settings', { context: skipErrorSnackbar() });
+  }
+
+  prices(): Observable<Price[]> {
+    return this.http
+      .get<{ prices: Price[] }>('/api/prices', { context: skipErrorSnackbar() })
+      .pipe(map((r) => r.prices));
+  }
+
+  createPrice(body: PriceWrite): Observable<Price> {
+    return this.http.post<Price>('/api/prices', body, { context: skipErrorSnackbar(422) });
+  }
+
+  updatePrice(id: number, body: Partial<PriceWrite>): Observable<Price> {
+    return this.http.patch<Price>(`/api/prices/${id}`, body, { context: skipErrorSnackbar(422) });
+  }
+
+  /** Takes the price off the list (invoices that used it keep their lines). */
+  archivePrice(id: number): Observable<void> {
+    return this.http.delete<void>(`/api/prices/${id}`);
+  }
+
+  /** The owner's clinic invoices, or the athlete's own issued ones, with totals. */
+  invoices(query: InvoiceQuery = {}): Observable<InvoiceList> {
+    let params = new HttpParams();
+    for (const [k, v] of Object.entries(query)) if (v !== undefined && v !== null && v !== '') params = params.set(k, String(v));
+    return this.http.get<InvoiceList>('/api/invoices', { params, context: skipErrorSnackbar() });
+  }
+
+  invoice(id: number): Observable<InvoiceDetail> {
+    return this.http.get<InvoiceDetail>(`/api/invoices/${id}`, { context: skipErrorSnackbar() });
+  }
+
+  createInvoice(body: InvoiceWrite): Observable<InvoiceDetail> {
+    return this.http.post<InvoiceDetail>('/api/invoices', body, { context: skipErrorSnackbar(422) });
+  }
+
+  /** `issue`, `void` or `refund`; conflicts (409) come back with the server's reason. */
+  act(id: number, action: 'issue' | 'void' | 'refund'): Observable<InvoiceDetail> {
+    return this.http.post<InvoiceDetail>(`/api/invoices/${id}/${action}`, {});
+  }
+
+  /** Opens a payment page for the athlete's own open invoice. */
+  checkout(id: number): Observable<CheckoutStart> {
+    return this.http.post<CheckoutStart>(`/api/invoices/${id}/checkout`, {});
+  }
+
+  /** Same-origin URL of the receipt PDF (the session cookie authorises it). */
+  receiptUrl(id: number): string {
+    return `/api/invoices/${id}/receipt`;
+  }
+}

@@ -1,0 +1,32 @@
+import { amountText, money, parseAmount, parseTaxPercent, taxText } from './billing-words';
+
+describe('billing words', () => {
+  it('parses amounts to minor units: 45 → 4500, 45.5 → 4550, 1,250.00 → 125000', () => {
+    expect(parseAmount('45')).toBe(4500);
+    expect(parseAmount('45.5')).toBe(4550);
+    expect(parseAmount(' 1,250.00 ')).toBe(125000);
+    expect(parseAmount('0.05')).toBe(5);
+  });
+
+  it('refuses fractions of a cent, signs and words', () => {
+    expect(parseAmount('45.005')).toBeNull();
+    expect(parseAmount('-5')).toBeNull();
+    expect(parseAmount('ten')).toBeNull();
+    expect(parseAmount('')).toBeNull();
+  });
+
+  it('parses tax percentages to basis points: 20 → 2000, 7.5 → 750, empty → no tax, 120 → invalid', () => {
+    expect(parseTaxPercent('20')).toBe(2000);
+    expect(parseTaxPercent('7.5')).toBe(750);
+    expect(parseTaxPercent('')).toBeNull();
+    expect(parseTaxPercent('120')).toBeUndefined();
+    expect(parseTaxPercent('abc')).toBeUndefined();
+  });
+
+  it('prints money, amounts and rates: 16200 EUR → 162.00 EUR; 750 bp → 7.5 %', () => {
+    expect(money(16200, 'EUR')).toBe('162.00 EUR');
+    expect(amountText(125000)).toBe('1250.00');
+    expect(taxText(750)).toBe('7.5 %');
+    expect(taxText(null)).toBe('-');
+  });
+});

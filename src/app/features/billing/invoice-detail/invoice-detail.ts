@@ -1,0 +1,70 @@
+import { DatePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCardModule } from '@angular/material/card';
+import { MatDialog } from '@angular/material/dialog';
+import { MatIconModule } from '@angular/material/icon';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { RouterLink } from '@angular/router';
+import { firstValueFrom } from 'rxjs';
+import type { InvoiceDetail } from '../../../../contracts/billing';
+import { errorMessage } from '../../../core/api-error';
+import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
+import { ErrorState } from '../../../shared/states/error-state';
+import { BillingApi } from '../billing-api';
+import { InvoiceLinesTable } from '../invoice-lines-table/invoice-lines-table';
+import { InvoiceStatusBadge } from '../invoice-status/invoice-status';
+import { money } from '../billing-words';
+
+type Action = 'issue' | 'void' | 'refund';
+
+const CONFIRM: Record<Action, (i: InvoiceDetail) => ConfirmDialogData> = {
+  issue: (i) => ({ title: 'Issue this invoice?', message: `It gets its number and ${i.athleteName} receives an e-mail with a link to pay ${money(i.totalMinor, i.currency)} by card. Lines can no longer change.`, confirmLabel: 'Issue' }),
+  void: (i) => ({ title: 'Void this invoice?', message: `${i.number ?? 'The draft'} can no longer be paid. This cannot be undone.`, confirmLabel: 'Void' }),
+  refund: (i) => ({ title: 'Refund the payment?', message: `${money(i.totalMinor, i.currency)} goes back to ${i.athleteName}'s card through the payment service. This cannot be undone.`, confirmLabel: 'Refund' }),
+};
+
+/** `/billing/invoices/:id` (owner): one invoice with Issue, Void and Refund (each confirmed). */
+@Component({
+  selector: 'app-invoice-detail',
+  imports: [DatePipe, RouterLink, MatCardModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState, InvoiceStatusBadge, InvoiceLinesTable],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  templateUrl: './invoice-detail.html',
+  styleUrl: './invoice-detail.scss',
+})
+export class InvoiceDetailPage {
+  private readonly api = inject(BillingApi);
+  private readonly dialog = inject(MatDialog);
+  private readonly snackBar = inject(MatSnackBar);
+
+  /** Route parameter. */
+  readonly id = input.required<string>();
+  protected readonly invoice = rxResource({ params: () => Number(this.id()), stream: ({ params }) => this.api.invoice(params) });
+  protected readonly busy = signal(false);
+  protected readonly receiptUrl = computed(() => this.api.receiptUrl(Number(this.id())));
+  protected readonly errorMessage = errorMessage;
+  protected readonly money = money;
+
+  protected act(action: Action, inv: InvoiceDetail): void {
+    this.dialog
+      .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, { data: CONFIRM[action](inv) })
+      .afterClosed()
+      .subscribe(async (ok) => {
+        if (!ok) return;
+        this.busy.set(true);
+        try {
+          const updated = await firstValueFrom(this.api.act(inv.id, action));
+          this.invoice.set(updated);
+          const done = { issue: `Issued as ${updated.number}; the athlete was e-mailed`, void: 'Invoice voided', refund: 'Payment refunded' }[action];
+          this.snackBar.open(done, 'OK', { duration: 4000 });
+        } catch {
+          // The error snackbar shows the server's reason (e.g. a conflict).
+          this.invoice.reload();
+        } finally {
+          this.busy.set(false);
+        }
+      });
+  }
+}

@@ -1,0 +1,167 @@
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { rxResource, takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
+import { FormArray, FormControl, FormGroup, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCardModule } from '@angular/material/card';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { ActivatedRoute, Router, RouterLink } from '@angular/router';
+import { firstValueFrom, of, startWith } from 'rxjs';
+import type { Assessment } from '../../../../contracts/api';
+import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
+import type { InvoiceLineWrite, Price } from '../../../../contracts/billing';
+import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
+import { errorText } from '../../../shared/forms/error-text';
+import { applyServerErrors } from '../../../shared/forms/server-errors';
+import { requiredTrimmed } from '../../../shared/forms/validators';
+import { AssessmentsApi } from '../../assessments/assessments-api';
+import { AthletesApi } from '../../athletes/athletes-api';
+import { BillingApi } from '../billing-api';
+import { money } from '../billing-words';
+import { amountValidator, taxValidator } from '../price-list/price-list';
+import { lineFromPrice, previewTotals, priceForAssessment, toLineWrite, type LineDraft } from './invoice-lines';
+
+type LineGroup = FormGroup<{
+  priceId: FormControl<number | null>;
+  description: FormControl<string>;
+  quantity: FormControl<number | null>;
+  amount: FormControl<string>;
+  tax: FormControl<string>;
+}>;
+
+const inTwoWeeks = () => new Date(Date.now() + 14 * 86_400_000).toISOString().slice(0, 10);
+
+/**
+ * `/billing/invoices/new` (owner): a draft invoice for an athlete, from one of their assessments or
+ * by hand; lines from the price list or custom; totals previewed as the server will compute them.
+ * `?athlete=:id` preselects the athlete.
+ */
+@Component({
+  selector: 'app-invoice-form',
+  imports: [ReactiveFormsModule, RouterLink, MatCardModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatIconModule],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  templateUrl: './invoice-form.html',
+  styleUrl: './invoice-form.scss',
+})
+export class InvoiceForm {
+  private readonly api = inject(BillingApi);
+  private readonly assessmentsApi = inject(AssessmentsApi);
+  private readonly athletesApi = inject(AthletesApi);
+  private readonly router = inject(Router);
+  private readonly fb = inject(NonNullableFormBuilder);
+
+  protected readonly athletes = rxResource({ stream: () => this.athletesApi.list() });
+  protected readonly prices = rxResource({ stream: () => this.api.prices() });
+  protected readonly settings = rxResource({ stream: () => this.api.settings() });
+
+  protected readonly form = new FormGroup({
+    athleteId: new FormControl<number | null>(null, Validators.required),
+    assessmentId: new FormControl<number | null>(null),
+    dueDate: new FormControl(inTwoWeeks(), { nonNullable: true, validators: [Validators.required] }),
+    note: new FormControl('', { nonNullable: true, validators: [Validators.maxLength(500)] }),
+    lines: new FormArray<LineGroup>([]),
+  });
+  protected readonly lines = this.form.controls.lines;
+
+  private readonly athleteId = toSignal(this.form.controls.athleteId.valueChanges.pipe(startWith(null)), { initialValue: null });
+  protected readonly assessments = rxResource({
+    params: () => this.athleteId(),
+    stream: ({ params }) => (params ? this.assessmentsApi.list(params) : of([] as Assessment[])),
+  });
+  private readonly formValue = toSignal(this.form.valueChanges, { initialValue: this.form.getRawValue() });
+  protected readonly totals = computed(() => {
+    this.formValue();
+    return previewTotals(this.lines.getRawValue() as LineDraft[]);
+  });
+  protected readonly currency = computed(() => this.settings.value()?.currency ?? '');
+  protected readonly saving = signal(false);
+  protected readonly problem = signal<string | null>(null);
+  protected readonly kindLabels = ASSESSMENT_KIND_LABELS;
+  protected readonly errorText = errorText;
+  protected readonly money = money;
+
+  constructor() {
+    this.addLine();
+    const athlete = Number(inject(ActivatedRoute).snapshot.queryParamMap.get('athlete'));
+    if (athlete) this.form.controls.athleteId.setValue(athlete);
+    this.form.controls.athleteId.valueChanges.pipe(takeUntilDestroyed()).subscribe(() => this.form.controls.assessmentId.setValue(null));
+  }
+
+  protected addLine(draft?: LineDraft): void {
+    const d = draft ?? { priceId: null, description: '', quantity: 1, amount: '', tax: '' };
+    this.lines.push(
+      this.fb.group({
+        priceId: new FormControl<number | null>(d.priceId),
+        description: this.fb.control(d.description, [requiredTrimmed, Validators.maxLength(120)]),
+        quantity: new FormControl<number | null>(d.quantity, [Validators.required, Validators.min(1), Validators.max(1000)]),
+        amount: this.fb.control(d.amount, [Validators.required, amountValidator]),
+        tax: this.fb.control(d.tax, [taxValidator]),
+      }) as LineGroup,
+    );
+  }
+
+  protected removeLine(i: number): void {
+    this.lines.removeAt(i);
+  }
+
+  /** Picking a price fills the line; "Custom" leaves it for typing. */
+  protected pickPrice(i: number, priceId: number | null): void {
+    const p = this.prices.value()?.find((x) => x.id === priceId);
+    if (p) this.lines.at(i).setValue(lineFromPrice(p));
+  }
+
+  /** Billing an assessment suggests its usual price when the lines are still empty. */
+  protected pickAssessment(a: Assessment | null): void {
+    if (!a) return;
+    const p = priceForAssessment(a.kind, this.prices.value() ?? []);
+    const first = this.lines.at(0);
+    const untouched = this.lines.length === 1 && first && !first.controls.description.value.trim() && !first.controls.amount.value.trim();
+    if (p && (untouched || this.lines.length === 0)) {
+      if (this.lines.length) first.setValue(lineFromPrice(p));
+      else this.addLine(lineFromPrice(p));
+    }
+  }
+
+  protected priceLabel(p: Price): string {
+    return `${p.item} · ${money(p.amountMinor, p.currency)}`;
+  }
+
+  protected async save(): Promise<void> {
+    if (this.saving()) return;
+    if (this.form.invalid || this.lines.length === 0) {
+      this.form.markAllAsTouched();
+      this.problem.set(this.lines.length === 0 ? 'Add at least one line.' : null);
+      return;
+    }
+    const v = this.form.getRawValue();
+    this.saving.set(true);
+    this.problem.set(null);
+    try {
+      const created = await firstValueFrom(
+        this.api.createInvoice({
+          athleteId: v.athleteId!,
+          assessmentId: v.assessmentId,
+          dueDate: v.dueDate,
+          note: v.note.trim() || null,
+          lines: (v.lines as LineDraft[]).map((l) => toLineWrite(l) as InvoiceLineWrite),
+        }),
+      );
+      await this.router.navigate(['/billing/invoices', created.id]);
+    } catch (err) {
+      if (errorStatus(err) === 422) {
+        const problems = fieldProblems(err).map((p) => ({
+          ...p,
+          path: p.path.map((seg) => (seg === 'unitAmountMinor' ? 'amount' : seg === 'taxRateBp' ? 'tax' : seg === 'priceId' ? 'description' : seg)),
+        }));
+        const rest = applyServerErrors(this.form, problems);
+        this.problem.set(rest.length ? rest.join(' ') : null);
+      } else {
+        this.problem.set(errorMessage(err));
+      }
+    } finally {
+      this.saving.set(false);
+    }
+  }
+}

@@ -1,0 +1,153 @@
+/**
+ * Billing in Debian chromium: the owner bills the demo athlete for her Re-test (price list: Re-test
+ * 65.00 EUR at 20 % tax = 65.00 + 13.00 = 78.00 EUR) and issues it; the athlete (on a phone) pays on
+ * the local fake payment page; the signed webhook marks it paid; the receipt PDF and both e-mails
+ * exist; the owner refunds and the refund round-trips through the payment service.
+ */
+import fs from 'node:fs';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { PDFParse } from 'pdf-parse';
+import { SCREENSHOTS, startHarness, type Harness } from './harness';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+
+const [owner, , , athlete] = DEMO_SIGN_INS;
+const PHONE = { width: 390, height: 844 };
+const shot = (name: string) => path.join(SCREENSHOTS, name);
+
+let h: Harness;
+let invoiceId = 0;
+let invoiceNumber = '';
+
+beforeAll(async () => {
+  h = await startHarness();
+});
+afterAll(async () => {
+  await h?.close();
+});
+
+async function signIn(page: Page, email: string, password: string): Promise<void> {
+  await page.goto(`${h.baseUrl}/sign-in`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password', { exact: true }).fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL(/\/(athletes|portal)/);
+}
+
+/** Opens a Material select by keyboard (its floating label covers the trigger) and picks an option. */
+async function choose(page: Page, label: string, option: string | RegExp): Promise<void> {
+  await page.getByRole('combobox', { name: label }).focus();
+  await page.keyboard.press('Enter');
+  await page.getByRole('option', { name: option }).click();
+  await expect.poll(() => page.getByRole('listbox').count()).toBe(0);
+}
+
+const invoice = () => h.server.db('invoices').where({ id: invoiceId }).first();
+const mailTo = (to: string, subject: string) => h.server.db('mailbox_messages').where('to_address', 'like', `%${to}%`).andWhere('subject', subject).first();
+
+describe('billing: invoice, card payment on the fake payment page, webhook, receipt, refund', () => {
+  it('the owner sees the demo price list and invoices Ada for her Re-test (78.00 EUR) and issues it', async () => {
+    const { page, problems, context } = await h.newPage();
+    await signIn(page, owner.email, owner.password);
+    await page.getByRole('link', { name: 'Billing' }).click();
+    await page.getByRole('heading', { name: 'Invoices' }).waitFor();
+    await page.getByRole('link', { name: 'Prices' }).click();
+    await page.getByRole('cell', { name: /^Re-test/ }).waitFor();
+    await expect.poll(() => page.getByRole('row', { name: /Re-test/ }).innerText()).toMatch(/65\.00 EUR\s+20 %/);
+    await page.screenshot({ path: shot('billing-prices-desktop.png') });
+
+    await page.goto(`${h.baseUrl}/billing/invoices/new`);
+    await choose(page, 'Athlete', 'Ada Kestrel');
+    await choose(page, 'For assessment (optional)', /^Re-test ·/);
+    await expect.poll(() => page.getByLabel('Description').inputValue()).toBe('Re-test');
+    await expect.poll(() => page.getByTestId('preview-total').innerText()).toBe('78.00 EUR');
+    await page.screenshot({ path: shot('billing-new-invoice-desktop.png'), fullPage: true });
+    await page.getByRole('button', { name: 'Save draft' }).click();
+    await page.waitForURL(/\/billing\/invoices\/\d+$/);
+    invoiceId = Number(page.url().split('/').pop());
+    await expect.poll(() => page.getByTestId('invoice-total').innerText()).toBe('78.00 EUR');
+
+    await page.getByRole('button', { name: 'Issue' }).click();
+    await page.getByRole('dialog').getByRole('button', { name: 'Issue' }).click();
+    await expect.poll(async () => (await invoice()).status).toBe('open');
+    invoiceNumber = (await invoice()).number;
+    expect(invoiceNumber).toMatch(/^TF-\d{4}-0001$/);
+    await page.getByRole('heading', { name: `Invoice ${invoiceNumber}` }).waitFor();
+    await page.screenshot({ path: shot('billing-invoice-issued-desktop.png') });
+    const issuedMail = await mailTo(athlete.email, `Invoice ${invoiceNumber} from Larchwood Running Clinic`);
+    expect(issuedMail?.text).toContain(`/portal/invoices/${invoiceId}`);
+
+    await page.goto(`${h.baseUrl}/billing/invoices`);
+    await page.getByRole('link', { name: invoiceNumber }).waitFor();
+    await page.screenshot({ path: shot('billing-invoices-desktop.png') });
+    expect(problems).toEqual([]);
+    await context.close();
+  });
+
+  it('the athlete pays on the payment page (phone); the webhook — not the redirect — marks it paid; receipt and e-mail exist', async () => {
+    const { page, problems, context } = await h.newPage();
+    await page.setViewportSize(PHONE);
+    await signIn(page, athlete.email, athlete.password);
+    await page.getByRole('link', { name: 'Open my invoices' }).click();
+    await page.getByRole('link', { name: new RegExp(invoiceNumber) }).click();
+    await page.getByText('78.00 EUR due').waitFor();
+    await page.screenshot({ path: shot('billing-portal-invoice-open-phone.png'), fullPage: true });
+
+    // Cancel first: back with nothing charged, still open.
+    await page.getByRole('button', { name: /Pay 78\.00 EUR by card/ }).click();
+    await page.waitForURL(/\/pay\/cs_/);
+    await page.getByRole('button', { name: 'Cancel' }).click();
+    await page.waitForURL(/checkout=cancel/);
+    await page.getByText('Payment cancelled').waitFor();
+    expect((await invoice()).status).toBe('open');
+
+    await page.getByRole('button', { name: /Pay 78\.00 EUR by card/ }).click();
+    await page.waitForURL(/\/pay\/cs_/);
+    expect(await page.getByTestId('amount').innerText()).toBe('78.00 EUR');
+    await page.screenshot({ path: shot('billing-payment-page-phone.png') });
+    await page.getByRole('button', { name: 'Pay', exact: true }).click();
+    await page.waitForURL(new RegExp(`/portal/invoices/${invoiceId}\\?checkout=success`));
+    await page.getByText('Payment received on').waitFor({ timeout: 30_000 });
+    expect((await invoice()).status).toBe('paid');
+    const event = await h.server.db('payment_events').where({ invoice_id: invoiceId, type: 'checkout.session.completed' }).first();
+    expect(event).toBeTruthy();
+    await page.screenshot({ path: shot('billing-portal-invoice-paid-phone.png'), fullPage: true });
+
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download receipt (PDF)' }).click()]);
+    const file = path.join(SCREENSHOTS, `receipt-${invoiceNumber}.pdf`);
+    await download.saveAs(file);
+    const text = (await new PDFParse({ data: fs.readFileSync(file) }).getText()).text;
+    expect(text).toContain(`Receipt for invoice ${invoiceNumber}`);
+    expect(text).toMatch(/Total paid\s+78\.00 EUR/);
+    const paidMail = await mailTo(athlete.email, `Payment received for invoice ${invoiceNumber}`);
+    expect(paidMail?.text).toContain('78.00 EUR');
+    expect(problems).toEqual([]);
+    await context.close();
+  });
+
+  it('the owner refunds; charge.refunded comes back from the payment service; the athlete sees Refunded', async () => {
+    const { page, problems, context } = await h.newPage();
+    await signIn(page, owner.email, owner.password);
+    await page.goto(`${h.baseUrl}/billing/invoices/${invoiceId}`);
+    await page.getByRole('button', { name: 'Refund' }).click();
+    await page.getByRole('dialog').getByRole('button', { name: 'Refund' }).click();
+    await expect.poll(async () => (await invoice()).status).toBe('refunded');
+    await h.server.fakePayments!.idle();
+    await expect.poll(() => h.server.db('payment_events').where({ invoice_id: invoiceId, type: 'charge.refunded' }).first()).toBeTruthy();
+    await page.getByTestId('invoice-status').getByText('Refunded').waitFor();
+    await page.screenshot({ path: shot('billing-invoice-refunded-desktop.png') });
+    await page.setViewportSize(PHONE);
+    await page.goto(`${h.baseUrl}/billing/invoices`);
+    await page.getByRole('link', { name: invoiceNumber }).waitFor();
+    await page.screenshot({ path: shot('billing-invoices-phone.png'), fullPage: true });
+    await context.close();
+
+    const a = await h.newPage();
+    await signIn(a.page, athlete.email, athlete.password);
+    await a.page.goto(`${h.baseUrl}/portal/invoices/${invoiceId}`);
+    await a.page.getByText('This payment was refunded').waitFor();
+    expect([...problems, ...a.problems]).toEqual([]);
+    await a.context.close();
+  });
+});
