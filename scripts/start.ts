@@ -73,6 +73,7 @@ async function main(): Promise<void> {
     lines.push('', 'Demo sign-ins (invented people):');
     for (const s of DEMO_SIGN_INS) lines.push(`  ${s.role.padEnd(8)} ${s.email.padEnd(32)} ${s.password}`);
     lines.push('', 'E-mail goes to a local fake SMTP receiver; the owner reads it under Mailbox.');
+    if (config.fakePaymentsPort !== null) lines.push('Card payments go to a local fake payment service (no real money moves).');
   }
   lines.push('Press Ctrl+C to stop.', '');
   console.log(lines.join('\n'));
