@@ -83,7 +83,7 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
       return await call();
     } catch (err) {
       logger.warn({ err: (err as Error).message }, `payment provider: ${what} failed`);
-      throw new AppError(502, 'payment_provider_error', `The payment service did not answer (${what}). Try again in a minute.`);
+      throw new AppError(502, 'payment_provider_error', `The payment service refused or did not answer (${what}). Try again in a minute.`);
     }
   }
 
@@ -306,6 +306,7 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
 
       const at = now();
       let newlyPaid: InvoiceRow | null = null;
+      let refundVoided: string | null = null;
       const handled = await db.transaction(async (trx) => {
         if (!(await invoices.recordEvent(trx, event.id, event.type, invoiceId, at))) return false;
         const row = invoiceId ? await invoices.findById(trx, invoiceId) : undefined;
@@ -316,6 +317,9 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
             logger.warn({ invoiceId: row.id, session: confirmed.id }, 'payment event does not match the invoice; not marked paid');
           } else if (await invoices.transition(trx, row.id, ['open'], { status: 'paid', paid_at: at, payment_intent_id: confirmed.paymentIntentId, checkout_session_id: confirmed.id, checkout_state: 'none', updated_at: at })) {
             newlyPaid = row;
+          } else if (row.status === 'void') {
+            // Paid on a payment page opened before the invoice was voided: give the money back.
+            refundVoided = confirmed.paymentIntentId;
           } else {
             logger.warn({ invoiceId: row.id, status: row.status }, 'payment for an invoice that is not open');
           }
@@ -327,6 +331,10 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
         return true;
       });
       if (!handled) return { duplicate: true };
+      if (refundVoided) {
+        const pi = refundVoided;
+        await provider('refund a void invoice', () => p.refund(pi, `refund-void-${invoiceId}-${pi}`)).catch((err) => logger.error({ err, invoiceId }, 'a void invoice was paid and the refund failed; refund it by hand'));
+      }
       const paid = newlyPaid as InvoiceRow | null;
       if (paid) {
         const clinic = await clinicOf(paid.clinic_id);

@@ -297,6 +297,18 @@ describe('card payment through the fake payment service', () => {
     expect((await a.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'paid', checkoutState: 'none' });
   });
 
+  it('paying a void invoice is refused: no new payment page; one opened before the void is refunded at once', async () => {
+    const inv = await issued();
+    const start = await a.post(`/api/invoices/${inv.id}/checkout`);
+    await o.post(`/api/invoices/${inv.id}/void`);
+    expect((await a.post(`/api/invoices/${inv.id}/checkout`)).status).toBe(409);
+    const res = await fetch(`${start.body.url}/pay`, { method: 'POST', redirect: 'manual' });
+    expect(res.status).toBe(303);
+    await t.fakePayments!.idle();
+    expect((await o.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'void', paidAt: null });
+    expect(t.fakePayments!.events.slice(-2).map((e) => e.type)).toEqual(['checkout.session.completed', 'charge.refunded']);
+  });
+
   it('the same event delivered twice is processed once', async () => {
     const inv = await issued();
     await payOnPage(inv.id, 'pay');
