@@ -24,7 +24,7 @@ export interface StillViewerData {
   styleUrl: './still-viewer.scss',
   host: {
     class: 'still-viewer',
-    '(keydown)': 'onKey($event)',
+    '(document:keydown)': 'onKey($event)',
   },
 })
 export class StillViewer {
@@ -44,6 +44,7 @@ export class StillViewer {
   }
 
   protected onKey(e: KeyboardEvent): void {
+    if (e.defaultPrevented || e.altKey || e.ctrlKey || e.metaKey) return;
     if (e.key === 'ArrowRight') this.move(1);
     else if (e.key === 'ArrowLeft') this.move(-1);
     else if (e.key === 'Home') this.index.set(0);

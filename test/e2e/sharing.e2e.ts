@@ -1,0 +1,247 @@
+/**
+ * Sharing in Debian chromium: two synthetic runner clips (a test fixture with known joint angles —
+ * not a published source; ~4° and ~11° hip extension at toe-off) marked through the API on the
+ * Baseline and the Re-test. The coach (1440×900) sees the hip change beyond measurement error on
+ * the Re-test comparison ([calc] half of Damsted et al. 2015's 11° hip width = 5.5°), saves a still
+ * of the pair there and one from the review workspace (K), watches them render on the athlete's
+ * Shared tab, publishes both and a visit summary. The athlete, on a 390×844 phone, sees both stills
+ * on the portal home, enlarges one and swipes to the next, and opens the PDF; the notice e-mail
+ * arrived and carries no caption and no measures.
+ */
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { SCREENSHOTS, startHarness, type Harness } from './harness';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { Client } from '../support/test-app';
+import { tempDir } from '../server/media/fixtures';
+import { generateRunnerClip } from '../../scripts/demo-clip/clip';
+import type { FrameLandmarks, GaitEventMark } from '../../src/contracts/annotations';
+
+const [, coach, , athlete] = DEMO_SIGN_INS;
+const DESKTOP = { width: 1440, height: 900 };
+const PHONE = { width: 390, height: 844 };
+const PAIR_CAPTION = 'Your hip now extends further behind you as your foot leaves the ground.';
+const FRAME_CAPTION = 'Re-test: knee and ankle as the foot leaves the ground.';
+const shot = (name: string) => path.join(SCREENSHOTS, name);
+
+let h: Harness;
+let dir: { dir: string; cleanup: () => Promise<void> };
+let athleteId = 0;
+let retest = { assessmentId: 0, clipId: 0 };
+
+async function markedClip(api: Client, assessmentId: number, name: string, hipExtensionDeg: number): Promise<number> {
+  const file = path.join(dir.dir, name);
+  const truth = await generateRunnerClip({ fps: 60, width: 640, height: 360, seconds: 2, hipExtensionDeg, facing: 'right', beltSpeedMps: 3, outFile: file, preset: 'ultrafast' });
+  const up = await api.agent.post(`/api/assessments/${assessmentId}/clips`).set('X-XSRF-TOKEN', await api.xsrf()).attach('file', file);
+  const clipId = up.body.id as number;
+  for (let i = 0; ; i++) {
+    const clip = (await api.get(`/api/clips/${clipId}`)).body;
+    if (clip.status === 'ready') break;
+    if (clip.status === 'failed' || i > 300) throw new Error(`clip ${clip.status}: ${clip.error}`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  const near = truth.nearSide;
+  const far: 'left' | 'right' = near === 'right' ? 'left' : 'right';
+  const landmarks: FrameLandmarks[] = truth.frames.flatMap((f) => [
+    { frame: f.index, side: near, points: f.landmarksNormalised.near },
+    { frame: f.index, side: far, points: f.landmarksNormalised.far },
+  ]);
+  const events: GaitEventMark[] = [
+    ...truth.events.near.initialContact.map((frame) => ({ frame, side: near, kind: 'initial_contact' as const })),
+    ...truth.events.near.toeOff.map((frame) => ({ frame, side: near, kind: 'toe_off' as const })),
+    ...truth.events.far.initialContact.map((frame) => ({ frame, side: far, kind: 'initial_contact' as const })),
+    ...truth.events.far.toeOff.map((frame) => ({ frame, side: far, kind: 'toe_off' as const })),
+  ];
+  await api.patch(`/api/clips/${clipId}`, { nearSide: near, direction: 'left_to_right' });
+  const res = await api.put(`/api/clips/${clipId}/annotations`, { baseRevision: 0, landmarks, events, scale: null });
+  if (res.status !== 200) throw new Error(`annotations: ${res.status} ${JSON.stringify(res.body).slice(0, 300)}`);
+  return clipId;
+}
+
+beforeAll(async () => {
+  h = await startHarness();
+  dir = await tempDir('e2e-sharing');
+  const api = new Client(h.baseUrl);
+  await api.signIn(coach.email, coach.password);
+  const ada = await h.server.db('athletes').where({ email: athlete.email }).first();
+  athleteId = ada.id;
+  const visits = await h.server.db('assessments').where({ athlete_id: ada.id });
+  await markedClip(api, visits.find((v) => v.kind === 'baseline').id, 'baseline.mp4', 4);
+  const retestVisit = visits.find((v) => v.kind === 'retest');
+  retest = { assessmentId: retestVisit.id, clipId: await markedClip(api, retestVisit.id, 'retest.mp4', 11) };
+}, 240_000);
+afterAll(async () => {
+  await h?.close();
+  await dir?.cleanup();
+});
+
+async function signIn(page: Page, email: string, password: string): Promise<void> {
+  await page.goto(`${h.baseUrl}/sign-in`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password', { exact: true }).fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL(/\/(athletes|portal)/);
+}
+
+/** Whether the canvas has anything drawn beyond one flat colour. */
+const drawn = (page: Page, selector: string) =>
+  page.locator(selector).evaluate((c: HTMLCanvasElement) => {
+    const ctx = c.getContext('2d');
+    if (!ctx || !c.width) return false;
+    const d = ctx.getImageData(0, 0, c.width, c.height).data;
+    for (let i = 0; i < d.length; i += 4 * 97) if (d[i] !== d[0]) return true;
+    return false;
+  });
+
+/** Confirms the publish question (it must say the athlete gets an e-mail notice). */
+async function confirmPublish(page: Page): Promise<void> {
+  const dialog = page.getByRole('dialog');
+  try {
+    await expect.poll(() => dialog.textContent(), { timeout: 8000 }).toContain('e-mail notice');
+  } catch (e) {
+    await page.screenshot({ path: shot('sharing-publish-failed.png'), fullPage: true });
+    throw e;
+  }
+  await dialog.getByRole('button', { name: 'Publish and notify' }).click();
+  await expect.poll(() => page.getByRole('dialog').count()).toBe(0);
+}
+
+describe('sharing stills and a visit summary', () => {
+  it('coach saves two stills, publishes them and a visit summary; the athlete sees them on a phone', async () => {
+    // ── Coach, desktop ──
+    const coachContext = await h.browser.newContext({ viewport: DESKTOP });
+    const page = await coachContext.newPage();
+    const problems: string[] = [];
+    page.on('console', (m) => m.type() === 'error' && problems.push(m.text()));
+    page.on('pageerror', (e) => problems.push(e.message));
+    await signIn(page, coach.email, coach.password);
+
+    await page.goto(`${h.baseUrl}/athletes/${athleteId}/compare`);
+    const hipRow = page.locator('tr', { hasText: 'Hip extension at toe-off (thigh from vertical) (right)' });
+    await expect.poll(() => hipRow.textContent(), { timeout: 20_000 }).toContain('Beyond measurement error');
+    await expect.poll(() => drawn(page, 'canvas[aria-label="Re-test frame with skeleton"]'), { timeout: 20_000 }).toBe(true);
+    await expect.poll(() => drawn(page, 'canvas[aria-label="Baseline frame with skeleton"]'), { timeout: 20_000 }).toBe(true);
+    await page.getByRole('button', { name: 'Save still of the pair' }).click();
+    const saveDialog = page.getByRole('dialog', { name: 'Save still' });
+    await saveDialog.getByLabel('Caption').fill('x'.repeat(285));
+    await expect.poll(() => saveDialog.getByRole('alert').textContent()).toContain('5 characters over the limit of 280');
+    expect(await saveDialog.getByRole('button', { name: 'Save still' }).isDisabled()).toBe(true);
+    await saveDialog.getByLabel('Caption').fill(PAIR_CAPTION);
+    await page.screenshot({ path: shot('sharing-save-pair-dialog.png') });
+    await saveDialog.getByRole('button', { name: 'Save still' }).click();
+    await expect.poll(() => page.getByText('Still saved — rendering…').count()).toBe(1);
+
+    // From the review workspace: a few frames on, then K.
+    await page.goto(`${h.baseUrl}/athletes/${athleteId}/assessments/${retest.assessmentId}/clips/${retest.clipId}/review`);
+    await expect.poll(() => page.getByText(/^Frame \d+ \/ \d+/).count(), { timeout: 20_000 }).toBe(1);
+    await page.locator('body').click({ position: { x: 5, y: 5 } });
+    for (let i = 0; i < 5; i++) await page.keyboard.press('ArrowRight');
+    await page.keyboard.press('k');
+    const reviewDialog = page.getByRole('dialog', { name: 'Save still' });
+    await expect.poll(() => reviewDialog.textContent()).toContain('Frame 5');
+    await reviewDialog.getByLabel('Caption').fill(FRAME_CAPTION);
+    await reviewDialog.getByRole('button', { name: 'Save still' }).click();
+    await page.getByRole('button', { name: 'View shared items' }).click();
+    await page.waitForURL(/tab=shared/);
+
+    // Shared tab: both render, then publish them.
+    const stillCards = page.locator('li.still-card');
+    await expect.poll(() => stillCards.count(), { timeout: 20_000 }).toBe(2);
+    await expect.poll(() => page.locator('li.still-card img').count(), { timeout: 30_000 }).toBe(2);
+    await expect
+      .poll(() => page.locator('li.still-card img').evaluateAll((imgs) => imgs.every((i) => (i as HTMLImageElement).complete && (i as HTMLImageElement).naturalWidth > 0)), { timeout: 20_000 })
+      .toBe(true);
+    expect(await page.locator(`li.still-card img[alt="${PAIR_CAPTION}"]`).count()).toBe(1);
+    expect(await stillCards.filter({ hasText: 'Side by side' }).count()).toBe(1);
+    await page.screenshot({ path: shot('sharing-shared-tab-stills.png'), fullPage: true });
+    for (let i = 0; i < 2; i++) {
+      await page.getByRole('button', { name: 'Publish still', exact: true }).first().click();
+      await confirmPublish(page);
+      await expect.poll(() => page.getByRole('button', { name: 'Unpublish still', exact: true }).count()).toBe(i + 1);
+    }
+
+    // A visit summary of the Re-test against the Baseline with both stills.
+    await page.getByRole('button', { name: 'New visit summary' }).click();
+    const summaryDialog = page.getByRole('dialog', { name: 'New visit summary' });
+    await expect.poll(() => summaryDialog.getByRole('checkbox').count(), { timeout: 10_000 }).toBe(2);
+    for (const box of await summaryDialog.getByRole('checkbox').all()) await box.check();
+    await summaryDialog.getByLabel('Findings').fill('Your hip extends about seven degrees more at toe-off than at the Baseline.');
+    await summaryDialog.getByLabel('Plan, in plain words').fill('Keep the hip-flexor stretch and the A-skips twice a week; we look again in six weeks.');
+    await page.screenshot({ path: shot('sharing-summary-dialog.png') });
+    await summaryDialog.getByRole('button', { name: 'Create visit summary' }).click();
+    await expect.poll(() => page.getByRole('dialog').count()).toBe(0);
+    const summaryRow = page.locator('li.summary-row').first();
+    await expect.poll(() => summaryRow.textContent(), { timeout: 60_000 }).toMatch(/\d+ pages? · not published/);
+    await summaryRow.getByRole('button', { name: 'Publish visit summary', exact: true }).click();
+    await confirmPublish(page);
+    await expect.poll(() => summaryRow.textContent()).toContain('· published');
+    await page.screenshot({ path: shot('sharing-shared-tab.png'), fullPage: true });
+    expect(problems).toEqual([]);
+    await coachContext.close();
+
+    // ── The notice e-mails: present, no caption, no measures ──
+    const mails = await h.server.db('mailbox_messages').where('to_address', 'like', `%${athlete.email}%`).orderBy('id');
+    const notices = mails.filter((m) => /shared something/.test(m.subject));
+    expect(notices.length).toBeGreaterThanOrEqual(3);
+    for (const m of notices) {
+      const all = `${m.subject}\n${m.text}\n${m.html ?? ''}`;
+      expect(all).not.toContain('hip now extends');
+      expect(all).not.toContain('knee and ankle');
+      expect(all).not.toMatch(/\d\s*°|degrees|Hip extension/i);
+      expect(all).toContain('/portal');
+    }
+
+    // ── Athlete, phone ──
+    const phone = await h.browser.newContext({ viewport: PHONE, isMobile: true, hasTouch: true, deviceScaleFactor: 2 });
+    const p = await phone.newPage();
+    const athleteProblems: string[] = [];
+    p.on('console', (m) => m.type() === 'error' && athleteProblems.push(m.text()));
+    p.on('pageerror', (e) => athleteProblems.push(e.message));
+    await signIn(p, athlete.email, athlete.password);
+    await p.goto(`${h.baseUrl}/portal`);
+    const strip = p.getByRole('list', { name: 'Stills, newest first' });
+    await expect.poll(() => strip.getByRole('listitem').count(), { timeout: 20_000 }).toBe(2);
+    await expect
+      .poll(() => strip.locator('img').evaluateAll((imgs) => imgs.every((i) => (i as HTMLImageElement).complete && (i as HTMLImageElement).naturalWidth > 0)), { timeout: 20_000 })
+      .toBe(true);
+    expect(await p.getByText("Your coach’s notes and figures support, and do not replace").count()).toBe(1);
+    await p.getByRole('heading', { name: 'From your clinic' }).scrollIntoViewIfNeeded();
+    await p.screenshot({ path: shot('sharing-portal-phone.png'), fullPage: true });
+
+    await strip.getByRole('button').first().click();
+    const viewer = p.getByRole('dialog');
+    await expect.poll(() => viewer.textContent()).toContain('1 of 2');
+    const frame = viewer.locator('.frame');
+    const box = (await frame.boundingBox())!;
+    const y = box.y + box.height / 2;
+    await p.mouse.move(box.x + box.width * 0.8, y);
+    await p.mouse.down();
+    await p.mouse.move(box.x + box.width * 0.5, y, { steps: 4 });
+    await p.mouse.move(box.x + box.width * 0.2, y, { steps: 4 });
+    await p.mouse.up();
+    await expect.poll(() => viewer.textContent()).toContain('2 of 2');
+    await expect.poll(() => viewer.locator('img').evaluate((i: HTMLImageElement) => i.complete && i.naturalWidth > 0)).toBe(true);
+    await p.screenshot({ path: shot('sharing-still-viewer-phone.png') });
+    await p.keyboard.press('ArrowLeft');
+    await expect.poll(() => viewer.textContent()).toContain('1 of 2');
+    await viewer.getByRole('button', { name: 'Close' }).click();
+    await expect.poll(() => p.getByRole('dialog').count()).toBe(0);
+
+    const view = p.getByRole('link', { name: /^View .*opens in a new tab/ });
+    await expect.poll(() => view.count()).toBe(1);
+    const pdfUrl = await view.getAttribute('href');
+    const pdf = await p.evaluate(async (url) => {
+      const r = await fetch(url!, { credentials: 'same-origin' });
+      const bytes = new Uint8Array(await r.arrayBuffer());
+      return { status: r.status, type: r.headers.get('content-type'), head: String.fromCharCode(...bytes.slice(0, 5)) };
+    }, pdfUrl);
+    expect(pdf).toEqual({ status: 200, type: 'application/pdf', head: '%PDF-' });
+    const download = await p.getByRole('link', { name: /^Download / }).getAttribute('href');
+    expect(download).toBe(`${pdfUrl}?download=1`);
+    await p.getByRole('heading', { name: 'Visit summaries' }).scrollIntoViewIfNeeded();
+    await p.screenshot({ path: shot('sharing-portal-phone-summaries.png') });
+    expect(athleteProblems).toEqual([]);
+    await phone.close();
+  });
+});
