@@ -1,0 +1,91 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { ActivatedRoute, convertToParamMap, provideRouter } from '@angular/router';
+import { BehaviorSubject } from 'rxjs';
+import type { InvoiceDetail } from '../../../../contracts/billing';
+import { PortalInvoice } from './portal-invoice';
+
+const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+/** Re-test 65.00 at 20 % = 78.00 EUR. */
+function anInvoice(over: Partial<InvoiceDetail> = {}): InvoiceDetail {
+  return {
+    id: 7, number: 'TF-2026-0001', status: 'open', athleteId: 1, athleteName: 'Ada Kestrel', currency: 'EUR', totalMinor: 7800,
+    dueDate: '2026-12-31', issuedAt: '2026-12-01T10:00:00Z', paidAt: null, createdAt: '2026-12-01T09:00:00Z', assessmentId: null,
+    note: null, clinicName: 'Larchwood Running Clinic', subtotalMinor: 6500, taxMinor: 1300, voidedAt: null, refundedAt: null,
+    checkoutState: 'pending',
+    lines: [{ id: 1, priceId: 2, description: 'Re-test', quantity: 1, unitAmountMinor: 6500, taxRateBp: 2000, netMinor: 6500, taxMinor: 1300, totalMinor: 7800 }],
+    ...over,
+  };
+}
+
+describe('PortalInvoice', () => {
+  let fixture: ComponentFixture<PortalInvoice>;
+  let element: HTMLElement;
+  let backend: HttpTestingController;
+
+  async function open(checkout: string | null) {
+    const query = new BehaviorSubject(convertToParamMap(checkout ? { checkout } : {}));
+    TestBed.configureTestingModule({
+      imports: [PortalInvoice],
+      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), { provide: ActivatedRoute, useValue: { queryParamMap: query } }],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(PortalInvoice);
+    fixture.componentRef.setInput('id', '7');
+    element = fixture.nativeElement;
+    fixture.detectChanges();
+    await wait(10);
+  }
+  const settle = async () => {
+    await wait(20);
+    fixture.detectChanges();
+    await fixture.whenStable();
+    fixture.detectChanges();
+  };
+  afterEach(() => backend.verify());
+
+  it('after the payment page says success it waits for the server, polling, until the webhook made it paid', async () => {
+    await open('success');
+    backend.expectOne('/api/invoices/7').flush(anInvoice());
+    await settle();
+    expect(element.textContent).toContain('Waiting for confirmation');
+    expect(element.textContent).not.toContain('Pay 78.00 EUR by card');
+
+    await wait(1550);
+    backend.expectOne('/api/invoices/7').flush(anInvoice({ status: 'paid', paidAt: '2026-12-01T10:05:00Z', checkoutState: 'none' }));
+    await settle();
+    expect(element.textContent).toContain('Payment received on');
+    expect(element.querySelector('a[download]')?.getAttribute('href')).toBe('/api/invoices/7/receipt');
+
+    await wait(1600);
+    backend.expectNone('/api/invoices/7');
+  }, 10_000);
+
+  it('shows a cancelled payment clearly, with Pay again', async () => {
+    await open('cancel');
+    backend.expectOne('/api/invoices/7').flush(anInvoice());
+    await settle();
+    expect(element.textContent).toContain('Payment cancelled');
+    expect(element.textContent).toContain('Pay 78.00 EUR by card');
+  });
+
+  it('shows a declined payment clearly, without waiting', async () => {
+    await open('success');
+    backend.expectOne('/api/invoices/7').flush(anInvoice({ checkoutState: 'failed' }));
+    await settle();
+    expect(element.textContent).toContain('Payment failed');
+    expect(element.textContent).toContain('nothing was charged');
+  });
+
+  it("shows the server's reason when paying is refused", async () => {
+    await open(null);
+    backend.expectOne('/api/invoices/7').flush(anInvoice());
+    await settle();
+    (element.querySelector('button.mat-mdc-unelevated-button') as HTMLButtonElement).click();
+    backend.expectOne('/api/invoices/7/checkout').flush({ error: { code: 'invoice_not_payable', message: 'This invoice is void and cannot be paid.' } }, { status: 409, statusText: 'Conflict' });
+    await settle();
+    expect(element.querySelector('.form-problem')?.textContent).toContain('This invoice is void and cannot be paid.');
+  });
+});
