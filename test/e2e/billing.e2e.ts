@@ -43,6 +43,21 @@ async function choose(page: Page, label: string, option: string | RegExp): Promi
   await expect.poll(() => page.getByRole('listbox').count()).toBe(0);
 }
 
+/** A phone-width screenshot of the whole page, then back to the desktop size. */
+async function phoneShot(page: Page, name: string): Promise<void> {
+  const size = page.viewportSize()!;
+  await page.setViewportSize(PHONE);
+  // The shell switches its navigation to the phone layout (closed drawer) after a breakpoint change.
+  await page.waitForTimeout(800);
+  const height = await page.evaluate(() => {
+    const pane = document.querySelector('mat-sidenav-content');
+    return pane ? pane.scrollHeight + pane.getBoundingClientRect().top : document.documentElement.scrollHeight;
+  });
+  await page.setViewportSize({ width: PHONE.width, height: Math.min(4000, Math.max(PHONE.height, Math.ceil(height))) });
+  await page.screenshot({ path: shot(name) });
+  await page.setViewportSize(size);
+}
+
 const invoice = () => h.server.db('invoices').where({ id: invoiceId }).first();
 const mailTo = (to: string, subject: string) => h.server.db('mailbox_messages').where('to_address', 'like', `%${to}%`).andWhere('subject', subject).first();
 
@@ -56,6 +71,7 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await page.getByRole('cell', { name: /^Re-test/ }).waitFor();
     await expect.poll(() => page.getByRole('row', { name: /Re-test/ }).innerText()).toMatch(/65\.00 EUR\s+20 %/);
     await page.screenshot({ path: shot('billing-prices-desktop.png') });
+    await phoneShot(page, 'billing-prices-phone.png');
 
     await page.goto(`${h.baseUrl}/billing/invoices/new`);
     await choose(page, 'Athlete', 'Ada Kestrel');
@@ -63,6 +79,7 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await expect.poll(() => page.getByLabel('Description').inputValue()).toBe('Re-test');
     await expect.poll(() => page.getByTestId('preview-total').innerText()).toBe('78.00 EUR');
     await page.screenshot({ path: shot('billing-new-invoice-desktop.png'), fullPage: true });
+    await phoneShot(page, 'billing-new-invoice-phone.png');
     await page.getByRole('button', { name: 'Save draft' }).click();
     await page.waitForURL(/\/billing\/invoices\/\d+$/);
     invoiceId = Number(page.url().split('/').pop());
@@ -75,6 +92,7 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     expect(invoiceNumber).toMatch(/^TF-\d{4}-0001$/);
     await page.getByRole('heading', { name: `Invoice ${invoiceNumber}` }).waitFor();
     await page.screenshot({ path: shot('billing-invoice-issued-desktop.png') });
+    await phoneShot(page, 'billing-invoice-issued-phone.png');
     const issuedMail = await mailTo(athlete.email, `Invoice ${invoiceNumber} from Larchwood Running Clinic`);
     expect(issuedMail?.text).toContain(`/portal/invoices/${invoiceId}`);
 
