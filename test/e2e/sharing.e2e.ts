@@ -141,6 +141,7 @@ describe('sharing stills and a visit summary', () => {
     const reviewDialog = page.getByRole('dialog', { name: 'Save still' });
     await expect.poll(() => reviewDialog.textContent()).toContain('Frame 5');
     await reviewDialog.getByLabel('Caption').fill(FRAME_CAPTION);
+    await page.screenshot({ path: shot('sharing-review-save-still.png') });
     await reviewDialog.getByRole('button', { name: 'Save still' }).click();
     await page.getByRole('button', { name: 'View shared items' }).click();
     await page.waitForURL(/tab=shared/);
@@ -239,7 +240,7 @@ describe('sharing stills and a visit summary', () => {
     expect(pdf).toEqual({ status: 200, type: 'application/pdf', head: '%PDF-' });
     const download = await p.getByRole('link', { name: /^Download / }).getAttribute('href');
     expect(download).toBe(`${pdfUrl}?download=1`);
-    await p.getByRole('heading', { name: 'Visit summaries' }).scrollIntoViewIfNeeded();
+    await p.getByRole('note').filter({ hasText: 'do not replace' }).scrollIntoViewIfNeeded();
     await p.screenshot({ path: shot('sharing-portal-phone-summaries.png') });
     expect(athleteProblems).toEqual([]);
     await phone.close();

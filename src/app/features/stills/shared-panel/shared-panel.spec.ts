@@ -44,6 +44,12 @@ describe('SharedPanel', () => {
     expect(element.querySelector('mat-progress-bar[mode="determinate"]')).not.toBeNull();
 
     await wait(750);
+    backend.expectOne('/api/athletes/9/stills').flush([aStill({ status: 'rendering', progress: 0.7 })]);
+    backend.expectOne('/api/athletes/9/summaries').flush([]);
+    await settle();
+    expect(element.textContent).toContain('Rendering… 70 %');
+
+    await wait(750);
     backend.expectOne('/api/athletes/9/stills').flush([aStill({ status: 'ready', caption: 'Hip at toe-off' })]);
     backend.expectOne('/api/athletes/9/summaries').flush([]);
     await settle();

@@ -56,7 +56,6 @@ export class SharedPanel {
   protected readonly stillList = computed<Still[]>(() => (this.stills.hasValue() ? this.stills.value() : []));
   protected readonly summaryList = computed<VisitSummary[]>(() => (this.summaries.hasValue() ? this.summaries.value() : []));
   protected readonly readyStills = computed(() => this.stillList().filter((s) => s.status === 'ready'));
-  protected readonly rendering = computed(() => anyRendering(this.stillList(), this.summaryList()));
   /** Bumped when a poll fails, so the next one is still scheduled. */
   private readonly pollRetry = signal(0);
   /** Ids with a publish / delete request on the way (their buttons wait). */
@@ -75,10 +74,11 @@ export class SharedPanel {
   protected readonly errorMessage = errorMessage;
 
   constructor() {
-    // While something renders, ask again every POLL_MS; stop when nothing does.
+    // While something renders, ask again every POLL_MS; stop when nothing does. Reads the lists
+    // themselves (not only `rendering`), so every answer that is still rendering schedules the next.
     effect((onCleanup) => {
       this.pollRetry();
-      if (!this.rendering()) return;
+      if (!anyRendering(this.stillList(), this.summaryList())) return;
       const timer = setTimeout(() => this.poll(), POLL_MS);
       onCleanup(() => clearTimeout(timer));
     });
