@@ -143,11 +143,27 @@ describe('sharing stills and a visit summary', () => {
     await reviewDialog.getByLabel('Caption').fill(FRAME_CAPTION);
     await page.screenshot({ path: shot('sharing-review-save-still.png') });
     await reviewDialog.getByRole('button', { name: 'Save still' }).click();
+    // The first list answer shows the newest still mid-render (the real render is quicker than a
+    // screenshot); the tab polls and the next, real answer shows it ready.
+    let faked = false;
+    await page.route('**/api/athletes/*/stills', async (route) => {
+      const res = await route.fetch();
+      const list = await res.json();
+      if (!faked && list.length) {
+        faked = true;
+        list[0] = { ...list[0], status: 'rendering', progress: 0.45 };
+      }
+      await route.fulfill({ response: res, json: list });
+    });
     await page.getByRole('button', { name: 'View shared items' }).click();
     await page.waitForURL(/tab=shared/);
+    await expect.poll(() => page.getByText('Rendering… 45 %').count()).toBe(1);
+    await page.screenshot({ path: shot('sharing-shared-tab-rendering.png') });
 
     // Shared tab: both render, then publish them.
     // (The demo seed may have shared stills of its own: only ours are looked at.)
+    await expect.poll(() => page.getByText('Rendering… 45 %').count(), { timeout: 10_000 }).toBe(0);
+    await page.unroute('**/api/athletes/*/stills');
     const ours = page.locator('li.still-card').filter({ hasText: /hip now extends|knee and ankle as the foot/ });
     await expect.poll(() => ours.count(), { timeout: 20_000 }).toBe(2);
     await expect.poll(() => ours.locator('img').count(), { timeout: 30_000 }).toBe(2);
