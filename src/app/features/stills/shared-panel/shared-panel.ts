@@ -14,6 +14,7 @@ import { CAPTION_MAX, type Still, type VisitSummary } from '../../../../contract
 import { errorMessage } from '../../../core/api-error';
 import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../../shared/states/empty-state';
+import { CAUTION_LINE } from '../../compare/compare-logic';
 import { ErrorState } from '../../../shared/states/error-state';
 import { POLL_MS, anyRendering, downloadUrl, panelText, progressPercent, publishButton, publishConfirmText, stillAlt, stillSrc, summaryStateText, textCount } from '../sharing-logic';
 import { saveProblems } from '../sharing-errors';
@@ -64,6 +65,7 @@ export class SharedPanel {
   protected readonly editCount = computed(() => textCount(this.edit()?.text ?? '', CAPTION_MAX));
 
   protected readonly captionMax = CAPTION_MAX;
+  protected readonly caution = CAUTION_LINE;
   protected readonly publishButton = publishButton;
   protected readonly progressPercent = progressPercent;
   protected readonly panelText = panelText;
