@@ -206,10 +206,11 @@ describe('defaultBaseline', () => {
 });
 
 describe('stillSrc', () => {
-  it('changes when the caption changes, and only then', () => {
-    const a = stillSrc('/api/stills/1/image.png', still({ caption: 'One' }));
-    expect(a).toMatch(/^\/api\/stills\/1\/image\.png\?v=[0-9a-z]+$/);
-    expect(stillSrc('/api/stills/1/image.png', still({ caption: 'One' }))).toBe(a);
-    expect(stillSrc('/api/stills/1/image.png', still({ caption: 'Two' }))).not.toBe(a);
+  it("keeps the server's render version and changes when the caption or state changes, and only then", () => {
+    const a = stillSrc('/api/stills/1/image.png?v=2', still({ caption: 'One' }));
+    expect(a).toMatch(/^\/api\/stills\/1\/image\.png\?v=2&s=[0-9a-z]+$/);
+    expect(stillSrc('/api/stills/1/image.png?v=2', still({ caption: 'One' }))).toBe(a);
+    expect(stillSrc('/api/stills/1/image.png?v=2', still({ caption: 'One', status: 'rendering' }))).not.toBe(a);
+    expect(stillSrc('/api/stills/1/image.png?v=2', still({ caption: 'Two' }))).not.toBe(a);
   });
 });

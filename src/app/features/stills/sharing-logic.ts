@@ -149,11 +149,12 @@ export const SHARED_CAUTION =
   'Your coach\u2019s notes and figures support, and do not replace, the judgement of your licensed clinician. Stop an exercise that causes sharp or worsening pain and contact your clinician.';
 
 /**
- * The address to show a still's image at: its URL with a version from what changes a still's
- * picture (a new caption re-renders it under the same id), so a browser never shows the old one.
+ * The address to show a still's image at. The server's URL already carries the render version;
+ * this adds the state the picture depends on (caption, angles, rendering or ready), so an image
+ * element that asked while a new version was still rendering asks again once it is ready.
  */
 export function stillSrc(url: string, still: Pick<Still, 'caption' | 'showAngles' | 'status'>): string {
   let h = 5381;
   for (const ch of `${still.caption}|${still.showAngles}|${still.status}`) h = ((h * 33) ^ ch.codePointAt(0)!) >>> 0;
-  return `${url}${url.includes('?') ? '&' : '?'}v=${h.toString(36)}`;
+  return `${url}${url.includes('?') ? '&' : '?'}s=${h.toString(36)}`;
 }
