@@ -1,18 +1,9 @@
 import type { Knex } from 'knex';
-import type { FrameLandmarks, ScaleBar } from '../../src/contracts/annotations';
-import type { Direction, Side } from '../../src/contracts/assessment';
 import type { RenderStatus, Still, StillLabel, StillPanel, StillRect } from '../../src/contracts/sharing';
+import type { StillPanelInput } from '../render/still-render';
 
-/** A panel as stored: what the API shows plus the overlay frozen at save time. */
-export interface StoredPanel extends StillPanel {
-  frameSize: { width: number; height: number };
-  landmarks: FrameLandmarks[];
-  nearSide: Side;
-  direction: Direction;
-  scale: ScaleBar | null;
-  /** Heading drawn above the panel. */
-  heading: string;
-}
+/** A panel as stored: what the API shows plus the overlay frozen at save time (all but the image). */
+export interface StoredPanel extends StillPanel, Omit<StillPanelInput, 'image'> {}
 
 export interface StillRow {
   id: number;

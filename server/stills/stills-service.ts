@@ -14,7 +14,7 @@ import type { JobQueue, Job } from '../jobs/job-queue';
 import { PermanentJobError, type JobHandler } from '../jobs/worker';
 import type { MediaStore } from '../storage/media-store';
 import type { Mailer } from '../mail/mailer';
-import { sendShareNotice } from '../mail/share-notice';
+import { accessibleShared, setPublication } from '../sharing/shared-items';
 import { FRAMES_DIR, frameFileName, readManifest } from '../media/manifest';
 import type { ClipRow } from '../clips/clips-repository';
 import type { ClipsService } from '../clips/clips-service';
@@ -79,15 +79,8 @@ export function stillsService(d: StillsDeps) {
   const now = () => d.clock().toISOString();
 
   /** A still this user may see: staff any of their clinic's; an athlete only their published ones. */
-  async function accessibleStill(user: SessionUser, id: number): Promise<StillRow> {
-    const row = await repo.find(db, user.clinicId, id);
-    if (!row) throw new NotFoundError('Still');
-    await accessibleAthlete(db, user, row.athlete_id).catch(() => {
-      throw new NotFoundError('Still');
-    });
-    if (!isStaff(user) && (!row.published_at || row.clip_id === null || row.status !== 'ready')) throw new NotFoundError('Still');
-    return row;
-  }
+  /** A still this user may see: staff any of their clinic's; an athlete only their published ones. */
+  const accessibleStill = (user: SessionUser, id: number) => accessibleShared<StillRow>(db, 'still', user, id, (row) => row.clip_id !== null);
 
   async function view(id: number): Promise<Still> {
     const [still] = await repo.view(db, { id }, { publishedOnly: false });
@@ -202,17 +195,9 @@ export function stillsService(d: StillsDeps) {
 
     async setPublished(user: SessionUser, id: number, publish: boolean): Promise<Still> {
       const row = await accessibleStill(user, id);
-      if (!publish) {
-        await repo.update(db, id, { published_at: null, published_by: null, updated_at: now() });
-        await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'still.unpublished', detail: { stillId: id } });
-        return view(id);
-      }
-      if (row.clip_id === null) throw new ConflictError(STILL_CLIP_DELETED, 'clip_deleted');
-      if (row.status !== 'ready') throw new ConflictError(row.status === 'failed' ? 'This still could not be rendered; delete it and save it again.' : 'This still is still rendering: publish it when it is ready.', 'still_not_ready');
-      if (row.published_at) return view(id);
-      await repo.update(db, id, { published_at: now(), published_by: user.id, updated_at: now() });
-      await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'still.published', detail: { stillId: id } });
-      await sendShareNotice({ db, mailer: d.mailer, logger: d.logger, publicUrl: d.publicUrl }, row.athlete_id, 'still');
+      if (publish && row.clip_id === null) throw new ConflictError(STILL_CLIP_DELETED, 'clip_deleted');
+      if (publish && row.status !== 'ready') throw new ConflictError(row.status === 'failed' ? 'This still could not be rendered; delete it and save it again.' : 'This still is still rendering: publish it when it is ready.', 'still_not_ready');
+      await setPublication(d, 'still', user, row, publish);
       return view(id);
     },
 

@@ -13,7 +13,7 @@ import { accessibleAthlete } from '../athletes/athlete-access';
 import type { Job, JobQueue } from '../jobs/job-queue';
 import { PermanentJobError, type JobHandler } from '../jobs/worker';
 import type { Mailer } from '../mail/mailer';
-import { sendShareNotice } from '../mail/share-notice';
+import { accessibleShared, setPublication } from '../sharing/shared-items';
 import type { MediaStore } from '../storage/media-store';
 import { assessmentsRepository, type AssessmentRow } from '../assessments/assessments-repository';
 import type { ClipsService } from '../clips/clips-service';
@@ -60,15 +60,7 @@ export function summariesService(d: SummariesDeps) {
     return path.join(d.store.assessmentDir(assessmentId), SUMMARIES_DIR);
   }
 
-  async function accessibleSummary(user: SessionUser, id: number): Promise<SummaryRow> {
-    const row = await repo.find(db, user.clinicId, id);
-    if (!row) throw new NotFoundError('Visit summary');
-    await accessibleAthlete(db, user, row.athlete_id).catch(() => {
-      throw new NotFoundError('Visit summary');
-    });
-    if (!isStaff(user) && (!row.published_at || row.status !== 'ready')) throw new NotFoundError('Visit summary');
-    return row;
-  }
+  const accessibleSummary = (user: SessionUser, id: number) => accessibleShared<SummaryRow>(db, 'summary', user, id);
 
   async function view(id: number): Promise<VisitSummary> {
     const [s] = await repo.view(db, { id }, { publishedOnly: false });
@@ -134,16 +126,8 @@ export function summariesService(d: SummariesDeps) {
 
     async setPublished(user: SessionUser, id: number, publish: boolean): Promise<VisitSummary> {
       const row = await accessibleSummary(user, id);
-      if (!publish) {
-        await repo.update(db, id, { published_at: null, published_by: null, updated_at: now() });
-        await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'summary.unpublished', detail: { summaryId: id } });
-        return view(id);
-      }
-      if (row.status !== 'ready') throw new ConflictError(row.status === 'failed' ? 'This summary could not be made; delete it and create it again.' : 'This summary is still being made: publish it when it is ready.', 'summary_not_ready');
-      if (row.published_at) return view(id);
-      await repo.update(db, id, { published_at: now(), published_by: user.id, updated_at: now() });
-      await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'summary.published', detail: { summaryId: id } });
-      await sendShareNotice({ db, mailer: d.mailer, logger: d.logger, publicUrl: d.publicUrl }, row.athlete_id, 'summary');
+      if (publish && row.status !== 'ready') throw new ConflictError(row.status === 'failed' ? 'This summary could not be made; delete it and create it again.' : 'This summary is still being made: publish it when it is ready.', 'summary_not_ready');
+      await setPublication(d, 'summary', user, row, publish);
       return view(id);
     },
 

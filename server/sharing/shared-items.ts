@@ -1,0 +1,62 @@
+import type { Knex } from 'knex';
+import type { Logger } from 'pino';
+import type { SessionUser } from '../../src/contracts/api';
+import type { RenderStatus } from '../../src/contracts/sharing';
+import { NotFoundError } from '../errors';
+import { isStaff } from '../http/access';
+import { audit } from '../audit/audit-log';
+import { accessibleAthlete } from '../athletes/athlete-access';
+import type { Mailer } from '../mail/mailer';
+import { sendShareNotice, type SharedKind } from '../mail/share-notice';
+
+/** Columns every shared item (still, visit summary) has. */
+export interface SharedRow {
+  id: number;
+  clinic_id: number;
+  athlete_id: number;
+  status: RenderStatus;
+  published_at: string | null;
+}
+
+/** Where each kind lives and how it is named in messages and the audit log. */
+const KINDS: Record<SharedKind, { table: string; what: string; idKey: string }> = {
+  still: { table: 'stills', what: 'Still', idKey: 'stillId' },
+  summary: { table: 'visit_summaries', what: 'Visit summary', idKey: 'summaryId' },
+};
+
+/**
+ * The row of a still or summary this user may see: staff any of their clinic's; an athlete only
+ * their own that are published and ready (and pass `visibleToAthlete`). Anything else is 404.
+ */
+export async function accessibleShared<R extends SharedRow>(db: Knex, kind: SharedKind, user: SessionUser, id: number, visibleToAthlete: (row: R) => boolean = () => true): Promise<R> {
+  const { table, what } = KINDS[kind];
+  const row = (await db(table).where({ id, clinic_id: user.clinicId }).first()) as R | undefined;
+  if (!row) throw new NotFoundError(what);
+  await accessibleAthlete(db, user, row.athlete_id).catch(() => {
+    throw new NotFoundError(what);
+  });
+  if (!isStaff(user) && (!row.published_at || row.status !== 'ready' || !visibleToAthlete(row))) throw new NotFoundError(what);
+  return row;
+}
+
+export interface PublicationDeps {
+  db: Knex;
+  mailer: Mailer;
+  logger: Logger;
+  publicUrl: string;
+  clock: () => Date;
+}
+
+/**
+ * Publishes (audit entry + one e-mail notice to the athlete) or unpublishes a shared item. The
+ * caller checks first that it may be published. Publishing what is already published changes
+ * nothing and sends nothing.
+ */
+export async function setPublication(d: PublicationDeps, kind: SharedKind, user: SessionUser, row: SharedRow, publish: boolean): Promise<void> {
+  const { table, idKey } = KINDS[kind];
+  if (publish && row.published_at) return;
+  const at = d.clock().toISOString();
+  await d.db(table).where({ id: row.id }).update(publish ? { published_at: at, published_by: user.id, updated_at: at } : { published_at: null, published_by: null, updated_at: at });
+  await audit(d.db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: `${kind}.${publish ? 'published' : 'unpublished'}`, detail: { [idKey]: row.id } });
+  if (publish) await sendShareNotice({ db: d.db, mailer: d.mailer, logger: d.logger, publicUrl: d.publicUrl }, row.athlete_id, kind);
+}
