@@ -2,13 +2,21 @@ import type { FrameLandmarks, GaitEventMark, ScaleBar } from '../../src/contract
 import type { Side } from '../../src/contracts/assessment';
 import type { GroundTruth } from './ground-truth';
 
+/** A `PUT /api/clips/:id/annotations` body at revision 0. */
+export interface TruthMarks {
+  baseRevision: number;
+  landmarks: FrameLandmarks[];
+  events: GaitEventMark[];
+  scale: ScaleBar | null;
+}
+
 /**
- * Marks for a demo clip as a careful coach would leave them: Initial contact and Toe-off of both
- * sides on every step, and all six landmarks of both sides on each of those event frames — taken
- * from the generator's ground truth, so the demo's measures match the clip (invented data, demo
- * only). Landmarks between events are left for the coach to add.
+ * Marks taken from the generator's ground truth, as a careful coach would place them: Initial
+ * contact and Toe-off of both sides on every step, and all six landmarks of both sides on every
+ * frame (`'all'`, what tests compare against) or only on the event frames (`'events'`, what the
+ * demo leaves for a coach to continue). Invented motion, not a data set.
  */
-export function demoMarks(truth: GroundTruth): { baseRevision: number; landmarks: FrameLandmarks[]; events: GaitEventMark[]; scale: ScaleBar | null } {
+export function marksFromTruth(truth: GroundTruth, landmarkFrames: 'all' | 'events'): TruthMarks {
   const near: Side = truth.nearSide;
   const far: Side = near === 'right' ? 'left' : 'right';
   const events: GaitEventMark[] = [
@@ -17,7 +25,7 @@ export function demoMarks(truth: GroundTruth): { baseRevision: number; landmarks
     ...truth.events.far.initialContact.map((frame) => ({ frame, side: far, kind: 'initial_contact' as const })),
     ...truth.events.far.toeOff.map((frame) => ({ frame, side: far, kind: 'toe_off' as const })),
   ].sort((a, b) => a.frame - b.frame);
-  const frames = [...new Set(events.map((e) => e.frame))].sort((a, b) => a - b);
+  const frames = landmarkFrames === 'all' ? truth.frames.map((f) => f.index) : [...new Set(events.map((e) => e.frame))].sort((a, b) => a - b);
   const landmarks = frames.flatMap((frame) => {
     const f = truth.frames[frame]!;
     return [
@@ -27,3 +35,6 @@ export function demoMarks(truth: GroundTruth): { baseRevision: number; landmarks
   });
   return { baseRevision: 0, landmarks, events, scale: null };
 }
+
+/** The demo clips' marks: events of both sides, landmarks on the event frames. */
+export const demoMarks = (truth: GroundTruth): TruthMarks => marksFromTruth(truth, 'events');

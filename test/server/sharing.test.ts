@@ -16,7 +16,7 @@ import { makeTestApp, OTHER, signedIn, type Client, type TestApp } from '../supp
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { makeClip, tempDir } from './media/fixtures';
 import { generateRunnerClip, type GroundTruth } from '../../scripts/demo-clip/clip';
-import type { FrameLandmarks, GaitEventMark } from '../../src/contracts/annotations';
+import { marksFromTruth } from '../../scripts/demo-clip/demo-marks';
 import type { ClipMeasures } from '../../src/contracts/measures';
 import { CAPTION_MAX, type PortalShared, type Still, type VisitSummary } from '../../src/contracts/sharing';
 import { OVERLAY_COLOURS } from '../../src/kinematics';
@@ -43,19 +43,9 @@ async function upload(assessmentId: number, file: string): Promise<number> {
 
 /** Marks every frame of a runner clip with the generator's truth, as a coach would by hand. */
 async function markFromTruth(clipId: number, assessmentId: number): Promise<void> {
-  const nearSide = truth.nearSide;
-  const farSide = nearSide === 'right' ? 'left' : 'right';
-  const landmarks: FrameLandmarks[] = truth.frames.flatMap((f) => [
-    { frame: f.index, side: nearSide, points: f.landmarksNormalised.near },
-    { frame: f.index, side: farSide, points: f.landmarksNormalised.far },
-  ]);
-  const events: GaitEventMark[] = [
-    ...truth.events.near.initialContact.map((frame) => ({ frame, side: nearSide, kind: 'initial_contact' as const })),
-    ...truth.events.near.toeOff.map((frame) => ({ frame, side: nearSide, kind: 'toe_off' as const })),
-  ];
   await t.db('assessments').where({ id: assessmentId }).update({ surface: 'treadmill', speed_mps: truth.beltSpeedMps });
-  await c.patch(`/api/clips/${clipId}`, { nearSide, direction: truth.facing === 'right' ? 'left_to_right' : 'right_to_left' });
-  const res = await c.put(`/api/clips/${clipId}/annotations`, { baseRevision: 0, landmarks, events, scale: null });
+  await c.patch(`/api/clips/${clipId}`, { nearSide: truth.nearSide, direction: truth.facing === 'right' ? 'left_to_right' : 'right_to_left' });
+  const res = await c.put(`/api/clips/${clipId}/annotations`, marksFromTruth(truth, 'all'));
   expect(res.status, JSON.stringify(res.body).slice(0, 300)).toBe(200);
 }
 
