@@ -98,6 +98,42 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
 
   const portalLink = (id: number) => `${config.publicUrl}/portal/invoices/${id}`;
 
+  /**
+   * The athlete and assessment must be this clinic's (the assessment this athlete's), and every
+   * price on a line must be on the list; `keptPriceIds` may be archived (lines that already had them).
+   */
+  async function checkReferences(trx: Db, clinicId: number, w: InvoiceWrite, keptPriceIds: Set<number>): Promise<void> {
+    const athlete = await trx('athletes').where({ id: w.athleteId, clinic_id: clinicId }).first('id');
+    if (!athlete) throw new ValidationError('athleteId: no such athlete in this clinic.', [{ path: ['athleteId'], message: 'No such athlete in this clinic.' }]);
+    if (w.assessmentId !== null) {
+      const a = await trx('assessments').where({ id: w.assessmentId, clinic_id: clinicId, athlete_id: w.athleteId }).first('id');
+      if (!a) throw new ValidationError("assessmentId: not one of this athlete's assessments.", [{ path: ['assessmentId'], message: "Not one of this athlete's assessments." }]);
+    }
+    for (const [i, l] of w.lines.entries()) {
+      if (l.priceId === null) continue;
+      const p = await prices.find(trx, clinicId, l.priceId);
+      if (!p || (p.archived_at && !keptPriceIds.has(l.priceId))) throw new ValidationError(`lines.${i}.priceId: no such price in the list.`, [{ path: ['lines', i, 'priceId'], message: 'No such price in the list.' }]);
+    }
+  }
+
+  /** Line rows with their amounts computed (tax half-up per line), in the order given. */
+  function lineRows(w: InvoiceWrite) {
+    return w.lines.map((l, position) => {
+      const a = lineAmounts(l);
+      return { position, price_id: l.priceId, description: l.description, quantity: l.quantity, unit_amount_minor: l.unitAmountMinor, tax_rate_bp: l.taxRateBp, net_minor: a.netMinor, tax_minor: a.taxMinor, total_minor: a.totalMinor };
+    });
+  }
+
+  /** Only drafts change or go away; an issued invoice is voided instead. */
+  function requireDraft(row: InvoiceRow, what: 'edited' | 'deleted'): void {
+    if (row.status === 'draft') return;
+    const which = row.number ? `invoice ${row.number} is ${row.status}` : `this invoice is ${row.status}`;
+    const instead = row.status === 'open' ? ' Void it and make a new one instead.' : '';
+    throw new ConflictError(`Only a draft can be ${what}; ${which}.${instead}`, 'invoice_not_draft');
+  }
+
+  const notDraftAnymore = () => new ConflictError('The invoice was issued or voided meanwhile; reload it.', 'invoice_not_draft');
+
   return {
     async settings(user: SessionUser): Promise<BillingSettings> {
       requireOwner(user);
@@ -166,17 +202,7 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
       requireOwner(user);
       const at = now();
       const id = await db.transaction(async (trx) => {
-        const athlete = await trx('athletes').where({ id: w.athleteId, clinic_id: user.clinicId }).first('id');
-        if (!athlete) throw new ValidationError('athleteId: no such athlete in this clinic.', [{ path: ['athleteId'], message: 'No such athlete in this clinic.' }]);
-        if (w.assessmentId !== null) {
-          const a = await trx('assessments').where({ id: w.assessmentId, clinic_id: user.clinicId, athlete_id: w.athleteId }).first('id');
-          if (!a) throw new ValidationError("assessmentId: not one of this athlete's assessments.", [{ path: ['assessmentId'], message: "Not one of this athlete's assessments." }]);
-        }
-        for (const [i, l] of w.lines.entries()) {
-          if (l.priceId === null) continue;
-          const p = await prices.find(trx, user.clinicId, l.priceId);
-          if (!p || p.archived_at) throw new ValidationError(`lines.${i}.priceId: no such price in the list.`, [{ path: ['lines', i, 'priceId'], message: 'No such price in the list.' }]);
-        }
+        await checkReferences(trx, user.clinicId, w, new Set());
         const { currency } = await trx('clinics').where({ id: user.clinicId }).first('currency');
         const totals = invoiceTotals(w.lines);
         return invoices.insert(
@@ -187,13 +213,40 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
             checkout_session_id: null, checkout_state: 'none', payment_intent_id: null, refund_id: null, created_by: user.id,
             issued_at: null, paid_at: null, voided_at: null, refunded_at: null, created_at: at, updated_at: at,
           },
-          w.lines.map((l, position) => {
-            const a = lineAmounts(l);
-            return { position, price_id: l.priceId, description: l.description, quantity: l.quantity, unit_amount_minor: l.unitAmountMinor, tax_rate_bp: l.taxRateBp, net_minor: a.netMinor, tax_minor: a.taxMinor, total_minor: a.totalMinor };
-          }),
+          lineRows(w),
         );
       });
       return reload(user, id);
+    },
+
+    /**
+     * Replaces a draft's athlete, assessment, due date, note and lines (validated as on create);
+     * amounts and totals are computed again here. 409 `invoice_not_draft` once it was issued or voided.
+     */
+    async update(user: SessionUser, id: number, w: InvoiceWrite): Promise<InvoiceDetail> {
+      requireOwner(user);
+      const row = await loadRow(user, id);
+      requireDraft(row, 'edited');
+      await db.transaction(async (trx) => {
+        // A price archived after the draft was made may stay on the lines that already use it.
+        const kept = new Set((await invoices.lines(trx, id)).map((l) => l.price_id).filter((p): p is number => p !== null));
+        await checkReferences(trx, user.clinicId, w, kept);
+        const totals = invoiceTotals(w.lines);
+        const patch = {
+          athlete_id: w.athleteId, assessment_id: w.assessmentId, due_date: w.dueDate, note: w.note,
+          subtotal_minor: totals.subtotalMinor, tax_minor: totals.taxMinor, total_minor: totals.totalMinor, updated_at: now(),
+        };
+        if (!(await invoices.replaceDraft(trx, id, patch, lineRows(w)))) throw notDraftAnymore();
+      });
+      return reload(user, id);
+    },
+
+    /** Deletes a draft and its lines (it never had a number). 409 `invoice_not_draft` otherwise: void it instead. */
+    async remove(user: SessionUser, id: number): Promise<void> {
+      requireOwner(user);
+      const row = await loadRow(user, id);
+      requireDraft(row, 'deleted');
+      if (!(await db.transaction((trx) => invoices.deleteDraft(trx, id)))) throw notDraftAnymore();
     },
 
     /** draft → open: gives the invoice its number and e-mails the athlete a link to it. */

@@ -57,6 +57,14 @@ export function billingRoutes(billing: BillingService): Router {
   router.get('/invoices/:id', requireSignedIn, async (req, res) => {
     res.json(await billing.get(currentUser(req), id(req.params, 'Invoice')));
   });
+  router.put('/invoices/:id', owner, async (req, res) => {
+    const invoiceId = id(req.params, 'Invoice');
+    res.json(await billing.update(currentUser(req), invoiceId, parse(InvoiceBody, req.body)));
+  });
+  router.delete('/invoices/:id', owner, async (req, res) => {
+    await billing.remove(currentUser(req), id(req.params, 'Invoice'));
+    res.status(204).end();
+  });
   router.post('/invoices/:id/issue', owner, async (req, res) => {
     res.json(await billing.issue(currentUser(req), id(req.params, 'Invoice')));
   });

@@ -140,6 +140,25 @@ export const invoicesRepository = {
     const n = await db('invoices').where({ id }).whereIn('status', from).update(patch);
     return n > 0;
   },
+  /**
+   * Replaces a draft's fields and all its lines, only while it is still a draft; answers whether
+   * it was (run inside a transaction).
+   */
+  async replaceDraft(trx: Knex, id: number, patch: Partial<InvoiceRow>, lines: Omit<InvoiceLineRow, 'id' | 'invoice_id'>[]): Promise<boolean> {
+    const n = await trx('invoices').where({ id, status: 'draft' }).update(patch);
+    if (n === 0) return false;
+    await trx('invoice_lines').where({ invoice_id: id }).delete();
+    await trx('invoice_lines').insert(lines.map((l) => ({ ...l, invoice_id: id })));
+    return true;
+  },
+  /** Deletes a draft with its lines; answers whether it was still a draft. */
+  async deleteDraft(trx: Knex, id: number): Promise<boolean> {
+    const draft = await trx('invoices').where({ id, status: 'draft' }).first('id');
+    if (!draft) return false;
+    await trx('invoice_lines').where({ invoice_id: id }).delete();
+    await trx('invoices').where({ id, status: 'draft' }).delete();
+    return true;
+  },
   async update(db: Knex, id: number, patch: Partial<InvoiceRow>): Promise<void> {
     await db('invoices').where({ id }).update(patch);
   },

@@ -253,6 +253,113 @@ describe('invoices', () => {
   });
 });
 
+describe('editing and deleting drafts', () => {
+  const body = (d: InvoiceDetail, over: Partial<InvoiceWrite> = {}): InvoiceWrite => ({
+    athleteId: d.athleteId, assessmentId: d.assessmentId, dueDate: d.dueDate, note: d.note,
+    lines: d.lines.map(({ priceId, description, quantity, unitAmountMinor, taxRateBp }) => ({ priceId, description, quantity, unitAmountMinor, taxRateBp })),
+    ...over,
+  });
+
+  it('PUT replaces a draft and recomputes on the server [calc]: 2 × Gait assessment 120.00 at 20 % = 240.00 + 48.00; 3 × 4.99 taping at 7.5 % = 14.97 + 1.12 (1.12275 half-up); totals 254.97 + 49.12 = 304.09', async () => {
+    const d = await draft();
+    expect(d.totalMinor).toBe(7800);
+    const ada = (await t.db('assessments').where({ athlete_id: adaId }).first()).id;
+    const res = await o.put(`/api/invoices/${d.id}`, {
+      athleteId: adaId, assessmentId: ada, dueDate: '2027-01-15', note: 'Two gait sessions and tape.',
+      lines: [line(price('Gait assessment'), 2), { priceId: null, description: 'Taping', quantity: 3, unitAmountMinor: 499, taxRateBp: 750 }],
+    });
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect(res.body).toMatchObject({ id: d.id, status: 'draft', number: null, assessmentId: ada, dueDate: '2027-01-15', note: 'Two gait sessions and tape.', subtotalMinor: 25497, taxMinor: 4912, totalMinor: 30409 });
+    expect(res.body.lines.map((l: InvoiceDetail['lines'][number]) => [l.description, l.netMinor, l.taxMinor, l.totalMinor])).toEqual([['Gait assessment', 24000, 4800, 28800], ['Taping', 1497, 112, 1609]]);
+    expect((await o.get(`/api/invoices/${d.id}`)).body).toEqual(res.body);
+    expect(await t.db('invoice_lines').where({ invoice_id: d.id }).count({ n: '*' })).toEqual([{ n: 2 }]);
+    // Totals sent by the client are not accepted (the body is strict).
+    const sneaky = await o.put(`/api/invoices/${d.id}`, { ...body(res.body), totalMinor: 1 });
+    expect(sneaky.status).toBe(422);
+    // Issuing the edited draft e-mails the new total.
+    const issuedNow = (await o.post(`/api/invoices/${d.id}/issue`)).body as InvoiceDetail;
+    expect(t.mailer.sent.find((m) => m.subject.includes(issuedNow.number!))!.text).toContain('304.09 EUR');
+  });
+
+  it('refuses bad lines with the same 422s as create, and nothing changes', async () => {
+    const d = await draft({ note: 'Keep me.' });
+    const bad = async (over: Partial<InvoiceWrite>, path: (string | number)[]) => {
+      const res = await o.put(`/api/invoices/${d.id}`, body(d, over));
+      expect(res.status, JSON.stringify(res.body)).toBe(422);
+      expect(res.body.error.details[0].path).toEqual(path);
+    };
+    const custom = { priceId: null, description: 'X', quantity: 1, unitAmountMinor: 100, taxRateBp: null };
+    await bad({ lines: [{ ...custom, unitAmountMinor: 0 }] }, ['lines', 0, 'unitAmountMinor']);
+    await bad({ lines: [custom, { ...custom, unitAmountMinor: 12.5 }] }, ['lines', 1, 'unitAmountMinor']);
+    await bad({ lines: [{ ...custom, quantity: 1001 }] }, ['lines', 0, 'quantity']);
+    await bad({ lines: [{ ...custom, description: '  ' }] }, ['lines', 0, 'description']);
+    await bad({ lines: [{ ...custom, priceId: 999_999 }] }, ['lines', 0, 'priceId']);
+    await bad({ lines: [] }, ['lines']);
+    await bad({ dueDate: '2026-13-01' }, ['dueDate']);
+    const brunos = (await t.db('assessments').where({ athlete_id: brunoId }).first())?.id ?? null;
+    if (brunos) await bad({ assessmentId: brunos }, ['assessmentId']);
+    expect((await o.get(`/api/invoices/${d.id}`)).body).toEqual(d);
+  });
+
+  it('a price archived after drafting may stay on its line; a newly chosen archived price is refused', async () => {
+    const p = (await o.post('/api/prices', { item: 'Hill session', description: '', amountMinor: 4000, taxRateBp: null })).body as Price;
+    const other = (await o.post('/api/prices', { item: 'Track session', description: '', amountMinor: 3000, taxRateBp: null })).body as Price;
+    const d = await draft({ lines: [line(p)] });
+    await o.delete(`/api/prices/${p.id}`);
+    await o.delete(`/api/prices/${other.id}`);
+    const kept = await o.put(`/api/invoices/${d.id}`, body(d, { lines: [line(p, 2)] }));
+    expect(kept.status, JSON.stringify(kept.body)).toBe(200);
+    expect(kept.body.totalMinor).toBe(8000);
+    const added = await o.put(`/api/invoices/${d.id}`, body(d, { lines: [line(p), line(other)] }));
+    expect(added.status).toBe(422);
+    expect(added.body.error.details[0].path).toEqual(['lines', 1, 'priceId']);
+  });
+
+  it('an open, paid or void invoice cannot be edited or deleted (409 invoice_not_draft), and stays as it was', async () => {
+    const open = await issued();
+    const paid = await paidInvoice();
+    const voided = (await o.post(`/api/invoices/${(await draft()).id}/void`)).body as InvoiceDetail;
+    for (const inv of [open, paid, voided]) {
+      const edit = await o.put(`/api/invoices/${inv.id}`, body(inv, { note: 'Changed after issue' }));
+      expect(edit.status, JSON.stringify(edit.body)).toBe(409);
+      expect(edit.body.error.code).toBe('invoice_not_draft');
+      expect(edit.body.error.message).toMatch(/^Only a draft can be edited/);
+      const del = await o.delete(`/api/invoices/${inv.id}`);
+      expect(del.status).toBe(409);
+      expect(del.body.error.code).toBe('invoice_not_draft');
+      const after = (await o.get(`/api/invoices/${inv.id}`)).body as InvoiceDetail;
+      expect(after).toMatchObject({ status: inv.status, note: null, totalMinor: inv.totalMinor });
+    }
+    expect((await o.delete(`/api/invoices/${open.id}`)).body.error.message).toContain(`invoice ${open.number} is open. Void it and make a new one instead.`);
+  });
+
+  it('athletes and coaches get 403, another clinic\'s owner 404; the draft is untouched', async () => {
+    const d = await draft();
+    const c = await signedIn(t.app, coach.email, coach.password);
+    const farOwner = await signedIn(t.app, OTHER.owner.email, OTHER.owner.password);
+    expect((await a.put(`/api/invoices/${d.id}`, body(d, { note: 'x' }))).status).toBe(403);
+    expect((await a.delete(`/api/invoices/${d.id}`)).status).toBe(403);
+    expect((await c.put(`/api/invoices/${d.id}`, body(d, { note: 'x' }))).status).toBe(403);
+    expect((await c.delete(`/api/invoices/${d.id}`)).status).toBe(403);
+    const farAthlete = (await t.db('athletes').where({ email: OTHER.athlete.email }).first()).id;
+    expect((await farOwner.put(`/api/invoices/${d.id}`, body(d, { athleteId: farAthlete }))).status).toBe(404);
+    expect((await farOwner.delete(`/api/invoices/${d.id}`)).status).toBe(404);
+    expect((await o.put('/api/invoices/999999', body(d))).status).toBe(404);
+    expect((await o.delete('/api/invoices/abc')).status).toBe(404);
+    expect((await o.get(`/api/invoices/${d.id}`)).body).toEqual(d);
+  });
+
+  it('DELETE removes a draft and its lines (204); the id is then unknown (404)', async () => {
+    const d = await draft();
+    const res = await o.delete(`/api/invoices/${d.id}`);
+    expect(res.status).toBe(204);
+    expect((await o.get(`/api/invoices/${d.id}`)).status).toBe(404);
+    expect(await t.db('invoice_lines').where({ invoice_id: d.id }).count({ n: '*' })).toEqual([{ n: 0 }]);
+    expect((await o.delete(`/api/invoices/${d.id}`)).status).toBe(404);
+    expect((await o.get('/api/invoices')).body.invoices.some((i: InvoiceDetail) => i.id === d.id)).toBe(false);
+  });
+});
+
 describe('card payment through the fake payment service', () => {
   it('Pay on the payment page → signed webhook → paid, e-mail, receipt PDF (Re-test 65.00 + 13.00 tax = 78.00 EUR)', async () => {
     const inv = await issued();
