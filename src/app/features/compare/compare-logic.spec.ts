@@ -44,6 +44,8 @@ describe('compare logic', () => {
     expect(formatValue(-2, 'steps/min', true)).toBe('−2.0 steps/min');
     expect(formatValue(4, '°')).toBe('4.0°');
     expect(formatValue(null, '°')).toBe('—');
+    expect(formatValue(-0.02, '°', true)).toBe('0.0°');
+    expect(formatValue(-0.001, 's', true)).toBe('0.00 s');
     expect(VERDICT_TEXT.no_threshold).toBe('No published threshold');
   });
 

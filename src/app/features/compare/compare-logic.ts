@@ -68,7 +68,8 @@ export function formatValue(value: number | null, unit: string, signed = false):
   if (value === null || !Number.isFinite(value)) return '—';
   const digits = unit === '°' || unit === '%' ? 1 : Math.abs(value) >= 100 ? 0 : unit === 'm' || unit === 's' ? 2 : 1;
   const abs = Math.abs(value).toFixed(digits);
-  const sign = value < 0 ? '−' : signed && Number(abs) !== 0 ? '+' : '';
+  // A change that rounds to zero reads 0.0, never −0.0 or +0.0.
+  const sign = Number(abs) === 0 ? '' : value < 0 ? '−' : signed ? '+' : '';
   const text = `${sign}${abs}`;
   return unit === '°' ? `${text}°` : unit ? `${text} ${unit}` : text;
 }
