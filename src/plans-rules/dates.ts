@@ -40,3 +40,11 @@ export function weekStart(date: string): string {
   const weekday = new Date(toUtc(date)).getUTCDay(); // 0 = Sunday
   return addDays(date, -((weekday + 6) % 7));
 }
+
+const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+
+/** A day as people read it in a sentence, "23 Nov" (the year is left out: alerts are recent). */
+export function dayText(date: string): string {
+  const [, m, d] = date.split('-').map(Number) as [number, number, number];
+  return `${d} ${MONTHS[m - 1]}`;
+}

@@ -1,5 +1,5 @@
 import type { PainAlert, PainRule } from '../contracts/plans';
-import { addDays, weekStart } from './dates';
+import { addDays, dayText, weekStart } from './dates';
 
 /** What the pain rules read of a log entry. */
 export interface PainLog {
@@ -69,7 +69,7 @@ export function painAlerts(logs: readonly PainLog[], rule: PainRule, today: stri
   if (high) {
     alerts.push({
       kind: 'during_above_max',
-      message: `Pain during reached ${high.painDuring}/10 on ${high.date}; the plan allows up to ${rule.maxDuring}/10.`,
+      message: `Pain during reached ${high.painDuring}/10 on ${dayText(high.date)}; the plan allows up to ${rule.maxDuring}/10.`,
       date: high.date,
       value: high.painDuring,
       limit: rule.maxDuring,
@@ -84,7 +84,7 @@ export function painAlerts(logs: readonly PainLog[], rule: PainRule, today: stri
     if (unsettled && unsettled.morningPain !== null) {
       alerts.push({
         kind: 'not_settled',
-        message: `Pain the morning after ${unsettled.date} was ${unsettled.morningPain}/10; settled means at most ${rule.settledMorningMax}/10.`,
+        message: `Pain the morning after ${dayText(unsettled.date)} was ${unsettled.morningPain}/10; settled means at most ${rule.settledMorningMax}/10.`,
         date: unsettled.date,
         value: unsettled.morningPain,
         limit: rule.settledMorningMax,
@@ -108,7 +108,7 @@ export function painAlerts(logs: readonly PainLog[], rule: PainRule, today: stri
         if (now !== null && before !== null && now > before) {
           alerts.push({
             kind: s.kind,
-            message: `${s.what} rose week over week: mean ${fmt(before)}/10 in the week of ${lastWeek}, ${fmt(now)}/10 in the week of ${thisWeek}.`,
+            message: `${s.what} rose week over week: mean ${fmt(before)}/10 in the week of ${dayText(lastWeek)}, ${fmt(now)}/10 in the week of ${dayText(thisWeek)}.`,
             date: thisWeek,
             value: oneDecimal(now),
             limit: oneDecimal(before),

@@ -26,7 +26,7 @@ describe('pain-monitoring rule (Silbernagel et al. 2007 [mem], from memory)', ()
     expect(kinds([log('2026-12-09', 4, 2)])).toEqual([]);
     const alerts = painAlerts([log('2026-12-08', 3, 1), log('2026-12-09', 4, 4)], DEFAULT_PAIN_RULE, TODAY);
     expect(alerts).toEqual([
-      { kind: 'not_settled', date: '2026-12-09', value: 4, limit: 2, message: 'Pain the morning after 2026-12-09 was 4/10; settled means at most 2/10.' },
+      { kind: 'not_settled', date: '2026-12-09', value: 4, limit: 2, message: 'Pain the morning after 9 Dec was 4/10; settled means at most 2/10.' },
     ]);
   });
 
@@ -36,7 +36,7 @@ describe('pain-monitoring rule (Silbernagel et al. 2007 [mem], from memory)', ()
     const alerts = painAlerts([...lastWeek, ...thisWeek], DEFAULT_PAIN_RULE, TODAY);
     expect(alerts.map((a) => a.kind)).toEqual(['weekly_rise_during', 'weekly_rise_morning']);
     expect(alerts[0]).toMatchObject({ date: '2026-12-07', value: 3.5, limit: 2.5 });
-    expect(alerts[0]!.message).toBe('Pain during rose week over week: mean 2.5/10 in the week of 2026-11-30, 3.5/10 in the week of 2026-12-07.');
+    expect(alerts[0]!.message).toBe('Pain during rose week over week: mean 2.5/10 in the week of 30 Nov, 3.5/10 in the week of 7 Dec.');
     expect(alerts[1]).toMatchObject({ value: 1.5, limit: 1 });
   });
 
