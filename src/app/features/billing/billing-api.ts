@@ -25,6 +25,11 @@ export class BillingApi {
     return this.http.get<BillingSettings>('/api/billing/settings', { context: skipErrorSnackbar() });
   }
 
+  /** Changes the clinic's currency; 409 `currency_in_use` once invoices exist (shown by the caller). */
+  putSettings(body: BillingSettings): Observable<BillingSettings> {
+    return this.http.put<BillingSettings>('/api/billing/settings', body, { context: skipErrorSnackbar(409, 422) });
+  }
+
   prices(): Observable<Price[]> {
     return this.http
       .get<{ prices: Price[] }>('/api/prices', { context: skipErrorSnackbar() })
@@ -57,6 +62,16 @@ export class BillingApi {
 
   createInvoice(body: InvoiceWrite): Observable<InvoiceDetail> {
     return this.http.post<InvoiceDetail>('/api/invoices', body, { context: skipErrorSnackbar(422) });
+  }
+
+  /** Replaces a draft (409 once it was issued or voided; 422 shown inline by the form). */
+  updateInvoice(id: number, body: InvoiceWrite): Observable<InvoiceDetail> {
+    return this.http.put<InvoiceDetail>(`/api/invoices/${id}`, body, { context: skipErrorSnackbar(422, 409) });
+  }
+
+  /** Deletes a draft; anything else is refused (409, shown by the error snackbar). */
+  deleteInvoice(id: number): Observable<void> {
+    return this.http.delete<void>(`/api/invoices/${id}`);
   }
 
   /** `issue`, `void` or `refund`; conflicts (409) come back with the server's reason. */

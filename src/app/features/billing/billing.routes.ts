@@ -19,6 +19,11 @@ export default [
     loadComponent: () => import('./invoice-form/invoice-form').then((m) => m.InvoiceForm),
   },
   {
+    path: 'invoices/:id/edit',
+    title: 'Edit draft invoice · Trailframe',
+    loadComponent: () => import('./invoice-form/invoice-form').then((m) => m.InvoiceForm),
+  },
+  {
     path: 'invoices/:id',
     title: 'Invoice · Trailframe',
     loadComponent: () => import('./invoice-detail/invoice-detail').then((m) => m.InvoiceDetailPage),

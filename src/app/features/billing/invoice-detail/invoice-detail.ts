@@ -7,7 +7,7 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import { RouterLink } from '@angular/router';
+import { Router, RouterLink } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 import type { InvoiceDetail } from '../../../../contracts/billing';
 import { errorMessage } from '../../../core/api-error';
@@ -26,7 +26,10 @@ const CONFIRM: Record<Action, (i: InvoiceDetail) => ConfirmDialogData> = {
   refund: (i) => ({ title: 'Refund the payment?', message: `${money(i.totalMinor, i.currency)} goes back to ${i.athleteName}'s card through the payment service. This cannot be undone.`, confirmLabel: 'Refund' }),
 };
 
-/** `/billing/invoices/:id` (owner): one invoice with Issue, Void and Refund (each confirmed). */
+/**
+ * `/billing/invoices/:id` (owner): one invoice with Issue, Void and Refund (each confirmed); a draft
+ * also offers Edit (`/billing/invoices/:id/edit`) and a confirmed Delete draft.
+ */
 @Component({
   selector: 'app-invoice-detail',
   imports: [DatePipe, RouterLink, MatCardModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState, InvoiceStatusBadge, InvoiceLinesTable],
@@ -38,6 +41,7 @@ export class InvoiceDetailPage {
   private readonly api = inject(BillingApi);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
+  private readonly router = inject(Router);
 
   /** Route parameter. */
   readonly id = input.required<string>();
@@ -61,6 +65,32 @@ export class InvoiceDetailPage {
           this.snackBar.open(done, 'OK', { duration: 4000 });
         } catch {
           // The error snackbar shows the server's reason (e.g. a conflict).
+          this.invoice.reload();
+        } finally {
+          this.busy.set(false);
+        }
+      });
+  }
+
+  /** Asks first, deletes the draft and goes back to the list; a refusal (409) is shown by the error snackbar. */
+  protected deleteDraft(inv: InvoiceDetail): void {
+    this.dialog
+      .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, {
+        data: {
+          title: 'Delete this draft?',
+          message: `The draft for ${inv.athleteName} (${money(inv.totalMinor, inv.currency)}) is deleted with its lines. It was never sent and has no number. This cannot be undone.`,
+          confirmLabel: 'Delete draft',
+        },
+      })
+      .afterClosed()
+      .subscribe(async (ok) => {
+        if (!ok) return;
+        this.busy.set(true);
+        try {
+          await firstValueFrom(this.api.deleteInvoice(inv.id));
+          this.snackBar.open('Draft deleted', 'OK', { duration: 4000 });
+          await this.router.navigate(['/billing/invoices']);
+        } catch {
           this.invoice.reload();
         } finally {
           this.busy.set(false);

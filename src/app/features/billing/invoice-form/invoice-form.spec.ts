@@ -1,8 +1,9 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
-import { provideRouter, Router } from '@angular/router';
-import type { Price } from '../../../../contracts/billing';
+import { provideRouter, Router, withComponentInputBinding } from '@angular/router';
+import { RouterTestingHarness } from '@angular/router/testing';
+import type { InvoiceDetail, Price } from '../../../../contracts/billing';
 import { InvoiceForm } from './invoice-form';
 
 const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -85,5 +86,108 @@ describe('InvoiceForm', () => {
     backend.expectOne('/api/invoices').flush({ id: 31 });
     await settle();
     expect(navigate).toHaveBeenCalledWith(['/billing/invoices', 31]);
+  });
+});
+
+describe('InvoiceForm reached by address', () => {
+  let harness: RouterTestingHarness;
+  let backend: HttpTestingController;
+  /** The component's protected API. */
+  let form: any;
+
+  const settle = async () => {
+    await wait(20);
+    harness.detectChanges();
+    await wait(10);
+    harness.detectChanges();
+  };
+
+  const DRAFT: InvoiceDetail = {
+    id: 31, number: null, status: 'draft', athleteId: 4, athleteName: 'Ada Kestrel', currency: 'EUR', totalMinor: 15600, dueDate: '2026-12-31',
+    issuedAt: null, paidAt: null, createdAt: '2026-12-01T10:00:00Z', assessmentId: 11, note: 'Two visits', clinicName: 'Test clinic',
+    subtotalMinor: 13000, taxMinor: 2600, voidedAt: null, refundedAt: null, checkoutState: 'none',
+    lines: [{ id: 7, priceId: 2, description: 'Re-test', quantity: 2, unitAmountMinor: 6500, taxRateBp: 2000, netMinor: 13000, taxMinor: 2600, totalMinor: 15600 }],
+  };
+
+  async function open(url: string): Promise<void> {
+    TestBed.configureTestingModule({
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        provideRouter([
+          { path: 'billing/invoices/new', component: InvoiceForm },
+          { path: 'billing/invoices/:id/edit', component: InvoiceForm },
+          { path: '**', children: [] },
+        ], withComponentInputBinding()),
+      ],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    harness = await RouterTestingHarness.create();
+    form = await harness.navigateByUrl(url, InvoiceForm);
+    await wait(10);
+    backend.expectOne('/api/athletes').flush({ athletes: [{ id: 4, firstName: 'Ada', lastName: 'Kestrel' }] });
+    backend.expectOne('/api/prices').flush({ prices: PRICES });
+    backend.expectOne('/api/billing/settings').flush({ currency: 'EUR' });
+  }
+  afterEach(() => backend.verify());
+
+  it('"Invoice this visit" (?athlete=4&assessment=11) chooses the athlete, the Re-test and its price: 65.00 + 13.00 = 78.00 EUR', async () => {
+    await open('/billing/invoices/new?athlete=4&assessment=11');
+    await settle();
+    backend.expectOne('/api/athletes/4/assessments').flush({ assessments: [{ id: 10, athleteId: 4, date: '2026-10-01', kind: 'baseline' }, { id: 11, athleteId: 4, date: '2026-11-24', kind: 'retest' }] });
+    await settle();
+    expect(form.form.getRawValue()).toMatchObject({ athleteId: 4, assessmentId: 11 });
+    expect(form.lines.at(0).getRawValue()).toEqual({ priceId: 2, description: 'Re-test', quantity: 1, amount: '65.00', tax: '20' });
+    expect(harness.routeNativeElement!.querySelector('[data-testid="preview-total"]')?.textContent).toBe('78.00 EUR');
+  });
+
+  it('edits a draft: filled from the server, sends PUT with minor units, opens the invoice', async () => {
+    await open('/billing/invoices/31/edit');
+    const navigate = vi.spyOn(TestBed.inject(Router), 'navigate').mockResolvedValue(true);
+    backend.expectOne('/api/invoices/31').flush(DRAFT);
+    await settle();
+    backend.expectOne('/api/athletes/4/assessments').flush({ assessments: [{ id: 11, athleteId: 4, date: '2026-11-24', kind: 'retest' }] });
+    await settle();
+    const el = harness.routeNativeElement!;
+    expect(el.querySelector('h1')?.textContent).toContain('Edit draft invoice');
+    expect(form.form.getRawValue()).toMatchObject({ athleteId: 4, assessmentId: 11, dueDate: '2026-12-31', note: 'Two visits' });
+    expect(el.querySelector('[data-testid="preview-total"]')?.textContent).toBe('156.00 EUR');
+    // 3 × 65.00 at 20 % = 195.00 + 39.00 = 234.00
+    form.lines.at(0).controls.quantity.setValue(3);
+    await settle();
+    expect(el.querySelector('[data-testid="preview-total"]')?.textContent).toBe('234.00 EUR');
+    void form.save();
+    const req = backend.expectOne('/api/invoices/31');
+    expect(req.request.method).toBe('PUT');
+    expect(req.request.body).toEqual({ athleteId: 4, assessmentId: 11, dueDate: '2026-12-31', note: 'Two visits', lines: [{ priceId: 2, description: 'Re-test', quantity: 3, unitAmountMinor: 6500, taxRateBp: 2000 }] });
+    req.flush({ ...DRAFT, totalMinor: 23400 });
+    await settle();
+    expect(navigate).toHaveBeenCalledWith(['/billing/invoices', 31]);
+  });
+
+  it("a draft issued meanwhile: the server's 409 shows above the form and what was typed stays", async () => {
+    await open('/billing/invoices/31/edit');
+    backend.expectOne('/api/invoices/31').flush(DRAFT);
+    await settle();
+    backend.expectOne('/api/athletes/4/assessments').flush({ assessments: [] });
+    form.form.controls.note.setValue('Changed note');
+    await settle();
+    void form.save();
+    backend.expectOne('/api/invoices/31').flush(
+      { error: { code: 'invoice_not_draft', message: 'Only a draft can be edited; invoice TF-2026-0007 is open. Void it and make a new one instead.' } },
+      { status: 409, statusText: 'Conflict' },
+    );
+    await settle();
+    expect(harness.routeNativeElement!.querySelector('.form-problem')?.textContent).toContain('invoice TF-2026-0007 is open');
+    expect(form.form.controls.note.value).toBe('Changed note');
+  });
+
+  it('an invoice that is no longer a draft is not offered for editing', async () => {
+    await open('/billing/invoices/31/edit');
+    backend.expectOne('/api/invoices/31').flush({ ...DRAFT, status: 'open', number: 'TF-2026-0007' });
+    await settle();
+    const el = harness.routeNativeElement!;
+    expect(el.querySelector('form')).toBeNull();
+    expect(el.querySelector('.form-problem')?.textContent).toContain('Invoice TF-2026-0007 is open; only drafts can be edited.');
   });
 });

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { rxResource, takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { FormArray, FormControl, FormGroup, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -6,22 +6,24 @@ import { MatCardModule } from '@angular/material/card';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { ActivatedRoute, Router, RouterLink } from '@angular/router';
-import { firstValueFrom, of, startWith } from 'rxjs';
+import { firstValueFrom, of, startWith, throwError } from 'rxjs';
 import type { Assessment } from '../../../../contracts/api';
 import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
-import type { InvoiceLineWrite, Price } from '../../../../contracts/billing';
+import type { InvoiceDetail, InvoiceLineWrite, InvoiceWrite, Price } from '../../../../contracts/billing';
 import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { requiredTrimmed } from '../../../shared/forms/validators';
+import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentsApi } from '../../assessments/assessments-api';
 import { AthletesApi } from '../../athletes/athletes-api';
 import { BillingApi } from '../billing-api';
 import { money } from '../billing-words';
 import { amountValidator, taxValidator } from '../price-list/price-list';
-import { lineFromPrice, previewTotals, priceForAssessment, toLineWrite, type LineDraft } from './invoice-lines';
+import { formFromInvoice, lineFromPrice, presetFromQuery, previewTotals, priceForAssessment, toLineWrite, type LineDraft } from './invoice-lines';
 
 type LineGroup = FormGroup<{
   priceId: FormControl<number | null>;
@@ -36,11 +38,12 @@ const inTwoWeeks = () => new Date(Date.now() + 14 * 86_400_000).toISOString().sl
 /**
  * `/billing/invoices/new` (owner): a draft invoice for an athlete, from one of their assessments or
  * by hand; lines from the price list or custom; totals previewed as the server will compute them.
- * `?athlete=:id` preselects the athlete.
+ * `?athlete=:id` preselects the athlete, `&assessment=:id` also that visit (and its usual price).
+ * `/billing/invoices/:id/edit`: the same form, filled from a saved draft; saving replaces it.
  */
 @Component({
   selector: 'app-invoice-form',
-  imports: [ReactiveFormsModule, RouterLink, MatCardModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatIconModule],
+  imports: [ReactiveFormsModule, RouterLink, MatCardModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './invoice-form.html',
   styleUrl: './invoice-form.scss',
@@ -51,6 +54,25 @@ export class InvoiceForm {
   private readonly athletesApi = inject(AthletesApi);
   private readonly router = inject(Router);
   private readonly fb = inject(NonNullableFormBuilder);
+
+  /** Route parameter of `/billing/invoices/:id/edit`; absent for a new invoice. */
+  readonly id = input<string>();
+  /** Whether this form edits a saved draft (rather than making a new one). */
+  protected readonly isEdit = computed(() => this.id() !== undefined);
+  /** The draft being edited. */
+  protected readonly existing = rxResource({
+    params: () => (this.isEdit() ? Number(this.id()) : undefined),
+    stream: ({ params }) => (Number.isInteger(params) && params > 0 ? this.api.invoice(params) : throwError(() => new Error('Not a valid invoice address.'))),
+  });
+  /** The saved invoice when it is no longer a draft (it cannot be edited then). */
+  protected readonly locked = computed<InvoiceDetail | null>(() => {
+    const inv = this.existing.hasValue() ? this.existing.value() : null;
+    return inv && inv.status !== 'draft' ? inv : null;
+  });
+  /** Whether the form has its values (always for a new invoice; once the draft loaded when editing). */
+  protected readonly filled = signal(false);
+  /** Where Cancel and the breadcrumb lead back to. */
+  protected readonly backLink = computed(() => (this.isEdit() ? ['/billing/invoices', this.id()] : ['/billing/invoices']));
 
   protected readonly athletes = rxResource({ stream: () => this.athletesApi.list() });
   protected readonly prices = rxResource({ stream: () => this.api.prices() });
@@ -80,13 +102,57 @@ export class InvoiceForm {
   protected readonly problem = signal<string | null>(null);
   protected readonly kindLabels = ASSESSMENT_KIND_LABELS;
   protected readonly errorText = errorText;
+  protected readonly errorMessage = errorMessage;
   protected readonly money = money;
+  /** An assessment from `?assessment=` waiting for the athlete's assessments and the prices to load. */
+  private readonly presetAssessment = signal<number | null>(null);
 
   constructor() {
     this.addLine();
-    const athlete = Number(inject(ActivatedRoute).snapshot.queryParamMap.get('athlete'));
-    if (athlete) this.form.controls.athleteId.setValue(athlete);
+    const query = inject(ActivatedRoute).snapshot.queryParamMap;
+    const preset = presetFromQuery(query.get('athlete'), query.get('assessment'));
+    if (preset.athleteId) this.form.controls.athleteId.setValue(preset.athleteId);
+    this.presetAssessment.set(preset.assessmentId);
     this.form.controls.athleteId.valueChanges.pipe(takeUntilDestroyed()).subscribe(() => this.form.controls.assessmentId.setValue(null));
+
+    // A new invoice is ready at once; an edited one once its draft has loaded.
+    effect(() => {
+      if (!this.isEdit()) {
+        this.filled.set(true);
+        return;
+      }
+      const inv = this.existing.hasValue() ? this.existing.value() : null;
+      if (!inv || inv.status !== 'draft' || untracked(this.filled)) return;
+      untracked(() => this.fill(inv));
+    });
+
+    // "Invoice this visit": choose the assessment and its usual price once both lists are there.
+    effect(() => {
+      const wanted = this.presetAssessment();
+      const list = this.assessments.value();
+      const priceList = this.prices.value();
+      if (wanted === null || this.assessments.isLoading() || !list || !priceList) return;
+      untracked(() => {
+        this.presetAssessment.set(null);
+        const a = list.find((x) => x.id === wanted);
+        if (!a) return;
+        this.form.controls.assessmentId.setValue(a.id);
+        this.pickAssessment(a);
+      });
+    });
+  }
+
+  /** Puts a saved draft into the form (athlete first: choosing an athlete clears the assessment). */
+  private fill(inv: InvoiceDetail): void {
+    const f = formFromInvoice(inv);
+    this.form.controls.athleteId.setValue(f.athleteId);
+    this.form.controls.assessmentId.setValue(f.assessmentId);
+    this.form.controls.dueDate.setValue(f.dueDate);
+    this.form.controls.note.setValue(f.note);
+    this.lines.clear();
+    for (const l of f.lines) this.addLine(l);
+    this.form.markAsPristine();
+    this.filled.set(true);
   }
 
   protected addLine(draft?: LineDraft): void {
@@ -136,19 +202,19 @@ export class InvoiceForm {
       return;
     }
     const v = this.form.getRawValue();
+    const body: InvoiceWrite = {
+      athleteId: v.athleteId!,
+      assessmentId: v.assessmentId,
+      dueDate: v.dueDate,
+      note: v.note.trim() || null,
+      lines: (v.lines as LineDraft[]).map((l) => toLineWrite(l) as InvoiceLineWrite),
+    };
+    const editing = this.isEdit() ? this.existing.value() : undefined;
     this.saving.set(true);
     this.problem.set(null);
     try {
-      const created = await firstValueFrom(
-        this.api.createInvoice({
-          athleteId: v.athleteId!,
-          assessmentId: v.assessmentId,
-          dueDate: v.dueDate,
-          note: v.note.trim() || null,
-          lines: (v.lines as LineDraft[]).map((l) => toLineWrite(l) as InvoiceLineWrite),
-        }),
-      );
-      await this.router.navigate(['/billing/invoices', created.id]);
+      const saved = await firstValueFrom(editing ? this.api.updateInvoice(editing.id, body) : this.api.createInvoice(body));
+      await this.router.navigate(['/billing/invoices', saved.id]);
     } catch (err) {
       if (errorStatus(err) === 422) {
         const problems = fieldProblems(err).map((p) => ({

@@ -1,5 +1,5 @@
 import type { Price } from '../../../../contracts/billing';
-import { lineFromPrice, previewTotals, priceForAssessment, toLineWrite } from './invoice-lines';
+import { formFromInvoice, lineFromInvoiceLine, lineFromPrice, presetFromQuery, previewTotals, priceForAssessment, toLineWrite } from './invoice-lines';
 
 const retest: Price = { id: 2, item: 'Re-test', description: '', amountMinor: 6500, currency: 'EUR', taxRateBp: 2000, archived: false };
 const gait: Price = { id: 1, item: 'Gait assessment', description: '', amountMinor: 12000, currency: 'EUR', taxRateBp: 2000, archived: false };
@@ -26,5 +26,29 @@ describe('invoice lines', () => {
     expect(priceForAssessment('retest', [gait, retest])?.id).toBe(2);
     expect(priceForAssessment('baseline', [retest, gait])?.id).toBe(1);
     expect(priceForAssessment('retest', [gait])).toBeNull();
+  });
+
+  it('turns saved lines back into what was typed: 1,250.00 at 7.5 %, 45.00 without tax', () => {
+    expect(lineFromInvoiceLine({ priceId: null, description: 'Block', quantity: 2, unitAmountMinor: 125000, taxRateBp: 750 })).toEqual({ priceId: null, description: 'Block', quantity: 2, amount: '1250.00', tax: '7.5' });
+    expect(lineFromInvoiceLine({ priceId: 2, description: 'Re-test', quantity: 1, unitAmountMinor: 4500, taxRateBp: null })).toEqual({ priceId: 2, description: 'Re-test', quantity: 1, amount: '45.00', tax: '' });
+  });
+
+  it('a saved draft fills the form and previews the same total the server stored (2 × 65.00 at 20 % = 156.00)', () => {
+    const f = formFromInvoice({
+      id: 9, number: null, status: 'draft', athleteId: 4, athleteName: 'Ada Kestrel', currency: 'EUR', totalMinor: 15600, dueDate: '2026-12-31', issuedAt: null, paidAt: null, createdAt: '',
+      assessmentId: 11, note: null, clinicName: '', subtotalMinor: 13000, taxMinor: 2600, voidedAt: null, refundedAt: null, checkoutState: 'none',
+      lines: [{ id: 1, priceId: 2, description: 'Re-test', quantity: 2, unitAmountMinor: 6500, taxRateBp: 2000, netMinor: 13000, taxMinor: 2600, totalMinor: 15600 }],
+    });
+    expect(f).toMatchObject({ athleteId: 4, assessmentId: 11, dueDate: '2026-12-31', note: '' });
+    expect(previewTotals(f.lines)).toEqual({ subtotalMinor: 13000, taxMinor: 2600, totalMinor: 15600 });
+  });
+
+  it('reads ?athlete= and ?assessment= as positive ids; an assessment needs its athlete', () => {
+    expect(presetFromQuery('4', '11')).toEqual({ athleteId: 4, assessmentId: 11 });
+    expect(presetFromQuery('4', null)).toEqual({ athleteId: 4, assessmentId: null });
+    expect(presetFromQuery(null, '11')).toEqual({ athleteId: null, assessmentId: null });
+    expect(presetFromQuery('0', 'x')).toEqual({ athleteId: null, assessmentId: null });
+    expect(presetFromQuery('4', '-2')).toEqual({ athleteId: 4, assessmentId: null });
+    expect(presetFromQuery('4.5', '1e3')).toEqual({ athleteId: null, assessmentId: null });
   });
 });

@@ -1,5 +1,5 @@
-import { invoiceTotals, type InvoiceLineWrite, type Price } from '../../../../contracts/billing';
-import { parseAmount, parseTaxPercent } from '../billing-words';
+import { invoiceTotals, type InvoiceDetail, type InvoiceLine, type InvoiceLineWrite, type Price } from '../../../../contracts/billing';
+import { amountText, parseAmount, parseTaxPercent } from '../billing-words';
 
 /** One line as the form holds it (amounts as typed). */
 export interface LineDraft {
@@ -34,4 +34,24 @@ export function previewTotals(lines: LineDraft[]): ReturnType<typeof invoiceTota
 export function priceForAssessment(kind: 'baseline' | 'retest', prices: Price[]): Price | null {
   const want = kind === 'retest' ? /re-?test/i : /gait assessment|assessment/i;
   return prices.find((p) => want.test(p.item)) ?? null;
+}
+
+/** A saved line as the form holds it: "65.00", tax "20" (or "" for none). */
+export function lineFromInvoiceLine(l: Pick<InvoiceLine, 'priceId' | 'description' | 'quantity' | 'unitAmountMinor' | 'taxRateBp'>): LineDraft {
+  return { priceId: l.priceId, description: l.description, quantity: l.quantity, amount: amountText(l.unitAmountMinor), tax: l.taxRateBp === null ? '' : String(l.taxRateBp / 100) };
+}
+
+/** Everything the form shows of a saved draft, to edit it. */
+export function formFromInvoice(inv: InvoiceDetail): { athleteId: number; assessmentId: number | null; dueDate: string; note: string; lines: LineDraft[] } {
+  return { athleteId: inv.athleteId, assessmentId: inv.assessmentId, dueDate: inv.dueDate, note: inv.note ?? '', lines: inv.lines.map(lineFromInvoiceLine) };
+}
+
+/**
+ * What `?athlete=:id&assessment=:id` preselect: positive whole ids only; an assessment only with
+ * its athlete.
+ */
+export function presetFromQuery(athlete: string | null, assessment: string | null): { athleteId: number | null; assessmentId: number | null } {
+  const id = (v: string | null) => (v !== null && /^[1-9]\d{0,15}$/.test(v) ? Number(v) : null);
+  const athleteId = id(athlete);
+  return { athleteId, assessmentId: athleteId === null ? null : id(assessment) };
 }

@@ -12,7 +12,7 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
-import type { Price } from '../../../../contracts/billing';
+import type { Currency, Price } from '../../../../contracts/billing';
 import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
 import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { errorText } from '../../../shared/forms/error-text';
@@ -21,6 +21,7 @@ import { requiredTrimmed } from '../../../shared/forms/validators';
 import { ErrorState } from '../../../shared/states/error-state';
 import { BillingApi } from '../billing-api';
 import { amountText, money, parseAmount, parseTaxPercent, taxText } from '../billing-words';
+import { CurrencySetting } from '../currency-setting/currency-setting';
 
 /** An amount with at most two decimals, more than zero. */
 export function amountValidator(c: AbstractControl): ValidationErrors | null {
@@ -37,10 +38,10 @@ export function taxValidator(c: AbstractControl): ValidationErrors | null {
   return parseTaxPercent(String(c.value ?? '')) === undefined ? { server: 'Enter a rate from 0 to 100 %, e.g. 20 or 7.5, or leave it empty.' } : null;
 }
 
-/** `/billing/prices` (owner): the clinic's price list, with a form to add or edit an entry. */
+/** `/billing/prices` (owner): the clinic's price list, with a form to add or edit an entry, and the clinic's currency. */
 @Component({
   selector: 'app-price-list',
-  imports: [ReactiveFormsModule, RouterLink, MatCardModule, MatTableModule, MatFormFieldModule, MatInputModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState],
+  imports: [ReactiveFormsModule, RouterLink, MatCardModule, MatTableModule, MatFormFieldModule, MatInputModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState, CurrencySetting],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './price-list.html',
   styleUrl: './price-list.scss',
@@ -67,6 +68,13 @@ export class PriceList {
   protected readonly errorMessage = errorMessage;
   protected readonly money = money;
   protected readonly taxText = taxText;
+
+  /** The prices move to the new currency with the clinic; show them again. */
+  protected onCurrencySaved(currency: Currency): void {
+    this.settings.set({ currency });
+    this.prices.reload();
+    this.snackBar.open(`Prices are now in ${currency}`, 'OK', { duration: 3000 });
+  }
 
   protected edit(p: Price): void {
     this.editing.set(p);
