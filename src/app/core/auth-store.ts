@@ -19,6 +19,8 @@ export class AuthStore {
   readonly isSignedIn = computed(() => this.current() !== null);
   /** Owners and coaches. */
   readonly isStaff = computed(() => this.role() === 'owner' || this.role() === 'coach');
+  /** Whether the signed-in user is the clinic owner (billing, team, settings). */
+  readonly isOwner = computed(() => this.role() === 'owner');
   /** Where this user lands when opening `/`. */
   readonly homePath = computed(() => homePathFor(this.role()));
 

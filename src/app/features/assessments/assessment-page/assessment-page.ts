@@ -13,6 +13,7 @@ import { catchError, filter, firstValueFrom, of, throwError } from 'rxjs';
 import type { Assessment, AssessmentDetail } from '../../../../contracts/api';
 import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
 import { errorMessage, errorStatus } from '../../../core/api-error';
+import { AuthStore } from '../../../core/auth-store';
 import { LeaveGuarded, LeaveWarning, warnBeforeUnload } from '../../../core/leave-guard';
 import { ConfirmDialog, ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { ErrorState } from '../../../shared/states/error-state';
@@ -48,6 +49,8 @@ export class AssessmentPage implements LeaveGuarded {
   private readonly dialog = inject(MatDialog);
   private readonly router = inject(Router);
   private readonly snackBar = inject(MatSnackBar);
+  /** Whether the clinic owner is looking (the only one who bills: "Invoice this visit"). */
+  protected readonly isOwner = inject(AuthStore).isOwner;
 
   /** Route parameters. */
   readonly athleteId = input.required<string>();

@@ -13,6 +13,7 @@ import { Router, RouterLink } from '@angular/router';
 import { throwError } from 'rxjs';
 import type { AthleteDetail } from '../../../../contracts/api';
 import { errorMessage, errorStatus } from '../../../core/api-error';
+import { AuthStore } from '../../../core/auth-store';
 import { LeaveGuarded, LeaveWarning, UNSAVED_CHANGES_WARNING, warnBeforeUnload } from '../../../core/leave-guard';
 import { ageOn } from '../../../shared/dates';
 import { ErrorState } from '../../../shared/states/error-state';
@@ -55,6 +56,8 @@ export class AthleteProfile implements LeaveGuarded {
   private readonly api = inject(AthletesApi);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
+  /** Whether the clinic owner is looking (the only one who bills: "New invoice"). */
+  protected readonly isOwner = inject(AuthStore).isOwner;
 
   /** Route parameter. */
   readonly id = input.required<string>();
