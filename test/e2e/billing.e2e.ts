@@ -2,7 +2,9 @@
  * Billing in Debian chromium: the owner bills the demo athlete for her Re-test (price list: Re-test
  * 65.00 EUR at 20 % tax = 65.00 + 13.00 = 78.00 EUR) and issues it; the athlete (on a phone) pays on
  * the local fake payment page; the signed webhook marks it paid; the receipt PDF and both e-mails
- * exist; the owner refunds and the refund round-trips through the payment service.
+ * exist; the owner refunds and the refund round-trips through the payment service. Before issuing,
+ * the owner corrects the draft (2 → 1 Re-test: 156.00 → 78.00 EUR); a stray draft is deleted; the
+ * currency cannot change once invoices exist.
  */
 import fs from 'node:fs';
 import path from 'node:path';
@@ -73,17 +75,41 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await page.screenshot({ path: shot('billing-prices-desktop.png') });
     await phoneShot(page, 'billing-prices-phone.png');
 
-    await page.goto(`${h.baseUrl}/billing/invoices/new`);
-    await choose(page, 'Athlete', 'Ada Kestrel');
-    await choose(page, 'For assessment (optional)', /^Re-test ·/);
+    // From the visit itself: "Invoice this visit" chooses Ada, her Re-test and its price.
+    const retest = await h.server.db('assessments as s').join('athletes as a', 'a.id', 's.athlete_id').where({ 'a.email': athlete.email, 's.kind': 'retest' }).first('s.id', 's.athlete_id');
+    await page.goto(`${h.baseUrl}/athletes/${retest.athlete_id}/assessments/${retest.id}`);
+    await page.getByRole('link', { name: 'Invoice this visit' }).waitFor();
+    await page.screenshot({ path: shot('billing-assessment-link-desktop.png') });
+    await phoneShot(page, 'billing-assessment-link-phone.png');
+    await page.getByRole('link', { name: 'Invoice this visit' }).click();
+    await page.waitForURL(new RegExp(`/billing/invoices/new\\?athlete=${retest.athlete_id}&assessment=${retest.id}$`));
+    await expect.poll(() => page.getByRole('combobox', { name: 'Athlete' }).innerText()).toContain('Ada Kestrel');
+    await expect.poll(() => page.getByRole('combobox', { name: 'For assessment' }).innerText()).toMatch(/^Re-test ·/);
     await expect.poll(() => page.getByLabel('Description').inputValue()).toBe('Re-test');
     await expect.poll(() => page.getByTestId('preview-total').innerText()).toBe('78.00 EUR');
     await page.screenshot({ path: shot('billing-new-invoice-desktop.png'), fullPage: true });
     await phoneShot(page, 'billing-new-invoice-phone.png');
+    // A slip (two Re-tests), saved, then corrected on the draft before issuing.
+    await page.getByLabel('Qty').fill('2');
+    await expect.poll(() => page.getByTestId('preview-total').innerText()).toBe('156.00 EUR');
     await page.getByRole('button', { name: 'Save draft' }).click();
     await page.waitForURL(/\/billing\/invoices\/\d+$/);
     invoiceId = Number(page.url().split('/').pop());
+    await expect.poll(() => page.getByTestId('invoice-total').innerText()).toBe('156.00 EUR');
+    await page.screenshot({ path: shot('billing-draft-desktop.png') });
+    await phoneShot(page, 'billing-draft-phone.png');
+    await page.getByRole('link', { name: 'Edit' }).click();
+    await page.waitForURL(/\/billing\/invoices\/\d+\/edit$/);
+    await page.getByRole('heading', { name: 'Edit draft invoice' }).waitFor();
+    await expect.poll(() => page.getByLabel('Qty').inputValue()).toBe('2');
+    await page.getByLabel('Qty').fill('1');
+    await expect.poll(() => page.getByTestId('preview-total').innerText()).toBe('78.00 EUR');
+    await page.screenshot({ path: shot('billing-edit-draft-desktop.png'), fullPage: true });
+    await phoneShot(page, 'billing-edit-draft-phone.png');
+    await page.getByRole('button', { name: 'Save changes' }).click();
+    await page.waitForURL(new RegExp(`/billing/invoices/${invoiceId}$`));
     await expect.poll(() => page.getByTestId('invoice-total').innerText()).toBe('78.00 EUR');
+    expect(await invoice()).toMatchObject({ status: 'draft', total_minor: 7800 });
 
     await page.getByRole('button', { name: 'Issue' }).click();
     await page.getByRole('dialog').getByRole('button', { name: 'Issue' }).click();
@@ -167,5 +193,37 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await a.page.getByText('This payment was refunded').waitFor();
     expect([...problems, ...a.problems]).toEqual([]);
     await a.context.close();
+  });
+
+  it('the owner deletes a stray draft made from the athlete profile; the currency cannot change once invoices exist', async () => {
+    const { page, problems, context } = await h.newPage();
+    await signIn(page, owner.email, owner.password);
+    const ada = await h.server.db('athletes').where({ email: athlete.email }).first();
+    await page.goto(`${h.baseUrl}/athletes/${ada.id}`);
+    await page.getByRole('link', { name: 'New invoice' }).waitFor();
+    await page.screenshot({ path: shot('billing-athlete-link-desktop.png') });
+    await phoneShot(page, 'billing-athlete-link-phone.png');
+    await page.getByRole('link', { name: 'New invoice' }).click();
+    await page.waitForURL(new RegExp(`/billing/invoices/new\\?athlete=${ada.id}$`));
+    await choose(page, 'From the price list', /^Gait assessment/);
+    await expect.poll(() => page.getByTestId('preview-total').innerText()).toBe('144.00 EUR');
+    await page.getByRole('button', { name: 'Save draft' }).click();
+    await page.waitForURL(/\/billing\/invoices\/\d+$/);
+    const strayId = Number(page.url().split('/').pop());
+    await page.getByRole('button', { name: 'Delete draft' }).click();
+    await page.getByRole('dialog').getByRole('button', { name: 'Delete draft' }).click();
+    await page.waitForURL(/\/billing\/invoices$/);
+    expect(await h.server.db('invoices').where({ id: strayId }).first()).toBeUndefined();
+
+    await page.goto(`${h.baseUrl}/billing/prices`);
+    await choose(page, 'Currency', 'GBP');
+    await page.getByRole('button', { name: 'Save', exact: true }).click();
+    await page.getByText('Invoices already exist in the current currency').waitFor();
+    expect((await h.server.db('clinics').where({ id: ada.clinic_id }).first()).currency).toBe('EUR');
+    await page.screenshot({ path: shot('billing-currency-refused-desktop.png') });
+    await phoneShot(page, 'billing-currency-refused-phone.png');
+    // The refusal is shown, not also snackbarred: expected 409 is no "problem" of the page.
+    expect(problems.filter((p) => !p.includes('409'))).toEqual([]);
+    await context.close();
   });
 });

@@ -38,7 +38,7 @@ describe('CurrencySetting', () => {
     setting.control.markAsDirty();
     await settle();
     expect(saveButton().disabled).toBe(false);
-    void setting.save();
+    saveButton().click(); // submits the form (ngSubmit), not a page load
     const req = backend.expectOne('/api/billing/settings');
     expect(req.request.method).toBe('PUT');
     expect(req.request.body).toEqual({ currency: 'GBP' });

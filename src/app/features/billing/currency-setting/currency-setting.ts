@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input, output, signal } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
-import { FormControl, ReactiveFormsModule } from '@angular/forms';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
@@ -20,10 +20,10 @@ import { BillingApi } from '../billing-api';
   imports: [ReactiveFormsModule, MatFormFieldModule, MatSelectModule, MatButtonModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
   template: `
-    <form class="currency" (ngSubmit)="save()" novalidate>
+    <form class="currency" [formGroup]="form" (ngSubmit)="save()" novalidate>
       <mat-form-field subscriptSizing="dynamic" class="field">
         <mat-label>Currency</mat-label>
-        <mat-select [formControl]="control">
+        <mat-select formControlName="currency">
           @for (c of currencies; track c) {
             <mat-option [value]="c">{{ c }}</mat-option>
           }
@@ -50,6 +50,7 @@ export class CurrencySetting {
 
   protected readonly currencies = CURRENCIES;
   protected readonly control = new FormControl<Currency>('EUR', { nonNullable: true });
+  protected readonly form = new FormGroup({ currency: this.control });
   private readonly picked = toSignal(this.control.valueChanges, { initialValue: this.control.value });
   /** Whether the pick differs from the saved currency. */
   protected readonly changed = computed(() => this.picked() !== this.currency());
