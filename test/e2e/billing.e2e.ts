@@ -220,6 +220,7 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await page.getByRole('button', { name: 'Save', exact: true }).click();
     await page.getByText('Invoices already exist in the current currency').waitFor();
     expect((await h.server.db('clinics').where({ id: ada.clinic_id }).first()).currency).toBe('EUR');
+    await page.waitForTimeout(300); // the field's error colour fades in
     await page.screenshot({ path: shot('billing-currency-refused-desktop.png') });
     await phoneShot(page, 'billing-currency-refused-phone.png');
     // The refusal is shown, not also snackbarred: expected 409 is no "problem" of the page.

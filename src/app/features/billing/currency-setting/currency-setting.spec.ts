@@ -57,8 +57,12 @@ describe('CurrencySetting', () => {
       { status: 409, statusText: 'Conflict' },
     );
     await settle();
-    expect(fixture.nativeElement.querySelector('mat-error')?.textContent).toContain('Invoices already exist in the current currency');
+    expect(fixture.nativeElement.querySelector('[role="alert"]')?.textContent).toContain('Invoices already exist in the current currency');
     expect(setting.control.value).toBe('USD');
     expect(saved).toEqual([]);
+    // A new choice clears the refusal.
+    setting.control.setValue('CHF');
+    await settle();
+    expect(fixture.nativeElement.querySelector('[role="alert"]')).toBeNull();
   });
 });

@@ -1,5 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input, output, signal } from '@angular/core';
-import { toSignal } from '@angular/core/rxjs-interop';
+import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -7,8 +7,9 @@ import { MatSelectModule } from '@angular/material/select';
 import { firstValueFrom } from 'rxjs';
 import { CURRENCIES, type Currency } from '../../../../contracts/billing';
 import { errorMessage } from '../../../core/api-error';
-import { errorText } from '../../../shared/forms/error-text';
 import { BillingApi } from '../billing-api';
+
+let nextId = 0;
 
 /**
  * The clinic's currency with a Save button (owner, Prices page header). The server refuses a
@@ -20,24 +21,27 @@ import { BillingApi } from '../billing-api';
   imports: [ReactiveFormsModule, MatFormFieldModule, MatSelectModule, MatButtonModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
   template: `
-    <form class="currency" [formGroup]="form" (ngSubmit)="save()" novalidate>
-      <mat-form-field subscriptSizing="dynamic" class="field">
-        <mat-label>Currency</mat-label>
-        <mat-select formControlName="currency">
-          @for (c of currencies; track c) {
-            <mat-option [value]="c">{{ c }}</mat-option>
-          }
-        </mat-select>
-        <mat-error>{{ errorText(control, 'Currency') }}</mat-error>
-      </mat-form-field>
-      <button mat-stroked-button type="submit" [disabled]="!changed() || saving()">Save</button>
+    <form [formGroup]="form" (ngSubmit)="save()" novalidate>
+      <div class="row">
+        <mat-form-field subscriptSizing="dynamic" class="field">
+          <mat-label>Currency</mat-label>
+          <mat-select formControlName="currency" [attr.aria-describedby]="refusal() ? refusalId : null">
+            @for (c of currencies; track c) {
+              <mat-option [value]="c">{{ c }}</mat-option>
+            }
+          </mat-select>
+        </mat-form-field>
+        <button mat-stroked-button type="submit" [disabled]="!changed() || saving()">Save</button>
+      </div>
+      @if (refusal(); as message) {
+        <p class="refusal" role="alert" [id]="refusalId">{{ message }}</p>
+      }
     </form>
   `,
   styles: `
-    .currency { display: flex; align-items: flex-start; gap: 8px; }
-    .field { inline-size: 150px; max-inline-size: 60vw; }
-    .field:has(mat-error) { inline-size: min(300px, 70vw); }
-    button { margin-block-start: 8px; }
+    .row { display: flex; align-items: center; gap: 8px; }
+    .field { inline-size: 140px; }
+    .refusal { margin: 4px 0 0; max-inline-size: 30em; color: var(--mat-sys-error); font: var(--mat-sys-body-small); }
   `,
 })
 export class CurrencySetting {
@@ -55,7 +59,9 @@ export class CurrencySetting {
   /** Whether the pick differs from the saved currency. */
   protected readonly changed = computed(() => this.picked() !== this.currency());
   protected readonly saving = signal(false);
-  protected readonly errorText = errorText;
+  /** The server's reason for refusing the last Save (e.g. invoices exist); cleared by a new choice. */
+  protected readonly refusal = signal<string | null>(null);
+  protected readonly refusalId = `currency-refusal-${nextId++}`;
 
   constructor() {
     // Follows the saved value until the owner starts choosing.
@@ -63,6 +69,7 @@ export class CurrencySetting {
       const current = this.currency();
       if (this.control.pristine) this.control.setValue(current);
     });
+    this.control.valueChanges.pipe(takeUntilDestroyed()).subscribe(() => this.refusal.set(null));
   }
 
   protected async save(): Promise<void> {
@@ -73,6 +80,8 @@ export class CurrencySetting {
       this.control.markAsPristine();
       this.saved.emit(s.currency);
     } catch (err) {
+      // The field turns red and the reason shows under it; the choice stays as picked.
+      this.refusal.set(errorMessage(err));
       this.control.setErrors({ server: errorMessage(err) });
       this.control.markAsTouched();
     } finally {
