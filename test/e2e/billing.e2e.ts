@@ -14,7 +14,7 @@ import { PDFParse } from 'pdf-parse';
 import { SCREENSHOTS, startHarness, type Harness } from './harness';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 
-const [owner, , , athlete] = DEMO_SIGN_INS;
+const [owner, coach, , athlete] = DEMO_SIGN_INS;
 const PHONE = { width: 390, height: 844 };
 const shot = (name: string) => path.join(SCREENSHOTS, name);
 
@@ -226,5 +226,18 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     // The refusal is shown, not also snackbarred: expected 409 is no "problem" of the page.
     expect(problems.filter((p) => !p.includes('409'))).toEqual([]);
     await context.close();
+
+    // Coaches do not bill: no billing links on the same pages.
+    const c = await h.newPage();
+    await signIn(c.page, coach.email, coach.password);
+    await c.page.goto(`${h.baseUrl}/athletes/${ada.id}`);
+    await c.page.getByRole('button', { name: 'Edit details' }).waitFor();
+    expect(await c.page.getByRole('link', { name: 'New invoice' }).count()).toBe(0);
+    const visit = await h.server.db('assessments').where({ athlete_id: ada.id }).first('id');
+    await c.page.goto(`${h.baseUrl}/athletes/${ada.id}/assessments/${visit.id}`);
+    await c.page.getByRole('button', { name: 'Delete' }).waitFor();
+    expect(await c.page.getByRole('link', { name: 'Invoice this visit' }).count()).toBe(0);
+    expect(c.problems).toEqual([]);
+    await c.context.close();
   });
 });
