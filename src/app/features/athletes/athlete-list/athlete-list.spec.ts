@@ -1,7 +1,9 @@
+import { BreakpointObserver } from '@angular/cdk/layout';
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
+import { of } from 'rxjs';
 import type { AthleteSummary } from '../../../../contracts/api';
 import type { AthletePlanAlerts } from '../../../../contracts/plans';
 import { AthleteList } from './athlete-list';
@@ -112,5 +114,30 @@ describe('AthleteList', () => {
     expect(chips[0]!.textContent).toContain('Pain rising');
     expect(chips[0]!.getAttribute('href')).toBe('/plans/9');
     expect(chips[0]!.closest('tr')?.textContent).toContain('Cleo Bright');
+  });
+});
+
+describe('AthleteList on a phone', () => {
+  it('keeps the name and the highest pain, and leaves the other columns to the profile', async () => {
+    TestBed.configureTestingModule({
+      imports: [AthleteList],
+      providers: [
+        provideRouter([]),
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: BreakpointObserver, useValue: { observe: () => of({ matches: true, breakpoints: {} }) } },
+      ],
+    });
+    const backend = TestBed.inject(HttpTestingController);
+    const fixture = TestBed.createComponent(AthleteList);
+    fixture.detectChanges();
+    backend.expectOne('/api/athletes').flush({ athletes: [athlete(1, 'Ada', 'Kestrel', { maxPain: 4 })] });
+    for (const r of backend.match('/api/plan-alerts')) r.flush({ alerts: [] });
+    await fixture.whenStable();
+    const element: HTMLElement = fixture.nativeElement;
+    const headers = [...element.querySelectorAll('th')].map((th) => th.textContent?.trim());
+    expect(headers).toEqual(['Name', 'Highest pain']);
+    expect(element.querySelector('tr.mat-mdc-row')?.textContent).toContain('4/10');
+    backend.verify();
   });
 });

@@ -1,6 +1,7 @@
+import { BreakpointObserver } from '@angular/cdk/layout';
 import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
-import { rxResource } from '@angular/core/rxjs-interop';
+import { rxResource, toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -10,6 +11,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSortModule, Sort } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
+import { map } from 'rxjs';
 import { errorMessage } from '../../../core/api-error';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
@@ -24,6 +26,10 @@ import {
   rosterMatches,
   sortRoster,
 } from '../roster';
+
+const PHONE = '(max-width: 599.98px)';
+const ALL_COLUMNS = ['name', 'goal', 'coach', 'account', 'consent', 'pain', 'updated'];
+const PHONE_COLUMNS = ['name', 'pain'];
 
 /** `/athletes`: the clinic's roster with filter, sort and pages. */
 @Component({
@@ -51,7 +57,14 @@ export class AthleteList {
   private readonly api = inject(AthletesApi);
 
   protected readonly athletes = rxResource({ stream: () => this.api.list() });
-  protected readonly columns = ['name', 'goal', 'coach', 'account', 'consent', 'pain', 'updated'];
+  /** On a phone the roster keeps who and how much it hurts; the rest is on the profile. */
+  protected readonly isPhone = toSignal(
+    inject(BreakpointObserver)
+      .observe(PHONE)
+      .pipe(map((state) => state.matches)),
+    { initialValue: false },
+  );
+  protected readonly columns = computed(() => (this.isPhone() ? PHONE_COLUMNS : ALL_COLUMNS));
   /** Pain alerts of running plans, by athlete (a failed load just shows no chips). */
   private readonly plansApi = inject(PlansApi);
   private readonly planAlerts = rxResource({ stream: () => this.plansApi.alerts() });
