@@ -21,7 +21,7 @@ import { StillsApi } from '../stills-api';
 /**
  * The athlete's portal home, shared part (phone first): the latest published stills as a strip
  * of cards (tap to enlarge, swipe between them), the published visit summaries (view, download),
- * the next assessment and a link to the plan, with the caution line.
+ * and the next assessment, with the caution line (the plan has its own card on the portal home).
  */
 @Component({
   selector: 'app-portal-shared',
