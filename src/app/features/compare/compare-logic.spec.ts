@@ -1,6 +1,6 @@
 import type { Assessment } from '../../../contracts/api';
 import type { ComparisonRow, MeasureTrends } from '../../../contracts/measures';
-import { alignAtHip, citationText, defaultPair, eventFrames, formatValue, frameOfStep, lastCommonStep, stepKey, trendSeries, VERDICT_TEXT } from './compare-logic';
+import { CAUTION_LINE, alignAtHip, citationText, defaultPair, eventFrames, formatValue, frameOfStep, lastCommonStep, stepKey, trendSeries, VERDICT_TEXT } from './compare-logic';
 
 const visit = (id: number, date: string, kind: 'baseline' | 'retest') => ({ id, date, kind }) as Assessment;
 
@@ -47,6 +47,12 @@ describe('compare logic', () => {
     expect(formatValue(-0.02, '°', true)).toBe('0.0°');
     expect(formatValue(-0.001, 's', true)).toBe('0.00 s');
     expect(VERDICT_TEXT.no_threshold).toBe('No published threshold');
+  });
+
+  it('carries the whole caution: clinician\'s judgement, pain, local regulations', () => {
+    expect(CAUTION_LINE).toContain("support, and do not replace, a licensed clinician's judgement");
+    expect(CAUTION_LINE).toContain('sharp or worsening pain');
+    expect(CAUTION_LINE).toContain('follow local regulations');
   });
 
   it('cites the threshold, or says there is none', () => {

@@ -2,6 +2,7 @@ import type { FrameLandmarks, FramePoint, GaitEventKind, GaitEventMark, Landmark
 import type { Assessment } from '../../../contracts/api';
 import type { Side } from '../../../contracts/assessment';
 import type { ComparisonRow, ComparisonVerdict, MeasureKey, MeasureTrends } from '../../../contracts/measures';
+import { MEASURES_CAUTION } from '../../shared/caution';
 
 /** Words of each verdict, as the table shows them. */
 export const VERDICT_TEXT: Record<ComparisonVerdict, string> = {
@@ -11,7 +12,8 @@ export const VERDICT_TEXT: Record<ComparisonVerdict, string> = {
   not_measured: 'Not measured',
 };
 
-export const CAUTION_LINE = "These figures support, and do not replace, a licensed clinician's judgement.";
+/** The caution line of the Re-test comparison and the Shared tab. */
+export const CAUTION_LINE = MEASURES_CAUTION;
 
 /** The default pair: latest Re-test against latest Baseline (assessments in any order). */
 export function defaultPair(assessments: Assessment[]): { baseline: number | null; retest: number | null } {

@@ -5,6 +5,7 @@ import { BaseChartDirective } from 'ng2-charts';
 import { SIDES } from '../../../../contracts/assessment';
 import { ANGLE_SERIES, AngleSeriesId, MarkerState, angleDatasets, eventMarkersPlugin, frameFromChartValue } from '../chart-data';
 import { ReviewStore } from '../review-store';
+import { MEASURES_CAUTION } from '../../../shared/caution';
 
 // Only the chart.js parts this line chart uses.
 Chart.register(LineController, LineElement, PointElement, LinearScale, Tooltip, Legend);
@@ -25,6 +26,8 @@ export class AngleChart {
   private readonly chartDir = viewChild(BaseChartDirective);
 
   protected readonly seriesDefs = ANGLE_SERIES;
+  /** The chart shows figures, so it carries the caution (quietly; the Measures tab shows it boxed). */
+  protected readonly caution = MEASURES_CAUTION;
   protected readonly series = signal<AngleSeriesId[]>(['thigh', 'knee']);
 
   private readonly markers: MarkerState = {

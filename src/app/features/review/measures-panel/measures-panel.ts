@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
 import type { Measure } from '../../../../contracts/measures';
+import { MEASURES_CAUTION } from '../../../shared/caution';
 import {
   EVIDENCE_LABELS,
   FOOT_STRIKE_LABELS,
@@ -42,6 +43,7 @@ interface MeasureRow {
 export class MeasuresPanel {
   protected readonly store = inject(ReviewStore);
   protected readonly footStrikeSource = FOOT_STRIKE_SOURCE;
+  protected readonly caution = MEASURES_CAUTION;
 
   protected readonly result = computed(() => this.store.measures());
   protected readonly groups = computed(() => {
