@@ -1,5 +1,5 @@
-import { DatePipe, LowerCasePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, ElementRef, computed, effect, inject, input, linkedSignal, signal, viewChild } from '@angular/core';
+import { DatePipe, LowerCasePipe, formatDate } from '@angular/common';
+import { ChangeDetectionStrategy, Component, ElementRef, LOCALE_ID, computed, effect, inject, input, linkedSignal, signal, viewChild } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -14,7 +14,7 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
 import { CategoryScale, Chart, ChartConfiguration, Legend, LineController, LineElement, LinearScale, PointElement, Tooltip } from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
-import { forkJoin, from, map, switchMap } from 'rxjs';
+import { catchError, forkJoin, from, map, of, switchMap } from 'rxjs';
 import { GAIT_EVENT_KINDS, GAIT_EVENT_LABELS, type ClipAnnotations, type FrameLandmarks, type GaitEventKind } from '../../../../contracts/annotations';
 import type { Assessment } from '../../../../contracts/api';
 import { ASSESSMENT_KIND_LABELS, SIDES, type Side } from '../../../../contracts/assessment';
@@ -23,6 +23,8 @@ import { errorMessage } from '../../../core/api-error';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentsApi } from '../../assessments/assessments-api';
+import { AthletesApi } from '../../athletes/athletes-api';
+import { fullName } from '../../athletes/roster';
 import { ClipManifest, ReviewApi } from '../../review/review-api';
 import { OVERLAY_COLOURS, OVERLAY_SEGMENTS, drawOverlay } from '../../review/kinematics-adapter';
 import { openSaveStill } from '../../stills/save-still-dialog/save-still-dialog';
@@ -62,10 +64,12 @@ const TREND_COLOURS = ['#1f5f4a', '#E08A1E', '#7B4FD6', '#3E4C59', '#b23a48', '#
 export class ComparePage {
   private readonly api = inject(CompareApi);
   private readonly assessmentsApi = inject(AssessmentsApi);
+  private readonly athletesApi = inject(AthletesApi);
   private readonly reviewApi = inject(ReviewApi);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
   private readonly router = inject(Router);
+  private readonly locale = inject(LOCALE_ID);
 
   readonly athleteId = input.required<string>();
   protected readonly id = computed(() => Number(this.athleteId()));
@@ -80,6 +84,16 @@ export class ComparePage {
   protected readonly formatValue = formatValue;
   protected readonly errorMessage = errorMessage;
   protected readonly caution = CAUTION_LINE;
+
+  /** The athlete's name for the breadcrumb; the page works without it. */
+  private readonly athlete = rxResource({
+    params: () => this.id(),
+    stream: ({ params }) => this.athletesApi.get(params).pipe(catchError(() => of(null))),
+  });
+  protected readonly athleteName = computed(() => {
+    const a = this.athlete.hasValue() ? this.athlete.value() : null;
+    return a ? fullName(a) : 'Athlete';
+  });
 
   protected readonly assessments = rxResource({
     params: () => this.id(),
@@ -153,7 +167,7 @@ export class ComparePage {
     if (!t) return { labels: [], datasets: [] };
     const labelOf = new Map(this.measureChoices().map((c) => [c.key, c.label]));
     return {
-      labels: t.points.map((p) => `${p.date} · ${ASSESSMENT_KIND_LABELS[p.kind]}`),
+      labels: t.points.map((p) => this.visitLabel(p.date, p.kind)),
       datasets: trendSeries(t, this.trendKeys()).map((s, i) => ({
         label: `${labelOf.get(s.key) ?? s.key}${s.side ? ` (${sideText(s.side).toLowerCase()})` : ''}`,
         data: s.values,
@@ -272,7 +286,12 @@ export class ComparePage {
   }
 
   protected assessmentLabel(a: Assessment): string {
-    return `${a.date} · ${ASSESSMENT_KIND_LABELS[a.kind]}`;
+    return this.visitLabel(a.date, a.kind);
+  }
+
+  /** "Baseline · Oct 6, 2026", dated as on the rest of the athlete's pages. */
+  private visitLabel(date: string, kind: Assessment['kind']): string {
+    return `${ASSESSMENT_KIND_LABELS[kind]} · ${formatDate(date, 'mediumDate', this.locale)}`;
   }
 
   protected rowLabel(r: ComparisonRow): string {
