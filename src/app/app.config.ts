@@ -3,8 +3,11 @@ import {
   withInterceptors,
   withXsrfConfiguration,
 } from '@angular/common/http';
+import { registerLocaleData } from '@angular/common';
+import localeEnGb from '@angular/common/locales/en-GB';
 import {
   ApplicationConfig,
+  LOCALE_ID,
   inject,
   provideAppInitializer,
   provideBrowserGlobalErrorListeners,
@@ -20,8 +23,12 @@ import { ConfigStore } from './core/config-store';
 import { errorInterceptor } from './core/error-interceptor';
 import { provideIsoDateAdapter } from './shared/iso-date-adapter';
 
+// Dates read day first ("6 Oct 2026"), as in the stills and visit summaries the server renders.
+registerLocaleData(localeEnGb);
+
 export const appConfig: ApplicationConfig = {
   providers: [
+    { provide: LOCALE_ID, useValue: 'en-GB' },
     provideBrowserGlobalErrorListeners(),
     provideZonelessChangeDetection(),
     provideRouter(routes, withComponentInputBinding()),

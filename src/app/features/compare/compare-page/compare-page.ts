@@ -289,9 +289,9 @@ export class ComparePage {
     return this.visitLabel(a.date, a.kind);
   }
 
-  /** "Baseline · Oct 6, 2026", dated as on the rest of the athlete's pages. */
+  /** "Baseline · 6 Oct 2026", dated as in the stills and visit summaries. */
   private visitLabel(date: string, kind: Assessment['kind']): string {
-    return `${ASSESSMENT_KIND_LABELS[kind]} · ${formatDate(date, 'mediumDate', this.locale)}`;
+    return `${ASSESSMENT_KIND_LABELS[kind]} · ${formatDate(date, 'd MMM y', this.locale)}`;
   }
 
   protected rowLabel(r: ComparisonRow): string {

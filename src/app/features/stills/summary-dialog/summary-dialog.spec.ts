@@ -68,8 +68,8 @@ describe('SummaryDialog', () => {
 
   it('summarises the newest Re-test against the Baseline with the chosen stills', async () => {
     await open({ athleteId: 9, stills });
-    expect(element.textContent).toContain('Re-test · 2026-11-24');
-    expect(element.textContent).toContain('Baseline · 2026-10-06');
+    expect(element.textContent).toContain('Re-test · 24 Nov 2026');
+    expect(element.textContent).toContain('Baseline · 6 Oct 2026');
     // Stills of these two visits only.
     expect(element.textContent).toContain('Re-test frame');
     expect(element.textContent).toContain('The pair');

@@ -1,4 +1,5 @@
-import { ChangeDetectionStrategy, Component, computed, inject, linkedSignal, signal } from '@angular/core';
+import { formatDate } from '@angular/common';
+import { ChangeDetectionStrategy, Component, LOCALE_ID, computed, inject, linkedSignal, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
@@ -44,6 +45,7 @@ export class SummaryDialog {
   private readonly api = inject(StillsApi);
   private readonly assessmentsApi = inject(AssessmentsApi);
   private readonly dialogRef = inject<MatDialogRef<SummaryDialog, VisitSummary>>(MatDialogRef);
+  private readonly locale = inject(LOCALE_ID);
   protected readonly data = inject<SummaryDialogData>(MAT_DIALOG_DATA);
 
   protected readonly textMax = SUMMARY_TEXT_MAX;
@@ -79,8 +81,9 @@ export class SummaryDialog {
   protected readonly busy = signal(false);
   protected readonly blocked = computed(() => this.busy() || this.assessmentId() === null || this.findingsCount().over || this.planCount().over);
 
+  /** "Re-test · 24 Nov 2026", as the stills below and the PDF name the visits. */
   protected assessmentLabel(a: Assessment): string {
-    return `${ASSESSMENT_KIND_LABELS[a.kind]} · ${a.date}`;
+    return `${ASSESSMENT_KIND_LABELS[a.kind]} · ${formatDate(a.date, 'd MMM y', this.locale)}`;
   }
 
   protected toggleStill(id: number, on: boolean): void {
