@@ -20,6 +20,13 @@ export function decimalsFor(unit: string): number {
   }
 }
 
+/** A fixed-decimals number with a true minus sign ("−3.0"); one that rounds to zero has none. */
+function fixed(value: number, decimals: number): string {
+  const text = value.toFixed(decimals);
+  if (Number(text) === 0) return Math.abs(value).toFixed(decimals);
+  return text.replace('-', '\u2212');
+}
+
 function joinUnit(text: string, unit: string): string {
   if (!unit) return text;
   return unit === '°' || unit === '%' ? `${text}${unit}` : `${text} ${unit}`;
@@ -28,7 +35,7 @@ function joinUnit(text: string, unit: string): string {
 /** A number in a measure's unit, e.g. "12.3°", "171 steps/min", "0.350 s". */
 export function formatValue(value: number | null, unit: string): string {
   if (value === null || !Number.isFinite(value)) return '—';
-  return joinUnit(value.toFixed(decimalsFor(unit)), unit);
+  return joinUnit(fixed(value, decimalsFor(unit)), unit);
 }
 
 /** "mean ± SD unit" (SD left out for a single step). */
@@ -36,14 +43,14 @@ export function formatMeasure(m: Pick<Measure, 'mean' | 'sd' | 'unit' | 'n' | 's
   if (m.status !== 'ok' || m.mean === null) return 'Not enough data';
   const d = decimalsFor(m.unit);
   const sd = m.sd !== null && Number.isFinite(m.sd) && m.n > 1 ? ` ± ${m.sd.toFixed(d)}` : '';
-  return joinUnit(`${m.mean.toFixed(d)}${sd}`, m.unit);
+  return joinUnit(`${fixed(m.mean, d)}${sd}`, m.unit);
 }
 
 /** "10–25°", "≥ 10°", "≤ 8 cm". */
 export function bandRange(band: Pick<ReferenceBand, 'low' | 'high' | 'unit'>): string {
   const { low, high, unit } = band;
   const d = decimalsFor(unit);
-  const n = (v: number) => String(Number(v.toFixed(Math.max(d, 2))));
+  const n = (v: number) => String(Number(v.toFixed(Math.max(d, 2)))).replace('-', '\u2212');
   if (low !== null && high !== null) return joinUnit(`${n(low)}–${n(high)}`, unit);
   if (low !== null) return `≥ ${joinUnit(n(low), unit)}`;
   if (high !== null) return `≤ ${joinUnit(n(high), unit)}`;

@@ -53,6 +53,8 @@ describe('formatting', () => {
     expect(formatMeasure(measure({ mean: 0.35, sd: 0.01, unit: 's' }))).toBe('0.350 ± 0.010 s');
     expect(formatMeasure(measure({ mean: 12, sd: 0, n: 1, unit: '°' }))).toBe('12.0°');
     expect(formatMeasure(measure({ status: 'not_enough_data', mean: null }))).toBe('Not enough data');
+    expect(formatMeasure(measure({ mean: -3.04, sd: 0.5, unit: '°' }))).toBe('−3.0 ± 0.5°');
+    expect(formatValue(-0.01, '°')).toBe('0.0°');
     expect(formatValue(null, '°')).toBe('—');
   });
 
@@ -70,6 +72,7 @@ describe('formatting', () => {
     expect(bandRange({ low: 13.8, high: 21.8, unit: '°' })).toBe('13.8–21.8°');
     expect(bandRange({ low: 10, high: null, unit: '°' })).toBe('≥ 10°');
     expect(bandRange({ low: null, high: 8, unit: 'cm' })).toBe('≤ 8 cm');
+    expect(bandRange({ low: -0.8, high: 7.4, unit: '°' })).toBe('−0.8–7.4°');
   });
 
   it('flags positions with an icon and words', () => {
