@@ -27,6 +27,8 @@ describe('plan words', () => {
     expect(formatDose({ sets: 3, reps: 6, holdSeconds: null, tempo: '4 s out', load: 'Body weight', restSeconds: 90, daysPerWeek: 1 })).toBe(
       '3 × 6 · tempo 4 s out · Body weight · rest 1 min 30 s · 1 day a week',
     );
+    expect(formatDose({ sets: 3, reps: 10, holdSeconds: null, tempo: 'Steady', load: null, restSeconds: null, daysPerWeek: 3 })).toBe('3 × 10 · tempo steady · 3 days a week');
+    expect(formatDose({ sets: 3, reps: 10, holdSeconds: null, tempo: 'RPE 6', load: null, restSeconds: null, daysPerWeek: 3 })).toBe('3 × 10 · tempo RPE 6 · 3 days a week');
   });
 
   it('finds the running plan (active or paused) of a list', () => {

@@ -21,10 +21,15 @@ export function doseMain(d: Pick<Dose, 'sets' | 'reps' | 'holdSeconds'>): string
   return `${d.sets} × ${seconds(d.holdSeconds ?? 0)} hold`;
 }
 
+/** Free text placed after a word: "Steady" → "steady" (an acronym such as "RPE 6" stays). */
+function inSentence(text: string): string {
+  return /^[A-Z][a-z]/.test(text) ? text[0]!.toLowerCase() + text.slice(1) : text;
+}
+
 /** Every part of a dose in a list, for a line of chips or a sentence. */
 export function doseParts(d: Dose): string[] {
   const parts = [doseMain(d)];
-  if (d.tempo) parts.push(`tempo ${d.tempo}`);
+  if (d.tempo) parts.push(`tempo ${inSentence(d.tempo)}`);
   if (d.load) parts.push(d.load);
   if (d.restSeconds !== null) parts.push(`rest ${seconds(d.restSeconds)}`);
   parts.push(`${d.daysPerWeek} day${d.daysPerWeek === 1 ? '' : 's'} a week`);
