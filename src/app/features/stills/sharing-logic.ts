@@ -146,7 +146,7 @@ export function defaultBaseline<T extends { id: number; date: string; kind: stri
 
 /** The caution on the athlete's shared items (DESIGN.md, "Safety and privacy"). */
 export const SHARED_CAUTION =
-  'Your coach\u2019s notes and figures support, and do not replace, the judgement of your licensed clinician. Stop an exercise that causes sharp or worsening pain and contact your clinician.';
+  'Your coach\u2019s notes and figures support, and do not replace, the judgement of your licensed clinician. Stop an exercise that causes sharp or worsening pain and contact your clinician. Follow local regulations.';
 
 /**
  * The address to show a still's image at. The server's URL already carries the render version;
