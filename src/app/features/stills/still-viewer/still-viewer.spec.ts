@@ -28,7 +28,7 @@ describe('StillViewer', () => {
   it('shows the still, its caption as alt text and n of m', async () => {
     await open({ stills, index: 1 });
     expect(img().getAttribute('alt')).toBe('Second');
-    expect(img().getAttribute('src')).toMatch(/^\/api\/stills\/2\/image\.png\?v=/);
+    expect(img().getAttribute('src')).toMatch(/^\/api\/stills\/2\/image\.png\?s=/);
     expect(element.textContent).toContain('2 of 3');
   });
 
