@@ -29,13 +29,7 @@ afterAll(async () => {
   await h?.close();
 });
 
-async function signIn(page: Page, email: string, password: string): Promise<void> {
-  await page.goto(`${h.baseUrl}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(password);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(/\/(athletes|portal)/);
-}
+const signIn = (page: Page, email: string, password: string) => h.signIn(page, email, password);
 
 /** Opens a Material select by keyboard (its floating label covers the trigger) and picks an option. */
 async function choose(page: Page, label: string, option: string | RegExp): Promise<void> {

@@ -25,13 +25,7 @@ afterAll(async () => {
   await dir?.cleanup();
 });
 
-async function signIn(page: Page, email: string, password: string): Promise<void> {
-  await page.goto(`${h.baseUrl}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(password);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(/\/(athletes|portal)/);
-}
+const signIn = (page: Page, email: string, password: string) => h.signIn(page, email, password);
 
 async function uploadAndWaitReady(page: Page, name: string): Promise<void> {
   await page.locator('input[type=file][multiple]').setInputFiles(clipFile);

@@ -38,6 +38,8 @@ export interface Harness {
   server: RunningServer;
   browser: Browser;
   baseUrl: string;
+  /** Signs in through the sign-in page and waits for the role's home (roster or portal). */
+  signIn(page: Page, email: string, password: string): Promise<void>;
   /** A fresh browser context (own cookies) with a page that records console errors. */
   newPage(): Promise<{ context: BrowserContext; page: Page; problems: string[] }>;
   close(): Promise<void>;
@@ -73,6 +75,13 @@ export async function startHarness(): Promise<Harness> {
     server,
     browser,
     baseUrl: server.url,
+    async signIn(page, email, password) {
+      await page.goto(`${server.url}/sign-in`);
+      await page.getByLabel('E-mail').fill(email);
+      await page.getByLabel('Password', { exact: true }).fill(password);
+      await page.getByRole('button', { name: 'Sign in' }).click();
+      await page.waitForURL(/\/(athletes|portal)/);
+    },
     async newPage() {
       const context = await browser.newContext({ viewport: { width: 1280, height: 860 } });
       const page = await context.newPage();

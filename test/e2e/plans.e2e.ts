@@ -32,13 +32,7 @@ afterAll(async () => {
   await h?.close();
 });
 
-async function signIn(page: Page, email: string, password: string): Promise<void> {
-  await page.goto(`${h.baseUrl}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(password);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(/\/(athletes|portal)/);
-}
+const signIn = (page: Page, email: string, password: string) => h.signIn(page, email, password);
 
 async function pickExercise(page: Page, stage: number, name: string, search?: string): Promise<void> {
   await page.getByRole('group', { name: `Stage ${stage}` }).getByRole('button', { name: 'Add exercise from library' }).click();

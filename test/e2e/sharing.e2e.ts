@@ -15,8 +15,7 @@ import { SCREENSHOTS, startHarness, type Harness } from './harness';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { Client } from '../support/test-app';
 import { tempDir } from '../server/media/fixtures';
-import { generateRunnerClip } from '../../scripts/demo-clip/clip';
-import type { FrameLandmarks, GaitEventMark } from '../../src/contracts/annotations';
+import { uploadMarkedClip } from './marked-clip';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 const DESKTOP = { width: 1440, height: 900 };
@@ -30,34 +29,8 @@ let dir: { dir: string; cleanup: () => Promise<void> };
 let athleteId = 0;
 let retest = { assessmentId: 0, clipId: 0 };
 
-async function markedClip(api: Client, assessmentId: number, name: string, hipExtensionDeg: number): Promise<number> {
-  const file = path.join(dir.dir, name);
-  const truth = await generateRunnerClip({ fps: 60, width: 640, height: 360, seconds: 2, hipExtensionDeg, facing: 'right', beltSpeedMps: 3, outFile: file, preset: 'ultrafast' });
-  const up = await api.agent.post(`/api/assessments/${assessmentId}/clips`).set('X-XSRF-TOKEN', await api.xsrf()).attach('file', file);
-  const clipId = up.body.id as number;
-  for (let i = 0; ; i++) {
-    const clip = (await api.get(`/api/clips/${clipId}`)).body;
-    if (clip.status === 'ready') break;
-    if (clip.status === 'failed' || i > 300) throw new Error(`clip ${clip.status}: ${clip.error}`);
-    await new Promise((r) => setTimeout(r, 200));
-  }
-  const near = truth.nearSide;
-  const far: 'left' | 'right' = near === 'right' ? 'left' : 'right';
-  const landmarks: FrameLandmarks[] = truth.frames.flatMap((f) => [
-    { frame: f.index, side: near, points: f.landmarksNormalised.near },
-    { frame: f.index, side: far, points: f.landmarksNormalised.far },
-  ]);
-  const events: GaitEventMark[] = [
-    ...truth.events.near.initialContact.map((frame) => ({ frame, side: near, kind: 'initial_contact' as const })),
-    ...truth.events.near.toeOff.map((frame) => ({ frame, side: near, kind: 'toe_off' as const })),
-    ...truth.events.far.initialContact.map((frame) => ({ frame, side: far, kind: 'initial_contact' as const })),
-    ...truth.events.far.toeOff.map((frame) => ({ frame, side: far, kind: 'toe_off' as const })),
-  ];
-  await api.patch(`/api/clips/${clipId}`, { nearSide: near, direction: 'left_to_right' });
-  const res = await api.put(`/api/clips/${clipId}/annotations`, { baseRevision: 0, landmarks, events, scale: null });
-  if (res.status !== 200) throw new Error(`annotations: ${res.status} ${JSON.stringify(res.body).slice(0, 300)}`);
-  return clipId;
-}
+/** A marked synthetic runner clip on the assessment (see uploadMarkedClip). */
+const markedClip = (api: Client, assessmentId: number, name: string, hipExtensionDeg: number) => uploadMarkedClip(api, assessmentId, path.join(dir.dir, name), hipExtensionDeg);
 
 beforeAll(async () => {
   h = await startHarness();
@@ -76,13 +49,7 @@ afterAll(async () => {
   await dir?.cleanup();
 });
 
-async function signIn(page: Page, email: string, password: string): Promise<void> {
-  await page.goto(`${h.baseUrl}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(password);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(/\/(athletes|portal)/);
-}
+const signIn = (page: Page, email: string, password: string) => h.signIn(page, email, password);
 
 /** Whether the canvas has anything drawn beyond one flat colour. */
 const drawn = (page: Page, selector: string) =>
