@@ -15,12 +15,13 @@ import {
 } from '@angular/core';
 import { MAT_FORM_FIELD_DEFAULT_OPTIONS } from '@angular/material/form-field';
 import { MatIconRegistry } from '@angular/material/icon';
-import { provideRouter, withComponentInputBinding } from '@angular/router';
+import { provideRouter, withComponentInputBinding, withNavigationErrorHandler } from '@angular/router';
 
 import { routes } from './app.routes';
 import { AuthStore } from './core/auth-store';
 import { ConfigStore } from './core/config-store';
 import { errorInterceptor } from './core/error-interceptor';
+import { reloadOnStaleBuild } from './core/stale-build';
 import { provideIsoDateAdapter } from './shared/iso-date-adapter';
 
 // Dates read day first ("6 Oct 2026"), as in the stills and visit summaries the server renders.
@@ -31,7 +32,8 @@ export const appConfig: ApplicationConfig = {
     { provide: LOCALE_ID, useValue: 'en-GB' },
     provideBrowserGlobalErrorListeners(),
     provideZonelessChangeDetection(),
-    provideRouter(routes, withComponentInputBinding()),
+    // After an update, a page still pointing at the old build's chunks reloads from the server.
+    provideRouter(routes, withComponentInputBinding(), withNavigationErrorHandler((e) => reloadOnStaleBuild(e))),
     provideHttpClient(
       withInterceptors([errorInterceptor]),
       withXsrfConfiguration({ cookieName: 'XSRF-TOKEN', headerName: 'X-XSRF-TOKEN' }),

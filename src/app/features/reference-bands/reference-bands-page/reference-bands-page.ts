@@ -8,6 +8,7 @@ import { MatSelectModule } from '@angular/material/select';
 import type { MeasureKey, ReferenceBand } from '../../../../contracts/measures';
 import { errorMessage } from '../../../core/api-error';
 import { ErrorState } from '../../../shared/states/error-state';
+import { MEASURES_CAUTION } from '../../../shared/caution';
 import { DEFAULT_REFERENCE_BANDS } from '../../review/kinematics-adapter';
 import { BandEditor } from '../band-editor/band-editor';
 import { MEASURE_KEYS, MEASURE_LABELS, blankBand, hasDefault, isDefaultBand, sortBands } from '../band-form-model';
@@ -33,6 +34,7 @@ export class ReferenceBandsPage {
   protected readonly defaults = DEFAULT_REFERENCE_BANDS;
   protected readonly labels = MEASURE_LABELS;
   protected readonly errorMessage = errorMessage;
+  protected readonly caution = MEASURES_CAUTION;
 
   protected readonly sorted = computed(() => (this.bands.hasValue() ? sortBands(this.bands.value()) : []));
   /** Measures without a band, for "Add a band". */

@@ -4,7 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialog, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import type { Still } from '../../../../contracts/sharing';
-import { panelText, positionText, stepIndex, stillAlt, stillSrc, swipeStep } from '../sharing-logic';
+import { SHARED_CAUTION, panelText, positionText, stepIndex, stillAlt, stillSrc, swipeStep } from '../sharing-logic';
 
 export interface StillViewerData {
   stills: Still[];
@@ -36,6 +36,8 @@ export class StillViewer {
   protected readonly atEnd = computed(() => this.index() >= this.data.stills.length - 1);
   protected readonly stillAlt = stillAlt;
   protected readonly stillSrc = stillSrc;
+  /** Angles are on the image: the caution goes with them, even full screen. */
+  protected readonly caution = SHARED_CAUTION;
   protected readonly panelText = panelText;
   private drag: { id: number; x: number; y: number } | null = null;
 
