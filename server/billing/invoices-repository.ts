@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import type { AssessmentKind } from '../../src/contracts/assessment';
 import type { CheckoutState, InvoiceDetail, InvoiceLine, InvoiceQuery, InvoiceStatus, InvoiceSummary } from '../../src/contracts/billing';
 
 /** An `invoices` row joined with the athlete's name. */
@@ -31,6 +32,9 @@ export interface InvoiceRow {
   last_name: string;
   athlete_email: string | null;
   athlete_user_id: number | null;
+  /** From the join with the billed assessment (null without one). */
+  assessment_kind: AssessmentKind | null;
+  assessment_date: string | null;
 }
 
 export interface InvoiceLineRow {
@@ -83,6 +87,7 @@ export const toLine = (l: InvoiceLineRow): InvoiceLine => ({
 export const toDetail = (r: InvoiceRow, lines: InvoiceLineRow[], clinicName: string): InvoiceDetail => ({
   ...toSummary(r),
   assessmentId: r.assessment_id,
+  assessment: r.assessment_id !== null && r.assessment_kind && r.assessment_date ? { id: r.assessment_id, kind: r.assessment_kind, date: r.assessment_date } : null,
   note: r.note,
   clinicName,
   subtotalMinor: r.subtotal_minor,
@@ -93,11 +98,15 @@ export const toDetail = (r: InvoiceRow, lines: InvoiceLineRow[], clinicName: str
   checkoutState: r.checkout_state,
 });
 
+/** Columns of an {@link InvoiceRow}: the invoice, its athlete's name and contact, the billed assessment. */
+const COLUMNS = ['i.*', 'a.first_name', 'a.last_name', 'a.email as athlete_email', 'a.user_id as athlete_user_id', 's.kind as assessment_kind', 's.date as assessment_date'];
+
+function joined(db: Knex) {
+  return db('invoices as i').join('athletes as a', 'a.id', 'i.athlete_id').leftJoin('assessments as s', 's.id', 'i.assessment_id');
+}
+
 function base(db: Knex, scope: InvoiceScope) {
-  const q = db('invoices as i')
-    .join('athletes as a', 'a.id', 'i.athlete_id')
-    .where('i.clinic_id', scope.clinicId)
-    .select('i.*', 'a.first_name', 'a.last_name', 'a.email as athlete_email', 'a.user_id as athlete_user_id');
+  const q = joined(db).where('i.clinic_id', scope.clinicId).select(COLUMNS);
   if (scope.athleteUserId !== undefined) q.andWhere('a.user_id', scope.athleteUserId).andWhereNot('i.status', 'draft');
   return q;
 }
@@ -117,8 +126,7 @@ export const invoicesRepository = {
   },
   /** Unscoped, for webhook events (the provider's signature is the authority there). */
   findById(db: Knex, id: number): Promise<InvoiceRow | undefined> {
-    return db('invoices as i').join('athletes as a', 'a.id', 'i.athlete_id').where('i.id', id)
-      .first('i.*', 'a.first_name', 'a.last_name', 'a.email as athlete_email', 'a.user_id as athlete_user_id');
+    return joined(db).where('i.id', id).first(COLUMNS);
   },
   findByPaymentIntent(db: Knex, paymentIntentId: string): Promise<{ id: number } | undefined> {
     return db('invoices').where({ payment_intent_id: paymentIntentId }).first('id');
@@ -126,7 +134,7 @@ export const invoicesRepository = {
   lines(db: Knex, invoiceId: number): Promise<InvoiceLineRow[]> {
     return db<InvoiceLineRow>('invoice_lines').where({ invoice_id: invoiceId }).orderBy('position');
   },
-  async insert(trx: Knex, row: Omit<InvoiceRow, 'id' | 'first_name' | 'last_name' | 'athlete_email' | 'athlete_user_id'>, lines: Omit<InvoiceLineRow, 'id' | 'invoice_id'>[]): Promise<number> {
+  async insert(trx: Knex, row: Omit<InvoiceRow, 'id' | 'first_name' | 'last_name' | 'athlete_email' | 'athlete_user_id' | 'assessment_kind' | 'assessment_date'>, lines: Omit<InvoiceLineRow, 'id' | 'invoice_id'>[]): Promise<number> {
     const [r] = await trx('invoices').insert(row).returning('id');
     const id = (r as { id: number }).id;
     await trx('invoice_lines').insert(lines.map((l) => ({ ...l, invoice_id: id })));

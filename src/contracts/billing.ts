@@ -3,6 +3,7 @@
  * integer number of minor units (cents) of the clinic's currency; totals are computed on the server
  * with {@link lineAmounts} / {@link invoiceTotals} (the client uses the same functions to preview).
  */
+import type { AssessmentKind } from './assessment';
 
 /** Lifecycle: draft → open (issued) → paid (webhook only) → refunded; draft/open → void. */
 export type InvoiceStatus = 'draft' | 'open' | 'paid' | 'void' | 'refunded';
@@ -86,8 +87,18 @@ export interface InvoiceSummary {
   createdAt: string;
 }
 
+/** The visit an invoice bills for, as the invoice page names it. */
+export interface InvoiceAssessment {
+  id: number;
+  kind: AssessmentKind;
+  /** ISO date (yyyy-mm-dd). */
+  date: string;
+}
+
 export interface InvoiceDetail extends InvoiceSummary {
   assessmentId: number | null;
+  /** The assessment it bills for (kind and date), or null for a hand-made invoice. */
+  assessment: InvoiceAssessment | null;
   note: string | null;
   clinicName: string;
   subtotalMinor: number;

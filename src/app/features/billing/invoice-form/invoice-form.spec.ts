@@ -104,7 +104,7 @@ describe('InvoiceForm reached by address', () => {
 
   const DRAFT: InvoiceDetail = {
     id: 31, number: null, status: 'draft', athleteId: 4, athleteName: 'Ada Kestrel', currency: 'EUR', totalMinor: 15600, dueDate: '2026-12-31',
-    issuedAt: null, paidAt: null, createdAt: '2026-12-01T10:00:00Z', assessmentId: 11, note: 'Two visits', clinicName: 'Test clinic',
+    issuedAt: null, paidAt: null, createdAt: '2026-12-01T10:00:00Z', assessmentId: 11, assessment: { id: 11, kind: 'retest', date: '2026-11-24' }, note: 'Two visits', clinicName: 'Test clinic',
     subtotalMinor: 13000, taxMinor: 2600, voidedAt: null, refundedAt: null, checkoutState: 'none',
     lines: [{ id: 7, priceId: 2, description: 'Re-test', quantity: 2, unitAmountMinor: 6500, taxRateBp: 2000, netMinor: 13000, taxMinor: 2600, totalMinor: 15600 }],
   };
