@@ -13,6 +13,7 @@ import { RENDER_STILL_JOB, freezePanel } from '../server/stills/stills-service';
 import { RENDER_SUMMARY_JOB } from '../server/summaries/summaries-service';
 import { annotationsRepository } from '../server/annotations/annotations-repository';
 import { seedDemoPlans } from './demo-plans';
+import { seedDemoInvoices } from './demo-invoices';
 import { seedDemoPrices } from './demo-prices';
 
 /**
@@ -208,6 +209,7 @@ export async function seed(knex: Knex, opts: SeedOptions = {}): Promise<boolean>
     }
     await seedDemoPlans(trx, clinicId, userIds[1]!);
     await seedDemoPrices(trx, clinicId, at);
+    await seedDemoInvoices(trx, clinicId, userIds[0]!);
   });
   if (opts.uploadsDir) await seedDemoClips(knex, opts.uploadsDir, opts.log ?? (() => undefined));
   return true;

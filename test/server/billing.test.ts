@@ -141,6 +141,11 @@ describe('price list', () => {
     const other = await makeTestApp();
     try {
       const oo = await signedIn(other.app, owner.email, owner.password);
+      // The demo's billing history (Ada's two invoices) is in EUR: without it the currency may change.
+      expect((await oo.put('/api/billing/settings', { currency: 'GBP' })).status).toBe(409);
+      await other.db('payment_events').delete();
+      await other.db('invoice_lines').delete();
+      await other.db('invoices').delete();
       expect((await oo.put('/api/billing/settings', { currency: 'GBP' })).body).toEqual({ currency: 'GBP' });
       expect((await oo.get('/api/prices')).body.prices[0].currency).toBe('GBP');
       expect((await oo.put('/api/billing/settings', { currency: 'XYZ' })).status).toBe(422);
@@ -153,6 +158,21 @@ describe('price list', () => {
 });
 
 describe('invoices', () => {
+  it('the demo history: Ada\'s Baseline billed and paid (its checkout event recorded), her Re-test billed and open', async () => {
+    const mine = (await a.get('/api/invoices')).body.invoices as InvoiceDetail[];
+    const seeded = mine.filter((i) => i.number === 'TF-2026-0001' || i.number === 'TF-2026-0002').sort((x, y) => x.id - y.id);
+    expect(seeded.map((i) => [i.number, i.status, i.totalMinor, i.dueDate])).toEqual([
+      ['TF-2026-0001', 'paid', 14400, '2026-10-20'],
+      ['TF-2026-0002', 'open', 7800, '2026-12-08'],
+    ]);
+    const paid = (await a.get(`/api/invoices/${seeded[0]!.id}`)).body as InvoiceDetail;
+    expect(paid.assessment).toMatchObject({ kind: 'baseline', date: '2026-10-06' });
+    expect(paid.paidAt).toBeTruthy();
+    expect(paid.lines.map((l) => [l.description, l.totalMinor])).toEqual([['Gait assessment', 14400]]);
+    expect(await t.db('payment_events').where({ invoice_id: paid.id, type: 'checkout.session.completed' }).first()).toBeTruthy();
+    expect((await a.get(`/api/invoices/${seeded[1]!.id}`)).body.assessment).toMatchObject({ kind: 'retest', date: '2026-11-24' });
+  });
+
   it('computes totals on the server: 3 × Re-test 65.00 at 20 % = 195.00 + 39.00 = 234.00, plus a custom 12.34 untaxed line = 246.34', async () => {
     const d = await draft({
       lines: [
@@ -186,6 +206,10 @@ describe('invoices', () => {
     const ada = (await t.db('assessments').where({ athlete_id: adaId }).first()).id;
     const d = await draft({ assessmentId: ada });
     expect(d.assessmentId).toBe(ada);
+    const visit = await t.db('assessments').where({ id: ada }).first('kind', 'date');
+    expect(d.assessment).toEqual({ id: ada, kind: visit.kind, date: visit.date });
+    expect((await o.get(`/api/invoices/${d.id}`)).body.assessment).toEqual({ id: ada, kind: visit.kind, date: visit.date });
+    expect((await draft()).assessment).toBeNull();
     const res = await o.post('/api/invoices', { athleteId: brunoId, assessmentId: ada, dueDate: due, note: null, lines: [line(price('Re-test'))] });
     expect(res.status).toBe(422);
     expect(res.body.error.details[0].path).toEqual(['assessmentId']);
@@ -218,7 +242,11 @@ describe('invoices', () => {
     expect(drafts.invoices.map((i: InvoiceDetail) => i.id)).toEqual([bruno.body.id]);
     expect(drafts.totals).toMatchObject({ count: 1, totalMinor: 14400, currency: 'EUR' });
     const today = new Date().toISOString().slice(0, 10);
-    expect((await o.get(`/api/invoices?from=${today}&to=${today}`)).body.invoices.length).toBe(all.invoices.length);
+    const madeToday = all.invoices.filter((i: InvoiceDetail) => i.createdAt.startsWith(today)).length;
+    expect(madeToday).toBeGreaterThanOrEqual(3);
+    expect((await o.get(`/api/invoices?from=${today}&to=${today}`)).body.invoices.length).toBe(madeToday);
+    // The demo history: Ada's Baseline invoice was made on 6 Oct 2026, her Re-test's on 24 Nov 2026.
+    expect((await o.get('/api/invoices?from=2026-10-01&to=2026-10-31')).body.invoices.map((i: InvoiceDetail) => i.number)).toEqual(['TF-2026-0001']);
     expect((await o.get('/api/invoices?from=2000-01-01&to=2000-01-02')).body.invoices).toEqual([]);
     expect((await o.get('/api/invoices?status=late')).status).toBe(422);
     const mine = (await a.get('/api/invoices')).body.invoices.map((i: InvoiceDetail) => i.id);
