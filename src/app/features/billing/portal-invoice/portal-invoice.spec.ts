@@ -12,7 +12,7 @@ const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
 function anInvoice(over: Partial<InvoiceDetail> = {}): InvoiceDetail {
   return {
     id: 7, number: 'TF-2026-0001', status: 'open', athleteId: 1, athleteName: 'Ada Kestrel', currency: 'EUR', totalMinor: 7800,
-    dueDate: '2026-12-31', issuedAt: '2026-12-01T10:00:00Z', paidAt: null, createdAt: '2026-12-01T09:00:00Z', assessmentId: null,
+    dueDate: '2026-12-31', issuedAt: '2026-12-01T10:00:00Z', paidAt: null, createdAt: '2026-12-01T09:00:00Z', assessmentId: null, assessment: null,
     note: null, clinicName: 'Larchwood Running Clinic', subtotalMinor: 6500, taxMinor: 1300, voidedAt: null, refundedAt: null,
     checkoutState: 'pending',
     lines: [{ id: 1, priceId: 2, description: 'Re-test', quantity: 1, unitAmountMinor: 6500, taxRateBp: 2000, netMinor: 6500, taxMinor: 1300, totalMinor: 7800 }],
