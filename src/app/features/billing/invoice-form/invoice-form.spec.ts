@@ -4,6 +4,8 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter, Router, withComponentInputBinding } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
 import type { InvoiceDetail, Price } from '../../../../contracts/billing';
+import { toIsoDate } from '../../../shared/dates';
+import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
 import { InvoiceForm } from './invoice-form';
 
 const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -30,7 +32,7 @@ describe('InvoiceForm', () => {
   beforeEach(async () => {
     TestBed.configureTestingModule({
       imports: [InvoiceForm],
-      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])],
+      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), provideIsoDateAdapter()],
     });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(InvoiceForm);
@@ -112,6 +114,7 @@ describe('InvoiceForm reached by address', () => {
   async function open(url: string): Promise<void> {
     TestBed.configureTestingModule({
       providers: [
+        provideIsoDateAdapter(),
         provideHttpClient(),
         provideHttpClientTesting(),
         provideRouter([
@@ -150,7 +153,8 @@ describe('InvoiceForm reached by address', () => {
     await settle();
     const el = harness.routeNativeElement!;
     expect(el.querySelector('h1')?.textContent).toContain('Edit draft invoice');
-    expect(form.form.getRawValue()).toMatchObject({ athleteId: 4, assessmentId: 11, dueDate: '2026-12-31', note: 'Two visits' });
+    expect(form.form.getRawValue()).toMatchObject({ athleteId: 4, assessmentId: 11, note: 'Two visits' });
+    expect(toIsoDate(form.form.getRawValue().dueDate)).toBe('2026-12-31');
     expect(el.querySelector('[data-testid="preview-total"]')?.textContent).toBe('156.00 EUR');
     // 3 × 65.00 at 20 % = 195.00 + 39.00 = 234.00
     form.lines.at(0).controls.quantity.setValue(3);

@@ -1,8 +1,10 @@
+import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { rxResource, takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { FormArray, FormControl, FormGroup, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
+import { MatDatepickerModule } from '@angular/material/datepicker';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -14,6 +16,7 @@ import type { Assessment } from '../../../../contracts/api';
 import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
 import type { InvoiceDetail, InvoiceLineWrite, InvoiceWrite, Price } from '../../../../contracts/billing';
 import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
+import { parseIsoDate, toIsoDate } from '../../../shared/dates';
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { requiredTrimmed } from '../../../shared/forms/validators';
@@ -33,7 +36,11 @@ type LineGroup = FormGroup<{
   tax: FormControl<string>;
 }>;
 
-const inTwoWeeks = () => new Date(Date.now() + 14 * 86_400_000).toISOString().slice(0, 10);
+/** Today's local date plus two weeks (the usual due date). */
+const inTwoWeeks = () => {
+  const d = new Date();
+  return new Date(d.getFullYear(), d.getMonth(), d.getDate() + 14);
+};
 
 /**
  * `/billing/invoices/new` (owner): a draft invoice for an athlete, from one of their assessments or
@@ -43,7 +50,7 @@ const inTwoWeeks = () => new Date(Date.now() + 14 * 86_400_000).toISOString().sl
  */
 @Component({
   selector: 'app-invoice-form',
-  imports: [ReactiveFormsModule, RouterLink, MatCardModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState],
+  imports: [DatePipe, ReactiveFormsModule, RouterLink, MatCardModule, MatDatepickerModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './invoice-form.html',
   styleUrl: './invoice-form.scss',
@@ -81,7 +88,7 @@ export class InvoiceForm {
   protected readonly form = new FormGroup({
     athleteId: new FormControl<number | null>(null, Validators.required),
     assessmentId: new FormControl<number | null>(null),
-    dueDate: new FormControl(inTwoWeeks(), { nonNullable: true, validators: [Validators.required] }),
+    dueDate: new FormControl<Date | null>(inTwoWeeks(), Validators.required),
     note: new FormControl('', { nonNullable: true, validators: [Validators.maxLength(500)] }),
     lines: new FormArray<LineGroup>([]),
   });
@@ -147,7 +154,7 @@ export class InvoiceForm {
     const f = formFromInvoice(inv);
     this.form.controls.athleteId.setValue(f.athleteId);
     this.form.controls.assessmentId.setValue(f.assessmentId);
-    this.form.controls.dueDate.setValue(f.dueDate);
+    this.form.controls.dueDate.setValue(parseIsoDate(f.dueDate));
     this.form.controls.note.setValue(f.note);
     this.lines.clear();
     for (const l of f.lines) this.addLine(l);
@@ -205,7 +212,7 @@ export class InvoiceForm {
     const body: InvoiceWrite = {
       athleteId: v.athleteId!,
       assessmentId: v.assessmentId,
-      dueDate: v.dueDate,
+      dueDate: toIsoDate(v.dueDate) ?? '',
       note: v.note.trim() || null,
       lines: (v.lines as LineDraft[]).map((l) => toLineWrite(l) as InvoiceLineWrite),
     };
