@@ -3,6 +3,7 @@ import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@a
 import { rxResource } from '@angular/core/rxjs-interop';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
+import { MatDatepickerModule } from '@angular/material/datepicker';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -12,6 +13,7 @@ import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import { INVOICE_STATUSES, type InvoiceQuery, type InvoiceStatus } from '../../../../contracts/billing';
 import { errorMessage } from '../../../core/api-error';
+import { toIsoDate } from '../../../shared/dates';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AthletesApi } from '../../athletes/athletes-api';
@@ -22,7 +24,7 @@ import { InvoiceStatusBadge } from '../invoice-status/invoice-status';
 /** `/billing/invoices` (owner): the clinic's invoices, filtered by status, athlete and date, with totals. */
 @Component({
   selector: 'app-invoice-list',
-  imports: [DatePipe, FormsModule, RouterLink, MatTableModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState, EmptyState, InvoiceStatusBadge],
+  imports: [DatePipe, FormsModule, RouterLink, MatTableModule, MatDatepickerModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState, EmptyState, InvoiceStatusBadge],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './invoice-list.html',
   styleUrl: './invoice-list.scss',
@@ -33,13 +35,14 @@ export class InvoiceList {
 
   protected readonly status = signal<InvoiceStatus | ''>('');
   protected readonly athleteId = signal<number | null>(null);
-  protected readonly from = signal('');
-  protected readonly to = signal('');
+  /** Creation-date filter (datepicker values; null = no limit, an unparsable entry counts as none). */
+  protected readonly from = signal<Date | null>(null);
+  protected readonly to = signal<Date | null>(null);
   private readonly query = computed<InvoiceQuery>(() => ({
     status: this.status() || undefined,
     athleteId: this.athleteId() ?? undefined,
-    from: this.from() || undefined,
-    to: this.to() || undefined,
+    from: toIsoDate(this.from()) ?? undefined,
+    to: toIsoDate(this.to()) ?? undefined,
   }));
   protected readonly list = rxResource({ params: () => this.query(), stream: ({ params }) => this.api.invoices(params) });
   protected readonly athletes = rxResource({ stream: () => this.athletesApi.list() });
@@ -54,7 +57,7 @@ export class InvoiceList {
   protected clear(): void {
     this.status.set('');
     this.athleteId.set(null);
-    this.from.set('');
-    this.to.set('');
+    this.from.set(null);
+    this.to.set(null);
   }
 }
