@@ -1,4 +1,4 @@
-import { amountText, money, parseAmount, parseTaxPercent, taxText } from './billing-words';
+import { amountText, lineDetail, money, parseAmount, parseTaxPercent, taxText } from './billing-words';
 
 describe('billing words', () => {
   it('parses amounts to minor units: 45 → 4500, 45.5 → 4550, 1,250.00 → 125000', () => {
@@ -28,5 +28,9 @@ describe('billing words', () => {
     expect(amountText(125000)).toBe('1250.00');
     expect(taxText(750)).toBe('7.5 %');
     expect(taxText(null)).toBe('-');
+  });
+  it('sums up a line: "2 × 65.00 EUR · 20 % tax", "1 × 12.34 EUR · no tax"', () => {
+    expect(lineDetail({ quantity: 2, unitAmountMinor: 6500, taxRateBp: 2000 }, 'EUR')).toBe('2 × 65.00 EUR · 20 % tax');
+    expect(lineDetail({ quantity: 1, unitAmountMinor: 1234, taxRateBp: null }, 'EUR')).toBe('1 × 12.34 EUR · no tax');
   });
 });

@@ -45,3 +45,8 @@ export function taxText(bp: number | null): string {
   if (bp === null) return '-';
   return `${String(bp / 100)} %`;
 }
+
+/** One invoice line's quantity, unit price and tax in a few words: "2 × 65.00 EUR · 20 % tax", "1 × 12.34 EUR · no tax". */
+export function lineDetail(line: { quantity: number; unitAmountMinor: number; taxRateBp: number | null }, currency: string): string {
+  return `${line.quantity} × ${money(line.unitAmountMinor, currency)} · ${line.taxRateBp === null ? 'no tax' : `${taxText(line.taxRateBp)} tax`}`;
+}

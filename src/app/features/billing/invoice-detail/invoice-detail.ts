@@ -9,6 +9,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
+import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
 import type { InvoiceDetail } from '../../../../contracts/billing';
 import { errorMessage } from '../../../core/api-error';
 import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
@@ -50,6 +51,7 @@ export class InvoiceDetailPage {
   protected readonly receiptUrl = computed(() => this.api.receiptUrl(Number(this.id())));
   protected readonly errorMessage = errorMessage;
   protected readonly money = money;
+  protected readonly kindLabels = ASSESSMENT_KIND_LABELS;
 
   protected act(action: Action, inv: InvoiceDetail): void {
     this.dialog
