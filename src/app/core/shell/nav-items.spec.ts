@@ -14,6 +14,7 @@ describe('navItemsFor', () => {
 
   it('gives athletes their own pages', () => {
     expect(navItemsFor('athlete', true).map((i) => i.path)).toEqual(['/portal', '/portal/plan', '/portal/invoices', '/portal/profile']);
+    expect(navItemsFor('athlete', true).map((i) => i.label)).toEqual(['Home', 'My plan', 'My invoices', 'My profile']);
   });
 
   it('gives signed-out visitors nothing', () => {

@@ -30,7 +30,7 @@ export function navItemsFor(role: Role | null, demoMode: boolean): NavItem[] {
       return [
         { label: 'Home', icon: 'home', path: '/portal', exact: true },
         { label: 'My plan', icon: 'view_timeline', path: '/portal/plan', exact: false },
-        { label: 'Invoices', icon: 'receipt_long', path: '/portal/invoices', exact: false },
+        { label: 'My invoices', icon: 'receipt_long', path: '/portal/invoices', exact: false },
         { label: 'My profile', icon: 'person', path: '/portal/profile', exact: false },
       ];
     default:

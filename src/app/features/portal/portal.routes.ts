@@ -22,7 +22,7 @@ export default [
   },
   {
     path: 'invoices',
-    title: 'Invoices · Trailframe',
+    title: 'My invoices · Trailframe',
     loadComponent: () => import('../billing/portal-invoices/portal-invoices').then((m) => m.PortalInvoices),
   },
   {

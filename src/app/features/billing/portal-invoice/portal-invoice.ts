@@ -8,6 +8,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatProgressSpinnerModule } from '@angular/material/progress-spinner';
 import { ActivatedRoute, RouterLink } from '@angular/router';
 import { firstValueFrom, map, switchMap, takeWhile, timer } from 'rxjs';
+import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
 import { errorMessage } from '../../../core/api-error';
 import { ErrorState } from '../../../shared/states/error-state';
 import { BillingApi } from '../billing-api';
@@ -36,6 +37,7 @@ export class PortalInvoice {
   readonly id = input.required<string>();
   private readonly returned = toSignal(inject(ActivatedRoute).queryParamMap.pipe(map((q) => returnedWith(q.get('checkout')))), { initialValue: null });
   /** The invoice, re-read every 1.5 s while a returned payment waits for the server's confirmation. */
+  protected readonly kindLabels = ASSESSMENT_KIND_LABELS;
   protected readonly loaded = rxResource({
     params: () => ({ id: Number(this.id()), returned: this.returned() }),
     stream: ({ params }) =>

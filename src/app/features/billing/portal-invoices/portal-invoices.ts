@@ -18,10 +18,10 @@ import { InvoiceStatusBadge } from '../invoice-status/invoice-status';
   imports: [DatePipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, EmptyState, ErrorState, InvoiceStatusBadge],
   changeDetection: ChangeDetectionStrategy.OnPush,
   template: `
-    <div class="page page-narrow">
+    <div class="page">
       <header class="page-header">
         <div>
-          <h1>Invoices</h1>
+          <h1>My invoices</h1>
           <p class="page-subtitle">What your clinic has billed you, and your receipts.</p>
         </div>
       </header>
