@@ -90,6 +90,8 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await page.waitForURL(/\/billing\/invoices\/\d+$/);
     invoiceId = Number(page.url().split('/').pop());
     await expect.poll(() => page.getByTestId('invoice-total').innerText()).toBe('156.00 EUR');
+    await expect.poll(() => page.getByTestId('invoice-assessment').innerText()).toBe('Re-test · 24 Nov 2026');
+    expect(await page.getByTestId('invoice-assessment').getAttribute('href')).toBe(`/athletes/${retest.athlete_id}/assessments/${retest.id}`);
     await page.screenshot({ path: shot('billing-draft-desktop.png') });
     await phoneShot(page, 'billing-draft-phone.png');
     await page.getByRole('link', { name: 'Edit' }).click();
@@ -109,7 +111,10 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await page.getByRole('dialog').getByRole('button', { name: 'Issue' }).click();
     await expect.poll(async () => (await invoice()).status).toBe('open');
     invoiceNumber = (await invoice()).number;
-    expect(invoiceNumber).toMatch(/^TF-\d{4}-0001$/);
+    // Numbers continue per clinic and year after the demo's own (Ada's TF-2026-0001 and -0002).
+    const year = new Date().getUTCFullYear();
+    const before = await h.server.db('invoices').where('number', 'like', `TF-${year}-%`).whereNot({ id: invoiceId }).count<{ n: number }[]>({ n: '*' });
+    expect(invoiceNumber).toBe(`TF-${year}-${String(Number(before[0]!.n) + 1).padStart(4, '0')}`);
     await page.getByRole('heading', { name: `Invoice ${invoiceNumber}` }).waitFor();
     await page.screenshot({ path: shot('billing-invoice-issued-desktop.png') });
     await phoneShot(page, 'billing-invoice-issued-phone.png');
@@ -127,7 +132,13 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     const { page, problems, context } = await h.newPage();
     await page.setViewportSize(PHONE);
     await signIn(page, athlete.email, athlete.password);
+    // The demo's open Re-test invoice (78.00 EUR) and the one just issued.
+    await expect.poll(() => page.getByTestId('invoices-due').innerText()).toMatch(/^2 invoices to pay · 156\.00 EUR, the next due /);
+    await page.getByTestId('invoices-due').scrollIntoViewIfNeeded();
+    await page.screenshot({ path: shot('billing-portal-home-phone.png') });
     await page.getByRole('link', { name: 'Open my invoices' }).click();
+    await page.getByRole('heading', { name: 'My invoices' }).waitFor();
+    await page.screenshot({ path: shot('billing-portal-invoices-phone.png'), fullPage: true });
     await page.getByRole('link', { name: new RegExp(invoiceNumber) }).click();
     await page.getByText('78.00 EUR due').waitFor();
     await page.screenshot({ path: shot('billing-portal-invoice-open-phone.png'), fullPage: true });

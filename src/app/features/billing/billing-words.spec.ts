@@ -1,4 +1,4 @@
-import { amountText, lineDetail, money, parseAmount, parseTaxPercent, taxText } from './billing-words';
+import { amountDueText, amountText, dayText, lineDetail, money, parseAmount, parseTaxPercent, taxText } from './billing-words';
 
 describe('billing words', () => {
   it('parses amounts to minor units: 45 → 4500, 45.5 → 4550, 1,250.00 → 125000', () => {
@@ -29,8 +29,22 @@ describe('billing words', () => {
     expect(taxText(750)).toBe('7.5 %');
     expect(taxText(null)).toBe('-');
   });
+
   it('sums up a line: "2 × 65.00 EUR · 20 % tax", "1 × 12.34 EUR · no tax"', () => {
     expect(lineDetail({ quantity: 2, unitAmountMinor: 6500, taxRateBp: 2000 }, 'EUR')).toBe('2 × 65.00 EUR · 20 % tax');
     expect(lineDetail({ quantity: 1, unitAmountMinor: 1234, taxRateBp: null }, 'EUR')).toBe('1 × 12.34 EUR · no tax');
+  });
+
+  it('writes dates day first: 2026-12-08 → 8 Dec 2026', () => {
+    expect(dayText('2026-12-08')).toBe('8 Dec 2026');
+    expect(dayText('2027-01-31')).toBe('31 Jan 2027');
+  });
+
+  it('says what is due from the open invoices only', () => {
+    const inv = (status: 'open' | 'paid' | 'void' | 'refunded', totalMinor: number, dueDate: string) => ({ status, totalMinor, currency: 'EUR', dueDate });
+    expect(amountDueText([])).toBe('Nothing to pay');
+    expect(amountDueText([inv('paid', 14400, '2026-10-20'), inv('void', 500, '2026-01-01'), inv('refunded', 7800, '2026-12-01')])).toBe('Nothing to pay');
+    expect(amountDueText([inv('paid', 14400, '2026-10-20'), inv('open', 7800, '2026-12-08')])).toBe('1 invoice to pay · 78.00 EUR due 8 Dec 2026');
+    expect(amountDueText([inv('open', 7800, '2026-12-22'), inv('open', 14400, '2026-12-08')])).toBe('2 invoices to pay · 222.00 EUR, the next due 8 Dec 2026');
   });
 });

@@ -1,4 +1,4 @@
-import { formatMinor, type InvoiceStatus } from '../../../contracts/billing';
+import { formatMinor, type InvoiceStatus, type InvoiceSummary } from '../../../contracts/billing';
 
 /** How each invoice status reads, with its icon. */
 export const STATUS_WORDS: Record<InvoiceStatus, { label: string; icon: string }> = {
@@ -49,4 +49,29 @@ export function taxText(bp: number | null): string {
 /** One invoice line's quantity, unit price and tax in a few words: "2 × 65.00 EUR · 20 % tax", "1 × 12.34 EUR · no tax". */
 export function lineDetail(line: { quantity: number; unitAmountMinor: number; taxRateBp: number | null }, currency: string): string {
   return `${line.quantity} × ${money(line.unitAmountMinor, currency)} · ${line.taxRateBp === null ? 'no tax' : `${taxText(line.taxRateBp)} tax`}`;
+}
+
+const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+
+/** "8 Dec 2026" from "2026-12-08" (the app's day-first date, without time zones). */
+export function dayText(isoDate: string): string {
+  const [y, m, d] = isoDate.split('-').map(Number);
+  return `${d} ${MONTHS[m! - 1]} ${y}`;
+}
+
+/**
+ * What an athlete has to pay, from their invoices: "Nothing to pay", "1 invoice to pay · 78.00 EUR
+ * due 8 Dec 2026", or "2 invoices to pay · 222.00 EUR, the next due 8 Dec 2026". Only open invoices
+ * count (drafts never reach the athlete; paid, void and refunded ones are settled).
+ */
+export function amountDueText(invoices: readonly Pick<InvoiceSummary, 'status' | 'totalMinor' | 'currency' | 'dueDate'>[]): string {
+  const open = invoices.filter((i) => i.status === 'open');
+  if (open.length === 0) return 'Nothing to pay';
+  const byCurrency = new Map<string, number>();
+  for (const i of open) byCurrency.set(i.currency, (byCurrency.get(i.currency) ?? 0) + i.totalMinor);
+  const amount = [...byCurrency].map(([currency, minor]) => money(minor, currency)).join(' + ');
+  const next = open.map((i) => i.dueDate).sort()[0]!;
+  return open.length === 1
+    ? `1 invoice to pay · ${amount} due ${dayText(next)}`
+    : `${open.length} invoices to pay · ${amount}, the next due ${dayText(next)}`;
 }

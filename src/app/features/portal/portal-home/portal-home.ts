@@ -5,13 +5,14 @@ import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
 import { AuthStore } from '../../../core/auth-store';
 import { AssessmentList } from '../../assessments/assessment-list/assessment-list';
+import { InvoicesDue } from '../../billing/invoices-due/invoices-due';
 import { PortalPlanCard } from '../../plans/portal-plan-card/portal-plan-card';
 import { PortalShared } from '../../stills/portal-shared/portal-shared';
 
 /** `/portal`: the athlete's home page. */
 @Component({
   selector: 'app-portal-home',
-  imports: [RouterLink, MatCardModule, MatButtonModule, MatIconModule, AssessmentList, PortalPlanCard, PortalShared],
+  imports: [RouterLink, MatCardModule, MatButtonModule, MatIconModule, AssessmentList, InvoicesDue, PortalPlanCard, PortalShared],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './portal-home.html',
   styleUrl: './portal-home.scss',
