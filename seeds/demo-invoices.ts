@@ -21,7 +21,8 @@ export const DEMO_INVOICES = [
  * Inserts {@link DEMO_INVOICES} (inside the seed's transaction, after the athletes, assessments and
  * prices). The paid one looks as the payment webhook leaves an invoice: status paid, paid_at, the
  * checkout session and payment references, and its `checkout.session.completed` event recorded.
- * The references are invented (`demo_…`); no payment service knows them.
+ * The references are invented (`demo_…`); a real payment service does not know them, the local
+ * fake accepts a refund of `pi_demo_…` so the demo's refund works on this invoice too.
  */
 export async function seedDemoInvoices(trx: Knex, clinicId: number, ownerId: number): Promise<void> {
   const ada = await trx('athletes').where({ clinic_id: clinicId, last_name: 'Kestrel' }).first<{ id: number }>('id');

@@ -526,3 +526,17 @@ describe('card payment through the fake payment service', () => {
     }
   });
 });
+
+describe('the demo history', () => {
+  it("refunds the seeded paid invoice through the local fake (its invented 'pi_demo_' payment)", async () => {
+    const seeded = await t.db('invoices').where({ number: 'TF-2026-0001' }).first();
+    expect(seeded).toMatchObject({ status: 'paid' });
+    expect(seeded.payment_intent_id).toMatch(/^pi_demo_/);
+    const res = await o.post(`/api/invoices/${seeded.id}/refund`);
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect(res.body).toMatchObject({ status: 'refunded' });
+    await t.fakePayments!.idle();
+    expect(t.fakePayments!.events.at(-1)!.type).toBe('charge.refunded');
+    expect((await o.get(`/api/invoices/${seeded.id}`)).body.status).toBe('refunded');
+  });
+});

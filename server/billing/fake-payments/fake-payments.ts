@@ -62,6 +62,9 @@ interface Session {
   refunded: boolean;
 }
 
+/** Payment references the demo seed invents for its paid invoice (`pi_demo_…`). */
+export const DEMO_PAYMENT_PREFIX = 'pi_demo_';
+
 const rid = (prefix: string) => `${prefix}_fake_${crypto.randomBytes(12).toString('hex')}`;
 const now = () => Math.floor(Date.now() / 1000);
 
@@ -140,6 +143,13 @@ export async function startFakePayments(options: FakePaymentsOptions): Promise<F
   app.post('/v1/refunds', (req, res) => {
     const pi = String((req.body as Record<string, unknown>)['payment_intent'] ?? '');
     const s = [...sessions.values()].find((x) => x.payment_intent === pi);
+    if (!s && pi.startsWith(DEMO_PAYMENT_PREFIX)) {
+      // A payment the demo seed records as already made (never through this fake): refundable, so
+      // the demo owner can try a refund on the seeded paid invoice too.
+      res.json({ id: rid('re'), object: 'refund', status: 'succeeded', amount: 0, currency: 'eur', payment_intent: pi, created: now(), metadata: {} });
+      send('charge.refunded', { id: rid('ch'), object: 'charge', payment_intent: pi, refunded: true, status: 'succeeded', metadata: {} });
+      return;
+    }
     if (!s) return void apiError(res, 404, `No such payment_intent: '${pi}'`, 'resource_missing');
     if (s.refunded) return void apiError(res, 400, 'This payment has already been refunded.', 'charge_already_refunded');
     s.refunded = true;
