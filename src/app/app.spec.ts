@@ -13,6 +13,8 @@ import { AuthStore } from './core/auth-store';
 import { ConfigStore } from './core/config-store';
 import { AssessmentsApi } from './features/assessments/assessments-api';
 import { PlansApi } from './features/plans/plans-api';
+import { StillsApi } from './features/stills/stills-api';
+import { BillingApi } from './features/billing/billing-api';
 import { provideIsoDateAdapter } from './shared/iso-date-adapter';
 
 const athlete: SessionUser = {
@@ -44,6 +46,10 @@ async function boot(user: SessionUser | null, url: string, demoMode = false) {
       { provide: AssessmentsApi, useValue: { list: () => of([]) } },
       // …and the athlete's plan card; no plan here.
       { provide: PlansApi, useValue: { plansOf: () => of([]) } },
+      // …what the clinic shared with them; nothing yet.
+      { provide: StillsApi, useValue: { portalShared: () => of({ stills: [], summaries: [] }) } },
+      // …and what they owe; nothing.
+      { provide: BillingApi, useValue: { invoices: () => of({ invoices: [], totals: { currency: 'EUR', count: 0, totalMinor: 0, openMinor: 0, paidMinor: 0, refundedMinor: 0 } }) } },
     ],
   });
   await TestBed.inject(AuthStore).load();
@@ -71,7 +77,7 @@ describe('App', () => {
     const nav = [...element.querySelectorAll('nav[aria-label="Main"] [matListItemTitle]')].map((a) =>
       a.textContent?.trim(),
     );
-    expect(nav).toEqual(['Home', 'My plan', 'My profile']);
+    expect(nav).toEqual(['Home', 'My plan', 'My invoices', 'My profile']);
     expect(element.querySelector('h1')?.textContent).toContain('Welcome, Sam');
     expect(element.textContent).toContain('Your assessments');
     TestBed.inject(HttpTestingController).verify();
