@@ -10,44 +10,25 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { SCREENSHOTS, startHarness, type Harness } from './harness';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
-import { Client } from '../support/test-app';
 import { tempDir } from '../server/media/fixtures';
-import { uploadMarkedClip } from './marked-clip';
+import { canvasDrawn, markDemoVisits } from './marked-clip';
 
-const [, coach, , athlete] = DEMO_SIGN_INS;
+const [, coach] = DEMO_SIGN_INS;
 let h: Harness;
 let dir: { dir: string; cleanup: () => Promise<void> };
 let athleteId = 0;
 
-/** A marked synthetic runner clip on the assessment (see uploadMarkedClip). */
-const markedClip = (api: Client, assessmentId: number, name: string, hipExtensionDeg: number) => uploadMarkedClip(api, assessmentId, path.join(dir.dir, name), hipExtensionDeg);
-
 beforeAll(async () => {
   h = await startHarness();
   dir = await tempDir('e2e-compare');
-  const api = new Client(h.baseUrl);
-  await api.signIn(coach.email, coach.password);
-  const ada = await h.server.db('athletes').where({ email: athlete.email }).first();
-  athleteId = ada.id;
-  const visits = await h.server.db('assessments').where({ athlete_id: ada.id });
-  await markedClip(api, visits.find((v) => v.kind === 'baseline').id, 'baseline.mp4', 4);
-  await markedClip(api, visits.find((v) => v.kind === 'retest').id, 'retest.mp4', 11);
+  athleteId = (await markDemoVisits(h, dir.dir)).athleteId;
 }, 240_000);
 afterAll(async () => {
   await h?.close();
   await dir?.cleanup();
 });
 
-/** Whether the canvas has anything drawn beyond one flat colour. */
-const drawn = (selector: string) => async (page: import('playwright-core').Page) =>
-  page.locator(selector).evaluate((c: HTMLCanvasElement) => {
-    const ctx = c.getContext('2d');
-    if (!ctx || !c.width) return false;
-    const d = ctx.getImageData(0, 0, c.width, c.height).data;
-    const first = d[0];
-    for (let i = 0; i < d.length; i += 4 * 97) if (d[i] !== first) return true;
-    return false;
-  });
+const drawn = (selector: string) => (page: import('playwright-core').Page) => canvasDrawn(page, selector);
 
 describe('compare visits', () => {
   it('shows both visits at the same event, steps together, overlays, and judges the change', async () => {

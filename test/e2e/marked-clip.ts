@@ -1,4 +1,8 @@
-import type { Client } from '../support/test-app';
+import path from 'node:path';
+import type { Page } from 'playwright-core';
+import { Client } from '../support/test-app';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import type { Harness } from './harness';
 import { generateRunnerClip } from '../../scripts/demo-clip/clip';
 import { marksFromTruth } from '../../scripts/demo-clip/demo-marks';
 
@@ -21,4 +25,32 @@ export async function uploadMarkedClip(api: Client, assessmentId: number, file: 
   const res = await api.put(`/api/clips/${clipId}/annotations`, marksFromTruth(truth, 'all'));
   if (res.status !== 200) throw new Error(`annotations: ${res.status} ${JSON.stringify(res.body).slice(0, 300)}`);
   return clipId;
+}
+
+/**
+ * Gives the demo athlete's Baseline and Re-test each a marked synthetic runner clip (about 4° and
+ * 11° of hip extension at toe-off), uploaded by the demo coach. Clip files are written to `dir`.
+ */
+export async function markDemoVisits(h: Harness, dir: string): Promise<{ athleteId: number; baseline: { assessmentId: number; clipId: number }; retest: { assessmentId: number; clipId: number } }> {
+  const [, coach, , athlete] = DEMO_SIGN_INS;
+  const api = new Client(h.baseUrl);
+  await api.signIn(coach.email, coach.password);
+  const ada = await h.server.db('athletes').where({ email: athlete.email }).first();
+  const visits: { id: number; kind: string }[] = await h.server.db('assessments').where({ athlete_id: ada.id });
+  const mark = async (kind: string, deg: number) => {
+    const assessmentId = visits.find((v) => v.kind === kind)!.id;
+    return { assessmentId, clipId: await uploadMarkedClip(api, assessmentId, path.join(dir, `${kind}.mp4`), deg) };
+  };
+  return { athleteId: ada.id, baseline: await mark('baseline', 4), retest: await mark('retest', 11) };
+}
+
+/** Whether the canvas has anything drawn beyond one flat colour. */
+export function canvasDrawn(page: Page, selector: string): Promise<boolean> {
+  return page.locator(selector).evaluate((c: HTMLCanvasElement) => {
+    const ctx = c.getContext('2d');
+    if (!ctx || !c.width) return false;
+    const d = ctx.getImageData(0, 0, c.width, c.height).data;
+    for (let i = 0; i < d.length; i += 4 * 97) if (d[i] !== d[0]) return true;
+    return false;
+  });
 }

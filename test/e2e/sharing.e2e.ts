@@ -13,9 +13,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { SCREENSHOTS, startHarness, type Harness } from './harness';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
-import { Client } from '../support/test-app';
 import { tempDir } from '../server/media/fixtures';
-import { uploadMarkedClip } from './marked-clip';
+import { canvasDrawn, markDemoVisits } from './marked-clip';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 const DESKTOP = { width: 1440, height: 900 };
@@ -29,20 +28,12 @@ let dir: { dir: string; cleanup: () => Promise<void> };
 let athleteId = 0;
 let retest = { assessmentId: 0, clipId: 0 };
 
-/** A marked synthetic runner clip on the assessment (see uploadMarkedClip). */
-const markedClip = (api: Client, assessmentId: number, name: string, hipExtensionDeg: number) => uploadMarkedClip(api, assessmentId, path.join(dir.dir, name), hipExtensionDeg);
-
 beforeAll(async () => {
   h = await startHarness();
   dir = await tempDir('e2e-sharing');
-  const api = new Client(h.baseUrl);
-  await api.signIn(coach.email, coach.password);
-  const ada = await h.server.db('athletes').where({ email: athlete.email }).first();
-  athleteId = ada.id;
-  const visits = await h.server.db('assessments').where({ athlete_id: ada.id });
-  await markedClip(api, visits.find((v) => v.kind === 'baseline').id, 'baseline.mp4', 4);
-  const retestVisit = visits.find((v) => v.kind === 'retest');
-  retest = { assessmentId: retestVisit.id, clipId: await markedClip(api, retestVisit.id, 'retest.mp4', 11) };
+  const marked = await markDemoVisits(h, dir.dir);
+  athleteId = marked.athleteId;
+  retest = marked.retest;
 }, 240_000);
 afterAll(async () => {
   await h?.close();
@@ -51,15 +42,7 @@ afterAll(async () => {
 
 const signIn = (page: Page, email: string, password: string) => h.signIn(page, email, password);
 
-/** Whether the canvas has anything drawn beyond one flat colour. */
-const drawn = (page: Page, selector: string) =>
-  page.locator(selector).evaluate((c: HTMLCanvasElement) => {
-    const ctx = c.getContext('2d');
-    if (!ctx || !c.width) return false;
-    const d = ctx.getImageData(0, 0, c.width, c.height).data;
-    for (let i = 0; i < d.length; i += 4 * 97) if (d[i] !== d[0]) return true;
-    return false;
-  });
+const drawn = canvasDrawn;
 
 /** Confirms the publish question (it must say the athlete gets an e-mail notice). */
 async function confirmPublish(page: Page): Promise<void> {
