@@ -287,29 +287,126 @@ export async function seedDemoPlans(trx: Knex, clinicId: number, coachId: number
   const carys = await trx('athletes').where({ clinic_id: clinicId, last_name: 'Holmgren' }).first<{ id: number; coach_id: number } | undefined>();
   if (!carys) return;
   const today = dayOf(now);
-  const thisMonday = weekStart(today);
-  const started = addDays(thisMonday, -14);
-  const startedAt = `${started}T08:00:00.000Z`;
+  const started = addDays(weekStart(today), -14);
+  // Two calm weeks, then a harder session today: pain during rises week over week.
+  await insertRunningPlan(trx, {
+    clinicId, athlete: carys, ids, plan: CALF_PLAN, assessmentId: null, at, keyPrefix: 'demo-seed-calf',
+    stageStarts: [started],
+    sessions: [
+      { date: addDays(started, 0), during: 3, morning: 2, done: 5 },
+      { date: addDays(started, 2), during: 2, morning: 1, done: 5 },
+      { date: addDays(started, 4), during: 2, morning: 1, done: 4 },
+      { date: addDays(started, 7), during: 2, morning: 1, done: 5 },
+      { date: addDays(started, 9), during: 2, morning: 1, done: 5 },
+      { date: addDays(started, 11), during: 3, morning: 1, done: 5 },
+      { date: today, during: 4, morning: null, done: 3, note: 'Calf felt tight on the stairs at work.' },
+    ],
+  });
+}
+
+/** Stages of the demo athlete's hamstring plan after her Baseline (invented, demo only). */
+const HAMSTRING_PLAN = {
+  title: 'High-hamstring pain: staged loading and hip extension',
+  notes: 'Invented demo plan. Hills and long descents stay out until stage 3.',
+  stages: [
+    {
+      name: 'Isometric holds',
+      goal: 'Calm the tendon with steady holds it tolerates every day.',
+      targetWeeks: 3,
+      progressionText: 'Move on once holds cause no more than mild pain and it has settled by the next morning.',
+      criteria: [{ kind: 'pain_during_at_most', max: 3, sessions: 3 }, { kind: 'settled_by_morning', sessions: 3 }] as ProgressionCriterion[],
+      exercises: ['Long-lever hamstring bridge hold', 'Hip-hinge hold'],
+    },
+    {
+      name: 'Slow lengthening',
+      goal: 'Build strength through length with slow lowering, and practise hip extension.',
+      targetWeeks: 4,
+      progressionText: 'Move on when all sets are done with control on three sessions in a row and mornings stay settled.',
+      criteria: [{ kind: 'all_sets_done', sessions: 3 }, { kind: 'settled_by_morning', sessions: 3 }] as ProgressionCriterion[],
+      exercises: ['Heel-slide hamstring lowers', 'Single-leg hinge reach', 'Wall-supported hip-extension drill'],
+    },
+    {
+      name: 'Fast work and running drills',
+      goal: 'Bring back speed through the hip and the push-off, then normal running.',
+      targetWeeks: 3,
+      progressionText: 'Return to hills when fast work causes no pain the next morning.',
+      criteria: [{ kind: 'settled_by_morning', sessions: 4 }] as ProgressionCriterion[],
+      exercises: ['Split-stance hip-drive pulses', 'Relaxed build-up runs'],
+    },
+  ],
+};
+
+/**
+ * The full demo's plan for the athlete with high-hamstring pain (the one who can sign in):
+ * isometric holds since her Baseline, now in the slow-lengthening stage with calm logs, linked
+ * to her Re-test. Only with the rendered demo clips (`npm start`), so tests that build her a
+ * plan start from none.
+ */
+export async function seedDemoHamstringPlan(trx: Knex, clinicId: number, athlete: { id: number; coach_id: number }, assessmentId: number | null, now = new Date()): Promise<void> {
+  const rows = await trx('exercises').where({ clinic_id: clinicId }).select<{ id: number; name: string }[]>('id', 'name');
+  const ids = new Map(rows.map((r) => [r.name, r.id]));
+  const today = dayOf(now);
+  const stage1 = addDays(weekStart(today), -28);
+  const stage2 = addDays(weekStart(today), -7);
+  await insertRunningPlan(trx, {
+    clinicId, athlete, ids, plan: HAMSTRING_PLAN, assessmentId, at: now.toISOString(), keyPrefix: 'demo-seed-hamstring',
+    stageStarts: [stage1, stage2],
+    sessions: [
+      { date: addDays(stage1, 0), during: 3, morning: 2, done: 3, stage: 0 },
+      { date: addDays(stage1, 2), during: 3, morning: 1, done: 4, stage: 0 },
+      { date: addDays(stage1, 5), during: 2, morning: 1, done: 4, stage: 0 },
+      { date: addDays(stage1, 8), during: 2, morning: 1, done: 4, stage: 0 },
+      { date: addDays(stage1, 12), during: 2, morning: 0, done: 4, stage: 0 },
+      { date: addDays(stage1, 16), during: 2, morning: 0, done: 4, stage: 0 },
+      { date: addDays(stage2, 0), during: 2, morning: 0, done: 2, stage: 1, note: 'Lowers felt strange but not painful.' },
+      { date: addDays(stage2, 3), during: 2, morning: 0, done: 3, stage: 1 },
+    ],
+  });
+}
+
+interface DemoSession {
+  date: string;
+  during: number;
+  morning: number | null;
+  /** Sets done of each exercise (capped at the prescribed sets). */
+  done: number;
+  /** Index of the stage the session belongs to (default the first). */
+  stage?: number;
+  note?: string;
+}
+
+/**
+ * Inserts an active plan with its stages, doses from the library, the default pain rule and the
+ * athlete's logged sessions; stages up to `stageStarts.length` are started (the last one current,
+ * the earlier ones completed when the next started).
+ */
+async function insertRunningPlan(
+  trx: Knex,
+  p: { clinicId: number; athlete: { id: number; coach_id: number }; ids: Map<string, number>; plan: typeof CALF_PLAN; assessmentId: number | null; at: string; keyPrefix: string; stageStarts: string[]; sessions: DemoSession[] },
+): Promise<void> {
+  const { clinicId, athlete, at } = p;
+  const startedAt = `${p.stageStarts[0]}T08:00:00.000Z`;
   const [plan] = await trx('plans')
     .insert({
       clinic_id: clinicId,
-      athlete_id: carys.id,
-      assessment_id: null,
-      title: CALF_PLAN.title,
+      athlete_id: athlete.id,
+      assessment_id: p.assessmentId,
+      title: p.plan.title,
       status: 'active',
       current_stage_id: null,
-      notes: CALF_PLAN.notes,
+      notes: p.plan.notes,
       started_at: startedAt,
       finished_at: null,
-      created_by: carys.coach_id,
+      created_by: athlete.coach_id,
       created_at: startedAt,
       updated_at: startedAt,
     })
     .returning('id');
   const planId = (plan as { id: number }).id;
-  let firstStage = 0;
-  const firstItems: { id: number; name: string; sets: number }[] = [];
-  for (const [i, s] of CALF_PLAN.stages.entries()) {
+  const stages: { id: number; items: { id: number; name: string; sets: number }[] }[] = [];
+  for (const [i, s] of p.plan.stages.entries()) {
+    const start = p.stageStarts[i];
+    const next = p.stageStarts[i + 1];
     const [stage] = await trx('plan_stages')
       .insert({
         clinic_id: clinicId,
@@ -320,18 +417,19 @@ export async function seedDemoPlans(trx: Knex, clinicId: number, coachId: number
         target_weeks: s.targetWeeks,
         progression_text: s.progressionText,
         criteria: JSON.stringify(s.criteria),
-        started_at: i === 0 ? startedAt : null,
-        completed_at: null,
+        started_at: start ? `${start}T08:00:00.000Z` : null,
+        completed_at: next ? `${next}T08:00:00.000Z` : null,
       })
       .returning('id');
     const stageId = (stage as { id: number }).id;
+    const items: { id: number; name: string; sets: number }[] = [];
     for (const [j, name] of s.exercises.entries()) {
       const e = DEMO_EXERCISES.find((x) => x.name === name)!;
       const [item] = await trx('stage_exercises')
         .insert({
           clinic_id: clinicId,
           stage_id: stageId,
-          exercise_id: ids.get(name),
+          exercise_id: p.ids.get(name),
           position: j + 1,
           sets: e.dose.sets,
           reps: e.dose.reps,
@@ -343,11 +441,11 @@ export async function seedDemoPlans(trx: Knex, clinicId: number, coachId: number
           notes: null,
         })
         .returning('id');
-      if (i === 0) firstItems.push({ id: (item as { id: number }).id, name, sets: e.dose.sets });
+      items.push({ id: (item as { id: number }).id, name, sets: e.dose.sets });
     }
-    if (i === 0) firstStage = stageId;
+    stages.push({ id: stageId, items });
   }
-  await trx('plans').where({ id: planId }).update({ current_stage_id: firstStage });
+  await trx('plans').where({ id: planId }).update({ current_stage_id: stages[p.stageStarts.length - 1]!.id });
   await trx('alert_rules').insert({
     plan_id: planId,
     clinic_id: clinicId,
@@ -355,34 +453,24 @@ export async function seedDemoPlans(trx: Knex, clinicId: number, coachId: number
     morning_must_settle: DEFAULT_PAIN_RULE.morningMustSettle,
     settled_morning_max: DEFAULT_PAIN_RULE.settledMorningMax,
     no_weekly_rise: DEFAULT_PAIN_RULE.noWeeklyRise,
-    updated_by: carys.coach_id,
+    updated_by: athlete.coach_id,
     updated_at: startedAt,
   });
-
-  // Two calm weeks, then a harder session today: pain during rises week over week.
-  const sessions: { date: string; during: number; morning: number | null; done: number }[] = [
-    { date: addDays(started, 0), during: 3, morning: 2, done: 5 },
-    { date: addDays(started, 2), during: 2, morning: 1, done: 5 },
-    { date: addDays(started, 4), during: 2, morning: 1, done: 4 },
-    { date: addDays(started, 7), during: 2, morning: 1, done: 5 },
-    { date: addDays(started, 9), during: 2, morning: 1, done: 5 },
-    { date: addDays(started, 11), during: 3, morning: 1, done: 5 },
-    { date: today, during: 4, morning: null, done: 3 },
-  ];
-  for (const [n, s] of sessions.entries()) {
+  for (const [n, s] of p.sessions.entries()) {
+    const stage = stages[s.stage ?? 0]!;
     const created = `${s.date}T18:00:00.000Z`;
     await trx('log_entries').insert({
       clinic_id: clinicId,
-      athlete_id: carys.id,
+      athlete_id: athlete.id,
       plan_id: planId,
-      stage_id: firstStage,
-      idempotency_key: `demo-seed-calf-${n + 1}`,
+      stage_id: stage.id,
+      idempotency_key: `${p.keyPrefix}-${n + 1}`,
       session_date: s.date,
       pain_during: s.during,
       morning_pain: s.morning,
       morning_at: s.morning === null ? null : `${addDays(s.date, 1)}T07:00:00.000Z`,
-      sets: JSON.stringify(firstItems.map((it) => ({ stageExerciseId: it.id, name: it.name, setsPrescribed: it.sets, setsDone: Math.min(it.sets, s.done) }))),
-      note: n === sessions.length - 1 ? 'Calf felt tight on the stairs at work.' : null,
+      sets: JSON.stringify(stage.items.map((it) => ({ stageExerciseId: it.id, name: it.name, setsPrescribed: it.sets, setsDone: Math.min(it.sets, s.done) }))),
+      note: s.note ?? null,
       created_by: null,
       created_at: created > at ? at : created,
       updated_at: created > at ? at : created,

@@ -12,7 +12,7 @@ import type { GroundTruth } from '../scripts/demo-clip/ground-truth';
 import { RENDER_STILL_JOB, freezePanel } from '../server/stills/stills-service';
 import { RENDER_SUMMARY_JOB } from '../server/summaries/summaries-service';
 import { annotationsRepository } from '../server/annotations/annotations-repository';
-import { seedDemoPlans } from './demo-plans';
+import { seedDemoHamstringPlan, seedDemoPlans } from './demo-plans';
 import { seedDemoInvoices } from './demo-invoices';
 import { seedDemoPrices } from './demo-prices';
 
@@ -276,6 +276,9 @@ async function seedDemoClips(knex: Knex, uploadsDir: string, log: (m: string) =>
       });
     }
     if (seeded.length === 2) await seedDemoShares(knex, queue, { athleteId: ada.id, clinicId: ada.clinic_id, coachId: ada.coach_id, at }, seeded[0]!, seeded[1]!);
+    // Her plan since the Baseline, so her sign-in shows today's session to log.
+    const retestVisit = visits.find((v) => v.kind === 'retest');
+    await knex.transaction((trx) => seedDemoHamstringPlan(trx, ada.clinic_id, ada, retestVisit?.id ?? null));
     log('demo clips queued: the server extracts their frames when it starts, then renders the demo stills and visit summary');
   } finally {
     fs.rmSync(work, { recursive: true, force: true });
