@@ -6,6 +6,7 @@ import type { Db } from '../db/knex';
 import { AppError, ConflictError, ForbiddenError, NotFoundError } from '../errors';
 import { isStaff } from '../http/access';
 import { audit } from '../audit/audit-log';
+import { assertMayChangeClipSettings } from '../policy/clip-settings';
 import { accessibleAthlete } from '../athletes/athlete-access';
 import { assessmentsRepository } from '../assessments/assessments-repository';
 import type { MediaStore } from '../storage/media-store';
@@ -188,13 +189,34 @@ export function clipsService(d: ClipsDeps) {
       return view(clipId);
     },
 
+    /**
+     * Changes near side, running direction or capture rate, as {@link assertMayChangeClipSettings}
+     * allows; each change is audited with its old and new value, and a marked clip's measures
+     * snapshot is dropped (recomputed with the new settings on the next read).
+     */
     async update(user: SessionUser, clipId: number, patch: ClipPatch): Promise<Clip> {
-      await accessibleClip(user, clipId);
+      const current = await accessibleClip(user, clipId);
+      const fields = [
+        ['nearSide', 'near_side'],
+        ['direction', 'direction'],
+        ['captureFps', 'capture_fps'],
+      ] as const;
       const row: Partial<ClipRow> = {};
-      if (patch.nearSide !== undefined) row.near_side = patch.nearSide;
-      if (patch.direction !== undefined) row.direction = patch.direction;
-      if (patch.captureFps !== undefined) row.capture_fps = patch.captureFps;
-      await repo.update(db, clipId, row);
+      const changes: Record<string, { from: unknown; to: unknown }> = {};
+      for (const [key, column] of fields) {
+        const to = patch[key];
+        if (to === undefined || to === current[column]) continue;
+        (row as Record<string, unknown>)[column] = to;
+        changes[key] = { from: current[column], to };
+      }
+      if (Object.keys(changes).length === 0) return view(clipId);
+      await db.transaction(async (trx) => {
+        // Checked inside the write, so marks saved meanwhile are seen.
+        assertMayChangeClipSettings(user, await repo.isMarked(trx, clipId));
+        await repo.update(trx, clipId, row);
+        await trx('measure_snapshots').where({ clip_id: clipId }).delete();
+        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: current.athlete_id, action: 'clip.settings_changed', detail: { clipId, changes } });
+      });
       await emit(clipId);
       return view(clipId);
     },
