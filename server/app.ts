@@ -21,7 +21,7 @@ import { athletesService } from './athletes/athletes-service';
 import { athletesRoutes } from './athletes/athletes.routes';
 import { mailboxRoutes } from './mail/mailbox.routes';
 import { localMediaStore, type MediaStore } from './storage/media-store';
-import { sqliteJobQueue } from './jobs/job-queue';
+import { sqliteJobQueue, type JobQueue } from './jobs/job-queue';
 import { startWorker, type Worker } from './jobs/worker';
 import { inProcessClipEvents } from './clips/clip-events';
 import { clipsService, EXTRACT_JOB } from './clips/clips-service';
@@ -65,6 +65,8 @@ export interface App {
   app: Express;
   /** The in-process job worker, or null when `config.runWorker` is off. */
   worker: Worker | null;
+  /** The durable job queue (its subjects' failures registered). */
+  queue: JobQueue;
   /** Stops the worker (aborting running jobs) and timers the app started. */
   close(): Promise<void>;
 }
@@ -211,6 +213,10 @@ export function createApp(deps: AppDeps): App {
   const sharing = { db, store, queue, clips, mailer, logger, publicUrl: config.publicUrl, clock, wakeWorker: () => worker?.wake() };
   const stills = stillsService(sharing);
   const summaries = summariesService({ ...sharing, stills, measures });
+  // Wherever a job runs out of attempts (in this process's worker or at any claim), its subject fails.
+  queue.onFinalFailure(EXTRACT_JOB, clips.extractFailure);
+  queue.onFinalFailure(RENDER_STILL_JOB, stills.renderFailure);
+  queue.onFinalFailure(RENDER_SUMMARY_JOB, summaries.renderFailure);
   if (config.runWorker) {
     worker = startWorker({
       queue,
@@ -219,8 +225,6 @@ export function createApp(deps: AppDeps): App {
       concurrency: config.jobs.concurrency,
       pollMs: config.jobs.pollMs,
       leaseMs: config.jobs.leaseMs,
-      onFinalFailure: (job, message) =>
-        job.type === RENDER_STILL_JOB ? stills.markFailed(job, message) : job.type === RENDER_SUMMARY_JOB ? summaries.markFailed(job, message) : clips.markFailed(job, message),
     });
   }
 
@@ -258,6 +262,7 @@ export function createApp(deps: AppDeps): App {
   return {
     app,
     worker,
+    queue,
     async close() {
       await worker?.stop();
       const timer = (sessionStore as unknown as { nextDbCleanup?: NodeJS.Timeout }).nextDbCleanup;

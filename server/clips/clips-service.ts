@@ -10,7 +10,7 @@ import { assertMayChangeClipSettings } from '../policy/clip-settings';
 import { accessibleAthlete } from '../athletes/athlete-access';
 import { assessmentsRepository } from '../assessments/assessments-repository';
 import type { MediaStore } from '../storage/media-store';
-import type { Job, JobQueue } from '../jobs/job-queue';
+import type { Job, JobQueue, SubjectFailure } from '../jobs/job-queue';
 import { PermanentJobError, type JobHandler } from '../jobs/worker';
 import { probeVideo } from '../media/probe';
 import { extractFrames } from '../media/extract';
@@ -328,12 +328,16 @@ export function clipsService(d: ClipsDeps) {
       }
     }) satisfies JobHandler,
 
-    /** After the last attempt: the clip is `failed` with the reason. */
-    async markFailed(job: Job, message: string): Promise<void> {
-      const clipId = Number(job.payload['clipId']);
-      await repo.update(db, clipId, { status: 'failed', error: message.slice(0, 500) });
-      await emit(clipId);
-    },
+    /** When the extraction job is over for good: the clip is `failed` with the reason (unless it got ready). */
+    extractFailure: {
+      async fail(trx, job, reason) {
+        await trx('clips')
+          .where({ id: Number(job.payload['clipId']) })
+          .whereNot({ status: 'ready' })
+          .update({ status: 'failed', error: reason.slice(0, 500), updated_at: new Date().toISOString() });
+      },
+      failed: (job) => void emit(Number(job.payload['clipId'])).catch(() => undefined),
+    } satisfies SubjectFailure,
   };
 }
 

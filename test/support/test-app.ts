@@ -11,6 +11,7 @@ import type { Mailer, MailMessage } from '../../server/mail/mailer';
 import { hashPassword } from '../../server/auth/passwords';
 import { seed } from '../../seeds/demo-scenario';
 import type { Worker } from '../../server/jobs/worker';
+import type { JobQueue } from '../../server/jobs/job-queue';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { startFakePayments, type FakePayments } from '../../server/billing/fake-payments/fake-payments';
@@ -43,6 +44,8 @@ export interface TestApp {
   config: Config;
   /** The in-process job worker. */
   worker: Worker | null;
+  /** The app's job queue (tests that run without the worker drive it themselves). */
+  queue: JobQueue;
   /** Moves the app's clock forward. */
   advance(ms: number): void;
   /** With `{ fakePayments: true }`: the fake payment service and the app listening for its webhooks. */
@@ -74,7 +77,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
   await addOtherClinic(db);
   const mailer = new MemoryMailer();
   let offset = 0;
-  const { app, close, worker } = createApp({ config, db, mailer, logger: pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
+  const { app, close, worker, queue } = createApp({ config, db, mailer, logger: pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
   let listener: http.Server | null = null;
   let url: string | null = null;
   if (fakePayments) {
@@ -95,6 +98,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
       offset += ms;
     },
     worker,
+    queue,
     async close() {
       await fakePayments?.idle();
       await fakePayments?.close();
