@@ -21,6 +21,7 @@ import { athletesService } from './athletes/athletes-service';
 import { athletesRoutes } from './athletes/athletes.routes';
 import { mailboxRoutes } from './mail/mailbox.routes';
 import { localMediaStore, type MediaStore } from './storage/media-store';
+import { uploadTemps } from './storage/upload-temps';
 import { sqliteJobQueue, type JobQueue } from './jobs/job-queue';
 import { startWorker, type Worker } from './jobs/worker';
 import { inProcessClipEvents } from './clips/clip-events';
@@ -72,6 +73,8 @@ export interface App {
 }
 
 const VERSION = '0.1.0';
+/** Upload temp files nobody owns go once unwritten for an hour; looked for every 10 minutes. */
+const UPLOAD_TEMP_SWEEP = { everyMs: 10 * 60_000, maxAgeMs: 60 * 60_000 };
 
 /** Builds the Express app; `server/main.ts` listens, tests call this directly. */
 export function createApp(deps: AppDeps): App {
@@ -193,6 +196,9 @@ export function createApp(deps: AppDeps): App {
   const resets = passwordResetsService({ db, mailer, config, clock, logger });
   const athletes = athletesService({ db, clock, invitations });
   const store = deps.store ?? localMediaStore(config.uploadsDir);
+  // Start-up removes temp files of uploads a killed server left; then a sweep by age (unref'd).
+  const temps = uploadTemps(store.tmpDir, (err) => logger.warn({ err: err.message }, 'upload temp sweep failed'));
+  const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
   const queue = sqliteJobQueue(db, { leaseMs: config.jobs.leaseMs, maxAttempts: config.jobs.maxAttempts });
   const events = inProcessClipEvents();
   let worker: Worker | null = null;
@@ -239,7 +245,7 @@ export function createApp(deps: AppDeps): App {
   api.use(staffRoutes({ db, invitations }));
   api.use(athletesRoutes(athletes));
   api.use(assessmentsRoutes(assessments));
-  api.use(clipsRoutes({ db, clips, events, store, uploadMaxBytes: config.uploadMaxBytes }));
+  api.use(clipsRoutes({ db, clips, events, temps, logger, uploadMaxBytes: config.uploadMaxBytes }));
   api.use(annotationsRoutes(annotations));
   api.use(measuresRoutes({ db, measures }));
   api.use(comparisonRoutes(comparisonService({ db, measures })));
@@ -264,6 +270,7 @@ export function createApp(deps: AppDeps): App {
     worker,
     queue,
     async close() {
+      clearInterval(tempSweep);
       await worker?.stop();
       const timer = (sessionStore as unknown as { nextDbCleanup?: NodeJS.Timeout }).nextDbCleanup;
       if (timer) clearTimeout(timer);

@@ -6,6 +6,7 @@ import type { Db } from '../db/knex';
 import { AppError, ConflictError, ForbiddenError, NotFoundError } from '../errors';
 import { isStaff } from '../http/access';
 import { audit } from '../audit/audit-log';
+import { cleanFileName } from '../http/file-names';
 import { assertMayChangeClipSettings } from '../policy/clip-settings';
 import { accessibleAthlete } from '../athletes/athlete-access';
 import { assessmentsRepository } from '../assessments/assessments-repository';
@@ -41,14 +42,6 @@ export interface UploadedFile {
   path: string;
   originalname: string;
   size: number;
-}
-
-/** Keeps a display name only: no folders, no control characters, at most 200 characters. */
-export function cleanFileName(name: string): string {
-  const base = name.replace(/\\/g, '/').split('/').pop() ?? '';
-  // eslint-disable-next-line no-control-regex
-  const clean = base.replace(/[\u0000-\u001f\u007f]/g, '').trim().slice(0, 200);
-  return clean || 'clip';
 }
 
 /** Clip upload, settings, deletion, processing and media access. */

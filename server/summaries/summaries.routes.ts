@@ -4,6 +4,7 @@ import { idParam, parse } from '../http/validate';
 import { sendPrivateFile } from '../stills/stills.routes';
 import type { SummariesService } from './summaries-service';
 import { SummaryCreateBody } from './summaries-schemas';
+import { contentDisposition } from '../http/file-names';
 
 /** Visit summaries: staff create, publish and delete; the athlete reads published ones. */
 export function summariesRoutes(summaries: SummariesService): Router {
@@ -43,7 +44,7 @@ export function summariesRoutes(summaries: SummariesService): Router {
     const download = req.query['download'] === '1';
     // Opened in a tab of our own origin (the preview); never framed elsewhere.
     res.setHeader('Content-Security-Policy', "default-src 'none'; frame-ancestors 'self'");
-    sendPrivateFile(res, next, file, 'application/pdf', `${download ? 'attachment' : 'inline'}; filename="${name}"`);
+    sendPrivateFile(res, next, file, 'application/pdf', contentDisposition(name, download ? 'attachment' : 'inline'));
   });
 
   return router;

@@ -3,7 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
 import type { Express } from 'express';
-import pino from 'pino';
+import pino, { type Logger } from 'pino';
 import { createApp } from '../../server/app';
 import { loadConfig, type Config } from '../../server/config';
 import { createDb, migrate, type Db } from '../../server/db/knex';
@@ -59,6 +59,8 @@ export interface TestApp {
 export interface TestAppOptions {
   /** Start the local fake payment service and listen on a port so its webhooks reach the app. */
   fakePayments?: boolean;
+  /** The app's logger (default: silent), for tests that read what the server logs. */
+  logger?: Logger;
 }
 
 /** A fresh app on an in-memory database with the demo scenario and a second clinic. */
@@ -77,7 +79,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
   await addOtherClinic(db);
   const mailer = new MemoryMailer();
   let offset = 0;
-  const { app, close, worker, queue } = createApp({ config, db, mailer, logger: pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
+  const { app, close, worker, queue } = createApp({ config, db, mailer, logger: options.logger ?? pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
   let listener: http.Server | null = null;
   let url: string | null = null;
   if (fakePayments) {
