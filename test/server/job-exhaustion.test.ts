@@ -171,11 +171,11 @@ describe('running out of attempts in the worker', () => {
     await t.db('jobs').where({ id: row.id }).delete();
   });
 
-  it('a graceful stop hands the running job back without using an attempt', async () => {
-    const before = subjects.length;
+  /** A worker whose handler runs until aborted; resolves once the job has started. */
+  async function workerOnBlockingJob(subject: string) {
     let started!: () => void;
     const running = new Promise<void>((r) => (started = r));
-    const id = await t.queue.enqueue(t.db, TYPE, 'test:stop', {});
+    const id = await t.queue.enqueue(t.db, TYPE, subject, {});
     const worker = startWorker({
       queue: t.queue,
       handlers: {
@@ -191,6 +191,12 @@ describe('running out of attempts in the worker', () => {
       leaseMs: 30_000,
     });
     await running;
+    return { id, worker };
+  }
+
+  it('a graceful stop hands the running job back without using an attempt', async () => {
+    const before = subjects.length;
+    const { id, worker } = await workerOnBlockingJob('test:stop');
     await worker.stop();
     expect(await t.db('jobs').where({ id }).first()).toMatchObject({ status: 'queued', attempts: 0, lease_until: null });
     expect(subjects).toHaveLength(before);
@@ -199,24 +205,7 @@ describe('running out of attempts in the worker', () => {
 
   it('a cancelled job (its subject is being deleted) fails nothing', async () => {
     const before = subjects.length;
-    let started!: () => void;
-    const running = new Promise<void>((r) => (started = r));
-    const id = await t.queue.enqueue(t.db, TYPE, 'test:cancel', {});
-    const worker = startWorker({
-      queue: t.queue,
-      handlers: {
-        [TYPE]: (_job, { signal }) =>
-          new Promise((_resolve, reject) => {
-            started();
-            signal.addEventListener('abort', () => reject(new Error('aborted')));
-          }),
-      },
-      logger: pino({ level: 'silent' }),
-      concurrency: 1,
-      pollMs: 50,
-      leaseMs: 30_000,
-    });
-    await running;
+    const { id, worker } = await workerOnBlockingJob('test:cancel');
     await t.queue.cancelSubject('test:cancel');
     worker.cancel('test:cancel');
     await worker.idle();

@@ -7,10 +7,9 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Client } from '../support/test-app';
-import { freePort, serverProcess, type ServerProcess } from '../support/server-process';
-import { createDb, migrate } from '../../server/db/knex';
-import { DEMO_SIGN_INS, seed } from '../../seeds/demo-scenario';
-import { ffprobeCounted, makeClip, tempDir } from './media/fixtures';
+import { freePort, seededDir, serverProcess, type ServerProcess } from '../support/server-process';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { ffprobeCounted, makeClip } from './media/fixtures';
 
 const [, coach] = DEMO_SIGN_INS;
 let dir: string;
@@ -21,11 +20,7 @@ const startServer = () => server.start();
 const killHard = () => server?.killHard();
 
 beforeAll(async () => {
-  ({ dir, cleanup } = await tempDir('restart'));
-  const db = createDb(path.join(dir, 'db.sqlite'));
-  await migrate(db);
-  await seed(db);
-  await db.destroy();
+  ({ dir, cleanup } = await seededDir('restart'));
   port = await freePort();
   server = serverProcess(dir, port);
 });

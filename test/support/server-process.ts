@@ -6,6 +6,19 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import net from 'node:net';
 import path from 'node:path';
+import { createDb, migrate } from '../../server/db/knex';
+import { seed } from '../../seeds/demo-scenario';
+import { tempDir } from '../server/media/fixtures';
+
+/** A temp folder with a migrated database holding the demo scenario (`db.sqlite`). */
+export async function seededDir(prefix: string): Promise<{ dir: string; cleanup: () => Promise<void> }> {
+  const folder = await tempDir(prefix);
+  const db = createDb(path.join(folder.dir, 'db.sqlite'));
+  await migrate(db);
+  await seed(db);
+  await db.destroy();
+  return folder;
+}
 
 export function freePort(): Promise<number> {
   return new Promise((resolve) => {
