@@ -289,7 +289,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await tickAllSets(page);
     await page.getByRole('radio', { name: 'Pain during 1 out of 10' }).click();
     await page.getByRole('button', { name: 'Save session' }).click();
-    await expect.poll(() => page.getByText('Not accepted: This stage is not the current stage of this plan any more.').count()).toBe(1);
+    await expect.poll(() => page.getByText('This stage is not the current stage of this plan any more.').count()).toBe(1);
     const send = page.getByRole('button', { name: /^Send the session of .* again, for today’s stage / });
     const discard = page.getByRole('button', { name: /^Discard the session of / });
     expect(await send.count()).toBe(1);
