@@ -333,7 +333,7 @@ async function seedDemoShares(knex: Knex, queue: JobQueue, who: { athleteId: num
       .insert({
         clinic_id: who.clinicId, athlete_id: who.athleteId, assessment_id: retest.visit.id, baseline_assessment_id: baseline.visit.id,
         title: 'Re-test comparison: Baseline · 6 Oct 2026 and Re-test · 24 Nov 2026',
-        findings: 'Hip extension at toe-off went from about 4° to about 11°, more than the change expected from measurement error alone. The push-off is no longer held back, and the foot now lands closer under the hip. Cadence is unchanged.',
+        findings: 'Hip extension at toe-off went from about 4° to about 11°, more than the change expected from measurement error alone: the push-off is no longer held back. The shank is a little more upright at landing, though that change is within measurement error. Cadence is unchanged.',
         plan_text: 'Carry on with stage 2 (lengthening work) as prescribed. Keep pain during exercise at 3/10 or less and settled by the next morning; sprint finishes and steep descents wait for stage 3. We re-film in six weeks.',
         still_ids: JSON.stringify([a, b]), status: 'rendering', progress: 0, published_at: who.at, published_by: who.coachId, created_by: who.coachId, created_at: who.at, updated_at: who.at,
       })
