@@ -1,22 +1,16 @@
-import type { Dose, ExerciseRegion, LoadingKind } from '../src/contracts/plans';
+import type { Dose, ExerciseWrite } from '../src/contracts/plans';
 
 /**
  * The demo clinic's exercise library. Each exercise is taken from a published rehabilitation
  * programme listed in REFERENCES.md ("Published exercise programmes") and written for Trailframe in
  * our own words: purpose, set-up and how (the steps), dose, progression (the last step), what to
  * watch (cautions), and the programme it comes from (`source`). The citations are quoted from
- * memory [mem], so every source says so.
+ * memory [mem] and their sources say so — all but Heiderscheit et al. 2011, read in the
+ * publication [pub].
  */
-export interface DemoExercise {
-  name: string;
-  purpose: string;
-  region: ExerciseRegion;
-  kind: LoadingKind;
-  dose: Dose;
-  instructions: string[];
-  cautions: string;
-  source: string;
-}
+
+/** A library exercise as the API takes it, with its source always given. */
+export type DemoExercise = Required<ExerciseWrite>;
 
 const dose = (d: Partial<Dose> & Pick<Dose, 'sets' | 'daysPerWeek'>): Dose => ({ reps: null, holdSeconds: null, tempo: null, load: null, restSeconds: null, ...d });
 
