@@ -17,8 +17,8 @@ let c: Client;
 let adaId: number;
 let baselineId: number;
 let retestId: number;
-let brunoId: number;
-let brunoBaselineId: number;
+let teodorId: number;
+let teodorBaselineId: number;
 
 const measure = (key: MeasureKey, side: Side | null, mean: number | null, unit = '°'): Measure => ({
   key, label: key, unit, side, event: null, status: mean === null ? 'not_enough_data' : 'ok', mean, sd: null, n: mean === null ? 0 : 8, values: [], derivation: '',
@@ -44,9 +44,9 @@ beforeAll(async () => {
   adaId = ada.id;
   baselineId = (await t.db('assessments').where({ athlete_id: adaId, kind: 'baseline' }).first()).id;
   retestId = (await t.db('assessments').where({ athlete_id: adaId, kind: 'retest' }).first()).id;
-  const bruno = await t.db('athletes').where({ email: 'bruno.feldhaus@runner.test' }).first();
-  brunoId = bruno.id;
-  brunoBaselineId = (await t.db('assessments').where({ athlete_id: brunoId, kind: 'baseline' }).first()).id;
+  const teodor = await t.db('athletes').where({ email: 'teodor.brannick@runner.test' }).first();
+  teodorId = teodor.id;
+  teodorBaselineId = (await t.db('assessments').where({ athlete_id: teodorId, kind: 'baseline' }).first()).id;
   await clipWith(baselineId, adaId, [measure('hip_extension_toe_off', 'right', 4), measure('knee_flexion_initial_contact', 'right', 2), measure('cadence', null, 166, 'steps/min')]);
   await clipWith(retestId, adaId, [measure('hip_extension_toe_off', 'right', 10), measure('knee_flexion_initial_contact', 'right', 4), measure('cadence', null, 172, 'steps/min')]);
   // A second re-test clip of the same side: the visit mean is the mean of the clip means.
@@ -82,13 +82,13 @@ describe('GET /api/athletes/:id/comparison', () => {
   });
 
   it('answers 422 with a clear message when the athlete has no Re-test', async () => {
-    const res = await c.get(`/api/athletes/${brunoId}/comparison`);
+    const res = await c.get(`/api/athletes/${teodorId}/comparison`);
     expect(res.status).toBe(422);
     expect(res.body.error).toMatchObject({ code: 'no_retest', message: expect.stringContaining('no Re-test assessment') });
   });
 
   it('refuses assessments of two different athletes, the same assessment twice, and malformed ids (422)', async () => {
-    const other = await c.get(`/api/athletes/${adaId}/comparison?baseline=${brunoBaselineId}&retest=${retestId}`);
+    const other = await c.get(`/api/athletes/${adaId}/comparison?baseline=${teodorBaselineId}&retest=${retestId}`);
     expect(other.status).toBe(422);
     expect(other.body.error.message).toMatch(/same athlete|this athlete/);
     const same = await c.get(`/api/athletes/${adaId}/comparison?baseline=${retestId}&retest=${retestId}`);

@@ -172,11 +172,11 @@ describe('bad input for stills', () => {
     expect(frame.status).toBe(422);
     const self = await c.post(`/api/clips/${runnerClipId}/stills`, { frameIndex: 0, caption: '', showAngles: true, pairWith: { clipId: runnerClipId, frameIndex: 0 } });
     expect(self.status).toBe(422);
-    const bruno = await t.db('athletes').where({ email: 'bruno.feldhaus@runner.test' }).first();
-    const brunoAssessment = (await c.post(`/api/athletes/${bruno.id}/assessments`, { date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null })).body.id;
-    const brunoClip = await upload(brunoAssessment, await makeClip(path.join(dir.dir, 'bruno.mp4'), { fps: 30, width: 320, height: 180, seconds: 1 }));
+    const teodor = await t.db('athletes').where({ email: 'teodor.brannick@runner.test' }).first();
+    const teodorAssessment = (await c.post(`/api/athletes/${teodor.id}/assessments`, { date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null })).body.id;
+    const teodorClip = await upload(teodorAssessment, await makeClip(path.join(dir.dir, 'teodor.mp4'), { fps: 30, width: 320, height: 180, seconds: 1 }));
     await t.worker!.idle();
-    const cross = await c.post(`/api/clips/${runnerClipId}/stills`, { frameIndex: 0, caption: '', showAngles: true, pairWith: { clipId: brunoClip, frameIndex: 0 } });
+    const cross = await c.post(`/api/clips/${runnerClipId}/stills`, { frameIndex: 0, caption: '', showAngles: true, pairWith: { clipId: teodorClip, frameIndex: 0 } });
     expect(cross.status).toBe(422);
     expect(cross.body.error.code).toBe('other_athlete');
     expect(await count()).toBe(before);
@@ -307,9 +307,9 @@ describe('visit summaries', () => {
 
   it('refuses bad input with clear errors and writes nothing', async () => {
     const before = (await t.db('visit_summaries').count<{ n: number }[]>('id as n'))[0]!.n;
-    const bruno = await t.db('athletes').where({ email: 'bruno.feldhaus@runner.test' }).first();
-    const brunoAssessment = await t.db('assessments').where({ athlete_id: bruno.id }).first();
-    const cross = await c.post(`/api/assessments/${retestId}/summaries`, { baselineAssessmentId: brunoAssessment.id, findings: '', planText: '', stillIds: [] });
+    const teodor = await t.db('athletes').where({ email: 'teodor.brannick@runner.test' }).first();
+    const teodorAssessment = await t.db('assessments').where({ athlete_id: teodor.id }).first();
+    const cross = await c.post(`/api/assessments/${retestId}/summaries`, { baselineAssessmentId: teodorAssessment.id, findings: '', planText: '', stillIds: [] });
     expect(cross.status).toBe(422);
     expect(cross.body.error.code).toBe('other_athlete');
     const long = await c.post(`/api/assessments/${retestId}/summaries`, { findings: 'x'.repeat(4001), planText: '', stillIds: [] });
