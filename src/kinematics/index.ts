@@ -5,7 +5,11 @@
  * - angles: signed segment and joint angles (DESIGN.md / REFERENCES.md conventions);
  * - pose: frame landmarks → plane poses → angles (one path for measures and overlay);
  * - events: validation, stances / flights / steps / strides, frame timing;
- * - measures: `computeClipMeasures` (every MeasureKey, mean ± sample SD, or not_enough_data);
+ * - measure-definitions: what each measure is (key, label, unit, event, per side), version, limits;
+ * - measures: `computeClipMeasures` (every MeasureKey, mean ± sample SD, or not_enough_data), built
+ *   from frame-angles (angles per frame, chart samples), angle-measures (per side at events and over
+ *   stance), step-timing (cadence, times, lengths, oscillation) and measure-context (shared
+ *   builders: mean ± SD and reference band per measure) — those four are internal;
  * - bands: cited default reference bands, `evaluateBand`, foot-strike classifier;
  * - spring-mass: the spring-mass vertical-oscillation estimate;
  * - overlay: `drawOverlay` on any Canvas-2D-like context and its pure layout.
@@ -17,6 +21,7 @@ export * from './stats';
 export * from './events';
 export * from './bands';
 export * from './spring-mass';
+export * from './measure-definitions';
 export * from './measures';
 export * from './overlay';
 export * from './comparison';
