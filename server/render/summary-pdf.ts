@@ -1,5 +1,6 @@
 import PDFDocument from 'pdfkit';
 import type { ComparisonRow, Measure } from '../../src/contracts/measures';
+import { verdictText } from '../../src/kinematics/comparison';
 import { bandRange, decimalsFor, formatMeasure, formatValue } from '../../src/kinematics/format';
 import { registerPdfFonts } from './fonts';
 
@@ -56,12 +57,6 @@ const SPRUCE = '#1F5C4A';
 const RULE = '#C9D4D0';
 const SHADE = '#EEF3F1';
 
-const VERDICT_TEXT: Record<ComparisonRow['verdict'], string> = {
-  beyond_measurement_error: 'Beyond measurement error',
-  within_measurement_error: 'Within measurement error',
-  no_threshold: 'No published threshold',
-  not_measured: 'Not measured',
-};
 
 const POSITION_TEXT = { below: 'Below', within: 'Within', above: 'Above' } as const;
 
@@ -188,7 +183,7 @@ export async function renderSummaryPdf(doc0: SummaryDocument, onProgress?: (f: n
           if (r.threshold) sources.set(r.threshold.source, `${r.threshold.source} [${r.threshold.evidence}]`);
           const label = `${r.label}${r.side ? ` (${sideWord(r.side)})` : ''}`;
           const threshold = r.threshold ? ` (threshold ${formatValue(r.threshold.value, r.threshold.unit)})` : '';
-          return [label, formatValue(r.baseline, r.unit), formatValue(r.retest, r.unit), r.change === null ? 'Not measured' : signedChange(r.change, r.unit), `${VERDICT_TEXT[r.verdict]}${threshold}`];
+          return [label, formatValue(r.baseline, r.unit), formatValue(r.retest, r.unit), r.change === null ? 'Not measured' : signedChange(r.change, r.unit), `${verdictText(r)}${threshold}`];
         }),
       );
     }

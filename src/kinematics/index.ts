@@ -11,6 +11,7 @@
  *   stance), step-timing (cadence, times, lengths, oscillation) and measure-context (shared
  *   builders: mean ± SD and reference band per measure) — those four are internal;
  * - bands: cited default reference bands, `evaluateBand`, foot-strike classifier;
+ * - visit-statistics: a visit's step-weighted means; comparison: verdicts and directions of a re-test;
  * - spring-mass: the spring-mass vertical-oscillation estimate;
  * - overlay: `drawOverlay` on any Canvas-2D-like context and its pure layout.
  */
@@ -24,5 +25,6 @@ export * from './spring-mass';
 export * from './measure-definitions';
 export * from './measures';
 export * from './overlay';
+export * from './visit-statistics';
 export * from './comparison';
 export * from './format';

@@ -31,6 +31,12 @@ export interface Ctx {
   timingNote: string;
 }
 
+/**
+ * A measure from its per-step `values`: mean ± sample SD and where the mean sits against the
+ * clinic's band, or not_enough_data with `missing` when there are no values. `n` is the number of
+ * steps behind it (default: one per value); `meanOf` replaces the plain mean of the values where
+ * the definition says otherwise (cadence = 60 ÷ mean step time, not the mean of per-step rates).
+ */
 export function build(
   ctx: Ctx,
   key: MeasureKey,
@@ -39,11 +45,12 @@ export function build(
   derivation: string,
   missing: string,
   n = values.length,
+  meanOf?: number,
 ): Measure {
   const d = MEASURE_DEFINITIONS[key];
   const base = { key, label: d.label, unit: d.unit, side, event: d.event, derivation };
   if (values.length === 0) return { ...base, status: 'not_enough_data', mean: null, sd: null, n: 0, values: [], missing };
-  const m = mean(values)!;
+  const m = meanOf ?? mean(values)!;
   const out: Measure = { ...base, status: 'ok', mean: m, sd: sampleSd(values), n, values };
   const band = findBand(ctx.input.bands, key, d.unit);
   const ev = band ? evaluateBand(m, band) : null;

@@ -8,7 +8,7 @@ import type { MeasureKey, ReferenceBand } from '../contracts/measures';
 import { UNITS } from './bands';
 
 /** Version of this implementation, stored with every measures snapshot. */
-export const KINEMATICS_VERSION = '1.0.0';
+export const KINEMATICS_VERSION = '1.1.0';
 
 /** Fewer steps than this behind a mean earn a note (Dingenen et al. 2018 averaged ≥ 7 steps). */
 export const MIN_STEPS_FOR_RELIABLE_MEAN = 7;

@@ -14,6 +14,7 @@ import type { Direction, Side } from '../contracts/assessment';
 import type { PoseAngles } from './angles';
 import { frameToPixel, isFinitePoint, type Point } from './geometry';
 import { frameAngles } from './pose';
+import { formatNumber } from './format';
 import { round1 } from './stats';
 
 /** The subset of CanvasRenderingContext2D the overlay uses (the browser's and @napi-rs/canvas fit). */
@@ -162,11 +163,12 @@ export interface OverlayLayout {
 /**
  * Label text of an angle: hip "26.6° flex" / "22.5° ext" (thigh from vertical), knee "12.5°"
  * (flexion; "−2.0°" for hyperextension), ankle "0.7° DF" / "3.2° PF". The number is the angle
- * rounded to one decimal (half away from zero), so it equals the rounded measure.
+ * rounded to one decimal by the one rule of `formatNumber` (half away from zero on the decimal
+ * text), so it equals the rounded measure in the panel, the comparison and the PDF.
  */
 export function formatAngleLabel(joint: OverlayJoint, deg: number): string {
   const r = round1(deg);
-  const abs = Math.abs(r).toFixed(1);
+  const abs = formatNumber(Math.abs(r), 1);
   if (joint === 'knee') return `${r < 0 ? '−' : ''}${abs}°`;
   if (r === 0) return `${abs}°`;
   if (joint === 'hip') return `${abs}° ${r > 0 ? 'flex' : 'ext'}`;

@@ -7,6 +7,7 @@ import type { Side } from '../contracts/assessment';
 import type { Measure, MeasureKey } from '../contracts/measures';
 import { MEASURE_DEFINITIONS, MEASURE_KEYS, OSCILLATION_MAX_GAP_FRACTION, SIDE_ORDER } from './measure-definitions';
 import { build, coverage, fmt, framesList, poseAt, type Ctx } from './measure-context';
+import { mean } from './stats';
 
 export function timingMeasures(ctx: Ctx): Measure[] {
   const { cycles, clock, input, mPerPx } = ctx;
@@ -22,17 +23,23 @@ export function timingMeasures(ctx: Ctx): Measure[] {
   const stepsMissing =
     'Needs initial contacts of both sides in turn (one side, then the other, with only that side’s toe-off between), or whole strides of one side.';
 
-  // Cadence and step time.
+  // Cadence and step time. Cadence is steps per minute: 60 ÷ the MEAN step time (with one side's
+  // contacts only, 120 ÷ the mean stride time — the same number for the same running), never the
+  // mean of per-step rates, which would change with which sides' events were marked.
+  const perStepTimes = useSteps ? stepTimes : halfStrides;
+  const meanStep = mean(perStepTimes);
   put(
     build(
       ctx,
       'cadence',
       null,
-      useSteps ? stepTimes.map((t) => 60 / t) : strideTimes.map((t) => 120 / t),
+      perStepTimes.map((t) => 60 / t),
       useSteps
-        ? `60 ÷ step time for each step (initial contact of one side → the next of the other), steps per minute. ${timing}`
-        : `Only one side's contacts form steps, so 120 ÷ stride time for each stride (two steps per stride; exact as a mean over the stride). ${timing}`,
+        ? `60 ÷ mean step time (initial contact of one side → the next of the other), steps per minute; the SD is over each step's 60 ÷ step time. ${timing}`
+        : `Only one side's contacts form steps, so 120 ÷ mean stride time (two steps per stride), steps per minute; the SD is over each stride's 120 ÷ stride time. ${timing}`,
       stepsMissing,
+      perStepTimes.length,
+      meanStep === null ? undefined : 60 / meanStep,
     ),
   );
   put(

@@ -39,8 +39,8 @@ describe('renderSummaryPdf', () => {
       ],
       measures: [],
       comparison: [
-        { key: 'hip_extension_toe_off', side: 'right', label: 'Hip extension at toe-off', unit: '°', baseline: 4, retest: 11, change: 7, threshold: hip, verdict: 'beyond_measurement_error' },
-        { key: 'cadence', side: null, label: 'Cadence', unit: 'steps/min', baseline: 170, retest: 172, change: 2, threshold: null, verdict: 'no_threshold' },
+        { key: 'hip_extension_toe_off', side: 'right', label: 'Hip extension at toe-off', unit: '°', baseline: 4, retest: 11, change: 7, threshold: hip, verdict: 'beyond_measurement_error', baselineSteps: 8, retestSteps: 8, direction: 'better', betterDirection: null },
+        { key: 'cadence', side: null, label: 'Cadence', unit: 'steps/min', baseline: 170, retest: 172, change: 2, threshold: null, verdict: 'no_threshold', baselineSteps: 8, retestSteps: 8, direction: 'larger', betterDirection: null },
       ],
       stills: [],
       findings: 'Better push-off.',
@@ -52,7 +52,7 @@ describe('renderSummaryPdf', () => {
     expect(text).toContain('Test Runner');
     expect(text).toContain('+7.0°');
     // [calc] 7° > 5.5° (half of the Damsted et al. 2015 hip prediction-interval width).
-    expect(text).toContain('Beyond measurement error (threshold 5.5°)');
+    expect(text).toContain('Beyond measurement error · better (threshold 5.5°)');
     expect(text).toContain('170 steps/min');
     expect(text).toContain('No published threshold');
     expect(text).toContain('Damsted et al. 2015');
