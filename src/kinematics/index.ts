@@ -13,7 +13,8 @@
  * - bands: cited default reference bands, `evaluateBand`, foot-strike classifier;
  * - visit-statistics: a visit's step-weighted means; comparison: verdicts and directions of a re-test;
  * - spring-mass: the spring-mass vertical-oscillation estimate;
- * - overlay: `drawOverlay` on any Canvas-2D-like context and its pure layout.
+ * - overlay: `drawOverlay` on any Canvas-2D-like context and its pure layout; overlay-ghost: the
+ *   other visit's skeleton, dashed and lighter, for the Re-test comparison.
  */
 export * from './geometry';
 export * from './angles';
@@ -25,6 +26,7 @@ export * from './spring-mass';
 export * from './measure-definitions';
 export * from './measures';
 export * from './overlay';
+export * from './overlay-ghost';
 export * from './visit-statistics';
 export * from './comparison';
 export * from './format';
