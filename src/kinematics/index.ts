@@ -26,6 +26,7 @@ export * from './spring-mass';
 export * from './measure-definitions';
 export * from './measures';
 export * from './overlay';
+export * from './overlay-labels';
 export * from './overlay-ghost';
 export * from './visit-statistics';
 export * from './comparison';

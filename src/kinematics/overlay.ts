@@ -15,6 +15,7 @@ import type { PoseAngles } from './angles';
 import { frameToPixel, isFinitePoint, type Point } from './geometry';
 import { frameAngles } from './pose';
 import { formatNumber } from './format';
+import { separateLabels } from './overlay-labels';
 import { round1 } from './stats';
 
 /** The subset of CanvasRenderingContext2D the overlay uses (the browser's and @napi-rs/canvas fit). */
@@ -318,7 +319,7 @@ export function overlayLabelPositions(opts: OverlayOptions): OverlayLayout {
       y: (a.y + b.y) / 2 + ny * off,
     };
   }
-  return { markers, segments, angles: arcs, scaleBar, style: { fontPx, font, lineWidth, markerRadius } };
+  return { markers, segments, angles: separateLabels(arcs, fontPx), scaleBar, style: { fontPx, font, lineWidth, markerRadius } };
 }
 
 function line(ctx: Canvas2DLike, x1: number, y1: number, x2: number, y2: number): void {

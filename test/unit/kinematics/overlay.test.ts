@@ -14,6 +14,7 @@ import {
   drawOverlay,
   formatAngleLabel,
   GHOST_COLOURS,
+  labelBox,
   MIN_VIEW_LABEL_PX,
   overlaySizes,
   tint,
@@ -332,5 +333,23 @@ describe('overlay sizes in view pixels (viewScale)', () => {
     expect(strokes).not.toContain(OVERLAY_COLOURS.right);
     expect(ctx.calls.filter((c) => c.op === 'fill')).toEqual([]); // hollow markers
     expect(ctx.depth).toBe(0);
+  });
+});
+
+describe('angle labels never overlap', () => {
+  it('fast-check: however small the frame is shown (labels in view pixels), no two label boxes intersect', () => {
+    const ic = [landmarksAt(0, 'right', IC_POSE as MetrePose, 'left_to_right'), landmarksAt(0, 'left', TO_POSE as MetrePose, 'left_to_right')];
+    fc.assert(
+      fc.property(fc.double({ min: 0.1, max: 2, noNaN: true }), fc.constantFrom<'near' | 'both'>('near', 'both'), (viewScale, angleSides) => {
+        const L = overlayLabelPositions({ frameSize: { width: W, height: H }, landmarks: ic, nearSide: 'right', direction: 'left_to_right', showAngles: true, viewScale, angleSides });
+        const boxes = L.angles.map((a) => labelBox(a, L.style.fontPx));
+        for (let i = 0; i < boxes.length; i++)
+          for (let j = 0; j < i; j++) {
+            const [a, b] = [boxes[i]!, boxes[j]!];
+            expect(a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom).toBe(false);
+          }
+      }),
+      { numRuns: 100 },
+    );
   });
 });

@@ -20,8 +20,8 @@ describe('trend chart', () => {
     expect(left.borderColor).toBe(OVERLAY_COLOURS.left);
     expect(left.borderDash).not.toEqual(right.borderDash);
     expect(left.pointRadius).not.toBe(right.pointRadius);
-    // The left line is drawn after the right one, on top.
-    expect(data.datasets.indexOf(left)).toBeGreaterThan(data.datasets.indexOf(right));
+    // Chart.js draws the lowest order on top: the left side's thinner dashed line over the right's.
+    expect(left.order).toBeLessThan(right.order!);
     expect(right.data).toEqual([4, 11]);
   });
 

@@ -29,14 +29,16 @@ export function trendChart(trends: MeasureTrends, keys: MeasureKey[], visitLabel
   const series = trendSeries(trends, keys);
   const units = [...new Set(series.map((s) => MEASURE_DEFINITIONS[s.key].unit))];
   const axisOf = (unit: string) => (units.indexOf(unit) === 0 ? 'y' : `y${units.indexOf(unit)}`);
-  // Right before left: the left side's smaller, dashed marks are drawn on top and stay visible.
-  const order = (s: Side | null) => (s === 'right' ? 0 : s === 'left' ? 1 : 2);
+  // Chart.js draws the first dataset (lowest `order`) on top: the left side's smaller, dashed
+  // marks go first, over the right side's wider solid ones, so equal values show both lines.
+  const order = (s: Side | null) => (s === 'left' ? 0 : s === 'right' ? 1 : 2);
   const datasets = [...series]
     .sort((a, b) => keys.indexOf(a.key) - keys.indexOf(b.key) || order(a.side) - order(b.side))
     .map((s) => {
       const def = MEASURE_DEFINITIONS[s.key];
       const style = TREND_SIDE_STYLE[s.side ?? 'both'];
       return {
+        order: order(s.side),
         label: `${def.label}${s.side ? ` (${sideText(s.side).toLowerCase()})` : ''}`,
         data: s.values,
         yAxisID: axisOf(def.unit),
