@@ -41,11 +41,12 @@ describe('compare logic', () => {
 
   it('writes values and changes with their unit', () => {
     expect(formatValue(7, '°', true)).toBe('+7.0°');
-    expect(formatValue(-2, 'steps/min', true)).toBe('−2.0 steps/min');
+    expect(formatValue(-2, 'steps/min', true)).toBe('−2 steps/min');
+    expect(formatValue(22.45, '°')).toBe('22.5°'); // the overlay label's text too (one formatter)
     expect(formatValue(4, '°')).toBe('4.0°');
     expect(formatValue(null, '°')).toBe('—');
     expect(formatValue(-0.02, '°', true)).toBe('0.0°');
-    expect(formatValue(-0.001, 's', true)).toBe('0.00 s');
+    expect(formatValue(-0.0001, 's', true)).toBe('0.000 s');
     expect(VERDICT_TEXT.no_threshold).toBe('No published threshold');
   });
 
