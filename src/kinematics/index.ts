@@ -8,7 +8,9 @@
  * - measures: `computeClipMeasures` (every MeasureKey, mean ± sample SD, or not_enough_data);
  * - bands: cited default reference bands, `evaluateBand`, foot-strike classifier;
  * - spring-mass: the spring-mass vertical-oscillation estimate;
- * - overlay: `drawOverlay` on any Canvas-2D-like context and its pure layout.
+ * - overlay: `drawOverlay` on any Canvas-2D-like context and its pure layout;
+ * - angle-gauge: three-point included angles (the Angle gauge tool), drawn by overlay-gauges;
+ * - event-names: the gait events on a frame in words ("Right toe-off · step 3").
  */
 export * from './geometry';
 export * from './angles';
@@ -21,3 +23,6 @@ export * from './measures';
 export * from './overlay';
 export * from './comparison';
 export * from './format';
+export * from './angle-gauge';
+export * from './overlay-gauges';
+export * from './event-names';
