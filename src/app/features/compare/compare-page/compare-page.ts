@@ -20,6 +20,8 @@ import type { Assessment } from '../../../../contracts/api';
 import { ASSESSMENT_KIND_LABELS, SIDES, type Side } from '../../../../contracts/assessment';
 import type { ComparisonClip, ComparisonRow, MeasureKey } from '../../../../contracts/measures';
 import { errorMessage } from '../../../core/api-error';
+import { pageTakesKey, type FocusTarget } from '../../../shared/keys/key-routing';
+import { listenToPageKeys } from '../../../shared/keys/page-keys';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentsApi } from '../../assessments/assessments-api';
@@ -29,7 +31,7 @@ import { ClipManifest, ReviewApi } from '../../review/review-api';
 import { OVERLAY_COLOURS, OVERLAY_SEGMENTS, drawOverlay } from '../../review/kinematics-adapter';
 import { openSaveStill } from '../../stills/save-still-dialog/save-still-dialog';
 import { CompareApi } from '../compare-api';
-import { CAUTION_LINE, VERDICT_TEXT, alignAtHip, citationText, defaultPair, eventFrames, formatValue, frameOfStep, landmarksAt, lastCommonStep, sideText, stepKey, trendSeries } from '../compare-logic';
+import { CAUTION_LINE, COMPARE_FRAME_KEYS, VERDICT_TEXT, alignAtHip, citationText, defaultPair, eventFrames, formatValue, frameOfStep, landmarksAt, lastCommonStep, sideText, stepKey, trendSeries } from '../compare-logic';
 
 // Only the chart.js parts this line chart uses.
 Chart.register(LineController, LineElement, PointElement, LinearScale, CategoryScale, Tooltip, Legend);
@@ -59,7 +61,6 @@ const TREND_COLOURS = ['#1f5f4a', '#E08A1E', '#7B4FD6', '#3E4C59', '#b23a48', '#
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './compare-page.html',
   styleUrl: './compare-page.scss',
-  host: { '(document:keydown)': 'onKey($event)' },
 })
 export class ComparePage {
   private readonly api = inject(CompareApi);
@@ -186,6 +187,8 @@ export class ComparePage {
   };
 
   constructor() {
+    // Before any control: a clicked toggle or button must not swallow the step keys.
+    listenToPageKeys((e, target) => this.onKey(e, target));
     effect(() => {
       const mode = this.mode();
       const base = this.baselineFrame.value();
@@ -265,13 +268,14 @@ export class ComparePage {
     });
   }
 
-  protected onKey(event: KeyboardEvent): void {
-    if (this.dialog.openDialogs.length) return;
-    const target = event.target as HTMLElement | null;
-    if (target?.closest('input, textarea, select, mat-select, [contenteditable="true"]')) return;
+  /** Every key press, heard before the focused control: the step keys move both visits. */
+  protected onKey(event: KeyboardEvent, target: FocusTarget | null): void {
+    if (event.defaultPrevented || this.dialog.openDialogs.length || event.ctrlKey || event.metaKey || event.altKey) return;
+    if (event.target instanceof HTMLElement && event.target.closest('.cdk-overlay-container')) return;
     const delta = stepKey(event.key);
-    if (!delta) return;
+    if (!delta || !pageTakesKey(event.key, target, COMPARE_FRAME_KEYS)) return;
     event.preventDefault();
+    event.stopPropagation();
     this.move(delta);
   }
 

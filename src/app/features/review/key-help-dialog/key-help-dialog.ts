@@ -11,7 +11,11 @@ import { KEY_HELP } from '../key-map';
   template: `
     <h2 mat-dialog-title>Keyboard</h2>
     <mat-dialog-content>
-      <p class="intro">Keys work while the focus is not in a text field. On a Mac, use ⌘ for Ctrl.</p>
+      <p class="intro">
+        Keys work while the focus is not in a text field; the frame keys (← →, Home, End, [ ], Space, comma and full
+        stop) step frames even after you click a tab, toggle or button. The mouse wheel scrolls the page: to zoom the
+        frame, hold Ctrl (⌘ on a Mac) while scrolling, pinch, or use + and −. On a Mac, use ⌘ for Ctrl.
+      </p>
       <div class="groups">
         @for (group of groups; track group.title) {
           <section>
