@@ -2,7 +2,8 @@
  * Compare visits in Debian chromium: two synthetic runner clips (a test fixture with known joint
  * angles — not a published source; ~4° and ~11° hip extension at toe-off) marked on every frame
  * through the API, one on the Baseline and one on the Re-test. The coach opens "Compare visits",
- * sees both frames at the same initial contact, steps with ] and [, switches to the overlay, reads
+ * sees both frames at the same initial contact, steps with ] and [ (and ← → after clicking a
+ * toggle), switches to the overlay, reads
  * the hip-extension change as beyond measurement error ([calc] half of Damsted et al. 2015's 11°
  * hip width = 5.5°) and sees the trend chart and the caution line.
  */
@@ -55,6 +56,13 @@ describe('compare visits', () => {
     await expect.poll(stepText).toMatch(/^Step 2 of/);
     await page.keyboard.press('[');
     await expect.poll(stepText).toMatch(/^Step 1 of/);
+    // After a click on a toggle the arrows still step both visits (the toggle does not take them).
+    await page.getByRole('radio', { name: 'Right' }).click();
+    await page.keyboard.press('ArrowRight');
+    await expect.poll(stepText).toMatch(/^Step 2 of/);
+    await page.keyboard.press('ArrowLeft');
+    await expect.poll(stepText).toMatch(/^Step 1 of/);
+    expect(await page.getByRole('radio', { name: 'Right' }).getAttribute('aria-checked')).toBe('true');
     await page.screenshot({ path: path.join(SCREENSHOTS, 'compare-side-by-side.png'), fullPage: true });
 
     await page.getByRole('radio', { name: 'Overlay' }).or(page.getByRole('button', { name: 'Overlay' })).first().click();

@@ -72,10 +72,10 @@ export const KEY_HELP: KeyHelpGroup[] = [
       { keys: ['S'], does: 'Switch side (left / right)' },
       { keys: ['I', 'M', 'O'], does: 'Mark or unmark Initial contact / Midstance / Toe-off on this frame' },
       { keys: ['C'], does: 'Copy the points of the nearest earlier marked frame' },
-      { keys: ['Delete'], does: 'Remove the selected point' },
+      { keys: ['Delete'], does: 'Remove the selected point or angle gauge' },
       { keys: ['Ctrl + Z'], does: 'Undo' },
       { keys: ['Ctrl + Shift + Z', 'Ctrl + Y'], does: 'Redo' },
-      { keys: ['Esc'], does: 'Deselect, or stop drawing the scale bar' },
+      { keys: ['Esc'], does: 'Deselect, or stop drawing the scale bar or an angle gauge' },
     ],
   },
   {

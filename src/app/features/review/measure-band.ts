@@ -30,7 +30,8 @@ export function bandLine(m: Pick<Measure, 'key' | 'unit' | 'status' | 'band'>, b
   const band = evaluated?.band ?? m.band?.band ?? findBand(bands, m.key, m.unit);
   if (!band) return null;
   const range = bandRange(band);
-  const source = `${band.source} · ${EVIDENCE_LABELS[band.evidence] ?? band.evidence}`;
+  const evidence = EVIDENCE_LABELS[band.evidence] ?? band.evidence;
+  const source = band.source.startsWith(evidence) ? band.source : `${band.source} · ${evidence}`;
   if (!evaluated) return { icon: null, text: `Reference band ${range}`, outside: false, context: band.context, source };
   const flag = bandFlag(evaluated);
   return { icon: flag.icon, text: `${flag.text} ${range}`, outside: flag.outside, context: band.context, source };
