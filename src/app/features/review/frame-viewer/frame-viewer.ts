@@ -17,8 +17,8 @@ import { LANDMARK_LABELS } from '../../../../contracts/annotations';
 import { eventNamesAt } from '../../../../kinematics/event-names';
 import { GaugeHandleRef, gaugeHandleCandidates } from '../gauge-ops';
 import { GaugeTool } from '../gauge-tool';
+import { paintFrame } from './frame-painter';
 import { HitCandidate, LandmarkRef, hitTest, hitTolerancePx, landmarkCandidates } from '../hit-test';
-import { drawOverlay } from '../kinematics-adapter';
 import { ReviewStore } from '../review-store';
 import { MIN_SCALE_LINE_PX, scaleLengthPx } from '../scale-bar';
 import {
@@ -27,7 +27,6 @@ import {
   ViewTransform,
   clampPan,
   fitTransform,
-  frameFractionToViewFraction,
   fractionToScreen,
   isOnFrame,
   panBy,
@@ -53,13 +52,9 @@ type Gesture =
 const TAP_SLOP_PX = 6;
 /** How far a press on a marker must move before it drags the marker (fingers wobble more). */
 const DRAG_SLOP_PX: Record<string, number> = { mouse: 2, pen: 4, touch: 8 };
-/** Marker radius on screen, CSS px (constant at any zoom). */
-const MARKER_PX = 6;
-const FONT = '"Source Sans 3", sans-serif';
 /** How long the "how to zoom" hint stays after a plain wheel turn over the frame, ms. */
 const WHEEL_HINT_MS = 1800;
-/** Id of the gauge being placed, drawn like a gauge while the last point follows the pointer. */
-const DRAFT_GAUGE_ID = 'draft';
+
 
 /**
  * The frame on a canvas with the overlay. Draws the cached bitmap of the current frame (or the
@@ -197,118 +192,26 @@ export class FrameViewer {
 
   /** Draws the frame and overlay now. */
   draw(): void {
-    const canvas = this.canvasRef().nativeElement;
-    const ctx = canvas.getContext('2d');
-    const size = this.viewSize();
-    if (!ctx || size.width <= 0 || size.height <= 0) return;
-    const dpr = globalThis.devicePixelRatio || 1;
-    const w = Math.round(size.width * dpr);
-    const h = Math.round(size.height * dpr);
-    if (canvas.width !== w || canvas.height !== h) {
-      canvas.width = w;
-      canvas.height = h;
-    }
-    ctx.setTransform(1, 0, 0, 1, 0, 0);
-    ctx.fillStyle = '#1e2422';
-    ctx.fillRect(0, 0, w, h);
-
     const store = this.store;
-    const frame = store.frameSize();
-    if (frame.width <= 0) return;
-    const t = this.view();
-    const f = store.frame();
-    const cache = store.cache();
-    const exact = cache?.get(f) ?? null;
-    const shown = exact ?? cache?.nearest(f)?.bitmap ?? null;
-
-    ctx.setTransform(dpr * t.scale, 0, 0, dpr * t.scale, dpr * t.tx, dpr * t.ty);
-    ctx.imageSmoothingEnabled = t.scale < 3;
-    if (shown) {
-      ctx.drawImage(shown, 0, 0, frame.width, frame.height);
-      if (!exact) {
-        ctx.fillStyle = 'rgba(20, 24, 23, 0.45)';
-        ctx.fillRect(0, 0, frame.width, frame.height);
-      }
-    } else {
-      ctx.fillStyle = '#2b3230';
-      ctx.fillRect(0, 0, frame.width, frame.height);
-    }
-
-    // The overlay is drawn in view space (the view standing in for the frame), so markers, lines
-    // and labels keep their size on screen at any zoom; see frameFractionToViewFraction.
-    ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
-    const toView = (p: FramePoint) => frameFractionToViewFraction(t, frame, size, p);
-    const scale = store.annotations().scale;
-    const showScale = scale && (store.tool() === 'scale' || scale.frame === f) ? scale : null;
-    drawOverlay(ctx, {
-      frameSize: size,
-      landmarks: store.frameRows().map((row) => ({
-        ...row,
-        points: Object.fromEntries(Object.entries(row.points).map(([name, p]) => [name, toView(p)])),
-      })),
+    paintFrame(this.canvasRef().nativeElement, {
+      view: this.view(),
+      viewSize: this.viewSize(),
+      frameSize: store.frameSize(),
+      frame: store.frame(),
+      cache: store.cache(),
+      rows: store.frameRows(),
       nearSide: store.nearSide(),
       direction: store.direction(),
       showAngles: store.showAngles(),
       selected: store.selected(),
-      scale: showScale ? { ...showScale, a: toView(showScale.a), b: toView(showScale.b) } : null,
-      gauges: this.shownGauges().map((g) => ({ ...g, a: toView(g.a), vertex: toView(g.vertex), b: toView(g.b) })),
-      selectedGauge: this.gauges.selected() ?? DRAFT_GAUGE_ID,
-      fontFamily: FONT,
-      markerRadiusPx: MARKER_PX,
+      scale: store.annotations().scale,
+      scaleTool: store.tool() === 'scale',
+      scaleDraft: store.scaleDraft(),
+      gauges: this.gauges.frameGauges(),
+      selectedGauge: this.gauges.selected(),
+      gaugeDraft: this.gauges.draftPoints(),
+      hover: this.gauges.hover(),
     });
-    const [first, vertex] = this.gauges.draftPoints();
-    const hover = this.gauges.hover();
-    if (first && !(vertex && hover)) {
-      // A gauge being placed: its first arm so far (it becomes a gauge once the vertex is down).
-      ctx.setTransform(dpr * t.scale, 0, 0, dpr * t.scale, dpr * t.tx, dpr * t.ty);
-      this.drawDraft(ctx, first, vertex ?? hover ?? first, frame, t.scale);
-    }
-
-    const draft = store.scaleDraft();
-    if (draft) {
-      ctx.setTransform(dpr * t.scale, 0, 0, dpr * t.scale, dpr * t.tx, dpr * t.ty);
-      this.drawDraft(ctx, draft.a, draft.b, frame, t.scale);
-    }
-  }
-
-  /** This frame's gauges, with the one being placed when it has its vertex. */
-  private shownGauges(): AngleGauge[] {
-    const [a, vertex] = this.gauges.draftPoints();
-    const hover = this.gauges.hover();
-    const saved = this.gauges.frameGauges();
-    return a && vertex && hover ? [...saved, { id: DRAFT_GAUGE_ID, frame: this.store.frame(), a, vertex, b: hover }] : saved;
-  }
-
-  private drawDraft(ctx: CanvasRenderingContext2D, a: FramePoint, b: FramePoint, frame: Size, scale: number): void {
-    const ax = a.x * frame.width;
-    const ay = a.y * frame.height;
-    const bx = b.x * frame.width;
-    const by = b.y * frame.height;
-    ctx.save();
-    ctx.lineWidth = 4 / scale;
-    ctx.strokeStyle = 'rgba(0, 0, 0, 0.6)';
-    ctx.beginPath();
-    ctx.moveTo(ax, ay);
-    ctx.lineTo(bx, by);
-    ctx.stroke();
-    ctx.lineWidth = 2 / scale;
-    ctx.strokeStyle = '#ffffff';
-    ctx.setLineDash([8 / scale, 5 / scale]);
-    ctx.stroke();
-    ctx.setLineDash([]);
-    for (const [x, y] of [
-      [ax, ay],
-      [bx, by],
-    ]) {
-      ctx.beginPath();
-      ctx.arc(x, y, MARKER_PX / scale, 0, Math.PI * 2);
-      ctx.fillStyle = '#ffffff';
-      ctx.fill();
-      ctx.lineWidth = 2 / scale;
-      ctx.strokeStyle = '#1f5f4a';
-      ctx.stroke();
-    }
-    ctx.restore();
   }
 
   private measure(): void {
