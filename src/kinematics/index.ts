@@ -15,6 +15,8 @@
  * - spring-mass: the spring-mass vertical-oscillation estimate;
  * - overlay: `drawOverlay` on any Canvas-2D-like context and its pure layout; overlay-ghost: the
  *   other visit's skeleton, dashed and lighter, for the Re-test comparison.
+ * - angle-gauge: three-point included angles (the Angle gauge tool), drawn by overlay-gauges;
+ * - event-names: the gait events on a frame in words ("Right toe-off · step 3").
  */
 export * from './geometry';
 export * from './angles';
@@ -31,3 +33,6 @@ export * from './overlay-ghost';
 export * from './visit-statistics';
 export * from './comparison';
 export * from './format';
+export * from './angle-gauge';
+export * from './overlay-gauges';
+export * from './event-names';

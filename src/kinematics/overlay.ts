@@ -9,10 +9,11 @@
  * the running direction → signed angles), so a label at an event frame equals that step's value
  * in the measures, rounded to one decimal.
  */
-import type { FrameLandmarks, LandmarkName, ScaleBar } from '../contracts/annotations';
+import type { AngleGauge, FrameLandmarks, LandmarkName, ScaleBar } from '../contracts/annotations';
 import type { Direction, Side } from '../contracts/assessment';
 import type { PoseAngles } from './angles';
 import { frameToPixel, isFinitePoint, type Point } from './geometry';
+import { drawGauges, gaugeLayout, type OverlayGauge } from './overlay-gauges';
 import { frameAngles } from './pose';
 import { formatNumber } from './format';
 import { separateLabels } from './overlay-labels';
@@ -72,6 +73,10 @@ export interface OverlayOptions {
    * readable labels. Without it sizes follow the frame (stills, the review at 100 %).
    */
   viewScale?: number;
+  /** Angle gauges of the frame being drawn (drawn whether or not `showAngles`). */
+  gauges?: readonly AngleGauge[];
+  /** The gauge being edited, highlighted. */
+  selectedGauge?: string | null;
 }
 
 /** Label size in view pixels when `viewScale` is given. */
@@ -190,6 +195,7 @@ export interface OverlayLayout {
   segments: OverlaySegment[];
   angles: OverlayAngle[];
   scaleBar: { x1: number; y1: number; x2: number; y2: number; tick: number; text: string; x: number; y: number } | null;
+  gauges: OverlayGauge[];
   style: { fontPx: number; font: string; lineWidth: number; markerRadius: number };
 }
 
@@ -319,7 +325,8 @@ export function overlayLabelPositions(opts: OverlayOptions): OverlayLayout {
       y: (a.y + b.y) / 2 + ny * off,
     };
   }
-  return { markers, segments, angles: separateLabels(arcs, fontPx), scaleBar, style: { fontPx, font, lineWidth, markerRadius } };
+  const gauges = gaugeLayout(opts.gauges ?? [], frameSize, fontPx, opts.selectedGauge ?? null);
+  return { markers, segments, angles: separateLabels(arcs, fontPx), scaleBar, gauges, style: { fontPx, font, lineWidth, markerRadius } };
 }
 
 function line(ctx: Canvas2DLike, x1: number, y1: number, x2: number, y2: number): void {
@@ -342,8 +349,8 @@ function label(ctx: Canvas2DLike, text: string, x: number, y: number, align: Ove
 /**
  * Draws markers (circles with a contrasting outline), segments (trunk slate; limbs violet left,
  * amber right; far side lighter and thinner), the selected-landmark highlight, angle arcs with
- * degree labels, and the scale bar with its length — in frame pixels on any {@link Canvas2DLike}.
- * Leaves the context's state as it found it (save/restore).
+ * degree labels, the scale bar with its length and the angle gauges with their values — in frame
+ * pixels on any {@link Canvas2DLike}. Leaves the context's state as it found it (save/restore).
  */
 export function drawOverlay(ctx: Canvas2DLike, opts: OverlayOptions): void {
   const L = overlayLabelPositions(opts);
@@ -443,5 +450,8 @@ export function drawOverlay(ctx: Canvas2DLike, opts: OverlayOptions): void {
     }
     label(ctx, sb.text, sb.x, sb.y, 'center', Math.max(2, fontPx * 0.25));
   }
+
+  // 6. Angle gauges.
+  drawGauges(ctx, L.gauges, L.style);
   ctx.restore();
 }

@@ -3,7 +3,8 @@
  * angles — not a published source; ~4° and ~11° hip extension at toe-off, 6 s: 8 toe-offs a side,
  * past the 7 steps of Dingenen et al. 2018 [pub]) marked on every frame through the API, one on
  * the Baseline and one on the Re-test. The coach opens "Compare visits", which opens at toe-off;
- * sees both frames at the same toe-off with labels of at least 12 CSS px, steps with ] and [,
+ * sees both frames at the same toe-off with labels of at least 12 CSS px, steps with ] and [ (and
+ * ← → after clicking a toggle),
  * switches to the overlay (both skeletons and a legend), reads the hip-extension change as beyond
  * measurement error and better ([calc] half of Damsted et al. 2015's 11° hip width = 5.5°; more
  * extension toward the textbook ~10° [trade]) and sees the trend chart with its unit and the
@@ -69,6 +70,13 @@ describe('compare visits', () => {
       await expect.poll(stepText).toMatch(/^Step 2 of/);
       await page.keyboard.press('[');
       await expect.poll(stepText).toMatch(/^Step 1 of/);
+      // After a click on a toggle the arrows still step both visits (the toggle does not take them).
+      await page.getByRole('radio', { name: 'Right' }).click();
+      await page.keyboard.press('ArrowRight');
+      await expect.poll(stepText).toMatch(/^Step 2 of/);
+      await page.keyboard.press('ArrowLeft');
+      await expect.poll(stepText).toMatch(/^Step 1 of/);
+      expect(await page.getByRole('radio', { name: 'Right' }).getAttribute('aria-checked')).toBe('true');
       await page.locator('.canvases').scrollIntoViewIfNeeded();
       await page.screenshot({ path: path.join(SCREENSHOTS, `compare-side-by-side-${tag}.png`), fullPage: true });
 

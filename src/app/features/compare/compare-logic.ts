@@ -40,9 +40,28 @@ export function lastCommonStep(a: number[], b: number[]): number {
   return Math.min(a.length, b.length) - 1;
 }
 
-/** Our own keys for stepping together: [ previous, ] next. */
-export function stepKey(key: string): -1 | 1 | 0 {
-  return key === '[' ? -1 : key === ']' ? 1 : 0;
+/**
+ * Keys that step both visits together; outside text fields they always do, whatever control was
+ * clicked last (see `shared/keys/key-routing.ts`).
+ */
+export const COMPARE_FRAME_KEYS: ReadonlySet<string> = new Set(['[', ']', 'ArrowLeft', 'ArrowRight', 'Home', 'End']);
+
+/** Steps to move for a key: [ or ← previous, ] or → next, Home first, End last (±Infinity); 0 otherwise. */
+export function stepKey(key: string): number {
+  switch (key) {
+    case '[':
+    case 'ArrowLeft':
+      return -1;
+    case ']':
+    case 'ArrowRight':
+      return 1;
+    case 'Home':
+      return -Infinity;
+    case 'End':
+      return Infinity;
+    default:
+      return 0;
+  }
 }
 
 /** Rows (both sides) of landmarks on one frame. */

@@ -20,6 +20,8 @@ import type { Assessment } from '../../../../contracts/api';
 import { ASSESSMENT_KIND_LABELS, SIDES, type Side } from '../../../../contracts/assessment';
 import type { ComparisonClip, ComparisonRow, MeasureKey } from '../../../../contracts/measures';
 import { errorMessage } from '../../../core/api-error';
+import { pageTakesKey, type FocusTarget } from '../../../shared/keys/key-routing';
+import { listenToPageKeys } from '../../../shared/keys/page-keys';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentsApi } from '../../assessments/assessments-api';
@@ -30,7 +32,7 @@ import { GHOST_COLOURS, OVERLAY_COLOURS } from '../../../../kinematics';
 import { openSaveStill } from '../../stills/save-still-dialog/save-still-dialog';
 import { CompareApi } from '../compare-api';
 import { drawCompareFrame } from '../compare-canvas';
-import { CAUTION_LINE, alignAtHip, citationText, defaultPair, eventFrames, formatValue, frameOfStep, landmarksAt, lastCommonStep, sideText, stepKey, verdictText } from '../compare-logic';
+import { CAUTION_LINE, COMPARE_FRAME_KEYS, alignAtHip, citationText, defaultPair, eventFrames, formatValue, frameOfStep, landmarksAt, lastCommonStep, sideText, stepKey, verdictText } from '../compare-logic';
 import { TREND_SIDE_STYLE, trendChart, unitTitle } from '../trend-chart';
 
 // Only the chart.js parts this line chart uses.
@@ -59,7 +61,6 @@ interface ShownFrame {
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './compare-page.html',
   styleUrl: './compare-page.scss',
-  host: { '(document:keydown)': 'onKey($event)' },
 })
 export class ComparePage {
   private readonly api = inject(CompareApi);
@@ -177,6 +178,8 @@ export class ComparePage {
   private readonly viewWidth = signal(0);
 
   constructor() {
+    // Before any control: a clicked toggle or button must not swallow the step keys.
+    listenToPageKeys((e, target) => this.onKey(e, target));
     const resize = new ResizeObserver((entries) => this.viewWidth.set(Math.round(entries[0]?.contentRect.width ?? 0)));
     inject(DestroyRef).onDestroy(() => resize.disconnect());
     let watched: Element | null = null;
@@ -239,13 +242,14 @@ export class ComparePage {
     });
   }
 
-  protected onKey(event: KeyboardEvent): void {
-    if (this.dialog.openDialogs.length) return;
-    const target = event.target as HTMLElement | null;
-    if (target?.closest('input, textarea, select, mat-select, [contenteditable="true"]')) return;
+  /** Every key press, heard before the focused control: the step keys move both visits. */
+  protected onKey(event: KeyboardEvent, target: FocusTarget | null): void {
+    if (event.defaultPrevented || this.dialog.openDialogs.length || event.ctrlKey || event.metaKey || event.altKey) return;
+    if (event.target instanceof HTMLElement && event.target.closest('.cdk-overlay-container')) return;
     const delta = stepKey(event.key);
-    if (!delta) return;
+    if (!delta || !pageTakesKey(event.key, target, COMPARE_FRAME_KEYS)) return;
     event.preventDefault();
+    event.stopPropagation();
     this.move(delta);
   }
 
