@@ -19,7 +19,6 @@ import { passwordResetsService } from './auth/password-resets-service';
 import { staffRoutes } from './staff/staff.routes';
 import { athletesService } from './athletes/athletes-service';
 import { athletesRoutes } from './athletes/athletes.routes';
-import { mailboxRoutes } from './mail/mailbox.routes';
 import { localMediaStore, type MediaStore } from './storage/media-store';
 import { sqliteJobQueue } from './jobs/job-queue';
 import { startWorker, type Worker } from './jobs/worker';
@@ -59,6 +58,8 @@ export interface AppDeps {
   store?: MediaStore;
   /** Card payment; defaults to the provider's SDK per `config.payments` (null: not configured). */
   payments?: Payments | null;
+  /** Address of the demo inbox (127.0.0.1 only), told to the app's pages in demo mode; null when none runs. */
+  demoInboxUrl?: string | null;
 }
 
 export interface App {
@@ -228,7 +229,7 @@ export function createApp(deps: AppDeps): App {
     res.json({ ok: true });
   });
   api.get('/config', (_req, res) => {
-    const body: AppConfig = { demoMode: config.demoMode, version: VERSION, uploadMaxBytes: config.uploadMaxBytes };
+    const body: AppConfig = { demoMode: config.demoMode, version: VERSION, uploadMaxBytes: config.uploadMaxBytes, demoInboxUrl: (config.demoMode && deps.demoInboxUrl) || null };
     res.json(body);
   });
   api.use(authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, resetLimiter, clock }));
@@ -244,7 +245,6 @@ export function createApp(deps: AppDeps): App {
   api.use(summariesRoutes(summaries));
   api.use(portalSharedRoutes({ stills, summaries }));
   api.use(billingRoutes(billing));
-  if (config.demoMode) api.use(mailboxRoutes(db));
   api.use(apiNotFound);
 
   app.use('/api', (_req, res, next) => {

@@ -16,7 +16,7 @@ export interface Config {
   secureCookies: boolean;
   /** Express `trust proxy` setting; `false` when not behind a proxy. */
   trustProxy: boolean | number | string;
-  /** Whether demo helpers are on: fake SMTP receiver, owner's Mailbox page, demo sign-ins. */
+  /** Whether demo helpers are on: fake SMTP receiver, demo inbox, demo sign-ins. */
   demoMode: boolean;
   logLevel: string;
   mail: {
@@ -29,6 +29,11 @@ export interface Config {
   };
   /** Port of the local fake SMTP receiver started in demo mode (0 = any free port). */
   fakeSmtpPort: number;
+  /**
+   * Port of the demo inbox (127.0.0.1 only, outside the app's sign-in) that shows what the fake
+   * SMTP receiver caught; null when there is none (demo mode off, or a real SMTP relay set).
+   */
+  demoInboxPort: number | null;
   rateLimit: {
     /** Failed sign-in attempts allowed per client address per window. */
     signInAttempts: number;
@@ -79,6 +84,7 @@ const EnvSchema = z.object({
   SMTP_PASS: z.string().optional(),
   MAIL_FROM: z.string().default('Trailframe <no-reply@trailframe.test>'),
   FAKE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
+  DEMO_INBOX_PORT: z.coerce.number().int().min(0).max(65535).default(2580),
   SIGN_IN_ATTEMPTS: z.coerce.number().int().min(1).default(10),
   RESET_REQUESTS: z.coerce.number().int().min(1).default(5),
   RATE_WINDOW_MINUTES: z.coerce.number().int().min(1).default(15),
@@ -133,6 +139,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
       pass: e.SMTP_PASS ?? null,
     },
     fakeSmtpPort: e.FAKE_SMTP_PORT,
+    demoInboxPort: e.DEMO_MODE && e.SMTP_PORT === undefined ? e.DEMO_INBOX_PORT : null,
     rateLimit: {
       signInAttempts: e.SIGN_IN_ATTEMPTS,
       resetRequests: e.RESET_REQUESTS,

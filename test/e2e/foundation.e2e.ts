@@ -1,7 +1,7 @@
 /**
  * Foundation journey in Debian chromium: a coach adds an athlete, fills the intake and invites
  * them; the athlete joins through the link in the e-mail caught by the fake SMTP receiver and sees
- * only their own profile.
+ * only their own profile. The e-mail is read in the demo inbox (127.0.0.1, outside the app).
  */
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -123,14 +123,21 @@ describe('foundation journey', () => {
     await context.close();
   });
 
-  it('the owner reads the invitation in the demo Mailbox', async () => {
+  it('the demo inbox on 127.0.0.1 shows the invitation; the app itself has no mailbox', async () => {
+    const inbox = h.server.inboxUrl!;
+    expect(inbox).toMatch(/^http:\/\/127\.0\.0\.1:\d+$/);
     const { page, context, problems } = await h.newPage();
+    await page.goto(inbox);
+    await page.getByRole('link', { name: /invited to Larchwood/ }).first().click();
+    await expect.poll(() => page.getByText(`${h.baseUrl}/invitation/`).count()).toBeGreaterThan(0);
+    expect(await page.getByText(email).count()).toBeGreaterThan(0);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'demo-inbox.png'), fullPage: true });
+
     await signIn(page, owner.email, owner.password);
     await page.waitForURL(/\/athletes$/);
-    await page.getByRole('link', { name: 'Mailbox' }).click();
-    await expect.poll(() => page.getByText(email).count()).toBeGreaterThan(0);
-    await page.screenshot({ path: path.join(SCREENSHOTS, 'mailbox.png'), fullPage: true });
-    expect(problems).toEqual([]);
+    expect(await page.getByRole('link', { name: 'Mailbox' }).count()).toBe(0);
+    expect(await page.evaluate(async () => (await fetch('/api/mailbox')).status)).toBe(404);
+    expect(problems.filter((p) => !p.includes('404'))).toEqual([]);
     await context.close();
   });
 });

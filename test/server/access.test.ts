@@ -9,6 +9,7 @@ import type { Express } from 'express';
 import { makeClip, tempDir } from './media/fixtures';
 import { Client, makeTestApp, OTHER, signedIn, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { listRoutes } from '../support/routes';
 
 type Who = 'anonymous' | 'athleteSelf' | 'athleteOther' | 'coach' | 'coachOtherClinic' | 'owner';
 const WHO: Who[] = ['anonymous', 'athleteSelf', 'athleteOther', 'coach', 'coachOtherClinic', 'owner'];
@@ -19,7 +20,6 @@ interface Ctx {
   /** An athlete of the same clinic, not the signed-in athlete. */
   otherAthleteId: number;
   pendingInvitationId: number;
-  mailId: number;
   /** The self athlete's assessment, with a ready clip. */
   assessmentId: number;
   /** An assessment of another athlete of the same clinic. */
@@ -82,8 +82,6 @@ const ROUTES: RouteCase[] = [
   { method: 'post', pattern: '/api/password-resets', path: () => '/api/password-resets', body: () => ({ email: 'nobody@nowhere.test' }), expect: all(202) },
   { method: 'get', pattern: '/api/password-resets/:token', path: () => `/api/password-resets/${'u'.repeat(43)}`, expect: all(404) },
   { method: 'post', pattern: '/api/password-resets/:token', path: () => `/api/password-resets/${'u'.repeat(43)}`, body: () => ({ password: 'long-enough-pw' }), expect: all(404) },
-  { method: 'get', pattern: '/api/mailbox', path: () => '/api/mailbox', expect: ownerOnly(200) },
-  { method: 'get', pattern: '/api/mailbox/:id', path: (c) => `/api/mailbox/${c.mailId}`, expect: ownerOnly(200) },
   { method: 'post', pattern: '/api/auth/sign-in', path: () => '/api/auth/sign-in', body: () => ({ email: 'nobody@nowhere.test', password: 'x' }), expect: all(401) },
   { method: 'get', pattern: '/api/athletes/:id/assessments', path: (c) => `/api/athletes/${c.selfAthleteId}/assessments`, expect: selfAndStaff(200) },
   { method: 'post', pattern: '/api/athletes/:id/assessments', path: (c) => `/api/athletes/${c.otherAthleteId}/assessments`, body: () => assessment, expect: staffWrite(201) },
@@ -239,9 +237,7 @@ beforeAll(async () => {
   t = await makeTestApp({ rateLimit: { signInAttempts: 1000, resetRequests: 1000, windowMs: 60_000 } }, { fakePayments: true });
   const self = await t.db('athletes').where({ email: athlete.email }).first();
   const other = await t.db('athletes').where({ email: 'bruno.feldhaus@runner.test' }).first();
-  await t.db('mailbox_messages').insert({ to_address: 'a@x.test', from_address: 'b@x.test', subject: 'hi', text: 'hello', received_at: new Date().toISOString() });
-  const mail = await t.db('mailbox_messages').first();
-  ctx = { selfAthleteId: self.id, otherAthleteId: other.id, pendingInvitationId: 0, mailId: mail.id, assessmentId: 0, otherAssessmentId: 0, clipId: 0, scratchAssessmentId: 0, scratchClipId: 0 };
+  ctx = { selfAthleteId: self.id, otherAthleteId: other.id, pendingInvitationId: 0, assessmentId: 0, otherAssessmentId: 0, clipId: 0, scratchAssessmentId: 0, scratchClipId: 0 };
   coachClient = await clientFor(t.app, 'coach');
   ctx.assessmentId = (await coachClient.post(`/api/athletes/${self.id}/assessments`, assessment)).body.id;
   ctx.otherAssessmentId = (await coachClient.post(`/api/athletes/${other.id}/assessments`, assessment)).body.id;
@@ -294,27 +290,6 @@ describe('access walk: every route × every caller', () => {
     expect(missing).toEqual([]);
   });
 });
-
-/** Reads `METHOD /api/path` for every route registered under the API router. */
-function listRoutes(app: Express): string[] {
-  const out: string[] = [];
-  type Layer = { route?: { path: string; methods: Record<string, boolean> }; handle?: { stack?: Layer[] }; name?: string; matchers?: unknown };
-  const walk = (stack: Layer[], prefix: string) => {
-    for (const layer of stack) {
-      if (layer.route) {
-        for (const m of Object.keys(layer.route.methods)) out.push(`${m.toUpperCase()} ${prefix}${layer.route.path}`);
-      } else if (layer.handle?.stack) {
-        walk(layer.handle.stack, prefix);
-      }
-    }
-  };
-  const router = (app as unknown as { router: { stack: Layer[] } }).router;
-  // The API router is mounted at /api; the client-app router has no API routes.
-  for (const layer of router.stack) {
-    if (layer.handle?.stack) walk(layer.handle.stack, '/api');
-  }
-  return [...new Set(out)].filter((r) => !r.includes('/api/*') && !r.includes('(?!'));
-}
 
 // ─── Plans fixtures ───────────────────────────────────────────────────────────────────────
 

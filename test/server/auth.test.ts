@@ -113,7 +113,7 @@ describe('HTTP hygiene', () => {
   it('sends a CSP that allows only self, and no x-powered-by', async () => {
     const res = await request(t.app).get('/api/config');
     expect(res.status).toBe(200);
-    expect(res.body).toEqual({ demoMode: true, version: expect.any(String), uploadMaxBytes: 2048 * 1024 * 1024 });
+    expect(res.body).toEqual({ demoMode: true, version: expect.any(String), uploadMaxBytes: 2048 * 1024 * 1024, demoInboxUrl: null });
     const csp = res.headers['content-security-policy'] as string;
     expect(csp).toContain("default-src 'self'");
     expect(csp).toContain("script-src 'self'");
