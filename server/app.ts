@@ -1,16 +1,15 @@
 import express, { type Express } from 'express';
-import session from 'express-session';
 import helmet from 'helmet';
 import { rateLimit } from 'express-rate-limit';
 import { pinoHttp } from 'pino-http';
 import type { Logger } from 'pino';
-import { ConnectSessionKnexStore } from 'connect-session-knex';
 import type { AppConfig } from '../src/contracts/api';
 import type { Config } from './config';
 import type { Db } from './db/knex';
 import type { Mailer } from './mail/mailer';
 import { AppError, apiNotFound, errorHandler } from './errors';
 import { createCsrf } from './http/csrf';
+import { createSessions } from './http/sessions';
 import { clientAppRoutes, newNonce } from './http/client-app';
 import { createPassport } from './auth/passport-setup';
 import { authRoutes } from './auth/auth.routes';
@@ -66,6 +65,8 @@ export interface App {
   app: Express;
   /** The in-process job worker, or null when `config.runWorker` is off. */
   worker: Worker | null;
+  /** Deletes expired session rows now (they are also cleared at start and every 15 minutes); answers how many. */
+  clearExpiredSessions(): Promise<number>;
   /** Stops the worker (aborting running jobs) and timers the app started. */
   close(): Promise<void>;
 }
@@ -149,23 +150,14 @@ export function createApp(deps: AppDeps): App {
     next();
   });
 
-  const sessionStore = new ConnectSessionKnexStore({ knex: db, tableName: 'sessions', createTable: false, cleanupInterval: 15 * 60_000 });
-  api.use(
-    session({
-      name: 'tf.sid',
-      secret: config.sessionSecret,
-      store: sessionStore,
-      resave: false,
-      saveUninitialized: false,
-      rolling: true,
-      cookie: { httpOnly: true, sameSite: 'lax', secure: config.secureCookies, maxAge: 12 * 3_600_000 },
-    }),
-  );
+  const sessions = createSessions({ db, secret: config.sessionSecret, secureCookies: config.secureCookies, clock, logger });
+  api.use(sessions.middleware);
   const passport = createPassport(db);
   api.use(passport.initialize());
   api.use(passport.session());
+  api.use(sessions.extend);
 
-  const csrf = createCsrf(config.secureCookies);
+  const csrf = createCsrf(config.secureCookies, config.sessionSecret);
   api.use(csrf.ensureCookie);
   api.use(csrf.protect);
 
@@ -258,10 +250,10 @@ export function createApp(deps: AppDeps): App {
   return {
     app,
     worker,
+    clearExpiredSessions: sessions.clearExpired,
     async close() {
       await worker?.stop();
-      const timer = (sessionStore as unknown as { nextDbCleanup?: NodeJS.Timeout }).nextDbCleanup;
-      if (timer) clearTimeout(timer);
+      await sessions.close();
     },
   };
 }

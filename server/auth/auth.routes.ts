@@ -2,6 +2,7 @@ import { Router, type RequestHandler } from 'express';
 import type { Passport } from 'passport';
 import { UnauthorizedError } from '../errors';
 import type { Csrf } from '../http/csrf';
+import { markSessionSeen, SESSION_COOKIE } from '../http/sessions';
 import { parse, TokenParam } from '../http/validate';
 import type { Db } from '../db/knex';
 import { AcceptInvitationBody, ResetCompleteBody, ResetRequestBody, SignInBody } from './auth-schemas';
@@ -36,6 +37,7 @@ export function authRoutes(d: AuthRoutesDeps): Router {
       // passport regenerates the session id here (session fixation defence).
       req.logIn(user, (loginErr) => {
         if (loginErr) return next(loginErr);
+        markSessionSeen(req, d.clock);
         d.csrf.issue(req, res, true);
         usersRepository
           .touchSignIn(d.db, user.id, d.clock().toISOString())
@@ -48,8 +50,13 @@ export function authRoutes(d: AuthRoutesDeps): Router {
   router.post('/auth/sign-out', (req, res, next) => {
     req.logOut((err) => {
       if (err) return next(err);
-      d.csrf.issue(req, res, true);
-      res.status(204).end();
+      // passport leaves a fresh empty session behind; drop it, so signed-out browsers have no row.
+      req.session.destroy((destroyErr) => {
+        if (destroyErr) return next(destroyErr);
+        res.clearCookie(SESSION_COOKIE, { path: '/' });
+        d.csrf.issue(req, res, true);
+        res.status(204).end();
+      });
     });
   });
 
@@ -71,6 +78,7 @@ export function authRoutes(d: AuthRoutesDeps): Router {
     if (!user) throw new UnauthorizedError();
     req.logIn(user, (err) => {
       if (err) return next(err);
+      markSessionSeen(req, d.clock);
       d.csrf.issue(req, res, true);
       res.status(201).json({ user });
     });

@@ -8,6 +8,7 @@ import { audit } from '../audit/audit-log';
 import { hashPassword } from './passwords';
 import { hashToken, newToken } from './tokens';
 import { usersRepository } from './users-repository';
+import { revokeUserSessions } from '../http/sessions';
 
 export interface PasswordResetsDeps {
   db: Db;
@@ -86,7 +87,7 @@ export function passwordResetsService({ db, mailer, config, clock, logger }: Pas
         await usersRepository.setPassword(trx, row.user_id, passwordHash, at);
         const user = await usersRepository.findById(trx, row.user_id);
         // Sign out every existing session of this user.
-        await trx('sessions').whereRaw(`json_extract(sess, '$.passport.user') = ?`, [row.user_id]).delete();
+        await revokeUserSessions(trx, row.user_id);
         if (user) await audit(trx, { clinicId: user.clinic_id, actorId: user.id, action: 'user.password_reset' }, at);
       });
     },

@@ -51,6 +51,8 @@ export interface TestApp {
   worker: Worker | null;
   /** Moves the app's clock forward. */
   advance(ms: number): void;
+  /** Deletes expired session rows now; answers how many. */
+  clearExpiredSessions(): Promise<number>;
   /** With `{ fakePayments: true }`: the fake payment service and the app listening for its webhooks. */
   fakePayments: FakePayments | null;
   /** With `{ fakePayments: true }`: base URL of the listening app. */
@@ -87,7 +89,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
     mailer.forward = createSmtpMailer({ ...config.mail, host: '127.0.0.1', port: fakeSmtp.port });
   }
   let offset = 0;
-  const { app, close, worker } = createApp({ config, db, mailer, logger: pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
+  const { app, close, worker, clearExpiredSessions } = createApp({ config, db, mailer, logger: pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
   let listener: http.Server | null = null;
   let url: string | null = null;
   if (fakePayments) {
@@ -108,6 +110,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
       offset += ms;
     },
     worker,
+    clearExpiredSessions,
     async close() {
       await fakePayments?.idle();
       await fakePayments?.close();
