@@ -103,6 +103,8 @@ const EnvSchema = z.object({
 
 /** Demo-only keys the local fake payment service accepts (never valid at a real provider). */
 export const FAKE_PAYMENTS_KEYS = { secretKey: 'sk_test_trailframe_fake_demo', webhookSecret: 'whsec_trailframe_fake_demo' } as const;
+/** The session secret demo mode uses when none is set (public: it is in this file). */
+export const DEMO_SESSION_SECRET = 'demo-only-session-secret-change-me-0123456789';
 
 /**
  * Reads configuration from environment variables (see README "Configuration").
@@ -115,9 +117,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     throw new Error(`Invalid configuration:\n${lines.join('\n')}`);
   }
   const e = parsed.data;
-  if (!e.DEMO_MODE && !e.SESSION_SECRET) {
-    throw new Error('Invalid configuration:\n  SESSION_SECRET: required (32+ characters) when DEMO_MODE=false');
-  }
+  if (!e.DEMO_MODE) refuseDemoSecrets(e);
   const port = e.PORT;
   return {
     port,
@@ -125,7 +125,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     dbFile: path.resolve(root, e.DB_FILE),
     uploadsDir: path.resolve(root, e.UPLOADS_DIR),
     clientDir: e.CLIENT_DIR ? path.resolve(root, e.CLIENT_DIR) : null,
-    sessionSecret: e.SESSION_SECRET ?? 'demo-only-session-secret-change-me-0123456789',
+    sessionSecret: e.SESSION_SECRET ?? DEMO_SESSION_SECRET,
     secureCookies: e.SECURE_COOKIES,
     trustProxy: parseTrustProxy(e.TRUST_PROXY),
     demoMode: e.DEMO_MODE,
@@ -182,6 +182,19 @@ function paymentsConfig(e: z.output<typeof EnvSchema>): Pick<Config, 'payments' 
     payments: { ...FAKE_PAYMENTS_KEYS, apiHost: '127.0.0.1', apiPort: e.FAKE_PAYMENTS_PORT || null, apiProtocol: 'http' },
     fakePaymentsPort: e.FAKE_PAYMENTS_PORT,
   };
+}
+
+/**
+ * Outside demo mode the demo's secrets are refused: they are public (in this file), so anyone could
+ * sign payment webhooks or session cookies with them. Throws with every problem listed.
+ */
+function refuseDemoSecrets(e: z.output<typeof EnvSchema>): void {
+  const problems: string[] = [];
+  if (!e.SESSION_SECRET) problems.push('SESSION_SECRET: required (32+ characters) when DEMO_MODE=false');
+  else if (e.SESSION_SECRET === DEMO_SESSION_SECRET) problems.push('SESSION_SECRET: this is the public demo secret; choose your own when DEMO_MODE=false');
+  if (e.STRIPE_SECRET_KEY === FAKE_PAYMENTS_KEYS.secretKey) problems.push('STRIPE_SECRET_KEY: this is the demo key of the local fake payment service; set your provider key when DEMO_MODE=false');
+  if (e.STRIPE_WEBHOOK_SECRET === FAKE_PAYMENTS_KEYS.webhookSecret) problems.push('STRIPE_WEBHOOK_SECRET: this is the public demo secret; anyone could sign payment events with it. Set your provider\'s signing secret when DEMO_MODE=false');
+  if (problems.length) throw new Error(`Invalid configuration:\n${problems.map((p) => `  ${p}`).join('\n')}`);
 }
 
 function parseTrustProxy(value: string | undefined): boolean | number | string {
