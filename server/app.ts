@@ -12,6 +12,7 @@ import { createCsrf } from './http/csrf';
 import { createSessions } from './http/sessions';
 import { clientAppRoutes, newNonce } from './http/client-app';
 import { createPassport } from './auth/passport-setup';
+import { signInGuard } from './auth/sign-in-guard';
 import { authRoutes } from './auth/auth.routes';
 import { invitationsService } from './auth/invitations-service';
 import { passwordResetsService } from './auth/password-resets-service';
@@ -169,19 +170,22 @@ export function createApp(deps: AppDeps): App {
       legacyHeaders: false,
       handler: (_req, _res, next) => next(new AppError(429, 'too_many_attempts', message)),
     });
+  const guard = signInGuard({ secret: config.sessionSecret, accountAttempts: config.rateLimit.accountAttempts, windowMs: config.rateLimit.windowMs, secureCookies: config.secureCookies, clock });
   const signInLimiter = rateLimit({
     windowMs: config.rateLimit.windowMs,
     limit: config.rateLimit.signInAttempts,
     skipSuccessfulRequests: true,
+    // A browser that signed in to this account before is not held up by others at its address.
+    skip: (req) => typeof req.body?.email === 'string' && guard.knownDevice(req, req.body.email),
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     handler: (_req, _res, next) =>
-      next(new AppError(429, 'too_many_attempts', 'Too many sign-in attempts. Wait 15 minutes, or reset your password.')),
+      next(new AppError(429, 'too_many_attempts', 'Too many sign-in attempts from your network. Wait 15 minutes, or reset your password.')),
   });
   const resetLimiter = limiter(config.rateLimit.resetRequests, 'Too many password-reset requests. Wait 15 minutes and try again.');
 
   const invitations = invitationsService({ db, mailer, config, clock });
-  const resets = passwordResetsService({ db, mailer, config, clock, logger });
+  const resets = passwordResetsService({ db, mailer, config, clock, logger, onPasswordSet: (email) => guard.clear(email) });
   const athletes = athletesService({ db, clock, invitations });
   const store = deps.store ?? localMediaStore(config.uploadsDir);
   const queue = sqliteJobQueue(db, { leaseMs: config.jobs.leaseMs, maxAttempts: config.jobs.maxAttempts });
@@ -224,7 +228,7 @@ export function createApp(deps: AppDeps): App {
     const body: AppConfig = { demoMode: config.demoMode, version: VERSION, uploadMaxBytes: config.uploadMaxBytes, demoInboxUrl: (config.demoMode && deps.demoInboxUrl) || null };
     res.json(body);
   });
-  api.use(authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, resetLimiter, clock }));
+  api.use(authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, signInGuard: guard, resetLimiter, clock }));
   api.use(staffRoutes({ db, invitations }));
   api.use(athletesRoutes(athletes));
   api.use(assessmentsRoutes(assessments));

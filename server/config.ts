@@ -35,8 +35,10 @@ export interface Config {
    */
   demoInboxPort: number | null;
   rateLimit: {
-    /** Failed sign-in attempts allowed per client address per window. */
+    /** Failed sign-in attempts allowed per client address per window (browsers that signed in before are exempt). */
     signInAttempts: number;
+    /** Failed sign-in attempts per account (from any address) before it must wait; see server/auth/sign-in-guard.ts. */
+    accountAttempts: number;
     /** Password-reset requests allowed per client address per window. */
     resetRequests: number;
     windowMs: number;
@@ -85,7 +87,8 @@ const EnvSchema = z.object({
   MAIL_FROM: z.string().default('Trailframe <no-reply@trailframe.test>'),
   FAKE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
   DEMO_INBOX_PORT: z.coerce.number().int().min(0).max(65535).default(2580),
-  SIGN_IN_ATTEMPTS: z.coerce.number().int().min(1).default(10),
+  SIGN_IN_ATTEMPTS: z.coerce.number().int().min(1).default(50),
+  SIGN_IN_ACCOUNT_ATTEMPTS: z.coerce.number().int().min(1).default(5),
   RESET_REQUESTS: z.coerce.number().int().min(1).default(5),
   RATE_WINDOW_MINUTES: z.coerce.number().int().min(1).default(15),
   UPLOAD_MAX_MB: z.coerce.number().int().min(1).max(20_000).default(2048),
@@ -142,6 +145,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     demoInboxPort: e.DEMO_MODE && e.SMTP_PORT === undefined ? e.DEMO_INBOX_PORT : null,
     rateLimit: {
       signInAttempts: e.SIGN_IN_ATTEMPTS,
+      accountAttempts: e.SIGN_IN_ACCOUNT_ATTEMPTS,
       resetRequests: e.RESET_REQUESTS,
       windowMs: e.RATE_WINDOW_MINUTES * 60_000,
     },

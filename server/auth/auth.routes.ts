@@ -8,6 +8,7 @@ import type { Db } from '../db/knex';
 import { AcceptInvitationBody, ResetCompleteBody, ResetRequestBody, SignInBody } from './auth-schemas';
 import type { InvitationsService } from './invitations-service';
 import type { PasswordResetsService } from './password-resets-service';
+import { accountWaitError, type SignInGuard } from './sign-in-guard';
 import { usersRepository } from './users-repository';
 
 export interface AuthRoutesDeps {
@@ -17,6 +18,8 @@ export interface AuthRoutesDeps {
   invitations: InvitationsService;
   resets: PasswordResetsService;
   signInLimiter: RequestHandler;
+  /** Per-account limits and known browsers. */
+  signInGuard: SignInGuard;
   resetLimiter: RequestHandler;
   clock: () => Date;
 }
@@ -30,14 +33,23 @@ export function authRoutes(d: AuthRoutesDeps): Router {
   });
 
   router.post('/auth/sign-in', d.signInLimiter, (req, res, next) => {
-    parse(SignInBody, req.body);
+    const { email } = parse(SignInBody, req.body);
+    const wait = d.signInGuard.waitSeconds(req, email);
+    if (wait > 0) {
+      res.setHeader('Retry-After', String(wait));
+      throw accountWaitError(wait);
+    }
     d.passport.authenticate('local', { session: true }, (err: unknown, user: Express.User | false) => {
       if (err) return next(err);
-      if (!user) return next(new UnauthorizedError('E-mail or password is incorrect.', 'invalid_credentials'));
+      if (!user) {
+        d.signInGuard.failed(req, email);
+        return next(new UnauthorizedError('E-mail or password is incorrect.', 'invalid_credentials'));
+      }
       // passport regenerates the session id here (session fixation defence).
       req.logIn(user, (loginErr) => {
         if (loginErr) return next(loginErr);
         markSessionSeen(req, d.clock);
+        d.signInGuard.succeeded(req, res, email);
         d.csrf.issue(req, res, true);
         usersRepository
           .touchSignIn(d.db, user.id, d.clock().toISOString())

@@ -16,10 +16,12 @@ export interface PasswordResetsDeps {
   config: Config;
   clock: () => Date;
   logger: Logger;
+  /** Told after a password was set through a reset link (ends any sign-in wait of the account). */
+  onPasswordSet?: (email: string) => void;
 }
 
 /** "Forgot password": a single-use, short-lived e-mailed link to choose a new password. */
-export function passwordResetsService({ db, mailer, config, clock, logger }: PasswordResetsDeps) {
+export function passwordResetsService({ db, mailer, config, clock, logger, onPasswordSet }: PasswordResetsDeps) {
   async function usableReset(token: string): Promise<PasswordResetRow> {
     const row = await db<PasswordResetRow>('password_resets').where({ token_hash: hashToken(token) }).first();
     if (!row) throw new NotFoundError('Reset link');
@@ -79,7 +81,7 @@ export function passwordResetsService({ db, mailer, config, clock, logger }: Pas
     async complete(token: string, password: string): Promise<void> {
       await usableReset(token);
       const passwordHash = await hashPassword(password);
-      await db.transaction(async (trx) => {
+      const email = await db.transaction(async (trx) => {
         const row = await trx<PasswordResetRow>('password_resets').where({ token_hash: hashToken(token) }).first();
         if (!row || row.used_at) throw new GoneError('This reset link has already been used.', 'token_used');
         const at = clock().toISOString();
@@ -89,7 +91,9 @@ export function passwordResetsService({ db, mailer, config, clock, logger }: Pas
         // Sign out every existing session of this user.
         await revokeUserSessions(trx, row.user_id);
         if (user) await audit(trx, { clinicId: user.clinic_id, actorId: user.id, action: 'user.password_reset' }, at);
+        return user?.email ?? null;
       });
+      if (email) onPasswordSet?.(email);
     },
   };
 }

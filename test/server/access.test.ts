@@ -257,7 +257,7 @@ async function clientFor(app: Express, who: Who): Promise<Client> {
 }
 
 beforeAll(async () => {
-  t = await makeTestApp({ rateLimit: { signInAttempts: 1000, resetRequests: 1000, windowMs: 60_000 } }, { fakePayments: true });
+  t = await makeTestApp({ rateLimit: { signInAttempts: 1000, accountAttempts: 1000, resetRequests: 1000, windowMs: 60_000 } }, { fakePayments: true });
   const self = await t.db('athletes').where({ email: athlete.email }).first();
   const other = await t.db('athletes').where({ email: 'bruno.feldhaus@runner.test' }).first();
   const otherClinic = await t.db('clinics').where({ name: OTHER.clinic }).first();
