@@ -9,7 +9,8 @@ import type { Db } from './db/knex';
 import type { Mailer } from './mail/mailer';
 import { AppError, apiNotFound, errorHandler } from './errors';
 import { createCsrf } from './http/csrf';
-import { createSessions } from './http/sessions';
+import { createSessions, inProcessRevocations } from './http/sessions';
+import { staffService } from './staff/staff-service';
 import { clientAppRoutes, newNonce } from './http/client-app';
 import { createPassport } from './auth/passport-setup';
 import { signInGuard } from './auth/sign-in-guard';
@@ -190,6 +191,7 @@ export function createApp(deps: AppDeps): App {
   const store = deps.store ?? localMediaStore(config.uploadsDir);
   const queue = sqliteJobQueue(db, { leaseMs: config.jobs.leaseMs, maxAttempts: config.jobs.maxAttempts });
   const events = inProcessClipEvents();
+  const revocations = inProcessRevocations();
   let worker: Worker | null = null;
   const clips = clipsService({
     db,
@@ -229,10 +231,10 @@ export function createApp(deps: AppDeps): App {
     res.json(body);
   });
   api.use(authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, signInGuard: guard, resetLimiter, clock }));
-  api.use(staffRoutes({ db, invitations }));
+  api.use(staffRoutes({ db, invitations, staff: staffService({ db, clock, revocations }) }));
   api.use(athletesRoutes(athletes));
   api.use(assessmentsRoutes(assessments));
-  api.use(clipsRoutes({ db, clips, events, store, uploadMaxBytes: config.uploadMaxBytes }));
+  api.use(clipsRoutes({ db, clips, events, revocations, store, uploadMaxBytes: config.uploadMaxBytes }));
   api.use(annotationsRoutes(annotations));
   api.use(measuresRoutes({ db, measures }));
   api.use(comparisonRoutes(comparisonService({ db, measures })));

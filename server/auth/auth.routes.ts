@@ -1,6 +1,7 @@
 import { Router, type RequestHandler } from 'express';
 import type { Passport } from 'passport';
-import { UnauthorizedError } from '../errors';
+import { ForbiddenError, UnauthorizedError } from '../errors';
+import { DEACTIVATED } from './passport-setup';
 import type { Csrf } from '../http/csrf';
 import { markSessionSeen, SESSION_COOKIE } from '../http/sessions';
 import { parse, TokenParam } from '../http/validate';
@@ -39,8 +40,11 @@ export function authRoutes(d: AuthRoutesDeps): Router {
       res.setHeader('Retry-After', String(wait));
       throw accountWaitError(wait);
     }
-    d.passport.authenticate('local', { session: true }, (err: unknown, user: Express.User | false) => {
+    d.passport.authenticate('local', { session: true }, (err: unknown, user: Express.User | false, info?: { message?: string }) => {
       if (err) return next(err);
+      if (!user && info?.message === DEACTIVATED) {
+        return next(new ForbiddenError("Your account has been deactivated by your clinic's owner. Ask them if you need access again.", 'account_deactivated'));
+      }
       if (!user) {
         d.signInGuard.failed(req, email);
         return next(new UnauthorizedError('E-mail or password is incorrect.', 'invalid_credentials'));

@@ -1,3 +1,4 @@
+import { EventEmitter } from 'node:events';
 import type { Knex } from 'knex';
 import type { Request, RequestHandler } from 'express';
 import session, { type SessionData } from 'express-session';
@@ -89,4 +90,24 @@ export function markSessionSeen(req: Request, clock: () => Date): void {
 /** Signs a user out everywhere at once: deletes every session row that carries their id. */
 export async function revokeUserSessions(db: Knex, userId: number): Promise<number> {
   return db('sessions').whereRaw(`json_extract(sess, '$.passport.user') = ?`, [userId]).delete();
+}
+
+/** "This user was just signed out everywhere": long-lived responses (live-status streams) end on it. */
+export interface UserRevocations {
+  revoke(userId: number): void;
+  /** Calls `listener` when `userId` is revoked; answers the unsubscribe. */
+  onRevoke(userId: number, listener: () => void): () => void;
+}
+
+/** In-process revocation notices (one process; a shared bus later, like clip events). */
+export function inProcessRevocations(): UserRevocations {
+  const bus = new EventEmitter();
+  bus.setMaxListeners(0);
+  return {
+    revoke: (userId) => void bus.emit(`u${userId}`),
+    onRevoke(userId, listener) {
+      bus.on(`u${userId}`, listener);
+      return () => bus.off(`u${userId}`, listener);
+    },
+  };
 }

@@ -42,8 +42,18 @@ export interface StaffMember {
   email: string;
   name: string;
   role: Role;
+  /** False once the owner deactivated them: no sign-in, no athletes. */
   active: boolean;
+  /** When they were deactivated; null while active. */
+  deactivatedAt: string | null;
+  /** Athletes they coach now. */
+  athleteCount: number;
   createdAt: string;
+}
+
+/** `POST /api/staff/:id/deactivate`: who takes the coach's athletes (default: the owner). */
+export interface StaffDeactivate {
+  reassignTo?: number;
 }
 
 export interface PendingInvitation {

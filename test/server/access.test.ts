@@ -77,6 +77,8 @@ const ROUTES: RouteCase[] = [
   { method: 'get', pattern: '/api/staff', path: () => '/api/staff', expect: ownerOnly(200, 200) },
   { method: 'post', pattern: '/api/staff/invitations', path: () => '/api/staff/invitations', body: () => ({ email: `walk-${Math.random().toString(36).slice(2)}@x.test`, name: 'Walker' }), expect: ownerOnly(201, 201) },
   { method: 'delete', pattern: '/api/staff/invitations/:id', path: (c) => `/api/staff/invitations/${c.pendingInvitationId}`, expect: ownerOnly(204) },
+  { method: 'post', pattern: '/api/staff/:id/deactivate', path: () => `/api/staff/${staffc.coachId}/deactivate`, body: () => ({}), before: () => scratchCoach(true), expect: ownerOnly(200) },
+  { method: 'post', pattern: '/api/staff/:id/reactivate', path: () => `/api/staff/${staffc.coachId}/reactivate`, before: () => scratchCoach(false), expect: ownerOnly(200) },
   { method: 'get', pattern: '/api/coaches', path: () => '/api/coaches', expect: staffOnly(200, 200) },
   { method: 'get', pattern: '/api/athletes', path: () => '/api/athletes', expect: staffOnly(200, 200) },
   { method: 'post', pattern: '/api/athletes', path: () => '/api/athletes', body: () => ({ firstName: 'Walk', lastName: 'Er' }), expect: staffOnly(201, 201) },
@@ -318,6 +320,19 @@ describe('access walk: every route × every caller', () => {
     expect(missing).toEqual([]);
   });
 });
+
+// ─── Staff fixtures ───────────────────────────────────────────────────────────────────────
+
+const staffc = { coachId: 0 };
+
+/** A coach of the demo clinic without athletes, active or already deactivated. */
+async function scratchCoach(active: boolean): Promise<void> {
+  const at = new Date().toISOString();
+  const [row] = await t.db('users')
+    .insert({ clinic_id: 1, email: `scratch-${Math.random().toString(36).slice(2)}@larchwood-clinic.test`, name: 'Scratch Coach', role: 'coach', password_hash: null, active, deactivated_at: active ? null : at, created_at: at, updated_at: at })
+    .returning('id');
+  staffc.coachId = (row as { id: number }).id;
+}
 
 // ─── Plans fixtures ───────────────────────────────────────────────────────────────────────
 

@@ -99,7 +99,9 @@ describe('sign-in and sessions', () => {
     await c.signIn(coach.email, coach.password);
     await t.db('users').where({ email: coach.email }).update({ active: false });
     expect((await c.get('/api/auth/me')).body).toEqual({ user: null });
-    expect((await new Client(t.app).post('/api/auth/sign-in', { email: coach.email, password: coach.password })).status).toBe(401);
+    // The right password learns why (403 account_deactivated, see staff.test.ts); a wrong one gets the usual 401.
+    expect((await new Client(t.app).post('/api/auth/sign-in', { email: coach.email, password: coach.password })).status).toBe(403);
+    expect((await new Client(t.app).post('/api/auth/sign-in', { email: coach.email, password: 'not-the-password' })).status).toBe(401);
   });
 
   it('stores password hashes as argon2id, never the password', async () => {
