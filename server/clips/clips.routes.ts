@@ -11,6 +11,7 @@ import { idParam, parse } from '../http/validate';
 import { audit } from '../audit/audit-log';
 import type { MediaStore } from '../storage/media-store';
 import type { ClipEvents } from './clip-events';
+import type { UserRevocations } from '../http/sessions';
 import { ClipPatchBody, MediaIndexParams } from './clips-schemas';
 import { tooLarge, type ClipsService } from './clips-service';
 
@@ -25,6 +26,8 @@ export interface ClipsRoutesDeps {
   db: Db;
   clips: ClipsService;
   events: ClipEvents;
+  /** Ends a user's live-status streams when they are signed out everywhere. */
+  revocations: UserRevocations;
   store: MediaStore;
   uploadMaxBytes: number;
 }
@@ -129,9 +132,12 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
         .catch(() => send('clip-deleted', { id: clipId }));
     });
     const ping = setInterval(() => res.write(': keep-alive\n\n'), 15_000);
+    // Signed out everywhere (e.g. deactivated): the stream ends at once.
+    const unrevoke = d.revocations.onRevoke(user.id, () => res.end());
     req.on('close', () => {
       clearInterval(ping);
       unsubscribe();
+      unrevoke();
     });
   });
 

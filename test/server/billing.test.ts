@@ -10,6 +10,7 @@ import { PDFParse } from 'pdf-parse';
 import { makeTestApp, OTHER, signedIn, type Client, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { hashPassword } from '../../server/auth/passwords';
+import { DEMO_SESSION_SECRET, FAKE_PAYMENTS_KEYS, loadConfig } from '../../server/config';
 import { invoiceTotals, lineAmounts, formatMinor, type InvoiceDetail, type InvoiceWrite, type Price } from '../../src/contracts/billing';
 
 const [owner, coach, , athlete] = DEMO_SIGN_INS;
@@ -524,6 +525,56 @@ describe('card payment through the fake payment service', () => {
     } finally {
       await off.close();
     }
+  });
+});
+
+/** Posts an event signed with the configured webhook secret (the demo's is public, so anyone can). */
+async function postSigned(event: Record<string, unknown>): Promise<number> {
+  const payload = JSON.stringify({ object: 'event', ...event });
+  const sig = new Stripe('sk_x').webhooks.generateTestHeaderString({ payload, secret: t.config.payments!.webhookSecret });
+  const res = await fetch(`${t.url}/api/billing/webhook`, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': sig }, body: payload });
+  return res.status;
+}
+
+describe('refund events are confirmed with the payment service', () => {
+  it('a correctly signed charge.refunded the payment service does not confirm leaves the invoice paid', async () => {
+    const inv = await paidInvoice();
+    const pi = (await t.db('invoices').where({ id: inv.id }).first()).payment_intent_id as string;
+    const forged = { id: 'ch_forged_1', object: 'charge', payment_intent: pi, refunded: true, amount: inv.totalMinor, amount_refunded: inv.totalMinor, currency: 'eur', status: 'succeeded' };
+    expect(await postSigned({ id: 'evt_forged_refund_1', type: 'charge.refunded', data: { object: forged } })).toBe(200);
+    expect(await postSigned({ id: 'evt_forged_refund_2', type: 'refund.updated', data: { object: { id: 're_forged_1', object: 'refund', payment_intent: pi, status: 'succeeded', amount: inv.totalMinor, currency: 'eur' } } })).toBe(200);
+    expect((await o.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'paid', refundedAt: null });
+  });
+
+  it("an event naming a real refunded charge is judged by what the service says about it, not by the event's copy", async () => {
+    const refunded = await paidInvoice();
+    expect((await o.post(`/api/invoices/${refunded.id}/refund`)).status).toBe(200);
+    await t.fakePayments!.idle();
+    const charge = JSON.parse(t.fakePayments!.events.at(-1)!.payload).data.object as { id: string };
+    // Another paid invoice: the forged copy says the real charge belongs to its payment.
+    const victim = await paidInvoice();
+    const pi = (await t.db('invoices').where({ id: victim.id }).first()).payment_intent_id as string;
+    expect(await postSigned({ id: 'evt_forged_refund_3', type: 'charge.refunded', data: { object: { ...charge, payment_intent: pi } } })).toBe(200);
+    expect((await o.get(`/api/invoices/${victim.id}`)).body.status).toBe('paid');
+  });
+
+  it('a refund made at the payment service itself (not through Trailframe) is confirmed and marks the invoice refunded', async () => {
+    const inv = await paidInvoice();
+    const pi = (await t.db('invoices').where({ id: inv.id }).first()).payment_intent_id as string;
+    const res = await fetch(`${t.fakePayments!.url}/v1/refunds`, { method: 'POST', headers: { authorization: `Bearer ${t.config.payments!.secretKey}`, 'content-type': 'application/x-www-form-urlencoded' }, body: `payment_intent=${pi}` });
+    expect(res.status).toBe(200);
+    await t.fakePayments!.idle();
+    expect((await o.get(`/api/invoices/${inv.id}`)).body.status).toBe('refunded');
+  });
+
+  it('refuses to start with the demo keys or secrets when demo mode is off', () => {
+    const prod = { DEMO_MODE: 'false', SESSION_SECRET: 's'.repeat(40) } as NodeJS.ProcessEnv;
+    expect(() => loadConfig({ ...prod, STRIPE_SECRET_KEY: FAKE_PAYMENTS_KEYS.secretKey, STRIPE_WEBHOOK_SECRET: 'whsec_real_looking_0123' })).toThrow(/STRIPE_SECRET_KEY.*demo/);
+    expect(() => loadConfig({ ...prod, STRIPE_SECRET_KEY: 'sk_live_real_looking_0123', STRIPE_WEBHOOK_SECRET: FAKE_PAYMENTS_KEYS.webhookSecret })).toThrow(/STRIPE_WEBHOOK_SECRET.*demo/);
+    expect(() => loadConfig({ ...prod, SESSION_SECRET: DEMO_SESSION_SECRET })).toThrow(/SESSION_SECRET.*demo/);
+    expect(loadConfig({ ...prod, STRIPE_SECRET_KEY: 'sk_live_real_looking_0123', STRIPE_WEBHOOK_SECRET: 'whsec_real_looking_0123' }).payments?.secretKey).toBe('sk_live_real_looking_0123');
+    // Demo mode keeps its demo keys.
+    expect(loadConfig({} as NodeJS.ProcessEnv).payments?.webhookSecret).toBe(FAKE_PAYMENTS_KEYS.webhookSecret);
   });
 });
 
