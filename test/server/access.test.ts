@@ -2,7 +2,7 @@
  * Walks every API route as each kind of caller and checks the status. A new route must be added
  * to ROUTES, or the "every route is listed" check fails. Callers: anonymous, the demo clinic's
  * athlete (self), coach and owner, and a second clinic's athlete, coach and owner. Targets include
- * athletes who have no account: one of the demo clinic (Bruno) and one of the second clinic.
+ * athletes who have no account: one of the demo clinic (Teodor) and one of the second clinic.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import http from 'node:http';
