@@ -72,7 +72,10 @@ async function main(): Promise<void> {
   if (config.demoMode) {
     lines.push('', 'Demo sign-ins (invented people):');
     for (const s of DEMO_SIGN_INS) lines.push(`  ${s.role.padEnd(8)} ${s.email.padEnd(32)} ${s.password}`);
-    lines.push('', 'E-mail goes to a local fake SMTP receiver; the owner reads it under Mailbox.');
+    if (config.demoInboxPort !== null) {
+      const inbox = config.demoInboxPort ? `http://127.0.0.1:${config.demoInboxPort}` : 'the address the server printed above';
+      lines.push('', `Demo inbox (every e-mail the demo sends: invitations, reset links): ${inbox}`, '  It opens only on this machine and is not part of the app.');
+    }
     if (config.fakePaymentsPort !== null) lines.push('Card payments go to a local fake payment service (no real money moves).');
   }
   lines.push('Press Ctrl+C to stop.', '');

@@ -1,25 +1,25 @@
 import express, { type Express } from 'express';
-import session from 'express-session';
 import helmet from 'helmet';
 import { rateLimit } from 'express-rate-limit';
 import { pinoHttp } from 'pino-http';
 import type { Logger } from 'pino';
-import { ConnectSessionKnexStore } from 'connect-session-knex';
 import type { AppConfig } from '../src/contracts/api';
 import type { Config } from './config';
 import type { Db } from './db/knex';
 import type { Mailer } from './mail/mailer';
 import { AppError, apiNotFound, errorHandler } from './errors';
 import { createCsrf } from './http/csrf';
+import { createSessions, inProcessRevocations } from './http/sessions';
+import { staffService } from './staff/staff-service';
 import { clientAppRoutes, newNonce } from './http/client-app';
 import { createPassport } from './auth/passport-setup';
+import { signInGuard } from './auth/sign-in-guard';
 import { authRoutes } from './auth/auth.routes';
 import { invitationsService } from './auth/invitations-service';
 import { passwordResetsService } from './auth/password-resets-service';
 import { staffRoutes } from './staff/staff.routes';
 import { athletesService } from './athletes/athletes-service';
 import { athletesRoutes } from './athletes/athletes.routes';
-import { mailboxRoutes } from './mail/mailbox.routes';
 import { localMediaStore, type MediaStore } from './storage/media-store';
 import { uploadTemps } from './storage/upload-temps';
 import { sqliteJobQueue, type JobQueue } from './jobs/job-queue';
@@ -60,6 +60,8 @@ export interface AppDeps {
   store?: MediaStore;
   /** Card payment; defaults to the provider's SDK per `config.payments` (null: not configured). */
   payments?: Payments | null;
+  /** Address of the demo inbox (127.0.0.1 only), told to the app's pages in demo mode; null when none runs. */
+  demoInboxUrl?: string | null;
 }
 
 export interface App {
@@ -68,6 +70,8 @@ export interface App {
   worker: Worker | null;
   /** The durable job queue (its subjects' failures registered). */
   queue: JobQueue;
+  /** Deletes expired session rows now (they are also cleared at start and every 15 minutes); answers how many. */
+  clearExpiredSessions(): Promise<number>;
   /** Stops the worker (aborting running jobs) and timers the app started. */
   close(): Promise<void>;
 }
@@ -153,23 +157,14 @@ export function createApp(deps: AppDeps): App {
     next();
   });
 
-  const sessionStore = new ConnectSessionKnexStore({ knex: db, tableName: 'sessions', createTable: false, cleanupInterval: 15 * 60_000 });
-  api.use(
-    session({
-      name: 'tf.sid',
-      secret: config.sessionSecret,
-      store: sessionStore,
-      resave: false,
-      saveUninitialized: false,
-      rolling: true,
-      cookie: { httpOnly: true, sameSite: 'lax', secure: config.secureCookies, maxAge: 12 * 3_600_000 },
-    }),
-  );
+  const sessions = createSessions({ db, secret: config.sessionSecret, secureCookies: config.secureCookies, clock, logger });
+  api.use(sessions.middleware);
   const passport = createPassport(db);
   api.use(passport.initialize());
   api.use(passport.session());
+  api.use(sessions.extend);
 
-  const csrf = createCsrf(config.secureCookies);
+  const csrf = createCsrf(config.secureCookies, config.sessionSecret);
   api.use(csrf.ensureCookie);
   api.use(csrf.protect);
 
@@ -181,19 +176,22 @@ export function createApp(deps: AppDeps): App {
       legacyHeaders: false,
       handler: (_req, _res, next) => next(new AppError(429, 'too_many_attempts', message)),
     });
+  const guard = signInGuard({ secret: config.sessionSecret, accountAttempts: config.rateLimit.accountAttempts, windowMs: config.rateLimit.windowMs, secureCookies: config.secureCookies, clock });
   const signInLimiter = rateLimit({
     windowMs: config.rateLimit.windowMs,
     limit: config.rateLimit.signInAttempts,
     skipSuccessfulRequests: true,
+    // A browser that signed in to this account before is not held up by others at its address.
+    skip: (req) => typeof req.body?.email === 'string' && guard.knownDevice(req, req.body.email),
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     handler: (_req, _res, next) =>
-      next(new AppError(429, 'too_many_attempts', 'Too many sign-in attempts. Wait 15 minutes, or reset your password.')),
+      next(new AppError(429, 'too_many_attempts', 'Too many sign-in attempts from your network. Wait 15 minutes, or reset your password.')),
   });
   const resetLimiter = limiter(config.rateLimit.resetRequests, 'Too many password-reset requests. Wait 15 minutes and try again.');
 
   const invitations = invitationsService({ db, mailer, config, clock });
-  const resets = passwordResetsService({ db, mailer, config, clock, logger });
+  const resets = passwordResetsService({ db, mailer, config, clock, logger, onPasswordSet: (email) => guard.clear(email) });
   const athletes = athletesService({ db, clock, invitations });
   const store = deps.store ?? localMediaStore(config.uploadsDir);
   // Start-up removes temp files of uploads a killed server left; then a sweep by age (unref'd).
@@ -201,6 +199,7 @@ export function createApp(deps: AppDeps): App {
   const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
   const queue = sqliteJobQueue(db, { leaseMs: config.jobs.leaseMs, maxAttempts: config.jobs.maxAttempts });
   const events = inProcessClipEvents();
+  const revocations = inProcessRevocations();
   let worker: Worker | null = null;
   const clips = clipsService({
     db,
@@ -238,14 +237,14 @@ export function createApp(deps: AppDeps): App {
     res.json({ ok: true });
   });
   api.get('/config', (_req, res) => {
-    const body: AppConfig = { demoMode: config.demoMode, version: VERSION, uploadMaxBytes: config.uploadMaxBytes };
+    const body: AppConfig = { demoMode: config.demoMode, version: VERSION, uploadMaxBytes: config.uploadMaxBytes, demoInboxUrl: (config.demoMode && deps.demoInboxUrl) || null };
     res.json(body);
   });
-  api.use(authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, resetLimiter, clock }));
-  api.use(staffRoutes({ db, invitations }));
+  api.use(authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, signInGuard: guard, resetLimiter, clock }));
+  api.use(staffRoutes({ db, invitations, staff: staffService({ db, clock, revocations }) }));
   api.use(athletesRoutes(athletes));
   api.use(assessmentsRoutes(assessments));
-  api.use(clipsRoutes({ db, clips, events, temps, logger, uploadMaxBytes: config.uploadMaxBytes }));
+  api.use(clipsRoutes({ db, clips, events, revocations, temps, logger, uploadMaxBytes: config.uploadMaxBytes }));
   api.use(annotationsRoutes(annotations));
   api.use(measuresRoutes({ db, measures }));
   api.use(comparisonRoutes(comparisonService({ db, measures })));
@@ -254,7 +253,6 @@ export function createApp(deps: AppDeps): App {
   api.use(summariesRoutes(summaries));
   api.use(portalSharedRoutes({ stills, summaries }));
   api.use(billingRoutes(billing));
-  if (config.demoMode) api.use(mailboxRoutes(db));
   api.use(apiNotFound);
 
   app.use('/api', (_req, res, next) => {
@@ -269,11 +267,11 @@ export function createApp(deps: AppDeps): App {
     app,
     worker,
     queue,
+    clearExpiredSessions: sessions.clearExpired,
     async close() {
       clearInterval(tempSweep);
       await worker?.stop();
-      const timer = (sessionStore as unknown as { nextDbCleanup?: NodeJS.Timeout }).nextDbCleanup;
-      if (timer) clearTimeout(timer);
+      await sessions.close();
     },
   };
 }

@@ -16,7 +16,7 @@ export interface Config {
   secureCookies: boolean;
   /** Express `trust proxy` setting; `false` when not behind a proxy. */
   trustProxy: boolean | number | string;
-  /** Whether demo helpers are on: fake SMTP receiver, owner's Mailbox page, demo sign-ins. */
+  /** Whether demo helpers are on: fake SMTP receiver, demo inbox, demo sign-ins. */
   demoMode: boolean;
   logLevel: string;
   mail: {
@@ -29,9 +29,16 @@ export interface Config {
   };
   /** Port of the local fake SMTP receiver started in demo mode (0 = any free port). */
   fakeSmtpPort: number;
+  /**
+   * Port of the demo inbox (127.0.0.1 only, outside the app's sign-in) that shows what the fake
+   * SMTP receiver caught; null when there is none (demo mode off, or a real SMTP relay set).
+   */
+  demoInboxPort: number | null;
   rateLimit: {
-    /** Failed sign-in attempts allowed per client address per window. */
+    /** Failed sign-in attempts allowed per client address per window (browsers that signed in before are exempt). */
     signInAttempts: number;
+    /** Failed sign-in attempts per account (from any address) before it must wait; see server/auth/sign-in-guard.ts. */
+    accountAttempts: number;
     /** Password-reset requests allowed per client address per window. */
     resetRequests: number;
     windowMs: number;
@@ -79,7 +86,9 @@ const EnvSchema = z.object({
   SMTP_PASS: z.string().optional(),
   MAIL_FROM: z.string().default('Trailframe <no-reply@trailframe.test>'),
   FAKE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
-  SIGN_IN_ATTEMPTS: z.coerce.number().int().min(1).default(10),
+  DEMO_INBOX_PORT: z.coerce.number().int().min(0).max(65535).default(2580),
+  SIGN_IN_ATTEMPTS: z.coerce.number().int().min(1).default(50),
+  SIGN_IN_ACCOUNT_ATTEMPTS: z.coerce.number().int().min(1).default(5),
   RESET_REQUESTS: z.coerce.number().int().min(1).default(5),
   RATE_WINDOW_MINUTES: z.coerce.number().int().min(1).default(15),
   UPLOAD_MAX_MB: z.coerce.number().int().min(1).max(20_000).default(2048),
@@ -97,6 +106,8 @@ const EnvSchema = z.object({
 
 /** Demo-only keys the local fake payment service accepts (never valid at a real provider). */
 export const FAKE_PAYMENTS_KEYS = { secretKey: 'sk_test_trailframe_fake_demo', webhookSecret: 'whsec_trailframe_fake_demo' } as const;
+/** The session secret demo mode uses when none is set (public: it is in this file). */
+export const DEMO_SESSION_SECRET = 'demo-only-session-secret-change-me-0123456789';
 
 /**
  * Reads configuration from environment variables (see README "Configuration").
@@ -109,9 +120,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     throw new Error(`Invalid configuration:\n${lines.join('\n')}`);
   }
   const e = parsed.data;
-  if (!e.DEMO_MODE && !e.SESSION_SECRET) {
-    throw new Error('Invalid configuration:\n  SESSION_SECRET: required (32+ characters) when DEMO_MODE=false');
-  }
+  if (!e.DEMO_MODE) refuseDemoSecrets(e);
   const port = e.PORT;
   return {
     port,
@@ -119,7 +128,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     dbFile: path.resolve(root, e.DB_FILE),
     uploadsDir: path.resolve(root, e.UPLOADS_DIR),
     clientDir: e.CLIENT_DIR ? path.resolve(root, e.CLIENT_DIR) : null,
-    sessionSecret: e.SESSION_SECRET ?? 'demo-only-session-secret-change-me-0123456789',
+    sessionSecret: e.SESSION_SECRET ?? DEMO_SESSION_SECRET,
     secureCookies: e.SECURE_COOKIES,
     trustProxy: parseTrustProxy(e.TRUST_PROXY),
     demoMode: e.DEMO_MODE,
@@ -133,8 +142,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
       pass: e.SMTP_PASS ?? null,
     },
     fakeSmtpPort: e.FAKE_SMTP_PORT,
+    demoInboxPort: e.DEMO_MODE && e.SMTP_PORT === undefined ? e.DEMO_INBOX_PORT : null,
     rateLimit: {
       signInAttempts: e.SIGN_IN_ATTEMPTS,
+      accountAttempts: e.SIGN_IN_ACCOUNT_ATTEMPTS,
       resetRequests: e.RESET_REQUESTS,
       windowMs: e.RATE_WINDOW_MINUTES * 60_000,
     },
@@ -175,6 +186,19 @@ function paymentsConfig(e: z.output<typeof EnvSchema>): Pick<Config, 'payments' 
     payments: { ...FAKE_PAYMENTS_KEYS, apiHost: '127.0.0.1', apiPort: e.FAKE_PAYMENTS_PORT || null, apiProtocol: 'http' },
     fakePaymentsPort: e.FAKE_PAYMENTS_PORT,
   };
+}
+
+/**
+ * Outside demo mode the demo's secrets are refused: they are public (in this file), so anyone could
+ * sign payment webhooks or session cookies with them. Throws with every problem listed.
+ */
+function refuseDemoSecrets(e: z.output<typeof EnvSchema>): void {
+  const problems: string[] = [];
+  if (!e.SESSION_SECRET) problems.push('SESSION_SECRET: required (32+ characters) when DEMO_MODE=false');
+  else if (e.SESSION_SECRET === DEMO_SESSION_SECRET) problems.push('SESSION_SECRET: this is the public demo secret; choose your own when DEMO_MODE=false');
+  if (e.STRIPE_SECRET_KEY === FAKE_PAYMENTS_KEYS.secretKey) problems.push('STRIPE_SECRET_KEY: this is the demo key of the local fake payment service; set your provider key when DEMO_MODE=false');
+  if (e.STRIPE_WEBHOOK_SECRET === FAKE_PAYMENTS_KEYS.webhookSecret) problems.push('STRIPE_WEBHOOK_SECRET: this is the public demo secret; anyone could sign payment events with it. Set your provider\'s signing secret when DEMO_MODE=false');
+  if (problems.length) throw new Error(`Invalid configuration:\n${problems.map((p) => `  ${p}`).join('\n')}`);
 }
 
 function parseTrustProxy(value: string | undefined): boolean | number | string {

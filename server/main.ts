@@ -7,6 +7,7 @@ import { createLogger } from './logger';
 import { createApp } from './app';
 import { createSmtpMailer } from './mail/mailer';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
+import { startDemoInbox, type DemoInbox } from './mail/demo-inbox';
 import { startFakePayments, type FakePayments } from './billing/fake-payments/fake-payments';
 
 export interface RunningServer {
@@ -15,6 +16,8 @@ export interface RunningServer {
   db: Db;
   /** The local fake payment service (demo mode without real payment keys), else null. */
   fakePayments: FakePayments | null;
+  /** Address of the demo inbox (127.0.0.1 only; demo mode with the fake SMTP receiver), else null. */
+  inboxUrl: string | null;
   stop(): Promise<void>;
 }
 
@@ -27,10 +30,12 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
   const db = createDb(config.dbFile);
   await migrate(db);
   let fakeSmtp: FakeSmtp | null = null;
+  let inbox: DemoInbox | null = null;
   let mailConfig = config.mail;
-  if (config.demoMode && !process.env['SMTP_PORT']) {
+  if (config.demoMode && config.demoInboxPort !== null) {
     fakeSmtp = await startFakeSmtp(db, config.fakeSmtpPort);
     mailConfig = { ...config.mail, host: '127.0.0.1', port: fakeSmtp.port };
+    inbox = await startDemoInbox(db, config.demoInboxPort);
   }
   const mailer = createSmtpMailer(mailConfig);
   let fakePayments: FakePayments | null = null;
@@ -38,7 +43,7 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
     fakePayments = await startFakePayments({ port: config.fakePaymentsPort, secretKey: config.payments.secretKey, webhookSecret: config.payments.webhookSecret });
     config = { ...config, payments: { ...config.payments, apiPort: fakePayments.port } };
   }
-  const { app, close } = createApp({ config, db, mailer, logger });
+  const { app, close } = createApp({ config, db, mailer, logger, demoInboxUrl: inbox?.url ?? null });
   const server: Server = await new Promise((resolve, reject) => {
     const s = app.listen(config.port, (err?: Error) => (err ? reject(err) : resolve(s)));
   });
@@ -50,12 +55,14 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
     config,
     db,
     fakePayments,
+    inboxUrl: inbox?.url ?? null,
     async stop() {
       await close();
       await new Promise<void>((resolve) => server.close(() => resolve()));
       server.closeAllConnections();
       mailer.close();
       await fakeSmtp?.close();
+      await inbox?.close();
       await fakePayments?.close();
       await db.destroy();
     },
@@ -65,9 +72,13 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
 // Run directly (`tsx server/main.ts`, as `npm run dev:server` does): serve with the environment's config.
 if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
   startServer()
-    .then((s) => console.log(`Trailframe API listening on ${s.url}`))
+    .then((s) => {
+      console.log(`Trailframe API listening on ${s.url}`);
+      if (s.inboxUrl) console.log(`Demo inbox (e-mail the demo sent; this machine only): ${s.inboxUrl}`);
+    })
     .catch((err: NodeJS.ErrnoException) => {
-      console.error(err.code === 'EADDRINUSE' ? `Port ${process.env['PORT'] ?? 3000} is in use: stop the other program or start with another port, e.g. PORT=3001 npm start` : err.message);
+      const port = (err as { port?: number }).port ?? process.env['PORT'] ?? 3000;
+      console.error(err.code === 'EADDRINUSE' ? `Port ${port} is in use: stop the other program or choose other ports (PORT, FAKE_SMTP_PORT, DEMO_INBOX_PORT, FAKE_PAYMENTS_PORT; e.g. PORT=3001 npm start)` : err.message);
       process.exit(1);
     });
 }

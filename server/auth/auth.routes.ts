@@ -1,12 +1,15 @@
 import { Router, type RequestHandler } from 'express';
 import type { Passport } from 'passport';
-import { UnauthorizedError } from '../errors';
+import { ForbiddenError, UnauthorizedError } from '../errors';
+import { DEACTIVATED } from './passport-setup';
 import type { Csrf } from '../http/csrf';
+import { markSessionSeen, SESSION_COOKIE } from '../http/sessions';
 import { parse, TokenParam } from '../http/validate';
 import type { Db } from '../db/knex';
 import { AcceptInvitationBody, ResetCompleteBody, ResetRequestBody, SignInBody } from './auth-schemas';
 import type { InvitationsService } from './invitations-service';
 import type { PasswordResetsService } from './password-resets-service';
+import { accountWaitError, type SignInGuard } from './sign-in-guard';
 import { usersRepository } from './users-repository';
 
 export interface AuthRoutesDeps {
@@ -16,6 +19,8 @@ export interface AuthRoutesDeps {
   invitations: InvitationsService;
   resets: PasswordResetsService;
   signInLimiter: RequestHandler;
+  /** Per-account limits and known browsers. */
+  signInGuard: SignInGuard;
   resetLimiter: RequestHandler;
   clock: () => Date;
 }
@@ -29,13 +34,26 @@ export function authRoutes(d: AuthRoutesDeps): Router {
   });
 
   router.post('/auth/sign-in', d.signInLimiter, (req, res, next) => {
-    parse(SignInBody, req.body);
-    d.passport.authenticate('local', { session: true }, (err: unknown, user: Express.User | false) => {
+    const { email } = parse(SignInBody, req.body);
+    const wait = d.signInGuard.waitSeconds(req, email);
+    if (wait > 0) {
+      res.setHeader('Retry-After', String(wait));
+      throw accountWaitError(wait);
+    }
+    d.passport.authenticate('local', { session: true }, (err: unknown, user: Express.User | false, info?: { message?: string }) => {
       if (err) return next(err);
-      if (!user) return next(new UnauthorizedError('E-mail or password is incorrect.', 'invalid_credentials'));
+      if (!user && info?.message === DEACTIVATED) {
+        return next(new ForbiddenError("Your account has been deactivated by your clinic's owner. Ask them if you need access again.", 'account_deactivated'));
+      }
+      if (!user) {
+        d.signInGuard.failed(req, email);
+        return next(new UnauthorizedError('E-mail or password is incorrect.', 'invalid_credentials'));
+      }
       // passport regenerates the session id here (session fixation defence).
       req.logIn(user, (loginErr) => {
         if (loginErr) return next(loginErr);
+        markSessionSeen(req, d.clock);
+        d.signInGuard.succeeded(req, res, email);
         d.csrf.issue(req, res, true);
         usersRepository
           .touchSignIn(d.db, user.id, d.clock().toISOString())
@@ -48,8 +66,13 @@ export function authRoutes(d: AuthRoutesDeps): Router {
   router.post('/auth/sign-out', (req, res, next) => {
     req.logOut((err) => {
       if (err) return next(err);
-      d.csrf.issue(req, res, true);
-      res.status(204).end();
+      // passport leaves a fresh empty session behind; drop it, so signed-out browsers have no row.
+      req.session.destroy((destroyErr) => {
+        if (destroyErr) return next(destroyErr);
+        res.clearCookie(SESSION_COOKIE, { path: '/' });
+        d.csrf.issue(req, res, true);
+        res.status(204).end();
+      });
     });
   });
 
@@ -71,6 +94,7 @@ export function authRoutes(d: AuthRoutesDeps): Router {
     if (!user) throw new UnauthorizedError();
     req.logIn(user, (err) => {
       if (err) return next(err);
+      markSessionSeen(req, d.clock);
       d.csrf.issue(req, res, true);
       res.status(201).json({ user });
     });

@@ -3,7 +3,7 @@ import type { Config } from '../config';
 import type { Db } from '../db/knex';
 import type { InvitationRow } from '../db/rows';
 import { ConflictError, GoneError, NotFoundError, AppError } from '../errors';
-import type { Mailer } from '../mail/mailer';
+import type { Mailer, MailMessage } from '../mail/mailer';
 import { audit } from '../audit/audit-log';
 import { hashPassword } from './passwords';
 import { hashToken, newToken } from './tokens';
@@ -38,15 +38,23 @@ export function invitationsService({ db, mailer, config, clock }: InvitationsDep
   }
 
   return {
-    /** Creates an invitation (replacing any pending one for the same e-mail) and e-mails the link. */
+    /**
+     * Creates an invitation (replacing any pending one for the same e-mail) and e-mails the link.
+     * An address with an account in ANOTHER clinic is answered exactly as a new one (so no owner
+     * learns that it is registered somewhere); its owner gets a notice instead of a link, and the
+     * invitation's token is never sent anywhere, so it can only expire or be revoked.
+     */
     async invite(input: InviteInput): Promise<PendingInvitation> {
       const now = clock();
       const { token, hash } = newToken();
       const expiresAt = new Date(now.getTime() + config.invitationTtlHours * 3_600_000).toISOString();
+      let elsewhere = false;
       const id = await db.transaction(async (trx) => {
-        if (await usersRepository.findByEmail(trx, input.email)) {
-          throw new ConflictError('Someone already has an account with this e-mail address.', 'email_in_use');
+        const existing = await usersRepository.findByEmail(trx, input.email);
+        if (existing && existing.clinic_id === input.clinicId) {
+          throw new ConflictError('Someone in your clinic already has an account with this e-mail address.', 'email_in_use');
         }
+        elsewhere = Boolean(existing);
         await trx('invitations')
           .where({ clinic_id: input.clinicId, email: input.email })
           .whereNull('used_at')
@@ -77,7 +85,7 @@ export function invitationsService({ db, mailer, config, clock }: InvitationsDep
       });
       const clinic = await db('clinics').where({ id: input.clinicId }).first<{ name: string }>('name');
       try {
-        await mailer.send({
+        await mailer.send(elsewhere ? alreadyRegisteredNotice(input, clinic?.name ?? 'A clinic') : {
           to: input.email,
           subject: `You're invited to ${clinic?.name ?? 'your clinic'} on Trailframe`,
           text: [
@@ -175,6 +183,27 @@ export function invitationsService({ db, mailer, config, clock }: InvitationsDep
       if (!n) throw new NotFoundError('Invitation');
       await audit(db, { clinicId, actorId, action: 'invitation.revoked', detail: { invitationId: id } });
     },
+  };
+}
+
+/**
+ * The e-mail to someone whose address already has an account (in another clinic) instead of an
+ * invitation: it says what happened and carries no link or token.
+ */
+function alreadyRegisteredNotice(input: InviteInput, clinicName: string): MailMessage {
+  return {
+    to: input.email,
+    subject: `${clinicName} tried to invite you to Trailframe`,
+    text: [
+      `Hello ${input.name},`,
+      '',
+      `${clinicName} tried to invite you to Trailframe as ${input.role === 'athlete' ? 'an athlete' : 'a coach'}.`,
+      'This e-mail address already has a Trailframe account, and one address can belong to only one account,',
+      'so nothing was created and your account was not changed.',
+      '',
+      `If you want to join ${clinicName} too, ask them to invite another e-mail address of yours.`,
+      'If you did not expect this, you can ignore this message.',
+    ].join('\n'),
   };
 }
 

@@ -8,6 +8,7 @@ import { audit } from '../audit/audit-log';
 import { hashPassword } from './passwords';
 import { hashToken, newToken } from './tokens';
 import { usersRepository } from './users-repository';
+import { revokeUserSessions } from '../http/sessions';
 
 export interface PasswordResetsDeps {
   db: Db;
@@ -15,10 +16,12 @@ export interface PasswordResetsDeps {
   config: Config;
   clock: () => Date;
   logger: Logger;
+  /** Told after a password was set through a reset link (ends any sign-in wait of the account). */
+  onPasswordSet?: (email: string) => void;
 }
 
 /** "Forgot password": a single-use, short-lived e-mailed link to choose a new password. */
-export function passwordResetsService({ db, mailer, config, clock, logger }: PasswordResetsDeps) {
+export function passwordResetsService({ db, mailer, config, clock, logger, onPasswordSet }: PasswordResetsDeps) {
   async function usableReset(token: string): Promise<PasswordResetRow> {
     const row = await db<PasswordResetRow>('password_resets').where({ token_hash: hashToken(token) }).first();
     if (!row) throw new NotFoundError('Reset link');
@@ -78,7 +81,7 @@ export function passwordResetsService({ db, mailer, config, clock, logger }: Pas
     async complete(token: string, password: string): Promise<void> {
       await usableReset(token);
       const passwordHash = await hashPassword(password);
-      await db.transaction(async (trx) => {
+      const email = await db.transaction(async (trx) => {
         const row = await trx<PasswordResetRow>('password_resets').where({ token_hash: hashToken(token) }).first();
         if (!row || row.used_at) throw new GoneError('This reset link has already been used.', 'token_used');
         const at = clock().toISOString();
@@ -86,9 +89,11 @@ export function passwordResetsService({ db, mailer, config, clock, logger }: Pas
         await usersRepository.setPassword(trx, row.user_id, passwordHash, at);
         const user = await usersRepository.findById(trx, row.user_id);
         // Sign out every existing session of this user.
-        await trx('sessions').whereRaw(`json_extract(sess, '$.passport.user') = ?`, [row.user_id]).delete();
+        await revokeUserSessions(trx, row.user_id);
         if (user) await audit(trx, { clinicId: user.clinic_id, actorId: user.id, action: 'user.password_reset' }, at);
+        return user?.email ?? null;
       });
+      if (email) onPasswordSet?.(email);
     },
   };
 }

@@ -53,17 +53,23 @@ export const usersRepository = {
     await db('users').where({ id }).update({ last_sign_in_at: at });
   },
 
-  async listStaff(db: Knex, clinicId: number): Promise<StaffMember[]> {
-    const rows = await db<UserRow>('users')
-      .where({ clinic_id: clinicId })
-      .whereIn('role', ['owner', 'coach'])
-      .orderBy([{ column: 'role', order: 'desc' }, { column: 'name' }]);
+  /** The clinic's owners and coaches (one when `id` is given), with how many athletes each coaches. */
+  async listStaff(db: Knex, clinicId: number, id?: number): Promise<StaffMember[]> {
+    const athleteCount = db('athletes as a').count('*').where('a.coach_id', db.ref('u.id')).as('athlete_count');
+    const rows = await db('users as u')
+      .where('u.clinic_id', clinicId)
+      .whereIn('u.role', ['owner', 'coach'])
+      .modify((q) => (id === undefined ? q : q.andWhere('u.id', id)))
+      .orderBy([{ column: 'u.role', order: 'desc' }, { column: 'u.name' }])
+      .select<(UserRow & { athlete_count: number })[]>('u.*', athleteCount);
     return rows.map((r) => ({
       id: r.id,
       email: r.email,
       name: r.name,
       role: r.role,
       active: Boolean(r.active),
+      deactivatedAt: r.deactivated_at ?? null,
+      athleteCount: Number(r.athlete_count),
       createdAt: r.created_at,
     }));
   },

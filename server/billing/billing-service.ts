@@ -22,6 +22,7 @@ import { invoicesRepository as invoices, toDetail, toSummary, type InvoiceRow, t
 import type { Payments, PaymentEvent } from './payments';
 import { pricesRepository as prices, toPrice } from './prices-repository';
 import { renderReceipt } from './receipt-pdf';
+import { confirmRefundEvent, REFUND_EVENTS, refundsWholeInvoice, type ConfirmedRefund } from './refund-events';
 
 export interface BillingDeps {
   db: Db;
@@ -285,7 +286,7 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
       return reload(user, id);
     },
 
-    /** paid → refunded, through the provider; its `charge.refunded` event then finds it done. */
+    /** paid → refunded, through the provider; its `charge.refunded` event (confirmed with the provider) then finds it done. */
     async refund(user: SessionUser, id: number): Promise<InvoiceDetail> {
       requireOwner(user);
       const row = await loadRow(user, id);
@@ -347,14 +348,19 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
       const o = event.object;
       let invoiceId: number | null = null;
       let confirmed: Awaited<ReturnType<Payments['retrieveCheckout']>> | null = null;
+      let refund: ConfirmedRefund | null = null;
       if (event.type === 'checkout.session.completed') {
         // Ask the provider again rather than trusting any copy of the session.
         confirmed = await provider('confirm payment', () => p.retrieveCheckout(String(o['id'])));
         invoiceId = confirmed.invoiceId;
       } else if (event.type === 'checkout.session.async_payment_failed') {
         invoiceId = Number((o['metadata'] as Record<string, string> | undefined)?.['invoice_id']) || null;
-      } else if (event.type === 'charge.refunded' && typeof o['payment_intent'] === 'string') {
-        invoiceId = (await invoices.findByPaymentIntent(db, o['payment_intent']))?.id ?? null;
+      } else if (REFUND_EVENTS.has(event.type)) {
+        // Ask the provider about the charge or refund; the event's own copy (payment, amount) is not used.
+        refund = await provider('confirm refund', () => confirmRefundEvent(p, event));
+        const pi = refund?.paymentIntentId;
+        invoiceId = pi ? ((await invoices.findByPaymentIntent(db, pi))?.id ?? null) : null;
+        if (!refund) logger.warn({ eventId: event.id, type: event.type }, 'refund event the payment service does not confirm; ignored');
       }
 
       const at = now();
@@ -378,8 +384,12 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
           }
         } else if (event.type === 'checkout.session.async_payment_failed') {
           if (row.status === 'open' && row.checkout_session_id === o['id']) await invoices.update(trx, row.id, { checkout_state: 'failed', updated_at: at });
-        } else if (event.type === 'charge.refunded' && o['refunded'] === true) {
-          await invoices.transition(trx, row.id, ['paid'], { status: 'refunded', refunded_at: at, updated_at: at });
+        } else if (refund) {
+          if (refundsWholeInvoice(refund, row)) {
+            await invoices.transition(trx, row.id, ['paid'], { status: 'refunded', refunded_at: at, updated_at: at, ...(refund.refundId ? { refund_id: refund.refundId } : {}) });
+          } else if (row.status === 'paid') {
+            logger.warn({ invoiceId: row.id, eventId: event.id }, 'refund not confirmed for the whole invoice; left paid');
+          }
         }
         return true;
       });

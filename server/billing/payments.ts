@@ -32,6 +32,30 @@ export interface RefundResult {
   succeeded: boolean;
 }
 
+/** A charge as the provider reports it (to confirm a refund event). */
+export interface ChargeState {
+  id: string;
+  paymentIntentId: string | null;
+  /** Whether the provider says the whole charge was refunded. */
+  refunded: boolean;
+  amountRefundedMinor: number;
+  /** ISO 4217, upper case. */
+  currency: string | null;
+}
+
+/** A refund as the provider reports it (to confirm a refund event). */
+export interface RefundState {
+  id: string;
+  paymentIntentId: string | null;
+  /** Whether the money went back (`succeeded`); pending, failed or cancelled refunds are not. */
+  succeeded: boolean;
+  amountMinor: number;
+  currency: string | null;
+}
+
+/** Thrown by `retrieve…` when the provider knows no such object (a forged or foreign id). */
+export class PaymentObjectMissing extends Error {}
+
 /** A webhook event after its signature was checked. */
 export interface PaymentEvent {
   id: string;
@@ -45,6 +69,10 @@ export interface Payments {
   createCheckout(request: CheckoutRequest): Promise<CheckoutSession>;
   retrieveCheckout(sessionId: string): Promise<CheckoutSession>;
   refund(paymentIntentId: string, idempotencyKey: string): Promise<RefundResult>;
+  /** The charge with this id; throws {@link PaymentObjectMissing} when the provider has none. */
+  retrieveCharge(chargeId: string): Promise<ChargeState>;
+  /** The refund with this id; throws {@link PaymentObjectMissing} when the provider has none. */
+  retrieveRefund(refundId: string): Promise<RefundState>;
   /** Verifies the signature over the RAW body and parses the event; throws when it does not match. */
   verifyWebhook(rawBody: Buffer, signatureHeader: string | undefined): PaymentEvent;
 }
@@ -103,9 +131,42 @@ export function stripePayments(config: PaymentsConfig): Payments {
       const refund = await stripe.refunds.create({ payment_intent: paymentIntentId }, { idempotencyKey });
       return { id: refund.id, succeeded: refund.status === 'succeeded' };
     },
+    async retrieveCharge(id) {
+      const c = await retrieveOrMissing(() => stripe.charges.retrieve(id));
+      return {
+        id: c.id,
+        paymentIntentId: idOf(c.payment_intent),
+        refunded: c.refunded,
+        amountRefundedMinor: c.amount_refunded,
+        currency: c.currency ? c.currency.toUpperCase() : null,
+      };
+    },
+    async retrieveRefund(id) {
+      const r = await retrieveOrMissing(() => stripe.refunds.retrieve(id));
+      return {
+        id: r.id,
+        paymentIntentId: idOf(r.payment_intent),
+        succeeded: r.status === 'succeeded',
+        amountMinor: r.amount,
+        currency: r.currency ? r.currency.toUpperCase() : null,
+      };
+    },
     verifyWebhook(rawBody, header) {
       const event = stripe.webhooks.constructEvent(rawBody, header ?? '', config.webhookSecret);
       return { id: event.id, type: event.type, object: event.data.object as unknown as Record<string, unknown> };
     },
   };
+}
+
+const idOf = (x: string | { id: string } | null | undefined): string | null => (typeof x === 'string' ? x : (x?.id ?? null));
+
+/** Runs a retrieve; the provider's "no such object" becomes {@link PaymentObjectMissing}. */
+async function retrieveOrMissing<T>(call: () => Promise<T>): Promise<T> {
+  try {
+    return await call();
+  } catch (err) {
+    const e = err as { code?: string; statusCode?: number };
+    if (e.code === 'resource_missing' || e.statusCode === 404) throw new PaymentObjectMissing((err as Error).message);
+    throw err;
+  }
 }

@@ -13,6 +13,7 @@ import type { Logger } from 'pino';
 import type { UploadTemps } from '../storage/upload-temps';
 import { contentDisposition } from '../http/file-names';
 import type { ClipEvents } from './clip-events';
+import type { UserRevocations } from '../http/sessions';
 import { ClipPatchBody, MediaIndexParams } from './clips-schemas';
 import { tooLarge, type ClipsService } from './clips-service';
 
@@ -27,6 +28,8 @@ export interface ClipsRoutesDeps {
   db: Db;
   clips: ClipsService;
   events: ClipEvents;
+  /** Ends a user's live-status streams when they are signed out everywhere. */
+  revocations: UserRevocations;
   /** Temp files of uploads being received (owned per request; swept when nobody owns them). */
   temps: UploadTemps;
   logger: Logger;
@@ -149,9 +152,12 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
         .catch(() => send('clip-deleted', { id: clipId }));
     });
     const ping = setInterval(() => res.write(': keep-alive\n\n'), 15_000);
+    // Signed out everywhere (e.g. deactivated): the stream ends at once.
+    const unrevoke = d.revocations.onRevoke(user.id, () => res.end());
     req.on('close', () => {
       clearInterval(ping);
       unsubscribe();
+      unrevoke();
     });
   });
 

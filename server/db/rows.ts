@@ -19,6 +19,8 @@ export interface UserRow {
   last_sign_in_at: string | null;
   created_at: string;
   updated_at: string;
+  /** When the owner deactivated them (staff); null or absent while active. */
+  deactivated_at?: string | null;
 }
 
 export interface AthleteRow {

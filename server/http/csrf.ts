@@ -1,39 +1,78 @@
+import crypto from 'node:crypto';
 import type { Request, RequestHandler, Response } from 'express';
-import { csrfSync } from 'csrf-sync';
+import { doubleCsrf } from 'csrf-csrf';
 
 /** Readable cookie Angular's HttpClient copies into the `X-XSRF-TOKEN` header. */
 export const XSRF_COOKIE = 'XSRF-TOKEN';
 export const XSRF_HEADER = 'x-xsrf-token';
 
+/** What the app's CSRF protection offers the routes. */
+export interface Csrf {
+  /** Refuses POST, PUT, PATCH and DELETE whose header does not carry the cookie's valid token (403). */
+  protect: RequestHandler;
+  /** Sets a fresh cookie when the browser has none, or one made for another session. */
+  ensureCookie: RequestHandler;
+  /** Issues a token (a new one with `overwrite`, e.g. after sign-in) and sets the cookie; answers it. */
+  issue(req: Request, res: Response, overwrite?: boolean): string;
+}
+
 /**
- * Synchroniser-token CSRF protection (csrf-sync): the token lives in the server session; the
- * browser gets a copy in a readable cookie and must echo it in a header on every POST, PUT,
- * PATCH and DELETE. A cross-site page can neither read the cookie nor set the header.
+ * Signed double-submit CSRF protection (csrf-csrf): the token is an HMAC, under a key derived
+ * from the session secret, of a random value and — once signed in — the session id; the browser
+ * holds it in a readable cookie and must echo it in a header on every POST, PUT, PATCH and
+ * DELETE. A cross-site page can neither read the cookie nor set the header. Nothing is stored on
+ * the server, so anonymous visitors get no session row; a token made for one signed-in session
+ * does not work for another.
  */
-export function createCsrf(secureCookies: boolean) {
-  const { csrfSynchronisedProtection, generateToken } = csrfSync({
-    getTokenFromRequest: (req) => {
+export function createCsrf(secureCookies: boolean, sessionSecret: string): Csrf {
+  const key = crypto.createHmac('sha256', sessionSecret).update('trailframe csrf').digest('hex');
+  const { doubleCsrfProtection, generateCsrfToken, validateRequest } = doubleCsrf({
+    getSecret: () => key,
+    // Bound to the session once signed in; anonymous tokens (sign-in, reset forms) to nothing.
+    getSessionIdentifier: (req) => (req.user ? `session:${req.sessionID}` : ''),
+    cookieName: XSRF_COOKIE,
+    cookieOptions: { httpOnly: false, sameSite: 'lax', secure: secureCookies, path: '/' },
+    getCsrfTokenFromRequest: (req) => {
       const v = req.headers[XSRF_HEADER];
       return Array.isArray(v) ? v[0] : v;
     },
     errorConfig: { statusCode: 403, code: 'EBADCSRFTOKEN', message: 'invalid csrf token' },
   });
 
-  function issue(req: Request, res: Response, overwrite = false): string {
-    const token = generateToken(req, overwrite);
-    res.cookie(XSRF_COOKIE, token, { httpOnly: false, sameSite: 'lax', secure: secureCookies, path: '/' });
-    return token;
-  }
-
-  /** Makes sure the session has a token and the browser holds the same one in its cookie. */
-  const ensureCookie: RequestHandler = (req, res, next) => {
-    const token = req.session.csrfToken;
-    const cookie = /(?:^|;\s*)XSRF-TOKEN=([^;]+)/.exec(req.headers.cookie ?? '')?.[1];
-    if (!token || cookie !== token) issue(req, res);
-    next();
+  /** csrf-csrf reads `req.cookies`; we have no cookie parser, so read the one cookie it needs. */
+  const withCookie = (req: Request): void => {
+    const raw = /(?:^|;\s*)XSRF-TOKEN=([^;]+)/.exec(req.headers.cookie ?? '')?.[1];
+    let value: string | undefined;
+    try {
+      value = raw === undefined ? undefined : decodeURIComponent(raw);
+    } catch {
+      value = undefined;
+    }
+    (req as Request & { cookies: Record<string, string> }).cookies = value === undefined ? {} : { [XSRF_COOKIE]: value };
   };
 
-  return { protect: csrfSynchronisedProtection, ensureCookie, issue };
-}
+  /** Whether the browser's cookie holds a token valid for this request's session. */
+  const cookieValid = (req: Request): boolean => {
+    const cookie = (req as Request & { cookies: Record<string, string> }).cookies[XSRF_COOKIE];
+    if (!cookie) return false;
+    const probe = Object.create(req) as Request;
+    Object.defineProperty(probe, 'headers', { value: { ...req.headers, [XSRF_HEADER]: cookie } });
+    return validateRequest(probe);
+  };
 
-export type Csrf = ReturnType<typeof createCsrf>;
+  return {
+    protect: (req, res, next) => {
+      withCookie(req);
+      doubleCsrfProtection(req, res, next);
+    },
+    ensureCookie: (req, res, next) => {
+      withCookie(req);
+      if (!cookieValid(req)) generateCsrfToken(req, res, { overwrite: true });
+      next();
+    },
+    issue(req, res, overwrite = false) {
+      withCookie(req);
+      return generateCsrfToken(req, res, { overwrite });
+    },
+  };
+}

@@ -1,4 +1,4 @@
-import { create as dispositionOf, encodeExtended } from 'content-disposition';
+import { encodeExtended } from 'content-disposition';
 
 /** Longest display name kept, in characters (code points). */
 export const FILE_NAME_MAX = 200;
@@ -42,9 +42,10 @@ export function asciiFileName(name: string): string {
 }
 
 /**
- * `Content-Disposition` for a file of this name (RFC 6266): an ASCII `filename` for old clients
- * and the exact name in `filename*` (RFC 8187 UTF-8 percent-encoding).
+ * `Content-Disposition` for a file of this name (RFC 6266): a quoted ASCII `filename` for old
+ * clients (`ascii`, or one made from the name) and the exact name in `filename*` (RFC 8187 UTF-8
+ * percent-encoding, by the `content-disposition` package).
  */
-export function contentDisposition(name: string, type: 'attachment' | 'inline' = 'attachment'): string {
-  return `${dispositionOf(asciiFileName(name), { type, fallback: false })}; filename*=${encodeExtended(name)}`;
+export function contentDisposition(name: string, type: 'attachment' | 'inline' = 'attachment', ascii = asciiFileName(name)): string {
+  return `${type}; filename="${asciiFileName(ascii)}"; filename*=${encodeExtended(name)}`;
 }

@@ -10,7 +10,7 @@ export interface FakeSmtp {
 
 /**
  * Starts a local SMTP receiver (demo and test mode only) on 127.0.0.1 that accepts any message
- * and stores it in `mailbox_messages`, where the owner's Mailbox page reads it. The message is
+ * and stores it in `mailbox_messages`, where the demo inbox (`demo-inbox.ts`) shows it. The message is
  * stored before the SMTP "250 OK", so a sender whose `sendMail` resolved can read it at once.
  */
 export async function startFakeSmtp(db: Db, port: number): Promise<FakeSmtp> {

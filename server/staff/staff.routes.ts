@@ -5,9 +5,11 @@ import { idParam, parse } from '../http/validate';
 import { InviteCoachBody } from '../auth/auth-schemas';
 import type { InvitationsService } from '../auth/invitations-service';
 import { usersRepository } from '../auth/users-repository';
+import { DeactivateBody } from './staff-schemas';
+import type { StaffService } from './staff-service';
 
-/** The clinic's team: staff list and coach invitations (owner), coach picker (staff). */
-export function staffRoutes(d: { db: Db; invitations: InvitationsService }): Router {
+/** The clinic's team: staff list, coach invitations, deactivation (owner), coach picker (staff). */
+export function staffRoutes(d: { db: Db; invitations: InvitationsService; staff: StaffService }): Router {
   const router = Router();
 
   router.get('/staff', requireRole('owner'), async (req, res) => {
@@ -38,6 +40,17 @@ export function staffRoutes(d: { db: Db; invitations: InvitationsService }): Rou
     const id = idParam(req.params, 'Invitation');
     await d.invitations.revoke(user.clinicId, id, user.id);
     res.status(204).end();
+  });
+
+  router.post('/staff/:id/deactivate', requireRole('owner'), async (req, res) => {
+    const id = idParam(req.params, 'Staff member');
+    const body = parse(DeactivateBody, req.body ?? {});
+    res.json(await d.staff.deactivate(currentUser(req), id, body.reassignTo));
+  });
+
+  router.post('/staff/:id/reactivate', requireRole('owner'), async (req, res) => {
+    const id = idParam(req.params, 'Staff member');
+    res.json(await d.staff.reactivate(currentUser(req), id));
   });
 
   router.get('/coaches', requireRole('owner', 'coach'), async (req, res) => {

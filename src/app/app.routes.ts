@@ -1,7 +1,6 @@
 import { Routes } from '@angular/router';
 import {
   anonymousOnlyGuard,
-  demoModeGuard,
   redirectHome,
   roleGuard,
   signedInGuard,
@@ -70,11 +69,6 @@ export const routes: Routes = [
         path: 'settings/reference-bands',
         canMatch: [roleGuard('owner')],
         loadChildren: () => import('./features/reference-bands/reference-bands.routes'),
-      },
-      {
-        path: 'mailbox',
-        canMatch: [roleGuard('owner'), demoModeGuard],
-        loadChildren: () => import('./features/mailbox/mailbox.routes'),
       },
       {
         path: 'portal',

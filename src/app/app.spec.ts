@@ -41,7 +41,10 @@ async function boot(user: SessionUser | null, url: string, demoMode = false) {
           csrf: () => of(undefined),
         },
       },
-      { provide: ConfigStore, useValue: { demoMode: signal(demoMode), version: signal('test') } },
+      {
+        provide: ConfigStore,
+        useValue: { demoMode: signal(demoMode), version: signal('test'), demoInboxUrl: signal(demoMode ? 'http://127.0.0.1:2580' : null) },
+      },
       // The portal home lists the athlete's assessments; none here.
       { provide: AssessmentsApi, useValue: { list: () => of([]) } },
       // …and the athlete's plan card; no plan here.
@@ -83,9 +86,13 @@ describe('App', () => {
     TestBed.inject(HttpTestingController).verify();
   });
 
-  it('shows the demo sign-in note only in demo mode', async () => {
+  it('shows the demo sign-in note and where the demo inbox is, only in demo mode', async () => {
     const { element } = await boot(null, '/sign-in', true);
     expect(element.textContent).toContain('Demo sign-ins are printed by npm start');
+    expect(element.querySelector('a[href="http://127.0.0.1:2580"]')?.textContent).toContain('http://127.0.0.1:2580');
+    TestBed.resetTestingModule();
+    const off = await boot(null, '/sign-in', false);
+    expect(off.element.textContent).not.toContain('demo inbox');
   });
 
   it('answers unknown addresses with a not-found page once signed in', async () => {

@@ -25,11 +25,16 @@ export interface SessionUser {
 }
 
 export interface AppConfig {
-  /** Whether the demo helpers (fake mail, mailbox page, demo sign-ins) are on. */
+  /** Whether the demo helpers (fake mail, demo inbox, demo sign-ins) are on. */
   demoMode: boolean;
   version: string;
   /** Largest clip the server accepts, bytes. */
   uploadMaxBytes: number;
+  /**
+   * Demo mode: the developer inbox where e-mail lands (127.0.0.1 of the machine running the demo,
+   * outside the app's sign-in); null otherwise.
+   */
+  demoInboxUrl: string | null;
 }
 
 export interface StaffMember {
@@ -37,8 +42,18 @@ export interface StaffMember {
   email: string;
   name: string;
   role: Role;
+  /** False once the owner deactivated them: no sign-in, no athletes. */
   active: boolean;
+  /** When they were deactivated; null while active. */
+  deactivatedAt: string | null;
+  /** Athletes they coach now. */
+  athleteCount: number;
   createdAt: string;
+}
+
+/** `POST /api/staff/:id/deactivate`: who takes the coach's athletes (default: the owner). */
+export interface StaffDeactivate {
+  reassignTo?: number;
 }
 
 export interface PendingInvitation {
@@ -148,19 +163,6 @@ export interface AthleteCreate {
 }
 
 export type AthleteUpdate = Partial<AthleteCreate>;
-
-export interface MailboxMessageSummary {
-  id: number;
-  to: string;
-  from: string;
-  subject: string;
-  receivedAt: string;
-}
-
-export interface MailboxMessage extends MailboxMessageSummary {
-  text: string;
-  html: string | null;
-}
 
 // ─── Assessments and clips ────────────────────────────────────────────────────────────────
 

@@ -1,7 +1,7 @@
 /**
  * Foundation journey in Debian chromium: a coach adds an athlete, fills the intake and invites
  * them; the athlete joins through the link in the e-mail caught by the fake SMTP receiver and sees
- * only their own profile.
+ * only their own profile. The e-mail is read in the demo inbox (127.0.0.1, outside the app).
  */
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -123,14 +123,71 @@ describe('foundation journey', () => {
     await context.close();
   });
 
-  it('the owner reads the invitation in the demo Mailbox', async () => {
+  it('the owner deactivates a coach on the Team page (athletes to the owner), then reactivates her; desktop and phone', async () => {
     const { page, context, problems } = await h.newPage();
+    await page.setViewportSize({ width: 1440, height: 900 });
     await signIn(page, owner.email, owner.password);
     await page.waitForURL(/\/athletes$/);
-    await page.getByRole('link', { name: 'Mailbox' }).click();
-    await expect.poll(() => page.getByText(email).count()).toBeGreaterThan(0);
-    await page.screenshot({ path: path.join(SCREENSHOTS, 'mailbox.png'), fullPage: true });
+    await page.getByRole('link', { name: 'Team' }).click();
+    const ilse = DEMO_SIGN_INS[2];
+    const row = page.getByRole('row', { name: new RegExp(ilse.name) });
+    await expect.poll(() => row.count()).toBe(1);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'team-desktop.png'), fullPage: true });
+
+    await page.getByRole('button', { name: `Deactivate ${ilse.name}` }).click();
+    const dialog = page.getByRole('dialog');
+    await expect.poll(() => dialog.getByText(/athletes move/).count()).toBe(1);
+    await dialog.getByRole('combobox', { name: 'Athletes go to' }).click();
+    await page.getByRole('option', { name: `You (${owner.name})` }).click();
+    await page.getByRole('listbox').waitFor({ state: 'hidden' });
+    await page.waitForTimeout(300);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'team-deactivate-dialog.png') });
+    await dialog.getByRole('button', { name: 'Deactivate' }).click();
+    await expect.poll(() => row.getByText(/since \d+ \w+ \d{4}/).count()).toBe(1);
+    const ilseId = (await h.server.db('users').where({ email: ilse.email }).first()).id;
+    expect(await h.server.db('athletes').where({ coach_id: ilseId })).toHaveLength(0);
+
     expect(problems).toEqual([]);
+    await context.close();
+
+    // On a phone (a fresh page at that size): the states and buttons stay in view.
+    const phone = await h.newPage();
+    await phone.page.setViewportSize({ width: 390, height: 844 });
+    await signIn(phone.page, owner.email, owner.password);
+    await phone.page.waitForURL(/\/athletes$/);
+    await phone.page.goto(`${h.baseUrl}/team`);
+    const reactivate = phone.page.getByRole('button', { name: `Reactivate ${ilse.name}` });
+    await reactivate.waitFor();
+    await phone.page.screenshot({ path: path.join(SCREENSHOTS, 'team-phone.png'), fullPage: true });
+    await reactivate.evaluate((el) => el.scrollIntoView({ block: 'center' }));
+    await phone.page.screenshot({ path: path.join(SCREENSHOTS, 'team-phone-staff.png') });
+    const overflow = await phone.page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+    expect(overflow).toBeLessThanOrEqual(0);
+    const box = (await reactivate.boundingBox())!;
+    expect(box.x + box.width).toBeLessThanOrEqual(390);
+
+    await reactivate.click();
+    await phone.page.getByRole('dialog').getByRole('button', { name: 'Reactivate' }).click();
+    await expect.poll(() => phone.page.getByRole('button', { name: `Deactivate ${ilse.name}` }).count()).toBe(1);
+    expect(phone.problems).toEqual([]);
+    await phone.context.close();
+  });
+
+  it('the demo inbox on 127.0.0.1 shows the invitation; the app itself has no mailbox', async () => {
+    const inbox = h.server.inboxUrl!;
+    expect(inbox).toMatch(/^http:\/\/127\.0\.0\.1:\d+$/);
+    const { page, context, problems } = await h.newPage();
+    await page.goto(inbox);
+    await page.getByRole('link', { name: /invited to Larchwood/ }).first().click();
+    await expect.poll(() => page.getByText(`${h.baseUrl}/invitation/`).count()).toBeGreaterThan(0);
+    expect(await page.getByText(email).count()).toBeGreaterThan(0);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'demo-inbox.png'), fullPage: true });
+
+    await signIn(page, owner.email, owner.password);
+    await page.waitForURL(/\/athletes$/);
+    expect(await page.getByRole('link', { name: 'Mailbox' }).count()).toBe(0);
+    expect(await page.evaluate(async () => (await fetch('/api/mailbox')).status)).toBe(404);
+    expect(problems.filter((p) => !p.includes('404'))).toEqual([]);
     await context.close();
   });
 });

@@ -60,6 +60,7 @@ export async function startHarness(): Promise<Harness> {
     UPLOADS_DIR: path.join(dir, 'uploads'),
     CLIENT_DIR: clientDir,
     FAKE_SMTP_PORT: '0',
+    DEMO_INBOX_PORT: '0',
     FAKE_PAYMENTS_PORT: '0',
     DEMO_MODE: 'true',
     LOG_LEVEL: 'warn',

@@ -1,6 +1,8 @@
 /**
  * Walks every API route as each kind of caller and checks the status. A new route must be added
- * to ROUTES, or the "every route is listed" check fails.
+ * to ROUTES, or the "every route is listed" check fails. Callers: anonymous, the demo clinic's
+ * athlete (self), coach and owner, and a second clinic's athlete, coach and owner. Targets include
+ * athletes who have no account: one of the demo clinic (Teodor) and one of the second clinic.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import http from 'node:http';
@@ -9,17 +11,22 @@ import type { Express } from 'express';
 import { makeClip, tempDir } from './media/fixtures';
 import { Client, makeTestApp, OTHER, signedIn, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { listRoutes } from '../support/routes';
 
-type Who = 'anonymous' | 'athleteSelf' | 'athleteOther' | 'coach' | 'coachOtherClinic' | 'owner';
-const WHO: Who[] = ['anonymous', 'athleteSelf', 'athleteOther', 'coach', 'coachOtherClinic', 'owner'];
+type Who = 'anonymous' | 'athleteSelf' | 'athleteOther' | 'coach' | 'coachOtherClinic' | 'owner' | 'ownerOtherClinic';
+const WHO: Who[] = ['anonymous', 'athleteSelf', 'athleteOther', 'coach', 'coachOtherClinic', 'owner', 'ownerOtherClinic'];
+/** Expected statuses; the other clinic's owner answers as its coach unless stated. */
+type Expect = Record<Exclude<Who, 'ownerOtherClinic'>, number> & { ownerOtherClinic?: number };
+const expected = (e: Expect, who: Who): number => (who === 'ownerOtherClinic' ? (e.ownerOtherClinic ?? e.coachOtherClinic) : e[who]);
 
 interface Ctx {
   /** The demo athlete with an account (the "self" athlete). */
   selfAthleteId: number;
-  /** An athlete of the same clinic, not the signed-in athlete. */
+  /** An athlete of the same clinic, not the signed-in athlete, without an account. */
   otherAthleteId: number;
+  /** An athlete of the second clinic without an account (for 404s across clinics). */
+  foreignAthleteId: number;
   pendingInvitationId: number;
-  mailId: number;
   /** The self athlete's assessment, with a ready clip. */
   assessmentId: number;
   /** An assessment of another athlete of the same clinic. */
@@ -36,7 +43,7 @@ interface RouteCase {
   pattern: string;
   path: (c: Ctx) => string;
   body?: (c: Ctx) => unknown;
-  expect: Record<Who, number>;
+  expect: Expect;
   /** Runs before each call (fresh rows for DELETE and the like). */
   before?: () => Promise<void>;
   /** Server-sent events: only the status line is read. */
@@ -50,13 +57,16 @@ const intake = {
 
 const assessment = { date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: { value: 11, unit: 'kmh' }, inclinePercent: 1, shoes: null, cameraNotes: null, notes: null };
 
-const all = (status: number): Record<Who, number> => Object.fromEntries(WHO.map((w) => [w, status])) as Record<Who, number>;
-const staffOnly = (ok: number, otherClinic = 403): Record<Who, number> => ({ anonymous: 401, athleteSelf: 403, athleteOther: 403, coach: ok, coachOtherClinic: otherClinic, owner: ok });
+const all = (status: number): Expect => Object.fromEntries(WHO.map((w) => [w, status])) as Expect;
+const staffOnly = (ok: number, otherClinic = 403): Expect => ({ anonymous: 401, athleteSelf: 403, athleteOther: 403, coach: ok, coachOtherClinic: otherClinic, owner: ok });
 /** Readable by clinic staff and by the athlete it belongs to. */
-const selfAndStaff = (ok: number): Record<Who, number> => ({ anonymous: 401, athleteSelf: ok, athleteOther: 404, coach: ok, coachOtherClinic: 404, owner: ok });
+const selfAndStaff = (ok: number): Expect => ({ anonymous: 401, athleteSelf: ok, athleteOther: 404, coach: ok, coachOtherClinic: 404, owner: ok });
 /** Writable by clinic staff only. */
-const staffWrite = (ok: number): Record<Who, number> => ({ anonymous: 401, athleteSelf: 403, athleteOther: 403, coach: ok, coachOtherClinic: 404, owner: ok });
-const ownerOnly = (ok: number): Record<Who, number> => ({ anonymous: 401, athleteSelf: 403, athleteOther: 403, coach: 403, coachOtherClinic: 403, owner: ok });
+const staffWrite = (ok: number): Expect => ({ anonymous: 401, athleteSelf: 403, athleteOther: 403, coach: ok, coachOtherClinic: 404, owner: ok });
+/** Owner only; `otherOwner` is what the second clinic's owner gets (404 for this clinic's ids, ok for their own lists). */
+const ownerOnly = (ok: number, otherOwner = 404): Expect => ({ anonymous: 401, athleteSelf: 403, athleteOther: 403, coach: 403, coachOtherClinic: 403, owner: ok, ownerOtherClinic: otherOwner });
+/** A route about the second clinic's athlete who has no account: only that clinic's staff get past. */
+const foreign = (ok: number, athletes = 404): Expect => ({ anonymous: 401, athleteSelf: athletes, athleteOther: athletes, coach: 404, coachOtherClinic: ok, owner: 404 });
 
 // "athleteOther" is an athlete of another clinic reading the same ids: always 404 for athlete ids.
 const ROUTES: RouteCase[] = [
@@ -64,26 +74,38 @@ const ROUTES: RouteCase[] = [
   { method: 'get', pattern: '/api/config', path: () => '/api/config', expect: all(200) },
   { method: 'get', pattern: '/api/auth/csrf', path: () => '/api/auth/csrf', expect: all(200) },
   { method: 'get', pattern: '/api/auth/me', path: () => '/api/auth/me', expect: all(200) },
-  { method: 'get', pattern: '/api/staff', path: () => '/api/staff', expect: ownerOnly(200) },
-  { method: 'post', pattern: '/api/staff/invitations', path: () => '/api/staff/invitations', body: () => ({ email: `walk-${Math.random().toString(36).slice(2)}@x.test`, name: 'Walker' }), expect: ownerOnly(201) },
+  { method: 'get', pattern: '/api/staff', path: () => '/api/staff', expect: ownerOnly(200, 200) },
+  { method: 'post', pattern: '/api/staff/invitations', path: () => '/api/staff/invitations', body: () => ({ email: `walk-${Math.random().toString(36).slice(2)}@x.test`, name: 'Walker' }), expect: ownerOnly(201, 201) },
   { method: 'delete', pattern: '/api/staff/invitations/:id', path: (c) => `/api/staff/invitations/${c.pendingInvitationId}`, expect: ownerOnly(204) },
+  { method: 'post', pattern: '/api/staff/:id/deactivate', path: () => `/api/staff/${staffc.coachId}/deactivate`, body: () => ({}), before: () => scratchCoach(true), expect: ownerOnly(200) },
+  { method: 'post', pattern: '/api/staff/:id/reactivate', path: () => `/api/staff/${staffc.coachId}/reactivate`, before: () => scratchCoach(false), expect: ownerOnly(200) },
   { method: 'get', pattern: '/api/coaches', path: () => '/api/coaches', expect: staffOnly(200, 200) },
   { method: 'get', pattern: '/api/athletes', path: () => '/api/athletes', expect: staffOnly(200, 200) },
   { method: 'post', pattern: '/api/athletes', path: () => '/api/athletes', body: () => ({ firstName: 'Walk', lastName: 'Er' }), expect: staffOnly(201, 201) },
   { method: 'get', pattern: '/api/athletes/:id', path: (c) => `/api/athletes/${c.selfAthleteId}`, expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 } },
   { method: 'get', pattern: '/api/athletes/:id', path: (c) => `/api/athletes/${c.otherAthleteId}`, expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 } },
   { method: 'patch', pattern: '/api/athletes/:id', path: (c) => `/api/athletes/${c.selfAthleteId}`, body: () => ({ firstName: 'Ada' }), expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 } },
-  { method: 'patch', pattern: '/api/athletes/:id', path: (c) => `/api/athletes/${c.otherAthleteId}`, body: () => ({ firstName: 'Bruno' }), expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 } },
+  { method: 'patch', pattern: '/api/athletes/:id', path: (c) => `/api/athletes/${c.otherAthleteId}`, body: () => ({ firstName: 'Teodor' }), expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 } },
   { method: 'put', pattern: '/api/athletes/:id/intake', path: (c) => `/api/athletes/${c.selfAthleteId}/intake`, body: () => intake, expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 } },
   { method: 'put', pattern: '/api/athletes/:id/intake', path: (c) => `/api/athletes/${c.otherAthleteId}/intake`, body: () => intake, expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 } },
   { method: 'post', pattern: '/api/athletes/:id/invitation', path: (c) => `/api/athletes/${c.otherAthleteId}/invitation`, expect: { ...staffOnly(201), coachOtherClinic: 404 } },
+  // The second clinic's athlete without an account: everyone of the demo clinic gets 404.
+  { method: 'get', pattern: '/api/athletes/:id', path: (c) => `/api/athletes/${c.foreignAthleteId}`, expect: foreign(200) },
+  { method: 'patch', pattern: '/api/athletes/:id', path: (c) => `/api/athletes/${c.foreignAthleteId}`, body: () => ({ firstName: 'Foreign' }), expect: foreign(200) },
+  { method: 'put', pattern: '/api/athletes/:id/intake', path: (c) => `/api/athletes/${c.foreignAthleteId}/intake`, body: () => intake, expect: foreign(200) },
+  { method: 'post', pattern: '/api/athletes/:id/invitation', path: (c) => `/api/athletes/${c.foreignAthleteId}/invitation`, expect: foreign(201, 403) },
+  { method: 'get', pattern: '/api/athletes/:id/assessments', path: (c) => `/api/athletes/${c.foreignAthleteId}/assessments`, expect: foreign(200) },
+  { method: 'post', pattern: '/api/athletes/:id/assessments', path: (c) => `/api/athletes/${c.foreignAthleteId}/assessments`, body: () => assessment, expect: foreign(201, 403) },
+  { method: 'get', pattern: '/api/athletes/:id/plans', path: (c) => `/api/athletes/${c.foreignAthleteId}/plans`, expect: foreign(200) },
+  { method: 'get', pattern: '/api/athletes/:id/stills', path: (c) => `/api/athletes/${c.foreignAthleteId}/stills`, expect: foreign(200) },
+  { method: 'get', pattern: '/api/athletes/:id/summaries', path: (c) => `/api/athletes/${c.foreignAthleteId}/summaries`, expect: foreign(200) },
+  { method: 'get', pattern: '/api/athletes/:id/measure-trends', path: (c) => `/api/athletes/${c.foreignAthleteId}/measure-trends`, expect: foreign(200, 403) },
+  { method: 'get', pattern: '/api/athletes/:id/comparison', path: (c) => `/api/athletes/${c.foreignAthleteId}/comparison`, expect: foreign(422, 403) },
   { method: 'get', pattern: '/api/invitations/:token', path: () => `/api/invitations/${'u'.repeat(43)}`, expect: all(404) },
   { method: 'post', pattern: '/api/invitations/:token/accept', path: () => `/api/invitations/${'u'.repeat(43)}/accept`, body: () => ({ name: 'X', password: 'long-enough-pw' }), expect: all(404) },
   { method: 'post', pattern: '/api/password-resets', path: () => '/api/password-resets', body: () => ({ email: 'nobody@nowhere.test' }), expect: all(202) },
   { method: 'get', pattern: '/api/password-resets/:token', path: () => `/api/password-resets/${'u'.repeat(43)}`, expect: all(404) },
   { method: 'post', pattern: '/api/password-resets/:token', path: () => `/api/password-resets/${'u'.repeat(43)}`, body: () => ({ password: 'long-enough-pw' }), expect: all(404) },
-  { method: 'get', pattern: '/api/mailbox', path: () => '/api/mailbox', expect: ownerOnly(200) },
-  { method: 'get', pattern: '/api/mailbox/:id', path: (c) => `/api/mailbox/${c.mailId}`, expect: ownerOnly(200) },
   { method: 'post', pattern: '/api/auth/sign-in', path: () => '/api/auth/sign-in', body: () => ({ email: 'nobody@nowhere.test', password: 'x' }), expect: all(401) },
   { method: 'get', pattern: '/api/athletes/:id/assessments', path: (c) => `/api/athletes/${c.selfAthleteId}/assessments`, expect: selfAndStaff(200) },
   { method: 'post', pattern: '/api/athletes/:id/assessments', path: (c) => `/api/athletes/${c.otherAthleteId}/assessments`, body: () => assessment, expect: staffWrite(201) },
@@ -112,8 +134,8 @@ const ROUTES: RouteCase[] = [
   { method: 'get', pattern: '/api/athletes/:id/comparison', path: (c) => `/api/athletes/${c.selfAthleteId}/comparison`, expect: staffWrite(200) },
   { method: 'get', pattern: '/api/athletes/:id/measure-trends', path: (c) => `/api/athletes/${c.selfAthleteId}/measure-trends?keys=hip_extension_toe_off,cadence`, expect: staffWrite(200) },
   { method: 'get', pattern: '/api/reference-bands', path: () => '/api/reference-bands', expect: staffOnly(200, 200) },
-  { method: 'put', pattern: '/api/reference-bands/:key', path: () => '/api/reference-bands/cadence', body: () => ({ low: 160, high: 180, unit: 'steps/min', context: 'Clinic runners', source: 'Clinic audit (internal)', evidence: 'trade' }), expect: ownerOnly(200) },
-  { method: 'delete', pattern: '/api/reference-bands/:key', path: () => '/api/reference-bands/cadence', expect: ownerOnly(204) },
+  { method: 'put', pattern: '/api/reference-bands/:key', path: () => '/api/reference-bands/cadence', body: () => ({ low: 160, high: 180, unit: 'steps/min', context: 'Clinic runners', source: 'Clinic audit (internal)', evidence: 'trade' }), expect: ownerOnly(200, 200) },
+  { method: 'delete', pattern: '/api/reference-bands/:key', path: () => '/api/reference-bands/cadence', expect: ownerOnly(204, 204) },
   { method: 'post', pattern: '/api/auth/sign-out', path: () => '/api/auth/sign-out', expect: all(204) },
   // Plans (fixtures in plansFixtures() at the end of this file).
   { method: 'get', pattern: '/api/exercises', path: () => '/api/exercises?region=hamstring', expect: staffOnly(200, 200) },
@@ -138,15 +160,15 @@ const ROUTES: RouteCase[] = [
   { method: 'post', pattern: '/api/plans/:id/logs', path: () => `/api/plans/${pc.otherPlanId}/logs`, body: () => logBody(), expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 } },
   { method: 'put', pattern: '/api/plans/:id/logs/:key/morning', path: () => `/api/plans/${pc.planId}/logs/${pc.logKey}/morning`, body: () => ({ pain: 1 }), expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 } },
   // Billing (fixtures in billingFixtures() at the end of this file). Coaches have no billing access.
-  { method: 'get', pattern: '/api/billing/settings', path: () => '/api/billing/settings', expect: ownerOnly(200) },
-  { method: 'put', pattern: '/api/billing/settings', path: () => '/api/billing/settings', body: () => ({ currency: 'EUR' }), expect: ownerOnly(200) },
-  { method: 'get', pattern: '/api/prices', path: () => '/api/prices', expect: ownerOnly(200) },
-  { method: 'post', pattern: '/api/prices', path: () => '/api/prices', body: () => priceBody, expect: ownerOnly(201) },
+  { method: 'get', pattern: '/api/billing/settings', path: () => '/api/billing/settings', expect: ownerOnly(200, 200) },
+  { method: 'put', pattern: '/api/billing/settings', path: () => '/api/billing/settings', body: () => ({ currency: 'EUR' }), expect: ownerOnly(200, 200) },
+  { method: 'get', pattern: '/api/prices', path: () => '/api/prices', expect: ownerOnly(200, 200) },
+  { method: 'post', pattern: '/api/prices', path: () => '/api/prices', body: () => priceBody, expect: ownerOnly(201, 201) },
   { method: 'patch', pattern: '/api/prices/:id', path: () => `/api/prices/${bc.priceId}`, body: () => ({ description: 'Walked.' }), expect: ownerOnly(200) },
   { method: 'delete', pattern: '/api/prices/:id', path: () => `/api/prices/${bc.scratchPriceId}`, before: () => scratchPrice(), expect: ownerOnly(204) },
   // Everyone signed in but coaches: the owner sees the clinic's, an athlete their own (possibly none).
-  { method: 'get', pattern: '/api/invoices', path: () => '/api/invoices?status=open', expect: { anonymous: 401, athleteSelf: 200, athleteOther: 200, coach: 403, coachOtherClinic: 403, owner: 200 } },
-  { method: 'post', pattern: '/api/invoices', path: () => '/api/invoices', body: (c) => invoiceBody(c.selfAthleteId), expect: ownerOnly(201) },
+  { method: 'get', pattern: '/api/invoices', path: () => '/api/invoices?status=open', expect: { anonymous: 401, athleteSelf: 200, athleteOther: 200, coach: 403, coachOtherClinic: 403, owner: 200, ownerOtherClinic: 200 } },
+  { method: 'post', pattern: '/api/invoices', path: () => '/api/invoices', body: (c) => invoiceBody(c.selfAthleteId), expect: ownerOnly(201, 422) },
   { method: 'get', pattern: '/api/invoices/:id', path: () => `/api/invoices/${bc.openInvoiceId}`, expect: billingSelf(200) },
   { method: 'get', pattern: '/api/invoices/:id', path: () => `/api/invoices/${bc.draftInvoiceId}`, expect: { ...billingSelf(200), athleteSelf: 404 } },
   { method: 'get', pattern: '/api/invoices/:id', path: () => `/api/invoices/${bc.otherAthleteInvoiceId}`, expect: { ...billingSelf(200), athleteSelf: 404 } },
@@ -193,6 +215,7 @@ const CREDENTIALS: Record<Exclude<Who, 'anonymous'>, { email: string; password: 
   coach,
   coachOtherClinic: OTHER.coach,
   owner,
+  ownerOtherClinic: OTHER.owner,
 };
 
 let t: TestApp;
@@ -236,12 +259,14 @@ async function clientFor(app: Express, who: Who): Promise<Client> {
 }
 
 beforeAll(async () => {
-  t = await makeTestApp({ rateLimit: { signInAttempts: 1000, resetRequests: 1000, windowMs: 60_000 } }, { fakePayments: true });
+  t = await makeTestApp({ rateLimit: { signInAttempts: 1000, accountAttempts: 1000, resetRequests: 1000, windowMs: 60_000 } }, { fakePayments: true });
   const self = await t.db('athletes').where({ email: athlete.email }).first();
-  const other = await t.db('athletes').where({ email: 'bruno.feldhaus@runner.test' }).first();
-  await t.db('mailbox_messages').insert({ to_address: 'a@x.test', from_address: 'b@x.test', subject: 'hi', text: 'hello', received_at: new Date().toISOString() });
-  const mail = await t.db('mailbox_messages').first();
-  ctx = { selfAthleteId: self.id, otherAthleteId: other.id, pendingInvitationId: 0, mailId: mail.id, assessmentId: 0, otherAssessmentId: 0, clipId: 0, scratchAssessmentId: 0, scratchClipId: 0 };
+  const other = await t.db('athletes').where({ email: 'teodor.brannick@runner.test' }).first();
+  const otherClinic = await t.db('clinics').where({ name: OTHER.clinic }).first();
+  const [foreignRow] = await t.db('athletes')
+    .insert({ clinic_id: otherClinic.id, user_id: null, coach_id: null, first_name: 'Foreign', last_name: 'Noaccount', email: 'foreign.noaccount@runner.test', created_at: new Date().toISOString(), updated_at: new Date().toISOString() })
+    .returning('id');
+  ctx = { selfAthleteId: self.id, otherAthleteId: other.id, foreignAthleteId: (foreignRow as { id: number }).id, pendingInvitationId: 0, assessmentId: 0, otherAssessmentId: 0, clipId: 0, scratchAssessmentId: 0, scratchClipId: 0 };
   coachClient = await clientFor(t.app, 'coach');
   ctx.assessmentId = (await coachClient.post(`/api/athletes/${self.id}/assessments`, assessment)).body.id;
   ctx.otherAssessmentId = (await coachClient.post(`/api/athletes/${other.id}/assessments`, assessment)).body.id;
@@ -264,23 +289,24 @@ afterAll(async () => {
 describe('access walk: every route × every caller', () => {
   for (const route of ROUTES) {
     for (const who of WHO) {
-      it(`${route.method.toUpperCase()} ${route.pattern} as ${who} → ${route.expect[who]}`, async () => {
+      const status = expected(route.expect, who);
+      it(`${route.method.toUpperCase()} ${route.pattern} as ${who} → ${status}`, async () => {
         const c = await clientFor(t.app, who);
         if (route.pattern === '/api/staff/invitations/:id') {
           const o = await clientFor(t.app, 'owner');
           ctx.pendingInvitationId = (await o.post('/api/staff/invitations', { email: `rev-${Math.random().toString(36).slice(2)}@x.test`, name: 'Rev' })).body.id;
         }
         if (route.pattern === '/api/athletes/:id/invitation') {
-          await t.db('invitations').where({ athlete_id: ctx.otherAthleteId }).delete();
+          await t.db('invitations').whereIn('athlete_id', [ctx.otherAthleteId, ctx.foreignAthleteId]).delete();
         }
         await route.before?.();
         const path = route.path(ctx);
         if (route.stream) {
-          expect(await streamStatus(c, path)).toBe(route.expect[who]);
+          expect(await streamStatus(c, path)).toBe(status);
           return;
         }
         const res = route.method === 'get' ? await c.get(path) : await c.send(route.method, path, route.body?.(ctx));
-        expect(res.status, JSON.stringify(res.body)).toBe(route.expect[who]);
+        expect(res.status, JSON.stringify(res.body)).toBe(status);
         if (res.status >= 400) expect(res.body.error).toMatchObject({ code: expect.any(String), message: expect.any(String) });
       });
     }
@@ -295,25 +321,17 @@ describe('access walk: every route × every caller', () => {
   });
 });
 
-/** Reads `METHOD /api/path` for every route registered under the API router. */
-function listRoutes(app: Express): string[] {
-  const out: string[] = [];
-  type Layer = { route?: { path: string; methods: Record<string, boolean> }; handle?: { stack?: Layer[] }; name?: string; matchers?: unknown };
-  const walk = (stack: Layer[], prefix: string) => {
-    for (const layer of stack) {
-      if (layer.route) {
-        for (const m of Object.keys(layer.route.methods)) out.push(`${m.toUpperCase()} ${prefix}${layer.route.path}`);
-      } else if (layer.handle?.stack) {
-        walk(layer.handle.stack, prefix);
-      }
-    }
-  };
-  const router = (app as unknown as { router: { stack: Layer[] } }).router;
-  // The API router is mounted at /api; the client-app router has no API routes.
-  for (const layer of router.stack) {
-    if (layer.handle?.stack) walk(layer.handle.stack, '/api');
-  }
-  return [...new Set(out)].filter((r) => !r.includes('/api/*') && !r.includes('(?!'));
+// ─── Staff fixtures ───────────────────────────────────────────────────────────────────────
+
+const staffc = { coachId: 0 };
+
+/** A coach of the demo clinic without athletes, active or already deactivated. */
+async function scratchCoach(active: boolean): Promise<void> {
+  const at = new Date().toISOString();
+  const [row] = await t.db('users')
+    .insert({ clinic_id: 1, email: `scratch-${Math.random().toString(36).slice(2)}@larchwood-clinic.test`, name: 'Scratch Coach', role: 'coach', password_hash: null, active, deactivated_at: active ? null : at, created_at: at, updated_at: at })
+    .returning('id');
+  staffc.coachId = (row as { id: number }).id;
 }
 
 // ─── Plans fixtures ───────────────────────────────────────────────────────────────────────
@@ -371,7 +389,7 @@ const priceBody = { item: 'Walk check', description: '', amountMinor: 1000, taxR
 const invoiceBody = (athleteId: number) => ({ athleteId, assessmentId: null, dueDate: '2026-12-31', note: null, lines: [{ priceId: null, description: 'Walk', quantity: 1, unitAmountMinor: 1000, taxRateBp: 2000 }] });
 /** Readable by the owner and the athlete billed; coaches have no billing access. */
 function billingSelf(ok: number): Record<Who, number> {
-  return { anonymous: 401, athleteSelf: ok, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: ok };
+  return { anonymous: 401, athleteSelf: ok, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: ok, ownerOtherClinic: 404 };
 }
 let ownerClient: Client;
 

@@ -3,7 +3,7 @@ import request from 'supertest';
 import { Client, makeTestApp, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 
-const coach = DEMO_SIGN_INS[1];
+const [owner, coach] = DEMO_SIGN_INS;
 let t: TestApp;
 
 beforeEach(async () => {
@@ -86,7 +86,7 @@ describe('sign-in and sessions', () => {
 
   it('rate-limits repeated failed sign-ins with 429', async () => {
     await t.close();
-    t = await makeTestApp({ rateLimit: { signInAttempts: 3, resetRequests: 5, windowMs: 60_000 } });
+    t = await makeTestApp({ rateLimit: { signInAttempts: 3, accountAttempts: 5, resetRequests: 5, windowMs: 60_000 } });
     const c = new Client(t.app);
     for (let i = 0; i < 3; i++) expect((await c.post('/api/auth/sign-in', { email: coach.email, password: 'wrong-password' })).status).toBe(401);
     const limited = await c.post('/api/auth/sign-in', { email: coach.email, password: coach.password });
@@ -99,7 +99,9 @@ describe('sign-in and sessions', () => {
     await c.signIn(coach.email, coach.password);
     await t.db('users').where({ email: coach.email }).update({ active: false });
     expect((await c.get('/api/auth/me')).body).toEqual({ user: null });
-    expect((await new Client(t.app).post('/api/auth/sign-in', { email: coach.email, password: coach.password })).status).toBe(401);
+    // The right password learns why (403 account_deactivated, see staff.test.ts); a wrong one gets the usual 401.
+    expect((await new Client(t.app).post('/api/auth/sign-in', { email: coach.email, password: coach.password })).status).toBe(403);
+    expect((await new Client(t.app).post('/api/auth/sign-in', { email: coach.email, password: 'not-the-password' })).status).toBe(401);
   });
 
   it('stores password hashes as argon2id, never the password', async () => {
@@ -109,11 +111,79 @@ describe('sign-in and sessions', () => {
   });
 });
 
+describe('sign-in limits: per account as well as per address', () => {
+  /** A client at a given address (the app trusts X-Forwarded-For here, as behind one proxy). */
+  const at = (ip: string) => {
+    const c = new Client(t.app);
+    c.agent.set('X-Forwarded-For', ip);
+    return c;
+  };
+  const attempt = (ip: string, email: string, password: string) => at(ip).post('/api/auth/sign-in', { email, password });
+
+  beforeEach(async () => {
+    await t.close();
+    t = await makeTestApp({ trustProxy: 1 });
+  });
+
+  it('failures against one account from many addresses slow that account down, and only that account', async () => {
+    for (let i = 1; i <= 5; i++) expect((await attempt(`198.51.100.${i}`, coach.email, 'wrong-password')).status).toBe(401);
+    const slowed = await attempt('198.51.100.6', coach.email, coach.password);
+    expect(slowed.status).toBe(429);
+    expect(slowed.body.error.message).toMatch(/this account/);
+    expect(Number(slowed.headers['retry-after'])).toBeGreaterThan(0);
+    // Same for an address nobody has: the answer never tells whether an account exists.
+    for (let i = 1; i <= 5; i++) await attempt(`198.51.100.${i}`, 'nobody@nowhere.test', 'wrong-password');
+    expect((await attempt('198.51.100.7', 'nobody@nowhere.test', 'wrong-password')).body).toEqual(
+      { error: { ...slowed.body.error, message: expect.stringMatching(/this account/) } },
+    );
+    // Other accounts, from the very same addresses, are not held up.
+    expect((await attempt('198.51.100.1', owner.email, owner.password)).status).toBe(200);
+  });
+
+  it('the wait ends: after it, the right password signs in and clears the count', async () => {
+    for (let i = 1; i <= 5; i++) await attempt(`203.0.113.${i}`, coach.email, 'wrong-password');
+    expect((await attempt('203.0.113.9', coach.email, coach.password)).status).toBe(429);
+    t.advance(31_000);
+    expect((await attempt('203.0.113.9', coach.email, coach.password)).status).toBe(200);
+    expect((await attempt('203.0.113.9', coach.email, 'wrong-password')).status).toBe(401);
+  });
+
+  it('ten failed sign-ins from one address do not lock out the other people at that address', async () => {
+    for (let i = 0; i < 10; i++) expect((await attempt('192.0.2.10', `typo${i}@larchwood-clinic.test`, 'wrong-password')).status).toBe(401);
+    expect((await attempt('192.0.2.10', coach.email, coach.password)).status).toBe(200);
+  });
+
+  it('a browser that signed in before is not held up by an attack on its account or on its address', async () => {
+    const office = at('192.0.2.20');
+    const first = await office.signIn(coach.email, coach.password);
+    const device = ([] as string[]).concat(first.headers['set-cookie'] ?? []).find((x) => x.startsWith('tf.device='));
+    expect(device).toMatch(/HttpOnly/);
+    expect(device).not.toContain(coach.email);
+    expect((await office.post('/api/auth/sign-out')).status).toBe(204);
+    // An attacker fails against the account from many addresses, and many times from the office's address.
+    for (let i = 1; i <= 8; i++) await attempt(`198.51.100.${i}`, coach.email, 'wrong-password');
+    for (let i = 0; i < 60; i++) await attempt('192.0.2.20', `spray${i}@larchwood-clinic.test`, 'wrong-password');
+    expect((await attempt('192.0.2.20', owner.email, owner.password)).status).toBe(429);
+    expect((await attempt('198.51.100.50', coach.email, coach.password)).status).toBe(429);
+    // The coach's own browser still signs in.
+    expect((await office.post('/api/auth/sign-in', { email: coach.email, password: coach.password })).status).toBe(200);
+  });
+
+  it('a password reset ends the wait for that account', async () => {
+    for (let i = 1; i <= 6; i++) await attempt(`198.51.100.${i}`, coach.email, 'wrong-password');
+    expect((await attempt('198.51.100.7', coach.email, coach.password)).status).toBe(429);
+    await new Client(t.app).post('/api/password-resets', { email: coach.email });
+    const token = t.mailer.lastLinkTo(coach.email).split('/').pop()!;
+    expect((await new Client(t.app).post(`/api/password-resets/${token}`, { password: 'a-new-long-password' })).status).toBe(204);
+    expect((await attempt('198.51.100.7', coach.email, 'a-new-long-password')).status).toBe(200);
+  });
+});
+
 describe('HTTP hygiene', () => {
   it('sends a CSP that allows only self, and no x-powered-by', async () => {
     const res = await request(t.app).get('/api/config');
     expect(res.status).toBe(200);
-    expect(res.body).toEqual({ demoMode: true, version: expect.any(String), uploadMaxBytes: 2048 * 1024 * 1024 });
+    expect(res.body).toEqual({ demoMode: true, version: expect.any(String), uploadMaxBytes: 2048 * 1024 * 1024, demoInboxUrl: null });
     const csp = res.headers['content-security-policy'] as string;
     expect(csp).toContain("default-src 'self'");
     expect(csp).toContain("script-src 'self'");

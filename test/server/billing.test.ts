@@ -10,6 +10,7 @@ import { PDFParse } from 'pdf-parse';
 import { makeTestApp, OTHER, signedIn, type Client, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { hashPassword } from '../../server/auth/passwords';
+import { DEMO_SESSION_SECRET, FAKE_PAYMENTS_KEYS, loadConfig } from '../../server/config';
 import { invoiceTotals, lineAmounts, formatMinor, type InvoiceDetail, type InvoiceWrite, type Price } from '../../src/contracts/billing';
 
 const [owner, coach, , athlete] = DEMO_SIGN_INS;
@@ -18,7 +19,7 @@ let t: TestApp;
 let o: Client;
 let a: Client;
 let adaId: number;
-let brunoId: number;
+let teodorId: number;
 let prices: Price[];
 
 const due = '2026-12-31';
@@ -63,12 +64,12 @@ beforeAll(async () => {
   o = await signedIn(t.app, owner.email, owner.password);
   a = await signedIn(t.app, athlete.email, athlete.password);
   adaId = (await t.db('athletes').where({ email: athlete.email }).first()).id;
-  const bruno = await t.db('athletes').where({ email: 'bruno.feldhaus@runner.test' }).first();
-  brunoId = bruno.id;
-  // A second athlete account in the same clinic (Bruno), for "another athlete's invoice".
+  const teodor = await t.db('athletes').where({ email: 'teodor.brannick@runner.test' }).first();
+  teodorId = teodor.id;
+  // A second athlete account in the same clinic (Teodor), for "another athlete's invoice".
   const at = new Date().toISOString();
-  const [u] = await t.db('users').insert({ clinic_id: bruno.clinic_id, email: SECOND.email, name: 'Bruno F', role: 'athlete', password_hash: await hashPassword(SECOND.password), created_at: at, updated_at: at }).returning('id');
-  await t.db('athletes').where({ id: brunoId }).update({ user_id: (u as { id: number }).id });
+  const [u] = await t.db('users').insert({ clinic_id: teodor.clinic_id, email: SECOND.email, name: 'Teodor B', role: 'athlete', password_hash: await hashPassword(SECOND.password), created_at: at, updated_at: at }).returning('id');
+  await t.db('athletes').where({ id: teodorId }).update({ user_id: (u as { id: number }).id });
   prices = (await o.get('/api/prices')).body.prices;
 });
 afterAll(async () => {
@@ -210,7 +211,7 @@ describe('invoices', () => {
     expect(d.assessment).toEqual({ id: ada, kind: visit.kind, date: visit.date });
     expect((await o.get(`/api/invoices/${d.id}`)).body.assessment).toEqual({ id: ada, kind: visit.kind, date: visit.date });
     expect((await draft()).assessment).toBeNull();
-    const res = await o.post('/api/invoices', { athleteId: brunoId, assessmentId: ada, dueDate: due, note: null, lines: [line(price('Re-test'))] });
+    const res = await o.post('/api/invoices', { athleteId: teodorId, assessmentId: ada, dueDate: due, note: null, lines: [line(price('Re-test'))] });
     expect(res.status).toBe(422);
     expect(res.body.error.details[0].path).toEqual(['assessmentId']);
   });
@@ -233,13 +234,13 @@ describe('invoices', () => {
   it('lists with filters and totals; the athlete sees only their own issued invoices', async () => {
     const open = await issued();
     const d = await draft();
-    const bruno = await o.post('/api/invoices', { athleteId: brunoId, assessmentId: null, dueDate: due, note: null, lines: [line(price('Gait assessment'))] });
+    const teodor = await o.post('/api/invoices', { athleteId: teodorId, assessmentId: null, dueDate: due, note: null, lines: [line(price('Gait assessment'))] });
     const all = (await o.get('/api/invoices')).body;
     expect(all.invoices.length).toBeGreaterThanOrEqual(3);
     const sum = all.invoices.filter((i: InvoiceDetail) => i.status !== 'void').reduce((s: number, i: InvoiceDetail) => s + i.totalMinor, 0);
     expect(all.totals.totalMinor).toBe(sum);
-    const drafts = (await o.get(`/api/invoices?status=draft&athleteId=${brunoId}`)).body;
-    expect(drafts.invoices.map((i: InvoiceDetail) => i.id)).toEqual([bruno.body.id]);
+    const drafts = (await o.get(`/api/invoices?status=draft&athleteId=${teodorId}`)).body;
+    expect(drafts.invoices.map((i: InvoiceDetail) => i.id)).toEqual([teodor.body.id]);
     expect(drafts.totals).toMatchObject({ count: 1, totalMinor: 14400, currency: 'EUR' });
     const today = new Date().toISOString().slice(0, 10);
     const madeToday = all.invoices.filter((i: InvoiceDetail) => i.createdAt.startsWith(today)).length;
@@ -252,7 +253,7 @@ describe('invoices', () => {
     const mine = (await a.get('/api/invoices')).body.invoices.map((i: InvoiceDetail) => i.id);
     expect(mine).toContain(open.id);
     expect(mine).not.toContain(d.id);
-    expect(mine).not.toContain(bruno.body.id);
+    expect(mine).not.toContain(teodor.body.id);
     expect((await a.get(`/api/invoices/${d.id}`)).status).toBe(404);
     const c = await signedIn(t.app, coach.email, coach.password);
     expect((await c.get('/api/invoices')).status).toBe(403);
@@ -324,8 +325,8 @@ describe('editing and deleting drafts', () => {
     await bad({ lines: [{ ...custom, priceId: 999_999 }] }, ['lines', 0, 'priceId']);
     await bad({ lines: [] }, ['lines']);
     await bad({ dueDate: '2026-13-01' }, ['dueDate']);
-    const brunos = (await t.db('assessments').where({ athlete_id: brunoId }).first())?.id ?? null;
-    if (brunos) await bad({ assessmentId: brunos }, ['assessmentId']);
+    const teodors = (await t.db('assessments').where({ athlete_id: teodorId }).first())?.id ?? null;
+    if (teodors) await bad({ assessmentId: teodors }, ['assessmentId']);
     expect((await o.get(`/api/invoices/${d.id}`)).body).toEqual(d);
   });
 
@@ -524,6 +525,56 @@ describe('card payment through the fake payment service', () => {
     } finally {
       await off.close();
     }
+  });
+});
+
+/** Posts an event signed with the configured webhook secret (the demo's is public, so anyone can). */
+async function postSigned(event: Record<string, unknown>): Promise<number> {
+  const payload = JSON.stringify({ object: 'event', ...event });
+  const sig = new Stripe('sk_x').webhooks.generateTestHeaderString({ payload, secret: t.config.payments!.webhookSecret });
+  const res = await fetch(`${t.url}/api/billing/webhook`, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': sig }, body: payload });
+  return res.status;
+}
+
+describe('refund events are confirmed with the payment service', () => {
+  it('a correctly signed charge.refunded the payment service does not confirm leaves the invoice paid', async () => {
+    const inv = await paidInvoice();
+    const pi = (await t.db('invoices').where({ id: inv.id }).first()).payment_intent_id as string;
+    const forged = { id: 'ch_forged_1', object: 'charge', payment_intent: pi, refunded: true, amount: inv.totalMinor, amount_refunded: inv.totalMinor, currency: 'eur', status: 'succeeded' };
+    expect(await postSigned({ id: 'evt_forged_refund_1', type: 'charge.refunded', data: { object: forged } })).toBe(200);
+    expect(await postSigned({ id: 'evt_forged_refund_2', type: 'refund.updated', data: { object: { id: 're_forged_1', object: 'refund', payment_intent: pi, status: 'succeeded', amount: inv.totalMinor, currency: 'eur' } } })).toBe(200);
+    expect((await o.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'paid', refundedAt: null });
+  });
+
+  it("an event naming a real refunded charge is judged by what the service says about it, not by the event's copy", async () => {
+    const refunded = await paidInvoice();
+    expect((await o.post(`/api/invoices/${refunded.id}/refund`)).status).toBe(200);
+    await t.fakePayments!.idle();
+    const charge = JSON.parse(t.fakePayments!.events.at(-1)!.payload).data.object as { id: string };
+    // Another paid invoice: the forged copy says the real charge belongs to its payment.
+    const victim = await paidInvoice();
+    const pi = (await t.db('invoices').where({ id: victim.id }).first()).payment_intent_id as string;
+    expect(await postSigned({ id: 'evt_forged_refund_3', type: 'charge.refunded', data: { object: { ...charge, payment_intent: pi } } })).toBe(200);
+    expect((await o.get(`/api/invoices/${victim.id}`)).body.status).toBe('paid');
+  });
+
+  it('a refund made at the payment service itself (not through Trailframe) is confirmed and marks the invoice refunded', async () => {
+    const inv = await paidInvoice();
+    const pi = (await t.db('invoices').where({ id: inv.id }).first()).payment_intent_id as string;
+    const res = await fetch(`${t.fakePayments!.url}/v1/refunds`, { method: 'POST', headers: { authorization: `Bearer ${t.config.payments!.secretKey}`, 'content-type': 'application/x-www-form-urlencoded' }, body: `payment_intent=${pi}` });
+    expect(res.status).toBe(200);
+    await t.fakePayments!.idle();
+    expect((await o.get(`/api/invoices/${inv.id}`)).body.status).toBe('refunded');
+  });
+
+  it('refuses to start with the demo keys or secrets when demo mode is off', () => {
+    const prod = { DEMO_MODE: 'false', SESSION_SECRET: 's'.repeat(40) } as NodeJS.ProcessEnv;
+    expect(() => loadConfig({ ...prod, STRIPE_SECRET_KEY: FAKE_PAYMENTS_KEYS.secretKey, STRIPE_WEBHOOK_SECRET: 'whsec_real_looking_0123' })).toThrow(/STRIPE_SECRET_KEY.*demo/);
+    expect(() => loadConfig({ ...prod, STRIPE_SECRET_KEY: 'sk_live_real_looking_0123', STRIPE_WEBHOOK_SECRET: FAKE_PAYMENTS_KEYS.webhookSecret })).toThrow(/STRIPE_WEBHOOK_SECRET.*demo/);
+    expect(() => loadConfig({ ...prod, SESSION_SECRET: DEMO_SESSION_SECRET })).toThrow(/SESSION_SECRET.*demo/);
+    expect(loadConfig({ ...prod, STRIPE_SECRET_KEY: 'sk_live_real_looking_0123', STRIPE_WEBHOOK_SECRET: 'whsec_real_looking_0123' }).payments?.secretKey).toBe('sk_live_real_looking_0123');
+    // Demo mode keeps its demo keys.
+    expect(loadConfig({} as NodeJS.ProcessEnv).payments?.webhookSecret).toBe(FAKE_PAYMENTS_KEYS.webhookSecret);
   });
 });
 

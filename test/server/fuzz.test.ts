@@ -12,6 +12,7 @@ import type { Express } from 'express';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Client, makeTestApp, signedIn, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { loadConfig } from '../../server/config';
 
 const [owner, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -20,7 +21,7 @@ const callers: { who: string; client: Client }[] = [];
 const ids: Record<string, number> = {};
 
 beforeAll(async () => {
-  t = await makeTestApp({ rateLimit: { signInAttempts: 100_000, resetRequests: 100_000, windowMs: 60_000 } }, { fakePayments: true });
+  t = await makeTestApp({ rateLimit: { ...loadConfig({} as NodeJS.ProcessEnv).rateLimit, signInAttempts: 100_000, accountAttempts: 100_000, resetRequests: 100_000 } }, { fakePayments: true });
   callers.push({ who: 'anonymous', client: new Client(t.app) });
   for (const [who, cred] of [['owner', owner], ['coach', coach], ['athlete', athlete]] as const) {
     const client = await signedIn(t.app, cred.email, cred.password);

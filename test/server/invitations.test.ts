@@ -68,15 +68,48 @@ describe('coach invitations (owner)', () => {
     expect((await new Client(t.app).get(`/api/invitations/${token}`)).status).toBe(410);
   });
 
-  it('refuses an address that already has an account (409), bad input (422), and coaches (403)', async () => {
+  it('refuses an address of its own clinic that already has an account (409), bad input (422), and coaches (403)', async () => {
     const o = await signedIn(t.app, owner.email, owner.password);
     expect((await o.post('/api/staff/invitations', { email: coach.email, name: 'Dup' })).status).toBe(409);
-    expect((await o.post('/api/staff/invitations', { email: OTHER.coach.email, name: 'Dup' })).status).toBe(409);
     expect((await o.post('/api/staff/invitations', { email: 'not-an-email', name: 'X' })).status).toBe(422);
     expect((await o.post('/api/staff/invitations', { email: 'ok@x.test', name: '' })).status).toBe(422);
     expect((await o.post('/api/staff/invitations', { email: 'ok@x.test', name: 'X', role: 'owner' })).status).toBe(422);
     const c = await signedIn(t.app, coach.email, coach.password);
     expect((await c.post('/api/staff/invitations', { email: 'ok@x.test', name: 'X' })).status).toBe(403);
+  });
+
+  it('an address with an account in another clinic answers exactly as a new address; its owner gets a notice with no link', async () => {
+    const o = await signedIn(t.app, owner.email, owner.password);
+    const fresh = await o.post('/api/staff/invitations', { email: 'brand.new@larchwood-clinic.test', name: 'Brand New' });
+    const taken = await o.post('/api/staff/invitations', { email: OTHER.coach.email, name: 'Someone' });
+    expect(taken.status).toBe(fresh.status);
+    expect(taken.status).toBe(201);
+    expect(Object.keys(taken.body).sort()).toEqual(Object.keys(fresh.body).sort());
+    expect(taken.body).toMatchObject({ email: OTHER.coach.email, name: 'Someone', role: 'coach', athleteId: null });
+    // Listed and revocable like any pending invitation.
+    const pending = (await o.get('/api/staff')).body.invitations as { id: number; email: string }[];
+    expect(pending.map((i) => i.email)).toEqual(expect.arrayContaining(['brand.new@larchwood-clinic.test', OTHER.coach.email]));
+    // The existing user is told, with nothing that grants anything: no link, no token.
+    const notice = t.mailer.sent.filter((m) => m.to === OTHER.coach.email);
+    expect(notice).toHaveLength(1);
+    expect(notice[0]!.subject).toContain('Larchwood Running Clinic');
+    expect(notice[0]!.text).toMatch(/already has a Trailframe account/);
+    expect(notice[0]!.text).not.toMatch(/https?:\/\/|invitation\/|reset-password/);
+    // Their account is untouched and still belongs to their clinic.
+    const other = await signedIn(t.app, OTHER.coach.email, OTHER.coach.password);
+    expect((await other.get('/api/auth/me')).body.user.clinicName).toBe(OTHER.clinic);
+    expect((await o.delete(`/api/staff/invitations/${taken.body.id}`)).status).toBe(204);
+  });
+
+  it('an athlete whose e-mail has an account in another clinic is invited as any other athlete, and that account gets a notice', async () => {
+    const c = await signedIn(t.app, coach.email, coach.password);
+    const created = await c.post('/api/athletes', { firstName: 'Same', lastName: 'Address', email: OTHER.owner.email });
+    const res = await c.post(`/api/athletes/${created.body.id}/invitation`);
+    expect(res.status).toBe(201);
+    expect((await c.get(`/api/athletes/${created.body.id}`)).body.invitationPending).toBe(true);
+    const notice = t.mailer.sent.filter((m) => m.to === OTHER.owner.email);
+    expect(notice).toHaveLength(1);
+    expect(notice[0]!.text).not.toMatch(/https?:\/\//);
   });
 
   it('leaves no invitation behind when the e-mail cannot be sent', async () => {
@@ -92,20 +125,20 @@ describe('athlete invitations (coach)', () => {
   it('links the new account to the athlete, who then sees only their own record', async () => {
     const c = await signedIn(t.app, coach.email, coach.password);
     const list = (await c.get('/api/athletes')).body.athletes as { id: number; email: string; hasAccount: boolean }[];
-    const bruno = list.find((a) => a.email === 'bruno.feldhaus@runner.test')!;
-    const inv = await c.post(`/api/athletes/${bruno.id}/invitation`);
+    const teodor = list.find((a) => a.email === 'teodor.brannick@runner.test')!;
+    const inv = await c.post(`/api/athletes/${teodor.id}/invitation`);
     expect(inv.status).toBe(201);
-    expect((await c.get(`/api/athletes/${bruno.id}`)).body.invitationPending).toBe(true);
+    expect((await c.get(`/api/athletes/${teodor.id}`)).body.invitationPending).toBe(true);
 
     const a = new Client(t.app);
-    const token = tokenOf(t.mailer.lastLinkTo('bruno.feldhaus@runner.test'));
-    const accepted = await a.post(`/api/invitations/${token}/accept`, { name: 'Bruno Feldhaus', password: 'masters-runner-1' });
-    expect(accepted.body.user).toMatchObject({ role: 'athlete', athleteId: bruno.id });
-    expect((await a.get(`/api/athletes/${bruno.id}`)).status).toBe(200);
+    const token = tokenOf(t.mailer.lastLinkTo('teodor.brannick@runner.test'));
+    const accepted = await a.post(`/api/invitations/${token}/accept`, { name: 'Teodor Brannick', password: 'knee-runner-1' });
+    expect(accepted.body.user).toMatchObject({ role: 'athlete', athleteId: teodor.id });
+    expect((await a.get(`/api/athletes/${teodor.id}`)).status).toBe(200);
     expect((await a.get('/api/athletes')).status).toBe(403);
-    const other = list.find((x) => x.id !== bruno.id)!;
+    const other = list.find((x) => x.id !== teodor.id)!;
     expect((await a.get(`/api/athletes/${other.id}`)).status).toBe(404);
-    expect((await c.post(`/api/athletes/${bruno.id}/invitation`)).status).toBe(409);
+    expect((await c.post(`/api/athletes/${teodor.id}/invitation`)).status).toBe(409);
   });
 
   it('needs an e-mail on the athlete (422)', async () => {

@@ -52,16 +52,15 @@ beforeEach(async () => {
   a = await signedIn(t.app, athlete.email, athlete.password);
   const adaId = (await t.db('athletes').where({ email: athlete.email }).first()).id;
   library = (await c.get('/api/exercises')).body.exercises;
-  const ex = (name: string) => {
-    const e = library.find((x) => x.name === name)!;
-    return { exerciseId: e.id, dose: e.dose, notes: null };
-  };
-  const stage = (name: string, names: string[]) => ({ name, goal: `${name} goal`, targetWeeks: 2, progressionText: 'When it feels easy.', criteria: [], exercises: names.map(ex) });
+  // Any three exercises of the demo library will do.
+  const [e1, e2, e3] = library.filter((e) => !e.archived);
+  const ex = (e: Exercise) => ({ exerciseId: e.id, dose: e.dose, notes: null });
+  const stage = (name: string, items: Exercise[]) => ({ name, goal: `${name} goal`, targetWeeks: 2, progressionText: 'When it feels easy.', criteria: [], exercises: items.map(ex) });
   const created = await c.post(`/api/athletes/${adaId}/plans`, {
     title: 'High hamstring: staged loading',
     assessmentId: null,
     notes: null,
-    stages: [stage('Isometric holds', ['Long-lever hamstring bridge hold', 'Hip-hinge hold']), stage('Slow lengthening', ['Heel-slide hamstring lowers'])],
+    stages: [stage('Isometric holds', [e1!, e2!]), stage('Slow lengthening', [e3!])],
   });
   expect(created.status, JSON.stringify(created.body)).toBe(201);
   for (const p of (await c.get(`/api/athletes/${adaId}/plans`)).body.plans as { id: number; status: string }[]) {

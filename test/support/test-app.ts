@@ -7,7 +7,8 @@ import pino, { type Logger } from 'pino';
 import { createApp } from '../../server/app';
 import { loadConfig, type Config } from '../../server/config';
 import { createDb, migrate, type Db } from '../../server/db/knex';
-import type { Mailer, MailMessage } from '../../server/mail/mailer';
+import { createSmtpMailer, type Mailer, type MailMessage } from '../../server/mail/mailer';
+import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp';
 import { hashPassword } from '../../server/auth/passwords';
 import { seed } from '../../seeds/demo-scenario';
 import type { Worker } from '../../server/jobs/worker';
@@ -20,14 +21,19 @@ import { startFakePayments, type FakePayments } from '../../server/billing/fake-
 export class MemoryMailer implements Mailer {
   readonly sent: MailMessage[] = [];
   failNext = false;
+  /** Also sends every message on (to the fake SMTP receiver, with `{ fakeSmtp: true }`). */
+  forward: Mailer | null = null;
   async send(message: MailMessage): Promise<void> {
     if (this.failNext) {
       this.failNext = false;
       throw new Error('relay refused');
     }
     this.sent.push(message);
+    await this.forward?.send(message);
   }
-  close(): void {}
+  close(): void {
+    this.forward?.close();
+  }
   /** The first link in the newest message to `to`. */
   lastLinkTo(to: string): string {
     const msg = [...this.sent].reverse().find((m) => m.to === to);
@@ -48,6 +54,8 @@ export interface TestApp {
   queue: JobQueue;
   /** Moves the app's clock forward. */
   advance(ms: number): void;
+  /** Deletes expired session rows now; answers how many. */
+  clearExpiredSessions(): Promise<number>;
   /** With `{ fakePayments: true }`: the fake payment service and the app listening for its webhooks. */
   fakePayments: FakePayments | null;
   /** With `{ fakePayments: true }`: base URL of the listening app. */
@@ -61,6 +69,8 @@ export interface TestAppOptions {
   fakePayments?: boolean;
   /** The app's logger (default: silent), for tests that read what the server logs. */
   logger?: Logger;
+  /** Also deliver every e-mail to the demo's fake SMTP receiver (stored in `mailbox_messages`). */
+  fakeSmtp?: boolean;
 }
 
 /** A fresh app on an in-memory database with the demo scenario and a second clinic. */
@@ -78,8 +88,13 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
   await seed(db);
   await addOtherClinic(db);
   const mailer = new MemoryMailer();
+  let fakeSmtp: FakeSmtp | null = null;
+  if (options.fakeSmtp) {
+    fakeSmtp = await startFakeSmtp(db, 0);
+    mailer.forward = createSmtpMailer({ ...config.mail, host: '127.0.0.1', port: fakeSmtp.port });
+  }
   let offset = 0;
-  const { app, close, worker, queue } = createApp({ config, db, mailer, logger: options.logger ?? pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
+  const { app, close, worker, queue, clearExpiredSessions } = createApp({ config, db, mailer, logger: options.logger ?? pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
   let listener: http.Server | null = null;
   let url: string | null = null;
   if (fakePayments) {
@@ -101,6 +116,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
     },
     worker,
     queue,
+    clearExpiredSessions,
     async close() {
       await fakePayments?.idle();
       await fakePayments?.close();
@@ -109,6 +125,8 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
         await new Promise<void>((resolve) => listener!.close(() => resolve()));
       }
       await close();
+      mailer.close();
+      await fakeSmtp?.close();
       await db.destroy();
       fs.rmSync(uploadsDir, { recursive: true, force: true });
     },

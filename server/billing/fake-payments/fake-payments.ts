@@ -6,7 +6,8 @@ import { payPage, donePage } from './pay-page';
 
 /**
  * A local stand-in for the payment provider, for demo mode and tests. It answers the few API calls
- * Trailframe makes through the provider's SDK (checkout session create/retrieve, refund create),
+ * Trailframe makes through the provider's SDK (checkout session create/retrieve, refund create and
+ * retrieve, charge retrieve),
  * serves a plain payment page at `/pay/:sessionId` with Pay / Decline / Cancel, and posts signed
  * webhook events (`checkout.session.completed`, `checkout.session.async_payment_failed`,
  * `charge.refunded`) back to the app. State lives in memory; nothing is charged.
@@ -72,6 +73,9 @@ const now = () => Math.floor(Date.now() / 1000);
 export async function startFakePayments(options: FakePaymentsOptions): Promise<FakePayments> {
   const signer = new Stripe('sk_fake_signer');
   const sessions = new Map<string, Session>();
+  /** Charges and refunds the fake has made (what a refund event is confirmed against). */
+  const charges = new Map<string, object>();
+  const refunds = new Map<string, object>();
   const idempotent = new Map<string, { status: number; body: unknown }>();
   const events: FakeEvent[] = [];
   const inFlight = new Set<Promise<unknown>>();
@@ -145,21 +149,39 @@ export async function startFakePayments(options: FakePaymentsOptions): Promise<F
     const s = [...sessions.values()].find((x) => x.payment_intent === pi);
     if (!s && pi.startsWith(DEMO_PAYMENT_PREFIX)) {
       // A payment the demo seed records as already made (never through this fake): refundable, so
-      // the demo owner can try a refund on the seeded paid invoice too.
-      res.json({ id: rid('re'), object: 'refund', status: 'succeeded', amount: 0, currency: 'eur', payment_intent: pi, created: now(), metadata: {} });
-      send('charge.refunded', { id: rid('ch'), object: 'charge', payment_intent: pi, refunded: true, status: 'succeeded', metadata: {} });
-      return;
+      // the demo owner can try a refund on the seeded paid invoice too. Its amount is unknown here.
+      const made = refundMade(pi, 0, 'eur', {});
+      res.json(made.refund);
+      return void send('charge.refunded', made.charge);
     }
     if (!s) return void apiError(res, 404, `No such payment_intent: '${pi}'`, 'resource_missing');
     if (s.refunded) return void apiError(res, 400, 'This payment has already been refunded.', 'charge_already_refunded');
     s.refunded = true;
-    const refund = { id: rid('re'), object: 'refund', status: 'succeeded', amount: s.amount_total, currency: s.currency, payment_intent: pi, created: now(), metadata: {} };
-    res.json(refund);
-    send('charge.refunded', {
-      id: rid('ch'), object: 'charge', amount: s.amount_total, amount_refunded: s.amount_total, currency: s.currency,
-      payment_intent: pi, refunded: true, status: 'succeeded', metadata: s.metadata,
-    });
+    const made = refundMade(pi, s.amount_total, s.currency, s.metadata);
+    res.json(made.refund);
+    send('charge.refunded', made.charge);
   });
+
+  app.get('/v1/charges/:id', (req, res) => {
+    const c = charges.get(String(req.params['id']));
+    if (!c) return void apiError(res, 404, `No such charge: '${req.params['id']}'`, 'resource_missing');
+    res.json(c);
+  });
+
+  app.get('/v1/refunds/:id', (req, res) => {
+    const r = refunds.get(String(req.params['id']));
+    if (!r) return void apiError(res, 404, `No such refund: '${req.params['id']}'`, 'resource_missing');
+    res.json(r);
+  });
+
+  /** Records a full refund of a payment: its charge and the refund (the caller answers, then sends the event). */
+  function refundMade(pi: string, amount: number, currency: string, metadata: Record<string, string>) {
+    const charge = { id: rid('ch'), object: 'charge', amount, amount_refunded: amount, currency, payment_intent: pi, refunded: true, status: 'succeeded', metadata };
+    const refund = { id: rid('re'), object: 'refund', status: 'succeeded', amount, currency, payment_intent: pi, charge: charge.id, created: now(), metadata: {} };
+    charges.set(charge.id, charge);
+    refunds.set(refund.id, refund);
+    return { charge, refund };
+  }
 
   // ── The payment page (what the payer's browser sees) ──
   app.get('/pay/:id', (req, res) => {

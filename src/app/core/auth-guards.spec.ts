@@ -7,7 +7,6 @@ import type { Role, SessionUser } from '../../contracts/api';
 import { AuthApi } from './auth-api';
 import {
   anonymousOnlyGuard,
-  demoModeGuard,
   redirectHome,
   roleGuard,
   signedInGuard,
@@ -47,7 +46,6 @@ async function setUp(role: Role | null, demoMode = false): Promise<RouterTesting
             { path: '', pathMatch: 'full', redirectTo: redirectHome },
             { path: 'athletes', canMatch: [roleGuard('owner', 'coach')], component: Page },
             { path: 'team', canMatch: [roleGuard('owner')], component: Page },
-            { path: 'mailbox', canMatch: [roleGuard('owner'), demoModeGuard], component: Page },
             { path: 'portal', canMatch: [roleGuard('athlete')], component: Page },
           ],
         },
@@ -93,12 +91,6 @@ describe('route guards', () => {
     TestBed.resetTestingModule();
     const athlete = await setUp('athlete');
     expect(await land(athlete, '/athletes')).toBe('/portal');
-  });
-
-  it('opens the mailbox only in demo mode', async () => {
-    expect(await land(await setUp('owner', false), '/mailbox')).toBe('/athletes');
-    TestBed.resetTestingModule();
-    expect(await land(await setUp('owner', true), '/mailbox')).toBe('/mailbox');
   });
 
   it('keeps signed-in users off the sign-in page', async () => {

@@ -2,7 +2,6 @@ import { inject } from '@angular/core';
 import { CanActivateFn, CanMatchFn, Router, UrlSegment, UrlTree } from '@angular/router';
 import type { Role } from '../../contracts/api';
 import { AuthStore } from './auth-store';
-import { ConfigStore } from './config-store';
 
 /** A guard that works both as `canMatch` and `canActivate`. */
 export type AccessGuard = CanMatchFn & CanActivateFn;
@@ -54,12 +53,6 @@ export const anonymousOnlyGuard: AccessGuard = () => {
 
 /** Navigation state key the shell sets while signing out. */
 export const SIGNING_OUT = 'signingOut';
-
-/** Pages that exist only in demo mode (the mailbox); otherwise back to the user's home page. */
-export const demoModeGuard: AccessGuard = () => {
-  const config = inject(ConfigStore);
-  return config.demoMode() ? true : inject(Router).parseUrl(inject(AuthStore).homePath());
-};
 
 /** `redirectTo` for `/`: athletes to `/portal`, staff to `/athletes`. */
 export function redirectHome(): string {

@@ -10,8 +10,10 @@ export class ConfigStore {
   private readonly http = inject(HttpClient);
   private readonly config = signal<AppConfig | null>(null);
 
-  /** Whether demo helpers (mailbox page, demo sign-in note) are on. False until loaded. */
+  /** Whether demo helpers (demo sign-in note, demo inbox hints) are on. False until loaded. */
   readonly demoMode = computed(() => this.config()?.demoMode ?? false);
+  /** Demo mode: where the demo's e-mail can be read on the machine running it; null otherwise. */
+  readonly demoInboxUrl = computed(() => this.config()?.demoInboxUrl ?? null);
   readonly version = computed(() => this.config()?.version ?? null);
   /** Largest clip the server accepts, bytes; null until loaded. */
   readonly uploadMaxBytes = computed(() => this.config()?.uploadMaxBytes ?? null);

@@ -9,8 +9,8 @@ export interface NavItem {
   exact: boolean;
 }
 
-/** What a role may open, in order. The mailbox exists only in demo mode. */
-export function navItemsFor(role: Role | null, demoMode: boolean): NavItem[] {
+/** What a role may open, in order. */
+export function navItemsFor(role: Role | null): NavItem[] {
   switch (role) {
     case 'owner':
       return [
@@ -19,7 +19,6 @@ export function navItemsFor(role: Role | null, demoMode: boolean): NavItem[] {
         { label: 'Billing', icon: 'receipt_long', path: '/billing', exact: false },
         { label: 'Team', icon: 'badge', path: '/team', exact: false },
         { label: 'Reference bands', icon: 'tune', path: '/settings/reference-bands', exact: false },
-        ...(demoMode ? [{ label: 'Mailbox', icon: 'mail', path: '/mailbox', exact: false }] : []),
       ];
     case 'coach':
       return [

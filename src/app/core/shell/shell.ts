@@ -13,7 +13,6 @@ import { map } from 'rxjs';
 import { BrandMark } from '../../shared/brand-mark/brand-mark';
 import { SIGNING_OUT } from '../auth-guards';
 import { AuthStore } from '../auth-store';
-import { ConfigStore } from '../config-store';
 import { ROLE_LABELS } from '../roles';
 import { navItemsFor } from './nav-items';
 
@@ -42,7 +41,6 @@ const NARROW = '(max-width: 959.98px)';
 })
 export class Shell {
   protected readonly auth = inject(AuthStore);
-  private readonly config = inject(ConfigStore);
   private readonly router = inject(Router);
 
   protected readonly isNarrow = toSignal(
@@ -53,9 +51,7 @@ export class Shell {
   );
   /** Open by default on wide screens, closed on narrow ones; the user can toggle either way. */
   protected readonly navOpen = linkedSignal(() => !this.isNarrow());
-  protected readonly navItems = computed(() =>
-    navItemsFor(this.auth.role(), this.config.demoMode()),
-  );
+  protected readonly navItems = computed(() => navItemsFor(this.auth.role()));
   protected readonly roleLabel = computed(() => {
     const role = this.auth.role();
     return role ? ROLE_LABELS[role] : '';

@@ -1,7 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { Observable, map } from 'rxjs';
-import type { PendingInvitation, StaffList } from '../../../contracts/api';
+import type { PendingInvitation, StaffDeactivate, StaffList, StaffMember } from '../../../contracts/api';
 import { skipErrorSnackbar } from '../../core/http-context';
 
 /** HTTP for the clinic's staff and coach invitations (owner only). */
@@ -19,6 +19,16 @@ export class TeamApi {
     return this.http.post<PendingInvitation>('/api/staff/invitations', body, {
       context: skipErrorSnackbar(409, 422),
     });
+  }
+
+  /** Deactivates a coach (signed out at once); their athletes go to `reassignTo`. */
+  deactivate(id: number, body: StaffDeactivate): Observable<StaffMember> {
+    return this.http.post<StaffMember>(`/api/staff/${id}/deactivate`, body);
+  }
+
+  /** Lets a deactivated coach sign in again. */
+  reactivate(id: number): Observable<StaffMember> {
+    return this.http.post<StaffMember>(`/api/staff/${id}/reactivate`, {});
   }
 
   /** Revokes a pending invitation so its link stops working. */

@@ -12,6 +12,7 @@ import { errorMessage } from '../../../core/api-error';
 import { AuthApi } from '../../../core/auth-api';
 import { errorText } from '../../../shared/forms/error-text';
 import { PublicCard } from '../../../shared/public-card/public-card';
+import { DemoInboxNote } from '../../../shared/demo-inbox-note/demo-inbox-note';
 
 /**
  * `/forgot-password`: asks for a reset link. The answer never says whether the account exists.
@@ -27,6 +28,7 @@ import { PublicCard } from '../../../shared/public-card/public-card';
     MatIconModule,
     MatProgressBarModule,
     PublicCard,
+    DemoInboxNote,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './forgot-password.html',

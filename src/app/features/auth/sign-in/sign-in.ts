@@ -14,6 +14,7 @@ import { homePathFor, safeReturnUrl } from '../../../core/roles';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { errorText } from '../../../shared/forms/error-text';
 import { PublicCard } from '../../../shared/public-card/public-card';
+import { DemoInboxNote } from '../../../shared/demo-inbox-note/demo-inbox-note';
 
 /** `/sign-in`: e-mail and password; wrong details and rate limits are reported inline. */
 @Component({
@@ -27,6 +28,7 @@ import { PublicCard } from '../../../shared/public-card/public-card';
     MatIconModule,
     MatProgressBarModule,
     PublicCard,
+    DemoInboxNote,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './sign-in.html',

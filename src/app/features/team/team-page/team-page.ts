@@ -1,5 +1,5 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, LOCALE_ID, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { FormGroupDirective, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -13,6 +13,11 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
 import { firstValueFrom } from 'rxjs';
 import type { PendingInvitation, StaffMember } from '../../../../contracts/api';
+import { formatDate } from '@angular/common';
+import { AuthStore } from '../../../core/auth-store';
+import { DemoInboxNote } from '../../../shared/demo-inbox-note/demo-inbox-note';
+import { DeactivateDialog, DeactivateDialogData } from '../deactivate-dialog/deactivate-dialog';
+import { staffStatus } from '../team-logic';
 import { LIMITS } from '../../../../contracts/intake';
 import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
 import { ROLE_LABELS } from '../../../core/roles';
@@ -23,7 +28,10 @@ import { requiredTrimmed } from '../../../shared/forms/validators';
 import { ErrorState } from '../../../shared/states/error-state';
 import { TeamApi } from '../team-api';
 
-/** `/team`: the clinic's staff, pending coach invitations, and an "Invite coach" form. */
+/**
+ * `/team`: the clinic's staff (with each one's athletes and state; a coach who leaves is
+ * deactivated, and can be reactivated), pending coach invitations, and an "Invite coach" form.
+ */
 @Component({
   selector: 'app-team-page',
   imports: [
@@ -37,6 +45,7 @@ import { TeamApi } from '../team-api';
     MatIconModule,
     MatProgressBarModule,
     ErrorState,
+    DemoInboxNote,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './team-page.html',
@@ -46,9 +55,11 @@ export class TeamPage {
   private readonly api = inject(TeamApi);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
+  private readonly auth = inject(AuthStore);
+  private readonly locale = inject(LOCALE_ID);
 
   protected readonly team = rxResource({ stream: () => this.api.list() });
-  protected readonly staffColumns = ['name', 'email', 'role', 'active'];
+  protected readonly staffColumns = ['name', 'email', 'role', 'athletes', 'active', 'actions'];
   protected readonly inviteColumns = ['name', 'email', 'expires', 'revoke'];
 
   protected readonly form = inject(NonNullableFormBuilder).group({
@@ -58,11 +69,62 @@ export class TeamPage {
   protected readonly inviting = signal(false);
   protected readonly inviteProblem = signal<string | null>(null);
   protected readonly revoking = signal<number | null>(null);
+  /** The staff member being deactivated or reactivated. */
+  protected readonly changing = signal<number | null>(null);
   protected readonly errorText = errorText;
   protected readonly errorMessage = errorMessage;
 
   protected roleLabel(member: StaffMember): string {
     return ROLE_LABELS[member.role] ?? member.role;
+  }
+
+  protected status(member: StaffMember): { label: string; since: string | null } {
+    return staffStatus(member, (iso) => formatDate(iso, 'd MMM y', this.locale));
+  }
+
+  protected athletesLabel(member: StaffMember): string {
+    return member.athleteCount === 1 ? '1 athlete' : `${member.athleteCount} athletes`;
+  }
+
+  protected deactivate(member: StaffMember, staff: StaffMember[]): void {
+    this.dialog
+      .open<DeactivateDialog, DeactivateDialogData, number>(DeactivateDialog, {
+        data: { member, staff, selfId: this.auth.user()?.id ?? 0 },
+        maxWidth: '480px',
+      })
+      .afterClosed()
+      .subscribe((reassignTo) => {
+        if (reassignTo !== undefined) void this.change(member, 'deactivate', reassignTo);
+      });
+  }
+
+  protected reactivate(member: StaffMember): void {
+    this.dialog
+      .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, {
+        data: {
+          title: `Reactivate ${member.name}?`,
+          message: 'They can sign in again with their password. Athletes who moved to another coach stay there; assign them back on each athlete if needed.',
+          confirmLabel: 'Reactivate',
+        },
+      })
+      .afterClosed()
+      .subscribe((confirmed) => {
+        if (confirmed) void this.change(member, 'reactivate');
+      });
+  }
+
+  private async change(member: StaffMember, action: 'deactivate' | 'reactivate', reassignTo?: number): Promise<void> {
+    this.changing.set(member.id);
+    try {
+      await firstValueFrom(action === 'deactivate' ? this.api.deactivate(member.id, { reassignTo }) : this.api.reactivate(member.id));
+      // Athlete counts of others change too: read the list again.
+      this.team.reload();
+      this.snackBar.open(action === 'deactivate' ? `${member.name} is deactivated and signed out` : `${member.name} can sign in again`, 'OK', { duration: 4000 });
+    } catch {
+      // Reported by the error snackbar.
+    } finally {
+      this.changing.set(null);
+    }
   }
 
   protected async invite(formDirective: FormGroupDirective): Promise<void> {

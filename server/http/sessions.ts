@@ -1,0 +1,113 @@
+import { EventEmitter } from 'node:events';
+import type { Knex } from 'knex';
+import type { Request, RequestHandler } from 'express';
+import session, { type SessionData } from 'express-session';
+import { ConnectSessionKnexStore } from 'connect-session-knex';
+
+declare module 'express-session' {
+  interface SessionData {
+    /** When the session's expiry was last moved on (ms, app clock); see {@link EXTEND_EVERY_MS}. */
+    seenAt?: number;
+  }
+}
+
+/** Name of the session cookie. */
+export const SESSION_COOKIE = 'tf.sid';
+/** A signed-in session lasts this long after its last extension. */
+export const SESSION_MAX_AGE_MS = 12 * 3_600_000;
+/** Reads extend a session (one write of its row) at most this often. */
+export const EXTEND_EVERY_MS = 5 * 60_000;
+const CLEANUP_EVERY_MS = 15 * 60_000;
+
+/** The session store in `sessions` that never writes on a plain touch (see {@link createSessions}). */
+class SessionStore extends ConnectSessionKnexStore {
+  override async touch(_sid: string, _session: SessionData, callback?: () => void): Promise<void> {
+    callback?.();
+  }
+}
+
+/** Sessions of the app: middleware, extension of signed-in sessions, cleanup of expired rows. */
+export interface Sessions {
+  /** express-session with the quiet store. */
+  middleware: RequestHandler;
+  /** Moves a signed-in session's expiry on when it was last moved over {@link EXTEND_EVERY_MS} ago (mount after passport.session()). */
+  extend: RequestHandler;
+  /** Deletes expired rows; answers how many. Also runs at start and every 15 minutes. */
+  clearExpired(): Promise<number>;
+  /** Stops the periodic cleanup and waits for one in flight. */
+  close(): Promise<void>;
+}
+
+/**
+ * Server sessions in the `sessions` table. A row exists only once someone signs in
+ * (`saveUninitialized: false`, and nothing else writes to anonymous sessions). Reads do not
+ * rewrite it: the store ignores touches, and a signed-in session is saved with a new expiry (and
+ * its cookie sent again) only when it was last extended over five minutes ago.
+ */
+export function createSessions(d: { db: Knex; secret: string; secureCookies: boolean; clock: () => Date; logger: { warn(o: object, m: string): void } }): Sessions {
+  const store = new SessionStore({ knex: d.db, tableName: 'sessions', createTable: false, cleanupInterval: 0 });
+  const middleware = session({
+    name: SESSION_COOKIE,
+    secret: d.secret,
+    store,
+    resave: false,
+    saveUninitialized: false,
+    rolling: false,
+    cookie: { httpOnly: true, sameSite: 'lax', secure: d.secureCookies, maxAge: SESSION_MAX_AGE_MS },
+  });
+  // Rows carry the real time of their expiry (the store writes them), so compare with the real time.
+  const clearExpired = async () => d.db('sessions').where('expired', '<', new Date().toISOString()).delete();
+  let sweeping: Promise<unknown> = Promise.resolve();
+  const sweep = () => {
+    sweeping = clearExpired().catch((err: Error) => d.logger.warn({ err: err.message }, 'clearing expired sessions failed'));
+  };
+  sweep();
+  const timer = setInterval(sweep, CLEANUP_EVERY_MS);
+  timer.unref();
+  return {
+    middleware,
+    extend: (req, _res, next) => {
+      if (req.user && req.session) {
+        const now = d.clock().getTime();
+        if (now - (req.session.seenAt ?? 0) >= EXTEND_EVERY_MS) markSessionSeen(req, d.clock);
+      }
+      next();
+    },
+    clearExpired,
+    async close() {
+      clearInterval(timer);
+      await sweeping;
+    },
+  };
+}
+
+/** Notes that the session was just extended (sign-in calls it too, so the first reads write nothing). */
+export function markSessionSeen(req: Request, clock: () => Date): void {
+  req.session.seenAt = clock().getTime();
+  req.session.touch();
+}
+
+/** Signs a user out everywhere at once: deletes every session row that carries their id. */
+export async function revokeUserSessions(db: Knex, userId: number): Promise<number> {
+  return db('sessions').whereRaw(`json_extract(sess, '$.passport.user') = ?`, [userId]).delete();
+}
+
+/** "This user was just signed out everywhere": long-lived responses (live-status streams) end on it. */
+export interface UserRevocations {
+  revoke(userId: number): void;
+  /** Calls `listener` when `userId` is revoked; answers the unsubscribe. */
+  onRevoke(userId: number, listener: () => void): () => void;
+}
+
+/** In-process revocation notices (one process; a shared bus later, like clip events). */
+export function inProcessRevocations(): UserRevocations {
+  const bus = new EventEmitter();
+  bus.setMaxListeners(0);
+  return {
+    revoke: (userId) => void bus.emit(`u${userId}`),
+    onRevoke(userId, listener) {
+      bus.on(`u${userId}`, listener);
+      return () => bus.off(`u${userId}`, listener);
+    },
+  };
+}
