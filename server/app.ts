@@ -21,7 +21,8 @@ import { staffRoutes } from './staff/staff.routes';
 import { athletesService } from './athletes/athletes-service';
 import { athletesRoutes } from './athletes/athletes.routes';
 import { localMediaStore, type MediaStore } from './storage/media-store';
-import { sqliteJobQueue } from './jobs/job-queue';
+import { uploadTemps } from './storage/upload-temps';
+import { sqliteJobQueue, type JobQueue } from './jobs/job-queue';
 import { startWorker, type Worker } from './jobs/worker';
 import { inProcessClipEvents } from './clips/clip-events';
 import { clipsService, EXTRACT_JOB } from './clips/clips-service';
@@ -67,6 +68,8 @@ export interface App {
   app: Express;
   /** The in-process job worker, or null when `config.runWorker` is off. */
   worker: Worker | null;
+  /** The durable job queue (its subjects' failures registered). */
+  queue: JobQueue;
   /** Deletes expired session rows now (they are also cleared at start and every 15 minutes); answers how many. */
   clearExpiredSessions(): Promise<number>;
   /** Stops the worker (aborting running jobs) and timers the app started. */
@@ -74,6 +77,8 @@ export interface App {
 }
 
 const VERSION = '0.1.0';
+/** Upload temp files nobody owns go once unwritten for an hour; looked for every 10 minutes. */
+const UPLOAD_TEMP_SWEEP = { everyMs: 10 * 60_000, maxAgeMs: 60 * 60_000 };
 
 /** Builds the Express app; `server/main.ts` listens, tests call this directly. */
 export function createApp(deps: AppDeps): App {
@@ -189,6 +194,9 @@ export function createApp(deps: AppDeps): App {
   const resets = passwordResetsService({ db, mailer, config, clock, logger, onPasswordSet: (email) => guard.clear(email) });
   const athletes = athletesService({ db, clock, invitations });
   const store = deps.store ?? localMediaStore(config.uploadsDir);
+  // Start-up removes temp files of uploads a killed server left; then a sweep by age (unref'd).
+  const temps = uploadTemps(store.tmpDir, (err) => logger.warn({ err: err.message }, 'upload temp sweep failed'));
+  const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
   const queue = sqliteJobQueue(db, { leaseMs: config.jobs.leaseMs, maxAttempts: config.jobs.maxAttempts });
   const events = inProcessClipEvents();
   const revocations = inProcessRevocations();
@@ -210,6 +218,10 @@ export function createApp(deps: AppDeps): App {
   const sharing = { db, store, queue, clips, mailer, logger, publicUrl: config.publicUrl, clock, wakeWorker: () => worker?.wake() };
   const stills = stillsService(sharing);
   const summaries = summariesService({ ...sharing, stills, measures });
+  // Wherever a job runs out of attempts (in this process's worker or at any claim), its subject fails.
+  queue.onFinalFailure(EXTRACT_JOB, clips.extractFailure);
+  queue.onFinalFailure(RENDER_STILL_JOB, stills.renderFailure);
+  queue.onFinalFailure(RENDER_SUMMARY_JOB, summaries.renderFailure);
   if (config.runWorker) {
     worker = startWorker({
       queue,
@@ -218,8 +230,6 @@ export function createApp(deps: AppDeps): App {
       concurrency: config.jobs.concurrency,
       pollMs: config.jobs.pollMs,
       leaseMs: config.jobs.leaseMs,
-      onFinalFailure: (job, message) =>
-        job.type === RENDER_STILL_JOB ? stills.markFailed(job, message) : job.type === RENDER_SUMMARY_JOB ? summaries.markFailed(job, message) : clips.markFailed(job, message),
     });
   }
 
@@ -234,7 +244,7 @@ export function createApp(deps: AppDeps): App {
   api.use(staffRoutes({ db, invitations, staff: staffService({ db, clock, revocations }) }));
   api.use(athletesRoutes(athletes));
   api.use(assessmentsRoutes(assessments));
-  api.use(clipsRoutes({ db, clips, events, revocations, store, uploadMaxBytes: config.uploadMaxBytes }));
+  api.use(clipsRoutes({ db, clips, events, revocations, temps, logger, uploadMaxBytes: config.uploadMaxBytes }));
   api.use(annotationsRoutes(annotations));
   api.use(measuresRoutes({ db, measures }));
   api.use(comparisonRoutes(comparisonService({ db, measures })));
@@ -256,8 +266,10 @@ export function createApp(deps: AppDeps): App {
   return {
     app,
     worker,
+    queue,
     clearExpiredSessions: sessions.clearExpired,
     async close() {
+      clearInterval(tempSweep);
       await worker?.stop();
       await sessions.close();
     },

@@ -4,6 +4,7 @@ import { idParam as id, parse } from '../http/validate';
 import { InvoiceBody, InvoiceQueryParams, PriceBody, PricePatchBody, PriceQuery, SettingsBody } from './billing-schemas';
 import type { BillingService } from './billing-service';
 import type { InvoiceQuery } from '../../src/contracts/billing';
+import { contentDisposition } from '../http/file-names';
 
 /**
  * The provider's webhook: RAW body (the signature covers the exact bytes), no session, no CSRF.
@@ -80,7 +81,7 @@ export function billingRoutes(billing: BillingService): Router {
   router.get('/invoices/:id/receipt', requireSignedIn, async (req, res) => {
     const { pdf, filename } = await billing.receipt(currentUser(req), id(req.params, 'Invoice'));
     res.setHeader('Content-Type', 'application/pdf');
-    res.setHeader('Content-Disposition', `attachment; filename="${filename}"`);
+    res.setHeader('Content-Disposition', contentDisposition(filename));
     res.setHeader('Cache-Control', 'private, no-store');
     res.send(pdf);
   });

@@ -32,10 +32,14 @@ export interface ClipRow {
   updated_at: string;
 }
 
-type ClipWithName = ClipRow & { uploaded_by_name: string | null };
+type ClipWithName = ClipRow & { uploaded_by_name: string | null; marked: number | boolean };
+
+/** SQL: whether the clip `c` has any landmark or gait event. */
+const MARKED =
+  '(EXISTS (SELECT 1 FROM clip_landmarks l WHERE l.clip_id = c.id) OR EXISTS (SELECT 1 FROM gait_events g WHERE g.clip_id = c.id)) AS marked';
 
 function withUploader(db: Knex) {
-  return db('clips as c').leftJoin('users as u', 'u.id', 'c.uploaded_by').select('c.*', 'u.name as uploaded_by_name');
+  return db('clips as c').leftJoin('users as u', 'u.id', 'c.uploaded_by').select('c.*', 'u.name as uploaded_by_name', db.raw(MARKED));
 }
 
 /** `clips` rows and their API shape. */
@@ -65,6 +69,12 @@ export const clipsRepository = {
   async insert(db: Knex, row: Omit<ClipRow, 'id'>): Promise<number> {
     const [r] = await db('clips').insert(row).returning('id');
     return (r as { id: number }).id;
+  },
+
+  /** Whether the clip has any landmark or gait event (its settings then shape the measures). */
+  async isMarked(db: Knex, id: number): Promise<boolean> {
+    const [landmark, event] = await Promise.all([db('clip_landmarks').where({ clip_id: id }).first('clip_id'), db('gait_events').where({ clip_id: id }).first('clip_id')]);
+    return Boolean(landmark || event);
   },
 
   async update(db: Knex, id: number, patch: Partial<ClipRow>): Promise<void> {
@@ -98,6 +108,7 @@ function toApi(r: ClipWithName): Clip {
     thumbEvery: r.thumb_every,
     uploadedByName: r.uploaded_by_name ?? '',
     uploadedById: r.uploaded_by,
+    marked: Boolean(r.marked),
     createdAt: r.created_at,
   };
 }

@@ -6,10 +6,12 @@ import type { Db } from '../db/knex';
 import { AppError, ConflictError, ForbiddenError, NotFoundError } from '../errors';
 import { isStaff } from '../http/access';
 import { audit } from '../audit/audit-log';
+import { cleanFileName } from '../http/file-names';
+import { assertMayChangeClipSettings } from '../policy/clip-settings';
 import { accessibleAthlete } from '../athletes/athlete-access';
 import { assessmentsRepository } from '../assessments/assessments-repository';
 import type { MediaStore } from '../storage/media-store';
-import type { Job, JobQueue } from '../jobs/job-queue';
+import type { Job, JobQueue, SubjectFailure } from '../jobs/job-queue';
 import { PermanentJobError, type JobHandler } from '../jobs/worker';
 import { probeVideo } from '../media/probe';
 import { extractFrames } from '../media/extract';
@@ -40,14 +42,6 @@ export interface UploadedFile {
   path: string;
   originalname: string;
   size: number;
-}
-
-/** Keeps a display name only: no folders, no control characters, at most 200 characters. */
-export function cleanFileName(name: string): string {
-  const base = name.replace(/\\/g, '/').split('/').pop() ?? '';
-  // eslint-disable-next-line no-control-regex
-  const clean = base.replace(/[\u0000-\u001f\u007f]/g, '').trim().slice(0, 200);
-  return clean || 'clip';
 }
 
 /** Clip upload, settings, deletion, processing and media access. */
@@ -188,13 +182,34 @@ export function clipsService(d: ClipsDeps) {
       return view(clipId);
     },
 
+    /**
+     * Changes near side, running direction or capture rate, as {@link assertMayChangeClipSettings}
+     * allows; each change is audited with its old and new value, and a marked clip's measures
+     * snapshot is dropped (recomputed with the new settings on the next read).
+     */
     async update(user: SessionUser, clipId: number, patch: ClipPatch): Promise<Clip> {
-      await accessibleClip(user, clipId);
+      const current = await accessibleClip(user, clipId);
+      const fields = [
+        ['nearSide', 'near_side'],
+        ['direction', 'direction'],
+        ['captureFps', 'capture_fps'],
+      ] as const;
       const row: Partial<ClipRow> = {};
-      if (patch.nearSide !== undefined) row.near_side = patch.nearSide;
-      if (patch.direction !== undefined) row.direction = patch.direction;
-      if (patch.captureFps !== undefined) row.capture_fps = patch.captureFps;
-      await repo.update(db, clipId, row);
+      const changes: Record<string, { from: unknown; to: unknown }> = {};
+      for (const [key, column] of fields) {
+        const to = patch[key];
+        if (to === undefined || to === current[column]) continue;
+        (row as Record<string, unknown>)[column] = to;
+        changes[key] = { from: current[column], to };
+      }
+      if (Object.keys(changes).length === 0) return view(clipId);
+      await db.transaction(async (trx) => {
+        // Checked inside the write, so marks saved meanwhile are seen.
+        assertMayChangeClipSettings(user, await repo.isMarked(trx, clipId));
+        await repo.update(trx, clipId, row);
+        await trx('measure_snapshots').where({ clip_id: clipId }).delete();
+        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: current.athlete_id, action: 'clip.settings_changed', detail: { clipId, changes } });
+      });
       await emit(clipId);
       return view(clipId);
     },
@@ -306,12 +321,16 @@ export function clipsService(d: ClipsDeps) {
       }
     }) satisfies JobHandler,
 
-    /** After the last attempt: the clip is `failed` with the reason. */
-    async markFailed(job: Job, message: string): Promise<void> {
-      const clipId = Number(job.payload['clipId']);
-      await repo.update(db, clipId, { status: 'failed', error: message.slice(0, 500) });
-      await emit(clipId);
-    },
+    /** When the extraction job is over for good: the clip is `failed` with the reason (unless it got ready). */
+    extractFailure: {
+      async fail(trx, job, reason) {
+        await trx('clips')
+          .where({ id: Number(job.payload['clipId']) })
+          .whereNot({ status: 'ready' })
+          .update({ status: 'failed', error: reason.slice(0, 500), updated_at: new Date().toISOString() });
+      },
+      failed: (job) => void emit(Number(job.payload['clipId'])).catch(() => undefined),
+    } satisfies SubjectFailure,
   };
 }
 

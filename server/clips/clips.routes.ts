@@ -9,7 +9,9 @@ import { AppError, NotFoundError, ValidationError } from '../errors';
 import { currentUser, requireSignedIn } from '../http/access';
 import { idParam, parse } from '../http/validate';
 import { audit } from '../audit/audit-log';
-import type { MediaStore } from '../storage/media-store';
+import type { Logger } from 'pino';
+import type { UploadTemps } from '../storage/upload-temps';
+import { contentDisposition } from '../http/file-names';
 import type { ClipEvents } from './clip-events';
 import type { UserRevocations } from '../http/sessions';
 import { ClipPatchBody, MediaIndexParams } from './clips-schemas';
@@ -28,48 +30,66 @@ export interface ClipsRoutesDeps {
   events: ClipEvents;
   /** Ends a user's live-status streams when they are signed out everywhere. */
   revocations: UserRevocations;
-  store: MediaStore;
+  /** Temp files of uploads being received (owned per request; swept when nobody owns them). */
+  temps: UploadTemps;
+  logger: Logger;
   uploadMaxBytes: number;
 }
 
 const IMMUTABLE = 'private, max-age=31536000, immutable';
 /** Refused uploads up to this size are read to the end before answering. */
 const DRAIN_LIMIT = 64 * 1024 * 1024;
+const MULTIPART_HINT = 'Send the clip as multipart/form-data with one file in the field "file".';
+
+/** Whether the request ended because the client went away (cancelled, closed the tab, lost the network). */
+function clientGone(req: Request, err: unknown): boolean {
+  const message = (err as Error | undefined)?.message ?? '';
+  // (req.destroyed alone says nothing: a fully read request is destroyed too.)
+  return req.readableAborted || Boolean(req.socket?.destroyed) || message === 'Request aborted' || message === 'Request closed';
+}
 
 /** Upload, settings, live status (server-sent events) and authorised media of clips. */
 export function clipsRoutes(d: ClipsRoutesDeps): Router {
   const router = Router();
+  type WithTemp = Request & { uploadTemp?: string };
   const upload = multer({
     storage: multer.diskStorage({
-      destination: d.store.tmpDir,
+      destination: (req, _file, cb) => cb(null, path.dirname((req as WithTemp).uploadTemp!)),
       // Never the client's name: it could hold "../" or odd bytes.
-      filename: (req, _file, cb) => {
-        const name = `${crypto.randomUUID()}.upload`;
-        (req as Request & { uploadTemp?: string }).uploadTemp = path.join(d.store.tmpDir, name);
-        cb(null, name);
-      },
+      filename: (req, _file, cb) => cb(null, path.basename((req as WithTemp).uploadTemp!)),
     }),
+    // File names arrive as UTF-8 from every current browser; busboy's default would read latin1.
+    defParamCharset: 'utf8',
     limits: { fileSize: d.uploadMaxBytes, files: 1, fields: 10, parts: 11, fieldNameSize: 100, fieldSize: 10_000 },
   }).single('file');
 
   const receive: RequestHandler = (req, res, next) => {
-    // Whatever happens (refusal, cancel, crash), no temp file outlives the request.
+    // The request owns its temp file; whatever happens (refusal, cancel, crash) it does not outlive it.
+    const temp = d.temps.create();
+    (req as WithTemp).uploadTemp = temp;
     res.on('close', () => {
-      const temp = (req as Request & { uploadTemp?: string }).uploadTemp;
-      if (temp) fs.rm(temp, { force: true }, () => undefined);
+      fs.rm(temp, { force: true }, () => d.temps.release(temp));
     });
     const declared = Number(req.headers['content-length'] ?? 0);
     if (declared > d.uploadMaxBytes + 64 * 1024) return refuse(req, res, next, tooLarge(d.uploadMaxBytes));
     upload(req, res, (err: unknown) => {
       if (!err) return next();
+      if (clientGone(req, err)) {
+        // Normal on phones: the athlete cancelled or the network dropped. Nobody is left to answer.
+        d.logger.info({ url: req.originalUrl, received: req.socket?.bytesRead }, 'upload cancelled by the client');
+        res.destroy();
+        return;
+      }
       if (err instanceof multer.MulterError) {
         if (err.code === 'LIMIT_FILE_SIZE') return next(tooLarge(d.uploadMaxBytes));
         if (err.code === 'LIMIT_FILE_COUNT' || err.code === 'LIMIT_UNEXPECTED_FILE') {
           return next(new ValidationError('Upload one clip per request, in the form field "file".', [{ path: ['file'], message: 'One clip per request.' }]));
         }
-        return next(new AppError(400, 'bad_upload', `The upload could not be read (${err.message}).`));
+        return next(new AppError(400, 'bad_upload', `The upload could not be read (${err.message}). ${MULTIPART_HINT}`));
       }
-      next(err);
+      // A disk or system error (it has a syscall) is ours; anything else is the body's form.
+      if ((err as NodeJS.ErrnoException).syscall) return next(err);
+      next(new AppError(400, 'bad_upload', `The upload could not be read: ${describeMultipartError(err)} ${MULTIPART_HINT}`));
     });
   };
 
@@ -175,9 +195,7 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
       const { file, row } = await d.clips.mediaPath(user, params.data.id, kind, params.data.n);
       await auditView(req, user, row.id, row.athlete_id);
       const headers: Record<string, string> = { 'Cache-Control': kind === 'original' || kind === 'manifest' ? 'private, no-cache' : IMMUTABLE };
-      if (kind === 'original') {
-        headers['Content-Disposition'] = `attachment; filename="${row.original_name.replace(/[^\w.\- ]/g, '_')}"`;
-      }
+      if (kind === 'original') headers['Content-Disposition'] = contentDisposition(row.original_name);
       res.sendFile(file, { headers, cacheControl: false, dotfiles: 'deny', lastModified: false }, (err) => {
         if (err && !res.headersSent) next(new NotFoundError('File'));
       });
@@ -190,4 +208,14 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
   router.get('/clips/:id/original', requireSignedIn, sendMedia('original'));
 
   return router;
+}
+
+/** Says in words what was wrong with a multipart body the upload library could not read. */
+function describeMultipartError(err: unknown): string {
+  const message = (err as Error | undefined)?.message ?? '';
+  if (/boundary not found/i.test(message)) return 'the Content-Type names no multipart boundary.';
+  if (/unexpected end of form/i.test(message)) return 'the body ended before the file was complete (empty, cut short, or a boundary that does not match the Content-Type).';
+  if (/malformed part header/i.test(message)) return 'a part header of the body is malformed.';
+  if (/unsupported content type/i.test(message)) return 'the Content-Type is not multipart/form-data.';
+  return 'the multipart body is malformed.';
 }

@@ -25,8 +25,6 @@ export interface WorkerOptions {
   concurrency: number;
   pollMs: number;
   leaseMs: number;
-  /** Called when a job's last attempt failed (e.g. to mark its clip failed). */
-  onFinalFailure?: (job: Job, message: string) => Promise<void>;
 }
 
 /** In-process worker loop over a {@link JobQueue}, with lease heartbeats and retry back-off. */
@@ -54,10 +52,17 @@ export function startWorker(o: WorkerOptions): Worker {
       await o.queue.complete(job);
     } catch (err) {
       const message = (err as Error).message || String(err);
-      const permanent = err instanceof PermanentJobError || controller.signal.aborted;
-      const final = await o.queue.fail(job, message, { final: permanent, retryInMs: 2_000 * 2 ** (job.attempts - 1) });
+      if (controller.signal.aborted) {
+        // Stopping: the job goes back to the queue with its attempt unused. Cancelled: the queue
+        // row was ended when its subject was deleted, and fail() leaves it so.
+        if (stopped) await o.queue.release(job);
+        else await o.queue.fail(job, 'cancelled', { final: true, retryInMs: 0 });
+        o.logger.info({ jobId: job.id, type: job.type, stopping: stopped }, 'job interrupted');
+        return;
+      }
+      // A final failure fails the job's subject too (the queue applies it in one transaction).
+      const final = await o.queue.fail(job, message, { final: err instanceof PermanentJobError, retryInMs: 2_000 * 2 ** (job.attempts - 1) });
       o.logger.warn({ jobId: job.id, type: job.type, attempt: job.attempts, final, err: message }, 'job failed');
-      if (final && !controller.signal.aborted) await o.onFinalFailure?.(job, message).catch(() => undefined);
     } finally {
       clearInterval(beat);
     }
@@ -72,7 +77,9 @@ export function startWorker(o: WorkerOptions): Worker {
         if (!job) break;
         const controller = new AbortController();
         const entry = { subject: job.subject, controller, done: Promise.resolve() };
-        entry.done = runJob(job, controller).finally(() => {
+        entry.done = runJob(job, controller)
+          .catch((err: Error) => o.logger.error({ err: err.message, jobId: job.id }, 'could not record the end of a job'))
+          .finally(() => {
           running.delete(job.id);
           void pump();
         });

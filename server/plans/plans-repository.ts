@@ -40,6 +40,8 @@ export interface StageExerciseRow extends DoseColumns {
   exercise_id: number;
   position: number;
   notes: string | null;
+  /** When the coach removed it from the stage; null while it is part of the plan. */
+  removed_at?: string | null;
 }
 
 export interface LogRow {
@@ -55,6 +57,7 @@ export interface LogRow {
   morning_at: string | null;
   sets: string;
   note: string | null;
+  review_note: string | null;
   created_by: number | null;
   created_at: string;
   updated_at: string;
@@ -115,14 +118,32 @@ export const plansRepository = {
     await db('plan_stages').where({ id }).update(patch);
   },
 
+  /** The stages' exercises as the plan has them now (not the removed ones). */
   stageExercises(db: Knex, stageIds: number[]): Promise<StageExerciseRow[]> {
     if (stageIds.length === 0) return Promise.resolve([]);
-    return db<StageExerciseRow>('stage_exercises').whereIn('stage_id', stageIds).orderBy('stage_id').orderBy('position');
+    return db<StageExerciseRow>('stage_exercises').whereIn('stage_id', stageIds).whereNull('removed_at').orderBy('stage_id').orderBy('position');
   },
 
-  async replaceStageExercises(db: Knex, stageId: number, rows: Omit<StageExerciseRow, 'id'>[]): Promise<void> {
-    await db('stage_exercises').where({ stage_id: stageId }).delete();
-    if (rows.length) await db('stage_exercises').insert(rows);
+  /** Exercises the coach removed from a stage, by id (a session logged offline may still name them). */
+  removedStageExercises(db: Knex, stageId: number, ids: number[]): Promise<StageExerciseRow[]> {
+    if (ids.length === 0) return Promise.resolve([]);
+    return db<StageExerciseRow>('stage_exercises').where({ stage_id: stageId }).whereIn('id', ids).whereNotNull('removed_at');
+  },
+
+  /**
+   * Makes a stage's exercises `rows`, keeping ids: a row with `id` is updated in place, one
+   * without is inserted, and the stage's exercises not named are marked removed (kept, so a
+   * session logged offline for one of them can still be recorded).
+   */
+  async syncStageExercises(db: Knex, stageId: number, rows: (Omit<StageExerciseRow, 'id'> & { id?: number })[], at: string): Promise<void> {
+    const keep = rows.map((r) => r.id).filter((id): id is number => id !== undefined);
+    const gone = db('stage_exercises').where({ stage_id: stageId }).whereNull('removed_at');
+    if (keep.length) gone.whereNotIn('id', keep);
+    await gone.update({ removed_at: at });
+    for (const { id, ...row } of rows) {
+      if (id !== undefined) await db('stage_exercises').where({ id, stage_id: stageId }).update(row);
+      else await db('stage_exercises').insert(row);
+    }
   },
 
   async logCountByStage(db: Knex, stageIds: number[]): Promise<Map<number, number>> {
@@ -184,6 +205,7 @@ export const plansRepository = {
       morningAt: r.morning_at,
       sets: JSON.parse(r.sets) as SetsDone[],
       note: r.note,
+      reviewNote: r.review_note ?? null,
       createdAt: r.created_at,
     };
   },

@@ -82,6 +82,8 @@ export const CriterionBody = z.discriminatedUnion(
 const Id = z.number('Must be an id.').int('Must be an id.').positive('Must be an id.');
 
 export const StageExerciseBody = z.strictObject({
+  /** Id of an existing stage exercise of this stage to keep (PUT); absent for a new one. */
+  id: Id.optional(),
   exerciseId: Id,
   dose: DoseBody,
   notes: NullableText(L.text.doseNotes, 'Notes'),
@@ -123,7 +125,7 @@ export const LogBody = z.strictObject({
   date: IsoDate,
   painDuring: Pain('Pain during'),
   sets: z
-    .array(z.strictObject({ stageExerciseId: Id, setsDone: Int('Sets done', { min: 0, max: L.sets.max }) }))
+    .array(z.strictObject({ stageExerciseId: Id, exerciseId: Id.optional(), setsDone: Int('Sets done', { min: 0, max: L.sets.max }) }))
     .max(L.exercisesPerStage.max),
   note: NullableText(L.text.logNote, 'Note'),
 });

@@ -19,7 +19,7 @@ import { isStaff } from '../http/access';
 import { audit } from '../audit/audit-log';
 import { accessibleAthlete } from '../athletes/athlete-access';
 import { doseColumns, doseFromRow, exercisesRepository } from './exercises-repository';
-import { plansRepository as repo, type LogRow, type PlanRow, type StageRow } from './plans-repository';
+import { plansRepository as repo, type LogRow, type PlanRow, type StageExerciseRow, type StageRow } from './plans-repository';
 import type { LogInput, PlanInput } from './plans-schemas';
 
 /** Is this SQLite's (or PostgreSQL's) unique-constraint failure? */
@@ -29,6 +29,34 @@ function isUniqueViolation(err: unknown): boolean {
 }
 
 const painLogs = (logs: LogRow[]) => logs.map((l) => ({ date: l.session_date, painDuring: l.pain_during, morningPain: l.morning_pain }));
+
+type LoggedSet = LogInput['sets'][number];
+
+/**
+ * Matches a session's sets to the stage's exercises as they are now: by stage-exercise id, else
+ * (the coach replaced the entry since) by library exercise id. Sets that match neither are
+ * returned as `unmatched` (the caller checks they are exercises removed from the stage: those are
+ * kept and flagged, not refused). A set named twice is an error. Pure.
+ */
+export function matchLoggedSets(sent: readonly LoggedSet[], items: readonly Pick<StageExerciseRow, 'id' | 'exercise_id'>[]) {
+  const done = new Map<number, number>();
+  const unmatched: LoggedSet[] = [];
+  const problems: { path: (string | number)[]; message: string }[] = [];
+  const seen = new Set<number>();
+  sent.forEach((s, i) => {
+    if (seen.has(s.stageExerciseId)) problems.push({ path: ['sets', i, 'stageExerciseId'], message: 'This exercise appears twice.' });
+    seen.add(s.stageExerciseId);
+  });
+  const direct = sent.filter((s) => items.some((it) => it.id === s.stageExerciseId));
+  for (const s of direct) done.set(s.stageExerciseId, s.setsDone);
+  for (const s of sent) {
+    if (direct.includes(s)) continue;
+    const item = s.exerciseId === undefined ? undefined : items.find((it) => it.exercise_id === s.exerciseId && !done.has(it.id));
+    if (item) done.set(item.id, s.setsDone);
+    else unmatched.push(s);
+  }
+  return { done, unmatched, problems };
+}
 
 /**
  * Plans → Stages → Exercises for an athlete, their status (start, advance, pause, resume, finish),
@@ -144,7 +172,13 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
     if (problems.length) throw new ValidationError(`Exercises: ${problems[0]!.message}`, problems);
   }
 
-  async function writeStages(trx: Knex, user: SessionUser, planId: number, input: PlanInput, existing: StageRow[]): Promise<void> {
+  /**
+   * Writes the stages and their exercises. Ids stay stable: a kept stage or stage exercise is
+   * updated in place, new ones are inserted, removed ones deleted. A stage exercise sent without
+   * an id (an older client) takes the id of an unclaimed one of the same library exercise in that
+   * stage, so an unchanged save renews nothing and logs queued offline still match.
+   */
+  async function writeStages(trx: Knex, user: SessionUser, planId: number, input: PlanInput, existing: StageRow[], existingItems: StageExerciseRow[]): Promise<void> {
     for (const [i, s] of input.stages.entries()) {
       const fields = { position: i + 1, name: s.name, goal: s.goal, target_weeks: s.targetWeeks, progression_text: s.progressionText, criteria: JSON.stringify(s.criteria) };
       let stageId: number;
@@ -154,15 +188,41 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
       } else {
         stageId = await repo.insertStage(trx, { clinic_id: user.clinicId, plan_id: planId, ...fields, started_at: null, completed_at: null });
       }
-      await repo.replaceStageExercises(
+      const claimed = new Set(s.exercises.map((e) => e.id).filter((id) => id !== undefined));
+      const unclaimed = existingItems.filter((it) => it.stage_id === stageId && !claimed.has(it.id));
+      await repo.syncStageExercises(
         trx,
         stageId,
-        s.exercises.map((e, j) => ({ clinic_id: user.clinicId, stage_id: stageId, exercise_id: e.exerciseId, position: j + 1, ...doseColumns(e.dose), notes: e.notes })),
+        s.exercises.map((e, j) => {
+          let id = e.id;
+          if (id === undefined) {
+            const at = unclaimed.findIndex((it) => it.exercise_id === e.exerciseId);
+            if (at !== -1) id = unclaimed.splice(at, 1)[0]!.id;
+          }
+          return { id, clinic_id: user.clinicId, stage_id: stageId, exercise_id: e.exerciseId, position: j + 1, ...doseColumns(e.dose), notes: e.notes };
+        }),
+        now(),
       );
     }
     const kept = new Set(input.stages.map((s) => s.id).filter((x) => x !== undefined));
     const gone = existing.filter((s) => !kept.has(s.id)).map((s) => s.id);
     if (gone.length) await trx('plan_stages').whereIn('id', gone).delete();
+  }
+
+  /** 422 unless every stage-exercise id sent belongs to the stage it is sent in, once. */
+  function checkStageExerciseIds(input: PlanInput, existingItems: StageExerciseRow[]): { path: (string | number)[]; message: string }[] {
+    const problems: { path: (string | number)[]; message: string }[] = [];
+    const seen = new Set<number>();
+    input.stages.forEach((s, i) =>
+      s.exercises.forEach((e, j) => {
+        if (e.id === undefined) return;
+        const item = existingItems.find((it) => it.id === e.id);
+        if (!item || s.id === undefined || item.stage_id !== s.id) problems.push({ path: ['stages', i, 'exercises', j, 'id'], message: 'This exercise entry is not part of this stage.' });
+        else if (seen.has(e.id)) problems.push({ path: ['stages', i, 'exercises', j, 'id'], message: 'This exercise entry appears twice.' });
+        seen.add(e.id);
+      }),
+    );
+    return problems;
   }
 
   async function logsWithStageNames(rows: LogRow[]): Promise<LogEntry[]> {
@@ -190,6 +250,8 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
         const i = input.stages.findIndex((s) => s.id !== undefined);
         throw new ValidationError('A new plan has no stage ids yet.', [{ path: ['stages', i, 'id'], message: 'Leave the id out for a new stage.' }]);
       }
+      const idProblems = checkStageExerciseIds(input, []);
+      if (idProblems.length) throw new ValidationError(`Stages: ${idProblems[0]!.message}`, idProblems);
       await checkExercises(user, input, new Set());
       const at = now();
       const id = await db.transaction(async (trx) => {
@@ -207,7 +269,7 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
           created_at: at,
           updated_at: at,
         });
-        await writeStages(trx, user, planId, input, []);
+        await writeStages(trx, user, planId, input, [], []);
         await repo.putRule(trx, user.clinicId, planId, repo.ruleDefault(), user.id, at);
         await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId, action: 'plan.created', detail: { planId } }, at);
         return planId;
@@ -228,18 +290,20 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
       if (new Set(input.stages.map((s) => s.id).filter((x) => x !== undefined)).size !== input.stages.filter((s) => s.id !== undefined).length) {
         problems.push({ path: ['stages'], message: 'A stage appears twice.' });
       }
+      const existingItems = await repo.stageExercises(db, existing.map((s) => s.id));
+      problems.push(...checkStageExerciseIds(input, existingItems));
       if (problems.length) throw new ValidationError(`Stages: ${problems[0]!.message}`, problems);
       const kept = new Set(input.stages.map((s) => s.id));
       const removed = existing.filter((s) => !kept.has(s.id));
       const counts = await repo.logCountByStage(db, removed.map((s) => s.id));
       const blocked = removed.find((s) => s.id === plan.current_stage_id || (counts.get(s.id) ?? 0) > 0 || s.started_at !== null);
       if (blocked) throw new ConflictError(`Stage “${blocked.name}” has started or has log entries, so it cannot be removed.`, 'stage_in_use');
-      const used = new Set((await repo.stageExercises(db, existing.map((s) => s.id))).map((e) => e.exercise_id));
+      const used = new Set(existingItems.map((e) => e.exercise_id));
       await checkExercises(user, input, used);
       const at = now();
       await db.transaction(async (trx) => {
         await repo.update(trx, id, { title: input.title, assessment_id: input.assessmentId, notes: input.notes, updated_at: at });
-        await writeStages(trx, user, id, input, existing);
+        await writeStages(trx, user, id, input, existing, existingItems);
         await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: plan.athlete_id, action: 'plan.updated', detail: { planId: id } }, at);
       });
       return this.get(user, id);
@@ -400,21 +464,23 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
         throw new ValidationError(`Date: ${message}`, [{ path: ['date'], message }]);
       }
       const items = await repo.stageExercises(db, [stage.id]);
-      const problems: { path: (string | number)[]; message: string }[] = [];
-      const seen = new Set<number>();
+      const matched = matchLoggedSets(input.sets, items);
+      // A set for an exercise the coach removed from this stage since is kept and flagged; any other unknown id is an error.
+      const removed = new Map((await repo.removedStageExercises(db, stage.id, matched.unmatched.map((u) => u.stageExerciseId))).map((r) => [r.id, r]));
       input.sets.forEach((s, i) => {
-        if (!items.some((it) => it.id === s.stageExerciseId)) problems.push({ path: ['sets', i, 'stageExerciseId'], message: 'This exercise is not in the current stage.' });
-        if (seen.has(s.stageExerciseId)) problems.push({ path: ['sets', i, 'stageExerciseId'], message: 'This exercise appears twice.' });
-        seen.add(s.stageExerciseId);
+        if (matched.unmatched.includes(s) && !removed.has(s.stageExerciseId)) matched.problems.push({ path: ['sets', i, 'stageExerciseId'], message: 'This exercise is not in the current stage.' });
       });
-      if (problems.length) throw new ValidationError(`Sets: ${problems[0]!.message}`, problems);
-      const names = new Map((await exercisesRepository.byIds(db, user.clinicId, items.map((i) => i.exercise_id))).map((e) => [e.id, e.name]));
-      const sets = items.map((it) => ({
-        stageExerciseId: it.id,
-        name: names.get(it.exercise_id) ?? '',
-        setsPrescribed: it.sets,
-        setsDone: input.sets.find((s) => s.stageExerciseId === it.id)?.setsDone ?? 0,
-      }));
+      if (matched.problems.length) throw new ValidationError(`Sets: ${matched.problems[0]!.message}`, matched.problems);
+      const names = new Map((await exercisesRepository.byIds(db, user.clinicId, [...items, ...removed.values()].map((i) => i.exercise_id))).map((e) => [e.id, e.name]));
+      const goneName = (u: LoggedSet) => names.get(removed.get(u.stageExerciseId)!.exercise_id) ?? 'An exercise no longer in this stage';
+      const sets = [
+        ...items.map((it) => ({ stageExerciseId: it.id, name: names.get(it.exercise_id) ?? '', setsPrescribed: it.sets, setsDone: matched.done.get(it.id) ?? 0 })),
+        // Exercises that left the stage since the session was saved on the phone: kept as sent, flagged.
+        ...matched.unmatched.map((u) => ({ stageExerciseId: u.stageExerciseId, name: goneName(u), setsPrescribed: removed.get(u.stageExerciseId)!.sets, setsDone: u.setsDone })),
+      ];
+      const reviewNote = matched.unmatched.length
+        ? `Sent for exercises the plan no longer has in this stage (saved on the athlete’s phone before the plan was edited): ${matched.unmatched.map(goneName).join(', ')}.`
+        : null;
       const at = now();
       try {
         const logId = await db.transaction(async (trx) => {
@@ -430,11 +496,12 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
             morning_at: null,
             sets: JSON.stringify(sets),
             note: input.note,
+            review_note: reviewNote,
             created_by: user.id,
             created_at: at,
             updated_at: at,
           });
-          await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: plan.athlete_id, action: 'plan.log_added', detail: { planId: id, logId: newId } }, at);
+          await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: plan.athlete_id, action: 'plan.log_added', detail: { planId: id, logId: newId, ...(reviewNote ? { unmatchedSets: matched.unmatched.length } : {}) } }, at);
           return newId;
         });
         const row = (await db<LogRow>('log_entries').where({ id: logId }).first())!;

@@ -10,7 +10,7 @@ import { AppError, ConflictError, NotFoundError, ValidationError } from '../erro
 import { isStaff } from '../http/access';
 import { audit } from '../audit/audit-log';
 import { accessibleAthlete } from '../athletes/athlete-access';
-import type { JobQueue, Job } from '../jobs/job-queue';
+import type { JobQueue, Job, SubjectFailure } from '../jobs/job-queue';
 import { PermanentJobError, type JobHandler } from '../jobs/worker';
 import type { MediaStore } from '../storage/media-store';
 import type { Mailer } from '../mail/mailer';
@@ -270,10 +270,15 @@ export function stillsService(d: StillsDeps) {
       if (version > 1) await removeFiles(current, version - 1);
     }) satisfies JobHandler,
 
-    /** Marks a still whose last render attempt failed. */
-    async markFailed(job: Job, message: string): Promise<void> {
-      await repo.update(db, Number(job.payload['stillId']), { status: 'failed', error: `The still could not be rendered: ${message}`, updated_at: now() });
-    },
+    /** When the render job is over for good: the still is `failed` with the reason (unless it got ready). */
+    renderFailure: {
+      async fail(trx, job, reason) {
+        await trx('stills')
+          .where({ id: Number(job.payload['stillId']) })
+          .whereNot({ status: 'ready' })
+          .update({ status: 'failed', error: `The still could not be rendered: ${reason}`, updated_at: now() });
+      },
+    } satisfies SubjectFailure,
   };
 }
 

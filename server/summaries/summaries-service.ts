@@ -10,7 +10,7 @@ import { AppError, ConflictError, NotFoundError } from '../errors';
 import { isStaff } from '../http/access';
 import { audit } from '../audit/audit-log';
 import { accessibleAthlete } from '../athletes/athlete-access';
-import type { Job, JobQueue } from '../jobs/job-queue';
+import type { Job, JobQueue, SubjectFailure } from '../jobs/job-queue';
 import { PermanentJobError, type JobHandler } from '../jobs/worker';
 import type { Mailer } from '../mail/mailer';
 import { accessibleShared, setPublication } from '../sharing/shared-items';
@@ -221,9 +221,15 @@ export function summariesService(d: SummariesDeps) {
       await repo.update(db, id, { status: 'ready', progress: 1, error: null, page_count: pageCount, updated_at: now() });
     }) satisfies JobHandler,
 
-    async markFailed(job: Job, message: string): Promise<void> {
-      await repo.update(db, Number(job.payload['summaryId']), { status: 'failed', error: `The summary could not be made: ${message}`, updated_at: now() });
-    },
+    /** When the render job is over for good: the summary is `failed` with the reason (unless it got ready). */
+    renderFailure: {
+      async fail(trx, job, reason) {
+        await trx('visit_summaries')
+          .where({ id: Number(job.payload['summaryId']) })
+          .whereNot({ status: 'ready' })
+          .update({ status: 'failed', error: `The summary could not be made: ${reason}`, updated_at: now() });
+      },
+    } satisfies SubjectFailure,
   };
 }
 

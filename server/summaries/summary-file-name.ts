@@ -4,6 +4,7 @@
  * ASCII `filename` fallback for old clients and the exact name as UTF-8 in `filename*` (RFC 6266,
  * RFC 8187). Pure.
  */
+import { contentDisposition as fileContentDisposition } from '../http/file-names';
 
 /** The summary's file name in full (any script), and its plain-ASCII fallback. */
 export interface SummaryFileName {
@@ -31,10 +32,7 @@ export function summaryFileName(p: { athleteName: string; what: string; date: st
   return { utf8, ascii: `${ascii}.pdf` };
 }
 
-/** RFC 8187 value characters: everything else is percent-encoded. */
-const encodeExtValue = (s: string) => encodeURIComponent(s).replace(/['()*]/g, (c) => `%${c.charCodeAt(0).toString(16).toUpperCase()}`);
-
 /** `attachment; filename="…ascii…"; filename*=UTF-8''…` (or `inline; …`). */
 export function contentDisposition(type: 'inline' | 'attachment', name: SummaryFileName): string {
-  return `${type}; filename="${name.ascii}"; filename*=UTF-8''${encodeExtValue(name.utf8)}`;
+  return fileContentDisposition(name.utf8, type, name.ascii);
 }

@@ -231,6 +231,8 @@ export interface Clip {
   uploadedByName: string;
   /** Who uploaded it (athletes may delete only their own uploads). */
   uploadedById: number | null;
+  /** Whether landmarks or gait events exist: then only staff may change the clip's settings. */
+  marked: boolean;
   createdAt: string;
 }
 

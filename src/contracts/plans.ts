@@ -269,7 +269,8 @@ export interface StageWrite {
   targetWeeks: number;
   progressionText: string;
   criteria: ProgressionCriterion[];
-  exercises: { exerciseId: number; dose: Dose; notes: string | null }[];
+  /** `id`: an existing stage exercise of this stage to keep (PUT), so logs queued offline still match it. */
+  exercises: { id?: number; exerciseId: number; dose: Dose; notes: string | null }[];
 }
 
 export interface PlanTransition {
@@ -303,6 +304,11 @@ export interface LogEntry {
   morningAt: string | null;
   sets: SetsDone[];
   note: string | null;
+  /**
+   * Why the coach should look at this entry (it was sent for exercises changed meanwhile, e.g. a
+   * session queued offline before a plan edit), or null.
+   */
+  reviewNote: string | null;
   createdAt: string;
 }
 
@@ -312,7 +318,8 @@ export interface LogWrite {
   stageId: number;
   date: string;
   painDuring: number;
-  sets: { stageExerciseId: number; setsDone: number }[];
+  /** `exerciseId` (the library exercise) lets the server match the set if the plan was edited since. */
+  sets: { stageExerciseId: number; exerciseId?: number; setsDone: number }[];
   note: string | null;
 }
 

@@ -77,4 +77,27 @@ describe('assessments and clips', () => {
     expect(problems).toEqual([]);
     await context.close();
   });
+
+  it('once the coach has marked a clip, the athlete sees its settings locked and why', async () => {
+    const coachClip = await h.server.db('clips').where({ assessment_id: assessmentId }).orderBy('id').first();
+    await h.server.db('clip_landmarks').insert({ clip_id: coachClip.id, frame: 3, side: 'right', landmark: 'hip', x: 0.5, y: 0.4, source: 'placed' });
+    const { page, context, problems } = await h.newPage();
+    await page.setViewportSize({ width: 390, height: 844 });
+    await signIn(page, athlete.email, athlete.password);
+    await page.goto(`${h.baseUrl}/portal/assessments/${assessmentId}`);
+    const marked = page.getByRole('group', { name: `Settings of ${coachClip.original_name}` }).first();
+    await expect.poll(() => marked.getByText('Your clinician has marked this clip').count()).toBe(1);
+    const toggles = marked.getByRole('radio');
+    expect(await toggles.count()).toBe(4);
+    for (let i = 0; i < 4; i++) expect(await toggles.nth(i).isDisabled()).toBe(true);
+    expect(await marked.getByLabel('Capture frame rate').isDisabled()).toBe(true);
+    // The athlete's own, unmarked clip keeps its settings.
+    const groups = page.getByRole('group', { name: /^Settings of / });
+    expect(await groups.count()).toBe(2);
+    expect(await groups.nth(1).getByRole('radio').first().isDisabled()).toBe(false);
+    await marked.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'portal-assessment-locked-phone.png'), fullPage: true });
+    expect(problems).toEqual([]);
+    await context.close();
+  });
 });

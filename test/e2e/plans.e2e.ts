@@ -273,4 +273,39 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     expect(problems).toEqual([]);
     await context.close();
   });
+
+  it('a session the server refuses stays on the phone with the reason; the athlete sends it for today’s stage', async () => {
+    const { page, context, problems } = await phone();
+    await signIn(page, athlete.email, athlete.password);
+    await page.goto(`${h.baseUrl}/portal/plan`);
+    await expect.poll(() => page.getByRole('button', { name: 'Save session' }).count()).toBe(1);
+    const before = (await logs()).length;
+    let refused = 0;
+    await page.route('**/api/plans/*/logs', async (route) => {
+      if (route.request().method() === 'POST' && refused === 0) {
+        refused++;
+        await route.fulfill({ status: 409, contentType: 'application/json', body: JSON.stringify({ error: { code: 'stage_not_current', message: 'This stage is not the current stage of this plan any more.' } }) });
+        return;
+      }
+      await route.continue();
+    });
+    await tickAllSets(page);
+    await page.getByRole('radio', { name: 'Pain during 1 out of 10' }).click();
+    await page.getByRole('button', { name: 'Save session' }).click();
+    await expect.poll(() => page.getByText('This stage is not the current stage of this plan any more.').count()).toBe(1);
+    const send = page.getByRole('button', { name: /^Send the session of .* again, for today’s stage / });
+    const discard = page.getByRole('button', { name: /^Discard the session of / });
+    expect(await send.count()).toBe(1);
+    expect(await discard.count()).toBe(1);
+    // Still kept on the phone after a reload.
+    await page.reload();
+    await expect.poll(() => page.getByText('Not accepted', { exact: true }).count()).toBe(1);
+    await send.scrollIntoViewIfNeeded();
+    await fullShot(page, 'plans-portal-refused-phone.png');
+    await send.click();
+    await expect.poll(async () => (await logs()).length).toBe(before + 1);
+    await expect.poll(() => page.getByText('Not accepted', { exact: true }).count()).toBe(0);
+    expect(problems.filter((p) => !/409|Failed to load resource/.test(p))).toEqual([]);
+    await context.close();
+  });
 });

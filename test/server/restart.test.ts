@@ -3,68 +3,26 @@
  * restart the expired lease is claimed again and the clip ends `ready` with every frame, as
  * counted by ffprobe -count_frames (outside reference).
  */
-import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Client } from '../support/test-app';
-import { createDb, migrate } from '../../server/db/knex';
-import { DEMO_SIGN_INS, seed } from '../../seeds/demo-scenario';
-import { ffprobeCounted, makeClip, tempDir } from './media/fixtures';
+import { freePort, seededDir, serverProcess, type ServerProcess } from '../support/server-process';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { ffprobeCounted, makeClip } from './media/fixtures';
 
 const [, coach] = DEMO_SIGN_INS;
 let dir: string;
 let cleanup: () => Promise<void>;
 let port: number;
-let child: ChildProcess | null = null;
-
-function freePort(): Promise<number> {
-  return new Promise((resolve) => {
-    const s = net.createServer().listen(0, '127.0.0.1', () => {
-      const p = (s.address() as net.AddressInfo).port;
-      s.close(() => resolve(p));
-    });
-  });
-}
-
-/** Starts `server/main.ts` in its own process group (so SIGKILL takes ffmpeg down with it). */
-async function startServer(): Promise<void> {
-  child = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], {
-    detached: true,
-    stdio: ['ignore', 'pipe', 'pipe'],
-    env: {
-      ...process.env,
-      PORT: String(port),
-      DB_FILE: path.join(dir, 'db.sqlite'),
-      UPLOADS_DIR: path.join(dir, 'uploads'),
-      CLIENT_DIR: '',
-      FAKE_SMTP_PORT: '0',
-      LOG_LEVEL: 'warn',
-      JOB_LEASE_SECONDS: '2',
-    },
-  });
-  const started = Date.now();
-  for (;;) {
-    const ok = await fetch(`http://127.0.0.1:${port}/api/health`).then((r) => r.ok).catch(() => false);
-    if (ok) return;
-    if (Date.now() - started > 30_000) throw new Error('server did not start');
-    await new Promise((r) => setTimeout(r, 200));
-  }
-}
-
-function killHard(): void {
-  if (child?.pid) process.kill(-child.pid, 'SIGKILL');
-  child = null;
-}
+let server: ServerProcess;
+const startServer = () => server.start();
+const killHard = () => server?.killHard();
 
 beforeAll(async () => {
-  ({ dir, cleanup } = await tempDir('restart'));
-  const db = createDb(path.join(dir, 'db.sqlite'));
-  await migrate(db);
-  await seed(db);
-  await db.destroy();
+  ({ dir, cleanup } = await seededDir('restart'));
   port = await freePort();
+  server = serverProcess(dir, port);
 });
 afterAll(async () => {
   killHard();

@@ -3,7 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
 import type { Express } from 'express';
-import pino from 'pino';
+import pino, { type Logger } from 'pino';
 import { createApp } from '../../server/app';
 import { loadConfig, type Config } from '../../server/config';
 import { createDb, migrate, type Db } from '../../server/db/knex';
@@ -12,6 +12,7 @@ import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp';
 import { hashPassword } from '../../server/auth/passwords';
 import { seed } from '../../seeds/demo-scenario';
 import type { Worker } from '../../server/jobs/worker';
+import type { JobQueue } from '../../server/jobs/job-queue';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { startFakePayments, type FakePayments } from '../../server/billing/fake-payments/fake-payments';
@@ -49,6 +50,8 @@ export interface TestApp {
   config: Config;
   /** The in-process job worker. */
   worker: Worker | null;
+  /** The app's job queue (tests that run without the worker drive it themselves). */
+  queue: JobQueue;
   /** Moves the app's clock forward. */
   advance(ms: number): void;
   /** Deletes expired session rows now; answers how many. */
@@ -64,6 +67,8 @@ export interface TestApp {
 export interface TestAppOptions {
   /** Start the local fake payment service and listen on a port so its webhooks reach the app. */
   fakePayments?: boolean;
+  /** The app's logger (default: silent), for tests that read what the server logs. */
+  logger?: Logger;
   /** Also deliver every e-mail to the demo's fake SMTP receiver (stored in `mailbox_messages`). */
   fakeSmtp?: boolean;
 }
@@ -89,7 +94,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
     mailer.forward = createSmtpMailer({ ...config.mail, host: '127.0.0.1', port: fakeSmtp.port });
   }
   let offset = 0;
-  const { app, close, worker, clearExpiredSessions } = createApp({ config, db, mailer, logger: pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
+  const { app, close, worker, queue, clearExpiredSessions } = createApp({ config, db, mailer, logger: options.logger ?? pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
   let listener: http.Server | null = null;
   let url: string | null = null;
   if (fakePayments) {
@@ -110,6 +115,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
       offset += ms;
     },
     worker,
+    queue,
     clearExpiredSessions,
     async close() {
       await fakePayments?.idle();

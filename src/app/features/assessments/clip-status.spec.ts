@@ -26,6 +26,7 @@ function clip(overrides: Partial<Clip> = {}): Clip {
     thumbEvery: 10,
     uploadedByName: 'Robin Coach',
     uploadedById: 3,
+    marked: false,
     createdAt: '2025-03-01T10:00:00Z',
     ...overrides,
   };

@@ -1,5 +1,5 @@
 import type { LogWrite } from '../../../contracts/plans';
-import { BACKOFF, backoffMs, dueNow, enqueue, isRetryable, logItem, morningItem, nextDue, nextWake, parseStored, refuse, remove, retryLater } from './log-outbox-queue';
+import { BACKOFF, backoffMs, dueNow, enqueue, isRetryable, logItem, morningItem, nextDue, nextWake, parseStored, refuse, remove, resend, retargetLog, retryLater } from './log-outbox-queue';
 
 const body = (key: string): LogWrite => ({ key, stageId: 3, date: '2026-12-09', painDuring: 2, sets: [], note: null });
 
@@ -38,9 +38,37 @@ describe('log outbox queue', () => {
     expect(items[0]).toMatchObject({ refused: true, lastError: 'Stage moved on', attempts: 1 });
     expect(nextDue(items, 10_000)).toBeNull();
     expect(nextWake(items)).toBeNull();
-    // A refused session does not block its morning check forever: it is no longer "waiting".
+    // Its morning check stays with it (it would be refused too) until the session is fixed or discarded.
     items = enqueue(items, morningItem(1, 'k1', 1, '2026-12-09', 0));
-    expect(nextDue(items, 0)?.id).toBe('k1:morning');
+    expect(nextDue(items, 0)).toBeNull();
+    expect(nextDue(remove(items, 'k1'), 0)?.id).toBe('k1:morning');
+  });
+
+  it('a refused session fixed by the athlete goes out again with its key, its morning check after it', () => {
+    let items = enqueue([], logItem(1, body('k1'), 0));
+    items = enqueue(items, morningItem(1, 'k1', 1, '2026-12-09', 0));
+    items = refuse(items, 'k1', 'Stage moved on');
+    const fixed = { ...body('other-key'), stageId: 4 };
+    items = resend(items, 'k1', fixed, 50);
+    expect(items[0]).toMatchObject({ id: 'k1', refused: false, attempts: 0, lastError: null, nextAt: 50, body: { key: 'k1', stageId: 4 } });
+    expect(nextDue(items, 50)?.id).toBe('k1');
+    expect(nextDue(remove(items, 'k1'), 50)?.id).toBe('k1:morning');
+    // Nothing else changes, and an unknown id changes nothing.
+    expect(resend(items, 'nope', fixed, 60)).toEqual(items);
+  });
+
+  it('re-aims a session at another stage, matching sets by stage exercise or by library exercise', () => {
+    const sent = { ...body('k1'), stageId: 3, sets: [{ stageExerciseId: 11, exerciseId: 101, setsDone: 3 }, { stageExerciseId: 12, exerciseId: 102, setsDone: 2 }, { stageExerciseId: 13, setsDone: 1 }] };
+    const today = { id: 4, exercises: [{ id: 21, exerciseId: 102 }, { id: 11, exerciseId: 101 }, { id: 22, exerciseId: 103 }] };
+    expect(retargetLog(sent, today)).toEqual({
+      ...sent,
+      stageId: 4,
+      sets: [
+        { stageExerciseId: 21, exerciseId: 102, setsDone: 2 },
+        { stageExerciseId: 11, exerciseId: 101, setsDone: 3 },
+        { stageExerciseId: 22, exerciseId: 103, setsDone: 0 },
+      ],
+    });
   });
 
   it('a changed morning answer replaces the queued one; "send now" makes everything due', () => {

@@ -3,8 +3,9 @@
  * a session (POST with its idempotency key) or a morning check (PUT by the session's key). Items
  * leave the queue only when the server has answered with success; a connection problem or a
  * server error schedules another try with growing back-off; a refusal the athlete must see
- * (e.g. the stage moved on) keeps the item, marked, until the athlete discards it. Nothing is
- * dropped silently, and a retry can never make a second entry (same key).
+ * (e.g. the stage moved on) keeps the item, marked, until the athlete fixes it (sends it again,
+ * e.g. for today's stage) or discards it. Nothing is dropped silently, and a retry can never make
+ * a second entry (same key).
  */
 import type { LogWrite } from '../../../contracts/plans';
 
@@ -60,9 +61,12 @@ export function enqueue(items: readonly OutboxItem[], item: OutboxItem): OutboxI
   return items.map((i, n) => (n === at ? item : i));
 }
 
-/** Whether a morning check still waits for its session (queued before it and not refused). */
+/**
+ * Whether a morning check still waits for its session: queued before it, or refused and not yet
+ * fixed or discarded by the athlete (the check belongs to that session and goes with it).
+ */
 function blocked(items: readonly OutboxItem[], item: OutboxItem): boolean {
-  return item.kind === 'morning' && items.some((i) => i.kind === 'log' && i.key === item.key && !i.refused);
+  return item.kind === 'morning' && items.some((i) => i.kind === 'log' && i.key === item.key);
 }
 
 /**
@@ -87,6 +91,37 @@ export function retryLater(items: readonly OutboxItem[], id: string, message: st
 
 export function refuse(items: readonly OutboxItem[], id: string, message: string): OutboxItem[] {
   return items.map((i) => (i.id === id ? { ...i, attempts: i.attempts + 1, refused: true, lastError: message } : i));
+}
+
+/**
+ * A refused session, fixed by the athlete, goes out again now with `body` (same key: the server
+ * never stored it); its morning check follows it again.
+ */
+export function resend(items: readonly OutboxItem[], id: string, body: LogWrite, now: number): OutboxItem[] {
+  const item = items.find((i) => i.id === id);
+  if (!item || item.kind !== 'log') return [...items];
+  return items.map((i) => {
+    if (i.id === id) return { ...i, body: { ...body, key: i.key }, refused: false, attempts: 0, lastError: null, nextAt: now };
+    if (i.kind === 'morning' && i.key === item.key) return { ...i, refused: false, attempts: 0, lastError: null, nextAt: now };
+    return i;
+  });
+}
+
+/** A stage as far as a session needs it: its id and its exercises (stage-exercise and library ids). */
+export interface StageTarget {
+  id: number;
+  exercises: readonly { id: number; exerciseId: number }[];
+}
+
+/**
+ * The session re-aimed at `stage` (e.g. today's stage after the coach moved the plan on): each of
+ * the stage's exercises gets the sets done that the session had for it, matched by stage-exercise
+ * id or library exercise; the stage's other exercises get 0. Pure.
+ */
+export function retargetLog(body: LogWrite, stage: StageTarget): LogWrite {
+  const done = (e: { id: number; exerciseId: number }) =>
+    body.sets.find((s) => s.stageExerciseId === e.id)?.setsDone ?? body.sets.find((s) => s.exerciseId === e.exerciseId)?.setsDone ?? 0;
+  return { ...body, stageId: stage.id, sets: stage.exercises.map((e) => ({ stageExerciseId: e.id, exerciseId: e.exerciseId, setsDone: done(e) })) };
 }
 
 /** Everything pending becomes due now (back online, or "Send now"). */

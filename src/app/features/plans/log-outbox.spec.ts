@@ -9,7 +9,7 @@ import { logItem } from './log-outbox-queue';
 
 const KEY = 'trailframe.log-outbox.v1.7';
 const body = (key: string): LogWrite => ({ key, stageId: 3, date: '2026-12-09', painDuring: 2, sets: [{ stageExerciseId: 11, setsDone: 3 }], note: 'ok' });
-const entry = (key: string): LogEntry => ({ id: 40, planId: 5, stageId: 3, stageName: 'Holds', key, date: '2026-12-09', painDuring: 2, morningPain: null, morningAt: null, sets: [], note: 'ok', createdAt: '' });
+const entry = (key: string): LogEntry => ({ id: 40, planId: 5, stageId: 3, stageName: 'Holds', key, date: '2026-12-09', painDuring: 2, morningPain: null, morningAt: null, sets: [], note: 'ok', reviewNote: null, createdAt: '' });
 
 /** Lets the outbox's awaited requests and their follow-ups run. */
 const settle = async () => {
@@ -89,14 +89,28 @@ describe('LogOutbox', () => {
       .expectOne('/api/plans/5/logs')
       .flush({ error: { code: 'stage_not_current', message: '“Holds” is not the current stage of this plan any more.' } }, { status: 409, statusText: 'Conflict' });
     await settle();
-    // The morning check then goes out and is refused too (no such session).
-    backend.expectOne('/api/plans/5/logs/key-three-123/morning').flush({ error: { code: 'not_found', message: 'Log entry not found.' } }, { status: 404, statusText: 'Not Found' });
-    await settle();
-    expect(outbox.refused().map((i) => [i.id, i.lastError])).toEqual([
-      ['key-three-123', '“Holds” is not the current stage of this plan any more.'],
-      ['key-three-123:morning', 'Log entry not found.'],
-    ]);
+    // The morning check stays with its refused session: it is not sent (it would be refused too).
+    backend.expectNone('/api/plans/5/logs/key-three-123/morning');
+    expect(outbox.refused().map((i) => [i.id, i.lastError])).toEqual([['key-three-123', '“Holds” is not the current stage of this plan any more.']]);
+    expect(outbox.items().map((i) => i.id)).toEqual(['key-three-123', 'key-three-123:morning']);
+    expect(JSON.parse(store.get(KEY)!)).toHaveLength(2);
     outbox.discard('key-three-123');
+    expect(outbox.items()).toEqual([]);
+  });
+
+  it('sends a refused session again once the athlete fixed it, with the same key, then its morning check', async () => {
+    const outbox = setup();
+    outbox.submitLog(5, body('key-four-1234'));
+    outbox.submitMorning(5, 'key-four-1234', 1, '2026-12-09');
+    backend.expectOne('/api/plans/5/logs').flush({ error: { code: 'stage_not_current', message: 'Stage moved on.' } }, { status: 409, statusText: 'Conflict' });
+    await settle();
+    outbox.resend('key-four-1234', { ...body('key-four-1234'), stageId: 4, sets: [{ stageExerciseId: 21, exerciseId: 101, setsDone: 3 }] });
+    const again = backend.expectOne('/api/plans/5/logs');
+    expect(again.request.body).toMatchObject({ key: 'key-four-1234', stageId: 4 });
+    again.flush(entry('key-four-1234'), { status: 201, statusText: 'Created' });
+    await settle();
+    backend.expectOne('/api/plans/5/logs/key-four-1234/morning').flush(entry('key-four-1234'));
+    await settle();
     expect(outbox.items()).toEqual([]);
   });
 

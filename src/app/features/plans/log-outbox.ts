@@ -15,6 +15,7 @@ import {
   parseStored,
   refuse,
   remove,
+  resend,
   retryLater,
 } from './log-outbox-queue';
 import { PlansApi } from './plans-api';
@@ -94,6 +95,12 @@ export class LogOutbox {
   /** Tries everything pending now (back online, or the athlete asked). */
   sendNow(): void {
     this.update(dueNow(this.current(), this.now()));
+    void this.flush();
+  }
+
+  /** Sends a refused session again, fixed by the athlete (e.g. for today's stage), with its key. */
+  resend(id: string, body: LogWrite): void {
+    this.update(resend(this.current(), id, body, this.now()));
     void this.flush();
   }
 

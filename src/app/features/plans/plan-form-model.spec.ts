@@ -65,7 +65,7 @@ describe('plan form model', () => {
     expect(stages.every((s) => s.exercises.length === 0)).toBe(true);
   });
 
-  it('round-trips a plan: stage ids kept, exercises with doses, criteria by kind', () => {
+  it('round-trips a plan: stage and stage-exercise ids kept (queued logs still match), exercises with doses, criteria by kind', () => {
     const detail = {
       title: 'Plan',
       assessmentId: 12,
@@ -83,7 +83,7 @@ describe('plan form model', () => {
       assessmentId: 12,
       notes: null,
       stages: [
-        { id: 31, name: 'Holds', goal: 'Calm', targetWeeks: 2, progressionText: 'When calm', criteria: [{ kind: 'weeks_in_stage', weeks: 2 }], exercises: [{ exerciseId: 4, dose: { ...exercise.dose, sets: 4 }, notes: 'Left side only' }] },
+        { id: 31, name: 'Holds', goal: 'Calm', targetWeeks: 2, progressionText: 'When calm', criteria: [{ kind: 'weeks_in_stage', weeks: 2 }], exercises: [{ id: 1, exerciseId: 4, dose: { ...exercise.dose, sets: 4 }, notes: 'Left side only' }] },
         { name: 'New', goal: '', targetWeeks: 3, progressionText: '', criteria: [{ kind: 'pain_during_at_most', max: 3, sessions: 2 }], exercises: [{ exerciseId: 4, dose: exercise.dose, notes: null }] },
       ],
     });

@@ -141,6 +141,8 @@ export type CriterionGroup = FormGroup<{
 }>;
 
 export type StageExerciseGroup = FormGroup<{
+  /** The stage exercise's id once saved (kept on save, so the athlete's queued logs still match). */
+  id: FormControl<number | null>;
   exerciseId: FormControl<number>;
   /** The library exercise, for display (not sent). */
   info: FormControl<Exercise>;
@@ -197,8 +199,9 @@ export function criterionFromForm(v: ReturnType<CriterionGroup['getRawValue']>):
   }
 }
 
-export function stageExerciseGroup(fb: NonNullableFormBuilder, exercise: Exercise, dose: Dose = exercise.dose, notes: string | null = null): StageExerciseGroup {
+export function stageExerciseGroup(fb: NonNullableFormBuilder, exercise: Exercise, dose: Dose = exercise.dose, notes: string | null = null, id: number | null = null): StageExerciseGroup {
   return fb.group({
+    id: fb.control<number | null>(id),
     exerciseId: fb.control(exercise.id),
     info: fb.control(exercise),
     dose: doseGroup(fb, dose),
@@ -213,7 +216,7 @@ export interface StageSeed {
   targetWeeks: number;
   progressionText: string;
   criteria: ProgressionCriterion[];
-  exercises: { exercise: Exercise; dose: Dose; notes: string | null }[];
+  exercises: { id?: number; exercise: Exercise; dose: Dose; notes: string | null }[];
 }
 
 export function stageGroup(fb: NonNullableFormBuilder, s: StageSeed): StageGroup {
@@ -224,7 +227,7 @@ export function stageGroup(fb: NonNullableFormBuilder, s: StageSeed): StageGroup
     targetWeeks: fb.control<number | null>(s.targetWeeks, [Validators.required, ...range(L.targetWeeks)]),
     progressionText: fb.control(s.progressionText, Validators.maxLength(L.text.progressionText)),
     criteria: fb.array(s.criteria.map((c) => criterionGroup(fb, c))),
-    exercises: fb.array(s.exercises.map((e) => stageExerciseGroup(fb, e.exercise, e.dose, e.notes))),
+    exercises: fb.array(s.exercises.map((e) => stageExerciseGroup(fb, e.exercise, e.dose, e.notes, e.id ?? null))),
   });
 }
 
@@ -281,7 +284,7 @@ export function createPlanForm(fb: NonNullableFormBuilder, plan?: PlanDetail, de
           targetWeeks: s.targetWeeks,
           progressionText: s.progressionText,
           criteria: s.criteria,
-          exercises: s.exercises.map((e) => ({ exercise: e.exercise, dose: e.dose, notes: e.notes })),
+          exercises: s.exercises.map((e) => ({ id: e.id, exercise: e.exercise, dose: e.dose, notes: e.notes })),
         }),
       ),
     ),
@@ -300,7 +303,7 @@ export function planFromForm(v: ReturnType<PlanForm['getRawValue']>): PlanWrite 
         targetWeeks: s.targetWeeks ?? 0,
         progressionText: s.progressionText.trim(),
         criteria: s.criteria.map(criterionFromForm),
-        exercises: s.exercises.map((e) => ({ exerciseId: e.exerciseId, dose: doseFromForm(e.dose), notes: textOrNull(e.notes) })),
+        exercises: s.exercises.map((e) => ({ ...(e.id !== null ? { id: e.id } : {}), exerciseId: e.exerciseId, dose: doseFromForm(e.dose), notes: textOrNull(e.notes) })),
       };
       if (s.id !== null) stage.id = s.id;
       return stage;

@@ -11,6 +11,7 @@ const entry = (id: number, date: string, morningPain: number | null = null): Log
   painDuring: 2,
   morningPain,
   morningAt: null,
+  reviewNote: null,
   sets: [],
   note: null,
   createdAt: '',

@@ -64,6 +64,7 @@ function clip(id: number, overrides: Partial<Clip> = {}): Clip {
     thumbEvery: null,
     uploadedByName: 'Sam Runner',
     uploadedById: 7,
+    marked: false,
     createdAt: `2025-03-14T10:0${id}:00Z`,
     ...overrides,
   };
@@ -210,5 +211,25 @@ describe('AssessmentClips', () => {
     const deletable = [...element.querySelectorAll('app-clip-card')].map((card) => !!card.querySelector('button.delete'));
     expect(deletable).toEqual([true, false]);
     expect(element.querySelector('app-clip-uploader')).not.toBeNull();
+  });
+
+  it('locks an athlete out of a marked clip’s settings and says why; staff keep them', async () => {
+    create(detail({ clips: [clip(1, { status: 'ready', frameCount: 300, marked: true }), clip(2, { status: 'ready', frameCount: 300 })] }), 'athlete');
+    await fixture.whenStable();
+    const cards = [...element.querySelectorAll('app-clip-card')];
+    const disabled = (card: Element) => [...card.querySelectorAll('.settings button, .settings input')].map((b) => (b as HTMLButtonElement).disabled);
+    expect(disabled(cards[0]!).every(Boolean)).toBe(true);
+    expect(cards[0]!.querySelector('.settings-locked')?.textContent).toContain('Your clinician has marked this clip');
+    expect(cards[0]!.querySelector('.settings')?.getAttribute('aria-describedby')).toBe('locked-1');
+    expect(disabled(cards[1]!).some(Boolean)).toBe(false);
+    expect(cards[1]!.querySelector('.settings-locked')).toBeNull();
+  });
+
+  it('leaves a marked clip’s settings to staff', async () => {
+    create(detail({ clips: [clip(1, { status: 'ready', frameCount: 300, marked: true })] }), 'staff');
+    await fixture.whenStable();
+    const inputs = [...element.querySelectorAll('.settings button, .settings input')].map((b) => (b as HTMLButtonElement).disabled);
+    expect(inputs.some(Boolean)).toBe(false);
+    expect(element.querySelector('.settings-locked')).toBeNull();
   });
 });

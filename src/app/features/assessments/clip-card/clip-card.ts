@@ -56,6 +56,8 @@ export class ClipCard {
   readonly clip = input.required<Clip>();
   /** Whether this user may delete the clip. */
   readonly canDelete = input(true);
+  /** Whether the viewer is the athlete, whose settings lock once the clinician has marked the clip. */
+  readonly athleteView = input(false);
   /** Where the review workspace of this clip is (staff only); no button when null. */
   readonly reviewLink = input<readonly (string | number)[] | null>(null);
   /** Emits the clip as the server returns it after a settings change or a retry. */
@@ -63,6 +65,8 @@ export class ClipCard {
   /** Emits the id of a clip the server deleted. */
   readonly deleted = output<number>();
 
+  /** Whether the settings are read-only here: an athlete's view of a clip the clinician has marked. */
+  protected readonly settingsLocked = computed(() => this.clip().marked && this.athleteView());
   protected readonly status = computed(() => clipStatusView(this.clip()));
   protected readonly processing = computed(() => isProcessing(this.clip().status));
   protected readonly facts = computed(() => clipFacts(this.clip()));
@@ -101,13 +105,13 @@ export class ClipCard {
   protected readonly fpsLimits = CAPTURE_FPS_LIMITS;
 
   protected setNearSide(side: Side): void {
-    if (side === this.clip().nearSide) return;
+    if (side === this.clip().nearSide || this.settingsLocked()) return;
     this.nearSide.set(side);
     void this.save({ nearSide: side });
   }
 
   protected setDirection(direction: Direction): void {
-    if (direction === this.clip().direction) return;
+    if (direction === this.clip().direction || this.settingsLocked()) return;
     this.direction.set(direction);
     void this.save({ direction });
   }
@@ -119,6 +123,7 @@ export class ClipCard {
 
   /** Saves the capture rate when the field is left or Enter is pressed. */
   protected commitCaptureFps(): void {
+    if (this.settingsLocked()) return;
     const read = readCaptureFps(this.captureFpsText());
     if ('error' in read) {
       this.captureFpsError.set(read.error);

@@ -3,7 +3,7 @@ import { logItem, morningItem, refuse } from '../log-outbox-queue';
 import { entriesForMorning, historyRows } from './portal-log';
 
 const sent = (key: string, date: string, morningPain: number | null = null): LogEntry => ({
-  id: 1, planId: 5, stageId: 3, stageName: 'Holds', key, date, painDuring: 2, morningPain, morningAt: null, sets: [], note: null, createdAt: '',
+  id: 1, planId: 5, stageId: 3, stageName: 'Holds', key, date, painDuring: 2, morningPain, morningAt: null, sets: [], note: null, reviewNote: null, createdAt: '',
 });
 const stage = { id: 3, name: 'Holds', exercises: [{ dose: { sets: 3 } }, { dose: { sets: 2 } }] } as unknown as PlanStage;
 const body = (key: string, date: string) => ({ key, stageId: 3, date, painDuring: 4, sets: [{ stageExerciseId: 1, setsDone: 2 }], note: 'tight' });

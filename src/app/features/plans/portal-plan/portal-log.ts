@@ -49,7 +49,7 @@ export function entriesForMorning(logs: readonly LogEntry[], outbox: readonly Ou
     .filter((i) => i.kind === 'log' && !i.refused && !sentKeys.has(i.key))
     .map((i): LogEntry | null =>
       i.kind === 'log'
-        ? { id: -1, planId: i.planId, stageId: i.body.stageId, stageName: '', key: i.key, date: i.body.date, painDuring: i.body.painDuring, morningPain: answered.get(i.key) ?? null, morningAt: null, sets: [], note: i.body.note, createdAt: '' }
+        ? { id: -1, planId: i.planId, stageId: i.body.stageId, stageName: '', key: i.key, date: i.body.date, painDuring: i.body.painDuring, morningPain: answered.get(i.key) ?? null, morningAt: null, sets: [], note: i.body.note, reviewNote: null, createdAt: '' }
         : null,
     )
     .filter((x): x is LogEntry => x !== null);

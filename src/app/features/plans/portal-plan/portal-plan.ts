@@ -22,6 +22,7 @@ import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
 import { ExerciseCard } from '../exercise-card/exercise-card';
 import { LogOutbox } from '../log-outbox';
+import { retargetLog } from '../log-outbox-queue';
 import { PlanCaution } from '../plan-caution/plan-caution';
 import { morningCheckDue, newLogKey, runningPlan } from '../plan-words';
 import { PlansApi } from '../plans-api';
@@ -103,6 +104,11 @@ export class PortalPlan implements LeaveGuarded {
   protected readonly morningDue = computed(() => morningCheckDue(entriesForMorning(this.logs.hasValue() ? this.logs.value() : [], this.planItems()), this.today()));
   protected readonly waiting = computed(() => this.planItems().filter((i) => !i.refused));
   protected readonly refusedMorning = computed(() => this.planItems().filter((i) => i.refused && i.kind === 'morning'));
+  /** Entries saved for a plan that is no longer the running one: shown until sent or discarded. */
+  protected readonly otherPlanItems = computed(() => {
+    const id = this.summary()?.id;
+    return this.outbox.items().filter((i) => i.planId !== id && i.kind === 'log');
+  });
   protected readonly painScale = PAIN_SCALE;
   protected readonly errorText = errorText;
   protected readonly errorMessage = errorMessage;
@@ -178,7 +184,7 @@ export class PortalPlan implements LeaveGuarded {
       stageId: stage.id,
       date: toIsoDate(v.date)!,
       painDuring: v.painDuring!,
-      sets: stage.exercises.map((e) => ({ stageExerciseId: e.id, setsDone: this.setsDone(e.id) })),
+      sets: stage.exercises.map((e) => ({ stageExerciseId: e.id, exerciseId: e.exerciseId, setsDone: this.setsDone(e.id) })),
       note: v.note.trim() || null,
     };
     this.outbox.submitLog(plan.id, body);
@@ -188,6 +194,14 @@ export class PortalPlan implements LeaveGuarded {
     this.tried.set(false);
     this.ticks.set(Object.fromEntries(stage.exercises.map((e) => [e.id, Array<boolean>(e.dose.sets).fill(false)])));
     this.snackBar.open(navigator.onLine === false ? 'Session saved on this phone; it is sent when you are back online' : 'Session saved', 'OK', { duration: 4000 });
+  }
+
+  /** Sends a refused session again as a session of today's stage (sets matched by exercise). */
+  protected sendForToday(itemId: string): void {
+    const stage = this.stage();
+    const item = this.outbox.items().find((i) => i.id === itemId);
+    if (!stage || !item || item.kind !== 'log') return;
+    this.outbox.resend(itemId, retargetLog(item.body, stage));
   }
 
   protected morning(pain: number): void {

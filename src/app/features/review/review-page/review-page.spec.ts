@@ -33,6 +33,7 @@ function clip(overrides: Partial<Clip> = {}): Clip {
     thumbEvery: 10,
     uploadedByName: 'Robin Coach',
     uploadedById: 3,
+    marked: false,
     createdAt: '2025-03-14T10:00:00Z',
     ...overrides,
   };

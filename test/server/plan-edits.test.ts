@@ -1,0 +1,170 @@
+/**
+ * Editing a running plan must not throw away the athlete's offline logs: stage-exercise ids stay
+ * stable across edits (updated in place, new ones inserted, removed ones deleted), and a session
+ * the athlete queued before an edit is accepted — matched by exercise when its stage exercise was
+ * replaced, or kept and flagged for the coach when its exercise left the stage.
+ */
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { makeTestApp, signedIn, type Client, type TestApp } from '../support/test-app';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import type { Exercise, LogWrite, PlanDetail, PlanWrite } from '../../src/contracts/plans';
+
+const [, coach, , athlete] = DEMO_SIGN_INS;
+let t: TestApp;
+let c: Client;
+let a: Client;
+let plan: PlanDetail;
+let library: Exercise[];
+let keyN = 0;
+const newKey = () => `edit-${Date.now().toString(36)}-${++keyN}`;
+const today = () => new Date().toISOString().slice(0, 10);
+
+/** The plan as the plan builder sends it back: every field, with the ids it has. */
+function asWrite(p: PlanDetail, withExerciseIds = true): PlanWrite {
+  return {
+    title: p.title,
+    assessmentId: p.assessmentId,
+    notes: p.notes,
+    stages: p.stages.map((s) => ({
+      id: s.id,
+      name: s.name,
+      goal: s.goal,
+      targetWeeks: s.targetWeeks,
+      progressionText: s.progressionText,
+      criteria: s.criteria,
+      exercises: s.exercises.map((e) => ({ ...(withExerciseIds ? { id: e.id } : {}), exerciseId: e.exerciseId, dose: e.dose, notes: e.notes })),
+    })),
+  };
+}
+
+const current = (p: PlanDetail) => p.stages.find((s) => s.id === p.currentStageId)!;
+const itemIds = (p: PlanDetail) => p.stages.flatMap((s) => s.exercises.map((e) => e.id));
+
+/** A session as the portal queues it (with each exercise's library id beside its stage-exercise id). */
+function queuedLog(p: PlanDetail): LogWrite {
+  const stage = current(p);
+  return { key: newKey(), stageId: stage.id, date: today(), painDuring: 2, sets: stage.exercises.map((e) => ({ stageExerciseId: e.id, exerciseId: e.exerciseId, setsDone: e.dose.sets })), note: 'Queued offline' };
+}
+
+beforeEach(async () => {
+  t = await makeTestApp();
+  c = await signedIn(t.app, coach.email, coach.password);
+  a = await signedIn(t.app, athlete.email, athlete.password);
+  const adaId = (await t.db('athletes').where({ email: athlete.email }).first()).id;
+  library = (await c.get('/api/exercises')).body.exercises;
+  // Any three exercises of the demo library will do.
+  const [e1, e2, e3] = library.filter((e) => !e.archived);
+  const ex = (e: Exercise) => ({ exerciseId: e.id, dose: e.dose, notes: null });
+  const stage = (name: string, items: Exercise[]) => ({ name, goal: `${name} goal`, targetWeeks: 2, progressionText: 'When it feels easy.', criteria: [], exercises: items.map(ex) });
+  const created = await c.post(`/api/athletes/${adaId}/plans`, {
+    title: 'High hamstring: staged loading',
+    assessmentId: null,
+    notes: null,
+    stages: [stage('Isometric holds', [e1!, e2!]), stage('Slow lengthening', [e3!])],
+  });
+  expect(created.status, JSON.stringify(created.body)).toBe(201);
+  for (const p of (await c.get(`/api/athletes/${adaId}/plans`)).body.plans as { id: number; status: string }[]) {
+    if (p.status === 'active' || p.status === 'paused') await c.post(`/api/plans/${p.id}/transitions`, { action: 'finish' });
+  }
+  plan = (await c.post(`/api/plans/${created.body.id}/transitions`, { action: 'start' })).body;
+  expect(plan.status).toBe('active');
+});
+afterEach(async () => {
+  await t.close();
+});
+
+describe('stage-exercise ids across edits', () => {
+  it('an unchanged save keeps every id, with or without the ids in the body', async () => {
+    expect(current(plan).exercises.length).toBeGreaterThan(0);
+    const same = await c.put(`/api/plans/${plan.id}`, asWrite(plan));
+    expect(same.status, JSON.stringify(same.body)).toBe(200);
+    expect(itemIds(same.body)).toEqual(itemIds(plan));
+    const older = await c.put(`/api/plans/${plan.id}`, asWrite(plan, false));
+    expect(older.status).toBe(200);
+    expect(itemIds(older.body)).toEqual(itemIds(plan));
+  });
+
+  it('an edit updates in place, inserts the new and deletes the removed', async () => {
+    const body = asWrite(plan);
+    const stageIndex = plan.stages.indexOf(current(plan));
+    const items = body.stages[stageIndex]!.exercises;
+    const kept = items[0]!;
+    kept.dose = { ...kept.dose, sets: kept.dose.sets + 1 };
+    const used = new Set(items.map((e) => e.exerciseId));
+    const extra = library.find((e) => !used.has(e.id) && !e.archived)!;
+    const removed = items.length > 1 ? items.pop()! : null;
+    items.push({ exerciseId: extra.id, dose: extra.dose, notes: null });
+    const res = await c.put(`/api/plans/${plan.id}`, body);
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    const after = res.body.stages[stageIndex].exercises as { id: number; exerciseId: number; dose: { sets: number } }[];
+    expect(after[0]).toMatchObject({ id: (kept as { id: number }).id, dose: { sets: kept.dose.sets } });
+    expect(after.at(-1)!.exerciseId).toBe(extra.id);
+    expect(itemIds(plan)).not.toContain(after.at(-1)!.id);
+    if (removed) expect(after.map((e) => e.id)).not.toContain((removed as { id: number }).id);
+    // Other stages untouched.
+    const others = (p: PlanDetail) => p.stages.filter((_, i) => i !== stageIndex).flatMap((s) => s.exercises.map((e) => e.id));
+    expect(others(res.body)).toEqual(others(plan));
+  });
+
+  it('an id of another stage’s exercise is refused with the field path', async () => {
+    const body = asWrite(plan);
+    const stageIndex = plan.stages.indexOf(current(plan));
+    const other = plan.stages.find((s) => s.id !== current(plan).id && s.exercises.length)!;
+    (body.stages[stageIndex]!.exercises[0] as { id?: number }).id = other.exercises[0]!.id;
+    const res = await c.put(`/api/plans/${plan.id}`, body);
+    expect(res.status).toBe(422);
+    expect(res.body.error.details[0].path).toEqual(['stages', stageIndex, 'exercises', 0, 'id']);
+  });
+});
+
+describe('a session queued offline before the coach edited the plan', () => {
+  it('is accepted after an unchanged re-save', async () => {
+    const log = queuedLog(plan);
+    await c.put(`/api/plans/${plan.id}`, asWrite(plan, false));
+    const res = await a.post(`/api/plans/${plan.id}/logs`, log);
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.reviewNote).toBeNull();
+  });
+
+  it('is matched by exercise when its stage exercise was replaced by the same exercise', async () => {
+    const log = queuedLog(plan);
+    const body = asWrite(plan);
+    const stageIndex = plan.stages.indexOf(current(plan));
+    // Removed and added again: a new stage-exercise id for the same library exercise.
+    body.stages[stageIndex]!.exercises = body.stages[stageIndex]!.exercises.map(({ exerciseId, dose, notes }) => ({ exerciseId, dose, notes }));
+    const first = body.stages[stageIndex]!.exercises.shift()!;
+    const edited = await c.put(`/api/plans/${plan.id}`, body);
+    body.stages[stageIndex]!.exercises = [...(edited.body as PlanDetail).stages[stageIndex]!.exercises.map((e) => ({ id: e.id, exerciseId: e.exerciseId, dose: e.dose, notes: e.notes })), first];
+    const readded = await c.put(`/api/plans/${plan.id}`, body);
+    const now = current(readded.body);
+    const newItem = now.exercises.find((e) => e.exerciseId === first.exerciseId)!;
+    expect(newItem.id).not.toBe(log.sets[0]!.stageExerciseId);
+    const res = await a.post(`/api/plans/${plan.id}/logs`, log);
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.sets.find((s: { stageExerciseId: number }) => s.stageExerciseId === newItem.id).setsDone).toBe(log.sets[0]!.setsDone);
+    expect(res.body.reviewNote).toBeNull();
+  });
+
+  it('is kept and flagged for the coach when one of its exercises left the stage', async () => {
+    const log = queuedLog(plan);
+    const body = asWrite(plan);
+    const stageIndex = plan.stages.indexOf(current(plan));
+    const gone = body.stages[stageIndex]!.exercises.shift()!;
+    if (body.stages[stageIndex]!.exercises.length === 0) {
+      const extra = library.find((e) => e.id !== gone.exerciseId && !e.archived)!;
+      body.stages[stageIndex]!.exercises.push({ exerciseId: extra.id, dose: extra.dose, notes: null });
+    }
+    expect((await c.put(`/api/plans/${plan.id}`, body)).status).toBe(200);
+    const res = await a.post(`/api/plans/${plan.id}/logs`, log);
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    const name = library.find((e) => e.id === gone.exerciseId)!.name;
+    expect(res.body.reviewNote).toContain(name);
+    expect(res.body.sets.find((s: { name: string }) => s.name === name)).toMatchObject({ stageExerciseId: log.sets[0]!.stageExerciseId, setsDone: log.sets[0]!.setsDone });
+    const coachView = (await c.get(`/api/plans/${plan.id}/logs`)).body.logs.find((l: { key: string }) => l.key === log.key);
+    expect(coachView.reviewNote).toContain(name);
+    // The same key again answers the stored entry.
+    const again = await a.post(`/api/plans/${plan.id}/logs`, log);
+    expect(again.status).toBe(200);
+    expect(again.body.id).toBe(res.body.id);
+  });
+});

@@ -1,0 +1,80 @@
+/**
+ * A real server process for durability tests: `server/main.ts` in its own process group (so a
+ * SIGKILL takes its ffmpeg down with it), on a free port, over a database and uploads folder of
+ * the test's own.
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import net from 'node:net';
+import path from 'node:path';
+import { createDb, migrate } from '../../server/db/knex';
+import { seed } from '../../seeds/demo-scenario';
+import { tempDir } from '../server/media/fixtures';
+
+/** A temp folder with a migrated database holding the demo scenario (`db.sqlite`). */
+export async function seededDir(prefix: string): Promise<{ dir: string; cleanup: () => Promise<void> }> {
+  const folder = await tempDir(prefix);
+  const db = createDb(path.join(folder.dir, 'db.sqlite'));
+  await migrate(db);
+  await seed(db);
+  await db.destroy();
+  return folder;
+}
+
+export function freePort(): Promise<number> {
+  return new Promise((resolve) => {
+    const s = net.createServer().listen(0, '127.0.0.1', () => {
+      const p = (s.address() as net.AddressInfo).port;
+      s.close(() => resolve(p));
+    });
+  });
+}
+
+export interface ServerProcess {
+  /** Starts the server and resolves when `/api/health` answers. */
+  start(): Promise<void>;
+  /** SIGKILL to the whole process group (the server and its ffmpeg). */
+  killHard(): void;
+  readonly url: string;
+}
+
+export function serverProcess(dir: string, port: number, env: Record<string, string> = {}): ServerProcess {
+  let child: ChildProcess | null = null;
+  const url = `http://127.0.0.1:${port}`;
+  return {
+    url,
+    async start() {
+      child = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], {
+        detached: true,
+        stdio: ['ignore', 'ignore', 'ignore'],
+        env: {
+          ...process.env,
+          PORT: String(port),
+          DB_FILE: path.join(dir, 'db.sqlite'),
+          UPLOADS_DIR: path.join(dir, 'uploads'),
+          CLIENT_DIR: '',
+          FAKE_SMTP_PORT: '0',
+          LOG_LEVEL: 'warn',
+          JOB_LEASE_SECONDS: '2',
+          ...env,
+        },
+      });
+      const started = Date.now();
+      for (;;) {
+        const ok = await fetch(`${url}/api/health`).then((r) => r.ok).catch(() => false);
+        if (ok) return;
+        if (Date.now() - started > 30_000) throw new Error('server did not start');
+        await new Promise((r) => setTimeout(r, 200));
+      }
+    },
+    killHard() {
+      if (child?.pid) {
+        try {
+          process.kill(-child.pid, 'SIGKILL');
+        } catch {
+          // already gone
+        }
+      }
+      child = null;
+    },
+  };
+}
