@@ -1,5 +1,5 @@
 import type { LogEntry } from '../../../contracts/plans';
-import { alertSummary, doseMain, formatDose, morningCheckDue, newLogKey, runningPlan, seconds } from './plan-words';
+import { alertChipText, alertSummary, doseMain, formatDose, morningCheckDue, newLogKey, runningPlan, seconds } from './plan-words';
 
 const entry = (id: number, date: string, morningPain: number | null = null): LogEntry => ({
   id,
@@ -36,11 +36,14 @@ describe('plan words', () => {
     expect(runningPlan([{ status: 'draft' }, { status: 'finished' }])).toBeNull();
   });
 
-  it('summarises alerts for a chip', () => {
+  it('summarises alerts for a chip, naming the rule that fired and its figures', () => {
     expect(alertSummary([])).toBe('');
-    const a = { message: '', date: '', value: 6, limit: 5 };
-    expect(alertSummary([{ ...a, kind: 'during_above_max' }, { ...a, kind: 'weekly_rise_during' }])).toBe('Pain above the plan’s limit +1');
-    expect(alertSummary([{ ...a, kind: 'weekly_rise_morning' }], true)).toBe('Pain rising');
+    const a = { message: '', date: '' };
+    expect(alertSummary([{ ...a, kind: 'during_above_max', value: 6, limit: 5 }, { ...a, kind: 'weekly_rise_during', value: 4, limit: 2 }])).toBe('Pain 6/10 during, above the limit of 5/10 +1');
+    expect(alertSummary([{ ...a, kind: 'during_above_max', value: 6, limit: 5 }], true)).toBe('Pain 6/10 > limit 5');
+    expect(alertChipText({ ...a, kind: 'not_settled', value: 4, limit: 2 })).toBe('Morning pain 4/10, not settled (≤ 2/10)');
+    expect(alertChipText({ ...a, kind: 'weekly_rise_during', value: 4, limit: 2 })).toBe('Weekly pain rising: 2 → 4');
+    expect(alertChipText({ ...a, kind: 'weekly_rise_morning', value: 3.5, limit: 1 }, true)).toBe('Weekly morning 1 → 3.5');
   });
 
   it('asks the morning check about the newest unchecked session of the last two days only', () => {
