@@ -99,6 +99,18 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
   const portalLink = (id: number) => `${config.publicUrl}/portal/invoices/${id}`;
 
   /**
+   * How the athlete reaches an invoice: the portal link when they can sign in; otherwise no link
+   * they cannot use, but how to get access (and that the clinic also takes a transfer or cash).
+   */
+  function accessLines(row: InvoiceRow, clinicName: string, withAccount: string[]): string[] {
+    if (row.athlete_user_id !== null) return withAccount;
+    return [
+      `You do not have a Trailframe account yet, so there is no link to follow here. To see your invoices and pay by card online, accept the invitation ${clinicName} sends to this address (or ask them for one), then sign in and open "My invoices".`,
+      `You can also pay ${clinicName} by bank transfer or in cash; they record the payment.`,
+    ];
+  }
+
+  /**
    * The athlete and assessment must be this clinic's (the assessment this athlete's), and every
    * price on a line must be on the list; `keptPriceIds` may be archived (lines that already had them).
    */
@@ -249,7 +261,10 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
       if (!(await db.transaction((trx) => invoices.deleteDraft(trx, id)))) throw notDraftAnymore();
     },
 
-    /** draft → open: gives the invoice its number and e-mails the athlete a link to it. */
+    /**
+     * draft → open: gives the invoice its number and e-mails the athlete a link to it — or, when
+     * they have no account yet, how to get access instead of a link they cannot use.
+     */
     async issue(user: SessionUser, id: number): Promise<InvoiceDetail> {
       requireOwner(user);
       const row = await loadRow(user, id);
@@ -267,9 +282,7 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
         `Hello ${row.first_name},`,
         '',
         `${clinic.name} has sent you invoice ${number} for ${formatMinor(row.total_minor)} ${row.currency}, due ${row.due_date}.`,
-        'See it and pay by card in your portal:',
-        '',
-        portalLink(id),
+        ...accessLines(row, clinic.name, ['See it and pay by card in your portal:', '', portalLink(id)]),
       ]);
       return reload(user, id);
     },

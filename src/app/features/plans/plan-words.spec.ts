@@ -1,5 +1,5 @@
 import type { LogEntry } from '../../../contracts/plans';
-import { alertChipText, alertSummary, doseMain, formatDose, morningCheckDue, newLogKey, runningPlan, seconds } from './plan-words';
+import { alertChipText, alertSummary, startPlanMessage, doseMain, formatDose, morningCheckDue, newLogKey, runningPlan, seconds } from './plan-words';
 
 const entry = (id: number, date: string, morningPain: number | null = null): LogEntry => ({
   id,
@@ -60,5 +60,13 @@ describe('plan words', () => {
     const key = newLogKey({ getRandomValues: <T extends ArrayBufferView | null>(a: T) => { (a as unknown as Uint8Array).fill(171); return a; } });
     expect(key).toBe('ab'.repeat(16));
     expect(newLogKey()).toMatch(/^[A-Za-z0-9-]{8,64}$/);
+  });
+
+  it('says on Start plan that an athlete without an account cannot log yet, instead of pointing at a portal they cannot enter', () => {
+    expect(startPlanMessage('Calf plan', { firstName: 'Ada', hasAccount: true, invitationPending: false })).toBe("Calf plan becomes the athlete's current plan, at stage 1. They can log sessions from their portal.");
+    expect(startPlanMessage('Calf plan', { firstName: 'Ada', hasAccount: false, invitationPending: false })).toBe(
+      "Calf plan becomes the athlete's current plan, at stage 1. Ada has no Trailframe account yet, so they cannot log sessions until they are invited (Invite to Trailframe, on this page).",
+    );
+    expect(startPlanMessage('Calf plan', { firstName: 'Ada', hasAccount: false, invitationPending: true })).toContain('until they accept the invitation already sent');
   });
 });

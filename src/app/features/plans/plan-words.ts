@@ -2,6 +2,7 @@
  * Words and small pure helpers of the Plans screens: doses, statuses, alerts, the running plan
  * of a list, and the session the athlete still owes a morning check for.
  */
+import type { AthleteSummary } from '../../../contracts/api';
 import type { Dose, LogEntry, PainAlert, PlanStatus, PlanSummary } from '../../../contracts/plans';
 import { addDays } from '../../../plans-rules';
 
@@ -91,4 +92,12 @@ export function newLogKey(cryptoObj: Pick<Crypto, 'getRandomValues'> & { randomU
   if (typeof cryptoObj.randomUUID === 'function') return cryptoObj.randomUUID();
   const bytes = cryptoObj.getRandomValues(new Uint8Array(16));
   return Array.from(bytes, (b) => b.toString(16).padStart(2, '0')).join('');
+}
+
+/** What "Start plan" asks; it says the athlete can log only when they have an account. */
+export function startPlanMessage(title: string, athlete: Pick<AthleteSummary, 'firstName' | 'hasAccount' | 'invitationPending'> | null): string {
+  const head = `${title} becomes the athlete's current plan, at stage 1.`;
+  if (!athlete || athlete.hasAccount) return `${head} They can log sessions from their portal.`;
+  const invite = athlete.invitationPending ? 'accept the invitation already sent' : 'are invited (Invite to Trailframe, on this page)';
+  return `${head} ${athlete.firstName} has no Trailframe account yet, so they cannot log sessions until they ${invite}.`;
 }

@@ -14,6 +14,8 @@ import type { InvoiceDetail } from '../../../../contracts/billing';
 import { errorMessage } from '../../../core/api-error';
 import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { ErrorState } from '../../../shared/states/error-state';
+import { AthletesApi } from '../../athletes/athletes-api';
+import { InvitePrompt } from '../../athletes/invite-prompt/invite-prompt';
 import { BillingApi } from '../billing-api';
 import { InvoiceLinesTable } from '../invoice-lines-table/invoice-lines-table';
 import { InvoiceStatusBadge } from '../invoice-status/invoice-status';
@@ -21,8 +23,14 @@ import { money } from '../billing-words';
 
 type Action = 'issue' | 'void' | 'refund';
 
-const CONFIRM: Record<Action, (i: InvoiceDetail) => ConfirmDialogData> = {
-  issue: (i) => ({ title: 'Issue this invoice?', message: `It gets its number and ${i.athleteName} receives an e-mail with a link to pay ${money(i.totalMinor, i.currency)} by card. Lines can no longer change.`, confirmLabel: 'Issue' }),
+const CONFIRM: Record<Action, (i: InvoiceDetail, hasAccount: boolean) => ConfirmDialogData> = {
+  issue: (i, hasAccount) => ({
+    title: 'Issue this invoice?',
+    message: hasAccount
+      ? `It gets its number and ${i.athleteName} receives an e-mail with a link to pay ${money(i.totalMinor, i.currency)} by card. Lines can no longer change.`
+      : `It gets its number and ${i.athleteName} receives an e-mail with the amount (${money(i.totalMinor, i.currency)}) and how to get access to pay online; they have no Trailframe account yet. Lines can no longer change.`,
+    confirmLabel: 'Issue',
+  }),
   void: (i) => ({ title: 'Void this invoice?', message: `${i.number ?? 'The draft'} can no longer be paid. This cannot be undone.`, confirmLabel: 'Void' }),
   refund: (i) => ({ title: 'Refund the payment?', message: `${money(i.totalMinor, i.currency)} goes back to ${i.athleteName}'s card through the payment service. This cannot be undone.`, confirmLabel: 'Refund' }),
 };
@@ -33,13 +41,14 @@ const CONFIRM: Record<Action, (i: InvoiceDetail) => ConfirmDialogData> = {
  */
 @Component({
   selector: 'app-invoice-detail',
-  imports: [DatePipe, RouterLink, MatCardModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState, InvoiceStatusBadge, InvoiceLinesTable],
+  imports: [DatePipe, RouterLink, MatCardModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState, InvoiceStatusBadge, InvoiceLinesTable, InvitePrompt],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './invoice-detail.html',
   styleUrl: './invoice-detail.scss',
 })
 export class InvoiceDetailPage {
   private readonly api = inject(BillingApi);
+  private readonly athletesApi = inject(AthletesApi);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
   private readonly router = inject(Router);
@@ -47,6 +56,11 @@ export class InvoiceDetailPage {
   /** Route parameter. */
   readonly id = input.required<string>();
   protected readonly invoice = rxResource({ params: () => Number(this.id()), stream: ({ params }) => this.api.invoice(params) });
+  /** The athlete billed: without an account, Issue prompts an invitation. */
+  protected readonly athlete = rxResource({
+    params: () => (this.invoice.hasValue() ? this.invoice.value().athleteId : undefined),
+    stream: ({ params }) => this.athletesApi.get(params),
+  });
   protected readonly busy = signal(false);
   protected readonly receiptUrl = computed(() => this.api.receiptUrl(Number(this.id())));
   protected readonly errorMessage = errorMessage;
@@ -55,7 +69,7 @@ export class InvoiceDetailPage {
 
   protected act(action: Action, inv: InvoiceDetail): void {
     this.dialog
-      .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, { data: CONFIRM[action](inv) })
+      .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, { data: CONFIRM[action](inv, this.athlete.hasValue() ? this.athlete.value().hasAccount : true) })
       .afterClosed()
       .subscribe(async (ok) => {
         if (!ok) return;
