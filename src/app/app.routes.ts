@@ -72,6 +72,11 @@ export const routes: Routes = [
         loadChildren: () => import('./features/reference-bands/reference-bands.routes'),
       },
       {
+        path: 'settings/clinic',
+        canMatch: [roleGuard('owner')],
+        loadChildren: () => import('./features/clinic-settings/clinic-settings.routes'),
+      },
+      {
         path: 'mailbox',
         canMatch: [roleGuard('owner'), demoModeGuard],
         loadChildren: () => import('./features/mailbox/mailbox.routes'),

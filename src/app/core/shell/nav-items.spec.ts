@@ -4,8 +4,8 @@ const labels = (...args: Parameters<typeof navItemsFor>) => navItemsFor(...args)
 
 describe('navItemsFor', () => {
   it('gives owners the roster, exercise library, billing, team and reference bands, and the mailbox only in demo mode', () => {
-    expect(labels('owner', false)).toEqual(['Athletes', 'Exercise library', 'Billing', 'Team', 'Reference bands']);
-    expect(labels('owner', true)).toEqual(['Athletes', 'Exercise library', 'Billing', 'Team', 'Reference bands', 'Mailbox']);
+    expect(labels('owner', false)).toEqual(['Athletes', 'Exercise library', 'Billing', 'Team', 'Reference bands', 'Clinic details']);
+    expect(labels('owner', true)).toEqual(['Athletes', 'Exercise library', 'Billing', 'Team', 'Reference bands', 'Clinic details', 'Mailbox']);
   });
 
   it('gives coaches the roster and the exercise library, even in demo mode', () => {
