@@ -44,6 +44,7 @@ describe('LegalDetailsForm', () => {
     expect(req.request.body).toEqual({ legalName: 'Larchwood Running Clinic Ltd', address: '12 Mill Lane\nLarchwood', taxNumber: 'GB 123 4567 89', contactLine: '' });
     req.flush(req.request.body);
     await fixture.whenStable();
+    fixture.detectChanges();
     expect(element.textContent).not.toContain('Unsaved changes');
   });
 
@@ -51,6 +52,7 @@ describe('LegalDetailsForm', () => {
     type('legalName', '');
     submit();
     await fixture.whenStable();
+    fixture.detectChanges();
     backend.expectNone('/api/clinic/legal-details');
     expect(element.querySelector('mat-error')?.textContent).toContain('Legal name is required');
 
@@ -62,6 +64,7 @@ describe('LegalDetailsForm', () => {
       .expectOne('/api/clinic/legal-details')
       .flush({ error: { code: 'validation_failed', message: 'Check the fields.', details: [{ path: ['contactLine'], message: 'Contact line: one line only.' }] } }, { status: 422, statusText: 'Unprocessable' });
     await fixture.whenStable();
+    fixture.detectChanges();
     expect(element.querySelector('mat-error')?.textContent).toContain('Contact line: one line only.');
     expect(field('legalName').value).toBe('Larchwood Ltd');
   });
