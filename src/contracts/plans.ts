@@ -332,10 +332,10 @@ export interface PainAlert {
 
 /** Which rule of the plan fired, as a heading. */
 export const PAIN_ALERT_LABELS: Record<PainAlertKind, string> = {
-  during_above_max: 'Above this plan’s limit for pain during',
-  not_settled: 'Morning pain did not settle',
-  weekly_rise_during: 'Weekly pain during rising',
-  weekly_rise_morning: 'Weekly morning pain rising',
+  during_above_max: 'Limit for pain during',
+  not_settled: 'Settled by next morning',
+  weekly_rise_during: 'No weekly rise (pain during)',
+  weekly_rise_morning: 'No weekly rise (next-morning pain)',
 };
 
 export interface CriterionCheck {

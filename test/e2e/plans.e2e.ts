@@ -298,6 +298,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     expect(await contrastOf(caution)).toBeGreaterThanOrEqual(4.5);
     await fullShot(page, 'plans-roster-alert.png');
     await page.setViewportSize(PHONE);
+    await page.waitForTimeout(800); // the shell switches to its phone layout
     await fullShot(page, 'plans-roster-alert-phone.png');
     await page.setViewportSize(DESKTOP);
 
@@ -311,6 +312,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await expect.poll(() => page.getByRole('tabpanel').getByRole('note').filter({ hasText: 'Stop an exercise that causes sharp or worsening pain' }).count()).toBe(1);
     await fullShot(page, 'plans-profile-alert.png');
     await page.setViewportSize(PHONE);
+    await page.waitForTimeout(800); // the shell switches to its phone layout
     await fullShot(page, 'plans-profile-alert-phone.png');
     await page.setViewportSize(DESKTOP);
 
@@ -347,6 +349,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     expect(await contrastOf(page.getByRole('note').filter({ hasText: 'Stop an exercise that causes sharp or worsening pain' }))).toBeGreaterThanOrEqual(4.5);
     await fullShot(page, 'plans-invite-prompt.png');
     await page.setViewportSize(PHONE);
+    await page.waitForTimeout(800); // the shell switches to its phone layout
     await fullShot(page, 'plans-invite-prompt-phone.png');
     await page.setViewportSize(DESKTOP);
     await prompt.getByRole('button', { name: 'Invite to Trailframe' }).click();
