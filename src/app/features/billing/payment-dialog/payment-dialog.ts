@@ -10,10 +10,9 @@ import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { firstValueFrom } from 'rxjs';
 import { PAYMENT_NOTE_MAX, type InvoiceDetail, type ManualPaymentMethod } from '../../../../contracts/billing';
-import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
 import { parseIsoDate, toIsoDate } from '../../../shared/dates';
 import { errorText } from '../../../shared/forms/error-text';
-import { applyServerErrors } from '../../../shared/forms/server-errors';
+import { saveProblem } from '../../../shared/forms/server-errors';
 import { BillingApi } from '../billing-api';
 import { money } from '../billing-words';
 
@@ -126,12 +125,7 @@ export class PaymentDialog {
       );
       this.ref.close(updated);
     } catch (err) {
-      if (errorStatus(err) === 422) {
-        const rest = applyServerErrors(this.form, fieldProblems(err));
-        this.problem.set(rest.length ? rest.join(' ') : null);
-      } else {
-        this.problem.set(errorMessage(err));
-      }
+      this.problem.set(saveProblem(this.form, err));
     } finally {
       this.busy.set(false);
     }

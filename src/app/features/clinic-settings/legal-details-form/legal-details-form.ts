@@ -10,9 +10,9 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { firstValueFrom } from 'rxjs';
 import { LEGAL_LIMITS, type ClinicLegalDetails } from '../../../../contracts/billing';
-import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
+import { errorMessage } from '../../../core/api-error';
 import { errorText } from '../../../shared/forms/error-text';
-import { applyServerErrors } from '../../../shared/forms/server-errors';
+import { saveProblem } from '../../../shared/forms/server-errors';
 import { ErrorState } from '../../../shared/states/error-state';
 import { ClinicSettingsApi } from '../clinic-settings-api';
 
@@ -72,12 +72,7 @@ export class LegalDetailsForm {
       this.stored.set(saved);
       this.snackBar.open('Legal details saved; new receipts carry them', 'OK', { duration: 4000 });
     } catch (err) {
-      if (errorStatus(err) === 422) {
-        const rest = applyServerErrors(this.form, fieldProblems(err));
-        this.problem.set(rest.length ? rest.join(' ') : null);
-      } else {
-        this.problem.set(errorMessage(err));
-      }
+      this.problem.set(saveProblem(this.form, err));
     } finally {
       this.saving.set(false);
     }
