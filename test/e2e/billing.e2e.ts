@@ -264,6 +264,7 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await page.getByLabel('Contact line (optional)').fill('billing@larchwood.test');
     await page.getByRole('button', { name: 'Save legal details' }).click();
     await page.getByText('Letters, digits, spaces, dots, dashes and slashes only').waitFor();
+    await page.waitForTimeout(300); // the field's error colour fades in
     await page.screenshot({ path: shot('billing-legal-details-error-desktop.png') });
     await page.getByLabel('Tax number (optional)').fill('GB 123 4567 89');
     await page.getByRole('button', { name: 'Save legal details' }).click();
@@ -288,9 +289,10 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await page.getByRole('dialog').getByRole('button', { name: 'Issue' }).click();
     await expect.poll(async () => (await h.server.db('invoices').where({ id }).first()).status).toBe('issued');
     const number = (await h.server.db('invoices').where({ id }).first()).number;
+    await expect.poll(() => mailTo(carys.email, `Invoice ${number} from Larchwood Running Clinic`)).toBeTruthy();
     const mail = await mailTo(carys.email, `Invoice ${number} from Larchwood Running Clinic`);
-    expect(mail?.text).not.toMatch(/https?:\/\//);
-    expect(mail?.text).toContain('You do not have a Trailframe account yet');
+    expect(mail.text).not.toMatch(/https?:\/\//);
+    expect(mail.text).toContain('You do not have a Trailframe account yet');
     // The invoice page names the seller with the legal details.
     const from = page.getByRole('region', { name: 'From' });
     await expect.poll(() => from.textContent()).toContain('Tax number: GB 123 4567 89');
@@ -302,6 +304,7 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     const dialog = page.getByRole('dialog');
     await dialog.getByRole('heading', { name: 'Record a payment' }).waitFor();
     await dialog.getByLabel('Note (optional)').fill('Transfer ref. RT-2211');
+    await page.waitForTimeout(400); // the dialog's opening animation
     await page.screenshot({ path: shot('billing-record-payment-desktop.png') });
     await dialog.getByRole('button', { name: 'Mark as paid' }).click();
     await expect.poll(async () => (await h.server.db('invoices').where({ id }).first()).status).toBe('paid');

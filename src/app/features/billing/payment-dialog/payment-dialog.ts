@@ -65,7 +65,7 @@ export interface PaymentDialogData {
             <mat-error>{{ errorText(form.controls.paidOn, 'The date', { matDatepickerMax: 'The date cannot be in the future', matDatepickerParse: 'Use a date like 2026-12-03' }) }}</mat-error>
           </mat-form-field>
         }
-        <mat-form-field class="note">
+        <mat-form-field class="note-field">
           <mat-label>Note (optional)</mat-label>
           <textarea matInput formControlName="note" rows="2" [placeholder]="data.mode === 'record' ? 'e.g. the transfer reference' : 'e.g. handed back in cash'"></textarea>
           <mat-hint align="end">{{ form.controls.note.value.length }} / {{ noteMax }}</mat-hint>
@@ -86,7 +86,7 @@ export interface PaymentDialogData {
     .method { display: flex; flex-wrap: wrap; align-items: center; gap: 8px 12px; margin-block-end: 16px; }
     .label { font: var(--mat-sys-label-large); }
     .field-problem { flex-basis: 100%; margin: 0; color: var(--mat-sys-error); font: var(--mat-sys-body-small); }
-    mat-form-field { display: block; }
+    mat-form-field { display: block; margin-block-end: 14px; }
   `,
 })
 export class PaymentDialog {
