@@ -1,259 +1,51 @@
 import type { Knex } from 'knex';
-import { DEFAULT_PAIN_RULE, type Dose, type ExerciseRegion, type LoadingKind, type ProgressionCriterion } from '../src/contracts/plans';
+import { DEFAULT_PAIN_RULE, type ProgressionCriterion } from '../src/contracts/plans';
 import { addDays, dayOf, weekStart } from '../src/plans-rules';
+import { DEMO_EXERCISES } from './demo-exercises';
 
 /**
- * The demo exercise library and one running demo plan. Every description is written for
- * Trailframe in our own words (no text from any outside source); the plan, its people and its
- * numbers are invented.
+ * The demo clinic's library (see `demo-exercises.ts`) and its two running demo plans, staged as
+ * the cited programmes stage loading: isometric holds, then isotonic or lengthening work, then
+ * energy storage and a graded return to running. The plans, their people and their numbers are
+ * invented.
  */
 
-interface DemoExercise {
-  name: string;
-  purpose: string;
-  region: ExerciseRegion;
-  kind: LoadingKind;
-  dose: Dose;
-  instructions: string[];
-  cautions: string;
-}
-
-const dose = (d: Partial<Dose> & Pick<Dose, 'sets' | 'daysPerWeek'>): Dose => ({ reps: null, holdSeconds: null, tempo: null, load: null, restSeconds: null, ...d });
-
-export const DEMO_EXERCISES: DemoExercise[] = [
-  {
-    name: 'Long-lever hamstring bridge hold',
-    purpose: 'Loads the hamstrings near their longer length without movement, as a calm first step after a high-hamstring flare.',
-    region: 'hamstring',
-    kind: 'isometric',
-    dose: dose({ sets: 4, holdSeconds: 30, load: 'Body weight', restSeconds: 60, daysPerWeek: 4 }),
-    instructions: [
-      'Lie on your back with both heels on a low step or box, knees only slightly bent.',
-      'Press your heels down into the step and lift your hips until your body makes a straight line from shoulders to heels.',
-      'Keep breathing and hold the position without letting the hips sag.',
-      'Lower slowly, rest, then repeat. Move the step closer if you feel it in the back of the knee rather than the thigh.',
-    ],
-    cautions: 'A cramp in the back of the thigh is common at first: lower down, shake it out and try with the heels closer.',
-  },
-  {
-    name: 'Heel-slide hamstring lowers',
-    purpose: 'Slow lengthening work for the hamstrings with the body weight shared between both legs.',
-    region: 'hamstring',
-    kind: 'eccentric',
-    dose: dose({ sets: 3, reps: 6, tempo: '4 s out, reset', restSeconds: 90, daysPerWeek: 3 }),
-    instructions: [
-      'Lie on your back on a smooth floor with a small towel under each heel, knees bent, and lift your hips into a bridge.',
-      'Keeping the hips up, let your heels slide away from you over about four seconds.',
-      'When the legs are nearly straight, lower your hips to the floor.',
-      'Pull the heels back in with the hips down, lift into the bridge again and repeat.',
-    ],
-    cautions: 'Stop the slide earlier if the hips drop sharply or pain grips the sitting bone.',
-  },
-  {
-    name: 'Split-stance hip-drive pulses',
-    purpose: 'Quick, short drives of the hip into flexion from a split stance, to bring back speed once slow loading feels easy.',
-    region: 'hip',
-    kind: 'ballistic',
-    dose: dose({ sets: 3, reps: 10, tempo: 'Fast up, controlled return', restSeconds: 60, daysPerWeek: 2 }),
-    instructions: [
-      'Stand tall in a split stance with the working leg behind, hands on hips or on a wall.',
-      'Drive the rear knee forward and up as fast as you can, letting the opposite arm swing.',
-      'Return the foot to the start with control and reset your posture before the next pulse.',
-      'Keep the trunk upright: the movement comes from the hip, not from leaning back.',
-    ],
-    cautions: 'Begin at half speed for the first set. Leave this out on days the hamstring feels tight from the morning.',
-  },
-  {
-    name: 'Wall-supported hip-extension drill',
-    purpose: 'Teaches the leg to travel behind the body from the hip without arching the lower back.',
-    region: 'hip',
-    kind: 'running_drill',
-    dose: dose({ sets: 3, reps: 8, tempo: '2 s back, 1 s hold', restSeconds: 30, daysPerWeek: 4 }),
-    instructions: [
-      'Stand facing a wall with both hands on it at shoulder height and lean slightly forward.',
-      'Brace gently as if someone were about to tap your stomach.',
-      'Sweep one straight leg back behind you, squeezing the buttock, and stop before the lower back arches.',
-      'Hold for a moment, bring the leg through to a high knee, then repeat on the same side.',
-    ],
-    cautions: 'If you feel it in the lower back, make the backward swing smaller.',
-  },
-  {
-    name: 'Hip-hinge hold',
-    purpose: 'Holds a forward hip hinge with a long spine, loading the hamstrings and buttocks together.',
-    region: 'hamstring',
-    kind: 'isometric',
-    dose: dose({ sets: 3, holdSeconds: 40, load: 'Body weight, then a light kettlebell', restSeconds: 60, daysPerWeek: 3 }),
-    instructions: [
-      'Stand with feet hip-width apart and knees softly bent.',
-      'Push your hips back as if closing a drawer behind you, keeping the back long and the chest proud.',
-      'Stop where you feel a firm pull in the back of the thighs and hold there.',
-      'Stand up by driving the hips forward.',
-    ],
-    cautions: 'Do not chase depth; a longer hold matters more than a deeper hinge.',
-  },
-  {
-    name: 'Single-leg bridge march',
-    purpose: 'Builds buttock and hamstring strength on one leg while the pelvis stays level.',
-    region: 'hip',
-    kind: 'isotonic',
-    dose: dose({ sets: 3, reps: 10, tempo: 'Steady', restSeconds: 60, daysPerWeek: 3 }),
-    instructions: [
-      'Lie on your back with knees bent and feet flat, then lift into a two-leg bridge.',
-      'Lift one foot a hand-width off the floor without the hips tipping or dropping.',
-      'Put it down and lift the other foot, like a slow march.',
-      'Each lift of one foot counts as one repetition.',
-    ],
-    cautions: 'Lower to the floor and rest if one side of the pelvis starts to sink.',
-  },
-  {
-    name: 'Single-leg hinge reach',
-    purpose: 'Slow lengthening of the hamstring of the standing leg with balance and hip control.',
-    region: 'hamstring',
-    kind: 'eccentric',
-    dose: dose({ sets: 3, reps: 8, tempo: '3 s down, 1 s up', load: 'Body weight', restSeconds: 75, daysPerWeek: 3 }),
-    instructions: [
-      'Stand on one leg with a soft knee, the other foot just off the floor.',
-      'Tip forward from the hip while the free leg reaches back, lowering over three seconds.',
-      'Reach your hands toward the floor as far as your back stays long.',
-      'Return to standing by squeezing the buttock of the standing leg.',
-    ],
-    cautions: 'Hold a chair or wall for balance at first; wobbling is fine, twisting the pelvis is not.',
-  },
-  {
-    name: 'Bent-knee calf hold',
-    purpose: 'A calm, heavy hold for the deep calf muscle and Achilles tendon.',
-    region: 'calf_achilles',
-    kind: 'isometric',
-    dose: dose({ sets: 5, holdSeconds: 45, load: 'Body weight on one leg', restSeconds: 60, daysPerWeek: 4 }),
-    instructions: [
-      'Stand on one leg on the edge of a step with the knee bent a little and a hand on the wall.',
-      'Rise halfway onto the ball of the foot.',
-      'Hold the height steady without the ankle rolling out.',
-      'Lower with control and change legs.',
-    ],
-    cautions: 'Tendon pain that builds during the hold is a sign to shorten it.',
-  },
-  {
-    name: 'Slow step-down',
-    purpose: 'Controlled single-leg lowering for the knee and thigh, as for steep descents.',
-    region: 'knee',
-    kind: 'eccentric',
-    dose: dose({ sets: 3, reps: 8, tempo: '3 s down', restSeconds: 60, daysPerWeek: 3 }),
-    instructions: [
-      'Stand sideways on a low step on one leg.',
-      'Bend the standing knee over the middle toes and lower the other heel toward the floor over three seconds.',
-      'Touch the heel lightly, then straighten back up.',
-      'Keep the knee from falling inward.',
-    ],
-    cautions: 'Use a lower step if the kneecap aches during the movement.',
-  },
-  {
-    name: 'Marching skip',
-    purpose: 'A rhythmic running drill that joins a quick foot strike under the hip with a high knee drive.',
-    region: 'whole_leg',
-    kind: 'running_drill',
-    dose: dose({ sets: 4, reps: 1, tempo: '20 m each', restSeconds: 45, daysPerWeek: 2 }),
-    instructions: [
-      'Skip forward, lifting one knee to hip height while the other foot taps the ground under you.',
-      'Swing the arms in time with the legs.',
-      'Land on the ball of the foot, close to under the hip.',
-      'Walk back to the start as rest.',
-    ],
-    cautions: 'Keep it springy and light; stop the set if the hamstring tugs on landing.',
-  },
-  {
-    name: 'Low ankle hops',
-    purpose: 'Short, stiff, quick hops that bring back spring to the calf and Achilles before running.',
-    region: 'calf_achilles',
-    kind: 'ballistic',
-    dose: dose({ sets: 3, reps: 20, tempo: 'Quick contacts', restSeconds: 60, daysPerWeek: 2 }),
-    instructions: [
-      'Stand tall with feet hip-width apart.',
-      'Hop a few centimetres off the ground using mostly the ankles, knees nearly straight.',
-      'Keep contacts short and quiet.',
-      'Once easy on two feet, try on one foot.',
-    ],
-    cautions: 'Stop if pain sharpens at the back of the heel or in the shin.',
-  },
-  {
-    name: 'Half-kneeling hip opener',
-    purpose: 'Eases the front of the hip so the thigh can travel behind the body at toe-off.',
-    region: 'hip',
-    kind: 'mobility',
-    dose: dose({ sets: 2, holdSeconds: 45, restSeconds: 15, daysPerWeek: 5 }),
-    instructions: [
-      'Kneel on one knee on a cushion with the other foot flat in front.',
-      'Tuck the tailbone under and squeeze the buttock of the kneeling side.',
-      'Shift forward a little until you feel a stretch at the front of the hip.',
-      'Breathe slowly and hold, then change sides.',
-    ],
-    cautions: 'A sharp pinch in the front of the hip means shift less far forward.',
-  },
-  {
-    name: 'Side bridge hold',
-    purpose: 'Trunk and side-hip endurance to keep the pelvis steady on long runs.',
-    region: 'trunk',
-    kind: 'isometric',
-    dose: dose({ sets: 3, holdSeconds: 30, restSeconds: 45, daysPerWeek: 3 }),
-    instructions: [
-      'Lie on your side propped on a forearm with the elbow under the shoulder and knees bent.',
-      'Lift your hips so the body makes a straight line from knees to head.',
-      'Hold without rolling forward or back.',
-      'Progress by straightening the legs.',
-    ],
-    cautions: 'Shoulder pain is a reason to use a wall-supported version standing up.',
-  },
-  {
-    name: 'Relaxed build-up runs',
-    purpose: 'Short runs that rise from easy to brisk pace, the last step before normal running sessions.',
-    region: 'whole_leg',
-    kind: 'running_drill',
-    dose: dose({ sets: 1, reps: 4, tempo: '60–80 m, build to brisk', restSeconds: 90, daysPerWeek: 2 }),
-    instructions: [
-      'After an easy warm-up jog, start each run at jogging pace.',
-      'Build speed smoothly over the distance to a brisk but relaxed pace.',
-      'Ease off before the end rather than stopping hard.',
-      'Walk back to the start.',
-    ],
-    cautions: 'Keep at least a day between sessions with fast running while the plan is in this stage.',
-  },
-];
-
-/** Stages of the demo calf plan (invented, for the demo only). */
-const CALF_PLAN = {
-  title: 'Calf strain: staged return to 10 km',
-  notes: 'Invented demo plan. Keep runs on flat road while in stage 2.',
+/** Stages of the demo Achilles plan (invented, for the demo only). */
+const ACHILLES_PLAN = {
+  title: 'Achilles tendon pain: staged loading back to 10 km',
+  notes: 'Invented demo plan. Flat routes only and no speed work until stage 3.',
   stages: [
     {
-      name: 'Calm holds',
-      goal: 'Settle the calf with steady holds and get used to daily loading.',
+      name: 'Isometric holds',
+      goal: 'Ease tendon pain with heavy, steady holds and keep the calf loaded every day.',
       targetWeeks: 2,
-      progressionText: 'Move on once holds feel steady and pain stays low the next morning.',
+      progressionText: 'Move on once the holds feel steady and the tendon is no stiffer the next morning.',
       criteria: [{ kind: 'pain_during_at_most', max: 3, sessions: 3 }, { kind: 'settled_by_morning', sessions: 3 }] as ProgressionCriterion[],
-      exercises: ['Bent-knee calf hold', 'Side bridge hold'],
+      exercises: ['Isometric calf hold', 'Side-lying hip abduction'],
     },
     {
-      name: 'Slow strength',
-      goal: 'Build single-leg strength with slow lowering.',
-      targetWeeks: 3,
-      progressionText: 'Move on when all sets feel controlled on three sessions in a row.',
-      criteria: [{ kind: 'all_sets_done', sessions: 3 }, { kind: 'weeks_in_stage', weeks: 2 }] as ProgressionCriterion[],
-      exercises: ['Slow step-down', 'Single-leg bridge march'],
+      name: 'Heavy slow strength',
+      goal: 'Build calf and tendon strength with slow, heavy raises and lowering.',
+      targetWeeks: 6,
+      progressionText: 'Move on when every set is done on three sessions in a row and at least four weeks have passed.',
+      criteria: [{ kind: 'all_sets_done', sessions: 3 }, { kind: 'weeks_in_stage', weeks: 4 }] as ProgressionCriterion[],
+      exercises: ['Heavy slow calf raise', 'Heel drop from a step, straight knee', 'Heel drop from a step, bent knee'],
     },
     {
       name: 'Spring and running',
-      goal: 'Bring back spring and short runs before normal training.',
-      targetWeeks: 3,
-      progressionText: 'Return to normal running when hops and build-ups cause no pain the next morning.',
+      goal: 'Bring back spring, then running in graded steps at a slightly quicker step rate.',
+      targetWeeks: 4,
+      progressionText: 'Back to normal training when skips and runs cause no pain the next morning and the coach agrees.',
       criteria: [{ kind: 'settled_by_morning', sessions: 4 }] as ProgressionCriterion[],
-      exercises: ['Low ankle hops', 'Relaxed build-up runs'],
+      exercises: ['Springy skips', 'Walk-jog return intervals', 'Step-rate run'],
     },
   ],
 };
 
 /**
- * Adds the demo library to the clinic and a running plan for the demo calf athlete whose pain
- * during rose this week (so the roster shows an alert). Runs inside the demo seed's transaction.
+ * Adds the demo library to the clinic and a running plan for the demo athlete with Achilles
+ * tendon pain, whose pain during rose this week (so the roster shows an alert). Runs inside the
+ * demo seed's transaction.
  */
 export async function seedDemoPlans(trx: Knex, clinicId: number, coachId: number, now = new Date()): Promise<void> {
   const at = now.toISOString();
@@ -275,6 +67,7 @@ export async function seedDemoPlans(trx: Knex, clinicId: number, coachId: number
         days_per_week: e.dose.daysPerWeek,
         instructions: JSON.stringify(e.instructions),
         cautions: e.cautions,
+        source: e.source,
         archived: false,
         created_by: coachId,
         created_at: at,
@@ -291,7 +84,7 @@ export async function seedDemoPlans(trx: Knex, clinicId: number, coachId: number
   // A calm week (pain during 2, 2, 2), then a harder one (3, 3, 4): the weekly mean of pain
   // during rises 2 → 3.3, inside the 5/10 limit; today's session is the first of this week.
   await insertRunningPlan(trx, {
-    clinicId, athlete: carys, ids, plan: CALF_PLAN, assessmentId: null, at, keyPrefix: 'demo-seed-calf',
+    clinicId, athlete: carys, ids, plan: ACHILLES_PLAN, assessmentId: null, at, keyPrefix: 'demo-seed-achilles',
     stageStarts: [started],
     sessions: [
       { date: addDays(started, 0), during: 2, morning: 1, done: 5 },
@@ -300,48 +93,48 @@ export async function seedDemoPlans(trx: Knex, clinicId: number, coachId: number
       { date: addDays(started, 7), during: 3, morning: 1, done: 5 },
       { date: addDays(started, 9), during: 3, morning: 1, done: 5 },
       { date: addDays(started, 11), during: 4, morning: 1, done: 5 },
-      { date: today, during: 4, morning: null, done: 3, note: 'Calf felt tight on the stairs at work.' },
+      { date: today, during: 4, morning: null, done: 3, note: 'Tendon stiff after a long day on my feet.' },
     ],
   });
 }
 
-/** Stages of the demo athlete's hamstring plan after her Baseline (invented, demo only). */
+/** Stages of the demo athlete's plan after her hamstring strain (invented, demo only). */
 const HAMSTRING_PLAN = {
-  title: 'High-hamstring pain: staged loading and hip extension',
-  notes: 'Invented demo plan. Hills and long descents stay out until stage 3.',
+  title: 'Hamstring strain: staged loading back to the trails',
+  notes: 'Invented demo plan. Sprint finishes and steep descents wait until stage 3 is done and the coach agrees.',
   stages: [
     {
-      name: 'Isometric holds',
-      goal: 'Calm the tendon with steady holds it tolerates every day.',
+      name: 'Holds and easy agility',
+      goal: 'Load the healing hamstring with steady holds, and get hips and trunk moving together at low speed.',
       targetWeeks: 3,
-      progressionText: 'Move on once holds cause no more than mild pain and it has settled by the next morning.',
+      progressionText: 'Move on once holds and drills cause no more than mild pain that has settled by the next morning.',
       criteria: [{ kind: 'pain_during_at_most', max: 3, sessions: 3 }, { kind: 'settled_by_morning', sessions: 3 }] as ProgressionCriterion[],
-      exercises: ['Long-lever hamstring bridge hold', 'Hip-hinge hold'],
+      exercises: ['Bent-knee bridge hold', 'Side-step and grapevine', 'Rotating body bridge'],
     },
     {
-      name: 'Slow lengthening',
-      goal: 'Build strength through length with slow lowering, and practise hip extension.',
+      name: 'Lengthening',
+      goal: 'Strength at long hamstring lengths, growing in range and then in speed, with balance on one leg.',
       targetWeeks: 4,
-      progressionText: 'Move on when all sets are done with control on three sessions in a row and mornings stay settled.',
+      progressionText: 'Move on when every set is done with control on three sessions in a row and mornings stay settled.',
       criteria: [{ kind: 'all_sets_done', sessions: 3 }, { kind: 'settled_by_morning', sessions: 3 }] as ProgressionCriterion[],
-      exercises: ['Heel-slide hamstring lowers', 'Single-leg hinge reach', 'Wall-supported hip-extension drill'],
+      exercises: ['Hip-flexed knee extension', 'Single-leg forward tilt with reach', 'Gliding split'],
     },
     {
-      name: 'Fast work and running drills',
-      goal: 'Bring back speed through the hip and the push-off, then normal running.',
-      targetWeeks: 3,
-      progressionText: 'Return to hills when fast work causes no pain the next morning.',
+      name: 'Spring and return to running',
+      goal: 'Quick, springy loading, then running in graded steps; heavy lengthening work stays on as protection.',
+      targetWeeks: 4,
+      progressionText: 'Back to hill sessions and racing when running at full pace is pain-free, strength is full and the coach agrees.',
       criteria: [{ kind: 'settled_by_morning', sessions: 4 }] as ProgressionCriterion[],
-      exercises: ['Split-stance hip-drive pulses', 'Relaxed build-up runs'],
+      exercises: ['Springy skips', 'Walk-jog return intervals', 'Nordic hamstring lowering'],
     },
   ],
 };
 
 /**
- * The full demo's plan for the athlete with high-hamstring pain (the one who can sign in):
- * isometric holds since her Baseline, now in the slow-lengthening stage with calm logs, linked
- * to her Re-test. Only with the rendered demo clips (`npm start`), so tests that build her a
- * plan start from none.
+ * The full demo's plan for the athlete recovering from a hamstring strain (the one who can sign
+ * in): holds and easy agility since her Baseline, now in the lengthening stage with calm logs,
+ * linked to her Re-test. Only with the rendered demo clips (`npm start`), so tests that build her
+ * a plan start from none.
  */
 export async function seedDemoHamstringPlan(trx: Knex, clinicId: number, athlete: { id: number; coach_id: number }, assessmentId: number | null, now = new Date()): Promise<void> {
   const rows = await trx('exercises').where({ clinic_id: clinicId }).select<{ id: number; name: string }[]>('id', 'name');
@@ -355,12 +148,16 @@ export async function seedDemoHamstringPlan(trx: Knex, clinicId: number, athlete
     sessions: [
       { date: addDays(stage1, 0), during: 3, morning: 2, done: 3, stage: 0 },
       { date: addDays(stage1, 2), during: 3, morning: 1, done: 4, stage: 0 },
-      { date: addDays(stage1, 5), during: 2, morning: 1, done: 4, stage: 0 },
-      { date: addDays(stage1, 8), during: 2, morning: 1, done: 4, stage: 0 },
-      { date: addDays(stage1, 12), during: 2, morning: 0, done: 4, stage: 0 },
-      { date: addDays(stage1, 16), during: 2, morning: 0, done: 4, stage: 0 },
-      { date: addDays(stage2, 0), during: 2, morning: 0, done: 2, stage: 1, note: 'Lowers felt strange but not painful.' },
-      { date: addDays(stage2, 3), during: 2, morning: 0, done: 3, stage: 1 },
+      { date: addDays(stage1, 4), during: 3, morning: 1, done: 5, stage: 0 },
+      { date: addDays(stage1, 7), during: 2, morning: 1, done: 5, stage: 0 },
+      { date: addDays(stage1, 9), during: 2, morning: 1, done: 5, stage: 0, note: 'Grapevine at a light jog today, no pull.' },
+      { date: addDays(stage1, 11), during: 2, morning: 0, done: 5, stage: 0 },
+      { date: addDays(stage1, 14), during: 2, morning: 0, done: 5, stage: 0 },
+      { date: addDays(stage1, 16), during: 2, morning: 0, done: 5, stage: 0 },
+      { date: addDays(stage1, 18), during: 1, morning: 0, done: 5, stage: 0 },
+      { date: addDays(stage2, 0), during: 2, morning: 0, done: 2, stage: 1, note: 'The glides felt awkward but not painful.' },
+      { date: addDays(stage2, 2), during: 1, morning: 0, done: 3, stage: 1 },
+      { date: addDays(stage2, 4), during: 1, morning: 0, done: 3, stage: 1 },
     ],
   });
 }
@@ -383,7 +180,7 @@ interface DemoSession {
  */
 async function insertRunningPlan(
   trx: Knex,
-  p: { clinicId: number; athlete: { id: number; coach_id: number }; ids: Map<string, number>; plan: typeof CALF_PLAN; assessmentId: number | null; at: string; keyPrefix: string; stageStarts: string[]; sessions: DemoSession[] },
+  p: { clinicId: number; athlete: { id: number; coach_id: number }; ids: Map<string, number>; plan: typeof ACHILLES_PLAN; assessmentId: number | null; at: string; keyPrefix: string; stageStarts: string[]; sessions: DemoSession[] },
 ): Promise<void> {
   const { clinicId, athlete, at } = p;
   const startedAt = `${p.stageStarts[0]}T08:00:00.000Z`;

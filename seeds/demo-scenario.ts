@@ -51,30 +51,31 @@ interface DemoAthlete {
 
 const ATHLETES: DemoAthlete[] = [
   {
-    first: 'Ada', last: 'Kestrel', email: 'ada.kestrel@runner.test', dob: '1987-04-12', coach: 1,
-    heightCm: 168, unit: 'km', weeklyKm: 85, longestKm: 52, goalEvent: '100 km mountain ultra', goalDate: '2027-07-17',
-    surfaces: ['trail', 'road'], notes: 'Deep buttock pain on steep climbs and after long descents. Check hip extension at toe-off.',
+    first: 'Ada', last: 'Kestrel', email: 'ada.kestrel@runner.test', dob: '1996-02-19', coach: 1,
+    heightCm: 166, unit: 'km', weeklyKm: 55, longestKm: 28, goalEvent: 'Quillmoor Ridge 42 km trail race', goalDate: '2027-06-05',
+    surfaces: ['trail', 'track'],
+    notes: 'Strained her right hamstring in a sprint finish in August. Easy running is comfortable again, but her push-off looks guarded. Check hip extension at toe-off.',
     injuries: [
-      { region: 'buttock', side: 'left', began: '2026-08', status: 'active', notes: 'High hamstring, worse sitting after long runs' },
-      { region: 'ankle', side: 'right', began: '2024-05', status: 'resolved', notes: 'Lateral sprain on a technical descent' },
+      { region: 'hamstring', side: 'right', began: '2026-08', status: 'recovering', notes: 'Outer hamstring strain in the downhill sprint finish of the Orrinsby Gorge 25 km; graded by her sports doctor' },
+      { region: 'shin', side: 'both', began: '2021-03', status: 'resolved', notes: 'Shin pain after doubling her weekly distance; settled with a slower build' },
     ],
-    pain: [{ region: 'buttock', score: 4 }, { region: 'hamstring', score: 2 }],
+    pain: [{ region: 'hamstring', score: 4 }],
     consents: { video: true, stills: true }, hasAccount: true,
   },
   {
-    first: 'Bruno', last: 'Feldhaus', email: 'bruno.feldhaus@runner.test', dob: '1966-11-03', coach: 1,
-    heightCm: 181, unit: 'mi', weeklyKm: 72.4, longestKm: 32.2, goalEvent: 'Autumn city marathon, sub 3:30', goalDate: '2027-10-10',
-    surfaces: ['road'], notes: 'Masters runner. Lower-back ache late in long runs; stride looks short.',
-    injuries: [{ region: 'lower_back', side: 'central', began: '2025-02', status: 'active', notes: 'Aches after 25 km, eases with walking' }],
-    pain: [{ region: 'lower_back', score: 3 }],
+    first: 'Teodor', last: 'Brannick', email: 'teodor.brannick@runner.test', dob: '1984-05-27', coach: 1,
+    heightCm: 183, unit: 'mi', weeklyKm: 64.4, longestKm: 35.4, goalEvent: 'Fenwhistle Hills 50 km', goalDate: '2027-09-18',
+    surfaces: ['road', 'trail'], notes: 'Road runner moving to trails. Aching front of the right knee on long descents; lands with the foot well ahead of the body.',
+    injuries: [{ region: 'knee', side: 'right', began: '2026-06', status: 'active', notes: 'Front-of-knee ache after half an hour of downhill; stairs down hurt the next day' }],
+    pain: [{ region: 'knee', score: 3 }],
     consents: { video: true, stills: false }, hasAccount: false,
   },
   {
     first: 'Carys', last: 'Holmgren', email: 'carys.holmgren@runner.test', dob: '1994-06-21', coach: 2,
-    heightCm: 163, unit: 'km', weeklyKm: 25, longestKm: 10, goalEvent: 'Return to 10 km racing', goalDate: '2027-03-14',
-    surfaces: ['road', 'treadmill'], notes: 'Returning after a calf strain; building run-walk.',
-    injuries: [{ region: 'calf', side: 'right', began: '2026-09', status: 'recovering', notes: 'Medial gastrocnemius strain, graded by her doctor' }],
-    pain: [{ region: 'calf', score: 1 }],
+    heightCm: 163, unit: 'km', weeklyKm: 30, longestKm: 12, goalEvent: 'Tarnwick Harbour 10 km', goalDate: '2027-03-14',
+    surfaces: ['road', 'treadmill'], notes: 'Achilles pain since she raised her weekly distance in the autumn; stiff for the first steps each morning. Building back with run-walk.',
+    injuries: [{ region: 'achilles', side: 'right', began: '2026-09', status: 'active', notes: 'Mid-portion pain and thickening, worse after hill sessions' }],
+    pain: [{ region: 'achilles', score: 2 }],
     consents: { video: true, stills: true }, hasAccount: false,
   },
   {
@@ -87,7 +88,7 @@ const ATHLETES: DemoAthlete[] = [
     first: 'Efa', last: 'Lindqvist', email: 'efa.lindqvist@runner.test', dob: '1979-09-08', coach: 1,
     heightCm: 171, unit: 'km', weeklyKm: 45, longestKm: 21, goalEvent: 'Half marathon', goalDate: null,
     surfaces: ['treadmill', 'road'], notes: null,
-    injuries: [{ region: 'achilles', side: 'left', began: '2023-03', status: 'resolved', notes: 'Mid-portion tendinopathy, settled with loading' }],
+    injuries: [{ region: 'heel', side: 'left', began: '2023-03', status: 'resolved', notes: 'Plantar heel pain, settled with calf and foot strengthening' }],
     pain: [], consents: null, hasAccount: false,
   },
   {
@@ -112,17 +113,18 @@ interface DemoAssessment {
 const ASSESSMENTS: DemoAssessment[] = [
   {
     athlete: 'Kestrel', date: '2026-10-06', kind: 'baseline', surface: 'treadmill', speedKmh: 10.8, inclinePercent: 1,
-    shoes: 'Cushioned trail shoe, 6 mm drop', cameraNotes: 'Phone on tripod, 3 m from belt, hip height, 120 fps',
-    notes: 'Short stride, little hip extension at toe-off; low back arches late in stance.',
+    shoes: 'Trail shoe, 6 mm drop', cameraNotes: 'Phone on tripod, 3 m from belt, hip height, 120 fps',
+    notes: 'Seven weeks after the strain. Guarded push-off: the thigh hardly passes vertical at toe-off, and the foot lands well ahead of the hip.',
   },
   {
     athlete: 'Kestrel', date: '2026-11-24', kind: 'retest', surface: 'treadmill', speedKmh: 10.8, inclinePercent: 1,
-    shoes: 'Cushioned trail shoe, 6 mm drop', cameraNotes: 'Same set-up as baseline (tape marks on the floor)',
-    notes: 'After six weeks of hip-extension drills and staged hamstring loading.',
+    shoes: 'Trail shoe, 6 mm drop', cameraNotes: 'Same set-up as baseline (tape marks on the floor)',
+    notes: 'After seven weeks of staged hamstring loading: holds and easy agility, then lengthening work.',
   },
   {
-    athlete: 'Feldhaus', date: '2026-11-17', kind: 'baseline', surface: 'treadmill', speedKmh: 11.5, inclinePercent: 0,
-    shoes: 'Road racer', cameraNotes: 'Tripod, 4 m, 240 fps slow motion', notes: 'Back ache after 25 km; check trunk lean.',
+    athlete: 'Brannick', date: '2026-11-17', kind: 'baseline', surface: 'treadmill', speedKmh: 11.5, inclinePercent: 0,
+    shoes: 'Road trainer, 10 mm drop', cameraNotes: 'Tripod, 4 m, 240 fps slow motion',
+    notes: 'Knee ache after long descents. Check knee flexion and heel position at initial contact, and step rate.',
   },
 ];
 
@@ -216,8 +218,9 @@ export async function seed(knex: Knex, opts: SeedOptions = {}): Promise<boolean>
 }
 
 /**
- * Renders the demo runner clips (synthetic figure, see scripts/demo-clip) for the athlete with
- * high-hamstring pain — Baseline with ~4° hip extension at toe-off, Re-test with ~11° — and
+ * Renders the demo runner clips (synthetic figure, see scripts/demo-clip) for the athlete whose
+ * push-off was guarded after a hamstring strain — Baseline with ~4° hip extension at toe-off,
+ * Re-test with ~11° — and
  * queues them exactly like uploads; the server's worker extracts their frames on start.
  */
 async function seedDemoClips(knex: Knex, uploadsDir: string, log: (m: string) => void): Promise<void> {
@@ -323,15 +326,15 @@ async function seedDemoShares(knex: Knex, queue: JobQueue, who: { athleteId: num
     return id;
   };
   await knex.transaction(async (trx) => {
-    const a = await still(trx, baseline, [panel(baseline, 2)], 'Baseline, right toe-off: the thigh barely passes vertical, so the stride ends early.', true);
-    const b = await still(trx, retest, [panel(retest, 2)], 'Re-test, right toe-off: the hip now reaches extension without the lower back arching.', true);
+    const a = await still(trx, baseline, [panel(baseline, 2)], 'Baseline, right toe-off: the thigh hardly passes vertical — the push-off is cut short.', true);
+    const b = await still(trx, retest, [panel(retest, 2)], 'Re-test, right toe-off: the thigh now travels well behind the hip before the foot leaves the belt.', true);
     await still(trx, retest, [panel(baseline, 2), panel(retest, 2)], 'Baseline and Re-test side by side at right toe-off.', false);
     const [row] = await trx('visit_summaries')
       .insert({
         clinic_id: who.clinicId, athlete_id: who.athleteId, assessment_id: retest.visit.id, baseline_assessment_id: baseline.visit.id,
         title: 'Re-test comparison: Baseline · 6 Oct 2026 and Re-test · 24 Nov 2026',
-        findings: 'Hip extension at toe-off went from about 4° to about 11°, more than the change expected from measurement error alone. The stride no longer ends early, and the lower back stays quiet at push-off. Cadence is unchanged.',
-        plan_text: 'Carry on with stage 2 (slow lengthening work) three times a week, with the running drills before easy runs. Keep pain during exercise at 3/10 or less and settled by the next morning. We re-film in six weeks.',
+        findings: 'Hip extension at toe-off went from about 4° to about 11°, more than the change expected from measurement error alone: the push-off is no longer held back. The shank is a little more upright at landing, though that change is within measurement error. Cadence is unchanged.',
+        plan_text: 'Carry on with stage 2 (lengthening work) as prescribed. Keep pain during exercise at 3/10 or less and settled by the next morning; sprint finishes and steep descents wait for stage 3. We re-film in six weeks.',
         still_ids: JSON.stringify([a, b]), status: 'rendering', progress: 0, published_at: who.at, published_by: who.coachId, created_by: who.coachId, created_at: who.at, updated_at: who.at,
       })
       .returning('id');

@@ -75,7 +75,7 @@ export async function generateRunnerClip(opts: RunnerClipOptions): Promise<Groun
   return truth;
 }
 
-/** The two clips the demo seed uses (invented athlete with high-hamstring pain). */
+/** The two clips the demo seed uses (invented athlete whose push-off was guarded after a hamstring strain). */
 export const DEMO_CLIPS = {
   baseline: { name: 'baseline', label: 'Baseline', hipExtensionDeg: 4 },
   retest: { name: 'retest', label: 'Re-test', hipExtensionDeg: 11 },

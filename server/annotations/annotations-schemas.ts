@@ -9,6 +9,21 @@ const Fraction = z
 const FramePoint = z.strictObject({ x: Fraction, y: Fraction });
 const Frame = z.number('Frame must be a number.').int('Frame must be a whole number.').min(0, 'Frame numbers start at 0.');
 
+/** Angle gauge: all three points on the frame, both arms with length. */
+const GaugePoint = z.strictObject({ x: Fraction, y: Fraction }, 'An angle gauge needs three points (a, vertex and b), each inside the frame.');
+const Gauge = z
+  .strictObject({
+    id: z.string('A gauge needs an id.').regex(/^[A-Za-z0-9_-]{1,40}$/, 'A gauge id is 1–40 letters, digits, - or _.'),
+    frame: Frame,
+    a: GaugePoint,
+    vertex: GaugePoint,
+    b: GaugePoint,
+  })
+  .refine((g) => (g.a.x !== g.vertex.x || g.a.y !== g.vertex.y) && (g.b.x !== g.vertex.x || g.b.y !== g.vertex.y), {
+    message: 'Both arms of an angle gauge need length: place the vertex apart from the two ends.',
+    path: ['vertex'],
+  });
+
 const Points = z.strictObject(Object.fromEntries(LANDMARKS.map((l) => [l, FramePoint.optional()])) as Record<(typeof LANDMARKS)[number], z.ZodOptional<typeof FramePoint>>);
 
 export const AnnotationsBody = z
@@ -39,6 +54,7 @@ export const AnnotationsBody = z
       })
       .refine((s) => s.a.x !== s.b.x || s.a.y !== s.b.y, { message: 'The scale bar has zero length: drag from one end of the object to the other.', path: ['b'] })
       .nullable(),
+    gauges: z.array(Gauge).max(ANNOTATION_LIMITS.gauges, 'Too many angle gauges.').default([]),
   })
   .superRefine((v, ctx) => {
     const seen = new Set<string>();
@@ -52,6 +68,11 @@ export const AnnotationsBody = z
       const key = `${e.frame}:${e.side}`;
       if (events.has(key)) ctx.addIssue({ code: 'custom', path: ['events', i], message: `Two events on frame ${e.frame} for the ${e.side} side.` });
       events.add(key);
+    });
+    const ids = new Set<string>();
+    v.gauges.forEach((g, i) => {
+      if (ids.has(g.id)) ctx.addIssue({ code: 'custom', path: ['gauges', i, 'id'], message: `Angle gauge ${g.id} is listed twice.` });
+      ids.add(g.id);
     });
   });
 export type AnnotationsInput = z.output<typeof AnnotationsBody>;

@@ -17,7 +17,7 @@ export interface AnnotationsDeps {
   afterSave: (trx: Db, clip: ClipRow, annotations: ClipAnnotations) => Promise<void>;
 }
 
-/** A clip's landmarks, events and scale, saved whole with optimistic concurrency. */
+/** A clip's landmarks, events, scale and angle gauges, saved whole with optimistic concurrency. */
 export function annotationsService(d: AnnotationsDeps) {
   const { db } = d;
   return {
@@ -40,6 +40,9 @@ export function annotationsService(d: AnnotationsDeps) {
         if (e.frame >= frameCount) problems.push({ path: ['events', i, 'frame'], message: `Frame ${e.frame} is beyond the clip's last frame (${frameCount - 1}).` });
       });
       if (input.scale && input.scale.frame >= frameCount) problems.push({ path: ['scale', 'frame'], message: `Frame ${input.scale.frame} is beyond the clip's last frame.` });
+      input.gauges.forEach((g, i) => {
+        if (g.frame >= frameCount) problems.push({ path: ['gauges', i, 'frame'], message: `Angle gauge on frame ${g.frame} is beyond the clip's last frame (${frameCount - 1}).` });
+      });
       if (!problems.length) {
         for (const message of d.validateEvents(input.events, frameCount)) problems.push({ path: ['events'], message });
       }

@@ -18,6 +18,7 @@ export interface ExerciseRow {
   days_per_week: number;
   instructions: string;
   cautions: string;
+  source: string;
   archived: number | boolean;
   created_by: number | null;
   created_at: string;
@@ -59,7 +60,12 @@ export const exercisesRepository = {
     if (q.kind) query.andWhere({ kind: q.kind });
     for (const word of (q.q ?? '').toLowerCase().split(/\s+/).filter(Boolean)) {
       const pattern = `%${likeEscape(word)}%`;
-      query.andWhere((w) => w.whereRaw(`lower(name) LIKE ? ESCAPE '\\'`, [pattern]).orWhereRaw(`lower(purpose) LIKE ? ESCAPE '\\'`, [pattern]));
+      query.andWhere((w) =>
+        w
+          .whereRaw(`lower(name) LIKE ? ESCAPE '\\'`, [pattern])
+          .orWhereRaw(`lower(purpose) LIKE ? ESCAPE '\\'`, [pattern])
+          .orWhereRaw(`lower(source) LIKE ? ESCAPE '\\'`, [pattern]),
+      );
     }
     return query.orderByRaw('lower(name)');
   },
@@ -83,6 +89,7 @@ export const exercisesRepository = {
       dose: doseFromRow(r),
       instructions: JSON.parse(r.instructions) as string[],
       cautions: r.cautions,
+      source: r.source ?? '',
       archived: Boolean(r.archived),
       createdAt: r.created_at,
       updatedAt: r.updated_at,

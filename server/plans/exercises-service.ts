@@ -43,6 +43,7 @@ export function exercisesService({ db, clock }: { db: Db; clock: () => Date }) {
           ...doseColumns(input.dose),
           instructions: JSON.stringify(input.instructions),
           cautions: input.cautions,
+          source: input.source ?? '',
           archived: false,
           created_by: user.id,
           created_at: at,
@@ -66,6 +67,7 @@ export function exercisesService({ db, clock }: { db: Db; clock: () => Date }) {
       if (patch.dose !== undefined) Object.assign(changes, doseColumns(patch.dose));
       if (patch.instructions !== undefined) changes.instructions = JSON.stringify(patch.instructions);
       if (patch.cautions !== undefined) changes.cautions = patch.cautions;
+      if (patch.source !== undefined) changes.source = patch.source;
       await db.transaction(async (trx) => {
         await repo.update(trx, user.clinicId, id, changes);
         await audit(trx, { clinicId: user.clinicId, actorId: user.id, action: 'exercise.updated', detail: { exerciseId: id, fields: Object.keys(patch) } }, at);

@@ -52,6 +52,7 @@ export const ExerciseBody = z.strictObject({
     .min(1, 'Give at least one instruction step.')
     .max(L.instructionSteps.max, `Give at most ${L.instructionSteps.max} steps.`),
   cautions: Text(L.text.cautions, 'Cautions'),
+  source: Text(L.text.source, 'Source').optional(),
 });
 export type ExerciseInput = z.output<typeof ExerciseBody>;
 export const ExercisePatchBody = ExerciseBody.partial();

@@ -3,9 +3,9 @@ import path from 'node:path';
 import { GlobalFonts } from '@napi-rs/canvas';
 
 /**
- * The shipped Source Sans 3 faces (from @fontsource/source-sans-3, the same files the web app
- * serves), for server-side rendering: @napi-rs/canvas stills and pdfkit documents. Never a system
- * or CDN font, so a still or PDF looks the same on every machine.
+ * The shipped Source Sans 3 faces for server-side rendering: @napi-rs/canvas stills use the web
+ * app's own files (@fontsource/source-sans-3), pdfkit documents the complete family (npm
+ * `source-sans`). Never a system or CDN font, so a still or PDF looks the same on every machine.
  */
 const require = createRequire(import.meta.url);
 const filesDir = path.join(path.dirname(require.resolve('@fontsource/source-sans-3/package.json')), 'files');
@@ -15,12 +15,25 @@ function face(weight: 400 | 600 | 700, style: 'normal' | 'italic' = 'normal'): s
   return path.join(filesDir, `source-sans-3-latin-${weight}-${style}.woff`);
 }
 
-/** Font files by role, for pdfkit's `doc.registerFont(name, file)`. */
+/** The web app's Latin-subset faces by role (what stills draw with). */
 export const FONT_FILES = {
   regular: face(400),
   semibold: face(600),
   bold: face(700),
   italic: face(400, 'italic'),
+} as const;
+
+/**
+ * The complete Source Sans 3 faces (npm `source-sans`, Adobe's release, TrueType) by role, for PDFs:
+ * the web subsets lack signs a document prints (≥, ≤, →) and letters of names outside basic Latin
+ * (Ł, ğ, Greek, Cyrillic); pdfkit embeds only the glyphs a document uses.
+ */
+const fullDir = path.join(path.dirname(require.resolve('source-sans/package.json')), 'TTF');
+export const PDF_FONT_FILES = {
+  regular: path.join(fullDir, 'SourceSans3-Regular.ttf'),
+  semibold: path.join(fullDir, 'SourceSans3-Semibold.ttf'),
+  bold: path.join(fullDir, 'SourceSans3-Bold.ttf'),
+  italic: path.join(fullDir, 'SourceSans3-It.ttf'),
 } as const;
 
 /** The CSS family name the overlay asks for (matches `DEFAULT_OVERLAY_FONT`). */
@@ -35,7 +48,7 @@ export function registerCanvasFonts(): void {
   registered = true;
 }
 
-/** Registers the faces on a pdfkit document as `regular`, `semibold`, `bold`, `italic`. */
+/** Registers the complete faces ({@link PDF_FONT_FILES}) on a pdfkit document as `regular`, `semibold`, `bold`, `italic`. */
 export function registerPdfFonts(doc: { registerFont(name: string, src: string): unknown }): void {
-  for (const [name, file] of Object.entries(FONT_FILES)) doc.registerFont(name, file);
+  for (const [name, file] of Object.entries(PDF_FONT_FILES)) doc.registerFont(name, file);
 }

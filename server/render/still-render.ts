@@ -1,5 +1,5 @@
 import { createCanvas, loadImage, type Image, type SKRSContext2D } from '@napi-rs/canvas';
-import type { FrameLandmarks, ScaleBar } from '../../src/contracts/annotations';
+import type { AngleGauge, FrameLandmarks, ScaleBar } from '../../src/contracts/annotations';
 import type { Direction, Side } from '../../src/contracts/assessment';
 import { STILL_CAUTION_LINE, type StillLabel, type StillRect } from '../../src/contracts/sharing';
 import { drawOverlay, overlayLabelPositions, type Canvas2DLike, type OverlayOptions } from '../../src/kinematics';
@@ -15,6 +15,8 @@ export interface StillPanelInput {
   nearSide: Side;
   direction: Direction;
   scale: ScaleBar | null;
+  /** Angle gauges of the frame (stills saved before gauges existed have none). */
+  gauges?: AngleGauge[];
   /** Heading above the panel, e.g. "Re-test · 24 Nov 2026 · Right toe-off · 0.43 s". */
   heading: string;
 }
@@ -132,6 +134,7 @@ export async function renderStill(input: StillRenderInput): Promise<StillRenderO
       direction: panel.direction,
       showAngles: input.showAngles,
       scale: panel.scale,
+      gauges: panel.gauges ?? [],
       fontFamily: `"${CANVAS_FONT_FAMILY}", sans-serif`,
     };
     ctx.save();

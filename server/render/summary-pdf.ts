@@ -1,7 +1,10 @@
 import PDFDocument from 'pdfkit';
-import type { ComparisonRow, Measure } from '../../src/contracts/measures';
-import { bandRange, decimalsFor, formatMeasure, formatValue } from '../../src/kinematics/format';
+import type { ComparisonRow, Measure, ReferenceBand } from '../../src/contracts/measures';
+import { DEFAULT_REFERENCE_BANDS, findBand } from '../../src/kinematics/bands';
+import { thresholdText, verdictText } from '../../src/kinematics/comparison';
+import { bandRange, formatMeasure, formatValue } from '../../src/kinematics/format';
 import { registerPdfFonts } from './fonts';
+import { INK, MARGIN, MUTED, pdfLayout } from './pdf-layout';
 
 /** One visit's facts for the header table. */
 export interface SummaryVisit {
@@ -37,6 +40,8 @@ export interface SummaryDocument {
   measures: { heading: string; measures: Measure[] }[];
   /** Rows of a comparison (only for two visits). */
   comparison: ComparisonRow[] | null;
+  /** The clinic's reference bands, for the comparison's band column (default: the cited defaults). */
+  bands?: ReferenceBand[];
   stills: SummaryStill[];
   findings: string;
   planText: string;
@@ -49,43 +54,58 @@ export const SUMMARY_CAUTION =
   'Stop any exercise that causes sharp or worsening pain and contact your clinician. ' +
   'Follow the regulations that apply where you are treated.';
 
-const MARGIN = 50;
-const INK = '#1B2A26';
-const MUTED = '#55645F';
-const SPRUCE = '#1F5C4A';
-const RULE = '#C9D4D0';
-const SHADE = '#EEF3F1';
-
-const VERDICT_TEXT: Record<ComparisonRow['verdict'], string> = {
-  beyond_measurement_error: 'Beyond measurement error',
-  within_measurement_error: 'Within measurement error',
-  no_threshold: 'No published threshold',
-  not_measured: 'Not measured',
-};
-
 const POSITION_TEXT = { below: 'Below', within: 'Within', above: 'Above' } as const;
 
-/** The shipped face is the Latin subset: write the few maths signs we use in words. */
-export function pdfSafe(text: string): string {
-  return text.replace(/≥\s?/g, 'at least ').replace(/≤\s?/g, 'at most ').replace(/→/g, 'to');
+/**
+ * Text typed by people (names, findings, plan) as the PDF can print it: emoji (with their skin
+ * tones, flags, joiners and variation selectors) have no glyph in a text face and would print as
+ * boxes, so they are left out; signs such as © or ↔ stay.
+ */
+export function printable(text: string): string {
+  return text.replace(/[\p{Emoji_Presentation}\p{Emoji_Modifier}\p{Regional_Indicator}\uFE0F\u200D]/gu, '');
 }
 
-/** "+7.0°", "−2.7°", "0.0°" (a change that rounds to zero has no sign). */
-export function signedChange(change: number, unit: string): string {
-  const shown = Number(change.toFixed(decimalsFor(unit)));
-  if (shown === 0) return formatValue(0, unit);
-  return `${shown > 0 ? '+' : '−'}${formatValue(Math.abs(shown), unit)}`;
+/**
+ * A citation as a patient document prints it: plainly, without the evidence tags the app shows
+ * ([pub], [mem] …); a figure derived from a published one says how.
+ */
+export function plainCitation(source: string, evidence: string, derivation?: string): string {
+  // Working notes about how a citation was checked ("author list from memory") stay in the app.
+  const plain = source.replace(/\s*\([^)]*\bfrom memory\b[^)]*\)/gi, '').trim();
+  return evidence === 'calc' && derivation ? `${plain}. ${derivation}` : plain;
+}
+
+/** "Heiderscheit et al. 2011" from a full citation: its first part, shortened for a table cell. */
+export function shortCitation(source: string): string {
+  const first = source.split(/[,;:(]/)[0]!.trim();
+  return first.length > 48 ? `${first.slice(0, 47).trimEnd()}…` : first;
+}
+
+/** Numbered sources in order of first use; `ref` gives a citation's number. */
+function sourceList() {
+  const numbers = new Map<string, number>();
+  return {
+    ref(citation: string): number {
+      let n = numbers.get(citation);
+      if (n === undefined) numbers.set(citation, (n = numbers.size + 1));
+      return n;
+    },
+    entries: () => [...numbers].map(([text, n]) => ({ n, text })),
+  };
 }
 
 const sideWord = (side: 'left' | 'right' | null) => (side === 'left' ? 'left' : side === 'right' ? 'right' : '');
+const labelOf = (m: { label: string; side: 'left' | 'right' | null }) => `${m.label}${m.side ? ` (${sideWord(m.side)})` : ''}`;
 
-/** Renders the visit summary PDF (A4, pdfkit, shipped Source Sans 3). */
+/** Renders the visit summary PDF (A4, pdfkit, the complete Source Sans 3 faces). */
 export async function renderSummaryPdf(doc0: SummaryDocument, onProgress?: (f: number) => void | Promise<void>): Promise<{ pdf: Buffer; pageCount: number }> {
+  const athleteName = printable(doc0.athleteName);
+  const clinicName = printable(doc0.clinicName);
   const doc = new PDFDocument({
     size: 'A4',
     margins: { top: MARGIN, bottom: MARGIN + 20, left: MARGIN, right: MARGIN },
     bufferPages: true,
-    info: { Title: `${doc0.title} - ${doc0.athleteName}`, Author: doc0.clinicName, Creator: 'Trailframe' },
+    info: { Title: `${doc0.title} - ${athleteName}`, Author: clinicName, Creator: 'Trailframe' },
   });
   registerPdfFonts(doc);
   const chunks: Buffer[] = [];
@@ -94,56 +114,16 @@ export async function renderSummaryPdf(doc0: SummaryDocument, onProgress?: (f: n
     doc.on('end', () => resolve());
     doc.on('error', reject);
   });
-
-  const width = doc.page.width - 2 * MARGIN;
-  const bottom = () => doc.page.height - doc.page.margins.bottom;
-  const ensure = (h: number) => {
-    if (doc.y + h > bottom()) doc.addPage();
-  };
-  const heading = (text: string) => {
-    ensure(60);
-    doc.moveDown(0.8);
-    doc.font('semibold').fontSize(13).fillColor(SPRUCE).text(text, MARGIN, doc.y, { width });
-    doc.moveTo(MARGIN, doc.y + 2).lineTo(MARGIN + width, doc.y + 2).lineWidth(0.6).strokeColor(RULE).stroke();
-    doc.moveDown(0.5);
-  };
-  const paragraph = (text: string, empty: string) => {
-    doc.font(text.trim() ? 'regular' : 'italic').fontSize(10.5).fillColor(text.trim() ? INK : MUTED);
-    doc.text(text.trim() || empty, MARGIN, doc.y, { width, lineGap: 2 });
-  };
-
-  /** A table with fixed column widths; wraps cells and breaks pages between rows. */
-  const table = (cols: { title: string; width: number }[], rows: string[][]) => {
-    const pad = 4;
-    const drawRow = (cells: string[], head: boolean) => {
-      const fontOf = (i: number) => (head || i === 0 ? 'semibold' : 'regular');
-      doc.fontSize(head ? 9 : 9.5);
-      const h = Math.max(...cells.map((c, i) => doc.font(fontOf(i)).heightOfString(c, { width: cols[i]!.width - 2 * pad }))) + 2 * pad;
-      if (doc.y + h > bottom()) {
-        doc.addPage();
-        if (!head) drawRow(cols.map((c) => c.title), true);
-      }
-      const y = doc.y;
-      if (head) doc.rect(MARGIN, y, width, h).fill(SHADE);
-      let x = MARGIN;
-      cells.forEach((c, i) => {
-        doc.fillColor(head ? SPRUCE : INK).font(fontOf(i));
-        doc.text(c, x + pad, y + pad, { width: cols[i]!.width - 2 * pad });
-        x += cols[i]!.width;
-      });
-      doc.moveTo(MARGIN, y + h).lineTo(MARGIN + width, y + h).lineWidth(0.4).strokeColor(RULE).stroke();
-      doc.x = MARGIN;
-      doc.y = y + h;
-    };
-    drawRow(cols.map((c) => c.title), true);
-    for (const r of rows) drawRow(r, false);
-  };
+  const L = pdfLayout(doc);
+  const { width } = L;
+  const sources = sourceList();
+  const bandCell = (band: ReferenceBand) => `${bandRange(band)}\n${shortCitation(band.source)} [${sources.ref(plainCitation(band.source, band.evidence))}]`;
 
   // ── Header ──
-  doc.font('semibold').fontSize(10).fillColor(MUTED).text(doc0.clinicName, MARGIN, MARGIN, { width, continued: false });
+  doc.font('semibold').fontSize(10).fillColor(MUTED).text(clinicName, MARGIN, MARGIN, { width });
   doc.font('bold').fontSize(22).fillColor(INK).text(doc0.title, { width });
-  doc.font('regular').fontSize(12).fillColor(INK).text(`Athlete: ${doc0.athleteName}`, { width });
-  doc.font('regular').fontSize(10).fillColor(MUTED).text(`Prepared by ${doc0.coachName} on ${doc0.issuedOn}`, { width });
+  doc.font('regular').fontSize(12).fillColor(INK).text(`Athlete: ${athleteName}`, { width });
+  doc.font('regular').fontSize(10).fillColor(MUTED).text(`Prepared by ${printable(doc0.coachName)} on ${doc0.issuedOn}`, { width });
 
   // ── Caution ──
   doc.moveDown(0.8);
@@ -155,110 +135,124 @@ export async function renderSummaryPdf(doc0: SummaryDocument, onProgress?: (f: n
   doc.y = cautionTop + cautionH;
 
   // ── Visit facts ──
-  heading(doc0.visits.length > 1 ? 'Visits compared' : 'Visit');
   const factCols = [{ title: '', width: 110 }, ...doc0.visits.map((v) => ({ title: v.label, width: (width - 110) / doc0.visits.length }))];
-  table(factCols, [
+  const factRows = [
     ['Surface', ...doc0.visits.map((v) => v.surface)],
     ['Speed', ...doc0.visits.map((v) => v.speed)],
     ['Incline', ...doc0.visits.map((v) => v.incline ?? 'Not recorded')],
-    ['Shoes', ...doc0.visits.map((v) => v.shoes ?? 'Not recorded')],
-  ]);
+    ['Shoes', ...doc0.visits.map((v) => printable(v.shoes ?? '') || 'Not recorded')],
+  ];
+  L.heading(doc0.visits.length > 1 ? 'Visits compared' : 'Visit', L.tableLead(factCols, factRows));
+  L.table(factCols, factRows);
   await onProgress?.(0.15);
 
   // ── Findings ──
-  heading('Findings');
-  paragraph(doc0.findings, 'No findings written.');
+  const findings = printable(doc0.findings);
+  L.heading('Findings', L.paragraphLead(findings));
+  L.paragraph(findings, 'No findings written.');
 
   // ── Measures ──
-  const sources = new Map<string, string>();
-  heading(doc0.comparison ? 'Measures: Baseline and Re-test' : 'Measures');
+  const measuresTitle = doc0.comparison ? 'Measures: Baseline and Re-test' : 'Measures';
   if (doc0.comparison) {
     const rows = doc0.comparison.filter((r) => r.verdict !== 'not_measured' || r.baseline !== null || r.retest !== null);
-    if (rows.length === 0) paragraph('', 'Not measured: no steps were marked on the clips of these visits.');
-    else {
-      table(
-        [
-          { title: 'Measure', width: 150 },
-          { title: 'Baseline', width: 70 },
-          { title: 'Re-test', width: 70 },
-          { title: 'Change', width: 65 },
-          { title: 'Against measurement error', width: width - 355 },
-        ],
-        rows.map((r) => {
-          if (r.threshold) sources.set(r.threshold.source, `${r.threshold.source} [${r.threshold.evidence}]`);
-          const label = `${r.label}${r.side ? ` (${sideWord(r.side)})` : ''}`;
-          const threshold = r.threshold ? ` (threshold ${formatValue(r.threshold.value, r.threshold.unit)})` : '';
-          return [label, formatValue(r.baseline, r.unit), formatValue(r.retest, r.unit), r.change === null ? 'Not measured' : signedChange(r.change, r.unit), `${VERDICT_TEXT[r.verdict]}${threshold}`];
-        }),
-      );
+    const bands = doc0.bands ?? DEFAULT_REFERENCE_BANDS;
+    if (rows.length === 0) {
+      const empty = 'Not measured: no steps were marked on the clips of these visits.';
+      L.heading(measuresTitle, L.paragraphLead(empty));
+      L.paragraph('', empty);
+    } else {
+      const cols = [
+        { title: 'Measure', width: 118 },
+        { title: 'Baseline', width: 52 },
+        { title: 'Re-test', width: 52 },
+        { title: 'Change', width: 50 },
+        { title: 'Reference band', width: 98 },
+        { title: 'Against measurement error', width: width - 370 },
+      ];
+      const cells = rows.map((r) => {
+        const band = findBand(bands, r.key, r.unit);
+        const threshold = r.threshold ? ` (threshold ${thresholdText(r.threshold)}) [${sources.ref(plainCitation(r.threshold.source, r.threshold.evidence, r.threshold.derivation))}]` : '';
+        return [
+          labelOf(r),
+          formatValue(r.baseline, r.unit),
+          formatValue(r.retest, r.unit),
+          r.change === null ? 'Not measured' : formatValue(r.change, r.unit, { signed: true }),
+          band ? bandCell(band) : 'None',
+          `${verdictText(r)}${threshold}`,
+        ];
+      });
+      L.heading(measuresTitle, L.tableLead(cols, cells));
+      L.table(cols, cells);
     }
   } else if (doc0.measures.every((c) => c.measures.every((m) => m.status !== 'ok'))) {
-    paragraph('', 'Not measured: no steps were marked on this visit’s clips, so there are no figures yet.');
+    const empty = 'Not measured: no steps were marked on this visit’s clips, so there are no figures yet.';
+    L.heading(measuresTitle, L.paragraphLead(empty));
+    L.paragraph('', empty);
   } else {
-    for (const clip of doc0.measures) {
-      if (doc0.measures.length > 1) {
-        ensure(40);
-        doc.font('semibold').fontSize(10.5).fillColor(INK).text(clip.heading, MARGIN, doc.y + 4, { width });
-        doc.moveDown(0.3);
-      }
+    const cols = [
+      { title: 'Measure', width: 150 },
+      { title: 'Mean ± SD (steps)', width: 105 },
+      { title: 'Reference band', width: 150 },
+      { title: 'Where it sits', width: width - 405 },
+    ];
+    doc0.measures.forEach((clip, i) => {
       const measured = clip.measures.filter((m) => m.status === 'ok');
+      const rows = measured.map((m) => [labelOf(m), `${formatMeasure(m)} (n = ${m.n})`, m.band ? bandCell(m.band.band) : 'None', m.band ? POSITION_TEXT[m.band.position] : '']);
+      const empty = 'Not measured: no steps were marked on this clip.';
+      const lead = measured.length ? L.tableLead(cols, rows) : L.paragraphLead(empty);
+      const sub = doc0.measures.length > 1 ? 30 : 0;
+      if (i === 0) L.heading(measuresTitle, sub + lead);
+      if (sub) L.subheading(clip.heading, lead);
       if (measured.length === 0) {
-        paragraph('', 'Not measured: no steps were marked on this clip.');
-        continue;
+        L.paragraph('', empty);
+        return;
       }
-      table(
-        [
-          { title: 'Measure', width: 140 },
-          { title: 'Mean ± SD (steps)', width: 95 },
-          { title: 'Reference band', width: 75 },
-          { title: 'Where it sits', width: 55 },
-          { title: 'Source', width: width - 365 },
-        ],
-        measured.map((m) => {
-          if (m.band) sources.set(m.band.band.source, `${m.band.band.source} [${m.band.band.evidence}]`);
-          const label = `${m.label}${m.side ? ` (${sideWord(m.side)})` : ''}`;
-          return [label, `${formatMeasure(m)} (n = ${m.n})`, m.band ? pdfSafe(bandRange(m.band.band)) : 'None', m.band ? POSITION_TEXT[m.band.position] : '', m.band ? m.band.band.source : ''];
-        }),
-      );
+      L.table(cols, rows);
       const missing = clip.measures.length - measured.length;
       if (missing > 0) {
-        doc.font('italic').fontSize(9).fillColor(MUTED).text(`${missing} further ${missing === 1 ? 'measure was' : 'measures were'} not measured (no marked steps) and ${missing === 1 ? 'is' : 'are'} left out.`, MARGIN, doc.y + 4, { width });
+        const note = `${missing} further ${missing === 1 ? 'measure was' : 'measures were'} not measured (no marked steps) and ${missing === 1 ? 'is' : 'are'} left out.`;
+        doc.font('italic').fontSize(9);
+        L.ensure(doc.heightOfString(note, { width }) + 4);
+        doc.fillColor(MUTED).text(note, MARGIN, doc.y + 4, { width });
       }
-    }
+    });
   }
   await onProgress?.(0.3);
 
   // ── Stills ──
-  if (doc0.stills.length) {
-    heading('Annotated stills');
-    for (const [i, still] of doc0.stills.entries()) {
-      // Two stills fit a page; the caption is part of the rendered image.
-      const scale = Math.min(width / still.width, 300 / still.height);
-      const w = still.width * scale;
-      const h = still.height * scale;
-      ensure(h + 14);
-      const y = doc.y + 4;
-      doc.image(still.image, MARGIN + (width - w) / 2, y, { width: w, height: h });
-      doc.rect(MARGIN + (width - w) / 2, y, w, h).lineWidth(0.5).strokeColor(RULE).stroke();
-      doc.x = MARGIN;
-      doc.y = y + h + 10;
-      await onProgress?.(0.3 + (0.5 * (i + 1)) / doc0.stills.length);
-    }
+  // Two stills fit a page; the caption is part of the rendered image.
+  const placed = doc0.stills.map((still) => {
+    const scale = Math.min(width / still.width, 300 / still.height);
+    return { still, w: still.width * scale, h: still.height * scale };
+  });
+  for (const [i, { still, w, h }] of placed.entries()) {
+    if (i === 0) L.heading('Annotated stills', h + 14);
+    else L.ensure(h + 14);
+    const y = doc.y + 4;
+    doc.image(still.image, MARGIN + (width - w) / 2, y, { width: w, height: h });
+    doc.rect(MARGIN + (width - w) / 2, y, w, h).lineWidth(0.5).strokeColor('#C9D4D0').stroke();
+    doc.x = MARGIN;
+    doc.y = y + h + 10;
+    await onProgress?.(0.3 + (0.5 * (i + 1)) / placed.length);
   }
 
   // ── Plan ──
-  heading('Plan');
-  paragraph(doc0.planText, 'No plan written for this visit.');
+  const plan = printable(doc0.planText);
+  L.heading('Plan', L.paragraphLead(plan));
+  L.paragraph(plan, 'No plan written for this visit.');
 
   // ── Sources ──
-  if (sources.size) {
-    heading('Sources of reference bands and thresholds');
-    doc.font('regular').fontSize(9).fillColor(INK);
-    for (const s of [...sources.values()].sort()) {
-      ensure(20);
-      doc.text(`• ${s}`, MARGIN, doc.y, { width });
+  const list = sources.entries();
+  if (list.length) {
+    doc.font('regular').fontSize(9);
+    const item = (e: { n: number; text: string }) => `[${e.n}] ${e.text}`;
+    L.heading('Sources of reference bands and thresholds', doc.heightOfString(item(list[0]!), { width }) + 2);
+    for (const e of list) {
+      doc.font('regular').fontSize(9);
+      L.ensure(doc.heightOfString(item(e), { width }) + 2);
+      doc.fillColor(INK).text(item(e), MARGIN, doc.y, { width });
+      doc.y += 2;
     }
-    doc.font('italic').fontSize(8.5).fillColor(MUTED).text('[pub] as published · [mem] from memory, check before clinical use · [trade] common practice · [calc] derived from a published figure', MARGIN, doc.y + 4, { width });
   }
 
   // ── Footer on every page ──
@@ -269,7 +263,7 @@ export async function renderSummaryPdf(doc0: SummaryDocument, onProgress?: (f: n
     // Writing in the bottom margin must not start a new page.
     const savedBottom = doc.page.margins.bottom;
     doc.page.margins.bottom = 0;
-    doc.font('regular').fontSize(8).fillColor(MUTED).text(`${doc0.athleteName} · ${doc0.title} · ${doc0.clinicName} · page ${i + 1} of ${range.count}`, MARGIN, y, { width, align: 'center', lineBreak: false });
+    doc.font('regular').fontSize(8).fillColor(MUTED).text(`${athleteName} · ${doc0.title} · ${clinicName} · page ${i + 1} of ${range.count}`, MARGIN, y, { width, align: 'center', lineBreak: false });
     doc.page.margins.bottom = savedBottom;
   }
   doc.end();

@@ -45,13 +45,13 @@ export function displayDate(isoDate: string): string {
 }
 
 /**
- * A still's panel: one frame's landmarks, scale bar, side and direction frozen as they are now,
+ * A still's panel: one frame's landmarks, scale bar, angle gauges, side and direction frozen as they are now,
  * with the heading drawn above it ("Baseline · 6 Oct 2026 · Right toe-off · 0.85 s"). Pure.
  */
 export function freezePanel(p: {
   clip: { id: number; assessmentId: number; nearSide: Side; direction: Direction };
   assessment: { kind: AssessmentKind; date: string };
-  annotations: Pick<ClipAnnotations, 'landmarks' | 'events' | 'scale'>;
+  annotations: Pick<ClipAnnotations, 'landmarks' | 'events' | 'scale' | 'gauges'>;
   frameIndex: number;
   frameSize: { width: number; height: number };
   timeS: number;
@@ -70,6 +70,7 @@ export function freezePanel(p: {
     nearSide: p.clip.nearSide,
     direction: p.clip.direction,
     scale: p.annotations.scale && p.annotations.scale.frame === p.frameIndex ? p.annotations.scale : null,
+    gauges: (p.annotations.gauges ?? []).filter((g) => g.frame === p.frameIndex),
   };
 }
 
@@ -241,7 +242,7 @@ export function stillsService(d: StillsDeps) {
       const inputs = panels.map((p) => {
         const image = path.join(d.store.clipDir(p.clipId), FRAMES_DIR, frameFileName(p.frameIndex));
         if (!fs.existsSync(image)) throw new PermanentJobError('A frame of this still is gone (its clip was deleted or re-processed). Save the still again.');
-        return { image, frameSize: p.frameSize, landmarks: p.landmarks, nearSide: p.nearSide, direction: p.direction, scale: p.scale, heading: p.heading };
+        return { image, frameSize: p.frameSize, landmarks: p.landmarks, nearSide: p.nearSide, direction: p.direction, scale: p.scale, gauges: p.gauges, heading: p.heading };
       });
       const version = row.render_version;
       const out = await renderStill({

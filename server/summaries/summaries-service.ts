@@ -22,6 +22,8 @@ import type { StillsService } from '../stills/stills-service';
 import { displayDate } from '../stills/stills-service';
 import { SUMMARY_CAUTION, renderSummaryPdf, type SummaryVisit } from '../render/summary-pdf';
 import { summariesRepository as repo, summaryFile, type SummaryRow } from './summaries-repository';
+import { summaryFileName, type SummaryFileName } from './summary-file-name';
+import { clinicBands } from '../measures/reference-bands';
 
 export const RENDER_SUMMARY_JOB = 'render_summary';
 export const SUMMARIES_DIR = 'summaries';
@@ -139,14 +141,21 @@ export function summariesService(d: SummariesDeps) {
       await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'summary.deleted', detail: { summaryId: id } });
     },
 
-    /** The PDF of a ready summary; logs an athlete's view. */
-    async pdfPath(user: SessionUser, id: number): Promise<{ file: string; row: SummaryRow }> {
+    /** The PDF of a ready summary and its download name (athlete, visit, date); logs an athlete's view. */
+    async pdfPath(user: SessionUser, id: number): Promise<{ file: string; row: SummaryRow; fileName: SummaryFileName }> {
       const row = await accessibleSummary(user, id);
       if (row.status !== 'ready') throw new NotFoundError('Visit summary PDF');
       const file = path.join(folder(row.assessment_id), summaryFile(id));
       if (!fs.existsSync(file)) throw new NotFoundError('Visit summary PDF');
       if (!isStaff(user)) await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'summary.viewed', detail: { summaryId: id } });
-      return { file, row };
+      const athlete = await db('athletes').where({ id: row.athlete_id }).first<{ first_name: string; last_name: string }>('first_name', 'last_name');
+      const visit = await db<AssessmentRow>('assessments').where({ id: row.assessment_id }).first();
+      const fileName = summaryFileName({
+        athleteName: `${athlete.first_name} ${athlete.last_name}`,
+        what: row.baseline_assessment_id ? 'Re-test comparison' : `${visit ? ASSESSMENT_KIND_LABELS[visit.kind] : 'Visit'} visit summary`,
+        date: visit?.date ?? '',
+      });
+      return { file, row, fileName };
     },
 
     /** The render job: gather visit facts, measures and stills → PDF, with progress. */
@@ -192,6 +201,7 @@ export function summariesService(d: SummariesDeps) {
           visits: baseline ? [visitOf(baseline), visitOf(assessment)] : [visitOf(assessment)],
           measures,
           comparison,
+          bands: await clinicBands(db, row.clinic_id),
           stills,
           findings: row.findings,
           planText: row.plan_text,

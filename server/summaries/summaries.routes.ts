@@ -4,6 +4,7 @@ import { idParam, parse } from '../http/validate';
 import { sendPrivateFile } from '../stills/stills.routes';
 import type { SummariesService } from './summaries-service';
 import { SummaryCreateBody } from './summaries-schemas';
+import { contentDisposition } from './summary-file-name';
 
 /** Visit summaries: staff create, publish and delete; the athlete reads published ones. */
 export function summariesRoutes(summaries: SummariesService): Router {
@@ -38,12 +39,11 @@ export function summariesRoutes(summaries: SummariesService): Router {
 
   router.get('/summaries/:id/pdf', requireSignedIn, async (req, res, next) => {
     const id = idParam(req.params, 'Visit summary');
-    const { file, row } = await summaries.pdfPath(currentUser(req), id);
-    const name = `visit-summary-${row.id}.pdf`;
+    const { file, fileName } = await summaries.pdfPath(currentUser(req), id);
     const download = req.query['download'] === '1';
     // Opened in a tab of our own origin (the preview); never framed elsewhere.
     res.setHeader('Content-Security-Policy', "default-src 'none'; frame-ancestors 'self'");
-    sendPrivateFile(res, next, file, 'application/pdf', `${download ? 'attachment' : 'inline'}; filename="${name}"`);
+    sendPrivateFile(res, next, file, 'application/pdf', contentDisposition(download ? 'attachment' : 'inline', fileName));
   });
 
   return router;

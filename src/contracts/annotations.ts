@@ -58,6 +58,20 @@ export interface ScaleBar {
   lengthM: number;
 }
 
+/**
+ * Angle gauge: any angle on one frame from three points — an arm end, the vertex, the other arm
+ * end (placed in that order with three clicks). Several per frame; `id` is made by the client and
+ * kept across saves, so edits merge like landmarks.
+ */
+export interface AngleGauge {
+  /** 1–40 letters, digits, `-` or `_`; unique within the clip. */
+  id: string;
+  frame: number;
+  a: FramePoint;
+  vertex: FramePoint;
+  b: FramePoint;
+}
+
 /** Everything marked on one clip, with a revision for optimistic concurrency. */
 export interface ClipAnnotations {
   clipId: number;
@@ -66,6 +80,8 @@ export interface ClipAnnotations {
   landmarks: FrameLandmarks[];
   events: GaitEventMark[];
   scale: ScaleBar | null;
+  /** Angle gauges (the server always sends the list; older copies may lack it = none). */
+  gauges?: AngleGauge[];
   updatedAt: string | null;
   updatedByName: string | null;
 }
@@ -77,6 +93,8 @@ export interface ClipAnnotationsWrite {
   landmarks: FrameLandmarks[];
   events: GaitEventMark[];
   scale: ScaleBar | null;
+  /** Angle gauges; left out = none (replaced like everything else). */
+  gauges?: AngleGauge[];
 }
 
 /** Limits the server enforces (and the client respects). */
@@ -84,4 +102,5 @@ export const ANNOTATION_LIMITS = {
   landmarkFrames: 20_000,
   events: 2_000,
   scaleLengthM: { min: 0.05, max: 10 },
+  gauges: 1_000,
 } as const;

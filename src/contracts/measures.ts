@@ -109,7 +109,30 @@ export interface MeasurementErrorThreshold {
   derivation: string;
 }
 
-export type ComparisonVerdict = 'beyond_measurement_error' | 'within_measurement_error' | 'no_threshold' | 'not_measured';
+/**
+ * Whether a change is larger than the published measurement error. `too_few_steps`: a visit's mean
+ * averages fewer than 7 steps, fewer than the published thresholds assume (Dingenen et al. 2018).
+ */
+export type ComparisonVerdict = 'beyond_measurement_error' | 'within_measurement_error' | 'too_few_steps' | 'no_threshold' | 'not_measured';
+
+/**
+ * Which way a change went: `better` / `worse` for a measure with a better direction (a cited
+ * target, {@link BetterDirection}), `larger` / `smaller` for the others (or when both visits are
+ * already on target), `unchanged` when the change as shown is zero.
+ */
+export type ChangeDirection = 'better' | 'worse' | 'larger' | 'smaller' | 'unchanged';
+
+/** The values a measure is better nearer to, with why and its source. */
+export interface BetterDirection {
+  /** Target range in the measure's unit (null = open): nearer is better; inside it, neither. */
+  low: number | null;
+  high: number | null;
+  /** In words, e.g. "more hip extension, up to about 10°". */
+  better: string;
+  source: string;
+  /** REFERENCES.md tag. */
+  evidence: 'pub' | 'mem' | 'trade' | 'calc';
+}
 
 /** One measure and side, baseline against re-test. */
 export interface ComparisonRow {
@@ -117,14 +140,24 @@ export interface ComparisonRow {
   side: Side | null;
   label: string;
   unit: string;
-  /** Mean of the visit's clip means; null when not measured. */
+  /** The visit's mean: its clips' means weighted by their step counts; null when not measured. */
   baseline: number | null;
   retest: number | null;
-  /** Re-test − baseline; null when either is missing. */
+  /** Steps behind each visit's mean (all clips); 0 when not measured. */
+  baselineSteps: number;
+  retestSteps: number;
+  /**
+   * Re-test − baseline of the two means AS SHOWN (each rounded to its unit's decimals), so the
+   * columns subtract and the verdict judges the number on screen; null when either is missing.
+   */
   change: number | null;
   /** Null when no published threshold exists for this measure. */
   threshold: MeasurementErrorThreshold | null;
   verdict: ComparisonVerdict;
+  /** Which way the change went (null when not measured). */
+  direction: ChangeDirection | null;
+  /** Why one direction is better for this measure; null where neither is. */
+  betterDirection: BetterDirection | null;
 }
 
 /** A ready clip of a compared visit, for the side-by-side viewer. */

@@ -68,6 +68,7 @@ export const PLAN_LIMITS = {
     purpose: 300,
     instructionStep: 300,
     cautions: 600,
+    source: 300,
     tempo: 40,
     load: 60,
     planTitle: 100,
@@ -115,13 +116,19 @@ export interface Exercise {
   /** Step-by-step instructions, in order. */
   instructions: string[];
   cautions: string;
+  /**
+   * The published programme the exercise is written from, cited plainly for the staff (author
+   * year, journal; "from memory" where not re-read); empty for the clinic's own exercises.
+   */
+  source: string;
   /** Archived exercises stay on the plans that use them but leave the library. */
   archived: boolean;
   createdAt: string;
   updatedAt: string;
 }
 
-export type ExerciseWrite = Pick<Exercise, 'name' | 'purpose' | 'region' | 'kind' | 'dose' | 'instructions' | 'cautions'>;
+/** Body of POST/PATCH `/api/exercises`; `source` may be left out (stored empty). */
+export type ExerciseWrite = Pick<Exercise, 'name' | 'purpose' | 'region' | 'kind' | 'dose' | 'instructions' | 'cautions'> & Partial<Pick<Exercise, 'source'>>;
 
 /** Query of the library search. */
 export interface ExerciseQuery {

@@ -7,6 +7,7 @@
  * and "above" name the three classes — the band's `context` says which is which.
  */
 import type { BandEvaluation, MeasureKey, ReferenceBand } from '../contracts/measures';
+import { roundForUnit } from './format';
 
 /** Unit strings used by measures and bands (they must match for a band to apply). */
 export const UNITS = {
@@ -27,13 +28,15 @@ export type FootStrike = 'rearfoot' | 'midfoot' | 'forefoot';
 /**
  * Foot-strike class from the foot angle at initial contact (heel→toe from horizontal, + toe up):
  * forefoot ≤ −0.8°, rearfoot ≥ 7.4°, midfoot between (Mo et al. 2021, Res Sports Med [pub]).
- * The cut-offs assume the angle is taken relative to the standing posture; Trailframe's foot angle
- * is relative to the horizontal unless the caller subtracts a standing-frame offset first.
+ * The SAME rule as the foot-angle band's flag ({@link bandPosition}: the angle as shown, to 0.1°,
+ * with the cut-offs belonging to the outer classes), so "−0.8° · forefoot" is never flagged
+ * "within" (midfoot). The cut-offs assume the angle is taken relative to the standing posture;
+ * Trailframe's foot angle is relative to the horizontal unless the caller subtracts a
+ * standing-frame offset first.
  */
-export function classifyFootStrike(footAngleDeg: number): FootStrike {
-  if (footAngleDeg <= FOOT_STRIKE_CUTOFFS_DEG.forefootAtOrBelow) return 'forefoot';
-  if (footAngleDeg >= FOOT_STRIKE_CUTOFFS_DEG.rearfootAtOrAbove) return 'rearfoot';
-  return 'midfoot';
+export function classifyFootStrike(footAngleDeg: number, band: ReferenceBand = FOOT_STRIKE_BAND): FootStrike {
+  const position = bandPosition(footAngleDeg, band);
+  return position === 'below' ? 'forefoot' : position === 'above' ? 'rearfoot' : 'midfoot';
 }
 
 /** Duty-factor cut-offs at 12 km/h, percent (Patoz et al. 2019, Sports 7:233 [pub]). */
@@ -118,15 +121,36 @@ export const DEFAULT_REFERENCE_BANDS: ReferenceBand[] = [
   },
 ];
 
+/** The default foot-strike band (Mo et al. 2021 cut-offs), which {@link classifyFootStrike} uses. */
+const FOOT_STRIKE_BAND: ReferenceBand = DEFAULT_REFERENCE_BANDS.find((b) => b.key === 'foot_angle_initial_contact')!;
+
 /**
- * Where a value sits against a band: below `low`, above `high`, else within (limits inclusive; a
- * null limit is open). Null when the value is not a finite number.
+ * Bands whose limits belong to the classes outside them: Mo et al. 2021 put −0.8° in forefoot and
+ * 7.4° in rearfoot (≤ / ≥). Every other band includes its limits (Patoz et al. 2019: aerial
+ * < 27.6 %, terrestrial > 28.8 %; mean ± 1 SD bands; "at least 10°").
  */
-export function evaluateBand(value: number, band: ReferenceBand): BandEvaluation | null {
+export const BAND_LIMITS_OUTSIDE: ReadonlySet<MeasureKey> = new Set<MeasureKey>(['foot_angle_initial_contact']);
+
+/**
+ * THE rule that places a value against a band, used by every band flag and class: the value is
+ * taken as it is shown (rounded to its unit's decimals by the one rounding rule, so "7.4°" is
+ * judged as 7.4 whatever binary dust it carries), then below `low` / above `high` / within; a
+ * null limit is open; at a limit it is within, except for {@link BAND_LIMITS_OUTSIDE}. Null when
+ * the value is not a finite number.
+ */
+export function bandPosition(value: number, band: ReferenceBand): BandEvaluation['position'] | null {
   if (!Number.isFinite(value)) return null;
-  if (band.low !== null && value < band.low) return { band, position: 'below' };
-  if (band.high !== null && value > band.high) return { band, position: 'above' };
-  return { band, position: 'within' };
+  const v = roundForUnit(value, band.unit);
+  const outside = BAND_LIMITS_OUTSIDE.has(band.key);
+  if (band.low !== null && (v < band.low || (outside && v === band.low))) return 'below';
+  if (band.high !== null && (v > band.high || (outside && v === band.high))) return 'above';
+  return 'within';
+}
+
+/** Where a value sits against a band, by {@link bandPosition}; null when the value is not finite. */
+export function evaluateBand(value: number, band: ReferenceBand): BandEvaluation | null {
+  const position = bandPosition(value, band);
+  return position === null ? null : { band, position };
 }
 
 /** The first band in `bands` for `key` whose unit matches `unit` (the clinic's order decides). */

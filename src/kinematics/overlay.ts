@@ -9,11 +9,14 @@
  * the running direction → signed angles), so a label at an event frame equals that step's value
  * in the measures, rounded to one decimal.
  */
-import type { FrameLandmarks, LandmarkName, ScaleBar } from '../contracts/annotations';
+import type { AngleGauge, FrameLandmarks, LandmarkName, ScaleBar } from '../contracts/annotations';
 import type { Direction, Side } from '../contracts/assessment';
 import type { PoseAngles } from './angles';
 import { frameToPixel, isFinitePoint, type Point } from './geometry';
+import { drawGauges, gaugeLayout, type OverlayGauge } from './overlay-gauges';
 import { frameAngles } from './pose';
+import { formatNumber } from './format';
+import { separateLabels } from './overlay-labels';
 import { round1 } from './stats';
 
 /** The subset of CanvasRenderingContext2D the overlay uses (the browser's and @napi-rs/canvas fit). */
@@ -63,6 +66,42 @@ export interface OverlayOptions {
   markerRadiusPx?: number;
   /** Which sides get angle arcs: the near side only (default, uncluttered) or both. */
   angleSides?: 'near' | 'both';
+  /**
+   * View pixels per frame pixel (the canvas's displayed width ÷ the frame's width). When set,
+   * labels, markers and lines are sized in VIEW pixels — labels {@link VIEW_LABEL_PX} px, never
+   * under {@link MIN_VIEW_LABEL_PX} — so a frame shown small (side by side, on a phone) keeps
+   * readable labels. Without it sizes follow the frame (stills, the review at 100 %).
+   */
+  viewScale?: number;
+  /** Angle gauges of the frame being drawn (drawn whether or not `showAngles`). */
+  gauges?: readonly AngleGauge[];
+  /** The gauge being edited, highlighted. */
+  selectedGauge?: string | null;
+}
+
+/** Label size in view pixels when `viewScale` is given. */
+export const VIEW_LABEL_PX = 13;
+/** The smallest label size, in view pixels, the overlay draws when `viewScale` is given. */
+export const MIN_VIEW_LABEL_PX = 12;
+
+/** Marker radius, label font and line width in frame pixels for one frame and view. */
+export function overlaySizes(frameSize: { width: number; height: number }, viewScale?: number, markerRadiusPx?: number): { markerRadius: number; fontPx: number; lineWidth: number; arcRadius: number } {
+  const minDim = Math.max(1, Math.min(frameSize.width, frameSize.height));
+  if (viewScale !== undefined && Number.isFinite(viewScale) && viewScale > 0) {
+    const px = (view: number) => view / viewScale;
+    return {
+      markerRadius: markerRadiusPx ?? px(4.5),
+      fontPx: px(Math.max(MIN_VIEW_LABEL_PX, VIEW_LABEL_PX)),
+      lineWidth: px(2.5),
+      arcRadius: Math.max(px(18), minDim * 0.05),
+    };
+  }
+  return {
+    markerRadius: markerRadiusPx ?? Math.max(3, Math.round(minDim * 0.006 * 10) / 10),
+    fontPx: Math.max(11, Math.round(minDim * 0.026)),
+    lineWidth: Math.max(1.5, Math.round(minDim * 0.0035 * 10) / 10),
+    arcRadius: Math.max(16, minDim * 0.05),
+  };
 }
 
 /** Colours (DESIGN.md): left limb violet, right limb amber, trunk slate. */
@@ -156,17 +195,19 @@ export interface OverlayLayout {
   segments: OverlaySegment[];
   angles: OverlayAngle[];
   scaleBar: { x1: number; y1: number; x2: number; y2: number; tick: number; text: string; x: number; y: number } | null;
+  gauges: OverlayGauge[];
   style: { fontPx: number; font: string; lineWidth: number; markerRadius: number };
 }
 
 /**
  * Label text of an angle: hip "26.6° flex" / "22.5° ext" (thigh from vertical), knee "12.5°"
  * (flexion; "−2.0°" for hyperextension), ankle "0.7° DF" / "3.2° PF". The number is the angle
- * rounded to one decimal (half away from zero), so it equals the rounded measure.
+ * rounded to one decimal by the one rule of `formatNumber` (half away from zero on the decimal
+ * text), so it equals the rounded measure in the panel, the comparison and the PDF.
  */
 export function formatAngleLabel(joint: OverlayJoint, deg: number): string {
   const r = round1(deg);
-  const abs = Math.abs(r).toFixed(1);
+  const abs = formatNumber(Math.abs(r), 1);
   if (joint === 'knee') return `${r < 0 ? '−' : ''}${abs}°`;
   if (r === 0) return `${abs}°`;
   if (joint === 'hip') return `${abs}° ${r > 0 ? 'flex' : 'ext'}`;
@@ -209,10 +250,7 @@ function arcBetween(c: Point, u: Point, v: Point, radius: number, labelGap: numb
  */
 export function overlayLabelPositions(opts: OverlayOptions): OverlayLayout {
   const { frameSize } = opts;
-  const minDim = Math.max(1, Math.min(frameSize.width, frameSize.height));
-  const markerRadius = opts.markerRadiusPx ?? Math.max(3, Math.round(minDim * 0.006 * 10) / 10);
-  const fontPx = Math.max(11, Math.round(minDim * 0.026));
-  const lineWidth = Math.max(1.5, Math.round(minDim * 0.0035 * 10) / 10);
+  const { markerRadius, fontPx, lineWidth, arcRadius } = overlaySizes(frameSize, opts.viewScale, opts.markerRadiusPx);
   const font = `600 ${fontPx}px ${opts.fontFamily ?? DEFAULT_OVERLAY_FONT}`;
 
   const bySide: Partial<Record<Side, Partial<Record<LandmarkName, Point>>>> = {};
@@ -245,7 +283,7 @@ export function overlayLabelPositions(opts: OverlayOptions): OverlayLayout {
     }
     const ang = angles[side];
     if (!ang || (!near && (opts.angleSides ?? 'near') === 'near')) continue;
-    const r = Math.max(16, minDim * 0.05);
+    const r = arcRadius;
     const gap = fontPx * 0.4;
     const { hip, knee, ankle, heel, toe } = pts;
     if (ang.thighDeg !== undefined && hip && knee) {
@@ -287,7 +325,8 @@ export function overlayLabelPositions(opts: OverlayOptions): OverlayLayout {
       y: (a.y + b.y) / 2 + ny * off,
     };
   }
-  return { markers, segments, angles: arcs, scaleBar, style: { fontPx, font, lineWidth, markerRadius } };
+  const gauges = gaugeLayout(opts.gauges ?? [], frameSize, fontPx, opts.selectedGauge ?? null);
+  return { markers, segments, angles: separateLabels(arcs, fontPx), scaleBar, gauges, style: { fontPx, font, lineWidth, markerRadius } };
 }
 
 function line(ctx: Canvas2DLike, x1: number, y1: number, x2: number, y2: number): void {
@@ -310,8 +349,8 @@ function label(ctx: Canvas2DLike, text: string, x: number, y: number, align: Ove
 /**
  * Draws markers (circles with a contrasting outline), segments (trunk slate; limbs violet left,
  * amber right; far side lighter and thinner), the selected-landmark highlight, angle arcs with
- * degree labels, and the scale bar with its length — in frame pixels on any {@link Canvas2DLike}.
- * Leaves the context's state as it found it (save/restore).
+ * degree labels, the scale bar with its length and the angle gauges with their values — in frame
+ * pixels on any {@link Canvas2DLike}. Leaves the context's state as it found it (save/restore).
  */
 export function drawOverlay(ctx: Canvas2DLike, opts: OverlayOptions): void {
   const L = overlayLabelPositions(opts);
@@ -411,5 +450,8 @@ export function drawOverlay(ctx: Canvas2DLike, opts: OverlayOptions): void {
     }
     label(ctx, sb.text, sb.x, sb.y, 'center', Math.max(2, fontPx * 0.25));
   }
+
+  // 6. Angle gauges.
+  drawGauges(ctx, L.gauges, L.style);
   ctx.restore();
 }

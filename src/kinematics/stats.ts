@@ -1,6 +1,7 @@
 /**
  * Small descriptive statistics used by the measures. Pure.
  */
+import { roundHalfAway } from './format';
 
 /** Arithmetic mean; null for an empty list. */
 export function mean(values: readonly number[]): number | null {
@@ -36,8 +37,7 @@ export function symmetryIndexPct(left: number, right: number): number | null {
   return (Math.abs(left - right) / ((left + right) / 2)) * 100;
 }
 
-/** Rounds to one decimal the way labels show numbers (half away from zero; −0 → 0). */
+/** Rounds to one decimal the way every label shows numbers ({@link roundHalfAway}: half away from zero on the decimal text; −0 → 0). */
 export function round1(v: number): number {
-  const r = Math.sign(v) * Math.round(Math.abs(v) * 10) / 10;
-  return r === 0 ? 0 : r;
+  return roundHalfAway(v, 1);
 }

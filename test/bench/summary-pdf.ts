@@ -47,7 +47,7 @@ const base: SummaryDocument = {
   measures: [{ heading: 'Clip 1 of 1', measures: measures.measures }],
   comparison: null,
   stills,
-  findings: 'Hip extension at toe-off has improved; the lower back no longer arches to make up for it. '.repeat(4),
+  findings: 'Hip extension at toe-off has improved; the push-off is no longer cut short after the strain. '.repeat(4),
   planText: 'Stage 2 (eccentric): slow split-squat lowering, 3 × 8, three times a week; drills before easy runs. '.repeat(3),
   caution: SUMMARY_CAUTION,
 };

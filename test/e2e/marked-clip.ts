@@ -7,12 +7,13 @@ import { generateRunnerClip } from '../../scripts/demo-clip/clip';
 import { marksFromTruth } from '../../scripts/demo-clip/demo-marks';
 
 /**
- * Renders a 2 s synthetic runner clip (scripts/demo-clip; known hip extension at toe-off), uploads
- * it to the assessment through the API, waits until its frames are ready, and marks every frame
- * from the generator's ground truth as a coach would. Returns the clip id.
+ * Renders a synthetic runner clip (scripts/demo-clip; known hip extension at toe-off; 6 s by
+ * default: 8 toe-offs a side, past the 7 steps a published measurement error assumes), uploads it
+ * to the assessment through the API, waits until its frames are ready, and marks every frame from
+ * the generator's ground truth as a coach would. Returns the clip id.
  */
-export async function uploadMarkedClip(api: Client, assessmentId: number, file: string, hipExtensionDeg: number): Promise<number> {
-  const truth = await generateRunnerClip({ fps: 60, width: 640, height: 360, seconds: 2, hipExtensionDeg, facing: 'right', beltSpeedMps: 3, outFile: file, preset: 'ultrafast' });
+export async function uploadMarkedClip(api: Client, assessmentId: number, file: string, hipExtensionDeg: number, seconds = 6): Promise<number> {
+  const truth = await generateRunnerClip({ fps: 60, width: 640, height: 360, seconds, hipExtensionDeg, facing: 'right', beltSpeedMps: 3, outFile: file, preset: 'ultrafast' });
   const up = await api.agent.post(`/api/assessments/${assessmentId}/clips`).set('X-XSRF-TOKEN', await api.xsrf()).attach('file', file);
   const clipId = up.body.id as number;
   for (let i = 0; ; i++) {

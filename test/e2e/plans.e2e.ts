@@ -1,6 +1,6 @@
 /**
  * Plans in Debian chromium: the coach builds a three-stage plan from the exercise library for the
- * demo athlete with high-hamstring pain and starts it; the athlete logs two sessions on a phone
+ * demo athlete recovering from a hamstring strain and starts it; the athlete logs two sessions on a phone
  * (390×844) — one with the next-morning check, one sent through a dropped connection and a lost
  * answer without making a duplicate; the coach sees adherence and the pain chart, and the rise in
  * pain raises alerts on the roster, the profile and the plan, each naming the rule that fired.
@@ -114,9 +114,11 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await page.getByRole('option', { name: 'Hamstring' }).click();
     await page.getByRole('combobox', { name: 'Kind of loading' }).click();
     await page.getByRole('option', { name: 'Isometric' }).click();
-    await expect.poll(() => page.getByRole('list', { name: 'Exercises' }).getByRole('heading').allTextContents()).toEqual(['Hip-hinge hold', 'Long-lever hamstring bridge hold']);
+    await expect.poll(() => page.getByRole('list', { name: 'Exercises' }).getByRole('heading').allTextContents()).toEqual(['Bent-knee bridge hold', 'Prone hamstring hold']);
     await page.getByRole('button', { name: 'How to do it' }).first().click();
     expect(await page.getByText('Stop an exercise that causes sharp or worsening pain').count()).toBe(1);
+    // The staff see where the exercise comes from (REFERENCES.md, Goom et al. 2016 [mem]).
+    await expect.poll(() => page.getByText(/^Source\s+Goom, Malliaras, Reiman & Purdam 2016, J Orthop Sports Phys Ther/).count()).toBe(1);
     await fullShot(page, 'plans-library.png');
 
     // A new exercise in our own words; a negative dose is refused in the form.
@@ -130,6 +132,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await dialog.getByLabel('Purpose').fill('Builds calf strength through the whole range.');
     await dialog.getByLabel('Sets').fill('-2');
     await dialog.getByLabel('Instructions').fill('Stand on the edge of a step.\nRise onto the balls of the feet.\nLower slowly.');
+    await dialog.getByLabel('Source (optional)').fill('Beyer et al. 2015, Am J Sports Med 43:1704–1711');
     await dialog.getByRole('button', { name: 'Add to library' }).click();
     await expect.poll(() => dialog.getByText('Min 1').count()).toBe(1);
     await fullShot(page, 'plans-exercise-dialog.png');
@@ -137,7 +140,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await dialog.getByRole('button', { name: 'Add to library' }).click();
     await expect.poll(() => page.getByRole('dialog').count()).toBe(0);
     const created = await h.server.db('exercises').where({ name: 'Standing calf raise' }).first();
-    expect(created).toMatchObject({ region: 'calf_achilles', kind: 'isotonic', sets: 3 });
+    expect(created).toMatchObject({ region: 'calf_achilles', kind: 'isotonic', sets: 3, source: 'Beyer et al. 2015, Am J Sports Med 43:1704–1711' });
     expect(JSON.parse(created.instructions)).toEqual(['Stand on the edge of a step.', 'Rise onto the balls of the feet.', 'Lower slowly.']);
     expect(problems).toEqual([]);
     await context.close();
@@ -149,20 +152,20 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await page.goto(`${h.baseUrl}/athletes/${adaId}?tab=plan`);
     await page.getByRole('link', { name: 'New plan' }).click();
     await page.waitForURL(/\/plans\/new\?athlete=/);
-    await page.getByLabel('Title').fill('High hamstring: staged loading');
+    await page.getByLabel('Title').fill('Hamstring strain: staged loading');
     await page.getByRole('combobox', { name: 'Came from assessment' }).click();
     await page.getByRole('option', { name: /Re-test/ }).click();
     await page.getByRole('button', { name: 'Start from three stages' }).click();
-    await pickExercise(page, 1, 'Long-lever hamstring bridge hold');
-    await pickExercise(page, 1, 'Hip-hinge hold');
-    await pickExercise(page, 2, 'Heel-slide hamstring lowers');
-    await pickExercise(page, 3, 'Split-stance hip-drive pulses');
-    await pickExercise(page, 3, 'Wall-supported hip-extension drill', 'wall');
-    // A prescription differs from the library default: 5 sets of the bridge hold.
-    await page.getByRole('listitem', { name: 'Long-lever hamstring bridge hold' }).getByLabel('Sets').fill('5');
+    await pickExercise(page, 1, 'Bent-knee bridge hold');
+    await pickExercise(page, 1, 'Prone hamstring hold');
+    await pickExercise(page, 2, 'Hip-flexed knee extension');
+    await pickExercise(page, 3, 'Springy skips');
+    await pickExercise(page, 3, 'Walk-jog return intervals', 'walk');
+    // A prescription differs from the library default: 6 sets of the bridge hold.
+    await page.getByRole('listitem', { name: 'Bent-knee bridge hold' }).getByLabel('Sets').fill('6');
     // Opening the picker again: the exercise already in the stage is marked, and offered "again".
     await page.getByRole('group', { name: 'Stage 1' }).getByRole('button', { name: 'Add exercise from library' }).click();
-    await expect.poll(() => page.getByRole('dialog').getByRole('button', { name: 'Add Hip-hinge hold again' }).count()).toBe(1);
+    await expect.poll(() => page.getByRole('dialog').getByRole('button', { name: 'Add Prone hamstring hold again' }).count()).toBe(1);
     await page.getByRole('dialog').getByRole('button', { name: 'Close' }).click();
     await expect.poll(() => page.getByRole('dialog').count()).toBe(0);
     await page.setViewportSize(DESKTOP);
@@ -178,11 +181,11 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     expect(stages.map((s) => s.name)).toEqual(['Isometric holds', 'Slow lengthening', 'Fast work and running drills']);
     const items = await h.server.db('stage_exercises as se').join('exercises as e', 'e.id', 'se.exercise_id').whereIn('se.stage_id', stages.map((s) => s.id)).orderBy(['se.stage_id', 'se.position']).select('e.name', 'se.sets');
     expect(items).toEqual([
-      { name: 'Long-lever hamstring bridge hold', sets: 5 },
-      { name: 'Hip-hinge hold', sets: 3 },
-      { name: 'Heel-slide hamstring lowers', sets: 3 },
-      { name: 'Split-stance hip-drive pulses', sets: 3 },
-      { name: 'Wall-supported hip-extension drill', sets: 3 },
+      { name: 'Bent-knee bridge hold', sets: 6 },
+      { name: 'Prone hamstring hold', sets: 4 },
+      { name: 'Hip-flexed knee extension', sets: 3 },
+      { name: 'Springy skips', sets: 4 },
+      { name: 'Walk-jog return intervals', sets: 1 },
     ]);
     const retest = await h.server.db('assessments').where({ athlete_id: adaId, kind: 'retest' }).first();
     expect((await h.server.db('plans').where({ id: planId }).first()).assessment_id).toBe(retest.id);

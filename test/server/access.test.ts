@@ -73,7 +73,7 @@ const ROUTES: RouteCase[] = [
   { method: 'get', pattern: '/api/athletes/:id', path: (c) => `/api/athletes/${c.selfAthleteId}`, expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 } },
   { method: 'get', pattern: '/api/athletes/:id', path: (c) => `/api/athletes/${c.otherAthleteId}`, expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 } },
   { method: 'patch', pattern: '/api/athletes/:id', path: (c) => `/api/athletes/${c.selfAthleteId}`, body: () => ({ firstName: 'Ada' }), expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 } },
-  { method: 'patch', pattern: '/api/athletes/:id', path: (c) => `/api/athletes/${c.otherAthleteId}`, body: () => ({ firstName: 'Bruno' }), expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 } },
+  { method: 'patch', pattern: '/api/athletes/:id', path: (c) => `/api/athletes/${c.otherAthleteId}`, body: () => ({ firstName: 'Teodor' }), expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 } },
   { method: 'put', pattern: '/api/athletes/:id/intake', path: (c) => `/api/athletes/${c.selfAthleteId}/intake`, body: () => intake, expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 } },
   { method: 'put', pattern: '/api/athletes/:id/intake', path: (c) => `/api/athletes/${c.otherAthleteId}/intake`, body: () => intake, expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 } },
   { method: 'post', pattern: '/api/athletes/:id/invitation', path: (c) => `/api/athletes/${c.otherAthleteId}/invitation`, expect: { ...staffOnly(201), coachOtherClinic: 404 } },
@@ -241,7 +241,7 @@ async function clientFor(app: Express, who: Who): Promise<Client> {
 beforeAll(async () => {
   t = await makeTestApp({ rateLimit: { signInAttempts: 1000, resetRequests: 1000, windowMs: 60_000 } }, { fakePayments: true });
   const self = await t.db('athletes').where({ email: athlete.email }).first();
-  const other = await t.db('athletes').where({ email: 'bruno.feldhaus@runner.test' }).first();
+  const other = await t.db('athletes').where({ email: 'teodor.brannick@runner.test' }).first();
   await t.db('mailbox_messages').insert({ to_address: 'a@x.test', from_address: 'b@x.test', subject: 'hi', text: 'hello', received_at: new Date().toISOString() });
   const mail = await t.db('mailbox_messages').first();
   ctx = { selfAthleteId: self.id, otherAthleteId: other.id, pendingInvitationId: 0, mailId: mail.id, assessmentId: 0, otherAssessmentId: 0, clipId: 0, scratchAssessmentId: 0, scratchClipId: 0 };

@@ -25,7 +25,7 @@ const intake = (over: Partial<AthleteIntake> = {}): AthleteIntake => ({
   goalDate: '2027-04-18',
   surfaces: ['trail', 'road'],
   injuries: [{ region: 'hamstring', side: 'left', when: '2026-03', status: 'recovering', notes: 'Proximal, sitting hurts' }],
-  pain: [{ region: 'hamstring', score: 3 }, { region: 'lower_back', score: 1 }],
+  pain: [{ region: 'hamstring', score: 3 }, { region: 'calf', score: 1 }],
   consents: { videoRecording: true, shareStills: false },
   ...over,
 });
@@ -100,7 +100,7 @@ describe('intake', () => {
       weeklyDistance: 50,
       longestRecentRun: 21.1,
       surfaces: ['trail', 'road'],
-      pain: [{ region: 'hamstring', score: 3 }, { region: 'lower_back', score: 1 }],
+      pain: [{ region: 'hamstring', score: 3 }, { region: 'calf', score: 1 }],
       maxPain: 3,
       videoConsent: true,
     });

@@ -19,7 +19,7 @@ let t: TestApp;
 let o: Client;
 let a: Client;
 let adaId: number;
-let brunoId: number;
+let teodorId: number;
 let prices: Price[];
 
 const due = '2026-12-31';
@@ -64,12 +64,12 @@ beforeAll(async () => {
   o = await signedIn(t.app, owner.email, owner.password);
   a = await signedIn(t.app, athlete.email, athlete.password);
   adaId = (await t.db('athletes').where({ email: athlete.email }).first()).id;
-  const bruno = await t.db('athletes').where({ email: 'bruno.feldhaus@runner.test' }).first();
-  brunoId = bruno.id;
-  // A second athlete account in the same clinic (Bruno), for "another athlete's invoice".
+  const teodor = await t.db('athletes').where({ email: 'teodor.brannick@runner.test' }).first();
+  teodorId = teodor.id;
+  // A second athlete account in the same clinic (Teodor), for "another athlete's invoice".
   const at = new Date().toISOString();
-  const [u] = await t.db('users').insert({ clinic_id: bruno.clinic_id, email: SECOND.email, name: 'Bruno F', role: 'athlete', password_hash: await hashPassword(SECOND.password), created_at: at, updated_at: at }).returning('id');
-  await t.db('athletes').where({ id: brunoId }).update({ user_id: (u as { id: number }).id });
+  const [u] = await t.db('users').insert({ clinic_id: teodor.clinic_id, email: SECOND.email, name: 'Teodor B', role: 'athlete', password_hash: await hashPassword(SECOND.password), created_at: at, updated_at: at }).returning('id');
+  await t.db('athletes').where({ id: teodorId }).update({ user_id: (u as { id: number }).id });
   prices = (await o.get('/api/prices')).body.prices;
 });
 afterAll(async () => {
@@ -211,7 +211,7 @@ describe('invoices', () => {
     expect(d.assessment).toEqual({ id: ada, kind: visit.kind, date: visit.date });
     expect((await o.get(`/api/invoices/${d.id}`)).body.assessment).toEqual({ id: ada, kind: visit.kind, date: visit.date });
     expect((await draft()).assessment).toBeNull();
-    const res = await o.post('/api/invoices', { athleteId: brunoId, assessmentId: ada, dueDate: due, note: null, lines: [line(price('Re-test'))] });
+    const res = await o.post('/api/invoices', { athleteId: teodorId, assessmentId: ada, dueDate: due, note: null, lines: [line(price('Re-test'))] });
     expect(res.status).toBe(422);
     expect(res.body.error.details[0].path).toEqual(['assessmentId']);
   });
@@ -234,13 +234,13 @@ describe('invoices', () => {
   it('lists with filters and totals; the athlete sees only their own issued invoices', async () => {
     const open = await issued();
     const d = await draft();
-    const bruno = await o.post('/api/invoices', { athleteId: brunoId, assessmentId: null, dueDate: due, note: null, lines: [line(price('Gait assessment'))] });
+    const teodor = await o.post('/api/invoices', { athleteId: teodorId, assessmentId: null, dueDate: due, note: null, lines: [line(price('Gait assessment'))] });
     const all = (await o.get('/api/invoices')).body;
     expect(all.invoices.length).toBeGreaterThanOrEqual(3);
     const sum = all.invoices.filter((i: InvoiceDetail) => i.status !== 'cancelled').reduce((s: number, i: InvoiceDetail) => s + i.totalMinor, 0);
     expect(all.totals.totalMinor).toBe(sum);
-    const drafts = (await o.get(`/api/invoices?status=draft&athleteId=${brunoId}`)).body;
-    expect(drafts.invoices.map((i: InvoiceDetail) => i.id)).toEqual([bruno.body.id]);
+    const drafts = (await o.get(`/api/invoices?status=draft&athleteId=${teodorId}`)).body;
+    expect(drafts.invoices.map((i: InvoiceDetail) => i.id)).toEqual([teodor.body.id]);
     expect(drafts.totals).toMatchObject({ count: 1, totalMinor: 14400, currency: 'EUR' });
     const today = new Date().toISOString().slice(0, 10);
     const madeToday = all.invoices.filter((i: InvoiceDetail) => i.createdAt.startsWith(today)).length;
@@ -253,7 +253,7 @@ describe('invoices', () => {
     const mine = (await a.get('/api/invoices')).body.invoices.map((i: InvoiceDetail) => i.id);
     expect(mine).toContain(open.id);
     expect(mine).not.toContain(d.id);
-    expect(mine).not.toContain(bruno.body.id);
+    expect(mine).not.toContain(teodor.body.id);
     expect((await a.get(`/api/invoices/${d.id}`)).status).toBe(404);
     const c = await signedIn(t.app, coach.email, coach.password);
     expect((await c.get('/api/invoices')).status).toBe(403);
@@ -328,8 +328,8 @@ describe('editing and deleting drafts', () => {
     await bad({ lines: [{ ...custom, priceId: 999_999 }] }, ['lines', 0, 'priceId']);
     await bad({ lines: [] }, ['lines']);
     await bad({ dueDate: '2026-13-01' }, ['dueDate']);
-    const brunos = (await t.db('assessments').where({ athlete_id: brunoId }).first())?.id ?? null;
-    if (brunos) await bad({ assessmentId: brunos }, ['assessmentId']);
+    const teodors = (await t.db('assessments').where({ athlete_id: teodorId }).first())?.id ?? null;
+    if (teodors) await bad({ assessmentId: teodors }, ['assessmentId']);
     expect((await o.get(`/api/invoices/${d.id}`)).body).toEqual(d);
   });
 

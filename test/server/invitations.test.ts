@@ -92,20 +92,20 @@ describe('athlete invitations (coach)', () => {
   it('links the new account to the athlete, who then sees only their own record', async () => {
     const c = await signedIn(t.app, coach.email, coach.password);
     const list = (await c.get('/api/athletes')).body.athletes as { id: number; email: string; hasAccount: boolean }[];
-    const bruno = list.find((a) => a.email === 'bruno.feldhaus@runner.test')!;
-    const inv = await c.post(`/api/athletes/${bruno.id}/invitation`);
+    const teodor = list.find((a) => a.email === 'teodor.brannick@runner.test')!;
+    const inv = await c.post(`/api/athletes/${teodor.id}/invitation`);
     expect(inv.status).toBe(201);
-    expect((await c.get(`/api/athletes/${bruno.id}`)).body.invitationPending).toBe(true);
+    expect((await c.get(`/api/athletes/${teodor.id}`)).body.invitationPending).toBe(true);
 
     const a = new Client(t.app);
-    const token = tokenOf(t.mailer.lastLinkTo('bruno.feldhaus@runner.test'));
-    const accepted = await a.post(`/api/invitations/${token}/accept`, { name: 'Bruno Feldhaus', password: 'masters-runner-1' });
-    expect(accepted.body.user).toMatchObject({ role: 'athlete', athleteId: bruno.id });
-    expect((await a.get(`/api/athletes/${bruno.id}`)).status).toBe(200);
+    const token = tokenOf(t.mailer.lastLinkTo('teodor.brannick@runner.test'));
+    const accepted = await a.post(`/api/invitations/${token}/accept`, { name: 'Teodor Brannick', password: 'knee-runner-1' });
+    expect(accepted.body.user).toMatchObject({ role: 'athlete', athleteId: teodor.id });
+    expect((await a.get(`/api/athletes/${teodor.id}`)).status).toBe(200);
     expect((await a.get('/api/athletes')).status).toBe(403);
-    const other = list.find((x) => x.id !== bruno.id)!;
+    const other = list.find((x) => x.id !== teodor.id)!;
     expect((await a.get(`/api/athletes/${other.id}`)).status).toBe(404);
-    expect((await c.post(`/api/athletes/${bruno.id}/invitation`)).status).toBe(409);
+    expect((await c.post(`/api/athletes/${teodor.id}/invitation`)).status).toBe(409);
   });
 
   it('needs an e-mail on the athlete (422)', async () => {

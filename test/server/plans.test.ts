@@ -7,7 +7,8 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { makeTestApp, OTHER, signedIn, type Client, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
-import { DEMO_EXERCISES } from '../../seeds/demo-plans';
+import { DEMO_EXERCISES } from '../../seeds/demo-exercises';
+import { seedDemoHamstringPlan } from '../../seeds/demo-plans';
 import type { Exercise, PlanDetail, PlanWrite, StageWrite } from '../../src/contracts/plans';
 import { DEFAULT_PAIN_RULE } from '../../src/contracts/plans';
 import { ExerciseBody } from '../../server/plans/plans-schemas';
@@ -45,18 +46,18 @@ function stage(name: string, exercises: string[], over: Partial<StageWrite> = {}
 
 function threeStages(over: Partial<PlanWrite> = {}): PlanWrite {
   return {
-    title: 'High hamstring: staged loading',
+    title: 'Hamstring strain: staged loading',
     assessmentId: null,
     notes: 'Coach-only note',
     stages: [
-      stage('Isometric holds', ['Long-lever hamstring bridge hold', 'Hip-hinge hold'], {
+      stage('Isometric holds', ['Bent-knee bridge hold', 'Prone hamstring hold'], {
         criteria: [
           { kind: 'pain_during_at_most', max: 3, sessions: 2 },
           { kind: 'settled_by_morning', sessions: 2 },
         ],
       }),
-      stage('Slow lengthening', ['Heel-slide hamstring lowers']),
-      stage('Fast and running drills', ['Split-stance hip-drive pulses', 'Wall-supported hip-extension drill']),
+      stage('Slow lengthening', ['Hip-flexed knee extension']),
+      stage('Fast and running drills', ['Springy skips', 'Walk-jog return intervals']),
     ],
     ...over,
   };
@@ -94,32 +95,73 @@ function logBody(plan: PlanDetail, over: Record<string, unknown> = {}) {
 const logCount = async () => Number((await t.db('log_entries').count({ n: '*' }))[0]!.n);
 
 describe('exercise library', () => {
-  it('seeds the clinic library in our own words, searchable by text, region and loading kind', async () => {
-    expect(library.map((e) => e.name)).toEqual(expect.arrayContaining(['Long-lever hamstring bridge hold', 'Heel-slide hamstring lowers', 'Split-stance hip-drive pulses', 'Wall-supported hip-extension drill', 'Hip-hinge hold']));
+  it('seeds the clinic library in our own words, searchable by text, region, loading kind and source', async () => {
+    expect(library.map((e) => e.name)).toEqual(expect.arrayContaining(['Bent-knee bridge hold', 'Hip-flexed knee extension', 'Gliding split', 'Nordic hamstring lowering', 'Heavy slow calf raise']));
     expect(library).toHaveLength(DEMO_EXERCISES.length);
     const iso = (await c.get('/api/exercises?kind=isometric&region=hamstring')).body.exercises.map((e: Exercise) => e.name);
-    expect(iso.sort()).toEqual(['Hip-hinge hold', 'Long-lever hamstring bridge hold']);
-    const text = (await c.get('/api/exercises?q=HEEL slide')).body.exercises.map((e: Exercise) => e.name);
-    expect(text).toEqual(['Heel-slide hamstring lowers']);
-    expect((await c.get('/api/exercises?q=%25')).body.exercises).toEqual([]);
+    expect(iso.sort()).toEqual(['Bent-knee bridge hold', 'Prone hamstring hold']);
+    const text = (await c.get('/api/exercises?q=HEEL drop')).body.exercises.map((e: Exercise) => e.name);
+    expect(text).toEqual(['Heel drop from a step, bent knee', 'Heel drop from a step, straight knee']);
+    // The source is searchable too: the three exercises of the lengthening programme.
+    const askling = (await c.get('/api/exercises?q=askling')).body.exercises.map((e: Exercise) => e.name);
+    expect(askling).toEqual(['Gliding split', 'Hip-flexed knee extension', 'Single-leg forward tilt with reach']);
+    // LIKE wildcards are matched literally: "%" finds only texts with a per cent sign, "_" none.
+    const percent = (await c.get('/api/exercises?q=%25')).body.exercises.map((e: Exercise) => e.name);
+    expect(percent).toEqual(['Step-rate run']);
+    expect((await c.get('/api/exercises?q=_')).body.exercises).toEqual([]);
     expect((await c.get('/api/exercises?kind=jumping')).status).toBe(422);
   });
 
+  it('every demo exercise cites a published programme of REFERENCES.md ("Published exercise programmes", from memory)', () => {
+    // Author, year and journal as REFERENCES.md lists them (all [mem] — from memory — except
+    // Heiderscheit et al. 2011, read in the publication [pub]).
+    const programmes = [
+      'Goom, Malliaras, Reiman & Purdam 2016, J Orthop Sports Phys Ther 46(6):483–493',
+      'Askling et al. 2013, Br J Sports Med 47:953–959',
+      'Sherry & Best 2004, J Orthop Sports Phys Ther 34:116–125',
+      'Petersen et al. 2011, Am J Sports Med 39:2296–2303',
+      'Alfredson et al. 1998, Am J Sports Med 26:360–366',
+      'Beyer et al. 2015, Am J Sports Med 43:1704–1711',
+      'Heiderscheit et al. 2011, Med Sci Sports Exerc 43(2):296–302',
+      'Crossley et al. 2016, Br J Sports Med 50:839–843',
+      'Rio et al. 2015, Br J Sports Med 49:1277–1283',
+      'Heiderscheit et al. 2010, J Orthop Sports Phys Ther 40(2):67–81',
+    ];
+    for (const e of DEMO_EXERCISES) {
+      const cited = programmes.filter((p) => e.source.startsWith(p));
+      expect(cited, e.name).toHaveLength(1);
+      if (!cited[0]!.startsWith('Heiderscheit et al. 2011')) expect(e.source, e.name).toContain('from memory');
+      // Purpose, steps, a progression step and what to watch, within the API's limits.
+      expect(e.instructions.at(-1), e.name).toMatch(/^To progress/);
+      expect(e.cautions.length, e.name).toBeGreaterThan(20);
+    }
+    const served = library.find((e) => e.name === 'Gliding split')!;
+    expect(served.source).toMatch(/^Askling et al\. 2013, Br J Sports Med 47:953–959/);
+  });
   it('every demo exercise passes the API’s own validation', () => {
     for (const e of DEMO_EXERCISES) expect(ExerciseBody.safeParse(e).success, e.name).toBe(true);
   });
 
   it('creates, edits and archives an exercise; archived ones leave the library list', async () => {
-    const body = { name: 'Wall sit', purpose: 'Thigh endurance.', region: 'thigh', kind: 'isometric', dose: { sets: 3, reps: null, holdSeconds: 45, tempo: null, load: null, restSeconds: 60, daysPerWeek: 3 }, instructions: ['Slide down a wall.', 'Hold.'], cautions: '' };
+    const body = { name: 'Split-squat hold', purpose: 'Thigh endurance.', region: 'thigh', kind: 'isometric', dose: { sets: 3, reps: null, holdSeconds: 45, tempo: null, load: null, restSeconds: 60, daysPerWeek: 3 }, instructions: ['Step into a split stance.', 'Lower halfway and hold.'], cautions: '' };
     const created = await c.post('/api/exercises', body);
     expect(created.status).toBe(201);
-    expect(created.body).toMatchObject({ name: 'Wall sit', archived: false, dose: { holdSeconds: 45 } });
+    // Without a source the exercise is the clinic's own: stored with an empty source.
+    expect(created.body).toMatchObject({ name: 'Split-squat hold', archived: false, dose: { holdSeconds: 45 }, source: '' });
     const patched = await c.patch(`/api/exercises/${created.body.id}`, { purpose: 'Front-of-thigh endurance.' });
     expect(patched.body.purpose).toBe('Front-of-thigh endurance.');
-    expect((await c.post('/api/exercises', { ...body, name: 'wall SIT' })).body.error.code).toBe('exercise_name_taken');
+    const sourced = await c.patch(`/api/exercises/${created.body.id}`, { source: '  Crossley et al. 2016, Br J Sports Med 50:839–843 ' });
+    expect(sourced.body).toMatchObject({ source: 'Crossley et al. 2016, Br J Sports Med 50:839–843', purpose: 'Front-of-thigh endurance.' });
+    // Another edit leaves the source alone; a source past 300 characters is refused and changes nothing.
+    expect((await c.patch(`/api/exercises/${created.body.id}`, { cautions: 'Ease off if the knee aches.' })).body.source).toBe('Crossley et al. 2016, Br J Sports Med 50:839–843');
+    const tooLong = await c.patch(`/api/exercises/${created.body.id}`, { source: 'x'.repeat(301) });
+    expect(tooLong.status).toBe(422);
+    expect(tooLong.body.error.details[0].path).toEqual(['source']);
+    expect((await c.get(`/api/exercises/${created.body.id}`)).body.source).toBe('Crossley et al. 2016, Br J Sports Med 50:839–843');
+    expect((await c.post('/api/exercises', { ...body, name: 'split-SQUAT hold' })).body.error.code).toBe('exercise_name_taken');
     expect((await c.delete(`/api/exercises/${created.body.id}`)).status).toBe(204);
-    expect((await c.get('/api/exercises')).body.exercises.map((e: Exercise) => e.name)).not.toContain('Wall sit');
-    expect((await c.get('/api/exercises?archived=true')).body.exercises.map((e: Exercise) => e.name)).toEqual(['Wall sit']);
+    expect((await c.get('/api/exercises')).body.exercises.map((e: Exercise) => e.name)).not.toContain('Split-squat hold');
+    expect((await c.get('/api/exercises?archived=true')).body.exercises.map((e: Exercise) => e.name)).toEqual(['Split-squat hold']);
   });
 
   it('refuses negative or missing doses with field paths, and writes nothing', async () => {
@@ -154,7 +196,7 @@ describe('plans', () => {
     const plan = await createPlan(threeStages({ assessmentId: retest.id }));
     expect(plan).toMatchObject({ status: 'draft', athleteId: adaId, assessmentId: retest.id, assessmentDate: retest.date, stageCount: 3, currentStageId: null, painRule: DEFAULT_PAIN_RULE, notes: 'Coach-only note' });
     expect(plan.stages.map((s) => s.name)).toEqual(['Isometric holds', 'Slow lengthening', 'Fast and running drills']);
-    expect(plan.stages[0]!.exercises.map((e) => e.exercise.name)).toEqual(['Long-lever hamstring bridge hold', 'Hip-hinge hold']);
+    expect(plan.stages[0]!.exercises.map((e) => e.exercise.name)).toEqual(['Bent-knee bridge hold', 'Prone hamstring hold']);
     expect(plan.stages[0]!.sessionsPerWeek).toBe(4);
     expect(await t.db('audit_log').where({ athlete_id: adaId, action: 'plan.created' })).toHaveLength(1);
   });
@@ -172,18 +214,18 @@ describe('plans', () => {
 
   it('refuses another athlete’s assessment, unknown or archived exercises, and bad doses (422, nothing written)', async () => {
     const before = (await t.db('plans').count({ n: '*' }))[0]!.n;
-    const brunoVisit = await t.db('assessments').whereNot({ athlete_id: adaId }).first();
-    const bad1 = await c.post(`/api/athletes/${adaId}/plans`, threeStages({ assessmentId: brunoVisit.id }));
+    const teodorVisit = await t.db('assessments').whereNot({ athlete_id: adaId }).first();
+    const bad1 = await c.post(`/api/athletes/${adaId}/plans`, threeStages({ assessmentId: teodorVisit.id }));
     expect(bad1.status).toBe(422);
     expect(bad1.body.error.details[0].path).toEqual(['assessmentId']);
     const body = threeStages();
     body.stages[1]!.exercises[0]!.exerciseId = 999_999;
     const bad2 = await c.post(`/api/athletes/${adaId}/plans`, body);
     expect(bad2.body.error.details[0].path).toEqual(['stages', 1, 'exercises', 0, 'exerciseId']);
-    await c.delete(`/api/exercises/${library.find((e) => e.name === 'Hip-hinge hold')!.id}`);
+    await c.delete(`/api/exercises/${library.find((e) => e.name === 'Prone hamstring hold')!.id}`);
     expect((await c.post(`/api/athletes/${adaId}/plans`, threeStages())).status).toBe(422);
     const body3 = threeStages();
-    body3.stages[0]!.exercises = [{ ...ex('Heel-slide hamstring lowers'), dose: { ...ex('Heel-slide hamstring lowers').dose, sets: -2 } }];
+    body3.stages[0]!.exercises = [{ ...ex('Hip-flexed knee extension'), dose: { ...ex('Hip-flexed knee extension').dose, sets: -2 } }];
     const bad3 = await c.post(`/api/athletes/${adaId}/plans`, body3);
     expect(bad3.status).toBe(422);
     expect(bad3.body.error.details[0].path).toEqual(['stages', 0, 'exercises', 0, 'dose', 'sets']);
@@ -248,7 +290,7 @@ describe('plans', () => {
     const body = threeStages();
     body.stages = plan.stages.map((s) => ({ id: s.id, name: s.name, goal: s.goal, targetWeeks: s.targetWeeks, progressionText: s.progressionText, criteria: s.criteria, exercises: s.exercises.map((e) => ({ exerciseId: e.exerciseId, dose: e.dose, notes: e.notes })) }));
     body.stages[1]!.targetWeeks = 4;
-    body.stages.push(stage('Back to running', ['Relaxed build-up runs']));
+    body.stages.push(stage('Back to running', ['Step-rate run']));
     const res = await c.put(`/api/plans/${plan.id}`, body);
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     expect(res.body.stages.map((s: { id: number }) => s.id).slice(0, 3)).toEqual(plan.stages.map((s) => s.id));
@@ -269,8 +311,8 @@ describe('athlete log', () => {
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     expect(res.body).toMatchObject({ key: body.key, painDuring: 3, morningPain: null, stageName: 'Isometric holds', note: 'Felt steady' });
     expect(res.body.sets).toEqual([
-      { stageExerciseId: plan.stages[0]!.exercises[0]!.id, name: 'Long-lever hamstring bridge hold', setsPrescribed: 4, setsDone: 4 },
-      { stageExerciseId: plan.stages[0]!.exercises[1]!.id, name: 'Hip-hinge hold', setsPrescribed: 3, setsDone: 3 },
+      { stageExerciseId: plan.stages[0]!.exercises[0]!.id, name: 'Bent-knee bridge hold', setsPrescribed: 5, setsDone: 5 },
+      { stageExerciseId: plan.stages[0]!.exercises[1]!.id, name: 'Prone hamstring hold', setsPrescribed: 4, setsDone: 4 },
     ]);
     expect((await c.get(`/api/plans/${plan.id}/logs`)).body.logs).toHaveLength(1);
     expect((await a.get(`/api/plans/${plan.id}/logs`)).body.logs[0].id).toBe(res.body.id);
@@ -423,11 +465,45 @@ describe('progress, progression and alerts', () => {
     expect((await c.put(`/api/plans/${plan.id}/pain-rule`, { maxDuring: 11, morningMustSettle: true, settledMorningMax: 2, noWeeklyRise: true })).status).toBe(422);
   });
 
-  it('the seeded demo calf plan shows a week-over-week rise on the roster', async () => {
+  it('the seeded demo Achilles plan shows a week-over-week rise on the roster', async () => {
     const carys = await t.db('athletes').where({ last_name: 'Holmgren' }).first();
     const roster = (await c.get('/api/plan-alerts')).body.alerts;
     expect(roster.find((x: { athleteId: number }) => x.athleteId === carys.id)?.alerts.map((x: { kind: string }) => x.kind)).toContain('weekly_rise_during');
     const other = await signedIn(t.app, OTHER.coach.email, OTHER.coach.password);
     expect((await other.get('/api/plan-alerts')).body.alerts).toEqual([]);
+  });
+});
+
+describe('the demo plans', () => {
+  // Staging as the cited programmes stage loading — isometric, then isotonic or lengthening, then
+  // energy storage and return to running (Goom et al. 2016, REFERENCES.md [mem], from memory).
+  const kindsOf = (plan: PlanDetail) => plan.stages.map((s) => s.exercises.map((e) => e.exercise.kind));
+
+  it('the demo athlete’s hamstring-strain plan runs in its lengthening stage, linked to her Re-test, and she sees it', async () => {
+    const ada = await t.db('athletes').where({ id: adaId }).first();
+    const retest = await t.db('assessments').where({ athlete_id: adaId, kind: 'retest' }).first();
+    await seedDemoHamstringPlan(t.db, ada.clinic_id, ada, retest.id);
+    const [summary] = (await a.get(`/api/athletes/${adaId}/plans`)).body.plans;
+    expect(summary).toMatchObject({ status: 'active', assessmentId: retest.id, currentStagePosition: 2, currentStageName: 'Lengthening', alerts: [] });
+    const plan: PlanDetail = (await a.get(`/api/plans/${summary.id}`)).body;
+    expect(plan.stages.map((s) => s.name)).toEqual(['Holds and easy agility', 'Lengthening', 'Spring and return to running']);
+    const [first, second, third] = kindsOf(plan);
+    expect(first).toContain('isometric');
+    expect(second).toEqual(['eccentric', 'eccentric', 'eccentric']);
+    expect(third).toEqual(expect.arrayContaining(['ballistic', 'running_drill']));
+    // The lengthening stage is the lengthening programme's three exercises (Askling et al. 2013 [mem]).
+    expect(plan.stages[1]!.exercises.every((e) => e.exercise.source.startsWith('Askling et al. 2013'))).toBe(true);
+    expect((await a.get(`/api/plans/${plan.id}/logs`)).body.logs).toHaveLength(12);
+  });
+
+  it('the demo Achilles plan goes from holds to heavy slow strength to spring and running', async () => {
+    const carys = await t.db('athletes').where({ last_name: 'Holmgren' }).first();
+    const [summary] = (await c.get(`/api/athletes/${carys.id}/plans`)).body.plans;
+    const plan: PlanDetail = (await c.get(`/api/plans/${summary.id}`)).body;
+    expect(plan.stages.map((s) => s.name)).toEqual(['Isometric holds', 'Heavy slow strength', 'Spring and running']);
+    const [first, second, third] = kindsOf(plan);
+    expect(first).toContain('isometric');
+    expect(second).toEqual(expect.arrayContaining(['isotonic', 'eccentric']));
+    expect(third).toEqual(expect.arrayContaining(['ballistic', 'running_drill']));
   });
 });

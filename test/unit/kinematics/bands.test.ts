@@ -2,6 +2,7 @@
  * Default reference bands against REFERENCES.md (each value with its tag), evaluateBand, the
  * foot-strike classifier, and the spring-mass estimate.
  */
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { MeasureKey, ReferenceBand } from '../../../src/contracts/measures';
 import { classifyFootStrike, DEFAULT_REFERENCE_BANDS, evaluateBand, findBand, MEASURE_DEFINITIONS, springMassVerticalOscillation } from '../../../src/kinematics';
@@ -64,12 +65,39 @@ describe('evaluateBand / findBand', () => {
 });
 
 describe('[pub] Mo et al. 2021 foot-strike classifier (forefoot ≤ −0.8°, rearfoot ≥ 7.4°, midfoot between)', () => {
-  it('classifies at and around the cut-offs', () => {
+  it('classifies at and around the cut-offs, judging the angle as shown (to 0.1°)', () => {
     expect(classifyFootStrike(-0.8)).toBe('forefoot');
-    expect(classifyFootStrike(-0.79)).toBe('midfoot');
-    expect(classifyFootStrike(7.39)).toBe('midfoot');
+    expect(classifyFootStrike(-0.75)).toBe('forefoot'); // shown as −0.8°
+    expect(classifyFootStrike(-0.74)).toBe('midfoot'); // shown as −0.7°
+    expect(classifyFootStrike(7.34)).toBe('midfoot'); // shown as 7.3°
     expect(classifyFootStrike(7.4)).toBe('rearfoot');
+    expect(classifyFootStrike(7.35)).toBe('rearfoot'); // shown as 7.4°
     expect(classifyFootStrike(14.744)).toBe('rearfoot'); // the worked-example foot angle
+  });
+
+  it('the class and the band flag follow one rule: exactly −0.8° is forefoot and below, exactly 7.4° rearfoot and above', () => {
+    const foot = band('foot_angle_initial_contact');
+    expect(classifyFootStrike(-0.8)).toBe('forefoot');
+    expect(evaluateBand(-0.8, foot)?.position).toBe('below');
+    expect(classifyFootStrike(7.4)).toBe('rearfoot');
+    expect(evaluateBand(7.4, foot)?.position).toBe('above');
+    // 7.4 reached by arithmetic carries binary dust (7.3999999999999995): still the shown 7.4°.
+    expect(7.3 + 0.1).not.toBe(7.4);
+    expect(classifyFootStrike(7.3 + 0.1)).toBe('rearfoot');
+    expect(evaluateBand(7.3 + 0.1, foot)?.position).toBe('above');
+    const asClass = { below: 'forefoot', within: 'midfoot', above: 'rearfoot' } as const;
+    fc.assert(
+      fc.property(fc.double({ min: -30, max: 40, noNaN: true }), (deg) => {
+        expect(classifyFootStrike(deg)).toBe(asClass[evaluateBand(deg, foot)!.position]);
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it('[pub] Patoz et al. 2019 duty-factor limits belong to the middle class (< 27.6 % aerial, > 28.8 % terrestrial)', () => {
+    expect(evaluateBand(27.6, band('duty_factor'))?.position).toBe('within');
+    expect(evaluateBand(28.8, band('duty_factor'))?.position).toBe('within');
+    expect(evaluateBand(28.85, band('duty_factor'))?.position).toBe('above'); // shown as 28.9 %
   });
 });
 

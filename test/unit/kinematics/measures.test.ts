@@ -82,10 +82,88 @@ describe('[calc] worked example, REFERENCES.md — timing at 240 fps, treadmill 
   it('with one side marked, cadence and step time come from strides (120 ÷ stride time, stride ÷ 2), said so', () => {
     const right = computeClipMeasures(input({ events: timingExampleEvents(3).filter((e) => e.side === 'right') }));
     expect(get(right, 'cadence').mean).toBeCloseTo(171.43, 2);
-    expect(get(right, 'cadence').derivation).toMatch(/120 ÷ stride time/);
+    expect(get(right, 'cadence').derivation).toMatch(/120 ÷ mean stride time/);
     expect(get(right, 'step_time').mean).toBeCloseTo(0.35, 9);
     expect(get(right, 'flight_time').status).toBe('not_enough_data');
     expect(get(right, 'contact_time', 'left').missing).toBe('No complete left stance (initial contact followed by toe-off) marked.');
+  });
+});
+
+describe('cadence = 60 ÷ mean step time (steps per minute), uneven steps', () => {
+  /**
+   * Fixture (not a published source): 30 fps, steps alternating 9 and 13 frames (right IC → left
+   * IC 9 frames, left IC → right IC 13 frames; stride 22 frames), contact 5 frames, `strides`
+   * right strides ending with a right IC.
+   */
+  const uneven = (strides: number): GaitEventMark[] => {
+    const out: GaitEventMark[] = [];
+    for (let k = 0; k < strides; k++) {
+      const b = k * 22;
+      out.push(ev(b, 'right', 'initial_contact'), ev(b + 5, 'right', 'toe_off'), ev(b + 9, 'left', 'initial_contact'), ev(b + 14, 'left', 'toe_off'));
+    }
+    out.push(ev(strides * 22, 'right', 'initial_contact'));
+    return out;
+  };
+  const at30 = (events: GaitEventMark[]) => computeClipMeasures(input({ events, fps: 30 }));
+
+  it('[calc] the issue\'s example: 30 fps, steps of 9 and 13 frames → 163.64 steps/min with both sides, one side, or the other', () => {
+    // Independent recomputation: mean step (9 + 13) / 2 = 11 frames = 11/30 s; 60 ÷ (11/30) = 163.636…
+    const expected = 60 / (11 / 30);
+    expect(expected).toBeCloseTo(163.64, 2);
+    // The mean of per-step rates would be (60/(9/30) + 60/(13/30)) / 2 = 169.23 — not cadence.
+    const meanOfRates = (60 / (9 / 30) + 60 / (13 / 30)) / 2;
+    expect(meanOfRates).toBeCloseTo(169.23, 2);
+    const both = at30(uneven(3));
+    const rightOnly = at30(uneven(3).filter((e) => e.side === 'right'));
+    const leftOnly = at30(uneven(3).filter((e) => e.side === 'left'));
+    for (const r of [both, rightOnly, leftOnly]) {
+      expect(get(r, 'cadence').status).toBe('ok');
+      expect(get(r, 'cadence').mean).toBeCloseTo(expected, 9);
+    }
+    expect(get(both, 'cadence').n).toBe(6);
+    expect(get(both, 'step_time').mean).toBeCloseTo(11 / 30, 12);
+    // Cadence and mean step time describe the same running: their product is 60 s/min.
+    expect(get(both, 'cadence').mean! * get(both, 'step_time').mean!).toBeCloseTo(60, 9);
+    expect(get(both, 'cadence').derivation).toContain('60 ÷ mean step time');
+  });
+
+  it('[calc] REFERENCES.md timing example recomputed: 240 fps, step 84 frames → 60 ÷ (84/240) = 171.43 steps/min', () => {
+    const r = computeClipMeasures(input({ events: timingExampleEvents(4) }));
+    expect(60 / (84 / 240)).toBeCloseTo(171.43, 2);
+    expect(get(r, 'cadence').mean).toBeCloseTo(60 / (84 / 240), 9);
+  });
+
+  it('an odd number of uneven steps: cadence is 60 ÷ the mean of exactly the steps marked (9, 13, 9 frames → 31/3)', () => {
+    // Both sides, three steps: right IC 0 → left IC 9 → right IC 22 → left IC 31.
+    const events = [
+      ev(0, 'right', 'initial_contact'), ev(5, 'right', 'toe_off'), ev(9, 'left', 'initial_contact'), ev(14, 'left', 'toe_off'),
+      ev(22, 'right', 'initial_contact'), ev(27, 'right', 'toe_off'), ev(31, 'left', 'initial_contact'),
+    ];
+    const r = at30(events);
+    expect(get(r, 'cadence').n).toBe(3);
+    expect(get(r, 'cadence').mean).toBeCloseTo(60 / (31 / 3 / 30), 9);
+  });
+
+  it('fast-check: for any step lengths, cadence × mean step time = 60, and cadence lies between the slowest and fastest step rates', () => {
+    fc.assert(
+      // Steps 10–14 frames: within 1.5 × the median, so none is left out as an unmarked cycle.
+      fc.property(fc.array(fc.integer({ min: 10, max: 14 }), { minLength: 2, maxLength: 12 }), (steps) => {
+        const events: GaitEventMark[] = [];
+        let f = 0;
+        steps.forEach((len, i) => {
+          const side: Side = i % 2 === 0 ? 'right' : 'left';
+          events.push(ev(f, side, 'initial_contact'), ev(f + 2, side, 'toe_off'));
+          f += len;
+        });
+        events.push(ev(f, steps.length % 2 === 0 ? 'right' : 'left', 'initial_contact'));
+        const r = at30(events);
+        const meanStepS = steps.reduce((a, b) => a + b, 0) / steps.length / 30;
+        expect(get(r, 'cadence').mean).toBeCloseTo(60 / meanStepS, 6);
+        expect(get(r, 'cadence').mean!).toBeLessThanOrEqual(60 / (Math.min(...steps) / 30) + 1e-9);
+        expect(get(r, 'cadence').mean!).toBeGreaterThanOrEqual(60 / (Math.max(...steps) / 30) - 1e-9);
+      }),
+      { numRuns: 60 },
+    );
   });
 });
 

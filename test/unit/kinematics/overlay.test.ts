@@ -10,8 +10,15 @@ import type { FrameLandmarks } from '../../../src/contracts/annotations';
 import {
   computeClipMeasures,
   DEFAULT_REFERENCE_BANDS,
+  drawGhostSkeleton,
   drawOverlay,
   formatAngleLabel,
+  GHOST_COLOURS,
+  labelBox,
+  MIN_VIEW_LABEL_PX,
+  overlaySizes,
+  tint,
+  VIEW_LABEL_PX,
   frameAngles,
   LABEL_OFFSET_RAD,
   OVERLAY_COLOURS,
@@ -295,5 +302,54 @@ describe('@napi-rs/canvas (the server renderer) and the browser context fit Canv
       expect(v).toBeGreaterThanOrEqual(Math.floor(full / 2));
     }
     expect(b! > r! && r! > g!).toBe(true);
+  });
+});
+
+describe('overlay sizes in view pixels (viewScale)', () => {
+  it('labels are 13 view px (never under 12) however small the frame is shown; without viewScale they follow the frame', () => {
+    const frameSize = { width: 1920, height: 1080 };
+    for (const viewScale of [0.19, 0.36, 0.5, 1, 2]) {
+      const s = overlaySizes(frameSize, viewScale);
+      expect(s.fontPx * viewScale).toBeCloseTo(VIEW_LABEL_PX, 9);
+      expect(s.fontPx * viewScale).toBeGreaterThanOrEqual(MIN_VIEW_LABEL_PX);
+      const layout = overlayLabelPositions({ frameSize, landmarks: [], nearSide: 'right', direction: 'left_to_right', showAngles: true, viewScale });
+      expect(layout.style.font).toContain(`${s.fontPx}px`);
+    }
+    // Frame-following sizes: 2.6 % of the shorter side, as before (1080 → 28 px, i.e. ~7 px when shown at 0.25).
+    expect(overlaySizes(frameSize).fontPx).toBe(28);
+  });
+
+  it('the ghost skeleton is dashed, in lighter tints of the limb colours, with hollow markers', () => {
+    expect(GHOST_COLOURS.left).toBe(tint(OVERLAY_COLOURS.left, 0.45));
+    // Independent tint: violet #7B4FD6 mixed 45 % with white → (182, 158, 232).
+    expect(GHOST_COLOURS.left).toBe('#B69EE8');
+    const ctx = new RecordingContext();
+    const landmarks = [landmarksAt(0, 'right', TO_POSE as MetrePose, 'left_to_right')];
+    drawGhostSkeleton(ctx, { frameSize: { width: W, height: H }, landmarks, viewScale: 0.5 });
+    const dashed = ctx.calls.filter((c) => c.op === 'setLineDash' && (c.args[0] as number[]).length > 0);
+    expect(dashed.length).toBeGreaterThan(0);
+    const strokes = ctx.calls.filter((c) => c.op === 'stroke').map((c) => c.state['strokeStyle']);
+    expect(strokes).toContain(GHOST_COLOURS.right);
+    expect(strokes).not.toContain(OVERLAY_COLOURS.right);
+    expect(ctx.calls.filter((c) => c.op === 'fill')).toEqual([]); // hollow markers
+    expect(ctx.depth).toBe(0);
+  });
+});
+
+describe('angle labels never overlap', () => {
+  it('fast-check: however small the frame is shown (labels in view pixels), no two label boxes intersect', () => {
+    const ic = [landmarksAt(0, 'right', IC_POSE as MetrePose, 'left_to_right'), landmarksAt(0, 'left', TO_POSE as MetrePose, 'left_to_right')];
+    fc.assert(
+      fc.property(fc.double({ min: 0.1, max: 2, noNaN: true }), fc.constantFrom<'near' | 'both'>('near', 'both'), (viewScale, angleSides) => {
+        const L = overlayLabelPositions({ frameSize: { width: W, height: H }, landmarks: ic, nearSide: 'right', direction: 'left_to_right', showAngles: true, viewScale, angleSides });
+        const boxes = L.angles.map((a) => labelBox(a, L.style.fontPx));
+        for (let i = 0; i < boxes.length; i++)
+          for (let j = 0; j < i; j++) {
+            const [a, b] = [boxes[i]!, boxes[j]!];
+            expect(a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom).toBe(false);
+          }
+      }),
+      { numRuns: 100 },
+    );
   });
 });

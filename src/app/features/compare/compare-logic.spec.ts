@@ -1,6 +1,6 @@
 import type { Assessment } from '../../../contracts/api';
 import type { ComparisonRow, MeasureTrends } from '../../../contracts/measures';
-import { CAUTION_LINE, alignAtHip, citationText, defaultPair, eventFrames, formatValue, frameOfStep, lastCommonStep, stepKey, trendSeries, VERDICT_TEXT } from './compare-logic';
+import { CAUTION_LINE, COMPARE_FRAME_KEYS, alignAtHip, citationText, defaultPair, eventFrames, formatValue, frameOfStep, lastCommonStep, stepKey, trendSeries, VERDICT_TEXT } from './compare-logic';
 
 const visit = (id: number, date: string, kind: 'baseline' | 'retest') => ({ id, date, kind }) as Assessment;
 
@@ -25,6 +25,8 @@ describe('compare logic', () => {
     expect(lastCommonStep([1, 2, 3], [4, 5])).toBe(1);
     expect(lastCommonStep([], [4])).toBe(-1);
     expect([stepKey('['), stepKey(']'), stepKey('x')]).toEqual([-1, 1, 0]);
+    expect([stepKey('ArrowLeft'), stepKey('ArrowRight'), stepKey('Home'), stepKey('End')]).toEqual([-1, 1, -Infinity, Infinity]);
+    for (const k of ['[', ']', 'ArrowLeft', 'ArrowRight', 'Home', 'End']) expect(COMPARE_FRAME_KEYS.has(k)).toBe(true);
   });
 
   it('moves the baseline skeleton so its hip lands on the re-test hip', () => {
@@ -41,11 +43,12 @@ describe('compare logic', () => {
 
   it('writes values and changes with their unit', () => {
     expect(formatValue(7, '°', true)).toBe('+7.0°');
-    expect(formatValue(-2, 'steps/min', true)).toBe('−2.0 steps/min');
+    expect(formatValue(-2, 'steps/min', true)).toBe('−2 steps/min');
+    expect(formatValue(22.45, '°')).toBe('22.5°'); // the overlay label's text too (one formatter)
     expect(formatValue(4, '°')).toBe('4.0°');
     expect(formatValue(null, '°')).toBe('—');
     expect(formatValue(-0.02, '°', true)).toBe('0.0°');
-    expect(formatValue(-0.001, 's', true)).toBe('0.00 s');
+    expect(formatValue(-0.0001, 's', true)).toBe('0.000 s');
     expect(VERDICT_TEXT.no_threshold).toBe('No published threshold');
   });
 

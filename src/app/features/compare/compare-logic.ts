@@ -2,15 +2,15 @@ import type { FrameLandmarks, FramePoint, GaitEventKind, GaitEventMark, Landmark
 import type { Assessment } from '../../../contracts/api';
 import type { Side } from '../../../contracts/assessment';
 import type { ComparisonRow, ComparisonVerdict, MeasureKey, MeasureTrends } from '../../../contracts/measures';
+import { VERDICT_LABELS, thresholdText, verdictText as verdictWords } from '../../../kinematics/comparison';
+import { formatValue as formatMeasureValue } from '../../../kinematics/format';
 import { MEASURES_CAUTION } from '../../shared/caution';
 
-/** Words of each verdict, as the table shows them. */
-export const VERDICT_TEXT: Record<ComparisonVerdict, string> = {
-  beyond_measurement_error: 'Beyond measurement error',
-  within_measurement_error: 'Within measurement error',
-  no_threshold: 'No published threshold',
-  not_measured: 'Not measured',
-};
+/** Words of each verdict, as the table shows them (the kinematics module's, shared with the PDF). */
+export const VERDICT_TEXT: Record<ComparisonVerdict, string> = VERDICT_LABELS;
+
+/** The verdict with its direction or step counts ("Beyond measurement error · better"). */
+export const verdictText = verdictWords;
 
 /** The caution line of the Re-test comparison and the Shared tab. */
 export const CAUTION_LINE = MEASURES_CAUTION;
@@ -40,9 +40,28 @@ export function lastCommonStep(a: number[], b: number[]): number {
   return Math.min(a.length, b.length) - 1;
 }
 
-/** Our own keys for stepping together: [ previous, ] next. */
-export function stepKey(key: string): -1 | 1 | 0 {
-  return key === '[' ? -1 : key === ']' ? 1 : 0;
+/**
+ * Keys that step both visits together; outside text fields they always do, whatever control was
+ * clicked last (see `shared/keys/key-routing.ts`).
+ */
+export const COMPARE_FRAME_KEYS: ReadonlySet<string> = new Set(['[', ']', 'ArrowLeft', 'ArrowRight', 'Home', 'End']);
+
+/** Steps to move for a key: [ or ← previous, ] or → next, Home first, End last (±Infinity); 0 otherwise. */
+export function stepKey(key: string): number {
+  switch (key) {
+    case '[':
+    case 'ArrowLeft':
+      return -1;
+    case ']':
+    case 'ArrowRight':
+      return 1;
+    case 'Home':
+      return -Infinity;
+    case 'End':
+      return Infinity;
+    default:
+      return 0;
+  }
 }
 
 /** Rows (both sides) of landmarks on one frame. */
@@ -65,21 +84,19 @@ export function alignAtHip(rows: FrameLandmarks[], side: Side, target: FramePoin
   }));
 }
 
-/** A number with its unit, signed for changes: "+7.0°", "−2.0 steps/min", "—" when missing. */
+/**
+ * A number with its unit, signed for changes: "+7.0°", "−2 steps/min", "—" when missing — the one
+ * formatter of `src/kinematics/format.ts` (the same text as the overlay, the panel and the PDF).
+ */
 export function formatValue(value: number | null, unit: string, signed = false): string {
-  if (value === null || !Number.isFinite(value)) return '—';
-  const digits = unit === '°' || unit === '%' ? 1 : Math.abs(value) >= 100 ? 0 : unit === 'm' || unit === 's' ? 2 : 1;
-  const abs = Math.abs(value).toFixed(digits);
-  // A change that rounds to zero reads 0.0, never −0.0 or +0.0.
-  const sign = Number(abs) === 0 ? '' : value < 0 ? '−' : signed ? '+' : '';
-  const text = `${sign}${abs}`;
-  return unit === '°' ? `${text}°` : unit ? `${text} ${unit}` : text;
+  return formatMeasureValue(value, unit, { signed });
 }
 
-/** The citation line shown on hover/expand. */
+/** The citation line shown on hover/expand: the threshold, and why a direction is better where one is. */
 export function citationText(row: ComparisonRow): string {
-  if (!row.threshold) return 'No published measurement-error figure for this measure.';
-  return `±${formatValue(row.threshold.value, row.threshold.unit)} — ${row.threshold.derivation} Source: ${row.threshold.source} [${row.threshold.evidence}].`;
+  const better = row.betterDirection ? ` Better: ${row.betterDirection.better} (${row.betterDirection.source} [${row.betterDirection.evidence}]).` : '';
+  if (!row.threshold) return `No published measurement-error figure for this measure.${better}`;
+  return `${thresholdText(row.threshold)} — ${row.threshold.derivation} Source: ${row.threshold.source} [${row.threshold.evidence}].${better}`;
 }
 
 export const sideText = (side: Side | null): string => (side === null ? '' : side === 'left' ? 'Left' : 'Right');

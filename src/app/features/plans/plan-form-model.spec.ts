@@ -6,13 +6,14 @@ import { createExerciseForm, createPlanForm, criterionGroup, doseGroup, exercise
 
 const exercise: Exercise = {
   id: 4,
-  name: 'Hip-hinge hold',
-  purpose: 'Holds a hinge.',
+  name: 'Bent-knee bridge hold',
+  purpose: 'Holds a bridge.',
   region: 'hamstring',
   kind: 'isometric',
-  dose: { sets: 3, reps: null, holdSeconds: 40, tempo: null, load: 'Body weight', restSeconds: 60, daysPerWeek: 3 },
-  instructions: ['Stand.', 'Hinge.'],
+  dose: { sets: 5, reps: null, holdSeconds: 30, tempo: null, load: 'Body weight', restSeconds: 60, daysPerWeek: 5 },
+  instructions: ['Lie on your back.', 'Lift the hips.'],
   cautions: '',
+  source: 'Goom et al. 2016, J Orthop Sports Phys Ther 46(6):483–493',
   archived: false,
   createdAt: '',
   updatedAt: '',
@@ -38,11 +39,20 @@ describe('plan form model', () => {
     expect(g.valid).toBe(true);
   });
 
-  it('turns the exercise form into the API body: steps one per line, trimmed', () => {
+  it('turns the exercise form into the API body: steps one per line, trimmed, with its source', () => {
     const f = createExerciseForm(fb, exercise);
-    f.controls.instructions.setValue('  Stand tall. \n\n Hinge at the hips.\n');
+    expect(f.controls.source.value).toBe(exercise.source);
+    f.controls.instructions.setValue('  Lie on your back. \n\n Lift the hips.\n');
     f.controls.dose.controls.tempo.setValue('  ');
-    expect(exerciseFromForm(f.getRawValue())).toMatchObject({ name: 'Hip-hinge hold', instructions: ['Stand tall.', 'Hinge at the hips.'], dose: { tempo: null, load: 'Body weight' } });
+    f.controls.source.setValue('  Rio et al. 2015, Br J Sports Med 49:1277–1283 ');
+    expect(exerciseFromForm(f.getRawValue())).toMatchObject({
+      name: 'Bent-knee bridge hold',
+      instructions: ['Lie on your back.', 'Lift the hips.'],
+      dose: { tempo: null, load: 'Body weight' },
+      source: 'Rio et al. 2015, Br J Sports Med 49:1277–1283',
+    });
+    f.controls.source.setValue('x'.repeat(301));
+    expect(f.controls.source.hasError('maxlength')).toBe(true);
     expect(splitSteps('a\r\nb')).toEqual(['a', 'b']);
     f.controls.instructions.setValue(Array.from({ length: 13 }, (_, i) => `Step ${i}`).join('\n'));
     expect(f.controls.instructions.hasError('tooManySteps')).toBe(true);

@@ -85,6 +85,8 @@ export type ExerciseForm = FormGroup<{
   /** One step per line. */
   instructions: FormControl<string>;
   cautions: FormControl<string>;
+  /** The published programme it comes from (optional). */
+  source: FormControl<string>;
 }>;
 
 export function createExerciseForm(fb: NonNullableFormBuilder, e?: Exercise): ExerciseForm {
@@ -96,6 +98,7 @@ export function createExerciseForm(fb: NonNullableFormBuilder, e?: Exercise): Ex
     dose: doseGroup(fb, e?.dose ?? BLANK_DOSE),
     instructions: fb.control(e?.instructions.join('\n') ?? '', [Validators.required, requiredTrimmed, stepsValidator]),
     cautions: fb.control(e?.cautions ?? '', Validators.maxLength(L.text.cautions)),
+    source: fb.control(e?.source ?? '', Validators.maxLength(L.text.source)),
   });
 }
 
@@ -124,6 +127,7 @@ export function exerciseFromForm(v: ReturnType<ExerciseForm['getRawValue']>): Ex
     dose: doseFromForm(v.dose),
     instructions: splitSteps(v.instructions),
     cautions: v.cautions.trim(),
+    source: v.source.trim(),
   };
 }
 

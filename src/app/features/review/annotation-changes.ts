@@ -1,11 +1,12 @@
 /**
  * Annotations as a set of keyed values, and edits as key-level changes. Every edit in the review
- * workspace is a list of changes (one landmark point, one gait event, the scale bar); undo applies
+ * workspace is a list of changes (one landmark point, one gait event, the scale bar, one angle
+ * gauge); undo applies
  * the "before" values, redo the "after" values, and after a save conflict the local edits (the
  * difference between what was loaded and what is shown) are applied on top of the server's copy.
  * Pure functions over immutable data.
  */
-import type { FrameLandmarks, FramePoint, GaitEventKind, GaitEventMark, LandmarkName, ScaleBar } from '../../../contracts/annotations';
+import type { AngleGauge, FrameLandmarks, FramePoint, GaitEventKind, GaitEventMark, LandmarkName, ScaleBar } from '../../../contracts/annotations';
 import { GAIT_EVENT_KINDS, LANDMARKS } from '../../../contracts/annotations';
 import type { Side } from '../../../contracts/assessment';
 
@@ -14,6 +15,8 @@ export interface AnnotationState {
   landmarks: FrameLandmarks[];
   events: GaitEventMark[];
   scale: ScaleBar | null;
+  /** Angle gauges, in frame then id order. */
+  gauges: AngleGauge[];
 }
 
 /** One landmark point of one side on one frame. */
@@ -36,15 +39,22 @@ export interface ScaleKey {
   kind: 'scale';
 }
 
-export type AnnotationKey = PointKey | EventKey | ScaleKey;
+/** One angle gauge, by its id. */
+export interface GaugeKey {
+  kind: 'gauge';
+  id: string;
+}
+
+export type AnnotationKey = PointKey | EventKey | ScaleKey | GaugeKey;
 
 /** A change of one keyed value; `null` means "absent". */
 export type Change =
   | { key: PointKey; before: FramePoint | null; after: FramePoint | null }
   | { key: EventKey; before: true | null; after: true | null }
-  | { key: ScaleKey; before: ScaleBar | null; after: ScaleBar | null };
+  | { key: ScaleKey; before: ScaleBar | null; after: ScaleBar | null }
+  | { key: GaugeKey; before: AngleGauge | null; after: AngleGauge | null };
 
-export const EMPTY_STATE: AnnotationState = { landmarks: [], events: [], scale: null };
+export const EMPTY_STATE: AnnotationState = { landmarks: [], events: [], scale: null, gauges: [] };
 
 const SIDE_ORDER: Record<Side, number> = { left: 0, right: 1 };
 
@@ -57,6 +67,8 @@ export function keyId(key: AnnotationKey): string {
       return `e|${key.frame}|${key.side}|${key.event}`;
     case 'scale':
       return 's';
+    case 'gauge':
+      return `g|${key.id}`;
   }
 }
 
@@ -70,14 +82,20 @@ function sameScale(a: ScaleBar | null, b: ScaleBar | null): boolean {
   return a.frame === b.frame && a.lengthM === b.lengthM && samePoint(a.a, b.a) && samePoint(a.b, b.b);
 }
 
+function sameGauge(a: AngleGauge | null, b: AngleGauge | null): boolean {
+  if (!a || !b) return !a && !b;
+  return a.id === b.id && a.frame === b.frame && samePoint(a.a, b.a) && samePoint(a.vertex, b.vertex) && samePoint(a.b, b.b);
+}
+
 function sameValue(a: unknown, b: unknown, kind: AnnotationKey['kind']): boolean {
   if (kind === 'point') return samePoint(a as FramePoint | null, b as FramePoint | null);
   if (kind === 'scale') return sameScale(a as ScaleBar | null, b as ScaleBar | null);
+  if (kind === 'gauge') return sameGauge(a as AngleGauge | null, b as AngleGauge | null);
   return (a ?? null) === (b ?? null);
 }
 
 /** The current value at `key` in `state` (null when absent). */
-export function valueAt(state: AnnotationState, key: AnnotationKey): FramePoint | true | ScaleBar | null {
+export function valueAt(state: AnnotationState, key: AnnotationKey): FramePoint | true | ScaleBar | AngleGauge | null {
   switch (key.kind) {
     case 'point': {
       const row = state.landmarks.find((l) => l.frame === key.frame && l.side === key.side);
@@ -87,12 +105,14 @@ export function valueAt(state: AnnotationState, key: AnnotationKey): FramePoint 
       return state.events.some((e) => e.frame === key.frame && e.side === key.side && e.kind === key.event) ? true : null;
     case 'scale':
       return state.scale;
+    case 'gauge':
+      return state.gauges.find((g) => g.id === key.id) ?? null;
   }
 }
 
 interface Keyed {
   key: AnnotationKey;
-  value: FramePoint | true | ScaleBar;
+  value: FramePoint | true | ScaleBar | AngleGauge;
 }
 
 /** Every present value of `state`, by key id. */
@@ -111,6 +131,10 @@ export function keyedValues(state: AnnotationState): Map<string, Keyed> {
     map.set(keyId(key), { key, value: true });
   }
   if (state.scale) map.set('s', { key: { kind: 'scale' }, value: state.scale });
+  for (const g of state.gauges) {
+    const key: GaugeKey = { kind: 'gauge', id: g.id };
+    map.set(keyId(key), { key, value: g });
+  }
   return map;
 }
 
@@ -156,17 +180,24 @@ export function sortEvents(events: readonly GaitEventMark[]): GaitEventMark[] {
   );
 }
 
+/** Gauges in frame order, then by id. */
+export function sortGauges(gauges: readonly AngleGauge[]): AngleGauge[] {
+  return [...gauges].sort((a, b) => a.frame - b.frame || (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
+}
+
 /**
  * Sets each change's `after` value in `state` (whatever is there now). Landmark rows left with no
- * points are dropped; rows and events stay sorted.
+ * points are dropped; rows, events and gauges stay sorted.
  */
 export function applyChanges(state: AnnotationState, changes: readonly Change[]): AnnotationState {
   if (!changes.length) return state;
   let landmarks = state.landmarks;
   let events = state.events;
   let scale = state.scale;
+  let gauges = state.gauges;
   let landmarksCopied = false;
   let eventsChanged = false;
+  let gaugesChanged = false;
   for (const c of changes) {
     switch (c.key.kind) {
       case 'point': {
@@ -203,12 +234,21 @@ export function applyChanges(state: AnnotationState, changes: readonly Change[])
       case 'scale':
         scale = c.after as ScaleBar | null;
         break;
+      case 'gauge': {
+        const id = c.key.id;
+        const after = c.after as AngleGauge | null;
+        gauges = gauges.filter((g) => g.id !== id);
+        if (after) gauges.push(after);
+        gaugesChanged = true;
+        break;
+      }
     }
   }
   return {
     landmarks: landmarksCopied ? sortLandmarks(landmarks) : landmarks,
     events: eventsChanged ? sortEvents(events) : events,
     scale,
+    gauges: gaugesChanged ? sortGauges(gauges) : gauges,
   };
 }
 
@@ -238,6 +278,6 @@ export function mergeOnto(base: AnnotationState, local: AnnotationState, remote:
 }
 
 /** Copies only the editable part of annotations (drops revision, clip id and who saved). */
-export function stateOf(a: AnnotationState): AnnotationState {
-  return { landmarks: a.landmarks, events: a.events, scale: a.scale };
+export function stateOf(a: Omit<AnnotationState, 'gauges'> & { gauges?: AngleGauge[] }): AnnotationState {
+  return { landmarks: a.landmarks, events: a.events, scale: a.scale, gauges: a.gauges ?? [] };
 }

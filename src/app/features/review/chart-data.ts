@@ -80,11 +80,42 @@ export interface MarkerState {
   font: string;
 }
 
+/** Rows of event labels above the plot, and their height, px (the chart keeps room for them). */
+export const MARKER_LABEL_ROWS = 2;
+export const MARKER_LABEL_ROW_PX = 13;
+
+/** "IC L", "TO R": an event's label on the chart (the legend and tooltip spell it out). */
+export function markerLabel(e: GaitEventMark): string {
+  return `${EVENT_SHORT[e.kind]} ${e.side === 'left' ? 'L' : 'R'}`;
+}
+
+/**
+ * Rows for labels centred at `x` (`width` px wide) so that none overlap: in x order, each goes in
+ * the lowest row where it clears the previous label of that row by `gap` px; -1 when no row has
+ * room (the label is left out; its line still shows, and the chart's tooltip names it).
+ */
+export function staggerLabels(spans: readonly { x: number; width: number }[], rows: number, gap = 4): number[] {
+  const out = spans.map(() => -1);
+  const ends = Array.from({ length: rows }, () => -Infinity);
+  const order = spans.map((_, i) => i).sort((a, b) => spans[a]!.x - spans[b]!.x || a - b);
+  for (const i of order) {
+    const { x, width } = spans[i]!;
+    const row = ends.findIndex((end) => x - width / 2 >= end + gap);
+    if (row < 0) continue;
+    out[i] = row;
+    ends[row] = x + width / 2;
+  }
+  return out;
+}
+
 const EVENT_DASH: Record<GaitEventKind, number[]> = { initial_contact: [], midstance: [2, 3], toe_off: [6, 3] };
+/** Label text colours: the side colours darkened to read on white (WCAG AA for small text). */
+const LABEL_COLOURS: Record<Side, string> = { left: '#5B35AE', right: '#8A4F00' };
 
 /**
  * A chart.js plugin that draws the marked gait events as vertical lines (side colour, dash by kind,
- * a short label on top) and the current frame as a solid line. Reads `state` on every draw.
+ * a short label on top, staggered over {@link MARKER_LABEL_ROWS} rows so labels never overlap) and
+ * the current frame as a solid line. Reads `state` on every draw.
  */
 export function eventMarkersPlugin(state: MarkerState): Plugin<'line'> {
   return {
@@ -93,16 +124,22 @@ export function eventMarkersPlugin(state: MarkerState): Plugin<'line'> {
       const { ctx, chartArea, scales } = chart;
       const x = scales['x'];
       if (!x || !chartArea) return;
+      const labelsTop = chartArea.top - MARKER_LABEL_ROWS * MARKER_LABEL_ROW_PX - 2;
       ctx.save();
       ctx.beginPath();
-      ctx.rect(chartArea.left, chartArea.top - 14, chartArea.right - chartArea.left, chartArea.bottom - chartArea.top + 14);
+      ctx.rect(chartArea.left - 12, labelsTop, chartArea.right - chartArea.left + 24, chartArea.bottom - labelsTop);
       ctx.clip();
       ctx.font = state.font;
       ctx.textAlign = 'center';
       ctx.textBaseline = 'bottom';
-      for (const e of state.events) {
-        const px = x.getPixelForValue(e.frame);
-        if (px < chartArea.left - 1 || px > chartArea.right + 1) continue;
+      const shown = state.events
+        .map((e) => ({ e, px: x.getPixelForValue(e.frame), text: markerLabel(e) }))
+        .filter((m) => m.px >= chartArea.left - 1 && m.px <= chartArea.right + 1);
+      const rows = staggerLabels(
+        shown.map((m) => ({ x: m.px, width: ctx.measureText(m.text).width })),
+        MARKER_LABEL_ROWS,
+      );
+      shown.forEach(({ e, px, text }, i) => {
         ctx.strokeStyle = SIDE_COLOURS[e.side];
         ctx.lineWidth = 1.5;
         ctx.setLineDash(EVENT_DASH[e.kind]);
@@ -110,9 +147,11 @@ export function eventMarkersPlugin(state: MarkerState): Plugin<'line'> {
         ctx.moveTo(px, chartArea.top);
         ctx.lineTo(px, chartArea.bottom);
         ctx.stroke();
-        ctx.fillStyle = SIDE_COLOURS[e.side];
-        ctx.fillText(`${EVENT_SHORT[e.kind]}${e.side === 'left' ? 'L' : 'R'}`, px, chartArea.top - 1);
-      }
+        const row = rows[i]!;
+        if (row < 0) return;
+        ctx.fillStyle = LABEL_COLOURS[e.side];
+        ctx.fillText(text, px, chartArea.top - 1 - row * MARKER_LABEL_ROW_PX);
+      });
       const cx = x.getPixelForValue(state.currentFrame);
       if (cx >= chartArea.left && cx <= chartArea.right) {
         ctx.setLineDash([]);

@@ -1,4 +1,4 @@
-import { KEY_HELP, KeyInput, focusOwnsKey, keyAction } from './key-map';
+import { FRAME_KEYS, KEY_HELP, KeyInput, focusOwnsKey, keyAction } from './key-map';
 
 function key(k: string, mods: Partial<KeyInput> = {}): KeyInput {
   return { key: k, shiftKey: false, ctrlKey: false, metaKey: false, altKey: false, target: { tagName: 'BODY' }, ...mods };
@@ -68,25 +68,40 @@ describe('focus that keeps keys', () => {
     expect(keyAction(key('1', { target: { tagName: 'INPUT', type: 'number' } }))).toBeNull();
   });
 
-  it('lets a slider keep its arrows but not the other keys', () => {
+  it('the frame slider gives the frame keys to the page (they step frames either way), Up/Down it keeps', () => {
     const slider = { tagName: 'INPUT', type: 'range' };
-    expect(keyAction(key('ArrowRight', { target: slider }))).toBeNull();
-    expect(keyAction(key('Home', { target: slider }))).toBeNull();
+    expect(keyAction(key('ArrowRight', { target: slider }))).toEqual({ type: 'step', by: 1 });
+    expect(keyAction(key('Home', { target: slider }))).toEqual({ type: 'first' });
+    expect(focusOwnsKey(key('ArrowUp', { target: slider }))).toBe(true);
     expect(keyAction(key('i', { target: slider }))).toEqual({ type: 'mark', kind: 'initial_contact' });
   });
 
-  it('lets buttons keep Space and Enter', () => {
-    const button = { tagName: 'BUTTON' };
-    expect(focusOwnsKey(key(' ', { target: button }))).toBe(true);
-    expect(keyAction(key(' ', { target: button }))).toBeNull();
-    expect(keyAction(key('ArrowLeft', { target: button }))).toEqual({ type: 'step', by: -1 });
-    expect(keyAction(key(' ', { target: { tagName: 'DIV', role: 'tab' } }))).toBeNull();
+  it('lets a button reached with the keyboard keep Space and Enter; after a click Space plays', () => {
+    const tabbedTo = { tagName: 'BUTTON', focusVisible: true };
+    expect(focusOwnsKey(key(' ', { target: tabbedTo }))).toBe(true);
+    expect(keyAction(key(' ', { target: tabbedTo }))).toBeNull();
+    expect(keyAction(key(' ', { target: { tagName: 'BUTTON', focusVisible: false } }))).toEqual({ type: 'play' });
+    expect(keyAction(key('Enter', { target: { tagName: 'BUTTON' } }))).toBeNull();
+    expect(keyAction(key('ArrowLeft', { target: tabbedTo }))).toEqual({ type: 'step', by: -1 });
+    expect(keyAction(key(' ', { target: { tagName: 'DIV', role: 'tab', focusVisible: true } }))).toBeNull();
   });
 
-  it('lets tabs and radio groups keep their arrows', () => {
-    expect(keyAction(key('ArrowRight', { target: { tagName: 'DIV', role: 'tab' } }))).toBeNull();
-    expect(keyAction(key('ArrowLeft', { target: { tagName: 'BUTTON', role: 'radio' } }))).toBeNull();
+  it('steps frames with every frame key on a side tab or speed toggle (they do not swallow them)', () => {
+    for (const target of [{ tagName: 'DIV', role: 'tab' }, { tagName: 'BUTTON', role: 'radio' }, { tagName: 'DIV', role: 'tab', focusVisible: true }]) {
+      expect(keyAction(key('ArrowRight', { target }))).toEqual({ type: 'step', by: 1 });
+      expect(keyAction(key('ArrowLeft', { target, shiftKey: true }))).toEqual({ type: 'step', by: -10 });
+      expect(keyAction(key('End', { target }))).toEqual({ type: 'last' });
+      expect(keyAction(key(']', { target }))).toEqual({ type: 'event-jump', dir: 1 });
+      expect(keyAction(key(',', { target }))).toEqual({ type: 'speed', dir: -1 });
+    }
+    for (const k of FRAME_KEYS) expect(keyAction(key(k, { target: { tagName: 'BUTTON', role: 'radio' } })), k).not.toBeNull();
+    expect(focusOwnsKey(key('ArrowDown', { target: { tagName: 'DIV', role: 'tab' } }))).toBe(true);
     expect(keyAction(key('i', { target: { tagName: 'BUTTON', role: 'radio' } }))).toEqual({ type: 'mark', kind: 'initial_contact' });
+  });
+
+  it('G chooses the Angle gauge', () => {
+    expect(keyAction(key('g'))).toEqual({ type: 'tool', tool: 'gauge' });
+    expect(keyAction(key('G', { shiftKey: true }))).toEqual({ type: 'tool', tool: 'gauge' });
   });
 
   it('K keeps the frame as a still, but not with Ctrl (the browser keeps that)', () => {
@@ -99,7 +114,7 @@ describe('focus that keeps keys', () => {
 describe('KEY_HELP', () => {
   it('lists every group with rows, and each documented single key does something', () => {
     expect(KEY_HELP.map((g) => g.title)).toEqual(['Frames', 'Marking', 'Tools and view']);
-    const singles = ['[', ']', ',', '.', 'S', 'I', 'M', 'O', 'C', 'L', 'P', 'B', 'F', 'A', 'K', '?'];
+    const singles = ['[', ']', ',', '.', 'S', 'I', 'M', 'O', 'C', 'L', 'P', 'B', 'G', 'F', 'A', 'K', '?'];
     const listed = KEY_HELP.flatMap((g) => g.rows.flatMap((r) => r.keys));
     for (const k of singles) {
       expect(listed).toContain(k);

@@ -3,8 +3,9 @@
  * from a key event to an action. Pure: the page turns actions into edits and moves.
  */
 import type { GaitEventKind } from '../../../contracts/annotations';
+import { FocusTarget, pageTakesKey } from '../../shared/keys/key-routing';
 
-export type ReviewTool = 'landmark' | 'pan' | 'scale';
+export type ReviewTool = 'landmark' | 'pan' | 'scale' | 'gauge';
 
 export type ReviewAction =
   | { type: 'step'; by: number }
@@ -36,7 +37,7 @@ export interface KeyInput {
   metaKey: boolean;
   altKey: boolean;
   /** The focused element, when known. */
-  target?: { tagName?: string; type?: string; isContentEditable?: boolean; role?: string | null } | null;
+  target?: FocusTarget | null;
 }
 
 /** One row of the help table. */
@@ -61,6 +62,7 @@ export const KEY_HELP: KeyHelpGroup[] = [
       { keys: ['[', ']'], does: 'Previous / next marked gait event' },
       { keys: ['Space'], does: 'Play / pause' },
       { keys: [',', '.'], does: 'Slower / faster playback' },
+      { keys: ['↑', '↓'], does: 'Move between tabs or options of the focused control (← → keep stepping frames)' },
     ],
   },
   {
@@ -70,10 +72,10 @@ export const KEY_HELP: KeyHelpGroup[] = [
       { keys: ['S'], does: 'Switch side (left / right)' },
       { keys: ['I', 'M', 'O'], does: 'Mark or unmark Initial contact / Midstance / Toe-off on this frame' },
       { keys: ['C'], does: 'Copy the points of the nearest earlier marked frame' },
-      { keys: ['Delete'], does: 'Remove the selected point' },
+      { keys: ['Delete'], does: 'Remove the selected point or angle gauge' },
       { keys: ['Ctrl + Z'], does: 'Undo' },
       { keys: ['Ctrl + Shift + Z', 'Ctrl + Y'], does: 'Redo' },
-      { keys: ['Esc'], does: 'Deselect, or stop drawing the scale bar' },
+      { keys: ['Esc'], does: 'Deselect, or stop drawing the scale bar or an angle gauge' },
     ],
   },
   {
@@ -82,7 +84,9 @@ export const KEY_HELP: KeyHelpGroup[] = [
       { keys: ['L'], does: 'Landmark tool (click to place, drag to adjust)' },
       { keys: ['P'], does: 'Pan tool (drag to move the view)' },
       { keys: ['B'], does: 'Scale bar tool (drag along an object of known length)' },
+      { keys: ['G'], does: 'Angle gauge: three clicks measure any angle (end, vertex, end); drag a point to adjust' },
       { keys: ['+', '−'], does: 'Zoom in / out' },
+      { keys: ['Ctrl + wheel', '⌘ + wheel', 'Pinch'], does: 'Zoom around the pointer (the wheel alone scrolls the page)' },
       { keys: ['F'], does: 'Fit the frame to the view' },
       { keys: ['A'], does: 'Show or hide angle labels' },
       { keys: ['K'], does: 'Keep this frame as a still to share (opens Save still)' },
@@ -91,35 +95,19 @@ export const KEY_HELP: KeyHelpGroup[] = [
   },
 ];
 
-const NAVIGATION_KEYS = new Set(['ArrowLeft', 'ArrowRight', 'ArrowUp', 'ArrowDown', 'Home', 'End', 'PageUp', 'PageDown']);
-const TEXT_INPUT_TYPES = new Set(['text', 'search', 'number', 'email', 'password', 'tel', 'url', 'date', 'time', 'datetime-local', 'month', 'week', '']);
+/**
+ * The frame keys of the Frames group: outside text fields they always move frames, whatever
+ * control was clicked last (see `shared/keys/key-routing.ts`).
+ */
+export const FRAME_KEYS: ReadonlySet<string> = new Set(['ArrowLeft', 'ArrowRight', 'Home', 'End', '[', ']', ' ', ',', '.']);
 
 /**
- * Whether the focused element keeps this key for itself: text fields keep every key; sliders keep
- * arrows, Home and End (they move themselves, and the page follows); buttons, links and toggles
- * keep Space and Enter.
+ * Whether the focused element keeps this key for itself: text fields keep every key; otherwise the
+ * frame keys are the page's, and other keys stay with a control that uses them (Up/Down in tabs,
+ * toggle groups and the slider; Space/Enter on a button reached with the keyboard).
  */
 export function focusOwnsKey(input: KeyInput): boolean {
-  const t = input.target;
-  if (!t) return false;
-  if (t.isContentEditable) return true;
-  const tag = (t.tagName ?? '').toUpperCase();
-  if (tag === 'TEXTAREA' || tag === 'SELECT') return true;
-  if (tag === 'INPUT') {
-    const type = (t.type ?? 'text').toLowerCase();
-    if (TEXT_INPUT_TYPES.has(type)) return true;
-    if (type === 'range') return NAVIGATION_KEYS.has(input.key);
-    return input.key === ' ' || input.key === 'Enter';
-  }
-  if (t.role === 'slider') return NAVIGATION_KEYS.has(input.key);
-  // Tabs, radio groups and menus move between their items with the arrows.
-  if (t.role === 'tab' || t.role === 'radio' || t.role === 'menuitem' || t.role === 'option') {
-    return NAVIGATION_KEYS.has(input.key) || input.key === ' ' || input.key === 'Enter';
-  }
-  if (tag === 'BUTTON' || tag === 'A' || t.role === 'button' || t.role === 'checkbox' || t.role === 'switch') {
-    return input.key === ' ' || input.key === 'Enter';
-  }
-  return false;
+  return !pageTakesKey(input.key, input.target, FRAME_KEYS);
 }
 
 /** The action for a key press, or null when the key is not ours (or the focus keeps it). */
@@ -193,6 +181,8 @@ export function keyAction(input: KeyInput): ReviewAction | null {
       return { type: 'tool', tool: 'pan' };
     case 'b':
       return { type: 'tool', tool: 'scale' };
+    case 'g':
+      return { type: 'tool', tool: 'gauge' };
     case 'k':
       return { type: 'save-still' };
   }

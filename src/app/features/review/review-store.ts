@@ -436,6 +436,24 @@ export class ReviewStore {
     return result.command.label;
   }
 
+  /** Applies `changes` as one undo step called `label` (for tools kept in their own files). */
+  edit(label: string, changes: Change[]): void {
+    this.apply(label, changes);
+  }
+
+  /** Shows `changes` without an undo step (while something is dragged); {@link record} ends it. */
+  preview(changes: Change[]): void {
+    if (!changes.length) return;
+    this.annotations.update((s) => applyChanges(s, changes));
+    this.sync.edited();
+    this.requestDraw();
+  }
+
+  /** Records one undo step for changes already shown (the end of a drag). */
+  record(label: string, changes: Change[]): void {
+    if (changes.length) this.history$.update((h) => record(h, { label, changes }));
+  }
+
   private afterHistoryMove(): void {
     const sel = this.selected();
     if (sel && !this.pointAt(sel)) this.selected.set(null);

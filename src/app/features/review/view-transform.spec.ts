@@ -9,6 +9,7 @@ import {
   scaleLimits,
   screenToFraction,
   screenToFrame,
+  wheelIntent,
   wheelZoomFactor,
   zoomAt,
 } from './view-transform';
@@ -146,5 +147,13 @@ describe('frameFractionToViewFraction', () => {
     const inFrame = Math.atan2((0.6 - 0.3) * 720, (0.45 - 0.4) * 1280);
     const inView = Math.atan2((b.y - a.y) * 600, (b.x - a.x) * 800);
     expect(inView).toBeCloseTo(inFrame);
+  });
+});
+
+describe('wheelIntent', () => {
+  it('zooms only with Ctrl or ⌘ (and a trackpad pinch, sent as Ctrl + wheel); the plain wheel scrolls the page', () => {
+    expect(wheelIntent({ ctrlKey: false, metaKey: false })).toBe('scroll');
+    expect(wheelIntent({ ctrlKey: true, metaKey: false })).toBe('zoom');
+    expect(wheelIntent({ ctrlKey: false, metaKey: true })).toBe('zoom');
   });
 });

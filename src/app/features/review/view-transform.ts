@@ -132,6 +132,14 @@ export function wheelZoomFactor(deltaY: number, deltaMode = 0): number {
   return Math.exp(-clamp(px, -200, 200) * 0.0015);
 }
 
+/**
+ * What a wheel turn over the frame does: zoom around the pointer with Ctrl or ⌘ held (a trackpad
+ * pinch arrives as Ctrl + wheel too); anything else is left to the browser, so the page scrolls.
+ */
+export function wheelIntent(e: { ctrlKey: boolean; metaKey: boolean }): 'zoom' | 'scroll' {
+  return e.ctrlKey || e.metaKey ? 'zoom' : 'scroll';
+}
+
 function clamp(v: number, lo: number, hi: number): number {
   return Math.min(hi, Math.max(lo, v));
 }

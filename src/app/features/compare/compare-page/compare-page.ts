@@ -1,5 +1,5 @@
 import { DatePipe, LowerCasePipe, formatDate } from '@angular/common';
-import { ChangeDetectionStrategy, Component, ElementRef, LOCALE_ID, computed, effect, inject, input, linkedSignal, signal, viewChild } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, LOCALE_ID, computed, effect, inject, input, linkedSignal, signal, viewChild } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -12,24 +12,28 @@ import { MatTooltipModule } from '@angular/material/tooltip';
 import { MatDialog } from '@angular/material/dialog';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
-import { CategoryScale, Chart, ChartConfiguration, Legend, LineController, LineElement, LinearScale, PointElement, Tooltip } from 'chart.js';
+import { CategoryScale, Chart, Legend, LineController, LineElement, LinearScale, PointElement, Tooltip } from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
 import { catchError, forkJoin, from, map, of, switchMap } from 'rxjs';
-import { GAIT_EVENT_KINDS, GAIT_EVENT_LABELS, type ClipAnnotations, type FrameLandmarks, type GaitEventKind } from '../../../../contracts/annotations';
+import { GAIT_EVENT_KINDS, GAIT_EVENT_LABELS, type ClipAnnotations, type GaitEventKind } from '../../../../contracts/annotations';
 import type { Assessment } from '../../../../contracts/api';
 import { ASSESSMENT_KIND_LABELS, SIDES, type Side } from '../../../../contracts/assessment';
 import type { ComparisonClip, ComparisonRow, MeasureKey } from '../../../../contracts/measures';
 import { errorMessage } from '../../../core/api-error';
+import { pageTakesKey, type FocusTarget } from '../../../shared/keys/key-routing';
+import { listenToPageKeys } from '../../../shared/keys/page-keys';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentsApi } from '../../assessments/assessments-api';
 import { AthletesApi } from '../../athletes/athletes-api';
 import { fullName } from '../../athletes/roster';
 import { ClipManifest, ReviewApi } from '../../review/review-api';
-import { OVERLAY_COLOURS, OVERLAY_SEGMENTS, drawOverlay } from '../../review/kinematics-adapter';
+import { GHOST_COLOURS, OVERLAY_COLOURS } from '../../../../kinematics';
 import { openSaveStill } from '../../stills/save-still-dialog/save-still-dialog';
 import { CompareApi } from '../compare-api';
-import { CAUTION_LINE, VERDICT_TEXT, alignAtHip, citationText, defaultPair, eventFrames, formatValue, frameOfStep, landmarksAt, lastCommonStep, sideText, stepKey, trendSeries } from '../compare-logic';
+import { drawCompareFrame } from '../compare-canvas';
+import { CAUTION_LINE, COMPARE_FRAME_KEYS, alignAtHip, citationText, defaultPair, eventFrames, formatValue, frameOfStep, landmarksAt, lastCommonStep, sideText, stepKey, verdictText } from '../compare-logic';
+import { TREND_SIDE_STYLE, trendChart, unitTitle } from '../trend-chart';
 
 // Only the chart.js parts this line chart uses.
 Chart.register(LineController, LineElement, PointElement, LinearScale, CategoryScale, Tooltip, Legend);
@@ -46,8 +50,6 @@ interface ShownFrame {
   bitmap: ImageBitmap;
 }
 
-const TREND_COLOURS = ['#1f5f4a', '#E08A1E', '#7B4FD6', '#3E4C59', '#b23a48', '#2f6fb0'];
-
 /**
  * `/athletes/:athleteId/compare` (staff): two visits side by side at the same gait event, or both
  * skeletons on one frame aligned at the hip; every measure with its change and whether the change
@@ -59,7 +61,6 @@ const TREND_COLOURS = ['#1f5f4a', '#E08A1E', '#7B4FD6', '#3E4C59', '#b23a48', '#
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './compare-page.html',
   styleUrl: './compare-page.scss',
-  host: { '(document:keydown)': 'onKey($event)' },
 })
 export class ComparePage {
   private readonly api = inject(CompareApi);
@@ -79,7 +80,10 @@ export class ComparePage {
   protected readonly eventLabels = GAIT_EVENT_LABELS;
   protected readonly sides = SIDES;
   protected readonly sideText = sideText;
-  protected readonly verdictText = VERDICT_TEXT;
+  protected readonly verdictText = verdictText;
+  protected readonly overlayColours = OVERLAY_COLOURS;
+  protected readonly ghostColours = GHOST_COLOURS;
+  protected readonly trendSideStyle = TREND_SIDE_STYLE;
   protected readonly citationText = citationText;
   protected readonly formatValue = formatValue;
   protected readonly errorMessage = errorMessage;
@@ -111,7 +115,8 @@ export class ComparePage {
 
   // ── Viewer ──
   protected readonly side = signal<Side>('right');
-  protected readonly eventKind = signal<GaitEventKind>('initial_contact');
+  /** Opens at toe-off, where the headline measure (hip extension at toe-off) is read. */
+  protected readonly eventKind = signal<GaitEventKind>('toe_off');
   protected readonly step = signal(0);
   protected readonly mode = signal<'side_by_side' | 'overlay'>('side_by_side');
 
@@ -162,86 +167,58 @@ export class ComparePage {
     params: () => (this.trendKeys().length && this.list().length ? { athlete: this.id(), keys: this.trendKeys() } : undefined),
     stream: ({ params }) => this.api.trends(params.athlete, params.keys),
   });
-  protected readonly trendData = computed<ChartConfiguration<'line', (number | null)[]>['data']>(() => {
+  /** Lines per measure and side (colour and dash by side, marker by measure), one axis per unit. */
+  protected readonly trendChart = computed(() => {
     const t = this.trends.value();
-    if (!t) return { labels: [], datasets: [] };
-    const labelOf = new Map(this.measureChoices().map((c) => [c.key, c.label]));
-    return {
-      labels: t.points.map((p) => this.visitLabel(p.date, p.kind)),
-      datasets: trendSeries(t, this.trendKeys()).map((s, i) => ({
-        label: `${labelOf.get(s.key) ?? s.key}${s.side ? ` (${sideText(s.side).toLowerCase()})` : ''}`,
-        data: s.values,
-        borderColor: TREND_COLOURS[i % TREND_COLOURS.length],
-        backgroundColor: TREND_COLOURS[i % TREND_COLOURS.length],
-        spanGaps: true,
-        tension: 0,
-      })),
-    };
+    return t ? trendChart(t, this.trendKeys(), t.points.map((p) => this.visitLabel(p.date, p.kind))) : null;
   });
-  protected readonly trendOptions: ChartConfiguration<'line'>['options'] = {
-    responsive: true,
-    maintainAspectRatio: false,
-    animation: false,
-    plugins: { legend: { position: 'bottom' } },
-  };
+  protected readonly unitTitle = unitTitle;
+
+  /** CSS width of the frames, so labels are redrawn at their view size when the layout changes. */
+  private readonly viewWidth = signal(0);
 
   constructor() {
+    // Before any control: a clicked toggle or button must not swallow the step keys.
+    listenToPageKeys((e, target) => this.onKey(e, target));
+    const resize = new ResizeObserver((entries) => this.viewWidth.set(Math.round(entries[0]?.contentRect.width ?? 0)));
+    inject(DestroyRef).onDestroy(() => resize.disconnect());
+    let watched: Element | null = null;
     effect(() => {
       const mode = this.mode();
       const base = this.baselineFrame.value();
       const re = this.retestFrame.value();
+      this.viewWidth();
+      const bc = this.baselineCanvas()?.nativeElement;
+      const rc = this.retestCanvas()?.nativeElement;
+      const oc = this.overlayCanvas()?.nativeElement;
+      const watch = (mode === 'side_by_side' ? rc : oc) ?? null;
+      if (watch !== watched) {
+        if (watched) resize.unobserve(watched);
+        if (watch) resize.observe(watch);
+        watched = watch;
+      }
       if (mode === 'side_by_side') {
-        const bc = this.baselineCanvas()?.nativeElement;
-        const rc = this.retestCanvas()?.nativeElement;
-        if (bc) this.draw(bc, base, null);
-        if (rc) this.draw(rc, re, null);
-      } else {
-        const oc = this.overlayCanvas()?.nativeElement;
-        if (oc) this.draw(oc, re, base);
+        if (bc) drawCompareFrame(bc, this.asFrame(base), null);
+        if (rc) drawCompareFrame(rc, this.asFrame(re), null);
+      } else if (oc) {
+        const shown = this.asFrame(re);
+        const target = shown?.landmarks.find((r) => r.side === this.side())?.points.hip ?? null;
+        const ghost = base ? alignAtHip(landmarksAt(base.loaded.annotations.landmarks, base.frame), this.side(), target) : null;
+        drawCompareFrame(oc, shown, ghost);
       }
     });
   }
 
-  /** Draws a frame and its skeleton; with `ghost`, the other visit's skeleton aligned at the hip. */
-  private draw(canvas: HTMLCanvasElement, shown: ShownFrame | undefined, ghost: ShownFrame | undefined | null): void {
-    const ctx = canvas.getContext('2d');
-    if (!ctx) return;
-    if (!shown) {
-      ctx.clearRect(0, 0, canvas.width, canvas.height);
-      return;
-    }
-    const size = { width: shown.loaded.manifest.width, height: shown.loaded.manifest.height };
-    canvas.width = size.width;
-    canvas.height = size.height;
-    ctx.drawImage(shown.bitmap, 0, 0, size.width, size.height);
-    const rows = landmarksAt(shown.loaded.annotations.landmarks, shown.frame);
-    if (ghost) {
-      const target = rows.find((r) => r.side === this.side())?.points.hip ?? null;
-      this.drawGhost(ctx, alignAtHip(landmarksAt(ghost.loaded.annotations.landmarks, ghost.frame), this.side(), target), size);
-    }
-    drawOverlay(ctx, { frameSize: size, landmarks: rows, nearSide: shown.loaded.clip.nearSide, direction: shown.loaded.clip.direction, showAngles: true });
-  }
-
-  /** The baseline skeleton, dashed and lighter, under the re-test's. */
-  private drawGhost(ctx: CanvasRenderingContext2D, rows: FrameLandmarks[], size: { width: number; height: number }): void {
-    ctx.save();
-    ctx.globalAlpha = 0.6;
-    ctx.lineWidth = Math.max(1.5, Math.min(size.width, size.height) * 0.004);
-    ctx.setLineDash([8, 6]);
-    ctx.lineCap = 'round';
-    for (const row of rows) {
-      for (const s of OVERLAY_SEGMENTS) {
-        const a = row.points[s.from];
-        const b = row.points[s.to];
-        if (!a || !b) continue;
-        ctx.strokeStyle = s.trunk ? '#d9dee3' : OVERLAY_COLOURS[row.side];
-        ctx.beginPath();
-        ctx.moveTo(a.x * size.width, a.y * size.height);
-        ctx.lineTo(b.x * size.width, b.y * size.height);
-        ctx.stroke();
-      }
-    }
-    ctx.restore();
+  private asFrame(shown: ShownFrame | undefined) {
+    if (!shown) return null;
+    const { loaded, frame, bitmap } = shown;
+    return {
+      bitmap,
+      frameSize: { width: loaded.manifest.width, height: loaded.manifest.height },
+      landmarks: landmarksAt(loaded.annotations.landmarks, frame),
+      nearSide: loaded.clip.nearSide,
+      direction: loaded.clip.direction,
+    };
   }
 
   protected move(delta: number): void {
@@ -265,13 +242,14 @@ export class ComparePage {
     });
   }
 
-  protected onKey(event: KeyboardEvent): void {
-    if (this.dialog.openDialogs.length) return;
-    const target = event.target as HTMLElement | null;
-    if (target?.closest('input, textarea, select, mat-select, [contenteditable="true"]')) return;
+  /** Every key press, heard before the focused control: the step keys move both visits. */
+  protected onKey(event: KeyboardEvent, target: FocusTarget | null): void {
+    if (event.defaultPrevented || this.dialog.openDialogs.length || event.ctrlKey || event.metaKey || event.altKey) return;
+    if (event.target instanceof HTMLElement && event.target.closest('.cdk-overlay-container')) return;
     const delta = stepKey(event.key);
-    if (!delta) return;
+    if (!delta || !pageTakesKey(event.key, target, COMPARE_FRAME_KEYS)) return;
     event.preventDefault();
+    event.stopPropagation();
     this.move(delta);
   }
 

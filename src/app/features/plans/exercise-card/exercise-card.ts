@@ -9,7 +9,8 @@ let nextId = 0;
 
 /**
  * An exercise: name, kind and region, dose (the prescription when given, else the library
- * default), purpose, and step-by-step instructions with cautions behind "How to do it".
+ * default), purpose, and step-by-step instructions with cautions behind "How to do it" — and,
+ * for the staff, the published programme it comes from.
  */
 @Component({
   selector: 'app-exercise-card',
@@ -27,6 +28,8 @@ export class ExerciseCard {
   readonly expanded = input(false);
   /** Heading level of the name (h3 inside pages, h2 in lists). */
   readonly headingLevel = input<2 | 3 | 4>(3);
+  /** Whether to show where the exercise comes from (staff pages; the athlete's plan leaves it out). */
+  readonly showSource = input(false);
 
   private readonly toggled = signal<boolean | null>(null);
   protected readonly open = computed(() => this.toggled() ?? this.expanded());

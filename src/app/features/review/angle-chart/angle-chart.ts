@@ -1,22 +1,35 @@
 import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, viewChild } from '@angular/core';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
-import { Chart, ChartConfiguration, Legend, LineController, LineElement, LinearScale, PointElement, Tooltip } from 'chart.js';
+import { MatTooltipModule } from '@angular/material/tooltip';
+import { Chart, ChartConfiguration, LineController, LineElement, LinearScale, PointElement, Tooltip } from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
 import { SIDES } from '../../../../contracts/assessment';
-import { ANGLE_SERIES, AngleSeriesId, MarkerState, angleDatasets, eventMarkersPlugin, frameFromChartValue } from '../chart-data';
+import { eventNamesAt } from '../../../../kinematics/event-names';
+import {
+  ANGLE_SERIES,
+  AngleSeriesId,
+  MARKER_LABEL_ROWS,
+  MARKER_LABEL_ROW_PX,
+  MarkerState,
+  angleDatasets,
+  eventMarkersPlugin,
+  frameFromChartValue,
+} from '../chart-data';
 import { ReviewStore } from '../review-store';
 import { MEASURES_CAUTION } from '../../../shared/caution';
 
-// Only the chart.js parts this line chart uses.
-Chart.register(LineController, LineElement, PointElement, LinearScale, Tooltip, Legend);
+// Only the chart.js parts this line chart uses (the legend is ours, in HTML).
+Chart.register(LineController, LineElement, PointElement, LinearScale, Tooltip);
 
 /**
- * Joint angles across the clip's frames for the marked frames, with the gait events as vertical
- * markers and the current frame as a line. Clicking the chart moves to that frame.
+ * Joint angles (degrees) across the clip's frames for the marked frames, with the gait events as
+ * vertical markers (labels staggered so they never overlap; the tooltip names a frame's events in
+ * full) and the current frame as a line; a legend of lines and event marks. Clicking the chart
+ * moves to that frame.
  */
 @Component({
   selector: 'app-angle-chart',
-  imports: [BaseChartDirective, MatButtonToggleModule],
+  imports: [BaseChartDirective, MatButtonToggleModule, MatTooltipModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './angle-chart.html',
   styleUrl: './angle-chart.scss',
@@ -29,6 +42,7 @@ export class AngleChart {
   /** The chart shows figures, so it carries the caution (quietly; the Measures tab shows it boxed). */
   protected readonly caution = MEASURES_CAUTION;
   protected readonly series = signal<AngleSeriesId[]>(['thigh', 'knee']);
+  protected readonly eventsKeyLong = 'IC initial contact, MS midstance, TO toe-off; L left, R right; hover a frame for its events in full';
 
   private readonly markers: MarkerState = {
     events: [],
@@ -42,6 +56,10 @@ export class AngleChart {
     datasets: angleDatasets(this.store.measures().value?.angles ?? [], this.series(), SIDES),
   }));
   protected readonly hasData = computed(() => this.data().datasets.length > 0);
+  /** One legend entry per line drawn: its colour, dash and name. */
+  protected readonly legend = computed(() =>
+    this.data().datasets.map((d) => ({ label: d.label ?? '', colour: String(d.borderColor), dash: Array.isArray(d.borderDash) ? d.borderDash.join(' ') : '' })),
+  );
 
   protected readonly options = computed<ChartConfiguration<'line', { x: number; y: number }[]>['options']>(() => {
     const last = Math.max(1, this.store.frameCount() - 1);
@@ -49,18 +67,25 @@ export class AngleChart {
       animation: false,
       responsive: true,
       maintainAspectRatio: false,
-      layout: { padding: { top: 16 } },
+      layout: { padding: { top: MARKER_LABEL_ROWS * MARKER_LABEL_ROW_PX + 4, right: 8 } },
       interaction: { mode: 'nearest', axis: 'x', intersect: false },
       scales: {
-        x: { type: 'linear', min: 0, max: last, title: { display: true, text: 'Frame' }, ticks: { precision: 0 } },
-        y: { title: { display: true, text: 'Degrees' } },
+        x: {
+          type: 'linear',
+          min: 0,
+          max: last,
+          title: { display: true, text: 'Frame (number)', padding: 0, font: { size: 12 } },
+          ticks: { precision: 0, font: { size: 11 }, maxTicksLimit: 12 },
+        },
+        y: { title: { display: true, text: 'Angle (°)', padding: 0, font: { size: 12 } }, ticks: { font: { size: 11 }, maxTicksLimit: 6 } },
       },
       plugins: {
-        legend: { position: 'bottom', labels: { usePointStyle: true, boxWidth: 8, padding: 8, font: { size: 11 } } },
+        legend: { display: false },
         tooltip: {
           callbacks: {
             title: (items) => (items.length ? `Frame ${items[0].parsed.x}` : ''),
             label: (item) => `${item.dataset.label}: ${item.parsed.y}°`,
+            footer: (items) => (items.length ? eventNamesAt(this.store.events(), items[0].parsed.x ?? -1).map((n) => n.text) : []),
           },
         },
       },

@@ -12,10 +12,13 @@ import {
 } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import type { FramePoint } from '../../../../contracts/annotations';
+import type { AngleGauge, FramePoint } from '../../../../contracts/annotations';
 import { LANDMARK_LABELS } from '../../../../contracts/annotations';
+import { eventNamesAt } from '../../../../kinematics/event-names';
+import { GaugeHandleRef, gaugeHandleCandidates } from '../gauge-ops';
+import { GaugeTool } from '../gauge-tool';
+import { paintFrame } from './frame-painter';
 import { HitCandidate, LandmarkRef, hitTest, hitTolerancePx, landmarkCandidates } from '../hit-test';
-import { drawOverlay } from '../kinematics-adapter';
 import { ReviewStore } from '../review-store';
 import { MIN_SCALE_LINE_PX, scaleLengthPx } from '../scale-bar';
 import {
@@ -24,13 +27,13 @@ import {
   ViewTransform,
   clampPan,
   fitTransform,
-  frameFractionToViewFraction,
   fractionToScreen,
   isOnFrame,
   panBy,
   pinchTransform,
   scaleLimits,
   screenToFraction,
+  wheelIntent,
   wheelZoomFactor,
   zoomAt,
 } from '../view-transform';
@@ -42,22 +45,25 @@ type Gesture =
   | { kind: 'point'; id: number; ref: LandmarkRef; start: FramePoint; offset: Vec; down: Vec; slop: number; moved: boolean }
   | { kind: 'scale-new'; id: number; a: FramePoint }
   | { kind: 'scale-end'; id: number; end: 'a' | 'b'; fromSaved: boolean }
+  | { kind: 'gauge-point'; id: number; ref: GaugeHandleRef; start: AngleGauge; offset: Vec; down: Vec; slop: number; moved: boolean }
   | { kind: 'pinch'; ids: [number, number]; view: ViewTransform; a0: Vec; b0: Vec };
 
 /** How far (CSS px) a press may move and still count as a click that places a landmark. */
 const TAP_SLOP_PX = 6;
 /** How far a press on a marker must move before it drags the marker (fingers wobble more). */
 const DRAG_SLOP_PX: Record<string, number> = { mouse: 2, pen: 4, touch: 8 };
-/** Marker radius on screen, CSS px (constant at any zoom). */
-const MARKER_PX = 6;
-const FONT = '"Source Sans 3", sans-serif';
+/** How long the "how to zoom" hint stays after a plain wheel turn over the frame, ms. */
+const WHEEL_HINT_MS = 1800;
+
 
 /**
  * The frame on a canvas with the overlay. Draws the cached bitmap of the current frame (or the
  * nearest one, dimmed, while it loads), the landmarks through the shared overlay code and the scale
- * bar. Pointer: click to place the chosen landmark, drag a marker to adjust it, drag empty space,
- * the middle button, Shift + drag or two fingers to pan, wheel or pinch to zoom around the pointer;
- * with the scale tool, drag along the object of known length.
+ * bar, angle gauges and the current frame's gait events in words. Pointer: click to place the
+ * chosen landmark, drag a marker to adjust it, drag empty space, the middle button, Shift + drag or
+ * two fingers to pan, Ctrl/⌘ + wheel or pinch to zoom around the pointer (the plain wheel scrolls
+ * the page); with the scale tool, drag along the object of known length; with the Angle gauge,
+ * click three points (end, vertex, end) and drag a point to adjust.
  */
 @Component({
   selector: 'app-frame-viewer',
@@ -69,6 +75,7 @@ const FONT = '"Source Sans 3", sans-serif';
 })
 export class FrameViewer {
   protected readonly store = inject(ReviewStore);
+  protected readonly gauges = inject(GaugeTool);
   private readonly host = inject<ElementRef<HTMLElement>>(ElementRef);
   private readonly canvasRef = viewChild.required<ElementRef<HTMLCanvasElement>>('canvas');
 
@@ -78,6 +85,11 @@ export class FrameViewer {
   /** Zoom as a percentage of the frame's own pixels. */
   readonly zoomPercent = computed(() => Math.round(this.view().scale * 100));
   protected readonly cursor = signal('crosshair');
+  /** Whether the "Ctrl/⌘ + wheel zooms" hint shows (after a plain wheel turn over the frame). */
+  protected readonly wheelHint = signal(false);
+  private wheelHintTimer: ReturnType<typeof setTimeout> | null = null;
+  /** The gait events marked on this frame, in words ("Right toe-off · step 3"). */
+  protected readonly frameEvents = computed(() => eventNamesAt(this.store.events(), this.store.frame()));
 
   private readonly pointers = new Map<number, Vec>();
   private gesture: Gesture = { kind: 'none' };
@@ -101,6 +113,7 @@ export class FrameViewer {
     const base = `Frame ${this.store.frame()} of ${this.store.frameCount()}.`;
     if (tool === 'scale') return `${base} Drag along an object of known length to draw the scale bar.`;
     if (tool === 'pan') return `${base} Drag to move the view.`;
+    if (tool === 'gauge') return `${base} Angle gauge: click ${this.gauges.nextClick()}; drag a gauge's point to adjust it.`;
     if (!this.store.armed()) return `${base} All landmarks of this side are placed; drag a marker to adjust it.`;
     return `${base} Click to place ${LANDMARK_LABELS[this.store.landmark()]}; drag a marker to adjust it.`;
   });
@@ -111,6 +124,7 @@ export class FrameViewer {
     destroyRef.onDestroy(() => {
       this.store.attachViewer(null);
       if (this.raf !== null) cancelAnimationFrame(this.raf);
+      if (this.wheelHintTimer !== null) clearTimeout(this.wheelHintTimer);
     });
 
     // Anything on screen changed: draw on the next animation frame.
@@ -122,6 +136,10 @@ export class FrameViewer {
       this.store.tool();
       this.store.scaleDraft();
       this.store.annotations().scale;
+      this.gauges.frameGauges();
+      this.gauges.selected();
+      this.gauges.draftPoints();
+      this.gauges.hover();
       this.store.cache()?.version();
       this.view();
       this.viewSize();
@@ -174,101 +192,26 @@ export class FrameViewer {
 
   /** Draws the frame and overlay now. */
   draw(): void {
-    const canvas = this.canvasRef().nativeElement;
-    const ctx = canvas.getContext('2d');
-    const size = this.viewSize();
-    if (!ctx || size.width <= 0 || size.height <= 0) return;
-    const dpr = globalThis.devicePixelRatio || 1;
-    const w = Math.round(size.width * dpr);
-    const h = Math.round(size.height * dpr);
-    if (canvas.width !== w || canvas.height !== h) {
-      canvas.width = w;
-      canvas.height = h;
-    }
-    ctx.setTransform(1, 0, 0, 1, 0, 0);
-    ctx.fillStyle = '#1e2422';
-    ctx.fillRect(0, 0, w, h);
-
     const store = this.store;
-    const frame = store.frameSize();
-    if (frame.width <= 0) return;
-    const t = this.view();
-    const f = store.frame();
-    const cache = store.cache();
-    const exact = cache?.get(f) ?? null;
-    const shown = exact ?? cache?.nearest(f)?.bitmap ?? null;
-
-    ctx.setTransform(dpr * t.scale, 0, 0, dpr * t.scale, dpr * t.tx, dpr * t.ty);
-    ctx.imageSmoothingEnabled = t.scale < 3;
-    if (shown) {
-      ctx.drawImage(shown, 0, 0, frame.width, frame.height);
-      if (!exact) {
-        ctx.fillStyle = 'rgba(20, 24, 23, 0.45)';
-        ctx.fillRect(0, 0, frame.width, frame.height);
-      }
-    } else {
-      ctx.fillStyle = '#2b3230';
-      ctx.fillRect(0, 0, frame.width, frame.height);
-    }
-
-    // The overlay is drawn in view space (the view standing in for the frame), so markers, lines
-    // and labels keep their size on screen at any zoom; see frameFractionToViewFraction.
-    ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
-    const toView = (p: FramePoint) => frameFractionToViewFraction(t, frame, size, p);
-    const scale = store.annotations().scale;
-    const showScale = scale && (store.tool() === 'scale' || scale.frame === f) ? scale : null;
-    drawOverlay(ctx, {
-      frameSize: size,
-      landmarks: store.frameRows().map((row) => ({
-        ...row,
-        points: Object.fromEntries(Object.entries(row.points).map(([name, p]) => [name, toView(p)])),
-      })),
+    paintFrame(this.canvasRef().nativeElement, {
+      view: this.view(),
+      viewSize: this.viewSize(),
+      frameSize: store.frameSize(),
+      frame: store.frame(),
+      cache: store.cache(),
+      rows: store.frameRows(),
       nearSide: store.nearSide(),
       direction: store.direction(),
       showAngles: store.showAngles(),
       selected: store.selected(),
-      scale: showScale ? { ...showScale, a: toView(showScale.a), b: toView(showScale.b) } : null,
-      fontFamily: FONT,
-      markerRadiusPx: MARKER_PX,
+      scale: store.annotations().scale,
+      scaleTool: store.tool() === 'scale',
+      scaleDraft: store.scaleDraft(),
+      gauges: this.gauges.frameGauges(),
+      selectedGauge: this.gauges.selected(),
+      gaugeDraft: this.gauges.draftPoints(),
+      hover: this.gauges.hover(),
     });
-
-    const draft = store.scaleDraft();
-    if (draft) {
-      ctx.setTransform(dpr * t.scale, 0, 0, dpr * t.scale, dpr * t.tx, dpr * t.ty);
-      this.drawDraft(ctx, draft.a, draft.b, frame, t.scale);
-    }
-  }
-
-  private drawDraft(ctx: CanvasRenderingContext2D, a: FramePoint, b: FramePoint, frame: Size, scale: number): void {
-    const ax = a.x * frame.width;
-    const ay = a.y * frame.height;
-    const bx = b.x * frame.width;
-    const by = b.y * frame.height;
-    ctx.save();
-    ctx.lineWidth = 4 / scale;
-    ctx.strokeStyle = 'rgba(0, 0, 0, 0.6)';
-    ctx.beginPath();
-    ctx.moveTo(ax, ay);
-    ctx.lineTo(bx, by);
-    ctx.stroke();
-    ctx.lineWidth = 2 / scale;
-    ctx.strokeStyle = '#ffffff';
-    ctx.setLineDash([8 / scale, 5 / scale]);
-    ctx.stroke();
-    ctx.setLineDash([]);
-    for (const [x, y] of [
-      [ax, ay],
-      [bx, by],
-    ]) {
-      ctx.beginPath();
-      ctx.arc(x, y, MARKER_PX / scale, 0, Math.PI * 2);
-      ctx.fillStyle = '#ffffff';
-      ctx.fill();
-      ctx.lineWidth = 2 / scale;
-      ctx.strokeStyle = '#1f5f4a';
-      ctx.stroke();
-    }
-    ctx.restore();
   }
 
   private measure(): void {
@@ -302,13 +245,19 @@ export class FrameViewer {
   }
 
   private onWheel(e: WheelEvent): void {
-    e.preventDefault();
-    if (e.ctrlKey || !e.shiftKey) {
-      // Wheel and trackpad pinch (ctrl + wheel) zoom around the pointer.
-      this.zoomAround(wheelZoomFactor(e.deltaY, e.deltaMode), this.local(e));
-    } else {
-      this.setView(panBy(this.view(), -e.deltaX || -e.deltaY, 0));
+    if (wheelIntent(e) === 'scroll') {
+      // The page scrolls; say how to zoom.
+      this.wheelHint.set(true);
+      if (this.wheelHintTimer !== null) clearTimeout(this.wheelHintTimer);
+      this.wheelHintTimer = setTimeout(() => {
+        this.wheelHintTimer = null;
+        this.wheelHint.set(false);
+      }, WHEEL_HINT_MS);
+      return;
     }
+    // Ctrl/⌘ + wheel and trackpad pinch (sent as Ctrl + wheel) zoom around the pointer.
+    e.preventDefault();
+    this.zoomAround(wheelZoomFactor(e.deltaY, e.deltaMode), this.local(e));
   }
 
   private toFraction(p: Vec): FramePoint {
@@ -371,6 +320,20 @@ export class FrameViewer {
       return;
     }
 
+    if (store.tool() === 'gauge') {
+      const handle = this.gaugeHit(p, e.pointerType);
+      const start = handle && this.gauges.gauge(handle.id);
+      if (handle && start && !this.gauges.draftPoints().length) {
+        const at = this.toFraction(p);
+        const point = start[handle.point];
+        const slop = DRAG_SLOP_PX[e.pointerType] ?? 2;
+        this.gesture = { kind: 'gauge-point', id: e.pointerId, ref: handle, start, offset: { x: point.x - at.x, y: point.y - at.y }, down: p, slop, moved: false };
+        return;
+      }
+      this.gesture = { kind: 'tap', id: e.pointerId, start: p, last: p };
+      return;
+    }
+
     const hit = this.landmarkHit(p, e.pointerType);
     if (hit) {
       // Selected on release (a click) or on the first real move (a drag), not yet: a click on a
@@ -391,6 +354,7 @@ export class FrameViewer {
     switch (g.kind) {
       case 'none':
         if (e.pointerType === 'mouse' && !this.pointers.size) this.updateHoverCursor(p, e.pointerType);
+        if (this.gauges.draftPoints().length) this.gauges.hover.set(clampFraction(this.toFraction(p)));
         return;
       case 'pinch': {
         const a1 = this.pointers.get(g.ids[0]);
@@ -427,6 +391,18 @@ export class FrameViewer {
         this.store.dragPoint(g.ref, { x: at.x + g.offset.x, y: at.y + g.offset.y });
         return;
       }
+      case 'gauge-point': {
+        if (e.pointerId !== g.id) return;
+        if (!g.moved) {
+          if (Math.hypot(p.x - g.down.x, p.y - g.down.y) < g.slop) return;
+          g.moved = true;
+          this.gauges.select(g.ref.id);
+          this.cursor.set('grabbing');
+        }
+        const at = this.toFraction(p);
+        this.gauges.drag(g.ref, clampFraction({ x: at.x + g.offset.x, y: at.y + g.offset.y }));
+        return;
+      }
       case 'scale-new': {
         if (e.pointerId !== g.id) return;
         this.store.scaleDraft.set({ frame: this.store.frame(), a: g.a, b: clampFraction(this.toFraction(p)) });
@@ -461,10 +437,16 @@ export class FrameViewer {
       this.finishGesture(false);
       return;
     }
-    if (g.kind === 'tap') {
+    if (g.kind === 'tap' && this.store.tool() === 'gauge') {
+      const at = this.toFraction(p);
+      if (isOnFrame(at)) this.gauges.click(at);
+      else if (!this.gauges.draftPoints().length) this.gauges.select(null);
+    } else if (g.kind === 'tap') {
       const at = this.toFraction(p);
       if (isOnFrame(at) && this.store.armed()) this.store.placeAt(at);
       else this.store.select(null);
+    } else if (g.kind === 'gauge-point' && !g.moved) {
+      this.gauges.select(g.ref.id);
     } else if (g.kind === 'point' && !g.moved) {
       this.clickOnMarker(g.ref, this.toFraction(p));
     }
@@ -479,6 +461,8 @@ export class FrameViewer {
     this.cursor.set(this.baseCursor());
     if (g.kind === 'point') {
       if (g.moved) this.store.endDrag(g.ref, g.start);
+    } else if (g.kind === 'gauge-point') {
+      if (g.moved) this.gauges.endDrag(g.start);
     } else if (g.kind === 'scale-new' || g.kind === 'scale-end') {
       const draft = this.store.scaleDraft();
       if (!draft) return;
@@ -516,8 +500,16 @@ export class FrameViewer {
     }
   }
 
+  /** Gauge handles of this frame under the pointer. */
+  private gaugeHit(p: Vec, pointerType: string): GaugeHandleRef | null {
+    const candidates = gaugeHandleCandidates(this.gauges.frameGauges(), this.store.frameSize(), this.view());
+    const selected = this.gauges.selected();
+    return hitTest(candidates, p, hitTolerancePx(pointerType), (k) => k.id === selected);
+  }
+
   private updateHoverCursor(p: Vec, pointerType: string): void {
     if (this.store.tool() === 'landmark' && this.landmarkHit(p, pointerType)) this.cursor.set('move');
+    else if (this.store.tool() === 'gauge' && !this.gauges.draftPoints().length && this.gaugeHit(p, pointerType)) this.cursor.set('move');
     else if (this.store.tool() === 'scale' && this.scaleEndHit(p, pointerType)) this.cursor.set('move');
     else this.cursor.set(this.baseCursor());
   }

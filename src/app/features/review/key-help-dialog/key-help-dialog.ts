@@ -10,8 +10,13 @@ import { KEY_HELP } from '../key-map';
   changeDetection: ChangeDetectionStrategy.OnPush,
   template: `
     <h2 mat-dialog-title>Keyboard</h2>
-    <mat-dialog-content>
-      <p class="intro">Keys work while the focus is not in a text field. On a Mac, use ⌘ for Ctrl.</p>
+    <!-- Focusable so keyboard users can scroll the list when it is taller than the dialog. -->
+    <mat-dialog-content tabindex="0" role="region" aria-label="Keys of the review workspace">
+      <p class="intro">
+        Keys work while the focus is not in a text field; the frame keys (← →, Home, End, [ ], Space, comma and full
+        stop) step frames even after you click a tab, toggle or button. The mouse wheel scrolls the page: to zoom the
+        frame, hold Ctrl (⌘ on a Mac) while scrolling, pinch, or use + and −. On a Mac, use ⌘ for Ctrl.
+      </p>
       <div class="groups">
         @for (group of groups; track group.title) {
           <section>
@@ -62,7 +67,7 @@ import { KEY_HELP } from '../key-map';
     th {
       text-align: start;
       font-weight: 400;
-      white-space: nowrap;
+      inline-size: 42%;
       padding: 3px 12px 3px 0;
       vertical-align: top;
     }
@@ -80,6 +85,7 @@ import { KEY_HELP } from '../key-map';
       background: var(--mat-sys-surface-container-lowest);
       font: var(--mat-sys-label-medium);
       text-align: center;
+      white-space: nowrap;
     }
     .sep {
       margin-inline: 3px;

@@ -9,9 +9,13 @@ import type { LandmarkName } from '../../../../contracts/annotations';
 import { LANDMARKS, LANDMARK_LABELS } from '../../../../contracts/annotations';
 import { SIDES, Side } from '../../../../contracts/assessment';
 import { previousMarkedFrame } from '../annotation-ops';
+import { GaugeTool } from '../gauge-tool';
 import { ReviewStore } from '../review-store';
 
-/** Side and landmark pickers, what is placed on this frame, copy from the previous marked frame. */
+/**
+ * Side and landmark pickers, what is placed on this frame, copy from the previous marked frame, and
+ * this frame's angle gauges (select, remove).
+ */
 @Component({
   selector: 'app-landmarks-panel',
   imports: [MatButtonModule, MatButtonToggleModule, MatIconModule, MatSlideToggleModule, MatTooltipModule],
@@ -21,6 +25,7 @@ import { ReviewStore } from '../review-store';
 })
 export class LandmarksPanel {
   protected readonly store = inject(ReviewStore);
+  protected readonly gauges = inject(GaugeTool);
   private readonly snackBar = inject(MatSnackBar);
 
   protected readonly sides = SIDES;
@@ -53,6 +58,12 @@ export class LandmarksPanel {
 
   protected remove(name: LandmarkName): void {
     this.store.removePoint({ side: this.store.side(), landmark: name });
+  }
+
+  /** Selects a gauge and turns the Angle gauge on, so its points can be dragged. */
+  protected selectGauge(id: string): void {
+    this.store.setTool('gauge');
+    this.gauges.select(id);
   }
 
   protected copyPrevious(): void {

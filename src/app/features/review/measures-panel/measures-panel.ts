@@ -2,12 +2,10 @@ import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/c
 import { MatIconModule } from '@angular/material/icon';
 import type { Measure } from '../../../../contracts/measures';
 import { MEASURES_CAUTION } from '../../../shared/caution';
+import { BandLine, bandLine } from '../measure-band';
 import {
-  EVIDENCE_LABELS,
   FOOT_STRIKE_LABELS,
   FOOT_STRIKE_SOURCE,
-  bandFlag,
-  bandRange,
   footStrikeClass,
   formatMeasure,
   formatValue,
@@ -24,14 +22,13 @@ interface MeasureRow {
   context: string;
   steps: { text: string; few: boolean };
   values: string;
-  flag: ReturnType<typeof bandFlag> | null;
-  band: { range: string; context: string; source: string; evidence: string } | null;
+  band: BandLine | null;
 }
 
 /**
  * The measures, computed live in the browser from the marks as shown: mean ± SD with unit, side,
- * event and step count; the derivation and cited reference band on expand; an outside-band flag
- * in words and icon.
+ * event and step count; beside each, where it sits against its reference band (in words and icon),
+ * the band with its unit and the band's source; the derivation and each step's value on expand.
  */
 @Component({
   selector: 'app-measures-panel',
@@ -64,7 +61,6 @@ export class MeasuresPanel {
   });
 
   private row(m: Measure): MeasureRow {
-    const band = m.band?.band;
     return {
       id: `${m.key}-${m.side ?? 'both'}`,
       measure: m,
@@ -72,10 +68,7 @@ export class MeasuresPanel {
       context: measureContext(m),
       steps: stepsText(m),
       values: m.values.map((v) => formatValue(v, m.unit)).join(', '),
-      flag: m.status === 'ok' && m.band ? bandFlag(m.band) : null,
-      band: band
-        ? { range: bandRange(band), context: band.context, source: band.source, evidence: EVIDENCE_LABELS[band.evidence] ?? band.evidence }
-        : null,
+      band: bandLine(m, this.store.bands()),
     };
   }
 }

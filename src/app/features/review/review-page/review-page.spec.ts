@@ -133,7 +133,7 @@ describe('ReviewPage', () => {
     expect(element.querySelector('app-frame-viewer')).toBeNull();
   });
 
-  it('opens the workspace, steps with the keyboard, marks events and undoes them', async () => {
+  async function openReady(): Promise<void> {
     await open(clip());
     backend.expectOne('/api/assessments/4').flush(assessment);
     backend.expectOne('/api/clips/7/manifest').flush({
@@ -145,6 +145,10 @@ describe('ReviewPage', () => {
     });
     backend.expectOne('/api/clips/7/annotations').flush(empty);
     await settle();
+  }
+
+  it('opens the workspace, steps with the keyboard, marks events and undoes them', async () => {
+    await openReady();
 
     expect(element.querySelector('app-frame-viewer canvas')).not.toBeNull();
     // Frames are fetched around the current one through the authorised route.
@@ -192,5 +196,48 @@ describe('ReviewPage', () => {
     await settle();
     expect(element.querySelector('app-events-panel .events')?.textContent).toContain('Toe-off');
     expect(fixture.componentInstance.leaveWarning()?.title).toBe('Leave before your marks are saved?');
+  });
+
+  it('steps frames with the arrows after a click on a side tab or a speed toggle, which keep their choice', async () => {
+    await openReady();
+    const tab = [...element.querySelectorAll<HTMLElement>('[role="tab"]')].find((t) => t.textContent?.includes('Events'))!;
+    tab.click();
+    tab.focus();
+    await settle();
+    press('ArrowRight', {}, tab);
+    press('ArrowRight', { shiftKey: true }, tab);
+    await settle();
+    expect(readout()).toBe('Frame 11 / 49');
+    expect(tab.getAttribute('aria-selected')).toBe('true');
+
+    const speed = [...element.querySelectorAll<HTMLButtonElement>('mat-button-toggle button')].find((b) => b.textContent?.includes('1/2×'))!;
+    speed.click();
+    speed.focus();
+    await settle();
+    press('ArrowLeft', {}, speed);
+    press('End', {}, speed);
+    press('Home', {}, speed);
+    press('ArrowRight', {}, speed);
+    await settle();
+    expect(readout()).toBe('Frame 1 / 49');
+    expect(speed.getAttribute('aria-checked')).toBe('true');
+  });
+
+  it('names the gait event on the frame ("Right toe-off · step 1") and offers the Angle gauge on G', async () => {
+    await openReady();
+    press('ArrowRight');
+    press('o');
+    await settle();
+    expect(element.querySelector('.frame-events')?.textContent?.replace(/\s+/g, ' ').trim()).toBe('Right toe-off · step 1');
+    press('ArrowRight');
+    await settle();
+    expect(element.querySelector('.frame-events')).toBeNull();
+
+    press('g');
+    await settle();
+    const gauge = element.querySelector<HTMLButtonElement>('mat-button-toggle button[aria-label="Angle gauge"]')!;
+    expect(gauge.getAttribute('aria-checked')).toBe('true');
+    expect(element.querySelector('.gauge-hint')?.textContent).toContain('the first arm’s end');
+    expect(element.querySelector('app-landmarks-panel .gauges')?.textContent).toContain('None.');
   });
 });

@@ -17,8 +17,11 @@ import type { ClipAnnotations } from '../../../../contracts/annotations';
 import { LANDMARKS } from '../../../../contracts/annotations';
 import type { AssessmentDetail, Clip } from '../../../../contracts/api';
 import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
+import { eventLineAt } from '../../../../kinematics/event-names';
 import { errorMessage, errorStatus } from '../../../core/api-error';
 import { LeaveGuarded, LeaveWarning, warnBeforeUnload } from '../../../core/leave-guard';
+import { listenToPageKeys } from '../../../shared/keys/page-keys';
+import type { FocusTarget } from '../../../shared/keys/key-routing';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentsApi } from '../../assessments/assessments-api';
@@ -32,8 +35,9 @@ import { SAVE_STATE_ICONS, SAVE_STATE_LABELS } from '../autosave';
 import { EventsPanel } from '../events-panel/events-panel';
 import { FrameCache } from '../frame-cache';
 import { FrameViewer } from '../frame-viewer/frame-viewer';
+import { GaugeTool } from '../gauge-tool';
 import { KeyHelpDialog } from '../key-help-dialog/key-help-dialog';
-import { ReviewAction, ReviewTool, keyAction } from '../key-map';
+import { FRAME_KEYS, ReviewAction, ReviewTool, keyAction } from '../key-map';
 import { DEFAULT_REFERENCE_BANDS } from '../kinematics-adapter';
 import { LandmarksPanel } from '../landmarks-panel/landmarks-panel';
 import { MeasuresPanel } from '../measures-panel/measures-panel';
@@ -63,6 +67,7 @@ const TOOLS: { id: ReviewTool; label: string; icon: string; key: string }[] = [
   { id: 'landmark', label: 'Landmark', icon: 'my_location', key: 'L' },
   { id: 'pan', label: 'Pan', icon: 'pan_tool', key: 'P' },
   { id: 'scale', label: 'Scale bar', icon: 'straighten', key: 'B' },
+  { id: 'gauge', label: 'Angle gauge', icon: 'square_foot', key: 'G' },
 ];
 
 /**
@@ -92,18 +97,18 @@ const TOOLS: { id: ReviewTool; label: string; icon: string; key: string }[] = [
     ScalePanel,
     MeasuresPanel,
   ],
-  providers: [ReviewStore, AnnotationSync],
+  providers: [ReviewStore, AnnotationSync, GaugeTool],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './review-page.html',
   styleUrl: './review-page.scss',
   host: {
     class: 'review-page',
     '(window:beforeunload)': 'onBeforeUnload($event)',
-    '(document:keydown)': 'onKeydown($event)',
   },
 })
 export class ReviewPage implements LeaveGuarded {
   protected readonly store = inject(ReviewStore);
+  protected readonly gauges = inject(GaugeTool);
   private readonly api = inject(ReviewApi);
   private readonly assessmentsApi = inject(AssessmentsApi);
   private readonly athletesApi = inject(AthletesApi);
@@ -193,6 +198,8 @@ export class ReviewPage implements LeaveGuarded {
   private openedClip: number | null = null;
 
   constructor() {
+    // Before any control: a clicked tab or toggle must not swallow the frame keys.
+    listenToPageKeys((e, target) => this.onKeydown(e, target));
     // Open the workspace once everything has loaded.
     effect(() => {
       const r = this.ready();
@@ -231,22 +238,16 @@ export class ReviewPage implements LeaveGuarded {
     warnBeforeUnload(event, this.leaveWarning());
   }
 
-  protected onKeydown(e: KeyboardEvent): void {
+  /** Every key press, heard before the focused control (see `listenToPageKeys`). */
+  protected onKeydown(e: KeyboardEvent, target: FocusTarget | null): void {
     if (e.defaultPrevented || !this.ready() || this.dialog.openDialogs.length) return;
     const el = e.target instanceof HTMLElement ? e.target : null;
     if (el?.closest('.cdk-overlay-container')) return;
-    const action = keyAction({
-      key: e.key,
-      shiftKey: e.shiftKey,
-      ctrlKey: e.ctrlKey,
-      metaKey: e.metaKey,
-      altKey: e.altKey,
-      target: el
-        ? { tagName: el.tagName, type: (el as HTMLInputElement).type, isContentEditable: el.isContentEditable, role: el.getAttribute('role') }
-        : null,
-    });
+    const action = keyAction({ key: e.key, shiftKey: e.shiftKey, ctrlKey: e.ctrlKey, metaKey: e.metaKey, altKey: e.altKey, target });
     if (!action) return;
     e.preventDefault();
+    // Frame keys are the page's alone: a focused tab, toggle or slider must not also act on them.
+    if (FRAME_KEYS.has(e.key)) e.stopPropagation();
     this.run(action);
   }
 
@@ -301,7 +302,8 @@ export class ReviewPage implements LeaveGuarded {
         break;
       }
       case 'delete':
-        if (!store.removeSelected()) this.say('Select a point first (click it)', true);
+        if (this.gauges.removeSelected()) this.say('Angle gauge removed');
+        else if (!store.removeSelected()) this.say('Select a point first (click it)', true);
         break;
       case 'undo': {
         const label = store.undo();
@@ -315,7 +317,7 @@ export class ReviewPage implements LeaveGuarded {
       }
       case 'escape':
         if (store.scaleDraft()) store.scaleDraft.set(null);
-        else store.select(null);
+        else if (!this.gauges.cancel()) store.select(null);
         break;
       case 'tool':
         this.setTool(action.tool);
@@ -339,19 +341,24 @@ export class ReviewPage implements LeaveGuarded {
     if (unsaved) store.saveNow();
     const frame = store.frame();
     const when = formatDate(r.assessment.date, 'mediumDate', this.locale);
+    // The frame's gait events in the same words as on the frame ("Right toe-off · step 3").
+    const events = eventLineAt(store.events(), frame);
     void openSaveStill({ dialog: this.dialog, snackBar: this.snackBar, router: this.router }, Number(this.athleteId()), {
       clipId: r.clip.id,
       frameIndex: frame,
       what: `Frame ${frame} (${formatMs(store.timeMs())}) of the ${ASSESSMENT_KIND_LABELS[r.assessment.kind]} · ${when}, ${r.clip.originalName}`,
       showAngles: store.showAngles(),
       unsavedMarks: unsaved,
+      caption: events ? `${events}.` : '',
     });
   }
 
   protected setTool(tool: ReviewTool): void {
     this.store.setTool(tool);
     if (tool === 'scale') this.tabIndex.set(PANEL_TABS.indexOf('scale'));
-    if (tool === 'landmark') this.tabIndex.set(PANEL_TABS.indexOf('landmarks'));
+    // The Landmarks tab lists this frame's gauges too.
+    if (tool === 'landmark' || tool === 'gauge') this.tabIndex.set(PANEL_TABS.indexOf('landmarks'));
+    if (tool === 'gauge') this.say('Angle gauge: click the first arm’s end, then the vertex, then the other end');
   }
 
   protected setRate(rate: PlaybackRate): void {

@@ -25,6 +25,8 @@ export interface SaveStillData {
   showAngles?: boolean;
   /** The review has marks not saved yet (the still is drawn from the saved ones). */
   unsavedMarks?: boolean;
+  /** The caption to start from (e.g. the frame's gait events, "Right toe-off · step 3."). */
+  caption?: string;
 }
 
 /**
@@ -44,7 +46,7 @@ export class SaveStillDialog {
   protected readonly data = inject<SaveStillData>(MAT_DIALOG_DATA);
 
   protected readonly max = CAPTION_MAX;
-  protected readonly caption = signal('');
+  protected readonly caption = signal(this.data.caption ?? '');
   protected readonly showAngles = signal(this.data.showAngles ?? true);
   protected readonly busy = signal(false);
   protected readonly captionError = signal<string | null>(null);
