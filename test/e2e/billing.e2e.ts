@@ -14,6 +14,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { PDFParse } from 'pdf-parse';
+import { axeProblems } from './axe';
 import { SCREENSHOTS, startHarness, type Harness } from './harness';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 
@@ -269,6 +270,7 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await page.getByLabel('Tax number (optional)').fill('GB 123 4567 89');
     await page.getByRole('button', { name: 'Save legal details' }).click();
     await expect.poll(async () => (await h.server.db('clinics').where({ name: 'Larchwood Running Clinic' }).first()).tax_number).toBe('GB 123 4567 89');
+    expect(await axeProblems(page)).toEqual([]);
     await page.screenshot({ path: shot('billing-legal-details-desktop.png') });
     await phoneShot(page, 'billing-legal-details-phone.png');
 
@@ -296,6 +298,7 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     // The invoice page names the seller with the legal details.
     const from = page.getByRole('region', { name: 'From' });
     await expect.poll(() => from.textContent()).toContain('Tax number: GB 123 4567 89');
+    expect(await axeProblems(page)).toEqual([]);
     await page.screenshot({ path: shot('billing-invoice-no-account-desktop.png') });
     await phoneShot(page, 'billing-invoice-no-account-phone.png');
 
@@ -305,12 +308,14 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await dialog.getByRole('heading', { name: 'Record a payment' }).waitFor();
     await dialog.getByLabel('Note (optional)').fill('Transfer ref. RT-2211');
     await page.waitForTimeout(400); // the dialog's opening animation
+    expect(await axeProblems(page, '.cdk-overlay-container')).toEqual([]);
     await page.screenshot({ path: shot('billing-record-payment-desktop.png') });
     await dialog.getByRole('button', { name: 'Mark as paid' }).click();
     await expect.poll(async () => (await h.server.db('invoices').where({ id }).first()).status).toBe('paid');
     expect(await h.server.db('invoices').where({ id }).first()).toMatchObject({ payment_method: 'bank_transfer', payment_note: 'Transfer ref. RT-2211' });
     await page.getByTestId('invoice-status').getByText('Paid').waitFor();
     expect(await page.getByTestId('invoice-paid').textContent()).toContain('Paid by bank transfer on');
+    expect(await axeProblems(page)).toEqual([]);
     await page.screenshot({ path: shot('billing-invoice-paid-transfer-desktop.png') });
     await phoneShot(page, 'billing-invoice-paid-transfer-phone.png');
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Receipt (PDF)' }).click()]);

@@ -11,6 +11,7 @@
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BrowserContext, Locator, Page } from 'playwright-core';
+import { axeProblems } from './axe';
 import { SCREENSHOTS, startHarness, type Harness } from './harness';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 
@@ -169,6 +170,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await page.getByRole('dialog').getByRole('button', { name: 'Close' }).click();
     await expect.poll(() => page.getByRole('dialog').count()).toBe(0);
     await page.setViewportSize(DESKTOP);
+    expect(await axeProblems(page)).toEqual([]);
     await fullShot(page, 'plans-builder.png');
     await page.getByRole('button', { name: 'Create plan' }).click();
     await page.waitForURL(/\/plans\/\d+$/);
@@ -226,6 +228,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await expect.poll(() => first.page.getByRole('heading', { name: 'Done for today' }).count()).toBe(1);
     expect(await first.page.getByRole('button', { name: 'Save session' }).count()).toBe(0);
     await fullShot(first.page, 'plans-portal-done-phone.png');
+    expect(await axeProblems(first.page)).toEqual([]);
     await first.page.goto(`${h.baseUrl}/portal`);
     await expect.poll(() => first.page.getByText("Today's session is done.").count()).toBe(1);
     await first.page.goto(`${h.baseUrl}/portal/plan`);
@@ -299,6 +302,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     const caution = page.getByRole('note').filter({ hasText: 'Pain scores and plan alerts point to what to look at' });
     await expect.poll(() => caution.count()).toBe(1);
     expect(await contrastOf(caution)).toBeGreaterThanOrEqual(4.5);
+    expect(await axeProblems(page)).toEqual([]);
     await fullShot(page, 'plans-roster-alert.png');
     await page.setViewportSize(PHONE);
     await page.waitForTimeout(800); // the shell switches to its phone layout
@@ -313,6 +317,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await expect.poll(() => page.getByRole('list', { name: 'Plans, newest first' }).getByRole('link').count()).toBe(1);
     expect(await page.getByRole('list', { name: 'Plans, newest first' }).textContent()).toContain('Pain 6/10 during, above the limit of 5/10');
     await expect.poll(() => page.getByRole('tabpanel').getByRole('note').filter({ hasText: 'Stop an exercise that causes sharp or worsening pain' }).count()).toBe(1);
+    expect(await axeProblems(page)).toEqual([]);
     await fullShot(page, 'plans-profile-alert.png');
     await page.setViewportSize(PHONE);
     await page.waitForTimeout(800); // the shell switches to its phone layout
@@ -350,6 +355,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     expect(await prompt.textContent()).toContain('so they cannot see this plan or log its sessions');
     expect(await prompt.getByRole('button', { name: 'Invite to Trailframe' }).count()).toBe(1);
     expect(await contrastOf(page.getByRole('note').filter({ hasText: 'Stop an exercise that causes sharp or worsening pain' }))).toBeGreaterThanOrEqual(4.5);
+    expect(await axeProblems(page)).toEqual([]);
     await fullShot(page, 'plans-invite-prompt.png');
     await page.setViewportSize(PHONE);
     await page.waitForTimeout(800); // the shell switches to its phone layout
