@@ -59,6 +59,14 @@ async function phoneShot(page: Page, name: string): Promise<void> {
   await page.setViewportSize(size);
 }
 
+/** Closes the confirmation snack bar (if any) and waits until it and its fade are gone. */
+async function dismissSnackBar(page: Page): Promise<void> {
+  const snack = page.locator('mat-snack-bar-container');
+  if (await snack.count()) await snack.getByRole('button').click();
+  await expect.poll(() => snack.count()).toBe(0);
+  await page.waitForTimeout(400);
+}
+
 const invoice = () => h.server.db('invoices').where({ id: invoiceId }).first();
 const mailTo = (to: string, subject: string) => h.server.db('mailbox_messages').where('to_address', 'like', `%${to}%`).andWhere('subject', subject).first();
 
@@ -270,6 +278,8 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await page.getByLabel('Tax number (optional)').fill('GB 123 4567 89');
     await page.getByRole('button', { name: 'Save legal details' }).click();
     await expect.poll(async () => (await h.server.db('clinics').where({ name: 'Larchwood Running Clinic' }).first()).tax_number).toBe('GB 123 4567 89');
+    // Once the confirmation is dismissed and the field's hint has faded back in.
+    await dismissSnackBar(page);
     expect(await axeProblems(page)).toEqual([]);
     await page.screenshot({ path: shot('billing-legal-details-desktop.png') });
     await phoneShot(page, 'billing-legal-details-phone.png');
@@ -298,6 +308,7 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     // The invoice page names the seller with the legal details.
     const from = page.getByRole('region', { name: 'From' });
     await expect.poll(() => from.textContent()).toContain('Tax number: GB 123 4567 89');
+    await dismissSnackBar(page);
     expect(await axeProblems(page)).toEqual([]);
     await page.screenshot({ path: shot('billing-invoice-no-account-desktop.png') });
     await phoneShot(page, 'billing-invoice-no-account-phone.png');
@@ -315,6 +326,7 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     expect(await h.server.db('invoices').where({ id }).first()).toMatchObject({ payment_method: 'bank_transfer', payment_note: 'Transfer ref. RT-2211' });
     await page.getByTestId('invoice-status').getByText('Paid').waitFor();
     expect(await page.getByTestId('invoice-paid').textContent()).toContain('Paid by bank transfer on');
+    await dismissSnackBar(page);
     expect(await axeProblems(page)).toEqual([]);
     await page.screenshot({ path: shot('billing-invoice-paid-transfer-desktop.png') });
     await phoneShot(page, 'billing-invoice-paid-transfer-phone.png');
