@@ -98,6 +98,14 @@ async function contrastOf(locator: Locator): Promise<number> {
   return (a + 0.05) / (b + 0.05);
 }
 
+/** The same page at 390×844 (whole page), then back to 1440×900. */
+async function phoneShot(page: Page, name: string): Promise<void> {
+  await page.setViewportSize(PHONE);
+  await page.waitForTimeout(800); // the shell switches to its phone layout
+  await fullShot(page, name);
+  await page.setViewportSize(DESKTOP);
+}
+
 async function phone(clockAt?: number): Promise<{ context: BrowserContext; page: Page; problems: string[] }> {
   const s = await h.newPage();
   await s.page.setViewportSize(PHONE);
@@ -304,10 +312,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     expect(await contrastOf(caution)).toBeGreaterThanOrEqual(4.5);
     expect(await axeProblems(page)).toEqual([]);
     await fullShot(page, 'plans-roster-alert.png');
-    await page.setViewportSize(PHONE);
-    await page.waitForTimeout(800); // the shell switches to its phone layout
-    await fullShot(page, 'plans-roster-alert-phone.png');
-    await page.setViewportSize(DESKTOP);
+    await phoneShot(page, 'plans-roster-alert-phone.png');
 
     await page.goto(`${h.baseUrl}/athletes/${adaId}`);
     await expect.poll(() => page.getByRole('alert').filter({ hasText: 'Plan alert' }).count()).toBe(1);
@@ -319,10 +324,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await expect.poll(() => page.getByRole('tabpanel').getByRole('note').filter({ hasText: 'Stop an exercise that causes sharp or worsening pain' }).count()).toBe(1);
     expect(await axeProblems(page)).toEqual([]);
     await fullShot(page, 'plans-profile-alert.png');
-    await page.setViewportSize(PHONE);
-    await page.waitForTimeout(800); // the shell switches to its phone layout
-    await fullShot(page, 'plans-profile-alert-phone.png');
-    await page.setViewportSize(DESKTOP);
+    await phoneShot(page, 'plans-profile-alert-phone.png');
 
     await page.goto(`${h.baseUrl}/plans/${planId}`);
     const alerts = page.getByRole('alert').filter({ hasText: 'Pain alerts' });
@@ -357,10 +359,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     expect(await contrastOf(page.getByRole('note').filter({ hasText: 'Stop an exercise that causes sharp or worsening pain' }))).toBeGreaterThanOrEqual(4.5);
     expect(await axeProblems(page)).toEqual([]);
     await fullShot(page, 'plans-invite-prompt.png');
-    await page.setViewportSize(PHONE);
-    await page.waitForTimeout(800); // the shell switches to its phone layout
-    await fullShot(page, 'plans-invite-prompt-phone.png');
-    await page.setViewportSize(DESKTOP);
+    await phoneShot(page, 'plans-invite-prompt-phone.png');
     await prompt.getByRole('button', { name: 'Invite to Trailframe' }).click();
     await expect.poll(() => prompt.textContent()).toContain('An invitation is waiting for them to accept');
     expect(await h.server.db('invitations').where({ athlete_id: carys.id }).count<{ n: number }[]>({ n: '*' })).toEqual([{ n: 1 }]);

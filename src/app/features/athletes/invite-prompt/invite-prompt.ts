@@ -15,7 +15,7 @@ import { AthleteInvitation } from '../athlete-invitation/athlete-invitation';
   changeDetection: ChangeDetectionStrategy.OnPush,
   template: `
     @if (!athlete().hasAccount) {
-      <div class="invite-prompt" role="note">
+      <div class="info-box invite-prompt" role="note">
         <mat-icon aria-hidden="true">person_add</mat-icon>
         <p class="text">
           <strong>{{ athlete().firstName }} has no Trailframe account yet</strong>, so they cannot {{ cannot() }}.
@@ -33,22 +33,10 @@ import { AthleteInvitation } from '../athlete-invitation/athlete-invitation';
   `,
   styles: `
     .invite-prompt {
-      display: flex;
       flex-wrap: wrap;
       align-items: center;
       gap: 8px 12px;
-      margin: 0 0 16px;
-      padding: 10px 12px;
-      border-radius: 8px;
-      border: 1px solid var(--mat-sys-outline-variant);
-      border-inline-start: 4px solid var(--mat-sys-primary);
-      background: var(--mat-sys-surface-container-low);
-      color: var(--mat-sys-on-surface);
-      font: var(--mat-sys-body-medium);
-    }
-    mat-icon {
-      flex: none;
-      color: var(--mat-sys-primary);
+      margin-block-end: 16px;
     }
     .text {
       flex: 1 1 24ch;

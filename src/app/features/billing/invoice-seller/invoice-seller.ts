@@ -31,7 +31,7 @@ import type { InvoiceDetail } from '../../../../contracts/billing';
       }
     </section>
     @if (forOwner() && missing()) {
-      <p class="missing" role="note">
+      <p class="info-box missing" role="note">
         <mat-icon aria-hidden="true">info</mat-icon>
         <span>Invoices and receipts must carry the clinic's legal name, address and tax number in most countries. <a routerLink="/settings/clinic">Add them in Clinic details</a>.</span>
       </p>
@@ -43,11 +43,7 @@ import type { InvoiceDetail } from '../../../../contracts/billing';
     .label { font: var(--mat-sys-label-medium); color: var(--mat-sys-on-surface-variant); }
     .name { font: var(--mat-sys-title-small); }
     .line { font: var(--mat-sys-body-medium); color: var(--mat-sys-on-surface-variant); }
-    .missing {
-      display: flex; gap: 8px; align-items: flex-start; margin: 8px 0 0; padding: 8px 12px; border-radius: 8px;
-      background: var(--mat-sys-surface-container-low); border: 1px solid var(--mat-sys-outline-variant); font: var(--mat-sys-body-medium);
-    }
-    .missing mat-icon { flex: none; color: var(--mat-sys-secondary); }
+    .missing { margin: 8px 0 0; }
   `,
 })
 export class InvoiceSeller {
