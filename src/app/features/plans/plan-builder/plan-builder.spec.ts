@@ -17,7 +17,7 @@ function exercise(id: number, name: string): Exercise {
   return {
     id, name, purpose: 'Invented for the spec.', region: 'hamstring', kind: 'isometric',
     dose: { sets: 3, reps: null, holdSeconds: 30, tempo: null, load: null, restSeconds: 60, daysPerWeek: 5 },
-    instructions: ['Hold.'], cautions: '', archived: false, createdAt: '', updatedAt: '',
+    instructions: ['Hold.'], cautions: '', source: '', archived: false, createdAt: '', updatedAt: '',
   };
 }
 
