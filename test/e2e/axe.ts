@@ -4,8 +4,13 @@ import type { Page } from 'playwright-core';
 
 const AXE_SOURCE = fs.readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
 
-/** axe-core's (npm) critical and serious violations on the page (or inside `within`), in words. */
+/**
+ * axe-core's (npm) critical and serious violations on the page (or inside `within`), in words,
+ * once the page's animations have settled.
+ */
 export async function axeProblems(page: Page, within?: string): Promise<string[]> {
+  // Colours are judged at rest: wait for running CSS animations and transitions (a dialog fading in).
+  await page.waitForFunction(() => document.getAnimations().every((a) => a.playState !== 'running' || a.effect?.getTiming().iterations === Infinity), null, { timeout: 5_000 }).catch(() => undefined);
   // Evaluated through the browser's debugging protocol: the app's CSP rightly refuses inline scripts.
   await page.evaluate(AXE_SOURCE);
   const violations = await page.evaluate(async (sel) => {
