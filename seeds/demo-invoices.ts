@@ -3,7 +3,7 @@ import { invoiceTotals, lineAmounts } from '../src/contracts/billing';
 
 /**
  * Invented demo billing history for the demo athlete (Ada Kestrel): her Baseline visit billed and
- * paid by card, her Re-test billed and still open. Numbers continue per clinic (TF-2026-0001, -0002),
+ * paid by card, her Re-test billed and still to pay (issued). Numbers continue per clinic (TF-2026-0001, -0002),
  * so the next invoice issued in 2026 is TF-2026-0003.
  */
 export const DEMO_INVOICES = [
@@ -12,7 +12,7 @@ export const DEMO_INVOICES = [
     createdAt: '2026-10-06T15:40:00.000Z', issuedAt: '2026-10-06T15:45:00.000Z', dueDate: '2026-10-20', paidAt: '2026-10-08T18:12:00.000Z',
   },
   {
-    number: 'TF-2026-0002', kind: 'retest', item: 'Re-test', status: 'open',
+    number: 'TF-2026-0002', kind: 'retest', item: 'Re-test', status: 'issued',
     createdAt: '2026-11-24T16:50:00.000Z', issuedAt: '2026-11-24T16:55:00.000Z', dueDate: '2026-12-08', paidAt: null,
   },
 ] as const;
@@ -43,7 +43,8 @@ export async function seedDemoInvoices(trx: Knex, clinicId: number, ownerId: num
         clinic_id: clinicId, athlete_id: ada.id, assessment_id: visit.id, number: inv.number, status: inv.status, currency: price.currency,
         subtotal_minor: totals.subtotalMinor, tax_minor: totals.taxMinor, total_minor: totals.totalMinor, due_date: inv.dueDate, note: null,
         checkout_session_id: paid ? `cs_${ref}` : null, checkout_state: 'none', payment_intent_id: paid ? `pi_${ref}` : null, refund_id: null,
-        created_by: ownerId, issued_at: inv.issuedAt, paid_at: inv.paidAt, voided_at: null, refunded_at: null,
+        created_by: ownerId, issued_at: inv.issuedAt, paid_at: inv.paidAt, cancelled_at: null, refunded_at: null,
+        payment_method: paid ? 'card' : null, paid_on: inv.paidAt?.slice(0, 10) ?? null,
         created_at: inv.createdAt, updated_at: inv.paidAt ?? inv.issuedAt,
       })
       .returning('id');

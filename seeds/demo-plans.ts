@@ -81,17 +81,18 @@ export async function seedDemoPlans(trx: Knex, clinicId: number, coachId: number
   if (!carys) return;
   const today = dayOf(now);
   const started = addDays(weekStart(today), -14);
-  // Two calm weeks, then a harder session today: pain during rises week over week.
+  // A calm week (pain during 2, 2, 2), then a harder one (3, 3, 4): the weekly mean of pain
+  // during rises 2 → 3.3, inside the 5/10 limit; today's session is the first of this week.
   await insertRunningPlan(trx, {
     clinicId, athlete: carys, ids, plan: ACHILLES_PLAN, assessmentId: null, at, keyPrefix: 'demo-seed-achilles',
     stageStarts: [started],
     sessions: [
-      { date: addDays(started, 0), during: 3, morning: 2, done: 5 },
+      { date: addDays(started, 0), during: 2, morning: 1, done: 5 },
       { date: addDays(started, 2), during: 2, morning: 1, done: 5 },
       { date: addDays(started, 4), during: 2, morning: 1, done: 4 },
-      { date: addDays(started, 7), during: 2, morning: 1, done: 5 },
-      { date: addDays(started, 9), during: 2, morning: 1, done: 5 },
-      { date: addDays(started, 11), during: 3, morning: 1, done: 5 },
+      { date: addDays(started, 7), during: 3, morning: 1, done: 5 },
+      { date: addDays(started, 9), during: 3, morning: 1, done: 5 },
+      { date: addDays(started, 11), during: 4, morning: 1, done: 5 },
       { date: today, during: 4, morning: null, done: 3, note: 'Tendon stiff after a long day on my feet.' },
     ],
   });

@@ -46,6 +46,8 @@ import { summariesRoutes } from './summaries/summaries.routes';
 import { portalSharedRoutes } from './summaries/portal-shared.routes';
 import { billingService } from './billing/billing-service';
 import { billingRoutes, billingWebhookRoutes } from './billing/billing.routes';
+import { clinicRoutes } from './clinic/clinic.routes';
+import { clinicService } from './clinic/clinic-service';
 import { stripePayments, type Payments } from './billing/payments';
 
 /** What the app needs from outside; tests pass their own. */
@@ -253,6 +255,7 @@ export function createApp(deps: AppDeps): App {
   api.use(summariesRoutes(summaries));
   api.use(portalSharedRoutes({ stills, summaries }));
   api.use(billingRoutes(billing));
+  api.use(clinicRoutes(clinicService({ db, clock })));
   api.use(apiNotFound);
 
   app.use('/api', (_req, res, next) => {

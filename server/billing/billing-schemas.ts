@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { CURRENCIES, INVOICE_STATUSES, MAX_AMOUNT_MINOR, MAX_QUANTITY, MAX_TAX_RATE_BP } from '../../src/contracts/billing';
+import { CURRENCIES, INVOICE_STATUSES, MANUAL_PAYMENT_METHODS, MAX_AMOUNT_MINOR, MAX_QUANTITY, MAX_TAX_RATE_BP, PAYMENT_NOTE_MAX } from '../../src/contracts/billing';
 
 const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2026-12-31.').refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), 'Not a real calendar date.');
 
@@ -54,3 +54,15 @@ export const InvoiceQueryParams = z.object({
   from: isoDate.optional(),
   to: isoDate.optional(),
 });
+
+const note = z.string('Write the note as text.').trim().max(PAYMENT_NOTE_MAX, `Note: at most ${PAYMENT_NOTE_MAX} characters.`);
+
+/** Body of POST /api/invoices/:id/payments: a bank transfer or cash the clinic received. */
+export const ManualPaymentBody = z.strictObject({
+  method: z.enum(MANUAL_PAYMENT_METHODS, { message: 'Choose bank transfer or cash.' }),
+  paidOn: isoDate,
+  note: note.default(''),
+});
+
+/** Body of POST /api/invoices/:id/refund: optional, a note for a recorded refund. */
+export const RefundBody = z.strictObject({ note: note.optional() }).default({});

@@ -11,12 +11,15 @@ import {
   type InvoiceList,
   type InvoiceQuery,
   type InvoiceWrite,
+  type ManualPaymentWrite,
+  type PaymentMethod,
   type Price,
   type PriceWrite,
 } from '../../src/contracts/billing';
 import type { Config } from '../config';
 import type { Db } from '../db/knex';
 import { AppError, BadRequestError, ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
+import { clinicRepository } from '../clinic/clinic-repository';
 import type { Mailer } from '../mail/mailer';
 import { invoicesRepository as invoices, toDetail, toSummary, type InvoiceRow, type InvoiceScope } from './invoices-repository';
 import type { Payments, PaymentEvent } from './payments';
@@ -37,8 +40,9 @@ export interface BillingDeps {
 export type BillingService = ReturnType<typeof billingService>;
 
 /**
- * Price list, invoices and card payment. Owners manage; athletes see and pay their own issued
- * invoices; the provider's signed webhook is the only thing that marks an invoice paid.
+ * Price list, invoices and payment. Owners manage; athletes see and pay their own issued invoices
+ * by card, and the provider's signed webhook is the only thing that marks a card payment paid; the
+ * owner records a bank transfer or cash by hand (and its refund, without the provider).
  */
 export function billingService({ db, mailer, config, logger, clock, payments }: BillingDeps) {
   const now = () => clock().toISOString();
@@ -66,7 +70,7 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
 
   async function detail(row: InvoiceRow): Promise<InvoiceDetail> {
     const clinic = await clinicOf(row.clinic_id);
-    return toDetail(row, await invoices.lines(db, row.id), clinic.name);
+    return toDetail(row, await invoices.lines(db, row.id), clinic.name, await clinicRepository.legalDetails(db, row.clinic_id));
   }
 
   async function reload(user: SessionUser, id: number): Promise<InvoiceDetail> {
@@ -100,6 +104,18 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
   const portalLink = (id: number) => `${config.publicUrl}/portal/invoices/${id}`;
 
   /**
+   * How the athlete reaches an invoice: the portal link when they can sign in; otherwise no link
+   * they cannot use, but how to get access (and that the clinic also takes a transfer or cash).
+   */
+  function accessLines(row: InvoiceRow, clinicName: string, withAccount: string[]): string[] {
+    if (row.athlete_user_id !== null) return withAccount;
+    return [
+      `You do not have a Trailframe account yet, so there is no link to follow here. To see your invoices and pay by card online, accept the invitation ${clinicName} sends to this address (or ask them for one), then sign in and open "My invoices".`,
+      `You can also pay ${clinicName} by bank transfer or in cash; they record the payment.`,
+    ];
+  }
+
+  /**
    * The athlete and assessment must be this clinic's (the assessment this athlete's), and every
    * price on a line must be on the list; `keptPriceIds` may be archived (lines that already had them).
    */
@@ -125,15 +141,18 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
     });
   }
 
-  /** Only drafts change or go away; an issued invoice is voided instead. */
+  /** Only drafts change or go away; an issued invoice is cancelled instead. */
   function requireDraft(row: InvoiceRow, what: 'edited' | 'deleted'): void {
     if (row.status === 'draft') return;
     const which = row.number ? `invoice ${row.number} is ${row.status}` : `this invoice is ${row.status}`;
-    const instead = row.status === 'open' ? ' Void it and make a new one instead.' : '';
+    const instead = row.status === 'issued' ? ' Cancel it and make a new one instead.' : '';
     throw new ConflictError(`Only a draft can be ${what}; ${which}.${instead}`, 'invoice_not_draft');
   }
 
-  const notDraftAnymore = () => new ConflictError('The invoice was issued or voided meanwhile; reload it.', 'invoice_not_draft');
+  const notDraftAnymore = () => new ConflictError('The invoice was issued or cancelled meanwhile; reload it.', 'invoice_not_draft');
+
+  /** "bank transfer", "cash", "card payment": how a receipt or e-mail says it. */
+  const METHOD_WORDS: Record<PaymentMethod, string> = { card: 'card payment', bank_transfer: 'bank transfer', cash: 'cash' };
 
   return {
     async settings(user: SessionUser): Promise<BillingSettings> {
@@ -188,8 +207,8 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
         totals: {
           currency,
           count: rows.length,
-          totalMinor: sum((r) => r.status !== 'void'),
-          openMinor: sum((r) => r.status === 'open'),
+          totalMinor: sum((r) => r.status !== 'cancelled'),
+          outstandingMinor: sum((r) => r.status === 'issued'),
           paidMinor: sum((r) => r.status === 'paid'),
           refundedMinor: sum((r) => r.status === 'refunded'),
         },
@@ -212,7 +231,8 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
             clinic_id: user.clinicId, athlete_id: w.athleteId, assessment_id: w.assessmentId, number: null, status: 'draft', currency,
             subtotal_minor: totals.subtotalMinor, tax_minor: totals.taxMinor, total_minor: totals.totalMinor, due_date: w.dueDate, note: w.note,
             checkout_session_id: null, checkout_state: 'none', payment_intent_id: null, refund_id: null, created_by: user.id,
-            issued_at: null, paid_at: null, voided_at: null, refunded_at: null, created_at: at, updated_at: at,
+            issued_at: null, paid_at: null, cancelled_at: null, refunded_at: null, created_at: at, updated_at: at,
+            payment_method: null, paid_on: null, payment_note: null, refund_note: null, payment_recorded_by: null,
           },
           lineRows(w),
         );
@@ -222,7 +242,7 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
 
     /**
      * Replaces a draft's athlete, assessment, due date, note and lines (validated as on create);
-     * amounts and totals are computed again here. 409 `invoice_not_draft` once it was issued or voided.
+     * amounts and totals are computed again here. 409 `invoice_not_draft` once it was issued or cancelled.
      */
     async update(user: SessionUser, id: number, w: InvoiceWrite): Promise<InvoiceDetail> {
       requireOwner(user);
@@ -242,7 +262,7 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
       return reload(user, id);
     },
 
-    /** Deletes a draft and its lines (it never had a number). 409 `invoice_not_draft` otherwise: void it instead. */
+    /** Deletes a draft and its lines (it never had a number). 409 `invoice_not_draft` otherwise: cancel it instead. */
     async remove(user: SessionUser, id: number): Promise<void> {
       requireOwner(user);
       const row = await loadRow(user, id);
@@ -250,7 +270,10 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
       if (!(await db.transaction((trx) => invoices.deleteDraft(trx, id)))) throw notDraftAnymore();
     },
 
-    /** draft → open: gives the invoice its number and e-mails the athlete a link to it. */
+    /**
+     * draft → issued: gives the invoice its number and e-mails the athlete a link to it — or, when
+     * they have no account yet, how to get access instead of a link they cannot use.
+     */
     async issue(user: SessionUser, id: number): Promise<InvoiceDetail> {
       requireOwner(user);
       const row = await loadRow(user, id);
@@ -258,7 +281,7 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
       const at = now();
       const number = await db.transaction(async (trx) => {
         const n = await invoices.nextNumber(trx, user.clinicId, clock().getUTCFullYear());
-        if (!(await invoices.transition(trx, id, ['draft'], { status: 'open', number: n, issued_at: at, updated_at: at }))) {
+        if (!(await invoices.transition(trx, id, ['draft'], { status: 'issued', number: n, issued_at: at, updated_at: at }))) {
           throw new ConflictError('The invoice changed meanwhile; reload it.', 'invalid_transition');
         }
         return n;
@@ -268,43 +291,82 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
         `Hello ${row.first_name},`,
         '',
         `${clinic.name} has sent you invoice ${number} for ${formatMinor(row.total_minor)} ${row.currency}, due ${row.due_date}.`,
-        'See it and pay by card in your portal:',
-        '',
-        portalLink(id),
+        ...accessLines(row, clinic.name, ['See it and pay by card in your portal:', '', portalLink(id)]),
       ]);
       return reload(user, id);
     },
 
-    /** draft/open → void. A paid invoice is refunded instead. */
-    async void(user: SessionUser, id: number): Promise<InvoiceDetail> {
+    /** draft/issued → cancelled. A paid invoice is refunded instead. */
+    async cancel(user: SessionUser, id: number): Promise<InvoiceDetail> {
       requireOwner(user);
       const row = await loadRow(user, id);
       const at = now();
-      if (!(await invoices.transition(db, row.id, ['draft', 'open'], { status: 'void', voided_at: at, updated_at: at }))) {
-        throw new ConflictError(`Only a draft or open invoice can be voided; this one is ${row.status}${row.status === 'paid' ? ' (refund it instead)' : ''}.`, 'invalid_transition');
+      if (!(await invoices.transition(db, row.id, ['draft', 'issued'], { status: 'cancelled', cancelled_at: at, updated_at: at }))) {
+        throw new ConflictError(`Only a draft or issued invoice can be cancelled; this one is ${row.status}${row.status === 'paid' ? ' (refund it instead)' : ''}.`, 'invalid_transition');
       }
       return reload(user, id);
     },
 
-    /** paid → refunded, through the provider; its `charge.refunded` event (confirmed with the provider) then finds it done. */
-    async refund(user: SessionUser, id: number): Promise<InvoiceDetail> {
+    /**
+     * issued → paid by a bank transfer or cash the clinic received, recorded by the owner (no
+     * payment service): the day the money arrived (not in the future, not before the invoice was
+     * issued) and a note. The athlete is e-mailed that it was received.
+     */
+    async recordPayment(user: SessionUser, id: number, w: ManualPaymentWrite): Promise<InvoiceDetail> {
       requireOwner(user);
       const row = await loadRow(user, id);
-      if (row.status !== 'paid' || !row.payment_intent_id) throw new ConflictError(`Only a paid invoice can be refunded; this one is ${row.status}.`, 'invalid_transition');
+      if (row.status !== 'issued') throw new ConflictError(`Only an issued invoice can be marked paid; this one is ${row.status}.`, 'invalid_transition');
+      const today = now().slice(0, 10);
+      if (w.paidOn > today) throw new ValidationError('paidOn: the payment date cannot be in the future.', [{ path: ['paidOn'], message: 'The payment date cannot be in the future.' }]);
+      if (row.issued_at && w.paidOn < row.issued_at.slice(0, 10)) {
+        throw new ValidationError('paidOn: before the invoice was issued.', [{ path: ['paidOn'], message: `The payment date cannot be before the invoice was issued (${row.issued_at.slice(0, 10)}).` }]);
+      }
+      const at = now();
+      const patch = { status: 'paid' as const, paid_at: at, paid_on: w.paidOn, payment_method: w.method, payment_note: w.note || null, payment_recorded_by: user.id, checkout_state: 'none' as const, updated_at: at };
+      // A card payment page opened earlier can no longer go through: only `issued` invoices are paid by the webhook.
+      if (!(await invoices.transition(db, row.id, ['issued'], patch))) throw new ConflictError('The invoice changed meanwhile; reload it.', 'invalid_transition');
+      const clinic = await clinicOf(user.clinicId);
+      await mailSafely(row.athlete_email, `Payment received for invoice ${row.number}`, [
+        `Hello ${row.first_name},`,
+        '',
+        `${clinic.name} has received your payment of ${formatMinor(row.total_minor)} ${row.currency} for invoice ${row.number} by ${METHOD_WORDS[w.method]}. Thank you.`,
+        ...(row.athlete_user_id !== null
+          ? ['Your receipt is in your portal:', '', portalLink(row.id)]
+          : [`Ask ${clinic.name} for your receipt if you need one. To see your invoices online, accept the invitation they send to this address, then sign in and open "My invoices".`]),
+      ]);
+      return reload(user, id);
+    },
+
+    /**
+     * paid → refunded. A card payment goes back through the provider (its `charge.refunded` event
+     * then finds it done); a recorded bank transfer or cash payment is refunded by the clinic itself,
+     * so the refund is only recorded here, with an optional note.
+     */
+    async refund(user: SessionUser, id: number, note?: string): Promise<InvoiceDetail> {
+      requireOwner(user);
+      const row = await loadRow(user, id);
+      if (row.status !== 'paid') throw new ConflictError(`Only a paid invoice can be refunded; this one is ${row.status}.`, 'invalid_transition');
+      const at = now();
+      if (row.payment_method === 'bank_transfer' || row.payment_method === 'cash') {
+        if (!(await invoices.transition(db, row.id, ['paid'], { status: 'refunded', refunded_at: at, refund_note: note || null, updated_at: at }))) {
+          throw new ConflictError('The invoice changed meanwhile; reload it.', 'invalid_transition');
+        }
+        return reload(user, id);
+      }
+      if (!row.payment_intent_id) throw new ConflictError('This payment has no card payment to refund.', 'invalid_transition');
       const p = needPayments();
       const pi = row.payment_intent_id;
       const result = await provider('refund', () => p.refund(pi, `refund-invoice-${row.id}`));
-      const at = now();
-      if (result.succeeded) await invoices.transition(db, row.id, ['paid'], { status: 'refunded', refunded_at: at, refund_id: result.id, updated_at: at });
+      if (result.succeeded) await invoices.transition(db, row.id, ['paid'], { status: 'refunded', refunded_at: at, refund_id: result.id, refund_note: note || null, updated_at: at });
       else await invoices.update(db, row.id, { refund_id: result.id, updated_at: at });
       return reload(user, id);
     },
 
-    /** The athlete's own open invoice → a payment page URL. Anything but `open` is refused. */
+    /** The athlete's own issued invoice → a payment page URL. Anything but `issued` is refused. */
     async startCheckout(user: SessionUser, id: number): Promise<CheckoutStart> {
       if (user.role !== 'athlete') throw new ForbiddenError('Athletes pay their own invoices.');
       const row = await loadRow(user, id);
-      if (row.status !== 'open') throw new ConflictError(`This invoice is ${row.status} and cannot be paid.`, 'invoice_not_payable');
+      if (row.status !== 'issued') throw new ConflictError(`This invoice is ${row.status} and cannot be paid.`, 'invoice_not_payable');
       const p = needPayments();
       const url = portalLink(id);
       const session = await provider('start payment', () =>
@@ -374,16 +436,17 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
           const matches = confirmed.paid && confirmed.amountMinor === row.total_minor && confirmed.currency === row.currency && !!confirmed.paymentIntentId;
           if (!matches) {
             logger.warn({ invoiceId: row.id, session: confirmed.id }, 'payment event does not match the invoice; not marked paid');
-          } else if (await invoices.transition(trx, row.id, ['open'], { status: 'paid', paid_at: at, payment_intent_id: confirmed.paymentIntentId, checkout_session_id: confirmed.id, checkout_state: 'none', updated_at: at })) {
+          } else if (await invoices.transition(trx, row.id, ['issued'], { status: 'paid', paid_at: at, paid_on: at.slice(0, 10), payment_method: 'card', payment_intent_id: confirmed.paymentIntentId, checkout_session_id: confirmed.id, checkout_state: 'none', updated_at: at })) {
             newlyPaid = row;
-          } else if (row.status === 'void') {
-            // Paid on a payment page opened before the invoice was voided: give the money back.
+          } else if (row.status === 'cancelled' || (row.status === 'paid' && row.payment_method !== 'card')) {
+            // Paid on a payment page opened before the invoice was cancelled, or before the owner
+            // recorded a transfer or cash payment: give the card payment back.
             refundVoided = confirmed.paymentIntentId;
           } else {
-            logger.warn({ invoiceId: row.id, status: row.status }, 'payment for an invoice that is not open');
+            logger.warn({ invoiceId: row.id, status: row.status }, 'payment for an invoice that is not issued');
           }
         } else if (event.type === 'checkout.session.async_payment_failed') {
-          if (row.status === 'open' && row.checkout_session_id === o['id']) await invoices.update(trx, row.id, { checkout_state: 'failed', updated_at: at });
+          if (row.status === 'issued' && row.checkout_session_id === o['id']) await invoices.update(trx, row.id, { checkout_state: 'failed', updated_at: at });
         } else if (refund) {
           if (refundsWholeInvoice(refund, row)) {
             await invoices.transition(trx, row.id, ['paid'], { status: 'refunded', refunded_at: at, updated_at: at, ...(refund.refundId ? { refund_id: refund.refundId } : {}) });
@@ -396,7 +459,7 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
       if (!handled) return { duplicate: true };
       if (refundVoided) {
         const pi = refundVoided;
-        await provider('refund a void invoice', () => p.refund(pi, `refund-void-${invoiceId}-${pi}`)).catch((err) => logger.error({ err, invoiceId }, 'a void invoice was paid and the refund failed; refund it by hand'));
+        await provider('refund an invoice that is no longer payable', () => p.refund(pi, `refund-void-${invoiceId}-${pi}`)).catch((err) => logger.error({ err, invoiceId }, 'a cancelled or already paid invoice was paid by card and the refund failed; refund it by hand'));
       }
       const paid = newlyPaid as InvoiceRow | null;
       if (paid) {

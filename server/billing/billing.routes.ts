@@ -1,7 +1,7 @@
 import express, { Router } from 'express';
 import { currentUser, requireRole, requireSignedIn } from '../http/access';
 import { idParam as id, parse } from '../http/validate';
-import { InvoiceBody, InvoiceQueryParams, PriceBody, PricePatchBody, PriceQuery, SettingsBody } from './billing-schemas';
+import { InvoiceBody, InvoiceQueryParams, ManualPaymentBody, PriceBody, PricePatchBody, PriceQuery, RefundBody, SettingsBody } from './billing-schemas';
 import type { BillingService } from './billing-service';
 import type { InvoiceQuery } from '../../src/contracts/billing';
 import { contentDisposition } from '../http/file-names';
@@ -20,7 +20,7 @@ export function billingWebhookRoutes(billing: BillingService): Router {
   return router;
 }
 
-/** Price list, invoices, card payment, receipts. Thin: parse, call, answer. */
+/** Price list, invoices, card and recorded payments, receipts. Thin: parse, call, answer. */
 export function billingRoutes(billing: BillingService): Router {
   const router = Router();
   const owner = requireRole('owner');
@@ -69,11 +69,16 @@ export function billingRoutes(billing: BillingService): Router {
   router.post('/invoices/:id/issue', owner, async (req, res) => {
     res.json(await billing.issue(currentUser(req), id(req.params, 'Invoice')));
   });
-  router.post('/invoices/:id/void', owner, async (req, res) => {
-    res.json(await billing.void(currentUser(req), id(req.params, 'Invoice')));
+  router.post('/invoices/:id/cancel', owner, async (req, res) => {
+    res.json(await billing.cancel(currentUser(req), id(req.params, 'Invoice')));
+  });
+  router.post('/invoices/:id/payments', owner, async (req, res) => {
+    const invoiceId = id(req.params, 'Invoice');
+    res.json(await billing.recordPayment(currentUser(req), invoiceId, parse(ManualPaymentBody, req.body)));
   });
   router.post('/invoices/:id/refund', owner, async (req, res) => {
-    res.json(await billing.refund(currentUser(req), id(req.params, 'Invoice')));
+    const invoiceId = id(req.params, 'Invoice');
+    res.json(await billing.refund(currentUser(req), invoiceId, parse(RefundBody, req.body ?? {}).note));
   });
   router.post('/invoices/:id/checkout', requireRole('athlete'), async (req, res) => {
     res.json(await billing.startCheckout(currentUser(req), id(req.params, 'Invoice')));

@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 import type { AssessmentKind } from '../../src/contracts/assessment';
-import type { CheckoutState, InvoiceDetail, InvoiceLine, InvoiceQuery, InvoiceStatus, InvoiceSummary } from '../../src/contracts/billing';
+import type { CheckoutState, ClinicLegalDetails, InvoiceDetail, InvoiceLine, InvoiceQuery, InvoiceStatus, InvoiceSummary, PaymentMethod } from '../../src/contracts/billing';
 
 /** An `invoices` row joined with the athlete's name. */
 export interface InvoiceRow {
@@ -23,8 +23,13 @@ export interface InvoiceRow {
   created_by: number | null;
   issued_at: string | null;
   paid_at: string | null;
-  voided_at: string | null;
+  cancelled_at: string | null;
   refunded_at: string | null;
+  payment_method: PaymentMethod | null;
+  paid_on: string | null;
+  payment_note: string | null;
+  refund_note: string | null;
+  payment_recorded_by: number | null;
   created_at: string;
   updated_at: string;
   /** From the join. */
@@ -84,7 +89,7 @@ export const toLine = (l: InvoiceLineRow): InvoiceLine => ({
   totalMinor: l.total_minor,
 });
 
-export const toDetail = (r: InvoiceRow, lines: InvoiceLineRow[], clinicName: string): InvoiceDetail => ({
+export const toDetail = (r: InvoiceRow, lines: InvoiceLineRow[], clinicName: string, clinicLegal: ClinicLegalDetails): InvoiceDetail => ({
   ...toSummary(r),
   assessmentId: r.assessment_id,
   assessment: r.assessment_id !== null && r.assessment_kind && r.assessment_date ? { id: r.assessment_id, kind: r.assessment_kind, date: r.assessment_date } : null,
@@ -93,9 +98,14 @@ export const toDetail = (r: InvoiceRow, lines: InvoiceLineRow[], clinicName: str
   subtotalMinor: r.subtotal_minor,
   taxMinor: r.tax_minor,
   lines: lines.map(toLine),
-  voidedAt: r.voided_at,
+  cancelledAt: r.cancelled_at,
   refundedAt: r.refunded_at,
   checkoutState: r.checkout_state,
+  paymentMethod: r.payment_method,
+  paidOn: r.paid_on,
+  paymentNote: r.payment_note,
+  refundNote: r.refund_note,
+  clinicLegal,
 });
 
 /** Columns of an {@link InvoiceRow}: the invoice, its athlete's name and contact, the billed assessment. */

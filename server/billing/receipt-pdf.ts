@@ -1,5 +1,5 @@
 import PDFDocument from 'pdfkit';
-import { formatMinor, type InvoiceDetail } from '../../src/contracts/billing';
+import { formatMinor, type InvoiceDetail, type PaymentMethod } from '../../src/contracts/billing';
 import { registerPdfFonts } from '../render/fonts';
 
 const SPRUCE = '#1f5a4a';
@@ -12,11 +12,30 @@ function day(iso: string | null): string {
   return d.toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
 }
 
+/** How the receipt says the invoice was paid. */
+export const PAID_BY: Record<PaymentMethod, string> = { card: 'card payment', bank_transfer: 'bank transfer', cash: 'cash' };
+
+/**
+ * The seller as the receipt names it: legal name (or the clinic's name until one is set), the
+ * address lines, the tax number and the contact line — what invoices must carry in most countries.
+ */
+export function sellerLines(inv: Pick<InvoiceDetail, 'clinicName' | 'clinicLegal'>): { name: string; lines: string[] } {
+  const l = inv.clinicLegal;
+  const lines = [...l.address.split('\n').filter(Boolean)];
+  if (l.taxNumber) lines.push(`Tax number: ${l.taxNumber}`);
+  if (l.contactLine) lines.push(l.contactLine);
+  const name = l.legalName || inv.clinicName;
+  // The trading name beside a different legal name, so the athlete recognises the clinic.
+  if (l.legalName && l.legalName !== inv.clinicName) lines.unshift(`Trading as ${inv.clinicName}`);
+  return { name, lines };
+}
+
 const rate = (bp: number | null) => (bp === null ? '-' : `${(bp / 100).toFixed(bp % 100 === 0 ? 0 : 2)} %`);
 
 /**
  * The receipt of a paid (or later refunded) invoice, A4, with the shipped Source Sans 3 faces:
- * clinic, number, athlete, lines with tax per line, totals, when it was paid and how.
+ * the clinic's legal details, number, athlete, lines with tax per line, totals, when it was paid
+ * and how (card, bank transfer or cash, with the owner's note), and a refund.
  */
 export function renderReceipt(inv: InvoiceDetail): Promise<Buffer> {
   const doc = new PDFDocument({ size: 'A4', margin: 56, info: { Title: `Receipt ${inv.number}`, Author: inv.clinicName } });
@@ -28,12 +47,17 @@ export function renderReceipt(inv: InvoiceDetail): Promise<Buffer> {
   const left = doc.page.margins.left;
   const width = doc.page.width - left - doc.page.margins.right;
 
-  doc.font('bold').fontSize(20).fillColor(SPRUCE).text(inv.clinicName);
+  const seller = sellerLines(inv);
+  doc.font('bold').fontSize(20).fillColor(SPRUCE).text(seller.name);
+  doc.font('regular').fontSize(10).fillColor(MUTED);
+  for (const line of seller.lines) doc.text(line);
+  doc.moveDown(0.8);
   doc.font('semibold').fontSize(14).fillColor('#000').text(`Receipt for invoice ${inv.number}`).moveDown(0.5);
   doc.font('regular').fontSize(10).fillColor(MUTED);
   doc.text(`Billed to: ${inv.athleteName}`);
   doc.text(`Issued: ${day(inv.issuedAt)}    Due: ${day(inv.dueDate)}`);
-  doc.text(`Paid: ${day(inv.paidAt)} by card payment`);
+  doc.text(`Paid: ${day(inv.paidOn ?? inv.paidAt)} by ${PAID_BY[inv.paymentMethod ?? 'card']}`);
+  if (inv.paymentNote) doc.text(`Payment note: ${inv.paymentNote}`);
   doc.moveDown();
 
   const cols = [
@@ -75,7 +99,9 @@ export function renderReceipt(inv: InvoiceDetail): Promise<Buffer> {
   total('Total paid', money(inv.totalMinor), 'bold');
   doc.moveDown();
   if (inv.status === 'refunded') {
-    doc.font('bold').fontSize(12).fillColor('#a33a1f').text(`Refunded on ${day(inv.refundedAt)}: ${money(inv.totalMinor)}`, left);
+    const how = inv.paymentMethod === 'card' || inv.paymentMethod === null ? 'to the card' : `by the clinic (${PAID_BY[inv.paymentMethod]} payment)`;
+    doc.font('bold').fontSize(12).fillColor('#a33a1f').text(`Refunded on ${day(inv.refundedAt)} ${how}: ${money(inv.totalMinor)}`, left);
+    if (inv.refundNote) doc.font('regular').fontSize(10).fillColor(MUTED).text(`Refund note: ${inv.refundNote}`, left);
     doc.moveDown(0.5);
   }
   doc.font('italic').fontSize(9).fillColor(MUTED).text('Tax is computed per line and rounded half-up to the cent. Keep this receipt for your records.', left);

@@ -1,7 +1,7 @@
 import { createCanvas, loadImage, type Image, type SKRSContext2D } from '@napi-rs/canvas';
 import type { AngleGauge, FrameLandmarks, ScaleBar } from '../../src/contracts/annotations';
 import type { Direction, Side } from '../../src/contracts/assessment';
-import type { StillLabel, StillRect } from '../../src/contracts/sharing';
+import { STILL_CAUTION_LINE, type StillLabel, type StillRect } from '../../src/contracts/sharing';
 import { drawOverlay, overlayLabelPositions, type Canvas2DLike, type OverlayOptions } from '../../src/kinematics';
 import { CANVAS_FONT_FAMILY, registerCanvasFonts } from './fonts';
 
@@ -37,6 +37,8 @@ export interface StillRenderOutput {
   height: number;
   layout: StillRect[];
   labels: StillLabel[];
+  /** Where the caution line sits: the band at the foot of the image. */
+  caution: StillRect;
 }
 
 /** Long side of the phone JPEG, px. */
@@ -70,7 +72,8 @@ export function wrapText(ctx: Pick<SKRSContext2D, 'measureText'>, text: string, 
 /**
  * Renders an annotated still: each panel's frame with the SAME overlay routine the review
  * workspace draws (`drawOverlay` from `src/kinematics`, through @napi-rs/canvas's Canvas 2D),
- * a heading band per panel and the caption below, in the shipped Source Sans 3.
+ * a heading band per panel, the caption below and one small caution line at the foot
+ * (`STILL_CAUTION_LINE`), in the shipped Source Sans 3.
  *
  * Panels sit side by side at a common height (the first panel's), so a Baseline/Re-test pair lines
  * up; the overlay is drawn in each frame's own pixel coordinates under a scale transform, so
@@ -98,9 +101,11 @@ export async function renderStill(input: StillRenderInput): Promise<StillRenderO
   const captionLines = caption ? wrapText(scratch, caption, contentWidth - 2 * unit) : [];
   const lineHeight = Math.round(unit * 1.5);
   const captionHeight = captionLines.length ? captionLines.length * lineHeight + unit * 1.4 : 0;
+  const cautionSize = Math.max(10, Math.round(unit * 0.8));
+  const cautionHeight = Math.round(cautionSize * 2);
 
   const width = contentWidth;
-  const height = headingHeight + panelHeight + captionHeight;
+  const height = headingHeight + panelHeight + captionHeight + cautionHeight;
   const canvas = createCanvas(width, height);
   const ctx = canvas.getContext('2d');
   ctx.fillStyle = PAPER;
@@ -151,6 +156,13 @@ export async function renderStill(input: StillRenderInput): Promise<StillRenderO
     ctx.textAlign = 'left';
     captionLines.forEach((line, i) => ctx.fillText(line, unit, headingHeight + panelHeight + unit * 0.7 + i * lineHeight));
   }
+  // One small caution line at the foot, in the muted ink (about 7:1 on white), never over the frame.
+  const caution = { x: 0, y: height - cautionHeight, width, height: cautionHeight };
+  ctx.fillStyle = MUTED;
+  ctx.font = `400 ${cautionSize}px "${CANVAS_FONT_FAMILY}"`;
+  ctx.textBaseline = 'middle';
+  ctx.textAlign = 'left';
+  ctx.fillText(STILL_CAUTION_LINE, unit, caution.y + cautionHeight / 2, width - 2 * unit);
   // A hairline under the caption keeps white-on-white phone viewers from losing the edge.
   ctx.fillStyle = MUTED;
   ctx.fillRect(0, height - 1, width, 1);
@@ -166,5 +178,5 @@ export async function renderStill(input: StillRenderInput): Promise<StillRenderO
   const jpeg = await small.encode('jpeg', PHONE_JPEG_QUALITY);
   await input.onProgress?.(1);
 
-  return { png, jpeg, width, height, layout, labels };
+  return { png, jpeg, width, height, layout, labels, caution };
 }

@@ -71,6 +71,11 @@ export const routes: Routes = [
         loadChildren: () => import('./features/reference-bands/reference-bands.routes'),
       },
       {
+        path: 'settings/clinic',
+        canMatch: [roleGuard('owner')],
+        loadChildren: () => import('./features/clinic-settings/clinic-settings.routes'),
+      },
+      {
         path: 'portal',
         canMatch: [roleGuard('athlete')],
         loadChildren: () => import('./features/portal/portal.routes'),

@@ -52,7 +52,7 @@ async function boot(user: SessionUser | null, url: string, demoMode = false) {
       // …what the clinic shared with them; nothing yet.
       { provide: StillsApi, useValue: { portalShared: () => of({ stills: [], summaries: [] }) } },
       // …and what they owe; nothing.
-      { provide: BillingApi, useValue: { invoices: () => of({ invoices: [], totals: { currency: 'EUR', count: 0, totalMinor: 0, openMinor: 0, paidMinor: 0, refundedMinor: 0 } }) } },
+      { provide: BillingApi, useValue: { invoices: () => of({ invoices: [], totals: { currency: 'EUR', count: 0, totalMinor: 0, outstandingMinor: 0, paidMinor: 0, refundedMinor: 0 } }) } },
     ],
   });
   await TestBed.inject(AuthStore).load();

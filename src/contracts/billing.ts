@@ -5,9 +5,52 @@
  */
 import type { AssessmentKind } from './assessment';
 
-/** Lifecycle: draft → open (issued) → paid (webhook only) → refunded; draft/open → void. */
-export type InvoiceStatus = 'draft' | 'open' | 'paid' | 'void' | 'refunded';
-export const INVOICE_STATUSES: readonly InvoiceStatus[] = ['draft', 'open', 'paid', 'void', 'refunded'];
+/**
+ * Lifecycle in our own words: draft → issued → paid (card payment confirmed by the payment
+ * service's webhook, or a bank transfer or cash recorded by the owner) → refunded; a draft or
+ * issued invoice can be cancelled.
+ */
+export type InvoiceStatus = 'draft' | 'issued' | 'paid' | 'cancelled' | 'refunded';
+export const INVOICE_STATUSES: readonly InvoiceStatus[] = ['draft', 'issued', 'paid', 'cancelled', 'refunded'];
+
+/** How an invoice was paid: by card online, or recorded by the owner. */
+export type PaymentMethod = 'card' | 'bank_transfer' | 'cash';
+/** The ways of payment the owner records by hand (no payment service involved). */
+export const MANUAL_PAYMENT_METHODS = ['bank_transfer', 'cash'] as const;
+export type ManualPaymentMethod = (typeof MANUAL_PAYMENT_METHODS)[number];
+/** Longest note on a recorded payment or refund. */
+export const PAYMENT_NOTE_MAX = 300;
+
+/** Body of POST /api/invoices/:id/payments: a bank transfer or cash the clinic received. */
+export interface ManualPaymentWrite {
+  method: ManualPaymentMethod;
+  /** ISO date (yyyy-mm-dd) the money arrived; not in the future, not before the invoice was issued. */
+  paidOn: string;
+  /** E.g. the transfer's reference; may be empty. */
+  note: string;
+}
+
+/** Body of POST /api/invoices/:id/refund (optional): a note, recorded with a refund of a manual payment. */
+export interface RefundWrite {
+  note?: string;
+}
+
+/**
+ * The clinic's legal details that invoices and receipts carry (most countries require the
+ * seller's legal name, address and tax number on an invoice). Empty strings when not set.
+ */
+export interface ClinicLegalDetails {
+  legalName: string;
+  /** Postal address, several lines. */
+  address: string;
+  /** VAT / tax registration number. */
+  taxNumber: string;
+  /** E-mail, phone or web address on one line. */
+  contactLine: string;
+}
+
+/** Field lengths of {@link ClinicLegalDetails}. */
+export const LEGAL_LIMITS = { legalName: 160, address: 400, addressLines: 6, taxNumber: 40, contactLine: 160 } as const;
 
 /** Largest amount of one price or line, minor units (1,000,000.00). */
 export const MAX_AMOUNT_MINOR = 100_000_000;
@@ -104,9 +147,19 @@ export interface InvoiceDetail extends InvoiceSummary {
   subtotalMinor: number;
   taxMinor: number;
   lines: InvoiceLine[];
-  voidedAt: string | null;
+  cancelledAt: string | null;
   refundedAt: string | null;
   checkoutState: CheckoutState;
+  /** How it was paid (null until paid). */
+  paymentMethod: PaymentMethod | null;
+  /** ISO date the money arrived (null until paid). */
+  paidOn: string | null;
+  /** The owner's note on a recorded payment (null for card payments). */
+  paymentNote: string | null;
+  /** The owner's note on a recorded refund. */
+  refundNote: string | null;
+  /** What the invoice and receipt say about the clinic. */
+  clinicLegal: ClinicLegalDetails;
 }
 
 export interface InvoiceQuery {
@@ -119,8 +172,8 @@ export interface InvoiceQuery {
 
 export interface InvoiceList {
   invoices: InvoiceSummary[];
-  /** Sums of the listed invoices, minor units, by status group. */
-  totals: { currency: string; count: number; totalMinor: number; openMinor: number; paidMinor: number; refundedMinor: number };
+  /** Sums of the listed invoices, minor units: billed (not cancelled), outstanding (issued), paid, refunded. */
+  totals: { currency: string; count: number; totalMinor: number; outstandingMinor: number; paidMinor: number; refundedMinor: number };
 }
 
 export interface CheckoutStart {

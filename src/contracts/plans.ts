@@ -196,7 +196,7 @@ export const DEFAULT_PAIN_RULE: PainRule = { maxDuring: 5, morningMustSettle: tr
 
 /** Where the default rule comes from, for the screen. */
 export const DEFAULT_PAIN_RULE_SOURCE =
-  'Pain during exercise may reach 5/10 if it settles by the next morning and does not rise week to week (Silbernagel et al. 2007, Am J Sports Med 35:897–906; quoted from memory). "Settled" = next-morning pain at most 2/10 (common practice).';
+  'Pain during exercise may reach 5/10 if it settles by the next morning and does not rise week to week (Silbernagel et al. 2007, Am J Sports Med 35:897–906; quoted from memory). "Settled" = next-morning pain at most 2/10; a weekly rise = the week’s mean at least 1 point above the week before, each week with at least 2 sessions (common practice).';
 
 export interface StageExercise {
   id: number;
@@ -334,19 +334,22 @@ export type PainAlertKind = 'during_above_max' | 'not_settled' | 'weekly_rise_du
 
 export interface PainAlert {
   kind: PainAlertKind;
-  /** Plain words for the screen, e.g. "Pain during rose from 2.0 to 6.0 (week of 2026-12-07)". */
+  /** Plain words naming the rule that fired, e.g. "Pain 6/10 during on 9 Dec — above this plan's limit of 5/10." */
   message: string;
   /** The session date or the Monday of the week it is about. */
   date: string;
+  /** The score that fired (a session's, or the newer week's mean). */
   value: number;
+  /** The plan's limit it went past, or the earlier week's mean for a weekly rise. */
   limit: number;
 }
 
+/** Which rule of the plan fired, as a heading. */
 export const PAIN_ALERT_LABELS: Record<PainAlertKind, string> = {
-  during_above_max: 'Pain above the plan’s limit',
-  not_settled: 'Not settled by morning',
-  weekly_rise_during: 'Pain during rising',
-  weekly_rise_morning: 'Morning pain rising',
+  during_above_max: 'Limit for pain during',
+  not_settled: 'Settled by next morning',
+  weekly_rise_during: 'No weekly rise (pain during)',
+  weekly_rise_morning: 'No weekly rise (next-morning pain)',
 };
 
 export interface CriterionCheck {

@@ -124,3 +124,9 @@ export interface PortalShared {
   stills: Still[];
   summaries: VisitSummary[];
 }
+
+/**
+ * The one small caution line drawn at the foot of every saved still (`server/render/still-render.ts`),
+ * so the picture carries it wherever it is shown or forwarded.
+ */
+export const STILL_CAUTION_LINE = "Figures support, and do not replace, a licensed clinician's judgement.";

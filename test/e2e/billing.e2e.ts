@@ -2,20 +2,25 @@
  * Billing in Debian chromium: the owner bills the demo athlete for her Re-test (price list: Re-test
  * 65.00 EUR at 20 % tax = 65.00 + 13.00 = 78.00 EUR) and issues it; the athlete (on a phone) pays on
  * the local fake payment page; the signed webhook marks it paid; the receipt PDF and both e-mails
- * exist; the owner refunds and the refund round-trips through the payment service. Before issuing,
- * the owner corrects the draft (2 → 1 Re-test: 156.00 → 78.00 EUR); a stray draft is deleted; the
- * currency cannot change once invoices exist.
+ * exist; the owner refunds and the refund round-trips through the payment service. Before issuing, the
+ * owner corrects the draft (2 → 1 Re-test: 156.00 → 78.00 EUR); a stray draft is deleted; the
+ * currency cannot change once invoices exist. Invoice states read in our own words (Draft → Issued
+ * → Paid, Cancelled, Refunded). The owner fills in the clinic's legal details, invoices an athlete
+ * without an account (prompted to invite her; the e-mail says how to get access), records her bank
+ * transfer and its refund without the payment service, and the receipt says how it was paid.
  */
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { PDFParse } from 'pdf-parse';
+import { axeProblems } from './axe';
 import { SCREENSHOTS, startHarness, type Harness } from './harness';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 
 const [owner, coach, , athlete] = DEMO_SIGN_INS;
 const PHONE = { width: 390, height: 844 };
+const DESKTOP = { width: 1440, height: 900 };
 const shot = (name: string) => path.join(SCREENSHOTS, name);
 
 let h: Harness;
@@ -52,6 +57,14 @@ async function phoneShot(page: Page, name: string): Promise<void> {
   await page.setViewportSize({ width: PHONE.width, height: Math.min(4000, Math.max(PHONE.height, Math.ceil(height))) });
   await page.screenshot({ path: shot(name) });
   await page.setViewportSize(size);
+}
+
+/** Closes the confirmation snack bar (if any) and waits until it and its fade are gone. */
+async function dismissSnackBar(page: Page): Promise<void> {
+  const snack = page.locator('mat-snack-bar-container');
+  if (await snack.count()) await snack.getByRole('button').click();
+  await expect.poll(() => snack.count()).toBe(0);
+  await page.waitForTimeout(400);
 }
 
 const invoice = () => h.server.db('invoices').where({ id: invoiceId }).first();
@@ -109,7 +122,8 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
 
     await page.getByRole('button', { name: 'Issue' }).click();
     await page.getByRole('dialog').getByRole('button', { name: 'Issue' }).click();
-    await expect.poll(async () => (await invoice()).status).toBe('open');
+    await expect.poll(async () => (await invoice()).status).toBe('issued');
+    await page.getByTestId('invoice-status').getByText('Issued').waitFor();
     invoiceNumber = (await invoice()).number;
     // Numbers continue per clinic and year after the demo's own (Ada's TF-2026-0001 and -0002).
     const year = new Date().getUTCFullYear();
@@ -132,7 +146,7 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     const { page, problems, context } = await h.newPage();
     await page.setViewportSize(PHONE);
     await signIn(page, athlete.email, athlete.password);
-    // The demo's open Re-test invoice (78.00 EUR) and the one just issued.
+    // The demo's issued Re-test invoice (78.00 EUR) and the one just issued.
     await expect.poll(() => page.getByTestId('invoices-due').innerText()).toMatch(/^2 invoices to pay · 156\.00 EUR, the next due /);
     await page.getByTestId('invoices-due').scrollIntoViewIfNeeded();
     await page.screenshot({ path: shot('billing-portal-home-phone.png') });
@@ -143,13 +157,13 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await page.getByText('78.00 EUR due').waitFor();
     await page.screenshot({ path: shot('billing-portal-invoice-open-phone.png'), fullPage: true });
 
-    // Cancel first: back with nothing charged, still open.
+    // Cancel on the payment page first: back with nothing charged, still issued.
     await page.getByRole('button', { name: /Pay 78\.00 EUR by card/ }).click();
     await page.waitForURL(/\/pay\/cs_/);
     await page.getByRole('button', { name: 'Cancel' }).click();
     await page.waitForURL(/checkout=cancel/);
     await page.getByText('Payment cancelled').waitFor();
-    expect((await invoice()).status).toBe('open');
+    expect((await invoice()).status).toBe('issued');
 
     await page.getByRole('button', { name: /Pay 78\.00 EUR by card/ }).click();
     await page.waitForURL(/\/pay\/cs_/);
@@ -157,7 +171,7 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await page.screenshot({ path: shot('billing-payment-page-phone.png') });
     await page.getByRole('button', { name: 'Pay', exact: true }).click();
     await page.waitForURL(new RegExp(`/portal/invoices/${invoiceId}\\?checkout=success`));
-    await page.getByText('Payment received on').waitFor({ timeout: 30_000 });
+    await page.getByText('Paid by card on').waitFor({ timeout: 30_000 });
     expect((await invoice()).status).toBe('paid');
     const event = await h.server.db('payment_events').where({ invoice_id: invoiceId, type: 'checkout.session.completed' }).first();
     expect(event).toBeTruthy();
@@ -244,5 +258,93 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     expect(await c.page.getByRole('link', { name: 'Invoice this visit' }).count()).toBe(0);
     expect(c.problems).toEqual([]);
     await c.context.close();
+  });
+
+  it('the owner fills in the clinic legal details, then records a bank transfer from an athlete without an account, and its refund', async () => {
+    const { page, problems, context } = await h.newPage();
+    await page.setViewportSize(DESKTOP);
+    await signIn(page, owner.email, owner.password);
+    await page.getByRole('link', { name: 'Clinic details' }).click();
+    await page.waitForURL(/\/settings\/clinic$/);
+    await page.getByRole('heading', { name: 'Legal details on invoices and receipts' }).waitFor();
+    await page.getByLabel('Legal name').fill('Larchwood Running Clinic Ltd');
+    await page.getByLabel('Address').fill('12 Mill Lane\nLarchwood LW1 2AB');
+    await page.getByLabel('Tax number (optional)').fill('GB 123 <4567>');
+    await page.getByLabel('Contact line (optional)').fill('billing@larchwood.test');
+    await page.getByRole('button', { name: 'Save legal details' }).click();
+    await page.getByText('Letters, digits, spaces, dots, dashes and slashes only').waitFor();
+    await page.waitForTimeout(300); // the field's error colour fades in
+    await page.screenshot({ path: shot('billing-legal-details-error-desktop.png') });
+    await page.getByLabel('Tax number (optional)').fill('GB 123 4567 89');
+    await page.getByRole('button', { name: 'Save legal details' }).click();
+    await expect.poll(async () => (await h.server.db('clinics').where({ name: 'Larchwood Running Clinic' }).first()).tax_number).toBe('GB 123 4567 89');
+    // Once the confirmation is dismissed and the field's hint has faded back in.
+    await dismissSnackBar(page);
+    expect(await axeProblems(page)).toEqual([]);
+    await page.screenshot({ path: shot('billing-legal-details-desktop.png') });
+    await phoneShot(page, 'billing-legal-details-phone.png');
+
+    // An athlete without an account: the invoice page prompts to invite her.
+    const carys = await h.server.db('athletes').where({ last_name: 'Holmgren' }).first();
+    expect(carys.user_id).toBeNull();
+    await page.goto(`${h.baseUrl}/billing/invoices/new?athlete=${carys.id}`);
+    await choose(page, 'From the price list', /^Re-test/);
+    await expect.poll(() => page.getByTestId('preview-total').innerText()).toBe('78.00 EUR');
+    await page.getByRole('button', { name: 'Save draft' }).click();
+    await page.waitForURL(/\/billing\/invoices\/\d+$/);
+    const id = Number(page.url().split('/').pop());
+    const prompt = page.getByRole('note').filter({ hasText: 'has no Trailframe account yet' });
+    await expect.poll(() => prompt.count()).toBe(1);
+    expect(await prompt.textContent()).toContain('so they cannot see or pay this invoice online');
+    await page.getByRole('button', { name: 'Issue' }).click();
+    expect(await page.getByRole('dialog').textContent()).toContain('how to get access to pay online');
+    await page.getByRole('dialog').getByRole('button', { name: 'Issue' }).click();
+    await expect.poll(async () => (await h.server.db('invoices').where({ id }).first()).status).toBe('issued');
+    const number = (await h.server.db('invoices').where({ id }).first()).number;
+    await expect.poll(() => mailTo(carys.email, `Invoice ${number} from Larchwood Running Clinic`)).toBeTruthy();
+    const mail = await mailTo(carys.email, `Invoice ${number} from Larchwood Running Clinic`);
+    expect(mail.text).not.toMatch(/https?:\/\//);
+    expect(mail.text).toContain('You do not have a Trailframe account yet');
+    // The invoice page names the seller with the legal details.
+    const from = page.getByRole('region', { name: 'From' });
+    await expect.poll(() => from.textContent()).toContain('Tax number: GB 123 4567 89');
+    await dismissSnackBar(page);
+    expect(await axeProblems(page)).toEqual([]);
+    await page.screenshot({ path: shot('billing-invoice-no-account-desktop.png') });
+    await phoneShot(page, 'billing-invoice-no-account-phone.png');
+
+    // She paid by bank transfer: the owner records it.
+    await page.getByRole('button', { name: 'Record payment' }).click();
+    const dialog = page.getByRole('dialog');
+    await dialog.getByRole('heading', { name: 'Record a payment' }).waitFor();
+    await dialog.getByLabel('Note (optional)').fill('Transfer ref. RT-2211');
+    await page.waitForTimeout(400); // the dialog's opening animation
+    expect(await axeProblems(page, '.cdk-overlay-container')).toEqual([]);
+    await page.screenshot({ path: shot('billing-record-payment-desktop.png') });
+    await dialog.getByRole('button', { name: 'Mark as paid' }).click();
+    await expect.poll(async () => (await h.server.db('invoices').where({ id }).first()).status).toBe('paid');
+    expect(await h.server.db('invoices').where({ id }).first()).toMatchObject({ payment_method: 'bank_transfer', payment_note: 'Transfer ref. RT-2211' });
+    await page.getByTestId('invoice-status').getByText('Paid').waitFor();
+    expect(await page.getByTestId('invoice-paid').textContent()).toContain('Paid by bank transfer on');
+    await dismissSnackBar(page);
+    expect(await axeProblems(page)).toEqual([]);
+    await page.screenshot({ path: shot('billing-invoice-paid-transfer-desktop.png') });
+    await phoneShot(page, 'billing-invoice-paid-transfer-phone.png');
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Receipt (PDF)' }).click()]);
+    const file = path.join(SCREENSHOTS, `receipt-${number}.pdf`);
+    await download.saveAs(file);
+    const text = (await new PDFParse({ data: fs.readFileSync(file) }).getText()).text;
+    for (const s of ['Larchwood Running Clinic Ltd', '12 Mill Lane', 'Tax number: GB 123 4567 89', 'by bank transfer', 'Payment note: Transfer ref. RT-2211']) expect(text).toContain(s);
+
+    // The refund is recorded, not sent to the payment service.
+    const events = h.server.fakePayments!.events.length;
+    await page.getByRole('button', { name: 'Record refund' }).click();
+    await page.getByRole('dialog').getByLabel('Note (optional)').fill('Transferred back');
+    await page.getByRole('dialog').getByRole('button', { name: 'Record refund' }).click();
+    await expect.poll(async () => (await h.server.db('invoices').where({ id }).first()).status).toBe('refunded');
+    expect(h.server.fakePayments!.events.length).toBe(events);
+    await page.getByTestId('invoice-status').getByText('Refunded').waitFor();
+    expect(problems).toEqual([]);
+    await context.close();
   });
 });

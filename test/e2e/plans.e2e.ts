@@ -3,19 +3,22 @@
  * demo athlete recovering from a hamstring strain and starts it; the athlete logs two sessions on a phone
  * (390×844) — one with the next-morning check, one sent through a dropped connection and a lost
  * answer without making a duplicate; the coach sees adherence and the pain chart, and the rise in
- * pain raises alerts on the roster, the profile and the plan. Alert rule: REFERENCES.md's
- * pain-monitoring entry (Silbernagel et al. 2007 [mem], from memory): pain during may reach 5/10
- * and must not rise week to week.
+ * pain raises alerts on the roster, the profile and the plan, each naming the rule that fired.
+ * Alert rule: REFERENCES.md's pain-monitoring entry (Silbernagel et al. 2007 [mem], from memory):
+ * pain during may reach 5/10 and must not rise week to week. Cautions read as calm information
+ * beside pain scores and alerts; an athlete without an account is a prompt to invite them.
  */
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { BrowserContext, Page } from 'playwright-core';
+import type { BrowserContext, Locator, Page } from 'playwright-core';
+import { axeProblems } from './axe';
 import { SCREENSHOTS, startHarness, type Harness } from './harness';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 const DAY = 86_400_000;
 const PHONE = { width: 390, height: 844 };
+const DESKTOP = { width: 1440, height: 900 };
 const shot = (name: string) => path.join(SCREENSHOTS, name);
 /** Console noise a deliberately dropped connection causes; anything else is a problem. */
 const networkNoise = (m: string) => /ERR_INTERNET_DISCONNECTED|ERR_FAILED|Failed to load resource/.test(m);
@@ -44,6 +47,8 @@ async function pickExercise(page: Page, stage: number, name: string, search?: st
   }
   await dialog.getByRole('button', { name: `Add ${name}` }).click();
   await expect.poll(() => page.getByRole('dialog').count()).toBe(0);
+  // The exercise shows in its stage at once, without another click.
+  await expect.poll(() => page.getByRole('group', { name: `Stage ${stage}` }).getByRole('listitem', { name }).count(), { timeout: 2_000 }).toBe(1);
 }
 
 const logs = () => h.server.db('log_entries').where({ plan_id: planId }).orderBy('id');
@@ -69,6 +74,36 @@ async function fullShot(page: Page, name: string): Promise<void> {
   await page.setViewportSize({ width: size.width, height: Math.min(6000, Math.max(size.height, Math.ceil(height))) });
   await page.screenshot({ path: shot(name) });
   await page.setViewportSize(size);
+}
+
+/**
+ * WCAG 2.x contrast ratio of an element's text colour against its own (or nearest painted)
+ * background [calc]: relative luminance from sRGB, (L1 + 0.05) / (L2 + 0.05).
+ */
+async function contrastOf(locator: Locator): Promise<number> {
+  const [fg, bg] = await locator.evaluate((el) => {
+    let bgEl: Element | null = el;
+    let bg = 'rgba(0, 0, 0, 0)';
+    while (bgEl && /rgba\(0, 0, 0, 0\)|transparent/.test(bg)) {
+      bg = getComputedStyle(bgEl).backgroundColor;
+      bgEl = bgEl.parentElement;
+    }
+    return [getComputedStyle(el).color, bg];
+  });
+  const lum = (css: string) => {
+    const [r, g, b] = css.match(/\d+(\.\d+)?/g)!.slice(0, 3).map(Number).map((v) => v / 255).map((c) => (c <= 0.04045 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4)) as [number, number, number];
+    return 0.2126 * r + 0.7152 * g + 0.0722 * b;
+  };
+  const [a, b] = [lum(fg), lum(bg)].sort((x, y) => y - x) as [number, number];
+  return (a + 0.05) / (b + 0.05);
+}
+
+/** The same page at 390×844 (whole page), then back to 1440×900. */
+async function phoneShot(page: Page, name: string): Promise<void> {
+  await page.setViewportSize(PHONE);
+  await page.waitForTimeout(800); // the shell switches to its phone layout
+  await fullShot(page, name);
+  await page.setViewportSize(DESKTOP);
 }
 
 async function phone(clockAt?: number): Promise<{ context: BrowserContext; page: Page; problems: string[] }> {
@@ -137,6 +172,13 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await pickExercise(page, 3, 'Walk-jog return intervals', 'walk');
     // A prescription differs from the library default: 6 sets of the bridge hold.
     await page.getByRole('listitem', { name: 'Bent-knee bridge hold' }).getByLabel('Sets').fill('6');
+    // Opening the picker again: the exercise already in the stage is marked, and offered "again".
+    await page.getByRole('group', { name: 'Stage 1' }).getByRole('button', { name: 'Add exercise from library' }).click();
+    await expect.poll(() => page.getByRole('dialog').getByRole('button', { name: 'Add Prone hamstring hold again' }).count()).toBe(1);
+    await page.getByRole('dialog').getByRole('button', { name: 'Close' }).click();
+    await expect.poll(() => page.getByRole('dialog').count()).toBe(0);
+    await page.setViewportSize(DESKTOP);
+    expect(await axeProblems(page)).toEqual([]);
     await fullShot(page, 'plans-builder.png');
     await page.getByRole('button', { name: 'Create plan' }).click();
     await page.waitForURL(/\/plans\/\d+$/);
@@ -187,6 +229,17 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     expect(one).toMatchObject({ session_date: isoDay(day1), pain_during: 2, note: 'Felt steady, a little tight at the end.' });
     expect(JSON.parse(one.sets).map((s: { setsDone: number; setsPrescribed: number }) => s.setsDone === s.setsPrescribed)).toEqual([true, true]);
     await expect.poll(() => first.page.getByRole('list').filter({ hasText: 'During 2/10' }).count()).toBeGreaterThan(0);
+    // Saved today: the page says so, also after a reload.
+    await expect.poll(() => first.page.getByRole('heading', { name: 'Done for today' }).count()).toBe(1);
+    expect(await first.page.getByRole('button', { name: 'Save session' }).count()).toBe(0);
+    await first.page.reload();
+    await expect.poll(() => first.page.getByRole('heading', { name: 'Done for today' }).count()).toBe(1);
+    expect(await first.page.getByRole('button', { name: 'Save session' }).count()).toBe(0);
+    await fullShot(first.page, 'plans-portal-done-phone.png');
+    expect(await axeProblems(first.page)).toEqual([]);
+    await first.page.goto(`${h.baseUrl}/portal`);
+    await expect.poll(() => first.page.getByText("Today's session is done.").count()).toBe(1);
+    await first.page.goto(`${h.baseUrl}/portal/plan`);
 
     // Next morning: the one-tap check.
     await first.page.clock.setFixedTime(new Date(day1 + 13 * 3_600_000));
@@ -211,6 +264,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await page.getByLabel('Note (optional)').fill('Sharp twinge on the hill repeats yesterday.');
     await page.getByRole('button', { name: 'Save session' }).click();
     await expect.poll(() => page.getByText('1 entry waiting to send.').count()).toBe(1);
+    await expect.poll(() => page.getByRole('heading', { name: 'Done for today' }).count()).toBe(1);
     expect(await page.getByText('Waiting to send', { exact: true }).count()).toBe(1);
     const stored = await page.evaluate(() => Object.entries(localStorage).filter(([k]) => k.startsWith('trailframe.log-outbox')).map(([, v]) => JSON.parse(v) as unknown[]));
     expect(stored.flat()).toHaveLength(1);
@@ -243,24 +297,40 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
 
   it('the coach sees the alert on the roster and profile, adherence and the pain chart on the plan', async () => {
     const { page, context, problems } = await h.newPage();
+    await page.setViewportSize(DESKTOP);
     await signIn(page, coach.email, coach.password);
     await page.waitForURL(/\/athletes$/);
     const adaRow = page.getByRole('row').filter({ hasText: 'Ada Kestrel' });
     await expect.poll(() => adaRow.getByRole('link', { name: /Plan alert/ }).count()).toBe(1);
-    expect(await adaRow.getByRole('link', { name: /Plan alert/ }).textContent()).toContain('Above limit +1');
+    // The chip names the rule that fired: one session at 6/10 against this plan's 5/10 limit
+    // (one session a week is no weekly trend, so no rise alert beside it).
+    expect(await adaRow.getByRole('link', { name: /Plan alert/ }).textContent()).toContain('Pain 6/10 > limit 5');
+    expect(await adaRow.getByRole('link', { name: /Plan alert/ }).textContent()).not.toContain('+1');
+    // The pain column and its chips carry the caution, as information (not the error colour).
+    const caution = page.getByRole('note').filter({ hasText: 'Pain scores and plan alerts point to what to look at' });
+    await expect.poll(() => caution.count()).toBe(1);
+    expect(await contrastOf(caution)).toBeGreaterThanOrEqual(4.5);
+    expect(await axeProblems(page)).toEqual([]);
     await fullShot(page, 'plans-roster-alert.png');
+    await phoneShot(page, 'plans-roster-alert-phone.png');
 
     await page.goto(`${h.baseUrl}/athletes/${adaId}`);
-    await expect.poll(() => page.getByRole('alert').filter({ hasText: 'Plan alerts' }).count()).toBe(1);
+    await expect.poll(() => page.getByRole('alert').filter({ hasText: 'Plan alert' }).count()).toBe(1);
+    expect(await page.getByRole('alert').filter({ hasText: 'Plan alert' }).textContent()).toContain("above this plan's limit of 5/10");
+    await expect.poll(() => page.getByRole('note').filter({ hasText: 'Pain scores and plan alerts point to what to look at' }).count()).toBeGreaterThan(0);
     await page.getByRole('tab', { name: 'Plan' }).click();
     await expect.poll(() => page.getByRole('list', { name: 'Plans, newest first' }).getByRole('link').count()).toBe(1);
+    expect(await page.getByRole('list', { name: 'Plans, newest first' }).textContent()).toContain('Pain 6/10 during, above the limit of 5/10');
+    await expect.poll(() => page.getByRole('tabpanel').getByRole('note').filter({ hasText: 'Stop an exercise that causes sharp or worsening pain' }).count()).toBe(1);
+    expect(await axeProblems(page)).toEqual([]);
     await fullShot(page, 'plans-profile-alert.png');
+    await phoneShot(page, 'plans-profile-alert-phone.png');
 
     await page.goto(`${h.baseUrl}/plans/${planId}`);
     const alerts = page.getByRole('alert').filter({ hasText: 'Pain alerts' });
     await expect.poll(() => alerts.count()).toBe(1);
-    expect(await alerts.textContent()).toContain('the plan allows up to 5/10');
-    expect(await alerts.textContent()).toContain('rose week over week');
+    expect(await alerts.textContent()).toContain("above this plan's limit of 5/10");
+    expect(await alerts.textContent()).not.toContain('Weekly pain rising');
     const adherence = page.getByRole('table').filter({ hasText: 'Week of' });
     await expect.poll(() => adherence.getByRole('row').count()).toBeGreaterThanOrEqual(3);
     const adherenceText = await adherence.textContent();
@@ -306,6 +376,36 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await expect.poll(async () => (await logs()).length).toBe(before + 1);
     await expect.poll(() => page.getByText('Not accepted', { exact: true }).count()).toBe(0);
     expect(problems.filter((p) => !/409|Failed to load resource/.test(p))).toEqual([]);
+    await context.close();
+  });
+
+  it('an athlete without an account: the plan page prompts the coach to invite them; the intake carries the pain caution', async () => {
+    const { page, context, problems } = await h.newPage();
+    await page.setViewportSize(DESKTOP);
+    await signIn(page, coach.email, coach.password);
+    const carys = await h.server.db('athletes').where({ last_name: 'Holmgren' }).first();
+    expect(carys.user_id).toBeNull();
+    const plan = await h.server.db('plans').where({ athlete_id: carys.id }).first();
+    await page.goto(`${h.baseUrl}/plans/${plan.id}`);
+    const prompt = page.getByRole('note').filter({ hasText: 'has no Trailframe account yet' });
+    await expect.poll(() => prompt.count()).toBe(1);
+    expect(await prompt.textContent()).toContain('so they cannot see this plan or log its sessions');
+    expect(await prompt.getByRole('button', { name: 'Invite to Trailframe' }).count()).toBe(1);
+    expect(await contrastOf(page.getByRole('note').filter({ hasText: 'Stop an exercise that causes sharp or worsening pain' }))).toBeGreaterThanOrEqual(4.5);
+    expect(await axeProblems(page)).toEqual([]);
+    await fullShot(page, 'plans-invite-prompt.png');
+    await phoneShot(page, 'plans-invite-prompt-phone.png');
+    await prompt.getByRole('button', { name: 'Invite to Trailframe' }).click();
+    await expect.poll(() => prompt.textContent()).toContain('An invitation is waiting for them to accept');
+    expect(await h.server.db('invitations').where({ athlete_id: carys.id }).count<{ n: number }[]>({ n: '*' })).toEqual([{ n: 1 }]);
+
+    // The intake's current-pain section carries the pain caution.
+    await page.goto(`${h.baseUrl}/athletes/${carys.id}`);
+    const painSection = page.getByRole('region', { name: 'Current pain' });
+    await expect.poll(() => painSection.getByRole('note').filter({ hasText: "licensed clinician's examination" }).count()).toBe(1);
+    await painSection.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: shot('plans-intake-pain-caution.png') });
+    expect(problems).toEqual([]);
     await context.close();
   });
 });

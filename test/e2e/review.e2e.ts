@@ -8,11 +8,10 @@
  * screenshots, and axe-core (npm) finds no critical or serious problems in the workspace or the
  * key-help dialog.
  */
-import fs from 'node:fs';
-import { createRequire } from 'node:module';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
+import { axeProblems } from './axe';
 import { SCREENSHOTS, startHarness, type Harness } from './harness';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { Client } from '../support/test-app';
@@ -22,7 +21,6 @@ import { fitTransform, fractionToScreen } from '../../src/app/features/review/vi
 import type { ClipMeasures } from '../../src/contracts/measures';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
-const AXE_SOURCE = fs.readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
 let h: Harness;
 let dir: { dir: string; cleanup: () => Promise<void> };
 let truth: GroundTruth;
@@ -89,18 +87,6 @@ async function signIn(page: Page): Promise<void> {
   await page.getByLabel('Password', { exact: true }).fill(coach.password);
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.waitForURL(/\/athletes$/);
-}
-
-/** axe-core's critical and serious violations on the page (or inside `within`), in words. */
-async function axeProblems(page: Page, within?: string): Promise<string[]> {
-  // Evaluated through the browser's debugging protocol: the app's CSP rightly refuses inline scripts.
-  await page.evaluate(AXE_SOURCE);
-  const violations = await page.evaluate(async (sel) => {
-    const axe = (globalThis as unknown as { axe: { run(ctx: unknown, opts: unknown): Promise<{ violations: { id: string; impact: string; nodes: { target: string[] }[] }[] }> } }).axe;
-    const r = await axe.run(sel ? { include: [sel] } : document, { resultTypes: ['violations'] });
-    return r.violations.map((v) => ({ id: v.id, impact: v.impact, targets: v.nodes.slice(0, 3).map((n) => n.target.join(' ')) }));
-  }, within ?? null);
-  return violations.filter((v) => v.impact === 'critical' || v.impact === 'serious').map((v) => `${v.impact} ${v.id}: ${v.targets.join(' | ')}`);
 }
 
 /** Whether the element lies wholly inside the window (no scrolling needed to see it). */

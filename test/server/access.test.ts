@@ -167,7 +167,7 @@ const ROUTES: RouteCase[] = [
   { method: 'patch', pattern: '/api/prices/:id', path: () => `/api/prices/${bc.priceId}`, body: () => ({ description: 'Walked.' }), expect: ownerOnly(200) },
   { method: 'delete', pattern: '/api/prices/:id', path: () => `/api/prices/${bc.scratchPriceId}`, before: () => scratchPrice(), expect: ownerOnly(204) },
   // Everyone signed in but coaches: the owner sees the clinic's, an athlete their own (possibly none).
-  { method: 'get', pattern: '/api/invoices', path: () => '/api/invoices?status=open', expect: { anonymous: 401, athleteSelf: 200, athleteOther: 200, coach: 403, coachOtherClinic: 403, owner: 200, ownerOtherClinic: 200 } },
+  { method: 'get', pattern: '/api/invoices', path: () => '/api/invoices?status=issued', expect: { anonymous: 401, athleteSelf: 200, athleteOther: 200, coach: 403, coachOtherClinic: 403, owner: 200, ownerOtherClinic: 200 } },
   { method: 'post', pattern: '/api/invoices', path: () => '/api/invoices', body: (c) => invoiceBody(c.selfAthleteId), expect: ownerOnly(201, 422) },
   { method: 'get', pattern: '/api/invoices/:id', path: () => `/api/invoices/${bc.openInvoiceId}`, expect: billingSelf(200) },
   { method: 'get', pattern: '/api/invoices/:id', path: () => `/api/invoices/${bc.draftInvoiceId}`, expect: { ...billingSelf(200), athleteSelf: 404 } },
@@ -177,10 +177,13 @@ const ROUTES: RouteCase[] = [
   { method: 'delete', pattern: '/api/invoices/:id', path: () => `/api/invoices/${bc.scratchInvoiceId}`, before: () => scratchInvoice(), expect: ownerOnly(204) },
   { method: 'delete', pattern: '/api/invoices/:id', path: () => `/api/invoices/${bc.openInvoiceId}`, expect: ownerOnly(409) },
   { method: 'post', pattern: '/api/invoices/:id/issue', path: () => `/api/invoices/${bc.scratchInvoiceId}/issue`, before: () => scratchInvoice(), expect: ownerOnly(200) },
-  { method: 'post', pattern: '/api/invoices/:id/void', path: () => `/api/invoices/${bc.scratchInvoiceId}/void`, before: () => scratchInvoice(), expect: ownerOnly(200) },
+  { method: 'post', pattern: '/api/invoices/:id/cancel', path: () => `/api/invoices/${bc.scratchInvoiceId}/cancel`, before: () => scratchInvoice(), expect: ownerOnly(200) },
+  { method: 'post', pattern: '/api/invoices/:id/payments', path: () => `/api/invoices/${bc.scratchInvoiceId}/payments`, before: () => scratchIssuedInvoice(), body: () => ({ method: 'bank_transfer', paidOn: new Date().toISOString().slice(0, 10), note: 'Walk' }), expect: ownerOnly(200) },
   { method: 'post', pattern: '/api/invoices/:id/refund', path: () => `/api/invoices/${bc.paidInvoiceId}/refund`, before: () => paidInvoice(), expect: ownerOnly(200) },
   { method: 'post', pattern: '/api/invoices/:id/checkout', path: () => `/api/invoices/${bc.openInvoiceId}/checkout`, expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 } },
   { method: 'post', pattern: '/api/invoices/:id/checkout', path: () => `/api/invoices/${bc.otherAthleteInvoiceId}/checkout`, expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 } },
+  { method: 'get', pattern: '/api/clinic/legal-details', path: () => '/api/clinic/legal-details', expect: ownerOnly(200) },
+  { method: 'put', pattern: '/api/clinic/legal-details', path: () => '/api/clinic/legal-details', body: () => ({ legalName: 'Walk Clinic Ltd', address: '1 Walk Lane\nWalktown', taxNumber: 'WK 123', contactLine: 'walk@clinic.test' }), expect: ownerOnly(200) },
   { method: 'get', pattern: '/api/invoices/:id/receipt', path: () => `/api/invoices/${bc.receiptInvoiceId}/receipt`, expect: billingSelf(200) },
   // Public but signature-checked: without a valid provider signature every caller gets 400 (and no CSRF 403).
   { method: 'post', pattern: '/api/billing/webhook', path: () => '/api/billing/webhook', body: () => ({ id: 'evt_walk', type: 'checkout.session.completed', data: { object: {} } }), expect: all(400) },
@@ -399,6 +402,10 @@ async function scratchPrice(): Promise<void> {
 
 async function scratchInvoice(): Promise<void> {
   bc.scratchInvoiceId = (await ownerClient.post('/api/invoices', invoiceBody(ctx.selfAthleteId))).body.id;
+}
+
+async function scratchIssuedInvoice(): Promise<void> {
+  bc.scratchInvoiceId = await openInvoice(ctx.selfAthleteId);
 }
 
 async function openInvoice(athleteId: number): Promise<number> {

@@ -1,6 +1,7 @@
 /**
  * Billing API: price list, invoices with server-computed totals (tax half-up per line, integer
- * minor units), issue/void/refund transitions, card payment through the provider's SDK against the
+ * minor units), issue/cancel/refund transitions in our own words (draft → issued → paid, cancelled,
+ * refunded), recorded bank-transfer and cash payments, card payment through the provider's SDK against the
  * local fake payment service, signed idempotent webhooks, receipt PDF and e-mails.
  * Worked examples are stated in the test titles ([calc]).
  */
@@ -159,12 +160,12 @@ describe('price list', () => {
 });
 
 describe('invoices', () => {
-  it('the demo history: Ada\'s Baseline billed and paid (its checkout event recorded), her Re-test billed and open', async () => {
+  it('the demo history: Ada\'s Baseline billed and paid (its checkout event recorded), her Re-test billed and issued', async () => {
     const mine = (await a.get('/api/invoices')).body.invoices as InvoiceDetail[];
     const seeded = mine.filter((i) => i.number === 'TF-2026-0001' || i.number === 'TF-2026-0002').sort((x, y) => x.id - y.id);
     expect(seeded.map((i) => [i.number, i.status, i.totalMinor, i.dueDate])).toEqual([
       ['TF-2026-0001', 'paid', 14400, '2026-10-20'],
-      ['TF-2026-0002', 'open', 7800, '2026-12-08'],
+      ['TF-2026-0002', 'issued', 7800, '2026-12-08'],
     ]);
     const paid = (await a.get(`/api/invoices/${seeded[0]!.id}`)).body as InvoiceDetail;
     expect(paid.assessment).toMatchObject({ kind: 'baseline', date: '2026-10-06' });
@@ -222,7 +223,7 @@ describe('invoices', () => {
     const second = await issued();
     expect(first.number).toMatch(new RegExp(`^TF-${year}-\\d{4}$`));
     expect(Number(second.number!.slice(-4))).toBe(Number(first.number!.slice(-4)) + 1);
-    expect(first.status).toBe('open');
+    expect(first.status).toBe('issued');
     const mail = t.mailer.sent.find((m) => m.subject.includes(first.number!))!;
     expect(mail.to).toBe(athlete.email);
     expect(mail.text).toContain(`/portal/invoices/${first.id}`);
@@ -237,7 +238,7 @@ describe('invoices', () => {
     const teodor = await o.post('/api/invoices', { athleteId: teodorId, assessmentId: null, dueDate: due, note: null, lines: [line(price('Gait assessment'))] });
     const all = (await o.get('/api/invoices')).body;
     expect(all.invoices.length).toBeGreaterThanOrEqual(3);
-    const sum = all.invoices.filter((i: InvoiceDetail) => i.status !== 'void').reduce((s: number, i: InvoiceDetail) => s + i.totalMinor, 0);
+    const sum = all.invoices.filter((i: InvoiceDetail) => i.status !== 'cancelled').reduce((s: number, i: InvoiceDetail) => s + i.totalMinor, 0);
     expect(all.totals.totalMinor).toBe(sum);
     const drafts = (await o.get(`/api/invoices?status=draft&athleteId=${teodorId}`)).body;
     expect(drafts.invoices.map((i: InvoiceDetail) => i.id)).toEqual([teodor.body.id]);
@@ -259,15 +260,18 @@ describe('invoices', () => {
     expect((await c.get('/api/invoices')).status).toBe(403);
   });
 
-  it('void: draft and open can be voided, a void invoice cannot be paid (409) or issued', async () => {
+  it('cancel: draft and issued invoices can be cancelled, a cancelled one cannot be paid (409) or issued', async () => {
     const inv = await issued();
-    const v = await o.post(`/api/invoices/${inv.id}/void`);
-    expect(v.body).toMatchObject({ status: 'void' });
+    const v = await o.post(`/api/invoices/${inv.id}/cancel`);
+    expect(v.body).toMatchObject({ status: 'cancelled' });
+    expect(v.body.cancelledAt).toBeTruthy();
     const pay = await a.post(`/api/invoices/${inv.id}/checkout`);
     expect(pay.status).toBe(409);
     expect(pay.body.error.code).toBe('invoice_not_payable');
     expect((await o.post(`/api/invoices/${inv.id}/issue`)).status).toBe(409);
-    expect((await o.post(`/api/invoices/${(await draft()).id}/void`)).body.status).toBe('void');
+    expect((await o.post(`/api/invoices/${(await draft()).id}/cancel`)).body.status).toBe('cancelled');
+    // The old provider-style route is gone.
+    expect((await o.post(`/api/invoices/${inv.id}/void`)).status).toBe(404);
   });
 
   it('an athlete paying another athlete\'s invoice gets 404; so does another clinic', async () => {
@@ -344,10 +348,10 @@ describe('editing and deleting drafts', () => {
     expect(added.body.error.details[0].path).toEqual(['lines', 1, 'priceId']);
   });
 
-  it('an open, paid or void invoice cannot be edited or deleted (409 invoice_not_draft), and stays as it was', async () => {
+  it('an issued, paid or cancelled invoice cannot be edited or deleted (409 invoice_not_draft), and stays as it was', async () => {
     const open = await issued();
     const paid = await paidInvoice();
-    const voided = (await o.post(`/api/invoices/${(await draft()).id}/void`)).body as InvoiceDetail;
+    const voided = (await o.post(`/api/invoices/${(await draft()).id}/cancel`)).body as InvoiceDetail;
     for (const inv of [open, paid, voided]) {
       const edit = await o.put(`/api/invoices/${inv.id}`, body(inv, { note: 'Changed after issue' }));
       expect(edit.status, JSON.stringify(edit.body)).toBe(409);
@@ -359,7 +363,7 @@ describe('editing and deleting drafts', () => {
       const after = (await o.get(`/api/invoices/${inv.id}`)).body as InvoiceDetail;
       expect(after).toMatchObject({ status: inv.status, note: null, totalMinor: inv.totalMinor });
     }
-    expect((await o.delete(`/api/invoices/${open.id}`)).body.error.message).toContain(`invoice ${open.number} is open. Void it and make a new one instead.`);
+    expect((await o.delete(`/api/invoices/${open.id}`)).body.error.message).toContain(`invoice ${open.number} is issued. Cancel it and make a new one instead.`);
   });
 
   it('athletes and coaches get 403, another clinic\'s owner 404; the draft is untouched', async () => {
@@ -417,31 +421,31 @@ describe('card payment through the fake payment service', () => {
     expect(text).toMatch(/Total paid\s+78\.00 EUR/);
   });
 
-  it('the browser coming back alone changes nothing: Cancel leaves it open; a receipt is refused while unpaid', async () => {
+  it('the browser coming back alone changes nothing: Cancel leaves it issued; a receipt is refused while unpaid', async () => {
     const inv = await issued();
     const back = await payOnPage(inv.id, 'cancel');
     expect(back).toContain('?checkout=cancel');
-    expect((await a.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'open', checkoutState: 'pending' });
+    expect((await a.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'issued', checkoutState: 'pending' });
     expect((await a.get(`/api/invoices/${inv.id}/receipt`)).status).toBe(409);
   });
 
-  it('a declined card marks the attempt failed and leaves the invoice open to pay again', async () => {
+  it('a declined card marks the attempt failed and leaves the invoice issued, to pay again', async () => {
     const inv = await issued();
     await payOnPage(inv.id, 'decline');
-    expect((await a.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'open', checkoutState: 'failed' });
+    expect((await a.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'issued', checkoutState: 'failed' });
     await payOnPage(inv.id, 'pay');
     expect((await a.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'paid', checkoutState: 'none' });
   });
 
-  it('paying a void invoice is refused: no new payment page; one opened before the void is refunded at once', async () => {
+  it('paying a cancelled invoice is refused: no new payment page; one opened before it was cancelled is refunded at once', async () => {
     const inv = await issued();
     const start = await a.post(`/api/invoices/${inv.id}/checkout`);
-    await o.post(`/api/invoices/${inv.id}/void`);
+    await o.post(`/api/invoices/${inv.id}/cancel`);
     expect((await a.post(`/api/invoices/${inv.id}/checkout`)).status).toBe(409);
     const res = await fetch(`${start.body.url}/pay`, { method: 'POST', redirect: 'manual' });
     expect(res.status).toBe(303);
     await t.fakePayments!.idle();
-    expect((await o.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'void', paidAt: null });
+    expect((await o.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'cancelled', paidAt: null });
     expect(t.fakePayments!.events.slice(-2).map((e) => e.type)).toEqual(['checkout.session.completed', 'charge.refunded']);
   });
 
@@ -473,7 +477,7 @@ describe('card payment through the fake payment service', () => {
     const good = new Stripe('sk_x').webhooks.generateTestHeaderString({ payload, secret: t.config.payments!.webhookSecret });
     expect((await post({ 'stripe-signature': good }, JSON.stringify(JSON.parse(payload), null, 1))).status).toBe(400);
     expect(await t.db('payment_events').count({ n: '*' })).toEqual(events);
-    expect((await o.get(`/api/invoices/${inv.id}`)).body.status).toBe('open');
+    expect((await o.get(`/api/invoices/${inv.id}`)).body.status).toBe('issued');
   });
 
   it('a correctly signed event whose session the provider says is unpaid does not mark the invoice paid', async () => {
@@ -484,13 +488,13 @@ describe('card payment through the fake payment service', () => {
     const sig = new Stripe('sk_x').webhooks.generateTestHeaderString({ payload, secret: t.config.payments!.webhookSecret });
     const res = await fetch(`${t.url}/api/billing/webhook`, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': sig }, body: payload });
     expect(res.status).toBe(200);
-    expect((await o.get(`/api/invoices/${inv.id}`)).body.status).toBe('open');
+    expect((await o.get(`/api/invoices/${inv.id}`)).body.status).toBe('issued');
   });
 
   it('refund round-trips: owner refunds through the provider, charge.refunded arrives once, receipt says refunded', async () => {
     const inv = await paidInvoice();
     expect(inv.status).toBe('paid');
-    expect((await o.post(`/api/invoices/${inv.id}/void`)).status).toBe(409);
+    expect((await o.post(`/api/invoices/${inv.id}/cancel`)).status).toBe(409);
     const c = await signedIn(t.app, coach.email, coach.password);
     expect((await c.post(`/api/invoices/${inv.id}/refund`)).status).toBe(403);
     const res = await o.post(`/api/invoices/${inv.id}/refund`);

@@ -428,18 +428,34 @@ describe('progress, progression and alerts', () => {
     expect(p.pain).toEqual([{ date: isoDay(), painDuring: 2, morningPain: null, stageId: plan.stages[0]!.id }]);
   });
 
-  it('from memory (Silbernagel 2007 [mem]): pain above 5/10 and a week-over-week rise alert on the plan and the roster', async () => {
+  it('from memory (Silbernagel 2007 [mem]): pain above 5/10 and a week-over-week rise alert on the plan and the roster, naming the rule', async () => {
     const plan = await startedPlan();
-    await a.post(`/api/plans/${plan.id}/logs`, logBody(plan, { painDuring: 2 }));
+    // Test fixture: the plan began two weeks ago, so two sessions can sit in last week.
+    const weekAgo = new Date(Date.now() - 14 * DAY).toISOString();
+    await t.db('plans').where({ id: plan.id }).update({ started_at: weekAgo });
+    await t.db('plan_stages').where({ plan_id: plan.id }).update({ started_at: weekAgo });
+    const monday = (offset: number) => {
+      const d = new Date(Date.now() + offset * DAY);
+      d.setUTCDate(d.getUTCDate() - ((d.getUTCDay() + 6) % 7));
+      return d.toISOString().slice(0, 10);
+    };
+    const lastMonday = monday(-7);
+    const lastWeek = [lastMonday, new Date(Date.parse(lastMonday) + DAY).toISOString().slice(0, 10)];
+    for (const date of lastWeek) await a.post(`/api/plans/${plan.id}/logs`, logBody(plan, { painDuring: 2, date }));
+    // One session at 3/10, inside the 5/10 limit: one session is not a weekly trend — no alert.
+    await a.post(`/api/plans/${plan.id}/logs`, logBody(plan, { painDuring: 3 }));
     const quiet = (await c.get('/api/plan-alerts')).body.alerts;
     expect(quiet.find((x: { athleteId: number }) => x.athleteId === adaId)).toBeUndefined();
-    t.advance(7 * DAY);
-    const res = await a.post(`/api/plans/${plan.id}/logs`, logBody(plan, { painDuring: 6, date: isoDay(7) }));
+
+    const res = await a.post(`/api/plans/${plan.id}/logs`, logBody(plan, { painDuring: 6 }));
     expect(res.status, JSON.stringify(res.body)).toBe(201);
-    const alerts = (await c.get(`/api/plans/${plan.id}/progress`)).body.alerts.map((x: { kind: string }) => x.kind);
-    expect(alerts).toEqual(['during_above_max', 'weekly_rise_during']);
+    const progress = (await c.get(`/api/plans/${plan.id}/progress`)).body.alerts as { kind: string; message: string }[];
+    expect(progress.map((x) => x.kind)).toEqual(['during_above_max', 'weekly_rise_during']);
+    expect(progress[0]!.message).toMatch(/^Pain 6\/10 during on \d+ \w+ — above this plan's limit of 5\/10\.$/);
+    // Weekly means: 2 (2, 2) → 4.5 (3, 6).
+    expect(progress[1]!.message).toMatch(/^Weekly pain rising: 2 → 4\.5 /);
     const roster = (await c.get('/api/plan-alerts')).body.alerts;
-    expect(roster.find((x: { athleteId: number }) => x.athleteId === adaId)).toMatchObject({ planId: plan.id, alerts: expect.arrayContaining([expect.objectContaining({ kind: 'weekly_rise_during', value: 6, limit: 2 })]) });
+    expect(roster.find((x: { athleteId: number }) => x.athleteId === adaId)).toMatchObject({ planId: plan.id, alerts: expect.arrayContaining([expect.objectContaining({ kind: 'weekly_rise_during', value: 4.5, limit: 2 })]) });
     expect((await c.get(`/api/athletes/${adaId}/plans`)).body.plans[0].alerts).toHaveLength(2);
 
     // The coach edits the rule for this plan: a higher limit and no weekly check clear both alerts.

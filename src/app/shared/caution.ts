@@ -1,6 +1,12 @@
 /**
- * The caution every page that shows measures carries (DESIGN.md, "Safety and privacy"); plan
- * pages carry `PLAN_CAUTION` from `contracts/plans`, which says the same for a plan.
+ * The cautions of DESIGN.md, "Safety and privacy": short, calm, and deferring to the licensed
+ * clinician and local regulations. Every page that shows measures carries `MEASURES_CAUTION`; plan
+ * pages carry `PLAN_CAUTION` from `contracts/plans`; pain scores and plan alerts carry
+ * `PAIN_CAUTION`; saved stills draw `STILL_CAUTION_LINE` (`contracts/sharing`). Show them with `CautionNote` (`shared/caution-note/`), styled as information.
  */
 export const MEASURES_CAUTION =
   "These figures support, and do not replace, a licensed clinician's judgement. Stop an exercise that causes sharp or worsening pain; follow local regulations.";
+
+/** Beside pain scores and plan alerts (intake, roster, athlete profile, Plan tab). */
+export const PAIN_CAUTION =
+  "Pain scores and plan alerts point to what to look at; they do not replace a licensed clinician's examination or judgement. Sharp or worsening pain means stop and see a clinician; follow local regulations.";

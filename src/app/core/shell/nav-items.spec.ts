@@ -3,8 +3,8 @@ import { navItemsFor } from './nav-items';
 const labels = (...args: Parameters<typeof navItemsFor>) => navItemsFor(...args).map((i) => i.label);
 
 describe('navItemsFor', () => {
-  it('gives owners the roster, exercise library, billing, team and reference bands (no in-app mailbox)', () => {
-    expect(labels('owner')).toEqual(['Athletes', 'Exercise library', 'Billing', 'Team', 'Reference bands']);
+  it('gives owners the roster, exercise library, billing, team and reference bands, clinic details (no in-app mailbox)', () => {
+    expect(labels('owner')).toEqual(['Athletes', 'Exercise library', 'Billing', 'Team', 'Reference bands', 'Clinic details']);
   });
 
   it('gives coaches the roster and the exercise library', () => {

@@ -19,6 +19,7 @@ export function navItemsFor(role: Role | null): NavItem[] {
         { label: 'Billing', icon: 'receipt_long', path: '/billing', exact: false },
         { label: 'Team', icon: 'badge', path: '/team', exact: false },
         { label: 'Reference bands', icon: 'tune', path: '/settings/reference-bands', exact: false },
+        { label: 'Clinic details', icon: 'storefront', path: '/settings/clinic', exact: false },
       ];
     case 'coach':
       return [

@@ -8,8 +8,10 @@ import type {
   InvoiceList,
   InvoiceQuery,
   InvoiceWrite,
+  ManualPaymentWrite,
   Price,
   PriceWrite,
+  RefundWrite,
 } from '../../../contracts/billing';
 import { skipErrorSnackbar } from '../../core/http-context';
 
@@ -64,7 +66,7 @@ export class BillingApi {
     return this.http.post<InvoiceDetail>('/api/invoices', body, { context: skipErrorSnackbar(422) });
   }
 
-  /** Replaces a draft (409 once it was issued or voided; 422 shown inline by the form). */
+  /** Replaces a draft (409 once it was issued or cancelled; 422 shown inline by the form). */
   updateInvoice(id: number, body: InvoiceWrite): Observable<InvoiceDetail> {
     return this.http.put<InvoiceDetail>(`/api/invoices/${id}`, body, { context: skipErrorSnackbar(422, 409) });
   }
@@ -74,12 +76,17 @@ export class BillingApi {
     return this.http.delete<void>(`/api/invoices/${id}`);
   }
 
-  /** `issue`, `void` or `refund`; conflicts (409) come back with the server's reason. */
-  act(id: number, action: 'issue' | 'void' | 'refund'): Observable<InvoiceDetail> {
-    return this.http.post<InvoiceDetail>(`/api/invoices/${id}/${action}`, {});
+  /** `issue`, `cancel` or `refund` (a refund may carry a note); conflicts (409) come back with the server's reason. */
+  act(id: number, action: 'issue' | 'cancel' | 'refund', body: RefundWrite = {}): Observable<InvoiceDetail> {
+    return this.http.post<InvoiceDetail>(`/api/invoices/${id}/${action}`, body);
   }
 
-  /** Opens a payment page for the athlete's own open invoice. */
+  /** Records a bank transfer or cash payment (422 shown inline by the dialog; 409 by the snackbar). */
+  recordPayment(id: number, body: ManualPaymentWrite): Observable<InvoiceDetail> {
+    return this.http.post<InvoiceDetail>(`/api/invoices/${id}/payments`, body, { context: skipErrorSnackbar(422) });
+  }
+
+  /** Opens a payment page for the athlete's own issued invoice. */
   checkout(id: number): Observable<CheckoutStart> {
     return this.http.post<CheckoutStart>(`/api/invoices/${id}/checkout`, {});
   }

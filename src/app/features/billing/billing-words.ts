@@ -1,12 +1,19 @@
-import { formatMinor, type InvoiceStatus, type InvoiceSummary } from '../../../contracts/billing';
+import { formatMinor, type InvoiceStatus, type InvoiceSummary, type PaymentMethod } from '../../../contracts/billing';
 
-/** How each invoice status reads, with its icon. */
+/** How each invoice status reads, with its icon (our own words: Draft → Issued → Paid, Cancelled, Refunded). */
 export const STATUS_WORDS: Record<InvoiceStatus, { label: string; icon: string }> = {
   draft: { label: 'Draft', icon: 'edit_note' },
-  open: { label: 'Open', icon: 'schedule' },
+  issued: { label: 'Issued', icon: 'schedule' },
   paid: { label: 'Paid', icon: 'check_circle' },
-  void: { label: 'Void', icon: 'block' },
+  cancelled: { label: 'Cancelled', icon: 'block' },
   refunded: { label: 'Refunded', icon: 'undo' },
+};
+
+/** How a payment method reads: "Card payment", "Bank transfer", "Cash". */
+export const PAYMENT_METHOD_WORDS: Record<PaymentMethod, string> = {
+  card: 'Card payment',
+  bank_transfer: 'Bank transfer',
+  cash: 'Cash',
 };
 
 /** "162.00 EUR" from minor units. */
@@ -61,11 +68,11 @@ export function dayText(isoDate: string): string {
 
 /**
  * What an athlete has to pay, from their invoices: "Nothing to pay", "1 invoice to pay · 78.00 EUR
- * due 8 Dec 2026", or "2 invoices to pay · 222.00 EUR, the next due 8 Dec 2026". Only open invoices
- * count (drafts never reach the athlete; paid, void and refunded ones are settled).
+ * due 8 Dec 2026", or "2 invoices to pay · 222.00 EUR, the next due 8 Dec 2026". Only issued invoices
+ * count (drafts never reach the athlete; paid, cancelled and refunded ones are settled).
  */
 export function amountDueText(invoices: readonly Pick<InvoiceSummary, 'status' | 'totalMinor' | 'currency' | 'dueDate'>[]): string {
-  const open = invoices.filter((i) => i.status === 'open');
+  const open = invoices.filter((i) => i.status === 'issued');
   if (open.length === 0) return 'Nothing to pay';
   const byCurrency = new Map<string, number>();
   for (const i of open) byCurrency.set(i.currency, (byCurrency.get(i.currency) ?? 0) + i.totalMinor);
@@ -74,4 +81,15 @@ export function amountDueText(invoices: readonly Pick<InvoiceSummary, 'status' |
   return open.length === 1
     ? `1 invoice to pay · ${amount} due ${dayText(next)}`
     : `${open.length} invoices to pay · ${amount}, the next due ${dayText(next)}`;
+}
+
+/**
+ * How an invoice was paid, in a sentence: "Paid by bank transfer on 3 Dec 2026.", "Paid by card
+ * on 8 Oct 2026."; empty before it is paid.
+ */
+export function paidText(inv: { paymentMethod: PaymentMethod | null; paidOn: string | null; paidAt: string | null }): string {
+  const day = inv.paidOn ?? inv.paidAt?.slice(0, 10) ?? null;
+  if (!day) return '';
+  const how = { card: 'by card', bank_transfer: 'by bank transfer', cash: 'in cash' }[inv.paymentMethod ?? 'card'];
+  return `Paid ${how} on ${dayText(day)}.`;
 }

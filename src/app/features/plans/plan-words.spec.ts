@@ -1,5 +1,5 @@
 import type { LogEntry } from '../../../contracts/plans';
-import { alertSummary, doseMain, formatDose, morningCheckDue, newLogKey, runningPlan, seconds } from './plan-words';
+import { alertChipText, alertSummary, startPlanMessage, doseMain, formatDose, morningCheckDue, newLogKey, runningPlan, seconds } from './plan-words';
 
 const entry = (id: number, date: string, morningPain: number | null = null): LogEntry => ({
   id,
@@ -37,11 +37,14 @@ describe('plan words', () => {
     expect(runningPlan([{ status: 'draft' }, { status: 'finished' }])).toBeNull();
   });
 
-  it('summarises alerts for a chip', () => {
+  it('summarises alerts for a chip, naming the rule that fired and its figures', () => {
     expect(alertSummary([])).toBe('');
-    const a = { message: '', date: '', value: 6, limit: 5 };
-    expect(alertSummary([{ ...a, kind: 'during_above_max' }, { ...a, kind: 'weekly_rise_during' }])).toBe('Pain above the plan’s limit +1');
-    expect(alertSummary([{ ...a, kind: 'weekly_rise_morning' }], true)).toBe('Pain rising');
+    const a = { message: '', date: '' };
+    expect(alertSummary([{ ...a, kind: 'during_above_max', value: 6, limit: 5 }, { ...a, kind: 'weekly_rise_during', value: 4, limit: 2 }])).toBe('Pain 6/10 during, above the limit of 5/10 +1');
+    expect(alertSummary([{ ...a, kind: 'during_above_max', value: 6, limit: 5 }], true)).toBe('Pain 6/10 > limit 5');
+    expect(alertChipText({ ...a, kind: 'not_settled', value: 4, limit: 2 })).toBe('Morning pain 4/10, not settled (≤ 2/10)');
+    expect(alertChipText({ ...a, kind: 'weekly_rise_during', value: 4, limit: 2 })).toBe('Weekly pain rising: 2 → 4');
+    expect(alertChipText({ ...a, kind: 'weekly_rise_morning', value: 3.5, limit: 1 }, true)).toBe('Weekly morning 1 → 3.5');
   });
 
   it('asks the morning check about the newest unchecked session of the last two days only', () => {
@@ -58,5 +61,13 @@ describe('plan words', () => {
     const key = newLogKey({ getRandomValues: <T extends ArrayBufferView | null>(a: T) => { (a as unknown as Uint8Array).fill(171); return a; } });
     expect(key).toBe('ab'.repeat(16));
     expect(newLogKey()).toMatch(/^[A-Za-z0-9-]{8,64}$/);
+  });
+
+  it('says on Start plan that an athlete without an account cannot log yet, instead of pointing at a portal they cannot enter', () => {
+    expect(startPlanMessage('Calf plan', { firstName: 'Ada', hasAccount: true, invitationPending: false })).toBe("Calf plan becomes the athlete's current plan, at stage 1. They can log sessions from their portal.");
+    expect(startPlanMessage('Calf plan', { firstName: 'Ada', hasAccount: false, invitationPending: false })).toBe(
+      "Calf plan becomes the athlete's current plan, at stage 1. Ada has no Trailframe account yet, so they cannot log sessions until they are invited (Invite to Trailframe, on this page).",
+    );
+    expect(startPlanMessage('Calf plan', { firstName: 'Ada', hasAccount: false, invitationPending: true })).toContain('until they accept the invitation already sent');
   });
 });

@@ -2,8 +2,8 @@
  * Words and small pure helpers of the Plans screens: doses, statuses, alerts, the running plan
  * of a list, and the session the athlete still owes a morning check for.
  */
+import type { AthleteSummary } from '../../../contracts/api';
 import type { Dose, LogEntry, PainAlert, PlanStatus, PlanSummary } from '../../../contracts/plans';
-import { PAIN_ALERT_LABELS } from '../../../contracts/plans';
 import { addDays } from '../../../plans-rules';
 
 /** "30 s" / "1 min 30 s". */
@@ -43,18 +43,32 @@ export function runningPlan<T extends Pick<PlanSummary, 'status'>>(plans: readon
   return plans.find((p) => p.status === 'active' || p.status === 'paused') ?? null;
 }
 
-/** Short words for a chip in a narrow cell (the roster). */
-export const PAIN_ALERT_SHORT_LABELS: Record<PainAlert['kind'], string> = {
-  during_above_max: 'Above limit',
-  not_settled: 'Not settled',
-  weekly_rise_during: 'Pain rising',
-  weekly_rise_morning: 'Pain rising',
-};
+/** A score as people write it: "4", "2.5". */
+const score = (n: number) => String(Math.round(n * 10) / 10);
 
-/** Chip text of a list of alerts: the first one's label and "+n" for the rest. */
+/**
+ * Chip words of one alert that name the rule that fired and its figures: "Pain 6/10 > limit 5"
+ * (compact, the roster) or "Pain 6/10 during, above the limit of 5/10".
+ */
+export function alertChipText(alert: PainAlert, compact = false): string {
+  const v = score(alert.value);
+  const l = score(alert.limit);
+  switch (alert.kind) {
+    case 'during_above_max':
+      return compact ? `Pain ${v}/10 > limit ${l}` : `Pain ${v}/10 during, above the limit of ${l}/10`;
+    case 'not_settled':
+      return compact ? `Morning ${v}/10 > ${l}` : `Morning pain ${v}/10, not settled (≤ ${l}/10)`;
+    case 'weekly_rise_during':
+      return compact ? `Weekly pain ${l} → ${v}` : `Weekly pain rising: ${l} → ${v}`;
+    case 'weekly_rise_morning':
+      return compact ? `Weekly morning ${l} → ${v}` : `Weekly morning pain rising: ${l} → ${v}`;
+  }
+}
+
+/** Chip text of a list of alerts: the first one's words and "+n" for the rest. */
 export function alertSummary(alerts: readonly PainAlert[], compact = false): string {
   if (alerts.length === 0) return '';
-  const first = (compact ? PAIN_ALERT_SHORT_LABELS : PAIN_ALERT_LABELS)[alerts[0]!.kind];
+  const first = alertChipText(alerts[0]!, compact);
   return alerts.length > 1 ? `${first} +${alerts.length - 1}` : first;
 }
 
@@ -78,4 +92,12 @@ export function newLogKey(cryptoObj: Pick<Crypto, 'getRandomValues'> & { randomU
   if (typeof cryptoObj.randomUUID === 'function') return cryptoObj.randomUUID();
   const bytes = cryptoObj.getRandomValues(new Uint8Array(16));
   return Array.from(bytes, (b) => b.toString(16).padStart(2, '0')).join('');
+}
+
+/** What "Start plan" asks; it says the athlete can log only when they have an account. */
+export function startPlanMessage(title: string, athlete: Pick<AthleteSummary, 'firstName' | 'hasAccount' | 'invitationPending'> | null): string {
+  const head = `${title} becomes the athlete's current plan, at stage 1.`;
+  if (!athlete || athlete.hasAccount) return `${head} They can log sessions from their portal.`;
+  const invite = athlete.invitationPending ? 'accept the invitation already sent' : 'are invited (Invite to Trailframe, on this page)';
+  return `${head} ${athlete.firstName} has no Trailframe account yet, so they cannot log sessions until they ${invite}.`;
 }

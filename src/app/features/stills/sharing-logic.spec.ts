@@ -137,6 +137,14 @@ describe('publishConfirmText', () => {
     expect(t.message).toContain('e-mail notice');
     expect(publishConfirmText('summary', '').title).toBe('Publish this visit summary?');
   });
+
+  it('promises no e-mail to an athlete without an account, and says how they get access', () => {
+    const t = publishConfirmText('summary', 'Ada Kestrel', false);
+    expect(t.message).toContain('Ada Kestrel has no Trailframe account yet');
+    expect(t.message).toContain('no e-mail goes out');
+    expect(t.message).toContain('Invite to Trailframe');
+    expect(t.confirmLabel).toBe('Publish');
+  });
 });
 
 describe('nextAssessment', () => {

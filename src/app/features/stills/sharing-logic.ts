@@ -88,11 +88,19 @@ export function stillAlt(still: Pick<Still, 'caption' | 'panels' | 'kind'>): str
 }
 
 /** What publishing sends, for the confirmation. */
-export function publishConfirmText(kind: 'still' | 'summary', athleteName: string): { title: string; message: string; confirmLabel: string } {
+export function publishConfirmText(kind: 'still' | 'summary', athleteName: string, hasAccount = true): { title: string; message: string; confirmLabel: string } {
   const who = athleteName.trim() || 'The athlete';
   const what = kind === 'still' ? 'this still' : 'this visit summary';
+  const title = kind === 'still' ? 'Publish this still?' : 'Publish this visit summary?';
+  if (!hasAccount) {
+    return {
+      title,
+      message: `${who} has no Trailframe account yet: ${what} waits in their portal, and no e-mail goes out now. They see it once they accept an invitation (Invite to Trailframe).`,
+      confirmLabel: 'Publish',
+    };
+  }
   return {
-    title: kind === 'still' ? 'Publish this still?' : 'Publish this visit summary?',
+    title,
     message: `${who} will see ${what} in their portal and will get an e-mail notice that something new was shared (the e-mail carries no captions or measures).`,
     confirmLabel: 'Publish and notify',
   };

@@ -7,6 +7,8 @@ export interface ConfirmDialogData {
   title: string;
   message: string;
   confirmLabel: string;
+  /** The button that answers no; "Cancel" unless told (e.g. "Keep invoice" when cancelling one). */
+  dismissLabel?: string;
 }
 
 /** A yes/no question. Closes with `true` when confirmed. */
@@ -18,7 +20,7 @@ export interface ConfirmDialogData {
     <h2 mat-dialog-title>{{ data.title }}</h2>
     <mat-dialog-content>{{ data.message }}</mat-dialog-content>
     <mat-dialog-actions align="end">
-      <button mat-button type="button" [mat-dialog-close]="false">Cancel</button>
+      <button mat-button type="button" [mat-dialog-close]="false">{{ data.dismissLabel ?? 'Cancel' }}</button>
       <button mat-flat-button type="button" [mat-dialog-close]="true" cdkFocusInitial>
         {{ data.confirmLabel }}
       </button>

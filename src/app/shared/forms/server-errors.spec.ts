@@ -1,5 +1,6 @@
 import { FormArray, FormControl, FormGroup } from '@angular/forms';
-import { applyServerErrors } from './server-errors';
+import { HttpErrorResponse } from '@angular/common/http';
+import { applyServerErrors, saveProblem } from './server-errors';
 
 function form() {
   return new FormGroup({
@@ -49,6 +50,24 @@ describe('applyServerErrors', () => {
     const f = form();
     applyServerErrors(f, [{ path: ['goalEvent'], message: 'Bad' }]);
     f.controls.goalEvent.setValue('Half marathon');
+    expect(f.controls.goalEvent.errors).toBeNull();
+  });
+});
+
+describe('saveProblem', () => {
+  const answer = (status: number, error: unknown) => new HttpErrorResponse({ status, error });
+
+  it('puts a 422 on its fields and returns only what matched no field', () => {
+    const f = form();
+    const err = answer(422, { error: { code: 'validation_failed', message: 'Check.', details: [{ path: ['goalEvent'], message: 'Too long' }, { path: ['logo'], message: 'Unknown field' }] } });
+    expect(saveProblem(f, err)).toBe('logo: Unknown field');
+    expect(f.controls.goalEvent.errors).toEqual({ server: 'Too long' });
+    expect(saveProblem(form(), answer(422, { error: { code: 'validation_failed', message: 'Check.', details: [{ path: ['goalEvent'], message: 'Too long' }] } }))).toBeNull();
+  });
+
+  it('returns the message of any other failure, and leaves the fields alone', () => {
+    const f = form();
+    expect(saveProblem(f, answer(409, { error: { code: 'invalid_transition', message: 'The invoice changed meanwhile; reload it.' } }))).toBe('The invoice changed meanwhile; reload it.');
     expect(f.controls.goalEvent.errors).toBeNull();
   });
 });

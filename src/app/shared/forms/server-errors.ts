@@ -1,5 +1,5 @@
 import { AbstractControl } from '@angular/forms';
-import type { FieldProblem } from '../../core/api-error';
+import { errorMessage, errorStatus, fieldProblems, type FieldProblem } from '../../core/api-error';
 
 /**
  * Puts a 422 answer's field problems onto the form as `{ server: message }` errors, marks those
@@ -30,4 +30,15 @@ export function applyServerErrors(
     }
   }
   return unmatched;
+}
+
+/**
+ * What to say above a form after a failed save: a 422's field problems go onto the form (see
+ * {@link applyServerErrors}) and only those that matched no field are returned as text (null when
+ * all did); any other failure is its message.
+ */
+export function saveProblem(form: AbstractControl, err: unknown): string | null {
+  if (errorStatus(err) !== 422) return errorMessage(err);
+  const rest = applyServerErrors(form, fieldProblems(err));
+  return rest.length ? rest.join(' ') : null;
 }

@@ -7,6 +7,8 @@ import type { AthleteSummary, PendingInvitation } from '../../../../contracts/ap
 import { AthletesApi } from '../athletes-api';
 import { accountState } from '../roster';
 
+let nextHint = 0;
+
 /**
  * The athlete's Trailframe account at a glance, with "Invite to Trailframe" / "Resend invitation".
  * Inviting needs an e-mail address; athletes with an account show as Active.
@@ -29,6 +31,8 @@ export class AthleteInvitation {
   protected readonly state = computed(() => accountState(this.athlete()));
   protected readonly hasEmail = computed(() => !!this.athlete().email);
   protected readonly sending = signal(false);
+  /** Unique per instance: the profile header and an invite prompt can both be on a page. */
+  protected readonly hintId = `invite-hint-${++nextHint}`;
 
   protected async invite(): Promise<void> {
     if (this.sending() || !this.hasEmail()) return;

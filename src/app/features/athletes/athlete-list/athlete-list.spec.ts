@@ -107,11 +107,11 @@ describe('AthleteList', () => {
   });
 
   it('shows a plan-alert chip linking to the plan for athletes whose pain rose', async () => {
-    const alert = { kind: 'weekly_rise_during' as const, message: 'Pain during rose week over week.', date: '2026-12-07', value: 6, limit: 2 };
+    const alert = { kind: 'weekly_rise_during' as const, message: 'Weekly pain rising: 2 → 6 (mean pain during, week of 30 Nov → week of 7 Dec).', date: '2026-12-07', value: 6, limit: 2 };
     await answer([athlete(1, 'Cleo', 'Bright'), athlete(2, 'Abel', 'Able')], [{ athleteId: 1, planId: 9, alerts: [alert] }]);
     const chips = [...element.querySelectorAll<HTMLAnchorElement>('app-plan-alert-chip a')];
     expect(chips).toHaveLength(1);
-    expect(chips[0]!.textContent).toContain('Pain rising');
+    expect(chips[0]!.textContent).toContain('Weekly pain 2 → 6');
     expect(chips[0]!.getAttribute('href')).toBe('/plans/9');
     expect(chips[0]!.closest('tr')?.textContent).toContain('Cleo Bright');
   });

@@ -13,6 +13,8 @@ import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import { map } from 'rxjs';
 import { errorMessage } from '../../../core/api-error';
+import { PAIN_CAUTION } from '../../../shared/caution';
+import { CautionNote } from '../../../shared/caution-note/caution-note';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
 import { PlanAlertChip } from '../../plans/plan-alert-chip/plan-alert-chip';
@@ -48,6 +50,7 @@ const PHONE_COLUMNS = ['name', 'pain'];
     EmptyState,
     ErrorState,
     PlanAlertChip,
+    CautionNote,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './athlete-list.html',
@@ -70,6 +73,8 @@ export class AthleteList {
   private readonly planAlerts = rxResource({ stream: () => this.plansApi.alerts() });
   protected readonly alertsByAthlete = computed(() => new Map((this.planAlerts.hasValue() ? this.planAlerts.value() : []).map((a) => [a.athleteId, a])));
   protected readonly pageSizes = [10, 25, 50];
+  /** Under the pain column and alert chips. */
+  protected readonly painCaution = PAIN_CAUTION;
 
   protected readonly query = signal('');
   protected readonly sort = signal<RosterSort>({ active: 'name', direction: 'asc' });

@@ -73,7 +73,9 @@ describe('IntakeForm', () => {
     expect(element.querySelector<HTMLInputElement>('input[formcontrolname="heightCm"]')!.value).toBe('171');
     expect(element.querySelectorAll('.injury-row').length).toBe(1);
     expect(element.querySelectorAll('.pain-row').length).toBe(1);
-    expect(element.textContent).toContain('Pain scores guide the clinician; they do not replace an examination.');
+    const caution = element.querySelector('#intake-pain')!.parentElement!.querySelector('app-caution-note[role="note"]');
+    expect(caution?.textContent).toContain("they do not replace a licensed clinician's examination or judgement");
+    expect(caution?.textContent).toContain('follow local regulations');
     expect(element.textContent).toContain('Consents to video recording of running for gait analysis');
     expect(form.pristine).toBe(true);
   });

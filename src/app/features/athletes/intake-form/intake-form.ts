@@ -46,6 +46,8 @@ import {
   SURFACE_LABELS,
 } from '../../../../contracts/intake';
 import { errorStatus, fieldProblems } from '../../../core/api-error';
+import { PAIN_CAUTION } from '../../../shared/caution';
+import { CautionNote } from '../../../shared/caution-note/caution-note';
 import { toIsoMonth } from '../../../shared/dates';
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
@@ -93,6 +95,7 @@ class DuplicateRegionMatcher implements ErrorStateMatcher {
     MatIconModule,
     MatSliderModule,
     MatProgressBarModule,
+    CautionNote,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './intake-form.html',
@@ -107,6 +110,8 @@ export class IntakeForm {
 
   /** The athlete whose intake this is. */
   readonly athlete = input.required<AthleteDetail>();
+  /** Beside the current-pain scores. */
+  protected readonly painCaution = PAIN_CAUTION;
   /** Staff see "Consents to…"; athletes see "I consent to…". */
   readonly audience = input<'staff' | 'athlete'>('staff');
   /** Emits the athlete as saved by the server. */

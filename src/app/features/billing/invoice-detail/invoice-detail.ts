@@ -14,32 +14,44 @@ import type { InvoiceDetail } from '../../../../contracts/billing';
 import { errorMessage } from '../../../core/api-error';
 import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { ErrorState } from '../../../shared/states/error-state';
+import { AthletesApi } from '../../athletes/athletes-api';
+import { InvitePrompt } from '../../athletes/invite-prompt/invite-prompt';
 import { BillingApi } from '../billing-api';
 import { InvoiceLinesTable } from '../invoice-lines-table/invoice-lines-table';
 import { InvoiceStatusBadge } from '../invoice-status/invoice-status';
-import { money } from '../billing-words';
+import { InvoiceSeller } from '../invoice-seller/invoice-seller';
+import { PaymentDialog, type PaymentDialogData } from '../payment-dialog/payment-dialog';
+import { PAYMENT_METHOD_WORDS, money, paidText } from '../billing-words';
 
-type Action = 'issue' | 'void' | 'refund';
+type Action = 'issue' | 'cancel' | 'refund';
 
-const CONFIRM: Record<Action, (i: InvoiceDetail) => ConfirmDialogData> = {
-  issue: (i) => ({ title: 'Issue this invoice?', message: `It gets its number and ${i.athleteName} receives an e-mail with a link to pay ${money(i.totalMinor, i.currency)} by card. Lines can no longer change.`, confirmLabel: 'Issue' }),
-  void: (i) => ({ title: 'Void this invoice?', message: `${i.number ?? 'The draft'} can no longer be paid. This cannot be undone.`, confirmLabel: 'Void' }),
+const CONFIRM: Record<Action, (i: InvoiceDetail, hasAccount: boolean) => ConfirmDialogData> = {
+  issue: (i, hasAccount) => ({
+    title: 'Issue this invoice?',
+    message: hasAccount
+      ? `It gets its number and ${i.athleteName} receives an e-mail with a link to pay ${money(i.totalMinor, i.currency)} by card. Lines can no longer change.`
+      : `It gets its number and ${i.athleteName} receives an e-mail with the amount (${money(i.totalMinor, i.currency)}) and how to get access to pay online; they have no Trailframe account yet. Lines can no longer change.`,
+    confirmLabel: 'Issue',
+  }),
+  cancel: (i) => ({ title: 'Cancel this invoice?', message: `${i.number ?? 'The draft'} can no longer be paid. This cannot be undone.`, confirmLabel: 'Cancel invoice', dismissLabel: 'Keep invoice' }),
   refund: (i) => ({ title: 'Refund the payment?', message: `${money(i.totalMinor, i.currency)} goes back to ${i.athleteName}'s card through the payment service. This cannot be undone.`, confirmLabel: 'Refund' }),
 };
 
 /**
- * `/billing/invoices/:id` (owner): one invoice with Issue, Void and Refund (each confirmed); a draft
- * also offers Edit (`/billing/invoices/:id/edit`) and a confirmed Delete draft.
+ * `/billing/invoices/:id` (owner): one invoice with the clinic's legal details, Issue, Cancel invoice,
+ * Record payment (bank transfer or cash) and Refund (each confirmed); a draft also offers Edit
+ * (`/billing/invoices/:id/edit`) and a confirmed Delete draft.
  */
 @Component({
   selector: 'app-invoice-detail',
-  imports: [DatePipe, RouterLink, MatCardModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState, InvoiceStatusBadge, InvoiceLinesTable],
+  imports: [DatePipe, RouterLink, MatCardModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState, InvoiceStatusBadge, InvoiceLinesTable, InvitePrompt, InvoiceSeller],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './invoice-detail.html',
   styleUrl: './invoice-detail.scss',
 })
 export class InvoiceDetailPage {
   private readonly api = inject(BillingApi);
+  private readonly athletesApi = inject(AthletesApi);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
   private readonly router = inject(Router);
@@ -47,15 +59,21 @@ export class InvoiceDetailPage {
   /** Route parameter. */
   readonly id = input.required<string>();
   protected readonly invoice = rxResource({ params: () => Number(this.id()), stream: ({ params }) => this.api.invoice(params) });
+  /** The athlete billed: without an account, Issue prompts an invitation. */
+  protected readonly athlete = rxResource({
+    params: () => (this.invoice.hasValue() ? this.invoice.value().athleteId : undefined),
+    stream: ({ params }) => this.athletesApi.get(params),
+  });
   protected readonly busy = signal(false);
   protected readonly receiptUrl = computed(() => this.api.receiptUrl(Number(this.id())));
   protected readonly errorMessage = errorMessage;
   protected readonly money = money;
+  protected readonly paidText = paidText;
   protected readonly kindLabels = ASSESSMENT_KIND_LABELS;
 
   protected act(action: Action, inv: InvoiceDetail): void {
     this.dialog
-      .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, { data: CONFIRM[action](inv) })
+      .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, { data: CONFIRM[action](inv, this.athlete.hasValue() ? this.athlete.value().hasAccount : true) })
       .afterClosed()
       .subscribe(async (ok) => {
         if (!ok) return;
@@ -63,7 +81,7 @@ export class InvoiceDetailPage {
         try {
           const updated = await firstValueFrom(this.api.act(inv.id, action));
           this.invoice.set(updated);
-          const done = { issue: `Issued as ${updated.number}; the athlete was e-mailed`, void: 'Invoice voided', refund: 'Payment refunded' }[action];
+          const done = { issue: `Issued as ${updated.number}; the athlete was e-mailed`, cancel: 'Invoice cancelled', refund: 'Payment refunded' }[action];
           this.snackBar.open(done, 'OK', { duration: 4000 });
         } catch {
           // The error snackbar shows the server's reason (e.g. a conflict).
@@ -72,6 +90,23 @@ export class InvoiceDetailPage {
           this.busy.set(false);
         }
       });
+  }
+
+  /** Record a bank transfer or cash payment, or the refund of one (with a note): a dialog with its own fields. */
+  protected openPayment(inv: InvoiceDetail, mode: PaymentDialogData['mode']): void {
+    this.dialog
+      .open<PaymentDialog, PaymentDialogData, InvoiceDetail>(PaymentDialog, { data: { invoice: inv, mode }, width: '480px', maxWidth: '95vw' })
+      .afterClosed()
+      .subscribe((updated) => {
+        if (!updated) return;
+        this.invoice.set(updated);
+        this.snackBar.open(mode === 'record' ? `Marked as paid: ${PAYMENT_METHOD_WORDS[updated.paymentMethod ?? 'cash'].toLowerCase()}` : 'Refund recorded', 'OK', { duration: 4000 });
+      });
+  }
+
+  /** Whether the payment was recorded by hand (its refund is recorded too, not sent to the payment service). */
+  protected manual(inv: InvoiceDetail): boolean {
+    return inv.paymentMethod === 'bank_transfer' || inv.paymentMethod === 'cash';
   }
 
   /** Asks first, deletes the draft and goes back to the list; a refusal (409) is shown by the error snackbar. */

@@ -107,7 +107,7 @@ describe('InvoiceForm reached by address', () => {
   const DRAFT: InvoiceDetail = {
     id: 31, number: null, status: 'draft', athleteId: 4, athleteName: 'Ada Kestrel', currency: 'EUR', totalMinor: 15600, dueDate: '2026-12-31',
     issuedAt: null, paidAt: null, createdAt: '2026-12-01T10:00:00Z', assessmentId: 11, assessment: { id: 11, kind: 'retest', date: '2026-11-24' }, note: 'Two visits', clinicName: 'Test clinic',
-    subtotalMinor: 13000, taxMinor: 2600, voidedAt: null, refundedAt: null, checkoutState: 'none',
+    subtotalMinor: 13000, taxMinor: 2600, cancelledAt: null, refundedAt: null, paymentMethod: null, paidOn: null, paymentNote: null, refundNote: null, clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' }, checkoutState: 'none',
     lines: [{ id: 7, priceId: 2, description: 'Re-test', quantity: 2, unitAmountMinor: 6500, taxRateBp: 2000, netMinor: 13000, taxMinor: 2600, totalMinor: 15600 }],
   };
 
@@ -178,20 +178,20 @@ describe('InvoiceForm reached by address', () => {
     await settle();
     void form.save();
     backend.expectOne('/api/invoices/31').flush(
-      { error: { code: 'invoice_not_draft', message: 'Only a draft can be edited; invoice TF-2026-0007 is open. Void it and make a new one instead.' } },
+      { error: { code: 'invoice_not_draft', message: 'Only a draft can be edited; invoice TF-2026-0007 is issued. Cancel it and make a new one instead.' } },
       { status: 409, statusText: 'Conflict' },
     );
     await settle();
-    expect(harness.routeNativeElement!.querySelector('.form-problem')?.textContent).toContain('invoice TF-2026-0007 is open');
+    expect(harness.routeNativeElement!.querySelector('.form-problem')?.textContent).toContain('invoice TF-2026-0007 is issued');
     expect(form.form.controls.note.value).toBe('Changed note');
   });
 
   it('an invoice that is no longer a draft is not offered for editing', async () => {
     await open('/billing/invoices/31/edit');
-    backend.expectOne('/api/invoices/31').flush({ ...DRAFT, status: 'open', number: 'TF-2026-0007' });
+    backend.expectOne('/api/invoices/31').flush({ ...DRAFT, status: 'issued', number: 'TF-2026-0007' });
     await settle();
     const el = harness.routeNativeElement!;
     expect(el.querySelector('form')).toBeNull();
-    expect(el.querySelector('.form-problem')?.textContent).toContain('Invoice TF-2026-0007 is open; only drafts can be edited.');
+    expect(el.querySelector('.form-problem')?.textContent).toContain('Invoice TF-2026-0007 is issued; only drafts can be edited.');
   });
 });

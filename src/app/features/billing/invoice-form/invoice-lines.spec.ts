@@ -36,7 +36,7 @@ describe('invoice lines', () => {
   it('a saved draft fills the form and previews the same total the server stored (2 × 65.00 at 20 % = 156.00)', () => {
     const f = formFromInvoice({
       id: 9, number: null, status: 'draft', athleteId: 4, athleteName: 'Ada Kestrel', currency: 'EUR', totalMinor: 15600, dueDate: '2026-12-31', issuedAt: null, paidAt: null, createdAt: '',
-      assessmentId: 11, assessment: { id: 11, kind: 'retest', date: '2026-11-24' }, note: null, clinicName: '', subtotalMinor: 13000, taxMinor: 2600, voidedAt: null, refundedAt: null, checkoutState: 'none',
+      assessmentId: 11, assessment: { id: 11, kind: 'retest', date: '2026-11-24' }, note: null, clinicName: '', subtotalMinor: 13000, taxMinor: 2600, cancelledAt: null, refundedAt: null, paymentMethod: null, paidOn: null, paymentNote: null, refundNote: null, clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' }, checkoutState: 'none',
       lines: [{ id: 1, priceId: 2, description: 'Re-test', quantity: 2, unitAmountMinor: 6500, taxRateBp: 2000, netMinor: 13000, taxMinor: 2600, totalMinor: 15600 }],
     });
     expect(f).toMatchObject({ athleteId: 4, assessmentId: 11, dueDate: '2026-12-31', note: '' });

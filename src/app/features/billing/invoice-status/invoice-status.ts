@@ -23,8 +23,8 @@ import { STATUS_WORDS } from '../billing-words';
     }
     mat-icon { font-size: 18px; inline-size: 18px; block-size: 18px; }
     :host(.status-paid) { background: #dcefe6; color: #174a3c; border-color: #9fcbb8; }
-    :host(.status-open) { background: #fdf1dc; color: #6b4300; border-color: #e9c98f; }
-    :host(.status-void), :host(.status-refunded) { color: var(--mat-sys-on-surface-variant); }
+    :host(.status-issued) { background: #fdf1dc; color: #6b4300; border-color: #e9c98f; }
+    :host(.status-cancelled), :host(.status-refunded) { color: var(--mat-sys-on-surface-variant); }
   `,
 })
 export class InvoiceStatusBadge {

@@ -19,7 +19,7 @@ import { amountDueText } from '../billing-words';
     } @else {
       <p class="muted">Checking your invoices…</p>
     }
-    <p class="muted">Pay open ones by card and download receipts.</p>
+    <p class="muted">Pay issued ones by card and download receipts.</p>
   `,
   styles: `
     :host { display: block; }
@@ -32,5 +32,5 @@ export class InvoicesDue {
   private readonly api = inject(BillingApi);
   protected readonly list = rxResource({ stream: () => this.api.invoices() });
   protected readonly summary = computed(() => (this.list.hasValue() ? amountDueText(this.list.value().invoices) : null));
-  protected readonly toPay = computed(() => (this.list.hasValue() ? this.list.value().invoices.some((i) => i.status === 'open') : false));
+  protected readonly toPay = computed(() => (this.list.hasValue() ? this.list.value().invoices.some((i) => i.status === 'issued') : false));
 }

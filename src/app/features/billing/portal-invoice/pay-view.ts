@@ -1,7 +1,7 @@
 import type { CheckoutState, InvoiceStatus } from '../../../../contracts/billing';
 
 /** What the athlete's invoice page says, from the SERVER's status and how the browser came back. */
-export type PayView = 'open' | 'waiting' | 'unconfirmed' | 'paid' | 'failed' | 'cancelled' | 'void' | 'refunded';
+export type PayView = 'due' | 'waiting' | 'unconfirmed' | 'paid' | 'failed' | 'left_payment_page' | 'cancelled' | 'refunded';
 
 /** How the payment page sent the browser back (`?checkout=`), or null. */
 export type ReturnedWith = 'success' | 'cancel' | null;
@@ -13,11 +13,11 @@ export type ReturnedWith = 'success' | 'cancel' | null;
 export function payView(inv: { status: InvoiceStatus; checkoutState: CheckoutState }, returned: ReturnedWith, timedOut: boolean): PayView {
   if (inv.status === 'paid') return 'paid';
   if (inv.status === 'refunded') return 'refunded';
-  if (inv.status === 'void') return 'void';
+  if (inv.status === 'cancelled') return 'cancelled';
   if (inv.checkoutState === 'failed') return 'failed';
   if (returned === 'success') return timedOut ? 'unconfirmed' : 'waiting';
-  if (returned === 'cancel') return 'cancelled';
-  return 'open';
+  if (returned === 'cancel') return 'left_payment_page';
+  return 'due';
 }
 
 /** `?checkout=` read safely. */

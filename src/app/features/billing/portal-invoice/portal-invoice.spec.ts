@@ -11,9 +11,9 @@ const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
 /** Re-test 65.00 at 20 % = 78.00 EUR. */
 function anInvoice(over: Partial<InvoiceDetail> = {}): InvoiceDetail {
   return {
-    id: 7, number: 'TF-2026-0001', status: 'open', athleteId: 1, athleteName: 'Ada Kestrel', currency: 'EUR', totalMinor: 7800,
+    id: 7, number: 'TF-2026-0001', status: 'issued', athleteId: 1, athleteName: 'Ada Kestrel', currency: 'EUR', totalMinor: 7800,
     dueDate: '2026-12-31', issuedAt: '2026-12-01T10:00:00Z', paidAt: null, createdAt: '2026-12-01T09:00:00Z', assessmentId: null, assessment: null,
-    note: null, clinicName: 'Larchwood Running Clinic', subtotalMinor: 6500, taxMinor: 1300, voidedAt: null, refundedAt: null,
+    note: null, clinicName: 'Larchwood Running Clinic', subtotalMinor: 6500, taxMinor: 1300, cancelledAt: null, refundedAt: null, paymentMethod: null, paidOn: null, paymentNote: null, refundNote: null, clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
     checkoutState: 'pending',
     lines: [{ id: 1, priceId: 2, description: 'Re-test', quantity: 1, unitAmountMinor: 6500, taxRateBp: 2000, netMinor: 6500, taxMinor: 1300, totalMinor: 7800 }],
     ...over,
@@ -56,7 +56,7 @@ describe('PortalInvoice', () => {
     await wait(1550);
     backend.expectOne('/api/invoices/7').flush(anInvoice({ status: 'paid', paidAt: '2026-12-01T10:05:00Z', checkoutState: 'none' }));
     await settle();
-    expect(element.textContent).toContain('Payment received on');
+    expect(element.textContent).toContain('Paid by card on 1 Dec 2026.');
     expect(element.querySelector('a[download]')?.getAttribute('href')).toBe('/api/invoices/7/receipt');
 
     await wait(1600);
@@ -84,8 +84,8 @@ describe('PortalInvoice', () => {
     backend.expectOne('/api/invoices/7').flush(anInvoice());
     await settle();
     (element.querySelector('button.mat-mdc-unelevated-button') as HTMLButtonElement).click();
-    backend.expectOne('/api/invoices/7/checkout').flush({ error: { code: 'invoice_not_payable', message: 'This invoice is void and cannot be paid.' } }, { status: 409, statusText: 'Conflict' });
+    backend.expectOne('/api/invoices/7/checkout').flush({ error: { code: 'invoice_not_payable', message: 'This invoice is cancelled and cannot be paid.' } }, { status: 409, statusText: 'Conflict' });
     await settle();
-    expect(element.querySelector('.form-problem')?.textContent).toContain('This invoice is void and cannot be paid.');
+    expect(element.querySelector('.form-problem')?.textContent).toContain('This invoice is cancelled and cannot be paid.');
   });
 });

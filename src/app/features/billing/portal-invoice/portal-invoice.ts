@@ -12,8 +12,9 @@ import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
 import { errorMessage } from '../../../core/api-error';
 import { ErrorState } from '../../../shared/states/error-state';
 import { BillingApi } from '../billing-api';
-import { money } from '../billing-words';
+import { money, paidText } from '../billing-words';
 import { InvoiceLinesTable } from '../invoice-lines-table/invoice-lines-table';
+import { InvoiceSeller } from '../invoice-seller/invoice-seller';
 import { InvoiceStatusBadge } from '../invoice-status/invoice-status';
 import { payView, POLL_MS, POLL_TRIES, returnedWith } from './pay-view';
 
@@ -24,7 +25,7 @@ import { payView, POLL_MS, POLL_TRIES, returnedWith } from './pay-view';
  */
 @Component({
   selector: 'app-portal-invoice',
-  imports: [DatePipe, RouterLink, MatCardModule, MatButtonModule, MatIconModule, MatProgressBarModule, MatProgressSpinnerModule, ErrorState, InvoiceStatusBadge, InvoiceLinesTable],
+  imports: [DatePipe, RouterLink, MatCardModule, MatButtonModule, MatIconModule, MatProgressBarModule, MatProgressSpinnerModule, ErrorState, InvoiceStatusBadge, InvoiceLinesTable, InvoiceSeller],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './portal-invoice.html',
   styleUrl: './portal-invoice.scss',
@@ -54,6 +55,7 @@ export class PortalInvoice {
   protected readonly payProblem = signal<string | null>(null);
   protected readonly receiptUrl = computed(() => this.api.receiptUrl(Number(this.id())));
   protected readonly money = money;
+  protected readonly paidText = paidText;
   protected readonly errorMessage = errorMessage;
 
   /** Opens the payment service's page for this invoice. */

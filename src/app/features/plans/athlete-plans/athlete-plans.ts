@@ -5,20 +5,24 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
-import { PAIN_ALERT_LABELS, PLAN_STATUS_LABELS } from '../../../../contracts/plans';
+import { PLAN_STATUS_LABELS } from '../../../../contracts/plans';
 import { errorMessage } from '../../../core/api-error';
+import { PAIN_CAUTION } from '../../../shared/caution';
+import { CautionNote } from '../../../shared/caution-note/caution-note';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
-import { runningPlan, statusClass } from '../plan-words';
+import { PlanCaution } from '../plan-caution/plan-caution';
+import { alertChipText, runningPlan, statusClass } from '../plan-words';
 import { PlansApi } from '../plans-api';
 
 /**
  * An athlete's plans on their profile (staff): the running one with its alerts first, then the
- * others, and "New plan". With `alertsOnly`, just the running plan's alerts (above the tabs).
+ * others, and "New plan", under the plan caution. With `alertsOnly`, just the running plan's alerts
+ * (above the tabs), each naming the rule that fired, with the pain caution.
  */
 @Component({
   selector: 'app-athlete-plans',
-  imports: [DatePipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, EmptyState, ErrorState],
+  imports: [DatePipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, EmptyState, ErrorState, CautionNote, PlanCaution],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './athlete-plans.html',
   styleUrl: './athlete-plans.scss',
@@ -32,7 +36,9 @@ export class AthletePlans {
   protected readonly rows = computed(() => (this.plans.hasValue() ? this.plans.value() : []));
   protected readonly running = computed(() => runningPlan(this.rows()));
   protected readonly statusLabels = PLAN_STATUS_LABELS;
-  protected readonly alertLabels = PAIN_ALERT_LABELS;
+  protected readonly alertChipText = alertChipText;
+  /** Beside the alert banner: alerts point, the clinician decides. */
+  protected readonly painCaution = PAIN_CAUTION;
   protected readonly statusClass = statusClass;
   protected readonly errorMessage = errorMessage;
 }

@@ -11,7 +11,7 @@ import { alertSummary } from '../plan-words';
   changeDetection: ChangeDetectionStrategy.OnPush,
   template: `
     @if (alerts().length) {
-      <a class="plan-alert-chip" [routerLink]="['/plans', planId()]" [attr.title]="details()" [attr.aria-label]="'Plan alert: ' + details()">
+      <a class="plan-alert-chip" [routerLink]="['/plans', planId()]" [attr.title]="details()" [attr.aria-label]="'Plan alert: ' + summary() + '. ' + details()">
         <mat-icon aria-hidden="true">warning</mat-icon>
         <span>{{ summary() }}</span>
       </a>

@@ -1,5 +1,5 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, ChangeDetectorRef, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { FormArray, NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -88,6 +88,7 @@ export class PlanBuilder implements LeaveGuarded {
   private readonly router = inject(Router);
   private readonly snackBar = inject(MatSnackBar);
   private readonly fb = inject(NonNullableFormBuilder);
+  private readonly cdr = inject(ChangeDetectorRef);
 
   /** Route parameter when editing. */
   readonly id = input<string | undefined>();
@@ -117,6 +118,8 @@ export class PlanBuilder implements LeaveGuarded {
   protected readonly form = signal<PlanForm | null>(null);
   protected readonly busy = signal(false);
   protected readonly problem = signal<string | null>(null);
+  /** Said to screen readers after an exercise is added ("Added … to Isometric holds"). */
+  protected readonly announcement = signal('');
   private saved = false;
 
   protected readonly criterionKinds = CRITERION_KINDS;
@@ -186,6 +189,10 @@ export class PlanBuilder implements LeaveGuarded {
         if (!exercise) return;
         stage.controls.exercises.push(stageExerciseGroup(this.fb, exercise));
         f.markAsDirty();
+        this.announcement.set(`Added ${exercise.name} to ${stage.controls.name.value || `stage ${index + 1}`}.`);
+        // The dialog answers outside any template event, and a FormArray is not a signal: without
+        // this the OnPush view would show the new exercise only after the next click.
+        this.cdr.markForCheck();
       });
   }
 

@@ -1,13 +1,13 @@
 import { ChangeDetectionStrategy, Component } from '@angular/core';
-import { MatIconModule } from '@angular/material/icon';
 import { PLAN_CAUTION } from '../../../../contracts/plans';
+import { CautionNote } from '../../../shared/caution-note/caution-note';
 
 /** The caution every plan and exercise page carries. */
 @Component({
   selector: 'app-plan-caution',
-  imports: [MatIconModule],
+  imports: [CautionNote],
   changeDetection: ChangeDetectionStrategy.OnPush,
-  template: `<p class="caution" role="note"><mat-icon aria-hidden="true">health_and_safety</mat-icon><span>{{ text }}</span></p>`,
+  template: `<app-caution-note [text]="text" />`,
 })
 export class PlanCaution {
   protected readonly text = PLAN_CAUTION;

@@ -10,6 +10,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
 import { firstValueFrom, throwError } from 'rxjs';
+import type { AthleteSummary } from '../../../../contracts/api';
 import type { PlanAction, PlanDetail, PlanStage } from '../../../../contracts/plans';
 import { PAIN_ALERT_LABELS, PLAN_STATUS_LABELS } from '../../../../contracts/plans';
 import { describeCriterion } from '../../../../plans-rules';
@@ -17,17 +18,18 @@ import { errorMessage, errorStatus } from '../../../core/api-error';
 import { ConfirmDialog, ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AthletesApi } from '../../athletes/athletes-api';
+import { InvitePrompt } from '../../athletes/invite-prompt/invite-prompt';
 import { fullName } from '../../athletes/roster';
 import { AdherenceList } from '../adherence-list/adherence-list';
 import { ExerciseCard } from '../exercise-card/exercise-card';
 import { PainChart } from '../pain-chart/pain-chart';
 import { PainRuleDialog } from '../pain-rule-dialog/pain-rule-dialog';
 import { PlanCaution } from '../plan-caution/plan-caution';
-import { statusClass } from '../plan-words';
+import { startPlanMessage, statusClass } from '../plan-words';
 import { PlansApi } from '../plans-api';
 
-const CONFIRM: Partial<Record<PlanAction, (p: PlanDetail, next: PlanStage | null) => ConfirmDialogData>> = {
-  start: (p) => ({ title: 'Start this plan?', message: `${p.title} becomes the athlete's current plan, at stage 1. They can log sessions from their portal.`, confirmLabel: 'Start plan' }),
+const CONFIRM: Partial<Record<PlanAction, (p: PlanDetail, next: PlanStage | null, athlete: AthleteSummary | null) => ConfirmDialogData>> = {
+  start: (p, _next, athlete) => ({ title: 'Start this plan?', message: startPlanMessage(p.title, athlete), confirmLabel: 'Start plan' }),
   advance: (_p, next) => ({ title: `Move to “${next?.name ?? 'the next stage'}”?`, message: 'The athlete sees the new stage’s exercises from now on. Sessions already logged stay with the earlier stage.', confirmLabel: 'Move to next stage' }),
   finish: (p) => ({ title: 'Finish this plan?', message: `${p.title} ends: the athlete can no longer log sessions on it. Its log and charts stay.`, confirmLabel: 'Finish plan' }),
 };
@@ -35,7 +37,7 @@ const CONFIRM: Partial<Record<PlanAction, (p: PlanDetail, next: PlanStage | null
 /** `/plans/:id` (staff): stages and doses, status actions, adherence, pain chart, alerts and log. */
 @Component({
   selector: 'app-plan-page',
-  imports: [DatePipe, RouterLink, MatButtonModule, MatCardModule, MatIconModule, MatProgressBarModule, ErrorState, AdherenceList, ExerciseCard, PainChart, PlanCaution],
+  imports: [DatePipe, RouterLink, MatButtonModule, MatCardModule, MatIconModule, MatProgressBarModule, ErrorState, AdherenceList, ExerciseCard, PainChart, PlanCaution, InvitePrompt],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './plan-page.html',
   styleUrl: './plan-page.scss',
@@ -112,7 +114,7 @@ export class PlanPage {
       return;
     }
     this.dialog
-      .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, { data: ask(d, this.nextStage()), width: '460px', maxWidth: '95vw' })
+      .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, { data: ask(d, this.nextStage(), this.athlete.hasValue() ? this.athlete.value() : null), width: '460px', maxWidth: '95vw' })
       .afterClosed()
       .subscribe((yes) => {
         if (yes) void this.run(d, action);

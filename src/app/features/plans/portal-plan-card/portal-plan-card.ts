@@ -4,11 +4,16 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
+import { toIsoDate } from '../../../shared/dates';
 import { LogOutbox } from '../log-outbox';
 import { runningPlan } from '../plan-words';
 import { PlansApi } from '../plans-api';
+import { historyRows, sessionLoggedOn } from '../portal-plan/portal-log';
 
-/** The portal home's "Your plan" card: current stage, unsent entries, a link to today's session. */
+/**
+ * The portal home's "Your plan" card: current stage, whether today's session is done, unsent
+ * entries, a link to today's session.
+ */
 @Component({
   selector: 'app-portal-plan-card',
   imports: [RouterLink, MatCardModule, MatButtonModule, MatIconModule],
@@ -28,6 +33,9 @@ import { PlansApi } from '../plans-api';
                 — stage {{ p.currentStagePosition }} of {{ p.stageCount }}: {{ p.currentStageName }}.
               }
             </p>
+            @if (doneToday()) {
+              <p class="done"><mat-icon aria-hidden="true">task_alt</mat-icon>Today's session is done.</p>
+            }
           } @else if (plans.hasValue()) {
             <p class="muted">Your clinician has not started an exercise plan for you yet.</p>
           } @else {
@@ -40,7 +48,11 @@ import { PlansApi } from '../plans-api';
       </mat-card-content>
       @if (plan()) {
         <mat-card-actions align="end">
-          <a mat-flat-button routerLink="/portal/plan">Open today's session</a>
+          @if (doneToday()) {
+            <a mat-stroked-button routerLink="/portal/plan">Open my plan</a>
+          } @else {
+            <a mat-flat-button routerLink="/portal/plan">Open today's session</a>
+          }
         </mat-card-actions>
       }
     </mat-card>
@@ -62,7 +74,8 @@ import { PlansApi } from '../plans-api';
     p {
       margin: 0 0 4px;
     }
-    .pending {
+    .pending,
+    .done {
       display: flex;
       align-items: center;
       gap: 6px;
@@ -76,4 +89,12 @@ export class PortalPlanCard {
   readonly athleteId = input.required<number>();
   protected readonly plans = rxResource({ params: () => this.athleteId(), stream: ({ params }) => this.api.plansOf(params) });
   protected readonly plan = computed(() => (this.plans.hasValue() ? runningPlan(this.plans.value()) : null));
+  private readonly logs = rxResource({ params: () => this.plan()?.id, stream: ({ params }) => this.api.logs(params) });
+  private readonly today = toIsoDate(new Date())!;
+  /** Whether today's session is logged (sent, or waiting on this phone). */
+  protected readonly doneToday = computed(() => {
+    const id = this.plan()?.id;
+    const rows = historyRows(this.logs.hasValue() ? this.logs.value() : [], this.outbox.items().filter((i) => i.planId === id), []);
+    return sessionLoggedOn(rows, this.today) !== null;
+  });
 }

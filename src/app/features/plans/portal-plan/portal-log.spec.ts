@@ -1,6 +1,6 @@
 import type { LogEntry, PlanStage } from '../../../../contracts/plans';
 import { logItem, morningItem, refuse } from '../log-outbox-queue';
-import { entriesForMorning, historyRows } from './portal-log';
+import { entriesForMorning, historyRows, sessionLoggedOn } from './portal-log';
 
 const sent = (key: string, date: string, morningPain: number | null = null): LogEntry => ({
   id: 1, planId: 5, stageId: 3, stageName: 'Holds', key, date, painDuring: 2, morningPain, morningAt: null, sets: [], note: null, reviewNote: null, createdAt: '',
@@ -22,5 +22,15 @@ describe('portal log', () => {
     const entries = entriesForMorning([sent('c', '2026-12-08')], outbox);
     expect(entries.map((e) => [e.key, e.morningPain])).toEqual([['a', null], ['c', 1]]);
     expect(historyRows([sent('c', '2026-12-08')], outbox, [stage]).find((r) => r.key === 'c')).toMatchObject({ kind: 'sent', morningPending: 1 });
+  });
+
+  it('finds the session logged for a day, sent or still waiting, but not one the server refused', () => {
+    const today = '2026-12-09';
+    const waiting = historyRows([sent('d', '2026-12-08')], [logItem(5, body('a', today), 0)], [stage]);
+    expect(sessionLoggedOn(waiting, today)).toMatchObject({ key: 'a', kind: 'waiting' });
+    expect(sessionLoggedOn(historyRows([sent('c', today)], [], [stage]), today)).toMatchObject({ key: 'c', kind: 'sent' });
+    const refused = historyRows([], refuse([logItem(5, body('b', today), 0)], 'b', 'Stage moved on'), [stage]);
+    expect(sessionLoggedOn(refused, today)).toBeNull();
+    expect(sessionLoggedOn(historyRows([sent('d', '2026-12-08')], [], [stage]), today)).toBeNull();
   });
 });

@@ -55,3 +55,11 @@ export function entriesForMorning(logs: readonly LogEntry[], outbox: readonly Ou
     .filter((x): x is LogEntry => x !== null);
   return [...waiting, ...sent];
 }
+
+/**
+ * The session logged for `day` — sent, or saved on the phone and waiting to send (not one the
+ * server refused) — newest first, or null: what makes the portal say "Done for today".
+ */
+export function sessionLoggedOn(rows: readonly HistoryRow[], day: string): HistoryRow | null {
+  return rows.find((r) => r.kind !== 'refused' && (r.kind === 'sent' ? r.entry.date : r.date) === day) ?? null;
+}

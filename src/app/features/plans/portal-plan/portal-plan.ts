@@ -26,7 +26,7 @@ import { retargetLog } from '../log-outbox-queue';
 import { PlanCaution } from '../plan-caution/plan-caution';
 import { morningCheckDue, newLogKey, runningPlan } from '../plan-words';
 import { PlansApi } from '../plans-api';
-import { entriesForMorning, historyRows } from './portal-log';
+import { entriesForMorning, historyRows, sessionLoggedOn } from './portal-log';
 
 const PAIN_SCALE = Array.from({ length: 11 }, (_, i) => i);
 
@@ -101,6 +101,10 @@ export class PortalPlan implements LeaveGuarded {
     return this.outbox.items().filter((i) => i.planId === id);
   });
   protected readonly history = computed(() => historyRows(this.logs.hasValue() ? this.logs.value() : [], this.planItems(), this.detail()?.stages ?? []));
+  /** Today's session once saved (sent or waiting on the phone): the page says it is done. */
+  protected readonly doneToday = computed(() => sessionLoggedOn(this.history(), this.today()));
+  /** Whether the athlete chose to log another session (an earlier day, or a second one) anyway. */
+  protected readonly logAnother = signal(false);
   protected readonly morningDue = computed(() => morningCheckDue(entriesForMorning(this.logs.hasValue() ? this.logs.value() : [], this.planItems()), this.today()));
   protected readonly waiting = computed(() => this.planItems().filter((i) => !i.refused));
   protected readonly refusedMorning = computed(() => this.planItems().filter((i) => i.refused && i.kind === 'morning'));
@@ -192,6 +196,7 @@ export class PortalPlan implements LeaveGuarded {
     this.form.reset({ date: parseIsoDate(this.today()), painDuring: null, note: '' });
     this.pain.set(null);
     this.tried.set(false);
+    this.logAnother.set(false);
     this.ticks.set(Object.fromEntries(stage.exercises.map((e) => [e.id, Array<boolean>(e.dose.sets).fill(false)])));
     this.snackBar.open(navigator.onLine === false ? 'Session saved on this phone; it is sent when you are back online' : 'Session saved', 'OK', { duration: 4000 });
   }

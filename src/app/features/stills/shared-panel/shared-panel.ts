@@ -1,5 +1,5 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, output, signal } from '@angular/core';
 import { rxResource, takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
@@ -10,10 +10,12 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { Observable, filter, firstValueFrom, forkJoin, switchMap } from 'rxjs';
+import type { AthleteSummary } from '../../../../contracts/api';
 import { CAPTION_MAX, type Still, type VisitSummary } from '../../../../contracts/sharing';
 import { errorMessage } from '../../../core/api-error';
 import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../../shared/states/empty-state';
+import { InvitePrompt } from '../../athletes/invite-prompt/invite-prompt';
 import { CAUTION_LINE } from '../../compare/compare-logic';
 import { ErrorState } from '../../../shared/states/error-state';
 import { POLL_MS, anyRendering, downloadUrl, panelText, progressPercent, publishButton, publishConfirmText, stillAlt, stillSrc, summaryStateText, textCount } from '../sharing-logic';
@@ -37,7 +39,7 @@ interface CaptionEdit {
  */
 @Component({
   selector: 'app-shared-panel',
-  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatTooltipModule, EmptyState, ErrorState],
+  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatTooltipModule, EmptyState, ErrorState, InvitePrompt],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './shared-panel.html',
   styleUrl: './shared-panel.scss',
@@ -51,6 +53,11 @@ export class SharedPanel {
   readonly athleteId = input.required<number>();
   /** For the publish confirmation ("Ada Kestrel will see…"). */
   readonly athleteName = input('');
+  /** The athlete, when the page has them: without an account, publishing prompts an invitation. */
+  readonly athlete = input<AthleteSummary | null>(null);
+  /** Emits after an invitation went out from the prompt (the page reloads the athlete). */
+  readonly invited = output<void>();
+  private readonly hasAccount = computed(() => this.athlete()?.hasAccount ?? true);
 
   protected readonly stills = rxResource({ params: () => this.athleteId(), stream: ({ params }) => this.api.stillsOf(params) });
   protected readonly summaries = rxResource({ params: () => this.athleteId(), stream: ({ params }) => this.api.summariesOf(params) });
@@ -152,7 +159,7 @@ export class SharedPanel {
   protected async togglePublishStill(still: Still): Promise<void> {
     const button = publishButton(still);
     if (button.disabled) return;
-    if (button.action === 'publish' && !(await this.confirm(publishConfirmText('still', this.athleteName())))) return;
+    if (button.action === 'publish' && !(await this.confirm(publishConfirmText('still', this.athleteName(), this.hasAccount())))) return;
     const saved = await this.track(`still-${still.id}`, this.api.publishStill(still.id, button.action === 'publish'));
     if (!saved) return;
     this.replaceStill(saved);
@@ -239,7 +246,7 @@ export class SharedPanel {
   protected async togglePublishSummary(summary: VisitSummary): Promise<void> {
     const button = publishButton(summary);
     if (button.disabled) return;
-    if (button.action === 'publish' && !(await this.confirm(publishConfirmText('summary', this.athleteName())))) return;
+    if (button.action === 'publish' && !(await this.confirm(publishConfirmText('summary', this.athleteName(), this.hasAccount())))) return;
     const saved = await this.track(`summary-${summary.id}`, this.api.publishSummary(summary.id, button.action === 'publish'));
     if (!saved) return;
     this.replaceSummary(saved);

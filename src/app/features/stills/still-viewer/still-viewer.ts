@@ -4,6 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialog, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import type { Still } from '../../../../contracts/sharing';
+import { CautionNote } from '../../../shared/caution-note/caution-note';
 import { SHARED_CAUTION, panelText, positionText, stepIndex, stillAlt, stillSrc, swipeStep } from '../sharing-logic';
 
 export interface StillViewerData {
@@ -18,7 +19,7 @@ export interface StillViewerData {
  */
 @Component({
   selector: 'app-still-viewer',
-  imports: [DatePipe, MatDialogModule, MatButtonModule, MatIconModule],
+  imports: [DatePipe, MatDialogModule, MatButtonModule, MatIconModule, CautionNote],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './still-viewer.html',
   styleUrl: './still-viewer.scss',

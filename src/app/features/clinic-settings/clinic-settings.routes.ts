@@ -1,0 +1,10 @@
+import { Routes } from '@angular/router';
+
+/** `/settings/clinic` (owner): the clinic's details. */
+export default [
+  {
+    path: '',
+    title: 'Clinic details · Trailframe',
+    loadComponent: () => import('./clinic-details-page/clinic-details-page').then((m) => m.ClinicDetailsPage),
+  },
+] satisfies Routes;
