@@ -182,8 +182,8 @@ const ROUTES: RouteCase[] = [
   { method: 'post', pattern: '/api/invoices/:id/refund', path: () => `/api/invoices/${bc.paidInvoiceId}/refund`, before: () => paidInvoice(), expect: ownerOnly(200) },
   { method: 'post', pattern: '/api/invoices/:id/checkout', path: () => `/api/invoices/${bc.openInvoiceId}/checkout`, expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 } },
   { method: 'post', pattern: '/api/invoices/:id/checkout', path: () => `/api/invoices/${bc.otherAthleteInvoiceId}/checkout`, expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 } },
-  { method: 'get', pattern: '/api/clinic/legal-details', path: () => '/api/clinic/legal-details', expect: ownerOnly(200) },
-  { method: 'put', pattern: '/api/clinic/legal-details', path: () => '/api/clinic/legal-details', body: () => ({ legalName: 'Walk Clinic Ltd', address: '1 Walk Lane\nWalktown', taxNumber: 'WK 123', contactLine: 'walk@clinic.test' }), expect: ownerOnly(200) },
+  { method: 'get', pattern: '/api/clinic/legal-details', path: () => '/api/clinic/legal-details', expect: ownerOnly(200, 200) },
+  { method: 'put', pattern: '/api/clinic/legal-details', path: () => '/api/clinic/legal-details', body: () => ({ legalName: 'Walk Clinic Ltd', address: '1 Walk Lane\nWalktown', taxNumber: 'WK 123', contactLine: 'walk@clinic.test' }), expect: ownerOnly(200, 200) },
   { method: 'get', pattern: '/api/invoices/:id/receipt', path: () => `/api/invoices/${bc.receiptInvoiceId}/receipt`, expect: billingSelf(200) },
   // Public but signature-checked: without a valid provider signature every caller gets 400 (and no CSRF 403).
   { method: 'post', pattern: '/api/billing/webhook', path: () => '/api/billing/webhook', body: () => ({ id: 'evt_walk', type: 'checkout.session.completed', data: { object: {} } }), expect: all(400) },

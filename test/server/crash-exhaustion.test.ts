@@ -5,6 +5,7 @@
  * brings it to `ready` with every frame, as counted by ffprobe -count_frames (outside reference).
  */
 import path from 'node:path';
+import { createDb } from '../../server/db/knex';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Client } from '../support/test-app';
 import { freePort, seededDir, serverProcess, type ServerProcess } from '../support/server-process';
@@ -44,6 +45,22 @@ async function waitFor(c: Client, clipId: number, what: string, done: (clip: { s
   }
 }
 
+/** Polls the job row until attempt `n` of the clip's extraction is running. */
+async function waitForAttempt(n: number, ms = 60_000): Promise<void> {
+  const t0 = Date.now();
+  const db = createDb(path.join(dir, 'db.sqlite'));
+  try {
+    for (;;) {
+      const row = (await db('jobs').where({ type: 'extract_clip' }).orderBy('id', 'desc').first()) as { status: string; attempts: number } | undefined;
+      if (row && row.status === 'running' && row.attempts === n) return;
+      if (Date.now() - t0 > ms) throw new Error(`waited for attempt ${n} of the extraction`);
+      await sleep(50);
+    }
+  } finally {
+    await db.destroy();
+  }
+}
+
 describe('kill -9 during every attempt of one extraction', () => {
   it('the clip ends failed with a reason after the third kill, and Retry brings it to ready', async () => {
     const clipFile = await makeClip(path.join(dir, 'long.mp4'), { fps: 120, width: 1280, height: 720, seconds: 6 });
@@ -61,6 +78,9 @@ describe('kill -9 during every attempt of one extraction', () => {
         await server.start();
         c = await signedInClient();
       }
+      // The restarted server claims the job again only once the killed attempt's lease ran out:
+      // wait for attempt number `kill` to be running, not for the clip's progress of an earlier one.
+      await waitForAttempt(kill);
       await waitFor(c, clipId, `extraction (attempt ${kill})`, (clip) => {
         if (clip.status === 'ready' || clip.status === 'failed') throw new Error(`clip ended ${clip.status} before kill ${kill}`);
         return clip.status === 'extracting' && (clip.progress?.done ?? 0) > 0;

@@ -53,6 +53,7 @@ export function serverProcess(dir: string, port: number, env: Record<string, str
           UPLOADS_DIR: path.join(dir, 'uploads'),
           CLIENT_DIR: '',
           FAKE_SMTP_PORT: '0',
+          DEMO_INBOX_PORT: '0',
           LOG_LEVEL: 'warn',
           JOB_LEASE_SECONDS: '2',
           ...env,
