@@ -13,7 +13,10 @@ export async function up(knex: Knex): Promise<void> {
     t.text('refund_note').nullable();
     t.integer('payment_recorded_by').nullable().references('users.id').onDelete('SET NULL');
   });
-  await knex('invoices').whereNotNull('payment_intent_id').whereNotNull('paid_at').update({ payment_method: 'card', paid_on: knex.raw('substr(paid_at, 1, 10)') });
+  await knex('invoices')
+    .whereNotNull('payment_intent_id')
+    .whereNotNull('paid_at')
+    .update({ payment_method: 'card', paid_on: knex.raw('substr(paid_at, 1, 10)') });
 }
 
 export async function down(knex: Knex): Promise<void> {

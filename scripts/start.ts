@@ -25,7 +25,9 @@ function newestMtime(dir: string): number {
 function buildIfStale(clientDir: string): void {
   const index = path.join(clientDir, 'index.html');
   const inputs = ['src', 'public', 'angular.json', 'package-lock.json'].map((p) => path.join(root, p));
-  const newestInput = Math.max(...inputs.filter(fs.existsSync).map((p) => (fs.statSync(p).isDirectory() ? newestMtime(p) : fs.statSync(p).mtimeMs)));
+  const newestInput = Math.max(
+    ...inputs.filter(fs.existsSync).map((p) => (fs.statSync(p).isDirectory() ? newestMtime(p) : fs.statSync(p).mtimeMs)),
+  );
   if (fs.existsSync(index) && fs.statSync(index).mtimeMs >= newestInput) {
     console.log('[start] app build is up to date');
     return;
@@ -42,7 +44,9 @@ async function main(): Promise<void> {
   const config = loadConfig();
   const db = createDb(config.dbFile);
   const applied = await migrate(db);
-  console.log(`[start] database ${path.relative(root, config.dbFile)}: ${applied.length ? `applied ${applied.length} migration(s)` : 'up to date'}`);
+  console.log(
+    `[start] database ${path.relative(root, config.dbFile)}: ${applied.length ? `applied ${applied.length} migration(s)` : 'up to date'}`,
+  );
   if (config.demoMode) {
     const seeded = await seed(db, { uploadsDir: config.uploadsDir, log: (m) => console.log(`[start] ${m}`) });
     console.log(seeded ? '[start] demo scenario seeded' : '[start] demo data already present (not seeded again)');
@@ -60,7 +64,12 @@ async function main(): Promise<void> {
 
   const url = `http://localhost:${config.port}`;
   for (let i = 0; ; i++) {
-    if (await fetch(`${url}/api/health`).then((r) => r.ok).catch(() => false)) break;
+    if (
+      await fetch(`${url}/api/health`)
+        .then((r) => r.ok)
+        .catch(() => false)
+    )
+      break;
     if (i > 300) {
       console.error('[start] the server did not answer within a minute');
       server.kill('SIGTERM');
@@ -74,7 +83,11 @@ async function main(): Promise<void> {
     for (const s of DEMO_SIGN_INS) lines.push(`  ${s.role.padEnd(8)} ${s.email.padEnd(32)} ${s.password}`);
     if (config.demoInboxPort !== null) {
       const inbox = config.demoInboxPort ? `http://127.0.0.1:${config.demoInboxPort}` : 'the address the server printed above';
-      lines.push('', `Demo inbox (every e-mail the demo sends: invitations, reset links): ${inbox}`, '  It opens only on this machine and is not part of the app.');
+      lines.push(
+        '',
+        `Demo inbox (every e-mail the demo sends: invitations, reset links): ${inbox}`,
+        '  It opens only on this machine and is not part of the app.',
+      );
     }
     if (config.fakePaymentsPort !== null) lines.push('Card payments go to a local fake payment service (no real money moves).');
   }

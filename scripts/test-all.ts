@@ -42,7 +42,10 @@ function run(step: Step): Promise<{ code: number; output: string }> {
 /** Reads vitest's "Tests  3 failed | 40 passed (43)" line. */
 export function vitestCounts(output: string): { passed: number; failed: number } | null {
   const plain = output.replace(/\x1b\[[0-9;]*m/g, '');
-  const line = plain.split('\n').reverse().find((l) => /^\s*Tests\s+\d/.test(l));
+  const line = plain
+    .split('\n')
+    .reverse()
+    .find((l) => /^\s*Tests\s+\d/.test(l));
   if (!line) return null;
   const n = (word: string) => Number(new RegExp(`(\\d+) ${word}`).exec(line)?.[1] ?? 0);
   return { passed: n('passed'), failed: n('failed') };

@@ -12,7 +12,14 @@ import type { Dose, ExerciseWrite } from '../src/contracts/plans';
 /** A library exercise as the API takes it, with its source always given. */
 export type DemoExercise = Required<ExerciseWrite>;
 
-const dose = (d: Partial<Dose> & Pick<Dose, 'sets' | 'daysPerWeek'>): Dose => ({ reps: null, holdSeconds: null, tempo: null, load: null, restSeconds: null, ...d });
+const dose = (d: Partial<Dose> & Pick<Dose, 'sets' | 'daysPerWeek'>): Dose => ({
+  reps: null,
+  holdSeconds: null,
+  tempo: null,
+  load: null,
+  restSeconds: null,
+  ...d,
+});
 
 const FROM_MEMORY = 'Quoted from memory; check before clinical use.';
 
@@ -25,7 +32,8 @@ const SOURCES = {
   rio: `Rio et al. 2015, Br J Sports Med 49:1277–1283 (isometric holds eased tendon pain in the short term; the study loaded the knee extensors, applied here to the calf). ${FROM_MEMORY}`,
   alfredson: `Alfredson et al. 1998, Am J Sports Med 26:360–366 (eccentric calf loading for mid-portion Achilles tendinopathy, 3 × 15 twice daily for 12 weeks). ${FROM_MEMORY}`,
   beyer: `Beyer et al. 2015, Am J Sports Med 43:1704–1711 (heavy slow resistance for mid-portion Achilles tendinopathy). ${FROM_MEMORY}`,
-  stepRate: 'Heiderscheit et al. 2011, Med Sci Sports Exerc 43(2):296–302 (a step rate 5–10 % above preferred lowered knee and hip loading).',
+  stepRate:
+    'Heiderscheit et al. 2011, Med Sci Sports Exerc 43(2):296–302 (a step rate 5–10 % above preferred lowered knee and hip loading).',
   crossley: `Crossley et al. 2016, Br J Sports Med 50:839–843 (patellofemoral pain consensus: combined hip and knee exercise; this is one common example). ${FROM_MEMORY}`,
   heiderscheit2010: `Heiderscheit et al. 2010, J Orthop Sports Phys Ther 40(2):67–81 (criteria-based progression back to running after hamstring strain). ${FROM_MEMORY}`,
 } as const;
@@ -34,7 +42,8 @@ export const DEMO_EXERCISES: DemoExercise[] = [
   // ─── Proximal hamstring tendinopathy (Goom et al. 2016) ───────────────────────────────────
   {
     name: 'Bent-knee bridge hold',
-    purpose: 'Steady hamstring and buttock work with the hip only a little bent, so the tendon takes load without being pressed against the bone.',
+    purpose:
+      'Steady hamstring and buttock work with the hip only a little bent, so the tendon takes load without being pressed against the bone.',
     region: 'hamstring',
     kind: 'isometric',
     dose: dose({ sets: 5, holdSeconds: 30, load: 'Body weight', restSeconds: 60, daysPerWeek: 4 }),
@@ -45,12 +54,14 @@ export const DEMO_EXERCISES: DemoExercise[] = [
       'Come down slowly and rest before the next hold.',
       'To progress: hold on one leg with the other foot lifted, then place the feet a little further from the hips.',
     ],
-    cautions: 'Pain during the holds should stay within the plan’s limit and ease by the next morning. If the pain sits high in the back of the thigh, raise the hips a little less.',
+    cautions:
+      'Pain during the holds should stay within the plan’s limit and ease by the next morning. If the pain sits high in the back of the thigh, raise the hips a little less.',
     source: SOURCES.goom,
   },
   {
     name: 'Prone hamstring hold',
-    purpose: 'Loads the hamstring with the hip straight, where the tendon is under little compression — a way in while bridges are still sore.',
+    purpose:
+      'Loads the hamstring with the hip straight, where the tendon is under little compression — a way in while bridges are still sore.',
     region: 'hamstring',
     kind: 'isometric',
     dose: dose({ sets: 4, holdSeconds: 30, load: 'Light band', restSeconds: 60, daysPerWeek: 3 }),
@@ -68,7 +79,14 @@ export const DEMO_EXERCISES: DemoExercise[] = [
     purpose: 'Strengthens hamstrings and buttocks through a hip hinge whose depth grows over the weeks.',
     region: 'hamstring',
     kind: 'isotonic',
-    dose: dose({ sets: 3, reps: 8, tempo: '3 s down, 2 s up', load: 'Moderate: 2–3 reps left in reserve', restSeconds: 120, daysPerWeek: 3 }),
+    dose: dose({
+      sets: 3,
+      reps: 8,
+      tempo: '3 s down, 2 s up',
+      load: 'Moderate: 2–3 reps left in reserve',
+      restSeconds: 120,
+      daysPerWeek: 3,
+    }),
     instructions: [
       'Set-up: stand with feet hip-width apart, knees softly bent, a weight in each hand resting against the front of the thighs.',
       'Push the hips backwards so the weights slide down the front of the legs; keep the spine long and the knees at the same small bend.',
@@ -84,14 +102,22 @@ export const DEMO_EXERCISES: DemoExercise[] = [
     purpose: 'Strong hip extension work for the buttocks and hamstrings with the hip moving through a mid range.',
     region: 'hip',
     kind: 'isotonic',
-    dose: dose({ sets: 3, reps: 10, tempo: '2 s up, 1 s pause, 2 s down', load: 'Body weight, then a loaded bar', restSeconds: 90, daysPerWeek: 3 }),
+    dose: dose({
+      sets: 3,
+      reps: 10,
+      tempo: '2 s up, 1 s pause, 2 s down',
+      load: 'Body weight, then a loaded bar',
+      restSeconds: 90,
+      daysPerWeek: 3,
+    }),
     instructions: [
       'Set-up: sit on the floor with your shoulder blades against the edge of a bench, knees bent, feet flat; a padded weight across the hips once body weight is easy.',
       'Tuck the chin and push through the heels to lift the hips until thighs and trunk are level.',
       'Pause at the top, then lower under control until the hips almost touch the floor.',
       'To progress: add weight, then work one leg at a time, then move the feet further out to give the hamstrings more of the work.',
     ],
-    cautions: 'Finish the lift with the hips, not by leaning the ribs back. Ease off if the movement brings on pain high in the back of the thigh.',
+    cautions:
+      'Finish the lift with the hips, not by leaning the ribs back. Ease off if the movement brings on pain high in the back of the thigh.',
     source: SOURCES.goom,
   },
   {
@@ -107,7 +133,8 @@ export const DEMO_EXERCISES: DemoExercise[] = [
       'Walk back to the start as your rest.',
       'To progress: longer and higher skips, then bounding strides.',
     ],
-    cautions: 'Start only when the strength work is easy and the mornings after are quiet. End the set if the back of the thigh pulls on take-off.',
+    cautions:
+      'Start only when the strength work is easy and the mornings after are quiet. End the set if the back of the thigh pulls on take-off.',
     source: SOURCES.goom,
   },
 
@@ -221,7 +248,8 @@ export const DEMO_EXERCISES: DemoExercise[] = [
       'Push back up with the hands to the start.',
       'To progress: lower further before the catch, then add repetitions and sets over the weeks.',
     ],
-    cautions: 'Expect sore hamstrings for a day or two after the first sessions, so begin with few repetitions. After a strain, only once lengthening work is easy.',
+    cautions:
+      'Expect sore hamstrings for a day or two after the first sessions, so begin with few repetitions. After a strain, only once lengthening work is easy.',
     source: SOURCES.nordic,
   },
 
@@ -247,7 +275,14 @@ export const DEMO_EXERCISES: DemoExercise[] = [
     purpose: 'Slow lowering of the heel below the step, loading the calf and Achilles tendon through their full length.',
     region: 'calf_achilles',
     kind: 'eccentric',
-    dose: dose({ sets: 3, reps: 15, tempo: '3 s down, other leg lifts', load: 'Body weight, then a backpack', restSeconds: 60, daysPerWeek: 7 }),
+    dose: dose({
+      sets: 3,
+      reps: 15,
+      tempo: '3 s down, other leg lifts',
+      load: 'Body weight, then a backpack',
+      restSeconds: 60,
+      daysPerWeek: 7,
+    }),
     instructions: [
       'Set-up: stand on the ball of the painful-side foot on the edge of a step, heel free, knee straight, a hand on a rail.',
       'Start at the top (use the other leg to rise).',
@@ -263,7 +298,14 @@ export const DEMO_EXERCISES: DemoExercise[] = [
     purpose: 'The same slow lowering with the knee bent, so the deep calf muscle takes more of the load.',
     region: 'calf_achilles',
     kind: 'eccentric',
-    dose: dose({ sets: 3, reps: 15, tempo: '3 s down, other leg lifts', load: 'Body weight, then a backpack', restSeconds: 60, daysPerWeek: 7 }),
+    dose: dose({
+      sets: 3,
+      reps: 15,
+      tempo: '3 s down, other leg lifts',
+      load: 'Body weight, then a backpack',
+      restSeconds: 60,
+      daysPerWeek: 7,
+    }),
     instructions: [
       'Set-up: as for the straight-knee drop, but bend the knee a little and keep that bend all the way down.',
       'Lower the heel below the step over about three seconds.',
@@ -278,14 +320,22 @@ export const DEMO_EXERCISES: DemoExercise[] = [
     purpose: 'Slow, heavy raises and lowering that build calf and tendon strength, getting heavier as the repetitions fall.',
     region: 'calf_achilles',
     kind: 'isotonic',
-    dose: dose({ sets: 3, reps: 15, tempo: '3 s up, 3 s down', load: '15-rep maximum, heavier as reps fall', restSeconds: 120, daysPerWeek: 3 }),
+    dose: dose({
+      sets: 3,
+      reps: 15,
+      tempo: '3 s up, 3 s down',
+      load: '15-rep maximum, heavier as reps fall',
+      restSeconds: 120,
+      daysPerWeek: 3,
+    }),
     instructions: [
       'Set-up: a seated calf-raise machine, or sit with a heavy weight across the knees and the balls of the feet on a block.',
       'Rise onto the balls of the feet over three seconds.',
       'Lower over three seconds to a full heel drop.',
       'To progress: over the weeks, go from 15 repetitions to 6 and add load each time the number falls, with a fourth and fifth set later.',
     ],
-    cautions: 'Pain may reach the plan’s limit during a set but should settle by the next morning; if it does not, keep the load the same next time.',
+    cautions:
+      'Pain may reach the plan’s limit during a set but should settle by the next morning; if it does not, keep the load the same next time.',
     source: SOURCES.beyer,
   },
 
@@ -339,7 +389,8 @@ export const DEMO_EXERCISES: DemoExercise[] = [
   // ─── Back to running after hamstring strain (Heiderscheit et al. 2010) ────────────────────
   {
     name: 'Walk-jog return intervals',
-    purpose: 'Brings running back in small steps — jog, steady running, then faster strides — once walking, lengthening work and agility are pain-free.',
+    purpose:
+      'Brings running back in small steps — jog, steady running, then faster strides — once walking, lengthening work and agility are pain-free.',
     region: 'whole_leg',
     kind: 'running_drill',
     dose: dose({ sets: 1, reps: 5, tempo: '4 min jog, 1 min walk', daysPerWeek: 3 }),
@@ -349,7 +400,8 @@ export const DEMO_EXERCISES: DemoExercise[] = [
       'Change one thing at a time, and only after a pain-free session and a quiet next morning: a longer jog, or a higher pace.',
       'To progress: add a few 60–80 m accelerations at about three-quarter pace, then near full pace, before any sprinting or racing.',
     ],
-    cautions: 'Pain or tightness in the back of the thigh means going back one step. Full pace, hills and racing wait for the clinician’s go-ahead.',
+    cautions:
+      'Pain or tightness in the back of the thigh means going back one step. Full pace, hills and racing wait for the clinician’s go-ahead.',
     source: SOURCES.heiderscheit2010,
   },
 ];

@@ -20,7 +20,10 @@ const ACHILLES_PLAN = {
       goal: 'Ease tendon pain with heavy, steady holds and keep the calf loaded every day.',
       targetWeeks: 2,
       progressionText: 'Move on once the holds feel steady and the tendon is no stiffer the next morning.',
-      criteria: [{ kind: 'pain_during_at_most', max: 3, sessions: 3 }, { kind: 'settled_by_morning', sessions: 3 }] as ProgressionCriterion[],
+      criteria: [
+        { kind: 'pain_during_at_most', max: 3, sessions: 3 },
+        { kind: 'settled_by_morning', sessions: 3 },
+      ] as ProgressionCriterion[],
       exercises: ['Isometric calf hold', 'Side-lying hip abduction'],
     },
     {
@@ -28,7 +31,10 @@ const ACHILLES_PLAN = {
       goal: 'Build calf and tendon strength with slow, heavy raises and lowering.',
       targetWeeks: 6,
       progressionText: 'Move on when every set is done on three sessions in a row and at least four weeks have passed.',
-      criteria: [{ kind: 'all_sets_done', sessions: 3 }, { kind: 'weeks_in_stage', weeks: 4 }] as ProgressionCriterion[],
+      criteria: [
+        { kind: 'all_sets_done', sessions: 3 },
+        { kind: 'weeks_in_stage', weeks: 4 },
+      ] as ProgressionCriterion[],
       exercises: ['Heavy slow calf raise', 'Heel drop from a step, straight knee', 'Heel drop from a step, bent knee'],
     },
     {
@@ -77,14 +83,22 @@ export async function seedDemoPlans(trx: Knex, clinicId: number, coachId: number
     ids.set(e.name, (row as { id: number }).id);
   }
 
-  const carys = await trx('athletes').where({ clinic_id: clinicId, last_name: 'Holmgren' }).first<{ id: number; coach_id: number } | undefined>();
+  const carys = await trx('athletes')
+    .where({ clinic_id: clinicId, last_name: 'Holmgren' })
+    .first<{ id: number; coach_id: number } | undefined>();
   if (!carys) return;
   const today = dayOf(now);
   const started = addDays(weekStart(today), -14);
   // A calm week (pain during 2, 2, 2), then a harder one (3, 3, 4): the weekly mean of pain
   // during rises 2 → 3.3, inside the 5/10 limit; today's session is the first of this week.
   await insertRunningPlan(trx, {
-    clinicId, athlete: carys, ids, plan: ACHILLES_PLAN, assessmentId: null, at, keyPrefix: 'demo-seed-achilles',
+    clinicId,
+    athlete: carys,
+    ids,
+    plan: ACHILLES_PLAN,
+    assessmentId: null,
+    at,
+    keyPrefix: 'demo-seed-achilles',
     stageStarts: [started],
     sessions: [
       { date: addDays(started, 0), during: 2, morning: 1, done: 5 },
@@ -108,7 +122,10 @@ const HAMSTRING_PLAN = {
       goal: 'Load the healing hamstring with steady holds, and get hips and trunk moving together at low speed.',
       targetWeeks: 3,
       progressionText: 'Move on once holds and drills cause no more than mild pain that has settled by the next morning.',
-      criteria: [{ kind: 'pain_during_at_most', max: 3, sessions: 3 }, { kind: 'settled_by_morning', sessions: 3 }] as ProgressionCriterion[],
+      criteria: [
+        { kind: 'pain_during_at_most', max: 3, sessions: 3 },
+        { kind: 'settled_by_morning', sessions: 3 },
+      ] as ProgressionCriterion[],
       exercises: ['Bent-knee bridge hold', 'Side-step and grapevine', 'Rotating body bridge'],
     },
     {
@@ -116,7 +133,10 @@ const HAMSTRING_PLAN = {
       goal: 'Strength at long hamstring lengths, growing in range and then in speed, with balance on one leg.',
       targetWeeks: 4,
       progressionText: 'Move on when every set is done with control on three sessions in a row and mornings stay settled.',
-      criteria: [{ kind: 'all_sets_done', sessions: 3 }, { kind: 'settled_by_morning', sessions: 3 }] as ProgressionCriterion[],
+      criteria: [
+        { kind: 'all_sets_done', sessions: 3 },
+        { kind: 'settled_by_morning', sessions: 3 },
+      ] as ProgressionCriterion[],
       exercises: ['Hip-flexed knee extension', 'Single-leg forward tilt with reach', 'Gliding split'],
     },
     {
@@ -136,14 +156,26 @@ const HAMSTRING_PLAN = {
  * linked to her Re-test. Only with the rendered demo clips (`npm start`), so tests that build her
  * a plan start from none.
  */
-export async function seedDemoHamstringPlan(trx: Knex, clinicId: number, athlete: { id: number; coach_id: number }, assessmentId: number | null, now = new Date()): Promise<void> {
+export async function seedDemoHamstringPlan(
+  trx: Knex,
+  clinicId: number,
+  athlete: { id: number; coach_id: number },
+  assessmentId: number | null,
+  now = new Date(),
+): Promise<void> {
   const rows = await trx('exercises').where({ clinic_id: clinicId }).select<{ id: number; name: string }[]>('id', 'name');
   const ids = new Map(rows.map((r) => [r.name, r.id]));
   const today = dayOf(now);
   const stage1 = addDays(weekStart(today), -28);
   const stage2 = addDays(weekStart(today), -7);
   await insertRunningPlan(trx, {
-    clinicId, athlete, ids, plan: HAMSTRING_PLAN, assessmentId, at: now.toISOString(), keyPrefix: 'demo-seed-hamstring',
+    clinicId,
+    athlete,
+    ids,
+    plan: HAMSTRING_PLAN,
+    assessmentId,
+    at: now.toISOString(),
+    keyPrefix: 'demo-seed-hamstring',
     stageStarts: [stage1, stage2],
     sessions: [
       { date: addDays(stage1, 0), during: 3, morning: 2, done: 3, stage: 0 },
@@ -180,7 +212,17 @@ interface DemoSession {
  */
 async function insertRunningPlan(
   trx: Knex,
-  p: { clinicId: number; athlete: { id: number; coach_id: number }; ids: Map<string, number>; plan: typeof ACHILLES_PLAN; assessmentId: number | null; at: string; keyPrefix: string; stageStarts: string[]; sessions: DemoSession[] },
+  p: {
+    clinicId: number;
+    athlete: { id: number; coach_id: number };
+    ids: Map<string, number>;
+    plan: typeof ACHILLES_PLAN;
+    assessmentId: number | null;
+    at: string;
+    keyPrefix: string;
+    stageStarts: string[];
+    sessions: DemoSession[];
+  },
 ): Promise<void> {
   const { clinicId, athlete, at } = p;
   const startedAt = `${p.stageStarts[0]}T08:00:00.000Z`;
@@ -243,7 +285,9 @@ async function insertRunningPlan(
     }
     stages.push({ id: stageId, items });
   }
-  await trx('plans').where({ id: planId }).update({ current_stage_id: stages[p.stageStarts.length - 1]!.id });
+  await trx('plans')
+    .where({ id: planId })
+    .update({ current_stage_id: stages[p.stageStarts.length - 1]!.id });
   await trx('alert_rules').insert({
     plan_id: planId,
     clinic_id: clinicId,
@@ -267,7 +311,9 @@ async function insertRunningPlan(
       pain_during: s.during,
       morning_pain: s.morning,
       morning_at: s.morning === null ? null : `${addDays(s.date, 1)}T07:00:00.000Z`,
-      sets: JSON.stringify(stage.items.map((it) => ({ stageExerciseId: it.id, name: it.name, setsPrescribed: it.sets, setsDone: Math.min(it.sets, s.done) }))),
+      sets: JSON.stringify(
+        stage.items.map((it) => ({ stageExerciseId: it.id, name: it.name, setsPrescribed: it.sets, setsDone: Math.min(it.sets, s.done) })),
+      ),
       note: s.note ?? null,
       created_by: null,
       created_at: created > at ? at : created,

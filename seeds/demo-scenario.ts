@@ -51,50 +51,159 @@ interface DemoAthlete {
 
 const ATHLETES: DemoAthlete[] = [
   {
-    first: 'Ada', last: 'Kestrel', email: 'ada.kestrel@runner.test', dob: '1996-02-19', coach: 1,
-    heightCm: 166, unit: 'km', weeklyKm: 55, longestKm: 28, goalEvent: 'Quillmoor Ridge 42 km trail race', goalDate: '2027-06-05',
+    first: 'Ada',
+    last: 'Kestrel',
+    email: 'ada.kestrel@runner.test',
+    dob: '1996-02-19',
+    coach: 1,
+    heightCm: 166,
+    unit: 'km',
+    weeklyKm: 55,
+    longestKm: 28,
+    goalEvent: 'Quillmoor Ridge 42 km trail race',
+    goalDate: '2027-06-05',
     surfaces: ['trail', 'track'],
-    notes: 'Strained her right hamstring in a sprint finish in August. Easy running is comfortable again, but her push-off looks guarded. Check hip extension at toe-off.',
+    notes:
+      'Strained her right hamstring in a sprint finish in August. Easy running is comfortable again, but her push-off looks guarded. Check hip extension at toe-off.',
     injuries: [
-      { region: 'hamstring', side: 'right', began: '2026-08', status: 'recovering', notes: 'Outer hamstring strain in the downhill sprint finish of the Orrinsby Gorge 25 km; graded by her sports doctor' },
-      { region: 'shin', side: 'both', began: '2021-03', status: 'resolved', notes: 'Shin pain after doubling her weekly distance; settled with a slower build' },
+      {
+        region: 'hamstring',
+        side: 'right',
+        began: '2026-08',
+        status: 'recovering',
+        notes: 'Outer hamstring strain in the downhill sprint finish of the Orrinsby Gorge 25 km; graded by her sports doctor',
+      },
+      {
+        region: 'shin',
+        side: 'both',
+        began: '2021-03',
+        status: 'resolved',
+        notes: 'Shin pain after doubling her weekly distance; settled with a slower build',
+      },
     ],
     pain: [{ region: 'hamstring', score: 4 }],
-    consents: { video: true, stills: true }, hasAccount: true,
+    consents: { video: true, stills: true },
+    hasAccount: true,
   },
   {
-    first: 'Teodor', last: 'Brannick', email: 'teodor.brannick@runner.test', dob: '1984-05-27', coach: 1,
-    heightCm: 183, unit: 'mi', weeklyKm: 64.4, longestKm: 35.4, goalEvent: 'Fenwhistle Hills 50 km', goalDate: '2027-09-18',
-    surfaces: ['road', 'trail'], notes: 'Road runner moving to trails. Aching front of the right knee on long descents; lands with the foot well ahead of the body.',
-    injuries: [{ region: 'knee', side: 'right', began: '2026-06', status: 'active', notes: 'Front-of-knee ache after half an hour of downhill; stairs down hurt the next day' }],
+    first: 'Teodor',
+    last: 'Brannick',
+    email: 'teodor.brannick@runner.test',
+    dob: '1984-05-27',
+    coach: 1,
+    heightCm: 183,
+    unit: 'mi',
+    weeklyKm: 64.4,
+    longestKm: 35.4,
+    goalEvent: 'Fenwhistle Hills 50 km',
+    goalDate: '2027-09-18',
+    surfaces: ['road', 'trail'],
+    notes: 'Road runner moving to trails. Aching front of the right knee on long descents; lands with the foot well ahead of the body.',
+    injuries: [
+      {
+        region: 'knee',
+        side: 'right',
+        began: '2026-06',
+        status: 'active',
+        notes: 'Front-of-knee ache after half an hour of downhill; stairs down hurt the next day',
+      },
+    ],
     pain: [{ region: 'knee', score: 3 }],
-    consents: { video: true, stills: false }, hasAccount: false,
+    consents: { video: true, stills: false },
+    hasAccount: false,
   },
   {
-    first: 'Carys', last: 'Holmgren', email: 'carys.holmgren@runner.test', dob: '1994-06-21', coach: 2,
-    heightCm: 163, unit: 'km', weeklyKm: 30, longestKm: 12, goalEvent: 'Tarnwick Harbour 10 km', goalDate: '2027-03-14',
-    surfaces: ['road', 'treadmill'], notes: 'Achilles pain since she raised her weekly distance in the autumn; stiff for the first steps each morning. Building back with run-walk.',
-    injuries: [{ region: 'achilles', side: 'right', began: '2026-09', status: 'active', notes: 'Mid-portion pain and thickening, worse after hill sessions' }],
+    first: 'Carys',
+    last: 'Holmgren',
+    email: 'carys.holmgren@runner.test',
+    dob: '1994-06-21',
+    coach: 2,
+    heightCm: 163,
+    unit: 'km',
+    weeklyKm: 30,
+    longestKm: 12,
+    goalEvent: 'Tarnwick Harbour 10 km',
+    goalDate: '2027-03-14',
+    surfaces: ['road', 'treadmill'],
+    notes:
+      'Achilles pain since she raised her weekly distance in the autumn; stiff for the first steps each morning. Building back with run-walk.',
+    injuries: [
+      {
+        region: 'achilles',
+        side: 'right',
+        began: '2026-09',
+        status: 'active',
+        notes: 'Mid-portion pain and thickening, worse after hill sessions',
+      },
+    ],
     pain: [{ region: 'achilles', score: 2 }],
-    consents: { video: true, stills: true }, hasAccount: false,
+    consents: { video: true, stills: true },
+    hasAccount: false,
   },
   {
-    first: 'Dario', last: 'Vence', email: 'dario.vence@runner.test', dob: '2005-01-30', coach: 2,
-    heightCm: 176, unit: 'km', weeklyKm: 60, longestKm: 18, goalEvent: '1500 m track season', goalDate: '2027-05-22',
-    surfaces: ['track', 'grass'], notes: null, injuries: [], pain: [],
-    consents: { video: true, stills: true }, hasAccount: false,
+    first: 'Dario',
+    last: 'Vence',
+    email: 'dario.vence@runner.test',
+    dob: '2005-01-30',
+    coach: 2,
+    heightCm: 176,
+    unit: 'km',
+    weeklyKm: 60,
+    longestKm: 18,
+    goalEvent: '1500 m track season',
+    goalDate: '2027-05-22',
+    surfaces: ['track', 'grass'],
+    notes: null,
+    injuries: [],
+    pain: [],
+    consents: { video: true, stills: true },
+    hasAccount: false,
   },
   {
-    first: 'Efa', last: 'Lindqvist', email: 'efa.lindqvist@runner.test', dob: '1979-09-08', coach: 1,
-    heightCm: 171, unit: 'km', weeklyKm: 45, longestKm: 21, goalEvent: 'Half marathon', goalDate: null,
-    surfaces: ['treadmill', 'road'], notes: null,
-    injuries: [{ region: 'heel', side: 'left', began: '2023-03', status: 'resolved', notes: 'Plantar heel pain, settled with calf and foot strengthening' }],
-    pain: [], consents: null, hasAccount: false,
+    first: 'Efa',
+    last: 'Lindqvist',
+    email: 'efa.lindqvist@runner.test',
+    dob: '1979-09-08',
+    coach: 1,
+    heightCm: 171,
+    unit: 'km',
+    weeklyKm: 45,
+    longestKm: 21,
+    goalEvent: 'Half marathon',
+    goalDate: null,
+    surfaces: ['treadmill', 'road'],
+    notes: null,
+    injuries: [
+      {
+        region: 'heel',
+        side: 'left',
+        began: '2023-03',
+        status: 'resolved',
+        notes: 'Plantar heel pain, settled with calf and foot strengthening',
+      },
+    ],
+    pain: [],
+    consents: null,
+    hasAccount: false,
   },
   {
-    first: 'Farid', last: 'Osterman', email: null, dob: null, coach: 2,
-    heightCm: null, unit: 'km', weeklyKm: null, longestKm: null, goalEvent: null, goalDate: null,
-    surfaces: [], notes: 'New runner, first visit booked.', injuries: [], pain: [], consents: null, hasAccount: false,
+    first: 'Farid',
+    last: 'Osterman',
+    email: null,
+    dob: null,
+    coach: 2,
+    heightCm: null,
+    unit: 'km',
+    weeklyKm: null,
+    longestKm: null,
+    goalEvent: null,
+    goalDate: null,
+    surfaces: [],
+    notes: 'New runner, first visit booked.',
+    injuries: [],
+    pain: [],
+    consents: null,
+    hasAccount: false,
   },
 ];
 
@@ -112,18 +221,37 @@ interface DemoAssessment {
 
 const ASSESSMENTS: DemoAssessment[] = [
   {
-    athlete: 'Kestrel', date: '2026-10-06', kind: 'baseline', surface: 'treadmill', speedKmh: 10.8, inclinePercent: 1,
-    shoes: 'Trail shoe, 6 mm drop', cameraNotes: 'Phone on tripod, 3 m from belt, hip height, 120 fps',
-    notes: 'Seven weeks after the strain. Guarded push-off: the thigh hardly passes vertical at toe-off, and the foot lands well ahead of the hip.',
+    athlete: 'Kestrel',
+    date: '2026-10-06',
+    kind: 'baseline',
+    surface: 'treadmill',
+    speedKmh: 10.8,
+    inclinePercent: 1,
+    shoes: 'Trail shoe, 6 mm drop',
+    cameraNotes: 'Phone on tripod, 3 m from belt, hip height, 120 fps',
+    notes:
+      'Seven weeks after the strain. Guarded push-off: the thigh hardly passes vertical at toe-off, and the foot lands well ahead of the hip.',
   },
   {
-    athlete: 'Kestrel', date: '2026-11-24', kind: 'retest', surface: 'treadmill', speedKmh: 10.8, inclinePercent: 1,
-    shoes: 'Trail shoe, 6 mm drop', cameraNotes: 'Same set-up as baseline (tape marks on the floor)',
+    athlete: 'Kestrel',
+    date: '2026-11-24',
+    kind: 'retest',
+    surface: 'treadmill',
+    speedKmh: 10.8,
+    inclinePercent: 1,
+    shoes: 'Trail shoe, 6 mm drop',
+    cameraNotes: 'Same set-up as baseline (tape marks on the floor)',
     notes: 'After seven weeks of staged hamstring loading: holds and easy agility, then lengthening work.',
   },
   {
-    athlete: 'Brannick', date: '2026-11-17', kind: 'baseline', surface: 'treadmill', speedKmh: 11.5, inclinePercent: 0,
-    shoes: 'Road trainer, 10 mm drop', cameraNotes: 'Tripod, 4 m, 240 fps slow motion',
+    athlete: 'Brannick',
+    date: '2026-11-17',
+    kind: 'baseline',
+    surface: 'treadmill',
+    speedKmh: 11.5,
+    inclinePercent: 0,
+    shoes: 'Road trainer, 10 mm drop',
+    cameraNotes: 'Tripod, 4 m, 240 fps slow motion',
     notes: 'Knee ache after long descents. Check knee flexion and heel position at initial contact, and step rate.',
   },
 ];
@@ -142,12 +270,23 @@ export async function seed(knex: Knex, opts: SeedOptions = {}): Promise<boolean>
   const at = new Date().toISOString();
   const hashes = await Promise.all(DEMO_SIGN_INS.map((s) => hashPassword(s.password)));
   await knex.transaction(async (trx) => {
-    const [clinic] = await trx('clinics').insert({ name: DEMO_CLINIC_NAME, currency: 'EUR', distance_unit: 'km', created_at: at }).returning('id');
+    const [clinic] = await trx('clinics')
+      .insert({ name: DEMO_CLINIC_NAME, currency: 'EUR', distance_unit: 'km', created_at: at })
+      .returning('id');
     const clinicId = (clinic as { id: number }).id;
     const userIds: number[] = [];
     for (const [i, s] of DEMO_SIGN_INS.entries()) {
       const [u] = await trx('users')
-        .insert({ clinic_id: clinicId, email: s.email, name: s.name, role: s.role, password_hash: hashes[i], active: true, created_at: at, updated_at: at })
+        .insert({
+          clinic_id: clinicId,
+          email: s.email,
+          name: s.name,
+          role: s.role,
+          password_hash: hashes[i],
+          active: true,
+          created_at: at,
+          updated_at: at,
+        })
         .returning('id');
       userIds.push((u as { id: number }).id);
     }
@@ -180,16 +319,46 @@ export async function seed(knex: Knex, opts: SeedOptions = {}): Promise<boolean>
       }
       if (a.pain.length) {
         await trx('pain_entries').insert(
-          a.pain.map((p) => ({ clinic_id: clinicId, athlete_id: athleteId, region: p.region, score: p.score, current: true, source: 'intake', recorded_by: userIds[a.coach], recorded_at: at })),
+          a.pain.map((p) => ({
+            clinic_id: clinicId,
+            athlete_id: athleteId,
+            region: p.region,
+            score: p.score,
+            current: true,
+            source: 'intake',
+            recorded_by: userIds[a.coach],
+            recorded_at: at,
+          })),
         );
       }
       if (a.consents) {
         await trx('consents').insert([
-          { clinic_id: clinicId, athlete_id: athleteId, kind: 'video_recording', granted: a.consents.video, recorded_by: userIds[a.coach], recorded_at: at },
-          { clinic_id: clinicId, athlete_id: athleteId, kind: 'share_stills', granted: a.consents.stills, recorded_by: userIds[a.coach], recorded_at: at },
+          {
+            clinic_id: clinicId,
+            athlete_id: athleteId,
+            kind: 'video_recording',
+            granted: a.consents.video,
+            recorded_by: userIds[a.coach],
+            recorded_at: at,
+          },
+          {
+            clinic_id: clinicId,
+            athlete_id: athleteId,
+            kind: 'share_stills',
+            granted: a.consents.stills,
+            recorded_by: userIds[a.coach],
+            recorded_at: at,
+          },
         ]);
       }
-      await trx('audit_log').insert({ clinic_id: clinicId, actor_id: userIds[a.coach], athlete_id: athleteId, action: 'athlete.created', detail: JSON.stringify({ seed: true }), at });
+      await trx('audit_log').insert({
+        clinic_id: clinicId,
+        actor_id: userIds[a.coach],
+        athlete_id: athleteId,
+        action: 'athlete.created',
+        detail: JSON.stringify({ seed: true }),
+        at,
+      });
       for (const s of ASSESSMENTS.filter((x) => x.athlete === a.last)) {
         await trx('assessments').insert({
           clinic_id: clinicId,
@@ -278,7 +447,8 @@ async function seedDemoClips(knex: Knex, uploadsDir: string, log: (m: string) =>
         seeded.push({ clipId, visit: { id: visit.id, kind: visit.kind, date: visit.date }, truth });
       });
     }
-    if (seeded.length === 2) await seedDemoShares(knex, queue, { athleteId: ada.id, clinicId: ada.clinic_id, coachId: ada.coach_id, at }, seeded[0]!, seeded[1]!);
+    if (seeded.length === 2)
+      await seedDemoShares(knex, queue, { athleteId: ada.id, clinicId: ada.clinic_id, coachId: ada.coach_id, at }, seeded[0]!, seeded[1]!);
     // Her plan since the Baseline, so her sign-in shows today's session to log.
     const retestVisit = visits.find((v) => v.kind === 'retest');
     await knex.transaction((trx) => seedDemoHamstringPlan(trx, ada.clinic_id, ada, retestVisit?.id ?? null));
@@ -300,12 +470,23 @@ interface DemoShareClip {
  * summary comparing the two. Queued after the clips' extraction jobs, so they render once the
  * frames exist.
  */
-async function seedDemoShares(knex: Knex, queue: JobQueue, who: { athleteId: number; clinicId: number; coachId: number; at: string }, baseline: DemoShareClip, retest: DemoShareClip): Promise<void> {
+async function seedDemoShares(
+  knex: Knex,
+  queue: JobQueue,
+  who: { athleteId: number; clinicId: number; coachId: number; at: string },
+  baseline: DemoShareClip,
+  retest: DemoShareClip,
+): Promise<void> {
   const panel = (c: DemoShareClip, step: number) => {
     const frameIndex = c.truth.events.near.toeOff[step]!;
     const scale = Math.min(1, 1280 / Math.max(c.truth.width, c.truth.height));
     return freezePanel({
-      clip: { id: c.clipId, assessmentId: c.visit.id, nearSide: c.truth.nearSide, direction: c.truth.facing === 'right' ? 'left_to_right' : 'right_to_left' },
+      clip: {
+        id: c.clipId,
+        assessmentId: c.visit.id,
+        nearSide: c.truth.nearSide,
+        direction: c.truth.facing === 'right' ? 'left_to_right' : 'right_to_left',
+      },
       assessment: c.visit,
       annotations: { ...demoMarks(c.truth), scale: null },
       frameIndex,
@@ -313,12 +494,31 @@ async function seedDemoShares(knex: Knex, queue: JobQueue, who: { athleteId: num
       timeS: c.truth.frames[frameIndex]!.timeMs / 1000,
     });
   };
-  const still = async (trx: Knex, owner: DemoShareClip, panels: ReturnType<typeof panel>[], caption: string, published: boolean): Promise<number> => {
+  const still = async (
+    trx: Knex,
+    owner: DemoShareClip,
+    panels: ReturnType<typeof panel>[],
+    caption: string,
+    published: boolean,
+  ): Promise<number> => {
     const [row] = await trx('stills')
       .insert({
-        clinic_id: who.clinicId, athlete_id: who.athleteId, assessment_id: owner.visit.id, clip_id: owner.clipId, kind: panels.length > 1 ? 'pair' : 'frame',
-        panels: JSON.stringify(panels), caption, show_angles: true, status: 'rendering', progress: 0, render_version: 1,
-        published_at: published ? who.at : null, published_by: published ? who.coachId : null, created_by: who.coachId, created_at: who.at, updated_at: who.at,
+        clinic_id: who.clinicId,
+        athlete_id: who.athleteId,
+        assessment_id: owner.visit.id,
+        clip_id: owner.clipId,
+        kind: panels.length > 1 ? 'pair' : 'frame',
+        panels: JSON.stringify(panels),
+        caption,
+        show_angles: true,
+        status: 'rendering',
+        progress: 0,
+        render_version: 1,
+        published_at: published ? who.at : null,
+        published_by: published ? who.coachId : null,
+        created_by: who.coachId,
+        created_at: who.at,
+        updated_at: who.at,
       })
       .returning('id');
     const id = (row as { id: number }).id;
@@ -326,16 +526,40 @@ async function seedDemoShares(knex: Knex, queue: JobQueue, who: { athleteId: num
     return id;
   };
   await knex.transaction(async (trx) => {
-    const a = await still(trx, baseline, [panel(baseline, 2)], 'Baseline, right toe-off: the thigh hardly passes vertical — the push-off is cut short.', true);
-    const b = await still(trx, retest, [panel(retest, 2)], 'Re-test, right toe-off: the thigh now travels well behind the hip before the foot leaves the belt.', true);
+    const a = await still(
+      trx,
+      baseline,
+      [panel(baseline, 2)],
+      'Baseline, right toe-off: the thigh hardly passes vertical — the push-off is cut short.',
+      true,
+    );
+    const b = await still(
+      trx,
+      retest,
+      [panel(retest, 2)],
+      'Re-test, right toe-off: the thigh now travels well behind the hip before the foot leaves the belt.',
+      true,
+    );
     await still(trx, retest, [panel(baseline, 2), panel(retest, 2)], 'Baseline and Re-test side by side at right toe-off.', false);
     const [row] = await trx('visit_summaries')
       .insert({
-        clinic_id: who.clinicId, athlete_id: who.athleteId, assessment_id: retest.visit.id, baseline_assessment_id: baseline.visit.id,
+        clinic_id: who.clinicId,
+        athlete_id: who.athleteId,
+        assessment_id: retest.visit.id,
+        baseline_assessment_id: baseline.visit.id,
         title: 'Re-test comparison: Baseline · 6 Oct 2026 and Re-test · 24 Nov 2026',
-        findings: 'Hip extension at toe-off went from about 4° to about 11°, more than the change expected from measurement error alone: the push-off is no longer held back. The shank is a little more upright at landing, though that change is within measurement error. Cadence is unchanged.',
-        plan_text: 'Carry on with stage 2 (lengthening work) as prescribed. Keep pain during exercise at 3/10 or less and settled by the next morning; sprint finishes and steep descents wait for stage 3. We re-film in six weeks.',
-        still_ids: JSON.stringify([a, b]), status: 'rendering', progress: 0, published_at: who.at, published_by: who.coachId, created_by: who.coachId, created_at: who.at, updated_at: who.at,
+        findings:
+          'Hip extension at toe-off went from about 4° to about 11°, more than the change expected from measurement error alone: the push-off is no longer held back. The shank is a little more upright at landing, though that change is within measurement error. Cadence is unchanged.',
+        plan_text:
+          'Carry on with stage 2 (lengthening work) as prescribed. Keep pain during exercise at 3/10 or less and settled by the next morning; sprint finishes and steep descents wait for stage 3. We re-film in six weeks.',
+        still_ids: JSON.stringify([a, b]),
+        status: 'rendering',
+        progress: 0,
+        published_at: who.at,
+        published_by: who.coachId,
+        created_by: who.coachId,
+        created_at: who.at,
+        updated_at: who.at,
       })
       .returning('id');
     const id = (row as { id: number }).id;

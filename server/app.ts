@@ -153,7 +153,14 @@ export function createApp(deps: AppDeps): App {
   // A body that is not JSON at all is a client error too, not an empty object.
   api.use((req, _res, next) => {
     const method = req.method;
-    if ((method === 'POST' || method === 'PUT' || method === 'PATCH') && req.headers['content-length'] !== '0' && req.body === undefined && req.headers['content-type'] && !req.is('application/json') && !req.is('multipart/form-data')) {
+    if (
+      (method === 'POST' || method === 'PUT' || method === 'PATCH') &&
+      req.headers['content-length'] !== '0' &&
+      req.body === undefined &&
+      req.headers['content-type'] &&
+      !req.is('application/json') &&
+      !req.is('multipart/form-data')
+    ) {
       return next(new AppError(415, 'unsupported_media_type', 'Send the request body as JSON (Content-Type: application/json).'));
     }
     next();
@@ -178,7 +185,13 @@ export function createApp(deps: AppDeps): App {
       legacyHeaders: false,
       handler: (_req, _res, next) => next(new AppError(429, 'too_many_attempts', message)),
     });
-  const guard = signInGuard({ secret: config.sessionSecret, accountAttempts: config.rateLimit.accountAttempts, windowMs: config.rateLimit.windowMs, secureCookies: config.secureCookies, clock });
+  const guard = signInGuard({
+    secret: config.sessionSecret,
+    accountAttempts: config.rateLimit.accountAttempts,
+    windowMs: config.rateLimit.windowMs,
+    secureCookies: config.secureCookies,
+    clock,
+  });
   const signInLimiter = rateLimit({
     windowMs: config.rateLimit.windowMs,
     limit: config.rateLimit.signInAttempts,
@@ -239,7 +252,12 @@ export function createApp(deps: AppDeps): App {
     res.json({ ok: true });
   });
   api.get('/config', (_req, res) => {
-    const body: AppConfig = { demoMode: config.demoMode, version: VERSION, uploadMaxBytes: config.uploadMaxBytes, demoInboxUrl: (config.demoMode && deps.demoInboxUrl) || null };
+    const body: AppConfig = {
+      demoMode: config.demoMode,
+      version: VERSION,
+      uploadMaxBytes: config.uploadMaxBytes,
+      demoInboxUrl: (config.demoMode && deps.demoInboxUrl) || null,
+    };
     res.json(body);
   });
   api.use(authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, signInGuard: guard, resetLimiter, clock }));

@@ -64,9 +64,7 @@ export interface Config {
   fakePaymentsPort: number | null;
 }
 
-const bool = z
-  .enum(['true', 'false', '1', '0', 'yes', 'no'])
-  .transform((v) => v === 'true' || v === '1' || v === 'yes');
+const bool = z.enum(['true', 'false', '1', '0', 'yes', 'no']).transform((v) => v === 'true' || v === '1' || v === 'yes');
 
 const EnvSchema = z.object({
   PORT: z.coerce.number().int().min(0).max(65535).default(3000),
@@ -169,7 +167,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
  */
 function paymentsConfig(e: z.output<typeof EnvSchema>): Pick<Config, 'payments' | 'fakePaymentsPort'> {
   if (e.STRIPE_SECRET_KEY) {
-    if (!e.STRIPE_WEBHOOK_SECRET) throw new Error('Invalid configuration:\n  STRIPE_WEBHOOK_SECRET: required when STRIPE_SECRET_KEY is set');
+    if (!e.STRIPE_WEBHOOK_SECRET)
+      throw new Error('Invalid configuration:\n  STRIPE_WEBHOOK_SECRET: required when STRIPE_SECRET_KEY is set');
     return {
       payments: {
         secretKey: e.STRIPE_SECRET_KEY,
@@ -195,9 +194,14 @@ function paymentsConfig(e: z.output<typeof EnvSchema>): Pick<Config, 'payments' 
 function refuseDemoSecrets(e: z.output<typeof EnvSchema>): void {
   const problems: string[] = [];
   if (!e.SESSION_SECRET) problems.push('SESSION_SECRET: required (32+ characters) when DEMO_MODE=false');
-  else if (e.SESSION_SECRET === DEMO_SESSION_SECRET) problems.push('SESSION_SECRET: this is the public demo secret; choose your own when DEMO_MODE=false');
-  if (e.STRIPE_SECRET_KEY === FAKE_PAYMENTS_KEYS.secretKey) problems.push('STRIPE_SECRET_KEY: this is the demo key of the local fake payment service; set your provider key when DEMO_MODE=false');
-  if (e.STRIPE_WEBHOOK_SECRET === FAKE_PAYMENTS_KEYS.webhookSecret) problems.push('STRIPE_WEBHOOK_SECRET: this is the public demo secret; anyone could sign payment events with it. Set your provider\'s signing secret when DEMO_MODE=false');
+  else if (e.SESSION_SECRET === DEMO_SESSION_SECRET)
+    problems.push('SESSION_SECRET: this is the public demo secret; choose your own when DEMO_MODE=false');
+  if (e.STRIPE_SECRET_KEY === FAKE_PAYMENTS_KEYS.secretKey)
+    problems.push('STRIPE_SECRET_KEY: this is the demo key of the local fake payment service; set your provider key when DEMO_MODE=false');
+  if (e.STRIPE_WEBHOOK_SECRET === FAKE_PAYMENTS_KEYS.webhookSecret)
+    problems.push(
+      "STRIPE_WEBHOOK_SECRET: this is the public demo secret; anyone could sign payment events with it. Set your provider's signing secret when DEMO_MODE=false",
+    );
   if (problems.length) throw new Error(`Invalid configuration:\n${problems.map((p) => `  ${p}`).join('\n')}`);
 }
 

@@ -58,9 +58,7 @@ export function fromZod(error: ZodError, where: string): ValidationError {
     message: i.message,
   }));
   const first = details[0];
-  const summary = first
-    ? `${where}: ${first.path.length ? first.path.join('.') + ' — ' : ''}${first.message}`
-    : `${where} is not valid.`;
+  const summary = first ? `${where}: ${first.path.length ? first.path.join('.') + ' — ' : ''}${first.message}` : `${where} is not valid.`;
   return new ValidationError(summary, details);
 }
 

@@ -40,7 +40,11 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
   const mailer = createSmtpMailer(mailConfig);
   let fakePayments: FakePayments | null = null;
   if (config.payments && config.fakePaymentsPort !== null) {
-    fakePayments = await startFakePayments({ port: config.fakePaymentsPort, secretKey: config.payments.secretKey, webhookSecret: config.payments.webhookSecret });
+    fakePayments = await startFakePayments({
+      port: config.fakePaymentsPort,
+      secretKey: config.payments.secretKey,
+      webhookSecret: config.payments.webhookSecret,
+    });
     config = { ...config, payments: { ...config.payments, apiPort: fakePayments.port } };
   }
   const { app, close } = createApp({ config, db, mailer, logger, demoInboxUrl: inbox?.url ?? null });
@@ -78,7 +82,11 @@ if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.me
     })
     .catch((err: NodeJS.ErrnoException) => {
       const port = (err as { port?: number }).port ?? process.env['PORT'] ?? 3000;
-      console.error(err.code === 'EADDRINUSE' ? `Port ${port} is in use: stop the other program or choose other ports (PORT, FAKE_SMTP_PORT, DEMO_INBOX_PORT, FAKE_PAYMENTS_PORT; e.g. PORT=3001 npm start)` : err.message);
+      console.error(
+        err.code === 'EADDRINUSE'
+          ? `Port ${port} is in use: stop the other program or choose other ports (PORT, FAKE_SMTP_PORT, DEMO_INBOX_PORT, FAKE_PAYMENTS_PORT; e.g. PORT=3001 npm start)`
+          : err.message,
+      );
       process.exit(1);
     });
 }

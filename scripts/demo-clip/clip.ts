@@ -28,12 +28,39 @@ export function groundTruthPath(videoFile: string): string {
 
 function startEncoder(opts: RunnerClipOptions) {
   const args = [
-    '-hide_banner', '-v', 'error', '-y',
-    '-f', 'rawvideo', '-pix_fmt', 'rgba', '-s', `${opts.width}x${opts.height}`, '-r', String(opts.fps), '-i', '-',
-    '-vf', 'scale=out_color_matrix=bt709:out_range=tv,format=yuv420p',
-    '-colorspace', 'bt709', '-color_primaries', 'bt709', '-color_trc', 'bt709', '-color_range', 'tv',
-    '-c:v', 'libx264', '-preset', opts.preset ?? 'fast', '-crf', String(opts.crf ?? 18),
-    '-movflags', '+faststart', opts.outFile,
+    '-hide_banner',
+    '-v',
+    'error',
+    '-y',
+    '-f',
+    'rawvideo',
+    '-pix_fmt',
+    'rgba',
+    '-s',
+    `${opts.width}x${opts.height}`,
+    '-r',
+    String(opts.fps),
+    '-i',
+    '-',
+    '-vf',
+    'scale=out_color_matrix=bt709:out_range=tv,format=yuv420p',
+    '-colorspace',
+    'bt709',
+    '-color_primaries',
+    'bt709',
+    '-color_trc',
+    'bt709',
+    '-color_range',
+    'tv',
+    '-c:v',
+    'libx264',
+    '-preset',
+    opts.preset ?? 'fast',
+    '-crf',
+    String(opts.crf ?? 18),
+    '-movflags',
+    '+faststart',
+    opts.outFile,
   ];
   const child = spawn(process.env['FFMPEG_PATH'] ?? 'ffmpeg', args, { stdio: ['pipe', 'ignore', 'pipe'] });
   let stderr = '';
@@ -94,7 +121,10 @@ export interface DemoClip {
  * (~11°), 1280×720 at 120 fps, 3 s, facing right: `baseline.mp4` / `retest.mp4` plus their
  * `.ground-truth.json`. Takes tens of seconds on two cores.
  */
-export async function generateDemoClips(outDir: string, overrides: Partial<Omit<RunnerClipOptions, 'outFile' | 'hipExtensionDeg'>> = {}): Promise<{ baseline: DemoClip; retest: DemoClip }> {
+export async function generateDemoClips(
+  outDir: string,
+  overrides: Partial<Omit<RunnerClipOptions, 'outFile' | 'hipExtensionDeg'>> = {},
+): Promise<{ baseline: DemoClip; retest: DemoClip }> {
   const make = async (clip: (typeof DEMO_CLIPS)[keyof typeof DEMO_CLIPS]): Promise<DemoClip> => {
     const videoFile = path.join(outDir, `${clip.name}.mp4`);
     const groundTruth = await generateRunnerClip({

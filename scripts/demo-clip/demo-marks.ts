@@ -25,7 +25,8 @@ export function marksFromTruth(truth: GroundTruth, landmarkFrames: 'all' | 'even
     ...truth.events.far.initialContact.map((frame) => ({ frame, side: far, kind: 'initial_contact' as const })),
     ...truth.events.far.toeOff.map((frame) => ({ frame, side: far, kind: 'toe_off' as const })),
   ].sort((a, b) => a.frame - b.frame);
-  const frames = landmarkFrames === 'all' ? truth.frames.map((f) => f.index) : [...new Set(events.map((e) => e.frame))].sort((a, b) => a - b);
+  const frames =
+    landmarkFrames === 'all' ? truth.frames.map((f) => f.index) : [...new Set(events.map((e) => e.frame))].sort((a, b) => a - b);
   const landmarks = frames.flatMap((frame) => {
     const f = truth.frames[frame]!;
     return [

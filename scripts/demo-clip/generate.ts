@@ -34,7 +34,8 @@ const num = (name: string, v: string | undefined): number => {
 const started = performance.now();
 if (a.demo) {
   const clips = await generateDemoClips(a.out!);
-  for (const c of Object.values(clips)) console.log(`${c.label}: ${c.videoFile} (${c.groundTruth.frameCount} frames), ${c.groundTruthFile}`);
+  for (const c of Object.values(clips))
+    console.log(`${c.label}: ${c.videoFile} (${c.groundTruth.frameCount} frames), ${c.groundTruthFile}`);
 } else {
   if (a.facing !== 'left' && a.facing !== 'right') throw new Error('--facing must be left or right');
   const hipExt = num('hip-ext', a['hip-ext']);
@@ -52,7 +53,9 @@ if (a.demo) {
     ...(a.crf ? { crf: num('crf', a.crf) } : {}),
   });
   const ext = truth.hipExtensionAtToeOffDeg.near;
-  console.log(`${outFile}: ${truth.frameCount} frames at ${truth.fps} fps, cadence ${truth.cadenceStepsPerMin} steps/min, duty factor ${truth.dutyFactor}`);
+  console.log(
+    `${outFile}: ${truth.frameCount} frames at ${truth.fps} fps, cadence ${truth.cadenceStepsPerMin} steps/min, duty factor ${truth.dutyFactor}`,
+  );
   console.log(`hip extension at near-side toe-offs: ${ext.map((e) => e.toFixed(2)).join(', ')}° (requested ${hipExt}°)`);
   console.log(`ground truth: ${groundTruthPath(outFile)}`);
 }

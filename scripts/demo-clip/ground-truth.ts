@@ -157,7 +157,8 @@ export function sideLandmarksPx(pose: RunnerPose, side: 'near' | 'far', layout: 
 
 function normalise(set: SideLandmarkSet, width: number, height: number): SideLandmarkSet {
   const out = {} as SideLandmarkSet;
-  for (const [k, p] of Object.entries(set) as Array<[LandmarkName, Point]>) out[k] = { x: round(p.x / width, 6), y: round(p.y / height, 6) };
+  for (const [k, p] of Object.entries(set) as Array<[LandmarkName, Point]>)
+    out[k] = { x: round(p.x / width, 6), y: round(p.y / height, 6) };
   return out;
 }
 
@@ -170,7 +171,14 @@ function roundSet(set: SideLandmarkSet): SideLandmarkSet {
 /** Signed angles of a pixel landmark set, after normalising the running direction. */
 export function anglesFromPixels(set: SideLandmarkSet, facing: Facing): SideAngles {
   const s = (p: Point) => pixelToSagittal(p, facing);
-  return sideAngles({ shoulder: s(set.shoulder), hip: s(set.hip), knee: s(set.knee), ankle: s(set.ankle), heel: s(set.heel), toe: s(set.toe) });
+  return sideAngles({
+    shoulder: s(set.shoulder),
+    hip: s(set.hip),
+    knee: s(set.knee),
+    ankle: s(set.ankle),
+    heel: s(set.heel),
+    toe: s(set.toe),
+  });
 }
 
 /** Builds the ground truth of a clip: landmarks, events and angles for every frame. */

@@ -141,7 +141,13 @@ function treadmill(s: Scene, width: number, height: number, timeS: number, beltS
  * far arm and leg (lighter) with smaller far markers, trunk and head, near leg and arm, then the
  * near-side markers (shoulder, hip, knee, ankle, heel, toe) on top of everything.
  */
-export function drawFrame(ctx: SKRSContext2D, pose: RunnerPose, layout: Layout, size: { width: number; height: number }, beltSpeedMps: number): void {
+export function drawFrame(
+  ctx: SKRSContext2D,
+  pose: RunnerPose,
+  layout: Layout,
+  size: { width: number; height: number },
+  beltSpeedMps: number,
+): void {
   const s: Scene = { ctx, layout, px: (p) => toPixels(p, layout), m: (metres) => metres * layout.pxPerMetre };
   const nearColour = layout.facing === 'right' ? COLOURS.right : COLOURS.left;
   const farColour = mix(layout.facing === 'right' ? COLOURS.left : COLOURS.right, COLOURS.background, 0.45);
@@ -157,7 +163,10 @@ export function drawFrame(ctx: SKRSContext2D, pose: RunnerPose, layout: Layout, 
 
   segment(s, pose.hip, pose.shoulder, 0.2, COLOURS.trunk);
   const tr = toRad(pose.trunkDeg);
-  const headCentre = { x: pose.shoulder.x + (BODY.neckM + BODY.headRadiusM * 0.4) * Math.sin(tr), y: pose.shoulder.y + (BODY.neckM + BODY.headRadiusM * 0.4) * Math.cos(tr) };
+  const headCentre = {
+    x: pose.shoulder.x + (BODY.neckM + BODY.headRadiusM * 0.4) * Math.sin(tr),
+    y: pose.shoulder.y + (BODY.neckM + BODY.headRadiusM * 0.4) * Math.cos(tr),
+  };
   const hc = s.px(headCentre);
   ctx.fillStyle = mix(COLOURS.trunk, '#FFFFFF', 0.15);
   ctx.beginPath();
@@ -166,5 +175,6 @@ export function drawFrame(ctx: SKRSContext2D, pose: RunnerPose, layout: Layout, 
 
   leg(s, pose.hip, pose.near, nearColour, COLOURS.trunk);
   arm(s, pose.shoulder, pose.near.angles.thighDeg, nearColour);
-  for (const p of [pose.shoulder, pose.hip, pose.near.knee, pose.near.ankle, pose.near.heel, pose.near.toe]) marker(s, p, radius, COLOURS.nearMarker);
+  for (const p of [pose.shoulder, pose.hip, pose.near.knee, pose.near.ankle, pose.near.heel, pose.near.toe])
+    marker(s, p, radius, COLOURS.nearMarker);
 }

@@ -231,7 +231,10 @@ export function createRunnerModel(options: RunnerModelOptions): RunnerModel {
     const belt = landing - v * t; // heel-sole x if the foot lay flat; it rolls heel → flat → tip
     const heelSole = alpha >= 0 ? { x: belt, y: 0 } : { x: belt + BODY.tipM - BODY.tipM * u.x, y: -BODY.tipM * u.y };
     const heel = { x: heelSole.x + BODY.soleM * n.x, y: heelSole.y + BODY.soleM * n.y };
-    const ankle = { x: heel.x + BODY.ankleAlongM * u.x + BODY.ankleAboveM * n.x, y: heel.y + BODY.ankleAlongM * u.y + BODY.ankleAboveM * n.y };
+    const ankle = {
+      x: heel.x + BODY.ankleAlongM * u.x + BODY.ankleAboveM * n.x,
+      y: heel.y + BODY.ankleAlongM * u.y + BODY.ankleAboveM * n.y,
+    };
     const ik = legIk(hip, ankle, BODY.thighM, BODY.shankM);
     return { hip, ik, kneeDeg: ik.thighDeg - ik.shankDeg };
   };
@@ -306,7 +309,10 @@ export function createRunnerModel(options: RunnerModelOptions): RunnerModel {
     const ankle = add(kneeP, { x: BODY.shankM * Math.sin(s), y: -BODY.shankM * Math.cos(s) });
     const u = { x: Math.cos(al), y: Math.sin(al) };
     const n = { x: -Math.sin(al), y: Math.cos(al) };
-    const heel = { x: ankle.x - BODY.ankleAlongM * u.x - BODY.ankleAboveM * n.x, y: ankle.y - BODY.ankleAlongM * u.y - BODY.ankleAboveM * n.y };
+    const heel = {
+      x: ankle.x - BODY.ankleAlongM * u.x - BODY.ankleAboveM * n.x,
+      y: ankle.y - BODY.ankleAlongM * u.y - BODY.ankleAboveM * n.y,
+    };
     const toe = { x: heel.x + BODY.footM * u.x, y: heel.y + BODY.footM * u.y };
     return {
       knee: kneeP,

@@ -29,12 +29,22 @@ export const annotationsRepository = {
     const clip = await db('clips as c')
       .leftJoin('users as u', 'u.id', 'c.annotated_by')
       .where('c.id', clipId)
-      .first<{ annotation_revision: number; annotated_at: string | null; name: string | null }>('c.annotation_revision', 'c.annotated_at', 'u.name');
+      .first<{ annotation_revision: number; annotated_at: string | null; name: string | null }>(
+        'c.annotation_revision',
+        'c.annotated_at',
+        'u.name',
+      );
     const [points, events, scale, gaugeRows] = await Promise.all([
-      db('clip_landmarks').where({ clip_id: clipId }).orderBy(['frame', 'side']).select<LandmarkRow[]>('frame', 'side', 'landmark', 'x', 'y', 'source'),
+      db('clip_landmarks')
+        .where({ clip_id: clipId })
+        .orderBy(['frame', 'side'])
+        .select<LandmarkRow[]>('frame', 'side', 'landmark', 'x', 'y', 'source'),
       db('gait_events').where({ clip_id: clipId }).orderBy('frame').select<GaitEventMark[]>('frame', 'side', 'kind'),
       db('scale_bars').where({ clip_id: clipId }).first(),
-      db('angle_gauges').where({ clip_id: clipId }).orderBy(['frame', 'id']).select<GaugeRow[]>('id', 'frame', 'ax', 'ay', 'vx', 'vy', 'bx', 'by'),
+      db('angle_gauges')
+        .where({ clip_id: clipId })
+        .orderBy(['frame', 'id'])
+        .select<GaugeRow[]>('id', 'frame', 'ax', 'ay', 'vx', 'vy', 'bx', 'by'),
     ]);
     const byFrame = new Map<string, FrameLandmarks>();
     for (const p of points) {
@@ -46,8 +56,16 @@ export const annotationsRepository = {
       }
       entry.points[p.landmark] = { x: p.x, y: p.y };
     }
-    const bar: ScaleBar | null = scale ? { frame: scale.frame, a: { x: scale.ax, y: scale.ay }, b: { x: scale.bx, y: scale.by }, lengthM: scale.length_m } : null;
-    const gauges: AngleGauge[] = gaugeRows.map((g) => ({ id: g.id, frame: g.frame, a: { x: g.ax, y: g.ay }, vertex: { x: g.vx, y: g.vy }, b: { x: g.bx, y: g.by } }));
+    const bar: ScaleBar | null = scale
+      ? { frame: scale.frame, a: { x: scale.ax, y: scale.ay }, b: { x: scale.bx, y: scale.by }, lengthM: scale.length_m }
+      : null;
+    const gauges: AngleGauge[] = gaugeRows.map((g) => ({
+      id: g.id,
+      frame: g.frame,
+      a: { x: g.ax, y: g.ay },
+      vertex: { x: g.vx, y: g.vy },
+      b: { x: g.bx, y: g.by },
+    }));
     return {
       clipId,
       revision: clip?.annotation_revision ?? 0,
@@ -61,21 +79,48 @@ export const annotationsRepository = {
   },
 
   /** Replaces everything marked on the clip (inside the caller's transaction). */
-  async replace(trx: Knex, clipId: number, input: Omit<AnnotationsInput, 'gauges'> & { gauges?: AnnotationsInput['gauges'] }): Promise<void> {
+  async replace(
+    trx: Knex,
+    clipId: number,
+    input: Omit<AnnotationsInput, 'gauges'> & { gauges?: AnnotationsInput['gauges'] },
+  ): Promise<void> {
     await trx('clip_landmarks').where({ clip_id: clipId }).delete();
     await trx('gait_events').where({ clip_id: clipId }).delete();
     await trx('scale_bars').where({ clip_id: clipId }).delete();
     await trx('angle_gauges').where({ clip_id: clipId }).delete();
     const rows = input.landmarks.flatMap((l) =>
-      Object.entries(l.points).map(([landmark, p]) => ({ clip_id: clipId, frame: l.frame, side: l.side, landmark, x: p!.x, y: p!.y, source: l.source ?? 'manual' })),
+      Object.entries(l.points).map(([landmark, p]) => ({
+        clip_id: clipId,
+        frame: l.frame,
+        side: l.side,
+        landmark,
+        x: p!.x,
+        y: p!.y,
+        source: l.source ?? 'manual',
+      })),
     );
     if (rows.length) await trx.batchInsert('clip_landmarks', rows, 400);
-    if (input.events.length) await trx.batchInsert('gait_events', input.events.map((e) => ({ clip_id: clipId, ...e })), 400);
+    if (input.events.length)
+      await trx.batchInsert(
+        'gait_events',
+        input.events.map((e) => ({ clip_id: clipId, ...e })),
+        400,
+      );
     if (input.scale) {
       const s = input.scale;
       await trx('scale_bars').insert({ clip_id: clipId, frame: s.frame, ax: s.a.x, ay: s.a.y, bx: s.b.x, by: s.b.y, length_m: s.lengthM });
     }
-    const gauges = (input.gauges ?? []).map((g) => ({ clip_id: clipId, id: g.id, frame: g.frame, ax: g.a.x, ay: g.a.y, vx: g.vertex.x, vy: g.vertex.y, bx: g.b.x, by: g.b.y }));
+    const gauges = (input.gauges ?? []).map((g) => ({
+      clip_id: clipId,
+      id: g.id,
+      frame: g.frame,
+      ax: g.a.x,
+      ay: g.a.y,
+      vx: g.vertex.x,
+      vy: g.vertex.y,
+      bx: g.b.x,
+      by: g.b.y,
+    }));
     if (gauges.length) await trx.batchInsert('angle_gauges', gauges, 100);
   },
 };

@@ -10,7 +10,10 @@ const FramePoint = z.strictObject({ x: Fraction, y: Fraction });
 const Frame = z.number('Frame must be a number.').int('Frame must be a whole number.').min(0, 'Frame numbers start at 0.');
 
 /** Angle gauge: all three points on the frame, both arms with length. */
-const GaugePoint = z.strictObject({ x: Fraction, y: Fraction }, 'An angle gauge needs three points (a, vertex and b), each inside the frame.');
+const GaugePoint = z.strictObject(
+  { x: Fraction, y: Fraction },
+  'An angle gauge needs three points (a, vertex and b), each inside the frame.',
+);
 const Gauge = z
   .strictObject({
     id: z.string('A gauge needs an id.').regex(/^[A-Za-z0-9_-]{1,40}$/, 'A gauge id is 1–40 letters, digits, - or _.'),
@@ -24,7 +27,12 @@ const Gauge = z
     path: ['vertex'],
   });
 
-const Points = z.strictObject(Object.fromEntries(LANDMARKS.map((l) => [l, FramePoint.optional()])) as Record<(typeof LANDMARKS)[number], z.ZodOptional<typeof FramePoint>>);
+const Points = z.strictObject(
+  Object.fromEntries(LANDMARKS.map((l) => [l, FramePoint.optional()])) as Record<
+    (typeof LANDMARKS)[number],
+    z.ZodOptional<typeof FramePoint>
+  >,
+);
 
 export const AnnotationsBody = z
   .strictObject({
@@ -40,7 +48,13 @@ export const AnnotationsBody = z
       )
       .max(ANNOTATION_LIMITS.landmarkFrames * 2, 'Too many landmark frames.'),
     events: z
-      .array(z.strictObject({ frame: Frame, side: z.enum(SIDES, 'Side is left or right.'), kind: z.enum(GAIT_EVENT_KINDS, 'Unknown gait event.') }))
+      .array(
+        z.strictObject({
+          frame: Frame,
+          side: z.enum(SIDES, 'Side is left or right.'),
+          kind: z.enum(GAIT_EVENT_KINDS, 'Unknown gait event.'),
+        }),
+      )
       .max(ANNOTATION_LIMITS.events, 'Too many gait events.'),
     scale: z
       .strictObject({
@@ -49,10 +63,19 @@ export const AnnotationsBody = z
         b: FramePoint,
         lengthM: z
           .number('Length must be a number.')
-          .min(ANNOTATION_LIMITS.scaleLengthM.min, `The scale bar's length must be ${ANNOTATION_LIMITS.scaleLengthM.min}–${ANNOTATION_LIMITS.scaleLengthM.max} m.`)
-          .max(ANNOTATION_LIMITS.scaleLengthM.max, `The scale bar's length must be ${ANNOTATION_LIMITS.scaleLengthM.min}–${ANNOTATION_LIMITS.scaleLengthM.max} m.`),
+          .min(
+            ANNOTATION_LIMITS.scaleLengthM.min,
+            `The scale bar's length must be ${ANNOTATION_LIMITS.scaleLengthM.min}–${ANNOTATION_LIMITS.scaleLengthM.max} m.`,
+          )
+          .max(
+            ANNOTATION_LIMITS.scaleLengthM.max,
+            `The scale bar's length must be ${ANNOTATION_LIMITS.scaleLengthM.min}–${ANNOTATION_LIMITS.scaleLengthM.max} m.`,
+          ),
       })
-      .refine((s) => s.a.x !== s.b.x || s.a.y !== s.b.y, { message: 'The scale bar has zero length: drag from one end of the object to the other.', path: ['b'] })
+      .refine((s) => s.a.x !== s.b.x || s.a.y !== s.b.y, {
+        message: 'The scale bar has zero length: drag from one end of the object to the other.',
+        path: ['b'],
+      })
       .nullable(),
     gauges: z.array(Gauge).max(ANNOTATION_LIMITS.gauges, 'Too many angle gauges.').default([]),
   })
@@ -66,7 +89,8 @@ export const AnnotationsBody = z
     const events = new Set<string>();
     v.events.forEach((e, i) => {
       const key = `${e.frame}:${e.side}`;
-      if (events.has(key)) ctx.addIssue({ code: 'custom', path: ['events', i], message: `Two events on frame ${e.frame} for the ${e.side} side.` });
+      if (events.has(key))
+        ctx.addIssue({ code: 'custom', path: ['events', i], message: `Two events on frame ${e.frame} for the ${e.side} side.` });
       events.add(key);
     });
     const ids = new Set<string>();

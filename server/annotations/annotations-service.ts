@@ -34,14 +34,24 @@ export function annotationsService(d: AnnotationsDeps) {
       const frameCount = clip.frame_count;
       const problems: { path: (string | number)[]; message: string }[] = [];
       input.landmarks.forEach((l, i) => {
-        if (l.frame >= frameCount) problems.push({ path: ['landmarks', i, 'frame'], message: `Frame ${l.frame} is beyond the clip's last frame (${frameCount - 1}).` });
+        if (l.frame >= frameCount)
+          problems.push({
+            path: ['landmarks', i, 'frame'],
+            message: `Frame ${l.frame} is beyond the clip's last frame (${frameCount - 1}).`,
+          });
       });
       input.events.forEach((e, i) => {
-        if (e.frame >= frameCount) problems.push({ path: ['events', i, 'frame'], message: `Frame ${e.frame} is beyond the clip's last frame (${frameCount - 1}).` });
+        if (e.frame >= frameCount)
+          problems.push({ path: ['events', i, 'frame'], message: `Frame ${e.frame} is beyond the clip's last frame (${frameCount - 1}).` });
       });
-      if (input.scale && input.scale.frame >= frameCount) problems.push({ path: ['scale', 'frame'], message: `Frame ${input.scale.frame} is beyond the clip's last frame.` });
+      if (input.scale && input.scale.frame >= frameCount)
+        problems.push({ path: ['scale', 'frame'], message: `Frame ${input.scale.frame} is beyond the clip's last frame.` });
       input.gauges.forEach((g, i) => {
-        if (g.frame >= frameCount) problems.push({ path: ['gauges', i, 'frame'], message: `Angle gauge on frame ${g.frame} is beyond the clip's last frame (${frameCount - 1}).` });
+        if (g.frame >= frameCount)
+          problems.push({
+            path: ['gauges', i, 'frame'],
+            message: `Angle gauge on frame ${g.frame} is beyond the clip's last frame (${frameCount - 1}).`,
+          });
       });
       if (!problems.length) {
         for (const message of d.validateEvents(input.events, frameCount)) problems.push({ path: ['events'], message });
@@ -53,14 +63,31 @@ export function annotationsService(d: AnnotationsDeps) {
         if (!row) throw new AppError(404, 'not_found', 'Clip not found.');
         if (row.annotation_revision !== input.baseRevision) {
           const current = await repo.read(trx, clipId);
-          throw new AppError(409, 'stale_revision', 'Someone saved newer marks on this clip. The latest were loaded; your unsaved changes were re-applied on top.', { current });
+          throw new AppError(
+            409,
+            'stale_revision',
+            'Someone saved newer marks on this clip. The latest were loaded; your unsaved changes were re-applied on top.',
+            { current },
+          );
         }
         await repo.replace(trx, clipId, input);
         const at = new Date().toISOString();
-        await trx('clips').where({ id: clipId }).update({ annotation_revision: row.annotation_revision + 1, annotated_by: user.id, annotated_at: at });
+        await trx('clips')
+          .where({ id: clipId })
+          .update({ annotation_revision: row.annotation_revision + 1, annotated_by: user.id, annotated_at: at });
         const saved = await repo.read(trx, clipId);
         await d.afterSave(trx, clip, saved);
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: clip.athlete_id, action: 'clip.annotated', detail: { clipId, revision: saved.revision } }, at);
+        await audit(
+          trx,
+          {
+            clinicId: user.clinicId,
+            actorId: user.id,
+            athleteId: clip.athlete_id,
+            action: 'clip.annotated',
+            detail: { clipId, revision: saved.revision },
+          },
+          at,
+        );
       });
       return repo.read(db, clipId);
     },

@@ -30,7 +30,10 @@ export const assessmentsRepository = {
     return db('assessments as s')
       .where('s.athlete_id', athleteId)
       .select('s.*', db.raw('(SELECT COUNT(*) FROM clips c WHERE c.assessment_id = s.id) AS clip_count'))
-      .orderBy([{ column: 's.date', order: 'desc' }, { column: 's.id', order: 'desc' }]);
+      .orderBy([
+        { column: 's.date', order: 'desc' },
+        { column: 's.id', order: 'desc' },
+      ]);
   },
 
   async clipCount(db: Knex, id: number): Promise<number> {

@@ -1,5 +1,16 @@
 import { z } from 'zod';
-import { ASSESSMENT_KINDS, ASSESSMENT_TEXT_LIMITS, EARLIEST_ASSESSMENT_DATE, BELT_SPEED_LIMITS_MPS, FILM_SURFACES, INCLINE_LIMITS, SPEED_UNITS, SPEED_UNIT_LABELS, fromMetresPerSecond, toMetresPerSecond } from '../../src/contracts/assessment';
+import {
+  ASSESSMENT_KINDS,
+  ASSESSMENT_TEXT_LIMITS,
+  EARLIEST_ASSESSMENT_DATE,
+  BELT_SPEED_LIMITS_MPS,
+  FILM_SURFACES,
+  INCLINE_LIMITS,
+  SPEED_UNITS,
+  SPEED_UNIT_LABELS,
+  fromMetresPerSecond,
+  toMetresPerSecond,
+} from '../../src/contracts/assessment';
 import { IsoDate } from '../athletes/athletes-schemas';
 
 const emptyToNull = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? null : v);
@@ -20,7 +31,11 @@ const Speed = z
       const lo = fromMetresPerSecond(min, s.unit);
       const hi = fromMetresPerSecond(max, s.unit);
       const [a, b] = lo < hi ? [lo, hi] : [hi, lo];
-      ctx.addIssue({ code: 'custom', path: ['value'], message: `Speed must be between ${a.toFixed(1)} and ${b.toFixed(1)} ${SPEED_UNIT_LABELS[s.unit]}${s.unit.startsWith('s_') ? ' (in seconds)' : ''}.` });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['value'],
+        message: `Speed must be between ${a.toFixed(1)} and ${b.toFixed(1)} ${SPEED_UNIT_LABELS[s.unit]}${s.unit.startsWith('s_') ? ' (in seconds)' : ''}.`,
+      });
     }
   });
 

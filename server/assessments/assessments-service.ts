@@ -52,7 +52,11 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
           created_at: at,
           updated_at: at,
         });
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId, action: 'assessment.created', detail: { assessmentId: newId } }, at);
+        await audit(
+          trx,
+          { clinicId: user.clinicId, actorId: user.id, athleteId, action: 'assessment.created', detail: { assessmentId: newId } },
+          at,
+        );
         return newId;
       });
       return toApi(user, (await repo.find(db, user.clinicId, id))!);
@@ -60,7 +64,10 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
 
     async get(user: SessionUser, id: number): Promise<AssessmentDetail> {
       const row = await clips.accessibleAssessment(user, id);
-      const consent = await db('consents').where({ athlete_id: row.athlete_id, kind: 'video_recording' }).orderBy('id', 'desc').first<{ granted: number } | undefined>();
+      const consent = await db('consents')
+        .where({ athlete_id: row.athlete_id, kind: 'video_recording' })
+        .orderBy('id', 'desc')
+        .first<{ granted: number } | undefined>();
       return {
         ...(await toApi(user, row)),
         clips: await clipsRepository.listForAssessment(db, id),
@@ -80,7 +87,13 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
       if (patch.notes !== undefined) changes.notes = patch.notes;
       await db.transaction(async (trx) => {
         await repo.update(trx, id, changes);
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'assessment.updated', detail: { assessmentId: id, fields: Object.keys(patch) } });
+        await audit(trx, {
+          clinicId: user.clinicId,
+          actorId: user.id,
+          athleteId: row.athlete_id,
+          action: 'assessment.updated',
+          detail: { assessmentId: id, fields: Object.keys(patch) },
+        });
       });
       return toApi(user, (await repo.find(db, user.clinicId, id))!);
     },
@@ -92,7 +105,13 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
       await db('assessments').where({ id }).delete();
       // Visit summaries' PDFs live in the assessment's folder.
       await store.removeAssessment(id);
-      await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'assessment.deleted', detail: { assessmentId: id, clips: clipIds.length } });
+      await audit(db, {
+        clinicId: user.clinicId,
+        actorId: user.id,
+        athleteId: row.athlete_id,
+        action: 'assessment.deleted',
+        detail: { assessmentId: id, clips: clipIds.length },
+      });
     },
   };
 }

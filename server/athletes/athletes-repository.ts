@@ -90,16 +90,14 @@ export const athletesRepository = {
       weeklyDistance: row.weekly_km === null ? null : fromKilometres(row.weekly_km, unit),
       longestRecentRun: row.longest_run_km === null ? null : fromKilometres(row.longest_run_km, unit),
       surfaces: JSON.parse(row.surfaces) as Surface[],
-      injuries: injuries.map(
-        (i): InjuryEntry => ({
-          id: i.id,
-          region: i.region as InjuryEntry['region'],
-          side: i.side as InjuryEntry['side'],
-          when: i.began,
-          status: i.status as InjuryEntry['status'],
-          notes: i.notes,
-        }),
-      ),
+      injuries: injuries.map((i): InjuryEntry => ({
+        id: i.id,
+        region: i.region as InjuryEntry['region'],
+        side: i.side as InjuryEntry['side'],
+        when: i.began,
+        status: i.status as InjuryEntry['status'],
+        notes: i.notes,
+      })),
       pain: pain.map((p): PainEntry => ({ region: p.region as BodyRegion, score: p.score })),
       consents: { videoRecording: latest('video_recording'), shareStills: latest('share_stills') },
     };
@@ -139,13 +137,30 @@ export const athletesRepository = {
     await db('pain_entries').where({ athlete_id: athleteId, current: true }).update({ current: false });
     if (pain.length) {
       await db('pain_entries').insert(
-        pain.map((p) => ({ clinic_id: clinicId, athlete_id: athleteId, region: p.region, score: p.score, current: true, source: 'intake', recorded_by: by, recorded_at: at })),
+        pain.map((p) => ({
+          clinic_id: clinicId,
+          athlete_id: athleteId,
+          region: p.region,
+          score: p.score,
+          current: true,
+          source: 'intake',
+          recorded_by: by,
+          recorded_at: at,
+        })),
       );
     }
   },
 
   /** Appends a consent row only when the state changes, so the history shows who changed what. */
-  async recordConsent(db: Knex, clinicId: number, athleteId: number, kind: ConsentRow['kind'], granted: boolean, by: number, at: string): Promise<boolean> {
+  async recordConsent(
+    db: Knex,
+    clinicId: number,
+    athleteId: number,
+    kind: ConsentRow['kind'],
+    granted: boolean,
+    by: number,
+    at: string,
+  ): Promise<boolean> {
     const latest = await db<ConsentRow>('consents').where({ athlete_id: athleteId, kind }).orderBy('id', 'desc').first();
     if (latest && Boolean(latest.granted) === granted) return false;
     if (!latest && !granted) return false;
@@ -153,4 +168,3 @@ export const athletesRepository = {
     return true;
   },
 };
-

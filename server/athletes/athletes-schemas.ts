@@ -88,7 +88,10 @@ export const IntakeBody = z
     distanceUnit: z.enum(DISTANCE_UNITS, 'Distance unit is km or mi.'),
     weeklyDistance: Distance,
     longestRecentRun: Distance,
-    goalEvent: z.preprocess(emptyToNull, z.string().trim().max(LIMITS.goalEvent, `Goal event must be at most ${LIMITS.goalEvent} characters.`).nullable()),
+    goalEvent: z.preprocess(
+      emptyToNull,
+      z.string().trim().max(LIMITS.goalEvent, `Goal event must be at most ${LIMITS.goalEvent} characters.`).nullable(),
+    ),
     goalDate: z.preprocess(emptyToNull, IsoDate.nullable()),
     surfaces: z.array(z.enum(SURFACES, 'Unknown surface.')).max(SURFACES.length),
     injuries: z.array(Injury).max(LIMITS.injuries, `At most ${LIMITS.injuries} injuries.`),

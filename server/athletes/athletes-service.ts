@@ -31,7 +31,10 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
   async function checkCoach(clinicId: number, coachId: number | null | undefined): Promise<void> {
     if (coachId === null || coachId === undefined) return;
     const coach = await db('users').where({ id: coachId, clinic_id: clinicId, active: true }).whereIn('role', ['owner', 'coach']).first();
-    if (!coach) throw new ValidationError('Coach: choose a coach of this clinic.', [{ path: ['coachId'], message: 'Choose a coach of this clinic.' }]);
+    if (!coach)
+      throw new ValidationError('Coach: choose a coach of this clinic.', [
+        { path: ['coachId'], message: 'Choose a coach of this clinic.' },
+      ]);
   }
 
   async function checkEmailFree(clinicId: number, email: string | null | undefined, exceptId?: number): Promise<void> {
@@ -102,7 +105,13 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
       if (input.notes !== undefined) patch.notes = input.notes;
       await db.transaction(async (trx) => {
         await repo.update(trx, user.clinicId, id, patch);
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: id, action: 'athlete.updated', detail: { fields: Object.keys(input) } });
+        await audit(trx, {
+          clinicId: user.clinicId,
+          actorId: user.id,
+          athleteId: id,
+          action: 'athlete.updated',
+          detail: { fields: Object.keys(input) },
+        });
       });
       return detailFor(user, id);
     },
@@ -126,9 +135,21 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
         await repo.replaceInjuries(trx, user.clinicId, id, input.injuries);
         await repo.replaceCurrentPain(trx, user.clinicId, id, input.pain, user.id, at);
         const changed: string[] = [];
-        if (await repo.recordConsent(trx, user.clinicId, id, 'video_recording', input.consents.videoRecording, user.id, at)) changed.push('video_recording');
-        if (await repo.recordConsent(trx, user.clinicId, id, 'share_stills', input.consents.shareStills, user.id, at)) changed.push('share_stills');
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: id, action: 'athlete.intake_updated', detail: { consentsChanged: changed } }, at);
+        if (await repo.recordConsent(trx, user.clinicId, id, 'video_recording', input.consents.videoRecording, user.id, at))
+          changed.push('video_recording');
+        if (await repo.recordConsent(trx, user.clinicId, id, 'share_stills', input.consents.shareStills, user.id, at))
+          changed.push('share_stills');
+        await audit(
+          trx,
+          {
+            clinicId: user.clinicId,
+            actorId: user.id,
+            athleteId: id,
+            action: 'athlete.intake_updated',
+            detail: { consentsChanged: changed },
+          },
+          at,
+        );
       });
       return detailFor(user, id);
     },
@@ -137,7 +158,9 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
       const row = await accessible(user, id);
       if (row.user_id !== null) throw new ConflictError('This athlete already has an account.', 'athlete_has_account');
       if (!row.email) {
-        throw new ValidationError('Add an e-mail address to the athlete before inviting them.', [{ path: ['email'], message: 'E-mail is required to invite.' }]);
+        throw new ValidationError('Add an e-mail address to the athlete before inviting them.', [
+          { path: ['email'], message: 'E-mail is required to invite.' },
+        ]);
       }
       return invitations.invite({
         clinicId: user.clinicId,

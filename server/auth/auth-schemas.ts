@@ -13,11 +13,7 @@ export const Password = z
   .min(LIMITS.passwordMin, `Password must be at least ${LIMITS.passwordMin} characters.`)
   .max(LIMITS.passwordMax, `Password must be at most ${LIMITS.passwordMax} characters.`);
 
-export const PersonName = z
-  .string()
-  .trim()
-  .min(1, 'Name is required.')
-  .max(LIMITS.name, `Name must be at most ${LIMITS.name} characters.`);
+export const PersonName = z.string().trim().min(1, 'Name is required.').max(LIMITS.name, `Name must be at most ${LIMITS.name} characters.`);
 
 export const SignInBody = z.strictObject({
   email: z.string().trim().min(1, 'E-mail is required.').max(LIMITS.email),

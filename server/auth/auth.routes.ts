@@ -43,7 +43,12 @@ export function authRoutes(d: AuthRoutesDeps): Router {
     d.passport.authenticate('local', { session: true }, (err: unknown, user: Express.User | false, info?: { message?: string }) => {
       if (err) return next(err);
       if (!user && info?.message === DEACTIVATED) {
-        return next(new ForbiddenError("Your account has been deactivated by your clinic's owner. Ask them if you need access again.", 'account_deactivated'));
+        return next(
+          new ForbiddenError(
+            "Your account has been deactivated by your clinic's owner. Ask them if you need access again.",
+            'account_deactivated',
+          ),
+        );
       }
       if (!user) {
         d.signInGuard.failed(req, email);

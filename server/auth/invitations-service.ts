@@ -28,7 +28,9 @@ export interface InvitationsDeps {
 /** Invitations: a single-use, expiring e-mailed link that lets a new user set a password. */
 export function invitationsService({ db, mailer, config, clock }: InvitationsDeps) {
   async function usableInvitation(token: string): Promise<InvitationRow> {
-    const row = await db<InvitationRow>('invitations').where({ token_hash: hashToken(token) }).first();
+    const row = await db<InvitationRow>('invitations')
+      .where({ token_hash: hashToken(token) })
+      .first();
     if (!row) throw new NotFoundError('Invitation');
     if (row.used_at) throw new GoneError('This invitation has already been used. Sign in instead, or ask for a new one.', 'token_used');
     if (row.revoked_at || row.expires_at <= clock().toISOString()) {
@@ -85,23 +87,31 @@ export function invitationsService({ db, mailer, config, clock }: InvitationsDep
       });
       const clinic = await db('clinics').where({ id: input.clinicId }).first<{ name: string }>('name');
       try {
-        await mailer.send(elsewhere ? alreadyRegisteredNotice(input, clinic?.name ?? 'A clinic') : {
-          to: input.email,
-          subject: `You're invited to ${clinic?.name ?? 'your clinic'} on Trailframe`,
-          text: [
-            `Hello ${input.name},`,
-            '',
-            `${clinic?.name ?? 'Your clinic'} has invited you to Trailframe as ${input.role === 'athlete' ? 'an athlete' : 'a coach'}.`,
-            'Open this link to choose your password (it works once and expires in 7 days):',
-            '',
-            `${config.publicUrl}/invitation/${token}`,
-            '',
-            'If you did not expect this, you can ignore this message.',
-          ].join('\n'),
-        });
+        await mailer.send(
+          elsewhere
+            ? alreadyRegisteredNotice(input, clinic?.name ?? 'A clinic')
+            : {
+                to: input.email,
+                subject: `You're invited to ${clinic?.name ?? 'your clinic'} on Trailframe`,
+                text: [
+                  `Hello ${input.name},`,
+                  '',
+                  `${clinic?.name ?? 'Your clinic'} has invited you to Trailframe as ${input.role === 'athlete' ? 'an athlete' : 'a coach'}.`,
+                  'Open this link to choose your password (it works once and expires in 7 days):',
+                  '',
+                  `${config.publicUrl}/invitation/${token}`,
+                  '',
+                  'If you did not expect this, you can ignore this message.',
+                ].join('\n'),
+              },
+        );
       } catch (err) {
         await db('invitations').where({ id }).delete();
-        throw new AppError(502, 'mail_failed', `The invitation e-mail could not be sent (${(err as Error).message}). Nothing was saved; try again.`);
+        throw new AppError(
+          502,
+          'mail_failed',
+          `The invitation e-mail could not be sent (${(err as Error).message}). Nothing was saved; try again.`,
+        );
       }
       return {
         id,
@@ -126,7 +136,9 @@ export function invitationsService({ db, mailer, config, clock }: InvitationsDep
       const passwordHash = await hashPassword(password);
       return db.transaction(async (trx) => {
         // Re-read inside the transaction so two accepts of one link cannot both succeed.
-        const row = await trx<InvitationRow>('invitations').where({ token_hash: hashToken(token) }).first();
+        const row = await trx<InvitationRow>('invitations')
+          .where({ token_hash: hashToken(token) })
+          .first();
         if (!row || row.used_at) throw new GoneError('This invitation has already been used.', 'token_used');
         if (await usersRepository.findByEmail(trx, row.email)) {
           throw new ConflictError('Someone already has an account with this e-mail address.', 'email_in_use');

@@ -23,7 +23,9 @@ export interface PasswordResetsDeps {
 /** "Forgot password": a single-use, short-lived e-mailed link to choose a new password. */
 export function passwordResetsService({ db, mailer, config, clock, logger, onPasswordSet }: PasswordResetsDeps) {
   async function usableReset(token: string): Promise<PasswordResetRow> {
-    const row = await db<PasswordResetRow>('password_resets').where({ token_hash: hashToken(token) }).first();
+    const row = await db<PasswordResetRow>('password_resets')
+      .where({ token_hash: hashToken(token) })
+      .first();
     if (!row) throw new NotFoundError('Reset link');
     if (row.used_at) throw new GoneError('This reset link has already been used. Ask for a new one.', 'token_used');
     if (row.expires_at <= clock().toISOString()) {
@@ -82,7 +84,9 @@ export function passwordResetsService({ db, mailer, config, clock, logger, onPas
       await usableReset(token);
       const passwordHash = await hashPassword(password);
       const email = await db.transaction(async (trx) => {
-        const row = await trx<PasswordResetRow>('password_resets').where({ token_hash: hashToken(token) }).first();
+        const row = await trx<PasswordResetRow>('password_resets')
+          .where({ token_hash: hashToken(token) })
+          .first();
         if (!row || row.used_at) throw new GoneError('This reset link has already been used.', 'token_used');
         const at = clock().toISOString();
         await trx('password_resets').where({ id: row.id }).update({ used_at: at });

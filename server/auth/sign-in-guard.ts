@@ -44,11 +44,20 @@ export interface SignInGuard {
  * correct password after the wait clears the count. Counts live in memory, like the per-address
  * limit's.
  */
-export function signInGuard(d: { secret: string; accountAttempts: number; windowMs: number; secureCookies: boolean; clock: () => Date }): SignInGuard {
+export function signInGuard(d: {
+  secret: string;
+  accountAttempts: number;
+  windowMs: number;
+  secureCookies: boolean;
+  clock: () => Date;
+}): SignInGuard {
   const key = crypto.createHmac('sha256', d.secret).update('trailframe known device').digest();
   const accounts = new Map<string, Failures>();
   const devices = new Map<string, Failures>();
-  const norm = (email: string) => String(email ?? '').trim().toLowerCase();
+  const norm = (email: string) =>
+    String(email ?? '')
+      .trim()
+      .toLowerCase();
   const mac = (email: string, nonce: string) => crypto.createHmac('sha256', key).update(`${email}\n${nonce}`).digest('base64url');
 
   const live = (map: Map<string, Failures>, k: string, now: number): Failures | undefined => {
@@ -130,5 +139,9 @@ export function signInGuard(d: { secret: string; accountAttempts: number; window
 /** The 429 for an account that must wait (same for addresses without an account). */
 export function accountWaitError(seconds: number): AppError {
   const minutes = Math.ceil(seconds / 60);
-  return new AppError(429, 'too_many_attempts', `Too many failed sign-ins for this account. Try again in ${minutes === 1 ? 'a minute' : `${minutes} minutes`}, or reset your password.`);
+  return new AppError(
+    429,
+    'too_many_attempts',
+    `Too many failed sign-ins for this account. Try again in ${minutes === 1 ? 'a minute' : `${minutes} minutes`}, or reset your password.`,
+  );
 }

@@ -19,15 +19,15 @@ export const usersRepository = {
       .leftJoin('athletes as a', 'a.user_id', 'u.id')
       .where('u.id', id)
       .andWhere('u.active', true)
-      .first<{ id: number; email: string; name: string; role: SessionUser['role']; clinic_id: number; clinic_name: string; athlete_id: number | null }>(
-        'u.id',
-        'u.email',
-        'u.name',
-        'u.role',
-        'u.clinic_id',
-        'c.name as clinic_name',
-        'a.id as athlete_id',
-      );
+      .first<{
+        id: number;
+        email: string;
+        name: string;
+        role: SessionUser['role'];
+        clinic_id: number;
+        clinic_name: string;
+        athlete_id: number | null;
+      }>('u.id', 'u.email', 'u.name', 'u.role', 'u.clinic_id', 'c.name as clinic_name', 'a.id as athlete_id');
     if (!row) return null;
     return {
       id: row.id,

@@ -1,7 +1,21 @@
 import { z } from 'zod';
-import { CURRENCIES, INVOICE_STATUSES, MANUAL_PAYMENT_METHODS, MAX_AMOUNT_MINOR, MAX_QUANTITY, MAX_TAX_RATE_BP, PAYMENT_NOTE_MAX } from '../../src/contracts/billing';
+import {
+  CURRENCIES,
+  INVOICE_STATUSES,
+  MANUAL_PAYMENT_METHODS,
+  MAX_AMOUNT_MINOR,
+  MAX_QUANTITY,
+  MAX_TAX_RATE_BP,
+  PAYMENT_NOTE_MAX,
+} from '../../src/contracts/billing';
 
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2026-12-31.').refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), 'Not a real calendar date.');
+const isoDate = z
+  .string()
+  .regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2026-12-31.')
+  .refine(
+    (s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s),
+    'Not a real calendar date.',
+  );
 
 /** An amount in minor units: a whole, positive number of cents, at most 1,000,000.00. */
 export const AmountMinor = z
@@ -18,7 +32,8 @@ export const TaxRateBp = z
   .max(MAX_TAX_RATE_BP, 'The tax rate must be at most 100 % (10000 basis points).')
   .nullable();
 
-const text = (max: number, what: string) => z.string().trim().min(1, `${what} is required.`).max(max, `${what}: at most ${max} characters.`);
+const text = (max: number, what: string) =>
+  z.string().trim().min(1, `${what} is required.`).max(max, `${what}: at most ${max} characters.`);
 
 export const PriceBody = z.strictObject({
   item: text(80, 'Item'),
@@ -35,7 +50,11 @@ export const SettingsBody = z.strictObject({ currency: z.enum(CURRENCIES, { mess
 export const LineBody = z.strictObject({
   priceId: z.number().int().positive().nullable().default(null),
   description: text(120, 'Description'),
-  quantity: z.number().int('Quantity must be a whole number.').min(1, 'Quantity must be at least 1.').max(MAX_QUANTITY, `Quantity must be at most ${MAX_QUANTITY}.`),
+  quantity: z
+    .number()
+    .int('Quantity must be a whole number.')
+    .min(1, 'Quantity must be at least 1.')
+    .max(MAX_QUANTITY, `Quantity must be at most ${MAX_QUANTITY}.`),
   unitAmountMinor: AmountMinor,
   taxRateBp: TaxRateBp.default(null),
 });

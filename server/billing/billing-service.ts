@@ -121,15 +121,24 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
    */
   async function checkReferences(trx: Db, clinicId: number, w: InvoiceWrite, keptPriceIds: Set<number>): Promise<void> {
     const athlete = await trx('athletes').where({ id: w.athleteId, clinic_id: clinicId }).first('id');
-    if (!athlete) throw new ValidationError('athleteId: no such athlete in this clinic.', [{ path: ['athleteId'], message: 'No such athlete in this clinic.' }]);
+    if (!athlete)
+      throw new ValidationError('athleteId: no such athlete in this clinic.', [
+        { path: ['athleteId'], message: 'No such athlete in this clinic.' },
+      ]);
     if (w.assessmentId !== null) {
       const a = await trx('assessments').where({ id: w.assessmentId, clinic_id: clinicId, athlete_id: w.athleteId }).first('id');
-      if (!a) throw new ValidationError("assessmentId: not one of this athlete's assessments.", [{ path: ['assessmentId'], message: "Not one of this athlete's assessments." }]);
+      if (!a)
+        throw new ValidationError("assessmentId: not one of this athlete's assessments.", [
+          { path: ['assessmentId'], message: "Not one of this athlete's assessments." },
+        ]);
     }
     for (const [i, l] of w.lines.entries()) {
       if (l.priceId === null) continue;
       const p = await prices.find(trx, clinicId, l.priceId);
-      if (!p || (p.archived_at && !keptPriceIds.has(l.priceId))) throw new ValidationError(`lines.${i}.priceId: no such price in the list.`, [{ path: ['lines', i, 'priceId'], message: 'No such price in the list.' }]);
+      if (!p || (p.archived_at && !keptPriceIds.has(l.priceId)))
+        throw new ValidationError(`lines.${i}.priceId: no such price in the list.`, [
+          { path: ['lines', i, 'priceId'], message: 'No such price in the list.' },
+        ]);
     }
   }
 
@@ -137,7 +146,17 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
   function lineRows(w: InvoiceWrite) {
     return w.lines.map((l, position) => {
       const a = lineAmounts(l);
-      return { position, price_id: l.priceId, description: l.description, quantity: l.quantity, unit_amount_minor: l.unitAmountMinor, tax_rate_bp: l.taxRateBp, net_minor: a.netMinor, tax_minor: a.taxMinor, total_minor: a.totalMinor };
+      return {
+        position,
+        price_id: l.priceId,
+        description: l.description,
+        quantity: l.quantity,
+        unit_amount_minor: l.unitAmountMinor,
+        tax_rate_bp: l.taxRateBp,
+        net_minor: a.netMinor,
+        tax_minor: a.taxMinor,
+        total_minor: a.totalMinor,
+      };
     });
   }
 
@@ -165,7 +184,8 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
       requireOwner(user);
       await db.transaction(async (trx) => {
         const used = await trx('invoices').where({ clinic_id: user.clinicId }).whereNot({ currency: s.currency }).first('id');
-        if (used) throw new ConflictError('Invoices already exist in the current currency; the currency cannot change now.', 'currency_in_use');
+        if (used)
+          throw new ConflictError('Invoices already exist in the current currency; the currency cannot change now.', 'currency_in_use');
         await trx('clinics').where({ id: user.clinicId }).update({ currency: s.currency });
         await prices.setCurrency(trx, user.clinicId, s.currency);
       });
@@ -228,11 +248,33 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
         return invoices.insert(
           trx,
           {
-            clinic_id: user.clinicId, athlete_id: w.athleteId, assessment_id: w.assessmentId, number: null, status: 'draft', currency,
-            subtotal_minor: totals.subtotalMinor, tax_minor: totals.taxMinor, total_minor: totals.totalMinor, due_date: w.dueDate, note: w.note,
-            checkout_session_id: null, checkout_state: 'none', payment_intent_id: null, refund_id: null, created_by: user.id,
-            issued_at: null, paid_at: null, cancelled_at: null, refunded_at: null, created_at: at, updated_at: at,
-            payment_method: null, paid_on: null, payment_note: null, refund_note: null, payment_recorded_by: null,
+            clinic_id: user.clinicId,
+            athlete_id: w.athleteId,
+            assessment_id: w.assessmentId,
+            number: null,
+            status: 'draft',
+            currency,
+            subtotal_minor: totals.subtotalMinor,
+            tax_minor: totals.taxMinor,
+            total_minor: totals.totalMinor,
+            due_date: w.dueDate,
+            note: w.note,
+            checkout_session_id: null,
+            checkout_state: 'none',
+            payment_intent_id: null,
+            refund_id: null,
+            created_by: user.id,
+            issued_at: null,
+            paid_at: null,
+            cancelled_at: null,
+            refunded_at: null,
+            created_at: at,
+            updated_at: at,
+            payment_method: null,
+            paid_on: null,
+            payment_note: null,
+            refund_note: null,
+            payment_recorded_by: null,
           },
           lineRows(w),
         );
@@ -254,8 +296,14 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
         await checkReferences(trx, user.clinicId, w, kept);
         const totals = invoiceTotals(w.lines);
         const patch = {
-          athlete_id: w.athleteId, assessment_id: w.assessmentId, due_date: w.dueDate, note: w.note,
-          subtotal_minor: totals.subtotalMinor, tax_minor: totals.taxMinor, total_minor: totals.totalMinor, updated_at: now(),
+          athlete_id: w.athleteId,
+          assessment_id: w.assessmentId,
+          due_date: w.dueDate,
+          note: w.note,
+          subtotal_minor: totals.subtotalMinor,
+          tax_minor: totals.taxMinor,
+          total_minor: totals.totalMinor,
+          updated_at: now(),
         };
         if (!(await invoices.replaceDraft(trx, id, patch, lineRows(w)))) throw notDraftAnymore();
       });
@@ -277,7 +325,8 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
     async issue(user: SessionUser, id: number): Promise<InvoiceDetail> {
       requireOwner(user);
       const row = await loadRow(user, id);
-      if (row.status !== 'draft') throw new ConflictError(`Only a draft can be issued; this invoice is ${row.status}.`, 'invalid_transition');
+      if (row.status !== 'draft')
+        throw new ConflictError(`Only a draft can be issued; this invoice is ${row.status}.`, 'invalid_transition');
       const at = now();
       const number = await db.transaction(async (trx) => {
         const n = await invoices.nextNumber(trx, user.clinicId, clock().getUTCFullYear());
@@ -302,7 +351,10 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
       const row = await loadRow(user, id);
       const at = now();
       if (!(await invoices.transition(db, row.id, ['draft', 'issued'], { status: 'cancelled', cancelled_at: at, updated_at: at }))) {
-        throw new ConflictError(`Only a draft or issued invoice can be cancelled; this one is ${row.status}${row.status === 'paid' ? ' (refund it instead)' : ''}.`, 'invalid_transition');
+        throw new ConflictError(
+          `Only a draft or issued invoice can be cancelled; this one is ${row.status}${row.status === 'paid' ? ' (refund it instead)' : ''}.`,
+          'invalid_transition',
+        );
       }
       return reload(user, id);
     },
@@ -315,16 +367,32 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
     async recordPayment(user: SessionUser, id: number, w: ManualPaymentWrite): Promise<InvoiceDetail> {
       requireOwner(user);
       const row = await loadRow(user, id);
-      if (row.status !== 'issued') throw new ConflictError(`Only an issued invoice can be marked paid; this one is ${row.status}.`, 'invalid_transition');
+      if (row.status !== 'issued')
+        throw new ConflictError(`Only an issued invoice can be marked paid; this one is ${row.status}.`, 'invalid_transition');
       const today = now().slice(0, 10);
-      if (w.paidOn > today) throw new ValidationError('paidOn: the payment date cannot be in the future.', [{ path: ['paidOn'], message: 'The payment date cannot be in the future.' }]);
+      if (w.paidOn > today)
+        throw new ValidationError('paidOn: the payment date cannot be in the future.', [
+          { path: ['paidOn'], message: 'The payment date cannot be in the future.' },
+        ]);
       if (row.issued_at && w.paidOn < row.issued_at.slice(0, 10)) {
-        throw new ValidationError('paidOn: before the invoice was issued.', [{ path: ['paidOn'], message: `The payment date cannot be before the invoice was issued (${row.issued_at.slice(0, 10)}).` }]);
+        throw new ValidationError('paidOn: before the invoice was issued.', [
+          { path: ['paidOn'], message: `The payment date cannot be before the invoice was issued (${row.issued_at.slice(0, 10)}).` },
+        ]);
       }
       const at = now();
-      const patch = { status: 'paid' as const, paid_at: at, paid_on: w.paidOn, payment_method: w.method, payment_note: w.note || null, payment_recorded_by: user.id, checkout_state: 'none' as const, updated_at: at };
+      const patch = {
+        status: 'paid' as const,
+        paid_at: at,
+        paid_on: w.paidOn,
+        payment_method: w.method,
+        payment_note: w.note || null,
+        payment_recorded_by: user.id,
+        checkout_state: 'none' as const,
+        updated_at: at,
+      };
       // A card payment page opened earlier can no longer go through: only `issued` invoices are paid by the webhook.
-      if (!(await invoices.transition(db, row.id, ['issued'], patch))) throw new ConflictError('The invoice changed meanwhile; reload it.', 'invalid_transition');
+      if (!(await invoices.transition(db, row.id, ['issued'], patch)))
+        throw new ConflictError('The invoice changed meanwhile; reload it.', 'invalid_transition');
       const clinic = await clinicOf(user.clinicId);
       await mailSafely(row.athlete_email, `Payment received for invoice ${row.number}`, [
         `Hello ${row.first_name},`,
@@ -332,7 +400,9 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
         `${clinic.name} has received your payment of ${formatMinor(row.total_minor)} ${row.currency} for invoice ${row.number} by ${METHOD_WORDS[w.method]}. Thank you.`,
         ...(row.athlete_user_id !== null
           ? ['Your receipt is in your portal:', '', portalLink(row.id)]
-          : [`Ask ${clinic.name} for your receipt if you need one. To see your invoices online, accept the invitation they send to this address, then sign in and open "My invoices".`]),
+          : [
+              `Ask ${clinic.name} for your receipt if you need one. To see your invoices online, accept the invitation they send to this address, then sign in and open "My invoices".`,
+            ]),
       ]);
       return reload(user, id);
     },
@@ -345,10 +415,18 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
     async refund(user: SessionUser, id: number, note?: string): Promise<InvoiceDetail> {
       requireOwner(user);
       const row = await loadRow(user, id);
-      if (row.status !== 'paid') throw new ConflictError(`Only a paid invoice can be refunded; this one is ${row.status}.`, 'invalid_transition');
+      if (row.status !== 'paid')
+        throw new ConflictError(`Only a paid invoice can be refunded; this one is ${row.status}.`, 'invalid_transition');
       const at = now();
       if (row.payment_method === 'bank_transfer' || row.payment_method === 'cash') {
-        if (!(await invoices.transition(db, row.id, ['paid'], { status: 'refunded', refunded_at: at, refund_note: note || null, updated_at: at }))) {
+        if (
+          !(await invoices.transition(db, row.id, ['paid'], {
+            status: 'refunded',
+            refunded_at: at,
+            refund_note: note || null,
+            updated_at: at,
+          }))
+        ) {
           throw new ConflictError('The invoice changed meanwhile; reload it.', 'invalid_transition');
         }
         return reload(user, id);
@@ -357,7 +435,14 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
       const p = needPayments();
       const pi = row.payment_intent_id;
       const result = await provider('refund', () => p.refund(pi, `refund-invoice-${row.id}`));
-      if (result.succeeded) await invoices.transition(db, row.id, ['paid'], { status: 'refunded', refunded_at: at, refund_id: result.id, refund_note: note || null, updated_at: at });
+      if (result.succeeded)
+        await invoices.transition(db, row.id, ['paid'], {
+          status: 'refunded',
+          refunded_at: at,
+          refund_id: result.id,
+          refund_note: note || null,
+          updated_at: at,
+        });
       else await invoices.update(db, row.id, { refund_id: result.id, updated_at: at });
       return reload(user, id);
     },
@@ -388,7 +473,8 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
     /** The receipt PDF of a paid (or since refunded) invoice. */
     async receipt(user: SessionUser, id: number): Promise<{ pdf: Buffer; filename: string }> {
       const d = await reload(user, id);
-      if (d.status !== 'paid' && d.status !== 'refunded') throw new ConflictError('A receipt exists once the invoice is paid.', 'receipt_not_available');
+      if (d.status !== 'paid' && d.status !== 'refunded')
+        throw new ConflictError('A receipt exists once the invoice is paid.', 'receipt_not_available');
       return { pdf: await renderReceipt(d), filename: `receipt-${d.number}.pdf` };
     },
 
@@ -433,10 +519,25 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
         const row = invoiceId ? await invoices.findById(trx, invoiceId) : undefined;
         if (!row) return true;
         if (confirmed) {
-          const matches = confirmed.paid && confirmed.amountMinor === row.total_minor && confirmed.currency === row.currency && !!confirmed.paymentIntentId;
+          const matches =
+            confirmed.paid &&
+            confirmed.amountMinor === row.total_minor &&
+            confirmed.currency === row.currency &&
+            !!confirmed.paymentIntentId;
           if (!matches) {
             logger.warn({ invoiceId: row.id, session: confirmed.id }, 'payment event does not match the invoice; not marked paid');
-          } else if (await invoices.transition(trx, row.id, ['issued'], { status: 'paid', paid_at: at, paid_on: at.slice(0, 10), payment_method: 'card', payment_intent_id: confirmed.paymentIntentId, checkout_session_id: confirmed.id, checkout_state: 'none', updated_at: at })) {
+          } else if (
+            await invoices.transition(trx, row.id, ['issued'], {
+              status: 'paid',
+              paid_at: at,
+              paid_on: at.slice(0, 10),
+              payment_method: 'card',
+              payment_intent_id: confirmed.paymentIntentId,
+              checkout_session_id: confirmed.id,
+              checkout_state: 'none',
+              updated_at: at,
+            })
+          ) {
             newlyPaid = row;
           } else if (row.status === 'cancelled' || (row.status === 'paid' && row.payment_method !== 'card')) {
             // Paid on a payment page opened before the invoice was cancelled, or before the owner
@@ -446,10 +547,16 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
             logger.warn({ invoiceId: row.id, status: row.status }, 'payment for an invoice that is not issued');
           }
         } else if (event.type === 'checkout.session.async_payment_failed') {
-          if (row.status === 'issued' && row.checkout_session_id === o['id']) await invoices.update(trx, row.id, { checkout_state: 'failed', updated_at: at });
+          if (row.status === 'issued' && row.checkout_session_id === o['id'])
+            await invoices.update(trx, row.id, { checkout_state: 'failed', updated_at: at });
         } else if (refund) {
           if (refundsWholeInvoice(refund, row)) {
-            await invoices.transition(trx, row.id, ['paid'], { status: 'refunded', refunded_at: at, updated_at: at, ...(refund.refundId ? { refund_id: refund.refundId } : {}) });
+            await invoices.transition(trx, row.id, ['paid'], {
+              status: 'refunded',
+              refunded_at: at,
+              updated_at: at,
+              ...(refund.refundId ? { refund_id: refund.refundId } : {}),
+            });
           } else if (row.status === 'paid') {
             logger.warn({ invoiceId: row.id, eventId: event.id }, 'refund not confirmed for the whole invoice; left paid');
           }
@@ -459,7 +566,9 @@ export function billingService({ db, mailer, config, logger, clock, payments }: 
       if (!handled) return { duplicate: true };
       if (refundVoided) {
         const pi = refundVoided;
-        await provider('refund an invoice that is no longer payable', () => p.refund(pi, `refund-void-${invoiceId}-${pi}`)).catch((err) => logger.error({ err, invoiceId }, 'a cancelled or already paid invoice was paid by card and the refund failed; refund it by hand'));
+        await provider('refund an invoice that is no longer payable', () => p.refund(pi, `refund-void-${invoiceId}-${pi}`)).catch((err) =>
+          logger.error({ err, invoiceId }, 'a cancelled or already paid invoice was paid by card and the refund failed; refund it by hand'),
+        );
       }
       const paid = newlyPaid as InvoiceRow | null;
       if (paid) {

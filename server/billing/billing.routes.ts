@@ -1,7 +1,16 @@
 import express, { Router } from 'express';
 import { currentUser, requireRole, requireSignedIn } from '../http/access';
 import { idParam as id, parse } from '../http/validate';
-import { InvoiceBody, InvoiceQueryParams, ManualPaymentBody, PriceBody, PricePatchBody, PriceQuery, RefundBody, SettingsBody } from './billing-schemas';
+import {
+  InvoiceBody,
+  InvoiceQueryParams,
+  ManualPaymentBody,
+  PriceBody,
+  PricePatchBody,
+  PriceQuery,
+  RefundBody,
+  SettingsBody,
+} from './billing-schemas';
 import type { BillingService } from './billing-service';
 import type { InvoiceQuery } from '../../src/contracts/billing';
 import { contentDisposition } from '../http/file-names';

@@ -1,6 +1,15 @@
 import type { Knex } from 'knex';
 import type { AssessmentKind } from '../../src/contracts/assessment';
-import type { CheckoutState, ClinicLegalDetails, InvoiceDetail, InvoiceLine, InvoiceQuery, InvoiceStatus, InvoiceSummary, PaymentMethod } from '../../src/contracts/billing';
+import type {
+  CheckoutState,
+  ClinicLegalDetails,
+  InvoiceDetail,
+  InvoiceLine,
+  InvoiceQuery,
+  InvoiceStatus,
+  InvoiceSummary,
+  PaymentMethod,
+} from '../../src/contracts/billing';
 
 /** An `invoices` row joined with the athlete's name. */
 export interface InvoiceRow {
@@ -92,7 +101,10 @@ export const toLine = (l: InvoiceLineRow): InvoiceLine => ({
 export const toDetail = (r: InvoiceRow, lines: InvoiceLineRow[], clinicName: string, clinicLegal: ClinicLegalDetails): InvoiceDetail => ({
   ...toSummary(r),
   assessmentId: r.assessment_id,
-  assessment: r.assessment_id !== null && r.assessment_kind && r.assessment_date ? { id: r.assessment_id, kind: r.assessment_kind, date: r.assessment_date } : null,
+  assessment:
+    r.assessment_id !== null && r.assessment_kind && r.assessment_date
+      ? { id: r.assessment_id, kind: r.assessment_kind, date: r.assessment_date }
+      : null,
   note: r.note,
   clinicName,
   subtotalMinor: r.subtotal_minor,
@@ -109,7 +121,15 @@ export const toDetail = (r: InvoiceRow, lines: InvoiceLineRow[], clinicName: str
 });
 
 /** Columns of an {@link InvoiceRow}: the invoice, its athlete's name and contact, the billed assessment. */
-const COLUMNS = ['i.*', 'a.first_name', 'a.last_name', 'a.email as athlete_email', 'a.user_id as athlete_user_id', 's.kind as assessment_kind', 's.date as assessment_date'];
+const COLUMNS = [
+  'i.*',
+  'a.first_name',
+  'a.last_name',
+  'a.email as athlete_email',
+  'a.user_id as athlete_user_id',
+  's.kind as assessment_kind',
+  's.date as assessment_date',
+];
 
 function joined(db: Knex) {
   return db('invoices as i').join('athletes as a', 'a.id', 'i.athlete_id').leftJoin('assessments as s', 's.id', 'i.assessment_id');
@@ -144,7 +164,11 @@ export const invoicesRepository = {
   lines(db: Knex, invoiceId: number): Promise<InvoiceLineRow[]> {
     return db<InvoiceLineRow>('invoice_lines').where({ invoice_id: invoiceId }).orderBy('position');
   },
-  async insert(trx: Knex, row: Omit<InvoiceRow, 'id' | 'first_name' | 'last_name' | 'athlete_email' | 'athlete_user_id' | 'assessment_kind' | 'assessment_date'>, lines: Omit<InvoiceLineRow, 'id' | 'invoice_id'>[]): Promise<number> {
+  async insert(
+    trx: Knex,
+    row: Omit<InvoiceRow, 'id' | 'first_name' | 'last_name' | 'athlete_email' | 'athlete_user_id' | 'assessment_kind' | 'assessment_date'>,
+    lines: Omit<InvoiceLineRow, 'id' | 'invoice_id'>[],
+  ): Promise<number> {
     const [r] = await trx('invoices').insert(row).returning('id');
     const id = (r as { id: number }).id;
     await trx('invoice_lines').insert(lines.map((l) => ({ ...l, invoice_id: id })));
@@ -162,7 +186,12 @@ export const invoicesRepository = {
    * Replaces a draft's fields and all its lines, only while it is still a draft; answers whether
    * it was (run inside a transaction).
    */
-  async replaceDraft(trx: Knex, id: number, patch: Partial<InvoiceRow>, lines: Omit<InvoiceLineRow, 'id' | 'invoice_id'>[]): Promise<boolean> {
+  async replaceDraft(
+    trx: Knex,
+    id: number,
+    patch: Partial<InvoiceRow>,
+    lines: Omit<InvoiceLineRow, 'id' | 'invoice_id'>[],
+  ): Promise<boolean> {
     const n = await trx('invoices').where({ id, status: 'draft' }).update(patch);
     if (n === 0) return false;
     await trx('invoice_lines').where({ invoice_id: id }).delete();
@@ -183,13 +212,21 @@ export const invoicesRepository = {
   /** The next number of the clinic for the year: TF-2026-0001, TF-2026-0002, … */
   async nextNumber(trx: Knex, clinicId: number, year: number): Promise<string> {
     const prefix = `TF-${year}-`;
-    const row = await trx('invoices').where({ clinic_id: clinicId }).andWhere('number', 'like', `${prefix}%`).max<{ n: string | null }>('number as n').first();
+    const row = await trx('invoices')
+      .where({ clinic_id: clinicId })
+      .andWhere('number', 'like', `${prefix}%`)
+      .max<{ n: string | null }>('number as n')
+      .first();
     const last = row?.n ? Number(row.n.slice(prefix.length)) : 0;
     return `${prefix}${String(last + 1).padStart(4, '0')}`;
   },
   /** Records a webhook event id; false when it was already there (handled before). */
   async recordEvent(trx: Knex, id: string, type: string, invoiceId: number | null, at: string): Promise<boolean> {
-    const rows = await trx('payment_events').insert({ id, type, invoice_id: invoiceId, received_at: at }).onConflict('id').ignore().returning('id');
+    const rows = await trx('payment_events')
+      .insert({ id, type, invoice_id: invoiceId, received_at: at })
+      .onConflict('id')
+      .ignore()
+      .returning('id');
     return rows.length > 0;
   },
 };

@@ -111,7 +111,12 @@ export function stripePayments(config: PaymentsConfig): Payments {
       const session = await stripe.checkout.sessions.create(
         {
           mode: 'payment',
-          line_items: [{ quantity: 1, price_data: { currency: r.currency.toLowerCase(), unit_amount: r.amountMinor, product_data: { name: r.description } } }],
+          line_items: [
+            {
+              quantity: 1,
+              price_data: { currency: r.currency.toLowerCase(), unit_amount: r.amountMinor, product_data: { name: r.description } },
+            },
+          ],
           customer_email: r.customerEmail ?? undefined,
           client_reference_id: String(r.invoiceId),
           metadata: { invoice_id: String(r.invoiceId) },

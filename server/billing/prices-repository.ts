@@ -37,7 +37,16 @@ export const pricesRepository = {
   },
   async insert(db: Knex, clinicId: number, currency: string, w: PriceWrite, at: string): Promise<number> {
     const [row] = await db('prices')
-      .insert({ clinic_id: clinicId, item: w.item, description: w.description, amount_minor: w.amountMinor, currency, tax_rate_bp: w.taxRateBp, created_at: at, updated_at: at })
+      .insert({
+        clinic_id: clinicId,
+        item: w.item,
+        description: w.description,
+        amount_minor: w.amountMinor,
+        currency,
+        tax_rate_bp: w.taxRateBp,
+        created_at: at,
+        updated_at: at,
+      })
       .returning('id');
     return (row as { id: number }).id;
   },

@@ -79,17 +79,31 @@ export function renderReceipt(inv: InvoiceDetail): Promise<Buffer> {
     doc.x = left;
     doc.y = bottom + 4;
   };
-  row(cols.map((c) => c.label), 'semibold');
-  doc.moveTo(left, doc.y).lineTo(left + width, doc.y).strokeColor('#c9d4cf').stroke();
+  row(
+    cols.map((c) => c.label),
+    'semibold',
+  );
+  doc
+    .moveTo(left, doc.y)
+    .lineTo(left + width, doc.y)
+    .strokeColor('#c9d4cf')
+    .stroke();
   doc.y += 4;
   for (const l of inv.lines) {
     row([l.description, String(l.quantity), formatMinor(l.unitAmountMinor), rate(l.taxRateBp), money(l.totalMinor)], 'regular');
   }
-  doc.moveTo(left, doc.y).lineTo(left + width, doc.y).strokeColor('#c9d4cf').stroke();
+  doc
+    .moveTo(left, doc.y)
+    .lineTo(left + width, doc.y)
+    .strokeColor('#c9d4cf')
+    .stroke();
   doc.y += 6;
   const total = (label: string, value: string, font: string) => {
     const y = doc.y;
-    doc.font(font).fontSize(font === 'bold' ? 12 : 10).fillColor('#000');
+    doc
+      .font(font)
+      .fontSize(font === 'bold' ? 12 : 10)
+      .fillColor('#000');
     doc.text(label, left + width * 0.4, y, { width: width * 0.36, align: 'right' });
     doc.text(value, left + width * 0.76, y, { width: width * 0.24, align: 'right' });
     doc.x = left;
@@ -99,12 +113,21 @@ export function renderReceipt(inv: InvoiceDetail): Promise<Buffer> {
   total('Total paid', money(inv.totalMinor), 'bold');
   doc.moveDown();
   if (inv.status === 'refunded') {
-    const how = inv.paymentMethod === 'card' || inv.paymentMethod === null ? 'to the card' : `by the clinic (${PAID_BY[inv.paymentMethod]} payment)`;
-    doc.font('bold').fontSize(12).fillColor('#a33a1f').text(`Refunded on ${day(inv.refundedAt)} ${how}: ${money(inv.totalMinor)}`, left);
+    const how =
+      inv.paymentMethod === 'card' || inv.paymentMethod === null ? 'to the card' : `by the clinic (${PAID_BY[inv.paymentMethod]} payment)`;
+    doc
+      .font('bold')
+      .fontSize(12)
+      .fillColor('#a33a1f')
+      .text(`Refunded on ${day(inv.refundedAt)} ${how}: ${money(inv.totalMinor)}`, left);
     if (inv.refundNote) doc.font('regular').fontSize(10).fillColor(MUTED).text(`Refund note: ${inv.refundNote}`, left);
     doc.moveDown(0.5);
   }
-  doc.font('italic').fontSize(9).fillColor(MUTED).text('Tax is computed per line and rounded half-up to the cent. Keep this receipt for your records.', left);
+  doc
+    .font('italic')
+    .fontSize(9)
+    .fillColor(MUTED)
+    .text('Tax is computed per line and rounded half-up to the cent. Keep this receipt for your records.', left);
   doc.end();
   return done;
 }

@@ -26,7 +26,13 @@ export async function confirmRefundEvent(payments: Payments, event: PaymentEvent
   try {
     if (event.type === 'charge.refunded') {
       const c = await payments.retrieveCharge(id);
-      return { paymentIntentId: c.paymentIntentId, refundedMinor: c.amountRefundedMinor, currency: c.currency, done: c.refunded, refundId: null };
+      return {
+        paymentIntentId: c.paymentIntentId,
+        refundedMinor: c.amountRefundedMinor,
+        currency: c.currency,
+        done: c.refunded,
+        refundId: null,
+      };
     }
     const r = await payments.retrieveRefund(id);
     return { paymentIntentId: r.paymentIntentId, refundedMinor: r.amountMinor, currency: r.currency, done: r.succeeded, refundId: r.id };

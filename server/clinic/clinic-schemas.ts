@@ -11,7 +11,11 @@ const addressLines = (s: string) =>
 
 /** Body of PUT /api/clinic/legal-details: every field given; legal name and address required. */
 export const LegalDetailsBody = z.strictObject({
-  legalName: z.string('Give the legal name.').trim().min(1, 'The legal name is required: invoices must name the seller.').max(L.legalName, `Legal name: at most ${L.legalName} characters.`),
+  legalName: z
+    .string('Give the legal name.')
+    .trim()
+    .min(1, 'The legal name is required: invoices must name the seller.')
+    .max(L.legalName, `Legal name: at most ${L.legalName} characters.`),
   address: z
     .string('Give the address.')
     .transform(addressLines)
@@ -27,5 +31,9 @@ export const LegalDetailsBody = z.strictObject({
     .trim()
     .max(L.taxNumber, `Tax number: at most ${L.taxNumber} characters.`)
     .regex(/^[A-Za-z0-9 .\-/]*$/, 'Tax number: letters, digits, spaces, dots, dashes and slashes only.'),
-  contactLine: z.string('Give a contact line, or leave it empty.').trim().max(L.contactLine, `Contact line: at most ${L.contactLine} characters.`).refine((s) => !/[\r\n]/.test(s), 'Contact line: one line only.'),
+  contactLine: z
+    .string('Give a contact line, or leave it empty.')
+    .trim()
+    .max(L.contactLine, `Contact line: at most ${L.contactLine} characters.`)
+    .refine((s) => !/[\r\n]/.test(s), 'Contact line: one line only.'),
 });

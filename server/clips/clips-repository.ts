@@ -73,12 +73,17 @@ export const clipsRepository = {
 
   /** Whether the clip has any landmark or gait event (its settings then shape the measures). */
   async isMarked(db: Knex, id: number): Promise<boolean> {
-    const [landmark, event] = await Promise.all([db('clip_landmarks').where({ clip_id: id }).first('clip_id'), db('gait_events').where({ clip_id: id }).first('clip_id')]);
+    const [landmark, event] = await Promise.all([
+      db('clip_landmarks').where({ clip_id: id }).first('clip_id'),
+      db('gait_events').where({ clip_id: id }).first('clip_id'),
+    ]);
     return Boolean(landmark || event);
   },
 
   async update(db: Knex, id: number, patch: Partial<ClipRow>): Promise<void> {
-    await db('clips').where({ id }).update({ ...patch, updated_at: new Date().toISOString() });
+    await db('clips')
+      .where({ id })
+      .update({ ...patch, updated_at: new Date().toISOString() });
   },
 };
 

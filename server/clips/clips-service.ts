@@ -73,9 +73,15 @@ export function clipsService(d: ClipsDeps) {
   }
 
   async function requireVideoConsent(athleteId: number): Promise<void> {
-    const consent = await db('consents').where({ athlete_id: athleteId, kind: 'video_recording' }).orderBy('id', 'desc').first<{ granted: number } | undefined>();
+    const consent = await db('consents')
+      .where({ athlete_id: athleteId, kind: 'video_recording' })
+      .orderBy('id', 'desc')
+      .first<{ granted: number } | undefined>();
     if (!consent?.granted) {
-      throw new ConflictError('Record the athlete’s consent to video recording (in the intake) before uploading clips.', 'consent_required');
+      throw new ConflictError(
+        'Record the athlete’s consent to video recording (in the intake) before uploading clips.',
+        'consent_required',
+      );
     }
   }
 
@@ -126,7 +132,11 @@ export function clipsService(d: ClipsDeps) {
         }
         const container = sniffContainer(head);
         if (!container) {
-          throw new MediaError('not_video', 'This file is not a video we can read. Upload an MP4, MOV, WebM, MKV, AVI or 3GP clip.', 'unknown magic bytes');
+          throw new MediaError(
+            'not_video',
+            'This file is not a video we can read. Upload an MP4, MOV, WebM, MKV, AVI or 3GP clip.',
+            'unknown magic bytes',
+          );
         }
         const probe = await probeVideo(file.path);
         const at = new Date().toISOString();
@@ -161,7 +171,17 @@ export function clipsService(d: ClipsDeps) {
             updated_at: at,
           });
           await d.queue.enqueue(trx, EXTRACT_JOB, subjectOf(clipId), { clipId });
-          await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: assessment.athlete_id, action: 'clip.uploaded', detail: { clipId, assessmentId, bytes: file.size } }, at);
+          await audit(
+            trx,
+            {
+              clinicId: user.clinicId,
+              actorId: user.id,
+              athleteId: assessment.athlete_id,
+              action: 'clip.uploaded',
+              detail: { clipId, assessmentId, bytes: file.size },
+            },
+            at,
+          );
           // Last step inside the transaction: if the move fails, no row is committed.
           await store.adopt(file.path, clipId, `original.${container}`);
         });
@@ -208,7 +228,13 @@ export function clipsService(d: ClipsDeps) {
         assertMayChangeClipSettings(user, await repo.isMarked(trx, clipId));
         await repo.update(trx, clipId, row);
         await trx('measure_snapshots').where({ clip_id: clipId }).delete();
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: current.athlete_id, action: 'clip.settings_changed', detail: { clipId, changes } });
+        await audit(trx, {
+          clinicId: user.clinicId,
+          actorId: user.id,
+          athleteId: current.athlete_id,
+          action: 'clip.settings_changed',
+          detail: { clipId, changes },
+        });
       });
       await emit(clipId);
       return view(clipId);
@@ -236,7 +262,12 @@ export function clipsService(d: ClipsDeps) {
     },
 
     /** Absolute path of a media file of a clip the user may see, or 404. */
-    async mediaPath(user: SessionUser, clipId: number, kind: 'frame' | 'thumb' | 'poster' | 'manifest' | 'original', n = 0): Promise<{ file: string; row: ClipRow }> {
+    async mediaPath(
+      user: SessionUser,
+      clipId: number,
+      kind: 'frame' | 'thumb' | 'poster' | 'manifest' | 'original',
+      n = 0,
+    ): Promise<{ file: string; row: ClipRow }> {
       const row = await accessibleClip(user, clipId);
       const dir = store.clipDir(clipId);
       let file: string;
@@ -314,7 +345,9 @@ export function clipsService(d: ClipsDeps) {
         }
         const attemptsLeft = job.maxAttempts - job.attempts;
         if (attemptsLeft > 0 && !signal.aborted) {
-          await repo.update(db, clipId, { status: 'queued', error: `Attempt ${job.attempts} failed; trying again shortly.` }).catch(() => undefined);
+          await repo
+            .update(db, clipId, { status: 'queued', error: `Attempt ${job.attempts} failed; trying again shortly.` })
+            .catch(() => undefined);
           await emit(clipId).catch(() => undefined);
         }
         throw err;
@@ -339,5 +372,9 @@ export type ClipsService = ReturnType<typeof clipsService>;
 /** 413 for uploads over the configured limit. */
 export function tooLarge(limitBytes: number): AppError {
   const mb = Math.round(limitBytes / 1024 / 1024);
-  return new AppError(413, 'file_too_large', `This file is larger than the ${mb >= 1024 ? `${(mb / 1024).toFixed(1)} GB` : `${mb} MB`} upload limit. Trim the clip to 10–20 seconds and try again.`);
+  return new AppError(
+    413,
+    'file_too_large',
+    `This file is larger than the ${mb >= 1024 ? `${(mb / 1024).toFixed(1)} GB` : `${mb} MB`} upload limit. Trim the clip to 10–20 seconds and try again.`,
+  );
 }

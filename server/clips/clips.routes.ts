@@ -83,7 +83,11 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
       if (err instanceof multer.MulterError) {
         if (err.code === 'LIMIT_FILE_SIZE') return next(tooLarge(d.uploadMaxBytes));
         if (err.code === 'LIMIT_FILE_COUNT' || err.code === 'LIMIT_UNEXPECTED_FILE') {
-          return next(new ValidationError('Upload one clip per request, in the form field "file".', [{ path: ['file'], message: 'One clip per request.' }]));
+          return next(
+            new ValidationError('Upload one clip per request, in the form field "file".', [
+              { path: ['file'], message: 'One clip per request.' },
+            ]),
+          );
         }
         return next(new AppError(400, 'bad_upload', `The upload could not be read (${err.message}). ${MULTIPART_HINT}`));
       }
@@ -125,7 +129,9 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
     receive,
     async (req, res) => {
       if (!req.file) {
-        throw new ValidationError('Choose a clip to upload (multipart form field "file").', [{ path: ['file'], message: 'A clip is required.' }]);
+        throw new ValidationError('Choose a clip to upload (multipart form field "file").', [
+          { path: ['file'], message: 'A clip is required.' },
+        ]);
       }
       const clip = await d.clips.acceptUpload(currentUser(req), idParam(req.params, 'Assessment'), req.file);
       res.status(201).json(clip);
@@ -187,14 +193,17 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
     await audit(d.db, { clinicId: user.clinicId, actorId: user.id, athleteId, action: 'media.viewed', detail: { clipId } });
   }
 
-  const sendMedia = (kind: 'frame' | 'thumb' | 'poster' | 'manifest' | 'original'): RequestHandler =>
+  const sendMedia =
+    (kind: 'frame' | 'thumb' | 'poster' | 'manifest' | 'original'): RequestHandler =>
     async (req, res, next) => {
       const params = MediaIndexParams.safeParse({ n: 0, ...req.params });
       if (!params.success) throw new NotFoundError('File');
       const user = currentUser(req);
       const { file, row } = await d.clips.mediaPath(user, params.data.id, kind, params.data.n);
       await auditView(req, user, row.id, row.athlete_id);
-      const headers: Record<string, string> = { 'Cache-Control': kind === 'original' || kind === 'manifest' ? 'private, no-cache' : IMMUTABLE };
+      const headers: Record<string, string> = {
+        'Cache-Control': kind === 'original' || kind === 'manifest' ? 'private, no-cache' : IMMUTABLE,
+      };
       if (kind === 'original') headers['Content-Disposition'] = contentDisposition(row.original_name);
       res.sendFile(file, { headers, cacheControl: false, dotfiles: 'deny', lastModified: false }, (err) => {
         if (err && !res.headersSent) next(new NotFoundError('File'));
@@ -214,7 +223,8 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
 function describeMultipartError(err: unknown): string {
   const message = (err as Error | undefined)?.message ?? '';
   if (/boundary not found/i.test(message)) return 'the Content-Type names no multipart boundary.';
-  if (/unexpected end of form/i.test(message)) return 'the body ended before the file was complete (empty, cut short, or a boundary that does not match the Content-Type).';
+  if (/unexpected end of form/i.test(message))
+    return 'the body ended before the file was complete (empty, cut short, or a boundary that does not match the Content-Type).';
   if (/malformed part header/i.test(message)) return 'a part header of the body is malformed.';
   if (/unsupported content type/i.test(message)) return 'the Content-Type is not multipart/form-data.';
   return 'the multipart body is malformed.';

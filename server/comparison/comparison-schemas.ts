@@ -5,7 +5,12 @@ import { MEASURE_KEYS } from '../../src/kinematics';
 const OptionalId = (label: string) =>
   z.preprocess(
     (v) => (v === '' ? undefined : v),
-    z.coerce.number(`${label} must be an assessment id.`).int(`${label} must be an assessment id.`).positive(`${label} must be an assessment id.`).max(Number.MAX_SAFE_INTEGER).optional(),
+    z.coerce
+      .number(`${label} must be an assessment id.`)
+      .int(`${label} must be an assessment id.`)
+      .positive(`${label} must be an assessment id.`)
+      .max(Number.MAX_SAFE_INTEGER)
+      .optional(),
   );
 
 /** `?baseline=&retest=`: both optional (latest Baseline and latest Re-test by default). */
@@ -19,7 +24,14 @@ export const TrendsQuery = z.object({
   keys: z
     .string()
     .optional()
-    .transform((s) => (s ? s.split(',').map((k) => k.trim()).filter(Boolean) : [...MEASURE_KEYS]))
+    .transform((s) =>
+      s
+        ? s
+            .split(',')
+            .map((k) => k.trim())
+            .filter(Boolean)
+        : [...MEASURE_KEYS],
+    )
     .pipe(
       z
         .array(z.string().refine((k) => (MEASURE_KEYS as string[]).includes(k), { message: 'Unknown measure key.' }))

@@ -11,17 +11,35 @@ import type { MeasuresService } from '../measures/measures-service';
 /** Baseline against re-test, and measure trends across an athlete's visits (staff). */
 export function comparisonService({ db, measures }: { db: Db; measures: MeasuresService }) {
   async function readyClips(assessmentId: number): Promise<ComparisonClip[]> {
-    const rows = await db('clips').where({ assessment_id: assessmentId, status: 'ready' }).orderBy('id').select<{ id: number; near_side: Side; direction: Direction; frame_count: number | null }[]>('id', 'near_side', 'direction', 'frame_count');
+    const rows = await db('clips')
+      .where({ assessment_id: assessmentId, status: 'ready' })
+      .orderBy('id')
+      .select<{ id: number; near_side: Side; direction: Direction; frame_count: number | null }[]>(
+        'id',
+        'near_side',
+        'direction',
+        'frame_count',
+      );
     return rows.map((r) => ({ id: r.id, nearSide: r.near_side, direction: r.direction, frameCount: r.frame_count }));
   }
 
-  async function pick(user: SessionUser, athleteId: number, id: number | undefined, kind: AssessmentKind, rows: AssessmentRow[]): Promise<AssessmentRow> {
+  async function pick(
+    user: SessionUser,
+    athleteId: number,
+    id: number | undefined,
+    kind: AssessmentKind,
+    rows: AssessmentRow[],
+  ): Promise<AssessmentRow> {
     if (id === undefined) {
       // rows are newest first
       const latest = rows.find((r) => r.kind === kind);
       if (!latest) {
         const label = ASSESSMENT_KIND_LABELS[kind];
-        throw new AppError(422, `no_${kind}`, `This athlete has no ${label} assessment yet. Add one, or choose the two assessments to compare.`);
+        throw new AppError(
+          422,
+          `no_${kind}`,
+          `This athlete has no ${label} assessment yet. Add one, or choose the two assessments to compare.`,
+        );
       }
       return latest;
     }

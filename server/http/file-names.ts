@@ -26,7 +26,10 @@ export function cleanFileName(name: string): string {
   if (chars.length <= FILE_NAME_MAX) return chars.join('') || 'clip';
   const dot = chars.lastIndexOf('.');
   const ext = dot > 0 && chars.length - dot <= EXTENSION_MAX ? chars.slice(dot) : [];
-  const stem = chars.slice(0, FILE_NAME_MAX - ext.length).join('').trimEnd();
+  const stem = chars
+    .slice(0, FILE_NAME_MAX - ext.length)
+    .join('')
+    .trimEnd();
   return stem + ext.join('');
 }
 

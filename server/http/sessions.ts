@@ -44,7 +44,13 @@ export interface Sessions {
  * rewrite it: the store ignores touches, and a signed-in session is saved with a new expiry (and
  * its cookie sent again) only when it was last extended over five minutes ago.
  */
-export function createSessions(d: { db: Knex; secret: string; secureCookies: boolean; clock: () => Date; logger: { warn(o: object, m: string): void } }): Sessions {
+export function createSessions(d: {
+  db: Knex;
+  secret: string;
+  secureCookies: boolean;
+  clock: () => Date;
+  logger: { warn(o: object, m: string): void };
+}): Sessions {
   const store = new SessionStore({ knex: d.db, tableName: 'sessions', createTable: false, cleanupInterval: 0 });
   const middleware = session({
     name: SESSION_COOKIE,

@@ -56,7 +56,14 @@ export interface JobQueue {
 }
 
 function toJob(row: JobRow, attempts: number): Job {
-  return { id: row.id, type: row.type, subject: row.subject, payload: JSON.parse(row.payload) as Record<string, unknown>, attempts, maxAttempts: row.max_attempts };
+  return {
+    id: row.id,
+    type: row.type,
+    subject: row.subject,
+    payload: JSON.parse(row.payload) as Record<string, unknown>,
+    attempts,
+    maxAttempts: row.max_attempts,
+  };
 }
 
 interface JobRow {
@@ -83,7 +90,9 @@ export function sqliteJobQueue(db: Db, opts: { leaseMs: number; maxAttempts: num
 
   /** Ends a job failed and, in the same transaction, its subject. */
   async function endFailed(trx: Knex, job: Job, reason: string): Promise<void> {
-    await trx('jobs').where({ id: job.id }).update({ status: 'failed', error: reason.slice(0, 1000), lease_until: null, updated_at: now() });
+    await trx('jobs')
+      .where({ id: job.id })
+      .update({ status: 'failed', error: reason.slice(0, 1000), lease_until: null, updated_at: now() });
     await failures.get(job.type)?.fail(trx, job, reason);
   }
 
@@ -99,7 +108,17 @@ export function sqliteJobQueue(db: Db, opts: { leaseMs: number; maxAttempts: num
     async enqueue(trx, type, subject, payload) {
       const at = now();
       const [row] = await trx('jobs')
-        .insert({ type, subject, payload: JSON.stringify(payload), status: 'queued', attempts: 0, max_attempts: opts.maxAttempts, run_after: at, created_at: at, updated_at: at })
+        .insert({
+          type,
+          subject,
+          payload: JSON.stringify(payload),
+          status: 'queued',
+          attempts: 0,
+          max_attempts: opts.maxAttempts,
+          run_after: at,
+          created_at: at,
+          updated_at: at,
+        })
         .returning('id');
       return (row as { id: number }).id;
     },
@@ -126,7 +145,9 @@ export function sqliteJobQueue(db: Db, opts: { leaseMs: number; maxAttempts: num
             ended.push(job);
             return 'ended' as const;
           }
-          await trx('jobs').where({ id: row.id }).update({ status: 'running', attempts: row.attempts + 1, lease_until: leaseEnd(), updated_at: at });
+          await trx('jobs')
+            .where({ id: row.id })
+            .update({ status: 'running', attempts: row.attempts + 1, lease_until: leaseEnd(), updated_at: at });
           held.add(row.id);
           return toJob(row, row.attempts + 1);
         });
@@ -159,7 +180,13 @@ export function sqliteJobQueue(db: Db, opts: { leaseMs: number; maxAttempts: num
         }
         await trx('jobs')
           .where({ id: job.id })
-          .update({ status: 'queued', error: message, lease_until: null, run_after: new Date(clock().getTime() + retryInMs).toISOString(), updated_at: now() });
+          .update({
+            status: 'queued',
+            error: message,
+            lease_until: null,
+            run_after: new Date(clock().getTime() + retryInMs).toISOString(),
+            updated_at: now(),
+          });
         return false;
       });
       if (applied) notify(job);
@@ -174,7 +201,10 @@ export function sqliteJobQueue(db: Db, opts: { leaseMs: number; maxAttempts: num
     },
 
     async cancelSubject(subject) {
-      await db('jobs').where({ subject }).whereIn('status', ['queued', 'running']).update({ status: 'failed', error: 'cancelled', lease_until: null, updated_at: now() });
+      await db('jobs')
+        .where({ subject })
+        .whereIn('status', ['queued', 'running'])
+        .update({ status: 'failed', error: 'cancelled', lease_until: null, updated_at: now() });
     },
   };
 }

@@ -42,9 +42,12 @@ export function startWorker(o: WorkerOptions): Worker {
   };
 
   async function runJob(job: Job, controller: AbortController): Promise<void> {
-    const beat = setInterval(() => {
-      o.queue.heartbeat(job).catch((err: Error) => o.logger.warn({ err: err.message, jobId: job.id }, 'job heartbeat failed'));
-    }, Math.max(250, o.leaseMs / 3));
+    const beat = setInterval(
+      () => {
+        o.queue.heartbeat(job).catch((err: Error) => o.logger.warn({ err: err.message, jobId: job.id }, 'job heartbeat failed'));
+      },
+      Math.max(250, o.leaseMs / 3),
+    );
     const handler = o.handlers[job.type];
     try {
       if (!handler) throw new PermanentJobError(`No handler for job type ${job.type}`);
@@ -61,7 +64,10 @@ export function startWorker(o: WorkerOptions): Worker {
         return;
       }
       // A final failure fails the job's subject too (the queue applies it in one transaction).
-      const final = await o.queue.fail(job, message, { final: err instanceof PermanentJobError, retryInMs: 2_000 * 2 ** (job.attempts - 1) });
+      const final = await o.queue.fail(job, message, {
+        final: err instanceof PermanentJobError,
+        retryInMs: 2_000 * 2 ** (job.attempts - 1),
+      });
       o.logger.warn({ jobId: job.id, type: job.type, attempt: job.attempts, final, err: message }, 'job failed');
     } finally {
       clearInterval(beat);
@@ -80,9 +86,9 @@ export function startWorker(o: WorkerOptions): Worker {
         entry.done = runJob(job, controller)
           .catch((err: Error) => o.logger.error({ err: err.message, jobId: job.id }, 'could not record the end of a job'))
           .finally(() => {
-          running.delete(job.id);
-          void pump();
-        });
+            running.delete(job.id);
+            void pump();
+          });
         running.set(job.id, entry);
       }
     } catch (err) {

@@ -58,7 +58,11 @@ async function handle(db: Db, req: http.IncomingMessage, res: http.ServerRespons
     return send(res, 200, page('Demo inbox', listHtml(rows)));
   }
   const m = /^\/messages\/([1-9]\d{0,9})$/.exec(path ?? '');
-  const row = m ? await db<MailboxRow>('mailbox_messages').where({ id: Number(m[1]) }).first() : undefined;
+  const row = m
+    ? await db<MailboxRow>('mailbox_messages')
+        .where({ id: Number(m[1]) })
+        .first()
+    : undefined;
   if (!row) return send(res, 404, page('Not found', '<p>No such message. <a href="/">Back to the inbox</a></p>'));
   return send(res, 200, page(row.subject, messageHtml(row)));
 }

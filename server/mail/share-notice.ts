@@ -21,10 +21,16 @@ export async function sendShareNotice(
   athleteId: number,
   kind: SharedKind,
 ): Promise<boolean> {
-  const row = await d.db('athletes as a')
+  const row = await d
+    .db('athletes as a')
     .join('clinics as c', 'c.id', 'a.clinic_id')
     .where('a.id', athleteId)
-    .first<{ email: string | null; first_name: string; user_id: number | null; clinic_name: string } | undefined>('a.email', 'a.first_name', 'a.user_id', 'c.name as clinic_name');
+    .first<{ email: string | null; first_name: string; user_id: number | null; clinic_name: string } | undefined>(
+      'a.email',
+      'a.first_name',
+      'a.user_id',
+      'c.name as clinic_name',
+    );
   if (!row?.email || !row.user_id) {
     d.logger.info({ athleteId, kind }, 'share notice not sent: athlete has no account');
     return false;

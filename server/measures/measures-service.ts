@@ -26,7 +26,9 @@ export function measuresService({ db, store, clips }: { db: Db; store: MediaStor
 
   /** Computes a clip's measures from its annotations (pure kinematics; no writes). */
   async function compute(trx: Knex, clip: ClipRow, annotations: ClipAnnotations): Promise<ClipMeasures> {
-    const assessment = await trx('assessments').where({ id: clip.assessment_id }).first<{ surface: string; speed_mps: number | null; clinic_id: number }>('surface', 'speed_mps', 'clinic_id');
+    const assessment = await trx('assessments')
+      .where({ id: clip.assessment_id })
+      .first<{ surface: string; speed_mps: number | null; clinic_id: number }>('surface', 'speed_mps', 'clinic_id');
     const manifest = manifestOf(clip.id);
     const bands = await clinicBands(trx, clip.clinic_id);
     // A slow-motion file plays slower than it was filmed: with a capture rate set, its own
@@ -48,14 +50,23 @@ export function measuresService({ db, store, clips }: { db: Db; store: MediaStor
 
   async function store_(trx: Knex, clip: ClipRow, revision: number, measures: ClipMeasures): Promise<void> {
     await trx('measure_snapshots')
-      .insert({ clip_id: clip.id, assessment_id: clip.assessment_id, annotation_revision: revision, kinematics_version: KINEMATICS_VERSION, measures: JSON.stringify(measures), computed_at: new Date().toISOString() })
+      .insert({
+        clip_id: clip.id,
+        assessment_id: clip.assessment_id,
+        annotation_revision: revision,
+        kinematics_version: KINEMATICS_VERSION,
+        measures: JSON.stringify(measures),
+        computed_at: new Date().toISOString(),
+      })
       .onConflict('clip_id')
       .merge();
   }
 
   /** The snapshot when it matches the current revision and kinematics version, else a fresh one. */
   async function forClipRow(clip: ClipRow): Promise<ClipMeasures> {
-    const snapshot = await db('measure_snapshots').where({ clip_id: clip.id }).first<{ annotation_revision: number; kinematics_version: string; measures: string } | undefined>();
+    const snapshot = await db('measure_snapshots')
+      .where({ clip_id: clip.id })
+      .first<{ annotation_revision: number; kinematics_version: string; measures: string } | undefined>();
     const current = await db('clips').where({ id: clip.id }).first<{ annotation_revision: number }>('annotation_revision');
     if (snapshot && snapshot.annotation_revision === current?.annotation_revision && snapshot.kinematics_version === KINEMATICS_VERSION) {
       return JSON.parse(snapshot.measures) as ClipMeasures;

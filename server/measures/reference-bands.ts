@@ -14,7 +14,10 @@ export const BandBody = z
     evidence: z.enum(['pub', 'mem', 'trade', 'calc'], 'Evidence is pub, mem, trade or calc.'),
   })
   .refine((b) => b.low !== null || b.high !== null, { message: 'Give at least one limit.', path: ['low'] })
-  .refine((b) => b.low === null || b.high === null || b.low <= b.high, { message: 'The lower limit must not exceed the upper limit.', path: ['high'] });
+  .refine((b) => b.low === null || b.high === null || b.low <= b.high, {
+    message: 'The lower limit must not exceed the upper limit.',
+    path: ['high'],
+  });
 export type BandInput = z.output<typeof BandBody>;
 
 /** Whether `key` names a measure. */
@@ -34,7 +37,9 @@ interface BandRow {
 
 /** A clinic's bands: its own edits first, then the defaults for keys it has not edited. */
 export async function clinicBands(db: Knex, clinicId: number): Promise<ReferenceBand[]> {
-  const own = await db('reference_bands').where({ clinic_id: clinicId }).select<BandRow[]>('key', 'low', 'high', 'unit', 'context', 'source', 'evidence');
+  const own = await db('reference_bands')
+    .where({ clinic_id: clinicId })
+    .select<BandRow[]>('key', 'low', 'high', 'unit', 'context', 'source', 'evidence');
   const edited = new Set(own.map((b) => b.key));
   return [...own.map((b) => ({ ...b })), ...DEFAULT_REFERENCE_BANDS.filter((b) => !edited.has(b.key))];
 }

@@ -86,9 +86,33 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
       .inputOptions(inputOptions)
       .complexFilter(filterGraph(run.frame, run.thumb, run.every, run.scaler, opts.scaleFlags ?? DEFAULT_SCALE_FLAGS))
       .output(path.join(run.staging, FRAMES_DIR, '%06d.jpg'))
-      .outputOptions(['-map', '[frames]', '-fps_mode', 'passthrough', '-c:v', 'mjpeg', ...pixel, '-q:v', String(run.quality), '-f', 'image2'])
+      .outputOptions([
+        '-map',
+        '[frames]',
+        '-fps_mode',
+        'passthrough',
+        '-c:v',
+        'mjpeg',
+        ...pixel,
+        '-q:v',
+        String(run.quality),
+        '-f',
+        'image2',
+      ])
       .output(path.join(run.staging, THUMBS_DIR, '%06d.jpg'))
-      .outputOptions(['-map', '[thumbs]', '-fps_mode', 'passthrough', '-c:v', 'mjpeg', ...pixel, '-q:v', String(THUMB_QUALITY), '-f', 'image2'])
+      .outputOptions([
+        '-map',
+        '[thumbs]',
+        '-fps_mode',
+        'passthrough',
+        '-c:v',
+        'mjpeg',
+        ...pixel,
+        '-q:v',
+        String(THUMB_QUALITY),
+        '-f',
+        'image2',
+      ])
       // An abort that came while fluent-ffmpeg was still preparing finds no process to kill.
       .on('start', () => {
         if (opts.signal?.aborted) command.kill('SIGKILL');
@@ -104,7 +128,11 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
       .on('error', (err: Error, _stdout: string | null, stderr: string | null) => {
         opts.signal?.removeEventListener('abort', onAbort);
         if (opts.signal?.aborted) return reject(aborted());
-        const tail = (stderr ?? '').split('\n').filter((l) => l && !l.includes('showinfo')).slice(-8).join('\n');
+        const tail = (stderr ?? '')
+          .split('\n')
+          .filter((l) => l && !l.includes('showinfo'))
+          .slice(-8)
+          .join('\n');
         const failure = extractFailure(`${err.message}\n${tail}`, logged.length);
         reject(run.scaler === 'zscale' && ZSCALE_TROUBLE.test(`${err.message}\n${tail}`) ? new ScalerFailed(failure) : failure);
       });

@@ -12,14 +12,7 @@ import { AppError } from '../errors';
  * - `tool_missing`: ffmpeg/ffprobe could not be started.
  */
 export type MediaErrorCode =
-  | 'empty_file'
-  | 'not_video'
-  | 'no_video_stream'
-  | 'truncated'
-  | 'probe_failed'
-  | 'extract_failed'
-  | 'aborted'
-  | 'tool_missing';
+  'empty_file' | 'not_video' | 'no_video_stream' | 'truncated' | 'probe_failed' | 'extract_failed' | 'aborted' | 'tool_missing';
 
 const STATUS: Record<MediaErrorCode, number> = {
   empty_file: 422,

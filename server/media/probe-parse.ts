@@ -104,11 +104,19 @@ export function mainVideoStream(data: ProbeData): Record<string, unknown> | unde
 export function parseProbe(data: ProbeData): Omit<VideoProbe, 'frameCount' | 'frameCountSource'> & { frameCount: number | null } {
   const formatName = String(data.format['format_name'] ?? '');
   if (IMAGE_OR_TEXT_FORMATS.test(formatName)) {
-    throw new MediaError('not_video', 'This file is a still image or text, not a video. Upload the clip itself (MP4, MOV, WebM, MKV, AVI or 3GP).', `format_name=${formatName}`);
+    throw new MediaError(
+      'not_video',
+      'This file is a still image or text, not a video. Upload the clip itself (MP4, MOV, WebM, MKV, AVI or 3GP).',
+      `format_name=${formatName}`,
+    );
   }
   const video = mainVideoStream(data);
   if (!video) {
-    throw new MediaError('no_video_stream', 'This file has no video track (it may be audio only). Upload the clip itself.', `streams=${data.streams.map((s) => s['codec_type']).join(',')}`);
+    throw new MediaError(
+      'no_video_stream',
+      'This file has no video track (it may be audio only). Upload the clip itself.',
+      `streams=${data.streams.map((s) => s['codec_type']).join(',')}`,
+    );
   }
   const width = num(video['width']);
   const height = num(video['height']);
@@ -116,7 +124,11 @@ export function parseProbe(data: ProbeData): Omit<VideoProbe, 'frameCount' | 'fr
   const r = parseRational(video['r_frame_rate']);
   const fps = avg ?? r;
   if (!width || !height || !fps) {
-    throw new MediaError('probe_failed', 'We could not read this clip’s frame size or frame rate.', `width=${width} height=${height} avg=${String(video['avg_frame_rate'])} r=${String(video['r_frame_rate'])}`);
+    throw new MediaError(
+      'probe_failed',
+      'We could not read this clip’s frame size or frame rate.',
+      `width=${width} height=${height} avg=${String(video['avg_frame_rate'])} r=${String(video['r_frame_rate'])}`,
+    );
   }
   const rotation = displayRotation(video);
   const sar = sampleAspect(video['sample_aspect_ratio']);

@@ -42,7 +42,11 @@ export function probeFailure(err: Error, sniffed: ContainerKind | null): MediaEr
   }
   const isoFamily = sniffed === 'mp4' || sniffed === 'mov' || sniffed === '3gp';
   if (sniffed && (/moov atom not found/.test(text) ? isoFamily : /End of file|partial file|truncat/i.test(text))) {
-    return new MediaError('truncated', 'The clip ends early — the recording or upload may have been cut short. Please upload it again.', text);
+    return new MediaError(
+      'truncated',
+      'The clip ends early — the recording or upload may have been cut short. Please upload it again.',
+      text,
+    );
   }
   if (/Invalid data found when processing input|moov atom not found|could not find codec parameters/i.test(text)) {
     return new MediaError('not_video', 'This file is not a video we can read. Upload an MP4, MOV, WebM, MKV, AVI or 3GP clip.', text);
@@ -80,7 +84,11 @@ export async function probeVideo(file: string): Promise<VideoProbe> {
   }
   const frameCount = Number(counted.streams[0]?.['nb_read_frames']);
   if (!Number.isFinite(frameCount) || frameCount <= 0) {
-    throw new MediaError('probe_failed', 'This clip has no frames we can decode.', `nb_read_frames=${String(counted.streams[0]?.['nb_read_frames'])}`);
+    throw new MediaError(
+      'probe_failed',
+      'This clip has no frames we can decode.',
+      `nb_read_frames=${String(counted.streams[0]?.['nb_read_frames'])}`,
+    );
   }
   return { ...parsed, frameCount, frameCountSource: 'count_frames' };
 }

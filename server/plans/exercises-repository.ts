@@ -29,11 +29,27 @@ export interface ExerciseRow {
 export type DoseColumns = Pick<ExerciseRow, 'sets' | 'reps' | 'hold_seconds' | 'tempo' | 'load' | 'rest_seconds' | 'days_per_week'>;
 
 export function doseColumns(d: Dose): DoseColumns {
-  return { sets: d.sets, reps: d.reps, hold_seconds: d.holdSeconds, tempo: d.tempo, load: d.load, rest_seconds: d.restSeconds, days_per_week: d.daysPerWeek };
+  return {
+    sets: d.sets,
+    reps: d.reps,
+    hold_seconds: d.holdSeconds,
+    tempo: d.tempo,
+    load: d.load,
+    rest_seconds: d.restSeconds,
+    days_per_week: d.daysPerWeek,
+  };
 }
 
 export function doseFromRow(r: DoseColumns): Dose {
-  return { sets: r.sets, reps: r.reps, holdSeconds: r.hold_seconds, tempo: r.tempo, load: r.load, restSeconds: r.rest_seconds, daysPerWeek: r.days_per_week };
+  return {
+    sets: r.sets,
+    reps: r.reps,
+    holdSeconds: r.hold_seconds,
+    tempo: r.tempo,
+    load: r.load,
+    restSeconds: r.rest_seconds,
+    daysPerWeek: r.days_per_week,
+  };
 }
 
 /** Escapes `%`, `_` and `\` for a LIKE pattern (with `ESCAPE '\'`). */
@@ -51,7 +67,9 @@ export const exercisesRepository = {
 
   byIds(db: Knex, clinicId: number, ids: number[]): Promise<ExerciseRow[]> {
     if (ids.length === 0) return Promise.resolve([]);
-    return db<ExerciseRow>('exercises').where({ clinic_id: clinicId }).whereIn('id', [...new Set(ids)]);
+    return db<ExerciseRow>('exercises')
+      .where({ clinic_id: clinicId })
+      .whereIn('id', [...new Set(ids)]);
   },
 
   search(db: Knex, clinicId: number, q: ExerciseQueryInput): Promise<ExerciseRow[]> {

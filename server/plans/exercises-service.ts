@@ -18,7 +18,8 @@ export function exercisesService({ db, clock }: { db: Db; clock: () => Date }) {
 
   async function checkNameFree(user: SessionUser, name: string, exceptId?: number): Promise<void> {
     const other = await repo.findByName(db, user.clinicId, name);
-    if (other && other.id !== exceptId) throw new ConflictError(`The library already has an exercise called “${other.name}”.`, 'exercise_name_taken');
+    if (other && other.id !== exceptId)
+      throw new ConflictError(`The library already has an exercise called “${other.name}”.`, 'exercise_name_taken');
   }
 
   return {
@@ -70,7 +71,11 @@ export function exercisesService({ db, clock }: { db: Db; clock: () => Date }) {
       if (patch.source !== undefined) changes.source = patch.source;
       await db.transaction(async (trx) => {
         await repo.update(trx, user.clinicId, id, changes);
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, action: 'exercise.updated', detail: { exerciseId: id, fields: Object.keys(patch) } }, at);
+        await audit(
+          trx,
+          { clinicId: user.clinicId, actorId: user.id, action: 'exercise.updated', detail: { exerciseId: id, fields: Object.keys(patch) } },
+          at,
+        );
       });
       return this.get(user, id);
     },

@@ -121,7 +121,11 @@ export const plansRepository = {
   /** The stages' exercises as the plan has them now (not the removed ones). */
   stageExercises(db: Knex, stageIds: number[]): Promise<StageExerciseRow[]> {
     if (stageIds.length === 0) return Promise.resolve([]);
-    return db<StageExerciseRow>('stage_exercises').whereIn('stage_id', stageIds).whereNull('removed_at').orderBy('stage_id').orderBy('position');
+    return db<StageExerciseRow>('stage_exercises')
+      .whereIn('stage_id', stageIds)
+      .whereNull('removed_at')
+      .orderBy('stage_id')
+      .orderBy('position');
   },
 
   /** Exercises the coach removed from a stage, by id (a session logged offline may still name them). */
@@ -148,7 +152,10 @@ export const plansRepository = {
 
   async logCountByStage(db: Knex, stageIds: number[]): Promise<Map<number, number>> {
     if (stageIds.length === 0) return new Map();
-    const rows = await db('log_entries').whereIn('stage_id', stageIds).groupBy('stage_id').select<{ stage_id: number; n: number }[]>('stage_id', db.raw('COUNT(*) AS n'));
+    const rows = await db('log_entries')
+      .whereIn('stage_id', stageIds)
+      .groupBy('stage_id')
+      .select<{ stage_id: number; n: number }[]>('stage_id', db.raw('COUNT(*) AS n'));
     return new Map(rows.map((r) => [r.stage_id, Number(r.n)]));
   },
 

@@ -22,7 +22,8 @@ const Pain = (label: string) =>
 
 const Required = (max: number, label: string) =>
   z.string(`${label} is required.`).trim().min(1, `${label} is required.`).max(max, `${label} must be at most ${max} characters.`);
-const Text = (max: number, label: string) => z.string(`${label} must be text.`).trim().max(max, `${label} must be at most ${max} characters.`);
+const Text = (max: number, label: string) =>
+  z.string(`${label} must be text.`).trim().max(max, `${label} must be at most ${max} characters.`);
 const NullableText = (max: number, label: string) => z.preprocess(emptyToNull, Text(max, label).nullable());
 
 export const DoseBody = z

@@ -72,7 +72,9 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
     const plan = await repo.find(db, user.clinicId, id);
     if (!plan) throw new NotFoundError('Plan');
     if (!isStaff(user)) {
-      const athlete = await db('athletes').where({ id: plan.athlete_id, clinic_id: user.clinicId }).first<{ user_id: number | null } | undefined>();
+      const athlete = await db('athletes')
+        .where({ id: plan.athlete_id, clinic_id: user.clinicId })
+        .first<{ user_id: number | null } | undefined>();
       if (!athlete || athlete.user_id !== user.id || plan.status === 'draft') throw new NotFoundError('Plan');
     }
     return plan;
@@ -88,8 +90,17 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
     const [stages, rules, logs, assessments] = await Promise.all([
       repo.stages(db, ids),
       repo.rules(db, ids),
-      repo.logs(db, plans.filter((p) => p.status === 'active' || p.status === 'paused').map((p) => p.id), addDays(today(), -28)),
-      db('assessments').whereIn('id', plans.map((p) => p.assessment_id).filter((x): x is number => x !== null)).select<{ id: number; date: string }[]>('id', 'date'),
+      repo.logs(
+        db,
+        plans.filter((p) => p.status === 'active' || p.status === 'paused').map((p) => p.id),
+        addDays(today(), -28),
+      ),
+      db('assessments')
+        .whereIn(
+          'id',
+          plans.map((p) => p.assessment_id).filter((x): x is number => x !== null),
+        )
+        .select<{ id: number; date: string }[]>('id', 'date'),
     ]);
     return plans.map((p) => {
       const own = stages.filter((s) => s.plan_id === p.id);
@@ -105,7 +116,11 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
         currentStageId: current?.id ?? null,
         currentStageName: current?.name ?? null,
         currentStagePosition: current ? own.indexOf(current) + 1 : null,
-        alerts: alertsFor(p, logs.filter((l) => l.plan_id === p.id), rules.get(p.id) ?? repo.ruleDefault()),
+        alerts: alertsFor(
+          p,
+          logs.filter((l) => l.plan_id === p.id),
+          rules.get(p.id) ?? repo.ruleDefault(),
+        ),
         startedAt: p.started_at,
         finishedAt: p.finished_at,
         createdAt: p.created_at,
@@ -117,8 +132,15 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
   async function detail(user: SessionUser, plan: PlanRow): Promise<PlanDetail> {
     const [summary] = await summaries([plan]);
     const stages = await repo.stages(db, [plan.id]);
-    const items = await repo.stageExercises(db, stages.map((s) => s.id));
-    const exercises = await exercisesRepository.byIds(db, user.clinicId, items.map((i) => i.exercise_id));
+    const items = await repo.stageExercises(
+      db,
+      stages.map((s) => s.id),
+    );
+    const exercises = await exercisesRepository.byIds(
+      db,
+      user.clinicId,
+      items.map((i) => i.exercise_id),
+    );
     const rules = await repo.rules(db, [plan.id]);
     return {
       ...summary!,
@@ -154,7 +176,10 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
   async function checkAssessment(user: SessionUser, athleteId: number, assessmentId: number | null): Promise<void> {
     if (assessmentId === null) return;
     const row = await db('assessments').where({ id: assessmentId, clinic_id: user.clinicId, athlete_id: athleteId }).first();
-    if (!row) throw new ValidationError('Assessment: choose one of this athlete’s assessments.', [{ path: ['assessmentId'], message: 'Choose one of this athlete’s assessments.' }]);
+    if (!row)
+      throw new ValidationError('Assessment: choose one of this athlete’s assessments.', [
+        { path: ['assessmentId'], message: 'Choose one of this athlete’s assessments.' },
+      ]);
   }
 
   /** 422 unless every exercise is in this clinic's library (archived ones only if already used). */
@@ -166,7 +191,11 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
       s.exercises.forEach((e, j) => {
         const ex = found.get(e.exerciseId);
         if (!ex) problems.push({ path: ['stages', i, 'exercises', j, 'exerciseId'], message: 'Choose an exercise from the library.' });
-        else if (ex.archived && !alreadyUsed.has(ex.id)) problems.push({ path: ['stages', i, 'exercises', j, 'exerciseId'], message: `“${ex.name}” is archived; choose another exercise.` });
+        else if (ex.archived && !alreadyUsed.has(ex.id))
+          problems.push({
+            path: ['stages', i, 'exercises', j, 'exerciseId'],
+            message: `“${ex.name}” is archived; choose another exercise.`,
+          });
       }),
     );
     if (problems.length) throw new ValidationError(`Exercises: ${problems[0]!.message}`, problems);
@@ -178,15 +207,35 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
    * an id (an older client) takes the id of an unclaimed one of the same library exercise in that
    * stage, so an unchanged save renews nothing and logs queued offline still match.
    */
-  async function writeStages(trx: Knex, user: SessionUser, planId: number, input: PlanInput, existing: StageRow[], existingItems: StageExerciseRow[]): Promise<void> {
+  async function writeStages(
+    trx: Knex,
+    user: SessionUser,
+    planId: number,
+    input: PlanInput,
+    existing: StageRow[],
+    existingItems: StageExerciseRow[],
+  ): Promise<void> {
     for (const [i, s] of input.stages.entries()) {
-      const fields = { position: i + 1, name: s.name, goal: s.goal, target_weeks: s.targetWeeks, progression_text: s.progressionText, criteria: JSON.stringify(s.criteria) };
+      const fields = {
+        position: i + 1,
+        name: s.name,
+        goal: s.goal,
+        target_weeks: s.targetWeeks,
+        progression_text: s.progressionText,
+        criteria: JSON.stringify(s.criteria),
+      };
       let stageId: number;
       if (s.id !== undefined) {
         stageId = s.id;
         await repo.updateStage(trx, stageId, fields);
       } else {
-        stageId = await repo.insertStage(trx, { clinic_id: user.clinicId, plan_id: planId, ...fields, started_at: null, completed_at: null });
+        stageId = await repo.insertStage(trx, {
+          clinic_id: user.clinicId,
+          plan_id: planId,
+          ...fields,
+          started_at: null,
+          completed_at: null,
+        });
       }
       const claimed = new Set(s.exercises.map((e) => e.id).filter((id) => id !== undefined));
       const unclaimed = existingItems.filter((it) => it.stage_id === stageId && !claimed.has(it.id));
@@ -199,7 +248,15 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
             const at = unclaimed.findIndex((it) => it.exercise_id === e.exerciseId);
             if (at !== -1) id = unclaimed.splice(at, 1)[0]!.id;
           }
-          return { id, clinic_id: user.clinicId, stage_id: stageId, exercise_id: e.exerciseId, position: j + 1, ...doseColumns(e.dose), notes: e.notes };
+          return {
+            id,
+            clinic_id: user.clinicId,
+            stage_id: stageId,
+            exercise_id: e.exerciseId,
+            position: j + 1,
+            ...doseColumns(e.dose),
+            notes: e.notes,
+          };
         }),
         now(),
       );
@@ -217,8 +274,10 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
       s.exercises.forEach((e, j) => {
         if (e.id === undefined) return;
         const item = existingItems.find((it) => it.id === e.id);
-        if (!item || s.id === undefined || item.stage_id !== s.id) problems.push({ path: ['stages', i, 'exercises', j, 'id'], message: 'This exercise entry is not part of this stage.' });
-        else if (seen.has(e.id)) problems.push({ path: ['stages', i, 'exercises', j, 'id'], message: 'This exercise entry appears twice.' });
+        if (!item || s.id === undefined || item.stage_id !== s.id)
+          problems.push({ path: ['stages', i, 'exercises', j, 'id'], message: 'This exercise entry is not part of this stage.' });
+        else if (seen.has(e.id))
+          problems.push({ path: ['stages', i, 'exercises', j, 'id'], message: 'This exercise entry appears twice.' });
         seen.add(e.id);
       }),
     );
@@ -226,7 +285,9 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
   }
 
   async function logsWithStageNames(rows: LogRow[]): Promise<LogEntry[]> {
-    const stages = await db<StageRow>('plan_stages').whereIn('id', [...new Set(rows.map((r) => r.stage_id))]).select('id', 'name');
+    const stages = await db<StageRow>('plan_stages')
+      .whereIn('id', [...new Set(rows.map((r) => r.stage_id))])
+      .select('id', 'name');
     const names = new Map(stages.map((s) => [s.id, s.name]));
     return rows.map((r) => repo.logToApi(r, names.get(r.stage_id) ?? ''));
   }
@@ -248,7 +309,9 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
       await checkAssessment(user, athleteId, input.assessmentId);
       if (input.stages.some((s) => s.id !== undefined)) {
         const i = input.stages.findIndex((s) => s.id !== undefined);
-        throw new ValidationError('A new plan has no stage ids yet.', [{ path: ['stages', i, 'id'], message: 'Leave the id out for a new stage.' }]);
+        throw new ValidationError('A new plan has no stage ids yet.', [
+          { path: ['stages', i, 'id'], message: 'Leave the id out for a new stage.' },
+        ]);
       }
       const idProblems = checkStageExerciseIds(input, []);
       if (idProblems.length) throw new ValidationError(`Stages: ${idProblems[0]!.message}`, idProblems);
@@ -285,26 +348,40 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
       const existing = await repo.stages(db, [id]);
       const problems: { path: (string | number)[]; message: string }[] = [];
       input.stages.forEach((s, i) => {
-        if (s.id !== undefined && !existing.some((e) => e.id === s.id)) problems.push({ path: ['stages', i, 'id'], message: 'This stage is not part of the plan.' });
+        if (s.id !== undefined && !existing.some((e) => e.id === s.id))
+          problems.push({ path: ['stages', i, 'id'], message: 'This stage is not part of the plan.' });
       });
-      if (new Set(input.stages.map((s) => s.id).filter((x) => x !== undefined)).size !== input.stages.filter((s) => s.id !== undefined).length) {
+      if (
+        new Set(input.stages.map((s) => s.id).filter((x) => x !== undefined)).size !== input.stages.filter((s) => s.id !== undefined).length
+      ) {
         problems.push({ path: ['stages'], message: 'A stage appears twice.' });
       }
-      const existingItems = await repo.stageExercises(db, existing.map((s) => s.id));
+      const existingItems = await repo.stageExercises(
+        db,
+        existing.map((s) => s.id),
+      );
       problems.push(...checkStageExerciseIds(input, existingItems));
       if (problems.length) throw new ValidationError(`Stages: ${problems[0]!.message}`, problems);
       const kept = new Set(input.stages.map((s) => s.id));
       const removed = existing.filter((s) => !kept.has(s.id));
-      const counts = await repo.logCountByStage(db, removed.map((s) => s.id));
+      const counts = await repo.logCountByStage(
+        db,
+        removed.map((s) => s.id),
+      );
       const blocked = removed.find((s) => s.id === plan.current_stage_id || (counts.get(s.id) ?? 0) > 0 || s.started_at !== null);
-      if (blocked) throw new ConflictError(`Stage “${blocked.name}” has started or has log entries, so it cannot be removed.`, 'stage_in_use');
+      if (blocked)
+        throw new ConflictError(`Stage “${blocked.name}” has started or has log entries, so it cannot be removed.`, 'stage_in_use');
       const used = new Set(existingItems.map((e) => e.exercise_id));
       await checkExercises(user, input, used);
       const at = now();
       await db.transaction(async (trx) => {
         await repo.update(trx, id, { title: input.title, assessment_id: input.assessmentId, notes: input.notes, updated_at: at });
         await writeStages(trx, user, id, input, existing, existingItems);
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: plan.athlete_id, action: 'plan.updated', detail: { planId: id } }, at);
+        await audit(
+          trx,
+          { clinicId: user.clinicId, actorId: user.id, athleteId: plan.athlete_id, action: 'plan.updated', detail: { planId: id } },
+          at,
+        );
       });
       return this.get(user, id);
     },
@@ -314,7 +391,13 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
       if (plan.status !== 'draft') throw new ConflictError('Only a draft plan can be deleted; finish this one instead.', 'plan_not_draft');
       await db.transaction(async (trx) => {
         await trx('plans').where({ id }).delete();
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: plan.athlete_id, action: 'plan.deleted', detail: { planId: id } });
+        await audit(trx, {
+          clinicId: user.clinicId,
+          actorId: user.id,
+          athleteId: plan.athlete_id,
+          action: 'plan.deleted',
+          detail: { planId: id },
+        });
       });
     },
 
@@ -335,13 +418,19 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
             const items = await repo.stageExercises(trx, first ? [first.id] : []);
             if (!first || items.length === 0) refuse('Add at least one exercise to the first stage before starting.', 'plan_incomplete');
             const other = await repo.otherRunningPlan(trx, plan.athlete_id, id);
-            if (other) refuse(`This athlete already follows “${other.title}”. Finish it before starting another plan.`, 'athlete_has_active_plan');
+            if (other)
+              refuse(`This athlete already follows “${other.title}”. Finish it before starting another plan.`, 'athlete_has_active_plan');
             await repo.updateStage(trx, first!.id, { started_at: at, completed_at: null });
             await repo.update(trx, id, { status: 'active', current_stage_id: first!.id, started_at: at, updated_at: at });
             break;
           }
           case 'advance': {
-            if (plan.status !== 'active') refuse(plan.status === 'paused' ? 'Resume the plan before moving to the next stage.' : `The plan is ${plan.status}; it cannot move to another stage.`);
+            if (plan.status !== 'active')
+              refuse(
+                plan.status === 'paused'
+                  ? 'Resume the plan before moving to the next stage.'
+                  : `The plan is ${plan.status}; it cannot move to another stage.`,
+              );
             const next = stages.find((s) => current && s.position > current.position);
             if (!current || !next) refuse('This is the last stage; finish the plan instead.', 'last_stage');
             const items = await repo.stageExercises(trx, [next!.id]);
@@ -360,12 +449,17 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
             await repo.update(trx, id, { status: 'active', updated_at: at });
             break;
           case 'finish':
-            if (plan.status !== 'active' && plan.status !== 'paused') refuse(`The plan is ${plan.status}; only an active or paused plan can be finished.`);
+            if (plan.status !== 'active' && plan.status !== 'paused')
+              refuse(`The plan is ${plan.status}; only an active or paused plan can be finished.`);
             if (current) await repo.updateStage(trx, current.id, { completed_at: at });
             await repo.update(trx, id, { status: 'finished', finished_at: at, updated_at: at });
             break;
         }
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: plan.athlete_id, action: `plan.${action}`, detail: { planId: id } }, at);
+        await audit(
+          trx,
+          { clinicId: user.clinicId, actorId: user.id, athleteId: plan.athlete_id, action: `plan.${action}`, detail: { planId: id } },
+          at,
+        );
       });
       return this.get(user, id);
     },
@@ -375,7 +469,17 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
       const at = now();
       await db.transaction(async (trx) => {
         await repo.putRule(trx, user.clinicId, id, rule, user.id, at);
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: plan.athlete_id, action: 'plan.pain_rule_updated', detail: { planId: id, ...rule } }, at);
+        await audit(
+          trx,
+          {
+            clinicId: user.clinicId,
+            actorId: user.id,
+            athleteId: plan.athlete_id,
+            action: 'plan.pain_rule_updated',
+            detail: { planId: id, ...rule },
+          },
+          at,
+        );
       });
       return this.get(user, id);
     },
@@ -386,7 +490,10 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
       const day = today();
       const [stages, logs, rules] = await Promise.all([repo.stages(db, [id]), repo.logs(db, [id]), repo.rules(db, [id])]);
       const rule = rules.get(id) ?? repo.ruleDefault();
-      const items = await repo.stageExercises(db, stages.map((s) => s.id));
+      const items = await repo.stageExercises(
+        db,
+        stages.map((s) => s.id),
+      );
       const periods: StagePeriod[] = stages
         .filter((s) => s.started_at !== null)
         .map((s) => ({
@@ -401,8 +508,17 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
       return {
         planId: id,
         today: day,
-        adherence: plan.status === 'draft' ? [] : weeklyAdherence(periods, logs.map((l) => l.session_date), until),
-        pain: [...logs].reverse().map((l) => ({ date: l.session_date, painDuring: l.pain_during, morningPain: l.morning_pain, stageId: l.stage_id })),
+        adherence:
+          plan.status === 'draft'
+            ? []
+            : weeklyAdherence(
+                periods,
+                logs.map((l) => l.session_date),
+                until,
+              ),
+        pain: [...logs]
+          .reverse()
+          .map((l) => ({ date: l.session_date, painDuring: l.pain_during, morningPain: l.morning_pain, stageId: l.stage_id })),
         alerts: alertsFor(plan, logs, rule),
         progression:
           running && current
@@ -410,7 +526,13 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
                 { id: current.id, criteria: repo.criteria(current), startedAt: current.started_at },
                 logs
                   .filter((l) => l.stage_id === current.id)
-                  .map((l) => ({ id: l.id, date: l.session_date, painDuring: l.pain_during, morningPain: l.morning_pain, sets: JSON.parse(l.sets) })),
+                  .map((l) => ({
+                    id: l.id,
+                    date: l.session_date,
+                    painDuring: l.pain_during,
+                    morningPain: l.morning_pain,
+                    sets: JSON.parse(l.sets),
+                  })),
                 rule,
                 day,
                 next?.id ?? null,
@@ -425,7 +547,15 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
       const ids = plans.map((p) => p.id);
       const [logs, rules] = await Promise.all([repo.logs(db, ids, addDays(today(), -28)), repo.rules(db, ids)]);
       return plans
-        .map((p) => ({ athleteId: p.athlete_id, planId: p.id, alerts: alertsFor(p, logs.filter((l) => l.plan_id === p.id), rules.get(p.id) ?? repo.ruleDefault()) }))
+        .map((p) => ({
+          athleteId: p.athlete_id,
+          planId: p.id,
+          alerts: alertsFor(
+            p,
+            logs.filter((l) => l.plan_id === p.id),
+            rules.get(p.id) ?? repo.ruleDefault(),
+          ),
+        }))
         .filter((a) => a.alerts.length > 0);
     },
 
@@ -444,39 +574,81 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
         const existing = await repo.findLogByKey(db, input.key);
         if (!existing) return null;
         if (existing.plan_id !== id || existing.athlete_id !== plan.athlete_id) {
-          throw new ConflictError('This submission key was already used for another log entry. Send the session again with a new key.', 'idempotency_key_reused');
+          throw new ConflictError(
+            'This submission key was already used for another log entry. Send the session again with a new key.',
+            'idempotency_key_reused',
+          );
         }
         return { entry: (await logsWithStageNames([existing]))[0]!, created: false };
       };
       const earlier = await replay();
       if (earlier) return earlier;
 
-      if (plan.status !== 'active') throw new ConflictError(`This plan is ${plan.status}; sessions can be logged only while it is active.`, 'plan_not_active');
+      if (plan.status !== 'active')
+        throw new ConflictError(`This plan is ${plan.status}; sessions can be logged only while it is active.`, 'plan_not_active');
       const stage = (await repo.stages(db, [id])).find((s) => s.id === input.stageId);
-      if (!stage) throw new ValidationError('Stage: this stage is not part of the plan.', [{ path: ['stageId'], message: 'This stage is not part of the plan.' }]);
+      if (!stage)
+        throw new ValidationError('Stage: this stage is not part of the plan.', [
+          { path: ['stageId'], message: 'This stage is not part of the plan.' },
+        ]);
       if (stage.id !== plan.current_stage_id) {
-        throw new ConflictError(`“${stage.name}” is not the current stage of this plan any more. Reload to see today’s session.`, 'stage_not_current');
+        throw new ConflictError(
+          `“${stage.name}” is not the current stage of this plan any more. Reload to see today’s session.`,
+          'stage_not_current',
+        );
       }
       const day = today();
-      const earliest = [addDays(day, -PLAN_LIMITS.logBackdateDays), stage.started_at ? addDays(dayOf(stage.started_at), -1) : day].sort().at(-1)!;
+      const earliest = [addDays(day, -PLAN_LIMITS.logBackdateDays), stage.started_at ? addDays(dayOf(stage.started_at), -1) : day]
+        .sort()
+        .at(-1)!;
       if (input.date > addDays(day, 1) || input.date < earliest) {
-        const message = input.date > day ? 'The session date cannot be in the future.' : `The session date must be on or after ${earliest} (the stage start, at most ${PLAN_LIMITS.logBackdateDays} days back).`;
+        const message =
+          input.date > day
+            ? 'The session date cannot be in the future.'
+            : `The session date must be on or after ${earliest} (the stage start, at most ${PLAN_LIMITS.logBackdateDays} days back).`;
         throw new ValidationError(`Date: ${message}`, [{ path: ['date'], message }]);
       }
       const items = await repo.stageExercises(db, [stage.id]);
       const matched = matchLoggedSets(input.sets, items);
       // A set for an exercise the coach removed from this stage since is kept and flagged; any other unknown id is an error.
-      const removed = new Map((await repo.removedStageExercises(db, stage.id, matched.unmatched.map((u) => u.stageExerciseId))).map((r) => [r.id, r]));
+      const removed = new Map(
+        (
+          await repo.removedStageExercises(
+            db,
+            stage.id,
+            matched.unmatched.map((u) => u.stageExerciseId),
+          )
+        ).map((r) => [r.id, r]),
+      );
       input.sets.forEach((s, i) => {
-        if (matched.unmatched.includes(s) && !removed.has(s.stageExerciseId)) matched.problems.push({ path: ['sets', i, 'stageExerciseId'], message: 'This exercise is not in the current stage.' });
+        if (matched.unmatched.includes(s) && !removed.has(s.stageExerciseId))
+          matched.problems.push({ path: ['sets', i, 'stageExerciseId'], message: 'This exercise is not in the current stage.' });
       });
       if (matched.problems.length) throw new ValidationError(`Sets: ${matched.problems[0]!.message}`, matched.problems);
-      const names = new Map((await exercisesRepository.byIds(db, user.clinicId, [...items, ...removed.values()].map((i) => i.exercise_id))).map((e) => [e.id, e.name]));
+      const names = new Map(
+        (
+          await exercisesRepository.byIds(
+            db,
+            user.clinicId,
+            [...items, ...removed.values()].map((i) => i.exercise_id),
+          )
+        ).map((e) => [e.id, e.name]),
+      );
       const goneName = (u: LoggedSet) => names.get(removed.get(u.stageExerciseId)!.exercise_id) ?? 'An exercise no longer in this stage';
       const sets = [
-        ...items.map((it) => ({ stageExerciseId: it.id, name: names.get(it.exercise_id) ?? '', setsPrescribed: it.sets, setsDone: matched.done.get(it.id) ?? 0 })),
+        ...items.map((it) => ({
+          stageExerciseId: it.id,
+          name: names.get(it.exercise_id) ?? '',
+          setsPrescribed: it.sets,
+          setsDone: matched.done.get(it.id) ?? 0,
+        })),
         // Exercises that left the stage since the session was saved on the phone: kept as sent, flagged.
-        ...matched.unmatched.map((u) => ({ stageExerciseId: u.stageExerciseId, name: goneName(u), setsPrescribed: removed.get(u.stageExerciseId)!.sets, setsDone: u.setsDone })),
+        ...matched.unmatched.map((u) => ({
+          stageExerciseId: u.stageExerciseId,
+          name: goneName(u),
+          setsPrescribed: removed.get(u.stageExerciseId)!.sets,
+          setsDone: u.setsDone,
+        })),
       ];
       const reviewNote = matched.unmatched.length
         ? `Sent for exercises the plan no longer has in this stage (saved on the athlete’s phone before the plan was edited): ${matched.unmatched.map(goneName).join(', ')}.`
@@ -501,7 +673,17 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
             created_at: at,
             updated_at: at,
           });
-          await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: plan.athlete_id, action: 'plan.log_added', detail: { planId: id, logId: newId, ...(reviewNote ? { unmatchedSets: matched.unmatched.length } : {}) } }, at);
+          await audit(
+            trx,
+            {
+              clinicId: user.clinicId,
+              actorId: user.id,
+              athleteId: plan.athlete_id,
+              action: 'plan.log_added',
+              detail: { planId: id, logId: newId, ...(reviewNote ? { unmatchedSets: matched.unmatched.length } : {}) },
+            },
+            at,
+          );
           return newId;
         });
         const row = (await db<LogRow>('log_entries').where({ id: logId }).first())!;
@@ -525,7 +707,17 @@ export function plansService({ db, clock }: { db: Db; clock: () => Date }) {
       if (row.morning_pain !== pain) {
         await db.transaction(async (trx) => {
           await repo.updateLog(trx, row.id, { morning_pain: pain, morning_at: at, updated_at: at });
-          await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: plan.athlete_id, action: 'plan.morning_check', detail: { planId: id, logId: row.id } }, at);
+          await audit(
+            trx,
+            {
+              clinicId: user.clinicId,
+              actorId: user.id,
+              athleteId: plan.athlete_id,
+              action: 'plan.morning_check',
+              detail: { planId: id, logId: row.id },
+            },
+            at,
+          );
         });
       }
       return (await logsWithStageNames([(await db<LogRow>('log_entries').where({ id: row.id }).first())!]))[0]!;

@@ -55,7 +55,14 @@ export function pdfLayout(doc: InstanceType<typeof PDFDocument>): PdfLayout {
 
   const rowHeight = (cols: PdfColumn[], cells: string[], head: boolean) => {
     doc.fontSize(head ? 9 : 9.5);
-    return Math.max(...cells.map((c, i) => doc.font(head || i === 0 ? 'semibold' : 'regular').heightOfString(c || ' ', { width: cols[i]!.width - 2 * PAD }))) + 2 * PAD;
+    return (
+      Math.max(
+        ...cells.map((c, i) =>
+          doc.font(head || i === 0 ? 'semibold' : 'regular').heightOfString(c || ' ', { width: cols[i]!.width - 2 * PAD }),
+        ),
+      ) +
+      2 * PAD
+    );
   };
 
   const headingBlock = (text: string, size: number, before: number, after: number) => {
@@ -69,7 +76,13 @@ export function pdfLayout(doc: InstanceType<typeof PDFDocument>): PdfLayout {
     if (!fits(headingBlock(text, size, atTop() ? 0 : before, after) + keepWith)) doc.addPage();
     if (!atTop()) doc.y += before;
     doc.font('semibold').fontSize(size).fillColor(colour).text(text, MARGIN, doc.y, { width });
-    if (rule) doc.moveTo(MARGIN, doc.y + 2).lineTo(MARGIN + width, doc.y + 2).lineWidth(0.6).strokeColor(RULE).stroke();
+    if (rule)
+      doc
+        .moveTo(MARGIN, doc.y + 2)
+        .lineTo(MARGIN + width, doc.y + 2)
+        .lineWidth(0.6)
+        .strokeColor(RULE)
+        .stroke();
     doc.y += after;
     doc.x = MARGIN;
   }
@@ -80,7 +93,10 @@ export function pdfLayout(doc: InstanceType<typeof PDFDocument>): PdfLayout {
     heading: (text, keepWith) => placeHeading(text, 13, SPRUCE, keepWith, true),
     subheading: (text, keepWith) => placeHeading(text, 10.5, INK, keepWith, false),
     paragraph(text, empty) {
-      doc.font(text.trim() ? 'regular' : 'italic').fontSize(10.5).fillColor(text.trim() ? INK : MUTED);
+      doc
+        .font(text.trim() ? 'regular' : 'italic')
+        .fontSize(10.5)
+        .fillColor(text.trim() ? INK : MUTED);
       doc.text(text.trim() || empty, MARGIN, doc.y, { width, lineGap: 2 });
     },
     paragraphLead(text, lines = 3) {
@@ -89,7 +105,11 @@ export function pdfLayout(doc: InstanceType<typeof PDFDocument>): PdfLayout {
       return Math.min(doc.heightOfString(text.trim() || ' ', { width, lineGap: 2 }), lines * line);
     },
     tableLead(cols, rows) {
-      const head = rowHeight(cols, cols.map((c) => c.title), true);
+      const head = rowHeight(
+        cols,
+        cols.map((c) => c.title),
+        true,
+      );
       return head + (rows[0] ? rowHeight(cols, rows[0], false) : 0);
     },
     table(cols, rows) {
@@ -99,7 +119,12 @@ export function pdfLayout(doc: InstanceType<typeof PDFDocument>): PdfLayout {
         const need = head && next ? h + rowHeight(cols, next, false) : h;
         if (!fits(need) && !atTop()) {
           doc.addPage();
-          if (!head) drawRow(cols.map((c) => c.title), true, cells);
+          if (!head)
+            drawRow(
+              cols.map((c) => c.title),
+              true,
+              cells,
+            );
         }
         const y = doc.y;
         doc.fontSize(head ? 9 : 9.5);
@@ -110,11 +135,20 @@ export function pdfLayout(doc: InstanceType<typeof PDFDocument>): PdfLayout {
           doc.text(c, x + PAD, y + PAD, { width: cols[i]!.width - 2 * PAD });
           x += cols[i]!.width;
         });
-        doc.moveTo(MARGIN, y + h).lineTo(MARGIN + width, y + h).lineWidth(0.4).strokeColor(RULE).stroke();
+        doc
+          .moveTo(MARGIN, y + h)
+          .lineTo(MARGIN + width, y + h)
+          .lineWidth(0.4)
+          .strokeColor(RULE)
+          .stroke();
         doc.x = MARGIN;
         doc.y = y + h;
       };
-      drawRow(cols.map((c) => c.title), true, rows[0]);
+      drawRow(
+        cols.map((c) => c.title),
+        true,
+        rows[0],
+      );
       rows.forEach((r) => drawRow(r, false, undefined));
     },
   };

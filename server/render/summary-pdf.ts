@@ -98,7 +98,10 @@ const sideWord = (side: 'left' | 'right' | null) => (side === 'left' ? 'left' : 
 const labelOf = (m: { label: string; side: 'left' | 'right' | null }) => `${m.label}${m.side ? ` (${sideWord(m.side)})` : ''}`;
 
 /** Renders the visit summary PDF (A4, pdfkit, the complete Source Sans 3 faces). */
-export async function renderSummaryPdf(doc0: SummaryDocument, onProgress?: (f: number) => void | Promise<void>): Promise<{ pdf: Buffer; pageCount: number }> {
+export async function renderSummaryPdf(
+  doc0: SummaryDocument,
+  onProgress?: (f: number) => void | Promise<void>,
+): Promise<{ pdf: Buffer; pageCount: number }> {
   const athleteName = printable(doc0.athleteName);
   const clinicName = printable(doc0.clinicName);
   const doc = new PDFDocument({
@@ -117,13 +120,18 @@ export async function renderSummaryPdf(doc0: SummaryDocument, onProgress?: (f: n
   const L = pdfLayout(doc);
   const { width } = L;
   const sources = sourceList();
-  const bandCell = (band: ReferenceBand) => `${bandRange(band)}\n${shortCitation(band.source)} [${sources.ref(plainCitation(band.source, band.evidence))}]`;
+  const bandCell = (band: ReferenceBand) =>
+    `${bandRange(band)}\n${shortCitation(band.source)} [${sources.ref(plainCitation(band.source, band.evidence))}]`;
 
   // ── Header ──
   doc.font('semibold').fontSize(10).fillColor(MUTED).text(clinicName, MARGIN, MARGIN, { width });
   doc.font('bold').fontSize(22).fillColor(INK).text(doc0.title, { width });
   doc.font('regular').fontSize(12).fillColor(INK).text(`Athlete: ${athleteName}`, { width });
-  doc.font('regular').fontSize(10).fillColor(MUTED).text(`Prepared by ${printable(doc0.coachName)} on ${doc0.issuedOn}`, { width });
+  doc
+    .font('regular')
+    .fontSize(10)
+    .fillColor(MUTED)
+    .text(`Prepared by ${printable(doc0.coachName)} on ${doc0.issuedOn}`, { width });
 
   // ── Caution ──
   doc.moveDown(0.8);
@@ -171,7 +179,9 @@ export async function renderSummaryPdf(doc0: SummaryDocument, onProgress?: (f: n
       ];
       const cells = rows.map((r) => {
         const band = findBand(bands, r.key, r.unit);
-        const threshold = r.threshold ? ` (threshold ${thresholdText(r.threshold)}) [${sources.ref(plainCitation(r.threshold.source, r.threshold.evidence, r.threshold.derivation))}]` : '';
+        const threshold = r.threshold
+          ? ` (threshold ${thresholdText(r.threshold)}) [${sources.ref(plainCitation(r.threshold.source, r.threshold.evidence, r.threshold.derivation))}]`
+          : '';
         return [
           labelOf(r),
           formatValue(r.baseline, r.unit),
@@ -197,7 +207,12 @@ export async function renderSummaryPdf(doc0: SummaryDocument, onProgress?: (f: n
     ];
     doc0.measures.forEach((clip, i) => {
       const measured = clip.measures.filter((m) => m.status === 'ok');
-      const rows = measured.map((m) => [labelOf(m), `${formatMeasure(m)} (n = ${m.n})`, m.band ? bandCell(m.band.band) : 'None', m.band ? POSITION_TEXT[m.band.position] : '']);
+      const rows = measured.map((m) => [
+        labelOf(m),
+        `${formatMeasure(m)} (n = ${m.n})`,
+        m.band ? bandCell(m.band.band) : 'None',
+        m.band ? POSITION_TEXT[m.band.position] : '',
+      ]);
       const empty = 'Not measured: no steps were marked on this clip.';
       const lead = measured.length ? L.tableLead(cols, rows) : L.paragraphLead(empty);
       const sub = doc0.measures.length > 1 ? 30 : 0;
@@ -230,7 +245,11 @@ export async function renderSummaryPdf(doc0: SummaryDocument, onProgress?: (f: n
     else L.ensure(h + 14);
     const y = doc.y + 4;
     doc.image(still.image, MARGIN + (width - w) / 2, y, { width: w, height: h });
-    doc.rect(MARGIN + (width - w) / 2, y, w, h).lineWidth(0.5).strokeColor('#C9D4D0').stroke();
+    doc
+      .rect(MARGIN + (width - w) / 2, y, w, h)
+      .lineWidth(0.5)
+      .strokeColor('#C9D4D0')
+      .stroke();
     doc.x = MARGIN;
     doc.y = y + h + 10;
     await onProgress?.(0.3 + (0.5 * (i + 1)) / placed.length);
@@ -263,7 +282,15 @@ export async function renderSummaryPdf(doc0: SummaryDocument, onProgress?: (f: n
     // Writing in the bottom margin must not start a new page.
     const savedBottom = doc.page.margins.bottom;
     doc.page.margins.bottom = 0;
-    doc.font('regular').fontSize(8).fillColor(MUTED).text(`${athleteName} · ${doc0.title} · ${clinicName} · page ${i + 1} of ${range.count}`, MARGIN, y, { width, align: 'center', lineBreak: false });
+    doc
+      .font('regular')
+      .fontSize(8)
+      .fillColor(MUTED)
+      .text(`${athleteName} · ${doc0.title} · ${clinicName} · page ${i + 1} of ${range.count}`, MARGIN, y, {
+        width,
+        align: 'center',
+        lineBreak: false,
+      });
     doc.page.margins.bottom = savedBottom;
   }
   doc.end();

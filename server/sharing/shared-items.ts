@@ -28,7 +28,13 @@ const KINDS: Record<SharedKind, { table: string; what: string; idKey: string }> 
  * The row of a still or summary this user may see: staff any of their clinic's; an athlete only
  * their own that are published and ready (and pass `visibleToAthlete`). Anything else is 404.
  */
-export async function accessibleShared<R extends SharedRow>(db: Knex, kind: SharedKind, user: SessionUser, id: number, visibleToAthlete: (row: R) => boolean = () => true): Promise<R> {
+export async function accessibleShared<R extends SharedRow>(
+  db: Knex,
+  kind: SharedKind,
+  user: SessionUser,
+  id: number,
+  visibleToAthlete: (row: R) => boolean = () => true,
+): Promise<R> {
   const { table, what } = KINDS[kind];
   const row = (await db(table).where({ id, clinic_id: user.clinicId }).first()) as R | undefined;
   if (!row) throw new NotFoundError(what);
@@ -52,11 +58,28 @@ export interface PublicationDeps {
  * caller checks first that it may be published. Publishing what is already published changes
  * nothing and sends nothing.
  */
-export async function setPublication(d: PublicationDeps, kind: SharedKind, user: SessionUser, row: SharedRow, publish: boolean): Promise<void> {
+export async function setPublication(
+  d: PublicationDeps,
+  kind: SharedKind,
+  user: SessionUser,
+  row: SharedRow,
+  publish: boolean,
+): Promise<void> {
   const { table, idKey } = KINDS[kind];
   if (publish && row.published_at) return;
   const at = d.clock().toISOString();
-  await d.db(table).where({ id: row.id }).update(publish ? { published_at: at, published_by: user.id, updated_at: at } : { published_at: null, published_by: null, updated_at: at });
-  await audit(d.db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: `${kind}.${publish ? 'published' : 'unpublished'}`, detail: { [idKey]: row.id } });
+  await d
+    .db(table)
+    .where({ id: row.id })
+    .update(
+      publish ? { published_at: at, published_by: user.id, updated_at: at } : { published_at: null, published_by: null, updated_at: at },
+    );
+  await audit(d.db, {
+    clinicId: user.clinicId,
+    actorId: user.id,
+    athleteId: row.athlete_id,
+    action: `${kind}.${publish ? 'published' : 'unpublished'}`,
+    detail: { [idKey]: row.id },
+  });
   if (publish) await sendShareNotice({ db: d.db, mailer: d.mailer, logger: d.logger, publicUrl: d.publicUrl }, row.athlete_id, kind);
 }

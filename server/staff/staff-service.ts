@@ -47,17 +47,34 @@ export function staffService({ db, clock, revocations }: StaffServiceDeps): Staf
         if (target.id === user.id) throw new ConflictError('You cannot deactivate your own account.', 'cannot_deactivate_self');
         if (target.role === 'owner') throw new ConflictError("An owner's account cannot be deactivated here.", 'cannot_deactivate_owner');
         if (!target.active) throw new ConflictError(`${target.name} is already deactivated.`, 'already_deactivated');
-        const heir = to === target.id ? undefined : await trx<UserRow>('users').where({ id: to, clinic_id: user.clinicId, active: true }).whereIn('role', ['owner', 'coach']).first();
+        const heir =
+          to === target.id
+            ? undefined
+            : await trx<UserRow>('users')
+                .where({ id: to, clinic_id: user.clinicId, active: true })
+                .whereIn('role', ['owner', 'coach'])
+                .first();
         if (!heir) {
           throw new ValidationError('reassignTo: choose an active coach of this clinic (not the one leaving), or yourself.', [
             { path: ['reassignTo'], message: 'Choose an active coach of this clinic, or yourself.' },
           ]);
         }
-        const athleteIds = (await trx('athletes').where({ clinic_id: user.clinicId, coach_id: target.id }).orderBy('id').select('id')).map((a: { id: number }) => a.id);
+        const athleteIds = (await trx('athletes').where({ clinic_id: user.clinicId, coach_id: target.id }).orderBy('id').select('id')).map(
+          (a: { id: number }) => a.id,
+        );
         await trx('athletes').whereIn('id', athleteIds).update({ coach_id: heir.id, updated_at: at });
         await trx('users').where({ id: target.id }).update({ active: false, deactivated_at: at, updated_at: at });
         const sessions = await revokeUserSessions(trx, target.id);
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, action: 'staff.deactivated', detail: { userId: target.id, reassignedTo: heir.id, athleteIds, sessionsRevoked: sessions } }, at);
+        await audit(
+          trx,
+          {
+            clinicId: user.clinicId,
+            actorId: user.id,
+            action: 'staff.deactivated',
+            detail: { userId: target.id, reassignedTo: heir.id, athleteIds, sessionsRevoked: sessions },
+          },
+          at,
+        );
       });
       revocations.revoke(id);
       return member(user.clinicId, id);

@@ -82,7 +82,9 @@ function toApi(r: StillView): Still {
     athleteId: r.athlete_id,
     assessmentId: r.assessment_id,
     kind: r.kind,
-    panels: stillsRepository.panels(r).map((p) => ({ clipId: p.clipId, assessmentId: p.assessmentId, frameIndex: p.frameIndex, timeS: p.timeS, label: p.label })),
+    panels: stillsRepository
+      .panels(r)
+      .map((p) => ({ clipId: p.clipId, assessmentId: p.assessmentId, frameIndex: p.frameIndex, timeS: p.timeS, label: p.label })),
     caption: r.caption,
     showAngles: Boolean(r.show_angles),
     status: clipGone ? 'failed' : r.status,

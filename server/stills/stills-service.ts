@@ -41,7 +41,9 @@ export interface StillsDeps {
 /** "6 Oct 2026" from `2026-10-06`. */
 export function displayDate(isoDate: string): string {
   const d = new Date(`${isoDate}T12:00:00Z`);
-  return Number.isNaN(d.getTime()) ? isoDate : d.toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+  return Number.isNaN(d.getTime())
+    ? isoDate
+    : d.toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
 }
 
 /**
@@ -57,7 +59,9 @@ export function freezePanel(p: {
   timeS: number;
 }): StoredPanel {
   const label = `${ASSESSMENT_KIND_LABELS[p.assessment.kind]} · ${displayDate(p.assessment.date)}`;
-  const events = p.annotations.events.filter((e) => e.frame === p.frameIndex).map((e) => `${e.side === 'left' ? 'Left' : 'Right'} ${GAIT_EVENT_LABELS[e.kind].toLowerCase()}`);
+  const events = p.annotations.events
+    .filter((e) => e.frame === p.frameIndex)
+    .map((e) => `${e.side === 'left' ? 'Left' : 'Right'} ${GAIT_EVENT_LABELS[e.kind].toLowerCase()}`);
   return {
     clipId: p.clip.id,
     assessmentId: p.clip.assessmentId,
@@ -81,7 +85,8 @@ export function stillsService(d: StillsDeps) {
 
   /** A still this user may see: staff any of their clinic's; an athlete only their published ones. */
   /** A still this user may see: staff any of their clinic's; an athlete only their published ones. */
-  const accessibleStill = (user: SessionUser, id: number) => accessibleShared<StillRow>(db, 'still', user, id, (row) => row.clip_id !== null);
+  const accessibleStill = (user: SessionUser, id: number) =>
+    accessibleShared<StillRow>(db, 'still', user, id, (row) => row.clip_id !== null);
 
   async function view(id: number): Promise<Still> {
     const [still] = await repo.view(db, { id }, { publishedOnly: false });
@@ -91,13 +96,18 @@ export function stillsService(d: StillsDeps) {
 
   /** Freezes one clip frame's overlay into a panel. */
   async function panelOf(clip: ClipRow, frameIndex: number, field: string): Promise<StoredPanel> {
-    if (clip.status !== 'ready') throw new ConflictError('This clip is not ready yet: wait until its frames are extracted.', 'clip_not_ready');
+    if (clip.status !== 'ready')
+      throw new ConflictError('This clip is not ready yet: wait until its frames are extracted.', 'clip_not_ready');
     const count = clip.frame_count ?? 0;
     if (!Number.isInteger(frameIndex) || frameIndex < 0 || frameIndex >= count) {
-      throw new ValidationError(`Frame ${frameIndex} is not in this clip (0–${Math.max(0, count - 1)}).`, [{ path: field.split('.'), message: `Choose a frame from 0 to ${Math.max(0, count - 1)}.` }]);
+      throw new ValidationError(`Frame ${frameIndex} is not in this clip (0–${Math.max(0, count - 1)}).`, [
+        { path: field.split('.'), message: `Choose a frame from 0 to ${Math.max(0, count - 1)}.` },
+      ]);
     }
     const manifest = await readManifest(d.store.clipDir(clip.id));
-    const assessment = await db('assessments').where({ id: clip.assessment_id }).first<{ kind: AssessmentKind; date: string }>('kind', 'date');
+    const assessment = await db('assessments')
+      .where({ id: clip.assessment_id })
+      .first<{ kind: AssessmentKind; date: string }>('kind', 'date');
     const ms = manifest?.timestampsMs?.[frameIndex];
     return freezePanel({
       clip: { id: clip.id, assessmentId: clip.assessment_id, nearSide: clip.near_side, direction: clip.direction },
@@ -111,7 +121,9 @@ export function stillsService(d: StillsDeps) {
 
   async function queueRender(id: number, patch: Partial<StillRow>): Promise<void> {
     await db.transaction(async (trx) => {
-      await trx('stills').where({ id }).update({ ...patch, status: 'rendering', progress: 0, error: null, updated_at: now() });
+      await trx('stills')
+        .where({ id })
+        .update({ ...patch, status: 'rendering', progress: 0, error: null, updated_at: now() });
       await d.queue.enqueue(trx, RENDER_STILL_JOB, subjectOf(id), { stillId: id });
     });
     d.wakeWorker();
@@ -133,11 +145,15 @@ export function stillsService(d: StillsDeps) {
       const main = await panelOf(clip, body.frameIndex, 'frameIndex');
       const panels = [main];
       if (body.pairWith) {
-        if (body.pairWith.clipId === clipId) throw new ValidationError('Pair this frame with a clip of another assessment.', [{ path: ['pairWith', 'clipId'], message: 'Choose the other visit’s clip.' }]);
+        if (body.pairWith.clipId === clipId)
+          throw new ValidationError('Pair this frame with a clip of another assessment.', [
+            { path: ['pairWith', 'clipId'], message: 'Choose the other visit’s clip.' },
+          ]);
         const other = await d.clips.accessibleClip(user, body.pairWith.clipId).catch(() => {
           throw new ValidationError('The clip to pair with was not found.', [{ path: ['pairWith', 'clipId'], message: 'Clip not found.' }]);
         });
-        if (other.athlete_id !== clip.athlete_id) throw new AppError(422, 'other_athlete', 'Both clips of a side-by-side still must belong to the same athlete.');
+        if (other.athlete_id !== clip.athlete_id)
+          throw new AppError(422, 'other_athlete', 'Both clips of a side-by-side still must belong to the same athlete.');
         // Baseline (the other clip) on the left, the Re-test on the right.
         panels.unshift(await panelOf(other, body.pairWith.frameIndex, 'pairWith.frameIndex'));
       }
@@ -170,7 +186,13 @@ export function stillsService(d: StillsDeps) {
         await d.queue.enqueue(trx, RENDER_STILL_JOB, subjectOf(id), { stillId: id });
       });
       d.wakeWorker();
-      await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: clip.athlete_id, action: 'still.created', detail: { stillId: id, clipId } });
+      await audit(db, {
+        clinicId: user.clinicId,
+        actorId: user.id,
+        athleteId: clip.athlete_id,
+        action: 'still.created',
+        detail: { stillId: id, clipId },
+      });
       return view(id);
     },
 
@@ -197,7 +219,13 @@ export function stillsService(d: StillsDeps) {
     async setPublished(user: SessionUser, id: number, publish: boolean): Promise<Still> {
       const row = await accessibleStill(user, id);
       if (publish && row.clip_id === null) throw new ConflictError(STILL_CLIP_DELETED, 'clip_deleted');
-      if (publish && row.status !== 'ready') throw new ConflictError(row.status === 'failed' ? 'This still could not be rendered; delete it and save it again.' : 'This still is still rendering: publish it when it is ready.', 'still_not_ready');
+      if (publish && row.status !== 'ready')
+        throw new ConflictError(
+          row.status === 'failed'
+            ? 'This still could not be rendered; delete it and save it again.'
+            : 'This still is still rendering: publish it when it is ready.',
+          'still_not_ready',
+        );
       await setPublication(d, 'still', user, row, publish);
       return view(id);
     },
@@ -207,7 +235,13 @@ export function stillsService(d: StillsDeps) {
       await d.queue.cancelSubject(subjectOf(id));
       await db('stills').where({ id }).delete();
       await removeFiles(row, row.render_version);
-      await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'still.deleted', detail: { stillId: id } });
+      await audit(db, {
+        clinicId: user.clinicId,
+        actorId: user.id,
+        athleteId: row.athlete_id,
+        action: 'still.deleted',
+        detail: { stillId: id },
+      });
     },
 
     /** Absolute path of a ready still's image; logs an athlete's view in the audit log. */
@@ -217,7 +251,14 @@ export function stillsService(d: StillsDeps) {
       const files = stillFiles(id, row.render_version);
       const file = path.join(d.store.clipDir(row.clip_id), STILLS_DIR, format === 'png' ? files.png : files.jpeg);
       if (!fs.existsSync(file)) throw new NotFoundError('Still image');
-      if (!isStaff(user)) await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'still.viewed', detail: { stillId: id, format } });
+      if (!isStaff(user))
+        await audit(db, {
+          clinicId: user.clinicId,
+          actorId: user.id,
+          athleteId: row.athlete_id,
+          action: 'still.viewed',
+          detail: { stillId: id, format },
+        });
       return file;
     },
 
@@ -237,12 +278,27 @@ export function stillsService(d: StillsDeps) {
       if (row.clip_id === null) throw new PermanentJobError(STILL_CLIP_DELETED);
       const panels = repo.panels(row);
       // A still queued with its clip (the demo) waits for the frames: retried with back-off.
-      const statuses = await db('clips').whereIn('id', panels.map((p) => p.clipId)).pluck('status');
+      const statuses = await db('clips')
+        .whereIn(
+          'id',
+          panels.map((p) => p.clipId),
+        )
+        .pluck('status');
       if (statuses.some((st: string) => st !== 'ready')) throw new Error('The clip’s frames are not extracted yet.');
       const inputs = panels.map((p) => {
         const image = path.join(d.store.clipDir(p.clipId), FRAMES_DIR, frameFileName(p.frameIndex));
-        if (!fs.existsSync(image)) throw new PermanentJobError('A frame of this still is gone (its clip was deleted or re-processed). Save the still again.');
-        return { image, frameSize: p.frameSize, landmarks: p.landmarks, nearSide: p.nearSide, direction: p.direction, scale: p.scale, gauges: p.gauges, heading: p.heading };
+        if (!fs.existsSync(image))
+          throw new PermanentJobError('A frame of this still is gone (its clip was deleted or re-processed). Save the still again.');
+        return {
+          image,
+          frameSize: p.frameSize,
+          landmarks: p.landmarks,
+          nearSide: p.nearSide,
+          direction: p.direction,
+          scale: p.scale,
+          gauges: p.gauges,
+          heading: p.heading,
+        };
       });
       const version = row.render_version;
       const out = await renderStill({
@@ -255,7 +311,10 @@ export function stillsService(d: StillsDeps) {
       await fs.promises.mkdir(dir, { recursive: true });
       const files = stillFiles(id, version);
       // Write under temporary names, then rename: a reader never sees half a file.
-      for (const [name, bytes] of [[files.png, out.png], [files.jpeg, out.jpeg]] as const) {
+      for (const [name, bytes] of [
+        [files.png, out.png],
+        [files.jpeg, out.jpeg],
+      ] as const) {
         const tmp = path.join(dir, `.${name}.tmp`);
         await fs.promises.writeFile(tmp, bytes);
         await fs.promises.rename(tmp, path.join(dir, name));
@@ -266,7 +325,16 @@ export function stillsService(d: StillsDeps) {
         await removeFiles({ ...row }, version);
         return;
       }
-      await repo.update(db, id, { status: 'ready', progress: 1, error: null, width: out.width, height: out.height, layout: JSON.stringify(out.layout), labels: JSON.stringify(out.labels), updated_at: now() });
+      await repo.update(db, id, {
+        status: 'ready',
+        progress: 1,
+        error: null,
+        width: out.width,
+        height: out.height,
+        layout: JSON.stringify(out.layout),
+        labels: JSON.stringify(out.labels),
+        updated_at: now(),
+      });
       if (version > 1) await removeFiles(current, version - 1);
     }) satisfies JobHandler,
 

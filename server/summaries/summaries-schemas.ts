@@ -1,7 +1,8 @@
 import { z } from 'zod';
 import { SUMMARY_STILLS_MAX, SUMMARY_TEXT_MAX } from '../../src/contracts/sharing';
 
-const Text = (label: string) => z.string(`${label} must be text.`).trim().max(SUMMARY_TEXT_MAX, `${label} must be at most ${SUMMARY_TEXT_MAX} characters.`);
+const Text = (label: string) =>
+  z.string(`${label} must be text.`).trim().max(SUMMARY_TEXT_MAX, `${label} must be at most ${SUMMARY_TEXT_MAX} characters.`);
 
 /** `POST /api/assessments/:id/summaries`. */
 export const SummaryCreateBody = z.strictObject({

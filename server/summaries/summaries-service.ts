@@ -2,7 +2,13 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Logger } from 'pino';
 import type { SessionUser } from '../../src/contracts/api';
-import { ASSESSMENT_KIND_LABELS, FILM_SURFACE_LABELS, SPEED_UNIT_LABELS, formatPace, fromMetresPerSecond } from '../../src/contracts/assessment';
+import {
+  ASSESSMENT_KIND_LABELS,
+  FILM_SURFACE_LABELS,
+  SPEED_UNIT_LABELS,
+  formatPace,
+  fromMetresPerSecond,
+} from '../../src/contracts/assessment';
 import type { VisitSummary, VisitSummaryCreate } from '../../src/contracts/sharing';
 import { compareMeasures } from '../../src/kinematics';
 import type { Db } from '../db/knex';
@@ -77,16 +83,31 @@ export function summariesService(d: SummariesDeps) {
       if (body.baselineAssessmentId) {
         baseline = (await assessmentsRepository.find(db, user.clinicId, body.baselineAssessmentId)) ?? null;
         if (!baseline) throw new NotFoundError('Baseline assessment');
-        if (baseline.athlete_id !== assessment.athlete_id) throw new AppError(422, 'other_athlete', 'Both assessments of a comparison summary must belong to the same athlete.');
-        if (baseline.id === assessment.id) throw new AppError(422, 'same_assessment', 'Choose an earlier assessment to compare with, not this one.');
+        if (baseline.athlete_id !== assessment.athlete_id)
+          throw new AppError(422, 'other_athlete', 'Both assessments of a comparison summary must belong to the same athlete.');
+        if (baseline.id === assessment.id)
+          throw new AppError(422, 'same_assessment', 'Choose an earlier assessment to compare with, not this one.');
       }
       for (const stillId of body.stillIds) {
-        const still = await db('stills').where({ id: stillId, clinic_id: user.clinicId }).first<{ athlete_id: number; status: string; clip_id: number | null } | undefined>('athlete_id', 'status', 'clip_id');
-        if (!still || still.athlete_id !== assessment.athlete_id) throw new AppError(422, 'still_not_found', `Still ${stillId} is not one of this athlete’s stills.`, [{ path: ['stillIds'], message: `Still ${stillId} was not found for this athlete.` }]);
-        if (still.clip_id === null) throw new AppError(422, 'clip_deleted', `Still ${stillId} lost its image when its clip was deleted; leave it out.`, [{ path: ['stillIds'], message: `Still ${stillId} has no image.` }]);
-        if (still.status !== 'ready') throw new AppError(422, 'still_not_ready', `Still ${stillId} is not rendered yet; wait a moment and try again.`, [{ path: ['stillIds'], message: `Still ${stillId} is still rendering.` }]);
+        const still = await db('stills')
+          .where({ id: stillId, clinic_id: user.clinicId })
+          .first<{ athlete_id: number; status: string; clip_id: number | null } | undefined>('athlete_id', 'status', 'clip_id');
+        if (!still || still.athlete_id !== assessment.athlete_id)
+          throw new AppError(422, 'still_not_found', `Still ${stillId} is not one of this athlete’s stills.`, [
+            { path: ['stillIds'], message: `Still ${stillId} was not found for this athlete.` },
+          ]);
+        if (still.clip_id === null)
+          throw new AppError(422, 'clip_deleted', `Still ${stillId} lost its image when its clip was deleted; leave it out.`, [
+            { path: ['stillIds'], message: `Still ${stillId} has no image.` },
+          ]);
+        if (still.status !== 'ready')
+          throw new AppError(422, 'still_not_ready', `Still ${stillId} is not rendered yet; wait a moment and try again.`, [
+            { path: ['stillIds'], message: `Still ${stillId} is still rendering.` },
+          ]);
       }
-      const title = baseline ? `Re-test comparison: ${visitLabel(baseline)} and ${visitLabel(assessment)}` : `Visit summary: ${visitLabel(assessment)}`;
+      const title = baseline
+        ? `Re-test comparison: ${visitLabel(baseline)} and ${visitLabel(assessment)}`
+        : `Visit summary: ${visitLabel(assessment)}`;
       const at = now();
       let id = 0;
       await db.transaction(async (trx) => {
@@ -112,7 +133,13 @@ export function summariesService(d: SummariesDeps) {
         await d.queue.enqueue(trx, RENDER_SUMMARY_JOB, subjectOf(id), { summaryId: id });
       });
       d.wakeWorker();
-      await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: assessment.athlete_id, action: 'summary.created', detail: { summaryId: id, assessmentId } });
+      await audit(db, {
+        clinicId: user.clinicId,
+        actorId: user.id,
+        athleteId: assessment.athlete_id,
+        action: 'summary.created',
+        detail: { summaryId: id, assessmentId },
+      });
       return view(id);
     },
 
@@ -128,7 +155,13 @@ export function summariesService(d: SummariesDeps) {
 
     async setPublished(user: SessionUser, id: number, publish: boolean): Promise<VisitSummary> {
       const row = await accessibleSummary(user, id);
-      if (publish && row.status !== 'ready') throw new ConflictError(row.status === 'failed' ? 'This summary could not be made; delete it and create it again.' : 'This summary is still being made: publish it when it is ready.', 'summary_not_ready');
+      if (publish && row.status !== 'ready')
+        throw new ConflictError(
+          row.status === 'failed'
+            ? 'This summary could not be made; delete it and create it again.'
+            : 'This summary is still being made: publish it when it is ready.',
+          'summary_not_ready',
+        );
       await setPublication(d, 'summary', user, row, publish);
       return view(id);
     },
@@ -138,7 +171,13 @@ export function summariesService(d: SummariesDeps) {
       await d.queue.cancelSubject(subjectOf(id));
       await db('visit_summaries').where({ id }).delete();
       await fs.promises.rm(path.join(folder(row.assessment_id), summaryFile(id)), { force: true });
-      await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'summary.deleted', detail: { summaryId: id } });
+      await audit(db, {
+        clinicId: user.clinicId,
+        actorId: user.id,
+        athleteId: row.athlete_id,
+        action: 'summary.deleted',
+        detail: { summaryId: id },
+      });
     },
 
     /** The PDF of a ready summary and its download name (athlete, visit, date); logs an athlete's view. */
@@ -147,8 +186,17 @@ export function summariesService(d: SummariesDeps) {
       if (row.status !== 'ready') throw new NotFoundError('Visit summary PDF');
       const file = path.join(folder(row.assessment_id), summaryFile(id));
       if (!fs.existsSync(file)) throw new NotFoundError('Visit summary PDF');
-      if (!isStaff(user)) await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'summary.viewed', detail: { summaryId: id } });
-      const athlete = await db('athletes').where({ id: row.athlete_id }).first<{ first_name: string; last_name: string }>('first_name', 'last_name');
+      if (!isStaff(user))
+        await audit(db, {
+          clinicId: user.clinicId,
+          actorId: user.id,
+          athleteId: row.athlete_id,
+          action: 'summary.viewed',
+          detail: { summaryId: id },
+        });
+      const athlete = await db('athletes')
+        .where({ id: row.athlete_id })
+        .first<{ first_name: string; last_name: string }>('first_name', 'last_name');
       const visit = await db<AssessmentRow>('assessments').where({ id: row.assessment_id }).first();
       const fileName = summaryFileName({
         athleteName: `${athlete.first_name} ${athlete.last_name}`,
@@ -166,10 +214,16 @@ export function summariesService(d: SummariesDeps) {
       const progress = (f: number) => repo.update(db, id, { progress: Math.min(0.95, f) });
       const assessment = await db<AssessmentRow>('assessments').where({ id: row.assessment_id }).first();
       if (!assessment) throw new PermanentJobError('The assessment of this summary was deleted.');
-      const baseline = row.baseline_assessment_id ? ((await db<AssessmentRow>('assessments').where({ id: row.baseline_assessment_id }).first()) ?? null) : null;
-      const athlete = await db('athletes').where({ id: row.athlete_id }).first<{ first_name: string; last_name: string }>('first_name', 'last_name');
+      const baseline = row.baseline_assessment_id
+        ? ((await db<AssessmentRow>('assessments').where({ id: row.baseline_assessment_id }).first()) ?? null)
+        : null;
+      const athlete = await db('athletes')
+        .where({ id: row.athlete_id })
+        .first<{ first_name: string; last_name: string }>('first_name', 'last_name');
       const clinic = await db('clinics').where({ id: row.clinic_id }).first<{ name: string }>('name');
-      const coach = row.created_by ? await db('users').where({ id: row.created_by }).first<{ name: string } | undefined>('name') : undefined;
+      const coach = row.created_by
+        ? await db('users').where({ id: row.created_by }).first<{ name: string } | undefined>('name')
+        : undefined;
 
       const visitOf = (a: AssessmentRow): SummaryVisit => ({
         label: visitLabel(a),

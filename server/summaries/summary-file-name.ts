@@ -19,7 +19,11 @@ export interface SummaryFileName {
 export function summaryFileName(p: { athleteName: string; what: string; date: string }): SummaryFileName {
   const { what } = p;
   // Characters no file system accepts, and control characters, become spaces.
-  const clean = (s: string) => s.replace(/[\\/:*?"<>|\p{Cc}]+/gu, ' ').replace(/\s+/g, ' ').trim();
+  const clean = (s: string) =>
+    s
+      .replace(/[\\/:*?"<>|\p{Cc}]+/gu, ' ')
+      .replace(/\s+/g, ' ')
+      .trim();
   const utf8 = `${[clean(p.athleteName), clean(what), p.date].filter(Boolean).join(' – ')}.pdf`;
   const ascii =
     [p.athleteName, what, p.date]

@@ -1,8 +1,4 @@
-import {
-  provideHttpClient,
-  withInterceptors,
-  withXsrfConfiguration,
-} from '@angular/common/http';
+import { provideHttpClient, withInterceptors, withXsrfConfiguration } from '@angular/common/http';
 import { registerLocaleData } from '@angular/common';
 import localeEnGb from '@angular/common/locales/en-GB';
 import {
@@ -33,7 +29,11 @@ export const appConfig: ApplicationConfig = {
     provideBrowserGlobalErrorListeners(),
     provideZonelessChangeDetection(),
     // After an update, a page still pointing at the old build's chunks reloads from the server.
-    provideRouter(routes, withComponentInputBinding(), withNavigationErrorHandler((e) => reloadOnStaleBuild(e))),
+    provideRouter(
+      routes,
+      withComponentInputBinding(),
+      withNavigationErrorHandler((e) => reloadOnStaleBuild(e)),
+    ),
     provideHttpClient(
       withInterceptors([errorInterceptor]),
       withXsrfConfiguration({ cookieName: 'XSRF-TOKEN', headerName: 'X-XSRF-TOKEN' }),

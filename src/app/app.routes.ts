@@ -1,10 +1,5 @@
 import { Routes } from '@angular/router';
-import {
-  anonymousOnlyGuard,
-  redirectHome,
-  roleGuard,
-  signedInGuard,
-} from './core/auth-guards';
+import { anonymousOnlyGuard, redirectHome, roleGuard, signedInGuard } from './core/auth-guards';
 import { Shell } from './core/shell/shell';
 
 export const routes: Routes = [
@@ -17,22 +12,17 @@ export const routes: Routes = [
   {
     path: 'forgot-password',
     title: 'Forgot password · Trailframe',
-    loadComponent: () =>
-      import('./features/auth/forgot-password/forgot-password').then((m) => m.ForgotPassword),
+    loadComponent: () => import('./features/auth/forgot-password/forgot-password').then((m) => m.ForgotPassword),
   },
   {
     path: 'reset-password/:token',
     title: 'Choose a new password · Trailframe',
-    loadComponent: () =>
-      import('./features/auth/reset-password/reset-password').then((m) => m.ResetPassword),
+    loadComponent: () => import('./features/auth/reset-password/reset-password').then((m) => m.ResetPassword),
   },
   {
     path: 'invitation/:token',
     title: 'Join your clinic · Trailframe',
-    loadComponent: () =>
-      import('./features/auth/invitation-accept/invitation-accept').then(
-        (m) => m.InvitationAccept,
-      ),
+    loadComponent: () => import('./features/auth/invitation-accept/invitation-accept').then((m) => m.InvitationAccept),
   },
   {
     path: '',

@@ -52,7 +52,13 @@ async function boot(user: SessionUser | null, url: string, demoMode = false) {
       // …what the clinic shared with them; nothing yet.
       { provide: StillsApi, useValue: { portalShared: () => of({ stills: [], summaries: [] }) } },
       // …and what they owe; nothing.
-      { provide: BillingApi, useValue: { invoices: () => of({ invoices: [], totals: { currency: 'EUR', count: 0, totalMinor: 0, outstandingMinor: 0, paidMinor: 0, refundedMinor: 0 } }) } },
+      {
+        provide: BillingApi,
+        useValue: {
+          invoices: () =>
+            of({ invoices: [], totals: { currency: 'EUR', count: 0, totalMinor: 0, outstandingMinor: 0, paidMinor: 0, refundedMinor: 0 } }),
+        },
+      },
     ],
   });
   await TestBed.inject(AuthStore).load();
@@ -71,15 +77,13 @@ describe('App', () => {
     expect(element.textContent).toContain('Forgot password?');
   });
 
-  it("puts a signed-in athlete in the shell on their portal home with their own navigation", async () => {
+  it('puts a signed-in athlete in the shell on their portal home with their own navigation', async () => {
     const { element, router } = await boot(athlete, '/');
     expect(router.url).toBe('/portal');
     expect(element.querySelector('app-shell')).not.toBeNull();
     expect(element.querySelector('.top-bar')?.textContent).toContain('Trailframe');
     expect(element.querySelector('.top-bar')?.textContent).toContain('Test Clinic');
-    const nav = [...element.querySelectorAll('nav[aria-label="Main"] [matListItemTitle]')].map((a) =>
-      a.textContent?.trim(),
-    );
+    const nav = [...element.querySelectorAll('nav[aria-label="Main"] [matListItemTitle]')].map((a) => a.textContent?.trim());
     expect(nav).toEqual(['Home', 'My plan', 'My invoices', 'My profile']);
     expect(element.querySelector('h1')?.textContent).toContain('Welcome, Sam');
     expect(element.textContent).toContain('Your assessments');

@@ -182,7 +182,11 @@ export interface CheckoutStart {
 }
 
 /** Net, tax and total of one line: tax rounded half-up per line (integer arithmetic). */
-export function lineAmounts(line: Pick<InvoiceLineWrite, 'quantity' | 'unitAmountMinor' | 'taxRateBp'>): { netMinor: number; taxMinor: number; totalMinor: number } {
+export function lineAmounts(line: Pick<InvoiceLineWrite, 'quantity' | 'unitAmountMinor' | 'taxRateBp'>): {
+  netMinor: number;
+  taxMinor: number;
+  totalMinor: number;
+} {
   const netMinor = line.quantity * line.unitAmountMinor;
   const bp = line.taxRateBp ?? 0;
   // Half-up on a non-negative amount: floor((net × bp + 5000) / 10000).
@@ -191,7 +195,11 @@ export function lineAmounts(line: Pick<InvoiceLineWrite, 'quantity' | 'unitAmoun
 }
 
 /** Subtotal, tax and total of an invoice: sums of the per-line amounts. */
-export function invoiceTotals(lines: Pick<InvoiceLineWrite, 'quantity' | 'unitAmountMinor' | 'taxRateBp'>[]): { subtotalMinor: number; taxMinor: number; totalMinor: number } {
+export function invoiceTotals(lines: Pick<InvoiceLineWrite, 'quantity' | 'unitAmountMinor' | 'taxRateBp'>[]): {
+  subtotalMinor: number;
+  taxMinor: number;
+  totalMinor: number;
+} {
   let subtotalMinor = 0;
   let taxMinor = 0;
   for (const l of lines) {
@@ -206,6 +214,8 @@ export function invoiceTotals(lines: Pick<InvoiceLineWrite, 'quantity' | 'unitAm
 export function formatMinor(minor: number): string {
   const sign = minor < 0 ? '-' : '';
   const abs = Math.abs(minor);
-  const whole = Math.floor(abs / 100).toString().replace(/\B(?=(\d{3})+(?!\d))/g, ',');
+  const whole = Math.floor(abs / 100)
+    .toString()
+    .replace(/\B(?=(\d{3})+(?!\d))/g, ',');
   return `${sign}${whole}.${String(abs % 100).padStart(2, '0')}`;
 }

@@ -128,7 +128,8 @@ export interface Exercise {
 }
 
 /** Body of POST/PATCH `/api/exercises`; `source` may be left out (stored empty). */
-export type ExerciseWrite = Pick<Exercise, 'name' | 'purpose' | 'region' | 'kind' | 'dose' | 'instructions' | 'cautions'> & Partial<Pick<Exercise, 'source'>>;
+export type ExerciseWrite = Pick<Exercise, 'name' | 'purpose' | 'region' | 'kind' | 'dose' | 'instructions' | 'cautions'> &
+  Partial<Pick<Exercise, 'source'>>;
 
 /** Query of the library search. */
 export interface ExerciseQuery {

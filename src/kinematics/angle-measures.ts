@@ -13,7 +13,6 @@ import { mean } from './stats';
 const THIGH_NOTE =
   'Thigh = hip→knee from the global vertical (+ flexion, − extension), not from the pelvis: 2D thigh-from-vertical overstates hip extension relative to the pelvis by about the pelvic anterior tilt.';
 
-
 export function angleMeasures(ctx: Ctx, side: Side): Measure[] {
   const out: Measure[] = [];
   const a = (f: number) => angleAt(ctx, f, side);
@@ -47,7 +46,9 @@ export function angleMeasures(ctx: Ctx, side: Side): Measure[] {
         return h === undefined ? undefined : -h;
       },
       `Hip extension relative to the trunk line = −(thigh + trunk lean) at toe-off (trunk = hip→shoulder from vertical, + forward). A forward lean lowers it; it does not see the pelvis, so pelvic tilt or lumbar arching under an upright trunk still counts as extension here.${
-        fallbackUsed(toFrames) ? ` The trunk came from the ${otherWord(side)} side's shoulder and hip where this side's were not marked.` : ''
+        fallbackUsed(toFrames)
+          ? ` The trunk came from the ${otherWord(side)} side's shoulder and hip where this side's were not marked.`
+          : ''
       }`,
     ),
   );
@@ -119,12 +120,18 @@ export function angleMeasures(ctx: Ctx, side: Side): Measure[] {
   return out;
 }
 
-
 function peakKneeFlexion(ctx: Ctx, side: Side): Measure {
   const stances = ctx.cycles.stances.filter((s) => s.side === side);
   const derivation = `Largest knee flexion (thigh − shank) over the frames of each stance, initial contact → toe-off; needs hip, knee and ankle marked at least every ${PEAK_KNEE_MAX_GAP_FRACTION * 100} % of the stance so the peak is not missed. Mean ± SD over stances.`;
   if (stances.length === 0)
-    return build(ctx, 'knee_flexion_peak_stance', side, [], derivation, `No complete ${side} stance (initial contact followed by toe-off) marked.`);
+    return build(
+      ctx,
+      'knee_flexion_peak_stance',
+      side,
+      [],
+      derivation,
+      `No complete ${side} stance (initial contact followed by toe-off) marked.`,
+    );
   const values: number[] = [];
   let sparse = 0;
   for (const s of stances) {
@@ -144,7 +151,9 @@ function peakKneeFlexion(ctx: Ctx, side: Side): Measure {
     side,
     values,
     derivation + (sparse && values.length ? ` ${sparse} of ${stances.length} stances were marked too sparsely and left out.` : ''),
-    stances.some((s) => coverage(s.icFrame, s.toFrame, Infinity, (f) => angleAt(ctx, f, side)?.kneeFlexionDeg !== undefined).frames.length > 0)
+    stances.some(
+      (s) => coverage(s.icFrame, s.toFrame, Infinity, (f) => angleAt(ctx, f, side)?.kneeFlexionDeg !== undefined).frames.length > 0,
+    )
       ? `Hip, knee and ankle are not marked densely enough through any ${side} stance (need at least every ${PEAK_KNEE_MAX_GAP_FRACTION * 100} % of stance, ${stances.length} stance${stances.length === 1 ? '' : 's'} checked).`
       : `Hip, knee and ankle not marked on any frame of a ${side} stance.`,
   );
@@ -153,7 +162,15 @@ function peakKneeFlexion(ctx: Ctx, side: Side): Measure {
 function footAngle(ctx: Ctx, side: Side): Measure {
   const base =
     'Foot angle = heel→toe from horizontal on each initial-contact frame, + toe up. Foot strike by the cut-offs of Mo et al. 2021 (forefoot ≤ −0.8°, rearfoot ≥ 7.4°, midfoot between), which assume the angle relative to standing posture; this angle is relative to the horizontal (marker offsets of a standing frame not removed).';
-  const m = atEvent(ctx, 'foot_angle_initial_contact', side, 'initial_contact', 'heel and toe', (f) => angleAt(ctx, f, side)?.footDeg, base);
+  const m = atEvent(
+    ctx,
+    'foot_angle_initial_contact',
+    side,
+    'initial_contact',
+    'heel and toe',
+    (f) => angleAt(ctx, f, side)?.footDeg,
+    base,
+  );
   if (m.status === 'ok') {
     const counts: Record<FootStrike, number> = { rearfoot: 0, midfoot: 0, forefoot: 0 };
     for (const v of m.values) counts[classifyFootStrike(v)]++;
@@ -195,4 +212,3 @@ function trunkLean(ctx: Ctx, side: Side): Measure {
       : `Shoulder and hip not marked on any frame of a ${side} stance.`,
   );
 }
-

@@ -8,7 +8,15 @@
  * never "beyond" beside a number that equals the threshold.
  */
 import type { Side } from '../contracts/assessment';
-import type { BetterDirection, ChangeDirection, ClipMeasures, ComparisonRow, ComparisonVerdict, MeasureKey, MeasurementErrorThreshold } from '../contracts/measures';
+import type {
+  BetterDirection,
+  ChangeDirection,
+  ClipMeasures,
+  ComparisonRow,
+  ComparisonVerdict,
+  MeasureKey,
+  MeasurementErrorThreshold,
+} from '../contracts/measures';
 import { DEFAULT_REFERENCE_BANDS } from './bands';
 import { formatValue, roundForUnit } from './format';
 import { MIN_STEPS_FOR_RELIABLE_MEAN } from './measure-definitions';
@@ -46,21 +54,24 @@ export const MEASUREMENT_ERROR: Partial<Record<MeasureKey, MeasurementErrorThres
     unit: '°',
     source: `${DINGENEN} (knee flexion at midstance 2.3–3.8°)`,
     evidence: 'pub',
-    derivation: 'Upper smallest detectable difference for knee flexion at midstance (3.8°), the nearest published figure for peak knee flexion in stance.',
+    derivation:
+      'Upper smallest detectable difference for knee flexion at midstance (3.8°), the nearest published figure for peak knee flexion in stance.',
   },
   hip_extension_toe_off: {
     value: 5.5,
     unit: '°',
     source: `${DAMSTED} (hip, widths 9–11°)`,
     evidence: 'calc',
-    derivation: 'Half the upper 95 % prediction-interval width for the hip (11° / 2 = 5.5°): a between-day difference inside ±W/2 is expected 95 % of the time.',
+    derivation:
+      'Half the upper 95 % prediction-interval width for the hip (11° / 2 = 5.5°): a between-day difference inside ±W/2 is expected 95 % of the time.',
   },
   hip_extension_toe_off_rel_trunk: {
     value: 5.5,
     unit: '°',
     source: `${DAMSTED} (hip, widths 9–11°)`,
     evidence: 'calc',
-    derivation: 'Half the upper 95 % prediction-interval width for the hip (11° / 2 = 5.5°): a between-day difference inside ±W/2 is expected 95 % of the time.',
+    derivation:
+      'Half the upper 95 % prediction-interval width for the hip (11° / 2 = 5.5°): a between-day difference inside ±W/2 is expected 95 % of the time.',
   },
 };
 
@@ -235,4 +246,3 @@ export function verdictText(row: Pick<ComparisonRow, 'verdict' | 'direction' | '
 export function thresholdText(threshold: MeasurementErrorThreshold): string {
   return `±${formatValue(threshold.value, threshold.unit)}`;
 }
-

@@ -88,7 +88,9 @@ export function validateEvents(events: readonly GaitEventMark[], frameCount: num
     const sideOk = (SIDES as readonly string[]).includes(e?.side);
     const kindOk = Object.prototype.hasOwnProperty.call(KIND_ORDER, e?.kind);
     if (!sideOk || !kindOk) {
-      problems.push(`Unknown gait event ${JSON.stringify({ side: e?.side, kind: e?.kind })}: side must be left or right, kind initial_contact, midstance or toe_off.`);
+      problems.push(
+        `Unknown gait event ${JSON.stringify({ side: e?.side, kind: e?.kind })}: side must be left or right, kind initial_contact, midstance or toe_off.`,
+      );
       continue;
     }
     const where = `${SIDE_WORD[e.side]} ${eventWord(e.kind)}`;
@@ -137,9 +139,10 @@ export function validateEvents(events: readonly GaitEventMark[], frameCount: num
         lastTo = e;
       } else {
         if (state === 'swing')
-          problems.push(`${S} midstance at frame ${e.frame} falls after toe-off (frame ${lastTo!.frame}) and before the next initial contact: midstance belongs inside a stance.`);
-        else if (state === 'stance_ms')
-          problems.push(`${S} side: two midstances in one stance (frames ${last!.frame} and ${e.frame}).`);
+          problems.push(
+            `${S} midstance at frame ${e.frame} falls after toe-off (frame ${lastTo!.frame}) and before the next initial contact: midstance belongs inside a stance.`,
+          );
+        else if (state === 'stance_ms') problems.push(`${S} side: two midstances in one stance (frames ${last!.frame} and ${e.frame}).`);
         else state = 'stance_ms';
       }
       last = e;
@@ -170,7 +173,8 @@ export function eventWarnings(events: readonly GaitEventMark[]): string[] {
   const overlaps: string[] = [];
   for (const l of bySide('left'))
     for (const r of bySide('right'))
-      if (l.icFrame < r.toFrame && r.icFrame < l.toFrame) overlaps.push(`${Math.max(l.icFrame, r.icFrame)}–${Math.min(l.toFrame, r.toFrame)}`);
+      if (l.icFrame < r.toFrame && r.icFrame < l.toFrame)
+        overlaps.push(`${Math.max(l.icFrame, r.icFrame)}–${Math.min(l.toFrame, r.toFrame)}`);
   if (overlaps.length)
     out.push(
       `Left and right stance overlap at frames ${overlaps.slice(0, 5).join(', ')}${overlaps.length > 5 ? ', …' : ''} (both feet down). Running has no double support: check the sides of those events.`,

@@ -101,4 +101,3 @@ export function bandRange(band: Pick<ReferenceBand, 'low' | 'high' | 'unit'>): s
   if (high !== null) return `≤ ${joinUnit(n(high), unit)}`;
   return 'No limits';
 }
-

@@ -60,7 +60,6 @@ export const toRad = (deg: number): number => (deg * Math.PI) / 180;
 // its unit is part of the type, so metres and pixels cannot be confused either. `Point` stays the
 // structural y-up type the angle functions accept (a `PlanePoint` is a `Point`).
 
-
 /** Length unit of a plane point: frame pixels (unit-less scale, fine for angles) or metres. */
 export type PlaneUnit = 'px' | 'm';
 

@@ -88,7 +88,9 @@ export function atEvent(
     if (v === undefined || !Number.isFinite(v)) without.push(f);
     else values.push(v);
   }
-  const coverage = without.length ? ` ${values.length} of ${frames.length} ${ev}s had ${needs} marked (missing on frames ${framesList(without)}).` : '';
+  const coverage = without.length
+    ? ` ${values.length} of ${frames.length} ${ev}s had ${needs} marked (missing on frames ${framesList(without)}).`
+    : '';
   return build(
     ctx,
     key,
@@ -111,4 +113,3 @@ export function coverage(from: number, to: number, maxGap: number, has: (f: numb
   for (let i = 1; covered && i < frames.length; i++) if (frames[i]! - frames[i - 1]! > maxGap) covered = false;
   return { frames, covered };
 }
-

@@ -59,13 +59,25 @@ const def = (key: MeasureKey, label: string, unit: string, event: GaitEventKind 
 /** Every measure, in display order. */
 export const MEASURE_DEFINITIONS: Readonly<Record<MeasureKey, MeasureDefinition>> = {
   hip_extension_toe_off: def('hip_extension_toe_off', 'Hip extension at toe-off (thigh from vertical)', UNITS.deg, 'toe_off', true),
-  hip_extension_toe_off_rel_trunk: def('hip_extension_toe_off_rel_trunk', 'Hip extension at toe-off relative to the trunk', UNITS.deg, 'toe_off', true),
+  hip_extension_toe_off_rel_trunk: def(
+    'hip_extension_toe_off_rel_trunk',
+    'Hip extension at toe-off relative to the trunk',
+    UNITS.deg,
+    'toe_off',
+    true,
+  ),
   knee_flexion_initial_contact: def('knee_flexion_initial_contact', 'Knee flexion at initial contact', UNITS.deg, 'initial_contact', true),
   knee_flexion_peak_stance: def('knee_flexion_peak_stance', 'Peak knee flexion in stance', UNITS.deg, null, true),
   shank_angle_initial_contact: def('shank_angle_initial_contact', 'Shank angle at initial contact', UNITS.deg, 'initial_contact', true),
   foot_angle_initial_contact: def('foot_angle_initial_contact', 'Foot angle at initial contact', UNITS.deg, 'initial_contact', true),
   trunk_lean: def('trunk_lean', 'Trunk lean over stance', UNITS.deg, null, true),
-  heel_ahead_of_hip_initial_contact: def('heel_ahead_of_hip_initial_contact', 'Heel ahead of hip at initial contact', UNITS.m, 'initial_contact', true),
+  heel_ahead_of_hip_initial_contact: def(
+    'heel_ahead_of_hip_initial_contact',
+    'Heel ahead of hip at initial contact',
+    UNITS.m,
+    'initial_contact',
+    true,
+  ),
   cadence: def('cadence', 'Cadence', UNITS.stepsPerMin, null, false),
   step_time: def('step_time', 'Step time', UNITS.s, null, false),
   stride_time: def('stride_time', 'Stride time', UNITS.s, null, false),
@@ -76,7 +88,13 @@ export const MEASURE_DEFINITIONS: Readonly<Record<MeasureKey, MeasureDefinition>
   duty_factor: def('duty_factor', 'Duty factor', UNITS.pct, null, true),
   vertical_oscillation: def('vertical_oscillation', 'Vertical oscillation of the hip', UNITS.cm, null, false),
   symmetry_contact_time: def('symmetry_contact_time', 'Left/right symmetry of contact time', UNITS.pct, null, false),
-  symmetry_hip_extension_toe_off: def('symmetry_hip_extension_toe_off', 'Left/right symmetry of hip extension at toe-off', UNITS.pct, 'toe_off', false),
+  symmetry_hip_extension_toe_off: def(
+    'symmetry_hip_extension_toe_off',
+    'Left/right symmetry of hip extension at toe-off',
+    UNITS.pct,
+    'toe_off',
+    false,
+  ),
 };
 
 /** Measure keys in display order. */

@@ -22,12 +22,29 @@ import { KINEMATICS_VERSION, MEASURE_KEYS, MIN_STEPS_FOR_RELIABLE_MEAN, SIDE_ORD
 import { symmetryIndexPct } from './stats';
 import { timingMeasures, untimed } from './step-timing';
 
-function symmetry(ctx: Ctx, key: 'symmetry_contact_time' | 'symmetry_hip_extension_toe_off', source: Measure[], what: string, unit: string, d: number): Measure {
+function symmetry(
+  ctx: Ctx,
+  key: 'symmetry_contact_time' | 'symmetry_hip_extension_toe_off',
+  source: Measure[],
+  what: string,
+  unit: string,
+  d: number,
+): Measure {
   const L = source.find((m) => m.side === 'left');
   const R = source.find((m) => m.side === 'right');
   const formula = 'Symmetry index = |L − R| ÷ mean(L, R) × 100 % (0 % = symmetric), from each side’s mean.';
   if (!L || !R || L.status !== 'ok' || R.status !== 'ok')
-    return build(ctx, key, null, [], formula, `Needs ${what} on both sides (${[L, R].filter((m) => m?.status !== 'ok').map((m) => m?.side ?? '?').join(' and ')} missing).`);
+    return build(
+      ctx,
+      key,
+      null,
+      [],
+      formula,
+      `Needs ${what} on both sides (${[L, R]
+        .filter((m) => m?.status !== 'ok')
+        .map((m) => m?.side ?? '?')
+        .join(' and ')} missing).`,
+    );
   const si = symmetryIndexPct(L.mean!, R.mean!);
   const detail = ` Left ${fmt(L.mean!, d)} ${unit} (n = ${L.n}), right ${fmt(R.mean!, d)} ${unit} (n = ${R.n}), |L − R| = ${fmt(Math.abs(L.mean! - R.mean!), d)} ${unit}; n = the smaller side's count.`;
   if (si === null)
@@ -59,7 +76,12 @@ export function computeClipMeasures(input: ClipMeasureInput): ClipMeasures {
   const problems = validateEvents(annotations.events, frameCount);
   for (const p of problems) notes.push(`Event marks: ${p}`);
   const events = annotations.events.filter(
-    (e) => Number.isInteger(e.frame) && e.frame >= 0 && e.frame < frameCount && (e.side === 'left' || e.side === 'right') && e.kind in GAIT_EVENT_LABELS,
+    (e) =>
+      Number.isInteger(e.frame) &&
+      e.frame >= 0 &&
+      e.frame < frameCount &&
+      (e.side === 'left' || e.side === 'right') &&
+      e.kind in GAIT_EVENT_LABELS,
   );
   const cycles = buildGaitCycles(events);
   notes.push(...eventWarnings(events), ...cycles.excluded);
@@ -82,7 +104,9 @@ export function computeClipMeasures(input: ClipMeasureInput): ClipMeasures {
   const mPerPx = metresPerPixel(annotations.scale, frameSize);
   if (annotations.scale && mPerPx === null) notes.push('The scale bar has no length in pixels or metres, so it is ignored.');
   if (mPerPx === null)
-    notes.push('No scale bar: angles and times are unaffected, but heel-ahead-of-hip, vertical oscillation and overground lengths need one.');
+    notes.push(
+      'No scale bar: angles and times are unaffected, but heel-ahead-of-hip, vertical oscillation and overground lengths need one.',
+    );
 
   const ctx: Ctx = {
     input,
@@ -118,6 +142,5 @@ export function computeClipMeasures(input: ClipMeasureInput): ClipMeasures {
   const hasScale = mPerPx !== null || (input.surface === 'treadmill' && input.beltSpeedMps !== null && input.beltSpeedMps > 0);
   return { kinematicsVersion: KINEMATICS_VERSION, clipId: input.clipId, hasScale, measures, angles, notes };
 }
-
 
 const sideRank = (s: Side | null) => (s === null ? 0 : s === 'left' ? 1 : 2);

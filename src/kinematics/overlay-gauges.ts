@@ -39,7 +39,12 @@ export interface OverlayGauge {
  * Where each usable gauge of `gauges` goes, px (degenerate ones — an arm without length — are left
  * out). `unit` is the label font size, px: the arc and label offsets scale with it.
  */
-export function gaugeLayout(gauges: readonly AngleGauge[], frameSize: FrameSize, unit: number, selectedId: string | null = null): OverlayGauge[] {
+export function gaugeLayout(
+  gauges: readonly AngleGauge[],
+  frameSize: FrameSize,
+  unit: number,
+  selectedId: string | null = null,
+): OverlayGauge[] {
   const out: OverlayGauge[] = [];
   for (const g of gauges) {
     const valueDeg = gaugeAngleDeg(g, frameSize);
@@ -85,7 +90,11 @@ function segment(ctx: Canvas2DLike, p: Point, q: Point): void {
  * arc, white handles at the three points (larger with a ring when selected), and the value on a
  * dark halo. Leaves the context's state as it found it.
  */
-export function drawGauges(ctx: Canvas2DLike, gauges: readonly OverlayGauge[], style: { lineWidth: number; markerRadius: number; font: string; fontPx: number }): void {
+export function drawGauges(
+  ctx: Canvas2DLike,
+  gauges: readonly OverlayGauge[],
+  style: { lineWidth: number; markerRadius: number; font: string; fontPx: number },
+): void {
   if (!gauges.length) return;
   const { lineWidth, markerRadius, font, fontPx } = style;
   ctx.save();

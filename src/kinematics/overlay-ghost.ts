@@ -51,7 +51,8 @@ export function drawGhostSkeleton(ctx: Canvas2DLike, opts: GhostOptions): void {
   for (const row of opts.landmarks) {
     if (row.side !== 'left' && row.side !== 'right') continue;
     const px: Partial<Record<LandmarkName, Point>> = {};
-    for (const [name, p] of Object.entries(row.points ?? {}) as [LandmarkName, Point | undefined][]) if (isFinitePoint(p)) px[name] = frameToPixel(p, opts.frameSize);
+    for (const [name, p] of Object.entries(row.points ?? {}) as [LandmarkName, Point | undefined][])
+      if (isFinitePoint(p)) px[name] = frameToPixel(p, opts.frameSize);
     for (const s of OVERLAY_SEGMENTS) {
       const a = px[s.from];
       const b = px[s.to];

@@ -21,7 +21,8 @@ export function labelBox(l: PlacedLabel, fontPx: number): { left: number; right:
   return { left, right: left + w, top: l.y - h / 2, bottom: l.y + h / 2 };
 }
 
-const overlap = (a: ReturnType<typeof labelBox>, b: ReturnType<typeof labelBox>) => a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom;
+const overlap = (a: ReturnType<typeof labelBox>, b: ReturnType<typeof labelBox>) =>
+  a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom;
 
 /**
  * Moves labels down, in order, until none overlaps an earlier one (each only ever moves down, so

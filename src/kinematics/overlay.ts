@@ -85,7 +85,11 @@ export const VIEW_LABEL_PX = 13;
 export const MIN_VIEW_LABEL_PX = 12;
 
 /** Marker radius, label font and line width in frame pixels for one frame and view. */
-export function overlaySizes(frameSize: { width: number; height: number }, viewScale?: number, markerRadiusPx?: number): { markerRadius: number; fontPx: number; lineWidth: number; arcRadius: number } {
+export function overlaySizes(
+  frameSize: { width: number; height: number },
+  viewScale?: number,
+  markerRadiusPx?: number,
+): { markerRadius: number; fontPx: number; lineWidth: number; arcRadius: number } {
   const minDim = Math.max(1, Math.min(frameSize.width, frameSize.height));
   if (viewScale !== undefined && Number.isFinite(viewScale) && viewScale > 0) {
     const px = (view: number) => view / viewScale;
@@ -261,7 +265,9 @@ export function overlayLabelPositions(opts: OverlayOptions): OverlayLayout {
       if (isFinitePoint(p)) px[name] = frameToPixel(p, frameSize);
     bySide[e.side] = px;
   }
-  const angles: Partial<Record<Side, PoseAngles>> = opts.showAngles ? frameAngles(opts.landmarks, { frameSize, direction: opts.direction }) : {};
+  const angles: Partial<Record<Side, PoseAngles>> = opts.showAngles
+    ? frameAngles(opts.landmarks, { frameSize, direction: opts.direction })
+    : {};
 
   const far: Side = opts.nearSide === 'left' ? 'right' : 'left';
   const markers: OverlayMarker[] = [];
@@ -275,7 +281,17 @@ export function overlayLabelPositions(opts: OverlayOptions): OverlayLayout {
       const a = pts[s.from];
       const b = pts[s.to];
       if (a && b)
-        segments.push({ side, from: s.from, to: s.to, x1: a.x, y1: a.y, x2: b.x, y2: b.y, colour: s.trunk ? OVERLAY_COLOURS.trunk : OVERLAY_COLOURS[side], near });
+        segments.push({
+          side,
+          from: s.from,
+          to: s.to,
+          x1: a.x,
+          y1: a.y,
+          x2: b.x,
+          y2: b.y,
+          colour: s.trunk ? OVERLAY_COLOURS.trunk : OVERLAY_COLOURS[side],
+          near,
+        });
     }
     for (const [landmark, p] of Object.entries(pts) as [LandmarkName, Point][]) {
       const selected = !!opts.selected && opts.selected.side === side && opts.selected.landmark === landmark;

@@ -181,7 +181,8 @@ export function timingMeasures(ctx: Ctx): Measure[] {
 
 export function verticalOscillation(ctx: Ctx): Measure {
   const derivation = `Highest minus lowest hip-marker height over each stride (initial contact → next initial contact of one side), converted with the scale bar, in cm; needs the hip marked at least every ${OSCILLATION_MAX_GAP_FRACTION * 100} % of the stride so the top and bottom are not missed.`;
-  if (ctx.mPerPx === null) return build(ctx, 'vertical_oscillation', null, [], derivation, 'Needs a scale bar to turn pixels into centimetres.');
+  if (ctx.mPerPx === null)
+    return build(ctx, 'vertical_oscillation', null, [], derivation, 'Needs a scale bar to turn pixels into centimetres.');
   const mpp = ctx.mPerPx;
   const perSide: Record<Side, number[]> = { left: [], right: [] };
   for (const s of ctx.cycles.strides) {
@@ -212,14 +213,29 @@ export function verticalOscillation(ctx: Ctx): Measure {
 
 /** Every timing measure as not_enough_data (no usable fps or timestamps); vertical oscillation needs no time. */
 export function untimed(ctx: Ctx): Measure[] {
-  const keys: MeasureKey[] = ['cadence', 'step_time', 'stride_time', 'step_length', 'stride_length', 'contact_time', 'flight_time', 'duty_factor'];
+  const keys: MeasureKey[] = [
+    'cadence',
+    'step_time',
+    'stride_time',
+    'step_length',
+    'stride_length',
+    'contact_time',
+    'flight_time',
+    'duty_factor',
+  ];
   return [
     ...keys.flatMap((k) =>
       (MEASURE_DEFINITIONS[k].perSide ? SIDE_ORDER : [null]).map((side) =>
-        build(ctx, k, side, [], 'Times come from the frames\' timestamps or frame ÷ fps.', 'No usable frame rate or timestamps for this clip.'),
+        build(
+          ctx,
+          k,
+          side,
+          [],
+          "Times come from the frames' timestamps or frame ÷ fps.",
+          'No usable frame rate or timestamps for this clip.',
+        ),
       ),
     ),
     verticalOscillation(ctx),
   ];
 }
-

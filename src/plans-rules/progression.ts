@@ -46,7 +46,11 @@ export function checkCriterion(
       if (recentFirst.length < sessions) return { criterion, met: false, detail: tooFew(sessions) };
       const scores = lastN(sessions).map((l) => l.painDuring);
       const met = scores.every((s) => s <= max);
-      return { criterion, met, detail: `Pain during on the last ${plural(sessions, 'session')}: ${scores.join(', ')} (each must be at most ${max}/10).` };
+      return {
+        criterion,
+        met,
+        detail: `Pain during on the last ${plural(sessions, 'session')}: ${scores.join(', ')} (each must be at most ${max}/10).`,
+      };
     }
     case 'settled_by_morning': {
       const { sessions } = criterion;
@@ -56,7 +60,11 @@ export function checkCriterion(
       const met = missing === 0 && last.every((l) => l.morningPain !== null && isSettled(l.morningPain, rule));
       const scores = last.map((l) => (l.morningPain === null ? '–' : String(l.morningPain))).join(', ');
       const why = missing ? ` ${plural(missing, 'morning check')} missing.` : '';
-      return { criterion, met, detail: `Next-morning pain after the last ${plural(sessions, 'session')}: ${scores} (settled = at most ${rule.settledMorningMax}/10).${why}` };
+      return {
+        criterion,
+        met,
+        detail: `Next-morning pain after the last ${plural(sessions, 'session')}: ${scores} (settled = at most ${rule.settledMorningMax}/10).${why}`,
+      };
     }
     case 'all_sets_done': {
       const { sessions } = criterion;

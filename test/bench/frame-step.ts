@@ -21,7 +21,10 @@ try {
   await api.signIn(coach.email, coach.password);
   const ada = await h.server.db('athletes').where({ email: athlete.email }).first();
   const assessment = await h.server.db('assessments').where({ athlete_id: ada.id }).first();
-  const up = await api.agent.post(`/api/assessments/${assessment.id}/clips`).set('X-XSRF-TOKEN', await api.xsrf()).attach('file', file);
+  const up = await api.agent
+    .post(`/api/assessments/${assessment.id}/clips`)
+    .set('X-XSRF-TOKEN', await api.xsrf())
+    .attach('file', file);
   const clipId = up.body.id as number;
   for (let i = 0; (await api.get(`/api/clips/${clipId}`)).body.status !== 'ready'; i++) {
     if (i > 600) throw new Error('clip not ready');
@@ -46,10 +49,14 @@ try {
     w.presented = [];
     let t0 = 0;
     let waiting = false;
-    document.addEventListener('keydown', () => {
-      t0 = performance.now();
-      waiting = true;
-    }, true);
+    document.addEventListener(
+      'keydown',
+      () => {
+        t0 = performance.now();
+        waiting = true;
+      },
+      true,
+    );
     const proto = CanvasRenderingContext2D.prototype;
     const original = proto.drawImage;
     proto.drawImage = function (this: CanvasRenderingContext2D, ...args: unknown[]) {
@@ -71,10 +78,15 @@ try {
     const w = window as unknown as { drawn: number[]; presented: number[] };
     return { drawn: w.drawn, presented: w.presented };
   });
-  for (const [name, values] of [['key → frame drawn on the canvas', drawn], ['key → next animation frame after drawing', presented]] as const) {
+  for (const [name, values] of [
+    ['key → frame drawn on the canvas', drawn],
+    ['key → next animation frame after drawing', presented],
+  ] as const) {
     const lat = [...values].sort((a, b) => a - b);
     const q = (p: number) => lat[Math.min(lat.length - 1, Math.floor(p * lat.length))]!;
-    console.log(`${name} (${lat.length} steps): median ${q(0.5).toFixed(1)} ms (target ≤ 16, ratio ${(q(0.5) / 16).toFixed(2)}), p95 ${q(0.95).toFixed(1)} ms (target ≤ 33, ratio ${(q(0.95) / 33).toFixed(2)})`);
+    console.log(
+      `${name} (${lat.length} steps): median ${q(0.5).toFixed(1)} ms (target ≤ 16, ratio ${(q(0.5) / 16).toFixed(2)}), p95 ${q(0.95).toFixed(1)} ms (target ≤ 33, ratio ${(q(0.95) / 33).toFixed(2)})`,
+    );
   }
 } finally {
   await h.close();

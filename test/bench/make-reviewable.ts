@@ -72,7 +72,10 @@ const defaults: Variant = { name: `defaults (${DEFAULT_SCALER} ${DEFAULT_SCALE_F
 const grid: Variant[] = args.all
   ? [2, 4, 6, 8].flatMap((quality) =>
       (['zscale', 'swscale'] as const).flatMap((scaler) =>
-        [undefined, 1, 2].map((threads) => ({ name: `${scaler}, q ${quality}, threads ${threads ?? 'auto'}`, opts: { quality, scaler, threads } })),
+        [undefined, 1, 2].map((threads) => ({
+          name: `${scaler}, q ${quality}, threads ${threads ?? 'auto'}`,
+          opts: { quality, scaler, threads },
+        })),
       ),
     )
   : [
@@ -94,7 +97,23 @@ try {
   if (!clip) {
     clip = path.join(work, 'testsrc2-1080p120-10s.mp4');
     process.stdout.write('encoding 10 s 1920×1080 120 fps testsrc2 (libx264 veryfast, yuv420p)… ');
-    const enc = await timed(() => ffmpeg(['-f', 'lavfi', '-i', 'testsrc2=size=1920x1080:rate=120', '-t', '10', '-c:v', 'libx264', '-preset', 'veryfast', '-pix_fmt', 'yuv420p', clip!]));
+    const enc = await timed(() =>
+      ffmpeg([
+        '-f',
+        'lavfi',
+        '-i',
+        'testsrc2=size=1920x1080:rate=120',
+        '-t',
+        '10',
+        '-c:v',
+        'libx264',
+        '-preset',
+        'veryfast',
+        '-pix_fmt',
+        'yuv420p',
+        clip!,
+      ]),
+    );
     console.log(`${f2(enc.wallS)} s`);
   }
   const reps = Math.max(1, Number(args.reps));
@@ -132,7 +151,9 @@ try {
     );
   }
   const d = best(decode);
-  console.log(`\nffmpeg -f null decode (best of ${decode.length}): ${f2(d.wallS)} s wall, ${f2(d.cpuS)} s CPU; ${os.cpus().length} CPUs, load ${os.loadavg().map(f2).join(' ')}`);
+  console.log(
+    `\nffmpeg -f null decode (best of ${decode.length}): ${f2(d.wallS)} s wall, ${f2(d.cpuS)} s CPU; ${os.cpus().length} CPUs, load ${os.loadavg().map(f2).join(' ')}`,
+  );
   const ok = rows.filter((r) => r.t.wallS / d.wallS <= 1.5);
   console.log(ok.length ? `meets ≤ 1.5 × decode: ${ok.map((r) => r.v.name).join('; ')}` : 'no setting met ≤ 1.5 × decode here');
 } finally {

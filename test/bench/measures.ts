@@ -47,12 +47,16 @@ const events: GaitEventMark[] = [];
 for (const side of ['right', 'left'] as Side[]) {
   const offset = side === 'right' ? 0 : STRIDE / 2;
   for (let f = 0; f < FRAMES; f++) {
-    const p = (((f - offset) % STRIDE) + STRIDE) % STRIDE / STRIDE;
+    const p = ((((f - offset) % STRIDE) + STRIDE) % STRIDE) / STRIDE;
     const points = Object.fromEntries(Object.entries(pose(p)).map(([k, q]) => [k, frac(q)]));
     landmarks.push({ frame: f, side, points, source: 'tracked' });
   }
   for (let ic = offset; ic + CONTACT < FRAMES; ic += STRIDE) {
-    events.push({ frame: ic, side, kind: 'initial_contact' }, { frame: ic + CONTACT / 2, side, kind: 'midstance' }, { frame: ic + CONTACT, side, kind: 'toe_off' });
+    events.push(
+      { frame: ic, side, kind: 'initial_contact' },
+      { frame: ic + CONTACT / 2, side, kind: 'midstance' },
+      { frame: ic + CONTACT, side, kind: 'toe_off' },
+    );
   }
 }
 
@@ -73,7 +77,9 @@ const input: ClipMeasureInput = {
 const once = computeClipMeasures(input);
 const ok = once.measures.filter((m) => m.status === 'ok').length;
 const missing = once.measures.filter((m) => m.status !== 'ok').map((m) => `${m.key}${m.side ? `:${m.side}` : ''}`);
-console.log(`clip: ${FRAMES} frames × 2 sides (${landmarks.length} landmark rows), ${events.length} events, ${once.angles.length} angle samples`);
+console.log(
+  `clip: ${FRAMES} frames × 2 sides (${landmarks.length} landmark rows), ${events.length} events, ${once.angles.length} angle samples`,
+);
 console.log(`measures: ${ok} ok, ${missing.length} not_enough_data${missing.length ? ` (${missing.join(', ')})` : ''}`);
 
 for (let i = 0; i < 20; i++) computeClipMeasures(input); // warm-up (JIT)
@@ -86,5 +92,7 @@ for (let i = 0; i < RUNS; i++) {
 times.sort((a, b) => a - b);
 const mean = times.reduce((s, t) => s + t, 0) / times.length;
 const q = (p: number) => times[Math.min(times.length - 1, Math.floor(p * times.length))]!;
-console.log(`computeClipMeasures: mean ${mean.toFixed(2)} ms per run over ${RUNS} runs (min ${times[0]!.toFixed(2)}, median ${q(0.5).toFixed(2)}, p95 ${q(0.95).toFixed(2)} ms)`);
+console.log(
+  `computeClipMeasures: mean ${mean.toFixed(2)} ms per run over ${RUNS} runs (min ${times[0]!.toFixed(2)}, median ${q(0.5).toFixed(2)}, p95 ${q(0.95).toFixed(2)} ms)`,
+);
 console.log(`ratio to the ${TARGET_MS} ms target: ${(mean / TARGET_MS).toFixed(2)} (${mean <= TARGET_MS ? 'within' : 'OVER'} target)`);

@@ -18,7 +18,8 @@ const TARGET_MS = 300;
 
 const jpeg = await frameJpeg();
 const panel = runnerPanel(jpeg);
-const caption = 'Right toe-off at the re-test: the thigh now passes vertical and the hip reaches extension before the foot leaves the belt.';
+const caption =
+  'Right toe-off at the re-test: the thigh now passes vertical and the hip reaches extension before the foot leaves the belt.';
 
 async function full(): Promise<number> {
   const t0 = performance.now();

@@ -21,7 +21,11 @@ const TARGET_MS = 2000;
 
 const stills = [];
 for (let i = 0; i < 6; i++) {
-  const out = await renderStill({ panels: [runnerPanel(await frameJpeg(i + 1))], caption: `Still ${i + 1}: right toe-off, hip extension and knee angle marked.`, showAngles: true });
+  const out = await renderStill({
+    panels: [runnerPanel(await frameJpeg(i + 1))],
+    caption: `Still ${i + 1}: right toe-off, hip extension and knee angle marked.`,
+    showAngles: true,
+  });
   stills.push({ image: out.png, width: out.width, height: out.height, caption: '' });
 }
 
@@ -35,7 +39,17 @@ const events: GaitEventMark[] = [
   ...truth.events.near.initialContact.map((frame) => ({ frame, side: 'right' as const, kind: 'initial_contact' as const })),
   ...truth.events.near.toeOff.map((frame) => ({ frame, side: 'right' as const, kind: 'toe_off' as const })),
 ];
-const measures = computeClipMeasures({ clipId: 1, annotations: { landmarks, events, scale: null }, frameSize: { width: W, height: H }, fps: 120, direction: 'left_to_right', surface: 'treadmill', beltSpeedMps: 3, bands: DEFAULT_REFERENCE_BANDS, frameCount: truth.frameCount });
+const measures = computeClipMeasures({
+  clipId: 1,
+  annotations: { landmarks, events, scale: null },
+  frameSize: { width: W, height: H },
+  fps: 120,
+  direction: 'left_to_right',
+  surface: 'treadmill',
+  beltSpeedMps: 3,
+  bands: DEFAULT_REFERENCE_BANDS,
+  frameCount: truth.frameCount,
+});
 
 const base: SummaryDocument = {
   clinicName: 'Benchmark Clinic',
@@ -69,7 +83,9 @@ for (let i = 0; i < RUNS; i++) {
   without.push((await timeIt({ ...base, stills: [] })).ms);
 }
 const m = median(withStills);
-console.log(`summary PDF: ${last.pages} pages, ${(last.bytes / 1024).toFixed(0)} KiB, 6 stills of ${W}×${H} (+ heading and caption), ${RUNS} runs each, interleaved`);
+console.log(
+  `summary PDF: ${last.pages} pages, ${(last.bytes / 1024).toFixed(0)} KiB, 6 stills of ${W}×${H} (+ heading and caption), ${RUNS} runs each, interleaved`,
+);
 console.log(`with 6 stills:  median ${m.toFixed(0)} ms`);
 console.log(`without stills: median ${median(without).toFixed(0)} ms`);
 console.log(`ratio with / without: ${(m / median(without)).toFixed(2)}`);

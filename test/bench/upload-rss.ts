@@ -37,12 +37,25 @@ await db.destroy();
 await buildServer();
 const server = spawn(process.execPath, [SERVER_BUNDLE], {
   stdio: 'inherit',
-  env: { ...process.env, PORT: String(port), DB_FILE: path.join(dir, 'db.sqlite'), UPLOADS_DIR: path.join(dir, 'uploads'), CLIENT_DIR: '', FAKE_SMTP_PORT: '0', LOG_LEVEL: 'warn' },
+  env: {
+    ...process.env,
+    PORT: String(port),
+    DB_FILE: path.join(dir, 'db.sqlite'),
+    UPLOADS_DIR: path.join(dir, 'uploads'),
+    CLIENT_DIR: '',
+    FAKE_SMTP_PORT: '0',
+    LOG_LEVEL: 'warn',
+  },
 });
 const base = `http://127.0.0.1:${port}`;
 try {
   for (let i = 0; ; i++) {
-    if (await fetch(`${base}/api/health`).then((r) => r.ok).catch(() => false)) break;
+    if (
+      await fetch(`${base}/api/health`)
+        .then((r) => r.ok)
+        .catch(() => false)
+    )
+      break;
     if (i > 150) throw new Error('server did not start');
     await new Promise((r) => setTimeout(r, 200));
   }
@@ -64,13 +77,24 @@ try {
   });
   keep(signIn);
   const headers = () => ({ cookie: cookie(), 'x-xsrf-token': decodeURIComponent(jar.get('XSRF-TOKEN')!) });
-  const athletes = (await (await fetch(`${base}/api/athletes`, { headers: headers() })).json()) as { athletes: { id: number; lastName: string }[] };
+  const athletes = (await (await fetch(`${base}/api/athletes`, { headers: headers() })).json()) as {
+    athletes: { id: number; lastName: string }[];
+  };
   const ada = athletes.athletes.find((a) => a.lastName === 'Kestrel')!;
   const assessment = (await (
     await fetch(`${base}/api/athletes/${ada.id}/assessments`, {
       method: 'POST',
       headers: { ...headers(), 'content-type': 'application/json' },
-      body: JSON.stringify({ date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null }),
+      body: JSON.stringify({
+        date: '2026-11-30',
+        kind: 'baseline',
+        surface: 'treadmill',
+        speed: null,
+        inclinePercent: null,
+        shoes: null,
+        cameraNotes: null,
+        notes: null,
+      }),
     })
   ).json()) as { id: number };
 
@@ -99,7 +123,9 @@ try {
   peak = Math.max(peak, rssKb(server.pid!, 'VmHWM'));
   console.log(`upload of ${sizeMb} MB: HTTP ${res.status} in ${seconds.toFixed(1)} s (${(sizeMb / seconds).toFixed(0)} MB/s)`);
   console.log(`server RSS idle: ${(idle / 1024).toFixed(1)} MB`);
-  console.log(`server RSS peak while receiving: ${(peak / 1024).toFixed(1)} MB (target ≤ 150 MB: ${peak / 1024 <= 150 ? 'met' : 'NOT met'})`);
+  console.log(
+    `server RSS peak while receiving: ${(peak / 1024).toFixed(1)} MB (target ≤ 150 MB: ${peak / 1024 <= 150 ? 'met' : 'NOT met'})`,
+  );
   console.log(`ratio peak / idle: ${(peak / idle).toFixed(2)}; ratio peak / target: ${(peak / 1024 / 150).toFixed(2)}`);
 } finally {
   server.kill('SIGTERM');

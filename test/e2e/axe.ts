@@ -10,13 +10,25 @@ const AXE_SOURCE = fs.readFileSync(createRequire(import.meta.url).resolve('axe-c
  */
 export async function axeProblems(page: Page, within?: string): Promise<string[]> {
   // Colours are judged at rest: wait for running CSS animations and transitions (a dialog fading in).
-  await page.waitForFunction(() => document.getAnimations().every((a) => a.playState !== 'running' || a.effect?.getTiming().iterations === Infinity), null, { timeout: 5_000 }).catch(() => undefined);
+  await page
+    .waitForFunction(
+      () => document.getAnimations().every((a) => a.playState !== 'running' || a.effect?.getTiming().iterations === Infinity),
+      null,
+      { timeout: 5_000 },
+    )
+    .catch(() => undefined);
   // Evaluated through the browser's debugging protocol: the app's CSP rightly refuses inline scripts.
   await page.evaluate(AXE_SOURCE);
   const violations = await page.evaluate(async (sel) => {
-    const axe = (globalThis as unknown as { axe: { run(ctx: unknown, opts: unknown): Promise<{ violations: { id: string; impact: string; nodes: { target: string[] }[] }[] }> } }).axe;
+    const axe = (
+      globalThis as unknown as {
+        axe: { run(ctx: unknown, opts: unknown): Promise<{ violations: { id: string; impact: string; nodes: { target: string[] }[] }[] }> };
+      }
+    ).axe;
     const r = await axe.run(sel ? { include: [sel] } : document, { resultTypes: ['violations'] });
     return r.violations.map((v) => ({ id: v.id, impact: v.impact, targets: v.nodes.slice(0, 3).map((n) => n.target.join(' ')) }));
   }, within ?? null);
-  return violations.filter((v) => v.impact === 'critical' || v.impact === 'serious').map((v) => `${v.impact} ${v.id}: ${v.targets.join(' | ')}`);
+  return violations
+    .filter((v) => v.impact === 'critical' || v.impact === 'serious')
+    .map((v) => `${v.impact} ${v.id}: ${v.targets.join(' | ')}`);
 }

@@ -68,7 +68,8 @@ async function dismissSnackBar(page: Page): Promise<void> {
 }
 
 const invoice = () => h.server.db('invoices').where({ id: invoiceId }).first();
-const mailTo = (to: string, subject: string) => h.server.db('mailbox_messages').where('to_address', 'like', `%${to}%`).andWhere('subject', subject).first();
+const mailTo = (to: string, subject: string) =>
+  h.server.db('mailbox_messages').where('to_address', 'like', `%${to}%`).andWhere('subject', subject).first();
 
 describe('billing: invoice, card payment on the fake payment page, webhook, receipt, refund', () => {
   it('the owner sees the demo price list and invoices Ada for her Re-test (78.00 EUR) and issues it', async () => {
@@ -83,7 +84,11 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await phoneShot(page, 'billing-prices-phone.png');
 
     // From the visit itself: "Invoice this visit" chooses Ada, her Re-test and its price.
-    const retest = await h.server.db('assessments as s').join('athletes as a', 'a.id', 's.athlete_id').where({ 'a.email': athlete.email, 's.kind': 'retest' }).first('s.id', 's.athlete_id');
+    const retest = await h.server
+      .db('assessments as s')
+      .join('athletes as a', 'a.id', 's.athlete_id')
+      .where({ 'a.email': athlete.email, 's.kind': 'retest' })
+      .first('s.id', 's.athlete_id');
     await page.goto(`${h.baseUrl}/athletes/${retest.athlete_id}/assessments/${retest.id}`);
     await page.getByRole('link', { name: 'Invoice this visit' }).waitFor();
     await page.screenshot({ path: shot('billing-assessment-link-desktop.png') });
@@ -104,7 +109,9 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     invoiceId = Number(page.url().split('/').pop());
     await expect.poll(() => page.getByTestId('invoice-total').innerText()).toBe('156.00 EUR');
     await expect.poll(() => page.getByTestId('invoice-assessment').innerText()).toBe('Re-test · 24 Nov 2026');
-    expect(await page.getByTestId('invoice-assessment').getAttribute('href')).toBe(`/athletes/${retest.athlete_id}/assessments/${retest.id}`);
+    expect(await page.getByTestId('invoice-assessment').getAttribute('href')).toBe(
+      `/athletes/${retest.athlete_id}/assessments/${retest.id}`,
+    );
     await page.screenshot({ path: shot('billing-draft-desktop.png') });
     await phoneShot(page, 'billing-draft-phone.png');
     await page.getByRole('link', { name: 'Edit' }).click();
@@ -127,7 +134,11 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     invoiceNumber = (await invoice()).number;
     // Numbers continue per clinic and year after the demo's own (Ada's TF-2026-0001 and -0002).
     const year = new Date().getUTCFullYear();
-    const before = await h.server.db('invoices').where('number', 'like', `TF-${year}-%`).whereNot({ id: invoiceId }).count<{ n: number }[]>({ n: '*' });
+    const before = await h.server
+      .db('invoices')
+      .where('number', 'like', `TF-${year}-%`)
+      .whereNot({ id: invoiceId })
+      .count<{ n: number }[]>({ n: '*' });
     expect(invoiceNumber).toBe(`TF-${year}-${String(Number(before[0]!.n) + 1).padStart(4, '0')}`);
     await page.getByRole('heading', { name: `Invoice ${invoiceNumber}` }).waitFor();
     await page.screenshot({ path: shot('billing-invoice-issued-desktop.png') });
@@ -177,7 +188,10 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     expect(event).toBeTruthy();
     await page.screenshot({ path: shot('billing-portal-invoice-paid-phone.png'), fullPage: true });
 
-    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download receipt (PDF)' }).click()]);
+    const [download] = await Promise.all([
+      page.waitForEvent('download'),
+      page.getByRole('link', { name: 'Download receipt (PDF)' }).click(),
+    ]);
     const file = path.join(SCREENSHOTS, `receipt-${invoiceNumber}.pdf`);
     await download.saveAs(file);
     const text = (await new PDFParse({ data: fs.readFileSync(file) }).getText()).text;
@@ -277,7 +291,9 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await page.screenshot({ path: shot('billing-legal-details-error-desktop.png') });
     await page.getByLabel('Tax number (optional)').fill('GB 123 4567 89');
     await page.getByRole('button', { name: 'Save legal details' }).click();
-    await expect.poll(async () => (await h.server.db('clinics').where({ name: 'Larchwood Running Clinic' }).first()).tax_number).toBe('GB 123 4567 89');
+    await expect
+      .poll(async () => (await h.server.db('clinics').where({ name: 'Larchwood Running Clinic' }).first()).tax_number)
+      .toBe('GB 123 4567 89');
     // Once the confirmation is dismissed and the field's hint has faded back in.
     await dismissSnackBar(page);
     expect(await axeProblems(page)).toEqual([]);
@@ -323,7 +339,10 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     await page.screenshot({ path: shot('billing-record-payment-desktop.png') });
     await dialog.getByRole('button', { name: 'Mark as paid' }).click();
     await expect.poll(async () => (await h.server.db('invoices').where({ id }).first()).status).toBe('paid');
-    expect(await h.server.db('invoices').where({ id }).first()).toMatchObject({ payment_method: 'bank_transfer', payment_note: 'Transfer ref. RT-2211' });
+    expect(await h.server.db('invoices').where({ id }).first()).toMatchObject({
+      payment_method: 'bank_transfer',
+      payment_note: 'Transfer ref. RT-2211',
+    });
     await page.getByTestId('invoice-status').getByText('Paid').waitFor();
     expect(await page.getByTestId('invoice-paid').textContent()).toContain('Paid by bank transfer on');
     await dismissSnackBar(page);
@@ -334,7 +353,14 @@ describe('billing: invoice, card payment on the fake payment page, webhook, rece
     const file = path.join(SCREENSHOTS, `receipt-${number}.pdf`);
     await download.saveAs(file);
     const text = (await new PDFParse({ data: fs.readFileSync(file) }).getText()).text;
-    for (const s of ['Larchwood Running Clinic Ltd', '12 Mill Lane', 'Tax number: GB 123 4567 89', 'by bank transfer', 'Payment note: Transfer ref. RT-2211']) expect(text).toContain(s);
+    for (const s of [
+      'Larchwood Running Clinic Ltd',
+      '12 Mill Lane',
+      'Tax number: GB 123 4567 89',
+      'by bank transfer',
+      'Payment note: Transfer ref. RT-2211',
+    ])
+      expect(text).toContain(s);
 
     // The refund is recorded, not sent to the payment service.
     const events = h.server.fakePayments!.events.length;

@@ -68,7 +68,9 @@ describe('assessments and clips', () => {
     await signIn(page, athlete.email, athlete.password);
     await page.goto(`${h.baseUrl}/portal/assessments/${assessmentId}`);
     await page.locator('input[type=file][multiple]').setInputFiles(clipFile);
-    await expect.poll(async () => (await h.server.db('clips').where({ assessment_id: assessmentId, status: 'ready' })).length, { timeout: 60_000 }).toBe(2);
+    await expect
+      .poll(async () => (await h.server.db('clips').where({ assessment_id: assessmentId, status: 'ready' })).length, { timeout: 60_000 })
+      .toBe(2);
     await expect.poll(() => page.getByText('Ready', { exact: true }).count()).toBe(2);
     await page.screenshot({ path: path.join(SCREENSHOTS, 'portal-assessment-phone.png'), fullPage: true });
     const mine = await h.server.db('clips').where({ assessment_id: assessmentId }).orderBy('id', 'desc').first();
@@ -80,7 +82,9 @@ describe('assessments and clips', () => {
 
   it('once the coach has marked a clip, the athlete sees its settings locked and why', async () => {
     const coachClip = await h.server.db('clips').where({ assessment_id: assessmentId }).orderBy('id').first();
-    await h.server.db('clip_landmarks').insert({ clip_id: coachClip.id, frame: 3, side: 'right', landmark: 'hip', x: 0.5, y: 0.4, source: 'placed' });
+    await h.server
+      .db('clip_landmarks')
+      .insert({ clip_id: coachClip.id, frame: 3, side: 'right', landmark: 'hip', x: 0.5, y: 0.4, source: 'placed' });
     const { page, context, problems } = await h.newPage();
     await page.setViewportSize({ width: 390, height: 844 });
     await signIn(page, athlete.email, athlete.password);

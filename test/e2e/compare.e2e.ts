@@ -52,7 +52,9 @@ describe('compare visits', () => {
       await page.getByRole('link', { name: 'Compare visits' }).click();
       await page.waitForURL(/compare$/);
 
-      await expect.poll(() => page.getByText("These figures support, and do not replace, a licensed clinician's judgement.").count()).toBe(1);
+      await expect
+        .poll(() => page.getByText("These figures support, and do not replace, a licensed clinician's judgement.").count())
+        .toBe(1);
       const hipRow = page.locator('tr', { hasText: 'Hip extension at toe-off (thigh from vertical) (right)' });
       await expect.poll(() => hipRow.textContent(), { timeout: 20_000 }).toContain('Beyond measurement error · better');
       // The page opens at toe-off, where the headline measure is read.
@@ -80,7 +82,11 @@ describe('compare visits', () => {
       await page.locator('.canvases').scrollIntoViewIfNeeded();
       await page.screenshot({ path: path.join(SCREENSHOTS, `compare-side-by-side-${tag}.png`), fullPage: true });
 
-      await page.getByRole('radio', { name: 'Overlay' }).or(page.getByRole('button', { name: 'Overlay' })).first().click();
+      await page
+        .getByRole('radio', { name: 'Overlay' })
+        .or(page.getByRole('button', { name: 'Overlay' }))
+        .first()
+        .click();
       const overlay = 'canvas[aria-label="Re-test frame with both skeletons"]';
       await expect.poll(() => drawn(overlay)(page), { timeout: 20_000 }).toBe(true);
       await expect.poll(async () => Number(await page.locator(overlay).getAttribute('data-label-px'))).toBeGreaterThanOrEqual(12);

@@ -77,14 +77,16 @@ describe('foundation journey', () => {
     await page.getByRole('checkbox', { name: /stills/i }).check();
     await page.getByRole('button', { name: 'Save intake' }).click();
 
-    await expect
-      .poll(async () => (await h.server.db('consents').where({ athlete_id: athleteId, kind: 'video_recording' })).length)
-      .toBe(1);
+    await expect.poll(async () => (await h.server.db('consents').where({ athlete_id: athleteId, kind: 'video_recording' })).length).toBe(1);
     const row = await h.server.db('athletes').where({ id: athleteId }).first();
     expect(row).toMatchObject({ height_cm: 170, weekly_km: 40, longest_run_km: 18, goal_event: 'Autumn trail marathon' });
     expect(JSON.parse(row.surfaces)).toEqual(['trail']);
-    expect(await h.server.db('injuries').where({ athlete_id: athleteId })).toMatchObject([{ region: 'hamstring', side: 'left', began: '2026-06', status: 'recovering' }]);
-    expect(await h.server.db('pain_entries').where({ athlete_id: athleteId, current: true })).toMatchObject([{ region: 'hamstring', score: 3 }]);
+    expect(await h.server.db('injuries').where({ athlete_id: athleteId })).toMatchObject([
+      { region: 'hamstring', side: 'left', began: '2026-06', status: 'recovering' },
+    ]);
+    expect(await h.server.db('pain_entries').where({ athlete_id: athleteId, current: true })).toMatchObject([
+      { region: 'hamstring', score: 3 },
+    ]);
     await page.screenshot({ path: path.join(SCREENSHOTS, 'intake.png'), fullPage: true });
 
     await page.getByRole('button', { name: 'Invite to Trailframe' }).click();
@@ -178,7 +180,10 @@ describe('foundation journey', () => {
     expect(inbox).toMatch(/^http:\/\/127\.0\.0\.1:\d+$/);
     const { page, context, problems } = await h.newPage();
     await page.goto(inbox);
-    await page.getByRole('link', { name: /invited to Larchwood/ }).first().click();
+    await page
+      .getByRole('link', { name: /invited to Larchwood/ })
+      .first()
+      .click();
     await expect.poll(() => page.getByText(`${h.baseUrl}/invitation/`).count()).toBeGreaterThan(0);
     expect(await page.getByText(email).count()).toBeGreaterThan(0);
     await page.screenshot({ path: path.join(SCREENSHOTS, 'demo-inbox.png'), fullPage: true });

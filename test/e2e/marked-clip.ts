@@ -12,9 +12,28 @@ import { marksFromTruth } from '../../scripts/demo-clip/demo-marks';
  * to the assessment through the API, waits until its frames are ready, and marks every frame from
  * the generator's ground truth as a coach would. Returns the clip id.
  */
-export async function uploadMarkedClip(api: Client, assessmentId: number, file: string, hipExtensionDeg: number, seconds = 6): Promise<number> {
-  const truth = await generateRunnerClip({ fps: 60, width: 640, height: 360, seconds, hipExtensionDeg, facing: 'right', beltSpeedMps: 3, outFile: file, preset: 'ultrafast' });
-  const up = await api.agent.post(`/api/assessments/${assessmentId}/clips`).set('X-XSRF-TOKEN', await api.xsrf()).attach('file', file);
+export async function uploadMarkedClip(
+  api: Client,
+  assessmentId: number,
+  file: string,
+  hipExtensionDeg: number,
+  seconds = 6,
+): Promise<number> {
+  const truth = await generateRunnerClip({
+    fps: 60,
+    width: 640,
+    height: 360,
+    seconds,
+    hipExtensionDeg,
+    facing: 'right',
+    beltSpeedMps: 3,
+    outFile: file,
+    preset: 'ultrafast',
+  });
+  const up = await api.agent
+    .post(`/api/assessments/${assessmentId}/clips`)
+    .set('X-XSRF-TOKEN', await api.xsrf())
+    .attach('file', file);
   const clipId = up.body.id as number;
   for (let i = 0; ; i++) {
     const clip = (await api.get(`/api/clips/${clipId}`)).body;
@@ -32,7 +51,10 @@ export async function uploadMarkedClip(api: Client, assessmentId: number, file: 
  * Gives the demo athlete's Baseline and Re-test each a marked synthetic runner clip (about 4° and
  * 11° of hip extension at toe-off), uploaded by the demo coach. Clip files are written to `dir`.
  */
-export async function markDemoVisits(h: Harness, dir: string): Promise<{ athleteId: number; baseline: { assessmentId: number; clipId: number }; retest: { assessmentId: number; clipId: number } }> {
+export async function markDemoVisits(
+  h: Harness,
+  dir: string,
+): Promise<{ athleteId: number; baseline: { assessmentId: number; clipId: number }; retest: { assessmentId: number; clipId: number } }> {
   const [, coach, , athlete] = DEMO_SIGN_INS;
   const api = new Client(h.baseUrl);
   await api.signIn(coach.email, coach.password);

@@ -48,7 +48,15 @@ function samplePoints(): { name: string; x: number; y: number }[] {
 }
 
 beforeAll(async () => {
-  const out = await build({ entryPoints: ['src/kinematics/overlay.ts'], bundle: true, format: 'iife', globalName: 'TF', write: false, platform: 'browser', logLevel: 'silent' });
+  const out = await build({
+    entryPoints: ['src/kinematics/overlay.ts'],
+    bundle: true,
+    format: 'iife',
+    globalName: 'TF',
+    write: false,
+    platform: 'browser',
+    logLevel: 'silent',
+  });
   bundle = out.outputFiles[0]!.text;
   browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: CHROMIUM_ARGS });
 });

@@ -38,7 +38,10 @@ afterAll(async () => {
 const signIn = (page: Page, email: string, password: string) => h.signIn(page, email, password);
 
 async function pickExercise(page: Page, stage: number, name: string, search?: string): Promise<void> {
-  await page.getByRole('group', { name: `Stage ${stage}` }).getByRole('button', { name: 'Add exercise from library' }).click();
+  await page
+    .getByRole('group', { name: `Stage ${stage}` })
+    .getByRole('button', { name: 'Add exercise from library' })
+    .click();
   const dialog = page.getByRole('dialog');
   if (search) {
     await dialog.getByRole('combobox', { name: 'Loading' }).click();
@@ -48,7 +51,16 @@ async function pickExercise(page: Page, stage: number, name: string, search?: st
   await dialog.getByRole('button', { name: `Add ${name}` }).click();
   await expect.poll(() => page.getByRole('dialog').count()).toBe(0);
   // The exercise shows in its stage at once, without another click.
-  await expect.poll(() => page.getByRole('group', { name: `Stage ${stage}` }).getByRole('listitem', { name }).count(), { timeout: 2_000 }).toBe(1);
+  await expect
+    .poll(
+      () =>
+        page
+          .getByRole('group', { name: `Stage ${stage}` })
+          .getByRole('listitem', { name })
+          .count(),
+      { timeout: 2_000 },
+    )
+    .toBe(1);
 }
 
 const logs = () => h.server.db('log_entries').where({ plan_id: planId }).orderBy('id');
@@ -91,7 +103,12 @@ async function contrastOf(locator: Locator): Promise<number> {
     return [getComputedStyle(el).color, bg];
   });
   const lum = (css: string) => {
-    const [r, g, b] = css.match(/\d+(\.\d+)?/g)!.slice(0, 3).map(Number).map((v) => v / 255).map((c) => (c <= 0.04045 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4)) as [number, number, number];
+    const [r, g, b] = css
+      .match(/\d+(\.\d+)?/g)!
+      .slice(0, 3)
+      .map(Number)
+      .map((v) => v / 255)
+      .map((c) => (c <= 0.04045 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4)) as [number, number, number];
     return 0.2126 * r + 0.7152 * g + 0.0722 * b;
   };
   const [a, b] = [lum(fg), lum(bg)].sort((x, y) => y - x) as [number, number];
@@ -123,7 +140,9 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await page.getByRole('option', { name: 'Hamstring' }).click();
     await page.getByRole('combobox', { name: 'Kind of loading' }).click();
     await page.getByRole('option', { name: 'Isometric' }).click();
-    await expect.poll(() => page.getByRole('list', { name: 'Exercises' }).getByRole('heading').allTextContents()).toEqual(['Bent-knee bridge hold', 'Prone hamstring hold']);
+    await expect
+      .poll(() => page.getByRole('list', { name: 'Exercises' }).getByRole('heading').allTextContents())
+      .toEqual(['Bent-knee bridge hold', 'Prone hamstring hold']);
     await page.getByRole('button', { name: 'How to do it' }).first().click();
     expect(await page.getByText('Stop an exercise that causes sharp or worsening pain').count()).toBe(1);
     // The staff see where the exercise comes from (REFERENCES.md, Goom et al. 2016 [mem]).
@@ -149,7 +168,12 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await dialog.getByRole('button', { name: 'Add to library' }).click();
     await expect.poll(() => page.getByRole('dialog').count()).toBe(0);
     const created = await h.server.db('exercises').where({ name: 'Standing calf raise' }).first();
-    expect(created).toMatchObject({ region: 'calf_achilles', kind: 'isotonic', sets: 3, source: 'Beyer et al. 2015, Am J Sports Med 43:1704–1711' });
+    expect(created).toMatchObject({
+      region: 'calf_achilles',
+      kind: 'isotonic',
+      sets: 3,
+      source: 'Beyer et al. 2015, Am J Sports Med 43:1704–1711',
+    });
     expect(JSON.parse(created.instructions)).toEqual(['Stand on the edge of a step.', 'Rise onto the balls of the feet.', 'Lower slowly.']);
     expect(problems).toEqual([]);
     await context.close();
@@ -189,7 +213,15 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
 
     const stages = await h.server.db('plan_stages').where({ plan_id: planId }).orderBy('position');
     expect(stages.map((s) => s.name)).toEqual(['Isometric holds', 'Slow lengthening', 'Fast work and running drills']);
-    const items = await h.server.db('stage_exercises as se').join('exercises as e', 'e.id', 'se.exercise_id').whereIn('se.stage_id', stages.map((s) => s.id)).orderBy(['se.stage_id', 'se.position']).select('e.name', 'se.sets');
+    const items = await h.server
+      .db('stage_exercises as se')
+      .join('exercises as e', 'e.id', 'se.exercise_id')
+      .whereIn(
+        'se.stage_id',
+        stages.map((s) => s.id),
+      )
+      .orderBy(['se.stage_id', 'se.position'])
+      .select('e.name', 'se.sets');
     expect(items).toEqual([
       { name: 'Bent-knee bridge hold', sets: 6 },
       { name: 'Prone hamstring hold', sets: 4 },
@@ -227,7 +259,10 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await expect.poll(async () => (await logs()).length).toBe(1);
     const [one] = await logs();
     expect(one).toMatchObject({ session_date: isoDay(day1), pain_during: 2, note: 'Felt steady, a little tight at the end.' });
-    expect(JSON.parse(one.sets).map((s: { setsDone: number; setsPrescribed: number }) => s.setsDone === s.setsPrescribed)).toEqual([true, true]);
+    expect(JSON.parse(one.sets).map((s: { setsDone: number; setsPrescribed: number }) => s.setsDone === s.setsPrescribed)).toEqual([
+      true,
+      true,
+    ]);
     await expect.poll(() => first.page.getByRole('list').filter({ hasText: 'During 2/10' }).count()).toBeGreaterThan(0);
     // Saved today: the page says so, also after a reload.
     await expect.poll(() => first.page.getByRole('heading', { name: 'Done for today' }).count()).toBe(1);
@@ -266,7 +301,11 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await expect.poll(() => page.getByText('1 entry waiting to send.').count()).toBe(1);
     await expect.poll(() => page.getByRole('heading', { name: 'Done for today' }).count()).toBe(1);
     expect(await page.getByText('Waiting to send', { exact: true }).count()).toBe(1);
-    const stored = await page.evaluate(() => Object.entries(localStorage).filter(([k]) => k.startsWith('trailframe.log-outbox')).map(([, v]) => JSON.parse(v) as unknown[]));
+    const stored = await page.evaluate(() =>
+      Object.entries(localStorage)
+        .filter(([k]) => k.startsWith('trailframe.log-outbox'))
+        .map(([, v]) => JSON.parse(v) as unknown[]),
+    );
     expect(stored.flat()).toHaveLength(1);
     await fullShot(page, 'plans-portal-offline-phone.png');
     expect(await logs()).toHaveLength(1);
@@ -317,11 +356,19 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await page.goto(`${h.baseUrl}/athletes/${adaId}`);
     await expect.poll(() => page.getByRole('alert').filter({ hasText: 'Plan alert' }).count()).toBe(1);
     expect(await page.getByRole('alert').filter({ hasText: 'Plan alert' }).textContent()).toContain("above this plan's limit of 5/10");
-    await expect.poll(() => page.getByRole('note').filter({ hasText: 'Pain scores and plan alerts point to what to look at' }).count()).toBeGreaterThan(0);
+    await expect
+      .poll(() => page.getByRole('note').filter({ hasText: 'Pain scores and plan alerts point to what to look at' }).count())
+      .toBeGreaterThan(0);
     await page.getByRole('tab', { name: 'Plan' }).click();
     await expect.poll(() => page.getByRole('list', { name: 'Plans, newest first' }).getByRole('link').count()).toBe(1);
-    expect(await page.getByRole('list', { name: 'Plans, newest first' }).textContent()).toContain('Pain 6/10 during, above the limit of 5/10');
-    await expect.poll(() => page.getByRole('tabpanel').getByRole('note').filter({ hasText: 'Stop an exercise that causes sharp or worsening pain' }).count()).toBe(1);
+    expect(await page.getByRole('list', { name: 'Plans, newest first' }).textContent()).toContain(
+      'Pain 6/10 during, above the limit of 5/10',
+    );
+    await expect
+      .poll(() =>
+        page.getByRole('tabpanel').getByRole('note').filter({ hasText: 'Stop an exercise that causes sharp or worsening pain' }).count(),
+      )
+      .toBe(1);
     expect(await axeProblems(page)).toEqual([]);
     await fullShot(page, 'plans-profile-alert.png');
     await phoneShot(page, 'plans-profile-alert-phone.png');
@@ -358,7 +405,13 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await page.route('**/api/plans/*/logs', async (route) => {
       if (route.request().method() === 'POST' && refused === 0) {
         refused++;
-        await route.fulfill({ status: 409, contentType: 'application/json', body: JSON.stringify({ error: { code: 'stage_not_current', message: 'This stage is not the current stage of this plan any more.' } }) });
+        await route.fulfill({
+          status: 409,
+          contentType: 'application/json',
+          body: JSON.stringify({
+            error: { code: 'stage_not_current', message: 'This stage is not the current stage of this plan any more.' },
+          }),
+        });
         return;
       }
       await route.continue();
@@ -395,7 +448,9 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await expect.poll(() => prompt.count()).toBe(1);
     expect(await prompt.textContent()).toContain('so they cannot see this plan or log its sessions');
     expect(await prompt.getByRole('button', { name: 'Invite to Trailframe' }).count()).toBe(1);
-    expect(await contrastOf(page.getByRole('note').filter({ hasText: 'Stop an exercise that causes sharp or worsening pain' }))).toBeGreaterThanOrEqual(4.5);
+    expect(
+      await contrastOf(page.getByRole('note').filter({ hasText: 'Stop an exercise that causes sharp or worsening pain' })),
+    ).toBeGreaterThanOrEqual(4.5);
     expect(await axeProblems(page)).toEqual([]);
     await fullShot(page, 'plans-invite-prompt.png');
     await phoneShot(page, 'plans-invite-prompt-phone.png');

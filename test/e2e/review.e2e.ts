@@ -32,13 +32,25 @@ beforeAll(async () => {
   h = await startHarness();
   dir = await tempDir('e2e-review');
   const file = path.join(dir.dir, 'runner.mp4');
-  truth = await generateRunnerClip({ fps: 120, width: 960, height: 540, seconds: 2, hipExtensionDeg: 5, facing: 'right', outFile: file, preset: 'ultrafast' });
+  truth = await generateRunnerClip({
+    fps: 120,
+    width: 960,
+    height: 540,
+    seconds: 2,
+    hipExtensionDeg: 5,
+    facing: 'right',
+    outFile: file,
+    preset: 'ultrafast',
+  });
   const api = new Client(h.baseUrl);
   await api.signIn(coach.email, coach.password);
   const ada = await h.server.db('athletes').where({ email: athlete.email }).first();
   athleteId = ada.id;
   assessmentId = (await h.server.db('assessments').where({ athlete_id: ada.id, kind: 'baseline' }).first()).id;
-  const up = await api.agent.post(`/api/assessments/${assessmentId}/clips`).set('X-XSRF-TOKEN', await api.xsrf()).attach('file', file);
+  const up = await api.agent
+    .post(`/api/assessments/${assessmentId}/clips`)
+    .set('X-XSRF-TOKEN', await api.xsrf())
+    .attach('file', file);
   clipId = up.body.id;
   await api.patch(`/api/clips/${clipId}`, { nearSide: truth.nearSide, direction: 'left_to_right' });
   for (let i = 0; ; i++) {
@@ -103,11 +115,20 @@ describe('review workspace', () => {
     await signIn(page);
     await page.goto(reviewUrl());
     await page.locator('app-frame-viewer canvas').waitFor();
-    await page.locator('app-frame-viewer canvas').click({ position: { x: 5, y: 5 } }).catch(() => undefined);
+    await page
+      .locator('app-frame-viewer canvas')
+      .click({ position: { x: 5, y: 5 } })
+      .catch(() => undefined);
     await page.keyboard.press('Escape');
 
     // 1440×900: frame, frame buttons and number, and the angle chart in view together, no scrolling.
-    for (const sel of ['app-frame-viewer canvas', '.toolbar [aria-label="One frame forward"]', '.frame-no', 'app-angle-chart canvas', 'app-angle-chart .legend'])
+    for (const sel of [
+      'app-frame-viewer canvas',
+      '.toolbar [aria-label="One frame forward"]',
+      '.frame-no',
+      'app-angle-chart canvas',
+      'app-angle-chart .legend',
+    ])
       expect(await inWindow(page, sel), `${sel} in the window`).toBe(true);
     const scroller = page.locator('mat-sidenav-content');
     expect(await scroller.evaluate((el) => el.scrollHeight - el.clientHeight)).toBeLessThanOrEqual(1);
@@ -189,11 +210,17 @@ describe('review workspace', () => {
     await page.mouse.up();
 
     // Autosave, then the server's snapshot.
-    await expect.poll(async () => (await h.server.db('clips').where({ id: clipId }).first()).annotation_revision, { timeout: 20_000 }).toBeGreaterThan(0);
+    await expect
+      .poll(async () => (await h.server.db('clips').where({ id: clipId }).first()).annotation_revision, { timeout: 20_000 })
+      .toBeGreaterThan(0);
     await expect.poll(async () => (await h.server.db('scale_bars').where({ clip_id: clipId })).length, { timeout: 20_000 }).toBe(1);
     await expect.poll(async () => (await h.server.db('gait_events').where({ clip_id: clipId })).length, { timeout: 20_000 }).toBe(2);
-    await expect.poll(async () => (await h.server.db('clip_landmarks').where({ clip_id: clipId, frame: to, side: near })).length, { timeout: 20_000 }).toBe(6);
-    await expect.poll(async () => (await h.server.db('angle_gauges').where({ clip_id: clipId, frame: to }).first())?.vy, { timeout: 20_000 }).toBeGreaterThan(0.58);
+    await expect
+      .poll(async () => (await h.server.db('clip_landmarks').where({ clip_id: clipId, frame: to, side: near })).length, { timeout: 20_000 })
+      .toBe(6);
+    await expect
+      .poll(async () => (await h.server.db('angle_gauges').where({ clip_id: clipId, frame: to }).first())?.vy, { timeout: 20_000 })
+      .toBeGreaterThan(0.58);
     await expect.poll(() => page.locator('.save').textContent(), { timeout: 20_000 }).toContain('Saved');
     // The panel's value is the saved gauge's angle: acos of its arms' dot product in frame pixels ([calc]).
     const g = await h.server.db('angle_gauges').where({ clip_id: clipId }).first();
@@ -217,13 +244,18 @@ describe('review workspace', () => {
     const caption = page.locator('mat-dialog-container textarea');
     await expect.poll(() => caption.inputValue()).toBe(`${side} toe-off · step 1.`);
     await page.locator('mat-dialog-container').getByRole('button', { name: 'Save still' }).click();
-    await expect.poll(async () => (await h.server.db('stills').where({ clip_id: clipId }).first())?.caption, { timeout: 20_000 }).toBe(`${side} toe-off · step 1.`);
+    await expect
+      .poll(async () => (await h.server.db('stills').where({ clip_id: clipId }).first())?.caption, { timeout: 20_000 })
+      .toBe(`${side} toe-off · step 1.`);
     const still = await h.server.db('stills').where({ clip_id: clipId }).first();
     expect(JSON.parse(still.panels)[0].gauges).toHaveLength(1);
 
     // Measures: each value with its band (unit included) and the band's source together.
     await page.getByRole('tab', { name: 'Measures' }).click();
-    const hipRow = page.locator('app-measures-panel .measures li').filter({ hasText: 'Hip extension at toe-off (thigh' }).filter({ hasText: `${side} · Toe-off` });
+    const hipRow = page
+      .locator('app-measures-panel .measures li')
+      .filter({ hasText: 'Hip extension at toe-off (thigh' })
+      .filter({ hasText: `${side} · Toe-off` });
     // The generator's runner extends about 5°: below the ≥ 10° band (REFERENCES.md, common practice).
     await expect.poll(() => hipRow.textContent()).toMatch(/Below the reference band ≥ 10°/);
     expect(await hipRow.locator('.band-source').textContent()).toContain('Souza 2016');
@@ -276,7 +308,10 @@ describe('review workspace', () => {
     expect(await scroller.evaluate((el) => el.scrollWidth - el.clientWidth), wide.join(', ')).toBeLessThanOrEqual(1);
     // Every toolbar control lies inside the window, and none overlaps another.
     const boxes = await page.locator('.toolbar button, .toolbar .frame-no, .toolbar .zoom').evaluateAll((els) =>
-      els.map((e) => e.getBoundingClientRect()).filter((r) => r.width > 0).map((r) => ({ x: r.x, y: r.y, w: r.width, h: r.height })),
+      els
+        .map((e) => e.getBoundingClientRect())
+        .filter((r) => r.width > 0)
+        .map((r) => ({ x: r.x, y: r.y, w: r.width, h: r.height })),
     );
     expect(boxes.length).toBeGreaterThan(10);
     for (const b of boxes) expect(b.x >= 0 && b.x + b.w <= 390.5, JSON.stringify(b)).toBe(true);

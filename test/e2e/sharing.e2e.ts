@@ -118,7 +118,13 @@ describe('sharing stills and a visit summary', () => {
     await expect.poll(() => ours.count(), { timeout: 20_000 }).toBe(2);
     await expect.poll(() => ours.locator('img').count(), { timeout: 30_000 }).toBe(2);
     await expect
-      .poll(() => ours.locator('img').evaluateAll((imgs) => imgs.every((i) => (i as HTMLImageElement).complete && (i as HTMLImageElement).naturalWidth > 0)), { timeout: 20_000 })
+      .poll(
+        () =>
+          ours
+            .locator('img')
+            .evaluateAll((imgs) => imgs.every((i) => (i as HTMLImageElement).complete && (i as HTMLImageElement).naturalWidth > 0)),
+        { timeout: 20_000 },
+      )
       .toBe(true);
     expect(await page.locator(`li.still-card img[alt="${PAIR_CAPTION}"]`).count()).toBe(1);
     expect(await ours.filter({ hasText: 'Side by side' }).count()).toBe(1);
@@ -133,11 +139,16 @@ describe('sharing stills and a visit summary', () => {
     // A visit summary of the Re-test against the Baseline with both stills.
     await page.getByRole('button', { name: 'New visit summary' }).click();
     const summaryDialog = page.getByRole('dialog', { name: 'New visit summary' });
-    const ourBoxes = summaryDialog.locator('li').filter({ hasText: /hip now extends|knee and ankle as the foot/ }).getByRole('checkbox');
+    const ourBoxes = summaryDialog
+      .locator('li')
+      .filter({ hasText: /hip now extends|knee and ankle as the foot/ })
+      .getByRole('checkbox');
     await expect.poll(() => ourBoxes.count(), { timeout: 10_000 }).toBe(2);
     for (const box of await ourBoxes.all()) await box.check();
     await summaryDialog.getByLabel('Findings').fill('Your hip extends about seven degrees more at toe-off than at the Baseline.');
-    await summaryDialog.getByLabel('Plan, in plain words').fill('Keep the hip-flexor stretch and the A-skips twice a week; we look again in six weeks.');
+    await summaryDialog
+      .getByLabel('Plan, in plain words')
+      .fill('Keep the hip-flexor stretch and the A-skips twice a week; we look again in six weeks.');
     await page.screenshot({ path: shot('sharing-summary-dialog.png') });
     await summaryDialog.getByRole('button', { name: 'Create visit summary' }).click();
     await expect.poll(() => page.getByRole('dialog').count()).toBe(0);
@@ -173,9 +184,15 @@ describe('sharing stills and a visit summary', () => {
     const strip = p.getByRole('list', { name: 'Stills, newest first' });
     await expect.poll(() => strip.getByRole('listitem').count(), { timeout: 20_000 }).toBeGreaterThanOrEqual(2);
     await expect
-      .poll(() => strip.locator('img').evaluateAll((imgs) => imgs.every((i) => (i as HTMLImageElement).complete && (i as HTMLImageElement).naturalWidth > 0)), { timeout: 20_000 })
+      .poll(
+        () =>
+          strip
+            .locator('img')
+            .evaluateAll((imgs) => imgs.every((i) => (i as HTMLImageElement).complete && (i as HTMLImageElement).naturalWidth > 0)),
+        { timeout: 20_000 },
+      )
       .toBe(true);
-    expect(await p.getByText("Your coach’s notes and figures support, and do not replace").count()).toBe(1);
+    expect(await p.getByText('Your coach’s notes and figures support, and do not replace').count()).toBe(1);
     await p.getByRole('heading', { name: 'From your clinic' }).scrollIntoViewIfNeeded();
     await p.screenshot({ path: shot('sharing-portal-phone.png'), fullPage: true });
 
@@ -210,7 +227,10 @@ describe('sharing stills and a visit summary', () => {
       return { status: r.status, type: r.headers.get('content-type'), head: String.fromCharCode(...bytes.slice(0, 5)) };
     }, pdfUrl);
     expect(pdf).toEqual({ status: 200, type: 'application/pdf', head: '%PDF-' });
-    const download = await p.getByRole('link', { name: /^Download / }).first().getAttribute('href');
+    const download = await p
+      .getByRole('link', { name: /^Download / })
+      .first()
+      .getAttribute('href');
     expect(download).toBe(`${pdfUrl}?download=1`);
     await p.getByRole('note').filter({ hasText: 'do not replace' }).scrollIntoViewIfNeeded();
     await p.screenshot({ path: shot('sharing-portal-phone-summaries.png') });

@@ -29,7 +29,10 @@ beforeAll(async () => {
   const ada = await t.db('athletes').where({ email: athlete.email }).first();
   const assessmentId = (await t.db('assessments').where({ athlete_id: ada.id, kind: 'baseline' }).first()).id;
   const file = await makeClip(path.join(dir.dir, 'black.mp4'), { fps: 30, width: W, height: H, seconds: 1, source: 'corner-marker' });
-  const res = await c.agent.post(`/api/assessments/${assessmentId}/clips`).set('X-XSRF-TOKEN', await c.xsrf()).attach('file', file);
+  const res = await c.agent
+    .post(`/api/assessments/${assessmentId}/clips`)
+    .set('X-XSRF-TOKEN', await c.xsrf())
+    .attach('file', file);
   expect(res.status, JSON.stringify(res.body)).toBe(201);
   clipId = res.body.id;
   await t.worker!.idle();

@@ -22,7 +22,10 @@ let truth: GroundTruth;
 let assessmentId: number;
 
 async function uploadFile(file: string): Promise<number> {
-  const res = await c.agent.post(`/api/assessments/${assessmentId}/clips`).set('X-XSRF-TOKEN', await c.xsrf()).attach('file', file);
+  const res = await c.agent
+    .post(`/api/assessments/${assessmentId}/clips`)
+    .set('X-XSRF-TOKEN', await c.xsrf())
+    .attach('file', file);
   expect(res.status, JSON.stringify(res.body)).toBe(201);
   return res.body.id;
 }
@@ -35,7 +38,17 @@ beforeAll(async () => {
   assessmentId = (await t.db('assessments').where({ athlete_id: ada.id, kind: 'baseline' }).first()).id;
   plainClipId = await uploadFile(await makeClip(path.join(dir.dir, 'plain.mp4'), { fps: 30, width: 320, height: 180, seconds: 1 }));
   const runnerFile = path.join(dir.dir, 'runner.mp4');
-  truth = await generateRunnerClip({ fps: 120, width: 640, height: 360, seconds: 3, hipExtensionDeg: 6, facing: 'right', beltSpeedMps: 3, outFile: runnerFile, preset: 'ultrafast' });
+  truth = await generateRunnerClip({
+    fps: 120,
+    width: 640,
+    height: 360,
+    seconds: 3,
+    hipExtensionDeg: 6,
+    facing: 'right',
+    beltSpeedMps: 3,
+    outFile: runnerFile,
+    preset: 'ultrafast',
+  });
   runnerClipId = await uploadFile(runnerFile);
   await t.worker!.idle();
 }, 180_000);
@@ -54,7 +67,10 @@ describe('saving annotations', () => {
     const body = {
       baseRevision: 0,
       landmarks: [{ frame: 3, side: 'right', points: { hip: { x: 0.5, y: 0.4 }, knee: { x: 0.55, y: 0.6 } } }],
-      events: [{ frame: 3, side: 'right', kind: 'initial_contact' }, { frame: 12, side: 'right', kind: 'toe_off' }],
+      events: [
+        { frame: 3, side: 'right', kind: 'initial_contact' },
+        { frame: 12, side: 'right', kind: 'toe_off' },
+      ],
       scale: { frame: 0, a: { x: 0.1, y: 0.9 }, b: { x: 0.6, y: 0.9 }, lengthM: 1 },
     };
     const res = await put(plainClipId, body);
@@ -77,7 +93,15 @@ describe('saving annotations', () => {
       [{ landmarks: [{ frame: 1, side: 'right', points: { elbow: { x: 0.2, y: 0.5 } } }] }, /.+/],
       [{ landmarks: [{ frame: 999, side: 'right', points: { hip: { x: 0.2, y: 0.5 } } }] }, /beyond the clip/],
       [{ landmarks: [{ frame: 1, side: 'middle', points: {} }] }, /left or right/],
-      [{ events: [{ frame: 2, side: 'left', kind: 'initial_contact' }, { frame: 8, side: 'left', kind: 'initial_contact' }] }, /.+/],
+      [
+        {
+          events: [
+            { frame: 2, side: 'left', kind: 'initial_contact' },
+            { frame: 8, side: 'left', kind: 'initial_contact' },
+          ],
+        },
+        /.+/,
+      ],
       [{ events: [{ frame: 2, side: 'left', kind: 'heel_whip' }] }, /Unknown gait event/],
       [{ scale: { frame: 0, a: { x: 0.2, y: 0.2 }, b: { x: 0.2, y: 0.2 }, lengthM: 1 } }, /zero length/],
       [{ scale: { frame: 0, a: { x: 0.2, y: 0.2 }, b: { x: 0.4, y: 0.2 }, lengthM: 0 } }, /length/],
@@ -113,7 +137,8 @@ describe('saving annotations', () => {
 
 describe('measures from the synthetic runner (ground truth of the generator)', () => {
   let measures: ClipMeasures;
-  const find = (key: string, side?: string): Measure => measures.measures.find((m) => m.key === key && (side === undefined || m.side === side))!;
+  const find = (key: string, side?: string): Measure =>
+    measures.measures.find((m) => m.key === key && (side === undefined || m.side === side))!;
 
   beforeAll(async () => {
     const nearSide = truth.nearSide;
@@ -181,14 +206,25 @@ describe('reference bands', () => {
     const knee = list.find((b) => b.key === 'knee_flexion_initial_contact')!;
     expect(knee.source).toMatch(/Heiderscheit et al\. 2011/);
     const o = await signedIn(t.app, owner.email, owner.password);
-    const body = { low: 12, high: 22, unit: '°', context: 'Our clinic: treadmill, preferred rate', source: 'Clinic audit of 40 runners (internal)', evidence: 'trade' };
+    const body = {
+      low: 12,
+      high: 22,
+      unit: '°',
+      context: 'Our clinic: treadmill, preferred rate',
+      source: 'Clinic audit of 40 runners (internal)',
+      evidence: 'trade',
+    };
     expect((await c.put('/api/reference-bands/knee_flexion_initial_contact', body)).status).toBe(403);
     const saved = await o.put('/api/reference-bands/knee_flexion_initial_contact', body);
     expect(saved.status).toBe(200);
-    expect((await o.get('/api/reference-bands')).body.bands.find((b: { key: string }) => b.key === 'knee_flexion_initial_contact')).toMatchObject({ low: 12, high: 22 });
+    expect(
+      (await o.get('/api/reference-bands')).body.bands.find((b: { key: string }) => b.key === 'knee_flexion_initial_contact'),
+    ).toMatchObject({ low: 12, high: 22 });
     expect((await o.put('/api/reference-bands/knee_flexion_initial_contact', { ...body, low: 30 })).status).toBe(422);
     expect((await o.put('/api/reference-bands/not_a_measure', body)).status).toBe(422);
     expect((await o.delete('/api/reference-bands/knee_flexion_initial_contact')).status).toBe(204);
-    expect((await o.get('/api/reference-bands')).body.bands.find((b: { key: string }) => b.key === 'knee_flexion_initial_contact').source).toMatch(/Heiderscheit/);
+    expect(
+      (await o.get('/api/reference-bands')).body.bands.find((b: { key: string }) => b.key === 'knee_flexion_initial_contact').source,
+    ).toMatch(/Heiderscheit/);
   });
 });

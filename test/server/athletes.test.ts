@@ -25,7 +25,10 @@ const intake = (over: Partial<AthleteIntake> = {}): AthleteIntake => ({
   goalDate: '2027-04-18',
   surfaces: ['trail', 'road'],
   injuries: [{ region: 'hamstring', side: 'left', when: '2026-03', status: 'recovering', notes: 'Proximal, sitting hurts' }],
-  pain: [{ region: 'hamstring', score: 3 }, { region: 'calf', score: 1 }],
+  pain: [
+    { region: 'hamstring', score: 3 },
+    { region: 'calf', score: 1 },
+  ],
   consents: { videoRecording: true, shareStills: false },
   ...over,
 });
@@ -50,7 +53,15 @@ describe('roster', () => {
   it('creates an athlete assigned to the creating coach by default', async () => {
     const id = await newAthlete();
     const res = await c.get(`/api/athletes/${id}`);
-    expect(res.body).toMatchObject({ firstName: 'Rhea', lastName: 'Tamsin', coachName: 'Tobin Achterberg', hasAccount: false, injuries: [], pain: [], consents: { videoRecording: null, shareStills: null } });
+    expect(res.body).toMatchObject({
+      firstName: 'Rhea',
+      lastName: 'Tamsin',
+      coachName: 'Tobin Achterberg',
+      hasAccount: false,
+      injuries: [],
+      pain: [],
+      consents: { videoRecording: null, shareStills: null },
+    });
     expect(await t.db('audit_log').where({ athlete_id: id, action: 'athlete.created' })).toHaveLength(1);
   });
 
@@ -100,7 +111,10 @@ describe('intake', () => {
       weeklyDistance: 50,
       longestRecentRun: 21.1,
       surfaces: ['trail', 'road'],
-      pain: [{ region: 'hamstring', score: 3 }, { region: 'calf', score: 1 }],
+      pain: [
+        { region: 'hamstring', score: 3 },
+        { region: 'calf', score: 1 },
+      ],
       maxPain: 3,
       videoConsent: true,
     });
@@ -136,7 +150,15 @@ describe('intake', () => {
     const bad: [Partial<AthleteIntake> | Record<string, unknown>, (string | number)[]][] = [
       [{ pain: [{ region: 'hamstring', score: 11 }] }, ['pain', 0, 'score']],
       [{ pain: [{ region: 'hamstring', score: 2.5 }] }, ['pain', 0, 'score']],
-      [{ pain: [{ region: 'knee', score: 2 }, { region: 'knee', score: 3 }] }, ['pain', 1, 'region']],
+      [
+        {
+          pain: [
+            { region: 'knee', score: 2 },
+            { region: 'knee', score: 3 },
+          ],
+        },
+        ['pain', 1, 'region'],
+      ],
       [{ injuries: [{ region: 'calf', side: 'left', when: '2999-01', status: 'active', notes: '' }] }, ['injuries', 0, 'when']],
       [{ injuries: [{ region: 'elbow', side: 'left', when: '2020-01', status: 'active', notes: '' }] }, ['injuries', 0, 'region']],
       [{ heightCm: 20 }, ['heightCm']],

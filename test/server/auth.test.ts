@@ -44,7 +44,12 @@ describe('sign-in and sessions', () => {
     expect(sid).toBeDefined();
     expect(sid).toMatch(/HttpOnly/);
     expect(sid).toMatch(/SameSite=Lax/);
-    expect(sid?.split(';')[0]).not.toBe(([] as string[]).concat(before ?? []).find((x) => x.startsWith('tf.sid='))?.split(';')[0]);
+    expect(sid?.split(';')[0]).not.toBe(
+      ([] as string[])
+        .concat(before ?? [])
+        .find((x) => x.startsWith('tf.sid='))
+        ?.split(';')[0],
+    );
   });
 
   it('signs out: /me answers 401 afterwards', async () => {
@@ -66,7 +71,11 @@ describe('sign-in and sessions', () => {
     const c = new Client(t.app);
     await c.refreshToken();
     const token = (await c.get('/api/auth/csrf')).body.token as string;
-    const res = await c.agent.post('/api/auth/sign-in').set('X-XSRF-TOKEN', token).set('Content-Type', 'application/json').send('{"email": ');
+    const res = await c.agent
+      .post('/api/auth/sign-in')
+      .set('X-XSRF-TOKEN', token)
+      .set('Content-Type', 'application/json')
+      .send('{"email": ');
     expect(res.status).toBe(400);
     expect(res.body.error).toMatchObject({ code: 'malformed_json' });
   });
@@ -88,7 +97,8 @@ describe('sign-in and sessions', () => {
     await t.close();
     t = await makeTestApp({ rateLimit: { signInAttempts: 3, accountAttempts: 5, resetRequests: 5, windowMs: 60_000 } });
     const c = new Client(t.app);
-    for (let i = 0; i < 3; i++) expect((await c.post('/api/auth/sign-in', { email: coach.email, password: 'wrong-password' })).status).toBe(401);
+    for (let i = 0; i < 3; i++)
+      expect((await c.post('/api/auth/sign-in', { email: coach.email, password: 'wrong-password' })).status).toBe(401);
     const limited = await c.post('/api/auth/sign-in', { email: coach.email, password: coach.password });
     expect(limited.status).toBe(429);
     expect(limited.body.error.code).toBe('too_many_attempts');
@@ -133,9 +143,9 @@ describe('sign-in limits: per account as well as per address', () => {
     expect(Number(slowed.headers['retry-after'])).toBeGreaterThan(0);
     // Same for an address nobody has: the answer never tells whether an account exists.
     for (let i = 1; i <= 5; i++) await attempt(`198.51.100.${i}`, 'nobody@nowhere.test', 'wrong-password');
-    expect((await attempt('198.51.100.7', 'nobody@nowhere.test', 'wrong-password')).body).toEqual(
-      { error: { ...slowed.body.error, message: expect.stringMatching(/this account/) } },
-    );
+    expect((await attempt('198.51.100.7', 'nobody@nowhere.test', 'wrong-password')).body).toEqual({
+      error: { ...slowed.body.error, message: expect.stringMatching(/this account/) },
+    });
     // Other accounts, from the very same addresses, are not held up.
     expect((await attempt('198.51.100.1', owner.email, owner.password)).status).toBe(200);
   });

@@ -22,7 +22,13 @@ const today = () => new Date().toISOString().slice(0, 10);
 const dayBefore = (iso: string) => new Date(Date.parse(`${iso}T00:00:00Z`) - 86_400_000).toISOString().slice(0, 10);
 
 async function issuedFor(athleteId: number): Promise<InvoiceDetail> {
-  const d = await o.post('/api/invoices', { athleteId, assessmentId: null, dueDate: '2026-12-31', note: null, lines: [{ priceId: retest.id, description: 'Re-test', quantity: 1, unitAmountMinor: retest.amountMinor, taxRateBp: retest.taxRateBp }] });
+  const d = await o.post('/api/invoices', {
+    athleteId,
+    assessmentId: null,
+    dueDate: '2026-12-31',
+    note: null,
+    lines: [{ priceId: retest.id, description: 'Re-test', quantity: 1, unitAmountMinor: retest.amountMinor, taxRateBp: retest.taxRateBp }],
+  });
   expect(d.status, JSON.stringify(d.body)).toBe(201);
   const res = await o.post(`/api/invoices/${d.body.id}/issue`);
   expect(res.status, JSON.stringify(res.body)).toBe(200);
@@ -30,11 +36,14 @@ async function issuedFor(athleteId: number): Promise<InvoiceDetail> {
 }
 
 async function receiptText(client: Client, id: number): Promise<string> {
-  const pdf = await client.get(`/api/invoices/${id}/receipt`).buffer(true).parse((res, cb) => {
-    const chunks: Buffer[] = [];
-    res.on('data', (c: Buffer) => chunks.push(c));
-    res.on('end', () => cb(null, Buffer.concat(chunks)));
-  });
+  const pdf = await client
+    .get(`/api/invoices/${id}/receipt`)
+    .buffer(true)
+    .parse((res, cb) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
   expect(pdf.status).toBe(200);
   return (await new PDFParse({ data: pdf.body as Buffer }).getText()).text;
 }
@@ -52,7 +61,12 @@ afterAll(async () => {
 });
 
 describe('clinic legal details (owner settings)', () => {
-  const details = { legalName: 'Larchwood Running Clinic Ltd', address: '  12 Mill Lane \n\n Larchwood LW1 2AB ', taxNumber: 'GB 123 4567 89', contactLine: 'billing@larchwood.test · 01632 960000' };
+  const details = {
+    legalName: 'Larchwood Running Clinic Ltd',
+    address: '  12 Mill Lane \n\n Larchwood LW1 2AB ',
+    taxNumber: 'GB 123 4567 89',
+    contactLine: 'billing@larchwood.test · 01632 960000',
+  };
 
   it('starts empty, saves trimmed details, and only the owner may read or change them', async () => {
     expect((await o.get('/api/clinic/legal-details')).body).toEqual({ legalName: '', address: '', taxNumber: '', contactLine: '' });
@@ -88,11 +102,24 @@ describe('clinic legal details (owner settings)', () => {
 
   it('invoices carry them (owner and athlete) and the receipt prints them', async () => {
     const inv = await issuedFor(adaId);
-    expect(inv.clinicLegal).toEqual({ legalName: 'Larchwood Running Clinic Ltd', address: '12 Mill Lane\nLarchwood LW1 2AB', taxNumber: 'GB 123 4567 89', contactLine: 'billing@larchwood.test · 01632 960000' });
+    expect(inv.clinicLegal).toEqual({
+      legalName: 'Larchwood Running Clinic Ltd',
+      address: '12 Mill Lane\nLarchwood LW1 2AB',
+      taxNumber: 'GB 123 4567 89',
+      contactLine: 'billing@larchwood.test · 01632 960000',
+    });
     expect((await a.get(`/api/invoices/${inv.id}`)).body.clinicLegal.taxNumber).toBe('GB 123 4567 89');
     await o.post(`/api/invoices/${inv.id}/payments`, { method: 'cash', paidOn: today(), note: '' });
     const text = await receiptText(a, inv.id);
-    for (const s of ['Larchwood Running Clinic Ltd', 'Trading as Larchwood Running Clinic', '12 Mill Lane', 'Larchwood LW1 2AB', 'Tax number: GB 123 4567 89', 'billing@larchwood.test']) expect(text).toContain(s);
+    for (const s of [
+      'Larchwood Running Clinic Ltd',
+      'Trading as Larchwood Running Clinic',
+      '12 Mill Lane',
+      'Larchwood LW1 2AB',
+      'Tax number: GB 123 4567 89',
+      'billing@larchwood.test',
+    ])
+      expect(text).toContain(s);
   });
 });
 
@@ -101,9 +128,18 @@ describe('a payment recorded by the owner (bank transfer or cash)', () => {
     const inv = await issuedFor(adaId);
     const events = t.fakePayments!.events.length;
     const mails = t.mailer.sent.length;
-    const res = await o.post(`/api/invoices/${inv.id}/payments`, { method: 'bank_transfer', paidOn: today(), note: 'Transfer ref. RT-2211' });
+    const res = await o.post(`/api/invoices/${inv.id}/payments`, {
+      method: 'bank_transfer',
+      paidOn: today(),
+      note: 'Transfer ref. RT-2211',
+    });
     expect(res.status, JSON.stringify(res.body)).toBe(200);
-    expect(res.body).toMatchObject({ status: 'paid', paymentMethod: 'bank_transfer', paidOn: today(), paymentNote: 'Transfer ref. RT-2211' });
+    expect(res.body).toMatchObject({
+      status: 'paid',
+      paymentMethod: 'bank_transfer',
+      paidOn: today(),
+      paymentNote: 'Transfer ref. RT-2211',
+    });
     expect(res.body.paidAt).toBeTruthy();
     expect(t.fakePayments!.events.length).toBe(events);
     const mail = t.mailer.sent.slice(mails).find((m) => m.subject === `Payment received for invoice ${inv.number}`)!;
@@ -158,7 +194,15 @@ describe('a payment recorded by the owner (bank transfer or cash)', () => {
   });
 
   it('only an issued invoice can be marked paid (409); coaches and athletes 403; another clinic 404', async () => {
-    const draft = (await o.post('/api/invoices', { athleteId: adaId, assessmentId: null, dueDate: '2026-12-31', note: null, lines: [{ priceId: null, description: 'Taping', quantity: 1, unitAmountMinor: 500, taxRateBp: null }] })).body;
+    const draft = (
+      await o.post('/api/invoices', {
+        athleteId: adaId,
+        assessmentId: null,
+        dueDate: '2026-12-31',
+        note: null,
+        lines: [{ priceId: null, description: 'Taping', quantity: 1, unitAmountMinor: 500, taxRateBp: null }],
+      })
+    ).body;
     const body = { method: 'cash', paidOn: today(), note: '' };
     expect((await o.post(`/api/invoices/${draft.id}/payments`, body)).body.error.code).toBe('invalid_transition');
     const inv = await issuedFor(adaId);

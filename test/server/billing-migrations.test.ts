@@ -26,7 +26,19 @@ describe('invoice states in our own words (migration)', () => {
   it('rewrites stored states down to the old words and up again, keeping the cancel time', async () => {
     const [any] = await db('invoices').select('id', 'clinic_id', 'athlete_id', 'currency');
     const [row] = await db('invoices')
-      .insert({ clinic_id: any.clinic_id, athlete_id: any.athlete_id, status: 'cancelled', currency: any.currency, subtotal_minor: 100, tax_minor: 0, total_minor: 100, due_date: '2026-12-31', cancelled_at: '2026-12-02T10:00:00.000Z', created_at: '2026-12-01T10:00:00.000Z', updated_at: '2026-12-02T10:00:00.000Z' })
+      .insert({
+        clinic_id: any.clinic_id,
+        athlete_id: any.athlete_id,
+        status: 'cancelled',
+        currency: any.currency,
+        subtotal_minor: 100,
+        tax_minor: 0,
+        total_minor: 100,
+        due_date: '2026-12-31',
+        cancelled_at: '2026-12-02T10:00:00.000Z',
+        created_at: '2026-12-01T10:00:00.000Z',
+        updated_at: '2026-12-02T10:00:00.000Z',
+      })
       .returning('id');
     const cancelledId = (row as { id: number }).id;
     const states = async () => (await db('invoices').orderBy('id').select('status')).map((r: { status: string }) => r.status);

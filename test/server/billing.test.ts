@@ -25,10 +25,23 @@ let prices: Price[];
 
 const due = '2026-12-31';
 const price = (item: string) => prices.find((p) => p.item === item)!;
-const line = (p: Price, quantity = 1) => ({ priceId: p.id, description: p.item, quantity, unitAmountMinor: p.amountMinor, taxRateBp: p.taxRateBp });
+const line = (p: Price, quantity = 1) => ({
+  priceId: p.id,
+  description: p.item,
+  quantity,
+  unitAmountMinor: p.amountMinor,
+  taxRateBp: p.taxRateBp,
+});
 
 async function draft(over: Partial<InvoiceWrite> = {}): Promise<InvoiceDetail> {
-  const res = await o.post('/api/invoices', { athleteId: adaId, assessmentId: null, dueDate: due, note: null, lines: [line(price('Re-test'))], ...over });
+  const res = await o.post('/api/invoices', {
+    athleteId: adaId,
+    assessmentId: null,
+    dueDate: due,
+    note: null,
+    lines: [line(price('Re-test'))],
+    ...over,
+  });
   expect(res.status, JSON.stringify(res.body)).toBe(201);
   return res.body;
 }
@@ -69,8 +82,22 @@ beforeAll(async () => {
   teodorId = teodor.id;
   // A second athlete account in the same clinic (Teodor), for "another athlete's invoice".
   const at = new Date().toISOString();
-  const [u] = await t.db('users').insert({ clinic_id: teodor.clinic_id, email: SECOND.email, name: 'Teodor B', role: 'athlete', password_hash: await hashPassword(SECOND.password), created_at: at, updated_at: at }).returning('id');
-  await t.db('athletes').where({ id: teodorId }).update({ user_id: (u as { id: number }).id });
+  const [u] = await t
+    .db('users')
+    .insert({
+      clinic_id: teodor.clinic_id,
+      email: SECOND.email,
+      name: 'Teodor B',
+      role: 'athlete',
+      password_hash: await hashPassword(SECOND.password),
+      created_at: at,
+      updated_at: at,
+    })
+    .returning('id');
+  await t
+    .db('athletes')
+    .where({ id: teodorId })
+    .update({ user_id: (u as { id: number }).id });
   prices = (await o.get('/api/prices')).body.prices;
 });
 afterAll(async () => {
@@ -79,7 +106,11 @@ afterAll(async () => {
 
 describe('money arithmetic [calc]', () => {
   it('3 × 45.00 at 20 % tax = 135.00 + 27.00 = 162.00', () => {
-    expect(lineAmounts({ quantity: 3, unitAmountMinor: 4500, taxRateBp: 2000 })).toEqual({ netMinor: 13500, taxMinor: 2700, totalMinor: 16200 });
+    expect(lineAmounts({ quantity: 3, unitAmountMinor: 4500, taxRateBp: 2000 })).toEqual({
+      netMinor: 13500,
+      taxMinor: 2700,
+      totalMinor: 16200,
+    });
   });
   it('half-up per line: 0.25 at 10 % = 0.025 → 0.03; 0.24 at 10 % = 0.024 → 0.02; 1.05 at 7.5 % = 0.07875 → 0.08', () => {
     expect(lineAmounts({ quantity: 1, unitAmountMinor: 25, taxRateBp: 1000 }).taxMinor).toBe(3);
@@ -87,7 +118,12 @@ describe('money arithmetic [calc]', () => {
     expect(lineAmounts({ quantity: 1, unitAmountMinor: 105, taxRateBp: 750 }).taxMinor).toBe(8);
   });
   it('rounds per line, not per invoice: two lines of 0.05 at 10 % → tax 0.01 + 0.01 = 0.02 (per invoice it would be 0.01)', () => {
-    expect(invoiceTotals([{ quantity: 1, unitAmountMinor: 5, taxRateBp: 1000 }, { quantity: 1, unitAmountMinor: 5, taxRateBp: 1000 }])).toEqual({ subtotalMinor: 10, taxMinor: 2, totalMinor: 12 });
+    expect(
+      invoiceTotals([
+        { quantity: 1, unitAmountMinor: 5, taxRateBp: 1000 },
+        { quantity: 1, unitAmountMinor: 5, taxRateBp: 1000 },
+      ]),
+    ).toEqual({ subtotalMinor: 10, taxMinor: 2, totalMinor: 12 });
   });
   it('no tax rate = no tax; 1,234,567.89 prints with separators', () => {
     expect(lineAmounts({ quantity: 2, unitAmountMinor: 999, taxRateBp: null })).toEqual({ netMinor: 1998, taxMinor: 0, totalMinor: 1998 });
@@ -104,7 +140,12 @@ describe('price list', () => {
   });
 
   it('creates, edits and archives a price; archived ones leave the list', async () => {
-    const created = await o.post('/api/prices', { item: 'Shoe check', description: 'Wear pattern review', amountMinor: 2500, taxRateBp: null });
+    const created = await o.post('/api/prices', {
+      item: 'Shoe check',
+      description: 'Wear pattern review',
+      amountMinor: 2500,
+      taxRateBp: null,
+    });
     expect(created.status).toBe(201);
     expect(created.body).toMatchObject({ item: 'Shoe check', amountMinor: 2500, currency: 'EUR', taxRateBp: null, archived: false });
     expect((await o.patch(`/api/prices/${created.body.id}`, { amountMinor: 3000 })).body.amountMinor).toBe(3000);
@@ -160,7 +201,7 @@ describe('price list', () => {
 });
 
 describe('invoices', () => {
-  it('the demo history: Ada\'s Baseline billed and paid (its checkout event recorded), her Re-test billed and issued', async () => {
+  it("the demo history: Ada's Baseline billed and paid (its checkout event recorded), her Re-test billed and issued", async () => {
     const mine = (await a.get('/api/invoices')).body.invoices as InvoiceDetail[];
     const seeded = mine.filter((i) => i.number === 'TF-2026-0001' || i.number === 'TF-2026-0002').sort((x, y) => x.id - y.id);
     expect(seeded.map((i) => [i.number, i.status, i.totalMinor, i.dueDate])).toEqual([
@@ -188,7 +229,13 @@ describe('invoices', () => {
 
   it('refuses bad lines with 422 and the line path', async () => {
     const bad = async (l: object, path: (string | number)[]) => {
-      const res = await o.post('/api/invoices', { athleteId: adaId, assessmentId: null, dueDate: due, note: null, lines: [{ priceId: null, description: 'X', quantity: 1, unitAmountMinor: 100, taxRateBp: null, ...l }] });
+      const res = await o.post('/api/invoices', {
+        athleteId: adaId,
+        assessmentId: null,
+        dueDate: due,
+        note: null,
+        lines: [{ priceId: null, description: 'X', quantity: 1, unitAmountMinor: 100, taxRateBp: null, ...l }],
+      });
       expect(res.status, JSON.stringify(res.body)).toBe(422);
       expect(res.body.error.details[0].path).toEqual(path);
     };
@@ -200,11 +247,17 @@ describe('invoices', () => {
     await bad({ priceId: 999_999 }, ['lines', 0, 'priceId']);
     const noLines = await o.post('/api/invoices', { athleteId: adaId, assessmentId: null, dueDate: due, note: null, lines: [] });
     expect(noLines.body.error.details[0].path).toEqual(['lines']);
-    const badDate = await o.post('/api/invoices', { athleteId: adaId, assessmentId: null, dueDate: '2026-02-30', note: null, lines: [line(price('Re-test'))] });
+    const badDate = await o.post('/api/invoices', {
+      athleteId: adaId,
+      assessmentId: null,
+      dueDate: '2026-02-30',
+      note: null,
+      lines: [line(price('Re-test'))],
+    });
     expect(badDate.body.error.details[0].path).toEqual(['dueDate']);
   });
 
-  it('bills an assessment of the athlete, and refuses another athlete\'s assessment (422)', async () => {
+  it("bills an assessment of the athlete, and refuses another athlete's assessment (422)", async () => {
     const ada = (await t.db('assessments').where({ athlete_id: adaId }).first()).id;
     const d = await draft({ assessmentId: ada });
     expect(d.assessmentId).toBe(ada);
@@ -212,7 +265,13 @@ describe('invoices', () => {
     expect(d.assessment).toEqual({ id: ada, kind: visit.kind, date: visit.date });
     expect((await o.get(`/api/invoices/${d.id}`)).body.assessment).toEqual({ id: ada, kind: visit.kind, date: visit.date });
     expect((await draft()).assessment).toBeNull();
-    const res = await o.post('/api/invoices', { athleteId: teodorId, assessmentId: ada, dueDate: due, note: null, lines: [line(price('Re-test'))] });
+    const res = await o.post('/api/invoices', {
+      athleteId: teodorId,
+      assessmentId: ada,
+      dueDate: due,
+      note: null,
+      lines: [line(price('Re-test'))],
+    });
     expect(res.status).toBe(422);
     expect(res.body.error.details[0].path).toEqual(['assessmentId']);
   });
@@ -235,10 +294,18 @@ describe('invoices', () => {
   it('lists with filters and totals; the athlete sees only their own issued invoices', async () => {
     const open = await issued();
     const d = await draft();
-    const teodor = await o.post('/api/invoices', { athleteId: teodorId, assessmentId: null, dueDate: due, note: null, lines: [line(price('Gait assessment'))] });
+    const teodor = await o.post('/api/invoices', {
+      athleteId: teodorId,
+      assessmentId: null,
+      dueDate: due,
+      note: null,
+      lines: [line(price('Gait assessment'))],
+    });
     const all = (await o.get('/api/invoices')).body;
     expect(all.invoices.length).toBeGreaterThanOrEqual(3);
-    const sum = all.invoices.filter((i: InvoiceDetail) => i.status !== 'cancelled').reduce((s: number, i: InvoiceDetail) => s + i.totalMinor, 0);
+    const sum = all.invoices
+      .filter((i: InvoiceDetail) => i.status !== 'cancelled')
+      .reduce((s: number, i: InvoiceDetail) => s + i.totalMinor, 0);
     expect(all.totals.totalMinor).toBe(sum);
     const drafts = (await o.get(`/api/invoices?status=draft&athleteId=${teodorId}`)).body;
     expect(drafts.invoices.map((i: InvoiceDetail) => i.id)).toEqual([teodor.body.id]);
@@ -248,7 +315,9 @@ describe('invoices', () => {
     expect(madeToday).toBeGreaterThanOrEqual(3);
     expect((await o.get(`/api/invoices?from=${today}&to=${today}`)).body.invoices.length).toBe(madeToday);
     // The demo history: Ada's Baseline invoice was made on 6 Oct 2026, her Re-test's on 24 Nov 2026.
-    expect((await o.get('/api/invoices?from=2026-10-01&to=2026-10-31')).body.invoices.map((i: InvoiceDetail) => i.number)).toEqual(['TF-2026-0001']);
+    expect((await o.get('/api/invoices?from=2026-10-01&to=2026-10-31')).body.invoices.map((i: InvoiceDetail) => i.number)).toEqual([
+      'TF-2026-0001',
+    ]);
     expect((await o.get('/api/invoices?from=2000-01-01&to=2000-01-02')).body.invoices).toEqual([]);
     expect((await o.get('/api/invoices?status=late')).status).toBe(422);
     const mine = (await a.get('/api/invoices')).body.invoices.map((i: InvoiceDetail) => i.id);
@@ -274,7 +343,7 @@ describe('invoices', () => {
     expect((await o.post(`/api/invoices/${inv.id}/void`)).status).toBe(404);
   });
 
-  it('an athlete paying another athlete\'s invoice gets 404; so does another clinic', async () => {
+  it("an athlete paying another athlete's invoice gets 404; so does another clinic", async () => {
     const inv = await issued();
     const second = await signedIn(t.app, SECOND.email, SECOND.password);
     expect((await second.post(`/api/invoices/${inv.id}/checkout`)).status).toBe(404);
@@ -288,8 +357,17 @@ describe('invoices', () => {
 
 describe('editing and deleting drafts', () => {
   const body = (d: InvoiceDetail, over: Partial<InvoiceWrite> = {}): InvoiceWrite => ({
-    athleteId: d.athleteId, assessmentId: d.assessmentId, dueDate: d.dueDate, note: d.note,
-    lines: d.lines.map(({ priceId, description, quantity, unitAmountMinor, taxRateBp }) => ({ priceId, description, quantity, unitAmountMinor, taxRateBp })),
+    athleteId: d.athleteId,
+    assessmentId: d.assessmentId,
+    dueDate: d.dueDate,
+    note: d.note,
+    lines: d.lines.map(({ priceId, description, quantity, unitAmountMinor, taxRateBp }) => ({
+      priceId,
+      description,
+      quantity,
+      unitAmountMinor,
+      taxRateBp,
+    })),
     ...over,
   });
 
@@ -298,12 +376,31 @@ describe('editing and deleting drafts', () => {
     expect(d.totalMinor).toBe(7800);
     const ada = (await t.db('assessments').where({ athlete_id: adaId }).first()).id;
     const res = await o.put(`/api/invoices/${d.id}`, {
-      athleteId: adaId, assessmentId: ada, dueDate: '2027-01-15', note: 'Two gait sessions and tape.',
-      lines: [line(price('Gait assessment'), 2), { priceId: null, description: 'Taping', quantity: 3, unitAmountMinor: 499, taxRateBp: 750 }],
+      athleteId: adaId,
+      assessmentId: ada,
+      dueDate: '2027-01-15',
+      note: 'Two gait sessions and tape.',
+      lines: [
+        line(price('Gait assessment'), 2),
+        { priceId: null, description: 'Taping', quantity: 3, unitAmountMinor: 499, taxRateBp: 750 },
+      ],
     });
     expect(res.status, JSON.stringify(res.body)).toBe(200);
-    expect(res.body).toMatchObject({ id: d.id, status: 'draft', number: null, assessmentId: ada, dueDate: '2027-01-15', note: 'Two gait sessions and tape.', subtotalMinor: 25497, taxMinor: 4912, totalMinor: 30409 });
-    expect(res.body.lines.map((l: InvoiceDetail['lines'][number]) => [l.description, l.netMinor, l.taxMinor, l.totalMinor])).toEqual([['Gait assessment', 24000, 4800, 28800], ['Taping', 1497, 112, 1609]]);
+    expect(res.body).toMatchObject({
+      id: d.id,
+      status: 'draft',
+      number: null,
+      assessmentId: ada,
+      dueDate: '2027-01-15',
+      note: 'Two gait sessions and tape.',
+      subtotalMinor: 25497,
+      taxMinor: 4912,
+      totalMinor: 30409,
+    });
+    expect(res.body.lines.map((l: InvoiceDetail['lines'][number]) => [l.description, l.netMinor, l.taxMinor, l.totalMinor])).toEqual([
+      ['Gait assessment', 24000, 4800, 28800],
+      ['Taping', 1497, 112, 1609],
+    ]);
     expect((await o.get(`/api/invoices/${d.id}`)).body).toEqual(res.body);
     expect(await t.db('invoice_lines').where({ invoice_id: d.id }).count({ n: '*' })).toEqual([{ n: 2 }]);
     // Totals sent by the client are not accepted (the body is strict).
@@ -336,7 +433,8 @@ describe('editing and deleting drafts', () => {
 
   it('a price archived after drafting may stay on its line; a newly chosen archived price is refused', async () => {
     const p = (await o.post('/api/prices', { item: 'Hill session', description: '', amountMinor: 4000, taxRateBp: null })).body as Price;
-    const other = (await o.post('/api/prices', { item: 'Track session', description: '', amountMinor: 3000, taxRateBp: null })).body as Price;
+    const other = (await o.post('/api/prices', { item: 'Track session', description: '', amountMinor: 3000, taxRateBp: null }))
+      .body as Price;
     const d = await draft({ lines: [line(p)] });
     await o.delete(`/api/prices/${p.id}`);
     await o.delete(`/api/prices/${other.id}`);
@@ -363,10 +461,12 @@ describe('editing and deleting drafts', () => {
       const after = (await o.get(`/api/invoices/${inv.id}`)).body as InvoiceDetail;
       expect(after).toMatchObject({ status: inv.status, note: null, totalMinor: inv.totalMinor });
     }
-    expect((await o.delete(`/api/invoices/${open.id}`)).body.error.message).toContain(`invoice ${open.number} is issued. Cancel it and make a new one instead.`);
+    expect((await o.delete(`/api/invoices/${open.id}`)).body.error.message).toContain(
+      `invoice ${open.number} is issued. Cancel it and make a new one instead.`,
+    );
   });
 
-  it('athletes and coaches get 403, another clinic\'s owner 404; the draft is untouched', async () => {
+  it("athletes and coaches get 403, another clinic's owner 404; the draft is untouched", async () => {
     const d = await draft();
     const c = await signedIn(t.app, coach.email, coach.password);
     const farOwner = await signedIn(t.app, OTHER.owner.email, OTHER.owner.password);
@@ -404,11 +504,14 @@ describe('card payment through the fake payment service', () => {
     const mail = t.mailer.sent.filter((m) => m.subject === `Payment received for invoice ${inv.number}`);
     expect(mail).toHaveLength(1);
     expect(mail[0]!.text).toContain('78.00 EUR');
-    const pdf = await a.get(`/api/invoices/${inv.id}/receipt`).buffer(true).parse((res, cb) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const pdf = await a
+      .get(`/api/invoices/${inv.id}/receipt`)
+      .buffer(true)
+      .parse((res, cb) => {
+        const chunks: Buffer[] = [];
+        res.on('data', (c: Buffer) => chunks.push(c));
+        res.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
     expect(pdf.status).toBe(200);
     expect(pdf.headers['content-type']).toBe('application/pdf');
     const text = (await new PDFParse({ data: pdf.body as Buffer }).getText()).text;
@@ -458,16 +561,38 @@ describe('card payment through the fake payment service', () => {
     expect(await t.fakePayments!.redeliver(event.id)).toBe(200);
     expect(await t.db('payment_events').where({ id: event.id }).count({ n: '*' })).toEqual([{ n: 1 }]);
     expect(t.mailer.sent.length).toBe(mails);
-    const res = await fetch(`${t.url}/api/billing/webhook`, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': new Stripe('sk_x').webhooks.generateTestHeaderString({ payload: event.payload, secret: t.config.payments!.webhookSecret }) }, body: event.payload });
+    const res = await fetch(`${t.url}/api/billing/webhook`, {
+      method: 'POST',
+      headers: {
+        'content-type': 'application/json',
+        'stripe-signature': new Stripe('sk_x').webhooks.generateTestHeaderString({
+          payload: event.payload,
+          secret: t.config.payments!.webhookSecret,
+        }),
+      },
+      body: event.payload,
+    });
     expect(await res.json()).toEqual({ received: true, duplicate: true });
   });
 
   it('unsigned or wrongly signed webhooks answer 400 and change nothing', async () => {
     const inv = await issued();
-    const session = await (await fetch(`${t.fakePayments!.url}/v1/checkout/sessions`, { method: 'POST', headers: { authorization: `Bearer ${t.config.payments!.secretKey}`, 'content-type': 'application/x-www-form-urlencoded' }, body: 'line_items[0][quantity]=1&line_items[0][price_data][currency]=eur&line_items[0][price_data][unit_amount]=7800&success_url=http://x/s&cancel_url=http://x/c' })).json();
-    const payload = JSON.stringify({ id: 'evt_forged_1', object: 'event', type: 'checkout.session.completed', data: { object: { ...session, payment_status: 'paid', metadata: { invoice_id: String(inv.id) } } } });
+    const session = await (
+      await fetch(`${t.fakePayments!.url}/v1/checkout/sessions`, {
+        method: 'POST',
+        headers: { authorization: `Bearer ${t.config.payments!.secretKey}`, 'content-type': 'application/x-www-form-urlencoded' },
+        body: 'line_items[0][quantity]=1&line_items[0][price_data][currency]=eur&line_items[0][price_data][unit_amount]=7800&success_url=http://x/s&cancel_url=http://x/c',
+      })
+    ).json();
+    const payload = JSON.stringify({
+      id: 'evt_forged_1',
+      object: 'event',
+      type: 'checkout.session.completed',
+      data: { object: { ...session, payment_status: 'paid', metadata: { invoice_id: String(inv.id) } } },
+    });
     const events = await t.db('payment_events').count({ n: '*' });
-    const post = (headers: Record<string, string>, body = payload) => fetch(`${t.url}/api/billing/webhook`, { method: 'POST', headers: { 'content-type': 'application/json', ...headers }, body });
+    const post = (headers: Record<string, string>, body = payload) =>
+      fetch(`${t.url}/api/billing/webhook`, { method: 'POST', headers: { 'content-type': 'application/json', ...headers }, body });
     const unsigned = await post({});
     expect(unsigned.status).toBe(400);
     expect((await unsigned.json()).error.code).toBe('invalid_signature');
@@ -484,9 +609,18 @@ describe('card payment through the fake payment service', () => {
     const inv = await issued();
     const start = await a.post(`/api/invoices/${inv.id}/checkout`);
     const sessionId = start.body.url.split('/pay/')[1];
-    const payload = JSON.stringify({ id: 'evt_claims_paid', object: 'event', type: 'checkout.session.completed', data: { object: { id: sessionId, object: 'checkout.session', payment_status: 'paid', metadata: { invoice_id: String(inv.id) } } } });
+    const payload = JSON.stringify({
+      id: 'evt_claims_paid',
+      object: 'event',
+      type: 'checkout.session.completed',
+      data: { object: { id: sessionId, object: 'checkout.session', payment_status: 'paid', metadata: { invoice_id: String(inv.id) } } },
+    });
     const sig = new Stripe('sk_x').webhooks.generateTestHeaderString({ payload, secret: t.config.payments!.webhookSecret });
-    const res = await fetch(`${t.url}/api/billing/webhook`, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': sig }, body: payload });
+    const res = await fetch(`${t.url}/api/billing/webhook`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', 'stripe-signature': sig },
+      body: payload,
+    });
     expect(res.status).toBe(200);
     expect((await o.get(`/api/invoices/${inv.id}`)).body.status).toBe('issued');
   });
@@ -506,11 +640,14 @@ describe('card payment through the fake payment service', () => {
     expect(await t.db('payment_events').where({ id: refunded.id }).first()).toMatchObject({ invoice_id: inv.id });
     expect((await o.get(`/api/invoices/${inv.id}`)).body.status).toBe('refunded');
     expect((await o.post(`/api/invoices/${inv.id}/refund`)).status).toBe(409);
-    const pdf = await a.get(`/api/invoices/${inv.id}/receipt`).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = [];
-      r.on('data', (ch: Buffer) => chunks.push(ch));
-      r.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const pdf = await a
+      .get(`/api/invoices/${inv.id}/receipt`)
+      .buffer(true)
+      .parse((r, cb) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (ch: Buffer) => chunks.push(ch));
+        r.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
     expect((await new PDFParse({ data: pdf.body as Buffer }).getText()).text).toMatch(/Refunded on .*78\.00 EUR/);
   });
 
@@ -518,7 +655,15 @@ describe('card payment through the fake payment service', () => {
     const off = await makeTestApp({ payments: null });
     try {
       const oo = await signedIn(off.app, owner.email, owner.password);
-      const id = (await oo.post('/api/invoices', { athleteId: adaId, assessmentId: null, dueDate: due, note: null, lines: [{ priceId: null, description: 'X', quantity: 1, unitAmountMinor: 100, taxRateBp: null }] })).body.id;
+      const id = (
+        await oo.post('/api/invoices', {
+          athleteId: adaId,
+          assessmentId: null,
+          dueDate: due,
+          note: null,
+          lines: [{ priceId: null, description: 'X', quantity: 1, unitAmountMinor: 100, taxRateBp: null }],
+        })
+      ).body.id;
       await oo.post(`/api/invoices/${id}/issue`);
       const aa = await signedIn(off.app, athlete.email, athlete.password);
       const res = await aa.post(`/api/invoices/${id}/checkout`);
@@ -536,7 +681,11 @@ describe('card payment through the fake payment service', () => {
 async function postSigned(event: Record<string, unknown>): Promise<number> {
   const payload = JSON.stringify({ object: 'event', ...event });
   const sig = new Stripe('sk_x').webhooks.generateTestHeaderString({ payload, secret: t.config.payments!.webhookSecret });
-  const res = await fetch(`${t.url}/api/billing/webhook`, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': sig }, body: payload });
+  const res = await fetch(`${t.url}/api/billing/webhook`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', 'stripe-signature': sig },
+    body: payload,
+  });
   return res.status;
 }
 
@@ -544,9 +693,26 @@ describe('refund events are confirmed with the payment service', () => {
   it('a correctly signed charge.refunded the payment service does not confirm leaves the invoice paid', async () => {
     const inv = await paidInvoice();
     const pi = (await t.db('invoices').where({ id: inv.id }).first()).payment_intent_id as string;
-    const forged = { id: 'ch_forged_1', object: 'charge', payment_intent: pi, refunded: true, amount: inv.totalMinor, amount_refunded: inv.totalMinor, currency: 'eur', status: 'succeeded' };
+    const forged = {
+      id: 'ch_forged_1',
+      object: 'charge',
+      payment_intent: pi,
+      refunded: true,
+      amount: inv.totalMinor,
+      amount_refunded: inv.totalMinor,
+      currency: 'eur',
+      status: 'succeeded',
+    };
     expect(await postSigned({ id: 'evt_forged_refund_1', type: 'charge.refunded', data: { object: forged } })).toBe(200);
-    expect(await postSigned({ id: 'evt_forged_refund_2', type: 'refund.updated', data: { object: { id: 're_forged_1', object: 'refund', payment_intent: pi, status: 'succeeded', amount: inv.totalMinor, currency: 'eur' } } })).toBe(200);
+    expect(
+      await postSigned({
+        id: 'evt_forged_refund_2',
+        type: 'refund.updated',
+        data: {
+          object: { id: 're_forged_1', object: 'refund', payment_intent: pi, status: 'succeeded', amount: inv.totalMinor, currency: 'eur' },
+        },
+      }),
+    ).toBe(200);
     expect((await o.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'paid', refundedAt: null });
   });
 
@@ -558,14 +724,20 @@ describe('refund events are confirmed with the payment service', () => {
     // Another paid invoice: the forged copy says the real charge belongs to its payment.
     const victim = await paidInvoice();
     const pi = (await t.db('invoices').where({ id: victim.id }).first()).payment_intent_id as string;
-    expect(await postSigned({ id: 'evt_forged_refund_3', type: 'charge.refunded', data: { object: { ...charge, payment_intent: pi } } })).toBe(200);
+    expect(
+      await postSigned({ id: 'evt_forged_refund_3', type: 'charge.refunded', data: { object: { ...charge, payment_intent: pi } } }),
+    ).toBe(200);
     expect((await o.get(`/api/invoices/${victim.id}`)).body.status).toBe('paid');
   });
 
   it('a refund made at the payment service itself (not through Trailframe) is confirmed and marks the invoice refunded', async () => {
     const inv = await paidInvoice();
     const pi = (await t.db('invoices').where({ id: inv.id }).first()).payment_intent_id as string;
-    const res = await fetch(`${t.fakePayments!.url}/v1/refunds`, { method: 'POST', headers: { authorization: `Bearer ${t.config.payments!.secretKey}`, 'content-type': 'application/x-www-form-urlencoded' }, body: `payment_intent=${pi}` });
+    const res = await fetch(`${t.fakePayments!.url}/v1/refunds`, {
+      method: 'POST',
+      headers: { authorization: `Bearer ${t.config.payments!.secretKey}`, 'content-type': 'application/x-www-form-urlencoded' },
+      body: `payment_intent=${pi}`,
+    });
     expect(res.status).toBe(200);
     await t.fakePayments!.idle();
     expect((await o.get(`/api/invoices/${inv.id}`)).body.status).toBe('refunded');
@@ -573,10 +745,17 @@ describe('refund events are confirmed with the payment service', () => {
 
   it('refuses to start with the demo keys or secrets when demo mode is off', () => {
     const prod = { DEMO_MODE: 'false', SESSION_SECRET: 's'.repeat(40) } as NodeJS.ProcessEnv;
-    expect(() => loadConfig({ ...prod, STRIPE_SECRET_KEY: FAKE_PAYMENTS_KEYS.secretKey, STRIPE_WEBHOOK_SECRET: 'whsec_real_looking_0123' })).toThrow(/STRIPE_SECRET_KEY.*demo/);
-    expect(() => loadConfig({ ...prod, STRIPE_SECRET_KEY: 'sk_live_real_looking_0123', STRIPE_WEBHOOK_SECRET: FAKE_PAYMENTS_KEYS.webhookSecret })).toThrow(/STRIPE_WEBHOOK_SECRET.*demo/);
+    expect(() =>
+      loadConfig({ ...prod, STRIPE_SECRET_KEY: FAKE_PAYMENTS_KEYS.secretKey, STRIPE_WEBHOOK_SECRET: 'whsec_real_looking_0123' }),
+    ).toThrow(/STRIPE_SECRET_KEY.*demo/);
+    expect(() =>
+      loadConfig({ ...prod, STRIPE_SECRET_KEY: 'sk_live_real_looking_0123', STRIPE_WEBHOOK_SECRET: FAKE_PAYMENTS_KEYS.webhookSecret }),
+    ).toThrow(/STRIPE_WEBHOOK_SECRET.*demo/);
     expect(() => loadConfig({ ...prod, SESSION_SECRET: DEMO_SESSION_SECRET })).toThrow(/SESSION_SECRET.*demo/);
-    expect(loadConfig({ ...prod, STRIPE_SECRET_KEY: 'sk_live_real_looking_0123', STRIPE_WEBHOOK_SECRET: 'whsec_real_looking_0123' }).payments?.secretKey).toBe('sk_live_real_looking_0123');
+    expect(
+      loadConfig({ ...prod, STRIPE_SECRET_KEY: 'sk_live_real_looking_0123', STRIPE_WEBHOOK_SECRET: 'whsec_real_looking_0123' }).payments
+        ?.secretKey,
+    ).toBe('sk_live_real_looking_0123');
     // Demo mode keeps its demo keys.
     expect(loadConfig({} as NodeJS.ProcessEnv).payments?.webhookSecret).toBe(FAKE_PAYMENTS_KEYS.webhookSecret);
   });

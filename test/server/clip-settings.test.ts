@@ -18,11 +18,35 @@ let assessmentId: number;
 async function clipRow(): Promise<number> {
   const at = new Date().toISOString();
   const a = await t.db('assessments').where({ id: assessmentId }).first();
-  const [row] = await t.db('clips')
+  const [row] = await t
+    .db('clips')
     .insert({
-      clinic_id: a.clinic_id, athlete_id: adaId, assessment_id: assessmentId, uploaded_by: null, original_name: 'side.mp4', stored_name: 'original.mp4',
-      size_bytes: 1000, container: 'mp4', status: 'ready', progress_done: 60, progress_total: 60, error: null, near_side: 'right', direction: 'left_to_right',
-      capture_fps: null, fps: 30, width: 320, height: 180, frame_count: 60, duration_s: 2, rotation: 0, codec: 'h264', thumb_count: 0, thumb_every: null, created_at: at, updated_at: at,
+      clinic_id: a.clinic_id,
+      athlete_id: adaId,
+      assessment_id: assessmentId,
+      uploaded_by: null,
+      original_name: 'side.mp4',
+      stored_name: 'original.mp4',
+      size_bytes: 1000,
+      container: 'mp4',
+      status: 'ready',
+      progress_done: 60,
+      progress_total: 60,
+      error: null,
+      near_side: 'right',
+      direction: 'left_to_right',
+      capture_fps: null,
+      fps: 30,
+      width: 320,
+      height: 180,
+      frame_count: 60,
+      duration_s: 2,
+      rotation: 0,
+      codec: 'h264',
+      thumb_count: 0,
+      thumb_every: null,
+      created_at: at,
+      updated_at: at,
     })
     .returning('id');
   return (row as { id: number }).id;
@@ -33,7 +57,16 @@ beforeAll(async () => {
   staff = await signedIn(t.app, coach.email, coach.password);
   ada = await signedIn(t.app, athlete.email, athlete.password);
   adaId = (await t.db('athletes').where({ email: athlete.email }).first()).id;
-  const res = await staff.post(`/api/athletes/${adaId}/assessments`, { date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null });
+  const res = await staff.post(`/api/athletes/${adaId}/assessments`, {
+    date: '2026-11-30',
+    kind: 'baseline',
+    surface: 'treadmill',
+    speed: null,
+    inclinePercent: null,
+    shoes: null,
+    cameraNotes: null,
+    notes: null,
+  });
   assessmentId = res.body.id;
 });
 afterAll(async () => {
@@ -98,7 +131,14 @@ describe('clip settings: who may change them and when', () => {
   it('a staff change of a marked clip’s settings drops the stale measures snapshot (recomputed on the next read)', async () => {
     const id = await clipRow();
     await t.db('clip_landmarks').insert({ clip_id: id, frame: 3, side: 'right', landmark: 'hip', x: 0.5, y: 0.4, source: 'placed' });
-    await t.db('measure_snapshots').insert({ clip_id: id, assessment_id: assessmentId, annotation_revision: 0, kinematics_version: 'x', measures: '{}', computed_at: new Date().toISOString() });
+    await t.db('measure_snapshots').insert({
+      clip_id: id,
+      assessment_id: assessmentId,
+      annotation_revision: 0,
+      kinematics_version: 'x',
+      measures: '{}',
+      computed_at: new Date().toISOString(),
+    });
     await staff.patch(`/api/clips/${id}`, { captureFps: 240 });
     expect(await t.db('measure_snapshots').where({ clip_id: id })).toHaveLength(0);
   });

@@ -28,8 +28,14 @@ beforeAll(async () => {
   c = await signedIn(t.app, coach.email, coach.password);
   adaId = (await t.db('athletes').where({ email: athlete.email }).first()).id;
   const res = await c.post(`/api/athletes/${adaId}/assessments`, {
-    date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: { value: 10.8, unit: 'kmh' },
-    inclinePercent: 1, shoes: 'Daily trainer', cameraNotes: 'Tripod 3 m, hip height', notes: 'Left buttock pain 4/10',
+    date: '2026-11-30',
+    kind: 'baseline',
+    surface: 'treadmill',
+    speed: { value: 10.8, unit: 'kmh' },
+    inclinePercent: 1,
+    shoes: 'Daily trainer',
+    cameraNotes: 'Tripod 3 m, hip height',
+    notes: 'Left buttock pain 4/10',
   });
   expect(res.status).toBe(201);
   assessmentId = res.body.id;
@@ -40,7 +46,10 @@ afterAll(async () => {
 });
 
 const upload = (client: Client, id: number, file: string, name = path.basename(file)) =>
-  client.agent.post(`/api/assessments/${id}/clips`).set('X-XSRF-TOKEN', (client as unknown as { token: string }).token).attach('file', file, name);
+  client.agent
+    .post(`/api/assessments/${id}/clips`)
+    .set('X-XSRF-TOKEN', (client as unknown as { token: string }).token)
+    .attach('file', file, name);
 
 async function ready(): Promise<void> {
   await t.worker!.idle();
@@ -56,9 +65,24 @@ function leftovers(): { tmp: string[]; clipDirs: string[] } {
 describe('assessments', () => {
   it('stores the belt speed in m/s (10.8 km/h = 3.0 m/s by definition of the units) and lists newest first', async () => {
     const list = await c.get(`/api/athletes/${adaId}/assessments`);
-    expect(list.body.assessments.find((x: { id: number }) => x.id === assessmentId)).toMatchObject({ date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speedUnit: 'kmh', inclinePercent: 1 });
+    expect(list.body.assessments.find((x: { id: number }) => x.id === assessmentId)).toMatchObject({
+      date: '2026-11-30',
+      kind: 'baseline',
+      surface: 'treadmill',
+      speedUnit: 'kmh',
+      inclinePercent: 1,
+    });
     expect(list.body.assessments.find((x: { id: number }) => x.id === assessmentId).speedMps).toBeCloseTo(3.0, 10);
-    const pace = await c.post(`/api/athletes/${adaId}/assessments`, { date: '2026-12-01', kind: 'retest', surface: 'road', speed: { value: 300, unit: 's_per_km' }, inclinePercent: null, shoes: null, cameraNotes: null, notes: null });
+    const pace = await c.post(`/api/athletes/${adaId}/assessments`, {
+      date: '2026-12-01',
+      kind: 'retest',
+      surface: 'road',
+      speed: { value: 300, unit: 's_per_km' },
+      inclinePercent: null,
+      shoes: null,
+      cameraNotes: null,
+      notes: null,
+    });
     expect(pace.body.speedMps).toBeCloseTo(1000 / 300, 10); // 5:00 min/km
     const again = await c.get(`/api/athletes/${adaId}/assessments`);
     const dates = again.body.assessments.map((a: { date: string }) => a.date);
@@ -68,7 +92,16 @@ describe('assessments', () => {
   });
 
   it('refuses bad assessment input with field paths', async () => {
-    const base = { date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null };
+    const base = {
+      date: '2026-11-30',
+      kind: 'baseline',
+      surface: 'treadmill',
+      speed: null,
+      inclinePercent: null,
+      shoes: null,
+      cameraNotes: null,
+      notes: null,
+    };
     const cases: [Record<string, unknown>, (string | number)[]][] = [
       [{ speed: { value: 60, unit: 'kmh' } }, ['speed', 'value']],
       [{ speed: { value: 10, unit: 'knots' } }, ['speed', 'unit']],
@@ -104,7 +137,15 @@ describe('upload and processing', () => {
     await ready();
     const clip = (await c.get(`/api/clips/${clipId}`)).body;
     const ref = await ffprobeCounted(good);
-    expect(clip).toMatchObject({ status: 'ready', frameCount: ref.nbReadFrames, width: ref.width, height: ref.height, fps: 30, effectiveFps: 30, error: null });
+    expect(clip).toMatchObject({
+      status: 'ready',
+      frameCount: ref.nbReadFrames,
+      width: ref.width,
+      height: ref.height,
+      fps: 30,
+      effectiveFps: 30,
+      error: null,
+    });
     expect(clip.thumbCount).toBeGreaterThan(0);
     expect(fs.existsSync(path.join(t.config.uploadsDir, 'clips', String(clipId), 'original.mp4'))).toBe(true);
     expect(leftovers().tmp).toEqual([]);
@@ -224,7 +265,11 @@ describe('bad uploads: a clear 4xx, no file and no row left', () => {
 
   it('two files in one request → 422', async () => {
     const token = (c as unknown as { token: string }).token;
-    const res = await c.agent.post(`/api/assessments/${assessmentId}/clips`).set('X-XSRF-TOKEN', token).attach('file', good).attach('file', good);
+    const res = await c.agent
+      .post(`/api/assessments/${assessmentId}/clips`)
+      .set('X-XSRF-TOKEN', token)
+      .attach('file', good)
+      .attach('file', good);
     expect(res.status).toBe(422);
     expect(leftovers().tmp).toEqual([]);
   });
@@ -236,7 +281,16 @@ describe('bad uploads: a clear 4xx, no file and no row left', () => {
 
   it('upload without video consent → 409 consent_required', async () => {
     const farid = await t.db('athletes').where({ first_name: 'Farid' }).first();
-    const created = await c.post(`/api/athletes/${farid.id}/assessments`, { date: '2026-11-30', kind: 'baseline', surface: 'track', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null });
+    const created = await c.post(`/api/athletes/${farid.id}/assessments`, {
+      date: '2026-11-30',
+      kind: 'baseline',
+      surface: 'track',
+      speed: null,
+      inclinePercent: null,
+      shoes: null,
+      cameraNotes: null,
+      notes: null,
+    });
     const res = await upload(c, created.body.id, good);
     expect(res.status).toBe(409);
     expect(res.body.error.code).toBe('consent_required');
@@ -248,7 +302,16 @@ describe('bad uploads: a clear 4xx, no file and no row left', () => {
     try {
       const sc = await signedIn(small.app, coach.email, coach.password);
       const ada = (await small.db('athletes').where({ email: athlete.email }).first()).id;
-      const a = await sc.post(`/api/athletes/${ada}/assessments`, { date: '2026-11-30', kind: 'baseline', surface: 'trail', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null });
+      const a = await sc.post(`/api/athletes/${ada}/assessments`, {
+        date: '2026-11-30',
+        kind: 'baseline',
+        surface: 'trail',
+        speed: null,
+        inclinePercent: null,
+        shoes: null,
+        cameraNotes: null,
+        notes: null,
+      });
       const res = await upload(sc, a.body.id, good);
       expect(res.status).toBe(413);
       expect(res.body.error.code).toBe('file_too_large');

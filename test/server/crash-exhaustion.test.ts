@@ -35,7 +35,13 @@ async function signedInClient(): Promise<Client> {
 }
 
 /** Polls the clip until `done` says so. */
-async function waitFor(c: Client, clipId: number, what: string, done: (clip: { status: string; progress: { done: number } | null }) => boolean, ms = 120_000) {
+async function waitFor(
+  c: Client,
+  clipId: number,
+  what: string,
+  done: (clip: { status: string; progress: { done: number } | null }) => boolean,
+  ms = 120_000,
+) {
   const t0 = Date.now();
   for (;;) {
     const clip = (await c.get(`/api/clips/${clipId}`)).body;
@@ -51,7 +57,8 @@ async function waitForAttempt(n: number, ms = 60_000): Promise<void> {
   const db = createDb(path.join(dir, 'db.sqlite'));
   try {
     for (;;) {
-      const row = (await db('jobs').where({ type: 'extract_clip' }).orderBy('id', 'desc').first()) as { status: string; attempts: number } | undefined;
+      const row = (await db('jobs').where({ type: 'extract_clip' }).orderBy('id', 'desc').first()) as
+        { status: string; attempts: number } | undefined;
       if (row && row.status === 'running' && row.attempts === n) return;
       if (Date.now() - t0 > ms) throw new Error(`waited for attempt ${n} of the extraction`);
       await sleep(50);
@@ -68,8 +75,20 @@ describe('kill -9 during every attempt of one extraction', () => {
     let c = await signedInClient();
     const athletes = (await c.get('/api/athletes')).body.athletes as { id: number; lastName: string }[];
     const ada = athletes.find((a) => a.lastName === 'Kestrel')!;
-    const assessment = await c.post(`/api/athletes/${ada.id}/assessments`, { date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null });
-    const up = await c.agent.post(`/api/assessments/${assessment.body.id}/clips`).set('X-XSRF-TOKEN', await c.xsrf()).attach('file', clipFile);
+    const assessment = await c.post(`/api/athletes/${ada.id}/assessments`, {
+      date: '2026-11-30',
+      kind: 'baseline',
+      surface: 'treadmill',
+      speed: null,
+      inclinePercent: null,
+      shoes: null,
+      cameraNotes: null,
+      notes: null,
+    });
+    const up = await c.agent
+      .post(`/api/assessments/${assessment.body.id}/clips`)
+      .set('X-XSRF-TOKEN', await c.xsrf())
+      .attach('file', clipFile);
     expect(up.status).toBe(201);
     const clipId = up.body.id as number;
 

@@ -21,9 +21,23 @@ const callers: { who: string; client: Client }[] = [];
 const ids: Record<string, number> = {};
 
 beforeAll(async () => {
-  t = await makeTestApp({ rateLimit: { ...loadConfig({} as NodeJS.ProcessEnv).rateLimit, signInAttempts: 100_000, accountAttempts: 100_000, resetRequests: 100_000 } }, { fakePayments: true });
+  t = await makeTestApp(
+    {
+      rateLimit: {
+        ...loadConfig({} as NodeJS.ProcessEnv).rateLimit,
+        signInAttempts: 100_000,
+        accountAttempts: 100_000,
+        resetRequests: 100_000,
+      },
+    },
+    { fakePayments: true },
+  );
   callers.push({ who: 'anonymous', client: new Client(t.app) });
-  for (const [who, cred] of [['owner', owner], ['coach', coach], ['athlete', athlete]] as const) {
+  for (const [who, cred] of [
+    ['owner', owner],
+    ['coach', coach],
+    ['athlete', athlete],
+  ] as const) {
     const client = await signedIn(t.app, cred.email, cred.password);
     await client.refreshToken();
     callers.push({ who, client });
@@ -31,11 +45,38 @@ beforeAll(async () => {
   const staff = callers.find((c) => c.who === 'coach')!.client;
   const ada = await t.db('athletes').where({ email: athlete.email }).first();
   ids['athletes'] = ada.id;
-  const assessment = await staff.post(`/api/athletes/${ada.id}/assessments`, { date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null });
+  const assessment = await staff.post(`/api/athletes/${ada.id}/assessments`, {
+    date: '2026-11-30',
+    kind: 'baseline',
+    surface: 'treadmill',
+    speed: null,
+    inclinePercent: null,
+    shoes: null,
+    cameraNotes: null,
+    notes: null,
+  });
   ids['assessments'] = assessment.body.id;
   const at = new Date().toISOString();
-  const [clip] = await t.db('clips')
-    .insert({ clinic_id: ada.clinic_id, athlete_id: ada.id, assessment_id: assessment.body.id, uploaded_by: null, original_name: 'side.mp4', stored_name: 'original.mp4', size_bytes: 1, container: 'mp4', status: 'ready', frame_count: 60, fps: 30, width: 320, height: 180, thumb_count: 0, created_at: at, updated_at: at })
+  const [clip] = await t
+    .db('clips')
+    .insert({
+      clinic_id: ada.clinic_id,
+      athlete_id: ada.id,
+      assessment_id: assessment.body.id,
+      uploaded_by: null,
+      original_name: 'side.mp4',
+      stored_name: 'original.mp4',
+      size_bytes: 1,
+      container: 'mp4',
+      status: 'ready',
+      frame_count: 60,
+      fps: 30,
+      width: 320,
+      height: 180,
+      thumb_count: 0,
+      created_at: at,
+      updated_at: at,
+    })
     .returning('id');
   ids['clips'] = (clip as { id: number }).id;
   const plan = await t.db('plans').where({ athlete_id: ada.id }).orderBy('id', 'desc').first();
@@ -57,7 +98,9 @@ function mountedRoutes(app: Express): { method: string; pattern: string }[] {
   const out = new Map<string, { method: string; pattern: string }>();
   const walk = (stack: Layer[]) => {
     for (const layer of stack) {
-      if (layer.route) for (const m of Object.keys(layer.route.methods)) out.set(`${m} ${layer.route.path}`, { method: m, pattern: `/api${layer.route.path}` });
+      if (layer.route)
+        for (const m of Object.keys(layer.route.methods))
+          out.set(`${m} ${layer.route.path}`, { method: m, pattern: `/api${layer.route.path}` });
       else if (layer.handle?.stack) walk(layer.handle.stack);
     }
   };
@@ -67,8 +110,31 @@ function mountedRoutes(app: Express): { method: string; pattern: string }[] {
 
 const VALID_PARAM: Record<string, string> = { id: '1', n: '0', token: 'A'.repeat(43), key: 'fuzz-key-0001' };
 /** The route with its params filled by real ids where the fixtures have one. */
-const goodUrlOf = (pattern: string) => pattern.replace(/\/(\w[\w-]*)\/:(\w+)/g, (_, seg: string, name: string) => `/${seg}/${name === 'id' && ids[seg] ? ids[seg] : (VALID_PARAM[name] ?? '1')}`).replace(/:(\w+)/g, (_, name: string) => VALID_PARAM[name] ?? '1');
-const BAD_PARAMS = ['-1', '0', '1.5', '1e3', 'NaN', 'Infinity', '9007199254740993', '99999999999999999999999', '0x1F', '%00', '%E0%A4%A', '..%2F..%2Fetc%2Fpasswd', '__proto__', "1'%20OR%20'1'='1", '1;DROP%20TABLE%20users', 'x'.repeat(3000)];
+const goodUrlOf = (pattern: string) =>
+  pattern
+    .replace(
+      /\/(\w[\w-]*)\/:(\w+)/g,
+      (_, seg: string, name: string) => `/${seg}/${name === 'id' && ids[seg] ? ids[seg] : (VALID_PARAM[name] ?? '1')}`,
+    )
+    .replace(/:(\w+)/g, (_, name: string) => VALID_PARAM[name] ?? '1');
+const BAD_PARAMS = [
+  '-1',
+  '0',
+  '1.5',
+  '1e3',
+  'NaN',
+  'Infinity',
+  '9007199254740993',
+  '99999999999999999999999',
+  '0x1F',
+  '%00',
+  '%E0%A4%A',
+  '..%2F..%2Fetc%2Fpasswd',
+  '__proto__',
+  "1'%20OR%20'1'='1",
+  '1;DROP%20TABLE%20users',
+  'x'.repeat(3000),
+];
 const fill = (pattern: string, value: (name: string) => string) => pattern.replace(/:(\w+)/g, (_, name: string) => value(name));
 
 /** Query strings with SQL-shaped, repeated, nested and out-of-range sort and filter values. */
@@ -85,24 +151,61 @@ interface Variant {
   body: string | Buffer;
   type?: string;
 }
-const KITCHEN = { name: 1, email: [], password: {}, title: null, date: 'NaN', kind: 7, stages: 'x', sets: { a: 1 }, caption: ['x'], frameIndex: '0', pain: 11.5, currency: 'EURO', lines: [{}], firstName: true, key: "'; DROP TABLE log_entries;--", action: '__proto__', nearSide: 'middle', captureFps: -1 };
+const KITCHEN = {
+  name: 1,
+  email: [],
+  password: {},
+  title: null,
+  date: 'NaN',
+  kind: 7,
+  stages: 'x',
+  sets: { a: 1 },
+  caption: ['x'],
+  frameIndex: '0',
+  pain: 11.5,
+  currency: 'EURO',
+  lines: [{}],
+  firstName: true,
+  key: "'; DROP TABLE log_entries;--",
+  action: '__proto__',
+  nearSide: 'middle',
+  captureFps: -1,
+};
 const BODY_VARIANTS: Variant[] = [
   { what: 'truncated JSON', body: '{"name": "a", "sets": [1, 2' },
   { what: 'NaN literal', body: '{"value": NaN, "pain": Infinity}' },
-  { what: 'number overflowing to Infinity', body: '{"pain": 1e999, "frameIndex": -1e999, "captureFps": 1e999, "sets": 1e999, "amount": 1e999, "painDuring": 1e999}' },
+  {
+    what: 'number overflowing to Infinity',
+    body: '{"pain": 1e999, "frameIndex": -1e999, "captureFps": 1e999, "sets": 1e999, "amount": 1e999, "painDuring": 1e999}',
+  },
   { what: 'a JSON array', body: '[1, 2, 3]' },
   { what: 'a JSON string', body: '"hello"' },
   { what: 'JSON null', body: 'null' },
   { what: 'wrong types everywhere', body: JSON.stringify(KITCHEN) },
-  { what: '__proto__ and constructor keys', body: '{"__proto__": {"role": "owner", "isAdmin": true}, "constructor": {"prototype": {"polluted": 1}}, "name": "x"}' },
+  {
+    what: '__proto__ and constructor keys',
+    body: '{"__proto__": {"role": "owner", "isAdmin": true}, "constructor": {"prototype": {"polluted": 1}}, "name": "x"}',
+  },
   { what: 'a 1 MB string', body: JSON.stringify({ name: 'x'.repeat(1_000_000), caption: 'y' }) },
   { what: 'deep nesting', body: '['.repeat(5000) + ']'.repeat(5000) },
   { what: 'text/plain', body: 'name=x', type: 'text/plain' },
   { what: 'form-urlencoded', body: 'name=x&__proto__[role]=owner', type: 'application/x-www-form-urlencoded' },
   { what: 'XML', body: '<?xml version="1.0"?><a>1</a>', type: 'application/xml' },
-  { what: 'multipart without boundary', body: '--b\r\nContent-Disposition: form-data; name="file"; filename="a.mp4"\r\n\r\nabc\r\n--b--\r\n', type: 'multipart/form-data' },
-  { what: 'truncated multipart', body: '--b\r\nContent-Disposition: form-data; name="file"; filename="a.mp4"\r\nContent-Type: video/mp4\r\n\r\n' + 'x'.repeat(5000), type: 'multipart/form-data; boundary=b' },
-  { what: 'multipart with a wrong boundary', body: '--zz\r\nContent-Disposition: form-data; name="file"; filename="a.mp4"\r\n\r\nabc\r\n--zz--\r\n', type: 'multipart/form-data; boundary=b' },
+  {
+    what: 'multipart without boundary',
+    body: '--b\r\nContent-Disposition: form-data; name="file"; filename="a.mp4"\r\n\r\nabc\r\n--b--\r\n',
+    type: 'multipart/form-data',
+  },
+  {
+    what: 'truncated multipart',
+    body: '--b\r\nContent-Disposition: form-data; name="file"; filename="a.mp4"\r\nContent-Type: video/mp4\r\n\r\n' + 'x'.repeat(5000),
+    type: 'multipart/form-data; boundary=b',
+  },
+  {
+    what: 'multipart with a wrong boundary',
+    body: '--zz\r\nContent-Disposition: form-data; name="file"; filename="a.mp4"\r\n\r\nabc\r\n--zz--\r\n',
+    type: 'multipart/form-data; boundary=b',
+  },
   { what: 'empty multipart', body: '', type: 'multipart/form-data; boundary=b' },
   { what: 'binary garbage as JSON', body: Buffer.from([0xff, 0xfe, 0x00, 0x7b, 0x22, 0xc3, 0x28]) },
 ];
@@ -145,12 +248,14 @@ describe('fuzz: malformed requests across every route family', () => {
         const hasParams = r.pattern.includes(':');
         const badUrls = hasParams ? BAD_PARAMS.map((bad) => fill(r.pattern, () => bad)) : [];
         if (r.method === 'get') {
-          if (!stream) for (const q of signedInCaller ? QUERIES : QUERIES.slice(0, 1)) await call(client, 'get', goodUrl + q.replace(/ /g, '%20'));
+          if (!stream)
+            for (const q of signedInCaller ? QUERIES : QUERIES.slice(0, 1)) await call(client, 'get', goodUrl + q.replace(/ /g, '%20'));
           for (const url of signedInCaller ? badUrls : badUrls.slice(0, 2)) await call(client, 'get', url);
           continue;
         }
         if (signedInCaller && endsSession) continue;
-        if (!destructive) for (const v of signedInCaller ? BODY_VARIANTS : BODY_VARIANTS.slice(0, 3)) await call(client, r.method, goodUrl, v);
+        if (!destructive)
+          for (const v of signedInCaller ? BODY_VARIANTS : BODY_VARIANTS.slice(0, 3)) await call(client, r.method, goodUrl, v);
         for (const url of signedInCaller ? badUrls.slice(0, 8) : badUrls.slice(0, 2)) await call(client, r.method, url, BODY_VARIANTS[6]);
       }
       // Very long URLs and unknown paths.
@@ -163,7 +268,9 @@ describe('fuzz: malformed requests across every route family', () => {
     console.log('fuzz answers by status', JSON.stringify(byStatus), 'requests', outcomes.length);
     const serverErrors = outcomes.filter((o) => o.status >= 500);
     expect(serverErrors.map((o) => `${o.label} → ${o.status} ${JSON.stringify(o.body).slice(0, 200)}`)).toEqual([]);
-    const unshaped = outcomes.filter((o) => o.status >= 400 && o.status !== 431 && !(o.body as { error?: { code?: string; message?: string } })?.error?.message);
+    const unshaped = outcomes.filter(
+      (o) => o.status >= 400 && o.status !== 431 && !(o.body as { error?: { code?: string; message?: string } })?.error?.message,
+    );
     expect(unshaped.map((o) => `${o.label} → ${o.status}`)).toEqual([]);
     expect(outcomes.length).toBeGreaterThanOrEqual(300);
     expect(families.size).toBeGreaterThanOrEqual(15);

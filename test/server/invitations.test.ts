@@ -25,7 +25,12 @@ describe('coach invitations (owner)', () => {
 
     const invitee = new Client(t.app);
     const preview = await invitee.get(`/api/invitations/${tokenOf(link)}`);
-    expect(preview.body).toEqual({ email: 'new.coach@larchwood-clinic.test', name: 'Noor Pell', role: 'coach', clinicName: 'Larchwood Running Clinic' });
+    expect(preview.body).toEqual({
+      email: 'new.coach@larchwood-clinic.test',
+      name: 'Noor Pell',
+      role: 'coach',
+      clinicName: 'Larchwood Running Clinic',
+    });
     const accepted = await invitee.post(`/api/invitations/${tokenOf(link)}/accept`, { name: 'Noor Pell', password: 'a-long-password' });
     expect(accepted.status).toBe(201);
     expect(accepted.body.user).toMatchObject({ role: 'coach', clinicName: 'Larchwood Running Clinic' });

@@ -29,7 +29,16 @@ beforeAll(async () => {
   const ada = await t.db('athletes').where({ email: athlete.email }).first();
   adaId = ada.id;
   clinicId = ada.clinic_id;
-  const res = await staff.post(`/api/athletes/${adaId}/assessments`, { date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null });
+  const res = await staff.post(`/api/athletes/${adaId}/assessments`, {
+    date: '2026-11-30',
+    kind: 'baseline',
+    surface: 'treadmill',
+    speed: null,
+    inclinePercent: null,
+    shoes: null,
+    cameraNotes: null,
+    notes: null,
+  });
   assessmentId = res.body.id;
 });
 afterAll(async () => {
@@ -37,11 +46,35 @@ afterAll(async () => {
 });
 
 async function insertClip(status = 'extracting'): Promise<number> {
-  const [row] = await t.db('clips')
+  const [row] = await t
+    .db('clips')
     .insert({
-      clinic_id: clinicId, athlete_id: adaId, assessment_id: assessmentId, uploaded_by: null, original_name: 'side.mp4', stored_name: 'original.mp4',
-      size_bytes: 1000, container: 'mp4', status, progress_done: 40, progress_total: 60, error: null, near_side: 'right', direction: 'left_to_right',
-      capture_fps: null, fps: 30, width: 320, height: 180, frame_count: 60, duration_s: 2, rotation: 0, codec: 'h264', thumb_count: 0, thumb_every: null, created_at: at(), updated_at: at(),
+      clinic_id: clinicId,
+      athlete_id: adaId,
+      assessment_id: assessmentId,
+      uploaded_by: null,
+      original_name: 'side.mp4',
+      stored_name: 'original.mp4',
+      size_bytes: 1000,
+      container: 'mp4',
+      status,
+      progress_done: 40,
+      progress_total: 60,
+      error: null,
+      near_side: 'right',
+      direction: 'left_to_right',
+      capture_fps: null,
+      fps: 30,
+      width: 320,
+      height: 180,
+      frame_count: 60,
+      duration_s: 2,
+      rotation: 0,
+      codec: 'h264',
+      thumb_count: 0,
+      thumb_every: null,
+      created_at: at(),
+      updated_at: at(),
     })
     .returning('id');
   return (row as { id: number }).id;
@@ -51,7 +84,10 @@ async function insertClip(status = 'extracting'): Promise<number> {
 async function exhaustedJob(type: string, subject: string, payload: Record<string, unknown>): Promise<number> {
   const id = await t.queue.enqueue(t.db, type, subject, payload);
   const { max_attempts } = await t.db('jobs').where({ id }).first();
-  await t.db('jobs').where({ id }).update({ status: 'running', attempts: max_attempts, lease_until: new Date(Date.now() - 1000).toISOString() });
+  await t
+    .db('jobs')
+    .where({ id })
+    .update({ status: 'running', attempts: max_attempts, lease_until: new Date(Date.now() - 1000).toISOString() });
   return id;
 }
 
@@ -69,13 +105,31 @@ describe('running out of attempts at claim time (the server was killed during th
     expect(retry.status, JSON.stringify(retry.body)).toBe(202);
     expect(retry.body).toMatchObject({ status: 'queued', error: null });
     expect(await t.db('jobs').where({ subject: `clip:${clipId}`, status: 'queued' })).toHaveLength(1);
-    await t.db('jobs').where({ subject: `clip:${clipId}` }).delete();
+    await t
+      .db('jobs')
+      .where({ subject: `clip:${clipId}` })
+      .delete();
   });
 
   it('leaves a still failed with a reason', async () => {
     const clipId = await insertClip('ready');
-    const [s] = await t.db('stills')
-      .insert({ clinic_id: clinicId, athlete_id: adaId, assessment_id: assessmentId, clip_id: clipId, kind: 'frame', panels: '[]', caption: '', show_angles: true, status: 'rendering', progress: 0.3, render_version: 1, created_at: at(), updated_at: at() })
+    const [s] = await t
+      .db('stills')
+      .insert({
+        clinic_id: clinicId,
+        athlete_id: adaId,
+        assessment_id: assessmentId,
+        clip_id: clipId,
+        kind: 'frame',
+        panels: '[]',
+        caption: '',
+        show_angles: true,
+        status: 'rendering',
+        progress: 0.3,
+        render_version: 1,
+        created_at: at(),
+        updated_at: at(),
+      })
       .returning('id');
     const stillId = (s as { id: number }).id;
     await exhaustedJob(RENDER_STILL_JOB, `still:${stillId}`, { stillId });
@@ -86,8 +140,21 @@ describe('running out of attempts at claim time (the server was killed during th
   });
 
   it('leaves a visit summary failed with a reason', async () => {
-    const [s] = await t.db('visit_summaries')
-      .insert({ clinic_id: clinicId, athlete_id: adaId, assessment_id: assessmentId, title: 'Visit summary', findings: '', plan_text: '', still_ids: '[]', status: 'rendering', progress: 0.5, created_at: at(), updated_at: at() })
+    const [s] = await t
+      .db('visit_summaries')
+      .insert({
+        clinic_id: clinicId,
+        athlete_id: adaId,
+        assessment_id: assessmentId,
+        title: 'Visit summary',
+        findings: '',
+        plan_text: '',
+        still_ids: '[]',
+        status: 'rendering',
+        progress: 0.5,
+        created_at: at(),
+        updated_at: at(),
+      })
       .returning('id');
     const summaryId = (s as { id: number }).id;
     await exhaustedJob(RENDER_SUMMARY_JOB, `summary:${summaryId}`, { summaryId });
@@ -133,7 +200,14 @@ describe('running out of attempts in the worker', () => {
   async function run(handler: JobHandler, setup: (id: number) => Promise<void> = async () => undefined) {
     const id = await t.queue.enqueue(t.db, TYPE, `test:${Math.random()}`, {});
     await setup(id);
-    const worker = startWorker({ queue: t.queue, handlers: { [TYPE]: handler }, logger: pino({ level: 'silent' }), concurrency: 1, pollMs: 50, leaseMs: 30_000 });
+    const worker = startWorker({
+      queue: t.queue,
+      handlers: { [TYPE]: handler },
+      logger: pino({ level: 'silent' }),
+      concurrency: 1,
+      pollMs: 50,
+      leaseMs: 30_000,
+    });
     await worker.idle();
     await worker.stop();
     return { id, row: await t.db('jobs').where({ id }).first() };
@@ -144,7 +218,12 @@ describe('running out of attempts in the worker', () => {
       async () => {
         throw new Error('ffmpeg exited with code 1');
       },
-      (jobId) => t.db('jobs').where({ id: jobId }).update({ attempts: 2 }).then(() => undefined),
+      (jobId) =>
+        t
+          .db('jobs')
+          .where({ id: jobId })
+          .update({ attempts: 2 })
+          .then(() => undefined),
     );
     expect(row).toMatchObject({ status: 'failed', attempts: 3 });
     const job = await t.db('jobs').where({ id }).first();

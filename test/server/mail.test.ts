@@ -36,9 +36,24 @@ describe('the demo inbox (outside the app, 127.0.0.1 only)', () => {
     db = createDb(':memory:');
     await migrate(db);
     smtp = await startFakeSmtp(db, 0);
-    const mailer = createSmtpMailer({ from: 'Trailframe <no-reply@trailframe.test>', host: '127.0.0.1', port: smtp.port, secure: false, user: null, pass: null });
-    await mailer.send({ to: 'first@runner.test', subject: 'First <b>message</b>', text: 'Open http://localhost:3000/invitation/abc_DEF-123 to join.\n<script>alert(1)</script>' });
-    await mailer.send({ to: 'second@runner.test', subject: 'Reset your Trailframe password', text: 'http://localhost:3000/reset-password/xyz' });
+    const mailer = createSmtpMailer({
+      from: 'Trailframe <no-reply@trailframe.test>',
+      host: '127.0.0.1',
+      port: smtp.port,
+      secure: false,
+      user: null,
+      pass: null,
+    });
+    await mailer.send({
+      to: 'first@runner.test',
+      subject: 'First <b>message</b>',
+      text: 'Open http://localhost:3000/invitation/abc_DEF-123 to join.\n<script>alert(1)</script>',
+    });
+    await mailer.send({
+      to: 'second@runner.test',
+      subject: 'Reset your Trailframe password',
+      text: 'http://localhost:3000/reset-password/xyz',
+    });
     mailer.close();
     return startDemoInbox(db, 0);
   }
@@ -89,7 +104,14 @@ describe('mail through nodemailer to the fake SMTP receiver', () => {
     db = createDb(':memory:');
     await migrate(db);
     smtp = await startFakeSmtp(db, 0);
-    const mailer = createSmtpMailer({ from: 'Trailframe <no-reply@trailframe.test>', host: '127.0.0.1', port: smtp.port, secure: false, user: null, pass: null });
+    const mailer = createSmtpMailer({
+      from: 'Trailframe <no-reply@trailframe.test>',
+      host: '127.0.0.1',
+      port: smtp.port,
+      secure: false,
+      user: null,
+      pass: null,
+    });
     await mailer.send({ to: 'runner@runner.test', subject: 'Your link', text: 'Open http://localhost/invitation/abc' });
     mailer.close();
     const rows = await db('mailbox_messages');
@@ -108,7 +130,15 @@ describe('configuration', () => {
   });
 
   it('reads real SMTP settings and refuses production without a session secret', () => {
-    const env = { DEMO_MODE: 'false', SESSION_SECRET: 's'.repeat(40), SMTP_HOST: 'smtp.clinic.test', SMTP_PORT: '587', SMTP_USER: 'u', SMTP_PASS: 'p', PUBLIC_URL: 'https://gait.clinic.test/' } as NodeJS.ProcessEnv;
+    const env = {
+      DEMO_MODE: 'false',
+      SESSION_SECRET: 's'.repeat(40),
+      SMTP_HOST: 'smtp.clinic.test',
+      SMTP_PORT: '587',
+      SMTP_USER: 'u',
+      SMTP_PASS: 'p',
+      PUBLIC_URL: 'https://gait.clinic.test/',
+    } as NodeJS.ProcessEnv;
     const c = loadConfig(env);
     expect(c.mail).toMatchObject({ host: 'smtp.clinic.test', port: 587, user: 'u' });
     expect(c.publicUrl).toBe('https://gait.clinic.test');

@@ -32,7 +32,12 @@ function asWrite(p: PlanDetail, withExerciseIds = true): PlanWrite {
       targetWeeks: s.targetWeeks,
       progressionText: s.progressionText,
       criteria: s.criteria,
-      exercises: s.exercises.map((e) => ({ ...(withExerciseIds ? { id: e.id } : {}), exerciseId: e.exerciseId, dose: e.dose, notes: e.notes })),
+      exercises: s.exercises.map((e) => ({
+        ...(withExerciseIds ? { id: e.id } : {}),
+        exerciseId: e.exerciseId,
+        dose: e.dose,
+        notes: e.notes,
+      })),
     })),
   };
 }
@@ -43,7 +48,14 @@ const itemIds = (p: PlanDetail) => p.stages.flatMap((s) => s.exercises.map((e) =
 /** A session as the portal queues it (with each exercise's library id beside its stage-exercise id). */
 function queuedLog(p: PlanDetail): LogWrite {
   const stage = current(p);
-  return { key: newKey(), stageId: stage.id, date: today(), painDuring: 2, sets: stage.exercises.map((e) => ({ stageExerciseId: e.id, exerciseId: e.exerciseId, setsDone: e.dose.sets })), note: 'Queued offline' };
+  return {
+    key: newKey(),
+    stageId: stage.id,
+    date: today(),
+    painDuring: 2,
+    sets: stage.exercises.map((e) => ({ stageExerciseId: e.id, exerciseId: e.exerciseId, setsDone: e.dose.sets })),
+    note: 'Queued offline',
+  };
 }
 
 beforeEach(async () => {
@@ -55,7 +67,14 @@ beforeEach(async () => {
   // Any three exercises of the demo library will do.
   const [e1, e2, e3] = library.filter((e) => !e.archived);
   const ex = (e: Exercise) => ({ exerciseId: e.id, dose: e.dose, notes: null });
-  const stage = (name: string, items: Exercise[]) => ({ name, goal: `${name} goal`, targetWeeks: 2, progressionText: 'When it feels easy.', criteria: [], exercises: items.map(ex) });
+  const stage = (name: string, items: Exercise[]) => ({
+    name,
+    goal: `${name} goal`,
+    targetWeeks: 2,
+    progressionText: 'When it feels easy.',
+    criteria: [],
+    exercises: items.map(ex),
+  });
   const created = await c.post(`/api/athletes/${adaId}/plans`, {
     title: 'High hamstring: staged loading',
     assessmentId: null,
@@ -131,10 +150,22 @@ describe('a session queued offline before the coach edited the plan', () => {
     const body = asWrite(plan);
     const stageIndex = plan.stages.indexOf(current(plan));
     // Removed and added again: a new stage-exercise id for the same library exercise.
-    body.stages[stageIndex]!.exercises = body.stages[stageIndex]!.exercises.map(({ exerciseId, dose, notes }) => ({ exerciseId, dose, notes }));
+    body.stages[stageIndex]!.exercises = body.stages[stageIndex]!.exercises.map(({ exerciseId, dose, notes }) => ({
+      exerciseId,
+      dose,
+      notes,
+    }));
     const first = body.stages[stageIndex]!.exercises.shift()!;
     const edited = await c.put(`/api/plans/${plan.id}`, body);
-    body.stages[stageIndex]!.exercises = [...(edited.body as PlanDetail).stages[stageIndex]!.exercises.map((e) => ({ id: e.id, exerciseId: e.exerciseId, dose: e.dose, notes: e.notes })), first];
+    body.stages[stageIndex]!.exercises = [
+      ...(edited.body as PlanDetail).stages[stageIndex]!.exercises.map((e) => ({
+        id: e.id,
+        exerciseId: e.exerciseId,
+        dose: e.dose,
+        notes: e.notes,
+      })),
+      first,
+    ];
     const readded = await c.put(`/api/plans/${plan.id}`, body);
     const now = current(readded.body);
     const newItem = now.exercises.find((e) => e.exerciseId === first.exerciseId)!;
@@ -159,7 +190,10 @@ describe('a session queued offline before the coach edited the plan', () => {
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     const name = library.find((e) => e.id === gone.exerciseId)!.name;
     expect(res.body.reviewNote).toContain(name);
-    expect(res.body.sets.find((s: { name: string }) => s.name === name)).toMatchObject({ stageExerciseId: log.sets[0]!.stageExerciseId, setsDone: log.sets[0]!.setsDone });
+    expect(res.body.sets.find((s: { name: string }) => s.name === name)).toMatchObject({
+      stageExerciseId: log.sets[0]!.stageExerciseId,
+      setsDone: log.sets[0]!.setsDone,
+    });
     const coachView = (await c.get(`/api/plans/${plan.id}/logs`)).body.logs.find((l: { key: string }) => l.key === log.key);
     expect(coachView.reviewNote).toContain(name);
     // The same key again answers the stored entry.

@@ -41,7 +41,15 @@ const ex = (name: string) => {
 };
 
 function stage(name: string, exercises: string[], over: Partial<StageWrite> = {}): StageWrite {
-  return { name, goal: `${name} goal`, targetWeeks: 2, progressionText: 'When it feels easy.', criteria: [], exercises: exercises.map(ex), ...over };
+  return {
+    name,
+    goal: `${name} goal`,
+    targetWeeks: 2,
+    progressionText: 'When it feels easy.',
+    criteria: [],
+    exercises: exercises.map(ex),
+    ...over,
+  };
 }
 
 function threeStages(over: Partial<PlanWrite> = {}): PlanWrite {
@@ -96,7 +104,15 @@ const logCount = async () => Number((await t.db('log_entries').count({ n: '*' })
 
 describe('exercise library', () => {
   it('seeds the clinic library in our own words, searchable by text, region, loading kind and source', async () => {
-    expect(library.map((e) => e.name)).toEqual(expect.arrayContaining(['Bent-knee bridge hold', 'Hip-flexed knee extension', 'Gliding split', 'Nordic hamstring lowering', 'Heavy slow calf raise']));
+    expect(library.map((e) => e.name)).toEqual(
+      expect.arrayContaining([
+        'Bent-knee bridge hold',
+        'Hip-flexed knee extension',
+        'Gliding split',
+        'Nordic hamstring lowering',
+        'Heavy slow calf raise',
+      ]),
+    );
     expect(library).toHaveLength(DEMO_EXERCISES.length);
     const iso = (await c.get('/api/exercises?kind=isometric&region=hamstring')).body.exercises.map((e: Exercise) => e.name);
     expect(iso.sort()).toEqual(['Bent-knee bridge hold', 'Prone hamstring hold']);
@@ -143,7 +159,15 @@ describe('exercise library', () => {
   });
 
   it('creates, edits and archives an exercise; archived ones leave the library list', async () => {
-    const body = { name: 'Split-squat hold', purpose: 'Thigh endurance.', region: 'thigh', kind: 'isometric', dose: { sets: 3, reps: null, holdSeconds: 45, tempo: null, load: null, restSeconds: 60, daysPerWeek: 3 }, instructions: ['Step into a split stance.', 'Lower halfway and hold.'], cautions: '' };
+    const body = {
+      name: 'Split-squat hold',
+      purpose: 'Thigh endurance.',
+      region: 'thigh',
+      kind: 'isometric',
+      dose: { sets: 3, reps: null, holdSeconds: 45, tempo: null, load: null, restSeconds: 60, daysPerWeek: 3 },
+      instructions: ['Step into a split stance.', 'Lower halfway and hold.'],
+      cautions: '',
+    };
     const created = await c.post('/api/exercises', body);
     expect(created.status).toBe(201);
     // Without a source the exercise is the clinic's own: stored with an empty source.
@@ -151,9 +175,14 @@ describe('exercise library', () => {
     const patched = await c.patch(`/api/exercises/${created.body.id}`, { purpose: 'Front-of-thigh endurance.' });
     expect(patched.body.purpose).toBe('Front-of-thigh endurance.');
     const sourced = await c.patch(`/api/exercises/${created.body.id}`, { source: '  Crossley et al. 2016, Br J Sports Med 50:839–843 ' });
-    expect(sourced.body).toMatchObject({ source: 'Crossley et al. 2016, Br J Sports Med 50:839–843', purpose: 'Front-of-thigh endurance.' });
+    expect(sourced.body).toMatchObject({
+      source: 'Crossley et al. 2016, Br J Sports Med 50:839–843',
+      purpose: 'Front-of-thigh endurance.',
+    });
     // Another edit leaves the source alone; a source past 300 characters is refused and changes nothing.
-    expect((await c.patch(`/api/exercises/${created.body.id}`, { cautions: 'Ease off if the knee aches.' })).body.source).toBe('Crossley et al. 2016, Br J Sports Med 50:839–843');
+    expect((await c.patch(`/api/exercises/${created.body.id}`, { cautions: 'Ease off if the knee aches.' })).body.source).toBe(
+      'Crossley et al. 2016, Br J Sports Med 50:839–843',
+    );
     const tooLong = await c.patch(`/api/exercises/${created.body.id}`, { source: 'x'.repeat(301) });
     expect(tooLong.status).toBe(422);
     expect(tooLong.body.error.details[0].path).toEqual(['source']);
@@ -194,7 +223,16 @@ describe('plans', () => {
   it('builds a three-stage plan from the library, linked to the assessment it came from', async () => {
     const retest = await t.db('assessments').where({ athlete_id: adaId, kind: 'retest' }).first();
     const plan = await createPlan(threeStages({ assessmentId: retest.id }));
-    expect(plan).toMatchObject({ status: 'draft', athleteId: adaId, assessmentId: retest.id, assessmentDate: retest.date, stageCount: 3, currentStageId: null, painRule: DEFAULT_PAIN_RULE, notes: 'Coach-only note' });
+    expect(plan).toMatchObject({
+      status: 'draft',
+      athleteId: adaId,
+      assessmentId: retest.id,
+      assessmentDate: retest.date,
+      stageCount: 3,
+      currentStageId: null,
+      painRule: DEFAULT_PAIN_RULE,
+      notes: 'Coach-only note',
+    });
     expect(plan.stages.map((s) => s.name)).toEqual(['Isometric holds', 'Slow lengthening', 'Fast and running drills']);
     expect(plan.stages[0]!.exercises.map((e) => e.exercise.name)).toEqual(['Bent-knee bridge hold', 'Prone hamstring hold']);
     expect(plan.stages[0]!.sessionsPerWeek).toBe(4);
@@ -288,7 +326,15 @@ describe('plans', () => {
   it('PUT replaces content, keeping stage ids; a started stage cannot be removed', async () => {
     const plan = await startedPlan();
     const body = threeStages();
-    body.stages = plan.stages.map((s) => ({ id: s.id, name: s.name, goal: s.goal, targetWeeks: s.targetWeeks, progressionText: s.progressionText, criteria: s.criteria, exercises: s.exercises.map((e) => ({ exerciseId: e.exerciseId, dose: e.dose, notes: e.notes })) }));
+    body.stages = plan.stages.map((s) => ({
+      id: s.id,
+      name: s.name,
+      goal: s.goal,
+      targetWeeks: s.targetWeeks,
+      progressionText: s.progressionText,
+      criteria: s.criteria,
+      exercises: s.exercises.map((e) => ({ exerciseId: e.exerciseId, dose: e.dose, notes: e.notes })),
+    }));
     body.stages[1]!.targetWeeks = 4;
     body.stages.push(stage('Back to running', ['Step-rate run']));
     const res = await c.put(`/api/plans/${plan.id}`, body);
@@ -407,7 +453,10 @@ describe('progress, progression and alerts', () => {
     const plan = await startedPlan();
     const progress = async () => (await c.get(`/api/plans/${plan.id}/progress`)).body;
     expect((await progress()).progression).toMatchObject({ stageId: plan.stages[0]!.id, ready: false, nextStageId: plan.stages[1]!.id });
-    for (const [offset, pain] of [[-1, 3], [0, 2]] as const) {
+    for (const [offset, pain] of [
+      [-1, 3],
+      [0, 2],
+    ] as const) {
       const body = logBody(plan, { date: isoDay(offset), painDuring: pain });
       await a.post(`/api/plans/${plan.id}/logs`, body);
       await a.put(`/api/plans/${plan.id}/logs/${body.key}/morning`, { pain: 1 });
@@ -455,20 +504,33 @@ describe('progress, progression and alerts', () => {
     // Weekly means: 2 (2, 2) → 4.5 (3, 6).
     expect(progress[1]!.message).toMatch(/^Weekly pain rising: 2 → 4\.5 /);
     const roster = (await c.get('/api/plan-alerts')).body.alerts;
-    expect(roster.find((x: { athleteId: number }) => x.athleteId === adaId)).toMatchObject({ planId: plan.id, alerts: expect.arrayContaining([expect.objectContaining({ kind: 'weekly_rise_during', value: 4.5, limit: 2 })]) });
+    expect(roster.find((x: { athleteId: number }) => x.athleteId === adaId)).toMatchObject({
+      planId: plan.id,
+      alerts: expect.arrayContaining([expect.objectContaining({ kind: 'weekly_rise_during', value: 4.5, limit: 2 })]),
+    });
     expect((await c.get(`/api/athletes/${adaId}/plans`)).body.plans[0].alerts).toHaveLength(2);
 
     // The coach edits the rule for this plan: a higher limit and no weekly check clear both alerts.
-    const edited = await c.put(`/api/plans/${plan.id}/pain-rule`, { maxDuring: 6, morningMustSettle: true, settledMorningMax: 2, noWeeklyRise: false });
+    const edited = await c.put(`/api/plans/${plan.id}/pain-rule`, {
+      maxDuring: 6,
+      morningMustSettle: true,
+      settledMorningMax: 2,
+      noWeeklyRise: false,
+    });
     expect(edited.body.painRule).toEqual({ maxDuring: 6, morningMustSettle: true, settledMorningMax: 2, noWeeklyRise: false });
     expect((await c.get(`/api/plans/${plan.id}/progress`)).body.alerts).toEqual([]);
-    expect((await c.put(`/api/plans/${plan.id}/pain-rule`, { maxDuring: 11, morningMustSettle: true, settledMorningMax: 2, noWeeklyRise: true })).status).toBe(422);
+    expect(
+      (await c.put(`/api/plans/${plan.id}/pain-rule`, { maxDuring: 11, morningMustSettle: true, settledMorningMax: 2, noWeeklyRise: true }))
+        .status,
+    ).toBe(422);
   });
 
   it('the seeded demo Achilles plan shows a week-over-week rise on the roster', async () => {
     const carys = await t.db('athletes').where({ last_name: 'Holmgren' }).first();
     const roster = (await c.get('/api/plan-alerts')).body.alerts;
-    expect(roster.find((x: { athleteId: number }) => x.athleteId === carys.id)?.alerts.map((x: { kind: string }) => x.kind)).toContain('weekly_rise_during');
+    expect(roster.find((x: { athleteId: number }) => x.athleteId === carys.id)?.alerts.map((x: { kind: string }) => x.kind)).toContain(
+      'weekly_rise_during',
+    );
     const other = await signedIn(t.app, OTHER.coach.email, OTHER.coach.password);
     expect((await other.get('/api/plan-alerts')).body.alerts).toEqual([]);
   });
@@ -484,7 +546,13 @@ describe('the demo plans', () => {
     const retest = await t.db('assessments').where({ athlete_id: adaId, kind: 'retest' }).first();
     await seedDemoHamstringPlan(t.db, ada.clinic_id, ada, retest.id);
     const [summary] = (await a.get(`/api/athletes/${adaId}/plans`)).body.plans;
-    expect(summary).toMatchObject({ status: 'active', assessmentId: retest.id, currentStagePosition: 2, currentStageName: 'Lengthening', alerts: [] });
+    expect(summary).toMatchObject({
+      status: 'active',
+      assessmentId: retest.id,
+      currentStagePosition: 2,
+      currentStageName: 'Lengthening',
+      alerts: [],
+    });
     const plan: PlanDetail = (await a.get(`/api/plans/${summary.id}`)).body;
     expect(plan.stages.map((s) => s.name)).toEqual(['Holds and easy agility', 'Lengthening', 'Spring and return to running']);
     const [first, second, third] = kindsOf(plan);

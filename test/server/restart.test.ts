@@ -37,8 +37,20 @@ describe('kill -9 during extraction', () => {
     await c.signIn(coach.email, coach.password);
     const athletes = (await c.get('/api/athletes')).body.athletes as { id: number; lastName: string }[];
     const ada = athletes.find((a) => a.lastName === 'Kestrel')!;
-    const assessment = await c.post(`/api/athletes/${ada.id}/assessments`, { date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null });
-    const up = await c.agent.post(`/api/assessments/${assessment.body.id}/clips`).set('X-XSRF-TOKEN', await c.xsrf()).attach('file', clipFile);
+    const assessment = await c.post(`/api/athletes/${ada.id}/assessments`, {
+      date: '2026-11-30',
+      kind: 'baseline',
+      surface: 'treadmill',
+      speed: null,
+      inclinePercent: null,
+      shoes: null,
+      cameraNotes: null,
+      notes: null,
+    });
+    const up = await c.agent
+      .post(`/api/assessments/${assessment.body.id}/clips`)
+      .set('X-XSRF-TOKEN', await c.xsrf())
+      .attach('file', clipFile);
     expect(up.status).toBe(201);
     const clipId = up.body.id as number;
 

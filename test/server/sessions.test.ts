@@ -50,7 +50,11 @@ describe('no session row for anonymous requests', () => {
     await b.signIn(owner.email, owner.password);
     const tokenOfA = await a.xsrf();
     // b's cookies, a's token in both the header and the XSRF cookie.
-    const forged = await b.agent.post('/api/athletes').set('X-XSRF-TOKEN', tokenOfA).set('Cookie', `XSRF-TOKEN=${tokenOfA}; ${b.cookieHeader()}`).send({ firstName: 'Cross', lastName: 'Session' });
+    const forged = await b.agent
+      .post('/api/athletes')
+      .set('X-XSRF-TOKEN', tokenOfA)
+      .set('Cookie', `XSRF-TOKEN=${tokenOfA}; ${b.cookieHeader()}`)
+      .send({ firstName: 'Cross', lastName: 'Session' });
     expect(forged.status).toBe(403);
     expect(forged.body.error.code).toBe('csrf_invalid');
   });
@@ -63,7 +67,10 @@ describe('expired sessions', () => {
     const live = new Client(t.app);
     await live.signIn(owner.email, owner.password);
     const sid = decodeURIComponent(c.cookieHeader().split('=')[1]!).slice(2).split('.')[0]!;
-    await t.db('sessions').where({ sid }).update({ expired: new Date(Date.now() - 60_000).toISOString() });
+    await t
+      .db('sessions')
+      .where({ sid })
+      .update({ expired: new Date(Date.now() - 60_000).toISOString() });
     expect((await c.get('/api/auth/me')).body).toEqual({ user: null });
     expect(await t.clearExpiredSessions()).toBe(1);
     expect(await t.db('sessions').where({ sid })).toHaveLength(0);

@@ -36,7 +36,10 @@ let truth: GroundTruth;
 let measures: ClipMeasures;
 
 async function upload(assessmentId: number, file: string): Promise<number> {
-  const res = await c.agent.post(`/api/assessments/${assessmentId}/clips`).set('X-XSRF-TOKEN', await c.xsrf()).attach('file', file);
+  const res = await c.agent
+    .post(`/api/assessments/${assessmentId}/clips`)
+    .set('X-XSRF-TOKEN', await c.xsrf())
+    .attach('file', file);
   expect(res.status, JSON.stringify(res.body)).toBe(201);
   return res.body.id;
 }
@@ -44,7 +47,10 @@ async function upload(assessmentId: number, file: string): Promise<number> {
 /** Marks every frame of a runner clip with the generator's truth, as a coach would by hand. */
 async function markFromTruth(clipId: number, assessmentId: number): Promise<void> {
   await t.db('assessments').where({ id: assessmentId }).update({ surface: 'treadmill', speed_mps: truth.beltSpeedMps });
-  await c.patch(`/api/clips/${clipId}`, { nearSide: truth.nearSide, direction: truth.facing === 'right' ? 'left_to_right' : 'right_to_left' });
+  await c.patch(`/api/clips/${clipId}`, {
+    nearSide: truth.nearSide,
+    direction: truth.facing === 'right' ? 'left_to_right' : 'right_to_left',
+  });
   const res = await c.put(`/api/clips/${clipId}/annotations`, marksFromTruth(truth, 'all'));
   expect(res.status, JSON.stringify(res.body).slice(0, 300)).toBe(200);
 }
@@ -65,7 +71,17 @@ beforeAll(async () => {
   baselineId = (await t.db('assessments').where({ athlete_id: adaId, kind: 'baseline' }).first()).id;
   retestId = (await t.db('assessments').where({ athlete_id: adaId, kind: 'retest' }).first()).id;
   const file = path.join(dir.dir, 'runner.mp4');
-  truth = await generateRunnerClip({ fps: 60, width: 640, height: 360, seconds: 2, hipExtensionDeg: 8, facing: 'right', beltSpeedMps: 3, outFile: file, preset: 'ultrafast' });
+  truth = await generateRunnerClip({
+    fps: 60,
+    width: 640,
+    height: 360,
+    seconds: 2,
+    hipExtensionDeg: 8,
+    facing: 'right',
+    beltSpeedMps: 3,
+    outFile: file,
+    preset: 'ultrafast',
+  });
   runnerClipId = await upload(baselineId, file);
   retestClipId = await upload(retestId, file);
   plainClipId = await upload(retestId, await makeClip(path.join(dir.dir, 'plain.mp4'), { fps: 30, width: 320, height: 180, seconds: 1 }));
@@ -86,7 +102,11 @@ describe('an annotated still', () => {
   const toeOff = () => truth.events.near.toeOff[1]!;
 
   beforeAll(async () => {
-    const res = await c.post(`/api/clips/${runnerClipId}/stills`, { frameIndex: toeOff(), caption: 'Right toe-off: hip extension before retraining.', showAngles: true });
+    const res = await c.post(`/api/clips/${runnerClipId}/stills`, {
+      frameIndex: toeOff(),
+      caption: 'Right toe-off: hip extension before retraining.',
+      showAngles: true,
+    });
     expect(res.status, JSON.stringify(res.body)).toBe(202);
     expect(res.body).toMatchObject({ status: 'rendering', kind: 'frame' });
     still = await settled<Still>(`/api/stills/${res.body.id}`);
@@ -126,14 +146,21 @@ describe('an annotated still', () => {
       // The marker's white outline ring: in at least two of four directions, a pixel about one
       // marker radius out is clearly whiter than the same pixel of the bare frame.
       const lift = (ux: number, uy: number) =>
-        Math.max(...[2, 2.5, 3, 3.5].map((r) => {
-          const x = Math.floor(p.x + ux * r);
-          const y = Math.floor(p.y + uy * r);
-          const q = ctx.getImageData(rect.x + x, rect.y + y, 1, 1).data;
-          const b = bare.getImageData(x, y, 1, 1).data;
-          return Math.min(q[0]! - b[0]!, q[1]! - b[1]!, q[2]! - b[2]!);
-        }));
-      const ring = [[1, 0], [-1, 0], [0, 1], [0, -1]].map(([ux, uy]) => lift(ux!, uy!));
+        Math.max(
+          ...[2, 2.5, 3, 3.5].map((r) => {
+            const x = Math.floor(p.x + ux * r);
+            const y = Math.floor(p.y + uy * r);
+            const q = ctx.getImageData(rect.x + x, rect.y + y, 1, 1).data;
+            const b = bare.getImageData(x, y, 1, 1).data;
+            return Math.min(q[0]! - b[0]!, q[1]! - b[1]!, q[2]! - b[2]!);
+          }),
+        );
+      const ring = [
+        [1, 0],
+        [-1, 0],
+        [0, 1],
+        [0, -1],
+      ].map(([ux, uy]) => lift(ux!, uy!));
       expect(ring.filter((w) => w >= 15).length, `${name} outline ${ring.join(',')}`).toBeGreaterThanOrEqual(2);
       checked.push(name);
     }
@@ -165,18 +192,46 @@ describe('bad input for stills', () => {
 
   it('refuses a caption over the limit, a frame outside the clip and a pair across athletes, writing nothing', async () => {
     const before = await count();
-    const long = await c.post(`/api/clips/${runnerClipId}/stills`, { frameIndex: 0, caption: 'x'.repeat(CAPTION_MAX + 1), showAngles: true });
+    const long = await c.post(`/api/clips/${runnerClipId}/stills`, {
+      frameIndex: 0,
+      caption: 'x'.repeat(CAPTION_MAX + 1),
+      showAngles: true,
+    });
     expect(long.status).toBe(422);
     expect(long.body.error.message).toContain(`${CAPTION_MAX} characters`);
     const frame = await c.post(`/api/clips/${runnerClipId}/stills`, { frameIndex: 10_000, caption: '', showAngles: true });
     expect(frame.status).toBe(422);
-    const self = await c.post(`/api/clips/${runnerClipId}/stills`, { frameIndex: 0, caption: '', showAngles: true, pairWith: { clipId: runnerClipId, frameIndex: 0 } });
+    const self = await c.post(`/api/clips/${runnerClipId}/stills`, {
+      frameIndex: 0,
+      caption: '',
+      showAngles: true,
+      pairWith: { clipId: runnerClipId, frameIndex: 0 },
+    });
     expect(self.status).toBe(422);
     const teodor = await t.db('athletes').where({ email: 'teodor.brannick@runner.test' }).first();
-    const teodorAssessment = (await c.post(`/api/athletes/${teodor.id}/assessments`, { date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null })).body.id;
-    const teodorClip = await upload(teodorAssessment, await makeClip(path.join(dir.dir, 'teodor.mp4'), { fps: 30, width: 320, height: 180, seconds: 1 }));
+    const teodorAssessment = (
+      await c.post(`/api/athletes/${teodor.id}/assessments`, {
+        date: '2026-11-30',
+        kind: 'baseline',
+        surface: 'treadmill',
+        speed: null,
+        inclinePercent: null,
+        shoes: null,
+        cameraNotes: null,
+        notes: null,
+      })
+    ).body.id;
+    const teodorClip = await upload(
+      teodorAssessment,
+      await makeClip(path.join(dir.dir, 'teodor.mp4'), { fps: 30, width: 320, height: 180, seconds: 1 }),
+    );
     await t.worker!.idle();
-    const cross = await c.post(`/api/clips/${runnerClipId}/stills`, { frameIndex: 0, caption: '', showAngles: true, pairWith: { clipId: teodorClip, frameIndex: 0 } });
+    const cross = await c.post(`/api/clips/${runnerClipId}/stills`, {
+      frameIndex: 0,
+      caption: '',
+      showAngles: true,
+      pairWith: { clipId: teodorClip, frameIndex: 0 },
+    });
     expect(cross.status).toBe(422);
     expect(cross.body.error.code).toBe('other_athlete');
     expect(await count()).toBe(before);
@@ -186,7 +241,12 @@ describe('bad input for stills', () => {
 describe('a side-by-side still of Baseline and Re-test', () => {
   it('puts the baseline frame on the left and the re-test on the right, both with overlays', async () => {
     const frame = truth.events.near.toeOff[1]!;
-    const res = await c.post(`/api/clips/${retestClipId}/stills`, { frameIndex: frame, caption: 'Baseline and Re-test at right toe-off', showAngles: true, pairWith: { clipId: runnerClipId, frameIndex: frame } });
+    const res = await c.post(`/api/clips/${retestClipId}/stills`, {
+      frameIndex: frame,
+      caption: 'Baseline and Re-test at right toe-off',
+      showAngles: true,
+      pairWith: { clipId: runnerClipId, frameIndex: frame },
+    });
     expect(res.status, JSON.stringify(res.body)).toBe(202);
     const pair = await settled<Still>(`/api/stills/${res.body.id}`);
     expect(pair.kind).toBe('pair');
@@ -202,7 +262,11 @@ describe('publishing and access', () => {
   let still: Still;
 
   beforeAll(async () => {
-    const res = await c.post(`/api/clips/${runnerClipId}/stills`, { frameIndex: truth.events.near.toeOff[0]!, caption: 'Published still caption SECRET-CAPTION', showAngles: true });
+    const res = await c.post(`/api/clips/${runnerClipId}/stills`, {
+      frameIndex: truth.events.near.toeOff[0]!,
+      caption: 'Published still caption SECRET-CAPTION',
+      showAngles: true,
+    });
     still = await settled<Still>(`/api/stills/${res.body.id}`);
   });
 
@@ -256,11 +320,14 @@ describe('publishing and access', () => {
 
 describe('visit summaries', () => {
   const pdfText = async (client: Client, url: string) => {
-    const res = await client.agent.get(url).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = [];
-      r.on('data', (ch: Buffer) => chunks.push(ch));
-      r.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const res = await client.agent
+      .get(url)
+      .buffer(true)
+      .parse((r, cb) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (ch: Buffer) => chunks.push(ch));
+        r.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toBe('application/pdf');
     const buf = res.body as Buffer;
@@ -270,8 +337,15 @@ describe('visit summaries', () => {
 
   it('renders a summary with the athlete, visit facts, measures with units, stills and cited sources', async () => {
     const stills = (await c.get(`/api/athletes/${adaId}/stills`)).body as Still[];
-    const ready = stills.filter((s) => s.status === 'ready' && s.assessmentId === baselineId).slice(0, 2).map((s) => s.id);
-    const res = await c.post(`/api/assessments/${baselineId}/summaries`, { findings: 'Hip extension at toe-off is short of the usual range.', planText: 'Isometric hip extension holds, then slow lunges.', stillIds: ready });
+    const ready = stills
+      .filter((s) => s.status === 'ready' && s.assessmentId === baselineId)
+      .slice(0, 2)
+      .map((s) => s.id);
+    const res = await c.post(`/api/assessments/${baselineId}/summaries`, {
+      findings: 'Hip extension at toe-off is short of the usual range.',
+      planText: 'Isometric hip extension holds, then slow lunges.',
+      stillIds: ready,
+    });
     expect(res.status, JSON.stringify(res.body)).toBe(202);
     const summary = await settled<VisitSummary>(`/api/summaries/${res.body.id}`);
     expect(summary).toMatchObject({ status: 'ready', progress: 1 });
@@ -290,7 +364,12 @@ describe('visit summaries', () => {
   });
 
   it('compares Re-test with Baseline, and says "Not measured" for a visit without marked steps', async () => {
-    const cmp = await c.post(`/api/assessments/${retestId}/summaries`, { baselineAssessmentId: baselineId, findings: '', planText: '', stillIds: [] });
+    const cmp = await c.post(`/api/assessments/${retestId}/summaries`, {
+      baselineAssessmentId: baselineId,
+      findings: '',
+      planText: '',
+      stillIds: [],
+    });
     expect(cmp.status).toBe(202);
     const summary = await settled<VisitSummary>(`/api/summaries/${cmp.body.id}`);
     const text = await pdfText(c, summary.pdfUrl);
@@ -298,7 +377,18 @@ describe('visit summaries', () => {
     // One 2 s clip per visit marks fewer than 7 steps (Dingenen et al. 2018 [pub]): no verdict, it says why.
     expect(text).toMatch(/Too few steps to judge/);
 
-    const empty = (await c.post(`/api/athletes/${adaId}/assessments`, { date: '2026-12-01', kind: 'retest', surface: 'road', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null })).body.id;
+    const empty = (
+      await c.post(`/api/athletes/${adaId}/assessments`, {
+        date: '2026-12-01',
+        kind: 'retest',
+        surface: 'road',
+        speed: null,
+        inclinePercent: null,
+        shoes: null,
+        cameraNotes: null,
+        notes: null,
+      })
+    ).body.id;
     const none = await c.post(`/api/assessments/${empty}/summaries`, { findings: '', planText: '', stillIds: [] });
     expect(none.status).toBe(202);
     const s2 = await settled<VisitSummary>(`/api/summaries/${none.body.id}`);
@@ -310,7 +400,12 @@ describe('visit summaries', () => {
     const before = (await t.db('visit_summaries').count<{ n: number }[]>('id as n'))[0]!.n;
     const teodor = await t.db('athletes').where({ email: 'teodor.brannick@runner.test' }).first();
     const teodorAssessment = await t.db('assessments').where({ athlete_id: teodor.id }).first();
-    const cross = await c.post(`/api/assessments/${retestId}/summaries`, { baselineAssessmentId: teodorAssessment.id, findings: '', planText: '', stillIds: [] });
+    const cross = await c.post(`/api/assessments/${retestId}/summaries`, {
+      baselineAssessmentId: teodorAssessment.id,
+      findings: '',
+      planText: '',
+      stillIds: [],
+    });
     expect(cross.status).toBe(422);
     expect(cross.body.error.code).toBe('other_athlete');
     const long = await c.post(`/api/assessments/${retestId}/summaries`, { findings: 'x'.repeat(4001), planText: '', stillIds: [] });
@@ -338,7 +433,9 @@ describe('visit summaries', () => {
     expect(m, disposition).not.toBeNull();
     expect(m![1]).toContain(`${athleteRow!.first_name}-${athleteRow!.last_name}`.toLowerCase());
     expect(m![1]).toContain(visitRow!.date);
-    expect(decodeURIComponent(m![2]!)).toMatch(new RegExp(`^${athleteRow!.first_name} ${athleteRow!.last_name} – .+ – ${visitRow!.date}\\.pdf$`));
+    expect(decodeURIComponent(m![2]!)).toMatch(
+      new RegExp(`^${athleteRow!.first_name} ${athleteRow!.last_name} – .+ – ${visitRow!.date}\\.pdf$`),
+    );
     expect((await ada.agent.get(second!.pdfUrl)).status).toBe(404);
     const shared = (await ada.get('/api/portal/shared')).body as PortalShared;
     expect(shared.summaries.map((s) => s.id)).toEqual([first!.id]);

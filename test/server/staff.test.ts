@@ -23,10 +23,11 @@ afterEach(async () => {
   await t.close();
 });
 
-const athletesOf = async (userId: number) => (await t.db('athletes').where({ coach_id: userId }).orderBy('id')).map((a: { id: number }) => a.id);
+const athletesOf = async (userId: number) =>
+  (await t.db('athletes').where({ coach_id: userId }).orderBy('id')).map((a: { id: number }) => a.id);
 
 describe('deactivating a coach', () => {
-  it("revokes their sessions at once, refuses sign-in with a clear message, and moves their athletes to the coach the owner picks", async () => {
+  it('revokes their sessions at once, refuses sign-in with a clear message, and moves their athletes to the coach the owner picks', async () => {
     const tobinsAthletes = await athletesOf(ids[tobin.email]!);
     expect(tobinsAthletes.length).toBeGreaterThan(0);
     const ilsesBefore = await athletesOf(ids[ilse.email]!);
@@ -70,18 +71,22 @@ describe('deactivating a coach', () => {
     try {
       const c = await signedIn(t.app, tobin.email, tobin.password);
       const assessment = await t.db('assessments').first();
-      const res = await fetch(`http://127.0.0.1:${(server.address() as AddressInfo).port}/api/assessments/${assessment.id}/clip-events`, { headers: { cookie: c.cookieHeader() } });
+      const res = await fetch(`http://127.0.0.1:${(server.address() as AddressInfo).port}/api/assessments/${assessment.id}/clip-events`, {
+        headers: { cookie: c.cookieHeader() },
+      });
       expect(res.status).toBe(200);
       const body = res.text();
       expect((await o.post(`/api/staff/${ids[tobin.email]}/deactivate`, {})).status).toBe(200);
-      await expect(Promise.race([body.then(() => 'ended'), new Promise((r) => setTimeout(() => r('still open'), 3000))])).resolves.toBe('ended');
+      await expect(Promise.race([body.then(() => 'ended'), new Promise((r) => setTimeout(() => r('still open'), 3000))])).resolves.toBe(
+        'ended',
+      );
     } finally {
       server.closeAllConnections();
       server.close();
     }
   });
 
-  it('refuses the owner themselves, unknown or other clinics\' people, bad reassignments, and non-owners', async () => {
+  it("refuses the owner themselves, unknown or other clinics' people, bad reassignments, and non-owners", async () => {
     const self = await o.post(`/api/staff/${ids[owner.email]}/deactivate`, { reassignTo: ids[ilse.email] });
     expect(self.status).toBe(409);
     expect(self.body.error.code).toBe('cannot_deactivate_self');

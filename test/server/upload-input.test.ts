@@ -32,7 +32,16 @@ beforeAll(async () => {
   t = await makeTestApp({}, { logger });
   c = await signedIn(t.app, coach.email, coach.password);
   const adaId = (await t.db('athletes').where({ email: athlete.email }).first()).id;
-  const res = await c.post(`/api/athletes/${adaId}/assessments`, { date: '2026-11-30', kind: 'baseline', surface: 'treadmill', speed: null, inclinePercent: null, shoes: null, cameraNotes: null, notes: null });
+  const res = await c.post(`/api/athletes/${adaId}/assessments`, {
+    date: '2026-11-30',
+    kind: 'baseline',
+    surface: 'treadmill',
+    speed: null,
+    inclinePercent: null,
+    shoes: null,
+    cameraNotes: null,
+    notes: null,
+  });
   assessmentId = res.body.id;
 });
 afterAll(async () => {
@@ -45,7 +54,11 @@ const errorsLogged = () => logs.filter((l) => l.level >= 50);
 const uploadUrl = () => `/api/assessments/${assessmentId}/clips`;
 
 async function raw(contentType: string, body: string | Buffer) {
-  return c.agent.post(uploadUrl()).set('X-XSRF-TOKEN', await c.xsrf()).set('Content-Type', contentType).send(body);
+  return c.agent
+    .post(uploadUrl())
+    .set('X-XSRF-TOKEN', await c.xsrf())
+    .set('Content-Type', contentType)
+    .send(body);
 }
 
 describe('malformed multipart: 400 with a clear message, nothing logged as an error, no temp file', () => {
@@ -96,7 +109,8 @@ describe('a client that cancels an upload mid-way', () => {
       for (let i = 0; i < 200 && tmpFiles().length === 0; i++) await new Promise((r) => setTimeout(r, 10));
       expect(tmpFiles()).toHaveLength(1); // the upload was being received
       req.destroy();
-      for (let i = 0; i < 200 && (tmpFiles().length > 0 || !logs.some((l) => /cancel/i.test(l.msg))); i++) await new Promise((r) => setTimeout(r, 10));
+      for (let i = 0; i < 200 && (tmpFiles().length > 0 || !logs.some((l) => /cancel/i.test(l.msg))); i++)
+        await new Promise((r) => setTimeout(r, 10));
       expect(tmpFiles()).toEqual([]);
       expect(logs.some((l) => l.level === 30 && /upload cancelled/i.test(l.msg))).toBe(true);
       expect(errorsLogged()).toEqual([]);
@@ -115,7 +129,10 @@ function extendedName(header: string): string | null {
 
 describe('file names', () => {
   it('a UTF-8 name is stored intact and downloads with filename* (and an ASCII fallback)', async () => {
-    const res = await c.agent.post(uploadUrl()).set('X-XSRF-TOKEN', await c.xsrf()).attach('file', good, 'Läufer Æsir 跑步.mp4');
+    const res = await c.agent
+      .post(uploadUrl())
+      .set('X-XSRF-TOKEN', await c.xsrf())
+      .attach('file', good, 'Läufer Æsir 跑步.mp4');
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     expect(res.body.originalName).toBe('Läufer Æsir 跑步.mp4');
     const dl = await c.get(`/api/clips/${res.body.id}/original`);
@@ -127,7 +144,10 @@ describe('file names', () => {
   });
 
   it('strips C0 and C1 control characters and bidi overrides from a name', async () => {
-    const res = await c.agent.post(uploadUrl()).set('X-XSRF-TOKEN', await c.xsrf()).attach('file', good, 'run\u0085\u009b1\u202e4pm.\u2066mp4');
+    const res = await c.agent
+      .post(uploadUrl())
+      .set('X-XSRF-TOKEN', await c.xsrf())
+      .attach('file', good, 'run\u0085\u009b1\u202e4pm.\u2066mp4');
     expect(res.status).toBe(201);
     expect(res.body.originalName).toBe('run14pm.mp4');
     await t.worker!.idle();

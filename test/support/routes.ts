@@ -3,7 +3,12 @@ import type { Express } from 'express';
 /** Reads `METHOD /api/path` for every route registered under the API router of an app. */
 export function listRoutes(app: Express): string[] {
   const out: string[] = [];
-  type Layer = { route?: { path: string; methods: Record<string, boolean> }; handle?: { stack?: Layer[] }; name?: string; matchers?: unknown };
+  type Layer = {
+    route?: { path: string; methods: Record<string, boolean> };
+    handle?: { stack?: Layer[] };
+    name?: string;
+    matchers?: unknown;
+  };
   const walk = (stack: Layer[], prefix: string) => {
     for (const layer of stack) {
       if (layer.route) {

@@ -61,7 +61,9 @@ export function serverProcess(dir: string, port: number, env: Record<string, str
       });
       const started = Date.now();
       for (;;) {
-        const ok = await fetch(`${url}/api/health`).then((r) => r.ok).catch(() => false);
+        const ok = await fetch(`${url}/api/health`)
+          .then((r) => r.ok)
+          .catch(() => false);
         if (ok) return;
         if (Date.now() - started > 30_000) throw new Error('server did not start');
         await new Promise((r) => setTimeout(r, 200));

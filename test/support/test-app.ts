@@ -94,7 +94,13 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
     mailer.forward = createSmtpMailer({ ...config.mail, host: '127.0.0.1', port: fakeSmtp.port });
   }
   let offset = 0;
-  const { app, close, worker, queue, clearExpiredSessions } = createApp({ config, db, mailer, logger: options.logger ?? pino({ level: 'silent' }), clock: () => new Date(Date.now() + offset) });
+  const { app, close, worker, queue, clearExpiredSessions } = createApp({
+    config,
+    db,
+    mailer,
+    logger: options.logger ?? pino({ level: 'silent' }),
+    clock: () => new Date(Date.now() + offset),
+  });
   let listener: http.Server | null = null;
   let url: string | null = null;
   if (fakePayments) {
@@ -148,11 +154,28 @@ async function addOtherClinic(db: Db): Promise<void> {
   const ids: Record<string, number> = {};
   for (const role of ['owner', 'coach', 'athlete'] as const) {
     const [u] = await db('users')
-      .insert({ clinic_id: clinicId, email: OTHER[role].email, name: `Other ${role}`, role, password_hash: await hashPassword(OTHER[role].password), created_at: at, updated_at: at })
+      .insert({
+        clinic_id: clinicId,
+        email: OTHER[role].email,
+        name: `Other ${role}`,
+        role,
+        password_hash: await hashPassword(OTHER[role].password),
+        created_at: at,
+        updated_at: at,
+      })
       .returning('id');
     ids[role] = (u as { id: number }).id;
   }
-  await db('athletes').insert({ clinic_id: clinicId, user_id: ids['athlete'], coach_id: ids['coach'], first_name: 'Other', last_name: 'Athlete', email: OTHER.athlete.email, created_at: at, updated_at: at });
+  await db('athletes').insert({
+    clinic_id: clinicId,
+    user_id: ids['athlete'],
+    coach_id: ids['coach'],
+    first_name: 'Other',
+    last_name: 'Athlete',
+    email: OTHER.athlete.email,
+    created_at: at,
+    updated_at: at,
+  });
 }
 
 /** A cookie-keeping client that sends the CSRF header the way the Angular app does. */

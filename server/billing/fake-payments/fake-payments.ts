@@ -176,8 +176,28 @@ export async function startFakePayments(options: FakePaymentsOptions): Promise<F
 
   /** Records a full refund of a payment: its charge and the refund (the caller answers, then sends the event). */
   function refundMade(pi: string, amount: number, currency: string, metadata: Record<string, string>) {
-    const charge = { id: rid('ch'), object: 'charge', amount, amount_refunded: amount, currency, payment_intent: pi, refunded: true, status: 'succeeded', metadata };
-    const refund = { id: rid('re'), object: 'refund', status: 'succeeded', amount, currency, payment_intent: pi, charge: charge.id, created: now(), metadata: {} };
+    const charge = {
+      id: rid('ch'),
+      object: 'charge',
+      amount,
+      amount_refunded: amount,
+      currency,
+      payment_intent: pi,
+      refunded: true,
+      status: 'succeeded',
+      metadata,
+    };
+    const refund = {
+      id: rid('re'),
+      object: 'refund',
+      status: 'succeeded',
+      amount,
+      currency,
+      payment_intent: pi,
+      charge: charge.id,
+      created: now(),
+      metadata: {},
+    };
     charges.set(charge.id, charge);
     refunds.set(refund.id, refund);
     return { charge, refund };
@@ -192,7 +212,8 @@ export async function startFakePayments(options: FakePaymentsOptions): Promise<F
   });
   app.post('/pay/:id/:action', (req, res) => {
     const s = sessions.get(String(req.params['id']));
-    if (!s || s.status !== 'open') return void res.status(409).type('html').send(donePage('Already finished', 'This payment page was already used.'));
+    if (!s || s.status !== 'open')
+      return void res.status(409).type('html').send(donePage('Already finished', 'This payment page was already used.'));
     switch (req.params['action']) {
       case 'pay':
         s.status = 'complete';
@@ -218,7 +239,17 @@ export async function startFakePayments(options: FakePaymentsOptions): Promise<F
   }
 
   function send(type: string, object: unknown): void {
-    const event = { id: rid('evt'), object: 'event', api_version: null, created: now(), type, livemode: false, pending_webhooks: 1, request: { id: null, idempotency_key: null }, data: { object } };
+    const event = {
+      id: rid('evt'),
+      object: 'event',
+      api_version: null,
+      created: now(),
+      type,
+      livemode: false,
+      pending_webhooks: 1,
+      request: { id: null, idempotency_key: null },
+      data: { object },
+    };
     const payload = JSON.stringify(event);
     events.push({ id: event.id, type, payload });
     track(deliver(payload, [0, 300, 1500]));
@@ -237,7 +268,11 @@ export async function startFakePayments(options: FakePaymentsOptions): Promise<F
       if (!webhookUrl) return 0;
       const signature = signer.webhooks.generateTestHeaderString({ payload, secret: options.webhookSecret });
       try {
-        const res = await fetch(webhookUrl, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': signature }, body: payload });
+        const res = await fetch(webhookUrl, {
+          method: 'POST',
+          headers: { 'content-type': 'application/json', 'stripe-signature': signature },
+          body: payload,
+        });
         status = res.status;
         await res.arrayBuffer();
         if (res.status < 500) return status;
@@ -276,4 +311,3 @@ export async function startFakePayments(options: FakePaymentsOptions): Promise<F
       }),
   };
 }
-

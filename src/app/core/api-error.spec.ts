@@ -5,9 +5,7 @@ const http = (status: number, error: unknown = null) => new HttpErrorResponse({ 
 
 describe('errorMessage', () => {
   it("uses the server's own message", () => {
-    expect(errorMessage(http(409, { error: { code: 'email_taken', message: 'That e-mail is in use.' } }))).toBe(
-      'That e-mail is in use.',
-    );
+    expect(errorMessage(http(409, { error: { code: 'email_taken', message: 'That e-mail is in use.' } }))).toBe('That e-mail is in use.');
   });
 
   it('falls back by status when the body has no message', () => {

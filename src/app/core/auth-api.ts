@@ -17,32 +17,22 @@ export class AuthApi {
    * `{ user: null }` answer is accepted as "signed out" too.
    */
   me(): Observable<SessionUser | null> {
-    return this.http
-      .get<{ user: SessionUser | null }>('/api/auth/me', { context: skipErrorSnackbar() })
-      .pipe(map((r) => r?.user ?? null));
+    return this.http.get<{ user: SessionUser | null }>('/api/auth/me', { context: skipErrorSnackbar() }).pipe(map((r) => r?.user ?? null));
   }
 
   /** Makes sure the readable `XSRF-TOKEN` cookie exists before any state-changing request. */
   csrf(): Observable<void> {
-    return this.http
-      .get<{ token: string }>('/api/auth/csrf', { context: skipErrorSnackbar() })
-      .pipe(map(() => undefined));
+    return this.http.get<{ token: string }>('/api/auth/csrf', { context: skipErrorSnackbar() }).pipe(map(() => undefined));
   }
 
   signIn(email: string, password: string): Observable<SessionUser> {
     return this.http
-      .post<{ user: SessionUser }>(
-        '/api/auth/sign-in',
-        { email, password },
-        { context: skipErrorSnackbar() },
-      )
+      .post<{ user: SessionUser }>('/api/auth/sign-in', { email, password }, { context: skipErrorSnackbar() })
       .pipe(map((r) => r.user));
   }
 
   signOut(): Observable<void> {
-    return this.http
-      .post<void>('/api/auth/sign-out', null, { context: skipErrorSnackbar() })
-      .pipe(map(() => undefined));
+    return this.http.post<void>('/api/auth/sign-out', null, { context: skipErrorSnackbar() }).pipe(map(() => undefined));
   }
 
   previewInvitation(token: string): Observable<InvitationPreview> {
@@ -53,34 +43,21 @@ export class AuthApi {
 
   acceptInvitation(token: string, body: { name: string; password: string }): Observable<SessionUser> {
     return this.http
-      .post<{ user: SessionUser }>(
-        `/api/invitations/${encodeURIComponent(token)}/accept`,
-        body,
-        { context: skipErrorSnackbar() },
-      )
+      .post<{ user: SessionUser }>(`/api/invitations/${encodeURIComponent(token)}/accept`, body, { context: skipErrorSnackbar() })
       .pipe(map((r) => r.user));
   }
 
   requestPasswordReset(email: string): Observable<void> {
-    return this.http
-      .post<void>('/api/password-resets', { email }, { context: skipErrorSnackbar() })
-      .pipe(map(() => undefined));
+    return this.http.post<void>('/api/password-resets', { email }, { context: skipErrorSnackbar() }).pipe(map(() => undefined));
   }
 
   previewPasswordReset(token: string): Observable<{ email: string }> {
-    return this.http.get<{ email: string }>(
-      `/api/password-resets/${encodeURIComponent(token)}`,
-      { context: skipErrorSnackbar() },
-    );
+    return this.http.get<{ email: string }>(`/api/password-resets/${encodeURIComponent(token)}`, { context: skipErrorSnackbar() });
   }
 
   resetPassword(token: string, password: string): Observable<void> {
     return this.http
-      .post<void>(
-        `/api/password-resets/${encodeURIComponent(token)}`,
-        { password },
-        { context: skipErrorSnackbar() },
-      )
+      .post<void>(`/api/password-resets/${encodeURIComponent(token)}`, { password }, { context: skipErrorSnackbar() })
       .pipe(map(() => undefined));
   }
 }

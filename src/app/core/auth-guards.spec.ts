@@ -5,12 +5,7 @@ import { RouterTestingHarness } from '@angular/router/testing';
 import { of } from 'rxjs';
 import type { Role, SessionUser } from '../../contracts/api';
 import { AuthApi } from './auth-api';
-import {
-  anonymousOnlyGuard,
-  redirectHome,
-  roleGuard,
-  signedInGuard,
-} from './auth-guards';
+import { anonymousOnlyGuard, redirectHome, roleGuard, signedInGuard } from './auth-guards';
 import { AuthStore } from './auth-store';
 import { ConfigStore } from './config-store';
 

@@ -16,7 +16,12 @@ const coach: SessionUser = {
 };
 
 describe('AuthStore', () => {
-  let api: { me: ReturnType<typeof vi.fn>; csrf: ReturnType<typeof vi.fn>; signIn: ReturnType<typeof vi.fn>; signOut: ReturnType<typeof vi.fn> };
+  let api: {
+    me: ReturnType<typeof vi.fn>;
+    csrf: ReturnType<typeof vi.fn>;
+    signIn: ReturnType<typeof vi.fn>;
+    signOut: ReturnType<typeof vi.fn>;
+  };
 
   beforeEach(() => {
     api = {

@@ -21,11 +21,7 @@ export class ConfigStore {
   /** Loads the configuration; on failure the app runs with demo helpers off. */
   async load(): Promise<void> {
     try {
-      this.config.set(
-        await firstValueFrom(
-          this.http.get<AppConfig>('/api/config', { context: skipErrorSnackbar() }),
-        ),
-      );
+      this.config.set(await firstValueFrom(this.http.get<AppConfig>('/api/config', { context: skipErrorSnackbar() })));
     } catch {
       this.config.set(null);
     }

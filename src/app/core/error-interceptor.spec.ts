@@ -86,9 +86,14 @@ describe('errorInterceptor', () => {
   });
 
   it('stays quiet for statuses the caller shows inline, but not for others', async () => {
-    await failWith('/api/athletes/3/intake', 422, { error: { code: 'validation', message: 'Invalid' } }, {
-      context: skipErrorSnackbar(422),
-    });
+    await failWith(
+      '/api/athletes/3/intake',
+      422,
+      { error: { code: 'validation', message: 'Invalid' } },
+      {
+        context: skipErrorSnackbar(422),
+      },
+    );
     expect(snackBar.open).not.toHaveBeenCalled();
     await failWith('/api/athletes/3/intake', 500, null, { context: skipErrorSnackbar(422) });
     expect(snackBar.open).toHaveBeenCalledTimes(1);

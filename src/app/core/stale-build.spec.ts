@@ -7,7 +7,10 @@ function fakeWindow() {
   return {
     assigned,
     location: { assign: (url: string) => assigned.push(url) } as unknown as Location,
-    sessionStorage: { getItem: (k: string) => store.get(k) ?? null, setItem: (k: string, v: string) => void store.set(k, v) } as unknown as Storage,
+    sessionStorage: {
+      getItem: (k: string) => store.get(k) ?? null,
+      setItem: (k: string, v: string) => void store.set(k, v),
+    } as unknown as Storage,
   };
 }
 

@@ -6,7 +6,9 @@ import type { NavigationError } from '@angular/router';
  */
 export function isStaleChunkError(error: unknown): boolean {
   const message = error instanceof Error ? error.message : String(error ?? '');
-  return /Failed to fetch dynamically imported module|error loading dynamically imported module|Importing a module script failed/i.test(message);
+  return /Failed to fetch dynamically imported module|error loading dynamically imported module|Importing a module script failed/i.test(
+    message,
+  );
 }
 
 /** Session key that stops a reload loop when the chunk is missing for another reason. */

@@ -44,7 +44,15 @@ export function runnerPanel(image: Buffer): StillPanelInput {
     { frame: frame.index, side: 'right', points: frame.landmarksNormalised.near },
     { frame: frame.index, side: 'left', points: frame.landmarksNormalised.far },
   ];
-  return { image, frameSize: { width: W, height: H }, landmarks, nearSide: 'right', direction: 'left_to_right', scale: null, heading: 'Re-test · 24 Nov 2026 · Right toe-off · 0.43 s' };
+  return {
+    image,
+    frameSize: { width: W, height: H },
+    landmarks,
+    nearSide: 'right',
+    direction: 'left_to_right',
+    scale: null,
+    heading: 'Re-test · 24 Nov 2026 · Right toe-off · 0.43 s',
+  };
 }
 
 export const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;

@@ -1,5 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import { filterGraph, fitLongSide, jpegPixelOptions, frameTimestamps, parseShowinfoLine, thumbCount, thumbEvery } from '../../../server/media/extract-plan';
+import {
+  filterGraph,
+  fitLongSide,
+  jpegPixelOptions,
+  frameTimestamps,
+  parseShowinfoLine,
+  thumbCount,
+  thumbEvery,
+} from '../../../server/media/extract-plan';
 import { frameFileName } from '../../../server/media/manifest';
 
 describe('fitLongSide', () => {
@@ -14,7 +22,7 @@ describe('fitLongSide', () => {
   it('always gives even sides, trimming odd ones instead of padding', () => {
     expect(fitLongSide({ width: 321, height: 181 }, 1280)).toEqual({ width: 320, height: 180 });
     const odd = fitLongSide({ width: 640, height: 360 }, 333);
-    expect(odd.width % 2 + (odd.height % 2)).toBe(0);
+    expect((odd.width % 2) + (odd.height % 2)).toBe(0);
     expect(odd.width).toBeLessThanOrEqual(333);
     expect(fitLongSide({ width: 1280, height: 720 }, 160)).toEqual({ width: 160, height: 90 });
   });
@@ -35,13 +43,13 @@ describe('thumbnails', () => {
 describe('filterGraph', () => {
   it('decodes once, scales to full range with zscale, logs timestamps and splits frames and thumbs', () => {
     expect(filterGraph({ width: 1280, height: 720 }, { width: 160, height: 90 }, 12, 'zscale', 'bilinear')).toBe(
-      "[0:v]zscale=w=1280:h=720:f=bilinear:r=full,setsar=1,showinfo=checksum=0,split=2[frames][t];" +
+      '[0:v]zscale=w=1280:h=720:f=bilinear:r=full,setsar=1,showinfo=checksum=0,split=2[frames][t];' +
         "[t]select='not(mod(n\\,12))',zscale=w=160:h=90:f=bilinear,setsar=1[thumbs]",
     );
   });
   it('the swscale fallback graph converts range in the scale filter', () => {
     expect(filterGraph({ width: 640, height: 360 }, { width: 160, height: 90 }, 3, 'swscale', 'bicubic')).toBe(
-      "[0:v]scale=640:360:flags=bicubic:out_range=full,setsar=1,showinfo=checksum=0,split=2[frames][t];" +
+      '[0:v]scale=640:360:flags=bicubic:out_range=full,setsar=1,showinfo=checksum=0,split=2[frames][t];' +
         "[t]select='not(mod(n\\,3))',scale=160:90:flags=area,setsar=1[thumbs]",
     );
   });

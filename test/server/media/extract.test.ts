@@ -44,39 +44,42 @@ describe.each([30, 60, 120, 240])('testsrc2 at %i fps', (fps) => {
   it.each([
     [320, 180],
     [180, 320],
-  ])('%ix%i: frame count matches ffprobe -count_frames, JPEG size matches ffprobe, timestamps match ffprobe frame times (outside reference)', async (width, height) => {
-    const src = await makeClip(path.join(dir, `src-${fps}-${width}x${height}.mp4`), { fps, width, height, seconds: 1 });
-    const out = path.join(dir, `out-${fps}-${width}x${height}`);
-    const progress: Array<[number, number]> = [];
-    const manifest = await extractFrames(src, out, { onProgress: (done, total) => progress.push([done, total]) });
-    const reference = await ffprobeCounted(src);
+  ])(
+    '%ix%i: frame count matches ffprobe -count_frames, JPEG size matches ffprobe, timestamps match ffprobe frame times (outside reference)',
+    async (width, height) => {
+      const src = await makeClip(path.join(dir, `src-${fps}-${width}x${height}.mp4`), { fps, width, height, seconds: 1 });
+      const out = path.join(dir, `out-${fps}-${width}x${height}`);
+      const progress: Array<[number, number]> = [];
+      const manifest = await extractFrames(src, out, { onProgress: (done, total) => progress.push([done, total]) });
+      const reference = await ffprobeCounted(src);
 
-    const frames = await jpegs(path.join(out, 'frames'));
-    expect(frames.length).toBe(reference.nbReadFrames);
-    expect(manifest.frameCount).toBe(reference.nbReadFrames);
-    expect(manifest.frameCount).toBe(fps); // generation parameter: 1 s at `fps`
-    expect(frames[0]).toBe('000001.jpg');
-    expect(frames.at(-1)).toBe(`${String(fps).padStart(6, '0')}.jpg`);
-    // never upscaled: the 320-px clip keeps its size
-    expect([manifest.width, manifest.height]).toEqual([width, height]);
-    expect(await jpegSize(path.join(out, 'frames', frames[0]!))).toEqual([width, height]);
-    expect(await jpegSize(path.join(out, 'frames', frames.at(-1)!))).toEqual([width, height]);
+      const frames = await jpegs(path.join(out, 'frames'));
+      expect(frames.length).toBe(reference.nbReadFrames);
+      expect(manifest.frameCount).toBe(reference.nbReadFrames);
+      expect(manifest.frameCount).toBe(fps); // generation parameter: 1 s at `fps`
+      expect(frames[0]).toBe('000001.jpg');
+      expect(frames.at(-1)).toBe(`${String(fps).padStart(6, '0')}.jpg`);
+      // never upscaled: the 320-px clip keeps its size
+      expect([manifest.width, manifest.height]).toEqual([width, height]);
+      expect(await jpegSize(path.join(out, 'frames', frames[0]!))).toEqual([width, height]);
+      expect(await jpegSize(path.join(out, 'frames', frames.at(-1)!))).toEqual([width, height]);
 
-    const times = await ffprobeFrameTimes(src);
-    expect(manifest.timestampsSource).toBe('decoded');
-    expect(manifest.timestampsMs).toHaveLength(times.length);
-    manifest.timestampsMs.forEach((t, i) => expect(t).toBeCloseTo((times[i]! - times[0]!) * 1000, 2));
+      const times = await ffprobeFrameTimes(src);
+      expect(manifest.timestampsSource).toBe('decoded');
+      expect(manifest.timestampsMs).toHaveLength(times.length);
+      manifest.timestampsMs.forEach((t, i) => expect(t).toBeCloseTo((times[i]! - times[0]!) * 1000, 2));
 
-    const thumbs = await jpegs(path.join(out, 'thumbs'));
-    expect(thumbs.length).toBe(Math.ceil(manifest.frameCount / manifest.thumbEvery));
-    expect(manifest.thumbCount).toBe(thumbs.length);
-    expect(await jpegSize(path.join(out, 'thumbs', thumbs[0]!))).toEqual(width > height ? [160, 90] : [90, 160]);
+      const thumbs = await jpegs(path.join(out, 'thumbs'));
+      expect(thumbs.length).toBe(Math.ceil(manifest.frameCount / manifest.thumbEvery));
+      expect(manifest.thumbCount).toBe(thumbs.length);
+      expect(await jpegSize(path.join(out, 'thumbs', thumbs[0]!))).toEqual(width > height ? [160, 90] : [90, 160]);
 
-    expect(await readManifest(out)).toEqual(manifest);
-    expect(manifest).toMatchObject({ version: 1, fps, rotationApplied: 0, quality: 4 });
-    expect(progress.at(-1)).toEqual([fps, fps]);
-    expect(progress.every(([d, t], i) => t === fps && d <= t && (i === 0 || d >= progress[i - 1]![0]))).toBe(true);
-  });
+      expect(await readManifest(out)).toEqual(manifest);
+      expect(manifest).toMatchObject({ version: 1, fps, rotationApplied: 0, quality: 4 });
+      expect(progress.at(-1)).toEqual([fps, fps]);
+      expect(progress.every(([d, t], i) => t === fps && d <= t && (i === 0 || d >= progress[i - 1]![0]))).toBe(true);
+    },
+  );
 });
 
 describe('working size', () => {
@@ -113,7 +116,13 @@ describe('working size', () => {
 
 describe('rotation is applied (outside reference: ffprobe side data; the marker corner as ffmpeg autorotates it)', () => {
   it('phone-style portrait (ffprobe rotation -90): frames are 180×320 and the top-left marker is top-right', async () => {
-    const marker = await makeClip(path.join(dir, 'marker.mp4'), { fps: 30, width: 320, height: 180, seconds: 0.2, source: 'corner-marker' });
+    const marker = await makeClip(path.join(dir, 'marker.mp4'), {
+      fps: 30,
+      width: 320,
+      height: 180,
+      seconds: 0.2,
+      source: 'corner-marker',
+    });
     const src = await withRotateTag(marker, path.join(dir, 'marker-portrait.mp4'), -90);
     expect((await ffprobeCounted(src)).rotation).toBe(-90);
     const out = path.join(dir, 'rot');
@@ -141,7 +150,25 @@ describe('rotation is applied (outside reference: ffprobe side data; the marker 
 describe('timestamps of a variable-frame-rate clip', () => {
   it('match ffprobe best_effort_timestamp_time per frame (outside reference), not i × 1000 / fps', async () => {
     const src = path.join(dir, 'vfr.mp4');
-    await ffmpegRun(['-f', 'lavfi', '-i', 'testsrc2=size=320x180:rate=50', '-t', '1', '-vf', "settb=1/1000,setpts='floor(N/2)*60+mod(N,2)*20'", '-fps_mode', 'passthrough', '-c:v', 'libx264', '-preset', 'ultrafast', '-pix_fmt', 'yuv420p', src]);
+    await ffmpegRun([
+      '-f',
+      'lavfi',
+      '-i',
+      'testsrc2=size=320x180:rate=50',
+      '-t',
+      '1',
+      '-vf',
+      "settb=1/1000,setpts='floor(N/2)*60+mod(N,2)*20'",
+      '-fps_mode',
+      'passthrough',
+      '-c:v',
+      'libx264',
+      '-preset',
+      'ultrafast',
+      '-pix_fmt',
+      'yuv420p',
+      src,
+    ]);
     const m = await extractFrames(src, path.join(dir, 'vfr'));
     const times = await ffprobeFrameTimes(src);
     expect(m.frameCount).toBe(times.length);

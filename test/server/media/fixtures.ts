@@ -42,7 +42,22 @@ export async function makeClip(file: string, spec: ClipSpec): Promise<string> {
       ? `color=c=black:s=${size}:r=${spec.fps},drawbox=x=0:y=0:w=40:h=40:c=white:t=fill`
       : `testsrc2=size=${size}:rate=${spec.fps}`;
   const flags = spec.movflags ? ['-movflags', spec.movflags] : [];
-  await ffmpegRun(['-f', 'lavfi', '-i', lavfi, '-t', String(spec.seconds), '-c:v', 'libx264', '-preset', 'ultrafast', '-pix_fmt', 'yuv420p', ...flags, file]);
+  await ffmpegRun([
+    '-f',
+    'lavfi',
+    '-i',
+    lavfi,
+    '-t',
+    String(spec.seconds),
+    '-c:v',
+    'libx264',
+    '-preset',
+    'ultrafast',
+    '-pix_fmt',
+    'yuv420p',
+    ...flags,
+    file,
+  ]);
   return file;
 }
 
@@ -63,11 +78,20 @@ export async function ffprobeJson(file: string, args: string[]): Promise<any> {
 }
 
 /** Outside reference: the video stream as `ffprobe -count_frames -show_streams` sees it. */
-export async function ffprobeCounted(file: string): Promise<{ nbReadFrames: number; width: number; height: number; avgFrameRate: string; rFrameRate: string; rotation: number | null }> {
+export async function ffprobeCounted(
+  file: string,
+): Promise<{ nbReadFrames: number; width: number; height: number; avgFrameRate: string; rFrameRate: string; rotation: number | null }> {
   const json = await ffprobeJson(file, ['-count_frames', '-select_streams', 'v:0', '-show_streams']);
   const s = json.streams[0];
   const rotation = (s.side_data_list ?? []).find((d: any) => d.rotation !== undefined)?.rotation ?? null;
-  return { nbReadFrames: Number(s.nb_read_frames), width: s.width, height: s.height, avgFrameRate: s.avg_frame_rate, rFrameRate: s.r_frame_rate, rotation };
+  return {
+    nbReadFrames: Number(s.nb_read_frames),
+    width: s.width,
+    height: s.height,
+    avgFrameRate: s.avg_frame_rate,
+    rFrameRate: s.r_frame_rate,
+    rotation,
+  };
 }
 
 /** Outside reference: per-frame presentation times from ffprobe, in seconds. */

@@ -19,8 +19,14 @@ function ebml(docType: string, withVersionFirst = true): Buffer {
   const doc = Buffer.from(docType, 'latin1');
   const children = [
     ...(withVersionFirst ? [0x42, 0x86, 0x81, 0x01] : []), // EBMLVersion = 1
-    0x42, 0x82, 0x80 | doc.length, ...doc, // DocType
-    0x42, 0x87, 0x81, 0x04, // DocTypeVersion = 4
+    0x42,
+    0x82,
+    0x80 | doc.length,
+    ...doc, // DocType
+    0x42,
+    0x87,
+    0x81,
+    0x04, // DocTypeVersion = 4
   ];
   return Buffer.from([0x1a, 0x45, 0xdf, 0xa3, 0x80 | children.length, ...children, 0x18, 0x53, 0x80, 0x67]);
 }

@@ -72,7 +72,20 @@ describe('display rotation sign conventions', () => {
 describe('parseProbe', () => {
   it('landscape clip: stored = displayed size, CFR, nb_frames', () => {
     const p = parseProbe(data([h264(), { codec_type: 'audio', codec_name: 'aac' }]));
-    expect(p).toMatchObject({ codec: 'h264', width: 1920, height: 1080, rotation: 0, displayWidth: 1920, displayHeight: 1080, fps: 120, rFrameRate: 120, variableFrameRate: false, durationS: 3, frameCount: 360, hasAudio: true });
+    expect(p).toMatchObject({
+      codec: 'h264',
+      width: 1920,
+      height: 1080,
+      rotation: 0,
+      displayWidth: 1920,
+      displayHeight: 1080,
+      fps: 120,
+      rFrameRate: 120,
+      variableFrameRate: false,
+      durationS: 3,
+      frameCount: 360,
+      hasAudio: true,
+    });
   });
   it('phone portrait clip (rotation -90) swaps displayed width and height', () => {
     const p = parseProbe(data([h264({ side_data_list: [{ rotation: -90 }] })]));
@@ -99,7 +112,9 @@ describe('parseProbe', () => {
     expect([p.displayWidth, p.displayHeight]).toEqual([1920, 1080]);
   });
   it('cover art is not the video stream', () => {
-    expect(mediaCode(() => parseProbe(data([{ codec_type: 'audio' }, h264({ disposition: { attached_pic: 1 } })])))).toBe('no_video_stream');
+    expect(mediaCode(() => parseProbe(data([{ codec_type: 'audio' }, h264({ disposition: { attached_pic: 1 } })])))).toBe(
+      'no_video_stream',
+    );
   });
   it('images and text demuxers → not_video; audio only → no_video_stream; no size → probe_failed', () => {
     expect(mediaCode(() => parseProbe(data([h264({ codec_name: 'png' })], { format_name: 'png_pipe' })))).toBe('not_video');

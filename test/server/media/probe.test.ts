@@ -22,23 +22,26 @@ describe.each([30, 60, 120, 240])('testsrc2 at %i fps', (fps) => {
   it.each([
     [320, 180],
     [180, 320],
-  ])('%ix%i: fps, size and frame count match ffprobe -count_frames and the lavfi generation parameters (outside reference)', async (width, height) => {
-    const seconds = 1;
-    const file = await makeClip(clipName(fps, width, height), { fps, width, height, seconds });
-    const [probe, reference] = await Promise.all([probeVideo(file), ffprobeCounted(file)]);
+  ])(
+    '%ix%i: fps, size and frame count match ffprobe -count_frames and the lavfi generation parameters (outside reference)',
+    async (width, height) => {
+      const seconds = 1;
+      const file = await makeClip(clipName(fps, width, height), { fps, width, height, seconds });
+      const [probe, reference] = await Promise.all([probeVideo(file), ffprobeCounted(file)]);
 
-    // generation parameters
-    expect(probe.fps).toBe(fps);
-    expect(probe.frameCount).toBe(fps * seconds);
-    expect(probe.durationS).toBeCloseTo(seconds, 2);
-    expect([probe.width, probe.height, probe.displayWidth, probe.displayHeight]).toEqual([width, height, width, height]);
-    // ffprobe -count_frames (decodes every frame)
-    expect(probe.frameCount).toBe(reference.nbReadFrames);
-    expect([probe.width, probe.height]).toEqual([reference.width, reference.height]);
-    expect(`${probe.fps}/1`).toBe(reference.avgFrameRate);
-    expect(probe).toMatchObject({ codec: 'h264', rotation: 0, variableFrameRate: false, hasAudio: false, frameCountSource: 'nb_frames' });
-    expect(probe.formatName).toContain('mp4');
-  });
+      // generation parameters
+      expect(probe.fps).toBe(fps);
+      expect(probe.frameCount).toBe(fps * seconds);
+      expect(probe.durationS).toBeCloseTo(seconds, 2);
+      expect([probe.width, probe.height, probe.displayWidth, probe.displayHeight]).toEqual([width, height, width, height]);
+      // ffprobe -count_frames (decodes every frame)
+      expect(probe.frameCount).toBe(reference.nbReadFrames);
+      expect([probe.width, probe.height]).toEqual([reference.width, reference.height]);
+      expect(`${probe.fps}/1`).toBe(reference.avgFrameRate);
+      expect(probe).toMatchObject({ codec: 'h264', rotation: 0, variableFrameRate: false, hasAudio: false, frameCountSource: 'nb_frames' });
+      expect(probe.formatName).toContain('mp4');
+    },
+  );
 });
 
 describe('rotation (outside reference: ffprobe side data and ffmpeg autorotate on a corner marker)', () => {
@@ -83,26 +86,50 @@ describe('containers (outside reference: the ffmpeg muxer that wrote the file)',
     ['mkv', 'mkv', ['-c:v', 'libx264', '-preset', 'ultrafast', '-pix_fmt', 'yuv420p']],
     ['webm', 'webm', ['-c:v', 'libvpx', '-deadline', 'realtime', '-b:v', '200k']],
     ['avi', 'avi', ['-c:v', 'mpeg4', '-q:v', '5']],
-  ] as const)('.%s: sniffContainer says %s, probeVideo counts 15 frames at 30 fps like ffprobe -count_frames (outside reference)', async (ext, kind, codecArgs) => {
-    const file = path.join(dir, `c.${ext}`);
-    await ffmpegRun(['-f', 'lavfi', '-i', 'testsrc2=size=320x180:rate=30', '-t', '0.5', ...codecArgs, file]);
-    const handle = await open(file, 'r');
-    const head = Buffer.alloc(4096);
-    const { bytesRead } = await handle.read(head, 0, head.length, 0);
-    await handle.close();
-    expect(sniffContainer(head.subarray(0, bytesRead))).toBe(kind);
+  ] as const)(
+    '.%s: sniffContainer says %s, probeVideo counts 15 frames at 30 fps like ffprobe -count_frames (outside reference)',
+    async (ext, kind, codecArgs) => {
+      const file = path.join(dir, `c.${ext}`);
+      await ffmpegRun(['-f', 'lavfi', '-i', 'testsrc2=size=320x180:rate=30', '-t', '0.5', ...codecArgs, file]);
+      const handle = await open(file, 'r');
+      const head = Buffer.alloc(4096);
+      const { bytesRead } = await handle.read(head, 0, head.length, 0);
+      await handle.close();
+      expect(sniffContainer(head.subarray(0, bytesRead))).toBe(kind);
 
-    const [probe, reference] = await Promise.all([probeVideo(file), ffprobeCounted(file)]);
-    expect(probe.frameCount).toBe(reference.nbReadFrames);
-    expect(probe.frameCount).toBe(15);
-    expect(probe.fps).toBe(30);
-    // Matroska/WebM do not state a frame count: probeVideo counts by decoding.
-    expect(probe.frameCountSource).toBe(ext === 'mkv' || ext === 'webm' ? 'count_frames' : 'nb_frames');
-  });
+      const [probe, reference] = await Promise.all([probeVideo(file), ffprobeCounted(file)]);
+      expect(probe.frameCount).toBe(reference.nbReadFrames);
+      expect(probe.frameCount).toBe(15);
+      expect(probe.fps).toBe(30);
+      // Matroska/WebM do not state a frame count: probeVideo counts by decoding.
+      expect(probe.frameCountSource).toBe(ext === 'mkv' || ext === 'webm' ? 'count_frames' : 'nb_frames');
+    },
+  );
 
   it('a clip with a sound track reports hasAudio; frame count matches ffprobe -count_frames (outside reference)', async () => {
     const file = path.join(dir, 'with-audio.mp4');
-    await ffmpegRun(['-f', 'lavfi', '-i', 'testsrc2=size=320x180:rate=30', '-f', 'lavfi', '-i', 'sine=f=440', '-t', '0.5', '-c:v', 'libx264', '-preset', 'ultrafast', '-pix_fmt', 'yuv420p', '-c:a', 'aac', '-shortest', file]);
+    await ffmpegRun([
+      '-f',
+      'lavfi',
+      '-i',
+      'testsrc2=size=320x180:rate=30',
+      '-f',
+      'lavfi',
+      '-i',
+      'sine=f=440',
+      '-t',
+      '0.5',
+      '-c:v',
+      'libx264',
+      '-preset',
+      'ultrafast',
+      '-pix_fmt',
+      'yuv420p',
+      '-c:a',
+      'aac',
+      '-shortest',
+      file,
+    ]);
     const probe = await probeVideo(file);
     expect(probe.hasAudio).toBe(true);
     expect(probe.frameCount).toBe((await ffprobeCounted(file)).nbReadFrames);
@@ -110,7 +137,25 @@ describe('containers (outside reference: the ffmpeg muxer that wrote the file)',
 
   it('a variable-frame-rate clip is flagged (timestamps 20 ms / 40 ms alternating); frame count matches ffprobe -count_frames (outside reference)', async () => {
     const file = path.join(dir, 'vfr.mp4');
-    await ffmpegRun(['-f', 'lavfi', '-i', 'testsrc2=size=320x180:rate=50', '-t', '1', '-vf', "settb=1/1000,setpts='floor(N/2)*60+mod(N,2)*20'", '-fps_mode', 'passthrough', '-c:v', 'libx264', '-preset', 'ultrafast', '-pix_fmt', 'yuv420p', file]);
+    await ffmpegRun([
+      '-f',
+      'lavfi',
+      '-i',
+      'testsrc2=size=320x180:rate=50',
+      '-t',
+      '1',
+      '-vf',
+      "settb=1/1000,setpts='floor(N/2)*60+mod(N,2)*20'",
+      '-fps_mode',
+      'passthrough',
+      '-c:v',
+      'libx264',
+      '-preset',
+      'ultrafast',
+      '-pix_fmt',
+      'yuv420p',
+      file,
+    ]);
     const [probe, reference] = await Promise.all([probeVideo(file), ffprobeCounted(file)]);
     expect(probe.frameCount).toBe(reference.nbReadFrames);
     expect(probe.variableFrameRate).toBe(true);

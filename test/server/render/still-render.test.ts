@@ -25,13 +25,18 @@ async function inkExtent(png: Buffer, rect: { x: number; y: number; width: numbe
   const ctx = createCanvas(img.width, img.height).getContext('2d');
   ctx.drawImage(img, 0, 0);
   const data = ctx.getImageData(rect.x, rect.y, rect.width, rect.height - 1).data; // last row: the hairline
-  let left = Infinity, right = -Infinity, top = Infinity, bottom = -Infinity;
+  let left = Infinity,
+    right = -Infinity,
+    top = Infinity,
+    bottom = -Infinity;
   for (let y = 0; y < rect.height - 1; y++) {
     for (let x = 0; x < rect.width; x++) {
       const i = (y * rect.width + x) * 4;
       if (data[i]! < 200) {
-        left = Math.min(left, x); right = Math.max(right, x);
-        top = Math.min(top, y); bottom = Math.max(bottom, y);
+        left = Math.min(left, x);
+        right = Math.max(right, x);
+        top = Math.min(top, y);
+        bottom = Math.max(bottom, y);
       }
     }
   }
@@ -44,7 +49,17 @@ describe('renderStill: the caution line', () => {
     [640, 360, ''],
   ])('a %i×%i still carries one small line at its foot, as wide as the shipped font sets it', async (w, h, caption) => {
     const out = await renderStill({
-      panels: [{ image: await greyFrame(w, h), frameSize: { width: w, height: h }, landmarks: [], nearSide: 'right', direction: 'left_to_right', scale: null, heading: 'Baseline' }],
+      panels: [
+        {
+          image: await greyFrame(w, h),
+          frameSize: { width: w, height: h },
+          landmarks: [],
+          nearSide: 'right',
+          direction: 'left_to_right',
+          scale: null,
+          heading: 'Baseline',
+        },
+      ],
       caption,
       showAngles: false,
     });

@@ -18,14 +18,30 @@ import type { ComparisonRow, Measure, MeasureKey } from '../../../src/contracts/
 import type { Side } from '../../../src/contracts/assessment';
 import { BETTER_DIRECTIONS, DEFAULT_REFERENCE_BANDS, evaluateBand, MEASUREMENT_ERROR } from '../../../src/kinematics';
 import { PDF_FONT_FILES } from '../../../server/render/fonts';
-import { plainCitation, printable, renderSummaryPdf, shortCitation, SUMMARY_CAUTION, type SummaryDocument } from '../../../server/render/summary-pdf';
+import {
+  plainCitation,
+  printable,
+  renderSummaryPdf,
+  shortCitation,
+  SUMMARY_CAUTION,
+  type SummaryDocument,
+} from '../../../server/render/summary-pdf';
 
 const run = promisify(execFile);
 const SCREENSHOTS = path.resolve('test-results/screenshots');
 const tmp = fs.mkdtempSync(path.join(os.tmpdir(), 'summary-pdf-'));
 afterAll(() => fs.rmSync(tmp, { recursive: true, force: true }));
 
-const HEADINGS = ['Visit', 'Visits compared', 'Findings', 'Measures', 'Measures: Baseline and Re-test', 'Annotated stills', 'Plan', 'Sources of reference bands and thresholds'];
+const HEADINGS = [
+  'Visit',
+  'Visits compared',
+  'Findings',
+  'Measures',
+  'Measures: Baseline and Re-test',
+  'Annotated stills',
+  'Plan',
+  'Sources of reference bands and thresholds',
+];
 
 async function pages(pdf: Buffer): Promise<string[]> {
   const result = await new PDFParse({ data: new Uint8Array(pdf) }).getText();
@@ -49,7 +65,13 @@ async function pagesWithImages(pdf: Buffer): Promise<Set<number>> {
   const file = path.join(tmp, `images-${Math.random().toString(36).slice(2)}.pdf`);
   fs.writeFileSync(file, pdf);
   const { stdout } = await run('pdfimages', ['-list', file]);
-  return new Set(stdout.split('\n').slice(2).filter((l) => l.trim()).map((l) => Number(l.trim().split(/\s+/)[0])));
+  return new Set(
+    stdout
+      .split('\n')
+      .slice(2)
+      .filter((l) => l.trim())
+      .map((l) => Number(l.trim().split(/\s+/)[0])),
+  );
 }
 
 /** Renders every page with pdftoppm; returns the PNG paths (copied to test-results/screenshots). */
@@ -58,7 +80,10 @@ async function renderPages(pdf: Buffer, name: string): Promise<string[]> {
   fs.writeFileSync(file, pdf);
   await run('pdftoppm', ['-png', '-r', '60', file, path.join(tmp, name)]);
   fs.mkdirSync(SCREENSHOTS, { recursive: true });
-  const pngs = fs.readdirSync(tmp).filter((f) => f.startsWith(`${name}-`) && f.endsWith('.png')).sort();
+  const pngs = fs
+    .readdirSync(tmp)
+    .filter((f) => f.startsWith(`${name}-`) && f.endsWith('.png'))
+    .sort();
   for (const p of pngs) fs.copyFileSync(path.join(tmp, p), path.join(SCREENSHOTS, `pdf-${p}`));
   return pngs.map((p) => path.join(tmp, p));
 }
@@ -66,12 +91,44 @@ async function renderPages(pdf: Buffer, name: string): Promise<string[]> {
 const measure = (key: MeasureKey, side: Side | null, mean: number, unit = '°', n = 8): Measure => {
   const band = DEFAULT_REFERENCE_BANDS.find((b) => b.key === key && b.unit === unit);
   const ev = band ? evaluateBand(mean, band) : null;
-  return { key, label: key.replaceAll('_', ' '), unit, side, event: null, status: 'ok', mean, sd: 1.25, n, values: [], derivation: '', ...(ev ? { band: ev } : {}) };
+  return {
+    key,
+    label: key.replaceAll('_', ' '),
+    unit,
+    side,
+    event: null,
+    status: 'ok',
+    mean,
+    sd: 1.25,
+    n,
+    values: [],
+    derivation: '',
+    ...(ev ? { band: ev } : {}),
+  };
 };
 
-const row = (key: MeasureKey, side: Side | null, baseline: number, retest: number, unit: string, over: Partial<ComparisonRow>): ComparisonRow => ({
-  key, side, label: key.replaceAll('_', ' '), unit, baseline, retest, change: retest - baseline, baselineSteps: 8, retestSteps: 8,
-  threshold: MEASUREMENT_ERROR[key] ?? null, verdict: 'no_threshold', direction: 'larger', betterDirection: BETTER_DIRECTIONS[key] ?? null, ...over,
+const row = (
+  key: MeasureKey,
+  side: Side | null,
+  baseline: number,
+  retest: number,
+  unit: string,
+  over: Partial<ComparisonRow>,
+): ComparisonRow => ({
+  key,
+  side,
+  label: key.replaceAll('_', ' '),
+  unit,
+  baseline,
+  retest,
+  change: retest - baseline,
+  baselineSteps: 8,
+  retestSteps: 8,
+  threshold: MEASUREMENT_ERROR[key] ?? null,
+  verdict: 'no_threshold',
+  direction: 'larger',
+  betterDirection: BETTER_DIRECTIONS[key] ?? null,
+  ...over,
 });
 
 function still(): { image: Buffer; width: number; height: number; caption: string } {
@@ -148,10 +205,21 @@ describe('renderSummaryPdf — a Re-test comparison', () => {
 describe('renderSummaryPdf — page breaks', () => {
   const longVisit = (stills: number, findingsLines: number): SummaryDocument => {
     const keys: [MeasureKey, string][] = [
-      ['hip_extension_toe_off', '°'], ['knee_flexion_initial_contact', '°'], ['knee_flexion_peak_stance', '°'], ['shank_angle_initial_contact', '°'],
-      ['foot_angle_initial_contact', '°'], ['trunk_lean', '°'], ['cadence', 'steps/min'], ['duty_factor', '%'], ['contact_time', 's'],
+      ['hip_extension_toe_off', '°'],
+      ['knee_flexion_initial_contact', '°'],
+      ['knee_flexion_peak_stance', '°'],
+      ['shank_angle_initial_contact', '°'],
+      ['foot_angle_initial_contact', '°'],
+      ['trunk_lean', '°'],
+      ['cadence', 'steps/min'],
+      ['duty_factor', '%'],
+      ['contact_time', 's'],
     ];
-    const clipMeasures = keys.flatMap(([k, u]) => (['left', 'right'] as const).map((s) => measure(k, u === 'steps/min' ? null : s, u === 'steps/min' ? 171.43 : u === 's' ? 0.25 : 22.45, u)));
+    const clipMeasures = keys.flatMap(([k, u]) =>
+      (['left', 'right'] as const).map((s) =>
+        measure(k, u === 'steps/min' ? null : s, u === 'steps/min' ? 171.43 : u === 's' ? 0.25 : 22.45, u),
+      ),
+    );
     return {
       ...base,
       title: 'Visit summary',
@@ -159,7 +227,10 @@ describe('renderSummaryPdf — page breaks', () => {
       comparison: null,
       measures: [1, 2].map((i) => ({ heading: `Clip ${i} of 2`, measures: clipMeasures })),
       stills: Array.from({ length: stills }, still),
-      findings: Array.from({ length: findingsLines }, (_, i) => `Finding ${i + 1}: hip extension at toe-off is short of the usual range on the right.`).join('\n'),
+      findings: Array.from(
+        { length: findingsLines },
+        (_, i) => `Finding ${i + 1}: hip extension at toe-off is short of the usual range on the right.`,
+      ).join('\n'),
       planText: 'Isometric holds, then slow lengthening.',
     };
   };
@@ -172,7 +243,10 @@ describe('renderSummaryPdf — page breaks', () => {
       const withImages = await pagesWithImages(pdf);
       expect(texts.length).toBe(pageCount);
       texts.forEach((t, i) => {
-        const lines = t.split('\n').map((l) => l.trim()).filter(Boolean);
+        const lines = t
+          .split('\n')
+          .map((l) => l.trim())
+          .filter(Boolean);
         expect(lines.at(-1), `page ${i + 1} footer`).toMatch(/page \d+ of \d+$/);
         const lastContent = lines.at(-2);
         // A still is an image (no text): "Annotated stills" may be a page's last text only above one.
@@ -204,7 +278,9 @@ describe('citations in documents', () => {
     const hip = MEASUREMENT_ERROR.hip_extension_toe_off!;
     expect(plainCitation(hip.source, hip.evidence, hip.derivation)).toBe(`${hip.source}. ${hip.derivation}`);
     expect(plainCitation('Mo et al. 2021, Res Sports Med', 'pub')).toBe('Mo et al. 2021, Res Sports Med');
-    expect(plainCitation('de Ruiter et al. 2019, Eur J Sport Sci (numbers as published; author list from memory)', 'pub')).toBe('de Ruiter et al. 2019, Eur J Sport Sci');
+    expect(plainCitation('de Ruiter et al. 2019, Eur J Sport Sci (numbers as published; author list from memory)', 'pub')).toBe(
+      'de Ruiter et al. 2019, Eur J Sport Sci',
+    );
     expect(shortCitation('Heiderscheit et al. 2011, Med Sci Sports Exerc 43(2):296–302, Table 3')).toBe('Heiderscheit et al. 2011');
     expect(shortCitation('Common practice in the trade, no single source.')).toBe('Common practice in the trade');
     expect(printable('Good 👍🏽 run 🇩🇪 © ↔')).toBe('Good  run  © ↔');

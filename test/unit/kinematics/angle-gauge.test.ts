@@ -39,7 +39,13 @@ describe('[calc] REFERENCES.md worked examples', () => {
 
   it('placed on a 1280×720 frame as fractions (either running direction) the gauge reads the same', () => {
     for (const direction of ['left_to_right', 'right_to_left'] as const) {
-      const g = { id: 'g1', frame: 0, a: toFraction(IC_POSE.hip, direction), vertex: toFraction(IC_POSE.knee, direction), b: toFraction(IC_POSE.ankle, direction) };
+      const g = {
+        id: 'g1',
+        frame: 0,
+        a: toFraction(IC_POSE.hip, direction),
+        vertex: toFraction(IC_POSE.knee, direction),
+        b: toFraction(IC_POSE.ankle, direction),
+      };
       expect(gaugeAngleDeg(g, { width: W, height: H })).toBeCloseTo(167.471, 3);
     }
   });
@@ -57,13 +63,32 @@ describe('degenerate gauges', () => {
   it('an arm without length has no angle', () => {
     expect(includedAngleDeg({ x: 1, y: 1 }, { x: 1, y: 1 }, { x: 2, y: 3 })).toBeNaN();
     expect(includedAngleDeg({ x: 0, y: 0 }, { x: 1, y: 1 }, { x: NaN, y: 3 })).toBeNaN();
-    expect(isUsableGauge({ a: { x: 0.2, y: 0.2 }, vertex: { x: 0.2, y: 0.2 }, b: { x: 0.5, y: 0.5 } }, { width: 100, height: 100 })).toBe(false);
-    expect(gaugeLayout([{ id: 'x', frame: 0, a: { x: 0.2, y: 0.2 }, vertex: { x: 0.2, y: 0.2 }, b: { x: 0.5, y: 0.5 } }], { width: 100, height: 100 }, 12)).toEqual([]);
+    expect(isUsableGauge({ a: { x: 0.2, y: 0.2 }, vertex: { x: 0.2, y: 0.2 }, b: { x: 0.5, y: 0.5 } }, { width: 100, height: 100 })).toBe(
+      false,
+    );
+    expect(
+      gaugeLayout(
+        [{ id: 'x', frame: 0, a: { x: 0.2, y: 0.2 }, vertex: { x: 0.2, y: 0.2 }, b: { x: 0.5, y: 0.5 } }],
+        { width: 100, height: 100 },
+        12,
+      ),
+    ).toEqual([]);
   });
 
   it('three clicks make a gauge in click order: arm end, vertex (middle click), arm end', () => {
-    expect(gaugeFromClicks('g', 4, [{ x: 0.1, y: 0.1 }, { x: 0.2, y: 0.2 }])).toBeNull();
-    expect(gaugeFromClicks('g', 4, [{ x: 0.1, y: 0.1 }, { x: 0.2, y: 0.2 }, { x: 0.3, y: 0.1 }])).toEqual({
+    expect(
+      gaugeFromClicks('g', 4, [
+        { x: 0.1, y: 0.1 },
+        { x: 0.2, y: 0.2 },
+      ]),
+    ).toBeNull();
+    expect(
+      gaugeFromClicks('g', 4, [
+        { x: 0.1, y: 0.1 },
+        { x: 0.2, y: 0.2 },
+        { x: 0.3, y: 0.1 },
+      ]),
+    ).toEqual({
       id: 'g',
       frame: 4,
       a: { x: 0.1, y: 0.1 },
@@ -77,7 +102,9 @@ describe('properties (fast-check)', () => {
   const coord = fc.double({ min: -1000, max: 1000, noNaN: true });
   const point = fc.record({ x: coord, y: coord });
   // Triangles whose arms are not tiny (the angle is well conditioned).
-  const gauge = fc.tuple(point, point, point).filter(([a, o, b]) => Math.hypot(a.x - o.x, a.y - o.y) > 1e-3 && Math.hypot(b.x - o.x, b.y - o.y) > 1e-3);
+  const gauge = fc
+    .tuple(point, point, point)
+    .filter(([a, o, b]) => Math.hypot(a.x - o.x, a.y - o.y) > 1e-3 && Math.hypot(b.x - o.x, b.y - o.y) > 1e-3);
 
   it('lies in 0–180° and agrees with the law of cosines', () => {
     fc.assert(
@@ -101,14 +128,21 @@ describe('properties (fast-check)', () => {
 
   it('does not change under translation, uniform scaling, rotation or mirroring', () => {
     fc.assert(
-      fc.property(gauge, coord, coord, fc.double({ min: 0.01, max: 100, noNaN: true }), fc.double({ min: -Math.PI, max: Math.PI, noNaN: true }), ([a, o, b], dx, dy, k, t) => {
-        const v = includedAngleDeg(a, o, b);
-        const move = (p: P) => ({ x: p.x + dx, y: p.y + dy });
-        const scale = (p: P) => ({ x: p.x * k, y: p.y * k });
-        const turn = (p: P) => ({ x: p.x * Math.cos(t) - p.y * Math.sin(t), y: p.x * Math.sin(t) + p.y * Math.cos(t) });
-        const mirror = (p: P) => ({ x: -p.x, y: p.y });
-        for (const f of [move, scale, turn, mirror]) expect(Math.abs(includedAngleDeg(f(a), f(o), f(b)) - v)).toBeLessThan(1e-6);
-      }),
+      fc.property(
+        gauge,
+        coord,
+        coord,
+        fc.double({ min: 0.01, max: 100, noNaN: true }),
+        fc.double({ min: -Math.PI, max: Math.PI, noNaN: true }),
+        ([a, o, b], dx, dy, k, t) => {
+          const v = includedAngleDeg(a, o, b);
+          const move = (p: P) => ({ x: p.x + dx, y: p.y + dy });
+          const scale = (p: P) => ({ x: p.x * k, y: p.y * k });
+          const turn = (p: P) => ({ x: p.x * Math.cos(t) - p.y * Math.sin(t), y: p.x * Math.sin(t) + p.y * Math.cos(t) });
+          const mirror = (p: P) => ({ x: -p.x, y: p.y });
+          for (const f of [move, scale, turn, mirror]) expect(Math.abs(includedAngleDeg(f(a), f(o), f(b)) - v)).toBeLessThan(1e-6);
+        },
+      ),
     );
   });
 
@@ -125,7 +159,12 @@ describe('properties (fast-check)', () => {
 describe('overlay layout of gauges', () => {
   it('labels the value with the measures formatter and puts the label outside the arc on the bisector', () => {
     const size = { width: 1000, height: 1000 };
-    const [g] = gaugeLayout([{ id: 'g', frame: 0, a: { x: 0.7, y: 0.5 }, vertex: { x: 0.5, y: 0.5 }, b: { x: 0.5, y: 0.3 } }], size, 20, 'g');
+    const [g] = gaugeLayout(
+      [{ id: 'g', frame: 0, a: { x: 0.7, y: 0.5 }, vertex: { x: 0.5, y: 0.5 }, b: { x: 0.5, y: 0.3 } }],
+      size,
+      20,
+      'g',
+    );
     expect(g!.text).toBe('90.0°');
     expect(g!.selected).toBe(true);
     // Arms point right (0 rad) and up (−π/2 on screen): the bisector points up and to the right.

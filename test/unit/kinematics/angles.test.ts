@@ -11,31 +11,34 @@ import { deg, H, IC_POSE, landmarksAt, SCALE_1M_400PX, TO_POSE, W } from './help
 
 const size = { width: W, height: H };
 
-describe.each(['left_to_right', 'right_to_left'] as const)('[calc] worked example, REFERENCES.md — via image fractions, %s', (direction) => {
-  const plane = { frameSize: size, direction };
-  it('initial contact: trunk 11.310°, thigh 26.565°, shank 14.036°, knee flexion 12.529°, foot 14.744°, ankle +0.707°, hip rel trunk 37.875°', () => {
-    const a = frameAngles([landmarksAt(0, 'right', IC_POSE, direction)], plane).right!;
-    expect(a.trunkDeg).toBeCloseTo(11.31, 3);
-    expect(a.thighDeg).toBeCloseTo(26.565, 3);
-    expect(a.shankDeg).toBeCloseTo(14.036, 3);
-    expect(a.kneeFlexionDeg).toBeCloseTo(12.529, 3);
-    expect(a.footDeg).toBeCloseTo(14.744, 3);
-    expect(a.ankleDeg).toBeCloseTo(0.707, 3);
-    expect(a.hipRelTrunkDeg).toBeCloseTo(37.875, 3);
-  });
-  it('initial contact: heel ahead of hip 0.260 m (scale 2.5 mm/px)', () => {
-    const pose = sidePosePx(landmarksAt(0, 'right', IC_POSE, direction).points, plane);
-    expect(heelAheadOfHip(pose)! * metresPerPixel(SCALE_1M_400PX, size)!).toBeCloseTo(0.26, 6);
-  });
-  it('toe-off: thigh −22.521° (22.5° extension), shank −49.399°, knee flexion 26.878°, trunk 10.204°, hip rel trunk −12.317°', () => {
-    const a = frameAngles([landmarksAt(60, 'right', TO_POSE, direction)], plane).right!;
-    expect(a.thighDeg).toBeCloseTo(-22.521, 3);
-    expect(a.shankDeg).toBeCloseTo(-49.399, 3);
-    expect(a.kneeFlexionDeg).toBeCloseTo(26.878, 3);
-    expect(a.trunkDeg).toBeCloseTo(10.204, 3);
-    expect(a.hipRelTrunkDeg).toBeCloseTo(-12.317, 3);
-  });
-});
+describe.each(['left_to_right', 'right_to_left'] as const)(
+  '[calc] worked example, REFERENCES.md — via image fractions, %s',
+  (direction) => {
+    const plane = { frameSize: size, direction };
+    it('initial contact: trunk 11.310°, thigh 26.565°, shank 14.036°, knee flexion 12.529°, foot 14.744°, ankle +0.707°, hip rel trunk 37.875°', () => {
+      const a = frameAngles([landmarksAt(0, 'right', IC_POSE, direction)], plane).right!;
+      expect(a.trunkDeg).toBeCloseTo(11.31, 3);
+      expect(a.thighDeg).toBeCloseTo(26.565, 3);
+      expect(a.shankDeg).toBeCloseTo(14.036, 3);
+      expect(a.kneeFlexionDeg).toBeCloseTo(12.529, 3);
+      expect(a.footDeg).toBeCloseTo(14.744, 3);
+      expect(a.ankleDeg).toBeCloseTo(0.707, 3);
+      expect(a.hipRelTrunkDeg).toBeCloseTo(37.875, 3);
+    });
+    it('initial contact: heel ahead of hip 0.260 m (scale 2.5 mm/px)', () => {
+      const pose = sidePosePx(landmarksAt(0, 'right', IC_POSE, direction).points, plane);
+      expect(heelAheadOfHip(pose)! * metresPerPixel(SCALE_1M_400PX, size)!).toBeCloseTo(0.26, 6);
+    });
+    it('toe-off: thigh −22.521° (22.5° extension), shank −49.399°, knee flexion 26.878°, trunk 10.204°, hip rel trunk −12.317°', () => {
+      const a = frameAngles([landmarksAt(60, 'right', TO_POSE, direction)], plane).right!;
+      expect(a.thighDeg).toBeCloseTo(-22.521, 3);
+      expect(a.shankDeg).toBeCloseTo(-49.399, 3);
+      expect(a.kneeFlexionDeg).toBeCloseTo(26.878, 3);
+      expect(a.trunkDeg).toBeCloseTo(10.204, 3);
+      expect(a.hipRelTrunkDeg).toBeCloseTo(-12.317, 3);
+    });
+  },
+);
 
 describe('[calc] worked example, REFERENCES.md — independent recomputation by hand formulas', () => {
   const included = (a: { x: number; y: number }, o: { x: number; y: number }, b: { x: number; y: number }) => {
@@ -91,7 +94,10 @@ describe('partial poses', () => {
 type Px = { x: number; y: number };
 const NAMES: LandmarkName[] = ['shoulder', 'hip', 'knee', 'ankle', 'heel', 'toe'];
 /** Sub-pixel coordinates inside the frame, without edge bias (which makes points coincide). */
-const px = fc.record({ x: fc.noBias(fc.integer({ min: 100_00, max: 1180_00 })).map((v) => v / 100), y: fc.noBias(fc.integer({ min: 50_00, max: 670_00 })).map((v) => v / 100) });
+const px = fc.record({
+  x: fc.noBias(fc.integer({ min: 100_00, max: 1180_00 })).map((v) => v / 100),
+  y: fc.noBias(fc.integer({ min: 50_00, max: 670_00 })).map((v) => v / 100),
+});
 const pose = fc.record({ shoulder: px, hip: px, knee: px, ankle: px, heel: px, toe: px });
 type PxPose = Record<LandmarkName, Px>;
 /** Segments used by angles are at least 5 px long (a marker placed on another gives no direction). */
@@ -112,7 +118,7 @@ const anglesOf = (p: PxPose, direction: 'left_to_right' | 'right_to_left' = 'lef
   frameAngles([toEntry(p, w, h)], { frameSize: { width: w, height: h }, direction }).right!;
 /** Equal as angles (mod 360°). */
 const sameAngle = (a: number, b: number, tol = 1e-6) => {
-  const d = (((a - b) % 360) + 540) % 360 - 180;
+  const d = ((((a - b) % 360) + 540) % 360) - 180;
   return Math.abs(d) < tol;
 };
 const KEYS = ['thighDeg', 'shankDeg', 'kneeFlexionDeg', 'trunkDeg', 'footDeg', 'ankleDeg', 'hipRelTrunkDeg'] as const;
@@ -120,11 +126,16 @@ const KEYS = ['thighDeg', 'shankDeg', 'kneeFlexionDeg', 'trunkDeg', 'footDeg', '
 describe('fast-check properties of the angles', () => {
   it('translating every point leaves every angle unchanged', () => {
     fc.assert(
-      fc.property(pose.filter(usable), fc.double({ min: -500, max: 500, noNaN: true }), fc.double({ min: -500, max: 500, noNaN: true }), (p, dx, dy) => {
-        const a = anglesOf(p);
-        const b = anglesOf(mapPose(p, (q) => ({ x: q.x + dx, y: q.y + dy })));
-        for (const k of KEYS) expect(sameAngle(a[k]!, b[k]!)).toBe(true);
-      }),
+      fc.property(
+        pose.filter(usable),
+        fc.double({ min: -500, max: 500, noNaN: true }),
+        fc.double({ min: -500, max: 500, noNaN: true }),
+        (p, dx, dy) => {
+          const a = anglesOf(p);
+          const b = anglesOf(mapPose(p, (q) => ({ x: q.x + dx, y: q.y + dy })));
+          for (const k of KEYS) expect(sameAngle(a[k]!, b[k]!)).toBe(true);
+        },
+      ),
     );
   });
 

@@ -5,7 +5,14 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { MeasureKey, ReferenceBand } from '../../../src/contracts/measures';
-import { classifyFootStrike, DEFAULT_REFERENCE_BANDS, evaluateBand, findBand, MEASURE_DEFINITIONS, springMassVerticalOscillation } from '../../../src/kinematics';
+import {
+  classifyFootStrike,
+  DEFAULT_REFERENCE_BANDS,
+  evaluateBand,
+  findBand,
+  MEASURE_DEFINITIONS,
+  springMassVerticalOscillation,
+} from '../../../src/kinematics';
 
 const band = (key: MeasureKey): ReferenceBand => {
   const b = DEFAULT_REFERENCE_BANDS.find((x) => x.key === key);

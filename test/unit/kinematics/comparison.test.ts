@@ -6,7 +6,16 @@
 import { describe, expect, it } from 'vitest';
 import type { ClipMeasures, Measure, MeasureKey } from '../../../src/contracts/measures';
 import type { Side } from '../../../src/contracts/assessment';
-import { BETTER_DIRECTIONS, compareMeasures, formatValue, MEASUREMENT_ERROR, thresholdText, VERDICT_LABELS, verdictText, visitMeans } from '../../../src/kinematics';
+import {
+  BETTER_DIRECTIONS,
+  compareMeasures,
+  formatValue,
+  MEASUREMENT_ERROR,
+  thresholdText,
+  VERDICT_LABELS,
+  verdictText,
+  visitMeans,
+} from '../../../src/kinematics';
 
 const measure = (key: MeasureKey, side: Side | null, mean: number | null, unit = '°', n = 8): Measure => ({
   key,
@@ -22,7 +31,14 @@ const measure = (key: MeasureKey, side: Side | null, mean: number | null, unit =
   derivation: '',
 });
 
-const clip = (clipId: number, measures: Measure[]): ClipMeasures => ({ kinematicsVersion: 'test', clipId, hasScale: false, measures, angles: [], notes: [] });
+const clip = (clipId: number, measures: Measure[]): ClipMeasures => ({
+  kinematicsVersion: 'test',
+  clipId,
+  hasScale: false,
+  measures,
+  angles: [],
+  notes: [],
+});
 
 const row = (rows: ReturnType<typeof compareMeasures>, key: MeasureKey, side: Side | null) => {
   const r = rows.find((x) => x.key === key && x.side === side);
@@ -66,8 +82,17 @@ describe('MEASUREMENT_ERROR — thresholds as in REFERENCES.md', () => {
 
 describe('compareMeasures', () => {
   it('[calc] hip extension at toe-off 4° → 11° is beyond measurement error (7 > 5.5)', () => {
-    const rows = compareMeasures([clip(1, [measure('hip_extension_toe_off', 'right', 4)])], [clip(2, [measure('hip_extension_toe_off', 'right', 11)])]);
-    expect(row(rows, 'hip_extension_toe_off', 'right')).toMatchObject({ baseline: 4, retest: 11, change: 7, unit: '°', verdict: 'beyond_measurement_error' });
+    const rows = compareMeasures(
+      [clip(1, [measure('hip_extension_toe_off', 'right', 4)])],
+      [clip(2, [measure('hip_extension_toe_off', 'right', 11)])],
+    );
+    expect(row(rows, 'hip_extension_toe_off', 'right')).toMatchObject({
+      baseline: 4,
+      retest: 11,
+      change: 7,
+      unit: '°',
+      verdict: 'beyond_measurement_error',
+    });
     expect(VERDICT_LABELS.beyond_measurement_error).toBe('Beyond measurement error');
   });
 
@@ -81,30 +106,55 @@ describe('compareMeasures', () => {
   });
 
   it('pairs by key and side, averaging clip means of the same side', () => {
-    const base = [clip(1, [measure('hip_extension_toe_off', 'right', 4), measure('hip_extension_toe_off', 'left', 3)]), clip(2, [measure('hip_extension_toe_off', 'right', 6)])];
+    const base = [
+      clip(1, [measure('hip_extension_toe_off', 'right', 4), measure('hip_extension_toe_off', 'left', 3)]),
+      clip(2, [measure('hip_extension_toe_off', 'right', 6)]),
+    ];
     const re = [clip(3, [measure('hip_extension_toe_off', 'right', 8), measure('hip_extension_toe_off', 'left', 6)])];
     const rows = compareMeasures(base, re);
-    expect(row(rows, 'hip_extension_toe_off', 'right')).toMatchObject({ baseline: 5, retest: 8, change: 3, verdict: 'within_measurement_error' });
+    expect(row(rows, 'hip_extension_toe_off', 'right')).toMatchObject({
+      baseline: 5,
+      retest: 8,
+      change: 3,
+      verdict: 'within_measurement_error',
+    });
     expect(row(rows, 'hip_extension_toe_off', 'left')).toMatchObject({ baseline: 3, retest: 6, change: 3 });
   });
 
   it('says "no threshold" without a published figure and "not measured" when either visit lacks the mean', () => {
     const rows = compareMeasures(
       [clip(1, [measure('cadence', null, 168, 'steps/min'), measure('foot_angle_initial_contact', 'right', null)])],
-      [clip(2, [measure('cadence', null, 176, 'steps/min'), measure('foot_angle_initial_contact', 'right', 10), measure('trunk_lean', 'right', 7)])],
+      [
+        clip(2, [
+          measure('cadence', null, 176, 'steps/min'),
+          measure('foot_angle_initial_contact', 'right', 10),
+          measure('trunk_lean', 'right', 7),
+        ]),
+      ],
     );
     expect(row(rows, 'cadence', null)).toMatchObject({ change: 8, unit: 'steps/min', threshold: null, verdict: 'no_threshold' });
-    expect(row(rows, 'foot_angle_initial_contact', 'right')).toMatchObject({ baseline: null, retest: 10, change: null, verdict: 'not_measured' });
+    expect(row(rows, 'foot_angle_initial_contact', 'right')).toMatchObject({
+      baseline: null,
+      retest: 10,
+      change: null,
+      verdict: 'not_measured',
+    });
     expect(row(rows, 'trunk_lean', 'right')).toMatchObject({ baseline: null, retest: 7, verdict: 'not_measured' });
   });
-
 });
 
 describe('one precision: the verdict judges the change as shown', () => {
   const knee = (base: number, re: number) =>
-    row(compareMeasures([clip(1, [measure('knee_flexion_peak_stance', 'left', base)])], [clip(2, [measure('knee_flexion_peak_stance', 'left', re)])]), 'knee_flexion_peak_stance', 'left');
+    row(
+      compareMeasures(
+        [clip(1, [measure('knee_flexion_peak_stance', 'left', base)])],
+        [clip(2, [measure('knee_flexion_peak_stance', 'left', re)])],
+      ),
+      'knee_flexion_peak_stance',
+      'left',
+    );
 
-  it('[pub] a change shown as +3.8° against Dingenen et al. 2018\'s ±3.8° is within, even when the raw change is 3.84°', () => {
+  it("[pub] a change shown as +3.8° against Dingenen et al. 2018's ±3.8° is within, even when the raw change is 3.84°", () => {
     const r = knee(40, 43.84);
     expect(formatValue(r.change, r.unit, { signed: true })).toBe('+3.8°');
     expect(thresholdText(r.threshold!)).toBe('±3.8°');
@@ -120,12 +170,19 @@ describe('one precision: the verdict judges the change as shown', () => {
 
   it('the change is the difference of the means as shown, so the columns subtract: 10.04° → 13.86° reads 10.0 → 13.9, +3.9', () => {
     const r = knee(10.04, 13.86);
-    expect([formatValue(r.baseline, '°'), formatValue(r.retest, '°'), formatValue(r.change, '°', { signed: true })]).toEqual(['10.0°', '13.9°', '+3.9°']);
+    expect([formatValue(r.baseline, '°'), formatValue(r.retest, '°'), formatValue(r.change, '°', { signed: true })]).toEqual([
+      '10.0°',
+      '13.9°',
+      '+3.9°',
+    ]);
     expect(r.verdict).toBe('beyond_measurement_error');
   });
 
   it('counts a change exactly at the threshold as within', () => {
-    const rows = compareMeasures([clip(1, [measure('foot_angle_initial_contact', 'right', 10)])], [clip(2, [measure('foot_angle_initial_contact', 'right', 12.3)])]);
+    const rows = compareMeasures(
+      [clip(1, [measure('foot_angle_initial_contact', 'right', 10)])],
+      [clip(2, [measure('foot_angle_initial_contact', 'right', 12.3)])],
+    );
     // 12.3 − 10 is 2.3000000000000007 in floating point: shown and judged as 2.3, within the 2.3° SDD.
     expect(row(rows, 'foot_angle_initial_contact', 'right')).toMatchObject({ change: 2.3, verdict: 'within_measurement_error' });
   });
@@ -133,7 +190,10 @@ describe('one precision: the verdict judges the change as shown', () => {
 
 describe('[pub] Dingenen et al. 2018: thresholds are for means of at least 7 steps', () => {
   it('says "too few steps to judge" below 7 steps in either visit, with the counts', () => {
-    const rows = compareMeasures([clip(1, [measure('hip_extension_toe_off', 'right', 4, '°', 8)])], [clip(2, [measure('hip_extension_toe_off', 'right', 11, '°', 6)])]);
+    const rows = compareMeasures(
+      [clip(1, [measure('hip_extension_toe_off', 'right', 4, '°', 8)])],
+      [clip(2, [measure('hip_extension_toe_off', 'right', 11, '°', 6)])],
+    );
     const r = row(rows, 'hip_extension_toe_off', 'right');
     expect(r).toMatchObject({ change: 7, baselineSteps: 8, retestSteps: 6, verdict: 'too_few_steps' });
     expect(VERDICT_LABELS.too_few_steps).toBe('Too few steps to judge');
@@ -149,14 +209,20 @@ describe('[pub] Dingenen et al. 2018: thresholds are for means of at least 7 ste
   });
 
   it('a measure without a threshold stays "no published threshold" whatever its steps', () => {
-    const rows = compareMeasures([clip(1, [measure('trunk_lean', 'right', 7, '°', 2)])], [clip(2, [measure('trunk_lean', 'right', 9, '°', 2)])]);
+    const rows = compareMeasures(
+      [clip(1, [measure('trunk_lean', 'right', 7, '°', 2)])],
+      [clip(2, [measure('trunk_lean', 'right', 9, '°', 2)])],
+    );
     expect(row(rows, 'trunk_lean', 'right').verdict).toBe('no_threshold');
   });
 });
 
 describe('visit means weighted by the steps of each clip', () => {
   it('[calc] clips of 2 steps at 4° and 8 steps at 9° → (2·4 + 8·9) / 10 = 8.0°, not the plain mean 6.5°', () => {
-    const visit = [clip(1, [measure('hip_extension_toe_off', 'right', 4, '°', 2)]), clip(2, [measure('hip_extension_toe_off', 'right', 9, '°', 8)])];
+    const visit = [
+      clip(1, [measure('hip_extension_toe_off', 'right', 4, '°', 2)]),
+      clip(2, [measure('hip_extension_toe_off', 'right', 9, '°', 8)]),
+    ];
     expect(visitMeans(visit).find((v) => v.key === 'hip_extension_toe_off')!.mean).toBeCloseTo((2 * 4 + 8 * 9) / 10, 12);
     const rows = compareMeasures(visit, visit);
     expect(row(rows, 'hip_extension_toe_off', 'right')).toMatchObject({ baselineSteps: 10, retestSteps: 10 });
@@ -165,7 +231,10 @@ describe('visit means weighted by the steps of each clip', () => {
   it('[calc] cadence pools the time of all steps: 10 steps of 0.35 s and 30 steps of 0.40 s → 60 ÷ 0.3875 s = 154.84 steps/min', () => {
     const pooled = 60 / ((10 * 0.35 + 30 * 0.4) / 40);
     expect(pooled).toBeCloseTo(154.84, 2);
-    const visit = [clip(1, [measure('cadence', null, 60 / 0.35, 'steps/min', 10)]), clip(2, [measure('cadence', null, 60 / 0.4, 'steps/min', 30)])];
+    const visit = [
+      clip(1, [measure('cadence', null, 60 / 0.35, 'steps/min', 10)]),
+      clip(2, [measure('cadence', null, 60 / 0.4, 'steps/min', 30)]),
+    ];
     expect(visitMeans(visit)[0]!.mean).toBeCloseTo(pooled, 9);
   });
 });

@@ -3,7 +3,14 @@
  * The timing layout is the REFERENCES.md worked example ([calc]) at 240 fps.
  */
 import { describe, expect, it } from 'vitest';
-import { buildGaitCycles, eventWarnings, makeFrameClock, MAX_EVENT_PROBLEMS, secondsBetween, validateEvents } from '../../../src/kinematics';
+import {
+  buildGaitCycles,
+  eventWarnings,
+  makeFrameClock,
+  MAX_EVENT_PROBLEMS,
+  secondsBetween,
+  validateEvents,
+} from '../../../src/kinematics';
 import { ev, timingExampleEvents } from './helpers';
 
 describe('validateEvents', () => {
@@ -38,13 +45,21 @@ describe('validateEvents', () => {
     expect(validateEvents([ev(0, 'right', 'initial_contact'), ev(60, 'right', 'toe_off'), ev(100, 'right', 'midstance')], 1000)).toEqual([
       'Right midstance at frame 100 falls after toe-off (frame 60) and before the next initial contact: midstance belongs inside a stance.',
     ]);
-    expect(validateEvents([ev(0, 'right', 'initial_contact'), ev(20, 'right', 'midstance'), ev(30, 'right', 'midstance'), ev(60, 'right', 'toe_off')], 1000)).toEqual([
-      'Right side: two midstances in one stance (frames 20 and 30).',
-    ]);
+    expect(
+      validateEvents(
+        [ev(0, 'right', 'initial_contact'), ev(20, 'right', 'midstance'), ev(30, 'right', 'midstance'), ev(60, 'right', 'toe_off')],
+        1000,
+      ),
+    ).toEqual(['Right side: two midstances in one stance (frames 20 and 30).']);
   });
 
   it('lists frames outside the clip, fractional frames and unknown kinds — returns, never throws', () => {
-    const bad = [ev(-1, 'left', 'toe_off'), ev(100, 'left', 'toe_off'), ev(2.5, 'right', 'initial_contact'), { frame: 3, side: 'up', kind: 'jump' } as never];
+    const bad = [
+      ev(-1, 'left', 'toe_off'),
+      ev(100, 'left', 'toe_off'),
+      ev(2.5, 'right', 'initial_contact'),
+      { frame: 3, side: 'up', kind: 'jump' } as never,
+    ];
     const problems = validateEvents(bad, 100);
     expect(problems).toEqual([
       'Left toe-off at frame -1 is outside the clip (frames 0–99).',
@@ -117,13 +132,24 @@ describe('buildGaitCycles — [calc] worked example, REFERENCES.md (stride 168, 
     const right = timingExampleEvents(5).filter((e) => e.side === 'right' && !(e.frame === 504 || e.frame === 564));
     const g = buildGaitCycles(right);
     expect(g.strides.map((s) => s.nextIcFrame - s.icFrame)).toEqual([168, 168, 168]);
-    expect(g.excluded.join(' ')).toMatch(/Right stride at frames 336–672 left out: 336 frames is more than 1\.5 × the median stride \(168 frames\)/);
+    expect(g.excluded.join(' ')).toMatch(
+      /Right stride at frames 336–672 left out: 336 frames is more than 1\.5 × the median stride \(168 frames\)/,
+    );
   });
 
   it('warns about stance overlap (double support) and same-frame contacts of both sides', () => {
-    const w = eventWarnings([ev(0, 'right', 'initial_contact'), ev(60, 'right', 'toe_off'), ev(40, 'left', 'initial_contact'), ev(100, 'left', 'toe_off')]);
-    expect(w).toEqual(['Left and right stance overlap at frames 40–60 (both feet down). Running has no double support: check the sides of those events.']);
-    expect(eventWarnings([ev(5, 'right', 'initial_contact'), ev(5, 'left', 'initial_contact')])[0]).toBe('Left and right initial contact are both on frame 5.');
+    const w = eventWarnings([
+      ev(0, 'right', 'initial_contact'),
+      ev(60, 'right', 'toe_off'),
+      ev(40, 'left', 'initial_contact'),
+      ev(100, 'left', 'toe_off'),
+    ]);
+    expect(w).toEqual([
+      'Left and right stance overlap at frames 40–60 (both feet down). Running has no double support: check the sides of those events.',
+    ]);
+    expect(eventWarnings([ev(5, 'right', 'initial_contact'), ev(5, 'left', 'initial_contact')])[0]).toBe(
+      'Left and right initial contact are both on frame 5.',
+    );
     expect(eventWarnings(timingExampleEvents(2))).toEqual([]);
   });
 });
@@ -142,7 +168,9 @@ describe('makeFrameClock', () => {
   });
   it('falls back to fps, saying why, when timestamps are short or not increasing', () => {
     expect(makeFrameClock(240, [0, 4, 8], 10).fallbackReason).toBe('timestamps cover frames 0–2 but events or landmarks reach frame 10');
-    expect(makeFrameClock(240, [0, 4, 4, 12], 3).fallbackReason).toBe("timestamp of frame 2 is not a finite number later than the previous frame's");
+    expect(makeFrameClock(240, [0, 4, 4, 12], 3).fallbackReason).toBe(
+      "timestamp of frame 2 is not a finite number later than the previous frame's",
+    );
     expect(makeFrameClock(240, [], 3).source).toBe('fps');
   });
 });

@@ -42,7 +42,12 @@ export function timingExampleEvents(strides: number, start = 0): GaitEventMark[]
   const out: GaitEventMark[] = [];
   for (let k = 0; k < strides; k++) {
     const b = start + k * 168;
-    out.push(ev(b, 'right', 'initial_contact'), ev(b + 60, 'right', 'toe_off'), ev(b + 84, 'left', 'initial_contact'), ev(b + 144, 'left', 'toe_off'));
+    out.push(
+      ev(b, 'right', 'initial_contact'),
+      ev(b + 60, 'right', 'toe_off'),
+      ev(b + 84, 'left', 'initial_contact'),
+      ev(b + 144, 'left', 'toe_off'),
+    );
   }
   out.push(ev(start + strides * 168, 'right', 'initial_contact'));
   return out;

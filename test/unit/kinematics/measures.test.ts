@@ -7,10 +7,19 @@ import { describe, expect, it } from 'vitest';
 import type { FrameLandmarks, GaitEventMark, LandmarkName, ScaleBar } from '../../../src/contracts/annotations';
 import type { Direction, Side } from '../../../src/contracts/assessment';
 import type { ClipMeasures, Measure, MeasureKey } from '../../../src/contracts/measures';
-import { computeClipMeasures, DEFAULT_REFERENCE_BANDS, KINEMATICS_VERSION, MEASURE_DEFINITIONS, MEASURE_KEYS, type ClipMeasureInput } from '../../../src/kinematics';
+import {
+  computeClipMeasures,
+  DEFAULT_REFERENCE_BANDS,
+  KINEMATICS_VERSION,
+  MEASURE_DEFINITIONS,
+  MEASURE_KEYS,
+  type ClipMeasureInput,
+} from '../../../src/kinematics';
 import { ev, H, IC_POSE, landmarksAt, SCALE_1M_400PX, TO_POSE, timingExampleEvents, W, type MetrePose } from './helpers';
 
-const input = (over: Partial<ClipMeasureInput> & { events?: GaitEventMark[]; landmarks?: FrameLandmarks[]; scale?: ScaleBar | null } = {}): ClipMeasureInput => {
+const input = (
+  over: Partial<ClipMeasureInput> & { events?: GaitEventMark[]; landmarks?: FrameLandmarks[]; scale?: ScaleBar | null } = {},
+): ClipMeasureInput => {
   const { events = [], landmarks = [], scale = null, ...rest } = over;
   return {
     clipId: 7,
@@ -99,14 +108,19 @@ describe('cadence = 60 ÷ mean step time (steps per minute), uneven steps', () =
     const out: GaitEventMark[] = [];
     for (let k = 0; k < strides; k++) {
       const b = k * 22;
-      out.push(ev(b, 'right', 'initial_contact'), ev(b + 5, 'right', 'toe_off'), ev(b + 9, 'left', 'initial_contact'), ev(b + 14, 'left', 'toe_off'));
+      out.push(
+        ev(b, 'right', 'initial_contact'),
+        ev(b + 5, 'right', 'toe_off'),
+        ev(b + 9, 'left', 'initial_contact'),
+        ev(b + 14, 'left', 'toe_off'),
+      );
     }
     out.push(ev(strides * 22, 'right', 'initial_contact'));
     return out;
   };
   const at30 = (events: GaitEventMark[]) => computeClipMeasures(input({ events, fps: 30 }));
 
-  it('[calc] the issue\'s example: 30 fps, steps of 9 and 13 frames → 163.64 steps/min with both sides, one side, or the other', () => {
+  it("[calc] the issue's example: 30 fps, steps of 9 and 13 frames → 163.64 steps/min with both sides, one side, or the other", () => {
     // Independent recomputation: mean step (9 + 13) / 2 = 11 frames = 11/30 s; 60 ÷ (11/30) = 163.636…
     const expected = 60 / (11 / 30);
     expect(expected).toBeCloseTo(163.64, 2);
@@ -136,8 +150,13 @@ describe('cadence = 60 ÷ mean step time (steps per minute), uneven steps', () =
   it('an odd number of uneven steps: cadence is 60 ÷ the mean of exactly the steps marked (9, 13, 9 frames → 31/3)', () => {
     // Both sides, three steps: right IC 0 → left IC 9 → right IC 22 → left IC 31.
     const events = [
-      ev(0, 'right', 'initial_contact'), ev(5, 'right', 'toe_off'), ev(9, 'left', 'initial_contact'), ev(14, 'left', 'toe_off'),
-      ev(22, 'right', 'initial_contact'), ev(27, 'right', 'toe_off'), ev(31, 'left', 'initial_contact'),
+      ev(0, 'right', 'initial_contact'),
+      ev(5, 'right', 'toe_off'),
+      ev(9, 'left', 'initial_contact'),
+      ev(14, 'left', 'toe_off'),
+      ev(22, 'right', 'initial_contact'),
+      ev(27, 'right', 'toe_off'),
+      ev(31, 'left', 'initial_contact'),
     ];
     const r = at30(events);
     expect(get(r, 'cadence').n).toBe(3);
@@ -176,43 +195,54 @@ function workedClip(direction: Direction, strides = 4) {
   return input({ events, landmarks, scale: SCALE_1M_400PX, direction });
 }
 
-describe.each(['left_to_right', 'right_to_left'] as const)('[calc] worked example, REFERENCES.md — angles at events end to end, %s', (direction) => {
-  const r = computeClipMeasures(workedClip(direction));
-  it.each(['left', 'right'] as const)('%s: hip extension at toe-off 22.521° (thigh −22.521°), relative to trunk 12.317° (hip rel trunk −12.317°)', (side) => {
-    expect(get(r, 'hip_extension_toe_off', side)).toMatchObject({ status: 'ok', n: 4, unit: '°', event: 'toe_off' });
-    expect(get(r, 'hip_extension_toe_off', side).mean).toBeCloseTo(22.521, 3);
-    expect(get(r, 'hip_extension_toe_off_rel_trunk', side).mean).toBeCloseTo(12.317, 3);
-    expect(get(r, 'hip_extension_toe_off', side).band?.position).toBe('within'); // ≥ 10° [trade]
-  });
-  it.each(['left', 'right'] as const)('%s: knee flexion 12.529°, shank 14.036°, foot 14.744° (rearfoot), heel ahead of hip 0.260 m at initial contact', (side) => {
-    const ic = side === 'right' ? 5 : 4;
-    expect(get(r, 'knee_flexion_initial_contact', side)).toMatchObject({ status: 'ok', n: ic, event: 'initial_contact' });
-    expect(get(r, 'knee_flexion_initial_contact', side).mean).toBeCloseTo(12.529, 3);
-    expect(get(r, 'knee_flexion_initial_contact', side).band?.position).toBe('below'); // under 17.8 − 4.0 [pub Heiderscheit 2011]
-    expect(get(r, 'shank_angle_initial_contact', side).mean).toBeCloseTo(14.036, 3);
-    const foot = get(r, 'foot_angle_initial_contact', side);
-    expect(foot.mean).toBeCloseTo(14.744, 3);
-    expect(foot.derivation).toContain(`Contacts: ${ic} rearfoot; the mean classifies as rearfoot.`);
-    expect(get(r, 'heel_ahead_of_hip_initial_contact', side).mean).toBeCloseTo(0.26, 6);
-    expect(get(r, 'heel_ahead_of_hip_initial_contact', side).unit).toBe('m');
-  });
-  it('trunk lean over stance = mean of the marked stance frames: (11.310° + 10.204°) ÷ 2', () => {
-    expect(get(r, 'trunk_lean', 'right').mean).toBeCloseTo((11.31 + 10.204) / 2, 3);
-    expect(get(r, 'trunk_lean', 'right').band?.position).toBe('within'); // 7.3 ± 3.6 [pub Teng & Powers 2014]
-  });
-  it('peak knee flexion is not given from event frames alone (the peak would be missed)', () => {
-    expect(get(r, 'knee_flexion_peak_stance', 'right').status).toBe('not_enough_data');
-    expect(get(r, 'knee_flexion_peak_stance', 'right').missing).toMatch(/not marked densely enough/);
-  });
-  it('hip-extension symmetry 0 %; per-frame angle samples for the chart', () => {
-    expect(get(r, 'symmetry_hip_extension_toe_off').mean).toBeCloseTo(0, 9);
-    const s = r.angles.find((a) => a.frame === 60 && a.side === 'right')!;
-    expect(s.timeMs).toBeCloseTo(250, 9);
-    expect(s.thighDeg).toBeCloseTo(-22.521, 3);
-    expect(s.footDeg).toBeUndefined(); // the toe-off pose has no heel or toe
-    expect(r.angles.every((a, i, all) => i === 0 || a.frame > all[i - 1]!.frame || (a.frame === all[i - 1]!.frame && a.side === 'right'))).toBe(true);
-  });
-});
+describe.each(['left_to_right', 'right_to_left'] as const)(
+  '[calc] worked example, REFERENCES.md — angles at events end to end, %s',
+  (direction) => {
+    const r = computeClipMeasures(workedClip(direction));
+    it.each(['left', 'right'] as const)(
+      '%s: hip extension at toe-off 22.521° (thigh −22.521°), relative to trunk 12.317° (hip rel trunk −12.317°)',
+      (side) => {
+        expect(get(r, 'hip_extension_toe_off', side)).toMatchObject({ status: 'ok', n: 4, unit: '°', event: 'toe_off' });
+        expect(get(r, 'hip_extension_toe_off', side).mean).toBeCloseTo(22.521, 3);
+        expect(get(r, 'hip_extension_toe_off_rel_trunk', side).mean).toBeCloseTo(12.317, 3);
+        expect(get(r, 'hip_extension_toe_off', side).band?.position).toBe('within'); // ≥ 10° [trade]
+      },
+    );
+    it.each(['left', 'right'] as const)(
+      '%s: knee flexion 12.529°, shank 14.036°, foot 14.744° (rearfoot), heel ahead of hip 0.260 m at initial contact',
+      (side) => {
+        const ic = side === 'right' ? 5 : 4;
+        expect(get(r, 'knee_flexion_initial_contact', side)).toMatchObject({ status: 'ok', n: ic, event: 'initial_contact' });
+        expect(get(r, 'knee_flexion_initial_contact', side).mean).toBeCloseTo(12.529, 3);
+        expect(get(r, 'knee_flexion_initial_contact', side).band?.position).toBe('below'); // under 17.8 − 4.0 [pub Heiderscheit 2011]
+        expect(get(r, 'shank_angle_initial_contact', side).mean).toBeCloseTo(14.036, 3);
+        const foot = get(r, 'foot_angle_initial_contact', side);
+        expect(foot.mean).toBeCloseTo(14.744, 3);
+        expect(foot.derivation).toContain(`Contacts: ${ic} rearfoot; the mean classifies as rearfoot.`);
+        expect(get(r, 'heel_ahead_of_hip_initial_contact', side).mean).toBeCloseTo(0.26, 6);
+        expect(get(r, 'heel_ahead_of_hip_initial_contact', side).unit).toBe('m');
+      },
+    );
+    it('trunk lean over stance = mean of the marked stance frames: (11.310° + 10.204°) ÷ 2', () => {
+      expect(get(r, 'trunk_lean', 'right').mean).toBeCloseTo((11.31 + 10.204) / 2, 3);
+      expect(get(r, 'trunk_lean', 'right').band?.position).toBe('within'); // 7.3 ± 3.6 [pub Teng & Powers 2014]
+    });
+    it('peak knee flexion is not given from event frames alone (the peak would be missed)', () => {
+      expect(get(r, 'knee_flexion_peak_stance', 'right').status).toBe('not_enough_data');
+      expect(get(r, 'knee_flexion_peak_stance', 'right').missing).toMatch(/not marked densely enough/);
+    });
+    it('hip-extension symmetry 0 %; per-frame angle samples for the chart', () => {
+      expect(get(r, 'symmetry_hip_extension_toe_off').mean).toBeCloseTo(0, 9);
+      const s = r.angles.find((a) => a.frame === 60 && a.side === 'right')!;
+      expect(s.timeMs).toBeCloseTo(250, 9);
+      expect(s.thighDeg).toBeCloseTo(-22.521, 3);
+      expect(s.footDeg).toBeUndefined(); // the toe-off pose has no heel or toe
+      expect(
+        r.angles.every((a, i, all) => i === 0 || a.frame > all[i - 1]!.frame || (a.frame === all[i - 1]!.frame && a.side === 'right')),
+      ).toBe(true);
+    });
+  },
+);
 
 describe('dense marking: peak knee flexion and vertical oscillation', () => {
   /** Knee flexion φ(f) = 20° + 25°·sin(π·(f − IC)/60) through each right stance (thigh vertical), hip bobbing 3 cm. */
@@ -226,7 +256,12 @@ describe('dense marking: peak knee flexion and vertical oscillation', () => {
       const hipY = 0.9 + 0.03 * Math.cos((2 * Math.PI * f) / 84);
       const knee = { x: 0, y: hipY - 0.45 };
       landmarks.push(
-        landmarksAt(f, 'right', { hip: { x: 0, y: hipY }, knee, ankle: { x: -0.43 * Math.sin(r), y: knee.y - 0.43 * Math.cos(r) } }, 'left_to_right'),
+        landmarksAt(
+          f,
+          'right',
+          { hip: { x: 0, y: hipY }, knee, ankle: { x: -0.43 * Math.sin(r), y: knee.y - 0.43 * Math.cos(r) } },
+          'left_to_right',
+        ),
       );
     }
     return input({ events, landmarks, scale: SCALE_1M_400PX });
@@ -252,18 +287,26 @@ describe('lengths overground and symmetry', () => {
   it('[calc] overground at 3.0 m/s: hip travel gives step 1.050 m and stride 2.100 m with the scale bar', () => {
     const events = timingExampleEvents(1);
     const landmarks = events.map((e) => landmarksAt(e.frame, e.side, IC_POSE, 'right_to_left', -1.5 + (3 * e.frame) / 240));
-    const r = computeClipMeasures(input({ events, landmarks, scale: SCALE_1M_400PX, surface: 'track', beltSpeedMps: null, direction: 'right_to_left' }));
+    const r = computeClipMeasures(
+      input({ events, landmarks, scale: SCALE_1M_400PX, surface: 'track', beltSpeedMps: null, direction: 'right_to_left' }),
+    );
     expect(get(r, 'step_length').mean).toBeCloseTo(1.05, 6);
     expect(get(r, 'stride_length').mean).toBeCloseTo(2.1, 6);
     expect(get(r, 'step_length').derivation).toMatch(/stride length ÷ 2/); // each event frame holds only its own side's hip
     // With both sides marked on every event frame, each step has one marker on both frames.
-    const both = events.flatMap((e) => (['left', 'right'] as const).map((s) => landmarksAt(e.frame, s, IC_POSE, 'right_to_left', -1.5 + (3 * e.frame) / 240)));
-    const b = computeClipMeasures(input({ events, landmarks: both, scale: SCALE_1M_400PX, surface: 'track', beltSpeedMps: null, direction: 'right_to_left' }));
+    const both = events.flatMap((e) =>
+      (['left', 'right'] as const).map((s) => landmarksAt(e.frame, s, IC_POSE, 'right_to_left', -1.5 + (3 * e.frame) / 240)),
+    );
+    const b = computeClipMeasures(
+      input({ events, landmarks: both, scale: SCALE_1M_400PX, surface: 'track', beltSpeedMps: null, direction: 'right_to_left' }),
+    );
     expect(get(b, 'step_length')).toMatchObject({ status: 'ok', n: 2 });
     expect(get(b, 'step_length').mean).toBeCloseTo(1.05, 6);
     expect(get(b, 'step_length').derivation).not.toMatch(/÷ 2/);
     // The same clip read with the wrong direction: the hip moves backwards → left out, said so.
-    const wrong = computeClipMeasures(input({ events, landmarks, scale: SCALE_1M_400PX, surface: 'track', beltSpeedMps: null, direction: 'left_to_right' }));
+    const wrong = computeClipMeasures(
+      input({ events, landmarks, scale: SCALE_1M_400PX, surface: 'track', beltSpeedMps: null, direction: 'left_to_right' }),
+    );
     expect(get(wrong, 'stride_length').status).toBe('not_enough_data');
     expect(get(wrong, 'step_length').derivation).toMatch(/hip moved backwards/);
   });
@@ -286,12 +329,16 @@ describe('lengths overground and symmetry', () => {
     const c = workedClip('left_to_right', 2);
     // Left toe-off: thigh at +5° flexion (no extension).
     c.annotations.landmarks = c.annotations.landmarks.map((l) =>
-      l.side === 'left' && [144, 312].includes(l.frame) ? landmarksAt(l.frame, 'left', { ...TO_POSE, knee: { x: 0.0359, y: 0.51 } }, 'left_to_right') : l,
+      l.side === 'left' && [144, 312].includes(l.frame)
+        ? landmarksAt(l.frame, 'left', { ...TO_POSE, knee: { x: 0.0359, y: 0.51 } }, 'left_to_right')
+        : l,
     );
     const r = computeClipMeasures(c);
     expect(get(r, 'hip_extension_toe_off', 'left').mean).toBeLessThan(0);
     expect(get(r, 'symmetry_hip_extension_toe_off').status).toBe('not_enough_data');
-    expect(get(r, 'symmetry_hip_extension_toe_off').missing).toMatch(/undefined when a side's mean hip extension at toe-off is zero or negative/);
+    expect(get(r, 'symmetry_hip_extension_toe_off').missing).toMatch(
+      /undefined when a side's mean hip extension at toe-off is zero or negative/,
+    );
   });
 });
 
@@ -343,7 +390,12 @@ const eventArb = fc.record({
   kind: fc.constantFrom('initial_contact', 'midstance', 'toe_off' as const),
 });
 const scaleArb = fc.option(
-  fc.record({ frame: fc.constant(0), a: fc.record({ x: maybeCoord, y: maybeCoord }), b: fc.record({ x: maybeCoord, y: maybeCoord }), lengthM: fc.double({ min: 0, max: 5 }) }),
+  fc.record({
+    frame: fc.constant(0),
+    a: fc.record({ x: maybeCoord, y: maybeCoord }),
+    b: fc.record({ x: maybeCoord, y: maybeCoord }),
+    lengthM: fc.double({ min: 0, max: 5 }),
+  }),
 );
 
 describe('fast-check properties of computeClipMeasures', () => {
@@ -358,7 +410,9 @@ describe('fast-check properties of computeClipMeasures', () => {
         fc.option(fc.double({ min: 0, max: 8, noNaN: true })),
         fc.constantFrom(240, 30, 0),
         (landmarks, events, scale, direction, surface, belt, fps) => {
-          const r = computeClipMeasures(input({ landmarks: landmarks as FrameLandmarks[], events, scale, direction, surface, beltSpeedMps: belt, fps }));
+          const r = computeClipMeasures(
+            input({ landmarks: landmarks as FrameLandmarks[], events, scale, direction, surface, beltSpeedMps: belt, fps }),
+          );
           expect(r.measures.length).toBe(MEASURE_KEYS.reduce((n, k) => n + (MEASURE_DEFINITIONS[k].perSide ? 2 : 1), 0));
           for (const m of r.measures) {
             if (m.status === 'ok') {
@@ -384,7 +438,13 @@ describe('fast-check properties of computeClipMeasures', () => {
   it('removing one landmark everywhere turns exactly the measures that need it into not_enough_data', () => {
     const needs: Record<LandmarkName, MeasureKey[]> = {
       shoulder: ['hip_extension_toe_off_rel_trunk', 'trunk_lean'],
-      hip: ['hip_extension_toe_off', 'hip_extension_toe_off_rel_trunk', 'knee_flexion_initial_contact', 'trunk_lean', 'heel_ahead_of_hip_initial_contact'],
+      hip: [
+        'hip_extension_toe_off',
+        'hip_extension_toe_off_rel_trunk',
+        'knee_flexion_initial_contact',
+        'trunk_lean',
+        'heel_ahead_of_hip_initial_contact',
+      ],
       knee: ['hip_extension_toe_off', 'hip_extension_toe_off_rel_trunk', 'knee_flexion_initial_contact', 'shank_angle_initial_contact'],
       ankle: ['knee_flexion_initial_contact', 'shank_angle_initial_contact'],
       heel: ['foot_angle_initial_contact', 'heel_ahead_of_hip_initial_contact'],
@@ -400,7 +460,12 @@ describe('fast-check properties of computeClipMeasures', () => {
         });
         const r = computeClipMeasures(c);
         for (const key of needs[drop]) expect(get(r, key, 'right').status).toBe('not_enough_data');
-        const unaffected = ['hip_extension_toe_off', 'knee_flexion_initial_contact', 'shank_angle_initial_contact', 'foot_angle_initial_contact'] as MeasureKey[];
+        const unaffected = [
+          'hip_extension_toe_off',
+          'knee_flexion_initial_contact',
+          'shank_angle_initial_contact',
+          'foot_angle_initial_contact',
+        ] as MeasureKey[];
         for (const key of unaffected.filter((k) => !needs[drop].includes(k))) expect(get(r, key, 'right').status).toBe('ok');
       }),
     );
@@ -419,9 +484,18 @@ describe('fast-check properties of computeClipMeasures', () => {
         }));
         const a = computeClipMeasures(base);
         const b = computeClipMeasures(scaled);
-        for (const key of ['hip_extension_toe_off', 'hip_extension_toe_off_rel_trunk', 'knee_flexion_initial_contact', 'foot_angle_initial_contact', 'trunk_lean'] as const)
+        for (const key of [
+          'hip_extension_toe_off',
+          'hip_extension_toe_off_rel_trunk',
+          'knee_flexion_initial_contact',
+          'foot_angle_initial_contact',
+          'trunk_lean',
+        ] as const)
           expect(get(b, key, 'right').mean).toBeCloseTo(get(a, key, 'right').mean!, 9);
-        expect(get(b, 'heel_ahead_of_hip_initial_contact', 'right').mean).toBeCloseTo(k * get(a, 'heel_ahead_of_hip_initial_contact', 'right').mean!, 9);
+        expect(get(b, 'heel_ahead_of_hip_initial_contact', 'right').mean).toBeCloseTo(
+          k * get(a, 'heel_ahead_of_hip_initial_contact', 'right').mean!,
+          9,
+        );
       }),
     );
   });
@@ -429,7 +503,11 @@ describe('fast-check properties of computeClipMeasures', () => {
   it('a right-to-left clip (mirror image, same events) gives the same measures as the left-to-right one', () => {
     fc.assert(
       fc.property(fc.double({ min: -0.3, max: 0.3, noNaN: true }), fc.double({ min: -0.2, max: 0.2, noNaN: true }), (kneeDx, toeDy) => {
-        const pose = (base: MetrePose): MetrePose => ({ ...base, knee: { x: base.knee!.x + kneeDx, y: base.knee!.y }, ...(base.toe ? { toe: { x: base.toe.x, y: base.toe.y + toeDy } } : {}) });
+        const pose = (base: MetrePose): MetrePose => ({
+          ...base,
+          knee: { x: base.knee!.x + kneeDx, y: base.knee!.y },
+          ...(base.toe ? { toe: { x: base.toe.x, y: base.toe.y + toeDy } } : {}),
+        });
         const build = (d: Direction) => {
           const c = workedClip(d, 2);
           c.annotations.landmarks = c.annotations.events

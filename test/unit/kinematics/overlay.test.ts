@@ -105,7 +105,10 @@ const opts = (landmarks: FrameLandmarks[], over: Partial<OverlayOptions> = {}): 
 describe('drawOverlay on a recording fake context', () => {
   it('[calc] IC worked example: draws without throwing, balanced save/restore, labels "26.6° flex", "12.5°", "0.7° DF"', () => {
     const ctx = new RecordingContext();
-    drawOverlay(ctx, opts(frameOf(IC_POSE, 'left_to_right', TO_POSE), { scale: SCALE_1M_400PX, selected: { side: 'right', landmark: 'knee' } }));
+    drawOverlay(
+      ctx,
+      opts(frameOf(IC_POSE, 'left_to_right', TO_POSE), { scale: SCALE_1M_400PX, selected: { side: 'right', landmark: 'knee' } }),
+    );
     expect(ctx.depth).toBe(0);
     expect(ctx.maxDepth).toBe(1);
     expect(ctx.texts()).toEqual(['26.6° flex', '12.5°', '0.7° DF', '1.00 m']);
@@ -120,9 +123,13 @@ describe('drawOverlay on a recording fake context', () => {
     const styles = new Set(strokes.map((c) => c.state['strokeStyle']));
     for (const c of ['#E08A1E', '#7B4FD6', '#3E4C59']) expect(styles.has(c)).toBe(true);
     const leftLines = strokes.filter((c) => c.state['strokeStyle'] === '#7B4FD6');
-    const rightLines = strokes.filter((c) => c.state['strokeStyle'] === '#E08A1E' && c.state['globalAlpha'] === 1 && c.state['lineWidth'] !== undefined);
+    const rightLines = strokes.filter(
+      (c) => c.state['strokeStyle'] === '#E08A1E' && c.state['globalAlpha'] === 1 && c.state['lineWidth'] !== undefined,
+    );
     expect(leftLines.every((c) => c.state['globalAlpha'] === 0.5)).toBe(true);
-    expect(Math.max(...leftLines.map((c) => c.state['lineWidth'] as number))).toBeLessThan(Math.max(...rightLines.map((c) => c.state['lineWidth'] as number)));
+    expect(Math.max(...leftLines.map((c) => c.state['lineWidth'] as number))).toBeLessThan(
+      Math.max(...rightLines.map((c) => c.state['lineWidth'] as number)),
+    );
     const markerFills = ctx.calls.filter((c) => c.op === 'fill').map((c) => c.state['fillStyle']);
     expect(markerFills.filter((f) => f === OVERLAY_COLOURS.right)).toHaveLength(6);
     expect(markerFills.filter((f) => f === OVERLAY_COLOURS.left)).toHaveLength(4);
@@ -149,7 +156,9 @@ describe('drawOverlay on a recording fake context', () => {
 
 describe('label numbers equal the computed measures, rounded to 1 decimal', () => {
   const events = timingExampleEvents(1);
-  const landmarks = events.map((e) => landmarksAt(e.frame, e.side, (e.kind === 'initial_contact' ? IC_POSE : TO_POSE) as MetrePose, 'right_to_left'));
+  const landmarks = events.map((e) =>
+    landmarksAt(e.frame, e.side, (e.kind === 'initial_contact' ? IC_POSE : TO_POSE) as MetrePose, 'right_to_left'),
+  );
   const m = computeClipMeasures({
     clipId: 1,
     annotations: { landmarks, events, scale: SCALE_1M_400PX },
@@ -162,7 +171,12 @@ describe('label numbers equal the computed measures, rounded to 1 decimal', () =
   });
   const measure = (key: string) => m.measures.find((x) => x.key === key && x.side === 'right')!;
   const layout = (frame: number) =>
-    overlayLabelPositions(opts(landmarks.filter((l) => l.frame === frame), { direction: 'right_to_left' }));
+    overlayLabelPositions(
+      opts(
+        landmarks.filter((l) => l.frame === frame),
+        { direction: 'right_to_left' },
+      ),
+    );
 
   it('[calc] toe-off: hip label "22.5° ext" = hip extension at toe-off 22.521° → 22.5; knee "26.9°" = 26.878°', () => {
     const to = layout(60).angles;
@@ -200,12 +214,18 @@ describe('label numbers equal the computed measures, rounded to 1 decimal', () =
 
 describe('overlayLabelPositions (pure layout, frame pixels)', () => {
   it('markers sit at fraction × frame size; the selected one is flagged; far-side markers are smaller', () => {
-    const L = overlayLabelPositions(opts(frameOf(IC_POSE, 'left_to_right', TO_POSE), { selected: { side: 'left', landmark: 'knee' }, markerRadiusPx: 6 }));
+    const L = overlayLabelPositions(
+      opts(frameOf(IC_POSE, 'left_to_right', TO_POSE), { selected: { side: 'left', landmark: 'knee' }, markerRadiusPx: 6 }),
+    );
     const hip = L.markers.find((m) => m.side === 'right' && m.landmark === 'hip')!;
     expect(hip.x).toBeCloseTo(640, 9); // hip at x = 0 m → column 640
     expect(hip.y).toBeCloseTo(680 - 0.9 * 400, 9);
     expect(hip.radius).toBe(6);
-    expect(L.markers.find((m) => m.side === 'left' && m.landmark === 'knee')).toMatchObject({ selected: true, near: false, radius: expect.closeTo(4.8, 9) });
+    expect(L.markers.find((m) => m.side === 'left' && m.landmark === 'knee')).toMatchObject({
+      selected: true,
+      near: false,
+      radius: expect.closeTo(4.8, 9),
+    });
     expect(L.markers.filter((m) => m.selected)).toHaveLength(1);
     expect(L.segments.map((s) => `${s.side}:${s.from}-${s.to}`)).toEqual([
       'left:shoulder-hip',
@@ -258,7 +278,14 @@ describe('overlayLabelPositions (pure layout, frame pixels)', () => {
   it('angle arcs for the far side only when asked (angleSides: both)', () => {
     const lm = frameOf(IC_POSE, 'left_to_right', IC_POSE);
     expect(overlayLabelPositions(opts(lm)).angles.every((a) => a.side === 'right')).toBe(true);
-    expect(overlayLabelPositions(opts(lm, { angleSides: 'both' })).angles.map((a) => a.side)).toEqual(['left', 'left', 'left', 'right', 'right', 'right']);
+    expect(overlayLabelPositions(opts(lm, { angleSides: 'both' })).angles.map((a) => a.side)).toEqual([
+      'left',
+      'left',
+      'left',
+      'right',
+      'right',
+      'right',
+    ]);
   });
 
   it('formatAngleLabel: signs become words, half away from zero, no "−0.0"', () => {
@@ -282,7 +309,10 @@ describe('@napi-rs/canvas (the server renderer) and the browser context fit Canv
     const ctx = canvas.getContext('2d');
     ctx.fillStyle = '#000000';
     ctx.fillRect(0, 0, W, H);
-    const o = opts(frameOf(IC_POSE, 'left_to_right', { ...TO_POSE, hip: { x: -0.3, y: 0.92 } }), { scale: SCALE_1M_400PX, markerRadiusPx: 8 });
+    const o = opts(frameOf(IC_POSE, 'left_to_right', { ...TO_POSE, hip: { x: -0.3, y: 0.92 } }), {
+      scale: SCALE_1M_400PX,
+      markerRadiusPx: 8,
+    });
     drawOverlay(ctx, o);
     const L = overlayLabelPositions(o);
     const px = (side: string, name: string) => {
@@ -312,7 +342,14 @@ describe('overlay sizes in view pixels (viewScale)', () => {
       const s = overlaySizes(frameSize, viewScale);
       expect(s.fontPx * viewScale).toBeCloseTo(VIEW_LABEL_PX, 9);
       expect(s.fontPx * viewScale).toBeGreaterThanOrEqual(MIN_VIEW_LABEL_PX);
-      const layout = overlayLabelPositions({ frameSize, landmarks: [], nearSide: 'right', direction: 'left_to_right', showAngles: true, viewScale });
+      const layout = overlayLabelPositions({
+        frameSize,
+        landmarks: [],
+        nearSide: 'right',
+        direction: 'left_to_right',
+        showAngles: true,
+        viewScale,
+      });
       expect(layout.style.font).toContain(`${s.fontPx}px`);
     }
     // Frame-following sizes: 2.6 % of the shorter side, as before (1080 → 28 px, i.e. ~7 px when shown at 0.25).
@@ -338,17 +375,32 @@ describe('overlay sizes in view pixels (viewScale)', () => {
 
 describe('angle labels never overlap', () => {
   it('fast-check: however small the frame is shown (labels in view pixels), no two label boxes intersect', () => {
-    const ic = [landmarksAt(0, 'right', IC_POSE as MetrePose, 'left_to_right'), landmarksAt(0, 'left', TO_POSE as MetrePose, 'left_to_right')];
+    const ic = [
+      landmarksAt(0, 'right', IC_POSE as MetrePose, 'left_to_right'),
+      landmarksAt(0, 'left', TO_POSE as MetrePose, 'left_to_right'),
+    ];
     fc.assert(
-      fc.property(fc.double({ min: 0.1, max: 2, noNaN: true }), fc.constantFrom<'near' | 'both'>('near', 'both'), (viewScale, angleSides) => {
-        const L = overlayLabelPositions({ frameSize: { width: W, height: H }, landmarks: ic, nearSide: 'right', direction: 'left_to_right', showAngles: true, viewScale, angleSides });
-        const boxes = L.angles.map((a) => labelBox(a, L.style.fontPx));
-        for (let i = 0; i < boxes.length; i++)
-          for (let j = 0; j < i; j++) {
-            const [a, b] = [boxes[i]!, boxes[j]!];
-            expect(a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom).toBe(false);
-          }
-      }),
+      fc.property(
+        fc.double({ min: 0.1, max: 2, noNaN: true }),
+        fc.constantFrom<'near' | 'both'>('near', 'both'),
+        (viewScale, angleSides) => {
+          const L = overlayLabelPositions({
+            frameSize: { width: W, height: H },
+            landmarks: ic,
+            nearSide: 'right',
+            direction: 'left_to_right',
+            showAngles: true,
+            viewScale,
+            angleSides,
+          });
+          const boxes = L.angles.map((a) => labelBox(a, L.style.fontPx));
+          for (let i = 0; i < boxes.length; i++)
+            for (let j = 0; j < i; j++) {
+              const [a, b] = [boxes[i]!, boxes[j]!];
+              expect(a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom).toBe(false);
+            }
+        },
+      ),
       { numRuns: 100 },
     );
   });

@@ -44,12 +44,14 @@ describe('weekly adherence (sessions done vs prescribed)', () => {
 
   it('property: done sums to the number of sessions up to the last week', () => {
     const offsets = fc.array(fc.integer({ min: 0, max: 40 }), { maxLength: 30 });
-    fc.assert(fc.property(offsets, fc.integer({ min: 1, max: 7 }), (days, perWeek) => {
-      const start = '2026-10-01';
-      const dates = days.map((d) => addDays(start, d));
-      const weeks = weeklyAdherence([{ start, end: null, sessionsPerWeek: perWeek }], dates, addDays(start, 40));
-      expect(weeks.reduce((s, w) => s + w.done, 0)).toBe(dates.length);
-      for (const w of weeks.slice(1)) expect(w.prescribed).toBe(perWeek);
-    }));
+    fc.assert(
+      fc.property(offsets, fc.integer({ min: 1, max: 7 }), (days, perWeek) => {
+        const start = '2026-10-01';
+        const dates = days.map((d) => addDays(start, d));
+        const weeks = weeklyAdherence([{ start, end: null, sessionsPerWeek: perWeek }], dates, addDays(start, 40));
+        expect(weeks.reduce((s, w) => s + w.done, 0)).toBe(dates.length);
+        for (const w of weeks.slice(1)) expect(w.prescribed).toBe(perWeek);
+      }),
+    );
   });
 });

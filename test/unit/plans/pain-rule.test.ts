@@ -28,27 +28,43 @@ describe('pain-monitoring rule (Silbernagel et al. 2007 [mem], from memory)', ()
     expect(kinds([log('2026-12-09', 4, 2)])).toEqual([]);
     const alerts = painAlerts([log('2026-12-08', 3, 1), log('2026-12-09', 4, 4)], DEFAULT_PAIN_RULE, TODAY);
     expect(alerts).toEqual([
-      { kind: 'not_settled', date: '2026-12-09', value: 4, limit: 2, message: 'Morning pain did not settle (≤ 2/10): 4/10 the morning after 9 Dec.' },
+      {
+        kind: 'not_settled',
+        date: '2026-12-09',
+        value: 4,
+        limit: 2,
+        message: 'Morning pain did not settle (≤ 2/10): 4/10 the morning after 9 Dec.',
+      },
     ]);
   });
 
-  it('from memory: the limit alert names the plan\'s limit and the session that went past it', () => {
+  it("from memory: the limit alert names the plan's limit and the session that went past it", () => {
     const [alert] = painAlerts([log('2026-12-08', 2, 1), log('2026-12-09', 6, 1)], DEFAULT_PAIN_RULE, TODAY);
-    expect(alert).toEqual({ kind: 'during_above_max', date: '2026-12-09', value: 6, limit: 5, message: "Pain 6/10 during on 9 Dec — above this plan's limit of 5/10." });
+    expect(alert).toEqual({
+      kind: 'during_above_max',
+      date: '2026-12-09',
+      value: 6,
+      limit: 5,
+      message: "Pain 6/10 during on 9 Dec — above this plan's limit of 5/10.",
+    });
   });
 
-  it('the reported case: one session at 3/10 inside the plan\'s 5/10 limit, after a 2/10 week, raises nothing', () => {
+  it("the reported case: one session at 3/10 inside the plan's 5/10 limit, after a 2/10 week, raises nothing", () => {
     // Week of 30 Nov: one session at 2/10; week of 7 Dec: one session at 3/10, settled next morning.
     // Inside the limit, settled, and one session a week is not a weekly trend: no alert.
     expect(kinds([log('2026-12-02', 2, 1), log('2026-12-08', 3, 1)])).toEqual([]);
     // Two sessions a week at 2 then 3 (mean 2 → 3, a rise of 1 point) is a trend, and says so.
-    expect(kinds([log('2026-11-30', 2, 1), log('2026-12-02', 2, 1), log('2026-12-08', 3, 1), log('2026-12-09', 3, 1)])).toEqual(['weekly_rise_during']);
+    expect(kinds([log('2026-11-30', 2, 1), log('2026-12-02', 2, 1), log('2026-12-08', 3, 1), log('2026-12-09', 3, 1)])).toEqual([
+      'weekly_rise_during',
+    ]);
   });
 
-  it('alerts follow the plan\'s own rule, not the default: a 3/10 limit fires at 4/10, a 7/10 limit does not at 6/10', () => {
+  it("alerts follow the plan's own rule, not the default: a 3/10 limit fires at 4/10, a 7/10 limit does not at 6/10", () => {
     const logs = [log('2026-12-09', 4, 1)];
     expect(kinds(logs, { ...DEFAULT_PAIN_RULE, maxDuring: 3 })).toEqual(['during_above_max']);
-    expect(painAlerts(logs, { ...DEFAULT_PAIN_RULE, maxDuring: 3 }, TODAY)[0]!.message).toBe("Pain 4/10 during on 9 Dec — above this plan's limit of 3/10.");
+    expect(painAlerts(logs, { ...DEFAULT_PAIN_RULE, maxDuring: 3 }, TODAY)[0]!.message).toBe(
+      "Pain 4/10 during on 9 Dec — above this plan's limit of 3/10.",
+    );
     expect(kinds([log('2026-12-09', 6, 1)], { ...DEFAULT_PAIN_RULE, maxDuring: 7 })).toEqual([]);
   });
 
@@ -70,13 +86,19 @@ describe('pain-monitoring rule (Silbernagel et al. 2007 [mem], from memory)', ()
     const logs = [log('2026-11-23', 2), log('2026-11-25', 2), log('2026-11-30', 4), log('2026-12-02', 4), log('2026-12-08', 3)];
     const alerts = painAlerts(logs, DEFAULT_PAIN_RULE, TODAY);
     expect(alerts).toEqual([
-      { kind: 'weekly_rise_during', date: '2026-11-30', value: 4, limit: 2, message: 'Weekly pain rising: 2 → 4 (mean pain during, week of 23 Nov → week of 30 Nov).' },
+      {
+        kind: 'weekly_rise_during',
+        date: '2026-11-30',
+        value: 4,
+        limit: 2,
+        message: 'Weekly pain rising: 2 → 4 (mean pain during, week of 23 Nov → week of 30 Nov).',
+      },
     ]);
     // A second session this week makes it the newer week: 4 → 3.5 is no rise.
     expect(kinds([...logs, log('2026-12-09', 4)])).toEqual([]);
   });
 
-  it('a rise under 1 point of the weekly mean is within the scale\'s resolution: no alert', () => {
+  it("a rise under 1 point of the weekly mean is within the scale's resolution: no alert", () => {
     // 2.5 → 3 (during) and 1 → 1.5 (morning): both rise by 0.5.
     expect(kinds([log('2026-11-30', 2, 1), log('2026-12-02', 3, 1), log('2026-12-08', 3, 1), log('2026-12-09', 3, 2)])).toEqual([]);
   });
@@ -116,25 +138,37 @@ describe('pain-monitoring rule (Silbernagel et al. 2007 [mem], from memory)', ()
 
   it('property: no alert ever fires when every score is 0', () => {
     const day = fc.integer({ min: -30, max: 0 }).map((n) => addDays(TODAY, n));
-    fc.assert(fc.property(fc.array(day, { maxLength: 30 }), (days) => {
-      expect(painAlerts(days.map((d) => log(d, 0, 0)), DEFAULT_PAIN_RULE, TODAY)).toEqual([]);
-    }));
+    fc.assert(
+      fc.property(fc.array(day, { maxLength: 30 }), (days) => {
+        expect(
+          painAlerts(
+            days.map((d) => log(d, 0, 0)),
+            DEFAULT_PAIN_RULE,
+            TODAY,
+          ),
+        ).toEqual([]);
+      }),
+    );
   });
 
   it('property: a week with a single session never raises a weekly-rise alert', () => {
     const score = fc.integer({ min: 0, max: 10 });
-    fc.assert(fc.property(fc.array(score, { minLength: 1, maxLength: 5 }), score, fc.integer({ min: 0, max: 3 }), (before, now, weekday) => {
-      const logs = [...before.map((p, i) => log(addDays('2026-11-30', i), p, p)), log(addDays('2026-12-07', weekday), now, now)];
-      expect(kinds(logs).filter((k) => k.startsWith('weekly_rise'))).toEqual([]);
-    }));
+    fc.assert(
+      fc.property(fc.array(score, { minLength: 1, maxLength: 5 }), score, fc.integer({ min: 0, max: 3 }), (before, now, weekday) => {
+        const logs = [...before.map((p, i) => log(addDays('2026-11-30', i), p, p)), log(addDays('2026-12-07', weekday), now, now)];
+        expect(kinds(logs).filter((k) => k.startsWith('weekly_rise'))).toEqual([]);
+      }),
+    );
   });
 
   it('property: an alert about the limit fires exactly when a recent score is above it', () => {
     const entry = fc.record({ offset: fc.integer({ min: 0, max: 6 }), during: fc.integer({ min: 0, max: 10 }) });
-    fc.assert(fc.property(fc.array(entry, { minLength: 1, maxLength: 20 }), fc.integer({ min: 0, max: 10 }), (entries, max) => {
-      const logs = entries.map((e) => log(addDays(TODAY, -e.offset), e.during));
-      const fired = kinds(logs, { ...DEFAULT_PAIN_RULE, maxDuring: max }).includes('during_above_max');
-      expect(fired).toBe(entries.some((e) => e.during > max));
-    }));
+    fc.assert(
+      fc.property(fc.array(entry, { minLength: 1, maxLength: 20 }), fc.integer({ min: 0, max: 10 }), (entries, max) => {
+        const logs = entries.map((e) => log(addDays(TODAY, -e.offset), e.during));
+        const fired = kinds(logs, { ...DEFAULT_PAIN_RULE, maxDuring: max }).includes('during_above_max');
+        expect(fired).toBe(entries.some((e) => e.during > max));
+      }),
+    );
   });
 });

@@ -14,7 +14,10 @@ const session = (date: string, painDuring: number, morningPain: number | null = 
   date,
   painDuring,
   morningPain,
-  sets: [{ setsPrescribed: 3, setsDone }, { setsPrescribed: 2, setsDone: Math.min(setsDone, 2) }],
+  sets: [
+    { setsPrescribed: 3, setsDone },
+    { setsPrescribed: 2, setsDone: Math.min(setsDone, 2) },
+  ],
 });
 const stage = (criteria: ProgressionCriterion[], startedAt: string | null = '2026-11-20T09:00:00.000Z') => ({ id: 7, criteria, startedAt });
 const TODAY = '2026-12-10';
@@ -58,8 +61,15 @@ describe('stage progression (invented plans)', () => {
   it('checks sets, session counts and weeks in the stage', () => {
     const logs = [session('2026-12-05', 2, 1, 3), session('2026-12-08', 2, 1, 2)];
     const r = evaluateProgression(
-      stage([{ kind: 'all_sets_done', sessions: 2 }, { kind: 'sessions_logged', sessions: 2 }, { kind: 'weeks_in_stage', weeks: 3 }]),
-      logs, DEFAULT_PAIN_RULE, TODAY, null,
+      stage([
+        { kind: 'all_sets_done', sessions: 2 },
+        { kind: 'sessions_logged', sessions: 2 },
+        { kind: 'weeks_in_stage', weeks: 3 },
+      ]),
+      logs,
+      DEFAULT_PAIN_RULE,
+      TODAY,
+      null,
     );
     expect(r.checks.map((c) => c.met)).toEqual([false, true, false]);
     expect(r.checks[2]!.detail).toBe('20 days in this stage of 21 needed.');
@@ -68,7 +78,10 @@ describe('stage progression (invented plans)', () => {
   });
 
   it('a stage without checkable criteria never suggests by itself (the coach decides)', () => {
-    expect(evaluateProgression(stage([]), [session('2026-12-08', 0)], DEFAULT_PAIN_RULE, TODAY, 8)).toMatchObject({ ready: false, checks: [] });
+    expect(evaluateProgression(stage([]), [session('2026-12-08', 0)], DEFAULT_PAIN_RULE, TODAY, 8)).toMatchObject({
+      ready: false,
+      checks: [],
+    });
   });
 
   it('orders sessions by day, then by entry for the same day', () => {
@@ -80,15 +93,30 @@ describe('stage progression (invented plans)', () => {
 
   it('describes criteria in plain words', () => {
     expect(describeCriterion(painCriterion)).toBe('Pain during at most 3/10 on the last 3 sessions');
-    expect(describeCriterion({ kind: 'settled_by_morning', sessions: 1 }, DEFAULT_PAIN_RULE)).toBe('Settled by next morning (at most 2/10) after the last 1 session');
+    expect(describeCriterion({ kind: 'settled_by_morning', sessions: 1 }, DEFAULT_PAIN_RULE)).toBe(
+      'Settled by next morning (at most 2/10) after the last 1 session',
+    );
   });
 
   it('property: ready ⇔ the last N pain scores are all ≤ max (pain criterion alone)', () => {
-    fc.assert(fc.property(fc.array(fc.integer({ min: 0, max: 10 }), { maxLength: 12 }), fc.integer({ min: 0, max: 10 }), fc.integer({ min: 1, max: 5 }), (scores, max, n) => {
-      const logs = scores.map((s, i) => ({ id: i + 1, date: `2026-11-${String(i + 1).padStart(2, '0')}`, painDuring: s, morningPain: 0, sets: [] }));
-      const r = evaluateProgression(stage([{ kind: 'pain_during_at_most', max, sessions: n }]), logs, DEFAULT_PAIN_RULE, TODAY, null);
-      const expected = scores.length >= n && scores.slice(-n).every((s) => s <= max);
-      expect(r.ready).toBe(expected);
-    }));
+    fc.assert(
+      fc.property(
+        fc.array(fc.integer({ min: 0, max: 10 }), { maxLength: 12 }),
+        fc.integer({ min: 0, max: 10 }),
+        fc.integer({ min: 1, max: 5 }),
+        (scores, max, n) => {
+          const logs = scores.map((s, i) => ({
+            id: i + 1,
+            date: `2026-11-${String(i + 1).padStart(2, '0')}`,
+            painDuring: s,
+            morningPain: 0,
+            sets: [],
+          }));
+          const r = evaluateProgression(stage([{ kind: 'pain_during_at_most', max, sessions: n }]), logs, DEFAULT_PAIN_RULE, TODAY, null);
+          const expected = scores.length >= n && scores.slice(-n).every((s) => s <= max);
+          expect(r.ready).toBe(expected);
+        },
+      ),
+    );
   });
 });

@@ -38,7 +38,10 @@ function assessment(overrides: Partial<Assessment> = {}): Assessment {
 
 /** A speed control with its unit sibling, as in the form. */
 function speedControl(value: string, unit: SpeedUnit) {
-  const group = new FormGroup({ value: new FormControl(value, { nonNullable: true, validators: speedValue }), unit: new FormControl(unit) });
+  const group = new FormGroup({
+    value: new FormControl(value, { nonNullable: true, validators: speedValue }),
+    unit: new FormControl(unit),
+  });
   group.controls.value.updateValueAndValidity();
   return group.controls.value;
 }
@@ -97,13 +100,9 @@ describe('speed limits', () => {
 
   it('explains the problem in the unit the coach chose', () => {
     expect(speedErrorText(speedControl('5:30', 'kmh'), 'kmh')).toBe('Enter a number, e.g. 12.5');
-    expect(speedErrorText(speedControl('5.30.1', 's_per_km'), 's_per_km')).toBe(
-      'Enter a pace as minutes:seconds, e.g. 5:30',
-    );
+    expect(speedErrorText(speedControl('5.30.1', 's_per_km'), 's_per_km')).toBe('Enter a pace as minutes:seconds, e.g. 5:30');
     expect(speedErrorText(speedControl('40', 'kmh'), 'kmh')).toBe('Enter a speed between 3.6 and 36 km/h');
-    expect(speedErrorText(speedControl('30:00', 's_per_mile'), 's_per_mile')).toBe(
-      'Enter a pace between 2:41 and 26:49 min/mile',
-    );
+    expect(speedErrorText(speedControl('30:00', 's_per_mile'), 's_per_mile')).toBe('Enter a pace between 2:41 and 26:49 min/mile');
   });
 });
 

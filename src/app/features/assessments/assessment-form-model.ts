@@ -3,15 +3,7 @@
  * `AssessmentWrite` and the form's value. Speeds are typed as the coach reads them off the belt
  * or watch: km/h or mph as a number, paces as `m:ss` per km or per mile. No DOM here.
  */
-import {
-  AbstractControl,
-  FormControl,
-  FormGroup,
-  NonNullableFormBuilder,
-  ValidationErrors,
-  ValidatorFn,
-  Validators,
-} from '@angular/forms';
+import { AbstractControl, FormControl, FormGroup, NonNullableFormBuilder, ValidationErrors, ValidatorFn, Validators } from '@angular/forms';
 import type { Assessment, AssessmentWrite } from '../../../contracts/api';
 import {
   AssessmentKind,
@@ -158,11 +150,7 @@ export function defaultKind(existing: readonly Pick<Assessment, 'kind'>[]): Asse
 }
 
 /** What a new assessment starts with. */
-export function newAssessmentValue(
-  kind: AssessmentKind,
-  distanceUnit: DistanceUnit = 'km',
-  today: Date = new Date(),
-): AssessmentFormValue {
+export function newAssessmentValue(kind: AssessmentKind, distanceUnit: DistanceUnit = 'km', today: Date = new Date()): AssessmentFormValue {
   return {
     date: new Date(today.getFullYear(), today.getMonth(), today.getDate()),
     kind,
@@ -239,8 +227,7 @@ export function formValueToWrite(value: AssessmentFormValue): AssessmentWrite {
     kind: value.kind,
     surface: value.surface,
     speed: typeof read === 'number' ? { value: read, unit: value.speed.unit } : null,
-    inclinePercent:
-      value.surface === 'treadmill' && incline !== null && Number.isFinite(incline) ? incline : null,
+    inclinePercent: value.surface === 'treadmill' && incline !== null && Number.isFinite(incline) ? incline : null,
     shoes: trimmedOrNull(value.shoes),
     cameraNotes: trimmedOrNull(value.cameraNotes),
     notes: trimmedOrNull(value.notes),

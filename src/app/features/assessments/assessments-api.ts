@@ -1,25 +1,14 @@
 import { HttpClient, HttpEventType, HttpRequest, HttpResponse } from '@angular/common/http';
 import { Injectable, InjectionToken, inject } from '@angular/core';
 import { Observable, filter, map } from 'rxjs';
-import type {
-  Assessment,
-  AssessmentDetail,
-  AssessmentWrite,
-  Clip,
-  ClipUpdate,
-} from '../../../contracts/api';
+import type { Assessment, AssessmentDetail, AssessmentWrite, Clip, ClipUpdate } from '../../../contracts/api';
 import { skipErrorSnackbar } from '../../core/http-context';
 
 /** What an upload reports: bytes sent so far, then the clip the server created. */
-export type UploadEvent =
-  | { type: 'progress'; loaded: number; total: number }
-  | { type: 'done'; clip: Clip };
+export type UploadEvent = { type: 'progress'; loaded: number; total: number } | { type: 'done'; clip: Clip };
 
 /** What the clip event stream reports: the stream (re)connected, a clip changed or was deleted. */
-export type ClipStreamMessage =
-  | { type: 'connected' }
-  | { type: 'clip'; clip: Clip }
-  | { type: 'deleted'; id: number };
+export type ClipStreamMessage = { type: 'connected' } | { type: 'clip'; clip: Clip } | { type: 'deleted'; id: number };
 
 /** `EventSource.CLOSED` (spelled out so tests without `EventSource` can load this file). */
 const EVENT_SOURCE_CLOSED = 2;

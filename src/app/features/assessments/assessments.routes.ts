@@ -8,8 +8,7 @@ export default [
     // The list lives on the athlete's profile.
     path: '',
     pathMatch: 'full',
-    redirectTo: ({ params }) =>
-      inject(Router).createUrlTree(['/athletes', params['athleteId']], { queryParams: { tab: 'assessments' } }),
+    redirectTo: ({ params }) => inject(Router).createUrlTree(['/athletes', params['athleteId']], { queryParams: { tab: 'assessments' } }),
   },
   {
     path: ':id',

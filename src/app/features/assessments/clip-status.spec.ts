@@ -100,7 +100,9 @@ describe('clip facts', () => {
   });
 
   it('leaves out what is not probed yet', () => {
-    const early = clipFacts(clip({ status: 'queued', fps: null, effectiveFps: null, frameCount: null, durationS: null, width: null, height: null }));
+    const early = clipFacts(
+      clip({ status: 'queued', fps: null, effectiveFps: null, frameCount: null, durationS: null, width: null, height: null }),
+    );
     expect(early).toEqual([{ label: 'File size', value: '14.2 MB' }]);
   });
 

@@ -137,9 +137,7 @@ describe('uploadErrorMessage', () => {
   });
 
   it('explains a bare status', () => {
-    expect(uploadErrorMessage(http(413, '<html>Request Entity Too Large</html>'))).toBe(
-      'This file is larger than the upload limit.',
-    );
+    expect(uploadErrorMessage(http(413, '<html>Request Entity Too Large</html>'))).toBe('This file is larger than the upload limit.');
     expect(uploadErrorMessage(http(422))).toBe('This file is not a video the server can read.');
     expect(uploadErrorMessage(http(409))).toMatch(/consent/);
     expect(uploadErrorMessage(http(0))).toMatch(/interrupted/);

@@ -122,9 +122,7 @@ export function markCancelled(items: readonly UploadItem[], id: number): UploadI
 export function requeue(items: readonly UploadItem[], id: number): UploadItem[] {
   return update(items, id, ['failed', 'cancelled'], (item) => {
     const problem = precheck(item.file);
-    return problem
-      ? { state: 'failed', message: problem }
-      : { state: 'waiting', loaded: 0, total: item.file.size, message: null };
+    return problem ? { state: 'failed', message: problem } : { state: 'waiting', loaded: 0, total: item.file.size, message: null };
   });
 }
 

@@ -1,14 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { Observable, map } from 'rxjs';
-import type {
-  AthleteCreate,
-  AthleteDetail,
-  AthleteIntake,
-  AthleteSummary,
-  AthleteUpdate,
-  PendingInvitation,
-} from '../../../contracts/api';
+import type { AthleteCreate, AthleteDetail, AthleteIntake, AthleteSummary, AthleteUpdate, PendingInvitation } from '../../../contracts/api';
 import { skipErrorSnackbar } from '../../core/http-context';
 
 /** An entry of the coach picker (`GET /api/coaches`). */
@@ -27,9 +20,7 @@ export class AthletesApi {
 
   /** The clinic's roster. */
   list(): Observable<AthleteSummary[]> {
-    return this.http
-      .get<{ athletes: AthleteSummary[] }>('/api/athletes', { context: skipErrorSnackbar() })
-      .pipe(map((r) => r.athletes));
+    return this.http.get<{ athletes: AthleteSummary[] }>('/api/athletes', { context: skipErrorSnackbar() }).pipe(map((r) => r.athletes));
   }
 
   /** One athlete with intake, injuries, pain and consents (staff, or the athlete themself). */
@@ -64,8 +55,6 @@ export class AthletesApi {
 
   /** Coaches of the clinic for assignment pickers. */
   coaches(): Observable<CoachOption[]> {
-    return this.http
-      .get<{ coaches: CoachOption[] }>('/api/coaches', { context: skipErrorSnackbar() })
-      .pipe(map((r) => r.coaches));
+    return this.http.get<{ coaches: CoachOption[] }>('/api/coaches', { context: skipErrorSnackbar() }).pipe(map((r) => r.coaches));
   }
 }

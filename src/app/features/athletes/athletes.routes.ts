@@ -17,8 +17,7 @@ export default [
     path: ':id',
     title: 'Athlete · Trailframe',
     canDeactivate: [leaveGuard],
-    loadComponent: () =>
-      import('./athlete-profile/athlete-profile').then((m) => m.AthleteProfile),
+    loadComponent: () => import('./athlete-profile/athlete-profile').then((m) => m.AthleteProfile),
   },
   {
     path: ':athleteId/compare',

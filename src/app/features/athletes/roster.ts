@@ -30,9 +30,7 @@ export function foldText(text: string): string {
 export function rosterMatches(a: AthleteSummary, query: string): boolean {
   const words = foldText(query).split(/\s+/).filter(Boolean);
   if (words.length === 0) return true;
-  const haystack = foldText(
-    [a.firstName, a.lastName, a.email ?? '', a.goalEvent ?? '', a.coachName ?? ''].join(' '),
-  );
+  const haystack = foldText([a.firstName, a.lastName, a.email ?? '', a.goalEvent ?? '', a.coachName ?? ''].join(' '));
   return words.every((w) => haystack.includes(w));
 }
 

@@ -1,8 +1,7 @@
 import { HttpErrorResponse } from '@angular/common/http';
 import { tokenProblem } from './token-problem';
 
-const http = (status: number, code?: string) =>
-  new HttpErrorResponse({ status, error: code ? { error: { code, message: 'x' } } : null });
+const http = (status: number, code?: string) => new HttpErrorResponse({ status, error: code ? { error: { code, message: 'x' } } : null });
 
 describe('tokenProblem', () => {
   it('explains expired and used links by their error code', () => {

@@ -33,9 +33,7 @@ export class BillingApi {
   }
 
   prices(): Observable<Price[]> {
-    return this.http
-      .get<{ prices: Price[] }>('/api/prices', { context: skipErrorSnackbar() })
-      .pipe(map((r) => r.prices));
+    return this.http.get<{ prices: Price[] }>('/api/prices', { context: skipErrorSnackbar() }).pipe(map((r) => r.prices));
   }
 
   createPrice(body: PriceWrite): Observable<Price> {

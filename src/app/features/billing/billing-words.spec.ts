@@ -1,4 +1,15 @@
-import { STATUS_WORDS, amountDueText, amountText, dayText, lineDetail, money, paidText, parseAmount, parseTaxPercent, taxText } from './billing-words';
+import {
+  STATUS_WORDS,
+  amountDueText,
+  amountText,
+  dayText,
+  lineDetail,
+  money,
+  paidText,
+  parseAmount,
+  parseTaxPercent,
+  taxText,
+} from './billing-words';
 
 describe('billing words', () => {
   it('parses amounts to minor units: 45 → 4500, 45.5 → 4550, 1,250.00 → 125000', () => {
@@ -41,15 +52,28 @@ describe('billing words', () => {
   });
 
   it('says what is due from the issued invoices only', () => {
-    const inv = (status: 'issued' | 'paid' | 'cancelled' | 'refunded', totalMinor: number, dueDate: string) => ({ status, totalMinor, currency: 'EUR', dueDate });
+    const inv = (status: 'issued' | 'paid' | 'cancelled' | 'refunded', totalMinor: number, dueDate: string) => ({
+      status,
+      totalMinor,
+      currency: 'EUR',
+      dueDate,
+    });
     expect(amountDueText([])).toBe('Nothing to pay');
-    expect(amountDueText([inv('paid', 14400, '2026-10-20'), inv('cancelled', 500, '2026-01-01'), inv('refunded', 7800, '2026-12-01')])).toBe('Nothing to pay');
-    expect(amountDueText([inv('paid', 14400, '2026-10-20'), inv('issued', 7800, '2026-12-08')])).toBe('1 invoice to pay · 78.00 EUR due 8 Dec 2026');
-    expect(amountDueText([inv('issued', 7800, '2026-12-22'), inv('issued', 14400, '2026-12-08')])).toBe('2 invoices to pay · 222.00 EUR, the next due 8 Dec 2026');
+    expect(
+      amountDueText([inv('paid', 14400, '2026-10-20'), inv('cancelled', 500, '2026-01-01'), inv('refunded', 7800, '2026-12-01')]),
+    ).toBe('Nothing to pay');
+    expect(amountDueText([inv('paid', 14400, '2026-10-20'), inv('issued', 7800, '2026-12-08')])).toBe(
+      '1 invoice to pay · 78.00 EUR due 8 Dec 2026',
+    );
+    expect(amountDueText([inv('issued', 7800, '2026-12-22'), inv('issued', 14400, '2026-12-08')])).toBe(
+      '2 invoices to pay · 222.00 EUR, the next due 8 Dec 2026',
+    );
   });
 
   it('says how and when an invoice was paid', () => {
-    expect(paidText({ paymentMethod: 'bank_transfer', paidOn: '2026-12-03', paidAt: '2026-12-04T09:00:00Z' })).toBe('Paid by bank transfer on 3 Dec 2026.');
+    expect(paidText({ paymentMethod: 'bank_transfer', paidOn: '2026-12-03', paidAt: '2026-12-04T09:00:00Z' })).toBe(
+      'Paid by bank transfer on 3 Dec 2026.',
+    );
     expect(paidText({ paymentMethod: 'cash', paidOn: '2026-12-03', paidAt: null })).toBe('Paid in cash on 3 Dec 2026.');
     expect(paidText({ paymentMethod: 'card', paidOn: null, paidAt: '2026-10-08T18:12:00Z' })).toBe('Paid by card on 8 Oct 2026.');
     expect(paidText({ paymentMethod: null, paidOn: null, paidAt: null })).toBe('');

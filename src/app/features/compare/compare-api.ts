@@ -18,6 +18,9 @@ export class CompareApi {
   }
 
   trends(athleteId: number, keys: MeasureKey[]): Observable<MeasureTrends> {
-    return this.http.get<MeasureTrends>(`/api/athletes/${athleteId}/measure-trends`, { params: { keys: keys.join(',') }, context: skipErrorSnackbar() });
+    return this.http.get<MeasureTrends>(`/api/athletes/${athleteId}/measure-trends`, {
+      params: { keys: keys.join(',') },
+      context: skipErrorSnackbar(),
+    });
   }
 }

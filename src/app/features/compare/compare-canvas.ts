@@ -37,6 +37,13 @@ export function drawCompareFrame(canvas: HTMLCanvasElement, shown: CompareFrame 
   const viewScale = viewScaleOf(canvas.getBoundingClientRect().width, frameSize.width);
   ctx.drawImage(shown.bitmap, 0, 0, frameSize.width, frameSize.height);
   if (ghost) drawGhostSkeleton(ctx, { frameSize, landmarks: ghost, viewScale });
-  drawOverlay(ctx, { frameSize, landmarks: shown.landmarks, nearSide: shown.nearSide, direction: shown.direction, showAngles: true, viewScale });
+  drawOverlay(ctx, {
+    frameSize,
+    landmarks: shown.landmarks,
+    nearSide: shown.nearSide,
+    direction: shown.direction,
+    showAngles: true,
+    viewScale,
+  });
   canvas.dataset['labelPx'] = (overlaySizes(frameSize, viewScale).fontPx * (viewScale ?? 1)).toFixed(1);
 }

@@ -1,12 +1,32 @@
 import type { Assessment } from '../../../contracts/api';
 import type { ComparisonRow, MeasureTrends } from '../../../contracts/measures';
-import { CAUTION_LINE, COMPARE_FRAME_KEYS, alignAtHip, citationText, defaultPair, eventFrames, formatValue, frameOfStep, lastCommonStep, stepKey, trendSeries, VERDICT_TEXT } from './compare-logic';
+import {
+  CAUTION_LINE,
+  COMPARE_FRAME_KEYS,
+  alignAtHip,
+  citationText,
+  defaultPair,
+  eventFrames,
+  formatValue,
+  frameOfStep,
+  lastCommonStep,
+  stepKey,
+  trendSeries,
+  VERDICT_TEXT,
+} from './compare-logic';
 
 const visit = (id: number, date: string, kind: 'baseline' | 'retest') => ({ id, date, kind }) as Assessment;
 
 describe('compare logic', () => {
   it('picks the latest Re-test and the latest Baseline by default', () => {
-    expect(defaultPair([visit(1, '2026-10-06', 'baseline'), visit(2, '2026-11-24', 'retest'), visit(3, '2026-11-30', 'baseline'), visit(4, '2026-10-20', 'retest')])).toEqual({ baseline: 3, retest: 2 });
+    expect(
+      defaultPair([
+        visit(1, '2026-10-06', 'baseline'),
+        visit(2, '2026-11-24', 'retest'),
+        visit(3, '2026-11-30', 'baseline'),
+        visit(4, '2026-10-20', 'retest'),
+      ]),
+    ).toEqual({ baseline: 3, retest: 2 });
     expect(defaultPair([visit(1, '2026-10-06', 'baseline')])).toEqual({ baseline: 1, retest: null });
   });
 
@@ -52,14 +72,16 @@ describe('compare logic', () => {
     expect(VERDICT_TEXT.no_threshold).toBe('No published threshold');
   });
 
-  it('carries the whole caution: clinician\'s judgement, pain, local regulations', () => {
+  it("carries the whole caution: clinician's judgement, pain, local regulations", () => {
     expect(CAUTION_LINE).toContain("support, and do not replace, a licensed clinician's judgement");
     expect(CAUTION_LINE).toContain('sharp or worsening pain');
     expect(CAUTION_LINE).toContain('follow local regulations');
   });
 
   it('cites the threshold, or says there is none', () => {
-    const row = { threshold: { value: 5.5, unit: '°', source: 'Damsted et al. 2015', evidence: 'calc', derivation: 'Half the width.' } } as ComparisonRow;
+    const row = {
+      threshold: { value: 5.5, unit: '°', source: 'Damsted et al. 2015', evidence: 'calc', derivation: 'Half the width.' },
+    } as ComparisonRow;
     expect(citationText(row)).toBe('±5.5° — Half the width. Source: Damsted et al. 2015 [calc].');
     expect(citationText({ threshold: null } as ComparisonRow)).toMatch(/No published/);
   });
@@ -69,7 +91,15 @@ describe('compare logic', () => {
       keys: ['hip_extension_toe_off'],
       points: [
         { assessmentId: 1, date: '2026-10-06', kind: 'baseline', values: [{ key: 'hip_extension_toe_off', side: 'right', mean: 4 }] },
-        { assessmentId: 2, date: '2026-11-24', kind: 'retest', values: [{ key: 'hip_extension_toe_off', side: 'right', mean: 11 }, { key: 'hip_extension_toe_off', side: 'left', mean: 9 }] },
+        {
+          assessmentId: 2,
+          date: '2026-11-24',
+          kind: 'retest',
+          values: [
+            { key: 'hip_extension_toe_off', side: 'right', mean: 11 },
+            { key: 'hip_extension_toe_off', side: 'left', mean: 9 },
+          ],
+        },
       ],
     };
     expect(trendSeries(trends, ['hip_extension_toe_off'])).toEqual([

@@ -26,7 +26,10 @@ export function defaultPair(assessments: Assessment[]): { baseline: number | nul
 
 /** Frames of one side's events of one kind, in time order. */
 export function eventFrames(events: GaitEventMark[], side: Side, kind: GaitEventKind): number[] {
-  return events.filter((e) => e.side === side && e.kind === kind).map((e) => e.frame).sort((a, b) => a - b);
+  return events
+    .filter((e) => e.side === side && e.kind === kind)
+    .map((e) => e.frame)
+    .sort((a, b) => a - b);
 }
 
 /** The frame of step `step` (0-based), clamped to the last marked one; null when none. */
@@ -80,7 +83,9 @@ export function alignAtHip(rows: FrameLandmarks[], side: Side, target: FramePoin
   const dy = target.y - hip.y;
   return rows.map((r) => ({
     ...r,
-    points: Object.fromEntries(Object.entries(r.points).map(([name, p]) => [name, p ? { x: p.x + dx, y: p.y + dy } : p])) as Partial<Record<LandmarkName, FramePoint>>,
+    points: Object.fromEntries(Object.entries(r.points).map(([name, p]) => [name, p ? { x: p.x + dx, y: p.y + dy } : p])) as Partial<
+      Record<LandmarkName, FramePoint>
+    >,
   }));
 }
 
@@ -94,7 +99,9 @@ export function formatValue(value: number | null, unit: string, signed = false):
 
 /** The citation line shown on hover/expand: the threshold, and why a direction is better where one is. */
 export function citationText(row: ComparisonRow): string {
-  const better = row.betterDirection ? ` Better: ${row.betterDirection.better} (${row.betterDirection.source} [${row.betterDirection.evidence}]).` : '';
+  const better = row.betterDirection
+    ? ` Better: ${row.betterDirection.better} (${row.betterDirection.source} [${row.betterDirection.evidence}]).`
+    : '';
   if (!row.threshold) return `No published measurement-error figure for this measure.${better}`;
   return `${thresholdText(row.threshold)} — ${row.threshold.derivation} Source: ${row.threshold.source} [${row.threshold.evidence}].${better}`;
 }
@@ -102,7 +109,10 @@ export function citationText(row: ComparisonRow): string {
 export const sideText = (side: Side | null): string => (side === null ? '' : side === 'left' ? 'Left' : 'Right');
 
 /** One line per chosen key and side across the visits (null where a visit lacks it). */
-export function trendSeries(trends: MeasureTrends, keys: MeasureKey[]): { key: MeasureKey; side: Side | null; values: (number | null)[] }[] {
+export function trendSeries(
+  trends: MeasureTrends,
+  keys: MeasureKey[],
+): { key: MeasureKey; side: Side | null; values: (number | null)[] }[] {
   const ids = new Map<string, { key: MeasureKey; side: Side | null }>();
   for (const p of trends.points)
     for (const v of p.values) if (keys.includes(v.key)) ids.set(`${v.key}|${v.side ?? ''}`, { key: v.key, side: v.side });

@@ -6,8 +6,26 @@ import { TREND_SIDE_STYLE, trendChart, unitTitle } from './trend-chart';
 const trends: MeasureTrends = {
   keys: ['hip_extension_toe_off', 'cadence'],
   points: [
-    { assessmentId: 1, date: '2026-10-06', kind: 'baseline', values: [{ key: 'hip_extension_toe_off', side: 'right', mean: 4 }, { key: 'hip_extension_toe_off', side: 'left', mean: 4 }, { key: 'cadence', side: null, mean: 166 }] },
-    { assessmentId: 2, date: '2026-11-24', kind: 'retest', values: [{ key: 'hip_extension_toe_off', side: 'right', mean: 11 }, { key: 'hip_extension_toe_off', side: 'left', mean: 11 }, { key: 'cadence', side: null, mean: 172 }] },
+    {
+      assessmentId: 1,
+      date: '2026-10-06',
+      kind: 'baseline',
+      values: [
+        { key: 'hip_extension_toe_off', side: 'right', mean: 4 },
+        { key: 'hip_extension_toe_off', side: 'left', mean: 4 },
+        { key: 'cadence', side: null, mean: 166 },
+      ],
+    },
+    {
+      assessmentId: 2,
+      date: '2026-11-24',
+      kind: 'retest',
+      values: [
+        { key: 'hip_extension_toe_off', side: 'right', mean: 11 },
+        { key: 'hip_extension_toe_off', side: 'left', mean: 11 },
+        { key: 'cadence', side: null, mean: 172 },
+      ],
+    },
   ],
 };
 
@@ -38,7 +56,7 @@ describe('trend chart', () => {
     expect(unitTitle('%')).toBe('Percent (%)');
   });
 
-  it('sizes overlay labels by the canvas\'s shown width: 640 frame px shown 366 px wide is 0.57 view px per frame px', () => {
+  it("sizes overlay labels by the canvas's shown width: 640 frame px shown 366 px wide is 0.57 view px per frame px", () => {
     expect(viewScaleOf(366, 640)).toBeCloseTo(0.571875, 6);
     expect(viewScaleOf(0, 640)).toBeUndefined();
   });

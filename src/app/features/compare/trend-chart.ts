@@ -20,12 +20,23 @@ export const TREND_POINT_STYLES = ['circle', 'rectRot', 'triangle', 'rect', 'sta
 
 /** "Degrees (°)", "Steps per minute", … for an axis title. */
 export function unitTitle(unit: string): string {
-  const words: Record<string, string> = { '°': 'Degrees (°)', 'steps/min': 'Steps per minute', s: 'Seconds (s)', m: 'Metres (m)', cm: 'Centimetres (cm)', '%': 'Percent (%)' };
+  const words: Record<string, string> = {
+    '°': 'Degrees (°)',
+    'steps/min': 'Steps per minute',
+    s: 'Seconds (s)',
+    m: 'Metres (m)',
+    cm: 'Centimetres (cm)',
+    '%': 'Percent (%)',
+  };
   return words[unit] ?? unit;
 }
 
 /** The chart's lines and axes: one y axis per unit (the first on the left), titled with it. */
-export function trendChart(trends: MeasureTrends, keys: MeasureKey[], visitLabels: string[]): { data: LineData; options: LineOptions; units: string[] } {
+export function trendChart(
+  trends: MeasureTrends,
+  keys: MeasureKey[],
+  visitLabels: string[],
+): { data: LineData; options: LineOptions; units: string[] } {
   const series = trendSeries(trends, keys);
   const units = [...new Set(series.map((s) => MEASURE_DEFINITIONS[s.key].unit))];
   const axisOf = (unit: string) => (units.indexOf(unit) === 0 ? 'y' : `y${units.indexOf(unit)}`);
@@ -63,7 +74,12 @@ export function trendChart(trends: MeasureTrends, keys: MeasureKey[], visitLabel
       grid: { drawOnChartArea: i === 0 },
     };
   });
-  const unitOf = new Map(series.map((s) => [`${MEASURE_DEFINITIONS[s.key].label}${s.side ? ` (${sideText(s.side).toLowerCase()})` : ''}`, MEASURE_DEFINITIONS[s.key].unit]));
+  const unitOf = new Map(
+    series.map((s) => [
+      `${MEASURE_DEFINITIONS[s.key].label}${s.side ? ` (${sideText(s.side).toLowerCase()})` : ''}`,
+      MEASURE_DEFINITIONS[s.key].unit,
+    ]),
+  );
   return {
     data: { labels: visitLabels, datasets },
     units,
@@ -74,7 +90,11 @@ export function trendChart(trends: MeasureTrends, keys: MeasureKey[], visitLabel
       scales,
       plugins: {
         legend: { position: 'bottom', labels: { usePointStyle: true, boxWidth: 28, padding: 14 } },
-        tooltip: { callbacks: { label: (item) => `${item.dataset.label}: ${formatValue(item.parsed.y ?? null, unitOf.get(item.dataset.label ?? '') ?? '')}` } },
+        tooltip: {
+          callbacks: {
+            label: (item) => `${item.dataset.label}: ${formatValue(item.parsed.y ?? null, unitOf.get(item.dataset.label ?? '') ?? '')}`,
+          },
+        },
       },
     },
   };

@@ -1,5 +1,21 @@
 import type { LogWrite } from '../../../contracts/plans';
-import { BACKOFF, backoffMs, dueNow, enqueue, isRetryable, logItem, morningItem, nextDue, nextWake, parseStored, refuse, remove, resend, retargetLog, retryLater } from './log-outbox-queue';
+import {
+  BACKOFF,
+  backoffMs,
+  dueNow,
+  enqueue,
+  isRetryable,
+  logItem,
+  morningItem,
+  nextDue,
+  nextWake,
+  parseStored,
+  refuse,
+  remove,
+  resend,
+  retargetLog,
+  retryLater,
+} from './log-outbox-queue';
 
 const body = (key: string): LogWrite => ({ key, stageId: 3, date: '2026-12-09', painDuring: 2, sets: [], note: null });
 
@@ -58,8 +74,23 @@ describe('log outbox queue', () => {
   });
 
   it('re-aims a session at another stage, matching sets by stage exercise or by library exercise', () => {
-    const sent = { ...body('k1'), stageId: 3, sets: [{ stageExerciseId: 11, exerciseId: 101, setsDone: 3 }, { stageExerciseId: 12, exerciseId: 102, setsDone: 2 }, { stageExerciseId: 13, setsDone: 1 }] };
-    const today = { id: 4, exercises: [{ id: 21, exerciseId: 102 }, { id: 11, exerciseId: 101 }, { id: 22, exerciseId: 103 }] };
+    const sent = {
+      ...body('k1'),
+      stageId: 3,
+      sets: [
+        { stageExerciseId: 11, exerciseId: 101, setsDone: 3 },
+        { stageExerciseId: 12, exerciseId: 102, setsDone: 2 },
+        { stageExerciseId: 13, setsDone: 1 },
+      ],
+    };
+    const today = {
+      id: 4,
+      exercises: [
+        { id: 21, exerciseId: 102 },
+        { id: 11, exerciseId: 101 },
+        { id: 22, exerciseId: 103 },
+      ],
+    };
     expect(retargetLog(sent, today)).toEqual({
       ...sent,
       stageId: 4,

@@ -10,8 +10,7 @@
 import type { LogWrite } from '../../../contracts/plans';
 
 export type OutboxItem =
-  | (OutboxBase & { kind: 'log'; body: LogWrite })
-  | (OutboxBase & { kind: 'morning'; pain: number; sessionDate: string });
+  (OutboxBase & { kind: 'log'; body: LogWrite }) | (OutboxBase & { kind: 'morning'; pain: number; sessionDate: string });
 
 interface OutboxBase {
   /** Unique per item: the session key, or `<key>:morning`. */
@@ -47,11 +46,34 @@ export function isRetryable(status: number): boolean {
 }
 
 export function logItem(planId: number, body: LogWrite, now: number): OutboxItem {
-  return { kind: 'log', id: body.key, planId, key: body.key, body, attempts: 0, nextAt: now, lastError: null, refused: false, createdAt: now };
+  return {
+    kind: 'log',
+    id: body.key,
+    planId,
+    key: body.key,
+    body,
+    attempts: 0,
+    nextAt: now,
+    lastError: null,
+    refused: false,
+    createdAt: now,
+  };
 }
 
 export function morningItem(planId: number, key: string, pain: number, sessionDate: string, now: number): OutboxItem {
-  return { kind: 'morning', id: `${key}:morning`, planId, key, pain, sessionDate, attempts: 0, nextAt: now, lastError: null, refused: false, createdAt: now };
+  return {
+    kind: 'morning',
+    id: `${key}:morning`,
+    planId,
+    key,
+    pain,
+    sessionDate,
+    attempts: 0,
+    nextAt: now,
+    lastError: null,
+    refused: false,
+    createdAt: now,
+  };
 }
 
 /** Adds an item; an item with the same id is replaced (a changed morning answer), keeping order. */
@@ -86,7 +108,9 @@ export function nextWake(items: readonly OutboxItem[]): number | null {
 export const remove = (items: readonly OutboxItem[], id: string): OutboxItem[] => items.filter((i) => i.id !== id);
 
 export function retryLater(items: readonly OutboxItem[], id: string, message: string, now: number, random?: () => number): OutboxItem[] {
-  return items.map((i) => (i.id === id ? { ...i, attempts: i.attempts + 1, nextAt: now + backoffMs(i.attempts + 1, random), lastError: message } : i));
+  return items.map((i) =>
+    i.id === id ? { ...i, attempts: i.attempts + 1, nextAt: now + backoffMs(i.attempts + 1, random), lastError: message } : i,
+  );
 }
 
 export function refuse(items: readonly OutboxItem[], id: string, message: string): OutboxItem[] {
@@ -121,7 +145,11 @@ export interface StageTarget {
 export function retargetLog(body: LogWrite, stage: StageTarget): LogWrite {
   const done = (e: { id: number; exerciseId: number }) =>
     body.sets.find((s) => s.stageExerciseId === e.id)?.setsDone ?? body.sets.find((s) => s.exerciseId === e.exerciseId)?.setsDone ?? 0;
-  return { ...body, stageId: stage.id, sets: stage.exercises.map((e) => ({ stageExerciseId: e.id, exerciseId: e.exerciseId, setsDone: done(e) })) };
+  return {
+    ...body,
+    stageId: stage.id,
+    sets: stage.exercises.map((e) => ({ stageExerciseId: e.id, exerciseId: e.exerciseId, setsDone: done(e) })),
+  };
 }
 
 /** Everything pending becomes due now (back online, or "Send now"). */
@@ -137,8 +165,12 @@ export function parseStored(text: string | null): OutboxItem[] {
     if (!Array.isArray(data)) return [];
     return data.filter(
       (i): i is OutboxItem =>
-        !!i && typeof i === 'object' && typeof (i as OutboxItem).id === 'string' && typeof (i as OutboxItem).key === 'string' &&
-        typeof (i as OutboxItem).planId === 'number' && ((i as OutboxItem).kind === 'log' || (i as OutboxItem).kind === 'morning'),
+        !!i &&
+        typeof i === 'object' &&
+        typeof (i as OutboxItem).id === 'string' &&
+        typeof (i as OutboxItem).key === 'string' &&
+        typeof (i as OutboxItem).planId === 'number' &&
+        ((i as OutboxItem).kind === 'log' || (i as OutboxItem).kind === 'morning'),
     );
   } catch {
     return [];

@@ -8,8 +8,29 @@ import { LogOutbox, OUTBOX_CLOCK, OUTBOX_STORAGE } from './log-outbox';
 import { logItem } from './log-outbox-queue';
 
 const KEY = 'trailframe.log-outbox.v1.7';
-const body = (key: string): LogWrite => ({ key, stageId: 3, date: '2026-12-09', painDuring: 2, sets: [{ stageExerciseId: 11, setsDone: 3 }], note: 'ok' });
-const entry = (key: string): LogEntry => ({ id: 40, planId: 5, stageId: 3, stageName: 'Holds', key, date: '2026-12-09', painDuring: 2, morningPain: null, morningAt: null, sets: [], note: 'ok', reviewNote: null, createdAt: '' });
+const body = (key: string): LogWrite => ({
+  key,
+  stageId: 3,
+  date: '2026-12-09',
+  painDuring: 2,
+  sets: [{ stageExerciseId: 11, setsDone: 3 }],
+  note: 'ok',
+});
+const entry = (key: string): LogEntry => ({
+  id: 40,
+  planId: 5,
+  stageId: 3,
+  stageName: 'Holds',
+  key,
+  date: '2026-12-09',
+  painDuring: 2,
+  morningPain: null,
+  morningAt: null,
+  sets: [],
+  note: 'ok',
+  reviewNote: null,
+  createdAt: '',
+});
 
 /** Lets the outbox's awaited requests and their follow-ups run. */
 const settle = async () => {
@@ -27,7 +48,10 @@ describe('LogOutbox', () => {
         provideHttpClient(),
         provideHttpClientTesting(),
         { provide: AuthStore, useValue: { user: signal({ id: 7, athleteId: 3 }) } },
-        { provide: OUTBOX_STORAGE, useValue: { getItem: (k: string) => store.get(k) ?? null, setItem: (k: string, v: string) => void store.set(k, v) } },
+        {
+          provide: OUTBOX_STORAGE,
+          useValue: { getItem: (k: string) => store.get(k) ?? null, setItem: (k: string, v: string) => void store.set(k, v) },
+        },
         { provide: OUTBOX_CLOCK, useValue: () => now },
       ],
     });
@@ -87,11 +111,16 @@ describe('LogOutbox', () => {
     outbox.submitMorning(5, 'key-three-123', 2, '2026-12-09');
     backend
       .expectOne('/api/plans/5/logs')
-      .flush({ error: { code: 'stage_not_current', message: '“Holds” is not the current stage of this plan any more.' } }, { status: 409, statusText: 'Conflict' });
+      .flush(
+        { error: { code: 'stage_not_current', message: '“Holds” is not the current stage of this plan any more.' } },
+        { status: 409, statusText: 'Conflict' },
+      );
     await settle();
     // The morning check stays with its refused session: it is not sent (it would be refused too).
     backend.expectNone('/api/plans/5/logs/key-three-123/morning');
-    expect(outbox.refused().map((i) => [i.id, i.lastError])).toEqual([['key-three-123', '“Holds” is not the current stage of this plan any more.']]);
+    expect(outbox.refused().map((i) => [i.id, i.lastError])).toEqual([
+      ['key-three-123', '“Holds” is not the current stage of this plan any more.'],
+    ]);
     expect(outbox.items().map((i) => i.id)).toEqual(['key-three-123', 'key-three-123:morning']);
     expect(JSON.parse(store.get(KEY)!)).toHaveLength(2);
     outbox.discard('key-three-123');
@@ -102,7 +131,9 @@ describe('LogOutbox', () => {
     const outbox = setup();
     outbox.submitLog(5, body('key-four-1234'));
     outbox.submitMorning(5, 'key-four-1234', 1, '2026-12-09');
-    backend.expectOne('/api/plans/5/logs').flush({ error: { code: 'stage_not_current', message: 'Stage moved on.' } }, { status: 409, statusText: 'Conflict' });
+    backend
+      .expectOne('/api/plans/5/logs')
+      .flush({ error: { code: 'stage_not_current', message: 'Stage moved on.' } }, { status: 409, statusText: 'Conflict' });
     await settle();
     outbox.resend('key-four-1234', { ...body('key-four-1234'), stageId: 4, sets: [{ stageExerciseId: 21, exerciseId: 101, setsDone: 3 }] });
     const again = backend.expectOne('/api/plans/5/logs');

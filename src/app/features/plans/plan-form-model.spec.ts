@@ -2,7 +2,19 @@ import { TestBed } from '@angular/core/testing';
 import { NonNullableFormBuilder } from '@angular/forms';
 import type { Exercise, PlanDetail } from '../../../contracts/plans';
 import { DEFAULT_PAIN_RULE } from '../../../contracts/plans';
-import { createExerciseForm, createPlanForm, criterionGroup, doseGroup, exerciseFromForm, moveInArray, planFromForm, splitSteps, stageExerciseGroup, stageGroup, threeStageTemplate } from './plan-form-model';
+import {
+  createExerciseForm,
+  createPlanForm,
+  criterionGroup,
+  doseGroup,
+  exerciseFromForm,
+  moveInArray,
+  planFromForm,
+  splitSteps,
+  stageExerciseGroup,
+  stageGroup,
+  threeStageTemplate,
+} from './plan-form-model';
 
 const exercise: Exercise = {
   id: 4,
@@ -71,7 +83,19 @@ describe('plan form model', () => {
       assessmentId: 12,
       notes: '',
       stages: [
-        { id: 31, position: 1, name: 'Holds', goal: 'Calm', targetWeeks: 2, progressionText: 'When calm', criteria: [{ kind: 'weeks_in_stage', weeks: 2 }], exercises: [{ id: 1, exerciseId: 4, exercise, position: 1, dose: { ...exercise.dose, sets: 4 }, notes: 'Left side only' }], sessionsPerWeek: 3, startedAt: null, completedAt: null },
+        {
+          id: 31,
+          position: 1,
+          name: 'Holds',
+          goal: 'Calm',
+          targetWeeks: 2,
+          progressionText: 'When calm',
+          criteria: [{ kind: 'weeks_in_stage', weeks: 2 }],
+          exercises: [{ id: 1, exerciseId: 4, exercise, position: 1, dose: { ...exercise.dose, sets: 4 }, notes: 'Left side only' }],
+          sessionsPerWeek: 3,
+          startedAt: null,
+          completedAt: null,
+        },
       ],
     } as unknown as PlanDetail;
     const form = createPlanForm(fb, detail);
@@ -83,8 +107,23 @@ describe('plan form model', () => {
       assessmentId: 12,
       notes: null,
       stages: [
-        { id: 31, name: 'Holds', goal: 'Calm', targetWeeks: 2, progressionText: 'When calm', criteria: [{ kind: 'weeks_in_stage', weeks: 2 }], exercises: [{ id: 1, exerciseId: 4, dose: { ...exercise.dose, sets: 4 }, notes: 'Left side only' }] },
-        { name: 'New', goal: '', targetWeeks: 3, progressionText: '', criteria: [{ kind: 'pain_during_at_most', max: 3, sessions: 2 }], exercises: [{ exerciseId: 4, dose: exercise.dose, notes: null }] },
+        {
+          id: 31,
+          name: 'Holds',
+          goal: 'Calm',
+          targetWeeks: 2,
+          progressionText: 'When calm',
+          criteria: [{ kind: 'weeks_in_stage', weeks: 2 }],
+          exercises: [{ id: 1, exerciseId: 4, dose: { ...exercise.dose, sets: 4 }, notes: 'Left side only' }],
+        },
+        {
+          name: 'New',
+          goal: '',
+          targetWeeks: 3,
+          progressionText: '',
+          criteria: [{ kind: 'pain_during_at_most', max: 3, sessions: 2 }],
+          exercises: [{ exerciseId: 4, dose: exercise.dose, notes: null }],
+        },
       ],
     });
     moveInArray(form.controls.stages, 1, -1);

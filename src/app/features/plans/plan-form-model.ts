@@ -3,7 +3,16 @@
  * API bodies. The form mirrors the body's shape (stages.1.exercises.0.dose.sets …), so a 422's
  * field paths land on the right control.
  */
-import { AbstractControl, FormArray, FormControl, FormGroup, NonNullableFormBuilder, ValidationErrors, ValidatorFn, Validators } from '@angular/forms';
+import {
+  AbstractControl,
+  FormArray,
+  FormControl,
+  FormGroup,
+  NonNullableFormBuilder,
+  ValidationErrors,
+  ValidatorFn,
+  Validators,
+} from '@angular/forms';
 import type {
   Dose,
   Exercise,
@@ -182,7 +191,12 @@ export function defaultCriterion(kind: ProgressionCriterionKind, maxDuring = DEF
 export function criterionGroup(fb: NonNullableFormBuilder, c: ProgressionCriterion): CriterionGroup {
   return fb.group({
     kind: fb.control(c.kind),
-    max: fb.control<number | null>('max' in c ? c.max : DEFAULT_PAIN_RULE.maxDuring, [Validators.required, Validators.min(0), Validators.max(10), wholeNumber]),
+    max: fb.control<number | null>('max' in c ? c.max : DEFAULT_PAIN_RULE.maxDuring, [
+      Validators.required,
+      Validators.min(0),
+      Validators.max(10),
+      wholeNumber,
+    ]),
     sessions: fb.control<number | null>('sessions' in c ? c.sessions : 3, [Validators.required, ...range(L.criterionSessions)]),
     weeks: fb.control<number | null>('weeks' in c ? c.weeks : 2, [Validators.required, ...range(L.criterionWeeks)]),
   });
@@ -199,7 +213,13 @@ export function criterionFromForm(v: ReturnType<CriterionGroup['getRawValue']>):
   }
 }
 
-export function stageExerciseGroup(fb: NonNullableFormBuilder, exercise: Exercise, dose: Dose = exercise.dose, notes: string | null = null, id: number | null = null): StageExerciseGroup {
+export function stageExerciseGroup(
+  fb: NonNullableFormBuilder,
+  exercise: Exercise,
+  dose: Dose = exercise.dose,
+  notes: string | null = null,
+  id: number | null = null,
+): StageExerciseGroup {
   return fb.group({
     id: fb.control<number | null>(id),
     exerciseId: fb.control(exercise.id),
@@ -231,7 +251,14 @@ export function stageGroup(fb: NonNullableFormBuilder, s: StageSeed): StageGroup
   });
 }
 
-export const blankStage = (n: number): StageSeed => ({ name: `Stage ${n}`, goal: '', targetWeeks: 2, progressionText: '', criteria: [], exercises: [] });
+export const blankStage = (n: number): StageSeed => ({
+  name: `Stage ${n}`,
+  goal: '',
+  targetWeeks: 2,
+  progressionText: '',
+  criteria: [],
+  exercises: [],
+});
 
 /**
  * The usual staged loading of a hamstring plan — isometric holds, then slow lengthening, then
@@ -303,7 +330,12 @@ export function planFromForm(v: ReturnType<PlanForm['getRawValue']>): PlanWrite 
         targetWeeks: s.targetWeeks ?? 0,
         progressionText: s.progressionText.trim(),
         criteria: s.criteria.map(criterionFromForm),
-        exercises: s.exercises.map((e) => ({ ...(e.id !== null ? { id: e.id } : {}), exerciseId: e.exerciseId, dose: doseFromForm(e.dose), notes: textOrNull(e.notes) })),
+        exercises: s.exercises.map((e) => ({
+          ...(e.id !== null ? { id: e.id } : {}),
+          exerciseId: e.exerciseId,
+          dose: doseFromForm(e.dose),
+          notes: textOrNull(e.notes),
+        })),
       };
       if (s.id !== null) stage.id = s.id;
       return stage;

@@ -95,7 +95,10 @@ export function newLogKey(cryptoObj: Pick<Crypto, 'getRandomValues'> & { randomU
 }
 
 /** What "Start plan" asks; it says the athlete can log only when they have an account. */
-export function startPlanMessage(title: string, athlete: Pick<AthleteSummary, 'firstName' | 'hasAccount' | 'invitationPending'> | null): string {
+export function startPlanMessage(
+  title: string,
+  athlete: Pick<AthleteSummary, 'firstName' | 'hasAccount' | 'invitationPending'> | null,
+): string {
   const head = `${title} becomes the athlete's current plan, at stage 1.`;
   if (!athlete || athlete.hasAccount) return `${head} They can log sessions from their portal.`;
   const invite = athlete.invitationPending ? 'accept the invitation already sent' : 'are invited (Invite to Trailframe, on this page)';

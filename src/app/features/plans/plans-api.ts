@@ -84,9 +84,7 @@ export class PlansApi {
   }
 
   logs(planId: number): Observable<LogEntry[]> {
-    return this.http
-      .get<{ logs: LogEntry[] }>(`/api/plans/${planId}/logs`, { context: skipErrorSnackbar() })
-      .pipe(map((r) => r.logs));
+    return this.http.get<{ logs: LogEntry[] }>(`/api/plans/${planId}/logs`, { context: skipErrorSnackbar() }).pipe(map((r) => r.logs));
   }
 
   /** One submission of a session; the outbox retries it with the same key. */
@@ -95,13 +93,15 @@ export class PlansApi {
   }
 
   morningCheck(planId: number, key: string, pain: number): Observable<LogEntry> {
-    return this.http.put<LogEntry>(`/api/plans/${planId}/logs/${encodeURIComponent(key)}/morning`, { pain }, { context: skipErrorSnackbar() });
+    return this.http.put<LogEntry>(
+      `/api/plans/${planId}/logs/${encodeURIComponent(key)}/morning`,
+      { pain },
+      { context: skipErrorSnackbar() },
+    );
   }
 
   /** Alerts of the clinic's running plans, for the roster. */
   alerts(): Observable<AthletePlanAlerts[]> {
-    return this.http
-      .get<{ alerts: AthletePlanAlerts[] }>('/api/plan-alerts', { context: skipErrorSnackbar() })
-      .pipe(map((r) => r.alerts));
+    return this.http.get<{ alerts: AthletePlanAlerts[] }>('/api/plan-alerts', { context: skipErrorSnackbar() }).pipe(map((r) => r.alerts));
   }
 }

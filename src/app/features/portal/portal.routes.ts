@@ -34,7 +34,6 @@ export default [
     path: 'assessments/:id',
     title: 'Assessment · Trailframe',
     canDeactivate: [leaveGuard],
-    loadComponent: () =>
-      import('./portal-assessment/portal-assessment').then((m) => m.PortalAssessment),
+    loadComponent: () => import('./portal-assessment/portal-assessment').then((m) => m.PortalAssessment),
   },
 ] satisfies Routes;

@@ -67,7 +67,10 @@ export function bandForm(band: ReferenceBand): BandForm {
     {
       low: new FormControl<number | null>(band.low, { validators: [finite] }),
       high: new FormControl<number | null>(band.high, { validators: [finite] }),
-      unit: new FormControl(band.unit, { nonNullable: true, validators: [Validators.required, notBlank, Validators.maxLength(BAND_TEXT_LIMITS.unit)] }),
+      unit: new FormControl(band.unit, {
+        nonNullable: true,
+        validators: [Validators.required, notBlank, Validators.maxLength(BAND_TEXT_LIMITS.unit)],
+      }),
       context: new FormControl(band.context, {
         nonNullable: true,
         validators: [Validators.required, notBlank, Validators.maxLength(BAND_TEXT_LIMITS.context)],

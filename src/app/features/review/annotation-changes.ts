@@ -6,7 +6,15 @@
  * difference between what was loaded and what is shown) are applied on top of the server's copy.
  * Pure functions over immutable data.
  */
-import type { AngleGauge, FrameLandmarks, FramePoint, GaitEventKind, GaitEventMark, LandmarkName, ScaleBar } from '../../../contracts/annotations';
+import type {
+  AngleGauge,
+  FrameLandmarks,
+  FramePoint,
+  GaitEventKind,
+  GaitEventMark,
+  LandmarkName,
+  ScaleBar,
+} from '../../../contracts/annotations';
 import { GAIT_EVENT_KINDS, LANDMARKS } from '../../../contracts/annotations';
 import type { Side } from '../../../contracts/assessment';
 
@@ -176,7 +184,8 @@ function sortLandmarks(rows: FrameLandmarks[]): FrameLandmarks[] {
 /** Events in frame order, then left before right, then initial contact → midstance → toe-off. */
 export function sortEvents(events: readonly GaitEventMark[]): GaitEventMark[] {
   return [...events].sort(
-    (a, b) => a.frame - b.frame || SIDE_ORDER[a.side] - SIDE_ORDER[b.side] || GAIT_EVENT_KINDS.indexOf(a.kind) - GAIT_EVENT_KINDS.indexOf(b.kind),
+    (a, b) =>
+      a.frame - b.frame || SIDE_ORDER[a.side] - SIDE_ORDER[b.side] || GAIT_EVENT_KINDS.indexOf(a.kind) - GAIT_EVENT_KINDS.indexOf(b.kind),
   );
 }
 

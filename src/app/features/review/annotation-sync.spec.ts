@@ -109,7 +109,10 @@ describe('AnnotationSync', () => {
   it('stops with the server message on a 422 until asked to try again', () => {
     edit(toggleEventChanges(local, 2, 'left', 'toe_off'));
     vi.advanceTimersByTime(800);
-    puts()[0].flush({ error: { code: 'validation', message: 'Frame 2 is past the end of the clip', details: [] } }, { status: 422, statusText: 'Unprocessable' });
+    puts()[0].flush(
+      { error: { code: 'validation', message: 'Frame 2 is past the end of the clip', details: [] } },
+      { status: 422, statusText: 'Unprocessable' },
+    );
     expect(sync.state()).toBe('failed');
     expect(sync.problem()).toBe('Frame 2 is past the end of the clip');
     vi.advanceTimersByTime(60_000);

@@ -196,5 +196,7 @@ export class AnnotationSync {
 export function currentFromConflict(err: unknown): ClipAnnotations | null {
   const body = asHttpError(err)?.error as { error?: { details?: { current?: unknown } } } | null;
   const current = body?.error?.details?.current as ClipAnnotations | undefined;
-  return current && typeof current === 'object' && Array.isArray(current.landmarks) && typeof current.revision === 'number' ? current : null;
+  return current && typeof current === 'object' && Array.isArray(current.landmarks) && typeof current.revision === 'number'
+    ? current
+    : null;
 }

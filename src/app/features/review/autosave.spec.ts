@@ -26,6 +26,8 @@ describe('conflictMessage', () => {
       'This clip was saved elsewhere meanwhile; your 3 edits were put on top of theirs. 2 of them replaced marks they changed too.',
     );
     expect(conflictMessage('Sam', 0, 0)).toBe('Sam saved this clip meanwhile; their marks are shown now.');
-    expect(conflictMessage('Sam', 1, 0, true)).toBe('You saved this clip in another tab or window meanwhile; your edit was put on top of that save.');
+    expect(conflictMessage('Sam', 1, 0, true)).toBe(
+      'You saved this clip in another tab or window meanwhile; your edit was put on top of that save.',
+    );
   });
 });

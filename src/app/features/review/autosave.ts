@@ -37,11 +37,19 @@ export function isRetryableStatus(status: number | null): boolean {
 
 /** What to tell the coach after their edits were put on top of someone else's save. */
 export function conflictMessage(savedBy: string | null, applied: number, conflicts: number, byYou = false): string {
-  const who = byYou ? 'You saved this clip in another tab or window' : savedBy ? `${savedBy} saved this clip` : 'This clip was saved elsewhere';
+  const who = byYou
+    ? 'You saved this clip in another tab or window'
+    : savedBy
+      ? `${savedBy} saved this clip`
+      : 'This clip was saved elsewhere';
   if (applied === 0) return `${who} meanwhile; ${byYou ? 'those' : 'their'} marks are shown now.`;
   const edits = applied === 1 ? 'your edit was' : `your ${applied} edits were`;
   const they = byYou ? 'that save' : 'they';
   const overlap =
-    conflicts === 0 ? '' : conflicts === 1 ? ` One of them replaced a mark ${they} changed too.` : ` ${conflicts} of them replaced marks ${they} changed too.`;
+    conflicts === 0
+      ? ''
+      : conflicts === 1
+        ? ` One of them replaced a mark ${they} changed too.`
+        : ` ${conflicts} of them replaced marks ${they} changed too.`;
   return `${who} meanwhile; ${edits} put on top of ${byYou ? 'that save' : 'theirs'}.${overlap}`;
 }

@@ -10,11 +10,7 @@ const samples: AngleSample[] = [
 describe('angleDatasets', () => {
   it('makes one dataset per chosen series and side, in frame order, rounded to 0.1°', () => {
     const sets = angleDatasets(samples, ['thigh', 'knee'], ['left', 'right']);
-    expect(sets.map((s) => s.label)).toEqual([
-      'Thigh · Left',
-      'Thigh · Right',
-      'Knee flexion · Left',
-    ]);
+    expect(sets.map((s) => s.label)).toEqual(['Thigh · Left', 'Thigh · Right', 'Knee flexion · Left']);
     expect(sets[0].data).toEqual([
       { x: 4, y: -22.5 },
       { x: 10, y: 26.6 },
@@ -87,10 +83,37 @@ describe('event labels on the chart', () => {
   it('staggers labels that would overlap into the next row, and leaves out what does not fit', () => {
     // Three 24 px labels 10 px apart: the second goes up a row; the third still overlaps the first
     // (which ends at x = 12) and the second, so with two rows it is left out.
-    expect(staggerLabels([{ x: 0, width: 24 }, { x: 10, width: 24 }, { x: 20, width: 24 }], 2)).toEqual([0, 1, -1]);
+    expect(
+      staggerLabels(
+        [
+          { x: 0, width: 24 },
+          { x: 10, width: 24 },
+          { x: 20, width: 24 },
+        ],
+        2,
+      ),
+    ).toEqual([0, 1, -1]);
     // Far enough apart: all on the first row, whatever the input order.
-    expect(staggerLabels([{ x: 100, width: 24 }, { x: 0, width: 24 }, { x: 50, width: 24 }], 2)).toEqual([0, 0, 0]);
-    expect(staggerLabels([{ x: 0, width: 24 }, { x: 10, width: 24 }, { x: 40, width: 24 }], 2)).toEqual([0, 1, 0]);
+    expect(
+      staggerLabels(
+        [
+          { x: 100, width: 24 },
+          { x: 0, width: 24 },
+          { x: 50, width: 24 },
+        ],
+        2,
+      ),
+    ).toEqual([0, 0, 0]);
+    expect(
+      staggerLabels(
+        [
+          { x: 0, width: 24 },
+          { x: 10, width: 24 },
+          { x: 40, width: 24 },
+        ],
+        2,
+      ),
+    ).toEqual([0, 1, 0]);
   });
 
   it('never puts two labels of one row over each other', () => {

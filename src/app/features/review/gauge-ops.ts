@@ -63,6 +63,9 @@ export function gaugeHandleCandidates(gauges: readonly AngleGauge[], frame: Size
 
 /** A new gauge id: letters and digits the server accepts (`[A-Za-z0-9_-]{1,40}`). */
 export function newGaugeId(random: () => number = Math.random, now: number = Date.now()): string {
-  const part = () => Math.floor(random() * 36 ** 6).toString(36).padStart(6, '0');
+  const part = () =>
+    Math.floor(random() * 36 ** 6)
+      .toString(36)
+      .padStart(6, '0');
   return `g${now.toString(36)}${part()}${part()}`;
 }

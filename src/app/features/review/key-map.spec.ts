@@ -87,7 +87,11 @@ describe('focus that keeps keys', () => {
   });
 
   it('steps frames with every frame key on a side tab or speed toggle (they do not swallow them)', () => {
-    for (const target of [{ tagName: 'DIV', role: 'tab' }, { tagName: 'BUTTON', role: 'radio' }, { tagName: 'DIV', role: 'tab', focusVisible: true }]) {
+    for (const target of [
+      { tagName: 'DIV', role: 'tab' },
+      { tagName: 'BUTTON', role: 'radio' },
+      { tagName: 'DIV', role: 'tab', focusVisible: true },
+    ]) {
       expect(keyAction(key('ArrowRight', { target }))).toEqual({ type: 'step', by: 1 });
       expect(keyAction(key('ArrowLeft', { target, shiftKey: true }))).toEqual({ type: 'step', by: -10 });
       expect(keyAction(key('End', { target }))).toEqual({ type: 'last' });

@@ -21,8 +21,15 @@ describe('bandLine', () => {
   });
 
   it('says below or above, outside the band', () => {
-    expect(bandLine(measure({ band: { band: knee, position: 'below' } }), [])!).toMatchObject({ text: 'Below the reference band 13.8–21.8°', outside: true, icon: 'south' });
-    expect(bandLine(measure({ band: { band: knee, position: 'above' } }), [])!).toMatchObject({ text: 'Above the reference band 13.8–21.8°', outside: true });
+    expect(bandLine(measure({ band: { band: knee, position: 'below' } }), [])!).toMatchObject({
+      text: 'Below the reference band 13.8–21.8°',
+      outside: true,
+      icon: 'south',
+    });
+    expect(bandLine(measure({ band: { band: knee, position: 'above' } }), [])!).toMatchObject({
+      text: 'Above the reference band 13.8–21.8°',
+      outside: true,
+    });
   });
 
   it('still shows the band (without a verdict) when the measure has no value', () => {

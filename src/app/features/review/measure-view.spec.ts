@@ -1,14 +1,5 @@
 import type { Measure } from '../../../contracts/measures';
-import {
-  bandFlag,
-  bandRange,
-  footStrikeClass,
-  formatMeasure,
-  formatValue,
-  groupMeasures,
-  measureContext,
-  stepsText,
-} from './measure-view';
+import { bandFlag, bandRange, footStrikeClass, formatMeasure, formatValue, groupMeasures, measureContext, stepsText } from './measure-view';
 
 function measure(partial: Partial<Measure>): Measure {
   return {

@@ -7,7 +7,12 @@ describe('realTimestamps', () => {
 
   it('uses the capture rate for a slow-motion file (240 fps capture stored at 30 fps)', () => {
     // [calc] frame 8 of a 240 fps capture happened 8 / 240 s = 33.33 ms after frame 0.
-    const ts = realTimestamps(Array.from({ length: 9 }, (_, i) => (i * 1000) / 30), 9, true, 240);
+    const ts = realTimestamps(
+      Array.from({ length: 9 }, (_, i) => (i * 1000) / 30),
+      9,
+      true,
+      240,
+    );
     expect(ts[8]).toBeCloseTo(33.333, 3);
   });
 

@@ -18,7 +18,12 @@ export const PLAYBACK_RATE_LABELS: Record<PlaybackRate, string> = { 0.125: '1/8Ã
  * presentation times; with `slowMotion` (a capture rate was set) they are ignored and each frame
  * is `i Ã— 1000 / effectiveFps`. Missing or short timestamp lists fall back to the same.
  */
-export function realTimestamps(timestampsMs: readonly number[] | null | undefined, frameCount: number, slowMotion: boolean, effectiveFps: number | null): number[] {
+export function realTimestamps(
+  timestampsMs: readonly number[] | null | undefined,
+  frameCount: number,
+  slowMotion: boolean,
+  effectiveFps: number | null,
+): number[] {
   const eff = effectiveFps && effectiveFps > 0 ? effectiveFps : 30;
   const out: number[] = [];
   const usable = !slowMotion && timestampsMs && timestampsMs.length > 0;

@@ -43,8 +43,18 @@ describe('ReviewStore', () => {
       ],
     });
     store = TestBed.inject(ReviewStore);
-    const cache = new FrameCache({ frameCount: 20, width: 1280, height: 720, fetch: () => EMPTY, decode: () => Promise.reject(new Error('unused')) });
-    store.open({ clip, assessment, manifest }, { clipId: 7, revision: 0, landmarks: [], events: [], scale: null, updatedAt: null, updatedByName: null }, cache);
+    const cache = new FrameCache({
+      frameCount: 20,
+      width: 1280,
+      height: 720,
+      fetch: () => EMPTY,
+      decode: () => Promise.reject(new Error('unused')),
+    });
+    store.open(
+      { clip, assessment, manifest },
+      { clipId: 7, revision: 0, landmarks: [], events: [], scale: null, updatedAt: null, updatedByName: null },
+      cache,
+    );
   });
 
   it('starts on the near side and walks through the landmarks as they are placed', () => {

@@ -366,7 +366,9 @@ export class ReviewStore {
     const key: PointKey = { kind: 'point', frame: this.frame(), side: ref.side, landmark: ref.landmark };
     const now = valueAt(this.annotations(), key) as FramePoint | null;
     if (!now || (now.x === start.x && now.y === start.y)) return;
-    this.history$.update((h) => record(h, { label: `move ${LANDMARK_LABELS[ref.landmark].split(' (')[0]}`, changes: [{ key, before: start, after: now }] }));
+    this.history$.update((h) =>
+      record(h, { label: `move ${LANDMARK_LABELS[ref.landmark].split(' (')[0]}`, changes: [{ key, before: start, after: now }] }),
+    );
   }
 
   /** The stored position of a point on the current frame. */
@@ -400,7 +402,10 @@ export class ReviewStore {
   /** Marks (or unmarks) a gait event of the chosen side on this frame. */
   toggleEvent(kind: GaitEventKind): void {
     const present = this.annotations().events.some((e) => e.frame === this.frame() && e.side === this.side() && e.kind === kind);
-    this.apply(`${present ? 'unmark' : 'mark'} ${GAIT_EVENT_LABELS[kind]} (${SIDE_NAMES[this.side()]})`, toggleEventChanges(this.annotations(), this.frame(), this.side(), kind));
+    this.apply(
+      `${present ? 'unmark' : 'mark'} ${GAIT_EVENT_LABELS[kind]} (${SIDE_NAMES[this.side()]})`,
+      toggleEventChanges(this.annotations(), this.frame(), this.side(), kind),
+    );
   }
 
   removeEvent(mark: GaitEventMark): void {

@@ -6,7 +6,9 @@ const http = (status: number, error: unknown) => new HttpErrorResponse({ status,
 
 describe('saveProblems', () => {
   it('puts a details entry under its field', () => {
-    const err = http(422, { error: { code: 'validation', message: 'Check the fields', details: [{ path: ['caption'], message: 'At most 280 characters' }] } });
+    const err = http(422, {
+      error: { code: 'validation', message: 'Check the fields', details: [{ path: ['caption'], message: 'At most 280 characters' }] },
+    });
     expect(saveProblems(err, ['caption'])).toEqual({ byField: { caption: 'At most 280 characters' }, general: null });
   });
   it('reads a fields object too', () => {

@@ -20,7 +20,14 @@ export function saveProblems(err: unknown, fields: readonly string[]): { byField
     for (const [k, v] of Object.entries(extra as Record<string, unknown>)) if (typeof v === 'string') add([k], v);
   } else if (Array.isArray(extra)) {
     for (const f of extra as { path?: unknown; field?: unknown; message?: unknown }[]) {
-      const name = typeof f?.field === 'string' ? f.field : Array.isArray(f?.path) ? f.path[0] : typeof f?.path === 'string' ? f.path.split('.')[0] : '';
+      const name =
+        typeof f?.field === 'string'
+          ? f.field
+          : Array.isArray(f?.path)
+            ? f.path[0]
+            : typeof f?.path === 'string'
+              ? f.path.split('.')[0]
+              : '';
       if (typeof f?.message === 'string') add([name as string], f.message);
     }
   }

@@ -80,10 +80,18 @@ describe('publishButton', () => {
   it('offers Publish only for a ready, unpublished item', () => {
     expect(publishButton({ status: 'ready', publishedAt: null })).toMatchObject({ action: 'publish', disabled: false });
     expect(publishButton({ status: 'rendering', publishedAt: null })).toMatchObject({ action: 'publish', disabled: true });
-    expect(publishButton({ status: 'failed', publishedAt: null })).toMatchObject({ action: 'publish', disabled: true, state: 'Rendering failed' });
+    expect(publishButton({ status: 'failed', publishedAt: null })).toMatchObject({
+      action: 'publish',
+      disabled: true,
+      state: 'Rendering failed',
+    });
   });
   it('offers Unpublish for a published item', () => {
-    expect(publishButton({ status: 'ready', publishedAt: '2026-12-01T10:00:00Z' })).toMatchObject({ action: 'unpublish', label: 'Unpublish', disabled: false });
+    expect(publishButton({ status: 'ready', publishedAt: '2026-12-01T10:00:00Z' })).toMatchObject({
+      action: 'unpublish',
+      label: 'Unpublish',
+      disabled: false,
+    });
   });
 });
 
@@ -187,7 +195,9 @@ describe('baselineChoices and stillChoices', () => {
 describe('summaryStateText and downloadUrl', () => {
   it('describes the state', () => {
     expect(summaryStateText({ status: 'rendering', publishedAt: null, pageCount: null, error: null })).toBe('Rendering…');
-    expect(summaryStateText({ status: 'failed', publishedAt: null, pageCount: null, error: 'No fonts' })).toBe('Rendering failed: No fonts');
+    expect(summaryStateText({ status: 'failed', publishedAt: null, pageCount: null, error: 'No fonts' })).toBe(
+      'Rendering failed: No fonts',
+    );
     expect(summaryStateText({ status: 'ready', publishedAt: 'x', pageCount: 2, error: null })).toBe('2 pages · published');
     expect(summaryStateText({ status: 'ready', publishedAt: null, pageCount: 1, error: null })).toBe('1 page · not published');
   });

@@ -50,7 +50,8 @@ export interface PublishButton {
 export function publishButton(item: { status: RenderStatus; publishedAt: string | null }): PublishButton {
   if (item.publishedAt) return { action: 'unpublish', label: 'Unpublish', disabled: false, state: 'Published to the athlete' };
   const disabled = item.status !== 'ready';
-  const state = item.status === 'rendering' ? 'Rendering — publish when it is ready' : item.status === 'failed' ? 'Rendering failed' : 'Not published';
+  const state =
+    item.status === 'rendering' ? 'Rendering — publish when it is ready' : item.status === 'failed' ? 'Rendering failed' : 'Not published';
   return { action: 'publish', label: 'Publish', disabled, state };
 }
 
@@ -88,7 +89,11 @@ export function stillAlt(still: Pick<Still, 'caption' | 'panels' | 'kind'>): str
 }
 
 /** What publishing sends, for the confirmation. */
-export function publishConfirmText(kind: 'still' | 'summary', athleteName: string, hasAccount = true): { title: string; message: string; confirmLabel: string } {
+export function publishConfirmText(
+  kind: 'still' | 'summary',
+  athleteName: string,
+  hasAccount = true,
+): { title: string; message: string; confirmLabel: string } {
   const who = athleteName.trim() || 'The athlete';
   const what = kind === 'still' ? 'this still' : 'this visit summary';
   const title = kind === 'still' ? 'Publish this still?' : 'Publish this visit summary?';
@@ -123,7 +128,9 @@ export function todayIso(now = new Date()): string {
 export function baselineChoices<T extends { id: number; date: string }>(assessments: readonly T[], chosenId: number | null): T[] {
   const chosen = assessments.find((a) => a.id === chosenId);
   if (!chosen) return [];
-  return assessments.filter((a) => a.id !== chosen.id && a.date <= chosen.date).sort((a, b) => (a.date < b.date ? 1 : a.date > b.date ? -1 : b.id - a.id));
+  return assessments
+    .filter((a) => a.id !== chosen.id && a.date <= chosen.date)
+    .sort((a, b) => (a.date < b.date ? 1 : a.date > b.date ? -1 : b.id - a.id));
 }
 
 /** Stills a summary of the chosen visits can carry: ready stills of either assessment. */
@@ -146,7 +153,10 @@ export function downloadUrl(pdfUrl: string): string {
 }
 
 /** The baseline a summary of a Re-test compares with by default: the latest earlier Baseline; none for a Baseline. */
-export function defaultBaseline<T extends { id: number; date: string; kind: string }>(assessments: readonly T[], chosenId: number | null): number | null {
+export function defaultBaseline<T extends { id: number; date: string; kind: string }>(
+  assessments: readonly T[],
+  chosenId: number | null,
+): number | null {
   const chosen = assessments.find((a) => a.id === chosenId);
   if (!chosen || chosen.kind !== 'retest') return null;
   return baselineChoices(assessments, chosenId).find((a) => a.kind === 'baseline')?.id ?? null;

@@ -38,6 +38,9 @@ describe('heirChoices', () => {
 describe('staffStatus', () => {
   it('says Active, or when the member was deactivated', () => {
     expect(staffStatus(member(2, 'Tobin'), () => 'x')).toEqual({ label: 'Active', since: null });
-    expect(staffStatus(member(4, 'Gone', { active: false, deactivatedAt: '2026-11-01T10:00:00Z' }), (iso) => iso.slice(0, 10))).toEqual({ label: 'Deactivated', since: 'since 2026-11-01' });
+    expect(staffStatus(member(4, 'Gone', { active: false, deactivatedAt: '2026-11-01T10:00:00Z' }), (iso) => iso.slice(0, 10))).toEqual({
+      label: 'Deactivated',
+      since: 'since 2026-11-01',
+    });
   });
 });

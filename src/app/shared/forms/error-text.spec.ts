@@ -14,9 +14,7 @@ describe('errorText', () => {
   it('names the field in generic messages', () => {
     expect(errorText(controlWith('', Validators.required), 'First name')).toBe('First name is required');
     expect(errorText(controlWith(250, Validators.max(230)), 'Height')).toBe('Height must be at most 230');
-    expect(errorText(controlWith('abc', Validators.minLength(10)), 'Password')).toBe(
-      'Password must be at least 10 characters',
-    );
+    expect(errorText(controlWith('abc', Validators.minLength(10)), 'Password')).toBe('Password must be at least 10 characters');
     expect(errorText(controlWith('x', Validators.email), 'E-mail')).toBe('Enter a valid e-mail address');
   });
 

@@ -8,11 +8,7 @@ type Overrides = Partial<Record<string, string>>;
  * `label` names the field in generic messages ("Height must be at most 230"); `overrides` replace
  * the message for a given error key. A server error (`{ server: message }`) always wins.
  */
-export function errorText(
-  control: AbstractControl | null | undefined,
-  label: string,
-  overrides: Overrides = {},
-): string {
+export function errorText(control: AbstractControl | null | undefined, label: string, overrides: Overrides = {}): string {
   const errors = control?.errors;
   if (!errors) return '';
   if (typeof errors['server'] === 'string') return errors['server'];

@@ -5,9 +5,7 @@ import { applyServerErrors, saveProblem } from './server-errors';
 function form() {
   return new FormGroup({
     goalEvent: new FormControl('10 km'),
-    injuries: new FormArray([
-      new FormGroup({ when: new FormControl('2024-13'), notes: new FormControl('sore') }),
-    ]),
+    injuries: new FormArray([new FormGroup({ when: new FormControl('2024-13'), notes: new FormControl('sore') })]),
   });
 }
 
@@ -59,15 +57,31 @@ describe('saveProblem', () => {
 
   it('puts a 422 on its fields and returns only what matched no field', () => {
     const f = form();
-    const err = answer(422, { error: { code: 'validation_failed', message: 'Check.', details: [{ path: ['goalEvent'], message: 'Too long' }, { path: ['logo'], message: 'Unknown field' }] } });
+    const err = answer(422, {
+      error: {
+        code: 'validation_failed',
+        message: 'Check.',
+        details: [
+          { path: ['goalEvent'], message: 'Too long' },
+          { path: ['logo'], message: 'Unknown field' },
+        ],
+      },
+    });
     expect(saveProblem(f, err)).toBe('logo: Unknown field');
     expect(f.controls.goalEvent.errors).toEqual({ server: 'Too long' });
-    expect(saveProblem(form(), answer(422, { error: { code: 'validation_failed', message: 'Check.', details: [{ path: ['goalEvent'], message: 'Too long' }] } }))).toBeNull();
+    expect(
+      saveProblem(
+        form(),
+        answer(422, { error: { code: 'validation_failed', message: 'Check.', details: [{ path: ['goalEvent'], message: 'Too long' }] } }),
+      ),
+    ).toBeNull();
   });
 
   it('returns the message of any other failure, and leaves the fields alone', () => {
     const f = form();
-    expect(saveProblem(f, answer(409, { error: { code: 'invalid_transition', message: 'The invoice changed meanwhile; reload it.' } }))).toBe('The invoice changed meanwhile; reload it.');
+    expect(
+      saveProblem(f, answer(409, { error: { code: 'invalid_transition', message: 'The invoice changed meanwhile; reload it.' } })),
+    ).toBe('The invoice changed meanwhile; reload it.');
     expect(f.controls.goalEvent.errors).toBeNull();
   });
 });

@@ -15,7 +15,14 @@ describe('isTextField', () => {
   });
 
   it('is false for buttons, toggles, tabs, sliders and the canvas', () => {
-    for (const t of [{ tagName: 'BUTTON' }, { tagName: 'BUTTON', role: 'radio' }, { tagName: 'DIV', role: 'tab' }, { tagName: 'INPUT', type: 'range' }, { tagName: 'CANVAS', role: 'img' }, { tagName: 'INPUT', type: 'checkbox' }]) {
+    for (const t of [
+      { tagName: 'BUTTON' },
+      { tagName: 'BUTTON', role: 'radio' },
+      { tagName: 'DIV', role: 'tab' },
+      { tagName: 'INPUT', type: 'range' },
+      { tagName: 'CANVAS', role: 'img' },
+      { tagName: 'INPUT', type: 'checkbox' },
+    ]) {
       expect(isTextField(t)).toBe(false);
     }
     expect(isTextField(null)).toBe(false);
@@ -33,7 +40,8 @@ describe('pageTakesKey', () => {
       { tagName: 'SUMMARY' },
     ];
     for (const target of clicked) {
-      for (const key of ['ArrowLeft', 'ArrowRight', 'Home', 'End', '[', ']', ' ']) expect(take(key, { ...target, focusVisible: false }), `${key} on ${JSON.stringify(target)}`).toBe(true);
+      for (const key of ['ArrowLeft', 'ArrowRight', 'Home', 'End', '[', ']', ' '])
+        expect(take(key, { ...target, focusVisible: false }), `${key} on ${JSON.stringify(target)}`).toBe(true);
     }
   });
 

@@ -25,7 +25,21 @@ export interface FocusTarget {
 /** Keys that move inside tabs, toggle groups, menus, listboxes and sliders. */
 const NAVIGATION_KEYS = new Set(['ArrowLeft', 'ArrowRight', 'ArrowUp', 'ArrowDown', 'Home', 'End', 'PageUp', 'PageDown']);
 /** Input types that take typing. */
-const TEXT_INPUT_TYPES = new Set(['text', 'search', 'number', 'email', 'password', 'tel', 'url', 'date', 'time', 'datetime-local', 'month', 'week', '']);
+const TEXT_INPUT_TYPES = new Set([
+  'text',
+  'search',
+  'number',
+  'email',
+  'password',
+  'tel',
+  'url',
+  'date',
+  'time',
+  'datetime-local',
+  'month',
+  'week',
+  '',
+]);
 /** Roles of fields that take typing or type-ahead (a Material select is a combobox). */
 const TEXT_ROLES = new Set(['textbox', 'searchbox', 'combobox', 'spinbutton']);
 /** Roles of items inside a composite widget that moves with the arrows. */

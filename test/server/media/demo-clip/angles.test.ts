@@ -84,7 +84,12 @@ describe('properties (fast-check)', () => {
       fc.property(pose, fc.integer({ min: 2, max: 4000 }), (p, width) => {
         fc.pre(distinct(p));
         const right = sideAngles(map(p, (q) => pixelToSagittal(q, 'right')) as SideLandmarks);
-        const left = sideAngles(map(map(p, (q) => ({ x: width - q.x, y: q.y })), (q) => pixelToSagittal(q, 'left')) as SideLandmarks);
+        const left = sideAngles(
+          map(
+            map(p, (q) => ({ x: width - q.x, y: q.y })),
+            (q) => pixelToSagittal(q, 'left'),
+          ) as SideLandmarks,
+        );
         return (Object.keys(right) as Array<keyof typeof right>).every((k) => close(right[k], left[k]));
       }),
     );
@@ -92,12 +97,19 @@ describe('properties (fast-check)', () => {
 
   it('angles do not change when the pose is moved or uniformly scaled', () => {
     fc.assert(
-      fc.property(pose, fc.double({ min: -500, max: 500, noNaN: true }), fc.double({ min: 0.1, max: 10, noNaN: true }), (p, shift, scale) => {
-        fc.pre(distinct(p));
-        const a = sideAngles(map(p, (q) => pixelToSagittal(q, 'right')) as SideLandmarks);
-        const b = sideAngles(map(p, (q) => pixelToSagittal({ x: q.x * scale + shift, y: q.y * scale - shift }, 'right')) as SideLandmarks);
-        return (Object.keys(a) as Array<keyof typeof a>).every((k) => close(a[k], b[k]));
-      }),
+      fc.property(
+        pose,
+        fc.double({ min: -500, max: 500, noNaN: true }),
+        fc.double({ min: 0.1, max: 10, noNaN: true }),
+        (p, shift, scale) => {
+          fc.pre(distinct(p));
+          const a = sideAngles(map(p, (q) => pixelToSagittal(q, 'right')) as SideLandmarks);
+          const b = sideAngles(
+            map(p, (q) => pixelToSagittal({ x: q.x * scale + shift, y: q.y * scale - shift }, 'right')) as SideLandmarks,
+          );
+          return (Object.keys(a) as Array<keyof typeof a>).every((k) => close(a[k], b[k]));
+        },
+      ),
     );
   });
 
@@ -117,12 +129,20 @@ describe('properties (fast-check)', () => {
 
   it('normalised landmarks give the same angles as pixels when width and height are applied', () => {
     fc.assert(
-      fc.property(pose, fc.integer({ min: 16, max: 4000 }), fc.integer({ min: 16, max: 4000 }), fc.constantFrom('left' as const, 'right' as const), (p, w, h, facing) => {
-        fc.pre(distinct(p));
-        const fromPx = sideAngles(map(p, (q) => pixelToSagittal(q, facing)) as SideLandmarks);
-        const fromNorm = sideAngles(map(p, (q) => toSagittal({ x: q.x / w, y: q.y / h }, { width: w, height: h }, facing)) as SideLandmarks);
-        return (Object.keys(fromPx) as Array<keyof typeof fromPx>).every((k) => close(fromPx[k], fromNorm[k]));
-      }),
+      fc.property(
+        pose,
+        fc.integer({ min: 16, max: 4000 }),
+        fc.integer({ min: 16, max: 4000 }),
+        fc.constantFrom('left' as const, 'right' as const),
+        (p, w, h, facing) => {
+          fc.pre(distinct(p));
+          const fromPx = sideAngles(map(p, (q) => pixelToSagittal(q, facing)) as SideLandmarks);
+          const fromNorm = sideAngles(
+            map(p, (q) => toSagittal({ x: q.x / w, y: q.y / h }, { width: w, height: h }, facing)) as SideLandmarks,
+          );
+          return (Object.keys(fromPx) as Array<keyof typeof fromPx>).every((k) => close(fromPx[k], fromNorm[k]));
+        },
+      ),
     );
   });
 });

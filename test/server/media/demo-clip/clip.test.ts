@@ -70,18 +70,21 @@ describe('encoded synthetic runner clip (320×180, 30 fps, 1 s)', () => {
     }
   });
 
-  it.each(['zscale', 'swscale'] as const)('%s: extracted JPEGs keep the rendered colours (full range): background #CCD6D1 and the white hip marker', async (scaler) => {
-    const out = path.join(dir, `colours-${scaler}`);
-    await extractFrames(video, out, { scaler });
-    const img = await loadImage(await readFile(path.join(out, 'frames', '000014.jpg')));
-    const ctx = createCanvas(img.width, img.height).getContext('2d');
-    ctx.drawImage(img, 0, 0);
-    const rgba = ctx.getImageData(0, 0, img.width, img.height).data;
-    const bg = brightestNear(rgba, img.width, 10, 10, 0);
-    [0xcc, 0xd6, 0xd1].forEach((c, i) => expect(Math.abs(bg[i]! - c)).toBeLessThanOrEqual(8));
-    const hip = truth.frames[13]!.landmarks.near.hip;
-    expect(Math.min(...brightestNear(rgba, img.width, hip.x, hip.y, 1))).toBeGreaterThan(190);
-  });
+  it.each(['zscale', 'swscale'] as const)(
+    '%s: extracted JPEGs keep the rendered colours (full range): background #CCD6D1 and the white hip marker',
+    async (scaler) => {
+      const out = path.join(dir, `colours-${scaler}`);
+      await extractFrames(video, out, { scaler });
+      const img = await loadImage(await readFile(path.join(out, 'frames', '000014.jpg')));
+      const ctx = createCanvas(img.width, img.height).getContext('2d');
+      ctx.drawImage(img, 0, 0);
+      const rgba = ctx.getImageData(0, 0, img.width, img.height).data;
+      const bg = brightestNear(rgba, img.width, 10, 10, 0);
+      [0xcc, 0xd6, 0xd1].forEach((c, i) => expect(Math.abs(bg[i]! - c)).toBeLessThanOrEqual(8));
+      const hip = truth.frames[13]!.landmarks.near.hip;
+      expect(Math.min(...brightestNear(rgba, img.width, hip.x, hip.y, 1))).toBeGreaterThan(190);
+    },
+  );
 
   it('extractFrames turns the clip into one JPEG per ground-truth frame', async () => {
     const manifest = await extractFrames(video, path.join(dir, 'frames-out'));

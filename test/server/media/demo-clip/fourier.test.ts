@@ -32,7 +32,14 @@ describe('fourier helpers', () => {
   });
 
   it('slopeSeries is the derivative of evalSeries (central difference)', () => {
-    const s = fitSeries([{ phi: 0, value: 10 }, { phi: 0.3, value: -20 }, { phi: 0.7, value: 40, slope: 0 }], 3);
+    const s = fitSeries(
+      [
+        { phi: 0, value: 10 },
+        { phi: 0.3, value: -20 },
+        { phi: 0.7, value: 40, slope: 0 },
+      ],
+      3,
+    );
     for (const phi of [0.1, 0.45, 0.9]) {
       const h = 1e-6;
       expect(slopeSeries(s, phi)).toBeCloseTo((evalSeries(s, phi + h) - evalSeries(s, phi - h)) / (2 * h), 4);
@@ -40,7 +47,12 @@ describe('fourier helpers', () => {
   });
 
   it('refuses more conditions than coefficients', () => {
-    expect(() => fitSeries([0, 0.2, 0.4, 0.6].map((phi) => ({ phi, value: 1 })), 1)).toThrow(/harmonics/);
+    expect(() =>
+      fitSeries(
+        [0, 0.2, 0.4, 0.6].map((phi) => ({ phi, value: 1 })),
+        1,
+      ),
+    ).toThrow(/harmonics/);
   });
 
   it('smootherstep runs 0 → 1 with flat ends', () => {

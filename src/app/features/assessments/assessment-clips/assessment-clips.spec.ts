@@ -158,11 +158,7 @@ describe('AssessmentClips', () => {
     await fixture.whenStable();
     expect(statuses()).toEqual(['Failed', 'Ready']);
     const thumbs = [...element.querySelectorAll<HTMLImageElement>('.thumbs img')];
-    expect(thumbs.map((t) => t.getAttribute('src'))).toEqual([
-      '/api/clips/2/thumbs/0',
-      '/api/clips/2/thumbs/1',
-      '/api/clips/2/thumbs/2',
-    ]);
+    expect(thumbs.map((t) => t.getAttribute('src'))).toEqual(['/api/clips/2/thumbs/0', '/api/clips/2/thumbs/1', '/api/clips/2/thumbs/2']);
     expect(thumbs.every((t) => t.getAttribute('loading') === 'lazy' && t.getAttribute('width') === '128')).toBe(true);
     expect(element.querySelector<HTMLImageElement>('.poster img')?.getAttribute('src')).toBe('/api/clips/2/poster');
 
@@ -195,7 +191,9 @@ describe('AssessmentClips', () => {
   it('links staff to the review workspace of ready clips only', async () => {
     create(detail({ clips: [clip(1, { status: 'ready', frameCount: 300 }), clip(2)] }));
     await fixture.whenStable();
-    const links = [...element.querySelectorAll('app-clip-card')].map((card) => card.querySelector('a.review-link')?.getAttribute('href') ?? null);
+    const links = [...element.querySelectorAll('app-clip-card')].map(
+      (card) => card.querySelector('a.review-link')?.getAttribute('href') ?? null,
+    );
     expect(links).toEqual(['/athletes/9/assessments/4/clips/1/review', null]);
   });
 
@@ -214,10 +212,14 @@ describe('AssessmentClips', () => {
   });
 
   it('locks an athlete out of a marked clip’s settings and says why; staff keep them', async () => {
-    create(detail({ clips: [clip(1, { status: 'ready', frameCount: 300, marked: true }), clip(2, { status: 'ready', frameCount: 300 })] }), 'athlete');
+    create(
+      detail({ clips: [clip(1, { status: 'ready', frameCount: 300, marked: true }), clip(2, { status: 'ready', frameCount: 300 })] }),
+      'athlete',
+    );
     await fixture.whenStable();
     const cards = [...element.querySelectorAll('app-clip-card')];
-    const disabled = (card: Element) => [...card.querySelectorAll('.settings button, .settings input')].map((b) => (b as HTMLButtonElement).disabled);
+    const disabled = (card: Element) =>
+      [...card.querySelectorAll('.settings button, .settings input')].map((b) => (b as HTMLButtonElement).disabled);
     expect(disabled(cards[0]!).every(Boolean)).toBe(true);
     expect(cards[0]!.querySelector('.settings-locked')?.textContent).toContain('Your clinician has marked this clip');
     expect(cards[0]!.querySelector('.settings')?.getAttribute('aria-describedby')).toBe('locked-1');

@@ -1,13 +1,4 @@
-import {
-  ChangeDetectionStrategy,
-  Component,
-  computed,
-  inject,
-  input,
-  linkedSignal,
-  signal,
-  viewChild,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, linkedSignal, signal, viewChild } from '@angular/core';
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
@@ -65,15 +56,13 @@ export class AssessmentClips {
   /** Live list; reset only when a different assessment is shown. */
   protected readonly clips = linkedSignal<AssessmentDetail, Clip[]>({
     source: this.assessment,
-    computation: (a, previous) =>
-      previous && previous.source.id === a.id ? previous.value : sortClips(a.clips),
+    computation: (a, previous) => (previous && previous.source.id === a.id ? previous.value : sortClips(a.clips)),
   });
   protected readonly videoConsent = linkedSignal(() => this.assessment().videoConsent);
   /** The guide starts open while the assessment has no clips. */
   protected readonly guideOpen = linkedSignal<AssessmentDetail, boolean>({
     source: this.assessment,
-    computation: (a, previous) =>
-      previous && previous.source.id === a.id ? previous.value : a.clips.length === 0,
+    computation: (a, previous) => (previous && previous.source.id === a.id ? previous.value : a.clips.length === 0),
   });
   protected readonly live = signal<'connecting' | 'live' | 'stopped'>('connecting');
   private readonly restart = signal(0);

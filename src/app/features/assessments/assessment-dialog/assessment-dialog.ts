@@ -133,9 +133,7 @@ export class AssessmentDialog {
     const body = formValueToWrite(this.form.getRawValue());
     const existing = this.data.assessment;
     try {
-      const saved = await firstValueFrom(
-        existing ? this.api.update(existing.id, body) : this.api.create(this.data.athleteId, body),
-      );
+      const saved = await firstValueFrom(existing ? this.api.update(existing.id, body) : this.api.create(this.data.athleteId, body));
       this.dialogRef.close(saved);
     } catch (err) {
       if (errorStatus(err) === 422) {

@@ -59,9 +59,7 @@ export class AssessmentList {
   protected readonly errorMessage = errorMessage;
 
   protected link(a: Assessment): unknown[] {
-    return this.audience() === 'staff'
-      ? ['/athletes', this.athleteId(), 'assessments', a.id]
-      : ['/portal/assessments', a.id];
+    return this.audience() === 'staff' ? ['/athletes', this.athleteId(), 'assessments', a.id] : ['/portal/assessments', a.id];
   }
 
   protected create(): void {

@@ -74,9 +74,7 @@ export class AssessmentPage implements LeaveGuarded {
     return a && a.athleteId === Number(this.athleteId()) ? a : null;
   });
   protected readonly notFound = computed(
-    () =>
-      errorStatus(this.assessment.error()) === 404 ||
-      (this.assessment.hasValue() && this.detail() === null),
+    () => errorStatus(this.assessment.error()) === 404 || (this.assessment.hasValue() && this.detail() === null),
   );
   protected readonly athleteName = computed(() => {
     const a = this.athlete.hasValue() ? this.athlete.value() : null;

@@ -78,8 +78,8 @@ export const CAMERA_GUIDE_STEPS: readonly GuideStep[] = [
         }
       </ol>
       <p class="why">
-        Why: a fixed, side-on camera at a high frame rate keeps joint angles and event timing comparable from one
-        visit to the next (Souza 2016).
+        Why: a fixed, side-on camera at a high frame rate keeps joint angles and event timing comparable from one visit to the next (Souza
+        2016).
       </p>
     </mat-expansion-panel>
   `,

@@ -105,10 +105,7 @@ describe('ClipUploader', () => {
     expect(rows()[0].status).toBe('Uploaded — processing shown below');
 
     const [second] = uploads();
-    second.flush(
-      { error: { code: 'too_large', message: 'Clips can be at most 2 GB.' } },
-      { status: 413, statusText: 'Payload Too Large' },
-    );
+    second.flush({ error: { code: 'too_large', message: 'Clips can be at most 2 GB.' } }, { status: 413, statusText: 'Payload Too Large' });
     fixture.detectChanges();
     expect(rows()[2].status).toBe('Clips can be at most 2 GB.');
     expect(fixture.componentInstance.busy()).toBe(false);

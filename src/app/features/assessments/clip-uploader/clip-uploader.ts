@@ -1,13 +1,4 @@
-import {
-  ChangeDetectionStrategy,
-  Component,
-  DestroyRef,
-  computed,
-  inject,
-  input,
-  output,
-  signal,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, input, output, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
@@ -73,9 +64,7 @@ export class ClipUploader {
   protected readonly dragging = signal(false);
   /** Whether files are still waiting or uploading (leaving the page would stop them). */
   readonly busy = computed(() => isBusy(this.items()));
-  protected readonly hasFinished = computed(() =>
-    this.items().some((i) => i.state === 'done' || i.state === 'cancelled'),
-  );
+  protected readonly hasFinished = computed(() => this.items().some((i) => i.state === 'done' || i.state === 'cancelled'));
   protected readonly accept = UPLOAD.accept;
   protected readonly icons = STATE_ICONS;
   protected readonly formatBytes = formatBytes;

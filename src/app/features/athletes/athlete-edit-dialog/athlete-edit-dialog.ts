@@ -79,9 +79,7 @@ export class AthleteEditDialog {
     const value = this.form.getRawValue();
     const notes = value.notes.trim();
     try {
-      const updated = await firstValueFrom(
-        this.api.update(this.athlete.id, { ...identityPayload(value), notes: notes || null }),
-      );
+      const updated = await firstValueFrom(this.api.update(this.athlete.id, { ...identityPayload(value), notes: notes || null }));
       this.dialogRef.close(updated);
     } catch (err) {
       if (errorStatus(err) === 422) {

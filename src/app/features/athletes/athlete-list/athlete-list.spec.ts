@@ -96,7 +96,9 @@ describe('AthleteList', () => {
   });
 
   it('shows an error state whose retry loads again', async () => {
-    backend.expectOne('/api/athletes').flush({ error: { code: 'internal', message: 'Roster store offline' } }, { status: 500, statusText: 'Error' });
+    backend
+      .expectOne('/api/athletes')
+      .flush({ error: { code: 'internal', message: 'Roster store offline' } }, { status: 500, statusText: 'Error' });
     backend.expectOne('/api/plan-alerts').flush({ alerts: [] });
     await fixture.whenStable();
     expect(element.querySelector('app-error-state')?.textContent).toContain('Roster store offline');
@@ -107,7 +109,13 @@ describe('AthleteList', () => {
   });
 
   it('shows a plan-alert chip linking to the plan for athletes whose pain rose', async () => {
-    const alert = { kind: 'weekly_rise_during' as const, message: 'Weekly pain rising: 2 → 6 (mean pain during, week of 30 Nov → week of 7 Dec).', date: '2026-12-07', value: 6, limit: 2 };
+    const alert = {
+      kind: 'weekly_rise_during' as const,
+      message: 'Weekly pain rising: 2 → 6 (mean pain during, week of 30 Nov → week of 7 Dec).',
+      date: '2026-12-07',
+      value: 6,
+      limit: 2,
+    };
     await answer([athlete(1, 'Cleo', 'Bright'), athlete(2, 'Abel', 'Able')], [{ athleteId: 1, planId: 9, alerts: [alert] }]);
     const chips = [...element.querySelectorAll<HTMLAnchorElement>('app-plan-alert-chip a')];
     expect(chips).toHaveLength(1);

@@ -20,14 +20,7 @@ import { ErrorState } from '../../../shared/states/error-state';
 import { PlanAlertChip } from '../../plans/plan-alert-chip/plan-alert-chip';
 import { PlansApi } from '../../plans/plans-api';
 import { AthletesApi } from '../athletes-api';
-import {
-  ACCOUNT_STATE_LABELS,
-  RosterSort,
-  accountState,
-  fullName,
-  rosterMatches,
-  sortRoster,
-} from '../roster';
+import { ACCOUNT_STATE_LABELS, RosterSort, accountState, fullName, rosterMatches, sortRoster } from '../roster';
 
 const PHONE = '(max-width: 599.98px)';
 const ALL_COLUMNS = ['name', 'goal', 'coach', 'account', 'consent', 'pain', 'updated'];
@@ -71,7 +64,9 @@ export class AthleteList {
   /** Pain alerts of running plans, by athlete (a failed load just shows no chips). */
   private readonly plansApi = inject(PlansApi);
   private readonly planAlerts = rxResource({ stream: () => this.plansApi.alerts() });
-  protected readonly alertsByAthlete = computed(() => new Map((this.planAlerts.hasValue() ? this.planAlerts.value() : []).map((a) => [a.athleteId, a])));
+  protected readonly alertsByAthlete = computed(
+    () => new Map((this.planAlerts.hasValue() ? this.planAlerts.value() : []).map((a) => [a.athleteId, a])),
+  );
   protected readonly pageSizes = [10, 25, 50];
   /** Under the pain column and alert chips. */
   protected readonly painCaution = PAIN_CAUTION;

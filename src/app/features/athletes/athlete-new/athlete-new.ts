@@ -48,9 +48,7 @@ export class AthleteNew {
   private readonly fb = inject(NonNullableFormBuilder);
 
   protected readonly coaches = rxResource({ stream: () => this.api.coaches() });
-  protected readonly coachOptions = computed(() =>
-    this.coaches.hasValue() ? this.coaches.value() : [],
-  );
+  protected readonly coachOptions = computed(() => (this.coaches.hasValue() ? this.coaches.value() : []));
   protected readonly form = this.fb.group({
     ...athleteIdentityControls(this.fb),
     dateOfBirth: this.fb.control<Date | null>(null, notFutureDate()),
@@ -85,9 +83,7 @@ export class AthleteNew {
     this.problem.set(null);
     const value = this.form.getRawValue();
     try {
-      const created = await firstValueFrom(
-        this.api.create({ ...identityPayload(value), dateOfBirth: toIsoDate(value.dateOfBirth) }),
-      );
+      const created = await firstValueFrom(this.api.create({ ...identityPayload(value), dateOfBirth: toIsoDate(value.dateOfBirth) }));
       this.snackBar.open(`${created.firstName} ${created.lastName} added to the roster`, 'OK', {
         duration: 4000,
       });

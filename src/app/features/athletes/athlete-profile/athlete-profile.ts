@@ -67,9 +67,7 @@ export class AthleteProfile implements LeaveGuarded {
   protected readonly athlete = rxResource({
     params: () => Number(this.id()),
     stream: ({ params }) =>
-      Number.isInteger(params) && params > 0
-        ? this.api.get(params)
-        : throwError(() => new Error('Not a valid athlete address.')),
+      Number.isInteger(params) && params > 0 ? this.api.get(params) : throwError(() => new Error('Not a valid athlete address.')),
   });
   protected readonly detail = computed(() => (this.athlete.hasValue() ? this.athlete.value() : null));
   protected readonly age = computed(() => ageOn(this.detail()?.dateOfBirth, new Date()));

@@ -230,9 +230,7 @@ describe('intake form validators', () => {
   });
 
   it('refuses the same pain region twice', () => {
-    expect(duplicateRegions([{ region: 'knee' }, { region: null }, { region: 'calf' }, { region: 'knee' }])).toEqual([
-      'knee',
-    ]);
+    expect(duplicateRegions([{ region: 'knee' }, { region: null }, { region: 'calf' }, { region: 'knee' }])).toEqual(['knee']);
     const form = createIntakeForm(fb, today);
     form.controls.pain.push(createPainRow(fb, { region: 'knee', score: 2 }));
     form.controls.pain.push(createPainRow(fb, { region: 'knee', score: 5 }));

@@ -137,26 +137,15 @@ export function createInjuryRow(
 export function createPainRow(fb: NonNullableFormBuilder, entry?: Partial<PainRowValue>): PainRowForm {
   return fb.group({
     region: fb.control<BodyRegion | null>(entry?.region ?? null, Validators.required),
-    score: fb.control(entry?.score ?? 0, [
-      Validators.required,
-      Validators.min(PAIN_MIN),
-      Validators.max(PAIN_MAX),
-      integer,
-    ]),
+    score: fb.control(entry?.score ?? 0, [Validators.required, Validators.min(PAIN_MIN), Validators.max(PAIN_MAX), integer]),
   });
 }
 
 /** The whole intake form, empty. Fill it with `setIntakeFormValue`. */
-export function createIntakeForm(
-  fb: NonNullableFormBuilder,
-  today: () => Date = () => new Date(),
-): IntakeFormGroup {
+export function createIntakeForm(fb: NonNullableFormBuilder, today: () => Date = () => new Date()): IntakeFormGroup {
   return fb.group({
     dateOfBirth: fb.control<Date | null>(null, notFutureDate(today)),
-    heightCm: fb.control<number | null>(null, [
-      Validators.min(LIMITS.heightCm.min),
-      Validators.max(LIMITS.heightCm.max),
-    ]),
+    heightCm: fb.control<number | null>(null, [Validators.min(LIMITS.heightCm.min), Validators.max(LIMITS.heightCm.max)]),
     distanceUnit: fb.control<DistanceUnit>('km'),
     weeklyDistance: fb.control<number | null>(null, distanceWithin(LIMITS.weeklyKm)),
     longestRecentRun: fb.control<number | null>(null, distanceWithin(LIMITS.longestRunKm)),

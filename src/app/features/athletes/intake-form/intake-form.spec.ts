@@ -47,12 +47,7 @@ describe('IntakeForm', () => {
     snackBar = { open: vi.fn() };
     TestBed.configureTestingModule({
       imports: [IntakeForm],
-      providers: [
-        provideHttpClient(),
-        provideHttpClientTesting(),
-        provideIsoDateAdapter(),
-        { provide: MatSnackBar, useValue: snackBar },
-      ],
+      providers: [provideHttpClient(), provideHttpClientTesting(), provideIsoDateAdapter(), { provide: MatSnackBar, useValue: snackBar }],
     });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(IntakeForm);
@@ -65,9 +60,7 @@ describe('IntakeForm', () => {
   afterEach(() => backend.verify());
 
   const saveButton = () =>
-    [...element.querySelectorAll<HTMLButtonElement>('button[type="submit"]')].find((b) =>
-      b.textContent?.includes('Save intake'),
-    )!;
+    [...element.querySelectorAll<HTMLButtonElement>('button[type="submit"]')].find((b) => b.textContent?.includes('Save intake'))!;
 
   it('shows the athlete as the server sent them, with the pain caution', () => {
     expect(element.querySelector<HTMLInputElement>('input[formcontrolname="heightCm"]')!.value).toBe('171');
@@ -144,9 +137,7 @@ describe('IntakeForm', () => {
 
   it('flags a pain area listed twice', async () => {
     form.controls.pain.at(0).controls.region.setValue('knee');
-    const addPain = [...element.querySelectorAll<HTMLButtonElement>('button')].find((b) =>
-      b.textContent?.includes('Add painful area'),
-    )!;
+    const addPain = [...element.querySelectorAll<HTMLButtonElement>('button')].find((b) => b.textContent?.includes('Add painful area'))!;
     addPain.click();
     await fixture.whenStable();
     form.controls.pain.at(1).controls.region.setValue('knee');
@@ -169,9 +160,7 @@ describe('IntakeForm', () => {
 
   it('converts the distances already typed when the unit is switched', async () => {
     const toggle = (label: string) =>
-      [...element.querySelectorAll<HTMLButtonElement>('mat-button-toggle button')].find((b) =>
-        b.textContent?.includes(label),
-      )!;
+      [...element.querySelectorAll<HTMLButtonElement>('mat-button-toggle button')].find((b) => b.textContent?.includes(label))!;
     toggle('Miles').click();
     await fixture.whenStable();
     // 40 km / 1.609344 = 24.85 mi; 16 km = 9.94 mi [calc]

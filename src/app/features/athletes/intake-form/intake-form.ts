@@ -139,9 +139,7 @@ export class IntakeForm {
   protected readonly unit = computed(() => this.formValue().distanceUnit);
   protected readonly weeklyMax = computed(() => distanceMax(LIMITS.weeklyKm, this.unit()));
   protected readonly longestMax = computed(() => distanceMax(LIMITS.longestRunKm, this.unit()));
-  protected readonly usedPainRegions = computed(
-    () => new Set(this.formValue().pain.map((p) => p.region)),
-  );
+  protected readonly usedPainRegions = computed(() => new Set(this.formValue().pain.map((p) => p.region)));
   /** Whether the form holds edits not saved yet (pages use it to warn before leaving). */
   readonly dirty = computed(() => this.snapshot().dirty);
 
@@ -253,9 +251,7 @@ export class IntakeForm {
     this.saving.set(true);
     const id = this.athlete().id;
     try {
-      const saved = await firstValueFrom(
-        this.api.saveIntake(id, formValueToIntake(this.form.getRawValue())),
-      );
+      const saved = await firstValueFrom(this.api.saveIntake(id, formValueToIntake(this.form.getRawValue())));
       this.form.markAsPristine();
       this.load(saved);
       this.saved.emit(saved);

@@ -1,14 +1,4 @@
-import {
-  ChangeDetectionStrategy,
-  Component,
-  DestroyRef,
-  computed,
-  effect,
-  inject,
-  input,
-  signal,
-  untracked,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -59,9 +49,7 @@ export class InvitationAccept {
     params: () => this.token(),
     stream: ({ params }) => this.api.previewInvitation(params),
   });
-  protected readonly roleLabel = computed(() =>
-    this.preview.hasValue() ? ROLE_LABELS[this.preview.value().role].toLowerCase() : '',
-  );
+  protected readonly roleLabel = computed(() => (this.preview.hasValue() ? ROLE_LABELS[this.preview.value().role].toLowerCase() : ''));
   private readonly fb = inject(NonNullableFormBuilder);
   protected readonly form = this.fb.group({
     name: ['', [requiredTrimmed, Validators.maxLength(LIMITS.name)]],
@@ -93,9 +81,7 @@ export class InvitationAccept {
     this.problem.set(null);
     const { name, password } = this.form.getRawValue();
     try {
-      const user = await firstValueFrom(
-        this.api.acceptInvitation(this.token(), { name: name.trim(), password }),
-      );
+      const user = await firstValueFrom(this.api.acceptInvitation(this.token(), { name: name.trim(), password }));
       await this.auth.setUser(user);
       await this.router.navigateByUrl(homePathFor(user.role));
     } catch (err) {

@@ -1,11 +1,4 @@
-import {
-  ChangeDetectionStrategy,
-  Component,
-  DestroyRef,
-  inject,
-  input,
-  signal,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -54,9 +47,7 @@ export class ResetPassword {
     params: () => this.token(),
     stream: ({ params }) => this.api.previewPasswordReset(params),
   });
-  protected readonly form = inject(NonNullableFormBuilder).group(
-    passwordControls(inject(NonNullableFormBuilder), inject(DestroyRef)),
-  );
+  protected readonly form = inject(NonNullableFormBuilder).group(passwordControls(inject(NonNullableFormBuilder), inject(DestroyRef)));
   protected readonly busy = signal(false);
   protected readonly problem = signal<string | null>(null);
   protected readonly minLength = LIMITS.passwordMin;

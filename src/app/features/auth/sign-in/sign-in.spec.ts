@@ -66,7 +66,10 @@ describe('SignIn', () => {
     submit();
     backend
       .expectOne('/api/auth/sign-in')
-      .flush({ error: { code: 'invalid_credentials', message: 'E-mail or password is wrong.' } }, { status: 401, statusText: 'Unauthorized' });
+      .flush(
+        { error: { code: 'invalid_credentials', message: 'E-mail or password is wrong.' } },
+        { status: 401, statusText: 'Unauthorized' },
+      );
     await fixture.whenStable();
     expect(element.querySelector('[role="alert"]')?.textContent).toContain('E-mail or password is wrong.');
     expect(router.navigateByUrl).not.toHaveBeenCalled();

@@ -52,10 +52,12 @@ describe('CurrencySetting', () => {
     setting.control.markAsDirty();
     await settle();
     void setting.save();
-    backend.expectOne('/api/billing/settings').flush(
-      { error: { code: 'currency_in_use', message: 'Invoices already exist in the current currency; the currency cannot change now.' } },
-      { status: 409, statusText: 'Conflict' },
-    );
+    backend
+      .expectOne('/api/billing/settings')
+      .flush(
+        { error: { code: 'currency_in_use', message: 'Invoices already exist in the current currency; the currency cannot change now.' } },
+        { status: 409, statusText: 'Conflict' },
+      );
     await settle();
     expect(fixture.nativeElement.querySelector('[role="alert"]')?.textContent).toContain('Invoices already exist in the current currency');
     expect(setting.control.value).toBe('USD');

@@ -39,9 +39,20 @@ let nextId = 0;
     </form>
   `,
   styles: `
-    .row { display: flex; align-items: center; gap: 8px; }
-    .field { inline-size: 140px; }
-    .refusal { margin: 4px 0 0; max-inline-size: 30em; color: var(--mat-sys-error); font: var(--mat-sys-body-small); }
+    .row {
+      display: flex;
+      align-items: center;
+      gap: 8px;
+    }
+    .field {
+      inline-size: 140px;
+    }
+    .refusal {
+      margin: 4px 0 0;
+      max-inline-size: 30em;
+      color: var(--mat-sys-error);
+      font: var(--mat-sys-body-small);
+    }
   `,
 })
 export class CurrencySetting {

@@ -33,8 +33,17 @@ const CONFIRM: Record<Action, (i: InvoiceDetail, hasAccount: boolean) => Confirm
       : `It gets its number and ${i.athleteName} receives an e-mail with the amount (${money(i.totalMinor, i.currency)}) and how to get access to pay online; they have no Trailframe account yet. Lines can no longer change.`,
     confirmLabel: 'Issue',
   }),
-  cancel: (i) => ({ title: 'Cancel this invoice?', message: `${i.number ?? 'The draft'} can no longer be paid. This cannot be undone.`, confirmLabel: 'Cancel invoice', dismissLabel: 'Keep invoice' }),
-  refund: (i) => ({ title: 'Refund the payment?', message: `${money(i.totalMinor, i.currency)} goes back to ${i.athleteName}'s card through the payment service. This cannot be undone.`, confirmLabel: 'Refund' }),
+  cancel: (i) => ({
+    title: 'Cancel this invoice?',
+    message: `${i.number ?? 'The draft'} can no longer be paid. This cannot be undone.`,
+    confirmLabel: 'Cancel invoice',
+    dismissLabel: 'Keep invoice',
+  }),
+  refund: (i) => ({
+    title: 'Refund the payment?',
+    message: `${money(i.totalMinor, i.currency)} goes back to ${i.athleteName}'s card through the payment service. This cannot be undone.`,
+    confirmLabel: 'Refund',
+  }),
 };
 
 /**
@@ -44,7 +53,19 @@ const CONFIRM: Record<Action, (i: InvoiceDetail, hasAccount: boolean) => Confirm
  */
 @Component({
   selector: 'app-invoice-detail',
-  imports: [DatePipe, RouterLink, MatCardModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState, InvoiceStatusBadge, InvoiceLinesTable, InvitePrompt, InvoiceSeller],
+  imports: [
+    DatePipe,
+    RouterLink,
+    MatCardModule,
+    MatButtonModule,
+    MatIconModule,
+    MatProgressBarModule,
+    ErrorState,
+    InvoiceStatusBadge,
+    InvoiceLinesTable,
+    InvitePrompt,
+    InvoiceSeller,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './invoice-detail.html',
   styleUrl: './invoice-detail.scss',
@@ -73,7 +94,9 @@ export class InvoiceDetailPage {
 
   protected act(action: Action, inv: InvoiceDetail): void {
     this.dialog
-      .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, { data: CONFIRM[action](inv, this.athlete.hasValue() ? this.athlete.value().hasAccount : true) })
+      .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, {
+        data: CONFIRM[action](inv, this.athlete.hasValue() ? this.athlete.value().hasAccount : true),
+      })
       .afterClosed()
       .subscribe(async (ok) => {
         if (!ok) return;
@@ -81,7 +104,11 @@ export class InvoiceDetailPage {
         try {
           const updated = await firstValueFrom(this.api.act(inv.id, action));
           this.invoice.set(updated);
-          const done = { issue: `Issued as ${updated.number}; the athlete was e-mailed`, cancel: 'Invoice cancelled', refund: 'Payment refunded' }[action];
+          const done = {
+            issue: `Issued as ${updated.number}; the athlete was e-mailed`,
+            cancel: 'Invoice cancelled',
+            refund: 'Payment refunded',
+          }[action];
           this.snackBar.open(done, 'OK', { duration: 4000 });
         } catch {
           // The error snackbar shows the server's reason (e.g. a conflict).
@@ -95,12 +122,20 @@ export class InvoiceDetailPage {
   /** Record a bank transfer or cash payment, or the refund of one (with a note): a dialog with its own fields. */
   protected openPayment(inv: InvoiceDetail, mode: PaymentDialogData['mode']): void {
     this.dialog
-      .open<PaymentDialog, PaymentDialogData, InvoiceDetail>(PaymentDialog, { data: { invoice: inv, mode }, width: '480px', maxWidth: '95vw' })
+      .open<PaymentDialog, PaymentDialogData, InvoiceDetail>(PaymentDialog, {
+        data: { invoice: inv, mode },
+        width: '480px',
+        maxWidth: '95vw',
+      })
       .afterClosed()
       .subscribe((updated) => {
         if (!updated) return;
         this.invoice.set(updated);
-        this.snackBar.open(mode === 'record' ? `Marked as paid: ${PAYMENT_METHOD_WORDS[updated.paymentMethod ?? 'cash'].toLowerCase()}` : 'Refund recorded', 'OK', { duration: 4000 });
+        this.snackBar.open(
+          mode === 'record' ? `Marked as paid: ${PAYMENT_METHOD_WORDS[updated.paymentMethod ?? 'cash'].toLowerCase()}` : 'Refund recorded',
+          'OK',
+          { duration: 4000 },
+        );
       });
   }
 

@@ -70,7 +70,13 @@ describe('InvoiceForm', () => {
     const req = backend.expectOne('/api/invoices');
     expect(req.request.body.lines).toEqual([{ priceId: null, description: 'Taping', quantity: 3, unitAmountMinor: 4500, taxRateBp: 2000 }]);
     req.flush(
-      { error: { code: 'validation_failed', message: 'x', details: [{ path: ['lines', 0, 'unitAmountMinor'], message: 'The amount must be at most 1000000.' }] } },
+      {
+        error: {
+          code: 'validation_failed',
+          message: 'x',
+          details: [{ path: ['lines', 0, 'unitAmountMinor'], message: 'The amount must be at most 1000000.' }],
+        },
+      },
       { status: 422, statusText: 'Unprocessable' },
     );
     await settle();
@@ -105,10 +111,44 @@ describe('InvoiceForm reached by address', () => {
   };
 
   const DRAFT: InvoiceDetail = {
-    id: 31, number: null, status: 'draft', athleteId: 4, athleteName: 'Ada Kestrel', currency: 'EUR', totalMinor: 15600, dueDate: '2026-12-31',
-    issuedAt: null, paidAt: null, createdAt: '2026-12-01T10:00:00Z', assessmentId: 11, assessment: { id: 11, kind: 'retest', date: '2026-11-24' }, note: 'Two visits', clinicName: 'Test clinic',
-    subtotalMinor: 13000, taxMinor: 2600, cancelledAt: null, refundedAt: null, paymentMethod: null, paidOn: null, paymentNote: null, refundNote: null, clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' }, checkoutState: 'none',
-    lines: [{ id: 7, priceId: 2, description: 'Re-test', quantity: 2, unitAmountMinor: 6500, taxRateBp: 2000, netMinor: 13000, taxMinor: 2600, totalMinor: 15600 }],
+    id: 31,
+    number: null,
+    status: 'draft',
+    athleteId: 4,
+    athleteName: 'Ada Kestrel',
+    currency: 'EUR',
+    totalMinor: 15600,
+    dueDate: '2026-12-31',
+    issuedAt: null,
+    paidAt: null,
+    createdAt: '2026-12-01T10:00:00Z',
+    assessmentId: 11,
+    assessment: { id: 11, kind: 'retest', date: '2026-11-24' },
+    note: 'Two visits',
+    clinicName: 'Test clinic',
+    subtotalMinor: 13000,
+    taxMinor: 2600,
+    cancelledAt: null,
+    refundedAt: null,
+    paymentMethod: null,
+    paidOn: null,
+    paymentNote: null,
+    refundNote: null,
+    clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
+    checkoutState: 'none',
+    lines: [
+      {
+        id: 7,
+        priceId: 2,
+        description: 'Re-test',
+        quantity: 2,
+        unitAmountMinor: 6500,
+        taxRateBp: 2000,
+        netMinor: 13000,
+        taxMinor: 2600,
+        totalMinor: 15600,
+      },
+    ],
   };
 
   async function open(url: string): Promise<void> {
@@ -117,11 +157,14 @@ describe('InvoiceForm reached by address', () => {
         provideIsoDateAdapter(),
         provideHttpClient(),
         provideHttpClientTesting(),
-        provideRouter([
-          { path: 'billing/invoices/new', component: InvoiceForm },
-          { path: 'billing/invoices/:id/edit', component: InvoiceForm },
-          { path: '**', children: [] },
-        ], withComponentInputBinding()),
+        provideRouter(
+          [
+            { path: 'billing/invoices/new', component: InvoiceForm },
+            { path: 'billing/invoices/:id/edit', component: InvoiceForm },
+            { path: '**', children: [] },
+          ],
+          withComponentInputBinding(),
+        ),
       ],
     });
     backend = TestBed.inject(HttpTestingController);
@@ -137,7 +180,12 @@ describe('InvoiceForm reached by address', () => {
   it('"Invoice this visit" (?athlete=4&assessment=11) chooses the athlete, the Re-test and its price: 65.00 + 13.00 = 78.00 EUR', async () => {
     await open('/billing/invoices/new?athlete=4&assessment=11');
     await settle();
-    backend.expectOne('/api/athletes/4/assessments').flush({ assessments: [{ id: 10, athleteId: 4, date: '2026-10-01', kind: 'baseline' }, { id: 11, athleteId: 4, date: '2026-11-24', kind: 'retest' }] });
+    backend.expectOne('/api/athletes/4/assessments').flush({
+      assessments: [
+        { id: 10, athleteId: 4, date: '2026-10-01', kind: 'baseline' },
+        { id: 11, athleteId: 4, date: '2026-11-24', kind: 'retest' },
+      ],
+    });
     await settle();
     expect(form.form.getRawValue()).toMatchObject({ athleteId: 4, assessmentId: 11 });
     expect(form.lines.at(0).getRawValue()).toEqual({ priceId: 2, description: 'Re-test', quantity: 1, amount: '65.00', tax: '20' });
@@ -163,7 +211,13 @@ describe('InvoiceForm reached by address', () => {
     void form.save();
     const req = backend.expectOne('/api/invoices/31');
     expect(req.request.method).toBe('PUT');
-    expect(req.request.body).toEqual({ athleteId: 4, assessmentId: 11, dueDate: '2026-12-31', note: 'Two visits', lines: [{ priceId: 2, description: 'Re-test', quantity: 3, unitAmountMinor: 6500, taxRateBp: 2000 }] });
+    expect(req.request.body).toEqual({
+      athleteId: 4,
+      assessmentId: 11,
+      dueDate: '2026-12-31',
+      note: 'Two visits',
+      lines: [{ priceId: 2, description: 'Re-test', quantity: 3, unitAmountMinor: 6500, taxRateBp: 2000 }],
+    });
     req.flush({ ...DRAFT, totalMinor: 23400 });
     await settle();
     expect(navigate).toHaveBeenCalledWith(['/billing/invoices', 31]);
@@ -178,7 +232,12 @@ describe('InvoiceForm reached by address', () => {
     await settle();
     void form.save();
     backend.expectOne('/api/invoices/31').flush(
-      { error: { code: 'invoice_not_draft', message: 'Only a draft can be edited; invoice TF-2026-0007 is issued. Cancel it and make a new one instead.' } },
+      {
+        error: {
+          code: 'invoice_not_draft',
+          message: 'Only a draft can be edited; invoice TF-2026-0007 is issued. Cancel it and make a new one instead.',
+        },
+      },
       { status: 409, statusText: 'Conflict' },
     );
     await settle();

@@ -26,7 +26,15 @@ import { AthletesApi } from '../../athletes/athletes-api';
 import { BillingApi } from '../billing-api';
 import { money } from '../billing-words';
 import { amountValidator, taxValidator } from '../price-list/price-list';
-import { formFromInvoice, lineFromPrice, presetFromQuery, previewTotals, priceForAssessment, toLineWrite, type LineDraft } from './invoice-lines';
+import {
+  formFromInvoice,
+  lineFromPrice,
+  presetFromQuery,
+  previewTotals,
+  priceForAssessment,
+  toLineWrite,
+  type LineDraft,
+} from './invoice-lines';
 
 type LineGroup = FormGroup<{
   priceId: FormControl<number | null>;
@@ -50,7 +58,20 @@ const inTwoWeeks = () => {
  */
 @Component({
   selector: 'app-invoice-form',
-  imports: [DatePipe, ReactiveFormsModule, RouterLink, MatCardModule, MatDatepickerModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState],
+  imports: [
+    DatePipe,
+    ReactiveFormsModule,
+    RouterLink,
+    MatCardModule,
+    MatDatepickerModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatButtonModule,
+    MatIconModule,
+    MatProgressBarModule,
+    ErrorState,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './invoice-form.html',
   styleUrl: './invoice-form.scss',
@@ -69,7 +90,8 @@ export class InvoiceForm {
   /** The draft being edited. */
   protected readonly existing = rxResource({
     params: () => (this.isEdit() ? Number(this.id()) : undefined),
-    stream: ({ params }) => (Number.isInteger(params) && params > 0 ? this.api.invoice(params) : throwError(() => new Error('Not a valid invoice address.'))),
+    stream: ({ params }) =>
+      Number.isInteger(params) && params > 0 ? this.api.invoice(params) : throwError(() => new Error('Not a valid invoice address.')),
   });
   /** The saved invoice when it is no longer a draft (it cannot be edited then). */
   protected readonly locked = computed<InvoiceDetail | null>(() => {
@@ -226,7 +248,9 @@ export class InvoiceForm {
       if (errorStatus(err) === 422) {
         const problems = fieldProblems(err).map((p) => ({
           ...p,
-          path: p.path.map((seg) => (seg === 'unitAmountMinor' ? 'amount' : seg === 'taxRateBp' ? 'tax' : seg === 'priceId' ? 'description' : seg)),
+          path: p.path.map((seg) =>
+            seg === 'unitAmountMinor' ? 'amount' : seg === 'taxRateBp' ? 'tax' : seg === 'priceId' ? 'description' : seg,
+          ),
         }));
         const rest = applyServerErrors(this.form, problems);
         this.problem.set(rest.length ? rest.join(' ') : null);

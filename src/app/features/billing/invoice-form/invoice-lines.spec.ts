@@ -1,8 +1,24 @@
 import type { Price } from '../../../../contracts/billing';
-import { formFromInvoice, lineFromInvoiceLine, lineFromPrice, presetFromQuery, previewTotals, priceForAssessment, toLineWrite } from './invoice-lines';
+import {
+  formFromInvoice,
+  lineFromInvoiceLine,
+  lineFromPrice,
+  presetFromQuery,
+  previewTotals,
+  priceForAssessment,
+  toLineWrite,
+} from './invoice-lines';
 
 const retest: Price = { id: 2, item: 'Re-test', description: '', amountMinor: 6500, currency: 'EUR', taxRateBp: 2000, archived: false };
-const gait: Price = { id: 1, item: 'Gait assessment', description: '', amountMinor: 12000, currency: 'EUR', taxRateBp: 2000, archived: false };
+const gait: Price = {
+  id: 1,
+  item: 'Gait assessment',
+  description: '',
+  amountMinor: 12000,
+  currency: 'EUR',
+  taxRateBp: 2000,
+  archived: false,
+};
 
 describe('invoice lines', () => {
   it('fills a line from a price: Re-test 65.00 at 20 %', () => {
@@ -29,15 +45,62 @@ describe('invoice lines', () => {
   });
 
   it('turns saved lines back into what was typed: 1,250.00 at 7.5 %, 45.00 without tax', () => {
-    expect(lineFromInvoiceLine({ priceId: null, description: 'Block', quantity: 2, unitAmountMinor: 125000, taxRateBp: 750 })).toEqual({ priceId: null, description: 'Block', quantity: 2, amount: '1250.00', tax: '7.5' });
-    expect(lineFromInvoiceLine({ priceId: 2, description: 'Re-test', quantity: 1, unitAmountMinor: 4500, taxRateBp: null })).toEqual({ priceId: 2, description: 'Re-test', quantity: 1, amount: '45.00', tax: '' });
+    expect(lineFromInvoiceLine({ priceId: null, description: 'Block', quantity: 2, unitAmountMinor: 125000, taxRateBp: 750 })).toEqual({
+      priceId: null,
+      description: 'Block',
+      quantity: 2,
+      amount: '1250.00',
+      tax: '7.5',
+    });
+    expect(lineFromInvoiceLine({ priceId: 2, description: 'Re-test', quantity: 1, unitAmountMinor: 4500, taxRateBp: null })).toEqual({
+      priceId: 2,
+      description: 'Re-test',
+      quantity: 1,
+      amount: '45.00',
+      tax: '',
+    });
   });
 
   it('a saved draft fills the form and previews the same total the server stored (2 × 65.00 at 20 % = 156.00)', () => {
     const f = formFromInvoice({
-      id: 9, number: null, status: 'draft', athleteId: 4, athleteName: 'Ada Kestrel', currency: 'EUR', totalMinor: 15600, dueDate: '2026-12-31', issuedAt: null, paidAt: null, createdAt: '',
-      assessmentId: 11, assessment: { id: 11, kind: 'retest', date: '2026-11-24' }, note: null, clinicName: '', subtotalMinor: 13000, taxMinor: 2600, cancelledAt: null, refundedAt: null, paymentMethod: null, paidOn: null, paymentNote: null, refundNote: null, clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' }, checkoutState: 'none',
-      lines: [{ id: 1, priceId: 2, description: 'Re-test', quantity: 2, unitAmountMinor: 6500, taxRateBp: 2000, netMinor: 13000, taxMinor: 2600, totalMinor: 15600 }],
+      id: 9,
+      number: null,
+      status: 'draft',
+      athleteId: 4,
+      athleteName: 'Ada Kestrel',
+      currency: 'EUR',
+      totalMinor: 15600,
+      dueDate: '2026-12-31',
+      issuedAt: null,
+      paidAt: null,
+      createdAt: '',
+      assessmentId: 11,
+      assessment: { id: 11, kind: 'retest', date: '2026-11-24' },
+      note: null,
+      clinicName: '',
+      subtotalMinor: 13000,
+      taxMinor: 2600,
+      cancelledAt: null,
+      refundedAt: null,
+      paymentMethod: null,
+      paidOn: null,
+      paymentNote: null,
+      refundNote: null,
+      clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
+      checkoutState: 'none',
+      lines: [
+        {
+          id: 1,
+          priceId: 2,
+          description: 'Re-test',
+          quantity: 2,
+          unitAmountMinor: 6500,
+          taxRateBp: 2000,
+          netMinor: 13000,
+          taxMinor: 2600,
+          totalMinor: 15600,
+        },
+      ],
     });
     expect(f).toMatchObject({ athleteId: 4, assessmentId: 11, dueDate: '2026-12-31', note: '' });
     expect(previewTotals(f.lines)).toEqual({ subtotalMinor: 13000, taxMinor: 2600, totalMinor: 15600 });

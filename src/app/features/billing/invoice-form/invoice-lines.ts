@@ -12,7 +12,13 @@ export interface LineDraft {
 
 /** A line filled from a price of the list. */
 export function lineFromPrice(p: Price): LineDraft {
-  return { priceId: p.id, description: p.item, quantity: 1, amount: (p.amountMinor / 100).toFixed(2), tax: p.taxRateBp === null ? '' : String(p.taxRateBp / 100) };
+  return {
+    priceId: p.id,
+    description: p.item,
+    quantity: 1,
+    amount: (p.amountMinor / 100).toFixed(2),
+    tax: p.taxRateBp === null ? '' : String(p.taxRateBp / 100),
+  };
 }
 
 /** The line to send, or null while something in it cannot be read yet. */
@@ -37,20 +43,43 @@ export function priceForAssessment(kind: 'baseline' | 'retest', prices: Price[])
 }
 
 /** A saved line as the form holds it: "65.00", tax "20" (or "" for none). */
-export function lineFromInvoiceLine(l: Pick<InvoiceLine, 'priceId' | 'description' | 'quantity' | 'unitAmountMinor' | 'taxRateBp'>): LineDraft {
-  return { priceId: l.priceId, description: l.description, quantity: l.quantity, amount: amountText(l.unitAmountMinor), tax: l.taxRateBp === null ? '' : String(l.taxRateBp / 100) };
+export function lineFromInvoiceLine(
+  l: Pick<InvoiceLine, 'priceId' | 'description' | 'quantity' | 'unitAmountMinor' | 'taxRateBp'>,
+): LineDraft {
+  return {
+    priceId: l.priceId,
+    description: l.description,
+    quantity: l.quantity,
+    amount: amountText(l.unitAmountMinor),
+    tax: l.taxRateBp === null ? '' : String(l.taxRateBp / 100),
+  };
 }
 
 /** Everything the form shows of a saved draft, to edit it. */
-export function formFromInvoice(inv: InvoiceDetail): { athleteId: number; assessmentId: number | null; dueDate: string; note: string; lines: LineDraft[] } {
-  return { athleteId: inv.athleteId, assessmentId: inv.assessmentId, dueDate: inv.dueDate, note: inv.note ?? '', lines: inv.lines.map(lineFromInvoiceLine) };
+export function formFromInvoice(inv: InvoiceDetail): {
+  athleteId: number;
+  assessmentId: number | null;
+  dueDate: string;
+  note: string;
+  lines: LineDraft[];
+} {
+  return {
+    athleteId: inv.athleteId,
+    assessmentId: inv.assessmentId,
+    dueDate: inv.dueDate,
+    note: inv.note ?? '',
+    lines: inv.lines.map(lineFromInvoiceLine),
+  };
 }
 
 /**
  * What `?athlete=:id&assessment=:id` preselect: positive whole ids only; an assessment only with
  * its athlete.
  */
-export function presetFromQuery(athlete: string | null, assessment: string | null): { athleteId: number | null; assessmentId: number | null } {
+export function presetFromQuery(
+  athlete: string | null,
+  assessment: string | null,
+): { athleteId: number | null; assessmentId: number | null } {
   const id = (v: string | null) => (v !== null && /^[1-9]\d{0,15}$/.test(v) ? Number(v) : null);
   const athleteId = id(athlete);
   return { athleteId, assessmentId: athleteId === null ? null : id(assessment) };

@@ -24,7 +24,22 @@ import { InvoiceStatusBadge } from '../invoice-status/invoice-status';
 /** `/billing/invoices` (owner): the clinic's invoices, filtered by status, athlete and date, with totals. */
 @Component({
   selector: 'app-invoice-list',
-  imports: [DatePipe, FormsModule, RouterLink, MatTableModule, MatDatepickerModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState, EmptyState, InvoiceStatusBadge],
+  imports: [
+    DatePipe,
+    FormsModule,
+    RouterLink,
+    MatTableModule,
+    MatDatepickerModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatButtonModule,
+    MatIconModule,
+    MatProgressBarModule,
+    ErrorState,
+    EmptyState,
+    InvoiceStatusBadge,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './invoice-list.html',
   styleUrl: './invoice-list.scss',

@@ -33,17 +33,35 @@ import type { InvoiceDetail } from '../../../../contracts/billing';
     @if (forOwner() && missing()) {
       <p class="info-box missing" role="note">
         <mat-icon aria-hidden="true">info</mat-icon>
-        <span>Invoices and receipts must carry the clinic's legal name, address and tax number in most countries. <a routerLink="/settings/clinic">Add them in Clinic details</a>.</span>
+        <span
+          >Invoices and receipts must carry the clinic's legal name, address and tax number in most countries.
+          <a routerLink="/settings/clinic">Add them in Clinic details</a>.</span
+        >
       </p>
     }
   `,
   styles: `
-    :host { display: block; margin-block-end: 12px; }
-    .seller p { margin: 0; }
-    .label { font: var(--mat-sys-label-medium); color: var(--mat-sys-on-surface-variant); }
-    .name { font: var(--mat-sys-title-small); }
-    .line { font: var(--mat-sys-body-medium); color: var(--mat-sys-on-surface-variant); }
-    .missing { margin: 8px 0 0; }
+    :host {
+      display: block;
+      margin-block-end: 12px;
+    }
+    .seller p {
+      margin: 0;
+    }
+    .label {
+      font: var(--mat-sys-label-medium);
+      color: var(--mat-sys-on-surface-variant);
+    }
+    .name {
+      font: var(--mat-sys-title-small);
+    }
+    .line {
+      font: var(--mat-sys-body-medium);
+      color: var(--mat-sys-on-surface-variant);
+    }
+    .missing {
+      margin: 8px 0 0;
+    }
   `,
 })
 export class InvoiceSeller {

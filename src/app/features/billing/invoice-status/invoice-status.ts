@@ -9,7 +9,8 @@ import { STATUS_WORDS } from '../billing-words';
   imports: [MatIconModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
   host: { '[class]': '"invoice-status status-" + status()' },
-  template: `<mat-icon aria-hidden="true">{{ words().icon }}</mat-icon>{{ words().label }}`,
+  template: `<mat-icon aria-hidden="true">{{ words().icon }}</mat-icon
+    >{{ words().label }}`,
   styles: `
     :host {
       display: inline-flex;
@@ -21,10 +22,25 @@ import { STATUS_WORDS } from '../billing-words';
       border: 1px solid var(--mat-sys-outline-variant);
       white-space: nowrap;
     }
-    mat-icon { font-size: 18px; inline-size: 18px; block-size: 18px; }
-    :host(.status-paid) { background: #dcefe6; color: #174a3c; border-color: #9fcbb8; }
-    :host(.status-issued) { background: #fdf1dc; color: #6b4300; border-color: #e9c98f; }
-    :host(.status-cancelled), :host(.status-refunded) { color: var(--mat-sys-on-surface-variant); }
+    mat-icon {
+      font-size: 18px;
+      inline-size: 18px;
+      block-size: 18px;
+    }
+    :host(.status-paid) {
+      background: #dcefe6;
+      color: #174a3c;
+      border-color: #9fcbb8;
+    }
+    :host(.status-issued) {
+      background: #fdf1dc;
+      color: #6b4300;
+      border-color: #e9c98f;
+    }
+    :host(.status-cancelled),
+    :host(.status-refunded) {
+      color: var(--mat-sys-on-surface-variant);
+    }
   `,
 })
 export class InvoiceStatusBadge {

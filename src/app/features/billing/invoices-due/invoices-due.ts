@@ -22,10 +22,18 @@ import { amountDueText } from '../billing-words';
     <p class="muted">Pay issued ones by card and download receipts.</p>
   `,
   styles: `
-    :host { display: block; }
-    p { margin: 0 0 4px; }
-    .due { font: var(--mat-sys-body-large); }
-    .to-pay { font-weight: 500; }
+    :host {
+      display: block;
+    }
+    p {
+      margin: 0 0 4px;
+    }
+    .due {
+      font: var(--mat-sys-body-large);
+    }
+    .to-pay {
+      font-weight: 500;
+    }
   `,
 })
 export class InvoicesDue {

@@ -10,10 +10,31 @@ const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 /** Re-test 65.00 at 20 % = 78.00 EUR, issued. */
 const ISSUED = {
-  id: 7, number: 'TF-2026-0003', status: 'issued', athleteId: 1, athleteName: 'Ada Kestrel', currency: 'EUR', totalMinor: 7800,
-  dueDate: '2026-12-31', issuedAt: '2026-12-01T10:00:00Z', paidAt: null, createdAt: '2026-12-01T09:00:00Z', assessmentId: null, assessment: null,
-  note: null, clinicName: 'Larchwood Running Clinic', subtotalMinor: 6500, taxMinor: 1300, cancelledAt: null, refundedAt: null, checkoutState: 'none',
-  paymentMethod: null, paidOn: null, paymentNote: null, refundNote: null, clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
+  id: 7,
+  number: 'TF-2026-0003',
+  status: 'issued',
+  athleteId: 1,
+  athleteName: 'Ada Kestrel',
+  currency: 'EUR',
+  totalMinor: 7800,
+  dueDate: '2026-12-31',
+  issuedAt: '2026-12-01T10:00:00Z',
+  paidAt: null,
+  createdAt: '2026-12-01T09:00:00Z',
+  assessmentId: null,
+  assessment: null,
+  note: null,
+  clinicName: 'Larchwood Running Clinic',
+  subtotalMinor: 6500,
+  taxMinor: 1300,
+  cancelledAt: null,
+  refundedAt: null,
+  checkoutState: 'none',
+  paymentMethod: null,
+  paidOn: null,
+  paymentNote: null,
+  refundNote: null,
+  clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
   lines: [],
 } as InvoiceDetail;
 
@@ -27,7 +48,13 @@ describe('PaymentDialog', () => {
     closed = [];
     TestBed.configureTestingModule({
       imports: [PaymentDialog],
-      providers: [provideHttpClient(), provideHttpClientTesting(), provideIsoDateAdapter(), { provide: MAT_DIALOG_DATA, useValue: data }, { provide: MatDialogRef, useValue: { close: (v: unknown) => closed.push(v) } }],
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        provideIsoDateAdapter(),
+        { provide: MAT_DIALOG_DATA, useValue: data },
+        { provide: MatDialogRef, useValue: { close: (v: unknown) => closed.push(v) } },
+      ],
     });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(PaymentDialog);
@@ -58,15 +85,22 @@ describe('PaymentDialog', () => {
     expect(closed).toEqual([paid]);
   });
 
-  it('shows the server\'s 422 under the date field and keeps what was typed', async () => {
+  it("shows the server's 422 under the date field and keeps what was typed", async () => {
     await open({ invoice: ISSUED, mode: 'record' });
     type('textarea[formcontrolname="note"]', 'Paid at the desk');
     button('Cash').click();
     button('Mark as paid').click();
     await wait(0);
-    backend
-      .expectOne('/api/invoices/7/payments')
-      .flush({ error: { code: 'validation_failed', message: 'Check the date.', details: [{ path: ['paidOn'], message: 'The payment date cannot be before the invoice was issued (2026-12-01).' }] } }, { status: 422, statusText: 'Unprocessable' });
+    backend.expectOne('/api/invoices/7/payments').flush(
+      {
+        error: {
+          code: 'validation_failed',
+          message: 'Check the date.',
+          details: [{ path: ['paidOn'], message: 'The payment date cannot be before the invoice was issued (2026-12-01).' }],
+        },
+      },
+      { status: 422, statusText: 'Unprocessable' },
+    );
     await fixture.whenStable();
     fixture.detectChanges();
     expect(element.querySelector('mat-error')?.textContent).toContain('cannot be before the invoice was issued');

@@ -29,7 +29,17 @@ export interface PaymentDialogData {
  */
 @Component({
   selector: 'app-payment-dialog',
-  imports: [ReactiveFormsModule, MatDialogModule, MatButtonModule, MatButtonToggleModule, MatDatepickerModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule],
+  imports: [
+    ReactiveFormsModule,
+    MatDialogModule,
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatDatepickerModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatProgressBarModule,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   template: `
     <h2 mat-dialog-title>{{ data.mode === 'record' ? 'Record a payment' : 'Refund the payment' }}</h2>
@@ -37,13 +47,18 @@ export interface PaymentDialogData {
       <mat-dialog-content>
         <p class="lead">
           @if (data.mode === 'record') {
-            {{ data.invoice.number }} · {{ money(data.invoice.totalMinor, data.invoice.currency) }} from {{ data.invoice.athleteName }}, paid outside the card payment page. The invoice becomes Paid and the receipt says how.
+            {{ data.invoice.number }} · {{ money(data.invoice.totalMinor, data.invoice.currency) }} from {{ data.invoice.athleteName }},
+            paid outside the card payment page. The invoice becomes Paid and the receipt says how.
           } @else {
-            {{ money(data.invoice.totalMinor, data.invoice.currency) }} goes back to {{ data.invoice.athleteName }} from the clinic (it was paid by {{ data.invoice.paymentMethod === 'cash' ? 'cash' : 'bank transfer' }}); this records it. No payment service is involved.
+            {{ money(data.invoice.totalMinor, data.invoice.currency) }} goes back to {{ data.invoice.athleteName }} from the clinic (it was
+            paid by {{ data.invoice.paymentMethod === 'cash' ? 'cash' : 'bank transfer' }}); this records it. No payment service is
+            involved.
           }
         </p>
         @if (problem(); as p) {
-          <p class="form-problem" role="alert"><mat-icon aria-hidden="true">error_outline</mat-icon><span>{{ p }}</span></p>
+          <p class="form-problem" role="alert">
+            <mat-icon aria-hidden="true">error_outline</mat-icon><span>{{ p }}</span>
+          </p>
         }
         @if (data.mode === 'record') {
           <div class="method" role="group" aria-labelledby="method-label">
@@ -62,12 +77,22 @@ export interface PaymentDialogData {
             <mat-datepicker-toggle matIconSuffix [for]="picker" />
             <mat-datepicker #picker />
             <mat-hint>YYYY-MM-DD, the day the money arrived</mat-hint>
-            <mat-error>{{ errorText(form.controls.paidOn, 'The date', { matDatepickerMax: 'The date cannot be in the future', matDatepickerParse: 'Use a date like 2026-12-03' }) }}</mat-error>
+            <mat-error>{{
+              errorText(form.controls.paidOn, 'The date', {
+                matDatepickerMax: 'The date cannot be in the future',
+                matDatepickerParse: 'Use a date like 2026-12-03',
+              })
+            }}</mat-error>
           </mat-form-field>
         }
         <mat-form-field class="note-field">
           <mat-label>Note (optional)</mat-label>
-          <textarea matInput formControlName="note" rows="2" [placeholder]="data.mode === 'record' ? 'e.g. the transfer reference' : 'e.g. handed back in cash'"></textarea>
+          <textarea
+            matInput
+            formControlName="note"
+            rows="2"
+            [placeholder]="data.mode === 'record' ? 'e.g. the transfer reference' : 'e.g. handed back in cash'"
+          ></textarea>
           <mat-hint align="end">{{ form.controls.note.value.length }} / {{ noteMax }}</mat-hint>
           <mat-error>{{ errorText(form.controls.note, 'Note') }}</mat-error>
         </mat-form-field>
@@ -82,11 +107,29 @@ export interface PaymentDialogData {
     </form>
   `,
   styles: `
-    .lead { margin-block-start: 0; }
-    .method { display: flex; flex-wrap: wrap; align-items: center; gap: 8px 12px; margin-block-end: 16px; }
-    .label { font: var(--mat-sys-label-large); }
-    .field-problem { flex-basis: 100%; margin: 0; color: var(--mat-sys-error); font: var(--mat-sys-body-small); }
-    mat-form-field { display: block; margin-block-end: 14px; }
+    .lead {
+      margin-block-start: 0;
+    }
+    .method {
+      display: flex;
+      flex-wrap: wrap;
+      align-items: center;
+      gap: 8px 12px;
+      margin-block-end: 16px;
+    }
+    .label {
+      font: var(--mat-sys-label-large);
+    }
+    .field-problem {
+      flex-basis: 100%;
+      margin: 0;
+      color: var(--mat-sys-error);
+      font: var(--mat-sys-body-small);
+    }
+    mat-form-field {
+      display: block;
+      margin-block-end: 14px;
+    }
   `,
 })
 export class PaymentDialog {

@@ -11,11 +11,44 @@ const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
 /** Re-test 65.00 at 20 % = 78.00 EUR. */
 function anInvoice(over: Partial<InvoiceDetail> = {}): InvoiceDetail {
   return {
-    id: 7, number: 'TF-2026-0001', status: 'issued', athleteId: 1, athleteName: 'Ada Kestrel', currency: 'EUR', totalMinor: 7800,
-    dueDate: '2026-12-31', issuedAt: '2026-12-01T10:00:00Z', paidAt: null, createdAt: '2026-12-01T09:00:00Z', assessmentId: null, assessment: null,
-    note: null, clinicName: 'Larchwood Running Clinic', subtotalMinor: 6500, taxMinor: 1300, cancelledAt: null, refundedAt: null, paymentMethod: null, paidOn: null, paymentNote: null, refundNote: null, clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
+    id: 7,
+    number: 'TF-2026-0001',
+    status: 'issued',
+    athleteId: 1,
+    athleteName: 'Ada Kestrel',
+    currency: 'EUR',
+    totalMinor: 7800,
+    dueDate: '2026-12-31',
+    issuedAt: '2026-12-01T10:00:00Z',
+    paidAt: null,
+    createdAt: '2026-12-01T09:00:00Z',
+    assessmentId: null,
+    assessment: null,
+    note: null,
+    clinicName: 'Larchwood Running Clinic',
+    subtotalMinor: 6500,
+    taxMinor: 1300,
+    cancelledAt: null,
+    refundedAt: null,
+    paymentMethod: null,
+    paidOn: null,
+    paymentNote: null,
+    refundNote: null,
+    clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
     checkoutState: 'pending',
-    lines: [{ id: 1, priceId: 2, description: 'Re-test', quantity: 1, unitAmountMinor: 6500, taxRateBp: 2000, netMinor: 6500, taxMinor: 1300, totalMinor: 7800 }],
+    lines: [
+      {
+        id: 1,
+        priceId: 2,
+        description: 'Re-test',
+        quantity: 1,
+        unitAmountMinor: 6500,
+        taxRateBp: 2000,
+        netMinor: 6500,
+        taxMinor: 1300,
+        totalMinor: 7800,
+      },
+    ],
     ...over,
   };
 }
@@ -29,7 +62,12 @@ describe('PortalInvoice', () => {
     const query = new BehaviorSubject(convertToParamMap(checkout ? { checkout } : {}));
     TestBed.configureTestingModule({
       imports: [PortalInvoice],
-      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), { provide: ActivatedRoute, useValue: { queryParamMap: query } }],
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        provideRouter([]),
+        { provide: ActivatedRoute, useValue: { queryParamMap: query } },
+      ],
     });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(PortalInvoice);
@@ -84,7 +122,12 @@ describe('PortalInvoice', () => {
     backend.expectOne('/api/invoices/7').flush(anInvoice());
     await settle();
     (element.querySelector('button.mat-mdc-unelevated-button') as HTMLButtonElement).click();
-    backend.expectOne('/api/invoices/7/checkout').flush({ error: { code: 'invoice_not_payable', message: 'This invoice is cancelled and cannot be paid.' } }, { status: 409, statusText: 'Conflict' });
+    backend
+      .expectOne('/api/invoices/7/checkout')
+      .flush(
+        { error: { code: 'invoice_not_payable', message: 'This invoice is cancelled and cannot be paid.' } },
+        { status: 409, statusText: 'Conflict' },
+      );
     await settle();
     expect(element.querySelector('.form-problem')?.textContent).toContain('This invoice is cancelled and cannot be paid.');
   });

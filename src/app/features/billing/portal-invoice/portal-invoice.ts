@@ -25,7 +25,19 @@ import { payView, POLL_MS, POLL_TRIES, returnedWith } from './pay-view';
  */
 @Component({
   selector: 'app-portal-invoice',
-  imports: [DatePipe, RouterLink, MatCardModule, MatButtonModule, MatIconModule, MatProgressBarModule, MatProgressSpinnerModule, ErrorState, InvoiceStatusBadge, InvoiceLinesTable, InvoiceSeller],
+  imports: [
+    DatePipe,
+    RouterLink,
+    MatCardModule,
+    MatButtonModule,
+    MatIconModule,
+    MatProgressBarModule,
+    MatProgressSpinnerModule,
+    ErrorState,
+    InvoiceStatusBadge,
+    InvoiceLinesTable,
+    InvoiceSeller,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './portal-invoice.html',
   styleUrl: './portal-invoice.scss',
@@ -36,7 +48,9 @@ export class PortalInvoice {
 
   /** Route parameter. */
   readonly id = input.required<string>();
-  private readonly returned = toSignal(inject(ActivatedRoute).queryParamMap.pipe(map((q) => returnedWith(q.get('checkout')))), { initialValue: null });
+  private readonly returned = toSignal(inject(ActivatedRoute).queryParamMap.pipe(map((q) => returnedWith(q.get('checkout')))), {
+    initialValue: null,
+  });
   /** The invoice, re-read every 1.5 s while a returned payment waits for the server's confirmation. */
   protected readonly kindLabels = ASSESSMENT_KIND_LABELS;
   protected readonly loaded = rxResource({

@@ -54,13 +54,50 @@ import { InvoiceStatusBadge } from '../invoice-status/invoice-status';
     </div>
   `,
   styles: `
-    .invoices { list-style: none; margin: 0; padding: 0; border: 1px solid var(--mat-sys-outline-variant); border-radius: 12px; background: var(--mat-sys-surface); }
-    li + li { border-block-start: 1px solid var(--mat-sys-outline-variant); }
-    .row { display: flex; align-items: center; gap: 12px; padding: 12px 16px; color: inherit; text-decoration: none; min-block-size: 48px; }
-    .row:hover { background: var(--mat-sys-surface-container-low); }
-    .what { display: flex; flex-direction: column; flex: 1; min-inline-size: 0; }
-    .amount { font-variant-numeric: tabular-nums; white-space: nowrap; }
-    @media (max-width: 599.98px) { .row { flex-wrap: wrap; } .what { flex-basis: 100%; } .amount { flex: 1; } }
+    .invoices {
+      list-style: none;
+      margin: 0;
+      padding: 0;
+      border: 1px solid var(--mat-sys-outline-variant);
+      border-radius: 12px;
+      background: var(--mat-sys-surface);
+    }
+    li + li {
+      border-block-start: 1px solid var(--mat-sys-outline-variant);
+    }
+    .row {
+      display: flex;
+      align-items: center;
+      gap: 12px;
+      padding: 12px 16px;
+      color: inherit;
+      text-decoration: none;
+      min-block-size: 48px;
+    }
+    .row:hover {
+      background: var(--mat-sys-surface-container-low);
+    }
+    .what {
+      display: flex;
+      flex-direction: column;
+      flex: 1;
+      min-inline-size: 0;
+    }
+    .amount {
+      font-variant-numeric: tabular-nums;
+      white-space: nowrap;
+    }
+    @media (max-width: 599.98px) {
+      .row {
+        flex-wrap: wrap;
+      }
+      .what {
+        flex-basis: 100%;
+      }
+      .amount {
+        flex: 1;
+      }
+    }
   `,
 })
 export class PortalInvoices {

@@ -35,13 +35,27 @@ export function amountValidator(c: AbstractControl): ValidationErrors | null {
 
 /** Empty (no tax) or a percentage 0–100 with at most two decimals. */
 export function taxValidator(c: AbstractControl): ValidationErrors | null {
-  return parseTaxPercent(String(c.value ?? '')) === undefined ? { server: 'Enter a rate from 0 to 100 %, e.g. 20 or 7.5, or leave it empty.' } : null;
+  return parseTaxPercent(String(c.value ?? '')) === undefined
+    ? { server: 'Enter a rate from 0 to 100 %, e.g. 20 or 7.5, or leave it empty.' }
+    : null;
 }
 
 /** `/billing/prices` (owner): the clinic's price list, with a form to add or edit an entry, and the clinic's currency. */
 @Component({
   selector: 'app-price-list',
-  imports: [ReactiveFormsModule, RouterLink, MatCardModule, MatTableModule, MatFormFieldModule, MatInputModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState, CurrencySetting],
+  imports: [
+    ReactiveFormsModule,
+    RouterLink,
+    MatCardModule,
+    MatTableModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatButtonModule,
+    MatIconModule,
+    MatProgressBarModule,
+    ErrorState,
+    CurrencySetting,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './price-list.html',
   styleUrl: './price-list.scss',
@@ -78,7 +92,12 @@ export class PriceList {
 
   protected edit(p: Price): void {
     this.editing.set(p);
-    this.form.reset({ item: p.item, description: p.description, amount: amountText(p.amountMinor), tax: p.taxRateBp === null ? '' : String(p.taxRateBp / 100) });
+    this.form.reset({
+      item: p.item,
+      description: p.description,
+      amount: amountText(p.amountMinor),
+      tax: p.taxRateBp === null ? '' : String(p.taxRateBp / 100),
+    });
   }
 
   protected cancelEdit(): void {
@@ -93,7 +112,12 @@ export class PriceList {
       return;
     }
     const v = this.form.getRawValue();
-    const body = { item: v.item.trim(), description: v.description.trim(), amountMinor: parseAmount(v.amount)!, taxRateBp: parseTaxPercent(v.tax) ?? null };
+    const body = {
+      item: v.item.trim(),
+      description: v.description.trim(),
+      amountMinor: parseAmount(v.amount)!,
+      taxRateBp: parseTaxPercent(v.tax) ?? null,
+    };
     this.saving.set(true);
     this.problem.set(null);
     try {
@@ -107,7 +131,10 @@ export class PriceList {
       this.cancelEdit();
     } catch (err) {
       if (errorStatus(err) === 422) {
-        const problems = fieldProblems(err).map((p) => ({ ...p, path: p.path[0] === 'amountMinor' ? ['amount'] : p.path[0] === 'taxRateBp' ? ['tax'] : p.path }));
+        const problems = fieldProblems(err).map((p) => ({
+          ...p,
+          path: p.path[0] === 'amountMinor' ? ['amount'] : p.path[0] === 'taxRateBp' ? ['tax'] : p.path,
+        }));
         const rest = applyServerErrors(this.form, problems);
         this.problem.set(rest.length ? rest.join(' ') : null);
       }
@@ -119,7 +146,11 @@ export class PriceList {
   protected remove(p: Price): void {
     this.dialog
       .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, {
-        data: { title: `Remove ${p.item}?`, message: 'It leaves the price list. Invoices that already use it keep their lines.', confirmLabel: 'Remove' },
+        data: {
+          title: `Remove ${p.item}?`,
+          message: 'It leaves the price list. Invoices that already use it keep their lines.',
+          confirmLabel: 'Remove',
+        },
       })
       .afterClosed()
       .subscribe(async (ok) => {

@@ -23,7 +23,10 @@ import { LegalDetailsForm } from '../legal-details-form/legal-details-form';
     </div>
   `,
   styles: `
-    .cards { display: grid; gap: 16px; }
+    .cards {
+      display: grid;
+      gap: 16px;
+    }
   `,
 })
 export class ClinicDetailsPage {}

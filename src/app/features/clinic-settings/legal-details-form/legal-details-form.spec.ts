@@ -21,7 +21,9 @@ describe('LegalDetailsForm', () => {
     element = fixture.nativeElement;
     fixture.detectChanges();
     await wait(0);
-    backend.expectOne('/api/clinic/legal-details').flush({ legalName: 'Larchwood Running Clinic Ltd', address: '12 Mill Lane\nLarchwood', taxNumber: '', contactLine: '' });
+    backend
+      .expectOne('/api/clinic/legal-details')
+      .flush({ legalName: 'Larchwood Running Clinic Ltd', address: '12 Mill Lane\nLarchwood', taxNumber: '', contactLine: '' });
     await fixture.whenStable();
   });
   afterEach(() => backend.verify());
@@ -31,7 +33,8 @@ describe('LegalDetailsForm', () => {
     field(name).value = value;
     field(name).dispatchEvent(new Event('input'));
   };
-  const submit = () => [...element.querySelectorAll<HTMLButtonElement>('button')].find((b) => b.textContent?.includes('Save legal details'))!.click();
+  const submit = () =>
+    [...element.querySelectorAll<HTMLButtonElement>('button')].find((b) => b.textContent?.includes('Save legal details'))!.click();
 
   it('shows what is stored, and saves every field with PUT', async () => {
     expect(field('legalName').value).toBe('Larchwood Running Clinic Ltd');
@@ -41,14 +44,19 @@ describe('LegalDetailsForm', () => {
     await wait(0);
     const req = backend.expectOne('/api/clinic/legal-details');
     expect(req.request.method).toBe('PUT');
-    expect(req.request.body).toEqual({ legalName: 'Larchwood Running Clinic Ltd', address: '12 Mill Lane\nLarchwood', taxNumber: 'GB 123 4567 89', contactLine: '' });
+    expect(req.request.body).toEqual({
+      legalName: 'Larchwood Running Clinic Ltd',
+      address: '12 Mill Lane\nLarchwood',
+      taxNumber: 'GB 123 4567 89',
+      contactLine: '',
+    });
     req.flush(req.request.body);
     await fixture.whenStable();
     fixture.detectChanges();
     expect(element.textContent).not.toContain('Unsaved changes');
   });
 
-  it('does not send a form without a legal name, and shows the server\'s 422 under its field', async () => {
+  it("does not send a form without a legal name, and shows the server's 422 under its field", async () => {
     type('legalName', '');
     submit();
     await fixture.whenStable();
@@ -60,9 +68,16 @@ describe('LegalDetailsForm', () => {
     type('contactLine', 'billing@larchwood.test');
     submit();
     await wait(0);
-    backend
-      .expectOne('/api/clinic/legal-details')
-      .flush({ error: { code: 'validation_failed', message: 'Check the fields.', details: [{ path: ['contactLine'], message: 'Contact line: one line only.' }] } }, { status: 422, statusText: 'Unprocessable' });
+    backend.expectOne('/api/clinic/legal-details').flush(
+      {
+        error: {
+          code: 'validation_failed',
+          message: 'Check the fields.',
+          details: [{ path: ['contactLine'], message: 'Contact line: one line only.' }],
+        },
+      },
+      { status: 422, statusText: 'Unprocessable' },
+    );
     await fixture.whenStable();
     fixture.detectChanges();
     expect(element.querySelector('mat-error')?.textContent).toContain('Contact line: one line only.');

@@ -22,16 +22,42 @@ import { ClinicSettingsApi } from '../clinic-settings-api';
  */
 @Component({
   selector: 'app-legal-details-form',
-  imports: [ReactiveFormsModule, MatButtonModule, MatCardModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, ErrorState],
+  imports: [
+    ReactiveFormsModule,
+    MatButtonModule,
+    MatCardModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatProgressBarModule,
+    ErrorState,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './legal-details-form.html',
   styles: `
-    .card-title { font: var(--mat-sys-title-large); margin: 0 0 4px; }
-    .intro { margin: 0 0 16px; color: var(--mat-sys-on-surface-variant); }
+    .card-title {
+      font: var(--mat-sys-title-large);
+      margin: 0 0 4px;
+    }
+    .intro {
+      margin: 0 0 16px;
+      color: var(--mat-sys-on-surface-variant);
+    }
     /* Room between one field's hint and the next field's floating label. */
-    mat-form-field { display: block; margin-block-end: 14px; }
-    .actions { display: flex; justify-content: flex-end; align-items: center; gap: 12px; }
-    .saved { color: var(--mat-sys-on-surface-variant); font: var(--mat-sys-body-medium); }
+    mat-form-field {
+      display: block;
+      margin-block-end: 14px;
+    }
+    .actions {
+      display: flex;
+      justify-content: flex-end;
+      align-items: center;
+      gap: 12px;
+    }
+    .saved {
+      color: var(--mat-sys-on-surface-variant);
+      font: var(--mat-sys-body-medium);
+    }
   `,
 })
 export class LegalDetailsForm {

@@ -1,5 +1,18 @@
 import { DatePipe, LowerCasePipe, formatDate } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, LOCALE_ID, computed, effect, inject, input, linkedSignal, signal, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  ElementRef,
+  LOCALE_ID,
+  computed,
+  effect,
+  inject,
+  input,
+  linkedSignal,
+  signal,
+  viewChild,
+} from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -32,7 +45,21 @@ import { GHOST_COLOURS, OVERLAY_COLOURS } from '../../../../kinematics';
 import { openSaveStill } from '../../stills/save-still-dialog/save-still-dialog';
 import { CompareApi } from '../compare-api';
 import { drawCompareFrame } from '../compare-canvas';
-import { CAUTION_LINE, COMPARE_FRAME_KEYS, alignAtHip, citationText, defaultPair, eventFrames, formatValue, frameOfStep, landmarksAt, lastCommonStep, sideText, stepKey, verdictText } from '../compare-logic';
+import {
+  CAUTION_LINE,
+  COMPARE_FRAME_KEYS,
+  alignAtHip,
+  citationText,
+  defaultPair,
+  eventFrames,
+  formatValue,
+  frameOfStep,
+  landmarksAt,
+  lastCommonStep,
+  sideText,
+  stepKey,
+  verdictText,
+} from '../compare-logic';
 import { TREND_SIDE_STYLE, trendChart, unitTitle } from '../trend-chart';
 
 // Only the chart.js parts this line chart uses.
@@ -57,7 +84,22 @@ interface ShownFrame {
  */
 @Component({
   selector: 'app-compare-page',
-  imports: [DatePipe, LowerCasePipe, FormsModule, RouterLink, BaseChartDirective, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatIconModule, MatProgressBarModule, MatSelectModule, MatTooltipModule, EmptyState, ErrorState],
+  imports: [
+    DatePipe,
+    LowerCasePipe,
+    FormsModule,
+    RouterLink,
+    BaseChartDirective,
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatProgressBarModule,
+    MatSelectModule,
+    MatTooltipModule,
+    EmptyState,
+    ErrorState,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './compare-page.html',
   styleUrl: './compare-page.scss',
@@ -108,7 +150,10 @@ export class ComparePage {
   protected readonly retestId = linkedSignal(() => defaultPair(this.list()).retest);
 
   protected readonly comparison = rxResource({
-    params: () => (this.assessments.hasValue() && this.list().length >= 2 && this.baselineId() !== null && this.retestId() !== null ? { athlete: this.id(), baseline: this.baselineId()!, retest: this.retestId()! } : undefined),
+    params: () =>
+      this.assessments.hasValue() && this.list().length >= 2 && this.baselineId() !== null && this.retestId() !== null
+        ? { athlete: this.id(), baseline: this.baselineId()!, retest: this.retestId()! }
+        : undefined,
     stream: ({ params }) => this.api.comparison(params.athlete, params.baseline, params.retest),
   });
   protected readonly rows = computed<ComparisonRow[]>(() => (this.comparison.hasValue() ? this.comparison.value().rows : []));
@@ -128,10 +173,18 @@ export class ComparePage {
   private readonly retestClip = computed(() => this.pickClip(this.comparison.value()?.retestClips));
 
   private loadClip(clip: ComparisonClip) {
-    return forkJoin({ manifest: this.reviewApi.manifest(clip.id), annotations: this.reviewApi.annotations(clip.id) }).pipe(map((r): LoadedClip => ({ clip, ...r })));
+    return forkJoin({ manifest: this.reviewApi.manifest(clip.id), annotations: this.reviewApi.annotations(clip.id) }).pipe(
+      map((r): LoadedClip => ({ clip, ...r })),
+    );
   }
-  protected readonly baselineLoaded = rxResource({ params: () => this.baselineClip() ?? undefined, stream: ({ params }) => this.loadClip(params) });
-  protected readonly retestLoaded = rxResource({ params: () => this.retestClip() ?? undefined, stream: ({ params }) => this.loadClip(params) });
+  protected readonly baselineLoaded = rxResource({
+    params: () => this.baselineClip() ?? undefined,
+    stream: ({ params }) => this.loadClip(params),
+  });
+  protected readonly retestLoaded = rxResource({
+    params: () => this.retestClip() ?? undefined,
+    stream: ({ params }) => this.loadClip(params),
+  });
 
   private framesOf(loaded: LoadedClip | undefined): number[] {
     return loaded ? eventFrames(loaded.annotations.events, this.side(), this.eventKind()) : [];
@@ -149,8 +202,14 @@ export class ComparePage {
       switchMap((blob) => from(createImageBitmap(blob))),
       map((bitmap): ShownFrame => ({ ...params, bitmap })),
     );
-  protected readonly baselineFrame = rxResource({ params: () => this.loadFrame(this.baselineLoaded.value(), this.baselineFrames()), stream: this.frameStream });
-  protected readonly retestFrame = rxResource({ params: () => this.loadFrame(this.retestLoaded.value(), this.retestFrames()), stream: this.frameStream });
+  protected readonly baselineFrame = rxResource({
+    params: () => this.loadFrame(this.baselineLoaded.value(), this.baselineFrames()),
+    stream: this.frameStream,
+  });
+  protected readonly retestFrame = rxResource({
+    params: () => this.loadFrame(this.retestLoaded.value(), this.retestFrames()),
+    stream: this.frameStream,
+  });
 
   private readonly baselineCanvas = viewChild<ElementRef<HTMLCanvasElement>>('baselineCanvas');
   private readonly retestCanvas = viewChild<ElementRef<HTMLCanvasElement>>('retestCanvas');
@@ -170,7 +229,13 @@ export class ComparePage {
   /** Lines per measure and side (colour and dash by side, marker by measure), one axis per unit. */
   protected readonly trendChart = computed(() => {
     const t = this.trends.value();
-    return t ? trendChart(t, this.trendKeys(), t.points.map((p) => this.visitLabel(p.date, p.kind))) : null;
+    return t
+      ? trendChart(
+          t,
+          this.trendKeys(),
+          t.points.map((p) => this.visitLabel(p.date, p.kind)),
+        )
+      : null;
   });
   protected readonly unitTitle = unitTitle;
 

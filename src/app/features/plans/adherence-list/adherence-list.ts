@@ -11,9 +11,15 @@ import { shortDate } from '../pain-chart/pain-chart-data';
       <p class="muted">No weeks yet: adherence shows once the plan has started.</p>
     } @else {
       <table class="adherence">
-        <caption class="visually-hidden">Sessions done of sessions prescribed, per week</caption>
+        <caption class="visually-hidden">
+          Sessions done of sessions prescribed, per week
+        </caption>
         <thead>
-          <tr><th scope="col">Week of</th><th scope="col">Done</th><th scope="col"><span class="visually-hidden">Share</span></th></tr>
+          <tr>
+            <th scope="col">Week of</th>
+            <th scope="col">Done</th>
+            <th scope="col"><span class="visually-hidden">Share</span></th>
+          </tr>
         </thead>
         <tbody>
           @for (w of rows(); track w.weekStart) {
@@ -21,7 +27,9 @@ import { shortDate } from '../pain-chart/pain-chart-data';
               <th scope="row">{{ label(w.weekStart) }}</th>
               <td class="count">{{ w.done }} of {{ w.prescribed }}</td>
               <td class="bar-cell">
-                <span class="bar" aria-hidden="true"><span class="fill" [class.full]="w.done >= w.prescribed" [style.inline-size.%]="percent(w)"></span></span>
+                <span class="bar" aria-hidden="true"
+                  ><span class="fill" [class.full]="w.done >= w.prescribed" [style.inline-size.%]="percent(w)"></span
+                ></span>
               </td>
             </tr>
           }

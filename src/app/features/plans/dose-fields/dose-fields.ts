@@ -7,7 +7,12 @@ import { errorText } from '../../../shared/forms/error-text';
 import type { DoseGroup } from '../plan-form-model';
 
 /** Short messages: the number fields are narrow. */
-const short = (limits: { min: number; max: number }) => ({ required: 'Required', whole: 'Whole number', min: `Min ${limits.min}`, max: `Max ${limits.max}` });
+const short = (limits: { min: number; max: number }) => ({
+  required: 'Required',
+  whole: 'Whole number',
+  min: `Min ${limits.min}`,
+  max: `Max ${limits.max}`,
+});
 
 /** The fields of a dose: sets, reps, hold, tempo, load, rest and days a week. */
 @Component({
@@ -28,19 +33,41 @@ const short = (limits: { min: number; max: number }) => ({ required: 'Required',
       </mat-form-field>
       <mat-form-field class="num">
         <mat-label>Hold</mat-label>
-        <input matInput type="number" inputmode="numeric" formControlName="holdSeconds" [min]="L.holdSeconds.min" [max]="L.holdSeconds.max" />
+        <input
+          matInput
+          type="number"
+          inputmode="numeric"
+          formControlName="holdSeconds"
+          [min]="L.holdSeconds.min"
+          [max]="L.holdSeconds.max"
+        />
         <span matTextSuffix>s</span>
         <mat-error>{{ errorText(group().controls.holdSeconds, 'Hold', short(L.holdSeconds)) }}</mat-error>
       </mat-form-field>
       <mat-form-field class="num">
         <mat-label>Rest</mat-label>
-        <input matInput type="number" inputmode="numeric" formControlName="restSeconds" [min]="L.restSeconds.min" [max]="L.restSeconds.max" />
+        <input
+          matInput
+          type="number"
+          inputmode="numeric"
+          formControlName="restSeconds"
+          [min]="L.restSeconds.min"
+          [max]="L.restSeconds.max"
+        />
         <span matTextSuffix>s</span>
         <mat-error>{{ errorText(group().controls.restSeconds, 'Rest', short(L.restSeconds)) }}</mat-error>
       </mat-form-field>
       <mat-form-field class="num">
         <mat-label>Days a week</mat-label>
-        <input matInput type="number" inputmode="numeric" formControlName="daysPerWeek" [min]="L.daysPerWeek.min" [max]="L.daysPerWeek.max" required />
+        <input
+          matInput
+          type="number"
+          inputmode="numeric"
+          formControlName="daysPerWeek"
+          [min]="L.daysPerWeek.min"
+          [max]="L.daysPerWeek.max"
+          required
+        />
         <mat-error>{{ errorText(group().controls.daysPerWeek, 'Days a week', short(L.daysPerWeek)) }}</mat-error>
       </mat-form-field>
     </div>

@@ -21,7 +21,18 @@ import { PlansApi } from '../plans-api';
 /** "New exercise" / "Edit exercise" of the library. Closes with the exercise as saved. */
 @Component({
   selector: 'app-exercise-dialog',
-  imports: [ReactiveFormsModule, MatDialogModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatIconModule, MatProgressBarModule, DoseFields, PlanCaution],
+  imports: [
+    ReactiveFormsModule,
+    MatDialogModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatButtonModule,
+    MatIconModule,
+    MatProgressBarModule,
+    DoseFields,
+    PlanCaution,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './exercise-dialog.html',
   styles: `

@@ -24,7 +24,19 @@ import { PlansApi } from '../plans-api';
 /** `/exercises`: the clinic's exercise library — search, filter by region and loading, add, edit, archive. */
 @Component({
   selector: 'app-exercise-library',
-  imports: [MatButtonModule, MatCardModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatIconModule, MatProgressBarModule, EmptyState, ErrorState, ExerciseCard, PlanCaution],
+  imports: [
+    MatButtonModule,
+    MatCardModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatIconModule,
+    MatProgressBarModule,
+    EmptyState,
+    ErrorState,
+    ExerciseCard,
+    PlanCaution,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './exercise-library.html',
   styleUrl: './exercise-library.scss',
@@ -45,7 +57,12 @@ export class ExerciseLibrary {
 
   protected edit(exercise?: Exercise): void {
     this.dialog
-      .open<ExerciseDialog, { exercise?: Exercise }, Exercise>(ExerciseDialog, { data: { exercise }, width: '720px', maxWidth: '95vw', autoFocus: 'first-tabbable' })
+      .open<ExerciseDialog, { exercise?: Exercise }, Exercise>(ExerciseDialog, {
+        data: { exercise },
+        width: '720px',
+        maxWidth: '95vw',
+        autoFocus: 'first-tabbable',
+      })
       .afterClosed()
       .subscribe((saved) => {
         if (!saved) return;
@@ -57,7 +74,11 @@ export class ExerciseLibrary {
   protected archive(exercise: Exercise): void {
     this.dialog
       .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, {
-        data: { title: `Archive “${exercise.name}”?`, message: 'It leaves the library; plans that already use it keep it as it is.', confirmLabel: 'Archive' },
+        data: {
+          title: `Archive “${exercise.name}”?`,
+          message: 'It leaves the library; plans that already use it keep it as it is.',
+          confirmLabel: 'Archive',
+        },
         width: '440px',
         maxWidth: '95vw',
       })

@@ -28,7 +28,17 @@ export interface ExercisePickerData {
 /** Search the library by text, region and loading kind, and pick one exercise for a stage. */
 @Component({
   selector: 'app-exercise-picker',
-  imports: [MatDialogModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatIconModule, MatProgressBarModule, EmptyState, ErrorState],
+  imports: [
+    MatDialogModule,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatIconModule,
+    MatProgressBarModule,
+    EmptyState,
+    ErrorState,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './exercise-picker.html',
   styleUrl: './exercise-picker.scss',

@@ -1,5 +1,15 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
-import { CategoryScale, Chart, ChartConfiguration, Legend, LineController, LineElement, LinearScale, PointElement, Tooltip } from 'chart.js';
+import {
+  CategoryScale,
+  Chart,
+  ChartConfiguration,
+  Legend,
+  LineController,
+  LineElement,
+  LinearScale,
+  PointElement,
+  Tooltip,
+} from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
 import type { PainPoint } from '../../../../contracts/plans';
 import { PAIN_COLOURS, painSeries } from './pain-chart-data';
@@ -44,10 +54,40 @@ export class PainChart {
     return {
       labels: s.labels,
       datasets: [
-        { label: 'Pain during', data: s.during, borderColor: PAIN_COLOURS.during, backgroundColor: PAIN_COLOURS.during, pointRadius: 4, tension: 0.2 },
-        { label: 'Next morning', data: s.morning, borderColor: PAIN_COLOURS.morning, backgroundColor: PAIN_COLOURS.morning, pointRadius: 4, pointStyle: 'rectRot', tension: 0.2, spanGaps: true },
-        { label: `Limit during (${this.maxDuring()}/10)`, data: s.limit, borderColor: PAIN_COLOURS.limit, borderDash: [6, 4], borderWidth: 1.5, pointRadius: 0 },
-        { label: `Settled (≤ ${this.settledMax()}/10)`, data: s.settled, borderColor: PAIN_COLOURS.settled, borderDash: [2, 3], borderWidth: 1.5, pointRadius: 0 },
+        {
+          label: 'Pain during',
+          data: s.during,
+          borderColor: PAIN_COLOURS.during,
+          backgroundColor: PAIN_COLOURS.during,
+          pointRadius: 4,
+          tension: 0.2,
+        },
+        {
+          label: 'Next morning',
+          data: s.morning,
+          borderColor: PAIN_COLOURS.morning,
+          backgroundColor: PAIN_COLOURS.morning,
+          pointRadius: 4,
+          pointStyle: 'rectRot',
+          tension: 0.2,
+          spanGaps: true,
+        },
+        {
+          label: `Limit during (${this.maxDuring()}/10)`,
+          data: s.limit,
+          borderColor: PAIN_COLOURS.limit,
+          borderDash: [6, 4],
+          borderWidth: 1.5,
+          pointRadius: 0,
+        },
+        {
+          label: `Settled (≤ ${this.settledMax()}/10)`,
+          data: s.settled,
+          borderColor: PAIN_COLOURS.settled,
+          borderDash: [2, 3],
+          borderWidth: 1.5,
+          pointRadius: 0,
+        },
       ],
     };
   });

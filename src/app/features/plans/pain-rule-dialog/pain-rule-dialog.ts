@@ -26,20 +26,26 @@ import { PlansApi } from '../plans-api';
       <mat-dialog-content>
         <p class="note">Default: {{ source }}</p>
         @if (problem(); as message) {
-          <p class="form-problem" role="alert"><mat-icon>error_outline</mat-icon><span>{{ message }}</span></p>
+          <p class="form-problem" role="alert">
+            <mat-icon>error_outline</mat-icon><span>{{ message }}</span>
+          </p>
         }
         <div class="form-grid">
           <mat-form-field>
             <mat-label>Highest pain during exercise</mat-label>
             <input matInput type="number" inputmode="numeric" formControlName="maxDuring" min="0" max="10" />
             <span matTextSuffix>/10</span>
-            <mat-error>{{ errorText(form.controls.maxDuring, 'Pain', { min: 'Use 0 to 10', max: 'Use 0 to 10', whole: 'Use a whole number' }) }}</mat-error>
+            <mat-error>{{
+              errorText(form.controls.maxDuring, 'Pain', { min: 'Use 0 to 10', max: 'Use 0 to 10', whole: 'Use a whole number' })
+            }}</mat-error>
           </mat-form-field>
           <mat-form-field>
             <mat-label>Settled next morning means at most</mat-label>
             <input matInput type="number" inputmode="numeric" formControlName="settledMorningMax" min="0" max="10" />
             <span matTextSuffix>/10</span>
-            <mat-error>{{ errorText(form.controls.settledMorningMax, 'Pain', { min: 'Use 0 to 10', max: 'Use 0 to 10', whole: 'Use a whole number' }) }}</mat-error>
+            <mat-error>{{
+              errorText(form.controls.settledMorningMax, 'Pain', { min: 'Use 0 to 10', max: 'Use 0 to 10', whole: 'Use a whole number' })
+            }}</mat-error>
           </mat-form-field>
         </div>
         <p><mat-checkbox formControlName="morningMustSettle">Alert when pain has not settled by the next morning</mat-checkbox></p>
@@ -87,7 +93,12 @@ export class PainRuleDialog {
       return;
     }
     const v = this.form.getRawValue();
-    const rule: PainRule = { maxDuring: v.maxDuring ?? 0, settledMorningMax: v.settledMorningMax ?? 0, morningMustSettle: v.morningMustSettle, noWeeklyRise: v.noWeeklyRise };
+    const rule: PainRule = {
+      maxDuring: v.maxDuring ?? 0,
+      settledMorningMax: v.settledMorningMax ?? 0,
+      morningMustSettle: v.morningMustSettle,
+      noWeeklyRise: v.noWeeklyRise,
+    };
     this.busy.set(true);
     try {
       this.ref.close(await firstValueFrom(this.api.putPainRule(this.plan.id, rule)));

@@ -11,7 +11,12 @@ import { alertSummary } from '../plan-words';
   changeDetection: ChangeDetectionStrategy.OnPush,
   template: `
     @if (alerts().length) {
-      <a class="plan-alert-chip" [routerLink]="['/plans', planId()]" [attr.title]="details()" [attr.aria-label]="'Plan alert: ' + summary() + '. ' + details()">
+      <a
+        class="plan-alert-chip"
+        [routerLink]="['/plans', planId()]"
+        [attr.title]="details()"
+        [attr.aria-label]="'Plan alert: ' + summary() + '. ' + details()"
+      >
         <mat-icon aria-hidden="true">warning</mat-icon>
         <span>{{ summary() }}</span>
       </a>
@@ -49,5 +54,9 @@ export class PlanAlertChip {
   /** Short words, for narrow cells. */
   readonly compact = input(false);
   protected readonly summary = computed(() => alertSummary(this.alerts(), this.compact()));
-  protected readonly details = computed(() => this.alerts().map((a) => a.message).join(' '));
+  protected readonly details = computed(() =>
+    this.alerts()
+      .map((a) => a.message)
+      .join(' '),
+  );
 }

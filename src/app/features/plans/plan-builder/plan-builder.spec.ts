@@ -15,9 +15,18 @@ const athlete = { id: 4, firstName: 'Ada', lastName: 'Example', email: 'ada@runn
 
 function exercise(id: number, name: string): Exercise {
   return {
-    id, name, purpose: 'Invented for the spec.', region: 'hamstring', kind: 'isometric',
+    id,
+    name,
+    purpose: 'Invented for the spec.',
+    region: 'hamstring',
+    kind: 'isometric',
     dose: { sets: 3, reps: null, holdSeconds: 30, tempo: null, load: null, restSeconds: 60, daysPerWeek: 5 },
-    instructions: ['Hold.'], cautions: '', source: '', archived: false, createdAt: '', updatedAt: '',
+    instructions: ['Hold.'],
+    cautions: '',
+    source: '',
+    archived: false,
+    createdAt: '',
+    updatedAt: '',
   };
 }
 
@@ -62,7 +71,10 @@ describe('PlanBuilder', () => {
   it('shows an exercise as soon as the picker answers Add, without another click, and the picker then knows it is in the stage', async () => {
     button('Start from three stages').click();
     await fixture.whenStable();
-    const addButtons = () => [...element.querySelectorAll<HTMLButtonElement>('[aria-label="Stage 1"] button')].filter((b) => b.textContent?.includes('Add exercise from library'));
+    const addButtons = () =>
+      [...element.querySelectorAll<HTMLButtonElement>('[aria-label="Stage 1"] button')].filter((b) =>
+        b.textContent?.includes('Add exercise from library'),
+      );
     addButtons()[0]!.click();
     await fixture.whenStable();
     expect(pickerData[0]).toMatchObject({ stageName: 'Isometric holds', chosenIds: [] });

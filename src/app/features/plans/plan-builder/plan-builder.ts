@@ -107,7 +107,8 @@ export class PlanBuilder implements LeaveGuarded {
   });
   protected readonly athleteDetail = rxResource({
     params: () => this.athleteId() ?? (this.editing() ? undefined : -1),
-    stream: ({ params }) => (params === -1 ? throwError(() => new Error('Open the new plan from an athlete’s profile.')) : this.athletesApi.get(params)),
+    stream: ({ params }) =>
+      params === -1 ? throwError(() => new Error('Open the new plan from an athlete’s profile.')) : this.athletesApi.get(params),
   });
   protected readonly assessments = rxResource({
     params: () => this.athleteId() ?? undefined,

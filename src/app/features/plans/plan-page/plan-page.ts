@@ -30,14 +30,35 @@ import { PlansApi } from '../plans-api';
 
 const CONFIRM: Partial<Record<PlanAction, (p: PlanDetail, next: PlanStage | null, athlete: AthleteSummary | null) => ConfirmDialogData>> = {
   start: (p, _next, athlete) => ({ title: 'Start this plan?', message: startPlanMessage(p.title, athlete), confirmLabel: 'Start plan' }),
-  advance: (_p, next) => ({ title: `Move to “${next?.name ?? 'the next stage'}”?`, message: 'The athlete sees the new stage’s exercises from now on. Sessions already logged stay with the earlier stage.', confirmLabel: 'Move to next stage' }),
-  finish: (p) => ({ title: 'Finish this plan?', message: `${p.title} ends: the athlete can no longer log sessions on it. Its log and charts stay.`, confirmLabel: 'Finish plan' }),
+  advance: (_p, next) => ({
+    title: `Move to “${next?.name ?? 'the next stage'}”?`,
+    message: 'The athlete sees the new stage’s exercises from now on. Sessions already logged stay with the earlier stage.',
+    confirmLabel: 'Move to next stage',
+  }),
+  finish: (p) => ({
+    title: 'Finish this plan?',
+    message: `${p.title} ends: the athlete can no longer log sessions on it. Its log and charts stay.`,
+    confirmLabel: 'Finish plan',
+  }),
 };
 
 /** `/plans/:id` (staff): stages and doses, status actions, adherence, pain chart, alerts and log. */
 @Component({
   selector: 'app-plan-page',
-  imports: [DatePipe, RouterLink, MatButtonModule, MatCardModule, MatIconModule, MatProgressBarModule, ErrorState, AdherenceList, ExerciseCard, PainChart, PlanCaution, InvitePrompt],
+  imports: [
+    DatePipe,
+    RouterLink,
+    MatButtonModule,
+    MatCardModule,
+    MatIconModule,
+    MatProgressBarModule,
+    ErrorState,
+    AdherenceList,
+    ExerciseCard,
+    PainChart,
+    PlanCaution,
+    InvitePrompt,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './plan-page.html',
   styleUrl: './plan-page.scss',
@@ -54,7 +75,8 @@ export class PlanPage {
 
   protected readonly plan = rxResource({
     params: () => this.planId(),
-    stream: ({ params }) => (Number.isInteger(params) && params > 0 ? this.api.plan(params) : throwError(() => new Error('Not a valid plan address.'))),
+    stream: ({ params }) =>
+      Number.isInteger(params) && params > 0 ? this.api.plan(params) : throwError(() => new Error('Not a valid plan address.')),
   });
   protected readonly progress = rxResource({
     params: () => (this.plan.hasValue() ? { id: this.plan.value().id, at: this.plan.value().updatedAt } : undefined),
@@ -114,7 +136,11 @@ export class PlanPage {
       return;
     }
     this.dialog
-      .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, { data: ask(d, this.nextStage(), this.athlete.hasValue() ? this.athlete.value() : null), width: '460px', maxWidth: '95vw' })
+      .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, {
+        data: ask(d, this.nextStage(), this.athlete.hasValue() ? this.athlete.value() : null),
+        width: '460px',
+        maxWidth: '95vw',
+      })
       .afterClosed()
       .subscribe((yes) => {
         if (yes) void this.run(d, action);
@@ -126,7 +152,13 @@ export class PlanPage {
     try {
       const updated = await firstValueFrom(this.api.transition(d.id, action));
       this.plan.set(updated);
-      const words: Record<PlanAction, string> = { start: 'Plan started', advance: `Moved to “${updated.currentStageName}”`, pause: 'Plan paused', resume: 'Plan resumed', finish: 'Plan finished' };
+      const words: Record<PlanAction, string> = {
+        start: 'Plan started',
+        advance: `Moved to “${updated.currentStageName}”`,
+        pause: 'Plan paused',
+        resume: 'Plan resumed',
+        finish: 'Plan finished',
+      };
       this.snackBar.open(words[action], 'OK', { duration: 3000 });
     } catch {
       // The error snackbar says why (e.g. another plan is running).
@@ -153,7 +185,11 @@ export class PlanPage {
     if (!d) return;
     this.dialog
       .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, {
-        data: { title: 'Delete this draft?', message: `${d.title} and its stages are deleted. This cannot be undone.`, confirmLabel: 'Delete draft' },
+        data: {
+          title: 'Delete this draft?',
+          message: `${d.title} and its stages are deleted. This cannot be undone.`,
+          confirmLabel: 'Delete draft',
+        },
         width: '440px',
         maxWidth: '95vw',
       })

@@ -42,7 +42,10 @@ import { historyRows, sessionLoggedOn } from '../portal-plan/portal-log';
             <p class="muted">Your exercise plan and today's session.</p>
           }
           @if (outbox.pending().length) {
-            <p class="pending"><mat-icon aria-hidden="true">cloud_upload</mat-icon>{{ outbox.pending().length }} log {{ outbox.pending().length === 1 ? 'entry' : 'entries' }} waiting to send</p>
+            <p class="pending">
+              <mat-icon aria-hidden="true">cloud_upload</mat-icon>{{ outbox.pending().length }} log
+              {{ outbox.pending().length === 1 ? 'entry' : 'entries' }} waiting to send
+            </p>
           }
         </div>
       </mat-card-content>
@@ -94,7 +97,11 @@ export class PortalPlanCard {
   /** Whether today's session is logged (sent, or waiting on this phone). */
   protected readonly doneToday = computed(() => {
     const id = this.plan()?.id;
-    const rows = historyRows(this.logs.hasValue() ? this.logs.value() : [], this.outbox.items().filter((i) => i.planId === id), []);
+    const rows = historyRows(
+      this.logs.hasValue() ? this.logs.value() : [],
+      this.outbox.items().filter((i) => i.planId === id),
+      [],
+    );
     return sessionLoggedOn(rows, this.today) !== null;
   });
 }

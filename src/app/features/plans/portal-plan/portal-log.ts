@@ -7,7 +7,18 @@ import type { OutboxItem } from '../log-outbox-queue';
 
 export type HistoryRow =
   | { kind: 'sent'; key: string; entry: LogEntry; morningPending: number | null }
-  | { kind: 'waiting' | 'refused'; key: string; itemId: string; date: string; painDuring: number; note: string | null; stageName: string; message: string | null; setsDone: number; setsPrescribed: number };
+  | {
+      kind: 'waiting' | 'refused';
+      key: string;
+      itemId: string;
+      date: string;
+      painDuring: number;
+      note: string | null;
+      stageName: string;
+      message: string | null;
+      setsDone: number;
+      setsPrescribed: number;
+    };
 
 export function historyRows(logs: readonly LogEntry[], outbox: readonly OutboxItem[], stages: readonly PlanStage[]): HistoryRow[] {
   const rows: HistoryRow[] = [];
@@ -49,7 +60,21 @@ export function entriesForMorning(logs: readonly LogEntry[], outbox: readonly Ou
     .filter((i) => i.kind === 'log' && !i.refused && !sentKeys.has(i.key))
     .map((i): LogEntry | null =>
       i.kind === 'log'
-        ? { id: -1, planId: i.planId, stageId: i.body.stageId, stageName: '', key: i.key, date: i.body.date, painDuring: i.body.painDuring, morningPain: answered.get(i.key) ?? null, morningAt: null, sets: [], note: i.body.note, reviewNote: null, createdAt: '' }
+        ? {
+            id: -1,
+            planId: i.planId,
+            stageId: i.body.stageId,
+            stageName: '',
+            key: i.key,
+            date: i.body.date,
+            painDuring: i.body.painDuring,
+            morningPain: answered.get(i.key) ?? null,
+            morningAt: null,
+            sets: [],
+            note: i.body.note,
+            reviewNote: null,
+            createdAt: '',
+          }
         : null,
     )
     .filter((x): x is LogEntry => x !== null);

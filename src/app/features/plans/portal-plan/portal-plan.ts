@@ -80,7 +80,9 @@ export class PortalPlan implements LeaveGuarded {
     stream: ({ params }) => this.api.logs(params),
   });
   protected readonly detail = computed(() => (this.plan.hasValue() ? this.plan.value() : null));
-  protected readonly stage = computed<PlanStage | null>(() => this.detail()?.stages.find((s) => s.id === this.detail()?.currentStageId) ?? null);
+  protected readonly stage = computed<PlanStage | null>(
+    () => this.detail()?.stages.find((s) => s.id === this.detail()?.currentStageId) ?? null,
+  );
 
   protected readonly today = signal(toIsoDate(new Date())!);
   protected readonly earliest = computed(() => parseIsoDate(addDays(this.today(), -PLAN_LIMITS.logBackdateDays)));
@@ -100,12 +102,16 @@ export class PortalPlan implements LeaveGuarded {
     const id = this.summary()?.id;
     return this.outbox.items().filter((i) => i.planId === id);
   });
-  protected readonly history = computed(() => historyRows(this.logs.hasValue() ? this.logs.value() : [], this.planItems(), this.detail()?.stages ?? []));
+  protected readonly history = computed(() =>
+    historyRows(this.logs.hasValue() ? this.logs.value() : [], this.planItems(), this.detail()?.stages ?? []),
+  );
   /** Today's session once saved (sent or waiting on the phone): the page says it is done. */
   protected readonly doneToday = computed(() => sessionLoggedOn(this.history(), this.today()));
   /** Whether the athlete chose to log another session (an earlier day, or a second one) anyway. */
   protected readonly logAnother = signal(false);
-  protected readonly morningDue = computed(() => morningCheckDue(entriesForMorning(this.logs.hasValue() ? this.logs.value() : [], this.planItems()), this.today()));
+  protected readonly morningDue = computed(() =>
+    morningCheckDue(entriesForMorning(this.logs.hasValue() ? this.logs.value() : [], this.planItems()), this.today()),
+  );
   protected readonly waiting = computed(() => this.planItems().filter((i) => !i.refused));
   protected readonly refusedMorning = computed(() => this.planItems().filter((i) => i.refused && i.kind === 'morning'));
   /** Entries saved for a plan that is no longer the running one: shown until sent or discarded. */
@@ -131,9 +137,14 @@ export class PortalPlan implements LeaveGuarded {
   }
 
   leaveWarning(): LeaveWarning | null {
-    const started = this.pain() !== null || this.form.controls.note.value.trim() !== '' || Object.values(this.ticks()).some((t) => t.some(Boolean));
+    const started =
+      this.pain() !== null || this.form.controls.note.value.trim() !== '' || Object.values(this.ticks()).some((t) => t.some(Boolean));
     return started
-      ? { title: 'Leave without saving the session?', message: 'The sets, pain and note you entered are not saved yet. If you leave now, they are lost.', confirmLabel: 'Leave and discard' }
+      ? {
+          title: 'Leave without saving the session?',
+          message: 'The sets, pain and note you entered are not saved yet. If you leave now, they are lost.',
+          confirmLabel: 'Leave and discard',
+        }
       : null;
   }
 
@@ -165,7 +176,8 @@ export class PortalPlan implements LeaveGuarded {
 
   /** Arrow keys move within the 0–10 scale, as in any radio group. */
   protected painKey(event: KeyboardEvent, value: number): void {
-    const delta = event.key === 'ArrowRight' || event.key === 'ArrowDown' ? 1 : event.key === 'ArrowLeft' || event.key === 'ArrowUp' ? -1 : 0;
+    const delta =
+      event.key === 'ArrowRight' || event.key === 'ArrowDown' ? 1 : event.key === 'ArrowLeft' || event.key === 'ArrowUp' ? -1 : 0;
     if (!delta) return;
     event.preventDefault();
     const next = Math.min(10, Math.max(0, value + delta));
@@ -198,7 +210,11 @@ export class PortalPlan implements LeaveGuarded {
     this.tried.set(false);
     this.logAnother.set(false);
     this.ticks.set(Object.fromEntries(stage.exercises.map((e) => [e.id, Array<boolean>(e.dose.sets).fill(false)])));
-    this.snackBar.open(navigator.onLine === false ? 'Session saved on this phone; it is sent when you are back online' : 'Session saved', 'OK', { duration: 4000 });
+    this.snackBar.open(
+      navigator.onLine === false ? 'Session saved on this phone; it is sent when you are back online' : 'Session saved',
+      'OK',
+      { duration: 4000 },
+    );
   }
 
   /** Sends a refused session again as a session of today's stage (sets matched by exercise). */

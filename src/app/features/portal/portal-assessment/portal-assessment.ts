@@ -51,14 +51,10 @@ export class PortalAssessment implements LeaveGuarded {
   protected readonly assessment = rxResource({
     params: () => Number(this.id()),
     stream: ({ params }) =>
-      Number.isInteger(params) && params > 0
-        ? this.api.get(params)
-        : throwError(() => new Error('Not a valid assessment address.')),
+      Number.isInteger(params) && params > 0 ? this.api.get(params) : throwError(() => new Error('Not a valid assessment address.')),
   });
   /** The assessment without coach notes, whatever the server sent. */
-  protected readonly detail = computed(() =>
-    this.assessment.hasValue() ? { ...this.assessment.value(), notes: null } : null,
-  );
+  protected readonly detail = computed(() => (this.assessment.hasValue() ? { ...this.assessment.value(), notes: null } : null));
   protected readonly notFound = computed(() => errorStatus(this.assessment.error()) === 404);
   protected readonly heading = computed(() => {
     const a = this.detail();

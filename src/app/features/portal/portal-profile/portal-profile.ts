@@ -1,14 +1,5 @@
 import { DatePipe } from '@angular/common';
-import {
-  ChangeDetectionStrategy,
-  Component,
-  computed,
-  effect,
-  inject,
-  signal,
-  untracked,
-  viewChild,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked, viewChild } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -107,9 +98,7 @@ export class PortalProfile implements LeaveGuarded {
     this.nameProblem.set(null);
     const { firstName, lastName } = this.nameForm.getRawValue();
     try {
-      const updated = await firstValueFrom(
-        this.api.update(current.id, { firstName: firstName.trim(), lastName: lastName.trim() }),
-      );
+      const updated = await firstValueFrom(this.api.update(current.id, { firstName: firstName.trim(), lastName: lastName.trim() }));
       this.nameForm.markAsPristine();
       this.athlete.set(updated);
       this.snackBar.open('Name saved', 'OK', { duration: 3000 });

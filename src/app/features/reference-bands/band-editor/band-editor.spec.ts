@@ -72,12 +72,16 @@ describe('BandEditor', () => {
     type('Source (citation)', 'x');
     await fixture.whenStable();
     saveButton().click();
-    backend
-      .expectOne('/api/reference-bands/knee_flexion_initial_contact')
-      .flush(
-        { error: { code: 'validation', message: 'Invalid', details: [{ path: ['source'], message: 'Name the source (publication, or "common practice").' }] } },
-        { status: 422, statusText: 'Unprocessable Entity' },
-      );
+    backend.expectOne('/api/reference-bands/knee_flexion_initial_contact').flush(
+      {
+        error: {
+          code: 'validation',
+          message: 'Invalid',
+          details: [{ path: ['source'], message: 'Name the source (publication, or "common practice").' }],
+        },
+      },
+      { status: 422, statusText: 'Unprocessable Entity' },
+    );
     await fixture.whenStable();
     expect(element.querySelector('mat-error')?.textContent).toContain('Name the source');
   });

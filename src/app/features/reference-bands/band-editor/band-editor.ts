@@ -49,12 +49,24 @@ export class BandEditor {
   protected readonly limits = BAND_TEXT_LIMITS;
   protected readonly errorText = errorText;
   protected readonly title = computed(() => MEASURE_LABELS[this.band().key] ?? this.band().key);
-  protected readonly dirty = toSignal(this.form.valueChanges.pipe(map(() => this.form.dirty), startWith(false)), { initialValue: false });
+  protected readonly dirty = toSignal(
+    this.form.valueChanges.pipe(
+      map(() => this.form.dirty),
+      startWith(false),
+    ),
+    { initialValue: false },
+  );
   /** Group-level problem (limits), shown under the limit fields once touched. */
   protected readonly limitsError = toSignal(
     this.form.statusChanges.pipe(
       startWith(this.form.status),
-      map(() => (this.form.hasError('lowAboveHigh') ? 'The lower limit is above the upper limit.' : this.form.hasError('noLimits') ? 'Give a lower limit, an upper limit, or both.' : null)),
+      map(() =>
+        this.form.hasError('lowAboveHigh')
+          ? 'The lower limit is above the upper limit.'
+          : this.form.hasError('noLimits')
+            ? 'Give a lower limit, an upper limit, or both.'
+            : null,
+      ),
     ),
     { initialValue: null },
   );
@@ -126,7 +138,9 @@ export class BandEditor {
     try {
       await firstValueFrom(this.api.reset(this.band().key));
       this.changed.emit({ key: this.band().key, band: null });
-      this.snackBar.open(this.hasDefault() ? `Default band restored: ${this.title()}` : `Band removed: ${this.title()}`, 'OK', { duration: 3000 });
+      this.snackBar.open(this.hasDefault() ? `Default band restored: ${this.title()}` : `Band removed: ${this.title()}`, 'OK', {
+        duration: 3000,
+      });
     } catch {
       // The error snackbar says why.
     } finally {

@@ -58,7 +58,11 @@ export class AngleChart {
   protected readonly hasData = computed(() => this.data().datasets.length > 0);
   /** One legend entry per line drawn: its colour, dash and name. */
   protected readonly legend = computed(() =>
-    this.data().datasets.map((d) => ({ label: d.label ?? '', colour: String(d.borderColor), dash: Array.isArray(d.borderDash) ? d.borderDash.join(' ') : '' })),
+    this.data().datasets.map((d) => ({
+      label: d.label ?? '',
+      colour: String(d.borderColor),
+      dash: Array.isArray(d.borderDash) ? d.borderDash.join(' ') : '',
+    })),
   );
 
   protected readonly options = computed<ChartConfiguration<'line', { x: number; y: number }[]>['options']>(() => {

@@ -85,7 +85,8 @@ export function paintFrame(canvas: HTMLCanvasElement, s: PaintInput): void {
   const toView = (p: FramePoint) => frameFractionToViewFraction(t, frame, size, p);
   const showScale = s.scale && (s.scaleTool || s.scale.frame === s.frame) ? s.scale : null;
   const [first, vertex] = s.gaugeDraft;
-  const gauges = first && vertex && s.hover ? [...s.gauges, { id: DRAFT_GAUGE_ID, frame: s.frame, a: first, vertex, b: s.hover }] : s.gauges;
+  const gauges =
+    first && vertex && s.hover ? [...s.gauges, { id: DRAFT_GAUGE_ID, frame: s.frame, a: first, vertex, b: s.hover }] : s.gauges;
   drawOverlay(ctx, {
     frameSize: size,
     landmarks: s.rows.map((row) => ({

@@ -55,7 +55,6 @@ const DRAG_SLOP_PX: Record<string, number> = { mouse: 2, pen: 4, touch: 8 };
 /** How long the "how to zoom" hint stays after a plain wheel turn over the frame, ms. */
 const WHEEL_HINT_MS = 1800;
 
-
 /**
  * The frame on a canvas with the overlay. Draws the cached bitmap of the current frame (or the
  * nearest one, dimmed, while it loads), the landmarks through the shared overlay code and the scale
@@ -278,7 +277,10 @@ export class FrameViewer {
     const saved = this.store.annotations().scale;
     const line = draft ?? saved;
     if (!line) return null;
-    const candidates: HitCandidate<'a' | 'b'>[] = (['a', 'b'] as const).map((end) => ({ key: end, ...fractionToScreen(t, frame, line[end]) }));
+    const candidates: HitCandidate<'a' | 'b'>[] = (['a', 'b'] as const).map((end) => ({
+      key: end,
+      ...fractionToScreen(t, frame, line[end]),
+    }));
     const end = hitTest(candidates, p, hitTolerancePx(pointerType));
     return end ? { end, fromSaved: !draft } : null;
   }
@@ -327,7 +329,16 @@ export class FrameViewer {
         const at = this.toFraction(p);
         const point = start[handle.point];
         const slop = DRAG_SLOP_PX[e.pointerType] ?? 2;
-        this.gesture = { kind: 'gauge-point', id: e.pointerId, ref: handle, start, offset: { x: point.x - at.x, y: point.y - at.y }, down: p, slop, moved: false };
+        this.gesture = {
+          kind: 'gauge-point',
+          id: e.pointerId,
+          ref: handle,
+          start,
+          offset: { x: point.x - at.x, y: point.y - at.y },
+          down: p,
+          slop,
+          moved: false,
+        };
         return;
       }
       this.gesture = { kind: 'tap', id: e.pointerId, start: p, last: p };
@@ -341,7 +352,16 @@ export class FrameViewer {
       const start = store.pointAt(hit)!;
       const at = this.toFraction(p);
       const slop = DRAG_SLOP_PX[e.pointerType] ?? 2;
-      this.gesture = { kind: 'point', id: e.pointerId, ref: hit, start, offset: { x: start.x - at.x, y: start.y - at.y }, down: p, slop, moved: false };
+      this.gesture = {
+        kind: 'point',
+        id: e.pointerId,
+        ref: hit,
+        start,
+        offset: { x: start.x - at.x, y: start.y - at.y },
+        down: p,
+        slop,
+        moved: false,
+      };
       return;
     }
     this.gesture = { kind: 'tap', id: e.pointerId, start: p, last: p };

@@ -13,9 +13,9 @@ import { KEY_HELP } from '../key-map';
     <!-- Focusable so keyboard users can scroll the list when it is taller than the dialog. -->
     <mat-dialog-content tabindex="0" role="region" aria-label="Keys of the review workspace">
       <p class="intro">
-        Keys work while the focus is not in a text field; the frame keys (← →, Home, End, [ ], Space, comma and full
-        stop) step frames even after you click a tab, toggle or button. The mouse wheel scrolls the page: to zoom the
-        frame, hold Ctrl (⌘ on a Mac) while scrolling, pinch, or use + and −. On a Mac, use ⌘ for Ctrl.
+        Keys work while the focus is not in a text field; the frame keys (← →, Home, End, [ ], Space, comma and full stop) step frames even
+        after you click a tab, toggle or button. The mouse wheel scrolls the page: to zoom the frame, hold Ctrl (⌘ on a Mac) while
+        scrolling, pinch, or use + and −. On a Mac, use ⌘ for Ctrl.
       </p>
       <div class="groups">
         @for (group of groups; track group.title) {

@@ -211,7 +211,9 @@ describe('ReviewPage', () => {
     expect(readout()).toBe('Frame 11 / 49');
     expect(tab.getAttribute('aria-selected')).toBe('true');
 
-    const speed = [...element.querySelectorAll<HTMLButtonElement>('mat-button-toggle button')].find((b) => b.textContent?.includes('1/2×'))!;
+    const speed = [...element.querySelectorAll<HTMLButtonElement>('mat-button-toggle button')].find((b) =>
+      b.textContent?.includes('1/2×'),
+    )!;
     speed.click();
     speed.focus();
     await settle();

@@ -163,7 +163,7 @@ export class ReviewPage implements LeaveGuarded {
   });
   protected readonly notFound = computed(() => {
     const err = this.loaded.error();
-    return errorStatus(err) === 404 || err instanceof NotHereError || (err?.cause instanceof NotHereError);
+    return errorStatus(err) === 404 || err instanceof NotHereError || err?.cause instanceof NotHereError;
   });
   protected readonly bandsMissing = computed(() => this.bands.hasValue() && this.bands.value() === null);
   protected readonly athleteName = computed(() => {
@@ -265,7 +265,8 @@ export class ReviewPage implements LeaveGuarded {
         store.last();
         break;
       case 'event-jump':
-        if (!store.jumpToEvent(action.dir)) this.say(action.dir < 0 ? 'No marked event before this frame' : 'No marked event after this frame', true);
+        if (!store.jumpToEvent(action.dir))
+          this.say(action.dir < 0 ? 'No marked event before this frame' : 'No marked event after this frame', true);
         break;
       case 'play':
         store.togglePlay();

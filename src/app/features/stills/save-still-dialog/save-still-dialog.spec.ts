@@ -16,7 +16,12 @@ describe('SaveStillDialog', () => {
     close = vi.fn();
     TestBed.configureTestingModule({
       imports: [SaveStillDialog],
-      providers: [provideHttpClient(), provideHttpClientTesting(), { provide: MAT_DIALOG_DATA, useValue: data }, { provide: MatDialogRef, useValue: { close } }],
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: MAT_DIALOG_DATA, useValue: data },
+        { provide: MatDialogRef, useValue: { close } },
+      ],
     });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(SaveStillDialog);
@@ -68,9 +73,16 @@ describe('SaveStillDialog', () => {
     open({ clipId: 7, frameIndex: 41, what: 'Frame 41' });
     await type('Knee over the ankle');
     saveButton().click();
-    backend
-      .expectOne('/api/clips/7/stills')
-      .flush({ error: { code: 'validation', message: 'Check the fields', details: [{ path: ['caption'], message: 'The caption has a character that cannot be drawn' }] } }, { status: 422, statusText: 'Unprocessable' });
+    backend.expectOne('/api/clips/7/stills').flush(
+      {
+        error: {
+          code: 'validation',
+          message: 'Check the fields',
+          details: [{ path: ['caption'], message: 'The caption has a character that cannot be drawn' }],
+        },
+      },
+      { status: 422, statusText: 'Unprocessable' },
+    );
     await fixture.whenStable();
     expect(close).not.toHaveBeenCalled();
     expect(caption().value).toBe('Knee over the ankle');
@@ -81,7 +93,9 @@ describe('SaveStillDialog', () => {
     open({ clipId: 7, frameIndex: 41, what: 'Frame 41' });
     await type('Still here');
     saveButton().click();
-    backend.expectOne('/api/clips/7/stills').flush({ error: { code: 'not_found', message: 'This clip was deleted.' } }, { status: 404, statusText: 'Not Found' });
+    backend
+      .expectOne('/api/clips/7/stills')
+      .flush({ error: { code: 'not_found', message: 'This clip was deleted.' } }, { status: 404, statusText: 'Not Found' });
     await fixture.whenStable();
     expect(element.querySelector('.form-problem')?.textContent).toContain('This clip was deleted.');
     expect(caption().value).toBe('Still here');

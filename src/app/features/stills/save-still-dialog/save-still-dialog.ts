@@ -35,7 +35,15 @@ export interface SaveStillData {
  */
 @Component({
   selector: 'app-save-still-dialog',
-  imports: [MatDialogModule, MatFormFieldModule, MatInputModule, MatSlideToggleModule, MatButtonModule, MatIconModule, MatProgressBarModule],
+  imports: [
+    MatDialogModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSlideToggleModule,
+    MatButtonModule,
+    MatIconModule,
+    MatProgressBarModule,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './save-still-dialog.html',
   styleUrl: './save-still-dialog.scss',

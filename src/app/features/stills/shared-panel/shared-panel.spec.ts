@@ -91,7 +91,12 @@ describe('SharedPanel', () => {
     area.dispatchEvent(new Event('input'));
     await settle();
     element.querySelector<HTMLButtonElement>('.caption-edit button[type="submit"]')!.click();
-    backend.expectOne('/api/stills/1').flush({ error: { code: 'validation', message: 'x', details: [{ path: ['caption'], message: 'Too long for the still' }] } }, { status: 422, statusText: 'Unprocessable' });
+    backend
+      .expectOne('/api/stills/1')
+      .flush(
+        { error: { code: 'validation', message: 'x', details: [{ path: ['caption'], message: 'Too long for the still' }] } },
+        { status: 422, statusText: 'Unprocessable' },
+      );
     await settle();
     expect(element.querySelector<HTMLTextAreaElement>('.caption-edit textarea')!.value).toBe('New words');
     expect(element.textContent).toContain('Too long for the still');
@@ -100,7 +105,9 @@ describe('SharedPanel', () => {
   it('offers Preview, Download and a retry for a failed summary', async () => {
     await open();
     backend.expectOne('/api/athletes/9/stills').flush([]);
-    backend.expectOne('/api/athletes/9/summaries').flush([aSummary(), aSummary({ id: 6, status: 'failed', error: 'Out of memory', pdfUrl: '/api/summaries/6/pdf' })]);
+    backend
+      .expectOne('/api/athletes/9/summaries')
+      .flush([aSummary(), aSummary({ id: 6, status: 'failed', error: 'Out of memory', pdfUrl: '/api/summaries/6/pdf' })]);
     await settle();
     expect(element.querySelector('a[href="/api/summaries/5/pdf"]')?.getAttribute('target')).toBe('_blank');
     expect(element.querySelector('a[href="/api/summaries/5/pdf?download=1"]')).not.toBeNull();

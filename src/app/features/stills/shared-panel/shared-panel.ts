@@ -18,7 +18,19 @@ import { EmptyState } from '../../../shared/states/empty-state';
 import { InvitePrompt } from '../../athletes/invite-prompt/invite-prompt';
 import { CAUTION_LINE } from '../../compare/compare-logic';
 import { ErrorState } from '../../../shared/states/error-state';
-import { POLL_MS, anyRendering, downloadUrl, panelText, progressPercent, publishButton, publishConfirmText, stillAlt, stillSrc, summaryStateText, textCount } from '../sharing-logic';
+import {
+  POLL_MS,
+  anyRendering,
+  downloadUrl,
+  panelText,
+  progressPercent,
+  publishButton,
+  publishConfirmText,
+  stillAlt,
+  stillSrc,
+  summaryStateText,
+  textCount,
+} from '../sharing-logic';
 import { saveProblems } from '../sharing-errors';
 import { openStillViewer } from '../still-viewer/still-viewer';
 import { StillsApi } from '../stills-api';
@@ -39,7 +51,18 @@ interface CaptionEdit {
  */
 @Component({
   selector: 'app-shared-panel',
-  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, MatTooltipModule, EmptyState, ErrorState, InvitePrompt],
+  imports: [
+    DatePipe,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatProgressBarModule,
+    MatTooltipModule,
+    EmptyState,
+    ErrorState,
+    InvitePrompt,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './shared-panel.html',
   styleUrl: './shared-panel.scss',
@@ -138,7 +161,9 @@ export class SharedPanel {
   }
 
   private confirm(data: ConfirmDialogData): Promise<boolean> {
-    return firstValueFrom(this.dialog.open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, { data, width: '480px', maxWidth: '95vw' }).afterClosed()).then((ok) => !!ok);
+    return firstValueFrom(
+      this.dialog.open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, { data, width: '480px', maxWidth: '95vw' }).afterClosed(),
+    ).then((ok) => !!ok);
   }
 
   private replaceStill(still: Still): void {
@@ -163,13 +188,17 @@ export class SharedPanel {
     const saved = await this.track(`still-${still.id}`, this.api.publishStill(still.id, button.action === 'publish'));
     if (!saved) return;
     this.replaceStill(saved);
-    this.snackBar.open(saved.publishedAt ? 'Still published — the athlete gets an e-mail notice' : 'Still unpublished', undefined, { duration: 3000 });
+    this.snackBar.open(saved.publishedAt ? 'Still published — the athlete gets an e-mail notice' : 'Still unpublished', undefined, {
+      duration: 3000,
+    });
   }
 
   protected async deleteStill(still: Still): Promise<void> {
     const ok = await this.confirm({
       title: 'Delete this still?',
-      message: still.publishedAt ? 'The athlete will no longer see it. Visit summaries already rendered keep their copy.' : 'It is removed for good.',
+      message: still.publishedAt
+        ? 'The athlete will no longer see it. Visit summaries already rendered keep their copy.'
+        : 'It is removed for good.',
       confirmLabel: 'Delete still',
     });
     if (!ok) return;
@@ -196,7 +225,10 @@ export class SharedPanel {
     );
     if (!created) return;
     this.stills.update((list) => [created, ...(list ?? []).filter((s) => s.id !== still.id)]);
-    this.api.deleteStill(still.id).pipe(takeUntilDestroyed(this.destroyRef)).subscribe({ error: () => this.stills.reload() });
+    this.api
+      .deleteStill(still.id)
+      .pipe(takeUntilDestroyed(this.destroyRef))
+      .subscribe({ error: () => this.stills.reload() });
   }
 
   protected startEdit(still: Still): void {
@@ -250,13 +282,19 @@ export class SharedPanel {
     const saved = await this.track(`summary-${summary.id}`, this.api.publishSummary(summary.id, button.action === 'publish'));
     if (!saved) return;
     this.replaceSummary(saved);
-    this.snackBar.open(saved.publishedAt ? 'Visit summary published — the athlete gets an e-mail notice' : 'Visit summary unpublished', undefined, { duration: 3000 });
+    this.snackBar.open(
+      saved.publishedAt ? 'Visit summary published — the athlete gets an e-mail notice' : 'Visit summary unpublished',
+      undefined,
+      { duration: 3000 },
+    );
   }
 
   protected async deleteSummary(summary: VisitSummary): Promise<void> {
     const ok = await this.confirm({
       title: 'Delete this visit summary?',
-      message: summary.publishedAt ? 'The athlete will no longer see it. The stills it shows stay.' : 'The PDF is removed for good. The stills it shows stay.',
+      message: summary.publishedAt
+        ? 'The athlete will no longer see it. The stills it shows stay.'
+        : 'The PDF is removed for good. The stills it shows stay.',
       confirmLabel: 'Delete summary',
     });
     if (!ok) return;
@@ -279,6 +317,9 @@ export class SharedPanel {
     );
     if (!created) return;
     this.summaries.update((list) => [created, ...(list ?? []).filter((s) => s.id !== summary.id)]);
-    this.api.deleteSummary(summary.id).pipe(takeUntilDestroyed(this.destroyRef)).subscribe({ error: () => this.summaries.reload() });
+    this.api
+      .deleteSummary(summary.id)
+      .pipe(takeUntilDestroyed(this.destroyRef))
+      .subscribe({ error: () => this.summaries.reload() });
   }
 }

@@ -11,7 +11,10 @@ describe('StillViewer', () => {
   async function open(data: StillViewerData) {
     TestBed.configureTestingModule({
       imports: [StillViewer],
-      providers: [{ provide: MAT_DIALOG_DATA, useValue: data }, { provide: MatDialogRef, useValue: { close: vi.fn() } }],
+      providers: [
+        { provide: MAT_DIALOG_DATA, useValue: data },
+        { provide: MatDialogRef, useValue: { close: vi.fn() } },
+      ],
     });
     fixture = TestBed.createComponent(StillViewer);
     element = fixture.nativeElement;

@@ -36,13 +36,20 @@ describe('SummaryDialog', () => {
     close = vi.fn();
     TestBed.configureTestingModule({
       imports: [SummaryDialog],
-      providers: [provideHttpClient(), provideHttpClientTesting(), { provide: MAT_DIALOG_DATA, useValue: data }, { provide: MatDialogRef, useValue: { close } }],
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: MAT_DIALOG_DATA, useValue: data },
+        { provide: MatDialogRef, useValue: { close } },
+      ],
     });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(SummaryDialog);
     element = fixture.nativeElement;
     fixture.detectChanges();
-    backend.expectOne('/api/athletes/9/assessments').flush({ assessments: [visit(20, '2026-11-24', 'retest'), visit(10, '2026-10-06', 'baseline')] });
+    backend
+      .expectOne('/api/athletes/9/assessments')
+      .flush({ assessments: [visit(20, '2026-11-24', 'retest'), visit(10, '2026-10-06', 'baseline')] });
     await settle();
   }
   const settle = async () => {
@@ -62,8 +69,21 @@ describe('SummaryDialog', () => {
 
   const stills = [
     aStill({ id: 1, caption: 'Re-test frame' }),
-    aStill({ id: 2, kind: 'pair', caption: 'The pair', panels: [{ clipId: 3, assessmentId: 10, frameIndex: 36, timeS: 0.6, label: 'Baseline' }, { clipId: 7, assessmentId: 20, frameIndex: 36, timeS: 0.6, label: 'Re-test' }] }),
-    aStill({ id: 3, assessmentId: 99, caption: 'Another visit', panels: [{ clipId: 8, assessmentId: 99, frameIndex: 1, timeS: 0, label: 'Other' }] }),
+    aStill({
+      id: 2,
+      kind: 'pair',
+      caption: 'The pair',
+      panels: [
+        { clipId: 3, assessmentId: 10, frameIndex: 36, timeS: 0.6, label: 'Baseline' },
+        { clipId: 7, assessmentId: 20, frameIndex: 36, timeS: 0.6, label: 'Re-test' },
+      ],
+    }),
+    aStill({
+      id: 3,
+      assessmentId: 99,
+      caption: 'Another visit',
+      panels: [{ clipId: 8, assessmentId: 99, frameIndex: 1, timeS: 0, label: 'Other' }],
+    }),
   ];
 
   it('summarises the newest Re-test against the Baseline with the chosen stills', async () => {
@@ -80,7 +100,12 @@ describe('SummaryDialog', () => {
     expect(element.textContent).toContain(`20 / ${SUMMARY_TEXT_MAX}`);
     submit().click();
     const req = backend.expectOne('/api/assessments/20/summaries');
-    expect(req.request.body).toEqual({ baselineAssessmentId: 10, findings: 'Hip extends further.', planText: 'Keep the drills.', stillIds: [2] });
+    expect(req.request.body).toEqual({
+      baselineAssessmentId: 10,
+      findings: 'Hip extends further.',
+      planText: 'Keep the drills.',
+      stillIds: [2],
+    });
     const created = aSummary({ status: 'rendering', progress: 0 });
     req.flush(created, { status: 202, statusText: 'Accepted' });
     await settle();
@@ -95,9 +120,16 @@ describe('SummaryDialog', () => {
     await type('findings', 'Fine words');
     await type('planText', 'A plan');
     submit().click();
-    backend
-      .expectOne('/api/assessments/20/summaries')
-      .flush({ error: { code: 'validation', message: 'Check the fields', details: [{ path: ['planText'], message: 'The plan cannot be only spaces' }] } }, { status: 422, statusText: 'Unprocessable' });
+    backend.expectOne('/api/assessments/20/summaries').flush(
+      {
+        error: {
+          code: 'validation',
+          message: 'Check the fields',
+          details: [{ path: ['planText'], message: 'The plan cannot be only spaces' }],
+        },
+      },
+      { status: 422, statusText: 'Unprocessable' },
+    );
     await settle();
     expect(close).not.toHaveBeenCalled();
     expect(element.textContent).toContain('The plan cannot be only spaces');

@@ -12,7 +12,13 @@ import { MatSelectModule } from '@angular/material/select';
 import { firstValueFrom } from 'rxjs';
 import type { Assessment } from '../../../../contracts/api';
 import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
-import { SUMMARY_STILLS_MAX, SUMMARY_TEXT_MAX, type Still, type VisitSummary, type VisitSummaryCreate } from '../../../../contracts/sharing';
+import {
+  SUMMARY_STILLS_MAX,
+  SUMMARY_TEXT_MAX,
+  type Still,
+  type VisitSummary,
+  type VisitSummaryCreate,
+} from '../../../../contracts/sharing';
 import { errorMessage } from '../../../core/api-error';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentsApi } from '../../assessments/assessments-api';
@@ -36,7 +42,17 @@ export interface SummaryDialogData {
  */
 @Component({
   selector: 'app-summary-dialog',
-  imports: [MatDialogModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatCheckboxModule, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState],
+  imports: [
+    MatDialogModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatCheckboxModule,
+    MatButtonModule,
+    MatIconModule,
+    MatProgressBarModule,
+    ErrorState,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './summary-dialog.html',
   styleUrl: './summary-dialog.scss',
@@ -71,7 +87,11 @@ export class SummaryDialog {
   protected readonly stillOptions = computed(() => stillChoices(this.data.stills, [this.assessmentId(), this.baselineId()]));
   protected readonly chosen = signal<ReadonlySet<number>>(new Set());
   /** Chosen stills that are still offered (changing the visits drops the others). */
-  protected readonly chosenIds = computed(() => this.stillOptions().filter((s) => this.chosen().has(s.id)).map((s) => s.id));
+  protected readonly chosenIds = computed(() =>
+    this.stillOptions()
+      .filter((s) => this.chosen().has(s.id))
+      .map((s) => s.id),
+  );
   protected readonly findings = signal('');
   protected readonly planText = signal('');
   protected readonly findingsCount = computed(() => textCount(this.findings(), SUMMARY_TEXT_MAX));
@@ -79,7 +99,9 @@ export class SummaryDialog {
   protected readonly fieldErrors = signal<Record<string, string>>({});
   protected readonly problem = signal<string | null>(null);
   protected readonly busy = signal(false);
-  protected readonly blocked = computed(() => this.busy() || this.assessmentId() === null || this.findingsCount().over || this.planCount().over);
+  protected readonly blocked = computed(
+    () => this.busy() || this.assessmentId() === null || this.findingsCount().over || this.planCount().over,
+  );
 
   /** "Re-test · 24 Nov 2026", as the stills below and the PDF name the visits. */
   protected assessmentLabel(a: Assessment): string {

@@ -28,8 +28,8 @@ export interface DeactivateDialogData {
     <h2 mat-dialog-title>Deactivate {{ data.member.name }}?</h2>
     <mat-dialog-content>
       <p>
-        They are signed out at once and can no longer sign in. Their assessments, marks, plans and
-        shared items stay in the clinic's records.
+        They are signed out at once and can no longer sign in. Their assessments, marks, plans and shared items stay in the clinic's
+        records.
       </p>
       @if (data.member.athleteCount > 0) {
         <p>
@@ -51,9 +51,7 @@ export interface DeactivateDialogData {
     </mat-dialog-content>
     <mat-dialog-actions align="end">
       <button mat-button type="button" [mat-dialog-close]="undefined">Cancel</button>
-      <button mat-flat-button type="button" class="danger" (click)="confirm()" [disabled]="heir.invalid" cdkFocusInitial>
-        Deactivate
-      </button>
+      <button mat-flat-button type="button" class="danger" (click)="confirm()" [disabled]="heir.invalid" cdkFocusInitial>Deactivate</button>
     </mat-dialog-actions>
   `,
   styles: `

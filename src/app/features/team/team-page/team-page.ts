@@ -103,7 +103,8 @@ export class TeamPage {
       .open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, {
         data: {
           title: `Reactivate ${member.name}?`,
-          message: 'They can sign in again with their password. Athletes who moved to another coach stay there; assign them back on each athlete if needed.',
+          message:
+            'They can sign in again with their password. Athletes who moved to another coach stay there; assign them back on each athlete if needed.',
           confirmLabel: 'Reactivate',
         },
       })
@@ -119,7 +120,11 @@ export class TeamPage {
       await firstValueFrom(action === 'deactivate' ? this.api.deactivate(member.id, { reassignTo }) : this.api.reactivate(member.id));
       // Athlete counts of others change too: read the list again.
       this.team.reload();
-      this.snackBar.open(action === 'deactivate' ? `${member.name} is deactivated and signed out` : `${member.name} can sign in again`, 'OK', { duration: 4000 });
+      this.snackBar.open(
+        action === 'deactivate' ? `${member.name} is deactivated and signed out` : `${member.name} can sign in again`,
+        'OK',
+        { duration: 4000 },
+      );
     } catch {
       // Reported by the error snackbar.
     } finally {
@@ -137,9 +142,7 @@ export class TeamPage {
     this.inviteProblem.set(null);
     const { name, email } = this.form.getRawValue();
     try {
-      const invitation = await firstValueFrom(
-        this.api.inviteCoach({ name: name.trim(), email: email.trim() }),
-      );
+      const invitation = await firstValueFrom(this.api.inviteCoach({ name: name.trim(), email: email.trim() }));
       this.team.update((t) => (t ? { ...t, invitations: [invitation, ...t.invitations] } : t));
       formDirective.resetForm();
       this.snackBar.open(`Invitation sent to ${invitation.email}`, 'OK', { duration: 4000 });
@@ -174,9 +177,7 @@ export class TeamPage {
     this.revoking.set(invitation.id);
     try {
       await firstValueFrom(this.api.revoke(invitation.id));
-      this.team.update((t) =>
-        t ? { ...t, invitations: t.invitations.filter((i) => i.id !== invitation.id) } : t,
-      );
+      this.team.update((t) => (t ? { ...t, invitations: t.invitations.filter((i) => i.id !== invitation.id) } : t));
       this.snackBar.open('Invitation revoked', 'OK', { duration: 3000 });
     } catch {
       // Reported by the error snackbar.
