@@ -3,7 +3,7 @@
  * about, answer allowed (with the grant) or refused (with the status and words the API answers).
  * No Express, no Knex: `enforce.ts` turns refusals into typed errors, tests call these directly.
  */
-import { grantOf, isListAction, type Action, type Condition, type Grant, type ListAction, type Role } from './access-table';
+import { grantOf, isListAction, type Action, type Condition, type Grant, type Role } from './access-table';
 
 /** The caller as the policy sees them; null when nobody is signed in. */
 export interface Actor {
@@ -144,12 +144,4 @@ export function decide(actor: Actor | null, action: Action, target: Target): Dec
 /** Whether the caller's role may do the action at all (e.g. "are coach notes shown?"). */
 export function may(actor: Actor | null, action: Action): boolean {
   return decideRole(actor, action).allowed;
-}
-
-/**
- * What a list action shows this caller: its scope and the conditions its items must meet (e.g.
- * `published` for an athlete's stills), or the refusal when the role may not list at all.
- */
-export function listGrant(actor: Actor | null, action: ListAction): Decision {
-  return decideRole(actor, action);
 }
