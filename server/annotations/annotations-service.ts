@@ -22,12 +22,12 @@ export function annotationsService(d: AnnotationsDeps) {
   const { db } = d;
   return {
     async get(user: SessionUser, clipId: number): Promise<ClipAnnotations> {
-      await d.clips.accessibleClip(user, clipId);
+      await d.clips.accessibleClip(user, clipId, 'annotation:read');
       return repo.read(db, clipId);
     },
 
     async put(user: SessionUser, clipId: number, input: AnnotationsInput): Promise<ClipAnnotations> {
-      const clip = await d.clips.accessibleClip(user, clipId);
+      const clip = await d.clips.accessibleClip(user, clipId, 'annotation:write');
       if (clip.status !== 'ready' || !clip.frame_count) {
         throw new ConflictError('This clip is not ready yet: wait until its frames are extracted.', 'clip_not_ready');
       }

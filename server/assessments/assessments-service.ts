@@ -1,9 +1,9 @@
 import type { Assessment, AssessmentDetail, SessionUser } from '../../src/contracts/api';
 import { toMetresPerSecond } from '../../src/contracts/assessment';
 import type { Db } from '../db/knex';
-import { isStaff } from '../http/access';
 import { audit } from '../audit/audit-log';
-import { accessibleAthlete } from '../athletes/athlete-access';
+import { accessibleAthlete } from '../policy/athlete-resources';
+import { may } from '../policy/enforce';
 import type { ClipsService } from '../clips/clips-service';
 import type { MediaStore } from '../storage/media-store';
 import { clipsRepository } from '../clips/clips-repository';
@@ -15,7 +15,7 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
   const now = () => new Date().toISOString();
 
   async function toApi(user: SessionUser, row: AssessmentRow): Promise<Assessment> {
-    return repo.toApi(row, await repo.clipCount(db, row.id), isStaff(user));
+    return repo.toApi(row, await repo.clipCount(db, row.id), may(user, 'assessment:read-notes'));
   }
 
   function speedColumns(speed: AssessmentInput['speed'] | undefined): Partial<AssessmentRow> {
@@ -26,13 +26,13 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
 
   return {
     async list(user: SessionUser, athleteId: number): Promise<Assessment[]> {
-      await accessibleAthlete(db, user, athleteId);
+      await accessibleAthlete(db, user, athleteId, 'assessment:list');
       const rows = await repo.listForAthlete(db, athleteId);
-      return rows.map((r) => repo.toApi(r, Number(r.clip_count), isStaff(user)));
+      return rows.map((r) => repo.toApi(r, Number(r.clip_count), may(user, 'assessment:read-notes')));
     },
 
     async create(user: SessionUser, athleteId: number, input: AssessmentInput): Promise<Assessment> {
-      await accessibleAthlete(db, user, athleteId);
+      await accessibleAthlete(db, user, athleteId, 'assessment:create');
       const at = now();
       const id = await db.transaction(async (trx) => {
         const newId = await repo.insert(trx, {
@@ -63,7 +63,7 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
     },
 
     async get(user: SessionUser, id: number): Promise<AssessmentDetail> {
-      const row = await clips.accessibleAssessment(user, id);
+      const row = await clips.accessibleAssessment(user, id, 'assessment:read');
       const consent = await db('consents')
         .where({ athlete_id: row.athlete_id, kind: 'video_recording' })
         .orderBy('id', 'desc')
@@ -76,7 +76,7 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
     },
 
     async update(user: SessionUser, id: number, patch: AssessmentPatch): Promise<Assessment> {
-      const row = await clips.accessibleAssessment(user, id);
+      const row = await clips.accessibleAssessment(user, id, 'assessment:update');
       const changes: Partial<AssessmentRow> = { updated_at: now(), ...speedColumns(patch.speed) };
       if (patch.date !== undefined) changes.date = patch.date;
       if (patch.kind !== undefined) changes.kind = patch.kind;
@@ -99,7 +99,7 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
     },
 
     async remove(user: SessionUser, id: number): Promise<void> {
-      const row = await clips.accessibleAssessment(user, id);
+      const row = await clips.accessibleAssessment(user, id, 'assessment:delete');
       const clipIds = await clipsRepository.idsForAssessment(db, id);
       await clips.removeClips(clipIds.map((clipId) => ({ id: clipId, assessment_id: id })));
       await db('assessments').where({ id }).delete();

@@ -48,9 +48,6 @@ export type AthleteCreateInput = z.output<typeof AthleteCreateBody>;
 export const AthleteUpdateBody = AthleteCreateBody.partial();
 export type AthleteUpdateInput = z.output<typeof AthleteUpdateBody>;
 
-/** Fields an athlete may change on their own record through PATCH. */
-export const ATHLETE_SELF_FIELDS = ['firstName', 'lastName'] as const;
-
 const Month = z
   .string()
   .regex(/^\d{4}-(0[1-9]|1[0-2])$/, 'Use the month format YYYY-MM.')

@@ -2,13 +2,14 @@ import type { AthleteDetail, AthleteSummary, PendingInvitation, SessionUser } fr
 import { toKilometres } from '../../src/contracts/intake';
 import type { Db } from '../db/knex';
 import type { AthleteRow } from '../db/rows';
-import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
-import { isStaff } from '../http/access';
+import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import { audit } from '../audit/audit-log';
 import type { InvitationsService } from '../auth/invitations-service';
-import { accessibleAthlete } from './athlete-access';
+import type { Action } from '../policy/access-table';
+import { accessibleAthlete } from '../policy/athlete-resources';
+import { assertState, may } from '../policy/enforce';
 import { athletesRepository as repo } from './athletes-repository';
-import { ATHLETE_SELF_FIELDS, type AthleteCreateInput, type AthleteUpdateInput, type IntakeInput } from './athletes-schemas';
+import { type AthleteCreateInput, type AthleteUpdateInput, type IntakeInput } from './athletes-schemas';
 
 export interface AthletesDeps {
   db: Db;
@@ -20,10 +21,10 @@ export interface AthletesDeps {
 export function athletesService({ db, clock, invitations }: AthletesDeps) {
   const now = () => clock().toISOString();
 
-  const accessible = (user: SessionUser, id: number): Promise<AthleteRow> => accessibleAthlete(db, user, id);
+  const accessible = (user: SessionUser, id: number, action: Action): Promise<AthleteRow> => accessibleAthlete(db, user, id, action);
 
   async function detailFor(user: SessionUser, id: number): Promise<AthleteDetail> {
-    const detail = await repo.detail(db, user.clinicId, id, now(), isStaff(user));
+    const detail = await repo.detail(db, user.clinicId, id, now(), may(user, 'athlete:read-notes'));
     if (!detail) throw new NotFoundError('Athlete');
     return detail;
   }
@@ -51,7 +52,7 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
     },
 
     async get(user: SessionUser, id: number): Promise<AthleteDetail> {
-      await accessible(user, id);
+      await accessible(user, id, 'athlete:read');
       return detailFor(user, id);
     },
 
@@ -86,11 +87,9 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
     },
 
     async update(user: SessionUser, id: number, input: AthleteUpdateInput): Promise<AthleteDetail> {
-      const row = await accessible(user, id);
-      if (!isStaff(user)) {
-        const extra = Object.keys(input).filter((k) => !(ATHLETE_SELF_FIELDS as readonly string[]).includes(k));
-        if (extra.length) throw new ForbiddenError(`You can change only your name here (not ${extra.join(', ')}).`);
-      }
+      const row = await accessible(user, id, 'athlete:update');
+      // An athlete changes only their name (`name-fields-only`); 403 names the other fields.
+      assertState(user, 'athlete:update', { fields: Object.keys(input) }, 'Athlete');
       if (input.email !== undefined && row.user_id !== null && input.email !== row.email) {
         throw new ConflictError('This athlete signs in with their e-mail address; it cannot be changed here.', 'email_locked');
       }
@@ -118,7 +117,7 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
 
     /** Replaces the whole intake (profile figures, injuries, current pain, consents) at once. */
     async putIntake(user: SessionUser, id: number, input: IntakeInput): Promise<AthleteDetail> {
-      await accessible(user, id);
+      await accessible(user, id, 'athlete:update-intake');
       const at = now();
       await db.transaction(async (trx) => {
         await repo.update(trx, user.clinicId, id, {
@@ -155,7 +154,7 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
     },
 
     async invite(user: SessionUser, id: number): Promise<PendingInvitation> {
-      const row = await accessible(user, id);
+      const row = await accessible(user, id, 'athlete:invite');
       if (row.user_id !== null) throw new ConflictError('This athlete already has an account.', 'athlete_has_account');
       if (!row.email) {
         throw new ValidationError('Add an e-mail address to the athlete before inviting them.', [

@@ -65,11 +65,13 @@ export interface InvoiceLineRow {
   total_minor: number;
 }
 
-/** Who may see which invoices: the clinic's owner all, an athlete (user) only their own issued ones. */
+/** Which invoices a query reads (from the policy's `invoice:list` grant): a clinic's, or one athlete user's. */
 export interface InvoiceScope {
   clinicId: number;
-  /** Set for an athlete: only invoices of the athlete record linked to this user, never drafts. */
+  /** Only invoices of the athlete record linked to this user. */
   athleteUserId?: number;
+  /** Leave drafts out. */
+  withoutDrafts?: boolean;
 }
 
 export const toSummary = (r: InvoiceRow): InvoiceSummary => ({
@@ -137,7 +139,8 @@ function joined(db: Knex) {
 
 function base(db: Knex, scope: InvoiceScope) {
   const q = joined(db).where('i.clinic_id', scope.clinicId).select(COLUMNS);
-  if (scope.athleteUserId !== undefined) q.andWhere('a.user_id', scope.athleteUserId).andWhereNot('i.status', 'draft');
+  if (scope.athleteUserId !== undefined) q.andWhere('a.user_id', scope.athleteUserId);
+  if (scope.withoutDrafts) q.andWhereNot('i.status', 'draft');
   return q;
 }
 
@@ -158,8 +161,9 @@ export const invoicesRepository = {
   findById(db: Knex, id: number): Promise<InvoiceRow | undefined> {
     return joined(db).where('i.id', id).first(COLUMNS);
   },
-  findByPaymentIntent(db: Knex, paymentIntentId: string): Promise<{ id: number } | undefined> {
-    return db('invoices').where({ payment_intent_id: paymentIntentId }).first('id');
+  /** The invoice paid by card with this provider payment id. */
+  findByPayment(db: Knex, paymentId: string): Promise<{ id: number } | undefined> {
+    return db('invoices').where({ payment_intent_id: paymentId }).first('id');
   },
   lines(db: Knex, invoiceId: number): Promise<InvoiceLineRow[]> {
     return db<InvoiceLineRow>('invoice_lines').where({ invoice_id: invoiceId }).orderBy('position');

@@ -2,7 +2,7 @@ import type { Knex } from 'knex';
 import type { SessionUser } from '../../src/contracts/api';
 import type { ClinicLegalDetails } from '../../src/contracts/billing';
 import { audit } from '../audit/audit-log';
-import { ForbiddenError } from '../errors';
+import { assertRole } from '../policy/enforce';
 import { clinicRepository } from './clinic-repository';
 
 /** The clinic's own settings an owner keeps: the legal details invoices and receipts carry. */
@@ -12,16 +12,13 @@ export interface ClinicService {
 }
 
 export function clinicService({ db, clock }: { db: Knex; clock: () => Date }): ClinicService {
-  function requireOwner(user: SessionUser): void {
-    if (user.role !== 'owner') throw new ForbiddenError('Only the clinic owner keeps the clinic’s legal details.');
-  }
   return {
     async legalDetails(user) {
-      requireOwner(user);
+      assertRole(user, 'clinic-legal:read');
       return clinicRepository.legalDetails(db, user.clinicId);
     },
     async putLegalDetails(user, details) {
-      requireOwner(user);
+      assertRole(user, 'clinic-legal:update');
       await db.transaction(async (trx) => {
         await clinicRepository.putLegalDetails(trx, user.clinicId, details);
         await audit(trx, { clinicId: user.clinicId, actorId: user.id, action: 'clinic.legal_details_updated' }, clock().toISOString());

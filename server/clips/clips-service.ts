@@ -3,12 +3,12 @@ import path from 'node:path';
 import type { Logger } from 'pino';
 import type { Clip, SessionUser } from '../../src/contracts/api';
 import type { Db } from '../db/knex';
-import { AppError, ConflictError, ForbiddenError, NotFoundError } from '../errors';
-import { isStaff } from '../http/access';
+import { AppError, ConflictError, NotFoundError } from '../errors';
 import { audit } from '../audit/audit-log';
 import { cleanFileName } from '../http/file-names';
-import { assertMayChangeClipSettings } from '../policy/clip-settings';
-import { accessibleAthlete } from '../athletes/athlete-access';
+import type { Action } from '../policy/access-table';
+import { assertAthleteResource } from '../policy/athlete-resources';
+import { assertRole, assertState } from '../policy/enforce';
 import { assessmentsRepository } from '../assessments/assessments-repository';
 import type { MediaStore } from '../storage/media-store';
 import type { Job, JobQueue, SubjectFailure } from '../jobs/job-queue';
@@ -53,22 +53,21 @@ export function clipsService(d: ClipsDeps) {
     if (row) d.events.emit(row.assessment_id, clipId);
   }
 
-  /** The assessment this user may see (and upload to); 404 otherwise. */
-  async function accessibleAssessment(user: SessionUser, assessmentId: number) {
+  /** The assessment this user may reach for `action` (see `server/policy/access-table.ts`); 404 otherwise. */
+  async function accessibleAssessment(user: SessionUser, assessmentId: number, action: Action = 'assessment:read') {
+    assertRole(user, action);
     const row = await assessmentsRepository.find(db, user.clinicId, assessmentId);
     if (!row) throw new NotFoundError('Assessment');
-    await accessibleAthlete(db, user, row.athlete_id).catch(() => {
-      throw new NotFoundError('Assessment');
-    });
+    await assertAthleteResource(db, user, action, row, 'Assessment');
     return row;
   }
 
-  async function accessibleClip(user: SessionUser, clipId: number): Promise<ClipRow> {
+  /** The clip this user may reach for `action`; 404 otherwise (its state is checked where it is known). */
+  async function accessibleClip(user: SessionUser, clipId: number, action: Action = 'clip:read'): Promise<ClipRow> {
+    assertRole(user, action);
     const row = await repo.find(db, user.clinicId, clipId);
     if (!row) throw new NotFoundError('Clip');
-    await accessibleAthlete(db, user, row.athlete_id).catch(() => {
-      throw new NotFoundError('Clip');
-    });
+    await assertAthleteResource(db, user, action, row, 'Clip');
     return row;
   }
 
@@ -108,7 +107,7 @@ export function clipsService(d: ClipsDeps) {
 
     /** Checks run before the upload body is read: access and consent. */
     async beforeUpload(user: SessionUser, assessmentId: number) {
-      const assessment = await accessibleAssessment(user, assessmentId);
+      const assessment = await accessibleAssessment(user, assessmentId, 'clip:upload');
       await requireVideoConsent(assessment.athlete_id);
       return assessment;
     },
@@ -120,7 +119,7 @@ export function clipsService(d: ClipsDeps) {
      */
     async acceptUpload(user: SessionUser, assessmentId: number, file: UploadedFile): Promise<Clip> {
       try {
-        const assessment = await accessibleAssessment(user, assessmentId);
+        const assessment = await accessibleAssessment(user, assessmentId, 'clip:upload');
         await requireVideoConsent(assessment.athlete_id);
         if (file.size === 0) throw new MediaError('empty_file', 'The uploaded file is empty.', 'size 0');
         const head = Buffer.alloc(Math.min(file.size, SNIFF_BYTES));
@@ -193,7 +192,7 @@ export function clipsService(d: ClipsDeps) {
     },
 
     list: async (user: SessionUser, assessmentId: number) => {
-      await accessibleAssessment(user, assessmentId);
+      await accessibleAssessment(user, assessmentId, 'clip:read');
       return repo.listForAssessment(db, assessmentId);
     },
 
@@ -203,12 +202,12 @@ export function clipsService(d: ClipsDeps) {
     },
 
     /**
-     * Changes near side, running direction or capture rate, as {@link assertMayChangeClipSettings}
-     * allows; each change is audited with its old and new value, and a marked clip's measures
+     * Changes near side, running direction or capture rate, as the policy's `clip:update-settings`
+     * allows (an athlete only while the clip is not marked); each change is audited with its old and new value, and a marked clip's measures
      * snapshot is dropped (recomputed with the new settings on the next read).
      */
     async update(user: SessionUser, clipId: number, patch: ClipPatch): Promise<Clip> {
-      const current = await accessibleClip(user, clipId);
+      const current = await accessibleClip(user, clipId, 'clip:update-settings');
       const fields = [
         ['nearSide', 'near_side'],
         ['direction', 'direction'],
@@ -225,7 +224,7 @@ export function clipsService(d: ClipsDeps) {
       if (Object.keys(changes).length === 0) return view(clipId);
       await db.transaction(async (trx) => {
         // Checked inside the write, so marks saved meanwhile are seen.
-        assertMayChangeClipSettings(user, await repo.isMarked(trx, clipId));
+        assertState(user, 'clip:update-settings', { marked: await repo.isMarked(trx, clipId) }, 'Clip');
         await repo.update(trx, clipId, row);
         await trx('measure_snapshots').where({ clip_id: clipId }).delete();
         await audit(trx, {
@@ -241,8 +240,8 @@ export function clipsService(d: ClipsDeps) {
     },
 
     async remove(user: SessionUser, clipId: number): Promise<void> {
-      const row = await accessibleClip(user, clipId);
-      if (!isStaff(user) && row.uploaded_by !== user.id) throw new ForbiddenError('You can delete only clips you uploaded.');
+      const row = await accessibleClip(user, clipId, 'clip:delete');
+      assertState(user, 'clip:delete', { uploadedBy: row.uploaded_by }, 'Clip');
       await removeClips([row]);
       await audit(db, { clinicId: user.clinicId, actorId: user.id, athleteId: row.athlete_id, action: 'clip.deleted', detail: { clipId } });
     },
@@ -250,7 +249,7 @@ export function clipsService(d: ClipsDeps) {
     removeClips,
 
     async retry(user: SessionUser, clipId: number): Promise<Clip> {
-      const row = await accessibleClip(user, clipId);
+      const row = await accessibleClip(user, clipId, 'clip:retry');
       if (row.status !== 'failed') throw new ConflictError('Only a clip whose processing failed can be retried.', 'not_failed');
       await db.transaction(async (trx) => {
         await repo.update(trx, clipId, { status: 'queued', error: null, progress_done: null });
@@ -268,7 +267,7 @@ export function clipsService(d: ClipsDeps) {
       kind: 'frame' | 'thumb' | 'poster' | 'manifest' | 'original',
       n = 0,
     ): Promise<{ file: string; row: ClipRow }> {
-      const row = await accessibleClip(user, clipId);
+      const row = await accessibleClip(user, clipId, 'clip:read-media');
       const dir = store.clipDir(clipId);
       let file: string;
       if (kind === 'original') file = path.join(dir, row.stored_name);

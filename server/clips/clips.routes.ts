@@ -6,7 +6,8 @@ import multer from 'multer';
 import type { SessionUser } from '../../src/contracts/api';
 import type { Db } from '../db/knex';
 import { AppError, NotFoundError, ValidationError } from '../errors';
-import { currentUser, requireSignedIn } from '../http/access';
+import { currentUser } from '../http/access';
+import { permit } from '../policy/enforce';
 import { idParam, parse } from '../http/validate';
 import { audit } from '../audit/audit-log';
 import type { Logger } from 'pino';
@@ -117,7 +118,7 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
 
   router.post(
     '/assessments/:id/clips',
-    requireSignedIn,
+    permit('clip:upload'),
     async (req, res, next) => {
       try {
         await d.clips.beforeUpload(currentUser(req), idParam(req.params, 'Assessment'));
@@ -138,7 +139,7 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
     },
   );
 
-  router.get('/assessments/:id/clip-events', requireSignedIn, async (req, res) => {
+  router.get('/assessments/:id/clip-events', permit('clip:read'), async (req, res) => {
     const assessmentId = idParam(req.params, 'Assessment');
     const user = currentUser(req);
     const initial = await d.clips.list(user, assessmentId);
@@ -167,22 +168,22 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
     });
   });
 
-  router.get('/clips/:id', requireSignedIn, async (req, res) => {
+  router.get('/clips/:id', permit('clip:read'), async (req, res) => {
     res.json(await d.clips.get(currentUser(req), idParam(req.params, 'Clip')));
   });
 
-  router.patch('/clips/:id', requireSignedIn, async (req, res) => {
+  router.patch('/clips/:id', permit('clip:update-settings'), async (req, res) => {
     const clipId = idParam(req.params, 'Clip');
     const body = parse(ClipPatchBody, req.body);
     res.json(await d.clips.update(currentUser(req), clipId, body));
   });
 
-  router.delete('/clips/:id', requireSignedIn, async (req, res) => {
+  router.delete('/clips/:id', permit('clip:delete'), async (req, res) => {
     await d.clips.remove(currentUser(req), idParam(req.params, 'Clip'));
     res.status(204).end();
   });
 
-  router.post('/clips/:id/retry', requireSignedIn, async (req, res) => {
+  router.post('/clips/:id/retry', permit('clip:retry'), async (req, res) => {
     res.status(202).json(await d.clips.retry(currentUser(req), idParam(req.params, 'Clip')));
   });
 
@@ -210,11 +211,11 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
       });
     };
 
-  router.get('/clips/:id/poster', requireSignedIn, sendMedia('poster'));
-  router.get('/clips/:id/thumbs/:n', requireSignedIn, sendMedia('thumb'));
-  router.get('/clips/:id/frames/:n', requireSignedIn, sendMedia('frame'));
-  router.get('/clips/:id/manifest', requireSignedIn, sendMedia('manifest'));
-  router.get('/clips/:id/original', requireSignedIn, sendMedia('original'));
+  router.get('/clips/:id/poster', permit('clip:read-media'), sendMedia('poster'));
+  router.get('/clips/:id/thumbs/:n', permit('clip:read-media'), sendMedia('thumb'));
+  router.get('/clips/:id/frames/:n', permit('clip:read-media'), sendMedia('frame'));
+  router.get('/clips/:id/manifest', permit('clip:read-media'), sendMedia('manifest'));
+  router.get('/clips/:id/original', permit('clip:read-media'), sendMedia('original'));
 
   return router;
 }

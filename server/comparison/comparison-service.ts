@@ -4,7 +4,7 @@ import type { AssessmentComparison, ComparisonClip, MeasureKey, MeasureTrends } 
 import { compareMeasures, visitMeans } from '../../src/kinematics';
 import type { Db } from '../db/knex';
 import { AppError, NotFoundError } from '../errors';
-import { accessibleAthlete } from '../athletes/athlete-access';
+import { accessibleAthlete } from '../policy/athlete-resources';
 import { assessmentsRepository as repo, type AssessmentRow } from '../assessments/assessments-repository';
 import type { MeasuresService } from '../measures/measures-service';
 
@@ -51,7 +51,7 @@ export function comparisonService({ db, measures }: { db: Db; measures: Measures
 
   return {
     async compare(user: SessionUser, athleteId: number, q: { baseline?: number; retest?: number }): Promise<AssessmentComparison> {
-      await accessibleAthlete(db, user, athleteId);
+      await accessibleAthlete(db, user, athleteId, 'comparison:read');
       const rows = await repo.listForAthlete(db, athleteId);
       const baseline = await pick(user, athleteId, q.baseline, 'baseline', rows);
       const retest = await pick(user, athleteId, q.retest, 'retest', rows);
@@ -68,7 +68,7 @@ export function comparisonService({ db, measures }: { db: Db; measures: Measures
     },
 
     async trends(user: SessionUser, athleteId: number, keys: MeasureKey[]): Promise<MeasureTrends> {
-      await accessibleAthlete(db, user, athleteId);
+      await accessibleAthlete(db, user, athleteId, 'comparison:read');
       const rows = [...(await repo.listForAthlete(db, athleteId))].reverse();
       const wanted = new Set<MeasureKey>(keys);
       const points: MeasureTrends['points'] = [];

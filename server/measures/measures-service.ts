@@ -92,13 +92,13 @@ export function measuresService({ db, store, clips }: { db: Db; store: MediaStor
     },
 
     async forClip(user: SessionUser, clipId: number): Promise<ClipMeasures> {
-      const clip = await clips.accessibleClip(user, clipId);
+      const clip = await clips.accessibleClip(user, clipId, 'measure:read');
       if (clip.status !== 'ready') throw new ConflictError('This clip is not ready yet.', 'clip_not_ready');
       return forClipRow(clip);
     },
 
     async forAssessment(user: SessionUser, assessmentId: number): Promise<ClipMeasures[]> {
-      await clips.accessibleAssessment(user, assessmentId);
+      await clips.accessibleAssessment(user, assessmentId, 'measure:read');
       return ofAssessment(assessmentId);
     },
 

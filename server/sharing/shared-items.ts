@@ -3,9 +3,10 @@ import type { Logger } from 'pino';
 import type { SessionUser } from '../../src/contracts/api';
 import type { RenderStatus } from '../../src/contracts/sharing';
 import { NotFoundError } from '../errors';
-import { isStaff } from '../http/access';
 import { audit } from '../audit/audit-log';
-import { accessibleAthlete } from '../athletes/athlete-access';
+import type { Action } from '../policy/access-table';
+import { assertAthleteResource } from '../policy/athlete-resources';
+import { assertRole } from '../policy/enforce';
 import type { Mailer } from '../mail/mailer';
 import { sendShareNotice, type SharedKind } from '../mail/share-notice';
 
@@ -25,23 +26,24 @@ const KINDS: Record<SharedKind, { table: string; what: string; idKey: string }> 
 };
 
 /**
- * The row of a still or summary this user may see: staff any of their clinic's; an athlete only
- * their own that are published and ready (and pass `visibleToAthlete`). Anything else is 404.
+ * The row of a still or summary this user may reach for `action`: staff any of their clinic's; an
+ * athlete (`still:read`, `summary:read`) only their own that are published and ready (and pass
+ * `visibleToAthlete`): the policy's `published` condition. Anything else is 404.
  */
 export async function accessibleShared<R extends SharedRow>(
   db: Knex,
   kind: SharedKind,
   user: SessionUser,
   id: number,
+  action: Action,
   visibleToAthlete: (row: R) => boolean = () => true,
 ): Promise<R> {
   const { table, what } = KINDS[kind];
+  assertRole(user, action);
   const row = (await db(table).where({ id, clinic_id: user.clinicId }).first()) as R | undefined;
   if (!row) throw new NotFoundError(what);
-  await accessibleAthlete(db, user, row.athlete_id).catch(() => {
-    throw new NotFoundError(what);
-  });
-  if (!isStaff(user) && (!row.published_at || row.status !== 'ready' || !visibleToAthlete(row))) throw new NotFoundError(what);
+  const published = !!row.published_at && row.status === 'ready' && visibleToAthlete(row);
+  await assertAthleteResource(db, user, action, row, what, { published });
   return row;
 }
 

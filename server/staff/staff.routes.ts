@@ -1,6 +1,7 @@
 import { Router } from 'express';
 import type { Db } from '../db/knex';
-import { currentUser, requireRole } from '../http/access';
+import { currentUser } from '../http/access';
+import { permit } from '../policy/enforce';
 import { idParam, parse } from '../http/validate';
 import { InviteCoachBody } from '../auth/auth-schemas';
 import type { InvitationsService } from '../auth/invitations-service';
@@ -12,7 +13,7 @@ import type { StaffService } from './staff-service';
 export function staffRoutes(d: { db: Db; invitations: InvitationsService; staff: StaffService }): Router {
   const router = Router();
 
-  router.get('/staff', requireRole('owner'), async (req, res) => {
+  router.get('/staff', permit('staff:list'), async (req, res) => {
     const user = currentUser(req);
     const [staff, invitations] = await Promise.all([
       usersRepository.listStaff(d.db, user.clinicId),
@@ -21,7 +22,7 @@ export function staffRoutes(d: { db: Db; invitations: InvitationsService; staff:
     res.json({ staff, invitations: invitations.filter((i) => i.role !== 'athlete') });
   });
 
-  router.post('/staff/invitations', requireRole('owner'), async (req, res) => {
+  router.post('/staff/invitations', permit('staff:invite'), async (req, res) => {
     const user = currentUser(req);
     const body = parse(InviteCoachBody, req.body);
     const invitation = await d.invitations.invite({
@@ -35,25 +36,25 @@ export function staffRoutes(d: { db: Db; invitations: InvitationsService; staff:
     res.status(201).json(invitation);
   });
 
-  router.delete('/staff/invitations/:id', requireRole('owner'), async (req, res) => {
+  router.delete('/staff/invitations/:id', permit('staff:revoke-invitation'), async (req, res) => {
     const user = currentUser(req);
     const id = idParam(req.params, 'Invitation');
     await d.invitations.revoke(user.clinicId, id, user.id);
     res.status(204).end();
   });
 
-  router.post('/staff/:id/deactivate', requireRole('owner'), async (req, res) => {
+  router.post('/staff/:id/deactivate', permit('staff:deactivate'), async (req, res) => {
     const id = idParam(req.params, 'Staff member');
     const body = parse(DeactivateBody, req.body ?? {});
     res.json(await d.staff.deactivate(currentUser(req), id, body.reassignTo));
   });
 
-  router.post('/staff/:id/reactivate', requireRole('owner'), async (req, res) => {
+  router.post('/staff/:id/reactivate', permit('staff:reactivate'), async (req, res) => {
     const id = idParam(req.params, 'Staff member');
     res.json(await d.staff.reactivate(currentUser(req), id));
   });
 
-  router.get('/coaches', requireRole('owner', 'coach'), async (req, res) => {
+  router.get('/coaches', permit('coach:list'), async (req, res) => {
     res.json({ coaches: await usersRepository.listCoaches(d.db, currentUser(req).clinicId) });
   });
 

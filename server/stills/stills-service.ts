@@ -7,9 +7,10 @@ import { GAIT_EVENT_LABELS, type ClipAnnotations } from '../../src/contracts/ann
 import type { Still, StillCreate } from '../../src/contracts/sharing';
 import type { Db } from '../db/knex';
 import { AppError, ConflictError, NotFoundError, ValidationError } from '../errors';
-import { isStaff } from '../http/access';
 import { audit } from '../audit/audit-log';
-import { accessibleAthlete } from '../athletes/athlete-access';
+import type { Action } from '../policy/access-table';
+import { accessibleAthlete } from '../policy/athlete-resources';
+import { listGrant, throughSelfGrant } from '../policy/enforce';
 import type { JobQueue, Job, SubjectFailure } from '../jobs/job-queue';
 import { PermanentJobError, type JobHandler } from '../jobs/worker';
 import type { MediaStore } from '../storage/media-store';
@@ -83,10 +84,9 @@ export function stillsService(d: StillsDeps) {
   const { db } = d;
   const now = () => d.clock().toISOString();
 
-  /** A still this user may see: staff any of their clinic's; an athlete only their published ones. */
-  /** A still this user may see: staff any of their clinic's; an athlete only their published ones. */
-  const accessibleStill = (user: SessionUser, id: number) =>
-    accessibleShared<StillRow>(db, 'still', user, id, (row) => row.clip_id !== null);
+  /** A still this user may reach for `action`: staff any of their clinic's; an athlete only their published ones. */
+  const accessibleStill = (user: SessionUser, id: number, action: Action = 'still:read') =>
+    accessibleShared<StillRow>(db, 'still', user, id, action, (row) => row.clip_id !== null);
 
   async function view(id: number): Promise<Still> {
     const [still] = await repo.view(db, { id }, { publishedOnly: false });
@@ -141,7 +141,7 @@ export function stillsService(d: StillsDeps) {
     accessibleStill,
 
     async create(user: SessionUser, clipId: number, body: StillCreate): Promise<Still> {
-      const clip = await d.clips.accessibleClip(user, clipId);
+      const clip = await d.clips.accessibleClip(user, clipId, 'still:create');
       const main = await panelOf(clip, body.frameIndex, 'frameIndex');
       const panels = [main];
       if (body.pairWith) {
@@ -149,7 +149,7 @@ export function stillsService(d: StillsDeps) {
           throw new ValidationError('Pair this frame with a clip of another assessment.', [
             { path: ['pairWith', 'clipId'], message: 'Choose the other visit’s clip.' },
           ]);
-        const other = await d.clips.accessibleClip(user, body.pairWith.clipId).catch(() => {
+        const other = await d.clips.accessibleClip(user, body.pairWith.clipId, 'still:create').catch(() => {
           throw new ValidationError('The clip to pair with was not found.', [{ path: ['pairWith', 'clipId'], message: 'Clip not found.' }]);
         });
         if (other.athlete_id !== clip.athlete_id)
@@ -197,8 +197,9 @@ export function stillsService(d: StillsDeps) {
     },
 
     async list(user: SessionUser, athleteId: number): Promise<Still[]> {
-      await accessibleAthlete(db, user, athleteId);
-      return repo.view(db, { athlete_id: athleteId, clinic_id: user.clinicId }, { publishedOnly: !isStaff(user) });
+      await accessibleAthlete(db, user, athleteId, 'still:list');
+      const publishedOnly = listGrant(user, 'still:list').when.includes('published');
+      return repo.view(db, { athlete_id: athleteId, clinic_id: user.clinicId }, { publishedOnly });
     },
 
     async get(user: SessionUser, id: number): Promise<Still> {
@@ -207,7 +208,7 @@ export function stillsService(d: StillsDeps) {
     },
 
     async updateCaption(user: SessionUser, id: number, caption: string): Promise<Still> {
-      const row = await accessibleStill(user, id);
+      const row = await accessibleStill(user, id, 'still:update');
       if (row.clip_id === null) throw new ConflictError(STILL_CLIP_DELETED, 'clip_deleted');
       const text = caption.trim();
       if (text === row.caption) return view(id);
@@ -217,7 +218,7 @@ export function stillsService(d: StillsDeps) {
     },
 
     async setPublished(user: SessionUser, id: number, publish: boolean): Promise<Still> {
-      const row = await accessibleStill(user, id);
+      const row = await accessibleStill(user, id, 'still:publish');
       if (publish && row.clip_id === null) throw new ConflictError(STILL_CLIP_DELETED, 'clip_deleted');
       if (publish && row.status !== 'ready')
         throw new ConflictError(
@@ -231,7 +232,7 @@ export function stillsService(d: StillsDeps) {
     },
 
     async remove(user: SessionUser, id: number): Promise<void> {
-      const row = await accessibleStill(user, id);
+      const row = await accessibleStill(user, id, 'still:delete');
       await d.queue.cancelSubject(subjectOf(id));
       await db('stills').where({ id }).delete();
       await removeFiles(row, row.render_version);
@@ -251,7 +252,7 @@ export function stillsService(d: StillsDeps) {
       const files = stillFiles(id, row.render_version);
       const file = path.join(d.store.clipDir(row.clip_id), STILLS_DIR, format === 'png' ? files.png : files.jpeg);
       if (!fs.existsSync(file)) throw new NotFoundError('Still image');
-      if (!isStaff(user))
+      if (throughSelfGrant(user, 'still:read'))
         await audit(db, {
           clinicId: user.clinicId,
           actorId: user.id,

@@ -1,5 +1,6 @@
 import { Router, type NextFunction, type Response } from 'express';
-import { currentUser, requireRole, requireSignedIn } from '../http/access';
+import { currentUser } from '../http/access';
+import { permit } from '../policy/enforce';
 import { idParam, parse } from '../http/validate';
 import { NotFoundError } from '../errors';
 import type { StillsService } from './stills-service';
@@ -18,46 +19,46 @@ export function sendPrivateFile(res: Response, next: NextFunction, file: string,
 export function stillsRoutes(stills: StillsService): Router {
   const router = Router();
 
-  router.post('/clips/:id/stills', requireRole('owner', 'coach'), async (req, res) => {
+  router.post('/clips/:id/stills', permit('still:create'), async (req, res) => {
     const user = currentUser(req);
     const clipId = idParam(req.params, 'Clip');
     const body = parse(StillCreateBody, req.body);
     res.status(202).json(await stills.create(user, clipId, body));
   });
 
-  router.get('/athletes/:id/stills', requireSignedIn, async (req, res) => {
+  router.get('/athletes/:id/stills', permit('still:list'), async (req, res) => {
     res.json(await stills.list(currentUser(req), idParam(req.params, 'Athlete')));
   });
 
-  router.get('/stills/:id', requireSignedIn, async (req, res) => {
+  router.get('/stills/:id', permit('still:read'), async (req, res) => {
     res.json(await stills.get(currentUser(req), idParam(req.params, 'Still')));
   });
 
-  router.patch('/stills/:id', requireRole('owner', 'coach'), async (req, res) => {
+  router.patch('/stills/:id', permit('still:update'), async (req, res) => {
     const id = idParam(req.params, 'Still');
     const body = parse(StillUpdateBody, req.body);
     res.json(await stills.updateCaption(currentUser(req), id, body.caption));
   });
 
-  router.post('/stills/:id/publish', requireRole('owner', 'coach'), async (req, res) => {
+  router.post('/stills/:id/publish', permit('still:publish'), async (req, res) => {
     res.json(await stills.setPublished(currentUser(req), idParam(req.params, 'Still'), true));
   });
 
-  router.post('/stills/:id/unpublish', requireRole('owner', 'coach'), async (req, res) => {
+  router.post('/stills/:id/unpublish', permit('still:publish'), async (req, res) => {
     res.json(await stills.setPublished(currentUser(req), idParam(req.params, 'Still'), false));
   });
 
-  router.delete('/stills/:id', requireRole('owner', 'coach'), async (req, res) => {
+  router.delete('/stills/:id', permit('still:delete'), async (req, res) => {
     await stills.remove(currentUser(req), idParam(req.params, 'Still'));
     res.status(204).end();
   });
 
-  router.get('/stills/:id/image.png', requireSignedIn, async (req, res, next) => {
+  router.get('/stills/:id/image.png', permit('still:read'), async (req, res, next) => {
     const file = await stills.imagePath(currentUser(req), idParam(req.params, 'Still'), 'png');
     sendPrivateFile(res, next, file, 'image/png');
   });
 
-  router.get('/stills/:id/image.jpg', requireSignedIn, async (req, res, next) => {
+  router.get('/stills/:id/image.jpg', permit('still:read'), async (req, res, next) => {
     const file = await stills.imagePath(currentUser(req), idParam(req.params, 'Still'), 'jpeg');
     sendPrivateFile(res, next, file, 'image/jpeg');
   });

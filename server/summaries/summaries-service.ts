@@ -13,9 +13,10 @@ import type { VisitSummary, VisitSummaryCreate } from '../../src/contracts/shari
 import { compareMeasures } from '../../src/kinematics';
 import type { Db } from '../db/knex';
 import { AppError, ConflictError, NotFoundError } from '../errors';
-import { isStaff } from '../http/access';
 import { audit } from '../audit/audit-log';
-import { accessibleAthlete } from '../athletes/athlete-access';
+import type { Action } from '../policy/access-table';
+import { accessibleAthlete } from '../policy/athlete-resources';
+import { listGrant, throughSelfGrant } from '../policy/enforce';
 import type { Job, JobQueue, SubjectFailure } from '../jobs/job-queue';
 import { PermanentJobError, type JobHandler } from '../jobs/worker';
 import type { Mailer } from '../mail/mailer';
@@ -68,7 +69,8 @@ export function summariesService(d: SummariesDeps) {
     return path.join(d.store.assessmentDir(assessmentId), SUMMARIES_DIR);
   }
 
-  const accessibleSummary = (user: SessionUser, id: number) => accessibleShared<SummaryRow>(db, 'summary', user, id);
+  const accessibleSummary = (user: SessionUser, id: number, action: Action = 'summary:read') =>
+    accessibleShared<SummaryRow>(db, 'summary', user, id, action);
 
   async function view(id: number): Promise<VisitSummary> {
     const [s] = await repo.view(db, { id }, { publishedOnly: false });
@@ -78,7 +80,7 @@ export function summariesService(d: SummariesDeps) {
 
   return {
     async create(user: SessionUser, assessmentId: number, body: VisitSummaryCreate): Promise<VisitSummary> {
-      const assessment = await d.clips.accessibleAssessment(user, assessmentId);
+      const assessment = await d.clips.accessibleAssessment(user, assessmentId, 'summary:create');
       let baseline: AssessmentRow | null = null;
       if (body.baselineAssessmentId) {
         baseline = (await assessmentsRepository.find(db, user.clinicId, body.baselineAssessmentId)) ?? null;
@@ -144,8 +146,9 @@ export function summariesService(d: SummariesDeps) {
     },
 
     async list(user: SessionUser, athleteId: number): Promise<VisitSummary[]> {
-      await accessibleAthlete(db, user, athleteId);
-      return repo.view(db, { athlete_id: athleteId, clinic_id: user.clinicId }, { publishedOnly: !isStaff(user) });
+      await accessibleAthlete(db, user, athleteId, 'summary:list');
+      const publishedOnly = listGrant(user, 'summary:list').when.includes('published');
+      return repo.view(db, { athlete_id: athleteId, clinic_id: user.clinicId }, { publishedOnly });
     },
 
     async get(user: SessionUser, id: number): Promise<VisitSummary> {
@@ -154,7 +157,7 @@ export function summariesService(d: SummariesDeps) {
     },
 
     async setPublished(user: SessionUser, id: number, publish: boolean): Promise<VisitSummary> {
-      const row = await accessibleSummary(user, id);
+      const row = await accessibleSummary(user, id, 'summary:publish');
       if (publish && row.status !== 'ready')
         throw new ConflictError(
           row.status === 'failed'
@@ -167,7 +170,7 @@ export function summariesService(d: SummariesDeps) {
     },
 
     async remove(user: SessionUser, id: number): Promise<void> {
-      const row = await accessibleSummary(user, id);
+      const row = await accessibleSummary(user, id, 'summary:delete');
       await d.queue.cancelSubject(subjectOf(id));
       await db('visit_summaries').where({ id }).delete();
       await fs.promises.rm(path.join(folder(row.assessment_id), summaryFile(id)), { force: true });
@@ -186,7 +189,7 @@ export function summariesService(d: SummariesDeps) {
       if (row.status !== 'ready') throw new NotFoundError('Visit summary PDF');
       const file = path.join(folder(row.assessment_id), summaryFile(id));
       if (!fs.existsSync(file)) throw new NotFoundError('Visit summary PDF');
-      if (!isStaff(user))
+      if (throughSelfGrant(user, 'summary:read'))
         await audit(db, {
           clinicId: user.clinicId,
           actorId: user.id,

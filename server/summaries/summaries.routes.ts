@@ -1,5 +1,6 @@
 import { Router } from 'express';
-import { currentUser, requireRole, requireSignedIn } from '../http/access';
+import { currentUser } from '../http/access';
+import { permit } from '../policy/enforce';
 import { idParam, parse } from '../http/validate';
 import { sendPrivateFile } from '../stills/stills.routes';
 import type { SummariesService } from './summaries-service';
@@ -10,34 +11,34 @@ import { contentDisposition } from './summary-file-name';
 export function summariesRoutes(summaries: SummariesService): Router {
   const router = Router();
 
-  router.post('/assessments/:id/summaries', requireRole('owner', 'coach'), async (req, res) => {
+  router.post('/assessments/:id/summaries', permit('summary:create'), async (req, res) => {
     const assessmentId = idParam(req.params, 'Assessment');
     const body = parse(SummaryCreateBody, req.body);
     res.status(202).json(await summaries.create(currentUser(req), assessmentId, body));
   });
 
-  router.get('/athletes/:id/summaries', requireSignedIn, async (req, res) => {
+  router.get('/athletes/:id/summaries', permit('summary:list'), async (req, res) => {
     res.json(await summaries.list(currentUser(req), idParam(req.params, 'Athlete')));
   });
 
-  router.get('/summaries/:id', requireSignedIn, async (req, res) => {
+  router.get('/summaries/:id', permit('summary:read'), async (req, res) => {
     res.json(await summaries.get(currentUser(req), idParam(req.params, 'Visit summary')));
   });
 
-  router.post('/summaries/:id/publish', requireRole('owner', 'coach'), async (req, res) => {
+  router.post('/summaries/:id/publish', permit('summary:publish'), async (req, res) => {
     res.json(await summaries.setPublished(currentUser(req), idParam(req.params, 'Visit summary'), true));
   });
 
-  router.post('/summaries/:id/unpublish', requireRole('owner', 'coach'), async (req, res) => {
+  router.post('/summaries/:id/unpublish', permit('summary:publish'), async (req, res) => {
     res.json(await summaries.setPublished(currentUser(req), idParam(req.params, 'Visit summary'), false));
   });
 
-  router.delete('/summaries/:id', requireRole('owner', 'coach'), async (req, res) => {
+  router.delete('/summaries/:id', permit('summary:delete'), async (req, res) => {
     await summaries.remove(currentUser(req), idParam(req.params, 'Visit summary'));
     res.status(204).end();
   });
 
-  router.get('/summaries/:id/pdf', requireSignedIn, async (req, res, next) => {
+  router.get('/summaries/:id/pdf', permit('summary:read'), async (req, res, next) => {
     const id = idParam(req.params, 'Visit summary');
     const { file, fileName } = await summaries.pdfPath(currentUser(req), id);
     const download = req.query['download'] === '1';

@@ -33,7 +33,16 @@ export const routes: Routes = [
       {
         path: 'athletes',
         canMatch: [roleGuard('owner', 'coach')],
-        loadChildren: () => import('./features/athletes/athletes.routes'),
+        // An athlete's assessments, review and comparison are other features' pages under the athlete's path.
+        children: [
+          {
+            path: ':athleteId/assessments/:assessmentId/clips/:clipId/review',
+            loadChildren: () => import('./features/review/review.routes'),
+          },
+          { path: ':athleteId/assessments', loadChildren: () => import('./features/assessments/assessments.routes') },
+          { path: ':athleteId/compare', loadChildren: () => import('./features/compare/compare.routes') },
+          { path: '', loadChildren: () => import('./features/athletes/athletes.routes') },
+        ],
       },
       {
         path: 'exercises',
@@ -68,7 +77,14 @@ export const routes: Routes = [
       {
         path: 'portal',
         canMatch: [roleGuard('athlete')],
-        loadChildren: () => import('./features/portal/portal.routes'),
+        // The athlete's pages of each feature; features do not import each other, so they meet here.
+        children: [
+          { path: 'plan', loadChildren: () => import('./features/plans/portal-plan.routes') },
+          { path: 'profile', loadChildren: () => import('./features/athletes/portal-profile.routes') },
+          { path: 'invoices', loadChildren: () => import('./features/billing/portal-invoices.routes') },
+          { path: 'assessments', loadChildren: () => import('./features/assessments/portal-assessments.routes') },
+          { path: '', loadChildren: () => import('./features/portal/portal.routes') },
+        ],
       },
     ],
   },

@@ -11,10 +11,10 @@ import { routes } from './app.routes';
 import { AuthApi } from './core/auth-api';
 import { AuthStore } from './core/auth-store';
 import { ConfigStore } from './core/config-store';
-import { AssessmentsApi } from './features/assessments/assessments-api';
-import { PlansApi } from './features/plans/plans-api';
-import { StillsApi } from './features/stills/stills-api';
-import { BillingApi } from './features/billing/billing-api';
+import { AssessmentsApi } from './core/data/assessments-api';
+import { PlansApi } from './core/data/plans-api';
+import { StillsApi } from './core/data/stills-api';
+import { BillingApi } from './core/data/billing-api';
 import { provideIsoDateAdapter } from './shared/iso-date-adapter';
 
 const athlete: SessionUser = {

@@ -3,6 +3,11 @@
  * to ROUTES, or the "every route is listed" check fails. Callers: anonymous, the demo clinic's
  * athlete (self), coach and owner, and a second clinic's athlete, coach and owner. Targets include
  * athletes who have no account: one of the demo clinic (Teodor) and one of the second clinic.
+ *
+ * A guarded route names its action and what it is about; the expected status of each caller comes
+ * from the access table (`server/policy/access-table.ts`, the same table the server enforces), and
+ * a check makes sure each mounted route's guard names that very action. Public routes state their
+ * status outright.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import http from 'node:http';
@@ -11,7 +16,9 @@ import type { Express } from 'express';
 import { makeClip, tempDir } from './media/fixtures';
 import { Client, makeTestApp, OTHER, signedIn, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
-import { listRoutes } from '../support/routes';
+import { listRouteActions, listRoutes } from '../support/routes';
+import type { Action } from '../../server/policy/access-table';
+import { decide, decideRole, type Actor, type Owner, type ResourceState } from '../../server/policy/decide';
 
 type Who = 'anonymous' | 'athleteSelf' | 'athleteOther' | 'coach' | 'coachOtherClinic' | 'owner' | 'ownerOtherClinic';
 const WHO: Who[] = ['anonymous', 'athleteSelf', 'athleteOther', 'coach', 'coachOtherClinic', 'owner', 'ownerOtherClinic'];
@@ -37,13 +44,36 @@ interface Ctx {
   scratchClipId: number;
 }
 
+/**
+ * What a guarded route is about, for the policy to decide who gets past: the self athlete's
+ * records, another athlete's of the same clinic (without an account), the second clinic's athlete
+ * (without an account), a record of the demo clinic that is no athlete's, or the caller's own
+ * clinic (lists and new records).
+ */
+type On = 'self' | 'teammate' | 'foreign' | 'demoClinic' | 'own';
+
+interface Access {
+  /** The action the route's guard names (checked against the mounted route). */
+  action: Action;
+  on: On;
+  /** What a caller the policy lets through gets. */
+  ok: number;
+  /** The resource's state the policy's conditions read (published, draft, marked, uploader, fields sent). */
+  state?: ResourceState;
+  /** Outcomes decided after the policy (e.g. a body naming another clinic's athlete: 422). */
+  also?: Partial<Record<Who, number>>;
+}
+
 interface RouteCase {
   method: 'get' | 'post' | 'put' | 'patch' | 'delete';
   /** Express path pattern as mounted, for the completeness check. */
   pattern: string;
   path: (c: Ctx) => string;
   body?: (c: Ctx) => unknown;
-  expect: Expect;
+  /** A guarded route: the access table (`server/policy/access-table.ts`) decides the expected statuses. */
+  access?: Access;
+  /** A public route (no guard): what every caller gets. */
+  expect?: Expect;
   /** Runs before each call (fresh rows for DELETE and the like). */
   before?: () => Promise<void>;
   /** Server-sent events: only the status line is read. */
@@ -75,52 +105,42 @@ const assessment = {
   notes: null,
 };
 
+/** A public route: every caller gets the same status. */
 const all = (status: number): Expect => Object.fromEntries(WHO.map((w) => [w, status])) as Expect;
-const staffOnly = (ok: number, otherClinic = 403): Expect => ({
-  anonymous: 401,
-  athleteSelf: 403,
-  athleteOther: 403,
-  coach: ok,
-  coachOtherClinic: otherClinic,
-  owner: ok,
-});
-/** Readable by clinic staff and by the athlete it belongs to. */
-const selfAndStaff = (ok: number): Expect => ({
-  anonymous: 401,
-  athleteSelf: ok,
-  athleteOther: 404,
-  coach: ok,
-  coachOtherClinic: 404,
-  owner: ok,
-});
-/** Writable by clinic staff only. */
-const staffWrite = (ok: number): Expect => ({
-  anonymous: 401,
-  athleteSelf: 403,
-  athleteOther: 403,
-  coach: ok,
-  coachOtherClinic: 404,
-  owner: ok,
-});
-/** Owner only; `otherOwner` is what the second clinic's owner gets (404 for this clinic's ids, ok for their own lists). */
-const ownerOnly = (ok: number, otherOwner = 404): Expect => ({
-  anonymous: 401,
-  athleteSelf: 403,
-  athleteOther: 403,
-  coach: 403,
-  coachOtherClinic: 403,
-  owner: ok,
-  ownerOtherClinic: otherOwner,
-});
-/** A route about the second clinic's athlete who has no account: only that clinic's staff get past. */
-const foreign = (ok: number, athletes = 404): Expect => ({
-  anonymous: 401,
-  athleteSelf: athletes,
-  athleteOther: athletes,
-  coach: 404,
-  coachOtherClinic: ok,
-  owner: 404,
-});
+
+// ─── Callers and targets as the policy sees them ──────────────────────────────────────────
+// The policy compares clinics and accounts by id only, so the walk names them symbolically.
+const DEMO_CLINIC = 1;
+const SECOND_CLINIC = 2;
+const SELF_USER_ID = 101;
+const COACH_ID = 102;
+const ACTORS: Record<Who, Actor | null> = {
+  anonymous: null,
+  athleteSelf: { id: SELF_USER_ID, role: 'athlete', clinicId: DEMO_CLINIC },
+  athleteOther: { id: 201, role: 'athlete', clinicId: SECOND_CLINIC },
+  coach: { id: COACH_ID, role: 'coach', clinicId: DEMO_CLINIC },
+  coachOtherClinic: { id: 202, role: 'coach', clinicId: SECOND_CLINIC },
+  owner: { id: 103, role: 'owner', clinicId: DEMO_CLINIC },
+  ownerOtherClinic: { id: 203, role: 'owner', clinicId: SECOND_CLINIC },
+};
+const OWNERS: Record<Exclude<On, 'own'>, Owner> = {
+  self: { clinicId: DEMO_CLINIC, athleteUserId: SELF_USER_ID },
+  teammate: { clinicId: DEMO_CLINIC, athleteUserId: null },
+  foreign: { clinicId: SECOND_CLINIC, athleteUserId: null },
+  demoClinic: { clinicId: DEMO_CLINIC },
+};
+
+/** The status a caller gets: the policy's refusal, else what the route answers once past it. */
+function statusFor(route: RouteCase, who: Who): number {
+  if (!route.access) return expected(route.expect!, who);
+  const a = route.access;
+  const also = a.also?.[who];
+  if (also !== undefined) return also;
+  const actor = ACTORS[who];
+  // Lists and new records are the caller's own clinic's: only the role decides.
+  const d = a.on === 'own' ? decideRole(actor, a.action) : decide(actor, a.action, { ...OWNERS[a.on], ...a.state });
+  return d.allowed ? a.ok : d.status;
+}
 
 // "athleteOther" is an athlete of another clinic reading the same ids: always 404 for athlete ids.
 const ROUTES: RouteCase[] = [
@@ -128,19 +148,19 @@ const ROUTES: RouteCase[] = [
   { method: 'get', pattern: '/api/config', path: () => '/api/config', expect: all(200) },
   { method: 'get', pattern: '/api/auth/csrf', path: () => '/api/auth/csrf', expect: all(200) },
   { method: 'get', pattern: '/api/auth/me', path: () => '/api/auth/me', expect: all(200) },
-  { method: 'get', pattern: '/api/staff', path: () => '/api/staff', expect: ownerOnly(200, 200) },
+  { method: 'get', pattern: '/api/staff', path: () => '/api/staff', access: { action: 'staff:list', on: 'own', ok: 200 } },
   {
     method: 'post',
     pattern: '/api/staff/invitations',
     path: () => '/api/staff/invitations',
     body: () => ({ email: `walk-${Math.random().toString(36).slice(2)}@x.test`, name: 'Walker' }),
-    expect: ownerOnly(201, 201),
+    access: { action: 'staff:invite', on: 'own', ok: 201 },
   },
   {
     method: 'delete',
     pattern: '/api/staff/invitations/:id',
     path: (c) => `/api/staff/invitations/${c.pendingInvitationId}`,
-    expect: ownerOnly(204),
+    access: { action: 'staff:revoke-invitation', on: 'demoClinic', ok: 204 },
   },
   {
     method: 'post',
@@ -148,124 +168,139 @@ const ROUTES: RouteCase[] = [
     path: () => `/api/staff/${staffc.coachId}/deactivate`,
     body: () => ({}),
     before: () => scratchCoach(true),
-    expect: ownerOnly(200),
+    access: { action: 'staff:deactivate', on: 'demoClinic', ok: 200 },
   },
   {
     method: 'post',
     pattern: '/api/staff/:id/reactivate',
     path: () => `/api/staff/${staffc.coachId}/reactivate`,
     before: () => scratchCoach(false),
-    expect: ownerOnly(200),
+    access: { action: 'staff:reactivate', on: 'demoClinic', ok: 200 },
   },
-  { method: 'get', pattern: '/api/coaches', path: () => '/api/coaches', expect: staffOnly(200, 200) },
-  { method: 'get', pattern: '/api/athletes', path: () => '/api/athletes', expect: staffOnly(200, 200) },
+  { method: 'get', pattern: '/api/coaches', path: () => '/api/coaches', access: { action: 'coach:list', on: 'own', ok: 200 } },
+  { method: 'get', pattern: '/api/athletes', path: () => '/api/athletes', access: { action: 'athlete:list', on: 'own', ok: 200 } },
   {
     method: 'post',
     pattern: '/api/athletes',
     path: () => '/api/athletes',
     body: () => ({ firstName: 'Walk', lastName: 'Er' }),
-    expect: staffOnly(201, 201),
+    access: { action: 'athlete:create', on: 'own', ok: 201 },
   },
   {
     method: 'get',
     pattern: '/api/athletes/:id',
     path: (c) => `/api/athletes/${c.selfAthleteId}`,
-    expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 },
+    access: { action: 'athlete:read', on: 'self', ok: 200 },
   },
   {
     method: 'get',
     pattern: '/api/athletes/:id',
     path: (c) => `/api/athletes/${c.otherAthleteId}`,
-    expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 },
+    access: { action: 'athlete:read', on: 'teammate', ok: 200 },
   },
   {
     method: 'patch',
     pattern: '/api/athletes/:id',
     path: (c) => `/api/athletes/${c.selfAthleteId}`,
     body: () => ({ firstName: 'Ada' }),
-    expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 },
+    access: { action: 'athlete:update', on: 'self', ok: 200, state: { fields: ['firstName'] } },
   },
   {
     method: 'patch',
     pattern: '/api/athletes/:id',
     path: (c) => `/api/athletes/${c.otherAthleteId}`,
     body: () => ({ firstName: 'Teodor' }),
-    expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 },
+    access: { action: 'athlete:update', on: 'teammate', ok: 200, state: { fields: ['firstName'] } },
   },
   {
     method: 'put',
     pattern: '/api/athletes/:id/intake',
     path: (c) => `/api/athletes/${c.selfAthleteId}/intake`,
     body: () => intake,
-    expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 },
+    access: { action: 'athlete:update-intake', on: 'self', ok: 200 },
   },
   {
     method: 'put',
     pattern: '/api/athletes/:id/intake',
     path: (c) => `/api/athletes/${c.otherAthleteId}/intake`,
     body: () => intake,
-    expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 200, coachOtherClinic: 404, owner: 200 },
+    access: { action: 'athlete:update-intake', on: 'teammate', ok: 200 },
   },
   {
     method: 'post',
     pattern: '/api/athletes/:id/invitation',
     path: (c) => `/api/athletes/${c.otherAthleteId}/invitation`,
-    expect: { ...staffOnly(201), coachOtherClinic: 404 },
+    access: { action: 'athlete:invite', on: 'teammate', ok: 201 },
   },
   // The second clinic's athlete without an account: everyone of the demo clinic gets 404.
-  { method: 'get', pattern: '/api/athletes/:id', path: (c) => `/api/athletes/${c.foreignAthleteId}`, expect: foreign(200) },
+  {
+    method: 'get',
+    pattern: '/api/athletes/:id',
+    path: (c) => `/api/athletes/${c.foreignAthleteId}`,
+    access: { action: 'athlete:read', on: 'foreign', ok: 200 },
+  },
   {
     method: 'patch',
     pattern: '/api/athletes/:id',
     path: (c) => `/api/athletes/${c.foreignAthleteId}`,
     body: () => ({ firstName: 'Foreign' }),
-    expect: foreign(200),
+    access: { action: 'athlete:update', on: 'foreign', ok: 200, state: { fields: ['firstName'] } },
   },
   {
     method: 'put',
     pattern: '/api/athletes/:id/intake',
     path: (c) => `/api/athletes/${c.foreignAthleteId}/intake`,
     body: () => intake,
-    expect: foreign(200),
+    access: { action: 'athlete:update-intake', on: 'foreign', ok: 200 },
   },
   {
     method: 'post',
     pattern: '/api/athletes/:id/invitation',
     path: (c) => `/api/athletes/${c.foreignAthleteId}/invitation`,
-    expect: foreign(201, 403),
+    access: { action: 'athlete:invite', on: 'foreign', ok: 201 },
   },
   {
     method: 'get',
     pattern: '/api/athletes/:id/assessments',
     path: (c) => `/api/athletes/${c.foreignAthleteId}/assessments`,
-    expect: foreign(200),
+    access: { action: 'assessment:list', on: 'foreign', ok: 200 },
   },
   {
     method: 'post',
     pattern: '/api/athletes/:id/assessments',
     path: (c) => `/api/athletes/${c.foreignAthleteId}/assessments`,
     body: () => assessment,
-    expect: foreign(201, 403),
+    access: { action: 'assessment:create', on: 'foreign', ok: 201 },
   },
-  { method: 'get', pattern: '/api/athletes/:id/plans', path: (c) => `/api/athletes/${c.foreignAthleteId}/plans`, expect: foreign(200) },
-  { method: 'get', pattern: '/api/athletes/:id/stills', path: (c) => `/api/athletes/${c.foreignAthleteId}/stills`, expect: foreign(200) },
+  {
+    method: 'get',
+    pattern: '/api/athletes/:id/plans',
+    path: (c) => `/api/athletes/${c.foreignAthleteId}/plans`,
+    access: { action: 'plan:list', on: 'foreign', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/athletes/:id/stills',
+    path: (c) => `/api/athletes/${c.foreignAthleteId}/stills`,
+    access: { action: 'still:list', on: 'foreign', ok: 200 },
+  },
   {
     method: 'get',
     pattern: '/api/athletes/:id/summaries',
     path: (c) => `/api/athletes/${c.foreignAthleteId}/summaries`,
-    expect: foreign(200),
+    access: { action: 'summary:list', on: 'foreign', ok: 200 },
   },
   {
     method: 'get',
     pattern: '/api/athletes/:id/measure-trends',
     path: (c) => `/api/athletes/${c.foreignAthleteId}/measure-trends`,
-    expect: foreign(200, 403),
+    access: { action: 'comparison:read', on: 'foreign', ok: 200 },
   },
   {
     method: 'get',
     pattern: '/api/athletes/:id/comparison',
     path: (c) => `/api/athletes/${c.foreignAthleteId}/comparison`,
-    expect: foreign(422, 403),
+    access: { action: 'comparison:read', on: 'foreign', ok: 422 },
   },
   { method: 'get', pattern: '/api/invitations/:token', path: () => `/api/invitations/${'u'.repeat(43)}`, expect: all(404) },
   {
@@ -301,35 +336,40 @@ const ROUTES: RouteCase[] = [
     method: 'get',
     pattern: '/api/athletes/:id/assessments',
     path: (c) => `/api/athletes/${c.selfAthleteId}/assessments`,
-    expect: selfAndStaff(200),
+    access: { action: 'assessment:list', on: 'self', ok: 200 },
   },
   {
     method: 'post',
     pattern: '/api/athletes/:id/assessments',
     path: (c) => `/api/athletes/${c.otherAthleteId}/assessments`,
     body: () => assessment,
-    expect: staffWrite(201),
+    access: { action: 'assessment:create', on: 'teammate', ok: 201 },
   },
-  { method: 'get', pattern: '/api/assessments/:id', path: (c) => `/api/assessments/${c.assessmentId}`, expect: selfAndStaff(200) },
+  {
+    method: 'get',
+    pattern: '/api/assessments/:id',
+    path: (c) => `/api/assessments/${c.assessmentId}`,
+    access: { action: 'assessment:read', on: 'self', ok: 200 },
+  },
   {
     method: 'get',
     pattern: '/api/assessments/:id',
     path: (c) => `/api/assessments/${c.otherAssessmentId}`,
-    expect: { ...selfAndStaff(200), athleteSelf: 404 },
+    access: { action: 'assessment:read', on: 'teammate', ok: 200 },
   },
   {
     method: 'patch',
     pattern: '/api/assessments/:id',
     path: (c) => `/api/assessments/${c.assessmentId}`,
     body: () => ({ shoes: 'Trail shoe' }),
-    expect: staffWrite(200),
+    access: { action: 'assessment:update', on: 'self', ok: 200 },
   },
   {
     method: 'delete',
     pattern: '/api/assessments/:id',
     path: (c) => `/api/assessments/${c.scratchAssessmentId}`,
     before: () => scratchAssessment(),
-    expect: staffWrite(204),
+    access: { action: 'assessment:delete', on: 'self', ok: 204 },
   },
   // Access passes, then the JSON body is refused as "no file" (422): the walk checks who gets past the gate.
   {
@@ -337,29 +377,29 @@ const ROUTES: RouteCase[] = [
     pattern: '/api/assessments/:id/clips',
     path: (c) => `/api/assessments/${c.assessmentId}/clips`,
     body: () => ({}),
-    expect: selfAndStaff(422),
+    access: { action: 'clip:upload', on: 'self', ok: 422 },
   },
   {
     method: 'post',
     pattern: '/api/assessments/:id/clips',
     path: (c) => `/api/assessments/${c.otherAssessmentId}/clips`,
     body: () => ({}),
-    expect: { ...selfAndStaff(422), athleteSelf: 404 },
+    access: { action: 'clip:upload', on: 'teammate', ok: 422 },
   },
   {
     method: 'get',
     pattern: '/api/assessments/:id/clip-events',
     path: (c) => `/api/assessments/${c.assessmentId}/clip-events`,
     stream: true,
-    expect: selfAndStaff(200),
+    access: { action: 'clip:read', on: 'self', ok: 200 },
   },
-  { method: 'get', pattern: '/api/clips/:id', path: (c) => `/api/clips/${c.clipId}`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/clips/:id', path: (c) => `/api/clips/${c.clipId}`, access: { action: 'clip:read', on: 'self', ok: 200 } },
   {
     method: 'patch',
     pattern: '/api/clips/:id',
     path: (c) => `/api/clips/${c.clipId}`,
     body: () => ({ nearSide: 'right' }),
-    expect: selfAndStaff(200),
+    access: { action: 'clip:update-settings', on: 'self', ok: 200, state: { marked: false } },
   },
   // The scratch clip was uploaded by the coach: the athlete may not delete it.
   {
@@ -367,49 +407,89 @@ const ROUTES: RouteCase[] = [
     pattern: '/api/clips/:id',
     path: (c) => `/api/clips/${c.scratchClipId}`,
     before: () => scratchClip(),
-    expect: { ...selfAndStaff(204), athleteSelf: 403 },
+    access: { action: 'clip:delete', on: 'self', ok: 204, state: { uploadedBy: COACH_ID } },
   },
   {
     method: 'post',
     pattern: '/api/clips/:id/retry',
     path: (c) => `/api/clips/${c.scratchClipId}` + '/retry',
     before: () => scratchClip(),
-    expect: selfAndStaff(202),
+    access: { action: 'clip:retry', on: 'self', ok: 202 },
   },
-  { method: 'get', pattern: '/api/clips/:id/poster', path: (c) => `/api/clips/${c.clipId}/poster`, expect: selfAndStaff(200) },
-  { method: 'get', pattern: '/api/clips/:id/thumbs/:n', path: (c) => `/api/clips/${c.clipId}/thumbs/0`, expect: selfAndStaff(200) },
-  { method: 'get', pattern: '/api/clips/:id/frames/:n', path: (c) => `/api/clips/${c.clipId}/frames/1`, expect: selfAndStaff(200) },
-  { method: 'get', pattern: '/api/clips/:id/manifest', path: (c) => `/api/clips/${c.clipId}/manifest`, expect: selfAndStaff(200) },
-  { method: 'get', pattern: '/api/clips/:id/original', path: (c) => `/api/clips/${c.clipId}/original`, expect: selfAndStaff(200) },
-  { method: 'get', pattern: '/api/clips/:id/annotations', path: (c) => `/api/clips/${c.clipId}/annotations`, expect: staffWrite(200) },
+  {
+    method: 'get',
+    pattern: '/api/clips/:id/poster',
+    path: (c) => `/api/clips/${c.clipId}/poster`,
+    access: { action: 'clip:read-media', on: 'self', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/clips/:id/thumbs/:n',
+    path: (c) => `/api/clips/${c.clipId}/thumbs/0`,
+    access: { action: 'clip:read-media', on: 'self', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/clips/:id/frames/:n',
+    path: (c) => `/api/clips/${c.clipId}/frames/1`,
+    access: { action: 'clip:read-media', on: 'self', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/clips/:id/manifest',
+    path: (c) => `/api/clips/${c.clipId}/manifest`,
+    access: { action: 'clip:read-media', on: 'self', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/clips/:id/original',
+    path: (c) => `/api/clips/${c.clipId}/original`,
+    access: { action: 'clip:read-media', on: 'self', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/clips/:id/annotations',
+    path: (c) => `/api/clips/${c.clipId}/annotations`,
+    access: { action: 'annotation:read', on: 'self', ok: 200 },
+  },
   {
     method: 'put',
     pattern: '/api/clips/:id/annotations',
     path: (c) => `/api/clips/${c.clipId}/annotations`,
     body: () => ({ baseRevision: 0, landmarks: [], events: [], scale: null }),
     before: () => resetRevision(),
-    expect: staffWrite(200),
+    access: { action: 'annotation:write', on: 'self', ok: 200 },
   },
-  { method: 'get', pattern: '/api/clips/:id/measures', path: (c) => `/api/clips/${c.clipId}/measures`, expect: staffWrite(200) },
+  {
+    method: 'get',
+    pattern: '/api/clips/:id/measures',
+    path: (c) => `/api/clips/${c.clipId}/measures`,
+    access: { action: 'measure:read', on: 'self', ok: 200 },
+  },
   {
     method: 'get',
     pattern: '/api/assessments/:id/measures',
     path: (c) => `/api/assessments/${c.assessmentId}/measures`,
-    expect: staffWrite(200),
+    access: { action: 'measure:read', on: 'self', ok: 200 },
   },
   {
     method: 'get',
     pattern: '/api/athletes/:id/comparison',
     path: (c) => `/api/athletes/${c.selfAthleteId}/comparison`,
-    expect: staffWrite(200),
+    access: { action: 'comparison:read', on: 'self', ok: 200 },
   },
   {
     method: 'get',
     pattern: '/api/athletes/:id/measure-trends',
     path: (c) => `/api/athletes/${c.selfAthleteId}/measure-trends?keys=hip_extension_toe_off,cadence`,
-    expect: staffWrite(200),
+    access: { action: 'comparison:read', on: 'self', ok: 200 },
   },
-  { method: 'get', pattern: '/api/reference-bands', path: () => '/api/reference-bands', expect: staffOnly(200, 200) },
+  {
+    method: 'get',
+    pattern: '/api/reference-bands',
+    path: () => '/api/reference-bands',
+    access: { action: 'reference-band:list', on: 'own', ok: 200 },
+  },
   {
     method: 'put',
     pattern: '/api/reference-bands/:key',
@@ -422,56 +502,87 @@ const ROUTES: RouteCase[] = [
       source: 'Clinic audit (internal)',
       evidence: 'trade',
     }),
-    expect: ownerOnly(200, 200),
+    access: { action: 'reference-band:change', on: 'own', ok: 200 },
   },
-  { method: 'delete', pattern: '/api/reference-bands/:key', path: () => '/api/reference-bands/cadence', expect: ownerOnly(204, 204) },
+  {
+    method: 'delete',
+    pattern: '/api/reference-bands/:key',
+    path: () => '/api/reference-bands/cadence',
+    access: { action: 'reference-band:change', on: 'own', ok: 204 },
+  },
   { method: 'post', pattern: '/api/auth/sign-out', path: () => '/api/auth/sign-out', expect: all(204) },
   // Plans (fixtures in plansFixtures() at the end of this file).
-  { method: 'get', pattern: '/api/exercises', path: () => '/api/exercises?region=hamstring', expect: staffOnly(200, 200) },
+  {
+    method: 'get',
+    pattern: '/api/exercises',
+    path: () => '/api/exercises?region=hamstring',
+    access: { action: 'exercise:list', on: 'own', ok: 200 },
+  },
   {
     method: 'post',
     pattern: '/api/exercises',
     path: () => '/api/exercises',
     body: () => ({ ...exercise, name: `Walk ${Math.random().toString(36).slice(2)}` }),
-    expect: staffOnly(201, 201),
+    access: { action: 'exercise:create', on: 'own', ok: 201 },
   },
-  { method: 'get', pattern: '/api/exercises/:id', path: () => `/api/exercises/${pc.exerciseId}`, expect: staffWrite(200) },
+  {
+    method: 'get',
+    pattern: '/api/exercises/:id',
+    path: () => `/api/exercises/${pc.exerciseId}`,
+    access: { action: 'exercise:read', on: 'demoClinic', ok: 200 },
+  },
   {
     method: 'patch',
     pattern: '/api/exercises/:id',
     path: () => `/api/exercises/${pc.exerciseId}`,
     body: () => ({ cautions: 'Walked.' }),
-    expect: staffWrite(200),
+    access: { action: 'exercise:update', on: 'demoClinic', ok: 200 },
   },
   {
     method: 'delete',
     pattern: '/api/exercises/:id',
     path: () => `/api/exercises/${pc.scratchExerciseId}`,
     before: () => scratchExercise(),
-    expect: staffWrite(204),
+    access: { action: 'exercise:archive', on: 'demoClinic', ok: 204 },
   },
-  { method: 'get', pattern: '/api/athletes/:id/plans', path: (c) => `/api/athletes/${c.selfAthleteId}/plans`, expect: selfAndStaff(200) },
+  {
+    method: 'get',
+    pattern: '/api/athletes/:id/plans',
+    path: (c) => `/api/athletes/${c.selfAthleteId}/plans`,
+    access: { action: 'plan:list', on: 'self', ok: 200 },
+  },
   {
     method: 'post',
     pattern: '/api/athletes/:id/plans',
     path: (c) => `/api/athletes/${c.otherAthleteId}/plans`,
     body: () => planBody(),
-    expect: staffWrite(201),
+    access: { action: 'plan:create', on: 'teammate', ok: 201 },
   },
-  { method: 'get', pattern: '/api/plans/:id', path: () => `/api/plans/${pc.planId}`, expect: selfAndStaff(200) },
+  {
+    method: 'get',
+    pattern: '/api/plans/:id',
+    path: () => `/api/plans/${pc.planId}`,
+    access: { action: 'plan:read', on: 'self', ok: 200, state: { draft: false } },
+  },
   {
     method: 'get',
     pattern: '/api/plans/:id',
     path: () => `/api/plans/${pc.otherPlanId}`,
-    expect: { ...selfAndStaff(200), athleteSelf: 404 },
+    access: { action: 'plan:read', on: 'teammate', ok: 200, state: { draft: false } },
   },
-  { method: 'put', pattern: '/api/plans/:id', path: () => `/api/plans/${pc.draftPlanId}`, body: () => planBody(), expect: staffWrite(200) },
+  {
+    method: 'put',
+    pattern: '/api/plans/:id',
+    path: () => `/api/plans/${pc.draftPlanId}`,
+    body: () => planBody(),
+    access: { action: 'plan:update', on: 'teammate', ok: 200 },
+  },
   {
     method: 'delete',
     pattern: '/api/plans/:id',
     path: () => `/api/plans/${pc.scratchPlanId}`,
     before: () => scratchPlan(),
-    expect: staffWrite(204),
+    access: { action: 'plan:delete', on: 'teammate', ok: 204 },
   },
   {
     method: 'post',
@@ -479,29 +590,39 @@ const ROUTES: RouteCase[] = [
     path: () => `/api/plans/${pc.planId}/transitions`,
     body: () => ({ action: 'pause' }),
     before: () => planActive(),
-    expect: staffWrite(200),
+    access: { action: 'plan:transition', on: 'self', ok: 200 },
   },
   {
     method: 'put',
     pattern: '/api/plans/:id/pain-rule',
     path: () => `/api/plans/${pc.planId}/pain-rule`,
     body: () => ({ maxDuring: 5, morningMustSettle: true, settledMorningMax: 2, noWeeklyRise: true }),
-    expect: staffWrite(200),
+    access: { action: 'plan:set-pain-rule', on: 'self', ok: 200 },
   },
-  { method: 'get', pattern: '/api/plans/:id/progress', path: () => `/api/plans/${pc.planId}/progress`, expect: selfAndStaff(200) },
+  {
+    method: 'get',
+    pattern: '/api/plans/:id/progress',
+    path: () => `/api/plans/${pc.planId}/progress`,
+    access: { action: 'plan:read-progress', on: 'self', ok: 200, state: { draft: false } },
+  },
   {
     method: 'get',
     pattern: '/api/plans/:id/progress',
     path: () => `/api/plans/${pc.otherPlanId}/progress`,
-    expect: { ...selfAndStaff(200), athleteSelf: 404 },
+    access: { action: 'plan:read-progress', on: 'teammate', ok: 200, state: { draft: false } },
   },
-  { method: 'get', pattern: '/api/plan-alerts', path: () => '/api/plan-alerts', expect: staffOnly(200, 200) },
-  { method: 'get', pattern: '/api/plans/:id/logs', path: () => `/api/plans/${pc.planId}/logs`, expect: selfAndStaff(200) },
+  { method: 'get', pattern: '/api/plan-alerts', path: () => '/api/plan-alerts', access: { action: 'plan-alert:list', on: 'own', ok: 200 } },
+  {
+    method: 'get',
+    pattern: '/api/plans/:id/logs',
+    path: () => `/api/plans/${pc.planId}/logs`,
+    access: { action: 'plan-log:list', on: 'self', ok: 200, state: { draft: false } },
+  },
   {
     method: 'get',
     pattern: '/api/plans/:id/logs',
     path: () => `/api/plans/${pc.otherPlanId}/logs`,
-    expect: { ...selfAndStaff(200), athleteSelf: 404 },
+    access: { action: 'plan-log:list', on: 'teammate', ok: 200, state: { draft: false } },
   },
   {
     method: 'post',
@@ -509,109 +630,131 @@ const ROUTES: RouteCase[] = [
     path: () => `/api/plans/${pc.planId}/logs`,
     body: () => logBody(),
     before: () => planActive(),
-    expect: { anonymous: 401, athleteSelf: 201, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 },
+    access: { action: 'plan-log:create', on: 'self', ok: 201, state: { draft: false } },
   },
   {
     method: 'post',
     pattern: '/api/plans/:id/logs',
     path: () => `/api/plans/${pc.otherPlanId}/logs`,
     body: () => logBody(),
-    expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 },
+    access: { action: 'plan-log:create', on: 'teammate', ok: 201, state: { draft: false } },
   },
   {
     method: 'put',
     pattern: '/api/plans/:id/logs/:key/morning',
     path: () => `/api/plans/${pc.planId}/logs/${pc.logKey}/morning`,
     body: () => ({ pain: 1 }),
-    expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 },
+    access: { action: 'plan-log:morning-check', on: 'self', ok: 200, state: { draft: false } },
   },
   // Billing (fixtures in billingFixtures() at the end of this file). Coaches have no billing access.
-  { method: 'get', pattern: '/api/billing/settings', path: () => '/api/billing/settings', expect: ownerOnly(200, 200) },
+  {
+    method: 'get',
+    pattern: '/api/billing/settings',
+    path: () => '/api/billing/settings',
+    access: { action: 'billing-settings:read', on: 'own', ok: 200 },
+  },
   {
     method: 'put',
     pattern: '/api/billing/settings',
     path: () => '/api/billing/settings',
     body: () => ({ currency: 'EUR' }),
-    expect: ownerOnly(200, 200),
+    access: { action: 'billing-settings:update', on: 'own', ok: 200 },
   },
-  { method: 'get', pattern: '/api/prices', path: () => '/api/prices', expect: ownerOnly(200, 200) },
-  { method: 'post', pattern: '/api/prices', path: () => '/api/prices', body: () => priceBody, expect: ownerOnly(201, 201) },
+  { method: 'get', pattern: '/api/prices', path: () => '/api/prices', access: { action: 'price:list', on: 'own', ok: 200 } },
+  {
+    method: 'post',
+    pattern: '/api/prices',
+    path: () => '/api/prices',
+    body: () => priceBody,
+    access: { action: 'price:create', on: 'own', ok: 201 },
+  },
   {
     method: 'patch',
     pattern: '/api/prices/:id',
     path: () => `/api/prices/${bc.priceId}`,
     body: () => ({ description: 'Walked.' }),
-    expect: ownerOnly(200),
+    access: { action: 'price:update', on: 'demoClinic', ok: 200 },
   },
   {
     method: 'delete',
     pattern: '/api/prices/:id',
     path: () => `/api/prices/${bc.scratchPriceId}`,
     before: () => scratchPrice(),
-    expect: ownerOnly(204),
+    access: { action: 'price:archive', on: 'demoClinic', ok: 204 },
   },
   // Everyone signed in but coaches: the owner sees the clinic's, an athlete their own (possibly none).
   {
     method: 'get',
     pattern: '/api/invoices',
     path: () => '/api/invoices?status=issued',
-    expect: { anonymous: 401, athleteSelf: 200, athleteOther: 200, coach: 403, coachOtherClinic: 403, owner: 200, ownerOtherClinic: 200 },
+    access: { action: 'invoice:list', on: 'own', ok: 200 },
   },
   {
     method: 'post',
     pattern: '/api/invoices',
     path: () => '/api/invoices',
     body: (c) => invoiceBody(c.selfAthleteId),
-    expect: ownerOnly(201, 422),
+    // The body names the demo clinic's athlete: the second clinic's owner gets past the guard, then 422.
+    access: { action: 'invoice:create', on: 'own', ok: 201, also: { ownerOtherClinic: 422 } },
   },
-  { method: 'get', pattern: '/api/invoices/:id', path: () => `/api/invoices/${bc.openInvoiceId}`, expect: billingSelf(200) },
+  {
+    method: 'get',
+    pattern: '/api/invoices/:id',
+    path: () => `/api/invoices/${bc.openInvoiceId}`,
+    access: { action: 'invoice:read', on: 'self', ok: 200, state: { draft: false } },
+  },
   {
     method: 'get',
     pattern: '/api/invoices/:id',
     path: () => `/api/invoices/${bc.draftInvoiceId}`,
-    expect: { ...billingSelf(200), athleteSelf: 404 },
+    access: { action: 'invoice:read', on: 'self', ok: 200, state: { draft: true } },
   },
   {
     method: 'get',
     pattern: '/api/invoices/:id',
     path: () => `/api/invoices/${bc.otherAthleteInvoiceId}`,
-    expect: { ...billingSelf(200), athleteSelf: 404 },
+    access: { action: 'invoice:read', on: 'teammate', ok: 200, state: { draft: false } },
   },
   {
     method: 'put',
     pattern: '/api/invoices/:id',
     path: () => `/api/invoices/${bc.draftInvoiceId}`,
     body: (c) => invoiceBody(c.selfAthleteId),
-    expect: ownerOnly(200),
+    access: { action: 'invoice:update', on: 'self', ok: 200, state: { draft: true } },
   },
   {
     method: 'put',
     pattern: '/api/invoices/:id',
     path: () => `/api/invoices/${bc.openInvoiceId}`,
     body: (c) => invoiceBody(c.selfAthleteId),
-    expect: ownerOnly(409),
+    access: { action: 'invoice:update', on: 'self', ok: 409, state: { draft: false } },
   },
   {
     method: 'delete',
     pattern: '/api/invoices/:id',
     path: () => `/api/invoices/${bc.scratchInvoiceId}`,
     before: () => scratchInvoice(),
-    expect: ownerOnly(204),
+    access: { action: 'invoice:delete', on: 'self', ok: 204, state: { draft: false } },
   },
-  { method: 'delete', pattern: '/api/invoices/:id', path: () => `/api/invoices/${bc.openInvoiceId}`, expect: ownerOnly(409) },
+  {
+    method: 'delete',
+    pattern: '/api/invoices/:id',
+    path: () => `/api/invoices/${bc.openInvoiceId}`,
+    access: { action: 'invoice:delete', on: 'self', ok: 409, state: { draft: false } },
+  },
   {
     method: 'post',
     pattern: '/api/invoices/:id/issue',
     path: () => `/api/invoices/${bc.scratchInvoiceId}/issue`,
     before: () => scratchInvoice(),
-    expect: ownerOnly(200),
+    access: { action: 'invoice:issue', on: 'self', ok: 200, state: { draft: false } },
   },
   {
     method: 'post',
     pattern: '/api/invoices/:id/cancel',
     path: () => `/api/invoices/${bc.scratchInvoiceId}/cancel`,
     before: () => scratchInvoice(),
-    expect: ownerOnly(200),
+    access: { action: 'invoice:cancel', on: 'self', ok: 200, state: { draft: false } },
   },
   {
     method: 'post',
@@ -619,40 +762,45 @@ const ROUTES: RouteCase[] = [
     path: () => `/api/invoices/${bc.scratchInvoiceId}/payments`,
     before: () => scratchIssuedInvoice(),
     body: () => ({ method: 'bank_transfer', paidOn: new Date().toISOString().slice(0, 10), note: 'Walk' }),
-    expect: ownerOnly(200),
+    access: { action: 'invoice:record-payment', on: 'self', ok: 200, state: { draft: false } },
   },
   {
     method: 'post',
     pattern: '/api/invoices/:id/refund',
     path: () => `/api/invoices/${bc.paidInvoiceId}/refund`,
     before: () => paidInvoice(),
-    expect: ownerOnly(200),
+    access: { action: 'invoice:refund', on: 'self', ok: 200, state: { draft: false } },
   },
   {
     method: 'post',
     pattern: '/api/invoices/:id/checkout',
     path: () => `/api/invoices/${bc.openInvoiceId}/checkout`,
-    expect: { anonymous: 401, athleteSelf: 200, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 },
+    access: { action: 'invoice:pay', on: 'self', ok: 200, state: { draft: false } },
   },
   {
     method: 'post',
     pattern: '/api/invoices/:id/checkout',
     path: () => `/api/invoices/${bc.otherAthleteInvoiceId}/checkout`,
-    expect: { anonymous: 401, athleteSelf: 404, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: 403 },
+    access: { action: 'invoice:pay', on: 'teammate', ok: 200, state: { draft: false } },
   },
-  { method: 'get', pattern: '/api/clinic/legal-details', path: () => '/api/clinic/legal-details', expect: ownerOnly(200, 200) },
+  {
+    method: 'get',
+    pattern: '/api/clinic/legal-details',
+    path: () => '/api/clinic/legal-details',
+    access: { action: 'clinic-legal:read', on: 'own', ok: 200 },
+  },
   {
     method: 'put',
     pattern: '/api/clinic/legal-details',
     path: () => '/api/clinic/legal-details',
     body: () => ({ legalName: 'Walk Clinic Ltd', address: '1 Walk Lane\nWalktown', taxNumber: 'WK 123', contactLine: 'walk@clinic.test' }),
-    expect: ownerOnly(200, 200),
+    access: { action: 'clinic-legal:update', on: 'own', ok: 200 },
   },
   {
     method: 'get',
     pattern: '/api/invoices/:id/receipt',
     path: () => `/api/invoices/${bc.receiptInvoiceId}/receipt`,
-    expect: billingSelf(200),
+    access: { action: 'invoice:read-receipt', on: 'self', ok: 200, state: { draft: false } },
   },
   // Public but signature-checked: without a valid provider signature every caller gets 400 (and no CSRF 403).
   {
@@ -669,16 +817,26 @@ const ROUTES: RouteCase[] = [
     pattern: '/api/clips/:id/stills',
     path: (c) => `/api/clips/${c.clipId}/stills`,
     body: () => ({ frameIndex: 0, caption: 'Walk', showAngles: true }),
-    expect: staffWrite(202),
+    access: { action: 'still:create', on: 'self', ok: 202 },
   },
-  { method: 'get', pattern: '/api/athletes/:id/stills', path: (c) => `/api/athletes/${c.selfAthleteId}/stills`, expect: selfAndStaff(200) },
-  { method: 'get', pattern: '/api/stills/:id', path: () => `/api/stills/${sc.stillId}`, expect: selfAndStaff(200) },
+  {
+    method: 'get',
+    pattern: '/api/athletes/:id/stills',
+    path: (c) => `/api/athletes/${c.selfAthleteId}/stills`,
+    access: { action: 'still:list', on: 'self', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/stills/:id',
+    path: () => `/api/stills/${sc.stillId}`,
+    access: { action: 'still:read', on: 'self', ok: 200, state: { published: true } },
+  },
   {
     method: 'get',
     pattern: '/api/stills/:id',
     path: () => `/api/stills/${sc.scratchStillId}`,
     before: () => scratchStill(),
-    expect: { ...selfAndStaff(200), athleteSelf: 404 },
+    access: { action: 'still:read', on: 'self', ok: 200, state: { published: false } },
   },
   {
     method: 'patch',
@@ -686,86 +844,106 @@ const ROUTES: RouteCase[] = [
     path: () => `/api/stills/${sc.scratchStillId}`,
     body: () => ({ caption: 'Walked' }),
     before: () => scratchStill(),
-    expect: staffWrite(200),
+    access: { action: 'still:update', on: 'self', ok: 200 },
   },
   {
     method: 'post',
     pattern: '/api/stills/:id/publish',
     path: () => `/api/stills/${sc.scratchStillId}/publish`,
     before: () => scratchStill(),
-    expect: staffWrite(200),
+    access: { action: 'still:publish', on: 'self', ok: 200 },
   },
   {
     method: 'post',
     pattern: '/api/stills/:id/unpublish',
     path: () => `/api/stills/${sc.scratchStillId}/unpublish`,
     before: () => scratchStill(),
-    expect: staffWrite(200),
+    access: { action: 'still:publish', on: 'self', ok: 200 },
   },
   {
     method: 'delete',
     pattern: '/api/stills/:id',
     path: () => `/api/stills/${sc.scratchStillId}`,
     before: () => scratchStill(),
-    expect: staffWrite(204),
+    access: { action: 'still:delete', on: 'self', ok: 204 },
   },
-  { method: 'get', pattern: '/api/stills/:id/image.png', path: () => `/api/stills/${sc.stillId}/image.png`, expect: selfAndStaff(200) },
-  { method: 'get', pattern: '/api/stills/:id/image.jpg', path: () => `/api/stills/${sc.stillId}/image.jpg`, expect: selfAndStaff(200) },
+  {
+    method: 'get',
+    pattern: '/api/stills/:id/image.png',
+    path: () => `/api/stills/${sc.stillId}/image.png`,
+    access: { action: 'still:read', on: 'self', ok: 200, state: { published: true } },
+  },
+  {
+    method: 'get',
+    pattern: '/api/stills/:id/image.jpg',
+    path: () => `/api/stills/${sc.stillId}/image.jpg`,
+    access: { action: 'still:read', on: 'self', ok: 200, state: { published: true } },
+  },
   {
     method: 'get',
     pattern: '/api/stills/:id/image.png',
     path: () => `/api/stills/${sc.scratchStillId}/image.png`,
     before: () => scratchStill(),
-    expect: { ...selfAndStaff(200), athleteSelf: 404 },
+    access: { action: 'still:read', on: 'self', ok: 200, state: { published: false } },
   },
   {
     method: 'post',
     pattern: '/api/assessments/:id/summaries',
     path: (c) => `/api/assessments/${c.assessmentId}/summaries`,
     body: () => ({ findings: '', planText: '', stillIds: [] }),
-    expect: staffWrite(202),
+    access: { action: 'summary:create', on: 'self', ok: 202 },
   },
   {
     method: 'get',
     pattern: '/api/athletes/:id/summaries',
     path: (c) => `/api/athletes/${c.selfAthleteId}/summaries`,
-    expect: selfAndStaff(200),
+    access: { action: 'summary:list', on: 'self', ok: 200 },
   },
-  { method: 'get', pattern: '/api/summaries/:id', path: () => `/api/summaries/${sc.summaryId}`, expect: selfAndStaff(200) },
+  {
+    method: 'get',
+    pattern: '/api/summaries/:id',
+    path: () => `/api/summaries/${sc.summaryId}`,
+    access: { action: 'summary:read', on: 'self', ok: 200, state: { published: true } },
+  },
   {
     method: 'post',
     pattern: '/api/summaries/:id/publish',
     path: () => `/api/summaries/${sc.scratchSummaryId}/publish`,
     before: () => scratchSummary(),
-    expect: staffWrite(200),
+    access: { action: 'summary:publish', on: 'self', ok: 200 },
   },
   {
     method: 'post',
     pattern: '/api/summaries/:id/unpublish',
     path: () => `/api/summaries/${sc.scratchSummaryId}/unpublish`,
     before: () => scratchSummary(),
-    expect: staffWrite(200),
+    access: { action: 'summary:publish', on: 'self', ok: 200 },
   },
   {
     method: 'delete',
     pattern: '/api/summaries/:id',
     path: () => `/api/summaries/${sc.scratchSummaryId}`,
     before: () => scratchSummary(),
-    expect: staffWrite(204),
+    access: { action: 'summary:delete', on: 'self', ok: 204 },
   },
-  { method: 'get', pattern: '/api/summaries/:id/pdf', path: () => `/api/summaries/${sc.summaryId}/pdf`, expect: selfAndStaff(200) },
+  {
+    method: 'get',
+    pattern: '/api/summaries/:id/pdf',
+    path: () => `/api/summaries/${sc.summaryId}/pdf`,
+    access: { action: 'summary:read', on: 'self', ok: 200, state: { published: true } },
+  },
   {
     method: 'get',
     pattern: '/api/summaries/:id/pdf',
     path: () => `/api/summaries/${sc.scratchSummaryId}/pdf`,
     before: () => scratchSummary(),
-    expect: { ...selfAndStaff(200), athleteSelf: 404 },
+    access: { action: 'summary:read', on: 'self', ok: 200, state: { published: false } },
   },
   {
     method: 'get',
     pattern: '/api/portal/shared',
     path: () => '/api/portal/shared',
-    expect: { anonymous: 401, athleteSelf: 200, athleteOther: 200, coach: 403, coachOtherClinic: 403, owner: 403 },
+    access: { action: 'portal-shared:list', on: 'own', ok: 200 },
   },
 ];
 
@@ -890,7 +1068,7 @@ afterAll(async () => {
 describe('access walk: every route × every caller', () => {
   for (const route of ROUTES) {
     for (const who of WHO) {
-      const status = expected(route.expect, who);
+      const status = statusFor(route, who);
       it(`${route.method.toUpperCase()} ${route.pattern} as ${who} → ${status}`, async () => {
         const c = await clientFor(t.app, who);
         if (route.pattern === '/api/staff/invitations/:id') {
@@ -921,6 +1099,15 @@ describe('access walk: every route × every caller', () => {
     expect(mounted.length).toBeGreaterThanOrEqual(20);
     const missing = mounted.filter((r) => !listed.has(r));
     expect(missing).toEqual([]);
+  });
+
+  it("every route's guard names the action the walk derives its statuses from; public routes have none", () => {
+    const actions = listRouteActions(t.app);
+    const wrong = ROUTES.filter((r) => actions.get(`${r.method.toUpperCase()} ${r.pattern}`) !== (r.access?.action ?? null)).map(
+      (r) =>
+        `${r.method.toUpperCase()} ${r.pattern}: guard ${actions.get(`${r.method.toUpperCase()} ${r.pattern}`)}, walk ${r.access?.action ?? null}`,
+    );
+    expect(wrong).toEqual([]);
   });
 });
 
@@ -1038,10 +1225,6 @@ const invoiceBody = (athleteId: number) => ({
   note: null,
   lines: [{ priceId: null, description: 'Walk', quantity: 1, unitAmountMinor: 1000, taxRateBp: 2000 }],
 });
-/** Readable by the owner and the athlete billed; coaches have no billing access. */
-function billingSelf(ok: number): Record<Who, number> {
-  return { anonymous: 401, athleteSelf: ok, athleteOther: 404, coach: 403, coachOtherClinic: 403, owner: ok, ownerOtherClinic: 404 };
-}
 let ownerClient: Client;
 
 async function scratchPrice(): Promise<void> {

@@ -2,7 +2,7 @@ import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import type { Assessment } from '../../../contracts/api';
 import { FILM_SURFACE_LABELS } from '../../../contracts/assessment';
-import { formatSpeed } from './assessment-form-model';
+import { formatSpeed } from '../../shared/assessment-form-model';
 
 /** The visit facts of an assessment as a definition list (no coach notes: pages add those). */
 @Component({

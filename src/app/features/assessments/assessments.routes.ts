@@ -2,7 +2,7 @@ import { inject } from '@angular/core';
 import { Router, Routes } from '@angular/router';
 import { leaveGuard } from '../../core/leave-guard';
 
-/** `/athletes/:athleteId/assessments/…` (owner and coach). */
+/** `/athletes/:athleteId/assessments/…` (owner and coach); the clip review is mounted beside these in `app.routes.ts`. */
 export default [
   {
     // The list lives on the athlete's profile.
@@ -15,9 +15,5 @@ export default [
     title: 'Assessment · Trailframe',
     canDeactivate: [leaveGuard],
     loadComponent: () => import('./assessment-page/assessment-page').then((m) => m.AssessmentPage),
-  },
-  {
-    path: ':assessmentId/clips/:clipId/review',
-    loadChildren: () => import('../review/review.routes'),
   },
 ] satisfies Routes;

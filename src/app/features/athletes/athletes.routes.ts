@@ -1,7 +1,7 @@
 import { Routes } from '@angular/router';
 import { leaveGuard } from '../../core/leave-guard';
 
-/** `/athletes` (owner and coach). */
+/** `/athletes` (owner and coach); an athlete's assessments and comparison are mounted beside these in `app.routes.ts`. */
 export default [
   {
     path: '',
@@ -18,13 +18,5 @@ export default [
     title: 'Athlete · Trailframe',
     canDeactivate: [leaveGuard],
     loadComponent: () => import('./athlete-profile/athlete-profile').then((m) => m.AthleteProfile),
-  },
-  {
-    path: ':athleteId/compare',
-    loadChildren: () => import('../compare/compare.routes'),
-  },
-  {
-    path: ':athleteId/assessments',
-    loadChildren: () => import('../assessments/assessments.routes'),
   },
 ] satisfies Routes;

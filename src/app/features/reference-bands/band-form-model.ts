@@ -4,7 +4,7 @@
  */
 import { AbstractControl, FormControl, FormGroup, ValidationErrors, ValidatorFn, Validators } from '@angular/forms';
 import type { MeasureKey, ReferenceBand } from '../../../contracts/measures';
-import type { ReferenceBandWrite } from './reference-bands-api';
+import type { ReferenceBandWrite } from '../../core/data/reference-bands-api';
 
 /** On-screen names of the measures a band can belong to. */
 export const MEASURE_LABELS: Record<MeasureKey, string> = {

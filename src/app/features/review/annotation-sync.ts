@@ -4,7 +4,7 @@ import { asHttpError, errorCode, errorMessage, errorStatus } from '../../core/ap
 import { AuthStore } from '../../core/auth-store';
 import { AnnotationState, mergeOnto, sameState, stateOf } from './annotation-changes';
 import { SAVE_DEBOUNCE_MS, SaveState, conflictMessage, isRetryableStatus, retryDelayMs } from './autosave';
-import { ReviewApi } from './review-api';
+import { ReviewApi } from '../../core/data/review-api';
 
 /** What the sync needs from the page holding the edits. */
 export interface SyncHost {

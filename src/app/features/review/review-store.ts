@@ -24,7 +24,7 @@ import type { LandmarkRef } from './hit-test';
 import type { ReviewTool } from './key-map';
 import { DEFAULT_REFERENCE_BANDS, computeClipMeasures, validateEvents } from './kinematics-adapter';
 import { PlaybackRate, clampFrame, playbackFrame, realTimestamps, stepRate } from './playback';
-import type { ClipManifest } from './review-api';
+import type { ClipManifest } from '../../core/data/review-api';
 
 /** Everything about the clip the workspace needs, fixed while it is open. */
 export interface ReviewClip {

@@ -5,7 +5,7 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
 import type { AssessmentDetail, Clip } from '../../../../contracts/api';
 import { AuthStore } from '../../../core/auth-store';
-import { EVENT_SOURCE_FACTORY } from '../assessments-api';
+import { EVENT_SOURCE_FACTORY } from '../../../core/data/assessments-api';
 import { AssessmentClips, upsertClip } from './assessment-clips';
 
 /** Stands in for the browser's EventSource. */

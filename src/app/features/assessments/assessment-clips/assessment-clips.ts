@@ -8,7 +8,7 @@ import type { AssessmentDetail, Clip } from '../../../../contracts/api';
 import { AuthStore } from '../../../core/auth-store';
 import { LeaveWarning } from '../../../core/leave-guard';
 import { EmptyState } from '../../../shared/states/empty-state';
-import { AssessmentsApi } from '../assessments-api';
+import { AssessmentsApi } from '../../../core/data/assessments-api';
 import { CameraGuide } from '../camera-guide/camera-guide';
 import { ClipCard } from '../clip-card/clip-card';
 import { ClipUploader } from '../clip-uploader/clip-uploader';

@@ -17,12 +17,12 @@ import { AuthStore } from '../../../core/auth-store';
 import { LeaveGuarded, LeaveWarning, warnBeforeUnload } from '../../../core/leave-guard';
 import { ConfirmDialog, ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { ErrorState } from '../../../shared/states/error-state';
-import { AthletesApi } from '../../athletes/athletes-api';
-import { fullName } from '../../athletes/roster';
+import { AthletesApi } from '../../../core/data/athletes-api';
+import { fullName } from '../../../core/data/roster';
 import { AssessmentClips, UPLOADS_RUNNING_WARNING } from '../assessment-clips/assessment-clips';
-import { AssessmentDialog, AssessmentDialogData } from '../assessment-dialog/assessment-dialog';
+import { AssessmentDialog, AssessmentDialogData } from '../../../shared/assessment-dialog/assessment-dialog';
 import { AssessmentFacts } from '../assessment-facts';
-import { AssessmentsApi } from '../assessments-api';
+import { AssessmentsApi } from '../../../core/data/assessments-api';
 
 /** `/athletes/:athleteId/assessments/:id`: one visit's facts, camera guidance and clips (staff). */
 @Component({

@@ -14,8 +14,8 @@ import type { Clip, ClipUpdate } from '../../../../contracts/api';
 import { CAPTURE_FPS_LIMITS, DIRECTIONS, DIRECTION_LABELS, Direction, SIDES, Side } from '../../../../contracts/assessment';
 import { errorMessage } from '../../../core/api-error';
 import { ConfirmDialog, ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
-import { AssessmentsApi, clipMedia } from '../assessments-api';
-import { clipFacts, clipStatusView, imageBox, isProcessing, readCaptureFps } from '../clip-status';
+import { AssessmentsApi, clipMedia } from '../../../core/data/assessments-api';
+import { clipFacts, clipStatusView, imageBox, isProcessing, readCaptureFps } from '../../../shared/clip-status';
 
 const SIDE_LABELS: Record<Side, string> = { left: 'Left', right: 'Right' };
 

@@ -5,8 +5,8 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { Subscription } from 'rxjs';
 import type { Clip } from '../../../../contracts/api';
 import { UPLOAD } from '../../../../contracts/assessment';
-import { AssessmentsApi } from '../assessments-api';
-import { formatBytes } from '../clip-status';
+import { AssessmentsApi } from '../../../core/data/assessments-api';
+import { formatBytes } from '../../../shared/clip-status';
 import { ConfigStore } from '../../../core/config-store';
 import {
   UploadItem,

@@ -15,7 +15,7 @@ import { errorStatus, fieldProblems } from '../../../core/api-error';
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { athleteIdentityControls, identityPayload } from '../athlete-form-fields';
-import { AthletesApi } from '../athletes-api';
+import { AthletesApi } from '../../../core/data/athletes-api';
 
 /** "Edit details": names, e-mail, coach and coach notes. Closes with the updated athlete. */
 @Component({

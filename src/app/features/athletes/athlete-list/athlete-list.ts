@@ -17,10 +17,10 @@ import { PAIN_CAUTION } from '../../../shared/caution';
 import { CautionNote } from '../../../shared/caution-note/caution-note';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
-import { PlanAlertChip } from '../../plans/plan-alert-chip/plan-alert-chip';
-import { PlansApi } from '../../plans/plans-api';
-import { AthletesApi } from '../athletes-api';
-import { ACCOUNT_STATE_LABELS, RosterSort, accountState, fullName, rosterMatches, sortRoster } from '../roster';
+import { PlanAlertChip } from '../plan-alert-chip/plan-alert-chip';
+import { PlansApi } from '../../../core/data/plans-api';
+import { AthletesApi } from '../../../core/data/athletes-api';
+import { ACCOUNT_STATE_LABELS, RosterSort, accountState, fullName, rosterMatches, sortRoster } from '../../../core/data/roster';
 
 const PHONE = '(max-width: 599.98px)';
 const ALL_COLUMNS = ['name', 'goal', 'coach', 'account', 'consent', 'pain', 'updated'];

@@ -19,7 +19,7 @@ import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { notFutureDate } from '../../../shared/forms/validators';
 import { athleteIdentityControls, identityPayload } from '../athlete-form-fields';
-import { AthletesApi } from '../athletes-api';
+import { AthletesApi } from '../../../core/data/athletes-api';
 
 /** `/athletes/new`: adds an athlete to the roster and opens their profile. */
 @Component({

@@ -51,7 +51,7 @@ import { CautionNote } from '../../../shared/caution-note/caution-note';
 import { toIsoMonth } from '../../../shared/dates';
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
-import { AthletesApi } from '../athletes-api';
+import { AthletesApi } from '../../../core/data/athletes-api';
 import {
   createInjuryRow,
   createIntakeForm,

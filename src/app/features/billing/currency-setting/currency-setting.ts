@@ -7,7 +7,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { firstValueFrom } from 'rxjs';
 import { CURRENCIES, type Currency } from '../../../../contracts/billing';
 import { errorMessage } from '../../../core/api-error';
-import { BillingApi } from '../billing-api';
+import { BillingApi } from '../../../core/data/billing-api';
 
 let nextId = 0;
 

@@ -14,14 +14,14 @@ import type { InvoiceDetail } from '../../../../contracts/billing';
 import { errorMessage } from '../../../core/api-error';
 import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { ErrorState } from '../../../shared/states/error-state';
-import { AthletesApi } from '../../athletes/athletes-api';
-import { InvitePrompt } from '../../athletes/invite-prompt/invite-prompt';
-import { BillingApi } from '../billing-api';
+import { AthletesApi } from '../../../core/data/athletes-api';
+import { InvitePrompt } from '../../../shared/invite-prompt/invite-prompt';
+import { BillingApi } from '../../../core/data/billing-api';
 import { InvoiceLinesTable } from '../invoice-lines-table/invoice-lines-table';
 import { InvoiceStatusBadge } from '../invoice-status/invoice-status';
 import { InvoiceSeller } from '../invoice-seller/invoice-seller';
 import { PaymentDialog, type PaymentDialogData } from '../payment-dialog/payment-dialog';
-import { PAYMENT_METHOD_WORDS, money, paidText } from '../billing-words';
+import { PAYMENT_METHOD_WORDS, money, paidText } from '../../../shared/billing-words';
 
 type Action = 'issue' | 'cancel' | 'refund';
 

@@ -21,10 +21,10 @@ import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { requiredTrimmed } from '../../../shared/forms/validators';
 import { ErrorState } from '../../../shared/states/error-state';
-import { AssessmentsApi } from '../../assessments/assessments-api';
-import { AthletesApi } from '../../athletes/athletes-api';
-import { BillingApi } from '../billing-api';
-import { money } from '../billing-words';
+import { AssessmentsApi } from '../../../core/data/assessments-api';
+import { AthletesApi } from '../../../core/data/athletes-api';
+import { BillingApi } from '../../../core/data/billing-api';
+import { money } from '../../../shared/billing-words';
 import { amountValidator, taxValidator } from '../price-list/price-list';
 import {
   formFromInvoice,

@@ -1,5 +1,5 @@
 import { invoiceTotals, type InvoiceDetail, type InvoiceLine, type InvoiceLineWrite, type Price } from '../../../../contracts/billing';
-import { amountText, parseAmount, parseTaxPercent } from '../billing-words';
+import { amountText, parseAmount, parseTaxPercent } from '../../../shared/billing-words';
 
 /** One line as the form holds it (amounts as typed). */
 export interface LineDraft {

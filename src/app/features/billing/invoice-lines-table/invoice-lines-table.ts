@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, input } from '@angular/core';
 import type { InvoiceDetail } from '../../../../contracts/billing';
-import { lineDetail, money, taxText } from '../billing-words';
+import { lineDetail, money, taxText } from '../../../shared/billing-words';
 
 /** An invoice's lines with the server's per-line amounts and the totals beneath. */
 @Component({

@@ -16,9 +16,9 @@ import { errorMessage } from '../../../core/api-error';
 import { toIsoDate } from '../../../shared/dates';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
-import { AthletesApi } from '../../athletes/athletes-api';
-import { BillingApi } from '../billing-api';
-import { money, STATUS_WORDS } from '../billing-words';
+import { AthletesApi } from '../../../core/data/athletes-api';
+import { BillingApi } from '../../../core/data/billing-api';
+import { money, STATUS_WORDS } from '../../../shared/billing-words';
 import { InvoiceStatusBadge } from '../invoice-status/invoice-status';
 
 /** `/billing/invoices` (owner): the clinic's invoices, filtered by status, athlete and date, with totals. */

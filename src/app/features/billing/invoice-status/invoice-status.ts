@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
 import type { InvoiceStatus } from '../../../../contracts/billing';
-import { STATUS_WORDS } from '../billing-words';
+import { STATUS_WORDS } from '../../../shared/billing-words';
 
 /** A small status badge: icon and word (never colour alone). */
 @Component({

@@ -13,8 +13,8 @@ import { PAYMENT_NOTE_MAX, type InvoiceDetail, type ManualPaymentMethod } from '
 import { parseIsoDate, toIsoDate } from '../../../shared/dates';
 import { errorText } from '../../../shared/forms/error-text';
 import { saveProblem } from '../../../shared/forms/server-errors';
-import { BillingApi } from '../billing-api';
-import { money } from '../billing-words';
+import { BillingApi } from '../../../core/data/billing-api';
+import { money } from '../../../shared/billing-words';
 
 /** What the dialog does: record a received payment, or a refund of one (with a note). */
 export interface PaymentDialogData {

@@ -8,8 +8,8 @@ import { RouterLink } from '@angular/router';
 import { errorMessage } from '../../../core/api-error';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
-import { BillingApi } from '../billing-api';
-import { money } from '../billing-words';
+import { BillingApi } from '../../../core/data/billing-api';
+import { money } from '../../../shared/billing-words';
 import { InvoiceStatusBadge } from '../invoice-status/invoice-status';
 
 /** `/portal/invoices` (athlete): their invoices, newest first; open ones can be paid by card. */

@@ -19,8 +19,8 @@ import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { requiredTrimmed } from '../../../shared/forms/validators';
 import { ErrorState } from '../../../shared/states/error-state';
-import { BillingApi } from '../billing-api';
-import { amountText, money, parseAmount, parseTaxPercent, taxText } from '../billing-words';
+import { BillingApi } from '../../../core/data/billing-api';
+import { amountText, money, parseAmount, parseTaxPercent, taxText } from '../../../shared/billing-words';
 import { CurrencySetting } from '../currency-setting/currency-setting';
 
 /** An amount with at most two decimals, more than zero. */

@@ -37,12 +37,12 @@ import { pageTakesKey, type FocusTarget } from '../../../shared/keys/key-routing
 import { listenToPageKeys } from '../../../shared/keys/page-keys';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
-import { AssessmentsApi } from '../../assessments/assessments-api';
-import { AthletesApi } from '../../athletes/athletes-api';
-import { fullName } from '../../athletes/roster';
-import { ClipManifest, ReviewApi } from '../../review/review-api';
+import { AssessmentsApi } from '../../../core/data/assessments-api';
+import { AthletesApi } from '../../../core/data/athletes-api';
+import { fullName } from '../../../core/data/roster';
+import { ClipManifest, ReviewApi } from '../../../core/data/review-api';
 import { GHOST_COLOURS, OVERLAY_COLOURS } from '../../../../kinematics';
-import { openSaveStill } from '../../stills/save-still-dialog/save-still-dialog';
+import { openSaveStill } from '../../../shared/sharing/save-still-dialog/save-still-dialog';
 import { CompareApi } from '../compare-api';
 import { drawCompareFrame } from '../compare-canvas';
 import {

@@ -3,7 +3,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import type { Dose, Exercise } from '../../../../contracts/plans';
 import { EXERCISE_REGION_LABELS, LOADING_KIND_LABELS } from '../../../../contracts/plans';
-import { doseParts } from '../plan-words';
+import { doseParts } from '../../../shared/plan-words';
 
 let nextId = 0;
 

@@ -14,9 +14,9 @@ import { errorCode, errorMessage, errorStatus, fieldProblems } from '../../../co
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { DoseFields } from '../dose-fields/dose-fields';
-import { PlanCaution } from '../plan-caution/plan-caution';
+import { PlanCaution } from '../../../shared/plan-caution/plan-caution';
 import { createExerciseForm, exerciseFromForm } from '../plan-form-model';
-import { PlansApi } from '../plans-api';
+import { PlansApi } from '../../../core/data/plans-api';
 
 /** "New exercise" / "Edit exercise" of the library. Closes with the exercise as saved. */
 @Component({

@@ -18,8 +18,8 @@ import { ErrorState } from '../../../shared/states/error-state';
 import { ExerciseCard } from '../exercise-card/exercise-card';
 import { ExerciseDialog } from '../exercise-dialog/exercise-dialog';
 import { exerciseFilters } from '../exercise-filters';
-import { PlanCaution } from '../plan-caution/plan-caution';
-import { PlansApi } from '../plans-api';
+import { PlanCaution } from '../../../shared/plan-caution/plan-caution';
+import { PlansApi } from '../../../core/data/plans-api';
 
 /** `/exercises`: the clinic's exercise library — search, filter by region and loading, add, edit, archive. */
 @Component({

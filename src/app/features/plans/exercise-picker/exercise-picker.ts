@@ -13,8 +13,8 @@ import { errorMessage } from '../../../core/api-error';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
 import { exerciseFilters } from '../exercise-filters';
-import { formatDose } from '../plan-words';
-import { PlansApi } from '../plans-api';
+import { formatDose } from '../../../shared/plan-words';
+import { PlansApi } from '../../../core/data/plans-api';
 
 export interface ExercisePickerData {
   /** Where the exercise goes, for the title (e.g. the stage name). */

@@ -13,7 +13,7 @@ import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-erro
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { wholeNumber } from '../plan-form-model';
-import { PlansApi } from '../plans-api';
+import { PlansApi } from '../../../core/data/plans-api';
 
 /** Edits a plan's pain-monitoring rule. Closes with the plan as saved. */
 @Component({

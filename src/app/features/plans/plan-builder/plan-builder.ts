@@ -21,12 +21,12 @@ import { LeaveGuarded, LeaveWarning, UNSAVED_CHANGES_WARNING, warnBeforeUnload }
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { ErrorState } from '../../../shared/states/error-state';
-import { AssessmentsApi } from '../../assessments/assessments-api';
-import { AthletesApi } from '../../athletes/athletes-api';
-import { fullName } from '../../athletes/roster';
+import { AssessmentsApi } from '../../../core/data/assessments-api';
+import { AthletesApi } from '../../../core/data/athletes-api';
+import { fullName } from '../../../core/data/roster';
 import { DoseFields } from '../dose-fields/dose-fields';
 import { ExercisePicker, ExercisePickerData } from '../exercise-picker/exercise-picker';
-import { PlanCaution } from '../plan-caution/plan-caution';
+import { PlanCaution } from '../../../shared/plan-caution/plan-caution';
 import {
   PlanForm,
   StageGroup,
@@ -40,7 +40,7 @@ import {
   stageGroup,
   threeStageTemplate,
 } from '../plan-form-model';
-import { PlansApi } from '../plans-api';
+import { PlansApi } from '../../../core/data/plans-api';
 
 const CRITERION_OPTION_LABELS: Record<ProgressionCriterionKind, string> = {
   pain_during_at_most: 'Pain during at most …',

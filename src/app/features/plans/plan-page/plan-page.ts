@@ -17,16 +17,16 @@ import { describeCriterion } from '../../../../plans-rules';
 import { errorMessage, errorStatus } from '../../../core/api-error';
 import { ConfirmDialog, ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { ErrorState } from '../../../shared/states/error-state';
-import { AthletesApi } from '../../athletes/athletes-api';
-import { InvitePrompt } from '../../athletes/invite-prompt/invite-prompt';
-import { fullName } from '../../athletes/roster';
+import { AthletesApi } from '../../../core/data/athletes-api';
+import { InvitePrompt } from '../../../shared/invite-prompt/invite-prompt';
+import { fullName } from '../../../core/data/roster';
 import { AdherenceList } from '../adherence-list/adherence-list';
 import { ExerciseCard } from '../exercise-card/exercise-card';
 import { PainChart } from '../pain-chart/pain-chart';
 import { PainRuleDialog } from '../pain-rule-dialog/pain-rule-dialog';
-import { PlanCaution } from '../plan-caution/plan-caution';
-import { startPlanMessage, statusClass } from '../plan-words';
-import { PlansApi } from '../plans-api';
+import { PlanCaution } from '../../../shared/plan-caution/plan-caution';
+import { startPlanMessage, statusClass } from '../../../shared/plan-words';
+import { PlansApi } from '../../../core/data/plans-api';
 
 const CONFIRM: Partial<Record<PlanAction, (p: PlanDetail, next: PlanStage | null, athlete: AthleteSummary | null) => ConfirmDialogData>> = {
   start: (p, _next, athlete) => ({ title: 'Start this plan?', message: startPlanMessage(p.title, athlete), confirmLabel: 'Start plan' }),

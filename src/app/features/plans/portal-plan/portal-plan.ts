@@ -21,12 +21,12 @@ import { errorText } from '../../../shared/forms/error-text';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
 import { ExerciseCard } from '../exercise-card/exercise-card';
-import { LogOutbox } from '../log-outbox';
-import { retargetLog } from '../log-outbox-queue';
-import { PlanCaution } from '../plan-caution/plan-caution';
-import { morningCheckDue, newLogKey, runningPlan } from '../plan-words';
-import { PlansApi } from '../plans-api';
-import { entriesForMorning, historyRows, sessionLoggedOn } from './portal-log';
+import { LogOutbox } from '../../../core/data/log-outbox';
+import { retargetLog } from '../../../core/data/log-outbox-queue';
+import { PlanCaution } from '../../../shared/plan-caution/plan-caution';
+import { morningCheckDue, newLogKey, runningPlan } from '../../../shared/plan-words';
+import { PlansApi } from '../../../core/data/plans-api';
+import { entriesForMorning, historyRows, sessionLoggedOn } from '../../../core/data/portal-log';
 
 const PAIN_SCALE = Array.from({ length: 11 }, (_, i) => i);
 

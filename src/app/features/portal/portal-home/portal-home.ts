@@ -4,10 +4,10 @@ import { MatCardModule } from '@angular/material/card';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
 import { AuthStore } from '../../../core/auth-store';
-import { AssessmentList } from '../../assessments/assessment-list/assessment-list';
-import { InvoicesDue } from '../../billing/invoices-due/invoices-due';
-import { PortalPlanCard } from '../../plans/portal-plan-card/portal-plan-card';
-import { PortalShared } from '../../stills/portal-shared/portal-shared';
+import { AssessmentList } from '../../../shared/assessment-list/assessment-list';
+import { InvoicesDue } from '../invoices-due/invoices-due';
+import { PortalPlanCard } from '../portal-plan-card/portal-plan-card';
+import { PortalShared } from '../../../shared/sharing/portal-shared/portal-shared';
 
 /** `/portal`: the athlete's home page. */
 @Component({

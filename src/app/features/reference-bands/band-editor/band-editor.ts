@@ -15,7 +15,7 @@ import { ConfirmDialog, ConfirmDialogData } from '../../../shared/confirm-dialog
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { BAND_TEXT_LIMITS, EVIDENCE_OPTIONS, MEASURE_LABELS, bandForm, bandWrite } from '../band-form-model';
-import { ReferenceBandsApi } from '../reference-bands-api';
+import { ReferenceBandsApi } from '../../../core/data/reference-bands-api';
 
 /** One reference band as an editable card: limits, unit, context, source, evidence; save or reset. */
 @Component({

@@ -9,10 +9,10 @@ import type { MeasureKey, ReferenceBand } from '../../../../contracts/measures';
 import { errorMessage } from '../../../core/api-error';
 import { ErrorState } from '../../../shared/states/error-state';
 import { MEASURES_CAUTION } from '../../../shared/caution';
-import { DEFAULT_REFERENCE_BANDS } from '../../review/kinematics-adapter';
+import { DEFAULT_REFERENCE_BANDS } from '../../../../kinematics';
 import { BandEditor } from '../band-editor/band-editor';
 import { MEASURE_KEYS, MEASURE_LABELS, blankBand, hasDefault, isDefaultBand, sortBands } from '../band-form-model';
-import { ReferenceBandsApi } from '../reference-bands-api';
+import { ReferenceBandsApi } from '../../../core/data/reference-bands-api';
 
 /**
  * `/settings/reference-bands` (owner): the bands the clinic's measures are read against, each with

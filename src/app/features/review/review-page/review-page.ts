@@ -24,11 +24,11 @@ import { listenToPageKeys } from '../../../shared/keys/page-keys';
 import type { FocusTarget } from '../../../shared/keys/key-routing';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
-import { AssessmentsApi } from '../../assessments/assessments-api';
-import { clipStatusView } from '../../assessments/clip-status';
-import { AthletesApi } from '../../athletes/athletes-api';
-import { fullName } from '../../athletes/roster';
-import { ReferenceBandsApi } from '../../reference-bands/reference-bands-api';
+import { AssessmentsApi } from '../../../core/data/assessments-api';
+import { clipStatusView } from '../../../shared/clip-status';
+import { AthletesApi } from '../../../core/data/athletes-api';
+import { fullName } from '../../../core/data/roster';
+import { ReferenceBandsApi } from '../../../core/data/reference-bands-api';
 import { AngleChart } from '../angle-chart/angle-chart';
 import { AnnotationSync } from '../annotation-sync';
 import { SAVE_STATE_ICONS, SAVE_STATE_LABELS } from '../autosave';
@@ -42,10 +42,10 @@ import { DEFAULT_REFERENCE_BANDS } from '../kinematics-adapter';
 import { LandmarksPanel } from '../landmarks-panel/landmarks-panel';
 import { MeasuresPanel } from '../measures-panel/measures-panel';
 import { PLAYBACK_RATES, PLAYBACK_RATE_LABELS, PlaybackRate, formatMs } from '../playback';
-import { ClipManifest, ReviewApi } from '../review-api';
+import { ClipManifest, ReviewApi } from '../../../core/data/review-api';
 import { ReviewStore } from '../review-store';
 import { ScalePanel } from '../scale-panel/scale-panel';
-import { openSaveStill } from '../../stills/save-still-dialog/save-still-dialog';
+import { openSaveStill } from '../../../shared/sharing/save-still-dialog/save-still-dialog';
 
 /** What the page loads before the workspace opens. */
 type Loaded =

@@ -1,0 +1,132 @@
+import type { SessionUser } from '../../src/contracts/api';
+import type { PlanDetail, PlanSummary } from '../../src/contracts/plans';
+import { audit } from '../audit/audit-log';
+import { ConflictError, ValidationError } from '../errors';
+import { accessibleAthlete } from '../policy/athlete-resources';
+import { listGrant } from '../policy/enforce';
+import type { PlanContext } from './plan-context';
+import { checkAssessment, checkExercises, checkStageExerciseIds, writeStages, type PlanProblem } from './plan-stages';
+import { plansRepository as repo } from './plans-repository';
+import type { PlanInput } from './plans-schemas';
+
+/** A plan's content: the athlete's plans, one plan, and writing its stages and exercises. */
+export interface PlanContentService {
+  /** The athlete's plans, newest first (an athlete sees no drafts). */
+  list(user: SessionUser, athleteId: number): Promise<PlanSummary[]>;
+  get(user: SessionUser, id: number): Promise<PlanDetail>;
+  /** A draft with its stages, exercises, doses and criteria, in one transaction. */
+  create(user: SessionUser, athleteId: number, input: PlanInput): Promise<PlanDetail>;
+  /** Replaces title, link, notes and stages. Stages with logs (or the current one) must stay. */
+  replace(user: SessionUser, id: number, input: PlanInput): Promise<PlanDetail>;
+  /** Deletes a draft (409 `plan_not_draft` otherwise). */
+  remove(user: SessionUser, id: number): Promise<void>;
+}
+
+export function planContentService(ctx: PlanContext): PlanContentService {
+  const { db } = ctx;
+  return {
+    async list(user, athleteId) {
+      await accessibleAthlete(db, user, athleteId, 'plan:list');
+      const includeDrafts = !listGrant(user, 'plan:list').when.includes('not-draft');
+      return ctx.summaries(await repo.listForAthlete(db, athleteId, includeDrafts));
+    },
+
+    get: (user, id) => ctx.get(user, id),
+
+    async create(user, athleteId, input) {
+      await accessibleAthlete(db, user, athleteId, 'plan:create');
+      await checkAssessment(db, user.clinicId, athleteId, input.assessmentId);
+      if (input.stages.some((s) => s.id !== undefined)) {
+        const i = input.stages.findIndex((s) => s.id !== undefined);
+        throw new ValidationError('A new plan has no stage ids yet.', [
+          { path: ['stages', i, 'id'], message: 'Leave the id out for a new stage.' },
+        ]);
+      }
+      const idProblems = checkStageExerciseIds(input, []);
+      if (idProblems.length) throw new ValidationError(`Stages: ${idProblems[0]!.message}`, idProblems);
+      await checkExercises(db, user.clinicId, input, new Set());
+      const at = ctx.now();
+      const id = await db.transaction(async (trx) => {
+        const planId = await repo.insert(trx, {
+          clinic_id: user.clinicId,
+          athlete_id: athleteId,
+          assessment_id: input.assessmentId,
+          title: input.title,
+          status: 'draft',
+          current_stage_id: null,
+          notes: input.notes,
+          started_at: null,
+          finished_at: null,
+          created_by: user.id,
+          created_at: at,
+          updated_at: at,
+        });
+        await writeStages(trx, user.clinicId, planId, input, [], [], at);
+        await repo.putRule(trx, user.clinicId, planId, repo.ruleDefault(), user.id, at);
+        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId, action: 'plan.created', detail: { planId } }, at);
+        return planId;
+      });
+      return ctx.get(user, id);
+    },
+
+    async replace(user, id, input) {
+      const plan = await ctx.accessiblePlan(user, id, 'plan:update');
+      if (plan.status === 'finished') throw new ConflictError('This plan is finished; start a new plan instead.', 'plan_finished');
+      await checkAssessment(db, user.clinicId, plan.athlete_id, input.assessmentId);
+      const existing = await repo.stages(db, [id]);
+      const problems: PlanProblem[] = [];
+      input.stages.forEach((s, i) => {
+        if (s.id !== undefined && !existing.some((e) => e.id === s.id))
+          problems.push({ path: ['stages', i, 'id'], message: 'This stage is not part of the plan.' });
+      });
+      if (
+        new Set(input.stages.map((s) => s.id).filter((x) => x !== undefined)).size !== input.stages.filter((s) => s.id !== undefined).length
+      ) {
+        problems.push({ path: ['stages'], message: 'A stage appears twice.' });
+      }
+      const existingItems = await repo.stageExercises(
+        db,
+        existing.map((s) => s.id),
+      );
+      problems.push(...checkStageExerciseIds(input, existingItems));
+      if (problems.length) throw new ValidationError(`Stages: ${problems[0]!.message}`, problems);
+      const kept = new Set(input.stages.map((s) => s.id));
+      const removed = existing.filter((s) => !kept.has(s.id));
+      const counts = await repo.logCountByStage(
+        db,
+        removed.map((s) => s.id),
+      );
+      const blocked = removed.find((s) => s.id === plan.current_stage_id || (counts.get(s.id) ?? 0) > 0 || s.started_at !== null);
+      if (blocked)
+        throw new ConflictError(`Stage “${blocked.name}” has started or has log entries, so it cannot be removed.`, 'stage_in_use');
+      const used = new Set(existingItems.map((e) => e.exercise_id));
+      await checkExercises(db, user.clinicId, input, used);
+      const at = ctx.now();
+      await db.transaction(async (trx) => {
+        await repo.update(trx, id, { title: input.title, assessment_id: input.assessmentId, notes: input.notes, updated_at: at });
+        await writeStages(trx, user.clinicId, id, input, existing, existingItems, at);
+        await audit(
+          trx,
+          { clinicId: user.clinicId, actorId: user.id, athleteId: plan.athlete_id, action: 'plan.updated', detail: { planId: id } },
+          at,
+        );
+      });
+      return ctx.get(user, id);
+    },
+
+    async remove(user, id) {
+      const plan = await ctx.accessiblePlan(user, id, 'plan:delete');
+      if (plan.status !== 'draft') throw new ConflictError('Only a draft plan can be deleted; finish this one instead.', 'plan_not_draft');
+      await db.transaction(async (trx) => {
+        await trx('plans').where({ id }).delete();
+        await audit(trx, {
+          clinicId: user.clinicId,
+          actorId: user.id,
+          athleteId: plan.athlete_id,
+          action: 'plan.deleted',
+          detail: { planId: id },
+        });
+      });
+    },
+  };
+}

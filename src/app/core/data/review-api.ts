@@ -1,0 +1,46 @@
+import { HttpClient } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import { Observable } from 'rxjs';
+import type { ClipAnnotations, ClipAnnotationsWrite } from '../../../contracts/annotations';
+import type { ClipMeasures } from '../../../contracts/measures';
+import type { FrameManifest } from '../../../contracts/api';
+import { skipErrorSnackbar } from '../http-context';
+
+/** The frame manifest as `GET /api/clips/:id/manifest` sends it (shape shared with the server). */
+export type ClipManifest = FrameManifest;
+
+/**
+ * HTTP for the review workspace: frames, manifest, annotations and the server's measures. Pages
+ * show load failures in their own error states; saves report through the save indicator, so none
+ * of these raise the error snackbar.
+ */
+@Injectable({ providedIn: 'root' })
+export class ReviewApi {
+  private readonly http = inject(HttpClient);
+
+  manifest(clipId: number): Observable<ClipManifest> {
+    return this.http.get<ClipManifest>(`/api/clips/${clipId}/manifest`, { context: skipErrorSnackbar() });
+  }
+
+  /** One working frame as JPEG (0-based). Unsubscribing aborts the request. */
+  frame(clipId: number, n: number): Observable<Blob> {
+    return this.http.get(`/api/clips/${clipId}/frames/${n}`, { responseType: 'blob', context: skipErrorSnackbar() });
+  }
+
+  annotations(clipId: number): Observable<ClipAnnotations> {
+    return this.http.get<ClipAnnotations>(`/api/clips/${clipId}/annotations`, { context: skipErrorSnackbar() });
+  }
+
+  /**
+   * Saves everything marked on the clip. Answers the new revision; 409 `stale_revision` (with
+   * `details.current`) when someone saved since `baseRevision`; 422 with details when invalid.
+   */
+  saveAnnotations(clipId: number, body: ClipAnnotationsWrite): Observable<ClipAnnotations> {
+    return this.http.put<ClipAnnotations>(`/api/clips/${clipId}/annotations`, body, { context: skipErrorSnackbar() });
+  }
+
+  /** The measures the server stored when the annotations last changed. */
+  measures(clipId: number): Observable<ClipMeasures> {
+    return this.http.get<ClipMeasures>(`/api/clips/${clipId}/measures`, { context: skipErrorSnackbar() });
+  }
+}
