@@ -1,9 +1,10 @@
 /**
- * `npm test` after bootstrap: type-checks, the app build, server tests, client unit tests and
+ * `npm test` after bootstrap: lint, format check, type-checks, the app build, server tests, client unit tests and
  * browser tests, one after another; prints each suite's count and ends with the line
  * `N passed, N failed`. Exits non-zero when anything failed.
  */
 import { spawn } from 'node:child_process';
+import { stripVTControlCharacters } from 'node:util';
 
 interface Step {
   name: string;
@@ -13,6 +14,8 @@ interface Step {
 }
 
 const STEPS: Step[] = [
+  { name: 'lint (eslint)', cmd: ['npx', 'eslint', '.'], vitest: false },
+  { name: 'format check (prettier)', cmd: ['npx', 'prettier', '--check', '.'], vitest: false },
   { name: 'type-check (server, scripts, tests)', cmd: ['npx', 'tsc', '-p', 'tsconfig.server.json'], vitest: false },
   { name: 'app build (strict templates, budgets)', cmd: ['npx', 'ng', 'build'], vitest: false },
   { name: 'server tests', cmd: ['npx', 'vitest', 'run', '--config', 'vitest.server.config.ts'], vitest: true },
@@ -41,7 +44,7 @@ function run(step: Step): Promise<{ code: number; output: string }> {
 
 /** Reads vitest's "Tests  3 failed | 40 passed (43)" line. */
 export function vitestCounts(output: string): { passed: number; failed: number } | null {
-  const plain = output.replace(/\x1b\[[0-9;]*m/g, '');
+  const plain = stripVTControlCharacters(output);
   const line = plain
     .split('\n')
     .reverse()

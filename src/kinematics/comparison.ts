@@ -7,7 +7,6 @@
  * rounding rule of `format.ts`), so a change shown as +3.8° against a ±3.8° threshold is within,
  * never "beyond" beside a number that equals the threshold.
  */
-import type { Side } from '../contracts/assessment';
 import type {
   BetterDirection,
   ChangeDirection,

@@ -81,12 +81,30 @@ export function angleSamples(store: FrameStore, clock: FrameClock): AngleSample[
       if (!a) continue;
       const s: AngleSample = { frame: f, timeMs: Number.isFinite(timeMs) ? timeMs : 0, side };
       let n = 0;
-      if (a.thighDeg !== undefined) ((s.thighDeg = a.thighDeg), n++);
-      if (a.kneeFlexionDeg !== undefined) ((s.kneeFlexionDeg = a.kneeFlexionDeg), n++);
-      if (a.shankDeg !== undefined) ((s.shankDeg = a.shankDeg), n++);
-      if (a.trunkDeg !== undefined) ((s.trunkDeg = a.trunkDeg), n++);
-      if (a.footDeg !== undefined) ((s.footDeg = a.footDeg), n++);
-      if (a.hipRelTrunkDeg !== undefined) ((s.hipRelTrunkDeg = a.hipRelTrunkDeg), n++);
+      if (a.thighDeg !== undefined) {
+        s.thighDeg = a.thighDeg;
+        n++;
+      }
+      if (a.kneeFlexionDeg !== undefined) {
+        s.kneeFlexionDeg = a.kneeFlexionDeg;
+        n++;
+      }
+      if (a.shankDeg !== undefined) {
+        s.shankDeg = a.shankDeg;
+        n++;
+      }
+      if (a.trunkDeg !== undefined) {
+        s.trunkDeg = a.trunkDeg;
+        n++;
+      }
+      if (a.footDeg !== undefined) {
+        s.footDeg = a.footDeg;
+        n++;
+      }
+      if (a.hipRelTrunkDeg !== undefined) {
+        s.hipRelTrunkDeg = a.hipRelTrunkDeg;
+        n++;
+      }
       if (n > 0) angles.push(s);
     }
   }

@@ -6,7 +6,7 @@ const AXE_SOURCE = fs.readFileSync(createRequire(import.meta.url).resolve('axe-c
 
 /**
  * axe-core's (npm) critical and serious violations on the page (or inside `within`), in words,
- * once the page's animations have settled.
+ * once the page's animations have settled and its fonts have loaded.
  */
 export async function axeProblems(page: Page, within?: string): Promise<string[]> {
   // Colours are judged at rest: wait for running CSS animations and transitions (a dialog fading in).
@@ -17,6 +17,9 @@ export async function axeProblems(page: Page, within?: string): Promise<string[]
       { timeout: 5_000 },
     )
     .catch(() => undefined);
+  // Icons are judged as the icon font draws them: before it loads, a ligature reads as its word
+  // ("visibility") and a button named "Show password" would seem to show other words.
+  await page.evaluate(() => document.fonts.ready.then(() => undefined));
   // Evaluated through the browser's debugging protocol: the app's CSP rightly refuses inline scripts.
   await page.evaluate(AXE_SOURCE);
   const violations = await page.evaluate(async (sel) => {

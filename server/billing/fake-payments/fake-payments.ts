@@ -42,6 +42,16 @@ export interface FakeEvent {
   payload: string;
 }
 
+/** A checkout-session request as its form body decodes: every leaf a string, any of them missing. */
+interface CheckoutBody {
+  line_items?: { quantity?: string; price_data?: { unit_amount?: string; currency?: string; product_data?: { name?: string } } }[];
+  success_url?: string;
+  cancel_url?: string;
+  customer_email?: string;
+  client_reference_id?: string;
+  metadata?: Record<string, string>;
+}
+
 interface Session {
   id: string;
   object: 'checkout.session';
@@ -106,7 +116,7 @@ export async function startFakePayments(options: FakePaymentsOptions): Promise<F
   });
 
   app.post('/v1/checkout/sessions', (req, res) => {
-    const b = req.body as Record<string, any>;
+    const b = req.body as CheckoutBody;
     const item = b['line_items']?.[0];
     const amount = Number(item?.price_data?.unit_amount) * Number(item?.quantity ?? 1);
     const currency = String(item?.price_data?.currency ?? '');
@@ -124,7 +134,7 @@ export async function startFakePayments(options: FakePaymentsOptions): Promise<F
       currency,
       customer_email: b['customer_email'] ?? null,
       client_reference_id: b['client_reference_id'] ?? null,
-      metadata: (b['metadata'] as Record<string, string>) ?? {},
+      metadata: b['metadata'] ?? {},
       payment_intent: null,
       success_url: String(b['success_url']).replace('{CHECKOUT_SESSION_ID}', id),
       cancel_url: String(b['cancel_url']).replace('{CHECKOUT_SESSION_ID}', id),

@@ -71,8 +71,23 @@ export async function withRotateTag(src: string, file: string, rotate: number): 
   return file;
 }
 
+/** The fields of ffprobe's JSON output that the tests read, as ffprobe prints them. */
+export interface FfprobeJson {
+  streams: {
+    width: number;
+    height: number;
+    nb_frames: string;
+    nb_read_frames: string;
+    avg_frame_rate: string;
+    r_frame_rate: string;
+    side_data_list?: { rotation?: number }[];
+  }[];
+  frames: { best_effort_timestamp_time: string }[];
+  format: { format_name: string };
+}
+
 /** `ffprobe -of json` with extra arguments, parsed. */
-export async function ffprobeJson(file: string, args: string[]): Promise<any> {
+export async function ffprobeJson(file: string, args: string[]): Promise<FfprobeJson> {
   const { stdout } = await run(FFPROBE, ['-v', 'error', '-of', 'json', ...args, file], { maxBuffer: 64 << 20 });
   return JSON.parse(stdout);
 }
@@ -83,7 +98,7 @@ export async function ffprobeCounted(
 ): Promise<{ nbReadFrames: number; width: number; height: number; avgFrameRate: string; rFrameRate: string; rotation: number | null }> {
   const json = await ffprobeJson(file, ['-count_frames', '-select_streams', 'v:0', '-show_streams']);
   const s = json.streams[0];
-  const rotation = (s.side_data_list ?? []).find((d: any) => d.rotation !== undefined)?.rotation ?? null;
+  const rotation = (s.side_data_list ?? []).find((d) => d.rotation !== undefined)?.rotation ?? null;
   return {
     nbReadFrames: Number(s.nb_read_frames),
     width: s.width,
@@ -97,7 +112,7 @@ export async function ffprobeCounted(
 /** Outside reference: per-frame presentation times from ffprobe, in seconds. */
 export async function ffprobeFrameTimes(file: string): Promise<number[]> {
   const json = await ffprobeJson(file, ['-select_streams', 'v:0', '-show_entries', 'frame=best_effort_timestamp_time']);
-  return json.frames.map((f: any) => Number(f.best_effort_timestamp_time));
+  return json.frames.map((f) => Number(f.best_effort_timestamp_time));
 }
 
 /** Outside reference: ffmpeg's own decode of frame 0 (autorotated) as 8-bit grey pixels. */

@@ -9,7 +9,7 @@ describe('CurrencySetting', () => {
   let fixture: ComponentFixture<CurrencySetting>;
   let backend: HttpTestingController;
   /** The component's protected API. */
-  let setting: any;
+  let setting: { control: CurrencySetting['control']; save(): Promise<void> };
   const saved: string[] = [];
 
   const settle = async () => {
@@ -26,7 +26,7 @@ describe('CurrencySetting', () => {
     fixture = TestBed.createComponent(CurrencySetting);
     fixture.componentRef.setInput('currency', 'EUR');
     fixture.componentInstance.saved.subscribe((c) => saved.push(c));
-    setting = fixture.componentInstance;
+    setting = fixture.componentInstance as unknown as typeof setting;
     await settle();
   });
   afterEach(() => backend.verify());

@@ -3,12 +3,22 @@ import { HttpTestingController, provideHttpClientTesting } from '@angular/common
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter, Router, withComponentInputBinding } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
+import type { Assessment } from '../../../../contracts/api';
 import type { InvoiceDetail, Price } from '../../../../contracts/billing';
 import { toIsoDate } from '../../../shared/dates';
 import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
 import { InvoiceForm } from './invoice-form';
 
 const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+/** The component's protected API, for driving the form the way its template does. */
+interface FormApi {
+  form: InvoiceForm['form'];
+  lines: InvoiceForm['lines'];
+  pickPrice(i: number, priceId: number | null): void;
+  pickAssessment(a: Pick<Assessment, 'id' | 'kind'> | null): void;
+  save(): Promise<void>;
+}
 const PRICES: Price[] = [
   { id: 1, item: 'Gait assessment', description: '', amountMinor: 12000, currency: 'EUR', taxRateBp: 2000, archived: false },
   { id: 2, item: 'Re-test', description: '', amountMinor: 6500, currency: 'EUR', taxRateBp: 2000, archived: false },
@@ -18,8 +28,7 @@ describe('InvoiceForm', () => {
   let fixture: ComponentFixture<InvoiceForm>;
   let element: HTMLElement;
   let backend: HttpTestingController;
-  /** The component's protected API, for driving the form the way its template does. */
-  let form: any;
+  let form: FormApi;
 
   /** Lets signals, resources and the form settle (no whenStable: it would wait for open requests). */
   const settle = async () => {
@@ -37,7 +46,7 @@ describe('InvoiceForm', () => {
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(InvoiceForm);
     element = fixture.nativeElement;
-    form = fixture.componentInstance;
+    form = fixture.componentInstance as unknown as FormApi;
     fixture.detectChanges();
     await wait(10);
     backend.expectOne('/api/athletes').flush({ athletes: [{ id: 4, firstName: 'Ada', lastName: 'Kestrel' }] });
@@ -100,8 +109,7 @@ describe('InvoiceForm', () => {
 describe('InvoiceForm reached by address', () => {
   let harness: RouterTestingHarness;
   let backend: HttpTestingController;
-  /** The component's protected API. */
-  let form: any;
+  let form: FormApi;
 
   const settle = async () => {
     await wait(20);
@@ -169,7 +177,7 @@ describe('InvoiceForm reached by address', () => {
     });
     backend = TestBed.inject(HttpTestingController);
     harness = await RouterTestingHarness.create();
-    form = await harness.navigateByUrl(url, InvoiceForm);
+    form = (await harness.navigateByUrl(url, InvoiceForm)) as unknown as FormApi;
     await wait(10);
     backend.expectOne('/api/athletes').flush({ athletes: [{ id: 4, firstName: 'Ada', lastName: 'Kestrel' }] });
     backend.expectOne('/api/prices').flush({ prices: PRICES });

@@ -134,7 +134,7 @@ export class FrameViewer {
       this.store.showAngles();
       this.store.tool();
       this.store.scaleDraft();
-      this.store.annotations().scale;
+      this.store.annotations();
       this.gauges.frameGauges();
       this.gauges.selected();
       this.gauges.draftPoints();

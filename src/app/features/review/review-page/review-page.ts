@@ -54,7 +54,6 @@ type Loaded =
 
 /** Tabs of the side panel, in order. */
 const PANEL_TABS = ['landmarks', 'events', 'scale', 'measures'] as const;
-type PanelTab = (typeof PANEL_TABS)[number];
 
 /** What leaving with unsaved marks asks. */
 export const UNSAVED_MARKS_WARNING: LeaveWarning = {
