@@ -16,7 +16,9 @@
  * - overlay: `drawOverlay` on any Canvas-2D-like context and its pure layout; overlay-ghost: the
  *   other visit's skeleton, dashed and lighter, for the Re-test comparison.
  * - angle-gauge: three-point included angles (the Angle gauge tool), drawn by overlay-gauges;
- * - event-names: the gait events on a frame in words ("Right toe-off · step 3").
+ * - event-names: the gait events on a frame in words ("Right toe-off · step 3");
+ * - slow-motion, step-warp, landmark-fill: timing of annotated clips (repeat rule, per-step time-warp
+ *   of a side-by-side clip at initial contacts, landmarks between marked frames).
  */
 export * from './geometry';
 export * from './angles';
@@ -36,3 +38,6 @@ export * from './format';
 export * from './angle-gauge';
 export * from './overlay-gauges';
 export * from './event-names';
+export * from './slow-motion';
+export * from './step-warp';
+export * from './landmark-fill';
