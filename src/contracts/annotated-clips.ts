@@ -8,12 +8,12 @@
 export const SLOW_MOTION_FACTORS = [1, 0.5, 0.25, 0.125] as const;
 export type SlowMotionFactor = (typeof SLOW_MOTION_FACTORS)[number];
 
-/** On-screen names of the factors. */
+/** On-screen names of the factors (plain digits: the shipped font subset has no ⅛). */
 export const SLOW_MOTION_LABELS: Record<SlowMotionFactor, string> = {
   1: 'Real time',
-  0.5: '½ speed',
-  0.25: '¼ speed',
-  0.125: '⅛ speed',
+  0.5: '1/2 speed',
+  0.25: '1/4 speed',
+  0.125: '1/8 speed',
 };
 
 /** Most source frames one annotated clip may cover (a side-by-side clip: of the baseline). */

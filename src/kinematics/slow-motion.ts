@@ -34,3 +34,39 @@ export function slowMotionLength(sourceFrames: number, sourceFps: number, factor
   const { repeat } = slowMotionTiming(sourceFps, factor);
   return { frames: sourceFrames * repeat, seconds: sourceFrames / (sourceFps * factor) };
 }
+
+/** Why a frame range cannot become an annotated clip, in words, or null when it can. */
+export function frameRangeProblem(from: number, to: number, frameCount: number, maxFrames: number): string | null {
+  if (!Number.isInteger(from) || !Number.isInteger(to)) return 'The first and last frame must be whole frame numbers.';
+  if (from < 0 || to >= frameCount) return `Choose frames from 0 to ${Math.max(0, frameCount - 1)}.`;
+  if (to < from) return 'The last frame comes before the first.';
+  const n = to - from + 1;
+  if (n > maxFrames) return `That range has ${n} frames; an annotated clip can cover at most ${maxFrames}. Choose a shorter range.`;
+  return null;
+}
+
+/**
+ * The default frame range of an annotated clip: two strides centred on `current` (one before, one
+ * after), kept inside the clip. A stride is the median gap between successive initial contacts
+ * of one side in `contactFrames` (by side); without two of one side, 0.7 s of the clip (a common
+ * running stride period, common practice).
+ */
+export function defaultClipRange(
+  current: number,
+  contactFrames: { left: readonly number[]; right: readonly number[] },
+  frameCount: number,
+  fps: number,
+  maxFrames: number,
+): { from: number; to: number } {
+  const gaps: number[] = [];
+  for (const list of [contactFrames.left, contactFrames.right]) {
+    const sorted = [...list].sort((a, b) => a - b);
+    for (let i = 1; i < sorted.length; i++) gaps.push(sorted[i]! - sorted[i - 1]!);
+  }
+  gaps.sort((a, b) => a - b);
+  const stride = gaps.length ? gaps[Math.floor(gaps.length / 2)]! : Math.round(0.7 * fps);
+  const length = Math.min(frameCount, maxFrames, 2 * stride + 1);
+  let from = Math.round(current - (length - 1) / 2);
+  from = Math.max(0, Math.min(from, frameCount - length));
+  return { from, to: from + length - 1 };
+}
