@@ -159,7 +159,11 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
   const fills: LandmarkFill[] = panels.map((p) => landmarkFill(p.landmarks));
   const origins: LandmarkOriginCounts[] = panels.map(() => ({ marked: 0, followed: 0, interpolated: 0, none: 0 }));
   for (const step of steps) panels.forEach((_, i) => origins[i]![fills[i]!.at(step[i]!).origin]++);
-  const notes = panels.map((p, i) => (panels.length > 1 ? `${p.heading.split(' · ')[0]}: ` : '') + landmarkNote(origins[i]!));
+  const notes = panels.map((p, i) => {
+    const text = landmarkNote(origins[i]!);
+    // Side by side: "Baseline: landmarks marked on …".
+    return panels.length > 1 ? `${p.heading.split(' · ')[0]}: ${text.charAt(0).toLowerCase()}${text.slice(1)}` : text;
+  });
   const note = `${SLOW_MOTION_LABELS[input.factor]}. ${notes.join(' ')}`;
 
   // The foot band does not change: drawn once.

@@ -48,3 +48,19 @@ export function warpToRetest(pairs: readonly ContactPair[], rateRatio: number, r
   }
   return Math.min(Math.max(0, Math.round(r)), Math.max(0, retestFrameCount - 1));
 }
+
+/**
+ * The frames of a side-by-side clip: for each Baseline frame `from`…`to`, that frame and the
+ * Re-test frame {@link warpToRetest} puts beside it. Pure.
+ */
+export function sideBySideSteps(
+  from: number,
+  to: number,
+  pairs: readonly ContactPair[],
+  rateRatio: number,
+  retestFrameCount: number,
+): [number, number][] {
+  const steps: [number, number][] = [];
+  for (let b = from; b <= to; b++) steps.push([b, warpToRetest(pairs, rateRatio, retestFrameCount, b)]);
+  return steps;
+}

@@ -28,10 +28,14 @@ const FACTOR = 0.25;
 const FRAMES = 240;
 
 const dir = await mkdtemp(path.join(os.tmpdir(), 'annotated-video-bench-'));
-const runner = await runnerFrames({ fps: 120, width: 1280, height: 720, seconds: FRAMES / 120, hipExtensionDeg: 8, facing: 'right' }, { noise: true });
+const runner = await runnerFrames(
+  { fps: 120, width: 1280, height: 720, seconds: FRAMES / 120, hipExtensionDeg: 8, facing: 'right' },
+  { noise: true },
+);
 const panel = runnerPanel(runner, 'Re-test · 24 Nov 2026');
 const steps = runner.jpegs.map((_, i) => [i]);
-const caption = 'Right toe-off at the re-test: the thigh now passes vertical and the hip reaches extension before the foot leaves the belt.';
+const caption =
+  'Right toe-off at the re-test: the thigh now passes vertical and the hip reaches extension before the foot leaves the belt.';
 
 let size = { width: 0, height: 0, frames: 0, fps: 0 };
 
@@ -57,7 +61,12 @@ async function bare(round: number): Promise<number> {
   const ctx = canvas.getContext('2d');
   ctx.fillStyle = '#FFFFFF';
   ctx.fillRect(0, 0, size.width, size.height);
-  const encoder = startH264Encoder({ width: size.width, height: size.height, fps: outputFps, outFile: path.join(dir, `bare-${round}.mp4`) });
+  const encoder = startH264Encoder({
+    width: size.width,
+    height: size.height,
+    fps: outputFps,
+    outFile: path.join(dir, `bare-${round}.mp4`),
+  });
   for (const jpeg of runner.jpegs) {
     ctx.drawImage(await loadImage(jpeg), 0, 0);
     const pixels = canvas.data();
@@ -76,7 +85,13 @@ for (let i = 0; i < ROUNDS; i++) {
 }
 await rm(dir, { recursive: true, force: true });
 const ratio = median(annotatedMs) / median(bareMs);
-console.log(`${FRAMES} source frames 1280×720 at 120 fps, 1/4 speed → video ${size.width}×${size.height}, ${size.frames} frames at ${size.fps} fps`);
-console.log(`annotated clip (decode + overlay + encode): median ${(median(annotatedMs) / 1000).toFixed(2)} s  [${annotatedMs.map((m) => (m / 1000).toFixed(2)).join(', ')}]`);
-console.log(`same frames, no overlay (decode + encode):  median ${(median(bareMs) / 1000).toFixed(2)} s  [${bareMs.map((m) => (m / 1000).toFixed(2)).join(', ')}]`);
+console.log(
+  `${FRAMES} source frames 1280×720 at 120 fps, 1/4 speed → video ${size.width}×${size.height}, ${size.frames} frames at ${size.fps} fps`,
+);
+console.log(
+  `annotated clip (decode + overlay + encode): median ${(median(annotatedMs) / 1000).toFixed(2)} s  [${annotatedMs.map((m) => (m / 1000).toFixed(2)).join(', ')}]`,
+);
+console.log(
+  `same frames, no overlay (decode + encode):  median ${(median(bareMs) / 1000).toFixed(2)} s  [${bareMs.map((m) => (m / 1000).toFixed(2)).join(', ')}]`,
+);
 console.log(`ratio annotated / no overlay: ${ratio.toFixed(2)} (target ≤ ${TARGET}) — ${ratio <= TARGET ? 'met' : 'NOT met'}`);

@@ -6,7 +6,16 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { FrameLandmarks, GaitEventMark } from '../../../src/contracts/annotations';
-import { landmarkFill, pairInitialContacts, slowMotionLength, slowMotionTiming, warpToRetest } from '../../../src/kinematics';
+import {
+  defaultClipRange,
+  frameRangeProblem,
+  landmarkFill,
+  pairInitialContacts,
+  sideBySideSteps,
+  slowMotionLength,
+  slowMotionTiming,
+  warpToRetest,
+} from '../../../src/kinematics';
 
 const ic = (frame: number, side: 'left' | 'right'): GaitEventMark => ({ frame, side, kind: 'initial_contact' });
 const to = (frame: number, side: 'left' | 'right'): GaitEventMark => ({ frame, side, kind: 'toe_off' });
@@ -23,7 +32,7 @@ describe('slowMotionTiming: repeat each source frame until the video runs at ≥
     [25, 0.5, 2, 25], // 12.5/s: 1.92 → 2 → 25 fps
     [48, 0.5, 1, 24], // exactly 24/s: no repeat
     [240, 1, 1, 240], // real time keeps the source rate
-  ])('%d fps at %d× real time: each frame %d times, %d frames/s', (fps, factor, repeat, out) => {
+  ])('%d fps at %d× real time: %d copies of each frame, %d frames/s', (fps, factor, repeat, out) => {
     const t = slowMotionTiming(fps, factor);
     expect(t.repeat).toBe(repeat);
     expect(t.outputFps).toBeCloseTo(out, 9);
@@ -170,5 +179,62 @@ describe('landmarkFill: marked, followed, then interpolated between them', () =>
 
   it('a hand-placed entry wins over a followed one on the same frame', () => {
     expect(landmarkFill([lm(5, 'left', 0.5, 'tracked'), lm(5, 'left', 0.1, 'manual')]).at(5).landmarks[0]!.points.hip!.x).toBe(0.1);
+  });
+});
+
+describe('frameRangeProblem: at most 1,000 source frames, inside the clip', () => {
+  it('accepts 1,000 frames and refuses 1,001 with the count and the limit', () => {
+    expect(frameRangeProblem(0, 999, 2000, 1000)).toBeNull();
+    expect(frameRangeProblem(0, 1000, 2000, 1000)).toBe(
+      'That range has 1001 frames; an annotated clip can cover at most 1000. Choose a shorter range.',
+    );
+  });
+
+  it('refuses frames outside the clip and a reversed range', () => {
+    expect(frameRangeProblem(-1, 10, 100, 1000)).toBe('Choose frames from 0 to 99.');
+    expect(frameRangeProblem(0, 100, 100, 1000)).toBe('Choose frames from 0 to 99.');
+    expect(frameRangeProblem(50, 40, 100, 1000)).toBe('The last frame comes before the first.');
+    expect(frameRangeProblem(1.5, 40, 100, 1000)).toBe('The first and last frame must be whole frame numbers.');
+  });
+});
+
+describe('defaultClipRange: two strides centred on the current frame', () => {
+  it('uses the median gap between one side’s initial contacts', () => {
+    // Right contacts 10, 52, 94 and left 31, 73: gaps 42, 42, 42 → stride 42, range 85 frames centred on 60: 18–102.
+    expect(defaultClipRange(60, { left: [31, 73], right: [10, 52, 94] }, 500, 60, 1000)).toEqual({ from: 18, to: 102 });
+  });
+
+  it('falls back to 0.7 s of the clip and keeps the range inside it', () => {
+    // No contacts at 100 fps: stride 70 → 141 frames; centred on 5 it would start at −65, so it starts at 0.
+    expect(defaultClipRange(5, { left: [], right: [] }, 500, 100, 1000)).toEqual({ from: 0, to: 140 });
+    // Near the end of a 120-frame clip: the whole clip.
+    expect(defaultClipRange(110, { left: [], right: [] }, 120, 100, 1000)).toEqual({ from: 0, to: 119 });
+  });
+
+  it('never exceeds the frame limit', () => {
+    // 500-frame strides would want 1,001 frames: 1,000 instead, from round(1500 − 999/2) = round(1000.5) = 1001.
+    expect(defaultClipRange(1500, { left: [], right: [100, 600, 1100] }, 5000, 240, 1000)).toEqual({ from: 1001, to: 2000 });
+  });
+});
+
+describe('sideBySideSteps', () => {
+  it('lists each Baseline frame with its warped Re-test frame', () => {
+    // Pairs (10, 4), (31, 28): b = 10 → 4; b = 11 → 4 + 24/21 = 5.14 → 5; b = 12 → 4 + 48/21 = 6.29 → 6.
+    expect(
+      sideBySideSteps(
+        10,
+        12,
+        [
+          [10, 4],
+          [31, 28],
+        ],
+        1,
+        100,
+      ),
+    ).toEqual([
+      [10, 4],
+      [11, 5],
+      [12, 6],
+    ]);
   });
 });
