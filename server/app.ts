@@ -41,6 +41,9 @@ import { plansService } from './plans/plans-service';
 import { plansRoutes } from './plans/plans.routes';
 import { RENDER_STILL_JOB, stillsService } from './stills/stills-service';
 import { stillsRoutes } from './stills/stills.routes';
+import { annotatedClipsService } from './annotated-clips/annotated-clips-service';
+import { annotatedClipJob, RENDER_ANNOTATED_CLIP_JOB } from './annotated-clips/annotated-clip-job';
+import { annotatedClipsRoutes } from './annotated-clips/annotated-clips.routes';
 import { RENDER_SUMMARY_JOB, summariesService } from './summaries/summaries-service';
 import { summariesRoutes } from './summaries/summaries.routes';
 import { portalSharedRoutes } from './summaries/portal-shared.routes';
@@ -233,14 +236,22 @@ export function createApp(deps: AppDeps): App {
   const sharing = { db, store, queue, clips, mailer, logger, publicUrl: config.publicUrl, clock, wakeWorker: () => worker?.wake() };
   const stills = stillsService(sharing);
   const summaries = summariesService({ ...sharing, stills, measures });
+  const annotatedClips = annotatedClipsService(sharing);
+  const annotatedRender = annotatedClipJob({ db, store, clock });
   // Wherever a job runs out of attempts (in this process's worker or at any claim), its subject fails.
   queue.onFinalFailure(EXTRACT_JOB, clips.extractFailure);
   queue.onFinalFailure(RENDER_STILL_JOB, stills.renderFailure);
   queue.onFinalFailure(RENDER_SUMMARY_JOB, summaries.renderFailure);
+  queue.onFinalFailure(RENDER_ANNOTATED_CLIP_JOB, annotatedRender.failure);
   if (config.runWorker) {
     worker = startWorker({
       queue,
-      handlers: { [EXTRACT_JOB]: clips.processJob, [RENDER_STILL_JOB]: stills.renderJob, [RENDER_SUMMARY_JOB]: summaries.renderJob },
+      handlers: {
+        [EXTRACT_JOB]: clips.processJob,
+        [RENDER_STILL_JOB]: stills.renderJob,
+        [RENDER_SUMMARY_JOB]: summaries.renderJob,
+        [RENDER_ANNOTATED_CLIP_JOB]: annotatedRender.run,
+      },
       logger,
       concurrency: config.jobs.concurrency,
       pollMs: config.jobs.pollMs,
@@ -271,6 +282,7 @@ export function createApp(deps: AppDeps): App {
   api.use(plansRoutes({ exercises, plans }));
   api.use(stillsRoutes(stills));
   api.use(summariesRoutes(summaries));
+  api.use(annotatedClipsRoutes(annotatedClips));
   api.use(portalSharedRoutes({ stills, summaries }));
   api.use(billingRoutes(billing));
   api.use(clinicRoutes(clinicService({ db, clock })));

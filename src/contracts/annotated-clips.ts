@@ -34,3 +34,75 @@ export type LandmarkOrigin = 'marked' | 'followed' | 'interpolated' | 'none';
 
 /** How many source frames of a panel showed each landmark origin (the clip says which were interpolated). */
 export type LandmarkOriginCounts = Record<LandmarkOrigin, number>;
+
+/** Longest caption of an annotated clip, characters (as a still's). */
+export const CLIP_CAPTION_MAX = 280;
+
+/** Rendering state of an annotated clip. */
+export type AnnotatedClipStatus = 'rendering' | 'ready' | 'failed';
+
+/** One clip an annotated clip shows: which frames of which visit. */
+export interface AnnotatedClipPanel {
+  clipId: number;
+  assessmentId: number;
+  /** "Baseline · 6 Oct 2026". */
+  label: string;
+  /** First and last source frame shown (a Re-test panel: the warped frames at both ends). */
+  fromFrame: number;
+  toFrame: number;
+}
+
+/** An annotated clip: one clip's frame range in slow motion, or Baseline and Re-test side by side. */
+export interface AnnotatedClip {
+  id: number;
+  athleteId: number;
+  /** The first panel's assessment (a side-by-side clip: the Re-test's). */
+  assessmentId: number;
+  kind: 'single' | 'side_by_side';
+  panels: AnnotatedClipPanel[];
+  factor: SlowMotionFactor;
+  caption: string;
+  /** Whether angle arcs and degree labels are drawn. */
+  showAngles: boolean;
+  status: AnnotatedClipStatus;
+  /** 0–1 while rendering. */
+  progress: number;
+  error: string | null;
+  /** Once ready: video size, frames, frame rate, length, and the copies per source frame. */
+  width: number | null;
+  height: number | null;
+  frameCount: number | null;
+  fps: number | null;
+  durationS: number | null;
+  /** Video frames per source frame (the slow-motion rule): a "frame step" in the player moves this many. */
+  repeat: number | null;
+  /** What the clip says about its landmarks ("1/4 speed. Landmarks marked on 12 frames and interpolated …"). */
+  note: string | null;
+  publishedAt: string | null;
+  publishedBy: string | null;
+  createdAt: string;
+  createdBy: string;
+  /** Authorised URL of the MP4 (changes with each render). */
+  videoUrl: string;
+}
+
+/** Body of `POST /api/clips/:clipId/annotated-clips` (from the review). */
+export interface AnnotatedClipCreate {
+  fromFrame: number;
+  toFrame: number;
+  factor: SlowMotionFactor;
+  caption: string;
+  showAngles: boolean;
+}
+
+/** Body of `POST /api/athletes/:athleteId/side-by-side-clips` (from the Re-test comparison). */
+export interface SideBySideClipCreate {
+  baselineClipId: number;
+  retestClipId: number;
+  /** Baseline frames to cover; default: every frame from the first to the last paired initial contact. */
+  fromFrame?: number;
+  toFrame?: number;
+  factor: SlowMotionFactor;
+  caption: string;
+  showAngles: boolean;
+}

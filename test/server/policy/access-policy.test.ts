@@ -98,6 +98,11 @@ const DOCUMENTED: Record<Action, Who> = {
   'summary:read': 'S+A',
   'summary:publish': 'S',
   'summary:delete': 'S',
+  'annotated-clip:create': 'S',
+  'annotated-clip:list': 'S+A',
+  'annotated-clip:read': 'S+A',
+  'annotated-clip:publish': 'S',
+  'annotated-clip:delete': 'S',
   'portal-shared:list': 'A',
 };
 
