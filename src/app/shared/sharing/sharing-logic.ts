@@ -90,13 +90,13 @@ export function stillAlt(still: Pick<Still, 'caption' | 'panels' | 'kind'>): str
 
 /** What publishing sends, for the confirmation. */
 export function publishConfirmText(
-  kind: 'still' | 'summary',
+  kind: 'still' | 'summary' | 'clip',
   athleteName: string,
   hasAccount = true,
 ): { title: string; message: string; confirmLabel: string } {
   const who = athleteName.trim() || 'The athlete';
-  const what = kind === 'still' ? 'this still' : 'this visit summary';
-  const title = kind === 'still' ? 'Publish this still?' : 'Publish this visit summary?';
+  const what = { still: 'this still', summary: 'this visit summary', clip: 'this annotated clip' }[kind];
+  const title = `Publish ${what}?`;
   if (!hasAccount) {
     return {
       title,

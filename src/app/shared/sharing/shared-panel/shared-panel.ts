@@ -35,6 +35,7 @@ import { saveProblems } from '../sharing-errors';
 import { openStillViewer } from '../still-viewer/still-viewer';
 import { StillsApi } from '../../../core/data/stills-api';
 import { SummaryDialog, type SummaryDialogData } from '../summary-dialog/summary-dialog';
+import { SharedClips } from '../shared-clips/shared-clips';
 
 /** The caption being edited on one still's card. */
 interface CaptionEdit {
@@ -62,6 +63,7 @@ interface CaptionEdit {
     EmptyState,
     ErrorState,
     InvitePrompt,
+    SharedClips,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './shared-panel.html',
