@@ -206,7 +206,7 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
       const status = [
         `${(frame / panel.fps).toFixed(2)} s`,
         eventsShown(panel.events, frame, holdFrames[i]!),
-        filled.origin === 'interpolated' ? 'interpolated' : '',
+        filled.origin === 'interpolated' ? 'landmarks interpolated' : '',
       ].filter(Boolean);
       ctx.font = statusFont;
       ctx.textAlign = 'right';
