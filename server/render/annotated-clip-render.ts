@@ -66,7 +66,7 @@ export interface AnnotatedClipRenderOutput {
   layout: StillRect[];
   /** Per panel: how many steps showed marked, followed, interpolated or no landmarks. */
   origins: LandmarkOriginCounts[];
-  /** The line the clip carries about its landmarks and speed. */
+  /** What the clip says about its landmarks (drawn after the speed in the foot band). */
   note: string;
 }
 
@@ -164,7 +164,7 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
     // Side by side: "Baseline: landmarks marked on …".
     return panels.length > 1 ? `${p.heading.split(' · ')[0]}: ${text.charAt(0).toLowerCase()}${text.slice(1)}` : text;
   });
-  const note = `${SLOW_MOTION_LABELS[input.factor]}. ${notes.join(' ')}`;
+  const note = notes.join(' ');
 
   // The foot band does not change: drawn once.
   const footTop = headingHeight + panelHeight;
@@ -181,7 +181,7 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
   }
   ctx.font = `400 ${smallSize}px "${CANVAS_FONT_FAMILY}"`;
   ctx.fillStyle = MUTED;
-  ctx.fillText(note, unit, y, width - 2 * unit);
+  ctx.fillText(`${SLOW_MOTION_LABELS[input.factor]}. ${note}`, unit, y, width - 2 * unit);
   y += Math.round(smallSize * 1.6);
   ctx.fillText(STILL_CAUTION_LINE, unit, y, width - 2 * unit);
   ctx.fillRect(0, height - 1, width, 1);

@@ -76,7 +76,7 @@ export interface AnnotatedClip {
   durationS: number | null;
   /** Video frames per source frame (the slow-motion rule): a "frame step" in the player moves this many. */
   repeat: number | null;
-  /** What the clip says about its landmarks ("1/4 speed. Landmarks marked on 12 frames and interpolated …"). */
+  /** What the clip says about its landmarks ("Landmarks marked on 12 frames and interpolated between marked frames on 48."). */
   note: string | null;
   publishedAt: string | null;
   publishedBy: string | null;

@@ -102,7 +102,7 @@ describe('an annotated clip from the review', () => {
     // Marked on event frames only: the rest of the range is interpolated, and the clip says so.
     const marked = new Set(marksFromTruth(truth, 'events').landmarks.map((l) => l.frame));
     const inRange = [...marked].filter((f) => f >= 10 && f <= 69).length;
-    expect(made.note).toBe(`1/4 speed. Landmarks marked on ${inRange} frames and interpolated between marked frames on ${60 - inRange}.`);
+    expect(made.note).toBe(`Landmarks marked on ${inRange} frames and interpolated between marked frames on ${60 - inRange}.`);
   });
 
   it('serves an MP4 privately, with byte ranges for phone players; ffprobe counts its frames', async () => {

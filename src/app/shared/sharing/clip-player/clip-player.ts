@@ -1,7 +1,6 @@
 import { ChangeDetectionStrategy, Component, ElementRef, computed, input, signal, viewChild } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import { MatTooltipModule } from '@angular/material/tooltip';
 import type { AnnotatedClip } from '../../../../contracts/annotated-clips';
 import { clipTitle, frameOfText, frameStepTime } from '../clip-logic';
 
@@ -17,7 +16,7 @@ interface PhoneVideo extends HTMLVideoElement {
  */
 @Component({
   selector: 'app-clip-player',
-  imports: [MatButtonModule, MatIconModule, MatTooltipModule],
+  imports: [MatButtonModule, MatIconModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './clip-player.html',
   styleUrl: './clip-player.scss',
