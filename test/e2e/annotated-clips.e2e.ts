@@ -23,11 +23,14 @@ const shot = (name: string) => path.join(SCREENSHOTS, name);
 let h: Harness;
 let dir: { dir: string; cleanup: () => Promise<void> };
 let athleteId = 0;
+let retest = { assessmentId: 0, clipId: 0 };
 
 beforeAll(async () => {
   h = await startHarness();
   dir = await tempDir('e2e-annotated');
-  athleteId = (await markDemoVisits(h, dir.dir)).athleteId;
+  const marked = await markDemoVisits(h, dir.dir);
+  athleteId = marked.athleteId;
+  retest = marked.retest;
 }, 240_000);
 afterAll(async () => {
   await h?.close();
@@ -53,6 +56,19 @@ describe('annotated clips', () => {
     page.on('console', (m) => m.type() === 'error' && problems.push(m.text()));
     page.on('pageerror', (e) => problems.push(e.message));
     await h.signIn(page, coach.email, coach.password);
+
+    // From the review: two strides around the current frame by default, at 1/4 speed.
+    await page.goto(`${h.baseUrl}/athletes/${athleteId}/assessments/${retest.assessmentId}/clips/${retest.clipId}/review`);
+    await expect.poll(() => page.getByText(/^Frame \d+ \/ \d+/).count(), { timeout: 20_000 }).toBe(1);
+    await page.getByRole('button', { name: 'Make clip' }).click();
+    const single = page.getByRole('dialog', { name: 'Make annotated clip' });
+    // 60 fps runner, 42-frame strides (truth): 85 frames from frame 0 → 85 ÷ 15 = 5.7 s at 1/4 speed.
+    await expect.poll(() => single.textContent()).toContain('85 frames → 5.7 s at 1/4 speed');
+    expect(await single.getByLabel('First frame').inputValue()).toBe('0');
+    expect(await single.getByLabel('Last frame').inputValue()).toBe('84');
+    await page.screenshot({ path: shot('annotated-clip-review-dialog.png') });
+    await single.getByRole('button', { name: 'Make clip' }).click();
+    await expect.poll(() => page.getByText('Annotated clip started — rendering…').count()).toBe(1);
 
     await page.goto(`${h.baseUrl}/athletes/${athleteId}/compare`);
     await expect.poll(() => canvasDrawn(page, 'canvas[aria-label="Re-test frame with skeleton"]'), { timeout: 20_000 }).toBe(true);
