@@ -13,8 +13,8 @@ export async function up(knex: Knex): Promise<void> {
     t.integer('assessment_id').notNullable().references('assessments.id').onDelete('CASCADE');
     // The clip whose folder holds the video (a side-by-side clip: the Re-test); the row goes with it.
     t.integer('clip_id').notNullable().references('clips.id').onDelete('CASCADE');
-    // A side-by-side clip's Baseline clip.
-    t.integer('other_clip_id').nullable().references('clips.id').onDelete('CASCADE');
+    // A side-by-side clip's Baseline clip; null once that clip is deleted (the row then shows why and can be deleted with its video).
+    t.integer('other_clip_id').nullable().references('clips.id').onDelete('SET NULL');
     t.string('kind', 14).notNullable();
     // Panels with the frozen landmarks, events, gauges, direction and near side, and the frames per step (JSON).
     t.text('panels').notNullable();

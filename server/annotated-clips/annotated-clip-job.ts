@@ -7,7 +7,7 @@ import { FRAMES_DIR, frameFileName } from '../media/manifest';
 import type { MediaStore } from '../storage/media-store';
 import { renderAnnotatedClip } from '../render/annotated-clip-render';
 import type { SlowMotionFactor } from '../../src/contracts/annotated-clips';
-import { annotatedClipFile, annotatedClipsRepository as repo } from './annotated-clips-repository';
+import { BASELINE_CLIP_DELETED, annotatedClipFile, annotatedClipsRepository as repo, lostBaseline } from './annotated-clips-repository';
 
 export const RENDER_ANNOTATED_CLIP_JOB = 'render_annotated_clip';
 /** Folder of annotated-clip videos inside the clip's folder. */
@@ -29,6 +29,7 @@ export function annotatedClipJob(d: { db: Db; store: MediaStore; clock: () => Da
       const id = Number(job.payload['annotatedClipId']);
       const row = await repo.findById(db, id);
       if (!row) return; // deleted meanwhile
+      if (lostBaseline(row)) throw new PermanentJobError(BASELINE_CLIP_DELETED);
       const plan = repo.plan(row);
       const statuses = await db('clips')
         .whereIn(

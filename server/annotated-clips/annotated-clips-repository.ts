@@ -85,12 +85,22 @@ export const annotatedClipsRepository = {
       .orderBy('a.created_at', 'desc')
       .orderBy('a.id', 'desc')
       .select<ClipView[]>('a.*', 'cu.name as created_by_name', 'pu.name as published_by_name');
-    if (opts.publishedOnly) q.whereNotNull('a.published_at').where('a.status', 'ready');
+    if (opts.publishedOnly)
+      q.whereNotNull('a.published_at')
+        .where('a.status', 'ready')
+        .where((w) => w.where('a.kind', 'single').orWhereNotNull('a.other_clip_id'));
     return (await q).map(toApi);
   },
 };
 
+/** Why a side-by-side clip whose Baseline clip was deleted cannot be played or published. */
+export const BASELINE_CLIP_DELETED = 'The Baseline clip of this side-by-side clip was deleted. Delete this one and make it again.';
+
+/** Whether a side-by-side clip lost its Baseline clip. */
+export const lostBaseline = (r: Pick<AnnotatedClipRow, 'kind' | 'other_clip_id'>) => r.kind === 'side_by_side' && r.other_clip_id === null;
+
 function toApi(r: ClipView): AnnotatedClip {
+  const gone = lostBaseline(r);
   return {
     id: r.id,
     athleteId: r.athlete_id,
@@ -102,9 +112,9 @@ function toApi(r: ClipView): AnnotatedClip {
     factor: r.factor as SlowMotionFactor,
     caption: r.caption,
     showAngles: Boolean(r.show_angles),
-    status: r.status,
+    status: gone ? 'failed' : r.status,
     progress: r.progress,
-    error: r.error,
+    error: gone ? BASELINE_CLIP_DELETED : r.error,
     width: r.width,
     height: r.height,
     frameCount: r.frame_count,

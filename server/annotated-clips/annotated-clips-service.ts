@@ -27,8 +27,10 @@ import { annotationsRepository } from '../annotations/annotations-repository';
 import { displayDate } from '../stills/stills-service';
 import { ASSESSMENT_KIND_LABELS, type AssessmentKind } from '../../src/contracts/assessment';
 import {
+  BASELINE_CLIP_DELETED,
   annotatedClipFile,
   annotatedClipsRepository as repo,
+  lostBaseline,
   type AnnotatedClipRow,
   type StoredClipPanel,
 } from './annotated-clips-repository';
@@ -89,7 +91,7 @@ export function annotatedClipsService(d: AnnotatedClipsDeps): AnnotatedClipsServ
   const now = () => d.clock().toISOString();
 
   const accessible = (user: SessionUser, id: number, action: Action = 'annotated-clip:read') =>
-    accessibleShared<AnnotatedClipRow>(db, 'annotated_clip', user, id, action);
+    accessibleShared<AnnotatedClipRow>(db, 'annotated_clip', user, id, action, (row) => !lostBaseline(row));
 
   async function view(id: number): Promise<AnnotatedClip> {
     const [clip] = await repo.view(db, { id }, { publishedOnly: false });
@@ -273,6 +275,7 @@ export function annotatedClipsService(d: AnnotatedClipsDeps): AnnotatedClipsServ
 
     async setPublished(user, id, publish) {
       const row = await accessible(user, id, 'annotated-clip:publish');
+      if (publish && lostBaseline(row)) throw new ConflictError(BASELINE_CLIP_DELETED, 'clip_deleted');
       if (publish && row.status !== 'ready')
         throw new ConflictError(
           row.status === 'failed'
@@ -302,7 +305,7 @@ export function annotatedClipsService(d: AnnotatedClipsDeps): AnnotatedClipsServ
 
     async videoPath(user, id, logView) {
       const row = await accessible(user, id);
-      if (row.status !== 'ready') throw new NotFoundError('Annotated clip video');
+      if (row.status !== 'ready' || lostBaseline(row)) throw new NotFoundError('Annotated clip video');
       const file = path.join(d.store.clipDir(row.clip_id), ANNOTATED_DIR, annotatedClipFile(id, row.render_version));
       if (!fs.existsSync(file)) throw new NotFoundError('Annotated clip video');
       if (logView && throughSelfGrant(user, 'annotated-clip:read'))

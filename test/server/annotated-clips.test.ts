@@ -251,3 +251,40 @@ describe('delete', () => {
     expect((await c.get(`/api/annotated-clips/${made.id}`)).status).toBe(404);
   }, 60_000);
 });
+
+describe('a side-by-side clip whose Baseline clip is deleted', () => {
+  it('shows as failed with the reason, cannot be played or published, and deletes with its video', async () => {
+    const retestId = (await t.db('clips').where({ id: retestClipId }).first()).assessment_id;
+    const file = path.join(dir.dir, 'runner.mp4');
+    const spareId = await upload(retestId, file);
+    await t.worker!.idle();
+    await c.patch(`/api/clips/${spareId}`, { nearSide: truth.nearSide, direction: 'left_to_right' });
+    await c.put(`/api/clips/${spareId}/annotations`, marksFromTruth(truth, 'events'));
+    const res = await c.post(`/api/athletes/${adaId}/side-by-side-clips`, {
+      baselineClipId: spareId,
+      retestClipId,
+      factor: 1,
+      caption: '',
+    });
+    expect(res.status, JSON.stringify(res.body)).toBe(202);
+    const made = await settled(res.body.id);
+    expect(made.status).toBe('ready');
+    await c.post(`/api/annotated-clips/${made.id}/publish`, {});
+    expect((await c.delete(`/api/clips/${spareId}`)).status).toBe(204);
+
+    const after = (await c.get(`/api/annotated-clips/${made.id}`)).body as AnnotatedClip;
+    expect(after).toMatchObject({
+      status: 'failed',
+      error: expect.stringContaining('Baseline clip of this side-by-side clip was deleted'),
+    });
+    expect((await c.agent.get(after.videoUrl)).status).toBe(404);
+    expect((await ada.get(`/api/annotated-clips/${made.id}`)).status).toBe(404);
+    expect((await c.post(`/api/annotated-clips/${made.id}/unpublish`, {})).status).toBe(200);
+    const pub = await c.post(`/api/annotated-clips/${made.id}/publish`, {});
+    expect(pub.status).toBe(409);
+    const folder = path.join(t.config.uploadsDir, 'clips', String(retestClipId), 'annotated');
+    expect(fs.readdirSync(folder).filter((f) => f.startsWith(`${made.id}-`))).toHaveLength(1);
+    expect((await c.delete(`/api/annotated-clips/${made.id}`)).status).toBe(204);
+    expect(fs.readdirSync(folder).filter((f) => f.startsWith(`${made.id}-`))).toHaveLength(0);
+  }, 120_000);
+});
