@@ -9,7 +9,12 @@ export const MUTATION_MODULES = {
   kinematics: { mutate: ['src/kinematics/**/*.ts', '!src/kinematics/index.ts'], tests: ['test/unit/kinematics/**/*.test.ts'] },
   'plans-rules': { mutate: ['src/plans-rules/**/*.ts', '!src/plans-rules/index.ts'], tests: ['test/unit/plans/**/*.test.ts'] },
   billing: {
-    mutate: ['src/contracts/billing.ts:184-221', 'src/app/features/billing/billing-words.ts:49-78', 'server/billing/refund-events.ts'],
+    mutate: [
+      'src/contracts/billing.ts:184-221',
+      'src/app/features/billing/billing-words.ts:19-48',
+      'src/app/features/billing/invoice-form/invoice-lines.ts:24-37',
+      'server/billing/refund-events.ts',
+    ],
     tests: ['test/unit/billing/**/*.test.ts'],
   },
   // processing: { mutate: ['server/processing/**/*.ts'], tests: ['test/server/processing*.test.ts'] },

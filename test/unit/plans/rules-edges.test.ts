@@ -61,6 +61,13 @@ describe('which session a limit alert names', () => {
   });
 });
 
+describe('the 7 days of the limit alerts', () => {
+  it('include the session exactly 6 days before today (4 Dec for 10 Dec), not the one 7 days before', () => {
+    expect(painAlerts([log('2026-12-04', 8)], DEFAULT_PAIN_RULE, TODAY)).toMatchObject([{ kind: 'during_above_max', date: '2026-12-04' }]);
+    expect(kinds([log('2026-12-03', 8)])).toEqual([]);
+  });
+});
+
 describe('the weekly rise', () => {
   const rising = [log('2026-11-30', 2), log('2026-12-01', 2), log('2026-12-08', 4), log('2026-12-09', 4)]; // 2 → 4
 
@@ -196,6 +203,15 @@ describe('progression criteria, one at a time (invented plans)', () => {
       'Next-morning pain after the last 3 sessions: –, 0, – (settled = at most 2/10). 2 morning checks missing.',
     );
     expect(check(c, [session('2026-12-05', 2, 2), session('2026-12-08', 2, 0), session('2026-12-09', 2, 1)]).met).toBe(true);
+  });
+
+  it('pain during at most 3/10: exactly the 3 sessions needed, all at 3 or less, is met', () => {
+    const c: ProgressionCriterion = { kind: 'pain_during_at_most', max: 3, sessions: 3 };
+    expect(check(c, [session('2026-12-05', 3, 1), session('2026-12-08', 0, 1), session('2026-12-09', 2, 1)])).toEqual({
+      criterion: c,
+      met: true,
+      detail: 'Pain during on the last 3 sessions: 2, 0, 3 (each must be at most 3/10).',
+    });
   });
 
   it('all sets done on the last N: too few, met, and one short', () => {
