@@ -4,6 +4,7 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
 import type { Assessment } from '../../../../contracts/api';
 import type { AssessmentComparison, ComparisonRow } from '../../../../contracts/measures';
+import { stubJsdomCanvas } from '../../../shared/testing/jsdom-canvas';
 import { ComparePage } from './compare-page';
 
 /*
@@ -88,24 +89,12 @@ describe('ComparePage content', () => {
   let element: HTMLElement;
   let backend: HttpTestingController;
 
-  const realGetContext = HTMLCanvasElement.prototype.getContext;
-  const realResizeObserver = globalThis.ResizeObserver;
-  const realBitmap = globalThis.createImageBitmap;
+  let restoreJsdom: () => void;
   beforeAll(() => {
-    globalThis.ResizeObserver ??= class {
-      observe() {}
-      unobserve() {}
-      disconnect() {}
-    } as unknown as typeof ResizeObserver;
-    // jsdom draws nothing: no 2D context, and frames decode to a stand-in bitmap.
-    HTMLCanvasElement.prototype.getContext = (() => null) as never;
-    globalThis.createImageBitmap = (async () => ({ width: 640, height: 360, close() {} })) as never;
+    // jsdom has no layout observer, no canvas drawing and no image decoding.
+    restoreJsdom = stubJsdomCanvas();
   });
-  afterAll(() => {
-    HTMLCanvasElement.prototype.getContext = realGetContext;
-    globalThis.ResizeObserver = realResizeObserver;
-    globalThis.createImageBitmap = realBitmap;
-  });
+  afterAll(() => restoreJsdom());
 
   async function settle(): Promise<void> {
     for (let i = 0; i < 3; i++) {

@@ -5,6 +5,7 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { EMPTY } from 'rxjs';
 import type { Assessment, Clip, FrameManifest } from '../../../../contracts/api';
 import { AuthStore } from '../../../core/auth-store';
+import { stubJsdomCanvas } from '../../../shared/testing/jsdom-canvas';
 import { AnnotationSync } from '../annotation-sync';
 import { FrameCache } from '../frame-cache';
 import { GaugeTool } from '../gauge-tool';
@@ -46,21 +47,12 @@ describe('FrameViewer pointer handling', () => {
   let store: ReviewStore;
   let canvas: HTMLCanvasElement;
 
-  const realGetContext = HTMLCanvasElement.prototype.getContext;
-  const realResizeObserver = globalThis.ResizeObserver;
+  let restoreJsdom: () => void;
   beforeAll(() => {
-    globalThis.ResizeObserver ??= class {
-      observe() {}
-      unobserve() {}
-      disconnect() {}
-    } as unknown as typeof ResizeObserver;
-    // No 2D context in jsdom: the painter draws nothing, the pointer logic is what is tested here.
-    HTMLCanvasElement.prototype.getContext = (() => null) as never;
+    // jsdom has no layout observer, no canvas drawing and no image decoding.
+    restoreJsdom = stubJsdomCanvas();
   });
-  afterAll(() => {
-    HTMLCanvasElement.prototype.getContext = realGetContext;
-    globalThis.ResizeObserver = realResizeObserver;
-  });
+  afterAll(() => restoreJsdom());
 
   beforeEach(async () => {
     TestBed.configureTestingModule({
