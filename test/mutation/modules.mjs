@@ -17,7 +17,7 @@ export const MUTATION_MODULES = {
     ],
     tests: ['test/unit/billing/**/*.test.ts'],
   },
-  // processing: { mutate: ['server/processing/**/*.ts'], tests: ['test/server/processing*.test.ts'] },
+  'job-queue': { mutate: ['server/jobs/job-queue.ts'], tests: ['test/server/jobs/job-queue.test.ts'] },
   // policy: { mutate: ['server/policy/**/*.ts'], tests: ['test/server/policy*.test.ts'] },
 };
 
