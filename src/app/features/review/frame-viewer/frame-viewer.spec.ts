@@ -2,14 +2,12 @@ import { provideHttpClient } from '@angular/common/http';
 import { provideHttpClientTesting } from '@angular/common/http/testing';
 import { signal } from '@angular/core';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
-import { EMPTY } from 'rxjs';
-import type { Assessment, Clip, FrameManifest } from '../../../../contracts/api';
 import { AuthStore } from '../../../core/auth-store';
 import { stubJsdomCanvas } from '../../../shared/testing/jsdom-canvas';
 import { AnnotationSync } from '../annotation-sync';
-import { FrameCache } from '../frame-cache';
 import { GaugeTool } from '../gauge-tool';
 import { ReviewStore } from '../review-store';
+import { openTestReview } from '../test-review';
 import { FrameViewer } from './frame-viewer';
 
 /*
@@ -22,24 +20,6 @@ import { FrameViewer } from './frame-viewer';
  * (328, 188), the point (0.25, 0.25) at (168, 98).
  */
 const VIEW = { width: 656, height: 376 };
-const manifest: FrameManifest = {
-  version: 1,
-  frameCount: 20,
-  width: 1280,
-  height: 720,
-  fps: 60,
-  durationS: 20 / 60,
-  rotationApplied: 0,
-  timestampsMs: Array.from({ length: 20 }, (_, i) => (i * 1000) / 60),
-  timestampsSource: 'computed',
-  thumbEvery: 6,
-  thumbCount: 4,
-  thumbWidth: 160,
-  thumbHeight: 90,
-  quality: 4,
-};
-const clip = { id: 7, nearSide: 'left', direction: 'left_to_right', captureFps: null, fps: 60, effectiveFps: 60 } as Clip;
-const assessment = { surface: 'treadmill', speedMps: 3 } as Assessment;
 
 describe('FrameViewer pointer handling', () => {
   let fixture: ComponentFixture<FrameViewer>;
@@ -67,18 +47,7 @@ describe('FrameViewer pointer handling', () => {
       ],
     });
     store = TestBed.inject(ReviewStore);
-    const cache = new FrameCache({
-      frameCount: 20,
-      width: 1280,
-      height: 720,
-      fetch: () => EMPTY,
-      decode: () => Promise.reject(new Error('unused')),
-    });
-    store.open(
-      { clip, assessment, manifest },
-      { clipId: 7, revision: 0, landmarks: [], events: [], scale: null, updatedAt: null, updatedByName: null },
-      cache,
-    );
+    openTestReview(store);
     fixture = TestBed.createComponent(FrameViewer);
     viewer = fixture.componentInstance;
     const host = fixture.nativeElement as HTMLElement;
