@@ -11,9 +11,9 @@ export const MUTATION_MODULES = {
   billing: {
     mutate: [
       'src/contracts/billing.ts:184-221',
-      'src/app/features/billing/billing-words.ts:19-48',
+      'src/app/shared/billing-words.ts:19-48',
       'src/app/features/billing/invoice-form/invoice-lines.ts:24-37',
-      'server/billing/refund-events.ts',
+      'server/billing/payment-webhook.ts:16-19',
     ],
     tests: ['test/unit/billing/**/*.test.ts'],
   },
