@@ -1,7 +1,5 @@
 import express, { type Express } from 'express';
-import helmet from 'helmet';
 import { rateLimit } from 'express-rate-limit';
-import { pinoHttp } from 'pino-http';
 import type { Logger } from 'pino';
 import type { AppConfig } from '../src/contracts/api';
 import type { Config } from './config';
@@ -11,7 +9,9 @@ import { AppError, apiNotFound, errorHandler } from './errors';
 import { createCsrf } from './http/csrf';
 import { createSessions, inProcessRevocations } from './http/sessions';
 import { staffService } from './staff/staff-service';
-import { clientAppRoutes, newNonce } from './http/client-app';
+import { clientAppRoutes } from './http/client-app';
+import { securityHeaders } from './http/security-headers';
+import { accessLog } from './http/access-log';
 import { createPassport } from './auth/passport-setup';
 import { signInGuard } from './auth/sign-in-guard';
 import { authRoutes } from './auth/auth.routes';
@@ -91,49 +91,8 @@ export function createApp(deps: AppDeps): App {
   app.set('trust proxy', config.trustProxy);
   app.set('query parser', 'simple');
 
-  app.use((_req, res, next) => {
-    res.locals['cspNonce'] = newNonce();
-    next();
-  });
-  app.use(
-    helmet({
-      contentSecurityPolicy: {
-        useDefaults: false,
-        directives: {
-          defaultSrc: ["'self'"],
-          baseUri: ["'self'"],
-          scriptSrc: ["'self'"],
-          styleSrc: ["'self'", (_req, res) => `'nonce-${(res as express.Response).locals['cspNonce']}'`],
-          // Angular's [style] bindings and CDK overlays set style attributes through the CSSOM.
-          styleSrcAttr: ["'unsafe-inline'"],
-          imgSrc: ["'self'", 'data:', 'blob:'],
-          mediaSrc: ["'self'", 'blob:'],
-          fontSrc: ["'self'", 'data:'],
-          connectSrc: ["'self'"],
-          objectSrc: ["'none'"],
-          frameAncestors: ["'none'"],
-          formAction: ["'self'"],
-          upgradeInsecureRequests: config.secureCookies ? [] : null,
-        },
-      },
-      // Let our own pages open frames/images cross-origin-isolated only where needed later.
-      crossOriginEmbedderPolicy: false,
-    }),
-  );
-  app.use(
-    pinoHttp({
-      logger,
-      // Never log cookies, CSRF tokens, or e-mailed tokens in URLs.
-      serializers: {
-        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
-        req: (req: { method: string; url: string }) => ({
-          method: req.method,
-          url: req.url.replace(/\/(invitations|password-resets|reset-password|invitation)\/[A-Za-z0-9_-]{20,}/, '/$1/[token]'),
-        }),
-      },
-      autoLogging: { ignore: (req) => !req.url?.startsWith('/api/') },
-    }),
-  );
+  app.use(securityHeaders(config.secureCookies));
+  app.use(accessLog(logger));
 
   const api = express.Router();
   const billing = billingService({
