@@ -186,7 +186,7 @@ export function createApp(deps: AppDeps): App {
   });
   const assessments = assessmentsService({ db, clips, store });
   const measures = measuresService({ db, store, clips });
-  const annotations = annotationsService({ db, clips, validateEvents, afterSave: measures.afterSave });
+  const annotations = annotationsService({ db, clips, validateEvents, measures });
   const exercises = exercisesService({ db, clock });
   const plans = plansService({ db, clock });
   const sharing = { db, store, queue, clips, mailer, logger, publicUrl: config.publicUrl, clock, wakeWorker: () => worker?.wake() };
