@@ -1,12 +1,12 @@
-import type { RequestHandler, Response } from 'express';
+import type { Request, RequestHandler, Response } from 'express';
 import helmet from 'helmet';
 import { newNonce } from './client-app';
 
 /**
  * Security headers (helmet) with the app's Content-Security-Policy. Pages get a fresh nonce per
  * response (`res.locals.cspNonce`, put on `<app-root ngCspNonce>`), which Angular's own `<style>`
- * elements carry; API answers are JSON and get the same policy without a nonce, so they cost no
- * random bytes.
+ * elements carry; API answers are JSON and get the same policy without a nonce: those headers
+ * never change, so helmet computes them once and each API answer only sets them.
  */
 export function securityHeaders(secureCookies: boolean): RequestHandler {
   const policy = (withNonce: boolean) =>
@@ -33,11 +33,29 @@ export function securityHeaders(secureCookies: boolean): RequestHandler {
       // Let our own pages open frames/images cross-origin-isolated only where needed later.
       crossOriginEmbedderPolicy: false,
     });
-  const api = policy(false);
+  const api = fixedHeaders(policy(false));
   const pages = policy(true);
   return (req, res, next) => {
-    if (req.url.startsWith('/api/')) return api(req, res, next);
+    if (req.url.startsWith('/api/')) {
+      for (const [name, value] of api) res.setHeader(name, value);
+      return next();
+    }
     res.locals['cspNonce'] = newNonce();
     pages(req, res, next);
   };
+}
+
+/** The headers a helmet middleware without per-request directives sets, recorded once. */
+function fixedHeaders(middleware: RequestHandler): [string, string | string[]][] {
+  const headers: [string, string | string[]][] = [];
+  const recorder = {
+    locals: {},
+    setHeader: (name: string, value: string | string[]) => headers.push([name, value]),
+    removeHeader: () => undefined,
+    getHeader: () => undefined,
+  };
+  let called = false;
+  void middleware({ url: '/api/', headers: {} } as Request, recorder as unknown as Response, () => (called = true));
+  if (!called) throw new Error('the security headers could not be computed ahead');
+  return headers;
 }
