@@ -10,6 +10,11 @@ import { isStaff } from '../http/access';
  */
 export async function accessibleAthlete(db: Knex, user: SessionUser, athleteId: number): Promise<AthleteRow> {
   const row = await db<AthleteRow>('athletes').where({ id: athleteId, clinic_id: user.clinicId }).first();
-  if (!row || (!isStaff(user) && row.user_id !== user.id)) throw new NotFoundError('Athlete');
+  if (!row || !mayAccessAthlete(user, row.user_id)) throw new NotFoundError('Athlete');
   return row;
+}
+
+/** Whether this user may see an athlete of their clinic whose account is `athleteUserId` (staff: all; an athlete: self). */
+export function mayAccessAthlete(user: SessionUser, athleteUserId: number | null): boolean {
+  return isStaff(user) || athleteUserId === user.id;
 }

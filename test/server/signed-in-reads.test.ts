@@ -11,11 +11,11 @@ import { Writable } from 'node:stream';
 import pino from 'pino';
 import request from 'supertest';
 import { afterEach, describe, expect, it } from 'vitest';
-import { Client, makeTestApp, signedIn, type TestApp } from '../support/test-app';
+import { Client, makeTestApp, OTHER, signedIn, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { SqliteClient } from '../../server/db/sqlite-client';
 
-const [owner, tobin, ilse] = DEMO_SIGN_INS;
+const [owner, tobin, ilse, ada] = DEMO_SIGN_INS;
 let t: TestApp | null = null;
 
 afterEach(async () => {
@@ -132,5 +132,44 @@ describe('headers and the access log', () => {
     });
     expect(requests[1]).toMatchObject({ req: { url: '/api/password-resets/[token]' }, res: { statusCode: 404 } });
     expect(JSON.stringify(lines)).not.toMatch(/tf\.sid|XSRF-TOKEN|a{43}/);
+  });
+});
+
+describe('the assessment page read (database on disk: prepared reads)', () => {
+  it('answers what the rows hold, to the athlete only their own, 404 to another clinic', async () => {
+    t = await makeTestApp({}, { onDisk: true });
+    const db = t.db;
+    const { id: adaId, clinic_id: clinicId } = (await db('athletes')
+      .where({ email: ada.email })
+      .first<{ id: number; clinic_id: number }>('id', 'clinic_id'))!;
+    const visit = (await db('assessments').where({ athlete_id: adaId }).orderBy('id').first<{ id: number; date: string }>('id', 'date'))!;
+    const other = (await db('assessments').where({ clinic_id: clinicId }).whereNot({ athlete_id: adaId }).first<{ id: number }>('id'))!;
+    // Expected values read from the rows directly (not through the service).
+    const consent = await db('consents')
+      .where({ athlete_id: adaId, kind: 'video_recording' })
+      .orderBy('id', 'desc')
+      .first<{ granted: number }>('granted');
+    const clipIds = await db('clips').where({ assessment_id: visit.id }).orderBy('id').pluck('id');
+
+    const coach = await signedIn(t.app, tobin.email, tobin.password);
+    const page = await coach.get(`/api/assessments/${visit.id}`);
+    expect(page.status).toBe(200);
+    expect(page.body).toMatchObject({ id: visit.id, athleteId: adaId, date: visit.date, videoConsent: Boolean(consent?.granted) });
+    expect(page.body.clips.map((c: { id: number }) => c.id)).toEqual(clipIds);
+
+    await db('consents').insert({
+      clinic_id: clinicId,
+      athlete_id: adaId,
+      kind: 'video_recording',
+      granted: false,
+      recorded_at: new Date().toISOString(),
+    });
+    expect((await coach.get(`/api/assessments/${visit.id}`)).body.videoConsent).toBe(false);
+
+    const athlete = await signedIn(t.app, ada.email, ada.password);
+    expect((await athlete.get(`/api/assessments/${visit.id}`)).status).toBe(200);
+    expect((await athlete.get(`/api/assessments/${other.id}`)).status).toBe(404);
+    const elsewhere = await signedIn(t.app, OTHER.coach.email, OTHER.coach.password);
+    expect((await elsewhere.get(`/api/assessments/${visit.id}`)).status).toBe(404);
   });
 });
