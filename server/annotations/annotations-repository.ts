@@ -1,18 +1,8 @@
 import type { Knex } from 'knex';
-import type { AngleGauge, ClipAnnotations, FrameLandmarks, GaitEventMark, LandmarkName, ScaleBar } from '../../src/contracts/annotations';
-import type { Side } from '../../src/contracts/assessment';
+import type { AngleGauge, ClipAnnotations, FrameLandmarks, GaitEventMark, ScaleBar } from '../../src/contracts/annotations';
 import { landmarkChanges, normalizeMarks, sameEvents, sameGauges, sameScale, type LandmarkPoint, type MarkSet } from './annotation-changes';
 
 const NO_MARKS: MarkSet = { landmarks: [], events: [], scale: null, gauges: [] };
-
-interface LandmarkRow {
-  frame: number;
-  side: Side;
-  landmark: LandmarkName;
-  x: number;
-  y: number;
-  source: 'manual' | 'tracked';
-}
 
 interface GaugeRow {
   id: string;
@@ -49,7 +39,7 @@ export const annotationsRepository = {
       db('clip_landmarks')
         .where({ clip_id: clipId })
         .orderBy(['frame', 'side'])
-        .select<LandmarkRow[]>('frame', 'side', 'landmark', 'x', 'y', 'source'),
+        .select<LandmarkPoint[]>('frame', 'side', 'landmark', 'x', 'y', 'source'),
       db('gait_events').where({ clip_id: clipId }).orderBy(['frame', 'side']).select<GaitEventMark[]>('frame', 'side', 'kind'),
       db('scale_bars').where({ clip_id: clipId }).first(),
       db('angle_gauges')
