@@ -94,19 +94,22 @@ export interface TestAppOptions {
    * for tests about something else that send many messages (say why where you use it).
    */
   fakeSmtp?: boolean;
+  /** A database file (in the test's temp folder) instead of memory: plain reads then use the reader connection, as a real server's do. */
+  onDisk?: boolean;
 }
 
 /** A fresh app on an in-memory database with the demo scenario and a second clinic. */
 export async function makeTestApp(overrides: Partial<Config> = {}, options: TestAppOptions = {}): Promise<TestApp> {
   const base = loadConfig({ DEMO_MODE: 'true', LOG_LEVEL: 'silent', CLIENT_DIR: '' } as NodeJS.ProcessEnv);
   const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'trailframe-test-'));
-  let config: Config = { ...base, clientDir: null, dbFile: ':memory:', uploadsDir, ...overrides };
+  const dbFile = options.onDisk ? path.join(uploadsDir, 'db.sqlite') : ':memory:';
+  let config: Config = { ...base, clientDir: null, dbFile, uploadsDir, ...overrides };
   let fakePayments: FakePayments | null = null;
   if (options.fakePayments && config.payments) {
     fakePayments = await startFakePayments({ port: 0, secretKey: config.payments.secretKey, webhookSecret: config.payments.webhookSecret });
     config = { ...config, payments: { ...config.payments, apiHost: '127.0.0.1', apiPort: fakePayments.port, apiProtocol: 'http' } };
   }
-  const db = createDb(':memory:');
+  const db = createDb(dbFile);
   await migrate(db);
   await seed(db);
   await addOtherClinic(db);
