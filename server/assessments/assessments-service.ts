@@ -6,12 +6,23 @@ import { audit } from '../audit/audit-log';
 import { accessibleAthlete } from '../athletes/athlete-access';
 import type { ClipsService } from '../clips/clips-service';
 import type { MediaStore } from '../storage/media-store';
+import { assessmentPrefix } from '../storage/media-keys';
 import { clipsRepository } from '../clips/clips-repository';
 import { assessmentsRepository as repo, type AssessmentRow } from './assessments-repository';
 import type { AssessmentInput, AssessmentPatch } from './assessments-schemas';
 
 /** Dated gait visits of an athlete. Staff write; the athlete reads their own. */
-export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsService; store: MediaStore }) {
+export interface AssessmentsService {
+  list(user: SessionUser, athleteId: number): Promise<Assessment[]>;
+  create(user: SessionUser, athleteId: number, input: AssessmentInput): Promise<Assessment>;
+  /** One assessment with its clips and whether the athlete's video consent is in force. */
+  get(user: SessionUser, id: number): Promise<AssessmentDetail>;
+  update(user: SessionUser, id: number, patch: AssessmentPatch): Promise<Assessment>;
+  /** Deletes the assessment with its clips, their processing and every stored file. */
+  remove(user: SessionUser, id: number): Promise<void>;
+}
+
+export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsService; store: MediaStore }): AssessmentsService {
   const now = () => new Date().toISOString();
 
   async function toApi(user: SessionUser, row: AssessmentRow): Promise<Assessment> {
@@ -103,8 +114,8 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
       const clipIds = await clipsRepository.idsForAssessment(db, id);
       await clips.removeClips(clipIds.map((clipId) => ({ id: clipId, assessment_id: id })));
       await db('assessments').where({ id }).delete();
-      // Visit summaries' PDFs live in the assessment's folder.
-      await store.removeAssessment(id);
+      // Visit summaries' PDFs are kept under the assessment's prefix.
+      await store.removePrefix(assessmentPrefix(id));
       await audit(db, {
         clinicId: user.clinicId,
         actorId: user.id,
@@ -115,5 +126,3 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
     },
   };
 }
-
-export type AssessmentsService = ReturnType<typeof assessmentsService>;

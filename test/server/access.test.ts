@@ -348,8 +348,8 @@ const ROUTES: RouteCase[] = [
   },
   {
     method: 'get',
-    pattern: '/api/assessments/:id/clip-events',
-    path: (c) => `/api/assessments/${c.assessmentId}/clip-events`,
+    pattern: '/api/athletes/:id/processing-events',
+    path: (c) => `/api/athletes/${c.selfAthleteId}/processing-events`,
     stream: true,
     expect: selfAndStaff(200),
   },
