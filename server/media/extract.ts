@@ -1,3 +1,4 @@
+import { existsSync } from 'node:fs';
 import { mkdir, readdir, rm } from 'node:fs/promises';
 import path from 'node:path';
 import ffmpeg from 'fluent-ffmpeg';
@@ -14,7 +15,7 @@ import {
   type ShowinfoFrame,
   type Size,
 } from './extract-plan';
-import { FRAMES_DIR, THUMBS_DIR, writeManifest, type FrameManifest } from './manifest';
+import { FRAMES_DIR, THUMBS_DIR, frameFileName, writeManifest, type FrameManifest } from './manifest';
 import { MediaError } from './media-error';
 import { probeVideo, type VideoProbe } from './probe';
 
@@ -44,6 +45,10 @@ export interface ExtractOptions {
   scaleFlags?: string;
   /** Scaler (default {@link DEFAULT_SCALER}; falls back to swscale by itself if zscale fails). */
   scaler?: Scaler;
+  /** More decoder options before the input (the benchmark tries e.g. `-skip_loop_filter all`). */
+  inputOptions?: string[];
+  /** More encoder options of the frame JPEGs (the benchmark tries e.g. `-huffman default`). */
+  jpegOptions?: string[];
   /** CPU priority of ffmpeg (`nice` value, 0–19; default {@link FFMPEG_NICE}), so web requests stay responsive. */
   nice?: number;
 }
@@ -86,9 +91,12 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
   const { opts } = run;
   return new Promise((resolve, reject) => {
     const logged: ShowinfoFrame[] = [];
+    /** Frames whose files exist (0 … written − 1). */
+    let written = 0;
     const pixel = jpegPixelOptions(run.scaler);
     const inputOptions = ['-hide_banner', '-xerror', '-stats_period', String(STATS_PERIOD_S)];
     if (opts.threads !== undefined) inputOptions.push('-threads', String(opts.threads));
+    if (opts.inputOptions) inputOptions.push(...opts.inputOptions);
     const command = ffmpeg(run.input)
       .inputOptions(inputOptions)
       .complexFilter(filterGraph(run.frame, run.thumb, run.every, run.scaler, opts.scaleFlags ?? DEFAULT_SCALE_FLAGS))
@@ -103,8 +111,12 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
         ...pixel,
         '-q:v',
         String(run.quality),
+        ...(opts.jpegOptions ?? []),
         '-f',
         'image2',
+        // Each file appears whole (temp file + rename), so one that exists can be served.
+        '-atomic_writing',
+        '1',
       ])
       .output(path.join(run.outDir, THUMBS_DIR, '%06d.jpg'))
       .outputOptions([
@@ -119,6 +131,8 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
         String(THUMB_QUALITY),
         '-f',
         'image2',
+        '-atomic_writing',
+        '1',
       ])
       // An abort that came while fluent-ffmpeg was still preparing finds no process to kill.
       .on('start', () => {
@@ -129,9 +143,14 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
         if (frame) logged.push(frame);
         else if (opts.onProgress) {
           // ffmpeg's own status line ("frame=  123 fps=…"), read here rather than through
-          // fluent-ffmpeg's progress event, which would run an extra ffprobe on the input.
-          const written = parseFrameCount(line);
-          if (written !== null) opts.onProgress(Math.min(written, run.total), run.total);
+          // fluent-ffmpeg's progress event, which would run an extra ffprobe on the input. The
+          // muxer writes in its own thread, so the count can run ahead of the files: only frames
+          // whose (atomically written) file exists count, in order.
+          const encoded = parseFrameCount(line);
+          if (encoded === null) return;
+          const before = written;
+          while (written < Math.min(encoded, run.total) && existsSync(path.join(run.outDir, FRAMES_DIR, frameFileName(written)))) written++;
+          if (written > before || encoded === 0) opts.onProgress(written, run.total);
         }
       })
       .on('end', () => {
