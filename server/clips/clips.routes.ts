@@ -157,6 +157,9 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
     const seen = req.session.viewedClips ?? [];
     if (seen.includes(clipId)) return;
     req.session.viewedClips = [...seen.slice(-199), clipId];
+    // Saved before the answer streams: a client holding every byte (Content-Length) may ask again
+    // before the session would otherwise be saved at the end of this response.
+    await new Promise<void>((resolve, reject) => req.session.save((err) => (err ? reject(err) : resolve())));
     await audit(d.db, { clinicId: user.clinicId, actorId: user.id, athleteId, action: 'media.viewed', detail: { clipId } });
   }
 
