@@ -46,6 +46,13 @@ describe('SharedPanel', () => {
     const source = FakeEventSource.instances[0]!;
     expect(source.url).toBe('/api/athletes/9/processing-events');
     source.open();
+    // A list showing a render is read again once the stream is open: a render that ended before
+    // then sends no more events.
+    await wait(20);
+    fixture.detectChanges();
+    backend.expectOne('/api/athletes/9/stills').flush([aStill({ status: 'rendering', progress: 0.4 })]);
+    backend.expectOne('/api/athletes/9/summaries').flush({ summaries: [] });
+    await settle();
 
     source.send({ subject: 'still', kind: 'render_still', id: aStill().id, state: 'running', progress: { done: 70, total: 100 } });
     await settle();

@@ -114,8 +114,10 @@ export class SharedPanel {
           return this.progress.follow(id).pipe(
             tap((message) => {
               if (message.type === 'connected') {
-                // What finished while the connection was down comes with a reload.
-                if (connections++ > 0) this.reload();
+                // What finished while the connection was down, or before it first opened (a render
+                // shown running that ended in between sends no more events), comes with a reload.
+                const rendering = [...this.stillList(), ...this.summaryList()].some((i) => i.status === 'rendering');
+                if (connections++ > 0 || rendering) this.reload();
                 return;
               }
               this.follow(sharedListStep(message.event, { stills: this.stillList(), summaries: this.summaryList() }));
