@@ -8,6 +8,7 @@ import { NotFoundError } from '../errors';
 import { preparedRead } from '../db/prepared-read';
 import type { ClipsService } from '../clips/clips-service';
 import type { MediaStore } from '../storage/media-store';
+import { assessmentPrefix } from '../storage/media-keys';
 import { clipsRepository } from '../clips/clips-repository';
 import { assessmentsRepository as repo, type AssessmentRow } from './assessments-repository';
 import type { AssessmentInput, AssessmentPatch } from './assessments-schemas';
@@ -21,7 +22,17 @@ const PAGE_SQL = `SELECT s.*, a.user_id AS athlete_user_id,
 type PageRow = AssessmentRow & { athlete_user_id: number | null; video_consent: number | null };
 
 /** Dated gait visits of an athlete. Staff write; the athlete reads their own. */
-export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsService; store: MediaStore }) {
+export interface AssessmentsService {
+  list(user: SessionUser, athleteId: number): Promise<Assessment[]>;
+  create(user: SessionUser, athleteId: number, input: AssessmentInput): Promise<Assessment>;
+  /** One assessment with its clips and whether the athlete's video consent is in force. */
+  get(user: SessionUser, id: number): Promise<AssessmentDetail>;
+  update(user: SessionUser, id: number, patch: AssessmentPatch): Promise<Assessment>;
+  /** Deletes the assessment with its clips, their processing and every stored file. */
+  remove(user: SessionUser, id: number): Promise<void>;
+}
+
+export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsService; store: MediaStore }): AssessmentsService {
   const now = () => new Date().toISOString();
   const readPage = preparedRead<PageRow>(db, PAGE_SQL);
   const readClips = clipsRepository.listForAssessmentReader(db);
@@ -114,8 +125,8 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
       const clipIds = await clipsRepository.idsForAssessment(db, id);
       await clips.removeClips(clipIds.map((clipId) => ({ id: clipId, assessment_id: id })));
       await db('assessments').where({ id }).delete();
-      // Visit summaries' PDFs live in the assessment's folder.
-      await store.removeAssessment(id);
+      // Visit summaries' PDFs are kept under the assessment's prefix.
+      await store.removePrefix(assessmentPrefix(id));
       await audit(db, {
         clinicId: user.clinicId,
         actorId: user.id,
@@ -126,5 +137,3 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
     },
   };
 }
-
-export type AssessmentsService = ReturnType<typeof assessmentsService>;

@@ -81,6 +81,10 @@ export const ACCESS_TABLE = {
   'clip:update-settings': staffAndSelf('unmarked'),
   'clip:delete': staffAndSelf('own-upload'),
   'clip:retry': staffAndSelf(),
+  /** The progress stream of an athlete's processed items (the athlete sees the kinds that say so). */
+  'processing:follow': staffAndSelf(),
+  /** Every kind on that stream (stills and summaries still rendering, not only clips). */
+  'processing:see-all': STAFF,
 
   // ── Annotation, measures, comparison, reference bands (staff) ──
   'annotation:read': STAFF,

@@ -17,7 +17,7 @@ export const MUTATION_MODULES = {
     ],
     tests: ['test/unit/billing/**/*.test.ts'],
   },
-  'job-queue': { mutate: ['server/jobs/job-queue.ts'], tests: ['test/server/jobs/job-queue.test.ts'] },
+  // processing: { mutate: ['server/processing/processing.ts', 'server/processing/processed-items-repository.ts'], tests: […] } — next: transition tests for processed items
   // policy: { mutate: ['server/policy/**/*.ts'], tests: ['test/server/policy*.test.ts'] },
 };
 

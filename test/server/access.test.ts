@@ -388,10 +388,10 @@ const ROUTES: RouteCase[] = [
   },
   {
     method: 'get',
-    pattern: '/api/assessments/:id/clip-events',
-    path: (c) => `/api/assessments/${c.assessmentId}/clip-events`,
+    pattern: '/api/athletes/:id/processing-events',
+    path: (c) => `/api/athletes/${c.selfAthleteId}/processing-events`,
     stream: true,
-    access: { action: 'clip:read', on: 'self', ok: 200 },
+    access: { action: 'processing:follow', on: 'self', ok: 200 },
   },
   { method: 'get', pattern: '/api/clips/:id', path: (c) => `/api/clips/${c.clipId}`, access: { action: 'clip:read', on: 'self', ok: 200 } },
   {

@@ -11,8 +11,8 @@ import { createSmtpMailer, type Mailer, type MailMessage } from '../../server/ma
 import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp';
 import { hashPassword } from '../../server/auth/passwords';
 import { seed } from '../../seeds/demo-scenario';
-import type { Worker } from '../../server/jobs/worker';
-import type { JobQueue } from '../../server/jobs/job-queue';
+import type { Worker } from '../../server/processing/worker';
+import type { Processing } from '../../server/processing/processing';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { startFakePayments, type FakePayments } from '../../server/billing/fake-payments/fake-payments';
@@ -67,10 +67,10 @@ export interface TestApp {
   db: Db;
   mailer: MemoryMailer;
   config: Config;
-  /** The in-process job worker. */
+  /** The in-process worker. */
   worker: Worker | null;
-  /** The app's job queue (tests that run without the worker drive it themselves). */
-  queue: JobQueue;
+  /** The app's processing layer (tests that run without the worker drive its queue themselves). */
+  processing: Processing;
   /** Moves the app's clock forward. */
   advance(ms: number): void;
   /** Deletes expired session rows now; answers how many. */
@@ -120,7 +120,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
     mailer.forward = { mailer: createSmtpMailer({ ...config.mail, host: '127.0.0.1', port: fakeSmtp.port }), db };
   }
   let offset = 0;
-  const { app, close, worker, queue, clearExpiredSessions } = createApp({
+  const { app, close, worker, processing, clearExpiredSessions } = createApp({
     config,
     db,
     mailer,
@@ -147,7 +147,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
       offset += ms;
     },
     worker,
-    queue,
+    processing,
     clearExpiredSessions,
     async close() {
       await fakePayments?.idle();

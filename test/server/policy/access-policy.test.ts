@@ -40,6 +40,8 @@ const DOCUMENTED: Record<Action, Who> = {
   'assessment:delete': 'S',
   'clip:upload': 'S+A',
   'clip:read': 'S+A',
+  'processing:follow': 'S+A',
+  'processing:see-all': 'S',
   'clip:read-media': 'S+A',
   'clip:update-settings': 'S+A',
   'clip:delete': 'S+A',
