@@ -17,6 +17,8 @@
  *   other visit's skeleton, dashed and lighter, for the Re-test comparison.
  * - angle-gauge: three-point included angles (the Angle gauge tool), drawn by overlay-gauges;
  * - event-names: the gait events on a frame in words ("Right toe-off · step 3").
+ * - event-rules / event-proposals: proposed initial contacts and toe-offs from heel, toe, hip (and
+ *   knee) positions over frames (coordinate method, refined for running).
  */
 export * from './geometry';
 export * from './angles';
@@ -36,3 +38,5 @@ export * from './format';
 export * from './angle-gauge';
 export * from './overlay-gauges';
 export * from './event-names';
+export * from './event-rules';
+export * from './event-proposals';
