@@ -39,7 +39,7 @@ export const annotationsRepository = {
         .where({ clip_id: clipId })
         .orderBy(['frame', 'side'])
         .select<LandmarkRow[]>('frame', 'side', 'landmark', 'x', 'y', 'source'),
-      db('gait_events').where({ clip_id: clipId }).orderBy('frame').select<GaitEventMark[]>('frame', 'side', 'kind'),
+      db('gait_events').where({ clip_id: clipId }).orderBy('frame').select<GaitEventMark[]>('frame', 'side', 'kind', 'origin'),
       db('scale_bars').where({ clip_id: clipId }).first(),
       db('angle_gauges')
         .where({ clip_id: clipId })
@@ -82,7 +82,7 @@ export const annotationsRepository = {
   async replace(
     trx: Knex,
     clipId: number,
-    input: Omit<AnnotationsInput, 'gauges'> & { gauges?: AnnotationsInput['gauges'] },
+    input: Omit<AnnotationsInput, 'gauges' | 'baseRevision'> & { gauges?: AnnotationsInput['gauges'] },
   ): Promise<void> {
     await trx('clip_landmarks').where({ clip_id: clipId }).delete();
     await trx('gait_events').where({ clip_id: clipId }).delete();
@@ -103,7 +103,7 @@ export const annotationsRepository = {
     if (input.events.length)
       await trx.batchInsert(
         'gait_events',
-        input.events.map((e) => ({ clip_id: clipId, ...e })),
+        input.events.map((e) => ({ clip_id: clipId, frame: e.frame, side: e.side, kind: e.kind, origin: e.origin ?? 'placed' })),
         400,
       );
     if (input.scale) {

@@ -1,4 +1,5 @@
-import type { ClipAnnotations } from '../../src/contracts/annotations';
+import type { ClipAnnotations, EventProposalsResult } from '../../src/contracts/annotations';
+import { mergeProposals, minProposalFrames, proposeGaitEvents, PROPOSAL_MIN_SECONDS } from '../../src/kinematics';
 import type { SessionUser } from '../../src/contracts/api';
 import type { Db } from '../db/knex';
 import { AppError, ConflictError, ValidationError } from '../errors';
@@ -20,6 +21,66 @@ export interface AnnotationsDeps {
 /** A clip's landmarks, events, scale and angle gauges, saved whole with optimistic concurrency. */
 export function annotationsService(d: AnnotationsDeps) {
   const { db } = d;
+
+  /**
+   * Replaces the clip's marks with `input` when `baseRevision` is still current (else 409
+   * `stale_revision` with the current copy), bumps the revision, recomputes the measures snapshot
+   * and audits `action` — one transaction.
+   */
+  async function save(
+    user: SessionUser,
+    clip: ClipRow,
+    baseRevision: number,
+    input: Omit<AnnotationsInput, 'gauges' | 'baseRevision'> & { gauges?: AnnotationsInput['gauges'] },
+    action: string,
+    detail: Record<string, unknown>,
+  ): Promise<void> {
+    const clipId = clip.id;
+    await db.transaction(async (trx) => {
+      const row = await trx('clips').where({ id: clipId }).first<{ annotation_revision: number }>('annotation_revision');
+      if (!row) throw new AppError(404, 'not_found', 'Clip not found.');
+      if (row.annotation_revision !== baseRevision) {
+        const current = await repo.read(trx, clipId);
+        throw new AppError(
+          409,
+          'stale_revision',
+          'Someone saved newer marks on this clip. The latest were loaded; your unsaved changes were re-applied on top.',
+          { current },
+        );
+      }
+      await repo.replace(trx, clipId, input);
+      const at = new Date().toISOString();
+      await trx('clips')
+        .where({ id: clipId })
+        .update({ annotation_revision: row.annotation_revision + 1, annotated_by: user.id, annotated_at: at });
+      const saved = await repo.read(trx, clipId);
+      await d.afterSave(trx, clip, saved);
+      await audit(
+        trx,
+        {
+          clinicId: user.clinicId,
+          actorId: user.id,
+          athleteId: clip.athlete_id,
+          action,
+          detail: { clipId, revision: saved.revision, ...detail },
+        },
+        at,
+      );
+    });
+  }
+
+  async function readyClip(
+    user: SessionUser,
+    clipId: number,
+    action: 'annotation:write' | 'event:propose',
+  ): Promise<ClipRow & { frame_count: number }> {
+    const clip = await d.clips.accessibleClip(user, clipId, action);
+    if (clip.status !== 'ready' || !clip.frame_count) {
+      throw new ConflictError('This clip is not ready yet: wait until its frames are extracted.', 'clip_not_ready');
+    }
+    return clip as ClipRow & { frame_count: number };
+  }
+
   return {
     async get(user: SessionUser, clipId: number): Promise<ClipAnnotations> {
       await d.clips.accessibleClip(user, clipId, 'annotation:read');
@@ -27,10 +88,7 @@ export function annotationsService(d: AnnotationsDeps) {
     },
 
     async put(user: SessionUser, clipId: number, input: AnnotationsInput): Promise<ClipAnnotations> {
-      const clip = await d.clips.accessibleClip(user, clipId, 'annotation:write');
-      if (clip.status !== 'ready' || !clip.frame_count) {
-        throw new ConflictError('This clip is not ready yet: wait until its frames are extracted.', 'clip_not_ready');
-      }
+      const clip = await readyClip(user, clipId, 'annotation:write');
       const frameCount = clip.frame_count;
       const problems: { path: (string | number)[]; message: string }[] = [];
       input.landmarks.forEach((l, i) => {
@@ -58,38 +116,52 @@ export function annotationsService(d: AnnotationsDeps) {
       }
       if (problems.length) throw new ValidationError(problems[0]!.message, problems);
 
-      await db.transaction(async (trx) => {
-        const row = await trx('clips').where({ id: clipId }).first<{ annotation_revision: number }>('annotation_revision');
-        if (!row) throw new AppError(404, 'not_found', 'Clip not found.');
-        if (row.annotation_revision !== input.baseRevision) {
-          const current = await repo.read(trx, clipId);
-          throw new AppError(
-            409,
-            'stale_revision',
-            'Someone saved newer marks on this clip. The latest were loaded; your unsaved changes were re-applied on top.',
-            { current },
-          );
-        }
-        await repo.replace(trx, clipId, input);
-        const at = new Date().toISOString();
-        await trx('clips')
-          .where({ id: clipId })
-          .update({ annotation_revision: row.annotation_revision + 1, annotated_by: user.id, annotated_at: at });
-        const saved = await repo.read(trx, clipId);
-        await d.afterSave(trx, clip, saved);
-        await audit(
-          trx,
-          {
-            clinicId: user.clinicId,
-            actorId: user.id,
-            athleteId: clip.athlete_id,
-            action: 'clip.annotated',
-            detail: { clipId, revision: saved.revision },
-          },
-          at,
-        );
-      });
+      await save(user, clip, input.baseRevision, input, 'clip.annotated', {});
       return repo.read(db, clipId);
+    },
+
+    /**
+     * Proposes initial contacts and toe-offs from the clip's landmarks (`src/kinematics`) and saves
+     * them as proposals: earlier proposals not yet accepted are replaced, placed and accepted events
+     * stay as they are. 422 `too_few_landmarked_frames` when no side has hip, heel and toe on enough
+     * frames in a row; 422 `no_events_found` when none could be found.
+     */
+    async proposeEvents(user: SessionUser, clipId: number, baseRevision: number): Promise<EventProposalsResult> {
+      const clip = await readyClip(user, clipId, 'event:propose');
+      const current = await repo.read(db, clipId);
+      const fps = clip.capture_fps ?? clip.fps ?? 30;
+      const plane = { frameSize: { width: clip.width ?? 1, height: clip.height ?? 1 }, direction: clip.direction };
+      const found = proposeGaitEvents(current.landmarks, plane, fps, clip.frame_count);
+      const need = minProposalFrames(fps);
+      const longest = Math.max(found.usableRun.left, found.usableRun.right);
+      if (longest < need)
+        throw new AppError(
+          422,
+          'too_few_landmarked_frames',
+          `Proposing events needs hip, heel and toe on at least ${need} frames in a row for one side (${PROPOSAL_MIN_SECONDS} s, one slow stride); ` +
+            `the longest run on this clip is ${longest} frame${longest === 1 ? '' : 's'}. Nothing was changed.`,
+          { need, longest },
+        );
+      if (!found.events.length)
+        throw new AppError(
+          422,
+          'no_events_found',
+          'No initial contact or toe-off could be found in the landmarked frames: hip, heel and toe must be marked over at least one whole stride. Nothing was changed.',
+        );
+      const merged = mergeProposals(current.events, found.events, fps, clip.frame_count);
+      const byRule: EventProposalsResult['byRule'] = {};
+      for (const e of found.events)
+        if (merged.events.some((m) => m.origin === 'proposed' && m.frame === e.frame && m.side === e.side && m.kind === e.kind))
+          byRule[e.rule] = (byRule[e.rule] ?? 0) + 1;
+      await save(
+        user,
+        clip,
+        baseRevision,
+        { landmarks: current.landmarks, events: merged.events, scale: current.scale, gauges: current.gauges ?? [] },
+        'clip.events_proposed',
+        { proposed: merged.added },
+      );
+      return { annotations: await repo.read(db, clipId), proposed: merged.added, byRule, skipped: merged.skipped };
     },
   };
 }

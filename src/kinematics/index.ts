@@ -40,3 +40,4 @@ export * from './overlay-gauges';
 export * from './event-names';
 export * from './event-rules';
 export * from './event-proposals';
+export * from './proposal-merge';
