@@ -41,6 +41,7 @@ import { FRAME_KEYS, ReviewAction, ReviewTool, keyAction } from '../key-map';
 import { DEFAULT_REFERENCE_BANDS } from '../kinematics-adapter';
 import { LandmarksPanel } from '../landmarks-panel/landmarks-panel';
 import { MeasuresPanel } from '../measures-panel/measures-panel';
+import { CyclePanel } from '../cycle-panel/cycle-panel';
 import { PLAYBACK_RATES, PLAYBACK_RATE_LABELS, PlaybackRate, formatMs } from '../playback';
 import { ClipManifest, ReviewApi } from '../../../core/data/review-api';
 import { EventProposals } from '../event-proposals';
@@ -96,6 +97,7 @@ const TOOLS: { id: ReviewTool; label: string; icon: string; key: string }[] = [
     EventsPanel,
     ScalePanel,
     MeasuresPanel,
+    CyclePanel,
   ],
   providers: [ReviewStore, AnnotationSync, GaugeTool, EventProposals],
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -192,14 +194,12 @@ export class ReviewPage implements LeaveGuarded {
   /** Event ticks along the scrubber, as percentages. */
   protected readonly eventTicks = computed(() => {
     const last = this.lastFrame() || 1;
-    return this.store
-      .events()
-      .map((e) => ({
-        id: `${e.frame}-${e.side}-${e.kind}`,
-        left: (e.frame / last) * 100,
-        side: e.side,
-        proposed: e.origin === 'proposed',
-      }));
+    return this.store.events().map((e) => ({
+      id: `${e.frame}-${e.side}-${e.kind}`,
+      left: (e.frame / last) * 100,
+      side: e.side,
+      proposed: e.origin === 'proposed',
+    }));
   });
 
   private openedClip: number | null = null;
