@@ -22,8 +22,8 @@ export function compareCycleSeries(baseline: CycleVisit | null, retest: CycleVis
       : null;
   const out: CycleChartSeries[] = [];
   const b = of(baseline);
-  if (b) out.push({ id: 'baseline', label: `Baseline · ${word}`, side, curves: b, secondary: true });
+  if (b) out.push({ id: 'baseline', label: `Baseline · ${word}`, side, curves: b, secondary: true, markerLabel: 'TO baseline' });
   const r = of(retest);
-  if (r) out.push({ id: 'retest', label: `Re-test · ${word}`, side, curves: r });
+  if (r) out.push({ id: 'retest', label: `Re-test · ${word}`, side, curves: r, markerLabel: 'TO re-test' });
   return out;
 }

@@ -14,8 +14,8 @@ describe('gait-cycle chart data', () => {
   it('a band (mean ± SD, filled between) and the mean line per series, baseline dashed and lighter', () => {
     const ds = cycleDatasets(
       [
-        { id: 'b', label: 'Baseline · right', side: 'right', curves, secondary: true },
-        { id: 'r', label: 'Re-test · right', side: 'right', curves },
+        { id: 'b', label: 'Baseline · right', side: 'right', curves, secondary: true, markerLabel: 'TO baseline' },
+        { id: 'r', label: 'Re-test · right', side: 'right', curves, markerLabel: 'TO re-test' },
       ],
       'thighDeg',
     );
@@ -27,12 +27,12 @@ describe('gait-cycle chart data', () => {
     expect(ds[2]!.borderDash).toEqual([7, 4]);
     expect(ds[5]!.borderDash).toEqual([]);
     expect(ds[5]!.borderColor).toBe('#E08A1E');
-    expect(cycleDatasets([{ id: 'r', label: 'R', side: 'right', curves }], 'kneeFlexionDeg')).toEqual([]);
+    expect(cycleDatasets([{ id: 'r', label: 'R', side: 'right', curves, markerLabel: 'TO R' }], 'kneeFlexionDeg')).toEqual([]);
   });
 
   it('toe-off markers and words', () => {
-    expect(toeOffLines([{ id: 'r', label: 'R', side: 'left', curves }], 'thighDeg')).toEqual([
-      { pct: 35.714, colour: '#7B4FD6', dash: [6, 3], label: 'TO' },
+    expect(toeOffLines([{ id: 'l', label: 'Left', side: 'left', curves, markerLabel: 'TO L' }], 'thighDeg')).toEqual([
+      { pct: 35.714, colour: '#7B4FD6', dash: [6, 3], label: 'TO L' },
     ]);
     expect(markerText('toe-off', curves.toeOff)).toBe('toe-off 35.7% ± 1.3%');
     expect(markerText('toe-off', { meanPct: 40, sdPct: 0, strides: 1 })).toBe('toe-off 40.0%');

@@ -17,6 +17,8 @@ export interface CycleChartSeries {
   curves: SideCycleCurves;
   /** Drawn dashed and lighter (the other visit on the Re-test comparison). */
   secondary?: boolean;
+  /** Label of its toe-off marker on the chart ("TO R"). */
+  markerLabel: string;
 }
 
 export type CycleDataset = ChartDataset<'line', { x: number; y: number }[]>;
@@ -99,7 +101,12 @@ export function markerText(name: string, m: CycleMarker | null): string {
 export function toeOffLines(series: readonly CycleChartSeries[], key: CycleAngleKey): CycleMarkerLine[] {
   return series
     .filter((s) => s.curves.toeOff && s.curves.curves.some((c) => c.key === key))
-    .map((s) => ({ pct: s.curves.toeOff!.meanPct, colour: seriesColour(s.side, key), dash: s.secondary ? [2, 3] : [6, 3], label: 'TO' }));
+    .map((s) => ({
+      pct: s.curves.toeOff!.meanPct,
+      colour: seriesColour(s.side, key),
+      dash: s.secondary ? [2, 3] : [6, 3],
+      label: s.markerLabel,
+    }));
 }
 
 /** A chart.js plugin drawing the toe-off markers (vertical lines with a "TO" label on top). */

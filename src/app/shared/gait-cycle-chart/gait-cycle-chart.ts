@@ -37,6 +37,8 @@ export class GaitCycleChart {
   readonly emptyText = input(
     'Gait-cycle curves appear once landmarks are on every frame of at least one stride (initial contact → toe-off → next initial contact of one side, events placed or accepted).',
   );
+  /** Heading size: `panel` (a tool panel's small title) or `section` (a page section's heading). */
+  readonly heading = input<'panel' | 'section'>('panel');
   /** Heading id prefix (two charts on one page need different ids). */
   readonly idPrefix = input('cycle');
 

@@ -30,7 +30,7 @@ export class CyclePanel {
     const curves = gaitCycleCurves(a.landmarks, a.events, { frameSize: size, direction: this.store.direction() });
     return SIDES.flatMap((side) => {
       const c = curves[side];
-      return c ? [{ id: side, label: SIDE_WORD[side], side, curves: c }] : [];
+      return c ? [{ id: side, label: SIDE_WORD[side], side, curves: c, markerLabel: `TO ${SIDE_WORD[side][0]}` }] : [];
     });
   });
 }
