@@ -3,7 +3,6 @@ import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { Chart, ChartConfiguration, Filler, LineController, LineElement, LinearScale, PointElement, Tooltip } from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
 import { CYCLE_ANGLES, type CycleAngleKey } from '../../../kinematics/gait-cycle';
-import { MEASURES_CAUTION } from '../caution';
 import {
   CycleChartSeries,
   CycleMarkerLine,
@@ -22,6 +21,7 @@ Chart.register(LineController, LineElement, PointElement, LinearScale, Tooltip, 
  * same side), mean line with a ± SD band per series (side, or side of one visit), and toe-off
  * markers; an angle picker; a legend with strides and toe-off %; an empty state with the reason.
  * Used by the review (one clip, both sides) and the Re-test comparison (baseline dashed and lighter).
+ * It shows figures: the page around it carries `MEASURES_CAUTION` (both pages that use it do).
  */
 @Component({
   selector: 'app-gait-cycle-chart',
@@ -44,7 +44,6 @@ export class GaitCycleChart {
 
   private readonly chartDir = viewChild(BaseChartDirective);
   protected readonly angles = CYCLE_ANGLES;
-  protected readonly caution = MEASURES_CAUTION;
   protected readonly angle = signal<CycleAngleKey>('thighDeg');
 
   protected readonly shown = computed(() => this.series().filter((s) => s.curves.strides > 0));
