@@ -117,14 +117,12 @@ describe('EventProposals', () => {
 
   it('shows the server’s reason when there are too few landmarked frames, and changes nothing', async () => {
     const done = proposals.propose();
-    http
-      .expectOne('/api/clips/7/events/proposals')
-      .flush(
-        {
-          error: { code: 'too_few_landmarked_frames', message: 'Proposing events needs hip, heel and toe on at least 96 frames in a row.' },
-        },
-        { status: 422, statusText: 'Unprocessable Entity' },
-      );
+    http.expectOne('/api/clips/7/events/proposals').flush(
+      {
+        error: { code: 'too_few_landmarked_frames', message: 'Proposing events needs hip, heel and toe on at least 96 frames in a row.' },
+      },
+      { status: 422, statusText: 'Unprocessable Entity' },
+    );
     await done;
     expect(proposals.problem()).toBe('Proposing events needs hip, heel and toe on at least 96 frames in a row.');
     expect(store.events()).toEqual([placed]);
