@@ -8,53 +8,94 @@ import type { ClipsService } from '../clips/clips-service';
 import type { ClipRow } from '../clips/clips-repository';
 import { annotationsRepository as repo } from './annotations-repository';
 import type { AnnotationsInput } from './annotations-schemas';
+import { normalizeMarks } from './annotation-changes';
+import type { ClipMeasures } from '../../src/contracts/measures';
 
 export interface AnnotationsDeps {
   db: Db;
   clips: ClipsService;
   /** Checks event order; returns problems in words (from src/kinematics). */
   validateEvents: (events: AnnotationsInput['events'], frameCount: number) => string[];
-  /** Recomputes the clip's measures snapshot inside the save's transaction. */
-  afterSave: (trx: Db, clip: ClipRow, annotations: ClipAnnotations) => Promise<void>;
+  /** The clip's measures: computed before a save's transaction, stored as its snapshot inside it. */
+  measures: {
+    computeFor(clip: ClipRow, annotations: ClipAnnotations): Promise<ClipMeasures>;
+    storeSnapshot(trx: Db, clip: ClipRow, revision: number, measures: ClipMeasures): Promise<void>;
+  };
 }
 
-/** A clip's landmarks, events, scale and angle gauges, saved whole with optimistic concurrency. */
+/** Clips whose last saved marks are kept in memory (a few hundred annotators at once). */
+const LAST_SAVED_KEPT = 500;
+
+/**
+ * The marks of each clip's last save from this process, by clip, so the next autosave of an
+ * annotator need not read them back. An entry is used only for the revision it was saved as, and
+ * the save's transaction checks that this revision is still the stored one; every change to a
+ * clip's marks raises its revision, so a kept entry is never taken for different stored marks.
+ */
+function savedMarks(max: number) {
+  const kept = new Map<number, ClipAnnotations>();
+  return {
+    at(clipId: number, revision: number): ClipAnnotations | undefined {
+      const hit = kept.get(clipId);
+      return hit?.revision === revision ? hit : undefined;
+    },
+    keep(saved: ClipAnnotations): void {
+      kept.delete(saved.clipId);
+      kept.set(saved.clipId, saved);
+      if (kept.size > max) kept.delete(kept.keys().next().value!);
+    },
+  };
+}
+
+/** 409 `stale_revision` with the marks now stored. */
+function staleRevision(current: ClipAnnotations): AppError {
+  return new AppError(
+    409,
+    'stale_revision',
+    'Someone saved newer marks on this clip. The latest were loaded; your unsaved changes were re-applied on top.',
+    { current },
+  );
+}
+
+/**
+ * A clip's landmarks, events, scale and angle gauges, saved whole with optimistic concurrency
+ * (each save names the revision it was based on; only what changed is written).
+ */
 export function annotationsService(d: AnnotationsDeps) {
   const { db } = d;
+  const lastSaved = savedMarks(LAST_SAVED_KEPT);
 
   /**
-   * Replaces the clip's marks with `input` when `baseRevision` is still current (else 409
-   * `stale_revision` with the current copy), bumps the revision, recomputes the measures snapshot
-   * and audits `action` — one transaction.
+   * Saves `input` as the clip's marks when `baseRevision` is still the stored one (else 409
+   * `stale_revision` with the stored copy): writes only what changed, raises the revision, stores
+   * the measures snapshot and audits `action`, in one transaction. Returns the saved copy.
    */
   async function save(
     user: SessionUser,
     clip: ClipRow,
     baseRevision: number,
-    input: Omit<AnnotationsInput, 'gauges' | 'baseRevision'> & { gauges?: AnnotationsInput['gauges'] },
+    input: Parameters<typeof normalizeMarks>[0],
     action: string,
     detail: Record<string, unknown>,
-  ): Promise<void> {
+  ): Promise<ClipAnnotations> {
     const clipId = clip.id;
+    // What is stored now, known before the transaction: the save is checked against it, its
+    // measures computed and its changes found before the one writing connection is taken.
+    const stored = lastSaved.at(clipId, baseRevision) ?? (await repo.read(db, clipId));
+    if (stored.revision !== baseRevision) throw staleRevision(stored);
+    const marks = normalizeMarks(input);
+    const at = new Date().toISOString();
+    const saved: ClipAnnotations = { clipId, revision: stored.revision + 1, ...marks, updatedAt: at, updatedByName: user.name };
+    const measures = await d.measures.computeFor(clip, saved);
+
     await db.transaction(async (trx) => {
       const row = await trx('clips').where({ id: clipId }).first<{ annotation_revision: number }>('annotation_revision');
       if (!row) throw new AppError(404, 'not_found', 'Clip not found.');
-      if (row.annotation_revision !== baseRevision) {
-        const current = await repo.read(trx, clipId);
-        throw new AppError(
-          409,
-          'stale_revision',
-          'Someone saved newer marks on this clip. The latest were loaded; your unsaved changes were re-applied on top.',
-          { current },
-        );
-      }
-      await repo.replace(trx, clipId, input);
-      const at = new Date().toISOString();
-      await trx('clips')
-        .where({ id: clipId })
-        .update({ annotation_revision: row.annotation_revision + 1, annotated_by: user.id, annotated_at: at });
-      const saved = await repo.read(trx, clipId);
-      await d.afterSave(trx, clip, saved);
+      // Another save since the read: the marks read are not what is stored any more.
+      if (row.annotation_revision !== stored.revision) throw staleRevision(await repo.read(trx, clipId));
+      await repo.applyChanges(trx, clipId, { ...stored, gauges: stored.gauges ?? [] }, marks);
+      await trx('clips').where({ id: clipId }).update({ annotation_revision: saved.revision, annotated_by: user.id, annotated_at: at });
+      await d.measures.storeSnapshot(trx, clip, saved.revision, measures);
       await audit(
         trx,
         {
@@ -67,6 +108,8 @@ export function annotationsService(d: AnnotationsDeps) {
         at,
       );
     });
+    lastSaved.keep(saved);
+    return saved;
   }
 
   async function readyClip(
@@ -116,10 +159,8 @@ export function annotationsService(d: AnnotationsDeps) {
       }
       if (problems.length) throw new ValidationError(problems[0]!.message, problems);
 
-      await save(user, clip, input.baseRevision, input, 'clip.annotated', {});
-      return repo.read(db, clipId);
+      return save(user, clip, input.baseRevision, input, 'clip.annotated', {});
     },
-
     /**
      * Proposes initial contacts and toe-offs from the clip's landmarks (`src/kinematics`) and saves
      * them as proposals: earlier proposals not yet accepted are replaced, placed and accepted events
@@ -128,7 +169,8 @@ export function annotationsService(d: AnnotationsDeps) {
      */
     async proposeEvents(user: SessionUser, clipId: number, baseRevision: number): Promise<EventProposalsResult> {
       const clip = await readyClip(user, clipId, 'event:propose');
-      const current = await repo.read(db, clipId);
+      const current = lastSaved.at(clipId, baseRevision) ?? (await repo.read(db, clipId));
+      if (current.revision !== baseRevision) throw staleRevision(current);
       const fps = clip.capture_fps ?? clip.fps ?? 30;
       const plane = { frameSize: { width: clip.width ?? 1, height: clip.height ?? 1 }, direction: clip.direction };
       const found = proposeGaitEvents(current.landmarks, plane, fps, clip.frame_count);
@@ -153,7 +195,7 @@ export function annotationsService(d: AnnotationsDeps) {
       for (const e of found.events)
         if (merged.events.some((m) => m.origin === 'proposed' && m.frame === e.frame && m.side === e.side && m.kind === e.kind))
           byRule[e.rule] = (byRule[e.rule] ?? 0) + 1;
-      await save(
+      const annotations = await save(
         user,
         clip,
         baseRevision,
@@ -161,7 +203,7 @@ export function annotationsService(d: AnnotationsDeps) {
         'clip.events_proposed',
         { proposed: merged.added },
       );
-      return { annotations: await repo.read(db, clipId), proposed: merged.added, byRule, skipped: merged.skipped };
+      return { annotations, proposed: merged.added, byRule, skipped: merged.skipped };
     },
   };
 }
