@@ -70,7 +70,7 @@ export function normalizeMarks(input: {
   }
   return {
     landmarks: landmarks.sort(byFrameSide),
-    events: input.events.map((e) => ({ frame: e.frame, side: e.side, kind: e.kind })).sort(byFrameSide),
+    events: input.events.map((e) => ({ frame: e.frame, side: e.side, kind: e.kind, origin: e.origin ?? 'placed' })).sort(byFrameSide),
     scale: input.scale,
     gauges: [...(input.gauges ?? [])].sort((a, b) => a.frame - b.frame || (a.id < b.id ? -1 : a.id > b.id ? 1 : 0)),
   };
@@ -109,7 +109,13 @@ const samePoint = (a: { x: number; y: number }, b: { x: number; y: number }) => 
 
 /** Whether two event lists (normalised) are the same. */
 export function sameEvents(a: GaitEventMark[], b: GaitEventMark[]): boolean {
-  return a.length === b.length && a.every((e, i) => e.frame === b[i]!.frame && e.side === b[i]!.side && e.kind === b[i]!.kind);
+  return (
+    a.length === b.length &&
+    a.every(
+      (e, i) =>
+        e.frame === b[i]!.frame && e.side === b[i]!.side && e.kind === b[i]!.kind && (e.origin ?? 'placed') === (b[i]!.origin ?? 'placed'),
+    )
+  );
 }
 
 /** Whether two scale bars are the same. */

@@ -40,7 +40,7 @@ export const annotationsRepository = {
         .where({ clip_id: clipId })
         .orderBy(['frame', 'side'])
         .select<LandmarkPoint[]>('frame', 'side', 'landmark', 'x', 'y', 'source'),
-      db('gait_events').where({ clip_id: clipId }).orderBy(['frame', 'side']).select<GaitEventMark[]>('frame', 'side', 'kind'),
+      db('gait_events').where({ clip_id: clipId }).orderBy(['frame', 'side']).select<GaitEventMark[]>('frame', 'side', 'kind', 'origin'),
       db('scale_bars').where({ clip_id: clipId }).first(),
       db('angle_gauges')
         .where({ clip_id: clipId })

@@ -89,6 +89,8 @@ export const ACCESS_TABLE = {
   // ── Annotation, measures, comparison, reference bands (staff) ──
   'annotation:read': STAFF,
   'annotation:write': STAFF,
+  /** Ask for gait events proposed from the clip's landmarks (saved as proposals). */
+  'event:propose': STAFF,
   'measure:read': STAFF,
   'comparison:read': STAFF,
   'reference-band:list': STAFF,

@@ -461,6 +461,15 @@ const ROUTES: RouteCase[] = [
     access: { action: 'annotation:write', on: 'self', ok: 200 },
   },
   {
+    method: 'post',
+    pattern: '/api/clips/:id/events/proposals',
+    path: (c) => `/api/clips/${c.clipId}/events/proposals`,
+    body: () => ({ baseRevision: 0 }),
+    before: () => resetRevision(),
+    // The walk's clip has no landmarks: the caller allowed in hears why nothing can be proposed.
+    access: { action: 'event:propose', on: 'self', ok: 422 },
+  },
+  {
     method: 'get',
     pattern: '/api/clips/:id/measures',
     path: (c) => `/api/clips/${c.clipId}/measures`,

@@ -48,6 +48,7 @@ const DOCUMENTED: Record<Action, Who> = {
   'clip:retry': 'S+A',
   'annotation:read': 'S',
   'annotation:write': 'S',
+  'event:propose': 'S',
   'measure:read': 'S',
   'comparison:read': 'S',
   'reference-band:list': 'S',

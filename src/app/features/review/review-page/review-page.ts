@@ -42,8 +42,10 @@ import { FRAME_KEYS, ReviewAction, ReviewTool, keyAction } from '../key-map';
 import { DEFAULT_REFERENCE_BANDS } from '../kinematics-adapter';
 import { LandmarksPanel } from '../landmarks-panel/landmarks-panel';
 import { MeasuresPanel } from '../measures-panel/measures-panel';
+import { CyclePanel } from '../cycle-panel/cycle-panel';
 import { PLAYBACK_RATES, PLAYBACK_RATE_LABELS, PlaybackRate, formatMs } from '../playback';
 import { ClipManifest, ReviewApi } from '../../../core/data/review-api';
+import { EventProposals } from '../event-proposals';
 import { ReviewStore } from '../review-store';
 import { ScalePanel } from '../scale-panel/scale-panel';
 import { openSaveStill } from '../../../shared/sharing/save-still-dialog/save-still-dialog';
@@ -96,8 +98,9 @@ const TOOLS: { id: ReviewTool; label: string; icon: string; key: string }[] = [
     EventsPanel,
     ScalePanel,
     MeasuresPanel,
+    CyclePanel,
   ],
-  providers: [ReviewStore, AnnotationSync, GaugeTool],
+  providers: [ReviewStore, AnnotationSync, GaugeTool, EventProposals],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './review-page.html',
   styleUrl: './review-page.scss',
@@ -198,7 +201,12 @@ export class ReviewPage implements LeaveGuarded {
   /** Event ticks along the scrubber, as percentages. */
   protected readonly eventTicks = computed(() => {
     const last = this.lastFrame() || 1;
-    return this.store.events().map((e) => ({ id: `${e.frame}-${e.side}-${e.kind}`, left: (e.frame / last) * 100, side: e.side }));
+    return this.store.events().map((e) => ({
+      id: `${e.frame}-${e.side}-${e.kind}`,
+      left: (e.frame / last) * 100,
+      side: e.side,
+      proposed: e.origin === 'proposed',
+    }));
   });
 
   private openedClip: number | null = null;
