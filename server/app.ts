@@ -48,6 +48,12 @@ import { billingService } from './billing/billing-service';
 import { billingRoutes, billingWebhookRoutes } from './billing/billing.routes';
 import { clinicRoutes } from './clinic/clinic.routes';
 import { clinicService } from './clinic/clinic-service';
+import { clinicBrands } from './clinic/clinic-brand';
+import { brandingMailer } from './mail/mailer';
+import { localMediaObjects } from './storage/media-objects';
+import { workerPictureProcessor } from './pictures/picture-pool';
+import { demonstrationsService } from './demonstrations/demonstrations-service';
+import { demonstrationsRoutes } from './demonstrations/demonstrations.routes';
 import { stripePayments, type Payments } from './billing/payments';
 
 /** What the app needs from outside; tests pass their own. */
@@ -84,8 +90,13 @@ const UPLOAD_TEMP_SWEEP = { everyMs: 10 * 60_000, maxAgeMs: 60 * 60_000 };
 
 /** Builds the Express app; `server/main.ts` listens, tests call this directly. */
 export function createApp(deps: AppDeps): App {
-  const { config, db, mailer, logger } = deps;
+  const { config, db, logger } = deps;
   const clock = deps.clock ?? (() => new Date());
+  const objects = localMediaObjects(config.uploadsDir);
+  const pictures = workerPictureProcessor();
+  const brands = clinicBrands({ db, objects });
+  // Every message that names its clinic goes out on the clinic's letterhead.
+  const mailer = brandingMailer(deps.mailer, (clinicId) => brands.forDocuments(clinicId));
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', config.trustProxy);
@@ -142,6 +153,7 @@ export function createApp(deps: AppDeps): App {
     config,
     logger,
     clock,
+    brands,
     payments: deps.payments !== undefined ? deps.payments : config.payments ? stripePayments(config.payments) : null,
   });
   // The payment webhook reads its RAW body (signature) and is CSRF-exempt: mounted before both.
@@ -230,7 +242,7 @@ export function createApp(deps: AppDeps): App {
   const annotations = annotationsService({ db, clips, validateEvents, afterSave: measures.afterSave });
   const exercises = exercisesService({ db, clock });
   const plans = plansService({ db, clock });
-  const sharing = { db, store, queue, clips, mailer, logger, publicUrl: config.publicUrl, clock, wakeWorker: () => worker?.wake() };
+  const sharing = { db, store, queue, clips, mailer, logger, publicUrl: config.publicUrl, clock, wakeWorker: () => worker?.wake(), brands };
   const stills = stillsService(sharing);
   const summaries = summariesService({ ...sharing, stills, measures });
   // Wherever a job runs out of attempts (in this process's worker or at any claim), its subject fails.
@@ -273,7 +285,8 @@ export function createApp(deps: AppDeps): App {
   api.use(summariesRoutes(summaries));
   api.use(portalSharedRoutes({ stills, summaries }));
   api.use(billingRoutes(billing));
-  api.use(clinicRoutes(clinicService({ db, clock })));
+  api.use(clinicRoutes(clinicService({ db, clock, objects, pictures })));
+  api.use(demonstrationsRoutes(demonstrationsService({ db, objects, pictures, clock })));
   api.use(apiNotFound);
 
   app.use('/api', (_req, res, next) => {

@@ -28,6 +28,8 @@ import type { MeasuresService } from '../measures/measures-service';
 import type { StillsService } from '../stills/stills-service';
 import { displayDate } from '../stills/stills-service';
 import { SUMMARY_CAUTION, renderSummaryPdf, type SummaryVisit } from '../render/summary-pdf';
+import type { ClinicBrands } from '../clinic/clinic-brand';
+import { legalFooter } from '../mail/branded-mail';
 import { summariesRepository as repo, summaryFile, type SummaryRow } from './summaries-repository';
 import { summaryFileName, type SummaryFileName } from './summary-file-name';
 import { clinicBands } from '../measures/reference-bands';
@@ -48,6 +50,8 @@ export interface SummariesDeps {
   publicUrl: string;
   clock: () => Date;
   wakeWorker: () => void;
+  /** The clinic's logo and legal details for the PDF's letterhead (none: the clinic's name only). */
+  brands?: ClinicBrands;
 }
 
 /** "3.06 m/s (11.0 km/h)", in the unit the coach typed it in. */
@@ -248,9 +252,12 @@ export function summariesService(d: SummariesDeps) {
         // A still deleted (or whose clip was deleted) after the summary was requested drops out.
         if (png) stills.push({ image: png.file, width: png.row.width ?? 1, height: png.row.height ?? 1, caption: png.row.caption });
       }
+      const brand = await d.brands?.forDocuments(row.clinic_id);
       const { pdf, pageCount } = await renderSummaryPdf(
         {
           clinicName: clinic?.name ?? 'Your clinic',
+          clinicLogo: brand?.logo ?? null,
+          clinicLegalLines: brand ? legalFooter(brand) : [],
           athleteName: `${athlete.first_name} ${athlete.last_name}`,
           title: baseline ? 'Re-test comparison' : 'Visit summary',
           issuedOn: displayDate(now().slice(0, 10)),
