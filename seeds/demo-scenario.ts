@@ -13,6 +13,7 @@ import { RENDER_STILL_JOB, freezePanel } from '../server/stills/stills-service';
 import { RENDER_SUMMARY_JOB } from '../server/summaries/summaries-service';
 import { annotationsRepository } from '../server/annotations/annotations-repository';
 import { seedDemoHamstringPlan, seedDemoPlans } from './demo-plans';
+import { seedDemoPictures } from './demo-illustrations/seed-pictures';
 import { seedDemoInvoices } from './demo-invoices';
 import { seedDemoPrices } from './demo-prices';
 
@@ -382,7 +383,11 @@ export async function seed(knex: Knex, opts: SeedOptions = {}): Promise<boolean>
     await seedDemoPrices(trx, clinicId, at);
     await seedDemoInvoices(trx, clinicId, userIds[0]!);
   });
-  if (opts.uploadsDir) await seedDemoClips(knex, opts.uploadsDir, opts.log ?? (() => undefined));
+  if (opts.uploadsDir) {
+    const clinic = await knex('clinics').where({ name: DEMO_CLINIC_NAME }).first<{ id: number }>('id');
+    await seedDemoPictures(knex, clinic.id, opts.uploadsDir, opts.log ?? (() => undefined));
+    await seedDemoClips(knex, opts.uploadsDir, opts.log ?? (() => undefined));
+  }
   return true;
 }
 
