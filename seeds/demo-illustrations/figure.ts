@@ -99,12 +99,6 @@ export function lowest(j: Joints): number {
   return Math.min(...ys);
 }
 
-/**
- * The view: `across` units span the picture's width (poses place the hip within 0–150, so `offset`
- * units of margin sit left of 0); the floor is `floorPx` (at 1200 px wide) above the bottom edge.
- */
-export const VIEW = { across: 160, offset: 5, floorPx: 60 } as const;
-
 /** Colours of the drawings: the app's spruce for the near side, a lighter tone for the far side. */
 export const INK = {
   background: '#F4F7F5',
@@ -116,16 +110,69 @@ export const INK = {
   arrow: '#E08A1E',
 };
 
+/** How far the figure is lifted so its resting point sits where the pose says. */
+function liftOf(pose: Pose, j: Joints): number {
+  return (pose.restOn ?? 0) - (pose.restPoint === 'near-toe' ? j.near.toe[1] - 1.5 : lowest(j));
+}
+
+/** What a set of poses covers once set down, in units: left and right edges and the top (the floor is 0). */
+export interface Frame {
+  minX: number;
+  maxX: number;
+  maxY: number;
+}
+
+/** The frame that holds every pose of an exercise (so its pictures share one scale and the figure does not jump). */
+export function frameOf(poses: readonly Pose[]): Frame {
+  const xs: number[] = [];
+  const ys: number[] = [0];
+  for (const pose of poses) {
+    const j = joints(pose);
+    const lift = liftOf(pose, j);
+    const pts = [
+      j.hip,
+      j.shoulder,
+      ...[j.near, j.far].flatMap((l) => [l.knee, l.ankle, l.toe, l.heel]),
+      ...[j.nearArm, j.farArm].flatMap((a) => [a.elbow, a.hand]),
+    ];
+    for (const [x, y] of pts) {
+      xs.push(x);
+      ys.push(y + lift);
+    }
+    xs.push(j.headCentre[0] - SEGMENTS.head, j.headCentre[0] + SEGMENTS.head);
+    ys.push(j.headCentre[1] + lift + SEGMENTS.head);
+    for (const prop of pose.props ?? []) {
+      if (prop.kind === 'step') xs.push(prop.x, prop.x + prop.width);
+      if (prop.kind === 'bench') xs.push(j.shoulder[0] - prop.width / 2, j.shoulder[0] + prop.width / 2);
+    }
+  }
+  return { minX: Math.min(...xs), maxX: Math.max(...xs), maxY: Math.max(...ys) };
+}
+
+/** Pixels of floor under the figure, and of margin around it (at any size). */
+export const LAYOUT = { floorBand: 0.06, margin: 0.05 } as const;
+
+/** A picture size for a frame: 1000 px wide, as tall as the figure needs (between 2:1 and 4:3). */
+export function sizeFor(frame: Frame, width = 1000): { width: number; height: number } {
+  const wide = frame.maxX - frame.minX;
+  const tall = frame.maxY;
+  const inner = width * (1 - 2 * LAYOUT.margin);
+  const height = ((tall / wide) * inner) / (1 - LAYOUT.floorBand - LAYOUT.margin);
+  return { width, height: Math.round(Math.min(width * 0.75, Math.max(width * 0.5, height))) };
+}
+
 /**
- * Draws one pose filling a `width`×`height` canvas: floor, props, the far limbs, then trunk, head
- * and the near limbs on top.
+ * Draws one pose into a `width`×`height` canvas, scaled so `frame` fills it: floor, props, the
+ * far limbs, then trunk, head and the near limbs on top.
  */
-export function drawPose(ctx: CanvasRenderingContext2D, pose: Pose, width: number, height: number): void {
-  const scale = width / VIEW.across;
-  const floorY = height - VIEW.floorPx * (width / 1200);
+export function drawPose(ctx: CanvasRenderingContext2D, pose: Pose, width: number, height: number, frame: Frame = frameOf([pose])): void {
+  const floorY = height * (1 - LAYOUT.floorBand);
+  const margin = width * LAYOUT.margin;
+  const scale = Math.min((width - 2 * margin) / (frame.maxX - frame.minX), (floorY - height * LAYOUT.margin) / frame.maxY);
+  const left = (width - (frame.maxX - frame.minX) * scale) / 2 - frame.minX * scale;
   const j = joints(pose);
-  const lift = (pose.restOn ?? 0) - (pose.restPoint === 'near-toe' ? j.near.toe[1] - 1.5 : lowest(j));
-  const px = (p: Pt): Pt => [(p[0] + VIEW.offset) * scale, floorY - (p[1] + lift) * scale];
+  const lift = liftOf(pose, j);
+  const px = (p: Pt): Pt => [left + p[0] * scale, floorY - (p[1] + lift) * scale];
 
   ctx.fillStyle = INK.background;
   ctx.fillRect(0, 0, width, height);
@@ -143,7 +190,7 @@ export function drawPose(ctx: CanvasRenderingContext2D, pose: Pose, width: numbe
       ctx.lineWidth = 3;
       const top = floorY - box.height * scale;
       ctx.beginPath();
-      ctx.roundRect((box.x + VIEW.offset) * scale, top, box.width * scale, box.height * scale, 6);
+      ctx.roundRect(left + box.x * scale, top, box.width * scale, box.height * scale, 6);
       ctx.fill();
       ctx.stroke();
     }

@@ -8,22 +8,21 @@ import type { Knex } from 'knex';
 import { demoPictureKey } from '../../server/demonstrations/demo-keys';
 import { processPicture } from '../../server/pictures/picture-processing';
 import { localMediaObjects } from '../../server/storage/media-objects';
-import { drawPose } from './figure';
+import { drawPose, frameOf, sizeFor } from './figure';
 import { DEMO_ILLUSTRATIONS, type KeyPosition } from './poses';
 
-/** Size the illustrations are drawn at (4:3). */
-export const ILLUSTRATION_SIZE = { width: 1000, height: 750 } as const;
-
-/** One key position as a PNG. */
-export function drawKeyPosition(position: KeyPosition): Buffer {
-  const canvas = createCanvas(ILLUSTRATION_SIZE.width, ILLUSTRATION_SIZE.height);
-  drawPose(
-    canvas.getContext('2d') as unknown as CanvasRenderingContext2D,
-    position.pose,
-    ILLUSTRATION_SIZE.width,
-    ILLUSTRATION_SIZE.height,
-  );
-  return canvas.toBuffer('image/png');
+/**
+ * The key positions of one exercise as PNGs, 1000 px wide, all at one scale and size (the figure
+ * fills the picture and does not jump as the athlete swipes).
+ */
+export function drawKeyPositions(positions: readonly KeyPosition[]): Buffer[] {
+  const frame = frameOf(positions.map((p) => p.pose));
+  const { width, height } = sizeFor(frame);
+  return positions.map((p) => {
+    const canvas = createCanvas(width, height);
+    drawPose(canvas.getContext('2d') as unknown as CanvasRenderingContext2D, p.pose, width, height, frame);
+    return canvas.toBuffer('image/png');
+  });
 }
 
 /** Draws, processes and stores the pictures of every demo exercise of the clinic that has none yet. */
@@ -35,8 +34,9 @@ export async function seedDemoPictures(knex: Knex, clinicId: number, uploadsDir:
   for (const exercise of exercises) {
     const positions = DEMO_ILLUSTRATIONS[exercise.name];
     if (!positions || (await knex('demo_pictures').where({ exercise_id: exercise.id }).first('id'))) continue;
+    const drawings = drawKeyPositions(positions);
     for (const [position, key] of positions.entries()) {
-      const processed = await processPicture(drawKeyPosition(key));
+      const processed = await processPicture(drawings[position]!);
       const [row] = await knex('demo_pictures')
         .insert({
           clinic_id: clinicId,

@@ -14,7 +14,7 @@ import { SCREENSHOTS, startHarness, type Harness } from './harness';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { seedDemoHamstringPlan } from '../../seeds/demo-plans';
 import { DEMO_ILLUSTRATIONS } from '../../seeds/demo-illustrations/poses';
-import { drawKeyPosition } from '../../seeds/demo-illustrations/seed-pictures';
+import { drawKeyPositions } from '../../seeds/demo-illustrations/seed-pictures';
 
 const [owner, coach, , athlete] = DEMO_SIGN_INS;
 const PHONE = { width: 390, height: 844 };
@@ -30,7 +30,7 @@ beforeAll(async () => {
   const ada = await h.server.db('athletes').where({ email: athlete.email }).first();
   await seedDemoHamstringPlan(h.server.db, ada.clinic_id, ada, null);
   dir = fs.mkdtempSync(path.join(os.tmpdir(), 'demos-e2e-'));
-  DEMO_ILLUSTRATIONS[EXERCISE]!.forEach((p, i) => fs.writeFileSync(path.join(dir, `position-${i + 1}.png`), drawKeyPosition(p)));
+  drawKeyPositions(DEMO_ILLUSTRATIONS[EXERCISE]!).forEach((png, i) => fs.writeFileSync(path.join(dir, `position-${i + 1}.png`), png));
   const logo = new Jimp({ width: 480, height: 160, color: 0x00000000 });
   for (let y = 30; y < 130; y++) for (let x = 20; x < 460; x++) if ((x - 20) % 120 < 90) logo.setPixelColor(0x1f5a4aff, x, y);
   fs.writeFileSync(path.join(dir, 'logo.png'), await logo.getBuffer('image/png'));
@@ -61,9 +61,7 @@ describe('exercise demonstrations', () => {
     await page.goto(`${h.baseUrl}/exercises`);
     await page.getByRole('button', { name: `Pictures of ${EXERCISE}` }).click();
     const dialog = page.getByRole('dialog');
-    await dialog
-      .locator('input[type=file]')
-      .setInputFiles([path.join(dir, 'position-1.png'), path.join(dir, 'position-2.png')]);
+    await dialog.locator('input[type=file]').setInputFiles([path.join(dir, 'position-1.png'), path.join(dir, 'position-2.png')]);
     const pictures = dialog.getByRole('list', { name: 'Pictures in order' }).getByRole('listitem');
     await expect.poll(() => pictures.count(), { timeout: 60_000 }).toBe(2);
     const caption = dialog.getByLabel('Caption 1');
@@ -95,7 +93,14 @@ describe('exercise demonstrations', () => {
     await gallery.scrollIntoViewIfNeeded();
     const track = gallery.locator('.track');
     // The first picture has loaded and stands above the dose.
-    await expect.poll(() => gallery.locator('img').first().evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth > 0)).toBe(true);
+    await expect
+      .poll(() =>
+        gallery
+          .locator('img')
+          .first()
+          .evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth > 0),
+      )
+      .toBe(true);
     const galleryBox = (await gallery.boundingBox())!;
     const doseBox = (await page.locator('app-exercise-card', { has: gallery }).getByLabel('Dose').boundingBox())!;
     expect(galleryBox.y + galleryBox.height).toBeLessThanOrEqual(doseBox.y + 1);
@@ -103,20 +108,28 @@ describe('exercise demonstrations', () => {
     expect(await track.getAttribute('aria-label')).toBe('Picture 1 of 2');
     await page.screenshot({ path: shot('demos-portal-390-first.png') });
 
-    // A touch swipe from right to left across the picture.
+    // A touch swipe from right to left across the picture: finger down, moved in steps, lifted.
     const cdp = await context.newCDPSession(page);
     const box = (await track.boundingBox())!;
-    await cdp.send('Input.synthesizeScrollGesture', {
-      x: Math.round(box.x + box.width * 0.8),
-      y: Math.round(box.y + box.height / 2),
-      xDistance: -Math.round(box.width * 0.7),
-      yDistance: 0,
-      gestureSourceType: 'touch',
-      speed: 1200,
-    });
+    const y = Math.round(box.y + box.height / 2);
+    const from = Math.round(box.x + box.width * 0.85);
+    const to = Math.round(box.x + box.width * 0.15);
+    await cdp.send('Input.dispatchTouchEvent', { type: 'touchStart', touchPoints: [{ x: from, y }] });
+    for (let i = 1; i <= 12; i++) {
+      await cdp.send('Input.dispatchTouchEvent', { type: 'touchMove', touchPoints: [{ x: Math.round(from + ((to - from) * i) / 12), y }] });
+      await page.waitForTimeout(16);
+    }
+    await cdp.send('Input.dispatchTouchEvent', { type: 'touchEnd', touchPoints: [] });
     await expect.poll(() => track.getAttribute('aria-label'), { timeout: 10_000 }).toBe('Picture 2 of 2');
     await expect.poll(() => track.evaluate((el) => Math.round(el.scrollLeft / el.clientWidth))).toBe(1);
-    await expect.poll(() => gallery.locator('img').nth(1).evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth > 0)).toBe(true);
+    await expect
+      .poll(() =>
+        gallery
+          .locator('img')
+          .nth(1)
+          .evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth > 0),
+      )
+      .toBe(true);
     await page.screenshot({ path: shot('demos-portal-390-second.png') });
     // The clinic's logo in the portal's header.
     expect(await page.locator('.top-bar img.clinic-logo').count()).toBe(1);

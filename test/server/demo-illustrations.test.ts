@@ -7,9 +7,9 @@ import { createCanvas, loadImage } from '@napi-rs/canvas';
 import { imageSize } from 'image-size';
 import { describe, expect, it } from 'vitest';
 import { DEMO_EXERCISES } from '../../seeds/demo-exercises';
-import { joints, lowest, VIEW } from '../../seeds/demo-illustrations/figure';
+import { LAYOUT } from '../../seeds/demo-illustrations/figure';
 import { DEMO_ILLUSTRATIONS } from '../../seeds/demo-illustrations/poses';
-import { drawKeyPosition, ILLUSTRATION_SIZE } from '../../seeds/demo-illustrations/seed-pictures';
+import { drawKeyPositions } from '../../seeds/demo-illustrations/seed-pictures';
 import { DEMO_LIMITS } from '../../src/contracts/demonstrations';
 import { processPicture } from '../../server/pictures/picture-processing';
 
@@ -29,25 +29,48 @@ describe('demo exercise illustrations', () => {
     expect(Object.keys(DEMO_ILLUSTRATIONS).sort()).toEqual(DEMO_EXERCISES.map((e) => e.name).sort());
   });
 
-  it('every figure fits across the picture and below its top edge', () => {
+  it('each exercise’s drawings share one size, and the figure fills its picture (ink read back with @napi-rs/canvas)', async () => {
     for (const [name, positions] of Object.entries(DEMO_ILLUSTRATIONS)) {
-      for (const { pose } of positions) {
-        const j = joints(pose);
-        const xs = [j.hip, j.shoulder, j.headCentre, j.near.toe, j.far.toe, j.near.heel, j.nearArm.hand, j.farArm.hand].map((p) => p[0]);
-        expect(Math.min(...xs), name).toBeGreaterThan(2);
-        expect(Math.max(...xs), name).toBeLessThan(148);
-        const rest = pose.restPoint === 'near-toe' ? j.near.toe[1] - 1.5 : lowest(j);
-        const height = Math.max(j.headCentre[1] + 5.5, j.nearArm.hand[1], j.farArm.hand[1]) - rest;
-        const { width: w, height: h } = ILLUSTRATION_SIZE;
-        const roomAboveFloor = (h - VIEW.floorPx * (w / 1200)) / (w / VIEW.across);
-        expect((pose.restOn ?? 0) + height, name).toBeLessThan(roomAboveFloor - 3);
+      const pngs = drawKeyPositions(positions);
+      const sizes = pngs.map((p) => imageSize(p));
+      expect(new Set(sizes.map((s) => `${s.width}×${s.height}`)).size, name).toBe(1);
+      const { width, height } = sizes[0] as { width: number; height: number };
+      expect(width).toBe(1000);
+      expect(height / width).toBeGreaterThanOrEqual(0.5);
+      expect(height / width).toBeLessThanOrEqual(0.75);
+      // Across the exercise's positions, the figure's ink reaches most of the width or of the height above the floor.
+      let minX = width,
+        maxX = 0,
+        minY = height,
+        maxY = 0;
+      for (const png of pngs) {
+        const img = await loadImage(png);
+        const ctx = createCanvas(width, height).getContext('2d');
+        ctx.drawImage(img, 0, 0);
+        const data = ctx.getImageData(0, 0, width, height).data;
+        for (let y = 0; y < height; y += 2) {
+          for (let x = 0; x < width; x += 2) {
+            const i = (y * width + x) * 4;
+            if (data[i] === 0x1f && data[i + 1] === 0x5a && data[i + 2] === 0x4a) {
+              minX = Math.min(minX, x);
+              maxX = Math.max(maxX, x);
+              minY = Math.min(minY, y);
+              maxY = Math.max(maxY, y);
+            }
+          }
+        }
       }
+      const floorY = height * (1 - LAYOUT.floorBand);
+      expect(Math.max((maxX - minX) / width, (floorY - minY) / floorY), name).toBeGreaterThan(0.6);
+      expect(minX, name).toBeGreaterThan(0);
+      expect(minY, name).toBeGreaterThan(0);
     }
   });
 
   it('a drawing shows the figure in the app’s spruce and goes through picture processing as an upload would', async () => {
-    const png = drawKeyPosition(DEMO_ILLUSTRATIONS['Heel drop from a step, straight knee']![1]!);
-    expect(imageSize(png)).toMatchObject({ width: ILLUSTRATION_SIZE.width, height: ILLUSTRATION_SIZE.height, type: 'png' });
+    const png = drawKeyPositions(DEMO_ILLUSTRATIONS['Heel drop from a step, straight knee']!)[1]!;
+    const size = imageSize(png);
+    expect(size.type).toBe('png');
     const img = await loadImage(png);
     const ctx = createCanvas(img.width, img.height).getContext('2d');
     ctx.drawImage(img, 0, 0);
@@ -56,7 +79,8 @@ describe('demo exercise illustrations', () => {
     for (let i = 0; i < data.length; i += 4) if (data[i] === 0x1f && data[i + 1] === 0x5a && data[i + 2] === 0x4a) ink++;
     expect(ink).toBeGreaterThan(2000);
     const out = await processPicture(png);
-    expect([out.full.width, out.full.height]).toEqual([1000, 750]);
-    expect([out.thumb.width, out.thumb.height]).toEqual([400, 300]);
+    expect([out.full.width, out.full.height]).toEqual([size.width, size.height]);
+    expect(out.thumb.width).toBe(400);
+    expect(out.thumb.height).toBe(Math.round((size.height! / size.width!) * 400));
   });
 });

@@ -29,15 +29,7 @@ let planned: number;
 let unplanned: number;
 
 const bytesOf = (res: { body: unknown }) => res.body as Buffer;
-const binary = (client: Client, url: string) =>
-  client.agent
-    .get(url)
-    .buffer(true)
-    .parse((res, cb) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (x: Buffer) => chunks.push(x));
-      res.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+const binary = (client: Client, url: string) => client.binary(url);
 
 async function upload(client: Client, exerciseId: number, file: Buffer, name = 'photo.jpg', caption?: string) {
   const req = client.agent

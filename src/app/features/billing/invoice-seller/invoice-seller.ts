@@ -74,7 +74,7 @@ import type { InvoiceDetail } from '../../../../contracts/billing';
   `,
 })
 export class InvoiceSeller {
-  readonly invoice = input.required<Pick<InvoiceDetail, 'clinicName' | 'clinicLegal'>>();
+  readonly invoice = input.required<Pick<InvoiceDetail, 'clinicName' | 'clinicLegal' | 'clinicLogoUrl'>>();
   /** Whether the owner looks (and is told what is missing). */
   readonly forOwner = input(false);
   protected readonly addressLines = computed(() => this.invoice().clinicLegal.address.split('\n').filter(Boolean));
