@@ -16,24 +16,36 @@ const picture = (id: number, position: number, caption: string): DemoPicture => 
   createdAt: '2026-12-04T10:00:00Z',
 });
 
+const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
 describe('DemoGallery', () => {
   let fixture: ComponentFixture<DemoGallery>;
   let element: HTMLElement;
   let backend: HttpTestingController;
 
   beforeEach(async () => {
+    // jsdom has no element scrolling; the gallery's smooth scroll is a no-op here.
+    Element.prototype.scrollTo ??= function () {};
     TestBed.configureTestingModule({ providers: [provideHttpClient(), provideHttpClientTesting()] });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(DemoGallery);
     fixture.componentRef.setInput('exerciseId', 4);
     fixture.componentRef.setInput('exerciseName', 'Heel drop');
     element = fixture.nativeElement;
-    await fixture.whenStable();
+    fixture.detectChanges();
+    await wait(10);
   });
+  const settle = async () => {
+    await wait(20);
+    fixture.detectChanges();
+    await fixture.whenStable();
+    fixture.detectChanges();
+  };
+  afterEach(() => backend.verify());
 
   it('shows nothing when the exercise has no pictures', async () => {
     backend.expectOne('/api/exercises/4/demonstrations').flush({ exerciseId: 4, pictures: [] });
-    await fixture.whenStable();
+    await settle();
     expect(element.querySelector('section')).toBeNull();
   });
 
@@ -41,7 +53,7 @@ describe('DemoGallery', () => {
     backend
       .expectOne('/api/exercises/4/demonstrations')
       .flush({ error: { code: 'not_found', message: 'Exercise not found.' } }, { status: 404, statusText: 'Not Found' });
-    await fixture.whenStable();
+    await settle();
     expect(element.querySelector('section')).toBeNull();
   });
 
@@ -61,14 +73,14 @@ describe('DemoGallery', () => {
     const next = element.querySelector<HTMLButtonElement>('button[aria-label="Next picture"]')!;
     expect(previous.disabled).toBe(true);
     next.click();
-    await fixture.whenStable();
+    await settle();
     expect(track.getAttribute('aria-label')).toBe('Picture 2 of 2');
     expect(next.disabled).toBe(true);
   });
 
   it('has no step buttons for a single picture', async () => {
     backend.expectOne('/api/exercises/4/demonstrations').flush({ exerciseId: 4, pictures: [picture(9, 0, '')] });
-    await fixture.whenStable();
+    await settle();
     expect(element.querySelectorAll('img').length).toBe(1);
     expect(element.querySelector('img')!.getAttribute('alt')).toBe('Heel drop, picture 1');
     expect(element.querySelector('button')).toBeNull();
