@@ -65,9 +65,11 @@ export function workerPictureProcessor(): PictureProcessor {
           resolve(reply);
           void worker.terminate();
         });
-        worker.once('error', reject);
-        worker.once('exit', (code) => {
-          if (!replied) reject(new Error(`picture worker stopped (exit ${code})`));
+        // A worker that dies on a picture (out of memory on a hostile file) refuses that picture; the server goes on.
+        const died = () => reject(new PictureError('undecodable', 'The picture could not be processed. Send a smaller JPEG or PNG.'));
+        worker.once('error', died);
+        worker.once('exit', () => {
+          if (!replied) died();
         });
       });
     } finally {
