@@ -7,19 +7,62 @@ import type { ClipsService } from '../clips/clips-service';
 import type { ClipRow } from '../clips/clips-repository';
 import { annotationsRepository as repo } from './annotations-repository';
 import type { AnnotationsInput } from './annotations-schemas';
+import { normalizeMarks } from './annotation-changes';
+import type { ClipMeasures } from '../../src/contracts/measures';
 
 export interface AnnotationsDeps {
   db: Db;
   clips: ClipsService;
   /** Checks event order; returns problems in words (from src/kinematics). */
   validateEvents: (events: AnnotationsInput['events'], frameCount: number) => string[];
-  /** Recomputes the clip's measures snapshot inside the save's transaction. */
-  afterSave: (trx: Db, clip: ClipRow, annotations: ClipAnnotations) => Promise<void>;
+  /** The clip's measures: computed before a save's transaction, stored as its snapshot inside it. */
+  measures: {
+    computeFor(clip: ClipRow, annotations: ClipAnnotations): Promise<ClipMeasures>;
+    storeSnapshot(trx: Db, clip: ClipRow, revision: number, measures: ClipMeasures): Promise<void>;
+  };
 }
 
-/** A clip's landmarks, events, scale and angle gauges, saved whole with optimistic concurrency. */
+/** Clips whose last saved marks are kept in memory (a few hundred annotators at once). */
+const LAST_SAVED_KEPT = 500;
+
+/**
+ * The marks of each clip's last save from this process, by clip, so the next autosave of an
+ * annotator need not read them back. An entry is used only for the revision it was saved as, and
+ * the save's transaction checks that this revision is still the stored one; every change to a
+ * clip's marks raises its revision, so a kept entry is never taken for different stored marks.
+ */
+function savedMarks(max: number) {
+  const kept = new Map<number, ClipAnnotations>();
+  return {
+    at(clipId: number, revision: number): ClipAnnotations | undefined {
+      const hit = kept.get(clipId);
+      return hit?.revision === revision ? hit : undefined;
+    },
+    keep(saved: ClipAnnotations): void {
+      kept.delete(saved.clipId);
+      kept.set(saved.clipId, saved);
+      if (kept.size > max) kept.delete(kept.keys().next().value!);
+    },
+  };
+}
+
+/** 409 `stale_revision` with the marks now stored. */
+function staleRevision(current: ClipAnnotations): AppError {
+  return new AppError(
+    409,
+    'stale_revision',
+    'Someone saved newer marks on this clip. The latest were loaded; your unsaved changes were re-applied on top.',
+    { current },
+  );
+}
+
+/**
+ * A clip's landmarks, events, scale and angle gauges, saved whole with optimistic concurrency
+ * (each save names the revision it was based on; only what changed is written).
+ */
 export function annotationsService(d: AnnotationsDeps) {
   const { db } = d;
+  const lastSaved = savedMarks(LAST_SAVED_KEPT);
   return {
     async get(user: SessionUser, clipId: number): Promise<ClipAnnotations> {
       await d.clips.accessibleClip(user, clipId, 'annotation:read');
@@ -58,25 +101,23 @@ export function annotationsService(d: AnnotationsDeps) {
       }
       if (problems.length) throw new ValidationError(problems[0]!.message, problems);
 
+      // What is stored now, known before the transaction: the save is checked against it, its
+      // measures computed and its changes found before the one writing connection is taken.
+      const stored = lastSaved.at(clipId, input.baseRevision) ?? (await repo.read(db, clipId));
+      if (stored.revision !== input.baseRevision) throw staleRevision(stored);
+      const marks = normalizeMarks(input);
+      const at = new Date().toISOString();
+      const saved: ClipAnnotations = { clipId, revision: stored.revision + 1, ...marks, updatedAt: at, updatedByName: user.name };
+      const measures = await d.measures.computeFor(clip, saved);
+
       await db.transaction(async (trx) => {
         const row = await trx('clips').where({ id: clipId }).first<{ annotation_revision: number }>('annotation_revision');
         if (!row) throw new AppError(404, 'not_found', 'Clip not found.');
-        if (row.annotation_revision !== input.baseRevision) {
-          const current = await repo.read(trx, clipId);
-          throw new AppError(
-            409,
-            'stale_revision',
-            'Someone saved newer marks on this clip. The latest were loaded; your unsaved changes were re-applied on top.',
-            { current },
-          );
-        }
-        await repo.replace(trx, clipId, input);
-        const at = new Date().toISOString();
-        await trx('clips')
-          .where({ id: clipId })
-          .update({ annotation_revision: row.annotation_revision + 1, annotated_by: user.id, annotated_at: at });
-        const saved = await repo.read(trx, clipId);
-        await d.afterSave(trx, clip, saved);
+        // Another save since the read: the marks read are not what is stored any more.
+        if (row.annotation_revision !== stored.revision) throw staleRevision(await repo.read(trx, clipId));
+        await repo.applyChanges(trx, clipId, { ...stored, gauges: stored.gauges ?? [] }, marks);
+        await trx('clips').where({ id: clipId }).update({ annotation_revision: saved.revision, annotated_by: user.id, annotated_at: at });
+        await d.measures.storeSnapshot(trx, clip, saved.revision, measures);
         await audit(
           trx,
           {
@@ -89,7 +130,8 @@ export function annotationsService(d: AnnotationsDeps) {
           at,
         );
       });
-      return repo.read(db, clipId);
+      lastSaved.keep(saved);
+      return saved;
     },
   };
 }

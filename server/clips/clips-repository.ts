@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import type { Clip } from '../../src/contracts/api';
 import type { ClipStatus, Direction, Side } from '../../src/contracts/assessment';
+import { preparedRead } from '../db/prepared-read';
 
 export interface ClipRow {
   id: number;
@@ -60,6 +61,13 @@ export const clipsRepository = {
   async listForAssessment(db: Knex, assessmentId: number): Promise<Clip[]> {
     const rows = (await withUploader(db).where('c.assessment_id', assessmentId).orderBy('c.id')) as ClipWithName[];
     return rows.map(toApi);
+  },
+
+  /** {@link clipsRepository.listForAssessment} as a prepared read (outside transactions only), for the assessment page. */
+  listForAssessmentReader(db: Knex): (assessmentId: number) => Promise<Clip[]> {
+    const query = withUploader(db).where('c.assessment_id', 0).orderBy('c.id').toSQL();
+    const read = preparedRead<ClipWithName>(db, query.sql);
+    return async (assessmentId) => (await read([assessmentId])).map(toApi);
   },
 
   idsForAssessment(db: Knex, assessmentId: number): Promise<number[]> {

@@ -86,9 +86,17 @@ export function measuresService({ db, store, clips }: { db: Db; store: MediaStor
   }
 
   return {
-    /** Called inside the annotation save's transaction. */
-    async afterSave(trx: Knex, clip: ClipRow, annotations: ClipAnnotations): Promise<void> {
-      await store_(trx, clip, annotations.revision, await compute(trx, clip, annotations));
+    /**
+     * The measures of marks about to be saved, computed before the save's transaction opens (it
+     * reads committed rows only), so the one writing connection is not held while they compute.
+     */
+    computeFor(clip: ClipRow, annotations: ClipAnnotations): Promise<ClipMeasures> {
+      return compute(db, clip, annotations);
+    },
+
+    /** Stores the snapshot of a revision, inside the save's transaction. */
+    storeSnapshot(trx: Knex, clip: ClipRow, revision: number, measures: ClipMeasures): Promise<void> {
+      return store_(trx, clip, revision, measures);
     },
 
     async forClip(user: SessionUser, clipId: number): Promise<ClipMeasures> {

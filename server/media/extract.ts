@@ -62,6 +62,12 @@ async function countJpegs(dir: string): Promise<number> {
   return (await readdir(dir)).filter((f) => JPG.test(f)).length;
 }
 
+/**
+ * Frame extraction runs at this niceness (`nice -n`): on a busy machine the API (autosave, page
+ * reads) keeps its share of the cores, and extraction takes whatever is left.
+ */
+export const EXTRACT_NICENESS = 10;
+
 interface Run {
   input: string;
   staging: string;
@@ -82,7 +88,7 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
     const pixel = jpegPixelOptions(run.scaler);
     const inputOptions = ['-hide_banner', '-xerror'];
     if (opts.threads !== undefined) inputOptions.push('-threads', String(opts.threads));
-    const command = ffmpeg(run.input)
+    const command = ffmpeg(run.input, { niceness: EXTRACT_NICENESS })
       .inputOptions(inputOptions)
       .complexFilter(filterGraph(run.frame, run.thumb, run.every, run.scaler, opts.scaleFlags ?? DEFAULT_SCALE_FLAGS))
       .output(path.join(run.staging, FRAMES_DIR, '%06d.jpg'))

@@ -12,7 +12,7 @@ const [owner, coach] = DEMO_SIGN_INS;
 let t: TestApp;
 
 beforeEach(async () => {
-  t = await makeTestApp({}, { fakeSmtp: true });
+  t = await makeTestApp();
 });
 afterEach(async () => {
   await t.close();

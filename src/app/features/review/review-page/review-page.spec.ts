@@ -6,6 +6,7 @@ import { provideRouter } from '@angular/router';
 import type { ClipAnnotations } from '../../../../contracts/annotations';
 import type { AssessmentDetail, Clip } from '../../../../contracts/api';
 import { AuthStore } from '../../../core/auth-store';
+import { stubJsdomCanvas } from '../../../shared/testing/jsdom-canvas';
 import { ReviewPage } from './review-page';
 
 function clip(overrides: Partial<Clip> = {}): Clip {
@@ -65,21 +66,12 @@ describe('ReviewPage', () => {
   let element: HTMLElement;
   let backend: HttpTestingController;
 
-  const realGetContext = HTMLCanvasElement.prototype.getContext;
-  const realResizeObserver = globalThis.ResizeObserver;
+  let restoreJsdom: () => void;
   beforeAll(() => {
-    // jsdom has no layout observer and no canvas drawing.
-    globalThis.ResizeObserver ??= class {
-      observe() {}
-      unobserve() {}
-      disconnect() {}
-    } as unknown as typeof ResizeObserver;
-    HTMLCanvasElement.prototype.getContext = (() => null) as never;
+    // jsdom has no layout observer, no canvas drawing and no image decoding.
+    restoreJsdom = stubJsdomCanvas();
   });
-  afterAll(() => {
-    HTMLCanvasElement.prototype.getContext = realGetContext;
-    globalThis.ResizeObserver = realResizeObserver;
-  });
+  afterAll(() => restoreJsdom());
 
   /** Runs change detection and effects (no whenStable: open frame fetches keep the app busy). */
   async function settle(): Promise<void> {

@@ -3,6 +3,7 @@ import { HttpTestingController, provideHttpClientTesting } from '@angular/common
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
 import { aStill, aSummary } from '../test-stills';
+import { POLL_MS } from '../sharing-logic';
 import { SharedPanel } from './shared-panel';
 
 const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -35,28 +36,40 @@ describe('SharedPanel', () => {
     document.querySelector('.cdk-overlay-container')?.replaceChildren();
   });
 
-  it('polls while a still renders, shows its progress, and stops when it is ready', async () => {
-    await open();
-    backend.expectOne('/api/athletes/9/stills').flush([aStill({ status: 'rendering', progress: 0.4 })]);
-    backend.expectOne('/api/athletes/9/summaries').flush({ summaries: [] });
-    await settle();
-    expect(element.textContent).toContain('Rendering… 40 %');
-    expect(element.querySelector('mat-progress-bar[mode="determinate"]')).not.toBeNull();
+  it('polls every POLL_MS (700 ms) while a still renders, shows its progress, and stops when it is ready', async () => {
+    // Fake timers: the test moves the clock itself, so the poll interval is checked to the millisecond.
+    vi.useFakeTimers();
+    try {
+      const advance = async (ms: number) => {
+        await vi.advanceTimersByTimeAsync(ms);
+        fixture.detectChanges();
+      };
+      await open();
+      backend.expectOne('/api/athletes/9/stills').flush([aStill({ status: 'rendering', progress: 0.4 })]);
+      backend.expectOne('/api/athletes/9/summaries').flush({ summaries: [] });
+      await advance(0);
+      expect(element.textContent).toContain('Rendering… 40 %');
+      expect(element.querySelector('mat-progress-bar[mode="determinate"]')).not.toBeNull();
 
-    await wait(750);
-    backend.expectOne('/api/athletes/9/stills').flush([aStill({ status: 'rendering', progress: 0.7 })]);
-    backend.expectOne('/api/athletes/9/summaries').flush([]);
-    await settle();
-    expect(element.textContent).toContain('Rendering… 70 %');
+      await advance(POLL_MS - 1);
+      backend.expectNone('/api/athletes/9/stills');
+      await advance(1);
+      backend.expectOne('/api/athletes/9/stills').flush([aStill({ status: 'rendering', progress: 0.7 })]);
+      backend.expectOne('/api/athletes/9/summaries').flush([]);
+      await advance(0);
+      expect(element.textContent).toContain('Rendering… 70 %');
 
-    await wait(750);
-    backend.expectOne('/api/athletes/9/stills').flush([aStill({ status: 'ready', caption: 'Hip at toe-off' })]);
-    backend.expectOne('/api/athletes/9/summaries').flush([]);
-    await settle();
-    expect(element.querySelector('img')?.getAttribute('alt')).toBe('Hip at toe-off');
+      await advance(POLL_MS);
+      backend.expectOne('/api/athletes/9/stills').flush([aStill({ status: 'ready', caption: 'Hip at toe-off' })]);
+      backend.expectOne('/api/athletes/9/summaries').flush([]);
+      await advance(0);
+      expect(element.querySelector('img')?.getAttribute('alt')).toBe('Hip at toe-off');
 
-    await wait(900);
-    backend.expectNone('/api/athletes/9/stills');
+      await advance(POLL_MS * 5);
+      backend.expectNone('/api/athletes/9/stills');
+    } finally {
+      vi.useRealTimers();
+    }
   });
 
   it('publishes after a confirmation that mentions the e-mail notice', async () => {
