@@ -77,7 +77,9 @@ for (let i = 0; i < RUNS; i++) {
 }
 const p = median(processedMs);
 const b = median(plainMs);
-console.log(`photo ${W}×${H} JPEG (${(jpeg.length / 1024 / 1024).toFixed(1)} MiB, EXIF orientation 6 + GPS), ${RUNS} runs each, interleaved, jimp`);
+console.log(
+  `photo ${W}×${H} JPEG (${(jpeg.length / 1024 / 1024).toFixed(1)} MiB, EXIF orientation 6 + GPS), ${RUNS} runs each, interleaved, jimp`,
+);
 console.log(`demonstration picture (orient, 1600 px + 400 px thumbnail, strip, encode): median ${(p / 1000).toFixed(2)} s`);
 console.log(`plain decode + encode at full size:                                        median ${(b / 1000).toFixed(2)} s`);
 console.log(`ratio picture / plain: ${(p / b).toFixed(2)}`);
