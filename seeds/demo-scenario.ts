@@ -16,6 +16,7 @@ import { RENDER_STILL } from '../server/stills/render-still-kind';
 import { RENDER_SUMMARY } from '../server/summaries/render-summary-kind';
 import { annotationsRepository } from '../server/annotations/annotations-repository';
 import { seedDemoHamstringPlan, seedDemoPlans } from './demo-plans';
+import { seedDemoPictures } from './demo-illustrations/seed-pictures';
 import { seedDemoInvoices } from './demo-invoices';
 import { seedDemoPrices } from './demo-prices';
 
@@ -385,7 +386,11 @@ export async function seed(knex: Knex, opts: SeedOptions = {}): Promise<boolean>
     await seedDemoPrices(trx, clinicId, at);
     await seedDemoInvoices(trx, clinicId, userIds[0]!);
   });
-  if (opts.uploadsDir) await seedDemoClips(knex, opts.uploadsDir, opts.log ?? (() => undefined));
+  if (opts.uploadsDir) {
+    const clinic = await knex('clinics').where({ name: DEMO_CLINIC_NAME }).first<{ id: number }>('id');
+    await seedDemoPictures(knex, clinic.id, opts.uploadsDir, opts.log ?? (() => undefined));
+    await seedDemoClips(knex, opts.uploadsDir, opts.log ?? (() => undefined));
+  }
   return true;
 }
 

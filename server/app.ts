@@ -44,6 +44,12 @@ import { billingService } from './billing/billing-service';
 import { billingRoutes, billingWebhookRoutes } from './billing/billing.routes';
 import { clinicRoutes } from './clinic/clinic.routes';
 import { clinicService } from './clinic/clinic-service';
+import { clinicBrands } from './clinic/clinic-brand';
+import { brandingMailer } from './mail/mailer';
+import { localMediaObjects } from './storage/media-objects';
+import { workerPictureProcessor } from './pictures/picture-pool';
+import { demonstrationsService } from './demonstrations/demonstrations-service';
+import { demonstrationsRoutes } from './demonstrations/demonstrations.routes';
 import { stripePayments, type Payments } from './billing/payments';
 
 /** What the app needs from outside; tests pass their own. */
@@ -82,8 +88,13 @@ const RELAY_EVERY_MS = 250;
 
 /** Builds the Express app; `server/main.ts` listens, tests call this directly. */
 export function createApp(deps: AppDeps): App {
-  const { config, db, mailer, logger } = deps;
+  const { config, db, logger } = deps;
   const clock = deps.clock ?? (() => new Date());
+  const objects = localMediaObjects(config.uploadsDir);
+  const pictures = workerPictureProcessor();
+  const brands = clinicBrands({ db, objects });
+  // Every message that names its clinic goes out on the clinic's letterhead.
+  const mailer = brandingMailer(deps.mailer, (clinicId) => brands.forDocuments(clinicId));
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', config.trustProxy);
@@ -99,6 +110,7 @@ export function createApp(deps: AppDeps): App {
     config,
     logger,
     clock,
+    brands,
     payments: deps.payments !== undefined ? deps.payments : config.payments ? stripePayments(config.payments) : null,
   });
   // The payment webhook reads its RAW body (signature) and is CSRF-exempt: mounted before both.
@@ -173,7 +185,7 @@ export function createApp(deps: AppDeps): App {
   const temps = uploadTemps(uploadTempDir(config.uploadsDir), (err) => logger.warn({ err: err.message }, 'upload temp sweep failed'));
   const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
   const revocations = inProcessRevocations();
-  const media = createMediaServices({ config, db, mailer, logger, clock, store: deps.store });
+  const media = createMediaServices({ config, db, mailer, logger, clock, store: deps.store, brands });
   const { store, processing, clips, assessments, measures, annotations, stills, summaries } = media;
   const exercises = exercisesService({ db, clock });
   const plans = plansService({ db, clock });
@@ -216,7 +228,8 @@ export function createApp(deps: AppDeps): App {
   api.use(summariesRoutes(summaries, store));
   api.use(portalSharedRoutes({ stills, summaries }));
   api.use(billingRoutes(billing));
-  api.use(clinicRoutes(clinicService({ db, clock })));
+  api.use(clinicRoutes(clinicService({ db, clock, objects, pictures })));
+  api.use(demonstrationsRoutes(demonstrationsService({ db, objects, pictures, clock })));
   api.use(apiNotFound);
 
   app.use('/api', (_req, res, next) => {

@@ -1,3 +1,5 @@
+import { clinicBrands, type ClinicBrands } from './clinic/clinic-brand';
+import { localMediaObjects } from './storage/media-objects';
 import type { Logger } from 'pino';
 import type { Config } from './config';
 import type { Db } from './db/knex';
@@ -24,6 +26,8 @@ export interface MediaServicesDeps {
   store?: MediaStore;
   /** The progress channel; defaults to one within this process. */
   channel?: ProgressChannel;
+  /** The clinics' letterheads for documents; defaults to the logos stored under `config.uploadsDir`. */
+  brands?: ClinicBrands;
 }
 
 /** The media path's services and the processing layer they register their kinds with. */
@@ -56,7 +60,8 @@ export function createMediaServices(d: MediaServicesDeps): MediaServices {
   const assessments = assessmentsService({ db, clips, store });
   const measures = measuresService({ db, clips });
   const annotations = annotationsService({ db, clips, validateEvents, measures });
-  const sharing = { db, store, processing, clips, mailer, logger, publicUrl: config.publicUrl, clock };
+  const brands = d.brands ?? clinicBrands({ db, objects: localMediaObjects(config.uploadsDir) });
+  const sharing = { db, store, processing, clips, mailer, logger, publicUrl: config.publicUrl, clock, brands };
   const stills = stillsService(sharing);
   const summaries = summariesService({ ...sharing, stills, measures });
   return { store, processing, clips, assessments, measures, annotations, stills, summaries };

@@ -17,6 +17,8 @@ import type { MediaStore } from '../storage/media-store';
 import type { StillsService } from '../stills/stills-service';
 import { displayDate } from '../stills/stills-service';
 import { summariesRepository as repo } from './summaries-repository';
+import type { ClinicBrands } from '../clinic/clinic-brand';
+import { legalFooter } from '../mail/branded-mail';
 
 /** The kind that makes a visit summary's PDF. */
 export const RENDER_SUMMARY = 'render_summary';
@@ -38,6 +40,8 @@ export interface RenderSummaryDeps {
   stills: StillsService;
   measures: MeasuresService;
   clock: () => Date;
+  /** The clinic's logo and legal details for the PDF's letterhead (none: the clinic's name only). */
+  brands?: ClinicBrands;
 }
 
 /**
@@ -91,9 +95,12 @@ export function renderSummaryKind(d: RenderSummaryDeps): ProcessingKind<{ pageCo
         if (still)
           stills.push({ image: still.png, width: still.row.width ?? 1, height: still.row.height ?? 1, caption: still.row.caption });
       }
+      const brand = await d.brands?.forDocuments(row.clinic_id);
       const { pdf, pageCount } = await renderSummaryPdf(
         {
           clinicName: clinic?.name ?? 'Your clinic',
+          clinicLogo: brand?.logo ?? null,
+          clinicLegalLines: brand ? legalFooter(brand) : [],
           athleteName: `${athlete.first_name} ${athlete.last_name}`,
           title: baseline ? 'Re-test comparison' : 'Visit summary',
           issuedOn: displayDate(d.clock().toISOString().slice(0, 10)),

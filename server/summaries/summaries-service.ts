@@ -17,6 +17,7 @@ import { assessmentsRepository, type AssessmentRow } from '../assessments/assess
 import type { ClipsService } from '../clips/clips-service';
 import type { MeasuresService } from '../measures/measures-service';
 import type { StillsService } from '../stills/stills-service';
+import type { ClinicBrands } from '../clinic/clinic-brand';
 import { summariesRepository as repo, type SummaryRow } from './summaries-repository';
 import { summaryFileName, type SummaryFileName } from './summary-file-name';
 import { RENDER_SUMMARY, renderSummaryKind, visitLabel } from './render-summary-kind';
@@ -32,6 +33,8 @@ export interface SummariesDeps {
   logger: Logger;
   publicUrl: string;
   clock: () => Date;
+  /** The clinic's logo and legal details for the PDF's letterhead (none: the clinic's name only). */
+  brands?: ClinicBrands;
 }
 
 /** A ready summary's stored PDF and its download name. */

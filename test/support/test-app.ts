@@ -230,6 +230,18 @@ export class Client {
     return this.agent.get(path);
   }
 
+  /** A GET whose body is kept as raw bytes (`res.body` is a Buffer): images, PDFs. */
+  binary(path: string) {
+    return this.agent
+      .get(path)
+      .buffer(true)
+      .parse((res, cb) => {
+        const chunks: Buffer[] = [];
+        res.on('data', (c: Buffer) => chunks.push(c));
+        res.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
+  }
+
   async send(method: 'post' | 'put' | 'patch' | 'delete', path: string, body?: unknown) {
     const token = await this.csrf();
     const req = this.agent[method](path).set('X-XSRF-TOKEN', token);

@@ -102,6 +102,13 @@ const DOCUMENTED: Record<Action, Who> = {
   'summary:publish': 'S',
   'summary:delete': 'S',
   'portal-shared:list': 'A',
+  'demo:list': 'S+A',
+  'demo:read': 'S+A',
+  'demo:create': 'S',
+  'demo:update': 'S',
+  'demo:delete': 'S',
+  'clinic-brand:read': 'S+A',
+  'clinic-logo:update': 'O',
 };
 
 const documentedRoles = (who: Who): Role[] =>

@@ -8,8 +8,6 @@ import fc from 'fast-check';
 import { describe, expect, expectTypeOf, it } from 'vitest';
 import type { FrameLandmarks } from '../../../src/contracts/annotations';
 import {
-  computeClipMeasures,
-  DEFAULT_REFERENCE_BANDS,
   drawGhostSkeleton,
   drawOverlay,
   formatAngleLabel,
@@ -158,17 +156,6 @@ describe('label numbers equal the computed measures, rounded to 1 decimal', () =
   const landmarks = events.map((e) =>
     landmarksAt(e.frame, e.side, (e.kind === 'initial_contact' ? IC_POSE : TO_POSE) as MetrePose, 'right_to_left'),
   );
-  const m = computeClipMeasures({
-    clipId: 1,
-    annotations: { landmarks, events, scale: SCALE_1M_400PX },
-    frameSize: { width: W, height: H },
-    fps: 240,
-    direction: 'right_to_left',
-    surface: 'treadmill',
-    beltSpeedMps: 3,
-    bands: DEFAULT_REFERENCE_BANDS,
-  });
-  const measure = (key: string) => m.measures.find((x) => x.key === key && x.side === 'right')!;
   const layout = (frame: number) =>
     overlayLabelPositions(
       opts(

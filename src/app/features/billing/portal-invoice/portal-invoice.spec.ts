@@ -36,6 +36,7 @@ function anInvoice(over: Partial<InvoiceDetail> = {}): InvoiceDetail {
     paymentNote: null,
     refundNote: null,
     clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
+    clinicLogoUrl: null,
     checkoutState: 'pending',
     lines: [
       {
