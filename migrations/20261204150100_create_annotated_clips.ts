@@ -3,7 +3,7 @@ import type { Knex } from 'knex';
 /**
  * Annotated clips: a frame range of one clip in slow motion with the overlay on every frame, or a
  * Baseline and a Re-test clip side by side, lined up at each initial contact. The marks are frozen
- * when the coach makes it; a job renders the MP4; published to the athlete or not.
+ * when the coach makes it; it is rendered in the background (a processed item; progress on the processing stream); published to the athlete or not.
  */
 export async function up(knex: Knex): Promise<void> {
   await knex.schema.createTable('annotated_clips', (t) => {
@@ -22,7 +22,6 @@ export async function up(knex: Knex): Promise<void> {
     t.string('caption', 400).notNullable().defaultTo('');
     t.boolean('show_angles').notNullable().defaultTo(true);
     t.string('status', 12).notNullable();
-    t.float('progress').notNullable().defaultTo(0);
     t.text('error').nullable();
     t.integer('width').nullable();
     t.integer('height').nullable();

@@ -2,6 +2,8 @@ import type { Knex } from 'knex';
 import type { AngleGauge, FrameLandmarks, GaitEventMark } from '../../src/contracts/annotations';
 import type { AnnotatedClip, AnnotatedClipPanel, AnnotatedClipStatus, SlowMotionFactor } from '../../src/contracts/annotated-clips';
 import type { Direction, Side } from '../../src/contracts/assessment';
+import { joinLatestItem } from '../processing/processed-items-repository';
+import { renderProgress } from '../sharing/shared-items';
 
 /** A panel as stored: what the API shows plus the marks frozen when the clip was made. */
 export interface StoredClipPanel extends AnnotatedClipPanel {
@@ -35,7 +37,6 @@ export interface AnnotatedClipRow {
   caption: string;
   show_angles: number | boolean;
   status: AnnotatedClipStatus;
-  progress: number;
   error: string | null;
   width: number | null;
   height: number | null;
@@ -52,12 +53,13 @@ export interface AnnotatedClipRow {
   updated_at: string;
 }
 
-type ClipView = AnnotatedClipRow & { created_by_name: string | null; published_by_name: string | null };
-
-/** File name of an annotated clip's video inside its clip's `annotated/` folder. */
-export function annotatedClipFile(id: number, version: number): string {
-  return `${id}-v${version}.mp4`;
-}
+/** A row joined with the names the API shows and its newest processed item's progress. */
+type ClipView = AnnotatedClipRow & {
+  created_by_name: string | null;
+  published_by_name: string | null;
+  item_done: number | null;
+  item_total: number | null;
+};
 
 export const annotatedClipsRepository = {
   plan(row: Pick<AnnotatedClipRow, 'panels'>): StoredClipPlan {
@@ -78,13 +80,19 @@ export const annotatedClipsRepository = {
   },
 
   async view(db: Knex, where: Record<string, unknown>, opts: { publishedOnly: boolean }): Promise<AnnotatedClip[]> {
-    const q = db('annotated_clips as a')
+    const q = joinLatestItem(db('annotated_clips as a'), db, 'annotated_clip', 'a')
       .leftJoin('users as cu', 'cu.id', 'a.created_by')
       .leftJoin('users as pu', 'pu.id', 'a.published_by')
       .where(Object.fromEntries(Object.entries(where).map(([k, v]) => [`a.${k}`, v])))
       .orderBy('a.created_at', 'desc')
       .orderBy('a.id', 'desc')
-      .select<ClipView[]>('a.*', 'cu.name as created_by_name', 'pu.name as published_by_name');
+      .select<ClipView[]>(
+        'a.*',
+        'cu.name as created_by_name',
+        'pu.name as published_by_name',
+        'pi.progress_done as item_done',
+        'pi.progress_total as item_total',
+      );
     if (opts.publishedOnly)
       q.whereNotNull('a.published_at')
         .where('a.status', 'ready')
@@ -113,7 +121,7 @@ function toApi(r: ClipView): AnnotatedClip {
     caption: r.caption,
     showAngles: Boolean(r.show_angles),
     status: gone ? 'failed' : r.status,
-    progress: r.progress,
+    progress: gone ? 0 : renderProgress(r),
     error: gone ? BASELINE_CLIP_DELETED : r.error,
     width: r.width,
     height: r.height,

@@ -1,5 +1,3 @@
-import fs from 'node:fs';
-import path from 'node:path';
 import type { Logger } from 'pino';
 import type { SessionUser } from '../../src/contracts/api';
 import {
@@ -16,11 +14,13 @@ import { audit } from '../audit/audit-log';
 import type { Action } from '../policy/access-table';
 import { accessibleAthlete } from '../policy/athlete-resources';
 import { listGrant, throughSelfGrant } from '../policy/enforce';
-import type { JobQueue } from '../jobs/job-queue';
+import type { Processing } from '../processing/processing';
 import type { MediaStore } from '../storage/media-store';
 import type { Mailer } from '../mail/mailer';
 import { accessibleShared, setPublication } from '../sharing/shared-items';
-import { readManifest } from '../media/manifest';
+import type { ClipManifest } from '../media/manifest';
+import { clipKeys } from '../storage/media-keys';
+import { readJson } from '../storage/stored-objects';
 import type { ClipRow } from '../clips/clips-repository';
 import type { ClipsService } from '../clips/clips-service';
 import { annotationsRepository } from '../annotations/annotations-repository';
@@ -28,24 +28,22 @@ import { displayDate } from '../stills/stills-service';
 import { ASSESSMENT_KIND_LABELS, type AssessmentKind } from '../../src/contracts/assessment';
 import {
   BASELINE_CLIP_DELETED,
-  annotatedClipFile,
   annotatedClipsRepository as repo,
   lostBaseline,
   type AnnotatedClipRow,
   type StoredClipPanel,
 } from './annotated-clips-repository';
-import { ANNOTATED_DIR, RENDER_ANNOTATED_CLIP_JOB, subjectOf } from './annotated-clip-job';
+import { RENDER_ANNOTATED_CLIP, removeAnnotatedVideo, renderAnnotatedClipKind } from './render-annotated-clip-kind';
 
 export interface AnnotatedClipsDeps {
   db: Db;
   store: MediaStore;
-  queue: JobQueue;
+  processing: Processing;
   clips: ClipsService;
   mailer: Mailer;
   logger: Logger;
   publicUrl: string;
   clock: () => Date;
-  wakeWorker: () => void;
 }
 
 /** What the annotated clips offer their routes. */
@@ -56,8 +54,8 @@ export interface AnnotatedClipsService {
   get(user: SessionUser, id: number): Promise<AnnotatedClip>;
   setPublished(user: SessionUser, id: number, publish: boolean): Promise<AnnotatedClip>;
   remove(user: SessionUser, id: number): Promise<void>;
-  /** Absolute path of a ready clip's MP4; logs an athlete's view in the audit log when `logView`. */
-  videoPath(user: SessionUser, id: number, logView: boolean): Promise<string>;
+  /** Media key of a ready clip's MP4; logs an athlete's view in the audit log when `logView`. */
+  videoKey(user: SessionUser, id: number, logView: boolean): Promise<string>;
 }
 
 /**
@@ -85,9 +83,10 @@ export function freezeMarks(
   };
 }
 
-/** Annotated clips: make (marks frozen, rendered by a job), list, publish, delete, serve. */
+/** Annotated clips: make (marks frozen, rendered as a processed item), list, publish, delete, serve. */
 export function annotatedClipsService(d: AnnotatedClipsDeps): AnnotatedClipsService {
-  const { db } = d;
+  const { db, processing } = d;
+  processing.register(renderAnnotatedClipKind(d));
   const now = () => d.clock().toISOString();
 
   const accessible = (user: SessionUser, id: number, action: Action = 'annotated-clip:read') =>
@@ -103,7 +102,8 @@ export function annotatedClipsService(d: AnnotatedClipsDeps): AnnotatedClipsServ
   async function clipFacts(clip: ClipRow) {
     if (clip.status !== 'ready')
       throw new ConflictError('This clip is not ready yet: wait until its frames are extracted.', 'clip_not_ready');
-    const manifest = await readManifest(d.store.clipDir(clip.id));
+    const manifest =
+      clip.frame_count && clip.fps && clip.width && clip.height ? null : await readJson<ClipManifest>(d.store, clipKeys(clip.id).manifest);
     const assessment = await db('assessments')
       .where({ id: clip.assessment_id })
       .first<{ kind: AssessmentKind; date: string }>('kind', 'date');
@@ -131,9 +131,8 @@ export function annotatedClipsService(d: AnnotatedClipsDeps): AnnotatedClipsServ
     let id = 0;
     await db.transaction(async (trx) => {
       id = await repo.insert(trx, row);
-      await d.queue.enqueue(trx, RENDER_ANNOTATED_CLIP_JOB, subjectOf(id), { annotatedClipId: id });
+      await processing.enqueue(trx, RENDER_ANNOTATED_CLIP, id, { clinicId: user.clinicId, athleteId: row.athlete_id });
     });
-    d.wakeWorker();
     await audit(db, {
       clinicId: user.clinicId,
       actorId: user.id,
@@ -155,7 +154,6 @@ export function annotatedClipsService(d: AnnotatedClipsDeps): AnnotatedClipsServ
       caption: body.caption.trim(),
       show_angles: body.showAngles,
       status: 'rendering' as const,
-      progress: 0,
       error: null,
       width: null,
       height: null,
@@ -289,11 +287,9 @@ export function annotatedClipsService(d: AnnotatedClipsDeps): AnnotatedClipsServ
 
     async remove(user, id) {
       const row = await accessible(user, id, 'annotated-clip:delete');
-      await d.queue.cancelSubject(subjectOf(id));
+      await processing.cancel('annotated_clip', id);
       await db('annotated_clips').where({ id }).delete();
-      await fs.promises.rm(path.join(d.store.clipDir(row.clip_id), ANNOTATED_DIR, annotatedClipFile(id, row.render_version)), {
-        force: true,
-      });
+      await removeAnnotatedVideo(d.store, row, row.render_version);
       await audit(db, {
         clinicId: user.clinicId,
         actorId: user.id,
@@ -303,11 +299,11 @@ export function annotatedClipsService(d: AnnotatedClipsDeps): AnnotatedClipsServ
       });
     },
 
-    async videoPath(user, id, logView) {
+    async videoKey(user, id, logView) {
       const row = await accessible(user, id);
       if (row.status !== 'ready' || lostBaseline(row)) throw new NotFoundError('Annotated clip video');
-      const file = path.join(d.store.clipDir(row.clip_id), ANNOTATED_DIR, annotatedClipFile(id, row.render_version));
-      if (!fs.existsSync(file)) throw new NotFoundError('Annotated clip video');
+      const key = clipKeys(row.clip_id).annotated(id, row.render_version);
+      if (!(await d.store.stat(key))) throw new NotFoundError('Annotated clip video');
       if (logView && throughSelfGrant(user, 'annotated-clip:read'))
         await audit(db, {
           clinicId: user.clinicId,
@@ -316,7 +312,7 @@ export function annotatedClipsService(d: AnnotatedClipsDeps): AnnotatedClipsServ
           action: 'annotated_clip.viewed',
           detail: { annotatedClipId: id },
         });
-      return file;
+      return key;
     },
   };
 }

@@ -2,12 +2,14 @@ import { Router } from 'express';
 import { currentUser } from '../http/access';
 import { permit } from '../policy/enforce';
 import { idParam, parse } from '../http/validate';
-import { sendPrivateFile } from '../stills/stills.routes';
+import { sendStored } from '../http/send-stored';
+import type { MediaStore } from '../storage/media-store';
+import { SHARED_MEDIA_CACHE } from '../stills/stills.routes';
 import type { AnnotatedClipsService } from './annotated-clips-service';
 import { AnnotatedClipCreateBody, SideBySideClipCreateBody } from './annotated-clips-schemas';
 
 /** Annotated clips: staff make, publish and delete them; the athlete plays their published ones. */
-export function annotatedClipsRoutes(clips: AnnotatedClipsService): Router {
+export function annotatedClipsRoutes(clips: AnnotatedClipsService, store: MediaStore): Router {
   const router = Router();
 
   router.post('/clips/:id/annotated-clips', permit('annotated-clip:create'), async (req, res) => {
@@ -44,11 +46,11 @@ export function annotatedClipsRoutes(clips: AnnotatedClipsService): Router {
   });
 
   // Served with byte ranges (phone players seek and start with them); a view is logged once per play, at its first bytes.
-  router.get('/annotated-clips/:id/video.mp4', permit('annotated-clip:read'), async (req, res, next) => {
+  router.get('/annotated-clips/:id/video.mp4', permit('annotated-clip:read'), async (req, res) => {
     const range = req.headers.range;
     const first = !range || /^bytes=0-/.test(range);
-    const file = await clips.videoPath(currentUser(req), idParam(req.params, 'Annotated clip'), first);
-    sendPrivateFile(res, next, file, 'video/mp4');
+    const key = await clips.videoKey(currentUser(req), idParam(req.params, 'Annotated clip'), first);
+    await sendStored(res, store, key, { type: 'video/mp4', cacheControl: SHARED_MEDIA_CACHE, ranges: true });
   });
 
   return router;

@@ -1,4 +1,5 @@
-import { rm } from 'node:fs/promises';
+import { rename, rm } from 'node:fs/promises';
+import path from 'node:path';
 import { createCanvas, loadImage, type Image } from '@napi-rs/canvas';
 import type { AngleGauge, GaitEventMark, FrameLandmarks } from '../../src/contracts/annotations';
 import type { Direction, Side } from '../../src/contracts/assessment';
@@ -45,7 +46,7 @@ export interface AnnotatedClipRenderInput {
   caption: string;
   /** Whether angle arcs and degree labels are drawn (near side). */
   showAngles: boolean;
-  /** The .mp4 to write. */
+  /** The .mp4 to write: encoded under a hidden name beside it and renamed when complete, so it is never seen half written. */
   outFile: string;
   /** Called now and then with 0–1. */
   onProgress?: (fraction: number) => void | Promise<void>;
@@ -241,7 +242,8 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
   }
 
   const read = (k: number) => Promise.all(panels.map(async (p, i) => loadImage(await p.readFrame(steps[k]![i]!))));
-  const encoder = startH264Encoder({ width, height, fps: timing.outputFps, outFile: input.outFile, signal: input.signal });
+  const partial = path.join(path.dirname(input.outFile), `.${path.basename(input.outFile)}.rendering`);
+  const encoder = startH264Encoder({ width, height, fps: timing.outputFps, outFile: partial, signal: input.signal });
   const ahead: Promise<Image[]>[] = [];
   for (let k = 0; k < Math.min(READ_AHEAD, steps.length); k++) ahead.push(read(k));
   ahead.forEach((p) => p.catch(() => undefined));
@@ -265,10 +267,11 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
       }
     }
     await encoder.finish();
+    await rename(partial, input.outFile);
   } catch (err) {
     encoder.abort();
     await encoder.done.catch(() => undefined);
-    await rm(input.outFile, { force: true });
+    await rm(partial, { force: true });
     throw err;
   }
   await input.onProgress?.(1);

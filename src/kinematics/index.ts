@@ -16,7 +16,11 @@
  * - overlay: `drawOverlay` on any Canvas-2D-like context and its pure layout; overlay-ghost: the
  *   other visit's skeleton, dashed and lighter, for the Re-test comparison.
  * - angle-gauge: three-point included angles (the Angle gauge tool), drawn by overlay-gauges;
- * - event-names: the gait events on a frame in words ("Right toe-off · step 3");
+ * - event-names: the gait events on a frame in words ("Right toe-off · step 3").
+ * - event-rules / event-proposals: proposed initial contacts and toe-offs from heel, toe, hip (and
+ *   knee) positions over frames (coordinate method, refined for running); proposal-merge: adding
+ *   them to a clip's events without touching placed or accepted ones;
+ * - gait-cycle: angles normalised 0–100 % from initial contact to the next, mean ± SD per side;
  * - slow-motion, step-warp, landmark-fill: timing of annotated clips (repeat rule, per-step time-warp
  *   of a side-by-side clip at initial contacts, landmarks between marked frames).
  */
@@ -38,6 +42,10 @@ export * from './format';
 export * from './angle-gauge';
 export * from './overlay-gauges';
 export * from './event-names';
+export * from './event-rules';
+export * from './event-proposals';
+export * from './proposal-merge';
+export * from './gait-cycle';
 export * from './slow-motion';
 export * from './step-warp';
 export * from './landmark-fill';

@@ -19,6 +19,11 @@ export class AnnotatedClipsApi {
       .pipe(map((r) => r.clips));
   }
 
+  /** One annotated clip (after its render moved on the progress stream). */
+  get(id: number): Observable<AnnotatedClip> {
+    return this.http.get<AnnotatedClip>(`/api/annotated-clips/${id}`, { context: skipErrorSnackbar() });
+  }
+
   /** Starts rendering a frame range of `clipId`; answers at once with the clip `rendering`. */
   create(clipId: number, body: AnnotatedClipCreate): Observable<AnnotatedClip> {
     return this.http.post<AnnotatedClip>(`/api/clips/${clipId}/annotated-clips`, body, { context: skipErrorSnackbar() });

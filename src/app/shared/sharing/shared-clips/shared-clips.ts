@@ -1,26 +1,28 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal } from '@angular/core';
-import { rxResource, takeUntilDestroyed } from '@angular/core/rxjs-interop';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, input, signal } from '@angular/core';
+import { rxResource, takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog, MatDialogModule } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { Observable, firstValueFrom, switchMap } from 'rxjs';
+import { EMPTY, Observable, catchError, firstValueFrom, switchMap, tap } from 'rxjs';
 import type { AnnotatedClip } from '../../../../contracts/annotated-clips';
-import { errorMessage } from '../../../core/api-error';
+import { errorMessage, errorStatus } from '../../../core/api-error';
+import { ProcessingEvents } from '../../../core/processing-events';
 import { AnnotatedClipsApi } from '../../../core/data/annotated-clips-api';
 import { ConfirmDialog, type ConfirmDialogData } from '../../confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../states/empty-state';
 import { ErrorState } from '../../states/error-state';
 import { ClipPreviewDialog } from './clip-preview-dialog';
 import { clipFactsText, clipTitle } from '../clip-logic';
-import { POLL_MS, anyRendering, progressPercent, publishButton, publishConfirmText } from '../sharing-logic';
+import { progressPercent, publishButton, publishConfirmText, sharedListStep, type SharedListStep } from '../sharing-logic';
 
 /**
  * The Shared tab's annotated clips (staff): each with its rendering progress, preview in the
- * app, publish / unpublish (with the e-mail notice confirmation) and delete. Polls while anything renders.
+ * app, publish / unpublish (with the e-mail notice confirmation) and delete. Renders are followed on
+ * the athlete's progress stream (`ProcessingEvents`, the connection the stills and summaries share).
  */
 @Component({
   selector: 'app-shared-clips',
@@ -34,6 +36,7 @@ export class SharedClips {
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
   private readonly destroyRef = inject(DestroyRef);
+  private readonly progress = inject(ProcessingEvents);
 
   readonly athleteId = input.required<number>();
   readonly athleteName = input('');
@@ -42,7 +45,6 @@ export class SharedClips {
 
   protected readonly clips = rxResource({ params: () => this.athleteId(), stream: ({ params }) => this.api.clipsOf(params) });
   protected readonly list = computed<AnnotatedClip[]>(() => (this.clips.hasValue() ? this.clips.value() : []));
-  private readonly pollRetry = signal(0);
   protected readonly pending = signal<ReadonlySet<number>>(new Set());
   protected readonly problems = signal<Readonly<Record<number, string>>>({});
 
@@ -53,24 +55,53 @@ export class SharedClips {
   protected readonly errorMessage = errorMessage;
 
   constructor() {
-    effect((onCleanup) => {
-      this.pollRetry();
-      if (!anyRendering(this.list())) return;
-      const timer = setTimeout(() => this.poll(), POLL_MS);
-      onCleanup(() => clearTimeout(timer));
-    });
+    toObservable(this.athleteId)
+      .pipe(
+        switchMap((id) => {
+          let connections = 0;
+          return this.progress.follow(id).pipe(
+            tap((message) => {
+              if (message.type === 'connected') {
+                // What finished while the connection was down, or before it first opened, comes with a reload.
+                if (connections++ > 0 || this.list().some((c) => c.status === 'rendering')) this.reload();
+                return;
+              }
+              this.follow(sharedListStep(message.event, { clips: this.list() }));
+            }),
+            // Live updates stopped: the list stays as it is (a reload of the page brings the rest).
+            catchError(() => EMPTY),
+          );
+        }),
+        takeUntilDestroyed(),
+      )
+      .subscribe();
   }
 
-  private poll(): void {
-    const id = this.athleteId();
+  /** Carries out one step of following the renders. */
+  private follow(step: SharedListStep): void {
+    if (step.kind === 'ignore') return;
+    if (step.kind === 'drop') {
+      this.clips.update((list) => list?.filter((c) => c.id !== step.id));
+      return;
+    }
+    if (step.kind === 'progress') {
+      const progress = step.progress;
+      this.clips.update((list) => list?.map((c) => (c.id === step.id ? { ...c, progress } : c)));
+      return;
+    }
     this.api
-      .clipsOf(id)
+      .get(step.id)
       .pipe(takeUntilDestroyed(this.destroyRef))
       .subscribe({
-        next: (list) => {
-          if (id === this.athleteId()) this.clips.set(list);
+        next: (clip) => {
+          if (clip.athleteId !== this.athleteId()) return;
+          this.clips.update((list) =>
+            list?.some((c) => c.id === clip.id) ? list.map((c) => (c.id === clip.id ? clip : c)) : [clip, ...(list ?? [])],
+          );
         },
-        error: () => setTimeout(() => this.pollRetry.update((n) => n + 1), POLL_MS * 3),
+        error: (err: unknown) => {
+          if (errorStatus(err) === 404) this.follow({ ...step, kind: 'drop' });
+        },
       });
   }
 
