@@ -1,6 +1,6 @@
 /**
  * Annotated clips through the API: made from the review (a frame range) and from the comparison
- * (side by side), rendered by the job with progress, published with an e-mail notice, played with
+ * (side by side), rendered as a processed item with progress on the athlete's one progress stream, published with an e-mail notice, played with
  * byte ranges, refused with clear 4xx answers, and hidden (404) from athletes who may not see them.
  * References outside the project: ffprobe (Debian's) for the served file; the synthetic runner's
  * ground truth (scripts/demo-clip) for frame counts and initial contacts; the slow-motion rule as
@@ -15,6 +15,7 @@ import { ffprobeCounted, makeClip, tempDir } from './media/fixtures';
 import { generateRunnerClip, type GroundTruth } from '../../scripts/demo-clip/clip';
 import { marksFromTruth } from '../../scripts/demo-clip/demo-marks';
 import type { AnnotatedClip } from '../../src/contracts/annotated-clips';
+import type { ProcessingEvent } from '../../src/contracts/processing';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -81,8 +82,12 @@ afterAll(async () => {
 
 describe('an annotated clip from the review', () => {
   let made: AnnotatedClip;
+  const events: ProcessingEvent[] = [];
 
   beforeAll(async () => {
+    const stop = t.processing.channel.subscribe(adaId, (n) => {
+      if (n.event.subject === 'annotated_clip') events.push(n.event);
+    });
     const res = await c.post(`/api/clips/${baselineClipId}/annotated-clips`, {
       fromFrame: 10,
       toFrame: 69,
@@ -93,7 +98,21 @@ describe('an annotated clip from the review', () => {
     expect(res.status, JSON.stringify(res.body)).toBe(202);
     expect(res.body).toMatchObject({ status: 'rendering', kind: 'single', factor: 0.25, publishedAt: null });
     made = await settled(res.body.id);
+    stop();
   }, 120_000);
+
+  it('reports its render on the athlete’s progress stream: queued, running with progress, ready', () => {
+    const mine = events.filter((e) => e.id === made.id);
+    expect(mine.every((e) => e.kind === 'render_annotated_clip')).toBe(true);
+    expect(mine[0]).toMatchObject({ state: 'queued' });
+    const running = mine.filter((e) => e.state === 'running' && e.progress);
+    expect(running.length).toBeGreaterThan(0);
+    // Hundredths, rising (the renderer reports at least every 2 % of the steps).
+    const done = running.map((e) => e.progress!.done);
+    expect(running.every((e) => e.progress!.total === 100)).toBe(true);
+    expect(done).toEqual([...done].sort((a, b) => a - b));
+    expect(mine[mine.length - 1]).toMatchObject({ state: 'ready', error: null });
+  });
 
   it('is rendered with progress to ready, and says which landmarks were interpolated', () => {
     // 60 fps at 1/4 shows 15 source frames a second: ⌈24 ÷ 15⌉ = 2 copies → 30 fps; 60 frames → 120 video frames, 4 s.
@@ -118,6 +137,19 @@ describe('an annotated clip from the review', () => {
     const part = await c.agent.get(made.videoUrl).set('Range', 'bytes=0-99').buffer(true);
     expect(part.status).toBe(206);
     expect((part.body as Buffer).length).toBe(100);
+    const size = (res.body as Buffer).length;
+    // RFC 9110 §14.4: the answer names the bytes sent and the whole length; they are the file's own bytes.
+    expect(part.headers['content-range']).toBe(`bytes 0-99/${size}`);
+    const tail = await c.agent
+      .get(made.videoUrl)
+      .set('Range', `bytes=${size - 10}-`)
+      .buffer(true);
+    expect(tail.status).toBe(206);
+    expect((tail.body as Buffer).equals((res.body as Buffer).subarray(size - 10))).toBe(true);
+    // RFC 9110 §15.5.17: a range wholly past the end is 416 with the length, never a 500.
+    const outside = await c.agent.get(made.videoUrl).set('Range', `bytes=${size + 5}-${size + 10}`);
+    expect(outside.status).toBe(416);
+    expect(outside.headers['content-range']).toBe(`bytes */${size}`);
   });
 
   it('is hidden from the athlete until published; publishing sends one notice without caption or measures', async () => {
