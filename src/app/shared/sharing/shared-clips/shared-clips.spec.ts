@@ -45,7 +45,8 @@ describe('SharedClips', () => {
     expect(source.url).toBe('/api/athletes/9/processing-events');
     source.open();
     // A list showing a render is read again once the stream is open (it may have ended before).
-    await settle();
+    await wait(20);
+    fixture.detectChanges();
     backend.expectOne('/api/athletes/9/annotated-clips').flush({ clips: [rendering] });
     await settle();
 
