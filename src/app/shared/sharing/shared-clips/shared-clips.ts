@@ -1,13 +1,13 @@
 import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, input, signal } from '@angular/core';
-import { rxResource, takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
+import { rxResource, takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog, MatDialogModule } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { EMPTY, Observable, catchError, firstValueFrom, switchMap, tap } from 'rxjs';
+import { Observable, firstValueFrom, switchMap } from 'rxjs';
 import type { AnnotatedClip } from '../../../../contracts/annotated-clips';
 import { errorMessage, errorStatus } from '../../../core/api-error';
 import { ProcessingEvents } from '../../../core/processing-events';
@@ -16,6 +16,7 @@ import { ConfirmDialog, type ConfirmDialogData } from '../../confirm-dialog/conf
 import { EmptyState } from '../../states/empty-state';
 import { ErrorState } from '../../states/error-state';
 import { ClipPreviewDialog } from './clip-preview-dialog';
+import { followRenders } from '../follow-renders';
 import { clipFactsText, clipTitle } from '../clip-logic';
 import { progressPercent, publishButton, publishConfirmText, sharedListStep, type SharedListStep } from '../sharing-logic';
 
@@ -55,25 +56,14 @@ export class SharedClips {
   protected readonly errorMessage = errorMessage;
 
   constructor() {
-    toObservable(this.athleteId)
-      .pipe(
-        switchMap((id) => {
-          let connections = 0;
-          return this.progress.follow(id).pipe(
-            tap((message) => {
-              if (message.type === 'connected') {
-                // What finished while the connection was down, or before it first opened, comes with a reload.
-                if (connections++ > 0 || this.list().some((c) => c.status === 'rendering')) this.reload();
-                return;
-              }
-              this.follow(sharedListStep(message.event, { clips: this.list() }));
-            }),
-            // Live updates stopped: the list stays as it is (a reload of the page brings the rest).
-            catchError(() => EMPTY),
-          );
-        }),
-        takeUntilDestroyed(),
-      )
+    followRenders(this.progress, this.athleteId, {
+      // What finished while the connection was down, or before it first opened, comes with a reload.
+      connected: (again) => {
+        if (again || this.list().some((c) => c.status === 'rendering')) this.reload();
+      },
+      item: (event) => this.follow(sharedListStep(event, { clips: this.list() })),
+    })
+      .pipe(takeUntilDestroyed())
       .subscribe();
   }
 
