@@ -38,6 +38,7 @@ import { exercisesService } from './plans/exercises-service';
 import { plansService } from './plans/plans-service';
 import { plansRoutes } from './plans/plans.routes';
 import { stillsRoutes } from './stills/stills.routes';
+import { annotatedClipsRoutes } from './annotated-clips/annotated-clips.routes';
 import { summariesRoutes } from './summaries/summaries.routes';
 import { portalSharedRoutes } from './summaries/portal-shared.routes';
 import { billingService } from './billing/billing-service';
@@ -186,7 +187,7 @@ export function createApp(deps: AppDeps): App {
   const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
   const revocations = inProcessRevocations();
   const media = createMediaServices({ config, db, mailer, logger, clock, store: deps.store, brands });
-  const { store, processing, clips, assessments, measures, annotations, stills, summaries } = media;
+  const { store, processing, clips, assessments, measures, annotations, stills, summaries, annotatedClips } = media;
   const exercises = exercisesService({ db, clock });
   const plans = plansService({ db, clock });
   const worker = config.runWorker
@@ -226,6 +227,7 @@ export function createApp(deps: AppDeps): App {
   api.use(plansRoutes({ exercises, plans }));
   api.use(stillsRoutes(stills, store));
   api.use(summariesRoutes(summaries, store));
+  api.use(annotatedClipsRoutes(annotatedClips, store));
   api.use(portalSharedRoutes({ stills, summaries }));
   api.use(billingRoutes(billing));
   api.use(clinicRoutes(clinicService({ db, clock, objects, pictures })));

@@ -15,6 +15,7 @@ import { annotationsService, type AnnotationsService } from './annotations/annot
 import { measuresService, type MeasuresService } from './measures/measures-service';
 import { stillsService, type StillsService } from './stills/stills-service';
 import { summariesService, type SummariesService } from './summaries/summaries-service';
+import { annotatedClipsService, type AnnotatedClipsService } from './annotated-clips/annotated-clips-service';
 
 export interface MediaServicesDeps {
   config: Config;
@@ -40,10 +41,11 @@ export interface MediaServices {
   annotations: AnnotationsService;
   stills: StillsService;
   summaries: SummariesService;
+  annotatedClips: AnnotatedClipsService;
 }
 
 /**
- * Builds the media path (storage, processing, clips, measures, stills, summaries) the same way in
+ * Builds the media path (storage, processing, clips, measures, stills, summaries, annotated clips) the same way in
  * the web process (`createApp`) and in worker processes (`server/worker.ts`): constructing a
  * service registers its processed-item kinds, so every process knows every kind.
  */
@@ -64,5 +66,6 @@ export function createMediaServices(d: MediaServicesDeps): MediaServices {
   const sharing = { db, store, processing, clips, mailer, logger, publicUrl: config.publicUrl, clock, brands };
   const stills = stillsService(sharing);
   const summaries = summariesService({ ...sharing, stills, measures });
-  return { store, processing, clips, assessments, measures, annotations, stills, summaries };
+  const annotatedClips = annotatedClipsService(sharing);
+  return { store, processing, clips, assessments, measures, annotations, stills, summaries, annotatedClips };
 }

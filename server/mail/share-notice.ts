@@ -3,11 +3,12 @@ import type { Logger } from 'pino';
 import type { Mailer } from './mailer';
 
 /** What was published, in words that carry no health data. */
-export type SharedKind = 'still' | 'summary';
+export type SharedKind = 'still' | 'summary' | 'annotated_clip';
 
 const WHAT: Record<SharedKind, string> = {
   still: 'an annotated still from your running assessment',
   summary: 'a visit summary',
+  annotated_clip: 'an annotated slow-motion clip of your running',
 };
 
 /**

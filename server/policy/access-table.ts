@@ -150,7 +150,7 @@ export const ACCESS_TABLE = {
   'invoice:pay': { athlete: self('not-draft') },
   'invoice:read-receipt': ownerAndSelf('not-draft'),
 
-  // ── Stills and visit summaries ──
+  // ── Stills, visit summaries and annotated clips ──
   'still:create': STAFF,
   'still:list': staffAndSelf('published'),
   'still:read': staffAndSelf('published'),
@@ -162,6 +162,11 @@ export const ACCESS_TABLE = {
   'summary:read': staffAndSelf('published'),
   'summary:publish': STAFF,
   'summary:delete': STAFF,
+  'annotated-clip:create': STAFF,
+  'annotated-clip:list': staffAndSelf('published'),
+  'annotated-clip:read': staffAndSelf('published'),
+  'annotated-clip:publish': STAFF,
+  'annotated-clip:delete': STAFF,
   /** The portal's "shared with you" section: the athlete's own published stills and summaries. */
   'portal-shared:list': { athlete: self('published') },
 } as const satisfies Record<string, Grants>;

@@ -10,7 +10,7 @@ import { assertRole } from '../policy/enforce';
 import type { Mailer } from '../mail/mailer';
 import { sendShareNotice, type SharedKind } from '../mail/share-notice';
 
-/** Columns every shared item (still, visit summary) has. */
+/** Columns every shared item (still, visit summary, annotated clip) has. */
 export interface SharedRow {
   id: number;
   clinic_id: number;
@@ -29,6 +29,7 @@ export function renderProgress(r: { status: RenderStatus; item_done: number | nu
 const KINDS: Record<SharedKind, { table: string; what: string; idKey: string }> = {
   still: { table: 'stills', what: 'Still', idKey: 'stillId' },
   summary: { table: 'visit_summaries', what: 'Visit summary', idKey: 'summaryId' },
+  annotated_clip: { table: 'annotated_clips', what: 'Annotated clip', idKey: 'annotatedClipId' },
 };
 
 /**

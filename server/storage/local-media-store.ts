@@ -78,10 +78,10 @@ export function localMediaStore(root: string): MediaStore {
       }
     },
 
-    async get(key) {
+    async get(key, range) {
       try {
         const handle = await fs.promises.open(fileOf(key), 'r');
-        return handle.createReadStream();
+        return handle.createReadStream(range ? { start: range.start, end: range.end } : {});
       } catch (err) {
         if (missing(err) || (err as NodeJS.ErrnoException).code === 'EISDIR') throw new MissingMediaError(key);
         throw err;

@@ -4,6 +4,11 @@
  */
 import { FRAMES_DIR, MANIFEST_FILE, THUMBS_DIR, frameFileName } from '../media/manifest';
 
+/** File name of an annotated clip's video inside its clip's `annotated/` folder. */
+export function annotatedClipFile(annotatedClipId: number, version: number): string {
+  return `${annotatedClipId}-v${version}.mp4`;
+}
+
 function id(value: number, what: string): number {
   if (!Number.isSafeInteger(value) || value <= 0) throw new Error(`bad ${what} id ${value}`);
   return value;
@@ -23,6 +28,10 @@ export interface ClipKeys {
   thumb(index: number): string;
   /** A still's image, by render version: `clips/12/stills/5-v2.png` / `5-v2-phone.jpg`. */
   still(stillId: number, version: number, format: 'png' | 'jpeg'): string;
+  /** `clips/12/annotated/`: the clip's annotated-clip videos. */
+  readonly annotatedPrefix: string;
+  /** An annotated clip's video, by render version: `clips/12/annotated/5-v1.mp4`. */
+  annotated(annotatedClipId: number, version: number): string;
 }
 
 const STORED_NAME = /^original\.[a-z0-9]{2,5}$/;
@@ -42,6 +51,9 @@ export function clipKeys(clipId: number): ClipKeys {
       const base = `${prefix}stills/${id(stillId, 'still')}-v${id(version, 'version')}`;
       return format === 'png' ? `${base}.png` : `${base}-phone.jpg`;
     },
+    annotatedPrefix: `${prefix}annotated/`,
+    annotated: (annotatedClipId, version) =>
+      `${prefix}annotated/${annotatedClipFile(id(annotatedClipId, 'annotated clip'), id(version, 'version'))}`,
   };
 }
 

@@ -1,6 +1,12 @@
 import type { Readable } from 'node:stream';
 import { NotFoundError } from '../errors';
 
+/** Bytes `start`…`end` of an object, both inclusive (as an HTTP `Range`). */
+export interface ByteRange {
+  start: number;
+  end: number;
+}
+
 /** Size and time of one stored object. */
 export interface StoredObject {
   key: string;
@@ -33,8 +39,11 @@ export interface MediaStore {
   put(key: string, body: Readable | Buffer | string): Promise<void>;
   /** Moves a local file (an accepted upload's temp file) in as `key`; the local file is gone afterwards. */
   putFile(key: string, localFile: string): Promise<void>;
-  /** A stream of the object. @throws {MissingMediaError} when there is none. */
-  get(key: string): Promise<Readable>;
+  /**
+   * A stream of the object, or of bytes `range.start`…`range.end` (inclusive) of it (a video
+   * player's byte-range request). @throws {MissingMediaError} when there is none.
+   */
+  get(key: string, range?: ByteRange): Promise<Readable>;
   /** The object's size and time, or null when there is none. */
   stat(key: string): Promise<StoredObject | null>;
   /** Keys under `prefix` (which ends with `/`), sorted. */

@@ -20,7 +20,9 @@
  * - event-rules / event-proposals: proposed initial contacts and toe-offs from heel, toe, hip (and
  *   knee) positions over frames (coordinate method, refined for running); proposal-merge: adding
  *   them to a clip's events without touching placed or accepted ones;
- * - gait-cycle: angles normalised 0–100 % from initial contact to the next, mean ± SD per side.
+ * - gait-cycle: angles normalised 0–100 % from initial contact to the next, mean ± SD per side;
+ * - slow-motion, step-warp, landmark-fill: timing of annotated clips (repeat rule, per-step time-warp
+ *   of a side-by-side clip at initial contacts, landmarks between marked frames).
  */
 export * from './geometry';
 export * from './angles';
@@ -44,3 +46,6 @@ export * from './event-rules';
 export * from './event-proposals';
 export * from './proposal-merge';
 export * from './gait-cycle';
+export * from './slow-motion';
+export * from './step-warp';
+export * from './landmark-fill';

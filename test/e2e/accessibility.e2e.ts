@@ -3,7 +3,7 @@
  * axe-core (npm; the WCAG 2 A/AA rules it ships): no critical and no serious violation. Staff pages
  * at 1440×900; the signed-out pages and the athlete's portal also on a 390×844 phone. The demo
  * scenario supplies the data; two synthetic runner clips (marked through the API) give the review
- * workspace, the Re-test comparison and a rendered, published still. Each checked view leaves a
+ * workspace, the Re-test comparison, a rendered, published still and annotated clip. Each checked view leaves a
  * screenshot `a11y-*.png`.
  */
 import path from 'node:path';
@@ -58,6 +58,23 @@ beforeAll(async () => {
     await new Promise((r) => setTimeout(r, 200));
   }
   await api.post(`/api/stills/${still.body.id}/publish`, {});
+
+  // A rendered, published annotated clip, so the Shared tab, its preview and the portal's player show one.
+  const clip = await api.post(`/api/clips/${retest.clipId}/annotated-clips`, {
+    fromFrame: 30,
+    toFrame: 59,
+    factor: 1,
+    caption: 'Toe-off in slow motion.',
+    showAngles: true,
+  });
+  if (clip.status !== 202) throw new Error(`annotated clip: ${clip.status} ${JSON.stringify(clip.body)}`);
+  for (let i = 0; ; i++) {
+    const c = (await api.get(`/api/annotated-clips/${clip.body.id}`)).body;
+    if (c.status === 'ready') break;
+    if (c.status === 'failed' || i > 300) throw new Error(`annotated clip ${c.status}`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  await api.post(`/api/annotated-clips/${clip.body.id}/publish`, {});
 
   // The signed-out pages that need a link from an e-mail.
   const anon = new Client(h.baseUrl);
@@ -211,6 +228,7 @@ describe('accessibility: axe-core finds no critical or serious problem', () => {
     await check(page, 'coach: athlete profile, shared tab');
     await checkDialog(page, 'coach: still viewer', thumb);
     await checkDialog(page, 'coach: visit summary dialog', page.getByRole('button', { name: 'New visit summary' }));
+    await checkDialog(page, 'coach: annotated clip preview', page.getByRole('button', { name: /^Preview: / }).first());
 
     await page.goto(`${h.baseUrl}/athletes/${adaId}/assessments/${retest.assessmentId}`);
     await ready(page);
@@ -229,10 +247,12 @@ describe('accessibility: axe-core finds no critical or serious problem', () => {
     await page.locator('body').click({ position: { x: 5, y: 5 } });
     await checkDialog(page, 'coach: review key help dialog', '?');
     await checkDialog(page, 'coach: save still dialog (review)', 'k');
+    await checkDialog(page, 'coach: make annotated clip dialog', page.getByRole('button', { name: 'Make clip' }));
 
     await openComparison(page);
     await check(page, 'coach: re-test comparison');
     await checkDialog(page, 'coach: save still dialog (comparison)', page.getByRole('button', { name: 'Save still of the pair' }));
+    await checkDialog(page, 'coach: side-by-side clip dialog', page.getByRole('button', { name: 'Side-by-side clip' }));
 
     await page.goto(`${h.baseUrl}/exercises`);
     await ready(page, 'Exercise library');
@@ -320,6 +340,7 @@ describe('accessibility: axe-core finds no critical or serious problem', () => {
       await ready(page);
       const still = page.getByRole('button', { name: /^Enlarge still: / }).first();
       await still.waitFor({ timeout: 20_000 });
+      await page.getByRole('button', { name: 'One frame on' }).first().waitFor({ timeout: 20_000 });
       await check(page, 'athlete: portal home');
       await checkDialog(page, 'athlete: enlarged still', still);
       await visit(page, '/portal/profile', 'athlete: profile');
@@ -334,7 +355,7 @@ describe('accessibility: axe-core finds no critical or serious problem', () => {
 
   it('walked every view', () => {
     console.log(`axe-core checked ${found.size} views:\n${[...found.keys()].join('\n')}`);
-    // 6 signed-out views × 2 sizes, 34 of the coach (29 desktop, 5 phone), 10 of the owner, 7 of the athlete × 2 sizes.
-    expect(found.size).toBe(70);
+    // 6 signed-out views × 2 sizes, 37 of the coach (32 desktop, 5 phone), 10 of the owner, 7 of the athlete × 2 sizes.
+    expect(found.size).toBe(73);
   });
 });

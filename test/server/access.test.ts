@@ -290,6 +290,12 @@ const ROUTES: RouteCase[] = [
   },
   {
     method: 'get',
+    pattern: '/api/athletes/:id/annotated-clips',
+    path: (c) => `/api/athletes/${c.foreignAthleteId}/annotated-clips`,
+    access: { action: 'annotated-clip:list', on: 'foreign', ok: 200 },
+  },
+  {
+    method: 'get',
     pattern: '/api/athletes/:id/summaries',
     path: (c) => `/api/athletes/${c.foreignAthleteId}/summaries`,
     access: { action: 'summary:list', on: 'foreign', ok: 200 },
@@ -1039,6 +1045,75 @@ const ROUTES: RouteCase[] = [
     before: () => scratchSummary(),
     access: { action: 'summary:read', on: 'self', ok: 200, state: { published: false } },
   },
+  // Annotated clips (fixtures in annotatedClipFixtures() at the end of this file): the walk's clip
+  // is published, so its own athlete plays it; scratch ones take the writes.
+  {
+    method: 'post',
+    pattern: '/api/clips/:id/annotated-clips',
+    path: (c) => `/api/clips/${c.clipId}/annotated-clips`,
+    body: () => ({ fromFrame: 0, toFrame: 5, factor: 1, caption: 'Walk', showAngles: true }),
+    access: { action: 'annotated-clip:create', on: 'self', ok: 202 },
+  },
+  {
+    method: 'post',
+    pattern: '/api/athletes/:id/side-by-side-clips',
+    path: (c) => `/api/athletes/${c.selfAthleteId}/side-by-side-clips`,
+    body: () => ({ baselineClipId: ac.baselineClipId, retestClipId: ac.retestClipId, factor: 1, caption: 'Walk', showAngles: true }),
+    access: { action: 'annotated-clip:create', on: 'self', ok: 202 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/athletes/:id/annotated-clips',
+    path: (c) => `/api/athletes/${c.selfAthleteId}/annotated-clips`,
+    access: { action: 'annotated-clip:list', on: 'self', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/annotated-clips/:id',
+    path: () => `/api/annotated-clips/${ac.clipId}`,
+    access: { action: 'annotated-clip:read', on: 'self', ok: 200, state: { published: true } },
+  },
+  {
+    method: 'get',
+    pattern: '/api/annotated-clips/:id',
+    path: () => `/api/annotated-clips/${ac.scratchId}`,
+    before: () => scratchAnnotatedClip(),
+    access: { action: 'annotated-clip:read', on: 'self', ok: 200, state: { published: false } },
+  },
+  {
+    method: 'post',
+    pattern: '/api/annotated-clips/:id/publish',
+    path: () => `/api/annotated-clips/${ac.scratchId}/publish`,
+    before: () => scratchAnnotatedClip(),
+    access: { action: 'annotated-clip:publish', on: 'self', ok: 200 },
+  },
+  {
+    method: 'post',
+    pattern: '/api/annotated-clips/:id/unpublish',
+    path: () => `/api/annotated-clips/${ac.scratchId}/unpublish`,
+    before: () => scratchAnnotatedClip(),
+    access: { action: 'annotated-clip:publish', on: 'self', ok: 200 },
+  },
+  {
+    method: 'delete',
+    pattern: '/api/annotated-clips/:id',
+    path: () => `/api/annotated-clips/${ac.scratchId}`,
+    before: () => scratchAnnotatedClip(),
+    access: { action: 'annotated-clip:delete', on: 'self', ok: 204 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/annotated-clips/:id/video.mp4',
+    path: () => `/api/annotated-clips/${ac.clipId}/video.mp4`,
+    access: { action: 'annotated-clip:read', on: 'self', ok: 200, state: { published: true } },
+  },
+  {
+    method: 'get',
+    pattern: '/api/annotated-clips/:id/video.mp4',
+    path: () => `/api/annotated-clips/${ac.scratchId}/video.mp4`,
+    before: () => scratchAnnotatedClip(),
+    access: { action: 'annotated-clip:read', on: 'self', ok: 200, state: { published: false } },
+  },
   {
     method: 'get',
     pattern: '/api/portal/shared',
@@ -1158,6 +1233,7 @@ beforeAll(async () => {
   await billingFixtures();
   await sharingFixtures();
   await demoFixtures();
+  await annotatedClipFixtures();
   server = http.createServer(t.app).listen(0, '127.0.0.1');
 });
 afterAll(async () => {
@@ -1453,4 +1529,48 @@ async function sharingFixtures(): Promise<void> {
   await scratchSummary();
   sc.summaryId = sc.scratchSummaryId;
   expect((await coachClient.post(`/api/summaries/${sc.summaryId}/publish`, {})).status).toBe(200);
+}
+
+// ─── Annotated clips ──────────────────────────────────────────────────────────────────────
+const ac = { clipId: 0, scratchId: 0, baselineClipId: 0, retestClipId: 0 };
+
+/** A rendered, unpublished annotated clip of the walk's clip. */
+async function scratchAnnotatedClip(): Promise<void> {
+  const res = await coachClient.post(`/api/clips/${ctx.clipId}/annotated-clips`, {
+    fromFrame: 0,
+    toFrame: 5,
+    factor: 1,
+    caption: 'Scratch',
+    showAngles: true,
+  });
+  expect(res.status, JSON.stringify(res.body)).toBe(202);
+  ac.scratchId = res.body.id;
+  await t.worker!.idle();
+}
+
+/** One published annotated clip, and two more clips of the self athlete with an initial contact marked (side by side). */
+async function annotatedClipFixtures(): Promise<void> {
+  await scratchAnnotatedClip();
+  ac.clipId = ac.scratchId;
+  expect((await coachClient.post(`/api/annotated-clips/${ac.clipId}/publish`, {})).status).toBe(200);
+  const ids: number[] = [];
+  for (const name of ['sbs-a', 'sbs-b']) {
+    const file = await makeClip(`${clipDir.dir}/${name}.mp4`, { fps: 30, width: 160, height: 90, seconds: 1 });
+    const up = await coachClient.agent
+      .post(`/api/assessments/${ctx.assessmentId}/clips`)
+      .set('X-XSRF-TOKEN', await coachClient.xsrf())
+      .attach('file', file);
+    ids.push(up.body.id);
+  }
+  await t.worker!.idle();
+  for (const id of ids) {
+    const marked = await coachClient.put(`/api/clips/${id}/annotations`, {
+      baseRevision: 0,
+      landmarks: [],
+      events: [{ frame: 3, side: 'right', kind: 'initial_contact' }],
+      scale: null,
+    });
+    expect(marked.status, JSON.stringify(marked.body)).toBe(200);
+  }
+  [ac.baselineClipId, ac.retestClipId] = ids as [number, number];
 }

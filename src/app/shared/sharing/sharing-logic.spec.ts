@@ -94,6 +94,14 @@ describe('sharedListStep', () => {
     expect(sharedListStep(event({ state: 'cancelled' }), shown)).toEqual({ kind: 'drop', subject: 'still', id: 5 });
     expect(sharedListStep(event({ subject: 'clip' }), shown)).toEqual({ kind: 'ignore' });
   });
+
+  it('follows annotated clips only where their list is given', () => {
+    const clipEvent = event({ subject: 'annotated_clip', kind: 'render_annotated_clip', id: 3, progress: { done: 25, total: 100 } });
+    expect(sharedListStep(clipEvent, shown)).toEqual({ kind: 'ignore' });
+    const clips = [{ id: 3, status: 'rendering' as const }];
+    expect(sharedListStep(clipEvent, { clips })).toEqual({ kind: 'progress', subject: 'annotated_clip', id: 3, progress: 0.25 });
+    expect(sharedListStep(event({ subject: 'still' }), { clips })).toEqual({ kind: 'ignore' });
+  });
 });
 
 describe('progressPercent', () => {

@@ -27,7 +27,10 @@ export function textCount(text: string, max: number): TextCount {
 }
 
 /** Which list a progress event is about. */
-export type SharedSubject = 'still' | 'summary';
+export type SharedSubject = 'still' | 'summary' | 'annotated_clip';
+
+/** A shown item of a shared list, as following renders needs it. */
+type ShownItem = { id: number; status: RenderStatus };
 
 /** How the Shared tab follows one event of the progress stream. */
 export type SharedListStep =
@@ -39,16 +42,23 @@ export type SharedListStep =
 /**
  * A render's progress on a shown still or summary is set in place (0–1); any other change — ready,
  * failed, queued again, or one the tab does not show yet (saved from the review) — fetches it
- * again; a cancelled render means it is being deleted. Clips' events are not the tab's.
+ * again; a cancelled render means it is being deleted. Only the lists given are followed (the
+ * Shared tab's stills and summaries, its annotated clips); clips' frames are not the tab's.
  */
 export function sharedListStep(
   event: ProcessingEvent,
-  shown: { stills: readonly { id: number; status: RenderStatus }[]; summaries: readonly { id: number; status: RenderStatus }[] },
+  shown: { stills?: readonly ShownItem[]; summaries?: readonly ShownItem[]; clips?: readonly ShownItem[] },
 ): SharedListStep {
-  if (event.subject !== 'still' && event.subject !== 'summary') return { kind: 'ignore' };
-  const subject = event.subject;
+  const lists: Partial<Record<string, readonly ShownItem[]>> = {
+    still: shown.stills,
+    summary: shown.summaries,
+    annotated_clip: shown.clips,
+  };
+  const list = lists[event.subject];
+  if (!list) return { kind: 'ignore' };
+  const subject = event.subject as SharedSubject;
   if (event.state === 'cancelled') return { kind: 'drop', subject, id: event.id };
-  const item = (subject === 'still' ? shown.stills : shown.summaries).find((i) => i.id === event.id);
+  const item = list.find((i) => i.id === event.id);
   if (item?.status === 'rendering' && event.state === 'running' && event.progress && event.progress.total > 0) {
     return { kind: 'progress', subject, id: event.id, progress: Math.min(1, event.progress.done / event.progress.total) };
   }
@@ -113,13 +123,13 @@ export function stillAlt(still: Pick<Still, 'caption' | 'panels' | 'kind'>): str
 
 /** What publishing sends, for the confirmation. */
 export function publishConfirmText(
-  kind: 'still' | 'summary',
+  kind: 'still' | 'summary' | 'clip',
   athleteName: string,
   hasAccount = true,
 ): { title: string; message: string; confirmLabel: string } {
   const who = athleteName.trim() || 'The athlete';
-  const what = kind === 'still' ? 'this still' : 'this visit summary';
-  const title = kind === 'still' ? 'Publish this still?' : 'Publish this visit summary?';
+  const what = { still: 'this still', summary: 'this visit summary', clip: 'this annotated clip' }[kind];
+  const title = `Publish ${what}?`;
   if (!hasAccount) {
     return {
       title,

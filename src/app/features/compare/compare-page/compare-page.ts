@@ -43,6 +43,7 @@ import { fullName } from '../../../core/data/roster';
 import { ClipManifest, ReviewApi } from '../../../core/data/review-api';
 import { GHOST_COLOURS, OVERLAY_COLOURS } from '../../../../kinematics';
 import { openSaveStill } from '../../../shared/sharing/save-still-dialog/save-still-dialog';
+import { openAnnotatedClipDialog } from '../../../shared/sharing/annotated-clip-dialog/annotated-clip-dialog';
 import { CompareApi } from '../compare-api';
 import { drawCompareFrame } from '../compare-canvas';
 import {
@@ -320,6 +321,22 @@ export class ComparePage {
       frameIndex: re.frame,
       pairWith: { clipId: base.loaded.clip.id, frameIndex: base.frame },
       what: `Side by side: Baseline ${cmp.baseline.date} frame ${base.frame} and Re-test ${cmp.retest.date} frame ${re.frame} (${GAIT_EVENT_LABELS[this.eventKind()].toLowerCase()}, ${sideText(this.side()).toLowerCase()} side, step ${this.step() + 1})`,
+      showAngles: true,
+    });
+  }
+
+  /** "Side-by-side clip": both visits' clips in slow motion, lined up at each step's initial contact. */
+  protected makeSideBySide(): void {
+    const base = this.baselineFrame.value();
+    const re = this.retestFrame.value();
+    const cmp = this.comparison.value();
+    if (!base || !re || !cmp) return;
+    void openAnnotatedClipDialog({ dialog: this.dialog, snackBar: this.snackBar, router: this.router }, this.id(), {
+      mode: 'side_by_side',
+      athleteId: this.id(),
+      baselineClipId: base.loaded.clip.id,
+      retestClipId: re.loaded.clip.id,
+      what: `Side by side: Baseline ${cmp.baseline.date} and Re-test ${cmp.retest.date}, lined up at each initial contact`,
       showAngles: true,
     });
   }

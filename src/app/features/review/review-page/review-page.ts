@@ -49,6 +49,9 @@ import { EventProposals } from '../event-proposals';
 import { ReviewStore } from '../review-store';
 import { ScalePanel } from '../scale-panel/scale-panel';
 import { openSaveStill } from '../../../shared/sharing/save-still-dialog/save-still-dialog';
+import { openAnnotatedClipDialog } from '../../../shared/sharing/annotated-clip-dialog/annotated-clip-dialog';
+import { ANNOTATED_CLIP_MAX_SOURCE_FRAMES } from '../../../../contracts/annotated-clips';
+import { defaultClipRange } from '../../../../kinematics';
 
 /** What the page loads before the workspace opens. */
 type Loaded =
@@ -414,6 +417,29 @@ export class ReviewPage implements LeaveGuarded {
       showAngles: store.showAngles(),
       unsavedMarks: unsaved,
       caption: events ? `${events}.` : '',
+    });
+  }
+
+  /** "Make clip": an annotated slow-motion clip of two strides around the current frame (the range can be changed). */
+  protected makeClip(): void {
+    const r = this.ready();
+    if (!r || this.dialog.openDialogs.length) return;
+    const store = this.store;
+    if (store.playing()) store.pause();
+    if (store.hasUnsaved()) store.saveNow();
+    const contacts = { left: [] as number[], right: [] as number[] };
+    for (const e of store.events()) if (e.kind === 'initial_contact') contacts[e.side].push(e.frame);
+    const range = defaultClipRange(store.frame(), contacts, store.frameCount(), store.fps(), ANNOTATED_CLIP_MAX_SOURCE_FRAMES);
+    const when = formatDate(r.assessment.date, 'mediumDate', this.locale);
+    void openAnnotatedClipDialog({ dialog: this.dialog, snackBar: this.snackBar, router: this.router }, Number(this.athleteId()), {
+      mode: 'single',
+      clipId: r.clip.id,
+      frameCount: store.frameCount(),
+      fps: store.fps(),
+      from: range.from,
+      to: range.to,
+      what: `${ASSESSMENT_KIND_LABELS[r.assessment.kind]} · ${when}, ${r.clip.originalName}`,
+      showAngles: store.showAngles(),
     });
   }
 

@@ -17,6 +17,7 @@ import { AssessmentsApi } from '../../../core/data/assessments-api';
 import { SHARED_CAUTION, downloadUrl, nextAssessment, panelText, stillAlt, stillSrc, todayIso } from '../sharing-logic';
 import { openStillViewer } from '../still-viewer/still-viewer';
 import { StillsApi } from '../../../core/data/stills-api';
+import { PortalClips } from '../portal-clips/portal-clips';
 
 /**
  * The athlete's portal home, shared part (phone first): the latest published stills as a strip
@@ -25,7 +26,7 @@ import { StillsApi } from '../../../core/data/stills-api';
  */
 @Component({
   selector: 'app-portal-shared',
-  imports: [DatePipe, RouterLink, MatButtonModule, MatCardModule, MatIconModule, MatProgressBarModule, ErrorState],
+  imports: [DatePipe, RouterLink, MatButtonModule, MatCardModule, MatIconModule, MatProgressBarModule, ErrorState, PortalClips],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './portal-shared.html',
   styleUrl: './portal-shared.scss',

@@ -25,13 +25,17 @@ describe('SharedPanel', () => {
     element = fixture.nativeElement;
     fixture.detectChanges();
   }
+  /** The annotated clips below the stills have their own spec; here they are an empty list. */
+  const flushClips = () => backend.match((r) => r.url.endsWith('/annotated-clips')).forEach((r) => r.flush({ clips: [] }));
   const settle = async () => {
+    flushClips();
     await wait(20);
     fixture.detectChanges();
     await fixture.whenStable();
     fixture.detectChanges();
   };
   afterEach(() => {
+    flushClips();
     backend.verify();
     document.querySelector('.cdk-overlay-container')?.replaceChildren();
   });

@@ -1,6 +1,6 @@
 import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, input, output, signal } from '@angular/core';
-import { rxResource, takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
+import { rxResource, takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -9,7 +9,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { EMPTY, Observable, catchError, filter, firstValueFrom, switchMap, tap } from 'rxjs';
+import { Observable, filter, firstValueFrom, switchMap } from 'rxjs';
 import type { AthleteSummary } from '../../../../contracts/api';
 import { CAPTION_MAX, type Still, type VisitSummary } from '../../../../contracts/sharing';
 import { errorMessage, errorStatus } from '../../../core/api-error';
@@ -36,6 +36,8 @@ import { saveProblems } from '../sharing-errors';
 import { openStillViewer } from '../still-viewer/still-viewer';
 import { StillsApi } from '../../../core/data/stills-api';
 import { SummaryDialog, type SummaryDialogData } from '../summary-dialog/summary-dialog';
+import { SharedClips } from '../shared-clips/shared-clips';
+import { followRenders } from '../follow-renders';
 
 /** The caption being edited on one still's card. */
 interface CaptionEdit {
@@ -64,6 +66,7 @@ interface CaptionEdit {
     EmptyState,
     ErrorState,
     InvitePrompt,
+    SharedClips,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './shared-panel.html',
@@ -107,27 +110,16 @@ export class SharedPanel {
   protected readonly errorMessage = errorMessage;
 
   constructor() {
-    toObservable(this.athleteId)
-      .pipe(
-        switchMap((id) => {
-          let connections = 0;
-          return this.progress.follow(id).pipe(
-            tap((message) => {
-              if (message.type === 'connected') {
-                // What finished while the connection was down, or before it first opened (a render
-                // shown running that ended in between sends no more events), comes with a reload.
-                const rendering = [...this.stillList(), ...this.summaryList()].some((i) => i.status === 'rendering');
-                if (connections++ > 0 || rendering) this.reload();
-                return;
-              }
-              this.follow(sharedListStep(message.event, { stills: this.stillList(), summaries: this.summaryList() }));
-            }),
-            // Live updates stopped: the lists stay as they are (a reload of the page brings the rest).
-            catchError(() => EMPTY),
-          );
-        }),
-        takeUntilDestroyed(),
-      )
+    followRenders(this.progress, this.athleteId, {
+      connected: (again) => {
+        // What finished while the connection was down, or before it first opened (a render
+        // shown running that ended in between sends no more events), comes with a reload.
+        const rendering = [...this.stillList(), ...this.summaryList()].some((i) => i.status === 'rendering');
+        if (again || rendering) this.reload();
+      },
+      item: (event) => this.follow(sharedListStep(event, { stills: this.stillList(), summaries: this.summaryList() })),
+    })
+      .pipe(takeUntilDestroyed())
       .subscribe();
   }
 

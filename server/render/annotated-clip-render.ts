@@ -1,0 +1,289 @@
+import { rename, rm } from 'node:fs/promises';
+import path from 'node:path';
+import { createCanvas, loadImage, type Image } from '@napi-rs/canvas';
+import type { AngleGauge, GaitEventMark, FrameLandmarks } from '../../src/contracts/annotations';
+import type { Direction, Side } from '../../src/contracts/assessment';
+import {
+  ANNOTATED_CLIP_MAX_LONG_SIDE,
+  ANNOTATED_CLIP_MAX_SOURCE_FRAMES,
+  SLOW_MOTION_LABELS,
+  type LandmarkOriginCounts,
+  type SlowMotionFactor,
+} from '../../src/contracts/annotated-clips';
+import { STILL_CAUTION_LINE, type StillRect } from '../../src/contracts/sharing';
+import { GAIT_EVENT_LABELS } from '../../src/contracts/annotations';
+import { drawOverlay, landmarkFill, slowMotionTiming, type Canvas2DLike, type LandmarkFill } from '../../src/kinematics';
+import { startH264Encoder } from '../media/encode-h264';
+import { CANVAS_FONT_FAMILY, registerCanvasFonts } from './fonts';
+import { wrapText } from './still-render';
+
+/** One clip to play: where its frames come from and what is marked on it. */
+export interface ClipPanelInput {
+  /** Working frame size, px: the coordinate system of the landmarks. */
+  frameSize: { width: number; height: number };
+  /** Frame rate of the clip, frames/s (time labels; the first panel's sets the video's timing). */
+  fps: number;
+  /** JPEG/PNG bytes (or a file path) of working frame `index`. */
+  readFrame(index: number): Promise<Buffer | string>;
+  landmarks: readonly FrameLandmarks[];
+  events: readonly GaitEventMark[];
+  gauges?: readonly AngleGauge[];
+  nearSide: Side;
+  direction: Direction;
+  /** Heading above the panel, e.g. "Re-test · 24 Nov 2026". */
+  heading: string;
+}
+
+export interface AnnotatedClipRenderInput {
+  /** One clip, or Baseline and Re-test side by side (drawn at the same height). */
+  panels: ClipPanelInput[];
+  /**
+   * The source frames to show, in order: `steps[k][p]` is panel p's frame at video step k (one
+   * entry per panel; a side-by-side clip's Re-test frames come from the time-warp).
+   */
+  steps: readonly (readonly number[])[];
+  factor: SlowMotionFactor;
+  caption: string;
+  /** Whether angle arcs and degree labels are drawn (near side). */
+  showAngles: boolean;
+  /** The .mp4 to write: encoded under a hidden name beside it and renamed when complete, so it is never seen half written. */
+  outFile: string;
+  /** Called now and then with 0–1. */
+  onProgress?: (fraction: number) => void | Promise<void>;
+  /** Aborting stops drawing and kills ffmpeg. */
+  signal?: AbortSignal;
+}
+
+export interface AnnotatedClipRenderOutput {
+  width: number;
+  height: number;
+  /** Video frames written: steps × repeat. */
+  frameCount: number;
+  /** Times each source frame was written (the slow-motion rule). */
+  repeat: number;
+  outputFps: number;
+  durationS: number;
+  /** Where each panel's frame sits in the video, px. */
+  layout: StillRect[];
+  /** Per panel: how many steps showed marked, followed, interpolated or no landmarks. */
+  origins: LandmarkOriginCounts[];
+  /** What the clip says about its landmarks (drawn after the speed in the foot band). */
+  note: string;
+}
+
+const INK = '#1B2A26';
+const PAPER = '#FFFFFF';
+const BAND = '#F1F5F3';
+const MUTED = '#4A5A55';
+const GAP = 8;
+/** An event's label stays up this long in playback, seconds, so it can be read in slow motion. */
+const EVENT_LABEL_HOLD_S = 0.6;
+/** Frames decoded ahead of the one being drawn. */
+const READ_AHEAD = 3;
+
+const even = (n: number) => Math.max(2, 2 * Math.round(n / 2));
+
+/** "Landmarks marked on 12 frames, followed on 30 and interpolated between marked frames on 18." */
+export function landmarkNote(counts: LandmarkOriginCounts): string {
+  const parts: string[] = [];
+  if (counts.marked) parts.push(`marked on ${counts.marked} frame${counts.marked === 1 ? '' : 's'}`);
+  if (counts.followed) parts.push(`followed on ${counts.followed}`);
+  if (counts.interpolated) parts.push(`interpolated between marked frames on ${counts.interpolated}`);
+  if (!parts.length) return 'No landmarks in this range.';
+  const last = parts.pop()!;
+  return `Landmarks ${parts.length ? `${parts.join(', ')} and ${last}` : last}.`;
+}
+
+/** The events of one side shown while the clip is at `frame`: those up to `hold` frames back. */
+function eventsShown(events: readonly GaitEventMark[], frame: number, hold: number): string {
+  return events
+    .filter((e) => e.frame <= frame && frame - e.frame < hold)
+    .sort((a, b) => b.frame - a.frame)
+    .slice(0, 2)
+    .map((e) => `${e.side === 'left' ? 'Left' : 'Right'} ${GAIT_EVENT_LABELS[e.kind].toLowerCase()}`)
+    .join(' · ');
+}
+
+/**
+ * Renders an annotated clip: every step's source frame(s) drawn with the SAME overlay the review
+ * and the stills draw (`drawOverlay` on @napi-rs/canvas), a heading band per panel (visit, time,
+ * event labels held {@link EVENT_LABEL_HOLD_S} s of playback), and a band below with the caption,
+ * the speed and where the landmarks came from, and the caution line. Frames go to ffmpeg raw
+ * (RGBA through a pipe; no file per frame); each is written `repeat` times by the slow-motion rule
+ * (`slowMotionTiming`). Landmarks between marked frames: followed ones, else interpolated
+ * (`landmarkFill`); a frame showing interpolated landmarks says so in its heading.
+ */
+export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Promise<AnnotatedClipRenderOutput> {
+  registerCanvasFonts();
+  const { panels, steps } = input;
+  if (panels.length === 0) throw new RangeError('An annotated clip needs at least one clip.');
+  if (steps.length === 0) throw new RangeError('An annotated clip needs at least one frame.');
+  if (steps.length > ANNOTATED_CLIP_MAX_SOURCE_FRAMES)
+    throw new RangeError(`An annotated clip can cover at most ${ANNOTATED_CLIP_MAX_SOURCE_FRAMES} frames; this one has ${steps.length}.`);
+  const timing = slowMotionTiming(panels[0]!.fps, input.factor);
+
+  // Size: panels at one height, the whole video's long side ≤ the limit, every dimension even.
+  const baseHeight = panels[0]!.frameSize.height;
+  const naturalWidths = panels.map((p) => (p.frameSize.width * baseHeight) / p.frameSize.height);
+  const naturalWidth = naturalWidths.reduce((a, b) => a + b, 0) + GAP * (panels.length - 1);
+  const unit0 = Math.max(12, Math.round(Math.min(naturalWidth, baseHeight) * 0.028));
+  const bandsEstimate = unit0 * 8;
+  const fit = Math.min(1, ANNOTATED_CLIP_MAX_LONG_SIDE / Math.max(naturalWidth, baseHeight + bandsEstimate));
+  const panelHeight = Math.round(baseHeight * fit);
+  const widths = naturalWidths.map((w) => Math.round(w * fit));
+  const contentWidth = widths.reduce((a, b) => a + b, 0) + GAP * (panels.length - 1);
+  const unit = Math.max(12, Math.round(Math.min(contentWidth, panelHeight) * 0.028));
+  const headingHeight = Math.round(unit * 2.2);
+
+  const scratch = createCanvas(10, 10).getContext('2d');
+  const captionFont = `400 ${Math.round(unit * 1.05)}px "${CANVAS_FONT_FAMILY}"`;
+  scratch.font = captionFont;
+  const caption = input.caption.trim();
+  const captionLines = caption ? wrapText(scratch, caption, contentWidth - 2 * unit).slice(0, 3) : [];
+  const lineHeight = Math.round(unit * 1.4);
+  const smallSize = Math.max(10, Math.round(unit * 0.8));
+  const footHeight = Math.round(unit * 0.6) + captionLines.length * lineHeight + Math.round(smallSize * 1.6) * 2 + Math.round(unit * 0.4);
+
+  const width = even(contentWidth);
+  const height = even(headingHeight + panelHeight + footHeight);
+  const canvas = createCanvas(width, height);
+  const ctx = canvas.getContext('2d');
+  ctx.fillStyle = PAPER;
+  ctx.fillRect(0, 0, width, height);
+
+  const layout: StillRect[] = [];
+  let x = 0;
+  for (const w of widths) {
+    layout.push({ x, y: headingHeight, width: w, height: panelHeight });
+    x += w + GAP;
+  }
+  const fills: LandmarkFill[] = panels.map((p) => landmarkFill(p.landmarks));
+  const origins: LandmarkOriginCounts[] = panels.map(() => ({ marked: 0, followed: 0, interpolated: 0, none: 0 }));
+  for (const step of steps) panels.forEach((_, i) => origins[i]![fills[i]!.at(step[i]!).origin]++);
+  const notes = panels.map((p, i) => {
+    const text = landmarkNote(origins[i]!);
+    // Side by side: "Baseline: landmarks marked on …".
+    return panels.length > 1 ? `${p.heading.split(' · ')[0]}: ${text.charAt(0).toLowerCase()}${text.slice(1)}` : text;
+  });
+  const note = notes.join(' ');
+
+  // The foot band does not change: drawn once.
+  const footTop = headingHeight + panelHeight;
+  ctx.fillStyle = PAPER;
+  ctx.fillRect(0, footTop, width, height - footTop);
+  ctx.textAlign = 'left';
+  ctx.textBaseline = 'top';
+  let y = footTop + Math.round(unit * 0.6);
+  ctx.fillStyle = INK;
+  ctx.font = captionFont;
+  for (const line of captionLines) {
+    ctx.fillText(line, unit, y, width - 2 * unit);
+    y += lineHeight;
+  }
+  ctx.font = `400 ${smallSize}px "${CANVAS_FONT_FAMILY}"`;
+  ctx.fillStyle = MUTED;
+  ctx.fillText(`${SLOW_MOTION_LABELS[input.factor]}. ${note}`, unit, y, width - 2 * unit);
+  y += Math.round(smallSize * 1.6);
+  ctx.fillText(STILL_CAUTION_LINE, unit, y, width - 2 * unit);
+  ctx.fillRect(0, height - 1, width, 1);
+
+  const holdFrames = panels.map((p) => Math.max(1, Math.round(EVENT_LABEL_HOLD_S * p.fps * input.factor)));
+  const headingFont = `600 ${unit}px "${CANVAS_FONT_FAMILY}"`;
+  const statusFont = `400 ${Math.round(unit * 0.9)}px "${CANVAS_FONT_FAMILY}"`;
+
+  function drawStep(k: number, images: Image[]): void {
+    panels.forEach((panel, i) => {
+      const rect = layout[i]!;
+      const frame = steps[k]![i]!;
+      const filled = fills[i]!.at(frame);
+      // Heading band: visit, and on the right the time, the events just passed and the landmark origin.
+      ctx.fillStyle = BAND;
+      ctx.fillRect(rect.x, 0, rect.width, headingHeight);
+      ctx.textBaseline = 'middle';
+      ctx.fillStyle = INK;
+      ctx.font = headingFont;
+      ctx.textAlign = 'left';
+      ctx.fillText(panel.heading, rect.x + unit * 0.6, headingHeight / 2, rect.width * 0.45);
+      const status = [
+        `${(frame / panel.fps).toFixed(2)} s`,
+        eventsShown(panel.events, frame, holdFrames[i]!),
+        filled.origin === 'interpolated' ? 'landmarks interpolated' : '',
+      ].filter(Boolean);
+      ctx.font = statusFont;
+      ctx.textAlign = 'right';
+      ctx.fillText(status.join(' · '), rect.x + rect.width - unit * 0.6, headingHeight / 2, rect.width * 0.5);
+
+      const image = images[i]!;
+      // At its own size a frame is copied as it is (no resampling).
+      if (image.width === rect.width && image.height === rect.height) ctx.drawImage(image, rect.x, rect.y);
+      else ctx.drawImage(image, rect.x, rect.y, rect.width, rect.height);
+      const scale = rect.width / panel.frameSize.width;
+      ctx.save();
+      ctx.translate(rect.x, rect.y);
+      ctx.scale(scale, rect.height / panel.frameSize.height);
+      drawOverlay(ctx as unknown as Canvas2DLike, {
+        frameSize: panel.frameSize,
+        landmarks: filled.landmarks,
+        nearSide: panel.nearSide,
+        direction: panel.direction,
+        showAngles: input.showAngles,
+        scale: null,
+        gauges: (panel.gauges ?? []).filter((g) => g.frame === frame),
+        fontFamily: `"${CANVAS_FONT_FAMILY}", sans-serif`,
+        // A panel shown smaller than its frame keeps readable labels and markers.
+        ...(scale < 0.999 ? { viewScale: scale } : {}),
+      });
+      ctx.restore();
+    });
+    if (panels.length > 1) {
+      ctx.fillStyle = PAPER;
+      for (let i = 1; i < layout.length; i++) ctx.fillRect(layout[i]!.x - GAP, 0, GAP, footTop);
+    }
+  }
+
+  const read = (k: number) => Promise.all(panels.map(async (p, i) => loadImage(await p.readFrame(steps[k]![i]!))));
+  const partial = path.join(path.dirname(input.outFile), `.${path.basename(input.outFile)}.rendering`);
+  const encoder = startH264Encoder({ width, height, fps: timing.outputFps, outFile: partial, signal: input.signal });
+  const ahead: Promise<Image[]>[] = [];
+  for (let k = 0; k < Math.min(READ_AHEAD, steps.length); k++) ahead.push(read(k));
+  ahead.forEach((p) => p.catch(() => undefined));
+  let reported = 0;
+  try {
+    for (let k = 0; k < steps.length; k++) {
+      if (input.signal?.aborted) throw new Error('Rendering was cancelled.');
+      const images = await ahead.shift()!;
+      if (k + READ_AHEAD < steps.length) {
+        const next = read(k + READ_AHEAD);
+        next.catch(() => undefined);
+        ahead.push(next);
+      }
+      drawStep(k, images);
+      const pixels = canvas.data(); // a copy: the next draw does not touch what ffmpeg still reads
+      for (let r = 0; r < timing.repeat; r++) await encoder.write(pixels);
+      const fraction = (k + 1) / steps.length;
+      if (input.onProgress && fraction - reported >= 0.02) {
+        reported = fraction;
+        await input.onProgress(Math.min(0.99, fraction));
+      }
+    }
+    await encoder.finish();
+    await rename(partial, input.outFile);
+  } catch (err) {
+    encoder.abort();
+    await encoder.done.catch(() => undefined);
+    await rm(partial, { force: true });
+    throw err;
+  }
+  await input.onProgress?.(1);
+  return {
+    width,
+    height,
+    frameCount: steps.length * timing.repeat,
+    repeat: timing.repeat,
+    outputFps: timing.outputFps,
+    durationS: steps.length / (panels[0]!.fps * input.factor),
+    layout,
+    origins,
+    note,
+  };
+}
