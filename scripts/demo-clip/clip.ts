@@ -91,6 +91,7 @@ export async function generateRunnerClip(opts: RunnerClipOptions): Promise<Groun
   const extras = {
     ...(realism?.texture ? { background: makeTexturedWall(opts.width, opts.height, realism.seed ?? 1) } : {}),
     farMarkersOnTop: realism?.occlusion === false,
+    noMarkers: opts.tapeMarkers === false,
   };
   const film = realism && (realism.motionBlur || realism.flicker || realism.compressionNoise) ? new FilmEffects(opts, realism) : null;
   const { child, done } = startEncoder(opts);

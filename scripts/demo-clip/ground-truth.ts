@@ -20,6 +20,8 @@ export interface ClipSpec {
   beltSpeedMps?: number;
   /** What a phone camera adds (texture, blur, noise, flicker, occlusion, shake); none by default. */
   realism?: RealismOptions;
+  /** Whether tape markers are drawn on the joints (default true; false = a clip with no markers). */
+  tapeMarkers?: boolean;
 }
 
 /** Where metres land in the image. */

@@ -102,7 +102,10 @@ export function hiddenFarMarkers(pose: RunnerPose, layout: Layout, farRadiusPx: 
   const m = (metres: number) => metres * layout.pxPerMetre;
   const elbowAndHand = armPoints(pose.shoulder, pose.near.angles.thighDeg);
   const near = pose.near;
-  const toeTip = { x: near.heel.x + (near.toe.x - near.heel.x) * (BODY.tipM / BODY.footM), y: near.heel.y + (near.toe.y - near.heel.y) * (BODY.tipM / BODY.footM) };
+  const toeTip = {
+    x: near.heel.x + (near.toe.x - near.heel.x) * (BODY.tipM / BODY.footM),
+    y: near.heel.y + (near.toe.y - near.heel.y) * (BODY.tipM / BODY.footM),
+  };
   const limbs: Array<[Point, Point, number]> = [
     [pose.hip, near.knee, 0.13],
     [near.knee, near.ankle, 0.09],

@@ -25,7 +25,6 @@ export const COLOURS = {
   markerRing: '#1C2226',
 } as const;
 
-
 /** Mixes a #RRGGBB colour with another; `t` = share of the second. */
 export function mix(a: string, b: string, t: number): string {
   const ch = (hex: string, i: number) => parseInt(hex.slice(1 + 2 * i, 3 + 2 * i), 16);
@@ -139,6 +138,8 @@ export interface FrameExtras {
   offset?: Point;
   /** Whether the far-side markers are drawn on top of everything (no occlusion). */
   farMarkersOnTop?: boolean;
+  /** Whether no tape markers are drawn at all. */
+  noMarkers?: boolean;
 }
 
 /**
@@ -157,7 +158,7 @@ export function makeTexturedWall(width: number, height: number, seed: number): C
   for (let y = 0; y < canvas.height; y += panel / 2)
     for (let x = 0; x < canvas.width; x += panel) {
       ctx.fillStyle = mix(COLOURS.background, rnd() < 0.5 ? '#000000' : '#FFFFFF', 0.04 + 0.12 * rnd());
-      ctx.fillRect(x + (y / (panel / 2)) % 2 * (panel / 2), y, panel - 2, panel / 2 - 2);
+      ctx.fillRect(x + ((y / (panel / 2)) % 2) * (panel / 2), y, panel - 2, panel / 2 - 2);
     }
   for (let i = 0; i < 40; i++) {
     ctx.strokeStyle = mix(COLOURS.background, rnd() < 0.6 ? '#2A3330' : '#F4F6F5', 0.2 + 0.3 * rnd());
@@ -220,6 +221,7 @@ export function drawFrame(
   arm(s, pose.shoulder, pose.far.angles.thighDeg, farColour);
   leg(s, pose.hip, pose.far, farColour, mix(COLOURS.trunk, COLOURS.background, 0.45));
   const farMarkers = () => {
+    if (extras.noMarkers) return;
     for (const p of [pose.far.knee, pose.far.ankle, pose.far.heel, pose.far.toe]) marker(s, p, radius * 0.75, COLOURS.farMarker);
   };
   if (!extras.farMarkersOnTop) farMarkers();
@@ -238,7 +240,8 @@ export function drawFrame(
 
   leg(s, pose.hip, pose.near, nearColour, COLOURS.trunk);
   arm(s, pose.shoulder, pose.near.angles.thighDeg, nearColour);
-  for (const p of [pose.shoulder, pose.hip, pose.near.knee, pose.near.ankle, pose.near.heel, pose.near.toe])
-    marker(s, p, radius, COLOURS.nearMarker);
+  if (!extras.noMarkers)
+    for (const p of [pose.shoulder, pose.hip, pose.near.knee, pose.near.ankle, pose.near.heel, pose.near.toe])
+      marker(s, p, radius, COLOURS.nearMarker);
   if (extras.farMarkersOnTop) farMarkers();
 }
