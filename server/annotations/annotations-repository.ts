@@ -1,5 +1,13 @@
 import type { Knex } from 'knex';
-import type { AngleGauge, ClipAnnotations, FrameLandmarks, GaitEventMark, LandmarkName, ScaleBar } from '../../src/contracts/annotations';
+import type {
+  AngleGauge,
+  ClipAnnotations,
+  FrameLandmarks,
+  GaitEventMark,
+  LandmarkName,
+  LandmarkOrigin,
+  ScaleBar,
+} from '../../src/contracts/annotations';
 import type { Side } from '../../src/contracts/assessment';
 import type { AnnotationsInput } from './annotations-schemas';
 
@@ -9,7 +17,8 @@ interface LandmarkRow {
   landmark: LandmarkName;
   x: number;
   y: number;
-  source: 'manual' | 'tracked';
+  origin: LandmarkOrigin;
+  confidence: number | null;
 }
 
 interface GaugeRow {
@@ -38,7 +47,7 @@ export const annotationsRepository = {
       db('clip_landmarks')
         .where({ clip_id: clipId })
         .orderBy(['frame', 'side'])
-        .select<LandmarkRow[]>('frame', 'side', 'landmark', 'x', 'y', 'source'),
+        .select<LandmarkRow[]>('frame', 'side', 'landmark', 'x', 'y', 'origin', 'confidence'),
       db('gait_events').where({ clip_id: clipId }).orderBy('frame').select<GaitEventMark[]>('frame', 'side', 'kind'),
       db('scale_bars').where({ clip_id: clipId }).first(),
       db('angle_gauges')
@@ -51,10 +60,10 @@ export const annotationsRepository = {
       const key = `${p.frame}:${p.side}`;
       let entry = byFrame.get(key);
       if (!entry) {
-        entry = { frame: p.frame, side: p.side, points: {}, source: p.source };
+        entry = { frame: p.frame, side: p.side, points: {} };
         byFrame.set(key, entry);
       }
-      entry.points[p.landmark] = { x: p.x, y: p.y };
+      entry.points[p.landmark] = { x: p.x, y: p.y, origin: p.origin, ...(p.confidence === null ? {} : { confidence: p.confidence }) };
     }
     const bar: ScaleBar | null = scale
       ? { frame: scale.frame, a: { x: scale.ax, y: scale.ay }, b: { x: scale.bx, y: scale.by }, lengthM: scale.length_m }
@@ -96,7 +105,8 @@ export const annotationsRepository = {
         landmark,
         x: p!.x,
         y: p!.y,
-        source: l.source ?? 'manual',
+        origin: p!.origin ?? (l.source === 'tracked' ? 'followed' : 'placed'),
+        confidence: p!.confidence ?? null,
       })),
     );
     if (rows.length) await trx.batchInsert('clip_landmarks', rows, 400);

@@ -34,14 +34,35 @@ export interface FramePoint {
   y: number;
 }
 
+/**
+ * Where a landmark point came from: `placed` by a person, `followed` by marker following,
+ * `proposed` by the app and not yet accepted, `accepted` (a proposal the coach accepted).
+ */
+export const LANDMARK_ORIGINS = ['placed', 'followed', 'proposed', 'accepted'] as const;
+export type LandmarkOrigin = (typeof LANDMARK_ORIGINS)[number];
+
+/** On-screen words for each origin. */
+export const LANDMARK_ORIGIN_LABELS: Record<LandmarkOrigin, string> = {
+  placed: 'Placed',
+  followed: 'Followed',
+  proposed: 'Proposed',
+  accepted: 'Accepted',
+};
+
+/** A landmark point with where it came from. */
+export interface LandmarkPoint extends FramePoint {
+  /** Left out when saving = `placed` (a person put it there); the server always sends it. */
+  origin?: LandmarkOrigin;
+  /** 0–1 for automatic points (followed, proposed); absent for placed ones. */
+  confidence?: number;
+}
+
 /** The landmarks of one side on one frame (any subset). */
 export interface FrameLandmarks {
   /** 0-based frame index. */
   frame: number;
   side: Side;
-  points: Partial<Record<LandmarkName, FramePoint>>;
-  /** How the points were made; only `manual` exists today. */
-  source?: 'manual' | 'tracked';
+  points: Partial<Record<LandmarkName, LandmarkPoint>>;
 }
 
 export interface GaitEventMark {
