@@ -88,7 +88,7 @@ function sizesFor(width: number): Sizes {
   const s = width / 1280;
   const odd = (n: number) => 2 * Math.round(n / 2) + 1;
   return {
-    patch: Math.max(41, odd(96 * s)),
+    patch: Math.max(41, odd(64 * s)),
     lkWindow: Math.max(9, odd(19 * s)),
     template: Math.max(9, odd(17 * s)),
     search: Math.max(3, Math.round(4 * s)),
@@ -168,6 +168,11 @@ class MarkerTrack {
   readonly polarity: 1 | -1;
   readonly dotRadius: number;
   readonly startContrast: number;
+  /**
+   * Whether the marker is known to be itself: true from the start; false after it was lost and
+   * found again, until a rigid link to a well-followed marker confirms it (low confidence meanwhile).
+   */
+  verified = true;
   /** Whether the starting point is on a high-contrast tape dot (otherwise every point stays low confidence). */
   readonly onDot: boolean;
 
@@ -238,7 +243,7 @@ class MarkerTrack {
       // Found again only when it clearly looks like the marker and is not another marker.
       const taken = others.some((o) => dist(o, refined) < 2 * this.dotRadius);
       if (taken || match.score < 0.8 || contrast < 0.8) return this.lose(guess);
-      confidence = Math.min(confidence, LOW_CONFIDENCE - 0.01);
+      this.verified = false;
     }
     if (confidence < LOST_CONFIDENCE) return this.lose(guess);
     const moved = { x: refined.x - this.pos.x, y: refined.y - this.pos.y };
@@ -307,16 +312,32 @@ function lookOfDot(frame: GrayFrame, p: Point, template: number): { polarity: 1 
 }
 
 /**
- * Whether a new point breaks more links to well-followed markers (confidence ≥ LOW_CONFIDENCE
- * or placed) than it keeps.
+ * Two markers cannot sit on one dot: when two followed points come closer than the larger dot's
+ * diameter, the less confident one (never a placed one) is taken as lost.
  */
-function breaksLinks(
+function dropCollisions(found: Map<MarkerTrack, { p: Point; confidence: number; placed: boolean }>): void {
+  const entries = [...found.entries()];
+  for (let i = 0; i < entries.length; i++)
+    for (let j = i + 1; j < entries.length; j++) {
+      const [ta, a] = entries[i]!;
+      const [tb, b] = entries[j]!;
+      if (!found.has(ta) || !found.has(tb)) continue;
+      if (dist(a.p, b.p) >= 2 * Math.max(ta.dotRadius, tb.dotRadius)) continue;
+      const loser = a.placed ? tb : b.placed ? ta : a.confidence >= b.confidence ? tb : ta;
+      if (found.get(loser)!.placed) continue;
+      loser.markLost();
+      found.delete(loser);
+    }
+}
+
+/** How many links of a new point to well-followed, verified markers (or placed ones) hold and break. */
+function linkCounts(
   track: MarkerTrack,
   p: Point,
   found: ReadonlyMap<MarkerTrack, { p: Point; confidence: number }>,
   tracks: readonly MarkerTrack[],
   lengths: ReadonlyMap<string, number>,
-): boolean {
+): { kept: number; broken: number } {
   let broken = 0;
   let kept = 0;
   for (const [pair, length] of lengths) {
@@ -325,11 +346,23 @@ function breaksLinks(
     if (!otherKey || length <= 0) continue;
     const other = tracks.find((t) => t.key === otherKey);
     const at = other && found.get(other);
-    if (!at || at.confidence < LOW_CONFIDENCE) continue;
+    if (!other || !at || at.confidence < LOW_CONFIDENCE || !other.verified) continue;
     if (Math.abs(dist(p, at.p) - length) > LINK_TOLERANCE * length) broken++;
     else kept++;
   }
+  return { kept, broken };
+}
+
+/** Whether a new point breaks more links than it keeps (it jumped to something else). */
+function breaksLinks(...args: Parameters<typeof linkCounts>): boolean {
+  const { kept, broken } = linkCounts(...args);
   return broken > kept;
+}
+
+/** Whether a marker found again is confirmed: at least one link holds and none breaks. */
+function confirmsLinks(...args: Parameters<typeof linkCounts>): boolean {
+  const { kept, broken } = linkCounts(...args);
+  return kept > 0 && broken === 0;
 }
 
 /** Checks a request against the clip; throws a RangeError naming what is wrong. */
@@ -390,6 +423,7 @@ export async function followMarkers(cv: OpenCv, reader: FrameReader, req: Follow
               found.set(t, { ...step, placed: false });
             }
           }
+          dropCollisions(found);
           for (const t of tracks) {
             const got = found.get(t);
             if (got && !got.placed && breaksLinks(t, got.p, found, tracks, linkLengths)) {
@@ -398,6 +432,10 @@ export async function followMarkers(cv: OpenCv, reader: FrameReader, req: Follow
             }
             if (got?.placed) continue;
             const kept = found.get(t);
+            if (kept && !t.verified) {
+              if (confirmsLinks(t, kept.p, found, tracks, linkLengths)) t.verified = true;
+              else kept.confidence = Math.min(kept.confidence, LOW_CONFIDENCE - 0.01);
+            }
             if (kept)
               points.get(t.key)!.push({ frame: f, x: kept.p.x, y: kept.p.y, confidence: Math.round(kept.confidence * 1000) / 1000 });
             if (!kept || kept.confidence < LOW_CONFIDENCE) low.add(f);
