@@ -8,6 +8,7 @@
  *
  *   npx tsx test/bench/follow-markers.ts [--seconds 2] [--clip file.mp4 (with its .ground-truth.json)]
  */
+import { execFile } from 'node:child_process';
 import { readFile, mkdtemp, rm } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
@@ -23,6 +24,19 @@ import { memoryReader, NEAR_MARKERS, pointErrors, quantile } from '../server/fol
 
 const { values: args } = parseArgs({ options: { seconds: { type: 'string', default: '2' }, clip: { type: 'string' } } });
 const TARGET_FPS = 120;
+const pad = (fps: number) => fps.toFixed(0).padStart(5);
+
+/** CPU seconds (user + system) ffmpeg reports with -benchmark for a run. */
+function ffmpegCpuSeconds(args: string[]): Promise<number> {
+  return new Promise((resolve, reject) => {
+    execFile(process.env['FFMPEG_PATH'] ?? 'ffmpeg', ['-hide_banner', '-benchmark', ...args], (err, _out, stderr) => {
+      if (err) return reject(err);
+      const m = /utime=([\d.]+)s stime=([\d.]+)s/.exec(stderr);
+      if (!m) return reject(new Error('ffmpeg printed no -benchmark line'));
+      resolve(Number(m[1]) + Number(m[2]));
+    });
+  });
+}
 
 const dir = await mkdtemp(path.join(os.tmpdir(), 'tf-follow-bench-'));
 try {
@@ -45,15 +59,18 @@ try {
     });
   }
 
-  // The clip's own decode speed: ffmpeg on one thread, straight to grey frames.
+  // The clip's own decode speed: ffmpeg on one thread, straight to grey frames. CPU seconds
+  // (ffmpeg's own -benchmark utime + stime) as well as wall time, since the machine may be shared.
   const t0 = performance.now();
   const frames = await decodeGray(['-threads', '1', '-i', file], truth.width, truth.height);
   const decodeFps = frames.length / ((performance.now() - t0) / 1000);
+  const decodeCpuS = await ffmpegCpuSeconds(['-threads', '1', '-i', file, '-f', 'rawvideo', '-pix_fmt', 'gray', '-y', '/dev/null']);
 
   const cv = await loadOpenCv();
   const start = Math.floor(frames.length / 2);
   const markers = NEAR_MARKERS.map((key) => ({ key, start: truth.frames[start]!.landmarks.near[key] }));
   const t1 = performance.now();
+  const cpu0 = process.cpuUsage();
   const result = await followMarkers(cv, memoryReader(frames), {
     startFrame: start,
     from: 0,
@@ -62,6 +79,9 @@ try {
     links: RIGID_LINKS,
   });
   const followFps = (frames.length - 1) / ((performance.now() - t1) / 1000);
+  const cpu = process.cpuUsage(cpu0);
+  const followCpuFps = (frames.length - 1) / ((cpu.user + cpu.system) / 1e6);
+  const decodeCpuFps = frames.length / decodeCpuS;
 
   const errors = NEAR_MARKERS.flatMap((key) => pointErrors(truth, 'near', key, result.points.get(key)!));
   const byFrame = new Map<number, Partial<SideLandmarkSet>>();
@@ -77,9 +97,11 @@ try {
   const rmse = (k: keyof typeof sq) => Math.sqrt(sq[k] / Math.max(1, n)).toFixed(2);
 
   console.log(`clip: ${frames.length} frames, ${truth.width}×${truth.height} at ${truth.fps} fps (synthetic fixture, all realism on)`);
-  console.log(`decode (ffmpeg, 1 thread, to grey):  ${decodeFps.toFixed(0)} fps`);
+  console.log(`                                     wall clock      CPU time (one core)`);
+  console.log(`decode (ffmpeg, 1 thread, to grey):  ${pad(decodeFps)} fps      ${pad(decodeCpuFps)} fps`);
+  console.log(`follow six markers (Node, 1 core):   ${pad(followFps)} fps      ${pad(followCpuFps)} fps   (target ≥ ${TARGET_FPS})`);
   console.log(
-    `follow six markers (Node, 1 core):   ${followFps.toFixed(0)} fps  (target ≥ ${TARGET_FPS})  = ${(followFps / decodeFps).toFixed(2)} × decode`,
+    `follow ÷ decode:                     ${(followFps / decodeFps).toFixed(2)} ×         ${(followCpuFps / decodeCpuFps).toFixed(2)} ×`,
   );
   console.log(
     `accuracy: median ${quantile(errors, 0.5).toFixed(2)} px, 95th percentile ${quantile(errors, 0.95).toFixed(2)} px over ${errors.length} points (targets ≤ 2 / ≤ 5 px)`,
