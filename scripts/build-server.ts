@@ -8,8 +8,10 @@ export const SERVER_BUNDLE = 'dist/server/main.mjs';
 
 export async function buildServer(): Promise<void> {
   await build({
-    entryPoints: ['server/main.ts'],
-    outfile: SERVER_BUNDLE,
+    // The picture worker runs in its own thread and is loaded from beside main.mjs.
+    entryPoints: { main: 'server/main.ts', 'picture-worker': 'server/pictures/picture-worker.ts' },
+    outdir: 'dist/server',
+    outExtension: { '.js': '.mjs' },
     bundle: true,
     platform: 'node',
     format: 'esm',

@@ -2,17 +2,21 @@ import type { Knex } from 'knex';
 import fs from 'node:fs';
 import path from 'node:path';
 import { hashPassword } from '../server/auth/passwords';
-import { localMediaStore } from '../server/storage/media-store';
-import { sqliteJobQueue, type JobQueue } from '../server/jobs/job-queue';
+import { localMediaStore } from '../server/storage/local-media-store';
+import { clipKeys } from '../server/storage/media-keys';
+import { uploadTempDir } from '../server/storage/upload-temps';
+import { processedItemsRepository } from '../server/processing/processed-items-repository';
 import type { AssessmentKind } from '../src/contracts/assessment';
-import { EXTRACT_JOB } from '../server/clips/clips-service';
+import { EXTRACT_FRAMES } from '../server/clips/extract-frames-kind';
 import { generateDemoClips } from '../scripts/demo-clip/clip';
 import { demoMarks } from '../scripts/demo-clip/demo-marks';
 import type { GroundTruth } from '../scripts/demo-clip/ground-truth';
-import { RENDER_STILL_JOB, freezePanel } from '../server/stills/stills-service';
-import { RENDER_SUMMARY_JOB } from '../server/summaries/summaries-service';
+import { freezePanel } from '../server/stills/stills-service';
+import { RENDER_STILL } from '../server/stills/render-still-kind';
+import { RENDER_SUMMARY } from '../server/summaries/render-summary-kind';
 import { annotationsRepository } from '../server/annotations/annotations-repository';
 import { seedDemoHamstringPlan, seedDemoPlans } from './demo-plans';
+import { seedDemoPictures } from './demo-illustrations/seed-pictures';
 import { seedDemoInvoices } from './demo-invoices';
 import { seedDemoPrices } from './demo-prices';
 
@@ -382,7 +386,11 @@ export async function seed(knex: Knex, opts: SeedOptions = {}): Promise<boolean>
     await seedDemoPrices(trx, clinicId, at);
     await seedDemoInvoices(trx, clinicId, userIds[0]!);
   });
-  if (opts.uploadsDir) await seedDemoClips(knex, opts.uploadsDir, opts.log ?? (() => undefined));
+  if (opts.uploadsDir) {
+    const clinic = await knex('clinics').where({ name: DEMO_CLINIC_NAME }).first<{ id: number }>('id');
+    await seedDemoPictures(knex, clinic.id, opts.uploadsDir, opts.log ?? (() => undefined));
+    await seedDemoClips(knex, opts.uploadsDir, opts.log ?? (() => undefined));
+  }
   return true;
 }
 
@@ -395,11 +403,11 @@ export async function seed(knex: Knex, opts: SeedOptions = {}): Promise<boolean>
 async function seedDemoClips(knex: Knex, uploadsDir: string, log: (m: string) => void): Promise<void> {
   log('rendering the demo clips (synthetic runner, about 40 s)…');
   const store = localMediaStore(uploadsDir);
-  const work = fs.mkdtempSync(path.join(store.tmpDir, 'demo-'));
+  fs.mkdirSync(uploadTempDir(uploadsDir), { recursive: true });
+  const work = fs.mkdtempSync(path.join(uploadTempDir(uploadsDir), 'demo-'));
   try {
     // Six seconds hold about eight steps per side: means of at least 7 steps (Dingenen et al. 2018).
     const clips = await generateDemoClips(work, { seconds: 6 });
-    const queue = sqliteJobQueue(knex, { leaseMs: 30_000, maxAttempts: 3 });
     const ada = await knex('athletes').where({ last_name: 'Kestrel' }).first<{ id: number; clinic_id: number; coach_id: number }>();
     const visits = await knex('assessments').where({ athlete_id: ada.id }).orderBy('date');
     const at = new Date().toISOString();
@@ -436,10 +444,10 @@ async function seedDemoClips(knex: Knex, uploadsDir: string, log: (m: string) =>
           })
           .returning('id');
         const clipId = (row as { id: number }).id;
-        await queue.enqueue(trx, EXTRACT_JOB, `clip:${clipId}`, { clipId });
-        await store.adopt(clip.videoFile, clipId, 'original.mp4');
+        await queueItem(trx, EXTRACT_FRAMES, 'clip', clipId, { clinicId: ada.clinic_id, athleteId: ada.id });
+        await store.putFile(clipKeys(clipId).original('original.mp4'), clip.videoFile);
         // Kept beside the clip for checks; never served.
-        await store.adopt(clip.groundTruthFile, clipId, 'ground-truth.json');
+        await store.putFile(`${clipKeys(clipId).prefix}ground-truth.json`, clip.groundTruthFile);
         // Already marked by the coach (events and landmarks at every event), so the measures and
         // the Re-test comparison show real figures straight away.
         await annotationsRepository.replace(trx, clipId, demoMarks(truth));
@@ -448,7 +456,7 @@ async function seedDemoClips(knex: Knex, uploadsDir: string, log: (m: string) =>
       });
     }
     if (seeded.length === 2)
-      await seedDemoShares(knex, queue, { athleteId: ada.id, clinicId: ada.clinic_id, coachId: ada.coach_id, at }, seeded[0]!, seeded[1]!);
+      await seedDemoShares(knex, { athleteId: ada.id, clinicId: ada.clinic_id, coachId: ada.coach_id, at }, seeded[0]!, seeded[1]!);
     // Her plan since the Baseline, so her sign-in shows today's session to log.
     const retestVisit = visits.find((v) => v.kind === 'retest');
     await knex.transaction((trx) => seedDemoHamstringPlan(trx, ada.clinic_id, ada, retestVisit?.id ?? null));
@@ -456,6 +464,15 @@ async function seedDemoClips(knex: Knex, uploadsDir: string, log: (m: string) =>
   } finally {
     fs.rmSync(work, { recursive: true, force: true });
   }
+}
+
+/** Queues a processed item the way an upload or a coach's request does (the server's workers run it). */
+function queueItem(trx: Knex, kind: string, subjectType: string, subjectId: number, scope: { clinicId: number; athleteId: number }) {
+  return processedItemsRepository.insert(
+    trx,
+    { kind, subjectType, subjectId, scope, payload: {} },
+    { maxAttempts: 3, at: new Date().toISOString(), by: 'seed' },
+  );
 }
 
 interface DemoShareClip {
@@ -472,7 +489,6 @@ interface DemoShareClip {
  */
 async function seedDemoShares(
   knex: Knex,
-  queue: JobQueue,
   who: { athleteId: number; clinicId: number; coachId: number; at: string },
   baseline: DemoShareClip,
   retest: DemoShareClip,
@@ -512,7 +528,6 @@ async function seedDemoShares(
         caption,
         show_angles: true,
         status: 'rendering',
-        progress: 0,
         render_version: 1,
         published_at: published ? who.at : null,
         published_by: published ? who.coachId : null,
@@ -522,7 +537,7 @@ async function seedDemoShares(
       })
       .returning('id');
     const id = (row as { id: number }).id;
-    await queue.enqueue(trx, RENDER_STILL_JOB, `still:${id}`, { stillId: id });
+    await queueItem(trx, RENDER_STILL, 'still', id, { clinicId: who.clinicId, athleteId: who.athleteId });
     return id;
   };
   await knex.transaction(async (trx) => {
@@ -554,7 +569,6 @@ async function seedDemoShares(
           'Carry on with stage 2 (lengthening work) as prescribed. Keep pain during exercise at 3/10 or less and settled by the next morning; sprint finishes and steep descents wait for stage 3. We re-film in six weeks.',
         still_ids: JSON.stringify([a, b]),
         status: 'rendering',
-        progress: 0,
         published_at: who.at,
         published_by: who.coachId,
         created_by: who.coachId,
@@ -563,6 +577,6 @@ async function seedDemoShares(
       })
       .returning('id');
     const id = (row as { id: number }).id;
-    await queue.enqueue(trx, RENDER_SUMMARY_JOB, `summary:${id}`, { summaryId: id });
+    await queueItem(trx, RENDER_SUMMARY, 'summary', id, { clinicId: who.clinicId, athleteId: who.athleteId });
   });
 }

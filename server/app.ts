@@ -1,7 +1,5 @@
 import express, { type Express } from 'express';
-import helmet from 'helmet';
 import { rateLimit } from 'express-rate-limit';
-import { pinoHttp } from 'pino-http';
 import type { Logger } from 'pino';
 import type { AppConfig } from '../src/contracts/api';
 import type { Config } from './config';
@@ -11,7 +9,9 @@ import { AppError, apiNotFound, errorHandler } from './errors';
 import { createCsrf } from './http/csrf';
 import { createSessions, inProcessRevocations } from './http/sessions';
 import { staffService } from './staff/staff-service';
-import { clientAppRoutes, newNonce } from './http/client-app';
+import { clientAppRoutes } from './http/client-app';
+import { securityHeaders } from './http/security-headers';
+import { accessLog } from './http/access-log';
 import { createPassport } from './auth/passport-setup';
 import { signInGuard } from './auth/sign-in-guard';
 import { authRoutes } from './auth/auth.routes';
@@ -20,34 +20,36 @@ import { passwordResetsService } from './auth/password-resets-service';
 import { staffRoutes } from './staff/staff.routes';
 import { athletesService } from './athletes/athletes-service';
 import { athletesRoutes } from './athletes/athletes.routes';
-import { localMediaStore, type MediaStore } from './storage/media-store';
-import { uploadTemps } from './storage/upload-temps';
-import { sqliteJobQueue, type JobQueue } from './jobs/job-queue';
-import { startWorker, type Worker } from './jobs/worker';
-import { inProcessClipEvents } from './clips/clip-events';
-import { clipsService, EXTRACT_JOB } from './clips/clips-service';
+import type { MediaStore } from './storage/media-store';
+import { uploadTempDir, uploadTemps } from './storage/upload-temps';
+import type { Processing } from './processing/processing';
+import { startWorker, type Worker } from './processing/worker';
+import { startProgressRelay } from './processing/progress-relay';
+import { processingEventsRoutes } from './processing/processing-events.routes';
+import { createMediaServices } from './services';
+import { warmUpFfmpeg } from './media/extract';
 import { clipsRoutes } from './clips/clips.routes';
-import { assessmentsService } from './assessments/assessments-service';
 import { assessmentsRoutes } from './assessments/assessments.routes';
-import { annotationsService } from './annotations/annotations-service';
 import { annotationsRoutes } from './annotations/annotations.routes';
-import { measuresService } from './measures/measures-service';
 import { measuresRoutes } from './measures/measures.routes';
 import { comparisonService } from './comparison/comparison-service';
 import { comparisonRoutes } from './comparison/comparison.routes';
-import { validateEvents } from '../src/kinematics';
 import { exercisesService } from './plans/exercises-service';
 import { plansService } from './plans/plans-service';
 import { plansRoutes } from './plans/plans.routes';
-import { RENDER_STILL_JOB, stillsService } from './stills/stills-service';
 import { stillsRoutes } from './stills/stills.routes';
-import { RENDER_SUMMARY_JOB, summariesService } from './summaries/summaries-service';
 import { summariesRoutes } from './summaries/summaries.routes';
 import { portalSharedRoutes } from './summaries/portal-shared.routes';
 import { billingService } from './billing/billing-service';
 import { billingRoutes, billingWebhookRoutes } from './billing/billing.routes';
 import { clinicRoutes } from './clinic/clinic.routes';
 import { clinicService } from './clinic/clinic-service';
+import { clinicBrands } from './clinic/clinic-brand';
+import { brandingMailer } from './mail/mailer';
+import { localMediaObjects } from './storage/media-objects';
+import { workerPictureProcessor } from './pictures/picture-pool';
+import { demonstrationsService } from './demonstrations/demonstrations-service';
+import { demonstrationsRoutes } from './demonstrations/demonstrations.routes';
 import { stripePayments, type Payments } from './billing/payments';
 
 /** What the app needs from outside; tests pass their own. */
@@ -68,10 +70,10 @@ export interface AppDeps {
 
 export interface App {
   app: Express;
-  /** The in-process job worker, or null when `config.runWorker` is off. */
+  /** The in-process worker, or null when `config.runWorker` is off (workers then run apart: `npm run worker`). */
   worker: Worker | null;
-  /** The durable job queue (its subjects' failures registered). */
-  queue: JobQueue;
+  /** The processing layer (its kinds registered). */
+  processing: Processing;
   /** Deletes expired session rows now (they are also cleared at start and every 15 minutes); answers how many. */
   clearExpiredSessions(): Promise<number>;
   /** Stops the worker (aborting running jobs) and timers the app started. */
@@ -81,59 +83,25 @@ export interface App {
 const VERSION = '0.1.0';
 /** Upload temp files nobody owns go once unwritten for an hour; looked for every 10 minutes. */
 const UPLOAD_TEMP_SWEEP = { everyMs: 10 * 60_000, maxAgeMs: 60 * 60_000 };
+/** How often a web process reads what workers in other processes did, while someone follows a stream, ms. */
+const RELAY_EVERY_MS = 250;
 
 /** Builds the Express app; `server/main.ts` listens, tests call this directly. */
 export function createApp(deps: AppDeps): App {
-  const { config, db, mailer, logger } = deps;
+  const { config, db, logger } = deps;
   const clock = deps.clock ?? (() => new Date());
+  const objects = localMediaObjects(config.uploadsDir);
+  const pictures = workerPictureProcessor();
+  const brands = clinicBrands({ db, objects });
+  // Every message that names its clinic goes out on the clinic's letterhead.
+  const mailer = brandingMailer(deps.mailer, (clinicId) => brands.forDocuments(clinicId));
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', config.trustProxy);
   app.set('query parser', 'simple');
 
-  app.use((_req, res, next) => {
-    res.locals['cspNonce'] = newNonce();
-    next();
-  });
-  app.use(
-    helmet({
-      contentSecurityPolicy: {
-        useDefaults: false,
-        directives: {
-          defaultSrc: ["'self'"],
-          baseUri: ["'self'"],
-          scriptSrc: ["'self'"],
-          styleSrc: ["'self'", (_req, res) => `'nonce-${(res as express.Response).locals['cspNonce']}'`],
-          // Angular's [style] bindings and CDK overlays set style attributes through the CSSOM.
-          styleSrcAttr: ["'unsafe-inline'"],
-          imgSrc: ["'self'", 'data:', 'blob:'],
-          mediaSrc: ["'self'", 'blob:'],
-          fontSrc: ["'self'", 'data:'],
-          connectSrc: ["'self'"],
-          objectSrc: ["'none'"],
-          frameAncestors: ["'none'"],
-          formAction: ["'self'"],
-          upgradeInsecureRequests: config.secureCookies ? [] : null,
-        },
-      },
-      // Let our own pages open frames/images cross-origin-isolated only where needed later.
-      crossOriginEmbedderPolicy: false,
-    }),
-  );
-  app.use(
-    pinoHttp({
-      logger,
-      // Never log cookies, CSRF tokens, or e-mailed tokens in URLs.
-      serializers: {
-        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
-        req: (req: { method: string; url: string }) => ({
-          method: req.method,
-          url: req.url.replace(/\/(invitations|password-resets|reset-password|invitation)\/[A-Za-z0-9_-]{20,}/, '/$1/[token]'),
-        }),
-      },
-      autoLogging: { ignore: (req) => !req.url?.startsWith('/api/') },
-    }),
-  );
+  app.use(securityHeaders(config.secureCookies));
+  app.use(accessLog(logger));
 
   const api = express.Router();
   const billing = billingService({
@@ -142,6 +110,7 @@ export function createApp(deps: AppDeps): App {
     config,
     logger,
     clock,
+    brands,
     payments: deps.payments !== undefined ? deps.payments : config.payments ? stripePayments(config.payments) : null,
   });
   // The payment webhook reads its RAW body (signature) and is CSRF-exempt: mounted before both.
@@ -149,7 +118,11 @@ export function createApp(deps: AppDeps): App {
   // Annotations of a long clip can be large; every other body is small.
   const smallJson = express.json({ limit: '200kb', strict: true });
   const largeJson = express.json({ limit: '8mb', strict: true });
-  api.use((req, res, next) => (/^\/clips\/\d+\/annotations$/.test(req.path) ? largeJson : smallJson)(req, res, next));
+  api.use((req, res, next) => {
+    // Reads carry no body: skip the parsers' checks on the busiest requests.
+    if (req.method === 'GET' || req.method === 'HEAD') return next();
+    (/^\/clips\/\d+\/annotations$/.test(req.path) ? largeJson : smallJson)(req, res, next);
+  });
   // A body that is not JSON at all is a client error too, not an empty object.
   api.use((req, _res, next) => {
     const method = req.method;
@@ -208,45 +181,26 @@ export function createApp(deps: AppDeps): App {
   const invitations = invitationsService({ db, mailer, config, clock });
   const resets = passwordResetsService({ db, mailer, config, clock, logger, onPasswordSet: (email) => guard.clear(email) });
   const athletes = athletesService({ db, clock, invitations });
-  const store = deps.store ?? localMediaStore(config.uploadsDir);
   // Start-up removes temp files of uploads a killed server left; then a sweep by age (unref'd).
-  const temps = uploadTemps(store.tmpDir, (err) => logger.warn({ err: err.message }, 'upload temp sweep failed'));
+  const temps = uploadTemps(uploadTempDir(config.uploadsDir), (err) => logger.warn({ err: err.message }, 'upload temp sweep failed'));
   const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
-  const queue = sqliteJobQueue(db, { leaseMs: config.jobs.leaseMs, maxAttempts: config.jobs.maxAttempts });
-  const events = inProcessClipEvents();
   const revocations = inProcessRevocations();
-  let worker: Worker | null = null;
-  const clips = clipsService({
-    db,
-    store,
-    queue,
-    events,
-    logger,
-    wakeWorker: () => worker?.wake(),
-    cancelJob: (subject) => worker?.cancel(subject),
-  });
-  const assessments = assessmentsService({ db, clips, store });
-  const measures = measuresService({ db, store, clips });
-  const annotations = annotationsService({ db, clips, validateEvents, afterSave: measures.afterSave });
+  const media = createMediaServices({ config, db, mailer, logger, clock, store: deps.store, brands });
+  const { store, processing, clips, assessments, measures, annotations, stills, summaries } = media;
   const exercises = exercisesService({ db, clock });
   const plans = plansService({ db, clock });
-  const sharing = { db, store, queue, clips, mailer, logger, publicUrl: config.publicUrl, clock, wakeWorker: () => worker?.wake() };
-  const stills = stillsService(sharing);
-  const summaries = summariesService({ ...sharing, stills, measures });
-  // Wherever a job runs out of attempts (in this process's worker or at any claim), its subject fails.
-  queue.onFinalFailure(EXTRACT_JOB, clips.extractFailure);
-  queue.onFinalFailure(RENDER_STILL_JOB, stills.renderFailure);
-  queue.onFinalFailure(RENDER_SUMMARY_JOB, summaries.renderFailure);
-  if (config.runWorker) {
-    worker = startWorker({
-      queue,
-      handlers: { [EXTRACT_JOB]: clips.processJob, [RENDER_STILL_JOB]: stills.renderJob, [RENDER_SUMMARY_JOB]: summaries.renderJob },
-      logger,
-      concurrency: config.jobs.concurrency,
-      pollMs: config.jobs.pollMs,
-      leaseMs: config.jobs.leaseMs,
-    });
-  }
+  const worker = config.runWorker
+    ? startWorker({
+        processing,
+        logger,
+        concurrency: config.jobs.concurrency,
+        pollMs: config.jobs.pollMs,
+        leaseMs: config.jobs.leaseMs,
+      })
+    : null;
+  if (worker) void warmUpFfmpeg();
+  // Workers in other processes (`npm run worker`) report through the database; relayed here.
+  const relay = startProgressRelay({ db, processing, logger, everyMs: RELAY_EVERY_MS });
 
   api.get('/health', (_req, res) => {
     res.json({ ok: true });
@@ -264,16 +218,18 @@ export function createApp(deps: AppDeps): App {
   api.use(staffRoutes({ db, invitations, staff: staffService({ db, clock, revocations }) }));
   api.use(athletesRoutes(athletes));
   api.use(assessmentsRoutes(assessments));
-  api.use(clipsRoutes({ db, clips, events, revocations, temps, logger, uploadMaxBytes: config.uploadMaxBytes }));
+  api.use(processingEventsRoutes({ db, processing, relay, revocations }));
+  api.use(clipsRoutes({ db, clips, store, temps, logger, uploadMaxBytes: config.uploadMaxBytes }));
   api.use(annotationsRoutes(annotations));
   api.use(measuresRoutes({ db, measures }));
   api.use(comparisonRoutes(comparisonService({ db, measures })));
   api.use(plansRoutes({ exercises, plans }));
-  api.use(stillsRoutes(stills));
-  api.use(summariesRoutes(summaries));
+  api.use(stillsRoutes(stills, store));
+  api.use(summariesRoutes(summaries, store));
   api.use(portalSharedRoutes({ stills, summaries }));
   api.use(billingRoutes(billing));
-  api.use(clinicRoutes(clinicService({ db, clock })));
+  api.use(clinicRoutes(clinicService({ db, clock, objects, pictures })));
+  api.use(demonstrationsRoutes(demonstrationsService({ db, objects, pictures, clock })));
   api.use(apiNotFound);
 
   app.use('/api', (_req, res, next) => {
@@ -287,10 +243,11 @@ export function createApp(deps: AppDeps): App {
   return {
     app,
     worker,
-    queue,
+    processing,
     clearExpiredSessions: sessions.clearExpired,
     async close() {
       clearInterval(tempSweep);
+      relay.stop();
       await worker?.stop();
       await sessions.close();
     },

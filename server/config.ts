@@ -1,3 +1,4 @@
+import os from 'node:os';
 import path from 'node:path';
 import { z } from 'zod';
 import type { PaymentsConfig } from './billing/payments';
@@ -48,15 +49,18 @@ export interface Config {
   /** Largest accepted upload, bytes. */
   uploadMaxBytes: number;
   jobs: {
-    /** Jobs run at once by the in-process worker (1 suits a 2-core machine). */
+    /**
+     * Processed items one worker runs at once: one per core by default (at most 4), so two clips
+     * uploaded together are processed side by side; each ffmpeg gets its share of the cores.
+     */
     concurrency: number;
     /** How long a claimed job stays claimed without a heartbeat. */
     leaseMs: number;
     maxAttempts: number;
-    /** How often an idle worker looks for work. */
+    /** How often an idle worker looks for work (a worker in the web process is also woken at once). */
     pollMs: number;
   };
-  /** Whether the in-process worker runs in this process. */
+  /** Whether the in-process worker runs in this process (off when workers run apart: `npm run worker`). */
   runWorker: boolean;
   /** The payment provider, reached through its SDK; null when not configured (card payment off). */
   payments: PaymentsConfig | null;
@@ -90,7 +94,8 @@ const EnvSchema = z.object({
   RESET_REQUESTS: z.coerce.number().int().min(1).default(5),
   RATE_WINDOW_MINUTES: z.coerce.number().int().min(1).default(15),
   UPLOAD_MAX_MB: z.coerce.number().int().min(1).max(20_000).default(2048),
-  WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(16).default(1),
+  WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(16).optional(),
+  WORKER_POLL_MS: z.coerce.number().int().min(20).max(60_000).default(500),
   JOB_LEASE_SECONDS: z.coerce.number().min(1).default(30),
   JOB_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(10).default(3),
   RUN_WORKER: bool.default(true),
@@ -151,10 +156,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     resetTtlMinutes: 60,
     uploadMaxBytes: e.UPLOAD_MAX_MB * 1024 * 1024,
     jobs: {
-      concurrency: e.WORKER_CONCURRENCY,
+      concurrency: e.WORKER_CONCURRENCY ?? Math.max(1, Math.min(4, os.availableParallelism())),
       leaseMs: e.JOB_LEASE_SECONDS * 1000,
       maxAttempts: e.JOB_MAX_ATTEMPTS,
-      pollMs: 1000,
+      pollMs: e.WORKER_POLL_MS,
     },
     runWorker: e.RUN_WORKER,
     ...paymentsConfig(e),

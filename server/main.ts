@@ -62,8 +62,10 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
     inboxUrl: inbox?.url ?? null,
     async stop() {
       await close();
-      await new Promise<void>((resolve) => server.close(() => resolve()));
+      const closed = new Promise<void>((resolve) => server.close(() => resolve()));
+      // Open progress streams never end by themselves: close every connection, then wait.
       server.closeAllConnections();
+      await closed;
       mailer.close();
       await fakeSmtp?.close();
       await inbox?.close();

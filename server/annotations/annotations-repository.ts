@@ -1,25 +1,8 @@
 import type { Knex } from 'knex';
-import type {
-  AngleGauge,
-  ClipAnnotations,
-  FrameLandmarks,
-  GaitEventMark,
-  LandmarkName,
-  LandmarkOrigin,
-  ScaleBar,
-} from '../../src/contracts/annotations';
-import type { Side } from '../../src/contracts/assessment';
-import type { AnnotationsInput } from './annotations-schemas';
+import type { AngleGauge, ClipAnnotations, FrameLandmarks, GaitEventMark, ScaleBar } from '../../src/contracts/annotations';
+import { landmarkChanges, normalizeMarks, sameEvents, sameGauges, sameScale, type LandmarkRow, type MarkSet } from './annotation-changes';
 
-interface LandmarkRow {
-  frame: number;
-  side: Side;
-  landmark: LandmarkName;
-  x: number;
-  y: number;
-  origin: LandmarkOrigin;
-  confidence: number | null;
-}
+const NO_MARKS: MarkSet = { landmarks: [], events: [], scale: null, gauges: [] };
 
 interface GaugeRow {
   id: string;
@@ -30,6 +13,15 @@ interface GaugeRow {
   vy: number;
   bx: number;
   by: number;
+}
+
+async function insertLandmarks(trx: Knex, clipId: number, points: LandmarkRow[]): Promise<void> {
+  if (points.length)
+    await trx.batchInsert(
+      'clip_landmarks',
+      points.map((p) => ({ clip_id: clipId, ...p })),
+      400,
+    );
 }
 
 /** Landmarks, gait events, the scale bar and the angle gauges of a clip. */
@@ -48,7 +40,7 @@ export const annotationsRepository = {
         .where({ clip_id: clipId })
         .orderBy(['frame', 'side'])
         .select<LandmarkRow[]>('frame', 'side', 'landmark', 'x', 'y', 'origin', 'confidence'),
-      db('gait_events').where({ clip_id: clipId }).orderBy('frame').select<GaitEventMark[]>('frame', 'side', 'kind'),
+      db('gait_events').where({ clip_id: clipId }).orderBy(['frame', 'side']).select<GaitEventMark[]>('frame', 'side', 'kind', 'origin'),
       db('scale_bars').where({ clip_id: clipId }).first(),
       db('angle_gauges')
         .where({ clip_id: clipId })
@@ -88,49 +80,73 @@ export const annotationsRepository = {
   },
 
   /** Replaces everything marked on the clip (inside the caller's transaction). */
-  async replace(
-    trx: Knex,
-    clipId: number,
-    input: Omit<AnnotationsInput, 'gauges'> & { gauges?: AnnotationsInput['gauges'] },
-  ): Promise<void> {
-    await trx('clip_landmarks').where({ clip_id: clipId }).delete();
-    await trx('gait_events').where({ clip_id: clipId }).delete();
-    await trx('scale_bars').where({ clip_id: clipId }).delete();
-    await trx('angle_gauges').where({ clip_id: clipId }).delete();
-    const rows = input.landmarks.flatMap((l) =>
-      Object.entries(l.points).map(([landmark, p]) => ({
-        clip_id: clipId,
-        frame: l.frame,
-        side: l.side,
-        landmark,
-        x: p!.x,
-        y: p!.y,
-        origin: p!.origin ?? (l.source === 'tracked' ? 'followed' : 'placed'),
-        confidence: p!.confidence ?? null,
-      })),
-    );
-    if (rows.length) await trx.batchInsert('clip_landmarks', rows, 400);
-    if (input.events.length)
-      await trx.batchInsert(
-        'gait_events',
-        input.events.map((e) => ({ clip_id: clipId, ...e })),
-        400,
-      );
-    if (input.scale) {
-      const s = input.scale;
-      await trx('scale_bars').insert({ clip_id: clipId, frame: s.frame, ax: s.a.x, ay: s.a.y, bx: s.b.x, by: s.b.y, length_m: s.lengthM });
+  async replace(trx: Knex, clipId: number, input: Parameters<typeof normalizeMarks>[0]): Promise<void> {
+    for (const table of ['clip_landmarks', 'gait_events', 'scale_bars', 'angle_gauges'])
+      await trx(table).where({ clip_id: clipId }).delete();
+    await annotationsRepository.applyChanges(trx, clipId, NO_MARKS, normalizeMarks(input));
+  },
+
+  /**
+   * Turns the stored marks `before` into `after` (both as {@link normalizeMarks} shapes them),
+   * inside the caller's transaction, writing only what differs: changed landmark rows, and the
+   * events, scale bar or gauges only when they changed. `before` must be what is stored (the
+   * caller checked the revision it was read at is still current).
+   */
+  async applyChanges(trx: Knex, clipId: number, before: MarkSet, after: MarkSet): Promise<void> {
+    const lm = landmarkChanges(before.landmarks, after.landmarks);
+    const rowCount = after.landmarks.reduce((n, l) => n + Object.keys(l.points).length, 0);
+    if (lm.removed.length + lm.changed.length > Math.max(8, rowCount / 2)) {
+      // Most rows change (a clear, an undo of many edits): one delete and a batch insert is cheaper.
+      await trx('clip_landmarks').where({ clip_id: clipId }).delete();
+      await insertLandmarks(trx, clipId, landmarkChanges([], after.landmarks).added);
+    } else {
+      for (const p of lm.removed) {
+        await trx('clip_landmarks').where({ clip_id: clipId, frame: p.frame, side: p.side, landmark: p.landmark }).delete();
+      }
+      for (const p of lm.changed) {
+        await trx('clip_landmarks')
+          .where({ clip_id: clipId, frame: p.frame, side: p.side, landmark: p.landmark })
+          .update({ x: p.x, y: p.y, origin: p.origin, confidence: p.confidence });
+      }
+      await insertLandmarks(trx, clipId, lm.added);
     }
-    const gauges = (input.gauges ?? []).map((g) => ({
-      clip_id: clipId,
-      id: g.id,
-      frame: g.frame,
-      ax: g.a.x,
-      ay: g.a.y,
-      vx: g.vertex.x,
-      vy: g.vertex.y,
-      bx: g.b.x,
-      by: g.b.y,
-    }));
-    if (gauges.length) await trx.batchInsert('angle_gauges', gauges, 100);
+    if (!sameEvents(before.events, after.events)) {
+      await trx('gait_events').where({ clip_id: clipId }).delete();
+      if (after.events.length)
+        await trx.batchInsert(
+          'gait_events',
+          after.events.map((e) => ({ clip_id: clipId, ...e })),
+          400,
+        );
+    }
+    if (!sameScale(before.scale, after.scale)) {
+      await trx('scale_bars').where({ clip_id: clipId }).delete();
+      const s = after.scale;
+      if (s)
+        await trx('scale_bars').insert({
+          clip_id: clipId,
+          frame: s.frame,
+          ax: s.a.x,
+          ay: s.a.y,
+          bx: s.b.x,
+          by: s.b.y,
+          length_m: s.lengthM,
+        });
+    }
+    if (!sameGauges(before.gauges, after.gauges)) {
+      await trx('angle_gauges').where({ clip_id: clipId }).delete();
+      const gauges = after.gauges.map((g) => ({
+        clip_id: clipId,
+        id: g.id,
+        frame: g.frame,
+        ax: g.a.x,
+        ay: g.a.y,
+        vx: g.vertex.x,
+        vy: g.vertex.y,
+        bx: g.b.x,
+        by: g.b.y,
+      }));
+      if (gauges.length) await trx.batchInsert('angle_gauges', gauges, 100);
+    }
   },
 };

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { ANNOTATION_LIMITS, GAIT_EVENT_KINDS, LANDMARK_ORIGINS, LANDMARKS } from '../../src/contracts/annotations';
+import { ANNOTATION_LIMITS, EVENT_ORIGINS, GAIT_EVENT_KINDS, LANDMARK_ORIGINS, LANDMARKS } from '../../src/contracts/annotations';
 import { SIDES } from '../../src/contracts/assessment';
 
 const Fraction = z
@@ -62,6 +62,7 @@ export const AnnotationsBody = z
           frame: Frame,
           side: z.enum(SIDES, 'Side is left or right.'),
           kind: z.enum(GAIT_EVENT_KINDS, 'Unknown gait event.'),
+          origin: z.enum(EVENT_ORIGINS, 'An event comes from placed, proposed or accepted.').optional(),
         }),
       )
       .max(ANNOTATION_LIMITS.events, 'Too many gait events.'),
@@ -109,3 +110,8 @@ export const AnnotationsBody = z
     });
   });
 export type AnnotationsInput = z.output<typeof AnnotationsBody>;
+
+/** Body of `POST /api/clips/:id/events/proposals`. */
+export const EventProposalsBody = z.strictObject({
+  baseRevision: z.number('baseRevision must be a number.').int().min(0),
+});

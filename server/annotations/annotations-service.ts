@@ -1,4 +1,5 @@
-import type { ClipAnnotations } from '../../src/contracts/annotations';
+import type { ClipAnnotations, EventProposalsResult } from '../../src/contracts/annotations';
+import { mergeProposals, minProposalFrames, proposeGaitEvents, PROPOSAL_MIN_SECONDS } from '../../src/kinematics';
 import type { SessionUser } from '../../src/contracts/api';
 import type { Db } from '../db/knex';
 import { AppError, ConflictError, ValidationError } from '../errors';
@@ -7,19 +8,122 @@ import type { ClipsService } from '../clips/clips-service';
 import type { ClipRow } from '../clips/clips-repository';
 import { annotationsRepository as repo } from './annotations-repository';
 import type { AnnotationsInput } from './annotations-schemas';
+import { normalizeMarks } from './annotation-changes';
+import type { ClipMeasures } from '../../src/contracts/measures';
 
 export interface AnnotationsDeps {
   db: Db;
   clips: ClipsService;
   /** Checks event order; returns problems in words (from src/kinematics). */
   validateEvents: (events: AnnotationsInput['events'], frameCount: number) => string[];
-  /** Recomputes the clip's measures snapshot inside the save's transaction. */
-  afterSave: (trx: Db, clip: ClipRow, annotations: ClipAnnotations) => Promise<void>;
+  /** The clip's measures: computed before a save's transaction, stored as its snapshot inside it. */
+  measures: {
+    computeFor(clip: ClipRow, annotations: ClipAnnotations): Promise<ClipMeasures>;
+    storeSnapshot(trx: Db, clip: ClipRow, revision: number, measures: ClipMeasures): Promise<void>;
+  };
 }
 
-/** A clip's landmarks, events, scale and angle gauges, saved whole with optimistic concurrency. */
+/** Clips whose last saved marks are kept in memory (a few hundred annotators at once). */
+const LAST_SAVED_KEPT = 500;
+
+/**
+ * The marks of each clip's last save from this process, by clip, so the next autosave of an
+ * annotator need not read them back. An entry is used only for the revision it was saved as, and
+ * the save's transaction checks that this revision is still the stored one; every change to a
+ * clip's marks raises its revision, so a kept entry is never taken for different stored marks.
+ */
+function savedMarks(max: number) {
+  const kept = new Map<number, ClipAnnotations>();
+  return {
+    at(clipId: number, revision: number): ClipAnnotations | undefined {
+      const hit = kept.get(clipId);
+      return hit?.revision === revision ? hit : undefined;
+    },
+    keep(saved: ClipAnnotations): void {
+      kept.delete(saved.clipId);
+      kept.set(saved.clipId, saved);
+      if (kept.size > max) kept.delete(kept.keys().next().value!);
+    },
+  };
+}
+
+/** 409 `stale_revision` with the marks now stored. */
+function staleRevision(current: ClipAnnotations): AppError {
+  return new AppError(
+    409,
+    'stale_revision',
+    'Someone saved newer marks on this clip. The latest were loaded; your unsaved changes were re-applied on top.',
+    { current },
+  );
+}
+
+/**
+ * A clip's landmarks, events, scale and angle gauges, saved whole with optimistic concurrency
+ * (each save names the revision it was based on; only what changed is written).
+ */
 export function annotationsService(d: AnnotationsDeps) {
   const { db } = d;
+  const lastSaved = savedMarks(LAST_SAVED_KEPT);
+
+  /**
+   * Saves `input` as the clip's marks when `baseRevision` is still the stored one (else 409
+   * `stale_revision` with the stored copy): writes only what changed, raises the revision, stores
+   * the measures snapshot and audits `action`, in one transaction. Returns the saved copy.
+   */
+  async function save(
+    user: SessionUser,
+    clip: ClipRow,
+    baseRevision: number,
+    input: Parameters<typeof normalizeMarks>[0],
+    action: string,
+    detail: Record<string, unknown>,
+  ): Promise<ClipAnnotations> {
+    const clipId = clip.id;
+    // What is stored now, known before the transaction: the save is checked against it, its
+    // measures computed and its changes found before the one writing connection is taken.
+    const stored = lastSaved.at(clipId, baseRevision) ?? (await repo.read(db, clipId));
+    if (stored.revision !== baseRevision) throw staleRevision(stored);
+    const marks = normalizeMarks(input);
+    const at = new Date().toISOString();
+    const saved: ClipAnnotations = { clipId, revision: stored.revision + 1, ...marks, updatedAt: at, updatedByName: user.name };
+    const measures = await d.measures.computeFor(clip, saved);
+
+    await db.transaction(async (trx) => {
+      const row = await trx('clips').where({ id: clipId }).first<{ annotation_revision: number }>('annotation_revision');
+      if (!row) throw new AppError(404, 'not_found', 'Clip not found.');
+      // Another save since the read: the marks read are not what is stored any more.
+      if (row.annotation_revision !== stored.revision) throw staleRevision(await repo.read(trx, clipId));
+      await repo.applyChanges(trx, clipId, { ...stored, gauges: stored.gauges ?? [] }, marks);
+      await trx('clips').where({ id: clipId }).update({ annotation_revision: saved.revision, annotated_by: user.id, annotated_at: at });
+      await d.measures.storeSnapshot(trx, clip, saved.revision, measures);
+      await audit(
+        trx,
+        {
+          clinicId: user.clinicId,
+          actorId: user.id,
+          athleteId: clip.athlete_id,
+          action,
+          detail: { clipId, revision: saved.revision, ...detail },
+        },
+        at,
+      );
+    });
+    lastSaved.keep(saved);
+    return saved;
+  }
+
+  async function readyClip(
+    user: SessionUser,
+    clipId: number,
+    action: 'annotation:write' | 'event:propose',
+  ): Promise<ClipRow & { frame_count: number }> {
+    const clip = await d.clips.accessibleClip(user, clipId, action);
+    if (clip.status !== 'ready' || !clip.frame_count) {
+      throw new ConflictError('This clip is not ready yet: wait until its frames are extracted.', 'clip_not_ready');
+    }
+    return clip as ClipRow & { frame_count: number };
+  }
+
   return {
     async get(user: SessionUser, clipId: number): Promise<ClipAnnotations> {
       await d.clips.accessibleClip(user, clipId, 'annotation:read');
@@ -27,10 +131,7 @@ export function annotationsService(d: AnnotationsDeps) {
     },
 
     async put(user: SessionUser, clipId: number, input: AnnotationsInput): Promise<ClipAnnotations> {
-      const clip = await d.clips.accessibleClip(user, clipId, 'annotation:write');
-      if (clip.status !== 'ready' || !clip.frame_count) {
-        throw new ConflictError('This clip is not ready yet: wait until its frames are extracted.', 'clip_not_ready');
-      }
+      const clip = await readyClip(user, clipId, 'annotation:write');
       const frameCount = clip.frame_count;
       const problems: { path: (string | number)[]; message: string }[] = [];
       input.landmarks.forEach((l, i) => {
@@ -58,38 +159,51 @@ export function annotationsService(d: AnnotationsDeps) {
       }
       if (problems.length) throw new ValidationError(problems[0]!.message, problems);
 
-      await db.transaction(async (trx) => {
-        const row = await trx('clips').where({ id: clipId }).first<{ annotation_revision: number }>('annotation_revision');
-        if (!row) throw new AppError(404, 'not_found', 'Clip not found.');
-        if (row.annotation_revision !== input.baseRevision) {
-          const current = await repo.read(trx, clipId);
-          throw new AppError(
-            409,
-            'stale_revision',
-            'Someone saved newer marks on this clip. The latest were loaded; your unsaved changes were re-applied on top.',
-            { current },
-          );
-        }
-        await repo.replace(trx, clipId, input);
-        const at = new Date().toISOString();
-        await trx('clips')
-          .where({ id: clipId })
-          .update({ annotation_revision: row.annotation_revision + 1, annotated_by: user.id, annotated_at: at });
-        const saved = await repo.read(trx, clipId);
-        await d.afterSave(trx, clip, saved);
-        await audit(
-          trx,
-          {
-            clinicId: user.clinicId,
-            actorId: user.id,
-            athleteId: clip.athlete_id,
-            action: 'clip.annotated',
-            detail: { clipId, revision: saved.revision },
-          },
-          at,
+      return save(user, clip, input.baseRevision, input, 'clip.annotated', {});
+    },
+    /**
+     * Proposes initial contacts and toe-offs from the clip's landmarks (`src/kinematics`) and saves
+     * them as proposals: earlier proposals not yet accepted are replaced, placed and accepted events
+     * stay as they are. 422 `too_few_landmarked_frames` when no side has hip, heel and toe on enough
+     * frames in a row; 422 `no_events_found` when none could be found.
+     */
+    async proposeEvents(user: SessionUser, clipId: number, baseRevision: number): Promise<EventProposalsResult> {
+      const clip = await readyClip(user, clipId, 'event:propose');
+      const current = lastSaved.at(clipId, baseRevision) ?? (await repo.read(db, clipId));
+      if (current.revision !== baseRevision) throw staleRevision(current);
+      const fps = clip.capture_fps ?? clip.fps ?? 30;
+      const plane = { frameSize: { width: clip.width ?? 1, height: clip.height ?? 1 }, direction: clip.direction };
+      const found = proposeGaitEvents(current.landmarks, plane, fps, clip.frame_count);
+      const need = minProposalFrames(fps);
+      const longest = Math.max(found.usableRun.left, found.usableRun.right);
+      if (longest < need)
+        throw new AppError(
+          422,
+          'too_few_landmarked_frames',
+          `Proposing events needs hip, heel and toe on at least ${need} frames in a row for one side (${PROPOSAL_MIN_SECONDS} s, one slow stride); ` +
+            `the longest run on this clip is ${longest} frame${longest === 1 ? '' : 's'}. Nothing was changed.`,
+          { need, longest },
         );
-      });
-      return repo.read(db, clipId);
+      if (!found.events.length)
+        throw new AppError(
+          422,
+          'no_events_found',
+          'No initial contact or toe-off could be found in the landmarked frames: hip, heel and toe must be marked over at least one whole stride. Nothing was changed.',
+        );
+      const merged = mergeProposals(current.events, found.events, fps, clip.frame_count);
+      const byRule: EventProposalsResult['byRule'] = {};
+      for (const e of found.events)
+        if (merged.events.some((m) => m.origin === 'proposed' && m.frame === e.frame && m.side === e.side && m.kind === e.kind))
+          byRule[e.rule] = (byRule[e.rule] ?? 0) + 1;
+      const annotations = await save(
+        user,
+        clip,
+        baseRevision,
+        { landmarks: current.landmarks, events: merged.events, scale: current.scale, gauges: current.gauges ?? [] },
+        'clip.events_proposed',
+        { proposed: merged.added },
+      );
+      return { annotations, proposed: merged.added, byRule, skipped: merged.skipped };
     },
   };
 }

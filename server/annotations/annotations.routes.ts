@@ -2,10 +2,10 @@ import { Router } from 'express';
 import { currentUser } from '../http/access';
 import { permit } from '../policy/enforce';
 import { idParam, parse } from '../http/validate';
-import { AnnotationsBody } from './annotations-schemas';
+import { AnnotationsBody, EventProposalsBody } from './annotations-schemas';
 import type { AnnotationsService } from './annotations-service';
 
-/** Read and replace a clip's annotations (staff). */
+/** Read and replace a clip's annotations, and ask for proposed gait events (staff). */
 export function annotationsRoutes(annotations: AnnotationsService): Router {
   const router = Router();
   router.get('/clips/:id/annotations', permit('annotation:read'), async (req, res) => {
@@ -16,6 +16,12 @@ export function annotationsRoutes(annotations: AnnotationsService): Router {
     const clipId = idParam(req.params, 'Clip');
     const body = parse(AnnotationsBody, req.body);
     res.json(await annotations.put(currentUser(req), clipId, body));
+  });
+
+  router.post('/clips/:id/events/proposals', permit('event:propose'), async (req, res) => {
+    const clipId = idParam(req.params, 'Clip');
+    const body = parse(EventProposalsBody, req.body);
+    res.json(await annotations.proposeEvents(currentUser(req), clipId, body.baseRevision));
   });
 
   return router;

@@ -3,16 +3,39 @@ import { toMetresPerSecond } from '../../src/contracts/assessment';
 import type { Db } from '../db/knex';
 import { audit } from '../audit/audit-log';
 import { accessibleAthlete } from '../policy/athlete-resources';
-import { may } from '../policy/enforce';
+import { assertRole, assertScope, may } from '../policy/enforce';
+import { NotFoundError } from '../errors';
+import { preparedRead } from '../db/prepared-read';
 import type { ClipsService } from '../clips/clips-service';
 import type { MediaStore } from '../storage/media-store';
+import { assessmentPrefix } from '../storage/media-keys';
 import { clipsRepository } from '../clips/clips-repository';
 import { assessmentsRepository as repo, type AssessmentRow } from './assessments-repository';
 import type { AssessmentInput, AssessmentPatch } from './assessments-schemas';
 
+/** The assessment page's row: the assessment, its athlete's account and the latest video-recording consent, in one read. */
+const PAGE_SQL = `SELECT s.*, a.user_id AS athlete_user_id,
+    (SELECT k.granted FROM consents k WHERE k.athlete_id = s.athlete_id AND k.kind = 'video_recording' ORDER BY k.id DESC LIMIT 1) AS video_consent
+  FROM assessments s JOIN athletes a ON a.id = s.athlete_id AND a.clinic_id = s.clinic_id
+  WHERE s.id = ? AND s.clinic_id = ?`;
+
+type PageRow = AssessmentRow & { athlete_user_id: number | null; video_consent: number | null };
+
 /** Dated gait visits of an athlete. Staff write; the athlete reads their own. */
-export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsService; store: MediaStore }) {
+export interface AssessmentsService {
+  list(user: SessionUser, athleteId: number): Promise<Assessment[]>;
+  create(user: SessionUser, athleteId: number, input: AssessmentInput): Promise<Assessment>;
+  /** One assessment with its clips and whether the athlete's video consent is in force. */
+  get(user: SessionUser, id: number): Promise<AssessmentDetail>;
+  update(user: SessionUser, id: number, patch: AssessmentPatch): Promise<Assessment>;
+  /** Deletes the assessment with its clips, their processing and every stored file. */
+  remove(user: SessionUser, id: number): Promise<void>;
+}
+
+export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsService; store: MediaStore }): AssessmentsService {
   const now = () => new Date().toISOString();
+  const readPage = preparedRead<PageRow>(db, PAGE_SQL);
+  const readClips = clipsRepository.listForAssessmentReader(db);
 
   async function toApi(user: SessionUser, row: AssessmentRow): Promise<Assessment> {
     return repo.toApi(row, await repo.clipCount(db, row.id), may(user, 'assessment:read-notes'));
@@ -63,16 +86,15 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
     },
 
     async get(user: SessionUser, id: number): Promise<AssessmentDetail> {
-      const row = await clips.accessibleAssessment(user, id, 'assessment:read');
-      const consent = await db('consents')
-        .where({ athlete_id: row.athlete_id, kind: 'video_recording' })
-        .orderBy('id', 'desc')
-        .first<{ granted: number } | undefined>();
-      return {
-        ...(await toApi(user, row)),
-        clips: await clipsRepository.listForAssessment(db, id),
-        videoConsent: Boolean(consent?.granted),
-      };
+      // The page is read often: two prepared reads, checked against the same policy as accessibleAssessment.
+      assertRole(user, 'assessment:read');
+      const [page] = await readPage([id, user.clinicId]);
+      if (!page) throw new NotFoundError('Assessment');
+      assertScope(user, 'assessment:read', { clinicId: user.clinicId, athleteUserId: page.athlete_user_id }, 'Assessment');
+      const { athlete_user_id: _user, video_consent: consent, ...row } = page;
+      const clipList = await readClips(id);
+      // The clip count is the length of the list just read (one query fewer on a page read often).
+      return { ...repo.toApi(row, clipList.length, may(user, 'assessment:read-notes')), clips: clipList, videoConsent: Boolean(consent) };
     },
 
     async update(user: SessionUser, id: number, patch: AssessmentPatch): Promise<Assessment> {
@@ -103,8 +125,8 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
       const clipIds = await clipsRepository.idsForAssessment(db, id);
       await clips.removeClips(clipIds.map((clipId) => ({ id: clipId, assessment_id: id })));
       await db('assessments').where({ id }).delete();
-      // Visit summaries' PDFs live in the assessment's folder.
-      await store.removeAssessment(id);
+      // Visit summaries' PDFs are kept under the assessment's prefix.
+      await store.removePrefix(assessmentPrefix(id));
       await audit(db, {
         clinicId: user.clinicId,
         actorId: user.id,
@@ -115,5 +137,3 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
     },
   };
 }
-
-export type AssessmentsService = ReturnType<typeof assessmentsService>;

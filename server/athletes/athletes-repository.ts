@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import type { AthleteDetail, AthleteSummary, ConsentState, InjuryEntry, PainEntry } from '../../src/contracts/api';
 import { fromKilometres, type BodyRegion, type Surface } from '../../src/contracts/intake';
 import type { AthleteRow, ConsentRow, InjuryRow, PainRow } from '../db/rows';
+import { preparedRead } from '../db/prepared-read';
 
 type SummaryRow = AthleteRow & {
   coach_name: string | null;
@@ -28,7 +29,38 @@ function summarySelect(db: Knex, nowIso: string) {
     .select('a.*', 'coach.name as coach_name', pendingInvitation, latestVideoConsent, maxPain);
 }
 
-function toSummary(r: SummaryRow): AthleteSummary {
+/** The columns a roster line needs. */
+type RosterRow = Pick<
+  SummaryRow,
+  | 'id'
+  | 'first_name'
+  | 'last_name'
+  | 'email'
+  | 'date_of_birth'
+  | 'goal_event'
+  | 'goal_date'
+  | 'coach_id'
+  | 'user_id'
+  | 'created_at'
+  | 'updated_at'
+  | 'coach_name'
+  | 'invitation_pending'
+  | 'video_consent'
+  | 'max_pain'
+>;
+
+/** The roster as one prepared read (the same figures as {@link summarySelect}, only the columns a line shows). */
+const ROSTER_SQL = `SELECT a.id, a.first_name, a.last_name, a.email, a.date_of_birth, a.goal_event, a.goal_date, a.coach_id, a.user_id,
+    a.created_at, a.updated_at, coach.name AS coach_name,
+    EXISTS (SELECT 1 FROM invitations i
+      WHERE i.athlete_id = a.id AND i.used_at IS NULL AND i.revoked_at IS NULL AND i.expires_at > ?) AS invitation_pending,
+    (SELECT c.granted FROM consents c WHERE c.athlete_id = a.id AND c.kind = 'video_recording' ORDER BY c.id DESC LIMIT 1) AS video_consent,
+    (SELECT MAX(p.score) FROM pain_entries p WHERE p.athlete_id = a.id AND p.current) AS max_pain
+  FROM athletes a LEFT JOIN users coach ON coach.id = a.coach_id
+  WHERE a.clinic_id = ?
+  ORDER BY a.last_name, a.first_name`;
+
+function toSummary(r: RosterRow): AthleteSummary {
   return {
     id: r.id,
     firstName: r.first_name,
@@ -50,11 +82,10 @@ function toSummary(r: SummaryRow): AthleteSummary {
 
 /** Reads and writes athletes and their intake. Every query is scoped by clinic. */
 export const athletesRepository = {
-  async list(db: Knex, clinicId: number, nowIso: string): Promise<AthleteSummary[]> {
-    const rows = (await summarySelect(db, nowIso)
-      .where('a.clinic_id', clinicId)
-      .orderBy([{ column: 'a.last_name' }, { column: 'a.first_name' }])) as SummaryRow[];
-    return rows.map(toSummary);
+  /** The clinic's roster, read as one prepared statement (the roster is read far more often than written). */
+  rosterReader(db: Knex): (clinicId: number, nowIso: string) => Promise<AthleteSummary[]> {
+    const read = preparedRead<RosterRow>(db, ROSTER_SQL);
+    return async (clinicId, nowIso) => (await read([nowIso, clinicId])).map(toSummary);
   },
 
   /** The athlete with this id in this clinic, or undefined (callers answer 404). */

@@ -20,6 +20,7 @@ export interface AthletesDeps {
 /** Athlete roster, profile and intake, scoped to the signed-in user's clinic (and self for athletes). */
 export function athletesService({ db, clock, invitations }: AthletesDeps) {
   const now = () => clock().toISOString();
+  const roster = repo.rosterReader(db);
 
   const accessible = (user: SessionUser, id: number, action: Action): Promise<AthleteRow> => accessibleAthlete(db, user, id, action);
 
@@ -48,7 +49,7 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
 
   return {
     list(user: SessionUser): Promise<AthleteSummary[]> {
-      return repo.list(db, user.clinicId, now());
+      return roster(user.clinicId, now());
     },
 
     async get(user: SessionUser, id: number): Promise<AthleteDetail> {

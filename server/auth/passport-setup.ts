@@ -27,9 +27,9 @@ export function createPassport(db: Db): InstanceType<typeof Passport> {
     }),
   );
   passport.serializeUser((user, done) => done(null, (user as Express.User).id));
+  const sessionUser = usersRepository.sessionUserReader(db);
   passport.deserializeUser((id: number, done) => {
-    usersRepository
-      .sessionUser(db, id)
+    sessionUser(id)
       // A deactivated or deleted user's session simply stops being signed in.
       .then((user) => done(null, user ?? false))
       .catch(done);

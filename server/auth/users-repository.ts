@@ -1,6 +1,36 @@
 import type { Knex } from 'knex';
 import type { SessionUser, StaffMember } from '../../src/contracts/api';
 import type { UserRow } from '../db/rows';
+import { preparedRead } from '../db/prepared-read';
+
+interface SessionUserRow {
+  id: number;
+  email: string;
+  name: string;
+  role: SessionUser['role'];
+  clinic_id: number;
+  clinic_name: string;
+  athlete_id: number | null;
+}
+
+const SESSION_USER_SQL = `SELECT u.id, u.email, u.name, u.role, u.clinic_id, c.name AS clinic_name, a.id AS athlete_id
+  FROM users u JOIN clinics c ON c.id = u.clinic_id LEFT JOIN athletes a ON a.user_id = u.id
+  WHERE u.id = ? AND u.active`;
+
+/** Rows of a `knex.raw` read, whatever the driver answers (an array, or `{ rows }`). */
+const rawRows = <Row>(r: unknown): Row[] => (Array.isArray(r) ? r : (r as { rows: Row[] }).rows) as Row[];
+
+function toSessionUser(row: SessionUserRow): SessionUser {
+  return {
+    id: row.id,
+    email: row.email,
+    name: row.name,
+    role: row.role,
+    clinicId: row.clinic_id,
+    clinicName: row.clinic_name,
+    athleteId: row.athlete_id ?? null,
+  };
+}
 
 /** Reads and writes `users`. Every method takes a knex instance or a transaction. */
 export const usersRepository = {
@@ -14,29 +44,19 @@ export const usersRepository = {
 
   /** The session view of an active user, with clinic name and (for athletes) their athlete id. */
   async sessionUser(db: Knex, id: number): Promise<SessionUser | null> {
-    const row = await db('users as u')
-      .join('clinics as c', 'c.id', 'u.clinic_id')
-      .leftJoin('athletes as a', 'a.user_id', 'u.id')
-      .where('u.id', id)
-      .andWhere('u.active', true)
-      .first<{
-        id: number;
-        email: string;
-        name: string;
-        role: SessionUser['role'];
-        clinic_id: number;
-        clinic_name: string;
-        athlete_id: number | null;
-      }>('u.id', 'u.email', 'u.name', 'u.role', 'u.clinic_id', 'c.name as clinic_name', 'a.id as athlete_id');
-    if (!row) return null;
-    return {
-      id: row.id,
-      email: row.email,
-      name: row.name,
-      role: row.role,
-      clinicId: row.clinic_id,
-      clinicName: row.clinic_name,
-      athleteId: row.athlete_id ?? null,
+    const [row] = await db.raw<SessionUserRow[]>(SESSION_USER_SQL, [id]).then(rawRows<SessionUserRow>);
+    return row ? toSessionUser(row) : null;
+  },
+
+  /**
+   * {@link usersRepository.sessionUser} as a prepared read, for the lookup every signed-in request
+   * makes (outside transactions only).
+   */
+  sessionUserReader(db: Knex): (id: number) => Promise<SessionUser | null> {
+    const read = preparedRead<SessionUserRow>(db, SESSION_USER_SQL);
+    return async (id) => {
+      const [row] = await read([id]);
+      return row ? toSessionUser(row) : null;
     };
   },
 

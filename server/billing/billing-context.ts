@@ -4,7 +4,7 @@ import type { Currency, InvoiceDetail } from '../../src/contracts/billing';
 import type { Config } from '../config';
 import type { Db } from '../db/knex';
 import { AppError, NotFoundError } from '../errors';
-import { clinicRepository } from '../clinic/clinic-repository';
+import type { ClinicBrands } from '../clinic/clinic-brand';
 import type { Mailer } from '../mail/mailer';
 import type { Action } from '../policy/access-table';
 import { assertAllowed, assertRole, listGrant } from '../policy/enforce';
@@ -19,6 +19,8 @@ export interface BillingDeps {
   clock: () => Date;
   /** null when card payment is not configured. */
   payments: Payments | null;
+  /** The clinic's logo and legal details for receipts and e-mails. */
+  brands: ClinicBrands;
 }
 
 /** What the billing services share: the clinic's currency, invoices as this user may reach them, the provider. */
@@ -57,7 +59,8 @@ export function billingContext(deps: BillingDeps): BillingContext {
 
   async function detail(row: InvoiceRow): Promise<InvoiceDetail> {
     const clinic = await clinicOf(row.clinic_id);
-    return toDetail(row, await invoices.lines(db, row.id), clinic.name, await clinicRepository.legalDetails(db, row.clinic_id));
+    const brand = await deps.brands.forApi(row.clinic_id);
+    return toDetail(row, await invoices.lines(db, row.id), clinic.name, brand.legal, brand.logoUrl);
   }
 
   return {

@@ -16,10 +16,11 @@ export interface BillingMail {
 }
 
 export function billingMail(ctx: BillingContext): BillingMail {
-  async function send(to: string | null, subject: string, lines: string[]): Promise<void> {
+  async function send(row: InvoiceRow, subject: string, lines: string[]): Promise<void> {
+    const to = row.athlete_email;
     if (!to) return;
     try {
-      await ctx.mailer.send({ to, subject, text: lines.join('\n') });
+      await ctx.mailer.send({ to, subject, text: lines.join('\n'), clinicId: row.clinic_id });
     } catch (err) {
       ctx.logger.warn({ err: (err as Error).message }, 'billing e-mail not sent');
     }
@@ -40,7 +41,7 @@ export function billingMail(ctx: BillingContext): BillingMail {
   return {
     async invoiceIssued(row, number) {
       const clinic = await ctx.clinicOf(row.clinic_id);
-      await send(row.athlete_email, `Invoice ${number} from ${clinic.name}`, [
+      await send(row, `Invoice ${number} from ${clinic.name}`, [
         `Hello ${row.first_name},`,
         '',
         `${clinic.name} has sent you invoice ${number} for ${formatMinor(row.total_minor)} ${row.currency}, due ${row.due_date}.`,
@@ -50,7 +51,7 @@ export function billingMail(ctx: BillingContext): BillingMail {
 
     async paymentRecorded(row, method) {
       const clinic = await ctx.clinicOf(row.clinic_id);
-      await send(row.athlete_email, `Payment received for invoice ${row.number}`, [
+      await send(row, `Payment received for invoice ${row.number}`, [
         `Hello ${row.first_name},`,
         '',
         `${clinic.name} has received your payment of ${formatMinor(row.total_minor)} ${row.currency} for invoice ${row.number} by ${METHOD_WORDS[method]}. Thank you.`,
@@ -64,7 +65,7 @@ export function billingMail(ctx: BillingContext): BillingMail {
 
     async cardPaymentReceived(row) {
       const clinic = await ctx.clinicOf(row.clinic_id);
-      await send(row.athlete_email, `Payment received for invoice ${row.number}`, [
+      await send(row, `Payment received for invoice ${row.number}`, [
         `Hello ${row.first_name},`,
         '',
         `${clinic.name} has received your payment of ${formatMinor(row.total_minor)} ${row.currency} for invoice ${row.number}. Thank you.`,

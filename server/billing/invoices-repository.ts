@@ -100,7 +100,13 @@ export const toLine = (l: InvoiceLineRow): InvoiceLine => ({
   totalMinor: l.total_minor,
 });
 
-export const toDetail = (r: InvoiceRow, lines: InvoiceLineRow[], clinicName: string, clinicLegal: ClinicLegalDetails): InvoiceDetail => ({
+export const toDetail = (
+  r: InvoiceRow,
+  lines: InvoiceLineRow[],
+  clinicName: string,
+  clinicLegal: ClinicLegalDetails,
+  clinicLogoUrl: string | null = null,
+): InvoiceDetail => ({
   ...toSummary(r),
   assessmentId: r.assessment_id,
   assessment:
@@ -120,6 +126,7 @@ export const toDetail = (r: InvoiceRow, lines: InvoiceLineRow[], clinicName: str
   paymentNote: r.payment_note,
   refundNote: r.refund_note,
   clinicLegal,
+  clinicLogoUrl,
 });
 
 /** Columns of an {@link InvoiceRow}: the invoice, its athlete's name and contact, the billed assessment. */

@@ -160,7 +160,8 @@ export function invoicesService(ctx: BillingContext, mail: BillingMail): Invoice
       const d = await ctx.reload(user, id, 'invoice:read-receipt');
       if (d.status !== 'paid' && d.status !== 'refunded')
         throw new ConflictError('A receipt exists once the invoice is paid.', 'receipt_not_available');
-      return { pdf: await renderReceipt(d), filename: `receipt-${d.number}.pdf` };
+      const { logo } = await ctx.brands.forDocuments(user.clinicId);
+      return { pdf: await renderReceipt(d, logo), filename: `receipt-${d.number}.pdf` };
     },
   };
 }

@@ -1,6 +1,8 @@
 import PDFDocument from 'pdfkit';
 import { formatMinor, type InvoiceDetail, type PaymentMethod } from '../../src/contracts/billing';
 import { registerPdfFonts } from '../render/fonts';
+import { drawLogoTopRight } from '../render/pdf-letterhead';
+import type { LogoImage } from '../clinic/clinic-brand';
 
 const SPRUCE = '#1f5a4a';
 const MUTED = '#56645e';
@@ -37,7 +39,7 @@ const rate = (bp: number | null) => (bp === null ? '-' : `${(bp / 100).toFixed(b
  * the clinic's legal details, number, athlete, lines with tax per line, totals, when it was paid
  * and how (card, bank transfer or cash, with the owner's note), and a refund.
  */
-export function renderReceipt(inv: InvoiceDetail): Promise<Buffer> {
+export function renderReceipt(inv: InvoiceDetail, logo: LogoImage | null = null): Promise<Buffer> {
   const doc = new PDFDocument({ size: 'A4', margin: 56, info: { Title: `Receipt ${inv.number}`, Author: inv.clinicName } });
   registerPdfFonts(doc);
   const chunks: Buffer[] = [];
@@ -48,9 +50,10 @@ export function renderReceipt(inv: InvoiceDetail): Promise<Buffer> {
   const width = doc.page.width - left - doc.page.margins.right;
 
   const seller = sellerLines(inv);
-  doc.font('bold').fontSize(20).fillColor(SPRUCE).text(seller.name);
+  const sellerWidth = width - drawLogoTopRight(doc, logo, doc.y);
+  doc.font('bold').fontSize(20).fillColor(SPRUCE).text(seller.name, { width: sellerWidth });
   doc.font('regular').fontSize(10).fillColor(MUTED);
-  for (const line of seller.lines) doc.text(line);
+  for (const line of seller.lines) doc.text(line, { width: sellerWidth });
   doc.moveDown(0.8);
   doc.font('semibold').fontSize(14).fillColor('#000').text(`Receipt for invoice ${inv.number}`).moveDown(0.5);
   doc.font('regular').fontSize(10).fillColor(MUTED);

@@ -1,6 +1,8 @@
 import type { Knex } from 'knex';
 import type { Clip } from '../../src/contracts/api';
 import type { ClipStatus, Direction, Side } from '../../src/contracts/assessment';
+import { preparedRead } from '../db/prepared-read';
+import { joinLatestItem } from '../processing/processed-items-repository';
 
 export interface ClipRow {
   id: number;
@@ -13,8 +15,6 @@ export interface ClipRow {
   size_bytes: number;
   container: string;
   status: ClipStatus;
-  progress_done: number | null;
-  progress_total: number | null;
   error: string | null;
   near_side: Side;
   direction: Direction;
@@ -32,14 +32,27 @@ export interface ClipRow {
   updated_at: string;
 }
 
-type ClipWithName = ClipRow & { uploaded_by_name: string | null; marked: number | boolean };
+/** A row with the uploader's name, whether it is marked, and its newest processed item's progress. */
+type ClipWithName = ClipRow & {
+  uploaded_by_name: string | null;
+  marked: number | boolean;
+  item_done: number | null;
+  item_total: number | null;
+};
 
 /** SQL: whether the clip `c` has any landmark or gait event. */
 const MARKED =
   '(EXISTS (SELECT 1 FROM clip_landmarks l WHERE l.clip_id = c.id) OR EXISTS (SELECT 1 FROM gait_events g WHERE g.clip_id = c.id)) AS marked';
 
 function withUploader(db: Knex) {
-  return db('clips as c').leftJoin('users as u', 'u.id', 'c.uploaded_by').select('c.*', 'u.name as uploaded_by_name', db.raw(MARKED));
+  const q = db('clips as c').leftJoin('users as u', 'u.id', 'c.uploaded_by');
+  return joinLatestItem(q, db, 'clip', 'c').select(
+    'c.*',
+    'u.name as uploaded_by_name',
+    'pi.progress_done as item_done',
+    'pi.progress_total as item_total',
+    db.raw(MARKED),
+  );
 }
 
 /** `clips` rows and their API shape. */
@@ -60,6 +73,15 @@ export const clipsRepository = {
   async listForAssessment(db: Knex, assessmentId: number): Promise<Clip[]> {
     const rows = (await withUploader(db).where('c.assessment_id', assessmentId).orderBy('c.id')) as ClipWithName[];
     return rows.map(toApi);
+  },
+
+  /** {@link clipsRepository.listForAssessment} as a prepared read (outside transactions only), for the assessment page. */
+  listForAssessmentReader(db: Knex): (assessmentId: number) => Promise<Clip[]> {
+    const query = withUploader(db).where('c.assessment_id', 0).orderBy('c.id').toSQL();
+    const read = preparedRead<ClipWithName>(db, query.sql);
+    // The join's own bindings come first; the assessment id is the last one.
+    const fixed = query.bindings.slice(0, -1);
+    return async (assessmentId) => (await read([...fixed, assessmentId])).map(toApi);
   },
 
   idsForAssessment(db: Knex, assessmentId: number): Promise<number[]> {
@@ -88,7 +110,8 @@ export const clipsRepository = {
 };
 
 function toApi(r: ClipWithName): Clip {
-  const extracting = r.status === 'extracting' && r.progress_total;
+  // Frames extracted so far (0 … done − 1 can be shown), from the clip's processed item.
+  const extracting = r.status === 'extracting' && r.item_total;
   return {
     id: r.id,
     assessmentId: r.assessment_id,
@@ -96,7 +119,7 @@ function toApi(r: ClipWithName): Clip {
     originalName: r.original_name,
     sizeBytes: Number(r.size_bytes),
     status: r.status,
-    progress: extracting ? { done: r.progress_done ?? 0, total: r.progress_total ?? 0 } : null,
+    progress: extracting ? { done: r.item_done ?? 0, total: r.item_total ?? 0 } : null,
     error: r.error,
     nearSide: r.near_side,
     direction: r.direction,

@@ -1,5 +1,3 @@
-import fs from 'node:fs';
-import path from 'node:path';
 import type { Logger } from 'pino';
 import type { Clip, SessionUser } from '../../src/contracts/api';
 import type { Db } from '../db/knex';
@@ -9,32 +7,28 @@ import { cleanFileName } from '../http/file-names';
 import type { Action } from '../policy/access-table';
 import { assertAthleteResource } from '../policy/athlete-resources';
 import { assertRole, assertState } from '../policy/enforce';
-import { assessmentsRepository } from '../assessments/assessments-repository';
-import type { MediaStore } from '../storage/media-store';
-import type { Job, JobQueue, SubjectFailure } from '../jobs/job-queue';
-import { PermanentJobError, type JobHandler } from '../jobs/worker';
-import { probeVideo } from '../media/probe';
-import { extractFrames } from '../media/extract';
+import { assessmentsRepository, type AssessmentRow } from '../assessments/assessments-repository';
+import { plannedManifest } from '../media/extract-plan';
 import { SNIFF_BYTES, sniffContainer } from '../media/magic';
+import type { ClipManifest } from '../media/manifest';
 import { MediaError } from '../media/media-error';
-import { FRAMES_DIR, MANIFEST_FILE, THUMBS_DIR, frameFileName } from '../media/manifest';
+import { probeVideo } from '../media/probe';
+import type { Processing } from '../processing/processing';
+import { clipKeys } from '../storage/media-keys';
+import type { MediaStore } from '../storage/media-store';
+import { putJson, readJson } from '../storage/stored-objects';
+import { removeUpload, uploadHead } from '../storage/upload-temps';
+import { clipFacts } from './clip-facts';
+import { clipMediaKey, type ClipMedia, type ClipMediaWhat } from './clip-media';
 import { clipsRepository as repo, type ClipRow } from './clips-repository';
-import type { ClipEvents } from './clip-events';
 import type { ClipPatch } from './clips-schemas';
-
-export const EXTRACT_JOB = 'extract_clip';
-const subjectOf = (clipId: number) => `clip:${clipId}`;
+import { EXTRACT_FRAMES, extractFramesKind } from './extract-frames-kind';
 
 export interface ClipsDeps {
   db: Db;
   store: MediaStore;
-  queue: JobQueue;
-  events: ClipEvents;
+  processing: Processing;
   logger: Logger;
-  /** Tells the worker there is work (no-op when no worker runs in this process). */
-  wakeWorker: () => void;
-  /** Aborts a running job of a subject. */
-  cancelJob: (subject: string) => void;
 }
 
 /** A file multer stored in the temp folder. */
@@ -44,14 +38,42 @@ export interface UploadedFile {
   size: number;
 }
 
-/** Clip upload, settings, deletion, processing and media access. */
-export function clipsService(d: ClipsDeps) {
-  const { db, store } = d;
+/**
+ * Clips of assessments: upload, settings, deletion, frame extraction (registered as the
+ * `extract_frames` processed item) and which stored media a request may read.
+ */
+export interface ClipsService {
+  /** The assessment this user may reach for `action` (see `server/policy/access-table.ts`); 404 otherwise. */
+  accessibleAssessment(user: SessionUser, assessmentId: number, action?: Action): Promise<AssessmentRow>;
+  /** The clip this user may reach for `action`; 404 otherwise (its state is checked where it is known). */
+  accessibleClip(user: SessionUser, clipId: number, action?: Action): Promise<ClipRow>;
+  /** Checks run before the upload body is read: access and consent. */
+  beforeUpload(user: SessionUser, assessmentId: number): Promise<AssessmentRow>;
+  /**
+   * Accepts an uploaded temp file: content decides whether it is a video (magic bytes, then
+   * ffprobe); the clip row, its planned manifest and its processed item are created in one
+   * transaction, inside which the file moves to the clip's key. Whatever is refused leaves no
+   * object and no row.
+   */
+  acceptUpload(user: SessionUser, assessmentId: number, file: UploadedFile): Promise<Clip>;
+  list(user: SessionUser, assessmentId: number): Promise<Clip[]>;
+  get(user: SessionUser, clipId: number): Promise<Clip>;
+  /** Changes near side, running direction or capture rate (audited; drops the measures snapshot). */
+  update(user: SessionUser, clipId: number, patch: ClipPatch): Promise<Clip>;
+  remove(user: SessionUser, clipId: number): Promise<void>;
+  /** Deletes clips' processing, rows and media (also when their assessment goes). */
+  removeClips(rows: Pick<ClipRow, 'id' | 'assessment_id'>[]): Promise<void>;
+  /** Queues a failed clip's extraction again. */
+  retry(user: SessionUser, clipId: number): Promise<Clip>;
+  /** The stored object a media route sends (frames while extracting too; 409 for one not there yet). */
+  media(user: SessionUser, clipId: number, what: ClipMediaWhat, n?: number): Promise<ClipMedia>;
+  /** A clip's manifest (no access check: callers check), or null before any exists. */
+  manifest(clipId: number): Promise<ClipManifest | null>;
+}
 
-  async function emit(clipId: number): Promise<void> {
-    const row = await repo.findById(db, clipId);
-    if (row) d.events.emit(row.assessment_id, clipId);
-  }
+export function clipsService(d: ClipsDeps): ClipsService {
+  const { db, store, processing } = d;
+  processing.register(extractFramesKind(d));
 
   /** The assessment this user may reach for `action` (see `server/policy/access-table.ts`); 404 otherwise. */
   async function accessibleAssessment(user: SessionUser, assessmentId: number, action: Action = 'assessment:read') {
@@ -90,14 +112,11 @@ export function clipsService(d: ClipsDeps) {
     return clip;
   }
 
-  /** Deletes clips' jobs, rows and folders (also used when an assessment goes). */
   async function removeClips(rows: Pick<ClipRow, 'id' | 'assessment_id'>[]): Promise<void> {
     for (const row of rows) {
-      await d.queue.cancelSubject(subjectOf(row.id));
-      d.cancelJob(subjectOf(row.id));
+      await processing.cancel('clip', row.id);
       await db('clips').where({ id: row.id }).delete();
-      await store.removeClip(row.id);
-      d.events.emit(row.assessment_id, row.id);
+      await store.removePrefix(clipKeys(row.id).prefix);
     }
   }
 
@@ -105,31 +124,18 @@ export function clipsService(d: ClipsDeps) {
     accessibleAssessment,
     accessibleClip,
 
-    /** Checks run before the upload body is read: access and consent. */
-    async beforeUpload(user: SessionUser, assessmentId: number) {
+    async beforeUpload(user, assessmentId) {
       const assessment = await accessibleAssessment(user, assessmentId, 'clip:upload');
       await requireVideoConsent(assessment.athlete_id);
       return assessment;
     },
 
-    /**
-     * Accepts an uploaded temp file: content decides whether it is a video (magic bytes, then
-     * ffprobe); the clip row and its job are created in one transaction, inside which the file
-     * moves to the clip's folder. Whatever is refused leaves no file and no row.
-     */
-    async acceptUpload(user: SessionUser, assessmentId: number, file: UploadedFile): Promise<Clip> {
+    async acceptUpload(user, assessmentId, file) {
       try {
         const assessment = await accessibleAssessment(user, assessmentId, 'clip:upload');
         await requireVideoConsent(assessment.athlete_id);
         if (file.size === 0) throw new MediaError('empty_file', 'The uploaded file is empty.', 'size 0');
-        const head = Buffer.alloc(Math.min(file.size, SNIFF_BYTES));
-        const fh = await fs.promises.open(file.path, 'r');
-        try {
-          await fh.read(head, 0, head.length, 0);
-        } finally {
-          await fh.close();
-        }
-        const container = sniffContainer(head);
+        const container = sniffContainer(await uploadHead(file.path, Math.min(file.size, SNIFF_BYTES)));
         if (!container) {
           throw new MediaError(
             'not_video',
@@ -138,75 +144,68 @@ export function clipsService(d: ClipsDeps) {
           );
         }
         const probe = await probeVideo(file.path);
+        const manifest: ClipManifest = { ...plannedManifest(probe), source: probe };
+        const storedName = `original.${container}`;
         const at = new Date().toISOString();
         let clipId = 0;
-        await db.transaction(async (trx) => {
-          clipId = await repo.insert(trx, {
-            clinic_id: user.clinicId,
-            athlete_id: assessment.athlete_id,
-            assessment_id: assessment.id,
-            uploaded_by: user.id,
-            original_name: cleanFileName(file.originalname),
-            stored_name: `original.${container}`,
-            size_bytes: file.size,
-            container,
-            status: 'queued',
-            progress_done: null,
-            progress_total: probe.frameCount,
-            error: null,
-            near_side: 'right',
-            direction: 'left_to_right',
-            capture_fps: null,
-            fps: probe.fps,
-            width: probe.displayWidth,
-            height: probe.displayHeight,
-            frame_count: probe.frameCount,
-            duration_s: probe.durationS,
-            rotation: probe.rotation,
-            codec: probe.codec,
-            thumb_count: 0,
-            thumb_every: null,
-            created_at: at,
-            updated_at: at,
+        try {
+          await db.transaction(async (trx) => {
+            clipId = await repo.insert(trx, {
+              clinic_id: user.clinicId,
+              athlete_id: assessment.athlete_id,
+              assessment_id: assessment.id,
+              uploaded_by: user.id,
+              original_name: cleanFileName(file.originalname),
+              stored_name: storedName,
+              size_bytes: file.size,
+              container,
+              status: 'queued',
+              error: null,
+              near_side: 'right',
+              direction: 'left_to_right',
+              capture_fps: null,
+              ...clipFacts(manifest),
+              created_at: at,
+              updated_at: at,
+            });
+            await processing.enqueue(trx, EXTRACT_FRAMES, clipId, { clinicId: user.clinicId, athleteId: assessment.athlete_id });
+            await audit(
+              trx,
+              {
+                clinicId: user.clinicId,
+                actorId: user.id,
+                athleteId: assessment.athlete_id,
+                action: 'clip.uploaded',
+                detail: { clipId, assessmentId, bytes: file.size },
+              },
+              at,
+            );
+            // Last inside the transaction: if storing fails, no row is committed.
+            const keys = clipKeys(clipId);
+            await store.putFile(keys.original(storedName), file.path);
+            await putJson(store, keys.manifest, manifest);
           });
-          await d.queue.enqueue(trx, EXTRACT_JOB, subjectOf(clipId), { clipId });
-          await audit(
-            trx,
-            {
-              clinicId: user.clinicId,
-              actorId: user.id,
-              athleteId: assessment.athlete_id,
-              action: 'clip.uploaded',
-              detail: { clipId, assessmentId, bytes: file.size },
-            },
-            at,
-          );
-          // Last step inside the transaction: if the move fails, no row is committed.
-          await store.adopt(file.path, clipId, `original.${container}`);
-        });
-        d.wakeWorker();
+        } catch (err) {
+          if (clipId) await store.removePrefix(clipKeys(clipId).prefix);
+          throw err;
+        }
         return view(clipId);
       } finally {
-        await fs.promises.rm(file.path, { force: true });
+        await removeUpload(file.path);
       }
     },
 
-    list: async (user: SessionUser, assessmentId: number) => {
+    async list(user, assessmentId) {
       await accessibleAssessment(user, assessmentId, 'clip:read');
       return repo.listForAssessment(db, assessmentId);
     },
 
-    async get(user: SessionUser, clipId: number): Promise<Clip> {
+    async get(user, clipId) {
       await accessibleClip(user, clipId);
       return view(clipId);
     },
 
-    /**
-     * Changes near side, running direction or capture rate, as the policy's `clip:update-settings`
-     * allows (an athlete only while the clip is not marked); each change is audited with its old and new value, and a marked clip's measures
-     * snapshot is dropped (recomputed with the new settings on the next read).
-     */
-    async update(user: SessionUser, clipId: number, patch: ClipPatch): Promise<Clip> {
+    async update(user, clipId, patch) {
       const current = await accessibleClip(user, clipId, 'clip:update-settings');
       const fields = [
         ['nearSide', 'near_side'],
@@ -235,11 +234,10 @@ export function clipsService(d: ClipsDeps) {
           detail: { clipId, changes },
         });
       });
-      await emit(clipId);
       return view(clipId);
     },
 
-    async remove(user: SessionUser, clipId: number): Promise<void> {
+    async remove(user, clipId) {
       const row = await accessibleClip(user, clipId, 'clip:delete');
       assertState(user, 'clip:delete', { uploadedBy: row.uploaded_by }, 'Clip');
       await removeClips([row]);
@@ -248,125 +246,22 @@ export function clipsService(d: ClipsDeps) {
 
     removeClips,
 
-    async retry(user: SessionUser, clipId: number): Promise<Clip> {
+    async retry(user, clipId) {
       const row = await accessibleClip(user, clipId, 'clip:retry');
       if (row.status !== 'failed') throw new ConflictError('Only a clip whose processing failed can be retried.', 'not_failed');
-      await db.transaction(async (trx) => {
-        await repo.update(trx, clipId, { status: 'queued', error: null, progress_done: null });
-        await d.queue.enqueue(trx, EXTRACT_JOB, subjectOf(clipId), { clipId });
-      });
-      d.wakeWorker();
-      await emit(clipId);
+      await db.transaction((trx) =>
+        processing.enqueue(trx, EXTRACT_FRAMES, clipId, { clinicId: row.clinic_id, athleteId: row.athlete_id }),
+      );
       return view(clipId);
     },
 
-    /** Absolute path of a media file of a clip the user may see, or 404. */
-    async mediaPath(
-      user: SessionUser,
-      clipId: number,
-      kind: 'frame' | 'thumb' | 'poster' | 'manifest' | 'original',
-      n = 0,
-    ): Promise<{ file: string; row: ClipRow }> {
-      const row = await accessibleClip(user, clipId, 'clip:read-media');
-      const dir = store.clipDir(clipId);
-      let file: string;
-      if (kind === 'original') file = path.join(dir, row.stored_name);
-      else {
-        if (row.status !== 'ready') throw new NotFoundError('Frame');
-        if (kind === 'manifest') file = path.join(dir, MANIFEST_FILE);
-        else if (kind === 'frame') {
-          if (n >= (row.frame_count ?? 0)) throw new NotFoundError('Frame');
-          file = path.join(dir, FRAMES_DIR, frameFileName(n));
-        } else {
-          const index = kind === 'poster' ? Math.floor(row.thumb_count / 2) : n;
-          if (index >= row.thumb_count) throw new NotFoundError('Thumbnail');
-          file = path.join(dir, THUMBS_DIR, frameFileName(index));
-        }
-      }
-      if (!fs.existsSync(file)) throw new NotFoundError('File');
-      return { file, row };
+    async media(user, clipId, what, n = 0) {
+      return clipMediaKey(processing, await accessibleClip(user, clipId, 'clip:read-media'), what, n);
     },
 
-    /** The job handler: probe, extract every frame with progress, mark ready. */
-    processJob: (async (job: Job, { signal }) => {
-      const clipId = Number(job.payload['clipId']);
-      const row = await repo.findById(db, clipId);
-      if (!row) return; // deleted meanwhile
-      const dir = store.clipDir(clipId);
-      // A worker killed mid-extraction leaves a staging folder behind.
-      for (const f of await fs.promises.readdir(dir).catch(() => [] as string[])) {
-        if (f.startsWith('.extract-')) await fs.promises.rm(path.join(dir, f), { recursive: true, force: true });
-      }
-      const original = path.join(dir, row.stored_name);
-      try {
-        await repo.update(db, clipId, { status: 'probing', error: null, progress_done: null });
-        await emit(clipId);
-        const probe = await probeVideo(original);
-        await repo.update(db, clipId, { status: 'extracting', progress_done: 0, progress_total: probe.frameCount });
-        await emit(clipId);
-        let last = 0;
-        const manifest = await extractFrames(original, dir, {
-          probe,
-          signal,
-          onProgress: (done, total) => {
-            const now = Date.now();
-            if (now - last < 250 && done < total) return;
-            last = now;
-            void repo
-              .update(db, clipId, { progress_done: done, progress_total: total })
-              .then(() => emit(clipId))
-              .catch(() => undefined);
-          },
-        });
-        if (!(await repo.findById(db, clipId))) {
-          await store.removeClip(clipId);
-          return;
-        }
-        await repo.update(db, clipId, {
-          status: 'ready',
-          error: null,
-          progress_done: manifest.frameCount,
-          progress_total: manifest.frameCount,
-          width: manifest.width,
-          height: manifest.height,
-          frame_count: manifest.frameCount,
-          fps: manifest.fps,
-          duration_s: manifest.durationS,
-          rotation: manifest.rotationApplied,
-          thumb_count: manifest.thumbCount,
-          thumb_every: manifest.thumbEvery,
-        });
-        await emit(clipId);
-      } catch (err) {
-        if (err instanceof MediaError && err.code !== 'tool_missing' && err.code !== 'aborted') {
-          d.logger.warn({ clipId, reason: err.reason }, 'clip processing failed');
-          throw new PermanentJobError(err.message);
-        }
-        const attemptsLeft = job.maxAttempts - job.attempts;
-        if (attemptsLeft > 0 && !signal.aborted) {
-          await repo
-            .update(db, clipId, { status: 'queued', error: `Attempt ${job.attempts} failed; trying again shortly.` })
-            .catch(() => undefined);
-          await emit(clipId).catch(() => undefined);
-        }
-        throw err;
-      }
-    }) satisfies JobHandler,
-
-    /** When the extraction job is over for good: the clip is `failed` with the reason (unless it got ready). */
-    extractFailure: {
-      async fail(trx, job, reason) {
-        await trx('clips')
-          .where({ id: Number(job.payload['clipId']) })
-          .whereNot({ status: 'ready' })
-          .update({ status: 'failed', error: reason.slice(0, 500), updated_at: new Date().toISOString() });
-      },
-      failed: (job) => void emit(Number(job.payload['clipId'])).catch(() => undefined),
-    } satisfies SubjectFailure,
+    manifest: (clipId) => readJson<ClipManifest>(store, clipKeys(clipId).manifest),
   };
 }
-
-export type ClipsService = ReturnType<typeof clipsService>;
 
 /** 413 for uploads over the configured limit. */
 export function tooLarge(limitBytes: number): AppError {

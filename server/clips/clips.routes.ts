@@ -1,4 +1,3 @@
-import fs from 'node:fs';
 import path from 'node:path';
 import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
 import multer from 'multer';
@@ -12,10 +11,11 @@ import { audit } from '../audit/audit-log';
 import type { Logger } from 'pino';
 import type { UploadTemps } from '../storage/upload-temps';
 import { contentDisposition } from '../http/file-names';
-import type { ClipEvents } from './clip-events';
-import type { UserRevocations } from '../http/sessions';
+import { sendStored } from '../http/send-stored';
+import type { MediaStore } from '../storage/media-store';
 import { ClipPatchBody, MediaIndexParams } from './clips-schemas';
 import { tooLarge, type ClipsService } from './clips-service';
+import type { ClipMediaWhat } from './clip-media';
 
 declare module 'express-session' {
   interface SessionData {
@@ -27,9 +27,8 @@ declare module 'express-session' {
 export interface ClipsRoutesDeps {
   db: Db;
   clips: ClipsService;
-  events: ClipEvents;
-  /** Ends a user's live-status streams when they are signed out everywhere. */
-  revocations: UserRevocations;
+  /** Where the media the routes send lives. */
+  store: MediaStore;
   /** Temp files of uploads being received (owned per request; swept when nobody owns them). */
   temps: UploadTemps;
   logger: Logger;
@@ -48,7 +47,7 @@ function clientGone(req: Request, err: unknown): boolean {
   return req.readableAborted || Boolean(req.socket?.destroyed) || message === 'Request aborted' || message === 'Request closed';
 }
 
-/** Upload, settings, live status (server-sent events) and authorised media of clips. */
+/** Upload, settings and authorised media of clips (their processing is followed on the one progress stream). */
 export function clipsRoutes(d: ClipsRoutesDeps): Router {
   const router = Router();
   type WithTemp = Request & { uploadTemp?: string };
@@ -67,9 +66,7 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
     // The request owns its temp file; whatever happens (refusal, cancel, crash) it does not outlive it.
     const temp = d.temps.create();
     (req as WithTemp).uploadTemp = temp;
-    res.on('close', () => {
-      fs.rm(temp, { force: true }, () => d.temps.release(temp));
-    });
+    res.on('close', () => void d.temps.discard(temp));
     const declared = Number(req.headers['content-length'] ?? 0);
     if (declared > d.uploadMaxBytes + 64 * 1024) return refuse(req, res, next, tooLarge(d.uploadMaxBytes));
     upload(req, res, (err: unknown) => {
@@ -138,35 +135,6 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
     },
   );
 
-  router.get('/assessments/:id/clip-events', permit('clip:read'), async (req, res) => {
-    const assessmentId = idParam(req.params, 'Assessment');
-    const user = currentUser(req);
-    const initial = await d.clips.list(user, assessmentId);
-    res.writeHead(200, {
-      'Content-Type': 'text/event-stream; charset=utf-8',
-      'Cache-Control': 'no-store',
-      Connection: 'keep-alive',
-      'X-Accel-Buffering': 'no',
-    });
-    const send = (event: string, data: unknown) => res.write(`event: ${event}\ndata: ${JSON.stringify(data)}\n\n`);
-    res.write('retry: 3000\n\n');
-    for (const clip of initial) send('clip', clip);
-    const unsubscribe = d.events.subscribe(assessmentId, (clipId) => {
-      d.clips
-        .get(user, clipId)
-        .then((clip) => send('clip', clip))
-        .catch(() => send('clip-deleted', { id: clipId }));
-    });
-    const ping = setInterval(() => res.write(': keep-alive\n\n'), 15_000);
-    // Signed out everywhere (e.g. deactivated): the stream ends at once.
-    const unrevoke = d.revocations.onRevoke(user.id, () => res.end());
-    req.on('close', () => {
-      clearInterval(ping);
-      unsubscribe();
-      unrevoke();
-    });
-  });
-
   router.get('/clips/:id', permit('clip:read'), async (req, res) => {
     res.json(await d.clips.get(currentUser(req), idParam(req.params, 'Clip')));
   });
@@ -190,23 +158,25 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
     const seen = req.session.viewedClips ?? [];
     if (seen.includes(clipId)) return;
     req.session.viewedClips = [...seen.slice(-199), clipId];
+    // Saved before the answer streams: a client holding every byte (Content-Length) may ask again
+    // before the session would otherwise be saved at the end of this response.
+    await new Promise<void>((resolve, reject) => req.session.save((err) => (err ? reject(err) : resolve())));
     await audit(d.db, { clinicId: user.clinicId, actorId: user.id, athleteId, action: 'media.viewed', detail: { clipId } });
   }
 
   const sendMedia =
-    (kind: 'frame' | 'thumb' | 'poster' | 'manifest' | 'original'): RequestHandler =>
-    async (req, res, next) => {
+    (what: ClipMediaWhat): RequestHandler =>
+    async (req, res) => {
       const params = MediaIndexParams.safeParse({ n: 0, ...req.params });
       if (!params.success) throw new NotFoundError('File');
       const user = currentUser(req);
-      const { file, row } = await d.clips.mediaPath(user, params.data.id, kind, params.data.n);
+      const { key, type, row } = await d.clips.media(user, params.data.id, what, params.data.n);
       await auditView(req, user, row.id, row.athlete_id);
-      const headers: Record<string, string> = {
-        'Cache-Control': kind === 'original' || kind === 'manifest' ? 'private, no-cache' : IMMUTABLE,
-      };
-      if (kind === 'original') headers['Content-Disposition'] = contentDisposition(row.original_name);
-      res.sendFile(file, { headers, cacheControl: false, dotfiles: 'deny', lastModified: false }, (err) => {
-        if (err && !res.headersSent) next(new NotFoundError('File'));
+      await sendStored(res, d.store, key, {
+        type,
+        // A frame's bytes never change once it is served (frames are only served when complete).
+        cacheControl: what === 'original' || what === 'manifest' ? 'private, no-cache' : IMMUTABLE,
+        disposition: what === 'original' ? contentDisposition(row.original_name) : undefined,
       });
     };
 

@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import knexFactory, { type Knex } from 'knex';
+import { SqliteClient } from './sqlite-client';
 
 export type Db = Knex;
 
@@ -36,24 +37,14 @@ class TsMigrationSource implements Knex.MigrationSource<string> {
   }
 }
 
-/** Knex options for SQLite through better-sqlite3; also used by `knexfile.ts`. */
+/** Knex options for SQLite through better-sqlite3 (see `sqlite-client.ts`); also used by `knexfile.ts`. */
 export function knexOptions(filename: string): Knex.Config {
   return {
-    client: 'better-sqlite3',
+    client: SqliteClient as unknown as Knex.Config['client'],
     connection: { filename },
     useNullAsDefault: true,
-    pool: {
-      min: 1,
-      max: 1,
-      afterCreate(conn: { pragma(s: string): unknown }, done: (err: Error | null, conn: unknown) => void) {
-        // WAL lets readers run beside the writer; FKs are off by default in SQLite.
-        conn.pragma('journal_mode = WAL');
-        conn.pragma('foreign_keys = ON');
-        conn.pragma('busy_timeout = 5000');
-        conn.pragma('synchronous = NORMAL');
-        done(null, conn);
-      },
-    },
+    // One writer: SQLite takes one at a time, and a second would block the event loop on the lock.
+    pool: { min: 1, max: 1 },
     migrations: { migrationSource: new TsMigrationSource(MIGRATIONS_DIR), tableName: 'knex_migrations' },
   };
 }

@@ -5,6 +5,11 @@ import { doubleCsrf } from 'csrf-csrf';
 /** Readable cookie Angular's HttpClient copies into the `X-XSRF-TOKEN` header. */
 export const XSRF_COOKIE = 'XSRF-TOKEN';
 export const XSRF_HEADER = 'x-xsrf-token';
+/** Valid (cookie, session) pairs remembered; the oldest goes first. */
+const KNOWN_TOKENS_MAX = 10_000;
+
+/** What a token is bound to: the session once signed in; nothing before (sign-in, reset forms). */
+const sessionBinding = (req: Request): string => (req.user ? `session:${req.sessionID}` : '');
 
 /** What the app's CSRF protection offers the routes. */
 export interface Csrf {
@@ -29,7 +34,7 @@ export function createCsrf(secureCookies: boolean, sessionSecret: string): Csrf 
   const { doubleCsrfProtection, generateCsrfToken, validateRequest } = doubleCsrf({
     getSecret: () => key,
     // Bound to the session once signed in; anonymous tokens (sign-in, reset forms) to nothing.
-    getSessionIdentifier: (req) => (req.user ? `session:${req.sessionID}` : ''),
+    getSessionIdentifier: sessionBinding,
     cookieName: XSRF_COOKIE,
     cookieOptions: { httpOnly: false, sameSite: 'lax', secure: secureCookies, path: '/' },
     getCsrfTokenFromRequest: (req) => {
@@ -51,13 +56,26 @@ export function createCsrf(secureCookies: boolean, sessionSecret: string): Csrf 
     (req as Request & { cookies: Record<string, string> }).cookies = value === undefined ? {} : { [XSRF_COOKIE]: value };
   };
 
+  /**
+   * Cookies found valid, by session binding: a token valid for a binding stays valid for it (the
+   * HMAC key never changes while the app runs), so each is checked once, not on every read.
+   */
+  const known = new Map<string, true>();
+
   /** Whether the browser's cookie holds a token valid for this request's session. */
   const cookieValid = (req: Request): boolean => {
     const cookie = (req as Request & { cookies: Record<string, string> }).cookies[XSRF_COOKIE];
     if (!cookie) return false;
+    const key = `${sessionBinding(req)}\n${cookie}`;
+    if (known.has(key)) return true;
     const probe = Object.create(req) as Request;
     Object.defineProperty(probe, 'headers', { value: { ...req.headers, [XSRF_HEADER]: cookie } });
-    return validateRequest(probe);
+    const valid = validateRequest(probe);
+    if (valid) {
+      known.set(key, true);
+      if (known.size > KNOWN_TOKENS_MAX) known.delete(known.keys().next().value!);
+    }
+    return valid;
   };
 
   return {

@@ -3,6 +3,7 @@ import type { Knex } from 'knex';
 import type { Request, RequestHandler } from 'express';
 import session, { type SessionData } from 'express-session';
 import { ConnectSessionKnexStore } from 'connect-session-knex';
+import { preparedRead, type PreparedRead } from '../db/prepared-read';
 
 declare module 'express-session' {
   interface SessionData {
@@ -19,8 +20,31 @@ export const SESSION_MAX_AGE_MS = 12 * 3_600_000;
 export const EXTEND_EVERY_MS = 5 * 60_000;
 const CLEANUP_EVERY_MS = 15 * 60_000;
 
-/** The session store in `sessions` that never writes on a plain touch (see {@link createSessions}). */
+/**
+ * The session store in `sessions`: never writes on a plain touch (see {@link createSessions}), and
+ * reads a session (every signed-in request does) with one prepared statement.
+ */
 class SessionStore extends ConnectSessionKnexStore {
+  private readonly readSession: PreparedRead<{ sess: string }>;
+
+  constructor(options: ConstructorParameters<typeof ConnectSessionKnexStore>[0] & { knex: Knex }) {
+    super(options);
+    // `expired` holds ISO times (connect-session-knex writes them), so text order is time order.
+    this.readSession = preparedRead(options.knex, 'SELECT sess FROM sessions WHERE sid = ? AND expired >= ?');
+  }
+
+  override async get(sid: string, callback?: (err: unknown, session?: SessionData | null) => void): Promise<SessionData | null> {
+    try {
+      const [row] = await this.readSession([sid, new Date().toISOString()]);
+      const session = row ? (JSON.parse(row.sess) as SessionData) : null;
+      callback?.(null, session);
+      return session;
+    } catch (err) {
+      callback?.(err);
+      throw err;
+    }
+  }
+
   override async touch(_sid: string, _session: SessionData, callback?: () => void): Promise<void> {
     callback?.();
   }

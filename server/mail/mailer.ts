@@ -1,11 +1,17 @@
 import nodemailer from 'nodemailer';
 import type { Config } from '../config';
+import type { BrandForDocuments } from '../clinic/clinic-brand';
+import { brandedFields } from './branded-mail';
 
 /** One outgoing e-mail. Keep health data out of it: link into the app instead. */
 export interface MailMessage {
   to: string;
   subject: string;
   text: string;
+  /** The clinic the message is from: {@link brandingMailer} adds its letterhead. */
+  clinicId?: number;
+  /** The sending clinic's letterhead: logo and name on top, legal details at the foot. */
+  brand?: BrandForDocuments;
 }
 
 /** The seam every part of the server sends mail through. */
@@ -26,7 +32,8 @@ export function createSmtpMailer(mail: Config['mail']): Mailer {
   });
   return {
     async send(message) {
-      await transport.sendMail({ from: mail.from, ...message });
+      const { brand, clinicId: _clinic, ...plain } = message;
+      await transport.sendMail({ from: mail.from, ...plain, ...(brand ? brandedFields(plain.text, brand) : {}) });
     },
     close() {
       transport.close();
@@ -36,4 +43,22 @@ export function createSmtpMailer(mail: Config['mail']): Mailer {
 
 function isLoopback(host: string): boolean {
   return host === 'localhost' || host.startsWith('127.') || host === '::1';
+}
+
+/**
+ * Adds the sending clinic's letterhead (logo, name, legal details) to every message that names its
+ * clinic; the inner mailer turns it into the HTML part and footer. A brand that cannot be read
+ * leaves the message plain rather than unsent.
+ */
+export function brandingMailer(inner: Mailer, brandOf: (clinicId: number) => Promise<BrandForDocuments>): Mailer {
+  return {
+    async send(message) {
+      if (message.clinicId === undefined || message.brand) return inner.send(message);
+      const brand = await brandOf(message.clinicId).catch(() => undefined);
+      return inner.send(brand ? { ...message, brand } : message);
+    },
+    close() {
+      inner.close();
+    },
+  };
 }

@@ -25,7 +25,8 @@ export async function sendShareNotice(
     .db('athletes as a')
     .join('clinics as c', 'c.id', 'a.clinic_id')
     .where('a.id', athleteId)
-    .first<{ email: string | null; first_name: string; user_id: number | null; clinic_name: string } | undefined>(
+    .first<{ email: string | null; first_name: string; user_id: number | null; clinic_name: string; clinic_id: number } | undefined>(
+      'a.clinic_id',
       'a.email',
       'a.first_name',
       'a.user_id',
@@ -38,6 +39,7 @@ export async function sendShareNotice(
   try {
     await d.mailer.send({
       to: row.email,
+      clinicId: row.clinic_id,
       subject: `${row.clinic_name} shared something with you on Trailframe`,
       text: [
         `Hello ${row.first_name},`,

@@ -1,5 +1,3 @@
-import fs from 'node:fs';
-import path from 'node:path';
 import type { Knex } from 'knex';
 import type { ClipAnnotations } from '../../src/contracts/annotations';
 import type { SessionUser } from '../../src/contracts/api';
@@ -7,29 +5,32 @@ import type { ClipMeasures } from '../../src/contracts/measures';
 import { computeClipMeasures, KINEMATICS_VERSION } from '../../src/kinematics';
 import type { Db } from '../db/knex';
 import { ConflictError } from '../errors';
-import { MANIFEST_FILE, type FrameManifest } from '../media/manifest';
-import type { MediaStore } from '../storage/media-store';
 import type { ClipRow } from '../clips/clips-repository';
 import type { ClipsService } from '../clips/clips-service';
 import { annotationsRepository } from '../annotations/annotations-repository';
 import { clinicBands } from './reference-bands';
 
 /** Measures of clips, computed with `src/kinematics` and kept as snapshots per annotation revision. */
-export function measuresService({ db, store, clips }: { db: Db; store: MediaStore; clips: ClipsService }) {
-  function manifestOf(clipId: number): FrameManifest | null {
-    try {
-      return JSON.parse(fs.readFileSync(path.join(store.clipDir(clipId), MANIFEST_FILE), 'utf8')) as FrameManifest;
-    } catch {
-      return null;
-    }
-  }
+export interface MeasuresService {
+  /** The measures of marks about to be saved (computed before the save's transaction opens). */
+  computeFor(clip: ClipRow, annotations: ClipAnnotations): Promise<ClipMeasures>;
+  /** Stores the snapshot of a revision, inside the save's transaction. */
+  storeSnapshot(trx: Knex, clip: ClipRow, revision: number, measures: ClipMeasures): Promise<void>;
+  forClip(user: SessionUser, clipId: number): Promise<ClipMeasures>;
+  forAssessment(user: SessionUser, assessmentId: number): Promise<ClipMeasures[]>;
+  /** Measures of an assessment's ready clips, without an access check (callers check). */
+  ofAssessment(assessmentId: number): Promise<ClipMeasures[]>;
+}
 
+export function measuresService({ db, clips }: { db: Db; clips: ClipsService }): MeasuresService {
   /** Computes a clip's measures from its annotations (pure kinematics; no writes). */
   async function compute(trx: Knex, clip: ClipRow, annotations: ClipAnnotations): Promise<ClipMeasures> {
     const assessment = await trx('assessments')
       .where({ id: clip.assessment_id })
       .first<{ surface: string; speed_mps: number | null; clinic_id: number }>('surface', 'speed_mps', 'clinic_id');
-    const manifest = manifestOf(clip.id);
+    // The manifest is the one source of the clip's media facts (frame size, rate, timestamps).
+    const manifest = await clips.manifest(clip.id);
+    if (!manifest) throw new ConflictError('This clip is not ready yet.', 'clip_not_ready');
     const bands = await clinicBands(trx, clip.clinic_id);
     // A slow-motion file plays slower than it was filmed: with a capture rate set, its own
     // timestamps are not real time, so timing uses the capture rate alone.
@@ -37,14 +38,14 @@ export function measuresService({ db, store, clips }: { db: Db; store: MediaStor
     return computeClipMeasures({
       clipId: clip.id,
       annotations: { landmarks: annotations.landmarks, events: annotations.events, scale: annotations.scale },
-      frameSize: { width: manifest?.width ?? clip.width ?? 1, height: manifest?.height ?? clip.height ?? 1 },
-      fps: clip.capture_fps ?? clip.fps ?? manifest?.fps ?? 30,
-      timestampsMs: slowMotion ? undefined : manifest?.timestampsMs,
+      frameSize: { width: manifest.width, height: manifest.height },
+      fps: clip.capture_fps ?? manifest.fps,
+      timestampsMs: slowMotion ? undefined : manifest.timestampsMs,
       direction: clip.direction,
       surface: (assessment?.surface ?? 'treadmill') as 'treadmill',
       beltSpeedMps: assessment?.surface === 'treadmill' ? (assessment.speed_mps ?? null) : null,
       bands,
-      frameCount: clip.frame_count ?? undefined,
+      frameCount: manifest.frameCount,
     });
   }
 
@@ -86,9 +87,17 @@ export function measuresService({ db, store, clips }: { db: Db; store: MediaStor
   }
 
   return {
-    /** Called inside the annotation save's transaction. */
-    async afterSave(trx: Knex, clip: ClipRow, annotations: ClipAnnotations): Promise<void> {
-      await store_(trx, clip, annotations.revision, await compute(trx, clip, annotations));
+    /**
+     * The measures of marks about to be saved, computed before the save's transaction opens (it
+     * reads committed rows only), so the one writing connection is not held while they compute.
+     */
+    computeFor(clip: ClipRow, annotations: ClipAnnotations): Promise<ClipMeasures> {
+      return compute(db, clip, annotations);
+    },
+
+    /** Stores the snapshot of a revision, inside the save's transaction. */
+    storeSnapshot(trx: Knex, clip: ClipRow, revision: number, measures: ClipMeasures): Promise<void> {
+      return store_(trx, clip, revision, measures);
     },
 
     async forClip(user: SessionUser, clipId: number): Promise<ClipMeasures> {
@@ -105,5 +114,3 @@ export function measuresService({ db, store, clips }: { db: Db; store: MediaStor
     ofAssessment,
   };
 }
-
-export type MeasuresService = ReturnType<typeof measuresService>;

@@ -1,7 +1,10 @@
 /**
- * Pure planning for frame extraction: working size, thumbnail cadence, the ffmpeg filtergraph,
- * and reading frame timestamps from ffmpeg's `showinfo` log. No I/O.
+ * Pure planning for frame extraction: working size, thumbnail cadence, the manifest before any
+ * frame exists, the ffmpeg filtergraph, and reading frame timestamps from ffmpeg's `showinfo`
+ * log. No I/O.
  */
+import type { FrameManifest } from '../../src/contracts/api';
+import type { VideoProbe } from './probe-parse';
 
 /** A width × height pair in pixels. */
 export interface Size {
@@ -124,4 +127,41 @@ export function frameTimestamps(
     return { timestampsMs: times.map((t) => round((t - t0) * 1000)), source: 'decoded' };
   }
   return { timestampsMs: Array.from({ length: frameCount }, (_, i) => round((i * 1000) / fps)), source: 'computed' };
+}
+
+/** Sizes and quality of an extraction (defaults: {@link DEFAULT_LONG_SIDE}, {@link DEFAULT_THUMB_LONG_SIDE}, {@link DEFAULT_QUALITY}). */
+export interface ExtractSizes {
+  longSide?: number;
+  thumbLongSide?: number;
+  quality?: number;
+}
+
+/**
+ * The manifest of a clip before extraction (`complete: false`): working and thumbnail sizes from
+ * the probe, the probe's frame count, and timestamps computed as i × 1000 / fps. Extraction
+ * replaces it with the complete one; the review can open on it while frames arrive.
+ */
+export function plannedManifest(probe: VideoProbe, sizes: ExtractSizes = {}): FrameManifest {
+  const quality = sizes.quality ?? DEFAULT_QUALITY;
+  if (!Number.isInteger(quality) || quality < 2 || quality > 31) throw new RangeError(`quality must be an integer 2–31, got ${quality}`);
+  const frame = fitLongSide({ width: probe.displayWidth, height: probe.displayHeight }, sizes.longSide ?? DEFAULT_LONG_SIDE);
+  const thumb = fitLongSide(frame, sizes.thumbLongSide ?? DEFAULT_THUMB_LONG_SIDE);
+  const every = thumbEvery(probe.fps, probe.frameCount);
+  return {
+    version: 1,
+    complete: false,
+    frameCount: probe.frameCount,
+    width: frame.width,
+    height: frame.height,
+    fps: probe.fps,
+    durationS: probe.durationS,
+    rotationApplied: probe.rotation,
+    timestampsMs: frameTimestamps([], probe.frameCount, probe.fps).timestampsMs,
+    timestampsSource: 'computed',
+    thumbEvery: every,
+    thumbCount: thumbCount(probe.frameCount, every),
+    thumbWidth: thumb.width,
+    thumbHeight: thumb.height,
+    quality,
+  };
 }

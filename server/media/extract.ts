@@ -1,24 +1,21 @@
-import { mkdir, mkdtemp, readdir, rename, rm } from 'node:fs/promises';
+import { existsSync } from 'node:fs';
+import { mkdir, readdir, rm } from 'node:fs/promises';
 import path from 'node:path';
 import ffmpeg from 'fluent-ffmpeg';
 import {
-  DEFAULT_LONG_SIDE,
-  DEFAULT_QUALITY,
   DEFAULT_SCALE_FLAGS,
   DEFAULT_SCALER,
-  DEFAULT_THUMB_LONG_SIDE,
   THUMB_QUALITY,
   filterGraph,
-  fitLongSide,
   frameTimestamps,
   jpegPixelOptions,
   parseShowinfoLine,
-  thumbEvery,
+  plannedManifest,
   type Scaler,
   type ShowinfoFrame,
   type Size,
 } from './extract-plan';
-import { FRAMES_DIR, MANIFEST_FILE, THUMBS_DIR, writeManifest, type FrameManifest } from './manifest';
+import { FRAMES_DIR, THUMBS_DIR, frameFileName, writeManifest, type FrameManifest } from './manifest';
 import { MediaError } from './media-error';
 import { probeVideo, type VideoProbe } from './probe';
 
@@ -32,7 +29,11 @@ export interface ExtractOptions {
   quality?: number;
   /** Long side of thumbnails in px (default 160). */
   thumbLongSide?: number;
-  /** Called as frames are written (from ffmpeg's progress reports, about twice a second). */
+  /**
+   * Called as frames are written, in order: frames 0 … done − 1 are complete files (from ffmpeg's
+   * progress reports, every {@link STATS_PERIOD_S} s). Goes back to 0 if the extraction restarts
+   * with the fallback scaler.
+   */
   onProgress?: (done: number, total: number) => void;
   /** Aborting kills ffmpeg and removes everything this call wrote. */
   signal?: AbortSignal;
@@ -44,7 +45,18 @@ export interface ExtractOptions {
   scaleFlags?: string;
   /** Scaler (default {@link DEFAULT_SCALER}; falls back to swscale by itself if zscale fails). */
   scaler?: Scaler;
+  /** More decoder options before the input (the benchmark tries e.g. `-skip_loop_filter all`). */
+  inputOptions?: string[];
+  /** More encoder options of the frame JPEGs (the benchmark tries e.g. `-huffman default`). */
+  jpegOptions?: string[];
+  /** CPU priority of ffmpeg (`nice` value, 0–19; default {@link FFMPEG_NICE}), so web requests stay responsive. */
+  nice?: number;
 }
+
+/** How often ffmpeg reports progress, s: the first frames are announced within this of being written. */
+export const STATS_PERIOD_S = 0.1;
+/** Default niceness of ffmpeg: below the web server, so requests are answered while frames are made. */
+export const FFMPEG_NICE = 10;
 
 const aborted = () => new MediaError('aborted', 'Frame extraction was cancelled.');
 /** ffmpeg output that means zscale itself failed (missing filter, zimg colourspace refusal). */
@@ -62,9 +74,15 @@ async function countJpegs(dir: string): Promise<number> {
   return (await readdir(dir)).filter((f) => JPG.test(f)).length;
 }
 
+/**
+ * Frame extraction runs at this niceness (`nice -n`): on a busy machine the API (autosave, page
+ * reads) keeps its share of the cores, and extraction takes whatever is left.
+ */
+export const EXTRACT_NICENESS = 10;
+
 interface Run {
   input: string;
-  staging: string;
+  outDir: string;
   frame: Size;
   thumb: Size;
   every: number;
@@ -79,13 +97,16 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
   const { opts } = run;
   return new Promise((resolve, reject) => {
     const logged: ShowinfoFrame[] = [];
+    /** Frames whose files exist (0 … written − 1). */
+    let written = 0;
     const pixel = jpegPixelOptions(run.scaler);
-    const inputOptions = ['-hide_banner', '-xerror'];
+    const inputOptions = ['-hide_banner', '-xerror', '-stats_period', String(STATS_PERIOD_S)];
     if (opts.threads !== undefined) inputOptions.push('-threads', String(opts.threads));
-    const command = ffmpeg(run.input)
+    if (opts.inputOptions) inputOptions.push(...opts.inputOptions);
+    const command = ffmpeg(run.input, { niceness: EXTRACT_NICENESS })
       .inputOptions(inputOptions)
       .complexFilter(filterGraph(run.frame, run.thumb, run.every, run.scaler, opts.scaleFlags ?? DEFAULT_SCALE_FLAGS))
-      .output(path.join(run.staging, FRAMES_DIR, '%06d.jpg'))
+      .output(path.join(run.outDir, FRAMES_DIR, '%06d.jpg'))
       .outputOptions([
         '-map',
         '[frames]',
@@ -96,10 +117,14 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
         ...pixel,
         '-q:v',
         String(run.quality),
+        ...(opts.jpegOptions ?? []),
         '-f',
         'image2',
+        // Each file appears whole (temp file + rename), so one that exists can be served.
+        '-atomic_writing',
+        '1',
       ])
-      .output(path.join(run.staging, THUMBS_DIR, '%06d.jpg'))
+      .output(path.join(run.outDir, THUMBS_DIR, '%06d.jpg'))
       .outputOptions([
         '-map',
         '[thumbs]',
@@ -112,6 +137,8 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
         String(THUMB_QUALITY),
         '-f',
         'image2',
+        '-atomic_writing',
+        '1',
       ])
       // An abort that came while fluent-ffmpeg was still preparing finds no process to kill.
       .on('start', () => {
@@ -120,6 +147,17 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
       .on('stderr', (line: string) => {
         const frame = parseShowinfoLine(line);
         if (frame) logged.push(frame);
+        else if (opts.onProgress) {
+          // ffmpeg's own status line ("frame=  123 fps=…"), read here rather than through
+          // fluent-ffmpeg's progress event, which would run an extra ffprobe on the input. The
+          // muxer writes in its own thread, so the count can run ahead of the files: only frames
+          // whose (atomically written) file exists count, in order.
+          const encoded = parseFrameCount(line);
+          if (encoded === null) return;
+          const before = written;
+          while (written < Math.min(encoded, run.total) && existsSync(path.join(run.outDir, FRAMES_DIR, frameFileName(written)))) written++;
+          if (written > before || encoded === 0) opts.onProgress(written, run.total);
+        }
       })
       .on('end', () => {
         opts.signal?.removeEventListener('abort', onAbort);
@@ -136,14 +174,10 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
         const failure = extractFailure(`${err.message}\n${tail}`, logged.length);
         reject(run.scaler === 'zscale' && ZSCALE_TROUBLE.test(`${err.message}\n${tail}`) ? new ScalerFailed(failure) : failure);
       });
-    if (opts.onProgress) {
-      const report = opts.onProgress;
-      command.on('progress', (p: { frames?: number }) => {
-        if (typeof p.frames === 'number' && Number.isFinite(p.frames)) report(Math.min(p.frames, run.total), run.total);
-      });
-    }
     const onAbort = () => command.kill('SIGKILL');
     opts.signal?.addEventListener('abort', onAbort, { once: true });
+    // Below the web server's priority (fluent-ffmpeg starts it through `nice`).
+    if ((opts.nice ?? FFMPEG_NICE) > 0) command.renice(Math.min(19, opts.nice ?? FFMPEG_NICE));
     command.run();
   });
 }
@@ -163,6 +197,20 @@ export function extractFailure(text: string, framesDone: number): MediaError {
   return new MediaError('extract_failed', 'We could not turn this clip into frames.', text);
 }
 
+/** Frames written so far from ffmpeg's status line (`frame=  123 fps=…`), or null for other lines. */
+export function parseFrameCount(line: string): number | null {
+  const m = /^\s*frame=\s*(\d+)\s/.exec(line);
+  return m ? Number(m[1]) : null;
+}
+
+/** Empties the frame and thumbnail folders of `outDir` (creating them). */
+async function freshFolders(outDir: string): Promise<void> {
+  for (const dir of [FRAMES_DIR, THUMBS_DIR]) {
+    await rm(path.join(outDir, dir), { recursive: true, force: true });
+    await mkdir(path.join(outDir, dir), { recursive: true });
+  }
+}
+
 /**
  * Decodes every frame of a clip once with ffmpeg and writes, under `outDir`:
  * - `frames/000001.jpg …`: one JPEG per decoded frame (`-fps_mode passthrough`: no frame is
@@ -171,11 +219,12 @@ export function extractFailure(text: string, framesDone: number): MediaError {
  *   or swscale when zscale is unavailable);
  * - `thumbs/000001.jpg …`: one thumbnail every `thumbEvery` frames (≈ 10 per second of video,
  *   ≤ 600 per clip; thumb k shows frame (k − 1)·thumbEvery), long side ≤ `thumbLongSide`;
- * - `manifest.json` ({@link FrameManifest}), written last — its presence means "complete".
+ * - `manifest.json` ({@link FrameManifest}, `complete: true`), written last.
  *
- * Output is built in a hidden staging folder and moved into place only on success, so a failure
- * or an abort leaves no partial frames (and an earlier complete extraction stays as it was until
- * it is replaced). `outDir` may also hold the source clip; nothing else in it is touched.
+ * Frames are written in place and in order, so the first ones can be shown while the rest are
+ * made (`onProgress` says how many are complete). The frame and thumbnail folders are emptied
+ * first; a failure or an abort removes them again, so nothing half-made is left. `outDir` may also
+ * hold the source clip and a planned manifest; nothing else in it is touched.
  *
  * @throws {MediaError} `aborted`, `extract_failed` (damaged or truncated stream: ffmpeg runs with
  *   `-xerror`, so any decoding error stops it), `tool_missing`, or any error of {@link probeVideo}.
@@ -185,21 +234,26 @@ export async function extractFrames(input: string, outDir: string, opts: Extract
   if (signal?.aborted) throw aborted();
   const probe = opts.probe ?? (await probeVideo(input));
   if (signal?.aborted) throw aborted();
-  const quality = opts.quality ?? DEFAULT_QUALITY;
-  if (!Number.isInteger(quality) || quality < 2 || quality > 31) throw new RangeError(`quality must be an integer 2–31, got ${quality}`);
-  const frame = fitLongSide({ width: probe.displayWidth, height: probe.displayHeight }, opts.longSide ?? DEFAULT_LONG_SIDE);
-  const thumb = fitLongSide(frame, opts.thumbLongSide ?? DEFAULT_THUMB_LONG_SIDE);
-  const every = thumbEvery(probe.fps, probe.frameCount);
+  const plan = plannedManifest(probe, opts);
+  const frame: Size = { width: plan.width, height: plan.height };
+  const thumb: Size = { width: plan.thumbWidth, height: plan.thumbHeight };
 
   await mkdir(outDir, { recursive: true });
-  const staging = await mkdtemp(path.join(outDir, '.extract-'));
   try {
     const attempt = async (scaler: Scaler) => {
-      for (const dir of [FRAMES_DIR, THUMBS_DIR]) {
-        await rm(path.join(staging, dir), { recursive: true, force: true });
-        await mkdir(path.join(staging, dir));
-      }
-      return runFfmpeg({ input, staging, frame, thumb, every, quality, total: probe.frameCount, scaler, opts });
+      await freshFolders(outDir);
+      opts.onProgress?.(0, probe.frameCount);
+      return runFfmpeg({
+        input,
+        outDir,
+        frame,
+        thumb,
+        every: plan.thumbEvery,
+        quality: plan.quality,
+        total: probe.frameCount,
+        scaler,
+        opts,
+      });
     };
     const scaler = opts.scaler ?? DEFAULT_SCALER;
     let logged: ShowinfoFrame[];
@@ -213,7 +267,7 @@ export async function extractFrames(input: string, outDir: string, opts: Extract
       });
     }
     if (signal?.aborted) throw aborted();
-    const frameCount = await countJpegs(path.join(staging, FRAMES_DIR));
+    const frameCount = await countJpegs(path.join(outDir, FRAMES_DIR));
     if (frameCount === 0 || frameCount < 0.9 * probe.frameCount) {
       throw new MediaError(
         'extract_failed',
@@ -223,30 +277,28 @@ export async function extractFrames(input: string, outDir: string, opts: Extract
     }
     const { timestampsMs, source } = frameTimestamps(logged, frameCount, probe.fps);
     const manifest: FrameManifest = {
-      version: 1,
+      ...plan,
+      complete: true,
       frameCount,
-      width: frame.width,
-      height: frame.height,
-      fps: probe.fps,
-      durationS: probe.durationS,
-      rotationApplied: probe.rotation,
       timestampsMs,
       timestampsSource: source,
-      thumbEvery: every,
-      thumbCount: await countJpegs(path.join(staging, THUMBS_DIR)),
-      thumbWidth: thumb.width,
-      thumbHeight: thumb.height,
-      quality,
+      thumbCount: await countJpegs(path.join(outDir, THUMBS_DIR)),
     };
-    await rm(path.join(outDir, MANIFEST_FILE), { force: true });
-    for (const dir of [FRAMES_DIR, THUMBS_DIR]) {
-      await rm(path.join(outDir, dir), { recursive: true, force: true });
-      await rename(path.join(staging, dir), path.join(outDir, dir));
-    }
     await writeManifest(outDir, manifest);
     opts.onProgress?.(frameCount, frameCount);
     return manifest;
-  } finally {
-    await rm(staging, { recursive: true, force: true });
+  } catch (err) {
+    for (const dir of [FRAMES_DIR, THUMBS_DIR]) await rm(path.join(outDir, dir), { recursive: true, force: true });
+    throw err;
   }
+}
+
+/**
+ * Makes fluent-ffmpeg look up ffmpeg, its formats and encoders now (it caches them per process),
+ * so the first extraction starts without that delay. Best effort.
+ */
+export function warmUpFfmpeg(): Promise<void> {
+  return new Promise((resolve) => {
+    ffmpeg.getAvailableFormats(() => ffmpeg.getAvailableEncoders(() => resolve()));
+  });
 }

@@ -10,6 +10,21 @@ export const THUMBS_DIR = 'thumbs';
 
 export type { FrameManifest } from '../../src/contracts/api';
 import type { FrameManifest } from '../../src/contracts/api';
+import type { VideoProbe } from './probe-parse';
+
+/**
+ * A clip's manifest as stored: the frame manifest the review reads, plus the probe of the
+ * original (`source`) taken when the upload was accepted, so processing need not probe again.
+ * The one source of a clip's media facts; the clip row keeps copies only for queries.
+ */
+export interface ClipManifest extends FrameManifest {
+  source?: VideoProbe;
+}
+
+/** Whether every frame of the manifest exists (manifests older than the `complete` field do). */
+export function isComplete(manifest: FrameManifest): boolean {
+  return manifest.complete !== false;
+}
 
 /** File name of frame `index` (0-based) inside `frames/` or `thumbs/`: `000001.jpg` for 0. */
 export function frameFileName(index: number): string {

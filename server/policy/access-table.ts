@@ -81,10 +81,16 @@ export const ACCESS_TABLE = {
   'clip:update-settings': staffAndSelf('unmarked'),
   'clip:delete': staffAndSelf('own-upload'),
   'clip:retry': staffAndSelf(),
+  /** The progress stream of an athlete's processed items (the athlete sees the kinds that say so). */
+  'processing:follow': staffAndSelf(),
+  /** Every kind on that stream (stills and summaries still rendering, not only clips). */
+  'processing:see-all': STAFF,
 
   // ── Annotation, measures, comparison, reference bands (staff) ──
   'annotation:read': STAFF,
   'annotation:write': STAFF,
+  /** Ask for gait events proposed from the clip's landmarks (saved as proposals). */
+  'event:propose': STAFF,
   'measure:read': STAFF,
   'comparison:read': STAFF,
   'reference-band:list': STAFF,
@@ -110,12 +116,24 @@ export const ACCESS_TABLE = {
   'plan-log:list': staffAndSelf('not-draft'),
   'plan-log:create': { athlete: self('not-draft') },
   'plan-log:morning-check': { athlete: self('not-draft') },
+  /**
+   * Demonstration pictures of an exercise. An athlete reaches them (scope `self`) only for an
+   * exercise on a stage of one of their own plans that is not a draft.
+   */
+  'demo:list': staffAndSelf(),
+  'demo:read': staffAndSelf(),
+  'demo:create': STAFF,
+  'demo:update': STAFF,
+  'demo:delete': STAFF,
 
   // ── Billing (coaches have none) ──
   'billing-settings:read': OWNER,
   'billing-settings:update': OWNER,
   'clinic-legal:read': OWNER,
   'clinic-legal:update': OWNER,
+  /** The caller's own clinic's name, legal details and logo, as its pages show them (no id: the caller's clinic). */
+  'clinic-brand:read': staffAndSelf(),
+  'clinic-logo:update': OWNER,
   'price:list': OWNER,
   'price:create': OWNER,
   'price:update': OWNER,

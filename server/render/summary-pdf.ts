@@ -5,6 +5,8 @@ import { thresholdText, verdictText } from '../../src/kinematics/comparison';
 import { bandRange, formatMeasure, formatValue } from '../../src/kinematics/format';
 import { registerPdfFonts } from './fonts';
 import { INK, MARGIN, MUTED, pdfLayout } from './pdf-layout';
+import { drawLogoTopRight } from './pdf-letterhead';
+import type { LogoImage } from '../clinic/clinic-brand';
 
 /** One visit's facts for the header table. */
 export interface SummaryVisit {
@@ -29,6 +31,10 @@ export interface SummaryStill {
 /** Everything the visit summary shows; assembled by the summaries service. */
 export interface SummaryDocument {
   clinicName: string;
+  /** The clinic's logo (PNG with transparency), top right of the first page. */
+  clinicLogo?: LogoImage | null;
+  /** The clinic's legal name, address, tax number and contact line, under its name. */
+  clinicLegalLines?: string[];
   athleteName: string;
   title: string;
   /** Date the PDF was made, shown in the header ("1 Dec 2026"). */
@@ -124,8 +130,11 @@ export async function renderSummaryPdf(
     `${bandRange(band)}\n${shortCitation(band.source)} [${sources.ref(plainCitation(band.source, band.evidence))}]`;
 
   // ── Header ──
-  doc.font('semibold').fontSize(10).fillColor(MUTED).text(clinicName, MARGIN, MARGIN, { width });
-  doc.font('bold').fontSize(22).fillColor(INK).text(doc0.title, { width });
+  const headWidth = width - drawLogoTopRight(doc, doc0.clinicLogo ?? null, MARGIN);
+  doc.font('semibold').fontSize(10).fillColor(MUTED).text(clinicName, MARGIN, MARGIN, { width: headWidth });
+  const legal = (doc0.clinicLegalLines ?? []).map(printable).filter((l) => l && l !== clinicName);
+  if (legal.length) doc.font('regular').fontSize(8).fillColor(MUTED).text(legal.join(' · '), { width: headWidth });
+  doc.font('bold').fontSize(22).fillColor(INK).text(doc0.title, { width: headWidth });
   doc.font('regular').fontSize(12).fillColor(INK).text(`Athlete: ${athleteName}`, { width });
   doc
     .font('regular')

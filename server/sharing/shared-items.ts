@@ -19,6 +19,12 @@ export interface SharedRow {
   published_at: string | null;
 }
 
+/** Progress 0–1 of a still or summary: 1 once ready, else its render's progress. */
+export function renderProgress(r: { status: RenderStatus; item_done: number | null; item_total: number | null }): number {
+  if (r.status === 'ready') return 1;
+  return r.status === 'rendering' && r.item_total ? Math.min(1, (r.item_done ?? 0) / r.item_total) : 0;
+}
+
 /** Where each kind lives and how it is named in messages and the audit log. */
 const KINDS: Record<SharedKind, { table: string; what: string; idKey: string }> = {
   still: { table: 'stills', what: 'Still', idKey: 'stillId' },

@@ -1,6 +1,8 @@
 import type { Knex } from 'knex';
 import type { RenderStatus, Still, StillLabel, StillPanel, StillRect } from '../../src/contracts/sharing';
 import type { StillPanelInput } from '../render/still-render';
+import { joinLatestItem } from '../processing/processed-items-repository';
+import { renderProgress } from '../sharing/shared-items';
 
 /** A panel as stored: what the API shows plus the overlay frozen at save time (all but the image). */
 export interface StoredPanel extends StillPanel, Omit<StillPanelInput, 'image'> {}
@@ -16,7 +18,6 @@ export interface StillRow {
   caption: string;
   show_angles: number | boolean;
   status: RenderStatus;
-  progress: number;
   error: string | null;
   width: number | null;
   height: number | null;
@@ -30,13 +31,13 @@ export interface StillRow {
   updated_at: string;
 }
 
-/** A row joined with the names the API shows. */
-type StillView = StillRow & { created_by_name: string | null; published_by_name: string | null };
-
-/** File names of a still inside its clip's `stills/` folder. */
-export function stillFiles(id: number, version: number): { png: string; jpeg: string } {
-  return { png: `${id}-v${version}.png`, jpeg: `${id}-v${version}-phone.jpg` };
-}
+/** A row joined with the names the API shows and its newest processed item's progress. */
+type StillView = StillRow & {
+  created_by_name: string | null;
+  published_by_name: string | null;
+  item_done: number | null;
+  item_total: number | null;
+};
 
 export const STILL_CLIP_DELETED = 'The clip of this still was deleted, so its image is gone. Save a new still from another clip.';
 
@@ -63,13 +64,19 @@ export const stillsRepository = {
   },
 
   async view(db: Knex, where: Record<string, unknown>, opts: { publishedOnly: boolean }): Promise<Still[]> {
-    const q = db('stills as s')
+    const q = joinLatestItem(db('stills as s'), db, 'still', 's')
       .leftJoin('users as cu', 'cu.id', 's.created_by')
       .leftJoin('users as pu', 'pu.id', 's.published_by')
       .where(Object.fromEntries(Object.entries(where).map(([k, v]) => [`s.${k}`, v])))
       .orderBy('s.created_at', 'desc')
       .orderBy('s.id', 'desc')
-      .select<StillView[]>('s.*', 'cu.name as created_by_name', 'pu.name as published_by_name');
+      .select<StillView[]>(
+        's.*',
+        'cu.name as created_by_name',
+        'pu.name as published_by_name',
+        'pi.progress_done as item_done',
+        'pi.progress_total as item_total',
+      );
     if (opts.publishedOnly) q.whereNotNull('s.published_at').whereNotNull('s.clip_id').where('s.status', 'ready');
     return (await q).map(toApi);
   },
@@ -88,7 +95,7 @@ function toApi(r: StillView): Still {
     caption: r.caption,
     showAngles: Boolean(r.show_angles),
     status: clipGone ? 'failed' : r.status,
-    progress: r.progress,
+    progress: renderProgress(r),
     error: clipGone ? STILL_CLIP_DELETED : r.error,
     width: r.width,
     height: r.height,

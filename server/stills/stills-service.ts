@@ -1,5 +1,3 @@
-import fs from 'node:fs';
-import path from 'node:path';
 import type { Logger } from 'pino';
 import type { SessionUser } from '../../src/contracts/api';
 import { ASSESSMENT_KIND_LABELS, type AssessmentKind, type Direction, type Side } from '../../src/contracts/assessment';
@@ -11,32 +9,53 @@ import { audit } from '../audit/audit-log';
 import type { Action } from '../policy/access-table';
 import { accessibleAthlete } from '../policy/athlete-resources';
 import { listGrant, throughSelfGrant } from '../policy/enforce';
-import type { JobQueue, Job, SubjectFailure } from '../jobs/job-queue';
-import { PermanentJobError, type JobHandler } from '../jobs/worker';
+import type { Processing } from '../processing/processing';
+import { clipKeys } from '../storage/media-keys';
 import type { MediaStore } from '../storage/media-store';
+import { readSmall } from '../storage/stored-objects';
 import type { Mailer } from '../mail/mailer';
 import { accessibleShared, setPublication } from '../sharing/shared-items';
-import { FRAMES_DIR, frameFileName, readManifest } from '../media/manifest';
 import type { ClipRow } from '../clips/clips-repository';
 import type { ClipsService } from '../clips/clips-service';
 import { annotationsRepository } from '../annotations/annotations-repository';
-import { renderStill } from '../render/still-render';
-import { STILL_CLIP_DELETED, stillFiles, stillsRepository as repo, type StillRow, type StoredPanel } from './stills-repository';
-
-export const RENDER_STILL_JOB = 'render_still';
-export const STILLS_DIR = 'stills';
-const subjectOf = (id: number) => `still:${id}`;
+import { STILL_CLIP_DELETED, stillsRepository as repo, type StillRow, type StoredPanel } from './stills-repository';
+import { RENDER_STILL, removeStillImages, renderStillKind } from './render-still-kind';
 
 export interface StillsDeps {
   db: Db;
   store: MediaStore;
-  queue: JobQueue;
+  processing: Processing;
   clips: ClipsService;
   mailer: Mailer;
   logger: Logger;
   publicUrl: string;
   clock: () => Date;
-  wakeWorker: () => void;
+}
+
+/** A stored still image to send. */
+export interface StillImage {
+  key: string;
+  type: 'image/png' | 'image/jpeg';
+}
+
+/**
+ * Annotated stills: save (the overlay frozen as it is), render as the `render_still` processed
+ * item, caption, publish, serve.
+ */
+export interface StillsService {
+  /** A still this user may see: staff any of their clinic's; an athlete only their published ones. */
+  accessibleStill(user: SessionUser, id: number): Promise<StillRow>;
+  create(user: SessionUser, clipId: number, body: StillCreate): Promise<Still>;
+  list(user: SessionUser, athleteId: number): Promise<Still[]>;
+  get(user: SessionUser, id: number): Promise<Still>;
+  /** A new caption is drawn on the image: a new render version is queued. */
+  updateCaption(user: SessionUser, id: number, caption: string): Promise<Still>;
+  setPublished(user: SessionUser, id: number, publish: boolean): Promise<Still>;
+  remove(user: SessionUser, id: number): Promise<void>;
+  /** The stored image of a ready still; logs an athlete's view in the audit log. */
+  image(user: SessionUser, id: number, format: 'png' | 'jpeg'): Promise<StillImage>;
+  /** The PNG bytes and row of a ready still (for summaries), or null when it has none. */
+  pngOf(id: number): Promise<{ png: Buffer; row: StillRow } | null>;
 }
 
 /** "6 Oct 2026" from `2026-10-06`. */
@@ -79,10 +98,10 @@ export function freezePanel(p: {
   };
 }
 
-/** Annotated stills: save (frozen overlay), render as a job, caption, publish, serve. */
-export function stillsService(d: StillsDeps) {
-  const { db } = d;
+export function stillsService(d: StillsDeps): StillsService {
+  const { db, processing } = d;
   const now = () => d.clock().toISOString();
+  processing.register(renderStillKind(d));
 
   /** A still this user may reach for `action`: staff any of their clinic's; an athlete only their published ones. */
   const accessibleStill = (user: SessionUser, id: number, action: Action = 'still:read') =>
@@ -104,37 +123,29 @@ export function stillsService(d: StillsDeps) {
         { path: field.split('.'), message: `Choose a frame from 0 to ${Math.max(0, count - 1)}.` },
       ]);
     }
-    const manifest = await readManifest(d.store.clipDir(clip.id));
+    const manifest = await d.clips.manifest(clip.id);
+    if (!manifest) throw new ConflictError('This clip’s frames are gone: process it again.', 'clip_not_ready');
     const assessment = await db('assessments')
       .where({ id: clip.assessment_id })
       .first<{ kind: AssessmentKind; date: string }>('kind', 'date');
-    const ms = manifest?.timestampsMs?.[frameIndex];
+    const ms = manifest.timestampsMs[frameIndex];
     return freezePanel({
       clip: { id: clip.id, assessmentId: clip.assessment_id, nearSide: clip.near_side, direction: clip.direction },
       assessment,
       annotations: await annotationsRepository.read(db, clip.id),
       frameIndex,
-      frameSize: { width: manifest?.width ?? clip.width ?? 1, height: manifest?.height ?? clip.height ?? 1 },
-      timeS: ms !== undefined ? ms / 1000 : frameIndex / (clip.fps ?? manifest?.fps ?? 30),
+      frameSize: { width: manifest.width, height: manifest.height },
+      timeS: ms !== undefined ? ms / 1000 : frameIndex / manifest.fps,
     });
   }
 
-  async function queueRender(id: number, patch: Partial<StillRow>): Promise<void> {
+  async function queueRender(row: StillRow, patch: Partial<StillRow>): Promise<void> {
     await db.transaction(async (trx) => {
       await trx('stills')
-        .where({ id })
-        .update({ ...patch, status: 'rendering', progress: 0, error: null, updated_at: now() });
-      await d.queue.enqueue(trx, RENDER_STILL_JOB, subjectOf(id), { stillId: id });
+        .where({ id: row.id })
+        .update({ ...patch, updated_at: now() });
+      await processing.enqueue(trx, RENDER_STILL, row.id, { clinicId: row.clinic_id, athleteId: row.athlete_id });
     });
-    d.wakeWorker();
-  }
-
-  async function removeFiles(row: StillRow, version: number): Promise<void> {
-    if (row.clip_id === null) return;
-    const dir = path.join(d.store.clipDir(row.clip_id), STILLS_DIR);
-    const files = stillFiles(row.id, version);
-    await fs.promises.rm(path.join(dir, files.png), { force: true });
-    await fs.promises.rm(path.join(dir, files.jpeg), { force: true });
   }
 
   return {
@@ -170,7 +181,6 @@ export function stillsService(d: StillsDeps) {
           caption: body.caption.trim(),
           show_angles: body.showAngles,
           status: 'rendering',
-          progress: 0,
           error: null,
           width: null,
           height: null,
@@ -183,9 +193,8 @@ export function stillsService(d: StillsDeps) {
           created_at: at,
           updated_at: at,
         });
-        await d.queue.enqueue(trx, RENDER_STILL_JOB, subjectOf(id), { stillId: id });
+        await processing.enqueue(trx, RENDER_STILL, id, { clinicId: user.clinicId, athleteId: clip.athlete_id });
       });
-      d.wakeWorker();
       await audit(db, {
         clinicId: user.clinicId,
         actorId: user.id,
@@ -213,7 +222,7 @@ export function stillsService(d: StillsDeps) {
       const text = caption.trim();
       if (text === row.caption) return view(id);
       // The caption is drawn on the image: render a new version; the old files go when it is ready.
-      await queueRender(id, { caption: text, render_version: row.render_version + 1 });
+      await queueRender(row, { caption: text, render_version: row.render_version + 1 });
       return view(id);
     },
 
@@ -233,9 +242,9 @@ export function stillsService(d: StillsDeps) {
 
     async remove(user: SessionUser, id: number): Promise<void> {
       const row = await accessibleStill(user, id, 'still:delete');
-      await d.queue.cancelSubject(subjectOf(id));
+      await processing.cancel('still', id);
       await db('stills').where({ id }).delete();
-      await removeFiles(row, row.render_version);
+      await removeStillImages(d.store, row, row.render_version);
       await audit(db, {
         clinicId: user.clinicId,
         actorId: user.id,
@@ -245,13 +254,11 @@ export function stillsService(d: StillsDeps) {
       });
     },
 
-    /** Absolute path of a ready still's image; logs an athlete's view in the audit log. */
-    async imagePath(user: SessionUser, id: number, format: 'png' | 'jpeg'): Promise<string> {
+    async image(user, id, format) {
       const row = await accessibleStill(user, id);
       if (row.status !== 'ready' || row.clip_id === null) throw new NotFoundError('Still image');
-      const files = stillFiles(id, row.render_version);
-      const file = path.join(d.store.clipDir(row.clip_id), STILLS_DIR, format === 'png' ? files.png : files.jpeg);
-      if (!fs.existsSync(file)) throw new NotFoundError('Still image');
+      const key = clipKeys(row.clip_id).still(id, row.render_version, format);
+      if (!(await d.store.stat(key))) throw new NotFoundError('Still image');
       if (throughSelfGrant(user, 'still:read'))
         await audit(db, {
           clinicId: user.clinicId,
@@ -260,95 +267,14 @@ export function stillsService(d: StillsDeps) {
           action: 'still.viewed',
           detail: { stillId: id, format },
         });
-      return file;
+      return { key, type: format === 'png' ? 'image/png' : 'image/jpeg' };
     },
 
-    /** Files of a ready still (for summaries), or null when it has none. */
-    async pngOf(id: number): Promise<{ file: string; row: StillRow } | null> {
+    async pngOf(id) {
       const row = await repo.findById(db, id);
       if (!row || row.status !== 'ready' || row.clip_id === null) return null;
-      const file = path.join(d.store.clipDir(row.clip_id), STILLS_DIR, stillFiles(id, row.render_version).png);
-      return fs.existsSync(file) ? { file, row } : null;
+      const png = await readSmall(d.store, clipKeys(row.clip_id).still(id, row.render_version, 'png')).catch(() => null);
+      return png ? { png, row } : null;
     },
-
-    /** The render job: frames + frozen overlay → PNG and phone JPEG, with progress. */
-    renderJob: (async (job: Job) => {
-      const id = Number(job.payload['stillId']);
-      const row = await repo.findById(db, id);
-      if (!row) return; // deleted meanwhile
-      if (row.clip_id === null) throw new PermanentJobError(STILL_CLIP_DELETED);
-      const panels = repo.panels(row);
-      // A still queued with its clip (the demo) waits for the frames: retried with back-off.
-      const statuses = await db('clips')
-        .whereIn(
-          'id',
-          panels.map((p) => p.clipId),
-        )
-        .pluck('status');
-      if (statuses.some((st: string) => st !== 'ready')) throw new Error('The clip’s frames are not extracted yet.');
-      const inputs = panels.map((p) => {
-        const image = path.join(d.store.clipDir(p.clipId), FRAMES_DIR, frameFileName(p.frameIndex));
-        if (!fs.existsSync(image))
-          throw new PermanentJobError('A frame of this still is gone (its clip was deleted or re-processed). Save the still again.');
-        return {
-          image,
-          frameSize: p.frameSize,
-          landmarks: p.landmarks,
-          nearSide: p.nearSide,
-          direction: p.direction,
-          scale: p.scale,
-          gauges: p.gauges,
-          heading: p.heading,
-        };
-      });
-      const version = row.render_version;
-      const out = await renderStill({
-        panels: inputs,
-        caption: row.caption,
-        showAngles: Boolean(row.show_angles),
-        onProgress: (f) => repo.update(db, id, { progress: Math.min(0.95, f) }),
-      });
-      const dir = path.join(d.store.clipDir(row.clip_id), STILLS_DIR);
-      await fs.promises.mkdir(dir, { recursive: true });
-      const files = stillFiles(id, version);
-      // Write under temporary names, then rename: a reader never sees half a file.
-      for (const [name, bytes] of [
-        [files.png, out.png],
-        [files.jpeg, out.jpeg],
-      ] as const) {
-        const tmp = path.join(dir, `.${name}.tmp`);
-        await fs.promises.writeFile(tmp, bytes);
-        await fs.promises.rename(tmp, path.join(dir, name));
-      }
-      const current = await repo.findById(db, id);
-      if (!current || current.render_version !== version) {
-        // Deleted or re-captioned meanwhile: these files belong to nobody.
-        await removeFiles({ ...row }, version);
-        return;
-      }
-      await repo.update(db, id, {
-        status: 'ready',
-        progress: 1,
-        error: null,
-        width: out.width,
-        height: out.height,
-        layout: JSON.stringify(out.layout),
-        labels: JSON.stringify(out.labels),
-        updated_at: now(),
-      });
-      if (version > 1) await removeFiles(current, version - 1);
-    }) satisfies JobHandler,
-
-    /** When the render job is over for good: the still is `failed` with the reason (unless it got ready). */
-    renderFailure: {
-      async fail(trx, job, reason) {
-        await trx('stills')
-          .where({ id: Number(job.payload['stillId']) })
-          .whereNot({ status: 'ready' })
-          .update({ status: 'failed', error: `The still could not be rendered: ${reason}`, updated_at: now() });
-      },
-    } satisfies SubjectFailure,
   };
 }
-
-export type StillsService = ReturnType<typeof stillsService>;

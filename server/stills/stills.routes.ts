@@ -1,22 +1,17 @@
-import { Router, type NextFunction, type Response } from 'express';
+import { Router } from 'express';
 import { currentUser } from '../http/access';
 import { permit } from '../policy/enforce';
 import { idParam, parse } from '../http/validate';
-import { NotFoundError } from '../errors';
+import { sendStored } from '../http/send-stored';
+import type { MediaStore } from '../storage/media-store';
 import type { StillsService } from './stills-service';
 import { StillCreateBody, StillUpdateBody } from './stills-schemas';
 
-/** Sends a media file privately (revalidated: a re-captioned still keeps its id). */
-export function sendPrivateFile(res: Response, next: NextFunction, file: string, type: string, disposition?: string): void {
-  const headers: Record<string, string> = { 'Cache-Control': 'private, no-cache', 'Content-Type': type };
-  if (disposition) headers['Content-Disposition'] = disposition;
-  res.sendFile(file, { headers, cacheControl: false, dotfiles: 'deny', lastModified: false }, (err) => {
-    if (err && !res.headersSent) next(new NotFoundError('File'));
-  });
-}
+/** Shared media are revalidated: a re-captioned still keeps its id. */
+export const SHARED_MEDIA_CACHE = 'private, no-cache';
 
 /** Annotated stills: staff save, caption, publish and delete; the athlete sees published ones. */
-export function stillsRoutes(stills: StillsService): Router {
+export function stillsRoutes(stills: StillsService, store: MediaStore): Router {
   const router = Router();
 
   router.post('/clips/:id/stills', permit('still:create'), async (req, res) => {
@@ -53,14 +48,14 @@ export function stillsRoutes(stills: StillsService): Router {
     res.status(204).end();
   });
 
-  router.get('/stills/:id/image.png', permit('still:read'), async (req, res, next) => {
-    const file = await stills.imagePath(currentUser(req), idParam(req.params, 'Still'), 'png');
-    sendPrivateFile(res, next, file, 'image/png');
+  router.get('/stills/:id/image.png', permit('still:read'), async (req, res) => {
+    const { key, type } = await stills.image(currentUser(req), idParam(req.params, 'Still'), 'png');
+    await sendStored(res, store, key, { type, cacheControl: SHARED_MEDIA_CACHE });
   });
 
-  router.get('/stills/:id/image.jpg', permit('still:read'), async (req, res, next) => {
-    const file = await stills.imagePath(currentUser(req), idParam(req.params, 'Still'), 'jpeg');
-    sendPrivateFile(res, next, file, 'image/jpeg');
+  router.get('/stills/:id/image.jpg', permit('still:read'), async (req, res) => {
+    const { key, type } = await stills.image(currentUser(req), idParam(req.params, 'Still'), 'jpeg');
+    await sendStored(res, store, key, { type, cacheControl: SHARED_MEDIA_CACHE });
   });
 
   return router;

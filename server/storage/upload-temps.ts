@@ -2,6 +2,11 @@ import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 
+/** The folder of upload temp files inside the uploads folder (`uploads/tmp`). */
+export function uploadTempDir(uploadsDir: string): string {
+  return path.join(uploadsDir, 'tmp');
+}
+
 /** Suffix of an upload's temp file (`<uuid>.upload`); nothing else in the folder is swept. */
 export const UPLOAD_TEMP_SUFFIX = '.upload';
 
@@ -15,6 +20,8 @@ export interface UploadTemps {
   create(): string;
   /** The request that owned `file` has ended (its file is removed by the caller or by a sweep). */
   release(file: string): void;
+  /** Removes `file` (if still there: an accepted upload moved into the store is not) and releases it. */
+  discard(file: string): Promise<void>;
   /**
    * Removes upload temp files nobody owns: all of them (start-up, `olderThanMs` 0) or those not
    * written for `olderThanMs`. Returns the removed paths.
@@ -61,6 +68,11 @@ export function uploadTemps(dir: string, onError: (err: Error) => void = () => u
     release(file) {
       owned.delete(file);
     },
+    async discard(file) {
+      await removeUpload(file);
+      owned.delete(file);
+    },
+
     sweep,
     startSweeping({ everyMs, maxAgeMs }) {
       const timer = setInterval(() => {
@@ -70,4 +82,21 @@ export function uploadTemps(dir: string, onError: (err: Error) => void = () => u
       return timer;
     },
   };
+}
+
+/** The first `bytes` bytes of an upload's temp file (fewer when it is shorter), to sniff what it is. */
+export async function uploadHead(file: string, bytes: number): Promise<Buffer> {
+  const handle = await fs.promises.open(file, 'r');
+  try {
+    const buffer = Buffer.alloc(bytes);
+    const { bytesRead } = await handle.read(buffer, 0, bytes, 0);
+    return buffer.subarray(0, bytesRead);
+  } finally {
+    await handle.close();
+  }
+}
+
+/** Removes an upload's temp file if it is still there (an accepted one was moved into the store). */
+export async function removeUpload(file: string): Promise<void> {
+  await fs.promises.rm(file, { force: true });
 }

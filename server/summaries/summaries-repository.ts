@@ -1,5 +1,7 @@
 import type { Knex } from 'knex';
 import type { RenderStatus, VisitSummary } from '../../src/contracts/sharing';
+import { joinLatestItem } from '../processing/processed-items-repository';
+import { renderProgress } from '../sharing/shared-items';
 
 export interface SummaryRow {
   id: number;
@@ -12,7 +14,6 @@ export interface SummaryRow {
   plan_text: string;
   still_ids: string;
   status: RenderStatus;
-  progress: number;
   error: string | null;
   page_count: number | null;
   published_at: string | null;
@@ -22,10 +23,13 @@ export interface SummaryRow {
   updated_at: string;
 }
 
-type SummaryView = SummaryRow & { created_by_name: string | null; published_by_name: string | null };
-
-/** File name of a summary's PDF inside its assessment's `summaries/` folder. */
-export const summaryFile = (id: number) => `summary-${id}.pdf`;
+/** A row joined with the names the API shows and its newest processed item's progress. */
+type SummaryView = SummaryRow & {
+  created_by_name: string | null;
+  published_by_name: string | null;
+  item_done: number | null;
+  item_total: number | null;
+};
 
 export const summariesRepository = {
   async insert(trx: Knex, row: Omit<SummaryRow, 'id'>): Promise<number> {
@@ -46,13 +50,19 @@ export const summariesRepository = {
   },
 
   async view(db: Knex, where: Record<string, unknown>, opts: { publishedOnly: boolean }): Promise<VisitSummary[]> {
-    const q = db('visit_summaries as v')
+    const q = joinLatestItem(db('visit_summaries as v'), db, 'summary', 'v')
       .leftJoin('users as cu', 'cu.id', 'v.created_by')
       .leftJoin('users as pu', 'pu.id', 'v.published_by')
       .where(Object.fromEntries(Object.entries(where).map(([k, v]) => [`v.${k}`, v])))
       .orderBy('v.created_at', 'desc')
       .orderBy('v.id', 'desc')
-      .select<SummaryView[]>('v.*', 'cu.name as created_by_name', 'pu.name as published_by_name');
+      .select<SummaryView[]>(
+        'v.*',
+        'cu.name as created_by_name',
+        'pu.name as published_by_name',
+        'pi.progress_done as item_done',
+        'pi.progress_total as item_total',
+      );
     if (opts.publishedOnly) q.whereNotNull('v.published_at').where('v.status', 'ready');
     return (await q).map(toApi);
   },
@@ -69,7 +79,7 @@ function toApi(r: SummaryView): VisitSummary {
     planText: r.plan_text,
     stillIds: JSON.parse(r.still_ids) as number[],
     status: r.status,
-    progress: r.progress,
+    progress: renderProgress(r),
     error: r.error,
     pageCount: r.page_count,
     publishedAt: r.published_at,

@@ -1,45 +1,31 @@
-import fs from 'node:fs';
-import path from 'node:path';
 import type { Logger } from 'pino';
 import type { SessionUser } from '../../src/contracts/api';
-import {
-  ASSESSMENT_KIND_LABELS,
-  FILM_SURFACE_LABELS,
-  SPEED_UNIT_LABELS,
-  formatPace,
-  fromMetresPerSecond,
-} from '../../src/contracts/assessment';
+import { ASSESSMENT_KIND_LABELS } from '../../src/contracts/assessment';
 import type { VisitSummary, VisitSummaryCreate } from '../../src/contracts/sharing';
-import { compareMeasures } from '../../src/kinematics';
 import type { Db } from '../db/knex';
 import { AppError, ConflictError, NotFoundError } from '../errors';
 import { audit } from '../audit/audit-log';
 import type { Action } from '../policy/access-table';
 import { accessibleAthlete } from '../policy/athlete-resources';
 import { listGrant, throughSelfGrant } from '../policy/enforce';
-import type { Job, JobQueue, SubjectFailure } from '../jobs/job-queue';
-import { PermanentJobError, type JobHandler } from '../jobs/worker';
 import type { Mailer } from '../mail/mailer';
+import type { Processing } from '../processing/processing';
 import { accessibleShared, setPublication } from '../sharing/shared-items';
+import { summaryKey } from '../storage/media-keys';
 import type { MediaStore } from '../storage/media-store';
 import { assessmentsRepository, type AssessmentRow } from '../assessments/assessments-repository';
 import type { ClipsService } from '../clips/clips-service';
 import type { MeasuresService } from '../measures/measures-service';
 import type { StillsService } from '../stills/stills-service';
-import { displayDate } from '../stills/stills-service';
-import { SUMMARY_CAUTION, renderSummaryPdf, type SummaryVisit } from '../render/summary-pdf';
-import { summariesRepository as repo, summaryFile, type SummaryRow } from './summaries-repository';
+import type { ClinicBrands } from '../clinic/clinic-brand';
+import { summariesRepository as repo, type SummaryRow } from './summaries-repository';
 import { summaryFileName, type SummaryFileName } from './summary-file-name';
-import { clinicBands } from '../measures/reference-bands';
-
-export const RENDER_SUMMARY_JOB = 'render_summary';
-export const SUMMARIES_DIR = 'summaries';
-const subjectOf = (id: number) => `summary:${id}`;
+import { RENDER_SUMMARY, renderSummaryKind, visitLabel } from './render-summary-kind';
 
 export interface SummariesDeps {
   db: Db;
   store: MediaStore;
-  queue: JobQueue;
+  processing: Processing;
   clips: ClipsService;
   stills: StillsService;
   measures: MeasuresService;
@@ -47,27 +33,35 @@ export interface SummariesDeps {
   logger: Logger;
   publicUrl: string;
   clock: () => Date;
-  wakeWorker: () => void;
+  /** The clinic's logo and legal details for the PDF's letterhead (none: the clinic's name only). */
+  brands?: ClinicBrands;
 }
 
-/** "3.06 m/s (11.0 km/h)", in the unit the coach typed it in. */
-export function speedText(a: Pick<AssessmentRow, 'speed_mps' | 'speed_unit'>): string {
-  if (a.speed_mps === null) return 'Not recorded';
-  const typed = fromMetresPerSecond(a.speed_mps, a.speed_unit);
-  const shown = a.speed_unit === 's_per_km' || a.speed_unit === 's_per_mile' ? formatPace(typed) : typed.toFixed(1);
-  return `${a.speed_mps.toFixed(2)} m/s (${shown} ${SPEED_UNIT_LABELS[a.speed_unit]})`;
+/** A ready summary's stored PDF and its download name. */
+export interface SummaryPdf {
+  key: string;
+  row: SummaryRow;
+  fileName: SummaryFileName;
 }
 
-const visitLabel = (a: AssessmentRow) => `${ASSESSMENT_KIND_LABELS[a.kind]} · ${displayDate(a.date)}`;
+/**
+ * Visit summaries: a PDF of a visit or of a Re-test against its baseline, made as the
+ * `render_summary` processed item; publish, download.
+ */
+export interface SummariesService {
+  create(user: SessionUser, assessmentId: number, body: VisitSummaryCreate): Promise<VisitSummary>;
+  list(user: SessionUser, athleteId: number): Promise<VisitSummary[]>;
+  get(user: SessionUser, id: number): Promise<VisitSummary>;
+  setPublished(user: SessionUser, id: number, publish: boolean): Promise<VisitSummary>;
+  remove(user: SessionUser, id: number): Promise<void>;
+  /** The PDF of a ready summary and its download name (athlete, visit, date); logs an athlete's view. */
+  pdf(user: SessionUser, id: number): Promise<SummaryPdf>;
+}
 
-/** Visit summaries: a PDF of a visit or of a Re-test against its baseline, rendered as a job. */
-export function summariesService(d: SummariesDeps) {
-  const { db } = d;
+export function summariesService(d: SummariesDeps): SummariesService {
+  const { db, processing } = d;
   const now = () => d.clock().toISOString();
-
-  function folder(assessmentId: number): string {
-    return path.join(d.store.assessmentDir(assessmentId), SUMMARIES_DIR);
-  }
+  processing.register(renderSummaryKind(d));
 
   const accessibleSummary = (user: SessionUser, id: number, action: Action = 'summary:read') =>
     accessibleShared<SummaryRow>(db, 'summary', user, id, action);
@@ -123,7 +117,6 @@ export function summariesService(d: SummariesDeps) {
           plan_text: body.planText.trim(),
           still_ids: JSON.stringify(body.stillIds),
           status: 'rendering',
-          progress: 0,
           error: null,
           page_count: null,
           published_at: null,
@@ -132,9 +125,8 @@ export function summariesService(d: SummariesDeps) {
           created_at: at,
           updated_at: at,
         });
-        await d.queue.enqueue(trx, RENDER_SUMMARY_JOB, subjectOf(id), { summaryId: id });
+        await processing.enqueue(trx, RENDER_SUMMARY, id, { clinicId: user.clinicId, athleteId: assessment.athlete_id });
       });
-      d.wakeWorker();
       await audit(db, {
         clinicId: user.clinicId,
         actorId: user.id,
@@ -171,9 +163,9 @@ export function summariesService(d: SummariesDeps) {
 
     async remove(user: SessionUser, id: number): Promise<void> {
       const row = await accessibleSummary(user, id, 'summary:delete');
-      await d.queue.cancelSubject(subjectOf(id));
+      await processing.cancel('summary', id);
       await db('visit_summaries').where({ id }).delete();
-      await fs.promises.rm(path.join(folder(row.assessment_id), summaryFile(id)), { force: true });
+      await d.store.remove(summaryKey(row.assessment_id, id));
       await audit(db, {
         clinicId: user.clinicId,
         actorId: user.id,
@@ -183,12 +175,11 @@ export function summariesService(d: SummariesDeps) {
       });
     },
 
-    /** The PDF of a ready summary and its download name (athlete, visit, date); logs an athlete's view. */
-    async pdfPath(user: SessionUser, id: number): Promise<{ file: string; row: SummaryRow; fileName: SummaryFileName }> {
+    async pdf(user, id) {
       const row = await accessibleSummary(user, id);
       if (row.status !== 'ready') throw new NotFoundError('Visit summary PDF');
-      const file = path.join(folder(row.assessment_id), summaryFile(id));
-      if (!fs.existsSync(file)) throw new NotFoundError('Visit summary PDF');
+      const key = summaryKey(row.assessment_id, id);
+      if (!(await d.store.stat(key))) throw new NotFoundError('Visit summary PDF');
       if (throughSelfGrant(user, 'summary:read'))
         await audit(db, {
           clinicId: user.clinicId,
@@ -206,88 +197,7 @@ export function summariesService(d: SummariesDeps) {
         what: row.baseline_assessment_id ? 'Re-test comparison' : `${visit ? ASSESSMENT_KIND_LABELS[visit.kind] : 'Visit'} visit summary`,
         date: visit?.date ?? '',
       });
-      return { file, row, fileName };
+      return { key, row, fileName };
     },
-
-    /** The render job: gather visit facts, measures and stills → PDF, with progress. */
-    renderJob: (async (job: Job) => {
-      const id = Number(job.payload['summaryId']);
-      const row = await repo.findById(db, id);
-      if (!row) return;
-      const progress = (f: number) => repo.update(db, id, { progress: Math.min(0.95, f) });
-      const assessment = await db<AssessmentRow>('assessments').where({ id: row.assessment_id }).first();
-      if (!assessment) throw new PermanentJobError('The assessment of this summary was deleted.');
-      const baseline = row.baseline_assessment_id
-        ? ((await db<AssessmentRow>('assessments').where({ id: row.baseline_assessment_id }).first()) ?? null)
-        : null;
-      const athlete = await db('athletes')
-        .where({ id: row.athlete_id })
-        .first<{ first_name: string; last_name: string }>('first_name', 'last_name');
-      const clinic = await db('clinics').where({ id: row.clinic_id }).first<{ name: string }>('name');
-      const coach = row.created_by
-        ? await db('users').where({ id: row.created_by }).first<{ name: string } | undefined>('name')
-        : undefined;
-
-      const visitOf = (a: AssessmentRow): SummaryVisit => ({
-        label: visitLabel(a),
-        surface: FILM_SURFACE_LABELS[a.surface],
-        speed: speedText(a),
-        incline: a.incline_percent === null ? null : `${a.incline_percent} %`,
-        shoes: a.shoes,
-      });
-      const current = await d.measures.ofAssessment(assessment.id);
-      let comparison = null;
-      if (baseline) comparison = compareMeasures(await d.measures.ofAssessment(baseline.id), current);
-      const clipCount = current.length;
-      const measures = current.map((m, i) => ({ heading: `Clip ${i + 1} of ${clipCount}`, measures: m.measures }));
-      await progress(0.1);
-
-      const stills = [];
-      for (const stillId of JSON.parse(row.still_ids) as number[]) {
-        const png = await d.stills.pngOf(stillId);
-        // A still deleted (or whose clip was deleted) after the summary was requested drops out.
-        if (png) stills.push({ image: png.file, width: png.row.width ?? 1, height: png.row.height ?? 1, caption: png.row.caption });
-      }
-      const { pdf, pageCount } = await renderSummaryPdf(
-        {
-          clinicName: clinic?.name ?? 'Your clinic',
-          athleteName: `${athlete.first_name} ${athlete.last_name}`,
-          title: baseline ? 'Re-test comparison' : 'Visit summary',
-          issuedOn: displayDate(now().slice(0, 10)),
-          coachName: coach?.name ?? 'your clinic',
-          visits: baseline ? [visitOf(baseline), visitOf(assessment)] : [visitOf(assessment)],
-          measures,
-          comparison,
-          bands: await clinicBands(db, row.clinic_id),
-          stills,
-          findings: row.findings,
-          planText: row.plan_text,
-          caution: SUMMARY_CAUTION,
-        },
-        (f) => progress(0.1 + f * 0.85),
-      );
-      const dir = folder(row.assessment_id);
-      await fs.promises.mkdir(dir, { recursive: true });
-      const tmp = path.join(dir, `.${summaryFile(id)}.tmp`);
-      await fs.promises.writeFile(tmp, pdf);
-      await fs.promises.rename(tmp, path.join(dir, summaryFile(id)));
-      if (!(await repo.findById(db, id))) {
-        await fs.promises.rm(path.join(dir, summaryFile(id)), { force: true });
-        return;
-      }
-      await repo.update(db, id, { status: 'ready', progress: 1, error: null, page_count: pageCount, updated_at: now() });
-    }) satisfies JobHandler,
-
-    /** When the render job is over for good: the summary is `failed` with the reason (unless it got ready). */
-    renderFailure: {
-      async fail(trx, job, reason) {
-        await trx('visit_summaries')
-          .where({ id: Number(job.payload['summaryId']) })
-          .whereNot({ status: 'ready' })
-          .update({ status: 'failed', error: `The summary could not be made: ${reason}`, updated_at: now() });
-      },
-    } satisfies SubjectFailure,
   };
 }
-
-export type SummariesService = ReturnType<typeof summariesService>;

@@ -2,13 +2,15 @@ import { Router } from 'express';
 import { currentUser } from '../http/access';
 import { permit } from '../policy/enforce';
 import { idParam, parse } from '../http/validate';
-import { sendPrivateFile } from '../stills/stills.routes';
+import { sendStored } from '../http/send-stored';
+import type { MediaStore } from '../storage/media-store';
+import { SHARED_MEDIA_CACHE } from '../stills/stills.routes';
 import type { SummariesService } from './summaries-service';
 import { SummaryCreateBody } from './summaries-schemas';
 import { contentDisposition } from './summary-file-name';
 
 /** Visit summaries: staff create, publish and delete; the athlete reads published ones. */
-export function summariesRoutes(summaries: SummariesService): Router {
+export function summariesRoutes(summaries: SummariesService, store: MediaStore): Router {
   const router = Router();
 
   router.post('/assessments/:id/summaries', permit('summary:create'), async (req, res) => {
@@ -38,13 +40,17 @@ export function summariesRoutes(summaries: SummariesService): Router {
     res.status(204).end();
   });
 
-  router.get('/summaries/:id/pdf', permit('summary:read'), async (req, res, next) => {
+  router.get('/summaries/:id/pdf', permit('summary:read'), async (req, res) => {
     const id = idParam(req.params, 'Visit summary');
-    const { file, fileName } = await summaries.pdfPath(currentUser(req), id);
+    const { key, fileName } = await summaries.pdf(currentUser(req), id);
     const download = req.query['download'] === '1';
     // Opened in a tab of our own origin (the preview); never framed elsewhere.
     res.setHeader('Content-Security-Policy', "default-src 'none'; frame-ancestors 'self'");
-    sendPrivateFile(res, next, file, 'application/pdf', contentDisposition(download ? 'attachment' : 'inline', fileName));
+    await sendStored(res, store, key, {
+      type: 'application/pdf',
+      cacheControl: SHARED_MEDIA_CACHE,
+      disposition: contentDisposition(download ? 'attachment' : 'inline', fileName),
+    });
   });
 
   return router;

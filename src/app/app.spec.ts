@@ -15,6 +15,7 @@ import { AssessmentsApi } from './core/data/assessments-api';
 import { PlansApi } from './core/data/plans-api';
 import { StillsApi } from './core/data/stills-api';
 import { BillingApi } from './core/data/billing-api';
+import { ClinicBrandStore } from './core/data/clinic-brand-store';
 import { provideIsoDateAdapter } from './shared/iso-date-adapter';
 
 const athlete: SessionUser = {
@@ -51,6 +52,8 @@ async function boot(user: SessionUser | null, url: string, demoMode = false) {
       { provide: PlansApi, useValue: { plansOf: () => of([]) } },
       // …what the clinic shared with them; nothing yet.
       { provide: StillsApi, useValue: { portalShared: () => of({ stills: [], summaries: [] }) } },
+      // The shell's clinic letterhead: no logo.
+      { provide: ClinicBrandStore, useValue: { brand: signal(null), logoUrl: signal(null) } },
       // …and what they owe; nothing.
       {
         provide: BillingApi,

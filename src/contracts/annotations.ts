@@ -65,10 +65,40 @@ export interface FrameLandmarks {
   points: Partial<Record<LandmarkName, LandmarkPoint>>;
 }
 
+/**
+ * Where a gait event came from: `placed` by a person, `proposed` by the app from landmark positions
+ * (not yet confirmed; measures leave it out), or a proposal the coach `accepted`.
+ */
+export const EVENT_ORIGINS = ['placed', 'proposed', 'accepted'] as const;
+export type EventOrigin = (typeof EVENT_ORIGINS)[number];
+export const EVENT_ORIGIN_LABELS: Record<EventOrigin, string> = { placed: 'Placed', proposed: 'Proposed', accepted: 'Accepted' };
+
 export interface GaitEventMark {
   frame: number;
   side: Side;
   kind: GaitEventKind;
+  /** Where the event came from; absent = `placed`. */
+  origin?: EventOrigin;
+}
+
+/** Which rule placed a proposed event (see `src/kinematics/event-rules.ts`). */
+export type EventProposalRule = 'heel_minimum' | 'knee_extension' | 'coordinate';
+
+/** Body of `POST /api/clips/:id/events/proposals`. */
+export interface EventProposalsRequest {
+  /** The revision the coach is looking at; a different current revision answers 409. */
+  baseRevision: number;
+}
+
+/** Answer of `POST /api/clips/:id/events/proposals`: the saved annotations with the new proposals. */
+export interface EventProposalsResult {
+  annotations: ClipAnnotations;
+  /** How many proposed events were added (earlier proposals not yet accepted are replaced). */
+  proposed: number;
+  /** Per rule, how many of them it placed. */
+  byRule: Partial<Record<EventProposalRule, number>>;
+  /** Proposals left out, in words (next to an event a person placed or accepted, or out of order with them). */
+  skipped: string[];
 }
 
 /** A line over an object of known length in the plane of running. */

@@ -247,7 +247,14 @@ export interface AssessmentDetail extends Assessment {
 /** A clip's frame manifest (`GET /api/clips/:id/manifest`), written by the server's frame extraction. */
 export interface FrameManifest {
   version: 1;
-  /** Number of files in `frames/` (one per decoded frame). */
+  /**
+   * Whether every frame is extracted. While extraction runs the manifest is the plan (`false`):
+   * `frameCount` is the probe's count, timestamps are computed, and frames arrive in order (the
+   * clip's `progress.done` says how many are ready). Manifests written before this field existed
+   * are complete.
+   */
+  complete?: boolean;
+  /** Number of files in `frames/` (one per decoded frame); the probe's count while not complete. */
   frameCount: number;
   /** Working frame size in pixels, after rotation and scaling (even numbers). */
   width: number;

@@ -160,6 +160,8 @@ export interface InvoiceDetail extends InvoiceSummary {
   refundNote: string | null;
   /** What the invoice and receipt say about the clinic. */
   clinicLegal: ClinicLegalDetails;
+  /** The clinic's logo (versioned URL), or null when it has none. */
+  clinicLogoUrl: string | null;
 }
 
 export interface InvoiceQuery {

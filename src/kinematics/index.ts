@@ -17,6 +17,10 @@
  *   other visit's skeleton, dashed and lighter, for the Re-test comparison.
  * - angle-gauge: three-point included angles (the Angle gauge tool), drawn by overlay-gauges;
  * - event-names: the gait events on a frame in words ("Right toe-off · step 3").
+ * - event-rules / event-proposals: proposed initial contacts and toe-offs from heel, toe, hip (and
+ *   knee) positions over frames (coordinate method, refined for running); proposal-merge: adding
+ *   them to a clip's events without touching placed or accepted ones;
+ * - gait-cycle: angles normalised 0–100 % from initial contact to the next, mean ± SD per side.
  */
 export * from './geometry';
 export * from './angles';
@@ -36,3 +40,7 @@ export * from './format';
 export * from './angle-gauge';
 export * from './overlay-gauges';
 export * from './event-names';
+export * from './event-rules';
+export * from './event-proposals';
+export * from './proposal-merge';
+export * from './gait-cycle';

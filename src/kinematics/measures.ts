@@ -72,10 +72,13 @@ export function computeClipMeasures(input: ClipMeasureInput): ClipMeasures {
   const frameCount = input.frameCount ?? (input.timestampsMs?.length || Number.POSITIVE_INFINITY);
   const notes: string[] = [];
 
-  // Events.
-  const problems = validateEvents(annotations.events, frameCount);
+  // Events: proposals wait for the coach's acceptance and are not measured.
+  const confirmed = annotations.events.filter((e) => e.origin !== 'proposed');
+  const waiting = annotations.events.length - confirmed.length;
+  if (waiting > 0) notes.push(`${waiting} proposed event${waiting === 1 ? '' : 's'} not counted until accepted.`);
+  const problems = validateEvents(confirmed, frameCount);
   for (const p of problems) notes.push(`Event marks: ${p}`);
-  const events = annotations.events.filter(
+  const events = confirmed.filter(
     (e) =>
       Number.isInteger(e.frame) &&
       e.frame >= 0 &&

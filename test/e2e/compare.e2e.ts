@@ -96,7 +96,7 @@ describe('compare visits', () => {
       await page.locator('figure.overlay').scrollIntoViewIfNeeded();
       await page.screenshot({ path: path.join(SCREENSHOTS, `compare-overlay-${tag}.png`) });
 
-      await expect.poll(() => page.locator('canvas[basechart]').count()).toBe(1);
+      await expect.poll(() => page.locator('.trends canvas[basechart]').count()).toBe(1);
       await expect.poll(() => page.locator('.chart-key').textContent()).toContain('Degrees (°)');
       await page.locator('.trends').scrollIntoViewIfNeeded();
       await page.screenshot({ path: path.join(SCREENSHOTS, `compare-trends-${tag}.png`) });

@@ -94,7 +94,8 @@ describe('sharing stills and a visit summary', () => {
     await page.screenshot({ path: shot('sharing-review-save-still.png') });
     await reviewDialog.getByRole('button', { name: 'Save still' }).click();
     // The first list answer shows the newest still mid-render (the real render is quicker than a
-    // screenshot); the tab polls and the next, real answer shows it ready.
+    // screenshot); the tab does not poll (a real render's end comes on the progress stream), so the
+    // page is opened again for the real answer.
     let faked = false;
     await page.route('**/api/athletes/*/stills', async (route) => {
       const res = await route.fetch();
@@ -112,8 +113,9 @@ describe('sharing stills and a visit summary', () => {
 
     // Shared tab: both render, then publish them.
     // (The demo seed may have shared stills of its own: only ours are looked at.)
-    await expect.poll(() => page.getByText('Rendering… 45 %').count(), { timeout: 10_000 }).toBe(0);
     await page.unroute('**/api/athletes/*/stills');
+    await page.reload();
+    await expect.poll(() => page.getByText('Rendering… 45 %').count(), { timeout: 10_000 }).toBe(0);
     const ours = page.locator('li.still-card').filter({ hasText: /hip now extends|knee and ankle as the foot/ });
     await expect.poll(() => ours.count(), { timeout: 20_000 }).toBe(2);
     await expect.poll(() => ours.locator('img').count(), { timeout: 30_000 }).toBe(2);

@@ -19,6 +19,10 @@ import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { listRouteActions, listRoutes } from '../support/routes';
 import type { Action } from '../../server/policy/access-table';
 import { decide, decideRole, type Actor, type Owner, type ResourceState } from '../../server/policy/decide';
+import { Jimp } from 'jimp';
+import { localMediaObjects } from '../../server/storage/media-objects';
+import { clinicLogoKey, demoPictureKey } from '../../server/demonstrations/demo-keys';
+import { markedJpeg } from '../support/pictures';
 
 type Who = 'anonymous' | 'athleteSelf' | 'athleteOther' | 'coach' | 'coachOtherClinic' | 'owner' | 'ownerOtherClinic';
 const WHO: Who[] = ['anonymous', 'athleteSelf', 'athleteOther', 'coach', 'coachOtherClinic', 'owner', 'ownerOtherClinic'];
@@ -388,10 +392,10 @@ const ROUTES: RouteCase[] = [
   },
   {
     method: 'get',
-    pattern: '/api/assessments/:id/clip-events',
-    path: (c) => `/api/assessments/${c.assessmentId}/clip-events`,
+    pattern: '/api/athletes/:id/processing-events',
+    path: (c) => `/api/athletes/${c.selfAthleteId}/processing-events`,
     stream: true,
-    access: { action: 'clip:read', on: 'self', ok: 200 },
+    access: { action: 'processing:follow', on: 'self', ok: 200 },
   },
   { method: 'get', pattern: '/api/clips/:id', path: (c) => `/api/clips/${c.clipId}`, access: { action: 'clip:read', on: 'self', ok: 200 } },
   {
@@ -459,6 +463,15 @@ const ROUTES: RouteCase[] = [
     body: () => ({ baseRevision: 0, landmarks: [], events: [], scale: null }),
     before: () => resetRevision(),
     access: { action: 'annotation:write', on: 'self', ok: 200 },
+  },
+  {
+    method: 'post',
+    pattern: '/api/clips/:id/events/proposals',
+    path: (c) => `/api/clips/${c.clipId}/events/proposals`,
+    body: () => ({ baseRevision: 0 }),
+    before: () => resetRevision(),
+    // The walk's clip has no landmarks: the caller allowed in hears why nothing can be proposed.
+    access: { action: 'event:propose', on: 'self', ok: 422 },
   },
   {
     method: 'get',
@@ -796,6 +809,93 @@ const ROUTES: RouteCase[] = [
     body: () => ({ legalName: 'Walk Clinic Ltd', address: '1 Walk Lane\nWalktown', taxNumber: 'WK 123', contactLine: 'walk@clinic.test' }),
     access: { action: 'clinic-legal:update', on: 'own', ok: 200 },
   },
+  // The clinic's brand (the caller's own clinic: no id) and logo (fixtures in demoFixtures()).
+  {
+    method: 'get',
+    pattern: '/api/clinic/brand',
+    path: () => '/api/clinic/brand',
+    access: { action: 'clinic-brand:read', on: 'own', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/clinic/logo.png',
+    path: () => '/api/clinic/logo.png',
+    access: { action: 'clinic-brand:read', on: 'own', ok: 200 },
+  },
+  // A JSON body is no picture: whoever the policy lets through gets 400 (the upload itself is tested in demonstrations.test.ts).
+  {
+    method: 'put',
+    pattern: '/api/clinic/logo',
+    path: () => '/api/clinic/logo',
+    body: () => ({ file: 'x' }),
+    access: { action: 'clinic-logo:update', on: 'own', ok: 400 },
+  },
+  {
+    method: 'delete',
+    pattern: '/api/clinic/logo',
+    path: () => '/api/clinic/logo',
+    access: { action: 'clinic-logo:update', on: 'own', ok: 204 },
+  },
+  // Demonstration pictures: the self athlete reaches those of exercises on their own plan only.
+  {
+    method: 'get',
+    pattern: '/api/exercises/:id/demonstrations',
+    path: () => `/api/exercises/${dc.plannedExerciseId}/demonstrations`,
+    access: { action: 'demo:list', on: 'self', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/exercises/:id/demonstrations',
+    path: () => `/api/exercises/${dc.unplannedExerciseId}/demonstrations`,
+    access: { action: 'demo:list', on: 'teammate', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/exercises/:id/demonstrations',
+    path: () => `/api/exercises/${dc.foreignExerciseId}/demonstrations`,
+    access: { action: 'demo:list', on: 'foreign', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/demo-pictures/:id/picture.jpg',
+    path: () => `/api/demo-pictures/${dc.plannedPictureId}/picture.jpg`,
+    access: { action: 'demo:read', on: 'self', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/demo-pictures/:id/thumb.jpg',
+    path: () => `/api/demo-pictures/${dc.unplannedPictureId}/thumb.jpg`,
+    access: { action: 'demo:read', on: 'teammate', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/demo-pictures/:id/picture.jpg',
+    path: () => `/api/demo-pictures/${dc.foreignPictureId}/picture.jpg`,
+    access: { action: 'demo:read', on: 'foreign', ok: 200 },
+  },
+  {
+    method: 'post',
+    pattern: '/api/exercises/:id/demo-pictures',
+    path: () => `/api/exercises/${dc.unplannedExerciseId}/demo-pictures`,
+    body: () => ({ file: 'x' }),
+    access: { action: 'demo:create', on: 'demoClinic', ok: 400 },
+  },
+  {
+    method: 'patch',
+    pattern: '/api/demo-pictures/:id',
+    path: () => `/api/demo-pictures/${dc.plannedPictureId}`,
+    body: () => ({ caption: 'Walk caption' }),
+    access: { action: 'demo:update', on: 'demoClinic', ok: 200 },
+  },
+  {
+    method: 'delete',
+    pattern: '/api/demo-pictures/:id',
+    path: () => `/api/demo-pictures/${dc.scratchPictureId}`,
+    before: async () => {
+      dc.scratchPictureId = await storedPicture(dc.unplannedExerciseId);
+    },
+    access: { action: 'demo:delete', on: 'demoClinic', ok: 204 },
+  },
   {
     method: 'get',
     pattern: '/api/invoices/:id/receipt',
@@ -1057,6 +1157,7 @@ beforeAll(async () => {
   await plansFixtures();
   await billingFixtures();
   await sharingFixtures();
+  await demoFixtures();
   server = http.createServer(t.app).listen(0, '127.0.0.1');
 });
 afterAll(async () => {
@@ -1202,6 +1303,67 @@ async function plansFixtures(): Promise<void> {
   const body = logBody();
   await self.post(`/api/plans/${plan.id}/logs`, body);
   pc.logKey = body.key;
+}
+
+// ─── Demonstration and logo fixtures ──────────────────────────────────────────────────────
+
+/** Pictures the walk reads: on the self athlete's plan, on no plan of theirs, of the second clinic. */
+const dc = {
+  plannedExerciseId: 0,
+  unplannedExerciseId: 0,
+  foreignExerciseId: 0,
+  plannedPictureId: 0,
+  unplannedPictureId: 0,
+  foreignPictureId: 0,
+  scratchPictureId: 0,
+};
+
+/** A stored picture row with its files (written straight to the store: processing is tested elsewhere). */
+async function storedPicture(exerciseId: number): Promise<number> {
+  const ex = await t.db('exercises').where({ id: exerciseId }).first();
+  const [row] = await t
+    .db('demo_pictures')
+    .insert({
+      clinic_id: ex.clinic_id,
+      exercise_id: exerciseId,
+      position: 0,
+      caption: '',
+      width: 8,
+      height: 8,
+      thumb_width: 8,
+      thumb_height: 8,
+      created_by: null,
+      created_at: new Date().toISOString(),
+    })
+    .returning('id');
+  const id = (row as { id: number }).id;
+  const objects = localMediaObjects(t.config.uploadsDir);
+  const jpeg = await markedJpeg(8, 8, 2);
+  await objects.put(demoPictureKey(exerciseId, id, 'full'), jpeg);
+  await objects.put(demoPictureKey(exerciseId, id, 'thumb'), jpeg);
+  return id;
+}
+
+async function demoFixtures(): Promise<void> {
+  dc.plannedExerciseId = pc.exerciseId;
+  const onPlans = await t
+    .db('stage_exercises as se')
+    .join('plan_stages as ps', 'ps.id', 'se.stage_id')
+    .join('plans as p', 'p.id', 'ps.plan_id')
+    .where('p.athlete_id', ctx.selfAthleteId)
+    .pluck('se.exercise_id');
+  dc.unplannedExerciseId = (await t.db('exercises').where({ clinic_id: 1 }).whereNotIn('id', onPlans).first()).id;
+  const otherCoach = await clientFor(t.app, 'coachOtherClinic');
+  dc.foreignExerciseId = (await otherCoach.post('/api/exercises', { ...exercise, name: 'Foreign walk exercise' })).body.id;
+  dc.plannedPictureId = await storedPicture(dc.plannedExerciseId);
+  dc.unplannedPictureId = await storedPicture(dc.unplannedExerciseId);
+  dc.foreignPictureId = await storedPicture(dc.foreignExerciseId);
+  // Both clinics have a logo for GET /api/clinic/logo.png.
+  const objects = localMediaObjects(t.config.uploadsDir);
+  for (const clinicId of await t.db('clinics').pluck('id')) {
+    await objects.put(clinicLogoKey(clinicId, 1), await new Jimp({ width: 4, height: 2, color: 0x00000000 }).getBuffer('image/png'));
+    await t.db('clinics').where({ id: clinicId }).update({ logo_version: 1, logo_width: 4, logo_height: 2 });
+  }
 }
 
 // ─── Billing fixtures ─────────────────────────────────────────────────────────────────────

@@ -51,15 +51,15 @@ async function waitFor(
   }
 }
 
-/** Polls the job row until attempt `n` of the clip's extraction is running. */
+/** Polls the processed item until attempt `n` of the clip's extraction is running. */
 async function waitForAttempt(n: number, ms = 60_000): Promise<void> {
   const t0 = Date.now();
   const db = createDb(path.join(dir, 'db.sqlite'));
   try {
     for (;;) {
-      const row = (await db('jobs').where({ type: 'extract_clip' }).orderBy('id', 'desc').first()) as
-        { status: string; attempts: number } | undefined;
-      if (row && row.status === 'running' && row.attempts === n) return;
+      const row = (await db('processed_items').where({ kind: 'extract_frames' }).orderBy('id', 'desc').first()) as
+        { state: string; attempts: number } | undefined;
+      if (row && row.state === 'running' && row.attempts === n) return;
       if (Date.now() - t0 > ms) throw new Error(`waited for attempt ${n} of the extraction`);
       await sleep(50);
     }

@@ -1,19 +1,20 @@
 /**
- * A job that runs out of attempts leaves its subject (clip, still, visit summary) failed with a
- * reason, wherever that happens: at claim time after the last attempt's lease ran out (the server
- * was killed), when the last attempt throws, and on a permanent error. A graceful stop hands the
- * job back without using an attempt; a cancelled job (its subject deleted) fails nothing.
- * The app runs without its own worker here, so each test drives the queue itself.
+ * A processed item that runs out of attempts leaves its subject (clip, still, visit summary) failed
+ * with a reason, wherever that happens: at claim time after the last attempt's lease ran out (the
+ * server was killed), when the last attempt throws, and on a permanent error. A graceful stop
+ * hands the item back without using an attempt; a cancelled item (its subject deleted) fails
+ * nothing. The app runs without its own worker here, so each test drives the queue itself.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import pino from 'pino';
 import { makeTestApp, signedIn, type Client, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
-import { EXTRACT_JOB } from '../../server/clips/clips-service';
-import { RENDER_STILL_JOB } from '../../server/stills/stills-service';
-import { RENDER_SUMMARY_JOB } from '../../server/summaries/summaries-service';
-import { PermanentJobError, startWorker, type JobHandler } from '../../server/jobs/worker';
-import type { Job } from '../../server/jobs/job-queue';
+import { EXTRACT_FRAMES } from '../../server/clips/extract-frames-kind';
+import { RENDER_STILL } from '../../server/stills/render-still-kind';
+import { RENDER_SUMMARY } from '../../server/summaries/render-summary-kind';
+import { startWorker } from '../../server/processing/worker';
+import { PermanentError, type ProcessedItem, type RunContext } from '../../server/processing/processed-item';
+import type { ProgressNotice } from '../../server/processing/progress-channel';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -58,8 +59,6 @@ async function insertClip(status = 'extracting'): Promise<number> {
       size_bytes: 1000,
       container: 'mp4',
       status,
-      progress_done: 40,
-      progress_total: 60,
       error: null,
       near_side: 'right',
       direction: 'left_to_right',
@@ -80,23 +79,25 @@ async function insertClip(status = 'extracting'): Promise<number> {
   return (row as { id: number }).id;
 }
 
-/** A job whose worker died on its last attempt: running, every attempt used, lease run out. */
-async function exhaustedJob(type: string, subject: string, payload: Record<string, unknown>): Promise<number> {
-  const id = await t.queue.enqueue(t.db, type, subject, payload);
-  const { max_attempts } = await t.db('jobs').where({ id }).first();
+const scope = () => ({ clinicId, athleteId: adaId });
+
+/** An item whose worker died on its last attempt: running, every attempt used, lease run out. */
+async function exhaustedItem(kind: string, subjectId: number): Promise<number> {
+  const id = await t.processing.enqueue(t.db, kind, subjectId, scope());
+  const { max_attempts } = await t.db('processed_items').where({ id }).first();
   await t
-    .db('jobs')
+    .db('processed_items')
     .where({ id })
-    .update({ status: 'running', attempts: max_attempts, lease_until: new Date(Date.now() - 1000).toISOString() });
+    .update({ state: 'running', attempts: max_attempts, lease_until: new Date(Date.now() - 1000).toISOString() });
   return id;
 }
 
 describe('running out of attempts at claim time (the server was killed during the last attempt)', () => {
   it('leaves the clip failed with a reason, and Retry queues it again', async () => {
     const clipId = await insertClip();
-    const jobId = await exhaustedJob(EXTRACT_JOB, `clip:${clipId}`, { clipId });
-    expect(await t.queue.claim()).toBeNull();
-    expect(await t.db('jobs').where({ id: jobId }).first()).toMatchObject({ status: 'failed' });
+    const itemId = await exhaustedItem(EXTRACT_FRAMES, clipId);
+    expect(await t.processing.queue.claim()).toBeNull();
+    expect(await t.db('processed_items').where({ id: itemId }).first()).toMatchObject({ state: 'failed', attempts: 3 });
     const clip = (await staff.get(`/api/clips/${clipId}`)).body;
     expect(clip.status).toBe('failed');
     expect(clip.error).toMatch(/interrupted 3 times/);
@@ -104,11 +105,8 @@ describe('running out of attempts at claim time (the server was killed during th
     const retry = await staff.post(`/api/clips/${clipId}/retry`);
     expect(retry.status, JSON.stringify(retry.body)).toBe(202);
     expect(retry.body).toMatchObject({ status: 'queued', error: null });
-    expect(await t.db('jobs').where({ subject: `clip:${clipId}`, status: 'queued' })).toHaveLength(1);
-    await t
-      .db('jobs')
-      .where({ subject: `clip:${clipId}` })
-      .delete();
+    expect(await t.db('processed_items').where({ subject_type: 'clip', subject_id: clipId, state: 'queued' })).toHaveLength(1);
+    await t.db('processed_items').where({ subject_type: 'clip', subject_id: clipId }).delete();
   });
 
   it('leaves a still failed with a reason', async () => {
@@ -125,15 +123,14 @@ describe('running out of attempts at claim time (the server was killed during th
         caption: '',
         show_angles: true,
         status: 'rendering',
-        progress: 0.3,
         render_version: 1,
         created_at: at(),
         updated_at: at(),
       })
       .returning('id');
     const stillId = (s as { id: number }).id;
-    await exhaustedJob(RENDER_STILL_JOB, `still:${stillId}`, { stillId });
-    expect(await t.queue.claim()).toBeNull();
+    await exhaustedItem(RENDER_STILL, stillId);
+    expect(await t.processing.queue.claim()).toBeNull();
     const still = (await staff.get(`/api/stills/${stillId}`)).body;
     expect(still.status).toBe('failed');
     expect(still.error).toMatch(/could not be rendered.*interrupted 3 times/);
@@ -151,58 +148,66 @@ describe('running out of attempts at claim time (the server was killed during th
         plan_text: '',
         still_ids: '[]',
         status: 'rendering',
-        progress: 0.5,
         created_at: at(),
         updated_at: at(),
       })
       .returning('id');
     const summaryId = (s as { id: number }).id;
-    await exhaustedJob(RENDER_SUMMARY_JOB, `summary:${summaryId}`, { summaryId });
-    expect(await t.queue.claim()).toBeNull();
+    await exhaustedItem(RENDER_SUMMARY, summaryId);
+    expect(await t.processing.queue.claim()).toBeNull();
     const summary = (await staff.get(`/api/summaries/${summaryId}`)).body;
     expect(summary.status).toBe('failed');
     expect(summary.error).toMatch(/could not be made.*interrupted 3 times/);
   });
 
-  it('goes on to hand out the next due job in the same claim', async () => {
+  it('goes on to hand out the next due item in the same claim', async () => {
     const dead = await insertClip();
-    await exhaustedJob(EXTRACT_JOB, `clip:${dead}`, { clipId: dead });
+    await exhaustedItem(EXTRACT_FRAMES, dead);
     const next = await insertClip('queued');
-    const nextJob = await t.queue.enqueue(t.db, EXTRACT_JOB, `clip:${next}`, { clipId: next });
-    const job = await t.queue.claim();
-    expect(job?.id).toBe(nextJob);
+    const nextItem = await t.processing.enqueue(t.db, EXTRACT_FRAMES, next, scope());
+    const item = await t.processing.queue.claim();
+    expect(item?.id).toBe(nextItem);
     expect((await t.db('clips').where({ id: dead }).first()).status).toBe('failed');
-    await t.queue.complete(job!);
+    expect((await t.db('clips').where({ id: next }).first()).status).toBe('extracting');
+    await t.processing.queue.complete(item!, null);
   });
 
   it('does not fail a clip that is ready already (its last attempt finished before the stop)', async () => {
     const clipId = await insertClip('ready');
-    await exhaustedJob(EXTRACT_JOB, `clip:${clipId}`, { clipId });
-    expect(await t.queue.claim()).toBeNull();
+    await exhaustedItem(EXTRACT_FRAMES, clipId);
+    expect(await t.processing.queue.claim()).toBeNull();
     expect(await t.db('clips').where({ id: clipId }).first()).toMatchObject({ status: 'ready', error: null });
   });
 });
 
 describe('running out of attempts in the worker', () => {
-  const subjects: { subject: string; reason: string }[] = [];
-  const notified: string[] = [];
-  const TYPE = 'test_exhaustion';
+  const subjects: { subject: number; reason: string }[] = [];
+  const notified: ProgressNotice[] = [];
+  const KIND = 'test_exhaustion';
+  let handler: (item: ProcessedItem, ctx: RunContext) => Promise<void> = async () => undefined;
+  let nextSubject = 1;
   beforeAll(() => {
-    t.queue.onFinalFailure(TYPE, {
-      async fail(trx, job: Job, reason: string) {
-        await trx('jobs').where({ id: job.id }).first(); // runs inside the queue's transaction
-        subjects.push({ subject: job.subject, reason });
+    t.processing.register({
+      name: KIND,
+      subject: 'test',
+      athleteSees: false,
+      run: (item, ctx) => handler(item, ctx),
+      onReady: async () => undefined,
+      async onChange(trx, item, change) {
+        await trx('processed_items').where({ id: item.id }).first(); // runs inside the module's transaction
+        if (change.state === 'failed') subjects.push({ subject: item.subjectId, reason: change.reason });
       },
-      failed: (job) => notified.push(job.subject),
     });
+    t.processing.channel.subscribe(adaId, (n) => notified.push(n));
   });
 
-  async function run(handler: JobHandler, setup: (id: number) => Promise<void> = async () => undefined) {
-    const id = await t.queue.enqueue(t.db, TYPE, `test:${Math.random()}`, {});
+  async function run(fn: typeof handler, setup: (id: number) => Promise<void> = async () => undefined) {
+    handler = fn;
+    const subject = nextSubject++;
+    const id = await t.processing.enqueue(t.db, KIND, subject, scope());
     await setup(id);
     const worker = startWorker({
-      queue: t.queue,
-      handlers: { [TYPE]: handler },
+      processing: t.processing,
       logger: pino({ level: 'silent' }),
       concurrency: 1,
       pollMs: 50,
@@ -210,86 +215,97 @@ describe('running out of attempts in the worker', () => {
     });
     await worker.idle();
     await worker.stop();
-    return { id, row: await t.db('jobs').where({ id }).first() };
+    return { id, subject, row: await t.db('processed_items').where({ id }).first() };
   }
 
   it('a last attempt that throws fails the subject with the error', async () => {
-    const { id, row } = await run(
+    const { subject, row } = await run(
       async () => {
         throw new Error('ffmpeg exited with code 1');
       },
-      (jobId) =>
+      (itemId) =>
         t
-          .db('jobs')
-          .where({ id: jobId })
+          .db('processed_items')
+          .where({ id: itemId })
           .update({ attempts: 2 })
           .then(() => undefined),
     );
-    expect(row).toMatchObject({ status: 'failed', attempts: 3 });
-    const job = await t.db('jobs').where({ id }).first();
-    expect(subjects.find((s) => s.subject === job.subject)?.reason).toBe('ffmpeg exited with code 1');
-    expect(notified).toContain(job.subject);
+    expect(row).toMatchObject({ state: 'failed', attempts: 3, error: 'ffmpeg exited with code 1' });
+    expect(subjects.find((s) => s.subject === subject)?.reason).toBe('ffmpeg exited with code 1');
+    // Told on the one progress channel, after commit.
+    expect(notified.find((n) => n.event.id === subject && n.event.state === 'failed')?.event.error).toBe('ffmpeg exited with code 1');
   });
 
   it('a permanent error on the first attempt fails the subject at once', async () => {
-    const { id, row } = await run(async () => {
-      throw new PermanentJobError('This file is not a video we can read.');
+    const { subject, row } = await run(async () => {
+      throw new PermanentError('This file is not a video we can read.');
     });
-    expect(row).toMatchObject({ status: 'failed', attempts: 1 });
-    const job = await t.db('jobs').where({ id }).first();
-    expect(subjects.find((s) => s.subject === job.subject)?.reason).toBe('This file is not a video we can read.');
+    expect(row).toMatchObject({ state: 'failed', attempts: 1 });
+    expect(subjects.find((s) => s.subject === subject)?.reason).toBe('This file is not a video we can read.');
   });
 
-  it('an attempt that fails with attempts left queues the job again and fails nothing', async () => {
+  it('an attempt that fails with attempts left queues the item again and fails nothing', async () => {
     const before = subjects.length;
     const { row } = await run(async () => {
       throw new Error('busy');
     });
-    expect(row).toMatchObject({ status: 'queued', attempts: 1 });
+    expect(row).toMatchObject({ state: 'queued', attempts: 1, claimed_by: null });
     expect(subjects).toHaveLength(before);
-    await t.db('jobs').where({ id: row.id }).delete();
+    await t.db('processed_items').where({ id: row.id }).delete();
   });
 
-  /** A worker whose handler runs until aborted; resolves once the job has started. */
-  async function workerOnBlockingJob(subject: string) {
+  it('progress reaches the channel while the item runs, and the item ends ready', async () => {
+    const { subject, row } = await run(async (_item, ctx) => {
+      ctx.progress(1, 4);
+      await new Promise((r) => setTimeout(r, 50));
+      ctx.progress(4, 4);
+      await new Promise((r) => setTimeout(r, 50));
+    });
+    expect(row).toMatchObject({ state: 'ready', progress_done: 4, progress_total: 4 });
+    const states = notified.filter((n) => n.event.id === subject).map((n) => n.event);
+    expect(states[0]).toMatchObject({ state: 'queued' });
+    expect(states.some((e) => e.state === 'running' && e.progress?.done === 1)).toBe(true);
+    expect(states.at(-1)).toMatchObject({ state: 'ready', progress: null });
+  });
+
+  /** A worker whose item runs until aborted; resolves once the item has started. */
+  async function workerOnBlockingItem() {
     let started!: () => void;
     const running = new Promise<void>((r) => (started = r));
-    const id = await t.queue.enqueue(t.db, TYPE, subject, {});
+    handler = (_item, { signal }) =>
+      new Promise((_resolve, reject) => {
+        started();
+        signal.addEventListener('abort', () => reject(new Error('aborted')));
+      });
+    const subject = nextSubject++;
+    const id = await t.processing.enqueue(t.db, KIND, subject, scope());
     const worker = startWorker({
-      queue: t.queue,
-      handlers: {
-        [TYPE]: (_job, { signal }) =>
-          new Promise((_resolve, reject) => {
-            started();
-            signal.addEventListener('abort', () => reject(new Error('aborted')));
-          }),
-      },
+      processing: t.processing,
       logger: pino({ level: 'silent' }),
       concurrency: 1,
       pollMs: 50,
       leaseMs: 30_000,
     });
     await running;
-    return { id, worker };
+    return { id, subject, worker };
   }
 
-  it('a graceful stop hands the running job back without using an attempt', async () => {
+  it('a graceful stop hands the running item back without using an attempt', async () => {
     const before = subjects.length;
-    const { id, worker } = await workerOnBlockingJob('test:stop');
+    const { id, worker } = await workerOnBlockingItem();
     await worker.stop();
-    expect(await t.db('jobs').where({ id }).first()).toMatchObject({ status: 'queued', attempts: 0, lease_until: null });
+    expect(await t.db('processed_items').where({ id }).first()).toMatchObject({ state: 'queued', attempts: 0, lease_until: null });
     expect(subjects).toHaveLength(before);
-    await t.db('jobs').where({ id }).delete();
+    await t.db('processed_items').where({ id }).delete();
   });
 
-  it('a cancelled job (its subject is being deleted) fails nothing', async () => {
+  it('a cancelled item (its subject is being deleted) is aborted and fails nothing', async () => {
     const before = subjects.length;
-    const { id, worker } = await workerOnBlockingJob('test:cancel');
-    await t.queue.cancelSubject('test:cancel');
-    worker.cancel('test:cancel');
+    const { id, subject, worker } = await workerOnBlockingItem();
+    await t.processing.cancel('test', subject);
     await worker.idle();
     await worker.stop();
-    expect(await t.db('jobs').where({ id }).first()).toMatchObject({ status: 'failed', error: 'cancelled' });
+    expect(await t.db('processed_items').where({ id }).first()).toMatchObject({ state: 'cancelled', error: null });
     expect(subjects).toHaveLength(before);
   });
 });

@@ -70,8 +70,8 @@ describe('deactivating a coach', () => {
     const server = http.createServer(t.app).listen(0, '127.0.0.1');
     try {
       const c = await signedIn(t.app, tobin.email, tobin.password);
-      const assessment = await t.db('assessments').first();
-      const res = await fetch(`http://127.0.0.1:${(server.address() as AddressInfo).port}/api/assessments/${assessment.id}/clip-events`, {
+      const athlete = await t.db('athletes').where({ coach_id: ids[tobin.email] }).first();
+      const res = await fetch(`http://127.0.0.1:${(server.address() as AddressInfo).port}/api/athletes/${athlete.id}/processing-events`, {
         headers: { cookie: c.cookieHeader() },
       });
       expect(res.status).toBe(200);

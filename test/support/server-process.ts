@@ -81,3 +81,61 @@ export function serverProcess(dir: string, port: number, env: Record<string, str
     },
   };
 }
+
+export interface WorkerProcess {
+  /** Starts `server/worker.ts` and resolves once it says it runs. */
+  start(): Promise<void>;
+  /** SIGKILL to the whole process group (the worker and its ffmpeg). */
+  killHard(): void;
+  /** The worker's process id (its items carry it in `claimed_by`). */
+  readonly pid: number | null;
+}
+
+/** A worker process (`npm run worker`) over the same database and uploads folder as {@link serverProcess}. */
+export function workerProcess(dir: string, env: Record<string, string> = {}): WorkerProcess {
+  let child: ChildProcess | null = null;
+  return {
+    get pid() {
+      return child?.pid ?? null;
+    },
+    start() {
+      child = spawn(process.execPath, ['--import', 'tsx', 'server/worker.ts'], {
+        detached: true,
+        stdio: ['ignore', 'pipe', 'ignore'],
+        env: {
+          ...process.env,
+          DB_FILE: path.join(dir, 'db.sqlite'),
+          UPLOADS_DIR: path.join(dir, 'uploads'),
+          LOG_LEVEL: 'warn',
+          JOB_LEASE_SECONDS: '2',
+          WORKER_POLL_MS: '100',
+          ...env,
+        },
+      });
+      const started = child;
+      return new Promise((resolve, reject) => {
+        const timer = setTimeout(() => reject(new Error('worker did not start')), 30_000);
+        let out = '';
+        started.stdout!.on('data', (chunk: Buffer) => {
+          out += chunk.toString();
+          if (out.includes('worker running')) {
+            clearTimeout(timer);
+            started.stdout!.resume();
+            resolve();
+          }
+        });
+        started.on('exit', (code) => reject(new Error(`worker exited with ${code}`)));
+      });
+    },
+    killHard() {
+      if (child?.pid) {
+        try {
+          process.kill(-child.pid, 'SIGKILL');
+        } catch {
+          // already gone
+        }
+      }
+      child = null;
+    },
+  };
+}

@@ -11,28 +11,47 @@ import { createSmtpMailer, type Mailer, type MailMessage } from '../../server/ma
 import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp';
 import { hashPassword } from '../../server/auth/passwords';
 import { seed } from '../../seeds/demo-scenario';
-import type { Worker } from '../../server/jobs/worker';
-import type { JobQueue } from '../../server/jobs/job-queue';
+import type { Worker } from '../../server/processing/worker';
+import type { Processing } from '../../server/processing/processing';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { startFakePayments, type FakePayments } from '../../server/billing/fake-payments/fake-payments';
 
-/** A mailer that keeps messages in memory, for assertions. */
+/**
+ * The mailer of test apps. By default (`fakeSmtp`, see {@link TestAppOptions}) every message goes
+ * the real way — nodemailer over SMTP to the local fake receiver, parsed and stored there — and
+ * `sent` holds each message as the receiver stored it, so assertions read what an inbox would show.
+ * Without the receiver `sent` holds the messages as handed over (tests about something else).
+ */
 export class MemoryMailer implements Mailer {
   readonly sent: MailMessage[] = [];
   failNext = false;
-  /** Also sends every message on (to the fake SMTP receiver, with `{ fakeSmtp: true }`). */
-  forward: Mailer | null = null;
+  /** Sends every message on (to the fake SMTP receiver) and reads it back from `db`. */
+  forward: { mailer: Mailer; db: Db } | null = null;
+  private readBack = 0;
   async send(message: MailMessage): Promise<void> {
     if (this.failNext) {
       this.failNext = false;
       throw new Error('relay refused');
     }
-    this.sent.push(message);
-    await this.forward?.send(message);
+    if (!this.forward) {
+      this.sent.push(message);
+      return;
+    }
+    await this.forward.mailer.send(message);
+    // The receiver stores a message before its "250 OK", so it is there once send resolves.
+    const row = await this.forward
+      .db('mailbox_messages')
+      .where('id', '>', this.readBack)
+      .andWhere({ to_address: message.to, subject: message.subject })
+      .orderBy('id')
+      .first<{ id: number; to_address: string; subject: string; text: string } | undefined>();
+    if (!row) throw new Error(`the fake SMTP receiver did not store the message to ${message.to}`);
+    this.readBack = Math.max(this.readBack, row.id);
+    this.sent.push({ to: row.to_address, subject: row.subject, text: row.text });
   }
   close(): void {
-    this.forward?.close();
+    this.forward?.mailer.close();
   }
   /** The first link in the newest message to `to`. */
   lastLinkTo(to: string): string {
@@ -48,10 +67,10 @@ export interface TestApp {
   db: Db;
   mailer: MemoryMailer;
   config: Config;
-  /** The in-process job worker. */
+  /** The in-process worker. */
   worker: Worker | null;
-  /** The app's job queue (tests that run without the worker drive it themselves). */
-  queue: JobQueue;
+  /** The app's processing layer (tests that run without the worker drive its queue themselves). */
+  processing: Processing;
   /** Moves the app's clock forward. */
   advance(ms: number): void;
   /** Deletes expired session rows now; answers how many. */
@@ -69,32 +88,39 @@ export interface TestAppOptions {
   fakePayments?: boolean;
   /** The app's logger (default: silent), for tests that read what the server logs. */
   logger?: Logger;
-  /** Also deliver every e-mail to the demo's fake SMTP receiver (stored in `mailbox_messages`). */
+  /**
+   * Send every e-mail through nodemailer to the demo's fake SMTP receiver (stored in
+   * `mailbox_messages`, read back into `mailer.sent`). Default true; `false` keeps mail in memory,
+   * for tests about something else that send many messages (say why where you use it).
+   */
   fakeSmtp?: boolean;
+  /** A database file (in the test's temp folder) instead of memory: plain reads then use the reader connection, as a real server's do. */
+  onDisk?: boolean;
 }
 
 /** A fresh app on an in-memory database with the demo scenario and a second clinic. */
 export async function makeTestApp(overrides: Partial<Config> = {}, options: TestAppOptions = {}): Promise<TestApp> {
   const base = loadConfig({ DEMO_MODE: 'true', LOG_LEVEL: 'silent', CLIENT_DIR: '' } as NodeJS.ProcessEnv);
   const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'trailframe-test-'));
-  let config: Config = { ...base, clientDir: null, dbFile: ':memory:', uploadsDir, ...overrides };
+  const dbFile = options.onDisk ? path.join(uploadsDir, 'db.sqlite') : ':memory:';
+  let config: Config = { ...base, clientDir: null, dbFile, uploadsDir, ...overrides };
   let fakePayments: FakePayments | null = null;
   if (options.fakePayments && config.payments) {
     fakePayments = await startFakePayments({ port: 0, secretKey: config.payments.secretKey, webhookSecret: config.payments.webhookSecret });
     config = { ...config, payments: { ...config.payments, apiHost: '127.0.0.1', apiPort: fakePayments.port, apiProtocol: 'http' } };
   }
-  const db = createDb(':memory:');
+  const db = createDb(dbFile);
   await migrate(db);
   await seed(db);
   await addOtherClinic(db);
   const mailer = new MemoryMailer();
   let fakeSmtp: FakeSmtp | null = null;
-  if (options.fakeSmtp) {
+  if (options.fakeSmtp ?? true) {
     fakeSmtp = await startFakeSmtp(db, 0);
-    mailer.forward = createSmtpMailer({ ...config.mail, host: '127.0.0.1', port: fakeSmtp.port });
+    mailer.forward = { mailer: createSmtpMailer({ ...config.mail, host: '127.0.0.1', port: fakeSmtp.port }), db };
   }
   let offset = 0;
-  const { app, close, worker, queue, clearExpiredSessions } = createApp({
+  const { app, close, worker, processing, clearExpiredSessions } = createApp({
     config,
     db,
     mailer,
@@ -121,7 +147,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
       offset += ms;
     },
     worker,
-    queue,
+    processing,
     clearExpiredSessions,
     async close() {
       await fakePayments?.idle();
@@ -202,6 +228,18 @@ export class Client {
 
   get(path: string) {
     return this.agent.get(path);
+  }
+
+  /** A GET whose body is kept as raw bytes (`res.body` is a Buffer): images, PDFs. */
+  binary(path: string) {
+    return this.agent
+      .get(path)
+      .buffer(true)
+      .parse((res, cb) => {
+        const chunks: Buffer[] = [];
+        res.on('data', (c: Buffer) => chunks.push(c));
+        res.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
   }
 
   async send(method: 'post' | 'put' | 'patch' | 'delete', path: string, body?: unknown) {

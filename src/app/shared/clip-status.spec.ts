@@ -1,5 +1,14 @@
 import type { Clip } from '../../contracts/api';
-import { clipFacts, clipStatusView, formatBytes, formatDuration, imageBox, isProcessing, readCaptureFps } from './clip-status';
+import {
+  clipFacts,
+  clipStatusView,
+  formatBytes,
+  formatDuration,
+  imageBox,
+  isProcessing,
+  isReviewable,
+  readCaptureFps,
+} from './clip-status';
 
 function clip(overrides: Partial<Clip> = {}): Clip {
   return {
@@ -67,6 +76,14 @@ describe('clipStatusView', () => {
       bar: null,
     });
     expect(clipStatusView(clip({ status: 'failed', error: null })).detail).toBe('Processing failed.');
+  });
+
+  it('opens the review once the first frames exist, before extraction ends', () => {
+    expect(isReviewable(clip({ status: 'ready' }))).toBe(true);
+    expect(isReviewable(clip({ status: 'extracting', progress: { done: 1, total: 240 } }))).toBe(true);
+    expect(isReviewable(clip({ status: 'extracting', progress: { done: 0, total: 240 } }))).toBe(false);
+    expect(isReviewable(clip({ status: 'queued' }))).toBe(false);
+    expect(isReviewable(clip({ status: 'failed' }))).toBe(false);
   });
 
   it('knows which states are still processing', () => {

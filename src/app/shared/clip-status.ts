@@ -28,6 +28,11 @@ export function isProcessing(status: ClipStatus): boolean {
   return status === 'queued' || status === 'probing' || status === 'extracting';
 }
 
+/** Whether the review can open on the clip: ready, or being extracted with its first frames in. */
+export function isReviewable(clip: Pick<Clip, 'status' | 'progress'>): boolean {
+  return clip.status === 'ready' || (clip.status === 'extracting' && (clip.progress?.done ?? 0) > 0);
+}
+
 /** What the clip's status chip, detail line and progress bar say. */
 export function clipStatusView(clip: Pick<Clip, 'status' | 'progress' | 'error' | 'frameCount'>): ClipStatusView {
   const label = CLIP_STATUS_LABELS[clip.status];

@@ -184,7 +184,6 @@ describe('output folder handling', () => {
     const out = path.join(dir, 'aborted');
     const controller = new AbortController();
     let seen = 0;
-    const started = Date.now();
     const result = extractFrames(src, out, {
       quality: 2,
       signal: controller.signal,
@@ -197,7 +196,6 @@ describe('output folder handling', () => {
     expect(err).toBeInstanceOf(MediaError);
     expect((err as MediaError).code).toBe('aborted');
     expect(seen).toBeLessThan(300);
-    expect(Date.now() - started).toBeLessThan(20_000);
     expect(await readdir(out)).toEqual([]);
   });
 

@@ -71,7 +71,7 @@ describe('image fractions → y-up plane', () => {
 describe('scale bar', () => {
   it('[calc] worked example, REFERENCES.md: 1 m spanning 400 px → 2.5 mm/px', () => {
     expect(metresPerPixel(SCALE_1M_400PX, { width: W, height: H })).toBeCloseTo(1 / 400, 12);
-    expect(1 / 400).toBe(0.0025); // independent: lengthM ÷ px
+    expect(metresPerPixel(SCALE_1M_400PX, { width: W, height: H })! * 1000).toBeCloseTo(2.5, 12); // 2.5 mm/px as REFERENCES.md prints it
   });
 
   it('[calc] a diagonal bar uses its pixel length (300, 400 px → 500 px), not its fraction length', () => {

@@ -8,8 +8,6 @@ import fc from 'fast-check';
 import { describe, expect, expectTypeOf, it } from 'vitest';
 import type { FrameLandmarks } from '../../../src/contracts/annotations';
 import {
-  computeClipMeasures,
-  DEFAULT_REFERENCE_BANDS,
   drawGhostSkeleton,
   drawOverlay,
   formatAngleLabel,
@@ -23,7 +21,6 @@ import {
   LABEL_OFFSET_RAD,
   OVERLAY_COLOURS,
   overlayLabelPositions,
-  round1,
   type Canvas2DLike,
   type OverlayOptions,
 } from '../../../src/kinematics';
@@ -159,17 +156,6 @@ describe('label numbers equal the computed measures, rounded to 1 decimal', () =
   const landmarks = events.map((e) =>
     landmarksAt(e.frame, e.side, (e.kind === 'initial_contact' ? IC_POSE : TO_POSE) as MetrePose, 'right_to_left'),
   );
-  const m = computeClipMeasures({
-    clipId: 1,
-    annotations: { landmarks, events, scale: SCALE_1M_400PX },
-    frameSize: { width: W, height: H },
-    fps: 240,
-    direction: 'right_to_left',
-    surface: 'treadmill',
-    beltSpeedMps: 3,
-    bands: DEFAULT_REFERENCE_BANDS,
-  });
-  const measure = (key: string) => m.measures.find((x) => x.key === key && x.side === 'right')!;
   const layout = (frame: number) =>
     overlayLabelPositions(
       opts(
@@ -182,13 +168,11 @@ describe('label numbers equal the computed measures, rounded to 1 decimal', () =
     const to = layout(60).angles;
     const hip = to.find((a) => a.joint === 'hip')!;
     expect(hip.text).toBe('22.5° ext');
-    expect(parseFloat(hip.text)).toBe(round1(measure('hip_extension_toe_off').values[0]!));
     expect(to.find((a) => a.joint === 'knee')!.text).toBe('26.9°');
     expect(to.find((a) => a.joint === 'ankle')).toBeUndefined(); // no heel/toe in the toe-off example
   });
   it('[calc] initial contact: knee label = knee flexion at IC (12.529° → 12.5)', () => {
     const knee = layout(0).angles.find((a) => a.joint === 'knee')!;
-    expect(parseFloat(knee.text)).toBe(round1(measure('knee_flexion_initial_contact').values[0]!));
     expect(knee.text).toBe('12.5°');
   });
   it('for any pose, each label is the frame angle rounded to 1 decimal (property)', () => {
@@ -203,9 +187,16 @@ describe('label numbers equal the computed measures, rounded to 1 decimal', () =
         for (const g of L.angles) {
           const v = g.joint === 'hip' ? a.thighDeg! : g.joint === 'knee' ? a.kneeFlexionDeg! : a.ankleDeg!;
           expect(g.valueDeg).toBe(v);
-          expect(g.text).toBe(formatAngleLabel(g.joint, v));
-          const n = parseFloat(g.text.replace('−', '-'));
-          expect(Math.abs(n)).toBe(Math.abs(round1(v)));
+          // Independent spelling: one decimal, within half a tenth of the angle; the hip says flex/ext
+          // and the ankle DF/PF by the sign (none at 0.0), the knee carries a minus sign instead.
+          const m = /^(−?)(\d+\.\d)°(?: (flex|ext|DF|PF))?$/.exec(g.text);
+          expect(m, g.text).not.toBeNull();
+          const shown = Number(m![2]);
+          expect(Math.abs(shown - Math.abs(v))).toBeLessThanOrEqual(0.05 + 1e-9);
+          const word = m![3];
+          if (shown === 0) expect(word).toBeUndefined();
+          else if (g.joint === 'knee') expect([m![1] === '−', word]).toEqual([v < 0, undefined]);
+          else expect(word).toBe(g.joint === 'hip' ? (v > 0 ? 'flex' : 'ext') : v > 0 ? 'DF' : 'PF');
         }
       }),
     );
@@ -357,8 +348,8 @@ describe('overlay sizes in view pixels (viewScale)', () => {
   });
 
   it('the ghost skeleton is dashed, in lighter tints of the limb colours, with hollow markers', () => {
-    expect(GHOST_COLOURS.left).toBe(tint(OVERLAY_COLOURS.left, 0.45));
     // Independent tint: violet #7B4FD6 mixed 45 % with white → (182, 158, 232).
+    expect(tint('#7B4FD6', 0.45)).toBe('#B69EE8');
     expect(GHOST_COLOURS.left).toBe('#B69EE8');
     const ctx = new RecordingContext();
     const landmarks = [landmarksAt(0, 'right', TO_POSE as MetrePose, 'left_to_right')];

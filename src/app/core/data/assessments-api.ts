@@ -1,23 +1,11 @@
 import { HttpClient, HttpEventType, HttpRequest, HttpResponse } from '@angular/common/http';
-import { Injectable, InjectionToken, inject } from '@angular/core';
+import { Injectable, inject } from '@angular/core';
 import { Observable, filter, map } from 'rxjs';
 import type { Assessment, AssessmentDetail, AssessmentWrite, Clip, ClipUpdate } from '../../../contracts/api';
 import { skipErrorSnackbar } from '../http-context';
 
 /** What an upload reports: bytes sent so far, then the clip the server created. */
 export type UploadEvent = { type: 'progress'; loaded: number; total: number } | { type: 'done'; clip: Clip };
-
-/** What the clip event stream reports: the stream (re)connected, a clip changed or was deleted. */
-export type ClipStreamMessage = { type: 'connected' } | { type: 'clip'; clip: Clip } | { type: 'deleted'; id: number };
-
-/** `EventSource.CLOSED` (spelled out so tests without `EventSource` can load this file). */
-const EVENT_SOURCE_CLOSED = 2;
-
-/** Makes the `EventSource` behind `clipEvents` (tests swap in a fake). */
-export const EVENT_SOURCE_FACTORY = new InjectionToken<(url: string) => EventSource>('EVENT_SOURCE_FACTORY', {
-  providedIn: 'root',
-  factory: () => (url: string) => new EventSource(url),
-});
 
 /**
  * HTTP for assessments and clips. Loads report failures through the page's error state, forms
@@ -26,7 +14,6 @@ export const EVENT_SOURCE_FACTORY = new InjectionToken<(url: string) => EventSou
 @Injectable({ providedIn: 'root' })
 export class AssessmentsApi {
   private readonly http = inject(HttpClient);
-  private readonly eventSource = inject(EVENT_SOURCE_FACTORY);
 
   /** The athlete's assessments, newest first. */
   list(athleteId: number): Observable<Assessment[]> {
@@ -94,51 +81,6 @@ export class AssessmentsApi {
   /** Queues a failed clip for processing again. */
   retryClip(id: number): Observable<Clip> {
     return this.http.post<Clip>(`/api/clips/${id}/retry`, null);
-  }
-
-  /**
-   * Live clip changes of an assessment over server-sent events (`event: clip`, data = Clip; and
-   * `event: clip-deleted`, data = `{ id }`). Emits `connected` on every (re)connection; the server
-   * sends every clip's state after connecting, but not the clips deleted meanwhile, so
-   * subscribers reload after a reconnection. The browser reconnects by itself after a dropped connection; the
-   * stream errors only when the server refuses it for good. Unsubscribing closes the connection.
-   */
-  clipEvents(assessmentId: number): Observable<ClipStreamMessage> {
-    return new Observable<ClipStreamMessage>((subscriber) => {
-      const source = this.eventSource(`/api/assessments/${assessmentId}/clip-events`);
-      const onClip = (event: Event) => {
-        try {
-          subscriber.next({ type: 'clip', clip: JSON.parse((event as MessageEvent<string>).data) as Clip });
-        } catch {
-          // A malformed message is skipped; the next change or reconnect brings the truth.
-        }
-      };
-      // Not in the API table yet: the server also says when a clip is gone.
-      const onDeleted = (event: Event) => {
-        try {
-          const { id } = JSON.parse((event as MessageEvent<string>).data) as { id: unknown };
-          if (typeof id === 'number') subscriber.next({ type: 'deleted', id });
-        } catch {
-          // Skipped, as above.
-        }
-      };
-      source.addEventListener('clip', onClip);
-      source.addEventListener('clip-deleted', onDeleted);
-      source.onopen = () => subscriber.next({ type: 'connected' });
-      source.onerror = () => {
-        // CONNECTING: the browser is retrying. CLOSED: it gave up (e.g. 401/404 answer).
-        if (source.readyState === EVENT_SOURCE_CLOSED) {
-          subscriber.error(new Error('Live updates stopped. Reload the page to see the latest state.'));
-        }
-      };
-      return () => {
-        source.removeEventListener('clip', onClip);
-        source.removeEventListener('clip-deleted', onDeleted);
-        source.onopen = null;
-        source.onerror = null;
-        source.close();
-      };
-    });
   }
 }
 

@@ -1,7 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { Observable } from 'rxjs';
-import type { ClipAnnotations, ClipAnnotationsWrite } from '../../../contracts/annotations';
+import type { ClipAnnotations, ClipAnnotationsWrite, EventProposalsResult } from '../../../contracts/annotations';
 import type { ClipMeasures } from '../../../contracts/measures';
 import type { FrameManifest } from '../../../contracts/api';
 import { skipErrorSnackbar } from '../http-context';
@@ -37,6 +37,15 @@ export class ReviewApi {
    */
   saveAnnotations(clipId: number, body: ClipAnnotationsWrite): Observable<ClipAnnotations> {
     return this.http.put<ClipAnnotations>(`/api/clips/${clipId}/annotations`, body, { context: skipErrorSnackbar() });
+  }
+
+  /**
+   * Asks the server to propose gait events from the clip's landmarks and save them as proposals
+   * (placed and accepted events stay). 409 `stale_revision` when someone saved since
+   * `baseRevision`; 422 `too_few_landmarked_frames` / `no_events_found` with the reason.
+   */
+  proposeEvents(clipId: number, baseRevision: number): Observable<EventProposalsResult> {
+    return this.http.post<EventProposalsResult>(`/api/clips/${clipId}/events/proposals`, { baseRevision }, { context: skipErrorSnackbar() });
   }
 
   /** The measures the server stored when the annotations last changed. */

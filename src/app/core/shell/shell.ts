@@ -11,6 +11,7 @@ import { MatToolbarModule } from '@angular/material/toolbar';
 import { Router, RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { map } from 'rxjs';
 import { BrandMark } from '../../shared/brand-mark/brand-mark';
+import { ClinicBrandStore } from '../data/clinic-brand-store';
 import { SIGNING_OUT } from '../auth-guards';
 import { AuthStore } from '../auth-store';
 import { ROLE_LABELS } from '../roles';
@@ -41,6 +42,8 @@ const NARROW = '(max-width: 959.98px)';
 })
 export class Shell {
   protected readonly auth = inject(AuthStore);
+  /** The clinic's logo beside its name (the portal's header for athletes). */
+  protected readonly brand = inject(ClinicBrandStore);
   private readonly router = inject(Router);
 
   protected readonly isNarrow = toSignal(

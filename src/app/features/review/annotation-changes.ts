@@ -8,6 +8,7 @@
  */
 import type {
   AngleGauge,
+  EventOrigin,
   FrameLandmarks,
   FramePoint,
   GaitEventKind,
@@ -56,10 +57,10 @@ export interface GaugeKey {
 
 export type AnnotationKey = PointKey | EventKey | ScaleKey | GaugeKey;
 
-/** A change of one keyed value; `null` means "absent". */
+/** A change of one keyed value; `null` means "absent". An event's value is where it came from. */
 export type Change =
   | { key: PointKey; before: FramePoint | null; after: FramePoint | null }
-  | { key: EventKey; before: true | null; after: true | null }
+  | { key: EventKey; before: EventOrigin | null; after: EventOrigin | null }
   | { key: ScaleKey; before: ScaleBar | null; after: ScaleBar | null }
   | { key: GaugeKey; before: AngleGauge | null; after: AngleGauge | null };
 
@@ -109,14 +110,16 @@ function sameValue(a: unknown, b: unknown, kind: AnnotationKey['kind']): boolean
 }
 
 /** The current value at `key` in `state` (null when absent). */
-export function valueAt(state: AnnotationState, key: AnnotationKey): FramePoint | true | ScaleBar | AngleGauge | null {
+export function valueAt(state: AnnotationState, key: AnnotationKey): FramePoint | EventOrigin | ScaleBar | AngleGauge | null {
   switch (key.kind) {
     case 'point': {
       const row = state.landmarks.find((l) => l.frame === key.frame && l.side === key.side);
       return row?.points[key.landmark] ?? null;
     }
-    case 'event':
-      return state.events.some((e) => e.frame === key.frame && e.side === key.side && e.kind === key.event) ? true : null;
+    case 'event': {
+      const e = state.events.find((x) => x.frame === key.frame && x.side === key.side && x.kind === key.event);
+      return e ? (e.origin ?? 'placed') : null;
+    }
     case 'scale':
       return state.scale;
     case 'gauge':
@@ -126,7 +129,7 @@ export function valueAt(state: AnnotationState, key: AnnotationKey): FramePoint 
 
 interface Keyed {
   key: AnnotationKey;
-  value: FramePoint | true | ScaleBar | AngleGauge;
+  value: FramePoint | EventOrigin | ScaleBar | AngleGauge;
 }
 
 /** Every present value of `state`, by key id. */
@@ -142,7 +145,7 @@ export function keyedValues(state: AnnotationState): Map<string, Keyed> {
   }
   for (const e of state.events) {
     const key: EventKey = { kind: 'event', frame: e.frame, side: e.side, event: e.kind };
-    map.set(keyId(key), { key, value: true });
+    map.set(keyId(key), { key, value: e.origin ?? 'placed' });
   }
   if (state.scale) map.set('s', { key: { kind: 'scale' }, value: state.scale });
   for (const g of state.gauges) {
@@ -238,11 +241,19 @@ export function applyChanges(state: AnnotationState, changes: readonly Change[])
       }
       case 'event': {
         const { frame, side, event } = c.key;
-        const present = events.some((e) => e.frame === frame && e.side === side && e.kind === event);
-        if (c.after && !present) {
-          events = [...events, { frame, side, kind: event }];
+        const at = events.find((e) => e.frame === frame && e.side === side && e.kind === event);
+        const present = !!at;
+        const after = c.after as EventOrigin | null;
+        // A placed event carries no origin field (the stored default), others say where they came from.
+        const mark = (origin: EventOrigin): GaitEventMark =>
+          origin === 'placed' ? { frame, side, kind: event } : { frame, side, kind: event, origin };
+        if (after && !present) {
+          events = [...events, mark(after)];
           eventsChanged = true;
-        } else if (!c.after && present) {
+        } else if (after && at && (at.origin ?? 'placed') !== after) {
+          events = events.map((e) => (e === at ? mark(after) : e));
+          eventsChanged = true;
+        } else if (!after && present) {
           events = events.filter((e) => !(e.frame === frame && e.side === side && e.kind === event));
           eventsChanged = true;
         }

@@ -91,17 +91,27 @@ export function hasEvent(events: readonly GaitEventMark[], frame: number, side: 
  * has one event per frame, so marking replaces another kind marked there for that side.
  */
 export function toggleEventChanges(state: AnnotationState, frame: number, side: Side, kind: GaitEventKind): Change[] {
-  if (hasEvent(state.events, frame, side, kind)) return [{ key: eventKey(frame, side, kind), before: true, after: null }];
+  const here = state.events.find((e) => e.frame === frame && e.side === side && e.kind === kind);
+  if (here) return [{ key: eventKey(frame, side, kind), before: here.origin ?? 'placed', after: null }];
   const replaced: Change[] = state.events
     .filter((e) => e.frame === frame && e.side === side && e.kind !== kind)
-    .map((e) => ({ key: eventKey(frame, side, e.kind), before: true, after: null }));
-  return [...replaced, { key: eventKey(frame, side, kind), before: null, after: true }];
+    .map((e) => ({ key: eventKey(frame, side, e.kind), before: e.origin ?? 'placed', after: null }));
+  return [...replaced, { key: eventKey(frame, side, kind), before: null, after: 'placed' }];
 }
 
 /** Removes one event. */
 export function removeEventChanges(state: AnnotationState, mark: GaitEventMark): Change[] {
-  if (!hasEvent(state.events, mark.frame, mark.side, mark.kind)) return [];
-  return [{ key: eventKey(mark.frame, mark.side, mark.kind), before: true, after: null }];
+  const here = state.events.find((e) => e.frame === mark.frame && e.side === mark.side && e.kind === mark.kind);
+  if (!here) return [];
+  return [{ key: eventKey(mark.frame, mark.side, mark.kind), before: here.origin ?? 'placed', after: null }];
+}
+
+/** Accepts proposed events: each given one (all proposals when `marks` is omitted) becomes `accepted`. */
+export function acceptProposalChanges(state: AnnotationState, marks?: readonly GaitEventMark[]): Change[] {
+  const wanted = (e: GaitEventMark) => !marks || marks.some((m) => m.frame === e.frame && m.side === e.side && m.kind === e.kind);
+  return state.events
+    .filter((e) => e.origin === 'proposed' && wanted(e))
+    .map((e) => ({ key: eventKey(e.frame, e.side, e.kind), before: 'proposed', after: 'accepted' }));
 }
 
 /** Sets, replaces or (with null) removes the scale bar. */

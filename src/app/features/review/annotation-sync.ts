@@ -85,6 +85,15 @@ export class AnnotationSync {
     this.schedule(0);
   }
 
+  /**
+   * Takes a copy the server saved by itself (e.g. proposed events) as the new base. Call only when
+   * nothing is unsaved; the page then shows that copy (the edit is clean, nothing is sent).
+   */
+  adopt(saved: ClipAnnotations): void {
+    this.base$.set(saved);
+    this.problem$.set(null);
+  }
+
   /** Stops timers (page left). */
   stop(): void {
     this.clearTimer();

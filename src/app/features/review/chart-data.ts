@@ -140,6 +140,8 @@ export function eventMarkersPlugin(state: MarkerState): Plugin<'line'> {
         MARKER_LABEL_ROWS,
       );
       shown.forEach(({ e, px, text }, i) => {
+        // A proposed event (not yet accepted) is drawn paler than a placed or accepted one.
+        ctx.globalAlpha = e.origin === 'proposed' ? 0.45 : 1;
         ctx.strokeStyle = SIDE_COLOURS[e.side];
         ctx.lineWidth = 1.5;
         ctx.setLineDash(EVENT_DASH[e.kind]);
@@ -152,6 +154,7 @@ export function eventMarkersPlugin(state: MarkerState): Plugin<'line'> {
         ctx.fillStyle = LABEL_COLOURS[e.side];
         ctx.fillText(text, px, chartArea.top - 1 - row * MARKER_LABEL_ROW_PX);
       });
+      ctx.globalAlpha = 1;
       const cx = x.getPixelForValue(state.currentFrame);
       if (cx >= chartArea.left && cx <= chartArea.right) {
         ctx.setLineDash([]);

@@ -43,6 +43,8 @@ export class FrameCache<B extends DrawableFrame = ImageBitmap> {
   private clock = 0;
   private current = 0;
   private destroyed = false;
+  /** Frames 0 … available − 1 exist on the server (fewer than `frameCount` while extraction runs). */
+  private available: number;
 
   /** Changes whenever a frame arrives or fails to load. */
   readonly version = this.version$.asReadonly();
@@ -50,6 +52,17 @@ export class FrameCache<B extends DrawableFrame = ImageBitmap> {
   constructor(private readonly config: FrameCacheConfig<B>) {
     this.options = { ...DEFAULT_CACHE_WINDOW, ...config.options };
     this.bytesPerFrame = bitmapBytes(config.width, config.height);
+    this.available = config.frameCount;
+  }
+
+  /**
+   * How many frames exist so far (they arrive in order while the clip is extracted), and the
+   * clip's frame count once known for sure. Frames past them are never asked for.
+   */
+  setAvailable(available: number, frameCount = this.config.frameCount): void {
+    this.config.frameCount = frameCount;
+    this.available = Math.max(0, Math.min(available, frameCount));
+    this.plan();
   }
 
   /** The decoded frame, or null when it is not cached yet. Marks it as just used. */
@@ -111,8 +124,8 @@ export class FrameCache<B extends DrawableFrame = ImageBitmap> {
   private plan(): void {
     if (this.destroyed) return;
     const plan = planCache({
-      current: this.current,
-      frameCount: this.config.frameCount,
+      current: Math.min(this.current, Math.max(0, this.available - 1)),
+      frameCount: this.available,
       cached: this.entries,
       inFlight: new Set(this.inFlight.keys()),
       failed: this.failed,

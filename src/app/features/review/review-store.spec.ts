@@ -2,32 +2,10 @@ import { provideHttpClient } from '@angular/common/http';
 import { provideHttpClientTesting } from '@angular/common/http/testing';
 import { signal } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
-import { EMPTY } from 'rxjs';
-import type { Assessment, Clip } from '../../../contracts/api';
 import { AuthStore } from '../../core/auth-store';
 import { AnnotationSync } from './annotation-sync';
-import { FrameCache } from './frame-cache';
 import { ReviewStore } from './review-store';
-import type { FrameManifest } from '../../../contracts/api';
-
-const clip = { id: 7, nearSide: 'left', direction: 'left_to_right', captureFps: null, fps: 60, effectiveFps: 60 } as Clip;
-const assessment = { surface: 'treadmill', speedMps: 3 } as Assessment;
-const manifest: FrameManifest = {
-  version: 1,
-  frameCount: 20,
-  width: 1280,
-  height: 720,
-  fps: 60,
-  durationS: 20 / 60,
-  rotationApplied: 0,
-  timestampsMs: Array.from({ length: 20 }, (_, i) => (i * 1000) / 60),
-  timestampsSource: 'computed',
-  thumbEvery: 6,
-  thumbCount: 4,
-  thumbWidth: 160,
-  thumbHeight: 90,
-  quality: 4,
-};
+import { openTestReview } from './test-review';
 
 describe('ReviewStore', () => {
   let store: ReviewStore;
@@ -43,18 +21,7 @@ describe('ReviewStore', () => {
       ],
     });
     store = TestBed.inject(ReviewStore);
-    const cache = new FrameCache({
-      frameCount: 20,
-      width: 1280,
-      height: 720,
-      fetch: () => EMPTY,
-      decode: () => Promise.reject(new Error('unused')),
-    });
-    store.open(
-      { clip, assessment, manifest },
-      { clipId: 7, revision: 0, landmarks: [], events: [], scale: null, updatedAt: null, updatedByName: null },
-      cache,
-    );
+    openTestReview(store);
   });
 
   it('starts on the near side and walks through the landmarks as they are placed', () => {

@@ -43,6 +43,9 @@ export interface ViewerHooks {
 
 const SIDE_NAMES: Record<Side, string> = { left: 'Left', right: 'Right' };
 
+/** Said when a mark is tried while frames are still being extracted. */
+export const MARKING_WAITS = 'Marking opens once every frame is extracted; step through the frames that are here meanwhile.';
+
 /**
  * The review workspace's state: the clip, the annotations as shown (with undo/redo and autosave),
  * the current frame and playback, the chosen side, landmark and tool, and the live measures.
@@ -84,6 +87,12 @@ export class ReviewStore {
   readonly hasUnsaved = this.sync.hasUnsaved;
 
   readonly frameCount = computed(() => this.clip$()?.manifest.frameCount ?? 0);
+  /** Whether frames are still being extracted: the review is open on the first ones (see `framesArrived`). */
+  readonly filling = computed(() => this.clip$()?.manifest.complete === false);
+  /** Frames extracted so far while filling (they arrive in order). */
+  readonly readyFrames = signal(0);
+  /** Frames that can be shown: all of them, or those extracted so far while filling. */
+  readonly available = computed(() => (this.filling() ? Math.min(this.readyFrames(), this.frameCount()) : this.frameCount()));
   readonly frameSize = computed(() => {
     const m = this.clip$()?.manifest;
     return { width: m?.width ?? 0, height: m?.height ?? 0 };
@@ -173,11 +182,13 @@ export class ReviewStore {
     });
   }
 
-  /** Opens a clip with the annotations just loaded. */
+  /** Opens a clip with the annotations just loaded (while filling, on the frames extracted so far). */
   open(clip: ReviewClip, loaded: ClipAnnotations, cache: FrameCache): void {
     this.cache$()?.destroy();
     this.clip$.set(clip);
     this.cache$.set(cache);
+    this.readyFrames.set(clip.clip.progress?.done ?? 0);
+    if (this.filling()) cache.setAvailable(this.available());
     this.annotations.set(stateOf(loaded));
     this.history$.set(createHistory<Change>(300));
     this.side.set(clip.clip.nearSide);
@@ -195,6 +206,25 @@ export class ReviewStore {
     });
   }
 
+  /** More frames were extracted: they can be shown now. */
+  framesArrived(ready: number): void {
+    if (!this.filling() || ready <= this.readyFrames()) return;
+    this.readyFrames.set(ready);
+    this.cache$()?.setAvailable(this.available());
+    this.requestDraw();
+  }
+
+  /** Extraction finished: the complete manifest (exact frame count and timestamps) replaces the plan. */
+  extractionDone(clip: Clip, manifest: ClipManifest): void {
+    const current = this.clip$();
+    if (!current || current.clip.id !== clip.id) return;
+    this.clip$.set({ ...current, clip, manifest });
+    this.readyFrames.set(manifest.frameCount);
+    this.cache$()?.setAvailable(manifest.frameCount, manifest.frameCount);
+    if (this.frame() >= manifest.frameCount) this.goTo(manifest.frameCount - 1);
+    this.requestDraw();
+  }
+
   attachViewer(hooks: ViewerHooks | null): void {
     this.viewer = hooks;
   }
@@ -210,7 +240,7 @@ export class ReviewStore {
   // ---- Frames and playback ---------------------------------------------------------------
 
   goTo(frame: number): void {
-    const f = clampFrame(frame, this.frameCount());
+    const f = clampFrame(frame, this.available());
     if (f !== this.frame()) {
       this.frame.set(f);
       this.explicitChoice.set(false);
@@ -230,7 +260,7 @@ export class ReviewStore {
   }
 
   last(): void {
-    this.step(this.frameCount());
+    this.step(this.available());
   }
 
   /** Moves to the previous/next marked event; false when there is none that way. */
@@ -247,8 +277,8 @@ export class ReviewStore {
   }
 
   play(): void {
-    if (this.playing() || this.frameCount() < 2) return;
-    if (this.frame() >= this.frameCount() - 1) this.goTo(0);
+    if (this.playing() || this.available() < 2) return;
+    if (this.frame() >= this.available() - 1) this.goTo(0);
     this.playing.set(true);
     this.playAnchor = { frame: this.frame(), wall: performance.now() };
     this.playRaf = requestAnimationFrame((t) => this.tick(t));
@@ -290,7 +320,7 @@ export class ReviewStore {
     } else {
       this.buffering.set(false);
     }
-    if (next >= this.frameCount() - 1) {
+    if (next >= this.available() - 1) {
       this.pause();
       return;
     }
@@ -354,6 +384,7 @@ export class ReviewStore {
 
   /** Moves a point while it is dragged (not yet an undo step). */
   dragPoint(ref: LandmarkRef, point: FramePoint): void {
+    if (this.refuseWhileFilling()) return;
     const changes = setPointChanges(this.annotations(), this.frame(), ref.side, ref.landmark, point);
     if (!changes.length) return;
     this.annotations.update((s) => applyChanges(s, changes));
@@ -448,7 +479,7 @@ export class ReviewStore {
 
   /** Shows `changes` without an undo step (while something is dragged); {@link record} ends it. */
   preview(changes: Change[]): void {
-    if (!changes.length) return;
+    if (!changes.length || this.refuseWhileFilling()) return;
     this.annotations.update((s) => applyChanges(s, changes));
     this.sync.edited();
     this.requestDraw();
@@ -466,8 +497,18 @@ export class ReviewStore {
     this.requestDraw();
   }
 
+  /**
+   * Marks are saved only on a clip whose every frame exists (the server checks frames against the
+   * clip's length): while frames arrive, the review is for looking, and a mark says so.
+   */
+  private refuseWhileFilling(): boolean {
+    if (!this.filling()) return false;
+    this.snackBar.open(MARKING_WAITS, undefined, { duration: 3000 });
+    return true;
+  }
+
   private apply(label: string, changes: Change[]): void {
-    if (!changes.length) return;
+    if (!changes.length || this.refuseWhileFilling()) return;
     this.annotations.update((s) => applyChanges(s, changes));
     this.history$.update((h) => record(h, { label, changes }));
     this.sync.edited();

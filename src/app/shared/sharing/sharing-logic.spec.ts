@@ -1,8 +1,9 @@
+import type { ProcessingEvent } from '../../../contracts/processing';
 import { describe, expect, it } from 'vitest';
 import type { Still } from '../../../contracts/sharing';
 import { CAPTION_MAX } from '../../../contracts/sharing';
 import {
-  anyRendering,
+  sharedListStep,
   baselineChoices,
   defaultBaseline,
   downloadUrl,
@@ -58,11 +59,40 @@ describe('textCount', () => {
   });
 });
 
-describe('anyRendering', () => {
-  it('asks again only while something renders', () => {
-    expect(anyRendering([{ status: 'ready' }], [{ status: 'failed' }])).toBe(false);
-    expect(anyRendering([{ status: 'ready' }], [{ status: 'rendering' }])).toBe(true);
-    expect(anyRendering(null, undefined, [])).toBe(false);
+describe('sharedListStep', () => {
+  const event = (over: Partial<ProcessingEvent>): ProcessingEvent => ({
+    subject: 'still',
+    id: 5,
+    kind: 'render_still',
+    state: 'running',
+    progress: null,
+    error: null,
+    ...over,
+  });
+  const shown = { stills: [{ id: 5, status: 'rendering' as const }], summaries: [{ id: 8, status: 'ready' as const }] };
+
+  it('sets the progress of a shown render in place', () => {
+    expect(sharedListStep(event({ progress: { done: 40, total: 100 } }), shown)).toEqual({
+      kind: 'progress',
+      subject: 'still',
+      id: 5,
+      progress: 0.4,
+    });
+  });
+
+  it('fetches on any other change and for what the tab does not show yet', () => {
+    expect(sharedListStep(event({ state: 'ready' }), shown)).toEqual({ kind: 'fetch', subject: 'still', id: 5 });
+    expect(sharedListStep(event({ id: 6, progress: { done: 1, total: 100 } }), shown)).toEqual({ kind: 'fetch', subject: 'still', id: 6 });
+    expect(sharedListStep(event({ subject: 'summary', id: 8, state: 'queued' }), shown)).toEqual({
+      kind: 'fetch',
+      subject: 'summary',
+      id: 8,
+    });
+  });
+
+  it('drops a cancelled render and leaves clips to their own page', () => {
+    expect(sharedListStep(event({ state: 'cancelled' }), shown)).toEqual({ kind: 'drop', subject: 'still', id: 5 });
+    expect(sharedListStep(event({ subject: 'clip' }), shown)).toEqual({ kind: 'ignore' });
   });
 });
 

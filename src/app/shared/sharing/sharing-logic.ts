@@ -1,11 +1,10 @@
 /**
- * Pure helpers of sharing (stills and visit summaries): text counters, publish buttons, the
- * "keep polling?" decision, swipe direction, the athlete's next assessment. No Angular here.
+ * Pure helpers of sharing (stills and visit summaries): text counters, publish buttons, following
+ * renders on the progress stream, swipe direction, the athlete's next assessment. No Angular here.
  */
+import type { ProcessingEvent } from '../../../contracts/processing';
 import type { RenderStatus, Still, VisitSummary } from '../../../contracts/sharing';
 
-/** How often a list with something still rendering asks again, ms. */
-export const POLL_MS = 700;
 /** Horizontal drag beyond which a drag counts as a swipe, px. */
 export const SWIPE_MIN_PX = 50;
 
@@ -27,9 +26,33 @@ export function textCount(text: string, max: number): TextCount {
   return { length, remaining, over: remaining < 0, near: remaining >= 0 && remaining < max * 0.1, label: `${length} / ${max}` };
 }
 
-/** Whether anything in the lists is still being rendered (so the list should be asked again). */
-export function anyRendering(...lists: readonly (readonly { status: RenderStatus }[] | null | undefined)[]): boolean {
-  return lists.some((l) => !!l?.some((i) => i.status === 'rendering'));
+/** Which list a progress event is about. */
+export type SharedSubject = 'still' | 'summary';
+
+/** How the Shared tab follows one event of the progress stream. */
+export type SharedListStep =
+  | { kind: 'progress'; subject: SharedSubject; id: number; progress: number }
+  | { kind: 'fetch'; subject: SharedSubject; id: number }
+  | { kind: 'drop'; subject: SharedSubject; id: number }
+  | { kind: 'ignore' };
+
+/**
+ * A render's progress on a shown still or summary is set in place (0–1); any other change — ready,
+ * failed, queued again, or one the tab does not show yet (saved from the review) — fetches it
+ * again; a cancelled render means it is being deleted. Clips' events are not the tab's.
+ */
+export function sharedListStep(
+  event: ProcessingEvent,
+  shown: { stills: readonly { id: number; status: RenderStatus }[]; summaries: readonly { id: number; status: RenderStatus }[] },
+): SharedListStep {
+  if (event.subject !== 'still' && event.subject !== 'summary') return { kind: 'ignore' };
+  const subject = event.subject;
+  if (event.state === 'cancelled') return { kind: 'drop', subject, id: event.id };
+  const item = (subject === 'still' ? shown.stills : shown.summaries).find((i) => i.id === event.id);
+  if (item?.status === 'rendering' && event.state === 'running' && event.progress && event.progress.total > 0) {
+    return { kind: 'progress', subject, id: event.id, progress: Math.min(1, event.progress.done / event.progress.total) };
+  }
+  return { kind: 'fetch', subject, id: event.id };
 }
 
 /** Progress 0–1 as a whole percentage, clamped (for a determinate progress bar). */

@@ -5,39 +5,8 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
 import type { AssessmentDetail, Clip } from '../../../../contracts/api';
 import { AuthStore } from '../../../core/auth-store';
-import { EVENT_SOURCE_FACTORY } from '../../../core/data/assessments-api';
+import { FakeEventSource, provideFakeEventSource } from '../../../core/fake-event-source';
 import { AssessmentClips, upsertClip } from './assessment-clips';
-
-/** Stands in for the browser's EventSource. */
-class FakeEventSource {
-  static instances: FakeEventSource[] = [];
-  readyState = 0;
-  onopen: (() => void) | null = null;
-  onerror: (() => void) | null = null;
-  private readonly listeners = new Map<string, (e: Event) => void>();
-  constructor(readonly url: string) {
-    FakeEventSource.instances.push(this);
-  }
-  addEventListener(type: string, fn: (e: Event) => void) {
-    this.listeners.set(type, fn);
-  }
-  removeEventListener(type: string) {
-    this.listeners.delete(type);
-  }
-  close() {
-    this.readyState = 2;
-  }
-  open() {
-    this.readyState = 1;
-    this.onopen?.();
-  }
-  send(clip: Clip) {
-    this.listeners.get('clip')?.(new MessageEvent('clip', { data: JSON.stringify(clip) }));
-  }
-  sendDeleted(id: number) {
-    this.listeners.get('clip-deleted')?.(new MessageEvent('clip-deleted', { data: JSON.stringify({ id }) }));
-  }
-}
 
 function clip(id: number, overrides: Partial<Clip> = {}): Clip {
   return {
@@ -106,14 +75,13 @@ describe('AssessmentClips', () => {
   let backend: HttpTestingController;
 
   function create(assessment: AssessmentDetail, audience: 'staff' | 'athlete' = 'staff') {
-    FakeEventSource.instances = [];
     TestBed.configureTestingModule({
       imports: [AssessmentClips],
       providers: [
         provideRouter([]),
         provideHttpClient(),
         provideHttpClientTesting(),
-        { provide: EVENT_SOURCE_FACTORY, useValue: (url: string) => new FakeEventSource(url) },
+        provideFakeEventSource(),
         { provide: AuthStore, useValue: { user: signal({ id: 7, name: 'Sam Runner' }) } },
       ],
     });
@@ -129,32 +97,37 @@ describe('AssessmentClips', () => {
 
   const statuses = () => [...element.querySelectorAll('.status-chip')].map((e) => e.textContent?.trim());
 
-  it('follows processing live and reloads after every (re)connection', async () => {
+  it('follows processing on the athlete’s progress stream and reloads after every (re)connection', async () => {
     create(detail());
     await fixture.whenStable();
     const source = FakeEventSource.instances[0];
-    expect(source.url).toBe('/api/assessments/4/clip-events');
+    expect(source.url).toBe('/api/athletes/9/processing-events');
     expect(statuses()).toEqual(['Queued']);
 
-    // On connecting the server replays every clip's state.
+    // Progress of a shown clip is patched in place, without a request.
     source.open();
-    source.send(clip(1, { status: 'probing' }));
+    source.send({ id: 1, state: 'running', progress: { done: 60, total: 240 } });
     await fixture.whenStable();
     backend.expectNone('/api/assessments/4');
-    expect(statuses()).toEqual(['Checking video']);
-
-    source.send(clip(1, { status: 'extracting', progress: { done: 60, total: 240 } }));
-    await fixture.whenStable();
+    backend.expectNone('/api/clips/1');
+    expect(statuses()).toEqual(['Extracting frames']);
     expect(element.textContent).toContain('Frame 60 of 240 (25 %)');
 
-    source.send(clip(1, { status: 'failed', error: 'No video stream found in the file.' }));
+    // Any other change brings the clip again.
+    source.send({ id: 1, state: 'failed', error: 'No video stream found in the file.' });
+    backend.expectOne('/api/clips/1').flush(clip(1, { status: 'failed', error: 'No video stream found in the file.' }));
     await fixture.whenStable();
     expect(statuses()).toEqual(['Failed']);
     expect(element.textContent).toContain('No video stream found in the file.');
     expect(element.textContent).toContain('Retry processing');
 
-    // A clip someone else added shows up as well.
-    source.send(clip(2, { status: 'ready', frameCount: 300, thumbCount: 3, thumbEvery: 10, width: 1280, height: 720 }));
+    // A clip someone else added shows up as well; one of another assessment does not.
+    source.send({ id: 2, state: 'ready' });
+    backend
+      .expectOne('/api/clips/2')
+      .flush(clip(2, { status: 'ready', frameCount: 300, thumbCount: 3, thumbEvery: 10, width: 1280, height: 720 }));
+    source.send({ id: 5, state: 'queued' });
+    backend.expectOne('/api/clips/5').flush(clip(5, { assessmentId: 77 }));
     await fixture.whenStable();
     expect(statuses()).toEqual(['Failed', 'Ready']);
     const thumbs = [...element.querySelectorAll<HTMLImageElement>('.thumbs img')];
@@ -169,7 +142,8 @@ describe('AssessmentClips', () => {
     await fixture.whenStable();
     expect(statuses()).toEqual(['Ready']);
 
-    source.sendDeleted(2);
+    // Processing cancelled: the clip is being deleted.
+    source.send({ id: 2, state: 'cancelled' });
     await fixture.whenStable();
     expect(statuses()).toEqual([]);
     expect(element.textContent).toContain('No clips yet');

@@ -4,6 +4,8 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink, UrlTree } from '@angular/router';
 import { EMPTY, catchError, combineLatest, switchMap, tap } from 'rxjs';
+import { ProcessingEvents } from '../../../core/processing-events';
+import { errorStatus } from '../../../core/api-error';
 import type { AssessmentDetail, Clip } from '../../../../contracts/api';
 import { AuthStore } from '../../../core/auth-store';
 import { LeaveWarning } from '../../../core/leave-guard';
@@ -12,6 +14,7 @@ import { AssessmentsApi } from '../../../core/data/assessments-api';
 import { CameraGuide } from '../camera-guide/camera-guide';
 import { ClipCard } from '../clip-card/clip-card';
 import { ClipUploader } from '../clip-uploader/clip-uploader';
+import { clipListStep } from '../clip-events';
 
 /** What leaving a page with uploads still running asks. */
 export const UPLOADS_RUNNING_WARNING: LeaveWarning = {
@@ -33,8 +36,8 @@ export function upsertClip(clips: readonly Clip[], clip: Clip): Clip[] {
 /**
  * The clip half of an assessment page, for staff and athletes alike: camera guidance, the upload
  * zone (or a notice when video consent is not in force) and the clips with live processing state
- * over server-sent events. After a reconnection the clips are reloaded, so nothing that happened
- * while disconnected is missed.
+ * from the athlete's progress stream (`ProcessingEvents`). After a reconnection the clips are
+ * reloaded, so nothing that happened while disconnected is missed.
  */
 @Component({
   selector: 'app-assessment-clips',
@@ -45,6 +48,7 @@ export function upsertClip(clips: readonly Clip[], clip: Clip): Clip[] {
 })
 export class AssessmentClips {
   private readonly api = inject(AssessmentsApi);
+  private readonly progress = inject(ProcessingEvents);
   private readonly auth = inject(AuthStore);
 
   readonly assessment = input.required<AssessmentDetail>();
@@ -72,23 +76,27 @@ export class AssessmentClips {
   readonly uploading = computed(() => this.uploader()?.busy() ?? false);
 
   constructor() {
-    combineLatest([toObservable(computed(() => this.assessment().id)), toObservable(this.restart)])
+    const shown = computed(() => ({ id: this.assessment().id, athleteId: this.assessment().athleteId }), {
+      equal: (a, b) => a.id === b.id && a.athleteId === b.athleteId,
+    });
+    combineLatest([toObservable(shown), toObservable(this.restart)])
       .pipe(
-        switchMap(([id]) => {
+        switchMap(([{ id, athleteId }]) => {
           this.live.set('connecting');
           let connections = 0;
-          return this.api.clipEvents(id).pipe(
+          return this.progress.follow(athleteId).pipe(
             tap((message) => {
               if (message.type === 'connected') {
                 this.live.set('live');
-                // The server replays every clip on connecting; a reload also drops the clips
-                // deleted while the connection was down.
+                // The server sends unfinished items on connecting; a reload also brings what
+                // finished or was deleted while the connection was down.
                 if (connections++ > 0) this.reload(id);
-              } else if (message.type === 'deleted') {
-                this.clips.update((list) => list.filter((c) => c.id !== message.id));
-              } else if (message.clip.assessmentId === id) {
-                this.clips.update((list) => upsertClip(list, message.clip));
+                return;
               }
+              const step = clipListStep(this.clips(), message.event);
+              if (step.kind === 'patch') this.clips.update((list) => upsertClip(list, step.clip));
+              else if (step.kind === 'drop') this.onDeleted(step.id);
+              else if (step.kind === 'fetch') this.refetch(id, step.id);
             }),
             catchError(() => {
               this.live.set('stopped');
@@ -99,6 +107,20 @@ export class AssessmentClips {
         takeUntilDestroyed(),
       )
       .subscribe();
+  }
+
+  /** Brings one clip's state after a change (shown only when it belongs to this assessment). */
+  private refetch(assessmentId: number, clipId: number): void {
+    this.api.getClip(clipId).subscribe({
+      next: (clip) => {
+        if (clip.assessmentId === assessmentId && clip.assessmentId === this.assessment().id)
+          this.clips.update((list) => upsertClip(list, clip));
+      },
+      error: (err: unknown) => {
+        // Gone (deleted meanwhile); any other failure keeps what is shown until the next change.
+        if (errorStatus(err) === 404) this.onDeleted(clipId);
+      },
+    });
   }
 
   protected canDelete(clip: Clip): boolean {

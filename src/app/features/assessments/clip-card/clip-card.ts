@@ -15,7 +15,7 @@ import { CAPTURE_FPS_LIMITS, DIRECTIONS, DIRECTION_LABELS, Direction, SIDES, Sid
 import { errorMessage } from '../../../core/api-error';
 import { ConfirmDialog, ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { AssessmentsApi, clipMedia } from '../../../core/data/assessments-api';
-import { clipFacts, clipStatusView, imageBox, isProcessing, readCaptureFps } from '../../../shared/clip-status';
+import { clipFacts, clipStatusView, imageBox, isProcessing, isReviewable, readCaptureFps } from '../../../shared/clip-status';
 
 const SIDE_LABELS: Record<Side, string> = { left: 'Left', right: 'Right' };
 
@@ -60,6 +60,8 @@ export class ClipCard {
   protected readonly settingsLocked = computed(() => this.clip().marked && this.athleteView());
   protected readonly status = computed(() => clipStatusView(this.clip()));
   protected readonly processing = computed(() => isProcessing(this.clip().status));
+  /** The review opens as soon as the first frames exist. */
+  protected readonly reviewable = computed(() => isReviewable(this.clip()));
   protected readonly facts = computed(() => clipFacts(this.clip()));
   protected readonly poster = computed(() => imageBox(this.clip(), 180));
   protected readonly thumbBox = computed(() => imageBox(this.clip(), 72));

@@ -143,6 +143,7 @@ describe('InvoiceForm reached by address', () => {
     paymentNote: null,
     refundNote: null,
     clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
+    clinicLogoUrl: null,
     checkoutState: 'none',
     lines: [
       {

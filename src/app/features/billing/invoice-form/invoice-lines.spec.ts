@@ -87,6 +87,7 @@ describe('invoice lines', () => {
       paymentNote: null,
       refundNote: null,
       clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
+      clinicLogoUrl: null,
       checkoutState: 'none',
       lines: [
         {

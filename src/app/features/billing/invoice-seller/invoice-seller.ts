@@ -15,6 +15,9 @@ import type { InvoiceDetail } from '../../../../contracts/billing';
   template: `
     @let legal = invoice().clinicLegal;
     <section class="seller" aria-label="From">
+      @if (invoice().clinicLogoUrl; as logo) {
+        <img class="logo" [src]="logo" [alt]="invoice().clinicName + ' logo'" />
+      }
       <p class="label">From</p>
       <p class="name">{{ legal.legalName || invoice().clinicName }}</p>
       @if (legal.legalName && legal.legalName !== invoice().clinicName) {
@@ -48,6 +51,12 @@ import type { InvoiceDetail } from '../../../../contracts/billing';
     .seller p {
       margin: 0;
     }
+    .logo {
+      float: inline-end;
+      max-block-size: 48px;
+      max-inline-size: 160px;
+      object-fit: contain;
+    }
     .label {
       font: var(--mat-sys-label-medium);
       color: var(--mat-sys-on-surface-variant);
@@ -65,7 +74,7 @@ import type { InvoiceDetail } from '../../../../contracts/billing';
   `,
 })
 export class InvoiceSeller {
-  readonly invoice = input.required<Pick<InvoiceDetail, 'clinicName' | 'clinicLegal'>>();
+  readonly invoice = input.required<Pick<InvoiceDetail, 'clinicName' | 'clinicLegal' | 'clinicLogoUrl'>>();
   /** Whether the owner looks (and is told what is missing). */
   readonly forOwner = input(false);
   protected readonly addressLines = computed(() => this.invoice().clinicLegal.address.split('\n').filter(Boolean));

@@ -35,6 +35,7 @@ const ISSUED = {
   paymentNote: null,
   refundNote: null,
   clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
+  clinicLogoUrl: null,
   lines: [],
 } as InvoiceDetail;
 

@@ -4,6 +4,7 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { ActivatedRoute, convertToParamMap, provideRouter } from '@angular/router';
 import { BehaviorSubject } from 'rxjs';
 import type { InvoiceDetail } from '../../../../contracts/billing';
+import { POLL_MS } from './pay-view';
 import { PortalInvoice } from './portal-invoice';
 
 const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -35,6 +36,7 @@ function anInvoice(over: Partial<InvoiceDetail> = {}): InvoiceDetail {
     paymentNote: null,
     refundNote: null,
     clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
+    clinicLogoUrl: null,
     checkoutState: 'pending',
     lines: [
       {
@@ -84,22 +86,37 @@ describe('PortalInvoice', () => {
   };
   afterEach(() => backend.verify());
 
-  it('after the payment page says success it waits for the server, polling, until the webhook made it paid', async () => {
-    await open('success');
-    backend.expectOne('/api/invoices/7').flush(anInvoice());
-    await settle();
-    expect(element.textContent).toContain('Waiting for confirmation');
-    expect(element.textContent).not.toContain('Pay 78.00 EUR by card');
+  it('after the payment page says success it waits for the server, polling every POLL_MS, until the webhook made it paid', async () => {
+    // Fake timers: the test moves the clock itself, so the poll interval is checked to the millisecond.
+    vi.useFakeTimers();
+    try {
+      const advance = async (ms: number) => {
+        await vi.advanceTimersByTimeAsync(ms);
+        fixture.detectChanges();
+      };
+      const opened = open('success');
+      await vi.advanceTimersByTimeAsync(10);
+      await opened;
+      backend.expectOne('/api/invoices/7').flush(anInvoice());
+      await advance(0);
+      expect(element.textContent).toContain('Waiting for confirmation');
+      expect(element.textContent).not.toContain('Pay 78.00 EUR by card');
 
-    await wait(1550);
-    backend.expectOne('/api/invoices/7').flush(anInvoice({ status: 'paid', paidAt: '2026-12-01T10:05:00Z', checkoutState: 'none' }));
-    await settle();
-    expect(element.textContent).toContain('Paid by card on 1 Dec 2026.');
-    expect(element.querySelector('a[download]')?.getAttribute('href')).toBe('/api/invoices/7/receipt');
+      // The polling timer started when the page opened, 10 ms of clock ago (open() waits 10 ms).
+      await advance(POLL_MS - 10 - 1);
+      backend.expectNone('/api/invoices/7');
+      await advance(1);
+      backend.expectOne('/api/invoices/7').flush(anInvoice({ status: 'paid', paidAt: '2026-12-01T10:05:00Z', checkoutState: 'none' }));
+      await advance(0);
+      expect(element.textContent).toContain('Paid by card on 1 Dec 2026.');
+      expect(element.querySelector('a[download]')?.getAttribute('href')).toBe('/api/invoices/7/receipt');
 
-    await wait(1600);
-    backend.expectNone('/api/invoices/7');
-  }, 10_000);
+      await advance(POLL_MS * 5);
+      backend.expectNone('/api/invoices/7');
+    } finally {
+      vi.useRealTimers();
+    }
+  });
 
   it('shows a cancelled payment clearly, with Pay again', async () => {
     await open('cancel');

@@ -1,23 +1,25 @@
 import { ChangeDetectionStrategy, Component } from '@angular/core';
 import { LegalDetailsForm } from '../legal-details-form/legal-details-form';
+import { LogoCard } from '../logo-card/logo-card';
 
 /**
- * `/settings/clinic` (owner): the clinic's details, one card per concern — today the legal details
- * that invoices and receipts carry; the clinic's logo gets its own card beside it.
+ * `/settings/clinic` (owner): the clinic's details, one card per concern — the legal details and the
+ * logo that documents, e-mails and the portal carry.
  */
 @Component({
   selector: 'app-clinic-details-page',
-  imports: [LegalDetailsForm],
+  imports: [LegalDetailsForm, LogoCard],
   changeDetection: ChangeDetectionStrategy.OnPush,
   template: `
     <div class="page page-narrow">
       <header class="page-header">
         <div>
           <h1>Clinic details</h1>
-          <p class="page-subtitle">What your invoices and receipts say about the clinic.</p>
+          <p class="page-subtitle">What your documents, e-mails and pages say about the clinic.</p>
         </div>
       </header>
       <div class="cards">
+        <app-logo-card />
         <app-legal-details-form />
       </div>
     </div>

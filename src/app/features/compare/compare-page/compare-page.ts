@@ -61,6 +61,8 @@ import {
   verdictText,
 } from '../compare-logic';
 import { TREND_SIDE_STYLE, trendChart, unitTitle } from '../trend-chart';
+import { compareCycleSeries, type CycleVisit } from '../compare-cycles';
+import { GaitCycleChart } from '../../../shared/gait-cycle-chart/gait-cycle-chart';
 
 // Only the chart.js parts this line chart uses.
 Chart.register(LineController, LineElement, PointElement, LinearScale, CategoryScale, Tooltip, Legend);
@@ -99,6 +101,7 @@ interface ShownFrame {
     MatTooltipModule,
     EmptyState,
     ErrorState,
+    GaitCycleChart,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './compare-page.html',
@@ -214,6 +217,20 @@ export class ComparePage {
   private readonly baselineCanvas = viewChild<ElementRef<HTMLCanvasElement>>('baselineCanvas');
   private readonly retestCanvas = viewChild<ElementRef<HTMLCanvasElement>>('retestCanvas');
   private readonly overlayCanvas = viewChild<ElementRef<HTMLCanvasElement>>('overlayCanvas');
+
+  // ── Gait-cycle curves of the chosen side, baseline and re-test together ──
+  private cycleVisit(loaded: LoadedClip | undefined): CycleVisit | null {
+    return loaded
+      ? {
+          annotations: loaded.annotations,
+          frameSize: { width: loaded.manifest.width, height: loaded.manifest.height },
+          direction: loaded.clip.direction,
+        }
+      : null;
+  }
+  protected readonly cycleSeries = computed(() =>
+    compareCycleSeries(this.cycleVisit(this.baselineLoaded.value()), this.cycleVisit(this.retestLoaded.value()), this.side()),
+  );
 
   // ── Trends ──
   protected readonly trendKeys = signal<MeasureKey[]>(['hip_extension_toe_off']);

@@ -4,17 +4,18 @@ import { MatIconModule } from '@angular/material/icon';
 import type { Dose, Exercise } from '../../../../contracts/plans';
 import { EXERCISE_REGION_LABELS, LOADING_KIND_LABELS } from '../../../../contracts/plans';
 import { doseParts } from '../../../shared/plan-words';
+import { DemoGallery } from '../demo-gallery/demo-gallery';
 
 let nextId = 0;
 
 /**
  * An exercise: name, kind and region, dose (the prescription when given, else the library
- * default), purpose, and step-by-step instructions with cautions behind "How to do it" — and,
+ * default), its demonstration pictures when asked, purpose, and step-by-step instructions with cautions behind "How to do it" — and,
  * for the staff, the published programme it comes from.
  */
 @Component({
   selector: 'app-exercise-card',
-  imports: [MatButtonModule, MatIconModule],
+  imports: [MatButtonModule, MatIconModule, DemoGallery],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './exercise-card.html',
   styleUrl: './exercise-card.scss',
@@ -30,6 +31,8 @@ export class ExerciseCard {
   readonly headingLevel = input<2 | 3 | 4>(3);
   /** Whether to show where the exercise comes from (staff pages; the athlete's plan leaves it out). */
   readonly showSource = input(false);
+  /** Whether to show the exercise's demonstration pictures (swipe) above the dose. */
+  readonly showDemonstrations = input(false);
 
   private readonly toggled = signal<boolean | null>(null);
   protected readonly open = computed(() => this.toggled() ?? this.expanded());

@@ -17,6 +17,7 @@ import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
 import { ExerciseCard } from '../exercise-card/exercise-card';
 import { ExerciseDialog } from '../exercise-dialog/exercise-dialog';
+import { DemoEditorDialog } from '../demo-editor/demo-editor-dialog';
 import { exerciseFilters } from '../exercise-filters';
 import { PlanCaution } from '../../../shared/plan-caution/plan-caution';
 import { PlansApi } from '../../../core/data/plans-api';
@@ -69,6 +70,16 @@ export class ExerciseLibrary {
         this.exercises.reload();
         this.snackBar.open(exercise ? 'Exercise saved' : `“${saved.name}” added to the library`, 'OK', { duration: 3000 });
       });
+  }
+
+  /** Opens the demonstration pictures of an exercise (add, caption, order, remove). */
+  protected editPictures(exercise: Exercise): void {
+    this.dialog.open<DemoEditorDialog, { exercise: Exercise }>(DemoEditorDialog, {
+      data: { exercise },
+      width: '720px',
+      maxWidth: '95vw',
+      autoFocus: 'first-tabbable',
+    });
   }
 
   protected archive(exercise: Exercise): void {

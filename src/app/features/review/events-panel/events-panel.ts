@@ -3,14 +3,18 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import type { GaitEventKind, GaitEventMark } from '../../../../contracts/annotations';
-import { GAIT_EVENT_KINDS, GAIT_EVENT_LABELS } from '../../../../contracts/annotations';
+import { EVENT_ORIGIN_LABELS, GAIT_EVENT_KINDS, GAIT_EVENT_LABELS } from '../../../../contracts/annotations';
 import { EVENT_SHORT, hasEvent } from '../annotation-ops';
 import { formatMs } from '../playback';
+import { EventProposals } from '../event-proposals';
 import { ReviewStore } from '../review-store';
 
 const EVENT_KEYS: Record<GaitEventKind, string> = { initial_contact: 'I', midstance: 'M', toe_off: 'O' };
 
-/** Mark gait events on the current frame, see them listed (click to jump) and their problems. */
+/**
+ * Mark gait events on the current frame, see them listed (click to jump) with where each came from
+ * (placed, proposed, accepted) and their problems; ask for proposals and accept them.
+ */
 @Component({
   selector: 'app-events-panel',
   imports: [MatButtonModule, MatIconModule, MatTooltipModule],
@@ -20,6 +24,7 @@ const EVENT_KEYS: Record<GaitEventKind, string> = { initial_contact: 'I', midsta
 })
 export class EventsPanel {
   protected readonly store = inject(ReviewStore);
+  protected readonly proposals = inject(EventProposals);
 
   protected readonly kinds = computed(() => {
     const events = this.store.events();
@@ -44,6 +49,8 @@ export class EventsPanel {
       side: e.side === 'left' ? 'Left' : 'Right',
       time: formatMs(times[e.frame]),
       current: e.frame === frame,
+      origin: e.origin ?? 'placed',
+      originLabel: EVENT_ORIGIN_LABELS[e.origin ?? 'placed'],
     }));
   });
 
@@ -51,6 +58,10 @@ export class EventsPanel {
 
   protected jump(mark: GaitEventMark): void {
     this.store.step(mark.frame - this.store.frame());
+  }
+
+  protected accept(mark: GaitEventMark): void {
+    this.proposals.accept(mark);
   }
 
   protected remove(mark: GaitEventMark): void {

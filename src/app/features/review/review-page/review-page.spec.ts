@@ -6,6 +6,8 @@ import { provideRouter } from '@angular/router';
 import type { ClipAnnotations } from '../../../../contracts/annotations';
 import type { AssessmentDetail, Clip } from '../../../../contracts/api';
 import { AuthStore } from '../../../core/auth-store';
+import { stubJsdomCanvas } from '../../../shared/testing/jsdom-canvas';
+import { FakeEventSource, provideFakeEventSource } from '../../../core/fake-event-source';
 import { ReviewPage } from './review-page';
 
 function clip(overrides: Partial<Clip> = {}): Clip {
@@ -65,21 +67,12 @@ describe('ReviewPage', () => {
   let element: HTMLElement;
   let backend: HttpTestingController;
 
-  const realGetContext = HTMLCanvasElement.prototype.getContext;
-  const realResizeObserver = globalThis.ResizeObserver;
+  let restoreJsdom: () => void;
   beforeAll(() => {
-    // jsdom has no layout observer and no canvas drawing.
-    globalThis.ResizeObserver ??= class {
-      observe() {}
-      unobserve() {}
-      disconnect() {}
-    } as unknown as typeof ResizeObserver;
-    HTMLCanvasElement.prototype.getContext = (() => null) as never;
+    // jsdom has no layout observer, no canvas drawing and no image decoding.
+    restoreJsdom = stubJsdomCanvas();
   });
-  afterAll(() => {
-    HTMLCanvasElement.prototype.getContext = realGetContext;
-    globalThis.ResizeObserver = realResizeObserver;
-  });
+  afterAll(() => restoreJsdom());
 
   /** Runs change detection and effects (no whenStable: open frame fetches keep the app busy). */
   async function settle(): Promise<void> {
@@ -95,6 +88,7 @@ describe('ReviewPage', () => {
         provideRouter([]),
         provideHttpClient(),
         provideHttpClientTesting(),
+        provideFakeEventSource(),
         { provide: AuthStore, useValue: { user: signal({ id: 3, name: 'Robin Coach' }), role: signal('coach') } },
       ],
     });
@@ -126,12 +120,82 @@ describe('ReviewPage', () => {
 
   const readout = () => element.querySelector('.frame-no')?.textContent?.replace(/\s+/g, ' ').trim();
 
-  it('says a clip that is still processing is not ready, with a way back', async () => {
-    await open(clip({ status: 'extracting', progress: { done: 10, total: 50 } }));
+  it('says a clip without frames yet is not ready, with a way back, and opens by itself on its first frames', async () => {
+    await open(clip({ status: 'queued', frameCount: 50 }));
     expect(element.textContent).toContain('This clip is not ready for review');
+    expect(element.textContent).toContain('opens by itself as soon as the first frames exist');
     const back = [...element.querySelectorAll('a')].find((a) => a.textContent?.includes('Back to the assessment'));
     expect(back?.getAttribute('href')).toBe('/athletes/9/assessments/4');
     expect(element.querySelector('app-frame-viewer')).toBeNull();
+
+    const source = FakeEventSource.instances[0]!;
+    expect(source.url).toBe('/api/athletes/9/processing-events');
+    source.open();
+    source.send({ id: 7, state: 'running', progress: { done: 3, total: 50 } });
+    await settle();
+    backend.expectOne('/api/clips/7').flush(clip({ status: 'extracting', progress: { done: 3, total: 50 } }));
+    await openOn(plannedManifest());
+    expect(element.querySelector('app-frame-viewer canvas')).not.toBeNull();
+    expect(element.textContent).toContain('Frames arriving: 3 of 50 ready');
+  });
+
+  /** The manifest while frames are extracted: the probe's count, computed timestamps. */
+  function plannedManifest(frameCount = 50) {
+    return {
+      complete: false,
+      frameCount,
+      width: 1280,
+      height: 720,
+      fps: 120,
+      timestampsMs: Array.from({ length: frameCount }, (_, i) => (i * 1000) / 120),
+    };
+  }
+
+  /** Answers the loads that open the workspace. */
+  async function openOn(manifest: object): Promise<void> {
+    backend.expectOne('/api/assessments/4').flush(assessment);
+    backend.expectOne('/api/clips/7/manifest').flush(manifest);
+    backend.expectOne('/api/clips/7/annotations').flush(empty);
+    await settle();
+  }
+
+  it('opens on the first frames, asks only for frames that exist, fills in, and takes the complete manifest', async () => {
+    await open(clip({ status: 'extracting', progress: { done: 10, total: 50 } }));
+    await openOn(plannedManifest());
+    expect(readout()).toBe('Frame 0 / 49');
+    expect(element.textContent).toContain('Frames arriving: 10 of 50 ready');
+    // Only frames that exist are fetched.
+    expect(Math.max(...frameRequests().map((r) => Number(r.request.url.split('/').pop())))).toBeLessThan(10);
+
+    // The end of what exists is as far as stepping goes; marking waits for every frame.
+    press('End');
+    await settle();
+    expect(readout()).toBe('Frame 9 / 49');
+    press('o');
+    await settle();
+    expect(element.querySelector('app-events-panel .events')).toBeNull();
+    expect(element.querySelector('.save')?.textContent).toContain('Saved');
+
+    const source = FakeEventSource.instances[0]!;
+    source.open();
+    source.send({ id: 7, state: 'running', progress: { done: 30, total: 50 } });
+    await settle();
+    expect(element.textContent).toContain('Frames arriving: 30 of 50 ready');
+    press('End');
+    await settle();
+    expect(readout()).toBe('Frame 29 / 49');
+
+    // Done: the complete manifest (here one frame fewer than the probe said) replaces the plan.
+    source.send({ id: 7, state: 'ready' });
+    await settle();
+    backend.expectOne('/api/clips/7').flush(clip({ frameCount: 49 }));
+    await settle();
+    backend.expectOne('/api/clips/7/manifest').flush({ ...plannedManifest(49), complete: true });
+    await settle();
+    expect(element.querySelector('.filling')).toBeNull();
+    press('End');
+    await settle();
+    expect(readout()).toBe('Frame 48 / 48');
   });
 
   async function openReady(): Promise<void> {

@@ -1,6 +1,6 @@
 import { DatePipe, formatDate } from '@angular/common';
 import { ChangeDetectionStrategy, Component, LOCALE_ID, computed, effect, inject, input, signal, viewChild } from '@angular/core';
-import { rxResource } from '@angular/core/rxjs-interop';
+import { rxResource, takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatDialog } from '@angular/material/dialog';
@@ -12,7 +12,7 @@ import { MatTabsModule } from '@angular/material/tabs';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { Title } from '@angular/platform-browser';
 import { Router, RouterLink } from '@angular/router';
-import { catchError, forkJoin, map, of, switchMap, throwError } from 'rxjs';
+import { EMPTY, catchError, filter, forkJoin, map, of, switchMap, throwError } from 'rxjs';
 import type { ClipAnnotations } from '../../../../contracts/annotations';
 import { LANDMARKS } from '../../../../contracts/annotations';
 import type { AssessmentDetail, Clip } from '../../../../contracts/api';
@@ -20,12 +20,13 @@ import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
 import { eventLineAt } from '../../../../kinematics/event-names';
 import { errorMessage, errorStatus } from '../../../core/api-error';
 import { LeaveGuarded, LeaveWarning, warnBeforeUnload } from '../../../core/leave-guard';
+import { ProcessingEvents, type ProcessingMessage } from '../../../core/processing-events';
 import { listenToPageKeys } from '../../../shared/keys/page-keys';
 import type { FocusTarget } from '../../../shared/keys/key-routing';
 import { EmptyState } from '../../../shared/states/empty-state';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentsApi } from '../../../core/data/assessments-api';
-import { clipStatusView } from '../../../shared/clip-status';
+import { clipStatusView, isReviewable } from '../../../shared/clip-status';
 import { AthletesApi } from '../../../core/data/athletes-api';
 import { fullName } from '../../../core/data/roster';
 import { ReferenceBandsApi } from '../../../core/data/reference-bands-api';
@@ -41,8 +42,10 @@ import { FRAME_KEYS, ReviewAction, ReviewTool, keyAction } from '../key-map';
 import { DEFAULT_REFERENCE_BANDS } from '../kinematics-adapter';
 import { LandmarksPanel } from '../landmarks-panel/landmarks-panel';
 import { MeasuresPanel } from '../measures-panel/measures-panel';
+import { CyclePanel } from '../cycle-panel/cycle-panel';
 import { PLAYBACK_RATES, PLAYBACK_RATE_LABELS, PlaybackRate, formatMs } from '../playback';
 import { ClipManifest, ReviewApi } from '../../../core/data/review-api';
+import { EventProposals } from '../event-proposals';
 import { ReviewStore } from '../review-store';
 import { ScalePanel } from '../scale-panel/scale-panel';
 import { openSaveStill } from '../../../shared/sharing/save-still-dialog/save-still-dialog';
@@ -95,8 +98,9 @@ const TOOLS: { id: ReviewTool; label: string; icon: string; key: string }[] = [
     EventsPanel,
     ScalePanel,
     MeasuresPanel,
+    CyclePanel,
   ],
-  providers: [ReviewStore, AnnotationSync, GaugeTool],
+  providers: [ReviewStore, AnnotationSync, GaugeTool, EventProposals],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './review-page.html',
   styleUrl: './review-page.scss',
@@ -112,6 +116,7 @@ export class ReviewPage implements LeaveGuarded {
   private readonly assessmentsApi = inject(AssessmentsApi);
   private readonly athletesApi = inject(AthletesApi);
   private readonly bandsApi = inject(ReferenceBandsApi);
+  private readonly progress = inject(ProcessingEvents);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
   private readonly router = inject(Router);
@@ -133,7 +138,8 @@ export class ReviewPage implements LeaveGuarded {
           if (clip.assessmentId !== params.assessmentId || clip.athleteId !== params.athleteId) {
             return throwError(() => new NotHereError());
           }
-          if (clip.status !== 'ready') return of<Loaded>({ kind: 'not-ready', clip });
+          // Opens as soon as the first frames exist; the rest arrive on the progress stream.
+          if (!isReviewable(clip)) return of<Loaded>({ kind: 'not-ready', clip });
           return forkJoin({
             assessment: this.assessmentsApi.get(clip.assessmentId),
             manifest: this.api.manifest(clip.id),
@@ -187,11 +193,20 @@ export class ReviewPage implements LeaveGuarded {
   protected readonly announcement = signal('');
 
   protected readonly zoomPercent = computed(() => this.viewer()?.zoomPercent() ?? 100);
+  /** Frames extracted so far, as a share of the clip (the ready part of the scrubber while filling). */
+  protected readonly readyPercent = computed(() =>
+    this.store.frameCount() ? (this.store.available() / this.store.frameCount()) * 100 : 0,
+  );
   protected readonly lastFrame = computed(() => Math.max(0, this.store.frameCount() - 1));
   /** Event ticks along the scrubber, as percentages. */
   protected readonly eventTicks = computed(() => {
     const last = this.lastFrame() || 1;
-    return this.store.events().map((e) => ({ id: `${e.frame}-${e.side}-${e.kind}`, left: (e.frame / last) * 100, side: e.side }));
+    return this.store.events().map((e) => ({
+      id: `${e.frame}-${e.side}-${e.kind}`,
+      left: (e.frame / last) * 100,
+      side: e.side,
+      proposed: e.origin === 'proposed',
+    }));
   });
 
   private openedClip: number | null = null;
@@ -222,11 +237,60 @@ export class ReviewPage implements LeaveGuarded {
     effect(() => {
       if (this.store.scaleDraftComplete() && this.store.tool() === 'scale') this.tabIndex.set(PANEL_TABS.indexOf('scale'));
     });
+    // Frames arriving, extraction done or failed: the one progress stream of the athlete.
+    toObservable(computed(() => Number(this.athleteId())))
+      .pipe(
+        switchMap((id) => {
+          if (!Number.isInteger(id) || id <= 0) return EMPTY;
+          let connections = 0;
+          return this.progress.follow(id).pipe(
+            // Only a reconnection can have missed something.
+            filter((m) => m.type !== 'connected' || connections++ > 0),
+            catchError(() => EMPTY),
+          );
+        }),
+        takeUntilDestroyed(),
+      )
+      .subscribe((message) => this.onProgress(message));
     const title = inject(Title);
     effect(() => {
       const r = this.ready();
       if (r) title.setTitle(`Review ${r.clip.originalName} · ${this.athleteName()} · Trailframe`);
     });
+  }
+
+  /** Follows this clip's extraction: opens on its first frames, fills in, then takes the complete manifest. */
+  private onProgress(message: ProcessingMessage): void {
+    const clipId = Number(this.clipId());
+    if (message.type === 'connected') {
+      // Reconnected: finished while the connection was down? The clip says.
+      if (this.ready() && this.store.filling()) this.finishWhenReady(clipId);
+      return;
+    }
+    const e = message.event;
+    if (e.subject !== 'clip' || e.id !== clipId) return;
+    if (!this.ready()) {
+      const opens = (e.state === 'running' && (e.progress?.done ?? 0) > 0) || e.state === 'ready' || e.state === 'failed';
+      if (this.notReady() && opens && !this.loaded.isLoading()) this.loaded.reload();
+      return;
+    }
+    if (!this.store.filling()) return;
+    if (e.state === 'running' && e.progress) this.store.framesArrived(e.progress.done);
+    else if (e.state === 'ready') this.finishWhenReady(clipId);
+    else if (e.state === 'failed' || e.state === 'queued') this.retryLoad(); // shows why, or waits for the next attempt
+  }
+
+  /** Takes the complete manifest once the clip is ready. */
+  private finishWhenReady(clipId: number): void {
+    this.assessmentsApi
+      .getClip(clipId)
+      .pipe(
+        switchMap((clip) => (clip.status === 'ready' ? this.api.manifest(clipId).pipe(map((manifest) => ({ clip, manifest }))) : EMPTY)),
+      )
+      .subscribe({
+        next: ({ clip, manifest }) => this.store.extractionDone(clip, manifest),
+        error: () => undefined, // the next event or reconnection tries again
+      });
   }
 
   leaveWarning(): LeaveWarning | null {

@@ -2,6 +2,7 @@ import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
+import { FakeEventSource, provideFakeEventSource } from '../../../core/fake-event-source';
 import { aStill, aSummary } from '../test-stills';
 import { SharedPanel } from './shared-panel';
 
@@ -15,7 +16,7 @@ describe('SharedPanel', () => {
   async function open() {
     TestBed.configureTestingModule({
       imports: [SharedPanel],
-      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])],
+      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), provideFakeEventSource()],
     });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(SharedPanel);
@@ -35,26 +36,35 @@ describe('SharedPanel', () => {
     document.querySelector('.cdk-overlay-container')?.replaceChildren();
   });
 
-  it('polls while a still renders, shows its progress, and stops when it is ready', async () => {
+  it('follows a render on the progress stream: its progress in place, the still once ready, no polling', async () => {
     await open();
     backend.expectOne('/api/athletes/9/stills').flush([aStill({ status: 'rendering', progress: 0.4 })]);
     backend.expectOne('/api/athletes/9/summaries').flush({ summaries: [] });
     await settle();
     expect(element.textContent).toContain('Rendering… 40 %');
     expect(element.querySelector('mat-progress-bar[mode="determinate"]')).not.toBeNull();
+    const source = FakeEventSource.instances[0]!;
+    expect(source.url).toBe('/api/athletes/9/processing-events');
+    source.open();
+    // A list showing a render is read again once the stream is open: a render that ended before
+    // then sends no more events.
+    await wait(20);
+    fixture.detectChanges();
+    backend.expectOne('/api/athletes/9/stills').flush([aStill({ status: 'rendering', progress: 0.4 })]);
+    backend.expectOne('/api/athletes/9/summaries').flush({ summaries: [] });
+    await settle();
 
-    await wait(750);
-    backend.expectOne('/api/athletes/9/stills').flush([aStill({ status: 'rendering', progress: 0.7 })]);
-    backend.expectOne('/api/athletes/9/summaries').flush([]);
+    source.send({ subject: 'still', kind: 'render_still', id: aStill().id, state: 'running', progress: { done: 70, total: 100 } });
     await settle();
     expect(element.textContent).toContain('Rendering… 70 %');
+    backend.expectNone(`/api/stills/${aStill().id}`);
 
-    await wait(750);
-    backend.expectOne('/api/athletes/9/stills').flush([aStill({ status: 'ready', caption: 'Hip at toe-off' })]);
-    backend.expectOne('/api/athletes/9/summaries').flush([]);
+    source.send({ subject: 'still', kind: 'render_still', id: aStill().id, state: 'ready' });
+    backend.expectOne(`/api/stills/${aStill().id}`).flush(aStill({ status: 'ready', caption: 'Hip at toe-off' }));
     await settle();
     expect(element.querySelector('img')?.getAttribute('alt')).toBe('Hip at toe-off');
 
+    // Nothing asks again by itself.
     await wait(900);
     backend.expectNone('/api/athletes/9/stills');
   });

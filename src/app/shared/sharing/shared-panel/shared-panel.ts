@@ -1,6 +1,6 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, output, signal } from '@angular/core';
-import { rxResource, takeUntilDestroyed } from '@angular/core/rxjs-interop';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, input, output, signal } from '@angular/core';
+import { rxResource, takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -9,23 +9,24 @@ import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { Observable, filter, firstValueFrom, forkJoin, switchMap } from 'rxjs';
+import { EMPTY, Observable, catchError, filter, firstValueFrom, switchMap, tap } from 'rxjs';
 import type { AthleteSummary } from '../../../../contracts/api';
 import { CAPTION_MAX, type Still, type VisitSummary } from '../../../../contracts/sharing';
-import { errorMessage } from '../../../core/api-error';
+import { errorMessage, errorStatus } from '../../../core/api-error';
+import { ProcessingEvents } from '../../../core/processing-events';
 import { ConfirmDialog, type ConfirmDialogData } from '../../confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../states/empty-state';
 import { InvitePrompt } from '../../invite-prompt/invite-prompt';
 import { ErrorState } from '../../states/error-state';
 import { MEASURES_CAUTION } from '../../caution';
 import {
-  POLL_MS,
-  anyRendering,
   downloadUrl,
   panelText,
   progressPercent,
   publishButton,
   publishConfirmText,
+  sharedListStep,
+  type SharedListStep,
   stillAlt,
   stillSrc,
   summaryStateText,
@@ -47,7 +48,8 @@ interface CaptionEdit {
 /**
  * The athlete profile's "Shared" tab (staff): the athlete's stills and visit summaries with
  * their rendering progress, publish / unpublish (with a confirmation that an e-mail notice goes
- * out), caption edits, delete, and "New visit summary". Polls while anything is rendering.
+ * out), caption edits, delete, and "New visit summary". Renders are followed on the athlete's
+ * progress stream (`ProcessingEvents`), like every processed item.
  */
 @Component({
   selector: 'app-shared-panel',
@@ -72,6 +74,7 @@ export class SharedPanel {
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
   private readonly destroyRef = inject(DestroyRef);
+  private readonly progress = inject(ProcessingEvents);
 
   readonly athleteId = input.required<number>();
   /** For the publish confirmation ("Ada Kestrel will see…"). */
@@ -87,8 +90,6 @@ export class SharedPanel {
   protected readonly stillList = computed<Still[]>(() => (this.stills.hasValue() ? this.stills.value() : []));
   protected readonly summaryList = computed<VisitSummary[]>(() => (this.summaries.hasValue() ? this.summaries.value() : []));
   protected readonly readyStills = computed(() => this.stillList().filter((s) => s.status === 'ready'));
-  /** Bumped when a poll fails, so the next one is still scheduled. */
-  private readonly pollRetry = signal(0);
   /** Ids with a publish / delete request on the way (their buttons wait). */
   protected readonly pending = signal<ReadonlySet<string>>(new Set());
   protected readonly edit = signal<CaptionEdit | null>(null);
@@ -106,28 +107,72 @@ export class SharedPanel {
   protected readonly errorMessage = errorMessage;
 
   constructor() {
-    // While something renders, ask again every POLL_MS; stop when nothing does. Reads the lists
-    // themselves (not only `rendering`), so every answer that is still rendering schedules the next.
-    effect((onCleanup) => {
-      this.pollRetry();
-      if (!anyRendering(this.stillList(), this.summaryList())) return;
-      const timer = setTimeout(() => this.poll(), POLL_MS);
-      onCleanup(() => clearTimeout(timer));
-    });
+    toObservable(this.athleteId)
+      .pipe(
+        switchMap((id) => {
+          let connections = 0;
+          return this.progress.follow(id).pipe(
+            tap((message) => {
+              if (message.type === 'connected') {
+                // What finished while the connection was down, or before it first opened (a render
+                // shown running that ended in between sends no more events), comes with a reload.
+                const rendering = [...this.stillList(), ...this.summaryList()].some((i) => i.status === 'rendering');
+                if (connections++ > 0 || rendering) this.reload();
+                return;
+              }
+              this.follow(sharedListStep(message.event, { stills: this.stillList(), summaries: this.summaryList() }));
+            }),
+            // Live updates stopped: the lists stay as they are (a reload of the page brings the rest).
+            catchError(() => EMPTY),
+          );
+        }),
+        takeUntilDestroyed(),
+      )
+      .subscribe();
   }
 
-  private poll(): void {
-    const id = this.athleteId();
-    forkJoin({ stills: this.api.stillsOf(id), summaries: this.api.summariesOf(id) })
-      .pipe(takeUntilDestroyed(this.destroyRef))
-      .subscribe({
-        next: (r) => {
-          if (id !== this.athleteId()) return;
-          this.stills.set(r.stills);
-          this.summaries.set(r.summaries);
-        },
-        error: () => setTimeout(() => this.pollRetry.update((n) => n + 1), POLL_MS * 3),
-      });
+  /** Carries out one step of following the renders. */
+  private follow(step: SharedListStep): void {
+    if (step.kind === 'ignore') return;
+    if (step.kind === 'drop') {
+      if (step.subject === 'still') this.stills.update((list) => list?.filter((s) => s.id !== step.id));
+      else this.summaries.update((list) => list?.filter((s) => s.id !== step.id));
+      return;
+    }
+    if (step.kind === 'progress') {
+      const progress = step.progress;
+      if (step.subject === 'still') this.stills.update((list) => list?.map((s) => (s.id === step.id ? { ...s, progress } : s)));
+      else this.summaries.update((list) => list?.map((s) => (s.id === step.id ? { ...s, progress } : s)));
+      return;
+    }
+    const gone = (err: unknown) => {
+      if (errorStatus(err) === 404) this.follow({ ...step, kind: 'drop' });
+    };
+    if (step.subject === 'still') {
+      this.api
+        .getStill(step.id)
+        .pipe(takeUntilDestroyed(this.destroyRef))
+        .subscribe({ next: (still) => this.upsertStill(still), error: gone });
+    } else {
+      this.api
+        .getSummary(step.id)
+        .pipe(takeUntilDestroyed(this.destroyRef))
+        .subscribe({ next: (summary) => this.upsertSummary(summary), error: gone });
+    }
+  }
+
+  private upsertStill(still: Still): void {
+    if (still.athleteId !== this.athleteId()) return;
+    this.stills.update((list) =>
+      list?.some((s) => s.id === still.id) ? list.map((s) => (s.id === still.id ? still : s)) : [still, ...(list ?? [])],
+    );
+  }
+
+  private upsertSummary(summary: VisitSummary): void {
+    if (summary.athleteId !== this.athleteId()) return;
+    this.summaries.update((list) =>
+      list?.some((s) => s.id === summary.id) ? list.map((s) => (s.id === summary.id ? summary : s)) : [summary, ...(list ?? [])],
+    );
   }
 
   /** Reloads both lists (after something was added elsewhere, e.g. a still from the review). */

@@ -1,0 +1,65 @@
+import { Router, type Response } from 'express';
+import { PROCESSING_EVENT, type ProcessingEvent } from '../../src/contracts/processing';
+import type { Db } from '../db/knex';
+import { currentUser } from '../http/access';
+import { idParam } from '../http/validate';
+import type { UserRevocations } from '../http/sessions';
+import { accessibleAthlete } from '../policy/athlete-resources';
+import { may, permit } from '../policy/enforce';
+import type { Processing } from './processing';
+import type { ProgressNotice } from './progress-channel';
+import type { ProgressRelay } from './progress-relay';
+
+export interface ProcessingEventsDeps {
+  db: Db;
+  processing: Processing;
+  /** Other processes' changes (separate workers), read while someone follows. */
+  relay: ProgressRelay;
+  /** Ends a user's streams when they are signed out everywhere. */
+  revocations: UserRevocations;
+}
+
+/** Opens a server-sent-events answer. */
+function openStream(res: Response): (event: ProcessingEvent) => void {
+  res.writeHead(200, {
+    'Content-Type': 'text/event-stream; charset=utf-8',
+    'Cache-Control': 'no-store',
+    Connection: 'keep-alive',
+    'X-Accel-Buffering': 'no',
+  });
+  res.write('retry: 3000\n\n');
+  return (event) => res.write(`event: ${PROCESSING_EVENT}\ndata: ${JSON.stringify(event)}\n\n`);
+}
+
+/**
+ * `GET /api/athletes/:id/processing-events`: the one progress stream of an athlete's processed
+ * items (clips' frames, stills, visit summaries), for every page that shows them. Staff see every
+ * kind; the athlete sees the kinds that say so (their clips). Every queued or running item once on
+ * connecting, then every change.
+ */
+export function processingEventsRoutes(d: ProcessingEventsDeps): Router {
+  const router = Router();
+  router.get('/athletes/:id/processing-events', permit('processing:follow'), async (req, res) => {
+    const athleteId = idParam(req.params, 'Athlete');
+    const user = currentUser(req);
+    await accessibleAthlete(d.db, user, athleteId, 'processing:follow');
+    const staff = may(user, 'processing:see-all');
+    const visible = (n: ProgressNotice) => n.clinicId === user.clinicId && (staff || n.athleteSees);
+    const send = openStream(res);
+    // Subscribed before reading the current state, so nothing falls between the two.
+    const unsubscribe = d.processing.channel.subscribe(athleteId, (n) => {
+      if (visible(n)) send(n.event);
+    });
+    const unfollow = d.relay.follow();
+    for (const n of await d.processing.unfinishedFor(athleteId)) if (visible(n)) send(n.event);
+    const ping = setInterval(() => res.write(': keep-alive\n\n'), 15_000);
+    const unrevoke = d.revocations.onRevoke(user.id, () => res.end());
+    req.on('close', () => {
+      clearInterval(ping);
+      unsubscribe();
+      unfollow();
+      unrevoke();
+    });
+  });
+  return router;
+}

@@ -1,0 +1,68 @@
+import { clinicBrands, type ClinicBrands } from './clinic/clinic-brand';
+import { localMediaObjects } from './storage/media-objects';
+import type { Logger } from 'pino';
+import type { Config } from './config';
+import type { Db } from './db/knex';
+import type { Mailer } from './mail/mailer';
+import { validateEvents } from '../src/kinematics';
+import { localMediaStore } from './storage/local-media-store';
+import type { MediaStore } from './storage/media-store';
+import { createProcessing, type Processing } from './processing/processing';
+import { inProcessProgressChannel, type ProgressChannel } from './processing/progress-channel';
+import { clipsService, type ClipsService } from './clips/clips-service';
+import { assessmentsService, type AssessmentsService } from './assessments/assessments-service';
+import { annotationsService, type AnnotationsService } from './annotations/annotations-service';
+import { measuresService, type MeasuresService } from './measures/measures-service';
+import { stillsService, type StillsService } from './stills/stills-service';
+import { summariesService, type SummariesService } from './summaries/summaries-service';
+
+export interface MediaServicesDeps {
+  config: Config;
+  db: Db;
+  mailer: Mailer;
+  logger: Logger;
+  clock: () => Date;
+  /** Media storage; defaults to local folders under `config.uploadsDir`. */
+  store?: MediaStore;
+  /** The progress channel; defaults to one within this process. */
+  channel?: ProgressChannel;
+  /** The clinics' letterheads for documents; defaults to the logos stored under `config.uploadsDir`. */
+  brands?: ClinicBrands;
+}
+
+/** The media path's services and the processing layer they register their kinds with. */
+export interface MediaServices {
+  store: MediaStore;
+  processing: Processing;
+  clips: ClipsService;
+  assessments: AssessmentsService;
+  measures: MeasuresService;
+  annotations: AnnotationsService;
+  stills: StillsService;
+  summaries: SummariesService;
+}
+
+/**
+ * Builds the media path (storage, processing, clips, measures, stills, summaries) the same way in
+ * the web process (`createApp`) and in worker processes (`server/worker.ts`): constructing a
+ * service registers its processed-item kinds, so every process knows every kind.
+ */
+export function createMediaServices(d: MediaServicesDeps): MediaServices {
+  const { config, db, mailer, logger, clock } = d;
+  const store = d.store ?? localMediaStore(config.uploadsDir);
+  const processing = createProcessing({
+    db,
+    channel: d.channel ?? inProcessProgressChannel(),
+    leaseMs: config.jobs.leaseMs,
+    maxAttempts: config.jobs.maxAttempts,
+  });
+  const clips = clipsService({ db, store, processing, logger });
+  const assessments = assessmentsService({ db, clips, store });
+  const measures = measuresService({ db, clips });
+  const annotations = annotationsService({ db, clips, validateEvents, measures });
+  const brands = d.brands ?? clinicBrands({ db, objects: localMediaObjects(config.uploadsDir) });
+  const sharing = { db, store, processing, clips, mailer, logger, publicUrl: config.publicUrl, clock, brands };
+  const stills = stillsService(sharing);
+  const summaries = summariesService({ ...sharing, stills, measures });
+  return { store, processing, clips, assessments, measures, annotations, stills, summaries };
+}

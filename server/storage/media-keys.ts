@@ -1,0 +1,56 @@
+/**
+ * The one place that names stored media. Keys are built from numeric ids and our own constant
+ * names only (never from anything a user sent), so they cannot point outside their subject.
+ */
+import { FRAMES_DIR, MANIFEST_FILE, THUMBS_DIR, frameFileName } from '../media/manifest';
+
+function id(value: number, what: string): number {
+  if (!Number.isSafeInteger(value) || value <= 0) throw new Error(`bad ${what} id ${value}`);
+  return value;
+}
+
+/** Keys of one clip's media. */
+export interface ClipKeys {
+  /** `clips/12/`: everything of the clip (removed with it). */
+  readonly prefix: string;
+  /** The uploaded file as stored: `clips/12/original.mp4` (`storedName` is ours, e.g. `original.mp4`). */
+  original(storedName: string): string;
+  /** `clips/12/manifest.json`: the one source of the clip's media facts. */
+  readonly manifest: string;
+  /** Working frame `index` (0-based): `clips/12/frames/000001.jpg` for 0. */
+  frame(index: number): string;
+  /** Thumbnail `index` (0-based): `clips/12/thumbs/000001.jpg` for 0. */
+  thumb(index: number): string;
+  /** A still's image, by render version: `clips/12/stills/5-v2.png` / `5-v2-phone.jpg`. */
+  still(stillId: number, version: number, format: 'png' | 'jpeg'): string;
+}
+
+const STORED_NAME = /^original\.[a-z0-9]{2,5}$/;
+
+export function clipKeys(clipId: number): ClipKeys {
+  const prefix = `clips/${id(clipId, 'clip')}/`;
+  return {
+    prefix,
+    original(storedName) {
+      if (!STORED_NAME.test(storedName)) throw new Error(`bad stored name ${storedName}`);
+      return `${prefix}${storedName}`;
+    },
+    manifest: `${prefix}${MANIFEST_FILE}`,
+    frame: (index) => `${prefix}${FRAMES_DIR}/${frameFileName(index)}`,
+    thumb: (index) => `${prefix}${THUMBS_DIR}/${frameFileName(index)}`,
+    still(stillId, version, format) {
+      const base = `${prefix}stills/${id(stillId, 'still')}-v${id(version, 'version')}`;
+      return format === 'png' ? `${base}.png` : `${base}-phone.jpg`;
+    },
+  };
+}
+
+/** `assessments/3/`: an assessment's own media (visit summaries), removed with it. */
+export function assessmentPrefix(assessmentId: number): string {
+  return `assessments/${id(assessmentId, 'assessment')}/`;
+}
+
+/** A visit summary's PDF: `assessments/3/summaries/summary-7.pdf`. */
+export function summaryKey(assessmentId: number, summaryId: number): string {
+  return `${assessmentPrefix(assessmentId)}summaries/summary-${id(summaryId, 'summary')}.pdf`;
+}

@@ -1,0 +1,88 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import type { DemoPicture } from '../../../../contracts/demonstrations';
+import { DemoGallery } from './demo-gallery';
+
+const picture = (id: number, position: number, caption: string): DemoPicture => ({
+  id,
+  exerciseId: 4,
+  position,
+  caption,
+  url: `/api/demo-pictures/${id}/picture.jpg`,
+  thumbUrl: `/api/demo-pictures/${id}/thumb.jpg`,
+  width: 1000,
+  height: 750,
+  createdAt: '2026-12-04T10:00:00Z',
+});
+
+const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+describe('DemoGallery', () => {
+  let fixture: ComponentFixture<DemoGallery>;
+  let element: HTMLElement;
+  let backend: HttpTestingController;
+
+  beforeEach(async () => {
+    // jsdom has no element scrolling; the gallery's smooth scroll is a no-op here.
+    Element.prototype.scrollTo ??= function () {};
+    TestBed.configureTestingModule({ providers: [provideHttpClient(), provideHttpClientTesting()] });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(DemoGallery);
+    fixture.componentRef.setInput('exerciseId', 4);
+    fixture.componentRef.setInput('exerciseName', 'Heel drop');
+    element = fixture.nativeElement;
+    fixture.detectChanges();
+    await wait(10);
+  });
+  const settle = async () => {
+    await wait(20);
+    fixture.detectChanges();
+    await fixture.whenStable();
+    fixture.detectChanges();
+  };
+  afterEach(() => backend.verify());
+
+  it('shows nothing when the exercise has no pictures', async () => {
+    backend.expectOne('/api/exercises/4/demonstrations').flush({ exerciseId: 4, pictures: [] });
+    await settle();
+    expect(element.querySelector('section')).toBeNull();
+  });
+
+  it('shows nothing when the caller may not see them (404)', async () => {
+    backend
+      .expectOne('/api/exercises/4/demonstrations')
+      .flush({ error: { code: 'not_found', message: 'Exercise not found.' } }, { status: 404, statusText: 'Not Found' });
+    await settle();
+    expect(element.querySelector('section')).toBeNull();
+  });
+
+  it('shows the pictures in order with captions, the first as "Picture 1 of 2", and steps with the buttons', async () => {
+    backend.expectOne('/api/exercises/4/demonstrations').flush({
+      exerciseId: 4,
+      pictures: [picture(9, 0, 'Start on the toes'), picture(7, 1, 'Lower slowly')],
+    });
+    await fixture.whenStable();
+    const imgs = [...element.querySelectorAll('img')];
+    expect(imgs.map((i) => i.getAttribute('src'))).toEqual(['/api/demo-pictures/9/picture.jpg', '/api/demo-pictures/7/picture.jpg']);
+    expect(imgs.map((i) => i.getAttribute('alt'))).toEqual(['Start on the toes', 'Lower slowly']);
+    expect([...element.querySelectorAll('figcaption')].map((f) => f.textContent?.trim())).toEqual(['Start on the toes', 'Lower slowly']);
+    const track = element.querySelector('.track')!;
+    expect(track.getAttribute('aria-label')).toBe('Picture 1 of 2');
+    const previous = element.querySelector<HTMLButtonElement>('button[aria-label="Previous picture"]')!;
+    const next = element.querySelector<HTMLButtonElement>('button[aria-label="Next picture"]')!;
+    expect(previous.disabled).toBe(true);
+    next.click();
+    await settle();
+    expect(track.getAttribute('aria-label')).toBe('Picture 2 of 2');
+    expect(next.disabled).toBe(true);
+  });
+
+  it('has no step buttons for a single picture', async () => {
+    backend.expectOne('/api/exercises/4/demonstrations').flush({ exerciseId: 4, pictures: [picture(9, 0, '')] });
+    await settle();
+    expect(element.querySelectorAll('img').length).toBe(1);
+    expect(element.querySelector('img')!.getAttribute('alt')).toBe('Heel drop, picture 1');
+    expect(element.querySelector('button')).toBeNull();
+  });
+});

@@ -1,0 +1,55 @@
+import { ChangeDetectionStrategy, Component, ElementRef, computed, inject, input, signal, viewChild } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import { DemonstrationsApi } from '../demonstrations-api';
+import { positionLabel, shownIndex, steppedIndex } from './gallery-logic';
+
+/**
+ * The demonstration pictures of one exercise, one at a time: swipe on a phone (the track snaps
+ * picture by picture), the arrow buttons or ← → on a computer; each with its one-line caption.
+ * Shows nothing when the exercise has no pictures (or the caller may not see them).
+ */
+@Component({
+  selector: 'app-demo-gallery',
+  imports: [MatButtonModule, MatIconModule],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  templateUrl: './demo-gallery.html',
+  styleUrl: './demo-gallery.scss',
+})
+export class DemoGallery {
+  private readonly api = inject(DemonstrationsApi);
+  readonly exerciseId = input.required<number>();
+  /** The exercise's name, for the pictures' descriptions. */
+  readonly exerciseName = input.required<string>();
+
+  private readonly loaded = rxResource({
+    params: () => ({ id: this.exerciseId(), changes: this.api.changes() }),
+    stream: ({ params }) => this.api.of(params.id),
+  });
+  protected readonly pictures = computed(() => (this.loaded.hasValue() ? this.loaded.value() : []));
+  protected readonly index = signal(0);
+  protected readonly label = computed(() => positionLabel(this.index(), this.pictures().length));
+  private readonly track = viewChild<ElementRef<HTMLElement>>('track');
+
+  protected onScroll(el: HTMLElement): void {
+    this.index.set(shownIndex(el.scrollLeft, el.clientWidth, this.pictures().length));
+  }
+
+  protected step(by: number): void {
+    this.go(steppedIndex(this.index(), by, this.pictures().length));
+  }
+
+  protected go(i: number): void {
+    const el = this.track()?.nativeElement;
+    if (!el) return;
+    this.index.set(i);
+    el.scrollTo({ left: i * el.clientWidth, behavior: 'smooth' });
+  }
+
+  protected onKey(event: KeyboardEvent): void {
+    if (event.key !== 'ArrowLeft' && event.key !== 'ArrowRight') return;
+    event.preventDefault();
+    this.step(event.key === 'ArrowLeft' ? -1 : 1);
+  }
+}

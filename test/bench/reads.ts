@@ -1,0 +1,224 @@
+/**
+ * Benchmark: authenticated reads (`GET /api/athletes`, `GET /api/assessments/:id`) at 50
+ * connections against a bare Express JSON handler, measured side by side in one run with `wrk`.
+ * Target: ≥ 30 % of bare Express req/s, p99 ≤ 50 ms, 0 errors. Prints figures; not a timed test.
+ *
+ *   npx tsx test/bench/reads.ts [--seconds 10] [--rounds 3] [--connections 50] [--sessions 50] [--keep]
+ *
+ * The server is the `npm start` bundle on plain Node (default log level, its log to a file) over a
+ * temp database with the demo scenario; the assessment read gets three uploaded clips first.
+ * Every round runs bare → athletes → assessment; the median round is reported. Requests rotate
+ * over `--sessions` signed-in sessions of the demo's owner and coaches. wrk comes from Debian: it
+ * is installed with apt-get when missing (as root).
+ */
+import { spawnSync } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+import { parseArgs } from 'node:util';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import {
+  benchDir,
+  cpuSeconds,
+  makeClip,
+  seedDemo,
+  sessionJson,
+  signIn,
+  startBareExpress,
+  startBundledServer,
+  uploadClip,
+  waitReady,
+  type BenchProcess,
+  type Session,
+} from './support/bench-server';
+
+const { values: args } = parseArgs({
+  options: {
+    seconds: { type: 'string', default: '10' },
+    rounds: { type: 'string', default: '3' },
+    connections: { type: 'string', default: '50' },
+    sessions: { type: 'string', default: '50' },
+    keep: { type: 'boolean', default: false },
+  },
+});
+const SECONDS = Number(args.seconds);
+const ROUNDS = Math.max(1, Number(args.rounds));
+const CONNECTIONS = Number(args.connections);
+const SESSIONS = Math.max(1, Number(args.sessions));
+
+/** wrk from Debian; installed when missing and we are root. */
+function ensureWrk(): void {
+  if (spawnSync('wrk', ['--version']).error === undefined) return;
+  if (process.getuid?.() !== 0) throw new Error('wrk is missing: apt-get install wrk (as root)');
+  console.log('installing wrk (apt-get)…');
+  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
+  let r = spawnSync('apt-get', ['install', '-y', '-q', 'wrk'], { stdio: 'ignore', env });
+  if (r.status !== 0) {
+    spawnSync('apt-get', ['update', '-q'], { stdio: 'ignore', env });
+    r = spawnSync('apt-get', ['install', '-y', '-q', 'wrk'], { stdio: 'ignore', env });
+  }
+  if (r.status !== 0) throw new Error('apt-get install wrk failed');
+}
+
+interface WrkResult {
+  rps: number;
+  p50: number;
+  p99: number;
+  requests: number;
+  errors: number;
+  /** What the errors were: non-2xx answers and wrk's socket errors by kind (timeouts are answers over 2 s). */
+  errorKinds: string;
+  serverCpuS: number;
+}
+
+const toMs = (value: string, unit: string) => Number(value) * ({ us: 0.001, ms: 1, s: 1000, m: 60_000 } as Record<string, number>)[unit]!;
+
+/** Runs wrk against `url`, rotating the session cookies (Lua), and parses its report. */
+function wrk(url: string, cookies: string[], dir: string, target: BenchProcess): WrkResult {
+  const script = path.join(dir, 'rotate.lua');
+  fs.writeFileSync(
+    script,
+    [
+      `local cookies = { ${cookies.map((c) => JSON.stringify(c)).join(', ')} }`,
+      'local i = 0',
+      'request = function()',
+      '  i = i + 1',
+      `  return wrk.format(nil, nil, { ["Cookie"] = cookies[(i % #cookies) + 1] })`,
+      'end',
+    ].join('\n'),
+  );
+  const cpu0 = cpuSeconds(target.pid);
+  const r = spawnSync('wrk', ['-t2', `-c${CONNECTIONS}`, `-d${SECONDS}s`, '--latency', '-s', script, url], { encoding: 'utf8' });
+  const cpu = cpuSeconds(target.pid) - cpu0;
+  if (r.status !== 0) throw new Error(`wrk failed: ${r.stderr}`);
+  const out = r.stdout;
+  const lat = (pct: string) => {
+    const m = new RegExp(`^\\s*${pct}%\\s+([\\d.]+)(us|ms|s|m)\\s*$`, 'm').exec(out);
+    return m ? toMs(m[1]!, m[2]!) : NaN;
+  };
+  const socket = /Socket errors: connect (\d+), read (\d+), write (\d+), timeout (\d+)/.exec(out);
+  const non2xx = Number(/Non-2xx or 3xx responses: (\d+)/.exec(out)?.[1] ?? 0);
+  return {
+    rps: Number(/Requests\/sec:\s+([\d.]+)/.exec(out)?.[1] ?? NaN),
+    p50: lat('50'),
+    p99: lat('99'),
+    requests: Number(/(\d+) requests in/.exec(out)?.[1] ?? 0),
+    errors: non2xx + (socket ? socket.slice(1).reduce((a, b) => a + Number(b), 0) : 0),
+    errorKinds: [
+      non2xx ? `non-2xx ${non2xx}` : '',
+      ...(socket ? ['connect', 'read', 'write', 'timeout'].map((k, i) => (Number(socket[i + 1]) ? `${k} ${socket[i + 1]}` : '')) : []),
+    ]
+      .filter(Boolean)
+      .join(', '),
+    serverCpuS: cpu,
+  };
+}
+
+const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
+const f = (n: number, d = 0) => n.toFixed(d);
+
+ensureWrk();
+const { dir, cleanup } = benchDir('reads');
+let server: BenchProcess | null = null;
+let bare: BenchProcess | null = null;
+try {
+  process.stdout.write('seeding the demo scenario… ');
+  const dbFile = await seedDemo(dir);
+  server = await startBundledServer(dir, dbFile);
+  bare = await startBareExpress(dir);
+  console.log(`server ${server.url}, bare Express ${bare.url}`);
+
+  const staff = DEMO_SIGN_INS.filter((s) => s.role !== 'athlete');
+  const sessions: Session[] = [];
+  for (let i = 0; i < SESSIONS; i++) {
+    const who = staff[i % staff.length]!;
+    sessions.push(await signIn(server.url, who.email, who.password));
+  }
+  const s0 = sessions[0]!;
+  const roster = await sessionJson<{ athletes: { id: number; lastName: string }[] }>(server.url, s0, 'GET', '/api/athletes');
+  const ada = roster.body.athletes.find((a) => a.lastName === 'Kestrel')!;
+  const visits = await sessionJson<{ assessments: { id: number; kind: string }[] }>(
+    server.url,
+    s0,
+    'GET',
+    `/api/athletes/${ada.id}/assessments`,
+  );
+  const assessmentId = visits.body.assessments.find((a) => a.kind === 'baseline')!.id;
+  const clip = makeClip(path.join(dir, 'clip.mp4'), { width: 320, height: 180, fps: 30, seconds: 1 });
+  const clipIds = [];
+  for (let i = 0; i < 3; i++) clipIds.push(await uploadClip(server.url, s0, assessmentId, clip));
+  await waitReady(server.url, s0, clipIds);
+  const athletesUrl = `${server.url}/api/athletes`;
+  const assessmentUrl = `${server.url}/api/assessments/${assessmentId}`;
+  const sizes = {
+    athletes: (await sessionJson(server.url, s0, 'GET', '/api/athletes')).body,
+    assessment: (await sessionJson(server.url, s0, 'GET', `/api/assessments/${assessmentId}`)).body,
+  };
+  console.log(
+    `${roster.body.athletes.length} athletes (${JSON.stringify(sizes.athletes).length} B), assessment with ${clipIds.length} clips ` +
+      `(${JSON.stringify(sizes.assessment).length} B); ${SESSIONS} sessions; wrk -c${CONNECTIONS} ${SECONDS} s × ${ROUNDS} rounds; ${process.platform} ${process.arch}, ` +
+      `${(await import('node:os')).cpus().length} cores, Node ${process.version}`,
+  );
+
+  const runs: Record<'bare' | 'athletes' | 'assessment', WrkResult[]> = { bare: [], athletes: [], assessment: [] };
+  for (let round = 1; round <= ROUNDS; round++) {
+    runs.bare.push(
+      wrk(
+        `${bare.url}/api/bare`,
+        sessions.map((s) => s.cookie),
+        dir,
+        bare,
+      ),
+    );
+    runs.athletes.push(
+      wrk(
+        athletesUrl,
+        sessions.map((s) => s.cookie),
+        dir,
+        server,
+      ),
+    );
+    runs.assessment.push(
+      wrk(
+        assessmentUrl,
+        sessions.map((s) => s.cookie),
+        dir,
+        server,
+      ),
+    );
+    const line = (k: keyof typeof runs) => {
+      const r = runs[k].at(-1)!;
+      return `${k} ${f(r.rps)} req/s p50 ${f(r.p50, 1)} p99 ${f(r.p99, 1)} ms err ${r.errors}${r.errors ? ` (${r.errorKinds})` : ''}`;
+    };
+    console.log(`round ${round}: ${line('bare')} | ${line('athletes')} | ${line('assessment')}`);
+  }
+
+  const summary = (k: keyof typeof runs) => {
+    const rs = runs[k];
+    const mid = [...rs].sort((a, b) => a.rps - b.rps)[Math.floor(rs.length / 2)]!;
+    return { ...mid, p99: median(rs.map((r) => r.p99)), errors: rs.reduce((a, r) => a + r.errors, 0) };
+  };
+  const b = summary('bare');
+  console.log('');
+  console.log(`| read (${CONNECTIONS} connections) | req/s | of bare Express | median | p99 | errors | server CPU per request |`);
+  console.log('| --- | --- | --- | --- | --- | --- | --- |');
+  const row = (name: string, k: keyof typeof runs) => {
+    const r = summary(k);
+    const cpuUs = (r.serverCpuS / Math.max(1, r.requests)) * 1e6;
+    console.log(
+      `| ${name} | ${f(r.rps)} | ${k === 'bare' ? '100 %' : `${f((r.rps / b.rps) * 100, 1)} %`} | ${f(r.p50, 1)} ms | ${f(r.p99, 1)} ms | ${r.errors} | ${f(cpuUs)} µs |`,
+    );
+  };
+  row('bare Express `res.json`', 'bare');
+  row('`GET /api/athletes`', 'athletes');
+  row('`GET /api/assessments/:id`', 'assessment');
+  const ok = (['athletes', 'assessment'] as const).every((k) => {
+    const r = summary(k);
+    return r.rps / b.rps >= 0.3 && r.p99 <= 50 && r.errors === 0;
+  });
+  console.log(`\ntarget (≥ 30 % of bare, p99 ≤ 50 ms, 0 errors): ${ok ? 'met' : 'NOT met'}`);
+} finally {
+  await server?.stop();
+  await bare?.stop();
+  if (args.keep) console.log(`kept ${dir}`);
+  else cleanup();
+}
