@@ -101,6 +101,23 @@ export interface EventProposalsResult {
   skipped: string[];
 }
 
+/** Body of `POST /api/clips/:id/follow`: follow the markers of `startFrame` over frames `from`–`to` (inclusive). */
+export interface FollowMarkersRequest {
+  startFrame: number;
+  from: number;
+  to: number;
+}
+
+/** Answer (202) of `POST /api/clips/:id/follow`: the processed item whose progress the clip's stream carries. */
+export interface FollowMarkersStarted {
+  itemId: number;
+  /** The processed-item kind on the progress stream. */
+  kind: 'follow_markers';
+}
+
+/** A followed point below this confidence is flagged for the coach to check. */
+export const FOLLOW_LOW_CONFIDENCE = 0.5;
+
 /** A line over an object of known length in the plane of running. */
 export interface ScaleBar {
   frame: number;
