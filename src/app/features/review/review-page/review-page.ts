@@ -113,7 +113,7 @@ const TOOLS: { id: ReviewTool; label: string; icon: string; key: string }[] = [
 export class ReviewPage implements LeaveGuarded {
   protected readonly store = inject(ReviewStore);
   protected readonly gauges = inject(GaugeTool);
-  private readonly following = inject(MarkerFollowing);
+  protected readonly following = inject(MarkerFollowing);
   private readonly api = inject(ReviewApi);
   private readonly assessmentsApi = inject(AssessmentsApi);
   private readonly athletesApi = inject(AthletesApi);
@@ -209,6 +209,12 @@ export class ReviewPage implements LeaveGuarded {
       side: e.side,
       proposed: e.origin === 'proposed',
     }));
+  });
+
+  /** Frames with low-confidence followed points, as percentages along the scrubber. */
+  protected readonly checkTicks = computed(() => {
+    const last = this.lastFrame() || 1;
+    return this.following.lowFrames().map((frame) => ({ frame, left: (frame / last) * 100 }));
   });
 
   private openedClip: number | null = null;
