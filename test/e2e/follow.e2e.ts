@@ -15,6 +15,7 @@ import { tempDir } from '../server/media/fixtures';
 import { generateRunnerClip } from '../../scripts/demo-clip/clip';
 import type { GroundTruth } from '../../scripts/demo-clip/ground-truth';
 import type { ClipAnnotations } from '../../src/contracts/annotations';
+import { uploadReadyClip } from './marked-clip';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 const MARKERS = ['shoulder', 'hip', 'knee', 'ankle', 'heel', 'toe'] as const;
@@ -51,17 +52,7 @@ afterAll(async () => {
 
 /** Uploads the clip, waits for its frames, and places the near-side markers on frame 0. */
 async function uploadWithStart(): Promise<number> {
-  const up = await api.agent
-    .post(`/api/assessments/${assessmentId}/clips`)
-    .set('X-XSRF-TOKEN', await api.xsrf())
-    .attach('file', path.join(dir.dir, 'runner.mp4'));
-  const clipId = up.body.id as number;
-  for (let i = 0; ; i++) {
-    const clip = (await api.get(`/api/clips/${clipId}`)).body;
-    if (clip.status === 'ready') break;
-    if (clip.status === 'failed' || i > 300) throw new Error(`clip ${clip.status}: ${clip.error}`);
-    await new Promise((r) => setTimeout(r, 200));
-  }
+  const clipId = await uploadReadyClip(api, assessmentId, path.join(dir.dir, 'runner.mp4'));
   const points = Object.fromEntries(MARKERS.map((k) => [k, truth.frames[0]!.landmarksNormalised.near[k]]));
   const res = await api.put(`/api/clips/${clipId}/annotations`, {
     baseRevision: 0,
