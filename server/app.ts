@@ -31,6 +31,7 @@ import { warmUpFfmpeg } from './media/extract';
 import { clipsRoutes } from './clips/clips.routes';
 import { assessmentsRoutes } from './assessments/assessments.routes';
 import { annotationsRoutes } from './annotations/annotations.routes';
+import { followRoutes } from './follow/follow.routes';
 import { measuresRoutes } from './measures/measures.routes';
 import { comparisonService } from './comparison/comparison-service';
 import { comparisonRoutes } from './comparison/comparison.routes';
@@ -187,7 +188,7 @@ export function createApp(deps: AppDeps): App {
   const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
   const revocations = inProcessRevocations();
   const media = createMediaServices({ config, db, mailer, logger, clock, store: deps.store, brands });
-  const { store, processing, clips, assessments, measures, annotations, stills, summaries, annotatedClips } = media;
+  const { store, processing, clips, assessments, measures, annotations, follow, stills, summaries, annotatedClips } = media;
   const exercises = exercisesService({ db, clock });
   const plans = plansService({ db, clock });
   const worker = config.runWorker
@@ -222,6 +223,7 @@ export function createApp(deps: AppDeps): App {
   api.use(processingEventsRoutes({ db, processing, relay, revocations }));
   api.use(clipsRoutes({ db, clips, store, temps, logger, uploadMaxBytes: config.uploadMaxBytes }));
   api.use(annotationsRoutes(annotations));
+  api.use(followRoutes(follow));
   api.use(measuresRoutes({ db, measures }));
   api.use(comparisonRoutes(comparisonService({ db, measures })));
   api.use(plansRoutes({ exercises, plans }));

@@ -12,6 +12,7 @@ import { inProcessProgressChannel, type ProgressChannel } from './processing/pro
 import { clipsService, type ClipsService } from './clips/clips-service';
 import { assessmentsService, type AssessmentsService } from './assessments/assessments-service';
 import { annotationsService, type AnnotationsService } from './annotations/annotations-service';
+import { followService, type FollowService } from './follow/follow-service';
 import { measuresService, type MeasuresService } from './measures/measures-service';
 import { stillsService, type StillsService } from './stills/stills-service';
 import { summariesService, type SummariesService } from './summaries/summaries-service';
@@ -39,6 +40,7 @@ export interface MediaServices {
   assessments: AssessmentsService;
   measures: MeasuresService;
   annotations: AnnotationsService;
+  follow: FollowService;
   stills: StillsService;
   summaries: SummariesService;
   annotatedClips: AnnotatedClipsService;
@@ -62,10 +64,11 @@ export function createMediaServices(d: MediaServicesDeps): MediaServices {
   const assessments = assessmentsService({ db, clips, store });
   const measures = measuresService({ db, clips });
   const annotations = annotationsService({ db, clips, validateEvents, measures });
+  const follow = followService({ db, store, processing, clips, annotations });
   const brands = d.brands ?? clinicBrands({ db, objects: localMediaObjects(config.uploadsDir) });
   const sharing = { db, store, processing, clips, mailer, logger, publicUrl: config.publicUrl, clock, brands };
   const stills = stillsService(sharing);
   const summaries = summariesService({ ...sharing, stills, measures });
   const annotatedClips = annotatedClipsService(sharing);
-  return { store, processing, clips, assessments, measures, annotations, stills, summaries, annotatedClips };
+  return { store, processing, clips, assessments, measures, annotations, follow, stills, summaries, annotatedClips };
 }

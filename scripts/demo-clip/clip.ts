@@ -7,9 +7,11 @@ import { mkdir, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import { createCanvas } from '@napi-rs/canvas';
 import { buildGroundTruth, frameTimeS, modelForClip, type ClipSpec, type GroundTruth } from './ground-truth';
-import { drawFrame } from './render';
+import { flickerGain, seededRandom, shakeOffsetPx, type RealismOptions } from './realism';
+import { drawFrame, makeTexturedWall } from './render';
 
 export type { ClipSpec, GroundTruth } from './ground-truth';
+export { ALL_REALISM, type RealismOptions } from './realism';
 
 /** Options of {@link generateRunnerClip}. */
 export interface RunnerClipOptions extends ClipSpec {
@@ -17,7 +19,7 @@ export interface RunnerClipOptions extends ClipSpec {
   outFile: string;
   /** x264 preset (default `fast`). */
   preset?: string;
-  /** x264 constant rate factor (default 18: visually lossless for flat colours). */
+  /** x264 constant rate factor (default 18: visually lossless for flat colours; 28 with `realism.compressionNoise`). */
   crf?: number;
 }
 
@@ -57,7 +59,7 @@ function startEncoder(opts: RunnerClipOptions) {
     '-preset',
     opts.preset ?? 'fast',
     '-crf',
-    String(opts.crf ?? 18),
+    String(opts.crf ?? (opts.realism?.compressionNoise ? 28 : 18)),
     '-movflags',
     '+faststart',
     opts.outFile,
@@ -85,21 +87,87 @@ export async function generateRunnerClip(opts: RunnerClipOptions): Promise<Groun
   const { model, timing, layout, frameCount } = modelForClip(opts);
   const canvas = createCanvas(opts.width, opts.height);
   const ctx = canvas.getContext('2d');
+  const realism = opts.realism;
+  const extras = {
+    ...(realism?.texture ? { background: makeTexturedWall(opts.width, opts.height, realism.seed ?? 1) } : {}),
+    farMarkersOnTop: realism?.occlusion === false,
+    noMarkers: opts.tapeMarkers === false,
+  };
+  const film = realism && (realism.motionBlur || realism.flicker || realism.compressionNoise) ? new FilmEffects(opts, realism) : null;
   const { child, done } = startEncoder(opts);
   const stdin = child.stdin!;
   let failed: Error | null = null;
   done.catch((err: Error) => (failed = err));
   stdin.on('error', (err) => (failed ??= err));
   for (let i = 0; i < frameCount && !failed; i++) {
-    const pose = model.pose(frameTimeS(i, opts, timing));
-    drawFrame(ctx, pose, layout, opts, model.beltSpeedMps);
-    // Every pixel is opaque, so the premultiplied bytes equal straight RGBA.
-    if (!stdin.write(canvas.data())) await new Promise<void>((resolve) => stdin.once('drain', resolve));
+    const offset = shakeOffsetPx(i, opts.fps, opts.width, realism);
+    const shutter = film?.shutterOffsetsS ?? [0];
+    for (const dt of shutter) {
+      const pose = model.pose(frameTimeS(i, opts, timing) + dt);
+      drawFrame(ctx, pose, layout, opts, model.beltSpeedMps, { ...extras, offset });
+      // Every pixel is opaque, so the premultiplied bytes equal straight RGBA.
+      film?.add(canvas.data());
+    }
+    const bytes = film ? film.finish(i) : canvas.data();
+    if (!stdin.write(bytes)) await new Promise<void>((resolve) => stdin.once('drain', resolve));
   }
   stdin.end();
   await done;
   await writeFile(groundTruthPath(opts.outFile), JSON.stringify(truth));
   return truth;
+}
+
+/**
+ * Motion blur (average of sub-frames over a 180° shutter centred on the frame time, so the blurred
+ * marker's centre stays on the ground truth), lighting gain and sensor noise, applied to raw RGBA.
+ */
+class FilmEffects {
+  /** Sub-frame times relative to the frame time, s. */
+  readonly shutterOffsetsS: number[];
+  private readonly sum: Uint16Array;
+  private readonly out: Buffer;
+  private readonly noise: Int8Array;
+  private readonly rnd: () => number;
+  private count = 0;
+
+  constructor(
+    private readonly spec: ClipSpec,
+    private readonly realism: RealismOptions,
+  ) {
+    const n = spec.width * spec.height * 4;
+    const exposureS = 0.5 / spec.fps;
+    this.shutterOffsetsS = realism.motionBlur ? [-0.375, -0.125, 0.125, 0.375].map((k) => k * exposureS) : [0];
+    this.sum = new Uint16Array(n);
+    this.out = Buffer.alloc(n);
+    this.rnd = seededRandom((realism.seed ?? 1) * 31337);
+    // Roughly Gaussian sensor noise, σ ≈ 3 grey levels (sum of three uniforms), reused at random offsets.
+    this.noise = new Int8Array(1 << 20);
+    for (let i = 0; i < this.noise.length; i++) this.noise[i] = Math.round((this.rnd() + this.rnd() + this.rnd() - 1.5) * 6);
+  }
+
+  add(rgba: Uint8Array): void {
+    const sum = this.sum;
+    if (this.count === 0) for (let i = 0; i < sum.length; i++) sum[i] = rgba[i]!;
+    else for (let i = 0; i < sum.length; i++) sum[i]! += rgba[i]!;
+    this.count++;
+  }
+
+  finish(index: number): Buffer {
+    const gain = flickerGain(index, this.spec.fps, this.realism) / this.count;
+    const { sum, out, noise } = this;
+    const noisy = !!this.realism.compressionNoise;
+    const mask = noise.length - 1;
+    let k = Math.floor(this.rnd() * noise.length);
+    for (let i = 0; i < sum.length; i += 4) {
+      const d = noisy ? noise[k++ & mask]! : 0;
+      out[i] = Math.min(255, Math.max(0, sum[i]! * gain + d));
+      out[i + 1] = Math.min(255, Math.max(0, sum[i + 1]! * gain + d));
+      out[i + 2] = Math.min(255, Math.max(0, sum[i + 2]! * gain + d));
+      out[i + 3] = 255;
+    }
+    this.count = 0;
+    return out;
+  }
 }
 
 /** The two clips the demo seed uses (invented athlete whose push-off was guarded after a hamstring strain). */

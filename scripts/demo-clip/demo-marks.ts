@@ -30,8 +30,8 @@ export function marksFromTruth(truth: GroundTruth, landmarkFrames: 'all' | 'even
   const landmarks = frames.flatMap((frame) => {
     const f = truth.frames[frame]!;
     return [
-      { frame, side: near, points: f.landmarksNormalised.near, source: 'manual' as const },
-      { frame, side: far, points: f.landmarksNormalised.far, source: 'manual' as const },
+      { frame, side: near, points: f.landmarksNormalised.near },
+      { frame, side: far, points: f.landmarksNormalised.far },
     ];
   });
   return { baseRevision: 0, landmarks, events, scale: null };

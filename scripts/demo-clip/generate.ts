@@ -2,12 +2,12 @@
  * CLI: render a synthetic side-view runner clip and its ground truth.
  *
  *   npx tsx scripts/demo-clip/generate.ts --out dir --fps 120 --width 1280 --height 720 \
- *     --seconds 3 --hip-ext 4 --facing right [--name clip] [--preset fast] [--crf 18]
+ *     --seconds 3 --hip-ext 4 --facing right [--name clip] [--preset fast] [--crf 18] [--realistic]
  *   npx tsx scripts/demo-clip/generate.ts --out dir --demo     # Baseline + Re-test clips
  */
 import path from 'node:path';
 import { parseArgs } from 'node:util';
-import { generateDemoClips, generateRunnerClip, groundTruthPath } from './clip';
+import { ALL_REALISM, generateDemoClips, generateRunnerClip, groundTruthPath } from './clip';
 
 const { values: a } = parseArgs({
   options: {
@@ -22,6 +22,8 @@ const { values: a } = parseArgs({
     preset: { type: 'string' },
     crf: { type: 'string' },
     demo: { type: 'boolean', default: false },
+    /** Every realism option on: textured wall, motion blur, compression noise, flicker, occlusion, shake. */
+    realistic: { type: 'boolean', default: false },
   },
 });
 
@@ -51,6 +53,7 @@ if (a.demo) {
     facing: a.facing,
     ...(a.preset ? { preset: a.preset } : {}),
     ...(a.crf ? { crf: num('crf', a.crf) } : {}),
+    ...(a.realistic ? { realism: ALL_REALISM } : {}),
   });
   const ext = truth.hipExtensionAtToeOffDeg.near;
   console.log(

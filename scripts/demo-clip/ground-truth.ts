@@ -4,6 +4,7 @@
  */
 import { sideAngles, type SideAngles } from '../../src/kinematics/angles';
 import { pixelToSagittal, type Facing, type Point } from '../../src/kinematics/geometry';
+import { hiddenFarMarkers, shakeOffsetPx, type FarMarker, type RealismOptions } from './realism';
 import { createRunnerModel, type RunnerModel, type RunnerPose } from './runner-model';
 
 /** What to render: frame size and rate, length, the runner's hip extension and direction. */
@@ -17,6 +18,10 @@ export interface ClipSpec {
   facing: Facing;
   /** Belt speed, m/s (default 3.0). */
   beltSpeedMps?: number;
+  /** What a phone camera adds (texture, blur, noise, flicker, occlusion, shake); none by default. */
+  realism?: RealismOptions;
+  /** Whether tape markers are drawn on the joints (default true; false = a clip with no markers). */
+  tapeMarkers?: boolean;
 }
 
 /** Where metres land in the image. */
@@ -84,6 +89,10 @@ export interface GroundTruthFrame {
   landmarks: { near: SideLandmarkSet; far: SideLandmarkSet };
   /** Fractions of width and height (0–1), as the app stores landmarks. */
   landmarksNormalised: { near: SideLandmarkSet; far: SideLandmarkSet };
+  /** Far-side markers the near leg, arm or trunk covers on this frame (none when occlusion is off). */
+  hiddenFar: FarMarker[];
+  /** Camera shake offset already included in the landmarks, px. */
+  cameraOffsetPx: Point;
 }
 
 export interface GroundTruth {
@@ -106,6 +115,8 @@ export interface GroundTruth {
   flightTimeS: number;
   dutyFactor: number;
   hipExtensionRequestedDeg: number;
+  /** Realism options the clip was rendered with. */
+  realism: RealismOptions;
   /** −thigh angle at every toe-off frame in the clip, per side. */
   hipExtensionAtToeOffDeg: { near: number[]; far: number[] };
   conventions: string;
@@ -142,17 +153,26 @@ export function frameTimeS(i: number, spec: ClipSpec, timing: FrameTiming): numb
   return (timing.startOffsetFrames + i) / spec.fps;
 }
 
-/** Landmarks of one side of a pose in pixels. */
-export function sideLandmarksPx(pose: RunnerPose, side: 'near' | 'far', layout: Layout): SideLandmarkSet {
+/** Landmarks of one side of a pose in pixels, moved by the camera offset (shake) when given. */
+export function sideLandmarksPx(pose: RunnerPose, side: 'near' | 'far', layout: Layout, offset: Point = { x: 0, y: 0 }): SideLandmarkSet {
   const leg = pose[side];
-  return {
-    shoulder: toPixels(pose.shoulder, layout),
-    hip: toPixels(pose.hip, layout),
-    knee: toPixels(leg.knee, layout),
-    ankle: toPixels(leg.ankle, layout),
-    heel: toPixels(leg.heel, layout),
-    toe: toPixels(leg.toe, layout),
+  const at = (p: Point) => {
+    const q = toPixels(p, layout);
+    return { x: q.x + offset.x, y: q.y + offset.y };
   };
+  return {
+    shoulder: at(pose.shoulder),
+    hip: at(pose.hip),
+    knee: at(leg.knee),
+    ankle: at(leg.ankle),
+    heel: at(leg.heel),
+    toe: at(leg.toe),
+  };
+}
+
+/** Near-side marker radius in px (1.6 cm, at least 2.5 px); far-side markers are 75 % of it. */
+export function markerRadiusPx(pxPerMetre: number): number {
+  return Math.max(2.5, 0.016 * pxPerMetre);
 }
 
 function normalise(set: SideLandmarkSet, width: number, height: number): SideLandmarkSet {
@@ -190,13 +210,17 @@ export function buildGroundTruth(spec: ClipSpec): GroundTruth {
   const half = timing.strideFrames / 2;
   for (let i = 0; i < frameCount; i++) {
     const pose = model.pose(frameTimeS(i, spec, timing));
-    const near = sideLandmarksPx(pose, 'near', layout);
-    const far = sideLandmarksPx(pose, 'far', layout);
+    const offset = shakeOffsetPx(i, spec.fps, spec.width, spec.realism);
+    const near = sideLandmarksPx(pose, 'near', layout, offset);
+    const far = sideLandmarksPx(pose, 'far', layout, offset);
+    const occluded = spec.realism?.occlusion !== false;
     frames.push({
       index: i,
       timeMs: round((i * 1000) / spec.fps, 3),
       landmarks: { near: roundSet(near), far: roundSet(far) },
       landmarksNormalised: { near: normalise(near, spec.width, spec.height), far: normalise(far, spec.width, spec.height) },
+      hiddenFar: occluded ? hiddenFarMarkers(pose, layout, 0.75 * markerRadiusPx(layout.pxPerMetre)) : [],
+      cameraOffsetPx: roundPoint(offset, 3),
     });
     angles.push({ index: i, near: roundAngles(anglesFromPixels(near, spec.facing)), far: roundAngles(anglesFromPixels(far, spec.facing)) });
     const nearFrame = (timing.startOffsetFrames + i) % timing.strideFrames;
@@ -225,6 +249,7 @@ export function buildGroundTruth(spec: ClipSpec): GroundTruth {
     flightTimeS: round(model.flightTimeS, 6),
     dutyFactor: round(model.dutyFactor, 6),
     hipExtensionRequestedDeg: spec.hipExtensionDeg,
+    realism: spec.realism ?? {},
     hipExtensionAtToeOffDeg: {
       near: events.near.toeOff.map((i) => round(-angles[i]!.near.thighDeg, 4)),
       far: events.far.toeOff.map((i) => round(-angles[i]!.far.thighDeg, 4)),

@@ -9,6 +9,8 @@ import {
   type FrameLandmarks,
   type GaitEventMark,
   type LandmarkName,
+  type LandmarkOrigin,
+  type LandmarkPoint,
   type ScaleBar,
 } from '../../src/contracts/annotations';
 import type { Side } from '../../src/contracts/assessment';
@@ -22,51 +24,66 @@ export interface MarkSet {
 }
 
 /** One stored landmark point (a row of `clip_landmarks`). */
-export interface LandmarkPoint {
+export interface LandmarkRow {
   frame: number;
   side: Side;
   landmark: LandmarkName;
   x: number;
   y: number;
-  source: 'manual' | 'tracked';
+  origin: LandmarkOrigin;
+  /** 0–1 for automatic points; null for placed ones. */
+  confidence: number | null;
 }
 
 /** What a save changes in the landmark rows. */
 export interface LandmarkChanges {
-  removed: Pick<LandmarkPoint, 'frame' | 'side' | 'landmark'>[];
-  changed: LandmarkPoint[];
-  added: LandmarkPoint[];
+  removed: Pick<LandmarkRow, 'frame' | 'side' | 'landmark'>[];
+  changed: LandmarkRow[];
+  added: LandmarkRow[];
 }
+
+/** Landmarks of a save: earlier clients also send how the whole entry was made (`tracked` = followed). */
+export type LandmarksInput = FrameLandmarks & { source?: 'manual' | 'tracked' };
 
 const sideOrder = (s: Side) => (s === 'left' ? 0 : 1);
 const byFrameSide = (a: { frame: number; side: Side }, b: { frame: number; side: Side }) =>
   a.frame - b.frame || sideOrder(a.side) - sideOrder(b.side);
 
-/** The points of an entry, in landmark order, without empty ones. */
-function pointsOf(points: FrameLandmarks['points']): FrameLandmarks['points'] {
+/**
+ * A point as a read gives it back: with its origin (left out = `placed`, or `followed` when an
+ * earlier client marked the whole entry `tracked`) and a confidence only when it has one.
+ */
+function storedPoint(p: LandmarkPoint, entrySource: LandmarksInput['source']): LandmarkPoint {
+  const origin = p.origin ?? (entrySource === 'tracked' ? 'followed' : 'placed');
+  return p.confidence === undefined ? { x: p.x, y: p.y, origin } : { x: p.x, y: p.y, origin, confidence: p.confidence };
+}
+
+/** The points of an entry, in landmark order, without empty ones, each as a read gives it back. */
+function pointsOf(l: LandmarksInput): FrameLandmarks['points'] {
   const out: FrameLandmarks['points'] = {};
   for (const name of LANDMARKS) {
-    const p = points[name];
-    if (p) out[name] = p;
+    const p = l.points[name];
+    if (p) out[name] = storedPoint(p, l.source);
   }
   return out;
 }
 
 /**
  * The marks of a save in the shape and order the repository reads them back: landmarks by frame
- * then side (left first), each with its source (`manual` when not given) and without entries that
- * hold no point; events by frame then side; gauges by frame then id.
+ * then side (left first), each point with its origin and confidence (see {@link storedPoint}) and
+ * without entries that hold no point; events by frame then side, each with its origin; gauges by
+ * frame then id.
  */
 export function normalizeMarks(input: {
-  landmarks: FrameLandmarks[];
+  landmarks: LandmarksInput[];
   events: GaitEventMark[];
   scale: ScaleBar | null;
   gauges?: AngleGauge[];
 }): MarkSet {
   const landmarks: FrameLandmarks[] = [];
   for (const l of input.landmarks) {
-    const points = pointsOf(l.points);
-    if (LANDMARKS.some((name) => points[name])) landmarks.push({ frame: l.frame, side: l.side, points, source: l.source ?? 'manual' });
+    const points = pointsOf(l);
+    if (LANDMARKS.some((name) => points[name])) landmarks.push({ frame: l.frame, side: l.side, points });
   }
   return {
     landmarks: landmarks.sort(byFrameSide),
@@ -79,7 +96,19 @@ export function normalizeMarks(input: {
 /** A number per frame and side (entries are unique by both). */
 const entryKey = (l: { frame: number; side: Side }) => l.frame * 2 + sideOrder(l.side);
 
-/** The landmark rows to delete, update and insert to turn `before` into `after`. */
+/** The row of one point (origin `placed` and no confidence when not given). */
+function rowOf(l: { frame: number; side: Side }, landmark: LandmarkName, p: LandmarkPoint): LandmarkRow {
+  return { frame: l.frame, side: l.side, landmark, x: p.x, y: p.y, origin: p.origin ?? 'placed', confidence: p.confidence ?? null };
+}
+
+/** Whether a point's stored row would differ: position, origin or confidence. */
+const pointChanged = (p: LandmarkPoint, q: LandmarkPoint) =>
+  p.x !== q.x || p.y !== q.y || (p.origin ?? 'placed') !== (q.origin ?? 'placed') || (p.confidence ?? null) !== (q.confidence ?? null);
+
+/**
+ * The landmark rows to delete, update and insert to turn `before` into `after` (both normalised):
+ * a point whose position, origin or confidence differs is one changed row.
+ */
 export function landmarkChanges(before: FrameLandmarks[], after: FrameLandmarks[]): LandmarkChanges {
   const old = new Map<number, FrameLandmarks>();
   for (const l of before) old.set(entryKey(l), l);
@@ -88,15 +117,12 @@ export function landmarkChanges(before: FrameLandmarks[], after: FrameLandmarks[
     const key = entryKey(l);
     const was = old.get(key);
     old.delete(key);
-    const source = l.source ?? 'manual';
-    const sourceChanged = was !== undefined && (was.source ?? 'manual') !== source;
     for (const landmark of LANDMARKS) {
       const p = l.points[landmark];
       const q = was?.points[landmark];
-      if (p && !q) changes.added.push({ frame: l.frame, side: l.side, landmark, x: p.x, y: p.y, source });
+      if (p && !q) changes.added.push(rowOf(l, landmark, p));
       else if (!p && q) changes.removed.push({ frame: l.frame, side: l.side, landmark });
-      else if (p && q && (p.x !== q.x || p.y !== q.y || sourceChanged))
-        changes.changed.push({ frame: l.frame, side: l.side, landmark, x: p.x, y: p.y, source });
+      else if (p && q && pointChanged(p, q)) changes.changed.push(rowOf(l, landmark, p));
     }
   }
   for (const l of old.values()) {

@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 import type { AngleGauge, ClipAnnotations, FrameLandmarks, GaitEventMark, ScaleBar } from '../../src/contracts/annotations';
-import { landmarkChanges, normalizeMarks, sameEvents, sameGauges, sameScale, type LandmarkPoint, type MarkSet } from './annotation-changes';
+import { landmarkChanges, normalizeMarks, sameEvents, sameGauges, sameScale, type LandmarkRow, type MarkSet } from './annotation-changes';
 
 const NO_MARKS: MarkSet = { landmarks: [], events: [], scale: null, gauges: [] };
 
@@ -15,7 +15,7 @@ interface GaugeRow {
   by: number;
 }
 
-async function insertLandmarks(trx: Knex, clipId: number, points: LandmarkPoint[]): Promise<void> {
+async function insertLandmarks(trx: Knex, clipId: number, points: LandmarkRow[]): Promise<void> {
   if (points.length)
     await trx.batchInsert(
       'clip_landmarks',
@@ -39,7 +39,7 @@ export const annotationsRepository = {
       db('clip_landmarks')
         .where({ clip_id: clipId })
         .orderBy(['frame', 'side'])
-        .select<LandmarkPoint[]>('frame', 'side', 'landmark', 'x', 'y', 'source'),
+        .select<LandmarkRow[]>('frame', 'side', 'landmark', 'x', 'y', 'origin', 'confidence'),
       db('gait_events').where({ clip_id: clipId }).orderBy(['frame', 'side']).select<GaitEventMark[]>('frame', 'side', 'kind', 'origin'),
       db('scale_bars').where({ clip_id: clipId }).first(),
       db('angle_gauges')
@@ -52,10 +52,10 @@ export const annotationsRepository = {
       const key = `${p.frame}:${p.side}`;
       let entry = byFrame.get(key);
       if (!entry) {
-        entry = { frame: p.frame, side: p.side, points: {}, source: p.source };
+        entry = { frame: p.frame, side: p.side, points: {} };
         byFrame.set(key, entry);
       }
-      entry.points[p.landmark] = { x: p.x, y: p.y };
+      entry.points[p.landmark] = { x: p.x, y: p.y, origin: p.origin, ...(p.confidence === null ? {} : { confidence: p.confidence }) };
     }
     const bar: ScaleBar | null = scale
       ? { frame: scale.frame, a: { x: scale.ax, y: scale.ay }, b: { x: scale.bx, y: scale.by }, lengthM: scale.length_m }
@@ -106,7 +106,7 @@ export const annotationsRepository = {
       for (const p of lm.changed) {
         await trx('clip_landmarks')
           .where({ clip_id: clipId, frame: p.frame, side: p.side, landmark: p.landmark })
-          .update({ x: p.x, y: p.y, source: p.source });
+          .update({ x: p.x, y: p.y, origin: p.origin, confidence: p.confidence });
       }
       await insertLandmarks(trx, clipId, lm.added);
     }

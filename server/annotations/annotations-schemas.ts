@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { ANNOTATION_LIMITS, EVENT_ORIGINS, GAIT_EVENT_KINDS, LANDMARKS } from '../../src/contracts/annotations';
+import { ANNOTATION_LIMITS, EVENT_ORIGINS, GAIT_EVENT_KINDS, LANDMARK_ORIGINS, LANDMARKS } from '../../src/contracts/annotations';
 import { SIDES } from '../../src/contracts/assessment';
 
 const Fraction = z
@@ -27,10 +27,18 @@ const Gauge = z
     path: ['vertex'],
   });
 
+/** A landmark point with where it came from (left out = placed by a person) and, if automatic, a confidence. */
+const LandmarkPoint = z.strictObject({
+  x: Fraction,
+  y: Fraction,
+  origin: z.enum(LANDMARK_ORIGINS, 'Origin is placed, followed, proposed or accepted.').optional(),
+  confidence: z.number('Confidence must be a number.').min(0, 'Confidence is 0–1.').max(1, 'Confidence is 0–1.').optional(),
+});
+
 const Points = z.strictObject(
-  Object.fromEntries(LANDMARKS.map((l) => [l, FramePoint.optional()])) as Record<
+  Object.fromEntries(LANDMARKS.map((l) => [l, LandmarkPoint.optional()])) as Record<
     (typeof LANDMARKS)[number],
-    z.ZodOptional<typeof FramePoint>
+    z.ZodOptional<typeof LandmarkPoint>
   >,
 );
 
@@ -43,6 +51,7 @@ export const AnnotationsBody = z
           frame: Frame,
           side: z.enum(SIDES, 'Side is left or right.'),
           points: Points,
+          // Earlier clients sent how the whole row was made; its points count as placed or followed.
           source: z.enum(['manual', 'tracked']).optional(),
         }),
       )

@@ -5,7 +5,7 @@ import type { Db } from '../db/knex';
 import { AppError, ConflictError, ValidationError } from '../errors';
 import { audit } from '../audit/audit-log';
 import type { ClipsService } from '../clips/clips-service';
-import type { ClipRow } from '../clips/clips-repository';
+import { clipsRepository, type ClipRow } from '../clips/clips-repository';
 import { annotationsRepository as repo } from './annotations-repository';
 import type { AnnotationsInput } from './annotations-schemas';
 import { normalizeMarks } from './annotation-changes';
@@ -71,7 +71,7 @@ export function annotationsService(d: AnnotationsDeps) {
    * the measures snapshot and audits `action`, in one transaction. Returns the saved copy.
    */
   async function save(
-    user: SessionUser,
+    user: Pick<SessionUser, 'id' | 'name' | 'clinicId'>,
     clip: ClipRow,
     baseRevision: number,
     input: Parameters<typeof normalizeMarks>[0],
@@ -125,9 +125,38 @@ export function annotationsService(d: AnnotationsDeps) {
   }
 
   return {
+    /** The clip's marks without an access check: for background work already checked when it was asked for. */
+    read(clipId: number): Promise<ClipAnnotations> {
+      return repo.read(db, clipId);
+    },
+
     async get(user: SessionUser, clipId: number): Promise<ClipAnnotations> {
       await d.clips.accessibleClip(user, clipId, 'annotation:read');
       return repo.read(db, clipId);
+    },
+
+    /**
+     * Saves the clip's current landmarks as `change` turns them, on behalf of `actor` (background
+     * work a person asked for, such as marker following): read, changed and saved on the stored
+     * revision, read again when another save came in between (up to three times).
+     */
+    async changeLandmarks(
+      actor: Pick<SessionUser, 'id' | 'name' | 'clinicId'>,
+      clipId: number,
+      change: (landmarks: ClipAnnotations['landmarks']) => ClipAnnotations['landmarks'],
+      action: string,
+      detail: Record<string, unknown>,
+    ): Promise<ClipAnnotations> {
+      for (let attempt = 1; ; attempt++) {
+        const clip = await clipsRepository.findById(db, clipId);
+        if (!clip) throw new AppError(404, 'not_found', 'Clip not found.');
+        const current = await repo.read(db, clipId);
+        try {
+          return await save(actor, clip, current.revision, { ...current, landmarks: change(current.landmarks) }, action, detail);
+        } catch (err) {
+          if (!(err instanceof AppError && err.code === 'stale_revision') || attempt >= 3) throw err;
+        }
+      }
     },
 
     async put(user: SessionUser, clipId: number, input: AnnotationsInput): Promise<ClipAnnotations> {

@@ -91,6 +91,8 @@ export const ACCESS_TABLE = {
   'annotation:write': STAFF,
   /** Ask for gait events proposed from the clip's landmarks (saved as proposals). */
   'event:propose': STAFF,
+  /** Follow the markers of one frame through the clip (saved as followed landmarks). */
+  'landmark:follow': STAFF,
   'measure:read': STAFF,
   'comparison:read': STAFF,
   'reference-band:list': STAFF,

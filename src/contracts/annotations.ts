@@ -34,14 +34,35 @@ export interface FramePoint {
   y: number;
 }
 
+/**
+ * Where a landmark point came from: `placed` by a person, `followed` by marker following,
+ * `proposed` by the app and not yet accepted, `accepted` (a proposal the coach accepted).
+ */
+export const LANDMARK_ORIGINS = ['placed', 'followed', 'proposed', 'accepted'] as const;
+export type LandmarkOrigin = (typeof LANDMARK_ORIGINS)[number];
+
+/** On-screen words for each origin. */
+export const LANDMARK_ORIGIN_LABELS: Record<LandmarkOrigin, string> = {
+  placed: 'Placed',
+  followed: 'Followed',
+  proposed: 'Proposed',
+  accepted: 'Accepted',
+};
+
+/** A landmark point with where it came from. */
+export interface LandmarkPoint extends FramePoint {
+  /** Left out when saving = `placed` (a person put it there); the server always sends it. */
+  origin?: LandmarkOrigin;
+  /** 0–1 for automatic points (followed, proposed); absent for placed ones. */
+  confidence?: number;
+}
+
 /** The landmarks of one side on one frame (any subset). */
 export interface FrameLandmarks {
   /** 0-based frame index. */
   frame: number;
   side: Side;
-  points: Partial<Record<LandmarkName, FramePoint>>;
-  /** How the points were made; only `manual` exists today. */
-  source?: 'manual' | 'tracked';
+  points: Partial<Record<LandmarkName, LandmarkPoint>>;
 }
 
 /**
@@ -79,6 +100,23 @@ export interface EventProposalsResult {
   /** Proposals left out, in words (next to an event a person placed or accepted, or out of order with them). */
   skipped: string[];
 }
+
+/** Body of `POST /api/clips/:id/follow`: follow the markers of `startFrame` over frames `from`–`to` (inclusive). */
+export interface FollowMarkersRequest {
+  startFrame: number;
+  from: number;
+  to: number;
+}
+
+/** Answer (202) of `POST /api/clips/:id/follow`: the processed item whose progress the clip's stream carries. */
+export interface FollowMarkersStarted {
+  itemId: number;
+  /** The processed-item kind on the progress stream. */
+  kind: 'follow_markers';
+}
+
+/** A followed point below this confidence is flagged for the coach to check. */
+export const FOLLOW_LOW_CONFIDENCE = 0.5;
 
 /** A line over an object of known length in the plane of running. */
 export interface ScaleBar {

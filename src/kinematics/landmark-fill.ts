@@ -18,7 +18,7 @@ export interface LandmarkFill {
 
 /**
  * Landmarks for every frame of a clip, for playback. Per side: a frame the coach marked by hand
- * shows those points (`marked`); otherwise followed points on that frame (`source: 'tracked'`,
+ * shows those points (`marked`); otherwise followed points on that frame (every point's `origin`
  * `followed`); otherwise each landmark is interpolated linearly between the nearest earlier and
  * later frames that carry it, marked or followed (`interpolated`). Outside the first and last
  * such frame nothing is drawn: no landmark is extrapolated. Pure.
@@ -29,7 +29,8 @@ export function landmarkFill(all: readonly FrameLandmarks[]): LandmarkFill {
     const byFrame = new Map<number, { frame: number; entry: FrameLandmarks; origin: LandmarkOrigin }>();
     for (const l of all) {
       if (l.side !== side || Object.keys(l.points).length === 0) continue;
-      const origin: LandmarkOrigin = l.source === 'tracked' ? 'followed' : 'marked';
+      // An entry whose every point was followed (none placed or accepted by the coach) counts as followed.
+      const origin: LandmarkOrigin = Object.values(l.points).every((p) => p?.origin === 'followed') ? 'followed' : 'marked';
       const had = byFrame.get(l.frame);
       // A hand-placed entry wins over a followed one on the same frame.
       if (!had || (had.origin === 'followed' && origin === 'marked')) byFrame.set(l.frame, { frame: l.frame, entry: l, origin });

@@ -49,7 +49,7 @@ for (const side of ['right', 'left'] as Side[]) {
   for (let f = 0; f < FRAMES; f++) {
     const p = ((((f - offset) % STRIDE) + STRIDE) % STRIDE) / STRIDE;
     const points = Object.fromEntries(Object.entries(pose(p)).map(([k, q]) => [k, frac(q)]));
-    landmarks.push({ frame: f, side, points, source: 'tracked' });
+    landmarks.push({ frame: f, side, points });
   }
   for (let ic = offset; ic + CONTACT < FRAMES; ic += STRIDE) {
     events.push(

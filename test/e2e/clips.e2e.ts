@@ -84,7 +84,7 @@ describe('assessments and clips', () => {
     const coachClip = await h.server.db('clips').where({ assessment_id: assessmentId }).orderBy('id').first();
     await h.server
       .db('clip_landmarks')
-      .insert({ clip_id: coachClip.id, frame: 3, side: 'right', landmark: 'hip', x: 0.5, y: 0.4, source: 'placed' });
+      .insert({ clip_id: coachClip.id, frame: 3, side: 'right', landmark: 'hip', x: 0.5, y: 0.4, origin: 'placed' });
     const { page, context, problems } = await h.newPage();
     await page.setViewportSize({ width: 390, height: 844 });
     await signIn(page, athlete.email, athlete.password);

@@ -6,6 +6,21 @@ import type { Harness } from './harness';
 import { generateRunnerClip } from '../../scripts/demo-clip/clip';
 import { marksFromTruth } from '../../scripts/demo-clip/demo-marks';
 
+/** Uploads `file` to the assessment through the API and waits until its frames are ready. Returns the clip id. */
+export async function uploadReadyClip(api: Client, assessmentId: number, file: string): Promise<number> {
+  const up = await api.agent
+    .post(`/api/assessments/${assessmentId}/clips`)
+    .set('X-XSRF-TOKEN', await api.xsrf())
+    .attach('file', file);
+  const clipId = up.body.id as number;
+  for (let i = 0; ; i++) {
+    const clip = (await api.get(`/api/clips/${clipId}`)).body;
+    if (clip.status === 'ready') return clipId;
+    if (clip.status === 'failed' || i > 300) throw new Error(`clip ${clip.status}: ${clip.error}`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+}
+
 /**
  * Renders a synthetic runner clip (scripts/demo-clip; known hip extension at toe-off; 6 s by
  * default: 8 toe-offs a side, past the 7 steps a published measurement error assumes), uploads it
@@ -30,17 +45,7 @@ export async function uploadMarkedClip(
     outFile: file,
     preset: 'ultrafast',
   });
-  const up = await api.agent
-    .post(`/api/assessments/${assessmentId}/clips`)
-    .set('X-XSRF-TOKEN', await api.xsrf())
-    .attach('file', file);
-  const clipId = up.body.id as number;
-  for (let i = 0; ; i++) {
-    const clip = (await api.get(`/api/clips/${clipId}`)).body;
-    if (clip.status === 'ready') break;
-    if (clip.status === 'failed' || i > 300) throw new Error(`clip ${clip.status}: ${clip.error}`);
-    await new Promise((r) => setTimeout(r, 200));
-  }
+  const clipId = await uploadReadyClip(api, assessmentId, file);
   await api.patch(`/api/clips/${clipId}`, { nearSide: truth.nearSide, direction: 'left_to_right' });
   const res = await api.put(`/api/clips/${clipId}/annotations`, marksFromTruth(truth, 'all'));
   if (res.status !== 200) throw new Error(`annotations: ${res.status} ${JSON.stringify(res.body).slice(0, 300)}`);

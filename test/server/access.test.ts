@@ -480,6 +480,14 @@ const ROUTES: RouteCase[] = [
     access: { action: 'event:propose', on: 'self', ok: 422 },
   },
   {
+    method: 'post',
+    pattern: '/api/clips/:id/follow',
+    path: (c) => `/api/clips/${c.clipId}/follow`,
+    body: () => ({ startFrame: 0, from: 0, to: 1 }),
+    // The walk's clip has no landmarks: the caller allowed in hears there is nothing to follow.
+    access: { action: 'landmark:follow', on: 'self', ok: 422 },
+  },
+  {
     method: 'get',
     pattern: '/api/clips/:id/measures',
     path: (c) => `/api/clips/${c.clipId}/measures`,

@@ -13,7 +13,7 @@ const hipKnee = (frame: number, side: 'left' | 'right', x = 0.5): FrameLandmarks
 });
 
 describe('normalizeMarks', () => {
-  it('orders as a read does (frame, then left before right), fills the source, drops entries without points', () => {
+  it('orders as a read does (frame, then left before right), fills the origin of each point, drops entries without points', () => {
     const m = normalizeMarks({
       landmarks: [hipKnee(9, 'right'), { frame: 4, side: 'left', points: {} }, hipKnee(3, 'right'), hipKnee(3, 'left', 0.2)],
       events: [
@@ -28,9 +28,28 @@ describe('normalizeMarks', () => {
         { id: 'c', frame: 1, a: { x: 0, y: 0 }, vertex: { x: 0.5, y: 0.5 }, b: { x: 1, y: 0 } },
       ],
     });
-    expect(m.landmarks.map((l) => `${l.frame}${l.side[0]}${l.source}`)).toEqual(['3lmanual', '3rmanual', '9rmanual']);
+    expect(m.landmarks.map((l) => `${l.frame}${l.side[0]}${l.points.hip?.origin}`)).toEqual(['3lplaced', '3rplaced', '9rplaced']);
     expect(m.events.map((e) => `${e.frame}${e.side[0]}`)).toEqual(['3l', '3r', '12r']);
     expect(m.gauges.map((g) => g.id)).toEqual(['c', 'a', 'b']);
+  });
+
+  it("keeps a point's origin and confidence, reads an earlier client's tracked entry as followed, and leaves confidence out when not given", () => {
+    const m = normalizeMarks({
+      landmarks: [
+        { frame: 1, side: 'left', points: { hip: { x: 0.5, y: 0.4, origin: 'followed', confidence: 0.8 }, knee: { x: 0.5, y: 0.6 } } },
+        { frame: 2, side: 'left', source: 'tracked', points: { hip: { x: 0.5, y: 0.4 }, knee: { x: 0.5, y: 0.6, origin: 'placed' } } },
+        { frame: 3, side: 'left', source: 'manual', points: { hip: { x: 0.5, y: 0.4 } } },
+      ],
+      events: [{ frame: 1, side: 'left', kind: 'toe_off', origin: 'proposed' }],
+      scale: null,
+    });
+    expect(m.landmarks.map((l) => l.points)).toEqual([
+      { hip: { x: 0.5, y: 0.4, origin: 'followed', confidence: 0.8 }, knee: { x: 0.5, y: 0.6, origin: 'placed' } },
+      { hip: { x: 0.5, y: 0.4, origin: 'followed' }, knee: { x: 0.5, y: 0.6, origin: 'placed' } },
+      { hip: { x: 0.5, y: 0.4, origin: 'placed' } },
+    ]);
+    expect(m.landmarks.some((l) => 'source' in l)).toBe(false);
+    expect(m.events[0]!.origin).toBe('proposed');
   });
 });
 
@@ -40,7 +59,7 @@ describe('landmarkChanges', () => {
     const after = [hipKnee(3, 'left'), { ...hipKnee(3, 'right'), points: { hip: { x: 0.51, y: 0.4 }, knee: { x: 0.5, y: 0.6 } } }];
     expect(landmarkChanges(before, after)).toEqual({
       removed: [],
-      changed: [{ frame: 3, side: 'right', landmark: 'hip', x: 0.51, y: 0.4, source: 'manual' }],
+      changed: [{ frame: 3, side: 'right', landmark: 'hip', x: 0.51, y: 0.4, origin: 'placed', confidence: null }],
       added: [],
     });
   });
@@ -60,10 +79,34 @@ describe('landmarkChanges', () => {
     expect(c).toEqual({ removed: [{ frame: 3, side: 'left', landmark: 'knee' }], changed: [], added: [] });
   });
 
-  it('a new source rewrites the rows of that entry', () => {
-    const c = landmarkChanges([hipKnee(3, 'left')], [{ ...hipKnee(3, 'left'), source: 'tracked' }]);
-    expect(c.changed).toHaveLength(2);
-    expect(c.changed.every((p) => p.source === 'tracked')).toBe(true);
+  it('a followed point the coach moves onto the same spot becomes placed: one changed row for the new origin', () => {
+    const followed = { frame: 3, side: 'left' as const, points: { hip: { x: 0.5, y: 0.4, origin: 'followed' as const, confidence: 0.7 } } };
+    const placed = { frame: 3, side: 'left' as const, points: { hip: { x: 0.5, y: 0.4, origin: 'placed' as const } } };
+    expect(landmarkChanges([followed], [placed])).toEqual({
+      removed: [],
+      changed: [{ frame: 3, side: 'left', landmark: 'hip', x: 0.5, y: 0.4, origin: 'placed', confidence: null }],
+      added: [],
+    });
+  });
+
+  it('only the confidence differs: that row changes; origin and confidence the same: nothing', () => {
+    const at = (confidence: number) => ({
+      frame: 3,
+      side: 'left' as const,
+      points: {
+        hip: { x: 0.5, y: 0.4, origin: 'followed' as const, confidence },
+        knee: { x: 0.5, y: 0.6, origin: 'followed' as const, confidence: 0.9 },
+      },
+    });
+    expect(landmarkChanges([at(0.9)], [at(0.4)]).changed).toEqual([
+      { frame: 3, side: 'left', landmark: 'hip', x: 0.5, y: 0.4, origin: 'followed', confidence: 0.4 },
+    ]);
+    expect(landmarkChanges([at(0.9)], [at(0.9)])).toEqual({ removed: [], changed: [], added: [] });
+  });
+
+  it('an added followed point keeps its origin and confidence in its row', () => {
+    const c = landmarkChanges([], [{ frame: 0, side: 'right', points: { toe: { x: 0.2, y: 0.9, origin: 'followed', confidence: 0.35 } } }]);
+    expect(c.added).toEqual([{ frame: 0, side: 'right', landmark: 'toe', x: 0.2, y: 0.9, origin: 'followed', confidence: 0.35 }]);
   });
 
   it('from nothing: every point added', () => {

@@ -76,7 +76,10 @@ describe('saving annotations', () => {
     const res = await put(plainClipId, body);
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     expect(res.body).toMatchObject({ revision: 1, updatedByName: 'Tobin Achterberg', events: body.events, scale: body.scale });
-    expect(res.body.landmarks).toEqual([{ frame: 3, side: 'right', points: body.landmarks[0]!.points, source: 'manual' }]);
+    // Points sent without an origin were placed by a person.
+    expect(res.body.landmarks).toEqual([
+      { frame: 3, side: 'right', points: { hip: { x: 0.5, y: 0.4, origin: 'placed' }, knee: { x: 0.55, y: 0.6, origin: 'placed' } } },
+    ]);
   });
 
   it('answers a stale revision with 409 and the current annotations; nothing is lost', async () => {
@@ -226,5 +229,57 @@ describe('reference bands', () => {
     expect(
       (await o.get('/api/reference-bands')).body.bands.find((b: { key: string }) => b.key === 'knee_flexion_initial_contact').source,
     ).toMatch(/Heiderscheit/);
+  });
+});
+
+describe('landmark origin', () => {
+  it("keeps where each point came from and its confidence; earlier clients' tracked rows count as followed", async () => {
+    const current = (await c.get(`/api/clips/${plainClipId}/annotations`)).body as ClipAnnotations;
+    const res = await put(plainClipId, {
+      baseRevision: current.revision,
+      landmarks: [
+        {
+          frame: 4,
+          side: 'right',
+          points: {
+            hip: { x: 0.5, y: 0.4 },
+            knee: { x: 0.55, y: 0.6, origin: 'followed', confidence: 0.93 },
+            ankle: { x: 0.56, y: 0.8, origin: 'proposed', confidence: 0.4 },
+            toe: { x: 0.6, y: 0.9, origin: 'accepted' },
+          },
+        },
+        { frame: 5, side: 'right', points: { hip: { x: 0.5, y: 0.41 } }, source: 'tracked' },
+      ],
+      events: [],
+      scale: null,
+    });
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect(res.body.landmarks).toEqual([
+      {
+        frame: 4,
+        side: 'right',
+        points: {
+          hip: { x: 0.5, y: 0.4, origin: 'placed' },
+          knee: { x: 0.55, y: 0.6, origin: 'followed', confidence: 0.93 },
+          ankle: { x: 0.56, y: 0.8, origin: 'proposed', confidence: 0.4 },
+          toe: { x: 0.6, y: 0.9, origin: 'accepted' },
+        },
+      },
+      { frame: 5, side: 'right', points: { hip: { x: 0.5, y: 0.41, origin: 'followed' } } },
+    ]);
+    for (const [point, message] of [
+      [{ x: 0.5, y: 0.4, origin: 'guessed' }, /placed, followed, proposed or accepted/],
+      [{ x: 0.5, y: 0.4, origin: 'followed', confidence: 1.5 }, /Confidence is 0–1/],
+    ] as const) {
+      const bad = await put(plainClipId, {
+        baseRevision: res.body.revision,
+        landmarks: [{ frame: 1, side: 'right', points: { hip: point } }],
+        events: [],
+        scale: null,
+      });
+      expect(bad.status).toBe(422);
+      expect(JSON.stringify(bad.body.error.details)).toMatch(message);
+    }
+    expect((await c.get(`/api/clips/${plainClipId}/annotations`)).body.revision).toBe(res.body.revision);
   });
 });

@@ -86,7 +86,7 @@ describe('autosave', () => {
     const stored = (await c.get(`/api/clips/${clipId}/annotations`)).body as ClipAnnotations;
     expect(stored.revision).toBe(2);
     expect(stored.landmarks).toEqual(won[0]!.a.body.landmarks);
-    expect(stored.landmarks[1]!.points.hip).toEqual({ x: bodies[won[0]!.i]!.landmarks[0]!.points.hip!.x, y: 0.4 });
+    expect(stored.landmarks[1]!.points.hip).toEqual({ x: bodies[won[0]!.i]!.landmarks[0]!.points.hip!.x, y: 0.4, origin: 'placed' });
     // Sequential saves on the answered revision go on: 3, 4.
     expect((await put(c, clipId, doc(2, 0.45))).body.revision).toBe(3);
     expect((await put(c, clipId, doc(3, 0.46))).body.revision).toBe(4);
@@ -105,6 +105,21 @@ describe('autosave', () => {
     const snapshot = await t.db('measure_snapshots').where({ clip_id: clipId }).first();
     expect(snapshot.annotation_revision).toBe(2);
     expect((await t.db('clip_landmarks').where({ clip_id: clipId, frame: 2, side: 'left', landmark: 'knee' }).first()).x).toBe(0.33);
+  });
+
+  it('a followed point the coach sets down where it was: one landmark row updated to placed, its confidence cleared', async () => {
+    const clipId = clipIds[1]!;
+    const base = (await c.get(`/api/clips/${clipId}/annotations`)).body as ClipAnnotations;
+    const followed = doc(base.revision);
+    followed.landmarks[0]!.points.ankle = { x: 0.5, y: 0.8, origin: 'followed', confidence: 0.6 };
+    expect((await put(c, clipId, followed)).status).toBe(200);
+    const row = () => t.db('clip_landmarks').where({ clip_id: clipId, frame: 2, side: 'right', landmark: 'ankle' }).first();
+    expect(await row()).toMatchObject({ origin: 'followed', confidence: 0.6 });
+    const placed = doc(base.revision + 1);
+    placed.landmarks[0]!.points.ankle = { x: 0.5, y: 0.8 };
+    const sql = await writes(() => put(c, clipId, placed));
+    expect(sql.filter((s) => /clip_landmarks/.test(s))).toEqual([expect.stringMatching(/^update `clip_landmarks`/)]);
+    expect(await row()).toMatchObject({ origin: 'placed', confidence: null });
   });
 
   it('the answer is what a read returns, whatever order the body had (entries without points dropped)', async () => {
@@ -149,7 +164,9 @@ describe('autosave', () => {
     const stored = (await c.get(`/api/clips/${clipId}/annotations`)).body as ClipAnnotations;
     expect(stored.revision).toBe(3);
     expect(stored.landmarks).toEqual(
-      next.landmarks.map((l) => ({ ...l, source: 'manual' })).sort((a, b) => a.frame - b.frame || (a.side < b.side ? -1 : 1)),
+      next.landmarks
+        .map((l) => ({ ...l, points: Object.fromEntries(Object.entries(l.points).map(([k, p]) => [k, { ...p, origin: 'placed' }])) }))
+        .sort((a, b) => a.frame - b.frame || (a.side < b.side ? -1 : 1)),
     );
   });
 });

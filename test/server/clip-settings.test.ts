@@ -83,7 +83,7 @@ describe('clip settings: who may change them and when', () => {
 
   it('once landmarks exist the athlete gets 409 clip_marked and nothing changes; staff may still change them', async () => {
     const id = await clipRow();
-    await t.db('clip_landmarks').insert({ clip_id: id, frame: 3, side: 'right', landmark: 'hip', x: 0.5, y: 0.4, source: 'placed' });
+    await t.db('clip_landmarks').insert({ clip_id: id, frame: 3, side: 'right', landmark: 'hip', x: 0.5, y: 0.4, origin: 'placed' });
     expect((await staff.get(`/api/clips/${id}`)).body.marked).toBe(true);
     for (const change of [{ nearSide: 'left' }, { direction: 'right_to_left' }, { captureFps: 240 }]) {
       const res = await ada.patch(`/api/clips/${id}`, change);
@@ -105,7 +105,7 @@ describe('clip settings: who may change them and when', () => {
 
   it('a request that changes nothing is answered without a conflict or an audit entry', async () => {
     const id = await clipRow();
-    await t.db('clip_landmarks').insert({ clip_id: id, frame: 3, side: 'right', landmark: 'hip', x: 0.5, y: 0.4, source: 'placed' });
+    await t.db('clip_landmarks').insert({ clip_id: id, frame: 3, side: 'right', landmark: 'hip', x: 0.5, y: 0.4, origin: 'placed' });
     const before = await t.db('audit_log').where({ action: 'clip.settings_changed' }).count<{ n: number }[]>({ n: '*' });
     const res = await ada.patch(`/api/clips/${id}`, { nearSide: 'right' });
     expect(res.status).toBe(200);
@@ -130,7 +130,7 @@ describe('clip settings: who may change them and when', () => {
 
   it('a staff change of a marked clip’s settings drops the stale measures snapshot (recomputed on the next read)', async () => {
     const id = await clipRow();
-    await t.db('clip_landmarks').insert({ clip_id: id, frame: 3, side: 'right', landmark: 'hip', x: 0.5, y: 0.4, source: 'placed' });
+    await t.db('clip_landmarks').insert({ clip_id: id, frame: 3, side: 'right', landmark: 'hip', x: 0.5, y: 0.4, origin: 'placed' });
     await t.db('measure_snapshots').insert({
       clip_id: id,
       assessment_id: assessmentId,

@@ -49,6 +49,7 @@ const DOCUMENTED: Record<Action, Who> = {
   'annotation:read': 'S',
   'annotation:write': 'S',
   'event:propose': 'S',
+  'landmark:follow': 'S',
   'measure:read': 'S',
   'comparison:read': 'S',
   'reference-band:list': 'S',

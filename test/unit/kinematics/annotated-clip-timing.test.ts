@@ -145,12 +145,10 @@ describe('warpToRetest: initial contacts line up, linear in between', () => {
 });
 
 describe('landmarkFill: marked, followed, then interpolated between them', () => {
-  const lm = (frame: number, side: 'left' | 'right', x: number, source?: 'manual' | 'tracked'): FrameLandmarks => ({
-    frame,
-    side,
-    points: { hip: { x, y: 0.5 }, knee: { x: x + 0.1, y: 0.7 } },
-    ...(source ? { source } : {}),
-  });
+  const lm = (frame: number, side: 'left' | 'right', x: number, source?: 'manual' | 'tracked'): FrameLandmarks => {
+    const origin = source === 'tracked' ? { origin: 'followed' as const } : source === 'manual' ? { origin: 'placed' as const } : {};
+    return { frame, side, points: { hip: { x, y: 0.5, ...origin }, knee: { x: x + 0.1, y: 0.7, ...origin } } };
+  };
   const fill = landmarkFill([lm(10, 'right', 0.2), lm(20, 'right', 0.4), lm(14, 'right', 0.9, 'tracked'), lm(10, 'left', 0.3)]);
 
   it('shows hand-marked points on a marked frame', () => {

@@ -25,7 +25,7 @@ export function toFraction(p: { x: number; y: number }, direction: Direction, dx
 export function landmarksAt(frame: number, side: Side, pose: MetrePose, direction: Direction, dxM = 0): FrameLandmarks {
   const points: FrameLandmarks['points'] = {};
   for (const [k, p] of Object.entries(pose) as [LandmarkName, { x: number; y: number }][]) points[k] = toFraction(p, direction, dxM);
-  return { frame, side, points, source: 'manual' };
+  return { frame, side, points };
 }
 
 /** A 1 m scale bar spanning 400 px (horizontal, near the bottom of the frame). */

@@ -1,7 +1,13 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { Observable } from 'rxjs';
-import type { ClipAnnotations, ClipAnnotationsWrite, EventProposalsResult } from '../../../contracts/annotations';
+import type {
+  ClipAnnotations,
+  ClipAnnotationsWrite,
+  EventProposalsResult,
+  FollowMarkersRequest,
+  FollowMarkersStarted,
+} from '../../../contracts/annotations';
 import type { ClipMeasures } from '../../../contracts/measures';
 import type { FrameManifest } from '../../../contracts/api';
 import { skipErrorSnackbar } from '../http-context';
@@ -46,6 +52,11 @@ export class ReviewApi {
    */
   proposeEvents(clipId: number, baseRevision: number): Observable<EventProposalsResult> {
     return this.http.post<EventProposalsResult>(`/api/clips/${clipId}/events/proposals`, { baseRevision }, { context: skipErrorSnackbar() });
+  }
+
+  /** Queues following the markers of one frame through the clip (progress on the athlete's stream). */
+  followMarkers(clipId: number, body: FollowMarkersRequest): Observable<FollowMarkersStarted> {
+    return this.http.post<FollowMarkersStarted>(`/api/clips/${clipId}/follow`, body, { context: skipErrorSnackbar() });
   }
 
   /** The measures the server stored when the annotations last changed. */

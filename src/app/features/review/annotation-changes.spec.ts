@@ -19,8 +19,8 @@ function state(partial: Partial<AnnotationState> = {}): AnnotationState {
 
 const base = state({
   landmarks: [
-    { frame: 3, side: 'left', points: { hip: { x: 0.5, y: 0.4 }, knee: { x: 0.52, y: 0.6 } }, source: 'manual' },
-    { frame: 9, side: 'left', points: { hip: { x: 0.55, y: 0.41 } }, source: 'manual' },
+    { frame: 3, side: 'left', points: { hip: { x: 0.5, y: 0.4 }, knee: { x: 0.52, y: 0.6 } } },
+    { frame: 9, side: 'left', points: { hip: { x: 0.55, y: 0.41 } } },
   ],
   events: [{ frame: 3, side: 'left', kind: 'initial_contact' }],
   scale: null,
@@ -35,8 +35,8 @@ describe('diffStates / applyChanges', () => {
   it('turns one state into another and back', () => {
     const target = state({
       landmarks: [
-        { frame: 3, side: 'left', points: { hip: { x: 0.5, y: 0.45 } }, source: 'manual' },
-        { frame: 5, side: 'right', points: { toe: { x: 0.7, y: 0.95 } }, source: 'manual' },
+        { frame: 3, side: 'left', points: { hip: { x: 0.5, y: 0.45 } } },
+        { frame: 5, side: 'right', points: { toe: { x: 0.7, y: 0.95 } } },
       ],
       events: [{ frame: 12, side: 'right', kind: 'toe_off' }],
       scale,
@@ -119,5 +119,25 @@ describe('mergeOnto (local edits on top of a newer server copy)', () => {
     const edit = setPointChanges(base, 3, 'left', 'toe', { x: 0.6, y: 0.95 });
     const { conflicts } = mergeOnto(base, applyChanges(base, edit), applyChanges(base, edit));
     expect(conflicts).toBe(0);
+  });
+});
+
+describe('landmark origin through edits', () => {
+  const followed = state({
+    landmarks: [{ frame: 7, side: 'right', points: { knee: { x: 0.5, y: 0.6, origin: 'followed', confidence: 0.42 } } }],
+  });
+
+  it('a followed point the coach moves becomes placed; undo brings back the followed point with its confidence', () => {
+    const edit = setPointChanges(followed, 7, 'right', 'knee', { x: 0.51, y: 0.6 });
+    const moved = applyChanges(followed, edit);
+    expect(moved.landmarks[0]!.points.knee).toEqual({ x: 0.51, y: 0.6 });
+    const undone = applyChanges(moved, invertChanges(edit));
+    expect(undone.landmarks[0]!.points.knee).toEqual({ x: 0.5, y: 0.6, origin: 'followed', confidence: 0.42 });
+  });
+
+  it('a point that only changes origin (followed → placed) counts as a change', () => {
+    const placed = state({ landmarks: [{ frame: 7, side: 'right', points: { knee: { x: 0.5, y: 0.6, origin: 'placed' } } }] });
+    expect(diffStates(followed, placed)).toHaveLength(1);
+    expect(sameState(placed, state({ landmarks: [{ frame: 7, side: 'right', points: { knee: { x: 0.5, y: 0.6 } } }] }))).toBe(true);
   });
 });

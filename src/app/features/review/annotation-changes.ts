@@ -14,6 +14,7 @@ import type {
   GaitEventKind,
   GaitEventMark,
   LandmarkName,
+  LandmarkPoint,
   ScaleBar,
 } from '../../../contracts/annotations';
 import { GAIT_EVENT_KINDS, LANDMARKS } from '../../../contracts/annotations';
@@ -86,6 +87,11 @@ function samePoint(a: FramePoint | null | undefined, b: FramePoint | null | unde
   return a.x === b.x && a.y === b.y;
 }
 
+/** Same place and same origin (a point without one was placed by a person). */
+function sameLandmark(a: LandmarkPoint | null | undefined, b: LandmarkPoint | null | undefined): boolean {
+  return samePoint(a, b) && (a?.origin ?? 'placed') === (b?.origin ?? 'placed');
+}
+
 function sameScale(a: ScaleBar | null, b: ScaleBar | null): boolean {
   if (!a || !b) return !a && !b;
   return a.frame === b.frame && a.lengthM === b.lengthM && samePoint(a.a, b.a) && samePoint(a.b, b.b);
@@ -97,7 +103,7 @@ function sameGauge(a: AngleGauge | null, b: AngleGauge | null): boolean {
 }
 
 function sameValue(a: unknown, b: unknown, kind: AnnotationKey['kind']): boolean {
-  if (kind === 'point') return samePoint(a as FramePoint | null, b as FramePoint | null);
+  if (kind === 'point') return sameLandmark(a as LandmarkPoint | null, b as LandmarkPoint | null);
   if (kind === 'scale') return sameScale(a as ScaleBar | null, b as ScaleBar | null);
   if (kind === 'gauge') return sameGauge(a as AngleGauge | null, b as AngleGauge | null);
   return (a ?? null) === (b ?? null);
@@ -219,12 +225,14 @@ export function applyChanges(state: AnnotationState, changes: readonly Change[])
           landmarksCopied = true;
         }
         const i = landmarks.findIndex((l) => l.frame === frame && l.side === side);
-        const after = c.after as FramePoint | null;
+        // A point the coach moved or put is theirs (placed); undo brings back the point as it was, origin and all.
+        const after = c.after as LandmarkPoint | null;
+        const point = after && (after.origin ? { ...after } : { x: after.x, y: after.y });
         if (i < 0) {
-          if (after) landmarks.push({ frame, side, points: { [landmark]: { x: after.x, y: after.y } }, source: 'manual' });
+          if (point) landmarks.push({ frame, side, points: { [landmark]: point } });
         } else {
           const points = { ...landmarks[i].points };
-          if (after) points[landmark] = { x: after.x, y: after.y };
+          if (point) points[landmark] = point;
           else delete points[landmark];
           if (Object.keys(points).length) landmarks[i] = { ...landmarks[i], points };
           else landmarks.splice(i, 1);

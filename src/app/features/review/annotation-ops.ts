@@ -3,7 +3,7 @@
  * `annotation-changes.ts`) so that every one of them can be undone, redone and re-applied after a
  * save conflict. Pure functions.
  */
-import type { FramePoint, GaitEventKind, GaitEventMark, LandmarkName, ScaleBar } from '../../../contracts/annotations';
+import type { FramePoint, GaitEventKind, GaitEventMark, LandmarkName, LandmarkPoint, ScaleBar } from '../../../contracts/annotations';
 import { LANDMARKS } from '../../../contracts/annotations';
 import type { Side } from '../../../contracts/assessment';
 import { AnnotationState, Change, EventKey, PointKey, effectiveChanges, sortEvents, valueAt } from './annotation-changes';
@@ -19,7 +19,7 @@ function pointKey(frame: number, side: Side, landmark: LandmarkName): PointKey {
 }
 
 /** The points of one side on one frame. */
-export function pointsOn(state: AnnotationState, frame: number, side: Side): Partial<Record<LandmarkName, FramePoint>> {
+export function pointsOn(state: AnnotationState, frame: number, side: Side): Partial<Record<LandmarkName, LandmarkPoint>> {
   return state.landmarks.find((l) => l.frame === frame && l.side === side)?.points ?? {};
 }
 

@@ -44,6 +44,7 @@ describe('keyAction', () => {
 
   it('has tool, view, copy, delete and help keys', () => {
     expect(keyAction(key('c'))).toEqual({ type: 'copy-previous' });
+    expect(keyAction(key('t'))).toEqual({ type: 'follow' });
     expect(keyAction(key('Delete'))).toEqual({ type: 'delete' });
     expect(keyAction(key('Backspace'))).toEqual({ type: 'delete' });
     expect(keyAction(key('f'))).toEqual({ type: 'fit' });

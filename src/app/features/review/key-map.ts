@@ -21,6 +21,7 @@ export type ReviewAction =
   | { type: 'side' }
   | { type: 'mark'; kind: GaitEventKind }
   | { type: 'copy-previous' }
+  | { type: 'follow' }
   | { type: 'delete' }
   | { type: 'undo' }
   | { type: 'redo' }
@@ -72,6 +73,7 @@ export const KEY_HELP: KeyHelpGroup[] = [
       { keys: ['S'], does: 'Switch side (left / right)' },
       { keys: ['I', 'M', 'O'], does: 'Mark or unmark Initial contact / Midstance / Toe-off on this frame' },
       { keys: ['C'], does: 'Copy the points of the nearest earlier marked frame' },
+      { keys: ['T'], does: "Follow markers: follow this frame's landmarks through the whole clip" },
       { keys: ['Delete'], does: 'Remove the selected point or angle gauge' },
       { keys: ['Ctrl + Z'], does: 'Undo' },
       { keys: ['Ctrl + Shift + Z', 'Ctrl + Y'], does: 'Redo' },
@@ -171,6 +173,8 @@ export function keyAction(input: KeyInput): ReviewAction | null {
       return { type: 'mark', kind: 'toe_off' };
     case 'c':
       return { type: 'copy-previous' };
+    case 't':
+      return { type: 'follow' };
     case 'f':
       return { type: 'fit' };
     case 'a':

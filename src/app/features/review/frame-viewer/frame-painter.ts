@@ -5,6 +5,7 @@
  * gauge's first arm).
  */
 import type { AngleGauge, FrameLandmarks, FramePoint, ScaleBar } from '../../../../contracts/annotations';
+import { FOLLOW_LOW_CONFIDENCE } from '../../../../contracts/annotations';
 import type { Direction, Side } from '../../../../contracts/assessment';
 import type { FrameCache } from '../frame-cache';
 import type { LandmarkRef } from '../hit-test';
@@ -103,6 +104,10 @@ export function paintFrame(canvas: HTMLCanvasElement, s: PaintInput): void {
     fontFamily: FONT,
     markerRadiusPx: MARKER_PX,
   });
+  drawFollowedRings(ctx, s.rows, (p) => {
+    const v = toView(p);
+    return { x: v.x * size.width, y: v.y * size.height };
+  });
 
   if (first && !(vertex && s.hover)) {
     // A gauge being placed: its first arm so far (it becomes a gauge once the vertex is down).
@@ -113,6 +118,28 @@ export function paintFrame(canvas: HTMLCanvasElement, s: PaintInput): void {
     frameSpace();
     drawDraftLine(ctx, s.scaleDraft.a, s.scaleDraft.b, frame, t.scale);
   }
+}
+
+/**
+ * Followed points apart from placed ones, in view pixels: a dashed white ring around each, amber
+ * and thicker when its confidence is low (the coach should check it).
+ */
+function drawFollowedRings(ctx: CanvasRenderingContext2D, rows: FrameLandmarks[], toViewPx: (p: FramePoint) => FramePoint): void {
+  ctx.save();
+  ctx.setLineDash([3, 3]);
+  for (const row of rows) {
+    for (const p of Object.values(row.points)) {
+      if (p?.origin !== 'followed') continue;
+      const low = (p.confidence ?? 0) < FOLLOW_LOW_CONFIDENCE;
+      const v = toViewPx(p);
+      ctx.beginPath();
+      ctx.arc(v.x, v.y, MARKER_PX + 4, 0, Math.PI * 2);
+      ctx.lineWidth = low ? 3 : 1.5;
+      ctx.strokeStyle = low ? '#ffb000' : '#ffffff';
+      ctx.stroke();
+    }
+  }
+  ctx.restore();
 }
 
 /** A dashed white line with end handles, in frame pixels (sizes divided by the zoom). */

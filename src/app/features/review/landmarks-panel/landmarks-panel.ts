@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatIconModule } from '@angular/material/icon';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatSnackBar } from '@angular/material/snack-bar';
@@ -10,15 +11,16 @@ import { LANDMARKS, LANDMARK_LABELS } from '../../../../contracts/annotations';
 import { SIDES, Side } from '../../../../contracts/assessment';
 import { previousMarkedFrame } from '../annotation-ops';
 import { GaugeTool } from '../gauge-tool';
+import { MarkerFollowing } from '../marker-following';
 import { ReviewStore } from '../review-store';
 
 /**
- * Side and landmark pickers, what is placed on this frame, copy from the previous marked frame, and
- * this frame's angle gauges (select, remove).
+ * Side and landmark pickers, what is placed on this frame, copy from the previous marked frame,
+ * Follow markers (progress, frames to check), and this frame's angle gauges (select, remove).
  */
 @Component({
   selector: 'app-landmarks-panel',
-  imports: [MatButtonModule, MatButtonToggleModule, MatIconModule, MatSlideToggleModule, MatTooltipModule],
+  imports: [MatButtonModule, MatButtonToggleModule, MatIconModule, MatProgressBarModule, MatSlideToggleModule, MatTooltipModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './landmarks-panel.html',
   styleUrl: './landmarks-panel.scss',
@@ -26,6 +28,7 @@ import { ReviewStore } from '../review-store';
 export class LandmarksPanel {
   protected readonly store = inject(ReviewStore);
   protected readonly gauges = inject(GaugeTool);
+  protected readonly following = inject(MarkerFollowing);
   private readonly snackBar = inject(MatSnackBar);
 
   protected readonly sides = SIDES;
@@ -39,6 +42,7 @@ export class LandmarksPanel {
       key: String(i + 1),
       label: LANDMARK_LABELS[name],
       placed: !!points[name],
+      followed: points[name]?.origin === 'followed',
       chosen: name === chosen,
       selected: selected?.side === side && selected.landmark === name,
     }));

@@ -46,6 +46,7 @@ import { CyclePanel } from '../cycle-panel/cycle-panel';
 import { PLAYBACK_RATES, PLAYBACK_RATE_LABELS, PlaybackRate, formatMs } from '../playback';
 import { ClipManifest, ReviewApi } from '../../../core/data/review-api';
 import { EventProposals } from '../event-proposals';
+import { MarkerFollowing } from '../marker-following';
 import { ReviewStore } from '../review-store';
 import { ScalePanel } from '../scale-panel/scale-panel';
 import { openSaveStill } from '../../../shared/sharing/save-still-dialog/save-still-dialog';
@@ -103,7 +104,7 @@ const TOOLS: { id: ReviewTool; label: string; icon: string; key: string }[] = [
     MeasuresPanel,
     CyclePanel,
   ],
-  providers: [ReviewStore, AnnotationSync, GaugeTool, EventProposals],
+  providers: [ReviewStore, AnnotationSync, GaugeTool, EventProposals, MarkerFollowing],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './review-page.html',
   styleUrl: './review-page.scss',
@@ -115,6 +116,7 @@ const TOOLS: { id: ReviewTool; label: string; icon: string; key: string }[] = [
 export class ReviewPage implements LeaveGuarded {
   protected readonly store = inject(ReviewStore);
   protected readonly gauges = inject(GaugeTool);
+  protected readonly following = inject(MarkerFollowing);
   private readonly api = inject(ReviewApi);
   private readonly assessmentsApi = inject(AssessmentsApi);
   private readonly athletesApi = inject(AthletesApi);
@@ -210,6 +212,12 @@ export class ReviewPage implements LeaveGuarded {
       side: e.side,
       proposed: e.origin === 'proposed',
     }));
+  });
+
+  /** Frames with low-confidence followed points, as percentages along the scrubber. */
+  protected readonly checkTicks = computed(() => {
+    const last = this.lastFrame() || 1;
+    return this.following.lowFrames().map((frame) => ({ frame, left: (frame / last) * 100 }));
   });
 
   private openedClip: number | null = null;
@@ -368,6 +376,18 @@ export class ReviewPage implements LeaveGuarded {
         this.say(from === null ? 'No earlier marked frame to copy from' : `Copied the points of frame ${from}`, true);
         break;
       }
+      case 'follow':
+        if (this.following.canFollow()) {
+          void this.following.follow();
+          this.say('Following markers from this frame');
+        } else
+          this.say(
+            this.following.running()
+              ? 'Markers are being followed already'
+              : 'Place landmarks on this frame first, and wait until they are saved',
+            true,
+          );
+        break;
       case 'delete':
         if (this.gauges.removeSelected()) this.say('Angle gauge removed');
         else if (!store.removeSelected()) this.say('Select a point first (click it)', true);

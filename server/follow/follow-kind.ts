@@ -1,0 +1,87 @@
+/**
+ * Marker following as a processed item about a clip: the markers of the start frame are followed
+ * through the clip's stored working frames, and the followed points are saved into the clip's
+ * landmarks (placed and accepted points stay as they are) as the person who asked.
+ */
+import type { Db } from '../db/knex';
+import type { AnnotationsService } from '../annotations/annotations-service';
+import { PermanentError, type ProcessingKind } from '../processing/processed-item';
+import type { MediaStore } from '../storage/media-store';
+import { mergeFollowed, planFollow } from './follow-plan';
+import { followMarkers } from './marker-follower';
+import { loadOpenCv } from './opencv';
+import { storedFrameReader } from './stored-frames';
+
+/** The kind's name on items and on the progress stream. */
+export const FOLLOW_MARKERS = 'follow_markers';
+
+/** What a follow item carries: the range and who asked (the save is theirs). */
+export interface FollowPayload {
+  startFrame: number;
+  from: number;
+  to: number;
+  userId: number;
+}
+
+/** What a finished follow reports in its log line. */
+interface Followed {
+  points: number;
+  lowConfidenceFrames: number;
+  notOnDot: string[];
+}
+
+export function followMarkersKind(d: { db: Db; store: MediaStore; annotations: AnnotationsService }): ProcessingKind<Followed | null> {
+  const { db, store, annotations } = d;
+  return {
+    name: FOLLOW_MARKERS,
+    subject: 'clip',
+    athleteSees: false,
+
+    async run(item, ctx) {
+      const clipId = item.subjectId;
+      const payload = item.payload as unknown as FollowPayload;
+      const range = { startFrame: payload.startFrame, from: payload.from, to: payload.to };
+      const clip = await db('clips')
+        .where({ id: clipId })
+        .first<{ frame_count: number | null; width: number | null; height: number | null }>();
+      if (!clip) return null; // deleted meanwhile
+      if (!clip.frame_count || !clip.width || !clip.height)
+        throw new PermanentError('The clip has no extracted frames to follow markers on.');
+      const user = await db('users')
+        .where({ id: payload.userId })
+        .first<{ id: number; name: string; clinic_id: number }>('id', 'name', 'clinic_id');
+      if (!user) throw new PermanentError('The person who asked for following no longer has an account.');
+      const size = { width: clip.width, height: clip.height };
+      const current = await annotations.read(clipId);
+      const plan = planFollow(current.landmarks, range, size);
+      if (!plan.markers.length)
+        throw new PermanentError(`Frame ${range.startFrame} has no landmarks any more: place them, then follow again.`);
+      const cv = await loadOpenCv();
+      const reader = storedFrameReader(store, clipId, { frameCount: clip.frame_count, ...size });
+      const result = await followMarkers(cv, reader, {
+        ...range,
+        ...plan,
+        onProgress: (done, total) => ctx.progress(done, total),
+        signal: ctx.signal,
+      });
+      ctx.signal.throwIfAborted();
+      let points = 0;
+      for (const list of result.points.values()) points += list.length;
+      await annotations.changeLandmarks(
+        { id: user.id, name: user.name, clinicId: user.clinic_id },
+        clipId,
+        (landmarks) => mergeFollowed(landmarks, result, range, size),
+        'clip.markers-followed',
+        { ...range, points, lowConfidenceFrames: result.lowConfidenceFrames.length },
+      );
+      return { points, lowConfidenceFrames: result.lowConfidenceFrames.length, notOnDot: result.notOnDot };
+    },
+
+    async onReady() {
+      // The followed points were saved with the clip's landmarks by `run`.
+    },
+    async onChange() {
+      // A clip has no state of its own for following: the item's state is on the stream.
+    },
+  };
+}

@@ -1,0 +1,40 @@
+import type { FrameLandmarks } from '../../../contracts/annotations';
+import { followStatusText, isFollowed, lowConfidenceFrames } from './follow-view';
+
+// Hand-made rows [calc]: the expected frames are read off the rows below.
+const rows: FrameLandmarks[] = [
+  {
+    frame: 7,
+    side: 'right',
+    points: { hip: { x: 0.5, y: 0.4, origin: 'followed', confidence: 0.3 }, knee: { x: 0.5, y: 0.6, origin: 'followed', confidence: 0.2 } },
+  },
+  { frame: 3, side: 'left', points: { hip: { x: 0.5, y: 0.4, origin: 'followed', confidence: 0.49 } } },
+  { frame: 3, side: 'right', points: { hip: { x: 0.5, y: 0.4, origin: 'followed', confidence: 0.9 } } },
+  {
+    frame: 5,
+    side: 'right',
+    points: { hip: { x: 0.5, y: 0.4, origin: 'followed', confidence: 0.5 }, toe: { x: 0.2, y: 0.9, origin: 'placed' } },
+  },
+  { frame: 9, side: 'right', points: { hip: { x: 0.5, y: 0.4 } } },
+];
+
+describe('follow view', () => {
+  it('flags each frame once where a followed point is below 0.5 (0.5 itself is not flagged; placed points never)', () => {
+    expect(lowConfidenceFrames(rows)).toEqual([3, 7]);
+  });
+
+  it('tells followed points from placed ones (no origin = placed)', () => {
+    expect(isFollowed(rows[0]!.points.hip)).toBe(true);
+    expect(isFollowed(rows[3]!.points.toe)).toBe(false);
+    expect(isFollowed(rows[4]!.points.hip)).toBe(false);
+  });
+
+  it('puts progress in words', () => {
+    expect(followStatusText({ state: 'running', progress: { done: 40, total: 120 }, error: null })).toBe(
+      'Following markers… 40 of 120 frames',
+    );
+    expect(followStatusText({ state: 'failed', progress: null, error: 'Frame 3 has no landmarks any more.' })).toBe(
+      'Following stopped: Frame 3 has no landmarks any more.',
+    );
+  });
+});

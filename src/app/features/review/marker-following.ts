@@ -1,0 +1,110 @@
+import { DestroyRef, Injectable, computed, inject, signal } from '@angular/core';
+import { firstValueFrom, type Subscription } from 'rxjs';
+import { errorMessage } from '../../core/api-error';
+import { ReviewApi } from '../../core/data/review-api';
+import { ProcessingEvents } from '../../core/processing-events';
+import { diffStates, stateOf } from './annotation-changes';
+import { AnnotationSync } from './annotation-sync';
+import { followStatusText, lowConfidenceFrames } from './follow-view';
+import { ReviewStore } from './review-store';
+
+/** How long a finished follow waits for the page's own unsaved edits to be saved before showing the result. */
+const SETTLE_MS = 10_000;
+
+/**
+ * Marker following in the review: asks the server to follow the markers of the current frame
+ * through the whole clip, shows the item's progress from the athlete's processing stream, and when
+ * it is done shows the server's copy with the followed points (one undo step). Provided by the
+ * review page.
+ */
+@Injectable()
+export class MarkerFollowing {
+  private readonly api = inject(ReviewApi);
+  private readonly events = inject(ProcessingEvents);
+  private readonly sync = inject(AnnotationSync);
+  private readonly store = inject(ReviewStore);
+  private readonly running$ = signal(false);
+  private readonly status$ = signal<string | null>(null);
+  private readonly progress$ = signal<{ done: number; total: number } | null>(null);
+  private readonly problem$ = signal<string | null>(null);
+  private watch: Subscription | null = null;
+
+  /** Whether a follow is queued or running. */
+  readonly running = this.running$.asReadonly();
+  /** The follow's state in words, or null before the first. */
+  readonly status = this.status$.asReadonly();
+  /** Frames done of total while running. */
+  readonly progress = this.progress$.asReadonly();
+  /** Why following could not start or failed, or null. */
+  readonly problem = this.problem$.asReadonly();
+  /** Frames with a followed point below the confidence the coach should check. */
+  readonly lowFrames = computed(() => lowConfidenceFrames(this.store.annotations().landmarks));
+  /** Whether following can start now: a clip is open, this frame has landmarks, every edit is saved. */
+  readonly canFollow = computed(() => {
+    const frame = this.store.frame();
+    return (
+      !!this.store.clip() &&
+      !this.running$() &&
+      !this.sync.hasUnsaved() &&
+      this.store.annotations().landmarks.some((l) => l.frame === frame && Object.keys(l.points).length > 0)
+    );
+  });
+
+  constructor() {
+    inject(DestroyRef).onDestroy(() => this.watch?.unsubscribe());
+  }
+
+  /** Follows the current frame's markers through the whole clip. */
+  async follow(): Promise<void> {
+    const clip = this.store.clip();
+    if (!clip || !this.canFollow()) return;
+    const clipId = clip.clip.id;
+    this.problem$.set(null);
+    this.running$.set(true);
+    this.progress$.set(null);
+    this.status$.set('Following markers: starting…');
+    try {
+      const started = await firstValueFrom(
+        this.api.followMarkers(clipId, { startFrame: this.store.frame(), from: 0, to: this.store.frameCount() - 1 }),
+      );
+      this.watch?.unsubscribe();
+      this.watch = this.events.follow(clip.clip.athleteId).subscribe((m) => {
+        if (m.type !== 'item' || m.event.kind !== started.kind || m.event.subject !== 'clip' || m.event.id !== clipId) return;
+        this.status$.set(followStatusText(m.event));
+        this.progress$.set(m.event.progress);
+        if (m.event.state === 'ready') void this.showResult(clipId);
+        else if (m.event.state === 'failed' || m.event.state === 'cancelled') this.finish(m.event.error);
+      });
+    } catch (err) {
+      this.finish(errorMessage(err));
+    }
+  }
+
+  private finish(problem: string | null): void {
+    this.watch?.unsubscribe();
+    this.watch = null;
+    this.running$.set(false);
+    this.progress$.set(null);
+    if (problem) {
+      this.problem$.set(problem);
+      this.status$.set(null);
+    }
+  }
+
+  /** Shows the server's copy once the page's own edits are saved (the server merged both). */
+  private async showResult(clipId: number): Promise<void> {
+    this.finish(null);
+    for (let waited = 0; this.sync.hasUnsaved() && waited < SETTLE_MS; waited += 200) await new Promise((r) => setTimeout(r, 200));
+    try {
+      const saved = await firstValueFrom(this.api.annotations(clipId));
+      if (this.store.clip()?.clip.id !== clipId) return;
+      const changes = diffStates(this.store.annotations(), stateOf(saved));
+      this.sync.adopt(saved);
+      this.store.edit('follow markers', changes);
+      const low = this.lowFrames().length;
+      this.status$.set(low ? `Markers followed. ${low} frame${low === 1 ? '' : 's'} to check (low confidence).` : 'Markers followed.');
+    } catch (err) {
+      this.problem$.set(errorMessage(err));
+    }
+  }
+}
