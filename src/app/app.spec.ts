@@ -16,6 +16,7 @@ import { PlansApi } from './core/data/plans-api';
 import { StillsApi } from './core/data/stills-api';
 import { BillingApi } from './core/data/billing-api';
 import { ClinicBrandStore } from './core/data/clinic-brand-store';
+import { AnnotatedClipsApi } from './core/data/annotated-clips-api';
 import { provideIsoDateAdapter } from './shared/iso-date-adapter';
 
 const athlete: SessionUser = {
@@ -52,6 +53,8 @@ async function boot(user: SessionUser | null, url: string, demoMode = false) {
       { provide: PlansApi, useValue: { plansOf: () => of([]) } },
       // …what the clinic shared with them; nothing yet.
       { provide: StillsApi, useValue: { portalShared: () => of({ stills: [], summaries: [] }) } },
+      // …the annotated clips shared with them; none.
+      { provide: AnnotatedClipsApi, useValue: { clipsOf: () => of([]) } },
       // The shell's clinic letterhead: no logo.
       { provide: ClinicBrandStore, useValue: { brand: signal(null), logoUrl: signal(null) } },
       // …and what they owe; nothing.
