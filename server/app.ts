@@ -101,6 +101,9 @@ export function createApp(deps: AppDeps): App {
   app.disable('x-powered-by');
   app.set('trust proxy', config.trustProxy);
   app.set('query parser', 'simple');
+  // Answers of `res.send` are API JSON (no-store) or pages with a fresh nonce: an ETag (a hash of
+  // each body) could never match. Stored files set their own validators (send-stored, static).
+  app.set('etag', false);
 
   app.use(securityHeaders(config.secureCookies));
   app.use(accessLog(logger));
@@ -144,7 +147,8 @@ export function createApp(deps: AppDeps): App {
   const sessions = createSessions({ db, secret: config.sessionSecret, secureCookies: config.secureCookies, clock, logger });
   api.use(sessions.middleware);
   const passport = createPassport(db);
-  api.use(passport.initialize());
+  // No `req._passport` for passport 0.4 strategies: ours are the ones shipped with passport 0.7.
+  api.use(passport.initialize({ compat: false }));
   api.use(passport.session());
   api.use(sessions.extend);
 

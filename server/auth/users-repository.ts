@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import type { SessionUser, StaffMember } from '../../src/contracts/api';
 import type { UserRow } from '../db/rows';
 import { preparedRead } from '../db/prepared-read';
+import { identityCache } from '../db/identity-cache';
 
 interface SessionUserRow {
   id: number;
@@ -50,12 +51,14 @@ export const usersRepository = {
 
   /**
    * {@link usersRepository.sessionUser} as a prepared read, for the lookup every signed-in request
-   * makes (outside transactions only).
+   * makes (outside transactions only); rows are kept until the identity tables change
+   * ({@link identityCache}), and each call answers its own copy.
    */
   sessionUserReader(db: Knex): (id: number) => Promise<SessionUser | null> {
     const read = preparedRead<SessionUserRow>(db, SESSION_USER_SQL);
+    const rows = identityCache<number, SessionUserRow | undefined>(db);
     return async (id) => {
-      const [row] = await read([id]);
+      const row = await rows.read(id, async () => (await read([id]))[0]);
       return row ? toSessionUser(row) : null;
     };
   },

@@ -23,6 +23,7 @@ import { clipMediaKey, type ClipMedia, type ClipMediaWhat } from './clip-media';
 import { clipsRepository as repo, type ClipRow } from './clips-repository';
 import type { ClipPatch } from './clips-schemas';
 import { EXTRACT_FRAMES, extractFramesKind } from './extract-frames-kind';
+import { readyManifests } from './ready-manifests';
 
 export interface ClipsDeps {
   db: Db;
@@ -69,6 +70,8 @@ export interface ClipsService {
   media(user: SessionUser, clipId: number, what: ClipMediaWhat, n?: number): Promise<ClipMedia>;
   /** A clip's manifest (no access check: callers check), or null before any exists. */
   manifest(clipId: number): Promise<ClipManifest | null>;
+  /** The manifest of a clip row just read: a ready clip's is kept in memory ({@link readyManifests}); treat it as read-only. */
+  manifestOf(clip: Pick<ClipRow, 'id' | 'status' | 'updated_at'>): Promise<ClipManifest | null>;
 }
 
 export function clipsService(d: ClipsDeps): ClipsService {
@@ -260,6 +263,7 @@ export function clipsService(d: ClipsDeps): ClipsService {
     },
 
     manifest: (clipId) => readJson<ClipManifest>(store, clipKeys(clipId).manifest),
+    manifestOf: readyManifests(store),
   };
 }
 

@@ -24,6 +24,8 @@ export interface SqliteConnection {
   pragma(source: string, options?: { simple?: boolean }): unknown;
   close(): void;
   readonly open: boolean;
+  /** Whether a transaction is open on this connection. */
+  readonly inTransaction: boolean;
 }
 
 export interface SqliteStatement {
@@ -79,6 +81,7 @@ type KnexClientClass = new (config: Knex.Config) => KnexSqliteClient;
 
 interface KnexSqliteClient {
   connectionSettings: { filename: string; options?: Record<string, unknown> };
+  config: object;
   transacting?: boolean;
   driver: new (filename: string, options?: object) => SqliteConnection;
   acquireRawConnection(): Promise<SqliteConnection>;
@@ -104,6 +107,23 @@ const Client_BetterSQLite3 = require('knex/lib/dialects/better-sqlite3/index.js'
 /** Builder methods that only read. */
 const READS = new Set(['select', 'first', 'pluck']);
 
+/** Statements that cannot change a row. */
+const SELECT_SQL = /^\s*select\b/i;
+/**
+ * The tables that say who is signed in and what they may do (a session, its user, the user's
+ * clinic and athlete): a statement naming one of them moves {@link SqliteClient.identityGeneration}.
+ * Rows of other tables never change them (no foreign key cascades into them from elsewhere).
+ */
+const IDENTITY_TABLES = /\b(?:sessions|users|clinics|athletes)\b/i;
+
+/** See {@link SqliteClient.identityGeneration}. */
+interface IdentityWrites {
+  writes: number;
+  pending: boolean;
+  writer: SqliteConnection | null;
+}
+const identityWrites = new WeakMap<object, IdentityWrites>();
+
 /**
  * knex client for SQLite through better-sqlite3 (pass as `client` in the knex config). Keeps the
  * reader connection beside the pool's writer and closes it with the pool.
@@ -111,9 +131,37 @@ const READS = new Set(['select', 'first', 'pluck']);
 export class SqliteClient extends Client_BetterSQLite3 {
   /** The read-only connection for reads outside transactions; null for in-memory databases. */
   reader: SqliteConnection | null = null;
+  /**
+   * Writes to the identity tables, shared with this client's transaction clients (knex makes those
+   * with `Object.create` of the class and copies `config`, so the state hangs off that).
+   */
+  private get identity(): IdentityWrites {
+    let state = identityWrites.get(this.config);
+    if (!state) identityWrites.set(this.config, (state = { writes: 0, pending: false, writer: null }));
+    return state;
+  }
+
+  /**
+   * A number that changes whenever this process changes the tables saying who is signed in and what
+   * they may do (sessions, users, clinics, athletes: any statement naming one, and again when its
+   * transaction ends), or null while such a change is uncommitted. Values read from those tables
+   * may be kept in memory as long as it answers the same number; workers in other processes never
+   * write these tables.
+   */
+  identityGeneration(): number | null {
+    const identity = this.identity;
+    if (identity.pending) {
+      if (identity.writer?.open && identity.writer.inTransaction) return null;
+      // The transaction ended (committed or rolled back): what it wrote is now what readers see.
+      identity.pending = false;
+      identity.writes++;
+    }
+    return identity.writes;
+  }
 
   override async acquireRawConnection(): Promise<SqliteConnection> {
     const connection = await super.acquireRawConnection();
+    this.identity.writer = connection;
     applyPragmas(connection);
     const filename = this.connectionSettings.filename;
     if (!inMemory(filename) && !this.reader) {
@@ -165,6 +213,13 @@ export class SqliteClient extends Client_BetterSQLite3 {
   async _query(connection: SqliteConnection, obj: { sql: string; bindings?: unknown[]; response?: unknown; context?: unknown }) {
     if (!obj.sql) throw new Error('The query is empty');
     if (!connection) throw new Error('No connection provided');
+    if (!SELECT_SQL.test(obj.sql) && IDENTITY_TABLES.test(obj.sql)) {
+      const identity = this.identity;
+      identity.writes++;
+      identity.writer ??= connection;
+      // Inside a transaction the change is seen only once it ends (see identityGeneration).
+      if (connection.inTransaction) identity.pending = true;
+    }
     const statement = preparedStatement(connection, obj.sql);
     const bindings = this._formatBindings(obj.bindings);
     if (statement.reader) {

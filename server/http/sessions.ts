@@ -3,7 +3,8 @@ import type { Knex } from 'knex';
 import type { Request, RequestHandler } from 'express';
 import session, { type SessionData } from 'express-session';
 import { ConnectSessionKnexStore } from 'connect-session-knex';
-import { preparedRead, type PreparedRead } from '../db/prepared-read';
+import { preparedRead } from '../db/prepared-read';
+import { identityCache } from '../db/identity-cache';
 
 declare module 'express-session' {
   interface SessionData {
@@ -20,23 +21,29 @@ export const SESSION_MAX_AGE_MS = 12 * 3_600_000;
 export const EXTEND_EVERY_MS = 5 * 60_000;
 const CLEANUP_EVERY_MS = 15 * 60_000;
 
+/** A session row as kept: its data (JSON) and when it expires (ISO time), or none. */
+type SessionRow = { sess: string; expired: string } | undefined;
+
 /**
  * The session store in `sessions`: never writes on a plain touch (see {@link createSessions}), and
- * reads a session (every signed-in request does) with one prepared statement.
+ * reads a session (every signed-in request does) with one prepared statement, its row kept in
+ * memory until the identity tables change ({@link identityCache}).
  */
 class SessionStore extends ConnectSessionKnexStore {
-  private readonly readSession: PreparedRead<{ sess: string }>;
+  private readonly readSession: (sid: string) => Promise<SessionRow>;
 
   constructor(options: ConstructorParameters<typeof ConnectSessionKnexStore>[0] & { knex: Knex }) {
     super(options);
-    // `expired` holds ISO times (connect-session-knex writes them), so text order is time order.
-    this.readSession = preparedRead(options.knex, 'SELECT sess FROM sessions WHERE sid = ? AND expired >= ?');
+    const read = preparedRead<NonNullable<SessionRow>>(options.knex, 'SELECT sess, expired FROM sessions WHERE sid = ?');
+    const rows = identityCache<string, SessionRow>(options.knex);
+    this.readSession = (sid) => rows.read(sid, async () => (await read([sid]))[0]);
   }
 
   override async get(sid: string, callback?: (err: unknown, session?: SessionData | null) => void): Promise<SessionData | null> {
     try {
-      const [row] = await this.readSession([sid, new Date().toISOString()]);
-      const session = row ? (JSON.parse(row.sess) as SessionData) : null;
+      const row = await this.readSession(sid);
+      // `expired` holds ISO times (connect-session-knex writes them), so text order is time order.
+      const session = row && row.expired >= new Date().toISOString() ? (JSON.parse(row.sess) as SessionData) : null;
       callback?.(null, session);
       return session;
     } catch (err) {

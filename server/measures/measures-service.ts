@@ -29,7 +29,7 @@ export function measuresService({ db, clips }: { db: Db; clips: ClipsService }):
       .where({ id: clip.assessment_id })
       .first<{ surface: string; speed_mps: number | null; clinic_id: number }>('surface', 'speed_mps', 'clinic_id');
     // The manifest is the one source of the clip's media facts (frame size, rate, timestamps).
-    const manifest = await clips.manifest(clip.id);
+    const manifest = await clips.manifestOf(clip);
     if (!manifest) throw new ConflictError('This clip is not ready yet.', 'clip_not_ready');
     const bands = await clinicBands(trx, clip.clinic_id);
     // A slow-motion file plays slower than it was filmed: with a capture rate set, its own

@@ -187,7 +187,7 @@ async function openLoop(base: string, annotators: Annotator[], rate: number, sec
 }
 
 /** Closed loop against the bare Express PUT: the same bodies, the same clients; answers answers/s. */
-async function saturateBare(url: string, annotators: Annotator[], seconds: number): Promise<{ rate: number; errors: number }> {
+async function saturateBare(url: string, annotators: Annotator[], seconds: number): Promise<{ rate: number; ok: number; errors: number }> {
   const bodies = annotators.map((a) => JSON.stringify({ baseRevision: a.revision, ...a.doc }));
   let ok = 0;
   let errors = 0;
@@ -202,7 +202,7 @@ async function saturateBare(url: string, annotators: Annotator[], seconds: numbe
       }
     }),
   );
-  return { rate: ok / ((performance.now() - started) / 1000), errors };
+  return { rate: ok / ((performance.now() - started) / 1000), ok, errors };
 }
 
 /** Keeps `n` uploads going until `stop()`; answers how many finished. */
@@ -318,7 +318,9 @@ try {
   const uploads = uploadsRunning(base, s0, uploadTo, big, UPLOADS);
   await new Promise((r) => setTimeout(r, 3000));
   bare = await startBareExpress(dir);
+  const bareCpu0 = cpuSeconds(bare.pid);
   const bareSat = await saturateBare(`${bare.url}/api/bare`, annotators, SECONDS / 3);
+  const bareCpuMs = ((cpuSeconds(bare.pid) - bareCpu0) / Math.max(1, bareSat.ok)) * 1000;
   await bare.stop();
   bare = null;
   const cpu0 = cpuSeconds(server.pid);
@@ -346,8 +348,14 @@ try {
     `| bare Express: parse the same bodies and answer (same clients, same run) | ${bareSat.rate.toFixed(0)} | | | | ${bareSat.errors} |`,
   );
   console.log(`\nsaturation saves/s ÷ bare Express PUT/s in the same run: ${((satRate / bareSat.rate) * 100).toFixed(1)} %`);
+  const saveCpuMs = (satCpu / Math.max(1, sat.t.ok)) * 1000;
   console.log(
-    `\nserver CPU per save at saturation ${((satCpu / Math.max(1, sat.t.ok)) * 1000).toFixed(1)} ms (the server process: receiving uploads included, its ffmpeg children not); ` +
+    `\nserver CPU per save at saturation ${saveCpuMs.toFixed(2)} ms (the server process: receiving uploads included, its ffmpeg children not); ` +
+      `bare Express CPU per PUT ${bareCpuMs.toFixed(2)} ms; bare ÷ save ${((bareCpuMs / saveCpuMs) * 100).toFixed(1)} %; ` +
+      `one core's worth of saves at this CPU: ${(1000 / saveCpuMs).toFixed(0)}/s; load average ${os
+        .loadavg()
+        .map((l) => l.toFixed(1))
+        .join(' ')}; ` +
       `this benchmark's own CPU ${(((own.user + own.system) / 1e6 / sat.wallS) * 100).toFixed(0)} % of a core; uploads finished ${up.done}, failed ${up.failed}`,
   );
   for (const [name, t] of [

@@ -1,7 +1,7 @@
 /**
  * Signed-in reads as a real server makes them (database on disk: the session and the user come
- * from the read-only connection by prepared statements, and nothing about them is cached): access
- * still ends at the very next request when a coach is deactivated, a password is reset or a role
+ * from the read-only connection by prepared statements, kept in memory until the app writes to the
+ * identity tables — see identity-cache.test.ts): access still ends at the very next request when a coach is deactivated, a password is reset or a role
  * changes; the CSRF cookie check remembers only (cookie, session) pairs; API answers carry the CSP
  * without a nonce and pages with a fresh one; one access-log line per API request.
  */
