@@ -69,6 +69,8 @@ export interface AnnotatedClipRenderOutput {
   origins: LandmarkOriginCounts[];
   /** What the clip says about its landmarks (drawn after the speed in the foot band). */
   note: string;
+  /** CPU seconds ffmpeg spent encoding (its `-benchmark` figure), or null when it did not say. */
+  encoderCpuS: number | null;
 }
 
 const INK = '#1B2A26';
@@ -109,8 +111,8 @@ function eventsShown(events: readonly GaitEventMark[], frame: number, hold: numb
  * and the stills draw (`drawOverlay` on @napi-rs/canvas), a heading band per panel (visit, time,
  * event labels held {@link EVENT_LABEL_HOLD_S} s of playback), and a band below with the caption,
  * the speed and where the landmarks came from, and the caution line. Frames go to ffmpeg raw
- * (RGBA through a pipe; no file per frame); each is written `repeat` times by the slow-motion rule
- * (`slowMotionTiming`). Landmarks between marked frames: followed ones, else interpolated
+ * (RGBA through a pipe; no file per frame), each source frame once; ffmpeg repeats it `repeat` times
+ * after converting it, by the slow-motion rule (`slowMotionTiming`). Landmarks between marked frames: followed ones, else interpolated
  * (`landmarkFill`); a frame showing interpolated landmarks says so in its heading.
  */
 export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Promise<AnnotatedClipRenderOutput> {
@@ -243,7 +245,8 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
 
   const read = (k: number) => Promise.all(panels.map(async (p, i) => loadImage(await p.readFrame(steps[k]![i]!))));
   const partial = path.join(path.dirname(input.outFile), `.${path.basename(input.outFile)}.rendering`);
-  const encoder = startH264Encoder({ width, height, fps: timing.outputFps, outFile: partial, signal: input.signal });
+  // Each source frame is drawn and piped once; ffmpeg makes the slow-motion copies (`repeat`).
+  const encoder = startH264Encoder({ width, height, fps: timing.outputFps, repeat: timing.repeat, outFile: partial, signal: input.signal });
   const ahead: Promise<Image[]>[] = [];
   for (let k = 0; k < Math.min(READ_AHEAD, steps.length); k++) ahead.push(read(k));
   ahead.forEach((p) => p.catch(() => undefined));
@@ -258,8 +261,8 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
         ahead.push(next);
       }
       drawStep(k, images);
-      const pixels = canvas.data(); // a copy: the next draw does not touch what ffmpeg still reads
-      for (let r = 0; r < timing.repeat; r++) await encoder.write(pixels);
+      // canvas.data() is a copy: the next draw does not touch what ffmpeg still reads.
+      await encoder.write(canvas.data());
       const fraction = (k + 1) / steps.length;
       if (input.onProgress && fraction - reported >= 0.02) {
         reported = fraction;
@@ -285,5 +288,6 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
     layout,
     origins,
     note,
+    encoderCpuS: encoder.cpuSeconds(),
   };
 }

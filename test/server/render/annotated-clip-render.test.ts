@@ -127,6 +127,20 @@ describe('a single clip in slow motion', () => {
     expect(out).toMatchObject({ frameCount: 240, repeat: 4, outputFps: 30, durationS: 8 });
   });
 
+  it('gets each source frame once and has ffmpeg repeat it: the 4 copies decode alike, the next frame differs (ffmpeg decode)', async () => {
+    const meanDiff = (a: Buffer, b: Buffer) => {
+      let sum = 0;
+      for (let i = 0; i < a.length; i++) sum += Math.abs(a[i]! - b[i]!);
+      return sum / a.length;
+    };
+    const k = 50 - from;
+    const copies = await Promise.all([0, 1, 2, 3, 4].map((r) => decodeFrame(file, k * 4 + r, out.width, out.height)));
+    const within = [1, 2, 3].map((r) => meanDiff(copies[0]!, copies[r]!));
+    const across = meanDiff(copies[3]!, copies[4]!); // the last copy of frame 50 against the first of frame 51
+    expect(Math.max(...within), `copies ${within.join(', ')}; next frame ${across}`).toBeLessThan(0.5);
+    expect(across).toBeGreaterThan(4 * Math.max(0.05, ...within));
+  });
+
   it('shows the near-side colour and the white ring at the true joint pixels (ffmpeg decode, generator truth)', async () => {
     const want = hexRgb(OVERLAY_COLOURS[runner.truth.nearSide]);
     const rect = out.layout[0]!;
