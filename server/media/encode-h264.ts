@@ -74,7 +74,15 @@ export function startH264Encoder(opts: H264EncoderOptions): H264Encoder {
   const command = ffmpeg(input)
     .inputFormat('rawvideo')
     // -benchmark (global): ffmpeg prints its CPU time when it ends.
-    .inputOptions(['-benchmark', '-pix_fmt', 'rgba', '-video_size', `${opts.width}x${opts.height}`, '-framerate', fpsRatio(opts.fps, repeat)])
+    .inputOptions([
+      '-benchmark',
+      '-pix_fmt',
+      'rgba',
+      '-video_size',
+      `${opts.width}x${opts.height}`,
+      '-framerate',
+      fpsRatio(opts.fps, repeat),
+    ])
     .noAudio()
     .videoCodec('libx264')
     .outputOptions([
