@@ -84,6 +84,11 @@ const READ_AHEAD = 3;
 
 const even = (n: number) => Math.max(2, 2 * Math.round(n / 2));
 
+/** The hidden name a video is encoded under beside `outFile` until it is complete. */
+export function partialFileOf(outFile: string): string {
+  return path.join(path.dirname(outFile), `.${path.basename(outFile)}.rendering`);
+}
+
 /** "Landmarks marked on 12 frames, followed on 30 and interpolated between marked frames on 18." */
 export function landmarkNote(counts: LandmarkOriginCounts): string {
   const parts: string[] = [];
@@ -253,7 +258,7 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
   }
 
   const read = (k: number) => Promise.all(panels.map(async (p, i) => loadImage(await p.readFrame(steps[k]![i]!))));
-  const partial = path.join(path.dirname(input.outFile), `.${path.basename(input.outFile)}.rendering`);
+  const partial = partialFileOf(input.outFile);
   // Each source frame is drawn and piped once; ffmpeg makes the slow-motion copies (`repeat`).
   const encoder = startH264Encoder({ width, height, fps: timing.outputFps, repeat: timing.repeat, outFile: partial, signal: input.signal });
   const ahead: Promise<Image[]>[] = [];
