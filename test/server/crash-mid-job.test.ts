@@ -152,6 +152,32 @@ describe('a worker killed mid-job, and a new one started', () => {
     expect(filesUnder(annotatedDir)).toEqual([`${id}-v1.mp4`]);
   }, 400_000);
 
+  it('removes the partial file of a render killed mid-way when its clip is deleted before another attempt', async () => {
+    const made = await c.post(`/api/clips/${clipId}/annotated-clips`, {
+      fromFrame: 0,
+      toFrame: 239,
+      factor: 0.125,
+      caption: '',
+      showAngles: true,
+    });
+    expect(made.status, JSON.stringify(made.body)).toBe(202);
+    const id = made.body.id as number;
+    const item = (await db('processed_items').where({ kind: 'render_annotated_clip', subject_id: id }).first()) as ItemRow;
+    await killMidJob(item.id);
+    const annotatedDir = path.join(dir, 'uploads', 'clips', String(clipId), 'annotated');
+    expect(filesUnder(annotatedDir)).toContain(`.${id}-v1.mp4.rendering`);
+
+    expect((await c.delete(`/api/annotated-clips/${id}`)).status).toBe(204);
+    expect(filesUnder(annotatedDir).filter((f) => f.startsWith(`${id}-`) || f.startsWith(`.${id}-`))).toEqual([]);
+    // Its item is cancelled; a new worker (past the killed one's lease) finds nothing to finish and writes nothing.
+    expect(((await db('processed_items').where({ id: item.id }).first()) as ItemRow).state).toBe('cancelled');
+    worker = workerProcess(dir, WORKER_ENV);
+    await worker.start();
+    await sleep(7_000);
+    expect(((await db('processed_items').where({ id: item.id }).first()) as ItemRow).state).toBe('cancelled');
+    expect(filesUnder(annotatedDir).filter((f) => f.startsWith(`${id}-`) || f.startsWith(`.${id}-`))).toEqual([]);
+  }, 400_000);
+
   it('follows the markers to ready on a later attempt, saving the followed points once; no file is left behind', async () => {
     const before = filesUnder(path.join(dir, 'uploads'));
     const START = 20;
