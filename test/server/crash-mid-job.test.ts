@@ -111,28 +111,38 @@ afterAll(async () => {
   await cleanup?.();
 });
 
+/** The clip's folder of annotated-clip videos. */
+const annotatedDir = () => path.join(dir, 'uploads', 'clips', String(clipId), 'annotated');
+
+/**
+ * Asks for an annotated clip of the whole runner clip at 1/8 speed and SIGKILLs the worker once it
+ * is rendering; by then ffmpeg's half-written file is in the clip's folder.
+ */
+async function renderKilledMidway(caption: string): Promise<{ id: number; item: ItemRow; videoUrl: string }> {
+  const made = await c.post(`/api/clips/${clipId}/annotated-clips`, {
+    fromFrame: 0,
+    toFrame: 239,
+    factor: 0.125,
+    caption,
+    showAngles: true,
+  });
+  expect(made.status, JSON.stringify(made.body)).toBe(202);
+  const id = made.body.id as number;
+  const item = (await db('processed_items').where({ kind: 'render_annotated_clip', subject_id: id }).first()) as ItemRow;
+  await killMidJob(item.id);
+  expect(filesUnder(annotatedDir())).toContain(`.${id}-v1.mp4.rendering`);
+  return { id, item, videoUrl: made.body.videoUrl as string };
+}
+
 describe('a worker killed mid-job, and a new one started', () => {
   it('renders the annotated clip to ready on a later attempt; nothing half written is served or left', async () => {
     const marks = marksFromTruth(truth, 'events');
     const saved = await c.put(`/api/clips/${clipId}/annotations`, marks);
     expect(saved.status, JSON.stringify(saved.body).slice(0, 300)).toBe(200);
-    const made = await c.post(`/api/clips/${clipId}/annotated-clips`, {
-      fromFrame: 0,
-      toFrame: 239,
-      factor: 0.125,
-      caption: 'Hip drive at toe-off.',
-      showAngles: true,
-    });
-    expect(made.status, JSON.stringify(made.body)).toBe(202);
-    const id = made.body.id as number;
-    const item = (await db('processed_items').where({ kind: 'render_annotated_clip', subject_id: id }).first()) as ItemRow;
-    await killMidJob(item.id);
-
+    const { id, item, videoUrl } = await renderKilledMidway('Hip drive at toe-off.');
     // Killed mid-render: ffmpeg's half-written file is in the clip's folder, but nothing serves it.
-    const annotatedDir = path.join(dir, 'uploads', 'clips', String(clipId), 'annotated');
-    expect(filesUnder(annotatedDir).some((f) => f.endsWith('.rendering'))).toBe(true);
     expect((await c.get(`/api/annotated-clips/${id}`)).body.status).toBe('rendering');
-    expect((await c.agent.get(made.body.videoUrl as string)).status).toBe(404);
+    expect((await c.agent.get(videoUrl)).status).toBe(404);
 
     worker = workerProcess(dir, WORKER_ENV);
     await worker.start();
@@ -149,33 +159,21 @@ describe('a worker killed mid-job, and a new one started', () => {
     fs.writeFileSync(served, res.body as Buffer);
     expect((await ffprobeCounted(served)).nbReadFrames).toBe(480);
     // Only the finished video is left: no partial file of the killed attempt.
-    expect(filesUnder(annotatedDir)).toEqual([`${id}-v1.mp4`]);
+    expect(filesUnder(annotatedDir())).toEqual([`${id}-v1.mp4`]);
   }, 400_000);
 
   it('removes the partial file of a render killed mid-way when its clip is deleted before another attempt', async () => {
-    const made = await c.post(`/api/clips/${clipId}/annotated-clips`, {
-      fromFrame: 0,
-      toFrame: 239,
-      factor: 0.125,
-      caption: '',
-      showAngles: true,
-    });
-    expect(made.status, JSON.stringify(made.body)).toBe(202);
-    const id = made.body.id as number;
-    const item = (await db('processed_items').where({ kind: 'render_annotated_clip', subject_id: id }).first()) as ItemRow;
-    await killMidJob(item.id);
-    const annotatedDir = path.join(dir, 'uploads', 'clips', String(clipId), 'annotated');
-    expect(filesUnder(annotatedDir)).toContain(`.${id}-v1.mp4.rendering`);
+    const { id, item } = await renderKilledMidway('');
 
     expect((await c.delete(`/api/annotated-clips/${id}`)).status).toBe(204);
-    expect(filesUnder(annotatedDir).filter((f) => f.startsWith(`${id}-`) || f.startsWith(`.${id}-`))).toEqual([]);
+    expect(filesUnder(annotatedDir()).filter((f) => f.startsWith(`${id}-`) || f.startsWith(`.${id}-`))).toEqual([]);
     // Its item is cancelled; a new worker (past the killed one's lease) finds nothing to finish and writes nothing.
     expect(((await db('processed_items').where({ id: item.id }).first()) as ItemRow).state).toBe('cancelled');
     worker = workerProcess(dir, WORKER_ENV);
     await worker.start();
     await sleep(7_000);
     expect(((await db('processed_items').where({ id: item.id }).first()) as ItemRow).state).toBe('cancelled');
-    expect(filesUnder(annotatedDir).filter((f) => f.startsWith(`${id}-`) || f.startsWith(`.${id}-`))).toEqual([]);
+    expect(filesUnder(annotatedDir()).filter((f) => f.startsWith(`${id}-`) || f.startsWith(`.${id}-`))).toEqual([]);
   }, 400_000);
 
   it('follows the markers to ready on a later attempt, saving the followed points once; no file is left behind', async () => {
