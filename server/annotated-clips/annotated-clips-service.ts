@@ -17,7 +17,7 @@ import { listGrant, throughSelfGrant } from '../policy/enforce';
 import type { Processing } from '../processing/processing';
 import type { MediaStore } from '../storage/media-store';
 import type { Mailer } from '../mail/mailer';
-import { accessibleShared, setPublication } from '../sharing/shared-items';
+import { accessibleShared, deleteShared, setPublication } from '../sharing/shared-items';
 import type { ClipManifest } from '../media/manifest';
 import { clipKeys } from '../storage/media-keys';
 import { readJson } from '../storage/stored-objects';
@@ -287,16 +287,7 @@ export function annotatedClipsService(d: AnnotatedClipsDeps): AnnotatedClipsServ
 
     async remove(user, id) {
       const row = await accessible(user, id, 'annotated-clip:delete');
-      await processing.cancel('annotated_clip', id);
-      await db('annotated_clips').where({ id }).delete();
-      await removeAnnotatedVideo(d.store, row, row.render_version);
-      await audit(db, {
-        clinicId: user.clinicId,
-        actorId: user.id,
-        athleteId: row.athlete_id,
-        action: 'annotated_clip.deleted',
-        detail: { annotatedClipId: id },
-      });
+      await deleteShared(d, 'annotated_clip', user, row, () => removeAnnotatedVideo(d.store, row, row.render_version));
     },
 
     async videoKey(user, id, logView) {

@@ -1,8 +1,9 @@
+import { rm } from 'node:fs/promises';
 import path from 'node:path';
 import type { SlowMotionFactor } from '../../src/contracts/annotated-clips';
 import type { Db } from '../db/knex';
 import { PermanentError, type ProcessingKind } from '../processing/processed-item';
-import { renderAnnotatedClip, type AnnotatedClipRenderOutput } from '../render/annotated-clip-render';
+import { partialFileOf, renderAnnotatedClip, type AnnotatedClipRenderOutput } from '../render/annotated-clip-render';
 import { annotatedClipFile, clipKeys } from '../storage/media-keys';
 import { MissingMediaError, type MediaStore } from '../storage/media-store';
 import { readSmall } from '../storage/stored-objects';
@@ -26,6 +27,17 @@ export async function removeAnnotatedVideo(
   version: number,
 ): Promise<void> {
   await store.remove(clipKeys(row.clip_id).annotated(row.id, version));
+  await removePartialVideo(store, row, version);
+}
+
+/**
+ * Removes what a render of one version left half written: a process killed mid-render (SIGKILL,
+ * power loss) cannot remove its own. The next attempt and deleting the clip call this.
+ */
+export async function removePartialVideo(store: MediaStore, row: Pick<AnnotatedClipRow, 'id' | 'clip_id'>, version: number): Promise<void> {
+  await store.withLocalFolder(clipKeys(row.clip_id).annotatedPrefix, (folder) =>
+    rm(partialFileOf(path.join(folder.path, annotatedClipFile(row.id, version))), { force: true }),
+  );
 }
 
 /**
@@ -45,6 +57,8 @@ export function renderAnnotatedClipKind(d: { db: Db; store: MediaStore }): Proce
       const id = item.subjectId;
       const row = await repo.findById(db, id);
       if (!row) return null; // deleted meanwhile
+      // What an earlier attempt killed mid-render left half written goes before anything else can fail.
+      await removePartialVideo(store, row, row.render_version);
       if (lostBaseline(row)) throw new PermanentError(BASELINE_CLIP_DELETED);
       const plan = repo.plan(row);
       const statuses = await db('clips')

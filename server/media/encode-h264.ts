@@ -20,6 +20,12 @@ export interface H264EncoderOptions {
   height: number;
   /** Video frame rate, frames/s (any positive number; passed to ffmpeg as a ratio). */
   fps: number;
+  /**
+   * Video frames per frame written (≥ 1, default 1): ffmpeg reads the frames at `fps ÷ repeat` and
+   * its `fps` filter repeats each one, after the colour conversion, so a slowed-down clip's copies
+   * are neither drawn, piped nor converted again. N frames written give N × repeat video frames.
+   */
+  repeat?: number;
   /** The .mp4 file to write (a real file: fast start rewrites it once at the end). */
   outFile: string;
   /** Aborting kills ffmpeg; {@link H264Encoder.done} then rejects. */
@@ -36,11 +42,19 @@ export interface H264Encoder {
   abort(): void;
   /** Settles when ffmpeg exits (rejects with its last error line). */
   readonly done: Promise<void>;
+  /** CPU seconds (user + system) ffmpeg spent, as it reports with `-benchmark`; null before it ends or when not reported. */
+  cpuSeconds(): number | null;
 }
 
-/** `fps` as an exact-enough ratio for ffmpeg (`30000/1000`, `14985/1000`). */
-export function fpsRatio(fps: number): string {
-  return `${Math.round(fps * 1000)}/1000`;
+/** User + system CPU seconds from ffmpeg's `-benchmark` line (`bench: utime=1.234s stime=0.056s rtime=…`), or null. */
+export function benchCpuSeconds(stderr: string): number | null {
+  const m = /bench:\s+utime=([\d.]+)s\s+stime=([\d.]+)s/.exec(stderr);
+  return m ? Number(m[1]) + Number(m[2]) : null;
+}
+
+/** `fps ÷ divisor` as an exact-enough ratio for ffmpeg (`30000/1000`, `14985/1000`, `30000/4000`). */
+export function fpsRatio(fps: number, divisor = 1): string {
+  return `${Math.round(fps * 1000)}/${1000 * divisor}`;
 }
 
 /**
@@ -49,19 +63,31 @@ export function fpsRatio(fps: number): string {
  */
 export function startH264Encoder(opts: H264EncoderOptions): H264Encoder {
   if (opts.width % 2 || opts.height % 2) throw new RangeError('width and height must be even for yuv420p');
+  const repeat = opts.repeat ?? 1;
+  if (!Number.isInteger(repeat) || repeat < 1) throw new RangeError(`repeat must be a whole number ≥ 1, not ${repeat}`);
   const frameBytes = opts.width * opts.height * 4;
   // Two frames in flight: ffmpeg encodes one while the caller draws the next.
   const input = new PassThrough({ highWaterMark: frameBytes * 2 });
   let failure: Error | null = null;
   let killed = false;
+  let cpu: number | null = null;
   const command = ffmpeg(input)
     .inputFormat('rawvideo')
-    .inputOptions(['-pix_fmt', 'rgba', '-video_size', `${opts.width}x${opts.height}`, '-framerate', fpsRatio(opts.fps)])
+    // -benchmark (global): ffmpeg prints its CPU time when it ends.
+    .inputOptions([
+      '-benchmark',
+      '-pix_fmt',
+      'rgba',
+      '-video_size',
+      `${opts.width}x${opts.height}`,
+      '-framerate',
+      fpsRatio(opts.fps, repeat),
+    ])
     .noAudio()
     .videoCodec('libx264')
     .outputOptions([
       '-vf',
-      'scale=out_color_matrix=bt709:out_range=tv,format=yuv420p',
+      `scale=out_color_matrix=bt709:out_range=tv,format=yuv420p${repeat > 1 ? `,fps=${fpsRatio(opts.fps)}` : ''}`,
       '-preset',
       CLIP_ENCODING.preset,
       '-crf',
@@ -84,7 +110,10 @@ export function startH264Encoder(opts: H264EncoderOptions): H264Encoder {
     .format('mp4')
     .output(opts.outFile);
   const done = new Promise<void>((resolve, reject) => {
-    command.on('end', () => resolve());
+    command.on('end', (_out: string | null, stderr: string | null) => {
+      cpu = benchCpuSeconds(stderr ?? '');
+      resolve();
+    });
     command.on('error', (err: Error, _out: string | null, stderr: string | null) => {
       const last = (stderr ?? '').trim().split('\n').slice(-2).join(' ');
       failure = new Error(killed ? 'Encoding was cancelled.' : `ffmpeg could not encode the clip: ${last || err.message}`);
@@ -121,6 +150,7 @@ export function startH264Encoder(opts: H264EncoderOptions): H264Encoder {
       }
     },
     abort: onAbort,
+    cpuSeconds: () => cpu,
     async finish() {
       input.end();
       await done;

@@ -4,7 +4,6 @@ import { createCanvas, loadImage, type Image } from '@napi-rs/canvas';
 import type { AngleGauge, GaitEventMark, FrameLandmarks } from '../../src/contracts/annotations';
 import type { Direction, Side } from '../../src/contracts/assessment';
 import {
-  ANNOTATED_CLIP_MAX_LONG_SIDE,
   ANNOTATED_CLIP_MAX_SOURCE_FRAMES,
   SLOW_MOTION_LABELS,
   type LandmarkOriginCounts,
@@ -15,6 +14,7 @@ import { GAIT_EVENT_LABELS } from '../../src/contracts/annotations';
 import { drawOverlay, landmarkFill, slowMotionTiming, type Canvas2DLike, type LandmarkFill } from '../../src/kinematics';
 import { startH264Encoder } from '../media/encode-h264';
 import { CANVAS_FONT_FAMILY, registerCanvasFonts } from './fonts';
+import { PANEL_GAP, clipSizes } from './annotated-clip-layout';
 import { wrapText } from './still-render';
 
 /** One clip to play: where its frames come from and what is marked on it. */
@@ -69,19 +69,25 @@ export interface AnnotatedClipRenderOutput {
   origins: LandmarkOriginCounts[];
   /** What the clip says about its landmarks (drawn after the speed in the foot band). */
   note: string;
+  /** CPU seconds ffmpeg spent encoding (its `-benchmark` figure), or null when it did not say. */
+  encoderCpuS: number | null;
 }
 
 const INK = '#1B2A26';
 const PAPER = '#FFFFFF';
 const BAND = '#F1F5F3';
 const MUTED = '#4A5A55';
-const GAP = 8;
 /** An event's label stays up this long in playback, seconds, so it can be read in slow motion. */
 const EVENT_LABEL_HOLD_S = 0.6;
 /** Frames decoded ahead of the one being drawn. */
 const READ_AHEAD = 3;
 
 const even = (n: number) => Math.max(2, 2 * Math.round(n / 2));
+
+/** The hidden name a video is encoded under beside `outFile` until it is complete. */
+export function partialFileOf(outFile: string): string {
+  return path.join(path.dirname(outFile), `.${path.basename(outFile)}.rendering`);
+}
 
 /** "Landmarks marked on 12 frames, followed on 30 and interpolated between marked frames on 18." */
 export function landmarkNote(counts: LandmarkOriginCounts): string {
@@ -109,8 +115,8 @@ function eventsShown(events: readonly GaitEventMark[], frame: number, hold: numb
  * and the stills draw (`drawOverlay` on @napi-rs/canvas), a heading band per panel (visit, time,
  * event labels held {@link EVENT_LABEL_HOLD_S} s of playback), and a band below with the caption,
  * the speed and where the landmarks came from, and the caution line. Frames go to ffmpeg raw
- * (RGBA through a pipe; no file per frame); each is written `repeat` times by the slow-motion rule
- * (`slowMotionTiming`). Landmarks between marked frames: followed ones, else interpolated
+ * (RGBA through a pipe; no file per frame), each source frame once; ffmpeg repeats it `repeat` times
+ * after converting it, by the slow-motion rule (`slowMotionTiming`). Landmarks between marked frames: followed ones, else interpolated
  * (`landmarkFill`); a frame showing interpolated landmarks says so in its heading.
  */
 export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Promise<AnnotatedClipRenderOutput> {
@@ -122,19 +128,7 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
     throw new RangeError(`An annotated clip can cover at most ${ANNOTATED_CLIP_MAX_SOURCE_FRAMES} frames; this one has ${steps.length}.`);
   const timing = slowMotionTiming(panels[0]!.fps, input.factor);
 
-  // Size: panels at one height, the whole video's long side ≤ the limit, every dimension even.
-  const baseHeight = panels[0]!.frameSize.height;
-  const naturalWidths = panels.map((p) => (p.frameSize.width * baseHeight) / p.frameSize.height);
-  const naturalWidth = naturalWidths.reduce((a, b) => a + b, 0) + GAP * (panels.length - 1);
-  const unit0 = Math.max(12, Math.round(Math.min(naturalWidth, baseHeight) * 0.028));
-  const bandsEstimate = unit0 * 8;
-  const fit = Math.min(1, ANNOTATED_CLIP_MAX_LONG_SIDE / Math.max(naturalWidth, baseHeight + bandsEstimate));
-  const panelHeight = Math.round(baseHeight * fit);
-  const widths = naturalWidths.map((w) => Math.round(w * fit));
-  const contentWidth = widths.reduce((a, b) => a + b, 0) + GAP * (panels.length - 1);
-  const unit = Math.max(12, Math.round(Math.min(contentWidth, panelHeight) * 0.028));
-  const headingHeight = Math.round(unit * 2.2);
-
+  const { widths, panelHeight, contentWidth, unit, phoneScale } = clipSizes(panels.map((p) => p.frameSize));
   const scratch = createCanvas(10, 10).getContext('2d');
   const captionFont = `400 ${Math.round(unit * 1.05)}px "${CANVAS_FONT_FAMILY}"`;
   scratch.font = captionFont;
@@ -143,6 +137,34 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
   const lineHeight = Math.round(unit * 1.4);
   const smallSize = Math.max(10, Math.round(unit * 0.8));
   const footHeight = Math.round(unit * 0.6) + captionLines.length * lineHeight + Math.round(smallSize * 1.6) * 2 + Math.round(unit * 0.4);
+
+  const fills: LandmarkFill[] = panels.map((p) => landmarkFill(p.landmarks));
+  const holdFrames = panels.map((p) => Math.max(1, Math.round(EVENT_LABEL_HOLD_S * p.fps * input.factor)));
+  const headingFont = `600 ${unit}px "${CANVAS_FONT_FAMILY}"`;
+  const statusFont = `400 ${Math.round(unit * 0.9)}px "${CANVAS_FONT_FAMILY}"`;
+  /** Panel `i`'s status at source frame `frame`: the time, the events just passed and the landmark origin. */
+  const statusAt = (i: number, frame: number) => {
+    const panel = panels[i]!;
+    return [
+      `${(frame / panel.fps).toFixed(2)} s`,
+      eventsShown(panel.events, frame, holdFrames[i]!),
+      fills[i]!.at(frame).origin === 'interpolated' ? 'landmarks interpolated' : '',
+    ]
+      .filter(Boolean)
+      .join(' · ');
+  };
+  // The heading band: visit and status on one line when the longest of them fits, else status below.
+  const widest = (font: string, texts: Iterable<string>) => {
+    scratch.font = font;
+    let w = 0;
+    for (const t of texts) w = Math.max(w, scratch.measureText(t).width);
+    return w;
+  };
+  const oneLine = panels.every((p, i) => {
+    const statuses = new Set(steps.map((step) => statusAt(i, step[i]!)));
+    return widest(headingFont, [p.heading]) + widest(statusFont, statuses) + 2.2 * unit <= widths[i]!;
+  });
+  const headingHeight = Math.round(unit * (oneLine ? 2.2 : 3.7));
 
   const width = even(contentWidth);
   const height = even(headingHeight + panelHeight + footHeight);
@@ -155,9 +177,8 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
   let x = 0;
   for (const w of widths) {
     layout.push({ x, y: headingHeight, width: w, height: panelHeight });
-    x += w + GAP;
+    x += w + PANEL_GAP;
   }
-  const fills: LandmarkFill[] = panels.map((p) => landmarkFill(p.landmarks));
   const origins: LandmarkOriginCounts[] = panels.map(() => ({ marked: 0, followed: 0, interpolated: 0, none: 0 }));
   for (const step of steps) panels.forEach((_, i) => origins[i]![fills[i]!.at(step[i]!).origin]++);
   const notes = panels.map((p, i) => {
@@ -187,31 +208,26 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
   ctx.fillText(STILL_CAUTION_LINE, unit, y, width - 2 * unit);
   ctx.fillRect(0, height - 1, width, 1);
 
-  const holdFrames = panels.map((p) => Math.max(1, Math.round(EVENT_LABEL_HOLD_S * p.fps * input.factor)));
-  const headingFont = `600 ${unit}px "${CANVAS_FONT_FAMILY}"`;
-  const statusFont = `400 ${Math.round(unit * 0.9)}px "${CANVAS_FONT_FAMILY}"`;
-
   function drawStep(k: number, images: Image[]): void {
     panels.forEach((panel, i) => {
       const rect = layout[i]!;
       const frame = steps[k]![i]!;
       const filled = fills[i]!.at(frame);
-      // Heading band: visit, and on the right the time, the events just passed and the landmark origin.
+      // Heading band: visit, and the status on the right (or below it when the panel is narrow).
       ctx.fillStyle = BAND;
       ctx.fillRect(rect.x, 0, rect.width, headingHeight);
       ctx.textBaseline = 'middle';
       ctx.fillStyle = INK;
       ctx.font = headingFont;
       ctx.textAlign = 'left';
-      ctx.fillText(panel.heading, rect.x + unit * 0.6, headingHeight / 2, rect.width * 0.45);
-      const status = [
-        `${(frame / panel.fps).toFixed(2)} s`,
-        eventsShown(panel.events, frame, holdFrames[i]!),
-        filled.origin === 'interpolated' ? 'landmarks interpolated' : '',
-      ].filter(Boolean);
+      const left = rect.x + unit * 0.6;
+      const textWidth = rect.width - unit * 1.2;
+      ctx.fillText(panel.heading, left, unit * 1.1, oneLine ? textWidth * 0.45 : textWidth);
       ctx.font = statusFont;
-      ctx.textAlign = 'right';
-      ctx.fillText(status.join(' · '), rect.x + rect.width - unit * 0.6, headingHeight / 2, rect.width * 0.5);
+      if (oneLine) {
+        ctx.textAlign = 'right';
+        ctx.fillText(statusAt(i, frame), rect.x + rect.width - unit * 0.6, unit * 1.1, textWidth * 0.55);
+      } else ctx.fillText(statusAt(i, frame), left, unit * 2.6, textWidth);
 
       const image = images[i]!;
       // At its own size a frame is copied as it is (no resampling).
@@ -230,20 +246,21 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
         scale: null,
         gauges: (panel.gauges ?? []).filter((g) => g.frame === frame),
         fontFamily: `"${CANVAS_FONT_FAMILY}", sans-serif`,
-        // A panel shown smaller than its frame keeps readable labels and markers.
-        ...(scale < 0.999 ? { viewScale: scale } : {}),
+        // A panel shown smaller than its frame keeps labels and markers readable on a phone.
+        ...(scale < 0.999 ? { viewScale: scale * phoneScale } : {}),
       });
       ctx.restore();
     });
     if (panels.length > 1) {
       ctx.fillStyle = PAPER;
-      for (let i = 1; i < layout.length; i++) ctx.fillRect(layout[i]!.x - GAP, 0, GAP, footTop);
+      for (let i = 1; i < layout.length; i++) ctx.fillRect(layout[i]!.x - PANEL_GAP, 0, PANEL_GAP, footTop);
     }
   }
 
   const read = (k: number) => Promise.all(panels.map(async (p, i) => loadImage(await p.readFrame(steps[k]![i]!))));
-  const partial = path.join(path.dirname(input.outFile), `.${path.basename(input.outFile)}.rendering`);
-  const encoder = startH264Encoder({ width, height, fps: timing.outputFps, outFile: partial, signal: input.signal });
+  const partial = partialFileOf(input.outFile);
+  // Each source frame is drawn and piped once; ffmpeg makes the slow-motion copies (`repeat`).
+  const encoder = startH264Encoder({ width, height, fps: timing.outputFps, repeat: timing.repeat, outFile: partial, signal: input.signal });
   const ahead: Promise<Image[]>[] = [];
   for (let k = 0; k < Math.min(READ_AHEAD, steps.length); k++) ahead.push(read(k));
   ahead.forEach((p) => p.catch(() => undefined));
@@ -258,8 +275,8 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
         ahead.push(next);
       }
       drawStep(k, images);
-      const pixels = canvas.data(); // a copy: the next draw does not touch what ffmpeg still reads
-      for (let r = 0; r < timing.repeat; r++) await encoder.write(pixels);
+      // canvas.data() is a copy: the next draw does not touch what ffmpeg still reads.
+      await encoder.write(canvas.data());
       const fraction = (k + 1) / steps.length;
       if (input.onProgress && fraction - reported >= 0.02) {
         reported = fraction;
@@ -285,5 +302,6 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
     layout,
     origins,
     note,
+    encoderCpuS: encoder.cpuSeconds(),
   };
 }

@@ -8,6 +8,7 @@ import type { Action } from '../policy/access-table';
 import { assertAthleteResource } from '../policy/athlete-resources';
 import { assertRole } from '../policy/enforce';
 import type { Mailer } from '../mail/mailer';
+import type { Processing } from '../processing/processing';
 import { sendShareNotice, type SharedKind } from '../mail/share-notice';
 
 /** Columns every shared item (still, visit summary, annotated clip) has. */
@@ -91,4 +92,29 @@ export async function setPublication(
     detail: { [idKey]: row.id },
   });
   if (publish) await sendShareNotice({ db: d.db, mailer: d.mailer, logger: d.logger, publicUrl: d.publicUrl }, row.athlete_id, kind);
+}
+
+/**
+ * Deletes a shared item: cancels its render if one is queued or running, deletes its row, removes
+ * its files (`removeFiles`) and writes `<kind>.deleted` in the audit log. The caller checks first
+ * that the user may delete it.
+ */
+export async function deleteShared(
+  d: { db: Knex; processing: Pick<Processing, 'cancel'> },
+  kind: SharedKind,
+  user: SessionUser,
+  row: SharedRow,
+  removeFiles: () => Promise<void>,
+): Promise<void> {
+  const { table, idKey } = KINDS[kind];
+  await d.processing.cancel(kind, row.id);
+  await d.db(table).where({ id: row.id }).delete();
+  await removeFiles();
+  await audit(d.db, {
+    clinicId: user.clinicId,
+    actorId: user.id,
+    athleteId: row.athlete_id,
+    action: `${kind}.deleted`,
+    detail: { [idKey]: row.id },
+  });
 }

@@ -14,7 +14,7 @@ import { clipKeys } from '../storage/media-keys';
 import type { MediaStore } from '../storage/media-store';
 import { readSmall } from '../storage/stored-objects';
 import type { Mailer } from '../mail/mailer';
-import { accessibleShared, setPublication } from '../sharing/shared-items';
+import { accessibleShared, deleteShared, setPublication } from '../sharing/shared-items';
 import type { ClipRow } from '../clips/clips-repository';
 import type { ClipsService } from '../clips/clips-service';
 import { annotationsRepository } from '../annotations/annotations-repository';
@@ -242,16 +242,7 @@ export function stillsService(d: StillsDeps): StillsService {
 
     async remove(user: SessionUser, id: number): Promise<void> {
       const row = await accessibleStill(user, id, 'still:delete');
-      await processing.cancel('still', id);
-      await db('stills').where({ id }).delete();
-      await removeStillImages(d.store, row, row.render_version);
-      await audit(db, {
-        clinicId: user.clinicId,
-        actorId: user.id,
-        athleteId: row.athlete_id,
-        action: 'still.deleted',
-        detail: { stillId: id },
-      });
+      await deleteShared(d, 'still', user, row, () => removeStillImages(d.store, row, row.render_version));
     },
 
     async image(user, id, format) {

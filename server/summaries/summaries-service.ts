@@ -10,7 +10,7 @@ import { accessibleAthlete } from '../policy/athlete-resources';
 import { listGrant, throughSelfGrant } from '../policy/enforce';
 import type { Mailer } from '../mail/mailer';
 import type { Processing } from '../processing/processing';
-import { accessibleShared, setPublication } from '../sharing/shared-items';
+import { accessibleShared, deleteShared, setPublication } from '../sharing/shared-items';
 import { summaryKey } from '../storage/media-keys';
 import type { MediaStore } from '../storage/media-store';
 import { assessmentsRepository, type AssessmentRow } from '../assessments/assessments-repository';
@@ -163,16 +163,7 @@ export function summariesService(d: SummariesDeps): SummariesService {
 
     async remove(user: SessionUser, id: number): Promise<void> {
       const row = await accessibleSummary(user, id, 'summary:delete');
-      await processing.cancel('summary', id);
-      await db('visit_summaries').where({ id }).delete();
-      await d.store.remove(summaryKey(row.assessment_id, id));
-      await audit(db, {
-        clinicId: user.clinicId,
-        actorId: user.id,
-        athleteId: row.athlete_id,
-        action: 'summary.deleted',
-        detail: { summaryId: id },
-      });
+      await deleteShared(d, 'summary', user, row, () => d.store.remove(summaryKey(row.assessment_id, id)));
     },
 
     async pdf(user, id) {

@@ -127,6 +127,20 @@ describe('a single clip in slow motion', () => {
     expect(out).toMatchObject({ frameCount: 240, repeat: 4, outputFps: 30, durationS: 8 });
   });
 
+  it('gets each source frame once and has ffmpeg repeat it: the 4 copies decode alike, the next frame differs (ffmpeg decode)', async () => {
+    const meanDiff = (a: Buffer, b: Buffer) => {
+      let sum = 0;
+      for (let i = 0; i < a.length; i++) sum += Math.abs(a[i]! - b[i]!);
+      return sum / a.length;
+    };
+    const k = 50 - from;
+    const copies = await Promise.all([0, 1, 2, 3, 4].map((r) => decodeFrame(file, k * 4 + r, out.width, out.height)));
+    const within = [1, 2, 3].map((r) => meanDiff(copies[0]!, copies[r]!));
+    const across = meanDiff(copies[3]!, copies[4]!); // the last copy of frame 50 against the first of frame 51
+    expect(Math.max(...within), `copies ${within.join(', ')}; next frame ${across}`).toBeLessThan(0.5);
+    expect(across).toBeGreaterThan(4 * Math.max(0.05, ...within));
+  });
+
   it('shows the near-side colour and the white ring at the true joint pixels (ffmpeg decode, generator truth)', async () => {
     const want = hexRgb(OVERLAY_COLOURS[runner.truth.nearSide]);
     const rect = out.layout[0]!;
@@ -306,4 +320,50 @@ describe('Baseline and Re-test side by side', () => {
       ).toBeLessThanOrEqual(1);
     }
   }, 180_000);
+});
+
+describe('side by side on a phone', () => {
+  it('keeps headings and caption readable when a 390×844 phone shows the clip full screen (ffmpeg decode, measured ink)', async () => {
+    // Two 1280×720 clips: each panel is about half its frame, so text sized by the frame would halve.
+    const big = await runnerFrames({ fps: 120, width: 1280, height: 720, seconds: 0.05, hipExtensionDeg: 8, facing: 'right' });
+    const file = path.join(dir.dir, 'phone-pair.mp4');
+    const out = await renderAnnotatedClip({
+      panels: [runnerPanel(big, 'Baseline · 6 Oct 2026'), runnerPanel(big, 'Re-test · 24 Nov 2026')],
+      steps: big.jpegs.map((_, i) => [i, i]),
+      factor: 0.5,
+      caption: 'Baseline and re-test, lined up at each initial contact.',
+      showAngles: true,
+      outFile: file,
+    });
+    // Panels and the gap between them within the 1280 px limit.
+    expect(out.width).toBeLessThanOrEqual(1280);
+    expect(out.layout[1]!.x + out.layout[1]!.width).toBeLessThanOrEqual(out.width);
+    // The phone turned sideways for full screen is 844×390 CSS px; the player fits the video inside ([calc]).
+    const shown = Math.min(844 / out.width, 390 / out.height);
+    const rgb = await decodeFrame(file, 0, out.width, out.height);
+    /** Rows of `rows` that hold dark text pixels within columns `x0`…`x1`, as [first, last]. */
+    const inkRows = (y0: number, y1: number, x0: number, x1: number) => {
+      const rows: number[] = [];
+      for (let y = y0; y < y1; y++)
+        for (let x = x0; x < x1; x++) {
+          const [r, g, b] = rgbAt(rgb, out.width, x, y);
+          if (r! + g! + b! < 3 * 110) {
+            rows.push(y);
+            break;
+          }
+        }
+      return [Math.min(...rows), Math.max(...rows)];
+    };
+    // The Baseline heading (capitals, digits and an "l": no descenders) in the band above the panel.
+    const [top, bottom] = inkRows(0, out.layout[0]!.y, 0, Math.round(out.layout[0]!.width * 0.45));
+    const capHeight = (bottom - top + 1) * shown;
+    // About 9 CSS px from the top of a capital to the baseline is a 13 px font: the smallest size
+    // commonly used for body text on phones (common practice).
+    expect(capHeight, `heading ink ${bottom - top + 1} video px → ${capHeight.toFixed(1)} CSS px`).toBeGreaterThanOrEqual(9);
+    // The caption's first line, just below the panels: "Baseline …" again starts with a capital.
+    const footTop = out.layout[0]!.y + out.layout[0]!.height;
+    const [cTop] = inkRows(footTop, out.height, 0, out.width);
+    const [, cBottom] = inkRows(cTop, cTop + Math.round(40 / shown), 0, Math.round(out.width * 0.05));
+    expect((cBottom - cTop + 1) * shown, 'caption capital height, CSS px').toBeGreaterThanOrEqual(9);
+  }, 120_000);
 });

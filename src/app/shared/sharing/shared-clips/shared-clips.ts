@@ -1,5 +1,5 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, input } from '@angular/core';
 import { rxResource, takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog, MatDialogModule } from '@angular/material/dialog';
@@ -7,16 +7,16 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { Observable, firstValueFrom, switchMap } from 'rxjs';
+import { switchMap } from 'rxjs';
 import type { AnnotatedClip } from '../../../../contracts/annotated-clips';
 import { errorMessage, errorStatus } from '../../../core/api-error';
 import { ProcessingEvents } from '../../../core/processing-events';
 import { AnnotatedClipsApi } from '../../../core/data/annotated-clips-api';
-import { ConfirmDialog, type ConfirmDialogData } from '../../confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../states/empty-state';
 import { ErrorState } from '../../states/error-state';
 import { ClipPreviewDialog } from './clip-preview-dialog';
 import { followRenders } from '../follow-renders';
+import { actionTracker } from '../action-tracker';
 import { clipFactsText, clipTitle } from '../clip-logic';
 import { progressPercent, publishButton, publishConfirmText, sharedListStep, type SharedListStep } from '../sharing-logic';
 
@@ -46,8 +46,8 @@ export class SharedClips {
 
   protected readonly clips = rxResource({ params: () => this.athleteId(), stream: ({ params }) => this.api.clipsOf(params) });
   protected readonly list = computed<AnnotatedClip[]>(() => (this.clips.hasValue() ? this.clips.value() : []));
-  protected readonly pending = signal<ReadonlySet<number>>(new Set());
-  protected readonly problems = signal<Readonly<Record<number, string>>>({});
+  /** Publish / delete requests on the way and their problems, by clip id. */
+  protected readonly actions = actionTracker<number>();
 
   protected readonly publishButton = publishButton;
   protected readonly progressPercent = progressPercent;
@@ -95,29 +95,6 @@ export class SharedClips {
       });
   }
 
-  private async track<T>(id: number, work: Observable<T>): Promise<T | null> {
-    this.pending.update((s) => new Set(s).add(id));
-    this.problems.update(({ [id]: _gone, ...rest }) => rest);
-    try {
-      return await firstValueFrom(work.pipe(takeUntilDestroyed(this.destroyRef)));
-    } catch (err) {
-      this.problems.update((p) => ({ ...p, [id]: errorMessage(err) }));
-      return null;
-    } finally {
-      this.pending.update((s) => {
-        const next = new Set(s);
-        next.delete(id);
-        return next;
-      });
-    }
-  }
-
-  private confirm(data: ConfirmDialogData): Promise<boolean> {
-    return firstValueFrom(
-      this.dialog.open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, { data, width: '480px', maxWidth: '95vw' }).afterClosed(),
-    ).then((ok) => !!ok);
-  }
-
   protected preview(clip: AnnotatedClip): void {
     this.dialog.open(ClipPreviewDialog, { data: clip, width: '960px', maxWidth: '96vw', autoFocus: 'first-tabbable', restoreFocus: true });
   }
@@ -125,8 +102,9 @@ export class SharedClips {
   protected async togglePublish(clip: AnnotatedClip): Promise<void> {
     const button = publishButton(clip);
     if (button.disabled) return;
-    if (button.action === 'publish' && !(await this.confirm(publishConfirmText('clip', this.athleteName(), this.hasAccount())))) return;
-    const saved = await this.track(clip.id, this.api.publish(clip.id, button.action === 'publish'));
+    if (button.action === 'publish' && !(await this.actions.confirm(publishConfirmText('clip', this.athleteName(), this.hasAccount()))))
+      return;
+    const saved = await this.actions.run(clip.id, this.api.publish(clip.id, button.action === 'publish'));
     if (!saved) return;
     this.clips.update((list) => list?.map((c) => (c.id === saved.id ? saved : c)));
     this.snackBar.open(saved.publishedAt ? 'Clip published — the athlete gets an e-mail notice' : 'Clip unpublished', undefined, {
@@ -135,13 +113,13 @@ export class SharedClips {
   }
 
   protected async remove(clip: AnnotatedClip): Promise<void> {
-    const ok = await this.confirm({
+    const ok = await this.actions.confirm({
       title: 'Delete this annotated clip?',
       message: clip.publishedAt ? 'The athlete will no longer see it. The video is removed for good.' : 'The video is removed for good.',
       confirmLabel: 'Delete clip',
     });
     if (!ok) return;
-    const done = await this.track(clip.id, this.api.delete(clip.id).pipe(switchMap(() => [true])));
+    const done = await this.actions.run(clip.id, this.api.delete(clip.id).pipe(switchMap(() => [true])));
     if (!done) return;
     this.clips.update((list) => list?.filter((c) => c.id !== clip.id));
     this.snackBar.open('Annotated clip deleted', undefined, { duration: 3000 });

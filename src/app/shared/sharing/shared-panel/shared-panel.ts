@@ -9,12 +9,11 @@ import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { Observable, filter, firstValueFrom, switchMap } from 'rxjs';
+import { filter, firstValueFrom, switchMap } from 'rxjs';
 import type { AthleteSummary } from '../../../../contracts/api';
 import { CAPTION_MAX, type Still, type VisitSummary } from '../../../../contracts/sharing';
 import { errorMessage, errorStatus } from '../../../core/api-error';
 import { ProcessingEvents } from '../../../core/processing-events';
-import { ConfirmDialog, type ConfirmDialogData } from '../../confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../states/empty-state';
 import { InvitePrompt } from '../../invite-prompt/invite-prompt';
 import { ErrorState } from '../../states/error-state';
@@ -38,6 +37,7 @@ import { StillsApi } from '../../../core/data/stills-api';
 import { SummaryDialog, type SummaryDialogData } from '../summary-dialog/summary-dialog';
 import { SharedClips } from '../shared-clips/shared-clips';
 import { followRenders } from '../follow-renders';
+import { actionTracker } from '../action-tracker';
 
 /** The caption being edited on one still's card. */
 interface CaptionEdit {
@@ -93,8 +93,8 @@ export class SharedPanel {
   protected readonly stillList = computed<Still[]>(() => (this.stills.hasValue() ? this.stills.value() : []));
   protected readonly summaryList = computed<VisitSummary[]>(() => (this.summaries.hasValue() ? this.summaries.value() : []));
   protected readonly readyStills = computed(() => this.stillList().filter((s) => s.status === 'ready'));
-  /** Ids with a publish / delete request on the way (their buttons wait). */
-  protected readonly pending = signal<ReadonlySet<string>>(new Set());
+  /** Requests on the way (their buttons wait) and what went wrong, by `still-<id>` / `summary-<id>`. */
+  protected readonly actions = actionTracker<string>();
   protected readonly edit = signal<CaptionEdit | null>(null);
   protected readonly editCount = computed(() => textCount(this.edit()?.text ?? '', CAPTION_MAX));
 
@@ -173,36 +173,6 @@ export class SharedPanel {
     this.summaries.reload();
   }
 
-  protected isPending(key: string): boolean {
-    return this.pending().has(key);
-  }
-
-  /** What went wrong with the last action on a still or summary, by key; shown on its card. */
-  protected readonly problems = signal<Readonly<Record<string, string>>>({});
-
-  private async track<T>(key: string, work: Observable<T>): Promise<T | null> {
-    this.pending.update((s) => new Set(s).add(key));
-    this.problems.update(({ [key]: _gone, ...rest }) => rest);
-    try {
-      return await firstValueFrom(work.pipe(takeUntilDestroyed(this.destroyRef)));
-    } catch (err) {
-      this.problems.update((p) => ({ ...p, [key]: errorMessage(err) }));
-      return null;
-    } finally {
-      this.pending.update((s) => {
-        const next = new Set(s);
-        next.delete(key);
-        return next;
-      });
-    }
-  }
-
-  private confirm(data: ConfirmDialogData): Promise<boolean> {
-    return firstValueFrom(
-      this.dialog.open<ConfirmDialog, ConfirmDialogData, boolean>(ConfirmDialog, { data, width: '480px', maxWidth: '95vw' }).afterClosed(),
-    ).then((ok) => !!ok);
-  }
-
   private replaceStill(still: Still): void {
     this.stills.update((list) => list?.map((s) => (s.id === still.id ? still : s)));
   }
@@ -221,8 +191,9 @@ export class SharedPanel {
   protected async togglePublishStill(still: Still): Promise<void> {
     const button = publishButton(still);
     if (button.disabled) return;
-    if (button.action === 'publish' && !(await this.confirm(publishConfirmText('still', this.athleteName(), this.hasAccount())))) return;
-    const saved = await this.track(`still-${still.id}`, this.api.publishStill(still.id, button.action === 'publish'));
+    if (button.action === 'publish' && !(await this.actions.confirm(publishConfirmText('still', this.athleteName(), this.hasAccount()))))
+      return;
+    const saved = await this.actions.run(`still-${still.id}`, this.api.publishStill(still.id, button.action === 'publish'));
     if (!saved) return;
     this.replaceStill(saved);
     this.snackBar.open(saved.publishedAt ? 'Still published — the athlete gets an e-mail notice' : 'Still unpublished', undefined, {
@@ -231,7 +202,7 @@ export class SharedPanel {
   }
 
   protected async deleteStill(still: Still): Promise<void> {
-    const ok = await this.confirm({
+    const ok = await this.actions.confirm({
       title: 'Delete this still?',
       message: still.publishedAt
         ? 'The athlete will no longer see it. Visit summaries already rendered keep their copy.'
@@ -239,7 +210,7 @@ export class SharedPanel {
       confirmLabel: 'Delete still',
     });
     if (!ok) return;
-    const done = await this.track(`still-${still.id}`, this.api.deleteStill(still.id).pipe(switchMap(() => [true])));
+    const done = await this.actions.run(`still-${still.id}`, this.api.deleteStill(still.id).pipe(switchMap(() => [true])));
     if (!done) return;
     this.stills.update((list) => list?.filter((s) => s.id !== still.id));
     if (this.edit()?.id === still.id) this.edit.set(null);
@@ -251,7 +222,7 @@ export class SharedPanel {
     const main = still.panels[still.panels.length - 1];
     if (!main) return;
     const pair = still.kind === 'pair' ? still.panels[0] : null;
-    const created = await this.track(
+    const created = await this.actions.run(
       `still-${still.id}`,
       this.api.createStill(main.clipId, {
         frameIndex: main.frameIndex,
@@ -315,8 +286,9 @@ export class SharedPanel {
   protected async togglePublishSummary(summary: VisitSummary): Promise<void> {
     const button = publishButton(summary);
     if (button.disabled) return;
-    if (button.action === 'publish' && !(await this.confirm(publishConfirmText('summary', this.athleteName(), this.hasAccount())))) return;
-    const saved = await this.track(`summary-${summary.id}`, this.api.publishSummary(summary.id, button.action === 'publish'));
+    if (button.action === 'publish' && !(await this.actions.confirm(publishConfirmText('summary', this.athleteName(), this.hasAccount()))))
+      return;
+    const saved = await this.actions.run(`summary-${summary.id}`, this.api.publishSummary(summary.id, button.action === 'publish'));
     if (!saved) return;
     this.replaceSummary(saved);
     this.snackBar.open(
@@ -327,7 +299,7 @@ export class SharedPanel {
   }
 
   protected async deleteSummary(summary: VisitSummary): Promise<void> {
-    const ok = await this.confirm({
+    const ok = await this.actions.confirm({
       title: 'Delete this visit summary?',
       message: summary.publishedAt
         ? 'The athlete will no longer see it. The stills it shows stay.'
@@ -335,7 +307,7 @@ export class SharedPanel {
       confirmLabel: 'Delete summary',
     });
     if (!ok) return;
-    const done = await this.track(`summary-${summary.id}`, this.api.deleteSummary(summary.id).pipe(switchMap(() => [true])));
+    const done = await this.actions.run(`summary-${summary.id}`, this.api.deleteSummary(summary.id).pipe(switchMap(() => [true])));
     if (!done) return;
     this.summaries.update((list) => list?.filter((s) => s.id !== summary.id));
     this.snackBar.open('Visit summary deleted', undefined, { duration: 3000 });
@@ -343,7 +315,7 @@ export class SharedPanel {
 
   /** Renders a failed summary again with the same text and stills, then drops the failed one. */
   protected async retrySummary(summary: VisitSummary): Promise<void> {
-    const created = await this.track(
+    const created = await this.actions.run(
       `summary-${summary.id}`,
       this.api.createSummary(summary.assessmentId, {
         baselineAssessmentId: summary.baselineAssessmentId,
