@@ -1,8 +1,12 @@
 /**
  * Assessments and clips in Debian chromium: a coach creates an assessment, uploads a clip generated
- * with ffmpeg, watches processing reach Ready and sees thumbnails; the athlete uploads a clip to
- * their own assessment from the portal.
+ * with ffmpeg (as a resumable tus upload carrying the CSRF header), watches processing reach Ready
+ * and sees thumbnails; the athlete uploads a clip to their own assessment from the portal; an
+ * upload whose connection drops shows "reconnecting" and continues, and after a reload the same
+ * file resumes from the bytes the server holds, to a stored original with the source's SHA-256.
  */
+import crypto from 'node:crypto';
+import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
@@ -54,7 +58,14 @@ describe('assessments and clips', () => {
     expect(created.speed_mps).toBeCloseTo(3.0, 6);
 
     await page.goto(`${h.baseUrl}/athletes/${ada.id}/assessments/${assessmentId}`);
+    const sent: { method: string; url: string; xsrf: boolean }[] = [];
+    page.on('request', (r) => {
+      if (r.url().includes('/clip-uploads')) sent.push({ method: r.method(), url: r.url(), xsrf: Boolean(r.headers()['x-xsrf-token']) });
+    });
     await uploadAndWaitReady(page, 'treadmill-side.mp4');
+    // The clip went as a resumable upload: created, then its bytes, each request with the CSRF header.
+    expect(sent.map((r) => r.method)).toEqual(['POST', 'PATCH']);
+    expect(sent.every((r) => r.xsrf)).toBe(true);
     await page.screenshot({ path: path.join(SCREENSHOTS, 'assessment-clips.png'), fullPage: true });
     const clip = await h.server.db('clips').where({ assessment_id: assessmentId }).first();
     expect(clip).toMatchObject({ status: 'ready', frame_count: 120, fps: 60 });
@@ -104,4 +115,59 @@ describe('assessments and clips', () => {
     expect(problems).toEqual([]);
     await context.close();
   });
+
+  it('a dropped connection shows reconnecting and continues; after a reload the same file resumes from what the server holds', async () => {
+    const big = await makeClip(path.join(dir.dir, 'long-run.mp4'), { fps: 60, width: 1280, height: 720, seconds: 6 });
+    const size = fs.statSync(big).size;
+    const { page, context, problems } = await h.newPage();
+    await signIn(page, coach.email, coach.password);
+    const ada = await h.server.db('athletes').where({ email: athlete.email }).first();
+    await page.goto(`${h.baseUrl}/athletes/${ada.id}/assessments/${assessmentId}`);
+    // A slow phone link: uploads at 1 MB/s, so the drop and the reload land mid-file.
+    const cdp = await context.newCDPSession(page);
+    await cdp.send('Network.enable');
+    const network = (offline: boolean) =>
+      cdp.send('Network.emulateNetworkConditions', { offline, latency: 0, downloadThroughput: -1, uploadThroughput: 1_000_000 });
+    await network(false);
+    const offsets: number[] = [];
+    page.on('response', (r) => {
+      if (r.request().method() === 'HEAD' && r.url().includes('/clip-uploads/')) offsets.push(Number(r.headers()['upload-offset']));
+    });
+    const status = page.locator('li.upload .upload-status').first();
+    const percent = async () => Number(/(\d+) %/.exec((await status.textContent()) ?? '')?.[1] ?? 0);
+
+    await page.locator('input[type=file][multiple]').setInputFiles(big);
+    await expect.poll(percent, { timeout: 60_000 }).toBeGreaterThanOrEqual(15);
+    await network(true);
+    await expect.poll(() => status.textContent(), { timeout: 30_000 }).toMatch(/^Connection lost — reconnecting… \(\d+ % kept\)$/);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'clip-upload-reconnecting.png') });
+    await network(false);
+    // It continues by itself from the offset the server answers.
+    await expect.poll(() => status.textContent(), { timeout: 60_000 }).toMatch(/^Uploading… \d+ %$/);
+    expect(offsets.length).toBeGreaterThan(0);
+    expect(offsets.at(-1)).toBeGreaterThan(0);
+    await expect.poll(percent, { timeout: 60_000 }).toBeGreaterThanOrEqual(50);
+
+    // The tab is reloaded mid-upload; the same file chosen again continues.
+    await page.reload();
+    await network(false);
+    const before = offsets.length;
+    await page.locator('input[type=file][multiple]').setInputFiles(big);
+    await expect.poll(() => status.textContent(), { timeout: 30_000 }).toMatch(/^Resuming… \d+ %$/);
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'clip-upload-resuming.png') });
+    expect(offsets.slice(before)[0]).toBeGreaterThan(size * 0.3);
+    await expect
+      .poll(async () => (await h.server.db('clips').where({ assessment_id: assessmentId, original_name: 'long-run.mp4' })).length, {
+        timeout: 120_000,
+      })
+      .toBe(1);
+    const made = await h.server.db('clips').where({ assessment_id: assessmentId, original_name: 'long-run.mp4' }).first();
+    const digest = (f: string) => crypto.createHash('sha256').update(fs.readFileSync(f)).digest('hex');
+    // Outside reference: the source file's own bytes.
+    expect(digest(path.join(h.server.config.uploadsDir, 'clips', String(made.id), 'original.mp4'))).toBe(digest(big));
+    await expect.poll(async () => (await h.server.db('clips').where({ id: made.id }).first()).status, { timeout: 120_000 }).toBe('ready');
+    // Only the dropped requests complain (the browser logs a failed request); nothing else.
+    expect(problems.filter((p) => !/ERR_INTERNET_DISCONNECTED|Failed to load resource/.test(p))).toEqual([]);
+    await context.close();
+  }, 300_000);
 });

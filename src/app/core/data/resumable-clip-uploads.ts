@@ -1,8 +1,9 @@
 import { HttpErrorResponse, HttpXsrfTokenExtractor } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { Observable } from 'rxjs';
-import { Upload, type DetailedError } from 'tus-js-client';
+import { Upload } from 'tus-js-client';
 import type { Clip } from '../../../contracts/api';
+import { parseBody, shouldRetry, uploadHttpError } from './tus-answers';
 
 /**
  * What an upload reports: bytes the server holds so far, a lost connection being retried, that it
@@ -70,7 +71,7 @@ export class ResumableClipUploads {
             subscriber.error(new HttpErrorResponse({ status: 409, error: { error: { message: ALREADY_SENT } } }));
           }
         },
-        onError: (err) => subscriber.error(asHttpError(err)),
+        onError: (err) => subscriber.error(uploadHttpError(err)),
       });
       current = upload;
       void upload.findPreviousUploads().then((previous) => {
@@ -98,31 +99,3 @@ export class ResumableClipUploads {
 }
 
 const ALREADY_SENT = 'This file was already uploaded. Its clip is in the list below.';
-
-/** A lost connection, a server error or a busy upload is retried; a refusal (4xx) is final. */
-function shouldRetry(err: DetailedError): boolean {
-  const status = err.originalResponse?.getStatus() ?? 0;
-  if (status === 0 || status >= 500 || status === 423) return true;
-  // The server holds another offset than the client thought: ask and continue.
-  return status === 409 && errorCode(err.originalResponse?.getBody()) === 'upload_offset_mismatch';
-}
-
-function parseBody(body: string | undefined): unknown {
-  try {
-    return body ? JSON.parse(body) : null;
-  } catch {
-    return null;
-  }
-}
-
-function errorCode(body: string | undefined): string | null {
-  const parsed = parseBody(body) as { error?: { code?: unknown } } | null;
-  return typeof parsed?.error?.code === 'string' ? parsed.error.code : null;
-}
-
-/** The upload's failure as the `HttpErrorResponse` the rest of the app reads (status 0: no answer). */
-function asHttpError(err: Error | DetailedError): HttpErrorResponse {
-  const res = 'originalResponse' in err ? err.originalResponse : null;
-  if (!res) return new HttpErrorResponse({ status: 0, statusText: err.message, error: null });
-  return new HttpErrorResponse({ status: res.getStatus(), error: parseBody(res.getBody()) });
-}
