@@ -3,6 +3,7 @@ import { Injectable, inject } from '@angular/core';
 import { Observable } from 'rxjs';
 import { Upload } from 'tus-js-client';
 import type { Clip } from '../../../contracts/api';
+import { UPLOAD } from '../../../contracts/assessment';
 import { parseBody, shouldRetry, uploadHttpError } from './tus-answers';
 
 /**
@@ -49,6 +50,7 @@ export class ResumableClipUploads {
       const upload = new Upload(file, {
         endpoint: `/api/assessments/${assessmentId}/clip-uploads`,
         metadata: { filename: file.name, filetype: file.type || 'application/octet-stream' },
+        chunkSize: UPLOAD.chunkBytes,
         retryDelays: RETRY_DELAYS_MS,
         removeFingerprintOnSuccess: true,
         onBeforeRequest: (req) => {
