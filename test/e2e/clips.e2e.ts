@@ -134,20 +134,27 @@ describe('assessments and clips', () => {
     const answers: string[] = [];
     const status = page.locator('li.upload .upload-status').first();
 
-    // The network: PATCH 1 goes through, the next attempts find no connection, then it is back until
-    // the third chunk, which finds none again (the tab is reloaded while it retries).
+    // The network: PATCH 1 goes through, then there is no connection (HEAD and PATCH fail) until
+    // it is back for the second chunk; the third finds none again (the tab is reloaded while it retries).
     let patches = 0;
+    let refused = 0;
     let connected = false;
     await page.route('**/clip-uploads/*', async (route) => {
-      if (route.request().method() !== 'PATCH') return route.continue();
-      patches += 1;
-      const offset = Number(route.request().headers()['upload-offset']);
-      if (patches === 1 || (connected && offset < 2 * UPLOAD.chunkBytes)) return route.continue();
+      const method = route.request().method();
+      if (method === 'POST' || (patches === 0 && method === 'HEAD')) return route.continue();
+      if (method === 'PATCH') patches += 1;
+      const offset = Number(route.request().headers()['upload-offset'] ?? 0);
+      if (method === 'PATCH' && offset >= 2 * UPLOAD.chunkBytes) connected = false;
+      if (patches === 1 || connected) return route.continue();
+      refused += 1;
       return route.abort('internetdisconnected');
     });
     await page.locator('input[type=file][multiple]').setInputFiles(big);
     await expect.poll(() => status.textContent(), { timeout: 30_000 }).toMatch(/^Connection lost — reconnecting… \(\d+ % kept\)$/);
     await page.screenshot({ path: path.join(SCREENSHOTS, 'clip-upload-reconnecting.png') });
+    // Retries that find no connection keep it saying so.
+    await expect.poll(() => refused, { timeout: 30_000 }).toBeGreaterThanOrEqual(3);
+    expect(await status.textContent()).toMatch(/^Connection lost — reconnecting…/);
     connected = true;
     // It continues by itself from the offset the server answers (the first chunk's end).
     await expect.poll(() => offsets.includes(UPLOAD.chunkBytes), { timeout: 30_000 }).toBe(true);

@@ -7,12 +7,13 @@ import { UPLOAD } from '../../../contracts/assessment';
 import { parseBody, shouldRetry, uploadHttpError } from './tus-answers';
 
 /**
- * What an upload reports: bytes the server holds so far, a lost connection being retried, that it
- * continues an upload begun earlier, then the clip the server created.
+ * What an upload reports: bytes sent so far, a lost connection being retried and the server
+ * answering again, that it continues an upload begun earlier, then the clip the server created.
  */
 export type UploadEvent =
   | { type: 'progress'; loaded: number; total: number }
   | { type: 'reconnecting' }
+  | { type: 'reconnected' }
   | { type: 'resumed' }
   | { type: 'done'; clip: Clip };
 
@@ -47,6 +48,7 @@ export class ResumableClipUploads {
     let discarded = false;
     const events = new Observable<UploadEvent>((subscriber) => {
       let stopped = false;
+      let lost = false;
       const upload = new Upload(file, {
         endpoint: `/api/assessments/${assessmentId}/clip-uploads`,
         metadata: { filename: file.name, filetype: file.type || 'application/octet-stream' },
@@ -60,8 +62,18 @@ export class ResumableClipUploads {
         onProgress: (loaded, total) => subscriber.next({ type: 'progress', loaded, total }),
         onShouldRetry: (err) => {
           const retry = shouldRetry(err);
-          if (retry) subscriber.next({ type: 'reconnecting' });
+          if (retry) {
+            lost = true;
+            subscriber.next({ type: 'reconnecting' });
+          }
           return retry;
+        },
+        // Connected again once the server answers (the retry's HEAD tells the offset it holds).
+        onAfterResponse: (_req, res) => {
+          if (lost && res.getStatus() > 0 && res.getStatus() < 500) {
+            lost = false;
+            subscriber.next({ type: 'reconnected' });
+          }
         },
         onSuccess: ({ lastResponse }) => {
           const clip = parseBody(lastResponse.getBody()) as Clip | null;

@@ -109,6 +109,11 @@ export function markReconnecting(items: readonly UploadItem[], id: number): Uplo
   return update(items, id, ['uploading'], () => ({ reconnecting: true }));
 }
 
+/** The server answers again after a lost connection. */
+export function markReconnected(items: readonly UploadItem[], id: number): UploadItem[] {
+  return update(items, id, ['uploading'], () => ({ reconnecting: false }));
+}
+
 /** The upload continues one begun earlier with the same file. */
 export function markResumed(items: readonly UploadItem[], id: number): UploadItem[] {
   return update(items, id, ['uploading'], () => ({ resumed: true }));
@@ -117,7 +122,7 @@ export function markResumed(items: readonly UploadItem[], id: number): UploadIte
 export function markProgress(items: readonly UploadItem[], id: number, loaded: number, total: number): UploadItem[] {
   return update(items, id, ['uploading'], (item) => {
     const t = total > 0 ? total : item.total;
-    return { loaded: Math.min(Math.max(loaded, 0), t), total: t, reconnecting: false };
+    return { loaded: Math.min(Math.max(loaded, 0), t), total: t };
   });
 }
 

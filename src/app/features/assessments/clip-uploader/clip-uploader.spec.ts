@@ -154,6 +154,11 @@ describe('ClipUploader', () => {
     fixture.detectChanges();
     expect(rows()[0].status).toBe('Connection lost — reconnecting… (30 % kept)');
     expect(fixture.componentInstance.busy()).toBe(true);
+    // Bytes a failing attempt pushes out do not mean the connection is back; the server answering does.
+    u.events.next({ type: 'progress', loaded: 350, total: 1000 });
+    fixture.detectChanges();
+    expect(rows()[0].status).toBe('Connection lost — reconnecting… (35 % kept)');
+    u.events.next({ type: 'reconnected' });
     u.events.next({ type: 'progress', loaded: 500, total: 1000 });
     fixture.detectChanges();
     expect(rows()[0].status).toBe('Uploading… 50 %');

@@ -18,6 +18,7 @@ import {
   markDone,
   markFailed,
   markProgress,
+  markReconnected,
   markReconnecting,
   markResumed,
   markStarted,
@@ -176,6 +177,9 @@ export class ClipUploader {
               break;
             case 'reconnecting':
               this.items.update((list) => markReconnecting(list, id));
+              break;
+            case 'reconnected':
+              this.items.update((list) => markReconnected(list, id));
               break;
             case 'resumed':
               this.items.update((list) => markResumed(list, id));
