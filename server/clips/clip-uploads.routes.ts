@@ -4,7 +4,7 @@ import { currentUser } from '../http/access';
 import { idParam } from '../http/validate';
 import { permit } from '../policy/enforce';
 import { tooLarge, type ClipsService } from './clips-service';
-import type { ResumableUploads, UploadRequestContext } from './resumable-uploads';
+import type { ResumableUploads, UploadOwner, UploadRequestContext } from './resumable-uploads';
 
 export interface ClipUploadsRoutesDeps {
   clips: ClipsService;
@@ -36,11 +36,11 @@ export function clipUploadsRoutes(d: ClipUploadsRoutesDeps): Router {
   }
 
   /** The upload named in the path, when this user created it for this assessment; 404 otherwise. */
-  async function owned(req: Request): Promise<UploadRequestContext> {
+  async function owned(req: Request): Promise<UploadRequestContext & { owner: UploadOwner }> {
     const context = await checked(req);
     const owner = await d.uploads.owner(String(req.params['uploadId']));
     if (!owner || owner.assessmentId !== context.assessmentId || owner.userId !== context.user.id) throw new NotFoundError('Upload');
-    return context;
+    return { ...context, owner };
   }
 
   /** Runs the checks, then the protocol; a refusal made before the bytes are read closes the connection. */
@@ -78,7 +78,22 @@ export function clipUploadsRoutes(d: ClipUploadsRoutesDeps): Router {
       return context;
     }),
   );
-  router.head(ONE, permit('clip:upload'), gate(owned));
+  router.head(ONE, permit('clip:upload'), async (req, res, next) => {
+    const context = await owned(req);
+    const { finished } = context.owner;
+    if (!finished) {
+      await gate(async () => context)(req, res, next);
+      return;
+    }
+    // Accepted already (its answer may have been lost): complete, so the client does not send it again.
+    res.set({
+      'Tus-Resumable': '1.0.0',
+      'Upload-Offset': String(finished.size),
+      'Upload-Length': String(finished.size),
+      'Trailframe-Clip-Id': String(finished.clipId),
+    });
+    res.status(200).end();
+  });
   router.patch(ONE, permit('clip:upload'), gate(owned));
   router.delete(ONE, permit('clip:upload'), gate(owned));
 

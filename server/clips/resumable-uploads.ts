@@ -13,6 +13,8 @@ import type { ClipsService } from './clips-service';
 export interface UploadOwner {
   assessmentId: number;
   userId: number;
+  /** Once accepted: the clip it became and its length (kept until swept, so a lost answer is not sent twice). */
+  finished: { clipId: number; size: number } | null;
 }
 
 /** What the route has checked about the request before the upload protocol takes over. */
@@ -122,14 +124,17 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
             originalname: uploadName(upload),
             size: upload.size ?? upload.offset,
           });
+          await fs.promises.rm(partPath(upload.id), { force: true });
+          // What stays until the sweep: who it was for and the clip it became, so a client whose
+          // answer was lost learns from HEAD that it is complete instead of sending it again.
+          const finished = { size: upload.size ?? upload.offset, clipId: clip.id };
+          await fs.promises.writeFile(detailsPath(upload.id), JSON.stringify({ id: upload.id, metadata: upload.metadata, finished }));
           return { status_code: 200, headers: { 'Content-Type': JSON_TYPE }, body: JSON.stringify(clip) };
         } catch (err) {
+          await removeParts(upload.id);
           // Answered here rather than thrown, so the refusal carries our JSON content type.
           if (!(err instanceof AppError) || err.status >= 500) throw err;
           return { status_code: err.status, headers: { 'Content-Type': JSON_TYPE }, body: errorBody(err.code, err.message, err.details) };
-        } finally {
-          // Accepted (moved into the store) or refused: nothing of the upload stays behind.
-          await removeParts(upload.id);
         }
       },
       /** The protocol's refusals keep their status, with a body in our error shape. */
@@ -182,10 +187,13 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
     async owner(id) {
       if (!UPLOAD_ID.test(id)) return null;
       try {
-        const details = JSON.parse(await fs.promises.readFile(detailsPath(id), 'utf8')) as Pick<Upload, 'metadata'>;
+        const details = JSON.parse(await fs.promises.readFile(detailsPath(id), 'utf8')) as Pick<Upload, 'metadata'> & {
+          finished?: UploadOwner['finished'];
+        };
         const assessmentId = Number(details.metadata?.['assessmentId']);
         const userId = Number(details.metadata?.['userId']);
-        return Number.isInteger(assessmentId) && Number.isInteger(userId) ? { assessmentId, userId } : null;
+        if (!Number.isInteger(assessmentId) || !Number.isInteger(userId)) return null;
+        return { assessmentId, userId, finished: details.finished ?? null };
       } catch {
         return null;
       }

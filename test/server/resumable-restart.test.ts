@@ -66,7 +66,8 @@ describe('SIGKILL mid-upload', () => {
     expect(done.status, done.body).toBe(200);
     const made = JSON.parse(done.body) as { id: number };
     expect(await sha256(path.join(dir, 'uploads', 'clips', String(made.id), 'original.mp4'))).toBe(await sha256(clip));
-    expect(fs.readdirSync(path.join(dir, 'uploads', 'tmp', 'resumable'))).toEqual([]);
+    const id = created.location!.split('/').pop()!;
+    expect(fs.readdirSync(path.join(dir, 'uploads', 'tmp', 'resumable'))).toEqual([`${id}.json`]);
 
     const t0 = Date.now();
     for (;;) {

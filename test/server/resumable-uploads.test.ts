@@ -4,7 +4,8 @@
  * source file's (outside reference: the bytes on disk before upload); the gate is the same as a
  * one-request upload (other clinic 404, no video consent 409 — also on a PATCH after consent is
  * withdrawn, no CSRF 403); a declared length over the limit is 413; a finished upload that is not
- * a video is refused (ffprobe/magic bytes) and leaves nothing; abandoned partials go by age.
+ * a video is refused (ffprobe/magic bytes) and leaves nothing; abandoned partials go by age; an
+ * accepted upload answers HEAD as complete (with its clip) so a lost answer is not sent twice.
  */
 import fs from 'node:fs';
 import http from 'node:http';
@@ -101,7 +102,14 @@ describe('resuming after a dropped connection', () => {
       expect(made).toMatchObject({ sizeBytes: size, originalName: 'run.mp4' });
       // Outside reference: the source file's own bytes.
       expect(await sha256(path.join(t.config.uploadsDir, 'clips', String(made.id), 'original.mp4'))).toBe(await sha256(clip));
-      expect(parts()).toEqual([]);
+      // The bytes moved into the store; only the upload's details stay (until swept), so a client
+      // whose answer was lost learns from HEAD that it is complete instead of sending it again.
+      const id = url.split('/').pop()!;
+      expect(parts().filter((n) => n.startsWith(id))).toEqual([`${id}.json`]);
+      const after = await tusHead(coachSession, url);
+      expect(after).toMatchObject({ status: 200, offset: size, length: size });
+      expect(after.headers['trailframe-clip-id']).toBe(String(made.id));
+      expect((await tusPatch(coachSession, url, clip, size)).status).toBe(410);
       await t.worker!.idle();
       const ready = await json(coachSession, 'GET', `/api/clips/${made.id}`);
       expect(ready.body.status).toBe('ready');
