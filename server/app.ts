@@ -21,7 +21,7 @@ import { staffRoutes } from './staff/staff.routes';
 import { athletesService } from './athletes/athletes-service';
 import { athletesRoutes } from './athletes/athletes.routes';
 import type { MediaStore } from './storage/media-store';
-import { uploadTempDir, uploadTemps } from './storage/upload-temps';
+import { resumableUploadDir, uploadTempDir, uploadTemps } from './storage/upload-temps';
 import type { Processing } from './processing/processing';
 import { startWorker, type Worker } from './processing/worker';
 import { startProgressRelay } from './processing/progress-relay';
@@ -29,6 +29,8 @@ import { processingEventsRoutes } from './processing/processing-events.routes';
 import { createMediaServices } from './services';
 import { warmUpFfmpeg } from './media/extract';
 import { clipsRoutes } from './clips/clips.routes';
+import { clipUploadsRoutes } from './clips/clip-uploads.routes';
+import { resumableUploads } from './clips/resumable-uploads';
 import { assessmentsRoutes } from './assessments/assessments.routes';
 import { annotationsRoutes } from './annotations/annotations.routes';
 import { followRoutes } from './follow/follow.routes';
@@ -137,7 +139,9 @@ export function createApp(deps: AppDeps): App {
       req.body === undefined &&
       req.headers['content-type'] &&
       !req.is('application/json') &&
-      !req.is('multipart/form-data')
+      !req.is('multipart/form-data') &&
+      // A resumable upload's bytes (tus PATCH), streamed by its own route.
+      !req.is('application/offset+octet-stream')
     ) {
       return next(new AppError(415, 'unsupported_media_type', 'Send the request body as JSON (Content-Type: application/json).'));
     }
@@ -193,6 +197,12 @@ export function createApp(deps: AppDeps): App {
   const revocations = inProcessRevocations();
   const media = createMediaServices({ config, db, mailer, logger, clock, store: deps.store, brands });
   const { store, processing, clips, assessments, measures, annotations, follow, stills, summaries, annotatedClips } = media;
+  // Partial resumable uploads survive restarts; those left unwritten past the configured age go.
+  const resumable = resumableUploads({ dir: resumableUploadDir(config.uploadsDir), maxBytes: config.uploadMaxBytes, clips, logger });
+  void resumable
+    .sweep(config.resumableUploadMaxAgeMs)
+    .catch((err: Error) => logger.warn({ err: err.message }, 'resumable upload sweep failed'));
+  const resumableSweep = resumable.startSweeping({ everyMs: UPLOAD_TEMP_SWEEP.everyMs, maxAgeMs: config.resumableUploadMaxAgeMs });
   const exercises = exercisesService({ db, clock });
   const plans = plansService({ db, clock });
   const worker = config.runWorker
@@ -226,6 +236,7 @@ export function createApp(deps: AppDeps): App {
   api.use(assessmentsRoutes(assessments));
   api.use(processingEventsRoutes({ db, processing, relay, revocations }));
   api.use(clipsRoutes({ db, clips, store, temps, logger, uploadMaxBytes: config.uploadMaxBytes }));
+  api.use(clipUploadsRoutes({ clips, uploads: resumable, uploadMaxBytes: config.uploadMaxBytes }));
   api.use(annotationsRoutes(annotations));
   api.use(followRoutes(follow));
   api.use(measuresRoutes({ db, measures }));
@@ -255,6 +266,7 @@ export function createApp(deps: AppDeps): App {
     clearExpiredSessions: sessions.clearExpired,
     async close() {
       clearInterval(tempSweep);
+      clearInterval(resumableSweep);
       relay.stop();
       await worker?.stop();
       await sessions.close();

@@ -48,6 +48,8 @@ export interface Config {
   resetTtlMinutes: number;
   /** Largest accepted upload, bytes. */
   uploadMaxBytes: number;
+  /** How long a resumable upload may go unwritten before its partial file is removed, ms. */
+  resumableUploadMaxAgeMs: number;
   jobs: {
     /**
      * Processed items one worker runs at once: one per core by default (at most 4), so two clips
@@ -94,6 +96,11 @@ const EnvSchema = z.object({
   RESET_REQUESTS: z.coerce.number().int().min(1).default(5),
   RATE_WINDOW_MINUTES: z.coerce.number().int().min(1).default(15),
   UPLOAD_MAX_MB: z.coerce.number().int().min(1).max(20_000).default(2048),
+  RESUMABLE_UPLOAD_MAX_AGE_HOURS: z.coerce
+    .number()
+    .min(0.01)
+    .max(24 * 30)
+    .default(24),
   WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(16).optional(),
   WORKER_POLL_MS: z.coerce.number().int().min(20).max(60_000).default(500),
   JOB_LEASE_SECONDS: z.coerce.number().min(1).default(30),
@@ -155,6 +162,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     invitationTtlHours: 7 * 24,
     resetTtlMinutes: 60,
     uploadMaxBytes: e.UPLOAD_MAX_MB * 1024 * 1024,
+    resumableUploadMaxAgeMs: Math.round(e.RESUMABLE_UPLOAD_MAX_AGE_HOURS * 3_600_000),
     jobs: {
       concurrency: e.WORKER_CONCURRENCY ?? Math.max(1, Math.min(4, os.availableParallelism())),
       leaseMs: e.JOB_LEASE_SECONDS * 1000,

@@ -7,6 +7,15 @@ export function uploadTempDir(uploadsDir: string): string {
   return path.join(uploadsDir, 'tmp');
 }
 
+/**
+ * The folder of resumable uploads' partial files (`uploads/tmp/resumable`): each upload's bytes so
+ * far (`<id>`) beside its details (`<id>.json`). They outlive a restart (the start-up sweep of
+ * `*.upload` files leaves them), so an upload resumes where it stopped; abandoned ones go by age.
+ */
+export function resumableUploadDir(uploadsDir: string): string {
+  return path.join(uploadTempDir(uploadsDir), 'resumable');
+}
+
 /** Suffix of an upload's temp file (`<uuid>.upload`); nothing else in the folder is swept. */
 export const UPLOAD_TEMP_SUFFIX = '.upload';
 

@@ -1,19 +1,23 @@
 /**
- * Benchmark: peak resident memory of the server while it receives a 500 MB upload.
- * Target: peak RSS ≤ 150 MB (multer streams to disk; nothing is buffered in memory).
- * Prints the idle RSS and the peak RSS measured side by side in one run, and their ratio.
+ * Benchmark: peak resident memory of the server while it receives a 1 GB clip, as a resumable
+ * upload (tus PATCH, streamed to its partial file) and as a one-request multipart upload (multer,
+ * streamed to a temp file). Target: peak RSS ≤ 150 MB for each; nothing is buffered in memory.
+ * Prints the idle RSS and each path's peak RSS measured side by side in one run (the kernel's
+ * peak is reset between them), with the server's CPU time per path.
  * Run: npx tsx test/bench/upload-rss.ts [sizeMB]
  */
 import { spawn } from 'node:child_process';
 import fs from 'node:fs';
+import http from 'node:http';
 import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import { createDb, migrate } from '../../server/db/knex';
 import { DEMO_SIGN_INS, seed } from '../../seeds/demo-scenario';
 import { buildServer, SERVER_BUNDLE } from '../../scripts/build-server';
+import { cpuSeconds } from './support/bench-server';
 
-const sizeMb = Number(process.argv[2] ?? 500);
+const sizeMb = Number(process.argv[2] ?? 1024);
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'tf-bench-rss-'));
 const [, coach] = DEMO_SIGN_INS;
 
@@ -44,6 +48,7 @@ const server = spawn(process.execPath, [SERVER_BUNDLE], {
     UPLOADS_DIR: path.join(dir, 'uploads'),
     CLIENT_DIR: '',
     FAKE_SMTP_PORT: '0',
+    DEMO_INBOX_PORT: '0',
     LOG_LEVEL: 'warn',
   },
 });
@@ -98,35 +103,82 @@ try {
     })
   ).json()) as { id: number };
 
-  // A sparse 500 MB file that starts like an MP4 (it is refused after it arrives: the receive is what is measured).
+  // A sparse file that starts like an MP4 (it is refused after it arrives: the receive is what is measured).
   const file = path.join(dir, 'big.mp4');
   const fd = fs.openSync(file, 'w');
   fs.writeSync(fd, Buffer.from('000000186674797069736f6d0000020069736f6d69736f32', 'hex'));
   fs.ftruncateSync(fd, sizeMb * 1024 * 1024);
   fs.closeSync(fd);
+  const size = fs.statSync(file).size;
 
   const idle = rssKb(server.pid!, 'VmRSS');
-  let peak = idle;
-  const sampler = setInterval(() => {
-    try {
-      peak = Math.max(peak, rssKb(server.pid!, 'VmRSS'));
-    } catch {
-      /* exited */
-    }
-  }, 20);
-  const form = new FormData();
-  form.append('file', await fs.openAsBlob(file), 'big.mp4');
-  const t0 = performance.now();
-  const res = await fetch(`${base}/api/assessments/${assessment.id}/clips`, { method: 'POST', headers: headers(), body: form });
-  const seconds = (performance.now() - t0) / 1000;
-  clearInterval(sampler);
-  peak = Math.max(peak, rssKb(server.pid!, 'VmHWM'));
-  console.log(`upload of ${sizeMb} MB: HTTP ${res.status} in ${seconds.toFixed(1)} s (${(sizeMb / seconds).toFixed(0)} MB/s)`);
-  console.log(`server RSS idle: ${(idle / 1024).toFixed(1)} MB`);
-  console.log(
-    `server RSS peak while receiving: ${(peak / 1024).toFixed(1)} MB (target ≤ 150 MB: ${peak / 1024 <= 150 ? 'met' : 'NOT met'})`,
-  );
-  console.log(`ratio peak / idle: ${(peak / idle).toFixed(2)}; ratio peak / target: ${(peak / 1024 / 150).toFixed(2)}`);
+  /** Peak RSS (kB), CPU seconds and wall seconds of the server while `send` runs. */
+  async function measure(send: () => Promise<number>): Promise<{ status: number; peakKb: number; cpu: number; seconds: number }> {
+    // Resets the kernel's high-water mark, so each path's peak is its own.
+    fs.writeFileSync(`/proc/${server.pid}/clear_refs`, '5');
+    let peak = rssKb(server.pid!, 'VmRSS');
+    const sampler = setInterval(() => {
+      try {
+        peak = Math.max(peak, rssKb(server.pid!, 'VmRSS'));
+      } catch {
+        /* exited */
+      }
+    }, 20);
+    const cpu0 = cpuSeconds(server.pid!);
+    const t0 = performance.now();
+    const status = await send();
+    const seconds = (performance.now() - t0) / 1000;
+    clearInterval(sampler);
+    return { status, peakKb: Math.max(peak, rssKb(server.pid!, 'VmHWM')), cpu: cpuSeconds(server.pid!) - cpu0, seconds };
+  }
+
+  // Resumable: create, then one PATCH streaming the file from disk.
+  const tus = await measure(async () => {
+    const created = await fetch(`${base}/api/assessments/${assessment.id}/clip-uploads`, {
+      method: 'POST',
+      headers: { ...headers(), 'tus-resumable': '1.0.0', 'upload-length': String(size) },
+    });
+    if (created.status !== 201) throw new Error(`tus create: ${created.status} ${await created.text()}`);
+    const url = new URL(created.headers.get('location')!, base);
+    return new Promise<number>((resolve, reject) => {
+      const req = http.request(url, {
+        method: 'PATCH',
+        headers: {
+          ...headers(),
+          'tus-resumable': '1.0.0',
+          'upload-offset': '0',
+          'content-type': 'application/offset+octet-stream',
+          'content-length': String(size),
+        },
+      });
+      req.on('response', (res) => {
+        res.resume();
+        res.on('end', () => resolve(res.statusCode ?? 0));
+      });
+      req.on('error', reject);
+      fs.createReadStream(file).pipe(req);
+    });
+  });
+
+  const multipart = await measure(async () => {
+    const form = new FormData();
+    form.append('file', await fs.openAsBlob(file), 'big.mp4');
+    const res = await fetch(`${base}/api/assessments/${assessment.id}/clips`, { method: 'POST', headers: headers(), body: form });
+    return res.status;
+  });
+
+  const mb = (kb: number) => `${(kb / 1024).toFixed(1)} MB`;
+  console.log(`server RSS idle: ${mb(idle)}`);
+  for (const [name, r] of [
+    ['resumable (tus PATCH)', tus],
+    ['one request (multipart)', multipart],
+  ] as const) {
+    console.log(
+      `${name}: ${sizeMb} MB → HTTP ${r.status} (refused after arrival: not a real video) in ${r.seconds.toFixed(1)} s, ` +
+        `server CPU ${r.cpu.toFixed(2)} s (${((r.cpu / sizeMb) * 1000).toFixed(1)} ms per MB); ` +
+        `peak RSS ${mb(r.peakKb)} (target ≤ 150 MB: ${r.peakKb / 1024 <= 150 ? 'met' : 'NOT met'}; peak/idle ${(r.peakKb / idle).toFixed(2)}, peak/target ${(r.peakKb / 1024 / 150).toFixed(2)})`,
+    );
+  }
 } finally {
   server.kill('SIGTERM');
   fs.rmSync(dir, { recursive: true, force: true });

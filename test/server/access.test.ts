@@ -69,7 +69,7 @@ interface Access {
 }
 
 interface RouteCase {
-  method: 'get' | 'post' | 'put' | 'patch' | 'delete';
+  method: 'get' | 'post' | 'put' | 'patch' | 'delete' | 'head';
   /** Express path pattern as mounted, for the completeness check. */
   pattern: string;
   path: (c: Ctx) => string;
@@ -82,6 +82,8 @@ interface RouteCase {
   before?: () => Promise<void>;
   /** Server-sent events: only the status line is read. */
   stream?: boolean;
+  /** Request headers beyond the session's (e.g. the tus protocol's). */
+  headers?: Record<string, string>;
 }
 
 const intake = {
@@ -395,6 +397,43 @@ const ROUTES: RouteCase[] = [
     path: (c) => `/api/assessments/${c.otherAssessmentId}/clips`,
     body: () => ({}),
     access: { action: 'clip:upload', on: 'teammate', ok: 422 },
+  },
+  // Resumable uploads: creation passes the gate (201); an upload answers only the coach who created it.
+  {
+    method: 'post',
+    pattern: '/api/assessments/:id/clip-uploads',
+    path: (c) => `/api/assessments/${c.assessmentId}/clip-uploads`,
+    headers: { 'Tus-Resumable': '1.0.0', 'Upload-Length': '1000' },
+    access: { action: 'clip:upload', on: 'self', ok: 201 },
+  },
+  {
+    method: 'post',
+    pattern: '/api/assessments/:id/clip-uploads',
+    path: (c) => `/api/assessments/${c.otherAssessmentId}/clip-uploads`,
+    headers: { 'Tus-Resumable': '1.0.0', 'Upload-Length': '1000' },
+    access: { action: 'clip:upload', on: 'teammate', ok: 201 },
+  },
+  {
+    method: 'head',
+    pattern: '/api/assessments/:id/clip-uploads/:uploadId',
+    path: (c) => `/api/assessments/${c.assessmentId}/clip-uploads/${uc.uploadId}`,
+    headers: { 'Tus-Resumable': '1.0.0' },
+    access: { action: 'clip:upload', on: 'self', ok: 200, also: { athleteSelf: 404, owner: 404 } },
+  },
+  {
+    method: 'patch',
+    pattern: '/api/assessments/:id/clip-uploads/:uploadId',
+    path: (c) => `/api/assessments/${c.assessmentId}/clip-uploads/${uc.uploadId}`,
+    headers: { 'Tus-Resumable': '1.0.0', 'Upload-Offset': '0', 'Content-Type': 'application/offset+octet-stream' },
+    access: { action: 'clip:upload', on: 'self', ok: 204, also: { athleteSelf: 404, owner: 404 } },
+  },
+  {
+    method: 'delete',
+    pattern: '/api/assessments/:id/clip-uploads/:uploadId',
+    path: (c) => `/api/assessments/${c.assessmentId}/clip-uploads/${uc.scratchUploadId}`,
+    headers: { 'Tus-Resumable': '1.0.0' },
+    before: () => scratchUpload(),
+    access: { action: 'clip:upload', on: 'self', ok: 204, also: { athleteSelf: 404, owner: 404 } },
   },
   {
     method: 'get',
@@ -1242,6 +1281,7 @@ beforeAll(async () => {
   await sharingFixtures();
   await demoFixtures();
   await annotatedClipFixtures();
+  uc.uploadId = await coachUpload();
   server = http.createServer(t.app).listen(0, '127.0.0.1');
 });
 afterAll(async () => {
@@ -1271,9 +1311,11 @@ describe('access walk: every route × every caller', () => {
           expect(await streamStatus(c, path)).toBe(status);
           return;
         }
-        const res = route.method === 'get' ? await c.get(path) : await c.send(route.method, path, route.body?.(ctx));
+        const res = route.method === 'get' ? await c.get(path) : await c.send(route.method, path, route.body?.(ctx), route.headers);
         expect(res.status, JSON.stringify(res.body)).toBe(status);
-        if (res.status >= 400) expect(res.body.error).toMatchObject({ code: expect.any(String), message: expect.any(String) });
+        // (A HEAD answer has no body.)
+        if (res.status >= 400 && route.method !== 'head')
+          expect(res.body.error).toMatchObject({ code: expect.any(String), message: expect.any(String) });
       });
     }
   }
@@ -1295,6 +1337,23 @@ describe('access walk: every route × every caller', () => {
     expect(wrong).toEqual([]);
   });
 });
+
+// ─── Resumable upload fixtures ────────────────────────────────────────────────────────────
+
+const uc = { uploadId: '', scratchUploadId: '' };
+
+/** A resumable upload of 1000 bytes the coach created on the self athlete's assessment; its id. */
+async function coachUpload(): Promise<string> {
+  const res = await coachClient.send('post', `/api/assessments/${ctx.assessmentId}/clip-uploads`, undefined, {
+    'Tus-Resumable': '1.0.0',
+    'Upload-Length': '1000',
+  });
+  return String(res.headers['location']).split('/').pop()!;
+}
+
+async function scratchUpload(): Promise<void> {
+  uc.scratchUploadId = await coachUpload();
+}
 
 // ─── Staff fixtures ───────────────────────────────────────────────────────────────────────
 

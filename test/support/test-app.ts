@@ -242,9 +242,9 @@ export class Client {
       });
   }
 
-  async send(method: 'post' | 'put' | 'patch' | 'delete', path: string, body?: unknown) {
+  async send(method: 'post' | 'put' | 'patch' | 'delete' | 'head', path: string, body?: unknown, headers: Record<string, string> = {}) {
     const token = await this.csrf();
-    const req = this.agent[method](path).set('X-XSRF-TOKEN', token);
+    const req = this.agent[method](path).set('X-XSRF-TOKEN', token).set(headers);
     const res = body === undefined ? await req : await req.send(body as object);
     const cookie = ([] as string[]).concat(res.headers['set-cookie'] ?? []).find((c) => c.startsWith('XSRF-TOKEN='));
     if (cookie) this.token = decodeURIComponent(cookie.split(';')[0]!.slice('XSRF-TOKEN='.length));

@@ -1,11 +1,8 @@
-import { HttpClient, HttpEventType, HttpRequest, HttpResponse } from '@angular/common/http';
+import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { Observable, filter, map } from 'rxjs';
+import { Observable, map } from 'rxjs';
 import type { Assessment, AssessmentDetail, AssessmentWrite, Clip, ClipUpdate } from '../../../contracts/api';
 import { skipErrorSnackbar } from '../http-context';
-
-/** What an upload reports: bytes sent so far, then the clip the server created. */
-export type UploadEvent = { type: 'progress'; loaded: number; total: number } | { type: 'done'; clip: Clip };
 
 /**
  * HTTP for assessments and clips. Loads report failures through the page's error state, forms
@@ -40,29 +37,6 @@ export class AssessmentsApi {
   /** Deletes the assessment with its clips and their files. */
   delete(id: number): Observable<void> {
     return this.http.delete<void>(`/api/assessments/${id}`);
-  }
-
-  /**
-   * Uploads one file as a clip of the assessment (multipart, field `file`). Emits upload
-   * progress, then the created clip, then completes. Unsubscribing cancels the upload. Errors
-   * (409 no consent, 413 too large, 422 not a video…) come out as the `HttpErrorResponse`.
-   */
-  uploadClip(assessmentId: number, file: File): Observable<UploadEvent> {
-    const body = new FormData();
-    body.append('file', file, file.name);
-    const request = new HttpRequest('POST', `/api/assessments/${assessmentId}/clips`, body, {
-      reportProgress: true,
-      context: skipErrorSnackbar(),
-    });
-    return this.http.request<Clip>(request).pipe(
-      filter((e) => e.type === HttpEventType.UploadProgress || e.type === HttpEventType.Response),
-      map((e): UploadEvent => {
-        if (e.type === HttpEventType.UploadProgress) {
-          return { type: 'progress', loaded: e.loaded, total: e.total ?? file.size };
-        }
-        return { type: 'done', clip: (e as HttpResponse<Clip>).body as Clip };
-      }),
-    );
   }
 
   getClip(id: number): Observable<Clip> {

@@ -25,6 +25,10 @@ export interface UploadItem {
   message: string | null;
   /** The clip the server created. */
   clipId: number | null;
+  /** Whether the connection dropped and the upload is being retried from what the server holds. */
+  reconnecting: boolean;
+  /** Whether this upload continues one begun earlier (before a reload, or a cancelled page). */
+  resumed: boolean;
 }
 
 const EXTENSIONS = UPLOAD.accept
@@ -74,6 +78,8 @@ export function addFiles(
       total: file.size,
       message: problem,
       clipId: null,
+      reconnecting: false,
+      resumed: false,
     };
   });
   return { items: [...items, ...added], nextId: nextId + files.length };
@@ -95,7 +101,22 @@ export function nextToStart(items: readonly UploadItem[]): UploadItem | null {
 }
 
 export function markStarted(items: readonly UploadItem[], id: number): UploadItem[] {
-  return update(items, id, ['waiting'], () => ({ state: 'uploading', loaded: 0, message: null }));
+  return update(items, id, ['waiting'], () => ({ state: 'uploading', loaded: 0, message: null, reconnecting: false, resumed: false }));
+}
+
+/** The connection dropped: the upload waits to retry from what the server holds. */
+export function markReconnecting(items: readonly UploadItem[], id: number): UploadItem[] {
+  return update(items, id, ['uploading'], () => ({ reconnecting: true }));
+}
+
+/** The server answers again after a lost connection. */
+export function markReconnected(items: readonly UploadItem[], id: number): UploadItem[] {
+  return update(items, id, ['uploading'], () => ({ reconnecting: false }));
+}
+
+/** The upload continues one begun earlier with the same file. */
+export function markResumed(items: readonly UploadItem[], id: number): UploadItem[] {
+  return update(items, id, ['uploading'], () => ({ resumed: true }));
 }
 
 export function markProgress(items: readonly UploadItem[], id: number, loaded: number, total: number): UploadItem[] {
@@ -153,7 +174,8 @@ export function uploadStatusText(item: UploadItem): string {
     case 'waiting':
       return 'Waiting to upload';
     case 'uploading':
-      return `Uploading… ${uploadPercent(item)} %`;
+      if (item.reconnecting) return `Connection lost — reconnecting… (${uploadPercent(item)} % kept)`;
+      return item.resumed ? `Resuming… ${uploadPercent(item)} %` : `Uploading… ${uploadPercent(item)} %`;
     case 'done':
       return 'Uploaded — processing shown below';
     case 'failed':
@@ -174,7 +196,7 @@ export function uploadErrorMessage(err: unknown): string {
   if (typeof serverMessage === 'string' && serverMessage.trim()) return serverMessage;
   switch (http?.status) {
     case 0:
-      return "The upload was interrupted: can't reach the server. Check the connection and try again.";
+      return "The upload was interrupted: can't reach the server. What was sent is kept: try again (or choose the same file) to continue.";
     case 409:
       return 'Video consent is needed before clips can be uploaded.';
     case 413:

@@ -5,7 +5,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { Subscription } from 'rxjs';
 import type { Clip } from '../../../../contracts/api';
 import { UPLOAD } from '../../../../contracts/assessment';
-import { AssessmentsApi } from '../../../core/data/assessments-api';
+import { ResumableClipUploads } from '../../../core/data/resumable-clip-uploads';
 import { formatBytes } from '../../../shared/clip-status';
 import { ConfigStore } from '../../../core/config-store';
 import {
@@ -18,6 +18,9 @@ import {
   markDone,
   markFailed,
   markProgress,
+  markReconnected,
+  markReconnecting,
+  markResumed,
   markStarted,
   nextToStart,
   removeItem,
@@ -38,7 +41,9 @@ const STATE_ICONS: Record<UploadState, string> = {
 /**
  * Adds clips to an assessment: "Record with camera" (opens the phone's camera), "Choose files"
  * (several at once) and drag-and-drop on a desktop. Every chosen file gets a row with its own
- * progress; files go one request each, one after another. Emits each clip the server created.
+ * progress; files go one after another as resumable uploads: a dropped connection shows
+ * "reconnecting" and continues from what the server holds, and the same file chosen again after a
+ * reload continues where it stopped. Emits each clip the server created.
  */
 @Component({
   selector: 'app-clip-uploader',
@@ -53,7 +58,7 @@ const STATE_ICONS: Record<UploadState, string> = {
   },
 })
 export class ClipUploader {
-  private readonly api = inject(AssessmentsApi);
+  private readonly uploads = inject(ResumableClipUploads);
   private readonly config = inject(ConfigStore);
 
   readonly assessmentId = input.required<number>();
@@ -72,7 +77,7 @@ export class ClipUploader {
   protected readonly statusText = uploadStatusText;
 
   private nextId = 1;
-  private active: { id: number; subscription: Subscription } | null = null;
+  private active: { id: number; subscription: Subscription; discard(): void } | null = null;
   private dragDepth = 0;
 
   constructor() {
@@ -129,6 +134,7 @@ export class ClipUploader {
 
   protected cancel(id: number): void {
     if (this.active?.id === id) {
+      this.active.discard();
       this.active.subscription.unsubscribe();
       this.active = null;
     }
@@ -156,19 +162,31 @@ export class ClipUploader {
     const id = next.id;
     this.items.update((list) => markStarted(list, id));
     const subscription = new Subscription();
-    this.active = { id, subscription };
+    const upload = this.uploads.upload(this.assessmentId(), next.file);
+    this.active = { id, subscription, discard: upload.discard };
     const finished = () => {
       if (this.active?.id === id) this.active = null;
       this.pump();
     };
     subscription.add(
-      this.api.uploadClip(this.assessmentId(), next.file).subscribe({
+      upload.events.subscribe({
         next: (event) => {
-          if (event.type === 'progress') {
-            this.items.update((list) => markProgress(list, id, event.loaded, event.total));
-          } else {
-            this.items.update((list) => markDone(list, id, event.clip));
-            this.uploaded.emit(event.clip);
+          switch (event.type) {
+            case 'progress':
+              this.items.update((list) => markProgress(list, id, event.loaded, event.total));
+              break;
+            case 'reconnecting':
+              this.items.update((list) => markReconnecting(list, id));
+              break;
+            case 'reconnected':
+              this.items.update((list) => markReconnected(list, id));
+              break;
+            case 'resumed':
+              this.items.update((list) => markResumed(list, id));
+              break;
+            case 'done':
+              this.items.update((list) => markDone(list, id, event.clip));
+              this.uploaded.emit(event.clip);
           }
         },
         error: (err: unknown) => {

@@ -1,0 +1,101 @@
+import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
+import { AppError, NotFoundError, ValidationError } from '../errors';
+import { currentUser } from '../http/access';
+import { idParam } from '../http/validate';
+import { permit } from '../policy/enforce';
+import { tooLarge, type ClipsService } from './clips-service';
+import type { ResumableUploads, UploadOwner, UploadRequestContext } from './resumable-uploads';
+
+export interface ClipUploadsRoutesDeps {
+  clips: ClipsService;
+  uploads: ResumableUploads;
+  uploadMaxBytes: number;
+}
+
+const COLLECTION = '/assessments/:id/clip-uploads';
+const ONE = '/assessments/:id/clip-uploads/:uploadId';
+
+/**
+ * Resumable clip uploads (tus 1.0.0): POST creates an upload of a declared length, HEAD answers
+ * its offset, PATCH continues from it, DELETE abandons it. Every request passes the same gate as
+ * a one-request upload (sign-in, CSRF, the access policy's `clip:upload`, video consent); HEAD,
+ * PATCH and DELETE also reach only uploads this user created for this assessment (404 otherwise).
+ */
+export function clipUploadsRoutes(d: ClipUploadsRoutesDeps): Router {
+  const router = Router();
+
+  /** Access and consent, then the protocol version. */
+  async function checked(req: Request): Promise<UploadRequestContext> {
+    const user = currentUser(req);
+    const assessmentId = idParam(req.params, 'Assessment');
+    await d.clips.beforeUpload(user, assessmentId);
+    if (req.headers['tus-resumable'] !== '1.0.0') {
+      throw new AppError(412, 'tus_version_required', 'Resumable uploads speak tus 1.0.0: send the header Tus-Resumable: 1.0.0.');
+    }
+    return { user, assessmentId };
+  }
+
+  /** The upload named in the path, when this user created it for this assessment; 404 otherwise. */
+  async function owned(req: Request): Promise<UploadRequestContext & { owner: UploadOwner }> {
+    const context = await checked(req);
+    const owner = await d.uploads.owner(String(req.params['uploadId']));
+    if (!owner || owner.assessmentId !== context.assessmentId || owner.userId !== context.user.id) throw new NotFoundError('Upload');
+    return { ...context, owner };
+  }
+
+  /** Runs the checks, then the protocol; a refusal made before the bytes are read closes the connection. */
+  const gate =
+    (check: (req: Request) => Promise<UploadRequestContext>): RequestHandler =>
+    async (req: Request, res: Response, next: NextFunction) => {
+      let context: UploadRequestContext;
+      try {
+        context = await check(req);
+      } catch (err) {
+        if (Number(req.headers['content-length'] ?? 0) > 0 && !req.readableEnded) res.setHeader('Connection', 'close');
+        return next(err);
+      }
+      await d.uploads.handle(req, res, context);
+    };
+
+  router.post(
+    COLLECTION,
+    permit('clip:upload'),
+    gate(async (req) => {
+      const context = await checked(req);
+      const declared = req.headers['upload-length'];
+      if (typeof declared !== 'string' || !/^\d{1,16}$/.test(declared)) {
+        throw new ValidationError('Declare the clip’s size in bytes in the Upload-Length header.', [
+          { path: ['Upload-Length'], message: 'A whole number of bytes is required.' },
+        ]);
+      }
+      const length = Number(declared);
+      if (length === 0) {
+        throw new ValidationError('This file is empty (0 bytes). Choose the video file itself.', [
+          { path: ['Upload-Length'], message: 'The clip is empty.' },
+        ]);
+      }
+      if (length > d.uploadMaxBytes) throw tooLarge(d.uploadMaxBytes);
+      return context;
+    }),
+  );
+  router.head(ONE, permit('clip:upload'), async (req, res, next) => {
+    const context = await owned(req);
+    const { finished } = context.owner;
+    if (!finished) {
+      await gate(async () => context)(req, res, next);
+      return;
+    }
+    // Accepted already (its answer may have been lost): complete, so the client does not send it again.
+    res.set({
+      'Tus-Resumable': '1.0.0',
+      'Upload-Offset': String(finished.size),
+      'Upload-Length': String(finished.size),
+      'Trailframe-Clip-Id': String(finished.clipId),
+    });
+    res.status(200).end();
+  });
+  router.patch(ONE, permit('clip:upload'), gate(owned));
+  router.delete(ONE, permit('clip:upload'), gate(owned));
+
+  return router;
+}

@@ -1,0 +1,239 @@
+import fs from 'node:fs';
+import type { IncomingMessage, ServerResponse } from 'node:http';
+import type { Request, Response } from 'express';
+import path from 'node:path';
+import { FileStore } from '@tus/file-store';
+import { Server, type Upload } from '@tus/server';
+import type { Logger } from 'pino';
+import type { SessionUser } from '../../src/contracts/api';
+import { AppError } from '../errors';
+import type { ClipsService } from './clips-service';
+
+/** Who may write to an upload, recorded in its details at creation (never taken from the client). */
+export interface UploadOwner {
+  assessmentId: number;
+  userId: number;
+  /** Once accepted: the clip it became and its length (kept until swept, so a lost answer is not sent twice). */
+  finished: { clipId: number; size: number } | null;
+}
+
+/** What the route has checked about the request before the upload protocol takes over. */
+export interface UploadRequestContext {
+  user: SessionUser;
+  assessmentId: number;
+}
+
+export interface ResumableUploadsDeps {
+  /** Where partial files and their details live (`uploads/tmp/resumable`). */
+  dir: string;
+  maxBytes: number;
+  clips: ClipsService;
+  logger: Logger;
+}
+
+/**
+ * Resumable clip uploads over the tus protocol (`@tus/server` with `@tus/file-store`): the bytes
+ * stream to a partial file whose size is the offset a client resumes from, after a dropped
+ * connection or a server restart. The finished file goes through the same acceptance as a
+ * one-request upload ({@link ClipsService.acceptUpload}); whatever the outcome, the partial file
+ * and its details are removed then.
+ */
+export interface ResumableUploads {
+  /** Hands a request that the route has checked (access, consent, ownership) to the protocol. */
+  handle(req: Request, res: Response, context: UploadRequestContext): Promise<void>;
+  /** Who created the upload `id`, or null when there is no such upload (or its id is malformed). */
+  owner(id: string): Promise<UploadOwner | null>;
+  /** Removes partial uploads not written for `olderThanMs` (0: all not in flight). Returns their ids. */
+  sweep(olderThanMs: number): Promise<string[]>;
+  /** Sweeps by age every `everyMs`; the timer does not keep the process alive. */
+  startSweeping(opts: { everyMs: number; maxAgeMs: number }): NodeJS.Timeout;
+}
+
+/** Upload ids as `@tus/server` names them: 16 random bytes in hex. */
+const UPLOAD_ID = /^[0-9a-f]{32}$/;
+const JSON_TYPE = 'application/json; charset=utf-8';
+
+/** The Node request behind the web request the protocol library hands to its hooks. */
+type HookRequest = { runtime?: { node?: { req: IncomingMessage; res: ServerResponse } } };
+const nodeOf = (req: unknown) => (req as HookRequest).runtime?.node;
+
+/** Our error shape for an answer the protocol sends. */
+function errorBody(code: string, message: string, details?: unknown): string {
+  return JSON.stringify({ error: details === undefined ? { code, message } : { code, message, details } });
+}
+
+/** Codes for the protocol's own refusals, by status. */
+const PROTOCOL_CODES: Record<number, string> = {
+  400: 'bad_upload',
+  403: 'forbidden',
+  404: 'not_found',
+  409: 'upload_offset_mismatch',
+  410: 'upload_gone',
+  412: 'tus_version_required',
+  413: 'file_too_large',
+  415: 'unsupported_media_type',
+  423: 'upload_locked',
+  460: 'upload_checksum_mismatch',
+};
+
+export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
+  const contexts = new WeakMap<IncomingMessage, UploadRequestContext>();
+  /** Uploads with a request in progress (never swept). */
+  const inFlight = new Map<string, number>();
+  let server: Server | null = null;
+  let datastore: FileStore | null = null;
+
+  const partPath = (id: string) => path.join(d.dir, id);
+  const detailsPath = (id: string) => path.join(d.dir, `${id}.json`);
+  async function removeParts(id: string): Promise<void> {
+    await fs.promises.rm(partPath(id), { force: true });
+    await fs.promises.rm(detailsPath(id), { force: true });
+  }
+
+  const contextOf = (req: unknown): UploadRequestContext => {
+    const node = nodeOf(req);
+    const context = node && contexts.get(node.req);
+    if (!context) throw new Error('resumable upload request without a checked context');
+    return context;
+  };
+
+  /** Made on first use, so the folder exists only once someone uploads this way. */
+  function tus(): Server {
+    if (server) return server;
+    fs.mkdirSync(d.dir, { recursive: true });
+    datastore = new FileStore({ directory: d.dir });
+    server = new Server({
+      // Routes pass requests with the /api prefix stripped; the Location header is built below.
+      path: '/assessments',
+      datastore,
+      maxSize: d.maxBytes,
+      // Same origin only: no CORS headers beyond the protocol's own.
+      allowedOrigins: [],
+      generateUrl: (req, { id }) => `/api/assessments/${contextOf(req).assessmentId}/clip-uploads/${id}`,
+      getFileIdFromRequest: (_req, lastPath) => (lastPath && UPLOAD_ID.test(lastPath) ? lastPath : undefined),
+      async onUploadCreate(req, upload) {
+        const { user, assessmentId } = contextOf(req);
+        const metadata = { ...(upload.metadata ?? {}), assessmentId: String(assessmentId), userId: String(user.id) };
+        return { metadata };
+      },
+      async onUploadFinish(req, upload) {
+        const { user, assessmentId } = contextOf(req);
+        try {
+          const clip = await d.clips.acceptUpload(user, assessmentId, {
+            path: partPath(upload.id),
+            originalname: uploadName(upload),
+            size: upload.size ?? upload.offset,
+          });
+          await fs.promises.rm(partPath(upload.id), { force: true });
+          // What stays until the sweep: who it was for and the clip it became, so a client whose
+          // answer was lost learns from HEAD that it is complete instead of sending it again.
+          const finished = { size: upload.size ?? upload.offset, clipId: clip.id };
+          await fs.promises.writeFile(detailsPath(upload.id), JSON.stringify({ id: upload.id, metadata: upload.metadata, finished }));
+          return { status_code: 200, headers: { 'Content-Type': JSON_TYPE }, body: JSON.stringify(clip) };
+        } catch (err) {
+          await removeParts(upload.id);
+          // Answered here rather than thrown, so the refusal carries our JSON content type.
+          if (!(err instanceof AppError) || err.status >= 500) throw err;
+          return { status_code: err.status, headers: { 'Content-Type': JSON_TYPE }, body: errorBody(err.code, err.message, err.details) };
+        }
+      },
+      /** The protocol's refusals keep their status, with a body in our error shape. */
+      async onResponseError(req, err) {
+        if (err instanceof AppError) return { status_code: err.status, body: errorBody(err.code, err.message, err.details) };
+        if ('status_code' in err && err.status_code < 500) {
+          const code = PROTOCOL_CODES[err.status_code] ?? 'bad_upload';
+          return { status_code: err.status_code, body: errorBody(code, protocolMessage(err.status_code, err.body)) };
+        }
+        d.logger.error({ err, url: nodeOf(req)?.req.url }, 'resumable upload failed');
+        return { status_code: 500, body: errorBody('internal', 'Something went wrong on our side. The upload can be resumed.') };
+      },
+    });
+    return server;
+  }
+
+  async function sweep(olderThanMs: number): Promise<string[]> {
+    const names = await fs.promises.readdir(d.dir).catch(() => [] as string[]);
+    const ids = new Set(names.map((n) => n.replace(/\.json$/, '')).filter((id) => UPLOAD_ID.test(id)));
+    const removed: string[] = [];
+    const now = Date.now();
+    for (const id of ids) {
+      if (inFlight.has(id)) continue;
+      // The last write to the part (or, before any byte, the creation of its details).
+      const stats = await Promise.all([partPath(id), detailsPath(id)].map((f) => fs.promises.stat(f).catch(() => null)));
+      const lastWritten = Math.max(...stats.map((s) => s?.mtimeMs ?? 0));
+      if (now - lastWritten < olderThanMs) continue;
+      await removeParts(id);
+      removed.push(id);
+    }
+    return removed;
+  }
+
+  return {
+    async handle(req, res, context) {
+      contexts.set(req, context);
+      const id = /\/clip-uploads\/([0-9a-f]{32})$/.exec(req.path)?.[1];
+      if (id) inFlight.set(id, (inFlight.get(id) ?? 0) + 1);
+      try {
+        await tus().handle(req, res);
+      } finally {
+        if (id) {
+          const n = (inFlight.get(id) ?? 1) - 1;
+          if (n > 0) inFlight.set(id, n);
+          else inFlight.delete(id);
+        }
+      }
+    },
+
+    async owner(id) {
+      if (!UPLOAD_ID.test(id)) return null;
+      try {
+        const details = JSON.parse(await fs.promises.readFile(detailsPath(id), 'utf8')) as Pick<Upload, 'metadata'> & {
+          finished?: UploadOwner['finished'];
+        };
+        const assessmentId = Number(details.metadata?.['assessmentId']);
+        const userId = Number(details.metadata?.['userId']);
+        if (!Number.isInteger(assessmentId) || !Number.isInteger(userId)) return null;
+        return { assessmentId, userId, finished: details.finished ?? null };
+      } catch {
+        return null;
+      }
+    },
+
+    sweep,
+    startSweeping({ everyMs, maxAgeMs }) {
+      const timer = setInterval(() => {
+        sweep(maxAgeMs)
+          .then((ids) => ids.length && d.logger.info({ ids }, 'abandoned resumable uploads removed'))
+          .catch((err: Error) => d.logger.warn({ err: err.message }, 'resumable upload sweep failed'));
+      }, everyMs);
+      timer.unref();
+      return timer;
+    },
+  };
+}
+
+/** The client's file name from the upload's details (cleaned where the clip is made). */
+function uploadName(upload: Upload): string {
+  const name = upload.metadata?.['filename'];
+  return typeof name === 'string' && name.trim() ? name : 'clip';
+}
+
+/** The protocol's refusals in words. */
+function protocolMessage(status: number, body: string): string {
+  switch (status) {
+    case 409:
+      return 'The upload is at another offset than this request continues from: ask for the offset (HEAD) and continue from there.';
+    case 410:
+      return 'This upload is no longer kept. Start the upload again.';
+    case 412:
+      return 'Send the Tus-Resumable header (1.0.0).';
+    case 413:
+      return 'The bytes sent go past the upload’s declared length.';
+    case 415:
+      return 'Send the bytes as application/offset+octet-stream.';
+    case 423:
+      return 'Another request is writing to this upload; try again in a moment.';
+    default:
+      return body.trim() || 'The upload request could not be read.';
+  }
+}
