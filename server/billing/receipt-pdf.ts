@@ -1,6 +1,5 @@
-import PDFDocument from 'pdfkit';
 import { formatMinor, type InvoiceDetail, type PaymentMethod } from '../../src/contracts/billing';
-import { registerPdfFonts } from '../render/fonts';
+import { newPdfDocument } from '../render/fonts';
 import { drawLogoTopRight } from '../render/pdf-letterhead';
 import type { LogoImage } from '../clinic/clinic-brand';
 
@@ -39,9 +38,8 @@ const rate = (bp: number | null) => (bp === null ? '-' : `${(bp / 100).toFixed(b
  * the clinic's legal details, number, athlete, lines with tax per line, totals, when it was paid
  * and how (card, bank transfer or cash, with the owner's note), and a refund.
  */
-export function renderReceipt(inv: InvoiceDetail, logo: LogoImage | null = null): Promise<Buffer> {
-  const doc = new PDFDocument({ size: 'A4', margin: 56, info: { Title: `Receipt ${inv.number}`, Author: inv.clinicName } });
-  registerPdfFonts(doc);
+export async function renderReceipt(inv: InvoiceDetail, logo: LogoImage | null = null): Promise<Buffer> {
+  const doc = await newPdfDocument({ size: 'A4', margin: 56, info: { Title: `Receipt ${inv.number}`, Author: inv.clinicName } });
   const chunks: Buffer[] = [];
   doc.on('data', (c: Buffer) => chunks.push(c));
   const done = new Promise<Buffer>((resolve) => doc.on('end', () => resolve(Buffer.concat(chunks))));

@@ -1,5 +1,5 @@
 import { SMTPServer } from 'smtp-server';
-import { simpleParser, type AddressObject } from 'mailparser';
+import type { AddressObject } from 'mailparser';
 import type { Db } from '../db/knex';
 
 /** A running fake SMTP receiver. */
@@ -20,7 +20,9 @@ export async function startFakeSmtp(db: Db, port: number): Promise<FakeSmtp> {
     logger: false,
     size: 5 * 1024 * 1024,
     onData(stream, _session, callback) {
-      simpleParser(stream)
+      // mailparser (and its charset tables) loads with the first message, not with the server.
+      import('mailparser')
+        .then(({ simpleParser }) => simpleParser(stream))
         .then(async (mail) => {
           await db('mailbox_messages').insert({
             to_address: addressText(mail.to),

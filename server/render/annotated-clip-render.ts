@@ -1,6 +1,6 @@
 import { rename, rm } from 'node:fs/promises';
 import path from 'node:path';
-import { createCanvas, loadImage, type Image } from '@napi-rs/canvas';
+import type { Image } from '@napi-rs/canvas';
 import type { AngleGauge, GaitEventMark, FrameLandmarks } from '../../src/contracts/annotations';
 import type { Direction, Side } from '../../src/contracts/assessment';
 import {
@@ -13,7 +13,7 @@ import { STILL_CAUTION_LINE, type StillRect } from '../../src/contracts/sharing'
 import { GAIT_EVENT_LABELS } from '../../src/contracts/annotations';
 import { drawOverlay, landmarkFill, slowMotionTiming, type Canvas2DLike, type LandmarkFill } from '../../src/kinematics';
 import { startH264Encoder } from '../media/encode-h264';
-import { CANVAS_FONT_FAMILY, registerCanvasFonts } from './fonts';
+import { CANVAS_FONT_FAMILY, loadCanvas } from './fonts';
 import { PANEL_GAP, clipSizes } from './annotated-clip-layout';
 import { wrapText } from './still-render';
 
@@ -120,7 +120,7 @@ function eventsShown(events: readonly GaitEventMark[], frame: number, hold: numb
  * (`landmarkFill`); a frame showing interpolated landmarks says so in its heading.
  */
 export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Promise<AnnotatedClipRenderOutput> {
-  registerCanvasFonts();
+  const { createCanvas, loadImage } = await loadCanvas();
   const { panels, steps } = input;
   if (panels.length === 0) throw new RangeError('An annotated clip needs at least one clip.');
   if (steps.length === 0) throw new RangeError('An annotated clip needs at least one frame.');

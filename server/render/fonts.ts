@@ -1,6 +1,6 @@
 import { createRequire } from 'node:module';
 import path from 'node:path';
-import { GlobalFonts } from '@napi-rs/canvas';
+import type * as NapiCanvas from '@napi-rs/canvas';
 
 /**
  * The shipped Source Sans 3 faces for server-side rendering: @napi-rs/canvas stills use the web
@@ -39,16 +39,36 @@ export const PDF_FONT_FILES = {
 /** The CSS family name the overlay asks for (matches `DEFAULT_OVERLAY_FONT`). */
 export const CANVAS_FONT_FAMILY = 'Source Sans 3';
 
-let registered = false;
+let canvasModule: Promise<typeof NapiCanvas> | undefined;
 
-/** Registers the Source Sans 3 faces with @napi-rs/canvas once per process. */
-export function registerCanvasFonts(): void {
-  if (registered) return;
-  for (const file of Object.values(FONT_FILES)) GlobalFonts.registerFromPath(file, CANVAS_FONT_FAMILY);
-  registered = true;
+/**
+ * @napi-rs/canvas with the Source Sans 3 faces registered, loaded on first use: Skia stays out of the
+ * memory of a server that has drawn nothing yet (an idle web process, one receiving uploads).
+ */
+export function loadCanvas(): Promise<typeof NapiCanvas> {
+  canvasModule ??= import('@napi-rs/canvas').then((canvas) => {
+    for (const file of Object.values(FONT_FILES)) canvas.GlobalFonts.registerFromPath(file, CANVAS_FONT_FAMILY);
+    return canvas;
+  });
+  return canvasModule;
 }
 
 /** Registers the complete faces ({@link PDF_FONT_FILES}) on a pdfkit document as `regular`, `semibold`, `bold`, `italic`. */
 export function registerPdfFonts(doc: { registerFont(name: string, src: string): unknown }): void {
   for (const [name, file] of Object.entries(PDF_FONT_FILES)) doc.registerFont(name, file);
+}
+
+const importPdfKit = () => import('pdfkit');
+let pdfkitModule: ReturnType<typeof importPdfKit> | undefined;
+
+/**
+ * A new pdfkit document with the complete faces registered ({@link registerPdfFonts}); pdfkit and fontkit are
+ * loaded on first use, so a server that has printed nothing yet does not hold them.
+ */
+export async function newPdfDocument(options: PDFKit.PDFDocumentOptions): Promise<PDFKit.PDFDocument> {
+  pdfkitModule ??= importPdfKit();
+  const { default: PDFDocument } = await pdfkitModule;
+  const doc = new PDFDocument(options);
+  registerPdfFonts(doc);
+  return doc;
 }

@@ -1,9 +1,9 @@
-import { createCanvas, loadImage, type Image, type SKRSContext2D } from '@napi-rs/canvas';
+import type { Image, SKRSContext2D } from '@napi-rs/canvas';
 import type { AngleGauge, FrameLandmarks, ScaleBar } from '../../src/contracts/annotations';
 import type { Direction, Side } from '../../src/contracts/assessment';
 import { STILL_CAUTION_LINE, type StillLabel, type StillRect } from '../../src/contracts/sharing';
 import { drawOverlay, overlayLabelPositions, type Canvas2DLike, type OverlayOptions } from '../../src/kinematics';
-import { CANVAS_FONT_FAMILY, registerCanvasFonts } from './fonts';
+import { CANVAS_FONT_FAMILY, loadCanvas } from './fonts';
 
 /** One panel to render: a frame image and the overlay frozen with the still. */
 export interface StillPanelInput {
@@ -80,7 +80,7 @@ export function wrapText(ctx: Pick<SKRSContext2D, 'measureText'>, text: string, 
  * marker and label sizes follow the frame size exactly as in the review workspace at 100 %.
  */
 export async function renderStill(input: StillRenderInput): Promise<StillRenderOutput> {
-  registerCanvasFonts();
+  const { createCanvas, loadImage } = await loadCanvas();
   if (input.panels.length === 0) throw new Error('A still needs at least one panel.');
   const images: Image[] = [];
   for (const p of input.panels) images.push(await loadImage(p.image));

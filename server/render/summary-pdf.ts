@@ -1,9 +1,8 @@
-import PDFDocument from 'pdfkit';
 import type { ComparisonRow, Measure, ReferenceBand } from '../../src/contracts/measures';
 import { DEFAULT_REFERENCE_BANDS, findBand } from '../../src/kinematics/bands';
 import { thresholdText, verdictText } from '../../src/kinematics/comparison';
 import { bandRange, formatMeasure, formatValue } from '../../src/kinematics/format';
-import { registerPdfFonts } from './fonts';
+import { newPdfDocument } from './fonts';
 import { INK, MARGIN, MUTED, pdfLayout } from './pdf-layout';
 import { drawLogoTopRight } from './pdf-letterhead';
 import type { LogoImage } from '../clinic/clinic-brand';
@@ -110,13 +109,12 @@ export async function renderSummaryPdf(
 ): Promise<{ pdf: Buffer; pageCount: number }> {
   const athleteName = printable(doc0.athleteName);
   const clinicName = printable(doc0.clinicName);
-  const doc = new PDFDocument({
+  const doc = await newPdfDocument({
     size: 'A4',
     margins: { top: MARGIN, bottom: MARGIN + 20, left: MARGIN, right: MARGIN },
     bufferPages: true,
     info: { Title: `${doc0.title} - ${athleteName}`, Author: clinicName, Creator: 'Trailframe' },
   });
-  registerPdfFonts(doc);
   const chunks: Buffer[] = [];
   doc.on('data', (c: Buffer) => chunks.push(c));
   const ended = new Promise<void>((resolve, reject) => {

@@ -6,7 +6,7 @@
  */
 import { createCanvas, loadImage } from '@napi-rs/canvas';
 import { describe, expect, it } from 'vitest';
-import { CANVAS_FONT_FAMILY, registerCanvasFonts } from '../../../server/render/fonts';
+import { CANVAS_FONT_FAMILY, loadCanvas } from '../../../server/render/fonts';
 import { renderStill } from '../../../server/render/still-render';
 import { STILL_CAUTION_LINE } from '../../../src/contracts/sharing';
 
@@ -70,7 +70,7 @@ describe('renderStill: the caution line', () => {
     expect(out.caution.height / out.height).toBeLessThan(0.06);
 
     // The ink in that band is one line of the caution in Source Sans 3 at the small size.
-    registerCanvasFonts();
+    await loadCanvas();
     const unit = Math.max(12, Math.round(Math.min(w, h) * 0.028));
     const size = Math.max(10, Math.round(unit * 0.8));
     const probe = createCanvas(10, 10).getContext('2d');
