@@ -21,9 +21,10 @@ export const MUTATION_MODULES = {
     ],
     tests: ['test/unit/billing/**/*.test.ts'],
   },
-  // The processed items' moves (claim, lease per attempt, progress, ready, retry, last attempt, cancel, release) and the worker loop.
+  // The processed items' moves (claim, lease per attempt, progress, ready, retry, last attempt, cancel, release) and the worker loop;
+  // of the repository the rows and moves (toItem … unfinishedFor), not the relay's and the views' queries below them.
   processing: {
-    mutate: ['server/processing/processing.ts', 'server/processing/processed-items-repository.ts', 'server/processing/worker.ts'],
+    mutate: ['server/processing/processing.ts', 'server/processing/processed-items-repository.ts:34-140', 'server/processing/worker.ts'],
     tests: ['test/server/processing/processed-item-transitions.test.ts', 'test/server/processing/worker-loop.test.ts'],
   },
   policy: { mutate: ['server/policy/decide.ts', 'server/policy/access-table.ts'], tests: ['test/server/policy/access-policy.test.ts'] },

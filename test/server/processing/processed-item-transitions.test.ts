@@ -17,7 +17,7 @@ import { createDb, migrate, type Db } from '../../../server/db/knex';
 import { createProcessing, type Processing } from '../../../server/processing/processing';
 import { interruptedReason, type ProcessedItem, type ProcessingKind, type SubjectChange } from '../../../server/processing/processed-item';
 import type { ProcessedItemRow } from '../../../server/processing/processed-items-repository';
-import { inProcessProgressChannel, type ProgressNotice } from '../../../server/processing/progress-channel';
+import { inProcessProgressChannel, type ProgressChannel, type ProgressNotice } from '../../../server/processing/progress-channel';
 
 const LEASE_MS = 30_000;
 const MAX_ATTEMPTS = 3;
@@ -30,7 +30,10 @@ const clock = () => new Date(clockMs);
 
 interface Recorded {
   changes: { itemId: number; attempts: number; change: SubjectChange }[];
+  /** The item's state as the subject was told each change. */
+  itemStates: string[];
   ready: { itemId: number; result: unknown }[];
+  /** Every notice published on the channel, whatever it is. */
   notices: ProgressNotice[];
 }
 
@@ -47,6 +50,7 @@ function recordingKind(rec: Recorded, name = 'test_render'): ProcessingKind<stri
     },
     onChange: (_trx: Knex, item: ProcessedItem, change: SubjectChange) => {
       rec.changes.push({ itemId: item.id, attempts: item.attempts, change });
+      rec.itemStates.push(item.state);
       return Promise.resolve();
     },
   };
@@ -54,14 +58,14 @@ function recordingKind(rec: Recorded, name = 'test_render'): ProcessingKind<stri
 
 /** One process's module (its own process tag), sharing the database and the test's clock. */
 function processOf(rec: Recorded, opts: { maxAttempts?: number; kinds?: boolean } = {}): Processing {
-  const channel = inProcessProgressChannel();
+  const inner = inProcessProgressChannel();
+  const channel: ProgressChannel = { publish: (n) => rec.notices.push(n), subscribe: inner.subscribe };
   const p = createProcessing({ db, channel, leaseMs: LEASE_MS, maxAttempts: opts.maxAttempts ?? MAX_ATTEMPTS, clock });
   if (opts.kinds !== false) p.register(recordingKind(rec));
-  channel.subscribe(7, (n) => rec.notices.push(n));
   return p;
 }
 
-const fresh = (): Recorded => ({ changes: [], ready: [], notices: [] });
+const fresh = (): Recorded => ({ changes: [], itemStates: [], ready: [], notices: [] });
 const row = (id: number) => db<ProcessedItemRow>('processed_items').where({ id }).first() as Promise<ProcessedItemRow>;
 const SCOPE = { clinicId: 3, athleteId: 7 };
 /** Lets the after-commit publish (a promise continuation) run. */
@@ -103,6 +107,9 @@ describe('enqueue', () => {
     });
     expect(JSON.parse(r.payload)).toEqual({ frame: 12 });
     expect(rec.changes).toEqual([{ itemId: id, attempts: 0, change: { state: 'queued' } }]);
+    expect(rec.itemStates).toEqual(['queued']);
+    expect(p.processTag).toMatch(/^[^:]+:\d+:[0-9a-f]{8}$/);
+    expect(processOf(fresh()).processTag).not.toBe(p.processTag);
     await settle();
     expect(woken).toBe(1);
     expect(rec.notices.map((n) => [n.event.id, n.event.state, n.athleteSees])).toEqual([[41, 'queued', true]]);
@@ -147,7 +154,7 @@ describe('claim: queued → running', () => {
     const id = await p.enqueue(db, 'test_render', 50, SCOPE);
     clockMs = T0 + 1000;
     const item = await p.queue.claim();
-    expect(item).toMatchObject({ id, state: 'running', attempts: 1, maxAttempts: MAX_ATTEMPTS, subjectId: 50 });
+    expect(item).toMatchObject({ id, state: 'running', attempts: 1, maxAttempts: MAX_ATTEMPTS, subjectId: 50, scope: SCOPE });
     expect(await row(id)).toMatchObject({
       state: 'running',
       attempts: 1,
@@ -289,6 +296,7 @@ describe('failed attempts, retry, last attempt', () => {
     const claimed = await p.queue.claim();
     expect(claimed?.id).toBe(next);
     expect(await row(dead)).toMatchObject({ state: 'failed', attempts: 2, error: interruptedReason(2), lease_until: null });
+    expect(rec.notices.filter((n) => n.event.id === 74).at(-1)?.event).toMatchObject({ state: 'failed', error: interruptedReason(2) });
     expect(rec.changes.find((c) => c.itemId === dead && c.change.state === 'failed')).toEqual({
       itemId: dead,
       attempts: 2,
@@ -368,7 +376,15 @@ describe('release (the worker stops)', () => {
       run_after: iso(clockMs),
     });
     expect(rec.changes.at(-1)).toEqual({ itemId: item.id, attempts: 1, change: { state: 'queued' } });
-    expect(await p.queue.claim()).toMatchObject({ attempts: 1 });
+    expect(rec.notices.at(-1)?.event).toMatchObject({ id: 90, state: 'queued' });
+    const again = (await p.queue.claim())!;
+    expect(again).toMatchObject({ attempts: 1 });
+    // After a failed attempt, a release gives back only the attempt in hand.
+    await p.queue.fail(again, 'broke', { permanent: false, retryInMs: 0 });
+    const second = (await p.queue.claim())!;
+    expect(second.attempts).toBe(2);
+    await p.queue.release(second);
+    expect(await row(item.id)).toMatchObject({ state: 'queued', attempts: 1 });
   });
 });
 
@@ -397,6 +413,7 @@ describe('a lost lease', () => {
     const taken = (await b.queue.claim())!;
     expect(taken).toMatchObject({ id: stale.id, attempts: 2 });
     expect(await row(stale.id)).toMatchObject({ claimed_by: b.processTag, attempts: 2 });
+    const seenA = { notices: recA.notices.length, changes: recA.changes.length };
     expect(await a.queue.heartbeat(stale)).toBe(false);
     expect(await a.queue.progress(stale, 40, 48)).toBe(false);
     expect(await a.queue.complete(stale, 'stale')).toBe(false);
@@ -468,5 +485,61 @@ describe('notices', () => {
     expect(p.noticeOf({ ...base, state: 'running', kind: 'unknown' })?.athleteSees).toBe(false);
     expect(p.noticeOf({ ...base, state: 'running', athlete_id: null })).toBeNull();
     expect(p.noticeOf({ ...base, state: 'running', clinic_id: null })).toBeNull();
+  });
+});
+
+describe('reading and listening', () => {
+  it('latest and unfinished are per subject and per athlete; progress and notices name the right item', async () => {
+    const rec = fresh();
+    const p = processOf(rec);
+    const mine = await p.enqueue(db, 'test_render', 110, SCOPE);
+    const otherAthlete = await p.enqueue(db, 'test_render', 111, { clinicId: 3, athleteId: 8 });
+    expect((await p.latest('thing', 110))?.id).toBe(mine);
+    expect((await p.latest('thing', 111))?.id).toBe(otherAthlete);
+    expect(await p.latest('other_subject', 110)).toBeNull();
+    expect((await p.unfinishedFor(7)).map((n) => n.event.id)).toEqual([110]);
+    const first = (await p.queue.claim())!;
+    const second = (await p.queue.claim())!;
+    expect([first.id, second.id]).toEqual([mine, otherAthlete]);
+    await p.queue.progress(second, 3, 9);
+    expect(rec.notices.at(-1)?.event).toMatchObject({ id: 111, progress: { done: 3, total: 9 } });
+    expect(rec.notices.at(-1)?.athleteId).toBe(8);
+  });
+
+  it('an item with no athlete publishes nothing on any move', async () => {
+    const rec = fresh();
+    const p = processOf(rec);
+    const id = await p.enqueue(db, 'test_render', 120, SCOPE);
+    await settle();
+    await db('processed_items').where({ id }).update({ athlete_id: null });
+    const before = rec.notices.length;
+    const item = (await p.queue.claim())!;
+    await p.queue.progress(item, 1, 2);
+    await p.cancel('thing', 120);
+    expect(rec.notices.length).toBe(before);
+    expect(await p.unfinishedFor(7)).toEqual([]);
+  });
+
+  it('listeners stop hearing once they unsubscribe', async () => {
+    const p = processOf(fresh());
+    let woken = 0;
+    const cancelled: number[][] = [];
+    p.onEnqueued(() => woken++)();
+    p.onCancelled((ids) => cancelled.push(ids))();
+    await p.enqueue(db, 'test_render', 130, SCOPE);
+    await p.cancel('thing', 130);
+    await settle();
+    expect(woken).toBe(0);
+    expect(cancelled).toEqual([]);
+  });
+
+  it('without a clock given, times are the machine’s', async () => {
+    const p = createProcessing({ db, channel: inProcessProgressChannel(), leaseMs: LEASE_MS, maxAttempts: 1 });
+    p.register(recordingKind(fresh()));
+    const before = new Date().toISOString();
+    const id = await p.enqueue(db, 'test_render', 140, SCOPE);
+    const after = new Date().toISOString();
+    const r = await row(id);
+    expect(r.run_after >= before && r.run_after <= after).toBe(true);
   });
 });

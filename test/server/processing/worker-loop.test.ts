@@ -12,7 +12,9 @@ import { defaultConcurrency, startWorker, type Worker } from '../../../server/pr
 import { PermanentError, type ProcessedItem, type ProcessingKind, type RunContext } from '../../../server/processing/processed-item';
 import type { Processing, ProcessingQueue } from '../../../server/processing/processing';
 
-const logger = pino({ level: 'silent' });
+/** What the worker logged in the test (level, message and fields). */
+let logs: Record<string, unknown>[] = [];
+const logger = pino({ level: 'info' }, { write: (line: string) => void logs.push(JSON.parse(line) as Record<string, unknown>) });
 
 function itemOf(id: number, attempts = 1): ProcessedItem {
   return {
@@ -43,16 +45,22 @@ function scripted(items: ProcessedItem[]) {
   const runs: Run[] = [];
   let ours = true;
   let progressOurs = true;
+  const broken = { claim: false, heartbeat: false, progress: false };
+  /** While set, progress writes wait for the test to let them through. */
+  let holdProgress: Promise<void> | null = null;
   const cancelListeners: ((ids: number[]) => void)[] = [];
+  const enqueueListeners: (() => void)[] = [];
   const queue: ProcessingQueue = {
-    claim: vi.fn(() => Promise.resolve(items.shift() ?? null)),
+    claim: vi.fn(() => (broken.claim ? Promise.reject(new Error('database is locked')) : Promise.resolve(items.shift() ?? null))),
     heartbeat: vi.fn((item: ProcessedItem) => {
       calls.push(`heartbeat ${item.id}`);
-      return Promise.resolve(ours);
+      return broken.heartbeat ? Promise.reject(new Error('disk I/O error')) : Promise.resolve(ours);
     }),
-    progress: vi.fn((item: ProcessedItem, done: number, total: number) => {
+    progress: vi.fn(async (item: ProcessedItem, done: number, total: number) => {
       calls.push(`progress ${item.id} ${done}/${total}`);
-      return Promise.resolve(progressOurs);
+      if (holdProgress) await holdProgress;
+      if (broken.progress) throw new Error('disk full');
+      return progressOurs;
     }),
     complete: vi.fn((item: ProcessedItem, result: unknown) => {
       calls.push(`complete ${item.id} ${String(result)}`);
@@ -82,7 +90,10 @@ function scripted(items: ProcessedItem[]) {
   const processing = {
     queue,
     kind: (name: string) => (name === 'k' ? kind : undefined),
-    onEnqueued: () => () => undefined,
+    onEnqueued: (l: () => void) => {
+      enqueueListeners.push(l);
+      return () => undefined;
+    },
     onCancelled: (l: (ids: number[]) => void) => {
       cancelListeners.push(l);
       return () => undefined;
@@ -94,6 +105,16 @@ function scripted(items: ProcessedItem[]) {
     calls,
     runs,
     cancel: (ids: number[]) => cancelListeners.forEach((l) => l(ids)),
+    enqueued: () => enqueueListeners.forEach((l) => l()),
+    hold: () => {
+      let release = () => undefined as void;
+      holdProgress = new Promise<void>((r) => (release = r));
+      return () => {
+        holdProgress = null;
+        release();
+      };
+    },
+    broken,
     loseLease: () => (ours = false),
     loseProgress: () => (progressOurs = false),
   };
@@ -103,6 +124,7 @@ let worker: Worker | undefined;
 /** Every run started in the test: ended on stop, as a kind's run ends when its signal aborts. */
 let started: Run[] = [];
 beforeEach(() => {
+  logs = [];
   vi.useFakeTimers();
 });
 afterEach(async () => {
@@ -116,6 +138,8 @@ afterEach(async () => {
     await stopping;
   }
   vi.useRealTimers();
+  // The loop itself never breaks: no error-level line unless a test asked for one.
+  expect(logs.filter((l) => (l['level'] as number) >= 50 && l['msg'] !== 'worker could not claim an item')).toEqual([]);
 });
 
 const tick = (ms = 0) => vi.advanceTimersByTimeAsync(ms);
@@ -151,6 +175,9 @@ describe('the worker loop', () => {
     await tick();
     expect(s.calls).toContain('fail 1 decoder crashed permanent=false retryInMs=2000');
     expect(s.calls).toContain('fail 2 decoder crashed again permanent=false retryInMs=8000');
+    expect(logs).toContainEqual(
+      expect.objectContaining({ msg: 'processing failed', itemId: 1, kind: 'k', attempt: 1, outcome: 'retrying', err: 'decoder crashed' }),
+    );
   });
 
   it('a permanent error is passed on as permanent', async () => {
@@ -209,11 +236,16 @@ describe('the worker loop', () => {
     const w = startWorker({ processing: s.processing, logger, concurrency: 1, pollMs: 60_000, leaseMs: 30_000, cores: 1 });
     await tick();
     const stopping = w.stop();
+    let stopped = false;
+    void stopping.then(() => (stopped = true));
     expect(s.runs[0].ctx.signal.aborted).toBe(true);
+    await tick();
+    expect(stopped).toBe(false); // waits for what runs to end
     s.runs[0].reject(new Error('aborted'));
     await tick();
     await stopping;
     expect(s.calls).toEqual(['release 1']);
+    expect(logs).toContainEqual(expect.objectContaining({ msg: 'processing interrupted', itemId: 1, kind: 'k', stopping: true }));
     await tick(120_000);
     expect(s.runs).toHaveLength(1); // claims nothing more
   });
@@ -247,6 +279,43 @@ describe('the worker loop', () => {
     progress(100, 100);
     await tick();
     expect(s.calls.at(-1)).toBe('progress 1 100/100');
+    expect(s.runs[0].ctx.signal.aborted).toBe(false); // every write was accepted
+  });
+
+  it('a progress call while a write is under way is written right after it, the newest only', async () => {
+    const s = scripted([itemOf(1)]);
+    worker = startWorker({ processing: s.processing, logger, concurrency: 1, pollMs: 60_000, leaseMs: 30_000, cores: 1 });
+    await tick();
+    const { progress } = s.runs[0].ctx;
+    const letThrough = s.hold();
+    progress(1, 100);
+    await tick(300);
+    progress(50, 100);
+    progress(60, 100);
+    await tick();
+    expect(s.calls).toEqual(['progress 1 1/100']);
+    letThrough();
+    await tick();
+    expect(s.calls).toEqual(['progress 1 1/100', 'progress 1 60/100']);
+  });
+
+  it('an enqueued item is looked for at once, not at the next poll; cancelling an item not running here is harmless', async () => {
+    const items: ProcessedItem[] = [];
+    const s = scripted(items);
+    worker = startWorker({ processing: s.processing, logger, concurrency: 1, pollMs: 60_000, leaseMs: 30_000, cores: 1 });
+    await tick();
+    items.push(itemOf(4));
+    s.enqueued();
+    await tick();
+    expect(s.runs.map((r) => r.item.id)).toEqual([4]);
+    expect(() => s.cancel([99])).not.toThrow();
+    s.runs[0].resolve('r');
+    await tick();
+    items.push(itemOf(5));
+    worker.wake();
+    await tick();
+    expect(s.runs.map((r) => r.item.id)).toEqual([4, 5]);
+    expect(s.runs[0].ctx.signal.aborted).toBe(false);
   });
 
   it('a progress write refused (no longer ours) aborts the run', async () => {
@@ -270,5 +339,31 @@ describe('the worker loop', () => {
     s.runs[0].resolve('r');
     await tick();
     expect(idle).toBe(true);
+    let again = false;
+    void worker.idle().then(() => (again = true));
+    await tick();
+    expect(again).toBe(true);
+  });
+
+  it('a failing lease renewal, progress write or claim is logged and the loop goes on', async () => {
+    const items = [itemOf(1)];
+    const s = scripted(items);
+    worker = startWorker({ processing: s.processing, logger, concurrency: 2, pollMs: 1000, leaseMs: 30_000, cores: 1 });
+    await tick();
+    s.broken.heartbeat = true;
+    s.broken.progress = true;
+    await tick(10_000);
+    s.runs[0].ctx.progress(1, 10);
+    await tick();
+    expect(logs).toContainEqual(expect.objectContaining({ msg: 'lease not renewed', itemId: 1, err: 'disk I/O error' }));
+    expect(logs).toContainEqual(expect.objectContaining({ msg: 'progress not recorded', itemId: 1, err: 'disk full' }));
+    expect(s.runs[0].ctx.signal.aborted).toBe(false);
+    s.broken.claim = true;
+    await tick(1000);
+    expect(logs).toContainEqual(expect.objectContaining({ msg: 'worker could not claim an item', err: 'database is locked' }));
+    s.broken.claim = false;
+    items.push(itemOf(2));
+    await tick(1000);
+    expect(s.runs.map((r) => r.item.id)).toEqual([1, 2]);
   });
 });
