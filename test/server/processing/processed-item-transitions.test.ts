@@ -427,6 +427,8 @@ describe('a lost lease', () => {
       error: null,
     });
     expect(recA.ready).toEqual([]);
+    // Refused moves tell nobody anything.
+    expect({ notices: recA.notices.length, changes: recA.changes.length }).toEqual(seenA);
     expect(await b.queue.complete(taken, 'fresh')).toBe(true);
     expect(recB.ready).toEqual([{ itemId: stale.id, result: 'fresh' }]);
   });
