@@ -43,6 +43,8 @@ export async function readBackupManifest(dir: string): Promise<BackupManifest> {
   } catch {
     throw new RestoreError(`${dir} is not a complete backup: ${MANIFEST_NAME} is missing or unreadable (a backup writes it last).`);
   }
+  const badKey = manifest.media?.find((m) => !MEDIA_KEY_ROOTS.some((root) => m.key.startsWith(root)) || m.key.split('/').includes('..'));
+  if (badKey) throw new RestoreError(`${dir}/${MANIFEST_NAME} names "${badKey.key}", which is no media key; the backup is damaged.`);
   if (manifest.format !== BACKUP_FORMAT)
     throw new RestoreError(`${dir} is a backup of format "${manifest.format}"; this version restores "${BACKUP_FORMAT}".`);
   return manifest;
