@@ -79,3 +79,17 @@ export function formatBytes(n: number): string {
   if (n < 1024 * 1024) return `${Math.round(n / 1024)} kB`;
   return `${(n / (1024 * 1024)).toFixed(1)} MB`;
 }
+
+/**
+ * Reports the count of `total` files done about twenty times over the run (and at the last one):
+ * call it after each file with the number done.
+ */
+export function countReporter(total: number, line: (done: number) => string, say: ProgressReporter): (done: number) => void {
+  const step = Math.max(1, Math.ceil(total / 20));
+  let next = 1;
+  return (done) => {
+    if (done < next && done !== total) return;
+    say(line(done));
+    next = done + step;
+  };
+}

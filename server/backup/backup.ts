@@ -20,6 +20,7 @@ import {
   DATABASE_NAME,
   MANIFEST_NAME,
   copyHashing,
+  countReporter,
   formatBytes,
   hashFile,
   mediaPath,
@@ -108,7 +109,7 @@ export async function backupInstallation(o: BackupOptions): Promise<BackupManife
   const objects = keys.filter((k) => !k.endsWith('.part')).sort();
   const media: BackupManifest['media'] = [];
   let bytes = 0;
-  let nextReport = 0;
+  const report = countReporter(objects.length, (n) => `media: ${n} of ${objects.length} files (${formatBytes(bytes)})`, say);
   for (const [i, key] of objects.entries()) {
     try {
       const file = await copyHashing(await o.store.get(key), mediaPath(o.dir, key));
@@ -119,10 +120,7 @@ export async function backupInstallation(o: BackupOptions): Promise<BackupManife
       if (!(err instanceof MissingMediaError)) throw err;
       await fs.promises.rm(mediaPath(o.dir, key), { force: true });
     }
-    if (i + 1 >= nextReport || i + 1 === objects.length) {
-      say(`media: ${i + 1} of ${objects.length} files (${formatBytes(bytes)})`);
-      nextReport = i + 1 + Math.max(1, Math.ceil(objects.length / 20));
-    }
+    report(i + 1);
   }
   if (!objects.length) say('media: none');
 

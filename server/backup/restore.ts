@@ -13,6 +13,7 @@ import {
   DATABASE_NAME,
   MANIFEST_NAME,
   copyHashing,
+  countReporter,
   formatBytes,
   hashFile,
   mediaPath,
@@ -92,14 +93,16 @@ export async function restoreInstallation(o: RestoreOptions): Promise<BackupMani
     await hashFile(path.join(o.dir, DATABASE_NAME)).catch(() => ({ size: -1, sha256: 'missing' })),
   );
   let checked = manifest.database.size;
-  let nextReport = 0;
+  const n = manifest.media.length;
+  const reportChecked = countReporter(
+    n,
+    (i) => `checking: ${i} of ${n} media files (${formatBytes(checked)} of ${formatBytes(total)})`,
+    say,
+  );
   for (const [i, m] of manifest.media.entries()) {
     checkSame(m.key, m, await hashFile(mediaPath(o.dir, m.key)).catch(() => ({ size: -1, sha256: 'missing' })));
     checked += m.size;
-    if (i + 1 >= nextReport || i + 1 === manifest.media.length) {
-      say(`checking: ${i + 1} of ${manifest.media.length} media files (${formatBytes(checked)} of ${formatBytes(total)})`);
-      nextReport = i + 1 + Math.max(1, Math.ceil(manifest.media.length / 20));
-    }
+    reportChecked(i + 1);
   }
   say('checking: every checksum matches');
 
@@ -116,15 +119,12 @@ export async function restoreInstallation(o: RestoreOptions): Promise<BackupMani
     const store = localMediaStore(o.uploadsDir);
     for (const root of MEDIA_KEY_ROOTS) written.push(path.join(o.uploadsDir, root));
     let copied = 0;
-    nextReport = 0;
+    const reportCopied = countReporter(n, (i) => `media: ${i} of ${n} files (${formatBytes(copied)})`, say);
     for (const [i, m] of manifest.media.entries()) {
       await store.put(m.key, fs.createReadStream(mediaPath(o.dir, m.key)));
       await store.withLocalFile(m.key, async (file) => checkSame(m.key, m, await hashFile(file)));
       copied += m.size;
-      if (i + 1 >= nextReport || i + 1 === manifest.media.length) {
-        say(`media: ${i + 1} of ${manifest.media.length} files (${formatBytes(copied)})`);
-        nextReport = i + 1 + Math.max(1, Math.ceil(manifest.media.length / 20));
-      }
+      reportCopied(i + 1);
     }
   } catch (err) {
     for (const f of written) await fs.promises.rm(f, { recursive: true, force: true });
