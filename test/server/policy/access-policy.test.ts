@@ -341,7 +341,11 @@ describe('decide: state conditions', () => {
   });
 
   it('the refusals an athlete meets say why, in words for them', () => {
-    expect(decide(self, 'athlete:update', { ...own })).toMatchObject({ status: 403, message: 'You can change only your name here.' });
+    expect(decide(self, 'athlete:update', { ...own })).toMatchObject({
+      status: 403,
+      code: 'forbidden',
+      message: 'You can change only your name here.',
+    });
     const locked = decide(self, 'clip:update-settings', { ...own, marked: true });
     expect(locked).toMatchObject({ status: 409, message: expect.stringContaining('already marked this clip') });
     expect(locked).toMatchObject({ message: expect.stringContaining('Ask your clinician') });
