@@ -84,7 +84,8 @@ export const CONDITIONS: Record<
     holds: (s) => s.fields !== undefined && s.fields.every((f) => (ATHLETE_SELF_FIELDS as readonly string[]).includes(f)),
     refusal: (s) => {
       const extra = (s.fields ?? []).filter((f) => !(ATHLETE_SELF_FIELDS as readonly string[]).includes(f));
-      return { status: 403, code: 'forbidden', message: `You can change only your name here (not ${extra.join(', ')}).` };
+      const not = extra.length ? ` (not ${extra.join(', ')})` : '';
+      return { status: 403, code: 'forbidden', message: `You can change only your name here${not}.` };
     },
   },
 };

@@ -107,11 +107,15 @@ export const processedItemsRepository = {
     return rows[0] ?? null;
   },
 
-  /** Changes a running item held by `by`; false when it is no longer (cancelled, or taken over after its lease ran out). */
-  async updateHeld(db: Knex, id: number, by: string, patch: ItemPatch): Promise<boolean> {
+  /**
+   * Changes a running item held by `by` in attempt `attempt`; false when it is no longer (cancelled,
+   * or taken over after its lease ran out — also by another worker of the same process, which
+   * claims it under the next attempt, so a stalled run's late progress or result never lands).
+   */
+  async updateHeld(db: Knex, id: number, holder: { by: string; attempt: number }, patch: ItemPatch): Promise<boolean> {
     const n = await db(TABLE)
-      .where({ id, state: 'running', claimed_by: by })
-      .update({ ...patch, touched_by: by });
+      .where({ id, state: 'running', claimed_by: holder.by, attempts: holder.attempt })
+      .update({ ...patch, touched_by: holder.by });
     return n > 0;
   },
 

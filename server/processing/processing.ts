@@ -121,8 +121,10 @@ export function createProcessing(o: ProcessingOptions): Processing {
     return applied;
   }
 
+  /** A lease is this process's in the item's attempt: a later claim (any process) takes it over. */
+  const holder = (item: ProcessedItem) => ({ by: processTag, attempt: item.attempts });
   const held = (item: ProcessedItem, patch: ItemPatch) => (trx: Knex) =>
-    repo.updateHeld(trx, item.id, processTag, { ...patch, updated_at: now() });
+    repo.updateHeld(trx, item.id, holder(item), { ...patch, updated_at: now() });
 
   const queue: ProcessingQueue = {
     async claim() {
@@ -148,10 +150,10 @@ export function createProcessing(o: ProcessingOptions): Processing {
       }
     },
 
-    heartbeat: (item) => repo.updateHeld(db, item.id, processTag, { lease_until: later(o.leaseMs), updated_at: now() }),
+    heartbeat: (item) => repo.updateHeld(db, item.id, holder(item), { lease_until: later(o.leaseMs), updated_at: now() }),
 
     async progress(item, done, total) {
-      const ok = await repo.updateHeld(db, item.id, processTag, { progress_done: done, progress_total: total, updated_at: now() });
+      const ok = await repo.updateHeld(db, item.id, holder(item), { progress_done: done, progress_total: total, updated_at: now() });
       if (ok) await publish(item.id);
       return ok;
     },

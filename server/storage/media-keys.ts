@@ -66,3 +66,9 @@ export function assessmentPrefix(assessmentId: number): string {
 export function summaryKey(assessmentId: number, summaryId: number): string {
   return `${assessmentPrefix(assessmentId)}summaries/summary-${id(summaryId, 'summary')}.pdf`;
 }
+
+/**
+ * The first part of every media key (here and in `demonstrations/demo-keys.ts`): what a backup
+ * copies. Anything else under the uploads folder (upload temp files, a test's database) is not media.
+ */
+export const MEDIA_KEY_ROOTS = ['clips/', 'assessments/', 'exercises/', 'clinics/'] as const;

@@ -6,7 +6,13 @@
  * @type {Record<string, { mutate: string[]; tests: string[] }>}
  */
 export const MUTATION_MODULES = {
-  kinematics: { mutate: ['src/kinematics/**/*.ts', '!src/kinematics/index.ts'], tests: ['test/unit/kinematics/**/*.test.ts'] },
+  // The measurement core: geometry, joint angles per frame and at events, step timing, cadence and
+  // spring-mass figures. The rest of src/kinematics (events, bands, comparison, gait cycle, overlay
+  // drawing …) is not in the run yet: see README "Testing".
+  kinematics: {
+    mutate: ['src/kinematics/{geometry,angles,angle-measures,frame-angles,step-timing,stats,spring-mass}.ts'],
+    tests: ['test/unit/kinematics/**/*.test.ts'],
+  },
   'plans-rules': { mutate: ['src/plans-rules/**/*.ts', '!src/plans-rules/index.ts'], tests: ['test/unit/plans/**/*.test.ts'] },
   billing: {
     mutate: [
@@ -17,8 +23,13 @@ export const MUTATION_MODULES = {
     ],
     tests: ['test/unit/billing/**/*.test.ts'],
   },
-  // processing: { mutate: ['server/processing/processing.ts', 'server/processing/processed-items-repository.ts'], tests: […] } — next: transition tests for processed items
-  // policy: { mutate: ['server/policy/**/*.ts'], tests: ['test/server/policy*.test.ts'] },
+  // The processed items' moves (claim, lease per attempt, progress, ready, retry, last attempt, cancel, release) and the worker loop;
+  // of the repository the rows and moves (toItem … unfinishedFor), not the relay's and the views' queries below them.
+  processing: {
+    mutate: ['server/processing/processing.ts', 'server/processing/processed-items-repository.ts:34-140', 'server/processing/worker.ts'],
+    tests: ['test/server/processing/processed-item-transitions.test.ts', 'test/server/processing/worker-loop.test.ts'],
+  },
+  policy: { mutate: ['server/policy/decide.ts', 'server/policy/access-table.ts'], tests: ['test/server/policy/access-policy.test.ts'] },
 };
 
 /** The module named by `STRYKER_MODULE` (Stryker and its Vitest config read it). */

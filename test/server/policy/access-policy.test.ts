@@ -340,6 +340,21 @@ describe('decide: state conditions', () => {
     });
   });
 
+  it('the refusals an athlete meets say why, in words for them', () => {
+    expect(decide(self, 'athlete:update', { ...own })).toMatchObject({
+      status: 403,
+      code: 'forbidden',
+      message: 'You can change only your name here.',
+    });
+    const locked = decide(self, 'clip:update-settings', { ...own, marked: true });
+    expect(locked).toMatchObject({ status: 409, message: expect.stringContaining('already marked this clip') });
+    expect(locked).toMatchObject({ message: expect.stringContaining('Ask your clinician') });
+    expect(decide(self, 'clip:delete', { ...own, uploadedBy: coach.id })).toMatchObject({
+      status: 403,
+      message: 'You can delete only clips you uploaded.',
+    });
+  });
+
   it("a list's conditions say what it shows, they never refuse", () => {
     const d = decideState(self, 'still:list', { scope: 'self', when: ['published'] }, {});
     expect(d.allowed).toBe(true);

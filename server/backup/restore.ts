@@ -1,0 +1,135 @@
+/**
+ * `npm run restore -- DIR`: puts a backup (see `backup.ts`) into an empty installation. Refuses an
+ * installation with a database or media already; checks every file of the backup against its
+ * SHA-256 before anything is written, and again as it is copied; on any failure removes what it
+ * wrote, so the installation is left empty as it was found.
+ */
+import fs from 'node:fs';
+import path from 'node:path';
+import { MEDIA_KEY_ROOTS } from '../storage/media-keys';
+import { localMediaStore } from '../storage/local-media-store';
+import {
+  BACKUP_FORMAT,
+  DATABASE_NAME,
+  MANIFEST_NAME,
+  copyHashing,
+  countReporter,
+  formatBytes,
+  hashFile,
+  mediaPath,
+  type BackupFile,
+  type BackupManifest,
+  type ProgressReporter,
+} from './backup-manifest';
+
+export interface RestoreOptions {
+  /** The backup folder. */
+  dir: string;
+  /** Where the database goes (`DB_FILE`): must not exist yet. */
+  dbFile: string;
+  /** Where media goes (`UPLOADS_DIR`): must hold no media yet. */
+  uploadsDir: string;
+  progress?: ProgressReporter;
+}
+
+/** A restore that cannot go ahead; the message says why and what to do. */
+export class RestoreError extends Error {}
+
+/** Reads and checks the backup's manifest. */
+export async function readBackupManifest(dir: string): Promise<BackupManifest> {
+  const file = path.join(dir, MANIFEST_NAME);
+  let manifest: BackupManifest;
+  try {
+    manifest = JSON.parse(await fs.promises.readFile(file, 'utf8')) as BackupManifest;
+  } catch {
+    throw new RestoreError(`${dir} is not a complete backup: ${MANIFEST_NAME} is missing or unreadable (a backup writes it last).`);
+  }
+  const badKey = manifest.media?.find((m) => !MEDIA_KEY_ROOTS.some((root) => m.key.startsWith(root)) || m.key.split('/').includes('..'));
+  if (badKey) throw new RestoreError(`${dir}/${MANIFEST_NAME} names "${badKey.key}", which is no media key; the backup is damaged.`);
+  if (manifest.format !== BACKUP_FORMAT)
+    throw new RestoreError(`${dir} is a backup of format "${manifest.format}"; this version restores "${BACKUP_FORMAT}".`);
+  return manifest;
+}
+
+/** What already makes the installation non-empty (nothing → empty). */
+export async function installationContents(dbFile: string, uploadsDir: string): Promise<string[]> {
+  const found: string[] = [];
+  for (const f of [dbFile, `${dbFile}-wal`]) {
+    const s = await fs.promises.stat(f).catch(() => null);
+    if (s && s.size > 0) found.push(f);
+  }
+  for (const root of MEDIA_KEY_ROOTS) {
+    const folder = path.join(uploadsDir, root);
+    if ((await fs.promises.readdir(folder).catch(() => [])).length) found.push(folder);
+  }
+  return found;
+}
+
+function checkSame(what: string, expected: BackupFile, actual: BackupFile): void {
+  if (expected.sha256 !== actual.sha256 || expected.size !== actual.size) {
+    throw new RestoreError(
+      `${what} does not match the backup's manifest (SHA-256 ${actual.sha256.slice(0, 12)}…, ${actual.size} bytes; expected ${expected.sha256.slice(0, 12)}…, ${expected.size} bytes). The backup is damaged; restore another one.`,
+    );
+  }
+}
+
+/** Restores the backup in `dir` into an empty installation. */
+export async function restoreInstallation(o: RestoreOptions): Promise<BackupManifest> {
+  const say = o.progress ?? (() => undefined);
+  const manifest = await readBackupManifest(o.dir);
+  const existing = await installationContents(o.dbFile, o.uploadsDir);
+  if (existing.length) {
+    throw new RestoreError(
+      `Restore needs an empty installation, but this one has data: ${existing.join(', ')}. Stop the server and move these away (or set DB_FILE and UPLOADS_DIR to new places), then run the restore again.`,
+    );
+  }
+  const total = manifest.media.reduce((n, m) => n + m.size, manifest.database.size);
+  say(`backup of ${manifest.snapshotAt}: database and ${manifest.media.length} media files, ${formatBytes(total)}`);
+
+  // Every file checked before anything is written.
+  checkSame(
+    DATABASE_NAME,
+    manifest.database,
+    await hashFile(path.join(o.dir, DATABASE_NAME)).catch(() => ({ size: -1, sha256: 'missing' })),
+  );
+  let checked = manifest.database.size;
+  const n = manifest.media.length;
+  const reportChecked = countReporter(
+    n,
+    (i) => `checking: ${i} of ${n} media files (${formatBytes(checked)} of ${formatBytes(total)})`,
+    say,
+  );
+  for (const [i, m] of manifest.media.entries()) {
+    checkSame(m.key, m, await hashFile(mediaPath(o.dir, m.key)).catch(() => ({ size: -1, sha256: 'missing' })));
+    checked += m.size;
+    reportChecked(i + 1);
+  }
+  say('checking: every checksum matches');
+
+  const written: string[] = [];
+  try {
+    await fs.promises.mkdir(path.dirname(o.dbFile), { recursive: true });
+    const temp = `${o.dbFile}.restoring`;
+    written.push(temp);
+    checkSame(DATABASE_NAME, manifest.database, await copyHashing(fs.createReadStream(path.join(o.dir, DATABASE_NAME)), temp));
+    written.push(o.dbFile);
+    await fs.promises.rename(temp, o.dbFile);
+    say(`database: restored to ${o.dbFile}`);
+
+    const store = localMediaStore(o.uploadsDir);
+    for (const root of MEDIA_KEY_ROOTS) written.push(path.join(o.uploadsDir, root));
+    let copied = 0;
+    const reportCopied = countReporter(n, (i) => `media: ${i} of ${n} files (${formatBytes(copied)})`, say);
+    for (const [i, m] of manifest.media.entries()) {
+      await store.put(m.key, fs.createReadStream(mediaPath(o.dir, m.key)));
+      await store.withLocalFile(m.key, async (file) => checkSame(m.key, m, await hashFile(file)));
+      copied += m.size;
+      reportCopied(i + 1);
+    }
+  } catch (err) {
+    for (const f of written) await fs.promises.rm(f, { recursive: true, force: true });
+    throw err;
+  }
+  say(`restore complete: start the server with DB_FILE=${o.dbFile} UPLOADS_DIR=${o.uploadsDir}`);
+  return manifest;
+}
