@@ -66,3 +66,13 @@ export function assessmentPrefix(assessmentId: number): string {
 export function summaryKey(assessmentId: number, summaryId: number): string {
   return `${assessmentPrefix(assessmentId)}summaries/summary-${id(summaryId, 'summary')}.pdf`;
 }
+
+/** `exports/3/`: an athlete's data exports (zips), removed with the athlete's data. */
+export function exportPrefix(athleteId: number): string {
+  return `exports/${id(athleteId, 'athlete')}/`;
+}
+
+/** A data export's zip: `exports/3/export-9.zip`. */
+export function exportKey(athleteId: number, exportId: number): string {
+  return `${exportPrefix(athleteId)}export-${id(exportId, 'export')}.zip`;
+}
