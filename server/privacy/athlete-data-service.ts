@@ -115,6 +115,8 @@ export function athleteDataService(d: {
           const t = ATHLETE_TABLES[name];
           if (t.erase === 'delete') await trx.raw(`DELETE FROM ${name} WHERE ${t.where}`, [athleteId]);
         }
+        // Drafts were never issued: nothing requires keeping them.
+        await trx('invoices').where({ athlete_id: athleteId, status: 'draft' }).delete();
         await trx('athletes').where({ id: athleteId }).update({
           first_name: ERASED_NAME,
           last_name: reference,

@@ -10,7 +10,10 @@
 export type ErasureRule =
   /** The rows go. */
   | 'delete'
-  /** The rows stay, as the law requires for invoices and payments; the athlete's name and contact on them become the reference. */
+  /**
+   * The rows stay, as the law requires for invoices and payments (drafts, never issued, go); the
+   * athlete's name and contact on them become the reference.
+   */
   | 'keep'
   /** The athlete's own row stays as a stub with the reference only (kept invoices point at it). */
   | 'anonymise';
