@@ -5,7 +5,6 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import type { Subscription } from 'rxjs';
-import type { DataExport } from '../../../contracts/privacy';
 import { EXPORT_LINK_HOURS } from '../../../contracts/privacy';
 import { errorMessage } from '../../core/api-error';
 import { PrivacyApi } from '../../core/data/privacy-api';
