@@ -1,14 +1,14 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, input, signal } from '@angular/core';
 import { rxResource, takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import type { Subscription } from 'rxjs';
 import { EXPORT_LINK_HOURS } from '../../../contracts/privacy';
 import { errorMessage } from '../../core/api-error';
 import { PrivacyApi } from '../../core/data/privacy-api';
 import { ProcessingEvents } from '../../core/processing-events';
+import { followRenders } from '../sharing/follow-renders';
 import { exportLine, isBuilding } from './export-words';
 
 /**
@@ -95,14 +95,25 @@ export class DataExportCard {
       : `One zip with everything held about this athlete (rows as JSON, original clips, stills, summaries, annotated clips, receipts, a README). The link works for ${EXPORT_LINK_HOURS} hours; each download is recorded.`,
   );
   protected readonly line = exportLine;
-  private following: Subscription | null = null;
 
   constructor() {
-    // Follow the stream only while an export is being built.
-    effect(() => {
-      if (this.building() && !this.following) this.follow();
-    });
-    this.destroyRef.onDestroy(() => this.following?.unsubscribe());
+    // Progress and completion come from the athlete's one progress stream (shared with the page's other lists).
+    followRenders(this.events, this.athleteId, {
+      connected: (again) => {
+        if (again) this.exports.reload();
+      },
+      item: (ev) => {
+        if (ev.subject !== 'data_export') return;
+        if (ev.state === 'running' && ev.progress) {
+          const progress = ev.progress.total > 0 ? ev.progress.done / ev.progress.total : 0;
+          this.exports.update((list) => list?.map((e) => (e.id === ev.id ? { ...e, progress } : e)));
+        } else if (ev.state !== 'queued') {
+          this.exports.reload();
+        }
+      },
+    })
+      .pipe(takeUntilDestroyed())
+      .subscribe();
   }
 
   protected start(): void {
@@ -121,30 +132,5 @@ export class DataExportCard {
           this.problem.set(errorMessage(err));
         },
       });
-  }
-
-  private follow(): void {
-    this.following = this.events.follow(this.athleteId()).subscribe({
-      next: (m) => {
-        if (m.type === 'connected') {
-          this.exports.reload();
-          return;
-        }
-        const ev = m.event;
-        if (ev.subject !== 'data_export') return;
-        if (ev.state === 'running' && ev.progress) {
-          const progress = ev.progress.total > 0 ? ev.progress.done / ev.progress.total : 0;
-          this.exports.update((list) => list?.map((e) => (e.id === ev.id ? { ...e, progress } : e)));
-        } else if (ev.state !== 'queued') {
-          this.exports.reload();
-          this.following?.unsubscribe();
-          this.following = null;
-        }
-      },
-      error: () => {
-        this.following = null;
-        this.exports.reload();
-      },
-    });
   }
 }
