@@ -106,6 +106,11 @@ import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-d
     </mat-card>
   `,
   styles: `
+    :host {
+      display: block;
+      /* A grid item: the list's table scrolls inside the card instead of widening the page. */
+      min-width: 0;
+    }
     .card-title {
       font: var(--mat-sys-title-large);
       margin: 8px 0 8px;
