@@ -33,9 +33,7 @@ export interface EraseAthleteData {
         </p>
         @if (data.keptInvoiceCount > 0) {
           <p>
-            {{ data.keptInvoiceCount }} invoice{{ data.keptInvoiceCount === 1 ? '' : 's' }} stay{{
-              data.keptInvoiceCount === 1 ? 's' : ''
-            }}
+            {{ data.keptInvoiceCount }} invoice{{ data.keptInvoiceCount === 1 ? '' : 's' }} stay{{ data.keptInvoiceCount === 1 ? 's' : '' }}
             for the clinic's records, showing a reference instead of the name.
           </p>
         }
