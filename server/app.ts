@@ -55,6 +55,9 @@ import { workerPictureProcessor } from './pictures/picture-pool';
 import { demonstrationsService } from './demonstrations/demonstrations-service';
 import { demonstrationsRoutes } from './demonstrations/demonstrations.routes';
 import { stripePayments, type Payments } from './billing/payments';
+import { athleteDataService } from './privacy/athlete-data-service';
+import { retentionService } from './privacy/retention-service';
+import { privacyRoutes } from './privacy/privacy.routes';
 
 /** What the app needs from outside; tests pass their own. */
 export interface AppDeps {
@@ -80,6 +83,8 @@ export interface App {
   processing: Processing;
   /** Deletes expired session rows now (they are also cleared at start and every 15 minutes); answers how many. */
   clearExpiredSessions(): Promise<number>;
+  /** The daily privacy check now (also run every hour): lists clips due under each clinic's retention, removes expired export zips. */
+  runDailyPrivacyCheck(): Promise<void>;
   /** Stops the worker (aborting running jobs) and timers the app started. */
   close(): Promise<void>;
 }
@@ -87,6 +92,8 @@ export interface App {
 const VERSION = '0.1.0';
 /** Upload temp files nobody owns go once unwritten for an hour; looked for every 10 minutes. */
 const UPLOAD_TEMP_SWEEP = { everyMs: 10 * 60_000, maxAgeMs: 60 * 60_000 };
+/** How often the daily privacy check looks whether a day has passed, ms. */
+const PRIVACY_CHECK_EVERY_MS = 60 * 60_000;
 /** How often a web process reads what workers in other processes did, while someone follows a stream, ms. */
 const RELAY_EVERY_MS = 250;
 
@@ -196,7 +203,17 @@ export function createApp(deps: AppDeps): App {
   const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
   const revocations = inProcessRevocations();
   const media = createMediaServices({ config, db, mailer, logger, clock, store: deps.store, brands });
-  const { store, processing, clips, assessments, measures, annotations, follow, stills, summaries, annotatedClips } = media;
+  const { store, processing, clips, assessments, measures, annotations, follow, stills, summaries, annotatedClips, dataExports } = media;
+  const retention = retentionService({ db, clips, clock });
+  const runDailyPrivacyCheck = async () => {
+    await retention.runDaily();
+    await dataExports.sweepExpired();
+  };
+  const privacyCheck = setInterval(
+    () => void runDailyPrivacyCheck().catch((err: Error) => logger.warn({ err: err.message }, 'daily privacy check failed')),
+    PRIVACY_CHECK_EVERY_MS,
+  );
+  privacyCheck.unref();
   // Partial resumable uploads survive restarts; those left unwritten past the configured age go.
   const resumable = resumableUploads({ dir: resumableUploadDir(config.uploadsDir), maxBytes: config.uploadMaxBytes, clips, logger });
   void resumable
@@ -245,6 +262,14 @@ export function createApp(deps: AppDeps): App {
   api.use(stillsRoutes(stills, store));
   api.use(summariesRoutes(summaries, store));
   api.use(annotatedClipsRoutes(annotatedClips, store));
+  api.use(
+    privacyRoutes({
+      exports: dataExports,
+      data: athleteDataService({ db, store, processing, clips, revocations, clock }),
+      retention,
+      store,
+    }),
+  );
   api.use(portalSharedRoutes({ stills, summaries }));
   api.use(billingRoutes(billing));
   api.use(clinicRoutes(clinicService({ db, clock, objects, pictures })));
@@ -264,9 +289,11 @@ export function createApp(deps: AppDeps): App {
     worker,
     processing,
     clearExpiredSessions: sessions.clearExpired,
+    runDailyPrivacyCheck,
     async close() {
       clearInterval(tempSweep);
       clearInterval(resumableSweep);
+      clearInterval(privacyCheck);
       relay.stop();
       await worker?.stop();
       await sessions.close();

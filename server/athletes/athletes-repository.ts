@@ -57,7 +57,7 @@ const ROSTER_SQL = `SELECT a.id, a.first_name, a.last_name, a.email, a.date_of_b
     (SELECT c.granted FROM consents c WHERE c.athlete_id = a.id AND c.kind = 'video_recording' ORDER BY c.id DESC LIMIT 1) AS video_consent,
     (SELECT MAX(p.score) FROM pain_entries p WHERE p.athlete_id = a.id AND p.current) AS max_pain
   FROM athletes a LEFT JOIN users coach ON coach.id = a.coach_id
-  WHERE a.clinic_id = ?
+  WHERE a.clinic_id = ? AND a.erased_at IS NULL
   ORDER BY a.last_name, a.first_name`;
 
 function toSummary(r: RosterRow): AthleteSummary {

@@ -3,6 +3,7 @@ import { toKilometres } from '../../src/contracts/intake';
 import type { Db } from '../db/knex';
 import type { AthleteRow } from '../db/rows';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
+import { unpublishAll } from '../sharing/consent-withdrawal';
 import { audit } from '../audit/audit-log';
 import type { InvitationsService } from '../auth/invitations-service';
 import type { Action } from '../policy/access-table';
@@ -139,6 +140,8 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
           changed.push('video_recording');
         if (await repo.recordConsent(trx, user.clinicId, id, 'share_stills', input.consents.shareStills, user.id, at))
           changed.push('share_stills');
+        // Consent to sharing withdrawn: nothing stays shared with the athlete.
+        const unpublished = changed.includes('share_stills') && !input.consents.shareStills ? await unpublishAll(trx, id, at) : undefined;
         await audit(
           trx,
           {
@@ -146,7 +149,7 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
             actorId: user.id,
             athleteId: id,
             action: 'athlete.intake_updated',
-            detail: { consentsChanged: changed },
+            detail: unpublished === undefined ? { consentsChanged: changed } : { consentsChanged: changed, unpublished },
           },
           at,
         );

@@ -9,7 +9,7 @@ import { pricesRepository as prices } from './prices-repository';
  * price on a line must be on the list; `keptPriceIds` may be archived (lines that already had them).
  */
 export async function checkReferences(trx: Db, clinicId: number, w: InvoiceWrite, keptPriceIds: Set<number>): Promise<void> {
-  const athlete = await trx('athletes').where({ id: w.athleteId, clinic_id: clinicId }).first('id');
+  const athlete = await trx('athletes').where({ id: w.athleteId, clinic_id: clinicId }).whereNull('erased_at').first('id');
   if (!athlete)
     throw new ValidationError('athleteId: no such athlete in this clinic.', [
       { path: ['athleteId'], message: 'No such athlete in this clinic.' },

@@ -101,6 +101,12 @@ export function clipsService(d: ClipsDeps): ClipsService {
       .where({ athlete_id: athleteId, kind: 'video_recording' })
       .orderBy('id', 'desc')
       .first<{ granted: number } | undefined>();
+    if (consent && !consent.granted) {
+      throw new ConflictError(
+        'Consent to video recording was withdrawn: uploads are stopped until the athlete gives it again (in the intake).',
+        'consent_required',
+      );
+    }
     if (!consent?.granted) {
       throw new ConflictError(
         'Record the athlete’s consent to video recording (in the intake) before uploading clips.',

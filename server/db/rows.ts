@@ -42,6 +42,9 @@ export interface AthleteRow {
   notes: string | null;
   created_at: string;
   updated_at: string;
+  /** Set once the athlete was erased (the row then holds only the reference); such a row is treated as absent. */
+  erased_at?: string | null;
+  erasure_ref?: string | null;
 }
 
 export interface InjuryRow {

@@ -152,6 +152,21 @@ export const ACCESS_TABLE = {
   'invoice:pay': { athlete: self('not-draft') },
   'invoice:read-receipt': ownerAndSelf('not-draft'),
 
+  // ── Athlete data: export, erasure, consent withdrawal, clip retention ──
+  /** The owner's Data section of an athlete: consents, clips held, kept invoices. */
+  'athlete-data:read': OWNER,
+  'data-export:list': ownerAndSelf(),
+  'data-export:create': ownerAndSelf(),
+  'data-export:download': ownerAndSelf(),
+  /** Erase everything about an athlete (invoices stay with a reference instead of the name). */
+  'athlete:erase': OWNER,
+  /** Erase an athlete's clips only (asked after consent to video is withdrawn). */
+  'clip:erase-all': OWNER,
+  'retention:read': OWNER,
+  'retention:update': OWNER,
+  'retention:review': OWNER,
+  'retention:confirm': OWNER,
+
   // ── Stills, visit summaries and annotated clips ──
   'still:create': STAFF,
   'still:list': staffAndSelf('published'),

@@ -10,10 +10,10 @@ import type { Action, Grant } from './access-table';
 import type { Owner, ResourceState } from './decide';
 import { assertAllowed, assertRole, assertScope } from './enforce';
 
-/** The athlete record this user may reach for `action`; another clinic's or athlete's is 404. */
+/** The athlete record this user may reach for `action`; another clinic's or athlete's, or an erased one, is 404. */
 export async function accessibleAthlete(db: Knex, user: SessionUser, athleteId: number, action: Action): Promise<AthleteRow> {
   assertRole(user, action);
-  const row = await db<AthleteRow>('athletes').where({ id: athleteId, clinic_id: user.clinicId }).first();
+  const row = await db<AthleteRow>('athletes').where({ id: athleteId, clinic_id: user.clinicId }).whereNull('erased_at').first();
   if (!row) throw new NotFoundError('Athlete');
   assertScope(user, action, { clinicId: row.clinic_id, athleteUserId: row.user_id }, 'Athlete');
   return row;
@@ -21,7 +21,10 @@ export async function accessibleAthlete(db: Knex, user: SessionUser, athleteId: 
 
 /** The owner of an athlete's resource as the policy reads it, or null when the athlete is not of this clinic. */
 export async function athleteOwner(db: Knex, clinicId: number, athleteId: number): Promise<Owner | null> {
-  const row = await db<AthleteRow>('athletes').where({ id: athleteId, clinic_id: clinicId }).first('clinic_id', 'user_id');
+  const row = await db<AthleteRow>('athletes')
+    .where({ id: athleteId, clinic_id: clinicId })
+    .whereNull('erased_at')
+    .first('clinic_id', 'user_id');
   return row ? { clinicId: row.clinic_id, athleteUserId: row.user_id } : null;
 }
 

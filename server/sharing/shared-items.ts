@@ -1,3 +1,4 @@
+import { assertShareConsent } from './consent-withdrawal';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import type { SessionUser } from '../../src/contracts/api';
@@ -77,6 +78,7 @@ export async function setPublication(
 ): Promise<void> {
   const { table, idKey } = KINDS[kind];
   if (publish && row.published_at) return;
+  if (publish) await assertShareConsent(d.db, row.athlete_id);
   const at = d.clock().toISOString();
   await d
     .db(table)

@@ -67,8 +67,18 @@ export function summaryKey(assessmentId: number, summaryId: number): string {
   return `${assessmentPrefix(assessmentId)}summaries/summary-${id(summaryId, 'summary')}.pdf`;
 }
 
+/** `exports/3/`: an athlete's data exports (zips), removed with the athlete's data. */
+export function exportPrefix(athleteId: number): string {
+  return `exports/${id(athleteId, 'athlete')}/`;
+}
+
+/** A data export's zip: `exports/3/export-9.zip`. */
+export function exportKey(athleteId: number, exportId: number): string {
+  return `${exportPrefix(athleteId)}export-${id(exportId, 'export')}.zip`;
+}
+
 /**
  * The first part of every media key (here and in `demonstrations/demo-keys.ts`): what a backup
  * copies. Anything else under the uploads folder (upload temp files, a test's database) is not media.
  */
-export const MEDIA_KEY_ROOTS = ['clips/', 'assessments/', 'exercises/', 'clinics/'] as const;
+export const MEDIA_KEY_ROOTS = ['clips/', 'assessments/', 'exercises/', 'clinics/', 'exports/'] as const;

@@ -23,6 +23,8 @@ import { Jimp } from 'jimp';
 import { localMediaObjects } from '../../server/storage/media-objects';
 import { clinicLogoKey, demoPictureKey } from '../../server/demonstrations/demo-keys';
 import { markedJpeg } from '../support/pictures';
+import { localMediaStore } from '../../server/storage/local-media-store';
+import { exportKey } from '../../server/storage/media-keys';
 
 type Who = 'anonymous' | 'athleteSelf' | 'athleteOther' | 'coach' | 'coachOtherClinic' | 'owner' | 'ownerOtherClinic';
 const WHO: Who[] = ['anonymous', 'athleteSelf', 'athleteOther', 'coach', 'coachOtherClinic', 'owner', 'ownerOtherClinic'];
@@ -1167,6 +1169,100 @@ const ROUTES: RouteCase[] = [
     path: () => '/api/portal/shared',
     access: { action: 'portal-shared:list', on: 'own', ok: 200 },
   },
+  // ── Athlete data: export, erasure, clip erasure, retention ──
+  {
+    method: 'get',
+    pattern: '/api/athletes/:id/data',
+    path: (c) => `/api/athletes/${c.selfAthleteId}/data`,
+    access: { action: 'athlete-data:read', on: 'self', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/athletes/:id/data',
+    path: (c) => `/api/athletes/${c.foreignAthleteId}/data`,
+    access: { action: 'athlete-data:read', on: 'foreign', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/athletes/:id/data-exports',
+    path: (c) => `/api/athletes/${c.selfAthleteId}/data-exports`,
+    access: { action: 'data-export:list', on: 'self', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/athletes/:id/data-exports',
+    path: (c) => `/api/athletes/${c.otherAthleteId}/data-exports`,
+    access: { action: 'data-export:list', on: 'teammate', ok: 200 },
+  },
+  {
+    method: 'post',
+    pattern: '/api/athletes/:id/data-exports',
+    path: (c) => `/api/athletes/${c.selfAthleteId}/data-exports`,
+    before: () => settleExports(),
+    access: { action: 'data-export:create', on: 'self', ok: 202 },
+  },
+  {
+    method: 'post',
+    pattern: '/api/athletes/:id/data-exports',
+    path: (c) => `/api/athletes/${c.foreignAthleteId}/data-exports`,
+    before: () => settleExports(),
+    access: { action: 'data-export:create', on: 'foreign', ok: 202 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/data-exports/:id/download',
+    path: () => `/api/data-exports/${xc.exportId}/download`,
+    access: { action: 'data-export:download', on: 'self', ok: 200 },
+  },
+  // A wrong name passes the gate and is refused (422): the walk erases nobody.
+  {
+    method: 'post',
+    pattern: '/api/athletes/:id/erasure',
+    path: (c) => `/api/athletes/${c.otherAthleteId}/erasure`,
+    body: () => ({ confirmName: 'Somebody Else' }),
+    access: { action: 'athlete:erase', on: 'teammate', ok: 422 },
+  },
+  {
+    method: 'post',
+    pattern: '/api/athletes/:id/erasure',
+    path: (c) => `/api/athletes/${c.foreignAthleteId}/erasure`,
+    body: () => ({ confirmName: 'Somebody Else' }),
+    access: { action: 'athlete:erase', on: 'foreign', ok: 422 },
+  },
+  {
+    method: 'post',
+    pattern: '/api/athletes/:id/clips/erasure',
+    path: (c) => `/api/athletes/${c.otherAthleteId}/clips/erasure`,
+    body: () => ({ confirm: true }),
+    access: { action: 'clip:erase-all', on: 'teammate', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/clinic/retention',
+    path: () => '/api/clinic/retention',
+    access: { action: 'retention:read', on: 'own', ok: 200 },
+  },
+  {
+    method: 'put',
+    pattern: '/api/clinic/retention',
+    path: () => '/api/clinic/retention',
+    body: () => ({ months: 120 }),
+    access: { action: 'retention:update', on: 'own', ok: 200 },
+  },
+  {
+    method: 'post',
+    pattern: '/api/clinic/retention/reviews',
+    path: () => '/api/clinic/retention/reviews',
+    before: () => retentionOn(),
+    access: { action: 'retention:review', on: 'own', ok: 200 },
+  },
+  {
+    method: 'post',
+    pattern: '/api/clinic/retention/reviews/:id/confirm',
+    path: () => `/api/clinic/retention/reviews/${xc.reviewId}/confirm`,
+    before: () => scratchReview(),
+    access: { action: 'retention:confirm', on: 'demoClinic', ok: 200 },
+  },
 ];
 
 const [owner, coach, , athlete] = DEMO_SIGN_INS;
@@ -1282,6 +1378,7 @@ beforeAll(async () => {
   await demoFixtures();
   await annotatedClipFixtures();
   uc.uploadId = await coachUpload();
+  await privacyFixtures();
   server = http.createServer(t.app).listen(0, '127.0.0.1');
 });
 afterAll(async () => {
@@ -1354,6 +1451,147 @@ async function coachUpload(): Promise<string> {
 async function scratchUpload(): Promise<void> {
   uc.scratchUploadId = await coachUpload();
 }
+
+/**
+ * Erasure, checked last against everything the walk made: the self athlete (with clips, stills,
+ * summaries, annotated clips, a plan, invoices, an export) is erased by the owner; then every route
+ * of the walk about one of their records answers 404, the roster lists nothing of them, the uploads
+ * folder holds none of their files, no text in any table holds their name or e-mail, and their
+ * sign-in is over. Invoices stay, with the reference instead of the name.
+ */
+describe('after erasing the self athlete', () => {
+  /** The erased athlete's record ids by the API path segment that names them. */
+  const erased: Record<string, Set<number>> = {};
+  const SEGMENT_TABLES: Record<string, string> = {
+    athletes: 'athletes',
+    assessments: 'assessments',
+    clips: 'clips',
+    stills: 'stills',
+    summaries: 'visit_summaries',
+    'annotated-clips': 'annotated_clips',
+    plans: 'plans',
+    'data-exports': 'data_exports',
+  };
+  let prefixes: string[] = [];
+  let reference = '';
+  let invoiceIds: number[] = [];
+  let athleteClient: Client;
+  const SURNAME = 'Kestrel';
+  const EMAIL = 'ada.kestrel@runner.test';
+
+  beforeAll(async () => {
+    await t.worker!.idle();
+    const id = ctx.selfAthleteId;
+    for (const [segment, table] of Object.entries(SEGMENT_TABLES))
+      erased[segment] = new Set(
+        (await t
+          .db(table)
+          .where(table === 'athletes' ? { id } : { athlete_id: id })
+          .pluck('id')) as number[],
+      );
+    prefixes = [
+      ...[...erased['clips']!].map((c) => `clips/${c}/`),
+      ...[...erased['assessments']!].map((a) => `assessments/${a}/`),
+      `exports/${id}/`,
+    ];
+    invoiceIds = (await t.db('invoices').where({ athlete_id: id }).whereNot({ status: 'draft' }).pluck('id')) as number[];
+    athleteClient = await clientFor(t.app, 'athleteSelf');
+    const owner = await clientFor(t.app, 'owner');
+    const wrong = await owner.post(`/api/athletes/${id}/erasure`, { confirmName: 'Ada Kestrell' });
+    expect(wrong.status).toBe(422);
+    expect(wrong.body.error.details[0].path).toEqual(['confirmName']);
+    // Typed with other spacing and case: still the athlete's full name.
+    const res = await owner.post(`/api/athletes/${id}/erasure`, { confirmName: '  ada   KESTREL ' });
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    reference = res.body.reference;
+    expect(reference).toMatch(/^E-[0-9A-F]{4,}$/);
+  });
+
+  it('the walk had records and files of the athlete to erase', () => {
+    expect(erased['clips']!.size).toBeGreaterThanOrEqual(3);
+    expect(erased['stills']!.size + erased['summaries']!.size + erased['annotated-clips']!.size).toBeGreaterThan(2);
+    expect(erased['plans']!.size).toBeGreaterThan(0);
+    expect(invoiceIds.length).toBeGreaterThan(0);
+  });
+
+  it('every route of the walk about an erased record answers 404 to the owner and the coach (403 where their role never may), 401 to the signed-out athlete', async () => {
+    const checked: string[] = [];
+    const clients = { owner: await clientFor(t.app, 'owner'), coach: await clientFor(t.app, 'coach'), athleteSelf: athleteClient };
+    for (const route of ROUTES) {
+      const path = route.path(ctx);
+      const m = /^\/api\/([a-z-]+)\/(\d+)/.exec(path);
+      if (!m || !erased[m[1]!]?.has(Number(m[2]))) continue;
+      checked.push(`${route.method.toUpperCase()} ${path}`);
+      for (const who of ['owner', 'coach', 'athleteSelf'] as const) {
+        const c = clients[who];
+        // A role the action never allows is refused first (403, leaking nothing); past it, the record is gone (404).
+        const role = route.access ? decideRole(ACTORS[who], route.access.action) : { allowed: true, status: 200 };
+        const want = who === 'athleteSelf' ? 401 : role.allowed ? 404 : role.status;
+        if (route.stream) {
+          expect(await streamStatus(c, path), `${route.method} ${path} as ${who}`).toBe(want);
+          continue;
+        }
+        const res = route.method === 'get' ? await c.get(path) : await c.send(route.method, path, route.body?.(ctx));
+        // A write with the ended session's CSRF token is refused before the sign-in check (403).
+        const allowed = who === 'athleteSelf' && route.method !== 'get' ? [401, 403] : [want];
+        expect(allowed, `${route.method.toUpperCase()} ${path} as ${who}: ${res.status} ${JSON.stringify(res.body)}`).toContain(res.status);
+      }
+    }
+    expect(checked.length).toBeGreaterThan(40);
+  }, 120_000);
+
+  it('the roster and every list find nothing of the athlete; kept invoices carry the reference', async () => {
+    const owner = await clientFor(t.app, 'owner');
+    const roster = (await owner.get('/api/athletes')).body.athletes as { id: number; lastName: string }[];
+    expect(roster.map((a) => a.id)).not.toContain(ctx.selfAthleteId);
+    expect(JSON.stringify(roster)).not.toContain(SURNAME);
+    const invoices = (await owner.get(`/api/invoices?athleteId=${ctx.selfAthleteId}`)).body.invoices as {
+      id: number;
+      athleteName: string;
+    }[];
+    expect(invoices.map((i) => i.id).sort()).toEqual([...invoiceIds].sort());
+    for (const i of invoices) expect(i.athleteName).toBe(`Erased athlete ${reference}`);
+    const receipt = await owner.binary(`/api/invoices/${bc.paidInvoiceId}/receipt`);
+    expect(receipt.status).toBe(200);
+  });
+
+  it('the uploads folder holds no file of the athlete', async () => {
+    const fs = await import('node:fs');
+    const files = (fs.readdirSync(t.config.uploadsDir, { recursive: true }) as string[]).map((f) => f.split('\\').join('/'));
+    expect(files.length).toBeGreaterThan(0);
+    expect(files.filter((f) => prefixes.some((p) => `${f}/`.startsWith(p)))).toEqual([]);
+  });
+
+  it("no text in any table holds the athlete's name or e-mail", async () => {
+    const tables = (await t.db.raw(`SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%'`)) as {
+      name: string;
+    }[];
+    const found: string[] = [];
+    for (const { name } of tables) {
+      const cols = (await t.db.raw(`PRAGMA table_info(${name})`)) as { name: string }[];
+      for (const col of cols)
+        for (const needle of [SURNAME, EMAIL]) {
+          const [row] = (await t.db.raw(`SELECT count(*) AS n FROM ${name} WHERE CAST("${col.name}" AS TEXT) LIKE ?`, [`%${needle}%`])) as {
+            n: number;
+          }[];
+          if (row!.n > 0) found.push(`${name}.${col.name} ∋ ${needle} (${row!.n})`);
+        }
+    }
+    expect(found).toEqual([]);
+  });
+
+  it('one audit entry says who erased whom (by the reference) and when; the account and its sessions are gone', async () => {
+    const entries = await t.db('audit_log').where({ athlete_id: ctx.selfAthleteId });
+    expect(entries).toHaveLength(1);
+    const ownerRow = await t.db('users').where({ email: owner.email }).first();
+    expect(entries[0]).toMatchObject({ action: 'athlete.erased', actor_id: ownerRow.id });
+    expect(JSON.parse(entries[0].detail)).toEqual({ reference, keptInvoices: invoiceIds.length });
+    expect(await t.db('users').where({ email: EMAIL }).first()).toBeUndefined();
+    expect((await athleteClient.get('/api/auth/me')).body.user).toBeNull();
+    const again = await new Client(t.app).post('/api/auth/sign-in', { email: EMAIL, password: athlete.password });
+    expect(again.status).toBe(401);
+  });
+});
 
 // ─── Staff fixtures ───────────────────────────────────────────────────────────────────────
 
@@ -1640,4 +1878,47 @@ async function annotatedClipFixtures(): Promise<void> {
     expect(marked.status, JSON.stringify(marked.body)).toBe(200);
   }
   [ac.baselineClipId, ac.retestClipId] = ids as [number, number];
+}
+
+// ─── Athlete data ─────────────────────────────────────────────────────────────────────────
+const xc = { exportId: 0, reviewId: 0 };
+
+/** No export is being built (a new one may start). */
+async function settleExports(): Promise<void> {
+  await t.db('data_exports').where({ status: 'building' }).update({ status: 'failed', error: 'walk' });
+}
+
+/** Retention on in the demo clinic (120 months: nothing is due). */
+async function retentionOn(): Promise<void> {
+  await t.db('clinics').where({ id: 1 }).update({ clip_retention_months: 120 });
+}
+
+/** A fresh, empty retention list of the demo clinic (the latest, unconfirmed). */
+async function scratchReview(): Promise<void> {
+  await retentionOn();
+  const [row] = await t
+    .db('clip_retention_reviews')
+    .insert({ clinic_id: 1, items: '[]', total_bytes: 0, listed_at: new Date().toISOString() })
+    .returning('id');
+  xc.reviewId = (row as { id: number }).id;
+}
+
+/** A ready export of the self athlete whose link is valid for a day, with a small zip stored under its key. */
+async function privacyFixtures(): Promise<void> {
+  const at = new Date();
+  const [row] = await t
+    .db('data_exports')
+    .insert({
+      clinic_id: 1,
+      athlete_id: ctx.selfAthleteId,
+      status: 'ready',
+      size_bytes: 4,
+      file_count: 2,
+      ready_at: at.toISOString(),
+      expires_at: new Date(at.getTime() + 86_400_000).toISOString(),
+      created_at: at.toISOString(),
+    })
+    .returning('id');
+  xc.exportId = (row as { id: number }).id;
+  await localMediaStore(t.config.uploadsDir).put(exportKey(ctx.selfAthleteId, xc.exportId), Buffer.from('PK\x05\x06'));
 }

@@ -75,6 +75,8 @@ export interface TestApp {
   advance(ms: number): void;
   /** Deletes expired session rows now; answers how many. */
   clearExpiredSessions(): Promise<number>;
+  /** The daily privacy check now (retention lists, expired export zips). */
+  runDailyPrivacyCheck(): Promise<void>;
   /** With `{ fakePayments: true }`: the fake payment service and the app listening for its webhooks. */
   fakePayments: FakePayments | null;
   /** With `{ fakePayments: true }`: base URL of the listening app. */
@@ -120,7 +122,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
     mailer.forward = { mailer: createSmtpMailer({ ...config.mail, host: '127.0.0.1', port: fakeSmtp.port }), db };
   }
   let offset = 0;
-  const { app, close, worker, processing, clearExpiredSessions } = createApp({
+  const { app, close, worker, processing, clearExpiredSessions, runDailyPrivacyCheck } = createApp({
     config,
     db,
     mailer,
@@ -149,6 +151,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
     worker,
     processing,
     clearExpiredSessions,
+    runDailyPrivacyCheck,
     async close() {
       await fakePayments?.idle();
       await fakePayments?.close();

@@ -10,3 +10,11 @@ export const MEASURES_CAUTION =
 /** Beside pain scores and plan alerts (intake, roster, athlete profile, Plan tab). */
 export const PAIN_CAUTION =
   "Pain scores and plan alerts point to what to look at; they do not replace a licensed clinician's examination or judgement. Sharp or worsening pain means stop and see a clinician; follow local regulations.";
+
+/** On the owner's erasure card and dialog. */
+export const ERASURE_CAUTION =
+  'Erasure cannot be undone. Before erasing, check which records local regulations require the clinic to keep; invoices and payments stay, under a reference instead of the name.';
+
+/** Beside the clip retention setting. */
+export const RETENTION_CAUTION =
+  'Check how long local regulations require clinical records to be kept before removing clips. Nothing is removed until you confirm the list.';

@@ -115,6 +115,16 @@ const DOCUMENTED: Record<Action, Who> = {
   'demo:delete': 'S',
   'clinic-brand:read': 'S+A',
   'clinic-logo:update': 'O',
+  'athlete-data:read': 'O',
+  'data-export:list': 'O+A',
+  'data-export:create': 'O+A',
+  'data-export:download': 'O+A',
+  'athlete:erase': 'O',
+  'clip:erase-all': 'O',
+  'retention:read': 'O',
+  'retention:update': 'O',
+  'retention:review': 'O',
+  'retention:confirm': 'O',
 };
 
 const documentedRoles = (who: Who): Role[] =>

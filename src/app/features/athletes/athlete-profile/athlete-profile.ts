@@ -25,8 +25,9 @@ import { AthleteInvitation } from '../../../shared/athlete-invitation/athlete-in
 import { AthletesApi } from '../../../core/data/athletes-api';
 import { IntakeForm } from '../intake-form/intake-form';
 import { fullName } from '../../../core/data/roster';
+import { AthleteData } from '../athlete-data/athlete-data';
 
-const PROFILE_TABS = ['intake', 'assessments', 'plan', 'shared'] as const;
+const PROFILE_TABS = ['intake', 'assessments', 'plan', 'shared', 'data'] as const;
 type ProfileTab = (typeof PROFILE_TABS)[number];
 
 /** `/athletes/:id`: who the athlete is, their account, their intake and their assessments. */
@@ -46,6 +47,7 @@ type ProfileTab = (typeof PROFILE_TABS)[number];
     AssessmentList,
     AthletePlans,
     SharedPanel,
+    AthleteData,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './athlete-profile.html',
@@ -61,7 +63,7 @@ export class AthleteProfile implements LeaveGuarded {
 
   /** Route parameter. */
   readonly id = input.required<string>();
-  /** Query parameter `tab`: `intake` (default), `assessments`, `plan` or `shared`. */
+  /** Query parameter `tab`: `intake` (default), `assessments`, `plan`, `shared` or `data` (owner). */
   readonly tab = input<string | undefined>();
 
   protected readonly athlete = rxResource({

@@ -24,6 +24,7 @@ import { AthletesApi } from '../../../core/data/athletes-api';
 import { IntakeForm } from '../intake-form/intake-form';
 
 /** `/portal/profile`: the athlete's own names and intake. */
+import { DataExportCard } from '../../../shared/data-export/data-export-card';
 @Component({
   selector: 'app-portal-profile',
   imports: [
@@ -37,6 +38,7 @@ import { IntakeForm } from '../intake-form/intake-form';
     MatProgressBarModule,
     ErrorState,
     IntakeForm,
+    DataExportCard,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './portal-profile.html',

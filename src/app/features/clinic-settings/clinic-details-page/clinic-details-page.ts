@@ -1,14 +1,15 @@
 import { ChangeDetectionStrategy, Component } from '@angular/core';
 import { LegalDetailsForm } from '../legal-details-form/legal-details-form';
 import { LogoCard } from '../logo-card/logo-card';
+import { RetentionCard } from '../retention-card/retention-card';
 
 /**
  * `/settings/clinic` (owner): the clinic's details, one card per concern — the legal details and the
- * logo that documents, e-mails and the portal carry.
+ * logo that documents, e-mails and the portal carry, and how long clips are kept.
  */
 @Component({
   selector: 'app-clinic-details-page',
-  imports: [LegalDetailsForm, LogoCard],
+  imports: [LegalDetailsForm, LogoCard, RetentionCard],
   changeDetection: ChangeDetectionStrategy.OnPush,
   template: `
     <div class="page page-narrow">
@@ -21,6 +22,7 @@ import { LogoCard } from '../logo-card/logo-card';
       <div class="cards">
         <app-logo-card />
         <app-legal-details-form />
+        <app-retention-card />
       </div>
     </div>
   `,
