@@ -265,7 +265,7 @@ export function createApp(deps: AppDeps): App {
   api.use(
     privacyRoutes({
       exports: dataExports,
-      data: athleteDataService({ db, store, processing, clips, revocations, clock }),
+      data: athleteDataService({ db, store, processing, clips, revocations, clock, partialUploads: resumable }),
       retention,
       store,
     }),

@@ -45,6 +45,8 @@ export interface ResumableUploads {
   owner(id: string): Promise<UploadOwner | null>;
   /** Removes partial uploads not written for `olderThanMs` (0: all not in flight). Returns their ids. */
   sweep(olderThanMs: number): Promise<string[]>;
+  /** Removes every partial upload (in flight or not) to one of these assessments: their bytes go with an erased athlete's clips. */
+  removeForAssessments(assessmentIds: readonly number[]): Promise<void>;
   /** Sweeps by age every `everyMs`; the timer does not keep the process alive. */
   startSweeping(opts: { everyMs: number; maxAgeMs: number }): NodeJS.Timeout;
 }
@@ -168,6 +170,21 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
     return removed;
   }
 
+  async function owner(id: string): Promise<UploadOwner | null> {
+    if (!UPLOAD_ID.test(id)) return null;
+    try {
+      const details = JSON.parse(await fs.promises.readFile(detailsPath(id), 'utf8')) as Pick<Upload, 'metadata'> & {
+        finished?: UploadOwner['finished'];
+      };
+      const assessmentId = Number(details.metadata?.['assessmentId']);
+      const userId = Number(details.metadata?.['userId']);
+      if (!Number.isInteger(assessmentId) || !Number.isInteger(userId)) return null;
+      return { assessmentId, userId, finished: details.finished ?? null };
+    } catch {
+      return null;
+    }
+  }
+
   return {
     async handle(req, res, context) {
       contexts.set(req, context);
@@ -184,22 +201,16 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
       }
     },
 
-    async owner(id) {
-      if (!UPLOAD_ID.test(id)) return null;
-      try {
-        const details = JSON.parse(await fs.promises.readFile(detailsPath(id), 'utf8')) as Pick<Upload, 'metadata'> & {
-          finished?: UploadOwner['finished'];
-        };
-        const assessmentId = Number(details.metadata?.['assessmentId']);
-        const userId = Number(details.metadata?.['userId']);
-        if (!Number.isInteger(assessmentId) || !Number.isInteger(userId)) return null;
-        return { assessmentId, userId, finished: details.finished ?? null };
-      } catch {
-        return null;
+    owner,
+    sweep,
+    async removeForAssessments(assessmentIds) {
+      const wanted = new Set(assessmentIds);
+      const names = await fs.promises.readdir(d.dir).catch(() => [] as string[]);
+      for (const id of names.filter((n) => UPLOAD_ID.test(n))) {
+        const who = await owner(id);
+        if (who && wanted.has(who.assessmentId)) await removeParts(id);
       }
     },
-
-    sweep,
     startSweeping({ everyMs, maxAgeMs }) {
       const timer = setInterval(() => {
         sweep(maxAgeMs)

@@ -1,5 +1,6 @@
 import { randomBytes } from 'node:crypto';
 import type { SessionUser } from '../../src/contracts/api';
+import type { ResumableUploads } from '../clips/resumable-uploads';
 import type { AthleteDataOverview, ClipErasureResult, ErasureResult } from '../../src/contracts/privacy';
 import { audit } from '../audit/audit-log';
 import type { ClipsService } from '../clips/clips-service';
@@ -43,6 +44,8 @@ export function athleteDataService(d: {
   clips: ClipsService;
   revocations: UserRevocations;
   clock: () => Date;
+  /** Partial resumable uploads (their bytes are the athlete's video too): removed with the athlete's clips. */
+  partialUploads?: Pick<ResumableUploads, 'removeForAssessments'>;
 }): AthleteDataService {
   const { db, store, processing, clips, revocations, clock } = d;
 
@@ -149,6 +152,7 @@ export function athleteDataService(d: {
       for (const id of clipIds) await store.removePrefix(clipKeys(id).prefix);
       for (const id of assessmentIds) await store.removePrefix(assessmentPrefix(id));
       await store.removePrefix(exportPrefix(athleteId));
+      await d.partialUploads?.removeForAssessments(assessmentIds);
       if (a.user_id !== null) revocations.revoke(a.user_id);
       return { reference, keptInvoices };
     },
@@ -157,6 +161,7 @@ export function athleteDataService(d: {
       await accessibleAthlete(db, user, athleteId, 'clip:erase-all');
       const rows = await db('clips').where({ athlete_id: athleteId }).select('id', 'assessment_id');
       await clips.removeClips(rows);
+      await d.partialUploads?.removeForAssessments(await db('assessments').where({ athlete_id: athleteId }).pluck('id'));
       await audit(
         db,
         { clinicId: user.clinicId, actorId: user.id, athleteId, action: 'athlete.clips_erased', detail: { clips: rows.length } },

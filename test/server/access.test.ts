@@ -9,6 +9,7 @@
  * a check makes sure each mounted route's guard names that very action. Public routes state their
  * status outright.
  */
+import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
@@ -1473,6 +1474,7 @@ describe('after erasing the self athlete', () => {
     'data-exports': 'data_exports',
   };
   let prefixes: string[] = [];
+  let partialUpload = false;
   let reference = '';
   let invoiceIds: number[] = [];
   let athleteClient: Client;
@@ -1495,6 +1497,8 @@ describe('after erasing the self athlete', () => {
       `exports/${id}/`,
     ];
     invoiceIds = (await t.db('invoices').where({ athlete_id: id }).whereNot({ status: 'draft' }).pluck('id')) as number[];
+    // A resumable upload the coach left unfinished on the athlete's assessment: its bytes are theirs too.
+    partialUpload = (await import('node:fs')).existsSync(path.join(t.config.uploadsDir, 'tmp', 'resumable', uc.uploadId));
     athleteClient = await clientFor(t.app, 'athleteSelf');
     const owner = await clientFor(t.app, 'owner');
     const wrong = await owner.post(`/api/athletes/${id}/erasure`, { confirmName: 'Ada Kestrell' });
@@ -1560,6 +1564,8 @@ describe('after erasing the self athlete', () => {
     const files = (fs.readdirSync(t.config.uploadsDir, { recursive: true }) as string[]).map((f) => f.split('\\').join('/'));
     expect(files.length).toBeGreaterThan(0);
     expect(files.filter((f) => prefixes.some((p) => `${f}/`.startsWith(p)))).toEqual([]);
+    expect(partialUpload).toBe(true);
+    expect(files.filter((f) => f.includes(uc.uploadId))).toEqual([]);
   });
 
   it("no text in any table holds the athlete's name or e-mail", async () => {
