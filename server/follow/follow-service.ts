@@ -11,6 +11,9 @@ import { AppError, ConflictError, ValidationError } from '../errors';
 import type { Processing } from '../processing/processing';
 import type { MediaStore } from '../storage/media-store';
 import { FOLLOW_MARKERS, followMarkersKind, type FollowPayload } from './follow-kind';
+import { planFollow } from './follow-plan';
+import { isOnTapeDot } from './marker-follower';
+import { storedFrameReader } from './stored-frames';
 
 export function followService(d: {
   db: Db;
@@ -25,7 +28,8 @@ export function followService(d: {
     /**
      * Queues following the markers of `startFrame` over `from`–`to`. 409 `clip_not_ready` while
      * frames are extracted, 409 `follow_running` when the clip is being followed already, 422 when
-     * the range leaves the clip or the start frame has no landmarks.
+     * the range leaves the clip, the start frame has no landmarks, or none of them is on a tape
+     * marker (`no_markers_found`: a clip filmed without markers).
      */
     async start(user: SessionUser, clipId: number, body: FollowMarkersRequest): Promise<FollowMarkersStarted> {
       const clip = await d.clips.accessibleClip(user, clipId, 'landmark:follow');
@@ -42,6 +46,16 @@ export function followService(d: {
           'no_start_landmarks',
           `Frame ${body.startFrame} has no landmarks: place the markers on the frame to start from, then follow. Nothing was changed.`,
         );
+      const size = { width: clip.width ?? 0, height: clip.height ?? 0 };
+      const { markers } = planFollow(marks.landmarks, body, size);
+      const startImage = await storedFrameReader(d.store, clipId, { frameCount: clip.frame_count, ...size }, 1).read(body.startFrame);
+      if (!markers.some((m) => isOnTapeDot(startImage, m.start)))
+        throw new AppError(
+          422,
+          'no_markers_found',
+          `None of the points on frame ${body.startFrame} sits on a high-contrast tape marker, so following could only guess: ` +
+            'put tape dots on the hip, knee, ankle, heel and toe and film again, or place the landmarks by hand. Nothing was changed.',
+        );
       const busy = await db('processed_items')
         .where({ kind: FOLLOW_MARKERS, subject_type: 'clip', subject_id: clipId })
         .whereIn('state', ['queued', 'running'])
@@ -52,6 +66,19 @@ export function followService(d: {
         processing.enqueue(trx, FOLLOW_MARKERS, clipId, { clinicId: clip.clinic_id, athleteId: clip.athlete_id }, { ...payload }),
       );
       return { itemId, kind: FOLLOW_MARKERS };
+    },
+
+    /**
+     * Stops the clip's queued or running follow. Nothing it followed is kept: the followed points
+     * are saved only when a run ends, so the clip's landmarks stay as they were before it started.
+     * 409 `follow_not_running` when no follow is queued or running.
+     */
+    async cancel(user: SessionUser, clipId: number): Promise<{ cancelled: number }> {
+      await d.clips.accessibleClip(user, clipId, 'landmark:follow');
+      const cancelled = await processing.cancel('clip', clipId, FOLLOW_MARKERS);
+      if (!cancelled)
+        throw new ConflictError('No markers are being followed on this clip: there is nothing to cancel.', 'follow_not_running');
+      return { cancelled };
     },
   };
 }

@@ -72,6 +72,8 @@ export const LOW_CONFIDENCE = 0.5;
 export const LOST_CONFIDENCE = 0.2;
 /** How much a linked pair's distance may change from the start frame (share of it). */
 export const LINK_TOLERANCE = 0.12;
+/** A marker found by the wide search (the flow lost it) is confident only with at least this template match score. */
+export const WIDE_CONFIDENT_SCORE = 0.85;
 /** A starting point is on a tape dot when its centre stands out from around it by at least this many grey levels. */
 export const MIN_DOT_CONTRAST = 40;
 
@@ -165,6 +167,11 @@ class MarkerTrack {
   velocity: Point = { x: 0, y: 0 };
   lostFor = 0;
   readonly template: CvMat;
+  /**
+   * The marker as last seen clearly (updated only on confident points on the dot): motion blur
+   * streaks a fast foot's dot differently from the start frame, and changes little frame to frame.
+   */
+  readonly recent: CvMat;
   readonly polarity: 1 | -1;
   readonly dotRadius: number;
   readonly startContrast: number;
@@ -193,6 +200,8 @@ class MarkerTrack {
     this.onDot = !!fit && fit.contrast >= MIN_DOT_CONTRAST && dist(fit, start) <= this.dotRadius;
     this.template = new cv.Mat(sizes.template, sizes.template, cv.CV_8UC1);
     copyPatch(frame, patchOrigin(frame, this.pos, sizes.template), sizes.template, this.template.data);
+    this.recent = new cv.Mat(sizes.template, sizes.template, cv.CV_8UC1);
+    this.recent.data.set(this.template.data);
   }
 
   /** Moves the marker to a point a person placed (not reported; resets the motion when it was lost). */
@@ -216,7 +225,8 @@ class MarkerTrack {
     let candidate: Point = guess;
     let flowScore = 1;
     if (this.lostFor === 0) {
-      const origin = patchOrigin(prev, this.pos, sizes.patch);
+      // Centred between where the marker was and where it should be, so a fast marker stays inside the patch on both frames.
+      const origin = patchOrigin(prev, { x: (this.pos.x + guess.x) / 2, y: (this.pos.y + guess.y) / 2 }, sizes.patch);
       copyPatch(prev, origin, sizes.patch, ws.a.data);
       copyPatch(next, origin, sizes.patch, ws.b.data);
       const local = (p: Point) => ({ x: p.x - origin.x, y: p.y - origin.y });
@@ -230,19 +240,27 @@ class MarkerTrack {
       } else flowScore = 0.3;
     }
     const radius = this.lostFor === 0 ? sizes.search : Math.min(sizes.maxSearch, sizes.search + 4 * this.lostFor);
-    const match = this.matchNear(next, candidate, radius);
-    if (!match) return this.lose(guess);
-    const fit = dotCentroid(next, match, this.dotRadius + 1, this.polarity);
-    const refined: Point = fit && dist(fit, match) <= this.dotRadius * 0.75 ? { x: fit.x, y: fit.y } : match;
-    const appearance = clamp01((match.score - 0.45) / 0.4);
-    const contrast = clamp01((fit?.contrast ?? 0) / (0.55 * this.startContrast));
-    const agree = this.lostFor === 0 ? 1 / (1 + (dist(refined, candidate) / (3 * Math.max(scale, 0.5))) ** 2) : 1;
-    let confidence = appearance * contrast * Math.min(flowScore, agree);
+    let found = this.judge(next, this.matchNear(next, candidate, radius), this.lostFor === 0 ? candidate : null, flowScore, scale);
+    if (this.lostFor === 0 && this.onDot && (!found || found.confidence < LOW_CONFIDENCE)) {
+      // Fast limbs at low frame rates (a knee moves ~15 px a frame at 60 fps) outrun the flow on a
+      // small dot over a moving leg: look for the dot itself around where it should be, and keep it
+      // only when it clearly is the marker (as when a lost marker is found again).
+      // A dot found this way is confident only when it matches very well: a marker coming out from
+      // behind a limb (half covered, ghosted by motion blur) matches less and stays to be checked.
+      const wide = this.judge(next, this.matchNear(next, guess, sizes.maxSearch), null, 1, scale);
+      if (wide && wide.score >= 0.8 && wide.contrast >= 0.8 && !others.some((o) => dist(o, wide.p) < 2 * this.dotRadius)) {
+        if (wide.score < WIDE_CONFIDENT_SCORE) wide.confidence = Math.min(wide.confidence, LOW_CONFIDENCE - 0.01);
+        if (!found || wide.confidence > found.confidence) found = wide;
+      }
+    }
+    if (!found) return this.lose(guess);
+    const { p: refined, contrast } = found;
+    let confidence = found.confidence;
     if (!this.onDot) confidence = Math.min(confidence, LOW_CONFIDENCE - 0.01);
     if (this.lostFor > 0) {
       // Found again only when it clearly looks like the marker and is not another marker.
       const taken = others.some((o) => dist(o, refined) < 2 * this.dotRadius);
-      if (taken || match.score < 0.8 || contrast < 0.8) return this.lose(guess);
+      if (taken || found.score < 0.8 || contrast < 0.8) return this.lose(guess);
       this.verified = false;
     }
     if (confidence < LOST_CONFIDENCE) return this.lose(guess);
@@ -250,7 +268,29 @@ class MarkerTrack {
     this.velocity = confidence >= LOW_CONFIDENCE ? moved : { x: moved.x * 0.5, y: moved.y * 0.5 };
     this.pos = refined;
     this.lostFor = 0;
+    if (confidence >= 0.8 && contrast >= 0.9) copyPatch(next, patchOrigin(next, refined, sizes.template), sizes.template, this.recent.data);
     return { p: refined, confidence };
+  }
+
+  /**
+   * Refines a template match on the dot's centroid and scores it: how well it looks like the marker
+   * (match score, dot contrast against the start's) times the flow's own forward–backward score
+   * and how well it agrees with `expected` (where the flow put it; null: not checked).
+   */
+  private judge(
+    next: GrayFrame,
+    match: (Point & { score: number }) | null,
+    expected: Point | null,
+    flowScore: number,
+    scale: number,
+  ): { p: Point; confidence: number; score: number; contrast: number } | null {
+    if (!match) return null;
+    const fit = dotCentroid(next, match, this.dotRadius + 1, this.polarity);
+    const p: Point = fit && dist(fit, match) <= this.dotRadius * 0.75 ? { x: fit.x, y: fit.y } : match;
+    const appearance = clamp01((match.score - 0.45) / 0.4);
+    const contrast = clamp01((fit?.contrast ?? 0) / (0.55 * this.startContrast));
+    const agree = expected ? 1 / (1 + (dist(p, expected) / (3 * Math.max(scale, 0.5))) ** 2) : 1;
+    return { p, confidence: appearance * contrast * Math.min(flowScore, agree), score: match.score, contrast };
   }
 
   /** Takes the marker as lost from here on (its last point was judged wrong). */
@@ -266,7 +306,7 @@ class MarkerTrack {
     return null;
   }
 
-  /** Template match (normalised cross-correlation) within ±radius of `centre`; best position and score. */
+  /** Template match (normalised cross-correlation, the marker as placed and as last seen) within ±radius of `centre`; best position and score. */
   private matchNear(frame: GrayFrame, centre: Point, radius: number): (Point & { score: number }) | null {
     const { cv, sizes } = this.ws;
     const size = sizes.template + 2 * radius;
@@ -274,9 +314,13 @@ class MarkerTrack {
     const origin = patchOrigin(frame, centre, size);
     const area = this.ws.searchMat(size);
     copyPatch(frame, origin, size, area.data);
-    cv.matchTemplate(area, this.template, this.ws.scores, cv.TM_CCOEFF_NORMED);
     const n = size - sizes.template + 1;
-    const peak = scorePeak(this.ws.scores.data32F, n, n);
+    let peak = { x: 0, y: 0, score: Number.NaN };
+    for (const template of [this.template, this.recent]) {
+      cv.matchTemplate(area, template, this.ws.scores, cv.TM_CCOEFF_NORMED);
+      const p = scorePeak(this.ws.scores.data32F, n, n);
+      if (Number.isFinite(p.score) && !(p.score <= peak.score)) peak = p;
+    }
     if (!Number.isFinite(peak.score)) return null;
     const half = (sizes.template - 1) / 2;
     return { x: origin.x + peak.x + half, y: origin.y + peak.y + half, score: peak.score };
@@ -284,6 +328,7 @@ class MarkerTrack {
 
   delete(): void {
     this.template.delete();
+    this.recent.delete();
   }
 }
 
@@ -309,6 +354,13 @@ function lookOfDot(frame: GrayFrame, p: Point, template: number): { polarity: 1 
     radius = r + 0.5;
   }
   return { polarity, radius: Math.max(2, radius), contrast: Math.abs(centre - outside) };
+}
+
+/** Whether a point (px) sits on a high-contrast tape dot, as following needs to give confident points. */
+export function isOnTapeDot(frame: GrayFrame, p: Point): boolean {
+  const look = lookOfDot(frame, p, sizesFor(frame.width).template);
+  const fit = dotCentroid(frame, p, look.radius + 1, look.polarity);
+  return !!fit && fit.contrast >= MIN_DOT_CONTRAST && dist(fit, p) <= look.radius;
 }
 
 /**

@@ -119,10 +119,15 @@ export const processedItemsRepository = {
     return n > 0;
   },
 
-  /** Cancels the queued and running items of a subject; answers those it cancelled. */
-  async cancelSubject(db: Knex, subjectType: string, subjectId: number, opts: { at: string; by: string }): Promise<ProcessedItemRow[]> {
+  /** Cancels the queued and running items of a subject (of one kind when `opts.kind` is given); answers those it cancelled. */
+  async cancelSubject(
+    db: Knex,
+    subjectType: string,
+    subjectId: number,
+    opts: { at: string; by: string; kind?: string },
+  ): Promise<ProcessedItemRow[]> {
     const rows = (await db(TABLE)
-      .where({ subject_type: subjectType, subject_id: subjectId })
+      .where({ subject_type: subjectType, subject_id: subjectId, ...(opts.kind ? { kind: opts.kind } : {}) })
       .whereIn('state', ['queued', 'running'])
       .update({ state: 'cancelled', error: null, lease_until: null, touched_by: opts.by, updated_at: opts.at })
       .returning('*')) as ProcessedItemRow[];

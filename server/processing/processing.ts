@@ -29,8 +29,11 @@ export interface Processing {
    * After commit, workers of this process are woken and the change is published.
    */
   enqueue(trx: Knex, kind: string, subjectId: number, scope: ItemScope, payload?: Record<string, unknown>): Promise<number>;
-  /** Cancels a subject's queued and running items (it is being deleted); a running attempt is aborted. */
-  cancel(subjectType: string, subjectId: number): Promise<void>;
+  /**
+   * Cancels a subject's queued and running items (it is being deleted), or only those of `kind`
+   * (a person stopped that job); a running attempt is aborted. Answers how many were cancelled.
+   */
+  cancel(subjectType: string, subjectId: number, kind?: string): Promise<number>;
   /** The newest item about a subject, or null. */
   latest(subjectType: string, subjectId: number): Promise<ProcessedItem | null>;
   /** Notices of an athlete's queued and running items (what a new stream starts with). */
@@ -247,14 +250,15 @@ export function createProcessing(o: ProcessingOptions): Processing {
       return id;
     },
 
-    async cancel(subjectType, subjectId) {
-      const rows = await repo.cancelSubject(db, subjectType, subjectId, { at: now(), by: processTag });
-      if (!rows.length) return;
+    async cancel(subjectType, subjectId, kind) {
+      const rows = await repo.cancelSubject(db, subjectType, subjectId, { at: now(), by: processTag, ...(kind ? { kind } : {}) });
+      if (!rows.length) return 0;
       for (const listener of cancelled) listener(rows.map((r) => r.id));
       for (const row of rows) {
         const notice = noticeOf(row);
         if (notice) channel.publish(notice);
       }
+      return rows.length;
     },
 
     async latest(subjectType, subjectId) {

@@ -72,6 +72,15 @@ export async function markDemoVisits(
   return { athleteId: ada.id, baseline: await mark('baseline', 4), retest: await mark('retest', 11) };
 }
 
+/** Signs `who` in on the sign-in page and waits for the athletes list. */
+export async function signInOnPage(page: Page, baseUrl: string, who: { email: string; password: string }): Promise<void> {
+  await page.goto(`${baseUrl}/sign-in`);
+  await page.getByLabel('E-mail').fill(who.email);
+  await page.getByLabel('Password', { exact: true }).fill(who.password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL(/\/athletes$/);
+}
+
 /** Whether the canvas has anything drawn beyond one flat colour. */
 export function canvasDrawn(page: Page, selector: string): Promise<boolean> {
   return page.locator(selector).evaluate((c: HTMLCanvasElement) => {

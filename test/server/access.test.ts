@@ -530,6 +530,13 @@ const ROUTES: RouteCase[] = [
     access: { action: 'landmark:follow', on: 'self', ok: 422 },
   },
   {
+    method: 'post',
+    pattern: '/api/clips/:id/follow/cancel',
+    path: (c) => `/api/clips/${c.clipId}/follow/cancel`,
+    // Nothing is being followed on the walk's clip: the caller allowed in hears there is nothing to cancel.
+    access: { action: 'landmark:follow', on: 'self', ok: 409 },
+  },
+  {
     method: 'get',
     pattern: '/api/clips/:id/measures',
     path: (c) => `/api/clips/${c.clipId}/measures`,

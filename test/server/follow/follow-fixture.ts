@@ -6,9 +6,13 @@
 import type { GroundTruth, RunnerClipOptions } from '../../../scripts/demo-clip/clip';
 import { generateRunnerClip } from '../../../scripts/demo-clip/clip';
 import type { LandmarkName } from '../../../scripts/demo-clip/ground-truth';
+import { expect } from 'vitest';
+import { FAR_MARKERS } from '../../../scripts/demo-clip/realism';
 import { decodeGray } from '../../../server/follow/gray-decode';
 import type { GrayFrame } from '../../../server/follow/gray-frame';
-import type { FollowedPoint, FrameReader } from '../../../server/follow/marker-follower';
+import { followMarkers, LOW_CONFIDENCE, type FollowedPoint, type FrameReader } from '../../../server/follow/marker-follower';
+import type { OpenCv } from '../../../server/follow/opencv';
+import { RIGID_LINKS } from '../../../server/follow/rigid-links';
 
 /** The six near-side tape markers a coach places. */
 export const NEAR_MARKERS: LandmarkName[] = ['shoulder', 'hip', 'knee', 'ankle', 'heel', 'toe'];
@@ -48,4 +52,44 @@ export function pointErrors(truth: GroundTruth, side: 'near' | 'far', key: Landm
 export function quantile(values: number[], q: number): number {
   const sorted = [...values].sort((a, b) => a - b);
   return sorted[Math.min(sorted.length - 1, Math.max(0, Math.ceil(q * sorted.length) - 1))]!;
+}
+
+/** Frames where the generator says a far-side marker's centre is covered by the near leg, arm or trunk. */
+export function hiddenFarFrames(truth: GroundTruth, key: string): number[] {
+  return truth.frames.filter((f) => (f.hiddenFar as string[]).includes(key)).map((f) => f.index);
+}
+
+/**
+ * Follows near and far markers together (as a coach does; keys 'near knee', 'far knee', …) from
+ * the first frame at or after `after` where no far marker is covered, and checks against the
+ * generator truth: every confident far point within 5 px of its marker, no confident far point on
+ * a frame where its marker is covered (those frames flagged low), near markers p95 < 5 px.
+ */
+export async function expectFarMarkersNeverConfidentWhileCovered(cv: OpenCv, clip: DecodedClip, after: number): Promise<void> {
+  const { truth } = clip;
+  const visibleStart = truth.frames.findIndex((f, i) => i >= after && f.hiddenFar.length === 0);
+  const sides = ['near', 'far'] as const;
+  const keysOf = (side: (typeof sides)[number]) => (side === 'near' ? NEAR_MARKERS : FAR_MARKERS);
+  const result = await followMarkers(cv, memoryReader(clip.frames), {
+    startFrame: visibleStart,
+    from: 0,
+    to: clip.frames.length - 1,
+    markers: sides.flatMap((side) =>
+      keysOf(side).map((key) => ({ key: `${side} ${key}`, start: truth.frames[visibleStart]!.landmarks[side][key] })),
+    ),
+    links: sides.flatMap((side) => RIGID_LINKS.map(([a, b]) => [`${side} ${a}`, `${side} ${b}`] as const)),
+  });
+  for (const key of FAR_MARKERS) {
+    const confident: FollowedPoint[] = result.points.get(`far ${key}`)!.filter((p) => p.confidence >= LOW_CONFIDENCE);
+    expect(Math.max(0, ...pointErrors(truth, 'far', key, confident)), `${key}: confident points stay on the marker`).toBeLessThanOrEqual(5);
+    const hidden = new Set(hiddenFarFrames(truth, key));
+    expect(
+      confident.filter((p) => hidden.has(p.frame)),
+      `${key}: no confident point while covered`,
+    ).toEqual([]);
+    for (const f of hidden) if (f !== visibleStart) expect(result.lowConfidenceFrames).toContain(f);
+  }
+  // The near markers stay right meanwhile.
+  for (const key of NEAR_MARKERS)
+    expect(quantile(pointErrors(truth, 'near', key, result.points.get(`near ${key}`)!), 0.95)).toBeLessThan(5);
 }

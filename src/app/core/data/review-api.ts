@@ -59,6 +59,11 @@ export class ReviewApi {
     return this.http.post<FollowMarkersStarted>(`/api/clips/${clipId}/follow`, body, { context: skipErrorSnackbar() });
   }
 
+  /** Stops the clip's queued or running follow; nothing it followed is kept. */
+  cancelFollow(clipId: number): Observable<{ cancelled: number }> {
+    return this.http.post<{ cancelled: number }>(`/api/clips/${clipId}/follow/cancel`, {}, { context: skipErrorSnackbar() });
+  }
+
   /** The measures the server stored when the annotations last changed. */
   measures(clipId: number): Observable<ClipMeasures> {
     return this.http.get<ClipMeasures>(`/api/clips/${clipId}/measures`, { context: skipErrorSnackbar() });

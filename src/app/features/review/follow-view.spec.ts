@@ -1,5 +1,5 @@
 import type { FrameLandmarks } from '../../../contracts/annotations';
-import { followStatusText, isFollowed, lowConfidenceFrames } from './follow-view';
+import { followRangeProblem, followStatusText, isFollowed, lowConfidenceFrames } from './follow-view';
 
 // Hand-made rows [calc]: the expected frames are read off the rows below.
 const rows: FrameLandmarks[] = [
@@ -36,5 +36,19 @@ describe('follow view', () => {
     expect(followStatusText({ state: 'failed', progress: null, error: 'Frame 3 has no landmarks any more.' })).toBe(
       'Following stopped: Frame 3 has no landmarks any more.',
     );
+    expect(followStatusText({ state: 'cancelled', progress: null, error: null })).toContain('nothing it followed was kept');
+  });
+
+  it('takes a range inside the clip, two frames or more, holding the frame with the points (a 120-frame clip: frames 0–119)', () => {
+    expect(followRangeProblem({ from: 0, to: 119 }, 60, 120)).toBeNull();
+    expect(followRangeProblem({ from: 60, to: 61 }, 60, 120)).toBeNull();
+    expect(followRangeProblem({ from: 0, to: 120 }, 60, 120)).toBe("The clip's frames are 0–119.");
+    expect(followRangeProblem({ from: -1, to: 50 }, 20, 120)).toBe("The clip's frames are 0–119.");
+    expect(followRangeProblem({ from: 40, to: 40 }, 40, 120)).toMatch(/at least two frames/);
+    expect(followRangeProblem({ from: 70, to: 30 }, 40, 120)).toMatch(/at least two frames/);
+    expect(followRangeProblem({ from: 10, to: 50 }, 60, 120)).toBe(
+      'This frame (60) is outside 10–50: follow from a frame inside the range.',
+    );
+    expect(followRangeProblem({ from: 1.5, to: 50 }, 20, 120)).toBe('Frame numbers are whole numbers.');
   });
 });

@@ -22,6 +22,26 @@ export function lowConfidenceFrames(landmarks: readonly FrameLandmarks[]): numbe
   return [...frames].sort((a, b) => a - b);
 }
 
+/** The frames to follow: `from`–`to` inclusive. */
+export interface FollowRange {
+  from: number;
+  to: number;
+}
+
+/**
+ * Why following from `frame` over `range` cannot start, in words, or null when it can: the range
+ * must lie in the clip, span two frames or more, and hold the frame with the placed points.
+ */
+export function followRangeProblem(range: FollowRange, frame: number, frameCount: number): string | null {
+  const last = frameCount - 1;
+  if (!Number.isInteger(range.from) || !Number.isInteger(range.to)) return 'Frame numbers are whole numbers.';
+  if (range.from < 0 || range.to > last) return `The clip's frames are 0–${last}.`;
+  if (range.from >= range.to) return 'Follow over at least two frames: the first frame comes before the last.';
+  if (frame < range.from || frame > range.to)
+    return `This frame (${frame}) is outside ${range.from}–${range.to}: follow from a frame inside the range.`;
+  return null;
+}
+
 /** A follow's state in words: "Following markers… 40 of 120 frames", "Markers followed.", the reason it failed. */
 export function followStatusText(e: Pick<ProcessingEvent, 'state' | 'progress' | 'error'>): string {
   switch (e.state) {
@@ -34,6 +54,6 @@ export function followStatusText(e: Pick<ProcessingEvent, 'state' | 'progress' |
     case 'failed':
       return `Following stopped: ${e.error ?? 'unknown reason'}`;
     case 'cancelled':
-      return 'Following was cancelled.';
+      return 'Following cancelled: nothing it followed was kept, the landmarks are as they were.';
   }
 }

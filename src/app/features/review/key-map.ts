@@ -73,7 +73,7 @@ export const KEY_HELP: KeyHelpGroup[] = [
       { keys: ['S'], does: 'Switch side (left / right)' },
       { keys: ['I', 'M', 'O'], does: 'Mark or unmark Initial contact / Midstance / Toe-off on this frame' },
       { keys: ['C'], does: 'Copy the points of the nearest earlier marked frame' },
-      { keys: ['T'], does: "Follow markers: follow this frame's landmarks through the whole clip" },
+      { keys: ['T'], does: "Follow markers: follow this frame's landmarks over the chosen frames (the whole clip by default)" },
       { keys: ['Delete'], does: 'Remove the selected point or angle gauge' },
       { keys: ['Ctrl + Z'], does: 'Undo' },
       { keys: ['Ctrl + Shift + Z', 'Ctrl + Y'], does: 'Redo' },

@@ -102,4 +102,56 @@ describe('MarkerFollowing', () => {
     expect(following.problem()).toBe('Frame 10 has no landmarks any more: place them, then follow again.');
     expect(store.annotations().landmarks).toEqual([start]);
   });
+
+  it('follows over the range the coach chose, forward and backward from this frame; Whole clip restores the default', async () => {
+    store.goTo(10);
+    expect(following.wholeClip()).toBe(true);
+    following.setRangeEnd('from', 5);
+    following.setRangeEnd('to', 20);
+    expect(following.range()).toEqual({ from: 5, to: 20 });
+    expect(following.wholeClip()).toBe(false);
+    const started = following.follow();
+    const req = http.expectOne('/api/clips/7/follow');
+    expect(req.request.body).toEqual({ startFrame: 10, from: 5, to: 20 });
+    req.flush({ itemId: 42, kind: 'follow_markers' });
+    await started;
+    item('failed', null, 'stop');
+    following.followWholeClip();
+    expect(following.range()).toEqual({ from: 0, to: 29 });
+  });
+
+  it('will not start when this frame is outside the range or the range leaves the clip, and says why', () => {
+    store.goTo(10);
+    following.setRangeEnd('from', 12);
+    expect(following.canFollow()).toBe(false);
+    expect(following.rangeProblem()).toBe('This frame (10) is outside 12–29: follow from a frame inside the range.');
+    following.setRangeEnd('from', 0);
+    following.setRangeEnd('to', 30);
+    expect(following.canFollow()).toBe(false);
+    expect(following.rangeProblem()).toBe("The clip's frames are 0–29.");
+    following.followWholeClip();
+    expect(following.canFollow()).toBe(true);
+  });
+
+  it('Cancel asks the server to stop; when the stream says cancelled, nothing changed and the status says nothing was kept', async () => {
+    store.goTo(10);
+    const started = following.follow();
+    http.expectOne('/api/clips/7/follow').flush({ itemId: 43, kind: 'follow_markers' });
+    await started;
+    item('running', { done: 3, total: 29 });
+    const cancelling = following.cancel();
+    expect(following.cancelling()).toBe(true);
+    http.expectOne({ method: 'POST', url: '/api/clips/7/follow/cancel' }).flush({ cancelled: 1 });
+    await cancelling;
+    stream.next({
+      type: 'item',
+      event: { subject: 'clip', id: 7, kind: 'follow_markers', state: 'cancelled', progress: null, error: null } as never,
+    });
+    expect(following.running()).toBe(false);
+    expect(following.cancelling()).toBe(false);
+    expect(following.status()).toBe('Following cancelled: nothing it followed was kept, the landmarks are as they were.');
+    expect(following.problem()).toBeNull();
+    expect(store.annotations().landmarks).toEqual([start]);
+    http.verify();
+  });
 });

@@ -5,7 +5,7 @@ import { ReviewApi } from '../../core/data/review-api';
 import { ProcessingEvents } from '../../core/processing-events';
 import { diffStates, stateOf } from './annotation-changes';
 import { AnnotationSync } from './annotation-sync';
-import { followStatusText, lowConfidenceFrames } from './follow-view';
+import { followRangeProblem, followStatusText, lowConfidenceFrames, type FollowRange } from './follow-view';
 import { ReviewStore } from './review-store';
 
 /** How long a finished follow waits for the page's own unsaved edits to be saved before showing the result. */
@@ -13,7 +13,8 @@ const SETTLE_MS = 10_000;
 
 /**
  * Marker following in the review: asks the server to follow the markers of the current frame
- * through the whole clip, shows the item's progress from the athlete's processing stream, and when
+ * forward and backward over a frame range (the whole clip unless the coach narrows it), can cancel
+ * a follow (nothing it followed is kept), shows the item's progress from the athlete's processing stream, and when
  * it is done shows the server's copy with the followed points (one undo step). Provided by the
  * review page.
  */
@@ -27,6 +28,10 @@ export class MarkerFollowing {
   private readonly status$ = signal<string | null>(null);
   private readonly progress$ = signal<{ done: number; total: number } | null>(null);
   private readonly problem$ = signal<string | null>(null);
+  /** The range the coach chose; null ends mean the clip's first and last frame. */
+  private readonly from$ = signal<number | null>(null);
+  private readonly to$ = signal<number | null>(null);
+  private readonly cancelling$ = signal(false);
   private watch: Subscription | null = null;
 
   /** Whether a follow is queued or running. */
@@ -37,6 +42,20 @@ export class MarkerFollowing {
   readonly progress = this.progress$.asReadonly();
   /** Why following could not start or failed, or null. */
   readonly problem = this.problem$.asReadonly();
+  /** Whether a cancel was asked for and the follow has not stopped yet. */
+  readonly cancelling = this.cancelling$.asReadonly();
+  /** The frames to follow over (the whole clip by default). */
+  readonly range = computed<FollowRange>(() => {
+    const last = Math.max(0, this.store.frameCount() - 1);
+    return { from: this.from$() ?? 0, to: this.to$() ?? last };
+  });
+  /** Whether the range is the whole clip. */
+  readonly wholeClip = computed(() => {
+    const r = this.range();
+    return r.from === 0 && r.to === this.store.frameCount() - 1;
+  });
+  /** Why the range does not fit the current frame or the clip, in words, or null. */
+  readonly rangeProblem = computed(() => followRangeProblem(this.range(), this.store.frame(), this.store.frameCount()));
   /** Frames with a followed point below the confidence the coach should check. */
   readonly lowFrames = computed(() => lowConfidenceFrames(this.store.annotations().landmarks));
   /** Whether following can start now: a clip is open, this frame has landmarks, every edit is saved. */
@@ -46,6 +65,7 @@ export class MarkerFollowing {
       !!this.store.clip() &&
       !this.running$() &&
       !this.sync.hasUnsaved() &&
+      !this.rangeProblem() &&
       this.store.annotations().landmarks.some((l) => l.frame === frame && Object.keys(l.points).length > 0)
     );
   });
@@ -54,7 +74,18 @@ export class MarkerFollowing {
     inject(DestroyRef).onDestroy(() => this.watch?.unsubscribe());
   }
 
-  /** Follows the current frame's markers through the whole clip. */
+  /** Sets the first or last frame to follow (null: the clip's own first or last). */
+  setRangeEnd(end: 'from' | 'to', frame: number | null): void {
+    (end === 'from' ? this.from$ : this.to$).set(frame);
+  }
+
+  /** Follows over the whole clip again. */
+  followWholeClip(): void {
+    this.from$.set(null);
+    this.to$.set(null);
+  }
+
+  /** Follows the current frame's markers forward and backward over the range. */
   async follow(): Promise<void> {
     const clip = this.store.clip();
     if (!clip || !this.canFollow()) return;
@@ -64,9 +95,7 @@ export class MarkerFollowing {
     this.progress$.set(null);
     this.status$.set('Following markers: starting…');
     try {
-      const started = await firstValueFrom(
-        this.api.followMarkers(clipId, { startFrame: this.store.frame(), from: 0, to: this.store.frameCount() - 1 }),
-      );
+      const started = await firstValueFrom(this.api.followMarkers(clipId, { startFrame: this.store.frame(), ...this.range() }));
       this.watch?.unsubscribe();
       this.watch = this.events.follow(clip.clip.athleteId).subscribe((m) => {
         if (m.type !== 'item' || m.event.kind !== started.kind || m.event.subject !== 'clip' || m.event.id !== clipId) return;
@@ -80,9 +109,28 @@ export class MarkerFollowing {
     }
   }
 
+  /**
+   * Stops the running follow. Nothing it followed is kept (the server saves followed points only
+   * when a run ends); the stream then says it was cancelled.
+   */
+  async cancel(): Promise<void> {
+    const clip = this.store.clip();
+    if (!clip || !this.running$() || this.cancelling$()) return;
+    this.cancelling$.set(true);
+    this.status$.set('Cancelling…');
+    try {
+      await firstValueFrom(this.api.cancelFollow(clip.clip.id));
+    } catch (err) {
+      // It may have ended meanwhile: the stream says how.
+      this.cancelling$.set(false);
+      this.problem$.set(errorMessage(err));
+    }
+  }
+
   private finish(problem: string | null): void {
     this.watch?.unsubscribe();
     this.watch = null;
+    this.cancelling$.set(false);
     this.running$.set(false);
     this.progress$.set(null);
     if (problem) {

@@ -1,6 +1,8 @@
 import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatIconModule } from '@angular/material/icon';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
@@ -16,11 +18,20 @@ import { ReviewStore } from '../review-store';
 
 /**
  * Side and landmark pickers, what is placed on this frame, copy from the previous marked frame,
- * Follow markers (progress, frames to check), and this frame's angle gauges (select, remove).
+ * Follow markers (frame range, progress, cancel, frames to check), and this frame's angle gauges (select, remove).
  */
 @Component({
   selector: 'app-landmarks-panel',
-  imports: [MatButtonModule, MatButtonToggleModule, MatIconModule, MatProgressBarModule, MatSlideToggleModule, MatTooltipModule],
+  imports: [
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatProgressBarModule,
+    MatSlideToggleModule,
+    MatTooltipModule,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './landmarks-panel.html',
   styleUrl: './landmarks-panel.scss',
@@ -49,6 +60,8 @@ export class LandmarksPanel {
   });
   protected readonly chosenLabel = computed(() => LANDMARK_LABELS[this.store.landmark()]);
   protected readonly placedCount = computed(() => this.rows().filter((r) => r.placed).length);
+  /** Whether this frame has a followed point to check. */
+  protected readonly lowHere = computed(() => this.following.lowFrames().includes(this.store.frame()));
   protected readonly copyFrom = computed(() => previousMarkedFrame(this.store.annotations(), this.store.frame()));
 
   protected sideLabel(side: Side): string {
@@ -68,6 +81,11 @@ export class LandmarksPanel {
   protected selectGauge(id: string): void {
     this.store.setTool('gauge');
     this.gauges.select(id);
+  }
+
+  /** Sets one end of the range to follow from what was typed (empty: the clip's own end). */
+  protected setEnd(end: 'from' | 'to', text: string): void {
+    this.following.setRangeEnd(end, text.trim() === '' ? null : Number(text));
   }
 
   protected copyPrevious(): void {
