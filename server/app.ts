@@ -48,7 +48,7 @@ import { clinicRoutes } from './clinic/clinic.routes';
 import { clinicService } from './clinic/clinic-service';
 import { clinicBrands } from './clinic/clinic-brand';
 import { brandingMailer } from './mail/mailer';
-import { localMediaObjects } from './storage/media-objects';
+import { localMediaStore } from './storage/local-media-store';
 import { workerPictureProcessor } from './pictures/picture-pool';
 import { demonstrationsService } from './demonstrations/demonstrations-service';
 import { demonstrationsRoutes } from './demonstrations/demonstrations.routes';
@@ -92,9 +92,9 @@ const RELAY_EVERY_MS = 250;
 export function createApp(deps: AppDeps): App {
   const { config, db, logger } = deps;
   const clock = deps.clock ?? (() => new Date());
-  const objects = localMediaObjects(config.uploadsDir);
+  const store = deps.store ?? localMediaStore(config.uploadsDir);
   const pictures = workerPictureProcessor();
-  const brands = clinicBrands({ db, objects });
+  const brands = clinicBrands({ db, store });
   // Every message that names its clinic goes out on the clinic's letterhead.
   const mailer = brandingMailer(deps.mailer, (clinicId) => brands.forDocuments(clinicId));
   const app = express();
@@ -187,8 +187,8 @@ export function createApp(deps: AppDeps): App {
   const temps = uploadTemps(uploadTempDir(config.uploadsDir), (err) => logger.warn({ err: err.message }, 'upload temp sweep failed'));
   const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
   const revocations = inProcessRevocations();
-  const media = createMediaServices({ config, db, mailer, logger, clock, store: deps.store, brands });
-  const { store, processing, clips, assessments, measures, annotations, follow, stills, summaries, annotatedClips } = media;
+  const media = createMediaServices({ config, db, mailer, logger, clock, store, brands });
+  const { processing, clips, assessments, measures, annotations, follow, stills, summaries, annotatedClips } = media;
   const exercises = exercisesService({ db, clock });
   const plans = plansService({ db, clock });
   const worker = config.runWorker
@@ -232,8 +232,8 @@ export function createApp(deps: AppDeps): App {
   api.use(annotatedClipsRoutes(annotatedClips, store));
   api.use(portalSharedRoutes({ stills, summaries }));
   api.use(billingRoutes(billing));
-  api.use(clinicRoutes(clinicService({ db, clock, objects, pictures })));
-  api.use(demonstrationsRoutes(demonstrationsService({ db, objects, pictures, clock })));
+  api.use(clinicRoutes(clinicService({ db, clock, store, pictures })));
+  api.use(demonstrationsRoutes(demonstrationsService({ db, store, pictures, clock })));
   api.use(apiNotFound);
 
   app.use('/api', (_req, res, next) => {

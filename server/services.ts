@@ -1,5 +1,4 @@
 import { clinicBrands, type ClinicBrands } from './clinic/clinic-brand';
-import { localMediaObjects } from './storage/media-objects';
 import type { Logger } from 'pino';
 import type { Config } from './config';
 import type { Db } from './db/knex';
@@ -28,7 +27,7 @@ export interface MediaServicesDeps {
   store?: MediaStore;
   /** The progress channel; defaults to one within this process. */
   channel?: ProgressChannel;
-  /** The clinics' letterheads for documents; defaults to the logos stored under `config.uploadsDir`. */
+  /** The clinics' letterheads for documents; defaults to the logos in `store`. */
   brands?: ClinicBrands;
 }
 
@@ -65,7 +64,7 @@ export function createMediaServices(d: MediaServicesDeps): MediaServices {
   const measures = measuresService({ db, clips });
   const annotations = annotationsService({ db, clips, validateEvents, measures });
   const follow = followService({ db, store, processing, clips, annotations });
-  const brands = d.brands ?? clinicBrands({ db, objects: localMediaObjects(config.uploadsDir) });
+  const brands = d.brands ?? clinicBrands({ db, store });
   const sharing = { db, store, processing, clips, mailer, logger, publicUrl: config.publicUrl, clock, brands };
   const stills = stillsService(sharing);
   const summaries = summariesService({ ...sharing, stills, measures });

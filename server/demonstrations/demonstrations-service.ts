@@ -7,8 +7,8 @@ import { ConflictError, NotFoundError } from '../errors';
 import type { Action } from '../policy/access-table';
 import { assertRole, assertScope } from '../policy/enforce';
 import type { PictureProcessor } from '../pictures/picture-pool';
-import type { MediaObjects } from '../storage/media-objects';
-import { demoPictureKey } from './demo-keys';
+import type { MediaStore } from '../storage/media-store';
+import { demoPictureKey } from '../storage/media-keys';
 import { demoPicturesRepository as repo, type DemoPictureRow } from './demo-pictures-repository';
 
 /** Demonstration pictures of the clinic's exercises: staff add, caption, order and remove them; athletes see those of their plans. */
@@ -26,12 +26,12 @@ export interface DemonstrationsService {
 
 export interface DemonstrationsDeps {
   db: Knex;
-  objects: MediaObjects;
+  store: MediaStore;
   pictures: PictureProcessor;
   clock: () => Date;
 }
 
-export function demonstrationsService({ db, objects, pictures, clock }: DemonstrationsDeps): DemonstrationsService {
+export function demonstrationsService({ db, store, pictures, clock }: DemonstrationsDeps): DemonstrationsService {
   /**
    * The exercise as this user may reach it for `action`: another clinic's is 404; an athlete
    * reaches it (scope `self`) only when it is on one of their own plans that is not a draft.
@@ -106,7 +106,7 @@ export function demonstrationsService({ db, objects, pictures, clock }: Demonstr
           ] as const) {
             const key = demoPictureKey(exerciseId, newId, size);
             written.push(key);
-            await objects.put(key, image.bytes);
+            await store.put(key, image.bytes);
           }
           await audit(
             trx,
@@ -117,7 +117,7 @@ export function demonstrationsService({ db, objects, pictures, clock }: Demonstr
         });
         return repo.toApi((await repo.find(db, user.clinicId, id))!);
       } catch (err) {
-        await Promise.all(written.map((key) => objects.remove(key)));
+        await Promise.all(written.map((key) => store.remove(key)));
         throw err;
       }
     },
@@ -142,13 +142,13 @@ export function demonstrationsService({ db, objects, pictures, clock }: Demonstr
           clock().toISOString(),
         );
       });
-      await objects.remove(demoPictureKey(row.exercise_id, row.id, 'full'));
-      await objects.remove(demoPictureKey(row.exercise_id, row.id, 'thumb'));
+      await store.remove(demoPictureKey(row.exercise_id, row.id, 'full'));
+      await store.remove(demoPictureKey(row.exercise_id, row.id, 'thumb'));
     },
 
     async image(user, pictureId, size) {
       const row = await reachablePicture(user, pictureId, 'demo:read');
-      return objects.get(demoPictureKey(row.exercise_id, row.id, size));
+      return store.get(demoPictureKey(row.exercise_id, row.id, size));
     },
   };
 }

@@ -20,8 +20,8 @@ import { listRouteActions, listRoutes } from '../support/routes';
 import type { Action } from '../../server/policy/access-table';
 import { decide, decideRole, type Actor, type Owner, type ResourceState } from '../../server/policy/decide';
 import { Jimp } from 'jimp';
-import { localMediaObjects } from '../../server/storage/media-objects';
-import { clinicLogoKey, demoPictureKey } from '../../server/demonstrations/demo-keys';
+import { localMediaStore } from '../../server/storage/local-media-store';
+import { clinicLogoKey, demoPictureKey } from '../../server/storage/media-keys';
 import { markedJpeg } from '../support/pictures';
 
 type Who = 'anonymous' | 'athleteSelf' | 'athleteOther' | 'coach' | 'coachOtherClinic' | 'owner' | 'ownerOtherClinic';
@@ -1421,7 +1421,7 @@ async function storedPicture(exerciseId: number): Promise<number> {
     })
     .returning('id');
   const id = (row as { id: number }).id;
-  const objects = localMediaObjects(t.config.uploadsDir);
+  const objects = localMediaStore(t.config.uploadsDir);
   const jpeg = await markedJpeg(8, 8, 2);
   await objects.put(demoPictureKey(exerciseId, id, 'full'), jpeg);
   await objects.put(demoPictureKey(exerciseId, id, 'thumb'), jpeg);
@@ -1443,7 +1443,7 @@ async function demoFixtures(): Promise<void> {
   dc.unplannedPictureId = await storedPicture(dc.unplannedExerciseId);
   dc.foreignPictureId = await storedPicture(dc.foreignExerciseId);
   // Both clinics have a logo for GET /api/clinic/logo.png.
-  const objects = localMediaObjects(t.config.uploadsDir);
+  const objects = localMediaStore(t.config.uploadsDir);
   for (const clinicId of await t.db('clinics').pluck('id')) {
     await objects.put(clinicLogoKey(clinicId, 1), await new Jimp({ width: 4, height: 2, color: 0x00000000 }).getBuffer('image/png'));
     await t.db('clinics').where({ id: clinicId }).update({ logo_version: 1, logo_width: 4, logo_height: 2 });
