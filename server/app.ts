@@ -188,7 +188,7 @@ export function createApp(deps: AppDeps): App {
   const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
   const revocations = inProcessRevocations();
   const media = createMediaServices({ config, db, mailer, logger, clock, store, brands });
-  const { processing, clips, assessments, measures, annotations, follow, stills, summaries, annotatedClips } = media;
+  const { processing, clips, assessments, measures, annotations, follow, stills, summaries, annotatedClips, demoClips } = media;
   const exercises = exercisesService({ db, clock });
   const plans = plansService({ db, clock });
   const worker = config.runWorker
@@ -233,7 +233,14 @@ export function createApp(deps: AppDeps): App {
   api.use(portalSharedRoutes({ stills, summaries }));
   api.use(billingRoutes(billing));
   api.use(clinicRoutes(clinicService({ db, clock, store, pictures })));
-  api.use(demonstrationsRoutes(demonstrationsService({ db, store, pictures, clock })));
+  api.use(
+    demonstrationsRoutes({
+      demos: demonstrationsService({ db, store, pictures, clips: demoClips, clock }),
+      clips: demoClips,
+      store,
+      upload: { temps, logger, uploadMaxBytes: config.uploadMaxBytes },
+    }),
+  );
   api.use(apiNotFound);
 
   app.use('/api', (_req, res, next) => {

@@ -16,6 +16,7 @@ import { measuresService, type MeasuresService } from './measures/measures-servi
 import { stillsService, type StillsService } from './stills/stills-service';
 import { summariesService, type SummariesService } from './summaries/summaries-service';
 import { annotatedClipsService, type AnnotatedClipsService } from './annotated-clips/annotated-clips-service';
+import { demoClipsService, type DemoClipsService } from './demonstrations/demo-clips-service';
 
 export interface MediaServicesDeps {
   config: Config;
@@ -43,10 +44,11 @@ export interface MediaServices {
   stills: StillsService;
   summaries: SummariesService;
   annotatedClips: AnnotatedClipsService;
+  demoClips: DemoClipsService;
 }
 
 /**
- * Builds the media path (storage, processing, clips, measures, stills, summaries, annotated clips) the same way in
+ * Builds the media path (storage, processing, clips, measures, stills, summaries, annotated clips, demonstration clips) the same way in
  * the web process (`createApp`) and in worker processes (`server/worker.ts`): constructing a
  * service registers its processed-item kinds, so every process knows every kind.
  */
@@ -69,5 +71,6 @@ export function createMediaServices(d: MediaServicesDeps): MediaServices {
   const stills = stillsService(sharing);
   const summaries = summariesService({ ...sharing, stills, measures });
   const annotatedClips = annotatedClipsService(sharing);
-  return { store, processing, clips, assessments, measures, annotations, follow, stills, summaries, annotatedClips };
+  const demoClips = demoClipsService({ db, store, processing, clock });
+  return { store, processing, clips, assessments, measures, annotations, follow, stills, summaries, annotatedClips, demoClips };
 }
