@@ -70,7 +70,7 @@ describe('exercise demonstrations', () => {
     await page.goto(`${h.baseUrl}/exercises`);
     await page.getByRole('button', { name: `Pictures of ${EXERCISE}` }).click();
     const dialog = page.getByRole('dialog');
-    await dialog.locator('input[type=file]').setInputFiles([path.join(dir, 'position-1.png'), path.join(dir, 'position-2.png')]);
+    await dialog.locator('input[type=file][multiple]').setInputFiles([path.join(dir, 'position-1.png'), path.join(dir, 'position-2.png')]);
     const pictures = dialog.getByRole('list', { name: 'Pictures in order' }).getByRole('listitem');
     await expect.poll(() => pictures.count(), { timeout: 60_000 }).toBe(2);
     const caption = dialog.getByLabel('Caption 1');
