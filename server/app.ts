@@ -26,7 +26,7 @@ import type { Processing } from './processing/processing';
 import { startWorker, type Worker } from './processing/worker';
 import { startProgressRelay } from './processing/progress-relay';
 import { processingEventsRoutes } from './processing/processing-events.routes';
-import { createMediaServices } from './services';
+import { createMediaServices, mediaStoreFor } from './services';
 import { warmUpFfmpeg } from './media/extract';
 import { clipsRoutes } from './clips/clips.routes';
 import { assessmentsRoutes } from './assessments/assessments.routes';
@@ -48,7 +48,6 @@ import { clinicRoutes } from './clinic/clinic.routes';
 import { clinicService } from './clinic/clinic-service';
 import { clinicBrands } from './clinic/clinic-brand';
 import { brandingMailer } from './mail/mailer';
-import { localMediaStore } from './storage/local-media-store';
 import { workerPictureProcessor } from './pictures/picture-pool';
 import { demonstrationsService } from './demonstrations/demonstrations-service';
 import { demonstrationsRoutes } from './demonstrations/demonstrations.routes';
@@ -92,7 +91,7 @@ const RELAY_EVERY_MS = 250;
 export function createApp(deps: AppDeps): App {
   const { config, db, logger } = deps;
   const clock = deps.clock ?? (() => new Date());
-  const store = deps.store ?? localMediaStore(config.uploadsDir);
+  const store = deps.store ?? mediaStoreFor(config);
   const pictures = workerPictureProcessor();
   const brands = clinicBrands({ db, store });
   // Every message that names its clinic goes out on the clinic's letterhead.

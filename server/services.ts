@@ -5,6 +5,7 @@ import type { Db } from './db/knex';
 import type { Mailer } from './mail/mailer';
 import { validateEvents } from '../src/kinematics';
 import { localMediaStore } from './storage/local-media-store';
+import { s3MediaStore } from './storage/s3-media-store';
 import type { MediaStore } from './storage/media-store';
 import { createProcessing, type Processing } from './processing/processing';
 import { inProcessProgressChannel, type ProgressChannel } from './processing/progress-channel';
@@ -17,6 +18,11 @@ import { stillsService, type StillsService } from './stills/stills-service';
 import { summariesService, type SummariesService } from './summaries/summaries-service';
 import { annotatedClipsService, type AnnotatedClipsService } from './annotated-clips/annotated-clips-service';
 import { demoClipsService, type DemoClipsService } from './demonstrations/demo-clips-service';
+
+/** The configured media store: the S3-compatible bucket when `config.s3` is set, else folders under `uploadsDir`. */
+export function mediaStoreFor(config: Config): MediaStore {
+  return config.s3 ? s3MediaStore(config.s3) : localMediaStore(config.uploadsDir);
+}
 
 export interface MediaServicesDeps {
   config: Config;
@@ -54,7 +60,7 @@ export interface MediaServices {
  */
 export function createMediaServices(d: MediaServicesDeps): MediaServices {
   const { config, db, mailer, logger, clock } = d;
-  const store = d.store ?? localMediaStore(config.uploadsDir);
+  const store = d.store ?? mediaStoreFor(config);
   const processing = createProcessing({
     db,
     channel: d.channel ?? inProcessProgressChannel(),
