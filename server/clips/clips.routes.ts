@@ -1,7 +1,7 @@
 import { Router, type Request, type RequestHandler } from 'express';
 import type { SessionUser } from '../../src/contracts/api';
 import type { Db } from '../db/knex';
-import { NotFoundError, ValidationError } from '../errors';
+import { NotFoundError } from '../errors';
 import { currentUser } from '../http/access';
 import { permit } from '../policy/enforce';
 import { idParam, parse } from '../http/validate';
@@ -13,7 +13,7 @@ import { sendStored } from '../http/send-stored';
 import type { MediaStore } from '../storage/media-store';
 import { ClipPatchBody, MediaIndexParams } from './clips-schemas';
 import type { ClipsService } from './clips-service';
-import { videoUploadReceiver } from '../http/video-upload';
+import { receivedVideo, videoUploadReceiver } from '../http/video-upload';
 import type { ClipMediaWhat } from './clip-media';
 
 declare module 'express-session' {
@@ -38,27 +38,14 @@ const IMMUTABLE = 'private, max-age=31536000, immutable';
 /** Upload, settings and authorised media of clips (their processing is followed on the one progress stream). */
 export function clipsRoutes(d: ClipsRoutesDeps): Router {
   const router = Router();
-  const { receive, refuse } = videoUploadReceiver(d);
+  const { receiveAfter } = videoUploadReceiver(d);
 
   router.post(
     '/assessments/:id/clips',
     permit('clip:upload'),
-    async (req, res, next) => {
-      try {
-        await d.clips.beforeUpload(currentUser(req), idParam(req.params, 'Assessment'));
-        next();
-      } catch (err) {
-        refuse(req, res, next, err);
-      }
-    },
-    receive,
+    ...receiveAfter((req) => d.clips.beforeUpload(currentUser(req), idParam(req.params, 'Assessment'))),
     async (req, res) => {
-      if (!req.file) {
-        throw new ValidationError('Choose a clip to upload (multipart form field "file").', [
-          { path: ['file'], message: 'A clip is required.' },
-        ]);
-      }
-      const clip = await d.clips.acceptUpload(currentUser(req), idParam(req.params, 'Assessment'), req.file);
+      const clip = await d.clips.acceptUpload(currentUser(req), idParam(req.params, 'Assessment'), receivedVideo(req));
       res.status(201).json(clip);
     },
   );

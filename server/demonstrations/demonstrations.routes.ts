@@ -5,8 +5,7 @@ import { idParam, parse } from '../http/validate';
 import { permit } from '../policy/enforce';
 import { receivePicture } from '../pictures/picture-upload';
 import { sendStored } from '../http/send-stored';
-import { videoUploadReceiver, type VideoUploadDeps } from '../http/video-upload';
-import { ValidationError } from '../errors';
+import { receivedVideo, videoUploadReceiver, type VideoUploadDeps } from '../http/video-upload';
 import type { MediaStore } from '../storage/media-store';
 import { DemoClipUpdateBody, DemoPictureUpdateBody, PictureUploadFields } from './demonstrations-schemas';
 import type { DemonstrationsService } from './demonstrations-service';
@@ -36,7 +35,7 @@ export function sendJpeg(res: Response, stream: Readable, cache: string): void {
 /** Demonstration pictures and clips of exercises. Thin: parse, call, answer. */
 export function demonstrationsRoutes({ demos, clips, store, upload }: DemonstrationsRoutesDeps): Router {
   const router = Router();
-  const { receive, refuse } = videoUploadReceiver(upload);
+  const { receiveAfter } = videoUploadReceiver(upload);
   router.get('/exercises/:id/demonstrations', permit('demo:list'), async (req, res) => {
     res.json(await demos.list(currentUser(req), idParam(req.params, 'Exercise')));
   });
@@ -72,23 +71,11 @@ export function demonstrationsRoutes({ demos, clips, store, upload }: Demonstrat
     '/exercises/:id/demo-clip',
     permit('demo:create'),
     // Out of reach or has its clip: answered before the clip is received.
-    async (req, res, next) => {
-      try {
-        await clips.beforeAdd(currentUser(req), idParam(req.params, 'Exercise'));
-        next();
-      } catch (err) {
-        refuse(req, res, next, err);
-      }
-    },
-    receive,
+    ...receiveAfter((req) => clips.beforeAdd(currentUser(req), idParam(req.params, 'Exercise'))),
     async (req, res) => {
-      if (!req.file) {
-        throw new ValidationError('Choose a clip to upload (multipart form field "file").', [
-          { path: ['file'], message: 'A clip is required.' },
-        ]);
-      }
+      const file = receivedVideo(req);
       const { caption } = parse(PictureUploadFields, req.body ?? {});
-      res.status(201).json(await clips.add(currentUser(req), idParam(req.params, 'Exercise'), req.file, caption));
+      res.status(201).json(await clips.add(currentUser(req), idParam(req.params, 'Exercise'), file, caption));
     },
   );
   router.patch('/demo-clips/:id', permit('demo:update'), async (req, res) => {

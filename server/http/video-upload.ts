@@ -42,6 +42,8 @@ function clientGone(req: Request, err: unknown): boolean {
 export function videoUploadReceiver(d: VideoUploadDeps): {
   receive: RequestHandler;
   refuse(req: Request, res: Response, next: NextFunction, err: unknown): void;
+  /** `check` (access, limits) before the body is read, then `receive`: a refusal never waits for the file. */
+  receiveAfter(check: (req: Request) => Promise<unknown>): RequestHandler[];
 } {
   type WithTemp = Request & { uploadTemp?: string };
   const upload = multer({
@@ -105,7 +107,29 @@ export function videoUploadReceiver(d: VideoUploadDeps): {
     next(err);
   }
 
-  return { receive, refuse };
+  const receiveAfter = (check: (req: Request) => Promise<unknown>): RequestHandler[] => [
+    async (req, res, next) => {
+      try {
+        await check(req);
+        next();
+      } catch (err) {
+        refuse(req, res, next, err);
+      }
+    },
+    receive,
+  ];
+
+  return { receive, refuse, receiveAfter };
+}
+
+/** The received video's temp file. @throws {ValidationError} when the request carried none. */
+export function receivedVideo(req: Request): Express.Multer.File {
+  if (!req.file) {
+    throw new ValidationError('Choose a clip to upload (multipart form field "file").', [
+      { path: ['file'], message: 'A clip is required.' },
+    ]);
+  }
+  return req.file;
 }
 
 /** Says in words what was wrong with a multipart body the upload library could not read. */
