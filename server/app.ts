@@ -26,7 +26,7 @@ import type { Processing } from './processing/processing';
 import { startWorker, type Worker } from './processing/worker';
 import { startProgressRelay } from './processing/progress-relay';
 import { processingEventsRoutes } from './processing/processing-events.routes';
-import { createMediaServices } from './services';
+import { createMediaServices, mediaStoreFor } from './services';
 import { warmUpFfmpeg } from './media/extract';
 import { clipsRoutes } from './clips/clips.routes';
 import { clipUploadsRoutes } from './clips/clip-uploads.routes';
@@ -50,7 +50,6 @@ import { clinicRoutes } from './clinic/clinic.routes';
 import { clinicService } from './clinic/clinic-service';
 import { clinicBrands } from './clinic/clinic-brand';
 import { brandingMailer } from './mail/mailer';
-import { localMediaObjects } from './storage/media-objects';
 import { workerPictureProcessor } from './pictures/picture-pool';
 import { demonstrationsService } from './demonstrations/demonstrations-service';
 import { demonstrationsRoutes } from './demonstrations/demonstrations.routes';
@@ -101,9 +100,9 @@ const RELAY_EVERY_MS = 250;
 export function createApp(deps: AppDeps): App {
   const { config, db, logger } = deps;
   const clock = deps.clock ?? (() => new Date());
-  const objects = localMediaObjects(config.uploadsDir);
+  const store = deps.store ?? mediaStoreFor(config);
   const pictures = workerPictureProcessor();
-  const brands = clinicBrands({ db, objects });
+  const brands = clinicBrands({ db, store });
   // Every message that names its clinic goes out on the clinic's letterhead.
   const mailer = brandingMailer(deps.mailer, (clinicId) => brands.forDocuments(clinicId));
   const app = express();
@@ -202,8 +201,9 @@ export function createApp(deps: AppDeps): App {
   const temps = uploadTemps(uploadTempDir(config.uploadsDir), (err) => logger.warn({ err: err.message }, 'upload temp sweep failed'));
   const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
   const revocations = inProcessRevocations();
-  const media = createMediaServices({ config, db, mailer, logger, clock, store: deps.store, brands });
-  const { store, processing, clips, assessments, measures, annotations, follow, stills, summaries, annotatedClips, dataExports } = media;
+  const media = createMediaServices({ config, db, mailer, logger, clock, store, brands });
+  const { processing, clips, assessments, measures, annotations, follow, stills, summaries, annotatedClips, dataExports, demoClips } =
+    media;
   const retention = retentionService({ db, clips, clock });
   const runDailyPrivacyCheck = async () => {
     await retention.runDaily();
@@ -272,8 +272,15 @@ export function createApp(deps: AppDeps): App {
   );
   api.use(portalSharedRoutes({ stills, summaries }));
   api.use(billingRoutes(billing));
-  api.use(clinicRoutes(clinicService({ db, clock, objects, pictures })));
-  api.use(demonstrationsRoutes(demonstrationsService({ db, objects, pictures, clock })));
+  api.use(clinicRoutes(clinicService({ db, clock, store, pictures })));
+  api.use(
+    demonstrationsRoutes({
+      demos: demonstrationsService({ db, store, pictures, clips: demoClips, clock }),
+      clips: demoClips,
+      store,
+      upload: { temps, logger, uploadMaxBytes: config.uploadMaxBytes },
+    }),
+  );
   api.use(apiNotFound);
 
   app.use('/api', (_req, res, next) => {

@@ -2,6 +2,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { z } from 'zod';
 import type { PaymentsConfig } from './billing/payments';
+import type { S3StoreOptions } from './storage/s3-media-store';
 
 /** Everything the server reads from the environment, parsed once at start-up. */
 export interface Config {
@@ -68,6 +69,8 @@ export interface Config {
   payments: PaymentsConfig | null;
   /** Port of the local fake payment service started in demo mode (0 = any free port); null = real provider. */
   fakePaymentsPort: number | null;
+  /** Media in an S3-compatible bucket when `S3_BUCKET` and `S3_ENDPOINT` are set; null: folders under `uploadsDir`. */
+  s3: S3StoreOptions | null;
 }
 
 const bool = z.enum(['true', 'false', '1', '0', 'yes', 'no']).transform((v) => v === 'true' || v === '1' || v === 'yes');
@@ -112,6 +115,12 @@ const EnvSchema = z.object({
   STRIPE_API_PORT: z.coerce.number().int().min(1).max(65535).optional(),
   STRIPE_API_PROTOCOL: z.enum(['http', 'https']).optional(),
   FAKE_PAYMENTS_PORT: z.coerce.number().int().min(0).max(65535).default(12111),
+  S3_BUCKET: z.string().min(3).optional(),
+  S3_ENDPOINT: z.string().url().optional(),
+  S3_REGION: z.string().min(1).default('us-east-1'),
+  S3_ACCESS_KEY_ID: z.string().min(1).optional(),
+  S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
+  S3_FORCE_PATH_STYLE: bool.default(true),
 });
 
 /** Demo-only keys the local fake payment service accepts (never valid at a real provider). */
@@ -171,6 +180,23 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     },
     runWorker: e.RUN_WORKER,
     ...paymentsConfig(e),
+    s3: s3Config(e),
+  };
+}
+
+/** The bucket when `S3_BUCKET` and `S3_ENDPOINT` are both set (with its keys); otherwise null (local folders). */
+function s3Config(e: z.output<typeof EnvSchema>): S3StoreOptions | null {
+  if (!e.S3_BUCKET && !e.S3_ENDPOINT) return null;
+  if (!e.S3_BUCKET || !e.S3_ENDPOINT || !e.S3_ACCESS_KEY_ID || !e.S3_SECRET_ACCESS_KEY) {
+    throw new Error('Invalid configuration:\n  S3_BUCKET, S3_ENDPOINT, S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY go together.');
+  }
+  return {
+    bucket: e.S3_BUCKET,
+    endpoint: e.S3_ENDPOINT,
+    region: e.S3_REGION,
+    accessKeyId: e.S3_ACCESS_KEY_ID,
+    secretAccessKey: e.S3_SECRET_ACCESS_KEY,
+    forcePathStyle: e.S3_FORCE_PATH_STYLE,
   };
 }
 

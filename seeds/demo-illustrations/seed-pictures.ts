@@ -5,9 +5,9 @@
  */
 import { createCanvas } from '@napi-rs/canvas';
 import type { Knex } from 'knex';
-import { demoPictureKey } from '../../server/demonstrations/demo-keys';
+import { demoPictureKey } from '../../server/storage/media-keys';
 import { processPicture } from '../../server/pictures/picture-processing';
-import { localMediaObjects } from '../../server/storage/media-objects';
+import { localMediaStore } from '../../server/storage/local-media-store';
 import { drawPose, frameOf, sizeFor } from './figure';
 import { DEMO_ILLUSTRATIONS, type KeyPosition } from './poses';
 
@@ -27,7 +27,7 @@ export function drawKeyPositions(positions: readonly KeyPosition[]): Buffer[] {
 
 /** Draws, processes and stores the pictures of every demo exercise of the clinic that has none yet. */
 export async function seedDemoPictures(knex: Knex, clinicId: number, uploadsDir: string, log: (m: string) => void): Promise<number> {
-  const objects = localMediaObjects(uploadsDir);
+  const store = localMediaStore(uploadsDir);
   const exercises = await knex('exercises').where({ clinic_id: clinicId }).select<{ id: number; name: string }[]>('id', 'name');
   let count = 0;
   log('drawing the demo exercises\u2019 pictures…');
@@ -52,8 +52,8 @@ export async function seedDemoPictures(knex: Knex, clinicId: number, uploadsDir:
         })
         .returning('id');
       const id = (row as { id: number }).id;
-      await objects.put(demoPictureKey(exercise.id, id, 'full'), processed.full.bytes);
-      await objects.put(demoPictureKey(exercise.id, id, 'thumb'), processed.thumb.bytes);
+      await store.put(demoPictureKey(exercise.id, id, 'full'), processed.full.bytes);
+      await store.put(demoPictureKey(exercise.id, id, 'thumb'), processed.thumb.bytes);
       count++;
     }
   }

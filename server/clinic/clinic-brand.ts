@@ -1,8 +1,9 @@
 import type { Knex } from 'knex';
 import type { ClinicLegalDetails } from '../../src/contracts/billing';
 import type { ClinicBrand } from '../../src/contracts/demonstrations';
-import { clinicLogoKey } from '../demonstrations/demo-keys';
-import { readObject, type MediaObjects } from '../storage/media-objects';
+import { clinicLogoKey } from '../storage/media-keys';
+import type { MediaStore } from '../storage/media-store';
+import { readSmall } from '../storage/stored-objects';
 import { clinicRepository } from './clinic-repository';
 
 /** The clinic's logo as documents embed it. */
@@ -38,7 +39,7 @@ export function logoRow(db: Knex, clinicId: number): Promise<LogoRow | undefined
   return db('clinics').where({ id: clinicId }).first<LogoRow | undefined>('name', 'logo_version', 'logo_width', 'logo_height');
 }
 
-export function clinicBrands({ db, objects }: { db: Knex; objects: MediaObjects }): ClinicBrands {
+export function clinicBrands({ db, store }: { db: Knex; store: MediaStore }): ClinicBrands {
   return {
     async forDocuments(clinicId) {
       const row = await logoRow(db, clinicId);
@@ -46,7 +47,7 @@ export function clinicBrands({ db, objects }: { db: Knex; objects: MediaObjects 
       let logo: LogoImage | null = null;
       if (row?.logo_version) {
         // A logo whose file went missing is left out rather than failing the document.
-        const png = await readObject(objects, clinicLogoKey(clinicId, row.logo_version)).catch(() => null);
+        const png = await readSmall(store, clinicLogoKey(clinicId, row.logo_version)).catch(() => null);
         if (png) logo = { png, width: row.logo_width ?? 0, height: row.logo_height ?? 0 };
       }
       return { name: row?.name ?? '', legal, logo };

@@ -4,11 +4,11 @@ import type { SessionUser } from '../../src/contracts/api';
 import type { ClinicLegalDetails } from '../../src/contracts/billing';
 import type { ClinicBrand } from '../../src/contracts/demonstrations';
 import { audit } from '../audit/audit-log';
-import { clinicLogoKey } from '../demonstrations/demo-keys';
+import { clinicLogoKey } from '../storage/media-keys';
 import { NotFoundError } from '../errors';
 import type { PictureProcessor } from '../pictures/picture-pool';
 import { assertRole } from '../policy/enforce';
-import type { MediaObjects } from '../storage/media-objects';
+import type { MediaStore } from '../storage/media-store';
 import { clinicBrands, logoRow } from './clinic-brand';
 import { clinicRepository } from './clinic-repository';
 
@@ -28,12 +28,12 @@ export interface ClinicService {
 export interface ClinicServiceDeps {
   db: Knex;
   clock: () => Date;
-  objects: MediaObjects;
+  store: MediaStore;
   pictures: PictureProcessor;
 }
 
-export function clinicService({ db, clock, objects, pictures }: ClinicServiceDeps): ClinicService {
-  const brands = clinicBrands({ db, objects });
+export function clinicService({ db, clock, store, pictures }: ClinicServiceDeps): ClinicService {
+  const brands = clinicBrands({ db, store });
   return {
     async legalDetails(user) {
       assertRole(user, 'clinic-legal:read');
@@ -55,7 +55,7 @@ export function clinicService({ db, clock, objects, pictures }: ClinicServiceDep
       assertRole(user, 'clinic-brand:read');
       const row = await logoRow(db, user.clinicId);
       if (!row?.logo_version) throw new NotFoundError('Logo');
-      return objects.get(clinicLogoKey(user.clinicId, row.logo_version));
+      return store.get(clinicLogoKey(user.clinicId, row.logo_version));
     },
     async putLogo(user, bytes) {
       assertRole(user, 'clinic-logo:update');
@@ -63,7 +63,7 @@ export function clinicService({ db, clock, objects, pictures }: ClinicServiceDep
       const before = await logoRow(db, user.clinicId);
       const version = (before?.logo_version ?? 0) + 1;
       const key = clinicLogoKey(user.clinicId, version);
-      await objects.put(key, logo.bytes);
+      await store.put(key, logo.bytes);
       try {
         await db.transaction(async (trx) => {
           await trx('clinics')
@@ -72,10 +72,10 @@ export function clinicService({ db, clock, objects, pictures }: ClinicServiceDep
           await audit(trx, { clinicId: user.clinicId, actorId: user.id, action: 'clinic.logo_updated' }, clock().toISOString());
         });
       } catch (err) {
-        await objects.remove(key);
+        await store.remove(key);
         throw err;
       }
-      if (before?.logo_version) await objects.remove(clinicLogoKey(user.clinicId, before.logo_version));
+      if (before?.logo_version) await store.remove(clinicLogoKey(user.clinicId, before.logo_version));
       return brands.forApi(user.clinicId);
     },
     async removeLogo(user) {
@@ -85,7 +85,7 @@ export function clinicService({ db, clock, objects, pictures }: ClinicServiceDep
         await trx('clinics').where({ id: user.clinicId }).update({ logo_version: null, logo_width: null, logo_height: null });
         await audit(trx, { clinicId: user.clinicId, actorId: user.id, action: 'clinic.logo_removed' }, clock().toISOString());
       });
-      if (before?.logo_version) await objects.remove(clinicLogoKey(user.clinicId, before.logo_version));
+      if (before?.logo_version) await store.remove(clinicLogoKey(user.clinicId, before.logo_version));
     },
   };
 }

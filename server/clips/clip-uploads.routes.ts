@@ -3,7 +3,8 @@ import { AppError, NotFoundError, ValidationError } from '../errors';
 import { currentUser } from '../http/access';
 import { idParam } from '../http/validate';
 import { permit } from '../policy/enforce';
-import { tooLarge, type ClipsService } from './clips-service';
+import type { ClipsService } from './clips-service';
+import { tooLarge } from '../http/video-upload';
 import type { ResumableUploads, UploadOwner, UploadRequestContext } from './resumable-uploads';
 
 export interface ClipUploadsRoutesDeps {

@@ -1,7 +1,7 @@
 import type { Logger } from 'pino';
 import type { Clip, SessionUser } from '../../src/contracts/api';
 import type { Db } from '../db/knex';
-import { AppError, ConflictError, NotFoundError } from '../errors';
+import { ConflictError, NotFoundError } from '../errors';
 import { audit } from '../audit/audit-log';
 import { cleanFileName } from '../http/file-names';
 import type { Action } from '../policy/access-table';
@@ -9,15 +9,13 @@ import { assertAthleteResource } from '../policy/athlete-resources';
 import { assertRole, assertState } from '../policy/enforce';
 import { assessmentsRepository, type AssessmentRow } from '../assessments/assessments-repository';
 import { plannedManifest } from '../media/extract-plan';
-import { SNIFF_BYTES, sniffContainer } from '../media/magic';
+import { checkVideoUpload } from '../media/check-video-upload';
 import type { ClipManifest } from '../media/manifest';
-import { MediaError } from '../media/media-error';
-import { probeVideo } from '../media/probe';
 import type { Processing } from '../processing/processing';
 import { clipKeys } from '../storage/media-keys';
 import type { MediaStore } from '../storage/media-store';
 import { putJson, readJson } from '../storage/stored-objects';
-import { removeUpload, uploadHead } from '../storage/upload-temps';
+import { removeUpload } from '../storage/upload-temps';
 import { clipFacts } from './clip-facts';
 import { clipMediaKey, type ClipMedia, type ClipMediaWhat } from './clip-media';
 import { clipsRepository as repo, type ClipRow } from './clips-repository';
@@ -143,16 +141,7 @@ export function clipsService(d: ClipsDeps): ClipsService {
       try {
         const assessment = await accessibleAssessment(user, assessmentId, 'clip:upload');
         await requireVideoConsent(assessment.athlete_id);
-        if (file.size === 0) throw new MediaError('empty_file', 'The uploaded file is empty.', 'size 0');
-        const container = sniffContainer(await uploadHead(file.path, Math.min(file.size, SNIFF_BYTES)));
-        if (!container) {
-          throw new MediaError(
-            'not_video',
-            'This file is not a video we can read. Upload an MP4, MOV, WebM, MKV, AVI or 3GP clip.',
-            'unknown magic bytes',
-          );
-        }
-        const probe = await probeVideo(file.path);
+        const { container, probe } = await checkVideoUpload(file);
         const manifest: ClipManifest = { ...plannedManifest(probe), source: probe };
         const storedName = `original.${container}`;
         const at = new Date().toISOString();
@@ -271,14 +260,4 @@ export function clipsService(d: ClipsDeps): ClipsService {
     manifest: (clipId) => readJson<ClipManifest>(store, clipKeys(clipId).manifest),
     manifestOf: readyManifests(store),
   };
-}
-
-/** 413 for uploads over the configured limit. */
-export function tooLarge(limitBytes: number): AppError {
-  const mb = Math.round(limitBytes / 1024 / 1024);
-  return new AppError(
-    413,
-    'file_too_large',
-    `This file is larger than the ${mb >= 1024 ? `${(mb / 1024).toFixed(1)} GB` : `${mb} MB`} upload limit. Trim the clip to 10–20 seconds and try again.`,
-  );
 }

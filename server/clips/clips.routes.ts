@@ -1,9 +1,7 @@
-import path from 'node:path';
-import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
-import multer from 'multer';
+import { Router, type Request, type RequestHandler } from 'express';
 import type { SessionUser } from '../../src/contracts/api';
 import type { Db } from '../db/knex';
-import { AppError, NotFoundError, ValidationError } from '../errors';
+import { NotFoundError } from '../errors';
 import { currentUser } from '../http/access';
 import { permit } from '../policy/enforce';
 import { idParam, parse } from '../http/validate';
@@ -14,7 +12,8 @@ import { contentDisposition } from '../http/file-names';
 import { sendStored } from '../http/send-stored';
 import type { MediaStore } from '../storage/media-store';
 import { ClipPatchBody, MediaIndexParams } from './clips-schemas';
-import { tooLarge, type ClipsService } from './clips-service';
+import type { ClipsService } from './clips-service';
+import { receivedVideo, videoUploadReceiver } from '../http/video-upload';
 import type { ClipMediaWhat } from './clip-media';
 
 declare module 'express-session' {
@@ -36,101 +35,17 @@ export interface ClipsRoutesDeps {
 }
 
 const IMMUTABLE = 'private, max-age=31536000, immutable';
-/** Refused uploads up to this size are read to the end before answering. */
-const DRAIN_LIMIT = 64 * 1024 * 1024;
-const MULTIPART_HINT = 'Send the clip as multipart/form-data with one file in the field "file".';
-
-/** Whether the request ended because the client went away (cancelled, closed the tab, lost the network). */
-function clientGone(req: Request, err: unknown): boolean {
-  const message = (err as Error | undefined)?.message ?? '';
-  // (req.destroyed alone says nothing: a fully read request is destroyed too.)
-  return req.readableAborted || Boolean(req.socket?.destroyed) || message === 'Request aborted' || message === 'Request closed';
-}
-
 /** Upload, settings and authorised media of clips (their processing is followed on the one progress stream). */
 export function clipsRoutes(d: ClipsRoutesDeps): Router {
   const router = Router();
-  type WithTemp = Request & { uploadTemp?: string };
-  const upload = multer({
-    storage: multer.diskStorage({
-      destination: (req, _file, cb) => cb(null, path.dirname((req as WithTemp).uploadTemp!)),
-      // Never the client's name: it could hold "../" or odd bytes.
-      filename: (req, _file, cb) => cb(null, path.basename((req as WithTemp).uploadTemp!)),
-    }),
-    // File names arrive as UTF-8 from every current browser; busboy's default would read latin1.
-    defParamCharset: 'utf8',
-    limits: { fileSize: d.uploadMaxBytes, files: 1, fields: 10, parts: 11, fieldNameSize: 100, fieldSize: 10_000 },
-  }).single('file');
-
-  const receive: RequestHandler = (req, res, next) => {
-    // The request owns its temp file; whatever happens (refusal, cancel, crash) it does not outlive it.
-    const temp = d.temps.create();
-    (req as WithTemp).uploadTemp = temp;
-    res.on('close', () => void d.temps.discard(temp));
-    const declared = Number(req.headers['content-length'] ?? 0);
-    if (declared > d.uploadMaxBytes + 64 * 1024) return refuse(req, res, next, tooLarge(d.uploadMaxBytes));
-    upload(req, res, (err: unknown) => {
-      if (!err) return next();
-      if (clientGone(req, err)) {
-        // Normal on phones: the athlete cancelled or the network dropped. Nobody is left to answer.
-        d.logger.info({ url: req.originalUrl, received: req.socket?.bytesRead }, 'upload cancelled by the client');
-        res.destroy();
-        return;
-      }
-      if (err instanceof multer.MulterError) {
-        if (err.code === 'LIMIT_FILE_SIZE') return next(tooLarge(d.uploadMaxBytes));
-        if (err.code === 'LIMIT_FILE_COUNT' || err.code === 'LIMIT_UNEXPECTED_FILE') {
-          return next(
-            new ValidationError('Upload one clip per request, in the form field "file".', [
-              { path: ['file'], message: 'One clip per request.' },
-            ]),
-          );
-        }
-        return next(new AppError(400, 'bad_upload', `The upload could not be read (${err.message}). ${MULTIPART_HINT}`));
-      }
-      // A disk or system error (it has a syscall) is ours; anything else is the body's form.
-      if ((err as NodeJS.ErrnoException).syscall) return next(err);
-      next(new AppError(400, 'bad_upload', `The upload could not be read: ${describeMultipartError(err)} ${MULTIPART_HINT}`));
-    });
-  };
-
-  /**
-   * Answers a refusal made before the body was read. A small body is read and dropped first, so
-   * the browser gets the answer instead of a reset connection; a large one is cut off
-   * (`Connection: close`) rather than received for nothing.
-   */
-  function refuse(req: Request, res: Response, next: NextFunction, err: unknown): void {
-    if (req.readableEnded) return next(err);
-    const declared = Number(req.headers['content-length'] ?? 0);
-    if (declared > 0 && declared <= DRAIN_LIMIT) {
-      req.on('end', () => next(err));
-      req.on('error', () => next(err));
-      req.resume();
-      return;
-    }
-    res.setHeader('Connection', 'close');
-    next(err);
-  }
+  const { receiveAfter } = videoUploadReceiver(d);
 
   router.post(
     '/assessments/:id/clips',
     permit('clip:upload'),
-    async (req, res, next) => {
-      try {
-        await d.clips.beforeUpload(currentUser(req), idParam(req.params, 'Assessment'));
-        next();
-      } catch (err) {
-        refuse(req, res, next, err);
-      }
-    },
-    receive,
+    ...receiveAfter((req) => d.clips.beforeUpload(currentUser(req), idParam(req.params, 'Assessment'))),
     async (req, res) => {
-      if (!req.file) {
-        throw new ValidationError('Choose a clip to upload (multipart form field "file").', [
-          { path: ['file'], message: 'A clip is required.' },
-        ]);
-      }
-      const clip = await d.clips.acceptUpload(currentUser(req), idParam(req.params, 'Assessment'), req.file);
+      const clip = await d.clips.acceptUpload(currentUser(req), idParam(req.params, 'Assessment'), receivedVideo(req));
       res.status(201).json(clip);
     },
   );
@@ -187,15 +102,4 @@ export function clipsRoutes(d: ClipsRoutesDeps): Router {
   router.get('/clips/:id/original', permit('clip:read-media'), sendMedia('original'));
 
   return router;
-}
-
-/** Says in words what was wrong with a multipart body the upload library could not read. */
-function describeMultipartError(err: unknown): string {
-  const message = (err as Error | undefined)?.message ?? '';
-  if (/boundary not found/i.test(message)) return 'the Content-Type names no multipart boundary.';
-  if (/unexpected end of form/i.test(message))
-    return 'the body ended before the file was complete (empty, cut short, or a boundary that does not match the Content-Type).';
-  if (/malformed part header/i.test(message)) return 'a part header of the body is malformed.';
-  if (/unsupported content type/i.test(message)) return 'the Content-Type is not multipart/form-data.';
-  return 'the multipart body is malformed.';
 }

@@ -17,17 +17,24 @@ export const EXTRACT_FRAMES = 'extract_frames';
 
 /**
  * Publishes frames in order as ffmpeg reports them, and only then reports them as progress, so a
- * frame counted as ready can always be read by key (at once for the local store).
+ * frame counted as ready can always be read by key (at once for the local store). `finish` publishes
+ * the frames no report named and waits for every publication (an object store uploads them: the
+ * local folder must outlive them).
  */
 function framePublisher(folder: LocalFolder, report: (done: number, total: number) => void) {
   let publishedUpTo = 0;
   let chain: Promise<void> = Promise.resolve();
-  return (done: number, total: number) => {
+  const publishTo = (done: number, after: () => void) => {
     if (done < publishedUpTo) publishedUpTo = done; // the extraction restarted (fallback scaler)
     const names: string[] = [];
     for (let i = publishedUpTo; i < done; i++) names.push(`${FRAMES_DIR}/${frameFileName(i)}`);
     publishedUpTo = done;
-    chain = chain.then(() => folder.publish(names)).then(() => report(done, total));
+    chain = chain.then(() => folder.publish(names)).then(after);
+    return chain;
+  };
+  return {
+    onProgress: (done: number, total: number) => void publishTo(done, () => report(done, total)).catch(() => undefined),
+    finish: (frameCount: number) => publishTo(Math.max(frameCount, publishedUpTo), () => undefined),
   };
 }
 
@@ -56,12 +63,14 @@ export function extractFramesKind(d: { db: Db; store: MediaStore; logger: Logger
           // The plan first: the review can open on it as soon as the first frames exist.
           await putJson(store, keys.manifest, { ...plannedManifest(probe), source: probe } satisfies ClipManifest);
           return store.withLocalFolder(keys.prefix, async (folder) => {
+            const frames = framePublisher(folder, ctx.progress);
             const made = await extractFrames(input, folder.path, {
               probe,
               signal: ctx.signal,
               threads: ctx.threads,
-              onProgress: framePublisher(folder, ctx.progress),
+              onProgress: frames.onProgress,
             });
+            await frames.finish(made.frameCount);
             const thumbs = Array.from({ length: made.thumbCount }, (_, i) => `${THUMBS_DIR}/${frameFileName(i)}`);
             await folder.publish([...thumbs, MANIFEST_FILE]);
             const complete: ClipManifest = { ...made, source: probe };

@@ -22,3 +22,16 @@ export const DemoPictureUpdateBody = z
       .optional(),
   })
   .refine((b) => b.caption !== undefined || b.position !== undefined, 'Send a caption or a position.');
+
+/** Body of PATCH /api/demo-clips/:id (its place among the pictures: 0 = first, {@link DEMO_LIMITS.pictures} = last). */
+export const DemoClipUpdateBody = z
+  .strictObject({
+    caption: caption.optional(),
+    position: z
+      .number('Give the place as a number.')
+      .int('The place is a whole number.')
+      .min(0, 'The first place is 0.')
+      .max(DEMO_LIMITS.pictures, `The last place is ${DEMO_LIMITS.pictures}.`)
+      .optional(),
+  })
+  .refine((b) => b.caption !== undefined || b.position !== undefined, 'Send a caption or a position.');

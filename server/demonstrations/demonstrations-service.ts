@@ -3,15 +3,16 @@ import type { Knex } from 'knex';
 import type { SessionUser } from '../../src/contracts/api';
 import { DEMO_LIMITS, type DemoPicture, type DemoPictureUpdate, type ExerciseDemonstrations } from '../../src/contracts/demonstrations';
 import { audit } from '../audit/audit-log';
-import { ConflictError, NotFoundError } from '../errors';
+import { ConflictError } from '../errors';
 import type { Action } from '../policy/access-table';
-import { assertRole, assertScope } from '../policy/enforce';
 import type { PictureProcessor } from '../pictures/picture-pool';
-import type { MediaObjects } from '../storage/media-objects';
-import { demoPictureKey } from './demo-keys';
+import type { MediaStore } from '../storage/media-store';
+import { demoPictureKey } from '../storage/media-keys';
+import { reachableExercise, reachableItem } from './demo-access';
+import type { DemoClipsService } from './demo-clips-service';
 import { demoPicturesRepository as repo, type DemoPictureRow } from './demo-pictures-repository';
 
-/** Demonstration pictures of the clinic's exercises: staff add, caption, order and remove them; athletes see those of their plans. */
+/** Demonstration pictures of the clinic's exercises (and, in the list, the clip): staff add, caption, order and remove them; athletes see those of their plans. */
 export interface DemonstrationsService {
   list(user: SessionUser, exerciseId: number): Promise<ExerciseDemonstrations>;
   /** Before a picture is received: 404 for an exercise out of reach, 409 when it has its pictures already. */
@@ -26,37 +27,16 @@ export interface DemonstrationsService {
 
 export interface DemonstrationsDeps {
   db: Knex;
-  objects: MediaObjects;
+  store: MediaStore;
   pictures: PictureProcessor;
+  /** The exercise's demonstration clip (listed with the pictures). */
+  clips: DemoClipsService;
   clock: () => Date;
 }
 
-export function demonstrationsService({ db, objects, pictures, clock }: DemonstrationsDeps): DemonstrationsService {
-  /**
-   * The exercise as this user may reach it for `action`: another clinic's is 404; an athlete
-   * reaches it (scope `self`) only when it is on one of their own plans that is not a draft.
-   */
-  async function reachableExercise(user: SessionUser, exerciseId: number, action: Action): Promise<number> {
-    const grant = assertRole(user, action);
-    const exercise = await db('exercises').where({ id: exerciseId, clinic_id: user.clinicId }).first('id');
-    if (!exercise) throw new NotFoundError('Exercise');
-    const own = grant.scope === 'self' && (await repo.inPlanOfAthleteUser(db, user.clinicId, exerciseId, user.id));
-    assertScope(user, action, { clinicId: user.clinicId, athleteUserId: own ? user.id : null }, 'Exercise');
-    return exerciseId;
-  }
-
-  async function reachablePicture(user: SessionUser, pictureId: number, action: Action): Promise<DemoPictureRow> {
-    assertRole(user, action);
-    const row = await repo.find(db, user.clinicId, pictureId);
-    if (!row) throw new NotFoundError('Picture');
-    try {
-      await reachableExercise(user, row.exercise_id, action);
-    } catch (err) {
-      if (err instanceof NotFoundError) throw new NotFoundError('Picture');
-      throw err;
-    }
-    return row;
-  }
+export function demonstrationsService({ db, store, pictures, clips, clock }: DemonstrationsDeps): DemonstrationsService {
+  const reachablePicture = async (user: SessionUser, pictureId: number, action: Action) =>
+    reachableItem(db, user, await repo.find(db, user.clinicId, pictureId), action, 'Picture');
 
   /** Puts the exercise's pictures in order 0…n−1, `moved` (when given) at `to`. */
   async function renumber(trx: Knex, clinicId: number, exerciseId: number, moved?: { id: number; to: number }): Promise<void> {
@@ -69,13 +49,13 @@ export function demonstrationsService({ db, objects, pictures, clock }: Demonstr
 
   return {
     async list(user, exerciseId) {
-      await reachableExercise(user, exerciseId, 'demo:list');
+      await reachableExercise(db, user, exerciseId, 'demo:list');
       const rows = await repo.ofExercise(db, user.clinicId, exerciseId);
-      return { exerciseId, pictures: rows.map(repo.toApi) };
+      return { exerciseId, pictures: rows.map(repo.toApi), clip: await clips.ofExercise(user, exerciseId) };
     },
 
     async beforeAdd(user, exerciseId) {
-      await reachableExercise(user, exerciseId, 'demo:create');
+      await reachableExercise(db, user, exerciseId, 'demo:create');
       if ((await repo.ofExercise(db, user.clinicId, exerciseId)).length >= DEMO_LIMITS.pictures) throw full();
     },
 
@@ -106,7 +86,7 @@ export function demonstrationsService({ db, objects, pictures, clock }: Demonstr
           ] as const) {
             const key = demoPictureKey(exerciseId, newId, size);
             written.push(key);
-            await objects.put(key, image.bytes);
+            await store.put(key, image.bytes);
           }
           await audit(
             trx,
@@ -117,7 +97,7 @@ export function demonstrationsService({ db, objects, pictures, clock }: Demonstr
         });
         return repo.toApi((await repo.find(db, user.clinicId, id))!);
       } catch (err) {
-        await Promise.all(written.map((key) => objects.remove(key)));
+        await Promise.all(written.map((key) => store.remove(key)));
         throw err;
       }
     },
@@ -142,13 +122,13 @@ export function demonstrationsService({ db, objects, pictures, clock }: Demonstr
           clock().toISOString(),
         );
       });
-      await objects.remove(demoPictureKey(row.exercise_id, row.id, 'full'));
-      await objects.remove(demoPictureKey(row.exercise_id, row.id, 'thumb'));
+      await store.remove(demoPictureKey(row.exercise_id, row.id, 'full'));
+      await store.remove(demoPictureKey(row.exercise_id, row.id, 'thumb'));
     },
 
     async image(user, pictureId, size) {
       const row = await reachablePicture(user, pictureId, 'demo:read');
-      return objects.get(demoPictureKey(row.exercise_id, row.id, size));
+      return store.get(demoPictureKey(row.exercise_id, row.id, size));
     },
   };
 }

@@ -4,10 +4,24 @@ import { currentUser } from '../http/access';
 import { idParam, parse } from '../http/validate';
 import { permit } from '../policy/enforce';
 import { receivePicture } from '../pictures/picture-upload';
-import { DemoPictureUpdateBody, PictureUploadFields } from './demonstrations-schemas';
+import { sendStored } from '../http/send-stored';
+import { receivedVideo, videoUploadReceiver, type VideoUploadDeps } from '../http/video-upload';
+import type { MediaStore } from '../storage/media-store';
+import { DemoClipUpdateBody, DemoPictureUpdateBody, PictureUploadFields } from './demonstrations-schemas';
 import type { DemonstrationsService } from './demonstrations-service';
+import type { DemoClipsService } from './demo-clips-service';
 
-/** A picture's bytes never change under its id (a new picture gets a new id). */
+/** What the demonstration routes need. */
+export interface DemonstrationsRoutesDeps {
+  demos: DemonstrationsService;
+  clips: DemoClipsService;
+  /** Where the clips' MP4s and posters are read from. */
+  store: MediaStore;
+  /** How a clip upload is received (temp files, limit). */
+  upload: VideoUploadDeps;
+}
+
+/** A picture's bytes never change under its id (a new picture gets a new id); a clip's under its versioned URL. */
 const IMMUTABLE = 'private, max-age=31536000, immutable';
 
 /** Streams a stored JPEG. */
@@ -18,9 +32,10 @@ export function sendJpeg(res: Response, stream: Readable, cache: string): void {
   stream.pipe(res);
 }
 
-/** Demonstration pictures of exercises. Thin: parse, call, answer. */
-export function demonstrationsRoutes(demos: DemonstrationsService): Router {
+/** Demonstration pictures and clips of exercises. Thin: parse, call, answer. */
+export function demonstrationsRoutes({ demos, clips, store, upload }: DemonstrationsRoutesDeps): Router {
   const router = Router();
+  const { receiveAfter } = videoUploadReceiver(upload);
   router.get('/exercises/:id/demonstrations', permit('demo:list'), async (req, res) => {
     res.json(await demos.list(currentUser(req), idParam(req.params, 'Exercise')));
   });
@@ -51,6 +66,33 @@ export function demonstrationsRoutes(demos: DemonstrationsService): Router {
   });
   router.get('/demo-pictures/:id/thumb.jpg', permit('demo:read'), async (req, res) => {
     sendJpeg(res, await demos.image(currentUser(req), idParam(req.params, 'Picture'), 'thumb'), IMMUTABLE);
+  });
+  router.post(
+    '/exercises/:id/demo-clip',
+    permit('demo:create'),
+    // Out of reach or has its clip: answered before the clip is received.
+    ...receiveAfter((req) => clips.beforeAdd(currentUser(req), idParam(req.params, 'Exercise'))),
+    async (req, res) => {
+      const file = receivedVideo(req);
+      const { caption } = parse(PictureUploadFields, req.body ?? {});
+      res.status(201).json(await clips.add(currentUser(req), idParam(req.params, 'Exercise'), file, caption));
+    },
+  );
+  router.patch('/demo-clips/:id', permit('demo:update'), async (req, res) => {
+    res.json(await clips.update(currentUser(req), idParam(req.params, 'Clip'), parse(DemoClipUpdateBody, req.body)));
+  });
+  router.delete('/demo-clips/:id', permit('demo:delete'), async (req, res) => {
+    await clips.remove(currentUser(req), idParam(req.params, 'Clip'));
+    res.status(204).end();
+  });
+  // Versioned URLs (`?v=`): a new render is a new URL, so what one URL answers never changes.
+  router.get('/demo-clips/:id/video.mp4', permit('demo:read'), async (req, res) => {
+    const key = await clips.mediaKey(currentUser(req), idParam(req.params, 'Clip'), 'video');
+    await sendStored(res, store, key, { type: 'video/mp4', cacheControl: IMMUTABLE, ranges: true });
+  });
+  router.get('/demo-clips/:id/poster.jpg', permit('demo:read'), async (req, res) => {
+    const key = await clips.mediaKey(currentUser(req), idParam(req.params, 'Clip'), 'poster');
+    await sendStored(res, store, key, { type: 'image/jpeg', cacheControl: IMMUTABLE });
   });
   return router;
 }

@@ -7,6 +7,7 @@
 import { Jimp, type JimpInstance } from 'jimp';
 import { checkPictureHeader, MAX_PICTURE_PIXELS, type PictureFormat } from './picture-sniff';
 import { PictureError } from './picture-error';
+import { findOrientation, orientBitmap, withoutOrientation } from './exif-orientation';
 
 /** Long side of a demonstration picture as shown (px). */
 export const PICTURE_LONG_SIDE = 1600;
@@ -38,13 +39,21 @@ export function fitLongSide(width: number, height: number, longSide: number): { 
   return { width: Math.max(1, Math.round(width * scale)), height: Math.max(1, Math.round(height * scale)) };
 }
 
-async function decode(bytes: Buffer): Promise<{ image: JimpInstance; format: PictureFormat }> {
+/**
+ * Decodes a checked picture. A JPEG is decoded as stored (its orientation tag neutralised in a
+ * copy): jimp would otherwise turn the full-size bitmap upright pixel by pixel, and
+ * {@link processPicture} does that after scaling down instead. Answers the orientation to apply.
+ */
+async function decode(bytes: Buffer, asStored = false): Promise<{ image: JimpInstance; format: PictureFormat; orientation: number }> {
   const { format } = checkPictureHeader(bytes);
+  const tag = asStored && format === 'jpeg' ? findOrientation(bytes) : null;
+  const orientation = tag?.orientation ?? 1;
+  if (tag && orientation > 1) bytes = withoutOrientation(bytes, tag);
   try {
     const image = (await Jimp.fromBuffer(bytes, {
       'image/jpeg': { maxResolutionInMP: MAX_PICTURE_PIXELS / 1e6, tolerantDecoding: false, maxMemoryUsageInMB: 1024 },
     })) as JimpInstance;
-    return { image, format };
+    return { image, format, orientation };
   } catch {
     throw new PictureError('undecodable', 'The picture could not be decoded. Send it again as a JPEG or PNG.');
   }
@@ -74,12 +83,20 @@ function onWhite(image: JimpInstance): JimpInstance {
  * @throws {PictureError} (422) for anything that is not a complete, decodable JPEG/PNG/GIF within the pixel limit.
  */
 export async function processPicture(bytes: Buffer): Promise<ProcessedPicture> {
-  const { image, format } = await decode(bytes);
-  const upright = onWhite(image);
-  const full = scaled(upright, PICTURE_LONG_SIDE);
+  const { image, format, orientation } = await decode(bytes, true);
+  // Decoded once; scaled down from the decoded bitmap, then turned upright and put on white at
+  // that size (a twelfth of a 12 MP photo's pixels); the thumbnail is scaled from the encoded
+  // 1600 px picture in place (no copy).
+  const full = onWhite(upright(scaled(image, PICTURE_LONG_SIDE), orientation));
   const fullJpeg = await jpeg(full);
-  const thumb = await jpeg(scaled(full.clone() as JimpInstance, THUMB_LONG_SIDE));
+  const thumb = await jpeg(scaled(full, THUMB_LONG_SIDE));
   return { source: format, full: fullJpeg, thumb };
+}
+
+/** The image turned upright by EXIF `orientation` (the same instance when it already is). */
+function upright(image: JimpInstance, orientation: number): JimpInstance {
+  if (orientation < 2) return image;
+  return new Jimp(orientBitmap(image.bitmap.data, image.width, image.height, orientation)) as JimpInstance;
 }
 
 /**

@@ -85,6 +85,8 @@ export const ACCESS_TABLE = {
   'processing:follow': staffAndSelf(),
   /** Every kind on that stream (stills and summaries still rendering, not only clips). */
   'processing:see-all': STAFF,
+  /** The clinic's own progress stream: its processed items about no athlete (exercises' demonstration clips). */
+  'processing:follow-clinic': STAFF,
 
   // ── Annotation, measures, comparison, reference bands (staff) ──
   'annotation:read': STAFF,

@@ -22,10 +22,13 @@ export interface ItemProgress {
   total: number;
 }
 
-/** Who an item's subject belongs to: progress goes to that athlete's stream. */
+/**
+ * Who an item's subject belongs to: progress goes to that athlete's stream, or, for the clinic's
+ * own subjects (`athleteId` null: an exercise's demonstration clip), to the clinic's staff stream.
+ */
 export interface ItemScope {
   clinicId: number;
-  athleteId: number;
+  athleteId: number | null;
 }
 
 /** One processed item as the module hands it to its kind. */

@@ -37,7 +37,7 @@ export function toItem(row: ProcessedItemRow): ProcessedItem {
     kind: row.kind,
     subjectType: row.subject_type,
     subjectId: row.subject_id,
-    scope: { clinicId: row.clinic_id ?? 0, athleteId: row.athlete_id ?? 0 },
+    scope: { clinicId: row.clinic_id ?? 0, athleteId: row.athlete_id },
     payload: JSON.parse(row.payload || '{}') as Record<string, unknown>,
     state: row.state,
     attempts: row.attempts,
@@ -139,6 +139,14 @@ export const processedItemsRepository = {
     return db<ProcessedItemRow>(TABLE).where({ subject_type: subjectType, subject_id: subjectId }).orderBy('id', 'desc').first();
   },
 
+  /** Queued and running items of the clinic's own subjects (no athlete): what the clinic stream sends on connecting. */
+  unfinishedForClinic(db: Knex, clinicId: number): Promise<ProcessedItemRow[]> {
+    return db<ProcessedItemRow>(TABLE)
+      .where({ clinic_id: clinicId })
+      .whereNull('athlete_id')
+      .whereIn('state', ['queued', 'running'])
+      .orderBy('id');
+  },
   /** Queued and running items of an athlete (what a stream sends on connecting). */
   unfinishedFor(db: Knex, athleteId: number): Promise<ProcessedItemRow[]> {
     return db<ProcessedItemRow>(TABLE).where({ athlete_id: athleteId }).whereIn('state', ['queued', 'running']).orderBy('id');

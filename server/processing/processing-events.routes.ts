@@ -1,4 +1,4 @@
-import { Router, type Response } from 'express';
+import { Router, type Request, type Response } from 'express';
 import { PROCESSING_EVENT, type ProcessingEvent } from '../../src/contracts/processing';
 import type { Db } from '../db/knex';
 import { currentUser } from '../http/access';
@@ -50,16 +50,48 @@ export function processingEventsRoutes(d: ProcessingEventsDeps): Router {
     const unsubscribe = d.processing.channel.subscribe(athleteId, (n) => {
       if (visible(n)) send(n.event);
     });
+    await follow(req, res, user.id, unsubscribe, () => d.processing.unfinishedFor(athleteId), visible, send);
+  });
+
+  /**
+   * `GET /api/clinic/processing-events`: the same stream for the clinic's own processed items,
+   * about no athlete (exercises' demonstration clips), for its staff.
+   */
+  router.get('/clinic/processing-events', permit('processing:follow-clinic'), async (req, res) => {
+    const user = currentUser(req);
+    const send = openStream(res);
+    const unsubscribe = d.processing.channel.subscribeClinic(user.clinicId, (n) => send(n.event));
+    await follow(
+      req,
+      res,
+      user.id,
+      unsubscribe,
+      () => d.processing.unfinishedForClinic(user.clinicId),
+      () => true,
+      send,
+    );
+  });
+
+  /** Sends what is unfinished now, keeps the answer alive and ends it with the request or the user's sessions. */
+  async function follow(
+    req: Request,
+    res: Response,
+    userId: number,
+    unsubscribe: () => void,
+    unfinished: () => Promise<ProgressNotice[]>,
+    visible: (n: ProgressNotice) => boolean,
+    send: (event: ProcessingEvent) => void,
+  ): Promise<void> {
     const unfollow = d.relay.follow();
-    for (const n of await d.processing.unfinishedFor(athleteId)) if (visible(n)) send(n.event);
+    for (const n of await unfinished()) if (visible(n)) send(n.event);
     const ping = setInterval(() => res.write(': keep-alive\n\n'), 15_000);
-    const unrevoke = d.revocations.onRevoke(user.id, () => res.end());
+    const unrevoke = d.revocations.onRevoke(userId, () => res.end());
     req.on('close', () => {
       clearInterval(ping);
       unsubscribe();
       unfollow();
       unrevoke();
     });
-  });
+  }
   return router;
 }

@@ -38,6 +38,8 @@ export interface Processing {
   latest(subjectType: string, subjectId: number): Promise<ProcessedItem | null>;
   /** Notices of an athlete's queued and running items (what a new stream starts with). */
   unfinishedFor(athleteId: number): Promise<ProgressNotice[]>;
+  /** Notices of the clinic's own queued and running items (no athlete): what the clinic stream starts with. */
+  unfinishedForClinic(clinicId: number): Promise<ProgressNotice[]>;
   /** The notice a row's state makes (also for rows other processes changed). */
   noticeOf(row: ProcessedItemRow): ProgressNotice | null;
   /** Calls `listener` after an item was enqueued and committed here. */
@@ -94,7 +96,7 @@ export function createProcessing(o: ProcessingOptions): Processing {
   }
 
   function noticeOf(row: ProcessedItemRow): ProgressNotice | null {
-    if (row.athlete_id === null || row.clinic_id === null) return null;
+    if (row.clinic_id === null) return null;
     const item = toItem(row);
     return {
       athleteId: row.athlete_id,
@@ -268,6 +270,11 @@ export function createProcessing(o: ProcessingOptions): Processing {
 
     async unfinishedFor(athleteId) {
       const rows = await repo.unfinishedFor(db, athleteId);
+      return rows.map(noticeOf).filter((n): n is ProgressNotice => n !== null);
+    },
+
+    async unfinishedForClinic(clinicId) {
+      const rows = await repo.unfinishedForClinic(db, clinicId);
       return rows.map(noticeOf).filter((n): n is ProgressNotice => n !== null);
     },
 

@@ -78,7 +78,53 @@ export function exportKey(athleteId: number, exportId: number): string {
 }
 
 /**
- * The first part of every media key (here and in `demonstrations/demo-keys.ts`): what a backup
+ * The first part of every media key : what a backup
  * copies. Anything else under the uploads folder (upload temp files, a test's database) is not media.
  */
 export const MEDIA_KEY_ROOTS = ['clips/', 'assessments/', 'exercises/', 'clinics/', 'exports/'] as const;
+
+/** `exercises/4/demo/`: everything of an exercise's demonstrations. */
+export function exerciseDemoPrefix(exerciseId: number): string {
+  return `exercises/${id(exerciseId, 'exercise')}/demo/`;
+}
+
+/** A demonstration picture (`exercises/4/demo/9.jpg`) or its thumbnail (`9-thumb.jpg`). */
+export function demoPictureKey(exerciseId: number, pictureId: number, size: 'full' | 'thumb'): string {
+  return `${exerciseDemoPrefix(exerciseId)}${id(pictureId, 'picture')}${size === 'thumb' ? '-thumb' : ''}.jpg`;
+}
+
+/** Keys of one demonstration clip of an exercise. */
+export interface DemoClipKeys {
+  /** `exercises/4/demo/clip-7/`: everything of the clip (removed with it). */
+  readonly prefix: string;
+  /** The upload as received: `exercises/4/demo/clip-7/original.mov` (`storedName` is ours). */
+  original(storedName: string): string;
+  /** File name of the phone MP4 inside {@link prefix}, by version: `video-v1.mp4`. */
+  videoFile(version: number): string;
+  /** File name of the poster inside {@link prefix}, by version: `poster-v1.jpg`. */
+  posterFile(version: number): string;
+  video(version: number): string;
+  poster(version: number): string;
+}
+
+export function demoClipKeys(exerciseId: number, clipId: number): DemoClipKeys {
+  const prefix = `${exerciseDemoPrefix(exerciseId)}clip-${id(clipId, 'demo clip')}/`;
+  const videoFile = (version: number) => `video-v${id(version, 'version')}.mp4`;
+  const posterFile = (version: number) => `poster-v${id(version, 'version')}.jpg`;
+  return {
+    prefix,
+    original(storedName) {
+      if (!STORED_NAME.test(storedName)) throw new Error(`bad stored name ${storedName}`);
+      return `${prefix}${storedName}`;
+    },
+    videoFile,
+    posterFile,
+    video: (version) => `${prefix}${videoFile(version)}`,
+    poster: (version) => `${prefix}${posterFile(version)}`,
+  };
+}
+
+/** A clinic's logo, by version: `clinics/1/logo-v2.png`. */
+export function clinicLogoKey(clinicId: number, version: number): string {
+  return `clinics/${id(clinicId, 'clinic')}/logo-v${id(version, 'version')}.png`;
+}

@@ -10,7 +10,7 @@
 export type ProcessingState = 'queued' | 'running' | 'ready' | 'failed' | 'cancelled';
 
 /** What is being produced about: the subject's type. */
-export type ProcessingSubject = 'clip' | 'still' | 'summary' | 'annotated_clip' | 'data_export';
+export type ProcessingSubject = 'clip' | 'still' | 'summary' | 'annotated_clip' | 'data_export' | 'demo_clip';
 
 /** One change of a processed item. */
 export interface ProcessingEvent {

@@ -21,11 +21,9 @@ import { listRouteActions, listRoutes } from '../support/routes';
 import type { Action } from '../../server/policy/access-table';
 import { decide, decideRole, type Actor, type Owner, type ResourceState } from '../../server/policy/decide';
 import { Jimp } from 'jimp';
-import { localMediaObjects } from '../../server/storage/media-objects';
-import { clinicLogoKey, demoPictureKey } from '../../server/demonstrations/demo-keys';
-import { markedJpeg } from '../support/pictures';
 import { localMediaStore } from '../../server/storage/local-media-store';
-import { exportKey } from '../../server/storage/media-keys';
+import { clinicLogoKey, demoClipKeys, demoPictureKey, exportKey } from '../../server/storage/media-keys';
+import { markedJpeg } from '../support/pictures';
 
 type Who = 'anonymous' | 'athleteSelf' | 'athleteOther' | 'coach' | 'coachOtherClinic' | 'owner' | 'ownerOtherClinic';
 const WHO: Who[] = ['anonymous', 'athleteSelf', 'athleteOther', 'coach', 'coachOtherClinic', 'owner', 'ownerOtherClinic'];
@@ -444,6 +442,13 @@ const ROUTES: RouteCase[] = [
     path: (c) => `/api/athletes/${c.selfAthleteId}/processing-events`,
     stream: true,
     access: { action: 'processing:follow', on: 'self', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/clinic/processing-events',
+    path: () => '/api/clinic/processing-events',
+    stream: true,
+    access: { action: 'processing:follow-clinic', on: 'own', ok: 200 },
   },
   { method: 'get', pattern: '/api/clips/:id', path: (c) => `/api/clips/${c.clipId}`, access: { action: 'clip:read', on: 'self', ok: 200 } },
   {
@@ -956,6 +961,48 @@ const ROUTES: RouteCase[] = [
     path: () => `/api/demo-pictures/${dc.scratchPictureId}`,
     before: async () => {
       dc.scratchPictureId = await storedPicture(dc.unplannedExerciseId);
+    },
+    access: { action: 'demo:delete', on: 'demoClinic', ok: 204 },
+  },
+  // Demonstration clips (ready rows with their files, fixtures in demoFixtures()); the upload itself is tested in demo-clips.test.ts.
+  {
+    method: 'post',
+    pattern: '/api/exercises/:id/demo-clip',
+    path: () => `/api/exercises/${dc.clipFreeExerciseId}/demo-clip`,
+    body: () => ({}),
+    access: { action: 'demo:create', on: 'demoClinic', ok: 422 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/demo-clips/:id/video.mp4',
+    path: () => `/api/demo-clips/${dc.plannedClipId}/video.mp4?v=1`,
+    access: { action: 'demo:read', on: 'self', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/demo-clips/:id/poster.jpg',
+    path: () => `/api/demo-clips/${dc.unplannedClipId}/poster.jpg?v=1`,
+    access: { action: 'demo:read', on: 'teammate', ok: 200 },
+  },
+  {
+    method: 'get',
+    pattern: '/api/demo-clips/:id/video.mp4',
+    path: () => `/api/demo-clips/${dc.foreignClipId}/video.mp4?v=1`,
+    access: { action: 'demo:read', on: 'foreign', ok: 200 },
+  },
+  {
+    method: 'patch',
+    pattern: '/api/demo-clips/:id',
+    path: () => `/api/demo-clips/${dc.plannedClipId}`,
+    body: () => ({ caption: 'Walk clip' }),
+    access: { action: 'demo:update', on: 'demoClinic', ok: 200 },
+  },
+  {
+    method: 'delete',
+    pattern: '/api/demo-clips/:id',
+    path: () => `/api/demo-clips/${dc.scratchClipId}`,
+    before: async () => {
+      dc.scratchClipId = await storedClip(dc.clipFreeExerciseId);
     },
     access: { action: 'demo:delete', on: 'demoClinic', ok: 204 },
   },
@@ -1710,6 +1757,12 @@ const dc = {
   unplannedPictureId: 0,
   foreignPictureId: 0,
   scratchPictureId: 0,
+  /** An exercise of the demo clinic on no plan and without a clip (uploads, the scratch clip). */
+  clipFreeExerciseId: 0,
+  plannedClipId: 0,
+  unplannedClipId: 0,
+  foreignClipId: 0,
+  scratchClipId: 0,
 };
 
 /** A stored picture row with its files (written straight to the store: processing is tested elsewhere). */
@@ -1731,10 +1784,40 @@ async function storedPicture(exerciseId: number): Promise<number> {
     })
     .returning('id');
   const id = (row as { id: number }).id;
-  const objects = localMediaObjects(t.config.uploadsDir);
+  const objects = localMediaStore(t.config.uploadsDir);
   const jpeg = await markedJpeg(8, 8, 2);
   await objects.put(demoPictureKey(exerciseId, id, 'full'), jpeg);
   await objects.put(demoPictureKey(exerciseId, id, 'thumb'), jpeg);
+  return id;
+}
+
+/** A ready demonstration clip row with its files (any bytes: processing is tested elsewhere); replaces the exercise's clip. */
+async function storedClip(exerciseId: number): Promise<number> {
+  const ex = await t.db('exercises').where({ id: exerciseId }).first();
+  await t.db('demo_clips').where({ exercise_id: exerciseId }).delete();
+  const at = new Date().toISOString();
+  const [row] = await t
+    .db('demo_clips')
+    .insert({
+      clinic_id: ex.clinic_id,
+      exercise_id: exerciseId,
+      position: 0,
+      caption: '',
+      stored_name: 'original.mp4',
+      status: 'ready',
+      version: 1,
+      duration_s: 2,
+      width: 8,
+      height: 8,
+      created_at: at,
+      updated_at: at,
+    })
+    .returning('id');
+  const id = (row as { id: number }).id;
+  const store = localMediaStore(t.config.uploadsDir);
+  const keys = demoClipKeys(exerciseId, id);
+  await store.put(keys.video(1), Buffer.from('walk video'));
+  await store.put(keys.poster(1), await markedJpeg(8, 8, 2));
   return id;
 }
 
@@ -1752,8 +1835,18 @@ async function demoFixtures(): Promise<void> {
   dc.plannedPictureId = await storedPicture(dc.plannedExerciseId);
   dc.unplannedPictureId = await storedPicture(dc.unplannedExerciseId);
   dc.foreignPictureId = await storedPicture(dc.foreignExerciseId);
+  dc.clipFreeExerciseId = (
+    await t
+      .db('exercises')
+      .where({ clinic_id: 1 })
+      .whereNotIn('id', [...onPlans, dc.unplannedExerciseId])
+      .first()
+  ).id;
+  dc.plannedClipId = await storedClip(dc.plannedExerciseId);
+  dc.unplannedClipId = await storedClip(dc.unplannedExerciseId);
+  dc.foreignClipId = await storedClip(dc.foreignExerciseId);
   // Both clinics have a logo for GET /api/clinic/logo.png.
-  const objects = localMediaObjects(t.config.uploadsDir);
+  const objects = localMediaStore(t.config.uploadsDir);
   for (const clinicId of await t.db('clinics').pluck('id')) {
     await objects.put(clinicLogoKey(clinicId, 1), await new Jimp({ width: 4, height: 2, color: 0x00000000 }).getBuffer('image/png'));
     await t.db('clinics').where({ id: clinicId }).update({ logo_version: 1, logo_width: 4, logo_height: 2 });

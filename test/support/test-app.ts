@@ -1,4 +1,5 @@
 import fs from 'node:fs';
+import type { MediaStore } from '../../server/storage/media-store';
 import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
@@ -98,6 +99,8 @@ export interface TestAppOptions {
   fakeSmtp?: boolean;
   /** A database file (in the test's temp folder) instead of memory: plain reads then use the reader connection, as a real server's do. */
   onDisk?: boolean;
+  /** The media store (default: local folders under the test's uploads folder), e.g. an S3 store on a local fake. */
+  store?: MediaStore;
 }
 
 /** A fresh app on an in-memory database with the demo scenario and a second clinic. */
@@ -128,6 +131,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
     mailer,
     logger: options.logger ?? pino({ level: 'silent' }),
     clock: () => new Date(Date.now() + offset),
+    store: options.store,
   });
   let listener: http.Server | null = null;
   let url: string | null = null;

@@ -26,23 +26,32 @@ export const EVENT_SOURCE_FACTORY = new InjectionToken<(url: string) => EventSou
 @Injectable({ providedIn: 'root' })
 export class ProcessingEvents {
   private readonly eventSource = inject(EVENT_SOURCE_FACTORY);
-  private readonly streams = new Map<number, Observable<ProcessingMessage>>();
+  private readonly streams = new Map<string, Observable<ProcessingMessage>>();
 
   follow(athleteId: number): Observable<ProcessingMessage> {
-    let stream = this.streams.get(athleteId);
+    return this.stream(`/api/athletes/${athleteId}/processing-events`);
+  }
+
+  /** The same stream for the clinic's own items, about no athlete (exercises' demonstration clips; staff). */
+  followClinic(): Observable<ProcessingMessage> {
+    return this.stream('/api/clinic/processing-events');
+  }
+
+  private stream(url: string): Observable<ProcessingMessage> {
+    let stream = this.streams.get(url);
     if (!stream) {
       const state = { open: false };
-      const shared = this.open(athleteId, state).pipe(share());
+      const shared = this.open(url, state).pipe(share());
       // A subscriber joining an open connection hears `connected` too (as its first connection).
       stream = defer(() => (state.open ? shared.pipe(startWith<ProcessingMessage>({ type: 'connected' })) : shared));
-      this.streams.set(athleteId, stream);
+      this.streams.set(url, stream);
     }
     return stream;
   }
 
-  private open(athleteId: number, state: { open: boolean }): Observable<ProcessingMessage> {
+  private open(url: string, state: { open: boolean }): Observable<ProcessingMessage> {
     return new Observable<ProcessingMessage>((subscriber) => {
-      const source = this.eventSource(`/api/athletes/${athleteId}/processing-events`);
+      const source = this.eventSource(url);
       const onItem = (message: Event) => {
         try {
           subscriber.next({ type: 'item', event: JSON.parse((message as MessageEvent<string>).data) as ProcessingEvent });

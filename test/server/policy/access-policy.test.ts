@@ -42,6 +42,7 @@ const DOCUMENTED: Record<Action, Who> = {
   'clip:read': 'S+A',
   'processing:follow': 'S+A',
   'processing:see-all': 'S',
+  'processing:follow-clinic': 'S',
   'clip:read-media': 'S+A',
   'clip:update-settings': 'S+A',
   'clip:delete': 'S+A',

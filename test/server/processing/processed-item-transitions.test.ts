@@ -59,7 +59,11 @@ function recordingKind(rec: Recorded, name = 'test_render'): ProcessingKind<stri
 /** One process's module (its own process tag), sharing the database and the test's clock. */
 function processOf(rec: Recorded, opts: { maxAttempts?: number; kinds?: boolean } = {}): Processing {
   const inner = inProcessProgressChannel();
-  const channel: ProgressChannel = { publish: (n) => rec.notices.push(n), subscribe: inner.subscribe };
+  const channel: ProgressChannel = {
+    publish: (n) => rec.notices.push(n),
+    subscribe: inner.subscribe,
+    subscribeClinic: inner.subscribeClinic,
+  };
   const p = createProcessing({ db, channel, leaseMs: LEASE_MS, maxAttempts: opts.maxAttempts ?? MAX_ATTEMPTS, clock });
   if (opts.kinds !== false) p.register(recordingKind(rec));
   return p;

@@ -11,6 +11,7 @@ import { DEMO_LIMITS, type DemoPicture } from '../../../../contracts/demonstrati
 import type { Exercise } from '../../../../contracts/plans';
 import { errorMessage } from '../../../core/api-error';
 import { DemonstrationsApi } from '../demonstrations-api';
+import { DemoClipEditor } from './demo-clip-editor';
 
 /** One file being sent: its name, progress (null while the server processes it) or why it was refused. */
 interface Sending {
@@ -25,11 +26,12 @@ let nextKey = 0;
 /**
  * The demonstration pictures of one exercise (staff): add up to four (JPEG, PNG or GIF; location
  * and camera data are removed on the server), give each a one-line caption, put them in order,
- * remove them. Each file shows its upload and processing progress, or why it was refused.
+ * remove them. Each file shows its upload and processing progress, or why it was refused. Below
+ * them the exercise's clip ({@link DemoClipEditor}).
  */
 @Component({
   selector: 'app-demo-editor-dialog',
-  imports: [MatButtonModule, MatDialogModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule],
+  imports: [MatButtonModule, MatDialogModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, DemoClipEditor],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './demo-editor-dialog.html',
   styleUrl: './demo-editor-dialog.scss',
@@ -42,7 +44,8 @@ export class DemoEditorDialog {
     params: () => ({ id: this.exercise.id, changes: this.api.changes() }),
     stream: ({ params }) => this.api.of(params.id),
   });
-  protected readonly pictures = computed(() => (this.loaded.hasValue() ? this.loaded.value() : []));
+  protected readonly pictures = computed(() => (this.loaded.hasValue() ? this.loaded.value().pictures : []));
+  protected readonly clip = computed(() => (this.loaded.hasValue() ? this.loaded.value().clip : null));
   protected readonly sending = signal<Sending[]>([]);
   protected readonly busy = computed(() => this.sending().some((s) => s.problem === null));
   protected readonly room = computed(() => DEMO_LIMITS.pictures - this.pictures().length - this.sending().filter((s) => !s.problem).length);

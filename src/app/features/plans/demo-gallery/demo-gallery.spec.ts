@@ -1,7 +1,7 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
-import type { DemoPicture } from '../../../../contracts/demonstrations';
+import type { DemoClip, DemoPicture } from '../../../../contracts/demonstrations';
 import { DemoGallery } from './demo-gallery';
 
 const picture = (id: number, position: number, caption: string): DemoPicture => ({
@@ -76,6 +76,38 @@ describe('DemoGallery', () => {
     await settle();
     expect(track.getAttribute('aria-label')).toBe('Picture 2 of 2');
     expect(next.disabled).toBe(true);
+  });
+
+  it('shows a ready clip in its place: inline, looped, muted, with its poster and caption', async () => {
+    backend.expectOne('/api/exercises/4/demonstrations').flush({
+      exerciseId: 4,
+      pictures: [picture(9, 0, 'Start on the toes'), picture(7, 1, 'Lower slowly')],
+      clip: {
+        id: 3,
+        exerciseId: 4,
+        position: 1,
+        caption: 'Three seconds down',
+        status: 'ready',
+        error: null,
+        durationS: 6,
+        width: 1280,
+        height: 720,
+        videoUrl: '/api/demo-clips/3/video.mp4?v=1',
+        posterUrl: '/api/demo-clips/3/poster.jpg?v=1',
+        createdAt: '2026-12-04T10:00:00Z',
+      } satisfies DemoClip,
+    });
+    await settle();
+    const slides = [...element.querySelectorAll('figure')];
+    expect(slides.map((f) => (f.querySelector('video') ? 'clip' : 'picture'))).toEqual(['picture', 'clip', 'picture']);
+    const video = element.querySelector('video')!;
+    expect(video.getAttribute('src')).toBe('/api/demo-clips/3/video.mp4?v=1');
+    expect(video.getAttribute('poster')).toBe('/api/demo-clips/3/poster.jpg?v=1');
+    expect(video.muted).toBe(true);
+    expect(video.hasAttribute('loop')).toBe(true);
+    expect(video.hasAttribute('playsinline')).toBe(true);
+    expect(slides[1]!.querySelector('figcaption')!.textContent!.trim()).toBe('Three seconds down');
+    expect(element.querySelector('.track')!.getAttribute('aria-label')).toBe('Picture 1 of 3');
   });
 
   it('has no step buttons for a single picture', async () => {

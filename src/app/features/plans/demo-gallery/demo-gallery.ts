@@ -3,12 +3,13 @@ import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { DemonstrationsApi } from '../demonstrations-api';
-import { positionLabel, shownIndex, steppedIndex } from './gallery-logic';
+import { demoSlides, positionLabel, shownIndex, steppedIndex } from './gallery-logic';
 
 /**
- * The demonstration pictures of one exercise, one at a time: swipe on a phone (the track snaps
- * picture by picture), the arrow buttons or ← → on a computer; each with its one-line caption.
- * Shows nothing when the exercise has no pictures (or the caller may not see them).
+ * The demonstration pictures and clip of one exercise, one at a time: swipe on a phone (the track
+ * snaps slide by slide), the arrow buttons or ← → on a computer; each with its one-line caption.
+ * The clip plays inline, looped and muted, with its poster until it starts. Shows nothing when the
+ * exercise has neither (or the caller may not see them).
  */
 @Component({
   selector: 'app-demo-gallery',
@@ -27,17 +28,19 @@ export class DemoGallery {
     params: () => ({ id: this.exerciseId(), changes: this.api.changes() }),
     stream: ({ params }) => this.api.of(params.id),
   });
-  protected readonly pictures = computed(() => (this.loaded.hasValue() ? this.loaded.value() : []));
+  protected readonly slides = computed(() =>
+    this.loaded.hasValue() ? demoSlides(this.loaded.value().pictures, this.loaded.value().clip) : [],
+  );
   protected readonly index = signal(0);
-  protected readonly label = computed(() => positionLabel(this.index(), this.pictures().length));
+  protected readonly label = computed(() => positionLabel(this.index(), this.slides().length, this.slides()[this.index()]?.kind));
   private readonly track = viewChild<ElementRef<HTMLElement>>('track');
 
   protected onScroll(el: HTMLElement): void {
-    this.index.set(shownIndex(el.scrollLeft, el.clientWidth, this.pictures().length));
+    this.index.set(shownIndex(el.scrollLeft, el.clientWidth, this.slides().length));
   }
 
   protected step(by: number): void {
-    this.go(steppedIndex(this.index(), by, this.pictures().length));
+    this.go(steppedIndex(this.index(), by, this.slides().length));
   }
 
   protected go(i: number): void {
