@@ -11,7 +11,7 @@
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { loadConfig, type Config } from './config';
-import { createDb, migrate } from './db/knex';
+import { createDb, dbTarget, migrate } from './db/knex';
 import { createLogger } from './logger';
 import { createSmtpMailer } from './mail/mailer';
 import { warmUpFfmpeg } from './media/extract';
@@ -25,7 +25,7 @@ export interface WorkerProcess {
 /** Opens the database and media store, registers every kind, and starts the worker loop. */
 export async function startWorkerProcess(config: Config = loadConfig()): Promise<WorkerProcess> {
   const logger = createLogger(config.logLevel);
-  const db = createDb(config.dbFile);
+  const db = createDb(dbTarget(config));
   await migrate(db);
   // Kinds never send e-mail (publishing is a web request); services only need one to be built.
   const mailer = createSmtpMailer(config.mail);
