@@ -1,5 +1,6 @@
 /**
- * `npm test` after bootstrap: lint, format check, type-checks, the app build, server tests, client unit tests and
+ * `npm test` after bootstrap: lint, format check, type-checks, the app build, server tests (on SQLite, then on
+ * PostgreSQL), client unit tests and
  * browser tests, one after another; prints each suite's count and ends with the line
  * `N passed, N failed` (the skipped count on the line before). Exits non-zero when anything failed. In CI (`CI=true`, the
  * default here) a skipped test counts as failed unless its title carries `[skip: reason]`
@@ -29,6 +30,8 @@ const STEPS: Step[] = [
   { name: 'type-check (server, scripts, tests)', cmd: ['npx', 'tsc', '-p', 'tsconfig.server.json'], vitest: false },
   { name: 'app build (strict templates, budgets)', cmd: ['npx', 'ng', 'build'], vitest: false },
   { name: 'server tests', cmd: ['npx', 'vitest', 'run', '--config', 'vitest.server.config.ts'], vitest: true, jsonReport: vitestJson },
+  // The same suite on a private PostgreSQL server (DATABASE_URL set; scripts/test-postgres.ts).
+  { name: 'server tests (PostgreSQL)', cmd: ['npx', 'tsx', 'scripts/test-postgres.ts'], vitest: true, jsonReport: vitestJson },
   { name: 'client unit tests', cmd: ['npx', 'ng', 'test', '--watch=false'], vitest: true, jsonReport: ngJson },
   { name: 'browser tests', cmd: ['npx', 'vitest', 'run', '--config', 'vitest.e2e.config.ts'], vitest: true, jsonReport: vitestJson },
 ];

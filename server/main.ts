@@ -47,7 +47,8 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
     });
     config = { ...config, payments: { ...config.payments, apiPort: fakePayments.port } };
   }
-  const { app, close } = createApp({ config, db, mailer, logger, demoInboxUrl: inbox?.url ?? null });
+  const { app, close, processingReady } = createApp({ config, db, mailer, logger, demoInboxUrl: inbox?.url ?? null });
+  await processingReady;
   const server: Server = await new Promise((resolve, reject) => {
     const s = app.listen(config.port, (err?: Error) => (err ? reject(err) : resolve(s)));
   });

@@ -75,3 +75,11 @@ export async function addCheck(knex: Knex, table: string, name: string, column: 
     WHEN NEW.${column} NOT IN (${list})
     BEGIN SELECT RAISE(ABORT, 'invalid ${column}'); END`);
 }
+
+/**
+ * Adds `FOR UPDATE SKIP LOCKED` on PostgreSQL, so concurrent claimers each take a different row;
+ * SQLite has one writer at a time and needs none.
+ */
+export function skipLocked(db: Knex, query: Knex.QueryBuilder): Knex.QueryBuilder {
+  return isPostgres(db) ? query.forUpdate().skipLocked() : query;
+}

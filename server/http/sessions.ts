@@ -4,6 +4,7 @@ import type { Request, RequestHandler } from 'express';
 import session, { type SessionData } from 'express-session';
 import { ConnectSessionKnexStore } from 'connect-session-knex';
 import { preparedRead, type PreparedRead } from '../db/prepared-read';
+import { isPostgres, jsonTextEquals } from '../db/dialect';
 
 declare module 'express-session' {
   interface SessionData {
@@ -26,9 +27,11 @@ const CLEANUP_EVERY_MS = 15 * 60_000;
  */
 class SessionStore extends ConnectSessionKnexStore {
   private readonly readSession: PreparedRead<{ sess: string }>;
+  private readonly db: Knex;
 
   constructor(options: ConstructorParameters<typeof ConnectSessionKnexStore>[0] & { knex: Knex }) {
     super(options);
+    this.db = options.knex;
     // `expired` holds ISO times (connect-session-knex writes them), so text order is time order.
     this.readSession = preparedRead(options.knex, 'SELECT sess FROM sessions WHERE sid = ? AND expired >= ?');
   }
@@ -39,6 +42,26 @@ class SessionStore extends ConnectSessionKnexStore {
       const session = row ? (JSON.parse(row.sess) as SessionData) : null;
       callback?.(null, session);
       return session;
+    } catch (err) {
+      callback?.(err);
+      throw err;
+    }
+  }
+
+  /**
+   * On PostgreSQL a portable upsert: the library's own query casts `expired` to a timestamp, which
+   * would store it in PostgreSQL's text form instead of the ISO text the reads compare with.
+   */
+  override async set(sid: string, session: SessionData, callback?: (err?: unknown) => void): Promise<void> {
+    if (!isPostgres(this.db)) return super.set(sid, session, callback);
+    try {
+      const maxAge = session.cookie.maxAge;
+      const expired = new Date(Date.now() + (maxAge ?? 86_400_000)).toISOString();
+      await this.db('sessions')
+        .insert({ sid, expired, sess: JSON.stringify(session) })
+        .onConflict('sid')
+        .merge(['expired', 'sess']);
+      callback?.();
     } catch (err) {
       callback?.(err);
       throw err;
@@ -119,7 +142,9 @@ export function markSessionSeen(req: Request, clock: () => Date): void {
 
 /** Signs a user out everywhere at once: deletes every session row that carries their id. */
 export async function revokeUserSessions(db: Knex, userId: number): Promise<number> {
-  return db('sessions').whereRaw(`json_extract(sess, '$.passport.user') = ?`, [userId]).delete();
+  return db('sessions')
+    .where(jsonTextEquals(db, 'sess', ['passport', 'user'], userId))
+    .delete();
 }
 
 /** "This user was just signed out everywhere": long-lived responses (live-status streams) end on it. */

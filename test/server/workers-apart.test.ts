@@ -9,10 +9,18 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createDb, type Db } from '../../server/db/knex';
+import type { Db } from '../../server/db/knex';
 import { Client } from '../support/test-app';
 import { followProcessingEvents } from '../support/event-stream';
-import { freePort, seededDir, serverProcess, workerProcess, type ServerProcess, type WorkerProcess } from '../support/server-process';
+import {
+  folderDb,
+  freePort,
+  seededDir,
+  serverProcess,
+  workerProcess,
+  type ServerProcess,
+  type WorkerProcess,
+} from '../support/server-process';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { ffprobeCounted, makeClip } from './media/fixtures';
 
@@ -55,7 +63,7 @@ describe('one web server and two worker processes', () => {
     );
     await server.start();
     await Promise.all(workers.map((w) => w.start()));
-    db = createDb(path.join(dir, 'db.sqlite'));
+    db = folderDb(dir);
     const c = new Client(server.url);
     await c.signIn(coach.email, coach.password);
     const athletes = (await c.get('/api/athletes')).body.athletes as { id: number; lastName: string }[];
