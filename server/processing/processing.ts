@@ -135,12 +135,23 @@ export function createProcessing(o: ProcessingOptions): Processing {
   const held = (item: ProcessedItem, patch: ItemPatch) => (trx: Knex) =>
     repo.updateHeld(trx, item.id, processTag, { ...patch, updated_at: now() });
 
-  const offer = (id: number, delayMs = 0) => void dispatch?.offer(id, delayMs).catch(() => undefined); // the sweep finds it
+  /** Offers this process made that are still on their way (a claim here waits for them, so it sees its own). */
+  const inFlight = new Set<Promise<void>>();
+  const offer = (id: number, delayMs = 0): Promise<void> => {
+    if (!dispatch) return Promise.resolve();
+    const sent: Promise<void> = dispatch
+      .offer(id, delayMs)
+      .catch(() => undefined) // the sweep finds it
+      .finally(() => inFlight.delete(sent));
+    inFlight.add(sent);
+    return sent;
+  };
 
   /** The next row to run: an offered one, else one due in the table (see {@link ProcessingOptions.dispatch}). */
   async function nextRow(): Promise<ProcessedItemRow | null> {
     const lease = () => ({ at: now(), leaseUntil: later(o.leaseMs), by: processTag });
     if (!dispatch) return repo.claimNext(db, lease());
+    await Promise.all(inFlight);
     for (;;) {
       const taken = await dispatch.take().catch(() => null);
       if (!taken) break;
@@ -157,7 +168,7 @@ export function createProcessing(o: ProcessingOptions): Processing {
     if (tx.isTransaction && tx.executionPromise) tx.executionPromise.then(then, () => undefined);
     else then();
   }
-  const offerAfterCommit = (trx: Knex, id: number, delayMs: number) => dispatch && afterCommit(trx, () => offer(id, delayMs));
+  const offerAfterCommit = (trx: Knex, id: number, delayMs: number) => dispatch && afterCommit(trx, () => void offer(id, delayMs));
 
   const queue: ProcessingQueue = {
     async claim() {
@@ -274,8 +285,10 @@ export function createProcessing(o: ProcessingOptions): Processing {
       await kind.onChange(trx, item, { state: 'queued' });
       afterCommit(trx, () => {
         void publish(id);
-        offer(id);
-        for (const wake of enqueued) wake();
+        // Workers here look once the offer is made (at once without one).
+        void offer(id).then(() => {
+          for (const wake of enqueued) wake();
+        });
       });
       return id;
     },
