@@ -83,3 +83,13 @@ export async function addCheck(knex: Knex, table: string, name: string, column: 
 export function skipLocked(db: Knex, query: Knex.QueryBuilder): Knex.QueryBuilder {
   return isPostgres(db) ? query.forUpdate().skipLocked() : query;
 }
+
+/**
+ * Whether `err` is PostgreSQL refusing a value for its column (SQLSTATE class 22: a number out of
+ * range, text longer than its `varchar(n)`, a malformed number). SQLite stores such values as they
+ * come; the API answers 400 for them on PostgreSQL instead of failing.
+ */
+export function isValueRefused(err: unknown): boolean {
+  const e = err as { code?: unknown; severity?: unknown };
+  return typeof e?.code === 'string' && typeof e.severity === 'string' && /^22[0-9A-Z]{3}$/.test(e.code);
+}

@@ -75,10 +75,26 @@ export function dbTarget(config: { databaseUrl: string | null; dbFile: string })
   return config.databaseUrl ?? config.dbFile;
 }
 
-/** Brings the schema up to date. */
-export async function migrate(db: Db): Promise<string[]> {
-  const [, applied] = (await db.migrate.latest()) as [number, string[]];
-  return applied;
+/**
+ * Brings the schema up to date. Several processes may start at once on one PostgreSQL database
+ * (web servers, workers): while another holds knex's migration lock, this one waits and tries again.
+ */
+export async function migrate(db: Db, waitMs = 120_000): Promise<string[]> {
+  const started = Date.now();
+  for (;;) {
+    try {
+      const [, applied] = (await db.migrate.latest()) as [number, string[]];
+      return applied;
+    } catch (err) {
+      const message = (err as Error).message;
+      // Locked by another process, or its migration tables were being created at the same moment.
+      const locked =
+        (err as { name?: string }).name === 'MigrationLocked' ||
+        /already locked|knex_migrations\S* .*already exists|duplicate key.*pg_type/i.test(message);
+      if (!locked || Date.now() - started > waitMs) throw err;
+      await new Promise((r) => setTimeout(r, 250));
+    }
+  }
 }
 
 /** ISO timestamp for `*_at` columns. */

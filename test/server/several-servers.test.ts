@@ -56,7 +56,9 @@ describe('two web servers and two workers on PostgreSQL', () => {
       const files = await Promise.all(
         [1, 2, 3].map((n) => makeClip(path.join(dir, `clip-${n}.mp4`), { fps: 120, width: 1280, height: 720, seconds: 4 })),
       );
-      await Promise.all([...servers.map((s) => s.start()), ...workers.map((w) => w.start())]);
+      // One after another: four processes compiling at once on a loaded machine start slowly.
+      for (const s of servers) await s.start();
+      for (const w of workers) await w.start();
       const [a, b] = servers as [ServerProcess, ServerProcess];
       db = folderDb(dir);
       const onA = new Client(a.url);

@@ -75,6 +75,7 @@ export function serverProcess(dir: string, port: number, env: Record<string, str
           CLIENT_DIR: '',
           FAKE_SMTP_PORT: '0',
           DEMO_INBOX_PORT: '0',
+          FAKE_PAYMENTS_PORT: '0',
           LOG_LEVEL: 'warn',
           JOB_LEASE_SECONDS: '2',
           ...env,
@@ -86,7 +87,7 @@ export function serverProcess(dir: string, port: number, env: Record<string, str
           .then((r) => r.ok)
           .catch(() => false);
         if (ok) return;
-        if (Date.now() - started > 30_000) throw new Error('server did not start');
+        if (Date.now() - started > 60_000) throw new Error('server did not start');
         await new Promise((r) => setTimeout(r, 200));
       }
     },
@@ -135,7 +136,7 @@ export function workerProcess(dir: string, env: Record<string, string> = {}): Wo
       });
       const started = child;
       return new Promise((resolve, reject) => {
-        const timer = setTimeout(() => reject(new Error('worker did not start')), 30_000);
+        const timer = setTimeout(() => reject(new Error('worker did not start')), 60_000);
         let out = '';
         started.stdout!.on('data', (chunk: Buffer) => {
           out += chunk.toString();
