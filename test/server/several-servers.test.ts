@@ -25,7 +25,7 @@ import {
   type WorkerProcess,
 } from '../support/server-process';
 import { Client } from '../support/test-app';
-import { onPostgres } from '../support/test-db';
+import { onPostgres, titleSkippedWhen } from '../support/test-db';
 import { ffprobeCounted, makeClip } from './media/fixtures';
 
 const [, coach] = DEMO_SIGN_INS;
@@ -51,7 +51,11 @@ afterAll(async () => {
 
 describe('two web servers and two workers on PostgreSQL', () => {
   it.skipIf(!onPostgres)(
-    'a coach on server A follows three clips to ready while a worker is killed mid-extraction [skip: runs with DATABASE_URL (the PostgreSQL run of the suite)]',
+    titleSkippedWhen(
+      !onPostgres,
+      'a coach on server A follows three clips to ready while a worker is killed mid-extraction',
+      'needs DATABASE_URL: runs in the PostgreSQL run of the suite',
+    ),
     async () => {
       const files = await Promise.all(
         [1, 2, 3].map((n) => makeClip(path.join(dir, `clip-${n}.mp4`), { fps: 120, width: 1280, height: 720, seconds: 4 })),

@@ -89,3 +89,8 @@ export async function dropFolderDatabase(dir: string): Promise<void> {
   if (!target.startsWith('postgres')) return;
   await onServer(`DROP DATABASE IF EXISTS ${new URL(target).pathname.slice(1)} WITH (FORCE)`);
 }
+
+/** A test title that says why the test is skipped when `skipped` (see scripts/test-report.ts). */
+export function titleSkippedWhen(skipped: boolean, title: string, reason: string): string {
+  return skipped ? `${title} [skip: ${reason}]` : title;
+}
