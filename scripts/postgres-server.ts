@@ -7,6 +7,7 @@
 import { execFileSync, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import net from 'node:net';
+import os from 'node:os';
 import path from 'node:path';
 
 /** A running private server. */
@@ -37,16 +38,25 @@ function freePort(): Promise<number> {
   });
 }
 
-/** Initialises `dataDir` (anew) and starts a server on a free port; resolves when it accepts connections. */
-export async function startPostgres(dataDir: string): Promise<PostgresServer> {
+/** Initialises `wantedDir` (anew; a folder under /tmp when the postgres user cannot reach it) and starts a server on a free port; resolves when it accepts connections. */
+export async function startPostgres(wantedDir: string): Promise<PostgresServer> {
   const bin = postgresBinDir();
   if (!bin) throw new Error('PostgreSQL binaries not found under /usr/lib/postgresql (apt-get install postgresql)');
   const isRoot = process.getuid?.() === 0;
   const as = (cmd: string, args: string[]) =>
     (isRoot ? ['runuser', ['-u', 'postgres', '--', cmd, ...args]] : [cmd, args]) as [string, string[]];
+  let dataDir = wantedDir;
   fs.rmSync(dataDir, { recursive: true, force: true });
   fs.mkdirSync(dataDir, { recursive: true });
-  if (isRoot) execFileSync('chown', ['-R', 'postgres:postgres', dataDir]);
+  if (isRoot) {
+    execFileSync('chown', ['-R', 'postgres:postgres', dataDir]);
+    // The checkout may sit where the postgres user cannot reach (a private home folder): use /tmp then.
+    const [c, a] = as('test', ['-w', dataDir]);
+    if (spawnSync(c, a).status !== 0) {
+      dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'trailframe-postgres-'));
+      execFileSync('chown', ['-R', 'postgres:postgres', dataDir]);
+    }
+  }
   const run = (cmd: string, args: string[]) => {
     const [c, a] = as(path.join(bin, cmd), args);
     const r = spawnSync(c, a, { encoding: 'utf8' });
@@ -71,6 +81,7 @@ export async function startPostgres(dataDir: string): Promise<PostgresServer> {
     stop() {
       const [c, a] = as(path.join(bin, 'pg_ctl'), ['-D', dataDir, '-m', 'fast', '-w', 'stop']);
       spawnSync(c, a, { stdio: 'ignore' });
+      if (dataDir !== wantedDir) fs.rmSync(dataDir, { recursive: true, force: true });
     },
   };
 }
