@@ -18,6 +18,8 @@ interface Step {
   vitest: boolean;
   /** The arguments that add vitest's JSON report (read for the names of skipped tests) at `file`. */
   jsonReport?: (file: string) => string[];
+  /** Environment the step runs with besides this process's. */
+  env?: Record<string, string>;
 }
 
 const vitestJson = (file: string) => ['--reporter=default', '--reporter=json', `--outputFile.json=${file}`];
@@ -29,7 +31,14 @@ const STEPS: Step[] = [
   { name: 'format check (prettier)', cmd: ['npx', 'prettier', '--check', '.'], vitest: false },
   { name: 'type-check (server, scripts, tests)', cmd: ['npx', 'tsc', '-p', 'tsconfig.server.json'], vitest: false },
   { name: 'app build (strict templates, budgets)', cmd: ['npx', 'ng', 'build'], vitest: false },
-  { name: 'server tests', cmd: ['npx', 'vitest', 'run', '--config', 'vitest.server.config.ts'], vitest: true, jsonReport: vitestJson },
+  // On SQLite whatever the shell's DATABASE_URL says.
+  {
+    name: 'server tests',
+    cmd: ['npx', 'vitest', 'run', '--config', 'vitest.server.config.ts'],
+    vitest: true,
+    jsonReport: vitestJson,
+    env: { DATABASE_URL: '' },
+  },
   // The same suite on a private PostgreSQL server (DATABASE_URL set; scripts/test-postgres.ts).
   { name: 'server tests (PostgreSQL)', cmd: ['npx', 'tsx', 'scripts/test-postgres.ts'], vitest: true, jsonReport: vitestJson },
   { name: 'client unit tests', cmd: ['npx', 'ng', 'test', '--watch=false'], vitest: true, jsonReport: ngJson },
@@ -44,7 +53,7 @@ const reportDir = path.resolve('.tmp/test-reports');
 function run(step: Step, args: string[]): Promise<{ code: number; output: string }> {
   return new Promise((resolve) => {
     const child = spawn(step.cmd[0]!, [...step.cmd.slice(1), ...args], {
-      env: { ...process.env, NG_CLI_ANALYTICS: 'false', FORCE_COLOR: '0', NO_COLOR: '1', CI: process.env['CI'] ?? 'true' },
+      env: { ...process.env, NG_CLI_ANALYTICS: 'false', FORCE_COLOR: '0', NO_COLOR: '1', CI: process.env['CI'] ?? 'true', ...step.env },
       stdio: ['ignore', 'pipe', 'pipe'],
     });
     let output = '';
