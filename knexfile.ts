@@ -1,5 +1,6 @@
 import { loadConfig } from './server/config';
-import { knexOptions } from './server/db/knex';
+import { knexOptions, pgKnexOptions } from './server/db/knex';
 
 /** For the knex CLI (`npx tsx node_modules/knex/bin/cli.js migrate:make name`); the app migrates itself. */
-export default knexOptions(loadConfig().dbFile);
+const config = loadConfig();
+export default config.databaseUrl ? pgKnexOptions(config.databaseUrl) : knexOptions(config.dbFile);

@@ -5,6 +5,8 @@ export default defineConfig({
   test: {
     include: ['test/server/**/*.test.ts', 'test/unit/**/*.test.ts'],
     environment: 'node',
+    // On PostgreSQL (DATABASE_URL set): the migrated template each test database is copied from.
+    globalSetup: ['test/support/pg-global-setup.ts'],
     pool: 'forks',
     testTimeout: 30_000,
     hookTimeout: 60_000,

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { addCheck } from '../server/db/dialect';
 
 export async function up(knex: Knex): Promise<void> {
   await knex.schema.createTable('users', (t) => {
@@ -14,9 +15,7 @@ export async function up(knex: Knex): Promise<void> {
     t.string('updated_at').notNullable();
     t.index(['clinic_id', 'role']);
   });
-  await knex.raw(`CREATE TRIGGER users_role_check BEFORE INSERT ON users
-    WHEN NEW.role NOT IN ('owner','coach','athlete')
-    BEGIN SELECT RAISE(ABORT, 'invalid role'); END`);
+  await addCheck(knex, 'users', 'users_role_check', 'role', ['owner', 'coach', 'athlete']);
 }
 
 export async function down(knex: Knex): Promise<void> {

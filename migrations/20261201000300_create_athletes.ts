@@ -10,10 +10,10 @@ export async function up(knex: Knex): Promise<void> {
     t.string('last_name', 80).notNullable();
     t.string('email', 254);
     t.string('date_of_birth');
-    t.float('height_cm');
+    t.double('height_cm');
     t.string('distance_unit', 2).notNullable().defaultTo('km');
-    t.float('weekly_km');
-    t.float('longest_run_km');
+    t.double('weekly_km');
+    t.double('longest_run_km');
     t.string('goal_event', 120);
     t.string('goal_date');
     t.text('surfaces').notNullable().defaultTo('[]');

@@ -9,9 +9,9 @@ export async function up(knex: Knex): Promise<void> {
     t.string('date', 10).notNullable();
     t.string('kind', 10).notNullable();
     t.string('surface', 12).notNullable();
-    t.float('speed_mps');
+    t.double('speed_mps');
     t.string('speed_unit', 12).notNullable().defaultTo('kmh');
-    t.float('incline_percent');
+    t.double('incline_percent');
     t.string('shoes', 120);
     t.string('camera_notes', 500);
     t.text('notes');

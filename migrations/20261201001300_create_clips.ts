@@ -18,12 +18,12 @@ export async function up(knex: Knex): Promise<void> {
     t.string('error', 500);
     t.string('near_side', 5).notNullable().defaultTo('right');
     t.string('direction', 14).notNullable().defaultTo('left_to_right');
-    t.float('capture_fps');
-    t.float('fps');
+    t.double('capture_fps');
+    t.double('fps');
     t.integer('width');
     t.integer('height');
     t.integer('frame_count');
-    t.float('duration_s');
+    t.double('duration_s');
     t.integer('rotation');
     t.string('codec', 30);
     t.integer('thumb_count').notNullable().defaultTo(0);

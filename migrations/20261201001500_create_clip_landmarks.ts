@@ -8,8 +8,8 @@ export async function up(knex: Knex): Promise<void> {
     t.integer('frame').notNullable();
     t.string('side', 5).notNullable();
     t.string('landmark', 10).notNullable();
-    t.float('x').notNullable();
-    t.float('y').notNullable();
+    t.double('x').notNullable();
+    t.double('y').notNullable();
     // 'manual' today; 'tracked' when automatic tracking lands.
     t.string('source', 10).notNullable().defaultTo('manual');
     t.unique(['clip_id', 'frame', 'side', 'landmark']);

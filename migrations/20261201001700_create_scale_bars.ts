@@ -5,11 +5,11 @@ export async function up(knex: Knex): Promise<void> {
   await knex.schema.createTable('scale_bars', (t) => {
     t.integer('clip_id').primary().references('clips.id').onDelete('CASCADE');
     t.integer('frame').notNullable();
-    t.float('ax').notNullable();
-    t.float('ay').notNullable();
-    t.float('bx').notNullable();
-    t.float('by').notNullable();
-    t.float('length_m').notNullable();
+    t.double('ax').notNullable();
+    t.double('ay').notNullable();
+    t.double('bx').notNullable();
+    t.double('by').notNullable();
+    t.double('length_m').notNullable();
   });
 }
 

@@ -5,8 +5,8 @@ export async function up(knex: Knex): Promise<void> {
   await knex.schema.createTable('reference_bands', (t) => {
     t.integer('clinic_id').notNullable().references('clinics.id').onDelete('CASCADE');
     t.string('key', 40).notNullable();
-    t.float('low');
-    t.float('high');
+    t.double('low');
+    t.double('high');
     t.string('unit', 20).notNullable();
     t.string('context', 200).notNullable();
     t.string('source', 300).notNullable();

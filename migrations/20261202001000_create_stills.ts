@@ -18,7 +18,7 @@ export async function up(knex: Knex): Promise<void> {
     t.string('caption', 400).notNullable().defaultTo('');
     t.boolean('show_angles').notNullable().defaultTo(true);
     t.string('status', 12).notNullable();
-    t.float('progress').notNullable().defaultTo(0);
+    t.double('progress').notNullable().defaultTo(0);
     t.text('error').nullable();
     t.integer('width').nullable();
     t.integer('height').nullable();

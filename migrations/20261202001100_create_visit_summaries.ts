@@ -14,7 +14,7 @@ export async function up(knex: Knex): Promise<void> {
     // Ordered still ids (JSON); stills deleted later simply drop out of a re-render.
     t.text('still_ids').notNullable();
     t.string('status', 12).notNullable();
-    t.float('progress').notNullable().defaultTo(0);
+    t.double('progress').notNullable().defaultTo(0);
     t.text('error').nullable();
     t.integer('page_count').nullable();
     t.string('published_at').nullable();

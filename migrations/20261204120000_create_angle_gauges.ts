@@ -9,12 +9,12 @@ export async function up(knex: Knex): Promise<void> {
     t.integer('clip_id').notNullable().references('clips.id').onDelete('CASCADE');
     t.string('id', 40).notNullable();
     t.integer('frame').notNullable();
-    t.float('ax').notNullable();
-    t.float('ay').notNullable();
-    t.float('vx').notNullable();
-    t.float('vy').notNullable();
-    t.float('bx').notNullable();
-    t.float('by').notNullable();
+    t.double('ax').notNullable();
+    t.double('ay').notNullable();
+    t.double('vx').notNullable();
+    t.double('vy').notNullable();
+    t.double('bx').notNullable();
+    t.double('by').notNullable();
     t.primary(['clip_id', 'id']);
     t.index(['clip_id', 'frame']);
   });

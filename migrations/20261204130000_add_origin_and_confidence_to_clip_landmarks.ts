@@ -9,7 +9,7 @@ import type { Knex } from 'knex';
 export async function up(knex: Knex): Promise<void> {
   await knex.schema.alterTable('clip_landmarks', (t) => {
     t.string('origin', 10).notNullable().defaultTo('placed');
-    t.float('confidence').nullable();
+    t.double('confidence').nullable();
   });
   await knex('clip_landmarks').where({ source: 'tracked' }).update({ origin: 'followed' });
   await knex.schema.alterTable('clip_landmarks', (t) => {

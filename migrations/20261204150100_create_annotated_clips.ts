@@ -18,7 +18,7 @@ export async function up(knex: Knex): Promise<void> {
     t.string('kind', 14).notNullable();
     // Panels with the frozen landmarks, events, gauges, direction and near side, and the frames per step (JSON).
     t.text('panels').notNullable();
-    t.float('factor').notNullable();
+    t.double('factor').notNullable();
     t.string('caption', 400).notNullable().defaultTo('');
     t.boolean('show_angles').notNullable().defaultTo(true);
     t.string('status', 12).notNullable();
@@ -26,8 +26,8 @@ export async function up(knex: Knex): Promise<void> {
     t.integer('width').nullable();
     t.integer('height').nullable();
     t.integer('frame_count').nullable();
-    t.float('fps').nullable();
-    t.float('duration_s').nullable();
+    t.double('fps').nullable();
+    t.double('duration_s').nullable();
     t.integer('repeat').nullable();
     t.text('note').nullable();
     t.integer('render_version').notNullable().defaultTo(1);

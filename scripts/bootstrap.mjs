@@ -1,6 +1,6 @@
 #!/usr/bin/env node
 // Installs what a bare machine lacks before `npm start` / `npm test`: npm packages (native
-// modules built from source), Debian ffmpeg, and for tests Debian chromium. Plain Node, no deps.
+// modules built from source), Debian ffmpeg, and for tests Debian chromium and postgresql. Plain Node, no deps.
 import { execFileSync, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
@@ -67,6 +67,8 @@ const debs = [];
 if (!has('ffmpeg') || !has('ffprobe')) debs.push('ffmpeg');
 if (forTests && !fs.existsSync('/usr/bin/chromium')) debs.push('chromium');
 if (forTests && !has('pdftotext')) debs.push('poppler-utils');
+// The server suite runs a second time on a private PostgreSQL server (scripts/postgres-server.ts).
+if (forTests && !fs.existsSync('/usr/lib/postgresql') && !has('pg_ctl')) debs.push('postgresql');
 if (debs.length) {
   if (isRoot && has('apt-get')) {
     const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };

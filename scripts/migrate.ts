@@ -1,7 +1,7 @@
 import { loadConfig } from '../server/config';
-import { createDb, migrate } from '../server/db/knex';
+import { createDb, dbTarget, migrate } from '../server/db/knex';
 
-const db = createDb(loadConfig().dbFile);
+const db = createDb(dbTarget(loadConfig()));
 const applied = await migrate(db);
 console.log(applied.length ? `Applied: ${applied.join(', ')}` : 'Database is up to date.');
 await db.destroy();

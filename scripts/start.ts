@@ -7,7 +7,7 @@ import { spawn, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { loadConfig } from '../server/config';
-import { createDb, migrate } from '../server/db/knex';
+import { createDb, dbTarget, migrate } from '../server/db/knex';
 import { buildServer, SERVER_BUNDLE } from './build-server';
 import { DEMO_SIGN_INS, seed } from '../seeds/demo-scenario';
 
@@ -42,10 +42,10 @@ function buildIfStale(clientDir: string): void {
 
 async function main(): Promise<void> {
   const config = loadConfig();
-  const db = createDb(config.dbFile);
+  const db = createDb(dbTarget(config));
   const applied = await migrate(db);
   console.log(
-    `[start] database ${path.relative(root, config.dbFile)}: ${applied.length ? `applied ${applied.length} migration(s)` : 'up to date'}`,
+    `[start] database ${config.databaseUrl ? 'PostgreSQL (DATABASE_URL)' : path.relative(root, config.dbFile)}: ${applied.length ? `applied ${applied.length} migration(s)` : 'up to date'}`,
   );
   if (config.demoMode) {
     const seeded = await seed(db, { uploadsDir: config.uploadsDir, log: (m) => console.log(`[start] ${m}`) });

@@ -1,5 +1,6 @@
 /**
- * `npm test` after bootstrap: lint, format check, type-checks, the app build, server tests, client unit tests and
+ * `npm test` after bootstrap: lint, format check, type-checks, the app build, server tests (on SQLite, then on
+ * PostgreSQL), client unit tests and
  * browser tests, one after another; prints each suite's count and ends with the line
  * `N passed, N failed` (the skipped count on the line before). Exits non-zero when anything failed. In CI (`CI=true`, the
  * default here) a skipped test counts as failed unless its title carries `[skip: reason]`
@@ -17,6 +18,8 @@ interface Step {
   vitest: boolean;
   /** The arguments that add vitest's JSON report (read for the names of skipped tests) at `file`. */
   jsonReport?: (file: string) => string[];
+  /** Environment the step runs with besides this process's. */
+  env?: Record<string, string>;
 }
 
 const vitestJson = (file: string) => ['--reporter=default', '--reporter=json', `--outputFile.json=${file}`];
@@ -28,7 +31,16 @@ const STEPS: Step[] = [
   { name: 'format check (prettier)', cmd: ['npx', 'prettier', '--check', '.'], vitest: false },
   { name: 'type-check (server, scripts, tests)', cmd: ['npx', 'tsc', '-p', 'tsconfig.server.json'], vitest: false },
   { name: 'app build (strict templates, budgets)', cmd: ['npx', 'ng', 'build'], vitest: false },
-  { name: 'server tests', cmd: ['npx', 'vitest', 'run', '--config', 'vitest.server.config.ts'], vitest: true, jsonReport: vitestJson },
+  // On SQLite whatever the shell's DATABASE_URL says.
+  {
+    name: 'server tests',
+    cmd: ['npx', 'vitest', 'run', '--config', 'vitest.server.config.ts'],
+    vitest: true,
+    jsonReport: vitestJson,
+    env: { DATABASE_URL: '' },
+  },
+  // The same suite on a private PostgreSQL server (DATABASE_URL set; scripts/test-postgres.ts).
+  { name: 'server tests (PostgreSQL)', cmd: ['npx', 'tsx', 'scripts/test-postgres.ts'], vitest: true, jsonReport: vitestJson },
   { name: 'client unit tests', cmd: ['npx', 'ng', 'test', '--watch=false'], vitest: true, jsonReport: ngJson },
   { name: 'browser tests', cmd: ['npx', 'vitest', 'run', '--config', 'vitest.e2e.config.ts'], vitest: true, jsonReport: vitestJson },
 ];
@@ -41,7 +53,7 @@ const reportDir = path.resolve('.tmp/test-reports');
 function run(step: Step, args: string[]): Promise<{ code: number; output: string }> {
   return new Promise((resolve) => {
     const child = spawn(step.cmd[0]!, [...step.cmd.slice(1), ...args], {
-      env: { ...process.env, NG_CLI_ANALYTICS: 'false', FORCE_COLOR: '0', NO_COLOR: '1', CI: process.env['CI'] ?? 'true' },
+      env: { ...process.env, NG_CLI_ANALYTICS: 'false', FORCE_COLOR: '0', NO_COLOR: '1', CI: process.env['CI'] ?? 'true', ...step.env },
       stdio: ['ignore', 'pipe', 'pipe'],
     });
     let output = '';

@@ -24,7 +24,7 @@ import type { MediaStore } from './storage/media-store';
 import { resumableUploadDir, uploadTempDir, uploadTemps } from './storage/upload-temps';
 import type { Processing } from './processing/processing';
 import { startWorker, type Worker } from './processing/worker';
-import { startProgressRelay } from './processing/progress-relay';
+import { processingEngine } from './processing/engine';
 import { processingEventsRoutes } from './processing/processing-events.routes';
 import { createMediaServices, mediaStoreFor } from './services';
 import { warmUpFfmpeg } from './media/extract';
@@ -80,6 +80,8 @@ export interface App {
   worker: Worker | null;
   /** The processing layer (its kinds registered). */
   processing: Processing;
+  /** Resolves once other processes' progress reaches this one (PostgreSQL: listening; SQLite: at once). */
+  processingReady: Promise<void>;
   /** Deletes expired session rows now (they are also cleared at start and every 15 minutes); answers how many. */
   clearExpiredSessions(): Promise<number>;
   /** The daily privacy check now (also run every hour): lists clips due under each clinic's retention, removes expired export zips. */
@@ -201,7 +203,19 @@ export function createApp(deps: AppDeps): App {
   const temps = uploadTemps(uploadTempDir(config.uploadsDir), (err) => logger.warn({ err: err.message }, 'upload temp sweep failed'));
   const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
   const revocations = inProcessRevocations();
-  const media = createMediaServices({ config, db, mailer, logger, clock, store, brands });
+  // SQLite: in-process channel and table relay; PostgreSQL: pg-boss and LISTEN/NOTIFY (processing/engine.ts).
+  const engine = processingEngine({ db, config, logger });
+  const media = createMediaServices({
+    config,
+    db,
+    mailer,
+    logger,
+    clock,
+    store,
+    brands,
+    channel: engine.channel,
+    dispatch: engine.dispatch,
+  });
   const { processing, clips, assessments, measures, annotations, follow, stills, summaries, annotatedClips, dataExports, demoClips } =
     media;
   const retention = retentionService({ db, clips, clock });
@@ -232,8 +246,8 @@ export function createApp(deps: AppDeps): App {
       })
     : null;
   if (worker) void warmUpFfmpeg();
-  // Workers in other processes (`npm run worker`) report through the database; relayed here.
-  const relay = startProgressRelay({ db, processing, logger, everyMs: RELAY_EVERY_MS });
+  // Workers in other processes (`npm run worker`) report through the database; relayed here (SQLite).
+  const relay = engine.startRelay(processing, RELAY_EVERY_MS);
 
   api.get('/health', (_req, res) => {
     res.json({ ok: true });
@@ -295,6 +309,7 @@ export function createApp(deps: AppDeps): App {
     app,
     worker,
     processing,
+    processingReady: engine.ready,
     clearExpiredSessions: sessions.clearExpired,
     runDailyPrivacyCheck,
     async close() {
@@ -304,6 +319,7 @@ export function createApp(deps: AppDeps): App {
       relay.stop();
       await worker?.stop();
       await sessions.close();
+      await engine.close();
     },
   };
 }

@@ -1,6 +1,7 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { ZodError } from 'zod';
 import type { Logger } from 'pino';
+import { isValueRefused } from './db/dialect';
 
 /** Base of every error the API answers on purpose; mapped once, in {@link errorHandler}. */
 export class AppError extends Error {
@@ -93,6 +94,8 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
         appError = new AppError(413, 'payload_too_large', 'The request body is too large.');
       } else if (e.code === 'EBADCSRFTOKEN' || (status === 403 && /csrf/i.test(e.message ?? ''))) {
         appError = new AppError(403, 'csrf_invalid', 'Your session token is missing or stale. Reload the page and try again.');
+      } else if (isValueRefused(err)) {
+        appError = new AppError(400, 'value_refused', 'A value is out of range or too long for its field.');
       } else if (status && status >= 400 && status < 500 && e.expose !== false) {
         appError = new AppError(status, 'bad_request', e.message || 'Bad request.');
       } else {

@@ -2,7 +2,7 @@ import type { Server } from 'node:http';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { loadConfig, type Config } from './config';
-import { createDb, migrate, type Db } from './db/knex';
+import { createDb, dbTarget, migrate, type Db } from './db/knex';
 import { createLogger } from './logger';
 import { createApp } from './app';
 import { createSmtpMailer } from './mail/mailer';
@@ -27,7 +27,7 @@ export interface RunningServer {
  */
 export async function startServer(config: Config = loadConfig()): Promise<RunningServer> {
   const logger = createLogger(config.logLevel);
-  const db = createDb(config.dbFile);
+  const db = createDb(dbTarget(config));
   await migrate(db);
   let fakeSmtp: FakeSmtp | null = null;
   let inbox: DemoInbox | null = null;
@@ -47,7 +47,8 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
     });
     config = { ...config, payments: { ...config.payments, apiPort: fakePayments.port } };
   }
-  const { app, close } = createApp({ config, db, mailer, logger, demoInboxUrl: inbox?.url ?? null });
+  const { app, close, processingReady } = createApp({ config, db, mailer, logger, demoInboxUrl: inbox?.url ?? null });
+  await processingReady;
   const server: Server = await new Promise((resolve, reject) => {
     const s = app.listen(config.port, (err?: Error) => (err ? reject(err) : resolve(s)));
   });

@@ -9,6 +9,7 @@ import { s3MediaStore } from './storage/s3-media-store';
 import type { MediaStore } from './storage/media-store';
 import { createProcessing, type Processing } from './processing/processing';
 import { inProcessProgressChannel, type ProgressChannel } from './processing/progress-channel';
+import type { ItemDispatch } from './processing/item-dispatch';
 import { clipsService, type ClipsService } from './clips/clips-service';
 import { assessmentsService, type AssessmentsService } from './assessments/assessments-service';
 import { annotationsService, type AnnotationsService } from './annotations/annotations-service';
@@ -35,6 +36,8 @@ export interface MediaServicesDeps {
   store?: MediaStore;
   /** The progress channel; defaults to one within this process. */
   channel?: ProgressChannel;
+  /** What offers items to workers besides the table (`processingEngine`); none by default. */
+  dispatch?: ItemDispatch | null;
   /** The clinics' letterheads for documents; defaults to the logos in `store`. */
   brands?: ClinicBrands;
 }
@@ -68,6 +71,7 @@ export function createMediaServices(d: MediaServicesDeps): MediaServices {
     channel: d.channel ?? inProcessProgressChannel(),
     leaseMs: config.jobs.leaseMs,
     maxAttempts: config.jobs.maxAttempts,
+    dispatch: d.dispatch ?? null,
   });
   const clips = clipsService({ db, store, processing, logger });
   const assessments = assessmentsService({ db, clips, store });

@@ -3,7 +3,8 @@
  * of its own, against the same database and media folder as the web server. Start the web server
  * with `RUN_WORKER=false` to leave all processing to such workers, or keep its in-process worker
  * and add these beside it; start as many as the machine has room for. Progress reaches browsers
- * through the database (the web process relays it: server/processing/progress-relay.ts).
+ * through the database: on SQLite the web process relays it (server/processing/progress-relay.ts),
+ * on PostgreSQL it travels with NOTIFY and items come through pg-boss (server/processing/engine.ts).
  *
  * SIGTERM / SIGINT stop it gracefully: running items go back to the queue with their attempt
  * unused. A worker killed outright leaves its items to be taken over once their lease runs out.
@@ -11,12 +12,13 @@
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { loadConfig, type Config } from './config';
-import { createDb, migrate } from './db/knex';
+import { createDb, dbTarget, migrate } from './db/knex';
 import { createLogger } from './logger';
 import { createSmtpMailer } from './mail/mailer';
 import { warmUpFfmpeg } from './media/extract';
 import { createMediaServices } from './services';
 import { startWorker } from './processing/worker';
+import { processingEngine } from './processing/engine';
 
 export interface WorkerProcess {
   stop(): Promise<void>;
@@ -25,11 +27,21 @@ export interface WorkerProcess {
 /** Opens the database and media store, registers every kind, and starts the worker loop. */
 export async function startWorkerProcess(config: Config = loadConfig()): Promise<WorkerProcess> {
   const logger = createLogger(config.logLevel);
-  const db = createDb(config.dbFile);
+  const db = createDb(dbTarget(config));
   await migrate(db);
   // Kinds never send e-mail (publishing is a web request); services only need one to be built.
   const mailer = createSmtpMailer(config.mail);
-  const { processing } = createMediaServices({ config, db, mailer, logger, clock: () => new Date() });
+  const engine = processingEngine({ db, config, logger });
+  const { processing } = createMediaServices({
+    config,
+    db,
+    mailer,
+    logger,
+    clock: () => new Date(),
+    channel: engine.channel,
+    dispatch: engine.dispatch,
+  });
+  await engine.ready;
   await warmUpFfmpeg();
   const worker = startWorker({
     processing,
@@ -42,6 +54,7 @@ export async function startWorkerProcess(config: Config = loadConfig()): Promise
   return {
     async stop() {
       await worker.stop();
+      await engine.close();
       mailer.close();
       await db.destroy();
     },

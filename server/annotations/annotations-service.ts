@@ -89,12 +89,17 @@ export function annotationsService(d: AnnotationsDeps) {
     const measures = await d.measures.computeFor(clip, saved);
 
     await db.transaction(async (trx) => {
-      const row = await trx('clips').where({ id: clipId }).first<{ annotation_revision: number }>('annotation_revision');
-      if (!row) throw new AppError(404, 'not_found', 'Clip not found.');
-      // Another save since the read: the marks read are not what is stored any more.
-      if (row.annotation_revision !== stored.revision) throw staleRevision(await repo.read(trx, clipId));
+      // Raising the revision only from the one read takes the clip row's lock first: a save racing from the same
+      // revision waits for this one (PostgreSQL) or for the single writer (SQLite), then moves no row and is stale.
+      const moved = await trx('clips')
+        .where({ id: clipId, annotation_revision: stored.revision })
+        .update({ annotation_revision: saved.revision, annotated_by: user.id, annotated_at: at });
+      if (moved === 0) {
+        if (!(await trx('clips').where({ id: clipId }).first('id'))) throw new AppError(404, 'not_found', 'Clip not found.');
+        // Another save since the read: the marks read are not what is stored any more.
+        throw staleRevision(await repo.read(trx, clipId));
+      }
       await repo.applyChanges(trx, clipId, { ...stored, gauges: stored.gauges ?? [] }, marks);
-      await trx('clips').where({ id: clipId }).update({ annotation_revision: saved.revision, annotated_by: user.id, annotated_at: at });
       await d.measures.storeSnapshot(trx, clip, saved.revision, measures);
       await audit(
         trx,

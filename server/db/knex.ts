@@ -3,6 +3,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import knexFactory, { type Knex } from 'knex';
 import { SqliteClient } from './sqlite-client';
+import { PG_TYPES, isPostgresUrl } from './dialect';
 
 export type Db = Knex;
 
@@ -49,16 +50,51 @@ export function knexOptions(filename: string): Knex.Config {
   };
 }
 
-/** Opens (creating the folder if needed) the SQLite database. `:memory:` works for tests. */
-export function createDb(filename: string): Db {
-  if (filename !== ':memory:') fs.mkdirSync(path.dirname(filename), { recursive: true });
-  return knexFactory(knexOptions(filename));
+/** Knex options for PostgreSQL at `url` (a pool of connections; see `dialect.ts`). */
+export function pgKnexOptions(url: string, poolMax = 10): Knex.Config {
+  return {
+    client: 'pg',
+    connection: { connectionString: url, types: PG_TYPES } as Knex.PgConnectionConfig,
+    pool: { min: 0, max: poolMax },
+    migrations: { migrationSource: new TsMigrationSource(MIGRATIONS_DIR), tableName: 'knex_migrations' },
+  };
 }
 
-/** Brings the schema up to date. */
-export async function migrate(db: Db): Promise<string[]> {
-  const [, applied] = (await db.migrate.latest()) as [number, string[]];
-  return applied;
+/**
+ * Opens the database: PostgreSQL when `target` is a `postgres://` URL (`DATABASE_URL`), else the
+ * SQLite file (creating its folder if needed). `:memory:` works for tests.
+ */
+export function createDb(target: string): Db {
+  if (isPostgresUrl(target)) return knexFactory(pgKnexOptions(target));
+  if (target !== ':memory:') fs.mkdirSync(path.dirname(target), { recursive: true });
+  return knexFactory(knexOptions(target));
+}
+
+/** Where the configured database is: `DATABASE_URL` when set, else the SQLite file. */
+export function dbTarget(config: { databaseUrl: string | null; dbFile: string }): string {
+  return config.databaseUrl ?? config.dbFile;
+}
+
+/**
+ * Brings the schema up to date. Several processes may start at once on one PostgreSQL database
+ * (web servers, workers): while another holds knex's migration lock, this one waits and tries again.
+ */
+export async function migrate(db: Db, waitMs = 120_000): Promise<string[]> {
+  const started = Date.now();
+  for (;;) {
+    try {
+      const [, applied] = (await db.migrate.latest()) as [number, string[]];
+      return applied;
+    } catch (err) {
+      const message = (err as Error).message;
+      // Locked by another process, or its migration tables were being created at the same moment.
+      const locked =
+        (err as { name?: string }).name === 'MigrationLocked' ||
+        /already locked|knex_migrations\S* .*already exists|duplicate key.*pg_type/i.test(message);
+      if (!locked || Date.now() - started > waitMs) throw err;
+      await new Promise((r) => setTimeout(r, 250));
+    }
+  }
 }
 
 /** ISO timestamp for `*_at` columns. */

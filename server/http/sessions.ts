@@ -5,6 +5,7 @@ import session, { type SessionData } from 'express-session';
 import { ConnectSessionKnexStore } from 'connect-session-knex';
 import { preparedRead } from '../db/prepared-read';
 import { identityCache } from '../db/identity-cache';
+import { isPostgres, jsonTextEquals } from '../db/dialect';
 
 declare module 'express-session' {
   interface SessionData {
@@ -31,9 +32,11 @@ type SessionRow = { sess: string; expired: string } | undefined;
  */
 class SessionStore extends ConnectSessionKnexStore {
   private readonly readSession: (sid: string) => Promise<SessionRow>;
+  private readonly db: Knex;
 
   constructor(options: ConstructorParameters<typeof ConnectSessionKnexStore>[0] & { knex: Knex }) {
     super(options);
+    this.db = options.knex;
     const read = preparedRead<NonNullable<SessionRow>>(options.knex, 'SELECT sess, expired FROM sessions WHERE sid = ?');
     const rows = identityCache<string, SessionRow>(options.knex);
     this.readSession = (sid) => rows.read(sid, async () => (await read([sid]))[0]);
@@ -46,6 +49,26 @@ class SessionStore extends ConnectSessionKnexStore {
       const session = row && row.expired >= new Date().toISOString() ? (JSON.parse(row.sess) as SessionData) : null;
       callback?.(null, session);
       return session;
+    } catch (err) {
+      callback?.(err);
+      throw err;
+    }
+  }
+
+  /**
+   * On PostgreSQL a portable upsert: the library's own query casts `expired` to a timestamp, which
+   * would store it in PostgreSQL's text form instead of the ISO text the reads compare with.
+   */
+  override async set(sid: string, session: SessionData, callback?: (err?: unknown) => void): Promise<void> {
+    if (!isPostgres(this.db)) return super.set(sid, session, callback);
+    try {
+      const maxAge = session.cookie.maxAge;
+      const expired = new Date(Date.now() + (maxAge ?? 86_400_000)).toISOString();
+      await this.db('sessions')
+        .insert({ sid, expired, sess: JSON.stringify(session) })
+        .onConflict('sid')
+        .merge(['expired', 'sess']);
+      callback?.();
     } catch (err) {
       callback?.(err);
       throw err;
@@ -126,7 +149,9 @@ export function markSessionSeen(req: Request, clock: () => Date): void {
 
 /** Signs a user out everywhere at once: deletes every session row that carries their id. */
 export async function revokeUserSessions(db: Knex, userId: number): Promise<number> {
-  return db('sessions').whereRaw(`json_extract(sess, '$.passport.user') = ?`, [userId]).delete();
+  return db('sessions')
+    .where(jsonTextEquals(db, 'sess', ['passport', 'user'], userId))
+    .delete();
 }
 
 /** "This user was just signed out everywhere": long-lived responses (live-status streams) end on it. */

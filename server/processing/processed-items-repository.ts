@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { skipLocked } from '../db/dialect';
 import type { ItemScope, ItemState, ProcessedItem } from './processed-item';
 
 /** A `processed_items` row. */
@@ -85,16 +86,41 @@ export const processedItemsRepository = {
   /**
    * Takes the next due item in one statement: the oldest queued one whose time has come, or a
    * running one whose lease ran out (its worker died). Running, one more attempt, leased to `by`.
+   * `dueBefore` (default `at`) holds queued items back that another way offers on time (pg-boss).
    */
-  async claimNext(db: Knex, opts: { at: string; leaseUntil: string; by: string }): Promise<ProcessedItemRow | null> {
-    const next = db(TABLE)
-      .select('id')
-      .where((q) => q.where({ state: 'queued' }).andWhere('run_after', '<=', opts.at))
-      .orWhere((q) => q.where({ state: 'running' }).andWhere('lease_until', '<', opts.at))
-      .orderBy('id')
-      .limit(1);
-    const rows = (await db(TABLE)
-      .whereIn('id', next)
+  async claimNext(db: Knex, opts: { at: string; leaseUntil: string; by: string; dueBefore?: string }): Promise<ProcessedItemRow | null> {
+    const next = skipLocked(
+      db,
+      db(TABLE)
+        .select('id')
+        .where((q) => q.where({ state: 'queued' }).andWhere('run_after', '<=', opts.dueBefore ?? opts.at))
+        .orWhere((q) => q.where({ state: 'running' }).andWhere('lease_until', '<', opts.at))
+        .orderBy('id')
+        .limit(1),
+    );
+    return this.claimWhere(db, (q) => q.whereIn('id', next), opts);
+  },
+
+  /** Takes one item by id, as {@link claimNext} does, when it is queued or its lease ran out; else null. */
+  claimById(db: Knex, id: number, opts: { at: string; leaseUntil: string; by: string }): Promise<ProcessedItemRow | null> {
+    return this.claimWhere(
+      db,
+      (q) =>
+        q
+          .where({ id })
+          .andWhere((w) =>
+            w.where({ state: 'queued' }).orWhere((r) => r.where({ state: 'running' }).andWhere('lease_until', '<', opts.at)),
+          ),
+      opts,
+    );
+  },
+
+  async claimWhere(
+    db: Knex,
+    which: (q: Knex.QueryBuilder) => Knex.QueryBuilder,
+    opts: { at: string; leaseUntil: string; by: string },
+  ): Promise<ProcessedItemRow | null> {
+    const rows = (await which(db(TABLE))
       .update({
         state: 'running',
         attempts: db.raw('attempts + 1'),

@@ -6,6 +6,7 @@ import type { Db } from '../db/knex';
 import { interruptedReason, type ItemScope, type ProcessedItem, type ProcessingKind } from './processed-item';
 import { processedItemsRepository as repo, toItem, type ItemPatch, type ProcessedItemRow } from './processed-items-repository';
 import type { ProgressChannel, ProgressNotice } from './progress-channel';
+import type { ItemDispatch } from './item-dispatch';
 
 /**
  * The processed-items module as services use it: kinds register here, subjects' work is enqueued
@@ -76,11 +77,21 @@ export interface ProcessingOptions {
   leaseMs: number;
   maxAttempts: number;
   clock?: () => Date;
+  /**
+   * How items reach workers besides the table (pg-boss on PostgreSQL; see `engine.ts`). With one,
+   * workers take offered items first and claim from the table only what was not offered within
+   * {@link SWEEP_GRACE_MS} (an offer lost with its process) or whose lease ran out.
+   */
+  dispatch?: ItemDispatch | null;
 }
+
+/** A queued item no offer brought to a worker this long after it was due is claimed from the table. */
+export const SWEEP_GRACE_MS = 5_000;
 
 /** The processed-items module over the `processed_items` table. */
 export function createProcessing(o: ProcessingOptions): Processing {
   const { db, channel } = o;
+  const dispatch = o.dispatch ?? null;
   const clock = o.clock ?? (() => new Date());
   const now = () => clock().toISOString();
   const later = (ms: number) => new Date(clock().getTime() + ms).toISOString();
@@ -131,10 +142,45 @@ export function createProcessing(o: ProcessingOptions): Processing {
   const held = (item: ProcessedItem, patch: ItemPatch) => (trx: Knex) =>
     repo.updateHeld(trx, item.id, holder(item), { ...patch, updated_at: now() });
 
+  /** Offers this process made that are still on their way (a claim here waits for them, so it sees its own). */
+  const inFlight = new Set<Promise<void>>();
+  const offer = (id: number, delayMs = 0): Promise<void> => {
+    if (!dispatch) return Promise.resolve();
+    const sent: Promise<void> = dispatch
+      .offer(id, delayMs)
+      .catch(() => undefined) // the sweep finds it
+      .finally(() => inFlight.delete(sent));
+    inFlight.add(sent);
+    return sent;
+  };
+
+  /** The next row to run: an offered one, else one due in the table (see {@link ProcessingOptions.dispatch}). */
+  async function nextRow(): Promise<ProcessedItemRow | null> {
+    const lease = () => ({ at: now(), leaseUntil: later(o.leaseMs), by: processTag });
+    if (!dispatch) return repo.claimNext(db, lease());
+    await Promise.all(inFlight);
+    for (;;) {
+      const taken = await dispatch.take().catch(() => null);
+      if (!taken) break;
+      const row = await repo.claimById(db, taken.itemId, lease());
+      await taken.done().catch(() => undefined);
+      if (row) return row;
+    }
+    return repo.claimNext(db, { ...lease(), dueBefore: later(-SWEEP_GRACE_MS) });
+  }
+
+  /** Runs `then` once `trx` committed (at once with a plain connection). */
+  function afterCommit(trx: Knex, then: () => void): void {
+    const tx = trx as Knex.Transaction;
+    if (tx.isTransaction && tx.executionPromise) tx.executionPromise.then(then, () => undefined);
+    else then();
+  }
+  const offerAfterCommit = (trx: Knex, id: number, delayMs: number) => dispatch && afterCommit(trx, () => void offer(id, delayMs));
+
   const queue: ProcessingQueue = {
     async claim() {
       for (;;) {
-        const row = await repo.claimNext(db, { at: now(), leaseUntil: later(o.leaseMs), by: processTag });
+        const row = await nextRow();
         if (!row) return null;
         const item = toItem(row);
         if (row.attempts <= row.max_attempts && kinds.has(row.kind)) {
@@ -184,6 +230,7 @@ export function createProcessing(o: ProcessingOptions): Processing {
         }
         const requeue = { state: 'queued' as const, error: reason, lease_until: null, claimed_by: null, run_after: later(retryInMs) };
         if (!(await held(item, requeue)(trx))) return false;
+        offerAfterCommit(trx, item.id, retryInMs);
         await kind.onChange(trx, item, { state: 'queued', retry: { attempt: item.attempts, reason } });
         return true;
       });
@@ -200,6 +247,7 @@ export function createProcessing(o: ProcessingOptions): Processing {
           run_after: now(),
         };
         if (!(await held(item, back)(trx))) return false;
+        offerAfterCommit(trx, item.id, 0);
         await kindOf(item.kind).onChange(trx, item, { state: 'queued' });
         return true;
       });
@@ -242,13 +290,13 @@ export function createProcessing(o: ProcessingOptions): Processing {
         error: null,
       };
       await kind.onChange(trx, item, { state: 'queued' });
-      const afterCommit = () => {
+      afterCommit(trx, () => {
         void publish(id);
-        for (const wake of enqueued) wake();
-      };
-      const tx = trx as Knex.Transaction;
-      if (tx.isTransaction && tx.executionPromise) tx.executionPromise.then(afterCommit, () => undefined);
-      else afterCommit();
+        // Workers here look once the offer is made (at once without one).
+        void offer(id).then(() => {
+          for (const wake of enqueued) wake();
+        });
+      });
       return id;
     },
 

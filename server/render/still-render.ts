@@ -100,7 +100,8 @@ export async function renderStill(input: StillRenderInput): Promise<StillRenderO
   const caption = input.caption.trim();
   const captionLines = caption ? wrapText(scratch, caption, contentWidth - 2 * unit) : [];
   const lineHeight = Math.round(unit * 1.5);
-  const captionHeight = captionLines.length ? captionLines.length * lineHeight + unit * 1.4 : 0;
+  // Whole pixels: the canvas has whole pixels, and the stored height is an integer column.
+  const captionHeight = captionLines.length ? captionLines.length * lineHeight + Math.round(unit * 1.4) : 0;
   const cautionSize = Math.max(10, Math.round(unit * 0.8));
   const cautionHeight = Math.round(cautionSize * 2);
 

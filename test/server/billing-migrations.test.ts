@@ -4,20 +4,22 @@
  * and card payments stored before `payment_method` existed become `card`.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createDb, migrate, type Db } from '../../server/db/knex';
+import type { Db } from '../../server/db/knex';
+import { openTestDb, type TestDb } from '../support/test-db';
 import { seed } from '../../seeds/demo-scenario';
 
 const RENAME = '20261204140000_rename_invoice_states.ts';
 const PAYMENTS = '20261204140100_add_invoice_payment_records.ts';
 
 let db: Db;
+let testDb: TestDb;
 beforeAll(async () => {
-  db = createDb(':memory:');
-  await migrate(db);
+  testDb = await openTestDb();
+  db = testDb.db;
   await seed(db);
 });
 afterAll(async () => {
-  await db.destroy();
+  await testDb.close();
 });
 
 const columns = async () => Object.keys(await db('invoices').columnInfo());

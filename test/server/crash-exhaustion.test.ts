@@ -5,10 +5,9 @@
  * brings it to `ready` with every frame, as counted by ffprobe -count_frames (outside reference).
  */
 import path from 'node:path';
-import { createDb } from '../../server/db/knex';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Client } from '../support/test-app';
-import { freePort, seededDir, serverProcess, type ServerProcess } from '../support/server-process';
+import { folderDb, freePort, seededDir, serverProcess, type ServerProcess } from '../support/server-process';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { ffprobeCounted, makeClip } from './media/fixtures';
 
@@ -54,7 +53,7 @@ async function waitFor(
 /** Polls the processed item until attempt `n` of the clip's extraction is running. */
 async function waitForAttempt(n: number, ms = 60_000): Promise<void> {
   const t0 = Date.now();
-  const db = createDb(path.join(dir, 'db.sqlite'));
+  const db = folderDb(dir);
   try {
     for (;;) {
       const row = (await db('processed_items').where({ kind: 'extract_frames' }).orderBy('id', 'desc').first()) as

@@ -8,6 +8,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import pino from 'pino';
 import { makeTestApp, signedIn, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { onPostgres } from '../support/test-db';
 
 const [owner, coach] = DEMO_SIGN_INS;
 const INTERNAL = { error: { code: 'internal', message: 'Something went wrong on our side. Please try again.' } };
@@ -50,13 +51,14 @@ describe('an internal error', () => {
   });
 
   it('from a failed query: 500 without the database’s words (no SQL, no table names)', async () => {
-    await t.db.schema.dropTable('prices');
+    if (onPostgres) await t.db.raw('DROP TABLE prices CASCADE');
+    else await t.db.schema.dropTable('prices');
     const c = await signedIn(t.app, owner.email, owner.password);
     const res = await c.get('/api/prices');
     expect(res.status).toBe(500);
     expect(res.body).toEqual(INTERNAL);
     expectNothingOfTheError(res.text, 'no such table: prices');
     expect(res.text).not.toMatch(/sqlite|select|prices/i);
-    expect(logs.some((l) => l.msg === 'unhandled error' && /no such table/.test(l.err?.message ?? ''))).toBe(true);
+    expect(logs.some((l) => l.msg === 'unhandled error' && /no such table|does not exist/.test(l.err?.message ?? ''))).toBe(true);
   });
 });

@@ -3,19 +3,21 @@
  * existed read as placed; going down drops the column and keeps the events.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createDb, migrate, type Db } from '../../server/db/knex';
+import type { Db } from '../../server/db/knex';
+import { openTestDb, type TestDb } from '../support/test-db';
 import { seed } from '../../seeds/demo-scenario';
 
 const ORIGIN = '20261204145000_add_origin_to_gait_events.ts';
 
 let db: Db;
+let testDb: TestDb;
 beforeAll(async () => {
-  db = createDb(':memory:');
-  await migrate(db);
+  testDb = await openTestDb();
+  db = testDb.db;
   await seed(db);
 });
 afterAll(async () => {
-  await db.destroy();
+  await testDb.close();
 });
 
 describe('gait_events.origin (migration)', () => {

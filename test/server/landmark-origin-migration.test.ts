@@ -4,19 +4,22 @@
  * again gives the old words back.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createDb, migrate, type Db } from '../../server/db/knex';
+import type { Db } from '../../server/db/knex';
+import { onPostgres, openTestDb, type TestDb } from '../support/test-db';
 
 const ORIGIN = '20261204130000_add_origin_and_confidence_to_clip_landmarks.ts';
 
 let db: Db;
+let testDb: TestDb;
 beforeAll(async () => {
-  db = createDb(':memory:');
-  await migrate(db);
+  testDb = await openTestDb();
+  db = testDb.db;
   // Rows of a clip that does not exist are fine here: this test is about the column only.
-  await db.raw('PRAGMA foreign_keys = OFF');
+  if (onPostgres) await db.schema.alterTable('clip_landmarks', (t) => t.dropForeign(['clip_id']));
+  else await db.raw('PRAGMA foreign_keys = OFF');
 });
 afterAll(async () => {
-  await db.destroy();
+  await testDb.close();
 });
 
 describe('clip_landmarks origin and confidence (migration)', () => {

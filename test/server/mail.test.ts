@@ -1,12 +1,14 @@
 import http from 'node:http';
 import { afterEach, describe, expect, it } from 'vitest';
-import { createDb, migrate, type Db } from '../../server/db/knex';
+import type { Db } from '../../server/db/knex';
+import { openTestDb, type TestDb } from '../support/test-db';
 import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp';
 import { createSmtpMailer } from '../../server/mail/mailer';
 import { startDemoInbox, type DemoInbox } from '../../server/mail/demo-inbox';
 import { loadConfig } from '../../server/config';
 
 let db: Db | undefined;
+let testDb: TestDb | undefined;
 let smtp: FakeSmtp | undefined;
 let inbox: DemoInbox | undefined;
 
@@ -14,7 +16,7 @@ afterEach(async () => {
   await inbox?.close();
   inbox = undefined;
   await smtp?.close();
-  await db?.destroy();
+  await testDb?.close();
 });
 
 /** A GET to the inbox with a chosen Host header (fetch would not let us set it). */
@@ -33,8 +35,8 @@ function getWithHost(url: string, host: string, method = 'GET'): Promise<{ statu
 
 describe('the demo inbox (outside the app, 127.0.0.1 only)', () => {
   async function withMail(): Promise<DemoInbox> {
-    db = createDb(':memory:');
-    await migrate(db);
+    testDb = await openTestDb();
+    db = testDb.db;
     smtp = await startFakeSmtp(db, 0);
     const mailer = createSmtpMailer({
       from: 'Trailframe <no-reply@trailframe.test>',
@@ -101,8 +103,8 @@ describe('the demo inbox (outside the app, 127.0.0.1 only)', () => {
 
 describe('mail through nodemailer to the fake SMTP receiver', () => {
   it('stores a sent message, readable at once after sendMail resolves', async () => {
-    db = createDb(':memory:');
-    await migrate(db);
+    testDb = await openTestDb();
+    db = testDb.db;
     smtp = await startFakeSmtp(db, 0);
     const mailer = createSmtpMailer({
       from: 'Trailframe <no-reply@trailframe.test>',

@@ -8,6 +8,7 @@ import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { Client, makeTestApp, OTHER, signedIn, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { jsonTextEquals } from '../../server/db/dialect';
 
 const [owner, tobin, ilse] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -39,7 +40,7 @@ describe('deactivating a coach', () => {
     expect(res.body).toMatchObject({ id: ids[tobin.email], active: false, athleteCount: 0, deactivatedAt: expect.any(String) });
 
     // Signed out at once: no session row is left, the open browser is signed out.
-    expect(await t.db('sessions').whereRaw(`json_extract(sess, '$.passport.user') = ?`, [ids[tobin.email]])).toHaveLength(0);
+    expect(await t.db('sessions').where(jsonTextEquals(t.db, 'sess', ['passport', 'user'], ids[tobin.email]!))).toHaveLength(0);
     expect((await c.get('/api/athletes')).status).toBe(401);
     // The right password gets a clear answer; a wrong one the usual one (nothing leaks without the password).
     const refused = await new Client(t.app).post('/api/auth/sign-in', { email: tobin.email, password: tobin.password });

@@ -9,12 +9,21 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createDb, type Db } from '../../server/db/knex';
+import type { Db } from '../../server/db/knex';
 import { Client } from '../support/test-app';
 import { followProcessingEvents } from '../support/event-stream';
-import { freePort, seededDir, serverProcess, workerProcess, type ServerProcess, type WorkerProcess } from '../support/server-process';
+import {
+  folderDb,
+  freePort,
+  seededDir,
+  serverProcess,
+  workerProcess,
+  type ServerProcess,
+  type WorkerProcess,
+} from '../support/server-process';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { ffprobeCounted, makeClip } from './media/fixtures';
+import { killMidExtraction, uploadClips, waitClipsReady, type ItemRow } from '../support/processes-flow';
 
 const [, coach] = DEMO_SIGN_INS;
 let dir: string;
@@ -22,8 +31,6 @@ let cleanup: () => Promise<void>;
 let server: ServerProcess;
 let workers: WorkerProcess[] = [];
 let db: Db;
-
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 beforeAll(async () => {
   ({ dir, cleanup } = await seededDir('workers-apart'));
@@ -39,15 +46,6 @@ afterAll(async () => {
   await cleanup?.();
 });
 
-interface ItemRow {
-  id: number;
-  subject_id: number;
-  state: string;
-  attempts: number;
-  claimed_by: string | null;
-  progress_done: number | null;
-}
-
 describe('one web server and two worker processes', () => {
   it('every clip ends ready with every frame after a worker is killed mid-extraction', async () => {
     const files = await Promise.all(
@@ -55,56 +53,20 @@ describe('one web server and two worker processes', () => {
     );
     await server.start();
     await Promise.all(workers.map((w) => w.start()));
-    db = createDb(path.join(dir, 'db.sqlite'));
+    db = folderDb(dir);
     const c = new Client(server.url);
     await c.signIn(coach.email, coach.password);
     const athletes = (await c.get('/api/athletes')).body.athletes as { id: number; lastName: string }[];
     const ada = athletes.find((a) => a.lastName === 'Kestrel')!;
     const stream = await followProcessingEvents(`${server.url}/api/athletes/${ada.id}/processing-events`, c.cookieHeader());
-    const assessment = await c.post(`/api/athletes/${ada.id}/assessments`, {
-      date: '2026-11-30',
-      kind: 'baseline',
-      surface: 'treadmill',
-      speed: null,
-      inclinePercent: null,
-      shoes: null,
-      cameraNotes: null,
-      notes: null,
-    });
-    const clipIds: number[] = [];
-    for (const file of files) {
-      const up = await c.agent
-        .post(`/api/assessments/${assessment.body.id}/clips`)
-        .set('X-XSRF-TOKEN', await c.xsrf())
-        .attach('file', file);
-      expect(up.status, JSON.stringify(up.body)).toBe(201);
-      clipIds.push(up.body.id as number);
-    }
+    const clipIds = await uploadClips(c, ada.id, files);
 
     // Kill the first worker once it has written frames of a clip.
     const victim = workers[0]!;
     const tag = `:${victim.pid}:`;
-    const t0 = Date.now();
-    let killed: ItemRow | undefined;
-    while (!killed) {
-      const rows = (await db('processed_items').where({ kind: 'extract_frames', state: 'running' })) as ItemRow[];
-      killed = rows.find((r) => r.claimed_by?.includes(tag) && (r.progress_done ?? 0) > 0);
-      if (Date.now() - t0 > 120_000) throw new Error('the first worker never got to extract frames');
-      if (!killed) await sleep(50);
-    }
-    victim.killHard();
+    const killed = await killMidExtraction(db, victim);
 
-    const ready = new Map<number, { status: string; frameCount: number }>();
-    const t1 = Date.now();
-    while (ready.size < clipIds.length) {
-      for (const id of clipIds) {
-        const clip = (await c.get(`/api/clips/${id}`)).body;
-        if (clip.status === 'failed') throw new Error(`clip ${id} failed: ${clip.error}`);
-        if (clip.status === 'ready') ready.set(id, clip);
-      }
-      if (Date.now() - t1 > 240_000) throw new Error(`only ${ready.size} of ${clipIds.length} clips got ready`);
-      await sleep(250);
-    }
+    const ready = await waitClipsReady(c, clipIds);
     for (const [i, id] of clipIds.entries()) {
       const ref = await ffprobeCounted(files[i]!);
       expect(ready.get(id)!.frameCount).toBe(ref.nbReadFrames);

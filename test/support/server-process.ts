@@ -6,18 +6,39 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import net from 'node:net';
 import path from 'node:path';
-import { createDb, migrate } from '../../server/db/knex';
+import { createDb, type Db } from '../../server/db/knex';
 import { seed } from '../../seeds/demo-scenario';
 import { tempDir } from '../server/media/fixtures';
+import { dropFolderDatabase, folderDatabase, openTestDb, rememberDatabase } from './test-db';
 
-/** A temp folder with a migrated database holding the demo scenario (`db.sqlite`). */
+/**
+ * A temp folder with a migrated database holding the demo scenario (`db.sqlite`, or on PostgreSQL
+ * a database of its own that the folder names; see `test-db.ts`), for server and worker processes.
+ */
 export async function seededDir(prefix: string): Promise<{ dir: string; cleanup: () => Promise<void> }> {
   const folder = await tempDir(prefix);
-  const db = createDb(path.join(folder.dir, 'db.sqlite'));
-  await migrate(db);
+  const { db, target } = await openTestDb({ file: path.join(folder.dir, 'db.sqlite') });
   await seed(db);
   await db.destroy();
-  return folder;
+  rememberDatabase(folder.dir, target);
+  return {
+    dir: folder.dir,
+    async cleanup() {
+      await dropFolderDatabase(folder.dir);
+      await folder.cleanup();
+    },
+  };
+}
+
+/** Opens the database of a {@link seededDir} folder (as its processes see it). */
+export function folderDb(dir: string): Db {
+  return createDb(folderDatabase(dir));
+}
+
+/** The environment that points a process at the folder's database. */
+function databaseEnv(dir: string): Record<string, string> {
+  const target = folderDatabase(dir);
+  return target.startsWith('postgres') ? { DATABASE_URL: target } : { DATABASE_URL: '', DB_FILE: target };
 }
 
 export function freePort(): Promise<number> {
@@ -49,11 +70,12 @@ export function serverProcess(dir: string, port: number, env: Record<string, str
         env: {
           ...process.env,
           PORT: String(port),
-          DB_FILE: path.join(dir, 'db.sqlite'),
+          ...databaseEnv(dir),
           UPLOADS_DIR: path.join(dir, 'uploads'),
           CLIENT_DIR: '',
           FAKE_SMTP_PORT: '0',
           DEMO_INBOX_PORT: '0',
+          FAKE_PAYMENTS_PORT: '0',
           LOG_LEVEL: 'warn',
           JOB_LEASE_SECONDS: '2',
           ...env,
@@ -65,7 +87,7 @@ export function serverProcess(dir: string, port: number, env: Record<string, str
           .then((r) => r.ok)
           .catch(() => false);
         if (ok) return;
-        if (Date.now() - started > 30_000) throw new Error('server did not start');
+        if (Date.now() - started > 60_000) throw new Error('server did not start');
         await new Promise((r) => setTimeout(r, 200));
       }
     },
@@ -104,7 +126,7 @@ export function workerProcess(dir: string, env: Record<string, string> = {}): Wo
         stdio: ['ignore', 'pipe', 'ignore'],
         env: {
           ...process.env,
-          DB_FILE: path.join(dir, 'db.sqlite'),
+          ...databaseEnv(dir),
           UPLOADS_DIR: path.join(dir, 'uploads'),
           LOG_LEVEL: 'warn',
           JOB_LEASE_SECONDS: '2',
@@ -114,7 +136,7 @@ export function workerProcess(dir: string, env: Record<string, string> = {}): Wo
       });
       const started = child;
       return new Promise((resolve, reject) => {
-        const timer = setTimeout(() => reject(new Error('worker did not start')), 30_000);
+        const timer = setTimeout(() => reject(new Error('worker did not start')), 60_000);
         let out = '';
         started.stdout!.on('data', (chunk: Buffer) => {
           out += chunk.toString();

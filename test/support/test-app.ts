@@ -7,7 +7,8 @@ import type { Express } from 'express';
 import pino, { type Logger } from 'pino';
 import { createApp } from '../../server/app';
 import { loadConfig, type Config } from '../../server/config';
-import { createDb, migrate, type Db } from '../../server/db/knex';
+import type { Db } from '../../server/db/knex';
+import { openTestDb } from './test-db';
 import { createSmtpMailer, type Mailer, type MailMessage } from '../../server/mail/mailer';
 import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp';
 import { hashPassword } from '../../server/auth/passwords';
@@ -103,7 +104,7 @@ export interface TestAppOptions {
   store?: MediaStore;
 }
 
-/** A fresh app on an in-memory database with the demo scenario and a second clinic. */
+/** A fresh app on a database of its own (SQLite in memory, or PostgreSQL: see `test-db.ts`) with the demo scenario and a second clinic. */
 export async function makeTestApp(overrides: Partial<Config> = {}, options: TestAppOptions = {}): Promise<TestApp> {
   const base = loadConfig({ DEMO_MODE: 'true', LOG_LEVEL: 'silent', CLIENT_DIR: '' } as NodeJS.ProcessEnv);
   const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'trailframe-test-'));
@@ -114,8 +115,9 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
     fakePayments = await startFakePayments({ port: 0, secretKey: config.payments.secretKey, webhookSecret: config.payments.webhookSecret });
     config = { ...config, payments: { ...config.payments, apiHost: '127.0.0.1', apiPort: fakePayments.port, apiProtocol: 'http' } };
   }
-  const db = createDb(dbFile);
-  await migrate(db);
+  const testDb = await openTestDb({ file: dbFile });
+  const db = testDb.db;
+  config = { ...config, databaseUrl: testDb.target.startsWith('postgres') ? testDb.target : null };
   await seed(db);
   await addOtherClinic(db);
   const mailer = new MemoryMailer();
@@ -166,7 +168,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
       await close();
       mailer.close();
       await fakeSmtp?.close();
-      await db.destroy();
+      await testDb.close();
       fs.rmSync(uploadsDir, { recursive: true, force: true });
     },
   };
