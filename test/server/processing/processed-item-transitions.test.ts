@@ -458,7 +458,7 @@ describe('a lost lease', () => {
 });
 
 describe('notices', () => {
-  it('carry progress only while running and the error only when failed; none for a row without an athlete', async () => {
+  it("carry progress only while running and the error only when failed; a row without an athlete goes to its clinic's staff, one without a clinic nowhere", async () => {
     const p = processOf(fresh());
     const base = {
       id: 1,
@@ -489,7 +489,7 @@ describe('notices', () => {
     expect(p.noticeOf({ ...base, state: 'queued' })?.event).toMatchObject({ progress: null, error: null });
     expect(p.noticeOf({ ...base, state: 'failed' })?.event).toMatchObject({ progress: null, error: 'old reason' });
     expect(p.noticeOf({ ...base, state: 'running', kind: 'unknown' })?.athleteSees).toBe(false);
-    expect(p.noticeOf({ ...base, state: 'running', athlete_id: null })).toBeNull();
+    expect(p.noticeOf({ ...base, state: 'running', athlete_id: null })).toMatchObject({ athleteId: null, clinicId: 3 });
     expect(p.noticeOf({ ...base, state: 'running', clinic_id: null })).toBeNull();
   });
 });
@@ -512,7 +512,7 @@ describe('reading and listening', () => {
     expect(rec.notices.at(-1)?.athleteId).toBe(8);
   });
 
-  it('an item with no athlete publishes nothing on any move', async () => {
+  it("an item with no athlete (the clinic's own) is published to the clinic on every move, never to an athlete", async () => {
     const rec = fresh();
     const p = processOf(rec);
     const id = await p.enqueue(db, 'test_render', 120, SCOPE);
@@ -521,9 +521,13 @@ describe('reading and listening', () => {
     const before = rec.notices.length;
     const item = (await p.queue.claim())!;
     await p.queue.progress(item, 1, 2);
+    expect((await p.unfinishedForClinic(3)).map((n) => n.event.id)).toEqual([120]);
     await p.cancel('thing', 120);
-    expect(rec.notices.length).toBe(before);
+    const after = rec.notices.slice(before);
+    expect(after.map((n) => n.event.state)).toEqual(['running', 'running', 'cancelled']);
+    expect(after.every((n) => n.athleteId === null && n.clinicId === 3)).toBe(true);
     expect(await p.unfinishedFor(7)).toEqual([]);
+    expect(await p.unfinishedForClinic(3)).toEqual([]);
   });
 
   it('listeners stop hearing once they unsubscribe', async () => {
