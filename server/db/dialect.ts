@@ -34,6 +34,12 @@ export function isPostgres(db: Knex): boolean {
   return dialectOf(db) === 'postgres';
 }
 
+/** The rows of a raw SELECT on either engine (SQLite's client answers the rows, PostgreSQL's a result holding them). */
+export async function selectRows<T>(db: Knex, sql: string, bindings: readonly Knex.RawBinding[] = []): Promise<T[]> {
+  const result = (await db.raw(sql, bindings)) as T[] | { rows: T[] };
+  return Array.isArray(result) ? result : result.rows;
+}
+
 const INT8 = 20;
 const NUMERIC = 1700;
 const JSON_OID = 114;

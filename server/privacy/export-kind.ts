@@ -1,4 +1,5 @@
 import { once } from 'node:events';
+import { selectRows } from '../db/dialect';
 import type { Readable } from 'node:stream';
 import archiver from 'archiver';
 import type { Db } from '../db/knex';
@@ -23,7 +24,7 @@ export async function athleteRows(db: Db, athleteId: number): Promise<Record<str
   const out: Record<string, Record<string, unknown>[]> = {};
   for (const name of ATHLETE_TABLE_NAMES) {
     const t = ATHLETE_TABLES[name];
-    const rows = (await db.raw(`SELECT * FROM ${name} WHERE ${t.where}`, [athleteId])) as Record<string, unknown>[];
+    const rows = await selectRows<Record<string, unknown>>(db, `SELECT * FROM ${name} WHERE ${t.where}`, [athleteId]);
     const omit: readonly string[] = 'omit' in t ? t.omit : [];
     out[name] = rows.map((r) => Object.fromEntries(Object.entries(r).filter(([k]) => !omit.includes(k))));
   }

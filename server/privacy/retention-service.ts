@@ -1,4 +1,5 @@
 import type { SessionUser } from '../../src/contracts/api';
+import { selectRows } from '../db/dialect';
 import type { RetentionItem, RetentionReview, RetentionSettings } from '../../src/contracts/privacy';
 import { audit } from '../audit/audit-log';
 import type { ClipsService } from '../clips/clips-service';
@@ -68,7 +69,7 @@ export function retentionService(d: { db: Db; clips: ClipsService; clock: () => 
 
   /** The clips due for removal now. */
   async function due(clinicId: number, months: number): Promise<RetentionItem[]> {
-    const rows = (await db.raw(CANDIDATES_SQL, [clinicId])) as CandidateRow[];
+    const rows = await selectRows<CandidateRow>(db, CANDIDATES_SQL, [clinicId]);
     const now = clock();
     const out: RetentionItem[] = [];
     for (const r of rows) {
