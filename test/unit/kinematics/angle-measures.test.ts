@@ -8,6 +8,9 @@
 import { describe, expect, it } from 'vitest';
 import type { FrameLandmarks } from '../../../src/contracts/annotations';
 import { computeClipMeasures } from '../../../src/kinematics';
+import { angleMeasures } from '../../../src/kinematics/angle-measures';
+import { buildGaitCycles, makeFrameClock } from '../../../src/kinematics/events';
+import { FrameStore } from '../../../src/kinematics/frame-angles';
 import { clipInput, deg, IC_POSE, landmarksAt, measureOf, SCALE_1M_400PX, TO_POSE, timingExampleEvents, type MetrePose } from './helpers';
 
 const THIGH_NOTE =
@@ -131,6 +134,16 @@ describe('the trunk from the other side (fallback)', () => {
       derivation: `${trunkText('right', 2)} The left side's shoulder and hip stood in where this side's were not marked.`,
     });
     expect(lean.mean).toBeCloseTo(trunk, 9);
+    // Only the first right toe-off borrows the trunk: still said.
+    const once = computeClipMeasures(
+      worked(
+        (f, s, k) => (s === 'right' && f === 60 ? toNoShoulder : k === 'initial_contact' ? IC_POSE : (TO_POSE as MetrePose)),
+        extra.slice(0, 1),
+      ),
+    );
+    expect(measureOf(once, 'hip_extension_toe_off_rel_trunk', 'right').derivation).toBe(
+      `${HIP_REL} The trunk came from the left side's shoulder and hip where this side's were not marked.`,
+    );
     // The left side has its own trunk: no fallback sentence.
     expect(measureOf(r, 'hip_extension_toe_off_rel_trunk', 'left').derivation).toBe(HIP_REL);
     expect(measureOf(r, 'trunk_lean', 'left').derivation).toBe(trunkText('left', 4));
@@ -281,9 +294,46 @@ describe('[calc] peak knee flexion over stance', () => {
     expect(one.missing).toBe(
       'Hip, knee and ankle are not marked densely enough through any right stance (need at least every 10 % of stance, 1 stance checked).',
     );
+    // One stance marked at its events only, the other not at all: still "not densely enough".
+    const half = dense(2, 30, 0);
+    half.annotations.landmarks = half.annotations.landmarks.filter((l) => l.frame < 168);
+    expect(measureOf(computeClipMeasures(half), 'knee_flexion_peak_stance', 'right').missing).toBe(
+      'Hip, knee and ankle are not marked densely enough through any right stance (need at least every 10 % of stance, 2 stances checked).',
+    );
     // The left side has stances but no marks at all.
     expect(measureOf(computeClipMeasures(dense(2, 5)), 'knee_flexion_peak_stance', 'left').missing).toBe(
       'Hip, knee and ankle not marked on any frame of a left stance.',
+    );
+  });
+});
+
+describe('angleMeasures itself', () => {
+  it('returns the eight angle measures of the side, measures only, in their order', () => {
+    const c = worked();
+    const events = c.annotations.events;
+    const out = angleMeasures(
+      {
+        input: c,
+        clock: makeFrameClock(240),
+        mPerPx: 0.0025,
+        cycles: buildGaitCycles(events),
+        events,
+        store: new FrameStore(c.annotations.landmarks, { frameSize: c.frameSize, direction: c.direction }),
+        timingNote: '',
+      },
+      'left',
+    );
+    expect(out.map((m) => `${m.key} ${m.side}`)).toEqual(
+      [
+        'hip_extension_toe_off',
+        'hip_extension_toe_off_rel_trunk',
+        'knee_flexion_initial_contact',
+        'knee_flexion_peak_stance',
+        'shank_angle_initial_contact',
+        'foot_angle_initial_contact',
+        'trunk_lean',
+        'heel_ahead_of_hip_initial_contact',
+      ].map((k) => `${k} left`),
     );
   });
 });

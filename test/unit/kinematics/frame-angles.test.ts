@@ -41,6 +41,7 @@ describe('FrameStore: which landmark entries count', () => {
     expect(store.frames).toEqual([0, 3, 7]);
     expect(store.lastFrame).toBe(7);
     expect(store.angles(0, 'left')).toBeUndefined();
+    expect(new FrameStore([landmarksAt(0, 'left', IC_POSE, 'left_to_right')], PLANE).angles(0, 'right')).toBeUndefined();
     expect(store.angles(0, 'right')?.thighDeg).toBeCloseTo(thighOf(IC_POSE), 9);
   });
 
