@@ -219,4 +219,14 @@ describe('angle helpers at their edges', () => {
     expect(heelAheadOfHip({ hip: { x: 0, y: 0.9 } } as never)).toBeUndefined();
     expect(heelAheadOfHip({ heel: { x: 0.26, y: 0.05 }, hip: { x: 0, y: 0.9 } } as never)).toBeCloseTo(0.26, 12);
   });
+
+  it('a NaN coordinate handed to poseAngles gives no angle and no flag (never a NaN value)', () => {
+    const knee = { x: 0.2, y: 0.5 };
+    const ankle = { x: 0.3, y: 0.1 };
+    const out = poseAngles({ knee, ankle, heel: { x: Number.NaN, y: 0.05 }, toe: { x: 0.45, y: 0.1 } } as never);
+    expect(Object.keys(out)).toEqual(['shankDeg']);
+    const fallback = poseAngles({} as never, { hip: { x: Number.NaN, y: 0.9 }, shoulder: { x: 0.1, y: 1.4 } } as never);
+    expect(fallback).toEqual({});
+    expect('trunkFromFallback' in fallback).toBe(false);
+  });
 });
