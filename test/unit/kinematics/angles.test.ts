@@ -7,6 +7,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { FrameLandmarks, LandmarkName } from '../../../src/contracts/annotations';
 import { frameAngles, heelAheadOfHip, metresPerPixel, poseAngles, sidePosePx, type PoseAngles } from '../../../src/kinematics';
+import { hipExtensionDeg, wrapDeg } from '../../../src/kinematics/angles';
 import { deg, H, IC_POSE, landmarksAt, SCALE_1M_400PX, TO_POSE, W } from './helpers';
 
 const size = { width: W, height: H };
@@ -194,5 +195,38 @@ describe('fast-check properties of the angles', () => {
         expect(sameAngle(wrong.thighDeg!, -a.thighDeg!)).toBe(true);
       }),
     );
+  });
+});
+
+describe('angle helpers at their edges', () => {
+  it('wrapDeg keeps (−180°, 180°]: 180° and −180° both read 180°, 190° reads −170°, −190° reads 170°', () => {
+    expect(wrapDeg(180)).toBe(180);
+    expect(wrapDeg(-180)).toBe(180);
+    expect(wrapDeg(190)).toBe(-170);
+    expect(wrapDeg(-190)).toBe(170);
+    expect(wrapDeg(12.5)).toBe(12.5);
+  });
+
+  it('hip extension reads −thigh: thigh −22.521° at toe-off → 22.521° of extension (REFERENCES.md worked example)', () => {
+    expect(hipExtensionDeg(-22.521)).toBe(22.521);
+    expect(hipExtensionDeg(5)).toBe(-5);
+  });
+
+  it('[calc] a flat foot (heel and toe at the same height) reads 0°; heel ahead of hip needs both points', () => {
+    const flat = poseAngles({ heel: { x: 0.26, y: 0.05 }, toe: { x: 0.45, y: 0.05 } } as never);
+    expect(flat.footDeg).toBe(deg(Math.atan2(0, 0.19)));
+    expect(heelAheadOfHip({ heel: { x: 0.26, y: 0.05 } } as never)).toBeUndefined();
+    expect(heelAheadOfHip({ hip: { x: 0, y: 0.9 } } as never)).toBeUndefined();
+    expect(heelAheadOfHip({ heel: { x: 0.26, y: 0.05 }, hip: { x: 0, y: 0.9 } } as never)).toBeCloseTo(0.26, 12);
+  });
+
+  it('a NaN coordinate handed to poseAngles gives no angle and no flag (never a NaN value)', () => {
+    const knee = { x: 0.2, y: 0.5 };
+    const ankle = { x: 0.3, y: 0.1 };
+    const out = poseAngles({ knee, ankle, heel: { x: Number.NaN, y: 0.05 }, toe: { x: 0.45, y: 0.1 } } as never);
+    expect(Object.keys(out)).toEqual(['shankDeg']);
+    const fallback = poseAngles({} as never, { hip: { x: Number.NaN, y: 0.9 }, shoulder: { x: 0.1, y: 1.4 } } as never);
+    expect(fallback).toEqual({});
+    expect('trunkFromFallback' in fallback).toBe(false);
   });
 });

@@ -122,4 +122,11 @@ describe('spring-mass vertical oscillation (Morin et al. 2005 method [pub]; form
     expect(springMassVerticalOscillation(0, 0.1)).toBeNull();
     expect(springMassVerticalOscillation(0.25, -0.01)).toBeNull();
   });
+  it('[calc] no flight (tf 0 s, walking-like contact) still gives an estimate: Fmax π/2 BW, drop g·tc²·(1/(2π) − 1/8) = 2.09 cm', () => {
+    const e = springMassVerticalOscillation(0.25, 0)!;
+    expect(e.peakForceBw).toBeCloseTo(Math.PI / 2, 9);
+    expect(e.flightRiseM).toBe(0);
+    // Independent recomputation with g = 9.81: 9.81 × 0.0625 × (0.159155 − 0.125) = 0.020941 m.
+    expect(e.totalM * 100).toBeCloseTo(9.81 * 0.0625 * (1 / (2 * Math.PI) - 1 / 8) * 100, 2);
+  });
 });

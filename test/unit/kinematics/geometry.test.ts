@@ -10,9 +10,12 @@ import {
   frameQuantisationMs,
   metresPerPixel,
   outOfPlaneFactor,
+  pixelToSagittal,
   planeDistance,
   planePxToFrame,
+  planeScale,
   pxToMetres,
+  scaleBarPixelLength,
   toPlaneMetres,
   toPlanePx,
   toSagittal,
@@ -102,5 +105,27 @@ describe('error figures', () => {
     expect(frameQuantisationMs(60)).toBeCloseTo(16.7, 1);
     expect(frameQuantisationMs(120)).toBeCloseTo(8.3, 1);
     expect(frameQuantisationMs(240)).toBeCloseTo(4.2, 1);
+  });
+});
+
+describe('facing words, pixel aspect and mirrored pixels', () => {
+  it('left_to_right faces right, right_to_left faces left; a left-facing point has x mirrored, a right-facing one not', () => {
+    expect(facingOf('left_to_right')).toBe('right');
+    expect(facingOf('right_to_left')).toBe('left');
+    // 0.5 × 1280 = 640 px across, 0.5 × 720 = 360 px down → y up: −360.
+    expect(toSagittal({ x: 0.5, y: 0.5 }, { width: 1280, height: 720 }, 'right')).toEqual({ x: 640, y: -360 });
+    expect(toSagittal({ x: 0.5, y: 0.5 }, { width: 1280, height: 720 }, 'left')).toEqual({ x: -640, y: -360 });
+    expect(pixelToSagittal({ x: 10, y: 20 }, 'right')).toEqual({ x: 10, y: -20 });
+    expect(pixelToSagittal({ x: 10, y: 20 }, 'left')).toEqual({ x: -10, y: -20 });
+  });
+
+  it('[calc] pixels twice as wide as tall: x counts double in plane pixels and in the scale bar length', () => {
+    const frame = { frameSize: { width: 640, height: 720 }, direction: 'left_to_right' as const, pixelAspect: 2 };
+    // Fraction → plane pixels: x × 640 × 2 = 1280 (left to right), y × −720 (y up).
+    expect(planeScale(frame)).toEqual({ x: 1280, y: -720 });
+    // A horizontal bar over a quarter of the width: 0.25 × 640 × 2 = 320 px; 1 m over 320 px = 3.125 mm/px.
+    const bar = { frame: 0, a: { x: 0.25, y: 0.9 }, b: { x: 0.5, y: 0.9 }, lengthM: 1 };
+    expect(scaleBarPixelLength(bar, frame.frameSize, 2)).toBeCloseTo(160 * 2, 9);
+    expect(metresPerPixel(bar, frame.frameSize, 2)).toBeCloseTo(1 / 320, 12);
   });
 });

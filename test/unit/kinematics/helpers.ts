@@ -5,6 +5,8 @@
  */
 import type { FrameLandmarks, FramePoint, GaitEventKind, GaitEventMark, LandmarkName, ScaleBar } from '../../../src/contracts/annotations';
 import type { Direction, Side } from '../../../src/contracts/assessment';
+import type { ClipMeasures, Measure, MeasureKey } from '../../../src/contracts/measures';
+import { DEFAULT_REFERENCE_BANDS, type ClipMeasureInput } from '../../../src/kinematics';
 
 export const W = 1280;
 export const H = 720;
@@ -73,3 +75,31 @@ export const TO_POSE = {
 
 /** Degrees from radians (independent of the module under test). */
 export const deg = (r: number) => (r * 180) / Math.PI;
+
+/**
+ * A computeClipMeasures input at 240 fps on a 1280×720 frame, left to right, treadmill at 3.0 m/s
+ * with the default bands and no scale bar unless overridden.
+ */
+export function clipInput(
+  over: Partial<ClipMeasureInput> & { events?: GaitEventMark[]; landmarks?: FrameLandmarks[]; scale?: ScaleBar | null } = {},
+): ClipMeasureInput {
+  const { events = [], landmarks = [], scale = null, ...rest } = over;
+  return {
+    clipId: 7,
+    annotations: { landmarks, events, scale },
+    frameSize: { width: W, height: H },
+    fps: 240,
+    direction: 'left_to_right',
+    surface: 'treadmill',
+    beltSpeedMps: 3.0,
+    bands: DEFAULT_REFERENCE_BANDS,
+    ...rest,
+  };
+}
+
+/** The one measure of a key and side (null: both-sides measures); throws when absent. */
+export function measureOf(r: ClipMeasures, key: MeasureKey, side: Side | null = null): Measure {
+  const m = r.measures.find((x) => x.key === key && x.side === side);
+  if (!m) throw new Error(`no ${key} ${side}`);
+  return m;
+}

@@ -4,40 +4,14 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import type { FrameLandmarks, GaitEventMark, LandmarkName, ScaleBar } from '../../../src/contracts/annotations';
+import type { FrameLandmarks, GaitEventMark, LandmarkName } from '../../../src/contracts/annotations';
 import type { Direction, Side } from '../../../src/contracts/assessment';
-import type { ClipMeasures, Measure, MeasureKey } from '../../../src/contracts/measures';
-import {
-  computeClipMeasures,
-  DEFAULT_REFERENCE_BANDS,
-  KINEMATICS_VERSION,
-  MEASURE_DEFINITIONS,
-  MEASURE_KEYS,
-  type ClipMeasureInput,
-} from '../../../src/kinematics';
-import { ev, H, IC_POSE, landmarksAt, SCALE_1M_400PX, TO_POSE, timingExampleEvents, W, type MetrePose } from './helpers';
+import type { MeasureKey } from '../../../src/contracts/measures';
+import { computeClipMeasures, KINEMATICS_VERSION, MEASURE_DEFINITIONS, MEASURE_KEYS } from '../../../src/kinematics';
+import { clipInput, ev, IC_POSE, landmarksAt, measureOf, SCALE_1M_400PX, TO_POSE, timingExampleEvents, type MetrePose } from './helpers';
 
-const input = (
-  over: Partial<ClipMeasureInput> & { events?: GaitEventMark[]; landmarks?: FrameLandmarks[]; scale?: ScaleBar | null } = {},
-): ClipMeasureInput => {
-  const { events = [], landmarks = [], scale = null, ...rest } = over;
-  return {
-    clipId: 7,
-    annotations: { landmarks, events, scale },
-    frameSize: { width: W, height: H },
-    fps: 240,
-    direction: 'left_to_right',
-    surface: 'treadmill',
-    beltSpeedMps: 3.0,
-    bands: DEFAULT_REFERENCE_BANDS,
-    ...rest,
-  };
-};
-const get = (r: ClipMeasures, key: MeasureKey, side: Side | null = null): Measure => {
-  const m = r.measures.find((x) => x.key === key && x.side === side);
-  if (!m) throw new Error(`no ${key} ${side}`);
-  return m;
-};
+const input = clipInput;
+const get = measureOf;
 
 describe('[calc] worked example, REFERENCES.md — timing at 240 fps, treadmill 3.0 m/s, end to end', () => {
   // Independent recomputation from the example's frame counts.

@@ -6,7 +6,9 @@ import { FakeEventSource, provideFakeEventSource } from '../../../core/fake-even
 import { anAnnotatedClip } from '../test-stills';
 import { SharedClips } from './shared-clips';
 
-const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+/** Lets `ms` pass: on the fake clock when the test installed it, else in real time. */
+const wait = (ms: number): Promise<unknown> =>
+  vi.isFakeTimers() ? vi.advanceTimersByTimeAsync(ms) : new Promise((r) => setTimeout(r, ms));
 
 describe('SharedClips', () => {
   let fixture: ComponentFixture<SharedClips>;
@@ -31,11 +33,14 @@ describe('SharedClips', () => {
     fixture.detectChanges();
   };
   afterEach(() => {
+    vi.useRealTimers();
     backend.verify();
     document.querySelector('.cdk-overlay-container')?.replaceChildren();
   });
 
   it('follows a render on the progress stream: its progress in place, the clip once ready, no polling', async () => {
+    // The fake clock from the start: a poll set up when the list opened would fire when the clock is moved below.
+    vi.useFakeTimers();
     const rendering = anAnnotatedClip({ status: 'rendering', progress: 0.2 });
     await open();
     backend.expectOne('/api/athletes/9/annotated-clips').flush({ clips: [rendering] });
@@ -67,8 +72,8 @@ describe('SharedClips', () => {
     expect(element.textContent).toContain('Hip drive');
     expect(element.querySelector('button[aria-label="Preview: Hip drive"]')).not.toBeNull();
 
-    // Nothing asks again by itself.
-    await wait(900);
+    // Nothing asks again by itself, however long the list stays open.
+    await vi.advanceTimersByTimeAsync(10 * 60_000);
     backend.expectNone('/api/athletes/9/annotated-clips');
   });
 

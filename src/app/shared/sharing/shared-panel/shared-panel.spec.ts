@@ -6,7 +6,9 @@ import { FakeEventSource, provideFakeEventSource } from '../../../core/fake-even
 import { aStill, aSummary } from '../test-stills';
 import { SharedPanel } from './shared-panel';
 
-const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+/** Lets `ms` pass: on the fake clock when the test installed it, else in real time. */
+const wait = (ms: number): Promise<unknown> =>
+  vi.isFakeTimers() ? vi.advanceTimersByTimeAsync(ms) : new Promise((r) => setTimeout(r, ms));
 
 describe('SharedPanel', () => {
   let fixture: ComponentFixture<SharedPanel>;
@@ -35,12 +37,15 @@ describe('SharedPanel', () => {
     fixture.detectChanges();
   };
   afterEach(() => {
+    vi.useRealTimers();
     flushClips();
     backend.verify();
     document.querySelector('.cdk-overlay-container')?.replaceChildren();
   });
 
   it('follows a render on the progress stream: its progress in place, the still once ready, no polling', async () => {
+    // The fake clock from the start: a poll set up when the list opened would fire when the clock is moved below.
+    vi.useFakeTimers();
     await open();
     backend.expectOne('/api/athletes/9/stills').flush([aStill({ status: 'rendering', progress: 0.4 })]);
     backend.expectOne('/api/athletes/9/summaries').flush({ summaries: [] });
@@ -68,8 +73,8 @@ describe('SharedPanel', () => {
     await settle();
     expect(element.querySelector('img')?.getAttribute('alt')).toBe('Hip at toe-off');
 
-    // Nothing asks again by itself.
-    await wait(900);
+    // Nothing asks again by itself, however long the list stays open.
+    await vi.advanceTimersByTimeAsync(10 * 60_000);
     backend.expectNone('/api/athletes/9/stills');
   });
 
