@@ -12,6 +12,12 @@ if (!dir) {
   process.exit(2);
 }
 const config = loadConfig();
+if (config.databaseUrl || config.s3) {
+  console.error(
+    `npm run restore copies a one-machine installation (SQLite file and media folder). With DATABASE_URL or S3_BUCKET set, use the engines' own tools: pg_dump / pg_restore for the database and the object store's replication or versioning for the bucket.`,
+  );
+  process.exit(2);
+}
 try {
   await restoreInstallation({
     dir: path.resolve(dir),

@@ -15,6 +15,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, signedIn, type Client, type TestApp } from '../support/test-app';
+import { onPostgres, titleSkippedWhen } from '../support/test-db';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { makeClip, tempDir } from './media/fixtures';
 import { createDb, type Db } from '../../server/db/knex';
@@ -108,133 +109,140 @@ afterAll(async () => {
   await work?.cleanup();
 });
 
-describe('backup while autosaves and an upload go on, restore into a fresh folder', () => {
-  const backupDir = () => path.join(work.dir, 'backup');
-  const target = () => ({ dbFile: path.join(work.dir, 'restored', 'db.sqlite'), uploadsDir: path.join(work.dir, 'restored', 'uploads') });
+describe.skipIf(onPostgres)(
+  titleSkippedWhen(
+    onPostgres,
+    'backup while autosaves and an upload go on, restore into a fresh folder',
+    'npm run backup copies a SQLite installation; a PostgreSQL database is backed up with pg_dump',
+  ),
+  () => {
+    const backupDir = () => path.join(work.dir, 'backup');
+    const target = () => ({ dbFile: path.join(work.dir, 'restored', 'db.sqlite'), uploadsDir: path.join(work.dir, 'restored', 'uploads') });
 
-  it('restores every row and every media file acknowledged before the backup began', async () => {
-    const clipB = path.join(work.dir, 'b.mp4');
-    await makeClip(clipB, { fps: 30, width: 160, height: 90, seconds: 1 });
-    // What was acknowledged before the backup began.
-    const ackedRows = await dump(t.db);
-    const ackedFiles = mediaChecksums(t.config.uploadsDir);
-    const ackedRevision = 3;
-    expect(ackedFiles.size).toBeGreaterThan(60); // clip A: original, manifest, 60 frames and thumbnails
+    it('restores every row and every media file acknowledged before the backup began', async () => {
+      const clipB = path.join(work.dir, 'b.mp4');
+      await makeClip(clipB, { fps: 30, width: 160, height: 90, seconds: 1 });
+      // What was acknowledged before the backup began.
+      const ackedRows = await dump(t.db);
+      const ackedFiles = mediaChecksums(t.config.uploadsDir);
+      const ackedRevision = 3;
+      expect(ackedFiles.size).toBeGreaterThan(60); // clip A: original, manifest, 60 frames and thumbnails
 
-    let backingUp = false;
-    let savesDuringBackup = 0;
-    let stop = false;
-    let revision = ackedRevision;
-    const load = (async () => {
-      while (!stop && revision < 59) {
-        const res = await c.put(`/api/clips/${clipA}/annotations`, saveOn(revision));
-        expect(res.status, JSON.stringify(res.body)).toBe(200);
-        revision = res.body.revision as number;
-        if (backingUp) savesDuringBackup++;
+      let backingUp = false;
+      let savesDuringBackup = 0;
+      let stop = false;
+      let revision = ackedRevision;
+      const load = (async () => {
+        while (!stop && revision < 59) {
+          const res = await c.put(`/api/clips/${clipA}/annotations`, saveOn(revision));
+          expect(res.status, JSON.stringify(res.body)).toBe(200);
+          revision = res.body.revision as number;
+          if (backingUp) savesDuringBackup++;
+        }
+      })();
+      const uploading = upload(clipB);
+      const lines: string[] = [];
+      backingUp = true;
+      const manifest = await backupInstallation({
+        dbFile: t.config.dbFile,
+        store: localMediaStore(t.config.uploadsDir),
+        dir: backupDir(),
+        pagesPerStep: 1,
+        progress: (l) => lines.push(l),
+      });
+      backingUp = false;
+      stop = true;
+      await load;
+      await uploading;
+      await t.worker!.idle();
+      expect(savesDuringBackup).toBeGreaterThan(0);
+      expect(lines.some((l) => l.startsWith('database: '))).toBe(true);
+      expect(lines.some((l) => l.startsWith(`media: ${manifest.media.length} of ${manifest.media.length} files (`))).toBe(true);
+      expect(fs.existsSync(path.join(backupDir(), MANIFEST_NAME))).toBe(true);
+
+      const restoreLines: string[] = [];
+      await restoreInstallation({ dir: backupDir(), ...target(), progress: (l) => restoreLines.push(l) });
+      expect(restoreLines).toContain('checking: every checksum matches');
+      expect(restoreLines.at(-1)).toMatch(/^restore complete/);
+
+      // Media: every acknowledged file, byte for byte (by checksum).
+      const restoredFiles = mediaChecksums(target().uploadsDir);
+      const lostOrChanged = [...ackedFiles].filter(([key, sum]) => restoredFiles.get(key) !== sum).map(([key]) => key);
+      expect(lostOrChanged).toEqual([]);
+
+      // Rows: every acknowledged row, unchanged, but for the rows the autosaves under way move on.
+      restoredDb = createDb(target().dbFile);
+      expect(await restoredDb.raw('pragma integrity_check')).toEqual([{ integrity_check: 'ok' }]);
+      const restoredRows = await dump(restoredDb);
+      const movedOn = (table: string, row: Record<string, unknown>) =>
+        (table === 'clips' && row['id'] === clipA) || (table === 'measure_snapshots' && row['clip_id'] === clipA);
+      const missing: string[] = [];
+      const moved: string[] = [];
+      for (const [table, rows] of ackedRows) {
+        const restored = new Set(restoredRows.get(table) ?? []);
+        for (const r of rows) {
+          if (restored.has(r)) continue;
+          (movedOn(table, JSON.parse(r) as Record<string, unknown>) ? moved : missing).push(`${table}: ${r}`);
+        }
       }
-    })();
-    const uploading = upload(clipB);
-    const lines: string[] = [];
-    backingUp = true;
-    const manifest = await backupInstallation({
-      dbFile: t.config.dbFile,
-      store: localMediaStore(t.config.uploadsDir),
-      dir: backupDir(),
-      pagesPerStep: 1,
-      progress: (l) => lines.push(l),
-    });
-    backingUp = false;
-    stop = true;
-    await load;
-    await uploading;
-    await t.worker!.idle();
-    expect(savesDuringBackup).toBeGreaterThan(0);
-    expect(lines.some((l) => l.startsWith('database: '))).toBe(true);
-    expect(lines.some((l) => l.startsWith(`media: ${manifest.media.length} of ${manifest.media.length} files (`))).toBe(true);
-    expect(fs.existsSync(path.join(backupDir(), MANIFEST_NAME))).toBe(true);
+      expect(missing).toEqual([]);
 
-    const restoreLines: string[] = [];
-    await restoreInstallation({ dir: backupDir(), ...target(), progress: (l) => restoreLines.push(l) });
-    expect(restoreLines).toContain('checking: every checksum matches');
-    expect(restoreLines.at(-1)).toMatch(/^restore complete/);
+      // The autosaved clip: a revision at least the acknowledged one, and its landmarks exactly those of that revision.
+      const restoredClip = await restoredDb('clips').where({ id: clipA }).first<{ annotation_revision: number }>();
+      const r = restoredClip.annotation_revision;
+      expect(r).toBeGreaterThanOrEqual(ackedRevision);
+      expect(r).toBeLessThanOrEqual(revision);
+      const frames = (await restoredDb('clip_landmarks').where({ clip_id: clipA }).distinct('frame').orderBy('frame')).map((f) => f.frame);
+      expect(frames).toEqual(Array.from({ length: r }, (_, i) => i));
+      const snapshots = await restoredDb('measure_snapshots').where({ clip_id: clipA }).select('annotation_revision');
+      expect(snapshots.map((s) => s.annotation_revision)).toEqual([r]);
+      if (r === ackedRevision) expect(moved).toEqual([]);
 
-    // Media: every acknowledged file, byte for byte (by checksum).
-    const restoredFiles = mediaChecksums(target().uploadsDir);
-    const lostOrChanged = [...ackedFiles].filter(([key, sum]) => restoredFiles.get(key) !== sum).map(([key]) => key);
-    expect(lostOrChanged).toEqual([]);
-
-    // Rows: every acknowledged row, unchanged, but for the rows the autosaves under way move on.
-    restoredDb = createDb(target().dbFile);
-    expect(await restoredDb.raw('pragma integrity_check')).toEqual([{ integrity_check: 'ok' }]);
-    const restoredRows = await dump(restoredDb);
-    const movedOn = (table: string, row: Record<string, unknown>) =>
-      (table === 'clips' && row['id'] === clipA) || (table === 'measure_snapshots' && row['clip_id'] === clipA);
-    const missing: string[] = [];
-    const moved: string[] = [];
-    for (const [table, rows] of ackedRows) {
-      const restored = new Set(restoredRows.get(table) ?? []);
-      for (const r of rows) {
-        if (restored.has(r)) continue;
-        (movedOn(table, JSON.parse(r) as Record<string, unknown>) ? moved : missing).push(`${table}: ${r}`);
+      // Whatever clip the snapshot holds as ready has its frames restored (media came after the snapshot).
+      for (const clip of await restoredDb('clips').where({ status: 'ready' }).select('id')) {
+        expect(fs.existsSync(path.join(target().uploadsDir, 'clips', String(clip.id), 'manifest.json')), `clip ${clip.id}`).toBe(true);
       }
-    }
-    expect(missing).toEqual([]);
+    }, 240_000);
 
-    // The autosaved clip: a revision at least the acknowledged one, and its landmarks exactly those of that revision.
-    const restoredClip = await restoredDb('clips').where({ id: clipA }).first<{ annotation_revision: number }>();
-    const r = restoredClip.annotation_revision;
-    expect(r).toBeGreaterThanOrEqual(ackedRevision);
-    expect(r).toBeLessThanOrEqual(revision);
-    const frames = (await restoredDb('clip_landmarks').where({ clip_id: clipA }).distinct('frame').orderBy('frame')).map((f) => f.frame);
-    expect(frames).toEqual(Array.from({ length: r }, (_, i) => i));
-    const snapshots = await restoredDb('measure_snapshots').where({ clip_id: clipA }).select('annotation_revision');
-    expect(snapshots.map((s) => s.annotation_revision)).toEqual([r]);
-    if (r === ackedRevision) expect(moved).toEqual([]);
-
-    // Whatever clip the snapshot holds as ready has its frames restored (media came after the snapshot).
-    for (const clip of await restoredDb('clips').where({ status: 'ready' }).select('id')) {
-      expect(fs.existsSync(path.join(target().uploadsDir, 'clips', String(clip.id), 'manifest.json')), `clip ${clip.id}`).toBe(true);
-    }
-  }, 240_000);
-
-  it('refuses to restore into an installation with data, leaving it as it was (also as npm run restore)', async () => {
-    const before = mediaChecksums(target().uploadsDir);
-    await expect(restoreInstallation({ dir: backupDir(), ...target() })).rejects.toThrow(RestoreError);
-    await expect(restoreInstallation({ dir: backupDir(), ...target() })).rejects.toThrow(
-      /Restore needs an empty installation, but this one has data/,
-    );
-    expect(mediaChecksums(target().uploadsDir)).toEqual(before);
-
-    const run = spawnSync('npx', ['tsx', 'scripts/restore.ts', backupDir()], {
-      encoding: 'utf8',
-      env: { ...process.env, DB_FILE: target().dbFile, UPLOADS_DIR: target().uploadsDir },
-    });
-    expect(run.status).toBe(1);
-    expect(run.stderr).toContain('restore refused: Restore needs an empty installation');
-  }, 60_000);
-
-  it('refuses a damaged backup before writing anything, and a folder that is not a finished backup', async () => {
-    const manifest = JSON.parse(fs.readFileSync(path.join(backupDir(), MANIFEST_NAME), 'utf8')) as { media: { key: string }[] };
-    const damaged = path.join(backupDir(), 'media', ...manifest.media[5]!.key.split('/'));
-    const original = fs.readFileSync(damaged);
-    const flipped = Buffer.from(original);
-    flipped[flipped.length >> 1]! ^= 0xff;
-    fs.writeFileSync(damaged, flipped);
-    const fresh = { dbFile: path.join(work.dir, 'second', 'db.sqlite'), uploadsDir: path.join(work.dir, 'second', 'uploads') };
-    try {
-      await expect(restoreInstallation({ dir: backupDir(), ...fresh })).rejects.toThrow(
-        new RegExp(`${manifest.media[5]!.key} does not match`),
+    it('refuses to restore into an installation with data, leaving it as it was (also as npm run restore)', async () => {
+      const before = mediaChecksums(target().uploadsDir);
+      await expect(restoreInstallation({ dir: backupDir(), ...target() })).rejects.toThrow(RestoreError);
+      await expect(restoreInstallation({ dir: backupDir(), ...target() })).rejects.toThrow(
+        /Restore needs an empty installation, but this one has data/,
       );
-      expect(await installationContents(fresh.dbFile, fresh.uploadsDir)).toEqual([]);
-    } finally {
-      fs.writeFileSync(damaged, original);
-    }
-    await expect(restoreInstallation({ dir: path.join(work.dir, 'nothing-here'), ...fresh })).rejects.toThrow(/not a complete backup/);
-  });
+      expect(mediaChecksums(target().uploadsDir)).toEqual(before);
 
-  it('backs up only into a new or empty folder', async () => {
-    await expect(
-      backupInstallation({ dbFile: t.config.dbFile, store: localMediaStore(t.config.uploadsDir), dir: backupDir() }),
-    ).rejects.toThrow(BackupError);
-  });
-});
+      const run = spawnSync('npx', ['tsx', 'scripts/restore.ts', backupDir()], {
+        encoding: 'utf8',
+        env: { ...process.env, DB_FILE: target().dbFile, UPLOADS_DIR: target().uploadsDir },
+      });
+      expect(run.status).toBe(1);
+      expect(run.stderr).toContain('restore refused: Restore needs an empty installation');
+    }, 60_000);
+
+    it('refuses a damaged backup before writing anything, and a folder that is not a finished backup', async () => {
+      const manifest = JSON.parse(fs.readFileSync(path.join(backupDir(), MANIFEST_NAME), 'utf8')) as { media: { key: string }[] };
+      const damaged = path.join(backupDir(), 'media', ...manifest.media[5]!.key.split('/'));
+      const original = fs.readFileSync(damaged);
+      const flipped = Buffer.from(original);
+      flipped[flipped.length >> 1]! ^= 0xff;
+      fs.writeFileSync(damaged, flipped);
+      const fresh = { dbFile: path.join(work.dir, 'second', 'db.sqlite'), uploadsDir: path.join(work.dir, 'second', 'uploads') };
+      try {
+        await expect(restoreInstallation({ dir: backupDir(), ...fresh })).rejects.toThrow(
+          new RegExp(`${manifest.media[5]!.key} does not match`),
+        );
+        expect(await installationContents(fresh.dbFile, fresh.uploadsDir)).toEqual([]);
+      } finally {
+        fs.writeFileSync(damaged, original);
+      }
+      await expect(restoreInstallation({ dir: path.join(work.dir, 'nothing-here'), ...fresh })).rejects.toThrow(/not a complete backup/);
+    });
+
+    it('backs up only into a new or empty folder', async () => {
+      await expect(
+        backupInstallation({ dbFile: t.config.dbFile, store: localMediaStore(t.config.uploadsDir), dir: backupDir() }),
+      ).rejects.toThrow(BackupError);
+    });
+  },
+);
