@@ -9,9 +9,8 @@
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Client } from '../support/test-app';
-import { freePort, seededDir, serverProcess, type ServerProcess } from '../support/server-process';
+import { folderDb, freePort, seededDir, serverProcess, type ServerProcess } from '../support/server-process';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
-import { createDb } from '../../server/db/knex';
 import type { ClipAnnotationsWrite } from '../../src/contracts/annotations';
 import { makeClip } from './media/fixtures';
 
@@ -79,12 +78,10 @@ describe('kill -9 during autosave', () => {
     }
     expect(acked).toHaveLength(24);
 
-    const db = createDb(path.join(dir, 'db.sqlite'));
+    const db = folderDb(dir);
     try {
-      const audited = await db('audit_log')
-        .where({ action: 'clip.annotated' })
-        .select<{ revision: number }[]>(db.raw(`json_extract(detail, '$.revision') AS revision`));
-      const revisions = new Set(audited.map((r) => r.revision));
+      const audited = await db('audit_log').where({ action: 'clip.annotated' }).select<{ detail: string }[]>('detail');
+      const revisions = new Set(audited.map((r) => (JSON.parse(r.detail) as { revision: number }).revision));
       for (const a of acked) expect(revisions.has(a.revision)).toBe(true);
       const stored = (await db('clips').where({ id: clipId }).first<{ annotation_revision: number }>('annotation_revision'))!;
       const last = acked.at(-1)!;

@@ -11,9 +11,17 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createDb, type Db } from '../../server/db/knex';
+import type { Db } from '../../server/db/knex';
 import { Client } from '../support/test-app';
-import { freePort, seededDir, serverProcess, workerProcess, type ServerProcess, type WorkerProcess } from '../support/server-process';
+import {
+  folderDb,
+  freePort,
+  seededDir,
+  serverProcess,
+  workerProcess,
+  type ServerProcess,
+  type WorkerProcess,
+} from '../support/server-process';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { generateRunnerClip, type GroundTruth } from '../../scripts/demo-clip/clip';
 import { marksFromTruth } from '../../scripts/demo-clip/demo-marks';
@@ -83,7 +91,7 @@ beforeAll(async () => {
   worker = workerProcess(dir, WORKER_ENV);
   await server.start();
   await worker.start();
-  db = createDb(path.join(dir, 'db.sqlite'));
+  db = folderDb(dir);
   c = new Client(server.url);
   await c.signIn(coach.email, coach.password);
   const adaId = (await db('athletes').where({ email: athlete.email }).first()).id as number;
