@@ -77,7 +77,7 @@ function truthHipExtension(frame: number): number {
 const degrees = (text: string): number[] => [...text.replace(/\u2212/g, '-').matchAll(/-?\d+(?:\.\d+)?(?=°)/g)].map((m) => Number(m[0]));
 
 describe('effort: six points on one frame to hip extension at toe-off over the whole clip', () => {
-  it('1440×900: place six markers, follow, accept proposed events, read hip extension at toe-off over ≥ 8 steps (each within 0.3° of the truth joints on its frame, the mean within 1° of the truth toe-off frames, to the display's 0.1°) in ≤ 20 clicks and keys', async () => {
+  it('1440×900: place six markers, follow, accept proposed events, read hip extension at toe-off over ≥ 8 steps (each within 0.3° of the truth joints on its frame, the mean within 1° of the truth toe-off frames, to the display’s 0.1°) in ≤ 20 clicks and keys', async () => {
     const { page, context, problems } = await h.newPage();
     await page.setViewportSize({ width: 1440, height: 900 });
     await signInOnPage(page, h.baseUrl, coach);
