@@ -1,4 +1,5 @@
-import Stripe from 'stripe';
+import { createRequire } from 'node:module';
+import type Stripe from 'stripe';
 import type { CheckoutStarted, PaymentConfirmed, PaymentEvent, Payments, PaymentsConfig, RefundConfirmed, WebhookEvent } from './payments';
 
 /** The provider's events that mean a payment page was paid or a delayed payment failed. */
@@ -16,7 +17,9 @@ class ObjectMissing extends Error {}
  * are read here only; billing hears {@link PaymentEvent}s.
  */
 export function stripePayments(config: PaymentsConfig): Payments {
-  const stripe = new Stripe(config.secretKey, {
+  // The provider's SDK loads when card payment is configured, not in every web process.
+  const StripeSdk = createRequire(import.meta.url)('stripe') as typeof Stripe;
+  const stripe = new StripeSdk(config.secretKey, {
     ...(config.apiHost ? { host: config.apiHost } : {}),
     ...(config.apiPort ? { port: config.apiPort } : {}),
     ...(config.apiProtocol ? { protocol: config.apiProtocol } : {}),

@@ -12,8 +12,12 @@
  *   first migrations, {@link addCheck}), `LIKE` (case-insensitive on SQLite for ASCII, sensitive on
  *   PostgreSQL: compare `lower(col)`), `INSERT OR IGNORE` (use knex `onConflict().ignore()`).
  */
+import { createRequire } from 'node:module';
 import type { Knex } from 'knex';
-import pg from 'pg';
+import type pg from 'pg';
+
+/** `pg`, loaded when a PostgreSQL connection first asks for a type parser (never on SQLite). */
+const loadPg = () => createRequire(import.meta.url)('pg') as typeof pg;
 
 /** The database engine behind a knex instance. */
 export type Dialect = 'sqlite' | 'postgres';
@@ -54,7 +58,7 @@ export const PG_TYPES = {
   getTypeParser(oid: number, format?: 'text' | 'binary') {
     if (oid === INT8 || oid === NUMERIC) return (v: string) => Number(v);
     if (oid === JSON_OID || oid === JSONB) return (v: string) => v;
-    return pg.types.getTypeParser(oid, format);
+    return loadPg().types.getTypeParser(oid, format);
   },
 } as unknown as pg.CustomTypesConfig;
 

@@ -1,7 +1,6 @@
 import { once } from 'node:events';
 import { selectRows } from '../db/dialect';
 import type { Readable } from 'node:stream';
-import archiver from 'archiver';
 import type { Db } from '../db/knex';
 import type { ClinicBrands } from '../clinic/clinic-brand';
 import { invoicesRepository, toDetail } from '../billing/invoices-repository';
@@ -112,6 +111,8 @@ export function exportAthleteDataKind(d: {
       const total = files.length + 2;
       ctx.progress(0, total);
       const key = exportKey(row.athlete_id, row.id);
+      // archiver loads with the first export, not with every web process.
+      const { default: archiver } = await import('archiver');
       const zip = archiver('zip', { zlib: { level: 6 } });
       const written = store.put(key, zip as unknown as Readable);
       let failure: unknown = null;

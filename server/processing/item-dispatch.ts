@@ -1,4 +1,5 @@
-import PgBoss from 'pg-boss';
+import { createRequire } from 'node:module';
+import type PgBossModule from 'pg-boss';
 import type { Logger } from 'pino';
 
 /** The pg-boss queue that carries processed items to workers. */
@@ -42,6 +43,8 @@ export interface PgBossDispatchOptions {
  * stay in the table, so a SIGKILLed worker's item is taken over when its lease runs out.
  */
 export function pgBossDispatch(o: PgBossDispatchOptions): ItemDispatch {
+  // Loaded only on PostgreSQL: a one-machine (SQLite) server never holds pg-boss.
+  const PgBoss = createRequire(import.meta.url)('pg-boss') as typeof PgBossModule;
   const boss = new PgBoss({
     connectionString: o.url,
     schema: BOSS_SCHEMA,

@@ -1,5 +1,6 @@
 import crypto from 'node:crypto';
-import pg from 'pg';
+import { createRequire } from 'node:module';
+import type pg from 'pg';
 import type { Logger } from 'pino';
 import type { Db } from '../db/knex';
 import { inProcessProgressChannel, type ProgressChannel, type ProgressNotice } from './progress-channel';
@@ -30,7 +31,8 @@ export function postgresProgressChannel(o: { db: Db; url: string; logger: Logger
   let retry: NodeJS.Timeout | null = null;
 
   async function listen(): Promise<void> {
-    const c = new pg.Client({ connectionString: o.url, application_name: 'trailframe-progress' });
+    const { Client } = createRequire(import.meta.url)('pg') as typeof pg;
+    const c = new Client({ connectionString: o.url, application_name: 'trailframe-progress' });
     c.on('notification', (msg) => {
       if (msg.channel !== PROGRESS_CHANNEL || !msg.payload) return;
       try {

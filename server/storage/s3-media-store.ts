@@ -3,16 +3,10 @@ import os from 'node:os';
 import path from 'node:path';
 import { Readable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
-import {
-  DeleteObjectsCommand,
-  GetObjectCommand,
-  HeadObjectCommand,
-  ListObjectsV2Command,
-  S3Client,
-  S3ServiceException,
-  type S3ClientConfig,
-} from '@aws-sdk/client-s3';
-import { Upload } from '@aws-sdk/lib-storage';
+import { createRequire } from 'node:module';
+import type * as ClientS3 from '@aws-sdk/client-s3';
+import type { S3Client, S3ClientConfig } from '@aws-sdk/client-s3';
+import type * as LibStorage from '@aws-sdk/lib-storage';
 import { MissingMediaError, type MediaStore, type StoredObject } from './media-store';
 
 /** Where the bucket is and how to reach it (`S3_*` in the configuration). */
@@ -39,9 +33,6 @@ function checkKey(key: string, prefix = false): string {
   return key;
 }
 
-const notFound = (err: unknown) =>
-  err instanceof S3ServiceException && (err.$metadata.httpStatusCode === 404 || err.name === 'NoSuchKey' || err.name === 'NotFound');
-
 /**
  * {@link MediaStore} in an S3-compatible bucket through the AWS SDK for JavaScript v3. Bodies are
  * streamed both ways: uploads through `@aws-sdk/lib-storage` (multipart in 8 MiB parts, never the
@@ -51,6 +42,14 @@ const notFound = (err: unknown) =>
  * An object store writes each object whole, so readers never see half of one.
  */
 export function s3MediaStore(o: S3StoreOptions, clientConfig: Partial<S3ClientConfig> = {}): MediaStore & { client: S3Client } {
+  // The SDK loads only when a bucket is configured: a one-machine server never holds it.
+  const load = createRequire(import.meta.url);
+  const { DeleteObjectsCommand, GetObjectCommand, HeadObjectCommand, ListObjectsV2Command, S3Client, S3ServiceException } = load(
+    '@aws-sdk/client-s3',
+  ) as typeof ClientS3;
+  const { Upload } = load('@aws-sdk/lib-storage') as typeof LibStorage;
+  const notFound = (err: unknown) =>
+    err instanceof S3ServiceException && (err.$metadata.httpStatusCode === 404 || err.name === 'NoSuchKey' || err.name === 'NotFound');
   const client = new S3Client({
     endpoint: o.endpoint,
     region: o.region,

@@ -1,7 +1,8 @@
 import crypto from 'node:crypto';
 import type { Server } from 'node:http';
 import express, { type Response } from 'express';
-import Stripe from 'stripe';
+import { createRequire } from 'node:module';
+import type Stripe from 'stripe';
 import { payPage, donePage } from './pay-page';
 
 /**
@@ -81,7 +82,8 @@ const now = () => Math.floor(Date.now() / 1000);
 
 /** Starts the fake payment service on 127.0.0.1 (`port` 0 = any free port). */
 export async function startFakePayments(options: FakePaymentsOptions): Promise<FakePayments> {
-  const signer = new Stripe('sk_fake_signer');
+  const StripeSdk = createRequire(import.meta.url)('stripe') as typeof Stripe;
+  const signer = new StripeSdk('sk_fake_signer');
   const sessions = new Map<string, Session>();
   /** Charges and refunds the fake has made (what a refund event is confirmed against). */
   const charges = new Map<string, object>();
