@@ -2,7 +2,7 @@ import { rm } from 'node:fs/promises';
 import path from 'node:path';
 import type { SlowMotionFactor } from '../../src/contracts/annotated-clips';
 import type { Db } from '../db/knex';
-import { PermanentError, type ProcessingKind } from '../processing/processed-item';
+import { NotReadyError, PermanentError, type ProcessingKind } from '../processing/processed-item';
 import { partialFileOf, renderAnnotatedClip, type AnnotatedClipRenderOutput } from '../render/annotated-clip-render';
 import { annotatedClipFile, clipKeys } from '../storage/media-keys';
 import { MissingMediaError, type MediaStore } from '../storage/media-store';
@@ -69,7 +69,8 @@ export function renderAnnotatedClipKind(d: { db: Db; store: MediaStore }): Proce
         .pluck('status');
       if (statuses.length < new Set(plan.panels.map((p) => p.clipId)).size)
         throw new PermanentError('A clip of this annotated clip was deleted.');
-      if (statuses.some((st: string) => st !== 'ready')) throw new Error('The clip’s frames are not extracted yet.');
+      if (statuses.includes('failed')) throw new PermanentError('The clip’s frames could not be extracted.');
+      if (statuses.some((st: string) => st !== 'ready')) throw new NotReadyError('The clip’s frames are not extracted yet.');
       const version = row.render_version;
       const name = annotatedClipFile(id, version);
       const out = await store.withLocalFolder(clipKeys(row.clip_id).annotatedPrefix, async (folder) => {

@@ -95,6 +95,20 @@ export interface ProcessingKind<R = unknown> {
 /** A failure another attempt cannot fix (e.g. a damaged clip): the item fails at once. */
 export class PermanentError extends Error {}
 
+/**
+ * What the item needs is not there yet (e.g. a still queued with its clip, whose frames are still being
+ * extracted): the item goes back to the queue for `retryInMs` without using an attempt, and frees the
+ * worker for the work it waits on.
+ */
+export class NotReadyError extends Error {
+  constructor(
+    message: string,
+    readonly retryInMs = 1_000,
+  ) {
+    super(message);
+  }
+}
+
 /** The reason given when the worker stopped during every attempt (killed, power lost). */
 export function interruptedReason(attempts: number): string {
   return `Processing was interrupted ${attempts} times (the server stopped while working on it). Retry to try again.`;

@@ -67,8 +67,8 @@ export interface ProcessingQueue {
    * when `permanent` or no attempt is left. Answers what happened (`gone`: no longer ours).
    */
   fail(item: ProcessedItem, error: string, opts: { permanent: boolean; retryInMs: number }): Promise<'retrying' | 'failed' | 'gone'>;
-  /** Hands a running item back without using an attempt (the worker is stopping). */
-  release(item: ProcessedItem): Promise<void>;
+  /** Hands a running item back without using an attempt (the worker is stopping, or the item is not ready: due again after `afterMs`). */
+  release(item: ProcessedItem, afterMs?: number): Promise<void>;
 }
 
 export interface ProcessingOptions {
@@ -237,17 +237,17 @@ export function createProcessing(o: ProcessingOptions): Processing {
       return !applied ? 'gone' : last ? 'failed' : 'retrying';
     },
 
-    async release(item) {
+    async release(item, afterMs = 0) {
       await move(item.id, async (trx) => {
         const back = {
           state: 'queued' as const,
           attempts: Math.max(0, item.attempts - 1),
           lease_until: null,
           claimed_by: null,
-          run_after: now(),
+          run_after: later(afterMs),
         };
         if (!(await held(item, back)(trx))) return false;
-        offerAfterCommit(trx, item.id, 0);
+        offerAfterCommit(trx, item.id, afterMs);
         await kindOf(item.kind).onChange(trx, item, { state: 'queued' });
         return true;
       });

@@ -1,6 +1,6 @@
 import os from 'node:os';
 import type { Logger } from 'pino';
-import { PermanentError, type ProcessedItem, type RunContext } from './processed-item';
+import { NotReadyError, PermanentError, type ProcessedItem, type RunContext } from './processed-item';
 import type { Processing } from './processing';
 
 /** Runs processed items: in the web process (`npm start`) or in its own (`npm run worker`, server/worker.ts). */
@@ -122,6 +122,12 @@ export function startWorker(o: WorkerOptions): Worker {
         // Stopping: back to the queue with the attempt unused. Cancelled: the row says so already.
         if (stopped) await queue.release(item);
         logger.info({ itemId: item.id, kind: item.kind, stopping: stopped }, 'processing interrupted');
+        return;
+      }
+      if (err instanceof NotReadyError) {
+        // Waiting on other work (a clip's frames): back to the queue, the attempt unused.
+        await queue.release(item, err.retryInMs);
+        logger.info({ itemId: item.id, kind: item.kind, err: message }, 'processing waits');
         return;
       }
       const outcome = await queue.fail(item, message, {

@@ -1,5 +1,5 @@
 import type { Db } from '../db/knex';
-import { PermanentError, type ProcessingKind } from '../processing/processed-item';
+import { NotReadyError, PermanentError, type ProcessingKind } from '../processing/processed-item';
 import { renderStill, type StillRenderOutput } from '../render/still-render';
 import { clipKeys } from '../storage/media-keys';
 import { MissingMediaError, type MediaStore } from '../storage/media-store';
@@ -41,14 +41,15 @@ export function renderStillKind(d: { db: Db; store: MediaStore }): ProcessingKin
       if (!row) return null; // deleted meanwhile
       if (row.clip_id === null) throw new PermanentError(STILL_CLIP_DELETED);
       const panels = repo.panels(row);
-      // A still queued with its clip (the demo) waits for the frames: retried with back-off.
+      // A still queued with its clip (the demo) waits for the frames, back in the queue without using an attempt.
       const statuses = await db('clips')
         .whereIn(
           'id',
           panels.map((p) => p.clipId),
         )
         .pluck('status');
-      if (statuses.some((st: string) => st !== 'ready')) throw new Error('The clip’s frames are not extracted yet.');
+      if (statuses.includes('failed')) throw new PermanentError('The clip’s frames could not be extracted.');
+      if (statuses.some((st: string) => st !== 'ready')) throw new NotReadyError('The clip’s frames are not extracted yet.');
       const inputs = [];
       for (const p of panels) {
         const image = await readSmall(store, clipKeys(p.clipId).frame(p.frameIndex)).catch((err: unknown) => {

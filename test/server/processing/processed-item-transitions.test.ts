@@ -365,6 +365,18 @@ describe('cancel', () => {
 });
 
 describe('release (the worker stops)', () => {
+  it('an item not ready yet is handed back due after the delay asked for, the attempt unused, and not claimed before', async () => {
+    const rec = fresh();
+    const p = processOf(rec);
+    await p.enqueue(db, 'test_render', 95, SCOPE);
+    const item = (await p.queue.claim())!;
+    await p.queue.release(item, 1500);
+    expect(await row(item.id)).toMatchObject({ state: 'queued', attempts: 0, claimed_by: null, run_after: iso(clockMs + 1500) });
+    expect(await p.queue.claim()).toBeNull();
+    clockMs += 1500;
+    expect(await p.queue.claim()).toMatchObject({ id: item.id, attempts: 1 });
+  });
+
   it('hands the item back due now, without using the attempt', async () => {
     const rec = fresh();
     const p = processOf(rec);

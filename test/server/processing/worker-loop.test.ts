@@ -9,7 +9,13 @@
 import pino from 'pino';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { defaultConcurrency, startWorker, type Worker } from '../../../server/processing/worker';
-import { PermanentError, type ProcessedItem, type ProcessingKind, type RunContext } from '../../../server/processing/processed-item';
+import {
+  NotReadyError,
+  PermanentError,
+  type ProcessedItem,
+  type ProcessingKind,
+  type RunContext,
+} from '../../../server/processing/processed-item';
 import type { Processing, ProcessingQueue } from '../../../server/processing/processing';
 
 /** What the worker logged in the test (level, message and fields). */
@@ -70,8 +76,8 @@ function scripted(items: ProcessedItem[]) {
       calls.push(`fail ${item.id} ${error} permanent=${opts.permanent} retryInMs=${opts.retryInMs}`);
       return Promise.resolve('retrying' as const);
     }),
-    release: vi.fn((item: ProcessedItem) => {
-      calls.push(`release ${item.id}`);
+    release: vi.fn((item: ProcessedItem, afterMs?: number) => {
+      calls.push(afterMs === undefined ? `release ${item.id}` : `release ${item.id} after ${afterMs}`);
       return Promise.resolve();
     }),
   };
@@ -187,6 +193,16 @@ describe('the worker loop', () => {
     s.runs[0].reject(new PermanentError('not a video'));
     await tick();
     expect(s.calls).toContain('fail 1 not a video permanent=true retryInMs=2000');
+  });
+
+  it('an item whose inputs are not ready goes back to the queue after its delay with the attempt unused, no failure recorded', async () => {
+    const s = scripted([itemOf(1, 3)]);
+    worker = startWorker({ processing: s.processing, logger, concurrency: 1, pollMs: 1000, leaseMs: 30_000, cores: 1 });
+    await tick();
+    s.runs[0].reject(new NotReadyError('frames not extracted yet', 1500));
+    await tick();
+    expect(s.calls).toContain('release 1 after 1500');
+    expect(s.calls.filter((c) => c.startsWith('fail'))).toEqual([]);
   });
 
   it('renews the lease every third of it; a refused heartbeat (taken over) aborts the run and records nothing for it', async () => {
