@@ -9,7 +9,7 @@
  * the ffmpeg CPU seconds of each stage (decode; + resize; + JPEG encoding; + writing the files) so
  * the cost of each part of the extraction shows; --quality compares each setting's first 240
  * frames with the defaults' and with the source resized by lanczos, using ffmpeg's ssim and psnr
- * filters; --only runs the defaults and the settings whose names start with one of the given (comma-separated) texts; --clip reuses a clip
+ * filters; --only runs the defaults and the settings whose names start with one of the given (comma-separated) texts (`--only none`: the defaults alone); --clip reuses a clip
  * (skips the ~30 s encode); --keep leaves the temp folder. Wall times on a shared machine are
  * noisy, so each setting runs `--reps` times, alternating with the decode baseline, and the
  * fastest run of each is reported; CPU seconds of child processes (from /proc) are shown as well.
@@ -65,17 +65,26 @@ function ffmpeg(argv: string[]): Promise<void> {
 
 interface Timing {
   wallS: number;
+  /** CPU seconds of child processes (ffprobe, ffmpeg). */
   cpuS: number;
+  /** CPU seconds of this Node process meanwhile (reading ffmpeg's log and progress, as the server does). */
+  nodeS: number;
 }
 
 async function timed(fn: () => Promise<unknown>): Promise<Timing> {
   const cpu0 = childCpuS();
+  const own0 = process.cpuUsage();
   const t0 = performance.now();
   await fn();
-  return { wallS: (performance.now() - t0) / 1000, cpuS: childCpuS() - cpu0 };
+  const own = process.cpuUsage(own0);
+  return { wallS: (performance.now() - t0) / 1000, cpuS: childCpuS() - cpu0, nodeS: (own.user + own.system) / 1e6 };
 }
 
-const best = (ts: Timing[]): Timing => ({ wallS: Math.min(...ts.map((t) => t.wallS)), cpuS: Math.min(...ts.map((t) => t.cpuS)) });
+const best = (ts: Timing[]): Timing => ({
+  wallS: Math.min(...ts.map((t) => t.wallS)),
+  cpuS: Math.min(...ts.map((t) => t.cpuS)),
+  nodeS: Math.min(...ts.map((t) => t.nodeS)),
+});
 const f2 = (n: number) => n.toFixed(2);
 
 interface Variant {
@@ -221,7 +230,7 @@ try {
       quality = ` | against the source (lanczos): ${fq(source)}${vsDefaults}`;
     }
     console.log(
-      `${v.name.padEnd(40)} probe+extract ${f2(best(runs).wallS)} s wall (${f2(best(runs).cpuS)} s CPU), probe ${f2(probeS)} s | ` +
+      `${v.name.padEnd(40)} probe+extract ${f2(best(runs).wallS)} s wall (${f2(best(runs).cpuS)} s CPU, Node ${f2(best(runs).nodeS)} s), probe ${f2(probeS)} s | ` +
         `decode ${f2(d.wallS)} s (${f2(d.cpuS)} s CPU) | ratio ${f2(best(runs).wallS / d.wallS)} wall, ${f2(best(runs).cpuS / d.cpuS)} CPU | ` +
         `${frames} frames, ${Math.round(meanBytes / 1024)} KiB/frame${quality}`,
     );
