@@ -325,8 +325,11 @@ try {
   bare = null;
   const cpu0 = cpuSeconds(server.pid);
   const own0 = process.cpuUsage();
+  const satFrom = process.hrtime.bigint();
   const sat = await saturate(base, annotators, SECONDS);
   const satCpu = cpuSeconds(server.pid) - cpu0;
+  // The saturation window on the monotonic clock a .cpuprofile's timestamps use (µs), to profile it alone.
+  if (process.env['BENCH_CPU_PROF']) console.log(`saturation window (monotonic µs): ${satFrom / 1000n}–${process.hrtime.bigint() / 1000n}`);
   const own = process.cpuUsage(own0);
   const open = await openLoop(base, annotators, RATE, SECONDS + 5);
   const up = await uploads.stop();

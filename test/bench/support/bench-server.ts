@@ -23,7 +23,7 @@ export interface BenchProcess {
 /** A temp folder for one run, removed by `cleanup` (also on Ctrl+C). */
 export function benchDir(prefix: string): { dir: string; cleanup: () => void } {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), `tf-bench-${prefix}-`));
-  const cleanup = () => fs.rmSync(dir, { recursive: true, force: true });
+  const cleanup = () => fs.rmSync(dir, { recursive: true, force: true, maxRetries: 5 });
   for (const signal of ['SIGINT', 'SIGTERM'] as const) {
     process.once(signal, () => {
       cleanup();
