@@ -28,7 +28,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import os from 'node:os';
 import { spawnSync } from 'node:child_process';
-import { build } from 'esbuild';
+import { buildServer } from '../../scripts/build-server';
 import { parseArgs } from 'node:util';
 import { createDb } from '../../server/db/knex';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
@@ -355,17 +355,7 @@ async function buildBefore(rev: string, tmp: string): Promise<string> {
   ]);
   if (archive.status !== 0) throw new Error(`git archive ${rev}: ${archive.stderr}`);
   const outdir = path.resolve('dist/bench-before');
-  await build({
-    entryPoints: { main: path.join(src, 'server/main.ts'), 'picture-worker': path.join(src, 'server/pictures/picture-worker.ts') },
-    outdir,
-    outExtension: { '.js': '.mjs' },
-    bundle: true,
-    platform: 'node',
-    format: 'esm',
-    target: 'node20',
-    packages: 'external',
-    logLevel: 'warning',
-  });
+  await buildServer(src, outdir);
   return path.join(outdir, 'main.mjs');
 }
 
