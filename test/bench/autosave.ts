@@ -8,6 +8,11 @@
  * machine's Node and loopback can do at that moment.
  *
  *   npx tsx test/bench/autosave.ts [--annotators 50] [--uploads 5] [--seconds 15] [--rate 25] [--keep]
+ *                                  [--before <git revision> [--rounds 3]]
+ *
+ * With `--before`, the server as it was at that revision (bundled from `git archive`) runs beside
+ * this build on its own copy of the database, and the saturation is measured in rounds, the two
+ * taking turns, each with its own five uploads running: CPU per save printed for both (medians).
  *
  * The server is the `npm start` bundle on plain Node over a temp database with the demo scenario.
  * Each annotator edits its own clip (uploaded first through the API) like the review workspace
@@ -19,8 +24,11 @@
  * revision a 200 answered must be in the audit log, each clip's revision must be its last answered
  * one, and its stored landmarks must be those of that save.
  */
+import fs from 'node:fs';
 import path from 'node:path';
 import os from 'node:os';
+import { spawnSync } from 'node:child_process';
+import { buildServer } from '../../scripts/build-server';
 import { parseArgs } from 'node:util';
 import { createDb } from '../../server/db/knex';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
@@ -51,12 +59,17 @@ const { values: args } = parseArgs({
     seconds: { type: 'string', default: '15' },
     rate: { type: 'string', default: '25' },
     keep: { type: 'boolean', default: false },
+    before: { type: 'string' },
+    rounds: { type: 'string', default: '3' },
   },
 });
 const ANNOTATORS = Number(args.annotators);
 const UPLOADS = Number(args.uploads);
 const SECONDS = Number(args.seconds);
 const RATE = Number(args.rate);
+/** A git revision to measure beside this build (saturation rounds taking turns), or none. */
+const BEFORE = args.before;
+const ROUNDS = Number(args.rounds);
 
 /** The synthetic runner's marks as a coach would place them: event frames and every sixth frame. */
 function runnerDocument(): Omit<ClipAnnotationsWrite, 'baseRevision'> & { frameCount: number } {
@@ -265,12 +278,18 @@ async function lostSaves(dbFile: string, annotators: Annotator[]): Promise<{ los
   return { lost, checked, problems };
 }
 
-const { dir, cleanup } = benchDir('autosave');
-let server: BenchProcess | null = null;
-let bare: BenchProcess | null = null;
-try {
-  const dbFile = await seedDemo(dir);
-  server = await startBundledServer(dir, dbFile);
+/** A server under test, its annotators on their clips, and where the uploads go. */
+interface Subject {
+  name: string;
+  server: BenchProcess;
+  dbFile: string;
+  annotators: Annotator[];
+  s0: Session;
+  uploadTo: number;
+}
+
+/** Signs the annotators in, uploads their clips and waits until the clips are ready. */
+async function prepare(name: string, server: BenchProcess, dbFile: string, workDir: string): Promise<Subject> {
   const base = server.url;
   const staff = DEMO_SIGN_INS.filter((s) => s.role !== 'athlete');
   const sessions: Session[] = [];
@@ -283,10 +302,9 @@ try {
     visits.body.assessments.find((a) => a.kind === 'baseline')!.id,
     visits.body.assessments.find((a) => a.kind === 'retest')!.id,
   ];
-
   const doc = runnerDocument();
-  process.stdout.write(`uploading ${ANNOTATORS} clips to annotate (160×90, 120 fps, ${doc.frameCount} frames)… `);
-  const small = makeClip(path.join(dir, 'small.mp4'), { width: 160, height: 90, fps: 120, seconds: doc.frameCount / 120 });
+  process.stdout.write(`${name}: uploading ${ANNOTATORS} clips to annotate (160×90, 120 fps, ${doc.frameCount} frames)… `);
+  const small = makeClip(path.join(workDir, 'small.mp4'), { width: 160, height: 90, fps: 120, seconds: doc.frameCount / 120 });
   const clipIds: number[] = [];
   for (let i = 0; i < ANNOTATORS; i += 5) {
     clipIds.push(
@@ -304,18 +322,72 @@ try {
     lastSavedBody: null,
     busy: Promise.resolve(),
   }));
+  // Warm up (first saves create rows, JIT), uploads not yet running.
+  await saturate(base, annotators, 2);
+  return { name, server, dbFile, annotators, s0, uploadTo };
+}
+
+/** Saturation with the uploads running: the tally and the server's CPU per save. */
+async function saturationRound(x: Subject, big: string): Promise<{ sat: { t: Tally; wallS: number }; cpuMs: number; wallS: number }> {
+  const uploads = uploadsRunning(x.server.url, x.s0, x.uploadTo, big, UPLOADS);
+  await new Promise((r) => setTimeout(r, 3000));
+  const cpu0 = cpuSeconds(x.server.pid);
+  const satFrom = process.hrtime.bigint();
+  const sat = await saturate(x.server.url, x.annotators, SECONDS);
+  const cpuMs = ((cpuSeconds(x.server.pid) - cpu0) / Math.max(1, sat.t.ok)) * 1000;
+  // The saturation window on the monotonic clock a .cpuprofile's timestamps use (µs), to profile it alone.
+  if (process.env['BENCH_CPU_PROF'])
+    console.log(`${x.name}: saturation window (monotonic µs): ${satFrom / 1000n}–${process.hrtime.bigint() / 1000n}`);
+  await uploads.stop();
+  return { sat, cpuMs, wallS: sat.wallS };
+}
+
+/**
+ * Bundles the server as it was at git revision `rev` (exported to a temp folder) into
+ * `dist/bench-before/`, so it resolves the same node_modules and migrations folder as this tree.
+ */
+async function buildBefore(rev: string, tmp: string): Promise<string> {
+  const src = path.join(tmp, 'before-src');
+  fs.mkdirSync(src, { recursive: true });
+  const archive = spawnSync('sh', [
+    '-c',
+    `git archive ${JSON.stringify(rev)} server src migrations seeds | tar -x -C ${JSON.stringify(src)}`,
+  ]);
+  if (archive.status !== 0) throw new Error(`git archive ${rev}: ${archive.stderr}`);
+  const outdir = path.resolve('dist/bench-before');
+  await buildServer(src, outdir);
+  return path.join(outdir, 'main.mjs');
+}
+
+const median = (xs: number[]) => quantile(xs, 0.5);
+
+const { dir, cleanup } = benchDir('autosave');
+let server: BenchProcess | null = null;
+let before: BenchProcess | null = null;
+let bare: BenchProcess | null = null;
+try {
+  const dbFile = await seedDemo(dir);
+  server = await startBundledServer(dir, dbFile);
+  const subjects = [await prepare('this build', server, dbFile, dir)];
+  if (BEFORE) {
+    const beforeDir = path.join(dir, 'before');
+    fs.mkdirSync(beforeDir);
+    const beforeDb = await seedDemo(beforeDir);
+    before = await startBundledServer(beforeDir, beforeDb, {}, [], await buildBefore(BEFORE, dir));
+    subjects.push(await prepare(`before (${BEFORE})`, before, beforeDb, beforeDir));
+  }
+  const current = subjects[0]!;
+  const { annotators } = current;
   const bodyBytes = JSON.stringify({ baseRevision: 0, ...annotators[0]!.doc }).length;
   const big = makeClip(path.join(dir, 'upload.mp4'), { width: 1280, height: 720, fps: 30, seconds: 6 });
   console.log(
     `${ANNOTATORS} annotators, ${annotators[0]!.doc.landmarks.length} landmark frame-sides per save (${Math.round(bodyBytes / 1024)} KiB), ` +
-      `${UPLOADS} uploads of a ${(await import('node:fs')).statSync(big).size >> 20} MiB 720p clip at 1 MB/s each; ` +
+      `${UPLOADS} uploads of a ${fs.statSync(big).size >> 20} MiB 720p clip at 1 MB/s each; ` +
       `${os.cpus().length} cores, Node ${process.version}`,
   );
 
-  // Warm up (first saves create rows, JIT), uploads not yet running.
-  await saturate(base, annotators, 2);
-
-  const uploads = uploadsRunning(base, s0, uploadTo, big, UPLOADS);
+  // The bare handler, with the uploads running on this build's server as during its saturation.
+  const bareUploads = uploadsRunning(current.server.url, current.s0, current.uploadTo, big, UPLOADS);
   await new Promise((r) => setTimeout(r, 3000));
   bare = await startBareExpress(dir);
   const bareCpu0 = cpuSeconds(bare.pid);
@@ -323,24 +395,40 @@ try {
   const bareCpuMs = ((cpuSeconds(bare.pid) - bareCpu0) / Math.max(1, bareSat.ok)) * 1000;
   await bare.stop();
   bare = null;
-  const cpu0 = cpuSeconds(server.pid);
-  const own0 = process.cpuUsage();
-  const sat = await saturate(base, annotators, SECONDS);
-  const satCpu = cpuSeconds(server.pid) - cpu0;
-  const own = process.cpuUsage(own0);
-  const open = await openLoop(base, annotators, RATE, SECONDS + 5);
-  const up = await uploads.stop();
-  await server.stop();
-  server = null;
-  const check = await lostSaves(dbFile, annotators);
+  await bareUploads.stop();
 
+  // Saturation rounds, the builds taking turns (with --before), each with its own uploads running.
+  const own0 = process.cpuUsage();
+  const rounds = new Map(subjects.map((x) => [x, [] as Awaited<ReturnType<typeof saturationRound>>[]]));
+  for (let r = 0; r < (BEFORE ? ROUNDS : 1); r++) for (const x of subjects) rounds.get(x)!.push(await saturationRound(x, big));
+  const own = process.cpuUsage(own0);
+  const ownWallS = [...rounds.values()].flat().reduce((n, x) => n + x.wallS + 3, 0);
+
+  const uploads = uploadsRunning(current.server.url, current.s0, current.uploadTo, big, UPLOADS);
+  await new Promise((r) => setTimeout(r, 3000));
+  const open = await openLoop(current.server.url, annotators, RATE, SECONDS + 5);
+  const up = await uploads.stop();
+  const checks = new Map<Subject, Awaited<ReturnType<typeof lostSaves>>>();
+  for (const x of subjects) {
+    await x.server.stop();
+    checks.set(x, await lostSaves(x.dbFile, x.annotators));
+  }
+  server = null;
+  before = null;
+
+  const mine = rounds.get(current)!;
+  const sat = mine.at(-1)!.sat;
   const satRate = sat.t.ok / sat.wallS;
   console.log('');
   console.log(`| autosave with ${UPLOADS} uploads running | saves/s | p50 | p99 | 409 | errors |`);
   console.log('| --- | --- | --- | --- | --- | --- |');
-  console.log(
-    `| saturation (${ANNOTATORS} annotators back to back) | ${satRate.toFixed(0)} | ${ms(quantile(sat.t.latencies, 0.5))} | ${ms(quantile(sat.t.latencies, 0.99))} | ${sat.t.conflicts} | ${sat.t.errors} |`,
-  );
+  for (const x of subjects)
+    for (const [i, round] of rounds.get(x)!.entries()) {
+      const t = round.sat.t;
+      console.log(
+        `| saturation, ${x.name}${BEFORE ? ` round ${i + 1}` : ''} (${ANNOTATORS} annotators back to back) | ${(t.ok / round.wallS).toFixed(0)} | ${ms(quantile(t.latencies, 0.5))} | ${ms(quantile(t.latencies, 0.99))} | ${t.conflicts} | ${t.errors} |`,
+      );
+    }
   console.log(
     `| open loop, ${RATE} saves/s due | ${(open.ok / (SECONDS + 5)).toFixed(1)} | ${ms(quantile(open.latencies, 0.5))} | ${ms(quantile(open.latencies, 0.99))} | ${open.conflicts} | ${open.errors} |`,
   );
@@ -348,7 +436,7 @@ try {
     `| bare Express: parse the same bodies and answer (same clients, same run) | ${bareSat.rate.toFixed(0)} | | | | ${bareSat.errors} |`,
   );
   console.log(`\nsaturation saves/s ÷ bare Express PUT/s in the same run: ${((satRate / bareSat.rate) * 100).toFixed(1)} %`);
-  const saveCpuMs = (satCpu / Math.max(1, sat.t.ok)) * 1000;
+  const saveCpuMs = median(mine.map((x) => x.cpuMs));
   console.log(
     `\nserver CPU per save at saturation ${saveCpuMs.toFixed(2)} ms (the server process: receiving uploads included, its ffmpeg children not); ` +
       `bare Express CPU per PUT ${bareCpuMs.toFixed(2)} ms; bare ÷ save ${((bareCpuMs / saveCpuMs) * 100).toFixed(1)} %; ` +
@@ -356,21 +444,36 @@ try {
         .loadavg()
         .map((l) => l.toFixed(1))
         .join(' ')}; ` +
-      `this benchmark's own CPU ${(((own.user + own.system) / 1e6 / sat.wallS) * 100).toFixed(0)} % of a core; uploads finished ${up.done}, failed ${up.failed}`,
+      `this benchmark's own CPU ${(((own.user + own.system) / 1e6 / ownWallS) * 100).toFixed(0)} % of a core; uploads finished ${up.done}, failed ${up.failed}`,
   );
+  if (BEFORE) {
+    const was = median(rounds.get(subjects[1]!)!.map((x) => x.cpuMs));
+    console.log(
+      `CPU per save, medians of ${ROUNDS} alternating rounds: this build ${saveCpuMs.toFixed(2)} ms, before (${BEFORE}) ${was.toFixed(2)} ms; ` +
+        `this ÷ before ${(saveCpuMs / was).toFixed(2)} (rounds: ${mine.map((x) => x.cpuMs.toFixed(2)).join(', ')} against ${rounds
+          .get(subjects[1]!)!
+          .map((x) => x.cpuMs.toFixed(2))
+          .join(', ')})`,
+    );
+  }
   for (const [name, t] of [
     ['saturation', sat.t],
     ['open loop', open],
   ] as const)
     if (t.errors) console.log(`${name} errors: ${[...t.errorKinds].map(([k, n]) => `${k} × ${n}`).join(', ')}`);
-  console.log(
-    `acknowledged saves checked in the database: ${check.checked}, lost: ${check.lost}${check.problems.length ? `; ${check.problems.length} problems:` : ''}`,
-  );
-  for (const p of check.problems.slice(0, 10)) console.log(`  ${p}`);
+  for (const x of subjects) {
+    const check = checks.get(x)!;
+    console.log(
+      `${x.name}: acknowledged saves checked in the database: ${check.checked}, lost: ${check.lost}${check.problems.length ? `; ${check.problems.length} problems:` : ''}`,
+    );
+    for (const p of check.problems.slice(0, 10)) console.log(`  ${p}`);
+  }
+  const check = checks.get(current)!;
   const met = satRate >= 200 && quantile(open.latencies, 0.99) <= 200 && check.lost === 0 && !check.problems.length;
   console.log(`\ntarget (≥ 200 saves/s at saturation, open-loop p99 ≤ 200 ms, 0 lost): ${met ? 'met' : 'NOT met'}`);
 } finally {
   await server?.stop();
+  await before?.stop();
   await bare?.stop();
   if (args.keep) console.log(`kept ${dir}`);
   else cleanup();
