@@ -83,7 +83,7 @@ export function createMediaServices(d: MediaServicesDeps): MediaServices {
   const stills = stillsService(sharing);
   const summaries = summariesService({ ...sharing, stills, measures });
   const annotatedClips = annotatedClipsService(sharing);
-  const dataExports = dataExportsService({ db, store, processing, clock, brands });
+  const dataExports = dataExportsService({ db, store, processing, clock, brands, measures });
   const demoClips = demoClipsService({ db, store, processing, clock });
   return {
     store,
