@@ -17,10 +17,11 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { DemoClip, ExerciseDemonstrations } from '../../src/contracts/demonstrations';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { UPLOAD_TEMP_SUFFIX, uploadTempDir } from '../../server/storage/upload-temps';
-import { startPlanWith, storedExerciseFiles, uploadFile } from '../support/demonstrations';
+import { storedExerciseFiles, uploadFile } from '../support/demonstrations';
+import { startPlanWith } from '../support/plans';
 import { followProcessingEvents } from '../support/event-stream';
 import { OTHER, signedIn, makeTestApp, type Client, type TestApp } from '../support/test-app';
-import { ffmpegRun, ffprobeJson, makeClip, tempDir } from './media/fixtures';
+import { ffprobeJson, makeClip, tempDir } from './media/fixtures';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -35,31 +36,10 @@ let planned: number;
 let unplanned: number;
 let spare: number;
 
-/** 3 s of 1920×1080 at 60 frames/s with a 440 Hz tone, as a phone records it (MOV, AAC). */
-async function phoneClip(file: string, seconds: number, size = '1920x1080', rate = 60): Promise<string> {
-  await ffmpegRun([
-    '-f',
-    'lavfi',
-    '-i',
-    `testsrc2=size=${size}:rate=${rate}`,
-    '-f',
-    'lavfi',
-    '-i',
-    'sine=frequency=440:sample_rate=44100',
-    '-t',
-    String(seconds),
-    '-c:v',
-    'libx264',
-    '-preset',
-    'ultrafast',
-    '-pix_fmt',
-    'yuv420p',
-    '-c:a',
-    'aac',
-    '-shortest',
-    file,
-  ]);
-  return file;
+/** A clip as a phone records it (H.264 with an AAC tone), 1920×1080 at 60 frames/s unless said. */
+function phoneClip(file: string, seconds: number, size = '1920x1080', rate = 60): Promise<string> {
+  const [width, height] = size.split('x').map(Number) as [number, number];
+  return makeClip(file, { width, height, fps: rate, seconds, audio: true });
 }
 
 const upload = (client: Client, exerciseId: number, file: string, caption?: string) =>

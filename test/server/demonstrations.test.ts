@@ -13,7 +13,8 @@ import { PDFParse } from 'pdf-parse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { OTHER, signedIn, makeTestApp, type Client, type TestApp } from '../support/test-app';
-import { startPlanWith, storedExerciseFiles, uploadFile } from '../support/demonstrations';
+import { storedExerciseFiles, uploadFile } from '../support/demonstrations';
+import { startPlanWith } from '../support/plans';
 import { gifBomb, jpegDeclaring, markedJpeg, withExif } from '../support/pictures';
 import type { DemoPicture } from '../../src/contracts/demonstrations';
 
