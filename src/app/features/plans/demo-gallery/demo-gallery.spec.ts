@@ -43,6 +43,24 @@ describe('DemoGallery', () => {
   };
   afterEach(() => backend.verify());
 
+  it("says why the pictures could not be loaded, with Try again; a 404 (not on this athlete's plans) shows nothing", async () => {
+    backend
+      .expectOne('/api/exercises/4/demonstrations')
+      .flush({ error: { code: 'unavailable', message: 'The server is busy.' } }, { status: 503, statusText: 'Unavailable' });
+    await settle();
+    const alert = element.querySelector('[role="alert"]')!;
+    expect(alert.textContent).toContain("Couldn't load the pictures of Heel drop: The server is busy.");
+    alert.querySelector('button')!.click();
+    await wait(20);
+    fixture.detectChanges();
+    backend
+      .expectOne('/api/exercises/4/demonstrations')
+      .flush({ error: { code: 'not_found', message: 'Not found' } }, { status: 404, statusText: 'Not Found' });
+    await settle();
+    expect(element.querySelector('[role="alert"]')).toBeNull();
+    expect(element.querySelector('section')).toBeNull();
+  });
+
   it('shows nothing when the exercise has no pictures', async () => {
     backend.expectOne('/api/exercises/4/demonstrations').flush({ exerciseId: 4, pictures: [] });
     await settle();
