@@ -3,6 +3,7 @@ import { HttpTestingController, provideHttpClientTesting } from '@angular/common
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideFakeEventSource } from '../../core/fake-event-source';
 import { DataExportCard } from './data-export-card';
+import { flushApiError } from '../testing/api-errors';
 
 describe('DataExportCard', () => {
   let fixture: ComponentFixture<DataExportCard>;
@@ -39,9 +40,7 @@ describe('DataExportCard', () => {
 
   it('says why the exports could not be loaded and reads them again on Try again', async () => {
     open();
-    backend
-      .expectOne('/api/athletes/4/data-exports')
-      .flush({ error: { code: 'unavailable', message: 'The database is busy.' } }, { status: 503, statusText: 'Unavailable' });
+    flushApiError(backend.expectOne('/api/athletes/4/data-exports'), 503, 'The database is busy.');
     await settle();
     const alert = element.querySelector('[role="alert"]')!;
     expect(alert.textContent).toContain("Couldn't load the exports");

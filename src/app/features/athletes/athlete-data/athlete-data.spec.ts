@@ -7,6 +7,7 @@ import { of } from 'rxjs';
 import type { AthleteDataOverview } from '../../../../contracts/privacy';
 import { provideFakeEventSource } from '../../../core/fake-event-source';
 import { AthleteData } from './athlete-data';
+import { flushApiError, buttonWithText } from '../../../shared/testing/api-errors';
 
 const overview = (over: Partial<AthleteDataOverview> = {}): AthleteDataOverview => ({
   athleteId: 7,
@@ -59,9 +60,7 @@ describe('AthleteData', () => {
 
   it("gives the server's reason when the overview cannot be loaded, and Try again reads it again", async () => {
     open();
-    backend
-      .expectOne('/api/athletes/7/data')
-      .flush({ error: { code: 'not_found', message: 'No such athlete in this clinic.' } }, { status: 404, statusText: 'Not Found' });
+    flushApiError(backend.expectOne('/api/athletes/7/data'), 404, 'No such athlete in this clinic.');
     await settle();
     const alert = element.querySelector('[role="alert"]')!;
     expect(alert.textContent).toContain("Couldn't load the athlete's data");
@@ -80,16 +79,11 @@ describe('AthleteData', () => {
     await settle();
     backend.expectOne('/api/athletes/7/data-exports').flush({ exports: [] });
     vi.spyOn(TestBed.inject(MatDialog), 'open').mockReturnValue({ afterClosed: () => of(true) } as never);
-    const erase = [...element.querySelectorAll('button')].find((b) => b.textContent?.includes('Erase clips only'))!;
+    const erase = buttonWithText(element, 'Erase clips only');
     erase.click();
     await settle();
     expect(element.querySelector('mat-progress-bar[aria-label="Erasing the clips"]')).not.toBeNull();
-    backend
-      .expectOne('/api/athletes/7/clips/erasure')
-      .flush(
-        { error: { code: 'clip_busy', message: 'A clip is being processed; try again when it is done.' } },
-        { status: 409, statusText: 'Conflict' },
-      );
+    flushApiError(backend.expectOne('/api/athletes/7/clips/erasure'), 409, 'A clip is being processed; try again when it is done.');
     await settle();
     const alert = element.querySelector('.notice [role="alert"]')!;
     expect(alert.textContent).toContain("Couldn't erase the clips: A clip is being processed; try again when it is done.");

@@ -2,6 +2,7 @@ import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { RetentionCard } from './retention-card';
+import { flushApiError, buttonWithText } from '../../../shared/testing/api-errors';
 
 describe('RetentionCard', () => {
   let fixture: ComponentFixture<RetentionCard>;
@@ -37,12 +38,10 @@ describe('RetentionCard', () => {
 
   it('says why the setting could not be loaded, with Try again', async () => {
     open();
-    backend
-      .expectOne('/api/clinic/retention')
-      .flush({ error: { code: 'unavailable', message: 'The database is busy.' } }, { status: 503, statusText: 'Unavailable' });
+    flushApiError(backend.expectOne('/api/clinic/retention'), 503, 'The database is busy.');
     await settle();
     expect(element.querySelector('[role="alert"]')!.textContent).toContain('The database is busy.');
-    [...element.querySelectorAll('button')].find((b) => b.textContent?.includes('Try again'))!.click();
+    buttonWithText(element, 'Try again').click();
     await settle();
     backend.expectOne('/api/clinic/retention').flush({ months: null, review: null });
     await settle();
@@ -63,19 +62,14 @@ describe('RetentionCard', () => {
     expect(put.request.body).toEqual({ months: 500 });
     await settle();
     expect(element.querySelector('mat-progress-bar[aria-label="Saving the retention setting"]')).not.toBeNull();
-    put.flush(
-      { error: { code: 'validation', message: 'Invalid', details: [{ path: ['months'], message: 'At most 120 months.' }] } },
-      { status: 422, statusText: 'Unprocessable' },
-    );
+    flushApiError(put, 422, 'Invalid', { details: [{ path: ['months'], message: 'At most 120 months.' }] });
     await settle();
     expect(element.querySelector('mat-hint[role="alert"]')!.textContent).toContain('At most 120 months.');
     expect(input().value).toBe('500');
     expect(input().disabled).toBe(false);
 
-    [...element.querySelectorAll('button')].find((b) => b.textContent?.includes('Check now'))!.click();
-    backend
-      .expectOne({ method: 'POST', url: '/api/clinic/retention/reviews' })
-      .flush({ error: { code: 'unavailable', message: 'The check is already running.' } }, { status: 409, statusText: 'Conflict' });
+    buttonWithText(element, 'Check now').click();
+    flushApiError(backend.expectOne({ method: 'POST', url: '/api/clinic/retention/reviews' }), 409, 'The check is already running.');
     await settle();
     expect(element.querySelector('p.problem[role="alert"]')!.textContent).toContain('The check is already running.');
     expect(input().value).toBe('500');

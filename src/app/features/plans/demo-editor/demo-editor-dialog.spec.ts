@@ -5,6 +5,7 @@ import { MAT_DIALOG_DATA } from '@angular/material/dialog';
 import type { Exercise } from '../../../../contracts/plans';
 import { provideFakeEventSource } from '../../../core/fake-event-source';
 import { DemoEditorDialog } from './demo-editor-dialog';
+import { flushApiError, buttonWithText } from '../../../shared/testing/api-errors';
 
 const exercise = { id: 4, name: 'Heel drop' } as Exercise;
 
@@ -32,7 +33,7 @@ describe('DemoEditorDialog', () => {
     await new Promise((r) => setTimeout(r, 20));
     fixture.detectChanges();
   };
-  const button = (text: string) => [...element.querySelectorAll('button')].find((b) => b.textContent?.includes(text))!;
+  const button = (text: string) => buttonWithText(element, text);
   afterEach(() => backend.verify());
 
   it('shows a loading bar, then says there are no pictures yet and how to add them', async () => {
@@ -47,9 +48,7 @@ describe('DemoEditorDialog', () => {
   });
 
   it("gives the server's reason when the pictures cannot be loaded, offers Try again, and adds nothing meanwhile", async () => {
-    backend
-      .expectOne('/api/exercises/4/demonstrations')
-      .flush({ error: { code: 'unavailable', message: 'The server is busy.' } }, { status: 503, statusText: 'Unavailable' });
+    flushApiError(backend.expectOne('/api/exercises/4/demonstrations'), 503, 'The server is busy.');
     await settle();
     const alert = element.querySelector('app-error-state')!;
     expect(alert.textContent).toContain("Couldn't load the pictures and clip");
