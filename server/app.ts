@@ -12,6 +12,7 @@ import { staffService } from './staff/staff-service';
 import { clientAppRoutes } from './http/client-app';
 import { securityHeaders } from './http/security-headers';
 import { accessLog } from './http/access-log';
+import { routesByPrefix } from './http/routes-by-prefix';
 import { createPassport } from './auth/passport-setup';
 import { signInGuard } from './auth/sign-in-guard';
 import { authRoutes } from './auth/auth.routes';
@@ -261,39 +262,40 @@ export function createApp(deps: AppDeps): App {
     };
     res.json(body);
   });
-  api.use(authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, signInGuard: guard, resetLimiter, clock }));
-  api.use(staffRoutes({ db, invitations, staff: staffService({ db, clock, revocations }) }));
-  api.use(athletesRoutes(athletes));
-  api.use(assessmentsRoutes(assessments));
-  api.use(processingEventsRoutes({ db, processing, relay, revocations }));
-  api.use(clipsRoutes({ db, clips, store, temps, logger, uploadMaxBytes: config.uploadMaxBytes }));
-  api.use(clipUploadsRoutes({ clips, uploads: resumable, uploadMaxBytes: config.uploadMaxBytes }));
-  api.use(annotationsRoutes(annotations));
-  api.use(followRoutes(follow));
-  api.use(measuresRoutes({ db, measures }));
-  api.use(comparisonRoutes(comparisonService({ db, measures })));
-  api.use(plansRoutes({ exercises, plans }));
-  api.use(stillsRoutes(stills, store));
-  api.use(summariesRoutes(summaries, store));
-  api.use(annotatedClipsRoutes(annotatedClips, store));
+  // Each request walks only the routers with routes under its first path segment (http/routes-by-prefix.ts).
   api.use(
-    privacyRoutes({
-      exports: dataExports,
-      data: athleteDataService({ db, store, processing, clips, revocations, clock, partialUploads: resumable }),
-      retention,
-      store,
-    }),
-  );
-  api.use(portalSharedRoutes({ stills, summaries }));
-  api.use(billingRoutes(billing));
-  api.use(clinicRoutes(clinicService({ db, clock, store, pictures })));
-  api.use(
-    demonstrationsRoutes({
-      demos: demonstrationsService({ db, store, pictures, clips: demoClips, clock }),
-      clips: demoClips,
-      store,
-      upload: { temps, logger, uploadMaxBytes: config.uploadMaxBytes },
-    }),
+    routesByPrefix([
+      authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, signInGuard: guard, resetLimiter, clock }),
+      staffRoutes({ db, invitations, staff: staffService({ db, clock, revocations }) }),
+      athletesRoutes(athletes),
+      assessmentsRoutes(assessments),
+      processingEventsRoutes({ db, processing, relay, revocations }),
+      clipsRoutes({ db, clips, store, temps, logger, uploadMaxBytes: config.uploadMaxBytes }),
+      clipUploadsRoutes({ clips, uploads: resumable, uploadMaxBytes: config.uploadMaxBytes }),
+      annotationsRoutes(annotations),
+      followRoutes(follow),
+      measuresRoutes({ db, measures }),
+      comparisonRoutes(comparisonService({ db, measures })),
+      plansRoutes({ exercises, plans }),
+      stillsRoutes(stills, store),
+      summariesRoutes(summaries, store),
+      annotatedClipsRoutes(annotatedClips, store),
+      privacyRoutes({
+        exports: dataExports,
+        data: athleteDataService({ db, store, processing, clips, revocations, clock, partialUploads: resumable }),
+        retention,
+        store,
+      }),
+      portalSharedRoutes({ stills, summaries }),
+      billingRoutes(billing),
+      clinicRoutes(clinicService({ db, clock, store, pictures })),
+      demonstrationsRoutes({
+        demos: demonstrationsService({ db, store, pictures, clips: demoClips, clock }),
+        clips: demoClips,
+        store,
+        upload: { temps, logger, uploadMaxBytes: config.uploadMaxBytes },
+      }),
+    ]),
   );
   api.use(apiNotFound);
 

@@ -72,15 +72,16 @@ function stopper(child: ChildProcess): () => Promise<void> {
  * Builds the server bundle and runs it with plain Node, as `npm start` does, on a free port with
  * the default log level (its log goes to `dir/server.log`, written by the server itself, so
  * reading it costs the benchmark nothing). Demo mode, with the fake mail and payment services on
- * free ports.
+ * free ports. `bundle`: another build of the server to run instead (e.g. an earlier one, side by side).
  */
 export async function startBundledServer(
   dir: string,
   dbFile: string,
   env: Record<string, string> = {},
   nodeArgs: string[] = [],
+  bundle = SERVER_BUNDLE,
 ): Promise<BenchProcess> {
-  await buildServer();
+  if (bundle === SERVER_BUNDLE) await buildServer();
   const log = path.join(dir, 'server.log');
   const fd = fs.openSync(log, 'a');
   // BENCH_CPU_PROF=dir writes the server's CPU profile there when it stops (node --cpu-prof).
@@ -94,7 +95,7 @@ export async function startBundledServer(
     ];
   if (process.env['BENCH_NODE_ARGS']) nodeArgs = [...nodeArgs, ...process.env['BENCH_NODE_ARGS'].split(' ')];
   if (process.env['BENCH_NODE_IMPORT']) nodeArgs = [...nodeArgs, `--import=${process.env['BENCH_NODE_IMPORT']}`];
-  const child = spawn(process.execPath, ['--enable-source-maps', ...nodeArgs, SERVER_BUNDLE], {
+  const child = spawn(process.execPath, ['--enable-source-maps', ...nodeArgs, bundle], {
     stdio: ['ignore', fd, fd],
     env: {
       ...process.env,
