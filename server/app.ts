@@ -8,6 +8,8 @@ import type { Mailer } from './mail/mailer';
 import { AppError, apiNotFound, errorHandler } from './errors';
 import { createCsrf } from './http/csrf';
 import { createSessions, inProcessRevocations } from './http/sessions';
+import { signedInSessions } from './http/signed-in';
+import { usersRepository } from './auth/users-repository';
 import { staffService } from './staff/staff-service';
 import { clientAppRoutes } from './http/client-app';
 import { securityHeaders } from './http/security-headers';
@@ -158,12 +160,19 @@ export function createApp(deps: AppDeps): App {
   });
 
   const sessions = createSessions({ db, secret: config.sessionSecret, secureCookies: config.secureCookies, clock, logger });
-  api.use(sessions.middleware);
   const passport = createPassport(db);
-  // No `req._passport` for passport 0.4 strategies: ours are the ones shipped with passport 0.7.
-  api.use(passport.initialize({ compat: false }));
-  api.use(passport.session());
-  api.use(sessions.extend);
+  // express-session, passport.session() and the extension, with a short way for signed-in reads. No
+  // passport.initialize(): passport.session() sets the same request helpers (req.login, req.logout…),
+  // and we need no `req._passport` for passport 0.4 strategies.
+  api.use(
+    signedInSessions({
+      sessions,
+      passportSession: passport.session(),
+      passport,
+      sessionUser: usersRepository.sessionUserReader(db),
+      logger,
+    }),
+  );
 
   const csrf = createCsrf(config.secureCookies, config.sessionSecret);
   api.use(csrf.ensureCookie);
