@@ -132,7 +132,7 @@ export function createApp(deps: AppDeps): App {
     payments: deps.payments !== undefined ? deps.payments : config.payments ? stripePayments(config.payments) : null,
   });
   // The payment webhook reads its RAW body (signature) and is CSRF-exempt: mounted before both.
-  api.use(billingWebhookRoutes(billing));
+  api.use(routesByPrefix([billingWebhookRoutes(billing)]));
   // Annotations of a long clip can be large; every other body is small.
   const smallJson = express.json({ limit: '200kb', strict: true });
   const largeJson = express.json({ limit: '8mb', strict: true });
