@@ -19,7 +19,8 @@ interface RouterLike {
  * given, instead of walking every router's every route. A router with a middleware of its own
  * (`router.use`) or a route whose first segment is a parameter or a pattern sees every request, as
  * when mounted directly; so does every router when the index finds nothing for a segment. The
- * index is built at the first request, once every route is declared.
+ * index is built at the first request, once every route is declared. Like a Router, it lists what
+ * it mounts in `stack` (one layer per router), so code that walks the mounted routes finds them.
  */
 export function routesByPrefix(routers: Router[]): RequestHandler {
   const all = routers as unknown as RouterLike[];
@@ -46,7 +47,7 @@ export function routesByPrefix(routers: Router[]): RequestHandler {
     }
     return bySegment;
   };
-  return (req, res, next) => {
+  const dispatch = (req: Request, res: Response, next: NextFunction): void => {
     index ??= build();
     const path = req.path;
     const end = path.indexOf('/', 1);
@@ -61,4 +62,6 @@ export function routesByPrefix(routers: Router[]): RequestHandler {
     };
     step();
   };
+  // Its routers as layers, as a Router lists what it mounts: what walks the mounted routes still finds them.
+  return Object.assign(dispatch, { stack: all.map((router) => ({ handle: router })) });
 }
