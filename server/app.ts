@@ -8,10 +8,13 @@ import type { Mailer } from './mail/mailer';
 import { AppError, apiNotFound, errorHandler } from './errors';
 import { createCsrf } from './http/csrf';
 import { createSessions, inProcessRevocations } from './http/sessions';
+import { signedInSessions } from './http/signed-in';
+import { usersRepository } from './auth/users-repository';
 import { staffService } from './staff/staff-service';
 import { clientAppRoutes } from './http/client-app';
 import { securityHeaders } from './http/security-headers';
 import { accessLog } from './http/access-log';
+import { routesByPrefix } from './http/routes-by-prefix';
 import { createPassport } from './auth/passport-setup';
 import { signInGuard } from './auth/sign-in-guard';
 import { authRoutes } from './auth/auth.routes';
@@ -129,7 +132,7 @@ export function createApp(deps: AppDeps): App {
     payments: deps.payments !== undefined ? deps.payments : config.payments ? stripePayments(config.payments) : null,
   });
   // The payment webhook reads its RAW body (signature) and is CSRF-exempt: mounted before both.
-  api.use(billingWebhookRoutes(billing));
+  api.use(routesByPrefix([billingWebhookRoutes(billing)]));
   // Annotations of a long clip can be large; every other body is small.
   const smallJson = express.json({ limit: '200kb', strict: true });
   const largeJson = express.json({ limit: '8mb', strict: true });
@@ -157,12 +160,19 @@ export function createApp(deps: AppDeps): App {
   });
 
   const sessions = createSessions({ db, secret: config.sessionSecret, secureCookies: config.secureCookies, clock, logger });
-  api.use(sessions.middleware);
   const passport = createPassport(db);
-  // No `req._passport` for passport 0.4 strategies: ours are the ones shipped with passport 0.7.
-  api.use(passport.initialize({ compat: false }));
-  api.use(passport.session());
-  api.use(sessions.extend);
+  // express-session, passport.session() and the extension, with a short way for signed-in reads. No
+  // passport.initialize(): passport.session() sets the same request helpers (req.login, req.logout…),
+  // and we need no `req._passport` for passport 0.4 strategies.
+  api.use(
+    signedInSessions({
+      sessions,
+      passportSession: passport.session(),
+      passport,
+      sessionUser: usersRepository.sessionUserReader(db),
+      logger,
+    }),
+  );
 
   const csrf = createCsrf(config.secureCookies, config.sessionSecret);
   api.use(csrf.ensureCookie);
@@ -261,39 +271,40 @@ export function createApp(deps: AppDeps): App {
     };
     res.json(body);
   });
-  api.use(authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, signInGuard: guard, resetLimiter, clock }));
-  api.use(staffRoutes({ db, invitations, staff: staffService({ db, clock, revocations }) }));
-  api.use(athletesRoutes(athletes));
-  api.use(assessmentsRoutes(assessments));
-  api.use(processingEventsRoutes({ db, processing, relay, revocations }));
-  api.use(clipsRoutes({ db, clips, store, temps, logger, uploadMaxBytes: config.uploadMaxBytes }));
-  api.use(clipUploadsRoutes({ clips, uploads: resumable, uploadMaxBytes: config.uploadMaxBytes }));
-  api.use(annotationsRoutes(annotations));
-  api.use(followRoutes(follow));
-  api.use(measuresRoutes({ db, measures }));
-  api.use(comparisonRoutes(comparisonService({ db, measures })));
-  api.use(plansRoutes({ exercises, plans }));
-  api.use(stillsRoutes(stills, store));
-  api.use(summariesRoutes(summaries, store));
-  api.use(annotatedClipsRoutes(annotatedClips, store));
+  // Each request walks only the routers with routes under its first path segment (http/routes-by-prefix.ts).
   api.use(
-    privacyRoutes({
-      exports: dataExports,
-      data: athleteDataService({ db, store, processing, clips, revocations, clock, partialUploads: resumable }),
-      retention,
-      store,
-    }),
-  );
-  api.use(portalSharedRoutes({ stills, summaries }));
-  api.use(billingRoutes(billing));
-  api.use(clinicRoutes(clinicService({ db, clock, store, pictures })));
-  api.use(
-    demonstrationsRoutes({
-      demos: demonstrationsService({ db, store, pictures, clips: demoClips, clock }),
-      clips: demoClips,
-      store,
-      upload: { temps, logger, uploadMaxBytes: config.uploadMaxBytes },
-    }),
+    routesByPrefix([
+      authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, signInGuard: guard, resetLimiter, clock }),
+      staffRoutes({ db, invitations, staff: staffService({ db, clock, revocations }) }),
+      athletesRoutes(athletes),
+      assessmentsRoutes(assessments),
+      processingEventsRoutes({ db, processing, relay, revocations }),
+      clipsRoutes({ db, clips, store, temps, logger, uploadMaxBytes: config.uploadMaxBytes }),
+      clipUploadsRoutes({ clips, uploads: resumable, uploadMaxBytes: config.uploadMaxBytes }),
+      annotationsRoutes(annotations),
+      followRoutes(follow),
+      measuresRoutes({ db, measures }),
+      comparisonRoutes(comparisonService({ db, measures })),
+      plansRoutes({ exercises, plans }),
+      stillsRoutes(stills, store),
+      summariesRoutes(summaries, store),
+      annotatedClipsRoutes(annotatedClips, store),
+      privacyRoutes({
+        exports: dataExports,
+        data: athleteDataService({ db, store, processing, clips, revocations, clock, partialUploads: resumable }),
+        retention,
+        store,
+      }),
+      portalSharedRoutes({ stills, summaries }),
+      billingRoutes(billing),
+      clinicRoutes(clinicService({ db, clock, store, pictures })),
+      demonstrationsRoutes({
+        demos: demonstrationsService({ db, store, pictures, clips: demoClips, clock }),
+        clips: demoClips,
+        store,
+        upload: { temps, logger, uploadMaxBytes: config.uploadMaxBytes },
+      }),
+    ]),
   );
   api.use(apiNotFound);
 

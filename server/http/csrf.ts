@@ -80,6 +80,8 @@ export function createCsrf(secureCookies: boolean, sessionSecret: string): Csrf 
 
   return {
     protect: (req, res, next) => {
+      // Reads change nothing and carry no token (csrf-csrf ignores GET, HEAD and OPTIONS too).
+      if (req.method === 'GET' || req.method === 'HEAD' || req.method === 'OPTIONS') return next();
       withCookie(req);
       doubleCsrfProtection(req, res, next);
     },

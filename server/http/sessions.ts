@@ -23,15 +23,16 @@ export const EXTEND_EVERY_MS = 5 * 60_000;
 const CLEANUP_EVERY_MS = 15 * 60_000;
 
 /** A session row as kept: its data (JSON) and when it expires (ISO time), or none. */
-type SessionRow = { sess: string; expired: string } | undefined;
+export type SessionRow = { sess: string; expired: string } | undefined;
 
 /**
- * The session store in `sessions`: never writes on a plain touch (see {@link createSessions}), and
+ * The session store in `sessions`: has no touch (see {@link createSessions}), and
  * reads a session (every signed-in request does) with one prepared statement, its row kept in
  * memory until the identity tables change ({@link identityCache}).
  */
-class SessionStore extends ConnectSessionKnexStore {
-  private readonly readSession: (sid: string) => Promise<SessionRow>;
+export class SessionStore extends ConnectSessionKnexStore {
+  /** The session row of `sid` (kept in memory until the identity tables change), or undefined. */
+  readonly readSession: (sid: string) => Promise<SessionRow>;
   private readonly db: Knex;
 
   constructor(options: ConstructorParameters<typeof ConnectSessionKnexStore>[0] & { knex: Knex }) {
@@ -74,16 +75,24 @@ class SessionStore extends ConnectSessionKnexStore {
       throw err;
     }
   }
-
-  override async touch(_sid: string, _session: SessionData, callback?: () => void): Promise<void> {
-    callback?.();
-  }
 }
+/**
+ * No `touch` at all (the library's would rewrite the row): express-session then ends the response
+ * of a request that left its session unchanged directly, instead of holding the body back for a
+ * touch (one extra write of all but its last byte, one more hash of the session).
+ */
+Object.defineProperty(SessionStore.prototype, 'touch', { value: undefined });
 
 /** Sessions of the app: middleware, extension of signed-in sessions, cleanup of expired rows. */
 export interface Sessions {
   /** express-session with the quiet store. */
   middleware: RequestHandler;
+  /** The store express-session reads and writes through. */
+  store: SessionStore;
+  /** The secret session cookies are signed with. */
+  secret: string;
+  /** The app clock. */
+  clock: () => Date;
   /** Moves a signed-in session's expiry on when it was last moved over {@link EXTEND_EVERY_MS} ago (mount after passport.session()). */
   extend: RequestHandler;
   /** Deletes expired rows; answers how many. Also runs at start and every 15 minutes. */
@@ -126,6 +135,9 @@ export function createSessions(d: {
   timer.unref();
   return {
     middleware,
+    store,
+    secret: d.secret,
+    clock: d.clock,
     extend: (req, _res, next) => {
       if (req.user && req.session) {
         const now = d.clock().getTime();

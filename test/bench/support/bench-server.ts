@@ -72,7 +72,7 @@ function stopper(child: ChildProcess): () => Promise<void> {
  * Builds the server bundle (unless another `bundle` is given) and runs it with plain Node, as `npm start` does, on a free port with
  * the default log level (its log goes to `dir/server.log`, written by the server itself, so
  * reading it costs the benchmark nothing). Demo mode, with the fake mail and payment services on
- * free ports.
+ * free ports. `bundle`: another build of the server to run instead (e.g. an earlier one, side by side).
  */
 export async function startBundledServer(
   dir: string,
