@@ -3,7 +3,12 @@
  * connections against a bare Express JSON handler, measured side by side in one run with `wrk`.
  * Target: ≥ 30 % of bare Express req/s, p99 ≤ 50 ms, 0 errors. Prints figures; not a timed test.
  *
- *   npx tsx test/bench/reads.ts [--seconds 10] [--rounds 3] [--connections 50] [--sessions 50] [--keep]
+ *   npx tsx test/bench/reads.ts [--seconds 10] [--rounds 3] [--connections 50] [--sessions 50] [--postgres] [--keep]
+ *
+ * `--postgres`: besides the one server on SQLite, two servers on a private PostgreSQL server
+ * (`scripts/postgres-server.ts`) read the same scenario in the same rounds, the connections split
+ * between two wrk processes, one per server; their CPU per request counts both web processes and
+ * PostgreSQL's own processes (also shown alone).
  *
  * The server is the `npm start` bundle on plain Node (default log level, its log to a file) over a
  * temp database with the demo scenario; the assessment read gets three uploaded clips first.
@@ -11,11 +16,13 @@
  * over `--sessions` signed-in sessions of the demo's owner and coaches. wrk comes from Debian: it
  * is installed with apt-get when missing (as root).
  */
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { startBenchPostgres, startWebPair, type BenchPostgres } from './support/bench-postgres';
 import {
   benchDir,
   cpuSeconds,
@@ -37,6 +44,7 @@ const { values: args } = parseArgs({
     rounds: { type: 'string', default: '3' },
     connections: { type: 'string', default: '50' },
     sessions: { type: 'string', default: '50' },
+    postgres: { type: 'boolean', default: false },
     keep: { type: 'boolean', default: false },
   },
 });
@@ -68,29 +76,26 @@ interface WrkResult {
   /** What the errors were: non-2xx answers and wrk's socket errors by kind (timeouts are answers over 2 s). */
   errorKinds: string;
   serverCpuS: number;
+  /** CPU seconds PostgreSQL's processes used meanwhile (0 on SQLite: the server process holds the database). */
+  dbCpuS: number;
 }
 
 const toMs = (value: string, unit: string) => Number(value) * ({ us: 0.001, ms: 1, s: 1000, m: 60_000 } as Record<string, number>)[unit]!;
 
-/** Runs wrk against `url`, rotating the session cookies (Lua), and parses its report. */
-function wrk(url: string, cookies: string[], dir: string, target: BenchProcess): WrkResult {
-  const script = path.join(dir, 'rotate.lua');
-  fs.writeFileSync(
-    script,
-    [
-      `local cookies = { ${cookies.map((c) => JSON.stringify(c)).join(', ')} }`,
-      'local i = 0',
-      'request = function()',
-      '  i = i + 1',
-      `  return wrk.format(nil, nil, { ["Cookie"] = cookies[(i % #cookies) + 1] })`,
-      'end',
-    ].join('\n'),
-  );
-  const cpu0 = cpuSeconds(target.pid);
-  const r = spawnSync('wrk', ['-t2', `-c${CONNECTIONS}`, `-d${SECONDS}s`, '--latency', '-s', script, url], { encoding: 'utf8' });
-  const cpu = cpuSeconds(target.pid) - cpu0;
-  if (r.status !== 0) throw new Error(`wrk failed: ${r.stderr}`);
-  const out = r.stdout;
+/** One wrk process against `url` with `connections` and `threads`, rotating the session cookies (Lua); answers its report. */
+function wrkProcess(url: string, script: string, connections: number, threads: number): Promise<string> {
+  return new Promise((resolve, reject) => {
+    const child = spawn('wrk', [`-t${threads}`, `-c${connections}`, `-d${SECONDS}s`, '--latency', '-s', script, url]);
+    let out = '';
+    let err = '';
+    child.stdout.on('data', (c: Buffer) => (out += c.toString()));
+    child.stderr.on('data', (c: Buffer) => (err += c.toString()));
+    child.on('close', (code) => (code === 0 ? resolve(out) : reject(new Error(`wrk failed: ${err}`))));
+  });
+}
+
+/** The figures of one wrk report. */
+function parseWrk(out: string): Omit<WrkResult, 'serverCpuS' | 'dbCpuS'> {
   const lat = (pct: string) => {
     const m = new RegExp(`^\\s*${pct}%\\s+([\\d.]+)(us|ms|s|m)\\s*$`, 'm').exec(out);
     return m ? toMs(m[1]!, m[2]!) : NaN;
@@ -109,24 +114,70 @@ function wrk(url: string, cookies: string[], dir: string, target: BenchProcess):
     ]
       .filter(Boolean)
       .join(', '),
-    serverCpuS: cpu,
+  };
+}
+
+/**
+ * Runs wrk against `path` on every target at once, the connections split evenly (one wrk process
+ * each, the two threads shared out), rotating the session cookies. Rates and counts add up; the
+ * median is the requests-weighted mean of the processes' medians, the p99 the worst of theirs.
+ */
+async function wrk(
+  targets: BenchProcess[],
+  p: string,
+  cookies: string[],
+  dir: string,
+  pg: BenchPostgres | null = null,
+): Promise<WrkResult> {
+  const script = path.join(dir, 'rotate.lua');
+  fs.writeFileSync(
+    script,
+    [
+      `local cookies = { ${cookies.map((c) => JSON.stringify(c)).join(', ')} }`,
+      'local i = 0',
+      'request = function()',
+      '  i = i + 1',
+      `  return wrk.format(nil, nil, { ["Cookie"] = cookies[(i % #cookies) + 1] })`,
+      'end',
+    ].join('\n'),
+  );
+  const cpu = () => targets.reduce((a, t) => a + cpuSeconds(t.pid), 0);
+  const cpu0 = cpu();
+  const db0 = pg?.cpuSeconds() ?? 0;
+  const threads = Math.max(1, Math.floor(2 / targets.length));
+  const outs = await Promise.all(targets.map((t) => wrkProcess(`${t.url}${p}`, script, Math.round(CONNECTIONS / targets.length), threads)));
+  const serverCpuS = cpu() - cpu0;
+  const dbCpuS = (pg?.cpuSeconds() ?? 0) - db0;
+  const parts = outs.map(parseWrk);
+  const requests = parts.reduce((a, r) => a + r.requests, 0);
+  return {
+    rps: parts.reduce((a, r) => a + r.rps, 0),
+    p50: parts.reduce((a, r) => a + r.p50 * r.requests, 0) / Math.max(1, requests),
+    p99: Math.max(...parts.map((r) => r.p99)),
+    requests,
+    errors: parts.reduce((a, r) => a + r.errors, 0),
+    errorKinds: parts
+      .map((r) => r.errorKinds)
+      .filter(Boolean)
+      .join('; '),
+    serverCpuS,
+    dbCpuS,
   };
 }
 
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
 const f = (n: number, d = 0) => n.toFixed(d);
 
-ensureWrk();
-const { dir, cleanup } = benchDir('reads');
-let server: BenchProcess | null = null;
-let bare: BenchProcess | null = null;
-try {
-  process.stdout.write('seeding the demo scenario… ');
-  const dbFile = await seedDemo(dir);
-  server = await startBundledServer(dir, dbFile);
-  bare = await startBareExpress(dir);
-  console.log(`server ${server.url}, bare Express ${bare.url}`);
+/** What a database's servers read: signed-in cookies, the demo assessment with three ready clips, the roster's size. */
+interface Prepared {
+  cookies: string[];
+  assessmentId: number;
+  athletes: number;
+  sizes: { athletes: number; assessment: number };
+}
 
+/** Signs `SESSIONS` sessions in on the first server (sessions live in the database), uploads three clips and waits for them. */
+async function prepare(server: BenchProcess, dir: string): Promise<Prepared> {
   const staff = DEMO_SIGN_INS.filter((s) => s.role !== 'athlete');
   const sessions: Session[] = [];
   for (let i = 0; i < SESSIONS; i++) {
@@ -143,91 +194,132 @@ try {
     `/api/athletes/${ada.id}/assessments`,
   );
   const assessmentId = visits.body.assessments.find((a) => a.kind === 'baseline')!.id;
-  const clip = makeClip(path.join(dir, 'clip.mp4'), { width: 320, height: 180, fps: 30, seconds: 1 });
+  const clip = path.join(dir, 'clip.mp4');
+  if (!fs.existsSync(clip)) makeClip(clip, { width: 320, height: 180, fps: 30, seconds: 1 });
   const clipIds = [];
   for (let i = 0; i < 3; i++) clipIds.push(await uploadClip(server.url, s0, assessmentId, clip));
   await waitReady(server.url, s0, clipIds);
-  const athletesUrl = `${server.url}/api/athletes`;
-  const assessmentUrl = `${server.url}/api/assessments/${assessmentId}`;
-  const sizes = {
-    athletes: (await sessionJson(server.url, s0, 'GET', '/api/athletes')).body,
-    assessment: (await sessionJson(server.url, s0, 'GET', `/api/assessments/${assessmentId}`)).body,
+  const size = async (p: string) => JSON.stringify((await sessionJson(server.url, s0, 'GET', p)).body).length;
+  return {
+    cookies: sessions.map((s) => s.cookie),
+    assessmentId,
+    athletes: roster.body.athletes.length,
+    sizes: { athletes: await size('/api/athletes'), assessment: await size(`/api/assessments/${assessmentId}`) },
   };
+}
+
+const IDLE_SECONDS = 5;
+
+/** CPU the servers use over {@link IDLE_SECONDS} with no request, in % of one core. */
+async function idleCpu(server: BenchProcess, pair: BenchProcess[], pg: BenchPostgres | null) {
+  const pairCpu = () => pair.reduce((a, p) => a + cpuSeconds(p.pid), 0);
+  const [s0, p0, g0] = [cpuSeconds(server.pid), pairCpu(), pg?.cpuSeconds() ?? 0];
+  await new Promise((r) => setTimeout(r, IDLE_SECONDS * 1000));
+  const pct = (d: number) => (d / IDLE_SECONDS) * 100;
+  return { sqlite: pct(cpuSeconds(server.pid) - s0), pair: pct(pairCpu() - p0), pg: pct((pg?.cpuSeconds() ?? 0) - g0) };
+}
+
+type Kind = 'bare' | 'athletes' | 'assessment' | 'athletesPg' | 'assessmentPg';
+
+ensureWrk();
+const { dir, cleanup } = benchDir('reads');
+let server: BenchProcess | null = null;
+let bare: BenchProcess | null = null;
+let pg: BenchPostgres | null = null;
+let pair: BenchProcess[] = [];
+try {
+  process.stdout.write('seeding the demo scenario… ');
+  const dbFile = await seedDemo(dir);
+  server = await startBundledServer(dir, dbFile);
+  bare = await startBareExpress(dir);
+  console.log(`server ${server.url}, bare Express ${bare.url}`);
+  const lite = await prepare(server, dir);
+  let onPg: Prepared | null = null;
+  if (args.postgres) {
+    process.stdout.write('PostgreSQL: seeding the demo scenario… ');
+    pg = await startBenchPostgres(dir);
+    pair = await startWebPair(dir, pg);
+    console.log(`servers ${pair.map((p) => p.url).join(' and ')}`);
+    onPg = await prepare(pair[0]!, dir);
+  }
   console.log(
-    `${roster.body.athletes.length} athletes (${JSON.stringify(sizes.athletes).length} B), assessment with ${clipIds.length} clips ` +
-      `(${JSON.stringify(sizes.assessment).length} B); ${SESSIONS} sessions; wrk -c${CONNECTIONS} ${SECONDS} s × ${ROUNDS} rounds; ${process.platform} ${process.arch}, ` +
-      `${(await import('node:os')).cpus().length} cores, Node ${process.version}`,
+    `${lite.athletes} athletes (${lite.sizes.athletes} B), assessment with 3 clips ` +
+      `(${lite.sizes.assessment} B); ${SESSIONS} sessions; wrk -c${CONNECTIONS} ${SECONDS} s × ${ROUNDS} rounds; ${process.platform} ${process.arch}, ` +
+      `${os.cpus().length} cores, Node ${process.version}` +
+      (onPg ? `; on PostgreSQL ${onPg.sizes.athletes} B and ${onPg.sizes.assessment} B` : ''),
   );
 
-  const runs: Record<'bare' | 'athletes' | 'assessment', WrkResult[]> = { bare: [], athletes: [], assessment: [] };
+  // What the servers spend with no request at all (timers, the worker's queue polling, PostgreSQL's own), in % of a core.
+  const idle = await idleCpu(server, pair, pg);
+  console.log(
+    `idle CPU over ${IDLE_SECONDS} s: SQLite server ${f(idle.sqlite, 1)} % of a core` +
+      (onPg ? `; PostgreSQL web servers ${f(idle.pair, 1)} %, PostgreSQL itself ${f(idle.pg, 1)} %` : ''),
+  );
+
+  const runs: Record<Kind, WrkResult[]> = { bare: [], athletes: [], assessment: [], athletesPg: [], assessmentPg: [] };
+  const kinds: Kind[] = onPg ? ['bare', 'athletes', 'assessment', 'athletesPg', 'assessmentPg'] : ['bare', 'athletes', 'assessment'];
   for (let round = 1; round <= ROUNDS; round++) {
-    runs.bare.push(
-      wrk(
-        `${bare.url}/api/bare`,
-        sessions.map((s) => s.cookie),
-        dir,
-        bare,
-      ),
-    );
-    runs.athletes.push(
-      wrk(
-        athletesUrl,
-        sessions.map((s) => s.cookie),
-        dir,
-        server,
-      ),
-    );
-    runs.assessment.push(
-      wrk(
-        assessmentUrl,
-        sessions.map((s) => s.cookie),
-        dir,
-        server,
-      ),
-    );
-    const line = (k: keyof typeof runs) => {
+    runs.bare.push(await wrk([bare], '/api/bare', lite.cookies, dir));
+    runs.athletes.push(await wrk([server], '/api/athletes', lite.cookies, dir));
+    runs.assessment.push(await wrk([server], `/api/assessments/${lite.assessmentId}`, lite.cookies, dir));
+    if (onPg) {
+      runs.athletesPg.push(await wrk(pair, '/api/athletes', onPg.cookies, dir, pg));
+      runs.assessmentPg.push(await wrk(pair, `/api/assessments/${onPg.assessmentId}`, onPg.cookies, dir, pg));
+    }
+    const line = (k: Kind) => {
       const r = runs[k].at(-1)!;
       return `${k} ${f(r.rps)} req/s p50 ${f(r.p50, 1)} p99 ${f(r.p99, 1)} ms err ${r.errors}${r.errors ? ` (${r.errorKinds})` : ''}`;
     };
-    console.log(`round ${round}: ${line('bare')} | ${line('athletes')} | ${line('assessment')}`);
+    console.log(`round ${round}: ${kinds.map(line).join(' | ')}`);
   }
 
-  const summary = (k: keyof typeof runs) => {
+  const summary = (k: Kind) => {
     const rs = runs[k];
     const mid = [...rs].sort((a, b) => a.rps - b.rps)[Math.floor(rs.length / 2)]!;
     return { ...mid, p99: median(rs.map((r) => r.p99)), errors: rs.reduce((a, r) => a + r.errors, 0) };
   };
   const b = summary('bare');
-  /** Server CPU per request (µs) of a kind, over all its rounds (steadier than one round's). */
-  const cpuUs = (k: keyof typeof runs) =>
-    (runs[k].reduce((a, r) => a + r.serverCpuS, 0) /
-      Math.max(
-        1,
-        runs[k].reduce((a, r) => a + r.requests, 0),
-      )) *
-    1e6;
+  const allRequests = (k: Kind) =>
+    Math.max(
+      1,
+      runs[k].reduce((a, r) => a + r.requests, 0),
+    );
+  /** Server-side CPU per request (µs) of a kind over all its rounds (steadier than one round's): web processes and PostgreSQL. */
+  const cpuUs = (k: Kind) => (runs[k].reduce((a, r) => a + r.serverCpuS + r.dbCpuS, 0) / allRequests(k)) * 1e6;
+  /** PostgreSQL's share of it (µs). */
+  const dbUs = (k: Kind) => (runs[k].reduce((a, r) => a + r.dbCpuS, 0) / allRequests(k)) * 1e6;
   console.log('');
   console.log(
-    `| read (${CONNECTIONS} connections) | req/s | of bare Express | median | p99 | errors | server CPU per request | bare CPU ÷ this CPU |`,
+    `| read (${CONNECTIONS} connections) | req/s | of bare Express | median | p99 | errors | server CPU per request | of it PostgreSQL | bare CPU ÷ this CPU |`,
   );
-  console.log('| --- | --- | --- | --- | --- | --- | --- | --- |');
-  const row = (name: string, k: keyof typeof runs) => {
+  console.log('| --- | --- | --- | --- | --- | --- | --- | --- | --- |');
+  const row = (name: string, k: Kind) => {
     const r = summary(k);
     console.log(
-      `| ${name} | ${f(r.rps)} | ${k === 'bare' ? '100 %' : `${f((r.rps / b.rps) * 100, 1)} %`} | ${f(r.p50, 1)} ms | ${f(r.p99, 1)} ms | ${r.errors} | ${f(cpuUs(k))} µs | ${f((cpuUs('bare') / cpuUs(k)) * 100, 1)} % |`,
+      `| ${name} | ${f(r.rps)} | ${k === 'bare' ? '100 %' : `${f((r.rps / b.rps) * 100, 1)} %`} | ${f(r.p50, 1)} ms | ${f(r.p99, 1)} ms | ${r.errors} | ${f(cpuUs(k))} µs | ${k.endsWith('Pg') ? `${f(dbUs(k))} µs` : '–'} | ${f((cpuUs('bare') / cpuUs(k)) * 100, 1)} % |`,
     );
   };
   row('bare Express `res.json`', 'bare');
-  row('`GET /api/athletes`', 'athletes');
-  row('`GET /api/assessments/:id`', 'assessment');
-  const ok = (['athletes', 'assessment'] as const).every((k) => {
-    const r = summary(k);
-    return r.rps / b.rps >= 0.3 && r.p99 <= 50 && r.errors === 0;
-  });
+  row('`GET /api/athletes` (SQLite, one server)', 'athletes');
+  row('`GET /api/assessments/:id` (SQLite, one server)', 'assessment');
+  if (onPg) {
+    row('`GET /api/athletes` (PostgreSQL, two servers)', 'athletesPg');
+    row('`GET /api/assessments/:id` (PostgreSQL, two servers)', 'assessmentPg');
+  }
+  const ok = kinds
+    .filter((k) => k !== 'bare')
+    .every((k) => {
+      const r = summary(k);
+      return r.rps / b.rps >= 0.3 && r.p99 <= 50 && r.errors === 0;
+    });
+  const ratio = (k: Kind) => `${f((cpuUs('bare') / cpuUs(k)) * 100, 1)} %`;
   console.log(
-    `\nCPU per request (all rounds): bare ${f(cpuUs('bare'))} µs, roster ${f(cpuUs('athletes'))} µs, assessment ${f(cpuUs('assessment'))} µs — ` +
-      `the rate these imply where the server has a core to itself: ${f((cpuUs('bare') / cpuUs('athletes')) * 100, 1)} % and ` +
-      `${f((cpuUs('bare') / cpuUs('assessment')) * 100, 1)} % of bare (load average ${(await import('node:os'))
+    `\nCPU per request (all rounds): bare ${f(cpuUs('bare'))} µs, roster ${f(cpuUs('athletes'))} µs, assessment ${f(cpuUs('assessment'))} µs` +
+      (onPg ? `; on PostgreSQL roster ${f(cpuUs('athletesPg'))} µs, assessment ${f(cpuUs('assessmentPg'))} µs` : '') +
+      ` — the rate these imply where the server has a core to itself: ${kinds
+        .filter((k) => k !== 'bare')
+        .map(ratio)
+        .join(', ')} of bare (load average ${os
         .loadavg()
         .map((l) => l.toFixed(1))
         .join(' ')})`,
@@ -236,6 +328,8 @@ try {
 } finally {
   await server?.stop();
   await bare?.stop();
+  for (const p of pair) await p.stop();
+  pg?.stop();
   if (args.keep) console.log(`kept ${dir}`);
   else cleanup();
 }

@@ -71,17 +71,18 @@ function stopper(child: ChildProcess): () => Promise<void> {
 /**
  * Builds the server bundle and runs it with plain Node, as `npm start` does, on a free port with
  * the default log level (its log goes to `dir/server.log`, written by the server itself, so
- * reading it costs the benchmark nothing). Demo mode, with the fake mail and payment services on
- * free ports.
+ * reading it costs the benchmark nothing; `logName` when several run in one folder). Demo mode,
+ * with the fake mail and payment services on free ports.
  */
 export async function startBundledServer(
   dir: string,
   dbFile: string,
   env: Record<string, string> = {},
   nodeArgs: string[] = [],
+  logName = 'server.log',
 ): Promise<BenchProcess> {
   await buildServer();
-  const log = path.join(dir, 'server.log');
+  const log = path.join(dir, logName);
   const fd = fs.openSync(log, 'a');
   // BENCH_CPU_PROF=dir writes the server's CPU profile there when it stops (node --cpu-prof).
   const prof = process.env['BENCH_CPU_PROF'];
