@@ -7,7 +7,11 @@
  * 50 clients back to back, so the saturation rate is also printed as a share of what this
  * machine's Node and loopback can do at that moment.
  *
- *   npx tsx test/bench/autosave.ts [--annotators 50] [--uploads 5] [--seconds 15] [--rate 25] [--keep]
+ *   npx tsx test/bench/autosave.ts [--annotators 50] [--uploads 5] [--seconds 15] [--rate 25] [--postgres] [--keep]
+ *
+ * `--postgres`: after the server on SQLite, the same measurement on two web servers over a private
+ * PostgreSQL server (`scripts/postgres-server.ts`), the annotators and uploads shared out between
+ * the two; printed side by side. CPU per save then counts both web processes and PostgreSQL's own.
  *
  * The server is the `npm start` bundle on plain Node over a temp database with the demo scenario.
  * Each annotator edits its own clip (uploaded first through the API) like the review workspace
@@ -19,13 +23,16 @@
  * revision a 200 answered must be in the audit log, each clip's revision must be its last answered
  * one, and its stored landmarks must be those of that save.
  */
+import fs from 'node:fs';
 import path from 'node:path';
 import os from 'node:os';
 import { parseArgs } from 'node:util';
 import { createDb } from '../../server/db/knex';
+import { jsonTextEquals } from '../../server/db/dialect';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { buildGroundTruth } from '../../scripts/demo-clip/ground-truth';
 import type { ClipAnnotationsWrite, FrameLandmarks, GaitEventMark } from '../../src/contracts/annotations';
+import { startBenchPostgres, startWebPair, type BenchPostgres } from './support/bench-postgres';
 import {
   benchDir,
   cpuSeconds,
@@ -50,6 +57,7 @@ const { values: args } = parseArgs({
     uploads: { type: 'string', default: '5' },
     seconds: { type: 'string', default: '15' },
     rate: { type: 'string', default: '25' },
+    postgres: { type: 'boolean', default: false },
     keep: { type: 'boolean', default: false },
   },
 });
@@ -86,6 +94,8 @@ function runnerDocument(): Omit<ClipAnnotationsWrite, 'baseRevision'> & { frameC
 }
 
 interface Annotator {
+  /** The web server this annotator's browser talks to. */
+  base: string;
   session: Session;
   clipId: number;
   revision: number;
@@ -109,7 +119,7 @@ interface Tally {
 const tally = (): Tally => ({ latencies: [], ok: 0, conflicts: 0, errors: 0, errorKinds: new Map() });
 
 /** Moves one point a little, as a drag would, and saves the whole document. */
-async function save(base: string, a: Annotator, t: Tally, dueAt: number): Promise<void> {
+async function save(a: Annotator, t: Tally, dueAt: number): Promise<void> {
   const lm = a.doc.landmarks[Math.floor(Math.random() * a.doc.landmarks.length)]!;
   const name = (Object.keys(lm.points) as (keyof typeof lm.points)[])[Math.floor(Math.random() * 6)]!;
   const p = lm.points[name]!;
@@ -117,7 +127,7 @@ async function save(base: string, a: Annotator, t: Tally, dueAt: number): Promis
   // Serialised once: sent, and kept as the record of what an acknowledged save held.
   const body = JSON.stringify({ baseRevision: a.revision, ...a.doc } satisfies ClipAnnotationsWrite);
   try {
-    const r = await httpRequest(`${base}/api/clips/${a.clipId}/annotations`, {
+    const r = await httpRequest(`${a.base}/api/clips/${a.clipId}/annotations`, {
       method: 'PUT',
       headers: { cookie: a.session.cookie, 'x-xsrf-token': a.session.xsrf, 'content-type': 'application/json' },
       body,
@@ -145,13 +155,13 @@ async function save(base: string, a: Annotator, t: Tally, dueAt: number): Promis
 }
 
 /** Closed loop: every annotator saves again as soon as its last save is answered. */
-async function saturate(base: string, annotators: Annotator[], seconds: number): Promise<{ t: Tally; wallS: number }> {
+async function saturate(annotators: Annotator[], seconds: number): Promise<{ t: Tally; wallS: number }> {
   const t = tally();
   const started = performance.now();
   const until = started + seconds * 1000;
   await Promise.all(
     annotators.map(async (a) => {
-      while (performance.now() < until) await save(base, a, t, performance.now());
+      while (performance.now() < until) await save(a, t, performance.now());
     }),
   );
   return { t, wallS: (performance.now() - started) / 1000 };
@@ -162,7 +172,7 @@ async function saturate(base: string, annotators: Annotator[], seconds: number):
  * one whose last save is still out sends when it is answered, as the app's autosave does, and
  * the wait counts in the latency.
  */
-async function openLoop(base: string, annotators: Annotator[], rate: number, seconds: number): Promise<Tally> {
+async function openLoop(annotators: Annotator[], rate: number, seconds: number): Promise<Tally> {
   const t = tally();
   const perAnnotator = rate / annotators.length;
   const started = performance.now();
@@ -176,7 +186,7 @@ async function openLoop(base: string, annotators: Annotator[], rate: number, sec
         const wait = dueAt - performance.now();
         if (wait > 0) await new Promise((r) => setTimeout(r, wait));
         const previous = a.busy;
-        a.busy = previous.then(() => save(base, a, t, dueAt));
+        a.busy = previous.then(() => save(a, t, dueAt));
         pending.push(a.busy);
         due += (-Math.log(1 - Math.random()) / perAnnotator) * 1000;
       }
@@ -205,14 +215,14 @@ async function saturateBare(url: string, annotators: Annotator[], seconds: numbe
   return { rate: ok / ((performance.now() - started) / 1000), ok, errors };
 }
 
-/** Keeps `n` uploads going until `stop()`; answers how many finished. */
-function uploadsRunning(base: string, s: Session, assessmentId: number, file: string, n: number) {
+/** Keeps `n` uploads going until `stop()`, shared out over the servers at `bases`; answers how many finished. */
+function uploadsRunning(bases: string[], s: Session, assessmentId: number, file: string, n: number) {
   let running = true;
   let done = 0;
   let failed = 0;
-  const loops = Array.from({ length: n }, async () => {
+  const loops = Array.from({ length: n }, async (_, i) => {
     while (running) {
-      await uploadClip(base, s, assessmentId, file, 1_000_000).then(
+      await uploadClip(bases[i % bases.length]!, s, assessmentId, file, 1_000_000).then(
         () => done++,
         () => failed++,
       );
@@ -228,17 +238,17 @@ function uploadsRunning(base: string, s: Session, assessmentId: number, file: st
 }
 
 /** Reads the database after the run: acknowledged saves missing from it. */
-async function lostSaves(dbFile: string, annotators: Annotator[]): Promise<{ lost: number; checked: number; problems: string[] }> {
-  const db = createDb(dbFile);
+async function lostSaves(dbTarget: string, annotators: Annotator[]): Promise<{ lost: number; checked: number; problems: string[] }> {
+  const db = createDb(dbTarget);
   const problems: string[] = [];
   let lost = 0;
   let checked = 0;
   for (const a of annotators) {
     const audited = await db('audit_log')
       .where({ action: 'clip.annotated' })
-      .whereRaw(`json_extract(detail, '$.clipId') = ?`, [a.clipId])
-      .select<{ revision: number }[]>(db.raw(`json_extract(detail, '$.revision') AS revision`));
-    const revisions = new Set(audited.map((r) => r.revision));
+      .where(jsonTextEquals(db, 'detail', ['clipId'], a.clipId))
+      .select<{ detail: string }[]>('detail');
+    const revisions = new Set(audited.map((r) => (JSON.parse(r.detail) as { revision: number }).revision));
     for (const r of a.acked) {
       checked++;
       if (!revisions.has(r)) lost++;
@@ -265,13 +275,29 @@ async function lostSaves(dbFile: string, annotators: Annotator[]): Promise<{ los
   return { lost, checked, problems };
 }
 
-const { dir, cleanup } = benchDir('autosave');
-let server: BenchProcess | null = null;
-let bare: BenchProcess | null = null;
-try {
-  const dbFile = await seedDemo(dir);
-  server = await startBundledServer(dir, dbFile);
-  const base = server.url;
+/** What one database's run measured. */
+interface Measured {
+  satRate: number;
+  sat: Tally;
+  open: Tally;
+  bare: { rate: number; errors: number };
+  bareCpuMs: number;
+  /** Server-side CPU per save at saturation (ms): web processes, and PostgreSQL's when it runs apart. */
+  saveCpuMs: number;
+  /** PostgreSQL's share of it (ms), or null on SQLite. */
+  dbCpuMs: number | null;
+  ownCpuPct: number;
+  uploads: { done: number; failed: number };
+  check: Awaited<ReturnType<typeof lostSaves>>;
+}
+
+/**
+ * The whole measurement on `servers` (one on SQLite; two on PostgreSQL, the annotators and uploads
+ * shared out between them) over `dbTarget`; stops the servers before reading the database.
+ */
+async function measure(servers: BenchProcess[], dbTarget: string, dir: string, pg: BenchPostgres | null): Promise<Measured> {
+  const bases = servers.map((sv) => sv.url);
+  const base = bases[0]!;
   const staff = DEMO_SIGN_INS.filter((s) => s.role !== 'athlete');
   const sessions: Session[] = [];
   for (let i = 0; i < ANNOTATORS; i++) sessions.push(await signIn(base, staff[i % staff.length]!.email, staff[i % staff.length]!.password));
@@ -286,16 +312,20 @@ try {
 
   const doc = runnerDocument();
   process.stdout.write(`uploading ${ANNOTATORS} clips to annotate (160×90, 120 fps, ${doc.frameCount} frames)… `);
-  const small = makeClip(path.join(dir, 'small.mp4'), { width: 160, height: 90, fps: 120, seconds: doc.frameCount / 120 });
+  const small = path.join(dir, 'small.mp4');
+  if (!fs.existsSync(small)) makeClip(small, { width: 160, height: 90, fps: 120, seconds: doc.frameCount / 120 });
   const clipIds: number[] = [];
   for (let i = 0; i < ANNOTATORS; i += 5) {
     clipIds.push(
-      ...(await Promise.all(Array.from({ length: Math.min(5, ANNOTATORS - i) }, () => uploadClip(base, s0, annotateIn, small)))),
+      ...(await Promise.all(
+        Array.from({ length: Math.min(5, ANNOTATORS - i) }, (_, j) => uploadClip(bases[(i + j) % bases.length]!, s0, annotateIn, small)),
+      )),
     );
   }
   await waitReady(base, s0, clipIds);
   console.log('ready');
   const annotators: Annotator[] = clipIds.map((clipId, i) => ({
+    base: bases[i % bases.length]!,
     session: sessions[i]!,
     clipId,
     revision: 0,
@@ -305,73 +335,116 @@ try {
     busy: Promise.resolve(),
   }));
   const bodyBytes = JSON.stringify({ baseRevision: 0, ...annotators[0]!.doc }).length;
-  const big = makeClip(path.join(dir, 'upload.mp4'), { width: 1280, height: 720, fps: 30, seconds: 6 });
+  const big = path.join(dir, 'upload.mp4');
+  if (!fs.existsSync(big)) makeClip(big, { width: 1280, height: 720, fps: 30, seconds: 6 });
   console.log(
-    `${ANNOTATORS} annotators, ${annotators[0]!.doc.landmarks.length} landmark frame-sides per save (${Math.round(bodyBytes / 1024)} KiB), ` +
-      `${UPLOADS} uploads of a ${(await import('node:fs')).statSync(big).size >> 20} MiB 720p clip at 1 MB/s each; ` +
+    `${ANNOTATORS} annotators over ${servers.length} server(s), ${annotators[0]!.doc.landmarks.length} landmark frame-sides per save (${Math.round(bodyBytes / 1024)} KiB), ` +
+      `${UPLOADS} uploads of a ${fs.statSync(big).size >> 20} MiB 720p clip at 1 MB/s each; ` +
       `${os.cpus().length} cores, Node ${process.version}`,
   );
 
   // Warm up (first saves create rows, JIT), uploads not yet running.
-  await saturate(base, annotators, 2);
+  await saturate(annotators, 2);
 
-  const uploads = uploadsRunning(base, s0, uploadTo, big, UPLOADS);
+  const uploads = uploadsRunning(bases, s0, uploadTo, big, UPLOADS);
   await new Promise((r) => setTimeout(r, 3000));
-  bare = await startBareExpress(dir);
-  const bareCpu0 = cpuSeconds(bare.pid);
-  const bareSat = await saturateBare(`${bare.url}/api/bare`, annotators, SECONDS / 3);
-  const bareCpuMs = ((cpuSeconds(bare.pid) - bareCpu0) / Math.max(1, bareSat.ok)) * 1000;
-  await bare.stop();
-  bare = null;
-  const cpu0 = cpuSeconds(server.pid);
+  const bareServer = await startBareExpress(dir);
+  let bareSat: { rate: number; ok: number; errors: number };
+  let bareCpuMs: number;
+  try {
+    const bareCpu0 = cpuSeconds(bareServer.pid);
+    bareSat = await saturateBare(`${bareServer.url}/api/bare`, annotators, SECONDS / 3);
+    bareCpuMs = ((cpuSeconds(bareServer.pid) - bareCpu0) / Math.max(1, bareSat.ok)) * 1000;
+  } finally {
+    await bareServer.stop();
+  }
+  const serverCpu = () => servers.reduce((a, sv) => a + cpuSeconds(sv.pid), 0);
+  const cpu0 = serverCpu();
+  const db0 = pg?.cpuSeconds() ?? 0;
   const own0 = process.cpuUsage();
-  const sat = await saturate(base, annotators, SECONDS);
-  const satCpu = cpuSeconds(server.pid) - cpu0;
+  const sat = await saturate(annotators, SECONDS);
+  const satCpu = serverCpu() - cpu0;
+  const dbCpu = (pg?.cpuSeconds() ?? 0) - db0;
   const own = process.cpuUsage(own0);
-  const open = await openLoop(base, annotators, RATE, SECONDS + 5);
+  const open = await openLoop(annotators, RATE, SECONDS + 5);
   const up = await uploads.stop();
-  await server.stop();
-  server = null;
-  const check = await lostSaves(dbFile, annotators);
+  for (const sv of servers) await sv.stop();
+  const check = await lostSaves(dbTarget, annotators);
+  const saves = Math.max(1, sat.t.ok);
+  return {
+    satRate: sat.t.ok / sat.wallS,
+    sat: sat.t,
+    open,
+    bare: bareSat,
+    bareCpuMs,
+    saveCpuMs: ((satCpu + dbCpu) / saves) * 1000,
+    dbCpuMs: pg ? (dbCpu / saves) * 1000 : null,
+    ownCpuPct: ((own.user + own.system) / 1e6 / sat.wallS) * 100,
+    uploads: up,
+    check,
+  };
+}
 
-  const satRate = sat.t.ok / sat.wallS;
+const { dir, cleanup } = benchDir('autosave');
+let server: BenchProcess | null = null;
+let pg: BenchPostgres | null = null;
+let pair: BenchProcess[] = [];
+try {
+  const dbFile = await seedDemo(dir);
+  server = await startBundledServer(dir, dbFile);
+  const results: [string, Measured][] = [['SQLite, one server', await measure([server], dbFile, dir, null)]];
+  server = null;
+  if (args.postgres) {
+    process.stdout.write('PostgreSQL: seeding the demo scenario… ');
+    pg = await startBenchPostgres(dir);
+    pair = await startWebPair(dir, pg);
+    console.log(`servers ${pair.map((p) => p.url).join(' and ')}`);
+    results.push(['PostgreSQL, two servers', await measure(pair, pg.url, dir, pg)]);
+    pair = [];
+  }
+
   console.log('');
-  console.log(`| autosave with ${UPLOADS} uploads running | saves/s | p50 | p99 | 409 | errors |`);
-  console.log('| --- | --- | --- | --- | --- | --- |');
   console.log(
-    `| saturation (${ANNOTATORS} annotators back to back) | ${satRate.toFixed(0)} | ${ms(quantile(sat.t.latencies, 0.5))} | ${ms(quantile(sat.t.latencies, 0.99))} | ${sat.t.conflicts} | ${sat.t.errors} |`,
+    `| autosave with ${UPLOADS} uploads running | saturation saves/s (${ANNOTATORS} back to back) | p50 | p99 | of bare PUT/s | open loop ${RATE}/s due: p50 | p99 | 409 | errors | server CPU per save | of it PostgreSQL | acknowledged saves lost |`,
   );
+  console.log('| --- | --- | --- | --- | --- | --- | --- | --- | --- | --- | --- | --- |');
+  for (const [name, m] of results) {
+    console.log(
+      `| ${name} | ${m.satRate.toFixed(0)} | ${ms(quantile(m.sat.latencies, 0.5))} | ${ms(quantile(m.sat.latencies, 0.99))} | ` +
+        `${((m.satRate / m.bare.rate) * 100).toFixed(1)} % of ${m.bare.rate.toFixed(0)} | ${ms(quantile(m.open.latencies, 0.5))} | ${ms(quantile(m.open.latencies, 0.99))} | ` +
+        `${m.sat.conflicts + m.open.conflicts} | ${m.sat.errors + m.open.errors} | ${m.saveCpuMs.toFixed(2)} ms | ${m.dbCpuMs === null ? '–' : `${m.dbCpuMs.toFixed(2)} ms`} | ` +
+        `${m.check.lost} of ${m.check.checked} |`,
+    );
+  }
+  for (const [name, m] of results) {
+    console.log(
+      `\n${name}: server CPU per save at saturation ${m.saveCpuMs.toFixed(2)} ms (the server processes: receiving uploads included, their ffmpeg children not` +
+        `${m.dbCpuMs === null ? '' : '; PostgreSQL included'}); bare Express CPU per PUT ${m.bareCpuMs.toFixed(2)} ms; bare ÷ save ${((m.bareCpuMs / m.saveCpuMs) * 100).toFixed(1)} %; ` +
+        `one core's worth of saves at this CPU: ${(1000 / m.saveCpuMs).toFixed(0)}/s; ` +
+        `this benchmark's own CPU ${m.ownCpuPct.toFixed(0)} % of a core; uploads finished ${m.uploads.done}, failed ${m.uploads.failed}`,
+    );
+    for (const [phase, t] of [
+      ['saturation', m.sat],
+      ['open loop', m.open],
+    ] as const)
+      if (t.errors) console.log(`${phase} errors: ${[...t.errorKinds].map(([k, n]) => `${k} × ${n}`).join(', ')}`);
+    if (m.check.problems.length) console.log(`${m.check.problems.length} problems:`);
+    for (const p of m.check.problems.slice(0, 10)) console.log(`  ${p}`);
+  }
   console.log(
-    `| open loop, ${RATE} saves/s due | ${(open.ok / (SECONDS + 5)).toFixed(1)} | ${ms(quantile(open.latencies, 0.5))} | ${ms(quantile(open.latencies, 0.99))} | ${open.conflicts} | ${open.errors} |`,
+    `\nload average ${os
+      .loadavg()
+      .map((l) => l.toFixed(1))
+      .join(' ')}`,
   );
-  console.log(
-    `| bare Express: parse the same bodies and answer (same clients, same run) | ${bareSat.rate.toFixed(0)} | | | | ${bareSat.errors} |`,
+  const met = results.every(
+    ([, m]) => m.satRate >= 200 && quantile(m.open.latencies, 0.99) <= 200 && m.check.lost === 0 && !m.check.problems.length,
   );
-  console.log(`\nsaturation saves/s ÷ bare Express PUT/s in the same run: ${((satRate / bareSat.rate) * 100).toFixed(1)} %`);
-  const saveCpuMs = (satCpu / Math.max(1, sat.t.ok)) * 1000;
-  console.log(
-    `\nserver CPU per save at saturation ${saveCpuMs.toFixed(2)} ms (the server process: receiving uploads included, its ffmpeg children not); ` +
-      `bare Express CPU per PUT ${bareCpuMs.toFixed(2)} ms; bare ÷ save ${((bareCpuMs / saveCpuMs) * 100).toFixed(1)} %; ` +
-      `one core's worth of saves at this CPU: ${(1000 / saveCpuMs).toFixed(0)}/s; load average ${os
-        .loadavg()
-        .map((l) => l.toFixed(1))
-        .join(' ')}; ` +
-      `this benchmark's own CPU ${(((own.user + own.system) / 1e6 / sat.wallS) * 100).toFixed(0)} % of a core; uploads finished ${up.done}, failed ${up.failed}`,
-  );
-  for (const [name, t] of [
-    ['saturation', sat.t],
-    ['open loop', open],
-  ] as const)
-    if (t.errors) console.log(`${name} errors: ${[...t.errorKinds].map(([k, n]) => `${k} × ${n}`).join(', ')}`);
-  console.log(
-    `acknowledged saves checked in the database: ${check.checked}, lost: ${check.lost}${check.problems.length ? `; ${check.problems.length} problems:` : ''}`,
-  );
-  for (const p of check.problems.slice(0, 10)) console.log(`  ${p}`);
-  const met = satRate >= 200 && quantile(open.latencies, 0.99) <= 200 && check.lost === 0 && !check.problems.length;
   console.log(`\ntarget (≥ 200 saves/s at saturation, open-loop p99 ≤ 200 ms, 0 lost): ${met ? 'met' : 'NOT met'}`);
 } finally {
   await server?.stop();
-  await bare?.stop();
+  for (const p of pair) await p.stop();
+  pg?.stop();
   if (args.keep) console.log(`kept ${dir}`);
   else cleanup();
 }

@@ -121,7 +121,8 @@ export async function startBundledServer(
  */
 export async function startBareExpress(dir: string): Promise<BenchProcess> {
   const log = path.join(dir, 'bare.log');
-  const fd = fs.openSync(log, 'a');
+  // Anew: a run that starts it again must not read the last one's address.
+  const fd = fs.openSync(log, 'w');
   const code = `
     import express from 'express';
     const app = express();
