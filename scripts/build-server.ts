@@ -2,15 +2,20 @@
  * Bundles the server (with its migrations) into `dist/server/main.mjs` for `npm start`: plain
  * Node then runs it, without a TypeScript loader in memory. npm packages stay external.
  */
+import path from 'node:path';
 import { build } from 'esbuild';
 
 export const SERVER_BUNDLE = 'dist/server/main.mjs';
 
-export async function buildServer(): Promise<void> {
+/**
+ * Bundles the server sources under `root` (this tree by default; a benchmark passes an earlier
+ * revision's exported sources) into `outdir`.
+ */
+export async function buildServer(root = '.', outdir = 'dist/server'): Promise<void> {
   await build({
     // The picture worker runs in its own thread and is loaded from beside main.mjs.
-    entryPoints: { main: 'server/main.ts', 'picture-worker': 'server/pictures/picture-worker.ts' },
-    outdir: 'dist/server',
+    entryPoints: { main: path.join(root, 'server/main.ts'), 'picture-worker': path.join(root, 'server/pictures/picture-worker.ts') },
+    outdir,
     outExtension: { '.js': '.mjs' },
     bundle: true,
     platform: 'node',

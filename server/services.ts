@@ -76,14 +76,14 @@ export function createMediaServices(d: MediaServicesDeps): MediaServices {
   const clips = clipsService({ db, store, processing, logger });
   const assessments = assessmentsService({ db, clips, store });
   const measures = measuresService({ db, clips });
-  const annotations = annotationsService({ db, clips, validateEvents, measures });
+  const annotations = annotationsService({ db, clips, validateEvents });
   const follow = followService({ db, store, processing, clips, annotations });
   const brands = d.brands ?? clinicBrands({ db, store });
   const sharing = { db, store, processing, clips, mailer, logger, publicUrl: config.publicUrl, clock, brands };
   const stills = stillsService(sharing);
   const summaries = summariesService({ ...sharing, stills, measures });
   const annotatedClips = annotatedClipsService(sharing);
-  const dataExports = dataExportsService({ db, store, processing, clock, brands });
+  const dataExports = dataExportsService({ db, store, processing, clock, brands, measures });
   const demoClips = demoClipsService({ db, store, processing, clock });
   return {
     store,

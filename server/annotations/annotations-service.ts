@@ -9,18 +9,12 @@ import { clipsRepository, type ClipRow } from '../clips/clips-repository';
 import { annotationsRepository as repo } from './annotations-repository';
 import type { AnnotationsInput } from './annotations-schemas';
 import { normalizeMarks } from './annotation-changes';
-import type { ClipMeasures } from '../../src/contracts/measures';
 
 export interface AnnotationsDeps {
   db: Db;
   clips: ClipsService;
   /** Checks event order; returns problems in words (from src/kinematics). */
   validateEvents: (events: AnnotationsInput['events'], frameCount: number) => string[];
-  /** The clip's measures: computed before a save's transaction, stored as its snapshot inside it. */
-  measures: {
-    computeFor(clip: ClipRow, annotations: ClipAnnotations): Promise<ClipMeasures>;
-    storeSnapshot(trx: Db, clip: ClipRow, revision: number, measures: ClipMeasures): Promise<void>;
-  };
 }
 
 /** Clips whose last saved marks are kept in memory (a few hundred annotators at once). */
@@ -67,8 +61,10 @@ export function annotationsService(d: AnnotationsDeps) {
 
   /**
    * Saves `input` as the clip's marks when `baseRevision` is still the stored one (else 409
-   * `stale_revision` with the stored copy): writes only what changed, raises the revision, stores
-   * the measures snapshot and audits `action`, in one transaction. Returns the saved copy.
+   * `stale_revision` with the stored copy): writes only what changed, raises the revision and
+   * audits `action`, in one transaction. Returns the saved copy. The measures are not computed
+   * here: the next read of them finds their snapshot older than the revision and computes them
+   * (see `measures-service.ts`), so an autosave every few seconds does not compute them each time.
    */
   async function save(
     user: Pick<SessionUser, 'id' | 'name' | 'clinicId'>,
@@ -79,14 +75,13 @@ export function annotationsService(d: AnnotationsDeps) {
     detail: Record<string, unknown>,
   ): Promise<ClipAnnotations> {
     const clipId = clip.id;
-    // What is stored now, known before the transaction: the save is checked against it, its
-    // measures computed and its changes found before the one writing connection is taken.
+    // What is stored now, known before the transaction: the save is checked against it and its
+    // changes found before the one writing connection is taken.
     const stored = lastSaved.at(clipId, baseRevision) ?? (await repo.read(db, clipId));
     if (stored.revision !== baseRevision) throw staleRevision(stored);
     const marks = normalizeMarks(input);
     const at = new Date().toISOString();
     const saved: ClipAnnotations = { clipId, revision: stored.revision + 1, ...marks, updatedAt: at, updatedByName: user.name };
-    const measures = await d.measures.computeFor(clip, saved);
 
     await db.transaction(async (trx) => {
       // Raising the revision only from the one read takes the clip row's lock first: a save racing from the same
@@ -100,7 +95,6 @@ export function annotationsService(d: AnnotationsDeps) {
         throw staleRevision(await repo.read(trx, clipId));
       }
       await repo.applyChanges(trx, clipId, { ...stored, gauges: stored.gauges ?? [] }, marks);
-      await d.measures.storeSnapshot(trx, clip, saved.revision, measures);
       await audit(
         trx,
         {

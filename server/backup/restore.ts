@@ -73,6 +73,9 @@ function checkSame(what: string, expected: BackupFile, actual: BackupFile): void
   }
 }
 
+/** Size and SHA-256 of a file of the backup; a missing file answers a size that matches nothing. */
+const hashInBackup = (file: string): Promise<BackupFile> => hashFile(file).catch(() => ({ size: -1, sha256: 'missing' }));
+
 /** Restores the backup in `dir` into an empty installation. */
 export async function restoreInstallation(o: RestoreOptions): Promise<BackupManifest> {
   const say = o.progress ?? (() => undefined);
@@ -87,11 +90,7 @@ export async function restoreInstallation(o: RestoreOptions): Promise<BackupMani
   say(`backup of ${manifest.snapshotAt}: database and ${manifest.media.length} media files, ${formatBytes(total)}`);
 
   // Every file checked before anything is written.
-  checkSame(
-    DATABASE_NAME,
-    manifest.database,
-    await hashFile(path.join(o.dir, DATABASE_NAME)).catch(() => ({ size: -1, sha256: 'missing' })),
-  );
+  checkSame(DATABASE_NAME, manifest.database, await hashInBackup(path.join(o.dir, DATABASE_NAME)));
   let checked = manifest.database.size;
   const n = manifest.media.length;
   const reportChecked = countReporter(
@@ -100,7 +99,7 @@ export async function restoreInstallation(o: RestoreOptions): Promise<BackupMani
     say,
   );
   for (const [i, m] of manifest.media.entries()) {
-    checkSame(m.key, m, await hashFile(mediaPath(o.dir, m.key)).catch(() => ({ size: -1, sha256: 'missing' })));
+    checkSame(m.key, m, await hashInBackup(mediaPath(o.dir, m.key)));
     checked += m.size;
     reportChecked(i + 1);
   }

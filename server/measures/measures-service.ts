@@ -10,12 +10,11 @@ import type { ClipsService } from '../clips/clips-service';
 import { annotationsRepository } from '../annotations/annotations-repository';
 import { clinicBands } from './reference-bands';
 
-/** Measures of clips, computed with `src/kinematics` and kept as snapshots per annotation revision. */
+/**
+ * Measures of clips, computed with `src/kinematics` when first read after the marks change (a save
+ * does not compute them) and kept as a snapshot of that annotation revision until the next change.
+ */
 export interface MeasuresService {
-  /** The measures of marks about to be saved (computed before the save's transaction opens). */
-  computeFor(clip: ClipRow, annotations: ClipAnnotations): Promise<ClipMeasures>;
-  /** Stores the snapshot of a revision, inside the save's transaction. */
-  storeSnapshot(trx: Knex, clip: ClipRow, revision: number, measures: ClipMeasures): Promise<void>;
   forClip(user: SessionUser, clipId: number): Promise<ClipMeasures>;
   forAssessment(user: SessionUser, assessmentId: number): Promise<ClipMeasures[]>;
   /** Measures of an assessment's ready clips, without an access check (callers check). */
@@ -87,19 +86,6 @@ export function measuresService({ db, clips }: { db: Db; clips: ClipsService }):
   }
 
   return {
-    /**
-     * The measures of marks about to be saved, computed before the save's transaction opens (it
-     * reads committed rows only), so the one writing connection is not held while they compute.
-     */
-    computeFor(clip: ClipRow, annotations: ClipAnnotations): Promise<ClipMeasures> {
-      return compute(db, clip, annotations);
-    },
-
-    /** Stores the snapshot of a revision, inside the save's transaction. */
-    storeSnapshot(trx: Knex, clip: ClipRow, revision: number, measures: ClipMeasures): Promise<void> {
-      return store_(trx, clip, revision, measures);
-    },
-
     async forClip(user: SessionUser, clipId: number): Promise<ClipMeasures> {
       const clip = await clips.accessibleClip(user, clipId, 'measure:read');
       if (clip.status !== 'ready') throw new ConflictError('This clip is not ready yet.', 'clip_not_ready');

@@ -61,6 +61,13 @@ export function thumbCount(frameCount: number, every: number): number {
   return Math.ceil(frameCount / every);
 }
 
+/** The filter that resizes decoded frames to the working size and converts them to full range. */
+export function frameScaleFilter(frame: Size, scaler: Scaler, kernel: string): string {
+  return scaler === 'zscale'
+    ? `zscale=w=${frame.width}:h=${frame.height}:f=${kernel}:r=full`
+    : `scale=${frame.width}:${frame.height}:flags=${kernel}:out_range=full`;
+}
+
 /**
  * The filtergraph for one decode feeding two outputs. ffmpeg has already rotated the frames
  * (autorotate inserts transpose/flip filters before this graph), so sizes here are displayed
@@ -69,10 +76,7 @@ export function thumbCount(frameCount: number, every: number): number {
  * frame, to a smaller thumbnail scale.
  */
 export function filterGraph(frame: Size, thumb: Size, every: number, scaler: Scaler, kernel: string): string {
-  const big =
-    scaler === 'zscale'
-      ? `zscale=w=${frame.width}:h=${frame.height}:f=${kernel}:r=full`
-      : `scale=${frame.width}:${frame.height}:flags=${kernel}:out_range=full`;
+  const big = frameScaleFilter(frame, scaler, kernel);
   const small =
     scaler === 'zscale' ? `zscale=w=${thumb.width}:h=${thumb.height}:f=bilinear` : `scale=${thumb.width}:${thumb.height}:flags=area`;
   return [

@@ -6,6 +6,7 @@ import { ConflictError, GoneError, NotFoundError } from '../errors';
 import { accessibleAthlete, assertAthleteResource } from '../policy/athlete-resources';
 import type { Processing } from '../processing/processing';
 import { exportKey } from '../storage/media-keys';
+import type { MeasuresService } from '../measures/measures-service';
 import type { MediaStore } from '../storage/media-store';
 import type { ClinicBrands } from '../clinic/clinic-brand';
 import { EXPORT_ATHLETE_DATA, exportAthleteDataKind } from './export-kind';
@@ -44,6 +45,7 @@ export function dataExportsService(d: {
   processing: Processing;
   clock: () => Date;
   brands: ClinicBrands;
+  measures: MeasuresService;
 }): DataExportsService {
   const { db, store, processing, clock } = d;
   processing.register(exportAthleteDataKind(d));

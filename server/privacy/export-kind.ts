@@ -8,6 +8,7 @@ import { renderReceipt } from '../billing/receipt-pdf';
 import { PermanentError, type ProcessingKind } from '../processing/processed-item';
 import { clipKeys, exportKey, summaryKey } from '../storage/media-keys';
 import type { MediaStore } from '../storage/media-store';
+import type { MeasuresService } from '../measures/measures-service';
 import { EXPORT_LINK_HOURS } from '../../src/contracts/privacy';
 import { ATHLETE_TABLES, ATHLETE_TABLE_NAMES } from './athlete-tables';
 import { exportReadme, type MissingFile } from './export-readme';
@@ -28,6 +29,16 @@ export async function athleteRows(db: Db, athleteId: number): Promise<Record<str
     out[name] = rows.map((r) => Object.fromEntries(Object.entries(r).filter(([k]) => !omit.includes(k))));
   }
   return out;
+}
+
+/**
+ * Saves do not compute measures (their first read does), so the export brings every ready clip's
+ * measures snapshot up to its latest marks first: data.json then holds the measures of the marks
+ * it holds.
+ */
+async function refreshMeasures(db: Db, measures: MeasuresService, athleteId: number): Promise<void> {
+  const assessments = await db('assessments').where({ athlete_id: athleteId }).pluck<number[]>('id');
+  for (const id of assessments) await measures.ofAssessment(id);
 }
 
 /** A name safe inside a zip: no folders, no control characters, at most 120 characters. */
@@ -95,6 +106,7 @@ export function exportAthleteDataKind(d: {
   store: MediaStore;
   clock: () => Date;
   brands: ClinicBrands;
+  measures: MeasuresService;
 }): ProcessingKind<Built | null> {
   const { db, store, clock } = d;
   return {
@@ -106,6 +118,7 @@ export function exportAthleteDataKind(d: {
       const row = await db('data_exports').where({ id: item.subjectId }).first<{ id: number; athlete_id: number; clinic_id: number }>();
       if (!row) return null;
       const exportedAt = clock().toISOString();
+      await refreshMeasures(db, d.measures, row.athlete_id);
       const rows = await athleteRows(db, row.athlete_id);
       const files = await plannedFiles(d, rows);
       const total = files.length + 2;

@@ -7,11 +7,16 @@
  * 50 clients back to back, so the saturation rate is also printed as a share of what this
  * machine's Node and loopback can do at that moment.
  *
- *   npx tsx test/bench/autosave.ts [--annotators 50] [--uploads 5] [--seconds 15] [--rate 25] [--postgres] [--keep]
+ *   npx tsx test/bench/autosave.ts [--annotators 50] [--uploads 5] [--seconds 15] [--rate 25] [--keep]
+ *                                  [--before <git revision> [--rounds 3]] [--postgres]
  *
- * `--postgres`: after the server on SQLite, the same measurement on two web servers over a private
- * PostgreSQL server (`scripts/postgres-server.ts`), the annotators and uploads shared out between
- * the two; printed side by side. CPU per save then counts both web processes and PostgreSQL's own.
+ * With `--postgres`, two web servers on a private PostgreSQL server (`scripts/postgres-server.ts`)
+ * take their turn too, the annotators and uploads shared out between them; their CPU per save
+ * counts both web processes and PostgreSQL's own processes (also shown alone).
+ *
+ * With `--before`, the server as it was at that revision (bundled from `git archive`) runs beside
+ * this build on its own copy of the database, and the saturation is measured in rounds, the two
+ * taking turns, each with its own five uploads running: CPU per save printed for both (medians).
  *
  * The server is the `npm start` bundle on plain Node over a temp database with the demo scenario.
  * Each annotator edits its own clip (uploaded first through the API) like the review workspace
@@ -26,6 +31,8 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import os from 'node:os';
+import { spawnSync } from 'node:child_process';
+import { buildServer } from '../../scripts/build-server';
 import { parseArgs } from 'node:util';
 import { createDb } from '../../server/db/knex';
 import { jsonTextEquals } from '../../server/db/dialect';
@@ -57,14 +64,19 @@ const { values: args } = parseArgs({
     uploads: { type: 'string', default: '5' },
     seconds: { type: 'string', default: '15' },
     rate: { type: 'string', default: '25' },
-    postgres: { type: 'boolean', default: false },
     keep: { type: 'boolean', default: false },
+    before: { type: 'string' },
+    rounds: { type: 'string', default: '3' },
+    postgres: { type: 'boolean', default: false },
   },
 });
 const ANNOTATORS = Number(args.annotators);
 const UPLOADS = Number(args.uploads);
 const SECONDS = Number(args.seconds);
 const RATE = Number(args.rate);
+/** A git revision to measure beside this build (saturation rounds taking turns), or none. */
+const BEFORE = args.before;
+const ROUNDS = Number(args.rounds);
 
 /** The synthetic runner's marks as a coach would place them: event frames and every sixth frame. */
 function runnerDocument(): Omit<ClipAnnotationsWrite, 'baseRevision'> & { frameCount: number } {
@@ -215,7 +227,7 @@ async function saturateBare(url: string, annotators: Annotator[], seconds: numbe
   return { rate: ok / ((performance.now() - started) / 1000), ok, errors };
 }
 
-/** Keeps `n` uploads going until `stop()`, shared out over the servers at `bases`; answers how many finished. */
+/** Keeps `n` uploads going until `stop()`; answers how many finished. */
 function uploadsRunning(bases: string[], s: Session, assessmentId: number, file: string, n: number) {
   let running = true;
   let done = 0;
@@ -275,27 +287,28 @@ async function lostSaves(dbTarget: string, annotators: Annotator[]): Promise<{ l
   return { lost, checked, problems };
 }
 
-/** What one database's run measured. */
-interface Measured {
-  satRate: number;
-  sat: Tally;
-  open: Tally;
-  bare: { rate: number; errors: number };
-  bareCpuMs: number;
-  /** Server-side CPU per save at saturation (ms): web processes, and PostgreSQL's when it runs apart. */
-  saveCpuMs: number;
-  /** PostgreSQL's share of it (ms), or null on SQLite. */
-  dbCpuMs: number | null;
-  ownCpuPct: number;
-  uploads: { done: number; failed: number };
-  check: Awaited<ReturnType<typeof lostSaves>>;
+/** A server under test, its annotators on their clips, and where the uploads go. */
+interface Subject {
+  name: string;
+  /** One server, or two on PostgreSQL (the annotators and uploads shared out between them). */
+  servers: BenchProcess[];
+  /** The SQLite file or PostgreSQL URL. */
+  dbTarget: string;
+  /** The PostgreSQL server whose CPU counts with the web servers', or null. */
+  pg: BenchPostgres | null;
+  annotators: Annotator[];
+  s0: Session;
+  uploadTo: number;
 }
 
-/**
- * The whole measurement on `servers` (one on SQLite; two on PostgreSQL, the annotators and uploads
- * shared out between them) over `dbTarget`; stops the servers before reading the database.
- */
-async function measure(servers: BenchProcess[], dbTarget: string, dir: string, pg: BenchPostgres | null): Promise<Measured> {
+/** Signs the annotators in, uploads their clips and waits until the clips are ready. */
+async function prepare(
+  name: string,
+  servers: BenchProcess[],
+  dbTarget: string,
+  workDir: string,
+  pg: BenchPostgres | null = null,
+): Promise<Subject> {
   const bases = servers.map((sv) => sv.url);
   const base = bases[0]!;
   const staff = DEMO_SIGN_INS.filter((s) => s.role !== 'athlete');
@@ -309,11 +322,9 @@ async function measure(servers: BenchProcess[], dbTarget: string, dir: string, p
     visits.body.assessments.find((a) => a.kind === 'baseline')!.id,
     visits.body.assessments.find((a) => a.kind === 'retest')!.id,
   ];
-
   const doc = runnerDocument();
-  process.stdout.write(`uploading ${ANNOTATORS} clips to annotate (160×90, 120 fps, ${doc.frameCount} frames)… `);
-  const small = path.join(dir, 'small.mp4');
-  if (!fs.existsSync(small)) makeClip(small, { width: 160, height: 90, fps: 120, seconds: doc.frameCount / 120 });
+  process.stdout.write(`${name}: uploading ${ANNOTATORS} clips to annotate (160×90, 120 fps, ${doc.frameCount} frames)… `);
+  const small = makeClip(path.join(workDir, 'small.mp4'), { width: 160, height: 90, fps: 120, seconds: doc.frameCount / 120 });
   const clipIds: number[] = [];
   for (let i = 0; i < ANNOTATORS; i += 5) {
     clipIds.push(
@@ -334,115 +345,193 @@ async function measure(servers: BenchProcess[], dbTarget: string, dir: string, p
     lastSavedBody: null,
     busy: Promise.resolve(),
   }));
-  const bodyBytes = JSON.stringify({ baseRevision: 0, ...annotators[0]!.doc }).length;
-  const big = path.join(dir, 'upload.mp4');
-  if (!fs.existsSync(big)) makeClip(big, { width: 1280, height: 720, fps: 30, seconds: 6 });
-  console.log(
-    `${ANNOTATORS} annotators over ${servers.length} server(s), ${annotators[0]!.doc.landmarks.length} landmark frame-sides per save (${Math.round(bodyBytes / 1024)} KiB), ` +
-      `${UPLOADS} uploads of a ${fs.statSync(big).size >> 20} MiB 720p clip at 1 MB/s each; ` +
-      `${os.cpus().length} cores, Node ${process.version}`,
-  );
-
   // Warm up (first saves create rows, JIT), uploads not yet running.
   await saturate(annotators, 2);
-
-  const uploads = uploadsRunning(bases, s0, uploadTo, big, UPLOADS);
-  await new Promise((r) => setTimeout(r, 3000));
-  const bareServer = await startBareExpress(dir);
-  let bareSat: { rate: number; ok: number; errors: number };
-  let bareCpuMs: number;
-  try {
-    const bareCpu0 = cpuSeconds(bareServer.pid);
-    bareSat = await saturateBare(`${bareServer.url}/api/bare`, annotators, SECONDS / 3);
-    bareCpuMs = ((cpuSeconds(bareServer.pid) - bareCpu0) / Math.max(1, bareSat.ok)) * 1000;
-  } finally {
-    await bareServer.stop();
-  }
-  const serverCpu = () => servers.reduce((a, sv) => a + cpuSeconds(sv.pid), 0);
-  const cpu0 = serverCpu();
-  const db0 = pg?.cpuSeconds() ?? 0;
-  const own0 = process.cpuUsage();
-  const sat = await saturate(annotators, SECONDS);
-  const satCpu = serverCpu() - cpu0;
-  const dbCpu = (pg?.cpuSeconds() ?? 0) - db0;
-  const own = process.cpuUsage(own0);
-  const open = await openLoop(annotators, RATE, SECONDS + 5);
-  const up = await uploads.stop();
-  for (const sv of servers) await sv.stop();
-  const check = await lostSaves(dbTarget, annotators);
-  const saves = Math.max(1, sat.t.ok);
-  return {
-    satRate: sat.t.ok / sat.wallS,
-    sat: sat.t,
-    open,
-    bare: bareSat,
-    bareCpuMs,
-    saveCpuMs: ((satCpu + dbCpu) / saves) * 1000,
-    dbCpuMs: pg ? (dbCpu / saves) * 1000 : null,
-    ownCpuPct: ((own.user + own.system) / 1e6 / sat.wallS) * 100,
-    uploads: up,
-    check,
-  };
+  return { name, servers, dbTarget, pg, annotators, s0, uploadTo };
 }
+
+/** Saturation with the uploads running: the tally and the server's CPU per save. */
+async function saturationRound(
+  x: Subject,
+  big: string,
+): Promise<{ sat: { t: Tally; wallS: number }; cpuMs: number; dbCpuMs: number; wallS: number }> {
+  const uploads = uploadsRunning(
+    x.servers.map((sv) => sv.url),
+    x.s0,
+    x.uploadTo,
+    big,
+    UPLOADS,
+  );
+  await new Promise((r) => setTimeout(r, 3000));
+  const serverCpu = () => x.servers.reduce((n, sv) => n + cpuSeconds(sv.pid), 0);
+  const cpu0 = serverCpu();
+  const db0 = x.pg?.cpuSeconds() ?? 0;
+  const satFrom = process.hrtime.bigint();
+  const sat = await saturate(x.annotators, SECONDS);
+  const dbCpuMs = (((x.pg?.cpuSeconds() ?? 0) - db0) / Math.max(1, sat.t.ok)) * 1000;
+  // All server-side CPU: the web processes and, on PostgreSQL, the database's own processes.
+  const cpuMs = ((serverCpu() - cpu0) / Math.max(1, sat.t.ok)) * 1000 + dbCpuMs;
+  // The saturation window on the monotonic clock a .cpuprofile's timestamps use (µs), to profile it alone.
+  if (process.env['BENCH_CPU_PROF'])
+    console.log(`${x.name}: saturation window (monotonic µs): ${satFrom / 1000n}–${process.hrtime.bigint() / 1000n}`);
+  await uploads.stop();
+  return { sat, cpuMs, dbCpuMs, wallS: sat.wallS };
+}
+
+/**
+ * Bundles the server as it was at git revision `rev` (exported to a temp folder) into
+ * `dist/bench-before/`, so it resolves the same node_modules and migrations folder as this tree.
+ */
+async function buildBefore(rev: string, tmp: string): Promise<string> {
+  const src = path.join(tmp, 'before-src');
+  fs.mkdirSync(src, { recursive: true });
+  const archive = spawnSync('sh', [
+    '-c',
+    `git archive ${JSON.stringify(rev)} server src migrations seeds | tar -x -C ${JSON.stringify(src)}`,
+  ]);
+  if (archive.status !== 0) throw new Error(`git archive ${rev}: ${archive.stderr}`);
+  const outdir = path.resolve('dist/bench-before');
+  await buildServer(src, outdir);
+  return path.join(outdir, 'main.mjs');
+}
+
+const median = (xs: number[]) => quantile(xs, 0.5);
 
 const { dir, cleanup } = benchDir('autosave');
 let server: BenchProcess | null = null;
+let before: BenchProcess | null = null;
+let bare: BenchProcess | null = null;
 let pg: BenchPostgres | null = null;
 let pair: BenchProcess[] = [];
 try {
   const dbFile = await seedDemo(dir);
   server = await startBundledServer(dir, dbFile);
-  const results: [string, Measured][] = [['SQLite, one server', await measure([server], dbFile, dir, null)]];
-  server = null;
+  const subjects = [await prepare('this build', [server], dbFile, dir)];
+  if (BEFORE) {
+    const beforeDir = path.join(dir, 'before');
+    fs.mkdirSync(beforeDir);
+    const beforeDb = await seedDemo(beforeDir);
+    before = await startBundledServer(beforeDir, beforeDb, {}, [], await buildBefore(BEFORE, dir));
+    subjects.push(await prepare(`before (${BEFORE})`, [before], beforeDb, beforeDir));
+  }
   if (args.postgres) {
     process.stdout.write('PostgreSQL: seeding the demo scenario… ');
     pg = await startBenchPostgres(dir);
     pair = await startWebPair(dir, pg);
     console.log(`servers ${pair.map((p) => p.url).join(' and ')}`);
-    results.push(['PostgreSQL, two servers', await measure(pair, pg.url, dir, pg)]);
-    pair = [];
+    subjects.push(await prepare('this build on PostgreSQL, two web servers', pair, pg.url, dir, pg));
   }
+  const current = subjects[0]!;
+  const { annotators } = current;
+  const bodyBytes = JSON.stringify({ baseRevision: 0, ...annotators[0]!.doc }).length;
+  const big = makeClip(path.join(dir, 'upload.mp4'), { width: 1280, height: 720, fps: 30, seconds: 6 });
+  console.log(
+    `${ANNOTATORS} annotators, ${annotators[0]!.doc.landmarks.length} landmark frame-sides per save (${Math.round(bodyBytes / 1024)} KiB), ` +
+      `${UPLOADS} uploads of a ${fs.statSync(big).size >> 20} MiB 720p clip at 1 MB/s each; ` +
+      `${os.cpus().length} cores, Node ${process.version}`,
+  );
 
+  // The bare handler, with the uploads running on this build's server as during its saturation.
+  const bareUploads = uploadsRunning([current.servers[0]!.url], current.s0, current.uploadTo, big, UPLOADS);
+  await new Promise((r) => setTimeout(r, 3000));
+  bare = await startBareExpress(dir);
+  const bareCpu0 = cpuSeconds(bare.pid);
+  const bareSat = await saturateBare(`${bare.url}/api/bare`, annotators, SECONDS / 3);
+  const bareCpuMs = ((cpuSeconds(bare.pid) - bareCpu0) / Math.max(1, bareSat.ok)) * 1000;
+  await bare.stop();
+  bare = null;
+  await bareUploads.stop();
+
+  // Saturation rounds, the builds taking turns (with --before), each with its own uploads running.
+  const own0 = process.cpuUsage();
+  const rounds = new Map(subjects.map((x) => [x, [] as Awaited<ReturnType<typeof saturationRound>>[]]));
+  for (let r = 0; r < (BEFORE || args.postgres ? ROUNDS : 1); r++)
+    for (const x of subjects) rounds.get(x)!.push(await saturationRound(x, big));
+  const own = process.cpuUsage(own0);
+  const ownWallS = [...rounds.values()].flat().reduce((n, x) => n + x.wallS + 3, 0);
+
+  const uploads = uploadsRunning([current.servers[0]!.url], current.s0, current.uploadTo, big, UPLOADS);
+  await new Promise((r) => setTimeout(r, 3000));
+  const open = await openLoop(annotators, RATE, SECONDS + 5);
+  const up = await uploads.stop();
+  const checks = new Map<Subject, Awaited<ReturnType<typeof lostSaves>>>();
+  for (const x of subjects) {
+    for (const sv of x.servers) await sv.stop();
+    checks.set(x, await lostSaves(x.dbTarget, x.annotators));
+  }
+  server = null;
+  before = null;
+  pair = [];
+
+  const mine = rounds.get(current)!;
+  const sat = mine.at(-1)!.sat;
+  const satRate = sat.t.ok / sat.wallS;
   console.log('');
+  console.log(`| autosave with ${UPLOADS} uploads running | saves/s | p50 | p99 | 409 | errors |`);
+  console.log('| --- | --- | --- | --- | --- | --- |');
+  for (const x of subjects)
+    for (const [i, round] of rounds.get(x)!.entries()) {
+      const t = round.sat.t;
+      console.log(
+        `| saturation, ${x.name}${BEFORE || args.postgres ? ` round ${i + 1}` : ''} (${ANNOTATORS} annotators back to back) | ${(t.ok / round.wallS).toFixed(0)} | ${ms(quantile(t.latencies, 0.5))} | ${ms(quantile(t.latencies, 0.99))} | ${t.conflicts} | ${t.errors} |`,
+      );
+    }
   console.log(
-    `| autosave with ${UPLOADS} uploads running | saturation saves/s (${ANNOTATORS} back to back) | p50 | p99 | of bare PUT/s | open loop ${RATE}/s due: p50 | p99 | 409 | errors | server CPU per save | of it PostgreSQL | acknowledged saves lost |`,
+    `| open loop, ${RATE} saves/s due | ${(open.ok / (SECONDS + 5)).toFixed(1)} | ${ms(quantile(open.latencies, 0.5))} | ${ms(quantile(open.latencies, 0.99))} | ${open.conflicts} | ${open.errors} |`,
   );
-  console.log('| --- | --- | --- | --- | --- | --- | --- | --- | --- | --- | --- | --- |');
-  for (const [name, m] of results) {
+  console.log(
+    `| bare Express: parse the same bodies and answer (same clients, same run) | ${bareSat.rate.toFixed(0)} | | | | ${bareSat.errors} |`,
+  );
+  console.log(`\nsaturation saves/s ÷ bare Express PUT/s in the same run: ${((satRate / bareSat.rate) * 100).toFixed(1)} %`);
+  const saveCpuMs = median(mine.map((x) => x.cpuMs));
+  console.log(
+    `\nserver CPU per save at saturation ${saveCpuMs.toFixed(2)} ms (the server process: receiving uploads included, its ffmpeg children not); ` +
+      `bare Express CPU per PUT ${bareCpuMs.toFixed(2)} ms; bare ÷ save ${((bareCpuMs / saveCpuMs) * 100).toFixed(1)} %; ` +
+      `one core's worth of saves at this CPU: ${(1000 / saveCpuMs).toFixed(0)}/s; load average ${os
+        .loadavg()
+        .map((l) => l.toFixed(1))
+        .join(' ')}; ` +
+      `this benchmark's own CPU ${(((own.user + own.system) / 1e6 / ownWallS) * 100).toFixed(0)} % of a core; uploads finished ${up.done}, failed ${up.failed}`,
+  );
+  const onPg = subjects.find((x) => x.pg);
+  if (onPg) {
+    const pgRounds = rounds.get(onPg)!;
+    const pgCpuMs = median(pgRounds.map((x) => x.cpuMs));
     console.log(
-      `| ${name} | ${m.satRate.toFixed(0)} | ${ms(quantile(m.sat.latencies, 0.5))} | ${ms(quantile(m.sat.latencies, 0.99))} | ` +
-        `${((m.satRate / m.bare.rate) * 100).toFixed(1)} % of ${m.bare.rate.toFixed(0)} | ${ms(quantile(m.open.latencies, 0.5))} | ${ms(quantile(m.open.latencies, 0.99))} | ` +
-        `${m.sat.conflicts + m.open.conflicts} | ${m.sat.errors + m.open.errors} | ${m.saveCpuMs.toFixed(2)} ms | ${m.dbCpuMs === null ? '–' : `${m.dbCpuMs.toFixed(2)} ms`} | ` +
-        `${m.check.lost} of ${m.check.checked} |`,
+      `CPU per save, medians of ${ROUNDS} alternating rounds: SQLite (one server) ${saveCpuMs.toFixed(2)} ms, PostgreSQL with two web servers ` +
+        `${pgCpuMs.toFixed(2)} ms (both web processes and PostgreSQL's own; of it PostgreSQL ${median(pgRounds.map((x) => x.dbCpuMs)).toFixed(2)} ms); ` +
+        `PostgreSQL ÷ SQLite ${(pgCpuMs / saveCpuMs).toFixed(2)}; one core's worth of saves on PostgreSQL: ${(1000 / pgCpuMs).toFixed(0)}/s`,
     );
   }
-  for (const [name, m] of results) {
+  if (BEFORE) {
+    const was = median(rounds.get(subjects[1]!)!.map((x) => x.cpuMs));
     console.log(
-      `\n${name}: server CPU per save at saturation ${m.saveCpuMs.toFixed(2)} ms (the server processes: receiving uploads included, their ffmpeg children not` +
-        `${m.dbCpuMs === null ? '' : '; PostgreSQL included'}); bare Express CPU per PUT ${m.bareCpuMs.toFixed(2)} ms; bare ÷ save ${((m.bareCpuMs / m.saveCpuMs) * 100).toFixed(1)} %; ` +
-        `one core's worth of saves at this CPU: ${(1000 / m.saveCpuMs).toFixed(0)}/s; ` +
-        `this benchmark's own CPU ${m.ownCpuPct.toFixed(0)} % of a core; uploads finished ${m.uploads.done}, failed ${m.uploads.failed}`,
+      `CPU per save, medians of ${ROUNDS} alternating rounds: this build ${saveCpuMs.toFixed(2)} ms, before (${BEFORE}) ${was.toFixed(2)} ms; ` +
+        `this ÷ before ${(saveCpuMs / was).toFixed(2)} (rounds: ${mine.map((x) => x.cpuMs.toFixed(2)).join(', ')} against ${rounds
+          .get(subjects[1]!)!
+          .map((x) => x.cpuMs.toFixed(2))
+          .join(', ')})`,
     );
-    for (const [phase, t] of [
-      ['saturation', m.sat],
-      ['open loop', m.open],
-    ] as const)
-      if (t.errors) console.log(`${phase} errors: ${[...t.errorKinds].map(([k, n]) => `${k} × ${n}`).join(', ')}`);
-    if (m.check.problems.length) console.log(`${m.check.problems.length} problems:`);
-    for (const p of m.check.problems.slice(0, 10)) console.log(`  ${p}`);
   }
-  console.log(
-    `\nload average ${os
-      .loadavg()
-      .map((l) => l.toFixed(1))
-      .join(' ')}`,
-  );
-  const met = results.every(
-    ([, m]) => m.satRate >= 200 && quantile(m.open.latencies, 0.99) <= 200 && m.check.lost === 0 && !m.check.problems.length,
-  );
+  for (const [name, t] of [
+    ['saturation', sat.t],
+    ['open loop', open],
+  ] as const)
+    if (t.errors) console.log(`${name} errors: ${[...t.errorKinds].map(([k, n]) => `${k} × ${n}`).join(', ')}`);
+  for (const x of subjects) {
+    const check = checks.get(x)!;
+    console.log(
+      `${x.name}: acknowledged saves checked in the database: ${check.checked}, lost: ${check.lost}${check.problems.length ? `; ${check.problems.length} problems:` : ''}`,
+    );
+    for (const p of check.problems.slice(0, 10)) console.log(`  ${p}`);
+  }
+  const check = checks.get(current)!;
+  const met = satRate >= 200 && quantile(open.latencies, 0.99) <= 200 && check.lost === 0 && !check.problems.length;
   console.log(`\ntarget (≥ 200 saves/s at saturation, open-loop p99 ≤ 200 ms, 0 lost): ${met ? 'met' : 'NOT met'}`);
 } finally {
   await server?.stop();
+  await before?.stop();
+  await bare?.stop();
   for (const p of pair) await p.stop();
   pg?.stop();
   if (args.keep) console.log(`kept ${dir}`);

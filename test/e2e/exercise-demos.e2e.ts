@@ -70,6 +70,13 @@ describe('exercise demonstrations', () => {
     await page.goto(`${h.baseUrl}/exercises`);
     await page.getByRole('button', { name: `Pictures of ${EXERCISE}` }).click();
     const dialog = page.getByRole('dialog');
+    // No pictures yet: the dialog says so and how to add them, at both sizes.
+    await dialog.getByText('No pictures yet').waitFor();
+    await page.screenshot({ path: shot('demos-editor-empty-1440.png') });
+    await page.setViewportSize(PHONE);
+    await page.waitForTimeout(300);
+    await page.screenshot({ path: shot('demos-editor-empty-390.png') });
+    await page.setViewportSize(DESKTOP);
     await dialog.locator('input[type=file][multiple]').setInputFiles([path.join(dir, 'position-1.png'), path.join(dir, 'position-2.png')]);
     const pictures = dialog.getByRole('list', { name: 'Pictures in order' }).getByRole('listitem');
     await expect.poll(() => pictures.count(), { timeout: 60_000 }).toBe(2);

@@ -20,6 +20,7 @@ import { onPostgres } from '../support/test-db';
 import { selectRows } from '../../server/db/dialect';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { listRouteActions, listRoutes } from '../support/routes';
+import { oneStagePlan } from '../support/plans';
 import type { Action } from '../../server/policy/access-table';
 import { decide, decideRole, type Actor, type Owner, type ResourceState } from '../../server/policy/decide';
 import { Jimp } from 'jimp';
@@ -1703,21 +1704,7 @@ const exercise = {
 /** Ids the plan routes of the walk use: the self athlete's active plan and a log, another athlete's plan. */
 const pc = { exerciseId: 0, scratchExerciseId: 0, planId: 0, stageId: 0, otherPlanId: 0, draftPlanId: 0, scratchPlanId: 0, logKey: '' };
 
-const planBody = () => ({
-  title: 'Walk plan',
-  assessmentId: null,
-  notes: null,
-  stages: [
-    {
-      name: 'Holds',
-      goal: '',
-      targetWeeks: 2,
-      progressionText: '',
-      criteria: [],
-      exercises: [{ exerciseId: pc.exerciseId, dose: exercise.dose, notes: null }],
-    },
-  ],
-});
+const planBody = () => oneStagePlan('Walk plan', pc.exerciseId, exercise.dose);
 
 const logBody = () => ({
   key: `walk-${Math.random().toString(36).slice(2)}`,

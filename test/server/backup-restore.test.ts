@@ -194,8 +194,10 @@ describe.skipIf(onPostgres)(
       expect(r).toBeLessThanOrEqual(revision);
       const frames = (await restoredDb('clip_landmarks').where({ clip_id: clipA }).distinct('frame').orderBy('frame')).map((f) => f.frame);
       expect(frames).toEqual(Array.from({ length: r }, (_, i) => i));
+      // Measures are computed when read, not on save: a snapshot, if any, is of a revision the restored clip has reached.
       const snapshots = await restoredDb('measure_snapshots').where({ clip_id: clipA }).select('annotation_revision');
-      expect(snapshots.map((s) => s.annotation_revision)).toEqual([r]);
+      expect(snapshots.length).toBeLessThanOrEqual(1);
+      for (const s of snapshots) expect(s.annotation_revision).toBeLessThanOrEqual(r);
       if (r === ackedRevision) expect(moved).toEqual([]);
 
       // Whatever clip the snapshot holds as ready has its frames restored (media came after the snapshot).

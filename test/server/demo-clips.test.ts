@@ -17,9 +17,11 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { DemoClip, ExerciseDemonstrations } from '../../src/contracts/demonstrations';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { UPLOAD_TEMP_SUFFIX, uploadTempDir } from '../../server/storage/upload-temps';
+import { storedExerciseFiles, uploadFile } from '../support/demonstrations';
+import { startPlanWith } from '../support/plans';
 import { followProcessingEvents } from '../support/event-stream';
 import { OTHER, signedIn, makeTestApp, type Client, type TestApp } from '../support/test-app';
-import { ffmpegRun, ffprobeJson, tempDir } from './media/fixtures';
+import { ffprobeJson, makeClip, tempDir } from './media/fixtures';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -34,40 +36,14 @@ let planned: number;
 let unplanned: number;
 let spare: number;
 
-/** 3 s of 1920×1080 at 60 frames/s with a 440 Hz tone, as a phone records it (MOV, AAC). */
-async function phoneClip(file: string, seconds: number, size = '1920x1080', rate = 60): Promise<string> {
-  await ffmpegRun([
-    '-f',
-    'lavfi',
-    '-i',
-    `testsrc2=size=${size}:rate=${rate}`,
-    '-f',
-    'lavfi',
-    '-i',
-    'sine=frequency=440:sample_rate=44100',
-    '-t',
-    String(seconds),
-    '-c:v',
-    'libx264',
-    '-preset',
-    'ultrafast',
-    '-pix_fmt',
-    'yuv420p',
-    '-c:a',
-    'aac',
-    '-shortest',
-    file,
-  ]);
-  return file;
+/** A clip as a phone records it (H.264 with an AAC tone), 1920×1080 at 60 frames/s unless said. */
+function phoneClip(file: string, seconds: number, size = '1920x1080', rate = 60): Promise<string> {
+  const [width, height] = size.split('x').map(Number) as [number, number];
+  return makeClip(file, { width, height, fps: rate, seconds, audio: true });
 }
 
-async function upload(client: Client, exerciseId: number, file: string, caption?: string) {
-  const req = client.agent
-    .post(`/api/exercises/${exerciseId}/demo-clip`)
-    .set('X-XSRF-TOKEN', await client.xsrf())
-    .attach('file', file);
-  return caption === undefined ? req : req.field('caption', caption);
-}
+const upload = (client: Client, exerciseId: number, file: string, caption?: string) =>
+  uploadFile(client, `/api/exercises/${exerciseId}/demo-clip`, file, undefined, caption);
 
 /** Top-level ISO-BMFF box types of a file, in order. */
 function topLevelBoxes(bytes: Buffer): string[] {
@@ -83,12 +59,7 @@ function topLevelBoxes(bytes: Buffer): string[] {
   return types;
 }
 
-/** Every stored file under uploads/exercises (none may stay behind a refusal). */
-function storedFiles(): string[] {
-  const root = path.join(t.config.uploadsDir, 'exercises');
-  if (!fs.existsSync(root)) return [];
-  return (fs.readdirSync(root, { recursive: true }) as string[]).filter((f) => fs.statSync(path.join(root, f)).isFile());
-}
+const storedFiles = () => storedExerciseFiles(t.config.uploadsDir);
 
 /** Upload temp files still on disk. */
 function uploadTemps(): string[] {
@@ -108,23 +79,7 @@ beforeAll(async () => {
   const ada = await t.db('athletes').where({ email: athlete.email }).first();
   const [e1, e2, e3] = (await c.get('/api/exercises')).body.exercises;
   [planned, unplanned, spare] = [e1.id, e2.id, e3.id];
-  const plan = await c.post(`/api/athletes/${ada.id}/plans`, {
-    title: 'Calf loading',
-    assessmentId: null,
-    notes: null,
-    stages: [
-      {
-        name: 'Holds',
-        goal: '',
-        targetWeeks: 2,
-        progressionText: '',
-        criteria: [],
-        exercises: [{ exerciseId: planned, dose: e1.dose, notes: null }],
-      },
-    ],
-  });
-  expect(plan.status, JSON.stringify(plan.body)).toBe(201);
-  expect((await c.post(`/api/plans/${plan.body.id}/transitions`, { action: 'start' })).status).toBe(200);
+  await startPlanWith(c, ada.id, e1);
 }, 120_000);
 afterAll(async () => {
   server?.close();
@@ -192,21 +147,7 @@ describe('demonstration clip', () => {
 
   it('a portrait clip keeps its orientation with its long side at most 1280', async () => {
     const file = path.join(work.dir, 'portrait.mp4');
-    await ffmpegRun([
-      '-f',
-      'lavfi',
-      '-i',
-      'testsrc2=size=720x1600:rate=25',
-      '-t',
-      '1',
-      '-c:v',
-      'libx264',
-      '-preset',
-      'ultrafast',
-      '-pix_fmt',
-      'yuv420p',
-      file,
-    ]);
+    await makeClip(file, { width: 720, height: 1600, fps: 25, seconds: 1 });
     const res = await upload(c, spare, file);
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     await expect
@@ -229,21 +170,7 @@ describe('demonstration clip', () => {
 
   it('a clip over 30 s is refused 422 clip_too_long, leaving no row, no file and no temp file', async () => {
     const long = path.join(work.dir, 'long.mp4');
-    await ffmpegRun([
-      '-f',
-      'lavfi',
-      '-i',
-      'color=c=gray:s=160x120:r=5',
-      '-t',
-      '31',
-      '-c:v',
-      'libx264',
-      '-preset',
-      'ultrafast',
-      '-pix_fmt',
-      'yuv420p',
-      long,
-    ]);
+    await makeClip(long, { width: 160, height: 120, fps: 5, seconds: 31 });
     const before = storedFiles();
     const res = await upload(c, unplanned, long);
     expect(res.status).toBe(422);

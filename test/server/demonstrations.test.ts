@@ -6,8 +6,6 @@
  * PDFs (image count read with pdf-parse) and in e-mails (the HTML part as the fake SMTP receiver
  * parsed it with mailparser).
  */
-import fs from 'node:fs';
-import path from 'node:path';
 import exifr from 'exifr';
 import { imageSize } from 'image-size';
 import { Jimp } from 'jimp';
@@ -15,6 +13,8 @@ import { PDFParse } from 'pdf-parse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { OTHER, signedIn, makeTestApp, type Client, type TestApp } from '../support/test-app';
+import { storedExerciseFiles, uploadFile } from '../support/demonstrations';
+import { startPlanWith } from '../support/plans';
 import { gifBomb, jpegDeclaring, markedJpeg, withExif } from '../support/pictures';
 import type { DemoPicture } from '../../src/contracts/demonstrations';
 
@@ -31,20 +31,9 @@ let unplanned: number;
 const bytesOf = (res: { body: unknown }) => res.body as Buffer;
 const binary = (client: Client, url: string) => client.binary(url);
 
-async function upload(client: Client, exerciseId: number, file: Buffer, name = 'photo.jpg', caption?: string) {
-  const req = client.agent
-    .post(`/api/exercises/${exerciseId}/demo-pictures`)
-    .set('X-XSRF-TOKEN', await client.xsrf())
-    .attach('file', file, name);
-  return caption === undefined ? req : req.field('caption', caption);
-}
-
-/** Every stored file under uploads/exercises (none may stay behind a refusal). */
-function storedFiles(): string[] {
-  const root = path.join(t.config.uploadsDir, 'exercises');
-  if (!fs.existsSync(root)) return [];
-  return (fs.readdirSync(root, { recursive: true }) as string[]).filter((f) => fs.statSync(path.join(root, f)).isFile());
-}
+const upload = (client: Client, exerciseId: number, file: Buffer, name = 'photo.jpg', caption?: string) =>
+  uploadFile(client, `/api/exercises/${exerciseId}/demo-pictures`, file, name, caption);
+const storedFiles = () => storedExerciseFiles(t.config.uploadsDir);
 
 beforeAll(async () => {
   t = await makeTestApp({}, { fakeSmtp: true, fakePayments: true });
@@ -56,23 +45,7 @@ beforeAll(async () => {
   const [e1, e2] = (await c.get('/api/exercises')).body.exercises;
   planned = e1.id;
   unplanned = e2.id;
-  const plan = await c.post(`/api/athletes/${ada.id}/plans`, {
-    title: 'Calf loading',
-    assessmentId: null,
-    notes: null,
-    stages: [
-      {
-        name: 'Holds',
-        goal: '',
-        targetWeeks: 2,
-        progressionText: '',
-        criteria: [],
-        exercises: [{ exerciseId: planned, dose: e1.dose, notes: null }],
-      },
-    ],
-  });
-  expect(plan.status, JSON.stringify(plan.body)).toBe(201);
-  expect((await c.post(`/api/plans/${plan.body.id}/transitions`, { action: 'start' })).status).toBe(200);
+  await startPlanWith(c, ada.id, e1);
 });
 afterAll(async () => {
   await t.close();

@@ -9,6 +9,7 @@ import path from 'node:path';
 import { startPostgres } from '../../../scripts/postgres-server';
 import { createDb, migrate } from '../../../server/db/knex';
 import { seed } from '../../../seeds/demo-scenario';
+import { SERVER_BUNDLE } from '../../../scripts/build-server';
 import { startBundledServer, type BenchProcess } from './bench-server';
 
 /** A running private PostgreSQL server with the demo scenario. */
@@ -65,8 +66,8 @@ export async function startBenchPostgres(dir: string): Promise<BenchPostgres> {
 export async function startWebPair(dir: string, pg: BenchPostgres, env: Record<string, string> = {}): Promise<BenchProcess[]> {
   const on = { DATABASE_URL: pg.url, UPLOADS_DIR: path.join(dir, 'uploads-pg'), ...env };
   const unused = path.join(dir, 'unused.sqlite');
-  const a = await startBundledServer(dir, unused, on, [], 'server-a.log');
-  const b = await startBundledServer(dir, unused, on, [], 'server-b.log').catch(async (err: unknown) => {
+  const a = await startBundledServer(dir, unused, on, [], SERVER_BUNDLE, 'server-a.log');
+  const b = await startBundledServer(dir, unused, on, [], SERVER_BUNDLE, 'server-b.log').catch(async (err: unknown) => {
     await a.stop();
     throw err;
   });

@@ -23,7 +23,7 @@ export interface BenchProcess {
 /** A temp folder for one run, removed by `cleanup` (also on Ctrl+C). */
 export function benchDir(prefix: string): { dir: string; cleanup: () => void } {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), `tf-bench-${prefix}-`));
-  const cleanup = () => fs.rmSync(dir, { recursive: true, force: true });
+  const cleanup = () => fs.rmSync(dir, { recursive: true, force: true, maxRetries: 5 });
   for (const signal of ['SIGINT', 'SIGTERM'] as const) {
     process.once(signal, () => {
       cleanup();
@@ -69,7 +69,7 @@ function stopper(child: ChildProcess): () => Promise<void> {
 }
 
 /**
- * Builds the server bundle and runs it with plain Node, as `npm start` does, on a free port with
+ * Builds the server bundle (unless another `bundle` is given) and runs it with plain Node, as `npm start` does, on a free port with
  * the default log level (its log goes to `dir/server.log`, written by the server itself, so
  * reading it costs the benchmark nothing; `logName` when several run in one folder). Demo mode,
  * with the fake mail and payment services on free ports.
@@ -79,9 +79,10 @@ export async function startBundledServer(
   dbFile: string,
   env: Record<string, string> = {},
   nodeArgs: string[] = [],
+  bundle = SERVER_BUNDLE,
   logName = 'server.log',
 ): Promise<BenchProcess> {
-  await buildServer();
+  if (bundle === SERVER_BUNDLE) await buildServer();
   const log = path.join(dir, logName);
   const fd = fs.openSync(log, 'a');
   // BENCH_CPU_PROF=dir writes the server's CPU profile there when it stops (node --cpu-prof).
@@ -95,7 +96,7 @@ export async function startBundledServer(
     ];
   if (process.env['BENCH_NODE_ARGS']) nodeArgs = [...nodeArgs, ...process.env['BENCH_NODE_ARGS'].split(' ')];
   if (process.env['BENCH_NODE_IMPORT']) nodeArgs = [...nodeArgs, `--import=${process.env['BENCH_NODE_IMPORT']}`];
-  const child = spawn(process.execPath, ['--enable-source-maps', ...nodeArgs, SERVER_BUNDLE], {
+  const child = spawn(process.execPath, ['--enable-source-maps', ...nodeArgs, bundle], {
     stdio: ['ignore', fd, fd],
     env: {
       ...process.env,
@@ -146,8 +147,12 @@ export function cpuSeconds(pid: number): number {
   }
 }
 
-/** Keep-alive agent for the benchmark's own HTTP calls. */
-export const agent = new http.Agent({ keepAlive: true, maxSockets: 256 });
+/**
+ * Keep-alive agent for the benchmark's own HTTP calls. An idle socket is dropped after 4 s, before
+ * the server's 5 s keep-alive timeout closes it, so a request never goes out on a socket the server
+ * is closing (an ECONNRESET that says nothing about the server).
+ */
+export const agent = new http.Agent({ keepAlive: true, maxSockets: 256, timeout: 4000 });
 
 export interface Answer {
   status: number;

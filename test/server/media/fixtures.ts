@@ -32,6 +32,8 @@ export interface ClipSpec {
   source?: 'testsrc2' | 'corner-marker';
   /** Container flags, e.g. `+faststart`. */
   movflags?: string;
+  /** Whether to add an AAC audio stream (a 440 Hz tone), as a phone records. */
+  audio?: boolean;
 }
 
 /** H.264 yuv420p clip from lavfi (ultrafast preset to spare the shared CPU). */
@@ -42,11 +44,14 @@ export async function makeClip(file: string, spec: ClipSpec): Promise<string> {
       ? `color=c=black:s=${size}:r=${spec.fps},drawbox=x=0:y=0:w=40:h=40:c=white:t=fill`
       : `testsrc2=size=${size}:rate=${spec.fps}`;
   const flags = spec.movflags ? ['-movflags', spec.movflags] : [];
+  const tone = spec.audio ? ['-f', 'lavfi', '-i', 'sine=frequency=440:sample_rate=44100'] : [];
+  const audio = spec.audio ? ['-c:a', 'aac', '-shortest'] : [];
   await ffmpegRun([
     '-f',
     'lavfi',
     '-i',
     lavfi,
+    ...tone,
     '-t',
     String(spec.seconds),
     '-c:v',
@@ -55,6 +60,7 @@ export async function makeClip(file: string, spec: ClipSpec): Promise<string> {
     'ultrafast',
     '-pix_fmt',
     'yuv420p',
+    ...audio,
     ...flags,
     file,
   ]);

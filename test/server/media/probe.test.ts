@@ -108,28 +108,7 @@ describe('containers (outside reference: the ffmpeg muxer that wrote the file)',
 
   it('a clip with a sound track reports hasAudio; frame count matches ffprobe -count_frames (outside reference)', async () => {
     const file = path.join(dir, 'with-audio.mp4');
-    await ffmpegRun([
-      '-f',
-      'lavfi',
-      '-i',
-      'testsrc2=size=320x180:rate=30',
-      '-f',
-      'lavfi',
-      '-i',
-      'sine=f=440',
-      '-t',
-      '0.5',
-      '-c:v',
-      'libx264',
-      '-preset',
-      'ultrafast',
-      '-pix_fmt',
-      'yuv420p',
-      '-c:a',
-      'aac',
-      '-shortest',
-      file,
-    ]);
+    await makeClip(file, { width: 320, height: 180, fps: 30, seconds: 0.5, audio: true });
     const probe = await probeVideo(file);
     expect(probe.hasAudio).toBe(true);
     expect(probe.frameCount).toBe((await ffprobeCounted(file)).nbReadFrames);

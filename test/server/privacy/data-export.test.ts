@@ -68,6 +68,15 @@ beforeAll(async () => {
   expect((await coach.post(`/api/stills/${still.body.id}/publish`)).status).toBe(200);
   await coach.post(`/api/clips/${clipId}/stills`, { frameIndex: 1, caption: 'Not shared', showAngles: true });
   await t.worker!.idle();
+  // Marks saved and never read since: a save leaves the measures to their first read.
+  const marks = { hip: { x: 0.5, y: 0.4 }, knee: { x: 0.53, y: 0.6 }, ankle: { x: 0.5, y: 0.8 } };
+  const saved = await coach.put(`/api/clips/${clipId}/annotations`, {
+    baseRevision: 0,
+    landmarks: [{ frame: 2, side: 'right', points: marks }],
+    events: [],
+    scale: null,
+  });
+  expect(saved.status, JSON.stringify(saved.body)).toBe(200);
 }, 120_000);
 
 afterAll(async () => {
@@ -140,6 +149,16 @@ describe('data export', () => {
     for (const i of data.tables.invitations) expect(i).not.toHaveProperty('token_hash');
     expect(data.tables.invoices.length).toBeGreaterThan(0);
     expect(data.tables.consents.length).toBeGreaterThan(0);
+    // Every ready clip's measures are those of its latest marks, though none was read after the save.
+    const ready = (data.tables.clips as { id: number; status: string; annotation_revision: number }[]).filter((c) => c.status === 'ready');
+    expect(ready.map((c) => c.id)).toContain(clipId);
+    for (const c of ready) {
+      const snapshot = (data.tables.measure_snapshots as { clip_id: number; annotation_revision: number }[]).find(
+        (m) => m.clip_id === c.id,
+      );
+      expect(snapshot?.annotation_revision, `clip ${c.id}`).toBe(c.annotation_revision);
+    }
+    expect(ready.find((c) => c.id === clipId)!.annotation_revision).toBe(1);
     // Rows counted here straight from the database, table by table.
     for (const table of ['assessments', 'stills', 'plans', 'log_entries', 'consents', 'injuries']) {
       const n = ((await t.db(table).where({ athlete_id: adaId }).count('* as n')) as { n: number }[])[0]!.n;

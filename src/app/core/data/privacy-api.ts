@@ -32,23 +32,25 @@ export class PrivacyApi {
     return this.http.post<ErasureResult>(`/api/athletes/${athleteId}/erasure`, { confirmName }, { context: skipErrorSnackbar(422) });
   }
 
+  /** Erases the athlete's clips; a failure is shown on the Data tab. */
   eraseClips(athleteId: number): Observable<ClipErasureResult> {
-    return this.http.post<ClipErasureResult>(`/api/athletes/${athleteId}/clips/erasure`, { confirm: true });
+    return this.http.post<ClipErasureResult>(`/api/athletes/${athleteId}/clips/erasure`, { confirm: true }, { context: skipErrorSnackbar() });
   }
 
   retention(): Observable<RetentionSettings> {
     return this.http.get<RetentionSettings>('/api/clinic/retention');
   }
 
+  /** The retention changes below show their failures on the retention card. */
   setRetention(months: number | null): Observable<RetentionSettings> {
-    return this.http.put<RetentionSettings>('/api/clinic/retention', { months }, { context: skipErrorSnackbar(422) });
+    return this.http.put<RetentionSettings>('/api/clinic/retention', { months }, { context: skipErrorSnackbar() });
   }
 
   checkRetention(): Observable<RetentionSettings> {
-    return this.http.post<RetentionSettings>('/api/clinic/retention/reviews', null);
+    return this.http.post<RetentionSettings>('/api/clinic/retention/reviews', null, { context: skipErrorSnackbar() });
   }
 
   confirmRetention(reviewId: number): Observable<RetentionSettings> {
-    return this.http.post<RetentionSettings>(`/api/clinic/retention/reviews/${reviewId}/confirm`, null);
+    return this.http.post<RetentionSettings>(`/api/clinic/retention/reviews/${reviewId}/confirm`, null, { context: skipErrorSnackbar() });
   }
 }

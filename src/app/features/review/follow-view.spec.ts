@@ -1,5 +1,5 @@
 import type { FrameLandmarks } from '../../../contracts/annotations';
-import { followRangeProblem, followStatusText, isFollowed, lowConfidenceFrames } from './follow-view';
+import { followBlockedReason, followRangeProblem, followStatusText, isFollowed, lowConfidenceFrames } from './follow-view';
 
 // Hand-made rows [calc]: the expected frames are read off the rows below.
 const rows: FrameLandmarks[] = [
@@ -50,5 +50,17 @@ describe('follow view', () => {
       'This frame (60) is outside 10–50: follow from a frame inside the range.',
     );
     expect(followRangeProblem({ from: 1.5, to: 50 }, 20, 120)).toBe('Frame numbers are whole numbers.');
+  });
+
+  it('says why following cannot start yet: no markers on this frame first, then edits still saving; nothing while running or when ready', () => {
+    expect(followBlockedReason({ running: false, pointsHere: 0, unsaved: false })).toBe(
+      'Place markers on this frame first: following starts from the points you placed here.',
+    );
+    expect(followBlockedReason({ running: false, pointsHere: 0, unsaved: true })).toMatch(/^Place markers/);
+    expect(followBlockedReason({ running: false, pointsHere: 6, unsaved: true })).toBe(
+      'Saving your marks… following can start once they are saved.',
+    );
+    expect(followBlockedReason({ running: false, pointsHere: 6, unsaved: false })).toBeNull();
+    expect(followBlockedReason({ running: true, pointsHere: 0, unsaved: true })).toBeNull();
   });
 });

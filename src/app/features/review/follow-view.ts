@@ -42,6 +42,17 @@ export function followRangeProblem(range: FollowRange, frame: number, frameCount
   return null;
 }
 
+/**
+ * Why "Follow markers from this frame" is not available yet (range problems aside), in words, or
+ * null when it is (or while a follow runs: its status says what happens).
+ */
+export function followBlockedReason(s: { running: boolean; pointsHere: number; unsaved: boolean }): string | null {
+  if (s.running) return null;
+  if (s.pointsHere === 0) return 'Place markers on this frame first: following starts from the points you placed here.';
+  if (s.unsaved) return 'Saving your marks… following can start once they are saved.';
+  return null;
+}
+
 /** A follow's state in words: "Following markers… 40 of 120 frames", "Markers followed.", the reason it failed. */
 export function followStatusText(e: Pick<ProcessingEvent, 'state' | 'progress' | 'error'>): string {
   switch (e.state) {

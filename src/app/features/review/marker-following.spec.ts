@@ -58,10 +58,12 @@ describe('MarkerFollowing', () => {
     store.open({ clip, assessment: { surface: 'treadmill', speedMps: 3 } as Assessment, manifest }, loaded, cache);
   });
 
-  it('needs landmarks on the current frame', () => {
+  it('needs landmarks on the current frame, and says so until there are', () => {
     expect(following.canFollow()).toBe(false);
+    expect(following.blocked()).toMatch(/^Place markers on this frame first/);
     store.goTo(10);
     expect(following.canFollow()).toBe(true);
+    expect(following.blocked()).toBeNull();
   });
 
   it('asks to follow from the current frame over the whole clip, shows progress, then the followed points as one undo step with the frames to check', async () => {

@@ -5,7 +5,7 @@ import { ReviewApi } from '../../core/data/review-api';
 import { ProcessingEvents } from '../../core/processing-events';
 import { diffStates, stateOf } from './annotation-changes';
 import { AnnotationSync } from './annotation-sync';
-import { followRangeProblem, followStatusText, lowConfidenceFrames, type FollowRange } from './follow-view';
+import { followBlockedReason, followRangeProblem, followStatusText, lowConfidenceFrames, type FollowRange } from './follow-view';
 import { ReviewStore } from './review-store';
 
 /** How long a finished follow waits for the page's own unsaved edits to be saved before showing the result. */
@@ -58,17 +58,18 @@ export class MarkerFollowing {
   readonly rangeProblem = computed(() => followRangeProblem(this.range(), this.store.frame(), this.store.frameCount()));
   /** Frames with a followed point below the confidence the coach should check. */
   readonly lowFrames = computed(() => lowConfidenceFrames(this.store.annotations().landmarks));
-  /** Whether following can start now: a clip is open, this frame has landmarks, every edit is saved. */
-  readonly canFollow = computed(() => {
+  /** Why following cannot start from this frame (no markers placed here, edits still saving), or null. */
+  readonly blocked = computed(() => {
     const frame = this.store.frame();
-    return (
-      !!this.store.clip() &&
-      !this.running$() &&
-      !this.sync.hasUnsaved() &&
-      !this.rangeProblem() &&
-      this.store.annotations().landmarks.some((l) => l.frame === frame && Object.keys(l.points).length > 0)
-    );
+    const here = this.store.annotations().landmarks.find((l) => l.frame === frame && Object.keys(l.points).length > 0);
+    return followBlockedReason({
+      running: this.running$(),
+      pointsHere: here ? Object.keys(here.points).length : 0,
+      unsaved: this.sync.hasUnsaved(),
+    });
   });
+  /** Whether following can start now: a clip is open, this frame has landmarks, every edit is saved. */
+  readonly canFollow = computed(() => !!this.store.clip() && !this.running$() && !this.blocked() && !this.rangeProblem());
 
   constructor() {
     inject(DestroyRef).onDestroy(() => this.watch?.unsubscribe());

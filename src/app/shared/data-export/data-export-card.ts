@@ -9,6 +9,7 @@ import { errorMessage } from '../../core/api-error';
 import { PrivacyApi } from '../../core/data/privacy-api';
 import { ProcessingEvents } from '../../core/processing-events';
 import { followRenders } from '../sharing/follow-renders';
+import { ErrorState } from '../states/error-state';
 import { exportLine, isBuilding } from './export-words';
 
 /**
@@ -18,7 +19,7 @@ import { exportLine, isBuilding } from './export-words';
  */
 @Component({
   selector: 'app-data-export-card',
-  imports: [DatePipe, MatButtonModule, MatIconModule, MatProgressBarModule],
+  imports: [DatePipe, MatButtonModule, MatIconModule, MatProgressBarModule, ErrorState],
   changeDetection: ChangeDetectionStrategy.OnPush,
   template: `
     <p class="muted small">{{ intro() }}</p>
@@ -31,7 +32,13 @@ import { exportLine, isBuilding } from './export-words';
     @if (problem(); as p) {
       <p class="problem" role="alert">{{ p }}</p>
     }
-    @if (exports.hasValue() && exports.value().length) {
+    @if (exports.error(); as error) {
+      <app-error-state title="Couldn't load the exports" [message]="errorMessage(error)" (retry)="exports.reload()" />
+    } @else if (exports.isLoading() && !exports.hasValue()) {
+      <mat-progress-bar mode="indeterminate" aria-label="Loading the exports" />
+    } @else if (exports.hasValue() && !exports.value().length) {
+      <p class="muted small none">No export prepared yet.</p>
+    } @else if (exports.hasValue()) {
       <ul class="exports" aria-label="Exports">
         @for (e of exports.value(); track e.id) {
           <li>
@@ -74,6 +81,9 @@ import { exportLine, isBuilding } from './export-words';
     .problem {
       color: var(--mat-sys-error);
     }
+    .none {
+      margin: 12px 0 0;
+    }
   `,
 })
 export class DataExportCard {
@@ -95,6 +105,7 @@ export class DataExportCard {
       : `One zip with everything held about this athlete (rows as JSON, original clips, stills, summaries, annotated clips, receipts, a README). The link works for ${EXPORT_LINK_HOURS} hours; each download is recorded.`,
   );
   protected readonly line = exportLine;
+  protected readonly errorMessage = errorMessage;
 
   constructor() {
     // Progress and completion come from the athlete's one progress stream (shared with the page's other lists).

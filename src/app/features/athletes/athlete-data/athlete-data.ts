@@ -1,13 +1,15 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, inject, input } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router } from '@angular/router';
 import { filter, switchMap } from 'rxjs';
 import type { ErasureResult } from '../../../../contracts/privacy';
+import { errorMessage } from '../../../core/api-error';
 import { PrivacyApi } from '../../../core/data/privacy-api';
 import { CautionNote } from '../../../shared/caution-note/caution-note';
 import { ERASURE_CAUTION } from '../../../shared/caution';
@@ -20,11 +22,13 @@ import { EraseAthleteDialog, type EraseAthleteData } from './erase-athlete-dialo
 /** The owner's Data tab of an athlete: consents, what is held, export, erasing the clips after video consent is withdrawn, erasure. */
 @Component({
   selector: 'app-athlete-data',
-  imports: [DatePipe, MatButtonModule, MatIconModule, CautionNote, DataExportCard, ErrorState],
+  imports: [DatePipe, MatButtonModule, MatIconModule, MatProgressBarModule, CautionNote, DataExportCard, ErrorState],
   changeDetection: ChangeDetectionStrategy.OnPush,
   template: `
-    @if (overview.error()) {
-      <app-error-state title="Couldn't load the athlete's data" message="Try again in a moment." (retry)="overview.reload()" />
+    @if (overview.error(); as error) {
+      <app-error-state title="Couldn't load the athlete's data" [message]="errorMessage(error)" (retry)="overview.reload()" />
+    } @else if (overview.isLoading() && !overview.hasValue()) {
+      <mat-progress-bar mode="indeterminate" aria-label="Loading the athlete's data" />
     } @else if (overview.hasValue()) {
       @let o = overview.value();
       @if (o.videoWithdrawnAt) {
@@ -37,10 +41,16 @@ import { EraseAthleteDialog, type EraseAthleteData } from './erase-athlete-dialo
                 bytes(o.clipBytes)
               }}). Erase them now, or keep them if your records require it.
             </p>
-            <button mat-stroked-button type="button" (click)="eraseClips(o.clipCount)">
+            <button mat-stroked-button type="button" (click)="eraseClips(o.clipCount)" [disabled]="erasingClips()">
               <mat-icon>delete_sweep</mat-icon>
               Erase clips only
             </button>
+            @if (erasingClips()) {
+              <mat-progress-bar mode="indeterminate" aria-label="Erasing the clips" />
+            }
+            @if (clipsProblem(); as p) {
+              <p class="problem" role="alert">Couldn't erase the clips: {{ p }}</p>
+            }
           </div>
         </section>
       }
@@ -94,6 +104,10 @@ import { EraseAthleteDialog, type EraseAthleteData } from './erase-athlete-dialo
     .notice p {
       margin: 0 0 8px;
     }
+    .notice .problem {
+      margin: 8px 0 0;
+      color: var(--mat-sys-error);
+    }
     .facts {
       display: flex;
       flex-wrap: wrap;
@@ -127,6 +141,11 @@ export class AthleteData {
   protected readonly overview = rxResource({ params: () => this.athleteId(), stream: ({ params }) => this.api.overview(params) });
   protected readonly erasureCaution = ERASURE_CAUTION;
   protected readonly bytes = formatBytes;
+  protected readonly errorMessage = errorMessage;
+  /** Whether the clips are being erased. */
+  protected readonly erasingClips = signal(false);
+  /** Why erasing the clips failed, or null. */
+  protected readonly clipsProblem = signal<string | null>(null);
 
   protected consentWord(granted: boolean | null): string {
     return granted === null ? 'Not recorded' : granted ? 'Given' : 'Withdrawn';
@@ -146,11 +165,22 @@ export class AthleteData {
       .afterClosed()
       .pipe(
         filter((yes) => yes === true),
-        switchMap(() => this.api.eraseClips(this.athleteId())),
+        switchMap(() => {
+          this.clipsProblem.set(null);
+          this.erasingClips.set(true);
+          return this.api.eraseClips(this.athleteId());
+        }),
       )
-      .subscribe((r) => {
-        this.snackBar.open(`${r.removedClips} clip${r.removedClips === 1 ? '' : 's'} erased`, 'OK', { duration: 4000 });
-        this.overview.reload();
+      .subscribe({
+        next: (r) => {
+          this.erasingClips.set(false);
+          this.snackBar.open(`${r.removedClips} clip${r.removedClips === 1 ? '' : 's'} erased`, 'OK', { duration: 4000 });
+          this.overview.reload();
+        },
+        error: (err: unknown) => {
+          this.erasingClips.set(false);
+          this.clipsProblem.set(errorMessage(err));
+        },
       });
   }
 

@@ -8,8 +8,9 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import { filter, switchMap, type Observable } from 'rxjs';
+import { filter, type Observable } from 'rxjs';
 import { RETENTION_MAX_MONTHS, type RetentionSettings } from '../../../../contracts/privacy';
 import { errorMessage, fieldProblems } from '../../../core/api-error';
 import { PrivacyApi } from '../../../core/data/privacy-api';
@@ -17,6 +18,7 @@ import { CautionNote } from '../../../shared/caution-note/caution-note';
 import { RETENTION_CAUTION } from '../../../shared/caution';
 import { formatBytes } from '../../../shared/clip-status';
 import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
+import { ErrorState } from '../../../shared/states/error-state';
 
 /**
  * Clip retention (owner, `/settings/clinic`): how many months clips of athletes without activity
@@ -24,7 +26,18 @@ import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-d
  */
 @Component({
   selector: 'app-retention-card',
-  imports: [DatePipe, FormsModule, MatButtonModule, MatCardModule, MatFormFieldModule, MatIconModule, MatInputModule, CautionNote],
+  imports: [
+    DatePipe,
+    FormsModule,
+    MatButtonModule,
+    MatCardModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatProgressBarModule,
+    CautionNote,
+    ErrorState,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   template: `
     <mat-card appearance="outlined">
@@ -35,71 +48,86 @@ import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-d
           day for you to review. Leave empty to keep clips.
         </p>
         <app-caution-note [text]="caution" [compact]="true" />
-        <form class="row" (ngSubmit)="save()" novalidate>
-          <mat-form-field class="months">
-            <mat-label>Months without activity</mat-label>
-            <input
-              matInput
-              type="number"
-              name="months"
-              min="1"
-              [max]="max"
-              step="1"
-              [ngModel]="months()"
-              (ngModelChange)="months.set($event)"
-              placeholder="Off"
-            />
-            @if (problem(); as p) {
-              <mat-hint class="problem" role="alert">{{ p }}</mat-hint>
+        @if (settings.error(); as error) {
+          <app-error-state title="Couldn't load the retention setting" [message]="errorMessage(error)" (retry)="settings.reload()" />
+        } @else if (settings.isLoading() && !settings.hasValue()) {
+          <mat-progress-bar mode="indeterminate" aria-label="Loading the retention setting" />
+        } @else {
+          <form class="row" (ngSubmit)="save()" novalidate>
+            <mat-form-field class="months">
+              <mat-label>Months without activity</mat-label>
+              <input
+                matInput
+                type="number"
+                name="months"
+                min="1"
+                [max]="max"
+                step="1"
+                [ngModel]="months()"
+                (ngModelChange)="months.set($event)"
+                placeholder="Off"
+                [disabled]="busy()"
+              />
+              @if (fieldProblem(); as p) {
+                <mat-hint class="problem" role="alert">{{ p }}</mat-hint>
+              }
+            </mat-form-field>
+            <button mat-stroked-button type="submit" [disabled]="busy()">Save</button>
+            @if (settings.value()?.months) {
+              <button mat-button type="button" (click)="check()" [disabled]="busy()">
+                <mat-icon>manage_search</mat-icon>
+                Check now
+              </button>
             }
-          </mat-form-field>
-          <button mat-stroked-button type="submit">Save</button>
-          @if (settings.value()?.months) {
-            <button mat-button type="button" (click)="check()">
-              <mat-icon>manage_search</mat-icon>
-              Check now
-            </button>
+          </form>
+          @if (busy()) {
+            <mat-progress-bar mode="indeterminate" aria-label="Saving the retention setting" />
           }
-        </form>
+          @if (problem(); as p) {
+            <p class="problem" role="alert">{{ p }}</p>
+          }
 
-        @if (settings.value()?.review; as r) {
-          @if (r.confirmedAt) {
-            <p class="muted small">
-              Last list confirmed {{ r.confirmedAt | date: 'medium' }}: {{ r.removedCount }} clip{{ r.removedCount === 1 ? '' : 's' }}
-              removed.
-            </p>
-          } @else if (r.items.length === 0) {
-            <p class="muted small">Checked {{ r.listedAt | date: 'medium' }}: no clips are due.</p>
-          } @else {
-            <h3 class="list-title">Due for removal (listed {{ r.listedAt | date: 'medium' }})</h3>
-            <div class="table-wrap">
-              <table class="due">
-                <thead>
-                  <tr>
-                    <th scope="col">Athlete</th>
-                    <th scope="col">Visit</th>
-                    <th scope="col">Clip</th>
-                    <th scope="col" class="num">Size</th>
-                    <th scope="col">Last activity</th>
-                  </tr>
-                </thead>
-                <tbody>
-                  @for (i of r.items; track i.clipId) {
+          @if (settings.value()?.review; as r) {
+            @if (r.confirmedAt) {
+              <p class="muted small">
+                Last list confirmed {{ r.confirmedAt | date: 'medium' }}: {{ r.removedCount }} clip{{ r.removedCount === 1 ? '' : 's' }}
+                removed.
+              </p>
+            } @else if (r.items.length === 0) {
+              <p class="muted small">Checked {{ r.listedAt | date: 'medium' }}: no clips are due.</p>
+            } @else {
+              <h3 class="list-title">Due for removal (listed {{ r.listedAt | date: 'medium' }})</h3>
+              <div class="table-wrap">
+                <table class="due">
+                  <thead>
                     <tr>
-                      <td>{{ i.athleteName }}</td>
-                      <td>{{ i.assessmentDate | date: 'mediumDate' }}</td>
-                      <td class="name">{{ i.originalName }}</td>
-                      <td class="num">{{ bytes(i.sizeBytes) }}</td>
-                      <td>{{ i.lastActivity | date: 'mediumDate' }}</td>
+                      <th scope="col">Athlete</th>
+                      <th scope="col">Visit</th>
+                      <th scope="col">Clip</th>
+                      <th scope="col" class="num">Size</th>
+                      <th scope="col">Last activity</th>
                     </tr>
-                  }
-                </tbody>
-              </table>
-            </div>
-            <div class="row">
-              <strong>{{ r.items.length }} clip{{ r.items.length === 1 ? '' : 's' }} · {{ bytes(r.totalBytes) }}</strong>
-              <button mat-flat-button type="button" (click)="confirm(r.id, r.items.length)">Confirm removal</button>
-            </div>
+                  </thead>
+                  <tbody>
+                    @for (i of r.items; track i.clipId) {
+                      <tr>
+                        <td>{{ i.athleteName }}</td>
+                        <td>{{ i.assessmentDate | date: 'mediumDate' }}</td>
+                        <td class="name">{{ i.originalName }}</td>
+                        <td class="num">{{ bytes(i.sizeBytes) }}</td>
+                        <td>{{ i.lastActivity | date: 'mediumDate' }}</td>
+                      </tr>
+                    }
+                  </tbody>
+                </table>
+              </div>
+              <div class="row">
+                <strong>{{ r.items.length }} clip{{ r.items.length === 1 ? '' : 's' }} · {{ bytes(r.totalBytes) }}</strong>
+                <button mat-flat-button type="button" (click)="confirm(r.id, r.items.length)">Confirm removal</button>
+              </div>
+            }
+          } @else if (settings.value()?.months) {
+            <p class="muted small">Not checked yet: the daily check lists the clips due. Choose Check now to list them at once.</p>
           }
         }
       </mat-card-content>
@@ -127,6 +155,9 @@ import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-d
     }
     .problem {
       color: var(--mat-sys-error);
+    }
+    p.problem {
+      margin: 8px 0 0;
     }
     .list-title {
       font: var(--mat-sys-title-small);
@@ -165,7 +196,13 @@ export class RetentionCard {
   protected readonly caution = RETENTION_CAUTION;
   protected readonly max = RETENTION_MAX_MONTHS;
   protected readonly bytes = formatBytes;
+  /** Why the months were refused, shown by the field; null when none. */
+  protected readonly fieldProblem = signal<string | null>(null);
+  /** Why checking or confirming failed, or null. */
   protected readonly problem = signal<string | null>(null);
+  /** Whether a change is on its way to the server. */
+  protected readonly busy = signal(false);
+  protected readonly errorMessage = errorMessage;
   /** What the field shows: the stored value once loaded, then what the owner types. */
   protected readonly months = linkedSignal<number | string | null>(() => this.settings.value()?.months ?? null);
 
@@ -191,22 +228,28 @@ export class RetentionCard {
         },
       })
       .afterClosed()
-      .pipe(
-        filter((yes) => yes === true),
-        switchMap(() => this.api.confirmRetention(reviewId)),
-      )
-      .subscribe({ next: (s) => this.settings.set(s), error: (err: unknown) => this.problem.set(errorMessage(err)) });
+      .pipe(filter((yes) => yes === true))
+      .subscribe(() => this.apply(this.api.confirmRetention(reviewId)));
   }
 
+  /** Sends one change; on failure what was typed stays and the problem shows by the field (refused months) or below the form. */
   private apply(call: Observable<RetentionSettings>, done?: string): void {
     this.problem.set(null);
+    this.fieldProblem.set(null);
+    this.busy.set(true);
     call.subscribe({
       next: (s) => {
+        this.busy.set(false);
         this.settings.set(s);
         this.months.set(s.months);
         if (done) this.snackBar.open(done, 'OK', { duration: 3000 });
       },
-      error: (err: unknown) => this.problem.set(fieldProblems(err)[0]?.message ?? errorMessage(err)),
+      error: (err: unknown) => {
+        this.busy.set(false);
+        const field = fieldProblems(err)[0]?.message;
+        if (field) this.fieldProblem.set(field);
+        else this.problem.set(errorMessage(err));
+      },
     });
   }
 }

@@ -11,6 +11,8 @@ import { DEMO_LIMITS, type DemoPicture } from '../../../../contracts/demonstrati
 import type { Exercise } from '../../../../contracts/plans';
 import { errorMessage } from '../../../core/api-error';
 import { DemonstrationsApi } from '../demonstrations-api';
+import { EmptyState } from '../../../shared/states/empty-state';
+import { ErrorState } from '../../../shared/states/error-state';
 import { DemoClipEditor } from './demo-clip-editor';
 
 /** One file being sent: its name, progress (null while the server processes it) or why it was refused. */
@@ -31,7 +33,17 @@ let nextKey = 0;
  */
 @Component({
   selector: 'app-demo-editor-dialog',
-  imports: [MatButtonModule, MatDialogModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, DemoClipEditor],
+  imports: [
+    MatButtonModule,
+    MatDialogModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatProgressBarModule,
+    DemoClipEditor,
+    EmptyState,
+    ErrorState,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './demo-editor-dialog.html',
   styleUrl: './demo-editor-dialog.scss',
@@ -50,6 +62,7 @@ export class DemoEditorDialog {
   protected readonly busy = computed(() => this.sending().some((s) => s.problem === null));
   protected readonly room = computed(() => DEMO_LIMITS.pictures - this.pictures().length - this.sending().filter((s) => !s.problem).length);
   protected readonly problem = signal<string | null>(null);
+  protected readonly errorMessage = errorMessage;
 
   protected choose(input: HTMLInputElement): void {
     const files = [...(input.files ?? [])];

@@ -3,6 +3,7 @@ import { HttpTestingController, provideHttpClientTesting } from '@angular/common
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import type { DemoClip, DemoPicture } from '../../../../contracts/demonstrations';
 import { DemoGallery } from './demo-gallery';
+import { flushApiError } from '../../../shared/testing/api-errors';
 
 const picture = (id: number, position: number, caption: string): DemoPicture => ({
   id,
@@ -43,6 +44,20 @@ describe('DemoGallery', () => {
   };
   afterEach(() => backend.verify());
 
+  it("says why the pictures could not be loaded, with Try again; a 404 (not on this athlete's plans) shows nothing", async () => {
+    flushApiError(backend.expectOne('/api/exercises/4/demonstrations'), 503, 'The server is busy.');
+    await settle();
+    const alert = element.querySelector('[role="alert"]')!;
+    expect(alert.textContent).toContain("Couldn't load the pictures of Heel drop: The server is busy.");
+    alert.querySelector('button')!.click();
+    await wait(20);
+    fixture.detectChanges();
+    flushApiError(backend.expectOne('/api/exercises/4/demonstrations'), 404, 'Not found');
+    await settle();
+    expect(element.querySelector('[role="alert"]')).toBeNull();
+    expect(element.querySelector('section')).toBeNull();
+  });
+
   it('shows nothing when the exercise has no pictures', async () => {
     backend.expectOne('/api/exercises/4/demonstrations').flush({ exerciseId: 4, pictures: [] });
     await settle();
@@ -50,9 +65,7 @@ describe('DemoGallery', () => {
   });
 
   it('shows nothing when the caller may not see them (404)', async () => {
-    backend
-      .expectOne('/api/exercises/4/demonstrations')
-      .flush({ error: { code: 'not_found', message: 'Exercise not found.' } }, { status: 404, statusText: 'Not Found' });
+    flushApiError(backend.expectOne('/api/exercises/4/demonstrations'), 404, 'Exercise not found.');
     await settle();
     expect(element.querySelector('section')).toBeNull();
   });

@@ -2,6 +2,7 @@ import { ChangeDetectionStrategy, Component, ElementRef, computed, inject, input
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
+import { errorMessage, errorStatus } from '../../../core/api-error';
 import { DemonstrationsApi } from '../demonstrations-api';
 import { demoSlides, positionLabel, shownIndex, steppedIndex } from './gallery-logic';
 
@@ -9,7 +10,7 @@ import { demoSlides, positionLabel, shownIndex, steppedIndex } from './gallery-l
  * The demonstration pictures and clip of one exercise, one at a time: swipe on a phone (the track
  * snaps slide by slide), the arrow buttons or ← → on a computer; each with its one-line caption.
  * The clip plays inline, looped and muted, with its poster until it starts. Shows nothing when the
- * exercise has neither (or the caller may not see them).
+ * exercise has neither (or the caller may not see them); a failed load says why, with Try again.
  */
 @Component({
   selector: 'app-demo-gallery',
@@ -24,13 +25,21 @@ export class DemoGallery {
   /** The exercise's name, for the pictures' descriptions. */
   readonly exerciseName = input.required<string>();
 
-  private readonly loaded = rxResource({
+  protected readonly loaded = rxResource({
     params: () => ({ id: this.exerciseId(), changes: this.api.changes() }),
     stream: ({ params }) => this.api.of(params.id),
   });
   protected readonly slides = computed(() =>
     this.loaded.hasValue() ? demoSlides(this.loaded.value().pictures, this.loaded.value().clip) : [],
   );
+  /**
+   * Why the pictures could not be loaded, or null. A 404 (an exercise the athlete's plans do not
+   * hold) shows nothing, as an exercise without pictures does.
+   */
+  protected readonly problem = computed(() => {
+    const err = this.loaded.error();
+    return err && errorStatus(err) !== 404 ? errorMessage(err) : null;
+  });
   protected readonly index = signal(0);
   protected readonly label = computed(() => positionLabel(this.index(), this.slides().length, this.slides()[this.index()]?.kind));
   private readonly track = viewChild<ElementRef<HTMLElement>>('track');
