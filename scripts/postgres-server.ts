@@ -15,6 +15,8 @@ export interface PostgresServer {
   /** `postgres://postgres@127.0.0.1:PORT/postgres` */
   url: string;
   port: number;
+  /** The postmaster's process id (its backends are its children). */
+  pid: number;
   stop(): void;
 }
 
@@ -77,6 +79,7 @@ export async function startPostgres(wantedDir: string): Promise<PostgresServer> 
   run('pg_ctl', ['-D', dataDir, '-o', options, '-l', path.join(dataDir, 'server.log'), '-w', '-t', '60', 'start']);
   return {
     port,
+    pid: Number(fs.readFileSync(path.join(dataDir, 'postmaster.pid'), 'utf8').split('\n')[0]),
     url: `postgres://postgres@127.0.0.1:${port}/postgres`,
     stop() {
       const [c, a] = as(path.join(bin, 'pg_ctl'), ['-D', dataDir, '-m', 'fast', '-w', 'stop']);

@@ -16,8 +16,13 @@ import { createRequire } from 'node:module';
 import type { Knex } from 'knex';
 import type pg from 'pg';
 
-/** `pg`, loaded when a PostgreSQL connection first asks for a type parser (never on SQLite). */
-const loadPg = () => createRequire(import.meta.url)('pg') as typeof pg;
+let pgModule: typeof pg | undefined;
+/**
+ * `pg`, loaded when a PostgreSQL connection first asks for a type parser (never on SQLite), then
+ * kept: the parsers are asked for on every column of every result, and resolving the module anew
+ * each time cost a few milliseconds of CPU per signed-in read.
+ */
+const loadPg = () => (pgModule ??= createRequire(import.meta.url)('pg') as typeof pg);
 
 /** The database engine behind a knex instance. */
 export type Dialect = 'sqlite' | 'postgres';

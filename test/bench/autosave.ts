@@ -8,7 +8,11 @@
  * machine's Node and loopback can do at that moment.
  *
  *   npx tsx test/bench/autosave.ts [--annotators 50] [--uploads 5] [--seconds 15] [--rate 25] [--keep]
- *                                  [--before <git revision> [--rounds 3]]
+ *                                  [--before <git revision> [--rounds 3]] [--postgres]
+ *
+ * With `--postgres`, two web servers on a private PostgreSQL server (`scripts/postgres-server.ts`)
+ * take their turn too, the annotators and uploads shared out between them; their CPU per save
+ * counts both web processes and PostgreSQL's own processes (also shown alone).
  *
  * With `--before`, the server as it was at that revision (bundled from `git archive`) runs beside
  * this build on its own copy of the database, and the saturation is measured in rounds, the two
@@ -31,9 +35,11 @@ import { spawnSync } from 'node:child_process';
 import { buildServer } from '../../scripts/build-server';
 import { parseArgs } from 'node:util';
 import { createDb } from '../../server/db/knex';
+import { jsonTextEquals } from '../../server/db/dialect';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { buildGroundTruth } from '../../scripts/demo-clip/ground-truth';
 import type { ClipAnnotationsWrite, FrameLandmarks, GaitEventMark } from '../../src/contracts/annotations';
+import { startBenchPostgres, startWebPair, type BenchPostgres } from './support/bench-postgres';
 import {
   benchDir,
   cpuSeconds,
@@ -61,6 +67,7 @@ const { values: args } = parseArgs({
     keep: { type: 'boolean', default: false },
     before: { type: 'string' },
     rounds: { type: 'string', default: '3' },
+    postgres: { type: 'boolean', default: false },
   },
 });
 const ANNOTATORS = Number(args.annotators);
@@ -99,6 +106,8 @@ function runnerDocument(): Omit<ClipAnnotationsWrite, 'baseRevision'> & { frameC
 }
 
 interface Annotator {
+  /** The web server this annotator's browser talks to. */
+  base: string;
   session: Session;
   clipId: number;
   revision: number;
@@ -122,7 +131,7 @@ interface Tally {
 const tally = (): Tally => ({ latencies: [], ok: 0, conflicts: 0, errors: 0, errorKinds: new Map() });
 
 /** Moves one point a little, as a drag would, and saves the whole document. */
-async function save(base: string, a: Annotator, t: Tally, dueAt: number): Promise<void> {
+async function save(a: Annotator, t: Tally, dueAt: number): Promise<void> {
   const lm = a.doc.landmarks[Math.floor(Math.random() * a.doc.landmarks.length)]!;
   const name = (Object.keys(lm.points) as (keyof typeof lm.points)[])[Math.floor(Math.random() * 6)]!;
   const p = lm.points[name]!;
@@ -130,7 +139,7 @@ async function save(base: string, a: Annotator, t: Tally, dueAt: number): Promis
   // Serialised once: sent, and kept as the record of what an acknowledged save held.
   const body = JSON.stringify({ baseRevision: a.revision, ...a.doc } satisfies ClipAnnotationsWrite);
   try {
-    const r = await httpRequest(`${base}/api/clips/${a.clipId}/annotations`, {
+    const r = await httpRequest(`${a.base}/api/clips/${a.clipId}/annotations`, {
       method: 'PUT',
       headers: { cookie: a.session.cookie, 'x-xsrf-token': a.session.xsrf, 'content-type': 'application/json' },
       body,
@@ -158,13 +167,13 @@ async function save(base: string, a: Annotator, t: Tally, dueAt: number): Promis
 }
 
 /** Closed loop: every annotator saves again as soon as its last save is answered. */
-async function saturate(base: string, annotators: Annotator[], seconds: number): Promise<{ t: Tally; wallS: number }> {
+async function saturate(annotators: Annotator[], seconds: number): Promise<{ t: Tally; wallS: number }> {
   const t = tally();
   const started = performance.now();
   const until = started + seconds * 1000;
   await Promise.all(
     annotators.map(async (a) => {
-      while (performance.now() < until) await save(base, a, t, performance.now());
+      while (performance.now() < until) await save(a, t, performance.now());
     }),
   );
   return { t, wallS: (performance.now() - started) / 1000 };
@@ -175,7 +184,7 @@ async function saturate(base: string, annotators: Annotator[], seconds: number):
  * one whose last save is still out sends when it is answered, as the app's autosave does, and
  * the wait counts in the latency.
  */
-async function openLoop(base: string, annotators: Annotator[], rate: number, seconds: number): Promise<Tally> {
+async function openLoop(annotators: Annotator[], rate: number, seconds: number): Promise<Tally> {
   const t = tally();
   const perAnnotator = rate / annotators.length;
   const started = performance.now();
@@ -189,7 +198,7 @@ async function openLoop(base: string, annotators: Annotator[], rate: number, sec
         const wait = dueAt - performance.now();
         if (wait > 0) await new Promise((r) => setTimeout(r, wait));
         const previous = a.busy;
-        a.busy = previous.then(() => save(base, a, t, dueAt));
+        a.busy = previous.then(() => save(a, t, dueAt));
         pending.push(a.busy);
         due += (-Math.log(1 - Math.random()) / perAnnotator) * 1000;
       }
@@ -219,13 +228,13 @@ async function saturateBare(url: string, annotators: Annotator[], seconds: numbe
 }
 
 /** Keeps `n` uploads going until `stop()`; answers how many finished. */
-function uploadsRunning(base: string, s: Session, assessmentId: number, file: string, n: number) {
+function uploadsRunning(bases: string[], s: Session, assessmentId: number, file: string, n: number) {
   let running = true;
   let done = 0;
   let failed = 0;
-  const loops = Array.from({ length: n }, async () => {
+  const loops = Array.from({ length: n }, async (_, i) => {
     while (running) {
-      await uploadClip(base, s, assessmentId, file, 1_000_000).then(
+      await uploadClip(bases[i % bases.length]!, s, assessmentId, file, 1_000_000).then(
         () => done++,
         () => failed++,
       );
@@ -241,17 +250,17 @@ function uploadsRunning(base: string, s: Session, assessmentId: number, file: st
 }
 
 /** Reads the database after the run: acknowledged saves missing from it. */
-async function lostSaves(dbFile: string, annotators: Annotator[]): Promise<{ lost: number; checked: number; problems: string[] }> {
-  const db = createDb(dbFile);
+async function lostSaves(dbTarget: string, annotators: Annotator[]): Promise<{ lost: number; checked: number; problems: string[] }> {
+  const db = createDb(dbTarget);
   const problems: string[] = [];
   let lost = 0;
   let checked = 0;
   for (const a of annotators) {
     const audited = await db('audit_log')
       .where({ action: 'clip.annotated' })
-      .whereRaw(`json_extract(detail, '$.clipId') = ?`, [a.clipId])
-      .select<{ revision: number }[]>(db.raw(`json_extract(detail, '$.revision') AS revision`));
-    const revisions = new Set(audited.map((r) => r.revision));
+      .where(jsonTextEquals(db, 'detail', ['clipId'], a.clipId))
+      .select<{ detail: string }[]>('detail');
+    const revisions = new Set(audited.map((r) => (JSON.parse(r.detail) as { revision: number }).revision));
     for (const r of a.acked) {
       checked++;
       if (!revisions.has(r)) lost++;
@@ -281,16 +290,27 @@ async function lostSaves(dbFile: string, annotators: Annotator[]): Promise<{ los
 /** A server under test, its annotators on their clips, and where the uploads go. */
 interface Subject {
   name: string;
-  server: BenchProcess;
-  dbFile: string;
+  /** One server, or two on PostgreSQL (the annotators and uploads shared out between them). */
+  servers: BenchProcess[];
+  /** The SQLite file or PostgreSQL URL. */
+  dbTarget: string;
+  /** The PostgreSQL server whose CPU counts with the web servers', or null. */
+  pg: BenchPostgres | null;
   annotators: Annotator[];
   s0: Session;
   uploadTo: number;
 }
 
 /** Signs the annotators in, uploads their clips and waits until the clips are ready. */
-async function prepare(name: string, server: BenchProcess, dbFile: string, workDir: string): Promise<Subject> {
-  const base = server.url;
+async function prepare(
+  name: string,
+  servers: BenchProcess[],
+  dbTarget: string,
+  workDir: string,
+  pg: BenchPostgres | null = null,
+): Promise<Subject> {
+  const bases = servers.map((sv) => sv.url);
+  const base = bases[0]!;
   const staff = DEMO_SIGN_INS.filter((s) => s.role !== 'athlete');
   const sessions: Session[] = [];
   for (let i = 0; i < ANNOTATORS; i++) sessions.push(await signIn(base, staff[i % staff.length]!.email, staff[i % staff.length]!.password));
@@ -308,12 +328,15 @@ async function prepare(name: string, server: BenchProcess, dbFile: string, workD
   const clipIds: number[] = [];
   for (let i = 0; i < ANNOTATORS; i += 5) {
     clipIds.push(
-      ...(await Promise.all(Array.from({ length: Math.min(5, ANNOTATORS - i) }, () => uploadClip(base, s0, annotateIn, small)))),
+      ...(await Promise.all(
+        Array.from({ length: Math.min(5, ANNOTATORS - i) }, (_, j) => uploadClip(bases[(i + j) % bases.length]!, s0, annotateIn, small)),
+      )),
     );
   }
   await waitReady(base, s0, clipIds);
   console.log('ready');
   const annotators: Annotator[] = clipIds.map((clipId, i) => ({
+    base: bases[i % bases.length]!,
     session: sessions[i]!,
     clipId,
     revision: 0,
@@ -323,23 +346,36 @@ async function prepare(name: string, server: BenchProcess, dbFile: string, workD
     busy: Promise.resolve(),
   }));
   // Warm up (first saves create rows, JIT), uploads not yet running.
-  await saturate(base, annotators, 2);
-  return { name, server, dbFile, annotators, s0, uploadTo };
+  await saturate(annotators, 2);
+  return { name, servers, dbTarget, pg, annotators, s0, uploadTo };
 }
 
 /** Saturation with the uploads running: the tally and the server's CPU per save. */
-async function saturationRound(x: Subject, big: string): Promise<{ sat: { t: Tally; wallS: number }; cpuMs: number; wallS: number }> {
-  const uploads = uploadsRunning(x.server.url, x.s0, x.uploadTo, big, UPLOADS);
+async function saturationRound(
+  x: Subject,
+  big: string,
+): Promise<{ sat: { t: Tally; wallS: number }; cpuMs: number; dbCpuMs: number; wallS: number }> {
+  const uploads = uploadsRunning(
+    x.servers.map((sv) => sv.url),
+    x.s0,
+    x.uploadTo,
+    big,
+    UPLOADS,
+  );
   await new Promise((r) => setTimeout(r, 3000));
-  const cpu0 = cpuSeconds(x.server.pid);
+  const serverCpu = () => x.servers.reduce((n, sv) => n + cpuSeconds(sv.pid), 0);
+  const cpu0 = serverCpu();
+  const db0 = x.pg?.cpuSeconds() ?? 0;
   const satFrom = process.hrtime.bigint();
-  const sat = await saturate(x.server.url, x.annotators, SECONDS);
-  const cpuMs = ((cpuSeconds(x.server.pid) - cpu0) / Math.max(1, sat.t.ok)) * 1000;
+  const sat = await saturate(x.annotators, SECONDS);
+  const dbCpuMs = (((x.pg?.cpuSeconds() ?? 0) - db0) / Math.max(1, sat.t.ok)) * 1000;
+  // All server-side CPU: the web processes and, on PostgreSQL, the database's own processes.
+  const cpuMs = ((serverCpu() - cpu0) / Math.max(1, sat.t.ok)) * 1000 + dbCpuMs;
   // The saturation window on the monotonic clock a .cpuprofile's timestamps use (µs), to profile it alone.
   if (process.env['BENCH_CPU_PROF'])
     console.log(`${x.name}: saturation window (monotonic µs): ${satFrom / 1000n}–${process.hrtime.bigint() / 1000n}`);
   await uploads.stop();
-  return { sat, cpuMs, wallS: sat.wallS };
+  return { sat, cpuMs, dbCpuMs, wallS: sat.wallS };
 }
 
 /**
@@ -365,16 +401,25 @@ const { dir, cleanup } = benchDir('autosave');
 let server: BenchProcess | null = null;
 let before: BenchProcess | null = null;
 let bare: BenchProcess | null = null;
+let pg: BenchPostgres | null = null;
+let pair: BenchProcess[] = [];
 try {
   const dbFile = await seedDemo(dir);
   server = await startBundledServer(dir, dbFile);
-  const subjects = [await prepare('this build', server, dbFile, dir)];
+  const subjects = [await prepare('this build', [server], dbFile, dir)];
   if (BEFORE) {
     const beforeDir = path.join(dir, 'before');
     fs.mkdirSync(beforeDir);
     const beforeDb = await seedDemo(beforeDir);
     before = await startBundledServer(beforeDir, beforeDb, {}, [], await buildBefore(BEFORE, dir));
-    subjects.push(await prepare(`before (${BEFORE})`, before, beforeDb, beforeDir));
+    subjects.push(await prepare(`before (${BEFORE})`, [before], beforeDb, beforeDir));
+  }
+  if (args.postgres) {
+    process.stdout.write('PostgreSQL: seeding the demo scenario… ');
+    pg = await startBenchPostgres(dir);
+    pair = await startWebPair(dir, pg);
+    console.log(`servers ${pair.map((p) => p.url).join(' and ')}`);
+    subjects.push(await prepare('this build on PostgreSQL, two web servers', pair, pg.url, dir, pg));
   }
   const current = subjects[0]!;
   const { annotators } = current;
@@ -387,7 +432,7 @@ try {
   );
 
   // The bare handler, with the uploads running on this build's server as during its saturation.
-  const bareUploads = uploadsRunning(current.server.url, current.s0, current.uploadTo, big, UPLOADS);
+  const bareUploads = uploadsRunning([current.servers[0]!.url], current.s0, current.uploadTo, big, UPLOADS);
   await new Promise((r) => setTimeout(r, 3000));
   bare = await startBareExpress(dir);
   const bareCpu0 = cpuSeconds(bare.pid);
@@ -400,21 +445,23 @@ try {
   // Saturation rounds, the builds taking turns (with --before), each with its own uploads running.
   const own0 = process.cpuUsage();
   const rounds = new Map(subjects.map((x) => [x, [] as Awaited<ReturnType<typeof saturationRound>>[]]));
-  for (let r = 0; r < (BEFORE ? ROUNDS : 1); r++) for (const x of subjects) rounds.get(x)!.push(await saturationRound(x, big));
+  for (let r = 0; r < (BEFORE || args.postgres ? ROUNDS : 1); r++)
+    for (const x of subjects) rounds.get(x)!.push(await saturationRound(x, big));
   const own = process.cpuUsage(own0);
   const ownWallS = [...rounds.values()].flat().reduce((n, x) => n + x.wallS + 3, 0);
 
-  const uploads = uploadsRunning(current.server.url, current.s0, current.uploadTo, big, UPLOADS);
+  const uploads = uploadsRunning([current.servers[0]!.url], current.s0, current.uploadTo, big, UPLOADS);
   await new Promise((r) => setTimeout(r, 3000));
-  const open = await openLoop(current.server.url, annotators, RATE, SECONDS + 5);
+  const open = await openLoop(annotators, RATE, SECONDS + 5);
   const up = await uploads.stop();
   const checks = new Map<Subject, Awaited<ReturnType<typeof lostSaves>>>();
   for (const x of subjects) {
-    await x.server.stop();
-    checks.set(x, await lostSaves(x.dbFile, x.annotators));
+    for (const sv of x.servers) await sv.stop();
+    checks.set(x, await lostSaves(x.dbTarget, x.annotators));
   }
   server = null;
   before = null;
+  pair = [];
 
   const mine = rounds.get(current)!;
   const sat = mine.at(-1)!.sat;
@@ -426,7 +473,7 @@ try {
     for (const [i, round] of rounds.get(x)!.entries()) {
       const t = round.sat.t;
       console.log(
-        `| saturation, ${x.name}${BEFORE ? ` round ${i + 1}` : ''} (${ANNOTATORS} annotators back to back) | ${(t.ok / round.wallS).toFixed(0)} | ${ms(quantile(t.latencies, 0.5))} | ${ms(quantile(t.latencies, 0.99))} | ${t.conflicts} | ${t.errors} |`,
+        `| saturation, ${x.name}${BEFORE || args.postgres ? ` round ${i + 1}` : ''} (${ANNOTATORS} annotators back to back) | ${(t.ok / round.wallS).toFixed(0)} | ${ms(quantile(t.latencies, 0.5))} | ${ms(quantile(t.latencies, 0.99))} | ${t.conflicts} | ${t.errors} |`,
       );
     }
   console.log(
@@ -446,6 +493,16 @@ try {
         .join(' ')}; ` +
       `this benchmark's own CPU ${(((own.user + own.system) / 1e6 / ownWallS) * 100).toFixed(0)} % of a core; uploads finished ${up.done}, failed ${up.failed}`,
   );
+  const onPg = subjects.find((x) => x.pg);
+  if (onPg) {
+    const pgRounds = rounds.get(onPg)!;
+    const pgCpuMs = median(pgRounds.map((x) => x.cpuMs));
+    console.log(
+      `CPU per save, medians of ${ROUNDS} alternating rounds: SQLite (one server) ${saveCpuMs.toFixed(2)} ms, PostgreSQL with two web servers ` +
+        `${pgCpuMs.toFixed(2)} ms (both web processes and PostgreSQL's own; of it PostgreSQL ${median(pgRounds.map((x) => x.dbCpuMs)).toFixed(2)} ms); ` +
+        `PostgreSQL ÷ SQLite ${(pgCpuMs / saveCpuMs).toFixed(2)}; one core's worth of saves on PostgreSQL: ${(1000 / pgCpuMs).toFixed(0)}/s`,
+    );
+  }
   if (BEFORE) {
     const was = median(rounds.get(subjects[1]!)!.map((x) => x.cpuMs));
     console.log(
@@ -475,6 +532,8 @@ try {
   await server?.stop();
   await before?.stop();
   await bare?.stop();
+  for (const p of pair) await p.stop();
+  pg?.stop();
   if (args.keep) console.log(`kept ${dir}`);
   else cleanup();
 }

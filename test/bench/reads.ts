@@ -3,21 +3,28 @@
  * connections against a bare Express JSON handler, measured side by side in one run with `wrk`.
  * Target: ≥ 30 % of bare Express req/s, p99 ≤ 50 ms, 0 errors. Prints figures; not a timed test.
  *
- *   npx tsx test/bench/reads.ts [--seconds 10] [--rounds 3] [--connections 50] [--sessions 50] [--keep] [--baseline dist/baseline/main.mjs]
+ *   npx tsx test/bench/reads.ts [--seconds 10] [--rounds 3] [--connections 50] [--sessions 50] [--postgres] [--baseline dist/baseline/main.mjs] [--keep]
+ *
+ * `--postgres`: besides the one server on SQLite, two servers on a private PostgreSQL server
+ * (`scripts/postgres-server.ts`) read the same scenario in the same rounds, the connections split
+ * between two wrk processes, one per server; their CPU per request counts both web processes and
+ * PostgreSQL's own processes (also shown alone). `--baseline`: another build of the server (e.g.
+ * main's `dist/server` copied aside) reads its own copy of the demo on SQLite in the same rounds,
+ * right after this build's reads.
  *
  * The server is the `npm start` bundle on plain Node (default log level, its log to a file) over a
  * temp database with the demo scenario; the assessment read gets three uploaded clips first.
  * Every round runs bare → athletes → assessment; the median round is reported. Requests rotate
- * over `--sessions` signed-in sessions of the demo's owner and coaches. `--baseline` runs another
- * build of the server (e.g. main's `dist/server` copied aside) beside this one, each of its reads
- * right after this build's in every round, over its own copy of the demo. wrk comes from Debian: it
+ * over `--sessions` signed-in sessions of the demo's owner and coaches. wrk comes from Debian: it
  * is installed with apt-get when missing (as root).
  */
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { startBenchPostgres, startWebPair, type BenchPostgres } from './support/bench-postgres';
 import {
   benchDir,
   cpuSeconds,
@@ -39,8 +46,9 @@ const { values: args } = parseArgs({
     rounds: { type: 'string', default: '3' },
     connections: { type: 'string', default: '50' },
     sessions: { type: 'string', default: '50' },
-    keep: { type: 'boolean', default: false },
+    postgres: { type: 'boolean', default: false },
     baseline: { type: 'string' },
+    keep: { type: 'boolean', default: false },
   },
 });
 const SECONDS = Number(args.seconds);
@@ -71,29 +79,26 @@ interface WrkResult {
   /** What the errors were: non-2xx answers and wrk's socket errors by kind (timeouts are answers over 2 s). */
   errorKinds: string;
   serverCpuS: number;
+  /** CPU seconds PostgreSQL's processes used meanwhile (0 on SQLite: the server process holds the database). */
+  dbCpuS: number;
 }
 
 const toMs = (value: string, unit: string) => Number(value) * ({ us: 0.001, ms: 1, s: 1000, m: 60_000 } as Record<string, number>)[unit]!;
 
-/** Runs wrk against `url`, rotating the session cookies (Lua), and parses its report. */
-function wrk(url: string, cookies: string[], dir: string, target: BenchProcess): WrkResult {
-  const script = path.join(dir, 'rotate.lua');
-  fs.writeFileSync(
-    script,
-    [
-      `local cookies = { ${cookies.map((c) => JSON.stringify(c)).join(', ')} }`,
-      'local i = 0',
-      'request = function()',
-      '  i = i + 1',
-      `  return wrk.format(nil, nil, { ["Cookie"] = cookies[(i % #cookies) + 1] })`,
-      'end',
-    ].join('\n'),
-  );
-  const cpu0 = cpuSeconds(target.pid);
-  const r = spawnSync('wrk', ['-t2', `-c${CONNECTIONS}`, `-d${SECONDS}s`, '--latency', '-s', script, url], { encoding: 'utf8' });
-  const cpu = cpuSeconds(target.pid) - cpu0;
-  if (r.status !== 0) throw new Error(`wrk failed: ${r.stderr}`);
-  const out = r.stdout;
+/** One wrk process against `url` with `connections` and `threads`, rotating the session cookies (Lua); answers its report. */
+function wrkProcess(url: string, script: string, connections: number, threads: number): Promise<string> {
+  return new Promise((resolve, reject) => {
+    const child = spawn('wrk', [`-t${threads}`, `-c${connections}`, `-d${SECONDS}s`, '--latency', '-s', script, url]);
+    let out = '';
+    let err = '';
+    child.stdout.on('data', (c: Buffer) => (out += c.toString()));
+    child.stderr.on('data', (c: Buffer) => (err += c.toString()));
+    child.on('close', (code) => (code === 0 ? resolve(out) : reject(new Error(`wrk failed: ${err}`))));
+  });
+}
+
+/** The figures of one wrk report. */
+function parseWrk(out: string): Omit<WrkResult, 'serverCpuS' | 'dbCpuS'> {
   const lat = (pct: string) => {
     const m = new RegExp(`^\\s*${pct}%\\s+([\\d.]+)(us|ms|s|m)\\s*$`, 'm').exec(out);
     return m ? toMs(m[1]!, m[2]!) : NaN;
@@ -112,27 +117,70 @@ function wrk(url: string, cookies: string[], dir: string, target: BenchProcess):
     ]
       .filter(Boolean)
       .join(', '),
-    serverCpuS: cpu,
+  };
+}
+
+/**
+ * Runs wrk against `path` on every target at once, the connections split evenly (one wrk process
+ * each, the two threads shared out), rotating the session cookies. Rates and counts add up; the
+ * median is the requests-weighted mean of the processes' medians, the p99 the worst of theirs.
+ */
+async function wrk(
+  targets: BenchProcess[],
+  p: string,
+  cookies: string[],
+  dir: string,
+  pg: BenchPostgres | null = null,
+): Promise<WrkResult> {
+  const script = path.join(dir, 'rotate.lua');
+  fs.writeFileSync(
+    script,
+    [
+      `local cookies = { ${cookies.map((c) => JSON.stringify(c)).join(', ')} }`,
+      'local i = 0',
+      'request = function()',
+      '  i = i + 1',
+      `  return wrk.format(nil, nil, { ["Cookie"] = cookies[(i % #cookies) + 1] })`,
+      'end',
+    ].join('\n'),
+  );
+  const cpu = () => targets.reduce((a, t) => a + cpuSeconds(t.pid), 0);
+  const cpu0 = cpu();
+  const db0 = pg?.cpuSeconds() ?? 0;
+  const threads = Math.max(1, Math.floor(2 / targets.length));
+  const outs = await Promise.all(targets.map((t) => wrkProcess(`${t.url}${p}`, script, Math.round(CONNECTIONS / targets.length), threads)));
+  const serverCpuS = cpu() - cpu0;
+  const dbCpuS = (pg?.cpuSeconds() ?? 0) - db0;
+  const parts = outs.map(parseWrk);
+  const requests = parts.reduce((a, r) => a + r.requests, 0);
+  return {
+    rps: parts.reduce((a, r) => a + r.rps, 0),
+    p50: parts.reduce((a, r) => a + r.p50 * r.requests, 0) / Math.max(1, requests),
+    p99: Math.max(...parts.map((r) => r.p99)),
+    requests,
+    errors: parts.reduce((a, r) => a + r.errors, 0),
+    errorKinds: parts
+      .map((r) => r.errorKinds)
+      .filter(Boolean)
+      .join('; '),
+    serverCpuS,
+    dbCpuS,
   };
 }
 
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
 const f = (n: number, d = 0) => n.toFixed(d);
 
-/** A server under test, signed in and ready: the URLs of its two reads and the cookies of its sessions. */
+/** What a database's servers read: signed-in cookies, the demo assessment with three ready clips, the roster's size. */
 interface Prepared {
-  server: BenchProcess;
   cookies: string[];
-  athletesUrl: string;
-  assessmentUrl: string;
+  assessmentId: number;
+  athletes: number;
+  sizes: { athletes: number; assessment: number };
 }
 
-/** Seeds a demo in `where`, starts `bundle` (default: this build) over it, signs in and uploads the assessment's clips. */
-async function prepare(where: string, bundle?: string): Promise<Prepared> {
-  fs.mkdirSync(where, { recursive: true });
-  const dbFile = await seedDemo(where);
-  const server = await startBundledServer(where, dbFile, {}, [], bundle);
-  started.push(server);
+/** Signs `SESSIONS` sessions in on the first server (sessions live in the database), uploads three clips and waits for them. */
+async function prepare(server: BenchProcess, dir: string): Promise<Prepared> {
   const staff = DEMO_SIGN_INS.filter((s) => s.role !== 'athlete');
   const sessions: Session[] = [];
   for (let i = 0; i < SESSIONS; i++) {
@@ -149,52 +197,105 @@ async function prepare(where: string, bundle?: string): Promise<Prepared> {
     `/api/athletes/${ada.id}/assessments`,
   );
   const assessmentId = visits.body.assessments.find((a) => a.kind === 'baseline')!.id;
-  const clip = makeClip(path.join(where, 'clip.mp4'), { width: 320, height: 180, fps: 30, seconds: 1 });
+  const clip = path.join(dir, 'clip.mp4');
+  if (!fs.existsSync(clip)) makeClip(clip, { width: 320, height: 180, fps: 30, seconds: 1 });
   const clipIds = [];
   for (let i = 0; i < 3; i++) clipIds.push(await uploadClip(server.url, s0, assessmentId, clip));
   await waitReady(server.url, s0, clipIds);
-  const sizes = {
-    athletes: (await sessionJson(server.url, s0, 'GET', '/api/athletes')).body,
-    assessment: (await sessionJson(server.url, s0, 'GET', `/api/assessments/${assessmentId}`)).body,
-  };
-  console.log(
-    `${bundle ?? 'this build'}: ${roster.body.athletes.length} athletes (${JSON.stringify(sizes.athletes).length} B), assessment with ${clipIds.length} clips ` +
-      `(${JSON.stringify(sizes.assessment).length} B)`,
-  );
+  const size = async (p: string) => JSON.stringify((await sessionJson(server.url, s0, 'GET', p)).body).length;
   return {
-    server,
     cookies: sessions.map((s) => s.cookie),
-    athletesUrl: `${server.url}/api/athletes`,
-    assessmentUrl: `${server.url}/api/assessments/${assessmentId}`,
+    assessmentId,
+    athletes: roster.body.athletes.length,
+    sizes: { athletes: await size('/api/athletes'), assessment: await size(`/api/assessments/${assessmentId}`) },
   };
 }
 
+const IDLE_SECONDS = 5;
+
+/** CPU the servers use over {@link IDLE_SECONDS} with no request, in % of one core. */
+async function idleCpu(server: BenchProcess, pair: BenchProcess[], pg: BenchPostgres | null) {
+  const pairCpu = () => pair.reduce((a, p) => a + cpuSeconds(p.pid), 0);
+  const [s0, p0, g0] = [cpuSeconds(server.pid), pairCpu(), pg?.cpuSeconds() ?? 0];
+  await new Promise((r) => setTimeout(r, IDLE_SECONDS * 1000));
+  const pct = (d: number) => (d / IDLE_SECONDS) * 100;
+  return { sqlite: pct(cpuSeconds(server.pid) - s0), pair: pct(pairCpu() - p0), pg: pct((pg?.cpuSeconds() ?? 0) - g0) };
+}
+
+type Kind = 'bare' | 'athletes' | 'assessment' | 'athletesBase' | 'assessmentBase' | 'athletesPg' | 'assessmentPg';
+
 ensureWrk();
 const { dir, cleanup } = benchDir('reads');
-const started: BenchProcess[] = [];
+let server: BenchProcess | null = null;
+let bare: BenchProcess | null = null;
+let pg: BenchPostgres | null = null;
+let pair: BenchProcess[] = [];
+let baseline: BenchProcess | null = null;
 try {
   process.stdout.write('seeding the demo scenario… ');
-  const current = await prepare(dir);
-  const base = args.baseline ? await prepare(path.join(dir, 'baseline'), args.baseline) : null;
-  const bare = await startBareExpress(dir);
-  started.push(bare);
+  const dbFile = await seedDemo(dir);
+  server = await startBundledServer(dir, dbFile);
+  bare = await startBareExpress(dir);
+  console.log(`server ${server.url}, bare Express ${bare.url}`);
+  const lite = await prepare(server, dir);
+  let onBase: Prepared | null = null;
+  if (args.baseline) {
+    const where = path.join(dir, 'baseline');
+    fs.mkdirSync(where, { recursive: true });
+    process.stdout.write(`${args.baseline}: seeding the demo scenario… `);
+    baseline = await startBundledServer(where, await seedDemo(where), {}, [], args.baseline);
+    console.log(`server ${baseline.url}`);
+    onBase = await prepare(baseline, where);
+  }
+  let onPg: Prepared | null = null;
+  if (args.postgres) {
+    process.stdout.write('PostgreSQL: seeding the demo scenario… ');
+    pg = await startBenchPostgres(dir);
+    pair = await startWebPair(dir, pg);
+    console.log(`servers ${pair.map((p) => p.url).join(' and ')}`);
+    onPg = await prepare(pair[0]!, dir);
+  }
   console.log(
-    `server ${current.server.url}, bare Express ${bare.url}; ${SESSIONS} sessions; wrk -c${CONNECTIONS} ${SECONDS} s × ${ROUNDS} rounds; ${process.platform} ${process.arch}, ` +
-      `${(await import('node:os')).cpus().length} cores, Node ${process.version}`,
+    `${lite.athletes} athletes (${lite.sizes.athletes} B), assessment with 3 clips ` +
+      `(${lite.sizes.assessment} B); ${SESSIONS} sessions; wrk -c${CONNECTIONS} ${SECONDS} s × ${ROUNDS} rounds; ${process.platform} ${process.arch}, ` +
+      `${os.cpus().length} cores, Node ${process.version}` +
+      (onPg ? `; on PostgreSQL ${onPg.sizes.athletes} B and ${onPg.sizes.assessment} B` : ''),
   );
-  const cookies = current.cookies;
-  type Kind = 'bare' | 'athletes' | 'assessment' | 'athletesBase' | 'assessmentBase';
-  const runs: Record<Kind, WrkResult[]> = { bare: [], athletes: [], assessment: [], athletesBase: [], assessmentBase: [] };
-  const kinds: Kind[] = base ? ['bare', 'athletes', 'athletesBase', 'assessment', 'assessmentBase'] : ['bare', 'athletes', 'assessment'];
-  const target: Record<Kind, [string, string[], BenchProcess]> = {
-    bare: [`${bare.url}/api/bare`, cookies, bare],
-    athletes: [current.athletesUrl, cookies, current.server],
-    assessment: [current.assessmentUrl, cookies, current.server],
-    athletesBase: base ? [base.athletesUrl, base.cookies, base.server] : ['', [], bare],
-    assessmentBase: base ? [base.assessmentUrl, base.cookies, base.server] : ['', [], bare],
+
+  // What the servers spend with no request at all (timers, the worker's queue polling, PostgreSQL's own), in % of a core.
+  const idle = await idleCpu(server, pair, pg);
+  console.log(
+    `idle CPU over ${IDLE_SECONDS} s: SQLite server ${f(idle.sqlite, 1)} % of a core` +
+      (onPg ? `; PostgreSQL web servers ${f(idle.pair, 1)} %, PostgreSQL itself ${f(idle.pg, 1)} %` : ''),
+  );
+
+  const runs: Record<Kind, WrkResult[]> = {
+    bare: [],
+    athletes: [],
+    assessment: [],
+    athletesBase: [],
+    assessmentBase: [],
+    athletesPg: [],
+    assessmentPg: [],
   };
+  const kinds: Kind[] = [
+    'bare',
+    'athletes',
+    ...(onBase ? (['athletesBase'] as const) : []),
+    'assessment',
+    ...(onBase ? (['assessmentBase'] as const) : []),
+    ...(onPg ? (['athletesPg', 'assessmentPg'] as const) : []),
+  ];
   for (let round = 1; round <= ROUNDS; round++) {
-    for (const k of kinds) runs[k].push(wrk(target[k][0], target[k][1], dir, target[k][2]));
+    runs.bare.push(await wrk([bare], '/api/bare', lite.cookies, dir));
+    runs.athletes.push(await wrk([server], '/api/athletes', lite.cookies, dir));
+    if (onBase) runs.athletesBase.push(await wrk([baseline!], '/api/athletes', onBase.cookies, dir));
+    runs.assessment.push(await wrk([server], `/api/assessments/${lite.assessmentId}`, lite.cookies, dir));
+    if (onBase) runs.assessmentBase.push(await wrk([baseline!], `/api/assessments/${onBase.assessmentId}`, onBase.cookies, dir));
+    if (onPg) {
+      runs.athletesPg.push(await wrk(pair, '/api/athletes', onPg.cookies, dir, pg));
+      runs.assessmentPg.push(await wrk(pair, `/api/assessments/${onPg.assessmentId}`, onPg.cookies, dir, pg));
+    }
     const line = (k: Kind) => {
       const r = runs[k].at(-1)!;
       return `${k} ${f(r.rps)} req/s p50 ${f(r.p50, 1)} p99 ${f(r.p99, 1)} ms err ${r.errors}${r.errors ? ` (${r.errorKinds})` : ''}`;
@@ -208,46 +309,61 @@ try {
     return { ...mid, p99: median(rs.map((r) => r.p99)), errors: rs.reduce((a, r) => a + r.errors, 0) };
   };
   const b = summary('bare');
-  /** Server CPU per request (µs) of a kind, over all its rounds (steadier than one round's). */
-  const cpuUs = (k: Kind) =>
-    (runs[k].reduce((a, r) => a + r.serverCpuS, 0) /
-      Math.max(
-        1,
-        runs[k].reduce((a, r) => a + r.requests, 0),
-      )) *
-    1e6;
+  const allRequests = (k: Kind) =>
+    Math.max(
+      1,
+      runs[k].reduce((a, r) => a + r.requests, 0),
+    );
+  /** Server-side CPU per request (µs) of a kind over all its rounds (steadier than one round's): web processes and PostgreSQL. */
+  const cpuUs = (k: Kind) => (runs[k].reduce((a, r) => a + r.serverCpuS + r.dbCpuS, 0) / allRequests(k)) * 1e6;
+  /** PostgreSQL's share of it (µs). */
+  const dbUs = (k: Kind) => (runs[k].reduce((a, r) => a + r.dbCpuS, 0) / allRequests(k)) * 1e6;
   console.log('');
   console.log(
-    `| read (${CONNECTIONS} connections) | req/s | of bare Express | median | p99 | errors | server CPU per request | bare CPU ÷ this CPU |`,
+    `| read (${CONNECTIONS} connections) | req/s | of bare Express | median | p99 | errors | server CPU per request | of it PostgreSQL | bare CPU ÷ this CPU |`,
   );
-  console.log('| --- | --- | --- | --- | --- | --- | --- | --- |');
+  console.log('| --- | --- | --- | --- | --- | --- | --- | --- | --- |');
   const row = (name: string, k: Kind) => {
     const r = summary(k);
     console.log(
-      `| ${name} | ${f(r.rps)} | ${k === 'bare' ? '100 %' : `${f((r.rps / b.rps) * 100, 1)} %`} | ${f(r.p50, 1)} ms | ${f(r.p99, 1)} ms | ${r.errors} | ${f(cpuUs(k))} µs | ${f((cpuUs('bare') / cpuUs(k)) * 100, 1)} % |`,
+      `| ${name} | ${f(r.rps)} | ${k === 'bare' ? '100 %' : `${f((r.rps / b.rps) * 100, 1)} %`} | ${f(r.p50, 1)} ms | ${f(r.p99, 1)} ms | ${r.errors} | ${f(cpuUs(k))} µs | ${k.endsWith('Pg') ? `${f(dbUs(k))} µs` : '–'} | ${f((cpuUs('bare') / cpuUs(k)) * 100, 1)} % |`,
     );
   };
   row('bare Express `res.json`', 'bare');
-  row('`GET /api/athletes`', 'athletes');
-  if (base) row('`GET /api/athletes` (baseline build)', 'athletesBase');
-  row('`GET /api/assessments/:id`', 'assessment');
-  if (base) row('`GET /api/assessments/:id` (baseline build)', 'assessmentBase');
-  const ok = (['athletes', 'assessment'] as const).every((k) => {
-    const r = summary(k);
-    return r.rps / b.rps >= 0.3 && r.p99 <= 50 && r.errors === 0;
-  });
+  row('`GET /api/athletes` (SQLite, one server)', 'athletes');
+  if (onBase) row('`GET /api/athletes` (SQLite, baseline build)', 'athletesBase');
+  row('`GET /api/assessments/:id` (SQLite, one server)', 'assessment');
+  if (onBase) row('`GET /api/assessments/:id` (SQLite, baseline build)', 'assessmentBase');
+  if (onPg) {
+    row('`GET /api/athletes` (PostgreSQL, two servers)', 'athletesPg');
+    row('`GET /api/assessments/:id` (PostgreSQL, two servers)', 'assessmentPg');
+  }
+  const ok = kinds
+    .filter((k) => k !== 'bare' && !k.endsWith('Base'))
+    .every((k) => {
+      const r = summary(k);
+      return r.rps / b.rps >= 0.3 && r.p99 <= 50 && r.errors === 0;
+    });
+  const ratio = (k: Kind) => `${f((cpuUs('bare') / cpuUs(k)) * 100, 1)} %`;
   console.log(
     `\nCPU per request (all rounds): bare ${f(cpuUs('bare'))} µs, roster ${f(cpuUs('athletes'))} µs, assessment ${f(cpuUs('assessment'))} µs` +
-      (base ? ` (baseline build: roster ${f(cpuUs('athletesBase'))} µs, assessment ${f(cpuUs('assessmentBase'))} µs)` : '') +
-      ` — the rate these imply where the server has a core to itself: ${f((cpuUs('bare') / cpuUs('athletes')) * 100, 1)} % and ` +
-      `${f((cpuUs('bare') / cpuUs('assessment')) * 100, 1)} % of bare (load average ${(await import('node:os'))
+      (onBase ? ` (baseline build: roster ${f(cpuUs('athletesBase'))} µs, assessment ${f(cpuUs('assessmentBase'))} µs)` : '') +
+      (onPg ? `; on PostgreSQL roster ${f(cpuUs('athletesPg'))} µs, assessment ${f(cpuUs('assessmentPg'))} µs` : '') +
+      ` — the rate these imply where the server has a core to itself: ${kinds
+        .filter((k) => k !== 'bare' && !k.endsWith('Base'))
+        .map(ratio)
+        .join(', ')} of bare (load average ${os
         .loadavg()
         .map((l) => l.toFixed(1))
         .join(' ')})`,
   );
   console.log(`\ntarget (≥ 30 % of bare, p99 ≤ 50 ms, 0 errors): ${ok ? 'met' : 'NOT met'}`);
 } finally {
-  for (const p of started) await p.stop();
+  await server?.stop();
+  await bare?.stop();
+  await baseline?.stop();
+  for (const p of pair) await p.stop();
+  pg?.stop();
   if (args.keep) console.log(`kept ${dir}`);
   else cleanup();
 }

@@ -9,60 +9,39 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Db } from '../../server/db/knex';
-import { Client } from '../support/test-app';
-import { followProcessingEvents } from '../support/event-stream';
+import { ffprobeCounted } from './media/fixtures';
 import {
-  folderDb,
-  freePort,
-  seededDir,
-  serverProcess,
-  workerProcess,
-  type ServerProcess,
-  type WorkerProcess,
-} from '../support/server-process';
-import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
-import { ffprobeCounted, makeClip } from './media/fixtures';
-import { killMidExtraction, uploadClips, waitClipsReady, type ItemRow } from '../support/processes-flow';
+  coachFollowing,
+  killMidExtraction,
+  processesApart,
+  sawClipToReady,
+  threeClips,
+  uploadClips,
+  waitClipsReady,
+  type ItemRow,
+  type ProcessesApart,
+} from '../support/processes-flow';
 
-const [, coach] = DEMO_SIGN_INS;
-let dir: string;
-let cleanup: () => Promise<void>;
-let server: ServerProcess;
-let workers: WorkerProcess[] = [];
-let db: Db;
+let run: ProcessesApart | undefined;
 
 beforeAll(async () => {
-  ({ dir, cleanup } = await seededDir('workers-apart'));
-  server = serverProcess(dir, await freePort(), { RUN_WORKER: 'false' });
-  // One item at a time each, so the three clips are shared out between the two. A lease of 5 s
-  // (renewed every 1.7 s): a heartbeat held up on a loaded machine does not look like a dead worker.
-  workers = [0, 1].map(() => workerProcess(dir, { WORKER_CONCURRENCY: '1', JOB_MAX_ATTEMPTS: '3', JOB_LEASE_SECONDS: '5' }));
+  run = await processesApart('workers-apart');
 });
 afterAll(async () => {
-  for (const w of workers) w.killHard();
-  server?.killHard();
-  await db?.destroy();
-  await cleanup?.();
+  await run?.stop();
 });
 
 describe('one web server and two worker processes', () => {
   it('every clip ends ready with every frame after a worker is killed mid-extraction', async () => {
-    const files = await Promise.all(
-      [1, 2, 3].map((n) => makeClip(path.join(dir, `clip-${n}.mp4`), { fps: 120, width: 1280, height: 720, seconds: 4 })),
-    );
-    await server.start();
-    await Promise.all(workers.map((w) => w.start()));
-    db = folderDb(dir);
-    const c = new Client(server.url);
-    await c.signIn(coach.email, coach.password);
-    const athletes = (await c.get('/api/athletes')).body.athletes as { id: number; lastName: string }[];
-    const ada = athletes.find((a) => a.lastName === 'Kestrel')!;
-    const stream = await followProcessingEvents(`${server.url}/api/athletes/${ada.id}/processing-events`, c.cookieHeader());
-    const clipIds = await uploadClips(c, ada.id, files);
+    const { dir } = run!;
+    const files = await threeClips(dir);
+    const db = await run!.start(1);
+    const [server] = run!.servers;
+    const { client: c, athleteId, stream } = await coachFollowing(server!.url);
+    const clipIds = await uploadClips(c, athleteId, files);
 
     // Kill the first worker once it has written frames of a clip.
-    const victim = workers[0]!;
+    const victim = run!.workers[0]!;
     const tag = `:${victim.pid}:`;
     const killed = await killMidExtraction(db, victim);
 
@@ -82,12 +61,7 @@ describe('one web server and two worker processes', () => {
     expect(items).toHaveLength(clipIds.length);
 
     // Progress made in the worker processes reached the athlete's stream through the web server.
-    for (const id of clipIds) {
-      await stream.waitFor((e) => e.subject === 'clip' && e.id === id && e.state === 'ready', 10_000);
-      expect(stream.events.some((e) => e.subject === 'clip' && e.id === id && e.state === 'running' && (e.progress?.done ?? 0) > 0)).toBe(
-        true,
-      );
-    }
+    for (const id of clipIds) expect(await sawClipToReady(stream, id)).toBe(true);
     stream.close();
   }, 420_000);
 });

@@ -1,11 +1,84 @@
 /**
  * Steps shared by the tests that run web servers and workers as processes (workers-apart,
- * several-servers): upload clips as a coach, kill a worker in the middle of an extraction, wait
- * until every clip is ready.
+ * several-servers): start web servers and two workers over one seeded folder, make three clips,
+ * follow an athlete's progress as the coach, upload the clips, kill a worker in the middle of an
+ * extraction, wait until every clip is ready.
  */
+import path from 'node:path';
 import type { Db } from '../../server/db/knex';
-import type { Client } from './test-app';
-import type { WorkerProcess } from './server-process';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { makeClip } from '../server/media/fixtures';
+import { followProcessingEvents, type FollowedStream } from './event-stream';
+import { folderDb, freePort, seededDir, serverProcess, workerProcess, type ServerProcess, type WorkerProcess } from './server-process';
+import { Client } from './test-app';
+
+/** Web servers with no worker of their own and two worker processes, over one seeded folder. */
+export interface ProcessesApart {
+  /** The seeded folder (its database, its uploads folder). */
+  readonly dir: string;
+  readonly servers: ServerProcess[];
+  readonly workers: WorkerProcess[];
+  /**
+   * Starts `webServers` servers and two workers, one after another (four processes compiling at
+   * once on a loaded machine start slowly), with `env` besides the folder's; answers the folder's
+   * database as the processes see it.
+   */
+  start(webServers: number, env?: Record<string, string>): Promise<Db>;
+  /** SIGKILLs every process, closes the database and removes the folder. */
+  stop(): Promise<void>;
+}
+
+/** A seeded folder for {@link ProcessesApart} (`prefix` names its temp folder). */
+export async function processesApart(prefix: string): Promise<ProcessesApart> {
+  const { dir, cleanup } = await seededDir(prefix);
+  const servers: ServerProcess[] = [];
+  const workers: WorkerProcess[] = [];
+  let db: Db | undefined;
+  return {
+    dir,
+    servers,
+    workers,
+    async start(webServers, env = {}) {
+      for (let i = 0; i < webServers; i++) servers.push(serverProcess(dir, await freePort(), { RUN_WORKER: 'false', ...env }));
+      // One item at a time each, so the three clips are shared out between the two. A lease of 5 s
+      // (renewed every 1.7 s): a heartbeat held up on a loaded machine does not look like a dead worker.
+      const workerEnv = { WORKER_CONCURRENCY: '1', JOB_MAX_ATTEMPTS: '3', JOB_LEASE_SECONDS: '5', ...env };
+      for (let i = 0; i < 2; i++) workers.push(workerProcess(dir, workerEnv));
+      for (const s of servers) await s.start();
+      for (const w of workers) await w.start();
+      db = folderDb(dir);
+      return db;
+    },
+    async stop() {
+      for (const w of workers) w.killHard();
+      for (const s of servers) s.killHard();
+      await db?.destroy();
+      await cleanup();
+    },
+  };
+}
+
+/** Three 4 s clips at 120 fps, 1280×720 (about 480 frames each: long enough to kill a worker in one). */
+export function threeClips(dir: string): Promise<string[]> {
+  return Promise.all([1, 2, 3].map((n) => makeClip(path.join(dir, `clip-${n}.mp4`), { fps: 120, width: 1280, height: 720, seconds: 4 })));
+}
+
+/** The demo coach signed in on `url`, following the progress stream of the demo athlete Kestrel there. */
+export async function coachFollowing(url: string): Promise<{ client: Client; athleteId: number; stream: FollowedStream }> {
+  const [, coach] = DEMO_SIGN_INS;
+  const client = new Client(url);
+  await client.signIn(coach!.email, coach!.password);
+  const athletes = (await client.get('/api/athletes')).body.athletes as { id: number; lastName: string }[];
+  const athleteId = athletes.find((x) => x.lastName === 'Kestrel')!.id;
+  const stream = await followProcessingEvents(`${url}/api/athletes/${athleteId}/processing-events`, client.cookieHeader());
+  return { client, athleteId, stream };
+}
+
+/** Whether `stream` showed clip `id` running with frames done, then ready (waits up to 10 s for ready). */
+export async function sawClipToReady(stream: FollowedStream, id: number): Promise<boolean> {
+  await stream.waitFor((e) => e.subject === 'clip' && e.id === id && e.state === 'ready', 10_000);
+  return stream.events.some((e) => e.subject === 'clip' && e.id === id && e.state === 'running' && (e.progress?.done ?? 0) > 0);
+}
 
 /** The `processed_items` columns these tests read. */
 export interface ItemRow {

@@ -71,8 +71,9 @@ function stopper(child: ChildProcess): () => Promise<void> {
 /**
  * Builds the server bundle (unless another `bundle` is given) and runs it with plain Node, as `npm start` does, on a free port with
  * the default log level (its log goes to `dir/server.log`, written by the server itself, so
- * reading it costs the benchmark nothing). Demo mode, with the fake mail and payment services on
- * free ports. `bundle`: another build of the server to run instead (e.g. an earlier one, side by side).
+ * reading it costs the benchmark nothing; `logName` when several run in one folder). Demo mode,
+ * with the fake mail and payment services on free ports. `bundle`: another build of the server to
+ * run instead (e.g. an earlier one, side by side).
  */
 export async function startBundledServer(
   dir: string,
@@ -80,9 +81,10 @@ export async function startBundledServer(
   env: Record<string, string> = {},
   nodeArgs: string[] = [],
   bundle = SERVER_BUNDLE,
+  logName = 'server.log',
 ): Promise<BenchProcess> {
   if (bundle === SERVER_BUNDLE) await buildServer();
-  const log = path.join(dir, 'server.log');
+  const log = path.join(dir, logName);
   const fd = fs.openSync(log, 'a');
   // BENCH_CPU_PROF=dir writes the server's CPU profile there when it stops (node --cpu-prof).
   const prof = process.env['BENCH_CPU_PROF'];
@@ -121,7 +123,8 @@ export async function startBundledServer(
  */
 export async function startBareExpress(dir: string): Promise<BenchProcess> {
   const log = path.join(dir, 'bare.log');
-  const fd = fs.openSync(log, 'a');
+  // Anew: a run that starts it again must not read the last one's address.
+  const fd = fs.openSync(log, 'w');
   const code = `
     import express from 'express';
     const app = express();

@@ -1,0 +1,114 @@
+/**
+ * An S3-compatible bucket for tests: s3rver (the local fake of the S3 API from npm; a test-only
+ * package) in its own process on a free port, a bucket in it, the store the app uses over it, and the `S3_*`
+ * variables that point server and worker processes at it. Also: which keys of the bucket the
+ * database rows (and the manifests they lead to) name, to find objects nobody owns.
+ */
+import fs from 'node:fs';
+import { spawn } from 'node:child_process';
+import { CreateBucketCommand, ListObjectsV2Command } from '@aws-sdk/client-s3';
+import type { Db } from '../../server/db/knex';
+import type { ClipManifest } from '../../server/media/manifest';
+import { clipKeys } from '../../server/storage/media-keys';
+import { s3MediaStore } from '../../server/storage/s3-media-store';
+import { readJson } from '../../server/storage/stored-objects';
+
+const BUCKET = 'media';
+
+/** A running fake bucket. */
+export interface TestBucket {
+  store: ReturnType<typeof s3MediaStore>;
+  /** `S3_BUCKET`, `S3_ENDPOINT` and the fake's keys, for a server or worker process. */
+  env: Record<string, string>;
+  /** Every key in the bucket, sorted (whatever its first part). */
+  allKeys(): Promise<string[]>;
+  close(): Promise<void>;
+}
+
+/**
+ * Starts s3rver in a process of its own with its files under `directory` and makes the bucket.
+ * `--openssl-legacy-provider`: s3rver (which declares Node ≥ 24) makes the continuation token of a
+ * listing longer than 1000 keys with DES, which Node 20's OpenSSL 3 offers only through its legacy
+ * provider. `allowMismatchedSignatures`: the fake computes request signatures differently from the
+ * current SDK, which real stores accept.
+ */
+export async function startBucket(directory: string, tempDir?: string): Promise<TestBucket> {
+  const options = JSON.stringify({ port: 0, address: '127.0.0.1', silent: true, directory, allowMismatchedSignatures: true });
+  const code = `const S3rver = require('@20minutes/s3rver'); new S3rver(${options}).run().then(({ port }) => console.log('s3rver port ' + port));`;
+  const child = spawn(process.execPath, ['--openssl-legacy-provider', '-e', code], { stdio: ['ignore', 'pipe', 'inherit'] });
+  const port = await new Promise<number>((resolve, reject) => {
+    let out = '';
+    child.stdout.on('data', (chunk: Buffer) => {
+      out += chunk.toString();
+      const m = /s3rver port (\d+)/.exec(out);
+      if (m) resolve(Number(m[1]));
+    });
+    child.once('exit', (c) => reject(new Error(`s3rver exited with ${c}`)));
+  });
+  const endpoint = `http://127.0.0.1:${port}`;
+  if (tempDir) fs.mkdirSync(tempDir, { recursive: true });
+  const store = s3MediaStore({
+    bucket: BUCKET,
+    endpoint,
+    region: 'us-east-1',
+    accessKeyId: 'S3RVER',
+    secretAccessKey: 'S3RVER',
+    forcePathStyle: true,
+    ...(tempDir ? { tempDir } : {}),
+  });
+  await store.client.send(new CreateBucketCommand({ Bucket: BUCKET }));
+  return {
+    store,
+    env: {
+      S3_BUCKET: BUCKET,
+      S3_ENDPOINT: endpoint,
+      S3_ACCESS_KEY_ID: 'S3RVER',
+      S3_SECRET_ACCESS_KEY: 'S3RVER',
+      S3_FORCE_PATH_STYLE: 'true',
+    },
+    async allKeys() {
+      const keys: string[] = [];
+      let ContinuationToken: string | undefined;
+      do {
+        const page = await store.client.send(new ListObjectsV2Command({ Bucket: BUCKET, ContinuationToken }));
+        for (const c of page.Contents ?? []) if (c.Key) keys.push(c.Key);
+        ContinuationToken = page.IsTruncated ? page.NextContinuationToken : undefined;
+      } while (ContinuationToken);
+      return keys.sort();
+    },
+    async close() {
+      store.client.destroy();
+      if (child.exitCode !== null) return;
+      const exited = new Promise((r) => child.once('exit', r));
+      child.kill('SIGTERM');
+      await exited;
+    },
+  };
+}
+
+/**
+ * The keys that the rows of `clipIds` name, with what their manifests name: each clip's original
+ * (`clips.stored_name`) and manifest, the frames and thumbnails its manifest counts, and both
+ * images of each ready still of the clip at its render version (`stills.render_version`).
+ */
+export async function keysNamedByRows(db: Db, store: TestBucket['store'], clipIds: number[]): Promise<string[]> {
+  const named: string[] = [];
+  for (const clip of await db('clips').whereIn('id', clipIds).select<{ id: number; stored_name: string }[]>('id', 'stored_name')) {
+    const keys = clipKeys(clip.id);
+    named.push(keys.original(clip.stored_name));
+    const manifest = await readJson<ClipManifest>(store, keys.manifest);
+    if (!manifest) continue;
+    named.push(keys.manifest);
+    for (let i = 0; i < manifest.frameCount; i++) named.push(keys.frame(i));
+    for (let i = 0; i < manifest.thumbCount; i++) named.push(keys.thumb(i));
+  }
+  const stills = await db('stills')
+    .whereIn('clip_id', clipIds)
+    .where({ status: 'ready' })
+    .select<{ id: number; clip_id: number; render_version: number }[]>('id', 'clip_id', 'render_version');
+  for (const still of stills) {
+    named.push(clipKeys(still.clip_id).still(still.id, still.render_version, 'png'));
+    named.push(clipKeys(still.clip_id).still(still.id, still.render_version, 'jpeg'));
+  }
+  return named.sort();
+}
