@@ -198,7 +198,7 @@ export function createApp(deps: AppDeps): App {
 
   const invitations = invitationsService({ db, mailer, config, clock });
   const resets = passwordResetsService({ db, mailer, config, clock, logger, onPasswordSet: (email) => guard.clear(email) });
-  const athletes = athletesService({ db, clock, invitations });
+  const athletes = athletesService({ db, clock, invitations, notices: { mailer, logger, publicUrl: config.publicUrl } });
   // Start-up removes temp files of uploads a killed server left; then a sweep by age (unref'd).
   const temps = uploadTemps(uploadTempDir(config.uploadsDir), (err) => logger.warn({ err: err.message }, 'upload temp sweep failed'));
   const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
