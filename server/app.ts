@@ -23,6 +23,7 @@ import { athletesRoutes } from './athletes/athletes.routes';
 import type { MediaStore } from './storage/media-store';
 import { resumableUploadDir, uploadTempDir, uploadTemps } from './storage/upload-temps';
 import type { Processing } from './processing/processing';
+import { releaseDrawingMemory } from './render/fonts';
 import { startWorker, type Worker } from './processing/worker';
 import { processingEngine } from './processing/engine';
 import { processingEventsRoutes } from './processing/processing-events.routes';
@@ -243,6 +244,9 @@ export function createApp(deps: AppDeps): App {
         concurrency: config.jobs.concurrency,
         pollMs: config.jobs.pollMs,
         leaseMs: config.jobs.leaseMs,
+        // The web process draws stills and summaries now and then: what the drawing held goes once the queue is done.
+        onIdle: () =>
+          void releaseDrawingMemory().catch((err: Error) => logger.warn({ err: err.message }, 'releasing drawing memory failed')),
       })
     : null;
   if (worker) void warmUpFfmpeg();
