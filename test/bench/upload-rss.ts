@@ -8,7 +8,8 @@
  * path's peak RSS (the kernel's peak is reset between them), with the server's CPU time per MB.
  * `--compare` runs the same on a second server started as `npm start` did before (only
  * `--enable-source-maps`, the allocator's defaults), side by side in one run.
- * Run: npx tsx test/bench/upload-rss.ts [sizeMB] [--compare]
+ * `--no-demo-clips` seeds the demo without its clips: a server that has drawn nothing yet.
+ * Run: npx tsx test/bench/upload-rss.ts [sizeMB] [--compare] [--no-demo-clips]
  */
 import { spawn } from 'node:child_process';
 import fs from 'node:fs';
@@ -36,7 +37,8 @@ const template = path.join(root, 'template');
 fs.mkdirSync(template);
 const seeded = createDb(path.join(template, 'db.sqlite'));
 await migrate(seeded);
-await seed(seeded, { uploadsDir: path.join(template, 'uploads'), log: () => {} });
+// `--no-demo-clips`: the demo without its clips, as a server that has drawn nothing yet (or a restart: the start-up work is done once).
+await seed(seeded, process.argv.includes('--no-demo-clips') ? {} : { uploadsDir: path.join(template, 'uploads'), log: () => {} });
 await seeded.destroy();
 await buildServer();
 
