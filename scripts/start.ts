@@ -8,7 +8,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { loadConfig } from '../server/config';
 import { createDb, dbTarget, migrate } from '../server/db/knex';
-import { buildServer, SERVER_BUNDLE } from './build-server';
+import { buildServer, SERVER_BUNDLE, SERVER_ENV, SERVER_NODE_ARGS } from './build-server';
 import { DEMO_SIGN_INS, seed } from '../seeds/demo-scenario';
 
 const root = process.cwd();
@@ -56,7 +56,10 @@ async function main(): Promise<void> {
   await buildServer();
 
   // The server runs as plain Node on the bundle (no TypeScript loader in memory).
-  const server = spawn(process.execPath, ['--enable-source-maps', SERVER_BUNDLE], { stdio: 'inherit', env: process.env });
+  const server = spawn(process.execPath, [...SERVER_NODE_ARGS, SERVER_BUNDLE], {
+    stdio: 'inherit',
+    env: { ...SERVER_ENV, ...process.env },
+  });
   const stop = (signal: NodeJS.Signals) => server.kill(signal);
   process.on('SIGINT', stop);
   process.on('SIGTERM', stop);

@@ -26,6 +26,7 @@ import { athletesRoutes } from './athletes/athletes.routes';
 import type { MediaStore } from './storage/media-store';
 import { resumableUploadDir, uploadTempDir, uploadTemps } from './storage/upload-temps';
 import type { Processing } from './processing/processing';
+import { releaseDrawingMemory } from './render/fonts';
 import { startWorker, type Worker } from './processing/worker';
 import { processingEngine } from './processing/engine';
 import { processingEventsRoutes } from './processing/processing-events.routes';
@@ -208,7 +209,7 @@ export function createApp(deps: AppDeps): App {
 
   const invitations = invitationsService({ db, mailer, config, clock });
   const resets = passwordResetsService({ db, mailer, config, clock, logger, onPasswordSet: (email) => guard.clear(email) });
-  const athletes = athletesService({ db, clock, invitations });
+  const athletes = athletesService({ db, clock, invitations, notices: { mailer, logger, publicUrl: config.publicUrl } });
   // Start-up removes temp files of uploads a killed server left; then a sweep by age (unref'd).
   const temps = uploadTemps(uploadTempDir(config.uploadsDir), (err) => logger.warn({ err: err.message }, 'upload temp sweep failed'));
   const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
@@ -253,6 +254,9 @@ export function createApp(deps: AppDeps): App {
         concurrency: config.jobs.concurrency,
         pollMs: config.jobs.pollMs,
         leaseMs: config.jobs.leaseMs,
+        // The web process draws stills and summaries now and then: what the drawing held goes once the queue is done.
+        onIdle: () =>
+          void releaseDrawingMemory().catch((err: Error) => logger.warn({ err: err.message }, 'releasing drawing memory failed')),
       })
     : null;
   if (worker) void warmUpFfmpeg();

@@ -18,6 +18,7 @@ import { createSmtpMailer } from './mail/mailer';
 import { warmUpFfmpeg } from './media/extract';
 import { createMediaServices } from './services';
 import { startWorker } from './processing/worker';
+import { releaseDrawingMemory } from './render/fonts';
 import { processingEngine } from './processing/engine';
 
 export interface WorkerProcess {
@@ -49,6 +50,7 @@ export async function startWorkerProcess(config: Config = loadConfig()): Promise
     concurrency: config.jobs.concurrency,
     pollMs: config.jobs.pollMs,
     leaseMs: config.jobs.leaseMs,
+    onIdle: () => void releaseDrawingMemory().catch((err: Error) => logger.warn({ err: err.message }, 'releasing drawing memory failed')),
   });
   logger.info({ concurrency: config.jobs.concurrency, tag: processing.processTag }, 'worker started');
   return {

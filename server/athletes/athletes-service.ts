@@ -4,6 +4,7 @@ import type { Db } from '../db/knex';
 import type { AthleteRow } from '../db/rows';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import { unpublishAll } from '../sharing/consent-withdrawal';
+import { sendVideoConsentWithdrawnNotice, type VideoConsentNoticeDeps } from '../mail/video-consent-notice';
 import { audit } from '../audit/audit-log';
 import type { InvitationsService } from '../auth/invitations-service';
 import type { Action } from '../policy/access-table';
@@ -16,10 +17,12 @@ export interface AthletesDeps {
   db: Db;
   clock: () => Date;
   invitations: InvitationsService;
+  /** How owners are told that an athlete withdrew consent to video (mailer, logger, the app's public address). */
+  notices: Omit<VideoConsentNoticeDeps, 'db'>;
 }
 
 /** Athlete roster, profile and intake, scoped to the signed-in user's clinic (and self for athletes). */
-export function athletesService({ db, clock, invitations }: AthletesDeps) {
+export function athletesService({ db, clock, invitations, notices }: AthletesDeps) {
   const now = () => clock().toISOString();
   const roster = repo.rosterReader(db);
 
@@ -121,6 +124,7 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
     async putIntake(user: SessionUser, id: number, input: IntakeInput): Promise<AthleteDetail> {
       await accessible(user, id, 'athlete:update-intake');
       const at = now();
+      let videoWithdrawn = false;
       await db.transaction(async (trx) => {
         await repo.update(trx, user.clinicId, id, {
           date_of_birth: input.dateOfBirth,
@@ -138,6 +142,7 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
         const changed: string[] = [];
         if (await repo.recordConsent(trx, user.clinicId, id, 'video_recording', input.consents.videoRecording, user.id, at))
           changed.push('video_recording');
+        videoWithdrawn = changed.includes('video_recording') && !input.consents.videoRecording;
         if (await repo.recordConsent(trx, user.clinicId, id, 'share_stills', input.consents.shareStills, user.id, at))
           changed.push('share_stills');
         // Consent to sharing withdrawn: nothing stays shared with the athlete.
@@ -154,6 +159,8 @@ export function athletesService({ db, clock, invitations }: AthletesDeps) {
           at,
         );
       });
+      // Consent to video withdrawn: uploads are refused from now on; the owners decide about the clips held.
+      if (videoWithdrawn) await sendVideoConsentWithdrawnNotice({ db, ...notices }, id);
       return detailFor(user, id);
     },
 

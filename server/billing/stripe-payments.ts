@@ -17,16 +17,22 @@ class ObjectMissing extends Error {}
  * are read here only; billing hears {@link PaymentEvent}s.
  */
 export function stripePayments(config: PaymentsConfig): Payments {
-  // The provider's SDK loads when card payment is configured, not in every web process.
-  const StripeSdk = createRequire(import.meta.url)('stripe') as typeof Stripe;
-  const stripe = new StripeSdk(config.secretKey, {
-    ...(config.apiHost ? { host: config.apiHost } : {}),
-    ...(config.apiPort ? { port: config.apiPort } : {}),
-    ...(config.apiProtocol ? { protocol: config.apiProtocol } : {}),
-    maxNetworkRetries: 1,
-    timeout: 20_000,
-    telemetry: false,
-  });
+  // The provider's SDK (several MB of code) loads at the first payment call, not in every web process
+  // where card payment is merely configured.
+  let client: Stripe | undefined;
+  const stripe = (): Stripe => {
+    if (client) return client;
+    const StripeSdk = createRequire(import.meta.url)('stripe') as typeof Stripe;
+    client = new StripeSdk(config.secretKey, {
+      ...(config.apiHost ? { host: config.apiHost } : {}),
+      ...(config.apiPort ? { port: config.apiPort } : {}),
+      ...(config.apiProtocol ? { protocol: config.apiProtocol } : {}),
+      maxNetworkRetries: 1,
+      timeout: 20_000,
+      telemetry: false,
+    });
+    return client;
+  };
 
   /** A payment page as the provider reports it when asked. */
   const confirmedPayment = (s: Stripe.Checkout.Session): PaymentConfirmed => ({
@@ -49,7 +55,7 @@ export function stripePayments(config: PaymentsConfig): Payments {
     if (!id || !/^[A-Za-z0-9_]{3,255}$/.test(id)) return null;
     try {
       if (event.providerType === 'charge.refunded') {
-        const c = await retrieveOrMissing(() => stripe.charges.retrieve(id));
+        const c = await retrieveOrMissing(() => stripe().charges.retrieve(id));
         return {
           type: 'refund-confirmed',
           paymentId: idOf(c.payment_intent),
@@ -59,7 +65,7 @@ export function stripePayments(config: PaymentsConfig): Payments {
           refundId: null,
         };
       }
-      const r = await retrieveOrMissing(() => stripe.refunds.retrieve(id));
+      const r = await retrieveOrMissing(() => stripe().refunds.retrieve(id));
       return {
         type: 'refund-confirmed',
         paymentId: idOf(r.payment_intent),
@@ -76,7 +82,7 @@ export function stripePayments(config: PaymentsConfig): Payments {
 
   return {
     async createCheckout(r): Promise<CheckoutStarted> {
-      const session = await stripe.checkout.sessions.create(
+      const session = await stripe().checkout.sessions.create(
         {
           mode: 'payment',
           line_items: [
@@ -99,12 +105,12 @@ export function stripePayments(config: PaymentsConfig): Payments {
     },
 
     async refund(paymentId, idempotencyKey) {
-      const refund = await stripe.refunds.create({ payment_intent: paymentId }, { idempotencyKey });
+      const refund = await stripe().refunds.create({ payment_intent: paymentId }, { idempotencyKey });
       return { id: refund.id, succeeded: refund.status === 'succeeded' };
     },
 
     readWebhook(rawBody, header): WebhookEvent {
-      const event = stripe.webhooks.constructEvent(rawBody, header ?? '', config.webhookSecret);
+      const event = stripe().webhooks.constructEvent(rawBody, header ?? '', config.webhookSecret);
       const object = event.data.object as unknown as Record<string, unknown>;
       const about: WebhookEvent['about'] =
         event.type === CHECKOUT_COMPLETED
@@ -127,7 +133,7 @@ export function stripePayments(config: PaymentsConfig): Payments {
       switch (event.about) {
         case 'checkout-completed':
           // Ask the provider again rather than trusting any copy of the session.
-          return confirmedPayment(await stripe.checkout.sessions.retrieve(String(event.subjectId)));
+          return confirmedPayment(await stripe().checkout.sessions.retrieve(String(event.subjectId)));
         case 'checkout-failed':
           return { type: 'payment-failed', checkoutId: String(event.subjectId), invoiceId: event.invoiceId };
         case 'refund':

@@ -13,6 +13,7 @@ import type { Processing } from '../processing/processing';
 import { assessmentPrefix, clipKeys, exportPrefix } from '../storage/media-keys';
 import type { MediaStore } from '../storage/media-store';
 import { ATHLETE_TABLES, ATHLETE_TABLE_NAMES } from './athlete-tables';
+import { redactKeptInvoices } from './redact-kept-invoices';
 
 /** The owner's side of an athlete's data: the overview, erasure of everything, erasure of the clips only. */
 export interface AthleteDataService {
@@ -138,6 +139,8 @@ export function athleteDataService(d: {
           erased_at: at,
           erasure_ref: reference,
         });
+        // Staff may have typed the athlete's name or contact into a kept invoice's note or line: the reference replaces it.
+        await redactKeptInvoices(trx, athleteId, { firstName: a.first_name, lastName: a.last_name, email: a.email }, reference);
         // The demo inbox's copies of messages to or about the athlete.
         const mail = trx('mailbox_messages').where('text', 'like', `%${fullName}%`).orWhere('subject', 'like', `%${fullName}%`);
         if (a.email) mail.orWhereRaw('lower(to_address) = lower(?)', [a.email]).orWhere('text', 'like', `%${a.email}%`);

@@ -26,6 +26,8 @@ export interface WorkerOptions {
   cores?: number;
   /** Least time between two progress writes of one item, ms (default 200). */
   progressEveryMs?: number;
+  /** Called when the worker falls idle after running items (nothing running, nothing due): memory a burst of work held can go. */
+  onIdle?: () => void;
 }
 
 /** Items run at once by default: one per core, at most four (each ffmpeg gets its share of the cores). */
@@ -49,6 +51,8 @@ export function startWorker(o: WorkerOptions): Worker {
   let pumping = false;
   let again = false;
   let idleWaiters: (() => void)[] = [];
+  /** Whether items ran since the worker was last idle. */
+  let busy = false;
 
   const schedule = (ms: number) => {
     if (stopped) return;
@@ -153,6 +157,7 @@ export function startWorker(o: WorkerOptions): Worker {
         while (!stopped && running.size < o.concurrency) {
           const item = await queue.claim();
           if (!item) break;
+          busy = true;
           const controller = new AbortController();
           const entry = { controller, done: Promise.resolve() };
           running.set(item.id, entry);
@@ -170,6 +175,10 @@ export function startWorker(o: WorkerOptions): Worker {
       pumping = false;
     }
     if (running.size === 0) {
+      if (busy && !stopped) {
+        busy = false;
+        o.onIdle?.();
+      }
       const waiters = idleWaiters;
       idleWaiters = [];
       waiters.forEach((w) => w());

@@ -58,6 +58,19 @@ export function registerPdfFonts(doc: { registerFont(name: string, src: string):
   for (const [name, file] of Object.entries(PDF_FONT_FILES)) doc.registerFont(name, file);
 }
 
+/**
+ * Once a burst of drawing is over: empties Skia's caches (glyphs, typefaces' scaler data, decoded
+ * images) and, when the process allows it (`--expose-gc`, which `npm start` sets), runs one full
+ * garbage collection, so the canvases and image buffers the last stills and summaries left behind
+ * are freed now rather than whenever the heap next fills. The next drawing fills the caches again.
+ * Nothing happens when nothing was drawn.
+ */
+export async function releaseDrawingMemory(): Promise<void> {
+  if (!canvasModule && !pdfkitModule) return;
+  (await canvasModule)?.clearAllCache();
+  (globalThis as { gc?: () => void }).gc?.();
+}
+
 const importPdfKit = () => import('pdfkit');
 let pdfkitModule: ReturnType<typeof importPdfKit> | undefined;
 

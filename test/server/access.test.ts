@@ -1548,6 +1548,7 @@ describe('after erasing the self athlete', () => {
   let partialUpload = false;
   let reference = '';
   let invoiceIds: number[] = [];
+  let plantedLine = 0;
   let athleteClient: Client;
   const SURNAME = 'Kestrel';
   const EMAIL = 'ada.kestrel@runner.test';
@@ -1568,6 +1569,16 @@ describe('after erasing the self athlete', () => {
       `exports/${id}/`,
     ];
     invoiceIds = (await t.db('invoices').where({ athlete_id: id }).whereNot({ status: 'draft' }).pluck('id')) as number[];
+    // Staff typed the athlete's name and contact into a kept invoice's free text: the erasure must find them there too.
+    await t
+      .db('invoices')
+      .where({ id: invoiceIds[0] })
+      .update({ note: `Sessions for Ada ${SURNAME} (${EMAIL.toUpperCase()})`, payment_note: 'Paid by ada at the desk' });
+    plantedLine = (await t.db('invoice_lines').where({ invoice_id: invoiceIds[0] }).first<{ id: number }>())!.id;
+    await t
+      .db('invoice_lines')
+      .where({ id: plantedLine })
+      .update({ description: `Gait assessment, ${SURNAME}, Ada` });
     // A resumable upload the coach left unfinished on the athlete's assessment: its bytes are theirs too.
     partialUpload = (await import('node:fs')).existsSync(path.join(t.config.uploadsDir, 'tmp', 'resumable', uc.uploadId));
     athleteClient = await clientFor(t.app, 'athleteSelf');
@@ -1639,7 +1650,7 @@ describe('after erasing the self athlete', () => {
     expect(files.filter((f) => f.includes(uc.uploadId))).toEqual([]);
   });
 
-  it("no text in any table holds the athlete's name or e-mail", async () => {
+  it("no text in any table holds the athlete's name or e-mail, not even an invoice's note or line typed by staff", async () => {
     const columns = await tableColumns(t.db);
     expect(columns.length).toBeGreaterThan(100);
     const found: string[] = [];
@@ -1651,6 +1662,14 @@ describe('after erasing the self athlete', () => {
         if (Number(row!.n) > 0) found.push(`${table}.${column} ∋ ${needle} (${row!.n})`);
       }
     expect(found).toEqual([]);
+    // The planted free text now names the reference, word for word otherwise.
+    expect(await t.db('invoices').where({ id: invoiceIds[0] }).first('note', 'payment_note')).toEqual({
+      note: `Sessions for ${reference} (${reference})`,
+      payment_note: `Paid by ${reference} at the desk`,
+    });
+    expect((await t.db('invoice_lines').where({ id: plantedLine }).first('description')).description).toBe(
+      `Gait assessment, ${reference}, ${reference}`,
+    );
   });
 
   it('one audit entry says who erased whom (by the reference) and when; the account and its sessions are gone', async () => {

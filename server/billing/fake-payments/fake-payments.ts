@@ -82,8 +82,9 @@ const now = () => Math.floor(Date.now() / 1000);
 
 /** Starts the fake payment service on 127.0.0.1 (`port` 0 = any free port). */
 export async function startFakePayments(options: FakePaymentsOptions): Promise<FakePayments> {
-  const StripeSdk = createRequire(import.meta.url)('stripe') as typeof Stripe;
-  const signer = new StripeSdk('sk_fake_signer');
+  // The SDK only signs webhooks here: loaded at the first one, so an idle demo server does not hold it.
+  let signerSdk: Stripe | undefined;
+  const signer = (): Stripe => (signerSdk ??= new (createRequire(import.meta.url)('stripe') as typeof Stripe)('sk_fake_signer'));
   const sessions = new Map<string, Session>();
   /** Charges and refunds the fake has made (what a refund event is confirmed against). */
   const charges = new Map<string, object>();
@@ -278,7 +279,7 @@ export async function startFakePayments(options: FakePaymentsOptions): Promise<F
     for (const delay of delays) {
       if (delay) await new Promise((r) => setTimeout(r, delay));
       if (!webhookUrl) return 0;
-      const signature = signer.webhooks.generateTestHeaderString({ payload, secret: options.webhookSecret });
+      const signature = signer().webhooks.generateTestHeaderString({ payload, secret: options.webhookSecret });
       try {
         const res = await fetch(webhookUrl, {
           method: 'POST',

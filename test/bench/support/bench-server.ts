@@ -9,7 +9,7 @@ import fs from 'node:fs';
 import http from 'node:http';
 import os from 'node:os';
 import path from 'node:path';
-import { buildServer, SERVER_BUNDLE } from '../../../scripts/build-server';
+import { buildServer, SERVER_BUNDLE, SERVER_ENV, SERVER_NODE_ARGS } from '../../../scripts/build-server';
 import { createDb, migrate } from '../../../server/db/knex';
 import { seed } from '../../../seeds/demo-scenario';
 
@@ -97,9 +97,11 @@ export async function startBundledServer(
     ];
   if (process.env['BENCH_NODE_ARGS']) nodeArgs = [...nodeArgs, ...process.env['BENCH_NODE_ARGS'].split(' ')];
   if (process.env['BENCH_NODE_IMPORT']) nodeArgs = [...nodeArgs, `--import=${process.env['BENCH_NODE_IMPORT']}`];
-  const child = spawn(process.execPath, ['--enable-source-maps', ...nodeArgs, bundle], {
+  // As `npm start` runs it: the same Node flags and allocator settings.
+  const child = spawn(process.execPath, [...SERVER_NODE_ARGS, ...nodeArgs, bundle], {
     stdio: ['ignore', fd, fd],
     env: {
+      ...SERVER_ENV,
       ...process.env,
       PORT: '0',
       DB_FILE: dbFile,

@@ -4,7 +4,8 @@
  * documented back-off 2 s × 2^(attempt−1), permanent errors), lease renewal every third of the
  * lease (at least 250 ms) and what a refused heartbeat or progress write does (the run is aborted
  * and nothing is recorded for it), a cancelled item, a graceful stop (handed back, attempt
- * unused), progress throttling and the decoder threads shared among running items.
+ * unused), progress throttling, the decoder threads shared among running items, and the call when
+ * a burst of work is over (memory it held can go).
  */
 import pino from 'pino';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
@@ -359,6 +360,21 @@ describe('the worker loop', () => {
     void worker.idle().then(() => (again = true));
     await tick();
     expect(again).toBe(true);
+  });
+
+  it('onIdle is called once when a burst of items is over, never while one runs, and not on polls that found nothing', async () => {
+    const s = scripted([itemOf(1), itemOf(2)]);
+    const onIdle = vi.fn();
+    worker = startWorker({ processing: s.processing, logger, concurrency: 2, pollMs: 1000, leaseMs: 30_000, cores: 2, onIdle });
+    await tick();
+    s.runs[0].resolve('one');
+    await tick();
+    expect(onIdle).not.toHaveBeenCalled();
+    s.runs[1].resolve('two');
+    await tick();
+    expect(onIdle).toHaveBeenCalledTimes(1);
+    await tick(5000);
+    expect(onIdle).toHaveBeenCalledTimes(1);
   });
 
   it('a failing lease renewal, progress write or claim is logged and the loop goes on', async () => {
