@@ -25,6 +25,31 @@ export interface S3StoreOptions {
 
 const KEY_PART = /^[A-Za-z0-9_-][A-Za-z0-9._-]*$/;
 
+/** Prefix of the temp folders ffmpeg works in beside a bucket. */
+export const S3_TEMP_PREFIX = 'trailframe-s3-';
+
+/** A temp folder untouched this long belongs to no live job (a job writes into its folder as it runs). */
+export const S3_TEMP_STALE_MS = 6 * 3_600_000;
+
+/**
+ * Removes the temp folders under `tempRoot` that a process killed mid-job left behind (its
+ * `finally` never ran): those whose last change is older than `staleMs`. Other processes' live
+ * folders on the same machine are younger and stay. Answers how many were removed.
+ */
+export async function sweepStaleTempFolders(tempRoot: string, now = Date.now(), staleMs = S3_TEMP_STALE_MS): Promise<number> {
+  let removed = 0;
+  const entries = await fs.promises.readdir(tempRoot, { withFileTypes: true }).catch(() => []);
+  for (const entry of entries) {
+    if (!entry.isDirectory() || !entry.name.startsWith(S3_TEMP_PREFIX)) continue;
+    const dir = path.join(tempRoot, entry.name);
+    const stat = await fs.promises.stat(dir).catch(() => null);
+    if (!stat || now - stat.mtimeMs < staleMs) continue;
+    await fs.promises.rm(dir, { recursive: true, force: true });
+    removed++;
+  }
+  return removed;
+}
+
 function checkKey(key: string, prefix = false): string {
   const body = prefix ? key.replace(/\/$/, '') : key;
   if ((prefix && !key.endsWith('/')) || !body || !body.split('/').every((p) => KEY_PART.test(p))) {
@@ -85,7 +110,9 @@ export function s3MediaStore(o: S3StoreOptions, clientConfig: Partial<S3ClientCo
     }
   }
 
-  const tempFolder = () => fs.promises.mkdtemp(path.join(tempRoot, 'trailframe-s3-'));
+  const tempFolder = () => fs.promises.mkdtemp(path.join(tempRoot, S3_TEMP_PREFIX));
+  // What a process killed mid-job left in the temp folder goes when the next store starts.
+  void sweepStaleTempFolders(tempRoot).catch(() => undefined);
 
   return {
     client,
