@@ -101,8 +101,22 @@ async function main(): Promise<void> {
 
   // The server runs as plain Node on the bundle (no TypeScript loader in memory).
   const server = spawn(process.execPath, [...SERVER_NODE_ARGS, SERVER_BUNDLE], {
-    stdio: 'inherit',
+    stdio: ['inherit', 'pipe', 'inherit'],
     env: { ...SERVER_ENV, ...process.env },
+  });
+  // The server's own lines pass through; the one naming its address gives the port (PORT=0: any free port).
+  const listening = new Promise<string>((resolve) => {
+    let seen: string | null = '';
+    server.stdout.on('data', (chunk: Buffer) => {
+      process.stdout.write(chunk);
+      if (seen === null) return;
+      seen += chunk.toString();
+      const m = /listening on (http:\/\/\S+)/.exec(seen);
+      if (m) {
+        resolve(m[1]!);
+        seen = null;
+      }
+    });
   });
   const drawing = drawsApart(config) ? drawingWorker() : null;
   const stop = (signal: NodeJS.Signals) => server.kill(signal);
@@ -112,7 +126,12 @@ async function main(): Promise<void> {
     void (drawing?.stop() ?? Promise.resolve()).then(() => process.exit(code ?? 0));
   });
 
-  const url = `http://localhost:${config.port}`;
+  // The drawing worker needs no HTTP server: it starts now, and items it draws wait queued until it runs.
+  if (drawing) {
+    drawing.start();
+    console.log('[start] stills, summaries, annotated clips and exports are drawn by a worker process beside the server (DRAW_APART)');
+  }
+  const url = config.port ? `http://localhost:${config.port}` : await listening;
   for (let i = 0; ; i++) {
     if (
       await fetch(`${url}/api/health`)
@@ -127,11 +146,7 @@ async function main(): Promise<void> {
     }
     await new Promise((r) => setTimeout(r, 200));
   }
-  if (drawing) {
-    drawing.start();
-    console.log('[start] stills, summaries, annotated clips and exports are drawn by a worker process beside the server (DRAW_APART)');
-  }
-  const lines = ['', `Trailframe is running at ${config.publicUrl}`];
+  const lines = ['', `Trailframe is running at ${config.port || process.env['PUBLIC_URL'] ? config.publicUrl : url}`];
   if (config.demoMode) {
     lines.push('', 'Demo sign-ins (invented people):');
     for (const s of DEMO_SIGN_INS) lines.push(`  ${s.role.padEnd(8)} ${s.email.padEnd(32)} ${s.password}`);
