@@ -6,6 +6,8 @@ import path from 'node:path';
 import { build } from 'esbuild';
 
 export const SERVER_BUNDLE = 'dist/server/main.mjs';
+/** The worker process's bundle (server/worker.ts): `npm start` runs it for the drawing kinds (`DRAW_APART`). */
+export const WORKER_BUNDLE = 'dist/server/worker.mjs';
 
 /**
  * Node's flags for the server process `npm start` runs (the upload-memory benchmark starts it the same way):
@@ -35,8 +37,12 @@ export const SERVER_ENV: Readonly<Record<string, string>> = { MALLOC_ARENA_MAX: 
  */
 export async function buildServer(root = '.', outdir = 'dist/server'): Promise<void> {
   await build({
-    // The picture worker runs in its own thread and is loaded from beside main.mjs.
-    entryPoints: { main: path.join(root, 'server/main.ts'), 'picture-worker': path.join(root, 'server/pictures/picture-worker.ts') },
+    // The picture worker runs in its own thread and is loaded from beside main.mjs (and worker.mjs).
+    entryPoints: {
+      main: path.join(root, 'server/main.ts'),
+      worker: path.join(root, 'server/worker.ts'),
+      'picture-worker': path.join(root, 'server/pictures/picture-worker.ts'),
+    },
     outdir,
     outExtension: { '.js': '.mjs' },
     bundle: true,

@@ -1,14 +1,18 @@
 /**
  * `npm start`: migrate, seed the demo once, build the app when its sources changed, serve app +
  * API on PORT (3000) from the server bundle, print the URL and the demo sign-ins. Runs after
- * scripts/bootstrap.mjs.
+ * scripts/bootstrap.mjs. With `DRAW_APART` (on unless set to false; SQLite) a worker process from
+ * the worker bundle draws stills, summaries, annotated clips and exports beside the server, so the
+ * web process never loads Skia or pdfkit; it is restarted when it exits unexpectedly and stopped
+ * with the server.
  */
-import { spawn, spawnSync } from 'node:child_process';
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { loadConfig } from '../server/config';
 import { createDb, dbTarget, migrate } from '../server/db/knex';
-import { buildServer, SERVER_BUNDLE, SERVER_ENV, SERVER_NODE_ARGS } from './build-server';
+import { drawsApart } from '../server/processing/drawing-kinds';
+import { buildServer, SERVER_BUNDLE, SERVER_ENV, SERVER_NODE_ARGS, WORKER_BUNDLE } from './build-server';
 import { DEMO_SIGN_INS, seed } from '../seeds/demo-scenario';
 
 const root = process.cwd();
@@ -40,7 +44,47 @@ function buildIfStale(clientDir: string): void {
   }
 }
 
+/** The drawing worker: started, restarted after an unexpected exit (sooner when it had run a while), stopped with the server. */
+function drawingWorker(): { start(): void; stop(): Promise<void> } {
+  let child: ChildProcess | null = null;
+  let stopping = false;
+  let retryMs = 1_000;
+  let retry: NodeJS.Timeout | undefined;
+  const start = () => {
+    const startedAt = Date.now();
+    const worker = spawn(process.execPath, [...SERVER_NODE_ARGS, WORKER_BUNDLE], {
+      stdio: 'inherit',
+      env: { ...SERVER_ENV, ...process.env, WORKER_KINDS: 'drawing' },
+    });
+    child = worker;
+    worker.on('exit', (code, signal) => {
+      if (child === worker) child = null;
+      if (stopping) return;
+      retryMs = Date.now() - startedAt > 60_000 ? 1_000 : Math.min(30_000, retryMs * 2);
+      console.error(`[start] the drawing worker exited (${signal ?? code}); starting it again in ${retryMs / 1000} s`);
+      retry = setTimeout(start, retryMs);
+    });
+  };
+  return {
+    start,
+    async stop() {
+      stopping = true;
+      clearTimeout(retry);
+      const worker = child;
+      if (!worker || worker.exitCode !== null || worker.signalCode !== null) return;
+      const exited = new Promise<void>((resolve) => worker.once('exit', () => resolve()));
+      worker.kill('SIGTERM');
+      // It hands running items back to the queue; after 10 s it is killed (their leases run out).
+      const killer = setTimeout(() => worker.kill('SIGKILL'), 10_000);
+      await exited;
+      clearTimeout(killer);
+    },
+  };
+}
+
 async function main(): Promise<void> {
+  // `npm start` leaves drawing to a worker process of its own unless told otherwise.
+  process.env['DRAW_APART'] ??= 'true';
   const config = loadConfig();
   const db = createDb(dbTarget(config));
   const applied = await migrate(db);
@@ -57,15 +101,37 @@ async function main(): Promise<void> {
 
   // The server runs as plain Node on the bundle (no TypeScript loader in memory).
   const server = spawn(process.execPath, [...SERVER_NODE_ARGS, SERVER_BUNDLE], {
-    stdio: 'inherit',
+    stdio: ['inherit', 'pipe', 'inherit'],
     env: { ...SERVER_ENV, ...process.env },
   });
+  // The server's own lines pass through; the one naming its address gives the port (PORT=0: any free port).
+  const listening = new Promise<string>((resolve) => {
+    let seen: string | null = '';
+    server.stdout.on('data', (chunk: Buffer) => {
+      process.stdout.write(chunk);
+      if (seen === null) return;
+      seen += chunk.toString();
+      const m = /listening on (http:\/\/\S+)/.exec(seen);
+      if (m) {
+        resolve(m[1]!);
+        seen = null;
+      }
+    });
+  });
+  const drawing = drawsApart(config) ? drawingWorker() : null;
   const stop = (signal: NodeJS.Signals) => server.kill(signal);
   process.on('SIGINT', stop);
   process.on('SIGTERM', stop);
-  server.on('exit', (code) => process.exit(code ?? 0));
+  server.on('exit', (code) => {
+    void (drawing?.stop() ?? Promise.resolve()).then(() => process.exit(code ?? 0));
+  });
 
-  const url = `http://localhost:${config.port}`;
+  // The drawing worker needs no HTTP server: it starts now, and items it draws wait queued until it runs.
+  if (drawing) {
+    drawing.start();
+    console.log('[start] stills, summaries, annotated clips and exports are drawn by a worker process beside the server (DRAW_APART)');
+  }
+  const url = config.port ? `http://localhost:${config.port}` : await listening;
   for (let i = 0; ; i++) {
     if (
       await fetch(`${url}/api/health`)
@@ -80,7 +146,7 @@ async function main(): Promise<void> {
     }
     await new Promise((r) => setTimeout(r, 200));
   }
-  const lines = ['', `Trailframe is running at ${config.publicUrl}`];
+  const lines = ['', `Trailframe is running at ${config.port || process.env['PUBLIC_URL'] ? config.publicUrl : url}`];
   if (config.demoMode) {
     lines.push('', 'Demo sign-ins (invented people):');
     for (const s of DEMO_SIGN_INS) lines.push(`  ${s.role.padEnd(8)} ${s.email.padEnd(32)} ${s.password}`);

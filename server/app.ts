@@ -29,6 +29,7 @@ import type { Processing } from './processing/processing';
 import { releaseDrawingMemory } from './render/fonts';
 import { startWorker, type Worker } from './processing/worker';
 import { processingEngine } from './processing/engine';
+import { inProcessKinds } from './processing/drawing-kinds';
 import { processingEventsRoutes } from './processing/processing-events.routes';
 import { createMediaServices, mediaStoreFor } from './services';
 import { warmUpFfmpeg } from './media/extract';
@@ -254,6 +255,8 @@ export function createApp(deps: AppDeps): App {
         concurrency: config.jobs.concurrency,
         pollMs: config.jobs.pollMs,
         leaseMs: config.jobs.leaseMs,
+        // With DRAW_APART the drawing kinds wait queued for the drawing worker (`npm start` runs it).
+        kinds: inProcessKinds(config),
         // The web process draws stills and summaries now and then: what the drawing held goes once the queue is done.
         onIdle: () =>
           void releaseDrawingMemory().catch((err: Error) => logger.warn({ err: err.message }, 'releasing drawing memory failed')),

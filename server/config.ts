@@ -67,6 +67,15 @@ export interface Config {
   };
   /** Whether the in-process worker runs in this process (off when workers run apart: `npm run worker`). */
   runWorker: boolean;
+  /**
+   * Whether stills, summaries, annotated clips and exports (the kinds that load Skia or pdfkit) are left
+   * to a worker process, so the web process never holds the drawing libraries: its own worker takes every
+   * other kind. `npm start` then runs that worker beside the server. SQLite only (on PostgreSQL every
+   * worker takes every kind). Off by default; `npm start` turns it on unless `DRAW_APART=false`.
+   */
+  drawApart: boolean;
+  /** The kinds a worker process (`npm run worker`) takes: `all`, or only the `drawing` ones (SQLite). */
+  workerKinds: 'all' | 'drawing';
   /** The payment provider, reached through its SDK; null when not configured (card payment off). */
   payments: PaymentsConfig | null;
   /** Port of the local fake payment service started in demo mode (0 = any free port); null = real provider. */
@@ -116,6 +125,8 @@ const EnvSchema = z.object({
   JOB_LEASE_SECONDS: z.coerce.number().min(1).default(30),
   JOB_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(10).default(3),
   RUN_WORKER: bool.default(true),
+  DRAW_APART: bool.default(false),
+  WORKER_KINDS: z.enum(['all', 'drawing']).default('all'),
   STRIPE_SECRET_KEY: z.string().min(1).optional(),
   STRIPE_WEBHOOK_SECRET: z.string().min(1).optional(),
   STRIPE_API_HOST: z.string().min(1).optional(),
@@ -187,6 +198,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
       pollMs: e.WORKER_POLL_MS,
     },
     runWorker: e.RUN_WORKER,
+    drawApart: e.DRAW_APART,
+    workerKinds: e.WORKER_KINDS,
     ...paymentsConfig(e),
     s3: s3Config(e),
   };

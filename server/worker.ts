@@ -20,6 +20,7 @@ import { createMediaServices } from './services';
 import { startWorker } from './processing/worker';
 import { releaseDrawingMemory } from './render/fonts';
 import { processingEngine } from './processing/engine';
+import { workerProcessKinds } from './processing/drawing-kinds';
 
 export interface WorkerProcess {
   stop(): Promise<void>;
@@ -50,9 +51,10 @@ export async function startWorkerProcess(config: Config = loadConfig()): Promise
     concurrency: config.jobs.concurrency,
     pollMs: config.jobs.pollMs,
     leaseMs: config.jobs.leaseMs,
+    kinds: workerProcessKinds(config),
     onIdle: () => void releaseDrawingMemory().catch((err: Error) => logger.warn({ err: err.message }, 'releasing drawing memory failed')),
   });
-  logger.info({ concurrency: config.jobs.concurrency, tag: processing.processTag }, 'worker started');
+  logger.info({ concurrency: config.jobs.concurrency, kinds: config.workerKinds, tag: processing.processTag }, 'worker started');
   return {
     async stop() {
       await worker.stop();

@@ -29,6 +29,15 @@ export interface ProcessedItemRow {
 
 const TABLE = 'processed_items';
 
+/** Which kinds a worker takes: only these, or every kind but these (none: every kind). */
+export type KindFilter = { only: readonly string[] } | { except: readonly string[] };
+
+/** Narrows a query to the kinds `filter` lets through. */
+function ofKinds(q: Knex.QueryBuilder, filter: KindFilter | undefined): Knex.QueryBuilder {
+  if (!filter) return q;
+  return 'only' in filter ? q.whereIn('kind', [...filter.only]) : filter.except.length ? q.whereNotIn('kind', [...filter.except]) : q;
+}
+
 /** Columns to change (a value, or SQL such as `progress_total`). */
 export type ItemPatch = { [K in keyof ProcessedItemRow]?: ProcessedItemRow[K] | Knex.Raw };
 
@@ -86,15 +95,25 @@ export const processedItemsRepository = {
   /**
    * Takes the next due item in one statement: the oldest queued one whose time has come, or a
    * running one whose lease ran out (its worker died). Running, one more attempt, leased to `by`.
-   * `dueBefore` (default `at`) holds queued items back that another way offers on time (pg-boss).
+   * `dueBefore` (default `at`) holds queued items back that another way offers on time (pg-boss);
+   * `kinds` leaves the other kinds' items, queued or stalled, to the workers that take them.
    */
-  async claimNext(db: Knex, opts: { at: string; leaseUntil: string; by: string; dueBefore?: string }): Promise<ProcessedItemRow | null> {
+  async claimNext(
+    db: Knex,
+    opts: { at: string; leaseUntil: string; by: string; dueBefore?: string; kinds?: KindFilter },
+  ): Promise<ProcessedItemRow | null> {
     const next = skipLocked(
       db,
-      db(TABLE)
-        .select('id')
-        .where((q) => q.where({ state: 'queued' }).andWhere('run_after', '<=', opts.dueBefore ?? opts.at))
-        .orWhere((q) => q.where({ state: 'running' }).andWhere('lease_until', '<', opts.at))
+      ofKinds(
+        db(TABLE)
+          .select('id')
+          .where((w) =>
+            w
+              .where((q) => q.where({ state: 'queued' }).andWhere('run_after', '<=', opts.dueBefore ?? opts.at))
+              .orWhere((q) => q.where({ state: 'running' }).andWhere('lease_until', '<', opts.at)),
+          ),
+        opts.kinds,
+      )
         .orderBy('id')
         .limit(1),
     );

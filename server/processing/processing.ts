@@ -4,7 +4,13 @@ import type { Knex } from 'knex';
 import type { ProcessingSubject } from '../../src/contracts/processing';
 import type { Db } from '../db/knex';
 import { interruptedReason, type ItemScope, type ProcessedItem, type ProcessingKind } from './processed-item';
-import { processedItemsRepository as repo, toItem, type ItemPatch, type ProcessedItemRow } from './processed-items-repository';
+import {
+  processedItemsRepository as repo,
+  toItem,
+  type ItemPatch,
+  type KindFilter,
+  type ProcessedItemRow,
+} from './processed-items-repository';
 import type { ProgressChannel, ProgressNotice } from './progress-channel';
 import type { ItemDispatch } from './item-dispatch';
 
@@ -54,8 +60,10 @@ export interface ProcessingQueue {
   /**
    * Claims the next due item (or one whose worker's lease ran out), or null. An item found with
    * no attempt left (its worker died in the last one) fails with its subject, and the search goes on.
+   * `filter` limits the claim to some kinds (the others wait queued for the workers that take them);
+   * with a dispatch (PostgreSQL) it is not applied: every worker there takes every kind.
    */
-  claim(): Promise<ProcessedItem | null>;
+  claim(filter?: KindFilter): Promise<ProcessedItem | null>;
   /** Extends the lease; false when the item is no longer ours (cancelled, or taken over). */
   heartbeat(item: ProcessedItem): Promise<boolean>;
   /** Records and publishes progress; false when the item is no longer ours. */
@@ -155,9 +163,9 @@ export function createProcessing(o: ProcessingOptions): Processing {
   };
 
   /** The next row to run: an offered one, else one due in the table (see {@link ProcessingOptions.dispatch}). */
-  async function nextRow(): Promise<ProcessedItemRow | null> {
+  async function nextRow(filter: KindFilter | undefined): Promise<ProcessedItemRow | null> {
     const lease = () => ({ at: now(), leaseUntil: later(o.leaseMs), by: processTag });
-    if (!dispatch) return repo.claimNext(db, lease());
+    if (!dispatch) return repo.claimNext(db, { ...lease(), ...(filter ? { kinds: filter } : {}) });
     await Promise.all(inFlight);
     for (;;) {
       const taken = await dispatch.take().catch(() => null);
@@ -178,9 +186,9 @@ export function createProcessing(o: ProcessingOptions): Processing {
   const offerAfterCommit = (trx: Knex, id: number, delayMs: number) => dispatch && afterCommit(trx, () => void offer(id, delayMs));
 
   const queue: ProcessingQueue = {
-    async claim() {
+    async claim(filter) {
       for (;;) {
-        const row = await nextRow();
+        const row = await nextRow(filter);
         if (!row) return null;
         const item = toItem(row);
         if (row.attempts <= row.max_attempts && kinds.has(row.kind)) {

@@ -2,6 +2,7 @@ import os from 'node:os';
 import type { Logger } from 'pino';
 import { NotReadyError, PermanentError, type ProcessedItem, type RunContext } from './processed-item';
 import type { Processing } from './processing';
+import type { KindFilter } from './processed-items-repository';
 
 /** Runs processed items: in the web process (`npm start`) or in its own (`npm run worker`, server/worker.ts). */
 export interface Worker {
@@ -26,6 +27,8 @@ export interface WorkerOptions {
   cores?: number;
   /** Least time between two progress writes of one item, ms (default 200). */
   progressEveryMs?: number;
+  /** The kinds this worker takes (default: every kind); items of other kinds wait queued for other workers (SQLite). */
+  kinds?: KindFilter | undefined;
   /** Called when the worker falls idle after running items (nothing running, nothing due): memory a burst of work held can go. */
   onIdle?: () => void;
 }
@@ -155,7 +158,7 @@ export function startWorker(o: WorkerOptions): Worker {
       do {
         again = false;
         while (!stopped && running.size < o.concurrency) {
-          const item = await queue.claim();
+          const item = await queue.claim(o.kinds);
           if (!item) break;
           busy = true;
           const controller = new AbortController();

@@ -9,9 +9,12 @@
  * `--compare` runs the same on a second server started as `npm start` did before (only
  * `--enable-source-maps`, the allocator's defaults), side by side in one run.
  * `--no-demo-clips` seeds the demo without its clips: a server that has drawn nothing yet.
- * Run: npx tsx test/bench/upload-rss.ts [sizeMB] [--compare] [--no-demo-clips]
+ * As `npm start` (`DRAW_APART` on), a drawing worker process runs beside the server and draws the
+ * stills and summary; the figures are the web process's (the worker's peak is printed beside them).
+ * `--compare-in-process` adds a server that draws in its own worker (`DRAW_APART=false`), side by side.
+ * Run: npx tsx test/bench/upload-rss.ts [sizeMB] [--compare] [--compare-in-process] [--no-demo-clips]
  */
-import { spawn } from 'node:child_process';
+import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import http from 'node:http';
 import net from 'node:net';
@@ -19,11 +22,12 @@ import os from 'node:os';
 import path from 'node:path';
 import { createDb, migrate } from '../../server/db/knex';
 import { DEMO_SIGN_INS, seed } from '../../seeds/demo-scenario';
-import { buildServer, SERVER_BUNDLE, SERVER_ENV, SERVER_NODE_ARGS } from '../../scripts/build-server';
+import { buildServer, SERVER_BUNDLE, SERVER_ENV, SERVER_NODE_ARGS, WORKER_BUNDLE } from '../../scripts/build-server';
 import { cpuSeconds } from './support/bench-server';
 
 const sizeMb = Number(process.argv.slice(2).find((a) => /^\d+$/.test(a)) ?? 1024);
 const compare = process.argv.includes('--compare');
+const compareInProcess = process.argv.includes('--compare-in-process');
 const root = fs.mkdtempSync(path.join(os.tmpdir(), 'tf-bench-rss-'));
 const [, coach] = DEMO_SIGN_INS;
 
@@ -46,11 +50,20 @@ await buildServer();
 interface Measured {
   startupPeakKb: number;
   idleKb: number;
+  /** The drawing worker's peak RSS (null: the server drew in its own process). */
+  workerPeakKb: number | null;
   paths: [string, { status: number; peakKb: number; cpu: number; seconds: number }][];
 }
 
-/** Starts the bundled server with `nodeArgs` and `env` on a copy of the seeded install and measures both upload paths. */
-async function measureServer(nodeArgs: readonly string[], extraEnv: Readonly<Record<string, string>>): Promise<Measured> {
+/**
+ * Starts the bundled server with `nodeArgs` and `env` on a copy of the seeded install (with `drawApart`, and a drawing
+ * worker process beside it, as `npm start` runs them) and measures both upload paths.
+ */
+async function measureServer(
+  nodeArgs: readonly string[],
+  extraEnv: Readonly<Record<string, string>>,
+  drawApart = false,
+): Promise<Measured> {
   const dir = fs.mkdtempSync(path.join(root, 'run-'));
   fs.cpSync(template, dir, { recursive: true });
   const port = await new Promise<number>((resolve) => {
@@ -59,21 +72,26 @@ async function measureServer(nodeArgs: readonly string[], extraEnv: Readonly<Rec
       s.close(() => resolve(p));
     });
   });
-  const server = spawn(process.execPath, [...nodeArgs, SERVER_BUNDLE], {
-    stdio: 'inherit',
-    env: {
-      ...extraEnv,
-      ...process.env,
-      PORT: String(port),
-      DB_FILE: path.join(dir, 'db.sqlite'),
-      UPLOADS_DIR: path.join(dir, 'uploads'),
-      CLIENT_DIR: '',
-      FAKE_SMTP_PORT: '0',
-      DEMO_INBOX_PORT: '0',
-      FAKE_PAYMENTS_PORT: '0',
-      LOG_LEVEL: 'warn',
-    },
-  });
+  const env = {
+    ...extraEnv,
+    ...process.env,
+    PORT: String(port),
+    DB_FILE: path.join(dir, 'db.sqlite'),
+    UPLOADS_DIR: path.join(dir, 'uploads'),
+    CLIENT_DIR: '',
+    FAKE_SMTP_PORT: '0',
+    DEMO_INBOX_PORT: '0',
+    FAKE_PAYMENTS_PORT: '0',
+    LOG_LEVEL: 'warn',
+    DRAW_APART: String(drawApart),
+  };
+  const server = spawn(process.execPath, [...nodeArgs, SERVER_BUNDLE], { stdio: 'inherit', env });
+  const worker: ChildProcess | null = drawApart
+    ? spawn(process.execPath, [...nodeArgs, WORKER_BUNDLE], {
+        stdio: ['ignore', 'ignore', 'inherit'],
+        env: { ...env, WORKER_KINDS: 'drawing' },
+      })
+    : null;
   const base = `http://127.0.0.1:${port}`;
   try {
     for (let i = 0; ; i++) {
@@ -95,6 +113,7 @@ async function measureServer(nodeArgs: readonly string[], extraEnv: Readonly<Rec
       await new Promise((r) => setTimeout(r, 200));
     }
     const startupPeakKb = rssKb(server.pid!, 'VmHWM');
+    const workerPeakKb = worker ? rssKb(worker.pid!, 'VmHWM') : null;
     await watch.destroy();
     await new Promise((r) => setTimeout(r, 2000));
     // Sign in (session + CSRF cookies by hand).
@@ -203,12 +222,17 @@ async function measureServer(nodeArgs: readonly string[], extraEnv: Readonly<Rec
     return {
       startupPeakKb,
       idleKb: idle,
+      workerPeakKb,
       paths: [
         ['resumable (tus PATCH)', tus],
         ['one request (multipart)', multipart],
       ],
     };
   } finally {
+    if (worker) {
+      worker.kill('SIGTERM');
+      await new Promise((r) => worker.once('exit', r));
+    }
     server.kill('SIGTERM');
     await new Promise((r) => server.once('exit', r));
     fs.rmSync(dir, { recursive: true, force: true });
@@ -218,14 +242,16 @@ async function measureServer(nodeArgs: readonly string[], extraEnv: Readonly<Rec
 const mb = (kb: number) => `${(kb / 1024).toFixed(1)} MB`;
 const runs: [string, Measured][] = [];
 try {
-  runs.push(['npm start', await measureServer(SERVER_NODE_ARGS, SERVER_ENV)]);
+  runs.push(['npm start (drawing apart)', await measureServer(SERVER_NODE_ARGS, SERVER_ENV, true)]);
+  if (compareInProcess) runs.push(['drawing in the web process (DRAW_APART=false)', await measureServer(SERVER_NODE_ARGS, SERVER_ENV)]);
   if (compare) runs.push(['before (only --enable-source-maps, allocator defaults)', await measureServer(['--enable-source-maps'], {})]);
 } finally {
   fs.rmSync(root, { recursive: true, force: true });
 }
 for (const [label, r] of runs) {
   console.log(
-    `[${label}] server RSS during the start-up work (demo frames, stills, summary): peak ${mb(r.startupPeakKb)}; idle after it: ${mb(r.idleKb)}`,
+    `[${label}] server RSS during the start-up work (demo frames, stills, summary): peak ${mb(r.startupPeakKb)}; idle after it: ${mb(r.idleKb)}` +
+      (r.workerPeakKb !== null ? `; the drawing worker's peak: ${mb(r.workerPeakKb)}` : ''),
   );
   for (const [name, p] of r.paths)
     console.log(
@@ -234,6 +260,12 @@ for (const [label, r] of runs) {
         `peak RSS ${mb(p.peakKb)} (+${mb(p.peakKb - r.idleKb)} over idle; target ≤ 150 MB: ${p.peakKb / 1024 <= 150 ? 'met' : 'NOT met'}; peak/target ${(p.peakKb / 1024 / 150).toFixed(2)})`,
     );
 }
+console.log(
+  `load ${os
+    .loadavg()
+    .map((l) => l.toFixed(1))
+    .join(' ')}`,
+);
 if (runs.length === 2) {
   const [[, now], [, before]] = runs as [[string, Measured], [string, Measured]];
   for (let i = 0; i < now.paths.length; i++) {

@@ -56,6 +56,8 @@ export interface ServerProcess {
   /** SIGKILL to the whole process group (the server and its ffmpeg). */
   killHard(): void;
   readonly url: string;
+  /** The server's process id (null before start). */
+  readonly pid: number | null;
 }
 
 export function serverProcess(dir: string, port: number, env: Record<string, string> = {}): ServerProcess {
@@ -63,6 +65,9 @@ export function serverProcess(dir: string, port: number, env: Record<string, str
   const url = `http://127.0.0.1:${port}`;
   return {
     url,
+    get pid() {
+      return child?.pid ?? null;
+    },
     async start() {
       child = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], {
         detached: true,

@@ -565,3 +565,36 @@ describe('reading and listening', () => {
     expect(r.run_after >= before && r.run_after <= after).toBe(true);
   });
 });
+
+describe('claims limited to kinds (a drawing worker apart)', () => {
+  it('a worker limited to kinds never takes, nor fails, the others: queued or with a lease run out, they wait for their own worker', async () => {
+    const rec = fresh();
+    const web = processOf(rec);
+    web.register(recordingKind(rec, 'test_draw'));
+    const drawer = processOf(fresh(), { kinds: false });
+    drawer.register(recordingKind(fresh()));
+    drawer.register(recordingKind(fresh(), 'test_draw'));
+    const draw = await web.enqueue(db, 'test_draw', 150, SCOPE);
+    const other = await web.enqueue(db, 'test_render', 151, SCOPE);
+
+    // The web worker takes every kind but the drawing one; the drawing item stays queued, untouched.
+    const noDrawing = { except: ['test_draw'] };
+    const taken = await web.queue.claim(noDrawing);
+    expect(taken?.id).toBe(other);
+    expect(await web.queue.claim(noDrawing)).toBeNull();
+    expect(await web.queue.complete(taken!, 'done')).toBe(true);
+    expect(await row(draw)).toMatchObject({ state: 'queued', attempts: 0, error: null, claimed_by: null });
+
+    // The drawing worker takes only its kind; its item's lease runs out (the process died).
+    const onlyDrawing = { only: ['test_draw'] };
+    expect((await drawer.queue.claim(onlyDrawing))?.id).toBe(draw);
+    clockMs += LEASE_MS + 1;
+    // Not taken over by the web worker (which could not draw it), but by the next drawing worker.
+    expect(await web.queue.claim(noDrawing)).toBeNull();
+    expect(await row(draw)).toMatchObject({ state: 'running', attempts: 1, claimed_by: drawer.processTag });
+    const next = processOf(fresh(), { kinds: false });
+    next.register(recordingKind(fresh(), 'test_draw'));
+    expect(await next.queue.claim(onlyDrawing)).toMatchObject({ id: draw, attempts: 2 });
+    expect(await row(draw)).toMatchObject({ state: 'running', claimed_by: next.processTag });
+  });
+});
