@@ -1,5 +1,6 @@
 import type { Config } from '../config';
 import { RENDER_ANNOTATED_CLIP } from '../annotated-clips/render-annotated-clip-kind';
+import { FOLLOW_MARKERS } from '../follow/follow-kind';
 import { EXPORT_ATHLETE_DATA } from '../privacy/export-kind';
 import { RENDER_STILL } from '../stills/render-still-kind';
 import { RENDER_SUMMARY } from '../summaries/render-summary-kind';
@@ -8,9 +9,10 @@ import type { KindFilter } from './processed-items-repository';
 /**
  * The kinds that draw: they load Skia (@napi-rs/canvas) or pdfkit (server/render), whose code and
  * caches stay in a process once it has drawn. Stills, visit summaries, annotated clips, and data
- * exports (they print receipts).
+ * exports (they print receipts); with them marker following, whose OpenCV WebAssembly build keeps
+ * its module and heap in a process once loaded.
  */
-export const DRAWING_KINDS: readonly string[] = [RENDER_STILL, RENDER_SUMMARY, RENDER_ANNOTATED_CLIP, EXPORT_ATHLETE_DATA];
+export const DRAWING_KINDS: readonly string[] = [RENDER_STILL, RENDER_SUMMARY, RENDER_ANNOTATED_CLIP, EXPORT_ATHLETE_DATA, FOLLOW_MARKERS];
 
 /**
  * The kinds the web process's own worker takes: every kind but the drawing ones when `DRAW_APART`
