@@ -132,9 +132,9 @@ export function startWorker(o: WorkerOptions): Worker {
         return;
       }
       if (err instanceof NotReadyError) {
-        // Waiting on other work (a clip's frames): back to the queue, the attempt unused.
+        // Waiting on other work (a clip's frames): back to the queue, the attempt unused (logged at debug: it repeats until then).
         await queue.release(item, err.retryInMs);
-        logger.info({ itemId: item.id, kind: item.kind, err: message }, 'processing waits');
+        logger.debug({ itemId: item.id, kind: item.kind, err: message }, 'processing waits');
         return;
       }
       const outcome = await queue.fail(item, message, {
