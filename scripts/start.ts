@@ -129,7 +129,9 @@ async function main(): Promise<void> {
   // The drawing worker needs no HTTP server: it starts now, and items it draws wait queued until it runs.
   if (drawing) {
     drawing.start();
-    console.log('[start] stills, summaries, annotated clips and exports are drawn by a worker process beside the server (DRAW_APART)');
+    console.log(
+      '[start] stills, summaries, annotated clips, exports and marker following run in a worker process beside the server (DRAW_APART)',
+    );
   }
   const url = config.port ? `http://localhost:${config.port}` : await listening;
   for (let i = 0; ; i++) {
