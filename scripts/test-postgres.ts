@@ -2,10 +2,9 @@
  * The server suite on PostgreSQL: starts a private server (Debian's binaries, data folder
  * `.tmp/postgres`, a free local port; see `postgres-server.ts`), runs vitest's server suite with
  * `DATABASE_URL` pointing at it (each test file then gets databases of its own: test/support/test-db.ts),
- * and stops the server. With `TEST_S3=1` media is in the object-storage fake: one s3rver (files under
- * `.tmp/s3rver`) whose endpoint goes to vitest as `TEST_S3_ENDPOINT`; every test app makes a bucket of
- * its own there (test/support/test-app.ts). Not yet the default: data-export.test.ts and access.test.ts
- * do not pass that way yet. Extra arguments go to vitest (a file, `-t name`, reporters).
+ * and stops the server. Media is in the object-storage fake: one s3rver (files under `.tmp/s3rver`)
+ * whose endpoint goes to vitest as `TEST_S3_ENDPOINT`; every test app makes a bucket of its own there
+ * (test/support/test-app.ts). `TEST_S3=0` keeps media in local folders.
  *
  *   npx tsx scripts/test-postgres.ts [vitest args…]
  */
@@ -20,7 +19,7 @@ console.log(`[test-postgres] PostgreSQL on 127.0.0.1:${server.port}`);
 let s3: S3rverProcess | null = null;
 let code = 1;
 try {
-  if (process.env['TEST_S3'] === '1') {
+  if (process.env['TEST_S3'] !== '0') {
     const s3Dir = path.resolve('.tmp/s3rver');
     fs.rmSync(s3Dir, { recursive: true, force: true });
     fs.mkdirSync(s3Dir, { recursive: true });
