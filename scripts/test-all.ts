@@ -37,7 +37,7 @@ const STEPS: Step[] = [
     cmd: ['npx', 'vitest', 'run', '--config', 'vitest.server.config.ts'],
     vitest: true,
     jsonReport: vitestJson,
-    env: { DATABASE_URL: '' },
+    env: { DATABASE_URL: '', TEST_S3_ENDPOINT: '' },
   },
   // The same suite on a private PostgreSQL server (DATABASE_URL set; scripts/test-postgres.ts).
   { name: 'server tests (PostgreSQL)', cmd: ['npx', 'tsx', 'scripts/test-postgres.ts'], vitest: true, jsonReport: vitestJson },

@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { Readable } from 'node:stream';
+import { PassThrough, Readable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
 import { createRequire } from 'node:module';
 import type * as ClientS3 from '@aws-sdk/client-s3';
@@ -50,6 +50,21 @@ export async function sweepStaleTempFolders(tempRoot: string, now = Date.now(), 
   return removed;
 }
 
+/**
+ * The body as lib-storage takes it: it accepts only Node's own `Readable` (checked with `instanceof`)
+ * and throws at once on a stream of another stream library (archiver's zip is one), which then never
+ * drains and its writer waits forever. Such a stream is piped through a Node `PassThrough`.
+ */
+function nodeReadable(body: Readable | Buffer | string): Readable | Buffer | string {
+  if (typeof body === 'string' || Buffer.isBuffer(body) || body instanceof Readable) return body;
+  const through = new PassThrough();
+  (body as NodeJS.ReadableStream & { on(event: 'error', fn: (err: Error) => void): unknown }).on('error', (err: Error) =>
+    through.destroy(err),
+  );
+  (body as NodeJS.ReadableStream).pipe(through);
+  return through;
+}
+
 function checkKey(key: string, prefix = false): string {
   const body = prefix ? key.replace(/\/$/, '') : key;
   if ((prefix && !key.endsWith('/')) || !body || !body.split('/').every((p) => KEY_PART.test(p))) {
@@ -89,7 +104,12 @@ export function s3MediaStore(o: S3StoreOptions, clientConfig: Partial<S3ClientCo
   const tempRoot = o.tempDir ?? os.tmpdir();
 
   async function upload(key: string, body: Readable | Buffer | string): Promise<void> {
-    await new Upload({ client, params: { Bucket, Key: checkKey(key), Body: body }, partSize: 8 * 1024 * 1024, queueSize: 2 }).done();
+    await new Upload({
+      client,
+      params: { Bucket, Key: checkKey(key), Body: nodeReadable(body) },
+      partSize: 8 * 1024 * 1024,
+      queueSize: 2,
+    }).done();
   }
 
   async function keysUnder(prefix: string): Promise<string[]> {

@@ -24,7 +24,6 @@ import { oneStagePlan } from '../support/plans';
 import type { Action } from '../../server/policy/access-table';
 import { decide, decideRole, type Actor, type Owner, type ResourceState } from '../../server/policy/decide';
 import { Jimp } from 'jimp';
-import { localMediaStore } from '../../server/storage/local-media-store';
 import { clinicLogoKey, demoClipKeys, demoPictureKey, exportKey } from '../../server/storage/media-keys';
 import { markedJpeg } from '../support/pictures';
 
@@ -1641,9 +1640,11 @@ describe('after erasing the self athlete', () => {
     expect(receipt.status).toBe(200);
   });
 
-  it('the uploads folder holds no file of the athlete', async () => {
+  it('the uploads folder and the media store hold no file of the athlete', async () => {
     const fs = await import('node:fs');
-    const files = (fs.readdirSync(t.config.uploadsDir, { recursive: true }) as string[]).map((f) => f.split('\\').join('/'));
+    const local = (fs.readdirSync(t.config.uploadsDir, { recursive: true }) as string[]).map((f) => f.split('\\').join('/'));
+    // Partial uploads stay in the local folder; media is in the app's store (the same folder, or a bucket).
+    const files = [...new Set([...local, ...(await t.mediaKeys())])];
     expect(files.length).toBeGreaterThan(0);
     expect(files.filter((f) => prefixes.some((p) => `${f}/`.startsWith(p)))).toEqual([]);
     expect(partialUpload).toBe(true);
@@ -1802,7 +1803,7 @@ async function storedPicture(exerciseId: number): Promise<number> {
     })
     .returning('id');
   const id = (row as { id: number }).id;
-  const objects = localMediaStore(t.config.uploadsDir);
+  const objects = t.store;
   const jpeg = await markedJpeg(8, 8, 2);
   await objects.put(demoPictureKey(exerciseId, id, 'full'), jpeg);
   await objects.put(demoPictureKey(exerciseId, id, 'thumb'), jpeg);
@@ -1832,7 +1833,7 @@ async function storedClip(exerciseId: number): Promise<number> {
     })
     .returning('id');
   const id = (row as { id: number }).id;
-  const store = localMediaStore(t.config.uploadsDir);
+  const store = t.store;
   const keys = demoClipKeys(exerciseId, id);
   await store.put(keys.video(1), Buffer.from('walk video'));
   await store.put(keys.poster(1), await markedJpeg(8, 8, 2));
@@ -1864,7 +1865,7 @@ async function demoFixtures(): Promise<void> {
   dc.unplannedClipId = await storedClip(dc.unplannedExerciseId);
   dc.foreignClipId = await storedClip(dc.foreignExerciseId);
   // Both clinics have a logo for GET /api/clinic/logo.png.
-  const objects = localMediaStore(t.config.uploadsDir);
+  const objects = t.store;
   for (const clinicId of await t.db('clinics').pluck('id')) {
     await objects.put(clinicLogoKey(clinicId, 1), await new Jimp({ width: 4, height: 2, color: 0x00000000 }).getBuffer('image/png'));
     await t.db('clinics').where({ id: clinicId }).update({ logo_version: 1, logo_width: 4, logo_height: 2 });
@@ -2044,5 +2045,5 @@ async function privacyFixtures(): Promise<void> {
     })
     .returning('id');
   xc.exportId = (row as { id: number }).id;
-  await localMediaStore(t.config.uploadsDir).put(exportKey(ctx.selfAthleteId, xc.exportId), Buffer.from('PK\x05\x06'));
+  await t.store.put(exportKey(ctx.selfAthleteId, xc.exportId), Buffer.from('PK\x05\x06'));
 }

@@ -9,7 +9,7 @@
 import path from 'node:path';
 import fs from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { makeTestApp, OTHER, signedIn, type Client, type TestApp } from '../support/test-app';
+import { makeTestApp, OTHER, signedIn, storedNames, type Client, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { ffprobeCounted, makeClip, tempDir } from './media/fixtures';
 import { generateRunnerClip, type GroundTruth } from '../../scripts/demo-clip/clip';
@@ -272,14 +272,19 @@ describe('side by side from the comparison', () => {
   }, 120_000);
 });
 
+/** The stored videos of annotated clip `id` of clip `clipId` (in the app's store, local or bucket). */
+async function annotatedVideos(clipId: number, id: number): Promise<string[]> {
+  return (await storedNames(t.store, `clips/${clipId}/annotated/`)).filter((f) => f.startsWith(`${id}-`));
+}
+
 describe('delete', () => {
   it('removes the row and the video; the id answers 404 afterwards', async () => {
     const res = await c.post(`/api/clips/${retestClipId}/annotated-clips`, { fromFrame: 0, toFrame: 9, factor: 1, caption: '' });
     const made = await settled(res.body.id);
-    const folder = path.join(t.config.uploadsDir, 'clips', String(retestClipId), 'annotated');
-    expect(fs.readdirSync(folder).filter((f) => f.startsWith(`${made.id}-`))).toHaveLength(1);
+    const videos = () => annotatedVideos(retestClipId, made.id);
+    expect(await videos()).toHaveLength(1);
     expect((await c.delete(`/api/annotated-clips/${made.id}`)).status).toBe(204);
-    expect(fs.readdirSync(folder).filter((f) => f.startsWith(`${made.id}-`))).toHaveLength(0);
+    expect(await videos()).toHaveLength(0);
     expect((await c.get(`/api/annotated-clips/${made.id}`)).status).toBe(404);
   }, 60_000);
 });
@@ -314,9 +319,9 @@ describe('a side-by-side clip whose Baseline clip is deleted', () => {
     expect((await c.post(`/api/annotated-clips/${made.id}/unpublish`, {})).status).toBe(200);
     const pub = await c.post(`/api/annotated-clips/${made.id}/publish`, {});
     expect(pub.status).toBe(409);
-    const folder = path.join(t.config.uploadsDir, 'clips', String(retestClipId), 'annotated');
-    expect(fs.readdirSync(folder).filter((f) => f.startsWith(`${made.id}-`))).toHaveLength(1);
+    const videos = () => annotatedVideos(retestClipId, made.id);
+    expect(await videos()).toHaveLength(1);
     expect((await c.delete(`/api/annotated-clips/${made.id}`)).status).toBe(204);
-    expect(fs.readdirSync(folder).filter((f) => f.startsWith(`${made.id}-`))).toHaveLength(0);
+    expect(await videos()).toHaveLength(0);
   }, 120_000);
 });

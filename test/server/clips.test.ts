@@ -6,7 +6,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { makeTestApp, OTHER, signedIn, type Client, type TestApp } from '../support/test-app';
+import { makeTestApp, OTHER, signedIn, storedNames, type Client, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { ffmpegRun, ffprobeCounted, makeClip, tempDir } from './media/fixtures';
 
@@ -55,10 +55,11 @@ async function ready(): Promise<void> {
   await t.worker!.idle();
 }
 
-function leftovers(): { tmp: string[]; clipDirs: string[] } {
+/** Upload temp files (always local) and the clips with stored media (in the app's store, local or bucket). */
+async function leftovers(): Promise<{ tmp: string[]; clipDirs: string[] }> {
   return {
     tmp: fs.readdirSync(path.join(t.config.uploadsDir, 'tmp')),
-    clipDirs: fs.readdirSync(path.join(t.config.uploadsDir, 'clips')),
+    clipDirs: await storedNames(t.store, 'clips/'),
   };
 }
 
@@ -147,8 +148,8 @@ describe('upload and processing', () => {
       error: null,
     });
     expect(clip.thumbCount).toBeGreaterThan(0);
-    expect(fs.existsSync(path.join(t.config.uploadsDir, 'clips', String(clipId), 'original.mp4'))).toBe(true);
-    expect(leftovers().tmp).toEqual([]);
+    expect(await t.store.stat(`clips/${clipId}/original.mp4`)).not.toBeNull();
+    expect((await leftovers()).tmp).toEqual([]);
   });
 
   it('serves frames, thumbnails, poster and manifest privately, and audits the first view', async () => {
@@ -195,7 +196,7 @@ describe('upload and processing', () => {
     await ready();
     expect((await a.delete(`/api/clips/${clipId}`)).status).toBe(403);
     expect((await a.delete(`/api/clips/${res.body.id}`)).status).toBe(204);
-    expect(fs.existsSync(path.join(t.config.uploadsDir, 'clips', String(res.body.id)))).toBe(false);
+    expect(await t.store.list(`clips/${res.body.id}/`)).toEqual([]);
   });
 
   it('deleting a clip removes its rows and every file', async () => {
@@ -204,7 +205,7 @@ describe('upload and processing', () => {
     const id = res.body.id as number;
     expect((await c.delete(`/api/clips/${id}`)).status).toBe(204);
     expect(await t.db('clips').where({ id })).toHaveLength(0);
-    expect(fs.existsSync(path.join(t.config.uploadsDir, 'clips', String(id)))).toBe(false);
+    expect(await t.store.list(`clips/${id}/`)).toEqual([]);
     expect((await c.get(`/api/clips/${id}`)).status).toBe(404);
   });
 });
@@ -212,14 +213,14 @@ describe('upload and processing', () => {
 describe('bad uploads: a clear 4xx, no file and no row left', () => {
   async function refused(file: string, name: string, status: number, code?: string) {
     const before = (await t.db('clips').count({ n: '*' }))[0]!.n;
-    const dirsBefore = leftovers().clipDirs.length;
+    const dirsBefore = (await leftovers()).clipDirs.length;
     const res = await upload(c, assessmentId, file, name);
     expect(res.status, JSON.stringify(res.body)).toBe(status);
     if (code) expect(res.body.error.code).toBe(code);
     expect(res.body.error.message.length).toBeGreaterThan(10);
     expect((await t.db('clips').count({ n: '*' }))[0]!.n).toBe(before);
-    expect(leftovers().tmp).toEqual([]);
-    expect(leftovers().clipDirs.length).toBe(dirsBefore);
+    expect((await leftovers()).tmp).toEqual([]);
+    expect((await leftovers()).clipDirs.length).toBe(dirsBefore);
     return res;
   }
 
@@ -259,7 +260,7 @@ describe('bad uploads: a clear 4xx, no file and no row left', () => {
     expect(res.status).toBe(201);
     expect(res.body.originalName).toBe('passwd.mp4');
     await ready();
-    expect(fs.readdirSync(path.join(t.config.uploadsDir, 'clips', String(res.body.id)))).toContain('original.mp4');
+    expect(await storedNames(t.store, `clips/${res.body.id}/`)).toContain('original.mp4');
     await c.delete(`/api/clips/${res.body.id}`);
   });
 
@@ -271,7 +272,7 @@ describe('bad uploads: a clear 4xx, no file and no row left', () => {
       .attach('file', good)
       .attach('file', good);
     expect(res.status).toBe(422);
-    expect(leftovers().tmp).toEqual([]);
+    expect((await leftovers()).tmp).toEqual([]);
   });
 
   it('no file at all → 422', async () => {
@@ -294,7 +295,7 @@ describe('bad uploads: a clear 4xx, no file and no row left', () => {
     const res = await upload(c, created.body.id, good);
     expect(res.status).toBe(409);
     expect(res.body.error.code).toBe('consent_required');
-    expect(leftovers().tmp).toEqual([]);
+    expect((await leftovers()).tmp).toEqual([]);
   });
 
   it('a file over the limit → 413', async () => {
@@ -335,7 +336,7 @@ describe('bad uploads: a clear 4xx, no file and no row left', () => {
     const clip = (await c.get(`/api/clips/${res.body.id}`)).body;
     expect(clip.status).toBe('failed');
     expect(clip.error).toMatch(/damaged/);
-    expect(fs.readdirSync(path.join(t.config.uploadsDir, 'clips', String(res.body.id)))).toEqual(['original.mp4']);
+    expect(await storedNames(t.store, `clips/${res.body.id}/`)).toEqual(['original.mp4']);
     const retried = await c.post(`/api/clips/${res.body.id}/retry`);
     expect(retried.status).toBe(202);
     expect(retried.body.status).toBe('queued');

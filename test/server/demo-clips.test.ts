@@ -59,7 +59,7 @@ function topLevelBoxes(bytes: Buffer): string[] {
   return types;
 }
 
-const storedFiles = () => storedExerciseFiles(t.config.uploadsDir);
+const storedFiles = () => storedExerciseFiles(t.store);
 
 /** Upload temp files still on disk. */
 function uploadTemps(): string[] {
@@ -159,7 +159,7 @@ describe('demonstration clip', () => {
     const ready = ((await c.get(`/api/exercises/${spare}/demonstrations`)).body as ExerciseDemonstrations).clip!;
     expect([ready.width, ready.height]).toEqual([576, 1280]); // 720 × 1280/1600 = 576 [calc]
     expect((await c.delete(`/api/demo-clips/${ready.id}`)).status).toBe(204);
-    expect(storedFiles().filter((f) => f.includes(`clip-${ready.id}`))).toEqual([]);
+    expect((await storedFiles()).filter((f) => f.includes(`clip-${ready.id}`))).toEqual([]);
   }, 90_000);
 
   it('one clip per exercise: a second is refused 409 before its body is read', async () => {
@@ -171,25 +171,25 @@ describe('demonstration clip', () => {
   it('a clip over 30 s is refused 422 clip_too_long, leaving no row, no file and no temp file', async () => {
     const long = path.join(work.dir, 'long.mp4');
     await makeClip(long, { width: 160, height: 120, fps: 5, seconds: 31 });
-    const before = storedFiles();
+    const before = await storedFiles();
     const res = await upload(c, unplanned, long);
     expect(res.status).toBe(422);
     expect(res.body.error.code).toBe('clip_too_long');
     expect(res.body.error.message).toMatch(/31 s long; a demonstration clip is at most 30 s/);
     expect(await t.db('demo_clips').where({ exercise_id: unplanned }).first()).toBeUndefined();
-    expect(storedFiles()).toEqual(before);
+    expect(await storedFiles()).toEqual(before);
     expect(uploadTemps()).toEqual([]);
   }, 60_000);
 
   it('a text file named .mp4 is refused 422 not_video, leaving nothing', async () => {
     const fake = path.join(work.dir, 'notes.mp4');
     fs.writeFileSync(fake, 'These are my notes, not a video.\n'.repeat(50));
-    const before = storedFiles();
+    const before = await storedFiles();
     const res = await upload(c, unplanned, fake);
     expect(res.status).toBe(422);
     expect(res.body.error.code).toBe('not_video');
     expect(await t.db('demo_clips').where({ exercise_id: unplanned }).first()).toBeUndefined();
-    expect(storedFiles()).toEqual(before);
+    expect(await storedFiles()).toEqual(before);
   });
 
   it('who sees it: the athlete not for an exercise on no plan of theirs, another clinic never (404); captions and place by staff', async () => {

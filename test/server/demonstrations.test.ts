@@ -33,7 +33,7 @@ const binary = (client: Client, url: string) => client.binary(url);
 
 const upload = (client: Client, exerciseId: number, file: Buffer, name = 'photo.jpg', caption?: string) =>
   uploadFile(client, `/api/exercises/${exerciseId}/demo-pictures`, file, name, caption);
-const storedFiles = () => storedExerciseFiles(t.config.uploadsDir);
+const storedFiles = () => storedExerciseFiles(t.store);
 
 beforeAll(async () => {
   t = await makeTestApp({}, { fakeSmtp: true, fakePayments: true });
@@ -55,7 +55,7 @@ describe('demonstration pictures', () => {
   let first: DemoPicture;
 
   it('a coach adds a phone photo (EXIF orientation 6, GPS): 201, upright, long side within 1600, thumbnail 400, no metadata left', async () => {
-    const before = storedFiles().length;
+    const before = (await storedFiles()).length;
     const photo = withExif(await markedJpeg(2000, 1500), 6);
     const res = await upload(c, planned, photo, 'IMG_0001.JPG', 'Start: heels over the edge');
     expect(res.status, JSON.stringify(res.body)).toBe(201);
@@ -73,7 +73,7 @@ describe('demonstration pictures', () => {
     for (const bytes of [full, thumb]) {
       expect(await exifr.parse(bytes, { tiff: true, gps: true, xmp: true, iptc: true, mergeOutput: false })).toBeUndefined();
     }
-    expect(storedFiles().length).toBe(before + 2);
+    expect((await storedFiles()).length).toBe(before + 2);
   }, 90_000);
 
   it('keeps the order and the captions; a picture moves to another place', async () => {
@@ -112,12 +112,12 @@ describe('demonstration pictures', () => {
     ['an SVG', async () => Buffer.from('<svg xmlns="http://www.w3.org/2000/svg"><script>x()</script></svg>'), 422, 'svg_refused'],
   ])('%s is refused with a clear 4xx and leaves no row and no file', async (_what, make, status, code) => {
     const rows = await t.db('demo_pictures').count({ n: '*' }).first();
-    const files = storedFiles();
+    const files = await storedFiles();
     const res = await upload(c, unplanned, await make(), 'upload.jpg');
     expect(res.status, JSON.stringify(res.body)).toBe(status);
     expect(res.body.error).toMatchObject({ code, message: expect.stringMatching(/\w/) });
     expect(await t.db('demo_pictures').count({ n: '*' }).first()).toEqual(rows);
-    expect(storedFiles()).toEqual(files);
+    expect(await storedFiles()).toEqual(files);
   });
 
   it('an upload without a file, or a JSON body, is 422 / 400; a fifth picture 409', async () => {
@@ -135,9 +135,9 @@ describe('demonstration pictures', () => {
 
   it('removing a picture removes its files and closes the gap in the order', async () => {
     const list = (await c.get(`/api/exercises/${planned}/demonstrations`)).body.pictures as DemoPicture[];
-    const files = storedFiles().length;
+    const files = (await storedFiles()).length;
     expect((await c.delete(`/api/demo-pictures/${list[0]!.id}`)).status).toBe(204);
-    expect(storedFiles().length).toBe(files - 2);
+    expect((await storedFiles()).length).toBe(files - 2);
     const left = (await c.get(`/api/exercises/${planned}/demonstrations`)).body.pictures as DemoPicture[];
     expect(left.map((p) => p.position)).toEqual([0]);
     expect((await c.get(list[0]!.url)).status).toBe(404);

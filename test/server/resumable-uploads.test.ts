@@ -101,7 +101,7 @@ describe('resuming after a dropped connection', () => {
       const made = JSON.parse(done.body) as { id: number; status: string; sizeBytes: number; originalName: string };
       expect(made).toMatchObject({ sizeBytes: size, originalName: 'run.mp4' });
       // Outside reference: the source file's own bytes.
-      expect(await sha256(path.join(t.config.uploadsDir, 'clips', String(made.id), 'original.mp4'))).toBe(await sha256(clip));
+      expect(await t.store.withLocalFile(`clips/${made.id}/original.mp4`, (stored) => sha256(stored))).toBe(await sha256(clip));
       // The bytes moved into the store; only the upload's details stay (until swept), so a client
       // whose answer was lost learns from HEAD that it is complete instead of sending it again.
       const id = url.split('/').pop()!;

@@ -8,7 +8,6 @@
  *   the cited sources of the clinic's reference bands (REFERENCES.md).
  */
 import path from 'node:path';
-import fs from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadImage, createCanvas } from '@napi-rs/canvas';
 import { PDFParse } from 'pdf-parse';
@@ -455,6 +454,6 @@ describe('a still whose clip was deleted', () => {
     const pub = await c.post(`/api/stills/${still.id}/publish`, {});
     expect(pub.status).toBe(409);
     expect(pub.body.error.code).toBe('clip_deleted');
-    expect(fs.existsSync(path.join(t.config.uploadsDir, 'clips', String(plainClipId)))).toBe(false);
+    expect(await t.store.list(`clips/${plainClipId}/`)).toEqual([]);
   });
 });

@@ -1,6 +1,5 @@
 /** What the demonstration tests (pictures and clips of an exercise) share: multipart uploads and the files stored for exercises. */
-import fs from 'node:fs';
-import path from 'node:path';
+import type { MediaStore } from '../../server/storage/media-store';
 import type { Client } from './test-app';
 
 /** POSTs `file` (a path, or bytes named `name`) as the multipart field `file`, with an optional caption. */
@@ -12,9 +11,7 @@ export async function uploadFile(client: Client, url: string, file: string | Buf
   return caption === undefined ? req : req.field('caption', caption);
 }
 
-/** Every stored file under `uploads/exercises` (none may stay behind a refusal). */
-export function storedExerciseFiles(uploadsDir: string): string[] {
-  const root = path.join(uploadsDir, 'exercises');
-  if (!fs.existsSync(root)) return [];
-  return (fs.readdirSync(root, { recursive: true }) as string[]).filter((f) => fs.statSync(path.join(root, f)).isFile());
+/** Every stored object under `exercises/` in the app's store, local or bucket (none may stay behind a refusal); names relative to it. */
+export async function storedExerciseFiles(store: MediaStore): Promise<string[]> {
+  return (await store.list('exercises/')).map((key) => key.slice('exercises/'.length));
 }

@@ -7,8 +7,10 @@ import type { Express } from 'express';
 import pino, { type Logger } from 'pino';
 import { createApp } from '../../server/app';
 import { loadConfig, type Config } from '../../server/config';
+import { mediaStoreFor } from '../../server/services';
 import type { Db } from '../../server/db/knex';
-import { openTestDb } from './test-db';
+import { openTestDb, s3Endpoint } from './test-db';
+import { openOwnBucket, type OwnBucket } from './own-bucket';
 import { createSmtpMailer, type Mailer, type MailMessage } from '../../server/mail/mailer';
 import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp';
 import { hashPassword } from '../../server/auth/passwords';
@@ -69,6 +71,10 @@ export interface TestApp {
   db: Db;
   mailer: MemoryMailer;
   config: Config;
+  /** Where the app keeps media: local folders under `config.uploadsDir`, or (on S3) a bucket of the app's own. */
+  store: MediaStore;
+  /** Every media key the app has stored, sorted (reads the store, local or bucket). */
+  mediaKeys(): Promise<string[]>;
   /** The in-process worker. */
   worker: Worker | null;
   /** The app's processing layer (tests that run without the worker drive its queue themselves). */
@@ -100,7 +106,10 @@ export interface TestAppOptions {
   fakeSmtp?: boolean;
   /** A database file (in the test's temp folder) instead of memory: plain reads then use the reader connection, as a real server's do. */
   onDisk?: boolean;
-  /** The media store (default: local folders under the test's uploads folder), e.g. an S3 store on a local fake. */
+  /**
+   * The media store (default: local folders under the test's uploads folder, or — when the suite runs
+   * with `TEST_S3_ENDPOINT` — a bucket of the app's own on that fake), e.g. an S3 store on a local fake.
+   */
   store?: MediaStore;
 }
 
@@ -120,6 +129,13 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
   config = { ...config, databaseUrl: testDb.target.startsWith('postgres') ? testDb.target : null };
   await seed(db);
   await addOtherClinic(db);
+  // On S3 (see test-db.ts `onS3`) a bucket of this app's own, so test files running at once never share keys.
+  let bucket: OwnBucket | null = null;
+  if (!options.store && s3Endpoint) {
+    bucket = await openOwnBucket(s3Endpoint);
+    config = { ...config, s3: bucket.options };
+  }
+  const store = options.store ?? bucket?.store ?? mediaStoreFor(config);
   const mailer = new MemoryMailer();
   let fakeSmtp: FakeSmtp | null = null;
   if (options.fakeSmtp ?? true) {
@@ -133,7 +149,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
     mailer,
     logger: options.logger ?? pino({ level: 'silent' }),
     clock: () => new Date(Date.now() + offset),
-    store: options.store,
+    store,
   });
   let listener: http.Server | null = null;
   let url: string | null = null;
@@ -151,6 +167,8 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
     db,
     mailer,
     config,
+    store,
+    mediaKeys: () => (bucket ? bucket.keys() : localKeys(config.uploadsDir)),
     advance: (ms) => {
       offset += ms;
     },
@@ -169,9 +187,26 @@ export async function makeTestApp(overrides: Partial<Config> = {}, options: Test
       mailer.close();
       await fakeSmtp?.close();
       await testDb.close();
+      await bucket?.remove();
       fs.rmSync(uploadsDir, { recursive: true, force: true });
     },
   };
+}
+
+/**
+ * What a folder listing of `prefix` (ending with `/`) would show in the store, local or bucket: the
+ * distinct next parts of the keys under it, sorted (`clips/` → the clip ids with media).
+ */
+export async function storedNames(store: MediaStore, prefix: string): Promise<string[]> {
+  const names = new Set((await store.list(prefix)).map((key) => key.slice(prefix.length).split('/')[0]!));
+  return [...names].sort();
+}
+
+/** The files under `dir` as media keys (`a/b/c`), sorted. */
+function localKeys(dir: string): Promise<string[]> {
+  const files = fs.existsSync(dir) ? (fs.readdirSync(dir, { recursive: true, withFileTypes: true }) as fs.Dirent[]) : [];
+  const keys = files.filter((f) => f.isFile()).map((f) => path.relative(dir, path.join(f.parentPath, f.name)).split(path.sep).join('/'));
+  return Promise.resolve(keys.sort());
 }
 
 export const OTHER = {

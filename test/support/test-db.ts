@@ -14,6 +14,14 @@ import { createDb, migrate, type Db } from '../../server/db/knex';
 export const pgServerUrl: string | null = process.env['DATABASE_URL'] || null;
 /** Whether this run of the suite is on PostgreSQL. */
 export const onPostgres = pgServerUrl !== null;
+/**
+ * The object-storage fake (s3rver) the suite keeps media in, or null: local folders. The PostgreSQL
+ * pass (`scripts/test-postgres.ts`) starts one and sets `TEST_S3_ENDPOINT`; every test app then gets
+ * a bucket of its own on it (test/support/test-app.ts).
+ */
+export const s3Endpoint: string | null = process.env['TEST_S3_ENDPOINT'] || null;
+/** Whether this run of the suite keeps the test apps' media in the object-storage fake. */
+export const onS3 = s3Endpoint !== null;
 /** The migrated database every test database is copied from. */
 export const PG_TEMPLATE = 'tf_test_template';
 

@@ -136,7 +136,7 @@ describe('consent withdrawal', () => {
     const clips = await t.db('clips').where({ athlete_id: adaId }).pluck('id');
     expect(clips.length).toBe(asked.clipCount);
     // Nothing goes by itself.
-    for (const id of clips) expect(fs.existsSync(path.join(t.config.uploadsDir, `clips/${id}`))).toBe(true);
+    for (const id of clips) expect(await t.store.list(`clips/${id}/`)).not.toEqual([]);
 
     expect((await owner.post(`/api/athletes/${adaId}/clips/erasure`, {})).status).toBe(422);
     expect((await coach.post(`/api/athletes/${adaId}/clips/erasure`, { confirm: true })).status).toBe(403);
@@ -144,7 +144,7 @@ describe('consent withdrawal', () => {
     expect(erased.status, JSON.stringify(erased.body)).toBe(200);
     expect(erased.body).toEqual({ removedClips: clips.length });
     expect(await t.db('clips').where({ athlete_id: adaId }).count('* as n')).toEqual([{ n: 0 }]);
-    for (const id of clips) expect(fs.existsSync(path.join(t.config.uploadsDir, `clips/${id}`))).toBe(false);
+    for (const id of clips) expect(await t.store.list(`clips/${id}/`)).toEqual([]);
     expect((await owner.get(`/api/athletes/${adaId}/data`)).body).toMatchObject({ clipCount: 0, videoWithdrawnAt: null });
     expect(await t.db('audit_log').where({ athlete_id: adaId, action: 'athlete.clips_erased' }).first()).toBeDefined();
   }, 60_000);
@@ -219,7 +219,7 @@ describe('clip retention', () => {
     expect(done.body.review).toMatchObject({ confirmedAt: expect.any(String), items: [] });
     expect(done.body.review.removedCount).toBeGreaterThanOrEqual(1);
     expect(await t.db('clips').where({ id: carysClip }).first()).toBeUndefined();
-    expect(fs.existsSync(path.join(t.config.uploadsDir, `clips/${carysClip}`))).toBe(false);
+    expect(await t.store.list(`clips/${carysClip}/`)).toEqual([]);
     expect(await t.db('clips').where({ id: teodorClip }).first()).toBeDefined();
     expect((await owner.post(`/api/clinic/retention/reviews/${latest}/confirm`)).status).toBe(409);
   });

@@ -190,7 +190,7 @@ describe('data export', () => {
 
   it('after 24 hours the link answers 410 with a clear message, the list says expired, and the daily check removes the zip', async () => {
     const key = exportKey(adaId, exportId);
-    expect(fs.existsSync(path.join(t.config.uploadsDir, key))).toBe(true);
+    expect(await t.store.stat(key)).not.toBeNull();
     t.advance(24 * 3_600_000 + 1000);
     const res = await athlete.get(`/api/data-exports/${exportId}/download`);
     expect(res.status).toBe(410);
@@ -198,7 +198,7 @@ describe('data export', () => {
     const list = await athlete.get(`/api/athletes/${adaId}/data-exports`);
     expect(list.body.exports[0]).toMatchObject({ status: 'expired', downloadUrl: null });
     await t.runDailyPrivacyCheck();
-    expect(fs.existsSync(path.join(t.config.uploadsDir, key))).toBe(false);
+    expect(await t.store.stat(key)).toBeNull();
     // A new export can be asked for and downloaded again.
     const again = await owner.post(`/api/athletes/${adaId}/data-exports`);
     expect(again.status).toBe(202);

@@ -58,6 +58,19 @@ describe.each(['local folders', 'S3-compatible bucket'])('MediaStore contract: %
     expect((await store().stat('clips/1/original.mp4'))?.size).toBe(10);
   });
 
+  it("stores a stream of another stream library (archiver's zip, as a data export writes it) whole", async () => {
+    const { default: archiver } = await import('archiver');
+    const zip = archiver('zip', { store: true });
+    const written = store().put('exports/1/export-1.zip', zip as unknown as Readable);
+    zip.append('hello', { name: 'a.txt' });
+    await zip.finalize();
+    await written;
+    const bytes = await readSmall(store(), 'exports/1/export-1.zip');
+    // Outside reference: the ZIP format's end-of-central-directory record (PKWARE APPNOTE 4.3.16), "PK\x05\x06", 22 bytes from the end without a comment.
+    expect(bytes.subarray(bytes.length - 22, bytes.length - 18)).toEqual(Buffer.from('PK\x05\x06', 'latin1'));
+    expect(bytes.length).toBe(zip.pointer());
+  });
+
   it('lists keys under a prefix, sorted; removes one and a prefix', async () => {
     await store().put('clips/2/frames/000002.jpg', 'b');
     await store().put('clips/2/frames/000001.jpg', 'a');
