@@ -6,6 +6,7 @@
  */
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { uploadToNewVisit } from '../support/bodies';
 import { Client } from '../support/test-app';
 import { folderDb, freePort, seededDir, serverProcess, type ServerProcess } from '../support/server-process';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
@@ -74,22 +75,7 @@ describe('kill -9 during every attempt of one extraction', () => {
     let c = await signedInClient();
     const athletes = (await c.get('/api/athletes')).body.athletes as { id: number; lastName: string }[];
     const ada = athletes.find((a) => a.lastName === 'Kestrel')!;
-    const assessment = await c.post(`/api/athletes/${ada.id}/assessments`, {
-      date: '2026-11-30',
-      kind: 'baseline',
-      surface: 'treadmill',
-      speed: null,
-      inclinePercent: null,
-      shoes: null,
-      cameraNotes: null,
-      notes: null,
-    });
-    const up = await c.agent
-      .post(`/api/assessments/${assessment.body.id}/clips`)
-      .set('X-XSRF-TOKEN', await c.xsrf())
-      .attach('file', clipFile);
-    expect(up.status).toBe(201);
-    const clipId = up.body.id as number;
+    const clipId = await uploadToNewVisit(c, ada.id, clipFile);
 
     for (let kill = 1; kill <= 3; kill++) {
       if (kill > 1) {

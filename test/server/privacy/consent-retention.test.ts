@@ -10,25 +10,14 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import path from 'node:path';
 import { makeClip, tempDir } from '../media/fixtures';
+import { intakeWith } from '../../support/bodies';
 import { Client, makeTestApp, signedIn, type TestApp } from '../../support/test-app';
 import { DEMO_SIGN_INS } from '../../../seeds/demo-scenario';
 
 const [ownerCred, coachCred, , athleteCred] = DEMO_SIGN_INS;
 const DAY = 86_400_000;
 
-const intake = (consents: { videoRecording: boolean; shareStills: boolean }) => ({
-  dateOfBirth: null,
-  heightCm: null,
-  distanceUnit: 'km',
-  weeklyDistance: null,
-  longestRecentRun: null,
-  goalEvent: null,
-  goalDate: null,
-  surfaces: [],
-  injuries: [],
-  pain: [],
-  consents,
-});
+const intake = intakeWith;
 
 let t: TestApp;
 let owner: Client;

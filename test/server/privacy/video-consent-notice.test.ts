@@ -9,24 +9,13 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import path from 'node:path';
 import { makeClip, tempDir } from '../media/fixtures';
 import { hashPassword } from '../../../server/auth/passwords';
+import { intakeWith, uploadToNewVisit } from '../../support/bodies';
 import { Client, makeTestApp, OTHER, signedIn, type TestApp } from '../../support/test-app';
 import { DEMO_CLINIC_NAME, DEMO_SIGN_INS } from '../../../seeds/demo-scenario';
 
 const [ownerCred, coachCred, , athleteCred] = DEMO_SIGN_INS;
 
-const intake = (videoRecording: boolean) => ({
-  dateOfBirth: null,
-  heightCm: null,
-  distanceUnit: 'km',
-  weeklyDistance: null,
-  longestRecentRun: null,
-  goalEvent: null,
-  goalDate: null,
-  surfaces: [],
-  injuries: [],
-  pain: [],
-  consents: { videoRecording, shareStills: true },
-});
+const intake = (videoRecording: boolean) => intakeWith({ videoRecording, shareStills: true });
 
 let t: TestApp;
 let athlete: Client;
@@ -66,21 +55,7 @@ beforeAll(async () => {
   expect((await coach.put(`/api/athletes/${adaId}/intake`, intake(true))).status).toBe(200);
   dir = await tempDir('consent-notice');
   const clipFile = await makeClip(path.join(dir.dir, 'run.mp4'), { fps: 30, width: 160, height: 90, seconds: 1 });
-  const assessment = await coach.post(`/api/athletes/${adaId}/assessments`, {
-    date: '2026-11-30',
-    kind: 'baseline',
-    surface: 'treadmill',
-    speed: null,
-    inclinePercent: null,
-    shoes: null,
-    cameraNotes: null,
-    notes: null,
-  });
-  const uploaded = await coach.agent
-    .post(`/api/assessments/${assessment.body.id}/clips`)
-    .set('X-XSRF-TOKEN', await coach.xsrf())
-    .attach('file', clipFile);
-  expect(uploaded.status).toBe(201);
+  await uploadToNewVisit(coach, adaId, clipFile);
   await t.db('mailbox_messages').delete();
 }, 60_000);
 
