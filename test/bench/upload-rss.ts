@@ -24,6 +24,7 @@ import { createDb, migrate } from '../../server/db/knex';
 import { DEMO_SIGN_INS, seed } from '../../seeds/demo-scenario';
 import { buildServer, SERVER_BUNDLE, SERVER_ENV, SERVER_NODE_ARGS, WORKER_BUNDLE } from '../../scripts/build-server';
 import { cpuSeconds } from './support/bench-server';
+import { baselineVisit } from '../support/bodies';
 
 const sizeMb = Number(process.argv.slice(2).find((a) => /^\d+$/.test(a)) ?? 1024);
 const compare = process.argv.includes('--compare');
@@ -142,16 +143,7 @@ async function measureServer(
       await fetch(`${base}/api/athletes/${ada.id}/assessments`, {
         method: 'POST',
         headers: { ...headers(), 'content-type': 'application/json' },
-        body: JSON.stringify({
-          date: '2026-11-30',
-          kind: 'baseline',
-          surface: 'treadmill',
-          speed: null,
-          inclinePercent: null,
-          shoes: null,
-          cameraNotes: null,
-          notes: null,
-        }),
+        body: JSON.stringify(baselineVisit()),
       })
     ).json()) as { id: number };
 

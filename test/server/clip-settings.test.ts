@@ -7,6 +7,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, signedIn, type Client, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { baselineVisit } from '../support/bodies';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -57,16 +58,7 @@ beforeAll(async () => {
   staff = await signedIn(t.app, coach.email, coach.password);
   ada = await signedIn(t.app, athlete.email, athlete.password);
   adaId = (await t.db('athletes').where({ email: athlete.email }).first()).id;
-  const res = await staff.post(`/api/athletes/${adaId}/assessments`, {
-    date: '2026-11-30',
-    kind: 'baseline',
-    surface: 'treadmill',
-    speed: null,
-    inclinePercent: null,
-    shoes: null,
-    cameraNotes: null,
-    notes: null,
-  });
+  const res = await staff.post(`/api/athletes/${adaId}/assessments`, baselineVisit());
   assessmentId = res.body.id;
 });
 afterAll(async () => {

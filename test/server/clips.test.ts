@@ -9,6 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, OTHER, signedIn, storedNames, type Client, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { ffmpegRun, ffprobeCounted, makeClip, tempDir } from './media/fixtures';
+import { baselineVisit } from '../support/bodies';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -93,16 +94,7 @@ describe('assessments', () => {
   });
 
   it('refuses bad assessment input with field paths', async () => {
-    const base = {
-      date: '2026-11-30',
-      kind: 'baseline',
-      surface: 'treadmill',
-      speed: null,
-      inclinePercent: null,
-      shoes: null,
-      cameraNotes: null,
-      notes: null,
-    };
+    const base = baselineVisit();
     const cases: [Record<string, unknown>, (string | number)[]][] = [
       [{ speed: { value: 60, unit: 'kmh' } }, ['speed', 'value']],
       [{ speed: { value: 10, unit: 'knots' } }, ['speed', 'unit']],

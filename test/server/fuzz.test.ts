@@ -13,6 +13,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Client, makeTestApp, signedIn, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { loadConfig } from '../../server/config';
+import { baselineVisit } from '../support/bodies';
 
 const [owner, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -46,16 +47,7 @@ beforeAll(async () => {
   const staff = callers.find((c) => c.who === 'coach')!.client;
   const ada = await t.db('athletes').where({ email: athlete.email }).first();
   ids['athletes'] = ada.id;
-  const assessment = await staff.post(`/api/athletes/${ada.id}/assessments`, {
-    date: '2026-11-30',
-    kind: 'baseline',
-    surface: 'treadmill',
-    speed: null,
-    inclinePercent: null,
-    shoes: null,
-    cameraNotes: null,
-    notes: null,
-  });
+  const assessment = await staff.post(`/api/athletes/${ada.id}/assessments`, baselineVisit());
   ids['assessments'] = assessment.body.id;
   const at = new Date().toISOString();
   const [clip] = await t

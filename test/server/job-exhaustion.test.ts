@@ -15,6 +15,7 @@ import { RENDER_SUMMARY } from '../../server/summaries/render-summary-kind';
 import { startWorker } from '../../server/processing/worker';
 import { PermanentError, type ProcessedItem, type RunContext } from '../../server/processing/processed-item';
 import type { ProgressNotice } from '../../server/processing/progress-channel';
+import { baselineVisit } from '../support/bodies';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -30,16 +31,7 @@ beforeAll(async () => {
   const ada = await t.db('athletes').where({ email: athlete.email }).first();
   adaId = ada.id;
   clinicId = ada.clinic_id;
-  const res = await staff.post(`/api/athletes/${adaId}/assessments`, {
-    date: '2026-11-30',
-    kind: 'baseline',
-    surface: 'treadmill',
-    speed: null,
-    inclinePercent: null,
-    shoes: null,
-    cameraNotes: null,
-    notes: null,
-  });
+  const res = await staff.post(`/api/athletes/${adaId}/assessments`, baselineVisit());
   assessmentId = res.body.id;
 });
 afterAll(async () => {

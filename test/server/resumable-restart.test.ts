@@ -12,6 +12,7 @@ import { sha256, tusCreate, tusHead, tusPatch, tusPatchHeld } from '../support/t
 import { httpRequest, sessionJson, signIn } from '../bench/support/bench-server';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { makeClip } from './media/fixtures';
+import { baselineVisit } from '../support/bodies';
 
 const [, coach] = DEMO_SIGN_INS;
 let dir: string;
@@ -36,16 +37,7 @@ describe('SIGKILL mid-upload', () => {
     const s = await signIn(base, coach.email, coach.password);
     const athletes = (await sessionJson<{ athletes: { id: number; lastName: string }[] }>(base, s, 'GET', '/api/athletes')).body.athletes;
     const ada = athletes.find((a) => a.lastName === 'Kestrel')!;
-    const assessment = await sessionJson<{ id: number }>(base, s, 'POST', `/api/athletes/${ada.id}/assessments`, {
-      date: '2026-11-30',
-      kind: 'baseline',
-      surface: 'treadmill',
-      speed: null,
-      inclinePercent: null,
-      shoes: null,
-      cameraNotes: null,
-      notes: null,
-    });
+    const assessment = await sessionJson<{ id: number }>(base, s, 'POST', `/api/athletes/${ada.id}/assessments`, baselineVisit());
     const created = await tusCreate(base, s, assessment.body.id, size);
     expect(created.status).toBe(201);
 

@@ -21,6 +21,7 @@ import { makeClip, tempDir } from './media/fixtures';
 import { resumableUploads } from '../../server/clips/resumable-uploads';
 import { resumableUploadDir } from '../../server/storage/upload-temps';
 import type { ClipsService } from '../../server/clips/clips-service';
+import { baselineVisit } from '../support/bodies';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -33,16 +34,7 @@ let coachSession: TusSession;
 let adaId: number;
 let assessmentId: number;
 
-const assessment = {
-  date: '2026-11-30',
-  kind: 'baseline',
-  surface: 'treadmill',
-  speed: null,
-  inclinePercent: null,
-  shoes: null,
-  cameraNotes: null,
-  notes: null,
-};
+const assessment = baselineVisit();
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any -- answers of several routes, read field by field
 async function json(s: TusSession, method: string, p: string, body?: unknown): Promise<{ status: number; body: any }> {

@@ -19,6 +19,7 @@ import { marksFromTruth } from '../../scripts/demo-clip/demo-marks';
 import type { ClipMeasures } from '../../src/contracts/measures';
 import { CAPTION_MAX, type PortalShared, type Still, type VisitSummary } from '../../src/contracts/sharing';
 import { OVERLAY_COLOURS } from '../../src/kinematics';
+import { baselineVisit } from '../support/bodies';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -208,18 +209,7 @@ describe('bad input for stills', () => {
     });
     expect(self.status).toBe(422);
     const teodor = await t.db('athletes').where({ email: 'teodor.brannick@runner.test' }).first();
-    const teodorAssessment = (
-      await c.post(`/api/athletes/${teodor.id}/assessments`, {
-        date: '2026-11-30',
-        kind: 'baseline',
-        surface: 'treadmill',
-        speed: null,
-        inclinePercent: null,
-        shoes: null,
-        cameraNotes: null,
-        notes: null,
-      })
-    ).body.id;
+    const teodorAssessment = (await c.post(`/api/athletes/${teodor.id}/assessments`, baselineVisit())).body.id;
     const teodorClip = await upload(
       teodorAssessment,
       await makeClip(path.join(dir.dir, 'teodor.mp4'), { fps: 30, width: 320, height: 180, seconds: 1 }),

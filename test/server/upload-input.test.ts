@@ -15,6 +15,7 @@ import { makeTestApp, signedIn, type Client, type TestApp } from '../support/tes
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { cleanFileName } from '../../server/http/file-names';
 import { makeClip, tempDir } from './media/fixtures';
+import { baselineVisit } from '../support/bodies';
 
 const [owner, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -32,16 +33,7 @@ beforeAll(async () => {
   t = await makeTestApp({}, { logger });
   c = await signedIn(t.app, coach.email, coach.password);
   const adaId = (await t.db('athletes').where({ email: athlete.email }).first()).id;
-  const res = await c.post(`/api/athletes/${adaId}/assessments`, {
-    date: '2026-11-30',
-    kind: 'baseline',
-    surface: 'treadmill',
-    speed: null,
-    inclinePercent: null,
-    shoes: null,
-    cameraNotes: null,
-    notes: null,
-  });
+  const res = await c.post(`/api/athletes/${adaId}/assessments`, baselineVisit());
   assessmentId = res.body.id;
 });
 afterAll(async () => {
