@@ -71,7 +71,7 @@ export function serverProcess(dir: string, port: number, env: Record<string, str
     async start() {
       child = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], {
         detached: true,
-        stdio: ['ignore', 'ignore', 'ignore'],
+        stdio: ['ignore', 'ignore', 'pipe'],
         env: {
           ...process.env,
           PORT: String(port),
@@ -86,13 +86,19 @@ export function serverProcess(dir: string, port: number, env: Record<string, str
           ...env,
         },
       });
+      // What it writes to stderr (warnings and a crash's reason) is kept for the error below.
+      let stderr = '';
+      child.stderr!.on('data', (chunk: Buffer) => (stderr = (stderr + chunk.toString()).slice(-4000)));
       const started = Date.now();
       for (;;) {
         const ok = await fetch(`${url}/api/health`)
           .then((r) => r.ok)
           .catch(() => false);
         if (ok) return;
-        if (Date.now() - started > 60_000) throw new Error('server did not start');
+        // Transpiling the whole server with tsx takes long when several process tests start at once.
+        if (child.exitCode !== null || Date.now() - started > 120_000) {
+          throw new Error(`server did not start${child.exitCode !== null ? ` (exited with ${child.exitCode})` : ''}:\n${stderr}`);
+        }
         await new Promise((r) => setTimeout(r, 200));
       }
     },
