@@ -41,13 +41,18 @@ function databaseEnv(dir: string): Record<string, string> {
   return target.startsWith('postgres') ? { DATABASE_URL: target } : { DATABASE_URL: '', DB_FILE: target };
 }
 
-export function freePort(): Promise<number> {
-  return new Promise((resolve) => {
-    const s = net.createServer().listen(0, '127.0.0.1', () => {
-      const p = (s.address() as net.AddressInfo).port;
-      s.close(() => resolve(p));
+export async function freePort(): Promise<number> {
+  // Below Linux's ephemeral range (32768–60999): a port chosen there could be taken, before the server
+  // binds it, by any outgoing connection (to PostgreSQL, the fake bucket) of the tests running beside.
+  for (let attempt = 0; ; attempt++) {
+    const port = 20_000 + Math.floor(Math.random() * 12_000);
+    const free = await new Promise<boolean>((resolve) => {
+      const s = net.createServer();
+      s.once('error', () => resolve(false));
+      s.listen(port, '127.0.0.1', () => s.close(() => resolve(true)));
     });
-  });
+    if (free || attempt > 50) return port;
+  }
 }
 
 export interface ServerProcess {
