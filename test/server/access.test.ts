@@ -26,6 +26,7 @@ import { decide, decideRole, type Actor, type Owner, type ResourceState } from '
 import { Jimp } from 'jimp';
 import { clinicLogoKey, demoClipKeys, demoPictureKey, exportKey } from '../../server/storage/media-keys';
 import { markedJpeg } from '../support/pictures';
+import { intakeWith } from '../support/bodies';
 
 type Who = 'anonymous' | 'athleteSelf' | 'athleteOther' | 'coach' | 'coachOtherClinic' | 'owner' | 'ownerOtherClinic';
 const WHO: Who[] = ['anonymous', 'athleteSelf', 'athleteOther', 'coach', 'coachOtherClinic', 'owner', 'ownerOtherClinic'];
@@ -89,19 +90,7 @@ interface RouteCase {
   headers?: Record<string, string>;
 }
 
-const intake = {
-  dateOfBirth: null,
-  heightCm: null,
-  distanceUnit: 'km',
-  weeklyDistance: null,
-  longestRecentRun: null,
-  goalEvent: null,
-  goalDate: null,
-  surfaces: [],
-  injuries: [],
-  pain: [],
-  consents: { videoRecording: true, shareStills: true },
-};
+const intake = intakeWith({ videoRecording: true, shareStills: true });
 
 const assessment = {
   date: '2026-11-30',

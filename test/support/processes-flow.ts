@@ -11,6 +11,7 @@ import { makeClip } from '../server/media/fixtures';
 import { followProcessingEvents, type FollowedStream } from './event-stream';
 import { folderDb, freePort, seededDir, serverProcess, workerProcess, type ServerProcess, type WorkerProcess } from './server-process';
 import { Client } from './test-app';
+import { baselineVisit } from './bodies';
 
 /** Web servers with no worker of their own and two worker processes, over one seeded folder. */
 export interface ProcessesApart {
@@ -94,16 +95,7 @@ const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 /** Makes an assessment for the athlete and uploads `files` to it one after another; answers the clip ids. */
 export async function uploadClips(c: Client, athleteId: number, files: string[]): Promise<number[]> {
-  const assessment = await c.post(`/api/athletes/${athleteId}/assessments`, {
-    date: '2026-11-30',
-    kind: 'baseline',
-    surface: 'treadmill',
-    speed: null,
-    inclinePercent: null,
-    shoes: null,
-    cameraNotes: null,
-    notes: null,
-  });
+  const assessment = await c.post(`/api/athletes/${athleteId}/assessments`, baselineVisit());
   const clipIds: number[] = [];
   for (const file of files) {
     const up = await c.agent
