@@ -1,4 +1,4 @@
-import express, { type Express } from 'express';
+import express, { type Express, type RequestHandler } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import type { Logger } from 'pino';
 import type { AppConfig } from '../src/contracts/api';
@@ -15,6 +15,8 @@ import { clientAppRoutes } from './http/client-app';
 import { securityHeaders } from './http/security-headers';
 import { accessLog } from './http/access-log';
 import { routesByPrefix } from './http/routes-by-prefix';
+import { series } from './http/series';
+import { useJsonAnswer } from './http/json-answer';
 import { createPassport } from './auth/passport-setup';
 import { signInGuard } from './auth/sign-in-guard';
 import { authRoutes } from './auth/auth.routes';
@@ -120,8 +122,9 @@ export function createApp(deps: AppDeps): App {
   // each body) could never match. Stored files set their own validators (send-stored, static).
   app.set('etag', false);
 
-  app.use(securityHeaders(config.secureCookies));
-  app.use(accessLog(logger));
+  // One leaner `res.json` (one write per answer; http/json-answer.ts) and the per-request headers and log line as one layer.
+  useJsonAnswer(app);
+  app.use(series([securityHeaders(config.secureCookies), accessLog(logger)]));
 
   const api = express.Router();
   const billing = billingService({
@@ -133,18 +136,16 @@ export function createApp(deps: AppDeps): App {
     brands,
     payments: deps.payments !== undefined ? deps.payments : config.payments ? stripePayments(config.payments) : null,
   });
-  // The payment webhook reads its RAW body (signature) and is CSRF-exempt: mounted before both.
-  api.use(routesByPrefix([billingWebhookRoutes(billing)]));
   // Annotations of a long clip can be large; every other body is small.
   const smallJson = express.json({ limit: '200kb', strict: true });
   const largeJson = express.json({ limit: '8mb', strict: true });
-  api.use((req, res, next) => {
+  const parseBody: RequestHandler = (req, res, next) => {
     // Reads carry no body: skip the parsers' checks on the busiest requests.
     if (req.method === 'GET' || req.method === 'HEAD') return next();
     (/^\/clips\/\d+\/annotations$/.test(req.path) ? largeJson : smallJson)(req, res, next);
-  });
+  };
   // A body that is not JSON at all is a client error too, not an empty object.
-  api.use((req, _res, next) => {
+  const refuseOtherBodies: RequestHandler = (req, _res, next) => {
     const method = req.method;
     if (
       (method === 'POST' || method === 'PUT' || method === 'PATCH') &&
@@ -159,26 +160,26 @@ export function createApp(deps: AppDeps): App {
       return next(new AppError(415, 'unsupported_media_type', 'Send the request body as JSON (Content-Type: application/json).'));
     }
     next();
-  });
+  };
 
   const sessions = createSessions({ db, secret: config.sessionSecret, secureCookies: config.secureCookies, clock, logger });
   const passport = createPassport(db);
   // express-session, passport.session() and the extension, with a short way for signed-in reads. No
   // passport.initialize(): passport.session() sets the same request helpers (req.login, req.logout…),
   // and we need no `req._passport` for passport 0.4 strategies.
-  api.use(
-    signedInSessions({
-      sessions,
-      passportSession: passport.session(),
-      passport,
-      sessionUser: usersRepository.sessionUserReader(db),
-      logger,
-    }),
-  );
-
+  const signedIn = signedInSessions({
+    sessions,
+    passportSession: passport.session(),
+    passport,
+    sessionUser: usersRepository.sessionUserReader(db),
+    logger,
+  });
   const csrf = createCsrf(config.secureCookies, config.sessionSecret);
-  api.use(csrf.ensureCookie);
-  api.use(csrf.protect);
+  // What every API request passes before its route, as one layer (http/series.ts). The payment
+  // webhook reads its RAW body (signature) and is CSRF-exempt: it comes before the parsers and CSRF.
+  api.use(
+    series([routesByPrefix([billingWebhookRoutes(billing)]), parseBody, refuseOtherBodies, signedIn, csrf.ensureCookie, csrf.protect]),
+  );
 
   const limiter = (limit: number, message: string) =>
     rateLimit({
@@ -266,10 +267,11 @@ export function createApp(deps: AppDeps): App {
   // Workers in other processes (`npm run worker`) report through the database; relayed here (SQLite).
   const relay = engine.startRelay(processing, RELAY_EVERY_MS);
 
-  api.get('/health', (_req, res) => {
+  const system = express.Router();
+  system.get('/health', (_req, res) => {
     res.json({ ok: true });
   });
-  api.get('/config', (_req, res) => {
+  system.get('/config', (_req, res) => {
     const body: AppConfig = {
       demoMode: config.demoMode,
       version: VERSION,
@@ -281,6 +283,7 @@ export function createApp(deps: AppDeps): App {
   // Each request walks only the routers with routes under its first path segment (http/routes-by-prefix.ts).
   api.use(
     routesByPrefix([
+      system,
       authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, signInGuard: guard, resetLimiter, clock }),
       staffRoutes({ db, invitations, staff: staffService({ db, clock, revocations }) }),
       athletesRoutes(athletes),
@@ -315,10 +318,7 @@ export function createApp(deps: AppDeps): App {
   );
   api.use(apiNotFound);
 
-  app.use('/api', (_req, res, next) => {
-    res.setHeader('Cache-Control', 'no-store');
-    next();
-  });
+  // API answers are never cached: `Cache-Control: no-store` comes with the security headers.
   app.use('/api', api);
   if (config.clientDir) app.use(clientAppRoutes(config.clientDir));
   app.use(errorHandler(logger));

@@ -33,7 +33,8 @@ export function securityHeaders(secureCookies: boolean): RequestHandler {
       // Let our own pages open frames/images cross-origin-isolated only where needed later.
       crossOriginEmbedderPolicy: false,
     });
-  const api = fixedHeaders(policy(false));
+  // API answers are never cached (stored files served under /api set their own Cache-Control).
+  const api = [...fixedHeaders(policy(false)), ['Cache-Control', 'no-store']] as [string, string | string[]][];
   const pages = policy(true);
   return (req, res, next) => {
     if (req.url.startsWith('/api/')) {

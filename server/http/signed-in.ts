@@ -84,8 +84,20 @@ export function signedInSessions(d: {
     return id;
   };
 
+  /** A session row's data as {@link contentOf} writes it, by session id, while the row's text is unchanged. */
+  const contents = new Map<string, { sess: string; content: string }>();
+  const contentOfRow = (id: string, sess: string, data: SessionData): string => {
+    const known = contents.get(id);
+    if (known?.sess === sess) return known.content;
+    const content = contentOf(data);
+    contents.delete(id);
+    contents.set(id, { sess, content });
+    if (contents.size > VERIFIED_COOKIES_MAX) contents.delete(contents.keys().next().value!);
+    return content;
+  };
+
   /** The signed-in state of a read, or null when it must take the long way. */
-  const shortWay = async (req: Request): Promise<{ id: string; data: SessionData; user: Express.User } | null> => {
+  const shortWay = async (req: Request): Promise<{ id: string; data: SessionData; user: Express.User; content: string } | null> => {
     const raw = COOKIE.exec(req.headers.cookie ?? '')?.[1];
     const id = raw ? sessionIdOf(raw) : null;
     if (!id) return null;
@@ -95,7 +107,8 @@ export function signedInSessions(d: {
     const userId = data.passport?.user;
     if (typeof userId !== 'number' || clock().getTime() - (data.seenAt ?? 0) >= EXTEND_EVERY_MS) return null;
     const user = await d.sessionUser(userId);
-    return user ? { id, data, user } : null;
+    // What the session holds before the handler runs (its cookie aside), to tell whether it changed it.
+    return user ? { id, data, user, content: contentOfRow(id, row.sess, data) } : null;
   };
 
   /** Holds the answer back until a session the handler changed is saved, as express-session does. */
@@ -126,7 +139,7 @@ export function signedInSessions(d: {
           Object.assign(proto, passportRequest, { _sessionManager: sessionManager });
           equipped.add(proto);
         }
-        saveChangesBeforeAnswer(req, res, contentOf(req.session));
+        saveChangesBeforeAnswer(req, res, found.content);
         next();
       },
       (err: unknown) => next(err),
