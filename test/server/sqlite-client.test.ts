@@ -1,12 +1,14 @@
 /**
  * The SQLite dialect (server/db/sqlite-client.ts): connection settings on both connections, plain
  * reads on the read-only connection (committed data only, never waiting for a transaction), reads
- * inside a transaction on the writer, and the prepared-statement cache.
+ * inside a transaction on the writer, the prepared-statement cache, and prepared reads' rows (fetched
+ * as arrays, made into the objects better-sqlite3 itself would answer).
  */
 import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { createDb, migrate, type Db } from '../../server/db/knex';
-import { preparedRead } from '../../server/db/prepared-read';
+import fc from 'fast-check';
+import { preparedRead, rowBuilder } from '../../server/db/prepared-read';
 import { preparedStatement, SqliteClient, STATEMENT_CACHE_SIZE, type SqliteConnection } from '../../server/db/sqlite-client';
 import { tempDir } from './media/fixtures';
 
@@ -118,5 +120,65 @@ describe('prepared statements', () => {
     await db.schema.alterTable('clinics', (t) => t.string('motto'));
     const after = await db('clinics').select('*');
     expect(after[0]).toHaveProperty('motto', null);
+  });
+});
+
+describe('prepared reads', () => {
+  /** An SQL identifier in double quotes (SQLite's quoting: a quote inside is doubled). */
+  const quoted = (name: string) => `"${name.replace(/"/g, '""')}"`;
+
+  it('answer the objects better-sqlite3 answers: every column, a later column of a name winning, odd names as they are', async () => {
+    await db('clinics').insert({ name: 'Ridge "Lab"', created_at: at });
+    for (const extra of ['', ', NULL AS "__proto__"']) {
+      const sql = `SELECT c.*, c.name AS ${quoted('naïve "name"')}, 1 AS id, 'x' AS "constructor"${extra} FROM clinics c WHERE c.name = ?`;
+      const rows = await preparedRead<Record<string, unknown>>(db, sql)(['Ridge "Lab"']);
+      const expected = reader().prepare(sql).all('Ridge "Lab"') as Record<string, unknown>[];
+      expect(rows).toEqual(expected);
+      expect(rows[0]!['id']).toBe(1);
+      expect(Object.keys(rows[0]!)).toEqual(Object.keys(expected[0]!));
+    }
+  });
+
+  it('follow a schema change that adds a column under a kept read (select *)', async () => {
+    await db('clinics').insert({ name: 'Before', created_at: at });
+    const read = preparedRead<Record<string, unknown>>(db, 'SELECT * FROM clinics');
+    expect((await read([]))[0]).not.toHaveProperty('motto');
+    await db.schema.alterTable('clinics', (t) => t.string('motto'));
+    expect((await read([]))[0]).toHaveProperty('motto', null);
+  });
+
+  it('rowBuilder makes, for any column names, the object a column-by-column assignment makes (property check)', () => {
+    fc.assert(
+      fc.property(fc.array(fc.string({ maxLength: 12 }), { minLength: 1, maxLength: 12 }), (names) => {
+        fc.pre(!names.includes('__proto__'));
+        const built = rowBuilder(names)!(names.map((_, i) => i));
+        const byHand: Record<string, unknown> = {};
+        names.forEach((name, i) => Object.defineProperty(byHand, name, { value: i, enumerable: true, writable: true, configurable: true }));
+        expect(Object.getPrototypeOf(built)).toBe(Object.prototype);
+        expect(Object.entries(built)).toEqual(Object.entries(byHand));
+      }),
+    );
+  });
+
+  it('make the objects better-sqlite3 makes for SQL with any column names (property check)', () => {
+    const conn = reader();
+    type Raw = { raw(on: boolean): Raw; all(): unknown[][]; columns(): { name: string }[] };
+    fc.assert(
+      fc.property(
+        fc.array(
+          fc.string({ minLength: 1, maxLength: 8 }).filter((n) => !n.includes('\0')),
+          { minLength: 1, maxLength: 6 },
+        ),
+        (names) => {
+          const sql = `SELECT ${names.map((n, i) => `${i} AS ${quoted(n)}`).join(', ')}`;
+          const expected = conn.prepare(sql).all();
+          const raw = (conn.prepare(sql) as unknown as Raw).raw(true);
+          const build = rowBuilder(raw.columns().map((c) => c.name));
+          if (build) expect(raw.all().map(build)).toEqual(expected);
+          else expect(names).toContain('__proto__');
+        },
+      ),
+      { numRuns: 200 },
+    );
   });
 });
