@@ -14,8 +14,16 @@ export const IdParam = z.object({ id: z.coerce.number().int().positive().max(Num
 /** Route parameter holding an e-mailed token (base64url). */
 export const TokenParam = z.object({ token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/) });
 
+const PLAIN_ID = /^[1-9][0-9]{0,15}$/;
+
 /** The `:id` route parameter, or "not found" (404) when it is not a positive integer. */
 export function idParam(params: unknown, what: string): number {
+  // The common form (plain digits, no leading zero) without the schema; it answers what the schema answers.
+  const raw = (params as { id?: unknown } | null)?.id;
+  if (typeof raw === 'string' && PLAIN_ID.test(raw)) {
+    const id = Number(raw);
+    if (id <= Number.MAX_SAFE_INTEGER) return id;
+  }
   const r = IdParam.safeParse(params);
   if (!r.success) throw new NotFoundError(what);
   return r.data.id;
