@@ -37,7 +37,7 @@ export function securityHeaders(secureCookies: boolean): RequestHandler {
   const api = [...fixedHeaders(policy(false)), ['Cache-Control', 'no-store']] as [string, string | string[]][];
   const pages = policy(true);
   return (req, res, next) => {
-    if (req.url.startsWith('/api/')) {
+    if (req.url.startsWith('/api/') || req.url === '/api' || req.url.startsWith('/api?')) {
       for (const [name, value] of api) res.setHeader(name, value);
       return next();
     }

@@ -202,6 +202,14 @@ describe('HTTP hygiene', () => {
     expect(res.headers['cache-control']).toBe('no-store');
   });
 
+  it('marks every API answer not to be stored, errors and the bare /api path included', async () => {
+    for (const path of ['/api/nope', '/api', '/api?x=1', '/api/athletes']) {
+      const res = await request(t.app).get(path);
+      expect(res.headers['cache-control'], path).toBe('no-store');
+      expect(res.headers['content-security-policy'], path).toContain("default-src 'self'");
+    }
+  });
+
   it('answers unknown API paths with the JSON error shape', async () => {
     const res = await request(t.app).get('/api/nope');
     expect(res.status).toBe(404);
