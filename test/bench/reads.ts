@@ -437,9 +437,9 @@ try {
     row('`GET /api/athletes` (PostgreSQL, two servers)', 'athletesPg');
     row('`GET /api/assessments/:id` (PostgreSQL, two servers)', 'assessmentPg');
   }
-  const ok = kinds
-    .filter((k) => k !== 'bare' && !k.endsWith('Base'))
-    .every((k) => {
+  /** Whether these reads meet the target: ≥ 30 % of bare Express, p99 ≤ 50 ms, no errors. */
+  const meets = (ks: Kind[]) =>
+    ks.every((k) => {
       const r = summary(k);
       return r.rps / b.rps >= 0.3 && r.p99 <= 50 && r.errors === 0;
     });
@@ -460,7 +460,13 @@ try {
     "\nmedian and p99 from h2load's per-request log; rates and CPU from wrk. In flight per connection is the mean latency × rate ÷ connections: " +
       'with one request at a time on each connection it cannot exceed 1, so a tool whose figure does exceed it reports latencies longer than the requests took.',
   );
-  console.log(`\ntarget (≥ 30 % of bare, p99 ≤ 50 ms, 0 errors): ${ok ? 'met' : 'NOT met'}`);
+  const verdict = (ks: Kind[]) => (meets(ks) ? 'met' : 'NOT met');
+  // The target is the product as `npm start` runs it (one server on SQLite); PostgreSQL's two servers
+  // share these 2 cores with PostgreSQL itself and are printed as a reference, with their own verdict.
+  console.log(
+    `\ntarget (≥ 30 % of bare, p99 ≤ 50 ms, 0 errors), one server on SQLite: ${verdict(['athletes', 'assessment'])}` +
+      (onPg ? `; two servers on PostgreSQL on the same cores (reference): ${verdict(['athletesPg', 'assessmentPg'])}` : ''),
+  );
 } finally {
   await server?.stop();
   await bare?.stop();
