@@ -47,11 +47,27 @@ export async function clinicBands(db: Knex, clinicId: number): Promise<Reference
 export async function saveBand(db: Knex, clinicId: number, key: string, input: BandInput, userId: number): Promise<ReferenceBand> {
   if (!isMeasureKey(key)) throw new ValidationError(`Unknown measure "${key}".`, [{ path: ['key'], message: 'Unknown measure.' }]);
   const row = { clinic_id: clinicId, key, ...input, updated_by: userId, updated_at: new Date().toISOString() };
-  await db('reference_bands').insert(row).onConflict(['clinic_id', 'key']).merge();
+  await db.transaction(async (trx) => {
+    await trx('reference_bands').insert(row).onConflict(['clinic_id', 'key']).merge();
+    await dropClinicSnapshots(trx, clinicId);
+  });
   return { key, ...input };
 }
 
 export async function resetBand(db: Knex, clinicId: number, key: string): Promise<void> {
   if (!isMeasureKey(key)) throw new ValidationError(`Unknown measure "${key}".`, [{ path: ['key'], message: 'Unknown measure.' }]);
-  await db('reference_bands').where({ clinic_id: clinicId, key }).delete();
+  await db.transaction(async (trx) => {
+    await trx('reference_bands').where({ clinic_id: clinicId, key }).delete();
+    await dropClinicSnapshots(trx, clinicId);
+  });
+}
+
+/**
+ * A measures snapshot holds each mean's place against the bands in force when it was computed, so a
+ * band change drops the clinic's snapshots: the next read computes them against the band now in force.
+ */
+async function dropClinicSnapshots(trx: Knex, clinicId: number): Promise<void> {
+  await trx('measure_snapshots')
+    .whereIn('clip_id', trx('clips').where({ clinic_id: clinicId }).select('id'))
+    .delete();
 }

@@ -10,7 +10,7 @@ import type { Db } from '../db/knex';
 import type { AssessmentRow } from '../assessments/assessments-repository';
 import type { MeasuresService } from '../measures/measures-service';
 import { clinicBands } from '../measures/reference-bands';
-import { PermanentError, type ProcessingKind } from '../processing/processed-item';
+import { NotReadyError, PermanentError, type ProcessingKind } from '../processing/processed-item';
 import { SUMMARY_CAUTION, renderSummaryPdf, type SummaryVisit } from '../render/summary-pdf';
 import { summaryKey } from '../storage/media-keys';
 import type { MediaStore } from '../storage/media-store';
@@ -74,6 +74,17 @@ export function renderSummaryKind(d: RenderSummaryDeps): ProcessingKind<{ pageCo
         ? await db('users').where({ id: row.created_by }).first<{ name: string } | undefined>('name')
         : undefined;
 
+      // A summary queued while its visits' clips are still extracted, or its stills still drawn (the demo
+      // queues them together), waits for them without using an attempt: rendered now it would say "no
+      // steps were marked" for clips whose marks are simply not measurable yet, and drop the stills.
+      const visitIds = baseline ? [assessment.id, baseline.id] : [assessment.id];
+      const clipStatuses: string[] = await db('clips').whereIn('assessment_id', visitIds).pluck('status');
+      if (clipStatuses.some((st) => st !== 'ready' && st !== 'failed'))
+        throw new NotReadyError('The frames of a clip of this visit are not extracted yet.');
+      const stillIds = JSON.parse(row.still_ids) as number[];
+      const stillStatuses: string[] = stillIds.length ? await db('stills').whereIn('id', stillIds).pluck('status') : [];
+      if (stillStatuses.includes('rendering')) throw new NotReadyError('A still of this summary is not drawn yet.');
+
       const visitOf = (a: AssessmentRow): SummaryVisit => ({
         label: visitLabel(a),
         surface: FILM_SURFACE_LABELS[a.surface],
@@ -89,7 +100,7 @@ export function renderSummaryKind(d: RenderSummaryDeps): ProcessingKind<{ pageCo
       progress(0.1);
 
       const stills = [];
-      for (const stillId of JSON.parse(row.still_ids) as number[]) {
+      for (const stillId of stillIds) {
         const still = await d.stills.pngOf(stillId);
         // A still deleted (or whose clip was deleted) after the summary was requested drops out.
         if (still)

@@ -230,6 +230,25 @@ describe('reference bands', () => {
       (await o.get('/api/reference-bands')).body.bands.find((b: { key: string }) => b.key === 'knee_flexion_initial_contact').source,
     ).toMatch(/Heiderscheit/);
   });
+
+  it("places the clip's measures against the band in force after the owner edits or resets it (not the stored snapshot's)", async () => {
+    const kneeOf = async () =>
+      ((await c.get(`/api/clips/${runnerClipId}/measures`)).body as ClipMeasures).measures.find(
+        (m) => m.key === 'knee_flexion_initial_contact' && m.side === truth.nearSide,
+      )!;
+    // The generator's true knee flexion at initial contact (test fixture ground truth, not a published source);
+    // the measure is within 0.5° of it (test above), so a band starting 5° above it must flag "below".
+    const trueValues = truth.events.near.initialContact.map((f) => truth.angles[f]!.near.kneeFlexionDeg);
+    const trueMean = trueValues.reduce((a, b) => a + b, 0) / trueValues.length;
+    expect((await kneeOf()).band?.band.source).toMatch(/Heiderscheit/); // snapshot stored with the default band
+    const o = await signedIn(t.app, owner.email, owner.password);
+    const low = Math.round(trueMean) + 5;
+    const body = { low, high: low + 10, unit: '°', context: 'Worked example', source: 'Worked example band', evidence: 'calc' };
+    expect((await o.put('/api/reference-bands/knee_flexion_initial_contact', body)).status).toBe(200);
+    expect((await kneeOf()).band).toMatchObject({ position: 'below', band: { low, source: 'Worked example band' } });
+    expect((await o.delete('/api/reference-bands/knee_flexion_initial_contact')).status).toBe(204);
+    expect((await kneeOf()).band?.band.source).toMatch(/Heiderscheit/);
+  });
 });
 
 describe('landmark origin', () => {

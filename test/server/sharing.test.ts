@@ -385,6 +385,33 @@ describe('visit summaries', () => {
     expect(await pdfText(c, s2.pdfUrl)).toContain('Not measured');
   });
 
+  it('waits for a clip of its visits still being extracted, then prints its marked steps (not "Not measured")', async () => {
+    // A summary queued together with its clips' extraction (as the demo seed does) must not be drawn before the frames exist.
+    await t.db('clips').where({ id: retestClipId }).update({ status: 'extracting' });
+    const res = await c.post(`/api/assessments/${retestId}/summaries`, { findings: '', planText: '', stillIds: [] });
+    expect(res.status).toBe(202);
+    await t.worker!.idle();
+    expect((await c.get(`/api/summaries/${res.body.id}`)).body.status).toBe('rendering');
+    await t.db('clips').where({ id: retestClipId }).update({ status: 'ready' });
+    let summary: VisitSummary = (await c.get(`/api/summaries/${res.body.id}`)).body;
+    for (let i = 0; i < 100 && summary.status === 'rendering'; i++) {
+      await new Promise((r) => setTimeout(r, 100));
+      await t.worker!.idle();
+      summary = (await c.get(`/api/summaries/${res.body.id}`)).body;
+    }
+    expect(summary.status).toBe('ready');
+    const text = (await pdfText(c, summary.pdfUrl)).replace(/\s+/g, ' ');
+    // Both clips count (the marked one and the unmarked one), not only the one that was ready first.
+    expect(text).toContain('Clip 1 of 2');
+    // The hip extension printed for the near side is the generator's own (test fixture ground truth, not a
+    // published source): its mean over the marked toe-offs, to the 0.1° the PDF shows, within 0.5°.
+    const near = truth.hipExtensionAtToeOffDeg.near;
+    const expected = near.reduce((s, v) => s + v, 0) / near.length;
+    const row = new RegExp(`Hip extension at toe-off \\(thigh from vertical\\) \\(${truth.nearSide}\\) (\\d+\\.\\d) ±`).exec(text);
+    expect(row, text.slice(0, 600)).not.toBeNull();
+    expect(Math.abs(Number(row![1]) - expected)).toBeLessThan(0.5);
+  });
+
   it('refuses bad input with clear errors and writes nothing', async () => {
     const before = (await t.db('visit_summaries').count<{ n: number }[]>('id as n'))[0]!.n;
     const teodor = await t.db('athletes').where({ email: 'teodor.brannick@runner.test' }).first();
