@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import type { Knex } from 'knex';
 import type { MeasureKey, ReferenceBand } from '../../src/contracts/measures';
-import { DEFAULT_REFERENCE_BANDS, MEASURE_KEYS } from '../../src/kinematics';
+import { DEFAULT_REFERENCE_BANDS, MEASURE_DEFINITIONS, MEASURE_KEYS } from '../../src/kinematics';
 import { ValidationError } from '../errors';
 
 export const BandBody = z
@@ -46,6 +46,13 @@ export async function clinicBands(db: Knex, clinicId: number): Promise<Reference
 
 export async function saveBand(db: Knex, clinicId: number, key: string, input: BandInput, userId: number): Promise<ReferenceBand> {
   if (!isMeasureKey(key)) throw new ValidationError(`Unknown measure "${key}".`, [{ path: ['key'], message: 'Unknown measure.' }]);
+  // A band applies to the measure only in the measure's own unit (`findBand`): any other would be
+  // saved and then silently never shown, so it is refused.
+  const unit = MEASURE_DEFINITIONS[key].unit;
+  if (input.unit !== unit)
+    throw new ValidationError(`The unit of this measure is "${unit}".`, [
+      { path: ['unit'], message: `Use the measure's unit, "${unit}".` },
+    ]);
   const row = { clinic_id: clinicId, key, ...input, updated_by: userId, updated_at: new Date().toISOString() };
   await db.transaction(async (trx) => {
     await trx('reference_bands').insert(row).onConflict(['clinic_id', 'key']).merge();

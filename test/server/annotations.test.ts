@@ -225,6 +225,14 @@ describe('reference bands', () => {
     ).toMatchObject({ low: 12, high: 22 });
     expect((await o.put('/api/reference-bands/knee_flexion_initial_contact', { ...body, low: 30 })).status).toBe(422);
     expect((await o.put('/api/reference-bands/not_a_measure', body)).status).toBe(422);
+    // A band in another unit than the measure's would never apply (bands match by unit): refused, the saved one kept.
+    const wrongUnit = await o.put('/api/reference-bands/knee_flexion_initial_contact', { ...body, low: 5, unit: 'deg' });
+    expect(wrongUnit.status).toBe(422);
+    expect(wrongUnit.body.error.details).toEqual([expect.objectContaining({ path: ['unit'], message: expect.stringContaining('°') })]);
+    expect((await o.put('/api/reference-bands/cadence', { ...body, low: 160, high: 190, unit: '°' })).status).toBe(422);
+    expect(
+      (await o.get('/api/reference-bands')).body.bands.find((b: { key: string }) => b.key === 'knee_flexion_initial_contact'),
+    ).toMatchObject({ low: 12, high: 22, unit: '°' });
     expect((await o.delete('/api/reference-bands/knee_flexion_initial_contact')).status).toBe(204);
     expect(
       (await o.get('/api/reference-bands')).body.bands.find((b: { key: string }) => b.key === 'knee_flexion_initial_contact').source,

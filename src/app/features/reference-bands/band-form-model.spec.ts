@@ -1,5 +1,5 @@
 import type { ReferenceBand } from '../../../contracts/measures';
-import { bandForm, bandWrite, blankBand, hasDefault, isDefaultBand, sortBands } from './band-form-model';
+import { bandForm, bandWrite, blankBand, hasDefault, isDefaultBand, sortBands, unitOf } from './band-form-model';
 
 const hip: ReferenceBand = {
   key: 'hip_extension_toe_off',
@@ -30,6 +30,7 @@ describe('bandForm', () => {
   it('needs unit, context and source, not just spaces', () => {
     const f = bandForm(blankBand('cadence'));
     f.controls.low.setValue(150);
+    f.controls.unit.setValue(' ');
     expect(f.controls.unit.hasError('required')).toBe(true);
     f.controls.source.setValue('   ');
     expect(f.controls.source.hasError('required')).toBe(true);
@@ -60,5 +61,14 @@ describe('defaults', () => {
 
   it('sorts bands in measure order', () => {
     expect(sortBands([blankBand('cadence'), hip]).map((b) => b.key)).toEqual(['hip_extension_toe_off', 'cadence']);
+  });
+});
+
+describe('unitOf', () => {
+  it("gives each measure's own unit, which a new band starts with", () => {
+    expect(unitOf('hip_extension_toe_off')).toBe('°');
+    expect(unitOf('cadence')).toBe('steps/min');
+    expect(unitOf('contact_time')).toBe('s');
+    expect(blankBand('duty_factor').unit).toBe('%');
   });
 });

@@ -4,6 +4,7 @@
  */
 import { AbstractControl, FormControl, FormGroup, ValidationErrors, ValidatorFn, Validators } from '@angular/forms';
 import type { MeasureKey, ReferenceBand } from '../../../contracts/measures';
+import { MEASURE_DEFINITIONS } from '../../../kinematics/measure-definitions';
 import type { ReferenceBandWrite } from '../../core/data/reference-bands-api';
 
 /** On-screen names of the measures a band can belong to. */
@@ -97,9 +98,14 @@ export function bandWrite(value: ReturnType<BandForm['getRawValue']>): Reference
   };
 }
 
-/** A band for a measure that has none yet (the owner fills it in). */
+/** The unit a band for `key` must be given in: the measure's own (the server refuses any other). */
+export function unitOf(key: MeasureKey): string {
+  return MEASURE_DEFINITIONS[key]?.unit ?? '';
+}
+
+/** A band for a measure that has none yet (the owner fills in the rest). */
 export function blankBand(key: MeasureKey): ReferenceBand {
-  return { key, low: null, high: null, unit: '', context: '', source: '', evidence: 'pub' };
+  return { key, low: null, high: null, unit: unitOf(key), context: '', source: '', evidence: 'pub' };
 }
 
 /** Whether `band` is the shipped default for its measure (same limits, unit and texts). */

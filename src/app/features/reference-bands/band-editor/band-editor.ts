@@ -14,7 +14,7 @@ import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-erro
 import { ConfirmDialog, ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
-import { BAND_TEXT_LIMITS, EVIDENCE_OPTIONS, MEASURE_LABELS, bandForm, bandWrite } from '../band-form-model';
+import { BAND_TEXT_LIMITS, EVIDENCE_OPTIONS, MEASURE_LABELS, bandForm, bandWrite, unitOf } from '../band-form-model';
 import { ReferenceBandsApi } from '../../../core/data/reference-bands-api';
 
 /** One reference band as an editable card: limits, unit, context, source, evidence; save or reset. */
@@ -75,7 +75,7 @@ export class BandEditor {
     // Show the band as the server has it whenever it changes.
     effect(() => {
       const b = this.band();
-      this.form.reset({ low: b.low, high: b.high, unit: b.unit, context: b.context, source: b.source, evidence: b.evidence });
+      this.form.reset({ low: b.low, high: b.high, unit: unitOf(b.key), context: b.context, source: b.source, evidence: b.evidence });
     });
   }
 
@@ -109,7 +109,7 @@ export class BandEditor {
       return;
     }
     const b = this.band();
-    this.form.reset({ low: b.low, high: b.high, unit: b.unit, context: b.context, source: b.source, evidence: b.evidence });
+    this.form.reset({ low: b.low, high: b.high, unit: unitOf(b.key), context: b.context, source: b.source, evidence: b.evidence });
     this.problem.set(null);
   }
 
