@@ -64,6 +64,7 @@ import { stripePayments, type Payments } from './billing/payments';
 import { athleteDataService } from './privacy/athlete-data-service';
 import { retentionService } from './privacy/retention-service';
 import { privacyRoutes } from './privacy/privacy.routes';
+import { refuseBrokenText, verifyBodyText } from './http/body-text';
 
 /** What the app needs from outside; tests pass their own. */
 export interface AppDeps {
@@ -137,12 +138,15 @@ export function createApp(deps: AppDeps): App {
     payments: deps.payments !== undefined ? deps.payments : config.payments ? stripePayments(config.payments) : null,
   });
   // Annotations of a long clip can be large; every other body is small.
-  const smallJson = express.json({ limit: '200kb', strict: true });
-  const largeJson = express.json({ limit: '8mb', strict: true });
+  // Text must arrive as UTF-8 without NULs or half surrogate pairs (http/body-text.ts), or the request is refused.
+  const smallJson = express.json({ limit: '200kb', strict: true, verify: verifyBodyText });
+  const largeJson = express.json({ limit: '8mb', strict: true, verify: verifyBodyText });
   const parseBody: RequestHandler = (req, res, next) => {
     // Reads carry no body: skip the parsers' checks on the busiest requests.
     if (req.method === 'GET' || req.method === 'HEAD') return next();
-    (/^\/clips\/\d+\/annotations$/.test(req.path) ? largeJson : smallJson)(req, res, next);
+    (/^\/clips\/\d+\/annotations$/.test(req.path) ? largeJson : smallJson)(req, res, (err?: unknown) =>
+      next(err ?? refuseBrokenText(req, req.body)),
+    );
   };
   // A body that is not JSON at all is a client error too, not an empty object.
   const refuseOtherBodies: RequestHandler = (req, _res, next) => {

@@ -78,6 +78,31 @@ const PROTOCOL_CODES: Record<number, string> = {
   460: 'upload_checksum_mismatch',
 };
 
+/**
+ * The protocol server with every refusal in our error shape and JSON content type: its own header
+ * checks (a malformed Upload-Offset, Upload-Metadata or Content-Type) answer plain text otherwise,
+ * and the bodies `onResponseError` maps keep the library's text/plain type.
+ */
+class ShapedServer extends Server {
+  override write(context: Parameters<Server['write']>[0], headers: Headers, status: number, body = ''): ReturnType<Server['write']> {
+    if (status >= 400) {
+      if (!isErrorBody(body)) body = errorBody(PROTOCOL_CODES[status] ?? 'bad_upload', protocolMessage(status, body));
+      headers.set('Content-Type', JSON_TYPE);
+    }
+    return super.write(context, headers, status, body);
+  }
+}
+
+/** Whether `body` is already `{ error: { code, message } }`. */
+function isErrorBody(body: string): boolean {
+  try {
+    const parsed = JSON.parse(body) as { error?: { code?: unknown; message?: unknown } } | null;
+    return typeof parsed?.error?.code === 'string' && typeof parsed.error.message === 'string';
+  } catch {
+    return false;
+  }
+}
+
 export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
   const contexts = new WeakMap<IncomingMessage, UploadRequestContext>();
   /** Uploads with a request in progress (never swept). */
@@ -104,7 +129,7 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
     if (server) return server;
     fs.mkdirSync(d.dir, { recursive: true });
     datastore = new FileStore({ directory: d.dir });
-    server = new Server({
+    server = new ShapedServer({
       // Routes pass requests with the /api prefix stripped; the Location header is built below.
       path: '/assessments',
       datastore,
@@ -244,6 +269,11 @@ function protocolMessage(status: number, body: string): string {
       return 'Send the bytes as application/offset+octet-stream.';
     case 423:
       return 'Another request is writing to this upload; try again in a moment.';
+    case 400:
+      // The library names the headers it refused ("Invalid upload-offset upload-metadata").
+      return /^Invalid [\w -]+$/.test(body.trim())
+        ? `Malformed upload header: ${body.trim().slice('Invalid '.length).split(' ').join(', ')}.`
+        : body.trim() || 'The upload request could not be read.';
     default:
       return body.trim() || 'The upload request could not be read.';
   }

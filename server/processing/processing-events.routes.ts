@@ -19,14 +19,26 @@ export interface ProcessingEventsDeps {
   revocations: UserRevocations;
 }
 
+const STREAM_HEADERS = {
+  'Content-Type': 'text/event-stream; charset=utf-8',
+  'Cache-Control': 'no-store',
+  Connection: 'keep-alive',
+  'X-Accel-Buffering': 'no',
+};
+
+/**
+ * A HEAD request gets the stream's headers and its answer ends: it can carry no events, and Node
+ * holds a HEAD answer's headers until it ends (the caller would wait forever, subscribed).
+ */
+function headOnly(req: Request, res: Response): boolean {
+  if (req.method !== 'HEAD') return false;
+  res.writeHead(200, STREAM_HEADERS).end();
+  return true;
+}
+
 /** Opens a server-sent-events answer. */
 function openStream(res: Response): (event: ProcessingEvent) => void {
-  res.writeHead(200, {
-    'Content-Type': 'text/event-stream; charset=utf-8',
-    'Cache-Control': 'no-store',
-    Connection: 'keep-alive',
-    'X-Accel-Buffering': 'no',
-  });
+  res.writeHead(200, STREAM_HEADERS);
   res.write('retry: 3000\n\n');
   return (event) => res.write(`event: ${PROCESSING_EVENT}\ndata: ${JSON.stringify(event)}\n\n`);
 }
@@ -43,6 +55,7 @@ export function processingEventsRoutes(d: ProcessingEventsDeps): Router {
     const athleteId = idParam(req.params, 'Athlete');
     const user = currentUser(req);
     await accessibleAthlete(d.db, user, athleteId, 'processing:follow');
+    if (headOnly(req, res)) return;
     const staff = may(user, 'processing:see-all');
     const visible = (n: ProgressNotice) => n.clinicId === user.clinicId && (staff || n.athleteSees);
     const send = openStream(res);
@@ -59,6 +72,7 @@ export function processingEventsRoutes(d: ProcessingEventsDeps): Router {
    */
   router.get('/clinic/processing-events', permit('processing:follow-clinic'), async (req, res) => {
     const user = currentUser(req);
+    if (headOnly(req, res)) return;
     const send = openStream(res);
     const unsubscribe = d.processing.channel.subscribeClinic(user.clinicId, (n) => send(n.event));
     await follow(

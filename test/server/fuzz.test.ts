@@ -214,7 +214,12 @@ async function call(client: Client, method: string, url: string, variant?: Varia
   const label = `${method.toUpperCase()} ${url.length > 120 ? url.slice(0, 120) + '…' : url}${variant ? ` [${variant.what}]` : ''}`;
   let req = (client.agent as unknown as Record<string, (u: string) => import('supertest').Test>)[method]!(url);
   if (method !== 'get') req = req.set('X-XSRF-TOKEN', await client.xsrf());
-  if (variant) req = req.set('Content-Type', variant.type ?? 'application/json').send(variant.body);
+  // Bytes go as they are (superagent would send a Buffer as JSON of its bytes).
+  if (variant)
+    req = req
+      .set('Content-Type', variant.type ?? 'application/json')
+      .serialize((b: unknown) => b as string)
+      .send(variant.body);
   const res = await req.timeout(20_000).catch((err: { status?: number; response?: { status: number; body: unknown }; code?: string }) => {
     if (err.response) return err.response;
     // A connection the server closed on purpose (e.g. an upload refused unread) is not a 5xx.
@@ -273,5 +278,46 @@ describe('fuzz: malformed requests across every route family', () => {
     expect(outcomes.length).toBeGreaterThanOrEqual(300);
     expect(families.size).toBeGreaterThanOrEqual(15);
     expect(fs.readdirSync(path.join(t.config.uploadsDir, 'tmp'))).toEqual([]);
+  });
+});
+
+describe('text that is not UTF-8', () => {
+  /** The bytes of `{"firstName":"a<bytes>b"}`. */
+  const nameWith = (bytes: number[]) => Buffer.concat([Buffer.from('{"firstName":"a'), Buffer.from(bytes), Buffer.from('b"}')]);
+  const cases: { what: string; body: Buffer | string }[] = [
+    { what: 'a byte that starts no UTF-8 character', body: nameWith([0xff]) },
+    { what: 'a cut two-byte character', body: nameWith([0xc3, 0x28]) },
+    { what: 'an overlong NUL', body: nameWith([0xc0, 0x80]) },
+    { what: 'a surrogate in UTF-8 bytes', body: nameWith([0xed, 0xa0, 0x80]) },
+    { what: 'an escaped NUL', body: '{"firstName":"a\\u0000b"}' },
+    { what: 'an escaped lone high surrogate', body: '{"firstName":"a\\ud83cb"}' },
+    { what: 'an escaped lone low surrogate', body: '{"firstName":"a\\udfc3b"}' },
+    { what: 'an escaped NUL in a key', body: '{"firstName":"Ada","x\\u0000":1}' },
+  ];
+  it('is refused with 400 invalid_text and stores nothing; escaped pairs and other characters still go through', async () => {
+    const staff = callers.find((c) => c.who === 'coach')!.client;
+    const url = `/api/athletes/${ids['athletes']}`;
+    const send = async (body: Buffer | string) =>
+      staff.agent
+        .patch(url)
+        .set('X-XSRF-TOKEN', await staff.xsrf())
+        .set('Content-Type', 'application/json')
+        // The bytes as they are (superagent would otherwise send a Buffer as JSON of its bytes).
+        .serialize((b: unknown) => b as string)
+        .send(body);
+    const before = await t.db('athletes').where({ id: ids['athletes'] }).first();
+    for (const { what, body } of cases) {
+      const res = await send(body);
+      expect(res.status, `${what}: ${JSON.stringify(res.body)}`).toBe(400);
+      expect(res.body.error.code, what).toBe('invalid_text');
+    }
+    expect(await t.db('athletes').where({ id: ids['athletes'] }).first()).toEqual(before);
+    // A pair escaped as two \u escapes is one character (U+1F3C3), as is the same character in UTF-8 bytes.
+    const pair = await send('{"firstName":"Ada\\ud83c\\udfc3"}');
+    expect(pair.status).toBe(200);
+    expect(pair.body.firstName).toBe('Ada\u{1F3C3}');
+    const plain = await send(Buffer.from('{"firstName":"Ad\\u00e4 \\"Zo\u00eb\\" \u{1F3C3}"}', 'utf8'));
+    expect(plain.status).toBe(200);
+    expect(plain.body.firstName).toBe('Ad\u00e4 "Zo\u00eb" \u{1F3C3}');
   });
 });

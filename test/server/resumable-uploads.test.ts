@@ -16,7 +16,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, OTHER, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { signIn } from '../bench/support/bench-server';
-import { sha256, tusCreate, tusHead, tusPatch, tusPatchCut, type TusSession } from '../support/tus-client';
+import { sha256, tusCreate, tusHead, tusHeaders, tusPatch, tusPatchCut, type TusSession } from '../support/tus-client';
 import { makeClip, tempDir } from './media/fixtures';
 import { resumableUploads } from '../../server/clips/resumable-uploads';
 import { resumableUploadDir } from '../../server/storage/upload-temps';
@@ -168,6 +168,38 @@ describe('the same gate as a one-request upload', () => {
     expect(parts()).toEqual(before);
     expect((await tusCreate(base, coachSession, assessmentId, 'lots')).status).toBe(422);
     expect((await tusCreate(base, coachSession, assessmentId, 0)).status).toBe(422);
+  });
+});
+
+describe('malformed protocol requests', () => {
+  it('a malformed Upload-Offset, Upload-Metadata or Content-Type and the protocol’s own refusals answer JSON in our error shape; the offset stays', async () => {
+    const created = await tusCreate(base, coachSession, assessmentId, 100);
+    const url = created.location!;
+    const patch = (extra: Record<string, string>, bytes: number) =>
+      fetch(url, {
+        method: 'PATCH',
+        headers: tusHeaders(coachSession, { 'content-type': 'application/offset+octet-stream', ...extra }),
+        body: new Uint8Array(bytes),
+      });
+    const answers = [
+      { status: 400, res: await patch({ 'upload-offset': '-1' }, 5) },
+      { status: 400, res: await patch({ 'upload-offset': '0.5' }, 5) },
+      { status: 415, res: await patch({ 'upload-offset': '0', 'content-type': 'text/plain' }, 5) },
+      { status: 409, res: await patch({ 'upload-offset': '7' }, 5) },
+      { status: 413, res: await patch({ 'upload-offset': '0' }, 150) },
+    ];
+    const badMeta = await fetch(`${base}/api/assessments/${assessmentId}/clip-uploads`, {
+      method: 'POST',
+      headers: tusHeaders(coachSession, { 'upload-length': '100', 'upload-metadata': 'filename !!not-base64, x' }),
+    });
+    answers.push({ status: 400, res: badMeta });
+    for (const { status, res } of answers) {
+      expect(res.status).toBe(status);
+      expect(res.headers.get('content-type')).toMatch(/^application\/json/);
+      const body = (await res.json()) as { error: { code: string; message: string } };
+      expect(body.error).toMatchObject({ code: expect.any(String), message: expect.any(String) });
+    }
+    expect((await tusHead(coachSession, url)).offset).toBe(0);
   });
 });
 
