@@ -263,6 +263,26 @@ describe('invoices', () => {
     expect((await o.post(`/api/invoices/${first.id}/issue`)).status).toBe(409);
   });
 
+  it('twenty drafts issued at once get twenty consecutive numbers: no gap, no duplicate, no error', async () => {
+    const drafts = [];
+    for (let i = 0; i < 20; i++) drafts.push(await draft());
+    const answers = await Promise.all(drafts.map((d) => o.post(`/api/invoices/${d.id}/issue`)));
+    expect(answers.map((r) => r.status)).toEqual(drafts.map(() => 200));
+    const numbers = answers.map((r) => Number((r.body as InvoiceDetail).number!.split('-')[2])).sort((x, y) => x - y);
+    expect(numbers).toEqual(numbers.map((_, i) => numbers[0]! + i));
+  });
+
+  it('numbering goes on past 9999 as 10000, 10001 (the highest number is read as a number, not as text)', async () => {
+    const year = new Date().getUTCFullYear();
+    const last = await issued();
+    await t
+      .db('invoices')
+      .where({ id: last.id })
+      .update({ number: `TF-${year}-9999` });
+    expect((await issued()).number).toBe(`TF-${year}-10000`);
+    expect((await issued()).number).toBe(`TF-${year}-10001`);
+  });
+
   it('lists with filters and totals; the athlete sees only their own issued invoices', async () => {
     const open = await issued();
     const d = await draft();
