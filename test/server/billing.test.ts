@@ -544,6 +544,22 @@ describe('card payment through the fake payment service', () => {
     expect(t.fakePayments!.events.slice(-2).map((e) => e.type)).toEqual(['checkout.session.completed', 'charge.refunded']);
   });
 
+  it('a second card payment of a paid invoice (on a payment page opened before) is refunded at once; the first is kept', async () => {
+    const inv = await issued();
+    const first = await a.post(`/api/invoices/${inv.id}/checkout`);
+    const second = await a.post(`/api/invoices/${inv.id}/checkout`);
+    expect((await fetch(`${first.body.url}/pay`, { method: 'POST', redirect: 'manual' })).status).toBe(303);
+    await t.fakePayments!.idle();
+    const paid = (await t.db('invoices').where({ id: inv.id }).first()) as { payment_intent_id: string };
+    expect((await fetch(`${second.body.url}/pay`, { method: 'POST', redirect: 'manual' })).status).toBe(303);
+    await t.fakePayments!.idle();
+    expect(t.fakePayments!.events.slice(-2).map((e) => e.type)).toEqual(['checkout.session.completed', 'charge.refunded']);
+    const refunded = JSON.parse(t.fakePayments!.events.at(-1)!.payload).data.object as { payment_intent: string };
+    expect(refunded.payment_intent).not.toBe(paid.payment_intent_id);
+    expect((await o.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'paid', paymentMethod: 'card', refundedAt: null });
+    expect((await t.db('invoices').where({ id: inv.id }).first()).payment_intent_id).toBe(paid.payment_intent_id);
+  });
+
   it('the same event delivered twice is processed once', async () => {
     const inv = await issued();
     await payOnPage(inv.id, 'pay');
