@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { lockedForUpdate } from '../db/dialect';
 import type { AssessmentKind } from '../../src/contracts/assessment';
 import type {
   CheckoutState,
@@ -220,15 +221,21 @@ export const invoicesRepository = {
   async update(db: Knex, id: number, patch: Partial<InvoiceRow>): Promise<void> {
     await db('invoices').where({ id }).update(patch);
   },
-  /** The next number of the clinic for the year: TF-2026-0001, TF-2026-0002, … */
+  /**
+   * The next number of the clinic for the year: TF-2026-0001, TF-2026-0002, … TF-2026-9999,
+   * TF-2026-10000 (the highest is the longest, then the greatest: as text "9999" sorts after
+   * "10000"). Locks the clinic's row first on PostgreSQL, so concurrent issues wait for each other
+   * instead of reading the same highest number.
+   */
   async nextNumber(trx: Knex, clinicId: number, year: number): Promise<string> {
     const prefix = `TF-${year}-`;
+    await lockedForUpdate(trx, trx('clinics').where({ id: clinicId }).select('id'));
     const row = await trx('invoices')
       .where({ clinic_id: clinicId })
       .andWhere('number', 'like', `${prefix}%`)
-      .max<{ n: string | null }>('number as n')
-      .first();
-    const last = row?.n ? Number(row.n.slice(prefix.length)) : 0;
+      .orderByRaw('length(number) desc, number desc')
+      .first<{ number: string } | undefined>('number');
+    const last = row ? Number(row.number.slice(prefix.length)) : 0;
     return `${prefix}${String(last + 1).padStart(4, '0')}`;
   },
   /** Records a webhook event id; false when it was already there (handled before). */

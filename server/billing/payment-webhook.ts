@@ -80,9 +80,13 @@ export function paymentWebhook(ctx: BillingContext, mail: BillingMail): PaymentW
             })
           ) {
             newlyPaid = row;
-          } else if (row.status === 'cancelled' || (row.status === 'paid' && row.payment_method !== 'card')) {
-            // Paid on a payment page opened before the invoice was cancelled, or before the owner
-            // recorded a transfer or cash payment: give the card payment back.
+          } else if (
+            row.status === 'cancelled' ||
+            ((row.status === 'paid' || row.status === 'refunded') && row.payment_intent_id !== event.paymentId)
+          ) {
+            // Paid on a payment page opened before the invoice was cancelled, or before it was paid
+            // another way (a recorded transfer or cash, or by card on another payment page): give
+            // this card payment back, so nobody pays twice.
             refundVoided = event.paymentId;
           } else {
             logger.warn({ invoiceId: row.id, status: row.status }, 'payment for an invoice that is not issued');

@@ -100,6 +100,15 @@ export function skipLocked(db: Knex, query: Knex.QueryBuilder): Knex.QueryBuilde
 }
 
 /**
+ * Adds `FOR UPDATE` on PostgreSQL, so a transaction that reads a row this way waits for another
+ * one holding it (e.g. a clinic's row while an invoice number is given); SQLite has one writer at
+ * a time and needs none.
+ */
+export function lockedForUpdate(db: Knex, query: Knex.QueryBuilder): Knex.QueryBuilder {
+  return isPostgres(db) ? query.forUpdate() : query;
+}
+
+/**
  * Whether `err` is PostgreSQL refusing a value for its column (SQLSTATE class 22: a number out of
  * range, text longer than its `varchar(n)`, a malformed number). SQLite stores such values as they
  * come; the API answers 400 for them on PostgreSQL instead of failing.

@@ -1,13 +1,13 @@
 import type { SessionUser } from '../../src/contracts/api';
 import type { PlanDetail, PlanSummary } from '../../src/contracts/plans';
 import { audit } from '../audit/audit-log';
-import { ConflictError, ValidationError } from '../errors';
+import { AppError, ConflictError, ValidationError } from '../errors';
 import { accessibleAthlete } from '../policy/athlete-resources';
 import { listGrant } from '../policy/enforce';
 import type { PlanContext } from './plan-context';
 import { checkAssessment, checkExercises, checkStageExerciseIds, writeStages, type PlanProblem } from './plan-stages';
 import { plansRepository as repo } from './plans-repository';
-import type { PlanInput } from './plans-schemas';
+import type { PlanInput, PlanPutInput } from './plans-schemas';
 
 /** A plan's content: the athlete's plans, one plan, and writing its stages and exercises. */
 export interface PlanContentService {
@@ -16,8 +16,12 @@ export interface PlanContentService {
   get(user: SessionUser, id: number): Promise<PlanDetail>;
   /** A draft with its stages, exercises, doses and criteria, in one transaction. */
   create(user: SessionUser, athleteId: number, input: PlanInput): Promise<PlanDetail>;
-  /** Replaces title, link, notes and stages. Stages with logs (or the current one) must stay. */
-  replace(user: SessionUser, id: number, input: PlanInput): Promise<PlanDetail>;
+  /**
+   * Replaces title, link, notes and stages. Stages with logs (or the current one) must stay. With
+   * `baseRevision`, 409 `stale_revision` (and the plan as stored, in `details.current`) when
+   * someone saved the plan since that revision; nothing is written then.
+   */
+  replace(user: SessionUser, id: number, input: PlanPutInput): Promise<PlanDetail>;
   /** Deletes a draft (409 `plan_not_draft` otherwise). */
   remove(user: SessionUser, id: number): Promise<void>;
 }
@@ -60,6 +64,7 @@ export function planContentService(ctx: PlanContext): PlanContentService {
           created_by: user.id,
           created_at: at,
           updated_at: at,
+          revision: 0,
         });
         await writeStages(trx, user.clinicId, planId, input, [], [], at);
         await repo.putRule(trx, user.clinicId, planId, repo.ruleDefault(), user.id, at);
@@ -102,15 +107,18 @@ export function planContentService(ctx: PlanContext): PlanContentService {
       const used = new Set(existingItems.map((e) => e.exercise_id));
       await checkExercises(db, user.clinicId, input, used);
       const at = ctx.now();
-      await db.transaction(async (trx) => {
-        await repo.update(trx, id, { title: input.title, assessment_id: input.assessmentId, notes: input.notes, updated_at: at });
+      const saved = await db.transaction(async (trx) => {
+        const patch = { title: input.title, assessment_id: input.assessmentId, notes: input.notes, updated_at: at };
+        if (!(await repo.updateContent(trx, id, input.baseRevision, patch))) return false;
         await writeStages(trx, user.clinicId, id, input, existing, existingItems, at);
         await audit(
           trx,
           { clinicId: user.clinicId, actorId: user.id, athleteId: plan.athlete_id, action: 'plan.updated', detail: { planId: id } },
           at,
         );
+        return true;
       });
+      if (!saved) throw staleRevision(await ctx.get(user, id));
       return ctx.get(user, id);
     },
 
@@ -129,4 +137,14 @@ export function planContentService(ctx: PlanContext): PlanContentService {
       });
     },
   };
+}
+
+/** 409 `stale_revision` with the plan as stored now: another save came after the revision the edit started from. */
+function staleRevision(current: PlanDetail): AppError {
+  return new AppError(
+    409,
+    'stale_revision',
+    'Someone else saved this plan after you opened it, so your changes were not saved. Reload the plan to see theirs, then make your changes again.',
+    { current },
+  );
 }

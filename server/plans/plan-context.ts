@@ -113,6 +113,7 @@ export function planContext(deps: PlansDeps): PlanContext {
     return {
       ...summary!,
       notes: may(user, 'plan:read-notes') ? plan.notes : null,
+      revision: plan.revision,
       painRule: rules.get(plan.id) ?? repo.ruleDefault(),
       stages: stages.map((s): PlanStage => {
         const own = items.filter((i) => i.stage_id === s.id);

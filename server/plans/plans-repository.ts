@@ -17,6 +17,8 @@ export interface PlanRow {
   created_by: number | null;
   created_at: string;
   updated_at: string;
+  /** Raised by one on every save of the plan's content. */
+  revision: number;
 }
 
 export interface StageRow {
@@ -102,6 +104,15 @@ export const plansRepository = {
 
   async update(db: Knex, id: number, patch: Partial<PlanRow>): Promise<void> {
     await db('plans').where({ id }).update(patch);
+  },
+  /**
+   * Writes a plan's content fields and raises its revision, only while the stored revision is
+   * `baseRevision` (any revision when it is undefined); answers whether the row was written.
+   */
+  async updateContent(db: Knex, id: number, baseRevision: number | undefined, patch: Partial<PlanRow>): Promise<boolean> {
+    const q = db('plans').where({ id });
+    if (baseRevision !== undefined) q.andWhere('revision', baseRevision);
+    return (await q.update({ ...patch, revision: db.raw('revision + 1') })) > 0;
   },
 
   stages(db: Knex, planIds: number[]): Promise<StageRow[]> {

@@ -108,6 +108,16 @@ export const PlanBody = z.strictObject({
 });
 export type PlanInput = z.output<typeof PlanBody>;
 
+/** Body of PUT /api/plans/:id: the plan, and the revision the edit started from (a newer stored one answers 409). */
+export const PlanPutBody = PlanBody.extend({
+  baseRevision: z
+    .number('Revision must be a number.')
+    .int('Revision must be a whole number.')
+    .min(0, 'Revision must be 0 or more.')
+    .optional(),
+});
+export type PlanPutInput = z.output<typeof PlanPutBody>;
+
 export const TransitionBody = z.strictObject({ action: z.enum(PLAN_ACTIONS, 'Choose start, advance, pause, resume or finish.') });
 
 export const PainRuleBody = z.strictObject({

@@ -11,6 +11,7 @@ import {
   MorningBody,
   PainRuleBody,
   PlanBody,
+  PlanPutBody,
   PlanKeyParams,
   TransitionBody,
 } from './plans-schemas';
@@ -53,7 +54,7 @@ export function plansRoutes({ exercises, plans }: { exercises: ExercisesService;
   });
   router.put('/plans/:id', permit('plan:update'), async (req, res) => {
     const planId = id(req.params, 'Plan');
-    res.json(await plans.replace(currentUser(req), planId, parse(PlanBody, req.body)));
+    res.json(await plans.replace(currentUser(req), planId, parse(PlanPutBody, req.body)));
   });
   router.delete('/plans/:id', permit('plan:delete'), async (req, res) => {
     await plans.remove(currentUser(req), id(req.params, 'Plan'));

@@ -250,6 +250,8 @@ export interface PlanSummary {
 export interface PlanDetail extends PlanSummary {
   /** Coach-only free text; null for athletes. */
   notes: string | null;
+  /** Raised by one on every save of the content (PUT); an edit names the one it started from as `baseRevision`. */
+  revision: number;
   painRule: PainRule;
   stages: PlanStage[];
 }
@@ -260,6 +262,11 @@ export interface PlanWrite {
   assessmentId: number | null;
   notes: string | null;
   stages: StageWrite[];
+  /**
+   * PUT only: the `revision` of the plan the edit started from; when someone saved the plan since,
+   * the PUT answers 409 `stale_revision` with the stored plan in `details.current` and writes nothing.
+   */
+  baseRevision?: number;
 }
 
 export interface StageWrite {

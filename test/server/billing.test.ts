@@ -263,6 +263,26 @@ describe('invoices', () => {
     expect((await o.post(`/api/invoices/${first.id}/issue`)).status).toBe(409);
   });
 
+  it('twenty drafts issued at once get twenty consecutive numbers: no gap, no duplicate, no error', async () => {
+    const drafts = [];
+    for (let i = 0; i < 20; i++) drafts.push(await draft());
+    const answers = await Promise.all(drafts.map((d) => o.post(`/api/invoices/${d.id}/issue`)));
+    expect(answers.map((r) => r.status)).toEqual(drafts.map(() => 200));
+    const numbers = answers.map((r) => Number((r.body as InvoiceDetail).number!.split('-')[2])).sort((x, y) => x - y);
+    expect(numbers).toEqual(numbers.map((_, i) => numbers[0]! + i));
+  });
+
+  it('numbering goes on past 9999 as 10000, 10001 (the highest number is read as a number, not as text)', async () => {
+    const year = new Date().getUTCFullYear();
+    const last = await issued();
+    await t
+      .db('invoices')
+      .where({ id: last.id })
+      .update({ number: `TF-${year}-9999` });
+    expect((await issued()).number).toBe(`TF-${year}-10000`);
+    expect((await issued()).number).toBe(`TF-${year}-10001`);
+  });
+
   it('lists with filters and totals; the athlete sees only their own issued invoices', async () => {
     const open = await issued();
     const d = await draft();
@@ -522,6 +542,22 @@ describe('card payment through the fake payment service', () => {
     await t.fakePayments!.idle();
     expect((await o.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'cancelled', paidAt: null });
     expect(t.fakePayments!.events.slice(-2).map((e) => e.type)).toEqual(['checkout.session.completed', 'charge.refunded']);
+  });
+
+  it('a second card payment of a paid invoice (on a payment page opened before) is refunded at once; the first is kept', async () => {
+    const inv = await issued();
+    const first = await a.post(`/api/invoices/${inv.id}/checkout`);
+    const second = await a.post(`/api/invoices/${inv.id}/checkout`);
+    expect((await fetch(`${first.body.url}/pay`, { method: 'POST', redirect: 'manual' })).status).toBe(303);
+    await t.fakePayments!.idle();
+    const paid = (await t.db('invoices').where({ id: inv.id }).first()) as { payment_intent_id: string };
+    expect((await fetch(`${second.body.url}/pay`, { method: 'POST', redirect: 'manual' })).status).toBe(303);
+    await t.fakePayments!.idle();
+    expect(t.fakePayments!.events.slice(-2).map((e) => e.type)).toEqual(['checkout.session.completed', 'charge.refunded']);
+    const refunded = JSON.parse(t.fakePayments!.events.at(-1)!.payload).data.object as { payment_intent: string };
+    expect(refunded.payment_intent).not.toBe(paid.payment_intent_id);
+    expect((await o.get(`/api/invoices/${inv.id}`)).body).toMatchObject({ status: 'paid', paymentMethod: 'card', refundedAt: null });
+    expect((await t.db('invoices').where({ id: inv.id }).first()).payment_intent_id).toBe(paid.payment_intent_id);
   });
 
   it('the same event delivered twice is processed once', async () => {

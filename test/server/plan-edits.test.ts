@@ -202,3 +202,34 @@ describe('a session queued offline before the coach edited the plan', () => {
     expect(again.body.id).toBe(res.body.id);
   });
 });
+
+describe('two coaches editing one plan', () => {
+  it('the later save from the older revision gets 409 stale_revision with the stored plan, and writes nothing; the athlete’s log stays', async () => {
+    const [, , second] = DEMO_SIGN_INS;
+    const c2 = await signedIn(t.app, second!.email, second!.password);
+    expect((await a.post(`/api/plans/${plan.id}/logs`, queuedLog(plan))).status).toBe(201);
+    const first = (await c.get(`/api/plans/${plan.id}`)).body as PlanDetail;
+    const other = (await c2.get(`/api/plans/${plan.id}`)).body as PlanDetail;
+    const mine = { ...asWrite(first), title: 'Saved first', baseRevision: first.revision };
+    mine.stages[1]!.targetWeeks = 5;
+    const saved = await c.put(`/api/plans/${plan.id}`, mine);
+    expect(saved.status, JSON.stringify(saved.body)).toBe(200);
+    expect(saved.body.revision).toBe(first.revision + 1);
+
+    const stale = await c2.put(`/api/plans/${plan.id}`, { ...asWrite(other), title: 'From the older copy', baseRevision: other.revision });
+    expect(stale.status).toBe(409);
+    expect(stale.body.error.code).toBe('stale_revision');
+    expect(stale.body.error.details.current).toMatchObject({ id: plan.id, title: 'Saved first', revision: first.revision + 1 });
+    const stored = (await c.get(`/api/plans/${plan.id}`)).body as PlanDetail;
+    expect(stored).toMatchObject({ title: 'Saved first', revision: first.revision + 1 });
+    expect(stored.stages[1]!.targetWeeks).toBe(5);
+
+    // From the stored copy the second coach's save goes through; the log entry is still there.
+    const current: PlanDetail = stale.body.error.details.current;
+    const again = await c2.put(`/api/plans/${plan.id}`, { ...asWrite(current), title: 'Saved second', baseRevision: current.revision });
+    expect(again.status, JSON.stringify(again.body)).toBe(200);
+    expect(again.body).toMatchObject({ title: 'Saved second', revision: first.revision + 2 });
+    expect((await a.get(`/api/plans/${plan.id}/logs`)).body.logs).toHaveLength(1);
+    expect((await c.put(`/api/plans/${plan.id}`, { ...mine, baseRevision: -1 })).status).toBe(422);
+  });
+});

@@ -239,8 +239,10 @@ export class PlanBuilder implements LeaveGuarded {
     const athleteId = this.athleteId();
     if (athleteId === null) return;
     this.busy.set(true);
-    const body = planFromForm(f.getRawValue());
     const id = this.id();
+    const editedFrom = this.plan.value();
+    // An edit names the revision it started from: a plan saved by someone else meanwhile answers 409 instead of being overwritten.
+    const body = { ...planFromForm(f.getRawValue()), ...(id !== undefined && editedFrom ? { baseRevision: editedFrom.revision } : {}) };
     try {
       const saved = await firstValueFrom(id !== undefined ? this.api.replacePlan(Number(id), body) : this.api.createPlan(athleteId, body));
       this.saved = true;
