@@ -144,6 +144,10 @@ export function invitationsService({ db, mailer, config, clock }: InvitationsDep
           throw new ConflictError('Someone already has an account with this e-mail address.', 'email_in_use');
         }
         const at = clock().toISOString();
+        // Claimed only while still unused: on PostgreSQL a second accept at the same moment waits for
+        // this one and then finds the invitation used.
+        const claimed = await trx('invitations').where({ id: row.id }).whereNull('used_at').update({ used_at: at });
+        if (!claimed) throw new GoneError('This invitation has already been used.', 'token_used');
         const userId = await usersRepository.insert(trx, {
           clinic_id: row.clinic_id,
           email: row.email,
@@ -155,7 +159,6 @@ export function invitationsService({ db, mailer, config, clock }: InvitationsDep
           created_at: at,
           updated_at: at,
         });
-        await trx('invitations').where({ id: row.id }).update({ used_at: at });
         if (row.athlete_id) {
           const linked = await trx('athletes')
             .where({ id: row.athlete_id, clinic_id: row.clinic_id })

@@ -89,7 +89,10 @@ export function passwordResetsService({ db, mailer, config, clock, logger, onPas
           .first();
         if (!row || row.used_at) throw new GoneError('This reset link has already been used.', 'token_used');
         const at = clock().toISOString();
-        await trx('password_resets').where({ id: row.id }).update({ used_at: at });
+        // Claimed only while still unused: on PostgreSQL a second use of the link at the same moment
+        // waits for this one and then finds it used.
+        const claimed = await trx('password_resets').where({ id: row.id }).whereNull('used_at').update({ used_at: at });
+        if (!claimed) throw new GoneError('This reset link has already been used.', 'token_used');
         await usersRepository.setPassword(trx, row.user_id, passwordHash, at);
         const user = await usersRepository.findById(trx, row.user_id);
         // Sign out every existing session of this user.

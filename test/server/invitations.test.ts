@@ -41,6 +41,28 @@ describe('coach invitations (owner)', () => {
     expect(again.body.error.code).toBe('token_used');
   });
 
+  it('one link used twice at the same moment: one accept and one password reset succeed, the other answers 410 token_used', async () => {
+    const o = await signedIn(t.app, owner.email, owner.password);
+    await o.post('/api/staff/invitations', { email: 'race@larchwood-clinic.test', name: 'Race Pair' });
+    const invite = tokenOf(t.mailer.lastLinkTo('race@larchwood-clinic.test'));
+    const accepts = await Promise.all(
+      [1, 2].map(() => new Client(t.app).post(`/api/invitations/${invite}/accept`, { name: 'Race Pair', password: 'a-long-password' })),
+    );
+    expect(accepts.map((r) => r.status).sort()).toEqual([201, 410]);
+    expect(accepts.find((r) => r.status === 410)!.body.error.code).toBe('token_used');
+    expect(await t.db('users').where({ email: 'race@larchwood-clinic.test' })).toHaveLength(1);
+
+    await new Client(t.app).post('/api/password-resets', { email: coach.email });
+    const reset = tokenOf(t.mailer.lastLinkTo(coach.email));
+    const uses = await Promise.all(
+      ['first-new-password', 'second-new-password'].map((password) =>
+        new Client(t.app).post(`/api/password-resets/${reset}`, { password }),
+      ),
+    );
+    expect(uses.map((r) => r.status).sort()).toEqual([204, 410]);
+    expect(uses.find((r) => r.status === 410)!.body.error.code).toBe('token_used');
+  });
+
   it('refuses expired links (410) and unknown links (404)', async () => {
     const o = await signedIn(t.app, owner.email, owner.password);
     await o.post('/api/staff/invitations', { email: 'late@larchwood-clinic.test', name: 'Late Comer' });
