@@ -97,19 +97,31 @@ export function planContentService(ctx: PlanContext): PlanContentService {
       if (problems.length) throw new ValidationError(`Stages: ${problems[0]!.message}`, problems);
       const kept = new Set(input.stages.map((s) => s.id));
       const removed = existing.filter((s) => !kept.has(s.id));
-      const counts = await repo.logCountByStage(
-        db,
-        removed.map((s) => s.id),
-      );
-      const blocked = removed.find((s) => s.id === plan.current_stage_id || (counts.get(s.id) ?? 0) > 0 || s.started_at !== null);
-      if (blocked)
-        throw new ConflictError(`Stage “${blocked.name}” has started or has log entries, so it cannot be removed.`, 'stage_in_use');
+      // A removed stage must not have started or have log entries (removing it would delete them).
+      // Checked before the exercises, and again inside the save's transaction against the rows as
+      // they are then: a log sent or a stage advanced in between must not be deleted with it.
+      const refuseStagesInUse = async (q: typeof db): Promise<void> => {
+        const now = await repo.stages(q, [id]);
+        const current = (await q('plans').where({ id }).first<{ current_stage_id: number | null } | undefined>('current_stage_id'))
+          ?.current_stage_id;
+        const counts = await repo.logCountByStage(
+          q,
+          removed.map((s) => s.id),
+        );
+        const blocked = removed.find(
+          (s) => s.id === current || (counts.get(s.id) ?? 0) > 0 || now.find((n) => n.id === s.id)?.started_at != null,
+        );
+        if (blocked)
+          throw new ConflictError(`Stage “${blocked.name}” has started or has log entries, so it cannot be removed.`, 'stage_in_use');
+      };
+      await refuseStagesInUse(db);
       const used = new Set(existingItems.map((e) => e.exercise_id));
       await checkExercises(db, user.clinicId, input, used);
       const at = ctx.now();
       const saved = await db.transaction(async (trx) => {
         const patch = { title: input.title, assessment_id: input.assessmentId, notes: input.notes, updated_at: at };
         if (!(await repo.updateContent(trx, id, input.baseRevision, patch))) return false;
+        if (removed.length) await refuseStagesInUse(trx);
         await writeStages(trx, user.clinicId, id, input, existing, existingItems, at);
         await audit(
           trx,

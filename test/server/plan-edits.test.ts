@@ -4,7 +4,8 @@
  * the athlete queued before an edit is accepted — matched by exercise when its stage exercise was
  * replaced, or kept and flagged for the coach when its exercise left the stage.
  */
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { plansRepository } from '../../server/plans/plans-repository';
 import { makeTestApp, signedIn, type Client, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import type { Exercise, LogWrite, PlanDetail, PlanWrite } from '../../src/contracts/plans';
@@ -231,5 +232,32 @@ describe('two coaches editing one plan', () => {
     expect(again.body).toMatchObject({ title: 'Saved second', revision: first.revision + 2 });
     expect((await a.get(`/api/plans/${plan.id}/logs`)).body.logs).toHaveLength(1);
     expect((await c.put(`/api/plans/${plan.id}`, { ...mine, baseRevision: -1 })).status).toBe(422);
+  });
+});
+
+describe('a stage removed by an edit while the plan moves on to it', () => {
+  it('is refused with 409 stage_in_use when the plan advanced between the checks and the save, and the stage stays', async () => {
+    const next = plan.stages.find((st) => st.id !== plan.currentStageId)!;
+    const body = asWrite(plan);
+    body.stages = body.stages.filter((st) => st.id !== next.id);
+    // Another coach advances the plan to that stage just after this edit's first check (as if the two
+    // requests interleaved): the check inside the save's transaction must see it.
+    const original = plansRepository.logCountByStage.bind(plansRepository);
+    const spy = vi.spyOn(plansRepository, 'logCountByStage').mockImplementationOnce(async (db, ids) => {
+      const counts = await original(db, ids);
+      await t.db('plan_stages').where({ id: next.id }).update({ started_at: new Date().toISOString() });
+      await t.db('plans').where({ id: plan.id }).update({ current_stage_id: next.id });
+      return counts;
+    });
+    try {
+      const res = await c.put(`/api/plans/${plan.id}`, body);
+      expect(res.status, JSON.stringify(res.body)).toBe(409);
+      expect(res.body.error.code).toBe('stage_in_use');
+    } finally {
+      spy.mockRestore();
+    }
+    const after = (await c.get(`/api/plans/${plan.id}`)).body as PlanDetail;
+    expect(after.stages.map((st) => st.id)).toContain(next.id);
+    expect(after.currentStageId).toBe(next.id);
   });
 });
