@@ -81,7 +81,8 @@ export function clipUploadsRoutes(d: ClipUploadsRoutesDeps): Router {
   );
   router.head(ONE, permit('clip:upload'), async (req, res, next) => {
     const context = await owned(req);
-    const { finished } = context.owner;
+    // All bytes held but no clip: the server stopped while accepting it; accepted now.
+    const finished = context.owner.finished ?? (await d.uploads.acceptStranded(String(req.params['uploadId']), context));
     if (!finished) {
       await gate(async () => context)(req, res, next);
       return;

@@ -187,6 +187,28 @@ describe('acceptance of the finished upload', () => {
     expect((await t.db('clips').count<{ n: number }[]>({ n: '*' }))[0]!.n).toBe(clipsBefore);
     expect((await tusHead(coachSession, created.location!)).status).toBe(404);
   });
+
+  it('an upload holding every byte whose acceptance a server stop cut short is accepted at the next HEAD, once', async () => {
+    const size = fs.statSync(clip).size;
+    const created = await tusCreate(base, coachSession, assessmentId, size, { filename: 'stranded.mp4' });
+    const id = created.location!.split('/').pop()!;
+    // What a SIGKILL during the last PATCH's acceptance leaves: the part holds every byte, its
+    // details no clip. A tus client that asks HEAD and hears "complete" never sends it again.
+    fs.copyFileSync(clip, path.join(partsDir(), id));
+    const clipsBefore = (await t.db('clips').count<{ n: number }[]>({ n: '*' }))[0]!.n;
+
+    const [head, again] = await Promise.all([tusHead(coachSession, created.location!), tusHead(coachSession, created.location!)]);
+    expect(head).toMatchObject({ status: 200, offset: size, length: size });
+    const clipId = Number(head.headers['trailframe-clip-id']);
+    expect(clipId).toBeGreaterThan(0);
+    expect(again.headers['trailframe-clip-id']).toBe(String(clipId));
+    expect((await t.db('clips').count<{ n: number }[]>({ n: '*' }))[0]!.n).toBe(clipsBefore + 1);
+    // Outside reference: the source file's own bytes.
+    expect(await t.store.withLocalFile(`clips/${clipId}/original.mp4`, (stored) => sha256(stored))).toBe(await sha256(clip));
+    expect(parts().filter((n) => n.startsWith(id))).toEqual([`${id}.json`]);
+    await t.worker!.idle();
+    expect((await json(coachSession, 'GET', `/api/clips/${clipId}`)).body).toMatchObject({ status: 'ready', originalName: 'stranded.mp4' });
+  });
 });
 
 describe('abandoned partial uploads', () => {
