@@ -16,7 +16,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, OTHER, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { signIn } from '../bench/support/bench-server';
-import { sha256, tusCreate, tusHead, tusPatch, tusPatchCut, type TusSession } from '../support/tus-client';
+import { sha256, tusCreate, tusHead, tusHeaders, tusPatch, tusPatchCut, type TusSession } from '../support/tus-client';
 import { makeClip, tempDir } from './media/fixtures';
 import { resumableUploads } from '../../server/clips/resumable-uploads';
 import { resumableUploadDir } from '../../server/storage/upload-temps';
@@ -168,6 +168,38 @@ describe('the same gate as a one-request upload', () => {
     expect(parts()).toEqual(before);
     expect((await tusCreate(base, coachSession, assessmentId, 'lots')).status).toBe(422);
     expect((await tusCreate(base, coachSession, assessmentId, 0)).status).toBe(422);
+  });
+});
+
+describe('malformed protocol headers', () => {
+  it('are refused before the protocol library sees them: 400 bad_upload in our error shape, naming the header, the upload untouched', async () => {
+    const size = fs.statSync(clip).size;
+    const created = await tusCreate(base, coachSession, assessmentId, size, { filename: 'run.mp4' });
+    const url = created.location!;
+    const bytes = fs.readFileSync(clip).subarray(0, 1000);
+    const octets = 'application/offset+octet-stream';
+    const cases: Array<[string, Record<string, string>, string]> = [
+      ['PATCH', { 'upload-offset': '-1', 'content-type': octets }, 'Upload-Offset'],
+      ['PATCH', { 'upload-offset': 'abc', 'content-type': octets }, 'Upload-Offset'],
+      ['PATCH', { 'upload-offset': '007', 'content-type': octets }, 'Upload-Offset'],
+      ['PATCH', { 'upload-offset': '0', 'content-type': `${octets}; charset=utf-8` }, 'Content-Type'],
+      ['PATCH', { 'upload-offset': '0', 'content-type': octets, 'x-forwarded-proto': 'gopher' }, 'X-Forwarded-Proto'],
+    ];
+    for (const [method, headers, named] of cases) {
+      const res = await fetch(url, { method, headers: tusHeaders(coachSession, headers), body: bytes });
+      expect(res.status, JSON.stringify(headers)).toBe(400);
+      expect(res.headers.get('content-type')).toMatch(/application\/json/);
+      const body = (await res.json()) as { error: { code: string; message: string } };
+      expect(body.error.code).toBe('bad_upload');
+      expect(body.error.message).toContain(named);
+    }
+    const metadata = await fetch(`${base}/api/assessments/${assessmentId}/clip-uploads`, {
+      method: 'POST',
+      headers: tusHeaders(coachSession, { 'upload-length': '10', 'upload-metadata': 'filename !!!' }),
+    });
+    expect(metadata.status).toBe(400);
+    expect(((await metadata.json()) as { error: { code: string; message: string } }).error.message).toContain('Upload-Metadata');
+    expect((await tusHead(coachSession, url)).offset).toBe(0);
   });
 });
 
