@@ -10,6 +10,8 @@ import { makeTestApp, OTHER, signedIn, storedNames, type Client, type TestApp } 
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { ffmpegRun, ffprobeCounted, makeClip, tempDir } from './media/fixtures';
 import { baselineVisit } from '../support/bodies';
+import { assessmentPrefix } from '../../server/storage/media-keys';
+import { putJson } from '../../server/storage/stored-objects';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -222,6 +224,32 @@ describe('upload and processing', () => {
     expect((await c.delete(`/api/clips/${id}`)).status).toBe(204);
     expect(await t.db('clips').where({ id })).toHaveLength(0);
     expect(await t.store.list(prefix)).toEqual([]);
+  });
+
+  it("a server stop while an assessment's files are removed leaves the assessment, so deleting it again removes the rest", async () => {
+    const visit = await c.post(`/api/athletes/${adaId}/assessments`, baselineVisit());
+    const id = visit.body.id as number;
+    const clipId = (await upload(c, id, good)).body.id as number;
+    await ready();
+    // A visit summary's PDF lives under the assessment's prefix.
+    await putJson(t.store, `${assessmentPrefix(id)}summaries/1.pdf`, { stands: 'for a PDF' });
+    // The stop comes as the assessment's own folder is removed (its clips are gone by then).
+    const original = t.store.removePrefix.bind(t.store);
+    let stopped = false;
+    const removePrefix = vi.spyOn(t.store, 'removePrefix').mockImplementation(async (p) => {
+      if (stopped || !p.startsWith('assessments/')) return original(p);
+      stopped = true;
+      throw new Error('the server stopped');
+    });
+    try {
+      expect((await c.delete(`/api/assessments/${id}`)).status).not.toBe(204);
+    } finally {
+      removePrefix.mockRestore();
+    }
+    expect((await c.get(`/api/assessments/${id}`)).status).toBe(200);
+    expect((await c.delete(`/api/assessments/${id}`)).status).toBe(204);
+    expect(await t.store.list(`clips/${clipId}/`)).toEqual([]);
+    expect(await t.store.list(assessmentPrefix(id))).toEqual([]);
   });
 });
 
