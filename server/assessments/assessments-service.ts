@@ -124,8 +124,11 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
       const row = await clips.accessibleAssessment(user, id, 'assessment:delete');
       const clipIds = await clipsRepository.idsForAssessment(db, id);
       await clips.removeClips(clipIds.map((clipId) => ({ id: clipId, assessment_id: id })));
+      // Visit summaries' PDFs are kept under the assessment's prefix: removed before the row, so a
+      // server stop halfway leaves the assessment to delete again; once more after, for a render
+      // that finished meanwhile.
+      await store.removePrefix(assessmentPrefix(id));
       await db('assessments').where({ id }).delete();
-      // Visit summaries' PDFs are kept under the assessment's prefix.
       await store.removePrefix(assessmentPrefix(id));
       await audit(db, {
         clinicId: user.clinicId,

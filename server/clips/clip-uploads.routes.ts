@@ -1,3 +1,4 @@
+import { Metadata } from '@tus/server';
 import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
 import { AppError, NotFoundError, ValidationError } from '../errors';
 import { currentUser } from '../http/access';
@@ -16,6 +17,42 @@ export interface ClipUploadsRoutesDeps {
 const COLLECTION = '/assessments/:id/clip-uploads';
 const ONE = '/assessments/:id/clip-uploads/:uploadId';
 
+/** Whole bytes as the protocol writes them (no sign, no leading zero). */
+const BYTES = /^(0|[1-9]\d{0,15})$/;
+
+/**
+ * The protocol headers `@tus/server` checks itself, where it would answer a plain-text 400; checked
+ * first here so the refusal is in our error shape (Upload-Length is checked where an upload is made).
+ */
+const PROTOCOL_HEADERS: Record<string, { name: string; valid: (value: string, method: string) => boolean }> = {
+  'upload-offset': { name: 'Upload-Offset', valid: (v) => BYTES.test(v) },
+  'upload-defer-length': { name: 'Upload-Defer-Length', valid: (v) => v === '1' },
+  'upload-metadata': { name: 'Upload-Metadata', valid: validMetadata },
+  'upload-concat': { name: 'Upload-Concat', valid: (v) => v === 'partial' || v.startsWith('final;') },
+  'tus-version': { name: 'Tus-Version', valid: (v) => v === '1.0.0' },
+  'x-forwarded-proto': { name: 'X-Forwarded-Proto', valid: (v) => v === 'http' || v === 'https' },
+  'content-type': { name: 'Content-Type', valid: (v, method) => method !== 'PATCH' || v === 'application/offset+octet-stream' },
+};
+
+function validMetadata(value: string): boolean {
+  try {
+    Metadata.parse(value);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** 400 `bad_upload` naming the first malformed protocol header, before the protocol library answers in plain text. */
+function checkProtocolHeaders(req: Request): void {
+  for (const [header, rule] of Object.entries(PROTOCOL_HEADERS)) {
+    const value = req.headers[header];
+    if (typeof value === 'string' && !rule.valid(value, req.method)) {
+      throw new AppError(400, 'bad_upload', `The ${rule.name} header of this resumable upload request is malformed.`);
+    }
+  }
+}
+
 /**
  * Resumable clip uploads (tus 1.0.0): POST creates an upload of a declared length, HEAD answers
  * its offset, PATCH continues from it, DELETE abandons it. Every request passes the same gate as
@@ -33,6 +70,7 @@ export function clipUploadsRoutes(d: ClipUploadsRoutesDeps): Router {
     if (req.headers['tus-resumable'] !== '1.0.0') {
       throw new AppError(412, 'tus_version_required', 'Resumable uploads speak tus 1.0.0: send the header Tus-Resumable: 1.0.0.');
     }
+    checkProtocolHeaders(req);
     return { user, assessmentId };
   }
 
@@ -81,7 +119,8 @@ export function clipUploadsRoutes(d: ClipUploadsRoutesDeps): Router {
   );
   router.head(ONE, permit('clip:upload'), async (req, res, next) => {
     const context = await owned(req);
-    const { finished } = context.owner;
+    // All bytes held but no clip: the server stopped while accepting it; accepted now.
+    const finished = context.owner.finished ?? (await d.uploads.acceptStranded(String(req.params['uploadId']), context));
     if (!finished) {
       await gate(async () => context)(req, res, next);
       return;

@@ -122,6 +122,10 @@ export function clipsService(d: ClipsDeps): ClipsService {
   async function removeClips(rows: Pick<ClipRow, 'id' | 'assessment_id'>[]): Promise<void> {
     for (const row of rows) {
       await processing.cancel('clip', row.id);
+      // Files before the row: a server stop halfway leaves the row, so deleting again removes the
+      // rest (never files no row names). Once more after the row, for frames an extraction running
+      // elsewhere wrote meanwhile (it removes its own once it finds the row gone).
+      await store.removePrefix(clipKeys(row.id).prefix);
       await db('clips').where({ id: row.id }).delete();
       await store.removePrefix(clipKeys(row.id).prefix);
     }

@@ -84,7 +84,11 @@ export function extractFramesKind(d: { db: Db; store: MediaStore; logger: Logger
         }
         return manifest;
       } catch (err) {
-        // Nothing half-made stays (extractFrames removed its frames); a later attempt plans again.
+        // Nothing half-made stays: extractFrames removed its local frames, and those already
+        // published (an object store holds them apart from the local folder) go here; a later
+        // attempt plans again.
+        await store.removePrefix(`${keys.prefix}${FRAMES_DIR}/`);
+        await store.removePrefix(`${keys.prefix}${THUMBS_DIR}/`);
         await store.remove(keys.manifest);
         if (!(await repo.findById(db, clipId))) await store.removePrefix(keys.prefix);
         if (err instanceof MediaError && err.code !== 'tool_missing' && err.code !== 'aborted') {

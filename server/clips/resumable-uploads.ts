@@ -5,7 +5,7 @@ import path from 'node:path';
 import { FileStore } from '@tus/file-store';
 import { Server, type Upload } from '@tus/server';
 import type { Logger } from 'pino';
-import type { SessionUser } from '../../src/contracts/api';
+import type { Clip, SessionUser } from '../../src/contracts/api';
 import { AppError } from '../errors';
 import type { ClipsService } from './clips-service';
 
@@ -43,6 +43,11 @@ export interface ResumableUploads {
   handle(req: Request, res: Response, context: UploadRequestContext): Promise<void>;
   /** Who created the upload `id`, or null when there is no such upload (or its id is malformed). */
   owner(id: string): Promise<UploadOwner | null>;
+  /**
+   * Accepts an upload that holds every byte but names no clip (the server stopped while accepting
+   * it) and answers what it became; null for any other upload. A refusal is thrown (the partial goes).
+   */
+  acceptStranded(id: string, context: UploadRequestContext): Promise<UploadOwner['finished']>;
   /** Removes partial uploads not written for `olderThanMs` (0: all not in flight). Returns their ids. */
   sweep(olderThanMs: number): Promise<string[]>;
   /** Removes every partial upload (in flight or not) to one of these assessments: their bytes go with an erased athlete's clips. */
@@ -124,6 +129,62 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
     return context;
   };
 
+  /**
+   * Accepts an upload's finished bytes as a clip (the same acceptance as a one-request upload), then
+   * keeps in its details the clip it became; a refusal removes the partial and its details.
+   */
+  async function accept(id: string, metadata: Upload['metadata'], size: number, context: UploadRequestContext): Promise<Clip> {
+    try {
+      const clip = await d.clips.acceptUpload(context.user, context.assessmentId, {
+        path: partPath(id),
+        originalname: uploadName(metadata),
+        size,
+      });
+      await fs.promises.rm(partPath(id), { force: true });
+      // What stays until the sweep: who it was for and the clip it became, so a client whose
+      // answer was lost learns from HEAD that it is complete instead of sending it again.
+      const finished = { size, clipId: clip.id };
+      await fs.promises.writeFile(detailsPath(id), JSON.stringify({ id, metadata, finished }));
+      return clip;
+    } catch (err) {
+      await removeParts(id);
+      throw err;
+    }
+  }
+
+  /** Acceptances of stranded uploads running in this process, by upload id (one at a time each). */
+  const recovering = new Map<string, Promise<UploadOwner['finished']>>();
+
+  /**
+   * An upload whose part holds every declared byte but whose details name no clip was being
+   * accepted when the server stopped (SIGKILL during the last PATCH). A tus client that hears
+   * "complete" from HEAD never sends it again, so it is accepted now; null for any other upload.
+   */
+  async function acceptStranded(id: string, context: UploadRequestContext): Promise<UploadOwner['finished']> {
+    const running = recovering.get(id);
+    if (running) return running;
+    if (!UPLOAD_ID.test(id) || inFlight.has(id)) return null;
+    const attempt = (async () => {
+      const details = JSON.parse(await fs.promises.readFile(detailsPath(id), 'utf8').catch(() => 'null')) as
+        (Pick<Upload, 'metadata' | 'size'> & { finished?: UploadOwner['finished'] }) | null;
+      if (!details || details.finished || typeof details.size !== 'number') return details?.finished ?? null;
+      const held = await fs.promises.stat(partPath(id)).catch(() => null);
+      if (!held || held.size !== details.size) return null;
+      const clip = await accept(id, details.metadata, details.size, context);
+      return { size: details.size, clipId: clip.id };
+    })();
+    recovering.set(id, attempt);
+    inFlight.set(id, (inFlight.get(id) ?? 0) + 1);
+    try {
+      return await attempt;
+    } finally {
+      recovering.delete(id);
+      const n = (inFlight.get(id) ?? 1) - 1;
+      if (n > 0) inFlight.set(id, n);
+      else inFlight.delete(id);
+    }
+  }
+
   /** Made on first use, so the folder exists only once someone uploads this way. */
   function tus(): Server {
     if (server) return server;
@@ -144,21 +205,10 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
         return { metadata };
       },
       async onUploadFinish(req, upload) {
-        const { user, assessmentId } = contextOf(req);
         try {
-          const clip = await d.clips.acceptUpload(user, assessmentId, {
-            path: partPath(upload.id),
-            originalname: uploadName(upload),
-            size: upload.size ?? upload.offset,
-          });
-          await fs.promises.rm(partPath(upload.id), { force: true });
-          // What stays until the sweep: who it was for and the clip it became, so a client whose
-          // answer was lost learns from HEAD that it is complete instead of sending it again.
-          const finished = { size: upload.size ?? upload.offset, clipId: clip.id };
-          await fs.promises.writeFile(detailsPath(upload.id), JSON.stringify({ id: upload.id, metadata: upload.metadata, finished }));
+          const clip = await accept(upload.id, upload.metadata, upload.size ?? upload.offset, contextOf(req));
           return { status_code: 200, headers: { 'Content-Type': JSON_TYPE }, body: JSON.stringify(clip) };
         } catch (err) {
-          await removeParts(upload.id);
           // Answered here rather than thrown, so the refusal carries our JSON content type.
           if (!(err instanceof AppError) || err.status >= 500) throw err;
           return { status_code: err.status, headers: { 'Content-Type': JSON_TYPE }, body: errorBody(err.code, err.message, err.details) };
@@ -227,6 +277,7 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
     },
 
     owner,
+    acceptStranded,
     sweep,
     async removeForAssessments(assessmentIds) {
       const wanted = new Set(assessmentIds);
@@ -249,8 +300,8 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
 }
 
 /** The client's file name from the upload's details (cleaned where the clip is made). */
-function uploadName(upload: Upload): string {
-  const name = upload.metadata?.['filename'];
+function uploadName(metadata: Upload['metadata']): string {
+  const name = metadata?.['filename'];
   return typeof name === 'string' && name.trim() ? name : 'clip';
 }
 

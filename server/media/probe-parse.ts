@@ -22,7 +22,7 @@ export interface VideoProbe {
   variableFrameRate: boolean;
   /** Duration in seconds (stream duration, else container duration, else frames ÷ fps). */
   durationS: number;
-  /** Number of video frames (`nb_frames`, else counted by decoding with `-count_frames`). */
+  /** Number of video frames shown (`nb_frames`, else — also when an edit list hides some — counted by decoding with `-count_frames`). */
   frameCount: number;
   /** Where {@link frameCount} came from. */
   frameCountSource: 'nb_frames' | 'count_frames';
@@ -96,9 +96,20 @@ export function mainVideoStream(data: ProbeData): Record<string, unknown> | unde
 }
 
 /**
+ * Whether a container's frame count (`nb_frames`: samples stored) runs past what its duration
+ * shows at its frame rate by more than one frame and 1 %: an edit list hides samples (a clip
+ * trimmed without re-encoding keeps the frames from the key frame before the cut, and players
+ * start showing at the cut). Decoding shows only the frames after it, so they must be counted.
+ */
+export function framesPastDuration(stored: number, durationS: number, fps: number): boolean {
+  return stored > durationS * fps * 1.01 + 1;
+}
+
+/**
  * Turns ffprobe's answer into a {@link VideoProbe}. Pure. `frameCount` is null in the result
- * when the container does not state `nb_frames` (Matroska/WebM usually) and `nb_read_frames` was
- * not asked for; the caller then counts frames. Throws {@link MediaError} for images, text,
+ * when the container does not state `nb_frames` (Matroska/WebM usually), or states more than its
+ * duration shows ({@link framesPastDuration}), and `nb_read_frames` was not asked for; the caller
+ * then counts frames. Throws {@link MediaError} for images, text,
  * audio-only files and streams without size or frame rate.
  */
 export function parseProbe(data: ProbeData): Omit<VideoProbe, 'frameCount' | 'frameCountSource'> & { frameCount: number | null } {
@@ -136,8 +147,10 @@ export function parseProbe(data: ProbeData): Omit<VideoProbe, 'frameCount' | 'fr
   const quarter = rotation === 90 || rotation === 270;
   const nbFrames = num(video['nb_frames']) ?? null;
   const nbRead = num(video['nb_read_frames']) ?? null;
-  const frameCount = nbFrames && nbFrames > 0 ? nbFrames : nbRead && nbRead > 0 ? nbRead : null;
-  const durationS = num(video['duration']) ?? num(data.format['duration']) ?? (frameCount !== null ? frameCount / fps : null);
+  const streamDurationS = num(video['duration']);
+  const stored = nbFrames && nbFrames > 0 && !(streamDurationS && framesPastDuration(nbFrames, streamDurationS, fps)) ? nbFrames : null;
+  const frameCount = nbRead && nbRead > 0 ? nbRead : stored;
+  const durationS = streamDurationS ?? num(data.format['duration']) ?? (frameCount !== null ? frameCount / fps : null);
   if (durationS === null || durationS <= 0) {
     throw new MediaError('probe_failed', 'We could not read how long this clip is.', 'no stream or format duration');
   }

@@ -57,7 +57,8 @@ export function probeFailure(err: Error, sniffed: ContainerKind | null): MediaEr
 /**
  * Reads a clip's metadata with ffprobe (through fluent-ffmpeg): codec, stored and displayed size,
  * clockwise rotation, frame rate, duration, frame count (decoding with `-count_frames` only when
- * the container does not state `nb_frames`), audio presence and container format.
+ * the container does not state `nb_frames`, or states more frames than its duration shows: an edit
+ * list hides some), audio presence and container format.
  *
  * @throws {MediaError} `empty_file`, `not_video` (text, images, unknown bytes), `no_video_stream`
  *   (audio only), `truncated` (ISO-BMFF without its `moov` box, e.g. an upload cut in half),

@@ -112,6 +112,14 @@ export function athleteDataService(d: {
       const reference = await uniqueReference(user.clinicId);
       const at = clock().toISOString();
       let keptInvoices = 0;
+      // Files before rows: a server stop halfway leaves the athlete to erase again (never files no row names).
+      const removeFiles = async () => {
+        for (const id of clipIds) await store.removePrefix(clipKeys(id).prefix);
+        for (const id of assessmentIds) await store.removePrefix(assessmentPrefix(id));
+        await store.removePrefix(exportPrefix(athleteId));
+        await d.partialUploads?.removeForAssessments(assessmentIds);
+      };
+      await removeFiles();
       await db.transaction(async (trx) => {
         if (a.user_id !== null) await revokeUserSessions(trx, a.user_id);
         // Children before parents: the list names parents first.
@@ -152,10 +160,8 @@ export function athleteDataService(d: {
           at,
         );
       });
-      for (const id of clipIds) await store.removePrefix(clipKeys(id).prefix);
-      for (const id of assessmentIds) await store.removePrefix(assessmentPrefix(id));
-      await store.removePrefix(exportPrefix(athleteId));
-      await d.partialUploads?.removeForAssessments(assessmentIds);
+      // Once more: what work still running elsewhere wrote meanwhile.
+      await removeFiles();
       if (a.user_id !== null) revocations.revoke(a.user_id);
       return { reference, keptInvoices };
     },

@@ -111,5 +111,5 @@ export class NotReadyError extends Error {
 
 /** The reason given when the worker stopped during every attempt (killed, power lost). */
 export function interruptedReason(attempts: number): string {
-  return `Processing was interrupted ${attempts} times (the server stopped while working on it). Retry to try again.`;
+  return `Processing was interrupted ${attempts === 1 ? 'once' : `${attempts} times`} (the server stopped while working on it). Retry to try again.`;
 }

@@ -5,11 +5,13 @@
  */
 import fs from 'node:fs';
 import path from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { makeTestApp, OTHER, signedIn, storedNames, type Client, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { ffmpegRun, ffprobeCounted, makeClip, tempDir } from './media/fixtures';
 import { baselineVisit } from '../support/bodies';
+import { assessmentPrefix } from '../../server/storage/media-keys';
+import { putJson } from '../../server/storage/stored-objects';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -199,6 +201,55 @@ describe('upload and processing', () => {
     expect(await t.db('clips').where({ id })).toHaveLength(0);
     expect(await t.store.list(`clips/${id}/`)).toEqual([]);
     expect((await c.get(`/api/clips/${id}`)).status).toBe(404);
+  });
+
+  it("a server stop while a clip's files are removed leaves its row, so deleting it again removes the rest", async () => {
+    const res = await upload(c, assessmentId, good);
+    await ready();
+    const id = res.body.id as number;
+    const prefix = `clips/${id}/`;
+    // What a SIGKILL halfway through the removal leaves: some files gone, the request unanswered.
+    const removePrefix = vi.spyOn(t.store, 'removePrefix').mockImplementationOnce(async () => {
+      await t.store.remove(`${prefix}original.mp4`);
+      throw new Error('the server stopped');
+    });
+    try {
+      expect((await c.delete(`/api/clips/${id}`)).status).not.toBe(204);
+    } finally {
+      removePrefix.mockRestore();
+    }
+    // The clip is still there to delete (else its frames would stay with no row naming them).
+    expect(await t.db('clips').where({ id })).toHaveLength(1);
+    expect((await t.store.list(prefix)).length).toBeGreaterThan(0);
+    expect((await c.delete(`/api/clips/${id}`)).status).toBe(204);
+    expect(await t.db('clips').where({ id })).toHaveLength(0);
+    expect(await t.store.list(prefix)).toEqual([]);
+  });
+
+  it("a server stop while an assessment's files are removed leaves the assessment, so deleting it again removes the rest", async () => {
+    const visit = await c.post(`/api/athletes/${adaId}/assessments`, baselineVisit());
+    const id = visit.body.id as number;
+    const clipId = (await upload(c, id, good)).body.id as number;
+    await ready();
+    // A visit summary's PDF lives under the assessment's prefix.
+    await putJson(t.store, `${assessmentPrefix(id)}summaries/1.pdf`, { stands: 'for a PDF' });
+    // The stop comes as the assessment's own folder is removed (its clips are gone by then).
+    const original = t.store.removePrefix.bind(t.store);
+    let stopped = false;
+    const removePrefix = vi.spyOn(t.store, 'removePrefix').mockImplementation(async (p) => {
+      if (stopped || !p.startsWith('assessments/')) return original(p);
+      stopped = true;
+      throw new Error('the server stopped');
+    });
+    try {
+      expect((await c.delete(`/api/assessments/${id}`)).status).not.toBe(204);
+    } finally {
+      removePrefix.mockRestore();
+    }
+    expect((await c.get(`/api/assessments/${id}`)).status).toBe(200);
+    expect((await c.delete(`/api/assessments/${id}`)).status).toBe(204);
+    expect(await t.store.list(`clips/${clipId}/`)).toEqual([]);
+    expect(await t.store.list(assessmentPrefix(id))).toEqual([]);
   });
 });
 

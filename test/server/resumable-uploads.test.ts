@@ -201,6 +201,36 @@ describe('malformed protocol requests', () => {
     }
     expect((await tusHead(coachSession, url)).offset).toBe(0);
   });
+
+  it('malformed headers are refused before the protocol library sees them: 400 bad_upload in our error shape, naming the header, the upload untouched', async () => {
+    const size = fs.statSync(clip).size;
+    const created = await tusCreate(base, coachSession, assessmentId, size, { filename: 'run.mp4' });
+    const url = created.location!;
+    const bytes = fs.readFileSync(clip).subarray(0, 1000);
+    const octets = 'application/offset+octet-stream';
+    const cases: Array<[string, Record<string, string>, string]> = [
+      ['PATCH', { 'upload-offset': '-1', 'content-type': octets }, 'Upload-Offset'],
+      ['PATCH', { 'upload-offset': 'abc', 'content-type': octets }, 'Upload-Offset'],
+      ['PATCH', { 'upload-offset': '007', 'content-type': octets }, 'Upload-Offset'],
+      ['PATCH', { 'upload-offset': '0', 'content-type': `${octets}; charset=utf-8` }, 'Content-Type'],
+      ['PATCH', { 'upload-offset': '0', 'content-type': octets, 'x-forwarded-proto': 'gopher' }, 'X-Forwarded-Proto'],
+    ];
+    for (const [method, headers, named] of cases) {
+      const res = await fetch(url, { method, headers: tusHeaders(coachSession, headers), body: bytes });
+      expect(res.status, JSON.stringify(headers)).toBe(400);
+      expect(res.headers.get('content-type')).toMatch(/application\/json/);
+      const body = (await res.json()) as { error: { code: string; message: string } };
+      expect(body.error.code).toBe('bad_upload');
+      expect(body.error.message).toContain(named);
+    }
+    const metadata = await fetch(`${base}/api/assessments/${assessmentId}/clip-uploads`, {
+      method: 'POST',
+      headers: tusHeaders(coachSession, { 'upload-length': '10', 'upload-metadata': 'filename !!!' }),
+    });
+    expect(metadata.status).toBe(400);
+    expect(((await metadata.json()) as { error: { code: string; message: string } }).error.message).toContain('Upload-Metadata');
+    expect((await tusHead(coachSession, url)).offset).toBe(0);
+  });
 });
 
 describe('acceptance of the finished upload', () => {
@@ -218,6 +248,28 @@ describe('acceptance of the finished upload', () => {
     expect(tmpFiles()).toEqual([]);
     expect((await t.db('clips').count<{ n: number }[]>({ n: '*' }))[0]!.n).toBe(clipsBefore);
     expect((await tusHead(coachSession, created.location!)).status).toBe(404);
+  });
+
+  it('an upload holding every byte whose acceptance a server stop cut short is accepted at the next HEAD, once', async () => {
+    const size = fs.statSync(clip).size;
+    const created = await tusCreate(base, coachSession, assessmentId, size, { filename: 'stranded.mp4' });
+    const id = created.location!.split('/').pop()!;
+    // What a SIGKILL during the last PATCH's acceptance leaves: the part holds every byte, its
+    // details no clip. A tus client that asks HEAD and hears "complete" never sends it again.
+    fs.copyFileSync(clip, path.join(partsDir(), id));
+    const clipsBefore = (await t.db('clips').count<{ n: number }[]>({ n: '*' }))[0]!.n;
+
+    const [head, again] = await Promise.all([tusHead(coachSession, created.location!), tusHead(coachSession, created.location!)]);
+    expect(head).toMatchObject({ status: 200, offset: size, length: size });
+    const clipId = Number(head.headers['trailframe-clip-id']);
+    expect(clipId).toBeGreaterThan(0);
+    expect(again.headers['trailframe-clip-id']).toBe(String(clipId));
+    expect((await t.db('clips').count<{ n: number }[]>({ n: '*' }))[0]!.n).toBe(clipsBefore + 1);
+    // Outside reference: the source file's own bytes.
+    expect(await t.store.withLocalFile(`clips/${clipId}/original.mp4`, (stored) => sha256(stored))).toBe(await sha256(clip));
+    expect(parts().filter((n) => n.startsWith(id))).toEqual([`${id}.json`]);
+    await t.worker!.idle();
+    expect((await json(coachSession, 'GET', `/api/clips/${clipId}`)).body).toMatchObject({ status: 'ready', originalName: 'stranded.mp4' });
   });
 });
 

@@ -178,6 +178,41 @@ describe('timestamps of a variable-frame-rate clip', () => {
   });
 });
 
+describe('a clip trimmed without re-encoding (an edit list hides the frames before the cut)', () => {
+  it('probes, plans and extracts the frames as shown: count and timestamps match ffprobe -count_frames and its frame times (outside reference)', async () => {
+    // One key frame every 5 s: cutting at 3 s with stream copy keeps the samples from 0 s, and an
+    // edit list tells players to start showing at 3 s (what a phone's gallery trim does).
+    const whole = path.join(dir, 'long-gop.mp4');
+    await ffmpegRun(
+      ['-f', 'lavfi', '-i', 'testsrc2=size=320x180:rate=30', '-t', '6', '-c:v', 'libx264', '-preset', 'ultrafast'].concat([
+        '-g',
+        '150',
+        '-keyint_min',
+        '150',
+        '-sc_threshold',
+        '0',
+        '-pix_fmt',
+        'yuv420p',
+        whole,
+      ]),
+    );
+    const src = path.join(dir, 'trimmed.mp4');
+    await ffmpegRun(['-ss', '3', '-i', whole, '-c', 'copy', src]);
+    const container = (await ffprobeJson(src, ['-select_streams', 'v:0', '-show_streams'])).streams[0];
+    const counted = await ffprobeCounted(src);
+    // The file holds more samples than it shows (else this test would prove nothing).
+    expect(Number(container.nb_frames)).toBeGreaterThan(counted.nbReadFrames * 1.5);
+
+    const probe = await probeVideo(src);
+    expect(probe.frameCount).toBe(counted.nbReadFrames);
+    const m = await extractFrames(src, path.join(dir, 'trimmed'), { probe });
+    const times = await ffprobeFrameTimes(src);
+    expect(m.frameCount).toBe(counted.nbReadFrames);
+    expect(m.frameCount).toBe(times.length);
+    m.timestampsMs.forEach((t, i) => expect(t).toBeCloseTo((times[i]! - times[0]!) * 1000, 2));
+  });
+});
+
 describe('output folder handling', () => {
   it('abort kills ffmpeg and leaves no frames, thumbs, manifest or staging folder', async () => {
     const src = await makeClip(path.join(dir, 'long.mp4'), { fps: 60, width: 640, height: 360, seconds: 5 });

@@ -104,6 +104,12 @@ describe('parseProbe', () => {
     expect(parseProbe(data([h264({ nb_frames: 'N/A' })])).frameCount).toBeNull();
     expect(parseProbe(data([h264({ nb_frames: 'N/A', nb_read_frames: '359' })])).frameCount).toBe(359);
   });
+  it('more samples than the duration shows (an edit list hides the start of a trimmed clip) → counted by the caller [calc]', () => {
+    // [calc] 3 s at 120 fps shows 360 frames: 361 (one frame of rounding) stays, 720 is counted.
+    expect(parseProbe(data([h264({ nb_frames: '361' })])).frameCount).toBe(361);
+    expect(parseProbe(data([h264({ nb_frames: '720' })])).frameCount).toBeNull();
+    expect(parseProbe(data([h264({ nb_frames: '720', nb_read_frames: '360' })])).frameCount).toBe(360);
+  });
   it('duration falls back to the container', () => {
     expect(parseProbe(data([h264({ duration: 'N/A' })], { duration: '2.5' })).durationS).toBe(2.5);
   });

@@ -6,7 +6,7 @@
  * months, with sizes, and nothing goes before the owner confirms that list; the app's clock is moved
  * forward (fake clock).
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import fs from 'node:fs';
 import path from 'node:path';
 import { makeClip, tempDir } from '../media/fixtures';
@@ -219,5 +219,32 @@ describe('clip retention', () => {
     t.advance(2 * DAY);
     await t.runDailyPrivacyCheck();
     expect(await t.db('clip_retention_reviews').count('* as n')).toEqual(n);
+  });
+});
+
+describe('athlete erasure and a server stop', () => {
+  it("a stop while the athlete's files are removed leaves the athlete to erase again, and that erasure leaves no file", async () => {
+    const farid = await t.db('athletes').where({ first_name: 'Farid' }).first();
+    expect((await coach.put(`/api/athletes/${farid.id}/intake`, intake({ videoRecording: true, shareStills: false }))).status).toBe(200);
+    const clipId = (await upload(coach, await assessmentOf(farid.id))).body.id as number;
+    await t.worker!.idle();
+    expect((await t.store.list(`clips/${clipId}/`)).length).toBeGreaterThan(0);
+    const confirmName = `${farid.first_name} ${farid.last_name}`;
+
+    // What a SIGKILL halfway through the removal leaves: some files gone, the request unanswered.
+    const removePrefix = vi.spyOn(t.store, 'removePrefix').mockImplementationOnce(async (prefix) => {
+      await t.store.remove(`${prefix}original.mp4`);
+      throw new Error('the server stopped');
+    });
+    try {
+      expect((await owner.post(`/api/athletes/${farid.id}/erasure`, { confirmName })).status).not.toBe(200);
+    } finally {
+      removePrefix.mockRestore();
+    }
+    // Not erased yet, so the owner can ask again (else the clip's frames would stay with nothing naming them).
+    expect((await owner.get(`/api/athletes/${farid.id}`)).status).toBe(200);
+    expect((await owner.post(`/api/athletes/${farid.id}/erasure`, { confirmName })).status).toBe(200);
+    expect(await t.store.list(`clips/${clipId}/`)).toEqual([]);
+    expect((await owner.get(`/api/athletes/${farid.id}`)).status).toBe(404);
   });
 });

@@ -308,6 +308,11 @@ describe('failed attempts, retry, last attempt', () => {
     });
   });
 
+  it('the reason counts the interruptions in words a clinician reads (JOB_MAX_ATTEMPTS=1: "once", not "1 times")', () => {
+    expect(interruptedReason(1)).toBe('Processing was interrupted once (the server stopped while working on it). Retry to try again.');
+    expect(interruptedReason(3)).toMatch(/^Processing was interrupted 3 times \(/);
+  });
+
   it('the last attempt interrupted after earlier attempts failed: fails with the last recorded reason', async () => {
     const rec = fresh();
     const p = processOf(rec, { maxAttempts: 2 });
