@@ -97,8 +97,8 @@ export async function setPublication(
 }
 
 /**
- * Deletes a shared item: cancels its render if one is queued or running, deletes its row, removes
- * its files (`removeFiles`) and writes `<kind>.deleted` in the audit log. The caller checks first
+ * Deletes a shared item: cancels its render if one is queued or running, removes its files
+ * (`removeFiles`), deletes its row and writes `<kind>.deleted` in the audit log. The caller checks first
  * that the user may delete it.
  */
 export async function deleteShared(
@@ -110,6 +110,9 @@ export async function deleteShared(
 ): Promise<void> {
   const { table, idKey } = KINDS[kind];
   await d.processing.cancel(kind, row.id);
+  // Files first: a server stop halfway leaves the row, so the item can be deleted again (the other
+  // order would leave files no row points to). Once more after, for a render that finished meanwhile.
+  await removeFiles();
   await d.db(table).where({ id: row.id }).delete();
   await removeFiles();
   await audit(d.db, {

@@ -8,7 +8,7 @@
  *   the cited sources of the clinic's reference bands (REFERENCES.md).
  */
 import path from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { loadImage, createCanvas } from '@napi-rs/canvas';
 import { PDFParse } from 'pdf-parse';
 import { makeTestApp, OTHER, signedIn, type Client, type TestApp } from '../support/test-app';
@@ -304,6 +304,22 @@ describe('publishing and access', () => {
   it('unpublishes: gone from the athlete again', async () => {
     expect((await c.post(`/api/stills/${still.id}/unpublish`, {})).status).toBe(200);
     expect((await ada.agent.get(still.imageUrl)).status).toBe(404);
+  });
+
+  it('a server stop while its images are removed leaves the still, so deleting it again removes the rest', async () => {
+    const images = async () => (await t.store.list(`clips/${runnerClipId}/stills/`)).filter((k) => k.includes(`/${still.id}-`));
+    expect((await images()).length).toBeGreaterThan(0);
+    // What a SIGKILL halfway through the removal leaves: the request unanswered, some files maybe gone.
+    const remove = vi.spyOn(t.store, 'remove').mockRejectedValueOnce(new Error('the server stopped'));
+    try {
+      expect((await c.delete(`/api/stills/${still.id}`)).status).not.toBe(204);
+    } finally {
+      remove.mockRestore();
+    }
+    expect((await c.get(`/api/stills/${still.id}`)).status).toBe(200);
+    expect((await c.delete(`/api/stills/${still.id}`)).status).toBe(204);
+    expect((await c.get(`/api/stills/${still.id}`)).status).toBe(404);
+    expect(await images()).toEqual([]);
   });
 });
 
