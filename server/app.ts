@@ -161,7 +161,15 @@ export function createApp(deps: AppDeps): App {
       // A resumable upload's bytes (tus PATCH), streamed by its own route.
       !req.is('application/offset+octet-stream')
     ) {
-      return next(new AppError(415, 'unsupported_media_type', 'Send the request body as JSON (Content-Type: application/json).'));
+      return next(
+        new AppError(
+          415,
+          'unsupported_media_type',
+          /\/clip-uploads\/[^/]+$/.test(req.path)
+            ? 'Send the upload’s bytes with Content-Type: application/offset+octet-stream.'
+            : 'Send the request body as JSON (Content-Type: application/json).',
+        ),
+      );
     }
     next();
   };

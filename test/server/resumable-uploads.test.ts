@@ -195,6 +195,8 @@ describe('malformed protocol requests', () => {
     answers.push({ status: 400, res: badMeta });
     for (const { status, res } of answers) {
       expect(res.status).toBe(status);
+      if (status === 415)
+        expect(((await res.clone().json()) as { error: { message: string } }).error.message).toMatch(/offset\+octet-stream/);
       expect(res.headers.get('content-type')).toMatch(/^application\/json/);
       const body = (await res.json()) as { error: { code: string; message: string } };
       expect(body.error).toMatchObject({ code: expect.any(String), message: expect.any(String) });
