@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { RouteId, RouteIndex } from '../http/validate';
 import { CAPTURE_FPS_LIMITS, DIRECTIONS, SIDES } from '../../src/contracts/assessment';
 
 export const ClipPatchBody = z
@@ -16,6 +17,6 @@ export type ClipPatch = z.output<typeof ClipPatchBody>;
 
 /** `:id` plus a 0-based frame or thumbnail number. */
 export const MediaIndexParams = z.object({
-  id: z.coerce.number().int().positive(),
-  n: z.coerce.number().int().min(0).max(10_000_000),
+  id: RouteId,
+  n: RouteIndex(10_000_000),
 });

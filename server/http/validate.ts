@@ -8,8 +8,35 @@ export function parse<S extends z.ZodType>(schema: S, value: unknown, where = 'R
   return result.data;
 }
 
-/** Route parameter that must be a positive integer id; anything else is "not found". */
-export const IdParam = z.object({ id: z.coerce.number().int().positive().max(Number.MAX_SAFE_INTEGER) });
+/**
+ * A route's positive integer id, written the one way ids are written (digits, no sign, no leading
+ * zero, no spaces, no hex or exponent): anything else is "not found", so one resource answers at
+ * one URL only.
+ */
+export const RouteId = z
+  .union([
+    z
+      .string()
+      .regex(/^[1-9][0-9]*$/)
+      .transform(Number),
+    z.number().int(),
+  ])
+  .pipe(z.number().positive().max(Number.MAX_SAFE_INTEGER));
+
+/** Route parameter that must be an id ({@link RouteId}). */
+export const IdParam = z.object({ id: RouteId });
+
+/** A 0-based number in a route (a frame, a thumbnail), written the one way: `0`, or digits without a leading zero. */
+export const RouteIndex = (max: number) =>
+  z
+    .union([
+      z
+        .string()
+        .regex(/^(0|[1-9][0-9]*)$/)
+        .transform(Number),
+      z.number().int(),
+    ])
+    .pipe(z.number().min(0).max(max));
 
 /** Route parameter holding an e-mailed token (base64url). */
 export const TokenParam = z.object({ token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/) });

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { RouteId } from '../http/validate';
 import { EXERCISE_REGIONS, LOADING_KINDS, PAIN_SCALE, PLAN_ACTIONS, PLAN_LIMITS } from '../../src/contracts/plans';
 import { IsoDate } from '../athletes/athletes-schemas';
 
@@ -145,6 +146,6 @@ export type LogInput = z.output<typeof LogBody>;
 export const MorningBody = z.strictObject({ pain: Pain('Morning pain') });
 
 export const PlanKeyParams = z.object({
-  id: z.coerce.number().int().positive().max(Number.MAX_SAFE_INTEGER),
+  id: RouteId,
   key: LogKey,
 });

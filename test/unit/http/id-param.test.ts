@@ -4,7 +4,7 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { IdParam, idParam } from '../../../server/http/validate';
+import { IdParam, RouteIndex, idParam } from '../../../server/http/validate';
 
 /** What the schema alone answers: the id, or "not found". */
 const bySchema = (id: string): number | 'not found' => {
@@ -54,5 +54,17 @@ describe('idParam', () => {
     expect(() => idParam({}, 'Clip')).toThrow();
     expect(() => idParam(null, 'Clip')).toThrow();
     expect(() => idParam({ id: 5 }, 'Clip')).not.toThrow();
+  });
+
+  it('finds a resource at its one URL only: a sign, leading zero, space, fraction, exponent or hex is "not found"', () => {
+    for (const id of ['+1', '01', '007', ' 1', '1 ', '1.0', '1e0', '0x1', '1_000', '١']) expect(answer(id), id).toBe('not found');
+    expect(answer('1')).toBe(1);
+    expect(answer('9007199254740991')).toBe(Number.MAX_SAFE_INTEGER);
+  });
+
+  it('a frame number is 0 or digits without a leading zero, within its limit', () => {
+    const frame = RouteIndex(100);
+    expect(['0', '7', '100'].map((n) => frame.safeParse(n).data)).toEqual([0, 7, 100]);
+    for (const n of ['00', '007', '-0', '+1', '1.0', '101', ' 1', '']) expect(frame.safeParse(n).success, n).toBe(false);
   });
 });
