@@ -267,6 +267,8 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     // Saved today: the page says so, also after a reload.
     await expect.poll(() => first.page.getByRole('heading', { name: 'Done for today' }).count()).toBe(1);
     expect(await first.page.getByRole('button', { name: 'Save session' }).count()).toBe(0);
+    // Pain 2 is within the plan's limit: no warning beyond the plan's caution.
+    expect(await first.page.getByTestId('pain-above-limit').count()).toBe(0);
     await first.page.reload();
     await expect.poll(() => first.page.getByRole('heading', { name: 'Done for today' }).count()).toBe(1);
     expect(await first.page.getByRole('button', { name: 'Save session' }).count()).toBe(0);
@@ -300,6 +302,8 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await page.getByRole('button', { name: 'Save session' }).click();
     await expect.poll(() => page.getByText('1 entry waiting to send.').count()).toBe(1);
     await expect.poll(() => page.getByRole('heading', { name: 'Done for today' }).count()).toBe(1);
+    // Pain 6 is above the plan's limit of 5: the page says to stop and contact the clinician.
+    expect(await page.getByTestId('pain-above-limit').textContent()).toContain('Pain 6/10 is more than the 5/10 your plan allows');
     expect(await page.getByText('Waiting to send', { exact: true }).count()).toBe(1);
     const stored = await page.evaluate(() =>
       Object.entries(localStorage)

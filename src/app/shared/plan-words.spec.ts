@@ -7,6 +7,7 @@ import {
   formatDose,
   morningCheckDue,
   newLogKey,
+  painAboveLimitText,
   runningPlan,
   seconds,
 } from './plan-words';
@@ -97,5 +98,15 @@ describe('plan words', () => {
     expect(startPlanMessage('Calf plan', { firstName: 'Ada', hasAccount: false, invitationPending: true })).toContain(
       'until they accept the invitation already sent',
     );
+  });
+});
+
+describe('painAboveLimitText', () => {
+  it('tells the athlete to stop and contact the clinician only when the pain during the session is above the plan limit', () => {
+    expect(painAboveLimitText(5, 5)).toBeNull();
+    expect(painAboveLimitText(0, 5)).toBeNull();
+    const text = painAboveLimitText(7, 5);
+    expect(text).toContain('Pain 7/10 is more than the 5/10 your plan allows');
+    expect(text).toContain('contact your clinician');
   });
 });

@@ -104,3 +104,12 @@ export function startPlanMessage(
   const invite = athlete.invitationPending ? 'accept the invitation already sent' : 'are invited (Invite to Trailframe, on this page)';
   return `${head} ${athlete.firstName} has no Trailframe account yet, so they cannot log sessions until they ${invite}.`;
 }
+
+/**
+ * What the athlete reads after logging a session whose pain during it was above their plan's
+ * limit: stop, do not push through, contact the clinician. Null when the score is within the plan.
+ */
+export function painAboveLimitText(painDuring: number, maxDuring: number): string | null {
+  if (painDuring <= maxDuring) return null;
+  return `Pain ${painDuring}/10 is more than the ${maxDuring}/10 your plan allows. Stop the exercise that hurt, do not push through it next time, and contact your clinician before your next session.`;
+}

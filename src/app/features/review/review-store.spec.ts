@@ -58,6 +58,24 @@ describe('ReviewStore', () => {
     expect(store.pointAt(ref)).toEqual(start);
   });
 
+  it('back on a frame marked part-way, the first landmark still missing there is chosen, so a click places it', () => {
+    store.placeAt({ x: 0.5, y: 0.1 }); // shoulder on frame 0
+    store.placeAt({ x: 0.5, y: 0.2 }); // hip on frame 0
+    store.goTo(1);
+    store.chooseLandmark('shoulder');
+    store.placeAt({ x: 0.5, y: 0.1 }); // shoulder on frame 1: hip is next
+    expect(store.landmark()).toBe('hip');
+    store.goTo(0);
+    expect(store.landmark()).toBe('knee');
+    expect(store.armed()).toBe(true);
+    store.placeAt({ x: 0.5, y: 0.3 });
+    expect(store.sidePoints().knee).toEqual({ x: 0.5, y: 0.3 });
+    // The other side has nothing on frame 0: the chosen landmark stays.
+    store.chooseSide('right');
+    expect(store.landmark()).toBe('ankle');
+    expect(store.armed()).toBe(true);
+  });
+
   it('steps, clamps and jumps between marked events', () => {
     store.step(-3);
     expect(store.frame()).toBe(0);

@@ -244,6 +244,7 @@ export class ReviewStore {
     if (f !== this.frame()) {
       this.frame.set(f);
       this.explicitChoice.set(false);
+      this.chooseUnplacedLandmark();
       this.cache$()?.setCurrent(f);
       if (this.scaleDraft() && this.tool() !== 'scale') this.scaleDraft.set(null);
     }
@@ -329,6 +330,17 @@ export class ReviewStore {
 
   // ---- Choosing ---------------------------------------------------------------------------
 
+  /**
+   * On another frame or side the chosen landmark may be placed there already while others are not
+   * (a frame marked part-way): the first one still missing is chosen, so a click places it.
+   */
+  private chooseUnplacedLandmark(): void {
+    const points = this.sidePoints();
+    if (!points[this.landmark()]) return;
+    const missing = LANDMARKS.find((l) => !points[l]);
+    if (missing) this.landmark.set(missing);
+  }
+
   chooseLandmark(landmark: LandmarkName): void {
     this.landmark.set(landmark);
     this.explicitChoice.set(true);
@@ -341,6 +353,7 @@ export class ReviewStore {
   chooseSide(side: Side): void {
     this.side.set(side);
     this.explicitChoice.set(false);
+    this.chooseUnplacedLandmark();
     this.selected.set(null);
     this.requestDraw();
   }

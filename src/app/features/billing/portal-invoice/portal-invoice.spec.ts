@@ -3,6 +3,7 @@ import { HttpTestingController, provideHttpClientTesting } from '@angular/common
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { ActivatedRoute, convertToParamMap, provideRouter } from '@angular/router';
 import { BehaviorSubject } from 'rxjs';
+import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import type { InvoiceDetail } from '../../../../contracts/billing';
 import { POLL_MS } from './pay-view';
 import { PortalInvoice } from './portal-invoice';
@@ -132,6 +133,23 @@ describe('PortalInvoice', () => {
     await settle();
     expect(element.textContent).toContain('Payment failed');
     expect(element.textContent).toContain('nothing was charged');
+  });
+
+  it('an invoice that cannot be found says so with Try again instead of loading forever', async () => {
+    await open(null);
+    flushApiError(backend.expectOne('/api/invoices/7'), 404, 'Invoice not found.');
+    await settle();
+    expect(element.querySelector('mat-progress-bar')).toBeNull();
+    expect(element.textContent).toContain("Couldn't load the invoice");
+    expect(element.textContent).toContain('Invoice not found.');
+    expect(element.querySelector('[aria-current="page"]')?.textContent).toContain('Invoice');
+
+    buttonWithText(element, 'Try again').click();
+    fixture.detectChanges();
+    await wait(10);
+    backend.expectOne('/api/invoices/7').flush(anInvoice());
+    await settle();
+    expect(element.textContent).toContain('Invoice TF-2026-0001');
   });
 
   it("shows the server's reason when paying is refused", async () => {

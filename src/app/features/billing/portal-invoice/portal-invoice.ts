@@ -62,8 +62,10 @@ export class PortalInvoice {
       ),
   });
   protected readonly view = computed(() => {
+    // A resource in error throws from value(): read it only when it has one.
+    if (!this.loaded.hasValue()) return null;
     const v = this.loaded.value();
-    return v ? payView(v.invoice, this.returned(), v.attempt >= POLL_TRIES - 1) : null;
+    return payView(v.invoice, this.returned(), v.attempt >= POLL_TRIES - 1);
   });
   protected readonly starting = signal(false);
   protected readonly payProblem = signal<string | null>(null);

@@ -4,6 +4,7 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
 import type { Assessment } from '../../../../contracts/api';
 import type { AssessmentComparison, ComparisonRow } from '../../../../contracts/measures';
+import { flushApiError } from '../../../shared/testing/api-errors';
 import { stubJsdomCanvas } from '../../../shared/testing/jsdom-canvas';
 import { ComparePage } from './compare-page';
 
@@ -158,6 +159,30 @@ describe('ComparePage content', () => {
     const hip = element.querySelector('section.measures tbody tr .citation')!.textContent!;
     expect(hip).toContain('±5.5°');
     expect(hip).toContain('Damsted et al. 2015');
+  });
+
+  it('choosing the same visit twice says why (the server refuses it) without an error behind the scenes, and a valid pair comes back', async () => {
+    const page = fixture.componentInstance as unknown as { retestId: { set(id: number): void } };
+    page.retestId.set(baseline.id);
+    await settle();
+    flushApiError(
+      backend.expectOne((r) => r.url === '/api/athletes/9/comparison' && r.params.get('retest') === '1'),
+      422,
+      'Choose two different assessments to compare.',
+      { code: 'same_assessment' },
+    );
+    await settle();
+    expect(element.textContent).toContain("Couldn't compare these visits");
+    expect(element.textContent).toContain('Choose two different assessments to compare.');
+
+    page.retestId.set(retest.id);
+    for (let i = 0; i < 3; i++) {
+      await settle();
+      answer();
+    }
+    await settle();
+    expect(element.textContent).not.toContain("Couldn't compare these visits");
+    expect(element.querySelector('.stepper [aria-live="polite"]')?.textContent?.trim()).toBe('Step 1 of 3');
   });
 
   it('counts the steps both visits share at the chosen event and steps through them together', async () => {

@@ -173,8 +173,11 @@ export class ComparePage {
     if (!clips?.length) return null;
     return clips.find((c) => c.nearSide === this.side()) ?? clips[0]!;
   }
-  private readonly baselineClip = computed(() => this.pickClip(this.comparison.value()?.baselineClips));
-  private readonly retestClip = computed(() => this.pickClip(this.comparison.value()?.retestClips));
+  // A refused pair (e.g. the same visit twice) leaves the resource in error, where value() throws.
+  private readonly baselineClip = computed(() =>
+    this.pickClip(this.comparison.hasValue() ? this.comparison.value().baselineClips : undefined),
+  );
+  private readonly retestClip = computed(() => this.pickClip(this.comparison.hasValue() ? this.comparison.value().retestClips : undefined));
 
   private loadClip(clip: ComparisonClip) {
     return forkJoin({ manifest: this.reviewApi.manifest(clip.id), annotations: this.reviewApi.annotations(clip.id) }).pipe(

@@ -24,7 +24,8 @@ import { ExerciseCard } from '../exercise-card/exercise-card';
 import { LogOutbox } from '../../../core/data/log-outbox';
 import { retargetLog } from '../../../core/data/log-outbox-queue';
 import { PlanCaution } from '../../../shared/plan-caution/plan-caution';
-import { morningCheckDue, newLogKey, runningPlan } from '../../../shared/plan-words';
+import { morningCheckDue, newLogKey, painAboveLimitText, runningPlan } from '../../../shared/plan-words';
+import { CautionNote } from '../../../shared/caution-note/caution-note';
 import { PlansApi } from '../../../core/data/plans-api';
 import { entriesForMorning, historyRows, sessionLoggedOn } from '../../../core/data/portal-log';
 
@@ -52,6 +53,7 @@ const PAIN_SCALE = Array.from({ length: 11 }, (_, i) => i);
     ErrorState,
     ExerciseCard,
     PlanCaution,
+    CautionNote,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './portal-plan.html',
@@ -120,6 +122,7 @@ export class PortalPlan implements LeaveGuarded {
     return this.outbox.items().filter((i) => i.planId !== id && i.kind === 'log');
   });
   protected readonly painScale = PAIN_SCALE;
+  protected readonly painAboveLimitText = painAboveLimitText;
   protected readonly errorText = errorText;
   protected readonly errorMessage = errorMessage;
   protected readonly L = PLAN_LIMITS;

@@ -1,0 +1,50 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { provideRouter } from '@angular/router';
+import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
+import { InvoiceDetailPage } from './invoice-detail';
+
+const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+describe('InvoiceDetailPage', () => {
+  let fixture: ComponentFixture<InvoiceDetailPage>;
+  let element: HTMLElement;
+  let backend: HttpTestingController;
+
+  const settle = async () => {
+    await wait(20);
+    fixture.detectChanges();
+    await fixture.whenStable();
+    fixture.detectChanges();
+  };
+
+  beforeEach(async () => {
+    TestBed.configureTestingModule({
+      imports: [InvoiceDetailPage],
+      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(InvoiceDetailPage);
+    fixture.componentRef.setInput('id', '999');
+    element = fixture.nativeElement;
+    fixture.detectChanges();
+    await wait(10);
+  });
+  afterEach(() => backend.verify());
+
+  it('an invoice that cannot be found (a mistyped or deleted one) says so with Try again, and the loading bar ends', async () => {
+    flushApiError(backend.expectOne('/api/invoices/999'), 404, 'Invoice not found.');
+    await settle();
+    expect(element.querySelector('mat-progress-bar')).toBeNull();
+    expect(element.textContent).toContain("Couldn't load the invoice");
+    expect(element.textContent).toContain('Invoice not found.');
+    expect(element.querySelector('[aria-current="page"]')?.textContent?.trim()).toBe('Invoice');
+    buttonWithText(element, 'Try again').click();
+    fixture.detectChanges();
+    await wait(10);
+    flushApiError(backend.expectOne('/api/invoices/999'), 404, 'Invoice not found.');
+    await settle();
+    expect(element.textContent).toContain("Couldn't load the invoice");
+  });
+});
