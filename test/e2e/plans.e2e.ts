@@ -13,6 +13,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BrowserContext, Locator, Page } from 'playwright-core';
 import { axeProblems } from './axe';
 import { SCREENSHOTS, startHarness, type Harness } from './harness';
+import { Client } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
@@ -433,6 +434,42 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await expect.poll(async () => (await logs()).length).toBe(before + 1);
     await expect.poll(() => page.getByText('Not accepted', { exact: true }).count()).toBe(0);
     expect(problems.filter((p) => !/409|Failed to load resource/.test(p))).toEqual([]);
+    await context.close();
+  });
+
+  it('a session saved offline while the coach moves the plan on: the page shows the new stage at once and sends it there', async () => {
+    const { page, context, problems } = await phone();
+    await signIn(page, athlete.email, athlete.password);
+    await page.goto(`${h.baseUrl}/portal/plan`);
+    const another = page.getByRole('button', { name: 'Log another session' });
+    await expect.poll(async () => (await another.count()) + (await page.getByRole('button', { name: 'Save session' }).count())).toBe(1);
+    if (await another.count()) await another.click();
+    await expect.poll(() => page.getByRole('heading', { name: "Today's session: Isometric holds" }).count()).toBe(1);
+    const before = (await logs()).length;
+    await context.setOffline(true);
+    await tickAllSets(page);
+    await page.getByRole('radio', { name: 'Pain during 2 out of 10' }).click();
+    await page.getByRole('button', { name: 'Save session' }).click();
+    await expect.poll(() => page.getByText('1 entry waiting to send.').count()).toBe(1);
+    // Meanwhile the coach moves the plan on to stage 2.
+    const api = new Client(h.baseUrl);
+    await api.signIn(coach.email, coach.password);
+    expect((await api.post(`/api/plans/${planId}/transitions`, { action: 'advance' })).status).toBe(200);
+    await context.setOffline(false);
+    await expect.poll(() => page.getByText('Not accepted', { exact: true }).count(), { timeout: 20_000 }).toBe(1);
+    // Without a reload, the page reads the plan again: today's stage is the new one, and sending
+    // "for today's stage" aims at it (before, it named the old stage and was refused again).
+    const send = page.getByRole('button', { name: /^Send the session of .* again, for today’s stage Slow lengthening$/ });
+    await expect.poll(() => send.count()).toBe(1);
+    expect(await page.getByText('Stage 2 of 3').count()).toBeGreaterThan(0);
+    await send.click();
+    await expect.poll(async () => (await logs()).length).toBe(before + 1);
+    await expect.poll(() => page.getByText('Not accepted', { exact: true }).count()).toBe(0);
+    const stage2 = await h.server.db('plan_stages').where({ plan_id: planId, position: 2 }).first();
+    const all = await logs();
+    expect(all.at(-1)).toMatchObject({ stage_id: stage2.id, pain_during: 2 });
+    expect(all).toHaveLength(before + 1);
+    expect(problems.filter((p) => !networkNoise(p) && !/409/.test(p))).toEqual([]);
     await context.close();
   });
 

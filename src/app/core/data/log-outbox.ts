@@ -62,6 +62,8 @@ export class LogOutbox {
   readonly refused = computed(() => this.items().filter((i) => i.refused));
   /** Each submission the server accepted, with its answer. */
   readonly delivered = new Subject<{ item: OutboxItem; entry: LogEntry }>();
+  /** Each submission the server refused (kept, marked, with the reason): the plan may have moved on meanwhile. */
+  readonly refusals = new Subject<OutboxItem>();
 
   constructor() {
     // Load the signed-in athlete's queue now, and again whenever someone else signs in.
@@ -132,6 +134,7 @@ export class LogOutbox {
             this.update(retryLater(this.current(), item.id, why, this.now()));
           } else {
             this.update(refuse(this.current(), item.id, errorMessage(err)));
+            this.refusals.next(item);
           }
         }
       }
