@@ -12,7 +12,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BrowserContext, Locator, Page } from 'playwright-core';
 import { axeProblems } from './axe';
-import { SCREENSHOTS, startHarness, type Harness } from './harness';
+import { SCREENSHOTS, lastMailLink, startHarness, type Harness } from './harness';
 import { Client } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 
@@ -470,6 +470,44 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     expect(all.at(-1)).toMatchObject({ stage_id: stage2.id, pain_during: 2 });
     expect(all).toHaveLength(before + 1);
     expect(problems.filter((p) => !networkNoise(p) && !/409/.test(p))).toEqual([]);
+    await context.close();
+  });
+
+  it('a session saved after the sign-in ended elsewhere (password reset) waits on the phone and is sent once after signing in again', async () => {
+    const { page, context, problems } = await phone();
+    await signIn(page, athlete.email, athlete.password);
+    await page.goto(`${h.baseUrl}/portal/plan`);
+    const another = page.getByRole('button', { name: 'Log another session' });
+    await expect.poll(async () => (await another.count()) + (await page.getByRole('button', { name: 'Save session' }).count())).toBe(1);
+    if (await another.count()) await another.click();
+    await expect.poll(() => page.getByRole('button', { name: 'Save session' }).count()).toBe(1);
+    const before = (await logs()).length;
+    // On another device the athlete resets the password (to the same one): every session of hers ends.
+    const other = new Client(h.baseUrl);
+    expect((await other.post('/api/password-resets', { email: athlete.email })).status).toBe(202);
+    const token = new URL(await lastMailLink(h.server, athlete.email)).pathname.split('/').pop()!;
+    expect((await other.post(`/api/password-resets/${token}`, { password: athlete.password })).status).toBe(204);
+
+    await tickAllSets(page);
+    await page.getByRole('radio', { name: 'Pain during 1 out of 10' }).click();
+    await page.getByLabel('Note (optional)').fill('Saved after the reset.');
+    await page.getByRole('button', { name: 'Save session' }).click();
+    // The phone says the sign-in ended, in plain words; nothing about tokens, nothing refused.
+    await page.waitForURL(/\/sign-in/);
+    await expect.poll(() => page.getByText('Your session has ended. Sign in to continue.').count()).toBe(1);
+    expect(await page.getByText(/token/i).count()).toBe(0);
+    expect(await logs()).toHaveLength(before);
+    await page.getByLabel('E-mail').fill(athlete.email);
+    await page.getByLabel('Password', { exact: true }).fill(athlete.password);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.waitForURL(/\/portal\/plan$/);
+    await expect.poll(async () => (await logs()).length, { timeout: 20_000 }).toBe(before + 1);
+    expect((await logs()).at(-1)).toMatchObject({ pain_during: 1, note: 'Saved after the reset.' });
+    await expect.poll(() => page.getByText('Saved after the reset.').count()).toBe(1);
+    expect(await page.getByText('Not accepted', { exact: true }).count()).toBe(0);
+    await page.waitForTimeout(1_500);
+    expect(await logs()).toHaveLength(before + 1);
+    expect(problems.filter((p) => !/401|Failed to load resource/.test(p))).toEqual([]);
     await context.close();
   });
 

@@ -130,7 +130,12 @@ export class LogOutbox {
         } catch (err) {
           const status = errorStatus(err) ?? 0;
           if (isRetryable(status)) {
-            const why = status === 0 ? 'No connection. It will be sent when you are back online.' : errorMessage(err);
+            const why =
+              status === 0
+                ? 'No connection. It will be sent when you are back online.'
+                : status === 401
+                  ? 'You were signed out. It will be sent once you sign in again.'
+                  : errorMessage(err);
             this.update(retryLater(this.current(), item.id, why, this.now()));
           } else {
             this.update(refuse(this.current(), item.id, errorMessage(err)));
