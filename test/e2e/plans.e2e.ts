@@ -131,6 +131,21 @@ async function phone(clockAt?: number): Promise<{ context: BrowserContext; page:
   return s;
 }
 
+/**
+ * The athlete's plan page on a phone with the session form open: today's session may have been
+ * saved by an earlier test, then the page says so and offers another one, which is taken.
+ */
+async function athleteSessionForm(): Promise<{ context: BrowserContext; page: Page; problems: string[] }> {
+  const s = await phone();
+  await signIn(s.page, athlete.email, athlete.password);
+  await s.page.goto(`${h.baseUrl}/portal/plan`);
+  const another = s.page.getByRole('button', { name: 'Log another session' });
+  await expect.poll(async () => (await another.count()) + (await s.page.getByRole('button', { name: 'Save session' }).count())).toBe(1);
+  if (await another.count()) await another.click();
+  await expect.poll(() => s.page.getByRole('button', { name: 'Save session' }).count()).toBe(1);
+  return s;
+}
+
 describe('plans: staged loading, athlete log, pain monitoring', () => {
   it('the coach searches the library by region and loading kind', async () => {
     const { page, context, problems } = await h.newPage();
@@ -393,14 +408,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
   });
 
   it('a session the server refuses stays on the phone with the reason; the athlete sends it for today’s stage', async () => {
-    const { page, context, problems } = await phone();
-    await signIn(page, athlete.email, athlete.password);
-    await page.goto(`${h.baseUrl}/portal/plan`);
-    // Today's session was saved by the test before: the page says so and offers another one.
-    const another = page.getByRole('button', { name: 'Log another session' });
-    await expect.poll(async () => (await another.count()) + (await page.getByRole('button', { name: 'Save session' }).count())).toBe(1);
-    if (await another.count()) await another.click();
-    await expect.poll(() => page.getByRole('button', { name: 'Save session' }).count()).toBe(1);
+    const { page, context, problems } = await athleteSessionForm();
     const before = (await logs()).length;
     let refused = 0;
     await page.route('**/api/plans/*/logs', async (route) => {
@@ -438,12 +446,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
   });
 
   it('a session saved offline while the coach moves the plan on: the page shows the new stage at once and sends it there', async () => {
-    const { page, context, problems } = await phone();
-    await signIn(page, athlete.email, athlete.password);
-    await page.goto(`${h.baseUrl}/portal/plan`);
-    const another = page.getByRole('button', { name: 'Log another session' });
-    await expect.poll(async () => (await another.count()) + (await page.getByRole('button', { name: 'Save session' }).count())).toBe(1);
-    if (await another.count()) await another.click();
+    const { page, context, problems } = await athleteSessionForm();
     await expect.poll(() => page.getByRole('heading', { name: "Today's session: Isometric holds" }).count()).toBe(1);
     const before = (await logs()).length;
     await context.setOffline(true);
@@ -474,13 +477,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
   });
 
   it('a session saved after the sign-in ended elsewhere (password reset) waits on the phone and is sent once after signing in again', async () => {
-    const { page, context, problems } = await phone();
-    await signIn(page, athlete.email, athlete.password);
-    await page.goto(`${h.baseUrl}/portal/plan`);
-    const another = page.getByRole('button', { name: 'Log another session' });
-    await expect.poll(async () => (await another.count()) + (await page.getByRole('button', { name: 'Save session' }).count())).toBe(1);
-    if (await another.count()) await another.click();
-    await expect.poll(() => page.getByRole('button', { name: 'Save session' }).count()).toBe(1);
+    const { page, context, problems } = await athleteSessionForm();
     const before = (await logs()).length;
     // On another device the athlete resets the password (to the same one): every session of hers ends.
     const other = new Client(h.baseUrl);
