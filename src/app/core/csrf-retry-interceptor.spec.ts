@@ -12,18 +12,21 @@ describe('csrfRetryInterceptor', () => {
   let backend: HttpTestingController;
   let token: string;
   let ensureCsrf: ReturnType<typeof vi.fn>;
+  let sameUser: boolean;
 
   beforeEach(() => {
     token = 'old-token';
     // Fetching a token sets the cookie the extractor reads.
+    sameUser = true;
     ensureCsrf = vi.fn(async () => {
       token = 'fresh-token';
+      return sameUser;
     });
     TestBed.configureTestingModule({
       providers: [
         provideHttpClient(withInterceptors([csrfRetryInterceptor])),
         provideHttpClientTesting(),
-        { provide: AuthStore, useValue: { ensureCsrf } },
+        { provide: AuthStore, useValue: { refreshCsrfForSameUser: ensureCsrf } },
         { provide: HttpXsrfTokenExtractor, useValue: { getToken: () => token } },
       ],
     });
@@ -64,6 +67,15 @@ describe('csrfRetryInterceptor', () => {
     backend.expectOne('/api/x').flush(STALE, { status: 403, statusText: 'Forbidden' });
     expect((await result) as { status: number }).toMatchObject({ status: 403 });
     expect(ensureCsrf).toHaveBeenCalledTimes(1);
+  });
+
+  it('someone else signed in on this browser meanwhile: the change is not sent in their name, the refusal reaches the caller', async () => {
+    sameUser = false;
+    const result = firstValueFrom(http.put('/api/clips/3/annotations', { baseRevision: 4 })).catch((e: unknown) => e);
+    backend.expectOne('/api/clips/3/annotations').flush(STALE, { status: 403, statusText: 'Forbidden' });
+    await settle();
+    backend.expectNone('/api/clips/3/annotations');
+    expect((await result) as { status: number }).toMatchObject({ status: 403 });
   });
 
   it('leaves other refusals and GETs alone', async () => {

@@ -15,7 +15,8 @@ const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
  * fresh token and is sent once more with it. A session still alive then simply succeeds; one that
  * has ended answers 401, which the error interceptor turns into "Your session has ended. Sign in to
  * continue." — never the token words. The server still checks every token; this only reads a new
- * one from our own origin. Registered inside `errorInterceptor`, so that sees only the last answer.
+ * one from our own origin, and never resends when someone else has signed in on this browser
+ * since the page loaded (the change would be made in their name). Registered inside `errorInterceptor`, so that sees only the last answer.
  */
 export const csrfRetryInterceptor: HttpInterceptorFn = (req, next) => {
   if (SAFE_METHODS.has(req.method) || req.context.get(CSRF_RETRIED)) return next(req);
@@ -24,8 +25,10 @@ export const csrfRetryInterceptor: HttpInterceptorFn = (req, next) => {
   return next(req).pipe(
     catchError((err: unknown) => {
       if (!(err instanceof HttpErrorResponse) || err.status !== 403 || errorCode(err) !== 'csrf_invalid') return throwError(() => err);
-      return from(auth.ensureCsrf()).pipe(
-        switchMap(() => {
+      return from(auth.refreshCsrfForSameUser()).pipe(
+        switchMap((sameUser) => {
+          // Someone else signed in on this browser meanwhile: never send this page's change in their name.
+          if (!sameUser) return throwError(() => err);
           const token = xsrf.getToken();
           const retry = req.clone({ context: req.context.set(CSRF_RETRIED, true) });
           return next(token ? retry.clone({ setHeaders: { 'X-XSRF-TOKEN': token } }) : retry);
