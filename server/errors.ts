@@ -93,7 +93,11 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
       } else if (e.type === 'entity.too.large') {
         appError = new AppError(413, 'payload_too_large', 'The request body is too large.');
       } else if (e.code === 'EBADCSRFTOKEN' || (status === 403 && /csrf/i.test(e.message ?? ''))) {
-        appError = new AppError(403, 'csrf_invalid', 'Your session token is missing or stale. Reload the page and try again.');
+        appError = new AppError(
+          403,
+          'csrf_invalid',
+          'This page is out of date, or you were signed out. Reload the page, sign in again if asked, and try again.',
+        );
       } else if (isValueRefused(err)) {
         appError = new AppError(400, 'value_refused', 'A value is out of range or too long for its field.');
       } else if (status && status >= 400 && status < 500 && e.expose !== false) {

@@ -16,6 +16,7 @@ import { provideRouter, withComponentInputBinding, withNavigationErrorHandler } 
 import { routes } from './app.routes';
 import { AuthStore } from './core/auth-store';
 import { ConfigStore } from './core/config-store';
+import { csrfRetryInterceptor } from './core/csrf-retry-interceptor';
 import { errorInterceptor } from './core/error-interceptor';
 import { reloadOnStaleBuild } from './core/stale-build';
 import { provideIsoDateAdapter } from './shared/iso-date-adapter';
@@ -35,7 +36,8 @@ export const appConfig: ApplicationConfig = {
       withNavigationErrorHandler((e) => reloadOnStaleBuild(e)),
     ),
     provideHttpClient(
-      withInterceptors([errorInterceptor]),
+      // The error interceptor sees only the last answer: a stale token is refreshed and retried inside it.
+      withInterceptors([errorInterceptor, csrfRetryInterceptor]),
       withXsrfConfiguration({ cookieName: 'XSRF-TOKEN', headerName: 'X-XSRF-TOKEN' }),
     ),
     provideIsoDateAdapter(),

@@ -79,7 +79,14 @@ describe('assessments and clips', () => {
     await page.setViewportSize({ width: 390, height: 844 });
     await signIn(page, athlete.email, athlete.password);
     await page.goto(`${h.baseUrl}/portal/assessments/${assessmentId}`);
+    await expect.poll(() => page.getByText('Ready', { exact: true }).count()).toBe(1);
+    // The coach uploaded this very file (same name and size) before: it is held back, not sent twice
+    // unless the athlete asks.
     await page.locator('input[type=file][multiple]').setInputFiles(clipFile);
+    await expect.poll(() => page.getByText(/^This file is already in this assessment/).count()).toBe(1);
+    await page.waitForTimeout(1_000);
+    expect((await h.server.db('clips').where({ assessment_id: assessmentId })).length).toBe(1);
+    await page.getByRole('button', { name: 'Upload anyway' }).click();
     await expect
       .poll(async () => (await h.server.db('clips').where({ assessment_id: assessmentId, status: 'ready' })).length, { timeout: 60_000 })
       .toBe(2);

@@ -12,7 +12,8 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BrowserContext, Locator, Page } from 'playwright-core';
 import { axeProblems } from './axe';
-import { SCREENSHOTS, startHarness, type Harness } from './harness';
+import { SCREENSHOTS, lastMailLink, startHarness, type Harness } from './harness';
+import { Client } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
@@ -127,6 +128,21 @@ async function phone(clockAt?: number): Promise<{ context: BrowserContext; page:
   const s = await h.newPage();
   await s.page.setViewportSize(PHONE);
   if (clockAt !== undefined) await s.page.clock.setFixedTime(new Date(clockAt));
+  return s;
+}
+
+/**
+ * The athlete's plan page on a phone with the session form open: today's session may have been
+ * saved by an earlier test, then the page says so and offers another one, which is taken.
+ */
+async function athleteSessionForm(): Promise<{ context: BrowserContext; page: Page; problems: string[] }> {
+  const s = await phone();
+  await signIn(s.page, athlete.email, athlete.password);
+  await s.page.goto(`${h.baseUrl}/portal/plan`);
+  const another = s.page.getByRole('button', { name: 'Log another session' });
+  await expect.poll(async () => (await another.count()) + (await s.page.getByRole('button', { name: 'Save session' }).count())).toBe(1);
+  if (await another.count()) await another.click();
+  await expect.poll(() => s.page.getByRole('button', { name: 'Save session' }).count()).toBe(1);
   return s;
 }
 
@@ -396,14 +412,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
   });
 
   it('a session the server refuses stays on the phone with the reason; the athlete sends it for today’s stage', async () => {
-    const { page, context, problems } = await phone();
-    await signIn(page, athlete.email, athlete.password);
-    await page.goto(`${h.baseUrl}/portal/plan`);
-    // Today's session was saved by the test before: the page says so and offers another one.
-    const another = page.getByRole('button', { name: 'Log another session' });
-    await expect.poll(async () => (await another.count()) + (await page.getByRole('button', { name: 'Save session' }).count())).toBe(1);
-    if (await another.count()) await another.click();
-    await expect.poll(() => page.getByRole('button', { name: 'Save session' }).count()).toBe(1);
+    const { page, context, problems } = await athleteSessionForm();
     const before = (await logs()).length;
     let refused = 0;
     await page.route('**/api/plans/*/logs', async (route) => {
@@ -437,6 +446,69 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await expect.poll(async () => (await logs()).length).toBe(before + 1);
     await expect.poll(() => page.getByText('Not accepted', { exact: true }).count()).toBe(0);
     expect(problems.filter((p) => !/409|Failed to load resource/.test(p))).toEqual([]);
+    await context.close();
+  });
+
+  it('a session saved offline while the coach moves the plan on: the page shows the new stage at once and sends it there', async () => {
+    const { page, context, problems } = await athleteSessionForm();
+    await expect.poll(() => page.getByRole('heading', { name: "Today's session: Isometric holds" }).count()).toBe(1);
+    const before = (await logs()).length;
+    await context.setOffline(true);
+    await tickAllSets(page);
+    await page.getByRole('radio', { name: 'Pain during 2 out of 10' }).click();
+    await page.getByRole('button', { name: 'Save session' }).click();
+    await expect.poll(() => page.getByText('1 entry waiting to send.').count()).toBe(1);
+    // Meanwhile the coach moves the plan on to stage 2.
+    const api = new Client(h.baseUrl);
+    await api.signIn(coach.email, coach.password);
+    expect((await api.post(`/api/plans/${planId}/transitions`, { action: 'advance' })).status).toBe(200);
+    await context.setOffline(false);
+    await expect.poll(() => page.getByText('Not accepted', { exact: true }).count(), { timeout: 20_000 }).toBe(1);
+    // Without a reload, the page reads the plan again: today's stage is the new one, and sending
+    // "for today's stage" aims at it (before, it named the old stage and was refused again).
+    const send = page.getByRole('button', { name: /^Send the session of .* again, for today’s stage Slow lengthening$/ });
+    await expect.poll(() => send.count()).toBe(1);
+    expect(await page.getByText('Stage 2 of 3').count()).toBeGreaterThan(0);
+    await send.click();
+    await expect.poll(async () => (await logs()).length).toBe(before + 1);
+    await expect.poll(() => page.getByText('Not accepted', { exact: true }).count()).toBe(0);
+    const stage2 = await h.server.db('plan_stages').where({ plan_id: planId, position: 2 }).first();
+    const all = await logs();
+    expect(all.at(-1)).toMatchObject({ stage_id: stage2.id, pain_during: 2 });
+    expect(all).toHaveLength(before + 1);
+    expect(problems.filter((p) => !networkNoise(p) && !/409/.test(p))).toEqual([]);
+    await context.close();
+  });
+
+  it('a session saved after the sign-in ended elsewhere (password reset) waits on the phone and is sent once after signing in again', async () => {
+    const { page, context, problems } = await athleteSessionForm();
+    const before = (await logs()).length;
+    // On another device the athlete resets the password (to the same one): every session of hers ends.
+    const other = new Client(h.baseUrl);
+    expect((await other.post('/api/password-resets', { email: athlete.email })).status).toBe(202);
+    const token = new URL(await lastMailLink(h.server, athlete.email)).pathname.split('/').pop()!;
+    expect((await other.post(`/api/password-resets/${token}`, { password: athlete.password })).status).toBe(204);
+
+    await tickAllSets(page);
+    await page.getByRole('radio', { name: 'Pain during 1 out of 10' }).click();
+    await page.getByLabel('Note (optional)').fill('Saved after the reset.');
+    await page.getByRole('button', { name: 'Save session' }).click();
+    // The phone says the sign-in ended, in plain words; nothing about tokens, nothing refused.
+    await page.waitForURL(/\/sign-in/);
+    await expect.poll(() => page.getByText('Your session has ended. Sign in to continue.').count()).toBe(1);
+    expect(await page.getByText(/token/i).count()).toBe(0);
+    expect(await logs()).toHaveLength(before);
+    await page.getByLabel('E-mail').fill(athlete.email);
+    await page.getByLabel('Password', { exact: true }).fill(athlete.password);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.waitForURL(/\/portal\/plan$/);
+    await expect.poll(async () => (await logs()).length, { timeout: 20_000 }).toBe(before + 1);
+    expect((await logs()).at(-1)).toMatchObject({ pain_during: 1, note: 'Saved after the reset.' });
+    await expect.poll(() => page.getByText('Saved after the reset.').count()).toBe(1);
+    expect(await page.getByText('Not accepted', { exact: true }).count()).toBe(0);
+    await page.waitForTimeout(1_500);
+    expect(await logs()).toHaveLength(before + 1);
+    expect(problems.filter((p) => !/401|Failed to load resource/.test(p))).toEqual([]);
     await context.close();
   });
 

@@ -74,4 +74,15 @@ describe('AuthStore', () => {
     expect(store.isStaff()).toBe(false);
     expect(store.homePath()).toBe('/portal');
   });
+
+  it("after a stale token: a fresh one, and whether the session is still this page's user (or nobody's)", async () => {
+    const store = TestBed.inject(AuthStore);
+    await store.load();
+    expect(await store.refreshCsrfForSameUser()).toBe(true);
+    expect(api.csrf).toHaveBeenCalled();
+    api.me.mockReturnValueOnce(of({ ...coach, id: 7, email: 'other@clinic.test' }));
+    expect(await store.refreshCsrfForSameUser()).toBe(false);
+    api.me.mockReturnValueOnce(of(null));
+    expect(await store.refreshCsrfForSameUser()).toBe(true);
+  });
 });

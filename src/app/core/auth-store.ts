@@ -47,6 +47,23 @@ export class AuthStore {
     }
   }
 
+  /**
+   * After a request was refused for a stale CSRF token: fetches a fresh token and answers whether
+   * the session now belongs to nobody or to the same user as this page (then the request may be sent
+   * again). False when someone else signed in meanwhile (a shared computer): this page's change must
+   * not be made in their name.
+   */
+  async refreshCsrfForSameUser(): Promise<boolean> {
+    await this.ensureCsrf();
+    let now: SessionUser | null;
+    try {
+      now = await firstValueFrom(this.api.me());
+    } catch {
+      return true; // Unknown: the resend is checked by the server as any request is.
+    }
+    return now === null || now.id === this.current()?.id;
+  }
+
   /** Signs in; rejects with the `HttpErrorResponse` (401 bad credentials, 429 rate limited). */
   async signIn(email: string, password: string): Promise<SessionUser> {
     const user = await firstValueFrom(this.api.signIn(email, password));

@@ -30,7 +30,9 @@ describe('log outbox queue', () => {
 
   it('retries only what a retry can fix', () => {
     expect([0, 408, 429, 500, 502, 503].every(isRetryable)).toBe(true);
-    expect([400, 401, 403, 404, 409, 422].some(isRetryable)).toBe(false);
+    // Signed out (a password reset elsewhere, an expired session): kept and sent after signing in again.
+    expect(isRetryable(401)).toBe(true);
+    expect([400, 403, 404, 409, 422].some(isRetryable)).toBe(false);
   });
 
   it('sends in order, and a morning check only after its session went out', () => {

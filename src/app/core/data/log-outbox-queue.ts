@@ -38,11 +38,12 @@ export function backoffMs(attempts: number, random: () => number = Math.random):
 }
 
 /**
- * Whether a failed try is worth repeating: no answer at all (status 0, offline), a timeout,
- * rate limiting, or a server error. Other 4xx answers are final for this submission.
+ * Whether a failed try is worth repeating: no answer at all (status 0, offline), the sign-in ended
+ * (401: sent again once the athlete signs in), a timeout, rate limiting, or a server error. Other
+ * 4xx answers are final for this submission.
  */
 export function isRetryable(status: number): boolean {
-  return status === 0 || status === 408 || status === 429 || status >= 500;
+  return status === 0 || status === 401 || status === 408 || status === 429 || status >= 500;
 }
 
 export function logItem(planId: number, body: LogWrite, now: number): OutboxItem {

@@ -107,6 +107,9 @@ describe('LogOutbox', () => {
 
   it('keeps a refused session with the reason until the athlete discards it (with its morning check)', async () => {
     const outbox = setup();
+    // The page hears of each refusal, to read the plan again (the stage may have moved on).
+    const refusals: string[] = [];
+    outbox.refusals.subscribe((item) => refusals.push(item.id));
     outbox.submitLog(5, body('key-three-123'));
     outbox.submitMorning(5, 'key-three-123', 2, '2026-12-09');
     backend
@@ -122,6 +125,7 @@ describe('LogOutbox', () => {
       ['key-three-123', '“Holds” is not the current stage of this plan any more.'],
     ]);
     expect(outbox.items().map((i) => i.id)).toEqual(['key-three-123', 'key-three-123:morning']);
+    expect(refusals).toEqual(['key-three-123']);
     expect(JSON.parse(store.get(KEY)!)).toHaveLength(2);
     outbox.discard('key-three-123');
     expect(outbox.items()).toEqual([]);

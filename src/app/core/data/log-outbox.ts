@@ -62,6 +62,8 @@ export class LogOutbox {
   readonly refused = computed(() => this.items().filter((i) => i.refused));
   /** Each submission the server accepted, with its answer. */
   readonly delivered = new Subject<{ item: OutboxItem; entry: LogEntry }>();
+  /** Each submission the server refused (kept, marked, with the reason): the plan may have moved on meanwhile. */
+  readonly refusals = new Subject<OutboxItem>();
 
   constructor() {
     // Load the signed-in athlete's queue now, and again whenever someone else signs in.
@@ -128,10 +130,16 @@ export class LogOutbox {
         } catch (err) {
           const status = errorStatus(err) ?? 0;
           if (isRetryable(status)) {
-            const why = status === 0 ? 'No connection. It will be sent when you are back online.' : errorMessage(err);
+            const why =
+              status === 0
+                ? 'No connection. It will be sent when you are back online.'
+                : status === 401
+                  ? 'You were signed out. It will be sent once you sign in again.'
+                  : errorMessage(err);
             this.update(retryLater(this.current(), item.id, why, this.now()));
           } else {
             this.update(refuse(this.current(), item.id, errorMessage(err)));
+            this.refusals.next(item);
           }
         }
       }

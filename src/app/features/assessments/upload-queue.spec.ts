@@ -1,5 +1,6 @@
 import { HttpErrorResponse } from '@angular/common/http';
 import {
+  ALREADY_HERE,
   UploadItem,
   addFiles,
   clearFinished,
@@ -106,6 +107,34 @@ describe('upload queue', () => {
     expect(markProgress(items, 1, 10, 1000)).toEqual(items); // not started yet
     expect(markDone(items, 1, { id: 1 })).toEqual(items);
     expect(markStarted(items, 99)).toEqual(items);
+  });
+
+  it('holds back a file with the name and size of a clip already here, and sends it only on "Upload anyway"', () => {
+    const held = [{ originalName: 'run.mp4', sizeBytes: 1000 }];
+    let { items } = addFiles([], [video('run.mp4'), video('run.mp4', 999), video('other.mp4')], 1, null, held);
+    expect(items.map((i) => [i.name, i.state, i.duplicate])).toEqual([
+      ['run.mp4', 'failed', true],
+      ['run.mp4', 'waiting', false],
+      ['other.mp4', 'waiting', false],
+    ]);
+    expect(uploadStatusText(items[0])).toBe(ALREADY_HERE);
+    expect(nextToStart(items)?.id).toBe(2);
+    items = requeue(items, 1);
+    expect(items[0]).toMatchObject({ state: 'waiting', duplicate: false, message: null });
+  });
+
+  it('holds back the same file chosen again while it waits, uploads or is uploaded in the list', () => {
+    let items = queue(video('a.mp4'));
+    items = addFiles(items, [video('a.mp4')], 2).items;
+    expect(items[1]).toMatchObject({ state: 'failed', duplicate: true });
+    items = markDone(markStarted(items, 1), 1, { id: 7 });
+    items = addFiles(items, [video('a.mp4')], 3).items;
+    expect(items[2]).toMatchObject({ state: 'failed', duplicate: true });
+    // Twice in one pick: the second is held back.
+    expect(queue(video('b.mp4'), video('b.mp4')).map((i) => i.state)).toEqual(['waiting', 'failed']);
+    // A cancelled or failed upload is no clip: choosing the file again sends it (and resumes).
+    items = addFiles(markCancelled(queue(video('c.mp4')), 1), [video('c.mp4')], 2).items;
+    expect(items[1]).toMatchObject({ state: 'waiting', duplicate: false });
   });
 
   it('a refused file stays refused when retried', () => {

@@ -29,7 +29,22 @@ export interface UploadItem {
   reconnecting: boolean;
   /** Whether this upload continues one begun earlier (before a reload, or a cancelled page). */
   resumed: boolean;
+  /** Whether it was held back as the same file as a clip already here (sent only on "Upload anyway"). */
+  duplicate: boolean;
 }
+
+/** A clip the assessment already has, as far as spotting the same file chosen again needs it. */
+export interface HeldClip {
+  originalName: string;
+  sizeBytes: number;
+}
+
+/** Why a file matching a clip already here is held back. */
+export const ALREADY_HERE =
+  'This file is already in this assessment (same name and size): its clip is in the list below. Tap “Upload anyway” to send it a second time.';
+
+const sameFile = (a: { name: string; size: number }, b: { name: string; size: number }) =>
+  a.size === b.size && a.name.normalize('NFC') === b.name.normalize('NFC');
 
 const EXTENSIONS = UPLOAD.accept
   .split(',')
@@ -58,28 +73,37 @@ export function precheck(file: Pick<File, 'name' | 'size' | 'type'>, maxBytes: n
 
 /**
  * Appends the files in order, each waiting, or failed with the reason when `precheck` refuses it
- * (`maxBytes`: the server's upload limit, when known).
+ * (`maxBytes`: the server's upload limit, when known). A file with the name and size of a clip
+ * already here (`held`), or of one waiting, uploading or uploaded in this list, is held back as a
+ * `duplicate` (failed with `ALREADY_HERE`) instead of silently making a second clip.
  */
 export function addFiles(
   items: readonly UploadItem[],
   files: readonly File[],
   nextId: number,
   maxBytes: number | null = null,
+  held: readonly HeldClip[] = [],
 ): { items: UploadItem[]; nextId: number } {
+  const taken = [
+    ...held.map((c) => ({ name: c.originalName, size: c.sizeBytes })),
+    ...items.filter((i) => i.state === 'waiting' || i.state === 'uploading' || i.state === 'done'),
+  ];
   const added = files.map((file, i): UploadItem => {
     const problem = precheck(file, maxBytes);
+    const duplicate = !problem && [...taken, ...files.slice(0, i)].some((t) => sameFile(t, file));
     return {
       id: nextId + i,
       file,
       name: file.name || 'Unnamed file',
       size: file.size,
-      state: problem ? 'failed' : 'waiting',
+      state: problem || duplicate ? 'failed' : 'waiting',
       loaded: 0,
       total: file.size,
-      message: problem,
+      message: problem ?? (duplicate ? ALREADY_HERE : null),
       clipId: null,
       reconnecting: false,
       resumed: false,
+      duplicate,
     };
   });
   return { items: [...items, ...added], nextId: nextId + files.length };
@@ -139,11 +163,16 @@ export function markCancelled(items: readonly UploadItem[], id: number): UploadI
   return update(items, id, ['waiting', 'uploading'], () => ({ state: 'cancelled', message: null }));
 }
 
-/** Puts a failed or cancelled item back in the line (a refused file is checked again). */
+/**
+ * Puts a failed or cancelled item back in the line (a refused file is checked again); a held-back
+ * duplicate goes as the athlete asked ("Upload anyway").
+ */
 export function requeue(items: readonly UploadItem[], id: number): UploadItem[] {
   return update(items, id, ['failed', 'cancelled'], (item) => {
     const problem = precheck(item.file);
-    return problem ? { state: 'failed', message: problem } : { state: 'waiting', loaded: 0, total: item.file.size, message: null };
+    return problem
+      ? { state: 'failed', message: problem }
+      : { state: 'waiting', loaded: 0, total: item.file.size, message: null, duplicate: false };
   });
 }
 

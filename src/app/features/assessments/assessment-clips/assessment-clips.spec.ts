@@ -6,7 +6,7 @@ import { provideRouter } from '@angular/router';
 import type { AssessmentDetail, Clip } from '../../../../contracts/api';
 import { AuthStore } from '../../../core/auth-store';
 import { FakeEventSource, provideFakeEventSource } from '../../../core/fake-event-source';
-import { AssessmentClips, upsertClip } from './assessment-clips';
+import { AssessmentClips, UPLOADS_RUNNING_WARNING, upsertClip } from './assessment-clips';
 
 function clip(id: number, overrides: Partial<Clip> = {}): Clip {
   return {
@@ -66,6 +66,14 @@ describe('upsertClip', () => {
     const list = [clip(1), clip(3)];
     expect(upsertClip(list, clip(2)).map((c) => c.id)).toEqual([1, 2, 3]);
     expect(upsertClip(list, clip(3, { status: 'ready' }))[1].status).toBe('ready');
+  });
+});
+
+describe('UPLOADS_RUNNING_WARNING', () => {
+  it('says what to do after leaving mid-upload: the part sent is kept, the same file chosen again continues', () => {
+    expect(UPLOADS_RUNNING_WARNING.message).toContain(
+      'What was sent is kept: choose the same file here again to continue where it stopped.',
+    );
   });
 });
 

@@ -19,7 +19,8 @@ import { clipListStep } from '../clip-events';
 /** What leaving a page with uploads still running asks. */
 export const UPLOADS_RUNNING_WARNING: LeaveWarning = {
   title: 'Stop uploading?',
-  message: 'Clips are still uploading. Leaving this page stops the uploads that have not finished.',
+  message:
+    'Clips are still uploading. Leaving this page stops the uploads that have not finished. What was sent is kept: choose the same file here again to continue where it stopped.',
   confirmLabel: 'Leave and stop uploads',
 };
 

@@ -9,6 +9,7 @@ import { ResumableClipUploads } from '../../../core/data/resumable-clip-uploads'
 import { formatBytes } from '../../../shared/clip-status';
 import { ConfigStore } from '../../../core/config-store';
 import {
+  HeldClip,
   UploadItem,
   UploadState,
   addFiles,
@@ -62,6 +63,8 @@ export class ClipUploader {
   private readonly config = inject(ConfigStore);
 
   readonly assessmentId = input.required<number>();
+  /** The assessment's clips: a file chosen again with the same name and size is held back, not sent twice. */
+  readonly existing = input<readonly HeldClip[]>([]);
   /** Emits each clip as soon as the server has accepted its upload. */
   readonly uploaded = output<Clip>();
 
@@ -87,7 +90,7 @@ export class ClipUploader {
   /** Adds files to the line (also used by tests and by drops). */
   addFiles(files: readonly File[]): void {
     if (!files.length) return;
-    const result = addFiles(this.items(), files, this.nextId, this.config.uploadMaxBytes());
+    const result = addFiles(this.items(), files, this.nextId, this.config.uploadMaxBytes(), this.existing());
     this.nextId = result.nextId;
     this.items.set(result.items);
     this.pump();

@@ -137,6 +137,14 @@ export class PortalPlan implements LeaveGuarded {
     this.outbox.delivered.pipe(takeUntilDestroyed()).subscribe(({ item }) => {
       if (item.planId === this.summary()?.id) this.logs.reload();
     });
+    // A refusal (the coach moved the stage on, paused or finished the plan meanwhile): read the plan
+    // again, so the page shows today's stage and "Send for today's stage" aims at it, not the old one.
+    this.outbox.refusals.pipe(takeUntilDestroyed()).subscribe((item) => {
+      if (item.planId !== this.summary()?.id) return;
+      this.plans.reload();
+      this.plan.reload();
+      this.logs.reload();
+    });
   }
 
   leaveWarning(): LeaveWarning | null {
