@@ -3,6 +3,7 @@ import {
   AnnotationState,
   EMPTY_STATE,
   applyChanges,
+  changesThatFit,
   diffStates,
   invertChanges,
   mergeOnto,
@@ -139,5 +140,19 @@ describe('landmark origin through edits', () => {
     const placed = state({ landmarks: [{ frame: 7, side: 'right', points: { knee: { x: 0.5, y: 0.6, origin: 'placed' } } }] });
     expect(diffStates(followed, placed)).toHaveLength(1);
     expect(sameState(placed, state({ landmarks: [{ frame: 7, side: 'right', points: { knee: { x: 0.5, y: 0.6 } } }] }))).toBe(true);
+  });
+});
+
+describe('changesThatFit', () => {
+  it('keeps the changes whose key still holds their before value and counts the rest', () => {
+    const placed = setPointChanges(EMPTY_STATE, 3, 'left', 'knee', { x: 0.4, y: 0.5 });
+    const marked = toggleEventChanges(EMPTY_STATE, 3, 'left', 'toe_off');
+    const now = applyChanges(EMPTY_STATE, [...placed, ...marked]);
+    // Someone else's save moved the knee since.
+    const moved = applyChanges(now, setPointChanges(now, 3, 'left', 'knee', { x: 0.7, y: 0.5 }));
+    const { fit, skipped } = changesThatFit(moved, invertChanges([...placed, ...marked]));
+    expect(skipped).toBe(1);
+    expect(fit.map((c) => c.key.kind)).toEqual(['event']);
+    expect(changesThatFit(now, invertChanges([...placed, ...marked])).skipped).toBe(0);
   });
 });

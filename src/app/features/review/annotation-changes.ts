@@ -181,6 +181,17 @@ export function invertChanges(changes: readonly Change[]): Change[] {
   return [...changes].reverse().map((c) => ({ key: c.key, before: c.after, after: c.before }) as Change);
 }
 
+/**
+ * The part of an undo or redo that still fits `state`: the changes whose key holds their `before`
+ * value. A key changed since by a save merged in from elsewhere (a colleague, another tab) or by
+ * marks taken from the server is left as it is, so an undo never removes or moves a mark it did
+ * not make; `skipped` counts those.
+ */
+export function changesThatFit(state: AnnotationState, changes: readonly Change[]): { fit: Change[]; skipped: number } {
+  const fit = changes.filter((c) => sameValue(valueAt(state, c.key), c.before, c.key.kind));
+  return { fit, skipped: changes.length - fit.length };
+}
+
 /** Drops changes whose before and after are the same. */
 export function effectiveChanges(changes: readonly Change[]): Change[] {
   return changes.filter((c) => !sameValue(c.before, c.after, c.key.kind));

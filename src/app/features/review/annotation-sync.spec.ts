@@ -5,6 +5,7 @@ import type { ClipAnnotations } from '../../../contracts/annotations';
 import { AnnotationState, applyChanges, stateOf } from './annotation-changes';
 import { setPointChanges, toggleEventChanges } from './annotation-ops';
 import { AnnotationSync } from './annotation-sync';
+import { DRAFT_RESTORED, draftKey } from './review-draft';
 
 function annotations(revision: number, partial: Partial<ClipAnnotations> = {}): ClipAnnotations {
   return { clipId: 7, revision, landmarks: [], events: [], scale: null, updatedAt: null, updatedByName: null, ...partial };
@@ -35,6 +36,7 @@ describe('AnnotationSync', () => {
   afterEach(() => {
     backend.verify();
     vi.useRealTimers();
+    sessionStorage.clear();
   });
 
   const edit = (changes: Parameters<typeof applyChanges>[1]) => {
@@ -136,5 +138,36 @@ describe('AnnotationSync', () => {
     expect(second.request.body.events).toHaveLength(2);
     second.flush(annotations(5, { events: local.events }));
     expect(sync.state()).toBe('saved');
+  });
+
+  it('keeps marks refused because the session ended and puts them back when the clip opens again', () => {
+    edit(setPointChanges(local, 1, 'left', 'hip', { x: 0.5, y: 0.5 }));
+    vi.advanceTimersByTime(800);
+    puts()[0].flush({ error: { code: 'unauthenticated', message: 'Please sign in.' } }, { status: 401, statusText: 'Unauthorized' });
+    expect(sync.state()).toBe('failed');
+    expect(sync.sessionEnded()).toBe(true);
+    sync.stop(); // the page goes to sign-in
+    expect(sessionStorage.getItem(draftKey(7))).not.toBeNull();
+
+    // Signed in again, the clip opens on the server's copy (someone added a knee meanwhile).
+    const knee = { frame: 1, side: 'left' as const, points: { knee: { x: 0.5, y: 0.7 } } };
+    let shown = stateOf(annotations(4, { landmarks: [knee] }));
+    const told: string[] = [];
+    sync.start(7, annotations(4, { landmarks: [knee] }), { local: () => shown, replaceLocal: (s, m) => ((shown = s), told.push(m)) });
+    expect(told).toEqual([DRAFT_RESTORED]);
+    expect(Object.keys(shown.landmarks[0].points).sort()).toEqual(['hip', 'knee']);
+    vi.advanceTimersByTime(0);
+    const [req] = puts();
+    expect(req.request.body.baseRevision).toBe(4);
+    req.flush(annotations(5, { landmarks: req.request.body.landmarks }));
+    expect(sync.state()).toBe('saved');
+    expect(sessionStorage.getItem(draftKey(7))).toBeNull();
+  });
+
+  it('forgets unsaved marks the coach chose to leave behind', () => {
+    edit(setPointChanges(local, 1, 'left', 'hip', { x: 0.5, y: 0.5 }));
+    expect(sessionStorage.getItem(draftKey(7))).not.toBeNull();
+    sync.stop(); // left the page with "Leave and discard"
+    expect(sessionStorage.getItem(draftKey(7))).toBeNull();
   });
 });

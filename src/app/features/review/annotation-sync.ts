@@ -5,6 +5,7 @@ import { AuthStore } from '../../core/auth-store';
 import { AnnotationState, mergeOnto, sameState, stateOf } from './annotation-changes';
 import { SAVE_DEBOUNCE_MS, SaveState, conflictMessage, isRetryableStatus, retryDelayMs } from './autosave';
 import { ReviewApi } from '../../core/data/review-api';
+import { DRAFT_RESTORED, clearDraft, readDraft, restoreDraft, tabStorage, writeDraft } from './review-draft';
 
 /** What the sync needs from the page holding the edits. */
 export interface SyncHost {
@@ -38,6 +39,12 @@ export class AnnotationSync {
   readonly base = this.base$.asReadonly();
   /** Whether leaving now would lose edits. */
   readonly hasUnsaved = computed(() => this.state$() !== 'saved');
+  /**
+   * Whether the last save was refused because the session ended: the unsaved marks are kept in the
+   * tab (see `review-draft.ts`) and come back when the clip opens after signing in again.
+   */
+  readonly sessionEnded = computed(() => this.state$() === 'failed' && this.failedStatus$() === 401);
+  private readonly failedStatus$ = signal<number | null>(null);
 
   private clipId = 0;
   private host: SyncHost | null = null;
@@ -53,7 +60,10 @@ export class AnnotationSync {
     inject(DestroyRef).onDestroy(() => this.stop());
   }
 
-  /** Starts syncing a clip from the annotations just loaded. */
+  /**
+   * Starts syncing a clip from the annotations just loaded. Marks this tab had not saved on the clip
+   * (kept in session storage, see `review-draft.ts`) are put back on top and saved.
+   */
   start(clipId: number, loaded: ClipAnnotations, host: SyncHost): void {
     this.clearTimer();
     this.clipId = clipId;
@@ -62,6 +72,17 @@ export class AnnotationSync {
     this.attempt = 0;
     this.problem$.set(null);
     this.state$.set('saved');
+    const draft = readDraft(tabStorage(), clipId, this.userId());
+    if (!draft) return;
+    const { state, applied } = restoreDraft(draft, stateOf(loaded));
+    if (applied && !sameState(state, stateOf(loaded))) {
+      host.replaceLocal(state, DRAFT_RESTORED);
+      this.state$.set('unsaved');
+      this.keepDraft();
+      this.schedule(0);
+    } else {
+      clearDraft(tabStorage(), clipId);
+    }
   }
 
   /** Call after every edit (and undo/redo). */
@@ -71,8 +92,10 @@ export class AnnotationSync {
     if (this.isClean()) {
       this.clearTimer();
       this.state$.set('saved');
+      this.keepDraft();
       return;
     }
+    this.keepDraft();
     if (this.state$() === 'offline') return; // The retry timer sends the latest edits.
     this.state$.set('unsaved');
     this.problem$.set(null);
@@ -94,8 +117,12 @@ export class AnnotationSync {
     this.problem$.set(null);
   }
 
-  /** Stops timers (page left). */
+  /**
+   * Stops timers (page left). Leaving inside the app with unsaved marks means the coach chose to
+   * discard them, unless the session ended (then they wait in the tab for the next sign-in).
+   */
   stop(): void {
+    if (this.host && this.state$() !== 'saved' && !this.sessionEnded()) clearDraft(tabStorage(), this.clipId);
     this.clearTimer();
     globalThis.removeEventListener?.('online', this.onOnline);
     this.host = null;
@@ -154,6 +181,19 @@ export class AnnotationSync {
       this.state$.set('unsaved');
       this.schedule(SAVE_DEBOUNCE_MS);
     }
+    this.keepDraft();
+  }
+
+  /** Keeps unsaved marks in the tab's session storage, or forgets them once the server has them. */
+  private keepDraft(): void {
+    const base = this.base$();
+    if (!this.host || !base) return;
+    if (this.isClean()) clearDraft(tabStorage(), this.clipId);
+    else writeDraft(tabStorage(), { clipId: this.clipId, userId: this.userId(), base: stateOf(base), local: this.host.local() });
+  }
+
+  private userId(): number | null {
+    return this.auth.user()?.id ?? null;
   }
 
   private onError(err: unknown): void {
@@ -178,6 +218,7 @@ export class AnnotationSync {
       this.schedule(retryDelayMs(this.attempt));
       return;
     }
+    this.failedStatus$.set(status);
     this.state$.set('failed');
     this.problem$.set(errorMessage(err));
   }
@@ -192,6 +233,7 @@ export class AnnotationSync {
     const byYou = !!current.updatedByName && current.updatedByName === this.auth.user()?.name;
     host.replaceLocal(merged, conflictMessage(current.updatedByName, applied, conflicts, byYou));
     this.attempt = 0;
+    this.keepDraft();
     if (this.isClean()) {
       this.state$.set('saved');
     } else {

@@ -93,4 +93,24 @@ describe('ReviewStore', () => {
     expect(store.jumpToEvent(1)).toBe(false);
     expect(store.timeMs()).toBeCloseTo(200);
   });
+
+  it("an undo after a colleague's save was merged in leaves the colleague's mark alone", () => {
+    // Placed here: shoulder, then hip. A colleague's save moved the shoulder; the conflict merge
+    // shows their shoulder with this tab's hip on top (what AnnotationSync's replaceLocal does).
+    store.placeAt({ x: 0.3, y: 0.3 });
+    store.placeAt({ x: 0.3, y: 0.4 });
+    const theirs = { x: 0.65, y: 0.29 };
+    store.annotations.update((s) => ({
+      ...s,
+      landmarks: s.landmarks.map((row) => ({ ...row, points: { ...row.points, shoulder: theirs } })),
+    }));
+    store.undo(); // hip: this tab's own mark, undone
+    expect(store.sidePoints().hip).toBeUndefined();
+    store.undo(); // shoulder: the colleague's now, kept (before: removed, their mark was lost)
+    expect(store.sidePoints().shoulder).toEqual(theirs);
+    store.redo(); // nothing of this command fits any more: still theirs
+    expect(store.sidePoints().shoulder).toEqual(theirs);
+    store.redo();
+    expect(store.sidePoints().hip).toEqual({ x: 0.3, y: 0.4 });
+  });
 });

@@ -5,7 +5,17 @@ import { GAIT_EVENT_LABELS, LANDMARKS, LANDMARK_LABELS } from '../../../contract
 import type { Assessment, Clip } from '../../../contracts/api';
 import type { Side } from '../../../contracts/assessment';
 import type { ClipMeasures, ReferenceBand } from '../../../contracts/measures';
-import { AnnotationState, Change, EMPTY_STATE, PointKey, applyChanges, invertChanges, stateOf, valueAt } from './annotation-changes';
+import {
+  AnnotationState,
+  Change,
+  EMPTY_STATE,
+  PointKey,
+  applyChanges,
+  changesThatFit,
+  invertChanges,
+  stateOf,
+  valueAt,
+} from './annotation-changes';
 import {
   copyPreviousChanges,
   neighbourEventFrame,
@@ -45,6 +55,13 @@ const SIDE_NAMES: Record<Side, string> = { left: 'Left', right: 'Right' };
 
 /** Said when a mark is tried while frames are still being extracted. */
 export const MARKING_WAITS = 'Marking opens once every frame is extracted; step through the frames that are here meanwhile.';
+
+/** Said when an undo or redo leaves marks alone that were changed by a save from elsewhere. */
+export function keptMarksMessage(skipped: number): string {
+  return skipped === 1
+    ? 'One mark was changed since in another save, so it was left as it is.'
+    : `${skipped} marks were changed since in another save, so they were left as they are.`;
+}
 
 /**
  * The review workspace's state: the clip, the annotations as shown (with undo/redo and autosave),
@@ -471,8 +488,7 @@ export class ReviewStore {
     const result = undo(this.history$());
     if (!result) return null;
     this.history$.set(result.history);
-    this.annotations.update((s) => applyChanges(s, invertChanges(result.command.changes)));
-    this.afterHistoryMove();
+    this.applyHistoryMove(invertChanges(result.command.changes));
     return result.command.label;
   }
 
@@ -480,9 +496,16 @@ export class ReviewStore {
     const result = redo(this.history$());
     if (!result) return null;
     this.history$.set(result.history);
-    this.annotations.update((s) => applyChanges(s, result.command.changes));
-    this.afterHistoryMove();
+    this.applyHistoryMove(result.command.changes);
     return result.command.label;
+  }
+
+  /** Applies an undo or redo to the marks it still fits; marks saved since by someone else stay. */
+  private applyHistoryMove(changes: readonly Change[]): void {
+    const { fit, skipped } = changesThatFit(this.annotations(), changes);
+    this.annotations.update((s) => applyChanges(s, fit));
+    if (skipped) this.snackBar.open(keptMarksMessage(skipped), 'OK', { duration: 6000 });
+    this.afterHistoryMove();
   }
 
   /** Applies `changes` as one undo step called `label` (for tools kept in their own files). */

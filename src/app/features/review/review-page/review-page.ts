@@ -118,6 +118,7 @@ export class ReviewPage implements LeaveGuarded {
   protected readonly gauges = inject(GaugeTool);
   protected readonly following = inject(MarkerFollowing);
   private readonly api = inject(ReviewApi);
+  private readonly sync = inject(AnnotationSync);
   private readonly assessmentsApi = inject(AssessmentsApi);
   private readonly athletesApi = inject(AthletesApi);
   private readonly bandsApi = inject(ReferenceBandsApi);
@@ -305,6 +306,8 @@ export class ReviewPage implements LeaveGuarded {
   }
 
   leaveWarning(): LeaveWarning | null {
+    // An ended session sends the coach to sign in; the unsaved marks wait in this tab meanwhile.
+    if (this.sync.sessionEnded()) return null;
     return this.store.hasUnsaved() ? UNSAVED_MARKS_WARNING : null;
   }
 
