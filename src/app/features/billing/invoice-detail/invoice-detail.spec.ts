@@ -1,8 +1,7 @@
-import { provideHttpClient } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
-import { ComponentFixture, TestBed } from '@angular/core/testing';
-import { provideRouter } from '@angular/router';
+import type { HttpTestingController } from '@angular/common/http/testing';
+import type { ComponentFixture } from '@angular/core/testing';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
+import { mountPage } from '../../../shared/testing/mount-page';
 import { InvoiceDetailPage } from './invoice-detail';
 
 const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -20,15 +19,7 @@ describe('InvoiceDetailPage', () => {
   };
 
   beforeEach(async () => {
-    TestBed.configureTestingModule({
-      imports: [InvoiceDetailPage],
-      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])],
-    });
-    backend = TestBed.inject(HttpTestingController);
-    fixture = TestBed.createComponent(InvoiceDetailPage);
-    fixture.componentRef.setInput('id', '999');
-    element = fixture.nativeElement;
-    fixture.detectChanges();
+    ({ fixture, element, backend } = mountPage(InvoiceDetailPage, { id: '999' }));
     await wait(10);
   });
   afterEach(() => backend.verify());

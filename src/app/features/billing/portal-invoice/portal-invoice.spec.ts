@@ -1,9 +1,9 @@
-import { provideHttpClient } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
-import { ComponentFixture, TestBed } from '@angular/core/testing';
-import { ActivatedRoute, convertToParamMap, provideRouter } from '@angular/router';
+import type { HttpTestingController } from '@angular/common/http/testing';
+import type { ComponentFixture } from '@angular/core/testing';
+import { ActivatedRoute, convertToParamMap } from '@angular/router';
 import { BehaviorSubject } from 'rxjs';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
+import { mountPage } from '../../../shared/testing/mount-page';
 import type { InvoiceDetail } from '../../../../contracts/billing';
 import { POLL_MS } from './pay-view';
 import { PortalInvoice } from './portal-invoice';
@@ -63,20 +63,9 @@ describe('PortalInvoice', () => {
 
   async function open(checkout: string | null) {
     const query = new BehaviorSubject(convertToParamMap(checkout ? { checkout } : {}));
-    TestBed.configureTestingModule({
-      imports: [PortalInvoice],
-      providers: [
-        provideHttpClient(),
-        provideHttpClientTesting(),
-        provideRouter([]),
-        { provide: ActivatedRoute, useValue: { queryParamMap: query } },
-      ],
-    });
-    backend = TestBed.inject(HttpTestingController);
-    fixture = TestBed.createComponent(PortalInvoice);
-    fixture.componentRef.setInput('id', '7');
-    element = fixture.nativeElement;
-    fixture.detectChanges();
+    ({ fixture, element, backend } = mountPage(PortalInvoice, { id: '7' }, [
+      { provide: ActivatedRoute, useValue: { queryParamMap: query } },
+    ]));
     await wait(10);
   }
   const settle = async () => {

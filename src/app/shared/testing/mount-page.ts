@@ -1,0 +1,28 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import type { Provider, Type } from '@angular/core';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { provideRouter } from '@angular/router';
+
+/** A page created for a spec, with the HTTP backend that answers its requests. */
+export interface MountedPage<T> {
+  fixture: ComponentFixture<T>;
+  element: HTMLElement;
+  backend: HttpTestingController;
+}
+
+/**
+ * Creates a routed page for a spec: HttpClient with the testing backend, an empty router, the
+ * given extra providers and route inputs; runs the first change detection (so its loads start).
+ */
+export function mountPage<T>(page: Type<T>, inputs: Record<string, unknown>, providers: Provider[] = []): MountedPage<T> {
+  TestBed.configureTestingModule({
+    imports: [page],
+    providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), ...providers],
+  });
+  const backend = TestBed.inject(HttpTestingController);
+  const fixture = TestBed.createComponent(page);
+  for (const [name, value] of Object.entries(inputs)) fixture.componentRef.setInput(name, value);
+  fixture.detectChanges();
+  return { fixture, element: fixture.nativeElement as HTMLElement, backend };
+}
