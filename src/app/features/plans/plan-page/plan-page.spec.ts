@@ -2,47 +2,13 @@ import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
-import { DEFAULT_PAIN_RULE, type PlanDetail } from '../../../../contracts/plans';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
+import { aPlan } from '../../../shared/testing/plan-fixtures';
 import { PlanPage } from './plan-page';
 
 const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
-const PLAN = {
-  id: 5,
-  athleteId: 4,
-  title: 'Hamstring strain: staged loading',
-  status: 'draft',
-  assessmentId: null,
-  assessmentDate: null,
-  stageCount: 1,
-  currentStageId: null,
-  currentStageName: null,
-  currentStagePosition: null,
-  alerts: [],
-  startedAt: null,
-  finishedAt: null,
-  createdAt: '2026-11-01T10:00:00Z',
-  updatedAt: '2026-11-01T10:00:00Z',
-  notes: null,
-  revision: 1,
-  painRule: DEFAULT_PAIN_RULE,
-  stages: [
-    {
-      id: 31,
-      position: 1,
-      name: 'Isometric holds',
-      goal: 'Calm',
-      targetWeeks: 2,
-      progressionText: 'When calm',
-      criteria: [],
-      exercises: [],
-      sessionsPerWeek: 0,
-      startedAt: null,
-      completedAt: null,
-    },
-  ],
-} as unknown as PlanDetail;
+const PLAN = aPlan();
 
 describe('PlanPage', () => {
   let fixture: ComponentFixture<PlanPage>;

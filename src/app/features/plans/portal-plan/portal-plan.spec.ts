@@ -4,53 +4,24 @@ import { signal } from '@angular/core';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
 import { Subject } from 'rxjs';
-import { DEFAULT_PAIN_RULE, type PlanDetail } from '../../../../contracts/plans';
 import { AuthStore } from '../../../core/auth-store';
 import { LogOutbox } from '../../../core/data/log-outbox';
 import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
+import { aPlan } from '../../../shared/testing/plan-fixtures';
 import { PortalPlan } from './portal-plan';
 
 const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
-const SUMMARY = {
-  id: 5,
-  athleteId: 4,
-  title: 'Hamstring strain: staged loading',
+const PLAN = aPlan({
   status: 'active',
-  assessmentId: null,
-  assessmentDate: null,
-  stageCount: 1,
   currentStageId: 31,
   currentStageName: 'Isometric holds',
   currentStagePosition: 1,
-  alerts: [],
   startedAt: '2026-11-01T10:00:00Z',
-  finishedAt: null,
-  createdAt: '2026-11-01T10:00:00Z',
-  updatedAt: '2026-11-01T10:00:00Z',
-};
-const PLAN = {
-  ...SUMMARY,
-  notes: null,
-  revision: 1,
-  painRule: DEFAULT_PAIN_RULE,
-  stages: [
-    {
-      id: 31,
-      position: 1,
-      name: 'Isometric holds',
-      goal: 'Calm',
-      targetWeeks: 2,
-      progressionText: 'When calm',
-      criteria: [],
-      exercises: [],
-      sessionsPerWeek: 0,
-      startedAt: '2026-11-01T10:00:00Z',
-      completedAt: null,
-    },
-  ],
-} as unknown as PlanDetail;
+});
+PLAN.stages[0]!.startedAt = '2026-11-01T10:00:00Z';
+const { notes: _notes, revision: _revision, painRule: _painRule, stages: _stages, ...SUMMARY } = PLAN;
 
 describe('PortalPlan', () => {
   let fixture: ComponentFixture<PortalPlan>;
