@@ -217,6 +217,25 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     await expect.poll(() => page.getByRole('dialog').getByRole('button', { name: 'Add Prone hamstring hold again' }).count()).toBe(1);
     await page.getByRole('dialog').getByRole('button', { name: 'Close' }).click();
     await expect.poll(() => page.getByRole('dialog').count()).toBe(0);
+    // On a phone the editor does not scroll sideways (no button, nor its touch target, past its card) and stage names show whole.
+    await page.setViewportSize(PHONE);
+    await page.waitForTimeout(800);
+    expect(await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth)).toBeLessThanOrEqual(0);
+    const pastTheirCard = await page
+      .locator('.stage-exercise, .stage')
+      .evaluateAll((boxes) =>
+        boxes.flatMap((box) =>
+          [...box.querySelectorAll('button, .mat-mdc-button-touch-target')]
+            .filter((b) => b.getBoundingClientRect().right > box.getBoundingClientRect().right + 0.5)
+            .map((b) => b.closest('button')?.getAttribute('aria-label')),
+        ),
+      );
+    expect(pastTheirCard).toEqual([]);
+    const cutNames = await page
+      .locator('.stage-name input')
+      .evaluateAll((inputs) => (inputs as HTMLInputElement[]).filter((i) => i.scrollWidth > i.clientWidth).map((i) => i.value));
+    expect(cutNames).toEqual([]);
+    await fullShot(page, 'plans-builder-phone.png');
     await page.setViewportSize(DESKTOP);
     expect(await axeProblems(page)).toEqual([]);
     await fullShot(page, 'plans-builder.png');

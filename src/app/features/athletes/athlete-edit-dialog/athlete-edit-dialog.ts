@@ -11,7 +11,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { firstValueFrom } from 'rxjs';
 import type { AthleteDetail } from '../../../../contracts/api';
 import { LIMITS } from '../../../../contracts/intake';
-import { errorStatus, fieldProblems } from '../../../core/api-error';
+import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { athleteIdentityControls, identityPayload } from '../athlete-form-fields';
@@ -41,6 +41,7 @@ export class AthleteEditDialog {
   protected readonly athlete = inject<AthleteDetail>(MAT_DIALOG_DATA);
 
   protected readonly coaches = rxResource({ stream: () => this.api.coaches() });
+  protected readonly errorMessage = errorMessage;
   protected readonly coachOptions = computed(() => {
     const list = this.coaches.hasValue() ? this.coaches.value() : [];
     // Keep the current coach selectable even if the list no longer includes them.

@@ -6,6 +6,7 @@ import { provideRouter } from '@angular/router';
 import { of } from 'rxjs';
 import type { AthleteSummary } from '../../../../contracts/api';
 import type { AthletePlanAlerts } from '../../../../contracts/plans';
+import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { AthleteList } from './athlete-list';
 
 function athlete(id: number, firstName: string, lastName: string, extra: Partial<AthleteSummary> = {}): AthleteSummary {
@@ -60,6 +61,20 @@ describe('AthleteList', () => {
     expect(element.querySelector('mat-progress-bar')).not.toBeNull();
     await answer([]);
     expect(element.querySelector('mat-progress-bar')).toBeNull();
+  });
+
+  it('a failed pain-alert check says so above the roster with Try again, and the roster still shows', async () => {
+    backend.expectOne('/api/athletes').flush({ athletes: [athlete(1, 'Cleo', 'Bright')] });
+    flushApiError(backend.expectOne('/api/plan-alerts'), 500, 'The database is busy.');
+    await fixture.whenStable();
+    expect(element.querySelector('app-error-state')?.textContent).toContain("Couldn't check the plans for pain alerts");
+    expect(element.querySelector('app-error-state')?.textContent).toContain('The database is busy.');
+    expect(rowNames()).toEqual(['Cleo Bright']);
+    buttonWithText(element, 'Try again').click();
+    await new Promise((r) => setTimeout(r, 10));
+    backend.expectOne('/api/plan-alerts').flush({ alerts: [] });
+    await fixture.whenStable();
+    expect(element.querySelector('app-error-state')).toBeNull();
   });
 
   it('lists athletes sorted by last name with their account state and pain', async () => {

@@ -63,7 +63,8 @@ export class AthleteList {
   protected readonly columns = computed(() => (this.isPhone() ? PHONE_COLUMNS : ALL_COLUMNS));
   /** Pain alerts of running plans, by athlete (a failed load just shows no chips). */
   private readonly plansApi = inject(PlansApi);
-  private readonly planAlerts = rxResource({ stream: () => this.plansApi.alerts() });
+  /** The running plans' pain alerts, shown on the rows; a failed check says so above the roster (no alert must go unseen). */
+  protected readonly planAlerts = rxResource({ stream: () => this.plansApi.alerts() });
   protected readonly alertsByAthlete = computed(
     () => new Map((this.planAlerts.hasValue() ? this.planAlerts.value() : []).map((a) => [a.athleteId, a])),
   );

@@ -6,6 +6,7 @@ import { RouterTestingHarness } from '@angular/router/testing';
 import type { Assessment } from '../../../../contracts/api';
 import type { InvoiceDetail, Price } from '../../../../contracts/billing';
 import { toIsoDate } from '../../../shared/dates';
+import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
 import { InvoiceForm } from './invoice-form';
 
@@ -261,5 +262,94 @@ describe('InvoiceForm reached by address', () => {
     const el = harness.routeNativeElement!;
     expect(el.querySelector('form')).toBeNull();
     expect(el.querySelector('.form-problem')?.textContent).toContain('Invoice TF-2026-0007 is issued; only drafts can be edited.');
+  });
+
+  it('"Invoice this visit" when the athlete\'s assessments cannot be loaded says so with Try again, then chooses the visit', async () => {
+    await open('/billing/invoices/new?athlete=4&assessment=11');
+    await settle();
+    flushApiError(backend.expectOne('/api/athletes/4/assessments'), 500, 'The database is busy.');
+    await settle();
+    const el = harness.routeNativeElement!;
+    expect(el.querySelector('app-error-state')?.textContent).toContain("Couldn't load the athlete's assessments");
+    expect(el.querySelector('app-error-state')?.textContent).toContain('The database is busy.');
+    expect(el.querySelector('form')).not.toBeNull();
+
+    buttonWithText(el, 'Try again').click();
+    await settle();
+    backend.expectOne('/api/athletes/4/assessments').flush({ assessments: [{ id: 11, athleteId: 4, date: '2026-11-24', kind: 'retest' }] });
+    await settle();
+    expect(el.querySelector('app-error-state')).toBeNull();
+    expect(form.form.getRawValue()).toMatchObject({ athleteId: 4, assessmentId: 11 });
+  });
+
+  it('a draft that cannot be found (mistyped or deleted) says so with Try again, and the loading bar ends', async () => {
+    await open('/billing/invoices/999/edit');
+    flushApiError(backend.expectOne('/api/invoices/999'), 404, 'Invoice not found.');
+    await settle();
+    const el = harness.routeNativeElement!;
+    expect(el.querySelector('mat-progress-bar')).toBeNull();
+    expect(el.textContent).toContain("Couldn't load the draft");
+    expect(el.textContent).toContain('Invoice not found.');
+    expect(el.querySelector('form')).toBeNull();
+  });
+});
+
+describe('InvoiceForm when its lists cannot be loaded', () => {
+  let fixture: ComponentFixture<InvoiceForm>;
+  let element: HTMLElement;
+  let backend: HttpTestingController;
+
+  const settle = async () => {
+    await wait(20);
+    fixture.detectChanges();
+    await wait(10);
+    fixture.detectChanges();
+  };
+
+  beforeEach(async () => {
+    TestBed.configureTestingModule({
+      imports: [InvoiceForm],
+      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), provideIsoDateAdapter()],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(InvoiceForm);
+    element = fixture.nativeElement;
+    fixture.detectChanges();
+    await wait(10);
+  });
+  afterEach(() => backend.verify());
+
+  it('the network down: one sentence names what failed, the form stays, and Try again loads the lists', async () => {
+    const down = { status: 0, statusText: 'Unknown Error' };
+    backend.expectOne('/api/athletes').error(new ProgressEvent('error'), down);
+    backend.expectOne('/api/prices').error(new ProgressEvent('error'), down);
+    backend.expectOne('/api/billing/settings').error(new ProgressEvent('error'), down);
+    await settle();
+    const state = element.querySelector('app-error-state');
+    expect(state?.textContent).toContain("Couldn't load the athletes, the price list and the clinic's currency");
+    expect(state?.textContent).toContain("Can't reach the server");
+    expect(element.querySelector('form')).not.toBeNull();
+
+    buttonWithText(element, 'Try again').click();
+    await settle();
+    backend.expectOne('/api/athletes').flush({ athletes: [{ id: 4, firstName: 'Ada', lastName: 'Kestrel' }] });
+    backend.expectOne('/api/prices').flush({ prices: PRICES });
+    backend.expectOne('/api/billing/settings').flush({ currency: 'EUR' });
+    await settle();
+    expect(element.querySelector('app-error-state')).toBeNull();
+  });
+
+  it('a failed price list leaves custom lines working and says why', async () => {
+    backend.expectOne('/api/athletes').flush({ athletes: [{ id: 4, firstName: 'Ada', lastName: 'Kestrel' }] });
+    flushApiError(backend.expectOne('/api/prices'), 500, 'The database is busy.');
+    backend.expectOne('/api/billing/settings').flush({ currency: 'EUR' });
+    await settle();
+    expect(element.querySelector('app-error-state')?.textContent).toContain("Couldn't load the price list");
+    const form = fixture.componentInstance as unknown as FormApi;
+    form.pickPrice(0, 2);
+    form.pickAssessment({ id: 11, kind: 'retest' });
+    form.lines.at(0).setValue({ priceId: null, description: 'Taping', quantity: 1, amount: '45.00', tax: '' });
+    await settle();
+    expect(element.querySelector('[data-testid="preview-total"]')?.textContent).toBe('45.00 EUR');
   });
 });

@@ -126,7 +126,19 @@ export class InvoiceForm {
     this.formValue();
     return previewTotals(this.lines.getRawValue() as LineDraft[]);
   });
-  protected readonly currency = computed(() => this.settings.value()?.currency ?? '');
+  // A resource in error throws from value(): the lists below are read only when they have one.
+  protected readonly currency = computed(() => (this.settings.hasValue() ? this.settings.value().currency : ''));
+  protected readonly athleteOptions = computed(() => (this.athletes.hasValue() ? this.athletes.value() : []));
+  protected readonly assessmentOptions = computed(() => (this.assessments.hasValue() ? this.assessments.value() : []));
+  protected readonly priceOptions = computed(() => (this.prices.hasValue() ? this.prices.value() : []));
+  /** What the form could not load (the athletes, the prices, the currency, the athlete's visits), said once with one Try again. */
+  protected readonly listProblem = computed(() => {
+    const failed = this.lists().filter((l) => l.resource.error());
+    if (!failed.length) return null;
+    const names = failed.map((l) => l.what);
+    const joined = names.length === 1 ? names[0] : `${names.slice(0, -1).join(', ')} and ${names[names.length - 1]}`;
+    return { title: `Couldn't load ${joined}`, message: errorMessage(failed[0]!.resource.error()) };
+  });
   protected readonly saving = signal(false);
   protected readonly problem = signal<string | null>(null);
   protected readonly kindLabels = ASSESSMENT_KIND_LABELS;
@@ -158,9 +170,8 @@ export class InvoiceForm {
     // "Invoice this visit": choose the assessment and its usual price once both lists are there.
     effect(() => {
       const wanted = this.presetAssessment();
+      if (wanted === null || this.assessments.isLoading() || !this.assessments.hasValue() || !this.prices.hasValue()) return;
       const list = this.assessments.value();
-      const priceList = this.prices.value();
-      if (wanted === null || this.assessments.isLoading() || !list || !priceList) return;
       untracked(() => {
         this.presetAssessment.set(null);
         const a = list.find((x) => x.id === wanted);
@@ -169,6 +180,20 @@ export class InvoiceForm {
         this.pickAssessment(a);
       });
     });
+  }
+
+  private lists() {
+    return [
+      { what: 'the athletes', resource: this.athletes },
+      { what: 'the price list', resource: this.prices },
+      { what: "the clinic's currency", resource: this.settings },
+      { what: "the athlete's assessments", resource: this.assessments },
+    ];
+  }
+
+  /** Try again: loads the lists that failed once more. */
+  protected reloadFailedLists(): void {
+    for (const l of this.lists()) if (l.resource.error()) l.resource.reload();
   }
 
   /** Puts a saved draft into the form (athlete first: choosing an athlete clears the assessment). */
@@ -203,14 +228,14 @@ export class InvoiceForm {
 
   /** Picking a price fills the line; "Custom" leaves it for typing. */
   protected pickPrice(i: number, priceId: number | null): void {
-    const p = this.prices.value()?.find((x) => x.id === priceId);
+    const p = this.priceOptions().find((x) => x.id === priceId);
     if (p) this.lines.at(i).setValue(lineFromPrice(p));
   }
 
   /** Billing an assessment suggests its usual price when the lines are still empty. */
   protected pickAssessment(a: Assessment | null): void {
     if (!a) return;
-    const p = priceForAssessment(a.kind, this.prices.value() ?? []);
+    const p = priceForAssessment(a.kind, this.priceOptions());
     const first = this.lines.at(0);
     const untouched = this.lines.length === 1 && first && !first.controls.description.value.trim() && !first.controls.amount.value.trim();
     if (p && (untouched || this.lines.length === 0)) {
@@ -238,7 +263,9 @@ export class InvoiceForm {
       note: v.note.trim() || null,
       lines: (v.lines as LineDraft[]).map((l) => toLineWrite(l) as InvoiceLineWrite),
     };
-    const editing = this.isEdit() ? this.existing.value() : undefined;
+    const editing = this.isEdit() ? (this.existing.hasValue() ? this.existing.value() : null) : undefined;
+    // Editing, the draft must be there to replace (the form shows only then; this guards a reload that failed meanwhile).
+    if (editing === null) return;
     this.saving.set(true);
     this.problem.set(null);
     try {

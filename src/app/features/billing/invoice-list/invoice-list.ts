@@ -61,6 +61,8 @@ export class InvoiceList {
   }));
   protected readonly list = rxResource({ params: () => this.query(), stream: ({ params }) => this.api.invoices(params) });
   protected readonly athletes = rxResource({ stream: () => this.athletesApi.list() });
+  /** The athlete filter's choices (a resource in error throws from value(): read only when loaded). */
+  protected readonly athleteOptions = computed(() => (this.athletes.hasValue() ? this.athletes.value() : []));
   protected readonly statuses = INVOICE_STATUSES;
   protected readonly words = STATUS_WORDS;
   protected readonly columns = ['number', 'athlete', 'status', 'created', 'due', 'total'];

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { AbstractControl, NonNullableFormBuilder, ReactiveFormsModule, ValidationErrors, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -67,6 +67,8 @@ export class PriceList {
 
   protected readonly prices = rxResource({ stream: () => this.api.prices() });
   protected readonly settings = rxResource({ stream: () => this.api.settings() });
+  /** The clinic's currency once loaded (a resource in error throws from value(), so read it only when it has one). */
+  protected readonly currency = computed(() => (this.settings.hasValue() ? this.settings.value().currency : null));
   protected readonly columns = ['item', 'amount', 'tax', 'actions'];
   protected readonly form = inject(NonNullableFormBuilder).group({
     item: ['', [requiredTrimmed, Validators.maxLength(80)]],
@@ -88,6 +90,12 @@ export class PriceList {
     this.settings.set({ currency });
     this.prices.reload();
     this.snackBar.open(`Prices are now in ${currency}`, 'OK', { duration: 3000 });
+  }
+
+  /** Applies a saved change to the shown list; when the list failed to load meanwhile, loads it again instead. */
+  private changeList(change: (list: Price[]) => Price[]): void {
+    if (this.prices.hasValue()) this.prices.set(change(this.prices.value()));
+    else this.prices.reload();
   }
 
   protected edit(p: Price): void {
@@ -123,10 +131,7 @@ export class PriceList {
     try {
       const current = this.editing();
       const saved = await firstValueFrom(current ? this.api.updatePrice(current.id, body) : this.api.createPrice(body));
-      this.prices.update((list) => {
-        const rest = (list ?? []).filter((p) => p.id !== saved.id);
-        return [...rest, saved].sort((a, b) => a.item.localeCompare(b.item));
-      });
+      this.changeList((list) => [...list.filter((p) => p.id !== saved.id), saved].sort((a, b) => a.item.localeCompare(b.item)));
       this.snackBar.open(current ? `${saved.item} updated` : `${saved.item} added`, 'OK', { duration: 3000 });
       this.cancelEdit();
     } catch (err) {
@@ -157,7 +162,7 @@ export class PriceList {
         if (!ok) return;
         try {
           await firstValueFrom(this.api.archivePrice(p.id));
-          this.prices.update((list) => (list ?? []).filter((x) => x.id !== p.id));
+          this.changeList((list) => list.filter((x) => x.id !== p.id));
           if (this.editing()?.id === p.id) this.cancelEdit();
         } catch {
           // Reported by the error snackbar.

@@ -49,6 +49,19 @@ describe('RetentionCard', () => {
     expect(input().value).toBe('');
   });
 
+  it('a Try again that fails too keeps saying why (the server unreachable), with no field and no loading bar left', async () => {
+    open();
+    flushApiError(backend.expectOne('/api/clinic/retention'), 500, 'The database is busy.');
+    await settle();
+    buttonWithText(element, 'Try again').click();
+    await settle();
+    backend.expectOne('/api/clinic/retention').error(new ProgressEvent('error'), { status: 0, statusText: 'Unknown Error' });
+    await settle();
+    expect(element.querySelector('[role="alert"]')!.textContent).toContain("Can't reach the server");
+    expect(element.querySelector('input')).toBeNull();
+    expect(element.querySelector('mat-progress-bar')).toBeNull();
+  });
+
   it('a refused value keeps what was typed and says why by the field; a failed check says why below', async () => {
     open();
     backend.expectOne('/api/clinic/retention').flush({ months: 24, review: null });

@@ -1,5 +1,5 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, inject, linkedSignal, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, linkedSignal, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -73,7 +73,7 @@ import { ErrorState } from '../../../shared/states/error-state';
               }
             </mat-form-field>
             <button mat-stroked-button type="submit" [disabled]="busy()">Save</button>
-            @if (settings.value()?.months) {
+            @if (stored()?.months) {
               <button mat-button type="button" (click)="check()" [disabled]="busy()">
                 <mat-icon>manage_search</mat-icon>
                 Check now
@@ -87,7 +87,7 @@ import { ErrorState } from '../../../shared/states/error-state';
             <p class="problem" role="alert">{{ p }}</p>
           }
 
-          @if (settings.value()?.review; as r) {
+          @if (stored()?.review; as r) {
             @if (r.confirmedAt) {
               <p class="muted small">
                 Last list confirmed {{ r.confirmedAt | date: 'medium' }}: {{ r.removedCount }} clip{{ r.removedCount === 1 ? '' : 's' }}
@@ -126,7 +126,7 @@ import { ErrorState } from '../../../shared/states/error-state';
                 <button mat-flat-button type="button" (click)="confirm(r.id, r.items.length)">Confirm removal</button>
               </div>
             }
-          } @else if (settings.value()?.months) {
+          } @else if (stored()?.months) {
             <p class="muted small">Not checked yet: the daily check lists the clips due. Choose Check now to list them at once.</p>
           }
         }
@@ -193,6 +193,8 @@ export class RetentionCard {
   private readonly snackBar = inject(MatSnackBar);
 
   protected readonly settings = rxResource({ stream: () => this.api.retention() });
+  /** The stored setting, or null while loading or failed (a resource in error throws from value()). */
+  protected readonly stored = computed(() => (this.settings.hasValue() ? this.settings.value() : null));
   protected readonly caution = RETENTION_CAUTION;
   protected readonly max = RETENTION_MAX_MONTHS;
   protected readonly bytes = formatBytes;
@@ -204,7 +206,7 @@ export class RetentionCard {
   protected readonly busy = signal(false);
   protected readonly errorMessage = errorMessage;
   /** What the field shows: the stored value once loaded, then what the owner types. */
-  protected readonly months = linkedSignal<number | string | null>(() => this.settings.value()?.months ?? null);
+  protected readonly months = linkedSignal<number | string | null>(() => this.stored()?.months ?? null);
 
   protected save(): void {
     const typed = this.months();

@@ -4,7 +4,7 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
 import type { Assessment } from '../../../../contracts/api';
 import type { AssessmentComparison, ComparisonRow } from '../../../../contracts/measures';
-import { flushApiError } from '../../../shared/testing/api-errors';
+import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { stubJsdomCanvas } from '../../../shared/testing/jsdom-canvas';
 import { ComparePage } from './compare-page';
 
@@ -183,6 +183,44 @@ describe('ComparePage content', () => {
     await settle();
     expect(element.textContent).not.toContain("Couldn't compare these visits");
     expect(element.querySelector('.stepper [aria-live="polite"]')?.textContent?.trim()).toBe('Step 1 of 3');
+  });
+
+  it('a clip removed meanwhile (its manifest answers 404) says why with Try again instead of throwing, and the pair comes back', async () => {
+    const page = fixture.componentInstance as unknown as { retestLoaded: { reload(): boolean } };
+    page.retestLoaded.reload();
+    await settle();
+    backend.match('/api/clips/12/manifest').forEach((r) => flushApiError(r, 404, 'Clip not found.'));
+    backend.match('/api/clips/12/annotations').forEach((r) => r.cancelled || flushApiError(r, 404, 'Clip not found.'));
+    await settle();
+    expect(element.textContent).toContain("Couldn't load the frames or marks");
+    expect(element.textContent).toContain('Clip not found.');
+    expect(element.querySelector('mat-progress-bar[aria-label="Loading frames"]')).toBeNull();
+    expect(element.querySelector<HTMLButtonElement>('button.save-still')!.disabled).toBe(true);
+
+    buttonWithText(element.querySelector('section.viewer')!, 'Try again').click();
+    for (let i = 0; i < 3; i++) {
+      await settle();
+      answer();
+    }
+    await settle();
+    expect(element.textContent).not.toContain("Couldn't load the frames or marks");
+    expect(element.querySelector('.stepper [aria-live="polite"]')?.textContent?.trim()).toBe('Step 1 of 3');
+  });
+
+  it('failed trends say why with Try again, the rest of the page stays', async () => {
+    const page = fixture.componentInstance as unknown as { trendKeys: { set(keys: string[]): void } };
+    page.trendKeys.set(['cadence']);
+    await settle();
+    flushApiError(
+      backend.expectOne((r) => r.url === '/api/athletes/9/measure-trends'),
+      500,
+      'The database is busy.',
+    );
+    await settle();
+    const trends = element.querySelector('section.trends')!;
+    expect(trends.textContent).toContain("Couldn't load the trends");
+    expect(trends.textContent).toContain('The database is busy.');
+    expect(element.querySelectorAll('section.measures tbody tr').length).toBe(4);
   });
 
   it('counts the steps both visits share at the chosen event and steps through them together', async () => {

@@ -193,11 +193,15 @@ export class ComparePage {
     stream: ({ params }) => this.loadClip(params),
   });
 
+  // Read only when loaded: a clip whose manifest or marks failed (e.g. deleted meanwhile) leaves its resource in error.
+  private readonly baselineData = computed(() => (this.baselineLoaded.hasValue() ? this.baselineLoaded.value() : undefined));
+  private readonly retestData = computed(() => (this.retestLoaded.hasValue() ? this.retestLoaded.value() : undefined));
+
   private framesOf(loaded: LoadedClip | undefined): number[] {
     return loaded ? eventFrames(loaded.annotations.events, this.side(), this.eventKind()) : [];
   }
-  protected readonly baselineFrames = computed(() => this.framesOf(this.baselineLoaded.value()));
-  protected readonly retestFrames = computed(() => this.framesOf(this.retestLoaded.value()));
+  protected readonly baselineFrames = computed(() => this.framesOf(this.baselineData()));
+  protected readonly retestFrames = computed(() => this.framesOf(this.retestData()));
   protected readonly lastStep = computed(() => lastCommonStep(this.baselineFrames(), this.retestFrames()));
 
   private loadFrame(loaded: LoadedClip | undefined, frames: number[]) {
@@ -210,12 +214,20 @@ export class ComparePage {
       map((bitmap): ShownFrame => ({ ...params, bitmap })),
     );
   protected readonly baselineFrame = rxResource({
-    params: () => this.loadFrame(this.baselineLoaded.value(), this.baselineFrames()),
+    params: () => this.loadFrame(this.baselineData(), this.baselineFrames()),
     stream: this.frameStream,
   });
   protected readonly retestFrame = rxResource({
-    params: () => this.loadFrame(this.retestLoaded.value(), this.retestFrames()),
+    params: () => this.loadFrame(this.retestData(), this.retestFrames()),
     stream: this.frameStream,
+  });
+  /** The frames on show, or undefined while loading or failed. */
+  protected readonly baselineShown = computed(() => (this.baselineFrame.hasValue() ? this.baselineFrame.value() : undefined));
+  protected readonly retestShown = computed(() => (this.retestFrame.hasValue() ? this.retestFrame.value() : undefined));
+  /** Why the clips' frames or marks did not load (the first failure), or null. */
+  protected readonly framesProblem = computed(() => {
+    const err = this.baselineLoaded.error() ?? this.retestLoaded.error() ?? this.baselineFrame.error() ?? this.retestFrame.error();
+    return err ? errorMessage(err) : null;
   });
 
   private readonly baselineCanvas = viewChild<ElementRef<HTMLCanvasElement>>('baselineCanvas');
@@ -233,7 +245,7 @@ export class ComparePage {
       : null;
   }
   protected readonly cycleSeries = computed(() =>
-    compareCycleSeries(this.cycleVisit(this.baselineLoaded.value()), this.cycleVisit(this.retestLoaded.value()), this.side()),
+    compareCycleSeries(this.cycleVisit(this.baselineData()), this.cycleVisit(this.retestData()), this.side()),
   );
 
   // ── Trends ──
@@ -249,7 +261,7 @@ export class ComparePage {
   });
   /** Lines per measure and side (colour and dash by side, marker by measure), one axis per unit. */
   protected readonly trendChart = computed(() => {
-    const t = this.trends.value();
+    const t = this.trends.hasValue() ? this.trends.value() : undefined;
     return t
       ? trendChart(
           t,
@@ -271,8 +283,8 @@ export class ComparePage {
     let watched: Element | null = null;
     effect(() => {
       const mode = this.mode();
-      const base = this.baselineFrame.value();
-      const re = this.retestFrame.value();
+      const base = this.baselineShown();
+      const re = this.retestShown();
       this.viewWidth();
       const bc = this.baselineCanvas()?.nativeElement;
       const rc = this.retestCanvas()?.nativeElement;
@@ -307,6 +319,11 @@ export class ComparePage {
     };
   }
 
+  /** Try again after the frames or marks failed: loads what failed once more. */
+  protected reloadFrames(): void {
+    for (const r of [this.baselineLoaded, this.retestLoaded, this.baselineFrame, this.retestFrame]) if (r.error()) r.reload();
+  }
+
   protected move(delta: number): void {
     const last = this.lastStep();
     if (last < 0) return;
@@ -315,9 +332,9 @@ export class ComparePage {
 
   /** "Save still of the pair": the Re-test's frame with the Baseline's beside it (baseline first). */
   protected saveStill(): void {
-    const base = this.baselineFrame.value();
-    const re = this.retestFrame.value();
-    const cmp = this.comparison.value();
+    const base = this.baselineShown();
+    const re = this.retestShown();
+    const cmp = this.comparison.hasValue() ? this.comparison.value() : undefined;
     if (!base || !re || !cmp) return;
     void openSaveStill({ dialog: this.dialog, snackBar: this.snackBar, router: this.router }, this.id(), {
       clipId: re.loaded.clip.id,
@@ -330,9 +347,9 @@ export class ComparePage {
 
   /** "Side-by-side clip": both visits' clips in slow motion, lined up at each step's initial contact. */
   protected makeSideBySide(): void {
-    const base = this.baselineFrame.value();
-    const re = this.retestFrame.value();
-    const cmp = this.comparison.value();
+    const base = this.baselineShown();
+    const re = this.retestShown();
+    const cmp = this.comparison.hasValue() ? this.comparison.value() : undefined;
     if (!base || !re || !cmp) return;
     void openAnnotatedClipDialog({ dialog: this.dialog, snackBar: this.snackBar, router: this.router }, this.id(), {
       mode: 'side_by_side',

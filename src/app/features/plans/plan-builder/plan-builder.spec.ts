@@ -7,6 +7,7 @@ import { Subject } from 'rxjs';
 import type { AthleteDetail } from '../../../../contracts/api';
 import type { Exercise } from '../../../../contracts/plans';
 import type { ExercisePickerData } from '../exercise-picker/exercise-picker';
+import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { PlanBuilder } from './plan-builder';
 
 const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -95,5 +96,64 @@ describe('PlanBuilder', () => {
     picked.complete();
     await fixture.whenStable();
     expect(stageExercises(1)).toEqual(['Bridge hold']);
+  });
+});
+
+describe('PlanBuilder when a load fails', () => {
+  let fixture: ComponentFixture<PlanBuilder>;
+  let element: HTMLElement;
+  let backend: HttpTestingController;
+
+  const settle = async () => {
+    await wait(20);
+    fixture.detectChanges();
+    await wait(10);
+    fixture.detectChanges();
+  };
+
+  function open(inputs: { athlete?: string; id?: string }): void {
+    TestBed.configureTestingModule({
+      imports: [PlanBuilder],
+      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(PlanBuilder);
+    for (const [k, v] of Object.entries(inputs)) fixture.componentRef.setInput(k, v);
+    element = fixture.nativeElement;
+    fixture.detectChanges();
+  }
+  afterEach(() => backend.verify());
+
+  it("the athlete's visits failing: the form opens and says by the assessment field why it has no visits", async () => {
+    open({ athlete: '4' });
+    await wait(0);
+    backend.expectOne('/api/athletes/4').flush(athlete);
+    flushApiError(backend.expectOne('/api/athletes/4/assessments'), 500, 'The database is busy.');
+    await settle();
+    expect(element.querySelector('form')).not.toBeNull();
+    expect(element.textContent).toContain("Couldn't load the athlete's visits: The database is busy.");
+    expect(element.querySelector('mat-progress-bar')).toBeNull();
+  });
+
+  it('a plan that cannot be found (mistyped or deleted) says so and the loading bar ends', async () => {
+    open({ id: '999' });
+    await wait(0);
+    flushApiError(backend.expectOne('/api/plans/999'), 404, 'Plan not found.');
+    await settle();
+    expect(element.querySelector('mat-progress-bar')).toBeNull();
+    expect(element.textContent).toContain('There is no such plan or athlete in your clinic.');
+    expect(element.querySelector('form')).toBeNull();
+  });
+
+  it("a plan that fails to load for another reason gives the server's reason with Try again", async () => {
+    open({ id: '7' });
+    await wait(0);
+    flushApiError(backend.expectOne('/api/plans/7'), 503, 'The server is starting up.');
+    await settle();
+    expect(element.textContent).toContain("Couldn't open the plan");
+    expect(element.textContent).toContain('The server is starting up.');
+    buttonWithText(element, 'Try again').click();
+    await settle();
+    backend.expectOne('/api/plans/7');
   });
 });

@@ -238,9 +238,11 @@ export class PlanBuilder implements LeaveGuarded {
     }
     const athleteId = this.athleteId();
     if (athleteId === null) return;
-    this.busy.set(true);
     const id = this.id();
-    const editedFrom = this.plan.value();
+    // A resource in error throws from value(); an edit without the plan it started from is not sent (no revision to check).
+    const editedFrom = this.plan.hasValue() ? this.plan.value() : null;
+    if (id !== undefined && !editedFrom) return;
+    this.busy.set(true);
     // An edit names the revision it started from: a plan saved by someone else meanwhile answers 409 instead of being overwritten.
     const body = { ...planFromForm(f.getRawValue()), ...(id !== undefined && editedFrom ? { baseRevision: editedFrom.revision } : {}) };
     try {

@@ -4,6 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
+import { errorMessage } from '../../../core/api-error';
 import { toIsoDate } from '../../../shared/dates';
 import { LogOutbox } from '../../../core/data/log-outbox';
 import { runningPlan } from '../../../shared/plan-words';
@@ -38,6 +39,8 @@ import { historyRows, sessionLoggedOn } from '../../../core/data/portal-log';
             }
           } @else if (plans.hasValue()) {
             <p class="muted">Your clinician has not started an exercise plan for you yet.</p>
+          } @else if (plans.error(); as error) {
+            <p class="muted" role="alert">Couldn't load your plan just now: {{ errorMessage(error) }}</p>
           } @else {
             <p class="muted">Your exercise plan and today's session.</p>
           }
@@ -49,7 +52,11 @@ import { historyRows, sessionLoggedOn } from '../../../core/data/portal-log';
           }
         </div>
       </mat-card-content>
-      @if (plan()) {
+      @if (plans.error()) {
+        <mat-card-actions align="end">
+          <a mat-stroked-button routerLink="/portal/plan">Open my plan</a>
+        </mat-card-actions>
+      } @else if (plan()) {
         <mat-card-actions align="end">
           @if (doneToday()) {
             <a mat-stroked-button routerLink="/portal/plan">Open my plan</a>
@@ -90,6 +97,7 @@ export class PortalPlanCard {
   private readonly api = inject(PlansApi);
   protected readonly outbox = inject(LogOutbox);
   readonly athleteId = input.required<number>();
+  protected readonly errorMessage = errorMessage;
   protected readonly plans = rxResource({ params: () => this.athleteId(), stream: ({ params }) => this.api.plansOf(params) });
   protected readonly plan = computed(() => (this.plans.hasValue() ? runningPlan(this.plans.value()) : null));
   private readonly logs = rxResource({ params: () => this.plan()?.id, stream: ({ params }) => this.api.logs(params) });

@@ -1,0 +1,88 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { provideRouter } from '@angular/router';
+import type { Price } from '../../../../contracts/billing';
+import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
+import { PriceList } from './price-list';
+
+const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+const PRICE: Price = {
+  id: 1,
+  item: 'Gait assessment',
+  description: '',
+  amountMinor: 12000,
+  currency: 'EUR',
+  taxRateBp: 2000,
+  archived: false,
+};
+
+describe('PriceList', () => {
+  let fixture: ComponentFixture<PriceList>;
+  let element: HTMLElement;
+  let backend: HttpTestingController;
+
+  const settle = async () => {
+    await wait(20);
+    fixture.detectChanges();
+    await wait(10);
+    fixture.detectChanges();
+  };
+
+  beforeEach(async () => {
+    TestBed.configureTestingModule({
+      imports: [PriceList],
+      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(PriceList);
+    element = fixture.nativeElement;
+    fixture.detectChanges();
+    await wait(10);
+  });
+  afterEach(() => backend.verify());
+
+  it('a failed currency load says so with Try again and still shows the prices, without throwing', async () => {
+    backend.expectOne('/api/prices').flush({ prices: [PRICE] });
+    flushApiError(backend.expectOne('/api/billing/settings'), 500, 'The database is busy.');
+    await settle();
+    expect(element.querySelector('mat-progress-bar')).toBeNull();
+    expect(element.textContent).toContain("Couldn't load the clinic's currency");
+    expect(element.textContent).toContain('The database is busy.');
+    expect(element.textContent).toContain('Gait assessment');
+    expect(element.querySelector('app-currency-setting')).toBeNull();
+
+    buttonWithText(element, 'Try again').click();
+    await settle();
+    backend.expectOne('/api/billing/settings').flush({ currency: 'EUR' });
+    await settle();
+    expect(element.textContent).not.toContain("Couldn't load");
+    expect(element.textContent).toContain('What the clinic charges, in EUR.');
+    expect(element.querySelector('app-currency-setting')).not.toBeNull();
+  });
+
+  it('a failed price list says why with Try again and the loading bar ends', async () => {
+    flushApiError(backend.expectOne('/api/prices'), 503, 'The server is starting up.');
+    backend.expectOne('/api/billing/settings').flush({ currency: 'EUR' });
+    await settle();
+    expect(element.querySelector('mat-progress-bar')).toBeNull();
+    expect(element.textContent).toContain("Couldn't load the prices");
+    expect(element.textContent).toContain('The server is starting up.');
+
+    buttonWithText(element, 'Try again').click();
+    await settle();
+    backend.expectOne('/api/prices').flush({ prices: [PRICE] });
+    await settle();
+    expect(element.textContent).not.toContain("Couldn't load");
+    expect(element.textContent).toContain('Gait assessment');
+  });
+
+  it('with the network down both loads say the server cannot be reached', async () => {
+    backend.expectOne('/api/prices').error(new ProgressEvent('error'), { status: 0, statusText: 'Unknown Error' });
+    backend.expectOne('/api/billing/settings').error(new ProgressEvent('error'), { status: 0, statusText: 'Unknown Error' });
+    await settle();
+    expect(element.querySelector('mat-progress-bar')).toBeNull();
+    expect(element.querySelectorAll('app-error-state').length).toBe(2);
+    expect(element.textContent).toContain("Can't reach the server");
+  });
+});

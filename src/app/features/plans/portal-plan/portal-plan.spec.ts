@@ -1,0 +1,84 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { signal } from '@angular/core';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { provideRouter } from '@angular/router';
+import { Subject } from 'rxjs';
+import { AuthStore } from '../../../core/auth-store';
+import { LogOutbox } from '../../../core/data/log-outbox';
+import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
+import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
+import { aPlan } from '../../../shared/testing/plan-fixtures';
+import { PortalPlan } from './portal-plan';
+
+const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+const PLAN = aPlan({
+  status: 'active',
+  currentStageId: 31,
+  currentStageName: 'Isometric holds',
+  currentStagePosition: 1,
+  startedAt: '2026-11-01T10:00:00Z',
+});
+PLAN.stages[0]!.startedAt = '2026-11-01T10:00:00Z';
+const { notes: _notes, revision: _revision, painRule: _painRule, stages: _stages, ...SUMMARY } = PLAN;
+
+describe('PortalPlan', () => {
+  let fixture: ComponentFixture<PortalPlan>;
+  let element: HTMLElement;
+  let backend: HttpTestingController;
+
+  const settle = async () => {
+    await wait(20);
+    fixture.detectChanges();
+    await wait(10);
+    fixture.detectChanges();
+  };
+
+  beforeEach(async () => {
+    const outbox = { items: signal([]), pending: signal([]), refused: signal([]), delivered: new Subject() };
+    TestBed.configureTestingModule({
+      imports: [PortalPlan],
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        provideRouter([]),
+        provideIsoDateAdapter(),
+        { provide: AuthStore, useValue: { user: signal({ id: 9, role: 'athlete', athleteId: 4, name: 'Ada Kestrel' }) } },
+        { provide: LogOutbox, useValue: outbox },
+      ],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(PortalPlan);
+    element = fixture.nativeElement;
+    fixture.detectChanges();
+    await wait(10);
+  });
+  afterEach(() => backend.verify());
+
+  it('a plan list that fails to load says why with Try again, and the loading bar ends', async () => {
+    flushApiError(backend.expectOne('/api/athletes/4/plans'), 503, 'The server is starting up.');
+    await settle();
+    expect(element.querySelector('mat-progress-bar')).toBeNull();
+    expect(element.textContent).toContain("Couldn't load your plan");
+    expect(element.textContent).toContain('The server is starting up.');
+  });
+
+  it('a log that fails to load says why with Try again, not "Your sessions appear here once you save them"', async () => {
+    backend.expectOne('/api/athletes/4/plans').flush({ plans: [SUMMARY] });
+    await settle();
+    backend.expectOne('/api/plans/5').flush(PLAN);
+    flushApiError(backend.expectOne('/api/plans/5/logs'), 500, 'The database is busy.');
+    await settle();
+    const history = element.querySelector<HTMLElement>('section.history')!;
+    expect(history.textContent).toContain("Couldn't load your log");
+    expect(history.textContent).toContain('The database is busy.');
+    expect(history.textContent).not.toContain('Your sessions appear here');
+
+    buttonWithText(history, 'Try again').click();
+    await settle();
+    backend.expectOne('/api/plans/5/logs').flush({ logs: [] });
+    await settle();
+    expect(history.textContent).toContain('Your sessions appear here once you save them.');
+  });
+});
