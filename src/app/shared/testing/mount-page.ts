@@ -1,6 +1,6 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
-import type { Provider, Type } from '@angular/core';
+import type { EnvironmentProviders, Provider, Type } from '@angular/core';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
 
@@ -15,7 +15,11 @@ export interface MountedPage<T> {
  * Creates a routed page for a spec: HttpClient with the testing backend, an empty router, the
  * given extra providers and route inputs; runs the first change detection (so its loads start).
  */
-export function mountPage<T>(page: Type<T>, inputs: Record<string, unknown>, providers: Provider[] = []): MountedPage<T> {
+export function mountPage<T>(
+  page: Type<T>,
+  inputs: Record<string, unknown>,
+  providers: (Provider | EnvironmentProviders)[] = [],
+): MountedPage<T> {
   TestBed.configureTestingModule({
     imports: [page],
     providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), ...providers],
@@ -25,4 +29,15 @@ export function mountPage<T>(page: Type<T>, inputs: Record<string, unknown>, pro
   for (const [name, value] of Object.entries(inputs)) fixture.componentRef.setInput(name, value);
   fixture.detectChanges();
   return { fixture, element: fixture.nativeElement as HTMLElement, backend };
+}
+
+/** Resolves after `ms` milliseconds. */
+export const wait = (ms: number) => new Promise<void>((r) => setTimeout(r, ms));
+
+/** Lets answered requests land and the page draw them (two change detections with waits between). */
+export async function settlePage(fixture: ComponentFixture<unknown>): Promise<void> {
+  await wait(20);
+  fixture.detectChanges();
+  await wait(10);
+  fixture.detectChanges();
 }

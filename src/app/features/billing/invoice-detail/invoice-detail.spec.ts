@@ -1,10 +1,8 @@
 import type { HttpTestingController } from '@angular/common/http/testing';
 import type { ComponentFixture } from '@angular/core/testing';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
-import { mountPage } from '../../../shared/testing/mount-page';
 import { InvoiceDetailPage } from './invoice-detail';
-
-const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+import { mountPage, wait } from '../../../shared/testing/mount-page';
 
 describe('InvoiceDetailPage', () => {
   let fixture: ComponentFixture<InvoiceDetailPage>;

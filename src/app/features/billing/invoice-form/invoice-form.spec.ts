@@ -9,8 +9,7 @@ import { toIsoDate } from '../../../shared/dates';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
 import { InvoiceForm } from './invoice-form';
-
-const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+import { mountPage, settlePage, wait } from '../../../shared/testing/mount-page';
 
 /** The component's protected API, for driving the form the way its template does. */
 interface FormApi {
@@ -32,23 +31,11 @@ describe('InvoiceForm', () => {
   let form: FormApi;
 
   /** Lets signals, resources and the form settle (no whenStable: it would wait for open requests). */
-  const settle = async () => {
-    await wait(20);
-    fixture.detectChanges();
-    await wait(10);
-    fixture.detectChanges();
-  };
+  const settle = () => settlePage(fixture);
 
   beforeEach(async () => {
-    TestBed.configureTestingModule({
-      imports: [InvoiceForm],
-      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), provideIsoDateAdapter()],
-    });
-    backend = TestBed.inject(HttpTestingController);
-    fixture = TestBed.createComponent(InvoiceForm);
-    element = fixture.nativeElement;
+    ({ fixture, element, backend } = mountPage(InvoiceForm, {}, [provideIsoDateAdapter()]));
     form = fixture.componentInstance as unknown as FormApi;
-    fixture.detectChanges();
     await wait(10);
     backend.expectOne('/api/athletes').flush({ athletes: [{ id: 4, firstName: 'Ada', lastName: 'Kestrel' }] });
     backend.expectOne('/api/prices').flush({ prices: PRICES });
@@ -299,22 +286,10 @@ describe('InvoiceForm when its lists cannot be loaded', () => {
   let element: HTMLElement;
   let backend: HttpTestingController;
 
-  const settle = async () => {
-    await wait(20);
-    fixture.detectChanges();
-    await wait(10);
-    fixture.detectChanges();
-  };
+  const settle = () => settlePage(fixture);
 
   beforeEach(async () => {
-    TestBed.configureTestingModule({
-      imports: [InvoiceForm],
-      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), provideIsoDateAdapter()],
-    });
-    backend = TestBed.inject(HttpTestingController);
-    fixture = TestBed.createComponent(InvoiceForm);
-    element = fixture.nativeElement;
-    fixture.detectChanges();
+    ({ fixture, element, backend } = mountPage(InvoiceForm, {}, [provideIsoDateAdapter()]));
     await wait(10);
   });
   afterEach(() => backend.verify());

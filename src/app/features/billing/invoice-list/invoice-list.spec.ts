@@ -1,12 +1,10 @@
-import { provideHttpClient } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
-import { ComponentFixture, TestBed } from '@angular/core/testing';
-import { provideRouter } from '@angular/router';
+import { HttpTestingController } from '@angular/common/http/testing';
+import { ComponentFixture } from '@angular/core/testing';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
 import { InvoiceList } from './invoice-list';
+import { mountPage, settlePage, wait } from '../../../shared/testing/mount-page';
 
-const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const EMPTY = { invoices: [], totals: { count: 0, totalMinor: 0, outstandingMinor: 0, currency: 'EUR' } };
 
 describe('InvoiceList', () => {
@@ -14,22 +12,10 @@ describe('InvoiceList', () => {
   let element: HTMLElement;
   let backend: HttpTestingController;
 
-  const settle = async () => {
-    await wait(20);
-    fixture.detectChanges();
-    await wait(10);
-    fixture.detectChanges();
-  };
+  const settle = () => settlePage(fixture);
 
   beforeEach(async () => {
-    TestBed.configureTestingModule({
-      imports: [InvoiceList],
-      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), provideIsoDateAdapter()],
-    });
-    backend = TestBed.inject(HttpTestingController);
-    fixture = TestBed.createComponent(InvoiceList);
-    element = fixture.nativeElement;
-    fixture.detectChanges();
+    ({ fixture, element, backend } = mountPage(InvoiceList, {}, [provideIsoDateAdapter()]));
     await wait(10);
   });
   afterEach(() => backend.verify());

@@ -3,12 +3,10 @@ import type { ComponentFixture } from '@angular/core/testing';
 import { ActivatedRoute, convertToParamMap } from '@angular/router';
 import { BehaviorSubject } from 'rxjs';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
-import { mountPage } from '../../../shared/testing/mount-page';
 import type { InvoiceDetail } from '../../../../contracts/billing';
 import { POLL_MS } from './pay-view';
 import { PortalInvoice } from './portal-invoice';
-
-const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+import { mountPage, wait } from '../../../shared/testing/mount-page';
 
 /** Re-test 65.00 at 20 % = 78.00 EUR. */
 function anInvoice(over: Partial<InvoiceDetail> = {}): InvoiceDetail {

@@ -1,12 +1,10 @@
-import { provideHttpClient } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
-import { ComponentFixture, TestBed } from '@angular/core/testing';
-import { provideRouter } from '@angular/router';
+import { HttpTestingController } from '@angular/common/http/testing';
+import { ComponentFixture } from '@angular/core/testing';
 import type { Price } from '../../../../contracts/billing';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { PriceList } from './price-list';
+import { mountPage, settlePage, wait } from '../../../shared/testing/mount-page';
 
-const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const PRICE: Price = {
   id: 1,
   item: 'Gait assessment',
@@ -22,22 +20,10 @@ describe('PriceList', () => {
   let element: HTMLElement;
   let backend: HttpTestingController;
 
-  const settle = async () => {
-    await wait(20);
-    fixture.detectChanges();
-    await wait(10);
-    fixture.detectChanges();
-  };
+  const settle = () => settlePage(fixture);
 
   beforeEach(async () => {
-    TestBed.configureTestingModule({
-      imports: [PriceList],
-      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])],
-    });
-    backend = TestBed.inject(HttpTestingController);
-    fixture = TestBed.createComponent(PriceList);
-    element = fixture.nativeElement;
-    fixture.detectChanges();
+    ({ fixture, element, backend } = mountPage(PriceList, {}));
     await wait(10);
   });
   afterEach(() => backend.verify());

@@ -1,16 +1,13 @@
-import { provideHttpClient } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
-import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { HttpTestingController } from '@angular/common/http/testing';
+import { ComponentFixture } from '@angular/core/testing';
 import { MatDialog } from '@angular/material/dialog';
-import { provideRouter } from '@angular/router';
 import { Subject } from 'rxjs';
 import type { AthleteDetail } from '../../../../contracts/api';
 import type { Exercise } from '../../../../contracts/plans';
 import type { ExercisePickerData } from '../exercise-picker/exercise-picker';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { PlanBuilder } from './plan-builder';
-
-const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+import { mountPage, settlePage, wait } from '../../../shared/testing/mount-page';
 
 const athlete = { id: 4, firstName: 'Ada', lastName: 'Example', email: 'ada@runner.test', hasAccount: true } as AthleteDetail;
 
@@ -48,15 +45,7 @@ describe('PlanBuilder', () => {
         return { afterClosed: () => picked };
       },
     };
-    TestBed.configureTestingModule({
-      imports: [PlanBuilder],
-      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), { provide: MatDialog, useValue: dialog }],
-    });
-    backend = TestBed.inject(HttpTestingController);
-    fixture = TestBed.createComponent(PlanBuilder);
-    fixture.componentRef.setInput('athlete', '4');
-    element = fixture.nativeElement;
-    fixture.detectChanges();
+    ({ fixture, element, backend } = mountPage(PlanBuilder, { athlete: '4' }, [{ provide: MatDialog, useValue: dialog }]));
     await wait(0);
     backend.expectOne('/api/athletes/4').flush(athlete);
     backend.expectOne('/api/athletes/4/assessments').flush({ assessments: [] });
@@ -104,23 +93,10 @@ describe('PlanBuilder when a load fails', () => {
   let element: HTMLElement;
   let backend: HttpTestingController;
 
-  const settle = async () => {
-    await wait(20);
-    fixture.detectChanges();
-    await wait(10);
-    fixture.detectChanges();
-  };
+  const settle = () => settlePage(fixture);
 
   function open(inputs: { athlete?: string; id?: string }): void {
-    TestBed.configureTestingModule({
-      imports: [PlanBuilder],
-      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])],
-    });
-    backend = TestBed.inject(HttpTestingController);
-    fixture = TestBed.createComponent(PlanBuilder);
-    for (const [k, v] of Object.entries(inputs)) fixture.componentRef.setInput(k, v);
-    element = fixture.nativeElement;
-    fixture.detectChanges();
+    ({ fixture, element, backend } = mountPage(PlanBuilder, inputs));
   }
   afterEach(() => backend.verify());
 

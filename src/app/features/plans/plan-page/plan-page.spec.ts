@@ -1,12 +1,9 @@
-import { provideHttpClient } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
-import { ComponentFixture, TestBed } from '@angular/core/testing';
-import { provideRouter } from '@angular/router';
+import { HttpTestingController } from '@angular/common/http/testing';
+import { ComponentFixture } from '@angular/core/testing';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { aPlan } from '../../../shared/testing/plan-fixtures';
 import { PlanPage } from './plan-page';
-
-const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+import { mountPage, settlePage, wait } from '../../../shared/testing/mount-page';
 
 const PLAN = aPlan();
 
@@ -15,23 +12,10 @@ describe('PlanPage', () => {
   let element: HTMLElement;
   let backend: HttpTestingController;
 
-  const settle = async () => {
-    await wait(20);
-    fixture.detectChanges();
-    await wait(10);
-    fixture.detectChanges();
-  };
+  const settle = () => settlePage(fixture);
 
   beforeEach(async () => {
-    TestBed.configureTestingModule({
-      imports: [PlanPage],
-      providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])],
-    });
-    backend = TestBed.inject(HttpTestingController);
-    fixture = TestBed.createComponent(PlanPage);
-    fixture.componentRef.setInput('id', '5');
-    element = fixture.nativeElement;
-    fixture.detectChanges();
+    ({ fixture, element, backend } = mountPage(PlanPage, { id: '5' }));
     await wait(10);
   });
   afterEach(() => backend.verify());

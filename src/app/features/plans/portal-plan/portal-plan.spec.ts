@@ -1,8 +1,6 @@
-import { provideHttpClient } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { HttpTestingController } from '@angular/common/http/testing';
 import { signal } from '@angular/core';
-import { ComponentFixture, TestBed } from '@angular/core/testing';
-import { provideRouter } from '@angular/router';
+import { ComponentFixture } from '@angular/core/testing';
 import { Subject } from 'rxjs';
 import { AuthStore } from '../../../core/auth-store';
 import { LogOutbox } from '../../../core/data/log-outbox';
@@ -10,8 +8,7 @@ import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { aPlan } from '../../../shared/testing/plan-fixtures';
 import { PortalPlan } from './portal-plan';
-
-const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
+import { mountPage, settlePage, wait } from '../../../shared/testing/mount-page';
 
 const PLAN = aPlan({
   status: 'active',
@@ -28,30 +25,15 @@ describe('PortalPlan', () => {
   let element: HTMLElement;
   let backend: HttpTestingController;
 
-  const settle = async () => {
-    await wait(20);
-    fixture.detectChanges();
-    await wait(10);
-    fixture.detectChanges();
-  };
+  const settle = () => settlePage(fixture);
 
   beforeEach(async () => {
-    const outbox = { items: signal([]), pending: signal([]), refused: signal([]), delivered: new Subject() };
-    TestBed.configureTestingModule({
-      imports: [PortalPlan],
-      providers: [
-        provideHttpClient(),
-        provideHttpClientTesting(),
-        provideRouter([]),
-        provideIsoDateAdapter(),
-        { provide: AuthStore, useValue: { user: signal({ id: 9, role: 'athlete', athleteId: 4, name: 'Ada Kestrel' }) } },
-        { provide: LogOutbox, useValue: outbox },
-      ],
-    });
-    backend = TestBed.inject(HttpTestingController);
-    fixture = TestBed.createComponent(PortalPlan);
-    element = fixture.nativeElement;
-    fixture.detectChanges();
+    const outbox = { items: signal([]), pending: signal([]), refused: signal([]), delivered: new Subject(), refusals: new Subject() };
+    ({ fixture, element, backend } = mountPage(PortalPlan, {}, [
+      provideIsoDateAdapter(),
+      { provide: AuthStore, useValue: { user: signal({ id: 9, role: 'athlete', athleteId: 4, name: 'Ada Kestrel' }) } },
+      { provide: LogOutbox, useValue: outbox },
+    ]));
     await wait(10);
   });
   afterEach(() => backend.verify());
