@@ -1,5 +1,5 @@
-import type { ClipAnnotations, EventProposalsResult } from '../../src/contracts/annotations';
-import { mergeProposals, minProposalFrames, proposeGaitEvents, PROPOSAL_MIN_SECONDS } from '../../src/kinematics';
+import { MIN_SCALE_LINE_PX, type ClipAnnotations, type EventProposalsResult } from '../../src/contracts/annotations';
+import { mergeProposals, minProposalFrames, proposeGaitEvents, PROPOSAL_MIN_SECONDS, scaleBarPixelLength } from '../../src/kinematics';
 import type { SessionUser } from '../../src/contracts/api';
 import type { Db } from '../db/knex';
 import { AppError, ConflictError, ValidationError } from '../errors';
@@ -8,7 +8,7 @@ import type { ClipsService } from '../clips/clips-service';
 import { clipsRepository, type ClipRow } from '../clips/clips-repository';
 import { annotationsRepository as repo } from './annotations-repository';
 import type { AnnotationsInput } from './annotations-schemas';
-import { normalizeMarks } from './annotation-changes';
+import { normalizeMarks, sameScale } from './annotation-changes';
 
 export interface AnnotationsDeps {
   db: Db;
@@ -175,6 +175,18 @@ export function annotationsService(d: AnnotationsDeps) {
       });
       if (input.scale && input.scale.frame >= frameCount)
         problems.push({ path: ['scale', 'frame'], message: `Frame ${input.scale.frame} is beyond the clip's last frame.` });
+      else if (input.scale && clip.width && clip.height) {
+        const px = scaleBarPixelLength(input.scale, { width: clip.width, height: clip.height });
+        // A bar saved before this minimum was enforced may be sent back unchanged with other marks.
+        if (
+          px < MIN_SCALE_LINE_PX &&
+          !sameScale(input.scale, (lastSaved.at(clipId, input.baseRevision) ?? (await repo.read(db, clipId))).scale)
+        )
+          problems.push({
+            path: ['scale', 'b'],
+            message: `The scale bar is ${Math.round(px * 10) / 10} px long; it must be at least ${MIN_SCALE_LINE_PX} px of the frame: draw it along a longer object.`,
+          });
+      }
       input.gauges.forEach((g, i) => {
         if (g.frame >= frameCount)
           problems.push({

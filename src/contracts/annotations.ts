@@ -172,3 +172,10 @@ export const ANNOTATION_LIMITS = {
   scaleLengthM: { min: 0.05, max: 10 },
   gauges: 1_000,
 } as const;
+
+/**
+ * The shortest line worth calling a scale bar, in working-frame pixels: the scale tool drops a
+ * shorter drag and the API refuses a shorter bar (a pixel or two of error in either end would
+ * already be several percent of every length measured).
+ */
+export const MIN_SCALE_LINE_PX = 20;

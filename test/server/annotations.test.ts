@@ -9,7 +9,7 @@ import { makeTestApp, OTHER, signedIn, type Client, type TestApp } from '../supp
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { makeClip, tempDir } from './media/fixtures';
 import { generateRunnerClip, type GroundTruth } from '../../scripts/demo-clip/clip';
-import type { ClipAnnotations, FrameLandmarks, GaitEventMark } from '../../src/contracts/annotations';
+import { MIN_SCALE_LINE_PX, type ClipAnnotations, type FrameLandmarks, type GaitEventMark } from '../../src/contracts/annotations';
 import type { ClipMeasures, Measure } from '../../src/contracts/measures';
 
 const [owner, coach, , athlete] = DEMO_SIGN_INS;
@@ -125,6 +125,34 @@ describe('saving annotations', () => {
     const after = (await c.get(`/api/clips/${plainClipId}/annotations`)).body;
     expect(after.revision).toBe(1);
     expect(after.landmarks).toHaveLength(1);
+  });
+
+  it('refuses a scale bar shorter than the scale tool allows (422 naming the minimum), keeps one saved before the rule, and accepts one at the minimum', async () => {
+    // The plain clip's working frame is 320 × 180 (ffprobe of makeClip's output). A bar from
+    // x = 0.2 to x = 0.2 + 19.5/320 is 19.5 px long [calc]; 20 px along y is 20/180 of the height.
+    const { revision } = (await c.get(`/api/clips/${plainClipId}/annotations`)).body;
+    const short = { frame: 0, a: { x: 0.2, y: 0.5 }, b: { x: 0.2 + 19.5 / 320, y: 0.5 }, lengthM: 1 };
+    const refused = await put(plainClipId, { baseRevision: revision, ...empty, scale: short });
+    expect(refused.status).toBe(422);
+    expect(refused.body.error.message).toContain(`at least ${MIN_SCALE_LINE_PX} px`);
+    expect(refused.body.error.message).toContain('19.5 px');
+    expect((await c.get(`/api/clips/${plainClipId}/annotations`)).body.revision).toBe(revision);
+
+    const atMin = { frame: 0, a: { x: 0.5, y: 0.3 }, b: { x: 0.5, y: 0.3 + 20 / 180 }, lengthM: 0.5 };
+    const ok = await put(plainClipId, { baseRevision: revision, ...empty, scale: atMin });
+    expect(ok.status, JSON.stringify(ok.body)).toBe(200);
+
+    // A bar stored before the minimum existed: sent back unchanged with other marks, the save goes through.
+    await t.db('scale_bars').where({ clip_id: plainClipId }).update({ ax: short.a.x, ay: short.a.y, bx: short.b.x, by: short.b.y });
+    await t.db('clips').where({ id: plainClipId }).increment('annotation_revision', 1);
+    const stored = (await c.get(`/api/clips/${plainClipId}/annotations`)).body;
+    const again = await put(plainClipId, {
+      baseRevision: stored.revision,
+      ...empty,
+      landmarks: [{ frame: 1, side: 'right', points: { hip: { x: 0.4, y: 0.5 } } }],
+      scale: stored.scale,
+    });
+    expect(again.status, JSON.stringify(again.body)).toBe(200);
   });
 
   it('is for staff of the clinic: athletes 403, another clinic 404; a clip not ready 409', async () => {

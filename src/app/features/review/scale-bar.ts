@@ -2,7 +2,7 @@
  * The scale bar (calibration): a line over an object of known length in the plane of running.
  * Pure functions.
  */
-import { ANNOTATION_LIMITS, type FramePoint } from '../../../contracts/annotations';
+import { ANNOTATION_LIMITS, MIN_SCALE_LINE_PX, type FramePoint } from '../../../contracts/annotations';
 import type { FilmSurface } from '../../../contracts/assessment';
 import type { Size } from './view-transform';
 
@@ -28,8 +28,8 @@ export function readScaleLength(text: string): { value: number } | { error: stri
   return { value };
 }
 
-/** The shortest line worth calling a scale bar, in working-frame pixels. */
-export const MIN_SCALE_LINE_PX = 20;
+/** The shortest line worth calling a scale bar, in working-frame pixels (shared with the API). */
+export { MIN_SCALE_LINE_PX };
 
 /** What lengths rest on for this surface, in a sentence for the scale panel. */
 export function lengthBasisText(surface: FilmSurface, beltSpeedMps: number | null): string {

@@ -156,6 +156,18 @@ describe('FrameViewer pointer handling', () => {
       expectPoint(store.sidePoints().shoulder, 0.5, 0.5);
     });
 
+    it('a drag past the canvas edge (released outside the window) stops at the frame’s edge, and one undo puts it back', () => {
+      // Far left and below: (−200 − 8) / 640 and (900 − 8) / 360 are outside 0–1 both ways.
+      drag([328, 188], [-200, 900]);
+      expectPoint(store.sidePoints().shoulder, 0, 1);
+      drag([8, 368], [2000, -50]);
+      expectPoint(store.sidePoints().shoulder, 1, 0);
+      store.undo();
+      expectPoint(store.sidePoints().shoulder, 0, 1);
+      store.undo();
+      expectPoint(store.sidePoints().shoulder, 0.5, 0.5);
+    });
+
     it('a finger must travel 8 px before it drags; less is a tap', () => {
       pointer('pointerdown', 328, 188, { pointerType: 'touch' });
       pointer('pointermove', 333, 188, { pointerType: 'touch' });
