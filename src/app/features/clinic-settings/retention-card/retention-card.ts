@@ -208,6 +208,14 @@ export class RetentionCard {
   /** What the field shows: the stored value once loaded, then what the owner types. */
   protected readonly months = linkedSignal<number | string | null>(() => this.stored()?.months ?? null);
 
+  /** Whether months were typed and not saved yet. */
+  hasUnsavedChanges(): boolean {
+    const stored = this.stored();
+    if (!stored) return false;
+    const typed = this.months();
+    return String(typed ?? '') !== String(stored.months ?? '');
+  }
+
   protected save(): void {
     const typed = this.months();
     const value = typed === null || typed === '' ? null : Number(typed);
