@@ -36,7 +36,7 @@ import { MatIconModule } from '@angular/material/icon';
       block-size: 18px;
     }
     .error-note-text {
-      flex: 1 1 20ch;
+      flex: 0 1 auto;
     }
   `,
 })
