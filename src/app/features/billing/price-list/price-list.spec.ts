@@ -4,7 +4,7 @@ import type { Price } from '../../../../contracts/billing';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { leaveGuard } from '../../../core/leave-guard';
 import { PriceList } from './price-list';
-import { mountPage, settlePage, wait } from '../../../shared/testing/mount-page';
+import { mountPage, settlePage, typeInto, wait } from '../../../shared/testing/mount-page';
 
 const PRICE: Price = {
   id: 1,
@@ -79,11 +79,7 @@ describe('PriceList', () => {
     await settle();
     const page = fixture.componentInstance;
     expect(page.leaveWarning()).toBeNull();
-    const type = (name: string, value: string) => {
-      const el = element.querySelector<HTMLInputElement>(`input[formcontrolname="${name}"]`)!;
-      el.value = value;
-      el.dispatchEvent(new Event('input'));
-    };
+    const type = (name: string, value: string) => typeInto(element, name, value);
     type('item', 'Short review');
     type('amount', '12,50');
     type('tax', '7,5');

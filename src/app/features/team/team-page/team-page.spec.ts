@@ -2,7 +2,7 @@ import { signal } from '@angular/core';
 import { AuthStore } from '../../../core/auth-store';
 import { leaveGuard } from '../../../core/leave-guard';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
-import { mountPage, settlePage } from '../../../shared/testing/mount-page';
+import { mountPage, settlePage, typeInto } from '../../../shared/testing/mount-page';
 import { TeamPage } from './team-page';
 
 describe('TeamPage', () => {
@@ -12,11 +12,7 @@ describe('TeamPage', () => {
     await settlePage(fixture);
     const page = fixture.componentInstance;
     expect(page.leaveWarning()).toBeNull();
-    const type = (name: string, value: string) => {
-      const el = element.querySelector<HTMLInputElement>(`input[formcontrolname="${name}"]`)!;
-      el.value = value;
-      el.dispatchEvent(new Event('input'));
-    };
+    const type = (name: string, value: string) => typeInto(element, name, value);
     type('name', 'Robin Coach');
     type('email', 'robin@clinic.test');
     await settlePage(fixture);
