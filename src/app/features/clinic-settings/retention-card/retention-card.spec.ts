@@ -91,4 +91,30 @@ describe('RetentionCard', () => {
     expect(element.querySelector('p.problem[role="alert"]')!.textContent).toContain('The check is already running.');
     expect(input().value).toBe('500');
   });
+
+  it('refuses months typed as 0,5 or 12e by the field without sending them (they became 5 months or "off"); empty turns it off', async () => {
+    open();
+    backend.expectOne('/api/clinic/retention').flush({ months: 24, review: null });
+    await settle();
+    expect(input().getAttribute('inputmode')).toBe('numeric');
+    for (const typed of ['0,5', '12e', '-3']) {
+      input().value = typed;
+      input().dispatchEvent(new Event('input'));
+      await settle();
+      element.querySelector<HTMLFormElement>('form')!.dispatchEvent(new Event('submit'));
+      await settle();
+      backend.expectNone({ method: 'PUT', url: '/api/clinic/retention' });
+      expect(element.querySelector('mat-hint[role="alert"]')!.textContent).toContain('Enter whole months from 1 to 120');
+      expect(input().value).toBe(typed);
+    }
+    input().value = '';
+    input().dispatchEvent(new Event('input'));
+    await settle();
+    element.querySelector<HTMLFormElement>('form')!.dispatchEvent(new Event('submit'));
+    await settle();
+    const put = backend.expectOne({ method: 'PUT', url: '/api/clinic/retention' });
+    expect(put.request.body).toEqual({ months: null });
+    put.flush({ months: null, review: null });
+    await settle();
+  });
 });
