@@ -19,6 +19,19 @@ describe('billing words', () => {
     expect(parseAmount('0.05')).toBe(5);
   });
 
+  it('reads a decimal comma as the decimal mark, never as a thousands separator: 12,50 → 1250, 1.250,00 → 125000', () => {
+    expect(parseAmount('12,50')).toBe(1250);
+    expect(parseAmount('12,5')).toBe(1250);
+    expect(parseAmount('0,05')).toBe(5);
+    expect(parseAmount('1.250,00')).toBe(125000);
+    expect(parseAmount('1,250')).toBe(125000);
+    expect(parseAmount('1,250,000.50')).toBe(125000050);
+    expect(parseAmount('12,505')).toBe(1250500);
+    expect(parseAmount('1,2,3')).toBeNull();
+    expect(parseAmount('12,50.00')).toBeNull();
+    expect(parseAmount('1.250')).toBeNull();
+  });
+
   it('refuses fractions of a cent, signs and words', () => {
     expect(parseAmount('45.005')).toBeNull();
     expect(parseAmount('-5')).toBeNull();
@@ -29,6 +42,9 @@ describe('billing words', () => {
   it('parses tax percentages to basis points: 20 → 2000, 7.5 → 750, empty → no tax, 120 → invalid', () => {
     expect(parseTaxPercent('20')).toBe(2000);
     expect(parseTaxPercent('7.5')).toBe(750);
+    expect(parseTaxPercent('7,5')).toBe(750);
+    expect(parseTaxPercent('7,25')).toBe(725);
+    expect(parseTaxPercent('7,255')).toBeUndefined();
     expect(parseTaxPercent('')).toBeNull();
     expect(parseTaxPercent('120')).toBeUndefined();
     expect(parseTaxPercent('abc')).toBeUndefined();

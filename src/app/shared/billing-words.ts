@@ -23,13 +23,26 @@ export function money(minor: number, currency: string): string {
 
 /**
  * Minor units from what a person types as an amount: "45", "45.5", "45.00", "1,250.00" → 4500,
- * 4550, 4500, 125000. Null when it is not an amount with at most two decimals.
+ * 4550, 4500, 125000; a decimal comma as written in much of Europe: "12,50", "12,5", "1.250,00" →
+ * 1250, 1250, 125000 (a comma before one or two last digits is the decimal mark, never a
+ * thousands separator). Null when it is not an amount with at most two decimals.
  */
 export function parseAmount(text: string): number | null {
-  const t = text.trim().replace(/,/g, '');
+  const t = decimalPoint(text.trim());
   const m = /^(\d{1,9})(?:\.(\d{1,2}))?$/.exec(t);
   if (!m) return null;
   return Number(m[1]) * 100 + Number((m[2] ?? '').padEnd(2, '0'));
+}
+
+/**
+ * Typed digits with the thousands separators taken out and a point as decimal mark: "1,250.00" →
+ * "1250.00", "12,50" → "12.50", "1.250,00" → "1250.00". Anything else is returned as typed.
+ */
+function decimalPoint(t: string): string {
+  if (/^\d{1,3}(,\d{3})+(\.\d+)?$/.test(t)) return t.replace(/,/g, '');
+  if (/^\d{1,3}(\.\d{3})+,\d{1,2}$/.test(t)) return t.replace(/\./g, '').replace(',', '.');
+  if (/^\d+,\d{1,2}$/.test(t)) return t.replace(',', '.');
+  return t;
 }
 
 /** "45.00" for the amount field from minor units. */
@@ -37,9 +50,9 @@ export function amountText(minor: number): string {
   return formatMinor(minor).replace(/,/g, '');
 }
 
-/** Basis points from a percentage typed as "20", "7.5", "7.25"; "" → null (no tax). */
+/** Basis points from a percentage typed as "20", "7.5", "7.25" (or "7,5"); "" → null (no tax). */
 export function parseTaxPercent(text: string): number | null | undefined {
-  const t = text.trim();
+  const t = text.trim().replace(/^(\d+),(\d{1,2})$/, '$1.$2');
   if (t === '') return null;
   const m = /^(\d{1,3})(?:\.(\d{1,2}))?$/.exec(t);
   if (!m) return undefined;

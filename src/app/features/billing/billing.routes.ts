@@ -1,4 +1,5 @@
 import { Routes } from '@angular/router';
+import { leaveGuard } from '../../core/leave-guard';
 
 /** `/billing` (owner): the price list and invoices. */
 export default [
@@ -7,6 +8,7 @@ export default [
     path: 'prices',
     title: 'Prices · Trailframe',
     loadComponent: () => import('./price-list/price-list').then((m) => m.PriceList),
+    canDeactivate: [leaveGuard],
   },
   {
     path: 'invoices',
@@ -17,11 +19,13 @@ export default [
     path: 'invoices/new',
     title: 'New invoice · Trailframe',
     loadComponent: () => import('./invoice-form/invoice-form').then((m) => m.InvoiceForm),
+    canDeactivate: [leaveGuard],
   },
   {
     path: 'invoices/:id/edit',
     title: 'Edit draft invoice · Trailframe',
     loadComponent: () => import('./invoice-form/invoice-form').then((m) => m.InvoiceForm),
+    canDeactivate: [leaveGuard],
   },
   {
     path: 'invoices/:id',

@@ -1,4 +1,5 @@
 import { Routes } from '@angular/router';
+import { leaveGuard } from '../../core/leave-guard';
 
 /** `/settings/reference-bands` (owner). */
 export default [
@@ -6,5 +7,6 @@ export default [
     path: '',
     title: 'Reference bands · Trailframe',
     loadComponent: () => import('./reference-bands-page/reference-bands-page').then((m) => m.ReferenceBandsPage),
+    canDeactivate: [leaveGuard],
   },
 ] satisfies Routes;

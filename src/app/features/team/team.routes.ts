@@ -1,4 +1,5 @@
 import { Routes } from '@angular/router';
+import { leaveGuard } from '../../core/leave-guard';
 
 /** `/team` (owner). */
 export default [
@@ -6,5 +7,6 @@ export default [
     path: '',
     title: 'Team · Trailframe',
     loadComponent: () => import('./team-page/team-page').then((m) => m.TeamPage),
+    canDeactivate: [leaveGuard],
   },
 ] satisfies Routes;

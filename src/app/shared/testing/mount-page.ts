@@ -41,3 +41,11 @@ export async function settlePage(fixture: ComponentFixture<unknown>): Promise<vo
   await wait(10);
   fixture.detectChanges();
 }
+
+/** Types `value` into the field of `root` bound to the form control `name`, as a person would (an input event). */
+export function typeInto(root: HTMLElement, name: string, value: string): void {
+  const field = root.querySelector<HTMLInputElement | HTMLTextAreaElement>(`[formcontrolname="${name}"]`);
+  if (!field) throw new Error(`No field for the form control "${name}"`);
+  field.value = value;
+  field.dispatchEvent(new Event('input'));
+}

@@ -86,11 +86,16 @@ describe('InvoiceForm', () => {
     await settle();
     backend.expectOne('/api/athletes/4/assessments').flush({ assessments: [] });
     form.pickPrice(0, 1);
+    form.form.markAsDirty();
     await settle();
+    // Typed and not saved: leaving asks first.
+    expect(fixture.componentInstance.leaveWarning()?.title).toBe('Leave without saving?');
     void form.save();
     backend.expectOne('/api/invoices').flush({ id: 31 });
     await settle();
     expect(navigate).toHaveBeenCalledWith(['/billing/invoices', 31]);
+    // Saved: opening the invoice does not ask.
+    expect(fixture.componentInstance.leaveWarning()).toBeNull();
   });
 });
 

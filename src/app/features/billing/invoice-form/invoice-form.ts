@@ -16,6 +16,7 @@ import type { Assessment } from '../../../../contracts/api';
 import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
 import type { InvoiceDetail, InvoiceLineWrite, InvoiceWrite, Price } from '../../../../contracts/billing';
 import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
+import { LeaveGuarded, LeaveWarning, UNSAVED_CHANGES_WARNING, warnBeforeUnload } from '../../../core/leave-guard';
 import { parseIsoDate, toIsoDate } from '../../../shared/dates';
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
@@ -73,10 +74,11 @@ const inTwoWeeks = () => {
     ErrorState,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
+  host: { '(window:beforeunload)': 'onBeforeUnload($event)' },
   templateUrl: './invoice-form.html',
   styleUrl: './invoice-form.scss',
 })
-export class InvoiceForm {
+export class InvoiceForm implements LeaveGuarded {
   private readonly api = inject(BillingApi);
   private readonly assessmentsApi = inject(AssessmentsApi);
   private readonly athletesApi = inject(AthletesApi);
@@ -248,6 +250,15 @@ export class InvoiceForm {
     return `${p.item} · ${money(p.amountMinor, p.currency)}`;
   }
 
+  /** Lines, dates or a note changed and not saved yet: asked before leaving. */
+  leaveWarning(): LeaveWarning | null {
+    return this.form.dirty ? UNSAVED_CHANGES_WARNING : null;
+  }
+
+  protected onBeforeUnload(event: BeforeUnloadEvent): void {
+    warnBeforeUnload(event, this.leaveWarning());
+  }
+
   protected async save(): Promise<void> {
     if (this.saving()) return;
     if (this.form.invalid || this.lines.length === 0) {
@@ -270,6 +281,8 @@ export class InvoiceForm {
     this.problem.set(null);
     try {
       const saved = await firstValueFrom(editing ? this.api.updateInvoice(editing.id, body) : this.api.createInvoice(body));
+      // Saved: leaving for the invoice loses nothing.
+      this.form.markAsPristine();
       await this.router.navigate(['/billing/invoices', saved.id]);
     } catch (err) {
       if (errorStatus(err) === 422) {

@@ -2,8 +2,9 @@ import { HttpTestingController } from '@angular/common/http/testing';
 import { ComponentFixture } from '@angular/core/testing';
 import type { Price } from '../../../../contracts/billing';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
+import { leaveGuard } from '../../../core/leave-guard';
 import { PriceList } from './price-list';
-import { mountPage, settlePage, wait } from '../../../shared/testing/mount-page';
+import { mountPage, settlePage, typeInto, wait } from '../../../shared/testing/mount-page';
 
 const PRICE: Price = {
   id: 1,
@@ -70,5 +71,35 @@ describe('PriceList', () => {
     expect(element.querySelector('mat-progress-bar')).toBeNull();
     expect(element.querySelectorAll('app-error-state').length).toBe(2);
     expect(element.textContent).toContain("Can't reach the server");
+  });
+
+  it('adds a price typed with a decimal comma at its value (12,50 → 1250 cents) and warns before leaving typed work', async () => {
+    backend.expectOne('/api/prices').flush({ prices: [PRICE] });
+    backend.expectOne('/api/billing/settings').flush({ currency: 'EUR' });
+    await settle();
+    const page = fixture.componentInstance;
+    expect(page.leaveWarning()).toBeNull();
+    const type = (name: string, value: string) => typeInto(element, name, value);
+    type('item', 'Short review');
+    type('amount', '12,50');
+    type('tax', '7,5');
+    await settle();
+    expect(page.leaveWarning()?.title).toBe('Leave without saving?');
+
+    buttonWithText(element, 'Add price').click();
+    const req = backend.expectOne('/api/prices');
+    expect(req.request.body).toEqual({ item: 'Short review', description: '', amountMinor: 1250, taxRateBp: 750 });
+    req.flush({ ...PRICE, id: 2, item: 'Short review', amountMinor: 1250, taxRateBp: 750 });
+    await settle();
+    expect(page.leaveWarning()).toBeNull();
+    expect(element.textContent).toContain('12.50 EUR');
+  });
+
+  it('is guarded against leaving with unsaved work', async () => {
+    backend.expectOne('/api/prices').flush({ prices: [] });
+    backend.expectOne('/api/billing/settings').flush({ currency: 'EUR' });
+    const routes = (await import('../billing.routes')).default;
+    const guarded = routes.filter((r) => r.canDeactivate?.includes(leaveGuard)).map((r) => r.path);
+    expect(guarded).toEqual(['prices', 'invoices/new', 'invoices/:id/edit']);
   });
 });

@@ -14,6 +14,7 @@ import { RouterLink } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 import type { Currency, Price } from '../../../../contracts/billing';
 import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
+import { LeaveGuarded, LeaveWarning, UNSAVED_CHANGES_WARNING, warnBeforeUnload } from '../../../core/leave-guard';
 import { ConfirmDialog, type ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
@@ -57,10 +58,11 @@ export function taxValidator(c: AbstractControl): ValidationErrors | null {
     CurrencySetting,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
+  host: { '(window:beforeunload)': 'onBeforeUnload($event)' },
   templateUrl: './price-list.html',
   styleUrl: './price-list.scss',
 })
-export class PriceList {
+export class PriceList implements LeaveGuarded {
   private readonly api = inject(BillingApi);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
@@ -84,6 +86,15 @@ export class PriceList {
   protected readonly errorMessage = errorMessage;
   protected readonly money = money;
   protected readonly taxText = taxText;
+
+  /** Typed into the price form and not saved yet: asked before leaving. */
+  leaveWarning(): LeaveWarning | null {
+    return this.form.dirty ? UNSAVED_CHANGES_WARNING : null;
+  }
+
+  protected onBeforeUnload(event: BeforeUnloadEvent): void {
+    warnBeforeUnload(event, this.leaveWarning());
+  }
 
   /** The prices move to the new currency with the clinic; show them again. */
   protected onCurrencySaved(currency: Currency): void {

@@ -1,4 +1,5 @@
-import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { ChangeDetectionStrategy, Component, viewChild } from '@angular/core';
+import { LeaveGuarded, LeaveWarning, UNSAVED_CHANGES_WARNING, warnBeforeUnload } from '../../../core/leave-guard';
 import { LegalDetailsForm } from '../legal-details-form/legal-details-form';
 import { LogoCard } from '../logo-card/logo-card';
 import { RetentionCard } from '../retention-card/retention-card';
@@ -11,6 +12,7 @@ import { RetentionCard } from '../retention-card/retention-card';
   selector: 'app-clinic-details-page',
   imports: [LegalDetailsForm, LogoCard, RetentionCard],
   changeDetection: ChangeDetectionStrategy.OnPush,
+  host: { '(window:beforeunload)': 'onBeforeUnload($event)' },
   template: `
     <div class="page page-narrow">
       <header class="page-header">
@@ -33,4 +35,16 @@ import { RetentionCard } from '../retention-card/retention-card';
     }
   `,
 })
-export class ClinicDetailsPage {}
+export class ClinicDetailsPage implements LeaveGuarded {
+  private readonly legal = viewChild(LegalDetailsForm);
+  private readonly retention = viewChild(RetentionCard);
+
+  /** Legal details or retention months typed and not saved yet: asked before leaving. */
+  leaveWarning(): LeaveWarning | null {
+    return this.legal()?.hasUnsavedChanges() || this.retention()?.hasUnsavedChanges() ? UNSAVED_CHANGES_WARNING : null;
+  }
+
+  protected onBeforeUnload(event: BeforeUnloadEvent): void {
+    warnBeforeUnload(event, this.leaveWarning());
+  }
+}

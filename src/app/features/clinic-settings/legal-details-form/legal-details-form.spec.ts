@@ -1,3 +1,4 @@
+import { leaveGuard } from '../../../core/leave-guard';
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
@@ -39,7 +40,9 @@ describe('LegalDetailsForm', () => {
   it('shows what is stored, and saves every field with PUT', async () => {
     expect(field('legalName').value).toBe('Larchwood Running Clinic Ltd');
     expect(field('address').value).toBe('12 Mill Lane\nLarchwood');
+    expect(fixture.componentInstance.hasUnsavedChanges()).toBe(false);
     type('taxNumber', 'GB 123 4567 89');
+    expect(fixture.componentInstance.hasUnsavedChanges()).toBe(true);
     submit();
     await wait(0);
     const req = backend.expectOne('/api/clinic/legal-details');
@@ -54,6 +57,7 @@ describe('LegalDetailsForm', () => {
     await fixture.whenStable();
     fixture.detectChanges();
     expect(element.textContent).not.toContain('Unsaved changes');
+    expect(fixture.componentInstance.hasUnsavedChanges()).toBe(false);
   });
 
   it("does not send a form without a legal name, and shows the server's 422 under its field", async () => {
@@ -82,5 +86,9 @@ describe('LegalDetailsForm', () => {
     fixture.detectChanges();
     expect(element.querySelector('mat-error')?.textContent).toContain('Contact line: one line only.');
     expect(field('legalName').value).toBe('Larchwood Ltd');
+  });
+
+  it('The clinic details page is guarded against leaving with unsaved work', async () => {
+    expect((await import('../clinic-settings.routes')).default[0].canDeactivate).toEqual([leaveGuard]);
   });
 });

@@ -85,6 +85,11 @@ export class LegalDetailsForm {
     });
   }
 
+  /** Whether legal details were typed and not saved yet. */
+  hasUnsavedChanges(): boolean {
+    return this.form.dirty;
+  }
+
   protected async save(): Promise<void> {
     if (this.saving()) return;
     this.problem.set(null);

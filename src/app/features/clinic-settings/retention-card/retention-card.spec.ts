@@ -32,6 +32,7 @@ describe('RetentionCard', () => {
     req.flush({ months: 24, review: null });
     await settle();
     expect(input().value).toBe('24');
+    expect(fixture.componentInstance.hasUnsavedChanges()).toBe(false);
     // Set but not listed yet: says what happens next.
     expect(element.textContent).toContain('Not checked yet');
   });
@@ -73,6 +74,7 @@ describe('RetentionCard', () => {
     await settle();
     const put = backend.expectOne({ method: 'PUT', url: '/api/clinic/retention' });
     expect(put.request.body).toEqual({ months: 500 });
+    expect(fixture.componentInstance.hasUnsavedChanges()).toBe(true);
     await settle();
     expect(element.querySelector('mat-progress-bar[aria-label="Saving the retention setting"]')).not.toBeNull();
     flushApiError(put, 422, 'Invalid', { details: [{ path: ['months'], message: 'At most 120 months.' }] });
@@ -80,11 +82,39 @@ describe('RetentionCard', () => {
     expect(element.querySelector('mat-hint[role="alert"]')!.textContent).toContain('At most 120 months.');
     expect(input().value).toBe('500');
     expect(input().disabled).toBe(false);
+    // Refused: still unsaved, so leaving the page asks first.
+    expect(fixture.componentInstance.hasUnsavedChanges()).toBe(true);
 
     buttonWithText(element, 'Check now').click();
     flushApiError(backend.expectOne({ method: 'POST', url: '/api/clinic/retention/reviews' }), 409, 'The check is already running.');
     await settle();
     expect(element.querySelector('p.problem[role="alert"]')!.textContent).toContain('The check is already running.');
     expect(input().value).toBe('500');
+  });
+
+  it('refuses months typed as 0,5 or 12e by the field without sending them (they became 5 months or "off"); empty turns it off', async () => {
+    open();
+    backend.expectOne('/api/clinic/retention').flush({ months: 24, review: null });
+    await settle();
+    expect(input().getAttribute('inputmode')).toBe('numeric');
+    for (const typed of ['0,5', '12e', '-3']) {
+      input().value = typed;
+      input().dispatchEvent(new Event('input'));
+      await settle();
+      element.querySelector<HTMLFormElement>('form')!.dispatchEvent(new Event('submit'));
+      await settle();
+      backend.expectNone({ method: 'PUT', url: '/api/clinic/retention' });
+      expect(element.querySelector('mat-hint[role="alert"]')!.textContent).toContain('Enter whole months from 1 to 120');
+      expect(input().value).toBe(typed);
+    }
+    input().value = '';
+    input().dispatchEvent(new Event('input'));
+    await settle();
+    element.querySelector<HTMLFormElement>('form')!.dispatchEvent(new Event('submit'));
+    await settle();
+    const put = backend.expectOne({ method: 'PUT', url: '/api/clinic/retention' });
+    expect(put.request.body).toEqual({ months: null });
+    put.flush({ months: null, review: null });
+    await settle();
   });
 });

@@ -24,6 +24,13 @@ import { ErrorState } from '../../../shared/states/error-state';
  * Clip retention (owner, `/settings/clinic`): how many months clips of athletes without activity
  * are kept (off by default), the daily check's list with sizes, and Confirm, the only way clips go.
  */
+/** Typed months: empty is null (off), whole digits are the number, anything else NaN (refused before sending). */
+function monthsValue(typed: number | string | null): number | null {
+  const t = String(typed ?? '').trim();
+  if (t === '') return null;
+  return /^\d+$/.test(t) ? Number(t) : Number.NaN;
+}
+
 @Component({
   selector: 'app-retention-card',
   imports: [
@@ -58,11 +65,9 @@ import { ErrorState } from '../../../shared/states/error-state';
               <mat-label>Months without activity</mat-label>
               <input
                 matInput
-                type="number"
+                inputmode="numeric"
+                autocomplete="off"
                 name="months"
-                min="1"
-                [max]="max"
-                step="1"
                 [ngModel]="months()"
                 (ngModelChange)="months.set($event)"
                 placeholder="Off"
@@ -208,9 +213,22 @@ export class RetentionCard {
   /** What the field shows: the stored value once loaded, then what the owner types. */
   protected readonly months = linkedSignal<number | string | null>(() => this.stored()?.months ?? null);
 
-  protected save(): void {
+  /** Whether months were typed and not saved yet. */
+  hasUnsavedChanges(): boolean {
+    const stored = this.stored();
+    if (!stored) return false;
     const typed = this.months();
-    const value = typed === null || typed === '' ? null : Number(typed);
+    return String(typed ?? '') !== String(stored.months ?? '');
+  }
+
+  protected save(): void {
+    const value = monthsValue(this.months());
+    if (Number.isNaN(value)) {
+      // Not sent: "0,5" or "12e" must not become 5 months or "off".
+      this.problem.set(null);
+      this.fieldProblem.set(`Enter whole months from 1 to ${this.max}, e.g. 24, or leave it empty for off.`);
+      return;
+    }
     this.apply(this.api.setRetention(value), value === null ? 'Clip retention off' : `Clips kept ${value} months after the last activity`);
   }
 

@@ -1,3 +1,4 @@
+import { leaveGuard } from '../../../core/leave-guard';
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
@@ -84,5 +85,40 @@ describe('BandEditor', () => {
     );
     await fixture.whenStable();
     expect(element.querySelector('mat-error')?.textContent).toContain('Name the source');
+  });
+
+  it('reads a decimal comma as the decimal mark (12,5 → 12.5, not 125) and refuses a limit that is not a number', async () => {
+    type('Lower limit', 'abc');
+    input('Lower limit').dispatchEvent(new Event('blur'));
+    await fixture.whenStable();
+    saveButton().click();
+    await fixture.whenStable();
+    backend.expectNone('/api/reference-bands/knee_flexion_initial_contact');
+    expect(element.querySelector('mat-error')?.textContent).toContain('Enter a number, e.g. 12.5 or 12,5');
+    expect(input('Lower limit').value).toBe('abc');
+
+    type('Lower limit', '12,5');
+    await fixture.whenStable();
+    saveButton().click();
+    const req = backend.expectOne('/api/reference-bands/knee_flexion_initial_contact');
+    expect(req.request.body).toMatchObject({ low: 12.5, high: 21.8 });
+    req.flush({ ...knee, low: 12.5 });
+    await fixture.whenStable();
+  });
+
+  it('says it holds unsaved changes from the first edit until saved or discarded', async () => {
+    const editor = fixture.componentInstance;
+    expect(editor.hasUnsavedChanges()).toBe(false);
+    type('Upper limit', '23');
+    await fixture.whenStable();
+    expect(editor.hasUnsavedChanges()).toBe(true);
+    [...element.querySelectorAll<HTMLButtonElement>('button')].find((b) => b.textContent?.includes('Discard changes'))!.click();
+    await fixture.whenStable();
+    expect(editor.hasUnsavedChanges()).toBe(false);
+    expect(input('Upper limit').value).toBe('21.8');
+  });
+
+  it('The reference bands page is guarded against leaving with unsaved work', async () => {
+    expect((await import('../reference-bands.routes')).default[0].canDeactivate).toEqual([leaveGuard]);
   });
 });

@@ -12,6 +12,7 @@ import { filter, firstValueFrom, map, startWith } from 'rxjs';
 import type { ReferenceBand } from '../../../../contracts/measures';
 import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
 import { ConfirmDialog, ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
+import { DecimalInput } from '../../../shared/forms/decimal-input';
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { BAND_TEXT_LIMITS, EVIDENCE_OPTIONS, MEASURE_LABELS, bandForm, bandWrite, unitOf } from '../band-form-model';
@@ -20,7 +21,7 @@ import { ReferenceBandsApi } from '../../../core/data/reference-bands-api';
 /** One reference band as an editable card: limits, unit, context, source, evidence; save or reset. */
 @Component({
   selector: 'app-band-editor',
-  imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule],
+  imports: [ReactiveFormsModule, DecimalInput, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './band-editor.html',
   styleUrl: './band-editor.scss',
@@ -48,6 +49,7 @@ export class BandEditor {
   protected readonly evidenceOptions = EVIDENCE_OPTIONS;
   protected readonly limits = BAND_TEXT_LIMITS;
   protected readonly errorText = errorText;
+  protected readonly notANumber = { number: 'Enter a number, e.g. 12.5 or 12,5' };
   protected readonly title = computed(() => MEASURE_LABELS[this.band().key] ?? this.band().key);
   protected readonly dirty = toSignal(
     this.form.valueChanges.pipe(
@@ -77,6 +79,11 @@ export class BandEditor {
       const b = this.band();
       this.form.reset({ low: b.low, high: b.high, unit: unitOf(b.key), context: b.context, source: b.source, evidence: b.evidence });
     });
+  }
+
+  /** Whether the band was changed here and not saved yet. */
+  hasUnsavedChanges(): boolean {
+    return this.form.dirty;
   }
 
   protected async save(): Promise<void> {

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, signal, viewChildren } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -7,6 +7,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import type { MeasureKey, ReferenceBand } from '../../../../contracts/measures';
 import { errorMessage } from '../../../core/api-error';
+import { LeaveGuarded, LeaveWarning, UNSAVED_CHANGES_WARNING, warnBeforeUnload } from '../../../core/leave-guard';
 import { ErrorState } from '../../../shared/states/error-state';
 import { MEASURES_CAUTION } from '../../../shared/caution';
 import { DEFAULT_REFERENCE_BANDS } from '../../../../kinematics';
@@ -22,10 +23,11 @@ import { ReferenceBandsApi } from '../../../core/data/reference-bands-api';
   selector: 'app-reference-bands-page',
   imports: [MatButtonModule, MatFormFieldModule, MatIconModule, MatProgressBarModule, MatSelectModule, ErrorState, BandEditor],
   changeDetection: ChangeDetectionStrategy.OnPush,
+  host: { '(window:beforeunload)': 'onBeforeUnload($event)' },
   templateUrl: './reference-bands-page.html',
   styleUrl: './reference-bands-page.scss',
 })
-export class ReferenceBandsPage {
+export class ReferenceBandsPage implements LeaveGuarded {
   private readonly api = inject(ReferenceBandsApi);
 
   protected readonly bands = rxResource({ stream: () => this.api.list() });
@@ -46,6 +48,17 @@ export class ReferenceBandsPage {
     const key = this.adding();
     return key ? blankBand(key) : null;
   });
+
+  private readonly editors = viewChildren(BandEditor);
+
+  /** A band changed (or a new one started) and not saved yet: asked before leaving. */
+  leaveWarning(): LeaveWarning | null {
+    return this.editors().some((e) => e.hasUnsavedChanges()) ? UNSAVED_CHANGES_WARNING : null;
+  }
+
+  protected onBeforeUnload(event: BeforeUnloadEvent): void {
+    warnBeforeUnload(event, this.leaveWarning());
+  }
 
   protected isDefault(band: ReferenceBand): boolean {
     return isDefaultBand(band, this.defaults);

@@ -6,6 +6,7 @@ import { provideRouter } from '@angular/router';
 import type { ClipAnnotations } from '../../../../contracts/annotations';
 import type { AssessmentDetail, Clip } from '../../../../contracts/api';
 import { AuthStore } from '../../../core/auth-store';
+import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { stubJsdomCanvas } from '../../../shared/testing/jsdom-canvas';
 import { FakeEventSource, provideFakeEventSource } from '../../../core/fake-event-source';
 import { ReviewPage } from './review-page';
@@ -81,7 +82,8 @@ describe('ReviewPage', () => {
     TestBed.tick();
   }
 
-  async function open(c: Clip): Promise<void> {
+  /** Opens the page; `optionalLoadsFail` makes the clinic's bands and the athlete (for the name) fail to load. */
+  async function open(c: Clip, optionalLoadsFail = false): Promise<void> {
     TestBed.configureTestingModule({
       imports: [ReviewPage],
       providers: [
@@ -100,8 +102,13 @@ describe('ReviewPage', () => {
     element = fixture.nativeElement;
     await settle();
     backend.expectOne('/api/clips/7').flush(c);
-    backend.match('/api/reference-bands').forEach((r) => r.flush({ bands: [] }));
-    backend.match('/api/athletes/9').forEach((r) => r.flush({ id: 9, firstName: 'Ada', lastName: 'Kestrel' }));
+    if (optionalLoadsFail) {
+      backend.match('/api/reference-bands').forEach((r) => flushApiError(r, 503, 'The server is busy.'));
+      backend.match('/api/athletes/9').forEach((r) => flushApiError(r, 503, 'The server is busy.'));
+    } else {
+      backend.match('/api/reference-bands').forEach((r) => r.flush({ bands: [] }));
+      backend.match('/api/athletes/9').forEach((r) => r.flush({ id: 9, firstName: 'Ada', lastName: 'Kestrel' }));
+    }
     await settle();
   }
 
@@ -198,8 +205,8 @@ describe('ReviewPage', () => {
     expect(readout()).toBe('Frame 48 / 48');
   });
 
-  async function openReady(): Promise<void> {
-    await open(clip());
+  async function openReady(optionalLoadsFail = false): Promise<void> {
+    await open(clip(), optionalLoadsFail);
     backend.expectOne('/api/assessments/4').flush(assessment);
     backend.expectOne('/api/clips/7/manifest').flush({
       frameCount: 50,
@@ -211,6 +218,30 @@ describe('ReviewPage', () => {
     backend.expectOne('/api/clips/7/annotations').flush(empty);
     await settle();
   }
+
+  it('says when the clinic bands or the athlete name could not be loaded, keeps working, and loads them again on Try again', async () => {
+    await openReady(true);
+    expect(element.querySelector('app-frame-viewer canvas')).not.toBeNull();
+    const nameNote = element.querySelector('.review-header app-error-note');
+    expect(nameNote?.textContent).toContain("The athlete's name could not be loaded. The server is busy.");
+    expect(nameNote?.getAttribute('role')).toBe('status');
+
+    [...element.querySelectorAll<HTMLElement>('[role="tab"]')].find((t) => t.textContent?.includes('Measures'))?.click();
+    await settle();
+    const bandsNote = element.querySelector('app-error-note.bands-note');
+    expect(bandsNote?.textContent).toContain(
+      "The clinic's reference bands could not be loaded; the default bands are shown. The server is busy.",
+    );
+
+    buttonWithText(bandsNote as HTMLElement, 'Try again').click();
+    buttonWithText(nameNote as HTMLElement, 'Try again').click();
+    await settle();
+    backend.expectOne('/api/reference-bands').flush({ bands: [] });
+    backend.expectOne('/api/athletes/9').flush({ id: 9, firstName: 'Ada', lastName: 'Kestrel' });
+    await settle();
+    expect(element.querySelector('app-error-note')).toBeNull();
+    expect(element.querySelector('.crumbs')?.textContent).toContain('Ada Kestrel');
+  });
 
   it('opens the workspace, steps with the keyboard, marks events and undoes them', async () => {
     await openReady();

@@ -24,6 +24,7 @@ import { ProcessingEvents, type ProcessingMessage } from '../../../core/processi
 import { listenToPageKeys } from '../../../shared/keys/page-keys';
 import type { FocusTarget } from '../../../shared/keys/key-routing';
 import { EmptyState } from '../../../shared/states/empty-state';
+import { ErrorNote } from '../../../shared/states/error-note';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentsApi } from '../../../core/data/assessments-api';
 import { clipStatusView, isReviewable } from '../../../shared/clip-status';
@@ -86,6 +87,7 @@ const TOOLS: { id: ReviewTool; label: string; icon: string; key: string }[] = [
   selector: 'app-review-page',
   imports: [
     DatePipe,
+    ErrorNote,
     RouterLink,
     MatButtonModule,
     MatButtonToggleModule,
@@ -155,13 +157,12 @@ export class ReviewPage implements LeaveGuarded {
       );
     },
   });
-  /** The clinic's bands; the defaults when they cannot be loaded (the panel says so). */
-  private readonly bands = rxResource({
-    stream: () => this.bandsApi.list().pipe(catchError(() => of(null))),
-  });
-  private readonly athlete = rxResource({
+  /** The clinic's bands; the defaults while they cannot be loaded (the Measures tab says so, with Try again). */
+  protected readonly bands = rxResource({ stream: () => this.bandsApi.list() });
+  /** The athlete, for the name in the breadcrumb (the header says when it cannot be loaded, with Try again). */
+  protected readonly athlete = rxResource({
     params: () => Number(this.athleteId()),
-    stream: ({ params }) => this.athletesApi.get(params).pipe(catchError(() => of(null))),
+    stream: ({ params }) => this.athletesApi.get(params),
   });
 
   protected readonly ready = computed(() => {
@@ -176,7 +177,10 @@ export class ReviewPage implements LeaveGuarded {
     const err = this.loaded.error();
     return errorStatus(err) === 404 || err instanceof NotHereError || err?.cause instanceof NotHereError;
   });
-  protected readonly bandsMissing = computed(() => this.bands.hasValue() && this.bands.value() === null);
+  /** Why the clinic's bands are missing (the defaults are shown meanwhile), or null. */
+  protected readonly bandsError = computed(() => this.bands.error() ?? null);
+  /** Why the athlete's name is missing, or null. */
+  protected readonly athleteError = computed(() => this.athlete.error() ?? null);
   protected readonly athleteName = computed(() => {
     const a = this.athlete.hasValue() ? this.athlete.value() : null;
     return a ? fullName(a) : 'Athlete';

@@ -20,6 +20,7 @@ import { DeactivateDialog, DeactivateDialogData } from '../deactivate-dialog/dea
 import { staffStatus } from '../team-logic';
 import { LIMITS } from '../../../../contracts/intake';
 import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
+import { LeaveGuarded, LeaveWarning, UNSAVED_CHANGES_WARNING, warnBeforeUnload } from '../../../core/leave-guard';
 import { ROLE_LABELS } from '../../../core/roles';
 import { ConfirmDialog, ConfirmDialogData } from '../../../shared/confirm-dialog/confirm-dialog';
 import { errorText } from '../../../shared/forms/error-text';
@@ -48,10 +49,11 @@ import { TeamApi } from '../team-api';
     DemoInboxNote,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
+  host: { '(window:beforeunload)': 'onBeforeUnload($event)' },
   templateUrl: './team-page.html',
   styleUrl: './team-page.scss',
 })
-export class TeamPage {
+export class TeamPage implements LeaveGuarded {
   private readonly api = inject(TeamApi);
   private readonly dialog = inject(MatDialog);
   private readonly snackBar = inject(MatSnackBar);
@@ -130,6 +132,15 @@ export class TeamPage {
     } finally {
       this.changing.set(null);
     }
+  }
+
+  /** A coach's name or e-mail typed and not sent yet: asked before leaving. */
+  leaveWarning(): LeaveWarning | null {
+    return this.form.dirty ? UNSAVED_CHANGES_WARNING : null;
+  }
+
+  protected onBeforeUnload(event: BeforeUnloadEvent): void {
+    warnBeforeUnload(event, this.leaveWarning());
   }
 
   protected async invite(formDirective: FormGroupDirective): Promise<void> {
