@@ -38,6 +38,8 @@ export function errorText(control: AbstractControl | null | undefined, label: st
       return `${label} cannot be in the future`;
     case 'futureMonth':
       return `${label} cannot be after this month`;
+    case 'wholeNumber':
+      return `${label} must be a whole number`;
     case 'matDatepickerParse':
       return 'Enter a real date as YYYY-MM-DD, e.g. 1990-04-05';
     case 'matDatepickerMin':

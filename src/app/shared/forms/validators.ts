@@ -41,3 +41,14 @@ export function pastMonth(today: () => Date = () => new Date()): ValidatorFn {
 /** Trimmed text must not be empty (a name of spaces is not a name). Error: `{ required: true }`. */
 export const requiredTrimmed: ValidatorFn = (control: AbstractControl): ValidationErrors | null =>
   typeof control.value === 'string' && control.value.trim() === '' ? { required: true } : null;
+
+/**
+ * A number control must hold a whole number (a quantity); empty passes (combine with
+ * `Validators.required`). "1,5" read by `appDecimalInput` is 1.5 and is refused, not taken as 15.
+ * Error: `{ wholeNumber: true }`.
+ */
+export const wholeNumber: ValidatorFn = (control: AbstractControl): ValidationErrors | null => {
+  const value = control.value as unknown;
+  if (value === null || value === undefined || value === '') return null;
+  return typeof value === 'number' && Number.isInteger(value) ? null : { wholeNumber: true };
+};

@@ -9,7 +9,8 @@ import { toIsoDate } from '../../../shared/dates';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
 import { InvoiceForm } from './invoice-form';
-import { mountPage, settlePage, wait } from '../../../shared/testing/mount-page';
+import { mountPage, settlePage, typeInto, wait } from '../../../shared/testing/mount-page';
+import { errorText } from '../../../shared/forms/error-text';
 
 /** The component's protected API, for driving the form the way its template does. */
 interface FormApi {
@@ -54,6 +55,24 @@ describe('InvoiceForm', () => {
     await settle();
     expect(form.lines.at(0).getRawValue()).toEqual({ priceId: 2, description: 'Re-test', quantity: 1, amount: '65.00', tax: '20' });
     expect(element.querySelector('[data-testid="preview-total"]')?.textContent).toBe('78.00 EUR');
+  });
+
+  it('reads a quantity typed as "1,5" as one and a half and refuses it (a number field took it as 15), and "3" as 3', async () => {
+    form.form.controls.athleteId.setValue(4);
+    await settle();
+    backend.expectOne('/api/athletes/4/assessments').flush({ assessments: [] });
+    form.lines.at(0).patchValue({ description: 'Taping', amount: '45.00', tax: '20' });
+    typeInto(element, 'quantity', '1,5');
+    await settle();
+    const quantity = form.lines.at(0).controls.quantity;
+    expect(quantity.value).toBe(1.5);
+    expect(errorText(quantity, 'Quantity')).toBe('Quantity must be a whole number');
+    await form.save();
+    backend.expectNone('/api/invoices');
+    typeInto(element, 'quantity', '3');
+    await settle();
+    expect(quantity.value).toBe(3);
+    expect(element.querySelector('[data-testid="preview-total"]')?.textContent).toBe('162.00 EUR');
   });
 
   it('sends minor units and shows the server 422 under the line field', async () => {

@@ -20,7 +20,8 @@ import { LeaveGuarded, LeaveWarning, UNSAVED_CHANGES_WARNING, warnBeforeUnload }
 import { parseIsoDate, toIsoDate } from '../../../shared/dates';
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
-import { requiredTrimmed } from '../../../shared/forms/validators';
+import { requiredTrimmed, wholeNumber } from '../../../shared/forms/validators';
+import { DecimalInput } from '../../../shared/forms/decimal-input';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentsApi } from '../../../core/data/assessments-api';
 import { AthletesApi } from '../../../core/data/athletes-api';
@@ -60,6 +61,7 @@ const inTwoWeeks = () => {
 @Component({
   selector: 'app-invoice-form',
   imports: [
+    DecimalInput,
     DatePipe,
     ReactiveFormsModule,
     RouterLink,
@@ -217,7 +219,7 @@ export class InvoiceForm implements LeaveGuarded {
       this.fb.group({
         priceId: new FormControl<number | null>(d.priceId),
         description: this.fb.control(d.description, [requiredTrimmed, Validators.maxLength(120)]),
-        quantity: new FormControl<number | null>(d.quantity, [Validators.required, Validators.min(1), Validators.max(1000)]),
+        quantity: new FormControl<number | null>(d.quantity, [Validators.required, wholeNumber, Validators.min(1), Validators.max(1000)]),
         amount: this.fb.control(d.amount, [Validators.required, amountValidator]),
         tax: this.fb.control(d.tax, [taxValidator]),
       }) as LineGroup,
