@@ -3,6 +3,7 @@ import type { NextFunction, Request, RequestHandler, Response } from 'express';
 import multer from 'multer';
 import type { Logger } from 'pino';
 import { AppError, ValidationError } from '../errors';
+import { checkMultipartText, MULTIPART_AS_BYTES } from './body-text';
 import type { UploadTemps } from '../storage/upload-temps';
 
 /** What {@link videoUploadReceiver} needs. */
@@ -52,8 +53,8 @@ export function videoUploadReceiver(d: VideoUploadDeps): {
       // Never the client's name: it could hold "../" or odd bytes.
       filename: (req, _file, cb) => cb(null, path.basename((req as WithTemp).uploadTemp!)),
     }),
-    // File names arrive as UTF-8 from every current browser; busboy's default would read latin1.
-    defParamCharset: 'utf8',
+    // Field values and file names as bytes, checked as UTF-8 afterwards (http/body-text.ts).
+    ...MULTIPART_AS_BYTES,
     limits: { fileSize: d.uploadMaxBytes, files: 1, fields: 10, parts: 11, fieldNameSize: 100, fieldSize: 10_000 },
   }).single('file');
 
@@ -65,7 +66,14 @@ export function videoUploadReceiver(d: VideoUploadDeps): {
     const declared = Number(req.headers['content-length'] ?? 0);
     if (declared > d.uploadMaxBytes + 64 * 1024) return refuse(req, res, next, tooLarge(d.uploadMaxBytes));
     upload(req, res, (err: unknown) => {
-      if (!err) return next();
+      if (!err) {
+        try {
+          checkMultipartText(req);
+        } catch (refusal) {
+          return next(refusal);
+        }
+        return next();
+      }
       if (clientGone(req, err)) {
         // Normal on phones: the athlete cancelled or the network dropped. Nobody is left to answer.
         d.logger.info({ url: req.originalUrl, received: req.socket?.bytesRead }, 'upload cancelled by the client');
