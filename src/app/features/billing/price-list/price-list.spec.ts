@@ -1,19 +1,9 @@
 import { HttpTestingController } from '@angular/common/http/testing';
 import { ComponentFixture } from '@angular/core/testing';
-import type { Price } from '../../../../contracts/billing';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { PriceList } from './price-list';
 import { mountPage, settlePage, wait } from '../../../shared/testing/mount-page';
-
-const PRICE: Price = {
-  id: 1,
-  item: 'Gait assessment',
-  description: '',
-  amountMinor: 12000,
-  currency: 'EUR',
-  taxRateBp: 2000,
-  archived: false,
-};
+import { GAIT_PRICE } from '../../../shared/testing/billing-fixtures';
 
 describe('PriceList', () => {
   let fixture: ComponentFixture<PriceList>;
@@ -29,7 +19,7 @@ describe('PriceList', () => {
   afterEach(() => backend.verify());
 
   it('a failed currency load says so with Try again and still shows the prices, without throwing', async () => {
-    backend.expectOne('/api/prices').flush({ prices: [PRICE] });
+    backend.expectOne('/api/prices').flush({ prices: [GAIT_PRICE] });
     flushApiError(backend.expectOne('/api/billing/settings'), 500, 'The database is busy.');
     await settle();
     expect(element.querySelector('mat-progress-bar')).toBeNull();
@@ -57,7 +47,7 @@ describe('PriceList', () => {
 
     buttonWithText(element, 'Try again').click();
     await settle();
-    backend.expectOne('/api/prices').flush({ prices: [PRICE] });
+    backend.expectOne('/api/prices').flush({ prices: [GAIT_PRICE] });
     await settle();
     expect(element.textContent).not.toContain("Couldn't load");
     expect(element.textContent).toContain('Gait assessment');
