@@ -202,3 +202,37 @@ describe('escapes in paths and query strings', () => {
     }
   });
 });
+
+describe('names in other scripts in the exercise library', () => {
+  const body = (name: string) => ({
+    name,
+    purpose: 'Invented for this test.',
+    region: 'hip',
+    kind: 'mobility',
+    instructions: ['Step one.'],
+    cautions: '',
+    dose: { sets: 2, reps: 5, holdSeconds: null, tempo: null, load: null, restSeconds: null, daysPerWeek: 3 },
+  });
+
+  it('are found case-insensitively by their own letters and listed in alphabetical order, the same on both databases', async () => {
+    for (const name of ['Ångström lunge', 'Élan stride', 'Øresund step', 'Zed hold', '跑步 drill']) {
+      expect((await c.post('/api/exercises', body(name))).status, name).toBe(201);
+    }
+    const names = async (q: string) =>
+      ((await c.get(`/api/exercises?q=${encodeURIComponent(q)}`)).body.exercises as { name: string }[]).map((e) => e.name);
+    // Upper and lower case of É, Å and Ø are one letter each (Unicode case mapping, from memory).
+    expect(await names('élan')).toEqual(['Élan stride']);
+    expect(await names('ÅNGSTRÖM')).toEqual(['Ångström lunge']);
+    expect(await names('øresund')).toEqual(['Øresund step']);
+    expect(await names('跑步')).toEqual(['跑步 drill']);
+    // English alphabetical order (Unicode collation, en; from memory): Å among the A's, É among the E's, Ø among the O's.
+    const all = await names('');
+    const at = (n: string) => all.indexOf(n);
+    expect(at('Ångström lunge')).toBe(0);
+    expect(at('Élan stride')).toBeLessThan(at('Forward step-down'));
+    expect(at('Élan stride')).toBeGreaterThan(at('Bent-knee bridge hold'));
+    expect(at('Øresund step')).toBeLessThan(at('Prone hamstring hold'));
+    expect(at('Øresund step')).toBeGreaterThan(at('Nordic hamstring lowering'));
+    expect(at('Zed hold')).toBeLessThan(at('跑步 drill'));
+  });
+});
