@@ -4,6 +4,7 @@ import multer from 'multer';
 import type { Logger } from 'pino';
 import { AppError, ValidationError } from '../errors';
 import { checkMultipartText, MULTIPART_AS_BYTES } from './body-text';
+import { DEMO_LIMITS } from '../../src/contracts/demonstrations';
 import type { UploadTemps } from '../storage/upload-temps';
 
 /** What {@link videoUploadReceiver} needs. */
@@ -22,6 +23,16 @@ export function tooLarge(limitBytes: number): AppError {
     'file_too_large',
     `This file is larger than the ${mb >= 1024 ? `${(mb / 1024).toFixed(1)} GB` : `${mb} MB`} upload limit. Trim the clip to 10–20 seconds and try again.`,
   );
+}
+
+/**
+ * 422 for a multipart text field longer than the form reader takes: longer than any such field may
+ * be, so it is refused as its own schema would refuse it (the one text field is a caption).
+ */
+export function fieldTooLong(field: string | undefined): ValidationError {
+  const name = field ?? 'field';
+  const message = name === 'caption' ? `Caption: at most ${DEMO_LIMITS.caption} characters.` : `The form field "${name}" is too long.`;
+  return new ValidationError(message, [{ path: [name], message }]);
 }
 
 /** Refused uploads up to this size are read to the end before answering. */
@@ -82,6 +93,7 @@ export function videoUploadReceiver(d: VideoUploadDeps): {
       }
       if (err instanceof multer.MulterError) {
         if (err.code === 'LIMIT_FILE_SIZE') return next(tooLarge(d.uploadMaxBytes));
+        if (err.code === 'LIMIT_FIELD_VALUE') return next(fieldTooLong(err.field));
         if (err.code === 'LIMIT_FILE_COUNT' || err.code === 'LIMIT_UNEXPECTED_FILE') {
           return next(
             new ValidationError('Upload one clip per request, in the form field "file".', [

@@ -2,6 +2,7 @@ import type { RequestHandler } from 'express';
 import multer from 'multer';
 import { AppError, ValidationError } from '../errors';
 import { checkMultipartText, MULTIPART_AS_BYTES } from '../http/body-text';
+import { fieldTooLong } from '../http/video-upload';
 import { DEMO_LIMITS } from '../../src/contracts/demonstrations';
 import { PictureError } from './picture-error';
 
@@ -40,6 +41,7 @@ export function receivePicture(): RequestHandler {
       }
       if (err instanceof multer.MulterError) {
         if (err.code === 'LIMIT_FILE_SIZE') return next(tooLarge());
+        if (err.code === 'LIMIT_FIELD_VALUE') return next(fieldTooLong(err.field));
         if (err.code === 'LIMIT_FILE_COUNT' || err.code === 'LIMIT_UNEXPECTED_FILE') {
           return next(
             new ValidationError('Upload one picture per request, in the field "file".', [

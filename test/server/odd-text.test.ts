@@ -236,3 +236,31 @@ describe('names in other scripts in the exercise library', () => {
     expect(at('Zed hold')).toBeLessThan(at('跑步 drill'));
   });
 });
+
+describe('over-long multipart text', () => {
+  it('a caption over its limit, or past what the form reader takes, is 422 naming the limit; no row', async () => {
+    const url = `/api/exercises/${exerciseId}/demo-pictures`;
+    const before = await t.db('demo_pictures').count({ n: '*' }).first();
+    for (const caption of ['x'.repeat(121), '跑'.repeat(1000), 'x'.repeat(50_000)]) {
+      const res = await postMultipart(
+        url,
+        multipart([
+          { name: 'caption', value: Buffer.from(caption, 'utf8') },
+          { name: 'file', filename: Buffer.from('p.jpg'), file: jpeg, type: 'image/jpeg' },
+        ]),
+      );
+      expect(res.status, `${caption.length}: ${JSON.stringify(res.body)}`).toBe(422);
+      expect(res.body.error.message).toContain('at most 120 characters');
+    }
+    const clip = await postMultipart(
+      `/api/exercises/${exerciseId}/demo-clip`,
+      multipart([
+        { name: 'caption', value: Buffer.from('x'.repeat(20_000)) },
+        { name: 'file', filename: Buffer.from('c.mp4'), file: Buffer.alloc(2048, 1), type: 'video/mp4' },
+      ]),
+    );
+    expect(clip.status, JSON.stringify(clip.body)).toBe(422);
+    expect(clip.body.error.message).toContain('at most 120 characters');
+    expect(await t.db('demo_pictures').count({ n: '*' }).first()).toEqual(before);
+  });
+});
