@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import type { Dose, Exercise, ExerciseRegion, LoadingKind } from '../../src/contracts/plans';
 import type { ExerciseQueryInput } from './plans-schemas';
+import { byName } from '../db/name-order';
 
 export interface ExerciseRow {
   id: number;
@@ -53,8 +54,6 @@ export function doseFromRow(r: DoseColumns): Dose {
 }
 
 /** Escapes `%`, `_` and `\` for a LIKE pattern (with `ESCAPE '\'`). */
-/** Alphabetical order of names (Unicode collation, English; digits as numbers). */
-const byName = new Intl.Collator('en', { numeric: true }).compare;
 
 /** The clinic's exercise library. Every query is scoped by clinic. */
 export const exercisesRepository = {
@@ -75,9 +74,8 @@ export const exercisesRepository = {
 
   /**
    * A clinic's library by region, kind and words (each in the name, purpose or source, any case),
-   * in alphabetical order. Words and order are matched here rather than in SQL: SQLite's `lower`
-   * and `ORDER BY` know only ASCII ("élan" would miss "Élan", "Ångström" would sort after "Z"), and
-   * PostgreSQL's follow the database's collation; a library is small.
+   * in alphabetical order ({@link byName}). Words are matched here rather than in SQL: SQLite's
+   * `lower` knows only ASCII ("élan" would miss "Élan"); a library is small.
    */
   async search(db: Knex, clinicId: number, q: ExerciseQueryInput): Promise<ExerciseRow[]> {
     const query = db<ExerciseRow>('exercises').where({ clinic_id: clinicId, archived: q.archived === 'true' });

@@ -264,3 +264,15 @@ describe('over-long multipart text', () => {
     expect(await t.db('demo_pictures').count({ n: '*' }).first()).toEqual(before);
   });
 });
+
+describe('the price list', () => {
+  it('is in alphabetical order of items on both databases: case and accents second (Unicode collation, en; from memory)', async () => {
+    const owner = await signedIn(t.app, DEMO_SIGN_INS[0].email, DEMO_SIGN_INS[0].password);
+    for (const item of ['Zed session', 'ankle check', 'Élan review']) {
+      expect((await owner.post('/api/prices', { item, amountMinor: 1000 })).status, item).toBe(201);
+    }
+    const items = ((await owner.get('/api/prices')).body.prices as { item: string }[]).map((p) => p.item);
+    const ours = items.filter((i) => ['Zed session', 'ankle check', 'Élan review'].includes(i));
+    expect(ours).toEqual(['ankle check', 'Élan review', 'Zed session']);
+  });
+});
