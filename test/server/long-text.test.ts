@@ -13,6 +13,7 @@ import { LEGAL_LIMITS } from '../../src/contracts/billing';
 import { ASSESSMENT_TEXT_LIMITS } from '../../src/contracts/assessment';
 import { makeTestApp, signedIn, type Client, type TestApp } from '../support/test-app';
 import { baselineVisit } from '../support/bodies';
+import { exerciseBody } from '../support/plans';
 
 const [owner, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -32,16 +33,8 @@ afterAll(async () => {
   await t?.close();
 });
 
-const exercise = (over: Record<string, unknown>) => ({
-  name: `Long text ${Math.random().toString(36).slice(2, 8)}`,
-  purpose: 'Invented for this test.',
-  region: 'hip',
-  kind: 'mobility',
-  instructions: ['Step one.'],
-  cautions: '',
-  dose: { sets: 2, reps: 5, holdSeconds: null, tempo: null, load: null, restSeconds: null, daysPerWeek: 3 },
-  ...over,
-});
+/** An exercise of its own name each time (names are unique in a library). */
+const exercise = (over: Record<string, unknown>) => exerciseBody(`Long text ${Math.random().toString(36).slice(2, 8)}`, over);
 
 /** One text field: how to send a value, and where the answer carries it back. */
 interface Field {

@@ -16,6 +16,7 @@ import { makeTestApp, signedIn, type Client, type TestApp } from '../support/tes
 import { storedExerciseFiles } from '../support/demonstrations';
 import { markedJpeg } from '../support/pictures';
 import { baselineVisit } from '../support/bodies';
+import { exerciseBody } from '../support/plans';
 import { signIn } from '../bench/support/bench-server';
 import { tusHeaders, type TusSession } from '../support/tus-client';
 import { resumableUploadDir } from '../../server/storage/upload-temps';
@@ -204,19 +205,9 @@ describe('escapes in paths and query strings', () => {
 });
 
 describe('names in other scripts in the exercise library', () => {
-  const body = (name: string) => ({
-    name,
-    purpose: 'Invented for this test.',
-    region: 'hip',
-    kind: 'mobility',
-    instructions: ['Step one.'],
-    cautions: '',
-    dose: { sets: 2, reps: 5, holdSeconds: null, tempo: null, load: null, restSeconds: null, daysPerWeek: 3 },
-  });
-
   it('are found case-insensitively by their own letters and listed in alphabetical order, the same on both databases', async () => {
     for (const name of ['Ångström lunge', 'Élan stride', 'Øresund step', 'Zed hold', '跑步 drill']) {
-      expect((await c.post('/api/exercises', body(name))).status, name).toBe(201);
+      expect((await c.post('/api/exercises', exerciseBody(name))).status, name).toBe(201);
     }
     const names = async (q: string) =>
       ((await c.get(`/api/exercises?q=${encodeURIComponent(q)}`)).body.exercises as { name: string }[]).map((e) => e.name);
