@@ -64,7 +64,7 @@ import { stripePayments, type Payments } from './billing/payments';
 import { athleteDataService } from './privacy/athlete-data-service';
 import { retentionService } from './privacy/retention-service';
 import { privacyRoutes } from './privacy/privacy.routes';
-import { refuseBrokenText, verifyBodyText } from './http/body-text';
+import { refuseBrokenTarget, refuseBrokenText, verifyBodyText } from './http/body-text';
 
 /** What the app needs from outside; tests pass their own. */
 export interface AppDeps {
@@ -190,7 +190,15 @@ export function createApp(deps: AppDeps): App {
   // What every API request passes before its route, as one layer (http/series.ts). The payment
   // webhook reads its RAW body (signature) and is CSRF-exempt: it comes before the parsers and CSRF.
   api.use(
-    series([routesByPrefix([billingWebhookRoutes(billing)]), parseBody, refuseOtherBodies, signedIn, csrf.ensureCookie, csrf.protect]),
+    series([
+      refuseBrokenTarget,
+      routesByPrefix([billingWebhookRoutes(billing)]),
+      parseBody,
+      refuseOtherBodies,
+      signedIn,
+      csrf.ensureCookie,
+      csrf.protect,
+    ]),
   );
 
   const limiter = (limit: number, message: string) =>

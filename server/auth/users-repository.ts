@@ -3,6 +3,7 @@ import type { SessionUser, StaffMember } from '../../src/contracts/api';
 import type { UserRow } from '../db/rows';
 import { preparedRead } from '../db/prepared-read';
 import { identityCache } from '../db/identity-cache';
+import { byName } from '../db/name-order';
 
 interface SessionUserRow {
   id: number;
@@ -83,8 +84,10 @@ export const usersRepository = {
       .where('u.clinic_id', clinicId)
       .whereIn('u.role', ['owner', 'coach'])
       .modify((q) => (id === undefined ? q : q.andWhere('u.id', id)))
-      .orderBy([{ column: 'u.role', order: 'desc' }, { column: 'u.name' }])
+      .orderBy('u.id')
       .select<(UserRow & { athlete_count: number })[]>('u.*', athleteCount);
+    // Owners first, then by name ({@link byName}).
+    rows.sort((a, b) => Number(b.role === 'owner') - Number(a.role === 'owner') || byName(a.name, b.name) || a.id - b.id);
     return rows.map((r) => ({
       id: r.id,
       email: r.email,
@@ -97,11 +100,13 @@ export const usersRepository = {
     }));
   },
 
-  listCoaches(db: Knex, clinicId: number): Promise<{ id: number; name: string }[]> {
-    return db('users')
+  /** Active owners and coaches for assignment pickers, in alphabetical order ({@link byName}). */
+  async listCoaches(db: Knex, clinicId: number): Promise<{ id: number; name: string }[]> {
+    const rows: { id: number; name: string }[] = await db('users')
       .where({ clinic_id: clinicId, active: true })
       .whereIn('role', ['owner', 'coach'])
-      .orderBy('name')
+      .orderBy('id')
       .select('id', 'name');
+    return rows.sort((a, b) => byName(a.name, b.name) || a.id - b.id);
   },
 };

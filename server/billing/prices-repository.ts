@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { byName } from '../db/name-order';
 import type { Price, PriceWrite } from '../../src/contracts/billing';
 
 /** A `prices` row. */
@@ -27,10 +28,11 @@ export const toPrice = (r: PriceRow): Price => ({
 
 /** Knex access to the price list; every call is scoped by clinic. */
 export const pricesRepository = {
-  list(db: Knex, clinicId: number, includeArchived: boolean): Promise<PriceRow[]> {
+  /** The price list in alphabetical order of items ({@link byName}). */
+  async list(db: Knex, clinicId: number, includeArchived: boolean): Promise<PriceRow[]> {
     const q = db<PriceRow>('prices').where({ clinic_id: clinicId });
     if (!includeArchived) q.whereNull('archived_at');
-    return q.orderBy([{ column: 'item' }, { column: 'id' }]);
+    return (await q.orderBy('id')).sort((a, b) => byName(a.item, b.item) || a.id - b.id);
   },
   find(db: Knex, clinicId: number, id: number): Promise<PriceRow | undefined> {
     return db<PriceRow>('prices').where({ clinic_id: clinicId, id }).first();

@@ -2,6 +2,7 @@ import { Metadata } from '@tus/server';
 import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
 import { AppError, NotFoundError, ValidationError } from '../errors';
 import { currentUser } from '../http/access';
+import { textOfBytes } from '../http/body-text';
 import { idParam } from '../http/validate';
 import { permit } from '../policy/enforce';
 import type { ClipsService } from './clips-service';
@@ -49,6 +50,14 @@ function checkProtocolHeaders(req: Request): void {
     const value = req.headers[header];
     if (typeof value === 'string' && !rule.valid(value, req.method)) {
       throw new AppError(400, 'bad_upload', `The ${rule.name} header of this resumable upload request is malformed.`);
+    }
+  }
+  const metadata = req.headers['upload-metadata'];
+  // Its values (the file name…) are base64 of text: UTF-8 without a NUL, or 400 invalid_text like any other text.
+  if (typeof metadata === 'string') {
+    for (const pair of metadata.split(',')) {
+      const value = pair.trim().split(' ')[1];
+      if (value) textOfBytes(Buffer.from(value, 'base64'));
     }
   }
 }

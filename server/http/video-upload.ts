@@ -3,6 +3,8 @@ import type { NextFunction, Request, RequestHandler, Response } from 'express';
 import multer from 'multer';
 import type { Logger } from 'pino';
 import { AppError, ValidationError } from '../errors';
+import { checkMultipartText, MULTIPART_AS_BYTES } from './body-text';
+import { DEMO_LIMITS } from '../../src/contracts/demonstrations';
 import type { UploadTemps } from '../storage/upload-temps';
 
 /** What {@link videoUploadReceiver} needs. */
@@ -21,6 +23,16 @@ export function tooLarge(limitBytes: number): AppError {
     'file_too_large',
     `This file is larger than the ${mb >= 1024 ? `${(mb / 1024).toFixed(1)} GB` : `${mb} MB`} upload limit. Trim the clip to 10–20 seconds and try again.`,
   );
+}
+
+/**
+ * 422 for a multipart text field longer than the form reader takes: longer than any such field may
+ * be, so it is refused as its own schema would refuse it (the one text field is a caption).
+ */
+export function fieldTooLong(field: string | undefined): ValidationError {
+  const name = field ?? 'field';
+  const message = name === 'caption' ? `Caption: at most ${DEMO_LIMITS.caption} characters.` : `The form field "${name}" is too long.`;
+  return new ValidationError(message, [{ path: [name], message }]);
 }
 
 /** Refused uploads up to this size are read to the end before answering. */
@@ -52,8 +64,8 @@ export function videoUploadReceiver(d: VideoUploadDeps): {
       // Never the client's name: it could hold "../" or odd bytes.
       filename: (req, _file, cb) => cb(null, path.basename((req as WithTemp).uploadTemp!)),
     }),
-    // File names arrive as UTF-8 from every current browser; busboy's default would read latin1.
-    defParamCharset: 'utf8',
+    // Field values and file names as bytes, checked as UTF-8 afterwards (http/body-text.ts).
+    ...MULTIPART_AS_BYTES,
     limits: { fileSize: d.uploadMaxBytes, files: 1, fields: 10, parts: 11, fieldNameSize: 100, fieldSize: 10_000 },
   }).single('file');
 
@@ -65,7 +77,14 @@ export function videoUploadReceiver(d: VideoUploadDeps): {
     const declared = Number(req.headers['content-length'] ?? 0);
     if (declared > d.uploadMaxBytes + 64 * 1024) return refuse(req, res, next, tooLarge(d.uploadMaxBytes));
     upload(req, res, (err: unknown) => {
-      if (!err) return next();
+      if (!err) {
+        try {
+          checkMultipartText(req);
+        } catch (refusal) {
+          return next(refusal);
+        }
+        return next();
+      }
       if (clientGone(req, err)) {
         // Normal on phones: the athlete cancelled or the network dropped. Nobody is left to answer.
         d.logger.info({ url: req.originalUrl, received: req.socket?.bytesRead }, 'upload cancelled by the client');
@@ -74,6 +93,7 @@ export function videoUploadReceiver(d: VideoUploadDeps): {
       }
       if (err instanceof multer.MulterError) {
         if (err.code === 'LIMIT_FILE_SIZE') return next(tooLarge(d.uploadMaxBytes));
+        if (err.code === 'LIMIT_FIELD_VALUE') return next(fieldTooLong(err.field));
         if (err.code === 'LIMIT_FILE_COUNT' || err.code === 'LIMIT_UNEXPECTED_FILE') {
           return next(
             new ValidationError('Upload one clip per request, in the form field "file".', [

@@ -1,6 +1,8 @@
 import type { RequestHandler } from 'express';
 import multer from 'multer';
 import { AppError, ValidationError } from '../errors';
+import { checkMultipartText, MULTIPART_AS_BYTES } from '../http/body-text';
+import { fieldTooLong } from '../http/video-upload';
 import { DEMO_LIMITS } from '../../src/contracts/demonstrations';
 import { PictureError } from './picture-error';
 
@@ -14,7 +16,8 @@ const HINT = 'Send the picture as multipart/form-data with one file in the field
 export function receivePicture(): RequestHandler {
   const upload = multer({
     storage: multer.memoryStorage(),
-    defParamCharset: 'utf8',
+    // Field values and file names as bytes, checked as UTF-8 afterwards (http/body-text.ts).
+    ...MULTIPART_AS_BYTES,
     limits: { fileSize: DEMO_LIMITS.pictureBytes, files: 1, fields: 5, parts: 6, fieldNameSize: 100, fieldSize: 2000 },
   }).single('file');
   const tooLarge = () =>
@@ -27,12 +30,18 @@ export function receivePicture(): RequestHandler {
     if (!req.is('multipart/form-data')) return next(new AppError(400, 'bad_upload', HINT));
     upload(req, res, (err: unknown) => {
       if (!err) {
+        try {
+          checkMultipartText(req);
+        } catch (refusal) {
+          return next(refusal);
+        }
         if (!req.file)
           return next(new ValidationError('Choose a picture to upload.', [{ path: ['file'], message: 'A picture is required.' }]));
         return next();
       }
       if (err instanceof multer.MulterError) {
         if (err.code === 'LIMIT_FILE_SIZE') return next(tooLarge());
+        if (err.code === 'LIMIT_FIELD_VALUE') return next(fieldTooLong(err.field));
         if (err.code === 'LIMIT_FILE_COUNT' || err.code === 'LIMIT_UNEXPECTED_FILE') {
           return next(
             new ValidationError('Upload one picture per request, in the field "file".', [

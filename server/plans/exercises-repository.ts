@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import type { Dose, Exercise, ExerciseRegion, LoadingKind } from '../../src/contracts/plans';
 import type { ExerciseQueryInput } from './plans-schemas';
+import { byName } from '../db/name-order';
 
 export interface ExerciseRow {
   id: number;
@@ -53,7 +54,6 @@ export function doseFromRow(r: DoseColumns): Dose {
 }
 
 /** Escapes `%`, `_` and `\` for a LIKE pattern (with `ESCAPE '\'`). */
-const likeEscape = (s: string) => s.replace(/[\\%_]/g, (c) => `\\${c}`);
 
 /** The clinic's exercise library. Every query is scoped by clinic. */
 export const exercisesRepository = {
@@ -72,20 +72,21 @@ export const exercisesRepository = {
       .whereIn('id', [...new Set(ids)]);
   },
 
-  search(db: Knex, clinicId: number, q: ExerciseQueryInput): Promise<ExerciseRow[]> {
+  /**
+   * A clinic's library by region, kind and words (each in the name, purpose or source, any case),
+   * in alphabetical order ({@link byName}). Words are matched here rather than in SQL: SQLite's
+   * `lower` knows only ASCII ("élan" would miss "Élan"); a library is small.
+   */
+  async search(db: Knex, clinicId: number, q: ExerciseQueryInput): Promise<ExerciseRow[]> {
     const query = db<ExerciseRow>('exercises').where({ clinic_id: clinicId, archived: q.archived === 'true' });
     if (q.region) query.andWhere({ region: q.region });
     if (q.kind) query.andWhere({ kind: q.kind });
-    for (const word of (q.q ?? '').toLowerCase().split(/\s+/).filter(Boolean)) {
-      const pattern = `%${likeEscape(word)}%`;
-      query.andWhere((w) =>
-        w
-          .whereRaw(`lower(name) LIKE ? ESCAPE '\\'`, [pattern])
-          .orWhereRaw(`lower(purpose) LIKE ? ESCAPE '\\'`, [pattern])
-          .orWhereRaw(`lower(source) LIKE ? ESCAPE '\\'`, [pattern]),
-      );
-    }
-    return query.orderByRaw('lower(name)');
+    const words = (q.q ?? '').toLowerCase().split(/\s+/).filter(Boolean);
+    const rows = (await query).filter((r) => {
+      const text = `${r.name}\n${r.purpose}\n${r.source}`.toLowerCase();
+      return words.every((w) => text.includes(w));
+    });
+    return rows.sort((a, b) => byName(a.name, b.name) || a.id - b.id);
   },
 
   async insert(db: Knex, row: Omit<ExerciseRow, 'id'>): Promise<number> {

@@ -15,7 +15,7 @@ import { drawOverlay, landmarkFill, slowMotionTiming, type Canvas2DLike, type La
 import { startH264Encoder } from '../media/encode-h264';
 import { CANVAS_FONT_FAMILY, loadCanvas } from './fonts';
 import { PANEL_GAP, clipSizes } from './annotated-clip-layout';
-import { wrapText } from './still-render';
+import { clampLines, wrapText } from './still-render';
 
 /** One clip to play: where its frames come from and what is marked on it. */
 export interface ClipPanelInput {
@@ -133,7 +133,8 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
   const captionFont = `400 ${Math.round(unit * 1.05)}px "${CANVAS_FONT_FAMILY}"`;
   scratch.font = captionFont;
   const caption = input.caption.trim();
-  const captionLines = caption ? wrapText(scratch, caption, contentWidth - 2 * unit).slice(0, 3) : [];
+  // At most three lines under the video; a longer caption ends in "…" rather than stopping without a sign.
+  const captionLines = caption ? clampLines(scratch, wrapText(scratch, caption, contentWidth - 2 * unit), 3, contentWidth - 2 * unit) : [];
   const lineHeight = Math.round(unit * 1.4);
   const smallSize = Math.max(10, Math.round(unit * 0.8));
   const footHeight = Math.round(unit * 0.6) + captionLines.length * lineHeight + Math.round(smallSize * 1.6) * 2 + Math.round(unit * 0.4);

@@ -52,21 +52,55 @@ const BAND = '#F1F5F3';
 const MUTED = '#4A5A55';
 const GAP = 12;
 
-/** Splits text into lines that fit `maxWidth` with the context's current font. */
+/** User-perceived characters (a letter with its combining marks, an emoji with its modifiers stay whole). */
+const graphemes = new Intl.Segmenter(undefined, { granularity: 'grapheme' });
+
+/**
+ * Splits text into lines that fit `maxWidth` with the context's current font: at spaces, and a
+ * word too wide for a line of its own (text written without spaces, as Chinese or Japanese is; a
+ * long web address) between its characters, so nothing runs off the edge. Every character is kept.
+ */
 export function wrapText(ctx: Pick<SKRSContext2D, 'measureText'>, text: string, maxWidth: number): string[] {
   const lines: string[] = [];
+  const fits = (t: string) => ctx.measureText(t).width <= maxWidth;
   for (const paragraph of text.split(/\r?\n/)) {
     let line = '';
     for (const word of paragraph.split(/\s+/).filter(Boolean)) {
       const next = line ? `${line} ${word}` : word;
-      if (line && ctx.measureText(next).width > maxWidth) {
-        lines.push(line);
+      if (fits(next)) {
+        line = next;
+        continue;
+      }
+      if (line) lines.push(line);
+      line = '';
+      if (fits(word)) {
         line = word;
-      } else line = next;
+        continue;
+      }
+      for (const { segment } of graphemes.segment(word)) {
+        if (line && !fits(line + segment)) {
+          lines.push(line);
+          line = '';
+        }
+        line += segment;
+      }
     }
     lines.push(line);
   }
   return lines;
+}
+
+/**
+ * At most `max` of `lines`; when some are left out, the last one kept ends in "…" (shortened
+ * between characters until it fits `maxWidth`), so a cut caption shows that it was cut.
+ */
+export function clampLines(ctx: Pick<SKRSContext2D, 'measureText'>, lines: string[], max: number, maxWidth: number): string[] {
+  if (lines.length <= max) return lines;
+  const kept = lines.slice(0, max);
+  const chars = [...graphemes.segment(kept[max - 1]!)].map((g) => g.segment);
+  while (chars.length && ctx.measureText(`${chars.join('').trimEnd()}…`).width > maxWidth) chars.pop();
+  kept[max - 1] = `${chars.join('').trimEnd()}…`;
+  return kept;
 }
 
 /**

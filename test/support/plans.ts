@@ -14,6 +14,20 @@ export function oneStagePlan(title: string, exerciseId: number, dose: unknown) {
   };
 }
 
+/** The body of POST /api/exercises for an invented hip mobility exercise named `name`; `over` changes its fields. */
+export function exerciseBody(name: string, over: Record<string, unknown> = {}) {
+  return {
+    name,
+    purpose: 'Invented for this test.',
+    region: 'hip',
+    kind: 'mobility',
+    instructions: ['Step one.'],
+    cautions: '',
+    dose: { sets: 2, reps: 5, holdSeconds: null, tempo: null, load: null, restSeconds: null, daysPerWeek: 3 },
+    ...over,
+  };
+}
+
 /** Creates and starts a one-stage plan for `athleteId` holding `exercise` at its own dose; answers the plan id. */
 export async function startPlanWith(coach: Client, athleteId: number, exercise: { id: number; dose: unknown }): Promise<number> {
   const plan = await coach.post(`/api/athletes/${athleteId}/plans`, oneStagePlan('Calf loading', exercise.id, exercise.dose));

@@ -7,7 +7,7 @@
 import { createCanvas, loadImage } from '@napi-rs/canvas';
 import { describe, expect, it } from 'vitest';
 import { CANVAS_FONT_FAMILY, loadCanvas } from '../../../server/render/fonts';
-import { renderStill } from '../../../server/render/still-render';
+import { clampLines, renderStill, wrapText } from '../../../server/render/still-render';
 import { STILL_CAUTION_LINE } from '../../../src/contracts/sharing';
 
 /** A plain mid-grey frame of `w`×`h` as JPEG bytes (no landmarks: only the caution is looked at). */
@@ -80,5 +80,54 @@ describe('renderStill: the caution line', () => {
     expect(Math.abs(ink.left - unit)).toBeLessThanOrEqual(2);
     expect(Math.abs(ink.right - ink.left + 1 - expected)).toBeLessThanOrEqual(3);
     expect(ink.bottom - ink.top + 1).toBeLessThanOrEqual(Math.ceil(size * 1.2)); // one line, small
+  });
+});
+
+describe('caption lines in text without spaces', () => {
+  /** 280 characters of Chinese (no spaces between words), with an emoji and a letter with a combining mark. */
+  const CJK = '跑步时髋关节伸展不足'.repeat(27) + '🏃🏽e\u0301';
+  const width = 600;
+
+  it('are broken between characters so no line is wider than the caption area (Skia measureText), and every character is kept', async () => {
+    await loadCanvas();
+    const ctx = createCanvas(10, 10).getContext('2d');
+    ctx.font = `400 23px "${CANVAS_FONT_FAMILY}"`;
+    const lines = wrapText(ctx, `Push-off: ${CJK} https://example.test/${'a'.repeat(200)}`, width);
+    expect(lines.length).toBeGreaterThan(3);
+    for (const line of lines) expect(ctx.measureText(line).width).toBeLessThanOrEqual(width);
+    // Nothing dropped: the lines hold the caption's characters in order (spaces aside).
+    expect(lines.join('').replace(/\s/g, '')).toBe(`Push-off:${CJK}https://example.test/${'a'.repeat(200)}`);
+    // An emoji with its skin-tone modifier and a letter with its combining mark stay whole: no line starts with the modifier or the mark.
+    for (const line of lines) expect(/^(\p{Emoji_Modifier}|\p{M})/u.test(line), line).toBe(false);
+  });
+
+  it('a caption cut to fewer lines ends in "…" within the width', async () => {
+    await loadCanvas();
+    const ctx = createCanvas(10, 10).getContext('2d');
+    ctx.font = `400 23px "${CANVAS_FONT_FAMILY}"`;
+    const lines = clampLines(ctx, wrapText(ctx, CJK, width), 3, width);
+    expect(lines).toHaveLength(3);
+    expect(lines[2]!.endsWith('…')).toBe(true);
+    expect(ctx.measureText(lines[2]!).width).toBeLessThanOrEqual(width);
+    expect(clampLines(ctx, ['one', 'two'], 3, width)).toEqual(['one', 'two']);
+  });
+
+  it('a still whose caption is 280 Chinese characters renders, its caption in lines below the frame', async () => {
+    const out = await renderStill({
+      panels: [
+        {
+          image: await greyFrame(640, 360),
+          frameSize: { width: 640, height: 360 },
+          landmarks: [],
+          nearSide: 'left',
+          direction: 'left_to_right',
+          scale: null,
+          heading: 'Baseline · 跑步 · שלום',
+        },
+      ],
+      caption: CJK,
+      showAngles: false,
+    });
+    expect(out.height).toBeGreaterThan(360 + 3 * 20);
   });
 });

@@ -100,3 +100,20 @@ describe('the visit summary PDF of a fixed visit, line by line', () => {
     ]);
   });
 });
+
+describe('the visit summary PDF with names and text in other scripts', () => {
+  it('renders (the job does not fail) and keeps the letters its font has: accented, Greek and Cyrillic names read back exactly', async () => {
+    const { pdf, pageCount } = await renderSummaryPdf({
+      ...visit,
+      athleteName: 'Zoë Łukasz-Ζωή Дарья 李小龍 שלום 🏃🏽',
+      findings: `Push-off is short on the right. ${'跑步时髋关节伸展不足'.repeat(40)} Ångström.`,
+      planText: 'שלום עולם مرحبا 👍🏽 e\u0301',
+    });
+    expect(pageCount).toBeGreaterThanOrEqual(1);
+    const text = (await new PDFParse({ data: new Uint8Array(pdf) }).getText()).pages.map((p) => p.text).join('\n');
+    // The complete Source Sans 3 carries Latin with accents, Greek and Cyrillic (the font's published coverage, from memory).
+    expect(text).toContain('Zoë Łukasz-Ζωή Дарья');
+    expect(text).toContain('Push-off is short on the right.');
+    expect(text).toContain('Ångström.');
+  });
+});

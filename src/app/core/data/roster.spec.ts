@@ -82,6 +82,22 @@ describe('sortRoster', () => {
     expect(ids(sortRoster(rows, { active: 'goal', direction: 'asc' }))).toEqual([3, 1, 2]);
   });
 
+  it('orders names as English readers do (Unicode collation, en): accents and case second, Ø among the O\'s, digits as numbers', () => {
+    const names = [
+      athlete({ id: 1, lastName: 'Zeller', firstName: 'Ida' }),
+      athlete({ id: 2, lastName: 'Øberg', firstName: 'Liv' }),
+      athlete({ id: 3, lastName: 'Ochoa', firstName: 'Ana' }),
+      athlete({ id: 4, lastName: 'Ångström', firstName: 'Per' }),
+      athlete({ id: 5, lastName: 'de Vries', firstName: 'Noor' }),
+      athlete({ id: 6, lastName: 'Runner 10', firstName: 'A' }),
+      athlete({ id: 7, lastName: 'Runner 9', firstName: 'A' }),
+      athlete({ id: 8, lastName: 'Ochoa', firstName: 'A\u0301lvaro' }),
+    ];
+    // Expected order worked out by hand from the Unicode Collation Algorithm's base letters (from memory).
+    expect(ids(sortRoster(names, { active: 'name', direction: 'asc' }, 'en'))).toEqual([4, 5, 2, 8, 3, 7, 6, 1]);
+    expect(ids(sortRoster(names, { active: 'name', direction: 'desc' }, 'en'))).toEqual([1, 6, 7, 3, 8, 2, 5, 4]);
+  });
+
   it('leaves the order alone without a direction and never mutates the input', () => {
     const copy = [...rows];
     expect(ids(sortRoster(rows, { active: 'pain', direction: '' }))).toEqual([1, 2, 3]);

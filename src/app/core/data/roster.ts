@@ -47,11 +47,11 @@ const ACCOUNT_ORDER: Record<AccountState, number> = { active: 0, invited: 1, non
 function sortKey(a: AthleteSummary, column: string): string | number | null {
   switch (column as RosterColumn) {
     case 'name':
-      return foldText(`${a.lastName} ${a.firstName}`);
+      return `${a.lastName} ${a.firstName}`;
     case 'goal':
       return a.goalDate ?? null;
     case 'coach':
-      return a.coachName ? foldText(a.coachName) : null;
+      return a.coachName || null;
     case 'account':
       return ACCOUNT_ORDER[accountState(a)];
     case 'consent':
@@ -66,21 +66,26 @@ function sortKey(a: AthleteSummary, column: string): string | number | null {
 }
 
 /**
- * Sorts a copy of `rows` by a roster column. Missing values (no goal date, no coach, no pain
- * recorded) always go last; ties fall back to the name so the order is stable.
+ * Sorts a copy of `rows` by a roster column. Names and coaches sort as the reader's language
+ * orders them (`locale`; default the browser's): "Ångström" among the A's, "Øberg" among the
+ * O's, case and accents second, digits as numbers. Missing values (no goal date, no coach, no
+ * pain recorded) always go last; ties fall back to the name so the order is stable.
  */
-export function sortRoster(rows: readonly AthleteSummary[], sort: RosterSort): AthleteSummary[] {
+export function sortRoster(rows: readonly AthleteSummary[], sort: RosterSort, locale?: string): AthleteSummary[] {
   const copy = [...rows];
   if (!sort.direction || !sort.active) return copy;
   const sign = sort.direction === 'asc' ? 1 : -1;
+  const text = new Intl.Collator(locale, { numeric: true }).compare;
+  const names = (x: AthleteSummary, y: AthleteSummary) => text(x.lastName, y.lastName) || text(x.firstName, y.firstName);
   return copy.sort((x, y) => {
     const a = sortKey(x, sort.active);
     const b = sortKey(y, sort.active);
     if (a === null && b !== null) return 1;
     if (b === null && a !== null) return -1;
-    if (a !== null && b !== null && a !== b) return (a < b ? -1 : 1) * sign;
-    const nx = sortKey(x, 'name') as string;
-    const ny = sortKey(y, 'name') as string;
-    return nx < ny ? -1 : nx > ny ? 1 : x.id - y.id;
+    if (a !== null && b !== null && a !== b) {
+      const order = sort.active === 'name' ? names(x, y) : typeof a === 'string' && typeof b === 'string' ? text(a, b) : a < b ? -1 : 1;
+      if (order !== 0) return order * sign;
+    }
+    return names(x, y) || x.id - y.id;
   });
 }

@@ -11,6 +11,7 @@ import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
 import { InvoiceForm } from './invoice-form';
 import { mountPage, settlePage, typeInto, wait } from '../../../shared/testing/mount-page';
 import { errorText } from '../../../shared/forms/error-text';
+import { GAIT_PRICE, RETEST_PRICE } from '../../../shared/testing/billing-fixtures';
 
 /** The component's protected API, for driving the form the way its template does. */
 interface FormApi {
@@ -20,10 +21,7 @@ interface FormApi {
   pickAssessment(a: Pick<Assessment, 'id' | 'kind'> | null): void;
   save(): Promise<void>;
 }
-const PRICES: Price[] = [
-  { id: 1, item: 'Gait assessment', description: '', amountMinor: 12000, currency: 'EUR', taxRateBp: 2000, archived: false },
-  { id: 2, item: 'Re-test', description: '', amountMinor: 6500, currency: 'EUR', taxRateBp: 2000, archived: false },
-];
+const PRICES: Price[] = [GAIT_PRICE, RETEST_PRICE];
 
 describe('InvoiceForm', () => {
   let fixture: ComponentFixture<InvoiceForm>;

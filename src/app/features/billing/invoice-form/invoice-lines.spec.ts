@@ -1,4 +1,3 @@
-import type { Price } from '../../../../contracts/billing';
 import {
   formFromInvoice,
   lineFromInvoiceLine,
@@ -8,21 +7,11 @@ import {
   priceForAssessment,
   toLineWrite,
 } from './invoice-lines';
-
-const retest: Price = { id: 2, item: 'Re-test', description: '', amountMinor: 6500, currency: 'EUR', taxRateBp: 2000, archived: false };
-const gait: Price = {
-  id: 1,
-  item: 'Gait assessment',
-  description: '',
-  amountMinor: 12000,
-  currency: 'EUR',
-  taxRateBp: 2000,
-  archived: false,
-};
+import { GAIT_PRICE, RETEST_PRICE } from '../../../shared/testing/billing-fixtures';
 
 describe('invoice lines', () => {
   it('fills a line from a price: Re-test 65.00 at 20 %', () => {
-    expect(lineFromPrice(retest)).toEqual({ priceId: 2, description: 'Re-test', quantity: 1, amount: '65.00', tax: '20' });
+    expect(lineFromPrice(RETEST_PRICE)).toEqual({ priceId: 2, description: 'Re-test', quantity: 1, amount: '65.00', tax: '20' });
   });
 
   it('previews 3 × 45.00 at 20 % = 162.00 plus 12.34 untaxed = 174.34', () => {
@@ -39,9 +28,9 @@ describe('invoice lines', () => {
   });
 
   it('suggests the price for an assessment kind', () => {
-    expect(priceForAssessment('retest', [gait, retest])?.id).toBe(2);
-    expect(priceForAssessment('baseline', [retest, gait])?.id).toBe(1);
-    expect(priceForAssessment('retest', [gait])).toBeNull();
+    expect(priceForAssessment('retest', [GAIT_PRICE, RETEST_PRICE])?.id).toBe(2);
+    expect(priceForAssessment('baseline', [RETEST_PRICE, GAIT_PRICE])?.id).toBe(1);
+    expect(priceForAssessment('retest', [GAIT_PRICE])).toBeNull();
   });
 
   it('turns saved lines back into what was typed: 1,250.00 at 7.5 %, 45.00 without tax', () => {

@@ -1,20 +1,10 @@
 import { HttpTestingController } from '@angular/common/http/testing';
 import { ComponentFixture } from '@angular/core/testing';
-import type { Price } from '../../../../contracts/billing';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { leaveGuard } from '../../../core/leave-guard';
 import { PriceList } from './price-list';
 import { mountPage, settlePage, typeInto, wait } from '../../../shared/testing/mount-page';
-
-const PRICE: Price = {
-  id: 1,
-  item: 'Gait assessment',
-  description: '',
-  amountMinor: 12000,
-  currency: 'EUR',
-  taxRateBp: 2000,
-  archived: false,
-};
+import { GAIT_PRICE } from '../../../shared/testing/billing-fixtures';
 
 describe('PriceList', () => {
   let fixture: ComponentFixture<PriceList>;
@@ -30,7 +20,7 @@ describe('PriceList', () => {
   afterEach(() => backend.verify());
 
   it('a failed currency load says so with Try again and still shows the prices, without throwing', async () => {
-    backend.expectOne('/api/prices').flush({ prices: [PRICE] });
+    backend.expectOne('/api/prices').flush({ prices: [GAIT_PRICE] });
     flushApiError(backend.expectOne('/api/billing/settings'), 500, 'The database is busy.');
     await settle();
     expect(element.querySelector('mat-progress-bar')).toBeNull();
@@ -58,7 +48,7 @@ describe('PriceList', () => {
 
     buttonWithText(element, 'Try again').click();
     await settle();
-    backend.expectOne('/api/prices').flush({ prices: [PRICE] });
+    backend.expectOne('/api/prices').flush({ prices: [GAIT_PRICE] });
     await settle();
     expect(element.textContent).not.toContain("Couldn't load");
     expect(element.textContent).toContain('Gait assessment');
@@ -74,7 +64,7 @@ describe('PriceList', () => {
   });
 
   it('adds a price typed with a decimal comma at its value (12,50 → 1250 cents) and warns before leaving typed work', async () => {
-    backend.expectOne('/api/prices').flush({ prices: [PRICE] });
+    backend.expectOne('/api/prices').flush({ prices: [GAIT_PRICE] });
     backend.expectOne('/api/billing/settings').flush({ currency: 'EUR' });
     await settle();
     const page = fixture.componentInstance;
@@ -89,7 +79,7 @@ describe('PriceList', () => {
     buttonWithText(element, 'Add price').click();
     const req = backend.expectOne('/api/prices');
     expect(req.request.body).toEqual({ item: 'Short review', description: '', amountMinor: 1250, taxRateBp: 750 });
-    req.flush({ ...PRICE, id: 2, item: 'Short review', amountMinor: 1250, taxRateBp: 750 });
+    req.flush({ ...GAIT_PRICE, id: 2, item: 'Short review', amountMinor: 1250, taxRateBp: 750 });
     await settle();
     expect(page.leaveWarning()).toBeNull();
     expect(element.textContent).toContain('12.50 EUR');
