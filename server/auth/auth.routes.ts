@@ -6,9 +6,11 @@ import type { Csrf } from '../http/csrf';
 import { markSessionSeen, SESSION_COOKIE } from '../http/sessions';
 import { parse, TokenParam } from '../http/validate';
 import type { Db } from '../db/knex';
-import { AcceptInvitationBody, ResetCompleteBody, ResetRequestBody, SignInBody } from './auth-schemas';
+import { AcceptInvitationBody, ChangePasswordBody, ResetCompleteBody, ResetRequestBody, SignInBody } from './auth-schemas';
 import type { InvitationsService } from './invitations-service';
 import type { PasswordResetsService } from './password-resets-service';
+import { WrongCurrentPasswordError, type PasswordChangeService } from './password-change-service';
+import { currentUser } from '../http/access';
 import { accountWaitError, type SignInGuard } from './sign-in-guard';
 import { usersRepository } from './users-repository';
 
@@ -18,6 +20,7 @@ export interface AuthRoutesDeps {
   csrf: Csrf;
   invitations: InvitationsService;
   resets: PasswordResetsService;
+  passwordChange: PasswordChangeService;
   signInLimiter: RequestHandler;
   /** Per-account limits and known browsers. */
   signInGuard: SignInGuard;
@@ -25,7 +28,7 @@ export interface AuthRoutesDeps {
   clock: () => Date;
 }
 
-/** Sign-in and out, the current user, invitation links and password resets. */
+/** Sign-in and out, the current user, changing one's password, invitation links and password resets. */
 export function authRoutes(d: AuthRoutesDeps): Router {
   const router = Router();
 
@@ -78,6 +81,38 @@ export function authRoutes(d: AuthRoutesDeps): Router {
         d.csrf.issue(req, res, true);
         res.status(204).end();
       });
+    });
+  });
+
+  // A wrong current password counts as a failed sign-in (per address and per account), so this
+  // cannot be used to guess passwords; 401 comes first, so signed-out calls count nothing.
+  const signedIn: RequestHandler = (req, _res, next) => {
+    currentUser(req);
+    next();
+  };
+  router.post('/auth/password', signedIn, d.signInLimiter, async (req, res, next) => {
+    const user = currentUser(req);
+    const body = parse(ChangePasswordBody, req.body);
+    const wait = d.signInGuard.accountWaitSeconds(user.email);
+    if (wait > 0) {
+      res.setHeader('Retry-After', String(wait));
+      throw accountWaitError(wait);
+    }
+    try {
+      await d.passwordChange.change(user.id, body.currentPassword, body.newPassword);
+    } catch (err) {
+      if (err instanceof WrongCurrentPasswordError) d.signInGuard.failedForAccount(user.email);
+      throw err;
+    }
+    d.signInGuard.clear(user.email);
+    const fresh = await usersRepository.sessionUser(d.db, user.id);
+    if (!fresh) throw new UnauthorizedError();
+    // Every session of the account was ended; this browser stays signed in under a new session id.
+    req.logIn(fresh, (err) => {
+      if (err) return next(err);
+      markSessionSeen(req, d.clock);
+      d.csrf.issue(req, res, true);
+      res.json({ user: fresh });
     });
   });
 
