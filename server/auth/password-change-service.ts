@@ -1,7 +1,7 @@
 import type { Logger } from 'pino';
 import type { Config } from '../config';
 import type { Db } from '../db/knex';
-import { AppError, UnauthorizedError } from '../errors';
+import { AppError, ConflictError, UnauthorizedError } from '../errors';
 import type { Mailer } from '../mail/mailer';
 import { audit } from '../audit/audit-log';
 import { revokeUserSessions, type UserRevocations } from '../http/sessions';
@@ -29,7 +29,7 @@ export class WrongCurrentPasswordError extends AppError {
 export interface PasswordChangeService {
   /**
    * Checks `currentPassword` (422 `wrong_password`), refuses a new password equal to it (422
-   * `same_password`), then stores the new hash, ends every session of the account (the caller
+   * `same_password`), then stores (409 `password_changed` when another change came first) the new hash, ends every session of the account (the caller
    * signs this browser in again), voids unused reset links, audits `user.password_changed` and
    * e-mails the account a notice. Answers the account's e-mail.
    */
@@ -49,7 +49,9 @@ export function passwordChangeService({ db, mailer, config, clock, logger, revoc
       const passwordHash = await hashPassword(newPassword);
       const at = clock().toISOString();
       await db.transaction(async (trx) => {
-        await usersRepository.setPassword(trx, userId, passwordHash, at);
+        // Only over the password just checked: of two changes at once, the second finds it changed.
+        if (!(await usersRepository.replacePassword(trx, userId, row.password_hash, passwordHash, at)))
+          throw new ConflictError('Your password was changed a moment ago. Sign in with the new one.', 'password_changed');
         // Every session of the account ends at once, this one too (the route signs this browser in anew).
         await revokeUserSessions(trx, userId);
         // A reset link asked for earlier must not set another password later.

@@ -136,6 +136,20 @@ describe('POST /api/auth/password: changing one’s own password while signed in
     expect(await signInStatus(owner.email, 'wrong-password')).toBe(429);
   });
 
+  it('of two changes sent at once with the same current password, one wins and the other is refused (never both answered 200)', async () => {
+    const c = await signedIn(t.app, owner.email, owner.password);
+    const answers = await Promise.all(
+      ['first-new-passphrase', 'second-new-passphrase'].map((newPassword) =>
+        c.post('/api/auth/password', { currentPassword: owner.password, newPassword }),
+      ),
+    );
+    const statuses = answers.map((r) => r.status);
+    expect(statuses.filter((s) => s === 200)).toHaveLength(1);
+    expect([401, 409, 422]).toContain(statuses.find((s) => s !== 200));
+    const won = statuses[0] === 200 ? 'first-new-passphrase' : 'second-new-passphrase';
+    expect(await signInStatus(owner.email, won)).toBe(200);
+  });
+
   it('voids a reset link asked for before the change', async () => {
     await new Client(t.app).post('/api/password-resets', { email: athlete.email });
     const token = t.mailer.lastLinkTo(athlete.email).split('/').pop()!;
