@@ -4,7 +4,7 @@ import { ForbiddenError, UnauthorizedError } from '../errors';
 import { DEACTIVATED } from './passport-setup';
 import type { Csrf } from '../http/csrf';
 import { markSessionSeen, SESSION_COOKIE } from '../http/sessions';
-import { parse, TokenParam } from '../http/validate';
+import { parse, tokenParam } from '../http/validate';
 import type { Db } from '../db/knex';
 import { AcceptInvitationBody, ChangePasswordBody, ResetCompleteBody, ResetRequestBody, SignInBody } from './auth-schemas';
 import type { InvitationsService } from './invitations-service';
@@ -122,12 +122,12 @@ export function authRoutes(d: AuthRoutesDeps): Router {
   });
 
   router.get('/invitations/:token', async (req, res) => {
-    const { token } = parse(TokenParam, req.params, 'Link');
+    const token = tokenParam(req.params, 'Invitation');
     res.json(await d.invitations.preview(token));
   });
 
   router.post('/invitations/:token/accept', async (req, res, next) => {
-    const { token } = parse(TokenParam, req.params, 'Link');
+    const token = tokenParam(req.params, 'Invitation');
     const body = parse(AcceptInvitationBody, req.body);
     const userId = await d.invitations.accept(token, body.name, body.password);
     const user = await usersRepository.sessionUser(d.db, userId);
@@ -147,12 +147,12 @@ export function authRoutes(d: AuthRoutesDeps): Router {
   });
 
   router.get('/password-resets/:token', async (req, res) => {
-    const { token } = parse(TokenParam, req.params, 'Link');
+    const token = tokenParam(req.params, 'Reset link');
     res.json(await d.resets.preview(token));
   });
 
   router.post('/password-resets/:token', d.resetLimiter, async (req, res) => {
-    const { token } = parse(TokenParam, req.params, 'Link');
+    const token = tokenParam(req.params, 'Reset link');
     const { password } = parse(ResetCompleteBody, req.body);
     await d.resets.complete(token, password);
     res.status(204).end();
