@@ -74,6 +74,7 @@ export class AccountPage {
       await this.auth.setUser(user);
       if (this.formDirective()) this.formDirective()!.resetForm();
       else this.form.reset();
+      this.shown.set({ currentPassword: false, password: false, confirm: false });
       this.changed.set(true);
     } catch (err) {
       if (errorStatus(err) === 401) return; // The session ended: the app is on its way to the sign-in page.
