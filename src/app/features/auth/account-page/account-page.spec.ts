@@ -28,7 +28,7 @@ describe('AccountPage', () => {
 
   afterEach(() => page.backend.verify());
 
-  const input = (name: string) => page.element.querySelector<HTMLInputElement>(`input[formcontrolname="${name}"]`)!;
+  const input = (name: string) => page.element.querySelector<HTMLInputElement>(`input[name="${name}"]`)!;
   function type(name: string, value: string) {
     input(name).value = value;
     input(name).dispatchEvent(new Event('input'));

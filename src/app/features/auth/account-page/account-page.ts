@@ -16,8 +16,17 @@ import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { passwordControls } from '../password-fields';
 
+/** The form's password fields. */
+type Field = 'currentPassword' | 'password' | 'confirm';
 /** Which password fields show their text. */
-type Shown = Record<'currentPassword' | 'password' | 'confirm', boolean>;
+type Shown = Record<Field, boolean>;
+
+/** The three fields in order: label, what the show/hide button names, what password managers are told. */
+const FIELDS: readonly { name: Field; label: string; spoken: string; autocomplete: string }[] = [
+  { name: 'currentPassword', label: 'Current password', spoken: 'current password', autocomplete: 'current-password' },
+  { name: 'password', label: 'New password', spoken: 'new password', autocomplete: 'new-password' },
+  { name: 'confirm', label: 'Repeat new password', spoken: 'repeated password', autocomplete: 'new-password' },
+];
 
 /**
  * `/account` (every role): who is signed in, and changing one's own password with the current one.
@@ -29,7 +38,7 @@ type Shown = Record<'currentPassword' | 'password' | 'confirm', boolean>;
   imports: [ReactiveFormsModule, MatCardModule, MatFormFieldModule, MatInputModule, MatButtonModule, MatIconModule, MatProgressBarModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './account-page.html',
-  styleUrl: './account-page.scss',
+  styleUrls: ['../auth-pages.scss', './account-page.scss'],
 })
 export class AccountPage {
   private readonly api = inject(AuthApi);
@@ -48,6 +57,7 @@ export class AccountPage {
   protected readonly problem = signal<string | null>(null);
   /** Whether the last change went through (cleared by the next attempt). */
   protected readonly changed = signal(false);
+  protected readonly fields = FIELDS;
   protected readonly minLength = LIMITS.passwordMin;
   protected readonly errorText = errorText;
   protected readonly roleLabel = computed(() => {
