@@ -20,6 +20,7 @@ import { useJsonAnswer } from './http/json-answer';
 import { createPassport } from './auth/passport-setup';
 import { signInGuard } from './auth/sign-in-guard';
 import { authRoutes } from './auth/auth.routes';
+import { passwordChangeService } from './auth/password-change-service';
 import { invitationsService } from './auth/invitations-service';
 import { passwordResetsService } from './auth/password-resets-service';
 import { staffRoutes } from './staff/staff.routes';
@@ -230,12 +231,12 @@ export function createApp(deps: AppDeps): App {
   const resetLimiter = limiter(config.rateLimit.resetRequests, 'Too many password-reset requests. Wait 15 minutes and try again.');
 
   const invitations = invitationsService({ db, mailer, config, clock });
-  const resets = passwordResetsService({ db, mailer, config, clock, logger, onPasswordSet: (email) => guard.clear(email) });
+  const revocations = inProcessRevocations();
+  const resets = passwordResetsService({ db, mailer, config, clock, logger, revocations, onPasswordSet: (email) => guard.clear(email) });
   const athletes = athletesService({ db, clock, invitations, notices: { mailer, logger, publicUrl: config.publicUrl } });
   // Start-up removes temp files of uploads a killed server left; then a sweep by age (unref'd).
   const temps = uploadTemps(uploadTempDir(config.uploadsDir), (err) => logger.warn({ err: err.message }, 'upload temp sweep failed'));
   const tempSweep = temps.startSweeping(UPLOAD_TEMP_SWEEP);
-  const revocations = inProcessRevocations();
   // SQLite: in-process channel and table relay; PostgreSQL: pg-boss and LISTEN/NOTIFY (processing/engine.ts).
   const engine = processingEngine({ db, config, logger });
   const media = createMediaServices({
@@ -304,7 +305,18 @@ export function createApp(deps: AppDeps): App {
   api.use(
     routesByPrefix([
       system,
-      authRoutes({ db, passport, csrf, invitations, resets, signInLimiter, signInGuard: guard, resetLimiter, clock }),
+      authRoutes({
+        db,
+        passport,
+        csrf,
+        invitations,
+        resets,
+        passwordChange: passwordChangeService({ db, mailer, config, clock, logger, revocations }),
+        signInLimiter,
+        signInGuard: guard,
+        resetLimiter,
+        clock,
+      }),
       staffRoutes({ db, invitations, staff: staffService({ db, clock, revocations }) }),
       athletesRoutes(athletes),
       assessmentsRoutes(assessments),

@@ -22,5 +22,9 @@ export const SignInBody = z.strictObject({
 
 export const ResetRequestBody = z.strictObject({ email: Email });
 export const ResetCompleteBody = z.strictObject({ password: Password });
+export const ChangePasswordBody = z.strictObject({
+  currentPassword: z.string().min(1, 'Current password is required.').max(LIMITS.passwordMax, 'That is not your current password.'),
+  newPassword: Password,
+});
 export const AcceptInvitationBody = z.strictObject({ name: PersonName, password: Password });
 export const InviteCoachBody = z.strictObject({ email: Email, name: PersonName });

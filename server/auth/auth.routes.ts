@@ -4,11 +4,13 @@ import { ForbiddenError, UnauthorizedError } from '../errors';
 import { DEACTIVATED } from './passport-setup';
 import type { Csrf } from '../http/csrf';
 import { markSessionSeen, SESSION_COOKIE } from '../http/sessions';
-import { parse, TokenParam } from '../http/validate';
+import { parse, tokenParam } from '../http/validate';
 import type { Db } from '../db/knex';
-import { AcceptInvitationBody, ResetCompleteBody, ResetRequestBody, SignInBody } from './auth-schemas';
+import { AcceptInvitationBody, ChangePasswordBody, ResetCompleteBody, ResetRequestBody, SignInBody } from './auth-schemas';
 import type { InvitationsService } from './invitations-service';
 import type { PasswordResetsService } from './password-resets-service';
+import { WrongCurrentPasswordError, type PasswordChangeService } from './password-change-service';
+import { currentUser } from '../http/access';
 import { accountWaitError, type SignInGuard } from './sign-in-guard';
 import { usersRepository } from './users-repository';
 
@@ -18,6 +20,7 @@ export interface AuthRoutesDeps {
   csrf: Csrf;
   invitations: InvitationsService;
   resets: PasswordResetsService;
+  passwordChange: PasswordChangeService;
   signInLimiter: RequestHandler;
   /** Per-account limits and known browsers. */
   signInGuard: SignInGuard;
@@ -25,7 +28,7 @@ export interface AuthRoutesDeps {
   clock: () => Date;
 }
 
-/** Sign-in and out, the current user, invitation links and password resets. */
+/** Sign-in and out, the current user, changing one's password, invitation links and password resets. */
 export function authRoutes(d: AuthRoutesDeps): Router {
   const router = Router();
 
@@ -81,18 +84,50 @@ export function authRoutes(d: AuthRoutesDeps): Router {
     });
   });
 
+  // A wrong current password counts as a failed sign-in (per address and per account), so this
+  // cannot be used to guess passwords; 401 comes first, so signed-out calls count nothing.
+  const signedIn: RequestHandler = (req, _res, next) => {
+    currentUser(req);
+    next();
+  };
+  router.post('/auth/password', signedIn, d.signInLimiter, async (req, res, next) => {
+    const user = currentUser(req);
+    const body = parse(ChangePasswordBody, req.body);
+    const wait = d.signInGuard.accountWaitSeconds(user.email);
+    if (wait > 0) {
+      res.setHeader('Retry-After', String(wait));
+      throw accountWaitError(wait);
+    }
+    try {
+      await d.passwordChange.change(user.id, body.currentPassword, body.newPassword);
+    } catch (err) {
+      if (err instanceof WrongCurrentPasswordError) d.signInGuard.failedForAccount(user.email);
+      throw err;
+    }
+    d.signInGuard.clear(user.email);
+    const fresh = await usersRepository.sessionUser(d.db, user.id);
+    if (!fresh) throw new UnauthorizedError();
+    // Every session of the account was ended; this browser stays signed in under a new session id.
+    req.logIn(fresh, (err) => {
+      if (err) return next(err);
+      markSessionSeen(req, d.clock);
+      d.csrf.issue(req, res, true);
+      res.json({ user: fresh });
+    });
+  });
+
   // Signed out is an answer, not an error: the app asks this once at start-up.
   router.get('/auth/me', (req, res) => {
     res.json({ user: req.user ?? null });
   });
 
   router.get('/invitations/:token', async (req, res) => {
-    const { token } = parse(TokenParam, req.params, 'Link');
+    const token = tokenParam(req.params, 'Invitation');
     res.json(await d.invitations.preview(token));
   });
 
   router.post('/invitations/:token/accept', async (req, res, next) => {
-    const { token } = parse(TokenParam, req.params, 'Link');
+    const token = tokenParam(req.params, 'Invitation');
     const body = parse(AcceptInvitationBody, req.body);
     const userId = await d.invitations.accept(token, body.name, body.password);
     const user = await usersRepository.sessionUser(d.db, userId);
@@ -112,12 +147,12 @@ export function authRoutes(d: AuthRoutesDeps): Router {
   });
 
   router.get('/password-resets/:token', async (req, res) => {
-    const { token } = parse(TokenParam, req.params, 'Link');
+    const token = tokenParam(req.params, 'Reset link');
     res.json(await d.resets.preview(token));
   });
 
   router.post('/password-resets/:token', d.resetLimiter, async (req, res) => {
-    const { token } = parse(TokenParam, req.params, 'Link');
+    const token = tokenParam(req.params, 'Reset link');
     const { password } = parse(ResetCompleteBody, req.body);
     await d.resets.complete(token, password);
     res.status(204).end();

@@ -8,7 +8,7 @@ import { audit } from '../audit/audit-log';
 import { hashPassword } from './passwords';
 import { hashToken, newToken } from './tokens';
 import { usersRepository } from './users-repository';
-import { revokeUserSessions } from '../http/sessions';
+import { revokeUserSessions, type UserRevocations } from '../http/sessions';
 
 export interface PasswordResetsDeps {
   db: Db;
@@ -16,12 +16,14 @@ export interface PasswordResetsDeps {
   config: Config;
   clock: () => Date;
   logger: Logger;
+  /** Ends the account's open live-status streams with its sessions. */
+  revocations: UserRevocations;
   /** Told after a password was set through a reset link (ends any sign-in wait of the account). */
   onPasswordSet?: (email: string) => void;
 }
 
 /** "Forgot password": a single-use, short-lived e-mailed link to choose a new password. */
-export function passwordResetsService({ db, mailer, config, clock, logger, onPasswordSet }: PasswordResetsDeps) {
+export function passwordResetsService({ db, mailer, config, clock, logger, revocations, onPasswordSet }: PasswordResetsDeps) {
   async function usableReset(token: string): Promise<PasswordResetRow> {
     const row = await db<PasswordResetRow>('password_resets')
       .where({ token_hash: hashToken(token) })
@@ -81,7 +83,7 @@ export function passwordResetsService({ db, mailer, config, clock, logger, onPas
     },
 
     async complete(token: string, password: string): Promise<void> {
-      await usableReset(token);
+      const { user_id: userId } = await usableReset(token);
       const passwordHash = await hashPassword(password);
       const email = await db.transaction(async (trx) => {
         const row = await trx<PasswordResetRow>('password_resets')
@@ -100,6 +102,7 @@ export function passwordResetsService({ db, mailer, config, clock, logger, onPas
         if (user) await audit(trx, { clinicId: user.clinic_id, actorId: user.id, action: 'user.password_reset' }, at);
         return user?.email ?? null;
       });
+      revocations.revoke(userId);
       if (email) onPasswordSet?.(email);
     },
   };

@@ -32,6 +32,13 @@ export interface SignInGuard {
   succeeded(req: Request, res: Response, email: string): void;
   /** Clears the account's count (after a password reset). */
   clear(email: string): void;
+  /**
+   * Seconds the account must still wait, whatever the browser: for a wrong current password given
+   * by a signed-in session, which is on a known device by nature.
+   */
+  accountWaitSeconds(email: string): number;
+  /** Records a wrong current password against the account itself (never against the browser's exemption). */
+  failedForAccount(email: string): void;
 }
 
 /**
@@ -99,15 +106,22 @@ export function signInGuard(d: {
     return nonce !== null && (live(devices, nonce, d.clock().getTime())?.count ?? 0) < DEVICE_FAILURES;
   }
 
+  const accountWait = (e: string): number => {
+    const now = d.clock().getTime();
+    const f = live(accounts, e, now);
+    const left = f ? f.lastAt + waitMs(f) - now : 0;
+    return left > 0 ? Math.ceil(left / 1000) : 0;
+  };
+
   return {
     knownDevice,
     waitSeconds(req, email) {
       const e = norm(email);
-      if (knownDevice(req, e)) return 0;
-      const now = d.clock().getTime();
-      const f = live(accounts, e, now);
-      const left = f ? f.lastAt + waitMs(f) - now : 0;
-      return left > 0 ? Math.ceil(left / 1000) : 0;
+      return knownDevice(req, e) ? 0 : accountWait(e);
+    },
+    accountWaitSeconds: (email) => accountWait(norm(email)),
+    failedForAccount(email) {
+      bump(accounts, norm(email), d.clock().getTime());
     },
     failed(req, email) {
       const e = norm(email);

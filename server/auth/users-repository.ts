@@ -73,6 +73,12 @@ export const usersRepository = {
     await db('users').where({ id }).update({ password_hash: passwordHash, updated_at: at });
   },
 
+  /** Sets the password only while the stored hash is still `expected`; answers whether it did. */
+  async replacePassword(db: Knex, id: number, expected: string | null, passwordHash: string, at: string): Promise<boolean> {
+    const updated = await db('users').where({ id, password_hash: expected }).update({ password_hash: passwordHash, updated_at: at });
+    return updated > 0;
+  },
+
   async touchSignIn(db: Knex, id: number, at: string): Promise<void> {
     await db('users').where({ id }).update({ last_sign_in_at: at });
   },

@@ -41,6 +41,13 @@ export const RouteIndex = (max: number) =>
 /** Route parameter holding an e-mailed token (base64url). */
 export const TokenParam = z.object({ token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/) });
 
+/** The `:token` route parameter, or "not found" (404) when it cannot be a token (a link cut short or mistyped is an unknown link). */
+export function tokenParam(params: unknown, what: string): string {
+  const r = TokenParam.safeParse(params);
+  if (!r.success) throw new NotFoundError(what);
+  return r.data.token;
+}
+
 const PLAIN_ID = /^[1-9][0-9]{0,15}$/;
 
 /** The `:id` route parameter, or "not found" (404) when it is not a positive integer. */

@@ -31,6 +31,11 @@ export const routes: Routes = [
     children: [
       { path: '', pathMatch: 'full', redirectTo: redirectHome },
       {
+        path: 'account',
+        title: 'Account · Trailframe',
+        loadComponent: () => import('./features/auth/account-page/account-page').then((m) => m.AccountPage),
+      },
+      {
         path: 'athletes',
         canMatch: [roleGuard('owner', 'coach')],
         // An athlete's assessments, review and comparison are other features' pages under the athlete's path.

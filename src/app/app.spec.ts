@@ -90,7 +90,7 @@ describe('App', () => {
     expect(element.querySelector('.top-bar')?.textContent).toContain('Trailframe');
     expect(element.querySelector('.top-bar')?.textContent).toContain('Test Clinic');
     const nav = [...element.querySelectorAll('nav[aria-label="Main"] [matListItemTitle]')].map((a) => a.textContent?.trim());
-    expect(nav).toEqual(['Home', 'My plan', 'My invoices', 'My profile']);
+    expect(nav).toEqual(['Home', 'My plan', 'My invoices', 'My profile', 'Account']);
     expect(element.querySelector('h1')?.textContent).toContain('Welcome, Sam');
     expect(element.textContent).toContain('Your assessments');
     TestBed.inject(HttpTestingController).verify();

@@ -337,6 +337,14 @@ const ROUTES: RouteCase[] = [
     expect: all(401),
   },
   {
+    method: 'post',
+    pattern: '/api/auth/password',
+    path: () => '/api/auth/password',
+    // A wrong current password: nobody's password changes during the walk.
+    body: () => ({ currentPassword: 'not-the-password', newPassword: 'long-enough-pw' }),
+    expect: { ...all(422), anonymous: 401 },
+  },
+  {
     method: 'get',
     pattern: '/api/athletes/:id/assessments',
     path: (c) => `/api/athletes/${c.selfAthleteId}/assessments`,

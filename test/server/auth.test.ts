@@ -1,6 +1,8 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { Client, makeTestApp, type TestApp } from '../support/test-app';
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { Client, makeTestApp, signedIn, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 
 const [owner, coach] = DEMO_SIGN_INS;
@@ -186,6 +188,32 @@ describe('sign-in limits: per account as well as per address', () => {
     const token = t.mailer.lastLinkTo(coach.email).split('/').pop()!;
     expect((await new Client(t.app).post(`/api/password-resets/${token}`, { password: 'a-new-long-password' })).status).toBe(204);
     expect((await attempt('198.51.100.7', coach.email, 'a-new-long-password')).status).toBe(200);
+  });
+});
+
+describe('password reset', () => {
+  it('ends the account’s open live-status streams at once, as it ends its sessions', async () => {
+    const athlete = DEMO_SIGN_INS[3];
+    const server = http.createServer(t.app).listen(0, '127.0.0.1');
+    try {
+      const c = await signedIn(t.app, athlete.email, athlete.password);
+      const me = (await c.get('/api/auth/me')).body.user as { athleteId: number };
+      const res = await fetch(`http://127.0.0.1:${(server.address() as AddressInfo).port}/api/athletes/${me.athleteId}/processing-events`, {
+        headers: { cookie: c.cookieHeader() },
+      });
+      expect(res.status).toBe(200);
+      const body = res.text();
+      await new Client(t.app).post('/api/password-resets', { email: athlete.email });
+      const token = t.mailer.lastLinkTo(athlete.email).split('/').pop()!;
+      expect((await new Client(t.app).post(`/api/password-resets/${token}`, { password: 'a-new-long-password' })).status).toBe(204);
+      expect((await c.get('/api/auth/me')).body).toEqual({ user: null });
+      await expect(Promise.race([body.then(() => 'ended'), new Promise((r) => setTimeout(() => r('still open'), 3000))])).resolves.toBe(
+        'ended',
+      );
+    } finally {
+      server.closeAllConnections();
+      server.close();
+    }
   });
 });
 

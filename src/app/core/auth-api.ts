@@ -5,7 +5,7 @@ import type { InvitationPreview, SessionUser } from '../../contracts/api';
 import { skipErrorSnackbar } from './http-context';
 
 /**
- * HTTP calls for sessions, invitations and password resets. Every call here reports its errors
+ * HTTP calls for sessions, password changes, invitations and password resets. Every call here reports its errors
  * inline on the page that makes it, so none of them raise the global error snackbar.
  */
 @Injectable({ providedIn: 'root' })
@@ -44,6 +44,16 @@ export class AuthApi {
   acceptInvitation(token: string, body: { name: string; password: string }): Observable<SessionUser> {
     return this.http
       .post<{ user: SessionUser }>(`/api/invitations/${encodeURIComponent(token)}/accept`, body, { context: skipErrorSnackbar() })
+      .pipe(map((r) => r.user));
+  }
+
+  /**
+   * Changes the signed-in person's password; the server ends their other sessions and answers the
+   * user of this browser's new session.
+   */
+  changePassword(currentPassword: string, newPassword: string): Observable<SessionUser> {
+    return this.http
+      .post<{ user: SessionUser }>('/api/auth/password', { currentPassword, newPassword }, { context: skipErrorSnackbar() })
       .pipe(map((r) => r.user));
   }
 

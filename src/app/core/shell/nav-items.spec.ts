@@ -12,8 +12,14 @@ describe('navItemsFor', () => {
   });
 
   it('gives athletes their own pages', () => {
-    expect(navItemsFor('athlete').map((i) => i.path)).toEqual(['/portal', '/portal/plan', '/portal/invoices', '/portal/profile']);
-    expect(navItemsFor('athlete').map((i) => i.label)).toEqual(['Home', 'My plan', 'My invoices', 'My profile']);
+    expect(navItemsFor('athlete').map((i) => i.path)).toEqual([
+      '/portal',
+      '/portal/plan',
+      '/portal/invoices',
+      '/portal/profile',
+      '/account',
+    ]);
+    expect(navItemsFor('athlete').map((i) => i.label)).toEqual(['Home', 'My plan', 'My invoices', 'My profile', 'Account']);
   });
 
   it('gives signed-out visitors nothing', () => {

@@ -32,6 +32,7 @@ export function navItemsFor(role: Role | null): NavItem[] {
         { label: 'My plan', icon: 'view_timeline', path: '/portal/plan', exact: false },
         { label: 'My invoices', icon: 'receipt_long', path: '/portal/invoices', exact: false },
         { label: 'My profile', icon: 'person', path: '/portal/profile', exact: false },
+        { label: 'Account', icon: 'manage_accounts', path: '/account', exact: false },
       ];
     default:
       return [];

@@ -12,6 +12,7 @@ import { firstValueFrom } from 'rxjs';
 import { LIMITS } from '../../../../contracts/intake';
 import { errorStatus, fieldProblems } from '../../../core/api-error';
 import { AuthApi } from '../../../core/auth-api';
+import { AuthStore } from '../../../core/auth-store';
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { PublicCard } from '../../../shared/public-card/public-card';
@@ -38,6 +39,7 @@ import { tokenProblem } from '../token-problem';
 export class ResetPassword {
   private readonly api = inject(AuthApi);
   private readonly router = inject(Router);
+  private readonly auth = inject(AuthStore);
   private readonly snackBar = inject(MatSnackBar);
 
   /** Route parameter. */
@@ -64,6 +66,9 @@ export class ResetPassword {
     this.problem.set(null);
     try {
       await firstValueFrom(this.api.resetPassword(this.token(), this.form.getRawValue().password));
+      // The reset ended every session of the account, perhaps this browser's: ask who is signed in now,
+      // so the sign-in page opens with this message rather than "Your session has ended".
+      await this.auth.refresh();
       this.snackBar.open('Password changed. Sign in with your new password.', 'OK', {
         duration: 6000,
       });
