@@ -1,0 +1,129 @@
+/**
+ * The same request sent twice at once (a double click, a retry after a lost answer) and writes that
+ * race each other: a clinic gets what it asked for once, every answer is a clear 4xx or the result,
+ * and nothing is left behind. Requests are started together with `Promise.all`; where the order
+ * matters a step of one request is held (a spy on the store or the database) until the other ran.
+ */
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import path from 'node:path';
+import { makeClip, tempDir } from './media/fixtures';
+import { intakeWith } from '../support/bodies';
+import { Client, makeTestApp, signedIn, type TestApp } from '../support/test-app';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { exportPrefix } from '../../server/storage/media-keys';
+
+const [ownerCred, coachCred] = DEMO_SIGN_INS;
+
+let t: TestApp;
+let owner: Client;
+let coach: Client;
+let dir: { dir: string; cleanup: () => Promise<void> };
+let clipFile: string;
+
+async function upload(c: Client, assessmentId: number) {
+  return c.agent
+    .post(`/api/assessments/${assessmentId}/clips`)
+    .set('X-XSRF-TOKEN', await c.xsrf())
+    .attach('file', clipFile);
+}
+
+/** A new athlete of the clinic with consent to video and one visit. */
+async function athleteWithVisit(first: string): Promise<{ id: number; name: string; visitId: number }> {
+  const a = await coach.post('/api/athletes', { firstName: first, lastName: 'Racer', email: `${first.toLowerCase()}@runner.test` });
+  expect(a.status).toBe(201);
+  expect((await coach.put(`/api/athletes/${a.body.id}/intake`, intakeWith({ videoRecording: true, shareStills: true }))).status).toBe(200);
+  const v = await coach.post(`/api/athletes/${a.body.id}/assessments`, {
+    date: '2026-11-30',
+    kind: 'baseline',
+    surface: 'treadmill',
+    speed: { value: 11, unit: 'kmh' },
+    inclinePercent: 1,
+    shoes: null,
+    cameraNotes: null,
+    notes: null,
+  });
+  expect(v.status).toBe(201);
+  return { id: a.body.id, name: `${first} Racer`, visitId: v.body.id };
+}
+
+beforeAll(async () => {
+  t = await makeTestApp({}, { fakeSmtp: false });
+  owner = await signedIn(t.app, ownerCred.email, ownerCred.password);
+  coach = await signedIn(t.app, coachCred.email, coachCred.password);
+  dir = await tempDir('concurrent');
+  clipFile = await makeClip(path.join(dir.dir, 'run.mp4'), { fps: 30, width: 160, height: 90, seconds: 1 });
+}, 60_000);
+
+afterAll(async () => {
+  await t?.close();
+  await dir?.cleanup();
+});
+
+describe('athlete erasure sent more than once', () => {
+  it('five erasures of one athlete at once: one answers with the reference, the others 404, and that reference is the one kept', async () => {
+    const a = await athleteWithVisit('Quinn');
+    const answers = await Promise.all(
+      Array.from({ length: 5 }, () => owner.post(`/api/athletes/${a.id}/erasure`, { confirmName: a.name })),
+    );
+    const ok = answers.filter((r) => r.status === 200);
+    expect(ok).toHaveLength(1);
+    expect(answers.filter((r) => r.status !== 200).map((r) => r.status)).toEqual([404, 404, 404, 404]);
+    const row = await t.db('athletes').where({ id: a.id }).first();
+    expect(row.erasure_ref).toBe(ok[0]!.body.reference);
+    expect(row.last_name).toBe(ok[0]!.body.reference);
+    expect(await t.db('audit_log').where({ action: 'athlete.erased', athlete_id: a.id })).toHaveLength(1);
+  });
+});
+
+describe('a clip upload racing the erasure of its athlete', () => {
+  it('an upload that completes after the erasure listed the files: the clip goes with the athlete, rows and files', async () => {
+    const a = await athleteWithVisit('Rowan');
+    let uploaded: { status: number; body: { id?: number } } | null = null;
+    // The erasure's first pass over the files is held while the upload runs to its end.
+    const removePrefix = t.store.removePrefix.bind(t.store);
+    const spy = vi.spyOn(t.store, 'removePrefix').mockImplementation(async (prefix) => {
+      if (prefix === exportPrefix(a.id) && !uploaded) uploaded = await upload(coach, a.visitId);
+      return removePrefix(prefix);
+    });
+    try {
+      expect((await owner.post(`/api/athletes/${a.id}/erasure`, { confirmName: a.name })).status).toBe(200);
+    } finally {
+      spy.mockRestore();
+    }
+    expect(uploaded!.status).toBe(201);
+    const clipId = uploaded!.body.id!;
+    // The video is gone when the erasure answers (not only once its extraction has run: a server stop
+    // would keep it); what the extraction running meanwhile writes, it removes itself on finding the clip gone.
+    expect(await t.db('clips').where({ id: clipId })).toEqual([]);
+    expect((await t.store.list(`clips/${clipId}/`)).filter((k) => k.includes('original'))).toEqual([]);
+    await t.worker?.idle();
+    expect(await t.store.list(`clips/${clipId}/`)).toEqual([]);
+  });
+
+  it('an upload whose file was checked while the athlete was erased answers 404 and keeps nothing', async () => {
+    const a = await athleteWithVisit('Sasha');
+    const clipsBefore = (await t.db('clips').max('id as id').first())?.id ?? 0;
+    // The erasure runs to its end just before the upload's own transaction starts.
+    const transaction = t.db.transaction.bind(t.db);
+    let erased: number | null = null;
+    const spy = vi.spyOn(t.db, 'transaction').mockImplementation(((...args: Parameters<typeof t.db.transaction>) => {
+      if (erased === null && new Error().stack?.includes('acceptUpload')) {
+        return owner.post(`/api/athletes/${a.id}/erasure`, { confirmName: a.name }).then((r) => {
+          erased = r.status;
+          return transaction(...args);
+        });
+      }
+      return transaction(...args);
+    }) as typeof t.db.transaction);
+    let answer;
+    try {
+      answer = await upload(coach, a.visitId);
+    } finally {
+      spy.mockRestore();
+    }
+    expect(erased).toBe(200);
+    expect(answer.status).toBe(404);
+    expect(await t.db('clips').where('id', '>', clipsBefore).where({ athlete_id: a.id })).toEqual([]);
+    expect((await t.mediaKeys()).filter((k) => /^clips\/(\d+)\//.test(k) && Number(k.split('/')[1]) > clipsBefore)).toEqual([]);
+  });
+});
