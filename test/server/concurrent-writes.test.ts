@@ -11,6 +11,7 @@ import { intakeWith } from '../support/bodies';
 import { Client, makeTestApp, signedIn, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { exportPrefix } from '../../server/storage/media-keys';
+import { REPEATED_INVITATION_MS } from '../../server/auth/invitations-service';
 
 const [ownerCred, coachCred] = DEMO_SIGN_INS;
 
@@ -102,7 +103,7 @@ describe('a clip upload racing the erasure of its athlete', () => {
 
   it('an upload whose file was checked while the athlete was erased answers 404 and keeps nothing', async () => {
     const a = await athleteWithVisit('Sasha');
-    const clipsBefore = (await t.db('clips').max('id as id').first())?.id ?? 0;
+    const clipsBefore = Number((await t.db('clips').max('id as id').first())?.['id'] ?? 0);
     // The erasure runs to its end just before the upload's own transaction starts.
     const transaction = t.db.transaction.bind(t.db);
     let erased: number | null = null;
@@ -125,5 +126,35 @@ describe('a clip upload racing the erasure of its athlete', () => {
     expect(answer.status).toBe(404);
     expect(await t.db('clips').where('id', '>', clipsBefore).where({ athlete_id: a.id })).toEqual([]);
     expect((await t.mediaKeys()).filter((k) => /^clips\/(\d+)\//.test(k) && Number(k.split('/')[1]) > clipsBefore)).toEqual([]);
+  });
+});
+
+describe('invitations sent more than once at the same moment', () => {
+  const pending = (email: string) => t.db('invitations').where({ email }).whereNull('used_at').whereNull('revoked_at');
+  const mailsTo = (email: string) => t.mailer.sent.filter((m) => m.to === email);
+
+  it('a coach invitation sent three times at once: one invitation, one e-mail, the same answer each time', async () => {
+    const email = 'twin.coach@larchwood-clinic.test';
+    const answers = await Promise.all([1, 2, 3].map(() => owner.post('/api/staff/invitations', { email, name: 'Twin Coach' })));
+    expect(answers.map((r) => r.status)).toEqual([201, 201, 201]);
+    expect(new Set(answers.map((r) => r.body.id)).size).toBe(1);
+    expect(await pending(email)).toHaveLength(1);
+    expect(mailsTo(email)).toHaveLength(1);
+    // Its link is the one that works.
+    const token = t.mailer.lastLinkTo(email).split('/').pop()!;
+    expect((await new Client(t.app).get(`/api/invitations/${token}`)).status).toBe(200);
+  });
+
+  it("an athlete's invitation sent twice at once: one e-mail; sent again afterwards (Resend) it goes out anew", async () => {
+    const a = await athleteWithVisit('Tamsin');
+    const email = 'tamsin@runner.test';
+    const answers = await Promise.all([1, 2].map(() => coach.post(`/api/athletes/${a.id}/invitation`)));
+    expect(answers.map((r) => r.status)).toEqual([201, 201]);
+    expect(answers[0]!.body.id).toBe(answers[1]!.body.id);
+    expect(mailsTo(email)).toHaveLength(1);
+    t.advance(REPEATED_INVITATION_MS + 1_000);
+    expect((await coach.post(`/api/athletes/${a.id}/invitation`)).status).toBe(201);
+    expect(mailsTo(email)).toHaveLength(2);
+    expect(await pending(email)).toHaveLength(1);
   });
 });
