@@ -158,3 +158,30 @@ describe('invitations sent more than once at the same moment', () => {
     expect(await pending(email)).toHaveLength(1);
   });
 });
+
+describe('a visit summary asked for more than once while it renders', () => {
+  it('three identical requests at once make one summary (one PDF queued); another text makes another', async () => {
+    const a = await athleteWithVisit('Uma');
+    const clip = await upload(coach, a.visitId);
+    expect(clip.status).toBe(201);
+    await t.worker!.idle();
+    const still = await coach.post(`/api/clips/${clip.body.id}/stills`, { frameIndex: 0, caption: 'Toe-off', showAngles: false });
+    expect(still.status).toBe(202);
+    await t.worker!.idle();
+    const body = { findings: 'Hip extension low at toe-off.', planText: 'Hip flexor mobility.', stillIds: [still.body.id] };
+    const answers = await Promise.all([1, 2, 3].map(() => coach.post(`/api/assessments/${a.visitId}/summaries`, body)));
+    expect(answers.map((r) => r.status)).toEqual([202, 202, 202]);
+    expect(new Set(answers.map((r) => r.body.id)).size).toBe(1);
+    const other = await coach.post(`/api/assessments/${a.visitId}/summaries`, { ...body, planText: 'Strength first.' });
+    expect(other.status).toBe(202);
+    expect(other.body.id).not.toBe(answers[0]!.body.id);
+    await t.worker!.idle();
+    const rows = await t.db('visit_summaries').where({ assessment_id: a.visitId });
+    expect(rows.map((r) => r.status)).toEqual(['ready', 'ready']);
+    const items = await t
+      .db('processed_items')
+      .where({ subject_type: 'summary' })
+      .whereIn('subject_id', [answers[0]!.body.id, other.body.id]);
+    expect(items).toHaveLength(2);
+  });
+});
