@@ -87,7 +87,9 @@ describe('a clip upload racing the erasure of its athlete', () => {
       return removePrefix(prefix);
     });
     try {
-      expect((await owner.post(`/api/athletes/${a.id}/erasure`, { confirmName: a.name })).status).toBe(200);
+      const erased = await owner.post(`/api/athletes/${a.id}/erasure`, { confirmName: a.name });
+      console.log('ERASED', erased.status, JSON.stringify(erased.body));
+      expect(erased.status).toBe(200);
     } finally {
       spy.mockRestore();
     }
@@ -183,5 +185,76 @@ describe('a visit summary asked for more than once while it renders', () => {
       .where({ subject_type: 'summary' })
       .whereIn('subject_id', [answers[0]!.body.id, other.body.id]);
     expect(items).toHaveLength(2);
+  });
+});
+
+describe('creates and acts sent more than once at the same moment', () => {
+  it('the same new athlete sent three times at once: one is made, the others answer 409 email_in_use', async () => {
+    const body = { firstName: 'Vera', lastName: 'Twice', email: 'vera.twice@runner.test' };
+    const answers = await Promise.all([1, 2, 3].map(() => owner.post('/api/athletes', body)));
+    expect(answers.map((r) => r.status).sort()).toEqual([201, 409, 409]);
+    expect(answers.filter((r) => r.status === 409).map((r) => r.body.error.code)).toEqual(['email_in_use', 'email_in_use']);
+    expect(await t.db('athletes').where({ email: body.email })).toHaveLength(1);
+  });
+
+  it('a data export asked for three times at once: one is built, the others answer 409 export_running', async () => {
+    const a = await athleteWithVisit('Wren');
+    const answers = await Promise.all([1, 2, 3].map(() => owner.post(`/api/athletes/${a.id}/data-exports`)));
+    expect(answers.map((r) => r.status).sort()).toEqual([202, 409, 409]);
+    expect(await t.db('data_exports').where({ athlete_id: a.id })).toHaveLength(1);
+    await t.worker!.idle();
+  });
+
+  it('a still published three times at once: published once, one audit entry, one e-mail to the athlete', async () => {
+    const a = await athleteWithVisit('Xena');
+    const invite = await coach.post(`/api/athletes/${a.id}/invitation`);
+    expect(invite.status).toBe(201);
+    const accepted = await new Client(t.app).post(`/api/invitations/${t.mailer.lastLinkTo('xena@runner.test').split('/').pop()}/accept`, {
+      name: 'Xena Racer',
+      password: 'a-long-password',
+    });
+    expect(accepted.status).toBe(201);
+    const clip = await upload(coach, a.visitId);
+    await t.worker!.idle();
+    const still = await coach.post(`/api/clips/${clip.body.id}/stills`, { frameIndex: 0, caption: '', showAngles: false });
+    await t.worker!.idle();
+    const mailsBefore = t.mailer.sent.filter((m) => m.to === 'xena@runner.test').length;
+    const answers = await Promise.all([1, 2, 3].map(() => coach.post(`/api/stills/${still.body.id}/publish`)));
+    expect(answers.map((r) => r.status)).toEqual([200, 200, 200]);
+    expect(new Set(answers.map((r) => r.body.publishedAt)).size).toBe(1);
+    expect(t.mailer.sent.filter((m) => m.to === 'xena@runner.test').length - mailsBefore).toBe(1);
+    expect(await t.db('audit_log').where({ action: 'still.published', athlete_id: a.id })).toHaveLength(1);
+  });
+});
+
+// Last: it deactivates the demo's coaches.
+describe('deactivations sent more than once, or racing each other', () => {
+  const staffId = async (email: string) => (await t.db('users').where({ email }).first()).id as number;
+
+  it('a coach deactivated three times at once: one answer 200, the others 409 already_deactivated, one audit entry', async () => {
+    const ilse = await staffId(DEMO_SIGN_INS[2].email);
+    const answers = await Promise.all([1, 2, 3].map(() => owner.post(`/api/staff/${ilse}/deactivate`, {})));
+    expect(answers.map((r) => r.status).sort()).toEqual([200, 409, 409]);
+    expect(await t.db('audit_log').where({ action: 'staff.deactivated' }).whereLike('detail', `%"userId":${ilse}%`)).toHaveLength(1);
+    const again = await Promise.all([1, 2, 3].map(() => owner.post(`/api/staff/${ilse}/reactivate`)));
+    expect(again.map((r) => r.status).sort()).toEqual([200, 409, 409]);
+  });
+
+  it('a coach deactivated with their athletes going to a coach deactivated at the same moment: no athlete is left with a deactivated coach', async () => {
+    const [tobin, ilse] = [await staffId(DEMO_SIGN_INS[1].email), await staffId(DEMO_SIGN_INS[2].email)];
+    expect((await t.db('athletes').where({ coach_id: tobin })).length).toBeGreaterThan(0);
+    const [ofIlse, ofTobin] = await Promise.all([
+      owner.post(`/api/staff/${ilse}/deactivate`, {}),
+      owner.post(`/api/staff/${tobin}/deactivate`, { reassignTo: ilse }),
+    ]);
+    expect(ofIlse.status).toBe(200);
+    // Tobin's athletes went to Ilse before she left (and on with hers to the owner), or his deactivation is refused.
+    expect([200, 422]).toContain(ofTobin.status);
+    const stranded = await t
+      .db('athletes')
+      .join('users', 'users.id', 'athletes.coach_id')
+      .where('users.active', false)
+      .select('athletes.id');
+    expect(stranded).toEqual([]);
   });
 });
