@@ -227,6 +227,48 @@ describe('creates and acts sent more than once at the same moment', () => {
   });
 });
 
+describe('a new invoice sent again after its answer was lost (Idempotency-Key)', () => {
+  const invoiceBody = (athleteId: number) => ({
+    athleteId,
+    assessmentId: null,
+    dueDate: '2026-12-31',
+    note: null,
+    lines: [{ priceId: null, description: 'Gait assessment', quantity: 1, unitAmountMinor: 9000, taxRateBp: null }],
+  });
+  const withKey = async (key: string, body: unknown) =>
+    owner.agent
+      .post('/api/invoices')
+      .set('X-XSRF-TOKEN', await owner.xsrf())
+      .set('Idempotency-Key', key)
+      .send(body as object);
+
+  it('the same key again, and three times at once, answers the one draft it made; no key makes a draft each time', async () => {
+    const a = await athleteWithVisit('Yara');
+    const first = await withKey('key-yara-0001', invoiceBody(a.id));
+    expect(first.status).toBe(201);
+    const retry = await withKey('key-yara-0001', invoiceBody(a.id));
+    expect(retry.status).toBe(201);
+    expect(retry.body.id).toBe(first.body.id);
+    const together = await Promise.all([1, 2, 3].map(() => withKey('key-yara-0002', invoiceBody(a.id))));
+    expect(together.map((r) => r.status)).toEqual([201, 201, 201]);
+    expect(new Set(together.map((r) => r.body.id)).size).toBe(1);
+    expect(await t.db('invoices').where({ athlete_id: a.id })).toHaveLength(2);
+    // Without a key (an older client) nothing changes: each request is a draft.
+    await owner.post('/api/invoices', invoiceBody(a.id));
+    expect(await t.db('invoices').where({ athlete_id: a.id })).toHaveLength(3);
+  });
+
+  it("a key used for another athlete's invoice answers 422 idempotency_key_reused; a malformed key 422", async () => {
+    const [a, b] = [await athleteWithVisit('Zora'), await athleteWithVisit('Zeno')];
+    expect((await withKey('key-zora-0001', invoiceBody(a.id))).status).toBe(201);
+    const reused = await withKey('key-zora-0001', invoiceBody(b.id));
+    expect(reused.status).toBe(422);
+    expect(reused.body.error.code).toBe('idempotency_key_reused');
+    expect((await withKey('bad key!', invoiceBody(a.id))).status).toBe(422);
+    expect(await t.db('invoices').where({ athlete_id: b.id })).toEqual([]);
+  });
+});
+
 // Last: it deactivates the demo's coaches.
 describe('deactivations sent more than once, or racing each other', () => {
   const staffId = async (email: string) => (await t.db('users').where({ email }).first()).id as number;
