@@ -7,7 +7,7 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import path from 'node:path';
 import { makeClip, tempDir } from './media/fixtures';
-import { intakeWith } from '../support/bodies';
+import { baselineVisit, intakeWith } from '../support/bodies';
 import { Client, makeTestApp, signedIn, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { exportPrefix } from '../../server/storage/media-keys';
@@ -33,16 +33,7 @@ async function athleteWithVisit(first: string): Promise<{ id: number; name: stri
   const a = await coach.post('/api/athletes', { firstName: first, lastName: 'Racer', email: `${first.toLowerCase()}@runner.test` });
   expect(a.status).toBe(201);
   expect((await coach.put(`/api/athletes/${a.body.id}/intake`, intakeWith({ videoRecording: true, shareStills: true }))).status).toBe(200);
-  const v = await coach.post(`/api/athletes/${a.body.id}/assessments`, {
-    date: '2026-11-30',
-    kind: 'baseline',
-    surface: 'treadmill',
-    speed: { value: 11, unit: 'kmh' },
-    inclinePercent: 1,
-    shoes: null,
-    cameraNotes: null,
-    notes: null,
-  });
+  const v = await coach.post(`/api/athletes/${a.body.id}/assessments`, baselineVisit());
   expect(v.status).toBe(201);
   return { id: a.body.id, name: `${first} Racer`, visitId: v.body.id };
 }
