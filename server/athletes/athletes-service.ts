@@ -1,6 +1,7 @@
 import type { AthleteDetail, AthleteSummary, PendingInvitation, SessionUser } from '../../src/contracts/api';
 import { toKilometres } from '../../src/contracts/intake';
 import type { Db } from '../db/knex';
+import { lockedForUpdate } from '../db/dialect';
 import type { AthleteRow } from '../db/rows';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import { unpublishAll } from '../sharing/consent-withdrawal';
@@ -43,9 +44,14 @@ export function athletesService({ db, clock, invitations, notices }: AthletesDep
       ]);
   }
 
-  async function checkEmailFree(clinicId: number, email: string | null | undefined, exceptId?: number): Promise<void> {
+  /**
+   * Inside the transaction that writes the address: the clinic's row is held first (PostgreSQL;
+   * SQLite has one writer), so two athletes sent at the same moment with one address cannot both pass.
+   */
+  async function checkEmailFree(trx: Db, clinicId: number, email: string | null | undefined, exceptId?: number): Promise<void> {
     if (!email) return;
-    const other = await repo.findByEmail(db, clinicId, email);
+    await lockedForUpdate(trx, trx('clinics').where({ id: clinicId }).select('id'));
+    const other = await repo.findByEmail(trx, clinicId, email);
     if (other && other.id !== exceptId) {
       throw new ConflictError('Another athlete in this clinic already uses this e-mail address.', 'email_in_use');
     }
@@ -63,9 +69,9 @@ export function athletesService({ db, clock, invitations, notices }: AthletesDep
 
     async create(user: SessionUser, input: AthleteCreateInput): Promise<AthleteDetail> {
       await checkCoach(user.clinicId, input.coachId);
-      await checkEmailFree(user.clinicId, input.email);
       const at = now();
       const id = await db.transaction(async (trx) => {
+        await checkEmailFree(trx, user.clinicId, input.email);
         const newId = await repo.insert(trx, {
           clinic_id: user.clinicId,
           user_id: null,
@@ -99,7 +105,6 @@ export function athletesService({ db, clock, invitations, notices }: AthletesDep
         throw new ConflictError('This athlete signs in with their e-mail address; it cannot be changed here.', 'email_locked');
       }
       await checkCoach(user.clinicId, input.coachId);
-      await checkEmailFree(user.clinicId, input.email, id);
       const patch: Partial<AthleteRow> = { updated_at: now() };
       if (input.firstName !== undefined) patch.first_name = input.firstName;
       if (input.lastName !== undefined) patch.last_name = input.lastName;
@@ -108,6 +113,7 @@ export function athletesService({ db, clock, invitations, notices }: AthletesDep
       if (input.coachId !== undefined) patch.coach_id = input.coachId;
       if (input.notes !== undefined) patch.notes = input.notes;
       await db.transaction(async (trx) => {
+        await checkEmailFree(trx, user.clinicId, input.email, id);
         await repo.update(trx, user.clinicId, id, patch);
         await audit(trx, {
           clinicId: user.clinicId,

@@ -1,6 +1,7 @@
 import type { InvitationPreview, PendingInvitation, Role } from '../../src/contracts/api';
 import type { Config } from '../config';
 import type { Db } from '../db/knex';
+import { lockedForUpdate } from '../db/dialect';
 import type { InvitationRow } from '../db/rows';
 import { ConflictError, GoneError, NotFoundError, AppError } from '../errors';
 import type { Mailer, MailMessage } from '../mail/mailer';
@@ -17,6 +18,12 @@ export interface InviteInput {
   athleteId: number | null;
   invitedBy: number;
 }
+
+/**
+ * The same invitation (address, name, role, athlete) asked for again within this time answers the
+ * one just made and sends no second e-mail: a double click or a retry, not a Resend.
+ */
+export const REPEATED_INVITATION_MS = 10_000;
 
 export interface InvitationsDeps {
   db: Db;
@@ -44,19 +51,32 @@ export function invitationsService({ db, mailer, config, clock }: InvitationsDep
      * Creates an invitation (replacing any pending one for the same e-mail) and e-mails the link.
      * An address with an account in ANOTHER clinic is answered exactly as a new one (so no owner
      * learns that it is registered somewhere); its owner gets a notice instead of a link, and the
-     * invitation's token is never sent anywhere, so it can only expire or be revoked.
+     * invitation's token is never sent anywhere, so it can only expire or be revoked. The same
+     * invitation asked for again within {@link REPEATED_INVITATION_MS} (a double click, a retry)
+     * answers the pending one and sends nothing.
      */
     async invite(input: InviteInput): Promise<PendingInvitation> {
       const now = clock();
       const { token, hash } = newToken();
       const expiresAt = new Date(now.getTime() + config.invitationTtlHours * 3_600_000).toISOString();
       let elsewhere = false;
+      let repeated: InvitationRow | undefined;
       const id = await db.transaction(async (trx) => {
+        // One invitation of a clinic at a time (PostgreSQL; SQLite has one writer): the next one sees
+        // the pending invitation this one made.
+        await lockedForUpdate(trx, trx('clinics').where({ id: input.clinicId }).select('id'));
         const existing = await usersRepository.findByEmail(trx, input.email);
         if (existing && existing.clinic_id === input.clinicId) {
           throw new ConflictError('Someone in your clinic already has an account with this e-mail address.', 'email_in_use');
         }
         elsewhere = Boolean(existing);
+        repeated = await trx<InvitationRow>('invitations')
+          .where({ clinic_id: input.clinicId, email: input.email, name: input.name, role: input.role, athlete_id: input.athleteId })
+          .whereNull('used_at')
+          .whereNull('revoked_at')
+          .where('created_at', '>', new Date(now.getTime() - REPEATED_INVITATION_MS).toISOString())
+          .first();
+        if (repeated) return repeated.id;
         await trx('invitations')
           .where({ clinic_id: input.clinicId, email: input.email })
           .whereNull('used_at')
@@ -85,6 +105,7 @@ export function invitationsService({ db, mailer, config, clock }: InvitationsDep
         });
         return newId;
       });
+      if (repeated) return pendingInvitation(repeated);
       const clinic = await db('clinics').where({ id: input.clinicId }).first<{ name: string }>('name');
       try {
         await mailer.send(
@@ -178,15 +199,7 @@ export function invitationsService({ db, mailer, config, clock }: InvitationsDep
         .whereNull('revoked_at')
         .where('expires_at', '>', clock().toISOString())
         .orderBy('created_at', 'desc');
-      return rows.map((r) => ({
-        id: r.id,
-        email: r.email,
-        name: r.name,
-        role: r.role,
-        athleteId: r.athlete_id,
-        expiresAt: r.expires_at,
-        createdAt: r.created_at,
-      }));
+      return rows.map(pendingInvitation);
     },
 
     async revoke(clinicId: number, id: number, actorId: number): Promise<void> {
@@ -198,6 +211,18 @@ export function invitationsService({ db, mailer, config, clock }: InvitationsDep
       if (!n) throw new NotFoundError('Invitation');
       await audit(db, { clinicId, actorId, action: 'invitation.revoked', detail: { invitationId: id } });
     },
+  };
+}
+
+function pendingInvitation(r: InvitationRow): PendingInvitation {
+  return {
+    id: r.id,
+    email: r.email,
+    name: r.name,
+    role: r.role,
+    athleteId: r.athlete_id,
+    expiresAt: r.expires_at,
+    createdAt: r.created_at,
   };
 }
 

@@ -3,6 +3,7 @@ import { currentUser } from '../http/access';
 import { permit } from '../policy/enforce';
 import { idParam as id, parse } from '../http/validate';
 import {
+  IdempotencyKey,
   InvoiceBody,
   InvoiceQueryParams,
   ManualPaymentBody,
@@ -62,7 +63,8 @@ export function billingRoutes(billing: BillingService): Router {
     res.json(await billing.list(currentUser(req), q));
   });
   router.post('/invoices', permit('invoice:create'), async (req, res) => {
-    res.status(201).json(await billing.create(currentUser(req), parse(InvoiceBody, req.body)));
+    const key = parse(IdempotencyKey, req.get('idempotency-key'), 'Header');
+    res.status(201).json(await billing.create(currentUser(req), parse(InvoiceBody, req.body), key));
   });
   router.get('/invoices/:id', permit('invoice:read'), async (req, res) => {
     res.json(await billing.get(currentUser(req), id(req.params, 'Invoice')));

@@ -16,6 +16,8 @@ import type {
 export interface InvoiceRow {
   id: number;
   clinic_id: number;
+  /** The `Idempotency-Key` the invoice was made with (unique per clinic), or null. */
+  create_key?: string | null;
   athlete_id: number;
   assessment_id: number | null;
   number: string | null;

@@ -1,6 +1,7 @@
 import type { SessionUser } from '../../src/contracts/api';
 import { invoiceTotals, type InvoiceDetail, type InvoiceList, type InvoiceQuery, type InvoiceWrite } from '../../src/contracts/billing';
-import { ConflictError } from '../errors';
+import { lockedForUpdate } from '../db/dialect';
+import { AppError, ConflictError } from '../errors';
 import { assertRole } from '../policy/enforce';
 import type { BillingContext } from './billing-context';
 import type { BillingMail } from './billing-mail';
@@ -14,7 +15,12 @@ export interface InvoicesService {
   list(user: SessionUser, query: InvoiceQuery): Promise<InvoiceList>;
   get(user: SessionUser, id: number): Promise<InvoiceDetail>;
   /** A draft invoice; amounts, tax (half-up per line) and totals are computed here. */
-  create(user: SessionUser, w: InvoiceWrite): Promise<InvoiceDetail>;
+  /**
+   * A new draft. With `key` (the client's `Idempotency-Key`), the same key again answers the draft
+   * it made (a retry after a lost answer makes no second invoice); 422 `idempotency_key_reused`
+   * when that draft is for another athlete.
+   */
+  create(user: SessionUser, w: InvoiceWrite, key?: string): Promise<InvoiceDetail>;
   /**
    * Replaces a draft's athlete, assessment, due date, note and lines (validated as on create);
    * amounts and totals are computed again here. 409 `invoice_not_draft` once it was issued or cancelled.
@@ -55,10 +61,19 @@ export function invoicesService(ctx: BillingContext, mail: BillingMail): Invoice
 
     get: (user, id) => ctx.reload(user, id, 'invoice:read'),
 
-    async create(user, w) {
+    async create(user, w, key) {
       assertRole(user, 'invoice:create');
       const at = ctx.now();
       const id = await db.transaction(async (trx) => {
+        if (key) {
+          // One create with a key at a time per clinic (PostgreSQL; SQLite has one writer): a retry
+          // sent while the first is still saving finds its draft.
+          await lockedForUpdate(trx, trx('clinics').where({ id: user.clinicId }).select('id'));
+          const made = await trx<InvoiceRow>('invoices').where({ clinic_id: user.clinicId, create_key: key }).first('id', 'athlete_id');
+          if (made && made.athlete_id !== w.athleteId)
+            throw new AppError(422, 'idempotency_key_reused', 'This key was used for another invoice. Reload the page and save again.');
+          if (made) return made.id;
+        }
         await checkReferences(trx, user.clinicId, w, new Set());
         const { currency } = await trx('clinics').where({ id: user.clinicId }).first('currency');
         const totals = invoiceTotals(w.lines);
@@ -92,6 +107,7 @@ export function invoicesService(ctx: BillingContext, mail: BillingMail): Invoice
             payment_note: null,
             refund_note: null,
             payment_recorded_by: null,
+            create_key: key ?? null,
           },
           lineRows(w),
         );

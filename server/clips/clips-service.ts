@@ -1,6 +1,7 @@
 import type { Logger } from 'pino';
 import type { Clip, SessionUser } from '../../src/contracts/api';
 import type { Db } from '../db/knex';
+import { lockedForUpdate } from '../db/dialect';
 import { ConflictError, NotFoundError } from '../errors';
 import { audit } from '../audit/audit-log';
 import { cleanFileName } from '../http/file-names';
@@ -152,6 +153,14 @@ export function clipsService(d: ClipsDeps): ClipsService {
         let clipId = 0;
         try {
           await db.transaction(async (trx) => {
+            // The athlete may have been erased (or the visit deleted) while the file was checked: then
+            // nothing is kept (404). Holding the athlete's row, an erasure sent meanwhile waits for this
+            // clip and erases it with the rest.
+            const athlete = await lockedForUpdate(
+              trx,
+              trx('athletes').where({ id: assessment.athlete_id, clinic_id: user.clinicId }).whereNull('erased_at').select('id'),
+            ).first();
+            if (!athlete || !(await trx('assessments').where({ id: assessment.id }).first('id'))) throw new NotFoundError('Assessment');
             clipId = await repo.insert(trx, {
               clinic_id: user.clinicId,
               athlete_id: assessment.athlete_id,

@@ -6,7 +6,7 @@ import { audit } from '../audit/audit-log';
 import type { ClipsService } from '../clips/clips-service';
 import type { Db } from '../db/knex';
 import type { AthleteRow } from '../db/rows';
-import { ValidationError } from '../errors';
+import { NotFoundError, ValidationError } from '../errors';
 import { revokeUserSessions, type UserRevocations } from '../http/sessions';
 import { accessibleAthlete } from '../policy/athlete-resources';
 import type { Processing } from '../processing/processing';
@@ -107,8 +107,8 @@ export function athleteDataService(d: {
           { path: ['confirmName'], message: `Type “${fullName}” to confirm.` },
         ]);
       await cancelWork(athleteId);
-      const clipIds = (await db('clips').where({ athlete_id: athleteId }).pluck('id')) as number[];
-      const assessmentIds = (await db('assessments').where({ athlete_id: athleteId }).pluck('id')) as number[];
+      const clipIds = new Set((await db('clips').where({ athlete_id: athleteId }).pluck('id')) as number[]);
+      const assessmentIds = new Set((await db('assessments').where({ athlete_id: athleteId }).pluck('id')) as number[]);
       const reference = await uniqueReference(user.clinicId);
       const at = clock().toISOString();
       let keptInvoices = 0;
@@ -117,10 +117,22 @@ export function athleteDataService(d: {
         for (const id of clipIds) await store.removePrefix(clipKeys(id).prefix);
         for (const id of assessmentIds) await store.removePrefix(assessmentPrefix(id));
         await store.removePrefix(exportPrefix(athleteId));
-        await d.partialUploads?.removeForAssessments(assessmentIds);
+        await d.partialUploads?.removeForAssessments([...assessmentIds]);
       };
       await removeFiles();
       await db.transaction(async (trx) => {
+        // Claimed first: a second erasure sent at the same moment (a double click, a retry) finds the
+        // athlete erased and answers 404, so the reference the owner was given is the one kept. On
+        // PostgreSQL it waits here for the first one's commit; a clip upload holding the row first
+        // (see clips-service) commits its clip before this one reads the athlete's rows below.
+        const claimed = await trx('athletes')
+          .where({ id: athleteId, clinic_id: user.clinicId })
+          .whereNull('erased_at')
+          .update({ erased_at: at });
+        if (!claimed) throw new NotFoundError('Athlete');
+        // Clips and visits added since the list above (an upload that finished meanwhile): their files go too.
+        for (const id of (await trx('clips').where({ athlete_id: athleteId }).pluck('id')) as number[]) clipIds.add(id);
+        for (const id of (await trx('assessments').where({ athlete_id: athleteId }).pluck('id')) as number[]) assessmentIds.add(id);
         if (a.user_id !== null) await revokeUserSessions(trx, a.user_id);
         // Children before parents: the list names parents first.
         for (const name of [...ATHLETE_TABLE_NAMES].reverse()) {

@@ -2,6 +2,7 @@ import type { SessionUser } from '../../src/contracts/api';
 import type { DataExport } from '../../src/contracts/privacy';
 import { audit } from '../audit/audit-log';
 import type { Db } from '../db/knex';
+import { lockedForUpdate } from '../db/dialect';
 import { ConflictError, GoneError, NotFoundError } from '../errors';
 import { accessibleAthlete, assertAthleteResource } from '../policy/athlete-resources';
 import type { Processing } from '../processing/processing';
@@ -84,6 +85,8 @@ export function dataExportsService(d: {
       await accessibleAthlete(db, user, athleteId, 'data-export:create');
       const at = clock().toISOString();
       const id = await db.transaction(async (trx) => {
+        // One start at a time per athlete (PostgreSQL; SQLite has one writer): the second of two sent together sees the first building.
+        await lockedForUpdate(trx, trx('athletes').where({ id: athleteId }).select('id'));
         const running = await trx('data_exports').where({ athlete_id: athleteId, status: 'building' }).first('id');
         if (running) throw new ConflictError('An export of this athlete’s data is being built; wait for it to finish.', 'export_running');
         const [r] = await trx('data_exports')

@@ -80,12 +80,16 @@ export async function setPublication(
   if (publish && row.published_at) return;
   if (publish) await assertShareConsent(d.db, row.athlete_id);
   const at = d.clock().toISOString();
-  await d
+  // Only a change counts: of two publishes sent at the same moment (a double click, a retry) one
+  // changes the row, and only that one is audited and e-mails the athlete.
+  const changed = await d
     .db(table)
     .where({ id: row.id })
+    .where((q) => (publish ? q.whereNull('published_at') : q.whereNotNull('published_at')))
     .update(
       publish ? { published_at: at, published_by: user.id, updated_at: at } : { published_at: null, published_by: null, updated_at: at },
     );
+  if (!changed) return;
   await audit(d.db, {
     clinicId: user.clinicId,
     actorId: user.id,

@@ -1,5 +1,6 @@
 import type { SessionUser, StaffMember } from '../../src/contracts/api';
 import type { Db } from '../db/knex';
+import { lockedForUpdate } from '../db/dialect';
 import type { UserRow } from '../db/rows';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import { audit } from '../audit/audit-log';
@@ -32,6 +33,15 @@ export function staffService({ db, clock, revocations }: StaffServiceDeps): Staf
     return row;
   }
 
+  /**
+   * Holds the rows of the people a change is about, in id order, until the transaction ends
+   * (PostgreSQL; SQLite has one writer): a second deactivation sent at once waits and then finds it
+   * done, and a coach being deactivated cannot receive another's athletes meanwhile.
+   */
+  async function holdUsers(trx: Db, clinicId: number, ids: number[]): Promise<void> {
+    await lockedForUpdate(trx, trx('users').where({ clinic_id: clinicId }).whereIn('id', ids).orderBy('id').select('id'));
+  }
+
   async function member(clinicId: number, id: number): Promise<StaffMember> {
     const [m] = await usersRepository.listStaff(db, clinicId, id);
     if (!m) throw new NotFoundError('Staff member');
@@ -43,6 +53,7 @@ export function staffService({ db, clock, revocations }: StaffServiceDeps): Staf
       const at = clock().toISOString();
       const to = reassignTo ?? user.id;
       await db.transaction(async (trx) => {
+        await holdUsers(trx, user.clinicId, [id, to]);
         const target = await staffMember(trx, user.clinicId, id);
         if (target.id === user.id) throw new ConflictError('You cannot deactivate your own account.', 'cannot_deactivate_self');
         if (target.role === 'owner') throw new ConflictError("An owner's account cannot be deactivated here.", 'cannot_deactivate_owner');
@@ -83,6 +94,7 @@ export function staffService({ db, clock, revocations }: StaffServiceDeps): Staf
     async reactivate(user, id) {
       const at = clock().toISOString();
       await db.transaction(async (trx) => {
+        await holdUsers(trx, user.clinicId, [id]);
         const target = await staffMember(trx, user.clinicId, id);
         if (target.active) throw new ConflictError(`${target.name} is active already.`, 'already_active');
         await trx('users').where({ id: target.id }).update({ active: true, deactivated_at: null, updated_at: at });

@@ -109,7 +109,9 @@ export function localMediaStore(root: string): MediaStore {
     },
 
     async removePrefix(prefix) {
-      await fs.promises.rm(folderOf(prefix), { recursive: true, force: true });
+      // Work still running may write into the folder while it goes (frames of a clip being erased or
+      // deleted): Node then meets ENOTEMPTY and tries again, as it does for EBUSY.
+      await fs.promises.rm(folderOf(prefix), { recursive: true, force: true, maxRetries: 10, retryDelay: 50 });
     },
 
     async withLocalFile(key, fn) {

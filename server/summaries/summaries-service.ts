@@ -3,6 +3,7 @@ import type { SessionUser } from '../../src/contracts/api';
 import { ASSESSMENT_KIND_LABELS } from '../../src/contracts/assessment';
 import type { VisitSummary, VisitSummaryCreate } from '../../src/contracts/sharing';
 import type { Db } from '../db/knex';
+import { lockedForUpdate } from '../db/dialect';
 import { AppError, ConflictError, NotFoundError } from '../errors';
 import { audit } from '../audit/audit-log';
 import type { Action } from '../policy/access-table';
@@ -106,16 +107,31 @@ export function summariesService(d: SummariesDeps): SummariesService {
         : `Visit summary: ${visitLabel(assessment)}`;
       const at = now();
       let id = 0;
+      let made = false;
+      const content = {
+        assessment_id: assessment.id,
+        baseline_assessment_id: baseline?.id ?? null,
+        findings: body.findings.trim(),
+        plan_text: body.planText.trim(),
+        still_ids: JSON.stringify(body.stillIds),
+      };
       await db.transaction(async (trx) => {
+        // The same summary asked for again while it renders (a double click, a retry) is that one,
+        // not a second PDF: one request at a time per visit (PostgreSQL; SQLite has one writer).
+        await lockedForUpdate(trx, trx('assessments').where({ id: assessment.id }).select('id'));
+        const rendering = await trx<SummaryRow>('visit_summaries')
+          .where({ ...content, clinic_id: user.clinicId, status: 'rendering' })
+          .first('id');
+        if (rendering) {
+          id = rendering.id;
+          return;
+        }
+        made = true;
         id = await repo.insert(trx, {
           clinic_id: user.clinicId,
           athlete_id: assessment.athlete_id,
-          assessment_id: assessment.id,
-          baseline_assessment_id: baseline?.id ?? null,
           title,
-          findings: body.findings.trim(),
-          plan_text: body.planText.trim(),
-          still_ids: JSON.stringify(body.stillIds),
+          ...content,
           status: 'rendering',
           error: null,
           page_count: null,
@@ -127,13 +143,14 @@ export function summariesService(d: SummariesDeps): SummariesService {
         });
         await processing.enqueue(trx, RENDER_SUMMARY, id, { clinicId: user.clinicId, athleteId: assessment.athlete_id });
       });
-      await audit(db, {
-        clinicId: user.clinicId,
-        actorId: user.id,
-        athleteId: assessment.athlete_id,
-        action: 'summary.created',
-        detail: { summaryId: id, assessmentId },
-      });
+      if (made)
+        await audit(db, {
+          clinicId: user.clinicId,
+          actorId: user.id,
+          athleteId: assessment.athlete_id,
+          action: 'summary.created',
+          detail: { summaryId: id, assessmentId },
+        });
       return view(id);
     },
 

@@ -60,8 +60,10 @@ export class BillingApi {
     return this.http.get<InvoiceDetail>(`/api/invoices/${id}`, { context: skipErrorSnackbar() });
   }
 
-  createInvoice(body: InvoiceWrite): Observable<InvoiceDetail> {
-    return this.http.post<InvoiceDetail>('/api/invoices', body, { context: skipErrorSnackbar(422) });
+  /** A new draft; `key` (one per form) makes a resend after a lost answer find the draft already made. */
+  createInvoice(body: InvoiceWrite, key?: string): Observable<InvoiceDetail> {
+    const headers: Record<string, string> = key ? { 'Idempotency-Key': key } : {};
+    return this.http.post<InvoiceDetail>('/api/invoices', body, { context: skipErrorSnackbar(422), headers });
   }
 
   /** Replaces a draft (409 once it was issued or cancelled; 422 shown inline by the form). */

@@ -4,6 +4,7 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideFakeEventSource } from '../../core/fake-event-source';
 import { DataExportCard } from './data-export-card';
 import { flushApiError } from '../testing/api-errors';
+import type { DataExport } from '../../../contracts/privacy';
 
 describe('DataExportCard', () => {
   let fixture: ComponentFixture<DataExportCard>;
@@ -51,5 +52,32 @@ describe('DataExportCard', () => {
     await settle();
     expect(element.querySelector('[role="alert"]')).toBeNull();
     expect(element.textContent).toContain('No export prepared yet.');
+  });
+
+  it('starts one export when the button is clicked twice before the answer', async () => {
+    open();
+    backend.expectOne('/api/athletes/4/data-exports').flush({ exports: [] });
+    await settle();
+    const button = [...element.querySelectorAll('button')].find((b) => b.textContent?.includes('Prepare'))!;
+    // Both before the page draws the button disabled.
+    button.click();
+    button.click();
+    const reqs = backend.match((r) => r.method === 'POST' && r.url === '/api/athletes/4/data-exports');
+    expect(reqs).toHaveLength(1);
+    const building: DataExport = {
+      id: 1,
+      athleteId: 4,
+      status: 'building',
+      progress: 0,
+      error: null,
+      sizeBytes: null,
+      fileCount: null,
+      createdAt: '2026-12-01T10:00:00Z',
+      readyAt: null,
+      expiresAt: null,
+      downloadUrl: null,
+    };
+    reqs[0]!.flush(building);
+    await settle();
   });
 });

@@ -128,6 +128,8 @@ export class DataExportCard {
   }
 
   protected start(): void {
+    // A second click or Enter before the button shows disabled sends nothing (the server would refuse it: export_running).
+    if (this.starting() || this.building()) return;
     this.starting.set(true);
     this.problem.set(null);
     this.api

@@ -79,7 +79,8 @@ export class EraseAthleteDialog {
   protected readonly problem = signal<string | null>(null);
 
   protected erase(): void {
-    if (!this.typed.trim()) return;
+    // Enter twice, or a double click, before the button shows disabled: one request.
+    if (this.busy() || !this.typed.trim()) return;
     this.busy.set(true);
     this.problem.set(null);
     this.api.erase(this.data.athleteId, this.typed).subscribe({

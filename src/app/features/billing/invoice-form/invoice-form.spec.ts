@@ -114,6 +114,27 @@ describe('InvoiceForm', () => {
     // Saved: opening the invoice does not ask.
     expect(fixture.componentInstance.leaveWarning()).toBeNull();
   });
+
+  it('saving again after the answer was lost sends the same Idempotency-Key (the server answers the draft it made); one request per click', async () => {
+    vi.spyOn(TestBed.inject(Router), 'navigate').mockResolvedValue(true);
+    form.form.controls.athleteId.setValue(4);
+    await settle();
+    backend.expectOne('/api/athletes/4/assessments').flush({ assessments: [] });
+    form.pickPrice(0, 1);
+    await settle();
+    void form.save();
+    void form.save();
+    const first = backend.expectOne('/api/invoices');
+    const key = first.request.headers.get('Idempotency-Key');
+    expect(key).toMatch(/^[A-Za-z0-9_-]{8,64}$/);
+    first.error(new ProgressEvent('error'), { status: 0, statusText: 'Unknown Error' });
+    await settle();
+    void form.save();
+    const again = backend.expectOne('/api/invoices');
+    expect(again.request.headers.get('Idempotency-Key')).toBe(key);
+    again.flush({ id: 31 });
+    await settle();
+  });
 });
 
 describe('InvoiceForm reached by address', () => {

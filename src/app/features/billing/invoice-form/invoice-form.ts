@@ -27,6 +27,7 @@ import { AssessmentsApi } from '../../../core/data/assessments-api';
 import { AthletesApi } from '../../../core/data/athletes-api';
 import { BillingApi } from '../../../core/data/billing-api';
 import { money } from '../../../shared/billing-words';
+import { newLogKey } from '../../../shared/plan-words';
 import { amountValidator, taxValidator } from '../price-list/price-list';
 import {
   formFromInvoice,
@@ -82,6 +83,8 @@ const inTwoWeeks = () => {
 })
 export class InvoiceForm implements LeaveGuarded {
   private readonly api = inject(BillingApi);
+  /** Sent with the new invoice: saving again after the answer was lost (a dropped connection) makes no second invoice. */
+  private readonly createKey = newLogKey();
   private readonly assessmentsApi = inject(AssessmentsApi);
   private readonly athletesApi = inject(AthletesApi);
   private readonly router = inject(Router);
@@ -282,7 +285,7 @@ export class InvoiceForm implements LeaveGuarded {
     this.saving.set(true);
     this.problem.set(null);
     try {
-      const saved = await firstValueFrom(editing ? this.api.updateInvoice(editing.id, body) : this.api.createInvoice(body));
+      const saved = await firstValueFrom(editing ? this.api.updateInvoice(editing.id, body) : this.api.createInvoice(body, this.createKey));
       // Saved: leaving for the invoice loses nothing.
       this.form.markAsPristine();
       await this.router.navigate(['/billing/invoices', saved.id]);
