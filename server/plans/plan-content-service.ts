@@ -17,9 +17,9 @@ export interface PlanContentService {
   /** A draft with its stages, exercises, doses and criteria, in one transaction. */
   create(user: SessionUser, athleteId: number, input: PlanInput): Promise<PlanDetail>;
   /**
-   * Replaces title, link, notes and stages. Stages with logs (or the current one) must stay. With
-   * `baseRevision`, 409 `stale_revision` (and the plan as stored, in `details.current`) when
-   * someone saved the plan since that revision; nothing is written then.
+   * Replaces title, link, notes and stages. Stages with logs (or the current one) must stay. 409
+   * `stale_revision` (and the plan as stored, in `details.current`) when someone saved the plan
+   * since `baseRevision`; nothing is written then.
    */
   replace(user: SessionUser, id: number, input: PlanPutInput): Promise<PlanDetail>;
   /** Deletes a draft (409 `plan_not_draft` otherwise). */

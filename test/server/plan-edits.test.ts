@@ -8,7 +8,7 @@ import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { plansRepository } from '../../server/plans/plans-repository';
 import { makeTestApp, signedIn, type Client, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
-import type { Exercise, LogWrite, PlanDetail, PlanWrite } from '../../src/contracts/plans';
+import type { Exercise, LogWrite, PlanDetail, PlanReplace } from '../../src/contracts/plans';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -20,9 +20,10 @@ let keyN = 0;
 const newKey = () => `edit-${Date.now().toString(36)}-${++keyN}`;
 const today = () => new Date().toISOString().slice(0, 10);
 
-/** The plan as the plan builder sends it back: every field, with the ids it has. */
-function asWrite(p: PlanDetail, withExerciseIds = true): PlanWrite {
+/** The plan as the plan builder sends it back: every field, with the ids it has, from the revision it was read at. */
+function asWrite(p: PlanDetail, withExerciseIds = true): PlanReplace {
   return {
+    baseRevision: p.revision,
     title: p.title,
     assessmentId: p.assessmentId,
     notes: p.notes,
@@ -99,7 +100,7 @@ describe('stage-exercise ids across edits', () => {
     const same = await c.put(`/api/plans/${plan.id}`, asWrite(plan));
     expect(same.status, JSON.stringify(same.body)).toBe(200);
     expect(itemIds(same.body)).toEqual(itemIds(plan));
-    const older = await c.put(`/api/plans/${plan.id}`, asWrite(plan, false));
+    const older = await c.put(`/api/plans/${plan.id}`, asWrite(same.body, false));
     expect(older.status).toBe(200);
     expect(itemIds(older.body)).toEqual(itemIds(plan));
   });
@@ -167,6 +168,7 @@ describe('a session queued offline before the coach edited the plan', () => {
       })),
       first,
     ];
+    body.baseRevision = (edited.body as PlanDetail).revision;
     const readded = await c.put(`/api/plans/${plan.id}`, body);
     const now = current(readded.body);
     const newItem = now.exercises.find((e) => e.exerciseId === first.exerciseId)!;
@@ -232,6 +234,23 @@ describe('two coaches editing one plan', () => {
     expect(again.body).toMatchObject({ title: 'Saved second', revision: first.revision + 2 });
     expect((await a.get(`/api/plans/${plan.id}/logs`)).body.logs).toHaveLength(1);
     expect((await c.put(`/api/plans/${plan.id}`, { ...mine, baseRevision: -1 })).status).toBe(422);
+  });
+});
+
+describe('a save that names no base revision', () => {
+  it('is refused with 422 naming baseRevision, and the stored plan (with a colleague’s save) is untouched', async () => {
+    const theirs = await c.put(`/api/plans/${plan.id}`, { ...asWrite(plan), title: 'A colleague’s save' });
+    expect(theirs.status, JSON.stringify(theirs.body)).toBe(200);
+    const { baseRevision: _omitted, ...withoutRevision } = { ...asWrite(plan), title: 'Would overwrite it' };
+    const res = await c.put(`/api/plans/${plan.id}`, withoutRevision);
+    expect(res.status).toBe(422);
+    expect(res.body.error.details).toContainEqual(expect.objectContaining({ path: ['baseRevision'] }));
+    expect(res.body.error.message).toMatch(/base revision/i);
+    for (const wrong of [null, '1', 1.5]) {
+      expect((await c.put(`/api/plans/${plan.id}`, { ...withoutRevision, baseRevision: wrong })).status).toBe(422);
+    }
+    const stored = (await c.get(`/api/plans/${plan.id}`)).body as PlanDetail;
+    expect(stored).toMatchObject({ title: 'A colleague’s save', revision: plan.revision + 1 });
   });
 });
 
