@@ -280,3 +280,48 @@ describe('a stage removed by an edit while the plan moves on to it', () => {
     expect(after.currentStageId).toBe(next.id);
   });
 });
+
+describe('moving stages of a running plan', () => {
+  const stored = async () => (await c.get(`/api/plans/${plan.id}`)).body as PlanDetail;
+
+  it('refuses to put a stage still to come before the current one (it would never run), and writes nothing', async () => {
+    const reversed = asWrite(plan);
+    reversed.stages.reverse();
+    const res = await c.put(`/api/plans/${plan.id}`, reversed);
+    expect(res.status).toBe(409);
+    expect(res.body.error.code).toBe('started_stage_moved');
+    expect(res.body.error.message).toContain('“Isometric holds”');
+    const newFirst = asWrite(plan);
+    newFirst.stages.unshift({ name: 'Warm-up', goal: '', targetWeeks: 1, progressionText: '', criteria: [], exercises: [] });
+    expect((await c.put(`/api/plans/${plan.id}`, newFirst)).body.error.code).toBe('started_stage_moved');
+    const after = await stored();
+    expect(after.stages.map((s) => s.id)).toEqual(plan.stages.map((s) => s.id));
+    expect(after.revision).toBe(plan.revision);
+  });
+
+  it('refuses to put a completed stage after the current one (advancing would start it again over its history)', async () => {
+    const advanced = (await c.post(`/api/plans/${plan.id}/transitions`, { action: 'advance' })).body as PlanDetail;
+    expect(advanced.currentStagePosition).toBe(2);
+    const firstStarted = advanced.stages[0]!.startedAt;
+    const reversed = asWrite(advanced);
+    reversed.stages.reverse();
+    const res = await c.put(`/api/plans/${plan.id}`, reversed);
+    expect(res.status).toBe(409);
+    expect(res.body.error.code).toBe('started_stage_moved');
+    const after = await stored();
+    expect(after.stages.map((s) => s.id)).toEqual(advanced.stages.map((s) => s.id));
+    expect(after.stages[0]!.startedAt).toBe(firstStarted);
+  });
+
+  it('lets the stages still to come move among themselves', async () => {
+    const body = asWrite(plan);
+    body.stages.push({ name: 'Running drills', goal: '', targetWeeks: 2, progressionText: '', criteria: [], exercises: [] });
+    const added = await c.put(`/api/plans/${plan.id}`, body);
+    expect(added.status, JSON.stringify(added.body)).toBe(200);
+    const moved = asWrite(added.body);
+    moved.stages = [moved.stages[0]!, moved.stages[2]!, moved.stages[1]!];
+    const res = await c.put(`/api/plans/${plan.id}`, moved);
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect(res.body.stages.map((s: { name: string }) => s.name)).toEqual(['Isometric holds', 'Running drills', 'Slow lengthening']);
+  });
+});

@@ -37,9 +37,9 @@ import { MatIconModule } from '@angular/material/icon';
 export class ReorderButtons {
   /** The entry's name in the buttons' labels: "stage 2", "Bridge hold". */
   readonly label = input.required<string>();
-  /** Whether the entry is the first (it cannot move up). */
+  /** Whether the entry cannot move up (the first, or held in place). */
   readonly first = input(false);
-  /** Whether the entry is the last (it cannot move down). */
+  /** Whether the entry cannot move down (the last, or held in place). */
   readonly last = input(false);
   /** Icon of the remove button. */
   readonly removeIcon = input<'delete' | 'close'>('close');

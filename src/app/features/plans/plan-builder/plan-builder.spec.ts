@@ -218,3 +218,37 @@ describe('PlanBuilder when a colleague saved the plan after it was opened', () =
     backend.expectNone({ method: 'PUT', url: '/api/plans/5' });
   });
 });
+
+describe('PlanBuilder on a running plan', () => {
+  it('holds the stages that have started in place: they and the stage after them cannot move past each other', async () => {
+    const stage = aPlan().stages[0]!;
+    const running = aPlan({
+      status: 'active',
+      currentStageId: 32,
+      stages: [
+        { ...stage, id: 31, position: 1, name: 'Holds', startedAt: '2026-11-01T08:00:00Z', completedAt: '2026-11-08T08:00:00Z' },
+        { ...stage, id: 32, position: 2, name: 'Lengthening', startedAt: '2026-11-08T08:00:00Z' },
+        { ...stage, id: 33, position: 3, name: 'Springs' },
+        { ...stage, id: 34, position: 4, name: 'Running' },
+      ],
+    });
+    const { fixture, element, backend } = mountPage(PlanBuilder, { id: '5' });
+    await wait(0);
+    backend.expectOne('/api/plans/5').flush(running);
+    await settlePage(fixture);
+    backend.expectOne('/api/athletes/4').flush(athlete);
+    backend.expectOne('/api/athletes/4/assessments').flush({ assessments: [] });
+    await settlePage(fixture);
+    const enabled = (n: number) =>
+      [...element.querySelectorAll<HTMLButtonElement>(`[aria-label="Stage ${n}"] app-reorder-buttons button`)].map((b) => !b.disabled);
+    // Up, down, remove: the started two do not move; the third cannot pass the current stage; the rest moves freely.
+    expect([1, 2, 3, 4].map(enabled)).toEqual([
+      [false, false, true],
+      [false, false, true],
+      [false, true, true],
+      [true, false, true],
+    ]);
+    expect(element.querySelectorAll('.held-note')).toHaveLength(2);
+    backend.verify();
+  });
+});

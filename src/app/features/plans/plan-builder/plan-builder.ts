@@ -130,6 +130,11 @@ export class PlanBuilder implements LeaveGuarded {
   private readonly base = signal<PlanDetail | null>(null);
   /** A colleague's newer save met on saving, until the coach chooses what to do with the edit. */
   protected readonly conflict = signal<{ theirs: PlanDetail; theirChanges: PlanChange[]; myChanges: PlanChange[] } | null>(null);
+  /** Ids of the stages that have started: they keep their place, ahead of the stages still to come. */
+  private readonly startedStageIds = computed(() => {
+    const b = this.base();
+    return new Set(b ? b.stages.filter((s) => s.startedAt !== null || s.id === b.currentStageId).map((s) => s.id) : []);
+  });
   /** Said to screen readers after an exercise is added ("Added … to Isometric holds"). */
   protected readonly announcement = signal('');
   private saved = false;
@@ -176,6 +181,18 @@ export class PlanBuilder implements LeaveGuarded {
   protected addStage(f: PlanForm): void {
     f.controls.stages.push(stageGroup(this.fb, blankStage(f.controls.stages.length + 1)));
     f.markAsDirty();
+  }
+
+  /** Whether the stage has started (it cannot move, and neither can a stage past it). */
+  protected hasStarted(stage: StageGroup): boolean {
+    const id = stage.controls.id.value;
+    return id !== null && this.startedStageIds().has(id);
+  }
+
+  /** Whether stage `i` cannot move by `delta`: it, or the stage it would pass, has started. */
+  protected stageHeld(f: PlanForm, i: number, delta: number): boolean {
+    const other = f.controls.stages.at(i + delta);
+    return this.hasStarted(f.controls.stages.at(i)) || (other !== undefined && this.hasStarted(other));
   }
 
   protected moveStage(f: PlanForm, i: number, delta: number): void {
