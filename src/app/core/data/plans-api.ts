@@ -66,7 +66,8 @@ export class PlansApi {
 
   /** Saves an edit; 409 `stale_revision` (the stored plan in `details.current`) when someone saved since `body.baseRevision`. */
   replacePlan(id: number, body: PlanReplace): Observable<PlanDetail> {
-    return this.http.put<PlanDetail>(`/api/plans/${id}`, body, { context: skipErrorSnackbar(422) });
+    // The editor says what went wrong itself (409: the colleague's save and the choices; 422: by the fields).
+    return this.http.put<PlanDetail>(`/api/plans/${id}`, body, { context: skipErrorSnackbar(409, 422) });
   }
 
   deletePlan(id: number): Observable<void> {
