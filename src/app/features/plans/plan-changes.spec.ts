@@ -1,38 +1,10 @@
-import type { Dose, PlanWrite, StageWrite } from '../../../contracts/plans';
+import type { PlanWrite } from '../../../contracts/plans';
+import { aPlanWrite, aStageItem as item, aStageWrite as stage } from '../../shared/testing/plan-fixtures';
 import { describePlanChanges } from './plan-changes';
 
-const dose = (sets: number, reps = 10): Dose => ({
-  sets,
-  reps,
-  holdSeconds: null,
-  tempo: null,
-  load: null,
-  restSeconds: 60,
-  daysPerWeek: 3,
-});
-const item = (id: number | undefined, exerciseId: number, sets = 3) => ({
-  ...(id !== undefined ? { id } : {}),
-  exerciseId,
-  dose: dose(sets),
-  notes: null,
-});
-const stage = (id: number | undefined, name: string, exercises: StageWrite['exercises'] = []): StageWrite => ({
-  ...(id !== undefined ? { id } : {}),
-  name,
-  goal: '',
-  targetWeeks: 2,
-  progressionText: '',
-  criteria: [],
-  exercises,
-});
 const NAMES: Record<number, string> = { 101: 'Bridge hold', 102: 'Wall press', 201: 'Slow lowering', 202: 'Step-down' };
 const name = (id: number) => NAMES[id] ?? `Exercise ${id}`;
-const base: PlanWrite = {
-  title: 'Hamstring plan',
-  assessmentId: null,
-  notes: null,
-  stages: [stage(1, 'Holds', [item(11, 101), item(12, 102)]), stage(2, 'Lengthening', [item(21, 201)])],
-};
+const base = aPlanWrite([stage(1, 'Holds', [item(11, 101), item(12, 102)]), stage(2, 'Lengthening', [item(21, 201)])]);
 const texts = (after: PlanWrite) => describePlanChanges(base, after, name).map((c) => `${c.kind}: ${c.text}`);
 
 describe('describePlanChanges', () => {

@@ -1,38 +1,14 @@
-import type { Dose, PlanWrite, StageWrite } from '../../../contracts/plans';
+import type { PlanWrite } from '../../../contracts/plans';
+import { aPlanWrite, aStageItem as item, aStageWrite as stage } from '../../shared/testing/plan-fixtures';
 import { rebasePlan, sameValue } from './plan-merge';
 
-const dose = (sets: number, reps = 10): Dose => ({
-  sets,
-  reps,
-  holdSeconds: null,
-  tempo: null,
-  load: null,
-  restSeconds: 60,
-  daysPerWeek: 3,
-});
-const item = (id: number | undefined, exerciseId: number, sets = 3) => ({
-  ...(id !== undefined ? { id } : {}),
-  exerciseId,
-  dose: dose(sets),
-  notes: null,
-});
-const stage = (id: number | undefined, name: string, exercises: StageWrite['exercises'] = []): StageWrite => ({
-  ...(id !== undefined ? { id } : {}),
-  name,
-  goal: '',
-  targetWeeks: 2,
-  progressionText: '',
-  criteria: [],
-  exercises,
-});
-const plan = (stages: StageWrite[], title = 'Hamstring plan'): PlanWrite => ({ title, assessmentId: null, notes: null, stages });
 const clone = <T>(x: T): T => structuredClone(x);
 
 /** Stage ids and the stage-exercise ids (or "new:<exercise id>") of each, to read a merge at a glance. */
 const shape = (p: PlanWrite) =>
   p.stages.map((s) => `${s.id ?? 'new'}:${s.name}[${s.exercises.map((e) => e.id ?? `new${e.exerciseId}`).join(',')}]`);
 
-const base = plan([stage(1, 'Holds', [item(11, 101), item(12, 102)]), stage(2, 'Lengthening', [item(21, 201)])]);
+const base = aPlanWrite([stage(1, 'Holds', [item(11, 101), item(12, 102)]), stage(2, 'Lengthening', [item(21, 201)])]);
 
 describe('sameValue', () => {
   it('compares by content, whatever the key order, and treats an absent key as undefined', () => {

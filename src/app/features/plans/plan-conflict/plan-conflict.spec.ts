@@ -32,7 +32,7 @@ describe('PlanConflict', () => {
 
   it('says so when a side changed nothing to list', async () => {
     const { element } = await mount([], []);
-    expect(element.textContent).toContain('Nothing in the stages or exercises.');
+    expect(element.textContent).toContain('Nothing that differs from the plan you opened.');
     expect(element.textContent).toContain('None.');
   });
 

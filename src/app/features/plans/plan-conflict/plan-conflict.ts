@@ -1,4 +1,4 @@
-import { DatePipe } from '@angular/common';
+import { DatePipe, NgTemplateOutlet } from '@angular/common';
 import { ChangeDetectionStrategy, Component, ElementRef, afterNextRender, input, output, viewChild } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
@@ -19,7 +19,7 @@ const KIND_ICONS: Record<PlanChange['kind'], string> = {
  */
 @Component({
   selector: 'app-plan-conflict',
-  imports: [DatePipe, MatButtonModule, MatIconModule],
+  imports: [DatePipe, NgTemplateOutlet, MatButtonModule, MatIconModule],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './plan-conflict.html',
   styleUrl: './plan-conflict.scss',
@@ -39,7 +39,9 @@ export class PlanConflict {
   /** Apply the edit on top of their version and save again. */
   readonly keepMine = output<void>();
 
-  protected readonly icons = KIND_ICONS;
+  protected iconOf(change: PlanChange): string {
+    return KIND_ICONS[change.kind];
+  }
   private readonly heading = viewChild.required<ElementRef<HTMLElement>>('heading');
 
   constructor() {
