@@ -17,9 +17,10 @@ export interface PlanContentService {
   /** A draft with its stages, exercises, doses and criteria, in one transaction. */
   create(user: SessionUser, athleteId: number, input: PlanInput): Promise<PlanDetail>;
   /**
-   * Replaces title, link, notes and stages. Stages with logs (or the current one) must stay. With
-   * `baseRevision`, 409 `stale_revision` (and the plan as stored, in `details.current`) when
-   * someone saved the plan since that revision; nothing is written then.
+   * Replaces title, link, notes and stages. Stages with logs (or the current one) must stay, and
+   * stages that have started stay first in their order (409 `started_stage_moved`). 409
+   * `stale_revision` (and the plan as stored, in `details.current`) when someone saved the plan
+   * since `baseRevision`; nothing is written then.
    */
   replace(user: SessionUser, id: number, input: PlanPutInput): Promise<PlanDetail>;
   /** Deletes a draft (409 `plan_not_draft` otherwise). */
@@ -97,9 +98,12 @@ export function planContentService(ctx: PlanContext): PlanContentService {
       if (problems.length) throw new ValidationError(`Stages: ${problems[0]!.message}`, problems);
       const kept = new Set(input.stages.map((s) => s.id));
       const removed = existing.filter((s) => !kept.has(s.id));
-      // A removed stage must not have started or have log entries (removing it would delete them).
-      // Checked before the exercises, and again inside the save's transaction against the rows as
-      // they are then: a log sent or a stage advanced in between must not be deleted with it.
+      // A removed stage must not have started or have log entries (removing it would delete them),
+      // and the stages that have started keep their order ahead of those still to come (a stage
+      // moved behind the current one would be started again on advance, over its history; one
+      // moved ahead of it would never run). Checked before the exercises, and again inside the
+      // save's transaction against the rows as they are then: a log sent or a stage advanced in
+      // between must not be deleted or reordered with it.
       const refuseStagesInUse = async (q: typeof db): Promise<void> => {
         const now = await repo.stages(q, [id]);
         const current = (await q('plans').where({ id }).first<{ current_stage_id: number | null } | undefined>('current_stage_id'))
@@ -113,6 +117,13 @@ export function planContentService(ctx: PlanContext): PlanContentService {
         );
         if (blocked)
           throw new ConflictError(`Stage “${blocked.name}” has started or has log entries, so it cannot be removed.`, 'stage_in_use');
+        const started = now.filter((s) => s.started_at != null || s.id === current);
+        if (started.some((s, i) => input.stages[i]?.id !== s.id)) {
+          throw new ConflictError(
+            `Stages that have started (${started.map((s) => `“${s.name}”`).join(', ')}) stay first, in the order they ran; move only the stages still to come.`,
+            'started_stage_moved',
+          );
+        }
       };
       await refuseStagesInUse(db);
       const used = new Set(existingItems.map((e) => e.exercise_id));
@@ -121,7 +132,7 @@ export function planContentService(ctx: PlanContext): PlanContentService {
       const saved = await db.transaction(async (trx) => {
         const patch = { title: input.title, assessment_id: input.assessmentId, notes: input.notes, updated_at: at };
         if (!(await repo.updateContent(trx, id, input.baseRevision, patch))) return false;
-        if (removed.length) await refuseStagesInUse(trx);
+        await refuseStagesInUse(trx);
         await writeStages(trx, user.clinicId, id, input, existing, existingItems, at);
         await audit(
           trx,

@@ -107,12 +107,14 @@ export const plansRepository = {
   },
   /**
    * Writes a plan's content fields and raises its revision, only while the stored revision is
-   * `baseRevision` (any revision when it is undefined); answers whether the row was written.
+   * `baseRevision`; answers whether the row was written.
    */
-  async updateContent(db: Knex, id: number, baseRevision: number | undefined, patch: Partial<PlanRow>): Promise<boolean> {
-    const q = db('plans').where({ id });
-    if (baseRevision !== undefined) q.andWhere('revision', baseRevision);
-    return (await q.update({ ...patch, revision: db.raw('revision + 1') })) > 0;
+  async updateContent(db: Knex, id: number, baseRevision: number, patch: Partial<PlanRow>): Promise<boolean> {
+    return (
+      (await db('plans')
+        .where({ id, revision: baseRevision })
+        .update({ ...patch, revision: db.raw('revision + 1') })) > 0
+    );
   },
 
   stages(db: Knex, planIds: number[]): Promise<StageRow[]> {

@@ -109,13 +109,15 @@ export const PlanBody = z.strictObject({
 });
 export type PlanInput = z.output<typeof PlanBody>;
 
-/** Body of PUT /api/plans/:id: the plan, and the revision the edit started from (a newer stored one answers 409). */
+/**
+ * Body of PUT /api/plans/:id: the plan, and the revision the edit started from (a newer stored one
+ * answers 409). Required: a save that names no revision would silently overwrite a colleague's.
+ */
 export const PlanPutBody = PlanBody.extend({
   baseRevision: z
-    .number('Revision must be a number.')
-    .int('Revision must be a whole number.')
-    .min(0, 'Revision must be 0 or more.')
-    .optional(),
+    .number('Base revision is required: send the revision of the plan the edit started from.')
+    .int('Base revision must be a whole number.')
+    .min(0, 'Base revision must be 0 or more.'),
 });
 export type PlanPutInput = z.output<typeof PlanPutBody>;
 

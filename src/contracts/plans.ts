@@ -256,17 +256,21 @@ export interface PlanDetail extends PlanSummary {
   stages: PlanStage[];
 }
 
-/** Body of POST /api/athletes/:id/plans and PUT /api/plans/:id. */
+/** Body of POST /api/athletes/:id/plans (and of PUT /api/plans/:id with `baseRevision`, {@link PlanReplace}). */
 export interface PlanWrite {
   title: string;
   assessmentId: number | null;
   notes: string | null;
   stages: StageWrite[];
+}
+
+/** Body of PUT /api/plans/:id: the plan as {@link PlanWrite}, and the revision the edit started from. */
+export interface PlanReplace extends PlanWrite {
   /**
-   * PUT only: the `revision` of the plan the edit started from; when someone saved the plan since,
+   * Required: the `revision` of the plan the edit started from; when someone saved the plan since,
    * the PUT answers 409 `stale_revision` with the stored plan in `details.current` and writes nothing.
    */
-  baseRevision?: number;
+  baseRevision: number;
 }
 
 export interface StageWrite {

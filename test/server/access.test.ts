@@ -654,7 +654,8 @@ const ROUTES: RouteCase[] = [
     method: 'put',
     pattern: '/api/plans/:id',
     path: () => `/api/plans/${pc.draftPlanId}`,
-    body: () => planBody(),
+    body: () => ({ ...planBody(), baseRevision: 0 }),
+    before: () => resetPlanRevision(),
     access: { action: 'plan:update', on: 'teammate', ok: 200 },
   },
   {
@@ -1366,6 +1367,11 @@ async function scratchClip(): Promise<void> {
 /** Puts the walk's clip back at annotation revision 0, so each PUT starts from it. */
 async function resetRevision(): Promise<void> {
   await t.db('clips').where({ id: ctx.clipId }).update({ annotation_revision: 0 });
+}
+
+/** The walk's draft plan back at revision 0, so each caller's save names the revision stored. */
+async function resetPlanRevision(): Promise<void> {
+  await t.db('plans').where({ id: pc.draftPlanId }).update({ revision: 0 });
 }
 
 /** Status of a server-sent-events route: read the head, then hang up. */

@@ -8,7 +8,7 @@ import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { plansRepository } from '../../server/plans/plans-repository';
 import { makeTestApp, signedIn, type Client, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
-import type { Exercise, LogWrite, PlanDetail, PlanWrite } from '../../src/contracts/plans';
+import type { Exercise, LogWrite, PlanDetail, PlanReplace } from '../../src/contracts/plans';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -20,9 +20,10 @@ let keyN = 0;
 const newKey = () => `edit-${Date.now().toString(36)}-${++keyN}`;
 const today = () => new Date().toISOString().slice(0, 10);
 
-/** The plan as the plan builder sends it back: every field, with the ids it has. */
-function asWrite(p: PlanDetail, withExerciseIds = true): PlanWrite {
+/** The plan as the plan builder sends it back: every field, with the ids it has, from the revision it was read at. */
+function asWrite(p: PlanDetail, withExerciseIds = true): PlanReplace {
   return {
+    baseRevision: p.revision,
     title: p.title,
     assessmentId: p.assessmentId,
     notes: p.notes,
@@ -99,7 +100,7 @@ describe('stage-exercise ids across edits', () => {
     const same = await c.put(`/api/plans/${plan.id}`, asWrite(plan));
     expect(same.status, JSON.stringify(same.body)).toBe(200);
     expect(itemIds(same.body)).toEqual(itemIds(plan));
-    const older = await c.put(`/api/plans/${plan.id}`, asWrite(plan, false));
+    const older = await c.put(`/api/plans/${plan.id}`, asWrite(same.body, false));
     expect(older.status).toBe(200);
     expect(itemIds(older.body)).toEqual(itemIds(plan));
   });
@@ -167,6 +168,7 @@ describe('a session queued offline before the coach edited the plan', () => {
       })),
       first,
     ];
+    body.baseRevision = (edited.body as PlanDetail).revision;
     const readded = await c.put(`/api/plans/${plan.id}`, body);
     const now = current(readded.body);
     const newItem = now.exercises.find((e) => e.exerciseId === first.exerciseId)!;
@@ -235,6 +237,23 @@ describe('two coaches editing one plan', () => {
   });
 });
 
+describe('a save that names no base revision', () => {
+  it('is refused with 422 naming baseRevision, and the stored plan (with a colleague’s save) is untouched', async () => {
+    const theirs = await c.put(`/api/plans/${plan.id}`, { ...asWrite(plan), title: 'A colleague’s save' });
+    expect(theirs.status, JSON.stringify(theirs.body)).toBe(200);
+    const { baseRevision: _omitted, ...withoutRevision } = { ...asWrite(plan), title: 'Would overwrite it' };
+    const res = await c.put(`/api/plans/${plan.id}`, withoutRevision);
+    expect(res.status).toBe(422);
+    expect(res.body.error.details).toContainEqual(expect.objectContaining({ path: ['baseRevision'] }));
+    expect(res.body.error.message).toMatch(/base revision/i);
+    for (const wrong of [null, '1', 1.5]) {
+      expect((await c.put(`/api/plans/${plan.id}`, { ...withoutRevision, baseRevision: wrong })).status).toBe(422);
+    }
+    const stored = (await c.get(`/api/plans/${plan.id}`)).body as PlanDetail;
+    expect(stored).toMatchObject({ title: 'A colleague’s save', revision: plan.revision + 1 });
+  });
+});
+
 describe('a stage removed by an edit while the plan moves on to it', () => {
   it('is refused with 409 stage_in_use when the plan advanced between the checks and the save, and the stage stays', async () => {
     const next = plan.stages.find((st) => st.id !== plan.currentStageId)!;
@@ -259,5 +278,50 @@ describe('a stage removed by an edit while the plan moves on to it', () => {
     const after = (await c.get(`/api/plans/${plan.id}`)).body as PlanDetail;
     expect(after.stages.map((st) => st.id)).toContain(next.id);
     expect(after.currentStageId).toBe(next.id);
+  });
+});
+
+describe('moving stages of a running plan', () => {
+  const stored = async () => (await c.get(`/api/plans/${plan.id}`)).body as PlanDetail;
+
+  it('refuses to put a stage still to come before the current one (it would never run), and writes nothing', async () => {
+    const reversed = asWrite(plan);
+    reversed.stages.reverse();
+    const res = await c.put(`/api/plans/${plan.id}`, reversed);
+    expect(res.status).toBe(409);
+    expect(res.body.error.code).toBe('started_stage_moved');
+    expect(res.body.error.message).toContain('“Isometric holds”');
+    const newFirst = asWrite(plan);
+    newFirst.stages.unshift({ name: 'Warm-up', goal: '', targetWeeks: 1, progressionText: '', criteria: [], exercises: [] });
+    expect((await c.put(`/api/plans/${plan.id}`, newFirst)).body.error.code).toBe('started_stage_moved');
+    const after = await stored();
+    expect(after.stages.map((s) => s.id)).toEqual(plan.stages.map((s) => s.id));
+    expect(after.revision).toBe(plan.revision);
+  });
+
+  it('refuses to put a completed stage after the current one (advancing would start it again over its history)', async () => {
+    const advanced = (await c.post(`/api/plans/${plan.id}/transitions`, { action: 'advance' })).body as PlanDetail;
+    expect(advanced.currentStagePosition).toBe(2);
+    const firstStarted = advanced.stages[0]!.startedAt;
+    const reversed = asWrite(advanced);
+    reversed.stages.reverse();
+    const res = await c.put(`/api/plans/${plan.id}`, reversed);
+    expect(res.status).toBe(409);
+    expect(res.body.error.code).toBe('started_stage_moved');
+    const after = await stored();
+    expect(after.stages.map((s) => s.id)).toEqual(advanced.stages.map((s) => s.id));
+    expect(after.stages[0]!.startedAt).toBe(firstStarted);
+  });
+
+  it('lets the stages still to come move among themselves', async () => {
+    const body = asWrite(plan);
+    body.stages.push({ name: 'Running drills', goal: '', targetWeeks: 2, progressionText: '', criteria: [], exercises: [] });
+    const added = await c.put(`/api/plans/${plan.id}`, body);
+    expect(added.status, JSON.stringify(added.body)).toBe(200);
+    const moved = asWrite(added.body);
+    moved.stages = [moved.stages[0]!, moved.stages[2]!, moved.stages[1]!];
+    const res = await c.put(`/api/plans/${plan.id}`, moved);
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect(res.body.stages.map((s: { name: string }) => s.name)).toEqual(['Isometric holds', 'Running drills', 'Slow lengthening']);
   });
 });

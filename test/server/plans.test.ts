@@ -305,7 +305,9 @@ describe('plans', () => {
     expect(done.body).toMatchObject({ status: 'finished' });
     expect(done.body.finishedAt).not.toBeNull();
     expect((await go('resume')).status).toBe(409);
-    expect((await c.put(`/api/plans/${plan.id}`, threeStages())).body.error.code).toBe('plan_finished');
+    expect((await c.put(`/api/plans/${plan.id}`, { ...threeStages(), baseRevision: done.body.revision })).body.error.code).toBe(
+      'plan_finished',
+    );
     expect((await go('jump')).status).toBe(422);
   });
 
@@ -337,14 +339,18 @@ describe('plans', () => {
     }));
     body.stages[1]!.targetWeeks = 4;
     body.stages.push(stage('Back to running', ['Step-rate run']));
-    const res = await c.put(`/api/plans/${plan.id}`, body);
+    const res = await c.put(`/api/plans/${plan.id}`, { ...body, baseRevision: plan.revision });
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     expect(res.body.stages.map((s: { id: number }) => s.id).slice(0, 3)).toEqual(plan.stages.map((s) => s.id));
     expect(res.body.stages[1].targetWeeks).toBe(4);
     expect(res.body.stages).toHaveLength(4);
-    const without = await c.put(`/api/plans/${plan.id}`, { ...body, stages: body.stages.slice(1) });
+    const without = await c.put(`/api/plans/${plan.id}`, { ...body, stages: body.stages.slice(1), baseRevision: res.body.revision });
     expect(without.body.error.code).toBe('stage_in_use');
-    const foreign = await c.put(`/api/plans/${plan.id}`, { ...body, stages: [{ ...body.stages[0]!, id: 424242 }] });
+    const foreign = await c.put(`/api/plans/${plan.id}`, {
+      ...body,
+      stages: [{ ...body.stages[0]!, id: 424242 }],
+      baseRevision: res.body.revision,
+    });
     expect(foreign.status).toBe(422);
   });
 });

@@ -30,6 +30,12 @@ export function errorCode(err: unknown): string | null {
   return typeof code === 'string' ? code : null;
 }
 
+/** The server's `error.details` (e.g. the stored record sent with a 409), or null. */
+export function errorDetails(err: unknown): unknown {
+  const http = asHttpError(err);
+  return (http ? errorBody(http)?.details : undefined) ?? null;
+}
+
 /** HTTP status of an error, or null when it is not an HTTP error. */
 export function errorStatus(err: unknown): number | null {
   return asHttpError(err)?.status ?? null;

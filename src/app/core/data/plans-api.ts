@@ -12,6 +12,7 @@ import type {
   PlanAction,
   PlanDetail,
   PlanProgress,
+  PlanReplace,
   PlanSummary,
   PlanWrite,
 } from '../../../contracts/plans';
@@ -63,8 +64,10 @@ export class PlansApi {
     return this.http.get<PlanDetail>(`/api/plans/${id}`, { context: skipErrorSnackbar() });
   }
 
-  replacePlan(id: number, body: PlanWrite): Observable<PlanDetail> {
-    return this.http.put<PlanDetail>(`/api/plans/${id}`, body, { context: skipErrorSnackbar(422) });
+  /** Saves an edit; 409 `stale_revision` (the stored plan in `details.current`) when someone saved since `body.baseRevision`. */
+  replacePlan(id: number, body: PlanReplace): Observable<PlanDetail> {
+    // The editor says what went wrong itself (409: the colleague's save and the choices; 422: by the fields).
+    return this.http.put<PlanDetail>(`/api/plans/${id}`, body, { context: skipErrorSnackbar(409, 422) });
   }
 
   deletePlan(id: number): Observable<void> {

@@ -27,6 +27,7 @@ import type {
 } from '../../../contracts/plans';
 import { DEFAULT_PAIN_RULE, PLAN_LIMITS } from '../../../contracts/plans';
 import { requiredTrimmed } from '../../shared/forms/validators';
+import { planWriteOf } from './plan-merge';
 
 const L = PLAN_LIMITS;
 
@@ -298,20 +299,24 @@ export function threeStageTemplate(maxDuring = DEFAULT_PAIN_RULE.maxDuring): Sta
 }
 
 export function createPlanForm(fb: NonNullableFormBuilder, plan?: PlanDetail, defaultTitle = ''): PlanForm {
+  if (!plan) return planFormFromWrite(fb, { title: defaultTitle, assessmentId: null, notes: null, stages: [] }, new Map());
+  return planFormFromWrite(fb, planWriteOf(plan), new Map(plan.stages.flatMap((s) => s.exercises.map((e) => [e.exerciseId, e.exercise]))));
+}
+
+/**
+ * A plan form holding a plan body (e.g. an edit re-applied on top of a colleague's save);
+ * `library` gives each exercise of the body by its id, for display.
+ */
+export function planFormFromWrite(fb: NonNullableFormBuilder, plan: PlanWrite, library: ReadonlyMap<number, Exercise>): PlanForm {
   return fb.group({
-    title: fb.control(plan?.title ?? defaultTitle, [Validators.required, requiredTrimmed, Validators.maxLength(L.text.planTitle)]),
-    assessmentId: fb.control<number | null>(plan?.assessmentId ?? null),
-    notes: fb.control(plan?.notes ?? '', Validators.maxLength(L.text.planNotes)),
+    title: fb.control(plan.title, [Validators.required, requiredTrimmed, Validators.maxLength(L.text.planTitle)]),
+    assessmentId: fb.control<number | null>(plan.assessmentId),
+    notes: fb.control(plan.notes ?? '', Validators.maxLength(L.text.planNotes)),
     stages: fb.array(
-      (plan?.stages ?? []).map((s) =>
+      plan.stages.map((s) =>
         stageGroup(fb, {
-          id: s.id,
-          name: s.name,
-          goal: s.goal,
-          targetWeeks: s.targetWeeks,
-          progressionText: s.progressionText,
-          criteria: s.criteria,
-          exercises: s.exercises.map((e) => ({ id: e.id, exercise: e.exercise, dose: e.dose, notes: e.notes })),
+          ...s,
+          exercises: s.exercises.map((e) => ({ id: e.id, exercise: library.get(e.exerciseId)!, dose: e.dose, notes: e.notes })),
         }),
       ),
     ),

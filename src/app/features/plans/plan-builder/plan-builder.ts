@@ -13,10 +13,10 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
 import { firstValueFrom, of, throwError } from 'rxjs';
-import type { Exercise, LoadingKind, PlanDetail, ProgressionCriterionKind } from '../../../../contracts/plans';
+import type { Exercise, LoadingKind, PlanDetail, PlanWrite, ProgressionCriterionKind } from '../../../../contracts/plans';
 import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
 import { CRITERION_KINDS, DEFAULT_PAIN_RULE, LOADING_KIND_LABELS, PLAN_LIMITS } from '../../../../contracts/plans';
-import { errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
+import { errorCode, errorDetails, errorMessage, errorStatus, fieldProblems } from '../../../core/api-error';
 import { LeaveGuarded, LeaveWarning, UNSAVED_CHANGES_WARNING, warnBeforeUnload } from '../../../core/leave-guard';
 import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
@@ -27,6 +27,7 @@ import { fullName } from '../../../core/data/roster';
 import { DoseFields } from '../dose-fields/dose-fields';
 import { ExercisePicker, ExercisePickerData } from '../exercise-picker/exercise-picker';
 import { PlanCaution } from '../../../shared/plan-caution/plan-caution';
+import { ReorderButtons } from '../../../shared/reorder-buttons/reorder-buttons';
 import {
   PlanForm,
   StageGroup,
@@ -35,12 +36,16 @@ import {
   criterionGroup,
   defaultCriterion,
   moveInArray,
+  planFormFromWrite,
   planFromForm,
   stageExerciseGroup,
   stageGroup,
   threeStageTemplate,
 } from '../plan-form-model';
 import { PlansApi } from '../../../core/data/plans-api';
+import { describePlanChanges, type PlanChange } from '../plan-changes';
+import { planWriteOf, rebasePlan } from '../plan-merge';
+import { PlanConflict } from '../plan-conflict/plan-conflict';
 
 const CRITERION_OPTION_LABELS: Record<ProgressionCriterionKind, string> = {
   pain_during_at_most: 'Pain during at most …',
@@ -74,6 +79,8 @@ const STAGE_KIND_HINT: (LoadingKind | undefined)[] = ['isometric', 'eccentric', 
     ErrorState,
     DoseFields,
     PlanCaution,
+    PlanConflict,
+    ReorderButtons,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './plan-builder.html',
@@ -119,6 +126,15 @@ export class PlanBuilder implements LeaveGuarded {
   protected readonly form = signal<PlanForm | null>(null);
   protected readonly busy = signal(false);
   protected readonly problem = signal<string | null>(null);
+  /** The stored plan the edit in the form started from (its revision goes with the save). */
+  private readonly base = signal<PlanDetail | null>(null);
+  /** A colleague's newer save met on saving, until the coach chooses what to do with the edit. */
+  protected readonly conflict = signal<{ theirs: PlanDetail; theirChanges: PlanChange[]; myChanges: PlanChange[] } | null>(null);
+  /** Ids of the stages that have started: they keep their place, ahead of the stages still to come. */
+  private readonly startedStageIds = computed(() => {
+    const b = this.base();
+    return new Set(b ? b.stages.filter((s) => s.startedAt !== null || s.id === b.currentStageId).map((s) => s.id) : []);
+  });
   /** Said to screen readers after an exercise is added ("Added … to Isometric holds"). */
   protected readonly announcement = signal('');
   private saved = false;
@@ -138,7 +154,10 @@ export class PlanBuilder implements LeaveGuarded {
       const ready = this.editing() ? this.plan.hasValue() && this.plan.value() !== null : this.athleteDetail.hasValue();
       if (!ready || untracked(this.form)) return;
       const plan = this.editing() ? (this.plan.value() as PlanDetail) : undefined;
-      untracked(() => this.form.set(createPlanForm(this.fb, plan, 'Staged loading plan')));
+      untracked(() => {
+        this.base.set(plan ?? null);
+        this.form.set(createPlanForm(this.fb, plan, 'Staged loading plan'));
+      });
     });
   }
 
@@ -162,6 +181,18 @@ export class PlanBuilder implements LeaveGuarded {
   protected addStage(f: PlanForm): void {
     f.controls.stages.push(stageGroup(this.fb, blankStage(f.controls.stages.length + 1)));
     f.markAsDirty();
+  }
+
+  /** Whether the stage has started (it cannot move, and neither can a stage past it). */
+  protected hasStarted(stage: StageGroup): boolean {
+    const id = stage.controls.id.value;
+    return id !== null && this.startedStageIds().has(id);
+  }
+
+  /** Whether stage `i` cannot move by `delta`: it, or the stage it would pass, has started. */
+  protected stageHeld(f: PlanForm, i: number, delta: number): boolean {
+    const other = f.controls.stages.at(i + delta);
+    return this.hasStarted(f.controls.stages.at(i)) || (other !== undefined && this.hasStarted(other));
   }
 
   protected moveStage(f: PlanForm, i: number, delta: number): void {
@@ -227,6 +258,7 @@ export class PlanBuilder implements LeaveGuarded {
   protected async save(f: PlanForm): Promise<void> {
     if (this.busy()) return;
     this.problem.set(null);
+    this.conflict.set(null);
     if (f.controls.stages.length === 0) {
       this.problem.set('Add at least one stage.');
       return;
@@ -239,20 +271,27 @@ export class PlanBuilder implements LeaveGuarded {
     const athleteId = this.athleteId();
     if (athleteId === null) return;
     const id = this.id();
-    // A resource in error throws from value(); an edit without the plan it started from is not sent (no revision to check).
-    const editedFrom = this.plan.hasValue() ? this.plan.value() : null;
+    // An edit without the plan it started from is not sent (no revision to check).
+    const editedFrom = this.base();
     if (id !== undefined && !editedFrom) return;
     this.busy.set(true);
-    // An edit names the revision it started from: a plan saved by someone else meanwhile answers 409 instead of being overwritten.
-    const body = { ...planFromForm(f.getRawValue()), ...(id !== undefined && editedFrom ? { baseRevision: editedFrom.revision } : {}) };
+    const body = planFromForm(f.getRawValue());
     try {
-      const saved = await firstValueFrom(id !== undefined ? this.api.replacePlan(Number(id), body) : this.api.createPlan(athleteId, body));
+      // An edit names the revision it started from: a plan saved by someone else meanwhile answers 409 instead of being overwritten.
+      const saved = await firstValueFrom(
+        id !== undefined && editedFrom
+          ? this.api.replacePlan(Number(id), { ...body, baseRevision: editedFrom.revision })
+          : this.api.createPlan(athleteId, body),
+      );
       this.saved = true;
       f.markAsPristine();
       this.snackBar.open(id !== undefined ? 'Plan saved' : 'Plan created as a draft', 'OK', { duration: 3000 });
       await this.router.navigate(['/plans', saved.id]);
     } catch (err) {
-      if (errorStatus(err) === 422) {
+      const theirs = storedPlanOf(err);
+      if (theirs && editedFrom) {
+        this.showConflict(editedFrom, theirs, body, f);
+      } else if (errorStatus(err) === 422) {
         const rest = applyServerErrors(f, fieldProblems(err));
         this.problem.set(rest.length ? rest.join(' ') : 'Check the highlighted fields.');
       } else {
@@ -262,4 +301,56 @@ export class PlanBuilder implements LeaveGuarded {
       this.busy.set(false);
     }
   }
+
+  /** Keeps the edit in the form and shows what the colleague's save and the edit each changed. */
+  private showConflict(base: PlanDetail, theirs: PlanDetail, mine: PlanWrite, f: PlanForm): void {
+    const library = this.library(f, base, theirs);
+    const name = (id: number) => library.get(id)?.name ?? 'An exercise';
+    const from = planWriteOf(base);
+    this.conflict.set({
+      theirs,
+      theirChanges: describePlanChanges(from, planWriteOf(theirs), name),
+      myChanges: describePlanChanges(from, mine, name),
+    });
+  }
+
+  /** "Load their version": the form shows the colleague's save; the edit is discarded. */
+  protected loadTheirs(): void {
+    const c = this.conflict();
+    if (!c) return;
+    this.base.set(c.theirs);
+    this.form.set(createPlanForm(this.fb, c.theirs));
+    this.conflict.set(null);
+    this.snackBar.open('Showing their version', 'OK', { duration: 3000 });
+  }
+
+  /** "Keep my changes": the edit re-applied on top of the colleague's save, saved against their revision. */
+  protected async keepMine(f: PlanForm): Promise<void> {
+    const c = this.conflict();
+    const base = this.base();
+    if (!c || !base || this.busy()) return;
+    const merged = rebasePlan(planWriteOf(base), planFromForm(f.getRawValue()), planWriteOf(c.theirs));
+    const next = planFormFromWrite(this.fb, merged, this.library(f, base, c.theirs));
+    next.markAsDirty();
+    this.base.set(c.theirs);
+    this.form.set(next);
+    this.conflict.set(null);
+    await this.save(next);
+  }
+
+  /** Every exercise the form, the plan as opened and the colleague's save name, by id. */
+  private library(f: PlanForm, ...plans: PlanDetail[]): Map<number, Exercise> {
+    const all = new Map<number, Exercise>();
+    for (const p of plans) for (const s of p.stages) for (const e of s.exercises) all.set(e.exerciseId, e.exercise);
+    for (const s of f.controls.stages.controls)
+      for (const e of s.controls.exercises.controls) all.set(e.controls.exerciseId.value, e.controls.info.value);
+    return all;
+  }
+}
+
+/** The stored plan sent with a 409 `stale_revision`, or null for any other error. */
+function storedPlanOf(err: unknown): PlanDetail | null {
+  if (errorStatus(err) !== 409 || errorCode(err) !== 'stale_revision') return null;
+  const current = (errorDetails(err) as { current?: PlanDetail } | null)?.current;
+  return current && typeof current.revision === 'number' && Array.isArray(current.stages) ? current : null;
 }
