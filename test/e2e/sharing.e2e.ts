@@ -215,6 +215,16 @@ describe('sharing stills and a visit summary', () => {
     expect(await viewer.textContent()).toContain(PAIR_CAPTION);
     await expect.poll(() => viewer.locator('img').evaluate((i: HTMLImageElement) => i.complete && i.naturalWidth > 0)).toBe(true);
     await p.screenshot({ path: shot('sharing-still-viewer-phone.png') });
+    // The phone on its side: the still's area keeps most of the height (caption and caution go beside
+    // it; stacked, they left it a third), and the still fills that area's height or its width.
+    await p.setViewportSize({ width: PHONE.height, height: PHONE.width });
+    await expect.poll(async () => (await frame.boundingBox())!.height / PHONE.width, { timeout: 5000 }).toBeGreaterThan(0.6);
+    await expect.poll(() => viewer.locator('img').evaluate((i: HTMLImageElement) => i.complete && i.naturalWidth > 0)).toBe(true);
+    const area = (await frame.boundingBox())!;
+    const still = (await viewer.locator('img').boundingBox())!;
+    expect(Math.max(still.height / area.height, still.width / (area.width - 16))).toBeGreaterThan(0.97);
+    await p.screenshot({ path: shot('sharing-still-viewer-phone-landscape.png') });
+    await p.setViewportSize(PHONE);
     await p.keyboard.press('ArrowLeft');
     await expect.poll(() => viewer.textContent()).toMatch(/\b1 of \d+/);
     await viewer.getByRole('button', { name: 'Close' }).click();

@@ -110,6 +110,22 @@ describe('ClipUploader', () => {
     expect(button('Choose files')).toBeTruthy();
   });
 
+  it('brings the list with the new upload’s progress into view (on a phone it opens below the screen edge)', async () => {
+    const scrolled: Element[] = [];
+    const original = Element.prototype.scrollIntoView;
+    Element.prototype.scrollIntoView = function (this: Element) {
+      scrolled.push(this);
+    };
+    try {
+      fixture.componentInstance.addFiles([video('first.mp4')]);
+      fixture.detectChanges();
+      await fixture.whenStable();
+      expect(scrolled).toEqual([element.querySelector('ul.uploads')]);
+    } finally {
+      Element.prototype.scrollIntoView = original;
+    }
+  });
+
   it('sends files one at a time with their own progress, and lists a refused file with its reason', () => {
     fixture.componentInstance.addFiles([video('first.mp4'), video('photo.jpg', 10, 'image/jpeg'), video('second.mov')]);
     fixture.detectChanges();

@@ -1,4 +1,16 @@
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, input, output, signal } from '@angular/core';
+import {
+  afterNextRender,
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  ElementRef,
+  Injector,
+  computed,
+  inject,
+  input,
+  output,
+  signal,
+} from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
@@ -61,6 +73,8 @@ const STATE_ICONS: Record<UploadState, string> = {
 export class ClipUploader {
   private readonly uploads = inject(ResumableClipUploads);
   private readonly config = inject(ConfigStore);
+  private readonly host = inject<ElementRef<HTMLElement>>(ElementRef);
+  private readonly injector = inject(Injector);
 
   readonly assessmentId = input.required<number>();
   /** The assessment's clips: a file chosen again with the same name and size is held back, not sent twice. */
@@ -94,6 +108,10 @@ export class ClipUploader {
     this.nextId = result.nextId;
     this.items.set(result.items);
     this.pump();
+    // On a phone the list opens below the picker buttons, off the screen: bring its progress into view.
+    afterNextRender(() => this.host.nativeElement.querySelector('.uploads')?.scrollIntoView?.({ block: 'nearest' }), {
+      injector: this.injector,
+    });
   }
 
   protected onPicked(input: HTMLInputElement): void {

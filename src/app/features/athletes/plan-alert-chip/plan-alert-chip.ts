@@ -12,17 +12,31 @@ import { alertSummary } from '../../../shared/plan-words';
   template: `
     @if (alerts().length) {
       <a
-        class="plan-alert-chip"
+        class="plan-alert-link"
         [routerLink]="['/plans', planId()]"
         [attr.title]="details()"
         [attr.aria-label]="'Plan alert: ' + summary() + '. ' + details()"
       >
-        <mat-icon aria-hidden="true">warning</mat-icon>
-        <span>{{ summary() }}</span>
+        <span class="plan-alert-chip">
+          <mat-icon aria-hidden="true">warning</mat-icon>
+          <span>{{ summary() }}</span>
+        </span>
       </a>
     }
   `,
   styles: `
+    .plan-alert-link {
+      display: inline-flex;
+      align-items: center;
+      color: inherit;
+      text-decoration: none;
+    }
+    /* The pill stays small; on a touch screen the link around it is 44 px tall for a finger. */
+    @media (pointer: coarse) {
+      .plan-alert-link {
+        min-block-size: 44px;
+      }
+    }
     .plan-alert-chip {
       display: inline-flex;
       align-items: center;
@@ -38,7 +52,7 @@ import { alertSummary } from '../../../shared/plan-words';
     :host {
       display: inline-block;
     }
-    .plan-alert-chip:hover {
+    .plan-alert-link:hover .plan-alert-chip {
       text-decoration: underline;
     }
     mat-icon {

@@ -4,6 +4,8 @@ import { ComponentFixture } from '@angular/core/testing';
 import { Subject } from 'rxjs';
 import { AuthStore } from '../../../core/auth-store';
 import { LogOutbox } from '../../../core/data/log-outbox';
+import { logItem, type OutboxItem } from '../../../core/data/log-outbox-queue';
+import type { LogWrite } from '../../../../contracts/plans';
 import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
 import { buttonWithText, flushApiError } from '../../../shared/testing/api-errors';
 import { aPlan } from '../../../shared/testing/plan-fixtures';
@@ -28,7 +30,15 @@ describe('PortalPlan', () => {
   const settle = () => settlePage(fixture);
 
   beforeEach(async () => {
-    const outbox = { items: signal([]), pending: signal([]), refused: signal([]), delivered: new Subject(), refusals: new Subject() };
+    const items = signal<OutboxItem[]>([]);
+    const outbox = {
+      items,
+      pending: signal([]),
+      refused: signal([]),
+      delivered: new Subject(),
+      refusals: new Subject(),
+      submitLog: (planId: number, body: LogWrite) => items.update((list) => [...list, logItem(planId, body, Date.now())]),
+    };
     ({ fixture, element, backend } = mountPage(PortalPlan, {}, [
       provideIsoDateAdapter(),
       { provide: AuthStore, useValue: { user: signal({ id: 9, role: 'athlete', athleteId: 4, name: 'Ada Kestrel' }) } },
@@ -62,5 +72,24 @@ describe('PortalPlan', () => {
     backend.expectOne('/api/plans/5/logs').flush({ logs: [] });
     await settle();
     expect(history.textContent).toContain('Your sessions appear here once you save them.');
+  });
+
+  it('focus moves to "Done for today" after saving, and to the session heading on "Log another session", never to the page body', async () => {
+    backend.expectOne('/api/athletes/4/plans').flush({ plans: [SUMMARY] });
+    await settle();
+    backend.expectOne('/api/plans/5').flush(PLAN);
+    backend.expectOne('/api/plans/5/logs').flush({ logs: [] });
+    await settle();
+    element.querySelector<HTMLElement>('[aria-label="Pain during 2 out of 10"]')!.click();
+    buttonWithText(element, 'Save session').click();
+    await settle();
+    // The heading itself, not the page body (whose text holds every heading).
+    expect(document.activeElement?.tagName).toBe('H2');
+    expect(document.activeElement?.textContent).toContain('Done for today');
+
+    buttonWithText(element, 'Log another session').click();
+    await settle();
+    expect(document.activeElement?.tagName).toBe('H2');
+    expect(document.activeElement?.textContent).toContain("Today's session: Isometric holds");
   });
 });

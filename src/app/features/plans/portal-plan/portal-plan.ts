@@ -1,5 +1,16 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
+import {
+  afterNextRender,
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  effect,
+  ElementRef,
+  inject,
+  Injector,
+  signal,
+  untracked,
+} from '@angular/core';
 import { rxResource, takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -66,6 +77,8 @@ export class PortalPlan implements LeaveGuarded {
   private readonly snackBar = inject(MatSnackBar);
   protected readonly outbox = inject(LogOutbox);
   private readonly fb = inject(NonNullableFormBuilder);
+  private readonly host = inject<ElementRef<HTMLElement>>(ElementRef);
+  private readonly injector = inject(Injector);
 
   protected readonly athleteId = computed(() => this.auth.user()?.athleteId ?? null);
   protected readonly plans = rxResource({
@@ -221,11 +234,24 @@ export class PortalPlan implements LeaveGuarded {
     this.tried.set(false);
     this.logAnother.set(false);
     this.ticks.set(Object.fromEntries(stage.exercises.map((e) => [e.id, Array<boolean>(e.dose.sets).fill(false)])));
+    // The form gives way to "Done for today": focus moves there instead of being lost with the Save button.
+    this.focusAfterRender('.done-title');
     this.snackBar.open(
       navigator.onLine === false ? 'Session saved on this phone; it is sent when you are back online' : 'Session saved',
       'OK',
       { duration: 4000 },
     );
+  }
+
+  /** Opens the session form again; focus moves to its heading, as the button that opened it is gone. */
+  protected startAnother(): void {
+    this.logAnother.set(true);
+    this.focusAfterRender('.session-title');
+  }
+
+  /** Focuses (and so scrolls to) the element matching `selector` once the view shows it, if it does. */
+  private focusAfterRender(selector: string): void {
+    afterNextRender(() => this.host.nativeElement.querySelector<HTMLElement>(selector)?.focus(), { injector: this.injector });
   }
 
   /** Sends a refused session again as a session of today's stage (sets matched by exercise). */
