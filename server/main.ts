@@ -1,4 +1,4 @@
-import type { Server } from 'node:http';
+import { createServer, type RequestListener } from 'node:http';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { loadConfig, type Config } from './config';
@@ -47,13 +47,29 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
     });
     config = { ...config, payments: { ...config.payments, apiPort: fakePayments.port } };
   }
+  // PORT=0 (any free port): take the port first, so links in e-mails and payment returns name it
+  // rather than port 0. The app is attached once it is ready; nobody knows the port before that.
+  let handler: RequestListener | null = null;
+  const server = createServer((req, res) => (handler ? handler(req, res) : res.writeHead(503, { 'retry-after': '1' }).end()));
+  const listening = () =>
+    new Promise<void>((resolve, reject) => {
+      server.once('error', reject);
+      server.listen(config.port, () => {
+        server.off('error', reject);
+        resolve();
+      });
+    });
+  if (config.port === 0) await listening();
+  const boundPort = () => {
+    const a = server.address();
+    return typeof a === 'object' && a ? a.port : config.port;
+  };
+  if (config.port === 0 && config.publicUrl === 'http://localhost:0') config = { ...config, publicUrl: `http://localhost:${boundPort()}` };
   const { app, close, processingReady } = createApp({ config, db, mailer, logger, demoInboxUrl: inbox?.url ?? null });
   await processingReady;
-  const server: Server = await new Promise((resolve, reject) => {
-    const s = app.listen(config.port, (err?: Error) => (err ? reject(err) : resolve(s)));
-  });
-  const address = server.address();
-  const port = typeof address === 'object' && address ? address.port : config.port;
+  handler = app;
+  if (config.port !== 0) await listening();
+  const port = boundPort();
   fakePayments?.setWebhookUrl(`http://127.0.0.1:${port}/api/billing/webhook`);
   return {
     url: `http://localhost:${port}`,
