@@ -104,6 +104,23 @@ interface QueryBuilderInternals {
 // knex ships the dialect as CommonJS without types.
 const Client_BetterSQLite3 = require('knex/lib/dialects/better-sqlite3/index.js') as KnexClientClass;
 
+type KnexTransactionClass = new (client: unknown, ...args: unknown[]) => { query(connection: unknown, sql: string): Promise<unknown> };
+const Transaction_Sqlite = require('knex/lib/dialects/sqlite3/execution/sqlite-transaction.js') as KnexTransactionClass;
+
+/**
+ * A transaction that takes the database's write lock when it begins (`BEGIN IMMEDIATE`), waiting
+ * for it under the busy timeout. knex's `BEGIN` defers the lock to the first write: a transaction
+ * that reads first (checks, then inserts) and meets another process's commit in between is then
+ * refused at once (SQLITE_BUSY, no wait), which a server beside separate workers or other servers
+ * on one database file would answer as a 500. In one process nothing changes: the pool has one
+ * writing connection, so its transactions already run one at a time.
+ */
+class ImmediateTransaction extends Transaction_Sqlite {
+  begin(connection: unknown): Promise<unknown> {
+    return this.query(connection, 'BEGIN IMMEDIATE;');
+  }
+}
+
 /** Builder methods that only read. */
 const READS = new Set(['select', 'first', 'pluck']);
 
@@ -157,6 +174,11 @@ export class SqliteClient extends Client_BetterSQLite3 {
       identity.writes++;
     }
     return identity.writes;
+  }
+
+  /** knex's transactions of this client begin with `BEGIN IMMEDIATE` ({@link ImmediateTransaction}). */
+  transaction(...args: unknown[]): object {
+    return new ImmediateTransaction(this, ...args);
   }
 
   override async acquireRawConnection(): Promise<SqliteConnection> {

@@ -103,6 +103,33 @@ describe('reads beside a transaction', () => {
   });
 });
 
+describe('transactions beside another process', () => {
+  // Another process on the same file (a worker, a second web server) stands in as a second
+  // better-sqlite3 connection that does not wait for locks.
+  it('a transaction that reads before it writes holds the write lock from its start, so a commit elsewhere in between cannot refuse its write', async () => {
+    const Driver = client().driver;
+    const other = new Driver(path.join(dir.dir, 'db.sqlite'));
+    other.pragma('busy_timeout = 0');
+    let othersWrite: unknown = null;
+    try {
+      await db.transaction(async (trx) => {
+        await trx('clinics').select('id');
+        try {
+          other.prepare("insert into clinics (name, created_at) values ('Elsewhere', ?)").run(at);
+        } catch (err) {
+          othersWrite = (err as { code?: string }).code;
+        }
+        // With knex's deferred BEGIN the other commit lands first and this insert fails at once (SQLITE_BUSY_SNAPSHOT).
+        await trx('clinics').insert({ name: 'Here', created_at: at });
+      });
+    } finally {
+      other.close();
+    }
+    expect(othersWrite).toBe('SQLITE_BUSY');
+    expect(await db('clinics').pluck('name')).toEqual(['Here']);
+  });
+});
+
 describe('prepared statements', () => {
   it('one statement per SQL text, kept until the cache is full (least recently used go first)', () => {
     const conn = reader();
