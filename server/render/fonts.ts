@@ -1,6 +1,7 @@
 import { createRequire } from 'node:module';
 import path from 'node:path';
 import type * as NapiCanvas from '@napi-rs/canvas';
+import { addScriptFallback } from './pdf-script-text';
 
 /**
  * The shipped Source Sans 3 faces for server-side rendering: @napi-rs/canvas stills use the web
@@ -75,7 +76,8 @@ const importPdfKit = () => import('pdfkit');
 let pdfkitModule: ReturnType<typeof importPdfKit> | undefined;
 
 /**
- * A new pdfkit document with the complete faces registered ({@link registerPdfFonts}); pdfkit and fontkit are
+ * A new pdfkit document with the complete faces registered ({@link registerPdfFonts}) and the bundled
+ * faces for Chinese, Japanese, Hebrew and Arabic as fallbacks ({@link addScriptFallback}); pdfkit and fontkit are
  * loaded on first use, so a server that has printed nothing yet does not hold them.
  */
 export async function newPdfDocument(options: PDFKit.PDFDocumentOptions): Promise<PDFKit.PDFDocument> {
@@ -83,5 +85,6 @@ export async function newPdfDocument(options: PDFKit.PDFDocumentOptions): Promis
   const { default: PDFDocument } = await pdfkitModule;
   const doc = new PDFDocument(options);
   registerPdfFonts(doc);
+  addScriptFallback(doc);
   return doc;
 }
