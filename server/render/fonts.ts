@@ -5,12 +5,27 @@ import { addScriptFallback } from './pdf-script-text';
 import { needsScriptFonts, SCRIPT_FONTS } from './script-fonts';
 
 /**
- * The shipped Source Sans 3 faces for server-side rendering: @napi-rs/canvas stills and clips and pdfkit
- * documents draw with the complete family (npm `source-sans`; the web's @fontsource Latin subset lacks
- * Greek and Cyrillic), plus bundled faces for other scripts (`script-fonts.ts`). Never a system or CDN
- * font, so a still or PDF looks the same on every machine.
+ * The shipped Source Sans 3 faces for server-side rendering: @napi-rs/canvas stills use the web
+ * app's own files (@fontsource/source-sans-3), pdfkit documents the complete family (npm
+ * `source-sans`); both fall back to bundled faces for Hebrew, Arabic, Chinese and Japanese
+ * (`script-fonts.ts`). Never a CDN font, so a still or PDF looks the same on every machine.
  */
 const require = createRequire(import.meta.url);
+const filesDir = path.join(path.dirname(require.resolve('@fontsource/source-sans-3/package.json')), 'files');
+
+/** Latin subset, WOFF: both fontkit (pdfkit) and Skia (@napi-rs/canvas) read it. */
+function face(weight: 400 | 600 | 700, style: 'normal' | 'italic' = 'normal'): string {
+  return path.join(filesDir, `source-sans-3-latin-${weight}-${style}.woff`);
+}
+
+/** The web app's Latin-subset faces by role (what stills draw with). */
+export const FONT_FILES = {
+  regular: face(400),
+  semibold: face(600),
+  bold: face(700),
+  italic: face(400, 'italic'),
+} as const;
+
 /**
  * The complete Source Sans 3 faces (npm `source-sans`, Adobe's release, TrueType) by role, for PDFs:
  * the web subsets lack signs a document prints (≥, ≤, →) and letters of names outside basic Latin
@@ -38,13 +53,13 @@ let canvasModule: Promise<typeof NapiCanvas> | undefined;
 let scriptFontsRegistered = false;
 
 /**
- * @napi-rs/canvas with the complete Source Sans 3 faces registered, loaded on first use: Skia stays out of the
+ * @napi-rs/canvas with the Source Sans 3 faces registered, loaded on first use: Skia stays out of the
  * memory of a server that has drawn nothing yet (an idle web process, one receiving uploads). When one of
  * `texts` (captions, headings) needs them, the script faces are registered too, once per process.
  */
 export async function loadCanvas(texts: Iterable<string> = []): Promise<typeof NapiCanvas> {
   canvasModule ??= import('@napi-rs/canvas').then((canvas) => {
-    for (const file of Object.values(PDF_FONT_FILES)) canvas.GlobalFonts.registerFromPath(file, CANVAS_FONT_FAMILY);
+    for (const file of Object.values(FONT_FILES)) canvas.GlobalFonts.registerFromPath(file, CANVAS_FONT_FAMILY);
     return canvas;
   });
   const canvas = await canvasModule;
