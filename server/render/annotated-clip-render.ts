@@ -13,7 +13,7 @@ import { STILL_CAUTION_LINE, type StillRect } from '../../src/contracts/sharing'
 import { GAIT_EVENT_LABELS } from '../../src/contracts/annotations';
 import { drawOverlay, landmarkFill, slowMotionTiming, type Canvas2DLike, type LandmarkFill } from '../../src/kinematics';
 import { startH264Encoder } from '../media/encode-h264';
-import { CANVAS_FONT_FAMILY, loadCanvas } from './fonts';
+import { CANVAS_FONT_STACK, loadCanvas } from './fonts';
 import { PANEL_GAP, clipSizes } from './annotated-clip-layout';
 import { clampLines, wrapText } from './still-render';
 
@@ -120,7 +120,7 @@ function eventsShown(events: readonly GaitEventMark[], frame: number, hold: numb
  * (`landmarkFill`); a frame showing interpolated landmarks says so in its heading.
  */
 export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Promise<AnnotatedClipRenderOutput> {
-  const { createCanvas, loadImage } = await loadCanvas();
+  const { createCanvas, loadImage } = await loadCanvas([input.caption, ...input.panels.map((p) => p.heading)]);
   const { panels, steps } = input;
   if (panels.length === 0) throw new RangeError('An annotated clip needs at least one clip.');
   if (steps.length === 0) throw new RangeError('An annotated clip needs at least one frame.');
@@ -130,7 +130,7 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
 
   const { widths, panelHeight, contentWidth, unit, phoneScale } = clipSizes(panels.map((p) => p.frameSize));
   const scratch = createCanvas(10, 10).getContext('2d');
-  const captionFont = `400 ${Math.round(unit * 1.05)}px "${CANVAS_FONT_FAMILY}"`;
+  const captionFont = `400 ${Math.round(unit * 1.05)}px ${CANVAS_FONT_STACK}`;
   scratch.font = captionFont;
   const caption = input.caption.trim();
   // At most three lines under the video; a longer caption ends in "…" rather than stopping without a sign.
@@ -141,8 +141,8 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
 
   const fills: LandmarkFill[] = panels.map((p) => landmarkFill(p.landmarks));
   const holdFrames = panels.map((p) => Math.max(1, Math.round(EVENT_LABEL_HOLD_S * p.fps * input.factor)));
-  const headingFont = `600 ${unit}px "${CANVAS_FONT_FAMILY}"`;
-  const statusFont = `400 ${Math.round(unit * 0.9)}px "${CANVAS_FONT_FAMILY}"`;
+  const headingFont = `600 ${unit}px ${CANVAS_FONT_STACK}`;
+  const statusFont = `400 ${Math.round(unit * 0.9)}px ${CANVAS_FONT_STACK}`;
   /** Panel `i`'s status at source frame `frame`: the time, the events just passed and the landmark origin. */
   const statusAt = (i: number, frame: number) => {
     const panel = panels[i]!;
@@ -202,7 +202,7 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
     ctx.fillText(line, unit, y, width - 2 * unit);
     y += lineHeight;
   }
-  ctx.font = `400 ${smallSize}px "${CANVAS_FONT_FAMILY}"`;
+  ctx.font = `400 ${smallSize}px ${CANVAS_FONT_STACK}`;
   ctx.fillStyle = MUTED;
   ctx.fillText(`${SLOW_MOTION_LABELS[input.factor]}. ${note}`, unit, y, width - 2 * unit);
   y += Math.round(smallSize * 1.6);
@@ -246,7 +246,7 @@ export async function renderAnnotatedClip(input: AnnotatedClipRenderInput): Prom
         showAngles: input.showAngles,
         scale: null,
         gauges: (panel.gauges ?? []).filter((g) => g.frame === frame),
-        fontFamily: `"${CANVAS_FONT_FAMILY}", sans-serif`,
+        fontFamily: `${CANVAS_FONT_STACK}, sans-serif`,
         // A panel shown smaller than its frame keeps labels and markers readable on a phone.
         ...(scale < 0.999 ? { viewScale: scale * phoneScale } : {}),
       });

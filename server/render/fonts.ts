@@ -1,11 +1,14 @@
 import { createRequire } from 'node:module';
 import path from 'node:path';
 import type * as NapiCanvas from '@napi-rs/canvas';
+import { addScriptFallback } from './pdf-script-text';
+import { needsScriptFonts, SCRIPT_FONTS } from './script-fonts';
 
 /**
  * The shipped Source Sans 3 faces for server-side rendering: @napi-rs/canvas stills use the web
  * app's own files (@fontsource/source-sans-3), pdfkit documents the complete family (npm
- * `source-sans`). Never a system or CDN font, so a still or PDF looks the same on every machine.
+ * `source-sans`); both fall back to bundled faces for Hebrew, Arabic, Chinese and Japanese
+ * (`script-fonts.ts`). Never a CDN font, so a still or PDF looks the same on every machine.
  */
 const require = createRequire(import.meta.url);
 const filesDir = path.join(path.dirname(require.resolve('@fontsource/source-sans-3/package.json')), 'files');
@@ -39,18 +42,32 @@ export const PDF_FONT_FILES = {
 /** The CSS family name the overlay asks for (matches `DEFAULT_OVERLAY_FONT`). */
 export const CANVAS_FONT_FAMILY = 'Source Sans 3';
 
+/**
+ * The family list stills and clips draw with: Source Sans 3, then the bundled Hebrew, Arabic and CJK
+ * faces ({@link SCRIPT_FONTS}) for the characters it lacks. Skia picks the face per character and lays
+ * right-to-left text out by the bidi algorithm itself; never a system font.
+ */
+export const CANVAS_FONT_STACK = [CANVAS_FONT_FAMILY, ...SCRIPT_FONTS.map((f) => f.name)].map((f) => `"${f}"`).join(', ');
+
 let canvasModule: Promise<typeof NapiCanvas> | undefined;
+let scriptFontsRegistered = false;
 
 /**
  * @napi-rs/canvas with the Source Sans 3 faces registered, loaded on first use: Skia stays out of the
- * memory of a server that has drawn nothing yet (an idle web process, one receiving uploads).
+ * memory of a server that has drawn nothing yet (an idle web process, one receiving uploads). When one of
+ * `texts` (captions, headings) needs them, the script faces are registered too, once per process.
  */
-export function loadCanvas(): Promise<typeof NapiCanvas> {
+export async function loadCanvas(texts: Iterable<string> = []): Promise<typeof NapiCanvas> {
   canvasModule ??= import('@napi-rs/canvas').then((canvas) => {
     for (const file of Object.values(FONT_FILES)) canvas.GlobalFonts.registerFromPath(file, CANVAS_FONT_FAMILY);
     return canvas;
   });
-  return canvasModule;
+  const canvas = await canvasModule;
+  if (!scriptFontsRegistered && [...texts].some(needsScriptFonts)) {
+    for (const f of SCRIPT_FONTS) for (const file of new Set([f.regular, f.bold])) canvas.GlobalFonts.registerFromPath(file, f.name);
+    scriptFontsRegistered = true;
+  }
+  return canvas;
 }
 
 /** Registers the complete faces ({@link PDF_FONT_FILES}) on a pdfkit document as `regular`, `semibold`, `bold`, `italic`. */
@@ -75,7 +92,8 @@ const importPdfKit = () => import('pdfkit');
 let pdfkitModule: ReturnType<typeof importPdfKit> | undefined;
 
 /**
- * A new pdfkit document with the complete faces registered ({@link registerPdfFonts}); pdfkit and fontkit are
+ * A new pdfkit document with the complete faces registered ({@link registerPdfFonts}) and the bundled
+ * faces for Chinese, Japanese, Hebrew and Arabic as fallbacks ({@link addScriptFallback}); pdfkit and fontkit are
  * loaded on first use, so a server that has printed nothing yet does not hold them.
  */
 export async function newPdfDocument(options: PDFKit.PDFDocumentOptions): Promise<PDFKit.PDFDocument> {
@@ -83,5 +101,6 @@ export async function newPdfDocument(options: PDFKit.PDFDocumentOptions): Promis
   const { default: PDFDocument } = await pdfkitModule;
   const doc = new PDFDocument(options);
   registerPdfFonts(doc);
+  addScriptFallback(doc);
   return doc;
 }

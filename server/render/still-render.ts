@@ -3,7 +3,7 @@ import type { AngleGauge, FrameLandmarks, ScaleBar } from '../../src/contracts/a
 import type { Direction, Side } from '../../src/contracts/assessment';
 import { STILL_CAUTION_LINE, type StillLabel, type StillRect } from '../../src/contracts/sharing';
 import { drawOverlay, overlayLabelPositions, type Canvas2DLike, type OverlayOptions } from '../../src/kinematics';
-import { CANVAS_FONT_FAMILY, loadCanvas } from './fonts';
+import { CANVAS_FONT_STACK, loadCanvas } from './fonts';
 
 /** One panel to render: a frame image and the overlay frozen with the still. */
 export interface StillPanelInput {
@@ -114,7 +114,7 @@ export function clampLines(ctx: Pick<SKRSContext2D, 'measureText'>, lines: strin
  * marker and label sizes follow the frame size exactly as in the review workspace at 100 %.
  */
 export async function renderStill(input: StillRenderInput): Promise<StillRenderOutput> {
-  const { createCanvas, loadImage } = await loadCanvas();
+  const { createCanvas, loadImage } = await loadCanvas([input.caption, ...input.panels.map((p) => p.heading)]);
   if (input.panels.length === 0) throw new Error('A still needs at least one panel.');
   const images: Image[] = [];
   for (const p of input.panels) images.push(await loadImage(p.image));
@@ -126,7 +126,7 @@ export async function renderStill(input: StillRenderInput): Promise<StillRenderO
   const contentWidth = widths.reduce((a, b) => a + b, 0) + GAP * (input.panels.length - 1);
   const unit = Math.max(12, Math.round(Math.min(contentWidth, panelHeight) * 0.028));
   const headingHeight = Math.round(unit * 2.2);
-  const captionFont = `400 ${Math.round(unit * 1.15)}px "${CANVAS_FONT_FAMILY}"`;
+  const captionFont = `400 ${Math.round(unit * 1.15)}px ${CANVAS_FONT_STACK}`;
 
   // Caption lines are measured on a scratch context with the same font.
   const scratch = createCanvas(10, 10).getContext('2d');
@@ -156,7 +156,7 @@ export async function renderStill(input: StillRenderInput): Promise<StillRenderO
     ctx.fillStyle = BAND;
     ctx.fillRect(x, 0, w, headingHeight);
     ctx.fillStyle = INK;
-    ctx.font = `600 ${unit}px "${CANVAS_FONT_FAMILY}"`;
+    ctx.font = `600 ${unit}px ${CANVAS_FONT_STACK}`;
     ctx.textBaseline = 'middle';
     ctx.textAlign = 'left';
     ctx.fillText(panel.heading, x + unit * 0.6, headingHeight / 2, w - unit * 1.2);
@@ -170,7 +170,7 @@ export async function renderStill(input: StillRenderInput): Promise<StillRenderO
       showAngles: input.showAngles,
       scale: panel.scale,
       gauges: panel.gauges ?? [],
-      fontFamily: `"${CANVAS_FONT_FAMILY}", sans-serif`,
+      fontFamily: `${CANVAS_FONT_STACK}, sans-serif`,
     };
     ctx.save();
     ctx.translate(rect.x, rect.y);
@@ -194,7 +194,7 @@ export async function renderStill(input: StillRenderInput): Promise<StillRenderO
   // One small caution line at the foot, in the muted ink (about 7:1 on white), never over the frame.
   const caution = { x: 0, y: height - cautionHeight, width, height: cautionHeight };
   ctx.fillStyle = MUTED;
-  ctx.font = `400 ${cautionSize}px "${CANVAS_FONT_FAMILY}"`;
+  ctx.font = `400 ${cautionSize}px ${CANVAS_FONT_STACK}`;
   ctx.textBaseline = 'middle';
   ctx.textAlign = 'left';
   ctx.fillText(STILL_CAUTION_LINE, unit, caution.y + cautionHeight / 2, width - 2 * unit);

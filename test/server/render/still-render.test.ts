@@ -131,3 +131,46 @@ describe('caption lines in text without spaces', () => {
     expect(out.height).toBeGreaterThan(360 + 3 * 20);
   });
 });
+
+describe('renderStill: names and captions in other scripts', () => {
+  const still = async (caption: string) =>
+    (
+      await renderStill({
+        panels: [
+          {
+            image: await greyFrame(640, 360),
+            frameSize: { width: 640, height: 360 },
+            landmarks: [],
+            nearSide: 'left',
+            direction: 'left_to_right',
+            scale: null,
+            heading: 'Baseline',
+          },
+        ],
+        caption,
+        showAngles: false,
+      })
+    ).png;
+  const pixels = async (png: Buffer) => {
+    const img = await loadImage(png);
+    const ctx = createCanvas(img.width, img.height).getContext('2d');
+    ctx.drawImage(img, 0, 0);
+    return ctx.getImageData(0, 0, img.width, img.height).data;
+  };
+
+  it.each([
+    ['Chinese', '陈小明'],
+    ['Japanese', '山田さくら'],
+    ['Hebrew', 'שרה כהן'],
+    ['Arabic', 'ليلى حداد'],
+    ['Greek', 'Αλέξης'],
+    ['accented Latin', 'Zoë Łukasiewicz'],
+  ])('a %s caption draws glyphs, not the missing-glyph box a non-character (U+FFFF) draws', async (_script, text) => {
+    const drawn = await pixels(await still(text));
+    // The same number of characters that no face has: each prints the .notdef box.
+    const boxes = await pixels(await still('\uFFFF'.repeat([...text].length)));
+    let differing = 0;
+    for (let i = 0; i < drawn.length; i += 4) if (Math.abs(drawn[i]! - boxes[i]!) > 60) differing++;
+    expect(differing).toBeGreaterThan(50);
+  });
+});

@@ -202,6 +202,49 @@ describe('renderSummaryPdf — a Re-test comparison', () => {
   });
 });
 
+describe('renderSummaryPdf — names and text in other scripts', () => {
+  // Invented names in each script; the expected text is the input itself (what the clinician typed).
+  const NAMES = {
+    chinese: '陈小明',
+    japanese: '山田さくら',
+    hebrew: 'שרה כהן',
+    arabic: 'ليلى حداد',
+    greek: 'Αλέξης Παπαδόπουλος',
+    latin: 'Zoë Łukasiewicz-Ğüneş',
+  };
+  const doc = (athleteName: string, findings = ''): SummaryDocument => ({ ...base, athleteName, findings });
+
+  it('every character of a Chinese, Japanese, Hebrew, Arabic, Greek and accented Latin name is in the text layer', async () => {
+    for (const [script, name] of Object.entries(NAMES)) {
+      const text = (await pages((await renderSummaryPdf(doc(name, `${name} ran well.`))).pdf)).join('\n');
+      const letters = (t: string) => [...t.normalize('NFKC')].filter((c) => /\p{L}|\p{M}/u.test(c)).sort();
+      // pdf.js (pdf-parse) reads each ToUnicode map; every letter typed comes back at least twice (header and findings).
+      for (const ch of letters(name)) expect(letters(text).filter((c) => c === ch).length, `${script} ${ch}`).toBeGreaterThanOrEqual(2);
+    }
+  });
+
+  it('a Hebrew or Arabic name reads right to left: its first word is drawn to the right of its second', async () => {
+    for (const name of [NAMES.hebrew, NAMES.arabic]) {
+      const text = flat(await pages((await renderSummaryPdf(doc(name))).pdf)).normalize('NFKC');
+      // pdf.js (pdf-parse) gives each word's letters in reading order (it applies the Unicode bidi algorithm
+      // within a run) but lists the runs of a line by place on the page, left to right: a name read right
+      // to left therefore comes back with its words swapped, and in typed order had it been drawn left to right.
+      const [first, second] = name.split(' ');
+      expect(text).toContain(`Athlete: ${second} ${first}`);
+      expect(text).not.toContain(name);
+    }
+  });
+
+  it('CJK, Hebrew and Arabic glyphs are drawn (embedded faces, no boxes) and a Latin document embeds no script face', async () => {
+    const scripts = await renderSummaryPdf(doc(`${NAMES.chinese} ${NAMES.hebrew}`, `${NAMES.japanese} ${NAMES.arabic}`));
+    const fonts = (pdf: Buffer) => [...pdf.toString('latin1').matchAll(/\/BaseFont \/[A-Z]{6}\+([\w-]+)/g)].map((m) => m[1]);
+    expect(fonts(scripts.pdf)).toEqual(expect.arrayContaining(['NotoSansHans-Regular', 'NotoSansHebrew', 'NotoNaskhArabic']));
+    expect(fonts((await renderSummaryPdf(base)).pdf).filter((f) => /Noto/.test(f!))).toEqual([]);
+    const [png] = await renderPages(scripts.pdf, 'scripts');
+    expect(fs.statSync(png!).size).toBeGreaterThan(0);
+  });
+});
+
 describe('renderSummaryPdf — page breaks', () => {
   const longVisit = (stills: number, findingsLines: number): SummaryDocument => {
     const keys: [MeasureKey, string][] = [
