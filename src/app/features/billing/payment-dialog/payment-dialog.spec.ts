@@ -122,4 +122,30 @@ describe('PaymentDialog', () => {
     await fixture.whenStable();
     expect(closed).toHaveLength(1);
   });
+
+  for (const [mode, url, label] of [
+    ['record', '/api/invoices/7/payments', 'Mark as paid'],
+    ['refund', '/api/invoices/7/refund', 'Record refund'],
+  ] as const) {
+    it(`${mode}: saving again after the answer was lost sends the same Idempotency-Key (the server answers the act it did, never a second one)`, async () => {
+      await open({ invoice: mode === 'record' ? ISSUED : { ...ISSUED, status: 'paid', paymentMethod: 'cash' }, mode });
+      button(label).click();
+      await wait(0);
+      const first = backend.expectOne(url);
+      const key = first.request.headers.get('Idempotency-Key');
+      expect(key).toMatch(/^[A-Za-z0-9_-]{8,64}$/);
+      first.error(new ProgressEvent('error'), { status: 0, statusText: 'Unknown Error' });
+      await wait(10);
+      fixture.detectChanges();
+      await fixture.whenStable();
+      expect(closed).toEqual([]);
+      button(label).click();
+      await wait(0);
+      const again = backend.expectOne(url);
+      expect(again.request.headers.get('Idempotency-Key')).toBe(key);
+      again.flush({ ...ISSUED, status: mode === 'record' ? 'paid' : 'refunded' });
+      await fixture.whenStable();
+      expect(closed).toHaveLength(1);
+    });
+  }
 });
