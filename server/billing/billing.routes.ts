@@ -47,7 +47,8 @@ export function billingRoutes(billing: BillingService): Router {
     res.json({ prices: await billing.listPrices(currentUser(req), q.archived === 'true') });
   });
   router.post('/prices', permit('price:create'), async (req, res) => {
-    res.status(201).json(await billing.createPrice(currentUser(req), parse(PriceBody, req.body)));
+    const key = parse(IdempotencyKey, req.get('idempotency-key'), 'Header');
+    res.status(201).json(await billing.createPrice(currentUser(req), parse(PriceBody, req.body), key));
   });
   router.patch('/prices/:id', permit('price:update'), async (req, res) => {
     const priceId = id(req.params, 'Price');
