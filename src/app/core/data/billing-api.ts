@@ -36,8 +36,9 @@ export class BillingApi {
     return this.http.get<{ prices: Price[] }>('/api/prices', { context: skipErrorSnackbar() }).pipe(map((r) => r.prices));
   }
 
-  createPrice(body: PriceWrite): Observable<Price> {
-    return this.http.post<Price>('/api/prices', body, { context: skipErrorSnackbar(422) });
+  /** A new price; `key` (see RetryKeys) makes a resend after a lost answer find the price already made. */
+  createPrice(body: PriceWrite, key?: string): Observable<Price> {
+    return this.http.post<Price>('/api/prices', body, { context: skipErrorSnackbar(422), headers: keyHeader(key) });
   }
 
   updatePrice(id: number, body: Partial<PriceWrite>): Observable<Price> {

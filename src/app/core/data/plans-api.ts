@@ -56,8 +56,10 @@ export class PlansApi {
       .pipe(map((r) => r.plans));
   }
 
-  createPlan(athleteId: number, body: PlanWrite): Observable<PlanDetail> {
-    return this.http.post<PlanDetail>(`/api/athletes/${athleteId}/plans`, body, { context: skipErrorSnackbar(422) });
+  /** A new draft plan; `key` (see RetryKeys) makes a resend after a lost answer find the plan already made. */
+  createPlan(athleteId: number, body: PlanWrite, key?: string): Observable<PlanDetail> {
+    const headers: Record<string, string> = key ? { 'Idempotency-Key': key } : {};
+    return this.http.post<PlanDetail>(`/api/athletes/${athleteId}/plans`, body, { context: skipErrorSnackbar(422), headers });
   }
 
   plan(id: number): Observable<PlanDetail> {
