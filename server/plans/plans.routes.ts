@@ -28,7 +28,7 @@ export function plansRoutes({ exercises, plans }: { exercises: ExercisesService;
     res.json({ exercises: await exercises.list(currentUser(req), query) });
   });
   router.post('/exercises', permit('exercise:create'), async (req, res) => {
-    res.status(201).json(await exercises.create(currentUser(req), parse(ExerciseBody, req.body)));
+    res.status(201).json(await exercises.create(currentUser(req), parse(ExerciseBody, req.body), idempotencyKey(req)));
   });
   router.get('/exercises/:id', permit('exercise:read'), async (req, res) => {
     res.json(await exercises.get(currentUser(req), id(req.params, 'Exercise')));

@@ -1,5 +1,5 @@
 /**
- * A new athlete, plan or price sent again after its answer was lost, or twice by a double click: with
+ * A new athlete, plan, price or library exercise sent again after its answer was lost, or twice by a double click: with
  * the same `Idempotency-Key` it answers the one it made (201 with the same id); the same key with
  * other content answers 422 `idempotency_key_reused`; another key (or none, an older client) makes
  * another, as a second athlete or plan may be meant.
@@ -103,5 +103,26 @@ describe('a new price sent again', () => {
     expect(await t.db('prices').where({ item: 'Video review' })).toHaveLength(1);
     expect((await keyed(owner, '/api/prices', 'price-key-0002', body)).status).toBe(201);
     expect(await t.db('prices').where({ item: 'Video review' })).toHaveLength(2);
+  });
+});
+
+describe('a new library exercise sent again', () => {
+  it('the same key after success answers the exercise it made (not 409 exercise_name_taken); another key 409 as before', async () => {
+    const body = {
+      name: 'Wall calf raise hold',
+      purpose: 'Calf capacity',
+      region: (await t.db('exercises').where({ id: exerciseId }).first()).region,
+      kind: (await t.db('exercises').where({ id: exerciseId }).first()).kind,
+      dose: { sets: 3, reps: null, holdSeconds: 30, tempo: null, load: null, restSeconds: 60, daysPerWeek: 3 },
+      instructions: ['Rise onto the toes and hold.'],
+      cautions: '',
+    };
+    const answers = await thrice(coach, '/api/exercises', 'exercise-key-0001', body);
+    expect(answers.map((r) => r.status)).toEqual([201, 201, 201]);
+    expect(new Set(answers.map((r) => r.body.id)).size).toBe(1);
+    const other = await keyed(coach, '/api/exercises', 'exercise-key-0002', body);
+    expect(other.status).toBe(409);
+    expect(other.body.error.code).toBe('exercise_name_taken');
+    expect(await t.db('exercises').where({ name: 'Wall calf raise hold' })).toHaveLength(1);
   });
 });
