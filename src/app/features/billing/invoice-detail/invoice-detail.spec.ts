@@ -5,6 +5,7 @@ import { TestBed } from '@angular/core/testing';
 import { MatDialog, type MatDialogRef } from '@angular/material/dialog';
 import { of } from 'rxjs';
 import { InvoiceDetailPage } from './invoice-detail';
+import { DRAFT_INVOICE } from '../../../shared/testing/billing-fixtures';
 import { mountPage, wait } from '../../../shared/testing/mount-page';
 
 describe('InvoiceDetailPage', () => {
@@ -41,35 +42,7 @@ describe('InvoiceDetailPage', () => {
   });
 
   it('issue and cancel send an Idempotency-Key; doing the act again after a lost answer sends the same key, another act its own', async () => {
-    const draft = {
-      id: 999,
-      number: null,
-      status: 'draft',
-      athleteId: 4,
-      athleteName: 'Ada Kestrel',
-      currency: 'EUR',
-      totalMinor: 7800,
-      subtotalMinor: 6500,
-      taxMinor: 1300,
-      dueDate: '2026-12-31',
-      issuedAt: null,
-      paidAt: null,
-      createdAt: '2026-12-01T09:00:00Z',
-      assessmentId: null,
-      assessment: null,
-      note: null,
-      clinicName: 'Larchwood Running Clinic',
-      cancelledAt: null,
-      refundedAt: null,
-      checkoutState: 'none',
-      paymentMethod: null,
-      paidOn: null,
-      paymentNote: null,
-      refundNote: null,
-      clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
-      clinicLogoUrl: null,
-      lines: [],
-    };
+    const draft = DRAFT_INVOICE;
     // Answers the page's reads (the invoice, its athlete) as they come; a read left open keeps the page unstable.
     const answerReads = async () => {
       for (let i = 0; i < 3; i++) {
