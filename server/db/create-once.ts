@@ -5,7 +5,7 @@ import { lockedForUpdate } from './dialect';
 import type { Db } from './knex';
 
 /** What a keyed create makes (the `kind` column of `create_keys`). */
-export type CreateKind = 'athlete' | 'plan' | 'price' | 'exercise';
+export type CreateKind = 'athlete' | 'assessment' | 'plan' | 'price' | 'exercise';
 
 /**
  * Runs `create` in a transaction once per `key` (the client's `Idempotency-Key`) of this clinic and

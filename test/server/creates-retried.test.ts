@@ -1,5 +1,5 @@
 /**
- * A new athlete, plan, price or library exercise sent again after its answer was lost, or twice by a double click: with
+ * A new athlete, visit, plan, price or library exercise sent again after its answer was lost, or twice by a double click: with
  * the same `Idempotency-Key` it answers the one it made (201 with the same id); the same key with
  * other content answers 422 `idempotency_key_reused`; another key (or none, an older client) makes
  * another, as a second athlete or plan may be meant.
@@ -7,6 +7,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, signedIn, type Client, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { baselineVisit } from '../support/bodies';
 
 const [ownerCred, coachCred, , athleteCred] = DEMO_SIGN_INS;
 let t: TestApp;
@@ -124,5 +125,17 @@ describe('a new library exercise sent again', () => {
     expect(other.status).toBe(409);
     expect(other.body.error.code).toBe('exercise_name_taken');
     expect(await t.db('exercises').where({ name: 'Wall calf raise hold' })).toHaveLength(1);
+  });
+});
+
+describe('a new visit sent again', () => {
+  it('the same key twice at once and after success: one visit; another key makes a second visit the same day (a second test may be meant)', async () => {
+    const count = async () => (await t.db('assessments').where({ athlete_id: adaId, date: '2026-11-29' })).length;
+    const answers = await thrice(coach, `/api/athletes/${adaId}/assessments`, 'visit-key-0001', baselineVisit('2026-11-29'));
+    expect(answers.map((r) => r.status)).toEqual([201, 201, 201]);
+    expect(new Set(answers.map((r) => r.body.id)).size).toBe(1);
+    expect(await count()).toBe(1);
+    expect((await keyed(coach, `/api/athletes/${adaId}/assessments`, 'visit-key-0002', baselineVisit('2026-11-29'))).status).toBe(201);
+    expect(await count()).toBe(2);
   });
 });
