@@ -5,39 +5,19 @@ import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
 import type { InvoiceDetail } from '../../../../contracts/billing';
 import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
 import { PaymentDialog, type PaymentDialogData } from './payment-dialog';
+import { DRAFT_INVOICE } from '../../../shared/testing/billing-fixtures';
 
 const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 /** Re-test 65.00 at 20 % = 78.00 EUR, issued. */
-const ISSUED = {
+const ISSUED: InvoiceDetail = {
+  ...DRAFT_INVOICE,
   id: 7,
   number: 'TF-2026-0003',
   status: 'issued',
   athleteId: 1,
-  athleteName: 'Ada Kestrel',
-  currency: 'EUR',
-  totalMinor: 7800,
-  dueDate: '2026-12-31',
   issuedAt: '2026-12-01T10:00:00Z',
-  paidAt: null,
-  createdAt: '2026-12-01T09:00:00Z',
-  assessmentId: null,
-  assessment: null,
-  note: null,
-  clinicName: 'Larchwood Running Clinic',
-  subtotalMinor: 6500,
-  taxMinor: 1300,
-  cancelledAt: null,
-  refundedAt: null,
-  checkoutState: 'none',
-  paymentMethod: null,
-  paidOn: null,
-  paymentNote: null,
-  refundNote: null,
-  clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
-  clinicLogoUrl: null,
-  lines: [],
-} as InvoiceDetail;
+};
 
 describe('PaymentDialog', () => {
   let fixture: ComponentFixture<PaymentDialog>;
