@@ -15,6 +15,7 @@ import type { Action } from '../policy/access-table';
 import { accessibleAthlete } from '../policy/athlete-resources';
 import { listGrant, throughSelfGrant } from '../policy/enforce';
 import type { Processing } from '../processing/processing';
+import { renderOnce } from '../processing/render-once';
 import type { MediaStore } from '../storage/media-store';
 import type { Mailer } from '../mail/mailer';
 import { accessibleShared, deleteShared, setPublication } from '../sharing/shared-items';
@@ -127,19 +128,38 @@ export function annotatedClipsService(d: AnnotatedClipsDeps): AnnotatedClipsServ
     }
   }
 
+  /**
+   * Makes the annotated clip and queues its render. Identical: the same clip(s), frames with the same marks frozen
+   * (`panels`), speed, caption and angles, a new one not yet rendered; asked for again then (a double click, a
+   * retry) it is that one, not a second render.
+   */
   async function insertAndQueue(user: SessionUser, row: Omit<AnnotatedClipRow, 'id'>): Promise<number> {
-    let id = 0;
-    await db.transaction(async (trx) => {
-      id = await repo.insert(trx, row);
-      await processing.enqueue(trx, RENDER_ANNOTATED_CLIP, id, { clinicId: user.clinicId, athleteId: row.athlete_id });
+    const { id, made } = await renderOnce(db, processing, {
+      table: 'annotated_clips',
+      lock: (trx) => trx('clips').where({ id: row.clip_id }).select('id'),
+      same: {
+        clinic_id: row.clinic_id,
+        clip_id: row.clip_id,
+        other_clip_id: row.other_clip_id,
+        kind: row.kind,
+        panels: row.panels,
+        factor: row.factor,
+        caption: row.caption,
+        show_angles: row.show_angles,
+        render_version: 1,
+      },
+      kind: RENDER_ANNOTATED_CLIP,
+      scope: { clinicId: user.clinicId, athleteId: row.athlete_id },
+      insert: (trx) => repo.insert(trx, row),
     });
-    await audit(db, {
-      clinicId: user.clinicId,
-      actorId: user.id,
-      athleteId: row.athlete_id,
-      action: 'annotated_clip.created',
-      detail: { annotatedClipId: id, clipId: row.clip_id, otherClipId: row.other_clip_id },
-    });
+    if (made)
+      await audit(db, {
+        clinicId: user.clinicId,
+        actorId: user.id,
+        athleteId: row.athlete_id,
+        action: 'annotated_clip.created',
+        detail: { annotatedClipId: id, clipId: row.clip_id, otherClipId: row.other_clip_id },
+      });
     return id;
   }
 

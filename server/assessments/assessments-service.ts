@@ -1,6 +1,7 @@
 import type { Assessment, AssessmentDetail, SessionUser } from '../../src/contracts/api';
 import { toMetresPerSecond } from '../../src/contracts/assessment';
 import type { Db } from '../db/knex';
+import { createOnce } from '../db/create-once';
 import { audit } from '../audit/audit-log';
 import { accessibleAthlete } from '../policy/athlete-resources';
 import { assertRole, assertScope, may } from '../policy/enforce';
@@ -24,7 +25,8 @@ type PageRow = AssessmentRow & { athlete_user_id: number | null; video_consent: 
 /** Dated gait visits of an athlete. Staff write; the athlete reads their own. */
 export interface AssessmentsService {
   list(user: SessionUser, athleteId: number): Promise<Assessment[]>;
-  create(user: SessionUser, athleteId: number, input: AssessmentInput): Promise<Assessment>;
+  /** A new visit; with `key` (the client's `Idempotency-Key`), the same visit sent again answers the one it made. */
+  create(user: SessionUser, athleteId: number, input: AssessmentInput, key?: string): Promise<Assessment>;
   /** One assessment with its clips and whether the athlete's video consent is in force. */
   get(user: SessionUser, id: number): Promise<AssessmentDetail>;
   update(user: SessionUser, id: number, patch: AssessmentPatch): Promise<Assessment>;
@@ -54,33 +56,41 @@ export function assessmentsService({ db, clips, store }: { db: Db; clips: ClipsS
       return rows.map((r) => repo.toApi(r, Number(r.clip_count), may(user, 'assessment:read-notes')));
     },
 
-    async create(user: SessionUser, athleteId: number, input: AssessmentInput): Promise<Assessment> {
+    async create(user: SessionUser, athleteId: number, input: AssessmentInput, key?: string): Promise<Assessment> {
       await accessibleAthlete(db, user, athleteId, 'assessment:create');
       const at = now();
-      const id = await db.transaction(async (trx) => {
-        const newId = await repo.insert(trx, {
-          clinic_id: user.clinicId,
-          athlete_id: athleteId,
-          date: input.date,
-          kind: input.kind,
-          surface: input.surface,
-          speed_mps: null,
-          speed_unit: 'kmh',
-          ...speedColumns(input.speed),
-          incline_percent: input.inclinePercent,
-          shoes: input.shoes,
-          camera_notes: input.cameraNotes,
-          notes: input.notes,
-          created_by: user.id,
-          created_at: at,
-          updated_at: at,
-        });
-        await audit(
-          trx,
-          { clinicId: user.clinicId, actorId: user.id, athleteId, action: 'assessment.created', detail: { assessmentId: newId } },
-          at,
-        );
-        return newId;
+      const request = { athleteId, ...input };
+      const id = await createOnce(db, {
+        clinicId: user.clinicId,
+        kind: 'assessment',
+        key,
+        request,
+        at,
+        create: async (trx) => {
+          const newId = await repo.insert(trx, {
+            clinic_id: user.clinicId,
+            athlete_id: athleteId,
+            date: input.date,
+            kind: input.kind,
+            surface: input.surface,
+            speed_mps: null,
+            speed_unit: 'kmh',
+            ...speedColumns(input.speed),
+            incline_percent: input.inclinePercent,
+            shoes: input.shoes,
+            camera_notes: input.cameraNotes,
+            notes: input.notes,
+            created_by: user.id,
+            created_at: at,
+            updated_at: at,
+          });
+          await audit(
+            trx,
+            { clinicId: user.clinicId, actorId: user.id, athleteId, action: 'assessment.created', detail: { assessmentId: newId } },
+            at,
+          );
+          return newId;
+        },
       });
       return toApi(user, (await repo.find(db, user.clinicId, id))!);
     },

@@ -1,3 +1,4 @@
+import { idempotencyKey } from '../http/idempotency-key';
 import { Router } from 'express';
 import { currentUser } from '../http/access';
 import { permit } from '../policy/enforce';
@@ -15,7 +16,7 @@ export function assessmentsRoutes(assessments: AssessmentsService): Router {
   router.post('/athletes/:id/assessments', permit('assessment:create'), async (req, res) => {
     const athleteId = idParam(req.params, 'Athlete');
     const body = parse(AssessmentBody, req.body);
-    res.status(201).json(await assessments.create(currentUser(req), athleteId, body));
+    res.status(201).json(await assessments.create(currentUser(req), athleteId, body, idempotencyKey(req)));
   });
 
   router.get('/assessments/:id', permit('assessment:read'), async (req, res) => {

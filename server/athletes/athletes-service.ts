@@ -2,6 +2,7 @@ import type { AthleteDetail, AthleteSummary, PendingInvitation, SessionUser } fr
 import { toKilometres } from '../../src/contracts/intake';
 import type { Db } from '../db/knex';
 import { lockedForUpdate } from '../db/dialect';
+import { createOnce } from '../db/create-once';
 import type { AthleteRow } from '../db/rows';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import { unpublishAll } from '../sharing/consent-withdrawal';
@@ -67,32 +68,39 @@ export function athletesService({ db, clock, invitations, notices }: AthletesDep
       return detailFor(user, id);
     },
 
-    async create(user: SessionUser, input: AthleteCreateInput): Promise<AthleteDetail> {
+    async create(user: SessionUser, input: AthleteCreateInput, key?: string): Promise<AthleteDetail> {
       await checkCoach(user.clinicId, input.coachId);
       const at = now();
-      const id = await db.transaction(async (trx) => {
-        await checkEmailFree(trx, user.clinicId, input.email);
-        const newId = await repo.insert(trx, {
-          clinic_id: user.clinicId,
-          user_id: null,
-          coach_id: input.coachId ?? (user.role === 'coach' ? user.id : null),
-          first_name: input.firstName,
-          last_name: input.lastName,
-          email: input.email ?? null,
-          date_of_birth: input.dateOfBirth ?? null,
-          height_cm: null,
-          distance_unit: 'km',
-          weekly_km: null,
-          longest_run_km: null,
-          goal_event: null,
-          goal_date: null,
-          surfaces: '[]',
-          notes: input.notes ?? null,
-          created_at: at,
-          updated_at: at,
-        });
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: newId, action: 'athlete.created' }, at);
-        return newId;
+      const id = await createOnce(db, {
+        clinicId: user.clinicId,
+        kind: 'athlete',
+        key,
+        request: input,
+        at,
+        create: async (trx) => {
+          await checkEmailFree(trx, user.clinicId, input.email);
+          const newId = await repo.insert(trx, {
+            clinic_id: user.clinicId,
+            user_id: null,
+            coach_id: input.coachId ?? (user.role === 'coach' ? user.id : null),
+            first_name: input.firstName,
+            last_name: input.lastName,
+            email: input.email ?? null,
+            date_of_birth: input.dateOfBirth ?? null,
+            height_cm: null,
+            distance_unit: 'km',
+            weekly_km: null,
+            longest_run_km: null,
+            goal_event: null,
+            goal_date: null,
+            surfaces: '[]',
+            notes: input.notes ?? null,
+            created_at: at,
+            updated_at: at,
+          });
+          await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId: newId, action: 'athlete.created' }, at);
+          return newId;
+        },
       });
       return detailFor(user, id);
     },

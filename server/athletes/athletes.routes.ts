@@ -1,3 +1,4 @@
+import { idempotencyKey } from '../http/idempotency-key';
 import { Router } from 'express';
 import { currentUser } from '../http/access';
 import { permit } from '../policy/enforce';
@@ -14,7 +15,7 @@ export function athletesRoutes(athletes: AthletesService): Router {
 
   router.post('/athletes', permit('athlete:create'), async (req, res) => {
     const body = parse(AthleteCreateBody, req.body);
-    res.status(201).json(await athletes.create(currentUser(req), body));
+    res.status(201).json(await athletes.create(currentUser(req), body, idempotencyKey(req)));
   });
 
   router.get('/athletes/:id', permit('athlete:read'), async (req, res) => {

@@ -1,6 +1,6 @@
 import type { Logger } from 'pino';
 import type { SessionUser } from '../../src/contracts/api';
-import type { Currency, InvoiceDetail } from '../../src/contracts/billing';
+import type { Currency, InvoiceDetail, ManualPaymentWrite } from '../../src/contracts/billing';
 import type { Config } from '../config';
 import type { Db } from '../db/knex';
 import { AppError, NotFoundError } from '../errors';
@@ -10,6 +10,7 @@ import type { Action } from '../policy/access-table';
 import { assertAllowed, assertRole, listGrant } from '../policy/enforce';
 import { invoicesRepository as invoices, toDetail, type InvoiceRow, type InvoiceScope } from './invoices-repository';
 import type { Payments } from './payments';
+import { doneWithKey, type InvoiceAct } from './invoice-act-keys';
 
 export interface BillingDeps {
   db: Db;
@@ -34,6 +35,18 @@ export interface BillingContext extends BillingDeps {
   detail(row: InvoiceRow): Promise<InvoiceDetail>;
   /** The invoice as the API shows it, reached for `action`. */
   reload(user: SessionUser, id: number, action: Action): Promise<InvoiceDetail>;
+  /**
+   * After an act found the invoice moved on meanwhile: the invoice when it was this same act with
+   * this key (sent twice at once), otherwise `refusal` is thrown.
+   */
+  sameActOr(
+    user: SessionUser,
+    id: number,
+    act: InvoiceAct,
+    key: string | undefined,
+    refusal: Error,
+    payment?: ManualPaymentWrite,
+  ): Promise<InvoiceDetail>;
   /** The provider, or 503 `payments_unavailable`. */
   needPayments(): Payments;
   /** Runs a provider call; its failures become a 502 the page can show. */
@@ -78,6 +91,11 @@ export function billingContext(deps: BillingDeps): BillingContext {
     loadRow,
     detail,
     reload: async (user, id, action) => detail(await loadRow(user, id, action)),
+    async sameActOr(user, id, act, key, refusal, payment) {
+      const row = await loadRow(user, id, 'invoice:read');
+      if (doneWithKey(row, act, key, payment)) return detail(row);
+      throw refusal;
+    },
     needPayments() {
       if (!payments) throw new AppError(503, 'payments_unavailable', 'Card payment is not set up for this clinic yet.');
       return payments;

@@ -59,11 +59,7 @@ export const LineBody = z.strictObject({
   taxRateBp: TaxRateBp.default(null),
 });
 
-/** The `Idempotency-Key` header of a new invoice: letters, digits, `-` and `_` (a UUID fits). */
-export const IdempotencyKey = z
-  .string()
-  .regex(/^[A-Za-z0-9_-]{8,64}$/, 'Idempotency-Key: 8 to 64 letters, digits, - or _.')
-  .optional();
+export { IdempotencyKey } from '../http/idempotency-key';
 
 export const InvoiceBody = z.strictObject({
   athleteId: z.number().int().positive(),

@@ -47,7 +47,8 @@ export function billingRoutes(billing: BillingService): Router {
     res.json({ prices: await billing.listPrices(currentUser(req), q.archived === 'true') });
   });
   router.post('/prices', permit('price:create'), async (req, res) => {
-    res.status(201).json(await billing.createPrice(currentUser(req), parse(PriceBody, req.body)));
+    const key = parse(IdempotencyKey, req.get('idempotency-key'), 'Header');
+    res.status(201).json(await billing.createPrice(currentUser(req), parse(PriceBody, req.body), key));
   });
   router.patch('/prices/:id', permit('price:update'), async (req, res) => {
     const priceId = id(req.params, 'Price');
@@ -78,18 +79,22 @@ export function billingRoutes(billing: BillingService): Router {
     res.status(204).end();
   });
   router.post('/invoices/:id/issue', permit('invoice:issue'), async (req, res) => {
-    res.json(await billing.issue(currentUser(req), id(req.params, 'Invoice')));
+    const invoiceId = id(req.params, 'Invoice');
+    res.json(await billing.issue(currentUser(req), invoiceId, parse(IdempotencyKey, req.get('idempotency-key'), 'Header')));
   });
   router.post('/invoices/:id/cancel', permit('invoice:cancel'), async (req, res) => {
-    res.json(await billing.cancel(currentUser(req), id(req.params, 'Invoice')));
+    const invoiceId = id(req.params, 'Invoice');
+    res.json(await billing.cancel(currentUser(req), invoiceId, parse(IdempotencyKey, req.get('idempotency-key'), 'Header')));
   });
   router.post('/invoices/:id/payments', permit('invoice:record-payment'), async (req, res) => {
     const invoiceId = id(req.params, 'Invoice');
-    res.json(await billing.recordPayment(currentUser(req), invoiceId, parse(ManualPaymentBody, req.body)));
+    const key = parse(IdempotencyKey, req.get('idempotency-key'), 'Header');
+    res.json(await billing.recordPayment(currentUser(req), invoiceId, parse(ManualPaymentBody, req.body), key));
   });
   router.post('/invoices/:id/refund', permit('invoice:refund'), async (req, res) => {
     const invoiceId = id(req.params, 'Invoice');
-    res.json(await billing.refund(currentUser(req), invoiceId, parse(RefundBody, req.body ?? {}).note));
+    const key = parse(IdempotencyKey, req.get('idempotency-key'), 'Header');
+    res.json(await billing.refund(currentUser(req), invoiceId, parse(RefundBody, req.body ?? {}).note, key));
   });
   router.post('/invoices/:id/checkout', permit('invoice:pay'), async (req, res) => {
     res.json(await billing.startCheckout(currentUser(req), id(req.params, 'Invoice')));

@@ -3,6 +3,7 @@ import type { CheckoutStart, InvoiceDetail, ManualPaymentWrite } from '../../src
 import { AppError, ConflictError, ValidationError } from '../errors';
 import type { BillingContext } from './billing-context';
 import type { BillingMail } from './billing-mail';
+import { doneWithKey } from './invoice-act-keys';
 import { changedMeanwhile } from './invoice-drafts';
 import { invoicesRepository as invoices } from './invoices-repository';
 
@@ -11,15 +12,16 @@ export interface InvoicePaymentsService {
   /**
    * issued → paid by a bank transfer or cash the clinic received, recorded by the owner (no
    * payment service): the day the money arrived (not in the future, not before the invoice was
-   * issued) and a note. The athlete is e-mailed that it was received.
+   * issued) and a note. The athlete is e-mailed that it was received. With `key` (the client's
+   * `Idempotency-Key`), the same payment sent again answers the invoice; the same key with other details 422.
    */
-  recordPayment(user: SessionUser, id: number, w: ManualPaymentWrite): Promise<InvoiceDetail>;
+  recordPayment(user: SessionUser, id: number, w: ManualPaymentWrite, key?: string): Promise<InvoiceDetail>;
   /**
    * paid → refunded. A card payment goes back through the provider (its refund event then finds
    * it done); a recorded bank transfer or cash payment is refunded by the clinic itself, so the
    * refund is only recorded here, with an optional note.
    */
-  refund(user: SessionUser, id: number, note?: string): Promise<InvoiceDetail>;
+  refund(user: SessionUser, id: number, note?: string, key?: string): Promise<InvoiceDetail>;
   /** The athlete's own issued invoice → a payment page URL. Anything but `issued` is refused. */
   startCheckout(user: SessionUser, id: number): Promise<CheckoutStart>;
 }
@@ -27,8 +29,9 @@ export interface InvoicePaymentsService {
 export function invoicePaymentsService(ctx: BillingContext, mail: BillingMail): InvoicePaymentsService {
   const { db } = ctx;
   return {
-    async recordPayment(user, id, w) {
+    async recordPayment(user, id, w, key) {
       const row = await ctx.loadRow(user, id, 'invoice:record-payment');
+      if (doneWithKey(row, 'payment', key, w)) return ctx.reload(user, id, 'invoice:read');
       if (row.status !== 'issued')
         throw new ConflictError(`Only an issued invoice can be marked paid; this one is ${row.status}.`, 'invalid_transition');
       const today = ctx.now().slice(0, 10);
@@ -51,15 +54,18 @@ export function invoicePaymentsService(ctx: BillingContext, mail: BillingMail): 
         payment_recorded_by: user.id,
         checkout_state: 'none' as const,
         updated_at: at,
+        payment_key: key ?? null,
       };
       // A card payment page opened earlier can no longer go through: only `issued` invoices are paid by the webhook.
-      if (!(await invoices.transition(db, row.id, ['issued'], patch))) throw changedMeanwhile();
+      if (!(await invoices.transition(db, row.id, ['issued'], patch)))
+        return ctx.sameActOr(user, id, 'payment', key, changedMeanwhile(), w);
       await mail.paymentRecorded(row, w.method);
       return ctx.reload(user, id, 'invoice:read');
     },
 
-    async refund(user, id, note) {
+    async refund(user, id, note, key) {
       const row = await ctx.loadRow(user, id, 'invoice:refund');
+      if (doneWithKey(row, 'refund', key)) return ctx.reload(user, id, 'invoice:read');
       if (row.status !== 'paid')
         throw new ConflictError(`Only a paid invoice can be refunded; this one is ${row.status}.`, 'invalid_transition');
       const at = ctx.now();
@@ -69,8 +75,9 @@ export function invoicePaymentsService(ctx: BillingContext, mail: BillingMail): 
           refunded_at: at,
           refund_note: note || null,
           updated_at: at,
+          refund_key: key ?? null,
         });
-        if (!refunded) throw changedMeanwhile();
+        if (!refunded) return ctx.sameActOr(user, id, 'refund', key, changedMeanwhile());
         return ctx.reload(user, id, 'invoice:read');
       }
       if (!row.payment_intent_id) throw new ConflictError('This payment has no card payment to refund.', 'invalid_transition');
@@ -84,8 +91,10 @@ export function invoicePaymentsService(ctx: BillingContext, mail: BillingMail): 
           refund_id: result.id,
           refund_note: note || null,
           updated_at: at,
+          refund_key: key ?? null,
         });
-      else await invoices.update(db, row.id, { refund_id: result.id, updated_at: at });
+      // Pending at the provider: the key is kept so a retry answers this refund (the provider's own key already keeps it one).
+      else await invoices.update(db, row.id, { refund_id: result.id, updated_at: at, refund_key: key ?? null });
       return ctx.reload(user, id, 'invoice:read');
     },
 

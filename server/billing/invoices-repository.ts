@@ -18,6 +18,11 @@ export interface InvoiceRow {
   clinic_id: number;
   /** The `Idempotency-Key` the invoice was made with (unique per clinic), or null. */
   create_key?: string | null;
+  /** The `Idempotency-Key` of the act that issued, marked paid, cancelled or refunded it (see invoice-act-keys). */
+  issue_key?: string | null;
+  payment_key?: string | null;
+  cancel_key?: string | null;
+  refund_key?: string | null;
   athlete_id: number;
   assessment_id: number | null;
   number: string | null;

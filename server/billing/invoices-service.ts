@@ -5,6 +5,7 @@ import { AppError, ConflictError } from '../errors';
 import { assertRole } from '../policy/enforce';
 import type { BillingContext } from './billing-context';
 import type { BillingMail } from './billing-mail';
+import { doneWithKey } from './invoice-act-keys';
 import { changedMeanwhile, checkReferences, lineRows, notDraftAnymore, requireDraft } from './invoice-drafts';
 import { invoicesRepository as invoices, toSummary, type InvoiceRow } from './invoices-repository';
 import { renderReceipt } from './receipt-pdf';
@@ -30,11 +31,12 @@ export interface InvoicesService {
   remove(user: SessionUser, id: number): Promise<void>;
   /**
    * draft → issued: gives the invoice its number and e-mails the athlete a link to it — or, when
-   * they have no account yet, how to get access instead of a link they cannot use.
+   * they have no account yet, how to get access instead of a link they cannot use. With `key` (the
+   * client's `Idempotency-Key`), the same act sent again answers the invoice (no second number or e-mail).
    */
-  issue(user: SessionUser, id: number): Promise<InvoiceDetail>;
+  issue(user: SessionUser, id: number, key?: string): Promise<InvoiceDetail>;
   /** draft/issued → cancelled. A paid invoice is refunded instead. */
-  cancel(user: SessionUser, id: number): Promise<InvoiceDetail>;
+  cancel(user: SessionUser, id: number, key?: string): Promise<InvoiceDetail>;
   /** The receipt PDF of a paid (or since refunded) invoice. */
   receipt(user: SessionUser, id: number): Promise<{ pdf: Buffer; filename: string }>;
 }
@@ -144,29 +146,39 @@ export function invoicesService(ctx: BillingContext, mail: BillingMail): Invoice
       if (!(await db.transaction((trx) => invoices.deleteDraft(trx, id)))) throw notDraftAnymore();
     },
 
-    async issue(user, id) {
+    async issue(user, id, key) {
       const row = await ctx.loadRow(user, id, 'invoice:issue');
+      if (doneWithKey(row, 'issue', key)) return ctx.reload(user, id, 'invoice:read');
       if (row.status !== 'draft')
         throw new ConflictError(`Only a draft can be issued; this invoice is ${row.status}.`, 'invalid_transition');
       const at = ctx.now();
       const number = await db.transaction(async (trx) => {
         const n = await invoices.nextNumber(trx, user.clinicId, ctx.clock().getUTCFullYear());
-        if (!(await invoices.transition(trx, id, ['draft'], { status: 'issued', number: n, issued_at: at, updated_at: at }))) {
-          throw changedMeanwhile();
-        }
+        const patch = { status: 'issued' as const, number: n, issued_at: at, updated_at: at, issue_key: key ?? null };
+        if (!(await invoices.transition(trx, id, ['draft'], patch))) return null;
         return n;
       });
+      // Issued meanwhile: by this same act sent twice at once (its answer), or by another (409).
+      if (number === null) return ctx.sameActOr(user, id, 'issue', key, changedMeanwhile());
       await mail.invoiceIssued(row, number);
       return ctx.reload(user, id, 'invoice:read');
     },
 
-    async cancel(user, id) {
+    async cancel(user, id, key) {
       const row = await ctx.loadRow(user, id, 'invoice:cancel');
+      if (doneWithKey(row, 'cancel', key)) return ctx.reload(user, id, 'invoice:read');
       const at = ctx.now();
-      if (!(await invoices.transition(db, row.id, ['draft', 'issued'], { status: 'cancelled', cancelled_at: at, updated_at: at }))) {
-        throw new ConflictError(
-          `Only a draft or issued invoice can be cancelled; this one is ${row.status}${row.status === 'paid' ? ' (refund it instead)' : ''}.`,
-          'invalid_transition',
+      const patch = { status: 'cancelled' as const, cancelled_at: at, updated_at: at, cancel_key: key ?? null };
+      if (!(await invoices.transition(db, row.id, ['draft', 'issued'], patch))) {
+        return ctx.sameActOr(
+          user,
+          id,
+          'cancel',
+          key,
+          new ConflictError(
+            `Only a draft or issued invoice can be cancelled; this one is ${row.status}${row.status === 'paid' ? ' (refund it instead)' : ''}.`,
+            'invalid_transition',
+          ),
         );
       }
       return ctx.reload(user, id, 'invoice:read');

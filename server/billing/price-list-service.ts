@@ -1,3 +1,5 @@
+import type { Knex } from 'knex';
+import { createOnce } from '../db/create-once';
 import type { SessionUser } from '../../src/contracts/api';
 import type { BillingSettings, Price, PriceWrite } from '../../src/contracts/billing';
 import { ConflictError, NotFoundError } from '../errors';
@@ -11,7 +13,8 @@ export interface PriceListService {
   /** Changes the clinic's currency; refused once an invoice exists (its amounts are in the old one). */
   putSettings(user: SessionUser, s: BillingSettings): Promise<BillingSettings>;
   listPrices(user: SessionUser, includeArchived: boolean): Promise<Price[]>;
-  createPrice(user: SessionUser, w: PriceWrite): Promise<Price>;
+  /** A new price; with `key` (the client's `Idempotency-Key`), the same price sent again answers the one it made. */
+  createPrice(user: SessionUser, w: PriceWrite, key?: string): Promise<Price>;
   updatePrice(user: SessionUser, id: number, w: Partial<PriceWrite>): Promise<Price>;
   /** Removes a price from the list; invoices that used it keep their lines. */
   archivePrice(user: SessionUser, id: number): Promise<void>;
@@ -42,10 +45,12 @@ export function priceListService(ctx: BillingContext): PriceListService {
       return (await prices.list(db, user.clinicId, includeArchived)).map(toPrice);
     },
 
-    async createPrice(user, w) {
+    async createPrice(user, w, key) {
       assertRole(user, 'price:create');
       const { currency } = await ctx.clinicOf(user.clinicId);
-      const id = await prices.insert(db, user.clinicId, currency, w, ctx.now());
+      const at = ctx.now();
+      const create = (trx: Knex) => prices.insert(trx, user.clinicId, currency, w, at);
+      const id = await createOnce(db, { clinicId: user.clinicId, kind: 'price', key, request: w, at, create });
       return toPrice((await prices.find(db, user.clinicId, id))!);
     },
 

@@ -1,6 +1,8 @@
 import type { SessionUser } from '../../src/contracts/api';
 import type { Exercise } from '../../src/contracts/plans';
 import type { Db } from '../db/knex';
+import type { Knex } from 'knex';
+import { createOnce } from '../db/create-once';
 import { ConflictError, NotFoundError } from '../errors';
 import { audit } from '../audit/audit-log';
 import { doseColumns, exercisesRepository as repo, type ExerciseRow } from './exercises-repository';
@@ -16,8 +18,8 @@ export function exercisesService({ db, clock }: { db: Db; clock: () => Date }) {
     return row;
   }
 
-  async function checkNameFree(user: SessionUser, name: string, exceptId?: number): Promise<void> {
-    const other = await repo.findByName(db, user.clinicId, name);
+  async function checkNameFree(user: SessionUser, name: string, exceptId?: number, conn: Knex = db): Promise<void> {
+    const other = await repo.findByName(conn, user.clinicId, name);
     if (other && other.id !== exceptId)
       throw new ConflictError(`The library already has an exercise called “${other.name}”.`, 'exercise_name_taken');
   }
@@ -31,27 +33,35 @@ export function exercisesService({ db, clock }: { db: Db; clock: () => Date }) {
       return repo.toApi(await accessible(user, id));
     },
 
-    async create(user: SessionUser, input: ExerciseInput): Promise<Exercise> {
-      await checkNameFree(user, input.name);
+    async create(user: SessionUser, input: ExerciseInput, key?: string): Promise<Exercise> {
       const at = now();
-      const id = await db.transaction(async (trx) => {
-        const newId = await repo.insert(trx, {
-          clinic_id: user.clinicId,
-          name: input.name,
-          purpose: input.purpose,
-          region: input.region,
-          kind: input.kind,
-          ...doseColumns(input.dose),
-          instructions: JSON.stringify(input.instructions),
-          cautions: input.cautions,
-          source: input.source ?? '',
-          archived: false,
-          created_by: user.id,
-          created_at: at,
-          updated_at: at,
-        });
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, action: 'exercise.created', detail: { exerciseId: newId } }, at);
-        return newId;
+      // With a key, a resend of the exercise it made answers that one (not 409 `exercise_name_taken`).
+      const id = await createOnce(db, {
+        clinicId: user.clinicId,
+        kind: 'exercise',
+        key,
+        request: input,
+        at,
+        create: async (trx) => {
+          await checkNameFree(user, input.name, undefined, trx);
+          const newId = await repo.insert(trx, {
+            clinic_id: user.clinicId,
+            name: input.name,
+            purpose: input.purpose,
+            region: input.region,
+            kind: input.kind,
+            ...doseColumns(input.dose),
+            instructions: JSON.stringify(input.instructions),
+            cautions: input.cautions,
+            source: input.source ?? '',
+            archived: false,
+            created_by: user.id,
+            created_at: at,
+            updated_at: at,
+          });
+          await audit(trx, { clinicId: user.clinicId, actorId: user.id, action: 'exercise.created', detail: { exerciseId: newId } }, at);
+          return newId;
+        },
       });
       return this.get(user, id);
     },

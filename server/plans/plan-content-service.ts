@@ -1,6 +1,7 @@
 import type { SessionUser } from '../../src/contracts/api';
 import type { PlanDetail, PlanSummary } from '../../src/contracts/plans';
 import { audit } from '../audit/audit-log';
+import { createOnce } from '../db/create-once';
 import { AppError, ConflictError, ValidationError } from '../errors';
 import { accessibleAthlete } from '../policy/athlete-resources';
 import { listGrant } from '../policy/enforce';
@@ -14,8 +15,11 @@ export interface PlanContentService {
   /** The athlete's plans, newest first (an athlete sees no drafts). */
   list(user: SessionUser, athleteId: number): Promise<PlanSummary[]>;
   get(user: SessionUser, id: number): Promise<PlanDetail>;
-  /** A draft with its stages, exercises, doses and criteria, in one transaction. */
-  create(user: SessionUser, athleteId: number, input: PlanInput): Promise<PlanDetail>;
+  /**
+   * A draft with its stages, exercises, doses and criteria, in one transaction. With `key` (the client's
+   * `Idempotency-Key`), the same plan sent again answers the draft it made (no second plan).
+   */
+  create(user: SessionUser, athleteId: number, input: PlanInput, key?: string): Promise<PlanDetail>;
   /**
    * Replaces title, link, notes and stages. Stages with logs (or the current one) must stay, and
    * stages that have started stay first in their order (409 `started_stage_moved`). 409
@@ -38,7 +42,7 @@ export function planContentService(ctx: PlanContext): PlanContentService {
 
     get: (user, id) => ctx.get(user, id),
 
-    async create(user, athleteId, input) {
+    async create(user, athleteId, input, key) {
       await accessibleAthlete(db, user, athleteId, 'plan:create');
       await checkAssessment(db, user.clinicId, athleteId, input.assessmentId);
       if (input.stages.some((s) => s.id !== undefined)) {
@@ -51,26 +55,34 @@ export function planContentService(ctx: PlanContext): PlanContentService {
       if (idProblems.length) throw new ValidationError(`Stages: ${idProblems[0]!.message}`, idProblems);
       await checkExercises(db, user.clinicId, input, new Set());
       const at = ctx.now();
-      const id = await db.transaction(async (trx) => {
-        const planId = await repo.insert(trx, {
-          clinic_id: user.clinicId,
-          athlete_id: athleteId,
-          assessment_id: input.assessmentId,
-          title: input.title,
-          status: 'draft',
-          current_stage_id: null,
-          notes: input.notes,
-          started_at: null,
-          finished_at: null,
-          created_by: user.id,
-          created_at: at,
-          updated_at: at,
-          revision: 0,
-        });
-        await writeStages(trx, user.clinicId, planId, input, [], [], at);
-        await repo.putRule(trx, user.clinicId, planId, repo.ruleDefault(), user.id, at);
-        await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId, action: 'plan.created', detail: { planId } }, at);
-        return planId;
+      const request = { athleteId, ...input };
+      const id = await createOnce(db, {
+        clinicId: user.clinicId,
+        kind: 'plan',
+        key,
+        request,
+        at,
+        create: async (trx) => {
+          const planId = await repo.insert(trx, {
+            clinic_id: user.clinicId,
+            athlete_id: athleteId,
+            assessment_id: input.assessmentId,
+            title: input.title,
+            status: 'draft',
+            current_stage_id: null,
+            notes: input.notes,
+            started_at: null,
+            finished_at: null,
+            created_by: user.id,
+            created_at: at,
+            updated_at: at,
+            revision: 0,
+          });
+          await writeStages(trx, user.clinicId, planId, input, [], [], at);
+          await repo.putRule(trx, user.clinicId, planId, repo.ruleDefault(), user.id, at);
+          await audit(trx, { clinicId: user.clinicId, actorId: user.id, athleteId, action: 'plan.created', detail: { planId } }, at);
+          return planId;
+        },
       });
       return ctx.get(user, id);
     },

@@ -1,3 +1,4 @@
+import { idempotencyKey } from '../http/idempotency-key';
 import { Router } from 'express';
 import { currentUser } from '../http/access';
 import { permit } from '../policy/enforce';
@@ -27,7 +28,7 @@ export function plansRoutes({ exercises, plans }: { exercises: ExercisesService;
     res.json({ exercises: await exercises.list(currentUser(req), query) });
   });
   router.post('/exercises', permit('exercise:create'), async (req, res) => {
-    res.status(201).json(await exercises.create(currentUser(req), parse(ExerciseBody, req.body)));
+    res.status(201).json(await exercises.create(currentUser(req), parse(ExerciseBody, req.body), idempotencyKey(req)));
   });
   router.get('/exercises/:id', permit('exercise:read'), async (req, res) => {
     res.json(await exercises.get(currentUser(req), id(req.params, 'Exercise')));
@@ -47,7 +48,7 @@ export function plansRoutes({ exercises, plans }: { exercises: ExercisesService;
   });
   router.post('/athletes/:id/plans', permit('plan:create'), async (req, res) => {
     const athleteId = id(req.params, 'Athlete');
-    res.status(201).json(await plans.create(currentUser(req), athleteId, parse(PlanBody, req.body)));
+    res.status(201).json(await plans.create(currentUser(req), athleteId, parse(PlanBody, req.body), idempotencyKey(req)));
   });
   router.get('/plans/:id', permit('plan:read'), async (req, res) => {
     res.json(await plans.get(currentUser(req), id(req.params, 'Plan')));

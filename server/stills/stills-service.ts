@@ -10,6 +10,7 @@ import type { Action } from '../policy/access-table';
 import { accessibleAthlete } from '../policy/athlete-resources';
 import { listGrant, throughSelfGrant } from '../policy/enforce';
 import type { Processing } from '../processing/processing';
+import { renderOnce } from '../processing/render-once';
 import { clipKeys } from '../storage/media-keys';
 import type { MediaStore } from '../storage/media-store';
 import { readSmall } from '../storage/stored-objects';
@@ -169,39 +170,50 @@ export function stillsService(d: StillsDeps): StillsService {
         panels.unshift(await panelOf(other, body.pairWith.frameIndex, 'pairWith.frameIndex'));
       }
       const at = now();
-      let id = 0;
-      await db.transaction(async (trx) => {
-        id = await repo.insert(trx, {
-          clinic_id: user.clinicId,
-          athlete_id: clip.athlete_id,
-          assessment_id: clip.assessment_id,
-          clip_id: clip.id,
-          kind: panels.length > 1 ? 'pair' : 'frame',
-          panels: JSON.stringify(panels),
-          caption: body.caption.trim(),
-          show_angles: body.showAngles,
-          status: 'rendering',
-          error: null,
-          width: null,
-          height: null,
-          layout: null,
-          labels: null,
-          render_version: 1,
-          published_at: null,
-          published_by: null,
-          created_by: user.id,
-          created_at: at,
-          updated_at: at,
+      // Identical: the same clip and frame(s) with the same marks frozen (`panels`), caption and angles, a new still
+      // not yet rendered; asked for again then (a double click, a retry) it is that still, not a second render.
+      const same = {
+        clinic_id: user.clinicId,
+        clip_id: clip.id,
+        kind: panels.length > 1 ? 'pair' : 'frame',
+        panels: JSON.stringify(panels),
+        caption: body.caption.trim(),
+        show_angles: body.showAngles,
+        render_version: 1,
+      };
+      const { id, made } = await renderOnce(db, processing, {
+        table: 'stills',
+        lock: (trx) => trx('clips').where({ id: clip.id }).select('id'),
+        same,
+        kind: RENDER_STILL,
+        scope: { clinicId: user.clinicId, athleteId: clip.athlete_id },
+        insert: (trx) =>
+          repo.insert(trx, {
+            ...same,
+            kind: same.kind as 'pair' | 'frame',
+            athlete_id: clip.athlete_id,
+            assessment_id: clip.assessment_id,
+            status: 'rendering',
+            error: null,
+            width: null,
+            height: null,
+            layout: null,
+            labels: null,
+            published_at: null,
+            published_by: null,
+            created_by: user.id,
+            created_at: at,
+            updated_at: at,
+          }),
+      });
+      if (made)
+        await audit(db, {
+          clinicId: user.clinicId,
+          actorId: user.id,
+          athleteId: clip.athlete_id,
+          action: 'still.created',
+          detail: { stillId: id, clipId },
         });
-        await processing.enqueue(trx, RENDER_STILL, id, { clinicId: user.clinicId, athleteId: clip.athlete_id });
-      });
-      await audit(db, {
-        clinicId: user.clinicId,
-        actorId: user.id,
-        athleteId: clip.athlete_id,
-        action: 'still.created',
-        detail: { stillId: id, clipId },
-      });
       return view(id);
     },
 

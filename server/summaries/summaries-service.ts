@@ -3,7 +3,6 @@ import type { SessionUser } from '../../src/contracts/api';
 import { ASSESSMENT_KIND_LABELS } from '../../src/contracts/assessment';
 import type { VisitSummary, VisitSummaryCreate } from '../../src/contracts/sharing';
 import type { Db } from '../db/knex';
-import { lockedForUpdate } from '../db/dialect';
 import { AppError, ConflictError, NotFoundError } from '../errors';
 import { audit } from '../audit/audit-log';
 import type { Action } from '../policy/access-table';
@@ -11,6 +10,7 @@ import { accessibleAthlete } from '../policy/athlete-resources';
 import { listGrant, throughSelfGrant } from '../policy/enforce';
 import type { Mailer } from '../mail/mailer';
 import type { Processing } from '../processing/processing';
+import { renderOnce } from '../processing/render-once';
 import { accessibleShared, deleteShared, setPublication } from '../sharing/shared-items';
 import { summaryKey } from '../storage/media-keys';
 import type { MediaStore } from '../storage/media-store';
@@ -106,42 +106,35 @@ export function summariesService(d: SummariesDeps): SummariesService {
         ? `Re-test comparison: ${visitLabel(baseline)} and ${visitLabel(assessment)}`
         : `Visit summary: ${visitLabel(assessment)}`;
       const at = now();
-      let id = 0;
-      let made = false;
       const content = {
+        clinic_id: user.clinicId,
         assessment_id: assessment.id,
         baseline_assessment_id: baseline?.id ?? null,
         findings: body.findings.trim(),
         plan_text: body.planText.trim(),
         still_ids: JSON.stringify(body.stillIds),
       };
-      await db.transaction(async (trx) => {
-        // The same summary asked for again while it renders (a double click, a retry) is that one,
-        // not a second PDF: one request at a time per visit (PostgreSQL; SQLite has one writer).
-        await lockedForUpdate(trx, trx('assessments').where({ id: assessment.id }).select('id'));
-        const rendering = await trx<SummaryRow>('visit_summaries')
-          .where({ ...content, clinic_id: user.clinicId, status: 'rendering' })
-          .first('id');
-        if (rendering) {
-          id = rendering.id;
-          return;
-        }
-        made = true;
-        id = await repo.insert(trx, {
-          clinic_id: user.clinicId,
-          athlete_id: assessment.athlete_id,
-          title,
-          ...content,
-          status: 'rendering',
-          error: null,
-          page_count: null,
-          published_at: null,
-          published_by: null,
-          created_by: user.id,
-          created_at: at,
-          updated_at: at,
-        });
-        await processing.enqueue(trx, RENDER_SUMMARY, id, { clinicId: user.clinicId, athleteId: assessment.athlete_id });
+      // The same summary asked for again while it renders (a double click, a retry) is that one, not a second PDF.
+      const { id, made } = await renderOnce(db, processing, {
+        table: 'visit_summaries',
+        lock: (trx) => trx('assessments').where({ id: assessment.id }).select('id'),
+        same: content,
+        kind: RENDER_SUMMARY,
+        scope: { clinicId: user.clinicId, athleteId: assessment.athlete_id },
+        insert: (trx) =>
+          repo.insert(trx, {
+            athlete_id: assessment.athlete_id,
+            title,
+            ...content,
+            status: 'rendering',
+            error: null,
+            page_count: null,
+            published_at: null,
+            published_by: null,
+            created_by: user.id,
+            created_at: at,
+            updated_at: at,
+          }),
       });
       if (made)
         await audit(db, {

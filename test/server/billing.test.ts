@@ -659,6 +659,19 @@ describe('card payment through the fake payment service', () => {
     expect((await new PDFParse({ data: pdf.body as Buffer }).getText()).text).toMatch(/Refunded on .*78\.00 EUR/);
   });
 
+  it('a card refund sent twice at once and again with the same Idempotency-Key: one refund at the provider, each answer the invoice', async () => {
+    const inv = await paidInvoice();
+    const refund = () => o.send('post', `/api/invoices/${inv.id}/refund`, {}, { 'Idempotency-Key': 'card-refund-0001' });
+    const together = await Promise.all([refund(), refund()]);
+    expect(together.map((r) => r.status)).toEqual([200, 200]);
+    await t.fakePayments!.idle();
+    const retry = await refund();
+    expect(retry.status).toBe(200);
+    expect(retry.body.status).toBe('refunded');
+    expect(await t.db('payment_events').where({ invoice_id: inv.id, type: 'charge.refunded' })).toHaveLength(1);
+    expect((await o.send('post', `/api/invoices/${inv.id}/refund`, {}, { 'Idempotency-Key': 'card-refund-0002' })).status).toBe(409);
+  });
+
   it('without payment configuration, paying answers 503 and the webhook refuses', async () => {
     const off = await makeTestApp({ payments: null });
     try {

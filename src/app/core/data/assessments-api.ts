@@ -19,9 +19,11 @@ export class AssessmentsApi {
       .pipe(map((r) => r.assessments));
   }
 
-  create(athleteId: number, body: AssessmentWrite): Observable<Assessment> {
+  /** A new visit; `key` (see RetryKeys) makes a resend after a lost answer find the visit already made. */
+  create(athleteId: number, body: AssessmentWrite, key?: string): Observable<Assessment> {
     return this.http.post<Assessment>(`/api/athletes/${athleteId}/assessments`, body, {
       context: skipErrorSnackbar(422),
+      headers: key ? { 'Idempotency-Key': key } : {},
     });
   }
 

@@ -28,9 +28,11 @@ export class AthletesApi {
     return this.http.get<AthleteDetail>(`/api/athletes/${id}`, { context: skipErrorSnackbar() });
   }
 
-  create(body: AthleteCreate): Observable<AthleteDetail> {
+  /** A new athlete; `key` (see RetryKeys) makes a resend after a lost answer find the athlete already made. */
+  create(body: AthleteCreate, key?: string): Observable<AthleteDetail> {
     return this.http.post<AthleteDetail>('/api/athletes', body, {
       context: skipErrorSnackbar(422),
+      headers: key ? { 'Idempotency-Key': key } : {},
     });
   }
 

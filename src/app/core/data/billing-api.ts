@@ -36,8 +36,9 @@ export class BillingApi {
     return this.http.get<{ prices: Price[] }>('/api/prices', { context: skipErrorSnackbar() }).pipe(map((r) => r.prices));
   }
 
-  createPrice(body: PriceWrite): Observable<Price> {
-    return this.http.post<Price>('/api/prices', body, { context: skipErrorSnackbar(422) });
+  /** A new price; `key` (see RetryKeys) makes a resend after a lost answer find the price already made. */
+  createPrice(body: PriceWrite, key?: string): Observable<Price> {
+    return this.http.post<Price>('/api/prices', body, { context: skipErrorSnackbar(422), headers: keyHeader(key) });
   }
 
   updatePrice(id: number, body: Partial<PriceWrite>): Observable<Price> {
@@ -62,8 +63,7 @@ export class BillingApi {
 
   /** A new draft; `key` (one per form) makes a resend after a lost answer find the draft already made. */
   createInvoice(body: InvoiceWrite, key?: string): Observable<InvoiceDetail> {
-    const headers: Record<string, string> = key ? { 'Idempotency-Key': key } : {};
-    return this.http.post<InvoiceDetail>('/api/invoices', body, { context: skipErrorSnackbar(422), headers });
+    return this.http.post<InvoiceDetail>('/api/invoices', body, { context: skipErrorSnackbar(422), headers: keyHeader(key) });
   }
 
   /** Replaces a draft (409 once it was issued or cancelled; 422 shown inline by the form). */
@@ -76,14 +76,20 @@ export class BillingApi {
     return this.http.delete<void>(`/api/invoices/${id}`);
   }
 
-  /** `issue`, `cancel` or `refund` (a refund may carry a note); conflicts (409) come back with the server's reason. */
-  act(id: number, action: 'issue' | 'cancel' | 'refund', body: RefundWrite = {}): Observable<InvoiceDetail> {
-    return this.http.post<InvoiceDetail>(`/api/invoices/${id}/${action}`, body);
+  /**
+   * `issue`, `cancel` or `refund` (a refund may carry a note); conflicts (409) come back with the server's reason.
+   * `key` (one per act on the page) makes a resend after a lost answer find the act done instead of a 409.
+   */
+  act(id: number, action: 'issue' | 'cancel' | 'refund', body: RefundWrite = {}, key?: string): Observable<InvoiceDetail> {
+    return this.http.post<InvoiceDetail>(`/api/invoices/${id}/${action}`, body, { headers: keyHeader(key) });
   }
 
-  /** Records a bank transfer or cash payment (422 shown inline by the dialog; 409 by the snackbar). */
-  recordPayment(id: number, body: ManualPaymentWrite): Observable<InvoiceDetail> {
-    return this.http.post<InvoiceDetail>(`/api/invoices/${id}/payments`, body, { context: skipErrorSnackbar(422) });
+  /**
+   * Records a bank transfer or cash payment (422 shown inline by the dialog; 409 by the snackbar); `key`
+   * (one per dialog) makes a resend after a lost answer find the payment recorded, never a second one.
+   */
+  recordPayment(id: number, body: ManualPaymentWrite, key?: string): Observable<InvoiceDetail> {
+    return this.http.post<InvoiceDetail>(`/api/invoices/${id}/payments`, body, { context: skipErrorSnackbar(422), headers: keyHeader(key) });
   }
 
   /** Opens a payment page for the athlete's own issued invoice. */
@@ -95,4 +101,9 @@ export class BillingApi {
   receiptUrl(id: number): string {
     return `/api/invoices/${id}/receipt`;
   }
+}
+
+/** The `Idempotency-Key` header, when there is a key. */
+function keyHeader(key: string | undefined): Record<string, string> {
+  return key ? { 'Idempotency-Key': key } : {};
 }

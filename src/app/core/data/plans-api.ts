@@ -37,8 +37,10 @@ export class PlansApi {
       .pipe(map((r) => r.exercises));
   }
 
-  createExercise(body: ExerciseWrite): Observable<Exercise> {
-    return this.http.post<Exercise>('/api/exercises', body, { context: skipErrorSnackbar(422) });
+  /** A new library exercise; `key` (see RetryKeys) makes a resend after a lost answer find the exercise already made. */
+  createExercise(body: ExerciseWrite, key?: string): Observable<Exercise> {
+    const headers: Record<string, string> = key ? { 'Idempotency-Key': key } : {};
+    return this.http.post<Exercise>('/api/exercises', body, { context: skipErrorSnackbar(422), headers });
   }
 
   updateExercise(id: number, body: Partial<ExerciseWrite>): Observable<Exercise> {
@@ -56,8 +58,10 @@ export class PlansApi {
       .pipe(map((r) => r.plans));
   }
 
-  createPlan(athleteId: number, body: PlanWrite): Observable<PlanDetail> {
-    return this.http.post<PlanDetail>(`/api/athletes/${athleteId}/plans`, body, { context: skipErrorSnackbar(422) });
+  /** A new draft plan; `key` (see RetryKeys) makes a resend after a lost answer find the plan already made. */
+  createPlan(athleteId: number, body: PlanWrite, key?: string): Observable<PlanDetail> {
+    const headers: Record<string, string> = key ? { 'Idempotency-Key': key } : {};
+    return this.http.post<PlanDetail>(`/api/athletes/${athleteId}/plans`, body, { context: skipErrorSnackbar(422), headers });
   }
 
   plan(id: number): Observable<PlanDetail> {

@@ -93,6 +93,35 @@ describe('AssessmentDialog', () => {
     expect(close).toHaveBeenCalledWith(expect.objectContaining({ id: 31 }));
   });
 
+  it('saving again after the answer was lost sends the same Idempotency-Key (one visit is made); changed fields a new key', async () => {
+    open({ athleteId: 9, kind: 'baseline' });
+    /** The failed save has finished (the button is enabled again). */
+    const settled = async () => {
+      await new Promise((r) => setTimeout(r, 10));
+      fixture.detectChanges();
+    };
+    speedInput().value = '12';
+    speedInput().dispatchEvent(new Event('input'));
+    submit();
+    const first = backend.expectOne('/api/athletes/9/assessments');
+    const key = first.request.headers.get('Idempotency-Key');
+    expect(key).toMatch(/^[A-Za-z0-9_-]{8,64}$/);
+    first.error(new ProgressEvent('error'), { status: 0, statusText: 'Unknown Error' });
+    await settled();
+    submit();
+    const again = backend.expectOne('/api/athletes/9/assessments');
+    expect(again.request.headers.get('Idempotency-Key')).toBe(key);
+    again.error(new ProgressEvent('error'), { status: 0, statusText: 'Unknown Error' });
+    await settled();
+    form.controls.shoes.setValue('Racing flats');
+    submit();
+    const changed = backend.expectOne('/api/athletes/9/assessments');
+    expect(changed.request.headers.get('Idempotency-Key')).not.toBe(key);
+    changed.flush(saved({ kind: 'baseline' }), { status: 201, statusText: 'Created' });
+    await fixture.whenStable();
+    expect(close).toHaveBeenCalledTimes(1);
+  });
+
   it('explains a speed outside the accepted range in the chosen unit and sends nothing', async () => {
     open({ athleteId: 9, kind: 'baseline' });
     speedInput().value = '40';

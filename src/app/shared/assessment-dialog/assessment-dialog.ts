@@ -41,6 +41,7 @@ import {
   speedLimitsText,
   syncIncline,
 } from '../assessment-form-model';
+import { RetryKeys } from '../retry-keys';
 import { AssessmentsApi } from '../../core/data/assessments-api';
 
 /** What the dialog edits: a new assessment of `athleteId`, or `assessment`. */
@@ -96,6 +97,8 @@ export class AssessmentDialog {
   protected readonly pace = computed(() => isPaceUnit(this.unit()));
   protected readonly speedRange = computed(() => speedLimitsText(this.unit()));
   protected readonly treadmill = computed(() => this.value().surface === 'treadmill');
+  /** Adding the same visit again after a lost answer (or a second click) adds one. */
+  private readonly createKeys = new RetryKeys();
   protected readonly busy = signal(false);
   protected readonly problem = signal<string | null>(null);
 
@@ -133,7 +136,9 @@ export class AssessmentDialog {
     const body = formValueToWrite(this.form.getRawValue());
     const existing = this.data.assessment;
     try {
-      const saved = await firstValueFrom(existing ? this.api.update(existing.id, body) : this.api.create(this.data.athleteId, body));
+      const saved = await firstValueFrom(
+        existing ? this.api.update(existing.id, body) : this.api.create(this.data.athleteId, body, this.createKeys.for(body)),
+      );
       this.dialogRef.close(saved);
     } catch (err) {
       if (errorStatus(err) === 422) {

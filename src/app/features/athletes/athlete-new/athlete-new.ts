@@ -19,6 +19,7 @@ import { errorText } from '../../../shared/forms/error-text';
 import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { notFutureDate } from '../../../shared/forms/validators';
 import { athleteIdentityControls, identityPayload } from '../athlete-form-fields';
+import { RetryKeys } from '../../../shared/retry-keys';
 import { AthletesApi } from '../../../core/data/athletes-api';
 
 /** `/athletes/new`: adds an athlete to the roster and opens their profile. */
@@ -58,6 +59,8 @@ export class AthleteNew {
   protected readonly busy = signal(false);
   protected readonly problem = signal<string | null>(null);
   protected readonly errorText = errorText;
+  /** Saving the same athlete again after a lost answer (or a second click) makes one. */
+  private readonly keys = new RetryKeys();
 
   constructor() {
     // A coach adding an athlete is usually their coach: preselect them when they are listed.
@@ -83,7 +86,8 @@ export class AthleteNew {
     this.problem.set(null);
     const value = this.form.getRawValue();
     try {
-      const created = await firstValueFrom(this.api.create({ ...identityPayload(value), dateOfBirth: toIsoDate(value.dateOfBirth) }));
+      const body = { ...identityPayload(value), dateOfBirth: toIsoDate(value.dateOfBirth) };
+      const created = await firstValueFrom(this.api.create(body, this.keys.for(body)));
       this.snackBar.open(`${created.firstName} ${created.lastName} added to the roster`, 'OK', {
         duration: 4000,
       });

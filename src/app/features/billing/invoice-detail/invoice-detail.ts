@@ -21,6 +21,7 @@ import { InvoiceLinesTable } from '../invoice-lines-table/invoice-lines-table';
 import { InvoiceStatusBadge } from '../invoice-status/invoice-status';
 import { InvoiceSeller } from '../invoice-seller/invoice-seller';
 import { PaymentDialog, type PaymentDialogData } from '../payment-dialog/payment-dialog';
+import { newLogKey } from '../../../shared/plan-words';
 import { PAYMENT_METHOD_WORDS, money, paidText } from '../../../shared/billing-words';
 
 type Action = 'issue' | 'cancel' | 'refund';
@@ -85,6 +86,8 @@ export class InvoiceDetailPage {
     params: () => (this.invoice.hasValue() ? this.invoice.value().athleteId : undefined),
     stream: ({ params }) => this.athletesApi.get(params),
   });
+  /** One key per act on an invoice: doing it again after a lost answer finds it done (an act happens once). */
+  private readonly actKeys = new Map<string, string>();
   protected readonly busy = signal(false);
   protected readonly receiptUrl = computed(() => this.api.receiptUrl(Number(this.id())));
   protected readonly errorMessage = errorMessage;
@@ -102,7 +105,10 @@ export class InvoiceDetailPage {
         if (!ok) return;
         this.busy.set(true);
         try {
-          const updated = await firstValueFrom(this.api.act(inv.id, action));
+          const keyOf = `${inv.id}:${action}`;
+          const key = this.actKeys.get(keyOf) ?? newLogKey();
+          this.actKeys.set(keyOf, key);
+          const updated = await firstValueFrom(this.api.act(inv.id, action, {}, key));
           this.invoice.set(updated);
           const done = {
             issue: `Issued as ${updated.number}; the athlete was e-mailed`,

@@ -5,39 +5,19 @@ import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
 import type { InvoiceDetail } from '../../../../contracts/billing';
 import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
 import { PaymentDialog, type PaymentDialogData } from './payment-dialog';
+import { DRAFT_INVOICE } from '../../../shared/testing/billing-fixtures';
 
 const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 /** Re-test 65.00 at 20 % = 78.00 EUR, issued. */
-const ISSUED = {
+const ISSUED: InvoiceDetail = {
+  ...DRAFT_INVOICE,
   id: 7,
   number: 'TF-2026-0003',
   status: 'issued',
   athleteId: 1,
-  athleteName: 'Ada Kestrel',
-  currency: 'EUR',
-  totalMinor: 7800,
-  dueDate: '2026-12-31',
   issuedAt: '2026-12-01T10:00:00Z',
-  paidAt: null,
-  createdAt: '2026-12-01T09:00:00Z',
-  assessmentId: null,
-  assessment: null,
-  note: null,
-  clinicName: 'Larchwood Running Clinic',
-  subtotalMinor: 6500,
-  taxMinor: 1300,
-  cancelledAt: null,
-  refundedAt: null,
-  checkoutState: 'none',
-  paymentMethod: null,
-  paidOn: null,
-  paymentNote: null,
-  refundNote: null,
-  clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
-  clinicLogoUrl: null,
-  lines: [],
-} as InvoiceDetail;
+};
 
 describe('PaymentDialog', () => {
   let fixture: ComponentFixture<PaymentDialog>;
@@ -122,4 +102,30 @@ describe('PaymentDialog', () => {
     await fixture.whenStable();
     expect(closed).toHaveLength(1);
   });
+
+  for (const [mode, url, label] of [
+    ['record', '/api/invoices/7/payments', 'Mark as paid'],
+    ['refund', '/api/invoices/7/refund', 'Record refund'],
+  ] as const) {
+    it(`${mode}: saving again after the answer was lost sends the same Idempotency-Key (the server answers the act it did, never a second one)`, async () => {
+      await open({ invoice: mode === 'record' ? ISSUED : { ...ISSUED, status: 'paid', paymentMethod: 'cash' }, mode });
+      button(label).click();
+      await wait(0);
+      const first = backend.expectOne(url);
+      const key = first.request.headers.get('Idempotency-Key');
+      expect(key).toMatch(/^[A-Za-z0-9_-]{8,64}$/);
+      first.error(new ProgressEvent('error'), { status: 0, statusText: 'Unknown Error' });
+      await wait(10);
+      fixture.detectChanges();
+      await fixture.whenStable();
+      expect(closed).toEqual([]);
+      button(label).click();
+      await wait(0);
+      const again = backend.expectOne(url);
+      expect(again.request.headers.get('Idempotency-Key')).toBe(key);
+      again.flush({ ...ISSUED, status: mode === 'record' ? 'paid' : 'refunded' });
+      await fixture.whenStable();
+      expect(closed).toHaveLength(1);
+    });
+  }
 });

@@ -15,6 +15,7 @@ import { errorText } from '../../../shared/forms/error-text';
 import { saveProblem } from '../../../shared/forms/server-errors';
 import { BillingApi } from '../../../core/data/billing-api';
 import { money } from '../../../shared/billing-words';
+import { newLogKey } from '../../../shared/plan-words';
 
 /** What the dialog does: record a received payment, or a refund of one (with a note). */
 export interface PaymentDialogData {
@@ -145,6 +146,8 @@ export class PaymentDialog {
     paidOn: this.fb.control<Date | null>(this.today, Validators.required),
     note: this.fb.control('', Validators.maxLength(PAYMENT_NOTE_MAX)),
   });
+  /** One key per dialog: saving again after a lost answer is the same payment or refund, never a second. */
+  private readonly key = newLogKey();
   protected readonly busy = signal(false);
   protected readonly problem = signal<string | null>(null);
   protected readonly money = money;
@@ -163,8 +166,8 @@ export class PaymentDialog {
     try {
       const updated = await firstValueFrom(
         record
-          ? this.api.recordPayment(this.data.invoice.id, { method: v.method, paidOn: toIsoDate(v.paidOn)!, note: v.note.trim() })
-          : this.api.act(this.data.invoice.id, 'refund', { note: v.note.trim() }),
+          ? this.api.recordPayment(this.data.invoice.id, { method: v.method, paidOn: toIsoDate(v.paidOn)!, note: v.note.trim() }, this.key)
+          : this.api.act(this.data.invoice.id, 'refund', { note: v.note.trim() }, this.key),
       );
       this.ref.close(updated);
     } catch (err) {

@@ -85,6 +85,33 @@ describe('PriceList', () => {
     expect(element.textContent).toContain('12.50 EUR');
   });
 
+  it('adding again after the answer was lost sends the same Idempotency-Key (one price is made); the next new price gets its own', async () => {
+    backend.expectOne('/api/prices').flush({ prices: [] });
+    backend.expectOne('/api/billing/settings').flush({ currency: 'EUR' });
+    await settle();
+    const add = async () => {
+      typeInto(element, 'item', 'Short review');
+      typeInto(element, 'amount', '12,50');
+      await settle();
+      buttonWithText(element, 'Add price').click();
+      return backend.expectOne('/api/prices');
+    };
+    const first = await add();
+    const key = first.request.headers.get('Idempotency-Key');
+    expect(key).toMatch(/^[A-Za-z0-9_-]{8,64}$/);
+    first.error(new ProgressEvent('error'), { status: 0, statusText: 'Unknown Error' });
+    await settle();
+    buttonWithText(element, 'Add price').click();
+    const again = backend.expectOne('/api/prices');
+    expect(again.request.headers.get('Idempotency-Key')).toBe(key);
+    again.flush({ ...GAIT_PRICE, id: 2, item: 'Short review', amountMinor: 1250, taxRateBp: null });
+    await settle();
+    const next = await add();
+    expect(next.request.headers.get('Idempotency-Key')).not.toBe(key);
+    next.flush({ ...GAIT_PRICE, id: 3, item: 'Short review', amountMinor: 1250, taxRateBp: null });
+    await settle();
+  });
+
   it('is guarded against leaving with unsaved work', async () => {
     backend.expectOne('/api/prices').flush({ prices: [] });
     backend.expectOne('/api/billing/settings').flush({ currency: 'EUR' });

@@ -22,6 +22,7 @@ import { requiredTrimmed } from '../../../shared/forms/validators';
 import { ErrorState } from '../../../shared/states/error-state';
 import { BillingApi } from '../../../core/data/billing-api';
 import { amountText, money, parseAmount, parseTaxPercent, taxText } from '../../../shared/billing-words';
+import { RetryKeys } from '../../../shared/retry-keys';
 import { CurrencySetting } from '../currency-setting/currency-setting';
 
 /** An amount with at most two decimals, more than zero. */
@@ -81,6 +82,8 @@ export class PriceList implements LeaveGuarded {
   /** The price being edited, or null when adding. */
   protected readonly editing = signal<Price | null>(null);
   protected readonly saving = signal(false);
+  /** Adding the same price again after a lost answer (or a second click) adds one. */
+  private readonly createKeys = new RetryKeys();
   protected readonly problem = signal<string | null>(null);
   protected readonly errorText = errorText;
   protected readonly errorMessage = errorMessage;
@@ -141,7 +144,10 @@ export class PriceList implements LeaveGuarded {
     this.problem.set(null);
     try {
       const current = this.editing();
-      const saved = await firstValueFrom(current ? this.api.updatePrice(current.id, body) : this.api.createPrice(body));
+      const saved = await firstValueFrom(
+        current ? this.api.updatePrice(current.id, body) : this.api.createPrice(body, this.createKeys.for(body)),
+      );
+      if (!current) this.createKeys.reset();
       this.changeList((list) => [...list.filter((p) => p.id !== saved.id), saved].sort((a, b) => a.item.localeCompare(b.item)));
       this.snackBar.open(current ? `${saved.item} updated` : `${saved.item} added`, 'OK', { duration: 3000 });
       this.cancelEdit();

@@ -16,6 +16,7 @@ import { applyServerErrors } from '../../../shared/forms/server-errors';
 import { DoseFields } from '../dose-fields/dose-fields';
 import { PlanCaution } from '../../../shared/plan-caution/plan-caution';
 import { createExerciseForm, exerciseFromForm } from '../plan-form-model';
+import { RetryKeys } from '../../../shared/retry-keys';
 import { PlansApi } from '../../../core/data/plans-api';
 
 /** "New exercise" / "Edit exercise" of the library. Closes with the exercise as saved. */
@@ -53,6 +54,8 @@ export class ExerciseDialog {
   protected readonly data = inject<{ exercise?: Exercise } | null>(MAT_DIALOG_DATA, { optional: true });
   protected readonly editing = !!this.data?.exercise;
   protected readonly form = createExerciseForm(inject(NonNullableFormBuilder), this.data?.exercise);
+  /** Adding the same exercise again after a lost answer (or a second click) adds one. */
+  private readonly createKeys = new RetryKeys();
   protected readonly busy = signal(false);
   protected readonly problem = signal<string | null>(null);
   protected readonly regions = EXERCISE_REGIONS;
@@ -73,7 +76,9 @@ export class ExerciseDialog {
     const body = exerciseFromForm(this.form.getRawValue());
     const existing = this.data?.exercise;
     try {
-      const saved = await firstValueFrom(existing ? this.api.updateExercise(existing.id, body) : this.api.createExercise(body));
+      const saved = await firstValueFrom(
+        existing ? this.api.updateExercise(existing.id, body) : this.api.createExercise(body, this.createKeys.for(body)),
+      );
       this.dialogRef.close(saved);
     } catch (err) {
       if (errorStatus(err) === 422) {

@@ -45,6 +45,7 @@ import {
 import { PlansApi } from '../../../core/data/plans-api';
 import { describePlanChanges, type PlanChange } from '../plan-changes';
 import { planWriteOf, rebasePlan } from '../plan-merge';
+import { RetryKeys } from '../../../shared/retry-keys';
 import { PlanConflict } from '../plan-conflict/plan-conflict';
 
 const CRITERION_OPTION_LABELS: Record<ProgressionCriterionKind, string> = {
@@ -93,6 +94,8 @@ export class PlanBuilder implements LeaveGuarded {
   private readonly assessmentsApi = inject(AssessmentsApi);
   private readonly dialog = inject(MatDialog);
   private readonly router = inject(Router);
+  /** Creating the same plan again after a lost answer (or a second click) makes one. */
+  private readonly createKeys = new RetryKeys();
   private readonly snackBar = inject(MatSnackBar);
   private readonly fb = inject(NonNullableFormBuilder);
   private readonly cdr = inject(ChangeDetectorRef);
@@ -281,7 +284,7 @@ export class PlanBuilder implements LeaveGuarded {
       const saved = await firstValueFrom(
         id !== undefined && editedFrom
           ? this.api.replacePlan(Number(id), { ...body, baseRevision: editedFrom.revision })
-          : this.api.createPlan(athleteId, body),
+          : this.api.createPlan(athleteId, body, this.createKeys.for({ athleteId, body })),
       );
       this.saved = true;
       f.markAsPristine();
