@@ -4,6 +4,31 @@ import { AppError } from '../errors';
 import { lockedForUpdate } from './dialect';
 import type { Db } from './knex';
 
+/** How long a create key answers retries (a day: a lost answer is retried within minutes). */
+export const CREATE_KEY_KEPT_MS = 24 * 60 * 60 * 1000;
+
+/**
+ * Removes the create keys naming an erased athlete, their visits or their plans (a hash of what
+ * was typed must not outlive the erasure).
+ */
+export async function eraseCreateKeys(
+  trx: Knex,
+  clinicId: number,
+  athleteId: number,
+  assessmentIds: number[],
+  planIds: number[],
+): Promise<void> {
+  await trx('create_keys')
+    .where({ clinic_id: clinicId })
+    .where((q) =>
+      q
+        .where({ kind: 'athlete', subject_id: athleteId })
+        .orWhere((r) => r.where({ kind: 'assessment' }).whereIn('subject_id', assessmentIds))
+        .orWhere((r) => r.where({ kind: 'plan' }).whereIn('subject_id', planIds)),
+    )
+    .delete();
+}
+
 /** What a keyed create makes (the `kind` column of `create_keys`). */
 export type CreateKind = 'athlete' | 'assessment' | 'plan' | 'price' | 'exercise';
 
@@ -21,6 +46,11 @@ export async function createOnce(
     if (!o.key) return o.create(trx);
     const hash = crypto.createHash('sha256').update(JSON.stringify(o.request)).digest('hex');
     await lockedForUpdate(trx, trx('clinics').where({ id: o.clinicId }).select('id'));
+    // A key answers retries for a day; older ones go, so the table stays small and keeps no hash for long.
+    await trx('create_keys')
+      .where({ clinic_id: o.clinicId })
+      .where('created_at', '<', new Date(Date.parse(o.at) - CREATE_KEY_KEPT_MS).toISOString())
+      .delete();
     const made = await trx('create_keys')
       .where({ clinic_id: o.clinicId, kind: o.kind, key: o.key })
       .first<{ subject_id: number; request_hash: string } | undefined>('subject_id', 'request_hash');

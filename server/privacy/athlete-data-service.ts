@@ -14,6 +14,7 @@ import { assessmentPrefix, clipKeys, exportPrefix } from '../storage/media-keys'
 import type { MediaStore } from '../storage/media-store';
 import { ATHLETE_TABLES, ATHLETE_TABLE_NAMES } from './athlete-tables';
 import { redactKeptInvoices } from './redact-kept-invoices';
+import { eraseCreateKeys } from '../db/create-once';
 
 /** The owner's side of an athlete's data: the overview, erasure of everything, erasure of the clips only. */
 export interface AthleteDataService {
@@ -134,6 +135,8 @@ export function athleteDataService(d: {
         for (const id of (await trx('clips').where({ athlete_id: athleteId }).pluck('id')) as number[]) clipIds.add(id);
         for (const id of (await trx('assessments').where({ athlete_id: athleteId }).pluck('id')) as number[]) assessmentIds.add(id);
         if (a.user_id !== null) await revokeUserSessions(trx, a.user_id);
+        const planIds = (await trx('plans').where({ athlete_id: athleteId }).pluck('id')) as number[];
+        await eraseCreateKeys(trx, user.clinicId, athleteId, [...assessmentIds], planIds);
         // Children before parents: the list names parents first.
         for (const name of [...ATHLETE_TABLE_NAMES].reverse()) {
           const t = ATHLETE_TABLES[name];

@@ -59,6 +59,28 @@ describe('a new athlete without an e-mail address sent again', () => {
   });
 });
 
+describe('how long a create key is kept', () => {
+  it('a key older than a day answers no more and is removed (the table keeps no hash for long)', async () => {
+    const body = { firstName: 'Oona', lastName: 'Brookfield' };
+    const first = await keyed(coach, '/api/athletes', 'athlete-key-0100', body);
+    expect(first.status).toBe(201);
+    await t.db('create_keys').where({ key: 'athlete-key-0100' }).update({ created_at: '2000-01-01T00:00:00.000Z' });
+    const later = await keyed(coach, '/api/athletes', 'athlete-key-0100', body);
+    expect(later.status).toBe(201);
+    expect(later.body.id).not.toBe(first.body.id);
+    expect(await t.db('create_keys').where({ key: 'athlete-key-0100' }).pluck('subject_id')).toEqual([later.body.id]);
+  });
+
+  it("an athlete's erasure removes the keys that made the athlete and their visits", async () => {
+    const made = await keyed(coach, '/api/athletes', 'athlete-key-0200', { firstName: 'Pia', lastName: 'Ashgrove' });
+    const id = made.body.id as number;
+    expect((await keyed(coach, `/api/athletes/${id}/assessments`, 'visit-key-0200', baselineVisit())).status).toBe(201);
+    expect(await t.db('create_keys').whereIn('key', ['athlete-key-0200', 'visit-key-0200'])).toHaveLength(2);
+    expect((await owner.post(`/api/athletes/${id}/erasure`, { confirmName: 'Pia Ashgrove' })).status).toBe(200);
+    expect(await t.db('create_keys').whereIn('key', ['athlete-key-0200', 'visit-key-0200'])).toHaveLength(0);
+  });
+});
+
 describe('a new plan sent again', () => {
   const plan = (title: string) => ({
     title,
