@@ -1,4 +1,4 @@
-import type { InvoiceDetail, Price } from '../../../contracts/billing';
+import type { InvoiceDetail, InvoiceLine, Price } from '../../../contracts/billing';
 
 /** The clinic's gait assessment price for client specs: 120.00 EUR at 20 % tax (id 1). */
 export const GAIT_PRICE: Price = {
@@ -44,3 +44,18 @@ export const DRAFT_INVOICE: InvoiceDetail = {
   clinicLogoUrl: null,
   lines: [],
 };
+
+/** A Re-test line (price 2): `quantity` × 65.00 EUR at 20 % tax, the figures written out per unit. */
+export function retestLine(id: number, quantity = 1): InvoiceLine {
+  return {
+    id,
+    priceId: 2,
+    description: 'Re-test',
+    quantity,
+    unitAmountMinor: 6500,
+    taxRateBp: 2000,
+    netMinor: 6500 * quantity,
+    taxMinor: 1300 * quantity,
+    totalMinor: 7800 * quantity,
+  };
+}

@@ -11,7 +11,7 @@ import { provideIsoDateAdapter } from '../../../shared/iso-date-adapter';
 import { InvoiceForm } from './invoice-form';
 import { mountPage, settlePage, typeInto, wait } from '../../../shared/testing/mount-page';
 import { errorText } from '../../../shared/forms/error-text';
-import { GAIT_PRICE, RETEST_PRICE } from '../../../shared/testing/billing-fixtures';
+import { DRAFT_INVOICE, GAIT_PRICE, RETEST_PRICE, retestLine } from '../../../shared/testing/billing-fixtures';
 
 /** The component's protected API, for driving the form the way its template does. */
 interface FormApi {
@@ -150,16 +150,9 @@ describe('InvoiceForm reached by address', () => {
   };
 
   const DRAFT: InvoiceDetail = {
+    ...DRAFT_INVOICE,
     id: 31,
-    number: null,
-    status: 'draft',
-    athleteId: 4,
-    athleteName: 'Ada Kestrel',
-    currency: 'EUR',
     totalMinor: 15600,
-    dueDate: '2026-12-31',
-    issuedAt: null,
-    paidAt: null,
     createdAt: '2026-12-01T10:00:00Z',
     assessmentId: 11,
     assessment: { id: 11, kind: 'retest', date: '2026-11-24' },
@@ -167,28 +160,7 @@ describe('InvoiceForm reached by address', () => {
     clinicName: 'Test clinic',
     subtotalMinor: 13000,
     taxMinor: 2600,
-    cancelledAt: null,
-    refundedAt: null,
-    paymentMethod: null,
-    paidOn: null,
-    paymentNote: null,
-    refundNote: null,
-    clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
-    clinicLogoUrl: null,
-    checkoutState: 'none',
-    lines: [
-      {
-        id: 7,
-        priceId: 2,
-        description: 'Re-test',
-        quantity: 2,
-        unitAmountMinor: 6500,
-        taxRateBp: 2000,
-        netMinor: 13000,
-        taxMinor: 2600,
-        totalMinor: 15600,
-      },
-    ],
+    lines: [retestLine(7, 2)],
   };
 
   async function open(url: string): Promise<void> {

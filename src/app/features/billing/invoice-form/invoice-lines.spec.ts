@@ -7,7 +7,7 @@ import {
   priceForAssessment,
   toLineWrite,
 } from './invoice-lines';
-import { GAIT_PRICE, RETEST_PRICE } from '../../../shared/testing/billing-fixtures';
+import { DRAFT_INVOICE, GAIT_PRICE, RETEST_PRICE, retestLine } from '../../../shared/testing/billing-fixtures';
 
 describe('invoice lines', () => {
   it('fills a line from a price: Re-test 65.00 at 20 %', () => {
@@ -52,45 +52,16 @@ describe('invoice lines', () => {
 
   it('a saved draft fills the form and previews the same total the server stored (2 × 65.00 at 20 % = 156.00)', () => {
     const f = formFromInvoice({
+      ...DRAFT_INVOICE,
       id: 9,
-      number: null,
-      status: 'draft',
-      athleteId: 4,
-      athleteName: 'Ada Kestrel',
-      currency: 'EUR',
       totalMinor: 15600,
-      dueDate: '2026-12-31',
-      issuedAt: null,
-      paidAt: null,
       createdAt: '',
       assessmentId: 11,
       assessment: { id: 11, kind: 'retest', date: '2026-11-24' },
-      note: null,
       clinicName: '',
       subtotalMinor: 13000,
       taxMinor: 2600,
-      cancelledAt: null,
-      refundedAt: null,
-      paymentMethod: null,
-      paidOn: null,
-      paymentNote: null,
-      refundNote: null,
-      clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
-      clinicLogoUrl: null,
-      checkoutState: 'none',
-      lines: [
-        {
-          id: 1,
-          priceId: 2,
-          description: 'Re-test',
-          quantity: 2,
-          unitAmountMinor: 6500,
-          taxRateBp: 2000,
-          netMinor: 13000,
-          taxMinor: 2600,
-          totalMinor: 15600,
-        },
-      ],
+      lines: [retestLine(1, 2)],
     });
     expect(f).toMatchObject({ athleteId: 4, assessmentId: 11, dueDate: '2026-12-31', note: '' });
     expect(previewTotals(f.lines)).toEqual({ subtotalMinor: 13000, taxMinor: 2600, totalMinor: 15600 });

@@ -7,49 +7,19 @@ import type { InvoiceDetail } from '../../../../contracts/billing';
 import { POLL_MS } from './pay-view';
 import { PortalInvoice } from './portal-invoice';
 import { mountPage, wait } from '../../../shared/testing/mount-page';
+import { DRAFT_INVOICE, retestLine } from '../../../shared/testing/billing-fixtures';
 
-/** Re-test 65.00 at 20 % = 78.00 EUR. */
+/** Re-test 65.00 at 20 % = 78.00 EUR, issued, a card payment under way. */
 function anInvoice(over: Partial<InvoiceDetail> = {}): InvoiceDetail {
   return {
+    ...DRAFT_INVOICE,
     id: 7,
     number: 'TF-2026-0001',
     status: 'issued',
     athleteId: 1,
-    athleteName: 'Ada Kestrel',
-    currency: 'EUR',
-    totalMinor: 7800,
-    dueDate: '2026-12-31',
     issuedAt: '2026-12-01T10:00:00Z',
-    paidAt: null,
-    createdAt: '2026-12-01T09:00:00Z',
-    assessmentId: null,
-    assessment: null,
-    note: null,
-    clinicName: 'Larchwood Running Clinic',
-    subtotalMinor: 6500,
-    taxMinor: 1300,
-    cancelledAt: null,
-    refundedAt: null,
-    paymentMethod: null,
-    paidOn: null,
-    paymentNote: null,
-    refundNote: null,
-    clinicLegal: { legalName: '', address: '', taxNumber: '', contactLine: '' },
-    clinicLogoUrl: null,
     checkoutState: 'pending',
-    lines: [
-      {
-        id: 1,
-        priceId: 2,
-        description: 'Re-test',
-        quantity: 1,
-        unitAmountMinor: 6500,
-        taxRateBp: 2000,
-        netMinor: 6500,
-        taxMinor: 1300,
-        totalMinor: 7800,
-      },
-    ],
+    lines: [retestLine(1)],
     ...over,
   };
 }
