@@ -2,7 +2,9 @@
  * `npm run restore -- DIR`: puts a backup (see `backup.ts`) into an empty installation. Refuses an
  * installation with a database or media already; checks every file of the backup against its
  * SHA-256 before anything is written, and again as it is copied; on any failure removes what it
- * wrote, so the installation is left empty as it was found.
+ * wrote, so the installation is left empty as it was found. While it writes, a marker beside the
+ * database ({@link restoreMarkerPath}) says the installation is half-restored: a restore killed
+ * part-way leaves it, the server will not start on it, and the next restore clears and starts over.
  */
 import fs from 'node:fs';
 import path from 'node:path';
@@ -17,6 +19,7 @@ import {
   formatBytes,
   hashFile,
   mediaPath,
+  restoreMarkerPath,
   type BackupFile,
   type BackupManifest,
   type ProgressReporter,
@@ -76,10 +79,23 @@ function checkSame(what: string, expected: BackupFile, actual: BackupFile): void
 /** Size and SHA-256 of a file of the backup; a missing file answers a size that matches nothing. */
 const hashInBackup = (file: string): Promise<BackupFile> => hashFile(file).catch(() => ({ size: -1, sha256: 'missing' }));
 
+/** Removes what a restore writes: the database (and its temp, WAL and shared-memory files) and the media folders. */
+async function removeRestored(dbFile: string, uploadsDir: string): Promise<void> {
+  for (const f of [dbFile, `${dbFile}.restoring`, `${dbFile}-wal`, `${dbFile}-shm`]) await fs.promises.rm(f, { force: true });
+  for (const root of MEDIA_KEY_ROOTS) await fs.promises.rm(path.join(uploadsDir, root), { recursive: true, force: true });
+}
+
 /** Restores the backup in `dir` into an empty installation. */
 export async function restoreInstallation(o: RestoreOptions): Promise<BackupManifest> {
   const say = o.progress ?? (() => undefined);
   const manifest = await readBackupManifest(o.dir);
+  const marker = restoreMarkerPath(o.dbFile);
+  if (fs.existsSync(marker)) {
+    // What is there was written by a restore that was killed part-way (it began on an empty installation).
+    say(`an unfinished restore is there (${marker}): removing what it wrote`);
+    await removeRestored(o.dbFile, o.uploadsDir);
+    await fs.promises.rm(marker, { force: true });
+  }
   const existing = await installationContents(o.dbFile, o.uploadsDir);
   if (existing.length) {
     throw new RestoreError(
@@ -105,9 +121,10 @@ export async function restoreInstallation(o: RestoreOptions): Promise<BackupMani
   }
   say('checking: every checksum matches');
 
+  await fs.promises.mkdir(path.dirname(o.dbFile), { recursive: true });
+  await fs.promises.writeFile(marker, `A restore of ${o.dir} began at ${new Date().toISOString()} and has not finished.\n`);
   const written: string[] = [];
   try {
-    await fs.promises.mkdir(path.dirname(o.dbFile), { recursive: true });
     const temp = `${o.dbFile}.restoring`;
     written.push(temp);
     checkSame(DATABASE_NAME, manifest.database, await copyHashing(fs.createReadStream(path.join(o.dir, DATABASE_NAME)), temp));
@@ -127,8 +144,10 @@ export async function restoreInstallation(o: RestoreOptions): Promise<BackupMani
     }
   } catch (err) {
     for (const f of written) await fs.promises.rm(f, { recursive: true, force: true });
+    await fs.promises.rm(marker, { force: true });
     throw err;
   }
+  await fs.promises.rm(marker);
   say(`restore complete: start the server with DB_FILE=${o.dbFile} UPLOADS_DIR=${o.uploadsDir}`);
   return manifest;
 }

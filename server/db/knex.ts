@@ -4,6 +4,7 @@ import { fileURLToPath } from 'node:url';
 import knexFactory, { type Knex } from 'knex';
 import { SqliteClient } from './sqlite-client';
 import { PG_TYPES, isPostgresUrl } from './dialect';
+import { assertNoUnfinishedRestore } from '../backup/backup-manifest';
 
 export type Db = Knex;
 
@@ -66,7 +67,9 @@ export function pgKnexOptions(url: string, poolMax = 10): Knex.Config {
  */
 export function createDb(target: string): Db {
   if (isPostgresUrl(target)) return knexFactory(pgKnexOptions(target));
-  if (target !== ':memory:') fs.mkdirSync(path.dirname(target), { recursive: true });
+  if (target === ':memory:') return knexFactory(knexOptions(target));
+  assertNoUnfinishedRestore(target);
+  fs.mkdirSync(path.dirname(target), { recursive: true });
   return knexFactory(knexOptions(target));
 }
 

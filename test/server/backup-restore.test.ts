@@ -22,7 +22,7 @@ import { createDb, type Db } from '../../server/db/knex';
 import { backupInstallation, BackupError } from '../../server/backup/backup';
 import { restoreInstallation, RestoreError, installationContents } from '../../server/backup/restore';
 import { localMediaStore } from '../../server/storage/local-media-store';
-import { MANIFEST_NAME } from '../../server/backup/backup-manifest';
+import { MANIFEST_NAME, restoreMarkerPath } from '../../server/backup/backup-manifest';
 import type { ClipAnnotationsWrite, FrameLandmarks } from '../../src/contracts/annotations';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
@@ -240,6 +240,40 @@ describe.skipIf(onPostgres)(
       }
       await expect(restoreInstallation({ dir: path.join(work.dir, 'nothing-here'), ...fresh })).rejects.toThrow(/not a complete backup/);
     });
+
+    it('a restore killed part-way (SIGKILL) leaves the installation marked: nothing opens its database; the next restore starts over', async () => {
+      const killed = { dbFile: path.join(work.dir, 'killed', 'db.sqlite'), uploadsDir: path.join(work.dir, 'killed', 'uploads') };
+      // The restore kills itself at its first media progress line: the database is in, the media part-way.
+      const script = `import { restoreInstallation } from './server/backup/restore.ts';
+        await restoreInstallation({ dir: ${JSON.stringify(backupDir())}, dbFile: ${JSON.stringify(killed.dbFile)}, uploadsDir: ${JSON.stringify(killed.uploadsDir)},
+          progress: (line) => line.startsWith('media: ') && process.kill(process.pid, 'SIGKILL') });`;
+      const run = spawnSync(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script], { encoding: 'utf8' });
+      expect(run.signal, run.stderr).toBe('SIGKILL');
+      expect(await installationContents(killed.dbFile, killed.uploadsDir)).not.toEqual([]);
+      expect(fs.existsSync(restoreMarkerPath(killed.dbFile))).toBe(true);
+
+      // The server, the worker and npm run migrate open the database through createDb: refused, saying why.
+      expect(() => createDb(killed.dbFile)).toThrow(/half-restored: a restore into it did not finish/);
+      const migrateRun = spawnSync('npx', ['tsx', 'scripts/migrate.ts'], {
+        encoding: 'utf8',
+        env: { ...process.env, DATABASE_URL: '', DB_FILE: killed.dbFile, UPLOADS_DIR: killed.uploadsDir },
+      });
+      expect(migrateRun.status).not.toBe(0);
+      expect(migrateRun.stderr).toContain('half-restored');
+
+      const lines: string[] = [];
+      await restoreInstallation({ dir: backupDir(), ...killed, progress: (l) => lines.push(l) });
+      expect(lines[0]).toMatch(/^an unfinished restore is there/);
+      expect(fs.existsSync(restoreMarkerPath(killed.dbFile))).toBe(false);
+      // Outside reference: checksums computed here over the backup's own media folder.
+      expect(mediaChecksums(killed.uploadsDir)).toEqual(mediaChecksums(path.join(backupDir(), 'media')));
+      const again = createDb(killed.dbFile);
+      try {
+        expect(await dump(again)).toEqual(await dump(restoredDb!));
+      } finally {
+        await again.destroy();
+      }
+    }, 120_000);
 
     it('backs up only into a new or empty folder', async () => {
       await expect(
