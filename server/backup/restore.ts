@@ -10,6 +10,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { MEDIA_KEY_ROOTS } from '../storage/media-keys';
 import { localMediaStore } from '../storage/local-media-store';
+import { knownMigrations } from '../db/knex';
 import {
   BACKUP_FORMAT,
   DATABASE_NAME,
@@ -89,6 +90,12 @@ async function removeRestored(dbFile: string, uploadsDir: string): Promise<void>
 export async function restoreInstallation(o: RestoreOptions): Promise<BackupManifest> {
   const say = o.progress ?? (() => undefined);
   const manifest = await readBackupManifest(o.dir);
+  const known = await knownMigrations();
+  if (manifest.schema && !known.includes(manifest.schema)) {
+    throw new RestoreError(
+      `This backup's database has migration ${manifest.schema}, which this version of Trailframe does not know (its newest is ${known.at(-1)}): it was made by a newer version. Restore it with that version or a newer one.`,
+    );
+  }
   const marker = restoreMarkerPath(o.dbFile);
   if (fs.existsSync(marker)) {
     // What is there was written by a restore that was killed part-way (it began on an empty installation).

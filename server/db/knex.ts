@@ -39,6 +39,11 @@ class TsMigrationSource implements Knex.MigrationSource<string> {
   }
 }
 
+/** The migrations this version has, by file name, oldest first (what `knex_migrations` names). */
+export function knownMigrations(): Promise<string[]> {
+  return new TsMigrationSource(MIGRATIONS_DIR).getMigrations();
+}
+
 /** Knex options for SQLite through better-sqlite3 (see `sqlite-client.ts`); also used by `knexfile.ts`. */
 export function knexOptions(filename: string): Knex.Config {
   return {

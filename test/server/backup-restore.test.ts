@@ -18,7 +18,7 @@ import { makeTestApp, signedIn, type Client, type TestApp } from '../support/tes
 import { onPostgres, titleSkippedWhen } from '../support/test-db';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { makeClip, tempDir } from './media/fixtures';
-import { createDb, type Db } from '../../server/db/knex';
+import { createDb, migrate, type Db } from '../../server/db/knex';
 import { backupInstallation, BackupError } from '../../server/backup/backup';
 import { restoreInstallation, RestoreError, installationContents } from '../../server/backup/restore';
 import { localMediaStore } from '../../server/storage/local-media-store';
@@ -274,6 +274,25 @@ describe.skipIf(onPostgres)(
         await again.destroy();
       }
     }, 120_000);
+
+    it('refuses a backup made by a newer version (a migration this one does not have) before writing anything', async () => {
+      const source = path.join(work.dir, 'newer', 'db.sqlite');
+      const db = createDb(source);
+      try {
+        await migrate(db);
+        await db('knex_migrations').insert({ name: '20991231000000_from_a_newer_version.ts', batch: 2, migration_time: new Date() });
+      } finally {
+        await db.destroy();
+      }
+      const newerBackup = path.join(work.dir, 'newer', 'backup');
+      await backupInstallation({ dbFile: source, store: localMediaStore(path.join(work.dir, 'newer', 'uploads')), dir: newerBackup });
+      const fresh = { dbFile: path.join(work.dir, 'third', 'db.sqlite'), uploadsDir: path.join(work.dir, 'third', 'uploads') };
+      await expect(restoreInstallation({ dir: newerBackup, ...fresh })).rejects.toThrow(
+        /migration 20991231000000_from_a_newer_version\.ts, which this version of Trailframe does not know/,
+      );
+      expect(await installationContents(fresh.dbFile, fresh.uploadsDir)).toEqual([]);
+      expect(fs.existsSync(restoreMarkerPath(fresh.dbFile))).toBe(false);
+    }, 60_000);
 
     it('backs up only into a new or empty folder', async () => {
       await expect(
