@@ -8,6 +8,7 @@
  */
 import fs from 'node:fs';
 import path from 'node:path';
+import { z } from 'zod';
 import { MEDIA_KEY_ROOTS } from '../storage/media-keys';
 import { localMediaStore } from '../storage/local-media-store';
 import { knownMigrations } from '../db/knex';
@@ -42,18 +43,35 @@ export class RestoreError extends Error {}
 /** Reads and checks the backup's manifest. */
 export async function readBackupManifest(dir: string): Promise<BackupManifest> {
   const file = path.join(dir, MANIFEST_NAME);
-  let manifest: BackupManifest;
+  let read: unknown;
   try {
-    manifest = JSON.parse(await fs.promises.readFile(file, 'utf8')) as BackupManifest;
+    read = JSON.parse(await fs.promises.readFile(file, 'utf8'));
   } catch {
     throw new RestoreError(`${dir} is not a complete backup: ${MANIFEST_NAME} is missing or unreadable (a backup writes it last).`);
   }
-  const badKey = manifest.media?.find((m) => !MEDIA_KEY_ROOTS.some((root) => m.key.startsWith(root)) || m.key.split('/').includes('..'));
+  const format = (read as { format?: unknown } | null)?.format;
+  if (format !== undefined && format !== BACKUP_FORMAT)
+    throw new RestoreError(`${dir} is a backup of format "${String(format)}"; this version restores "${BACKUP_FORMAT}".`);
+  const parsed = ManifestSchema.safeParse(read);
+  if (!parsed.success) {
+    const where = parsed.error.issues[0]?.path.join('.') || 'its top level';
+    throw new RestoreError(`${dir}/${MANIFEST_NAME} is not a backup manifest (at ${where}); the backup is damaged.`);
+  }
+  const manifest = parsed.data as BackupManifest;
+  const badKey = manifest.media.find((m) => !MEDIA_KEY_ROOTS.some((root) => m.key.startsWith(root)) || m.key.split('/').includes('..'));
   if (badKey) throw new RestoreError(`${dir}/${MANIFEST_NAME} names "${badKey.key}", which is no media key; the backup is damaged.`);
-  if (manifest.format !== BACKUP_FORMAT)
-    throw new RestoreError(`${dir} is a backup of format "${manifest.format}"; this version restores "${BACKUP_FORMAT}".`);
   return manifest;
 }
+
+const FileSchema = z.object({ size: z.number().int().nonnegative(), sha256: z.string().regex(/^[0-9a-f]{64}$/) });
+/** What `backup.ts` writes as `backup-manifest.json`. */
+const ManifestSchema = z.object({
+  format: z.literal(BACKUP_FORMAT),
+  snapshotAt: z.string(),
+  schema: z.string().nullable(),
+  database: FileSchema,
+  media: z.array(FileSchema.extend({ key: z.string().min(1) })),
+});
 
 /** What already makes the installation non-empty (nothing → empty). */
 export async function installationContents(dbFile: string, uploadsDir: string): Promise<string[]> {

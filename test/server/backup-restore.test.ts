@@ -294,6 +294,26 @@ describe.skipIf(onPostgres)(
       expect(fs.existsSync(restoreMarkerPath(fresh.dbFile))).toBe(false);
     }, 60_000);
 
+    it('refuses a manifest that is JSON but no backup manifest (null, a field missing or of another type) as damaged, writing nothing', async () => {
+      const manifest = JSON.parse(fs.readFileSync(path.join(backupDir(), MANIFEST_NAME), 'utf8')) as Record<string, unknown>;
+      const fresh = { dbFile: path.join(work.dir, 'fourth', 'db.sqlite'), uploadsDir: path.join(work.dir, 'fourth', 'uploads') };
+      const variants: [unknown, RegExp][] = [
+        [null, /not a backup manifest \(at its top level\)/],
+        [{ ...manifest, media: undefined }, /not a backup manifest \(at media\)/],
+        [{ ...manifest, database: { size: '1', sha256: 'x' } }, /not a backup manifest \(at database\.size\)/],
+        [{ ...manifest, format: 'other/9' }, /of format "other\/9"/],
+      ];
+      for (const [i, [content, message]] of variants.entries()) {
+        const dir = path.join(work.dir, `odd-manifest-${i}`);
+        fs.mkdirSync(dir, { recursive: true });
+        fs.writeFileSync(path.join(dir, MANIFEST_NAME), JSON.stringify(content));
+        await expect(restoreInstallation({ dir, ...fresh })).rejects.toThrow(message);
+        await expect(restoreInstallation({ dir, ...fresh })).rejects.toThrow(RestoreError);
+      }
+      expect(await installationContents(fresh.dbFile, fresh.uploadsDir)).toEqual([]);
+      expect(fs.existsSync(restoreMarkerPath(fresh.dbFile))).toBe(false);
+    });
+
     it('backs up only into a new or empty folder', async () => {
       await expect(
         backupInstallation({ dbFile: t.config.dbFile, store: localMediaStore(t.config.uploadsDir), dir: backupDir() }),
