@@ -39,6 +39,7 @@ import { warmUpFfmpeg } from './media/extract';
 import { clipsRoutes } from './clips/clips.routes';
 import { clipUploadsRoutes } from './clips/clip-uploads.routes';
 import { resumableUploads } from './clips/resumable-uploads';
+import { uploadClaims } from './clips/upload-claims';
 import { assessmentsRoutes } from './assessments/assessments.routes';
 import { annotationsRoutes } from './annotations/annotations.routes';
 import { followRoutes } from './follow/follow.routes';
@@ -263,7 +264,13 @@ export function createApp(deps: AppDeps): App {
   );
   privacyCheck.unref();
   // Partial resumable uploads survive restarts; those left unwritten past the configured age go.
-  const resumable = resumableUploads({ dir: resumableUploadDir(config.uploadsDir), maxBytes: config.uploadMaxBytes, clips, logger });
+  const resumable = resumableUploads({
+    dir: resumableUploadDir(config.uploadsDir),
+    maxBytes: config.uploadMaxBytes,
+    clips,
+    claims: uploadClaims(db),
+    logger,
+  });
   void resumable
     .sweep(config.resumableUploadMaxAgeMs)
     .catch((err: Error) => logger.warn({ err: err.message }, 'resumable upload sweep failed'));

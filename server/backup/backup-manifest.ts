@@ -19,6 +19,23 @@ export const MEDIA_DIR = 'media';
 /** Changes when the layout does; restore refuses other versions. */
 export const BACKUP_FORMAT = 'trailframe-backup/1';
 
+/**
+ * Beside `DB_FILE` while a restore writes (`<DB_FILE>.restore-incomplete`): a restore killed part-way
+ * leaves it, the server refuses to open that database ({@link assertNoUnfinishedRestore}) and the next
+ * restore clears what the killed one wrote before starting over.
+ */
+export function restoreMarkerPath(dbFile: string): string {
+  return `${dbFile}.restore-incomplete`;
+}
+
+/** Throws when a restore into `dbFile` began and did not finish (the installation is half-restored). */
+export function assertNoUnfinishedRestore(dbFile: string): void {
+  if (!fs.existsSync(restoreMarkerPath(dbFile))) return;
+  throw new Error(
+    `The installation at ${dbFile} is half-restored: a restore into it did not finish (${restoreMarkerPath(dbFile)} is there). Run npm run restore again with the backup's folder; it starts over.`,
+  );
+}
+
 /** One copied file: its size and SHA-256 (hex). */
 export interface BackupFile {
   size: number;

@@ -7,7 +7,7 @@ import { idParam } from '../http/validate';
 import { permit } from '../policy/enforce';
 import type { ClipsService } from './clips-service';
 import { tooLarge } from '../http/video-upload';
-import type { ResumableUploads, UploadOwner, UploadRequestContext } from './resumable-uploads';
+import { completeHeaders, type ResumableUploads, type UploadOwner, type UploadRequestContext } from './resumable-uploads';
 
 export interface ClipUploadsRoutesDeps {
   clips: ClipsService;
@@ -135,12 +135,7 @@ export function clipUploadsRoutes(d: ClipUploadsRoutesDeps): Router {
       return;
     }
     // Accepted already (its answer may have been lost): complete, so the client does not send it again.
-    res.set({
-      'Tus-Resumable': '1.0.0',
-      'Upload-Offset': String(finished.size),
-      'Upload-Length': String(finished.size),
-      'Trailframe-Clip-Id': String(finished.clipId),
-    });
+    res.set({ 'Tus-Resumable': '1.0.0', ...completeHeaders(finished) });
     res.status(200).end();
   });
   router.patch(ONE, permit('clip:upload'), gate(owned));

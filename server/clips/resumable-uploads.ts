@@ -8,6 +8,7 @@ import type { Logger } from 'pino';
 import type { Clip, SessionUser } from '../../src/contracts/api';
 import { AppError } from '../errors';
 import type { ClipsService } from './clips-service';
+import type { UploadClaims } from './upload-claims';
 
 /** Who may write to an upload, recorded in its details at creation (never taken from the client). */
 export interface UploadOwner {
@@ -28,6 +29,8 @@ export interface ResumableUploadsDeps {
   dir: string;
   maxBytes: number;
   clips: ClipsService;
+  /** Claims across server processes sharing the folder, so a finished upload becomes one clip. */
+  claims: UploadClaims;
   logger: Logger;
 }
 
@@ -45,7 +48,8 @@ export interface ResumableUploads {
   owner(id: string): Promise<UploadOwner | null>;
   /**
    * Accepts an upload that holds every byte but names no clip (the server stopped while accepting
-   * it) and answers what it became; null for any other upload. A refusal is thrown (the partial goes).
+   * it) and answers what it became; null for any other upload. A refusal is thrown (the partial goes);
+   * so is 423 `upload_locked` while a request (of this or another server process) is accepting it.
    */
   acceptStranded(id: string, context: UploadRequestContext): Promise<UploadOwner['finished']>;
   /** Removes partial uploads not written for `olderThanMs` (0: all not in flight). Returns their ids. */
@@ -129,26 +133,57 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
     return context;
   };
 
+  /** Acceptances running in this process, by upload id: what each made (null when refused). */
+  const accepting = new Map<string, Promise<UploadOwner['finished']>>();
+
+  /** The details the upload has on disk (null when it has none). */
+  async function readDetails(id: string) {
+    return JSON.parse(await fs.promises.readFile(detailsPath(id), 'utf8').catch(() => 'null')) as
+      (Pick<Upload, 'metadata' | 'size'> & { finished?: UploadOwner['finished'] }) | null;
+  }
+
   /**
    * Accepts an upload's finished bytes as a clip (the same acceptance as a one-request upload), then
-   * keeps in its details the clip it became; a refusal removes the partial and its details.
+   * keeps in its details the clip it became; a refusal removes the partial and its details. Holds the
+   * upload's claim meanwhile: 423 while another server process holds it; when that process made the
+   * clip already, answers that clip's id (`clip` null).
    */
-  async function accept(id: string, metadata: Upload['metadata'], size: number, context: UploadRequestContext): Promise<Clip> {
+  async function accept(
+    id: string,
+    metadata: Upload['metadata'],
+    size: number,
+    context: UploadRequestContext,
+  ): Promise<{ clip: Clip | null; finished: NonNullable<UploadOwner['finished']> }> {
+    const release = await d.claims.take(id);
+    if (!release) throw beingAccepted();
+    let settle: (finished: UploadOwner['finished']) => void = () => undefined;
+    accepting.set(id, new Promise((resolve) => (settle = resolve)));
+    let finished: UploadOwner['finished'] = null;
     try {
+      const earlier = (await readDetails(id))?.finished;
+      if (earlier) return { clip: null, finished: (finished = earlier) };
       const clip = await d.clips.acceptUpload(context.user, context.assessmentId, {
         path: partPath(id),
         originalname: uploadName(metadata),
         size,
       });
-      await fs.promises.rm(partPath(id), { force: true });
       // What stays until the sweep: who it was for and the clip it became, so a client whose
-      // answer was lost learns from HEAD that it is complete instead of sending it again.
-      const finished = { size, clipId: clip.id };
-      await fs.promises.writeFile(detailsPath(id), JSON.stringify({ id, metadata, finished }));
-      return clip;
+      // answer was lost learns from HEAD that it is complete instead of sending it again. Written
+      // before the part goes, so HEAD never finds neither the bytes nor the clip.
+      finished = { size, clipId: clip.id };
+      // Replaced whole (a HEAD reading it meanwhile must not find it half-written: that answers 404).
+      const temp = `${detailsPath(id)}.${process.pid}.tmp`;
+      await fs.promises.writeFile(temp, JSON.stringify({ id, metadata, finished }));
+      await fs.promises.rename(temp, detailsPath(id));
+      await fs.promises.rm(partPath(id), { force: true });
+      return { clip, finished };
     } catch (err) {
       await removeParts(id);
       throw err;
+    } finally {
+      accepting.delete(id);
+      settle(finished);
+      await release();
     }
   }
 
@@ -163,15 +198,16 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
   async function acceptStranded(id: string, context: UploadRequestContext): Promise<UploadOwner['finished']> {
     const running = recovering.get(id);
     if (running) return running;
-    if (!UPLOAD_ID.test(id) || inFlight.has(id)) return null;
+    if (!UPLOAD_ID.test(id)) return null;
+    // A request of this process is writing it or making it into a clip (the protocol's HEAD answers
+    // that with 423, see `tus()`); it may have finished since the route looked.
+    if (inFlight.has(id)) return (await readDetails(id))?.finished ?? null;
     const attempt = (async () => {
-      const details = JSON.parse(await fs.promises.readFile(detailsPath(id), 'utf8').catch(() => 'null')) as
-        (Pick<Upload, 'metadata' | 'size'> & { finished?: UploadOwner['finished'] }) | null;
+      const details = await readDetails(id);
       if (!details || details.finished || typeof details.size !== 'number') return details?.finished ?? null;
       const held = await fs.promises.stat(partPath(id)).catch(() => null);
       if (!held || held.size !== details.size) return null;
-      const clip = await accept(id, details.metadata, details.size, context);
-      return { size: details.size, clipId: clip.id };
+      return (await accept(id, details.metadata, details.size, context)).finished;
     })();
     recovering.set(id, attempt);
     inFlight.set(id, (inFlight.get(id) ?? 0) + 1);
@@ -206,7 +242,10 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
       },
       async onUploadFinish(req, upload) {
         try {
-          const clip = await accept(upload.id, upload.metadata, upload.size ?? upload.offset, contextOf(req));
+          const context = contextOf(req);
+          const accepted = await accept(upload.id, upload.metadata, upload.size ?? upload.offset, context);
+          // Made into a clip by another server process meanwhile: that clip.
+          const clip = accepted.clip ?? (await d.clips.get(context.user, accepted.finished.clipId));
           return { status_code: 200, headers: { 'Content-Type': JSON_TYPE }, body: JSON.stringify(clip) };
         } catch (err) {
           // Answered here rather than thrown, so the refusal carries our JSON content type.
@@ -225,6 +264,27 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
         return { status_code: 500, body: errorBody('internal', 'Something went wrong on our side. The upload can be resumed.') };
       },
     });
+    // The protocol's HEAD answers only uploads that name no clip yet. "Complete" from it means a
+    // request is making the clip now: 423 instead, so the client asks again and then hears the clip
+    // (a tus client takes "complete" as done, with nothing to show). An upload that became its clip
+    // while the protocol looked (the part removed: 404/410) answers that clip.
+    const head = server.handlers.HEAD;
+    const send = head.send.bind(head);
+    head.send = async (req, context, headers) => {
+      try {
+        const res = await send(req, context, headers);
+        if (res.status === 200 && res.headers.get('Upload-Offset') === res.headers.get('Upload-Length')) throw beingAccepted();
+        return res;
+      } catch (err) {
+        const id = /([0-9a-f]{32})$/.exec(new URL(req.url, 'http://upload').pathname)?.[1];
+        // Its bytes may have gone to the clip already, before its details name it: wait for those.
+        const finished = id ? ((await accepting.get(id)) ?? (await readDetails(id))?.finished) : null;
+        if (!finished) throw err;
+        return new Response('', { status: 200, headers: { 'Tus-Resumable': '1.0.0', ...completeHeaders(finished) } }) as unknown as Awaited<
+          ReturnType<typeof send>
+        >;
+      }
+    };
     return server;
   }
 
@@ -297,6 +357,21 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
       return timer;
     },
   };
+}
+
+/** HEAD's answer for an upload made into a clip: complete, naming the clip (`Trailframe-Clip-Id`). */
+export function completeHeaders(finished: NonNullable<UploadOwner['finished']>): Record<string, string> {
+  return {
+    'Cache-Control': 'no-store',
+    'Upload-Offset': String(finished.size),
+    'Upload-Length': String(finished.size),
+    'Trailframe-Clip-Id': String(finished.clipId),
+  };
+}
+
+/** 423 while an upload is being made into a clip: the client asks again (tus clients retry a 423). */
+function beingAccepted(): AppError {
+  return new AppError(423, 'upload_locked', 'This upload is being made into a clip; ask again in a moment.');
 }
 
 /** The client's file name from the upload's details (cleaned where the clip is made). */

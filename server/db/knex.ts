@@ -4,6 +4,7 @@ import { fileURLToPath } from 'node:url';
 import knexFactory, { type Knex } from 'knex';
 import { SqliteClient } from './sqlite-client';
 import { PG_TYPES, isPostgresUrl } from './dialect';
+import { assertNoUnfinishedRestore } from '../backup/backup-manifest';
 
 export type Db = Knex;
 
@@ -38,6 +39,11 @@ class TsMigrationSource implements Knex.MigrationSource<string> {
   }
 }
 
+/** The migrations this version has, by file name, oldest first (what `knex_migrations` names). */
+export function knownMigrations(): Promise<string[]> {
+  return new TsMigrationSource(MIGRATIONS_DIR).getMigrations();
+}
+
 /** Knex options for SQLite through better-sqlite3 (see `sqlite-client.ts`); also used by `knexfile.ts`. */
 export function knexOptions(filename: string): Knex.Config {
   return {
@@ -66,7 +72,9 @@ export function pgKnexOptions(url: string, poolMax = 10): Knex.Config {
  */
 export function createDb(target: string): Db {
   if (isPostgresUrl(target)) return knexFactory(pgKnexOptions(target));
-  if (target !== ':memory:') fs.mkdirSync(path.dirname(target), { recursive: true });
+  if (target === ':memory:') return knexFactory(knexOptions(target));
+  assertNoUnfinishedRestore(target);
+  fs.mkdirSync(path.dirname(target), { recursive: true });
   return knexFactory(knexOptions(target));
 }
 

@@ -120,7 +120,12 @@ export function startH264Encoder(opts: H264EncoderOptions): H264Encoder {
       reject(failure);
     });
   });
-  done.catch(() => undefined);
+  // ffmpeg gone (finished, failed or killed): a write waiting for it to read is told at once (the
+  // pipe closes; `failure` says why) rather than waiting for ever.
+  done.then(
+    () => input.destroy(),
+    () => input.destroy(),
+  );
   const onAbort = () => {
     killed = true;
     input.destroy();

@@ -157,6 +157,15 @@ export function retentionService(d: { db: Db; clips: ClipsService; clock: () => 
       const months = await monthsOf(user.clinicId);
       const shown = await view(user.clinicId, row, months);
       const items = shown?.items ?? [];
+      const at = clock().toISOString();
+      // Taken before anything is removed: the same list confirmed twice at once (a double click, a
+      // resend) removes and audits once; the other answer is 409. A stop part-way leaves the rest due:
+      // the next daily check lists them again.
+      const claimed = await db('clip_retention_reviews')
+        .where({ id: row.id })
+        .whereNull('confirmed_at')
+        .update({ confirmed_at: at, confirmed_by: user.id, removed_count: items.length });
+      if (!claimed) throw new ConflictError('This list was already confirmed.', 'review_confirmed');
       await clips.removeClips(
         await db('clips')
           .whereIn(
@@ -165,10 +174,6 @@ export function retentionService(d: { db: Db; clips: ClipsService; clock: () => 
           )
           .select('id', 'assessment_id'),
       );
-      const at = clock().toISOString();
-      await db('clip_retention_reviews')
-        .where({ id: row.id })
-        .update({ confirmed_at: at, confirmed_by: user.id, removed_count: items.length });
       for (const athleteId of new Set(items.map((i) => i.athleteId)))
         await audit(
           db,

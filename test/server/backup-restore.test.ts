@@ -18,11 +18,11 @@ import { makeTestApp, signedIn, type Client, type TestApp } from '../support/tes
 import { onPostgres, titleSkippedWhen } from '../support/test-db';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { makeClip, tempDir } from './media/fixtures';
-import { createDb, type Db } from '../../server/db/knex';
+import { createDb, migrate, type Db } from '../../server/db/knex';
 import { backupInstallation, BackupError } from '../../server/backup/backup';
 import { restoreInstallation, RestoreError, installationContents } from '../../server/backup/restore';
 import { localMediaStore } from '../../server/storage/local-media-store';
-import { MANIFEST_NAME } from '../../server/backup/backup-manifest';
+import { MANIFEST_NAME, restoreMarkerPath } from '../../server/backup/backup-manifest';
 import type { ClipAnnotationsWrite, FrameLandmarks } from '../../src/contracts/annotations';
 
 const [, coach, , athlete] = DEMO_SIGN_INS;
@@ -239,6 +239,79 @@ describe.skipIf(onPostgres)(
         fs.writeFileSync(damaged, original);
       }
       await expect(restoreInstallation({ dir: path.join(work.dir, 'nothing-here'), ...fresh })).rejects.toThrow(/not a complete backup/);
+    });
+
+    it('a restore killed part-way (SIGKILL) leaves the installation marked: nothing opens its database; the next restore starts over', async () => {
+      const killed = { dbFile: path.join(work.dir, 'killed', 'db.sqlite'), uploadsDir: path.join(work.dir, 'killed', 'uploads') };
+      // The restore kills itself at its first media progress line: the database is in, the media part-way.
+      const script = `import { restoreInstallation } from './server/backup/restore.ts';
+        await restoreInstallation({ dir: ${JSON.stringify(backupDir())}, dbFile: ${JSON.stringify(killed.dbFile)}, uploadsDir: ${JSON.stringify(killed.uploadsDir)},
+          progress: (line) => line.startsWith('media: ') && process.kill(process.pid, 'SIGKILL') });`;
+      const run = spawnSync(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script], { encoding: 'utf8' });
+      expect(run.signal, run.stderr).toBe('SIGKILL');
+      expect(await installationContents(killed.dbFile, killed.uploadsDir)).not.toEqual([]);
+      expect(fs.existsSync(restoreMarkerPath(killed.dbFile))).toBe(true);
+
+      // The server, the worker and npm run migrate open the database through createDb: refused, saying why.
+      expect(() => createDb(killed.dbFile)).toThrow(/half-restored: a restore into it did not finish/);
+      const migrateRun = spawnSync('npx', ['tsx', 'scripts/migrate.ts'], {
+        encoding: 'utf8',
+        env: { ...process.env, DATABASE_URL: '', DB_FILE: killed.dbFile, UPLOADS_DIR: killed.uploadsDir },
+      });
+      expect(migrateRun.status).not.toBe(0);
+      expect(migrateRun.stderr).toContain('half-restored');
+
+      const lines: string[] = [];
+      await restoreInstallation({ dir: backupDir(), ...killed, progress: (l) => lines.push(l) });
+      expect(lines[0]).toMatch(/^an unfinished restore is there/);
+      expect(fs.existsSync(restoreMarkerPath(killed.dbFile))).toBe(false);
+      // Outside reference: checksums computed here over the backup's own media folder.
+      expect(mediaChecksums(killed.uploadsDir)).toEqual(mediaChecksums(path.join(backupDir(), 'media')));
+      const again = createDb(killed.dbFile);
+      try {
+        expect(await dump(again)).toEqual(await dump(restoredDb!));
+      } finally {
+        await again.destroy();
+      }
+    }, 120_000);
+
+    it('refuses a backup made by a newer version (a migration this one does not have) before writing anything', async () => {
+      const source = path.join(work.dir, 'newer', 'db.sqlite');
+      const db = createDb(source);
+      try {
+        await migrate(db);
+        await db('knex_migrations').insert({ name: '20991231000000_from_a_newer_version.ts', batch: 2, migration_time: new Date() });
+      } finally {
+        await db.destroy();
+      }
+      const newerBackup = path.join(work.dir, 'newer', 'backup');
+      await backupInstallation({ dbFile: source, store: localMediaStore(path.join(work.dir, 'newer', 'uploads')), dir: newerBackup });
+      const fresh = { dbFile: path.join(work.dir, 'third', 'db.sqlite'), uploadsDir: path.join(work.dir, 'third', 'uploads') };
+      await expect(restoreInstallation({ dir: newerBackup, ...fresh })).rejects.toThrow(
+        /migration 20991231000000_from_a_newer_version\.ts, which this version of Trailframe does not know/,
+      );
+      expect(await installationContents(fresh.dbFile, fresh.uploadsDir)).toEqual([]);
+      expect(fs.existsSync(restoreMarkerPath(fresh.dbFile))).toBe(false);
+    }, 60_000);
+
+    it('refuses a manifest that is JSON but no backup manifest (null, a field missing or of another type) as damaged, writing nothing', async () => {
+      const manifest = JSON.parse(fs.readFileSync(path.join(backupDir(), MANIFEST_NAME), 'utf8')) as Record<string, unknown>;
+      const fresh = { dbFile: path.join(work.dir, 'fourth', 'db.sqlite'), uploadsDir: path.join(work.dir, 'fourth', 'uploads') };
+      const variants: [unknown, RegExp][] = [
+        [null, /not a backup manifest \(at its top level\)/],
+        [{ ...manifest, media: undefined }, /not a backup manifest \(at media\)/],
+        [{ ...manifest, database: { size: '1', sha256: 'x' } }, /not a backup manifest \(at database\.size\)/],
+        [{ ...manifest, format: 'other/9' }, /of format "other\/9"/],
+      ];
+      for (const [i, [content, message]] of variants.entries()) {
+        const dir = path.join(work.dir, `odd-manifest-${i}`);
+        fs.mkdirSync(dir, { recursive: true });
+        fs.writeFileSync(path.join(dir, MANIFEST_NAME), JSON.stringify(content));
+        await expect(restoreInstallation({ dir, ...fresh })).rejects.toThrow(message);
+        await expect(restoreInstallation({ dir, ...fresh })).rejects.toThrow(RestoreError);
+      }
+      expect(await installationContents(fresh.dbFile, fresh.uploadsDir)).toEqual([]);
+      expect(fs.existsSync(restoreMarkerPath(fresh.dbFile))).toBe(false);
     });
 
     it('backs up only into a new or empty folder', async () => {

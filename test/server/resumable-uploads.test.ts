@@ -19,6 +19,7 @@ import { signIn } from '../bench/support/bench-server';
 import { sha256, tusCreate, tusHead, tusHeaders, tusPatch, tusPatchCut, type TusSession } from '../support/tus-client';
 import { makeClip, tempDir } from './media/fixtures';
 import { resumableUploads } from '../../server/clips/resumable-uploads';
+import { uploadClaims } from '../../server/clips/upload-claims';
 import { resumableUploadDir } from '../../server/storage/upload-temps';
 import type { ClipsService } from '../../server/clips/clips-service';
 import { baselineVisit } from '../support/bodies';
@@ -275,6 +276,37 @@ describe('acceptance of the finished upload', () => {
   });
 });
 
+describe('HEAD while the finishing PATCH is being accepted', () => {
+  it('answers 423 upload_locked (the client asks again) or the clip id, never "complete" without a clip', async () => {
+    const size = fs.statSync(clip).size;
+    const created = await tusCreate(base, coachSession, assessmentId, size, { filename: 'asked.mp4' });
+    const id = created.location!.split('/').pop()!;
+    const clipsBefore = (await t.db('clips').count<{ n: number }[]>({ n: '*' }))[0]!.n;
+    const patch = tusPatch(coachSession, created.location!, clip, 0);
+    let patched = false;
+    void patch.then(() => (patched = true));
+    // Asks as a client does whose last PATCH's connection dropped: once every byte is held, again and again.
+    const heads: Awaited<ReturnType<typeof tusHead>>[] = [];
+    while (!patched) {
+      const held = await fs.promises.stat(path.join(partsDir(), id)).catch(() => null);
+      if (held?.size === size) heads.push(await tusHead(coachSession, created.location!));
+      else await new Promise((r) => setTimeout(r, 2));
+    }
+    const done = await patch;
+    expect(done.status, done.body).toBe(200);
+    const clipId = (JSON.parse(done.body) as { id: number }).id;
+    expect(heads.length).toBeGreaterThan(0);
+    // 423: still being accepted; 200: complete, naming the clip made.
+    const answers = heads.map((h) => (h.status === 423 ? 'accepting' : `${h.status} clip ${h.headers['trailframe-clip-id']}`));
+    for (const answer of answers) expect(['accepting', `200 clip ${clipId}`]).toContain(answer);
+    const after = await tusHead(coachSession, created.location!);
+    expect(after).toMatchObject({ status: 200, offset: size, length: size });
+    expect(after.headers['trailframe-clip-id']).toBe(String(clipId));
+    expect((await t.db('clips').count<{ n: number }[]>({ n: '*' }))[0]!.n).toBe(clipsBefore + 1);
+    await t.worker!.idle();
+  });
+});
+
 describe('abandoned partial uploads', () => {
   it('are removed once unwritten for the set age; newer ones and their offsets stay', async () => {
     const size = fs.statSync(clip).size;
@@ -294,6 +326,7 @@ describe('abandoned partial uploads', () => {
       dir: partsDir(),
       maxBytes: t.config.uploadMaxBytes,
       clips: {} as ClipsService,
+      claims: uploadClaims(t.db),
       logger: pino({ level: 'silent' }),
     });
     expect(await sweeper.sweep(maxAgeMs)).toEqual([oldId]);

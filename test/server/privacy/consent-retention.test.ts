@@ -220,6 +220,40 @@ describe('clip retention', () => {
     await t.runDailyPrivacyCheck();
     expect(await t.db('clip_retention_reviews').count('* as n')).toEqual(n);
   });
+
+  it('confirmed twice at once (a double click, a resend): the clips go once; the other answer is 409 review_confirmed; one audit entry per athlete', async () => {
+    const clipId = (await upload(coach, await assessmentOf(teodorId))).body.id as number;
+    await t.worker!.idle();
+    expect((await owner.put('/api/clinic/retention', { months: 1 })).status).toBe(200);
+    t.advance(2 * 31 * DAY);
+    const review = (await owner.post('/api/clinic/retention/reviews')).body.review;
+    const items = review.items as { clipId: number; athleteId: number }[];
+    expect(items.map((i) => i.clipId)).toContain(clipId);
+    const lastAudit = ((await t.db('audit_log').max('id as id').first()) as { id: number }).id;
+
+    const answers = await Promise.all([1, 2].map(() => owner.post(`/api/clinic/retention/reviews/${review.id}/confirm`)));
+    expect(answers.map((a) => a.status).sort()).toEqual([200, 409]);
+    expect(answers.find((a) => a.status === 409)!.body.error.code).toBe('review_confirmed');
+    expect(answers.find((a) => a.status === 200)!.body.review.removedCount).toBe(items.length);
+    expect(
+      await t
+        .db('clips')
+        .whereIn(
+          'id',
+          items.map((i) => i.clipId),
+        )
+        .count('* as n'),
+    ).toEqual([{ n: 0 }]);
+    const entries = (await t.db('audit_log').where('id', '>', lastAudit).where({ action: 'athlete.clips_removed_by_retention' })) as {
+      athlete_id: number;
+      detail: string;
+    }[];
+    // Counted here from the list itself: one entry per athlete, naming that athlete's clips.
+    const perAthlete = new Map<number, number>();
+    for (const i of items) perAthlete.set(i.athleteId, (perAthlete.get(i.athleteId) ?? 0) + 1);
+    expect(new Map(entries.map((e) => [e.athlete_id, (JSON.parse(e.detail) as { clips: number }).clips]))).toEqual(perAthlete);
+    expect(entries).toHaveLength(perAthlete.size);
+  });
 });
 
 describe('athlete erasure and a server stop', () => {

@@ -4,7 +4,8 @@ import { Observable } from 'rxjs';
 import { Upload } from 'tus-js-client';
 import type { Clip } from '../../../contracts/api';
 import { UPLOAD } from '../../../contracts/assessment';
-import { parseBody, shouldRetry, uploadHttpError } from './tus-answers';
+import { AssessmentsApi } from './assessments-api';
+import { madeClipId, parseBody, shouldRetry, uploadHttpError } from './tus-answers';
 
 /**
  * What an upload reports: bytes sent so far, a lost connection being retried and the server
@@ -42,6 +43,7 @@ export interface ResumableUpload {
 @Injectable({ providedIn: 'root' })
 export class ResumableClipUploads {
   private readonly xsrf = inject(HttpXsrfTokenExtractor);
+  private readonly api = inject(AssessmentsApi);
 
   upload(assessmentId: number, file: File): ResumableUpload {
     let current: Upload | null = null;
@@ -77,9 +79,19 @@ export class ResumableClipUploads {
         },
         onSuccess: ({ lastResponse }) => {
           const clip = parseBody(lastResponse.getBody()) as Clip | null;
+          const madeId = madeClipId(lastResponse);
           if (clip && typeof clip.id === 'number') {
             subscriber.next({ type: 'done', clip });
             subscriber.complete();
+          } else if (madeId !== null) {
+            // Made by an earlier request whose answer was lost (the server's HEAD names the clip): done.
+            this.api.getClip(madeId).subscribe({
+              next: (made) => {
+                subscriber.next({ type: 'done', clip: made });
+                subscriber.complete();
+              },
+              error: (err: unknown) => subscriber.error(err),
+            });
           } else {
             // Finished earlier (the answer was lost): the clip is already in the list.
             subscriber.error(new HttpErrorResponse({ status: 409, error: { error: { message: ALREADY_SENT } } }));

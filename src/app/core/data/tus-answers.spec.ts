@@ -1,4 +1,4 @@
-import { parseBody, shouldRetry, uploadHttpError, type UploadFailure } from './tus-answers';
+import { madeClipId, parseBody, shouldRetry, uploadHttpError, type UploadFailure } from './tus-answers';
 
 /** A failure with the server's answer (status and body), as tus-js-client reports it. */
 const answered = (status: number, body = ''): UploadFailure => ({
@@ -19,6 +19,12 @@ describe('tus answers', () => {
     expect(shouldRetry(answered(409, errorBody('upload_offset_mismatch')))).toBe(true);
     expect(shouldRetry(answered(409, errorBody('consent_required')))).toBe(false);
     for (const status of [400, 403, 404, 410, 412, 413, 422]) expect(shouldRetry(answered(status, errorBody('x')))).toBe(false);
+  });
+
+  it('reads the clip a complete upload became from HEAD (Trailframe-Clip-Id), or none', () => {
+    const head = (value: string | undefined) => ({ getHeader: (name: string) => (name === 'Trailframe-Clip-Id' ? value : undefined) });
+    expect(madeClipId(head('42'))).toBe(42);
+    for (const value of [undefined, '', '0', '-3', '4.5', 'abc']) expect(madeClipId(head(value)), String(value)).toBeNull();
   });
 
   it("turns the failure into the HttpErrorResponse the upload rows read, with the server's body", () => {

@@ -24,6 +24,15 @@ export function parseBody(body: string | undefined): unknown {
   }
 }
 
+/**
+ * The clip an upload became, when the server answers HEAD that it is complete: an earlier PATCH
+ * made it and its answer was lost (header `Trailframe-Clip-Id`); null when the answer names none.
+ */
+export function madeClipId(res: { getHeader(name: string): string | undefined }): number | null {
+  const id = Number(res.getHeader('Trailframe-Clip-Id'));
+  return Number.isSafeInteger(id) && id > 0 ? id : null;
+}
+
 function errorCode(body: string | undefined): string | null {
   const parsed = parseBody(body) as { error?: { code?: unknown } } | null;
   return typeof parsed?.error?.code === 'string' ? parsed.error.code : null;
