@@ -7,7 +7,7 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import path from 'node:path';
 import { makeClip, tempDir } from './media/fixtures';
-import { baselineVisit, intakeWith } from '../support/bodies';
+import { baselineVisit, intakeWith, uploadClip } from '../support/bodies';
 import { Client, makeTestApp, signedIn, type TestApp } from '../support/test-app';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
 import { exportPrefix } from '../../server/storage/media-keys';
@@ -21,12 +21,7 @@ let coach: Client;
 let dir: { dir: string; cleanup: () => Promise<void> };
 let clipFile: string;
 
-async function upload(c: Client, assessmentId: number) {
-  return c.agent
-    .post(`/api/assessments/${assessmentId}/clips`)
-    .set('X-XSRF-TOKEN', await c.xsrf())
-    .attach('file', clipFile);
-}
+const upload = (c: Client, assessmentId: number) => uploadClip(c, assessmentId, clipFile);
 
 /** A new athlete of the clinic with consent to video and one visit. */
 async function athleteWithVisit(first: string): Promise<{ id: number; name: string; visitId: number }> {

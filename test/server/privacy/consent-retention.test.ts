@@ -10,7 +10,7 @@ import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import fs from 'node:fs';
 import path from 'node:path';
 import { makeClip, tempDir } from '../media/fixtures';
-import { intakeWith } from '../../support/bodies';
+import { intakeWith, uploadClip } from '../../support/bodies';
 import { Client, makeTestApp, signedIn, type TestApp } from '../../support/test-app';
 import { DEMO_SIGN_INS } from '../../../seeds/demo-scenario';
 
@@ -28,12 +28,7 @@ let teodorId: number;
 let dir: { dir: string; cleanup: () => Promise<void> };
 let clipFile: string;
 
-async function upload(c: Client, assessmentId: number) {
-  return c.agent
-    .post(`/api/assessments/${assessmentId}/clips`)
-    .set('X-XSRF-TOKEN', await c.xsrf())
-    .attach('file', clipFile);
-}
+const upload = (c: Client, assessmentId: number) => uploadClip(c, assessmentId, clipFile);
 
 async function assessmentOf(athleteId: number): Promise<number> {
   const row = await t.db('assessments').where({ athlete_id: athleteId }).orderBy('id').first();
