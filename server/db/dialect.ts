@@ -100,12 +100,18 @@ export function skipLocked(db: Knex, query: Knex.QueryBuilder): Knex.QueryBuilde
 }
 
 /**
- * Adds `FOR UPDATE` on PostgreSQL, so a transaction that reads a row this way waits for another
- * one holding it (e.g. a clinic's row while an invoice number is given); SQLite has one writer at
- * a time and needs none.
+ * Adds `FOR NO KEY UPDATE` on PostgreSQL, so a transaction that reads a row this way waits for
+ * another one holding it (e.g. a clinic's row while an invoice number is given); SQLite has one
+ * writer at a time and needs none.
+ *
+ * Not `FOR UPDATE`: that lock also holds back every insert whose foreign key points at the row
+ * (PostgreSQL checks a reference with `FOR KEY SHARE`), so a transaction holding one person's row
+ * and inserting an audit entry that names another could deadlock with one doing the reverse (two
+ * deactivations sent at once did). These locks guard the row's state, never its key, and
+ * `FOR NO KEY UPDATE` still excludes every other holder, an update and a delete of the row.
  */
 export function lockedForUpdate(db: Knex, query: Knex.QueryBuilder): Knex.QueryBuilder {
-  return isPostgres(db) ? query.forUpdate() : query;
+  return isPostgres(db) ? query.forNoKeyUpdate() : query;
 }
 
 /**

@@ -1,0 +1,58 @@
+/**
+ * The row locks services take as a mutex (`lockedForUpdate`) on PostgreSQL: they exclude each other
+ * but let other transactions insert rows that refer to the locked one. With `FOR UPDATE` an insert
+ * naming a locked person (an audit entry, a session) waited for the holder, and two deactivations
+ * sent at once deadlocked: each held one coach's row and inserted an audit entry naming the
+ * owner the other held (PostgreSQL answered 40P01 and the API 500). SQLite has one writer at a
+ * time and takes no row locks, so these cases are PostgreSQL's.
+ *
+ * Reference: PostgreSQL 15 manual, "Explicit Locking", row-level lock conflicts (FOR NO KEY UPDATE
+ * does not conflict with FOR KEY SHARE, which foreign-key checks take; FOR UPDATE does).
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { lockedForUpdate } from '../../server/db/dialect';
+import { makeTestApp, type TestApp } from '../support/test-app';
+import { onPostgres, titleSkippedWhen } from '../support/test-db';
+
+const why = 'SQLite takes no row locks';
+
+let t: TestApp;
+let ownerId: number;
+let clinicId: number;
+
+beforeAll(async () => {
+  t = await makeTestApp({}, { fakeSmtp: false });
+  const owner = await t.db('users').where({ role: 'owner' }).orderBy('id').first();
+  ownerId = owner.id;
+  clinicId = owner.clinic_id;
+});
+
+afterAll(async () => {
+  await t?.close();
+});
+
+describe.skipIf(!onPostgres)('row locks on PostgreSQL', () => {
+  it(titleSkippedWhen(!onPostgres, 'a locked person can still be named by an insert in another transaction', why), async () => {
+    await t.db.transaction(async (holder) => {
+      await lockedForUpdate(holder, holder('users').where({ id: ownerId }).select('id'));
+      await t.db.transaction(async (other) => {
+        // Without the fix this insert waits for `holder` until the timeout (55P03).
+        await other.raw("SET LOCAL lock_timeout = '3s'");
+        await other('audit_log').insert({ clinic_id: clinicId, actor_id: ownerId, action: 'test.lock', at: new Date().toISOString() });
+      });
+    });
+    const [{ n }] = await t.db('audit_log').where({ action: 'test.lock' }).count({ n: '*' });
+    expect(Number(n)).toBe(1);
+  });
+
+  it(titleSkippedWhen(!onPostgres, 'two holders of the same row still wait for each other', why), async () => {
+    await t.db.transaction(async (holder) => {
+      await lockedForUpdate(holder, holder('users').where({ id: ownerId }).select('id'));
+      const second = t.db.transaction(async (other) => {
+        await other.raw("SET LOCAL lock_timeout = '300ms'");
+        await lockedForUpdate(other, other('users').where({ id: ownerId }).select('id'));
+      });
+      await expect(second).rejects.toMatchObject({ code: '55P03' });
+    });
+  });
+});
