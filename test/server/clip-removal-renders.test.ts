@@ -16,7 +16,7 @@ import type { MediaStore } from '../../server/storage/media-store';
 import type { ProcessedItem } from '../../server/processing/processed-item';
 import pino from 'pino';
 
-const [, coach, , athlete] = DEMO_SIGN_INS;
+const [owner, coach, , athlete] = DEMO_SIGN_INS;
 let t: TestApp;
 let c: Client;
 let dir: { dir: string; cleanup: () => Promise<void> };
@@ -133,5 +133,23 @@ describe('removing a clip while its still is being drawn elsewhere', () => {
     expect(out).toBeNull();
     expect(await t.store.list(`clips/${spareClip}/`)).toEqual([]);
     expect((await c.get(`/api/stills/${res.body.id}`)).body).toMatchObject({ status: 'failed' });
+  });
+});
+
+describe('erasing the athlete while renders about their clips wait', () => {
+  it('cancels them too: nothing is left to run, their rows and files are gone (404)', async () => {
+    const still = await c.post(`/api/clips/${baselineClip}/stills`, { frameIndex: 2, caption: 'before erasure', showAngles: false });
+    expect(still.status, JSON.stringify(still.body)).toBe(202);
+    const video = await c.post(`/api/clips/${baselineClip}/annotated-clips`, { fromFrame: 0, toFrame: 5, factor: 1, caption: '' });
+    expect(video.status, JSON.stringify(video.body)).toBe(202);
+    const o = await signedIn(t.app, owner.email, owner.password);
+    const ada = await t.db('athletes').where({ id: adaId }).first();
+    const erased = await o.post(`/api/athletes/${adaId}/erasure`, { confirmName: `${ada.first_name} ${ada.last_name}` });
+    expect(erased.status, JSON.stringify(erased.body)).toBe(200);
+    expect(await t.db('processed_items').whereIn('state', ['queued', 'running']).pluck('id')).toEqual([]);
+    expect(await t.processing.queue.claim()).toBeNull();
+    expect((await c.get(`/api/stills/${still.body.id}`)).status).toBe(404);
+    expect((await c.get(`/api/annotated-clips/${video.body.id}`)).status).toBe(404);
+    expect(await t.store.list(`clips/${baselineClip}/`)).toEqual([]);
   });
 });
