@@ -95,8 +95,8 @@ export function renderAnnotatedClipKind(d: { db: Db; store: MediaStore }): Proce
         return rendered;
       });
       const current = await repo.findById(db, id);
-      if (!current || current.render_version !== version) {
-        // Deleted meanwhile: this video belongs to nobody.
+      if (!current || current.render_version !== version || current.status === 'failed' || lostBaseline(current)) {
+        // Deleted or a clip of it removed meanwhile (the removal failed it): this video belongs to nobody.
         await removeAnnotatedVideo(store, row, version);
         return null;
       }

@@ -23,6 +23,7 @@ import { clipsRepository as repo, type ClipRow } from './clips-repository';
 import type { ClipPatch } from './clips-schemas';
 import { EXTRACT_FRAMES, extractFramesKind } from './extract-frames-kind';
 import { readyManifests } from './ready-manifests';
+import { cancelRendersOfClip } from '../sharing/renders-of-clip';
 
 export interface ClipsDeps {
   db: Db;
@@ -123,6 +124,7 @@ export function clipsService(d: ClipsDeps): ClipsService {
   async function removeClips(rows: Pick<ClipRow, 'id' | 'assessment_id'>[]): Promise<void> {
     for (const row of rows) {
       await processing.cancel('clip', row.id);
+      await cancelRendersOfClip(db, processing, row.id);
       // Files before the row: a server stop halfway leaves the row, so deleting again removes the
       // rest (never files no row names). Once more after the row, for frames an extraction running
       // elsewhere wrote meanwhile (it removes its own once it finds the row gone).

@@ -52,7 +52,7 @@ export interface ResumableUploads {
    * so is 423 `upload_locked` while a request (of this or another server process) is accepting it.
    */
   acceptStranded(id: string, context: UploadRequestContext): Promise<UploadOwner['finished']>;
-  /** Removes partial uploads not written for `olderThanMs` (0: all not in flight). Returns their ids. */
+  /** Removes partial uploads not written for `olderThanMs` (0: all not in flight), and stale claims (`UploadClaims.sweep`). Returns the uploads' ids. */
   sweep(olderThanMs: number): Promise<string[]>;
   /** Removes every partial upload (in flight or not) to one of these assessments: their bytes go with an erased athlete's clips. */
   removeForAssessments(assessmentIds: readonly number[]): Promise<void>;
@@ -289,6 +289,12 @@ export function resumableUploads(d: ResumableUploadsDeps): ResumableUploads {
   }
 
   async function sweep(olderThanMs: number): Promise<string[]> {
+    // Claims left by a server killed while it made an upload into a clip go first (never a live one).
+    const claims = await d.claims.sweep().catch((err: Error) => {
+      d.logger.warn({ err: err.message }, 'resumable upload claims sweep failed');
+      return 0;
+    });
+    if (claims) d.logger.info({ claims }, 'stale resumable upload claims removed');
     const names = await fs.promises.readdir(d.dir).catch(() => [] as string[]);
     const ids = new Set(names.map((n) => n.replace(/\.json$/, '')).filter((id) => UPLOAD_ID.test(id)));
     const removed: string[] = [];

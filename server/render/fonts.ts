@@ -13,10 +13,18 @@ import { needsScriptFonts, SCRIPT_FONTS } from './script-fonts';
 const require = createRequire(import.meta.url);
 const filesDir = path.join(path.dirname(require.resolve('@fontsource/source-sans-3/package.json')), 'files');
 
-/** Latin subset, WOFF: both fontkit (pdfkit) and Skia (@napi-rs/canvas) read it. */
-function face(weight: 400 | 600 | 700, style: 'normal' | 'italic' = 'normal'): string {
-  return path.join(filesDir, `source-sans-3-latin-${weight}-${style}.woff`);
+/** One web subset of a face, WOFF: both fontkit (pdfkit) and Skia (@napi-rs/canvas) read it. */
+function face(weight: 400 | 600 | 700, style: 'normal' | 'italic' = 'normal', subset = 'latin'): string {
+  return path.join(filesDir, `source-sans-3-${subset}-${weight}-${style}.woff`);
 }
+
+/** The four faces stills and clips use (regular, semibold, bold, italic) of one subset. */
+const subsetFaces = (subset: string) => [
+  face(400, 'normal', subset),
+  face(600, 'normal', subset),
+  face(700, 'normal', subset),
+  face(400, 'italic', subset),
+];
 
 /** The web app's Latin-subset faces by role (what stills draw with). */
 export const FONT_FILES = {
@@ -25,6 +33,17 @@ export const FONT_FILES = {
   bold: face(700),
   italic: face(400, 'italic'),
 } as const;
+
+/**
+ * The web app's other Source Sans 3 subsets, each a family of its own right after the Latin one in
+ * {@link CANVAS_FONT_STACK}: accented Latin (Ł, ğ, ő), Greek and Cyrillic letters of captions and
+ * names are drawn with them, the same on every machine, instead of a system font that has them (a
+ * bare machine drew boxes). Latin text keeps the Latin subset's exact pixels (the first family has it).
+ */
+const SUBSET_FAMILIES = ['latin-ext', 'greek', 'greek-ext', 'cyrillic', 'cyrillic-ext'].map((subset) => ({
+  family: `Source Sans 3 ${subset}`,
+  files: subsetFaces(subset),
+}));
 
 /**
  * The complete Source Sans 3 faces (npm `source-sans`, Adobe's release, TrueType) by role, for PDFs:
@@ -43,11 +62,20 @@ export const PDF_FONT_FILES = {
 export const CANVAS_FONT_FAMILY = 'Source Sans 3';
 
 /**
- * The family list stills and clips draw with: Source Sans 3, then the bundled Hebrew, Arabic and CJK
- * faces ({@link SCRIPT_FONTS}) for the characters it lacks. Skia picks the face per character and lays
+ * The family list stills and clips draw with: Source Sans 3 (Latin, then its accented Latin, Greek and
+ * Cyrillic subsets), then the bundled Hebrew, Arabic and CJK faces ({@link SCRIPT_FONTS}) for the characters it lacks. Skia picks the face per character and lays
  * right-to-left text out by the bidi algorithm itself; never a system font.
  */
-export const CANVAS_FONT_STACK = [CANVAS_FONT_FAMILY, ...SCRIPT_FONTS.map((f) => f.name)].map((f) => `"${f}"`).join(', ');
+export const CANVAS_FONT_STACK = [CANVAS_FONT_FAMILY, ...SUBSET_FAMILIES.map((f) => f.family), ...SCRIPT_FONTS.map((f) => f.name)]
+  .map((f) => `"${f}"`)
+  .join(', ');
+
+/** Every bundled family of {@link CANVAS_FONT_STACK} with its files (the script faces registered on first need). */
+export const CANVAS_FACES: readonly { family: string; files: readonly string[] }[] = [
+  { family: CANVAS_FONT_FAMILY, files: Object.values(FONT_FILES) },
+  ...SUBSET_FAMILIES,
+  ...SCRIPT_FONTS.map((f) => ({ family: f.name, files: [...new Set([f.regular, f.bold])] })),
+];
 
 let canvasModule: Promise<typeof NapiCanvas> | undefined;
 let scriptFontsRegistered = false;
@@ -60,6 +88,7 @@ let scriptFontsRegistered = false;
 export async function loadCanvas(texts: Iterable<string> = []): Promise<typeof NapiCanvas> {
   canvasModule ??= import('@napi-rs/canvas').then((canvas) => {
     for (const file of Object.values(FONT_FILES)) canvas.GlobalFonts.registerFromPath(file, CANVAS_FONT_FAMILY);
+    for (const f of SUBSET_FAMILIES) for (const file of f.files) canvas.GlobalFonts.registerFromPath(file, f.family);
     return canvas;
   });
   const canvas = await canvasModule;

@@ -71,8 +71,8 @@ export function renderStillKind(d: { db: Db; store: MediaStore }): ProcessingKin
       await store.put(keys.still(id, version, 'png'), out.png);
       await store.put(keys.still(id, version, 'jpeg'), out.jpeg);
       const current = await repo.findById(db, id);
-      if (!current || current.render_version !== version) {
-        // Deleted or re-captioned meanwhile: these images belong to nobody.
+      if (!current || current.render_version !== version || current.clip_id !== row.clip_id || current.status === 'failed') {
+        // Deleted, re-captioned or its clip removed meanwhile (the removal failed it): these images belong to nobody.
         await removeStillImages(store, row, version);
         return null;
       }

@@ -1,8 +1,9 @@
 /**
  * An act on an invoice (issue, recorded payment, cancel, refund) sent again after its answer was lost,
- * or twice at once (a double click): with the same `Idempotency-Key` it answers the invoice as it is
- * now, and the act happens once (one number, one e-mail, one payment); a different key, or the same
- * key with other payment details, is refused as before. Amounts: the demo's Re-test, 65.00 + 20 % = 78.00 EUR.
+ * or twice at once (a double click): with the same `Idempotency-Key` it answers the invoice as the act
+ * left it, and the act happens once (one number, one e-mail, one payment); once the invoice has moved
+ * on since (cancelled after the issue, refunded after the payment) 409 `invoice_changed_since` says so; a
+ * different key, or the same key with other payment details, is refused as before. Amounts: the demo's Re-test, 65.00 + 20 % = 78.00 EUR.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, signedIn, type Client, type TestApp } from '../support/test-app';
@@ -66,15 +67,30 @@ describe('issuing sent again', () => {
     expect((await o.post(`/api/invoices/${d.id}/issue`)).status).toBe(409);
   });
 
-  it("an issue key is not a cancel: cancelling with the issue's key is a new act (done), issuing again after that answers the cancelled invoice", async () => {
+  it("an issue key is not a cancel: cancelling with the issue's key is a new act (done); issuing again after that answers 409 invoice_changed_since", async () => {
     const d = await draft();
     expect((await keyed(`/api/invoices/${d.id}/issue`, 'issue-key-0003')).status).toBe(200);
     const cancel = await keyed(`/api/invoices/${d.id}/cancel`, 'issue-key-0003');
     expect(cancel.status).toBe(200);
     expect(cancel.body.status).toBe('cancelled');
     const retry = await keyed(`/api/invoices/${d.id}/issue`, 'issue-key-0003');
-    expect(retry.status).toBe(200);
-    expect(retry.body.status).toBe('cancelled');
+    expect(retry.status).toBe(409);
+    expect(retry.body.error.code).toBe('invoice_changed_since');
+    expect(retry.body.error.message).toContain('issued by this request and has since been cancelled');
+  });
+
+  it('the issue sent again after someone cancelled the invoice answers 409 saying so, never 200 with the cancelled invoice; nothing changes', async () => {
+    const d = await draft();
+    const first = await keyed(`/api/invoices/${d.id}/issue`, 'issue-key-0004');
+    expect(first.status).toBe(200);
+    expect((await o.post(`/api/invoices/${d.id}/cancel`)).status).toBe(200);
+    const before = mailsTo(athlete.email);
+    const retry = await keyed(`/api/invoices/${d.id}/issue`, 'issue-key-0004');
+    expect(retry.status).toBe(409);
+    expect(retry.body.error).toMatchObject({ code: 'invoice_changed_since' });
+    expect(retry.body.error.message).toContain('has since been cancelled');
+    expect(mailsTo(athlete.email)).toBe(before);
+    expect(await t.db('invoices').where({ id: d.id }).first()).toMatchObject({ status: 'cancelled', number: first.body.number });
   });
 });
 
@@ -120,6 +136,17 @@ describe('a recorded payment sent again', () => {
       payment_method: 'bank_transfer',
       payment_note: 'Transfer ref. 2211',
     });
+  });
+
+  it('sent again after the payment was refunded answers 409 invoice_changed_since; the refund stays', async () => {
+    const inv = await issued();
+    expect((await keyed(`/api/invoices/${inv.id}/payments`, 'pay-key-0005', body)).status).toBe(200);
+    expect((await o.post(`/api/invoices/${inv.id}/refund`, { note: 'Returned' })).status).toBe(200);
+    const retry = await keyed(`/api/invoices/${inv.id}/payments`, 'pay-key-0005', body);
+    expect(retry.status).toBe(409);
+    expect(retry.body.error.code).toBe('invoice_changed_since');
+    expect(retry.body.error.message).toContain('marked paid by this request and has since been refunded');
+    expect((await t.db('invoices').where({ id: inv.id }).first()).status).toBe('refunded');
   });
 
   it('a malformed key answers 422 and records nothing', async () => {

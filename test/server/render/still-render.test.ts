@@ -6,7 +6,8 @@
  */
 import { createCanvas, loadImage } from '@napi-rs/canvas';
 import { describe, expect, it } from 'vitest';
-import { CANVAS_FONT_FAMILY, loadCanvas } from '../../../server/render/fonts';
+import * as fontkit from 'fontkit';
+import { CANVAS_FACES, CANVAS_FONT_FAMILY, CANVAS_FONT_STACK, loadCanvas } from '../../../server/render/fonts';
 import { clampLines, renderStill, wrapText } from '../../../server/render/still-render';
 import { STILL_CAUTION_LINE } from '../../../src/contracts/sharing';
 
@@ -164,6 +165,7 @@ describe('renderStill: names and captions in other scripts', () => {
     ['Hebrew', 'שרה כהן'],
     ['Arabic', 'ليلى حداد'],
     ['Greek', 'Αλέξης'],
+    ['Cyrillic', 'Жанна Шевчук'],
     ['accented Latin', 'Zoë Łukasiewicz'],
   ])('a %s caption draws glyphs, not the missing-glyph box a non-character (U+FFFF) draws', async (_script, text) => {
     const drawn = await pixels(await still(text));
@@ -172,5 +174,21 @@ describe('renderStill: names and captions in other scripts', () => {
     let differing = 0;
     for (let i = 0; i < drawn.length; i += 4) if (Math.abs(drawn[i]! - boxes[i]!) > 60) differing++;
     expect(differing).toBeGreaterThan(50);
+  });
+
+  // Source Sans 3's published coverage (Latin with its extensions, Greek, Cyrillic; [mem]) in the
+  // web app's own subsets: what a still draws these with must be a bundled face, the same on every
+  // machine, never whatever system font has the letter (a bare machine draws boxes).
+  it.each([
+    ['Greek', 'Αλέξης Παπαδόπουλος ΓΔΘΛΞΠΣΦΨΩ άέήίόύώ'],
+    ['Cyrillic', 'Жанна Шевчук ЁЙЩЫЭЮЯ ёйщыэюя Ґґ Єє Її Ўў'],
+    ['accented Latin', 'Zoë Łukasiewicz Ğülşen Dvořák Ærøskøbing Őrs'],
+  ])("every character of a %s caption or name has a glyph in a bundled face of the stills' font stack", (_script, text) => {
+    const families = [...CANVAS_FONT_STACK.matchAll(/"([^"]+)"/g)].map((m) => m[1]!);
+    const bundled = new Map(CANVAS_FACES.map((f) => [f.family, f.files]));
+    expect(families.every((f) => bundled.has(f))).toBe(true);
+    const faces = families.filter((f) => !f.startsWith('Trailframe ')).map((f) => fontkit.openSync(bundled.get(f)![0]!));
+    const missing = [...text].filter((ch) => ch.trim() && !faces.some((face) => face.hasGlyphForCodePoint(ch.codePointAt(0)!)));
+    expect(missing).toEqual([]);
   });
 });
