@@ -13,6 +13,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { generateRunnerClip, type GroundTruth } from '../../../scripts/demo-clip/clip';
 import { DEMO_SIGN_INS } from '../../../seeds/demo-scenario';
 import type { ClipAnnotations } from '../../../src/contracts/annotations';
+import type { ClipMeasures } from '../../../src/contracts/measures';
 import { uploadClip } from '../../support/bodies';
 import { makeTestApp, signedIn, type Client, type TestApp } from '../../support/test-app';
 import { ffmpegRun, ffprobeCounted, ffprobeFrameTimes, tempDir } from '../media/fixtures';
@@ -26,6 +27,8 @@ let c: Client;
 let dir: { dir: string; cleanup: () => Promise<void> };
 let truth: GroundTruth;
 let assessmentId: number;
+/** The uneven clip once followed, and ffprobe's frame times of it (s). */
+let uneven: { clipId: number; times: number[] } | null = null;
 
 /**
  * Writes an MP4 whose frame k shows source picture `frames[k].picture` at `frames[k].tick` / 240 s
@@ -115,7 +118,7 @@ async function followThrough(file: string, frames: { picture: number }[]) {
   const read = (await c.get(`/api/clips/${clipId}/annotations`)).body as ClipAnnotations;
   const audit = await t.db('audit_log').where({ action: 'clip.markers-followed' }).orderBy('id', 'desc').first();
   const detail = JSON.parse(audit.detail) as { lost: Record<string, { frame: number; reason: string }[]>; repeatedFrames: number[] };
-  return { manifest, read, detail };
+  return { clipId, manifest, read, detail };
 }
 
 /** Per frame and marker: the followed point's error against the truth (px), or the saved reason it was lost. */
@@ -149,7 +152,8 @@ describe('following markers on a variable-frame-rate clip', () => {
     const counted = await ffprobeCounted(file);
     const times = await ffprobeFrameTimes(file);
     expect(counted.nbReadFrames).toBe(frames.length);
-    const { manifest, read, detail } = await followThrough(file, frames);
+    const { clipId, manifest, read, detail } = await followThrough(file, frames);
+    uneven = { clipId, times };
     // Outside reference: ffprobe's frame count and per-frame times.
     expect(manifest.frameCount).toBe(counted.nbReadFrames);
     expect(manifest.timestampsSource).toBe('decoded');
@@ -161,6 +165,35 @@ describe('following markers on a variable-frame-rate clip', () => {
     expect(quantile(errors, 0.5)).toBeLessThanOrEqual(2);
     expect(quantile(errors, 0.95)).toBeLessThanOrEqual(5);
   }, 120_000);
+
+  it('contact time on the uneven clip uses the frames’ real times: a worked example from ffprobe’s timestamps, not frames ÷ fps', async () => {
+    expect(uneven).not.toBeNull();
+    const { clipId, times } = uneven!;
+    // Worked by hand from the gaps (4 4 3 5 4 8 4 5 3 4 4 6 ticks of 1/240 s, repeating): frame 13 is
+    // at 58 ticks and frame 27 at 119, so contact lasts 61/240 s = 0.254167 s; counting 14 frames at
+    // the clip's average rate (about 54 fps) would say about 0.26 s.
+    const contactFrame = 13;
+    const toeOffFrame = 27;
+    expect(times[contactFrame]! * 240).toBeCloseTo(58, 3); // ffprobe (best_effort_timestamp_time, printed to 1 µs)
+    expect(times[toeOffFrame]! * 240).toBeCloseTo(119, 3);
+    const current = (await c.get(`/api/clips/${clipId}/annotations`)).body as ClipAnnotations;
+    const events = [
+      { frame: contactFrame, side: truth.nearSide, kind: 'initial_contact' },
+      { frame: toeOffFrame, side: truth.nearSide, kind: 'toe_off' },
+    ];
+    const saved = await c.put(`/api/clips/${clipId}/annotations`, {
+      baseRevision: current.revision,
+      landmarks: current.landmarks,
+      events,
+      scale: null,
+    });
+    expect(saved.status, JSON.stringify(saved.body).slice(0, 300)).toBe(200);
+    const measures = (await c.get(`/api/clips/${clipId}/measures`)).body as ClipMeasures;
+    const contact = measures.measures.find((m) => m.key === 'contact_time' && m.side === truth.nearSide)!;
+    const inSeconds = contact.mean! * (contact.unit === 'ms' ? 0.001 : 1);
+    expect(inSeconds).toBeCloseTo(61 / 240, 5);
+    expect(inSeconds).toBeCloseTo(times[toeOffFrame]! - times[contactFrame]!, 5);
+  });
 
   it('repeated pictures (the phone repeats a frame, the next one catches up): the repeats are found and every frame gets a followed point (or a saved reason it was lost), on the markers', async () => {
     const frames = repeatedFrames();
