@@ -6,9 +6,12 @@
 import type { Db } from '../db/knex';
 import type { AnnotationsService } from '../annotations/annotations-service';
 import { PermanentError, type ProcessingKind } from '../processing/processed-item';
+import type { ClipManifest } from '../media/manifest';
+import { clipKeys } from '../storage/media-keys';
 import type { MediaStore } from '../storage/media-store';
+import { readJson } from '../storage/stored-objects';
 import { mergeFollowed, planFollow } from './follow-plan';
-import { followMarkers } from './marker-follower';
+import { followMarkers, type LostPoint } from './marker-follower';
 import { loadOpenCv } from './opencv';
 import { storedFrameReader } from './stored-frames';
 
@@ -28,6 +31,9 @@ interface Followed {
   points: number;
   lowConfidenceFrames: number;
   notOnDot: string[];
+  /** Per marker (`side landmark`), the frames it was not found on and why. */
+  lost: Record<string, LostPoint[]>;
+  repeatedFrames: number[];
 }
 
 export function followMarkersKind(d: { db: Db; store: MediaStore; annotations: AnnotationsService }): ProcessingKind<Followed | null> {
@@ -58,23 +64,34 @@ export function followMarkersKind(d: { db: Db; store: MediaStore; annotations: A
         throw new PermanentError(`Frame ${range.startFrame} has no landmarks any more: place them, then follow again.`);
       const cv = await loadOpenCv();
       const reader = storedFrameReader(store, clipId, { frameCount: clip.frame_count, ...size });
+      // The frames' real times: a phone's variable frame rate makes intervals uneven.
+      const manifest = await readJson<ClipManifest>(store, clipKeys(clipId).manifest);
       const result = await followMarkers(cv, reader, {
         ...range,
         ...plan,
+        timesMs: manifest?.timestampsMs,
         onProgress: (done, total) => ctx.progress(done, total),
         signal: ctx.signal,
       });
       ctx.signal.throwIfAborted();
       let points = 0;
       for (const list of result.points.values()) points += list.length;
+      // Every frame of the range is followed, placed, or lost here with the reason: none goes missing unsaid.
+      const lost = Object.fromEntries([...result.lost].filter(([, list]) => list.length > 0));
       await annotations.changeLandmarks(
         { id: user.id, name: user.name, clinicId: user.clinic_id },
         clipId,
         (landmarks) => mergeFollowed(landmarks, result, range, size),
         'clip.markers-followed',
-        { ...range, points, lowConfidenceFrames: result.lowConfidenceFrames.length },
+        { ...range, points, lowConfidenceFrames: result.lowConfidenceFrames.length, lost, repeatedFrames: result.repeatedFrames },
       );
-      return { points, lowConfidenceFrames: result.lowConfidenceFrames.length, notOnDot: result.notOnDot };
+      return {
+        points,
+        lowConfidenceFrames: result.lowConfidenceFrames.length,
+        notOnDot: result.notOnDot,
+        lost,
+        repeatedFrames: result.repeatedFrames,
+      };
     },
 
     async onReady() {

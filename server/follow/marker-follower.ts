@@ -43,6 +43,13 @@ export interface FollowRequest {
    * links to well-followed markers than it keeps is taken as lost (it jumped to something else).
    */
   links?: ReadonlyArray<readonly [string, string]>;
+  /**
+   * Presentation time of every frame of the clip, ms (the manifest's decoded `timestampsMs`, index =
+   * frame). A marker's motion is predicted per millisecond, so on a variable-frame-rate clip (a
+   * phone's frame intervals vary, and it drops frames) a longer interval predicts a longer move.
+   * Absent, or not strictly increasing: every interval counts as one frame.
+   */
+  timesMs?: readonly number[];
   /** Called after each frame with frames done and frames to do. */
   onProgress?: (done: number, total: number) => void;
   /** Stops following (the result so far is thrown away by the caller). */
@@ -64,6 +71,60 @@ export interface FollowResult {
   notOnDot: string[];
   /** Frames where at least one marker was below {@link LOW_CONFIDENCE} or not found, ascending. */
   lowConfidenceFrames: number[];
+  /**
+   * Every frame of the range where a marker got no point (apart from the start frame and frames a
+   * person placed it on), with why: per marker key, ascending by frame. With `points`, every frame
+   * of the range is accounted for: followed, placed, or lost here.
+   */
+  lost: Map<string, LostPoint[]>;
+  /**
+   * Frames whose picture repeats the frame next to them in the direction followed (a phone repeats a
+   * frame when the sensor is late): after the start frame the later of two equal pictures, before
+   * it the earlier; ascending.
+   */
+  repeatedFrames: number[];
+}
+
+/** Why a marker has no point on a frame. */
+export type LostReason = 'not_found' | 'broke_links' | 'on_other_marker';
+
+/** A frame where a marker was not followed, and why. */
+export interface LostPoint {
+  frame: number;
+  reason: LostReason;
+}
+
+/**
+ * A frame repeats the one before when their grey levels differ by less than this on average (of
+ * 255). Encoders store a repeated frame as "nothing changed", so it decodes within a level or two
+ * of the frame before, while any moving runner or sensor noise changes far more than this.
+ */
+export const REPEATED_FRAME_MEAN_DIFF = 0.5;
+
+/** Whether `b` shows the same picture as `a` (mean absolute grey difference under {@link REPEATED_FRAME_MEAN_DIFF}). */
+export function isRepeatedPicture(a: GrayFrame, b: GrayFrame): boolean {
+  if (a.width !== b.width || a.height !== b.height) return false;
+  const n = a.data.length;
+  const limit = REPEATED_FRAME_MEAN_DIFF * n;
+  let sum = 0;
+  for (let i = 0; i < n; i++) {
+    sum += Math.abs(a.data[i]! - b.data[i]!);
+    if (sum >= limit) return false;
+  }
+  return true;
+}
+
+/**
+ * Milliseconds between frames `a` and `b` from `timesMs` when they are usable (one per frame of
+ * the clip, finite and strictly increasing), else the number of frames between them.
+ */
+export function frameClock(timesMs: readonly number[] | undefined, frameCount: number): (a: number, b: number) => number {
+  let ok = !!timesMs && timesMs.length >= frameCount && frameCount > 0;
+  for (let i = 0; ok && i < frameCount; i++) ok = Number.isFinite(timesMs![i]) && (i === 0 || timesMs![i]! > timesMs![i - 1]!);
+  if (!ok) return (a, b) => Math.abs(b - a);
+  const nominal = (timesMs![frameCount - 1]! - timesMs![0]!) / Math.max(1, frameCount - 1);
+  // In units of the clip's mean interval, so the tracker's tuning per frame still applies.
+  return (a, b) => (nominal > 0 ? Math.abs(timesMs![b]! - timesMs![a]!) / nominal : Math.abs(b - a));
 }
 
 /** Below this a followed point is flagged for the coach to check. */
@@ -164,8 +225,11 @@ class Workspace {
 /** The state of one marker while it is followed in one direction. */
 class MarkerTrack {
   pos: Point;
+  /** Motion per unit of time (one mean frame interval of the clip; see {@link frameClock}). */
   velocity: Point = { x: 0, y: 0 };
   lostFor = 0;
+  /** Where the last step looked for the marker (its place if that step's point is judged wrong). */
+  private stepFrom: Point | null = null;
   readonly template: CvMat;
   /**
    * The marker as last seen clearly (updated only on confident points on the dot): motion blur
@@ -205,22 +269,63 @@ class MarkerTrack {
   }
 
   /** Moves the marker to a point a person placed (not reported; resets the motion when it was lost). */
-  anchor(p: Point, frame: GrayFrame): void {
+  anchor(p: Point, frame: GrayFrame, dt = 1): void {
     const fit = dotCentroid(frame, p, this.dotRadius + 1, this.polarity);
     const at = fit && dist(fit, p) <= this.dotRadius ? { x: fit.x, y: fit.y } : p;
-    this.velocity = this.lostFor ? { x: 0, y: 0 } : { x: at.x - this.pos.x, y: at.y - this.pos.y };
+    this.velocity = this.lostFor ? { x: 0, y: 0 } : { x: (at.x - this.pos.x) / dt, y: (at.y - this.pos.y) / dt };
     this.pos = at;
     this.lostFor = 0;
   }
 
   /**
-   * One step from `prev` to `next`: returns the point and its confidence, or null when the marker is
-   * not found. `others` are where the other markers are (a lost marker is not re-found on them).
+   * One step from `prev` to `next`, `dt` apart (in mean frame intervals): returns the point and its
+   * confidence, or null when the marker is not found. `others` are where the other markers are (a
+   * lost marker is not re-found on them). `carried`: where the markers of its segment put a lost
+   * marker ({@link carriedBySegment}); it is looked for there, and stays with them while not found.
    */
-  step(prev: GrayFrame, next: GrayFrame, others: Point[]): { p: Point; confidence: number } | null {
+  step(
+    prev: GrayFrame,
+    next: GrayFrame,
+    others: Point[],
+    dt = 1,
+    carried?: Point,
+    breaks: (p: Point) => boolean = () => false,
+  ): { p: Point; confidence: number } | null {
+    // Predicted over at most one mean interval: over a longer one (a phone's dropped frame) going
+    // on at the same speed overshoots wherever the limb turns (a foot landing, the heel lifting).
+    const ahead = Math.min(dt, 1);
+    const at = (k: number): Point => ({ x: this.pos.x + this.velocity.x * k, y: this.pos.y + this.velocity.y * k });
+    const guess = carried ?? at(ahead);
+    let found = this.look(prev, next, others, guess, !!carried);
+    // A look is better when it keeps the marker's rigid links to the markers already found on this
+    // frame (neighbouring dots look alike), then when it is more confident.
+    const rank = (l: ReturnType<MarkerTrack['look']>) => (l ? (breaks(l.p) ? 0 : 2) + l.confidence : -1);
+    const better = (again: ReturnType<MarkerTrack['look']>) => {
+      if (rank(again) > rank(found)) found = again;
+    };
+    const unsure = () => !found || found.confidence < LOW_CONFIDENCE || breaks(found.p);
+    // Over a longer interval (a phone's dropped frame) the limb may have kept its speed, or turned:
+    // look from the whole interval's motion too, and keep the better look.
+    if (this.lostFor === 0 && !carried && dt > 1 + 1e-6) better(this.look(prev, next, others, at(dt)));
+    // Not found from the motion so far: the limb stopped or turned; look from where it was.
+    if (this.lostFor === 0 && !carried && unsure()) better(this.look(prev, next, others, at(0)));
+    return this.settle(next, found, guess, others, dt);
+  }
+
+  /**
+   * Looks for the marker on `next` starting from `guess` (the flow from where it was on `prev`,
+   * then its look around where the flow put it; a wide search around `guess` when that is unsure).
+   * Changes nothing of the track.
+   */
+  private look(
+    prev: GrayFrame,
+    next: GrayFrame,
+    others: Point[],
+    guess: Point,
+    carried = false,
+  ): { p: Point; confidence: number; score: number; contrast: number } | null {
     const ws = this.ws;
     const { sizes } = ws;
-    const guess = { x: this.pos.x + this.velocity.x, y: this.pos.y + this.velocity.y };
     const scale = next.width / 1280;
     let candidate: Point = guess;
     let flowScore = 1;
@@ -239,7 +344,8 @@ class MarkerTrack {
         flowScore = 1 / (1 + (fb / 1.5) ** 2);
       } else flowScore = 0.3;
     }
-    const radius = this.lostFor === 0 ? sizes.search : Math.min(sizes.maxSearch, sizes.search + 4 * this.lostFor);
+    const radius =
+      this.lostFor === 0 ? sizes.search : carried ? sizes.maxSearch : Math.min(sizes.maxSearch, sizes.search + 4 * this.lostFor);
     let found = this.judge(next, this.matchNear(next, candidate, radius), this.lostFor === 0 ? candidate : null, flowScore, scale);
     if (this.lostFor === 0 && this.onDot && (!found || found.confidence < LOW_CONFIDENCE)) {
       // Fast limbs at low frame rates (a knee moves ~15 px a frame at 60 fps) outrun the flow on a
@@ -253,6 +359,18 @@ class MarkerTrack {
         if (!found || wide.confidence > found.confidence) found = wide;
       }
     }
+    return found;
+  }
+
+  /** Takes what {@link look} found as the marker's point (or the marker as lost) and moves the track on. */
+  private settle(
+    next: GrayFrame,
+    found: { p: Point; confidence: number; score: number; contrast: number } | null,
+    guess: Point,
+    others: Point[],
+    dt: number,
+  ): { p: Point; confidence: number } | null {
+    const { sizes } = this.ws;
     if (!found) return this.lose(guess);
     const { p: refined, contrast } = found;
     let confidence = found.confidence;
@@ -264,8 +382,9 @@ class MarkerTrack {
       this.verified = false;
     }
     if (confidence < LOST_CONFIDENCE) return this.lose(guess);
-    const moved = { x: refined.x - this.pos.x, y: refined.y - this.pos.y };
+    const moved = { x: (refined.x - this.pos.x) / dt, y: (refined.y - this.pos.y) / dt };
     this.velocity = confidence >= LOW_CONFIDENCE ? moved : { x: moved.x * 0.5, y: moved.y * 0.5 };
+    this.stepFrom = guess;
     this.pos = refined;
     this.lostFor = 0;
     if (confidence >= 0.8 && contrast >= 0.9) copyPatch(next, patchOrigin(next, refined, sizes.template), sizes.template, this.recent.data);
@@ -297,6 +416,10 @@ class MarkerTrack {
   markLost(): void {
     this.lostFor = Math.max(1, this.lostFor);
     this.velocity = { x: 0, y: 0 };
+    // Not where the judged-wrong point was (another marker's dot, which that marker could then not
+    // be found on again), but where this one was looked for.
+    if (this.stepFrom) this.pos = this.stepFrom;
+    this.stepFrom = null;
   }
 
   private lose(guess: Point): null {
@@ -382,6 +505,36 @@ function dropCollisions(found: Map<MarkerTrack, { p: Point; confidence: number; 
     }
 }
 
+/** Where a marker was last seen clearly, and where its linked markers were then. */
+interface LastSeen {
+  p: Point;
+  linked: Map<MarkerTrack, Point>;
+}
+
+/**
+ * Where a lost marker is now if it moved with its segment: the markers rigidly linked to it that
+ * are well followed on this frame carry it from where they all were when it was last seen — two
+ * of them by the rotation, scale and shift that takes their old places to their new ones (a rigid
+ * segment turning in the side view), one by its shift. Null when none is followed now.
+ */
+export function carriedBySegment(last: { p: Point; linked: ReadonlyMap<unknown, Point> }, now: ReadonlyMap<unknown, Point>): Point | null {
+  const pairs = [...last.linked].filter(([k]) => now.has(k)).map(([k, was]) => ({ was, is: now.get(k)! }));
+  if (pairs.length === 0) return null;
+  const [a, b] = pairs;
+  if (!b || dist(a!.was, b.was) < 1) return { x: last.p.x + a!.is.x - a!.was.x, y: last.p.y + a!.is.y - a!.was.y };
+  // Complex-number similarity: z ↦ a.is + (z − a.was)·(b.is − a.is)/(b.was − a.was).
+  const ux = b.was.x - a!.was.x;
+  const uy = b.was.y - a!.was.y;
+  const vx = b.is.x - a!.is.x;
+  const vy = b.is.y - a!.is.y;
+  const d = ux * ux + uy * uy;
+  const rx = (vx * ux + vy * uy) / d;
+  const ry = (vy * ux - vx * uy) / d;
+  const zx = last.p.x - a!.was.x;
+  const zy = last.p.y - a!.was.y;
+  return { x: a!.is.x + zx * rx - zy * ry, y: a!.is.y + zx * ry + zy * rx };
+}
+
 /** How many links of a new point to well-followed, verified markers (or placed ones) hold and break. */
 function linkCounts(
   track: MarkerTrack,
@@ -430,14 +583,21 @@ export function checkFollowRequest(req: FollowRequest, reader: Pick<FrameReader,
 
 /**
  * Follows every marker from `startFrame` forward to `to` and backward to `from`.
- * The start frame and frames where a person placed a marker are not in the result for that marker.
+ * The start frame and frames where a person placed a marker are not in the result for that marker;
+ * every other frame of the range has the marker's point in `points` or the reason it has none in
+ * `lost`. Motion is predicted over each frame's real interval (`timesMs`), and a frame whose
+ * picture repeats the one before keeps the points of that one (the phone showed nothing new), the
+ * next new picture being predicted over the time since the picture changed.
  */
 export async function followMarkers(cv: OpenCv, reader: FrameReader, req: FollowRequest): Promise<FollowResult> {
   checkFollowRequest(req, reader);
   const ws = new Workspace(cv, sizesFor(reader.width));
   const points = new Map<string, FollowedPoint[]>(req.markers.map((m) => [m.key, []]));
+  const lost = new Map<string, LostPoint[]>(req.markers.map((m) => [m.key, []]));
   const low = new Set<number>();
+  const repeated = new Set<number>();
   const notOnDot = new Set<string>();
+  const clock = frameClock(req.timesMs, reader.frameCount);
   const total = req.to - req.from;
   let done = 0;
   try {
@@ -453,46 +613,109 @@ export async function followMarkers(cv: OpenCv, reader: FrameReader, req: Follow
         if (ta && tb) linkLengths.set(`${a}|${b}`, dist(ta.pos, tb.pos));
       }
       for (const t of tracks) if (!t.onDot) notOnDot.add(t.key);
+      const neighbours = new Map<MarkerTrack, MarkerTrack[]>(tracks.map((t) => [t, []]));
+      for (const pair of linkLengths.keys()) {
+        const [a, b] = pair.split('|').map((k) => tracks.find((t) => t.key === k)!);
+        neighbours.get(a!)!.push(b!);
+        neighbours.get(b!)!.push(a!);
+      }
+      const lastSeen = new Map<MarkerTrack, LastSeen>(
+        tracks.map((t) => [t, { p: t.pos, linked: new Map(neighbours.get(t)!.map((n) => [n, n.pos])) }]),
+      );
+      /** What each marker got on the frame before (a repeated picture gets the same). */
+      const before = new Map<MarkerTrack, { p: Point; confidence: number } | LostReason | null>(tracks.map((t) => [t, null]));
+      const record = (t: MarkerTrack, f: number, got: { p: Point; confidence: number } | LostReason) => {
+        before.set(t, got);
+        if (typeof got === 'string') {
+          lost.get(t.key)!.push({ frame: f, reason: got });
+          low.add(f);
+          return;
+        }
+        points.get(t.key)!.push({ frame: f, x: got.p.x, y: got.p.y, confidence: Math.round(got.confidence * 1000) / 1000 });
+        if (got.confidence < LOW_CONFIDENCE) low.add(f);
+      };
       try {
         let prev = startImage;
+        /** The frame `prev` is: the last frame whose picture was new. */
+        let prevFrame = req.startFrame;
         for (let f = req.startFrame + direction; direction === 1 ? f <= last : f >= last; f += direction) {
           if (req.signal?.aborted) throw req.signal.reason ?? new Error('aborted');
           const next = await reader.read(f);
+          const anyPlaced = tracks.some((t) => req.placed?.get(t.key)?.has(f));
+          if (!anyPlaced && isRepeatedPicture(prev, next)) {
+            // The same picture again: every marker is where it was; motion resumes on the next new picture.
+            repeated.add(f);
+            for (const t of tracks) {
+              const was = before.get(t);
+              if (was) record(t, f, was);
+              else if (was === null) record(t, f, { p: t.pos, confidence: 1 }); // right after the start frame
+            }
+            req.onProgress?.(++done, total);
+            continue;
+          }
+          const dt = clock(prevFrame, f);
           const here: Point[] = [];
           const found = new Map<MarkerTrack, { p: Point; confidence: number; placed: boolean }>();
-          for (const t of tracks) {
+          const why = new Map<MarkerTrack, LostReason>();
+          // Markers being followed first, then lost ones, which their segment's markers can carry.
+          const order = [...tracks.filter((t) => t.lostFor === 0), ...tracks.filter((t) => t.lostFor > 0)];
+          for (const t of order) {
             const placed = req.placed?.get(t.key)?.get(f);
             if (placed) {
-              t.anchor(placed, next);
+              t.anchor(placed, next, dt);
               here.push(t.pos);
               found.set(t, { p: t.pos, confidence: 1, placed: true });
               continue;
             }
             const others = [...here, ...tracks.filter((o) => o !== t && o.lostFor === 0).map((o) => o.pos)];
-            const step = t.step(prev, next, others);
+            let carried: Point | undefined;
+            if (t.lostFor > 0) {
+              const sure = new Map<MarkerTrack, Point>();
+              for (const n of neighbours.get(t)!) {
+                const at = found.get(n);
+                if (at && (at.placed || (at.confidence >= LOW_CONFIDENCE && n.verified))) sure.set(n, at.p);
+              }
+              carried = carriedBySegment(lastSeen.get(t)!, sure) ?? undefined;
+            }
+            const step = t.step(prev, next, others, dt, carried, (p) => breaksLinks(t, p, found, tracks, linkLengths));
             if (step) {
               here.push(step.p);
               found.set(t, { ...step, placed: false });
-            }
+            } else why.set(t, 'not_found');
           }
+          const beforeCollisions = new Set(found.keys());
           dropCollisions(found);
+          for (const t of beforeCollisions) if (!found.has(t)) why.set(t, 'on_other_marker');
           for (const t of tracks) {
             const got = found.get(t);
             if (got && !got.placed && breaksLinks(t, got.p, found, tracks, linkLengths)) {
               t.markLost();
               found.delete(t);
+              why.set(t, 'broke_links');
             }
-            if (got?.placed) continue;
+            if (got?.placed) {
+              before.set(t, { p: got.p, confidence: 1 });
+              continue;
+            }
             const kept = found.get(t);
             if (kept && !t.verified) {
               if (confirmsLinks(t, kept.p, found, tracks, linkLengths)) t.verified = true;
               else kept.confidence = Math.min(kept.confidence, LOW_CONFIDENCE - 0.01);
             }
-            if (kept)
-              points.get(t.key)!.push({ frame: f, x: kept.p.x, y: kept.p.y, confidence: Math.round(kept.confidence * 1000) / 1000 });
-            if (!kept || kept.confidence < LOW_CONFIDENCE) low.add(f);
+            record(t, f, kept ? { p: kept.p, confidence: kept.confidence } : (why.get(t) ?? 'not_found'));
+          }
+          for (const t of tracks) {
+            const at = found.get(t);
+            if (!at || (!at.placed && (at.confidence < LOW_CONFIDENCE || !t.verified))) continue;
+            const linked = new Map<MarkerTrack, Point>();
+            for (const n of neighbours.get(t)!) {
+              const there = found.get(n);
+              if (there && (there.placed || (there.confidence >= LOW_CONFIDENCE && n.verified))) linked.set(n, there.p);
+            }
+            lastSeen.set(t, { p: at.p, linked });
           }
           prev = next;
+          prevFrame = f;
           req.onProgress?.(++done, total);
         }
       } finally {
@@ -503,7 +726,14 @@ export async function followMarkers(cv: OpenCv, reader: FrameReader, req: Follow
     ws.delete();
   }
   for (const list of points.values()) list.sort((a, b) => a.frame - b.frame);
-  return { points, notOnDot: [...notOnDot], lowConfidenceFrames: [...low].sort((a, b) => a - b) };
+  for (const list of lost.values()) list.sort((a, b) => a.frame - b.frame);
+  return {
+    points,
+    notOnDot: [...notOnDot],
+    lowConfidenceFrames: [...low].sort((a, b) => a - b),
+    lost,
+    repeatedFrames: [...repeated].sort((a, b) => a - b),
+  };
 }
 
 export type { DotFit, GrayFrame };

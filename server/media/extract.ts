@@ -62,6 +62,16 @@ const aborted = () => new MediaError('aborted', 'Frame extraction was cancelled.
 /** ffmpeg output that means zscale itself failed (missing filter, zimg colourspace refusal). */
 const ZSCALE_TROUBLE = /zscale|zimg|No such filter|no path between colorspaces/i;
 
+/**
+ * Encoder time base of both outputs: the demuxer's (`-enc_time_base -1`, ffmpeg 5.1's spelling of
+ * `demux`). Without it ffmpeg times the encoder in 1 ÷ the guessed frame rate, which for a
+ * variable-frame-rate clip is the average rate (`avg_frame_rate`): two frames closer together
+ * than one average interval (a phone's 1/60 s frame in a clip averaging 54 fps) round to the same
+ * pts, and the JPEG encoder stops the whole extraction ("Invalid pts … <= last"). In the demuxer's
+ * time base every frame keeps its own timestamp, so every decoded frame is written.
+ */
+const PASSTHROUGH_TIME_BASE = ['-enc_time_base', '-1'];
+
 /** Marks a failure that swscale may not have; extractFrames retries once with swscale. */
 class ScalerFailed extends Error {
   constructor(readonly failure: MediaError) {
@@ -112,6 +122,7 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
         '[frames]',
         '-fps_mode',
         'passthrough',
+        ...PASSTHROUGH_TIME_BASE,
         '-c:v',
         'mjpeg',
         ...pixel,
@@ -130,6 +141,7 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
         '[thumbs]',
         '-fps_mode',
         'passthrough',
+        ...PASSTHROUGH_TIME_BASE,
         '-c:v',
         'mjpeg',
         ...pixel,

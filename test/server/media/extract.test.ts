@@ -176,6 +176,55 @@ describe('timestamps of a variable-frame-rate clip', () => {
     m.timestampsMs.forEach((t, i) => expect(t).toBeCloseTo((times[i]! - times[0]!) * 1000, 2));
     expect(m.timestampsMs.slice(0, 5)).toEqual([0, 20, 60, 80, 120]);
   });
+
+  it('a phone-like clip whose frames come closer than its average interval is extracted whole: every frame ffprobe counts, at ffprobe times (outside reference)', async () => {
+    // A phone's uneven intervals in 1/240 s ticks, repeating: 4 4 3 5 4 8 (a dropped frame) 4 5 3 4 4 6.
+    // ffprobe: r_frame_rate 240, avg_frame_rate ≈ 53; ffmpeg then guesses the average rate for the
+    // JPEG encoder's time base, the short intervals round onto the tick before, and before the fix
+    // the encoder stopped the extraction ("Invalid pts … <= last") — on most runs, not all: which
+    // rate ffmpeg 5.1 settles on depends on its threaded decoder's timing (with `-threads 1` it
+    // passed), so this check may pass without the fix on a lucky run.
+    const gaps = [4, 4, 3, 5, 4, 8, 4, 5, 3, 4, 4, 6];
+    const ticks = `floor(N/12)*54+${gaps
+      .slice(0, 11)
+      .map((g, k) => `gt(mod(N,12),${k})*${g}`)
+      .join('+')}`;
+    const src = path.join(dir, 'vfr-phone.mp4');
+    await ffmpegRun([
+      '-f',
+      'lavfi',
+      '-i',
+      'testsrc2=size=320x180:rate=60',
+      '-t',
+      '1.3',
+      '-vf',
+      `settb=1/240,setpts='${ticks}'`,
+      '-fps_mode',
+      'passthrough',
+      '-enc_time_base',
+      '1/240',
+      '-c:v',
+      'libx264',
+      '-preset',
+      'ultrafast',
+      '-pix_fmt',
+      'yuv420p',
+      '-video_track_timescale',
+      '90000',
+      src,
+    ]);
+    const counted = await ffprobeCounted(src);
+    expect(counted.rFrameRate).toBe('240/1');
+    const times = await ffprobeFrameTimes(src);
+    expect(times).toHaveLength(70);
+    const m = await extractFrames(src, path.join(dir, 'vfr-phone'));
+    expect(m.frameCount).toBe(counted.nbReadFrames);
+    expect(await jpegs(path.join(dir, 'vfr-phone', 'frames'))).toHaveLength(counted.nbReadFrames);
+    expect(m.timestampsSource).toBe('decoded');
+    m.timestampsMs.forEach((t, i) => expect(t).toBeCloseTo((times[i]! - times[0]!) * 1000, 2));
+    // By hand from the gaps: 0, 4, 8, 11, 16, 20, 28 ticks of 1/240 s.
+    expect(m.timestampsMs.slice(0, 7)).toEqual([0, 16.667, 33.333, 45.833, 66.667, 83.333, 116.667]);
+  });
 });
 
 describe('a clip trimmed without re-encoding (an edit list hides the frames before the cut)', () => {
