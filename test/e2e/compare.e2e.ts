@@ -55,7 +55,7 @@ describe('compare visits', () => {
       await expect
         .poll(() => page.getByText("These figures support, and do not replace, a licensed clinician's judgement.").count())
         .toBe(1);
-      const hipRow = page.locator('tr', { hasText: 'Hip extension at toe-off (thigh from vertical) (right)' });
+      const hipRow = page.locator('tr', { hasText: 'Hip extension at toe-off (thigh from vertical, right)' });
       await expect.poll(() => hipRow.textContent(), { timeout: 20_000 }).toContain('Beyond measurement error · better');
       // The page opens at toe-off, where the headline measure is read.
       await expect.poll(() => page.locator('.event-field mat-select').textContent()).toContain('Toe-off');
