@@ -68,7 +68,7 @@ describe('sharing stills and a visit summary', () => {
     await signIn(page, coach.email, coach.password);
 
     await page.goto(`${h.baseUrl}/athletes/${athleteId}/compare`);
-    const hipRow = page.locator('tr', { hasText: 'Hip extension at toe-off (thigh from vertical) (right)' });
+    const hipRow = page.locator('tr', { hasText: 'Hip extension at toe-off (thigh from vertical, right)' });
     await expect.poll(() => hipRow.textContent(), { timeout: 20_000 }).toContain('Beyond measurement error');
     await expect.poll(() => drawn(page, 'canvas[aria-label="Re-test frame with skeleton"]'), { timeout: 20_000 }).toBe(true);
     await expect.poll(() => drawn(page, 'canvas[aria-label="Baseline frame with skeleton"]'), { timeout: 20_000 }).toBe(true);

@@ -108,15 +108,8 @@ export function citationText(row: ComparisonRow): string {
 
 export const sideText = (side: Side | null): string => (side === null ? '' : side === 'left' ? 'Left' : 'Right');
 
-/**
- * A measure's name with its side: "Knee flexion at initial contact (left)". A name that already ends in a
- * bracket takes the side inside it — "Hip extension at toe-off (thigh from vertical, left)" — not a second pair.
- */
-export function sidedLabel(label: string, side: Side | null): string {
-  if (side === null) return label;
-  const s = sideText(side).toLowerCase();
-  return label.endsWith(')') ? `${label.slice(0, -1)}, ${s})` : `${label} (${s})`;
-}
+/** A measure's name with its side, one bracket pair (shared with the visit summary PDF). */
+export { sidedLabel } from '../../../kinematics/format';
 
 /** One line per chosen key and side across the visits (null where a visit lacks it). */
 export function trendSeries(
