@@ -64,8 +64,9 @@ describe('plan words', () => {
     ).toBe('Pain 6/10 during, above the limit of 5/10 +1');
     expect(alertSummary([{ ...a, kind: 'during_above_max', value: 6, limit: 5 }], true)).toBe('Pain 6/10 > limit 5');
     expect(alertChipText({ ...a, kind: 'not_settled', value: 4, limit: 2 })).toBe('Morning pain 4/10, not settled (≤ 2/10)');
-    expect(alertChipText({ ...a, kind: 'weekly_rise_during', value: 4, limit: 2 })).toBe('Weekly pain rising: 2 → 4');
-    expect(alertChipText({ ...a, kind: 'weekly_rise_morning', value: 3.5, limit: 1 }, true)).toBe('Weekly morning 1 → 3.5');
+    expect(alertChipText({ ...a, kind: 'weekly_rise_during', value: 4, limit: 2 })).toBe('Weekly pain rising: 2/10 → 4/10');
+    expect(alertChipText({ ...a, kind: 'weekly_rise_during', value: 3.3, limit: 2 }, true)).toBe('Weekly pain 2 → 3.3/10');
+    expect(alertChipText({ ...a, kind: 'weekly_rise_morning', value: 3.5, limit: 1 }, true)).toBe('Weekly morning 1 → 3.5/10');
   });
 
   it('asks the morning check about the newest unchecked session of the last two days only', () => {

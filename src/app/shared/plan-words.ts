@@ -64,9 +64,9 @@ export function alertChipText(alert: PainAlert, compact = false): string {
     case 'not_settled':
       return compact ? `Morning ${v}/10 > ${l}` : `Morning pain ${v}/10, not settled (≤ ${l}/10)`;
     case 'weekly_rise_during':
-      return compact ? `Weekly pain ${l} → ${v}` : `Weekly pain rising: ${l} → ${v}`;
+      return compact ? `Weekly pain ${l} → ${v}/10` : `Weekly pain rising: ${l}/10 → ${v}/10`;
     case 'weekly_rise_morning':
-      return compact ? `Weekly morning ${l} → ${v}` : `Weekly morning pain rising: ${l} → ${v}`;
+      return compact ? `Weekly morning ${l} → ${v}/10` : `Weekly morning pain rising: ${l}/10 → ${v}/10`;
   }
 }
 
