@@ -1,7 +1,7 @@
 import type { ComparisonRow, Measure, ReferenceBand } from '../../src/contracts/measures';
 import { DEFAULT_REFERENCE_BANDS, findBand } from '../../src/kinematics/bands';
 import { thresholdText, verdictText } from '../../src/kinematics/comparison';
-import { bandRange, formatMeasure, formatValue } from '../../src/kinematics/format';
+import { bandRange, formatMeasure, formatValue, sidedLabel } from '../../src/kinematics/format';
 import { newPdfDocument } from './fonts';
 import { INK, MARGIN, MUTED, pdfLayout } from './pdf-layout';
 import { drawLogoTopRight } from './pdf-letterhead';
@@ -99,8 +99,7 @@ function sourceList() {
   };
 }
 
-const sideWord = (side: 'left' | 'right' | null) => (side === 'left' ? 'left' : side === 'right' ? 'right' : '');
-const labelOf = (m: { label: string; side: 'left' | 'right' | null }) => `${m.label}${m.side ? ` (${sideWord(m.side)})` : ''}`;
+const labelOf = (m: { label: string; side: 'left' | 'right' | null }) => sidedLabel(m.label, m.side);
 
 /** Renders the visit summary PDF (A4, pdfkit, the complete Source Sans 3 faces). */
 export async function renderSummaryPdf(

@@ -89,6 +89,10 @@ export const PAIN_SCALE = { min: 0, max: 10 } as const;
 export const PLAN_CAUTION =
   'Stop an exercise that causes sharp or worsening pain and contact your clinician. This plan supports, and does not replace, a licensed clinician\u2019s judgement; follow local regulations.';
 
+/** The same caution on the exercise library and its dialog, where there is no plan yet. */
+export const EXERCISE_LIBRARY_CAUTION =
+  'Stop an exercise that causes sharp or worsening pain. These exercises support, and do not replace, a licensed clinician\u2019s judgement; follow local regulations.';
+
 // ─── Exercises ────────────────────────────────────────────────────────────────────────────
 
 /** How much of an exercise: a default on the exercise, the prescription on a stage. */

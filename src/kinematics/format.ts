@@ -101,3 +101,12 @@ export function bandRange(band: Pick<ReferenceBand, 'low' | 'high' | 'unit'>): s
   if (high !== null) return `≤ ${joinUnit(n(high), unit)}`;
   return 'No limits';
 }
+
+/**
+ * A measure's name with its side: "Knee flexion at initial contact (left)". A name that already ends in a
+ * bracket takes the side inside it — "Hip extension at toe-off (thigh from vertical, left)" — not a second pair.
+ */
+export function sidedLabel(label: string, side: 'left' | 'right' | null): string {
+  if (side === null) return label;
+  return label.endsWith(')') ? `${label.slice(0, -1)}, ${side})` : `${label} (${side})`;
+}

@@ -55,8 +55,15 @@ describe('compare visits', () => {
       await expect
         .poll(() => page.getByText("These figures support, and do not replace, a licensed clinician's judgement.").count())
         .toBe(1);
-      const hipRow = page.locator('tr', { hasText: 'Hip extension at toe-off (thigh from vertical) (right)' });
+      const hipRow = page.locator('tr', { hasText: 'Hip extension at toe-off (thigh from vertical, right)' });
       await expect.poll(() => hipRow.textContent(), { timeout: 20_000 }).toContain('Beyond measurement error · better');
+      // Baseline → Re-test: on a phone the visits stack and the arrow between them points down.
+      const arrowTurn = await page.locator('.pickers > mat-icon').evaluate((i) => {
+        const t = getComputedStyle(i).transform;
+        const m = new DOMMatrix(t === 'none' ? undefined : t);
+        return Math.round((Math.atan2(m.b, m.a) * 180) / Math.PI);
+      });
+      expect(arrowTurn).toBe(tag === 'phone' ? 90 : 0);
       // The page opens at toe-off, where the headline measure is read.
       await expect.poll(() => page.locator('.event-field mat-select').textContent()).toContain('Toe-off');
       for (const label of ['Baseline frame with skeleton', 'Re-test frame with skeleton']) {

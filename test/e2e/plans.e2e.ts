@@ -268,6 +268,15 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     expect((await h.server.db('plans').where({ id: planId }).first()).assessment_id).toBe(retest.id);
     await expect.poll(() => page.getByText('Stage 1 of 3 · Isometric holds').count()).toBe(1);
     await fullShot(page, 'plans-plan-started.png');
+    // On a phone the breadcrumb stays one line: the plan's title ends in an ellipsis instead of wrapping word by word.
+    await page.setViewportSize(PHONE);
+    await page.waitForTimeout(800);
+    const crumbs = await page
+      .locator('nav.crumbs')
+      .evaluate((n) => ({ height: n.getBoundingClientRect().height, over: n.scrollWidth - n.clientWidth }));
+    expect(crumbs.height, JSON.stringify(crumbs)).toBeLessThanOrEqual(48);
+    expect(crumbs.over, JSON.stringify(crumbs)).toBeLessThanOrEqual(0);
+    await page.setViewportSize(DESKTOP);
     expect(problems).toEqual([]);
     await context.close();
   });
@@ -298,7 +307,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
       true,
       true,
     ]);
-    await expect.poll(() => first.page.getByRole('list').filter({ hasText: 'During 2/10' }).count()).toBeGreaterThan(0);
+    await expect.poll(() => first.page.getByRole('list').filter({ hasText: 'Pain during 2/10' }).count()).toBeGreaterThan(0);
     // Saved today: the page says so, also after a reload.
     await expect.poll(() => first.page.getByRole('heading', { name: 'Done for today' }).count()).toBe(1);
     expect(await first.page.getByRole('button', { name: 'Save session' }).count()).toBe(0);
@@ -367,7 +376,7 @@ describe('plans: staged loading, athlete log, pain monitoring', () => {
     expect(all).toHaveLength(2);
     expect(all[1]).toMatchObject({ pain_during: 6, session_date: isoDay(Date.now()) });
     expect(new Set(all.map((l) => l.idempotency_key)).size).toBe(2);
-    await expect.poll(() => page.getByText('During 6/10').count()).toBe(1);
+    await expect.poll(() => page.getByText('Pain during 6/10').count()).toBe(1);
     await fullShot(page, 'plans-portal-history-phone.png');
     expect(problems.filter((p) => !networkNoise(p))).toEqual([]);
     await context.close();

@@ -329,6 +329,15 @@ describe('review workspace', () => {
     expect(await inWindow(page, 'app-angle-chart .chart-box')).toBe(true);
     expect(await inWindow(page, '.toolbar')).toBe(true);
     await page.screenshot({ path: path.join(SCREENSHOTS, 'review-390x844-chart.png') });
+    // The angle toggles wrap to two rows there: each is a chip with its own full outline, not one pill broken in two.
+    const toggles = await page.locator('app-angle-chart .series mat-button-toggle').evaluateAll((els) =>
+      els.map((e) => {
+        const cs = getComputedStyle(e);
+        return { left: parseFloat(cs.borderLeftWidth), top: parseFloat(cs.borderTopWidth), radius: parseFloat(cs.borderTopLeftRadius) };
+      }),
+    );
+    expect(toggles.length).toBe(5);
+    for (const t of toggles) expect(t.left >= 1 && t.top >= 1 && t.radius >= 10, JSON.stringify(t)).toBe(true);
     await page.getByRole('tab', { name: 'Measures' }).scrollIntoViewIfNeeded();
     await page.getByRole('tab', { name: 'Measures' }).click();
     await page.locator('app-measures-panel').scrollIntoViewIfNeeded();

@@ -68,7 +68,7 @@ describe('sharing stills and a visit summary', () => {
     await signIn(page, coach.email, coach.password);
 
     await page.goto(`${h.baseUrl}/athletes/${athleteId}/compare`);
-    const hipRow = page.locator('tr', { hasText: 'Hip extension at toe-off (thigh from vertical) (right)' });
+    const hipRow = page.locator('tr', { hasText: 'Hip extension at toe-off (thigh from vertical, right)' });
     await expect.poll(() => hipRow.textContent(), { timeout: 20_000 }).toContain('Beyond measurement error');
     await expect.poll(() => drawn(page, 'canvas[aria-label="Re-test frame with skeleton"]'), { timeout: 20_000 }).toBe(true);
     await expect.poll(() => drawn(page, 'canvas[aria-label="Baseline frame with skeleton"]'), { timeout: 20_000 }).toBe(true);
@@ -130,6 +130,12 @@ describe('sharing stills and a visit summary', () => {
       .toBe(true);
     expect(await page.locator(`li.still-card img[alt="${PAIR_CAPTION}"]`).count()).toBe(1);
     expect(await ours.filter({ hasText: 'Side by side' }).count()).toBe(1);
+    // The kind chip sits in the picture's top end corner, clear of the still's own line at its top start.
+    const chipGap = await ours
+      .first()
+      .locator('.kind-chip')
+      .evaluate((c) => c.parentElement!.getBoundingClientRect().right - c.getBoundingClientRect().right);
+    expect(chipGap).toBeLessThanOrEqual(12);
     await page.screenshot({ path: shot('sharing-shared-tab-stills.png'), fullPage: true });
     for (let i = 0; i < 2; i++) {
       const card = ours.nth(i);

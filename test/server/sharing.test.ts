@@ -423,7 +423,7 @@ describe('visit summaries', () => {
     // published source): its mean over the marked toe-offs, to the 0.1° the PDF shows, within 0.5°.
     const near = truth.hipExtensionAtToeOffDeg.near;
     const expected = near.reduce((s, v) => s + v, 0) / near.length;
-    const row = new RegExp(`Hip extension at toe-off \\(thigh from vertical\\) \\(${truth.nearSide}\\) (\\d+\\.\\d) ±`).exec(text);
+    const row = new RegExp(`Hip extension at toe-off \\(thigh from vertical, ${truth.nearSide}\\) (\\d+\\.\\d) ±`).exec(text);
     expect(row, text.slice(0, 600)).not.toBeNull();
     expect(Math.abs(Number(row![1]) - expected)).toBeLessThan(0.5);
   });

@@ -33,17 +33,18 @@ describe('plan words', () => {
     expect(seconds(45)).toBe('45 s');
     expect(seconds(90)).toBe('1 min 30 s');
     expect(seconds(120)).toBe('2 min');
-    expect(doseMain({ sets: 3, reps: 8, holdSeconds: null })).toBe('3 × 8');
-    expect(doseMain({ sets: 4, reps: null, holdSeconds: 30 })).toBe('4 × 30 s hold');
-    expect(doseMain({ sets: 3, reps: 6, holdSeconds: 5 })).toBe('3 × 6 with 5 s hold');
+    expect(doseMain({ sets: 3, reps: 8, holdSeconds: null })).toBe('3 sets × 8 reps');
+    expect(doseMain({ sets: 4, reps: null, holdSeconds: 30 })).toBe('4 sets × 30 s hold');
+    expect(doseMain({ sets: 3, reps: 6, holdSeconds: 5 })).toBe('3 sets × 6 reps with 5 s hold');
+    expect(doseMain({ sets: 1, reps: 1, holdSeconds: null })).toBe('1 set × 1 rep');
     expect(
       formatDose({ sets: 3, reps: 6, holdSeconds: null, tempo: '4 s out', load: 'Body weight', restSeconds: 90, daysPerWeek: 1 }),
-    ).toBe('3 × 6 · tempo 4 s out · Body weight · rest 1 min 30 s · 1 day a week');
+    ).toBe('3 sets × 6 reps · tempo 4 s out · Body weight · rest 1 min 30 s · 1 day a week');
     expect(formatDose({ sets: 3, reps: 10, holdSeconds: null, tempo: 'Steady', load: null, restSeconds: null, daysPerWeek: 3 })).toBe(
-      '3 × 10 · tempo steady · 3 days a week',
+      '3 sets × 10 reps · tempo steady · 3 days a week',
     );
     expect(formatDose({ sets: 3, reps: 10, holdSeconds: null, tempo: 'RPE 6', load: null, restSeconds: null, daysPerWeek: 3 })).toBe(
-      '3 × 10 · tempo RPE 6 · 3 days a week',
+      '3 sets × 10 reps · tempo RPE 6 · 3 days a week',
     );
   });
 
@@ -63,8 +64,9 @@ describe('plan words', () => {
     ).toBe('Pain 6/10 during, above the limit of 5/10 +1');
     expect(alertSummary([{ ...a, kind: 'during_above_max', value: 6, limit: 5 }], true)).toBe('Pain 6/10 > limit 5');
     expect(alertChipText({ ...a, kind: 'not_settled', value: 4, limit: 2 })).toBe('Morning pain 4/10, not settled (≤ 2/10)');
-    expect(alertChipText({ ...a, kind: 'weekly_rise_during', value: 4, limit: 2 })).toBe('Weekly pain rising: 2 → 4');
-    expect(alertChipText({ ...a, kind: 'weekly_rise_morning', value: 3.5, limit: 1 }, true)).toBe('Weekly morning 1 → 3.5');
+    expect(alertChipText({ ...a, kind: 'weekly_rise_during', value: 4, limit: 2 })).toBe('Weekly pain rising: 2/10 → 4/10');
+    expect(alertChipText({ ...a, kind: 'weekly_rise_during', value: 3.3, limit: 2 }, true)).toBe('Weekly pain 2 → 3.3/10');
+    expect(alertChipText({ ...a, kind: 'weekly_rise_morning', value: 3.5, limit: 1 }, true)).toBe('Weekly morning 1 → 3.5/10');
   });
 
   it('asks the morning check about the newest unchecked session of the last two days only', () => {

@@ -14,11 +14,16 @@ export function seconds(s: number): string {
   return rest ? `${m} min ${rest} s` : `${m} min`;
 }
 
-/** The main line of a dose: "3 × 8", "4 × 30 s hold", "3 × 6 with 5 s hold". */
+/**
+ * The main line of a dose, with its units so an athlete need not guess: "3 sets × 8 reps",
+ * "4 sets × 30 s hold", "3 sets × 6 reps with 5 s hold".
+ */
 export function doseMain(d: Pick<Dose, 'sets' | 'reps' | 'holdSeconds'>): string {
-  if (d.reps !== null && d.holdSeconds !== null) return `${d.sets} × ${d.reps} with ${seconds(d.holdSeconds)} hold`;
-  if (d.reps !== null) return `${d.sets} × ${d.reps}`;
-  return `${d.sets} × ${seconds(d.holdSeconds ?? 0)} hold`;
+  const sets = `${d.sets} set${d.sets === 1 ? '' : 's'}`;
+  const reps = d.reps === null ? '' : `${d.reps} rep${d.reps === 1 ? '' : 's'}`;
+  if (d.reps !== null && d.holdSeconds !== null) return `${sets} × ${reps} with ${seconds(d.holdSeconds)} hold`;
+  if (d.reps !== null) return `${sets} × ${reps}`;
+  return `${sets} × ${seconds(d.holdSeconds ?? 0)} hold`;
 }
 
 /** Free text placed after a word: "Steady" → "steady" (an acronym such as "RPE 6" stays). */
@@ -59,9 +64,9 @@ export function alertChipText(alert: PainAlert, compact = false): string {
     case 'not_settled':
       return compact ? `Morning ${v}/10 > ${l}` : `Morning pain ${v}/10, not settled (≤ ${l}/10)`;
     case 'weekly_rise_during':
-      return compact ? `Weekly pain ${l} → ${v}` : `Weekly pain rising: ${l} → ${v}`;
+      return compact ? `Weekly pain ${l} → ${v}/10` : `Weekly pain rising: ${l}/10 → ${v}/10`;
     case 'weekly_rise_morning':
-      return compact ? `Weekly morning ${l} → ${v}` : `Weekly morning pain rising: ${l} → ${v}`;
+      return compact ? `Weekly morning ${l} → ${v}/10` : `Weekly morning pain rising: ${l}/10 → ${v}/10`;
   }
 }
 

@@ -6,7 +6,7 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { formatAngleLabel, formatMeasure, formatNumber, formatValue, round1, roundHalfAway } from '../../../src/kinematics';
+import { formatAngleLabel, formatMeasure, formatNumber, formatValue, round1, roundHalfAway, sidedLabel } from '../../../src/kinematics';
 
 describe('formatNumber — round half away from zero on the decimal text', () => {
   it('22.45 → "22.5" although the nearest double is 22.4499999…, which toFixed rounds down', () => {
@@ -75,5 +75,15 @@ describe('formatNumber — round half away from zero on the decimal text', () =>
       }),
       { numRuns: 500 },
     );
+  });
+});
+
+describe('sidedLabel — a measure name with its side, one pair of brackets', () => {
+  it('adds "(left)", or puts the side inside a bracket the name already ends with', () => {
+    expect(sidedLabel('Knee flexion at initial contact', 'left')).toBe('Knee flexion at initial contact (left)');
+    expect(sidedLabel('Hip extension at toe-off (thigh from vertical)', 'right')).toBe(
+      'Hip extension at toe-off (thigh from vertical, right)',
+    );
+    expect(sidedLabel('Cadence', null)).toBe('Cadence');
   });
 });

@@ -10,6 +10,7 @@ import {
   formatValue,
   frameOfStep,
   lastCommonStep,
+  sidedLabel,
   stepKey,
   trendSeries,
   VERDICT_TEXT,
@@ -106,5 +107,15 @@ describe('compare logic', () => {
       { key: 'hip_extension_toe_off', side: 'right', values: [4, 11] },
       { key: 'hip_extension_toe_off', side: 'left', values: [null, 9] },
     ]);
+  });
+});
+
+describe('sidedLabel', () => {
+  it('adds the side in brackets, or inside the bracket a name already ends with (never two pairs)', () => {
+    expect(sidedLabel('Knee flexion at initial contact', 'left')).toBe('Knee flexion at initial contact (left)');
+    expect(sidedLabel('Hip extension at toe-off (thigh from vertical)', 'right')).toBe(
+      'Hip extension at toe-off (thigh from vertical, right)',
+    );
+    expect(sidedLabel('Cadence', null)).toBe('Cadence');
   });
 });

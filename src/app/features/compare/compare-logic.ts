@@ -108,6 +108,9 @@ export function citationText(row: ComparisonRow): string {
 
 export const sideText = (side: Side | null): string => (side === null ? '' : side === 'left' ? 'Left' : 'Right');
 
+/** A measure's name with its side, one bracket pair (shared with the visit summary PDF). */
+export { sidedLabel } from '../../../kinematics/format';
+
 /** One line per chosen key and side across the visits (null where a visit lacks it). */
 export function trendSeries(
   trends: MeasureTrends,

@@ -32,8 +32,8 @@ const trends: MeasureTrends = {
 describe('trend chart', () => {
   it('tells the sides apart by the project colours, dash and marker size, so equal values do not hide a line', () => {
     const { data } = trendChart(trends, ['hip_extension_toe_off'], ['Baseline', 'Re-test']);
-    const right = data.datasets.find((d) => d.label === 'Hip extension at toe-off (thigh from vertical) (right)')!;
-    const left = data.datasets.find((d) => d.label === 'Hip extension at toe-off (thigh from vertical) (left)')!;
+    const right = data.datasets.find((d) => d.label === 'Hip extension at toe-off (thigh from vertical, right)')!;
+    const left = data.datasets.find((d) => d.label === 'Hip extension at toe-off (thigh from vertical, left)')!;
     expect(right.borderColor).toBe(OVERLAY_COLOURS.right);
     expect(left.borderColor).toBe(OVERLAY_COLOURS.left);
     expect(left.borderDash).not.toEqual(right.borderDash);

@@ -3,7 +3,7 @@ import type { Side } from '../../../contracts/assessment';
 import type { MeasureKey, MeasureTrends } from '../../../contracts/measures';
 import { MEASURE_DEFINITIONS, OVERLAY_COLOURS } from '../../../kinematics';
 import { formatValue } from '../../../kinematics/format';
-import { sideText, trendSeries } from './compare-logic';
+import { sidedLabel, trendSeries } from './compare-logic';
 
 type LineData = ChartConfiguration<'line', (number | null)[]>['data'];
 type LineOptions = NonNullable<ChartConfiguration<'line', (number | null)[]>['options']>;
@@ -50,7 +50,7 @@ export function trendChart(
       const style = TREND_SIDE_STYLE[s.side ?? 'both'];
       return {
         order: order(s.side),
-        label: `${def.label}${s.side ? ` (${sideText(s.side).toLowerCase()})` : ''}`,
+        label: sidedLabel(def.label, s.side),
         data: s.values,
         yAxisID: axisOf(def.unit),
         borderColor: style.colour,
@@ -74,12 +74,7 @@ export function trendChart(
       grid: { drawOnChartArea: i === 0 },
     };
   });
-  const unitOf = new Map(
-    series.map((s) => [
-      `${MEASURE_DEFINITIONS[s.key].label}${s.side ? ` (${sideText(s.side).toLowerCase()})` : ''}`,
-      MEASURE_DEFINITIONS[s.key].unit,
-    ]),
-  );
+  const unitOf = new Map(series.map((s) => [sidedLabel(MEASURE_DEFINITIONS[s.key].label, s.side), MEASURE_DEFINITIONS[s.key].unit]));
   return {
     data: { labels: visitLabels, datasets },
     units,

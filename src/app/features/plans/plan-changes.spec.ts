@@ -42,7 +42,7 @@ describe('describePlanChanges', () => {
       'moved: Stages reordered',
       'changed: Stage “Lengthening” renamed “Slow lengthening”',
       'changed: Stage “Slow lengthening”: target duration (2 → 3 weeks) and progression criteria changed',
-      'changed: Stage “Holds”: Bridge hold dose 3 × 10 · rest 1 min · 3 days a week → 4 × 10 · rest 1 min · 3 days a week',
+      'changed: Stage “Holds”: Bridge hold dose 3 sets × 10 reps · rest 1 min · 3 days a week → 4 sets × 10 reps · rest 1 min · 3 days a week',
       'moved: Stage “Holds”: exercises reordered',
     ]);
   });

@@ -11,6 +11,8 @@ import { throwError } from 'rxjs';
 import { ASSESSMENT_KIND_LABELS } from '../../../../contracts/assessment';
 import { errorMessage, errorStatus } from '../../../core/api-error';
 import { LeaveGuarded, LeaveWarning, warnBeforeUnload } from '../../../core/leave-guard';
+import { FILMING_CAUTION } from '../../../shared/caution';
+import { CautionNote } from '../../../shared/caution-note/caution-note';
 import { ErrorState } from '../../../shared/states/error-state';
 import { AssessmentClips, UPLOADS_RUNNING_WARNING } from '../assessment-clips/assessment-clips';
 import { AssessmentFacts } from '../assessment-facts';
@@ -32,6 +34,7 @@ import { AssessmentsApi } from '../../../core/data/assessments-api';
     ErrorState,
     AssessmentClips,
     AssessmentFacts,
+    CautionNote,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
   templateUrl: './portal-assessment.html',
@@ -48,6 +51,7 @@ export class PortalAssessment implements LeaveGuarded {
   /** Route parameter. */
   readonly id = input.required<string>();
 
+  protected readonly filmingCaution = FILMING_CAUTION;
   protected readonly assessment = rxResource({
     params: () => Number(this.id()),
     stream: ({ params }) =>

@@ -134,7 +134,7 @@ describe('AthleteList', () => {
     await answer([athlete(1, 'Cleo', 'Bright'), athlete(2, 'Abel', 'Able')], [{ athleteId: 1, planId: 9, alerts: [alert] }]);
     const chips = [...element.querySelectorAll<HTMLAnchorElement>('app-plan-alert-chip a')];
     expect(chips).toHaveLength(1);
-    expect(chips[0]!.textContent).toContain('Weekly pain 2 → 6');
+    expect(chips[0]!.textContent).toContain('Weekly pain 2 → 6/10');
     expect(chips[0]!.getAttribute('href')).toBe('/plans/9');
     expect(chips[0]!.closest('tr')?.textContent).toContain('Cleo Bright');
   });

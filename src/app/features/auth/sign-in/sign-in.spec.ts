@@ -90,3 +90,22 @@ describe('SignIn', () => {
     expect(router.navigateByUrl).toHaveBeenCalledWith('/athletes/4');
   });
 });
+
+describe('SignIn in demo mode', () => {
+  it('the demo note hides its icon from screen readers (it would read out "science")', async () => {
+    TestBed.configureTestingModule({
+      imports: [SignIn],
+      providers: [
+        provideRouter([]),
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: ConfigStore, useValue: { demoMode: signal(true), demoInboxUrl: signal(null) } },
+      ],
+    });
+    const fixture = TestBed.createComponent(SignIn);
+    await fixture.whenStable();
+    const note = (fixture.nativeElement as HTMLElement).querySelector('.demo-note')!;
+    expect(note.textContent).toContain('Demo sign-ins are printed by npm start');
+    expect(note.querySelector('mat-icon')!.getAttribute('aria-hidden')).toBe('true');
+  });
+});

@@ -57,6 +57,7 @@ import {
   frameOfStep,
   landmarksAt,
   lastCommonStep,
+  sidedLabel,
   sideText,
   stepKey,
   verdictText,
@@ -392,7 +393,7 @@ export class ComparePage {
   }
 
   protected rowLabel(r: ComparisonRow): string {
-    return r.side ? `${r.label} (${sideText(r.side).toLowerCase()})` : r.label;
+    return sidedLabel(r.label, r.side);
   }
 
   protected verdictClass(r: ComparisonRow): string {

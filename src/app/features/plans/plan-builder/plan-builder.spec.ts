@@ -59,6 +59,16 @@ describe('PlanBuilder', () => {
   const stageExercises = (stage: number) =>
     [...element.querySelectorAll(`[aria-label="Stage ${stage}"] .stage-exercise .exercise-name`)].map((e) => e.textContent?.trim());
 
+  it("shows a stage's whole goal and move-on words: both grow with their text instead of cutting it off on a phone", async () => {
+    button('Start from three stages').click();
+    await fixture.whenStable();
+    for (const name of ['goal', 'progressionText']) {
+      const field = element.querySelector(`[aria-label="Stage 1"] [formcontrolname="${name}"]`)!;
+      expect(field.tagName, name).toBe('TEXTAREA');
+      expect(field.classList.contains('cdk-textarea-autosize'), name).toBe(true);
+    }
+  });
+
   it('shows an exercise as soon as the picker answers Add, without another click, and the picker then knows it is in the stage', async () => {
     button('Start from three stages').click();
     await fixture.whenStable();

@@ -60,6 +60,14 @@ describe('BandEditor', () => {
     expect(changed).toEqual([{ key: knee.key, band: { ...knee, high: 23 } }]);
   });
 
+  it('writes the unit beside each limit and says what an empty limit means', () => {
+    for (const label of ['Lower limit', 'Upper limit']) {
+      const field = input(label).closest('mat-form-field')!;
+      expect(field.querySelector('[matTextSuffix]')?.textContent?.trim(), label).toBe('°');
+      expect(field.querySelector('mat-hint')?.textContent?.trim(), label).toBe('Leave empty for no limit');
+    }
+  });
+
   it('keeps a band with the lower limit above the upper one from being sent', async () => {
     type('Lower limit', '30');
     await fixture.whenStable();

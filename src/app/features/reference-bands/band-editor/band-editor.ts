@@ -50,6 +50,8 @@ export class BandEditor {
   protected readonly limits = BAND_TEXT_LIMITS;
   protected readonly errorText = errorText;
   protected readonly notANumber = { number: 'Enter a number, e.g. 12.5 or 12,5' };
+  /** The measure's unit, shown beside each limit so no number stands without one. */
+  protected readonly unit = computed(() => unitOf(this.band().key));
   protected readonly title = computed(() => MEASURE_LABELS[this.band().key] ?? this.band().key);
   protected readonly dirty = toSignal(
     this.form.valueChanges.pipe(
