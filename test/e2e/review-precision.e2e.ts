@@ -4,7 +4,7 @@
  * whose centre is a known frame point (smooth, so downscaling cannot move its centroid). In Debian
  * chromium at device pixel ratios 1, 1.5, 2 and 3 and window sizes 1440×900, 1366×768 and 390×844,
  * the test finds the spot on a screenshot as a coach's eye would (centroid of its darkness, in device
- * pixels), clicks there, and checks (a) the landmark the API stores is within half a frame pixel of
+ * pixels), clicks there, and checks (a) the landmark the API stores is within a quarter of a frame pixel of
  * the spot's centre (ffmpeg drew it there), corrected by where the browser says the press was, and
  * (b) the marker drawn for it sits within half a CSS pixel of the press (centroid of the pixels the
  * click changed). Nothing here uses the app's own screen↔frame mapping.
@@ -224,22 +224,24 @@ function expectWithinHalfPixel(results: Miss[]): void {
       .map((r) => `${r.layout} #${r.square}: stored ${r.storedErrPx.toFixed(2)} px, marker ${r.markerErrCss.toFixed(2)} css`)
       .join('\n'),
   );
-  // Half a frame pixel for the stored point; the marker's centre within half a CSS pixel of the click.
-  expect(results.filter((r) => r.storedErrPx > 0.5).map(round)).toEqual([]);
+  // A quarter of a frame pixel for the stored point (measured: at most 0.07 at every ratio); the
+  // marker's centre within half a CSS pixel of the click.
+  expect(results.filter((r) => r.storedErrPx > 0.25).map(round)).toEqual([]);
   expect(results.filter((r) => r.markerErrCss > 0.5).map(round)).toEqual([]);
 }
 
 describe('marking precision on the review canvas', () => {
-  it('stores a click within half a frame pixel of the clicked frame pixel and draws the marker under it, at DPR 1, 2 and 3', async () => {
+  it('stores a click within a quarter of a frame pixel of the clicked frame pixel and draws the marker under it, at DPR 1, 2 and 3', async () => {
     expectWithinHalfPixel(await clickSpots([1, 2, 3]));
   }, 600_000);
 
-  // At 150 % the canvas box starts half-way through a device pixel (e.g. y = 279 CSS px = 418.5
-  // device px at 390×844) and the picture shows about a third of a CSS pixel away from where
-  // pointer positions put it: clicks are stored up to about 1.1 frame px off. Placing the canvas on
-  // whole device pixels was tried and moved the error rather than removing it (Chromium's snapping
-  // of the canvas is not yet understood).
-  it.skip('[skip: known defect at 150 % display scaling, see the comment above] the same at DPR 1.5', async () => {
+  // At 150 % a whole CSS pixel may be half a device pixel. Two causes put clicks about 1 frame px
+  // off there: the canvas box (at y = 283 CSS px = 424.5 device px, 257.39 px tall) stretched its
+  // backing store, and the scrolling content pane below a 45 px top bar (67.5 device px) was drawn
+  // by the compositor on a whole device pixel, half a pixel below its layout position. The canvas
+  // is now placed on whole device pixels (canvas-pixels.ts) and the bar's rule no longer adds to
+  // its height.
+  it('the same at DPR 1.5', async () => {
     expectWithinHalfPixel(await clickSpots([1.5]));
   }, 600_000);
 });

@@ -155,6 +155,19 @@ describe('touch targets: the athlete on a 390×844 phone', () => {
     expect(problems).toEqual([]);
     await context.close();
   });
+
+  it('the demo payment page an invoice opens (its buttons were 42 px tall)', async () => {
+    const { context, page, problems } = await touchPage(h.browser, PHONE, athlete);
+    const invoice = await h.server.db('invoices').where({ athlete_id: adaId, status: 'issued' }).first();
+    await page.goto(`${h.baseUrl}/portal/invoices/${invoice.id}`);
+    await page.getByRole('button', { name: /^Pay .* by card/ }).tap();
+    await page.waitForURL(/\/pay\/cs_/);
+    await page.getByRole('button', { name: 'Pay', exact: true }).waitFor();
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'touch-targets-payment-page-phone.png') });
+    expect(await smallTargets(page)).toEqual([]);
+    expect(problems).toEqual([]);
+    await context.close();
+  });
 });
 
 describe('the coach on a 1024×768 touch tablet', () => {

@@ -5,7 +5,7 @@ const esc = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`)
 const STYLE = `body{font:16px/1.5 system-ui,sans-serif;margin:0;padding:0 12px;background:#eef2f0;color:#1d2b26}
 main{max-width:26rem;margin:10vh auto;background:#fff;border:1px solid #c9d4cf;border-radius:8px;padding:1.5rem}
 h1{font-size:1.25rem;margin:0 0 .25rem}.amount{font-size:2rem;font-weight:600;margin:.5rem 0 1rem}
-.note{color:#56645e;font-size:.875rem}form{display:inline}button{font:inherit;padding:.5rem 1.25rem;margin:.25rem .5rem .25rem 0;border-radius:6px;border:1px solid #1f5a4a;cursor:pointer}
+.note{color:#56645e;font-size:.875rem}form{display:inline}button{font:inherit;padding:.5rem 1.25rem;margin:.25rem .5rem .25rem 0;border-radius:6px;border:1px solid #1f5a4a;cursor:pointer;min-height:44px;min-width:44px}
 .pay{background:#1f5a4a;color:#fff}.other{background:#fff;color:#1f5a4a}`;
 
 function page(title: string, body: string): string {
@@ -19,7 +19,7 @@ export function payPage(s: { id: string; amount_total: number; currency: string;
   return page(
     'Payment page (test)',
     `<p class="note">Test payment page — no real money moves.</p>
-<h1>${esc(s.description)}</h1>
+<h1 dir="auto">${esc(s.description)}</h1>
 <p class="amount" data-testid="amount">${esc(amount)}</p>
 <form method="post" action="${action('pay')}"><button class="pay" type="submit">Pay</button></form>
 <form method="post" action="${action('cancel')}"><button class="other" type="submit">Cancel</button></form>

@@ -23,7 +23,7 @@ import { lineDetail, money, taxText } from '../../../shared/billing-words';
           @for (l of inv.lines; track l.id) {
             <tr>
               <td class="item">
-                {{ l.description }}
+                <span dir="auto">{{ l.description }}</span>
                 <div class="phone-only sub">{{ lineDetail(l, inv.currency) }}</div>
               </td>
               <td class="num wide-only">{{ l.quantity }}</td>

@@ -21,7 +21,12 @@ const DRAFT_GAUGE_ID = 'draft';
 /** Everything one paint needs, read from the store and the viewer. */
 export interface PaintInput {
   view: ViewTransform;
+  /** The canvas box, CSS px. */
   viewSize: Size;
+  /** The canvas's backing store, device px: exactly `viewSize × ratio` (see canvas-pixels.ts). */
+  backing: Size;
+  /** Device pixels per CSS pixel. */
+  ratio: number;
   frameSize: Size;
   frame: number;
   cache: FrameCache | null;
@@ -44,14 +49,14 @@ export interface PaintInput {
   hover: FramePoint | null;
 }
 
-/** Paints the frame, overlay and drafts onto `canvas` at the device pixel ratio. */
+/** Paints the frame, overlay and drafts onto `canvas`, one backing pixel a device pixel. */
 export function paintFrame(canvas: HTMLCanvasElement, s: PaintInput): void {
   const ctx = canvas.getContext('2d');
   const size = s.viewSize;
-  if (!ctx || size.width <= 0 || size.height <= 0) return;
-  const dpr = globalThis.devicePixelRatio || 1;
-  const w = Math.round(size.width * dpr);
-  const h = Math.round(size.height * dpr);
+  if (!ctx || size.width <= 0 || size.height <= 0 || s.backing.width <= 0 || s.backing.height <= 0) return;
+  const dpr = s.ratio;
+  const w = s.backing.width;
+  const h = s.backing.height;
   if (canvas.width !== w || canvas.height !== h) {
     canvas.width = w;
     canvas.height = h;

@@ -110,6 +110,30 @@ describe('FrameViewer pointer handling', () => {
     expect(viewer.zoomPercent()).toBe(50);
   });
 
+  it('at 150 % puts the canvas box on whole device pixels inside its host and maps a press from there', async () => {
+    // A 374 × 257.39 CSS px viewer at (8, 283): its top is 424.5 device px, half-way through a
+    // pixel, where the picture showed a third of a CSS px (≈ 1 frame px) away from the press.
+    const ratio = Object.getOwnPropertyDescriptor(window, 'devicePixelRatio');
+    Object.defineProperty(window, 'devicePixelRatio', { value: 1.5, configurable: true });
+    try {
+      const host = fixture.nativeElement as HTMLElement;
+      host.getBoundingClientRect = () => new DOMRect(8, 283, 374, 257.390625);
+      canvas.getBoundingClientRect = () => new DOMRect(8, 284.003, 374, 256);
+      window.dispatchEvent(new Event('resize'));
+      await settle();
+      expect([canvas.style.left, canvas.style.top, canvas.style.width, canvas.style.height]).toEqual(['0px', '1px', '374px', '256px']);
+      viewer.fit();
+      const t = viewer.view();
+      expect(t.scale).toBeCloseTo(358 / 1280, 12);
+      // The middle of the frame, pressed at the middle of the placed box (284 + 128).
+      click(8 + 187, 284 + 128);
+      expectPoint(store.sidePoints().shoulder, 0.5, 0.5);
+    } finally {
+      if (ratio) Object.defineProperty(window, 'devicePixelRatio', ratio);
+      else delete (window as { devicePixelRatio?: number }).devicePixelRatio;
+    }
+  });
+
   describe('place', () => {
     it('a click places the chosen landmark where it lands and moves on to the next', () => {
       expect(store.landmark()).toBe('shoulder');

@@ -18,6 +18,7 @@ import { eventNamesAt } from '../../../../kinematics/event-names';
 import { GaugeHandleRef, gaugeHandleCandidates } from '../gauge-ops';
 import { GaugeTool } from '../gauge-tool';
 import { paintFrame } from './frame-painter';
+import { CanvasPlacement, canvasOrigin, clientToView, deviceRatio, isOnDevicePixels, placeCanvas } from '../canvas-pixels';
 import { HitCandidate, LandmarkRef, hitTest, hitTolerancePx, landmarkCandidates } from '../hit-test';
 import { ReviewStore } from '../review-store';
 import { MIN_SCALE_LINE_PX, scaleLengthPx } from '../scale-bar';
@@ -81,6 +82,8 @@ export class FrameViewer {
   /** Frame pixels → canvas CSS pixels. */
   readonly view = signal<ViewTransform>({ scale: 1, tx: 0, ty: 0 });
   private readonly viewSize = signal<Size>({ width: 0, height: 0 });
+  /** Where the canvas box sits in the host, on whole device pixels, and its backing store. */
+  private placement: CanvasPlacement | null = null;
   /** Zoom as a percentage of the frame's own pixels. */
   readonly zoomPercent = computed(() => Math.round(this.view().scale * 100));
   protected readonly cursor = signal('crosshair');
@@ -161,9 +164,15 @@ export class FrameViewer {
       observer.observe(this.host.nativeElement);
       const onWheel = (e: WheelEvent) => this.onWheel(e);
       canvas.addEventListener('wheel', onWheel, { passive: false });
+      // Scrolling or a new display scaling moves the box off whole device pixels without resizing it.
+      const onMove = () => this.measure();
+      window.addEventListener('resize', onMove);
+      document.addEventListener('scroll', onMove, { capture: true, passive: true });
       destroyRef.onDestroy(() => {
         observer.disconnect();
         canvas.removeEventListener('wheel', onWheel);
+        window.removeEventListener('resize', onMove);
+        document.removeEventListener('scroll', onMove, { capture: true });
       });
       this.measure();
     });
@@ -195,6 +204,8 @@ export class FrameViewer {
     paintFrame(this.canvasRef().nativeElement, {
       view: this.view(),
       viewSize: this.viewSize(),
+      backing: this.placement?.backing ?? { width: 0, height: 0 },
+      ratio: this.placement?.ratio ?? 1,
       frameSize: store.frameSize(),
       frame: store.frame(),
       cache: store.cache(),
@@ -213,9 +224,26 @@ export class FrameViewer {
     });
   }
 
+  /**
+   * Places the canvas box on whole device pixels inside the host (see canvas-pixels.ts) and
+   * takes its size as the view's; redraws when the backing store changes.
+   */
   private measure(): void {
-    const rect = this.host.nativeElement.getBoundingClientRect();
-    const next = { width: Math.floor(rect.width), height: Math.floor(rect.height) };
+    const placement = placeCanvas(this.host.nativeElement.getBoundingClientRect(), deviceRatio(globalThis.devicePixelRatio));
+    const was = this.placement;
+    this.placement = placement;
+    const style = this.canvasRef().nativeElement.style;
+    style.left = `${placement.offset.x}px`;
+    style.top = `${placement.offset.y}px`;
+    style.width = `${placement.size.width}px`;
+    style.height = `${placement.size.height}px`;
+    if (
+      was &&
+      (was.backing.width !== placement.backing.width || was.backing.height !== placement.backing.height || was.ratio !== placement.ratio)
+    ) {
+      this.requestDraw();
+    }
+    const next = placement.size;
     const prev = this.viewSize();
     if (next.width === prev.width && next.height === prev.height) return;
     this.viewSize.set(next);
@@ -228,9 +256,11 @@ export class FrameViewer {
     }
   }
 
+  /** The pointer in canvas CSS px, from where the canvas box is on the screen's pixels. */
   private local(e: PointerEvent | WheelEvent): Vec {
-    const rect = this.canvasRef().nativeElement.getBoundingClientRect();
-    return { x: e.clientX - rect.left, y: e.clientY - rect.top };
+    const ratio = this.placement?.ratio ?? deviceRatio(globalThis.devicePixelRatio);
+    const origin = canvasOrigin(this.canvasRef().nativeElement.getBoundingClientRect(), ratio);
+    return clientToView(origin, { x: e.clientX, y: e.clientY });
   }
 
   private setView(t: ViewTransform): void {
@@ -287,6 +317,11 @@ export class FrameViewer {
 
   protected onPointerDown(e: PointerEvent): void {
     const canvas = this.canvasRef().nativeElement;
+    if (!isOnDevicePixels(canvas.getBoundingClientRect(), deviceRatio(globalThis.devicePixelRatio))) {
+      // The page moved under the canvas since it was placed (a layout change above it): place it again.
+      this.measure();
+      this.draw();
+    }
     const p = this.local(e);
     this.pointers.set(e.pointerId, p);
     canvas.setPointerCapture?.(e.pointerId);
