@@ -171,9 +171,7 @@ export class MarkerFollowing {
       const low = this.lowFrames().length;
       const lost = this.toCheck().markers.map((m) => `${m.text}.`);
       this.status$.set(
-        ['Markers followed.', ...lost, ...(low ? [`${low} frame${low === 1 ? '' : 's'} with low-confidence points to check.`] : [])].join(
-          ' ',
-        ),
+        ['Markers followed.', ...lost, ...(low ? [`${low} frame${low === 1 ? '' : 's'} to check (low confidence).`] : [])].join(' '),
       );
     } catch (err) {
       this.problem$.set(errorMessage(err));
