@@ -55,6 +55,8 @@ async function clipWithLostAnkle(): Promise<number> {
     { clip_id: clipId, frame: 5, side: 'right', landmark: 'ankle', reason: 'not_found' },
     { clip_id: clipId, frame: 9, side: 'right', landmark: 'ankle', reason: 'broke_links' },
   ]);
+  // As a save does: every change to a clip's marks raises its revision (the server keeps its last save by revision).
+  await h.server.db('clips').where({ id: clipId }).increment('annotation_revision', 1);
   return clipId;
 }
 
