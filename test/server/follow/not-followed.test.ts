@@ -134,6 +134,19 @@ describe('frames not followed', () => {
     expect(JSON.parse(audit.detail).notFollowedChecked).toBe(1);
   });
 
+  it('is read-only in a save: a body carrying its own list is refused (422) and the list stays', async () => {
+    const before = await read();
+    const res = await c.put(`/api/clips/${clipId}/annotations`, {
+      baseRevision: before.revision,
+      landmarks: before.landmarks,
+      events: before.events,
+      scale: before.scale,
+      notFollowed: [],
+    });
+    expect(res.status).toBe(422);
+    expect((await read()).notFollowed).toEqual(before.notFollowed);
+  });
+
   it('the next follow run replaces the frames of its markers inside its range, and keeps the rest', async () => {
     const annotations = annotationsService({ db: t.db, clips: null as never, validateEvents: () => [] });
     // Over 0–15 only: frame 13 is followed this time, 14 is lost; frame 20 lies outside and stays.
