@@ -4,7 +4,7 @@
  * could not follow the ankle on are written as a finished run leaves them (`clip_not_followed`).
  * The coach sees the summary and the red marks on the scrubber, steps to the first frame with `N`,
  * sees the ankle as needing placing with the reason, places it, and the server drops that frame
- * only. At 1440×900 and 390×844, with screenshots.
+ * only; a toe-off on a frame still to check is named on the Measures tab. At 1440×900 and 390×844, with screenshots.
  */
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -49,7 +49,8 @@ async function clipWithLostAnkle(): Promise<number> {
     const ankle = { x: 0.5, y: 0.7, ...(followed ? { origin: 'followed' as const, confidence: 0.9 } : {}) };
     landmarks.push({ frame: f, side: 'right', points: f === 5 || f === 9 ? { knee } : { knee, ankle } });
   }
-  const res = await api.put(`/api/clips/${clipId}/annotations`, { baseRevision: 0, landmarks, events: [], scale: null });
+  const events = [{ frame: 9, side: 'right', kind: 'toe_off' }];
+  const res = await api.put(`/api/clips/${clipId}/annotations`, { baseRevision: 0, landmarks, events, scale: null });
   expect(res.status, JSON.stringify(res.body)).toBe(200);
   await h.server.db('clip_not_followed').insert([
     { clip_id: clipId, frame: 5, side: 'right', landmark: 'ankle', reason: 'not_found' },
@@ -104,6 +105,11 @@ describe('frames to check after following', () => {
       expect(await page.locator('.lost-tick').count()).toBe(1);
       await page.keyboard.press('n');
       await expect.poll(() => page.locator('.frame-no strong').textContent()).toBe('9');
+      // The toe-off on frame 9 has no ankle: the Measures tab says that step is left out, not filled in.
+      const note = 'Right toe-off on frame 9: no ankle — measures that need it leave this step out until you place it.';
+      await page.getByText(note).first().waitFor();
+      await page.getByRole('tab', { name: 'Measures' }).click();
+      await page.locator('app-measures-panel .to-check-note').getByText(note).waitFor();
       expect(problems).toEqual([]);
       await context.close();
     });
