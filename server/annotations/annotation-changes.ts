@@ -11,6 +11,7 @@ import {
   type LandmarkName,
   type LandmarkOrigin,
   type LandmarkPoint,
+  type NotFollowedPoint,
   type ScaleBar,
 } from '../../src/contracts/annotations';
 import type { Side } from '../../src/contracts/assessment';
@@ -159,4 +160,19 @@ export function sameGauges(a: AngleGauge[], b: AngleGauge[]): boolean {
       return g.id === h.id && g.frame === h.frame && samePoint(g.a, h.a) && samePoint(g.vertex, h.vertex) && samePoint(g.b, h.b);
     })
   );
+}
+
+/** Origins a person decided: a point placed by hand, or a proposal accepted. */
+export const isHandPoint = (p: LandmarkPoint | undefined): boolean =>
+  !!p && (p.origin ?? 'placed') !== 'followed' && p.origin !== 'proposed';
+
+/**
+ * The frames not followed that stay after a save of `landmarks`: a frame where a person has now
+ * placed (or accepted) that marker is checked, so it leaves the list; the rest stay in order.
+ */
+export function notFollowedAfter(stored: readonly NotFollowedPoint[], landmarks: readonly FrameLandmarks[]): NotFollowedPoint[] {
+  if (!stored.length) return [];
+  const rows = new Map<string, FrameLandmarks>();
+  for (const row of landmarks) rows.set(`${row.frame}:${row.side}`, row);
+  return stored.filter((p) => !isHandPoint(rows.get(`${p.frame}:${p.side}`)?.points[p.landmark]));
 }

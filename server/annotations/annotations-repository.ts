@@ -1,5 +1,12 @@
 import type { Knex } from 'knex';
-import type { AngleGauge, ClipAnnotations, FrameLandmarks, GaitEventMark, ScaleBar } from '../../src/contracts/annotations';
+import type {
+  AngleGauge,
+  ClipAnnotations,
+  FrameLandmarks,
+  GaitEventMark,
+  NotFollowedPoint,
+  ScaleBar,
+} from '../../src/contracts/annotations';
 import { landmarkChanges, normalizeMarks, sameEvents, sameGauges, sameScale, type LandmarkRow, type MarkSet } from './annotation-changes';
 
 const NO_MARKS: MarkSet = { landmarks: [], events: [], scale: null, gauges: [] };
@@ -35,7 +42,7 @@ export const annotationsRepository = {
         'c.annotated_at',
         'u.name',
       );
-    const [points, events, scale, gaugeRows] = await Promise.all([
+    const [points, events, scale, gaugeRows, notFollowed] = await Promise.all([
       db('clip_landmarks')
         .where({ clip_id: clipId })
         .orderBy(['frame', 'side'])
@@ -46,6 +53,10 @@ export const annotationsRepository = {
         .where({ clip_id: clipId })
         .orderBy(['frame', 'id'])
         .select<GaugeRow[]>('id', 'frame', 'ax', 'ay', 'vx', 'vy', 'bx', 'by'),
+      db('clip_not_followed')
+        .where({ clip_id: clipId })
+        .orderBy(['frame', 'side', 'landmark'])
+        .select<NotFollowedPoint[]>('frame', 'side', 'landmark', 'reason'),
     ]);
     const byFrame = new Map<string, FrameLandmarks>();
     for (const p of points) {
@@ -74,14 +85,40 @@ export const annotationsRepository = {
       events,
       scale: bar,
       gauges,
+      notFollowed,
       updatedAt: clip?.annotated_at ?? null,
       updatedByName: clip?.name ?? null,
     };
   },
 
+  /**
+   * Turns the stored frames not followed `before` into `after` (inside the caller's transaction):
+   * deletes the rows gone and inserts the rows new or with another reason.
+   */
+  async applyNotFollowed(
+    trx: Knex,
+    clipId: number,
+    before: readonly NotFollowedPoint[],
+    after: readonly NotFollowedPoint[],
+  ): Promise<void> {
+    const key = (p: NotFollowedPoint) => `${p.frame}:${p.side}:${p.landmark}`;
+    const kept = new Map(after.map((p) => [key(p), p]));
+    const had = new Map(before.map((p) => [key(p), p]));
+    const gone = before.filter((p) => kept.get(key(p))?.reason !== p.reason);
+    for (const p of gone)
+      await trx('clip_not_followed').where({ clip_id: clipId, frame: p.frame, side: p.side, landmark: p.landmark }).delete();
+    const added = after.filter((p) => had.get(key(p))?.reason !== p.reason);
+    if (added.length)
+      await trx.batchInsert(
+        'clip_not_followed',
+        added.map((p) => ({ clip_id: clipId, frame: p.frame, side: p.side, landmark: p.landmark, reason: p.reason })),
+        400,
+      );
+  },
+
   /** Replaces everything marked on the clip (inside the caller's transaction). */
   async replace(trx: Knex, clipId: number, input: Parameters<typeof normalizeMarks>[0]): Promise<void> {
-    for (const table of ['clip_landmarks', 'gait_events', 'scale_bars', 'angle_gauges'])
+    for (const table of ['clip_landmarks', 'gait_events', 'scale_bars', 'angle_gauges', 'clip_not_followed'])
       await trx(table).where({ clip_id: clipId }).delete();
     await annotationsRepository.applyChanges(trx, clipId, NO_MARKS, normalizeMarks(input));
   },

@@ -1,4 +1,4 @@
-import { MIN_SCALE_LINE_PX, type ClipAnnotations, type EventProposalsResult } from '../../src/contracts/annotations';
+import { MIN_SCALE_LINE_PX, type ClipAnnotations, type EventProposalsResult, type NotFollowedPoint } from '../../src/contracts/annotations';
 import { mergeProposals, minProposalFrames, proposeGaitEvents, PROPOSAL_MIN_SECONDS, scaleBarPixelLength } from '../../src/kinematics';
 import type { SessionUser } from '../../src/contracts/api';
 import type { Db } from '../db/knex';
@@ -8,7 +8,7 @@ import type { ClipsService } from '../clips/clips-service';
 import { clipsRepository, type ClipRow } from '../clips/clips-repository';
 import { annotationsRepository as repo } from './annotations-repository';
 import type { AnnotationsInput } from './annotations-schemas';
-import { normalizeMarks, sameScale } from './annotation-changes';
+import { normalizeMarks, notFollowedAfter, sameScale } from './annotation-changes';
 
 export interface AnnotationsDeps {
   db: Db;
@@ -65,6 +65,8 @@ export function annotationsService(d: AnnotationsDeps) {
    * audits `action`, in one transaction. Returns the saved copy. The measures are not computed
    * here: the next read of them finds their snapshot older than the revision and computes them
    * (see `measures-service.ts`), so an autosave every few seconds does not compute them each time.
+   * The frames not followed go with the marks: `followed` (a follow run) turns the stored list
+   * into the run's, and a marker a person placed or accepted on a frame clears that frame's entry.
    */
   async function save(
     user: Pick<SessionUser, 'id' | 'name' | 'clinicId'>,
@@ -73,6 +75,7 @@ export function annotationsService(d: AnnotationsDeps) {
     input: Parameters<typeof normalizeMarks>[0],
     action: string,
     detail: Record<string, unknown>,
+    followed?: (stored: NotFollowedPoint[]) => NotFollowedPoint[],
   ): Promise<ClipAnnotations> {
     const clipId = clip.id;
     // What is stored now, known before the transaction: the save is checked against it and its
@@ -80,8 +83,18 @@ export function annotationsService(d: AnnotationsDeps) {
     const stored = lastSaved.at(clipId, baseRevision) ?? (await repo.read(db, clipId));
     if (stored.revision !== baseRevision) throw staleRevision(stored);
     const marks = normalizeMarks(input);
+    const storedNotFollowed = stored.notFollowed ?? [];
+    const notFollowed = notFollowedAfter(followed ? followed(storedNotFollowed) : storedNotFollowed, marks.landmarks);
+    const checked = followed ? 0 : storedNotFollowed.length - notFollowed.length;
     const at = new Date().toISOString();
-    const saved: ClipAnnotations = { clipId, revision: stored.revision + 1, ...marks, updatedAt: at, updatedByName: user.name };
+    const saved: ClipAnnotations = {
+      clipId,
+      revision: stored.revision + 1,
+      ...marks,
+      notFollowed,
+      updatedAt: at,
+      updatedByName: user.name,
+    };
 
     await db.transaction(async (trx) => {
       // Raising the revision only from the one read takes the clip row's lock first: a save racing from the same
@@ -95,6 +108,7 @@ export function annotationsService(d: AnnotationsDeps) {
         throw staleRevision(await repo.read(trx, clipId));
       }
       await repo.applyChanges(trx, clipId, { ...stored, gauges: stored.gauges ?? [] }, marks);
+      await repo.applyNotFollowed(trx, clipId, storedNotFollowed, notFollowed);
       await audit(
         trx,
         {
@@ -102,7 +116,7 @@ export function annotationsService(d: AnnotationsDeps) {
           actorId: user.id,
           athleteId: clip.athlete_id,
           action,
-          detail: { clipId, revision: saved.revision, ...detail },
+          detail: { clipId, revision: saved.revision, ...detail, ...(checked > 0 ? { notFollowedChecked: checked } : {}) },
         },
         at,
       );
@@ -137,7 +151,8 @@ export function annotationsService(d: AnnotationsDeps) {
     /**
      * Saves the clip's current landmarks as `change` turns them, on behalf of `actor` (background
      * work a person asked for, such as marker following): read, changed and saved on the stored
-     * revision, read again when another save came in between (up to three times).
+     * revision, read again when another save came in between (up to three times). `followed`, for a
+     * follow run, turns the stored frames not followed into the run's (see `save`).
      */
     async changeLandmarks(
       actor: Pick<SessionUser, 'id' | 'name' | 'clinicId'>,
@@ -145,13 +160,14 @@ export function annotationsService(d: AnnotationsDeps) {
       change: (landmarks: ClipAnnotations['landmarks']) => ClipAnnotations['landmarks'],
       action: string,
       detail: Record<string, unknown>,
+      followed?: (stored: NotFollowedPoint[]) => NotFollowedPoint[],
     ): Promise<ClipAnnotations> {
       for (let attempt = 1; ; attempt++) {
         const clip = await clipsRepository.findById(db, clipId);
         if (!clip) throw new AppError(404, 'not_found', 'Clip not found.');
         const current = await repo.read(db, clipId);
         try {
-          return await save(actor, clip, current.revision, { ...current, landmarks: change(current.landmarks) }, action, detail);
+          return await save(actor, clip, current.revision, { ...current, landmarks: change(current.landmarks) }, action, detail, followed);
         } catch (err) {
           if (!(err instanceof AppError && err.code === 'stale_revision') || attempt >= 3) throw err;
         }

@@ -10,8 +10,8 @@ import type { ClipManifest } from '../media/manifest';
 import { clipKeys } from '../storage/media-keys';
 import type { MediaStore } from '../storage/media-store';
 import { readJson } from '../storage/stored-objects';
-import { mergeFollowed, planFollow } from './follow-plan';
-import { followMarkers, type LostPoint } from './marker-follower';
+import { mergeFollowed, notFollowedAfterFollow, planFollow } from './follow-plan';
+import { followMarkers, type FollowResult, type LostPoint } from './marker-follower';
 import { loadOpenCv } from './opencv';
 import { storedFrameReader } from './stored-frames';
 
@@ -34,6 +34,35 @@ interface Followed {
   /** Per marker (`side landmark`), the frames it was not found on and why. */
   lost: Record<string, LostPoint[]>;
   repeatedFrames: number[];
+}
+
+/**
+ * Saves a finished follow run as `actor`: the followed points merge into the clip's landmarks
+ * (placed and accepted points stay), the frames it lost replace the run's markers' earlier frames
+ * not followed over the range, and the audit line `clip.markers-followed` carries the counts.
+ */
+export async function saveFollowRun(
+  annotations: AnnotationsService,
+  actor: { id: number; name: string; clinicId: number },
+  clipId: number,
+  range: { startFrame: number; from: number; to: number },
+  size: { width: number; height: number },
+  result: Pick<FollowResult, 'points' | 'lost' | 'lowConfidenceFrames' | 'repeatedFrames'>,
+): Promise<{ points: number; lost: Record<string, LostPoint[]> }> {
+  let points = 0;
+  for (const list of result.points.values()) points += list.length;
+  // Every frame of the range is followed, placed, or lost here with the reason: none goes missing unsaid.
+  const lost = Object.fromEntries([...result.lost].filter(([, list]) => list.length > 0));
+  await annotations.changeLandmarks(
+    actor,
+    clipId,
+    (landmarks) => mergeFollowed(landmarks, result, range, size),
+    'clip.markers-followed',
+    { ...range, points, lowConfidenceFrames: result.lowConfidenceFrames.length, lost, repeatedFrames: result.repeatedFrames },
+    // The frames lost go beside the followed points, for the review to send the coach to them.
+    (stored) => notFollowedAfterFollow(stored, result, range),
+  );
+  return { points, lost };
 }
 
 export function followMarkersKind(d: { db: Db; store: MediaStore; annotations: AnnotationsService }): ProcessingKind<Followed | null> {
@@ -74,16 +103,13 @@ export function followMarkersKind(d: { db: Db; store: MediaStore; annotations: A
         signal: ctx.signal,
       });
       ctx.signal.throwIfAborted();
-      let points = 0;
-      for (const list of result.points.values()) points += list.length;
-      // Every frame of the range is followed, placed, or lost here with the reason: none goes missing unsaid.
-      const lost = Object.fromEntries([...result.lost].filter(([, list]) => list.length > 0));
-      await annotations.changeLandmarks(
+      const { points, lost } = await saveFollowRun(
+        annotations,
         { id: user.id, name: user.name, clinicId: user.clinic_id },
         clipId,
-        (landmarks) => mergeFollowed(landmarks, result, range, size),
-        'clip.markers-followed',
-        { ...range, points, lowConfidenceFrames: result.lowConfidenceFrames.length, lost, repeatedFrames: result.repeatedFrames },
+        range,
+        size,
+        result,
       );
       return {
         points,

@@ -3,11 +3,11 @@
  * frame, which points a person placed (never replaced), and how followed points merge back into
  * the landmarks. Pure: frame fractions in, frame fractions out.
  */
-import type { FrameLandmarks, LandmarkName, LandmarkPoint } from '../../src/contracts/annotations';
+import type { FrameLandmarks, LandmarkName, LandmarkPoint, NotFollowedPoint } from '../../src/contracts/annotations';
 import { LANDMARKS } from '../../src/contracts/annotations';
 import type { Side } from '../../src/contracts/assessment';
 import type { Point } from '../../src/kinematics/geometry';
-import type { FollowMarker, FollowResult } from './marker-follower';
+import type { FollowMarker, FollowResult, LostPoint } from './marker-follower';
 import { RIGID_LINKS } from './rigid-links';
 
 /** Origins a person decided (placed, or a proposal they accepted): following never replaces them. */
@@ -95,4 +95,26 @@ export function mergeFollowed(
     }
   }
   return [...rows.values()].filter((r) => Object.keys(r.points).length > 0).sort((a, b) => a.frame - b.frame || (a.side < b.side ? -1 : 1));
+}
+
+/**
+ * The clip's frames not followed after a follow run over `range`: the run answers for the markers
+ * it followed on every frame of the range, so their earlier entries there are replaced by the
+ * run's `lost`; entries of other markers, and of frames outside the range, stay. Sorted by frame,
+ * side and landmark name.
+ */
+export function notFollowedAfterFollow(
+  stored: readonly NotFollowedPoint[],
+  result: { points: ReadonlyMap<string, unknown>; lost: ReadonlyMap<string, readonly LostPoint[]> },
+  range: { from: number; to: number },
+): NotFollowedPoint[] {
+  const followed = new Set([...result.points.keys(), ...result.lost.keys()]);
+  const out = stored.filter((p) => p.frame < range.from || p.frame > range.to || !followed.has(markerKey(p.side, p.landmark)));
+  for (const [key, list] of result.lost) {
+    const [side, landmark] = key.split(' ') as [Side, LandmarkName];
+    for (const l of list) if (l.frame >= range.from && l.frame <= range.to) out.push({ frame: l.frame, side, landmark, reason: l.reason });
+  }
+  // The order the database reads them back in (side and landmark names compared as text).
+  const text = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
+  return out.sort((a, b) => a.frame - b.frame || text(a.side, b.side) || text(a.landmark, b.landmark));
 }

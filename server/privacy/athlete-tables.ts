@@ -55,6 +55,11 @@ export const ATHLETE_TABLES = {
   gait_events: { where: CLIPS, erase: 'delete', about: 'initial contact and toe-off frames' },
   scale_bars: { where: CLIPS, erase: 'delete', about: 'the length scale marked on a clip' },
   angle_gauges: { where: CLIPS, erase: 'delete', about: 'angles measured by hand on a frame' },
+  clip_not_followed: {
+    where: CLIPS,
+    erase: 'delete',
+    about: 'frames marker following could not follow a marker on, and why (for the coach to check)',
+  },
   measure_snapshots: { where: CLIPS, erase: 'delete', about: 'the measures computed from the marks (JSON)' },
   stills: { where: 'athlete_id = ?', erase: 'delete', about: 'annotated stills (published or not)' },
   visit_summaries: { where: 'athlete_id = ?', erase: 'delete', about: 'visit summaries (published or not)' },

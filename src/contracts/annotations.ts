@@ -115,6 +115,28 @@ export interface FollowMarkersStarted {
   kind: 'follow_markers';
 }
 
+/**
+ * Why marker following got no point for a marker on a frame: `not_found` (the marker was not seen
+ * near where it should be: hidden, blurred, out of the picture), `broke_links` (what was found sits
+ * too far from the other markers of its thigh, shank or foot to be the marker), `on_other_marker`
+ * (it landed on another marker).
+ */
+export const NOT_FOLLOWED_REASONS = ['not_found', 'broke_links', 'on_other_marker'] as const;
+export type NotFollowedReason = (typeof NOT_FOLLOWED_REASONS)[number];
+
+/**
+ * A frame where the last follow run over it could not follow one marker: the frame has no point
+ * for it from following, so the coach must check it (place the marker by hand, or leave it out).
+ * Cleared when a person places or accepts that marker on that frame, and replaced by the next
+ * follow run over the frame.
+ */
+export interface NotFollowedPoint {
+  frame: number;
+  side: Side;
+  landmark: LandmarkName;
+  reason: NotFollowedReason;
+}
+
 /** A followed point below this confidence is flagged for the coach to check. */
 export const FOLLOW_LOW_CONFIDENCE = 0.5;
 
@@ -150,6 +172,11 @@ export interface ClipAnnotations {
   scale: ScaleBar | null;
   /** Angle gauges (the server always sends the list; older copies may lack it = none). */
   gauges?: AngleGauge[];
+  /**
+   * Frames marker following could not follow a marker on and no person has placed it on since,
+   * by frame, side and landmark (read-only: the server keeps it; older copies may lack it = none).
+   */
+  notFollowed?: NotFollowedPoint[];
   updatedAt: string | null;
   updatedByName: string | null;
 }

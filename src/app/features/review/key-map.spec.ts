@@ -22,6 +22,14 @@ describe('keyAction', () => {
     expect(keyAction(key('.'))).toEqual({ type: 'speed', dir: 1 });
   });
 
+  it('steps to the next frame to check with N and back with Shift + N (no other key of the map uses N)', () => {
+    expect(keyAction(key('n'))).toEqual({ type: 'check-jump', dir: 1 });
+    expect(keyAction(key('N', { shiftKey: true }))).toEqual({ type: 'check-jump', dir: -1 });
+    expect(keyAction(key('n', { ctrlKey: true }))).toBeNull();
+    const taken = KEY_HELP.flatMap((g) => g.rows.flatMap((r) => r.keys)).filter((k) => /^(shift \+ )?n$/i.test(k));
+    expect(taken).toEqual(['N', 'Shift + N']);
+  });
+
   it('chooses landmarks 1–6 and marks events with I, M, O in either case', () => {
     expect(keyAction(key('1'))).toEqual({ type: 'landmark', index: 0 });
     expect(keyAction(key('6'))).toEqual({ type: 'landmark', index: 5 });
@@ -119,7 +127,7 @@ describe('focus that keeps keys', () => {
 describe('KEY_HELP', () => {
   it('lists every group with rows, and each documented single key does something', () => {
     expect(KEY_HELP.map((g) => g.title)).toEqual(['Frames', 'Marking', 'Tools and view']);
-    const singles = ['[', ']', ',', '.', 'S', 'I', 'M', 'O', 'C', 'L', 'P', 'B', 'G', 'F', 'A', 'K', '?'];
+    const singles = ['[', ']', ',', '.', 'S', 'I', 'M', 'O', 'C', 'N', 'L', 'P', 'B', 'G', 'F', 'A', 'K', '?'];
     const listed = KEY_HELP.flatMap((g) => g.rows.flatMap((r) => r.keys));
     for (const k of singles) {
       expect(listed).toContain(k);

@@ -12,6 +12,7 @@ export type ReviewAction =
   | { type: 'first' }
   | { type: 'last' }
   | { type: 'event-jump'; dir: -1 | 1 }
+  | { type: 'check-jump'; dir: -1 | 1 }
   | { type: 'play' }
   | { type: 'speed'; dir: -1 | 1 }
   | { type: 'zoom'; dir: -1 | 1 }
@@ -74,6 +75,7 @@ export const KEY_HELP: KeyHelpGroup[] = [
       { keys: ['I', 'M', 'O'], does: 'Mark or unmark Initial contact / Midstance / Toe-off on this frame' },
       { keys: ['C'], does: 'Copy the points of the nearest earlier marked frame' },
       { keys: ['T'], does: "Follow markers: follow this frame's landmarks over the chosen frames (the whole clip by default)" },
+      { keys: ['N', 'Shift + N'], does: 'Next / previous frame to check: a marker following could not follow there' },
       { keys: ['Delete'], does: 'Remove the selected point or angle gauge' },
       { keys: ['Ctrl + Z'], does: 'Undo' },
       { keys: ['Ctrl + Shift + Z', 'Ctrl + Y'], does: 'Redo' },
@@ -175,6 +177,8 @@ export function keyAction(input: KeyInput): ReviewAction | null {
       return { type: 'copy-previous' };
     case 't':
       return { type: 'follow' };
+    case 'n':
+      return { type: 'check-jump', dir: shiftKey ? -1 : 1 };
     case 'f':
       return { type: 'fit' };
     case 'a':

@@ -94,6 +94,39 @@ describe('MarkerFollowing', () => {
     expect(store.historyLabels().undo).toBe('follow markers');
   });
 
+  it('after following, sums up the markers lost, steps between their frames, shows what to place there and drops a frame once it is placed by hand', async () => {
+    store.goTo(10);
+    const started = following.follow();
+    http.expectOne('/api/clips/7/follow').flush({ itemId: 42, kind: 'follow_markers' });
+    await started;
+    item('ready', { done: 29, total: 29 });
+    await Promise.resolve();
+    http.expectOne('/api/clips/7/annotations').flush({
+      ...loaded,
+      revision: 4,
+      notFollowed: [
+        { frame: 12, side: 'left', landmark: 'hip', reason: 'not_found' },
+        { frame: 20, side: 'left', landmark: 'hip', reason: 'on_other_marker' },
+      ],
+    });
+    await new Promise((r) => setTimeout(r, 0));
+    expect(following.status()).toBe('Markers followed. Left hip not followed on 2 frames — check them.');
+    expect(following.toCheck().frames).toEqual([12, 20]);
+    expect(following.stepToCheck()).toBe(true);
+    expect(store.frame()).toBe(12);
+    expect(following.missingHere().map((m) => m.text)).toEqual([
+      'Left hip needs placing: the marker could not be seen here (hidden by a limb, blurred, or out of the picture).',
+    ]);
+    store.chooseSide('left');
+    store.chooseLandmark('hip');
+    store.placeAt({ x: 0.5, y: 0.4 });
+    expect(following.toCheck().frames).toEqual([20]);
+    expect(following.missingHere()).toEqual([]);
+    expect(following.stepToCheck(-1)).toBe(true);
+    expect(store.frame()).toBe(20);
+    expect(following.stepToCheck()).toBe(false);
+  });
+
   it('shows why following failed and changes nothing', async () => {
     store.goTo(10);
     const started = following.follow();

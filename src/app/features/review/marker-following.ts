@@ -6,6 +6,7 @@ import { ProcessingEvents } from '../../core/processing-events';
 import { diffStates, stateOf } from './annotation-changes';
 import { AnnotationSync } from './annotation-sync';
 import { followBlockedReason, followRangeProblem, followStatusText, lowConfidenceFrames, type FollowRange } from './follow-view';
+import { eventsMissingMarkers, framesToCheck, missingOnFrame, nextToCheck } from './not-followed';
 import { ReviewStore } from './review-store';
 
 /** How long a finished follow waits for the page's own unsaved edits to be saved before showing the result. */
@@ -58,6 +59,15 @@ export class MarkerFollowing {
   readonly rangeProblem = computed(() => followRangeProblem(this.range(), this.store.frame(), this.store.frameCount()));
   /** Frames with a followed point below the confidence the coach should check. */
   readonly lowFrames = computed(() => lowConfidenceFrames(this.store.annotations().landmarks));
+  /**
+   * Frames following could not follow a marker on (the server's list), less those where the coach
+   * has placed that marker since: the frames the coach must check.
+   */
+  readonly toCheck = computed(() => framesToCheck(this.sync.base()?.notFollowed, this.store.annotations().landmarks));
+  /** The markers to place on the frame shown, with why each was not followed. */
+  readonly missingHere = computed(() => missingOnFrame(this.toCheck(), this.store.frame()));
+  /** Gait events on such frames: measures needing the missing marker leave that step out. */
+  readonly eventsToCheck = computed(() => eventsMissingMarkers(this.toCheck(), this.store.events()));
   /** Why following cannot start from this frame (no markers placed here, edits still saving), or null. */
   readonly blocked = computed(() => {
     const frame = this.store.frame();
@@ -84,6 +94,14 @@ export class MarkerFollowing {
   followWholeClip(): void {
     this.from$.set(null);
     this.to$.set(null);
+  }
+
+  /** Goes to the next (1) or previous (−1) frame to check; false when there is no other. */
+  stepToCheck(dir: -1 | 1 = 1): boolean {
+    const target = nextToCheck(this.toCheck().frames, this.store.frame(), dir);
+    if (target === null) return false;
+    this.store.step(target - this.store.frame());
+    return true;
   }
 
   /** Follows the current frame's markers forward and backward over the range. */
@@ -151,7 +169,10 @@ export class MarkerFollowing {
       this.sync.adopt(saved);
       this.store.edit('follow markers', changes);
       const low = this.lowFrames().length;
-      this.status$.set(low ? `Markers followed. ${low} frame${low === 1 ? '' : 's'} to check (low confidence).` : 'Markers followed.');
+      const lost = this.toCheck().markers.map((m) => `${m.text}.`);
+      this.status$.set(
+        ['Markers followed.', ...lost, ...(low ? [`${low} frame${low === 1 ? '' : 's'} to check (low confidence).`] : [])].join(' '),
+      );
     } catch (err) {
       this.problem$.set(errorMessage(err));
     }

@@ -48,12 +48,14 @@ export class LandmarksPanel {
     const chosen = this.store.landmark();
     const selected = this.store.selected();
     const side = this.store.side();
+    const missing = this.following.missingHere();
     return LANDMARKS.map((name, i) => ({
       name,
       key: String(i + 1),
       label: LANDMARK_LABELS[name],
       placed: !!points[name],
       followed: points[name]?.origin === 'followed',
+      missing: !points[name] && missing.some((m) => m.side === side && m.landmark === name),
       chosen: name === chosen,
       selected: selected?.side === side && selected.landmark === name,
     }));
@@ -81,6 +83,18 @@ export class LandmarksPanel {
   protected selectGauge(id: string): void {
     this.store.setTool('gauge');
     this.gauges.select(id);
+  }
+
+  /** Chooses a marker following lost on this frame, so the next click on the frame places it. */
+  protected placeMissing(side: Side, landmark: LandmarkName): void {
+    this.store.setTool('landmark');
+    this.store.chooseSide(side);
+    this.store.chooseLandmark(landmark);
+  }
+
+  /** Goes to the next frame following could not follow a marker on. */
+  protected nextToCheck(): void {
+    if (!this.following.stepToCheck(1)) this.snackBar.open('No other frame to check.', undefined, { duration: 2000 });
   }
 
   /** Sets one end of the range to follow from what was typed (empty: the clip's own end). */

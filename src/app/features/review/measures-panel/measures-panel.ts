@@ -13,6 +13,7 @@ import {
   measureContext,
   stepsText,
 } from '../measure-view';
+import { MarkerFollowing } from '../marker-following';
 import { ReviewStore } from '../review-store';
 
 interface MeasureRow {
@@ -39,6 +40,7 @@ interface MeasureRow {
 })
 export class MeasuresPanel {
   protected readonly store = inject(ReviewStore);
+  protected readonly following = inject(MarkerFollowing);
   protected readonly footStrikeSource = FOOT_STRIKE_SOURCE;
   protected readonly caution = MEASURES_CAUTION;
 

@@ -225,6 +225,12 @@ export class ReviewPage implements LeaveGuarded {
     return this.following.lowFrames().map((frame) => ({ frame, left: (frame / last) * 100 }));
   });
 
+  /** Frames where following could not follow a marker, as percentages along the scrubber. */
+  protected readonly lostTicks = computed(() => {
+    const last = this.lastFrame() || 1;
+    return this.following.toCheck().frames.map((frame) => ({ frame, left: (frame / last) * 100 }));
+  });
+
   private openedClip: number | null = null;
 
   constructor() {
@@ -348,6 +354,16 @@ export class ReviewPage implements LeaveGuarded {
       case 'event-jump':
         if (!store.jumpToEvent(action.dir))
           this.say(action.dir < 0 ? 'No marked event before this frame' : 'No marked event after this frame', true);
+        break;
+      case 'check-jump':
+        if (this.following.stepToCheck(action.dir)) {
+          const here = this.following.missingHere().map((m) => m.text);
+          this.say(`Frame ${store.frame()} to check. ${here.join(' ')}`);
+        } else
+          this.say(
+            this.following.toCheck().frames.length ? 'No other frame to check' : 'No frame to check: every marker was followed',
+            true,
+          );
         break;
       case 'play':
         store.togglePlay();
