@@ -362,7 +362,12 @@ describe('review workspace', () => {
     await desktop.context.close();
 
     // A phone: touch, no hovering pointer (hover: none, pointer: coarse).
-    const context = await h.browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true, deviceScaleFactor: 3 });
+    const context = await h.browser.newContext({
+      viewport: { width: 390, height: 844 },
+      isMobile: true,
+      hasTouch: true,
+      deviceScaleFactor: 3,
+    });
     const page = await context.newPage();
     const problems: string[] = [];
     page.on('pageerror', (e) => problems.push(e.message));
