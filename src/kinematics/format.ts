@@ -91,12 +91,19 @@ export function formatMeasure(m: Pick<Measure, 'mean' | 'sd' | 'unit' | 'n' | 's
   return joinUnit(`${fixed(m.mean, d)}${sd}`, m.unit);
 }
 
-/** "10–25°", "≥ 10°", "≤ 8 cm". */
+/**
+ * "10–25°", "≥ 10°", "≤ 8 cm"; a range with a negative end reads "−0.8 to 7.4°", since a dash
+ * beside a minus sign ("−0.8–7.4°", "−5–−2°") reads as subtraction or a double minus.
+ */
 export function bandRange(band: Pick<ReferenceBand, 'low' | 'high' | 'unit'>): string {
   const { low, high, unit } = band;
   const d = decimalsFor(unit);
   const n = (v: number) => String(roundHalfAway(v, Math.max(d, 2))).replace('-', '\u2212');
-  if (low !== null && high !== null) return joinUnit(`${n(low)}–${n(high)}`, unit);
+  if (low !== null && high !== null) {
+    const [from, to] = [n(low), n(high)];
+    const signed = from.startsWith('\u2212') || to.startsWith('\u2212');
+    return joinUnit(signed ? `${from} to ${to}` : `${from}–${to}`, unit);
+  }
   if (low !== null) return `≥ ${joinUnit(n(low), unit)}`;
   if (high !== null) return `≤ ${joinUnit(n(high), unit)}`;
   return 'No limits';

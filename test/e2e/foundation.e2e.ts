@@ -58,6 +58,15 @@ describe('foundation journey', () => {
     await page.waitForURL(/\/athletes\/\d+$/);
     athleteId = Number(/\/athletes\/(\d+)$/.exec(page.url())![1]);
 
+    // Dates are typed day first (en-GB) and shown back in words; a day that does not exist is refused and kept.
+    const dob = page.getByLabel('Date of birth');
+    await dob.fill('31/02/1991');
+    await dob.blur();
+    await expect.poll(() => page.getByText('Enter a real date as day/month/year, e.g. 14/03/2024').count()).toBe(1);
+    expect(await dob.inputValue()).toBe('31/02/1991');
+    await dob.fill('2/4/1991');
+    await dob.blur();
+    await expect.poll(() => dob.inputValue()).toBe('2 Apr 1991');
     await page.getByLabel('Height').fill('170');
     await page.getByLabel('Weekly distance').fill('40');
     await page.getByLabel('Longest recent run').fill('18');
@@ -67,6 +76,12 @@ describe('foundation journey', () => {
     await choose(page, 'Region', 'Hamstring');
     await choose(page, 'Side', 'Left');
     await page.getByLabel('Began').fill('2026-06');
+    // Beside the browser's month picker (which shows the month in words) the hint asks for no format.
+    const began = page.locator('mat-form-field').filter({ has: page.getByLabel('Began') });
+    expect((await began.locator('mat-hint').innerText()).trim()).toBe('Month and year');
+    expect(await page.locator('mat-hint').filter({ hasText: 'YYYY' }).count()).toBe(0);
+    await page.getByLabel('Began').scrollIntoViewIfNeeded();
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'intake-dates.png') });
     await choose(page, 'Status', 'Recovering');
     await page.getByRole('button', { name: 'Add painful area' }).click();
     await choose(page, 'Area', 'Hamstring');
@@ -79,7 +94,13 @@ describe('foundation journey', () => {
 
     await expect.poll(async () => (await h.server.db('consents').where({ athlete_id: athleteId, kind: 'video_recording' })).length).toBe(1);
     const row = await h.server.db('athletes').where({ id: athleteId }).first();
-    expect(row).toMatchObject({ height_cm: 170, weekly_km: 40, longest_run_km: 18, goal_event: 'Autumn trail marathon' });
+    expect(row).toMatchObject({
+      date_of_birth: '1991-04-02',
+      height_cm: 170,
+      weekly_km: 40,
+      longest_run_km: 18,
+      goal_event: 'Autumn trail marathon',
+    });
     expect(JSON.parse(row.surfaces)).toEqual(['trail']);
     expect(await h.server.db('injuries').where({ athlete_id: athleteId })).toMatchObject([
       { region: 'hamstring', side: 'left', began: '2026-06', status: 'recovering' },

@@ -346,4 +346,42 @@ describe('review workspace', () => {
     expect(problems).toEqual([]);
     await context.close();
   });
+
+  it('offers key badges and the keyboard-shortcuts button on a desktop, none on a touch phone', async () => {
+    const visibleKeys = (page: Page) =>
+      page.locator('kbd').evaluateAll((els) => els.filter((e) => e.getBoundingClientRect().width > 0).map((e) => e.textContent!.trim()));
+    const desktop = await h.newPage();
+    await desktop.page.setViewportSize({ width: 1440, height: 900 });
+    await signIn(desktop.page);
+    await desktop.page.goto(reviewUrl());
+    await desktop.page.locator('app-frame-viewer canvas').waitFor();
+    expect(await desktop.page.getByRole('button', { name: 'Keyboard shortcuts' }).isVisible()).toBe(true);
+    expect(await visibleKeys(desktop.page)).toEqual(expect.arrayContaining(['S', '1']));
+    await desktop.page.screenshot({ path: path.join(SCREENSHOTS, 'review-keys-1440x900.png') });
+    expect(desktop.problems).toEqual([]);
+    await desktop.context.close();
+
+    // A phone: touch, no hovering pointer (hover: none, pointer: coarse).
+    const context = await h.browser.newContext({
+      viewport: { width: 390, height: 844 },
+      isMobile: true,
+      hasTouch: true,
+      deviceScaleFactor: 3,
+    });
+    const page = await context.newPage();
+    const problems: string[] = [];
+    page.on('pageerror', (e) => problems.push(e.message));
+    await signIn(page);
+    await page.goto(reviewUrl());
+    await page.locator('app-frame-viewer canvas').waitFor();
+    await expect.poll(() => page.locator('.frame-no').textContent()).toContain('Frame');
+    expect(await page.getByRole('button', { name: 'Keyboard shortcuts' }).isVisible()).toBe(false);
+    expect(await visibleKeys(page)).toEqual([]);
+    expect(await page.locator('.key-hint').evaluateAll((els) => els.filter((e) => e.getBoundingClientRect().width > 0).length)).toBe(0);
+    // The sentences the badges sat in still read whole.
+    expect(await page.locator('app-landmarks-panel').textContent()).not.toContain('()');
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'review-keys-390x844-touch.png') });
+    expect(problems).toEqual([]);
+    await context.close();
+  });
 });

@@ -201,6 +201,8 @@ describe('sharing stills and a visit summary', () => {
       )
       .toBe(true);
     expect(await p.getByText('Your coach’s notes and figures support, and do not replace').count()).toBe(1);
+    // The hint under the stills reads for a finger and for a mouse alike.
+    expect(await p.getByText('Click or tap a still to enlarge it, then swipe or use the arrows to move between them.').count()).toBe(1);
     await p.getByRole('heading', { name: 'From your clinic' }).scrollIntoViewIfNeeded();
     await p.screenshot({ path: shot('sharing-portal-phone.png'), fullPage: true });
 

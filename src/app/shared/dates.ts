@@ -25,6 +25,75 @@ export function parseIsoDate(value: string | null | undefined): Date | null {
   return date.getFullYear() === year && date.getMonth() === month - 1 && date.getDate() === day ? date : null;
 }
 
+const MONTH_NAMES = [
+  'january',
+  'february',
+  'march',
+  'april',
+  'may',
+  'june',
+  'july',
+  'august',
+  'september',
+  'october',
+  'november',
+  'december',
+];
+
+/** A month written in words ("Mar", "March", "Sept", "sep.") → 1–12; null otherwise. */
+function monthFromName(word: string): number | null {
+  const w = word.toLowerCase().replace(/\.$/, '');
+  if (w.length < 3) return null;
+  const i = MONTH_NAMES.findIndex((name) => name.startsWith(w) || (w === 'sept' && name === 'september'));
+  return i < 0 ? null : i + 1;
+}
+
+/** Local midnight of year-month-day; null when that day does not exist (30 February). */
+function realDate(year: number, month: number, day: number): Date | null {
+  if (year < 1000 || year > 9999) return null;
+  const date = new Date(year, month - 1, day);
+  return date.getFullYear() === year && date.getMonth() === month - 1 && date.getDate() === day ? date : null;
+}
+
+/**
+ * A date as people type it in the app's locale (en-GB) → local midnight `Date`; null when the text
+ * is not one of these shapes or names a day that does not exist. Accepted: `2024-03-14` (ISO),
+ * `14/03/2024` or `14.3.2024` (day, month, year: the en-GB order; a four-digit year), and
+ * `14 Mar 2024` / `14 March 2024` (how the app shows dates). The picker shows the date back in
+ * words at once, so the order taken is never hidden.
+ */
+export function parseDateText(text: string | null | undefined): Date | null {
+  const t = (text ?? '').trim();
+  if (!t) return null;
+  const iso = parseIsoDate(t);
+  if (iso) return iso;
+  let m = /^(\d{1,2})[/.](\d{1,2})[/.](\d{4})$/.exec(t);
+  if (m) return realDate(Number(m[3]), Number(m[2]), Number(m[1]));
+  m = /^(\d{1,2})\s+([A-Za-z]+\.?),?\s+(\d{4})$/.exec(t);
+  if (m) {
+    const month = monthFromName(m[2]!);
+    return month === null ? null : realDate(Number(m[3]), month, Number(m[1]));
+  }
+  return null;
+}
+
+/**
+ * A month as people type it (when the browser has no month picker) → `YYYY-MM`; null for any
+ * other text. Accepted: `2024-03`, `03/2024` or `3.2024` (month, year), `Mar 2024` / `March 2024`.
+ */
+export function parseMonthText(text: string | null | undefined): string | null {
+  const t = (text ?? '').trim();
+  let m = /^(\d{4})-(\d{2})$/.exec(t);
+  let year: number;
+  let month: number | null;
+  if (m) [year, month] = [Number(m[1]), Number(m[2])];
+  else if ((m = /^(\d{1,2})[/.](\d{4})$/.exec(t))) [year, month] = [Number(m[2]), Number(m[1])];
+  else if ((m = /^([A-Za-z]+\.?),?\s+(\d{4})$/.exec(t))) [year, month] = [Number(m[2]), monthFromName(m[1]!)];
+  else return null;
+  if (month === null || month < 1 || month > 12 || year < 1000) return null;
+  return `${pad(year, 4)}-${pad(month)}`;
+}
+
 /** The month containing `date` as `YYYY-MM`. */
 export function toIsoMonth(date: Date): string {
   return `${pad(date.getFullYear(), 4)}-${pad(date.getMonth() + 1)}`;

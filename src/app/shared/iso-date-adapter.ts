@@ -1,15 +1,24 @@
 import { EnvironmentProviders, Injectable, makeEnvironmentProviders } from '@angular/core';
 import { DateAdapter, MAT_DATE_FORMATS, MatDateFormats, NativeDateAdapter } from '@angular/material/core';
-import { parseIsoDate, toIsoDate } from './dates';
+import { parseDateText } from './dates';
 
-/** The one format people type and read dates in: unambiguous in every locale. */
-export const ISO_DATE_INPUT = 'YYYY-MM-DD';
+/**
+ * How a date field shows its date: in words, as the app shows dates everywhere else ("14 Mar 2024",
+ * the en-GB `d MMM y`), so the day and month typed can never be read the wrong way round unseen.
+ */
+export const DATE_FIELD_DISPLAY = { day: 'numeric', month: 'short', year: 'numeric' } as const;
 
-/** Picker formats: the text field uses `YYYY-MM-DD`; calendar labels stay in words. */
+/** The name of the typed-text format ({@link parseDateText}: ISO, day/month/year, or words). */
+export const DATE_TEXT_INPUT = 'date-text';
+
+/** The hint under every date field: the en-GB order people type in, and the calendar. */
+export const DATE_FIELD_HINT = 'Day/month/year, e.g. 14/03/2024';
+
+/** Picker formats: the field shows the date in words, typed text is read by {@link parseDateText}. */
 export const ISO_DATE_FORMATS: MatDateFormats = {
-  parse: { dateInput: ISO_DATE_INPUT },
+  parse: { dateInput: DATE_TEXT_INPUT },
   display: {
-    dateInput: ISO_DATE_INPUT,
+    dateInput: DATE_FIELD_DISPLAY,
     monthYearLabel: { year: 'numeric', month: 'short' },
     dateA11yLabel: { year: 'numeric', month: 'long', day: 'numeric' },
     monthYearA11yLabel: { year: 'numeric', month: 'long' },
@@ -17,10 +26,12 @@ export const ISO_DATE_FORMATS: MatDateFormats = {
 };
 
 /**
- * A `NativeDateAdapter` whose text form is `YYYY-MM-DD` (local calendar date), so "04/05/1990"
- * can never mean two different days. Typed text in any other shape, or a day that does not exist
- * (2020-02-30), parses as an invalid date: the datepicker then reports `matDatepickerParse` and the
- * field shows an error instead of guessing. Empty text is "no date" (null).
+ * A `NativeDateAdapter` for the app's locale (en-GB): typed text is `2024-03-14`, `14/03/2024` (day
+ * first, four-digit year) or `14 Mar 2024`, and the field then shows the date in words in the
+ * locale ("14 Mar 2024"), so which day was taken is always in sight. Any other shape, or a day that
+ * does not exist (30/02/2020), parses as an invalid date: the datepicker reports
+ * `matDatepickerParse`, the field shows an error and keeps the text typed. Empty text is "no date"
+ * (null). What the API stores is unchanged: `toIsoDate` of the control's `Date`.
  */
 @Injectable()
 export class IsoDateAdapter extends NativeDateAdapter {
@@ -30,16 +41,7 @@ export class IsoDateAdapter extends NativeDateAdapter {
     if (typeof value === 'number') return super.parse(value, parseFormat);
     const text = String(value).trim();
     if (text === '') return null;
-    return parseIsoDate(text) ?? this.invalid();
-  }
-
-  override format(date: Date, displayFormat: object | string): string {
-    if (displayFormat === ISO_DATE_INPUT) {
-      const text = toIsoDate(date);
-      if (text === null) throw Error('IsoDateAdapter: Cannot format invalid date.');
-      return text;
-    }
-    return super.format(date, displayFormat as object);
+    return parseDateText(text) ?? this.invalid();
   }
 }
 

@@ -175,11 +175,11 @@ describe('renderSummaryPdf — a Re-test comparison', () => {
     // [pub] Dingenen et al. 2018: thresholds assume means of at least 7 steps.
     expect(text).toContain('Too few steps to judge (8 and 5 steps; 7 needed in each visit)');
     expect(text).toContain('No published threshold');
-    // The band column: [trade] hip ≥ 10°, [pub] Heiderscheit et al. 2011 knee 13.8–21.8°, [pub] Mo et al. 2021 foot −0.8–7.4°, [pub] de Ruiter et al. 2019 cadence 157–173.
+    // The band column: [trade] hip ≥ 10°, [pub] Heiderscheit et al. 2011 knee 13.8–21.8°, [pub] Mo et al. 2021 foot −0.8 to 7.4°, [pub] de Ruiter et al. 2019 cadence 157–173.
     expect(text).toContain('Reference band');
     expect(text).toContain('≥ 10°');
     expect(text).toContain('13.8–21.8°');
-    expect(text).toContain('\u22120.8–7.4°');
+    expect(text).toContain('\u22120.8 to 7.4°');
     expect(text).toContain('157–173 steps/min');
     expect(text).toMatch(/Heiderscheit et al\. 2011 \[\d\]/);
     expect(text).toContain('Sources of reference bands and thresholds');

@@ -129,7 +129,10 @@ describe('numbers per unit', () => {
     expect(bandRange({ low: 13.8, high: 21.8, unit: '°' })).toBe('13.8–21.8°');
     expect(bandRange({ low: 10, high: null, unit: '°' })).toBe('≥ 10°');
     expect(bandRange({ low: null, high: 8, unit: 'cm' })).toBe('≤ 8 cm');
-    expect(bandRange({ low: -0.8, high: 7.4, unit: '°' })).toBe('\u22120.8–7.4°');
+    // A negative end: "to", not a dash beside the minus sign (foot band of Mo et al. 2021, REFERENCES.md).
+    expect(bandRange({ low: -0.8, high: 7.4, unit: '°' })).toBe('\u22120.8 to 7.4°');
+    expect(bandRange({ low: -5, high: -2, unit: 'cm' })).toBe('\u22125 to \u22122 cm');
+    expect(bandRange({ low: 0, high: 3.5, unit: '°' })).toBe('0–3.5°');
     expect(bandRange({ low: 157, high: 173, unit: 'steps/min' })).toBe('157–173 steps/min');
     expect(bandRange({ low: 27.6, high: 28.8, unit: '%' })).toBe('27.6–28.8%');
     expect(bandRange({ low: null, high: null, unit: '°' })).toBe('No limits');

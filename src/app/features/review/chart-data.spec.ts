@@ -1,5 +1,5 @@
 import type { AngleSample } from '../../../contracts/measures';
-import { angleDatasets, eventMarkersPlugin, frameFromChartValue, markerLabel, staggerLabels } from './chart-data';
+import { MARKER_LABEL_GAP_PX, angleDatasets, eventMarkersPlugin, frameFromChartValue, markerLabel, staggerLabels } from './chart-data';
 
 const samples: AngleSample[] = [
   { frame: 10, timeMs: 83, side: 'left', thighDeg: 26.5651, kneeFlexionDeg: 12.5, trunkDeg: 11.3 },
@@ -80,9 +80,11 @@ describe('event labels on the chart', () => {
     expect(markerLabel({ frame: 1, side: 'right', kind: 'toe_off' })).toBe('TO R');
   });
 
-  it('staggers labels that would overlap into the next row, and leaves out what does not fit', () => {
-    // Three 24 px labels 10 px apart: the second goes up a row; the third still overlaps the first
-    // (which ends at x = 12) and the second, so with two rows it is left out.
+  it('leaves out every label when the lines stand closer than a label is wide (a long clip on a phone), keeping the lines', () => {
+    // 24 px labels on lines 10 px apart: each label would sit over its neighbours' lines.
+    const dense = Array.from({ length: 30 }, (_, i) => ({ x: i * 10, width: 24 }));
+    expect(staggerLabels(dense, 2)).toEqual(dense.map(() => -1));
+    // The old stagger put these three on two rows, each over the others' lines: none now.
     expect(
       staggerLabels(
         [
@@ -92,7 +94,17 @@ describe('event labels on the chart', () => {
         ],
         2,
       ),
-    ).toEqual([0, 1, -1]);
+    ).toEqual([-1, -1, -1]);
+  });
+
+  it('staggers labels of lines a little apart over two rows, and keeps far ones on the first row', () => {
+    // Lines 20 px apart: clear of each other's lines (> 12 + 1 px) but the labels would touch.
+    expect(
+      staggerLabels(
+        [0, 20, 40, 60].map((x) => ({ x, width: 24 })),
+        2,
+      ),
+    ).toEqual([0, 1, 0, 1]);
     // Far enough apart: all on the first row, whatever the input order.
     expect(
       staggerLabels(
@@ -104,26 +116,39 @@ describe('event labels on the chart', () => {
         2,
       ),
     ).toEqual([0, 0, 0]);
+    // Two events on one frame share a line: both named, one above the other.
     expect(
       staggerLabels(
         [
-          { x: 0, width: 24 },
-          { x: 10, width: 24 },
-          { x: 40, width: 24 },
+          { x: 50, width: 24 },
+          { x: 50, width: 24 },
+          { x: 150, width: 24 },
         ],
         2,
       ),
     ).toEqual([0, 1, 0]);
+    // A crowded stretch loses its labels; a lone line beside it keeps its own.
+    expect(
+      staggerLabels(
+        [0, 8, 16, 80].map((x) => ({ x, width: 24 })),
+        2,
+      ),
+    ).toEqual([-1, -1, -1, 0]);
   });
 
-  it('never puts two labels of one row over each other', () => {
-    const spans = Array.from({ length: 40 }, (_, i) => ({ x: (i * 37) % 300, width: 20 + (i % 3) * 5 }));
+  it('never puts two labels of one row within 8 px of each other, nor a label over another line', () => {
+    const spans = Array.from({ length: 40 }, (_, i) => ({ x: (i * 37) % 1200, width: 20 + (i % 3) * 5 }));
     const rows = staggerLabels(spans, 2);
-    for (let i = 0; i < spans.length; i++)
-      for (let j = i + 1; j < spans.length; j++) {
-        if (rows[i] < 0 || rows[i] !== rows[j]) continue;
+    expect(rows.filter((r) => r >= 0).length).toBeGreaterThan(10);
+    for (let i = 0; i < spans.length; i++) {
+      if (rows[i] < 0) continue;
+      for (let j = 0; j < spans.length; j++) {
+        if (j === i || spans[j].x === spans[i].x) continue;
+        expect(Math.abs(spans[j].x - spans[i].x)).toBeGreaterThan(spans[i].width / 2);
+        if (rows[i] !== rows[j]) continue;
         const gap = Math.abs(spans[i].x - spans[j].x) - (spans[i].width + spans[j].width) / 2;
-        expect(gap).toBeGreaterThanOrEqual(4);
+        expect(gap).toBeGreaterThanOrEqual(MARKER_LABEL_GAP_PX);
       }
+    }
   });
 });

@@ -89,17 +89,31 @@ export function markerLabel(e: GaitEventMark): string {
   return `${EVENT_SHORT[e.kind]} ${e.side === 'left' ? 'L' : 'R'}`;
 }
 
+/** Space kept between two labels of one row, px. */
+export const MARKER_LABEL_GAP_PX = 8;
+
 /**
- * Rows for labels centred at `x` (`width` px wide) so that none overlap: in x order, each goes in
- * the lowest row where it clears the previous label of that row by `gap` px; -1 when no row has
- * room (the label is left out; its line still shows, and the chart's tooltip names it).
+ * Rows for event labels centred on their lines at `x` (`width` px wide), so that each one shown is
+ * readable and names its own line only: -1 (left out; the line still shows, and the chart's tooltip
+ * names it) when another event's line runs under the label (which of the lines it named could not
+ * be told) or when no row has room; otherwise, in x order, the lowest row where it clears the
+ * previous label of that row by `gap` px. On a phone-wide chart of a long clip the lines stand
+ * closer than a label is wide, so labels are left out rather than crowded together.
  */
-export function staggerLabels(spans: readonly { x: number; width: number }[], rows: number, gap = 4): number[] {
+export function staggerLabels(spans: readonly { x: number; width: number }[], rows: number, gap = MARKER_LABEL_GAP_PX): number[] {
   const out = spans.map(() => -1);
   const ends = Array.from({ length: rows }, () => -Infinity);
   const order = spans.map((_, i) => i).sort((a, b) => spans[a]!.x - spans[b]!.x || a - b);
-  for (const i of order) {
+  const lines = order.map((i) => spans[i]!.x);
+  for (const [k, i] of order.entries()) {
     const { x, width } = spans[i]!;
+    // The nearest other lines are the neighbours in x order (several events on one frame share a line).
+    const clear = (j: number) => j < 0 || j >= lines.length || lines[j] === x || Math.abs(lines[j]! - x) > width / 2 + 1;
+    let before = k - 1;
+    while (before >= 0 && lines[before] === x) before--;
+    let after = k + 1;
+    while (after < lines.length && lines[after] === x) after++;
+    if (!clear(before) || !clear(after)) continue;
     const row = ends.findIndex((end) => x - width / 2 >= end + gap);
     if (row < 0) continue;
     out[i] = row;
@@ -114,7 +128,7 @@ const LABEL_COLOURS: Record<Side, string> = { left: '#5B35AE', right: '#8A4F00' 
 
 /**
  * A chart.js plugin that draws the marked gait events as vertical lines (side colour, dash by kind,
- * a short label on top, staggered over {@link MARKER_LABEL_ROWS} rows so labels never overlap) and
+ * a short label on top where it can name its own line alone, staggered over {@link MARKER_LABEL_ROWS} rows so labels never overlap: {@link staggerLabels}) and
  * the current frame as a solid line. Reads `state` on every draw.
  */
 export function eventMarkersPlugin(state: MarkerState): Plugin<'line'> {

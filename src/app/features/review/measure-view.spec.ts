@@ -63,7 +63,7 @@ describe('formatting', () => {
     expect(bandRange({ low: 13.8, high: 21.8, unit: '°' })).toBe('13.8–21.8°');
     expect(bandRange({ low: 10, high: null, unit: '°' })).toBe('≥ 10°');
     expect(bandRange({ low: null, high: 8, unit: 'cm' })).toBe('≤ 8 cm');
-    expect(bandRange({ low: -0.8, high: 7.4, unit: '°' })).toBe('−0.8–7.4°');
+    expect(bandRange({ low: -0.8, high: 7.4, unit: '°' })).toBe('−0.8 to 7.4°');
   });
 
   it('flags positions with an icon and words', () => {

@@ -1,9 +1,10 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { LOCALE_ID } from '@angular/core';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
 import type { Assessment } from '../../../contracts/api';
-import { provideIsoDateAdapter } from '../iso-date-adapter';
+import { DATE_FIELD_DISPLAY, DATE_FIELD_HINT, provideIsoDateAdapter } from '../iso-date-adapter';
 import { AssessmentFormGroup } from '../assessment-form-model';
 import { AssessmentDialog, AssessmentDialogData } from './assessment-dialog';
 
@@ -42,6 +43,7 @@ describe('AssessmentDialog', () => {
         provideHttpClient(),
         provideHttpClientTesting(),
         provideIsoDateAdapter(),
+        { provide: LOCALE_ID, useValue: 'en-GB' },
         { provide: MAT_DIALOG_DATA, useValue: data },
         { provide: MatDialogRef, useValue: { close } },
       ],
@@ -61,15 +63,16 @@ describe('AssessmentDialog', () => {
   };
   const speedInput = () => element.querySelector<HTMLInputElement>('input[formcontrolname="value"]')!;
 
-  it('starts today as the kind it was given, with the date shown as YYYY-MM-DD', async () => {
+  it('starts today as the kind it was given, with the date shown in words and a day/month/year hint', async () => {
     open({ athleteId: 9, kind: 'retest', distanceUnit: 'mi' });
     await fixture.whenStable();
     const today = new Date();
-    const iso = `${today.getFullYear()}-${String(today.getMonth() + 1).padStart(2, '0')}-${String(today.getDate()).padStart(2, '0')}`;
-    expect(element.querySelector<HTMLInputElement>('input[formcontrolname="date"]')!.value).toBe(iso);
+    const shown = new Intl.DateTimeFormat('en-GB', DATE_FIELD_DISPLAY).format(today);
+    expect(element.querySelector<HTMLInputElement>('input[formcontrolname="date"]')!.value).toBe(shown);
     expect(form.controls.kind.value).toBe('retest');
     expect(form.controls.speed.controls.unit.value).toBe('mph');
-    expect(element.textContent).toContain('YYYY-MM-DD');
+    expect(element.textContent).toContain(DATE_FIELD_HINT);
+    expect(element.textContent).not.toContain('YYYY');
   });
 
   it('creates the assessment with a pace typed as m:ss and closes with it', async () => {

@@ -41,7 +41,7 @@ export function errorText(control: AbstractControl | null | undefined, label: st
     case 'wholeNumber':
       return `${label} must be a whole number`;
     case 'matDatepickerParse':
-      return 'Enter a real date as YYYY-MM-DD, e.g. 1990-04-05';
+      return 'Enter a real date as day/month/year, e.g. 14/03/2024 (or 14 Mar 2024)';
     case 'matDatepickerMin':
       return `${label} is too early`;
     case 'matDatepickerMax':

@@ -36,8 +36,11 @@ describe('notFutureDate', () => {
 describe('pastMonth', () => {
   const validate = (value: string) => pastMonth(today)(new FormControl(value));
 
-  it('accepts YYYY-MM up to this month', () => {
+  it('accepts YYYY-MM (a month picker) and typed months (03/2024, Mar 2024) up to this month', () => {
     expect(validate('2025-06')).toBeNull();
+    expect(validate('06/2025')).toBeNull();
+    expect(validate('Jun 2025')).toBeNull();
+    expect(validate('November 2019')).toBeNull();
     expect(validate('2019-11')).toBeNull();
     expect(validate('')).toBeNull();
   });
@@ -45,7 +48,9 @@ describe('pastMonth', () => {
   it('refuses later months and other shapes', () => {
     expect(validate('2025-07')).toEqual({ futureMonth: true });
     expect(validate('2025-13')).toMatchObject({ pattern: expect.anything() });
-    expect(validate('06/2025')).toMatchObject({ pattern: expect.anything() });
+    expect(validate('07/2025')).toEqual({ futureMonth: true });
+    expect(validate('00/2025')).toMatchObject({ pattern: expect.anything() });
+    expect(validate('Ju 2025')).toMatchObject({ pattern: expect.anything() });
     expect(validate('2025-6')).toMatchObject({ pattern: expect.anything() });
   });
 });

@@ -1,5 +1,5 @@
 import { AbstractControl, ValidationErrors, ValidatorFn } from '@angular/forms';
-import { startOfDay, toIsoMonth } from '../dates';
+import { parseMonthText, startOfDay, toIsoMonth } from '../dates';
 
 /** `YYYY-MM` with a real month number. */
 export const MONTH_PATTERN = /^\d{4}-(0[1-9]|1[0-2])$/;
@@ -26,15 +26,17 @@ export function notFutureDate(today: () => Date = () => new Date()): ValidatorFn
 }
 
 /**
- * A `YYYY-MM` value must have the right shape (`{ pattern }`) and not be after the current month
- * (`{ futureMonth: true }`). Empty values pass; combine with `Validators.required`.
+ * A month value — `YYYY-MM` from a month picker, or typed where the browser has none: `03/2024`,
+ * `Mar 2024` ({@link parseMonthText}) — must be a real month (`{ pattern }`) and not after the
+ * current month (`{ futureMonth: true }`). Empty values pass; combine with `Validators.required`.
  */
 export function pastMonth(today: () => Date = () => new Date()): ValidatorFn {
   return (control: AbstractControl): ValidationErrors | null => {
     const value = control.value as unknown;
     if (typeof value !== 'string' || value === '') return null;
-    if (!MONTH_PATTERN.test(value)) return { pattern: { requiredPattern: 'YYYY-MM', actualValue: value } };
-    return value > toIsoMonth(today()) ? { futureMonth: true } : null;
+    const month = parseMonthText(value);
+    if (month === null) return { pattern: { requiredPattern: 'YYYY-MM', actualValue: value } };
+    return month > toIsoMonth(today()) ? { futureMonth: true } : null;
   };
 }
 

@@ -106,7 +106,8 @@ describe('formValueToIntake', () => {
       ...emptyValue(),
       injuries: [
         { id: 3, region: 'achilles', side: 'left', when: '2024-03', status: 'recovering', notes: ' stiff ' },
-        { id: null, region: 'knee', side: 'right', when: '2023-11', status: 'resolved', notes: '' },
+        // Typed where the browser has no month picker: stored as YYYY-MM all the same.
+        { id: null, region: 'knee', side: 'right', when: ' Nov 2023 ', status: 'resolved', notes: '' },
       ],
       pain: [{ region: 'calf', score: 6 }],
     });
@@ -200,7 +201,7 @@ describe('intake form validators', () => {
     expect(form.controls.goalEvent.hasError('maxlength')).toBe(true);
   });
 
-  it('requires every part of an injury row and a past YYYY-MM month', () => {
+  it('requires every part of an injury row and a past month, typed as 2024-03, 03/2024 or Mar 2024', () => {
     const row = createInjuryRow(fb, undefined, today);
     expect(row.controls.region.hasError('required')).toBe(true);
     expect(row.controls.side.hasError('required')).toBe(true);
@@ -208,8 +209,17 @@ describe('intake form validators', () => {
     expect(row.controls.when.hasError('required')).toBe(true);
     row.controls.when.setValue('2025-07');
     expect(row.controls.when.hasError('futureMonth')).toBe(true);
-    row.controls.when.setValue('March 2024');
-    expect(row.controls.when.hasError('pattern')).toBe(true);
+    // Where the browser has no month picker the month is typed: the app's en-GB forms are taken.
+    for (const typed of ['March 2024', 'Mar 2024', '03/2024', '3/2024', '2024-03']) {
+      row.controls.when.setValue(typed);
+      expect(row.controls.when.errors, typed).toBeNull();
+    }
+    row.controls.when.setValue('July 2025');
+    expect(row.controls.when.hasError('futureMonth')).toBe(true);
+    for (const typed of ['13/2024', 'Marc 2024x', '2024', 'spring 2024', '2024-3']) {
+      row.controls.when.setValue(typed);
+      expect(row.controls.when.hasError('pattern'), typed).toBe(true);
+    }
     row.controls.notes.setValue('x'.repeat(LIMITS.injuryNotes + 1));
     expect(row.controls.notes.hasError('maxlength')).toBe(true);
   });

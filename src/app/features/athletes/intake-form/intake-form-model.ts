@@ -26,7 +26,7 @@ import {
   fromKilometres,
   toKilometres,
 } from '../../../../contracts/intake';
-import { parseIsoDate, toIsoDate } from '../../../shared/dates';
+import { parseIsoDate, parseMonthText, toIsoDate } from '../../../shared/dates';
 import { notFutureDate, pastMonth } from '../../../shared/forms/validators';
 
 export type InjuryRowForm = FormGroup<{
@@ -237,7 +237,7 @@ export function formValueToIntake(value: IntakeFormValue): AthleteIntake {
     const entry: InjuryEntry = {
       region: row.region,
       side: row.side,
-      when: row.when.trim(),
+      when: parseMonthText(row.when) ?? row.when.trim(),
       status: row.status,
       notes: row.notes.trim(),
     };

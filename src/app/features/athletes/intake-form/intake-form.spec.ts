@@ -1,5 +1,6 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { LOCALE_ID } from '@angular/core';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import type { AthleteDetail } from '../../../../contracts/api';
@@ -47,7 +48,13 @@ describe('IntakeForm', () => {
     snackBar = { open: vi.fn() };
     TestBed.configureTestingModule({
       imports: [IntakeForm],
-      providers: [provideHttpClient(), provideHttpClientTesting(), provideIsoDateAdapter(), { provide: MatSnackBar, useValue: snackBar }],
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        provideIsoDateAdapter(),
+        { provide: LOCALE_ID, useValue: 'en-GB' },
+        { provide: MatSnackBar, useValue: snackBar },
+      ],
     });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(IntakeForm);
@@ -154,8 +161,29 @@ describe('IntakeForm', () => {
     expect(form.controls.goalEvent.value).toBe('Trail 30 km');
   });
 
-  it('shows dates as YYYY-MM-DD', () => {
-    expect(element.querySelector<HTMLInputElement>('input[formcontrolname="dateOfBirth"]')!.value).toBe('1991-04-02');
+  it('shows dates in words as the app does elsewhere (en-GB), with a day/month/year hint and no YYYY', () => {
+    expect(element.querySelector<HTMLInputElement>('input[formcontrolname="dateOfBirth"]')!.value).toBe('2 Apr 1991');
+    expect(element.textContent).toContain('Day/month/year, e.g. 14/03/2024');
+    expect(element.textContent).not.toContain('YYYY');
+  });
+
+  it('takes a birth date typed day first, keeps text it cannot read and says why', async () => {
+    const input = element.querySelector<HTMLInputElement>('input[formcontrolname="dateOfBirth"]')!;
+    const type = async (text: string) => {
+      input.value = text;
+      input.dispatchEvent(new Event('input'));
+      input.dispatchEvent(new Event('blur'));
+      await fixture.whenStable();
+    };
+    await type('14/03/1990');
+    expect(form.controls.dateOfBirth.value).toEqual(new Date(1990, 2, 14));
+    await type('31/02/1990');
+    expect(form.controls.dateOfBirth.hasError('matDatepickerParse')).toBe(true);
+    expect(input.value).toBe('31/02/1990');
+    form.controls.dateOfBirth.markAsTouched();
+    fixture.detectChanges();
+    await fixture.whenStable();
+    expect(element.querySelector('mat-error')?.textContent).toContain('Enter a real date as day/month/year, e.g. 14/03/2024');
   });
 
   it('converts the distances already typed when the unit is switched', async () => {

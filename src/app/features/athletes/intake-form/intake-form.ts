@@ -145,6 +145,11 @@ export class IntakeForm {
 
   protected readonly today = new Date();
   protected readonly thisMonth = toIsoMonth(this.today);
+  /**
+   * Where the browser has a month picker the field shows the month in words ("March 2024"); where
+   * it has none, a text field takes `03/2024`, `Mar 2024` or `2024-03` (the hint says so).
+   */
+  protected readonly monthHint = monthHint(monthInputSupported());
   protected readonly earliest = new Date(1900, 0, 1);
   protected readonly limits = LIMITS;
   protected readonly painMin = PAIN_MIN;
@@ -301,4 +306,16 @@ export class IntakeForm {
       { injector: this.injector },
     );
   }
+}
+
+/** Whether this browser has its own month picker for `<input type="month">` (otherwise: plain text). */
+export function monthInputSupported(doc: Document = document): boolean {
+  const input = doc.createElement('input');
+  input.setAttribute('type', 'month');
+  return input.type === 'month';
+}
+
+/** The hint under a month field: no format to learn beside a picker, an example for typing. */
+export function monthHint(picker: boolean): string {
+  return picker ? 'Month and year' : 'Month and year, e.g. 03/2024 or Mar 2024';
 }

@@ -77,11 +77,10 @@ export interface PaymentDialogData {
             <input matInput [matDatepicker]="picker" formControlName="paidOn" [max]="today" required />
             <mat-datepicker-toggle matIconSuffix [for]="picker" />
             <mat-datepicker #picker />
-            <mat-hint>YYYY-MM-DD, the day the money arrived</mat-hint>
+            <mat-hint>The day the money arrived, e.g. 14/03/2024</mat-hint>
             <mat-error>{{
               errorText(form.controls.paidOn, 'The date', {
                 matDatepickerMax: 'The date cannot be in the future',
-                matDatepickerParse: 'Use a date like 2026-12-03',
               })
             }}</mat-error>
           </mat-form-field>

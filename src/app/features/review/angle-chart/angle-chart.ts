@@ -23,8 +23,8 @@ Chart.register(LineController, LineElement, PointElement, LinearScale, Tooltip);
 
 /**
  * Joint angles (degrees) across the clip's frames for the marked frames, with the gait events as
- * vertical markers (labels staggered so they never overlap; the tooltip names a frame's events in
- * full) and the current frame as a line; a legend of lines and event marks. Clicking the chart
+ * vertical markers (a label only where it names its own line alone, staggered so labels never
+ * overlap; the tooltip names a frame's events in full) and the current frame as a line; a legend of lines and event marks. Clicking the chart
  * moves to that frame.
  */
 @Component({
@@ -42,7 +42,8 @@ export class AngleChart {
   /** The chart shows figures, so it carries the caution (quietly; the Measures tab shows it boxed). */
   protected readonly caution = MEASURES_CAUTION;
   protected readonly series = signal<AngleSeriesId[]>(['thigh', 'knee']);
-  protected readonly eventsKeyLong = 'IC initial contact, MS midstance, TO toe-off; L left, R right; hover a frame for its events in full';
+  protected readonly eventsKeyLong =
+    'IC initial contact, MS midstance, TO toe-off; L left, R right; point at or tap a frame for its events in full';
 
   private readonly markers: MarkerState = {
     events: [],
