@@ -1,5 +1,14 @@
 import type { AngleSample } from '../../../contracts/measures';
-import { MARKER_LABEL_GAP_PX, angleDatasets, eventMarkersPlugin, frameFromChartValue, markerLabel, staggerLabels } from './chart-data';
+import {
+  EVENT_DASH,
+  EVENT_KEY,
+  MARKER_LABEL_GAP_PX,
+  angleDatasets,
+  eventMarkersPlugin,
+  frameFromChartValue,
+  markerLabel,
+  staggerLabels,
+} from './chart-data';
 
 const samples: AngleSample[] = [
   { frame: 10, timeMs: 83, side: 'left', thighDeg: 26.5651, kneeFlexionDeg: 12.5, trunkDeg: 11.3 },
@@ -150,5 +159,15 @@ describe('event labels on the chart', () => {
         expect(gap).toBeGreaterThanOrEqual(MARKER_LABEL_GAP_PX);
       }
     }
+  });
+});
+
+describe('events key', () => {
+  it('shows each kind with the dash its line is drawn with, so a chart too narrow for labels can still be read', () => {
+    expect(EVENT_KEY.map((k) => k.short)).toEqual(['IC', 'MS', 'TO']);
+    expect(EVENT_KEY.map((k) => k.dash)).toEqual(
+      [EVENT_DASH.initial_contact, EVENT_DASH.midstance, EVENT_DASH.toe_off].map((d) => d.join(' ')),
+    );
+    expect(new Set(EVENT_KEY.map((k) => k.dash)).size).toBe(3);
   });
 });

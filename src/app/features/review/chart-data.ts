@@ -122,7 +122,15 @@ export function staggerLabels(spans: readonly { x: number; width: number }[], ro
   return out;
 }
 
-const EVENT_DASH: Record<GaitEventKind, number[]> = { initial_contact: [], midstance: [2, 3], toe_off: [6, 3] };
+/** The dash of an event's vertical line, by kind (the colour is the side's). */
+export const EVENT_DASH: Record<GaitEventKind, number[]> = { initial_contact: [], midstance: [2, 3], toe_off: [6, 3] };
+
+/** The events key under the chart: each kind's short label, name and the dash of its line (SVG `stroke-dasharray`). */
+export const EVENT_KEY: readonly { short: string; name: string; dash: string }[] = [
+  { short: 'IC', name: 'initial contact', dash: EVENT_DASH.initial_contact.join(' ') },
+  { short: 'MS', name: 'midstance', dash: EVENT_DASH.midstance.join(' ') },
+  { short: 'TO', name: 'toe-off', dash: EVENT_DASH.toe_off.join(' ') },
+];
 /** Label text colours: the side colours darkened to read on white (WCAG AA for small text). */
 const LABEL_COLOURS: Record<Side, string> = { left: '#5B35AE', right: '#8A4F00' };
 

@@ -7,6 +7,7 @@ import { SIDES } from '../../../../contracts/assessment';
 import { eventNamesAt } from '../../../../kinematics/event-names';
 import {
   ANGLE_SERIES,
+  EVENT_KEY,
   AngleSeriesId,
   MARKER_LABEL_ROWS,
   MARKER_LABEL_ROW_PX,
@@ -42,6 +43,7 @@ export class AngleChart {
   /** The chart shows figures, so it carries the caution (quietly; the Measures tab shows it boxed). */
   protected readonly caution = MEASURES_CAUTION;
   protected readonly series = signal<AngleSeriesId[]>(['thigh', 'knee']);
+  protected readonly eventKey = EVENT_KEY;
   protected readonly eventsKeyLong =
     'IC initial contact, MS midstance, TO toe-off; L left, R right; point at or tap a frame for its events in full';
 
