@@ -93,18 +93,23 @@ describe('sharing stills and a visit summary', () => {
     await reviewDialog.getByLabel('Caption').fill(FRAME_CAPTION);
     await page.screenshot({ path: shot('sharing-review-save-still.png') });
     await reviewDialog.getByRole('button', { name: 'Save still' }).click();
-    // The first list answer shows the newest still mid-render (the real render is quicker than a
-    // screenshot); the tab does not poll (a real render's end comes on the progress stream), so the
-    // page is opened again for the real answer.
-    let faked = false;
+    // The newest still is shown mid-render (the real render is quicker than a screenshot) in every
+    // answer about it until the page is opened again for the real ones: the tab reloads its list when
+    // its progress stream connects while a still shows rendering, and asks for a still again when
+    // the stream says its render ended (either can come first on a loaded machine).
+    let fakedId: number | null = null;
+    const rendering = (s: { id: number }) => (s.id === fakedId ? { ...s, status: 'rendering', progress: 0.45 } : s);
     await page.route('**/api/athletes/*/stills', async (route) => {
       const res = await route.fetch();
-      const list = await res.json();
-      if (!faked && list.length) {
-        faked = true;
-        list[0] = { ...list[0], status: 'rendering', progress: 0.45 };
-      }
-      await route.fulfill({ response: res, json: list });
+      const list = (await res.json()) as { id: number }[];
+      fakedId ??= list[0]?.id ?? null;
+      await route.fulfill({ response: res, json: list.map(rendering) });
+    });
+    await page.route('**/api/stills/*', async (route) => {
+      if (route.request().method() !== 'GET') return route.fallback();
+      const res = await route.fetch();
+      if (!res.ok()) return route.fulfill({ response: res });
+      await route.fulfill({ response: res, json: rendering((await res.json()) as { id: number }) });
     });
     await page.getByRole('button', { name: 'View shared items' }).click();
     await page.waitForURL(/tab=shared/);
@@ -114,6 +119,7 @@ describe('sharing stills and a visit summary', () => {
     // Shared tab: both render, then publish them.
     // (The demo seed may have shared stills of its own: only ours are looked at.)
     await page.unroute('**/api/athletes/*/stills');
+    await page.unroute('**/api/stills/*');
     await page.reload();
     await expect.poll(() => page.getByText('Rendering… 45 %').count(), { timeout: 10_000 }).toBe(0);
     const ours = page.locator('li.still-card').filter({ hasText: /hip now extends|knee and ankle as the foot/ });
