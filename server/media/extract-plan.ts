@@ -72,15 +72,18 @@ export function frameScaleFilter(frame: Size, scaler: Scaler, kernel: string): s
  * The filtergraph for one decode feeding two outputs. ffmpeg has already rotated the frames
  * (autorotate inserts transpose/flip filters before this graph), so sizes here are displayed
  * sizes. The scaler also converts to full ("JPEG") range; `showinfo` (checksums off) logs each
- * frame's presentation time; `split` hands the same frame to the frame output and, every Nth
- * frame, to a smaller thumbnail scale.
+ * frame's presentation time; `settb=1,setpts=N` then numbers the frames 0, 1, 2 … in seconds for
+ * the encoders, so a file whose own times repeat, go back or are missing (ffmpeg guesses those)
+ * still has every decoded frame written: the JPEG encoder refuses a time not after the last one
+ * ("Invalid pts"), and the image files are named by order anyway. `split` hands the same frame to
+ * the frame output and, every Nth frame, to a smaller thumbnail scale.
  */
 export function filterGraph(frame: Size, thumb: Size, every: number, scaler: Scaler, kernel: string): string {
   const big = frameScaleFilter(frame, scaler, kernel);
   const small =
     scaler === 'zscale' ? `zscale=w=${thumb.width}:h=${thumb.height}:f=bilinear` : `scale=${thumb.width}:${thumb.height}:flags=area`;
   return [
-    `[0:v]${big},setsar=1,showinfo=checksum=0,split=2[frames][t]`,
+    `[0:v]${big},setsar=1,showinfo=checksum=0,settb=1,setpts=N,split=2[frames][t]`,
     `[t]select='not(mod(n\\,${every}))',${small},setsar=1[thumbs]`,
   ].join(';');
 }
@@ -110,8 +113,9 @@ export function parseShowinfoLine(line: string): ShowinfoFrame | null {
 
 /**
  * Per-frame presentation times in milliseconds, relative to the first frame, rounded to 0.001 ms.
- * Uses the decoded timestamps when there is one per written frame; otherwise computes
- * `i × 1000 / fps` (exact only for constant-frame-rate clips) and says so.
+ * Uses the decoded timestamps when there is one per written frame and each is later than the one
+ * before; otherwise (times missing, repeated or going back: a damaged or oddly remuxed file)
+ * computes `i × 1000 / fps` (exact only for constant-frame-rate clips) and says so.
  */
 export function frameTimestamps(
   logged: ShowinfoFrame[],
@@ -122,7 +126,7 @@ export function frameTimestamps(
   const times: number[] = [];
   for (let i = 0; i < frameCount; i++) {
     const t = byIndex.get(i);
-    if (t === undefined || !Number.isFinite(t)) break;
+    if (t === undefined || !Number.isFinite(t) || (i > 0 && !(t > times[i - 1]!))) break;
     times.push(t);
   }
   const round = (ms: number) => Math.round(ms * 1000) / 1000;

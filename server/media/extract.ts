@@ -68,7 +68,10 @@ const ZSCALE_TROUBLE = /zscale|zimg|No such filter|no path between colorspaces/i
  * variable-frame-rate clip is the average rate (`avg_frame_rate`): two frames closer together
  * than one average interval (a phone's 1/60 s frame in a clip averaging 54 fps) round to the same
  * pts, and the JPEG encoder stops the whole extraction ("Invalid pts … <= last"). In the demuxer's
- * time base every frame keeps its own timestamp, so every decoded frame is written.
+ * time base every frame keeps its own timestamp, so every decoded frame is written. The
+ * filtergraph goes further ({@link filterGraph}: `settb=1,setpts=N`): the encoders see frames
+ * numbered 0, 1, 2 … s, so files whose own times repeat, go back or are missing are written whole
+ * too; the manifest's times come from `showinfo`, before that renumbering.
  */
 const PASSTHROUGH_TIME_BASE = ['-enc_time_base', '-1'];
 

@@ -43,13 +43,13 @@ describe('thumbnails', () => {
 describe('filterGraph', () => {
   it('decodes once, scales to full range with zscale, logs timestamps and splits frames and thumbs', () => {
     expect(filterGraph({ width: 1280, height: 720 }, { width: 160, height: 90 }, 12, 'zscale', 'bilinear')).toBe(
-      '[0:v]zscale=w=1280:h=720:f=bilinear:r=full,setsar=1,showinfo=checksum=0,split=2[frames][t];' +
+      '[0:v]zscale=w=1280:h=720:f=bilinear:r=full,setsar=1,showinfo=checksum=0,settb=1,setpts=N,split=2[frames][t];' +
         "[t]select='not(mod(n\\,12))',zscale=w=160:h=90:f=bilinear,setsar=1[thumbs]",
     );
   });
   it('the swscale fallback graph converts range in the scale filter', () => {
     expect(filterGraph({ width: 640, height: 360 }, { width: 160, height: 90 }, 3, 'swscale', 'bicubic')).toBe(
-      '[0:v]scale=640:360:flags=bicubic:out_range=full,setsar=1,showinfo=checksum=0,split=2[frames][t];' +
+      '[0:v]scale=640:360:flags=bicubic:out_range=full,setsar=1,showinfo=checksum=0,settb=1,setpts=N,split=2[frames][t];' +
         "[t]select='not(mod(n\\,3))',scale=160:90:flags=area,setsar=1[thumbs]",
     );
   });
@@ -76,6 +76,12 @@ describe('showinfo timestamps', () => {
   });
   it('falls back to i × 1000 / fps (constant rate assumed) when times are missing, and says so', () => {
     expect(frameTimestamps([{ n: 0, ptsTimeS: 0 }], 3, 120)).toEqual({ timestampsMs: [0, 8.333, 16.667], source: 'computed' });
+  });
+  it('falls back to i × 1000 / fps when the decoded times do not rise frame after frame (a file whose own times are broken)', () => {
+    const back = [0, 0.033, 0.067, 0].map((t, n) => ({ n, ptsTimeS: t }));
+    expect(frameTimestamps(back, 4, 30)).toEqual({ timestampsMs: [0, 33.333, 66.667, 100], source: 'computed' });
+    const same = [0, 0.04, 0.04].map((t, n) => ({ n, ptsTimeS: t }));
+    expect(frameTimestamps(same, 3, 25).source).toBe('computed');
   });
   it('frame files are numbered from 000001', () => {
     expect(frameFileName(0)).toBe('000001.jpg');

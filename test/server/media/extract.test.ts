@@ -262,6 +262,30 @@ describe('a clip trimmed without re-encoding (an edit list hides the frames befo
   });
 });
 
+describe('a clip whose own frame times are missing or out of order (shifted before zero in Matroska)', () => {
+  it('is extracted whole: every frame ffprobe -count_frames counts, times rising at the clip rate (ffprobe has none for half of them)', async () => {
+    // Matroska cannot store times before zero: a remux shifted to start at -0.5 s without
+    // ffmpeg's correction leaves the first half of the frames without any time, and the rest
+    // starting again from 0. ffmpeg guesses times for the first half, so decoded frames go
+    // 0 … 0.46 s and then back to 0 s; the JPEG encoder used to stop there ("Invalid pts").
+    const whole = await makeClip(path.join(dir, 'shift-src.mp4'), { fps: 30, width: 160, height: 90, seconds: 1 });
+    const src = path.join(dir, 'shifted.mkv');
+    await ffmpegRun(['-i', whole, '-c', 'copy', '-output_ts_offset', '-0.5', '-avoid_negative_ts', 'disabled', src]);
+    const counted = await ffprobeCounted(src);
+    const times = (await ffprobeJson(src, ['-select_streams', 'v:0', '-show_entries', 'frame=best_effort_timestamp_time'])).frames;
+    // ffprobe itself has no time for some frames (else this test would prove nothing).
+    expect(times.filter((f) => f.best_effort_timestamp_time === undefined).length).toBeGreaterThan(0);
+
+    const m = await extractFrames(src, path.join(dir, 'shifted'));
+    expect(m.frameCount).toBe(counted.nbReadFrames);
+    expect(await jpegs(path.join(dir, 'shifted', 'frames'))).toHaveLength(counted.nbReadFrames);
+    // No usable times in the file: i × 1000 / 30 (the rate ffprobe reads, r_frame_rate 30/1), said so.
+    expect(counted.rFrameRate).toBe('30/1');
+    expect(m.timestampsSource).toBe('computed');
+    m.timestampsMs.forEach((t, i) => expect(t).toBeCloseTo((i * 1000) / 30, 2));
+  });
+});
+
 describe('output folder handling', () => {
   it('abort kills ffmpeg and leaves no frames, thumbs, manifest or staging folder', async () => {
     const src = await makeClip(path.join(dir, 'long.mp4'), { fps: 60, width: 640, height: 360, seconds: 5 });
