@@ -197,6 +197,10 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
   });
 }
 
+/** Why a clip whose header lists frames but none of them decodes (cut just after its header) fails. */
+const NO_FRAME_READ =
+  'This clip is damaged: none of its frames can be read (the file may have been cut short). Please export or record it again and re-upload.';
+
 /** Maps ffmpeg's failure text to a user-facing {@link MediaError}. */
 export function extractFailure(text: string, framesDone: number): MediaError {
   if (/Cannot find ffmpeg|spawn \S+ ENOENT/i.test(text)) {
@@ -205,7 +209,9 @@ export function extractFailure(text: string, framesDone: number): MediaError {
   if (/corrupt|Invalid data|partial file|Error while decoding|error splitting|NAL unit/i.test(text)) {
     return new MediaError(
       'extract_failed',
-      `This clip is damaged after about ${framesDone} frames and cannot be read to the end. Please export or record it again and re-upload.`,
+      framesDone === 0
+        ? NO_FRAME_READ
+        : `This clip is damaged after about ${framesDone} frames and cannot be read to the end. Please export or record it again and re-upload.`,
       text,
     );
   }
@@ -286,7 +292,9 @@ export async function extractFrames(input: string, outDir: string, opts: Extract
     if (frameCount === 0 || frameCount < 0.9 * probe.frameCount) {
       throw new MediaError(
         'extract_failed',
-        `Only ${frameCount} of ${probe.frameCount} frames could be read; the clip may be cut short. Please upload it again.`,
+        frameCount === 0
+          ? NO_FRAME_READ
+          : `Only ${frameCount} of ${probe.frameCount} frames could be read; the clip may be cut short. Please upload it again.`,
         `decoded ${frameCount}, container says ${probe.frameCount}`,
       );
     }
