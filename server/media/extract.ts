@@ -9,6 +9,7 @@ import {
   filterGraph,
   frameTimestamps,
   jpegPixelOptions,
+  oddPixelTrim,
   parseShowinfoLine,
   plannedManifest,
   type Scaler,
@@ -102,6 +103,8 @@ interface Run {
   quality: number;
   total: number;
   scaler: Scaler;
+  /** Odd last column/row to cut instead of scaling ({@link oddPixelTrim}). */
+  trim: Size | null;
   opts: ExtractOptions;
 }
 
@@ -118,7 +121,9 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
     if (opts.inputOptions) inputOptions.push(...opts.inputOptions);
     const command = ffmpeg(run.input, { niceness: EXTRACT_NICENESS })
       .inputOptions(inputOptions)
-      .complexFilter(filterGraph(run.frame, run.thumb, run.every, run.scaler, opts.scaleFlags ?? DEFAULT_SCALE_FLAGS))
+      .complexFilter(
+        filterGraph(run.frame, run.thumb, run.every, run.scaler, opts.scaleFlags ?? DEFAULT_SCALE_FLAGS, run.trim ?? undefined),
+      )
       .output(path.join(run.outDir, FRAMES_DIR, '%06d.jpg'))
       .outputOptions([
         '-map',
@@ -273,6 +278,7 @@ export async function extractFrames(input: string, outDir: string, opts: Extract
         quality: plan.quality,
         total: probe.frameCount,
         scaler,
+        trim: oddPixelTrim(probe, frame),
         opts,
       });
     };

@@ -3,6 +3,7 @@ import {
   filterGraph,
   fitLongSide,
   jpegPixelOptions,
+  oddPixelTrim,
   frameTimestamps,
   parseShowinfoLine,
   thumbCount,
@@ -86,5 +87,26 @@ describe('showinfo timestamps', () => {
   it('frame files are numbered from 000001', () => {
     expect(frameFileName(0)).toBe('000001.jpg');
     expect(frameFileName(359)).toBe('000360.jpg');
+  });
+});
+
+describe('oddPixelTrim', () => {
+  it('cuts the odd last column/row when the working size is the displayed size less that pixel, square pixels only', () => {
+    const odd = { width: 1279, height: 719, displayWidth: 1279, displayHeight: 719 };
+    expect(oddPixelTrim(odd, { width: 1278, height: 718 })).toEqual({ width: 1278, height: 718 });
+    // Turned a quarter: stored 1279×719, shown 719×1279.
+    expect(oddPixelTrim({ ...odd, displayWidth: 719, displayHeight: 1279 }, { width: 718, height: 1278 })).toEqual({
+      width: 718,
+      height: 1278,
+    });
+    // Even already, downscaled, or non-square pixels (240×180 at 4:3 shown 320×180): scaled, not cut.
+    expect(oddPixelTrim({ width: 320, height: 180, displayWidth: 320, displayHeight: 180 }, { width: 320, height: 180 })).toBeNull();
+    expect(oddPixelTrim({ width: 1921, height: 1081, displayWidth: 1921, displayHeight: 1081 }, { width: 1280, height: 720 })).toBeNull();
+    expect(oddPixelTrim({ width: 241, height: 181, displayWidth: 321, displayHeight: 181 }, { width: 320, height: 180 })).toBeNull();
+  });
+  it('the graph crops before the scaler when given a trim', () => {
+    expect(
+      filterGraph({ width: 1278, height: 718 }, { width: 160, height: 90 }, 3, 'zscale', 'bilinear', { width: 1278, height: 718 }),
+    ).toMatch(/^\[0:v\]crop=1278:718:0:0,zscale=w=1278:h=718:/);
   });
 });
