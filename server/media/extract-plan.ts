@@ -39,7 +39,8 @@ const evenRound = (x: number) => Math.max(2, 2 * Math.round(x / 2));
 
 /**
  * Fits a displayed size inside `longSide` keeping the aspect ratio: never upscales, and both
- * sides are even (odd sides are trimmed by one pixel, never padded).
+ * sides are even (an odd side loses one pixel, never padded: cut off when nothing else is scaled,
+ * see {@link oddPixelTrim}).
  */
 export function fitLongSide(display: Size, longSide: number): Size {
   const long = Math.max(display.width, display.height);
@@ -72,17 +73,37 @@ export function frameScaleFilter(frame: Size, scaler: Scaler, kernel: string): s
  * The filtergraph for one decode feeding two outputs. ffmpeg has already rotated the frames
  * (autorotate inserts transpose/flip filters before this graph), so sizes here are displayed
  * sizes. The scaler also converts to full ("JPEG") range; `showinfo` (checksums off) logs each
- * frame's presentation time; `split` hands the same frame to the frame output and, every Nth
- * frame, to a smaller thumbnail scale.
+ * frame's presentation time; with `trim` (see {@link oddPixelTrim}) the odd last column or row is
+ * cut off first, so the scaler keeps the size and every pixel stays where it was; `settb=1,setpts=N` then numbers the frames 0, 1, 2 … in seconds for
+ * the encoders, so a file whose own times repeat, go back or are missing (ffmpeg guesses those)
+ * still has every decoded frame written: the JPEG encoder refuses a time not after the last one
+ * ("Invalid pts"), and the image files are named by order anyway. `split` hands the same frame to
+ * the frame output and, every Nth frame, to a smaller thumbnail scale.
  */
-export function filterGraph(frame: Size, thumb: Size, every: number, scaler: Scaler, kernel: string): string {
-  const big = frameScaleFilter(frame, scaler, kernel);
+export function filterGraph(frame: Size, thumb: Size, every: number, scaler: Scaler, kernel: string, trim?: Size): string {
+  const big = (trim ? `crop=${trim.width}:${trim.height}:0:0,` : '') + frameScaleFilter(frame, scaler, kernel);
   const small =
     scaler === 'zscale' ? `zscale=w=${thumb.width}:h=${thumb.height}:f=bilinear` : `scale=${thumb.width}:${thumb.height}:flags=area`;
   return [
-    `[0:v]${big},setsar=1,showinfo=checksum=0,split=2[frames][t]`,
+    `[0:v]${big},setsar=1,showinfo=checksum=0,settb=1,setpts=N,split=2[frames][t]`,
     `[t]select='not(mod(n\\,${every}))',${small},setsar=1[thumbs]`,
   ].join(';');
+}
+
+/**
+ * The crop that makes a clip's odd displayed width or height even without resampling: when the
+ * working size is the displayed size less one pixel on an odd side (no downscale), and the clip's
+ * pixels are square (stored size = displayed size, turned a quarter or not), cutting the last
+ * column or row keeps every other pixel as recorded (square, unblurred) where scaling 1279 → 1278
+ * would stretch the picture by 0.08 %. Null otherwise (the frame is scaled anyway).
+ */
+export function oddPixelTrim(probe: Pick<VideoProbe, 'width' | 'height' | 'displayWidth' | 'displayHeight'>, frame: Size): Size | null {
+  const dw = probe.displayWidth - frame.width;
+  const dh = probe.displayHeight - frame.height;
+  const square =
+    (probe.width === probe.displayWidth && probe.height === probe.displayHeight) ||
+    (probe.width === probe.displayHeight && probe.height === probe.displayWidth);
+  return square && (dw === 0 || dw === 1) && (dh === 0 || dh === 1) && dw + dh > 0 ? frame : null;
 }
 
 /**
@@ -110,8 +131,9 @@ export function parseShowinfoLine(line: string): ShowinfoFrame | null {
 
 /**
  * Per-frame presentation times in milliseconds, relative to the first frame, rounded to 0.001 ms.
- * Uses the decoded timestamps when there is one per written frame; otherwise computes
- * `i × 1000 / fps` (exact only for constant-frame-rate clips) and says so.
+ * Uses the decoded timestamps when there is one per written frame and each is later than the one
+ * before; otherwise (times missing, repeated or going back: a damaged or oddly remuxed file)
+ * computes `i × 1000 / fps` (exact only for constant-frame-rate clips) and says so.
  */
 export function frameTimestamps(
   logged: ShowinfoFrame[],
@@ -122,7 +144,7 @@ export function frameTimestamps(
   const times: number[] = [];
   for (let i = 0; i < frameCount; i++) {
     const t = byIndex.get(i);
-    if (t === undefined || !Number.isFinite(t)) break;
+    if (t === undefined || !Number.isFinite(t) || (i > 0 && !(t > times[i - 1]!))) break;
     times.push(t);
   }
   const round = (ms: number) => Math.round(ms * 1000) / 1000;

@@ -9,6 +9,7 @@ import {
   filterGraph,
   frameTimestamps,
   jpegPixelOptions,
+  oddPixelTrim,
   parseShowinfoLine,
   plannedManifest,
   type Scaler,
@@ -68,7 +69,10 @@ const ZSCALE_TROUBLE = /zscale|zimg|No such filter|no path between colorspaces/i
  * variable-frame-rate clip is the average rate (`avg_frame_rate`): two frames closer together
  * than one average interval (a phone's 1/60 s frame in a clip averaging 54 fps) round to the same
  * pts, and the JPEG encoder stops the whole extraction ("Invalid pts … <= last"). In the demuxer's
- * time base every frame keeps its own timestamp, so every decoded frame is written.
+ * time base every frame keeps its own timestamp, so every decoded frame is written. The
+ * filtergraph goes further ({@link filterGraph}: `settb=1,setpts=N`): the encoders see frames
+ * numbered 0, 1, 2 … s, so files whose own times repeat, go back or are missing are written whole
+ * too; the manifest's times come from `showinfo`, before that renumbering.
  */
 const PASSTHROUGH_TIME_BASE = ['-enc_time_base', '-1'];
 
@@ -99,6 +103,8 @@ interface Run {
   quality: number;
   total: number;
   scaler: Scaler;
+  /** Odd last column/row to cut instead of scaling ({@link oddPixelTrim}). */
+  trim: Size | null;
   opts: ExtractOptions;
 }
 
@@ -115,7 +121,9 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
     if (opts.inputOptions) inputOptions.push(...opts.inputOptions);
     const command = ffmpeg(run.input, { niceness: EXTRACT_NICENESS })
       .inputOptions(inputOptions)
-      .complexFilter(filterGraph(run.frame, run.thumb, run.every, run.scaler, opts.scaleFlags ?? DEFAULT_SCALE_FLAGS))
+      .complexFilter(
+        filterGraph(run.frame, run.thumb, run.every, run.scaler, opts.scaleFlags ?? DEFAULT_SCALE_FLAGS, run.trim ?? undefined),
+      )
       .output(path.join(run.outDir, FRAMES_DIR, '%06d.jpg'))
       .outputOptions([
         '-map',
@@ -194,6 +202,10 @@ function runFfmpeg(run: Run): Promise<ShowinfoFrame[]> {
   });
 }
 
+/** Why a clip whose header lists frames but none of them decodes (cut just after its header) fails. */
+const NO_FRAME_READ =
+  'This clip is damaged: none of its frames can be read (the file may have been cut short). Please export or record it again and re-upload.';
+
 /** Maps ffmpeg's failure text to a user-facing {@link MediaError}. */
 export function extractFailure(text: string, framesDone: number): MediaError {
   if (/Cannot find ffmpeg|spawn \S+ ENOENT/i.test(text)) {
@@ -202,7 +214,9 @@ export function extractFailure(text: string, framesDone: number): MediaError {
   if (/corrupt|Invalid data|partial file|Error while decoding|error splitting|NAL unit/i.test(text)) {
     return new MediaError(
       'extract_failed',
-      `This clip is damaged after about ${framesDone} frames and cannot be read to the end. Please export or record it again and re-upload.`,
+      framesDone === 0
+        ? NO_FRAME_READ
+        : `This clip is damaged after about ${framesDone} frames and cannot be read to the end. Please export or record it again and re-upload.`,
       text,
     );
   }
@@ -264,6 +278,7 @@ export async function extractFrames(input: string, outDir: string, opts: Extract
         quality: plan.quality,
         total: probe.frameCount,
         scaler,
+        trim: oddPixelTrim(probe, frame),
         opts,
       });
     };
@@ -283,7 +298,9 @@ export async function extractFrames(input: string, outDir: string, opts: Extract
     if (frameCount === 0 || frameCount < 0.9 * probe.frameCount) {
       throw new MediaError(
         'extract_failed',
-        `Only ${frameCount} of ${probe.frameCount} frames could be read; the clip may be cut short. Please upload it again.`,
+        frameCount === 0
+          ? NO_FRAME_READ
+          : `Only ${frameCount} of ${probe.frameCount} frames could be read; the clip may be cut short. Please upload it again.`,
         `decoded ${frameCount}, container says ${probe.frameCount}`,
       );
     }

@@ -109,6 +109,20 @@ describe('bad inputs → MediaError, no partial frames', () => {
     expect(err.message).toMatch(/damaged/);
   });
 
+  it('faststart mp4 cut just after its header: ffprobe lists 60 frames but decodes none → extract_failed saying no frame can be read', async () => {
+    const bytes = await readFile(faststart);
+    const file = path.join(dir, 'header-only.mp4');
+    await writeFile(file, bytes.subarray(0, bytes.indexOf('mdat') + 104));
+    // Outside reference: ffprobe lists the frames but, counting them, reads none.
+    const listed = (await ffprobeJson(file, ['-count_frames', '-select_streams', 'v:0', '-show_streams']).catch(() => null))?.streams[0];
+    expect(listed?.nb_frames).toBe('60');
+    expect(Number(listed?.nb_read_frames ?? 0)).toBe(0);
+    expect((await probeVideo(file)).frameCount).toBe(60);
+    const err = await expectExtractFails(file, 'extract_failed');
+    expect(err.message).not.toMatch(/after about 0 frames/);
+    expect(err.message).toMatch(/none of its frames can be read/i);
+  });
+
   it('a missing file → probe_failed', async () => {
     await expectMediaError(probeVideo(path.join(dir, 'nope.mp4')), 'probe_failed');
   });

@@ -11,7 +11,17 @@ import { extractFrames } from '../../../server/media/extract';
 import { MediaError } from '../../../server/media/media-error';
 import { readManifest } from '../../../server/media/manifest';
 import { probeVideo } from '../../../server/media/probe';
-import { brightCentroid, ffmpegRun, ffprobeCounted, ffprobeFrameTimes, ffprobeJson, makeClip, tempDir, withRotateTag } from './fixtures';
+import {
+  brightCentroid,
+  ffmpegFirstFrameGray,
+  ffmpegRun,
+  ffprobeCounted,
+  ffprobeFrameTimes,
+  ffprobeJson,
+  makeClip,
+  tempDir,
+  withRotateTag,
+} from './fixtures';
 
 let dir = '';
 let cleanup = async () => {};
@@ -259,6 +269,63 @@ describe('a clip trimmed without re-encoding (an edit list hides the frames befo
     expect(m.frameCount).toBe(counted.nbReadFrames);
     expect(m.frameCount).toBe(times.length);
     m.timestampsMs.forEach((t, i) => expect(t).toBeCloseTo((times[i]! - times[0]!) * 1000, 2));
+  });
+});
+
+describe('odd frame size (321×181, square pixels)', () => {
+  it('cuts the odd last column and row instead of scaling: one-pixel stripes stay where ffmpeg decodes them (outside reference: ffmpeg -vf crop=320:180:0:0)', async () => {
+    // Alternating black and white columns, lossless: scaling 321 → 320 would shift them by up
+    // to a pixel across the width (stripes merge to grey or swap near the right edge).
+    const src = path.join(dir, 'stripes-321x181.mp4');
+    await ffmpegRun(
+      ['-f', 'lavfi', '-i', "nullsrc=s=321x181:r=30,geq=lum='255*mod(X\\,2)':cb=128:cr=128", '-t', '0.2'].concat([
+        '-c:v',
+        'libx264',
+        '-preset',
+        'ultrafast',
+        '-qp',
+        '0',
+        '-pix_fmt',
+        'yuv444p',
+        src,
+      ]),
+    );
+    expect(await ffprobeCounted(src)).toMatchObject({ width: 321, height: 181 });
+    const m = await extractFrames(src, path.join(dir, 'stripes'));
+    expect([m.width, m.height]).toEqual([320, 180]);
+    const ours = await grayPixels(path.join(dir, 'stripes', 'frames', '000001.jpg'));
+    const reference = await ffmpegFirstFrameGray(src, 321, 181, ['-vf', 'crop=320:180:0:0']);
+    // Column means of the right quarter, where a 321 → 320 scale has drifted most.
+    const column = (g: Uint8Array | Buffer, x: number) => {
+      let sum = 0;
+      for (let y = 0; y < 180; y++) sum += g[y * 320 + x]!;
+      return sum / 180;
+    };
+    for (let x = 240; x < 320; x++) expect(Math.abs(column(ours.gray, x) - column(reference, x))).toBeLessThan(40);
+  });
+});
+
+describe('a clip whose own frame times are missing or out of order (shifted before zero in Matroska)', () => {
+  it('is extracted whole: every frame ffprobe -count_frames counts, times rising at the clip rate (ffprobe has none for half of them)', async () => {
+    // Matroska cannot store times before zero: a remux shifted to start at -0.5 s without
+    // ffmpeg's correction leaves the first half of the frames without any time, and the rest
+    // starting again from 0. ffmpeg guesses times for the first half, so decoded frames go
+    // 0 … 0.46 s and then back to 0 s; the JPEG encoder used to stop there ("Invalid pts").
+    const whole = await makeClip(path.join(dir, 'shift-src.mp4'), { fps: 30, width: 160, height: 90, seconds: 1 });
+    const src = path.join(dir, 'shifted.mkv');
+    await ffmpegRun(['-i', whole, '-c', 'copy', '-output_ts_offset', '-0.5', '-avoid_negative_ts', 'disabled', src]);
+    const counted = await ffprobeCounted(src);
+    const times = (await ffprobeJson(src, ['-select_streams', 'v:0', '-show_entries', 'frame=best_effort_timestamp_time'])).frames;
+    // ffprobe itself has no time for some frames (else this test would prove nothing).
+    expect(times.filter((f) => f.best_effort_timestamp_time === undefined).length).toBeGreaterThan(0);
+
+    const m = await extractFrames(src, path.join(dir, 'shifted'));
+    expect(m.frameCount).toBe(counted.nbReadFrames);
+    expect(await jpegs(path.join(dir, 'shifted', 'frames'))).toHaveLength(counted.nbReadFrames);
+    // No usable times in the file: i × 1000 / 30 (the rate ffprobe reads, r_frame_rate 30/1), said so.
+    expect(counted.rFrameRate).toBe('30/1');
+    expect(m.timestampsSource).toBe('computed');
+    m.timestampsMs.forEach((t, i) => expect(t).toBeCloseTo((i * 1000) / 30, 2));
   });
 });
 

@@ -122,11 +122,15 @@ export async function ffprobeFrameTimes(file: string): Promise<number[]> {
 }
 
 /** Outside reference: ffmpeg's own decode of frame 0 (autorotated) as 8-bit grey pixels. */
-export async function ffmpegFirstFrameGray(file: string, width: number, height: number): Promise<Buffer> {
-  const { stdout } = await run(FFMPEG, ['-v', 'error', '-i', file, '-frames:v', '1', '-f', 'rawvideo', '-pix_fmt', 'gray', '-'], {
-    encoding: 'buffer',
-    maxBuffer: width * height * 2,
-  });
+export async function ffmpegFirstFrameGray(file: string, width: number, height: number, filters: string[] = []): Promise<Buffer> {
+  const { stdout } = await run(
+    FFMPEG,
+    ['-v', 'error', '-i', file, ...filters, '-frames:v', '1', '-f', 'rawvideo', '-pix_fmt', 'gray', '-'],
+    {
+      encoding: 'buffer',
+      maxBuffer: width * height * 2,
+    },
+  );
   return stdout;
 }
 
