@@ -31,6 +31,9 @@ async function insertLandmarks(trx: Knex, clipId: number, points: LandmarkRow[])
     );
 }
 
+/** Frames not followed removed per statement (three parameters each, well inside SQLite's limit). */
+export const NOT_FOLLOWED_DELETE_BATCH = 300;
+
 /** Landmarks, gait events, the scale bar and the angle gauges of a clip. */
 export const annotationsRepository = {
   async read(db: Knex, clipId: number): Promise<ClipAnnotations> {
@@ -105,8 +108,16 @@ export const annotationsRepository = {
     const kept = new Map(after.map((p) => [key(p), p]));
     const had = new Map(before.map((p) => [key(p), p]));
     const gone = before.filter((p) => kept.get(key(p))?.reason !== p.reason);
-    for (const p of gone)
-      await trx('clip_not_followed').where({ clip_id: clipId, frame: p.frame, side: p.side, landmark: p.landmark }).delete();
+    // Many rows per statement: a follow run over a long clip can replace tens of thousands of entries,
+    // and one statement each held the clip (and, on SQLite, every write) for seconds.
+    for (let i = 0; i < gone.length; i += NOT_FOLLOWED_DELETE_BATCH)
+      await trx('clip_not_followed')
+        .where({ clip_id: clipId })
+        .whereIn(
+          ['frame', 'side', 'landmark'],
+          gone.slice(i, i + NOT_FOLLOWED_DELETE_BATCH).map((p) => [p.frame, p.side, p.landmark]),
+        )
+        .delete();
     const added = after.filter((p) => had.get(key(p))?.reason !== p.reason);
     if (added.length)
       await trx.batchInsert(
