@@ -31,6 +31,9 @@ async function insertLandmarks(trx: Knex, clipId: number, points: LandmarkRow[])
     );
 }
 
+/** Frames of one marker whose entries one statement removes (well inside SQLite's parameter limit). */
+export const NOT_FOLLOWED_DELETE_BATCH = 500;
+
 /** Landmarks, gait events, the scale bar and the angle gauges of a clip. */
 export const annotationsRepository = {
   async read(db: Knex, clipId: number): Promise<ClipAnnotations> {
@@ -105,8 +108,21 @@ export const annotationsRepository = {
     const kept = new Map(after.map((p) => [key(p), p]));
     const had = new Map(before.map((p) => [key(p), p]));
     const gone = before.filter((p) => kept.get(key(p))?.reason !== p.reason);
-    for (const p of gone)
-      await trx('clip_not_followed').where({ clip_id: clipId, frame: p.frame, side: p.side, landmark: p.landmark }).delete();
+    // Many rows per statement, by marker and a list of frames (the primary key's clip and frame lead, so
+    // each is an index lookup on both databases): a follow run over a long clip can replace tens of
+    // thousands of entries, and one statement each held the clip (and, on SQLite, every write) for seconds.
+    const goneByMarker = new Map<string, { side: string; landmark: string; frames: number[] }>();
+    for (const p of gone) {
+      const marker = goneByMarker.get(`${p.side} ${p.landmark}`) ?? { side: p.side, landmark: p.landmark, frames: [] };
+      marker.frames.push(p.frame);
+      goneByMarker.set(`${p.side} ${p.landmark}`, marker);
+    }
+    for (const { side, landmark, frames } of goneByMarker.values())
+      for (let i = 0; i < frames.length; i += NOT_FOLLOWED_DELETE_BATCH)
+        await trx('clip_not_followed')
+          .where({ clip_id: clipId, side, landmark })
+          .whereIn('frame', frames.slice(i, i + NOT_FOLLOWED_DELETE_BATCH))
+          .delete();
     const added = after.filter((p) => had.get(key(p))?.reason !== p.reason);
     if (added.length)
       await trx.batchInsert(

@@ -36,9 +36,18 @@ export function athletesService({ db, clock, invitations, notices }: AthletesDep
     return detail;
   }
 
-  async function checkCoach(clinicId: number, coachId: number | null | undefined): Promise<void> {
+  /**
+   * Inside the transaction that writes the athlete: the coach's row is held (PostgreSQL; SQLite has
+   * one writer) while it is checked to be an active coach of the clinic. A deactivation holds the
+   * same row (staff-service `holdUsers`), so one sent at the same moment either comes first and this
+   * check refuses the coach, or waits and then finds this athlete among the coach's to reassign.
+   * Checked outside, the athlete could be given to a coach whose deactivation had just read their
+   * athletes (the row lock no longer holds back the insert's foreign-key check).
+   */
+  async function checkCoach(trx: Db, clinicId: number, coachId: number | null | undefined): Promise<void> {
     if (coachId === null || coachId === undefined) return;
-    const coach = await db('users').where({ id: coachId, clinic_id: clinicId, active: true }).whereIn('role', ['owner', 'coach']).first();
+    await lockedForUpdate(trx, trx('users').where({ id: coachId, clinic_id: clinicId }).select('id'));
+    const coach = await trx('users').where({ id: coachId, clinic_id: clinicId, active: true }).whereIn('role', ['owner', 'coach']).first();
     if (!coach)
       throw new ValidationError('Coach: choose a coach of this clinic.', [
         { path: ['coachId'], message: 'Choose a coach of this clinic.' },
@@ -69,7 +78,6 @@ export function athletesService({ db, clock, invitations, notices }: AthletesDep
     },
 
     async create(user: SessionUser, input: AthleteCreateInput, key?: string): Promise<AthleteDetail> {
-      await checkCoach(user.clinicId, input.coachId);
       const at = now();
       const id = await createOnce(db, {
         clinicId: user.clinicId,
@@ -79,10 +87,12 @@ export function athletesService({ db, clock, invitations, notices }: AthletesDep
         at,
         create: async (trx) => {
           await checkEmailFree(trx, user.clinicId, input.email);
+          const coachId = input.coachId ?? (user.role === 'coach' ? user.id : null);
+          await checkCoach(trx, user.clinicId, coachId);
           const newId = await repo.insert(trx, {
             clinic_id: user.clinicId,
             user_id: null,
-            coach_id: input.coachId ?? (user.role === 'coach' ? user.id : null),
+            coach_id: coachId,
             first_name: input.firstName,
             last_name: input.lastName,
             email: input.email ?? null,
@@ -112,7 +122,6 @@ export function athletesService({ db, clock, invitations, notices }: AthletesDep
       if (input.email !== undefined && row.user_id !== null && input.email !== row.email) {
         throw new ConflictError('This athlete signs in with their e-mail address; it cannot be changed here.', 'email_locked');
       }
-      await checkCoach(user.clinicId, input.coachId);
       const patch: Partial<AthleteRow> = { updated_at: now() };
       if (input.firstName !== undefined) patch.first_name = input.firstName;
       if (input.lastName !== undefined) patch.last_name = input.lastName;
@@ -122,6 +131,7 @@ export function athletesService({ db, clock, invitations, notices }: AthletesDep
       if (input.notes !== undefined) patch.notes = input.notes;
       await db.transaction(async (trx) => {
         await checkEmailFree(trx, user.clinicId, input.email, id);
+        await checkCoach(trx, user.clinicId, input.coachId);
         await repo.update(trx, user.clinicId, id, patch);
         await audit(trx, {
           clinicId: user.clinicId,

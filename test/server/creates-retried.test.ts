@@ -59,6 +59,29 @@ describe('a new athlete without an e-mail address sent again', () => {
   });
 });
 
+describe('a new athlete sent again after their coach left', () => {
+  it("answers the athlete it made (201, same id), not 422 for the departed coach; the athlete stays with the coach's heir", async () => {
+    const ilse = await t.db('users').where({ email: DEMO_SIGN_INS[2].email }).first();
+    const body = { firstName: 'Perrin', lastName: 'Ashgrove', coachId: ilse.id };
+    const first = await keyed(owner, '/api/athletes', 'athlete-key-0300', body);
+    expect(first.status).toBe(201);
+    const ownerId = (await t.db('users').where({ email: ownerCred.email }).first()).id;
+    expect((await owner.post(`/api/staff/${ilse.id}/deactivate`, { reassignTo: ownerId })).status).toBe(200);
+    try {
+      // The answer was lost; the page sends the same athlete again with its key.
+      const again = await keyed(owner, '/api/athletes', 'athlete-key-0300', body);
+      expect(again.status, JSON.stringify(again.body)).toBe(201);
+      expect(again.body.id).toBe(first.body.id);
+      expect((await t.db('athletes').where({ id: first.body.id }).first()).coach_id).toBe(ownerId);
+      // A new athlete for the departed coach is still refused.
+      const fresh = await keyed(owner, '/api/athletes', 'athlete-key-0301', { ...body, firstName: 'Quill' });
+      expect(fresh.status).toBe(422);
+    } finally {
+      expect((await owner.post(`/api/staff/${ilse.id}/reactivate`)).status).toBe(200);
+    }
+  });
+});
+
 describe('how long a create key is kept', () => {
   it('a key older than a day answers no more and is removed (the table keeps no hash for long)', async () => {
     const body = { firstName: 'Oona', lastName: 'Brookfield' };

@@ -11,7 +11,8 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { lockedForUpdate } from '../../server/db/dialect';
-import { makeTestApp, type TestApp } from '../support/test-app';
+import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
+import { makeTestApp, signedIn, type TestApp } from '../support/test-app';
 import { onPostgres, titleSkippedWhen } from '../support/test-db';
 
 const why = 'SQLite takes no row locks';
@@ -55,4 +56,38 @@ describe.skipIf(!onPostgres)('row locks on PostgreSQL', () => {
       await expect(second).rejects.toMatchObject({ code: '55P03' });
     });
   });
+
+  it(
+    titleSkippedWhen(
+      !onPostgres,
+      'an athlete given to a coach whose deactivation is under way waits for it and is refused (create and change of coach)',
+      why,
+    ),
+    async () => {
+      const [owner, , ilse] = DEMO_SIGN_INS;
+      const c = await signedIn(t.app, owner.email, owner.password);
+      const coach = await t.db('users').where({ email: ilse.email }).first();
+      const athlete = await t.db('athletes').where({ clinic_id: clinicId }).whereNot({ coach_id: coach.id }).orderBy('id').first();
+      const sent: Promise<{ status: number }>[] = [];
+      // A deactivation of the coach that has read the coach's athletes and not yet committed (as
+      // staff-service holds it): the coach's row held, the account made inactive.
+      await t.db.transaction(async (deactivation) => {
+        await lockedForUpdate(deactivation, deactivation('users').where({ id: coach.id }).select('id'));
+        await deactivation('users').where({ id: coach.id }).update({ active: false });
+        sent.push(c.post('/api/athletes', { firstName: 'Late', lastName: 'Arrival', coachId: coach.id }));
+        sent.push(c.patch(`/api/athletes/${athlete.id}`, { coachId: coach.id }));
+        // Without the fix both were written meanwhile, naming the coach being deactivated.
+        await new Promise((r) => setTimeout(r, 500));
+      });
+      const [created, changed] = await Promise.all(sent);
+      expect(created!.status).toBe(422);
+      expect(changed!.status).toBe(422);
+      const [{ n }] = await t
+        .db('athletes')
+        .where({ coach_id: coach.id, first_name: 'Late' })
+        .orWhere({ id: athlete.id, coach_id: coach.id })
+        .count({ n: '*' });
+      expect(Number(n)).toBe(0);
+    },
+  );
 });

@@ -164,6 +164,51 @@ describe('frames not followed', () => {
     ]);
   });
 
+  it('a run that finds what the last one lost removes those entries in one statement, not one each (a long clip has tens of thousands)', async () => {
+    const annotations = annotationsService({ db: t.db, clips: null as never, validateEvents: () => [] });
+    const range = { startFrame: START, from: 0, to: 29 };
+    const everyFrame = Array.from({ length: 30 }, (_, f) => f).filter((f) => f !== START);
+    await saveFollowRun(
+      annotations,
+      actor,
+      clipId,
+      range,
+      size,
+      result(
+        0,
+        29,
+        everyFrame.map((frame) => ({ frame, reason: 'not_found' })),
+      ),
+    );
+    // Every frame but 12, where the ankle was placed by hand above.
+    expect((await read()).notFollowed).toHaveLength(everyFrame.length - 1);
+    const deletes: string[] = [];
+    const count = (q: { sql: string }) => {
+      if (/^delete\b/i.test(q.sql) && q.sql.includes('clip_not_followed')) deletes.push(q.sql);
+    };
+    t.db.on('query', count);
+    try {
+      await saveFollowRun(annotations, actor, clipId, range, size, result(0, 29, []));
+    } finally {
+      t.db.off('query', count);
+    }
+    expect((await read()).notFollowed).toEqual([]);
+    // Back as the tests below expect it: frames 14 and 20 lost as before.
+    await saveFollowRun(
+      annotations,
+      actor,
+      clipId,
+      range,
+      size,
+      result(0, 29, [
+        { frame: 14, reason: 'not_found' },
+        { frame: 20, reason: 'on_other_marker' },
+      ]),
+    );
+    expect((await read()).notFollowed).toHaveLength(2);
+    expect(deletes).toHaveLength(1);
+  });
+
   it('is read like the annotations: the athlete 403, another clinic 404, neither can clear it', async () => {
     const a = await signedIn(t.app, athlete.email, athlete.password);
     const asAthlete = await a.get(`/api/clips/${clipId}/annotations`);
