@@ -86,7 +86,11 @@ export function dataExportsService(d: {
       const at = clock().toISOString();
       const id = await db.transaction(async (trx) => {
         // One start at a time per athlete (PostgreSQL; SQLite has one writer): the second of two sent together sees the first building.
-        await lockedForUpdate(trx, trx('athletes').where({ id: athleteId }).select('id'));
+        // An erasure that committed while this waited leaves nothing to export: 404 as for any erased athlete.
+        const [held] = (await lockedForUpdate(trx, trx('athletes').where({ id: athleteId }).select('id', 'erased_at'))) as {
+          erased_at: string | null;
+        }[];
+        if (!held || held.erased_at) throw new NotFoundError('Athlete');
         const running = await trx('data_exports').where({ athlete_id: athleteId, status: 'building' }).first('id');
         if (running) throw new ConflictError('An export of this athlete’s data is being built; wait for it to finish.', 'export_running');
         const [r] = await trx('data_exports')

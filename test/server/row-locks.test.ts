@@ -90,4 +90,23 @@ describe.skipIf(!onPostgres)('row locks on PostgreSQL', () => {
       expect(Number(n)).toBe(0);
     },
   );
+
+  it(
+    titleSkippedWhen(!onPostgres, 'an export asked for while the athlete is being erased waits and answers 404, building nothing', why),
+    async () => {
+      const [owner] = DEMO_SIGN_INS;
+      const c = await signedIn(t.app, owner.email, owner.password);
+      const athlete = await t.db('athletes').where({ clinic_id: clinicId }).whereNull('erased_at').orderBy('id', 'desc').first();
+      let sent: Promise<{ status: number }> | undefined;
+      // An erasure that has claimed the athlete's row (as athlete-data-service does) and not yet committed.
+      await t.db.transaction(async (erasure) => {
+        await erasure('athletes').where({ id: athlete.id }).update({ erased_at: new Date().toISOString() });
+        sent = c.post(`/api/athletes/${athlete.id}/data-exports`, {});
+        // Without the fix the export was started for the erased athlete once the erasure committed.
+        await new Promise((r) => setTimeout(r, 500));
+      });
+      expect((await sent!).status).toBe(404);
+      expect(await t.db('data_exports').where({ athlete_id: athlete.id })).toEqual([]);
+    },
+  );
 });
