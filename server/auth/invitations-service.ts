@@ -161,14 +161,15 @@ export function invitationsService({ db, mailer, config, clock }: InvitationsDep
           .where({ token_hash: hashToken(token) })
           .first();
         if (!row || row.used_at) throw new GoneError('This invitation has already been used.', 'token_used');
+        const at = clock().toISOString();
+        // Claimed only while still unused, and before the e-mail is checked: on PostgreSQL a second
+        // accept at the same moment waits here for this one and then finds the invitation used (410),
+        // rather than finding the account this one made (it answered 409 email_in_use).
+        const claimed = await trx('invitations').where({ id: row.id }).whereNull('used_at').update({ used_at: at });
+        if (!claimed) throw new GoneError('This invitation has already been used.', 'token_used');
         if (await usersRepository.findByEmail(trx, row.email)) {
           throw new ConflictError('Someone already has an account with this e-mail address.', 'email_in_use');
         }
-        const at = clock().toISOString();
-        // Claimed only while still unused: on PostgreSQL a second accept at the same moment waits for
-        // this one and then finds the invitation used.
-        const claimed = await trx('invitations').where({ id: row.id }).whereNull('used_at').update({ used_at: at });
-        if (!claimed) throw new GoneError('This invitation has already been used.', 'token_used');
         const userId = await usersRepository.insert(trx, {
           clinic_id: row.clinic_id,
           email: row.email,

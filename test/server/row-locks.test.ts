@@ -9,10 +9,11 @@
  * Reference: PostgreSQL 15 manual, "Explicit Locking", row-level lock conflicts (FOR NO KEY UPDATE
  * does not conflict with FOR KEY SHARE, which foreign-key checks take; FOR UPDATE does).
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { usersRepository } from '../../server/auth/users-repository';
 import { lockedForUpdate } from '../../server/db/dialect';
 import { DEMO_SIGN_INS } from '../../seeds/demo-scenario';
-import { makeTestApp, signedIn, type TestApp } from '../support/test-app';
+import { Client, makeTestApp, signedIn, type TestApp } from '../support/test-app';
 import { onPostgres, titleSkippedWhen } from '../support/test-db';
 
 const why = 'SQLite takes no row locks';
@@ -107,6 +108,42 @@ describe.skipIf(!onPostgres)('row locks on PostgreSQL', () => {
       });
       expect((await sent!).status).toBe(404);
       expect(await t.db('data_exports').where({ athlete_id: athlete.id })).toEqual([]);
+    },
+  );
+
+  it(
+    titleSkippedWhen(
+      !onPostgres,
+      'an invitation accepted twice at once: the second finds it used (410), not the account the first made (409)',
+      why,
+    ),
+    async () => {
+      const [owner] = DEMO_SIGN_INS;
+      const o = await signedIn(t.app, owner.email, owner.password);
+      expect((await o.post('/api/staff/invitations', { email: 'twice@larchwood-clinic.test', name: 'Twice Over' })).status).toBe(201);
+      const token = t.mailer.lastLinkTo('twice@larchwood-clinic.test').split('/').pop()!;
+      const accept = () => new Client(t.app).post(`/api/invitations/${token}/accept`, { name: 'Twice Over', password: 'a-long-password' });
+      // The first accept to look up the e-mail lets another accept of the same link run meanwhile
+      // (for up to a second, as a slower request would): before the fix that one made the account
+      // first, and the first then found the e-mail taken.
+      const original = usersRepository.findByEmail.bind(usersRepository);
+      let other: Promise<{ status: number; body: { error?: { code: string } } }> | undefined;
+      const spy = vi.spyOn(usersRepository, 'findByEmail').mockImplementation(async (db, email) => {
+        if (!other && email === 'twice@larchwood-clinic.test') {
+          other = accept();
+          await Promise.race([other, new Promise((r) => setTimeout(r, 1000))]);
+        }
+        return original(db, email);
+      });
+      try {
+        const first = await accept();
+        const second = await other!;
+        expect([first.status, second.status].sort()).toEqual([201, 410]);
+        expect([first, second].find((r) => r.status === 410)!.body.error!.code).toBe('token_used');
+      } finally {
+        spy.mockRestore();
+      }
+      expect(await t.db('users').where({ email: 'twice@larchwood-clinic.test' })).toHaveLength(1);
     },
   );
 });
