@@ -20,7 +20,11 @@ export function toIsoDate(date: Date | null | undefined): string | null {
 export function parseIsoDate(value: string | null | undefined): Date | null {
   const match = value ? ISO_DATE.exec(value) : null;
   if (!match) return null;
-  const [year, month, day] = [Number(match[1]), Number(match[2]), Number(match[3])];
+  return calendarDate(Number(match[1]), Number(match[2]), Number(match[3]));
+}
+
+/** Local midnight of year-month-day; null when that day does not exist (30 February). */
+function calendarDate(year: number, month: number, day: number): Date | null {
   const date = new Date(year, month - 1, day);
   return date.getFullYear() === year && date.getMonth() === month - 1 && date.getDate() === day ? date : null;
 }
@@ -48,11 +52,9 @@ function monthFromName(word: string): number | null {
   return i < 0 ? null : i + 1;
 }
 
-/** Local midnight of year-month-day; null when that day does not exist (30 February). */
+/** {@link calendarDate} for a typed date: a four-digit year only. */
 function realDate(year: number, month: number, day: number): Date | null {
-  if (year < 1000 || year > 9999) return null;
-  const date = new Date(year, month - 1, day);
-  return date.getFullYear() === year && date.getMonth() === month - 1 && date.getDate() === day ? date : null;
+  return year < 1000 || year > 9999 ? null : calendarDate(year, month, day);
 }
 
 /**
